@@ -1,0 +1,9 @@
+import type { CommandModule } from '../command.js';
+
+/**
+ * Every command of the CLI, in the order `--help` lists them.
+ * Add a command: write `src/cli/commands/<name>.ts` exporting `command: CommandModule`
+ * and add it here. Keep command modules cheap to import (no mathjs at top level):
+ * `speedband --help` must stay under 300 ms.
+ */
+export const COMMANDS: readonly CommandModule[] = [];

@@ -1,0 +1,69 @@
+import yargs from 'yargs';
+import { describeError, isSpeedbandError } from '../core/errors.js';
+import { COMMANDS } from './commands/index.js';
+import { EXIT, processIo, type CommandIo } from './io.js';
+import { SAFETY_EPILOGUE } from './safety.js';
+import { VERSION } from '../version.js';
+
+/**
+ * Run the CLI on an argument vector and return the exit code.
+ * Usage errors and `SpeedbandError`s become a message on stderr and exit 2;
+ * anything else is a bug (exit 3).
+ */
+export async function runCli(argv: readonly string[], io: CommandIo = processIo): Promise<number> {
+  let exitCode: number = EXIT.ok;
+  let parser = yargs()
+    .scriptName('speedband')
+    .usage(
+      'speedband — speed-scheduled steering gains from step-steer test logs\n\n' +
+        'Usage: speedband <command> [options]\n\n' +
+        'Units: SI everywhere (m, s, rad, m/s, rad/s) unless an option says otherwise. ' +
+        'Axes follow ISO 8855: x forward, y left, z up; positive steer and yaw rate are to the left.',
+    )
+    .version(VERSION)
+    .strict()
+    .recommendCommands()
+    .demandCommand(1, 'Name a command: speedband <command> --help shows its options.')
+    .wrap(Math.min(110, process.stdout.columns ?? 100))
+    .epilogue(SAFETY_EPILOGUE)
+    .exitProcess(false)
+    .fail((message, error) => {
+      if (error) throw error;
+      throw new UsageError(message ?? 'invalid usage');
+    });
+
+  for (const module of COMMANDS) {
+    parser = parser.command(
+      module.command,
+      module.describe,
+      (y) => {
+        let built = module.builder(y);
+        for (const [example, meaning] of module.examples ?? []) built = built.example(example, meaning);
+        return built;
+      },
+      async (args) => {
+        exitCode = await module.run(args as Record<string, unknown>, io);
+      },
+    );
+  }
+
+  try {
+    await parser.parseAsync([...argv], {}, (error, _argv, output) => {
+      if (output) (error ? io.stderr : io.stdout)(output.endsWith('\n') ? output : `${output}\n`);
+    });
+    return exitCode;
+  } catch (error) {
+    if (error instanceof UsageError) {
+      io.stderr(`speedband: ${error.message}\n`);
+      return EXIT.badInput;
+    }
+    if (isSpeedbandError(error)) {
+      io.stderr(`speedband: ${describeError(error)}\n`);
+      return EXIT.badInput;
+    }
+    io.stderr(`speedband: internal error — please report it with the command you ran:\n${(error as Error).stack ?? String(error)}\n`);
+    return EXIT.internal;
+  }
+}
+
+class UsageError extends Error {}

@@ -1,0 +1,54 @@
+/**
+ * The one error type of speedband. Errors are data: a stable `code`
+ * (`log.missingColumn`, `fit.notConverged`, `tuning.ruleNotApplicable`...),
+ * a location (file, line, column or JSON path), the numbers involved, and a
+ * message that says what was found, what was expected and what to do.
+ * The CLI turns it into words on stderr and a non-zero exit code.
+ */
+export interface ErrorLocation {
+  readonly file?: string;
+  /** 1-based line number in a text file. */
+  readonly line?: number;
+  /** 1-based column number, or a column name for CSV files. */
+  readonly column?: number | string;
+  /** JSON pointer or dotted path inside a JSON file. */
+  readonly jsonPath?: string;
+}
+
+export class SpeedbandError extends Error {
+  readonly code: string;
+  readonly location: ErrorLocation;
+  readonly details: Readonly<Record<string, unknown>>;
+
+  constructor(
+    code: string,
+    message: string,
+    options: { location?: ErrorLocation; details?: Record<string, unknown>; cause?: unknown } = {},
+  ) {
+    super(message, options.cause === undefined ? undefined : { cause: options.cause });
+    this.name = 'SpeedbandError';
+    this.code = code;
+    this.location = options.location ?? {};
+    this.details = options.details ?? {};
+  }
+}
+
+export function isSpeedbandError(value: unknown): value is SpeedbandError {
+  return value instanceof SpeedbandError;
+}
+
+/** "file:line:column" prefix for a location, or an empty string. */
+export function formatLocation(location: ErrorLocation): string {
+  const parts: string[] = [];
+  if (location.file !== undefined) parts.push(location.file);
+  if (location.line !== undefined) parts.push(`line ${location.line}`);
+  if (location.column !== undefined) parts.push(`column ${location.column}`);
+  if (location.jsonPath !== undefined) parts.push(`at ${location.jsonPath}`);
+  return parts.join(', ');
+}
+
+/** The full user-facing text of an error: location, then message. */
+export function describeError(error: SpeedbandError): string {
+  const where = formatLocation(error.location);
+  return where === '' ? error.message : `${where}: ${error.message}`;
+}
