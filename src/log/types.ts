@@ -40,6 +40,24 @@ export interface SteerLog {
   /** Median sample period, s. */
   readonly samplePeriod_s: number;
   readonly warnings: readonly string[];
+  /** Delimiter detected from the header. */
+  readonly delimiter?: ',' | ';' | '\t';
+  /** Header names that map to no channel (read past). */
+  readonly ignoredColumns?: readonly string[];
+  /** Where each channel came from in the file. */
+  readonly channels?: readonly LogChannelSource[];
+}
+
+/** One channel of a log and the file column it was read from. */
+export interface LogChannelSource {
+  /** Channel name, e.g. 'steer_cmd_rad'. */
+  readonly channel: string;
+  /** Header name in the file. */
+  readonly header: string;
+  /** 1-based column number in the file. */
+  readonly columnNumber: number;
+  /** Unit the column was recorded in (converted to SI on reading), e.g. 'km/h'. */
+  readonly unit: string;
 }
 
 /** Transient metrics of one step in the spirit of ISO 7401 (definitions from memory; see src/log/metrics.ts). */

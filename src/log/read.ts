@@ -1,0 +1,242 @@
+/**
+ * Read a step-test log (CSV with a header) into a validated `SteerLog`:
+ * channels mapped and converted to SI, every row checked, the log split at
+ * time gaps, every unused line counted by reason.
+ */
+import { SpeedbandError } from '../core/errors.js';
+import { readTextFile } from '../core/files.js';
+import { CHANNEL_DEFINITIONS, type ChannelName } from './columns.js';
+import { resolveColumns, type ColumnMap, type ResolvedColumn } from './column-map.js';
+import { cellProblem, cleanHeaderCell, detectDelimiter, parseDecimalCell, splitLines, stripByteOrderMark } from './csv-text.js';
+import type { LogSegment, LogSplit, SteerLog } from './types.js';
+
+export const READ_DEFAULTS = {
+  /** A time step longer than this many median sample periods splits the log into segments. */
+  gapFactor: 5,
+} as const;
+
+export interface ReadLogOptions {
+  /** Header names and units per channel; channels not listed use their default name and SI unit. */
+  readonly columns?: ColumnMap;
+  /** Steering-wheel angle per road-wheel angle; needed only for steering-wheel units. */
+  readonly steeringRatio?: number;
+  /** See READ_DEFAULTS.gapFactor. */
+  readonly gapFactor?: number;
+}
+
+/** Read and validate a log file. See `parseSteerLog`. */
+export function readSteerLog(path: string, options: ReadLogOptions = {}): SteerLog {
+  return parseSteerLog(readTextFile(path), path, options);
+}
+
+/**
+ * Parse and validate log text (`file` names it in errors and in the result).
+ * Accepts a UTF-8 byte-order mark, LF or CRLF, comma/semicolon/tab delimiters
+ * (detected from the header), any column order and extra columns (ignored,
+ * listed in `warnings`). Blank lines and lines starting with `#` are skipped and
+ * counted in `droppedRows`. Values are converted to SI (s, m/s, rad, rad/s, m/s²).
+ * Throws `SpeedbandError` (file, 1-based line, column number and name) for an
+ * empty or header-only file, a missing column, a missing/extra/non-numeric/
+ * non-finite cell, time not strictly increasing, or an implausible magnitude.
+ */
+export function parseSteerLog(text: string, file: string, options: ReadLogOptions = {}): SteerLog {
+  const gapFactor = options.gapFactor ?? READ_DEFAULTS.gapFactor;
+  const lines = splitLines(stripByteOrderMark(text));
+  const droppedRows: Record<string, number> = {};
+  const drop = (reason: string): void => {
+    droppedRows[reason] = (droppedRows[reason] ?? 0) + 1;
+  };
+
+  let headerIndex = 0;
+  while (headerIndex < lines.length && isSkippable(lines[headerIndex])) {
+    drop(lines[headerIndex].trim() === '' ? 'blankLine' : 'commentLine');
+    headerIndex += 1;
+  }
+  if (headerIndex >= lines.length) {
+    throw new SpeedbandError('log.empty', 'the file is empty — expected a header line (e.g. time_s,speed_mps,steer_cmd_rad,yaw_rate_radps) and data rows', {
+      location: { file },
+    });
+  }
+  const headerLine = headerIndex + 1;
+  const delimiter = detectDelimiter(lines[headerIndex]);
+  const header = lines[headerIndex].split(delimiter).map(cleanHeaderCell);
+  const { columns, ignored } = resolveColumns(header, options.columns ?? {}, options.steeringRatio, file);
+
+  const capacity = lines.length - headerIndex - 1;
+  const values = columns.map(() => new Float64Array(capacity));
+  const lineOfRow = new Int32Array(capacity);
+  const timeColumn = columns.findIndex((column) => column.channel === 'time_s');
+  let rowCount = 0;
+  let rows = 0;
+  for (let index = headerIndex + 1; index < lines.length; index += 1) {
+    const line = lines[index];
+    if (isSkippable(line)) {
+      // A trailing newline at the end of the file is not a row.
+      if (!(index === lines.length - 1 && line === '')) {
+        rowCount += 1;
+        drop(line.trim() === '' ? 'blankLine' : 'commentLine');
+      }
+      continue;
+    }
+    rowCount += 1;
+    const lineNumber = index + 1;
+    const cells = line.split(delimiter);
+    if (cells.length !== header.length) throw rowLengthError(cells.length, header, lineNumber, file);
+    for (let c = 0; c < columns.length; c += 1) {
+      const column = columns[c];
+      const cell = cells[column.index];
+      const raw = parseDecimalCell(cell);
+      if (Number.isNaN(raw)) throw cellError(cell, column, lineNumber, file);
+      const value = raw * column.toSi;
+      checkPlausible(value, raw, column, lineNumber, file);
+      values[c][rows] = value;
+    }
+    if (rows > 0) checkTimeIncreases(values[timeColumn][rows - 1], values[timeColumn][rows], lineOfRow[rows - 1], lineNumber, columns[timeColumn], file);
+    lineOfRow[rows] = lineNumber;
+    rows += 1;
+  }
+  if (rows < 2) {
+    throw new SpeedbandError(
+      'log.headerOnly',
+      `the file has ${rows === 0 ? 'a header but no data rows' : 'only one data row'} — a step-test log needs samples over time; check that the logger wrote its data`,
+      { location: { file, line: headerLine }, details: { rows } },
+    );
+  }
+
+  const channel = (name: ChannelName): Float64Array | undefined => {
+    const c = columns.findIndex((column) => column.channel === name);
+    return c < 0 ? undefined : values[c];
+  };
+  const time_s = channel('time_s') as Float64Array;
+  const samplePeriod_s = medianStep(time_s, rows);
+  const { segments, splits } = splitAtGaps(file, rows, lineOfRow, samplePeriod_s * gapFactor, channel);
+
+  const warnings: string[] = [];
+  if (ignored.length > 0) warnings.push(`columns not used: ${ignored.join(', ')}`);
+  if (splits.length > 0) {
+    warnings.push(
+      `the log has ${splits.length} time gap${splits.length === 1 ? '' : 's'} longer than ${gapFactor} sample periods and was split into ${segments.length} segments`,
+    );
+  }
+  for (const [reason, count] of Object.entries(droppedRows)) warnings.push(`${count} ${reason === 'blankLine' ? 'blank' : 'comment'} line${count === 1 ? '' : 's'} skipped`);
+
+  return {
+    file,
+    segments,
+    rowCount,
+    droppedRows,
+    splits,
+    samplePeriod_s,
+    warnings,
+    delimiter,
+    ignoredColumns: ignored,
+    channels: columns.map((column) => ({ channel: column.channel, header: column.header, columnNumber: column.index + 1, unit: column.unit })),
+  };
+}
+
+function isSkippable(line: string): boolean {
+  return line.trim() === '' || line.trimStart().startsWith('#');
+}
+
+function medianStep(time_s: Float64Array, rows: number): number {
+  const steps = new Float64Array(rows - 1);
+  for (let i = 1; i < rows; i += 1) steps[i - 1] = time_s[i] - time_s[i - 1];
+  steps.sort();
+  const middle = steps.length >> 1;
+  return steps.length % 2 === 1 ? steps[middle] : 0.5 * (steps[middle - 1] + steps[middle]);
+}
+
+function splitAtGaps(
+  file: string,
+  rows: number,
+  lineOfRow: Int32Array,
+  maxStep_s: number,
+  channel: (name: ChannelName) => Float64Array | undefined,
+): { segments: LogSegment[]; splits: LogSplit[] } {
+  const time_s = channel('time_s') as Float64Array;
+  const starts = [0];
+  const splits: LogSplit[] = [];
+  for (let i = 1; i < rows; i += 1) {
+    const gap_s = time_s[i] - time_s[i - 1];
+    if (gap_s > maxStep_s) {
+      starts.push(i);
+      splits.push({ line: lineOfRow[i], gap_s });
+    }
+  }
+  const segments: LogSegment[] = starts.map((start, segmentIndex) => {
+    const end = segmentIndex + 1 < starts.length ? starts[segmentIndex + 1] : rows;
+    const cut = (name: ChannelName): Float64Array | undefined => channel(name)?.slice(start, end);
+    const steerAngle_rad = cut('steer_angle_rad');
+    const lateralAcceleration_mps2 = cut('lat_accel_mps2');
+    return {
+      file,
+      segmentIndex,
+      firstLine: lineOfRow[start],
+      time_s: cut('time_s') as Float64Array,
+      speed_mps: cut('speed_mps') as Float64Array,
+      steerCommand_rad: cut('steer_cmd_rad') as Float64Array,
+      yawRate_radps: cut('yaw_rate_radps') as Float64Array,
+      ...(steerAngle_rad === undefined ? {} : { steerAngle_rad }),
+      ...(lateralAcceleration_mps2 === undefined ? {} : { lateralAcceleration_mps2 }),
+    };
+  });
+  return { segments, splits };
+}
+
+function columnLabel(index: number, name: string): string {
+  return `${index + 1} (${name})`;
+}
+
+function rowLengthError(found: number, header: readonly string[], line: number, file: string): SpeedbandError {
+  const short = found < header.length;
+  const index = short ? found : header.length;
+  return new SpeedbandError(
+    short ? 'log.missingCell' : 'log.extraCell',
+    short
+      ? `the row has ${found} cells but the header has ${header.length}; "${header[index]}" is missing — complete or remove the row`
+      : `the row has ${found} cells but the header has ${header.length} — remove the extra cells or add a header name for them`,
+    { location: { file, line, column: short ? columnLabel(index, header[index]) : index + 1 }, details: { found, expected: header.length } },
+  );
+}
+
+function cellError(cell: string, column: ResolvedColumn, line: number, file: string): SpeedbandError {
+  const problem = cellProblem(cell);
+  const location = { file, line, column: columnLabel(column.index, column.header) };
+  const messages: Record<typeof problem, [string, string]> = {
+    empty: ['log.emptyCell', `the ${column.channel} cell is empty — every row needs a number in every used column; fill it or remove the row`],
+    nonFinite: ['log.nonFinite', `${column.channel} is "${cell.trim()}", not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`],
+    decimalComma: ['log.nonNumeric', `${column.channel} is "${cell.trim()}": a decimal comma — write numbers with a decimal point (e.g. 12.5)`],
+    nonNumeric: ['log.nonNumeric', `${column.channel} is "${cell.trim()}", expected a decimal number (e.g. 0.0125 or 1.2e-3) — fix or remove the row`],
+  };
+  const [code, message] = messages[problem];
+  return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell } });
+}
+
+function checkPlausible(value: number, raw: number, column: ResolvedColumn, line: number, file: string): void {
+  const definition = CHANNEL_DEFINITIONS[column.channel];
+  const { min, max } = definition.plausible;
+  if ((min === null || value >= min) && (max === null || value <= max)) return;
+  const range = `${min === null ? '−∞' : min.toFixed(3)} … ${max === null ? '∞' : max.toFixed(3)} ${definition.siUnit}`;
+  throw new SpeedbandError(
+    'log.implausibleValue',
+    `${column.channel} is ${raw} ${column.unit}${column.unit === definition.siUnit ? '' : ` (${value.toPrecision(4)} ${definition.siUnit})`}, outside the plausible ${range} — ${definition.implausibleHint}`,
+    { location: { file, line, column: columnLabel(column.index, column.header) }, details: { channel: column.channel, value, min, max } },
+  );
+}
+
+function checkTimeIncreases(previous: number, current: number, previousLine: number, line: number, column: ResolvedColumn, file: string): void {
+  if (current > previous) return;
+  const location = { file, line, column: columnLabel(column.index, column.header) };
+  if (current === previous) {
+    throw new SpeedbandError(
+      'log.duplicateTime',
+      `time_s ${current} appears twice (lines ${previousLine} and ${line}) — remove the duplicate sample`,
+      { location, details: { time_s: current, previousLine } },
+    );
+  }
+  throw new SpeedbandError(
+    'log.timeNotIncreasing',
+    `time_s must increase: ${previous} then ${current} at line ${line} — sort the log or split it`,
+    { location, details: { previous_s: previous, current_s: current, previousLine } },
+  );
+}

@@ -1,0 +1,79 @@
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { isSpeedbandError } from '../../src/core/errors.js';
+import { parseSteerLog } from '../../src/log/read.js';
+import type { SteerLog } from '../../src/log/types.js';
+
+/** Property: the reader returns a SteerLog or throws a SpeedbandError, never another exception. */
+function readsOrExplains(text: string): SteerLog | null {
+  try {
+    return parseSteerLog(text, 'random.csv', { steeringRatio: 15 });
+  } catch (error) {
+    if (!isSpeedbandError(error)) throw error;
+    expect(error.code).toMatch(/^log\.[a-zA-Z]+$/);
+    expect(error.message.length).toBeGreaterThan(10);
+    return null;
+  }
+}
+
+const CHANNEL_NAMES = ['time_s', 'speed_mps', 'steer_cmd_rad', 'yaw_rate_radps', 'steer_angle_rad', 'lat_accel_mps2', 'extra'];
+
+describe('parseSteerLog on random input (fast-check)', () => {
+  it('random bytes decoded as UTF-8 give a SteerLog or a SpeedbandError', () => {
+    fc.assert(
+      fc.property(fc.uint8Array({ maxLength: 400 }), (bytes) => {
+        readsOrExplains(Buffer.from(bytes).toString('utf8'));
+      }),
+      { numRuns: 400, seed: 20261201 },
+    );
+  });
+
+  it('random text built from CSV-like characters gives a SteerLog or a SpeedbandError', () => {
+    const alphabet = fc.constantFrom(...'0123456789.,;\t\r\n-+eE#"xNaInfty_ ');
+    const header = fc.shuffledSubarray(CHANNEL_NAMES, { minLength: 0 }).map((names) => names.join(','));
+    fc.assert(
+      fc.property(header, fc.array(alphabet, { maxLength: 300 }), (head, characters) => {
+        readsOrExplains(`${head}\n${characters.join('')}`);
+      }),
+      { numRuns: 400, seed: 7 },
+    );
+  });
+
+  it('random numeric tables (any doubles, any column order and delimiter) give a SteerLog or a SpeedbandError, and a SteerLog keeps every row', () => {
+    const required = ['time_s', 'speed_mps', 'steer_cmd_rad', 'yaw_rate_radps'];
+    const columnSets = fc
+      .tuple(fc.subarray(['steer_angle_rad', 'lat_accel_mps2', 'extra']), fc.boolean())
+      .chain(([optional, dropOne]) => {
+        const names = [...(dropOne ? required.slice(1) : required), ...optional];
+        return fc.shuffledSubarray(names, { minLength: names.length, maxLength: names.length });
+      });
+    // Mostly plausible values so that many tables are valid; sometimes anything (NaN, ±Infinity, huge, negative).
+    const value = fc.oneof(
+      { arbitrary: fc.double({ min: 0, max: 1, noNaN: true }), weight: 30 },
+      { arbitrary: fc.double(), weight: 1 },
+      { arbitrary: fc.integer({ min: -5, max: 200 }), weight: 1 },
+    );
+    const table = fc.record({
+      columns: columnSets,
+      delimiter: fc.constantFrom(',', ';', '\t'),
+      rows: fc.array(fc.array(value, { minLength: 7, maxLength: 7 }), { minLength: 0, maxLength: 12 }),
+      sortTime: fc.boolean(),
+    });
+    let valid = 0;
+    fc.assert(
+      fc.property(table, ({ columns, delimiter, rows, sortTime }) => {
+        const timeIndex = columns.indexOf('time_s');
+        const body = rows.map((row, r) => columns.map((_, c) => (sortTime && c === timeIndex ? r * 0.01 : row[c])).join(delimiter));
+        const log = readsOrExplains([columns.join(delimiter), ...body].join('\n'));
+        if (log !== null) {
+          valid += 1;
+          const samples = log.segments.reduce((sum, segment) => sum + segment.time_s.length, 0);
+          expect(samples).toBe(rows.length);
+          for (const segment of log.segments) for (const value of segment.yawRate_radps) expect(Number.isFinite(value)).toBe(true);
+        }
+      }),
+      { numRuns: 400, seed: 11 },
+    );
+    expect(valid).toBeGreaterThan(20); // the property must also exercise the accepting path
+  });
+});
