@@ -1,0 +1,31 @@
+import type { ControllerType } from './types.js';
+
+/**
+ * Every default of the tuning rules, in one place. Values with a source say so; the rest are our
+ * choices, documented here and in `speedband tune --help`.
+ */
+export const TUNING_DEFAULTS = {
+  /** Ziegler–Nichols rows to use when the user names none. */
+  controllerType: 'PID' as ControllerType,
+  /** IMC-PID λ/θ. Rivera, Morari & Skogestad (1986) advise λ > 0.8·θ for the PID with first-order Padé (from memory). */
+  imcLambdaPerDeadTime: 1,
+  /** IMC-PID advised lower bound of λ/θ (from memory: Rivera, Morari & Skogestad 1986, "λ/θ > 0.8"). */
+  imcMinimumLambdaPerDeadTime: 0.8,
+  /** SIMC τc/θ: τc = θ, "tight control with good robustness" (Skogestad 2003). */
+  simcTauCPerDeadTime: 1,
+  /** Damping-target ζ: critically damped, no overshoot of the path (common practice for lateral control). */
+  dampingRatio: 1,
+  /** Damping-target ωn/p: the integral pole a factor 5 below ωn keeps the integral term gentle (DOMAIN.md §4). */
+  integralPoleRatio: 5,
+  /**
+   * Damping-target ωn when neither ωn nor a settling distance is given: ωn·θ_eff = this value,
+   * with θ_eff the design model's effective delay (half rule). Our choice: half the warning bound.
+   */
+  defaultBandwidthDelayProduct: 0.1,
+  /**
+   * Damping-target warning bound on ωn·θ_eff (θ_eff = delay + actuator and yaw lags by the half rule).
+   * Our figure: at ζ = 1, ratio 5, ωn·θ = 0.2 leaves a phase margin of about 48° (delay-free: 74°) on k''e^(−θs)/s²
+   * (recomputed in test/tuning/damping-target.test.ts).
+   */
+  maximumBandwidthDelayProduct: 0.2,
+} as const;

@@ -1,0 +1,73 @@
+import { SpeedbandError, isSpeedbandError } from '../core/errors.js';
+import { DAMPING_TARGET } from './damping-target.js';
+import { IMC_PID } from './imc-pid.js';
+import { describePlantClass, plantClassOf } from './plant-class.js';
+import { SIMC } from './simc.js';
+import type { DesignModel, RuleContext, RuleName, RuleParameters, RuleResult, TuningRule } from './types.js';
+import { ZIEGLER_NICHOLS_STEP } from './ziegler-nichols-step.js';
+import { ZIEGLER_NICHOLS_ULTIMATE } from './ziegler-nichols-ultimate.js';
+
+/** Every tuning rule, in the order help texts list them. A new rule is one file plus one line here. */
+export const TUNING_RULES: readonly TuningRule[] = [ZIEGLER_NICHOLS_STEP, ZIEGLER_NICHOLS_ULTIMATE, IMC_PID, SIMC, DAMPING_TARGET];
+
+export const RULE_NAMES: readonly RuleName[] = TUNING_RULES.map((rule) => rule.name);
+
+/** The rule called `name`, or a `tuning.unknownRule` error listing the known names (with a closest match). */
+export function findRule(name: string): TuningRule {
+  const rule = TUNING_RULES.find((candidate) => candidate.name === name);
+  if (rule !== undefined) return rule;
+  const closest = RULE_NAMES.find((known) => known.startsWith(name.slice(0, 3).toLowerCase()));
+  throw new SpeedbandError(
+    'tuning.unknownRule',
+    `unknown tuning rule "${name}"${closest === undefined ? '' : ` — did you mean ${closest}?`}; known rules: ${RULE_NAMES.join(', ')}`,
+    { details: { rule: name, known: RULE_NAMES } },
+  );
+}
+
+/**
+ * The rules that produce numbers for a model: its plant class is declared by the rule and the rule
+ * does not refuse it (e.g. Ziegler–Nichols needs a finite ultimate gain).
+ */
+export function applicableRules(model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleName[] {
+  const names: RuleName[] = [];
+  for (const rule of TUNING_RULES) {
+    if (!rule.plantClasses.includes(plantClassOf(model))) continue;
+    try {
+      rule.tune(model, parameters, context);
+      names.push(rule.name);
+    } catch (error) {
+      if (!isSpeedbandError(error)) throw error;
+    }
+  }
+  return names;
+}
+
+/**
+ * Apply the rule `name` to a design model. A rule that does not apply throws
+ * `tuning.ruleNotApplicable` saying why and naming the rules that do apply (details.applicableRules).
+ */
+export function applyRule(name: string, model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
+  const rule = findRule(name);
+  const plantClass = plantClassOf(model);
+  let refusal: SpeedbandError;
+  if (!rule.plantClasses.includes(plantClass)) {
+    refusal = new SpeedbandError(
+      'tuning.ruleNotApplicable',
+      `rule ${rule.name} does not apply to a ${describePlantClass(plantClass)}: it is written for ${rule.plantClasses.join(', ')} plants`,
+      { details: { rule: rule.name, plantClass, reason: 'plant class' } },
+    );
+  } else {
+    try {
+      return rule.tune(model, parameters, context);
+    } catch (error) {
+      if (!isSpeedbandError(error) || error.code !== 'tuning.ruleNotApplicable') throw error;
+      refusal = error;
+    }
+  }
+  const alternatives = applicableRules(model, parameters, context).filter((candidate) => candidate !== rule.name);
+  const advice = alternatives.length > 0 ? `rules that apply: ${alternatives.join(', ')}` : 'no rule applies to this model with these parameters';
+  throw new SpeedbandError('tuning.ruleNotApplicable', `${refusal.message} — ${advice}`, {
+    details: { ...refusal.details, applicableRules: alternatives },
+    cause: refusal,
+  });
+}

@@ -1,0 +1,95 @@
+import { TUNING_DEFAULTS } from './defaults.js';
+import { reduceByHalfRule } from './half-rule.js';
+import { ruleNotApplicable } from './not-applicable.js';
+import { parameterRequired, requirePositive } from './parameter-required.js';
+import { ruleFormToParallel } from './rule-form.js';
+import type { ControllerType, DesignModel, RuleForm, RuleParameters, RuleResult, TuningRule } from './types.js';
+
+const CITATION =
+  'Skogestad, S. (2003). Simple analytic rules for model reduction and PID controller tuning. J. Process Control 13, 291–309 — SIMC rules';
+
+/** The lags SIMC keeps for a plant class and controller type; the half rule folds the rest. */
+function retainedLags(integrators: number, controllerType: ControllerType): number {
+  if (integrators === 2) return 0;
+  if (integrators === 1) return controllerType === 'PID' ? 1 : 0;
+  return controllerType === 'PID' ? 2 : 1;
+}
+
+/** SIMC's default controller per plant: PI for FOPDT and pure integrators, PID (series) otherwise. */
+function defaultControllerType(model: DesignModel): ControllerType {
+  if (model.integrators === 2) return 'PID';
+  const lags = model.lags_s.filter((lag) => lag > 0).length;
+  if (model.integrators === 1) return lags >= 1 ? 'PID' : 'PI';
+  return lags >= 2 ? 'PID' : 'PI';
+}
+
+/**
+ * SIMC (Skogestad 2003), series form Kc(1 + 1/(τI s))(1 + τD s), with τc the closed-loop time
+ * constant (default τc = θ) and the model first reduced by the half rule:
+ *   FOPDT K·e^(−θs)/(τ1 s + 1), PI: Kc = τ1/(K(τc + θ)), τI = min(τ1, 4(τc + θ));
+ *   second order, PID: as FOPDT plus τD = τ2;
+ *   integrating k'·e^(−θs)/s, PI: Kc = 1/(k'(τc + θ)), τI = 4(τc + θ) (PID with a lag τ2: τD = τ2);
+ *   double integrating k''·e^(−θs)/s², PID: Kc = 1/(4k''(τc + θ)²), τI = τD = 4(τc + θ).
+ * The parallel gains follow from series → ideal (DOMAIN.md §4). P-only is not a SIMC row.
+ */
+export function simc(model: DesignModel, parameters: RuleParameters): RuleResult {
+  const controllerType = parameters.controllerType ?? defaultControllerType(model);
+  if (controllerType === 'P') {
+    throw ruleNotApplicable('simc', model, 'SIMC gives PI and PID settings only; for a P controller use ziegler-nichols-step or ziegler-nichols-ultimate');
+  }
+  if (model.integrators === 2 && controllerType !== 'PID') {
+    throw ruleNotApplicable('simc', model, 'a double integrator needs derivative action: SIMC gives PID settings only for it');
+  }
+  const reduction = reduceByHalfRule(model, retainedLags(model.integrators, controllerType));
+  const reduced = reduction.model;
+  const theta = reduced.deadTime_s;
+  let tauC: number;
+  if (parameters.simcClosedLoopTimeConstant_s !== undefined) {
+    tauC = requirePositive('simc', 'simcClosedLoopTimeConstant_s (τc)', parameters.simcClosedLoopTimeConstant_s);
+  } else {
+    if (!(theta > 0)) throw parameterRequired('simc', 'a closed-loop time constant τc', 'the model has no effective dead time to default τc = θ from');
+    tauC = TUNING_DEFAULTS.simcTauCPerDeadTime * theta;
+  }
+  const k = reduced.gain;
+  const horizon = tauC + theta;
+  let ruleForm: RuleForm;
+  if (reduced.integrators === 2) {
+    ruleForm = { form: 'series', gain: 1 / (4 * k * horizon * horizon), integralTime_s: 4 * horizon, derivativeTime_s: 4 * horizon };
+  } else if (reduced.integrators === 1) {
+    ruleForm = { form: 'series', gain: 1 / (k * horizon), integralTime_s: 4 * horizon, derivativeTime_s: reduced.lags_s[0] ?? 0 };
+  } else {
+    const tau1 = reduced.lags_s[0] ?? 0;
+    if (!(tau1 > 0)) {
+      throw ruleNotApplicable('simc', model, 'a pure delay has no lag for the SIMC proportional gain (Kc = τ1/(K(τc + θ)) = 0); use an integral-only controller or imc-pid');
+    }
+    ruleForm = {
+      form: 'series',
+      gain: tau1 / (k * horizon),
+      integralTime_s: Math.min(tau1, 4 * horizon),
+      derivativeTime_s: controllerType === 'PID' ? (reduced.lags_s[1] ?? 0) : 0,
+    };
+  }
+  return {
+    rule: 'simc',
+    citation: CITATION,
+    controllerType,
+    gains: ruleFormToParallel(ruleForm),
+    ruleForm,
+    designModel: reduced,
+    intermediate: {
+      tauC_s: tauC,
+      effectiveDeadTime_s: theta,
+      halfRuleAddedDeadTime_s: reduction.addedDeadTime_s,
+      halfRuleAddedToLag_s: reduction.addedToRetainedLag_s,
+    },
+    warnings: [],
+  };
+}
+
+export const SIMC: TuningRule = {
+  name: 'simc',
+  title: 'SIMC (Skogestad internal model control)',
+  citation: CITATION,
+  plantClasses: ['self-regulating', 'second-order', 'integrating', 'double-integrating'],
+  tune: (model, parameters) => simc(model, parameters),
+};
