@@ -26,7 +26,8 @@ export function findRule(name: string): TuningRule {
 
 /**
  * The rules that produce numbers for a model: its plant class is declared by the rule and the rule
- * does not refuse it (e.g. Ziegler–Nichols needs a finite ultimate gain).
+ * does not refuse it (e.g. Ziegler–Nichols needs a finite ultimate gain). A rule that only lacks a
+ * parameter with no default for this model (`tuning.parameterRequired`) counts as applicable.
  */
 export function applicableRules(model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleName[] {
   const names: RuleName[] = [];
@@ -37,6 +38,8 @@ export function applicableRules(model: DesignModel, parameters: RuleParameters, 
       names.push(rule.name);
     } catch (error) {
       if (!isSpeedbandError(error)) throw error;
+      // A missing parameter (e.g. λ on a delay-free plant) does not make the rule inapplicable.
+      if (error.code === 'tuning.parameterRequired') names.push(rule.name);
     }
   }
   return names;
