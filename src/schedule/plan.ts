@@ -1,0 +1,267 @@
+/**
+ * The plan: which loop, rule, breakpoints, interpolation, controller and acceptance limits a
+ * schedule is built with. Every field has a documented default (PLAN_DEFAULTS), so `{}` is a plan.
+ */
+import type { Discretisation } from '../controller/types.js';
+import { SpeedbandError } from '../core/errors.js';
+import { readTextFile } from '../core/files.js';
+import { makeValidator, parseJsonText } from '../core/schema.js';
+import type { ControllerType, RuleName, RuleParameters } from '../tuning/types.js';
+import { PLAN_SCHEMA } from './plan-schema.js';
+import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
+
+export type LoopKind = 'yaw-rate' | 'heading' | 'path';
+export type ReferencePoint = 'cg' | 'front-axle';
+
+/** A value per speed: linear between the given speeds (m/s), the end values held beyond them. */
+export interface SpeedTable {
+  readonly speeds_mps: readonly number[];
+  readonly values: readonly number[];
+}
+/** A rule parameter that is one number at every speed, or a SpeedTable. */
+export type SpeedVarying = number | SpeedTable;
+
+/** Rule parameters as written in a plan (names as in src/tuning/types.ts RuleParameters; numbers may vary with speed). */
+export interface PlanRuleParameters {
+  readonly controllerType?: ControllerType;
+  readonly closedLoopTimeConstant_s?: SpeedVarying;
+  readonly simcClosedLoopTimeConstant_s?: SpeedVarying;
+  readonly dampingRatio?: SpeedVarying;
+  readonly naturalFrequency_radps?: SpeedVarying;
+  readonly settlingDistance_m?: SpeedVarying;
+  readonly integralPoleRatio?: SpeedVarying;
+}
+
+export type BreakpointPlan =
+  | { readonly mode: 'explicit'; readonly speeds_mps: readonly number[] }
+  | { readonly mode: 'automatic'; readonly count: number; readonly spacing: 'geometric' | 'linear' };
+
+export interface Plan {
+  readonly loop: {
+    readonly kind: LoopKind;
+    /** Path loop: preview distance d ahead of the reference point, m. */
+    readonly preview_m: number;
+    /** Path loop: where the preview is measured from (front-axle adds the CG-to-front-axle distance a). */
+    readonly referencePoint: ReferencePoint;
+  };
+  readonly rule: { readonly name: RuleName; readonly parameters: PlanRuleParameters };
+  readonly speeds: {
+    /** The dense check covers minimum_mps … maximum_mps. */
+    readonly minimum_mps: number;
+    readonly maximum_mps: number;
+    /** Below this speed the floor's gains are used; automatic breakpoints start here (or at minimum_mps if higher). */
+    readonly lowSpeedFloor_mps: number;
+  };
+  readonly breakpoints: BreakpointPlan;
+  readonly interpolation: InterpolationMethod;
+  readonly controller: {
+    /** Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė_filtered. */
+    readonly form: 'parallel';
+    readonly derivativeFilter: number;
+    readonly sampleTime_s: number;
+    readonly discretisation: Discretisation;
+    readonly computationLatency_s: number;
+  };
+  readonly acceptance: {
+    readonly maximumLowerGainMargin_dB: number;
+    readonly minimumUpperGainMargin_dB: number;
+    readonly minimumPhaseMargin_deg: number;
+    readonly maximumSensitivityPeak: number;
+    /** Required delay margin = latency (computation latency + half a sample for the hold) + this room, s. */
+    readonly delayMarginRoom_s: number;
+  };
+  readonly check: {
+    /** Evenly spaced check speeds across the range (breakpoints and midpoints are added). */
+    readonly gridSpeeds: number;
+    readonly maxInsertedBreakpoints: number;
+    /** Model the dense check runs on: the joint single-track fit, or lumped models interpolated between test speeds. */
+    readonly model: 'single-track' | 'interpolated-lumped';
+  };
+}
+
+/** A plan as written in a file: every field optional. */
+export type PartialPlan = {
+  readonly [K in keyof Plan]?: K extends 'breakpoints'
+    ? { readonly speeds_mps?: readonly number[]; readonly count?: number; readonly spacing?: 'geometric' | 'linear' }
+    : K extends 'interpolation'
+      ? InterpolationMethod
+      : Partial<Plan[K]>;
+} & { readonly $schema?: string; readonly description?: string };
+
+/**
+ * Defaults, in one place. Sources: acceptance limits common practice (DOMAIN.md §5: GM ≥ 6 dB both
+ * ways, PM ≥ 45°, Ms ≤ 2); derivative filter N = 10 common practice (DOMAIN.md §4); backward Euler
+ * because its derivative-filter pole stays in [0, 1) (DOMAIN.md §5b); SIMC with τc = θ (Skogestad 2003).
+ * Our choices: speed range 1–20 m/s with a 2 m/s floor, 6 geometric breakpoints (gains change
+ * fastest at low speed), 100 Hz firmware with one sample of computation latency, 20 ms delay-margin
+ * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
+ */
+export const PLAN_DEFAULTS: Plan = {
+  loop: { kind: 'yaw-rate', preview_m: 0, referencePoint: 'front-axle' },
+  rule: { name: 'simc', parameters: {} },
+  speeds: { minimum_mps: 1, maximum_mps: 20, lowSpeedFloor_mps: 2 },
+  breakpoints: { mode: 'automatic', count: 6, spacing: 'geometric' },
+  interpolation: 'monotone-cubic',
+  controller: { form: 'parallel', derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler', computationLatency_s: 0.01 },
+  acceptance: {
+    maximumLowerGainMargin_dB: -6,
+    minimumUpperGainMargin_dB: 6,
+    minimumPhaseMargin_deg: 45,
+    maximumSensitivityPeak: 2,
+    delayMarginRoom_s: 0.02,
+  },
+  check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track' },
+};
+
+const validatePlan = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file');
+
+function planError(message: string, jsonPath: string, file?: string): SpeedbandError {
+  return new SpeedbandError('plan.invalid', message, { location: { file, jsonPath } });
+}
+
+function checkSpeedTable(value: SpeedVarying | undefined, jsonPath: string, file?: string): void {
+  if (value === undefined || typeof value === 'number') return;
+  if (value.speeds_mps.length !== value.values.length) {
+    throw planError(`${value.speeds_mps.length} speeds but ${value.values.length} values — give one value per speed`, jsonPath, file);
+  }
+  for (let i = 1; i < value.speeds_mps.length; i += 1) {
+    if (!(value.speeds_mps[i] > value.speeds_mps[i - 1])) {
+      throw planError(
+        `speeds must increase strictly: ${value.speeds_mps[i - 1]} then ${value.speeds_mps[i]} m/s — sort them and remove duplicates`,
+        `${jsonPath}/speeds_mps/${i}`,
+        file,
+      );
+    }
+  }
+}
+
+/** Options for resolvePlan beyond the plan itself. */
+export interface ResolveContext {
+  /** Speeds of the step tests, m/s: when the plan gives no speed range, the check covers their range. */
+  readonly testSpeeds_mps?: readonly number[];
+  /** File name for error locations. */
+  readonly file?: string;
+}
+
+/**
+ * Apply PLAN_DEFAULTS section by section and check what a schema cannot: range order, the floor
+ * inside the range, explicit breakpoints strictly increasing, speed tables well formed.
+ * A partial plan should be schema-valid already (readPlan validates; library callers are typed).
+ */
+export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}): Plan {
+  const file = context.file;
+  const tests = context.testSpeeds_mps ?? [];
+  const fromTests = tests.length >= 2 ? { minimum_mps: Math.min(...tests), maximum_mps: Math.max(...tests) } : {};
+  const speeds = { ...PLAN_DEFAULTS.speeds, ...fromTests, ...partial.speeds };
+  if (partial.speeds?.lowSpeedFloor_mps === undefined && speeds.lowSpeedFloor_mps < speeds.minimum_mps) {
+    speeds.lowSpeedFloor_mps = speeds.minimum_mps;
+  }
+  if (!(speeds.maximum_mps > speeds.minimum_mps)) {
+    throw planError(`the speed range is ${speeds.minimum_mps} to ${speeds.maximum_mps} m/s — the maximum must be above the minimum`, '/speeds', file);
+  }
+  if (!(speeds.lowSpeedFloor_mps < speeds.maximum_mps)) {
+    throw planError(
+      `the low-speed floor ${speeds.lowSpeedFloor_mps} m/s is not below the range maximum ${speeds.maximum_mps} m/s — lower the floor`,
+      '/speeds/lowSpeedFloor_mps',
+      file,
+    );
+  }
+  let breakpoints: BreakpointPlan = PLAN_DEFAULTS.breakpoints;
+  const written = partial.breakpoints;
+  if (written?.speeds_mps !== undefined) {
+    written.speeds_mps.forEach((speed, i) => {
+      if (i > 0 && !(speed > written.speeds_mps![i - 1])) {
+        throw planError(
+          `breakpoint speeds must increase strictly: ${written.speeds_mps![i - 1]} then ${speed} m/s — sort them and remove duplicates`,
+          `/breakpoints/speeds_mps/${i}`,
+          file,
+        );
+      }
+    });
+    breakpoints = { mode: 'explicit', speeds_mps: written.speeds_mps };
+  } else if (written !== undefined) {
+    breakpoints = { mode: 'automatic', count: written.count ?? 6, spacing: written.spacing ?? 'geometric' };
+  }
+  const parameters = partial.rule?.parameters ?? PLAN_DEFAULTS.rule.parameters;
+  for (const [name, value] of Object.entries(parameters)) {
+    if (typeof value === 'object') checkSpeedTable(value as SpeedTable, `/rule/parameters/${name}`, file);
+  }
+  return {
+    loop: { ...PLAN_DEFAULTS.loop, ...partial.loop },
+    rule: { name: partial.rule?.name ?? PLAN_DEFAULTS.rule.name, parameters },
+    speeds,
+    breakpoints,
+    interpolation: partial.interpolation ?? PLAN_DEFAULTS.interpolation,
+    controller: { ...PLAN_DEFAULTS.controller, ...partial.controller },
+    acceptance: { ...PLAN_DEFAULTS.acceptance, ...partial.acceptance },
+    check: { ...PLAN_DEFAULTS.check, ...partial.check },
+  };
+}
+
+/** Read, schema-validate and resolve a plan file; errors name the file and JSON path. */
+export function readPlan(path: string, context: Omit<ResolveContext, 'file'> = {}): Plan {
+  const value = validatePlan(parseJsonText(readTextFile(path), path), path);
+  return resolvePlan(value, { ...context, file: path });
+}
+
+/** Validate a parsed plan object (e.g. from a test or another file) against the schema, then resolve it. */
+export function planFromJson(value: unknown, context: ResolveContext = {}): Plan {
+  return resolvePlan(validatePlan(value, context.file ?? '(plan)'), context);
+}
+
+/**
+ * Breakpoint speeds, m/s, strictly increasing. Explicit: as written. Automatic: `count` speeds from
+ * max(lowSpeedFloor, minimum) to maximum, geometric v_i = v0·(v1/v0)^(i/(n−1)) or linear; ends exact.
+ */
+export function planBreakpoints(plan: Plan): number[] {
+  if (plan.breakpoints.mode === 'explicit') return [...plan.breakpoints.speeds_mps];
+  const first = Math.max(plan.speeds.lowSpeedFloor_mps, plan.speeds.minimum_mps);
+  const last = plan.speeds.maximum_mps;
+  const n = plan.breakpoints.count;
+  if (n === 1) return [first];
+  const speeds: number[] = [];
+  for (let i = 0; i < n; i += 1) {
+    const fraction = i / (n - 1);
+    speeds.push(plan.breakpoints.spacing === 'geometric' ? first * Math.pow(last / first, fraction) : first + (last - first) * fraction);
+  }
+  speeds[0] = first;
+  speeds[n - 1] = last;
+  return speeds;
+}
+
+/**
+ * Acceptance thresholds of the dense check. Required delay margin, s:
+ * computationLatency_s + sampleTime_s/2 (zero-order hold, DOMAIN.md §5) + delayMarginRoom_s.
+ */
+export function planThresholds(plan: Plan): AcceptanceThresholds {
+  const { acceptance, controller } = plan;
+  return {
+    maximumLowerGainMargin_dB: acceptance.maximumLowerGainMargin_dB,
+    minimumUpperGainMargin_dB: acceptance.minimumUpperGainMargin_dB,
+    minimumPhaseMargin_deg: acceptance.minimumPhaseMargin_deg,
+    maximumSensitivityPeak: acceptance.maximumSensitivityPeak,
+    minimumDelayMargin_s: controller.computationLatency_s + controller.sampleTime_s / 2 + acceptance.delayMarginRoom_s,
+  };
+}
+
+/** A speed-varying value at a speed (m/s): linear between table speeds, end values held beyond them. */
+export function valueAtSpeed(value: SpeedVarying, speed_mps: number): number {
+  if (typeof value === 'number') return value;
+  const { speeds_mps: speeds, values } = value;
+  if (speed_mps <= speeds[0]) return values[0];
+  const last = speeds.length - 1;
+  if (speed_mps >= speeds[last]) return values[last];
+  let k = 0;
+  while (speeds[k + 1] < speed_mps) k += 1;
+  const t = (speed_mps - speeds[k]) / (speeds[k + 1] - speeds[k]);
+  return values[k] + t * (values[k + 1] - values[k]);
+}
+
+/** The rule's parameters at one speed (every speed table evaluated), for src/tuning (RuleParameters). */
+export function ruleParametersAt(plan: Plan, speed_mps: number): RuleParameters {
+  const resolved: Record<string, number | string> = {};
+  for (const [name, value] of Object.entries(plan.rule.parameters) as [string, SpeedVarying | string][]) {
+    resolved[name] = typeof value === 'string' ? value : valueAtSpeed(value, speed_mps);
+  }
+  return resolved as RuleParameters;
+}

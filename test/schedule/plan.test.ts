@@ -1,0 +1,80 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planThresholds, readPlan, resolvePlan, ruleParametersAt } from '../../src/schedule/plan.js';
+
+describe('resolvePlan(partial)', () => {
+  it('an empty plan is the defaults, with common-practice acceptance limits', () => {
+    const plan = resolvePlan({});
+    expect(plan).toEqual(PLAN_DEFAULTS);
+    // Source: common practice (DOMAIN.md §5; Åström & Hägglund for Ms): GM ≥ 6 dB both ways, PM ≥ 45°, Ms ≤ 2.
+    expect(plan.acceptance.maximumLowerGainMargin_dB).toBe(-6);
+    expect(plan.acceptance.minimumUpperGainMargin_dB).toBe(6);
+    expect(plan.acceptance.minimumPhaseMargin_deg).toBe(45);
+    expect(plan.acceptance.maximumSensitivityPeak).toBe(2);
+    expect(plan.check.gridSpeeds).toBeGreaterThanOrEqual(200);
+  });
+
+  it('takes the speed range from the test speeds when the plan gives none', () => {
+    const plan = resolvePlan({}, { testSpeeds_mps: [4, 12, 8] });
+    expect(plan.speeds).toEqual({ minimum_mps: 4, maximum_mps: 12, lowSpeedFloor_mps: 4 });
+  });
+
+  it('required delay margin is latency plus half a sample (zero-order hold) plus room', () => {
+    // Source: DOMAIN.md §5 — a zero-order hold adds about Ts/2 of delay; delay margin above the latency with room (common practice).
+    const plan = resolvePlan({ controller: { sampleTime_s: 0.02, computationLatency_s: 0.004 }, acceptance: { delayMarginRoom_s: 0.03 } });
+    expect(planThresholds(plan).minimumDelayMargin_s).toBeCloseTo(0.004 + 0.01 + 0.03, 15);
+  });
+});
+
+describe('planBreakpoints(plan)', () => {
+  it('geometric spacing has a constant ratio between neighbours and exact ends', () => {
+    // Source: definition of a geometric sequence, v_i = v0·r^i.
+    const speeds = planBreakpoints(resolvePlan({ speeds: { minimum_mps: 1, maximum_mps: 16, lowSpeedFloor_mps: 1 }, breakpoints: { count: 5 } }));
+    expect(speeds[0]).toBe(1);
+    expect(speeds[4]).toBe(16);
+    speeds.forEach((speed, i) => expect(speed).toBeCloseTo(2 ** i, 12));
+  });
+
+  it('linear spacing starts at the low-speed floor when it lies above the range minimum', () => {
+    const speeds = planBreakpoints(resolvePlan({ speeds: { minimum_mps: 1, maximum_mps: 11, lowSpeedFloor_mps: 3 }, breakpoints: { count: 5, spacing: 'linear' } }));
+    expect(speeds).toEqual([3, 5, 7, 9, 11]);
+  });
+
+  it('explicit breakpoints are kept as written', () => {
+    expect(planBreakpoints(resolvePlan({ breakpoints: { speeds_mps: [2, 5, 9] } }))).toEqual([2, 5, 9]);
+  });
+});
+
+describe('plan file validation', () => {
+  it('rejects a mistyped field with its JSON path', () => {
+    expect(() => planFromJson({ loop: { kind: 'lateral' } })).toThrow(expect.objectContaining({ code: 'plan.invalid', location: expect.objectContaining({ jsonPath: '/loop/kind' }) }));
+    expect(() => planFromJson({ controller: { sampleTime_s: -1 } })).toThrow(expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/controller/sampleTime_s' }) }));
+    expect(() => planFromJson({ check: { gridSize: 300 } })).toThrow(/unknown field "gridSize"/);
+  });
+
+  it('rejects unsorted breakpoints and speed tables with the offending index', () => {
+    expect(() => planFromJson({ breakpoints: { speeds_mps: [2, 8, 5] } })).toThrow(expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/breakpoints/speeds_mps/2' }) }));
+    expect(() => planFromJson({ rule: { parameters: { settlingDistance_m: { speeds_mps: [5, 2], values: [10, 20] } } } })).toThrow(
+      expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/rule/parameters/settlingDistance_m/speeds_mps/1' }) }),
+    );
+  });
+
+  it('readPlan reads a file; speed-varying rule parameters interpolate linearly and hold beyond their ends', () => {
+    const folder = mkdtempSync(join(tmpdir(), 'speedband-plan-'));
+    const path = join(folder, 'plan.json');
+    writeFileSync(
+      path,
+      JSON.stringify({
+        loop: { kind: 'path', preview_m: 3 },
+        rule: { name: 'damping-target', parameters: { dampingRatio: 1, settlingDistance_m: { speeds_mps: [2, 10], values: [8, 40] } } },
+      }),
+    );
+    const plan = readPlan(path);
+    expect(plan.loop).toEqual({ kind: 'path', preview_m: 3, referencePoint: 'front-axle' });
+    expect(ruleParametersAt(plan, 6)).toEqual({ dampingRatio: 1, settlingDistance_m: 24 });
+    expect(ruleParametersAt(plan, 1).settlingDistance_m).toBe(8);
+    expect(ruleParametersAt(plan, 30).settlingDistance_m).toBe(40);
+  });
+});
