@@ -1,0 +1,137 @@
+import type { FopdtModel } from './types.js';
+import { fitStepModel, type BiasMode, type StepModelFit } from './fit-step-model.js';
+import { simulateFopdt } from './simulate-fopdt.js';
+import { meanOf, type StepSignals } from './step-signals.js';
+import { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
+
+/**
+ * FOPDT fit of one step: K·e^(−θs)/(τs + 1) from the (relative) input to the output,
+ * simulated on the MEASURED input, linearly interpolated between samples
+ * (simulate-fopdt.ts), plus an output bias.
+ *
+ * The dead time makes the sum of squares non-smooth and multi-modal on sampled data,
+ * so the fit runs in two stages:
+ * 1. a coarse grid over (θ, τ) in which K and the bias are solved exactly by linear least
+ *    squares for each pair (variable projection: the response is linear in them);
+ * 2. Levenberg–Marquardt with all parameters free (θ continuous) from the best grid
+ *    points and from Smith's two-point estimate (two-point.ts); the lowest converged
+ *    sum of squares wins.
+ */
+
+export interface FopdtFitOptions {
+  readonly biasMode: BiasMode;
+  /** Points of the coarse grid over dead time and time constant. */
+  readonly deadTimeGridPoints: number;
+  readonly timeConstantGridPoints: number;
+  /** Grid points refined by Levenberg–Marquardt (besides the two-point start). */
+  readonly refinedStarts: number;
+}
+
+export const FOPDT_FIT_DEFAULTS: FopdtFitOptions = {
+  biasMode: 'fitted',
+  deadTimeGridPoints: 12,
+  timeConstantGridPoints: 8,
+  refinedStarts: 1,
+};
+
+export interface FopdtFit {
+  readonly model: FopdtModel;
+  readonly fit: StepModelFit;
+  /** Smith's two-point estimate, when the response allowed one. */
+  readonly twoPoint: TwoPointEstimate | null;
+}
+
+interface GridPoint {
+  readonly deadTime_s: number;
+  readonly timeConstant_s: number;
+  readonly gain: number;
+  readonly ssr: number;
+}
+
+/** Best K (and bias when fitted) for a fixed unit-gain response x: linear least squares. */
+function projectLinear(output: Float64Array, x: Float64Array, fixedBias: number | null): { gain: number; ssr: number } {
+  const n = output.length;
+  let sx = 0;
+  let sy = 0;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = 0; i < n; i++) {
+    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
+    sx += x[i];
+    sy += y;
+    sxx += x[i] * x[i];
+    sxy += x[i] * y;
+  }
+  let gain: number;
+  let bias: number;
+  if (fixedBias === null) {
+    const det = n * sxx - sx * sx;
+    gain = det !== 0 ? (n * sxy - sx * sy) / det : 0;
+    bias = (sy - gain * sx) / n;
+  } else {
+    gain = sxx !== 0 ? sxy / sxx : 0;
+    bias = 0;
+  }
+  let ssr = 0;
+  for (let i = 0; i < n; i++) {
+    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
+    const r = y - gain * x[i] - bias;
+    ssr += r * r;
+  }
+  return { gain, ssr };
+}
+
+/** Fit K, τ, θ (and the bias) of one step; formulas and method in the file comment. Units: K output/input, τ and θ in s. */
+export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_FIT_DEFAULTS): FopdtFit {
+  const { time_s, input, output, preStepSamples } = signals;
+  const n = time_s.length;
+  const fullStates = new Float64Array(n);
+  const window_s = time_s[n - 1] - time_s[0];
+  const samplePeriod_s = window_s / Math.max(1, n - 1);
+  const twoPoint = twoPointEstimate(signals);
+  const fixedBias = options.biasMode === 'preStep' ? meanOf(output, 0, Math.max(1, preStepSamples)) : null;
+
+  const deadTimeMax_s = Math.min(window_s / 3, Math.max(0.4, 3 * Math.max(0, twoPoint?.deadTime_s ?? 0) + 0.1));
+  const timeConstantMin_s = Math.max(samplePeriod_s / 2, 0.005);
+  const timeConstantMax_s = Math.max(window_s / 2, 4 * timeConstantMin_s);
+  // The coarse grid runs on every stride-th sample (about 250 samples): it only ranks starts.
+  const stride = Math.max(1, Math.floor(n / 250));
+  const coarseTime = time_s.filter((_, i) => i % stride === 0);
+  const coarseInput = input.filter((_, i) => i % stride === 0);
+  const coarseOutput = output.filter((_, i) => i % stride === 0);
+  const scratch = new Float64Array(coarseTime.length);
+  const states = new Float64Array(coarseTime.length);
+  const grid: GridPoint[] = [];
+  for (let i = 0; i < options.deadTimeGridPoints; i++) {
+    const deadTime_s = (deadTimeMax_s * i) / (options.deadTimeGridPoints - 1);
+    for (let j = 0; j < options.timeConstantGridPoints; j++) {
+      const timeConstant_s = timeConstantMin_s * Math.pow(timeConstantMax_s / timeConstantMin_s, j / (options.timeConstantGridPoints - 1));
+      const x = simulateFopdt(coarseTime, coarseInput, 1, timeConstant_s, deadTime_s, scratch, states);
+      const { gain, ssr } = projectLinear(coarseOutput, x, fixedBias);
+      grid.push({ deadTime_s, timeConstant_s, gain, ssr });
+    }
+  }
+  grid.sort((a, b) => a.ssr - b.ssr);
+  const starts: number[][] = grid.slice(0, options.refinedStarts).map((g) => [g.gain, g.timeConstant_s, g.deadTime_s]);
+  if (twoPoint !== null && twoPoint.timeConstant_s > 0) {
+    starts.push([twoPoint.gain, twoPoint.timeConstant_s, Math.max(0, twoPoint.deadTime_s)]);
+  }
+  const gainScale = Math.max(Math.abs(grid[0].gain), 1e-6);
+  const fit = fitStepModel(
+    signals,
+    {
+      names: ['gain', 'timeConstant_s', 'deadTime_s'],
+      simulate: (p) => simulateFopdt(time_s, input, p[0], p[1], p[2], new Float64Array(n), fullStates),
+      starts,
+      scale: [gainScale, Math.max(grid[0].timeConstant_s, 0.02), 0.05],
+      lower: [-Infinity, 0, 0],
+      upper: [Infinity, 10 * timeConstantMax_s, window_s / 2],
+    },
+    options.biasMode,
+  );
+  return {
+    model: { kind: 'fopdt', gain: fit.parameters[0], timeConstant_s: fit.parameters[1], deadTime_s: fit.parameters[2] },
+    fit,
+    twoPoint,
+  };
+}

@@ -1,0 +1,155 @@
+import { levenbergMarquardt } from 'ml-levenberg-marquardt';
+
+/**
+ * The one adapter around ml-levenberg-marquardt (5.1.0). Every fit in speedband
+ * goes through `fitLeastSquares`; nothing else imports the library.
+ *
+ * What the adapter handles, because the library does not (read in its source,
+ * node_modules/ml-levenberg-marquardt/src; each point is pinned by
+ * test/identify/least-squares.test.ts):
+ * - Documented defaults differ from the code (errorTolerance: docs 10e-3, code 1e-7;
+ *   the dampingStepUp/Down docs describe each other). Every option is passed explicitly.
+ * - The default finite-difference step is an absolute 0.1 (`gradientDifference`,
+ *   a number or an array per parameter; an array of the wrong length is silently
+ *   filled with its first element). We fit in scaled parameters (value / scale)
+ *   and pass one step per parameter, relative to its current value.
+ * - A zero step skips a Jacobian row and shifts the rows below it, so the update of
+ *   one parameter lands on another (unless it is the last). We never fix a parameter
+ *   that way: callers reparametrise (the model takes only free parameters).
+ * - `errorTolerance` is an absolute sum of squares: the loop otherwise runs until the
+ *   iteration cap, and the result carries no stop reason — a capped run or a NaN
+ *   residual (the loop breaks and returns the best point so far) looks like success.
+ *   We pass errorTolerance 0, run the library in short chunks, and decide the stop
+ *   reason ourselves: relative change of the sum of squares and of the parameters
+ *   between chunks (converged), the iteration cap, or a non-finite residual.
+ * - `minValues`/`maxValues` are clamped after each step, but derivative probes
+ *   evaluate the model just outside them: models must return finite values there.
+ * - `weights` are applied inconsistently (the error uses r²·w², the step uses r²/w²):
+ *   we pass weights 1 and scale residuals ourselves (residualScale).
+ */
+
+export type StopReason = 'converged' | 'iterationCap' | 'nonFinite';
+
+export interface LeastSquaresProblem {
+  /** Measured values to fit. */
+  readonly data: Float64Array;
+  /** Model predictions for a full parameter vector (physical units); same length as data. Must return finite values for parameters slightly outside the bounds. */
+  readonly model: (parameters: readonly number[]) => Float64Array;
+  readonly initial: readonly number[];
+  /** Typical magnitude of each parameter (> 0): the fit works on value/scale. */
+  readonly scale: readonly number[];
+  /** Lower and upper bounds per parameter (physical units); ±Infinity for none. */
+  readonly lower: readonly number[];
+  readonly upper: readonly number[];
+  /** Typical residual magnitude (> 0), to keep the damping meaningful. */
+  readonly residualScale: number;
+}
+
+export interface LeastSquaresOptions {
+  /** Total iteration cap over all chunks. */
+  readonly maxIterations: number;
+  /** Library iterations per chunk between stop checks. */
+  readonly chunkIterations: number;
+  /** Converged when the sum of squares changes by less than this fraction between chunks… */
+  readonly relativeSsrTolerance: number;
+  /** …or every scaled parameter moves by less than this (relative to max(|p|, 1)). */
+  readonly relativeParameterTolerance: number;
+  /** Use central differences for the library's Jacobian (2p model runs per iteration) instead of forward (p runs). */
+  readonly centralDifference: boolean;
+  /** Finite-difference step, relative to max(|scaled parameter|, 1). */
+  readonly relativeDifferenceStep: number;
+  /** Initial Levenberg–Marquardt damping (in scaled units). */
+  readonly damping: number;
+}
+
+export const LEAST_SQUARES_DEFAULTS: LeastSquaresOptions = {
+  maxIterations: 200,
+  chunkIterations: 4,
+  relativeSsrTolerance: 1e-9,
+  relativeParameterTolerance: 1e-7,
+  centralDifference: false,
+  relativeDifferenceStep: 1e-7,
+  damping: 1e-2,
+};
+
+export interface LeastSquaresResult {
+  /** Best parameters found, physical units. */
+  readonly parameters: readonly number[];
+  /** Sum of squared residuals (data − model), physical units². */
+  readonly ssr: number;
+  readonly iterations: number;
+  readonly stopReason: StopReason;
+}
+
+/** Sum of squares of data − prediction; NaN when any prediction is not finite. */
+export function sumOfSquares(data: Float64Array, prediction: Float64Array): number {
+  let total = 0;
+  for (let i = 0; i < data.length; i++) {
+    const r = data[i] - prediction[i];
+    total += r * r;
+  }
+  return Number.isFinite(total) ? total : Number.NaN;
+}
+
+/**
+ * Minimise Σ (data − model(p))² with ml-levenberg-marquardt under bounds, and say why it stopped.
+ * Never reports a capped or non-finite run as converged.
+ */
+export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSquaresOptions = LEAST_SQUARES_DEFAULTS): LeastSquaresResult {
+  const { data, model, scale, residualScale } = problem;
+  const p = problem.initial.length;
+  const toPhysical = (scaled: readonly number[]): number[] => scaled.map((v, i) => v * scale[i]);
+  const index = Array.from({ length: data.length }, (_, i) => i);
+  const scaledData = Array.from(data, (v) => v / residualScale);
+  let nonFiniteSeen = false;
+  const parameterized = (scaled: number[]): ((x: number) => number) => {
+    const prediction = model(toPhysical(scaled));
+    return (x: number) => {
+      const value = prediction[x] / residualScale;
+      if (!Number.isFinite(value)) nonFiniteSeen = true;
+      return value;
+    };
+  };
+  const minValues = problem.lower.map((v, i) => v / scale[i]);
+  const maxValues = problem.upper.map((v, i) => v / scale[i]);
+  let current = problem.initial.map((v, i) => Math.min(Math.max(v / scale[i], minValues[i]), maxValues[i]));
+  let ssr = sumOfSquares(data, model(toPhysical(current)));
+  if (Number.isNaN(ssr)) return { parameters: toPhysical(current), ssr, iterations: 0, stopReason: 'nonFinite' };
+  let iterations = 0;
+  while (iterations < options.maxIterations) {
+    const chunk = Math.min(options.chunkIterations, options.maxIterations - iterations);
+    nonFiniteSeen = false;
+    const result = levenbergMarquardt({ x: index, y: scaledData }, parameterized, {
+      initialValues: current,
+      weights: 1,
+      damping: options.damping,
+      dampingStepUp: 11,
+      dampingStepDown: 9,
+      improvementThreshold: 1e-3,
+      maxIterations: chunk,
+      errorTolerance: 0,
+      centralDifference: options.centralDifference,
+      gradientDifference: current.map((v) => options.relativeDifferenceStep * Math.max(Math.abs(v), 1)),
+      minValues,
+      maxValues,
+    });
+    iterations += result.iterations;
+    const next = result.parameterValues;
+    const nextSsr = sumOfSquares(data, model(toPhysical(next)));
+    if (Number.isNaN(nextSsr) || (nonFiniteSeen && result.iterations < chunk)) {
+      return { parameters: toPhysical(current), ssr, iterations, stopReason: 'nonFinite' };
+    }
+    const ssrChange = Math.abs(ssr - nextSsr);
+    let parameterChange = 0;
+    for (let i = 0; i < p; i++) parameterChange = Math.max(parameterChange, Math.abs(next[i] - current[i]) / Math.max(Math.abs(current[i]), 1));
+    const improved = nextSsr <= ssr;
+    if (improved) {
+      current = next;
+      ssr = nextSsr;
+    }
+    if (ssr === 0 || ssrChange <= options.relativeSsrTolerance * ssr || parameterChange <= options.relativeParameterTolerance) {
+      return { parameters: toPhysical(current), ssr, iterations, stopReason: 'converged' };
+    }
+  }
+  return { parameters: toPhysical(current), ssr, iterations, stopReason: 'iterationCap' };
+}

@@ -1,0 +1,91 @@
+/**
+ * Fast, exact response of a first-order lag with a continuous dead time,
+ * K·e^(−θs)/(τs + 1), to a sampled input that is taken as LINEARLY INTERPOLATED
+ * between samples (a real steering step is a ramp; a zero-order hold would add half
+ * a sample of apparent delay).
+ *
+ * Between samples t_j and t_j + h the input is u_j + m·s (m = slope), and the
+ * lag state solves τẋ = −x + u_j + m·s exactly:
+ *   x(t_j + s) = u_j + m(s − τ) + (x_j − u_j + mτ)·e^(−s/τ).
+ * The output at t_k is K·x(t_k − θ), evaluated with the same formula at the
+ * fractional offset, so the response is continuous and smooth in θ (no rounding
+ * of the delay to samples). Before the first sample the system rests at x = u_0;
+ * after the last the input is held. τ ≤ 1e−9 s is treated as no lag and θ < 0 is
+ * allowed (a time advance), so that derivative probes outside the bounds stay finite.
+ *
+ * Units: time in s, input in its own unit, output = gain × input unit.
+ */
+const MIN_TIME_CONSTANT_S = 1e-9;
+
+/** Lag state at every sample (exact for the linearly interpolated input), starting from rest at u_0. */
+export function firstOrderStates(time_s: Float64Array, input: Float64Array, timeConstant_s: number, out: Float64Array): Float64Array {
+  const n = time_s.length;
+  const tau = timeConstant_s;
+  out[0] = input[0];
+  // Uniform sampling reuses one decay factor (the interval is compared to 1e−12 s).
+  let lastH = Number.NaN;
+  let decay = 0;
+  for (let j = 0; j + 1 < n; j++) {
+    const h = time_s[j + 1] - time_s[j];
+    const u = input[j];
+    const m = (input[j + 1] - u) / h;
+    if (tau <= MIN_TIME_CONSTANT_S) {
+      out[j + 1] = input[j + 1];
+    } else {
+      if (!(Math.abs(h - lastH) <= 1e-12)) {
+        lastH = h;
+        decay = Math.exp(-h / tau);
+      }
+      out[j + 1] = u + m * (h - tau) + (out[j] - u + m * tau) * decay;
+    }
+  }
+  return out;
+}
+
+/**
+ * y_k = gain·x(t_k − deadTime_s) for the first-order lag driven by the linearly interpolated input
+ * (formula in the file comment). `states` is scratch of the same length (reused to avoid allocation).
+ */
+export function simulateFopdt(
+  time_s: Float64Array,
+  input: Float64Array,
+  gain: number,
+  timeConstant_s: number,
+  deadTime_s: number,
+  out: Float64Array = new Float64Array(time_s.length),
+  states: Float64Array = new Float64Array(time_s.length),
+): Float64Array {
+  const n = time_s.length;
+  const tau = timeConstant_s;
+  const lagFree = tau <= MIN_TIME_CONSTANT_S;
+  firstOrderStates(time_s, input, tau, states);
+  const t0 = time_s[0];
+  const tLast = time_s[n - 1];
+  let j = 0;
+  let lastS = Number.NaN;
+  let decay = 0;
+  for (let k = 0; k < n; k++) {
+    const q = time_s[k] - deadTime_s;
+    let x: number;
+    if (q <= t0) {
+      x = input[0];
+    } else if (q >= tLast) {
+      const s = q - tLast;
+      const u = input[n - 1];
+      x = lagFree ? u : u + (states[n - 1] - u) * Math.exp(-s / tau);
+    } else {
+      while (j + 1 < n - 1 && time_s[j + 1] <= q) j++;
+      while (j > 0 && time_s[j] > q) j--;
+      const s = q - time_s[j];
+      const u = input[j];
+      const m = (input[j + 1] - u) / (time_s[j + 1] - time_s[j]);
+      if (!lagFree && !(Math.abs(s - lastS) <= 1e-12)) {
+        lastS = s;
+        decay = Math.exp(-s / tau);
+      }
+      x = lagFree ? u + m * s : u + m * (s - tau) + (states[j] - u + m * tau) * decay;
+    }
+    out[k] = gain * x;
+  }
+  return out;
+}

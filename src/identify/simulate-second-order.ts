@@ -1,0 +1,150 @@
+/**
+ * Response of a second-order lag with an optional numerator zero and a continuous
+ * dead time, K(βs + 1)e^(−θs)/(s²/ωn² + 2ζs/ωn + 1), to a sampled input taken as
+ * LINEARLY INTERPOLATED between samples (first-order hold), like simulate-fopdt.ts.
+ *
+ * State space (controllable form): ẋ = A x + B u, A = [0 1; −ωn² −2ζωn], B = [0; 1],
+ * y = Kωn²(x1 + β x2). Over an interval of length s with input u_j + m·σ the exact
+ * update is x(s) = Φ(s)x + Γ(s)u_j + Λ(s)m, the blocks of exp(M s) with the augmented
+ * M = [A B 0; 0 0 1; 0 0 0] (Van Loan's construction). The output at t_k is
+ * y(t_k − θ), evaluated by the same update at the fractional offset. The system rests
+ * at the steady state of u_0 before the first sample. Finite for any real parameters.
+ */
+
+/** exp of a 4×4 matrix (row-major), by scaling and squaring with a degree-12 Taylor series. */
+export function expm4(m: Float64Array): Float64Array {
+  let norm = 0;
+  for (let r = 0; r < 4; r++) {
+    let row = 0;
+    for (let c = 0; c < 4; c++) row += Math.abs(m[r * 4 + c]);
+    norm = Math.max(norm, row);
+  }
+  const squarings = norm > 0.5 ? Math.ceil(Math.log2(norm / 0.5)) : 0;
+  const scale = Math.pow(2, -squarings);
+  const a = new Float64Array(16);
+  for (let i = 0; i < 16; i++) a[i] = m[i] * scale;
+  let result: Float64Array = new Float64Array(16);
+  let term: Float64Array = new Float64Array(16);
+  for (let i = 0; i < 4; i++) {
+    result[i * 5] = 1;
+    term[i * 5] = 1;
+  }
+  for (let k = 1; k <= 12; k++) {
+    const next = multiply4(term, a);
+    for (let i = 0; i < 16; i++) next[i] /= k;
+    term = next;
+    for (let i = 0; i < 16; i++) result[i] += term[i];
+  }
+  for (let s = 0; s < squarings; s++) result = multiply4(result, result);
+  return result;
+}
+
+function multiply4(x: Float64Array, y: Float64Array): Float64Array {
+  const out = new Float64Array(16);
+  for (let r = 0; r < 4; r++) {
+    for (let c = 0; c < 4; c++) {
+      let sum = 0;
+      for (let k = 0; k < 4; k++) sum += x[r * 4 + k] * y[k * 4 + c];
+      out[r * 4 + c] = sum;
+    }
+  }
+  return out;
+}
+
+/** The exact first-order-hold update over an interval of length s: 2×2 Φ and 2-vectors Γ, Λ. */
+interface Update {
+  readonly p11: number;
+  readonly p12: number;
+  readonly p21: number;
+  readonly p22: number;
+  readonly g1: number;
+  readonly g2: number;
+  readonly l1: number;
+  readonly l2: number;
+}
+
+function holdUpdate(a21: number, a22: number, s: number): Update {
+  const m = new Float64Array(16);
+  m[1] = s; // A12 = 1
+  m[4] = a21 * s;
+  m[5] = a22 * s;
+  m[6] = s; // B2 = 1
+  m[11] = s; // v̇ = m
+  const e = expm4(m);
+  return { p11: e[0], p12: e[1], p21: e[4], p22: e[5], g1: e[2], g2: e[6], l1: e[3], l2: e[7] };
+}
+
+/**
+ * Output of K(βs + 1)e^(−θs)/(s²/ωn² + 2ζs/ωn + 1) at each sample time (formulas in the file comment).
+ * Units: time s, ωn rad/s, β and θ s; output = gain × input unit.
+ */
+export function simulateSecondOrder(
+  time_s: Float64Array,
+  input: Float64Array,
+  gain: number,
+  naturalFrequency_radps: number,
+  dampingRatio: number,
+  zeroTimeConstant_s: number,
+  deadTime_s: number,
+  out: Float64Array = new Float64Array(time_s.length),
+): Float64Array {
+  const n = time_s.length;
+  const w2 = naturalFrequency_radps * naturalFrequency_radps;
+  const a21 = -w2;
+  const a22 = -2 * dampingRatio * naturalFrequency_radps;
+  const cache = new Map<number, Update>();
+  // Intervals are rounded to 1e−12 s so that uniform sampling reuses one cached update.
+  const update = (interval_s: number): Update => {
+    const s = Math.round(interval_s * 1e12) / 1e12;
+    let found = cache.get(s);
+    if (found === undefined) {
+      found = holdUpdate(a21, a22, s);
+      cache.set(s, found);
+    }
+    return found;
+  };
+  const x1 = new Float64Array(n);
+  const x2 = new Float64Array(n);
+  // Rest at the steady state of u_0: x1 = u_0/ωn² (so that y = K·u_0), x2 = 0.
+  x1[0] = w2 !== 0 ? input[0] / w2 : 0;
+  for (let j = 0; j + 1 < n; j++) {
+    const h = time_s[j + 1] - time_s[j];
+    const g = update(h);
+    const u = input[j];
+    const slope = (input[j + 1] - u) / h;
+    x1[j + 1] = g.p11 * x1[j] + g.p12 * x2[j] + g.g1 * u + g.l1 * slope;
+    x2[j + 1] = g.p21 * x1[j] + g.p22 * x2[j] + g.g2 * u + g.l2 * slope;
+  }
+  const c1 = gain * w2;
+  const c2 = gain * w2 * zeroTimeConstant_s;
+  const t0 = time_s[0];
+  const tLast = time_s[n - 1];
+  let j = 0;
+  for (let k = 0; k < n; k++) {
+    const q = time_s[k] - deadTime_s;
+    if (q <= t0) {
+      out[k] = c1 * x1[0] + c2 * x2[0];
+      continue;
+    }
+    let s: number;
+    let slope: number;
+    let index: number;
+    if (q >= tLast) {
+      index = n - 1;
+      s = q - tLast;
+      slope = 0;
+    } else {
+      while (j + 1 < n - 1 && time_s[j + 1] <= q) j++;
+      while (j > 0 && time_s[j] > q) j--;
+      index = j;
+      s = q - time_s[j];
+      slope = (input[j + 1] - input[j]) / (time_s[j + 1] - time_s[j]);
+    }
+    const g = update(s);
+    const u = input[index];
+    const y1 = g.p11 * x1[index] + g.p12 * x2[index] + g.g1 * u + g.l1 * slope;
+    const y2 = g.p21 * x1[index] + g.p22 * x2[index] + g.g2 * u + g.l2 * slope;
+    out[k] = c1 * y1 + c2 * y2;
+  }
+  return out;
+}
