@@ -24,3 +24,23 @@ export interface ControllerSettings {
   /** Computation latency from sample to actuator command, s (added to the hold delay Ts/2). */
   readonly computationLatency_s: number;
 }
+
+/**
+ * Ideal ("standard", ISA) form Kc·(1 + 1/(Ti·s) + Td·s). integralTime_s is null when
+ * there is no integral action (Ti = ∞). Same units for gain as PidGains.kp.
+ */
+export interface IdealPid {
+  readonly gain: number;
+  readonly integralTime_s: number | null;
+  readonly derivativeTime_s: number;
+}
+
+/**
+ * Series ("interacting", classical) form Kc·(1 + 1/(τI·s))·(1 + τD·s).
+ * integralTime_s is null when there is no integral action (τI = ∞).
+ */
+export interface SeriesPid {
+  readonly gain: number;
+  readonly integralTime_s: number | null;
+  readonly derivativeTime_s: number;
+}
