@@ -23,4 +23,59 @@ export interface LoopMargins {
   /** Peak of |L/(1 + L)|. */
   readonly complementarySensitivityPeak: number;
   readonly complementarySensitivityPeakFrequency_radps: number;
+  /** How the verdict and margins were reached (optional; filled by analyseOpenLoop). */
+  readonly analysis?: LoopAnalysisDetails;
+}
+
+/** The evidence behind a `LoopMargins` verdict: both stability tests and every crossing found. */
+export interface LoopAnalysisDetails {
+  /** From the roots of the closed-loop polynomial with the delay as a Padé approximant. */
+  readonly closedLoopPoleVerdict: 'stable' | 'unstable' | 'marginal';
+  readonly padeOrder: number;
+  /** From the Nyquist encirclement count with the exact delay; 'undetermined' with a reason when it cannot be counted. */
+  readonly encirclementVerdict: 'stable' | 'unstable' | 'marginal' | 'undetermined';
+  readonly encirclementNote: string | null;
+  /** Z = N + P: closed-loop poles in the right half-plane by the encirclement count. */
+  readonly closedLoopRightHalfPlanePoles: number | null;
+  /** P: open-loop poles in the open right half-plane. */
+  readonly openLoopRightHalfPlanePoles: number;
+  /** Open-loop poles at the origin (within the axis tolerance). */
+  readonly openLoopOriginPoles: number;
+  /** |L(j∞)| (0 for a strictly proper loop); ≥ 1 with a delay is a neutral-type loop, unstable. */
+  readonly highFrequencyLoopGain: number;
+  readonly neutralType: boolean;
+  /** Every gain crossover: frequency and its phase margin. */
+  readonly gainCrossovers: ReadonlyArray<{ readonly frequency_radps: number; readonly phaseMargin_deg: number }>;
+  /** Every crossing of the negative real axis with |L| ≥ 0.5 (and the largest below): frequency and the gain change that reaches −1, dB. */
+  readonly phaseCrossovers: ReadonlyArray<{ readonly frequency_radps: number; readonly gainMargin_dB: number }>;
+  /** Frequency band analysed, rad/s. */
+  readonly bandLow_radps: number;
+  readonly bandHigh_radps: number;
+}
+
+/**
+ * A discrete controller C(z) in the loop, evaluated on the unit circle z = e^(jωTs).
+ * Coefficients in powers of z, highest first. The zero-order hold is counted as a
+ * delay of Ts/2 (DOMAIN.md §5): margins use C(e^(jωTs))·e^(−jωTs/2); the stability
+ * verdict uses `continuousCounterpart`(s)·e^(−sTs/2).
+ */
+export interface DiscreteControllerFactor {
+  readonly numerator: readonly number[];
+  readonly denominator: readonly number[];
+  readonly sampleTime_s: number;
+  /** The continuous controller C(s) that C(z) implements (its delay field must be 0). */
+  readonly continuousCounterpart: { readonly numerator: readonly number[]; readonly denominator: readonly number[] };
+}
+
+/**
+ * An open loop L = N(s)/D(s)·e^(−delay_s·s) [· C(e^(jωTs))·e^(−jωTs/2)] in the
+ * negative-feedback sign convention: closed loop 1 + L = 0. `continuous` holds the
+ * plant (with its delay and any computation latency) and, for a continuous
+ * controller, the controller too. Coefficients highest power first.
+ */
+export interface OpenLoop {
+  readonly numerator: readonly number[];
+  readonly denominator: readonly number[];
+  readonly delay_s: number;
+  readonly discreteController?: DiscreteControllerFactor;
 }

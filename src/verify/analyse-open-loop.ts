@@ -1,0 +1,255 @@
+/**
+ * Stability and robustness of one loop L(s) (DOMAIN.md §5 and §5b): every gain and
+ * phase crossover, phase margin, both gain margins, delay margin, sensitivity peaks,
+ * and a verdict from two independent tests that must agree.
+ */
+import { addPolynomials, multiplyPolynomials } from '../lti/polynomial.js';
+import { polynomialRoots } from '../lti/roots.js';
+import { ratioToDecibels, radiansToDegrees } from '../core/units.js';
+import type { Complex } from '../lti/types.js';
+import { closedLoopPoleVerdict } from './closed-loop-poles.js';
+import { findGainCrossovers, findPhaseCrossovers, type GainCrossover, type PhaseCrossover } from './crossings.js';
+import { nyquistCount, type EncirclementResult } from './encirclement.js';
+import { frequencyBand, sampleLoop, type LoopGrid } from './frequency-grid.js';
+import { compileLoopResponse, type CompiledLoopResponse } from './loop-response.js';
+import { sensitivityPeaks } from './sensitivity.js';
+import type { LoopAnalysisDetails, LoopMargins, OpenLoop } from './types.js';
+import { validateOpenLoop } from './validate-loop.js';
+
+/** Every tolerance and grid setting of the analysis, in one place. */
+export const ANALYSIS_DEFAULTS = {
+  grid: {
+    pointsPerDecade: 40,
+    cornerFactor: 1e3,
+    maximumPhaseStep_rad: 0.2,
+    detailMagnitude: 0.2,
+    maximumPoints: 20_000,
+  },
+  /** A root with |Re| ≤ this × max(1 rad/s, largest root magnitude) is on the imaginary axis. */
+  axisRelativeTolerance: 1e-9,
+  /** Crossing frequencies are refined to this relative width. */
+  frequencyRelativeTolerance: 1e-12,
+  /** Sensitivity peaks are refined to this width in ln ω. */
+  peakLogFrequencyTolerance: 1e-7,
+  /** |L| within this of 1 at a crossing of the negative real axis: the loop passes through −1. */
+  crossingMagnitudeTolerance: 1e-9,
+  /** Negative-real-axis crossings with a grid estimate of |L| ≥ this are refined, plus the `refineLargestBelow` largest others. */
+  refineAbove: 0.5,
+  refineLargestBelow: 3,
+  /** The Padé band ends at the highest frequency where |L| ≥ this (only there can a pole cross the axis). */
+  padeBandMagnitude: 0.5,
+  /** A closed-loop pole with |Re| ≤ this × largest pole magnitude is on the axis. */
+  poleRelativeTolerance: 1e-9,
+  /** |L(j∞)| ≥ 1 − this with a delay makes a neutral-type loop. */
+  neutralTolerance: 1e-9,
+} as const;
+
+interface Sweep {
+  readonly compiled: CompiledLoopResponse;
+  readonly grid: LoopGrid;
+  readonly band: { readonly low_radps: number; readonly high_radps: number };
+  readonly gainCrossovers: readonly GainCrossover[];
+  readonly phaseCrossovers: readonly PhaseCrossover[];
+  readonly originPoles: number;
+  readonly rightHalfPlanePoles: number;
+  readonly otherAxisPoles: number;
+}
+
+/** Remove common factors s from N and D (exact zeros at the constant end). */
+function cancelCommonIntegrators(numerator: readonly number[], denominator: readonly number[]): { numerator: number[]; denominator: number[] } {
+  let n = numerator.length;
+  let d = denominator.length;
+  while (n > 1 && d > 1 && numerator[n - 1] === 0 && denominator[d - 1] === 0) {
+    n--;
+    d--;
+  }
+  return { numerator: numerator.slice(0, n), denominator: denominator.slice(0, d) };
+}
+
+function sweep(numerator: readonly number[], denominator: readonly number[], delay_s: number, discrete: OpenLoop['discreteController'] | null): Sweep {
+  const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? polynomialRoots(numerator) : [];
+  const poles: Complex[] = denominator.length > 1 ? polynomialRoots(denominator) : [];
+  let scale = 1;
+  for (const r of [...zeros, ...poles]) scale = Math.max(scale, Math.hypot(r.re, r.im));
+  const axisTolerance = ANALYSIS_DEFAULTS.axisRelativeTolerance * scale;
+  let originPoles = 0;
+  let rightHalfPlanePoles = 0;
+  let otherAxisPoles = 0;
+  const extraFrequencies: number[] = [];
+  for (const p of poles) {
+    if (Math.hypot(p.re, p.im) <= axisTolerance) originPoles++;
+    else if (Math.abs(p.re) <= axisTolerance) otherAxisPoles++;
+    else if (p.re > 0) rightHalfPlanePoles++;
+  }
+  for (const r of [...zeros, ...poles]) {
+    // Lightly damped roots: make sure the grid sees their resonance or notch.
+    if (r.im > Math.abs(r.re)) extraFrequencies.push(r.im - Math.abs(r.re), r.im, r.im + Math.abs(r.re));
+  }
+  const compiled = compileLoopResponse(numerator, denominator, delay_s, { zeros, poles, axisTolerance }, discrete ?? null);
+  const band = frequencyBand(compiled, originPoles, numerator.length < denominator.length, ANALYSIS_DEFAULTS.grid);
+  const grid = sampleLoop(compiled, band, extraFrequencies, ANALYSIS_DEFAULTS.grid);
+  return {
+    compiled,
+    grid,
+    band,
+    gainCrossovers: findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance),
+    phaseCrossovers: findPhaseCrossovers(compiled, grid, {
+      relativeTolerance: ANALYSIS_DEFAULTS.frequencyRelativeTolerance,
+      refineAbove: ANALYSIS_DEFAULTS.refineAbove,
+      refineLargestBelow: ANALYSIS_DEFAULTS.refineLargestBelow,
+    }),
+    originPoles,
+    rightHalfPlanePoles,
+    otherAxisPoles,
+  };
+}
+
+/** Phase margin from the continuous phase at a gain crossover: 180° + ∠L wrapped into (−180°, 180°], rad. */
+export function phaseMarginFromPhase(phase_rad: number): number {
+  const x = phase_rad + Math.PI;
+  return x - 2 * Math.PI * Math.ceil((x - Math.PI) / (2 * Math.PI));
+}
+
+/** Highest grid frequency (rad/s) where |L| ≥ threshold, extended by one grid step; the low end if none. */
+function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
+  const { frequency_radps: w, magnitude } = grid;
+  for (let i = w.length - 1; i >= 0; i--) if (magnitude[i] >= threshold) return w[Math.min(i + 1, w.length - 1)];
+  return w[0];
+}
+
+/**
+ * Analyse the open loop L(s) = N(s)/D(s)·e^(−θs) of a unity negative-feedback loop
+ * (closed loop 1 + L = 0), optionally with a discrete controller C(z) evaluated at
+ * z = e^(jωTs) and the hold counted as a Ts/2 delay. Frequencies rad/s, phases in
+ * degrees, gain margins in dB (20·log10 of the gain factor).
+ *
+ * - Gain crossovers (|L| = 1), refined by Brent's method: phase margin PMᵢ = 180° + ∠L
+ *   in (−180°, 180°]; the smallest is reported. Delay margin (stable loops only) =
+ *   min over crossovers of PMᵢ/ωᵢ, where a crossover with PMᵢ ≤ 0 needs
+ *   (PMᵢ + 360°)/ωᵢ of extra delay to reach −1 (the added delay turns the point clockwise).
+ * - Phase crossovers (∠L = −180°·(2k + 1)) and, for a loop without integrators whose
+ *   L(0) is negative, ω = 0: each is a gain factor 1/|L| at which −1 lies on the curve
+ *   and the encirclement count changes. Upper gain margin = the smallest factor > 1
+ *   (raising the gain destabilises), lower = the largest factor < 1, reported as a
+ *   negative dB figure 20·log10(1/|L|) (reducing the gain destabilises, as in a
+ *   conditionally stable double integrator with PID). Null when there is none.
+ * - Ms = max|1/(1 + L)| and Mt = max|L/(1 + L)|, refined by golden-section search.
+ * - Verdict: closed-loop poles with a Padé approximant (order by `padeOrderFor` from
+ *   ω·θ over the band where |L| ≥ 0.5) AND the Nyquist count Z = N + P with the exact
+ *   delay (indented contour at s = 0). Poles within 1e−9 (relative) of the axis are on
+ *   it, so a pole nudged from 0 to +1e−14 flips nothing. A delayed loop with
+ *   |L(j∞)| ≥ 1 (e.g. an unfiltered derivative on a plant of relative degree one) is a
+ *   neutral-type loop: unstable whatever the margins. If the two tests disagree the
+ *   verdict is 'undetermined' and stable is false.
+ * - With a discrete controller the verdict uses its continuous counterpart C(s) with an
+ *   extra Ts/2 delay (an approximation of sampling; margins use the exact C(e^(jωTs)))
+ *   and the band stops at the Nyquist frequency π/Ts.
+ * Throws `verify.invalidLoop` / `verify.improperLoop` on bad input.
+ */
+export function analyseOpenLoop(input: OpenLoop): LoopMargins {
+  const loop = validateOpenLoop(input);
+  const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
+  const discrete = loop.discreteController ?? null;
+  const margins = sweep(numerator, denominator, loop.delay_s, discrete);
+
+  // The loop the verdict is decided on (the same one unless a discrete controller is approximated).
+  const verdictLoop =
+    discrete === null
+      ? { numerator, denominator, delay_s: loop.delay_s }
+      : {
+          ...cancelCommonIntegrators(multiplyPolynomials(numerator, discrete.continuousCounterpart.numerator), multiplyPolynomials(denominator, discrete.continuousCounterpart.denominator)),
+          delay_s: loop.delay_s + discrete.sampleTime_s / 2,
+        };
+  const verdictSweep = discrete === null ? margins : sweep(verdictLoop.numerator, verdictLoop.denominator, verdictLoop.delay_s, null);
+
+  const highFrequencyLoopGain = verdictLoop.numerator.length === verdictLoop.denominator.length ? Math.abs(verdictLoop.numerator[0] / verdictLoop.denominator[0]) : 0;
+  const neutralType = verdictLoop.delay_s > 0 && highFrequencyLoopGain >= 1 - ANALYSIS_DEFAULTS.neutralTolerance;
+
+  const poles = closedLoopPoleVerdict(
+    verdictLoop.numerator,
+    verdictLoop.denominator,
+    verdictLoop.delay_s,
+    bandWhereGainMatters(verdictSweep.grid, ANALYSIS_DEFAULTS.padeBandMagnitude),
+    ANALYSIS_DEFAULTS.poleRelativeTolerance,
+  );
+  const vGrid = verdictSweep.grid;
+  const lastConstant = verdictLoop.denominator[verdictLoop.denominator.length - 1];
+  const count: EncirclementResult = nyquistCount({
+    phaseCrossovers: verdictSweep.phaseCrossovers,
+    originPoles: verdictSweep.originPoles,
+    rightHalfPlanePoles: verdictSweep.rightHalfPlanePoles,
+    otherAxisPoles: verdictSweep.otherAxisPoles,
+    lowPhase_rad: vGrid.phase_rad[0],
+    lowMagnitude: vGrid.magnitude[0],
+    zeroFrequencyValue: verdictSweep.originPoles === 0 && lastConstant !== 0 ? verdictLoop.numerator[verdictLoop.numerator.length - 1] / lastConstant : null,
+    magnitudeTolerance: ANALYSIS_DEFAULTS.crossingMagnitudeTolerance,
+  });
+  const encirclementVerdict: LoopAnalysisDetails['encirclementVerdict'] =
+    count.closedLoopRightHalfPlanePoles === null
+      ? count.reason !== null && count.reason.includes('marginal')
+        ? 'marginal'
+        : 'undetermined'
+      : count.closedLoopRightHalfPlanePoles === 0
+        ? 'stable'
+        : 'unstable';
+  let verdict: LoopMargins['verdict'];
+  if (neutralType) verdict = 'unstable';
+  else if (poles.verdict === encirclementVerdict) verdict = poles.verdict === 'stable' ? 'stable' : 'unstable';
+  else verdict = 'undetermined';
+  const stable = verdict === 'stable';
+
+  // Margins on the loop as the firmware runs it.
+  const crossovers = margins.gainCrossovers.map((c) => ({ frequency_radps: c.frequency_radps, phaseMargin_rad: phaseMarginFromPhase(c.phase_rad) }));
+  let phaseMargin: { value: number; frequency: number } | null = null;
+  let delayMargin: { value: number; frequency: number } | null = null;
+  for (const c of crossovers) {
+    if (phaseMargin === null || c.phaseMargin_rad < phaseMargin.value) phaseMargin = { value: c.phaseMargin_rad, frequency: c.frequency_radps };
+    const needed = (c.phaseMargin_rad > 0 ? c.phaseMargin_rad : c.phaseMargin_rad + 2 * Math.PI) / c.frequency_radps;
+    if (delayMargin === null || needed < delayMargin.value) delayMargin = { value: needed, frequency: c.frequency_radps };
+  }
+  const critical = margins.phaseCrossovers.filter((c) => c.refined).map((c) => ({ frequency_radps: c.frequency_radps, magnitude: c.magnitude }));
+  const mLast = margins.compiled.denominator[margins.compiled.denominator.length - 1];
+  if (margins.originPoles === 0 && mLast !== 0 && discrete === null) {
+    const zeroValue = numerator[numerator.length - 1] / mLast;
+    if (zeroValue < 0) critical.push({ frequency_radps: 0, magnitude: -zeroValue });
+  }
+  let lower: { magnitude: number; frequency: number } | null = null;
+  let upper: { magnitude: number; frequency: number } | null = null;
+  for (const c of critical) {
+    if (c.magnitude > 1 && (lower === null || c.magnitude < lower.magnitude)) lower = { magnitude: c.magnitude, frequency: c.frequency_radps };
+    if (c.magnitude < 1 && c.magnitude > 0 && (upper === null || c.magnitude > upper.magnitude)) upper = { magnitude: c.magnitude, frequency: c.frequency_radps };
+  }
+  const peaks = sensitivityPeaks(margins.compiled, margins.grid, ANALYSIS_DEFAULTS.peakLogFrequencyTolerance);
+
+  return {
+    stable,
+    verdict,
+    phaseMargin_deg: phaseMargin === null ? null : radiansToDegrees(phaseMargin.value),
+    phaseMarginFrequency_radps: phaseMargin === null ? null : phaseMargin.frequency,
+    lowerGainMargin_dB: lower === null ? null : ratioToDecibels(1 / lower.magnitude),
+    lowerGainMarginFrequency_radps: lower === null ? null : lower.frequency,
+    upperGainMargin_dB: upper === null ? null : ratioToDecibels(1 / upper.magnitude),
+    upperGainMarginFrequency_radps: upper === null ? null : upper.frequency,
+    delayMargin_s: stable && delayMargin !== null ? delayMargin.value : null,
+    delayMarginFrequency_radps: stable && delayMargin !== null ? delayMargin.frequency : null,
+    sensitivityPeak: peaks.sensitivity.value,
+    sensitivityPeakFrequency_radps: peaks.sensitivity.frequency_radps,
+    complementarySensitivityPeak: peaks.complementary.value,
+    complementarySensitivityPeakFrequency_radps: peaks.complementary.frequency_radps,
+    analysis: {
+      closedLoopPoleVerdict: poles.verdict,
+      padeOrder: poles.padeOrder,
+      encirclementVerdict,
+      encirclementNote: count.reason,
+      closedLoopRightHalfPlanePoles: count.closedLoopRightHalfPlanePoles,
+      openLoopRightHalfPlanePoles: verdictSweep.rightHalfPlanePoles,
+      openLoopOriginPoles: verdictSweep.originPoles,
+      highFrequencyLoopGain,
+      neutralType,
+      gainCrossovers: crossovers.map((c) => ({ frequency_radps: c.frequency_radps, phaseMargin_deg: radiansToDegrees(c.phaseMargin_rad) })),
+      phaseCrossovers: critical.map((c) => ({ frequency_radps: c.frequency_radps, gainMargin_dB: ratioToDecibels(1 / c.magnitude) })),
+      bandLow_radps: margins.band.low_radps,
+      bandHigh_radps: margins.band.high_radps,
+    },
+  };
+}

@@ -1,0 +1,219 @@
+/**
+ * The open-loop frequency response L(jω) compiled once for fast evaluation at many
+ * frequencies: value by Horner's rule (accurate) and a *continuous* phase, so that
+ * crossings of −180°·(2k + 1) are found without ever unwrapping a wrapped angle
+ * (DOMAIN.md §5b, "delay on a coarse grid").
+ *
+ * Continuous phase: arg L(jω) = arg(b0/a0) + Σ arg(jω − zᵢ) − Σ arg(jω − pᵢ) − ωθ
+ *   (+ the discrete controller's Σ arg(e^(jωTs) − z) − Σ arg(e^(jωTs) − p) − ωTs/2).
+ * Each root's angle is measured with its branch cut on a ray that the path of s
+ * (the positive imaginary axis, or the upper unit half circle for z) never meets, so
+ * every term is continuous in ω; the delay term is exact and analytic. The wrapped
+ * Horner angle is then moved to the branch nearest this continuous phase, which keeps
+ * the Horner accuracy and the continuity.
+ */
+import { polynomialRoots } from '../lti/roots.js';
+import type { Complex } from '../lti/types.js';
+
+/** Roots compiled for the continuous-angle sum. */
+interface RootAngles {
+  readonly re: Float64Array;
+  readonly im: Float64Array;
+  /** −1: cut to the left (standard atan2); +1: cut to the right (angle in [0, 2π)); 0: on the axis. */
+  readonly side: Int8Array;
+}
+
+/** The discrete controller part, compiled. */
+export interface CompiledDiscrete {
+  readonly numerator: Float64Array;
+  readonly denominator: Float64Array;
+  readonly sampleTime_s: number;
+  readonly zeros: RootAngles;
+  readonly poles: RootAngles;
+  readonly leadPhase_rad: number;
+}
+
+/** L(jω) ready to evaluate; build with `compileLoopResponse`. */
+export interface CompiledLoopResponse {
+  readonly numerator: Float64Array;
+  readonly denominator: Float64Array;
+  readonly delay_s: number;
+  readonly leadPhase_rad: number;
+  readonly zeros: RootAngles;
+  readonly poles: RootAngles;
+  readonly discrete: CompiledDiscrete | null;
+}
+
+/** Scratch record one evaluation writes into (reused: no allocation per frequency). */
+export interface LoopPoint {
+  re: number;
+  im: number;
+  magnitude: number;
+  /** Continuous (unwrapped) phase of L(jω), rad. */
+  phase_rad: number;
+}
+
+export const newLoopPoint = (): LoopPoint => ({ re: 0, im: 0, magnitude: 0, phase_rad: 0 });
+
+/**
+ * Compile L(s) = N(s)/D(s)·e^(−delay_s·s) [· C(e^(sTs))·e^(−sTs/2)] from its coefficients
+ * and the already computed roots of N and D. Roots closer to the imaginary axis than
+ * `axisTolerance` (rad/s, absolute) are treated as on it.
+ */
+export function compileLoopResponse(
+  numerator: readonly number[],
+  denominator: readonly number[],
+  delay_s: number,
+  roots: { readonly zeros: readonly Complex[]; readonly poles: readonly Complex[]; readonly axisTolerance: number },
+  discrete: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number } | null,
+): CompiledLoopResponse {
+  return {
+    numerator: Float64Array.from(numerator),
+    denominator: Float64Array.from(denominator),
+    delay_s,
+    leadPhase_rad: numerator[0] / denominator[0] < 0 ? Math.PI : 0,
+    zeros: continuousRootAngles(roots.zeros, roots.axisTolerance),
+    poles: continuousRootAngles(roots.poles, roots.axisTolerance),
+    discrete: discrete === null ? null : compileDiscrete(discrete),
+  };
+}
+
+function continuousRootAngles(roots: readonly Complex[], axisTolerance: number): RootAngles {
+  const re = new Float64Array(roots.length);
+  const im = new Float64Array(roots.length);
+  const side = new Int8Array(roots.length);
+  roots.forEach((root, i) => {
+    const onAxis = Math.abs(root.re) <= axisTolerance;
+    re[i] = onAxis ? 0 : root.re;
+    im[i] = root.im;
+    side[i] = onAxis ? 0 : root.re < 0 ? -1 : 1;
+  });
+  return { re, im, side };
+}
+
+function compileDiscrete(d: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number }): CompiledDiscrete {
+  return {
+    numerator: Float64Array.from(d.numerator),
+    denominator: Float64Array.from(d.denominator),
+    sampleTime_s: d.sampleTime_s,
+    zeros: discreteRootAngles(d.numerator.length > 1 ? polynomialRoots(d.numerator) : []),
+    poles: discreteRootAngles(d.denominator.length > 1 ? polynomialRoots(d.denominator) : []),
+    leadPhase_rad: d.numerator[0] / d.denominator[0] < 0 ? Math.PI : 0,
+  };
+}
+
+/** side +1: cut straight down from the root (angle in (−π/2, 3π/2]); −1: cut straight up. */
+function discreteRootAngles(roots: readonly Complex[]): RootAngles {
+  const re = new Float64Array(roots.length);
+  const im = new Float64Array(roots.length);
+  const side = new Int8Array(roots.length);
+  roots.forEach((root, i) => {
+    re[i] = root.re;
+    im[i] = root.im;
+    const aboveArc = root.im > 0 && Math.abs(root.re) < 1 && root.im * root.im + root.re * root.re > 1;
+    side[i] = aboveArc ? -1 : 1;
+  });
+  return { re, im, side };
+}
+
+function continuousAngleSum(roots: RootAngles, frequency_radps: number): number {
+  let sum = 0;
+  for (let i = 0; i < roots.re.length; i++) {
+    const x = -roots.re[i];
+    const y = frequency_radps - roots.im[i];
+    const side = roots.side[i];
+    if (side === 0) sum += y > 0 ? Math.PI / 2 : y < 0 ? -Math.PI / 2 : 0;
+    else {
+      const angle = Math.atan2(y, x);
+      sum += side > 0 && angle < 0 ? angle + 2 * Math.PI : angle;
+    }
+  }
+  return sum;
+}
+
+function discreteAngleSum(roots: RootAngles, cosine: number, sine: number): number {
+  let sum = 0;
+  for (let i = 0; i < roots.re.length; i++) {
+    const angle = Math.atan2(sine - roots.im[i], cosine - roots.re[i]);
+    if (roots.side[i] > 0) sum += angle < -Math.PI / 2 ? angle + 2 * Math.PI : angle;
+    else sum += angle > Math.PI / 2 ? angle - 2 * Math.PI : angle;
+  }
+  return sum;
+}
+
+/** Move `wrapped` by a multiple of 2π to the branch nearest `reference`. */
+const nearestBranch = (wrapped: number, reference: number): number =>
+  wrapped + 2 * Math.PI * Math.round((reference - wrapped) / (2 * Math.PI));
+
+/**
+ * L(jω) at ω = frequency_radps ≥ 0 (rad/s) into `out`: value, magnitude and continuous
+ * phase (rad). A pole exactly at jω gives an infinite magnitude.
+ */
+export function evaluateLoopResponse(loop: CompiledLoopResponse, frequency_radps: number, out: LoopPoint): void {
+  const w = frequency_radps;
+  // Horner at s = jω, highest power first.
+  let nRe = 0;
+  let nIm = 0;
+  const num = loop.numerator;
+  for (let i = 0; i < num.length; i++) {
+    const next = -nIm * w + num[i];
+    nIm = nRe * w;
+    nRe = next;
+  }
+  let dRe = 0;
+  let dIm = 0;
+  const den = loop.denominator;
+  for (let i = 0; i < den.length; i++) {
+    const next = -dIm * w + den[i];
+    dIm = dRe * w;
+    dRe = next;
+  }
+  const d2 = dRe * dRe + dIm * dIm;
+  let re = (nRe * dRe + nIm * dIm) / d2;
+  let im = (nIm * dRe - nRe * dIm) / d2;
+  const smooth = loop.leadPhase_rad + continuousAngleSum(loop.zeros, w) - continuousAngleSum(loop.poles, w);
+  let phase = nearestBranch(Math.atan2(im, re), smooth);
+  let delay = loop.delay_s;
+  const discrete = loop.discrete;
+  if (discrete !== null) {
+    const omega = w * discrete.sampleTime_s;
+    const c = Math.cos(omega);
+    const s = Math.sin(omega);
+    let zRe = 0;
+    let zIm = 0;
+    for (let i = 0; i < discrete.numerator.length; i++) {
+      const next = zRe * c - zIm * s + discrete.numerator[i];
+      zIm = zRe * s + zIm * c;
+      zRe = next;
+    }
+    let pRe = 0;
+    let pIm = 0;
+    for (let i = 0; i < discrete.denominator.length; i++) {
+      const next = pRe * c - pIm * s + discrete.denominator[i];
+      pIm = pRe * s + pIm * c;
+      pRe = next;
+    }
+    const p2 = pRe * pRe + pIm * pIm;
+    const cRe = (zRe * pRe + zIm * pIm) / p2;
+    const cIm = (zIm * pRe - zRe * pIm) / p2;
+    const smoothDiscrete = discrete.leadPhase_rad + discreteAngleSum(discrete.zeros, c, s) - discreteAngleSum(discrete.poles, c, s);
+    phase += nearestBranch(Math.atan2(cIm, cRe), smoothDiscrete);
+    const nextRe = re * cRe - im * cIm;
+    im = re * cIm + im * cRe;
+    re = nextRe;
+    delay += discrete.sampleTime_s / 2;
+  }
+  if (delay !== 0) {
+    const angle = w * delay;
+    const c = Math.cos(angle);
+    const s = Math.sin(angle);
+    const nextRe = re * c + im * s;
+    im = im * c - re * s;
+    re = nextRe;
+    phase -= angle;
+  }
+  out.re = re;
+  out.im = im;
+  out.magnitude = Math.hypot(re, im);
+  out.phase_rad = phase;
+}
