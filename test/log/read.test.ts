@@ -43,7 +43,7 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
   it.each([
     [';', 'semicolon'],
     ['\t', 'tab'],
-  ] as const)('detects the %s delimiter (%s) from the header', (delimiter) => {
+  ] as const)('detects the %s delimiter (%s) from the header', (delimiter, _name) => {
     const text = [HEADER, ...ROWS].map((line) => line.replaceAll(',', delimiter)).join('\n');
     const log = parseSteerLog(text, 'a.csv');
     expect(log.delimiter).toBe(delimiter);
