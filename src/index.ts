@@ -4,3 +4,36 @@
 export { SpeedbandError, isSpeedbandError, describeError, type ErrorLocation } from './core/errors.js';
 export { VERSION } from './version.js';
 export { runCli } from './cli/main.js';
+// Linear systems (src/lti/) and controllers (src/controller/)
+export type { TransferFunction, Complex, FrequencyResponse, StateSpaceModel, TimeResponse } from './lti/types.js';
+export { trimPolynomial, addPolynomials, multiplyPolynomials, scalePolynomial, differentiatePolynomial, evaluatePolynomial, polynomialDegree } from './lti/polynomial.js';
+export { polynomialRoots } from './lti/roots.js';
+export {
+  transferFunction,
+  seriesConnection,
+  parallelConnection,
+  unityFeedback,
+  scaleTransferFunction,
+  evaluateTransferFunction,
+  transferFunctionPoles,
+  transferFunctionZeros,
+  dcGain,
+  relativeDegree,
+} from './lti/transfer-function.js';
+export { frequencyResponse, logarithmicFrequencies, responseMagnitude } from './lti/frequency-response.js';
+export { padeApproximant, replaceDelayWithPade, padeOrderFor, padePhaseError_rad, PADE_DEFAULTS } from './lti/pade.js';
+export { controllableCanonicalForm } from './lti/state-space.js';
+export { stepResponse, inputResponse, zeroOrderHoldDiscretisation, type HoldDiscretisation } from './lti/time-response.js';
+export type { PidGains, PidForm, Discretisation, ControllerSettings, IdealPid, SeriesPid } from './controller/types.js';
+export { parallelToIdeal, idealToParallel, seriesToIdeal, idealToSeries, parallelToSeries, seriesToParallel } from './controller/pid-forms.js';
+export { pidTransferFunction, derivativeFilterTime_s } from './controller/pid.js';
+export {
+  discretePidCoefficients,
+  discretePidFrequencyResponse,
+  samplingDelay_s,
+  DISCRETE_PID_EQUATION,
+  type DiscretePidCoefficients,
+  type ControllerWarning,
+} from './controller/discrete.js';
+export { discretePidStep, initialDiscretePidState, type DiscretePidState } from './controller/discrete-step.js';
+export { CONTROLLER_DEFAULTS } from './controller/defaults.js';
