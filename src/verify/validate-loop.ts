@@ -10,7 +10,8 @@ const invalid = (message: string, jsonPath: string, details: Record<string, unkn
   throw new SpeedbandError('verify.invalidLoop', message, { location: { jsonPath }, details });
 };
 
-function checkCoefficients(values: readonly number[], name: string): void {
+/** Throws `verify.invalidLoop` unless `values` is a non-empty list of finite numbers; `name` is its JSON path. */
+export function checkCoefficients(values: readonly number[], name: string): void {
   if (!Array.isArray(values) || values.length === 0) invalid(`${name} is empty — expected coefficients, highest power first, e.g. [1, 2]`, name, {});
   values.forEach((value, i) => {
     if (typeof value !== 'number' || !Number.isFinite(value)) {

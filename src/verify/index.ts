@@ -1,0 +1,3 @@
+export { analyseOpenLoop, ANALYSIS_DEFAULTS, phaseMarginFromPhase } from './analyse-open-loop.js';
+export { analyseLoop, openLoopOf, parallelGainsOf, LOOP_DEFAULTS, type LoopDescription } from './analyse-loop.js';
+export type { LoopMargins, LoopAnalysisDetails, OpenLoop, DiscreteControllerFactor } from './types.js';
