@@ -1,9 +1,12 @@
 import type { BiasMode } from './fit-step-model.js';
+import type { CommandHold } from './simulate-fopdt.js';
 
 /** Every option of identification, defaulted in one place. */
 export interface IdentifyOptions {
   /** Yaw-rate sensor offset: fitted per step, or the mean of the pre-step window. */
   readonly biasMode: BiasMode;
+  /** How the logged command is taken between samples: held (what a rig writing a command at samples does; the default) or linearly interpolated. */
+  readonly hold: CommandHold;
   /** Also fit second order plus dead time (with and without a zero) and choose by BIC. */
   readonly fitSecondOrder: boolean;
   /** Refuse a step fit whose R² is below this. */
@@ -26,6 +29,7 @@ export interface IdentifyOptions {
 
 export const IDENTIFY_DEFAULTS: IdentifyOptions = {
   biasMode: 'fitted',
+  hold: 'zeroOrder',
   fitSecondOrder: true,
   minR2: 0.8,
   minSignalToNoise: 5,

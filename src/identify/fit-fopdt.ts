@@ -1,13 +1,13 @@
 import type { FopdtModel } from './types.js';
 import { fitStepModel, type BiasMode, type StepModelFit } from './fit-step-model.js';
-import { simulateFopdt } from './simulate-fopdt.js';
+import { simulateFopdt, type CommandHold } from './simulate-fopdt.js';
 import { meanOf, type StepSignals } from './step-signals.js';
 import { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
 
 /**
  * FOPDT fit of one step: K·e^(−θs)/(τs + 1) from the (relative) input to the output,
- * simulated on the MEASURED input, linearly interpolated between samples
- * (simulate-fopdt.ts), plus an output bias.
+ * simulated on the MEASURED input, held or linearly interpolated between samples
+ * (`hold`; simulate-fopdt.ts), plus an output bias.
  *
  * The dead time makes the sum of squares non-smooth and multi-modal on sampled data,
  * so the fit runs in two stages:
@@ -20,6 +20,8 @@ import { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
 
 export interface FopdtFitOptions {
   readonly biasMode: BiasMode;
+  /** How the logged command is taken between samples. */
+  readonly hold: CommandHold;
   /** Points of the coarse grid over dead time and time constant. */
   readonly deadTimeGridPoints: number;
   readonly timeConstantGridPoints: number;
@@ -29,6 +31,7 @@ export interface FopdtFitOptions {
 
 export const FOPDT_FIT_DEFAULTS: FopdtFitOptions = {
   biasMode: 'fitted',
+  hold: 'zeroOrder',
   deadTimeGridPoints: 12,
   timeConstantGridPoints: 8,
   refinedStarts: 1,
@@ -106,7 +109,7 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
     const deadTime_s = (deadTimeMax_s * i) / (options.deadTimeGridPoints - 1);
     for (let j = 0; j < options.timeConstantGridPoints; j++) {
       const timeConstant_s = timeConstantMin_s * Math.pow(timeConstantMax_s / timeConstantMin_s, j / (options.timeConstantGridPoints - 1));
-      const x = simulateFopdt(coarseTime, coarseInput, 1, timeConstant_s, deadTime_s, scratch, states);
+      const x = simulateFopdt(coarseTime, coarseInput, 1, timeConstant_s, deadTime_s, options.hold, scratch, states);
       const { gain, ssr } = projectLinear(coarseOutput, x, fixedBias);
       grid.push({ deadTime_s, timeConstant_s, gain, ssr });
     }
@@ -121,7 +124,7 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
     signals,
     {
       names: ['gain', 'timeConstant_s', 'deadTime_s'],
-      simulate: (p) => simulateFopdt(time_s, input, p[0], p[1], p[2], new Float64Array(n), fullStates),
+      simulate: (p) => simulateFopdt(time_s, input, p[0], p[1], p[2], options.hold, new Float64Array(n), fullStates),
       starts,
       scale: [gainScale, Math.max(grid[0].timeConstant_s, 0.02), 0.05],
       lower: [-Infinity, 0, 0],

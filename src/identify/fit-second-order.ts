@@ -1,6 +1,7 @@
 import type { FopdtModel, SecondOrderModel } from './types.js';
 import { fitStepModel, type BiasMode, type StepModelFit } from './fit-step-model.js';
 import { simulateSecondOrder } from './simulate-second-order.js';
+import type { CommandHold } from './simulate-fopdt.js';
 import type { StepSignals } from './step-signals.js';
 
 /**
@@ -18,7 +19,7 @@ export interface SecondOrderFit {
 }
 
 /** Fit the second-order model (with a zero when `withZero`), seeded from an FOPDT fit. Units: ωn rad/s, β and θ s. */
-export function fitSecondOrder(signals: StepSignals, seed: FopdtModel, withZero: boolean, biasMode: BiasMode): SecondOrderFit {
+export function fitSecondOrder(signals: StepSignals, seed: FopdtModel, withZero: boolean, biasMode: BiasMode, hold: CommandHold): SecondOrderFit {
   const { time_s, input } = signals;
   const n = time_s.length;
   const window_s = time_s[n - 1] - time_s[0];
@@ -34,8 +35,8 @@ export function fitSecondOrder(signals: StepSignals, seed: FopdtModel, withZero:
         [seed.gain, 1.2 / tau, 0.6, theta],
       ];
   const simulate = withZero
-    ? (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], p[3], p[4])
-    : (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], 0, p[3]);
+    ? (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], p[3], p[4], hold)
+    : (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], 0, p[3], hold);
   const gainScale = Math.max(Math.abs(seed.gain), 1e-6);
   const fit = fitStepModel(
     signals,

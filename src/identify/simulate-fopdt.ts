@@ -1,10 +1,11 @@
 /**
  * Fast, exact response of a first-order lag with a continuous dead time,
- * K·e^(−θs)/(τs + 1), to a sampled input that is taken as LINEARLY INTERPOLATED
- * between samples (a real steering step is a ramp; a zero-order hold would add half
- * a sample of apparent delay).
+ * K·e^(−θs)/(τs + 1), to a sampled input, either HELD between samples (zero-order
+ * hold: what a rig or controller writing a command at samples produces, and what the
+ * log simulator assumes) or LINEARLY INTERPOLATED between them (for a command that is
+ * a continuous ramp sampled by the logger). The choice is `CommandHold`.
  *
- * Between samples t_j and t_j + h the input is u_j + m·s (m = slope), and the
+ * Between samples t_j and t_j + h the input is u_j + m·s (m = slope, 0 when held), and the
  * lag state solves τẋ = −x + u_j + m·s exactly:
  *   x(t_j + s) = u_j + m(s − τ) + (x_j − u_j + mτ)·e^(−s/τ).
  * The output at t_k is K·x(t_k − θ), evaluated with the same formula at the
@@ -17,8 +18,12 @@
  */
 const MIN_TIME_CONSTANT_S = 1e-9;
 
+/** How the sampled command is taken between samples: held (zero-order hold) or linearly interpolated. */
+export type CommandHold = 'zeroOrder' | 'linear';
+
 /** Lag state at every sample (exact for the linearly interpolated input), starting from rest at u_0. */
-export function firstOrderStates(time_s: Float64Array, input: Float64Array, timeConstant_s: number, out: Float64Array): Float64Array {
+export function firstOrderStates(time_s: Float64Array, input: Float64Array, timeConstant_s: number, hold: CommandHold, out: Float64Array): Float64Array {
+  const slopes = hold === 'linear' ? 1 : 0;
   const n = time_s.length;
   const tau = timeConstant_s;
   out[0] = input[0];
@@ -28,9 +33,9 @@ export function firstOrderStates(time_s: Float64Array, input: Float64Array, time
   for (let j = 0; j + 1 < n; j++) {
     const h = time_s[j + 1] - time_s[j];
     const u = input[j];
-    const m = (input[j + 1] - u) / h;
+    const m = (slopes * (input[j + 1] - u)) / h;
     if (tau <= MIN_TIME_CONSTANT_S) {
-      out[j + 1] = input[j + 1];
+      out[j + 1] = u + m * h;
     } else {
       if (!(Math.abs(h - lastH) <= 1e-12)) {
         lastH = h;
@@ -52,13 +57,15 @@ export function simulateFopdt(
   gain: number,
   timeConstant_s: number,
   deadTime_s: number,
+  hold: CommandHold,
   out: Float64Array = new Float64Array(time_s.length),
   states: Float64Array = new Float64Array(time_s.length),
 ): Float64Array {
   const n = time_s.length;
   const tau = timeConstant_s;
   const lagFree = tau <= MIN_TIME_CONSTANT_S;
-  firstOrderStates(time_s, input, tau, states);
+  firstOrderStates(time_s, input, tau, hold, states);
+  const slopes = hold === 'linear' ? 1 : 0;
   const t0 = time_s[0];
   const tLast = time_s[n - 1];
   let j = 0;
@@ -78,7 +85,7 @@ export function simulateFopdt(
       while (j > 0 && time_s[j] > q) j--;
       const s = q - time_s[j];
       const u = input[j];
-      const m = (input[j + 1] - u) / (time_s[j + 1] - time_s[j]);
+      const m = (slopes * (input[j + 1] - u)) / (time_s[j + 1] - time_s[j]);
       if (!lagFree && !(Math.abs(s - lastS) <= 1e-12)) {
         lastS = s;
         decay = Math.exp(-s / tau);

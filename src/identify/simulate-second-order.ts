@@ -1,7 +1,7 @@
 /**
  * Response of a second-order lag with an optional numerator zero and a continuous
- * dead time, K(βs + 1)e^(−θs)/(s²/ωn² + 2ζs/ωn + 1), to a sampled input taken as
- * LINEARLY INTERPOLATED between samples (first-order hold), like simulate-fopdt.ts.
+ * dead time, K(βs + 1)e^(−θs)/(s²/ωn² + 2ζs/ωn + 1), to a sampled input held or
+ * linearly interpolated between samples (`CommandHold`, as in simulate-fopdt.ts; m = 0 when held).
  *
  * State space (controllable form): ẋ = A x + B u, A = [0 1; −ωn² −2ζωn], B = [0; 1],
  * y = Kωn²(x1 + β x2). Over an interval of length s with input u_j + m·σ the exact
@@ -10,6 +10,8 @@
  * y(t_k − θ), evaluated by the same update at the fractional offset. The system rests
  * at the steady state of u_0 before the first sample. Finite for any real parameters.
  */
+
+import type { CommandHold } from './simulate-fopdt.js';
 
 /** exp of a 4×4 matrix (row-major), by scaling and squaring with a degree-12 Taylor series. */
 export function expm4(m: Float64Array): Float64Array {
@@ -86,9 +88,11 @@ export function simulateSecondOrder(
   dampingRatio: number,
   zeroTimeConstant_s: number,
   deadTime_s: number,
+  hold: CommandHold,
   out: Float64Array = new Float64Array(time_s.length),
 ): Float64Array {
   const n = time_s.length;
+  const slopes = hold === 'linear' ? 1 : 0;
   const w2 = naturalFrequency_radps * naturalFrequency_radps;
   const a21 = -w2;
   const a22 = -2 * dampingRatio * naturalFrequency_radps;
@@ -111,7 +115,7 @@ export function simulateSecondOrder(
     const h = time_s[j + 1] - time_s[j];
     const g = update(h);
     const u = input[j];
-    const slope = (input[j + 1] - u) / h;
+    const slope = (slopes * (input[j + 1] - u)) / h;
     x1[j + 1] = g.p11 * x1[j] + g.p12 * x2[j] + g.g1 * u + g.l1 * slope;
     x2[j + 1] = g.p21 * x1[j] + g.p22 * x2[j] + g.g2 * u + g.l2 * slope;
   }
@@ -138,7 +142,7 @@ export function simulateSecondOrder(
       while (j > 0 && time_s[j] > q) j--;
       index = j;
       s = q - time_s[j];
-      slope = (input[j + 1] - input[j]) / (time_s[j + 1] - time_s[j]);
+      slope = (slopes * (input[j + 1] - input[j])) / (time_s[j + 1] - time_s[j]);
     }
     const g = update(s);
     const u = input[index];

@@ -3,7 +3,12 @@ import { fitFopdt, FOPDT_FIT_DEFAULTS } from '../../src/identify/fit-fopdt.js';
 import { simulateFopdt } from '../../src/identify/simulate-fopdt.js';
 import { twoPointEstimate } from '../../src/identify/two-point.js';
 import { runPython } from '../helpers/python.js';
+import { inputResponse } from '../../src/lti/time-response.js';
+import { transferFunction } from '../../src/lti/transfer-function.js';
 import { RAMP_STEP, rampStepSignals } from './synthetic.js';
+
+// The synthetic command is a continuous ramp, so the fits take it as linearly interpolated.
+const LINEAR = { ...FOPDT_FIT_DEFAULTS, hold: 'linear' } as const;
 
 // Tolerances, named with units.
 const GAIN_RELATIVE = 0.02; // brief: gain within 2 %
@@ -15,17 +20,29 @@ describe('simulateFopdt(time, input, K, τ, θ)', () => {
     // Source: closed-form ramp response r(t) = t − τ(1 − e^(−t/τ)) (textbook; test/identify/synthetic.ts)
     for (const deadTime_s of [0, 0.05, 0.0437, 0.2]) {
       const signals = rampStepSignals({ noise: 0, bias: 0, deadTime_s });
-      const simulated = simulateFopdt(signals.time_s, signals.input, RAMP_STEP.gain, RAMP_STEP.timeConstant_s, deadTime_s);
+      const simulated = simulateFopdt(signals.time_s, signals.input, RAMP_STEP.gain, RAMP_STEP.timeConstant_s, deadTime_s, 'linear');
       let worst = 0;
       for (let i = 0; i < simulated.length; i++) worst = Math.max(worst, Math.abs(simulated[i] - signals.clean[i]));
       expect(worst).toBeLessThan(1e-12);
     }
   });
 
+  it('with the command held between samples equals the exact zero-order-hold response of e^(−θs)K/(τs + 1) from src/lti', () => {
+    // Source: inputResponse of src/lti/time-response.ts (exact ZOH with fractional delay; written independently)
+    const signals = rampStepSignals({ noise: 0 });
+    for (const deadTime_s of [0, 0.0437, 0.2]) {
+      const reference = inputResponse(transferFunction([2.5], [0.35, 1], deadTime_s), signals.time_s, signals.input);
+      const simulated = simulateFopdt(signals.time_s, signals.input, 2.5, 0.35, deadTime_s, 'zeroOrder');
+      let worst = 0;
+      for (let i = 0; i < simulated.length; i++) worst = Math.max(worst, Math.abs(simulated[i] - reference.output[i]));
+      expect(worst).toBeLessThan(1e-10);
+    }
+  });
+
   it('is continuous in the dead time across a sample boundary', () => {
     const signals = rampStepSignals({ noise: 0 });
-    const below = simulateFopdt(signals.time_s, signals.input, 1, 0.3, 0.1 - 1e-9);
-    const above = simulateFopdt(signals.time_s, signals.input, 1, 0.3, 0.1 + 1e-9);
+    const below = simulateFopdt(signals.time_s, signals.input, 1, 0.3, 0.1 - 1e-9, 'linear');
+    const above = simulateFopdt(signals.time_s, signals.input, 1, 0.3, 0.1 + 1e-9, 'linear');
     let worst = 0;
     for (let i = 0; i < below.length; i++) worst = Math.max(worst, Math.abs(below[i] - above[i]));
     expect(worst).toBeLessThan(1e-9);
@@ -36,7 +53,7 @@ describe('fitFopdt(signals)', () => {
   it('recovers gain within 2 %, time constant within 10 % and dead time within 10 ms from a noisy ramped step', () => {
     // Source: the generating parameters (closed-form data, seeded noise 0.004 rad/s)
     for (const seed of [11, 12, 13]) {
-      const fit = fitFopdt(rampStepSignals({ seed }));
+      const fit = fitFopdt(rampStepSignals({ seed }), LINEAR);
       expect(fit.fit.stopReason).toBe('converged');
       expect(Math.abs(fit.model.gain / RAMP_STEP.gain - 1)).toBeLessThan(GAIN_RELATIVE);
       expect(Math.abs(fit.model.timeConstant_s / RAMP_STEP.timeConstant_s - 1)).toBeLessThan(TIME_CONSTANT_RELATIVE);
@@ -47,7 +64,7 @@ describe('fitFopdt(signals)', () => {
 
   it('returns the exact parameters on noise-free data, with the bias fitted or taken from the pre-step window', () => {
     for (const biasMode of ['fitted', 'preStep'] as const) {
-      const fit = fitFopdt(rampStepSignals({ noise: 0 }), { ...FOPDT_FIT_DEFAULTS, biasMode });
+      const fit = fitFopdt(rampStepSignals({ noise: 0 }), { ...LINEAR, biasMode });
       expect(fit.model.gain).toBeCloseTo(RAMP_STEP.gain, 5);
       expect(fit.model.timeConstant_s).toBeCloseTo(RAMP_STEP.timeConstant_s, 5);
       expect(fit.model.deadTime_s).toBeCloseTo(RAMP_STEP.deadTime_s, 5);
@@ -56,7 +73,7 @@ describe('fitFopdt(signals)', () => {
   });
 
   it('keeps the sign of a negative (right-hand) step and of a negative plant gain', () => {
-    const fit = fitFopdt(rampStepSignals({ amplitude: -0.03, gain: -1.8, seed: 5 }));
+    const fit = fitFopdt(rampStepSignals({ amplitude: -0.03, gain: -1.8, seed: 5 }), LINEAR);
     expect(fit.model.gain).toBeLessThan(0);
     expect(Math.abs(fit.model.gain / -1.8 - 1)).toBeLessThan(GAIN_RELATIVE);
   });
@@ -64,7 +81,7 @@ describe('fitFopdt(signals)', () => {
   it('agrees with scipy.optimize.least_squares on the same data and model within 1 % per parameter', () => {
     const cases = [11, 21, 31].map((seed) => {
       const signals = rampStepSignals({ seed, deadTime_s: 0.083, timeConstant_s: 0.52, gain: 1.7 });
-      return { signals, fit: fitFopdt(signals) };
+      return { signals, fit: fitFopdt(signals, LINEAR) };
     });
     // Source: scipy.optimize.least_squares (trust-region reflective) on the closed-form ramp-step FOPDT model
     const reference = runPython<number[][]>(
@@ -111,7 +128,7 @@ print(json.dumps(out))
     let deadTimeHits = 0;
     const runs = 50;
     for (let seed = 100; seed < 100 + runs; seed++) {
-      const fit = fitFopdt(rampStepSignals({ seed }));
+      const fit = fitFopdt(rampStepSignals({ seed }), LINEAR);
       const { lower95, upper95 } = fit.fit.uncertainty;
       if (lower95[0] <= RAMP_STEP.gain && RAMP_STEP.gain <= upper95[0]) gainHits++;
       if (lower95[1] <= RAMP_STEP.timeConstant_s && RAMP_STEP.timeConstant_s <= upper95[1]) timeConstantHits++;
@@ -137,7 +154,7 @@ describe("twoPointEstimate(signals) — Smith's 28.3 %/63.2 % method", () => {
 
   it('lies near the least-squares fit on noisy data (an independent check of the starts): τ within 20 %, θ within 30 ms', () => {
     for (const seed of [1, 2, 3]) {
-      const fit = fitFopdt(rampStepSignals({ seed }));
+      const fit = fitFopdt(rampStepSignals({ seed }), LINEAR);
       expect(fit.twoPoint).not.toBeNull();
       expect(Math.abs(fit.twoPoint!.timeConstant_s / fit.model.timeConstant_s - 1)).toBeLessThan(0.2);
       expect(Math.abs(fit.twoPoint!.deadTime_s - fit.model.deadTime_s)).toBeLessThan(0.03);

@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { makeRandom } from '../../src/core/random.js';
-import { fitFopdt } from '../../src/identify/fit-fopdt.js';
+import { fitFopdt, FOPDT_FIT_DEFAULTS } from '../../src/identify/fit-fopdt.js';
+
+const LINEAR = { ...FOPDT_FIT_DEFAULTS, hold: 'linear' } as const;
 import { fitSecondOrder } from '../../src/identify/fit-second-order.js';
 import { simulateSecondOrder } from '../../src/identify/simulate-second-order.js';
 import type { StepSignals } from '../../src/identify/step-signals.js';
@@ -37,7 +39,7 @@ print(json.dumps(out))
       { t: Array.from(time_s), u: Array.from(input), h, cases },
     );
     cases.forEach((c, i) => {
-      const y = simulateSecondOrder(time_s, input, c.gain, c.naturalFrequency_radps, c.dampingRatio, c.zeroTimeConstant_s, c.deadTime_s);
+      const y = simulateSecondOrder(time_s, input, c.gain, c.naturalFrequency_radps, c.dampingRatio, c.zeroTimeConstant_s, c.deadTime_s, 'linear');
       let worst = 0;
       for (let k = 0; k < n; k++) worst = Math.max(worst, Math.abs(y[k] - reference[i][k]));
       expect(worst).toBeLessThan(1e-9);
@@ -48,10 +50,10 @@ print(json.dumps(out))
 describe('fitSecondOrder(signals, seed, withZero)', () => {
   it('recovers a second-order-with-zero step and beats the FOPDT by BIC; on FOPDT data the FOPDT keeps the lower BIC', () => {
     const random = makeRandom(7);
-    const clean = simulateSecondOrder(time_s, input, TRUE.gain, TRUE.naturalFrequency_radps, TRUE.dampingRatio, TRUE.zeroTimeConstant_s, TRUE.deadTime_s);
+    const clean = simulateSecondOrder(time_s, input, TRUE.gain, TRUE.naturalFrequency_radps, TRUE.dampingRatio, TRUE.zeroTimeConstant_s, TRUE.deadTime_s, 'linear');
     const signals: StepSignals = { time_s, input, output: clean.map((v) => v + 0.003 * random.normal()), preStepSamples: 100 };
-    const fopdt = fitFopdt(signals);
-    const withZero = fitSecondOrder(signals, fopdt.model, true, 'fitted');
+    const fopdt = fitFopdt(signals, LINEAR);
+    const withZero = fitSecondOrder(signals, fopdt.model, true, 'fitted', 'linear');
     expect(withZero.fit.stopReason).toBe('converged');
     // Source: the generating parameters
     expect(Math.abs(withZero.model.gain / TRUE.gain - 1)).toBeLessThan(0.02);
@@ -60,8 +62,8 @@ describe('fitSecondOrder(signals, seed, withZero)', () => {
     expect(withZero.fit.quality.bic).toBeLessThan(fopdt.fit.quality.bic);
 
     const fopdtData = rampStepSignals({ seed: 3 });
-    const fopdtOnFopdt = fitFopdt(fopdtData);
-    const secondOnFopdt = fitSecondOrder(fopdtData, fopdtOnFopdt.model, true, 'fitted');
+    const fopdtOnFopdt = fitFopdt(fopdtData, LINEAR);
+    const secondOnFopdt = fitSecondOrder(fopdtData, fopdtOnFopdt.model, true, 'fitted', 'linear');
     expect(fopdtOnFopdt.fit.quality.bic).toBeLessThan(secondOnFopdt.fit.quality.bic);
   });
 });
