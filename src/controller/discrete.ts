@@ -40,13 +40,16 @@ export interface DiscretePidCoefficients {
   readonly integralGain: number;
   /** Tf (s), the continuous derivative filter time constant. */
   readonly derivativeFilterTime_s: number;
-  /** p, the discrete derivative-filter pole (D_k = p·D_(k−1) + …). */
+  /** p, the discrete derivative-filter pole (D_k = p·D_(k−1) + …); 0 when kd = 0 (no derivative state). */
   readonly derivativeFilterPole: number;
   /** g, multiplies (e_k − e_(k−1)) in the derivative update. */
   readonly derivativeDifferenceGain: number;
-  /** C(z) numerator, coefficients of z⁰, z⁻¹, z⁻² (fixed gains). */
+  /**
+   * C(z) numerator, coefficients of z⁰, z⁻¹, z⁻² (fixed gains). Without integral or
+   * derivative action the cancelled factor is left out, so the lists may be shorter.
+   */
   readonly numerator: readonly number[];
-  /** C(z) denominator, coefficients of z⁰, z⁻¹, z⁻²: (1 − z⁻¹)(1 − p·z⁻¹). */
+  /** C(z) denominator, coefficients of z⁰, z⁻¹, …: (1 − z⁻¹)(1 − p·z⁻¹) with ki ≠ 0 and kd ≠ 0. */
   readonly denominator: readonly number[];
   /** The difference equation in words and symbols, for exports. */
   readonly equation: string;
@@ -80,11 +83,7 @@ export function discretePidCoefficients(gains: PidGains, settings: ControllerSet
       message: `Tustin derivative filter pole is ${pole.toPrecision(3)} (Tf = ${tf.toPrecision(3)} s, T = ${t} s): the derivative term alternates sign every sample${pole === -1 ? ' and never decays' : ''} — use backward Euler or a filter time Tf = Td/N above T/2`,
     });
   }
-  const i0 = ki * weightCurrent;
-  const i1 = ki * weightPrevious;
-  const d0 = differenceGain;
-  const numerator = [kp + i0 + d0, -kp * (1 + pole) + i1 - i0 * pole - 2 * d0, kp * pole - i1 * pole + d0];
-  const denominator = [1, -(1 + pole), pole];
+  const { numerator, denominator } = combinedTransferFunction(kp, ki * weightCurrent, ki * weightPrevious, differenceGain, kd === 0 ? 0 : pole);
   return {
     sampleTime_s: t,
     discretisation: settings.discretisation,
@@ -93,13 +92,32 @@ export function discretePidCoefficients(gains: PidGains, settings: ControllerSet
     integralWeightPrevious_s: weightPrevious,
     integralGain: ki,
     derivativeFilterTime_s: tf,
-    derivativeFilterPole: pole,
+    derivativeFilterPole: kd === 0 ? 0 : pole,
     derivativeDifferenceGain: differenceGain,
     numerator,
     denominator,
     equation: DISCRETE_PID_EQUATION,
     warnings,
   };
+}
+
+/**
+ * C(z) = kp + (i0 + i1·z⁻¹)/(1 − z⁻¹) + d0·(1 − z⁻¹)/(1 − p·z⁻¹) over one denominator,
+ * coefficients of z⁰, z⁻¹, z⁻². A term that is absent leaves its pole out (no
+ * cancelled factor, so no 0/0 at ω = 0 or at the Nyquist frequency).
+ */
+function combinedTransferFunction(kp: number, i0: number, i1: number, d0: number, p: number): { numerator: number[]; denominator: number[] } {
+  const integral = i0 !== 0 || i1 !== 0;
+  const derivative = d0 !== 0;
+  if (integral && derivative) {
+    return {
+      numerator: [kp + i0 + d0, -kp * (1 + p) + i1 - i0 * p - 2 * d0, kp * p - i1 * p + d0],
+      denominator: [1, -(1 + p), p],
+    };
+  }
+  if (integral) return { numerator: [kp + i0, -kp + i1], denominator: [1, -1] };
+  if (derivative) return { numerator: [kp + d0, -kp * p - d0], denominator: [1, -p] };
+  return { numerator: [kp], denominator: [1] };
 }
 
 /**
@@ -114,6 +132,10 @@ export function discretePidFrequencyResponse(gains: PidGains, settings: Controll
   const count = frequency_radps.length;
   const real = new Float64Array(count);
   const imaginary = new Float64Array(count);
+  const b1 = b[1] ?? 0;
+  const b2 = b[2] ?? 0;
+  const a1 = a[1] ?? 0;
+  const a2 = a[2] ?? 0;
   for (let k = 0; k < count; k++) {
     const angle = frequency_radps[k] * t;
     const c1 = Math.cos(angle);
@@ -121,10 +143,10 @@ export function discretePidFrequencyResponse(gains: PidGains, settings: Controll
     const c2 = Math.cos(2 * angle);
     const s2 = Math.sin(2 * angle);
     // z⁻¹ = cos − j·sin
-    const nRe = b[0] + b[1] * c1 + b[2] * c2;
-    const nIm = -b[1] * s1 - b[2] * s2;
-    const dRe = a[0] + a[1] * c1 + a[2] * c2;
-    const dIm = -a[1] * s1 - a[2] * s2;
+    const nRe = b[0] + b1 * c1 + b2 * c2;
+    const nIm = -b1 * s1 - b2 * s2;
+    const dRe = a[0] + a1 * c1 + a2 * c2;
+    const dIm = -a1 * s1 - a2 * s2;
     const d2 = dRe * dRe + dIm * dIm;
     real[k] = (nRe * dRe + nIm * dIm) / d2;
     imaginary[k] = (nIm * dRe - nRe * dIm) / d2;

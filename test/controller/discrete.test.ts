@@ -95,6 +95,21 @@ describe('discretePidCoefficients(gains, settings)', () => {
     expect(euler.warnings).toEqual([]);
   });
 
+  it('leaves out cancelled factors: a PD has no pole at z = 1 and a PI under Tustin no pole at z = −1 (finite at ω = 0 and π/T)', () => {
+    const pd = discretePidCoefficients({ kp: 2, ki: 0, kd: 0.4 }, settingsFor('tustin'));
+    expect(pd.denominator).toHaveLength(2);
+    const pi = discretePidCoefficients({ kp: 2, ki: 1, kd: 0 }, settingsFor('tustin'));
+    expect(pi.denominator).toEqual([1, -1]);
+    const at = discretePidFrequencyResponse({ kp: 2, ki: 0, kd: 0.4 }, settingsFor('tustin'), Float64Array.from([0, Math.PI / 0.01]));
+    // Source: at ω = 0 the derivative term vanishes, leaving kp (textbook: C(z = 1) = kp for a PD).
+    expect(at.real[0]).toBeCloseTo(2, 14);
+    expect(at.imaginary[0]).toBe(0);
+    expect(Number.isFinite(at.real[1])).toBe(true);
+    const piAt = discretePidFrequencyResponse({ kp: 2, ki: 1, kd: 0 }, settingsFor('tustin'), Float64Array.from([Math.PI / 0.01]));
+    // Source: Tustin maps ω = π/T to s = ∞, where ki/s → 0: C = kp.
+    expect(piAt.real[0]).toBeCloseTo(2, 12);
+  });
+
   it('refuses a sample time ≤ 0 and an unknown discretisation with controller.invalidSettings', () => {
     const code = (settings: ControllerSettings): string | undefined => {
       try {
