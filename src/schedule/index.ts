@@ -1,0 +1,34 @@
+/** The schedule stage: plan, interpolation, dense check, refinement, schedule file. Re-exports only. */
+export * from './types.js';
+export * from './schedule-types.js';
+export { makeGainLookup, gainSlopes, validateGainTable, LOOKUP_DEFAULTS, type GainSlopes } from './interpolate.js';
+export { monotoneCubicSlopes, hermiteValue } from './monotone-cubic.js';
+export { checkGrid } from './grid.js';
+export { denseCheck, judgeMargins, worstMargins, THRESHOLD_DEFAULTS, type DenseCheckInput } from './dense-check.js';
+export { refineBreakpoints, REFINE_DEFAULTS, type RefineInput, type RefineResult, type BreakpointInsertion, type UnfixableFailure, type RefineStop } from './refine.js';
+export {
+  PLAN_DEFAULTS,
+  resolvePlan,
+  readPlan,
+  planFromJson,
+  planBreakpoints,
+  planThresholds,
+  valueAtSpeed,
+  ruleParametersAt,
+  type Plan,
+  type PartialPlan,
+  type LoopKind,
+  type ReferencePoint,
+  type SpeedTable,
+  type SpeedVarying,
+  type PlanRuleParameters,
+  type BreakpointPlan,
+  type ResolveContext,
+} from './plan.js';
+export { PLAN_SCHEMA } from './plan-schema.js';
+export { SCHEDULE_SCHEMA } from './schedule-schema.js';
+export { canonicalJson } from './canonical-json.js';
+export { computeScheduleChecksum, verifyScheduleChecksum, checksumContent, CANONICAL_FORM_TEXT, type ChecksumVerdict } from './checksum.js';
+export { assembleSchedule, parseSchedule, readSchedule, writeSchedule, type ScheduleInput } from './schedule-file.js';
+export { serialiseSchedule } from './schedule-json.js';
+export { gainUnits } from './schedule-text.js';

@@ -1,0 +1,200 @@
+/**
+ * schedule.json: assemble it from the build's results, write it (schema-checked, atomic) and read
+ * it back (schema, table order, status and checksum verified, with typed errors naming the problem).
+ */
+import { basename } from 'node:path';
+import { SAFETY_CAUTIONS } from '../cli/safety.js';
+import { SpeedbandError } from '../core/errors.js';
+import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { makeValidator, parseJsonText } from '../core/schema.js';
+import type { LoopMargins } from '../verify/types.js';
+import { VERSION } from '../version.js';
+import { computeScheduleChecksum, verifyScheduleChecksum } from './checksum.js';
+import { validateGainTable } from './interpolate.js';
+import { planThresholds, type Plan } from './plan.js';
+import type { BreakpointInsertion } from './refine.js';
+import { SCHEDULE_SCHEMA } from './schedule-schema.js';
+import { serialiseSchedule } from './schedule-json.js';
+import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits, interpolationText, loopErrorText } from './schedule-text.js';
+import {
+  SCHEDULE_FORMAT,
+  SCHEDULE_FORMAT_VERSION,
+  type BreakpointMargins,
+  type ScheduleFile,
+} from './schedule-types.js';
+import type { DenseCheckResult, GainTable, WorstMargins, WorstValue } from './types.js';
+
+/** At most this many failing speeds are listed in the file (all are counted). */
+export const LISTED_FAILURES = 100;
+
+export interface ScheduleInput {
+  readonly vehicle: { readonly name: string; readonly file: string; readonly sha256: string };
+  readonly plan: Plan;
+  /** Final table (after refinement). */
+  readonly table: GainTable;
+  /** Per breakpoint, true when refinement inserted it (defaults to all false). */
+  readonly insertedByRefinement?: readonly boolean[];
+  /** Dense check of the final table; its grid must contain every breakpoint. */
+  readonly check: DenseCheckResult;
+  readonly insertions?: readonly BreakpointInsertion[];
+  /** Integrator clamp, rad: the vehicle's steer-angle limit. */
+  readonly integratorClamp_rad: number;
+  /** Input files (paths are reduced to base names), SHA-256 and role. */
+  readonly inputs: readonly { readonly file: string; readonly sha256: string; readonly role: string }[];
+  readonly modelSummary: Readonly<Record<string, unknown>>;
+  readonly modelDescription: string;
+  readonly ruleCitation?: string;
+}
+
+const finiteOrNull = (value: number | null): number | null => (value !== null && Number.isFinite(value) ? value : null);
+
+function breakpointMargins(margins: LoopMargins): BreakpointMargins {
+  return {
+    stable: margins.stable,
+    verdict: margins.verdict,
+    lowerGainMargin_dB: finiteOrNull(margins.lowerGainMargin_dB),
+    upperGainMargin_dB: finiteOrNull(margins.upperGainMargin_dB),
+    phaseMargin_deg: finiteOrNull(margins.phaseMargin_deg),
+    delayMargin_s: finiteOrNull(margins.delayMargin_s),
+    sensitivityPeak: finiteOrNull(margins.sensitivityPeak),
+    complementarySensitivityPeak: finiteOrNull(margins.complementarySensitivityPeak),
+  };
+}
+
+const finiteWorst = (worst: WorstValue | null): WorstValue | null => (worst !== null && Number.isFinite(worst.value) ? worst : null);
+
+/**
+ * Assemble a schedule file with its checksum. Status is 'passed' when the dense check passed,
+ * else 'failed' (the caller decides whether a failed schedule may be written: --allow-failing).
+ * Deterministic: no clock, file names as base names only.
+ */
+export function assembleSchedule(input: ScheduleInput): ScheduleFile {
+  const { plan, table, check } = input;
+  validateGainTable(table);
+  const inserted = input.insertedByRefinement ?? table.speeds_mps.map(() => false);
+  const breakpoints = table.speeds_mps.map((speed_mps, k) => {
+    const point = check.points.find((candidate) => candidate.speed_mps === speed_mps);
+    if (point === undefined) {
+      throw new SpeedbandError('schedule.breakpointNotChecked', `breakpoint ${speed_mps} m/s is not among the checked speeds — build the grid with checkGrid(breakpoints, …)`);
+    }
+    const gains = table.gains[k];
+    return { speed_mps, kp: gains.kp, ki: gains.ki, kd: gains.kd, insertedByRefinement: inserted[k] ?? false, margins: breakpointMargins(point.margins) };
+  });
+  const path = plan.loop.kind === 'path';
+  const worst: WorstMargins = {
+    lowerGainMargin_dB: finiteWorst(check.worst.lowerGainMargin_dB),
+    upperGainMargin_dB: finiteWorst(check.worst.upperGainMargin_dB),
+    phaseMargin_deg: finiteWorst(check.worst.phaseMargin_deg),
+    delayMargin_s: finiteWorst(check.worst.delayMargin_s),
+    sensitivityPeak: finiteWorst(check.worst.sensitivityPeak),
+  };
+  const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
+    format: SCHEDULE_FORMAT,
+    formatVersion: SCHEDULE_FORMAT_VERSION,
+    status: check.passed ? 'passed' : 'failed',
+    vehicle: { name: input.vehicle.name, file: basename(input.vehicle.file), sha256: input.vehicle.sha256 },
+    loop: {
+      kind: plan.loop.kind,
+      ...(path ? { referencePoint: plan.loop.referencePoint, preview_m: plan.loop.preview_m } : {}),
+      error: loopErrorText(plan.loop.kind, plan.loop.preview_m, plan.loop.referencePoint),
+    },
+    controller: {
+      form: plan.controller.form,
+      derivativeFilter: plan.controller.derivativeFilter,
+      discretisation: plan.controller.discretisation,
+      sampleTime_s: plan.controller.sampleTime_s,
+      computationLatency_s: plan.controller.computationLatency_s,
+      integratorClamp_rad: input.integratorClamp_rad,
+      equation: CONTROLLER_EQUATION,
+      update: controllerUpdateText(plan.controller.discretisation),
+      integration: INTEGRATION_TEXT,
+    },
+    interpolation: {
+      method: plan.interpolation,
+      outOfRange: 'clamp',
+      lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps,
+      description: interpolationText(plan.interpolation, plan.speeds.lowSpeedFloor_mps),
+    },
+    units: gainUnits(plan.loop.kind),
+    breakpoints,
+    check: {
+      passed: check.passed,
+      model: { kind: plan.check.model, description: input.modelDescription },
+      range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps },
+      gridSpeeds: plan.check.gridSpeeds,
+      gridSize: check.points.length,
+      thresholds: planThresholds(plan),
+      worst,
+      failedSpeeds: check.failedCount,
+      failures: check.points
+        .filter((point) => point.failures.length > 0)
+        .slice(0, LISTED_FAILURES)
+        .map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((failure) => failure.message) })),
+      insertions: (input.insertions ?? []).map((insertion) => ({ speed_mps: insertion.speed_mps, reason: insertion.reason })),
+    },
+    provenance: {
+      tool: 'speedband',
+      toolVersion: VERSION,
+      inputs: input.inputs.map((entry) => ({ file: basename(entry.file), sha256: entry.sha256, role: entry.role })),
+      model: input.modelSummary,
+      rule: {
+        name: plan.rule.name,
+        parameters: plan.rule.parameters as Readonly<Record<string, unknown>>,
+        ...(input.ruleCitation === undefined ? {} : { citation: input.ruleCitation }),
+      },
+      plan: plan as unknown as Readonly<Record<string, unknown>>,
+    },
+    cautions: [...SAFETY_CAUTIONS],
+  };
+  return { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) };
+}
+
+const validateScheduleShape = makeValidator<ScheduleFile>(SCHEDULE_SCHEMA, 'schedule.invalid', 'schedule file');
+
+/**
+ * Check a parsed schedule: schema (JSON path of the first problem), strictly increasing breakpoint
+ * speeds and finite gains, status agreeing with the check, and the checksum (`schedule.checksumMismatch`
+ * naming what changed). Returns it typed.
+ */
+export function parseSchedule(value: unknown, file: string): ScheduleFile {
+  const schedule = validateScheduleShape(value, file);
+  try {
+    validateGainTable({ speeds_mps: schedule.breakpoints.map((row) => row.speed_mps), gains: schedule.breakpoints });
+  } catch (error) {
+    if (error instanceof SpeedbandError) {
+      throw new SpeedbandError('schedule.invalid', error.message, { location: { ...error.location, file }, cause: error });
+    }
+    throw error;
+  }
+  if ((schedule.status === 'passed') !== schedule.check.passed) {
+    throw new SpeedbandError(
+      'schedule.invalid',
+      `status is "${schedule.status}" but check.passed is ${schedule.check.passed} — the file was edited; rebuild the schedule`,
+      { location: { file, jsonPath: '/status' } },
+    );
+  }
+  const verdict = verifyScheduleChecksum(schedule);
+  if (!verdict.valid) {
+    throw new SpeedbandError(
+      'schedule.checksumMismatch',
+      `the checksum does not match the table: changed since it was written — ${verdict.changes.join('; ')}. ` +
+        'Do not load this table into firmware; rebuild the schedule or restore the original file',
+      { location: { file, jsonPath: '/checksum/value' }, details: { changes: verdict.changes } },
+    );
+  }
+  return schedule;
+}
+
+/** Read and verify schedule.json (see parseSchedule). */
+export function readSchedule(path: string): ScheduleFile {
+  return parseSchedule(parseJsonText(readTextFile(path), path), path);
+}
+
+/**
+ * Write schedule.json atomically (src/core/files.ts writeFileAtomic: an existing different file is
+ * replaced only with `force`). The schedule is schema-checked and its checksum verified first.
+ */
+export function writeSchedule(path: string, schedule: ScheduleFile, force: boolean): WriteOutcome {
+  parseSchedule(JSON.parse(serialiseSchedule(schedule)), path);
+  return writeFileAtomic(path, serialiseSchedule(schedule), force);
+}

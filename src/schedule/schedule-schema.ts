@@ -1,0 +1,114 @@
+/**
+ * JSON Schema of schedule.json (validated on write and on read). The order of `properties`
+ * is also the order fields are written in (see schedule-json.ts).
+ */
+const number = { type: 'number' } as const;
+const nullableNumber = { type: ['number', 'null'] } as const;
+const text = { type: 'string' } as const;
+const sha256 = { type: 'string', pattern: '^[0-9a-f]{64}$' } as const;
+const freeObject = { type: 'object' } as const;
+
+const worstValue = {
+  type: ['object', 'null'],
+  additionalProperties: false,
+  required: ['value', 'speed_mps'],
+  properties: { value: number, speed_mps: number },
+} as const;
+
+const object = (properties: Record<string, object>, optional: readonly string[] = []) => ({
+  type: 'object',
+  additionalProperties: false,
+  required: Object.keys(properties).filter((key) => !optional.includes(key)),
+  properties,
+});
+
+export const SCHEDULE_SCHEMA = object({
+  format: { const: 'speedband-schedule' },
+  formatVersion: { const: 1 },
+  status: { enum: ['passed', 'failed'] },
+  vehicle: object({ name: text, file: text, sha256 }),
+  loop: object(
+    { kind: { enum: ['yaw-rate', 'heading', 'path'] }, referencePoint: { enum: ['cg', 'front-axle'] }, preview_m: { type: 'number', minimum: 0 }, error: text },
+    ['referencePoint', 'preview_m'],
+  ),
+  controller: object({
+    form: { const: 'parallel' },
+    derivativeFilter: { type: 'number', exclusiveMinimum: 0 },
+    discretisation: { enum: ['tustin', 'backward-euler'] },
+    sampleTime_s: { type: 'number', exclusiveMinimum: 0 },
+    computationLatency_s: { type: 'number', minimum: 0 },
+    integratorClamp_rad: { type: 'number', exclusiveMinimum: 0 },
+    equation: text,
+    update: { type: 'array', items: text },
+    integration: text,
+  }),
+  interpolation: object({
+    method: { enum: ['linear', 'monotone-cubic'] },
+    outOfRange: { const: 'clamp' },
+    lowSpeedFloor_mps: { type: 'number', minimum: 0 },
+    description: text,
+  }),
+  units: object({ speed: { const: 'm/s' }, error: text, output: { const: 'rad' }, kp: text, ki: text, kd: text }),
+  breakpoints: {
+    type: 'array',
+    minItems: 1,
+    items: object({
+      speed_mps: { type: 'number', minimum: 0 },
+      kp: number,
+      ki: number,
+      kd: number,
+      insertedByRefinement: { type: 'boolean' },
+      margins: object({
+        stable: { type: 'boolean' },
+        verdict: { enum: ['stable', 'unstable', 'undetermined'] },
+        lowerGainMargin_dB: nullableNumber,
+        upperGainMargin_dB: nullableNumber,
+        phaseMargin_deg: nullableNumber,
+        delayMargin_s: nullableNumber,
+        sensitivityPeak: nullableNumber,
+        complementarySensitivityPeak: nullableNumber,
+      }),
+    }),
+  },
+  check: object({
+    passed: { type: 'boolean' },
+    model: object({ kind: { enum: ['single-track', 'interpolated-lumped'] }, description: text }),
+    range: object({ minimum_mps: number, maximum_mps: number }),
+    gridSpeeds: { type: 'integer', minimum: 2 },
+    gridSize: { type: 'integer', minimum: 1 },
+    thresholds: object({
+      maximumLowerGainMargin_dB: number,
+      minimumUpperGainMargin_dB: number,
+      minimumPhaseMargin_deg: number,
+      maximumSensitivityPeak: number,
+      minimumDelayMargin_s: number,
+    }),
+    worst: object({
+      lowerGainMargin_dB: worstValue,
+      upperGainMargin_dB: worstValue,
+      phaseMargin_deg: worstValue,
+      delayMargin_s: worstValue,
+      sensitivityPeak: worstValue,
+    }),
+    failedSpeeds: { type: 'integer', minimum: 0 },
+    failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
+    insertions: { type: 'array', items: object({ speed_mps: number, reason: text }) },
+  }),
+  provenance: object(
+    {
+      tool: { const: 'speedband' },
+      toolVersion: text,
+      inputs: { type: 'array', items: object({ file: text, sha256, role: text }) },
+      model: freeObject,
+      rule: object({ name: text, parameters: freeObject, citation: text }, ['citation']),
+      plan: freeObject,
+    },
+  ),
+  cautions: { type: 'array', minItems: 1, items: text },
+  checksum: object({
+    algorithm: { const: 'SHA-256' },
+    canonicalForm: text,
+    value: sha256,
+    sections: object({ loop: sha256, controller: sha256, interpolation: sha256, breakpoints: { type: 'array', items: sha256 } }),
+  }),
+});

@@ -1,0 +1,135 @@
+/**
+ * The schedule file (schedule.json) as TypeScript records; schedule-schema.ts is its JSON Schema.
+ * What firmware needs (DOMAIN.md §7): breakpoints and gains, the exact controller equation,
+ * interpolation and out-of-range behaviour, limits, units, proven margins, provenance, checksum.
+ */
+import type { Discretisation } from '../controller/types.js';
+import type { InterpolationMethod, AcceptanceThresholds, WorstMargins } from './types.js';
+import type { LoopKind, ReferencePoint } from './plan.js';
+
+export const SCHEDULE_FORMAT = 'speedband-schedule';
+export const SCHEDULE_FORMAT_VERSION = 1;
+
+/** Margins proven at one breakpoint (from LoopMargins; null where there is no such crossing). */
+export interface BreakpointMargins {
+  readonly stable: boolean;
+  readonly verdict: 'stable' | 'unstable' | 'undetermined';
+  readonly lowerGainMargin_dB: number | null;
+  readonly upperGainMargin_dB: number | null;
+  readonly phaseMargin_deg: number | null;
+  readonly delayMargin_s: number | null;
+  readonly sensitivityPeak: number | null;
+  readonly complementarySensitivityPeak: number | null;
+}
+
+export interface ScheduleBreakpoint {
+  readonly speed_mps: number;
+  readonly kp: number;
+  readonly ki: number;
+  readonly kd: number;
+  /** True when the dense check's refinement inserted this breakpoint. */
+  readonly insertedByRefinement: boolean;
+  readonly margins: BreakpointMargins;
+}
+
+export interface ScheduleLoop {
+  readonly kind: LoopKind;
+  /** Path loop only. */
+  readonly referencePoint?: ReferencePoint;
+  /** Path loop only: preview distance ahead of the reference point, m. */
+  readonly preview_m?: number;
+  /** The error the controller acts on, in words with its unit. */
+  readonly error: string;
+}
+
+export interface ScheduleController {
+  readonly form: 'parallel';
+  readonly derivativeFilter: number;
+  readonly discretisation: Discretisation;
+  readonly sampleTime_s: number;
+  readonly computationLatency_s: number;
+  /** The integrator state is clamped to ±this, rad (the steer-angle limit). */
+  readonly integratorClamp_rad: number;
+  /** The continuous-time law, as text. */
+  readonly equation: string;
+  /** The per-sample update the firmware runs, as text. */
+  readonly update: readonly string[];
+  /** How the integrator accumulates (ki·e·Ts, bumpless under gain changes). */
+  readonly integration: string;
+}
+
+export interface ScheduleInterpolation {
+  readonly method: InterpolationMethod;
+  readonly outOfRange: 'clamp';
+  readonly lowSpeedFloor_mps: number;
+  readonly description: string;
+}
+
+export interface ScheduleUnits {
+  readonly speed: 'm/s';
+  readonly error: string;
+  readonly output: 'rad';
+  readonly kp: string;
+  readonly ki: string;
+  readonly kd: string;
+}
+
+export interface ScheduleCheck {
+  readonly passed: boolean;
+  readonly model: { readonly kind: 'single-track' | 'interpolated-lumped'; readonly description: string };
+  readonly range: { readonly minimum_mps: number; readonly maximum_mps: number };
+  /** Evenly spaced check speeds asked for (density). */
+  readonly gridSpeeds: number;
+  /** Speeds actually checked (density plus breakpoints and midpoints). */
+  readonly gridSize: number;
+  readonly thresholds: AcceptanceThresholds;
+  readonly worst: WorstMargins;
+  readonly failedSpeeds: number;
+  /** The first failing speeds (at most 100), with what failed. */
+  readonly failures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
+  /** Breakpoints inserted by refinement, with the reason. */
+  readonly insertions: readonly { readonly speed_mps: number; readonly reason: string }[];
+}
+
+export interface ScheduleProvenance {
+  readonly tool: 'speedband';
+  readonly toolVersion: string;
+  /** Every input file: base name, SHA-256, role (log, vehicle, plan...). */
+  readonly inputs: readonly { readonly file: string; readonly sha256: string; readonly role: string }[];
+  /** Summary of the model used (JSON-able). */
+  readonly model: Readonly<Record<string, unknown>>;
+  readonly rule: { readonly name: string; readonly parameters: Readonly<Record<string, unknown>>; readonly citation?: string };
+  /** The resolved plan. */
+  readonly plan: Readonly<Record<string, unknown>>;
+}
+
+export interface ScheduleChecksum {
+  readonly algorithm: 'SHA-256';
+  /** How the checksummed bytes are formed, in words. */
+  readonly canonicalForm: string;
+  /** SHA-256 (lowercase hex) of the canonical table content. */
+  readonly value: string;
+  /** Digests of each part, to name what changed when the value does not match. */
+  readonly sections: {
+    readonly loop: string;
+    readonly controller: string;
+    readonly interpolation: string;
+    readonly breakpoints: readonly string[];
+  };
+}
+
+export interface ScheduleFile {
+  readonly format: typeof SCHEDULE_FORMAT;
+  readonly formatVersion: typeof SCHEDULE_FORMAT_VERSION;
+  readonly status: 'passed' | 'failed';
+  readonly vehicle: { readonly name: string; readonly file: string; readonly sha256: string };
+  readonly loop: ScheduleLoop;
+  readonly controller: ScheduleController;
+  readonly interpolation: ScheduleInterpolation;
+  readonly units: ScheduleUnits;
+  readonly breakpoints: readonly ScheduleBreakpoint[];
+  readonly check: ScheduleCheck;
+  readonly provenance: ScheduleProvenance;
+  readonly cautions: readonly string[];
+  readonly checksum: ScheduleChecksum;
+}
