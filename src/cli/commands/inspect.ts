@@ -1,0 +1,76 @@
+import { READ_DEFAULTS, readSteerLog } from '../../log/read.js';
+import { SEGMENT_DEFAULTS } from '../../log/segment.js';
+import { mergeColumnMaps } from '../../log/column-map.js';
+import { inspectLog } from '../../log/inspect.js';
+import { formatInspection } from '../../log/inspection-text.js';
+import { describeError, isSpeedbandError } from '../../core/errors.js';
+import type { CommandModule } from '../command.js';
+import { EXIT } from '../io.js';
+
+export const command: CommandModule = {
+  command: 'inspect <logs..>',
+  describe: 'Read step-steer test logs and report their channels, sampling, splits, the steps found with ISO 7401-style metrics, and why any candidate step was rejected',
+  builder: (yargs) =>
+    yargs
+      .positional('logs', { type: 'string', array: true, describe: 'CSV log files (header line, then one row per sample)' })
+      .option('vehicle', {
+        type: 'string',
+        describe: 'Vehicle file (vehicle.json) or a folder holding one: gives the steering ratio for steering-wheel columns and the steer-angle limit for the actuator-limit check',
+      })
+      .option('log-profile', {
+        type: 'string',
+        describe: 'JSON file naming the columns and their units, e.g. {"columns": {"speed_mps": {"from": "v", "unit": "km/h"}}}',
+      })
+      .option('column', {
+        type: 'string',
+        array: true,
+        describe:
+          'Map one channel, CHANNEL=HEADER[:UNIT] (overrides the profile; repeatable). Channels: time_s, speed_mps, steer_cmd_rad, yaw_rate_radps, steer_angle_rad, lat_accel_mps2. Units: s, ms, m/s, km/h, mph, rad, deg, steering-wheel-rad, steering-wheel-deg, rad/s, deg/s, m/s2',
+      })
+      .option('steering-ratio', { type: 'number', describe: 'Steering-wheel angle per road-wheel angle, for steering-wheel columns (default: the vehicle file\'s steeringRatio)' })
+      .option('min-hold-s', { type: 'number', default: SEGMENT_DEFAULTS.minHold_s, describe: 'Shortest hold after a step that is accepted, s' })
+      .option('speed-tolerance-mps', {
+        type: 'number',
+        default: SEGMENT_DEFAULTS.speedToleranceAbsolute_mps,
+        describe: `Speed spread (max − min) allowed during a hold, m/s; ${100 * SEGMENT_DEFAULTS.speedToleranceFraction} % of the speed is allowed when larger`,
+      })
+      .option('gap-factor', { type: 'number', default: READ_DEFAULTS.gapFactor, describe: 'A time step longer than this many median sample periods splits the log' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print JSON (one object per log, SI units) instead of tables' }),
+  examples: [
+    ['speedband inspect vehicles/parcel-van/logs/*.csv', 'Every demo log of the parcel van: steps, metrics, rejections'],
+    ['speedband inspect run7.csv --vehicle vehicles/parcel-van --column steer_cmd_rad=SWA:steering-wheel-deg --column speed_mps=v:km/h', 'A logger that records the steering-wheel angle in degrees and speed in km/h'],
+    ['speedband inspect run7.csv --log-profile logger.json --json', 'Column names and units from a profile file, machine-readable output'],
+  ],
+  run: async (args, io) => {
+    const { loadLogProfile, parseColumnOptions } = await import('../../log/profile.js');
+
+    const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
+    const profile = args['log-profile'] === undefined ? undefined : loadLogProfile(String(args['log-profile']));
+    const columns = mergeColumnMaps(profile?.columns, parseColumnOptions((args.column as string[] | undefined) ?? []));
+    const steeringRatio = (args['steering-ratio'] as number | undefined) ?? vehicle?.steeringRatio;
+    const segmentOptions = {
+      minHold_s: Number(args['min-hold-s']),
+      speedToleranceAbsolute_mps: Number(args['speed-tolerance-mps']),
+      ...(vehicle === undefined ? {} : { maxSteerAngle_rad: vehicle.maxSteerAngle_rad }),
+    };
+
+    let exitCode: number = EXIT.ok;
+    const reports: unknown[] = [];
+    for (const file of (args.logs as string[] | undefined) ?? []) {
+      try {
+        const log = readSteerLog(file, { columns, steeringRatio, gapFactor: Number(args['gap-factor']) });
+        const inspection = inspectLog(log, segmentOptions);
+        if (inspection.steps.length === 0 && exitCode === EXIT.ok) exitCode = EXIT.failed;
+        if (args.json) reports.push(inspection);
+        else io.stdout(formatInspection(inspection) + '\n');
+      } catch (error) {
+        if (!isSpeedbandError(error)) throw error;
+        exitCode = EXIT.badInput;
+        io.stderr(`speedband: ${describeError(error)}\n`);
+        if (args.json) reports.push({ file, error: { code: error.code, message: error.message, location: error.location } });
+      }
+    }
+    if (args.json) io.stdout(JSON.stringify(reports, null, 2) + '\n');
+    return exitCode;
+  },
+};
