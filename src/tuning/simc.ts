@@ -26,7 +26,8 @@ function defaultControllerType(model: DesignModel): ControllerType {
 /**
  * SIMC (Skogestad 2003), series form Kc(1 + 1/(τI s))(1 + τD s), with τc the closed-loop time
  * constant (default τc = θ) and the model first reduced by the half rule:
- *   FOPDT K·e^(−θs)/(τ1 s + 1), PI: Kc = τ1/(K(τc + θ)), τI = min(τ1, 4(τc + θ));
+ *   FOPDT K·e^(−θs)/(τ1 s + 1), PI: Kc = τ1/(K(τc + θ)), τI = min(τ1, 4(τc + θ)) (τ1 = 0, a pure
+ *   delay: integral-only ki = 1/(K(τc + θ)), the limit of the same rule);
  *   second order, PID: as FOPDT plus τD = τ2;
  *   integrating k'·e^(−θs)/s, PI: Kc = 1/(k'(τc + θ)), τI = 4(τc + θ) (PID with a lag τ2: τD = τ2);
  *   double integrating k''·e^(−θs)/s², PID: Kc = 1/(4k''(τc + θ)²), τI = τD = 4(τc + θ).
@@ -60,7 +61,18 @@ export function simc(model: DesignModel, parameters: RuleParameters): RuleResult
   } else {
     const tau1 = reduced.lags_s[0] ?? 0;
     if (!(tau1 > 0)) {
-      throw ruleNotApplicable('simc', model, 'a pure delay has no lag for the SIMC proportional gain (Kc = τ1/(K(τc + θ)) = 0); use an integral-only controller or imc-pid');
+      // Pure delay: the FOPDT rule's limit τ1 → 0 is integral-only, ki = Kc/τI = 1/(K(τc + θ)) (Skogestad 2003).
+      const ki = 1 / (k * horizon);
+      return {
+        rule: 'simc',
+        citation: CITATION,
+        controllerType: 'PI',
+        gains: { kp: 0, ki, kd: 0 },
+        ruleForm: { form: 'parallel', gain: 0, integralTime_s: 0, derivativeTime_s: 0 },
+        designModel: reduced,
+        intermediate: { tauC_s: tauC, effectiveDeadTime_s: theta, halfRuleAddedDeadTime_s: reduction.addedDeadTime_s, halfRuleAddedToLag_s: 0 },
+        warnings: ['the design model is a pure delay: SIMC gives an integral-only controller (kp = 0)'],
+      };
     }
     ruleForm = {
       form: 'series',

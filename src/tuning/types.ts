@@ -31,7 +31,7 @@ export interface RuleForm {
   readonly form: 'parallel' | 'ideal' | 'series';
   /** Ideal/series: Kc; parallel: kp. */
   readonly gain: number;
-  /** Ideal Ti or series τI, s; null when there is no integral action. Parallel: the equivalent Ti = kp/ki. */
+  /** Ideal Ti or series τI, s; null when there is no integral action. Parallel: the equivalent Ti = kp/ki (0 for integral-only). */
   readonly integralTime_s: number | null;
   /** Ideal Td or series τD, s; 0 when there is no derivative action. Parallel: the equivalent Td = kd/kp. */
   readonly derivativeTime_s: number;

@@ -1,0 +1,82 @@
+import type { LumpedModel } from '../identify/types.js';
+import { lumpedYawRateTransferFunction } from '../loops/lumped-yaw-rate.js';
+import { findLoop } from '../loops/registry.js';
+import type { LoopKind } from '../loops/types.js';
+import { seriesConnection } from '../lti/transfer-function.js';
+import { actuatorTransferFunction, singleTrackTransferFunctions } from '../vehicle/single-track.js';
+import type { SingleTrackParameters } from '../vehicle/types.js';
+import { fopdtByTwoPoints } from './two-point.js';
+import type { DesignModel } from './types.js';
+
+/** How the design model was obtained, for the derivation a reviewer reads. */
+export interface DesignModelDerivation {
+  /** The steer command → yaw rate FOPDT the design starts from: K (1/s), τ (s), θ (s, before the controller delay). */
+  readonly yawRateGain_perS: number;
+  readonly yawRateTimeConstant_s: number;
+  readonly yawRateDeadTime_s: number;
+  /** 'identified' (a lumped FOPDT used as is) or 'two-point' (a richer response reduced by fopdtByTwoPoints, Smith 1972). */
+  readonly yawRateSource: 'identified' | 'two-point';
+  /** Ts/2 + computation latency added to the dead time, s. */
+  readonly controllerDelay_s: number;
+  readonly model: DesignModel;
+}
+
+function assemble(
+  kind: LoopKind,
+  speed_mps: number,
+  yaw: { gain: number; timeConstant_s: number; deadTime_s: number },
+  source: 'identified' | 'two-point',
+  controllerDelay_s: number,
+): DesignModelDerivation {
+  const loop = findLoop(kind);
+  const model: DesignModel = {
+    integrators: loop.integrators,
+    gain: yaw.gain * loop.designGainFactor({ speed_mps, previewFromCg_m: 0 }),
+    lags_s: yaw.timeConstant_s > 0 ? [yaw.timeConstant_s] : [],
+    deadTime_s: yaw.deadTime_s + controllerDelay_s,
+  };
+  return {
+    yawRateGain_perS: yaw.gain,
+    yawRateTimeConstant_s: yaw.timeConstant_s,
+    yawRateDeadTime_s: yaw.deadTime_s,
+    yawRateSource: source,
+    controllerDelay_s,
+    model,
+  };
+}
+
+/**
+ * The design model of a loop from a lumped per-speed yaw-rate model. The yaw-rate response is
+ * taken as FOPDT K·e^(−θs)/(τs + 1) (an identified FOPDT as is; a second-order model reduced by
+ * `fopdtByTwoPoints`), the controller delay Ts/2 + latency added to θ, and the loop's integrators
+ * and gain factor applied:
+ *   yaw-rate  K·e^(−θs)/(τs + 1)            (self-regulating)
+ *   heading   K·e^(−θs)/(s(τs + 1))         (integrating, k' = K)
+ *   path      K·vx·e^(−θs)/(s²(τs + 1))     (double-integrating, k'' = K·vx; the preview zero (d/vx)s + 1 is
+ *                                             left out of the design and counted by the margins on the full loop)
+ * The rules fold the lag τ into the delay by Skogestad's half rule where their plant class needs it.
+ */
+export function designModelFromLumped(kind: LoopKind, model: LumpedModel, speed_mps: number, controllerDelay_s: number): DesignModelDerivation {
+  if (model.kind === 'fopdt') {
+    return assemble(kind, speed_mps, model, 'identified', controllerDelay_s);
+  }
+  return assemble(kind, speed_mps, fopdtByTwoPoints(lumpedYawRateTransferFunction(model)), 'two-point', controllerDelay_s);
+}
+
+/**
+ * The design model from the single-track model at one speed, "the same way" as from a lumped model:
+ * the steer command → yaw rate response with the actuator, e^(−θa s)/(τa s + 1)·(b1 s + b0)/(s² + a1 s + a0),
+ * is reduced to FOPDT by Smith's two-point method on its exact step response (`fopdtByTwoPoints`), then as `designModelFromLumped`.
+ * For the path loop k'' = K·vx with K = vx/(L + Ku·vx²) the steady yaw gain; the lateral-velocity
+ * term and the preview zero are left to the full-loop margins. Throws `tuning.unstablePlant` above
+ * an oversteering vehicle's critical speed.
+ */
+export function designModelFromSingleTrack(
+  kind: LoopKind,
+  parameters: SingleTrackParameters,
+  speed_mps: number,
+  controllerDelay_s: number,
+): DesignModelDerivation {
+  const yawRate = seriesConnection(actuatorTransferFunction(parameters), singleTrackTransferFunctions(parameters, speed_mps).yawRate);
+  return assemble(kind, speed_mps, fopdtByTwoPoints(yawRate), 'two-point', controllerDelay_s);
+}

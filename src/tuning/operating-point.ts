@@ -1,0 +1,71 @@
+import { samplingDelay_s } from '../controller/discrete.js';
+import { pidTransferFunction } from '../controller/pid.js';
+import type { ControllerSettings, PidGains } from '../controller/types.js';
+import type { LumpedModel } from '../identify/types.js';
+import { loopPlantFromLumped, loopPlantFromSingleTrack } from '../loops/build.js';
+import type { LoopPlant, LoopSpecification } from '../loops/types.js';
+import { seriesConnection } from '../lti/transfer-function.js';
+import { analyseOpenLoop } from '../verify/analyse-open-loop.js';
+import type { LoopMargins } from '../verify/types.js';
+import type { SingleTrackParameters } from '../vehicle/types.js';
+import { designModelFromLumped, designModelFromSingleTrack, type DesignModelDerivation } from './design-model.js';
+import { applyRule } from './registry.js';
+import type { RuleParameters, RuleResult } from './types.js';
+
+/** The vehicle model at the operating point: a lumped per-speed yaw-rate model, or the single-track model. */
+export type OperatingPointModel =
+  | { readonly kind: 'lumped'; readonly yawRate: LumpedModel; /** needed for a front-axle preview, m */ readonly cgToFrontAxle_m?: number }
+  | { readonly kind: 'single-track'; readonly parameters: SingleTrackParameters };
+
+export interface OperatingPointRequest {
+  readonly loop: LoopSpecification;
+  readonly speed_mps: number;
+  readonly model: OperatingPointModel;
+  /** A rule name (RULE_NAMES). */
+  readonly rule: string;
+  readonly ruleParameters: RuleParameters;
+  readonly controller: ControllerSettings;
+}
+
+export interface TunedOperatingPoint {
+  /** Parallel gains for the firmware (units per loop: see LoopDefinition.outputUnit). */
+  readonly gains: PidGains;
+  /** The rule's result: form, intermediate quantities, citation, warnings, the (reduced) design model. */
+  readonly derivation: RuleResult;
+  /** How the design model was obtained from the vehicle model. */
+  readonly design: DesignModelDerivation;
+  /** The full loop plant the margins were computed on. */
+  readonly loop: LoopPlant;
+  /** Margins of L = C(s)·G_loop(s), C the PID with its derivative filter N, G_loop with the exact delay. */
+  readonly margins: LoopMargins;
+}
+
+/**
+ * Tune one operating point: build the loop plant the firmware sees (src/loops), derive the rule's
+ * design model from the same vehicle model (`designModelFromLumped` / `designModelFromSingleTrack`),
+ * apply the rule (`applyRule`: a rule that does not apply throws `tuning.ruleNotApplicable` naming
+ * those that do), and analyse the resulting loop on the full plant (`analyseOpenLoop`), with the
+ * continuous PID kp + ki/s + kd·s/(1 + Tf·s), Tf = (kd/kp)/N, and the sampled controller counted as
+ * a delay Ts/2 plus the computation latency. Pure; no I/O.
+ */
+export function tuneOperatingPoint(request: OperatingPointRequest): TunedOperatingPoint {
+  const { loop: specification, speed_mps, model, controller } = request;
+  const controllerDelay_s = samplingDelay_s(controller);
+  const loop =
+    model.kind === 'lumped'
+      ? loopPlantFromLumped(specification, model.yawRate, speed_mps, controller, model.cgToFrontAxle_m)
+      : loopPlantFromSingleTrack(specification, model.parameters, speed_mps, controller);
+  const design =
+    model.kind === 'lumped'
+      ? designModelFromLumped(specification.kind, model.yawRate, speed_mps, controllerDelay_s)
+      : designModelFromSingleTrack(specification.kind, model.parameters, speed_mps, controllerDelay_s);
+  const derivation = applyRule(request.rule, design.model, request.ruleParameters, { speed_mps });
+  const margins = loopMargins(loop, derivation.gains, controller.derivativeFilter);
+  return { gains: derivation.gains, derivation, design, loop, margins };
+}
+
+/** Margins of the loop plant under parallel gains with derivative filter N (see tuneOperatingPoint). */
+export function loopMargins(loop: LoopPlant, gains: PidGains, derivativeFilter: number): LoopMargins {
+  const open = seriesConnection(pidTransferFunction(gains, derivativeFilter), loop.plant);
+  return analyseOpenLoop({ numerator: open.numerator, denominator: open.denominator, delay_s: open.delay_s });
+}
