@@ -3,6 +3,8 @@ import { makeRandom } from '../../src/core/random.js';
 import { isSpeedbandError } from '../../src/core/errors.js';
 import { multiplyPolynomials, evaluatePolynomial } from '../../src/lti/polynomial.js';
 import { polynomialRoots } from '../../src/lti/roots.js';
+import { replaceDelayWithPade } from '../../src/lti/pade.js';
+import { seriesConnection, transferFunction, unityFeedback } from '../../src/lti/transfer-function.js';
 import type { Complex } from '../../src/lti/types.js';
 import { runPython } from '../helpers/python.js';
 
@@ -118,6 +120,22 @@ describe('polynomialRoots(p)', () => {
       }
       expect(worstMatch(found, reference[k].map(([re, im]) => ({ re, im })))).toBeLessThan(1e-8);
     });
+  });
+
+  it('finds the closed-loop poles of a PID yaw loop with a Padé order 6, 10, 14 delay (coefficients spanning 1 to 1e37) like numpy.roots', () => {
+    // Source: numpy.roots on the same characteristic polynomial D + N of the Padé-approximated loop.
+    const plant = transferFunction([14.2, 61.5], [1, 8.4, 30.5, 0], 0.08);
+    const pid = transferFunction([0.35 * 0.0114 + 0.04, 0.35 + 0.05 * 0.0114, 0.05], [0.0114, 1, 0]); // kp 0.35, ki 0.05, kd 0.04, Tf = Td/10
+    const polynomials = [6, 10, 14].map((order) => [...unityFeedback(replaceDelayWithPade(seriesConnection(pid, plant), order)).denominator]);
+    const reference = runPython<number[][][]>(NUMPY_ROOTS, polynomials);
+    const slowest = polynomials.map((p, k) => {
+      const found = polynomialRoots(p);
+      expect(worstMatch(found, reference[k].map(([re, im]) => ({ re, im })))).toBeLessThan(1e-10);
+      return found[found.length - 1];
+    });
+    // property: the slowest closed-loop pole does not depend on the Padé order once the order is adequate
+    expect(Math.abs(slowest[1].re - slowest[0].re)).toBeLessThan(1e-9);
+    expect(Math.abs(slowest[2].re - slowest[0].re)).toBeLessThan(1e-9);
   });
 
   it('leaves a small residual |p(r)| ≤ 1e-10 · Σ|p_i||r|^i at every root (backward stable), property over seeded random polynomials', () => {
