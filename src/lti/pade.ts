@@ -5,7 +5,7 @@
 import { SpeedbandError } from '../core/errors.js';
 import { polynomialRoots } from './roots.js';
 import { seriesConnection, transferFunction } from './transfer-function.js';
-import type { TransferFunction } from './types.js';
+import type { Complex, TransferFunction } from './types.js';
 
 export const PADE_DEFAULTS = {
   /** Largest phase error accepted over the band by padeOrderFor, rad (1°). */
@@ -88,8 +88,9 @@ export function padeOrderFor(delay_s: number, maximumFrequency_radps: number): n
   if (xMax === 0) return 0;
   for (let order = 1; order <= PADE_DEFAULTS.maximumOrder; order++) {
     const roots = padeDenominatorRoots(order);
-    let worst = 0;
-    for (let i = 1; i <= PADE_DEFAULTS.samples; i++) {
+    // the error grows with x, so the band edge rejects an order at once; the grid then confirms
+    let worst = Math.abs(padePhase(roots, xMax) + xMax);
+    for (let i = 1; i < PADE_DEFAULTS.samples && worst <= PADE_DEFAULTS.phaseErrorBound_rad; i++) {
       const x = (xMax * i) / PADE_DEFAULTS.samples;
       worst = Math.max(worst, Math.abs(padePhase(roots, x) + x));
     }
@@ -102,12 +103,20 @@ export function padeOrderFor(delay_s: number, maximumFrequency_radps: number): n
   );
 }
 
-function padeDenominatorRoots(order: number): { re: number; im: number }[] {
+/** Roots of the θ = 1 denominators, computed once per order (a constant table, filled on first use). */
+const denominatorRootsByOrder: (readonly Complex[] | undefined)[] = [];
+
+function padeDenominatorRoots(order: number): readonly Complex[] {
   if (order === 0) return [];
-  return polynomialRoots(padeApproximant(1, order).denominator);
+  let roots = denominatorRootsByOrder[order];
+  if (roots === undefined) {
+    roots = polynomialRoots(padeApproximant(1, order).denominator);
+    denominatorRootsByOrder[order] = roots;
+  }
+  return roots;
 }
 
-function padePhase(roots: readonly { re: number; im: number }[], x: number): number {
+function padePhase(roots: readonly Complex[], x: number): number {
   let phase = 0;
   for (const root of roots) phase += Math.atan((x - root.im) / -root.re);
   return -2 * phase;
