@@ -85,6 +85,7 @@ export const command: CommandModule = {
         seed: Number(args.seed),
         sampleRate_hz: Number(args['sample-rate-hz']),
         noiseScale: Number(args['noise-scale']),
+        commandPaths: { vehicle: String(args.vehicle), out: String(args.out) },
         ...(amplitudes_rad === undefined ? {} : { amplitudes_rad }),
       },
       Boolean(args.force),
