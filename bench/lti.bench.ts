@@ -1,5 +1,6 @@
 import { makeRandom } from '../src/core/random.js';
 import { frequencyResponse, logarithmicFrequencies } from '../src/lti/frequency-response.js';
+import { padeOrderFor } from '../src/lti/pade.js';
 import { multiplyPolynomials } from '../src/lti/polynomial.js';
 import { polynomialRoots } from '../src/lti/roots.js';
 import { stepResponse } from '../src/lti/time-response.js';
@@ -38,3 +39,8 @@ const time = Float64Array.from({ length: 10_000 }, (_, k) => k * 0.001);
 const plant = transferFunction([1.1, 6.6], multiplyPolynomials([1, 8.4, 30.5], [0.08, 1]), 0.0425);
 const stepRate = rate(() => stepResponse(plant, time), 5, time.length);
 printFigure('step response, 3rd order, fractional-sample delay', stepRate / 1e6, 'M samples/s');
+
+padeOrderFor(0.1, 1); // fill the per-order table once, as any long run would
+let band = 0;
+const padeRate = rate(() => padeOrderFor(0.1, 10 + (band++ % 150)), 2000, 1);
+printFigure('padeOrderFor, ω·θ from 1 to 16', padeRate, 'per s');
