@@ -37,3 +37,24 @@ export {
 } from './controller/discrete.js';
 export { discretePidStep, initialDiscretePidState, type DiscretePidState } from './controller/discrete-step.js';
 export { CONTROLLER_DEFAULTS } from './controller/defaults.js';
+// Vehicles, the single-track model, the exact simulator and synthetic test logs (src/vehicle/)
+export type { Vehicle, SingleTrackParameters } from './vehicle/types.js';
+export { loadVehicle, validateVehicle, resolveVehiclePath, VEHICLE_FILE_NAME } from './vehicle/load.js';
+export { VEHICLE_SCHEMA, VEHICLE_RANGES } from './vehicle/schema.js';
+export {
+  singleTrackStateSpace,
+  singleTrackTransferFunctions,
+  actuatorTransferFunction,
+  understeerGradient_radPerMps2,
+  steadyStateYawGain_perS,
+  characteristicSpeed_mps,
+  criticalSpeed_mps,
+  singleTrackParametersFromVehicle,
+  type SingleTrackStateSpace,
+  type SingleTrackTransferFunctions,
+} from './vehicle/single-track.js';
+export { simulateSingleTrack, type SingleTrackSimulationInput, type SingleTrackSimulation } from './vehicle/simulate.js';
+export { stepAmplitudes, planSteps, sampleCommand, planDuration_s, STEP_PLAN_DEFAULTS, type PlannedStep, type StepAmplitudes } from './vehicle/step-plan.js';
+export { generateTestLog, writeTestLogs, testLogsReadme, testLogFileName, TEST_LOG_DEFAULTS, TEST_LOG_COLUMNS, type GeneratedTestLog, type TestLogOptions } from './vehicle/test-logs.js';
+export { DEMO_FLEET, regenerateDemoFleet, regenerateDemoVehicle, type DemoVehicle } from './vehicle/demo-fleet.js';
+export { matrixExponential } from './lti/matrix-exponential.js';
