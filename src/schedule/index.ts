@@ -32,3 +32,4 @@ export { computeScheduleChecksum, verifyScheduleChecksum, checksumContent, CANON
 export { assembleSchedule, parseSchedule, readSchedule, writeSchedule, type ScheduleInput } from './schedule-file.js';
 export { serialiseSchedule } from './schedule-json.js';
 export { gainUnits } from './schedule-text.js';
+export { scheduleTable, scheduleLookup, scheduleLookupSettings } from './schedule-lookup.js';

@@ -75,9 +75,10 @@ export function gainSlopes(table: GainTable, interpolation: LookupSettings['inte
 /**
  * Build the schedule's lookup: `(speed_mps) → PidGains`. Speeds in m/s; gains as in the table
  * (parallel PID, units of the loop). See the file comment for the interpolation and clamping rules.
- * A non-finite speed is a `schedule.speedNotFinite` error.
+ * A non-finite speed is a `schedule.speedNotFinite` error. `givenSlopes` (gain per m/s) replace the
+ * Fritsch–Carlson slopes for 'monotone-cubic' — the fixed-point export keeps the exact table's slopes.
  */
-export function makeGainLookup(table: GainTable, settings: Partial<LookupSettings> = {}): GainsAtSpeed {
+export function makeGainLookup(table: GainTable, settings: Partial<LookupSettings> = {}, givenSlopes?: GainSlopes): GainsAtSpeed {
   validateGainTable(table);
   const { interpolation, lowSpeedFloor_mps } = { ...LOOKUP_DEFAULTS, ...settings };
   const speeds = Float64Array.from(table.speeds_mps);
@@ -87,7 +88,7 @@ export function makeGainLookup(table: GainTable, settings: Partial<LookupSetting
     ki: Float64Array.from(table.gains, (row) => row.ki),
     kd: Float64Array.from(table.gains, (row) => row.kd),
   };
-  const slopes = gainSlopes(table, interpolation);
+  const slopes = givenSlopes ?? gainSlopes(table, interpolation);
   const cubic = interpolation === 'monotone-cubic';
 
   const one = (y: Float64Array, m: Float64Array, k: number, t: number, h: number): number => {

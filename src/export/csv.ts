@@ -1,0 +1,48 @@
+/**
+ * The schedule as CSV for spreadsheets (RFC 4180: comma separated, CRLF line ends, header row).
+ * One row per breakpoint; units in the header (ASCII); empty cell where a margin does not exist.
+ */
+import type { ScheduleFile } from '../schedule/schedule-types.js';
+import { toAscii } from './ascii.js';
+
+const cell = (value: number | boolean | string | null): string => {
+  if (value === null) return '';
+  const text = String(value);
+  return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+};
+
+/** CSV text: speed_mps, kp/ki/kd with the loop's units, margins, verdict, whether refinement inserted the row. */
+export function exportCsv(schedule: ScheduleFile): string {
+  const { units } = schedule;
+  const header = [
+    'speed_mps',
+    `kp (${toAscii(units.kp)})`,
+    `ki (${toAscii(units.ki)})`,
+    `kd (${toAscii(units.kd)})`,
+    'lowerGainMargin_dB',
+    'upperGainMargin_dB',
+    'phaseMargin_deg',
+    'delayMargin_s',
+    'sensitivityPeak',
+    'verdict',
+    'insertedByRefinement',
+  ];
+  const rows = schedule.breakpoints.map((row) =>
+    [
+      row.speed_mps,
+      row.kp,
+      row.ki,
+      row.kd,
+      row.margins.lowerGainMargin_dB,
+      row.margins.upperGainMargin_dB,
+      row.margins.phaseMargin_deg,
+      row.margins.delayMargin_s,
+      row.margins.sensitivityPeak,
+      row.margins.verdict,
+      row.insertedByRefinement,
+    ]
+      .map(cell)
+      .join(','),
+  );
+  return [header.map(cell).join(','), ...rows].map((line) => `${line}\r\n`).join('');
+}

@@ -1,0 +1,7 @@
+/** The export stage: C99 header, CSV, JSON, fixed-point gains and the quantised re-check. Re-exports only. */
+export { exportC, cDouble, C_HEADER_DEFAULTS, type CHeaderOptions, type CHeaderExport } from './c-header.js';
+export { exportCsv } from './csv.js';
+export { exportJson } from './json.js';
+export { parseQFormat, quantiseTable, type FixedPointFormat, type QuantisedTable, type GainQuantisationError } from './fixed-point.js';
+export { recheckQuantised, makeQuantisedRecheck, type QuantisedRecheck, type RecheckInput } from './recheck.js';
+export { toAscii } from './ascii.js';
