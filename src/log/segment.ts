@@ -24,7 +24,9 @@ export const SEGMENT_DEFAULTS = {
   /** At least this much held command before the onset (for bias estimation), s. */
   minPreStep_s: 0.5,
   /** At most this much of the previous hold goes into a step's window, s. */
-  preStepWindow_s: 2,
+  preStepWindow_s: 1,
+  /** The yaw rate may drift by at most this fraction of the step's yaw-rate change across the pre-step window (previous response settled). */
+  maxPreStepDriftFraction: 0.05,
   /** Allowed speed spread (max − min) during the hold: the larger of this, m/s ... */
   speedToleranceAbsolute_mps: 0.3,
   /** ... and this fraction of the mean speed. */
@@ -157,6 +159,16 @@ function judgeCandidate(segment: LogSegment, { before, after }: Candidate, setti
     );
   }
 
+  const drift_radps = preStepDrift(window.yawRate_radps, window.preStepSamples);
+  const third = Math.max(1, Math.floor(window.preStepSamples / 3));
+  const driftNoise_radps = 4 * levels.yawRateNoise_radps * Math.sqrt(2 / third);
+  if (drift_radps > Math.max(settings.maxPreStepDriftFraction * yawChange, driftNoise_radps)) {
+    return reject(
+      'noPreStepWindow',
+      `${stepText}: the yaw rate was still changing before the step (by ${formatDegrees(drift_radps)}/s over the last ${(t[onset] - t[windowStart]).toFixed(2)} s, ${((100 * drift_radps) / yawChange).toFixed(0)} % of the step's response) so its starting level is unknown — hold the previous level until the yaw rate settles`,
+    );
+  }
+
   const steerAngle_rad = segment.steerAngle_rad?.slice(windowStart, windowEnd);
   // The plateau means include a ramp sample or two inside the band; the step levels do not.
   const measuredAmplitude_rad = levels.commandSteady_rad - levels.commandBefore_rad;
@@ -185,6 +197,18 @@ function speedDuringHold(speed_mps: Float64Array, from: number, to: number): { m
     if (speed_mps[i] > max) max = speed_mps[i];
   }
   return { mean_mps: sum / (to - from), min_mps: min, max_mps: max, spread_mps: max - min };
+}
+
+/** |mean of the last third − mean of the first third| of the pre-step samples, rad/s. */
+function preStepDrift(yawRate_radps: Float64Array, preStepSamples: number): number {
+  const third = Math.max(1, Math.floor(preStepSamples / 3));
+  let first = 0;
+  let last = 0;
+  for (let i = 0; i < third; i += 1) {
+    first += yawRate_radps[i];
+    last += yawRate_radps[preStepSamples - 1 - i];
+  }
+  return Math.abs(last - first) / third;
 }
 
 /** Last index in [from, to] before the speed spread (max − min) since `from` exceeds `allowed_mps`. */

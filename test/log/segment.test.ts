@@ -99,9 +99,21 @@ describe('findStepTests(log) accepts what it should', () => {
 describe('findStepTests(log) rejects candidates with a reason the user can act on', () => {
   it('a hold shorter than the minimum → holdTooShort', () => {
     const { steps, rejected } = search([{ level_rad: 0, hold_s: 3 }, { level_rad: deg(2), hold_s: 1 }, { level_rad: 0, hold_s: 4 }]);
-    expect(rejected.map((r) => r.reasonCode)).toEqual(['holdTooShort']);
+    expect(rejected[0].reasonCode).toBe('holdTooShort');
     expect(rejected[0].reason).toMatch(/held 1\.\d\d s \(need ≥ 1\.5 s/);
-    expect(steps).toHaveLength(1); // the return to zero after the short hold still has 1 s of pre-step level
+    // The return to zero starts while the yaw rate is still rising (τ = 0.3 s, 1 s after the step): its starting level is unknown.
+    expect(rejected[1].reasonCode).toBe('noPreStepWindow');
+    expect(rejected[1].reason).toMatch(/yaw rate was still changing before the step/);
+    expect(steps).toHaveLength(0);
+  });
+
+  it('a return to zero after a too-short hold is still accepted when the yaw rate had settled (fast plant)', () => {
+    const fast: FopdtPlant = { gain_perS: 2.5, timeConstant_s: 0.05, deadTime_s: 0.02 };
+    const { steps, rejected } = search([{ level_rad: 0, hold_s: 3 }, { level_rad: deg(2), hold_s: 1.3 }, { level_rad: 0, hold_s: 4 }], { plant: fast });
+    // Held 0.15 + 1.3 = 1.45 s < 1.5 s; the pre-step window of the return starts 0.45 s after the step, when e^(−(0.45 − 0.02)/0.05) ≈ 2e-4 of the transient is left.
+    expect(rejected.map((r) => r.reasonCode)).toEqual(['holdTooShort']);
+    expect(steps).toHaveLength(1);
+    expect(steps[0].amplitude_rad).toBeCloseTo(deg(-2), 6);
   });
 
   it('a step right after a very short hold → noPreStepWindow', () => {

@@ -1,5 +1,6 @@
 import type { CommandModule } from '../command.js';
 import { command as makeTestLogs } from './make-test-logs.js';
+import { command as inspect } from './inspect.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them.
@@ -7,4 +8,4 @@ import { command as makeTestLogs } from './make-test-logs.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [makeTestLogs];
+export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect];
