@@ -39,6 +39,14 @@ export const command: CommandModule = {
   describe: 'Write synthetic (invented, labelled) step-steer test logs for a vehicle file: one CSV per speed, simulated exactly with seeded noise',
   builder: (yargs) =>
     yargs
+      .usage(
+        'speedband make-test-logs --vehicle V --speeds LIST --out DIR [options]\n\n' +
+          'Writes invented demo data, labelled synthetic (file names synthetic-steps-<speed>mps.csv and a README.md). ' +
+          'Each log simulates the vehicle file\'s nominal single-track model and actuator exactly at one constant speed: ' +
+          '2 s at zero, then steps left and right at a large and a small road-wheel amplitude (8 steps with the returns to zero), ' +
+          'each a 0.15–0.4 s ramp, held 4.5 s, back to zero and held 3 s. ' +
+          'Columns: time_s, speed_mps, steer_cmd_rad, steer_angle_rad, yaw_rate_radps, lat_accel_mps2 (ISO 8855 signs: positive = left).',
+      )
       .option('vehicle', {
         type: 'string',
         demandOption: true,
@@ -65,7 +73,7 @@ export const command: CommandModule = {
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing files whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table' }),
   examples: [
-    ['speedband make-test-logs --vehicle vehicles/parcel-van --speeds 2,4,6,8,10,12.5,15,18,21,25 --out vehicles/parcel-van/logs', 'The parcel van demo logs'],
+    ['speedband make-test-logs --vehicle vehicles/parcel-van --speeds 2,4,6,8,10,12.5,15,18,21,25 --seed 101 --out vehicles/parcel-van/logs', 'Regenerate the parcel van demo logs'],
     ['speedband make-test-logs --vehicle my-van.json --speeds 5:5:25 --seed 7 --noise-scale 0 --out /tmp/clean', 'Noise-free logs at 5, 10, 15, 20 and 25 m/s'],
     ['speedband make-test-logs --vehicle vehicles/sidewalk-robot --speeds 1,2 --amplitudes-deg 6,3 --out /tmp/robot', 'Fixed amplitudes of 6° and 3° at every speed'],
   ],
