@@ -1,6 +1,7 @@
 import type { CommandModule } from '../command.js';
 import { command as makeTestLogs } from './make-test-logs.js';
 import { command as inspect } from './inspect.js';
+import { command as exportSchedule } from './export.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them.
@@ -8,4 +9,4 @@ import { command as inspect } from './inspect.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect];
+export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, exportSchedule];
