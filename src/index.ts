@@ -58,3 +58,13 @@ export { stepAmplitudes, planSteps, sampleCommand, planDuration_s, STEP_PLAN_DEF
 export { generateTestLog, writeTestLogs, testLogsReadme, testLogFileName, TEST_LOG_DEFAULTS, TEST_LOG_COLUMNS, type GeneratedTestLog, type TestLogOptions } from './vehicle/test-logs.js';
 export { DEMO_FLEET, regenerateDemoFleet, regenerateDemoVehicle, type DemoVehicle } from './vehicle/demo-fleet.js';
 export { matrixExponential } from './lti/matrix-exponential.js';
+// Log reading, step segmentation, transient metrics, inspection (src/log/)
+export type { SteerLog, LogSegment, LogSplit, LogChannelSource, StepTest, StepMetrics, RejectedStep } from './log/types.js';
+export { readSteerLog, parseSteerLog, READ_DEFAULTS, type ReadLogOptions } from './log/read.js';
+export { loadLogProfile, parseLogProfile, parseColumnOptions, LOG_PROFILE_SCHEMA, type LogProfile } from './log/profile.js';
+export { mergeColumnMaps, type ColumnMap, type ColumnSource } from './log/column-map.js';
+export { CHANNELS, LOG_UNITS, type ChannelName, type LogUnit } from './log/columns.js';
+export { findStepTests, SEGMENT_DEFAULTS, type SegmentOptions, type StepSearch } from './log/segment.js';
+export { stepMetrics, stepLevels, METRICS_DEFAULTS, type StepWindow, type StepLevels } from './log/metrics.js';
+export { inspectLog, type LogInspection, type StepSummary, type ChannelSummary } from './log/inspect.js';
+export { formatInspection } from './log/inspection-text.js';
