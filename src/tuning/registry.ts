@@ -52,20 +52,20 @@ export function applicableRules(model: DesignModel, parameters: RuleParameters, 
 export function applyRule(name: string, model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
   const rule = findRule(name);
   const plantClass = plantClassOf(model);
+  const declared = rule.plantClasses.includes(plantClass);
   let refusal: SpeedbandError;
-  if (!rule.plantClasses.includes(plantClass)) {
+  try {
+    // Outside its declared classes a rule is still asked, so that its refusal says the specific reason.
+    const result = rule.tune(model, parameters, context);
+    if (declared) return result;
     refusal = new SpeedbandError(
       'tuning.ruleNotApplicable',
       `rule ${rule.name} does not apply to a ${describePlantClass(plantClass)}: it is written for ${rule.plantClasses.join(', ')} plants`,
       { details: { rule: rule.name, plantClass, reason: 'plant class' } },
     );
-  } else {
-    try {
-      return rule.tune(model, parameters, context);
-    } catch (error) {
-      if (!isSpeedbandError(error) || error.code !== 'tuning.ruleNotApplicable') throw error;
-      refusal = error;
-    }
+  } catch (error) {
+    if (!isSpeedbandError(error) || error.code !== 'tuning.ruleNotApplicable') throw error;
+    refusal = error;
   }
   const alternatives = applicableRules(model, parameters, context).filter((candidate) => candidate !== rule.name);
   const advice = alternatives.length > 0 ? `rules that apply: ${alternatives.join(', ')}` : 'no rule applies to this model with these parameters';
