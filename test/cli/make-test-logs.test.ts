@@ -76,3 +76,18 @@ describe('speedband make-test-logs', () => {
     expect(help).toMatch(/Examples:/);
   });
 });
+
+describe('speedband make-test-logs --command-resolution-deg', () => {
+  it('quantises the command to multiples of the resolution and records it in the README', async () => {
+    const out = mkdtempSync(join(tmpdir(), 'speedband-cli-logs-'));
+    expect(await runCli(['make-test-logs', '--vehicle', VEHICLE, '--speeds', '2', '--command-resolution-deg', '0.5', '--out', out], recordingIo())).toBe(0);
+    const [header, ...rows] = readFileSync(join(out, 'synthetic-steps-02.00mps.csv'), 'utf8').trimEnd().split('\n');
+    const column = header.split(',').indexOf('steer_cmd_rad');
+    const step = (0.5 * Math.PI) / 180; // Source: 0.5° = 0.5·π/180 rad (definition of the degree).
+    for (const row of rows) {
+      const value = Number(row.split(',')[column]);
+      expect(Math.abs(value / step - Math.round(value / step))).toBeLessThan(1e-3); // 5-decimal rounding of the written value
+    }
+    expect(readFileSync(join(out, 'README.md'), 'utf8')).toMatch(/--command-resolution-deg 0\.5 /);
+  });
+});

@@ -70,6 +70,11 @@ export const command: CommandModule = {
         default: 1,
         describe: 'Multiplies every sensor noise level and the yaw-rate bias (1: yaw rate σ 0.001 rad/s, bias within ±0.003 rad/s; 0: noise-free)',
       })
+      .option('command-resolution-deg', {
+        type: 'number',
+        default: 0,
+        describe: 'Quantise the steer command to multiples of this road-wheel angle, degrees, as a firmware with a coarse command would (0: not quantised)',
+      })
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing files whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table' }),
   examples: [
@@ -93,6 +98,7 @@ export const command: CommandModule = {
         seed: Number(args.seed),
         sampleRate_hz: Number(args['sample-rate-hz']),
         noiseScale: Number(args['noise-scale']),
+        commandResolution_rad: degreesToRadians(Number(args['command-resolution-deg'])),
         commandPaths: { vehicle: String(args.vehicle), out: String(args.out) },
         ...(amplitudes_rad === undefined ? {} : { amplitudes_rad }),
       },
