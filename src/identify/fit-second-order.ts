@@ -8,9 +8,10 @@ import type { StepSignals } from './step-signals.js';
  * Second order plus dead time, K(βs + 1)e^(−θs)/(s²/ωn² + 2ζs/ωn + 1), fitted to one step
  * with or without the numerator zero β (without: β is not a parameter at all — the model is
  * reparametrised, never held by a zero finite-difference step). Simulated on the measured,
- * linearly interpolated input (simulate-second-order.ts). Starts come from the step's FOPDT
- * fit: the same K and θ, and ωn from matching the sum of time constants 2ζ/ωn = τ at
- * ζ = 1 and ζ = 0.6 (common practice for seeding a second-order fit).
+ * held or linearly interpolated input (simulate-second-order.ts). Starts come from the step's
+ * FOPDT fit (the same K and θ, and ωn from matching the sum of time constants 2ζ/ωn = τ at
+ * ζ = 1 and ζ = 0.6; common practice for seeding a second-order fit), or from a fitted
+ * second-order model without zero (then one start with β = 0: the models are nested).
  */
 export interface SecondOrderFit {
   readonly model: SecondOrderModel;
@@ -18,22 +19,21 @@ export interface SecondOrderFit {
   readonly withZero: boolean;
 }
 
-/** Fit the second-order model (with a zero when `withZero`), seeded from an FOPDT fit. Units: ωn rad/s, β and θ s. */
-export function fitSecondOrder(signals: StepSignals, seed: FopdtModel, withZero: boolean, biasMode: BiasMode, hold: CommandHold): SecondOrderFit {
+/** Iteration cap of the second-order fits (β and θ trade off slowly; a capped fit is simply not chosen). */
+const SECOND_ORDER_MAX_ITERATIONS = 60;
+
+/** Fit the second-order model (with a zero when `withZero`), seeded from an FOPDT fit or a second-order fit without zero. Units: ωn rad/s, β and θ s. */
+export function fitSecondOrder(signals: StepSignals, seed: FopdtModel | SecondOrderModel, withZero: boolean, biasMode: BiasMode, hold: CommandHold): SecondOrderFit {
   const { time_s, input } = signals;
   const n = time_s.length;
   const window_s = time_s[n - 1] - time_s[0];
-  const tau = Math.max(seed.timeConstant_s, 0.01);
+  const tau = seed.kind === 'fopdt' ? Math.max(seed.timeConstant_s, 0.01) : Math.max((2 * seed.dampingRatio) / seed.naturalFrequency_radps, 0.01);
   const theta = Math.max(seed.deadTime_s, 0);
-  const starts = withZero
-    ? [
-        [seed.gain, 2 / tau, 1, 0, theta],
-        [seed.gain, 1.2 / tau, 0.6, 0.3 * tau, theta],
-      ]
-    : [
-        [seed.gain, 2 / tau, 1, theta],
-        [seed.gain, 1.2 / tau, 0.6, theta],
-      ];
+  const fromFopdt = (zeta: number): number[] => (withZero ? [seed.gain, (2 * zeta) / tau, zeta, 0, theta] : [seed.gain, (2 * zeta) / tau, zeta, theta]);
+  const starts =
+    seed.kind === 'second-order'
+      ? [withZero ? [seed.gain, seed.naturalFrequency_radps, seed.dampingRatio, 0, theta] : [seed.gain, seed.naturalFrequency_radps, seed.dampingRatio, theta]]
+      : [fromFopdt(1), fromFopdt(0.6)];
   const simulate = withZero
     ? (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], p[3], p[4], hold)
     : (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], 0, p[3], hold);
@@ -51,6 +51,7 @@ export function fitSecondOrder(signals: StepSignals, seed: FopdtModel, withZero:
       upper: withZero ? [Infinity, 1e3, 20, window_s, window_s / 2] : [Infinity, 1e3, 20, window_s / 2],
     },
     biasMode,
+    SECOND_ORDER_MAX_ITERATIONS,
   );
   const p = fit.parameters;
   return {

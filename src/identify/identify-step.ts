@@ -38,7 +38,7 @@ export function identifyStep(step: StepTest, options: IdentifyOptions): StepIden
   const signals = yawSignals(step);
   const fopdt = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, biasMode: options.biasMode, hold: options.hold });
   const secondOrder = options.fitSecondOrder ? fitSecondOrder(signals, fopdt.model, false, options.biasMode, options.hold) : null;
-  const secondOrderZero = options.fitSecondOrder ? fitSecondOrder(signals, fopdt.model, true, options.biasMode, options.hold) : null;
+  const secondOrderZero = secondOrder !== null ? fitSecondOrder(signals, secondOrder.model, true, options.biasMode, options.hold) : null;
   const bic: Partial<Record<ModelStructure, number>> = { fopdt: fopdt.fit.quality.bic };
   if (secondOrder !== null && secondOrder.fit.stopReason === 'converged') bic['second-order'] = secondOrder.fit.quality.bic;
   if (secondOrderZero !== null && secondOrderZero.fit.stopReason === 'converged') bic['second-order-zero'] = secondOrderZero.fit.quality.bic;

@@ -96,15 +96,20 @@ export function simulateSecondOrder(
   const w2 = naturalFrequency_radps * naturalFrequency_radps;
   const a21 = -w2;
   const a22 = -2 * dampingRatio * naturalFrequency_radps;
-  const cache = new Map<number, Update>();
-  // Intervals are rounded to 1e−12 s so that uniform sampling reuses one cached update.
+  // Intervals within 1e−12 s of the last two seen reuse their update (uniform sampling: one for the
+  // sample period, one for the fractional delay offset).
+  let keyA = Number.NaN;
+  let keyB = Number.NaN;
+  let updateA: Update | null = null;
+  let updateB: Update | null = null;
   const update = (interval_s: number): Update => {
-    const s = Math.round(interval_s * 1e12) / 1e12;
-    let found = cache.get(s);
-    if (found === undefined) {
-      found = holdUpdate(a21, a22, s);
-      cache.set(s, found);
-    }
+    if (Math.abs(interval_s - keyA) <= 1e-12 && updateA !== null) return updateA;
+    if (Math.abs(interval_s - keyB) <= 1e-12 && updateB !== null) return updateB;
+    const found = holdUpdate(a21, a22, interval_s);
+    keyB = keyA;
+    updateB = updateA;
+    keyA = interval_s;
+    updateA = found;
     return found;
   };
   const x1 = new Float64Array(n);

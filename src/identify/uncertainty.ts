@@ -12,6 +12,8 @@ import { effectiveSampleSize, studentT975 } from './statistics.js';
 
 export interface ParameterUncertainty {
   readonly standardErrors: readonly number[];
+  /** Covariance matrix (row-major p×p), inflated for autocorrelation like the standard errors. */
+  readonly covariance: readonly number[];
   /** 95 % intervals per parameter, same order as the parameters. */
   readonly lower95: readonly number[];
   readonly upper95: readonly number[];
@@ -106,8 +108,10 @@ export function parameterUncertainty(
   const t = studentT975(effectiveSamples - p);
   const inverse = invertSmall(jtj, p);
   const standardErrors = parameters.map((_, i) => (inverse === null ? Infinity : Math.sqrt(Math.max(0, inverse[i * p + i] * residualVariance * inflation))));
+  const covariance = inverse === null ? new Array<number>(p * p).fill(Infinity) : inverse.map((v) => v * residualVariance * inflation);
   return {
     standardErrors,
+    covariance,
     lower95: parameters.map((v, i) => v - t * standardErrors[i]),
     upper95: parameters.map((v, i) => v + t * standardErrors[i]),
     residualVariance,

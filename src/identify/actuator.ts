@@ -1,0 +1,40 @@
+import type { StepTest } from '../log/types.js';
+import { inverseVarianceMean, type CombinedValue } from './aggregate.js';
+import { fitFopdt, FOPDT_FIT_DEFAULTS, type FopdtFit } from './fit-fopdt.js';
+import type { CommandHold } from './simulate-fopdt.js';
+import { actuatorSignals } from './step-signals.js';
+
+/**
+ * Steering actuator identification where the road-wheel angle is logged: a first-order
+ * lag with transport delay, g·e^(−θa s)/(τa s + 1), fitted per step from the command to
+ * the measured angle (the FOPDT fit of fit-fopdt.ts with an angle-sensor offset), then
+ * combined over the steps whose fit converged with R² ≥ 0.9 by inverse-variance weighting
+ * (aggregate.ts). g should be close to 1 for a position loop; it is reported, not forced.
+ * A rate-limited actuator makes large steps look slower: use the small steps for the lag.
+ */
+export interface ActuatorIdentification {
+  readonly gain: CombinedValue;
+  readonly lag_s: CombinedValue;
+  readonly delay_s: CombinedValue;
+  readonly stepCount: number;
+}
+
+const MIN_R2 = 0.9;
+
+/** Actuator lag and delay from the steps that log the steer angle, or null when none does (or none fits). Units: s. */
+export function identifyActuator(steps: readonly StepTest[], hold: CommandHold): ActuatorIdentification | null {
+  const fits: FopdtFit[] = [];
+  for (const step of steps) {
+    const signals = actuatorSignals(step);
+    if (signals === null) continue;
+    const fit = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, hold });
+    if (fit.fit.stopReason === 'converged' && fit.fit.quality.r2 >= MIN_R2 && fit.fit.uncertainty.identifiable) fits.push(fit);
+  }
+  if (fits.length === 0) return null;
+  const combine = (i: number): CombinedValue =>
+    inverseVarianceMean(
+      fits.map((f) => f.fit.parameters[i]),
+      fits.map((f) => f.fit.uncertainty.standardErrors[i]),
+    );
+  return { gain: combine(0), lag_s: combine(1), delay_s: combine(2), stepCount: fits.length };
+}

@@ -1,0 +1,143 @@
+import { readFileSync } from 'node:fs';
+import { SpeedbandError } from '../core/errors.js';
+import { sha256Hex } from '../core/files.js';
+import { readSteerLog, type ReadLogOptions } from '../log/read.js';
+import { findStepTests } from '../log/segment.js';
+import type { RejectedStep, StepTest } from '../log/types.js';
+import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
+import { VERSION } from '../version.js';
+import { identifyActuator } from './actuator.js';
+import { aggregateSpeed, groupBySpeed } from './aggregate.js';
+import { IDENTIFY_DEFAULTS, type IdentifyOptions } from './defaults.js';
+import { identifyStep, type StepIdentification } from './identify-step.js';
+import { fitSingleTrack } from './joint-single-track.js';
+import { refusedTestRecord, speedRecord, testRecord } from './models-records.js';
+import { MODELS_FORMAT, MODELS_FORMAT_VERSION, type ModelsFile, type SingleTrackRecord } from './models-schema.js';
+
+export interface IdentifyFromLogsInput {
+  /** Vehicle file, or a folder holding vehicle.json. */
+  readonly vehicle: string;
+  /** CSV step-test logs, one or more per speed. */
+  readonly logPaths: readonly string[];
+  readonly options?: Partial<IdentifyOptions>;
+  /** How to read the logs (column names and units). */
+  readonly readOptions?: ReadLogOptions;
+  /** Progress lines for long runs (the CLI passes io.progress). */
+  readonly progress?: (text: string) => void;
+}
+
+/**
+ * The single entry point of identification: read the vehicle and the logs, find the
+ * steps, fit each (FOPDT, second order with and without zero, BIC choice, quality gate),
+ * combine per speed (inverse-variance), identify the actuator where the steer angle is
+ * logged, fit the joint single-track model, and return the models file (not written).
+ * Deterministic: same inputs and options → identical result.
+ * Throws `identify.noSteps` when no step is found and `identify.tooFewSpeeds` when fewer
+ * than two speeds have a usable step, listing the dropped steps and why.
+ */
+export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
+  const options: IdentifyOptions = { ...IDENTIFY_DEFAULTS, ...input.options };
+  const progress = input.progress ?? (() => {});
+  const vehicleFile = resolveVehiclePath(input.vehicle);
+  const vehicle = loadVehicle(vehicleFile);
+  const inputs = input.logPaths.map((file) => ({ file, sha256: sha256Hex(readFileSync(file)) }));
+
+  const steps: StepTest[] = [];
+  const rejected: RejectedStep[] = [];
+  for (const file of input.logPaths) {
+    const log = readSteerLog(file, { steeringRatio: vehicle.steeringRatio, ...input.readOptions });
+    const search = findStepTests(log, { maxSteerAngle_rad: vehicle.maxSteerAngle_rad });
+    steps.push(...search.steps);
+    rejected.push(...search.rejected);
+  }
+  if (steps.length === 0) {
+    throw new SpeedbandError('identify.noSteps', `no step-steer event was found in ${input.logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`, {
+      location: { file: input.logPaths[0] },
+      details: { rejected: rejected.length },
+    });
+  }
+
+  const identified: StepIdentification[] = [];
+  steps.forEach((step, i) => {
+    if (i % 10 === 0) progress(`identify: fitting step ${i + 1} of ${steps.length}\n`);
+    identified.push(identifyStep(step, options));
+  });
+  const used = identified.filter((s) => s.refusal === null);
+  const refused = identified.filter((s) => s.refusal !== null);
+  const groups = groupBySpeed(used, options.speedTolerance_mps);
+  if (groups.length < 2) {
+    const dropped = refused.map((s) => `${s.file} step ${s.stepIndex} at ${s.speed_mps.toFixed(2)} m/s: ${s.refusal?.reason}`);
+    throw new SpeedbandError(
+      'identify.tooFewSpeeds',
+      `usable steps were found at ${groups.length} speed(s) (${groups.map((g) => `${g[0].speed_mps.toFixed(2)} m/s`).join(', ') || 'none'}); ` +
+        `a speed schedule needs at least two — log steps at more speeds${dropped.length > 0 ? `. Dropped steps:\n  ${dropped.join('\n  ')}` : ''}${describeRejected(rejected)}`,
+      { location: { file: input.logPaths[0] }, details: { speeds: groups.length, refused: refused.length, rejected: rejected.length } },
+    );
+  }
+  const speeds = groups.map((g) => aggregateSpeed(g, options));
+  progress('identify: steering actuator\n');
+  const actuator = identifyActuator(steps, options.hold);
+  const usedSteps = steps.filter((_, i) => identified[i].refusal === null);
+  let singleTrack: SingleTrackRecord | null = null;
+  let singleTrackRefusal: { reasonCode: string; reason: string } | null = null;
+  const warnings = speeds.flatMap((s) => s.warnings);
+  if (options.jointFit) {
+    progress('identify: joint single-track fit\n');
+    const joint = fitSingleTrack(vehicle, usedSteps, speeds, actuator, options.jointMismatchWarning_pct);
+    if ('reasonCode' in joint) {
+      singleTrackRefusal = joint;
+    } else {
+      warnings.push(...joint.warnings);
+      singleTrack = {
+        frontCorneringStiffness_NPerRad: joint.parameters.frontCorneringStiffness_NPerRad,
+        rearCorneringStiffness_NPerRad: joint.parameters.rearCorneringStiffness_NPerRad,
+        actuatorLag_s: joint.parameters.actuatorLag_s,
+        actuatorDelay_s: joint.parameters.actuatorDelay_s,
+        understeerGradient_radPerMps2: joint.understeerGradient_radPerMps2,
+        ci95: joint.ci95,
+        characteristicSpeed_mps: joint.characteristicSpeed_mps,
+        criticalSpeed_mps: joint.criticalSpeed_mps,
+        r2: joint.r2,
+        rmse: joint.rmse,
+        stepCount: joint.stepCount,
+        stopReason: joint.stopReason,
+        comparison: joint.comparison,
+      };
+    }
+  } else {
+    singleTrackRefusal = { reasonCode: 'notRequested', reason: 'the joint single-track fit was switched off' };
+  }
+  const byStep = (a: StepIdentification, b: StepIdentification): number => a.file.localeCompare(b.file) || a.stepIndex - b.stepIndex;
+  return {
+    format: MODELS_FORMAT,
+    formatVersion: MODELS_FORMAT_VERSION,
+    tool: { name: 'speedband', version: VERSION },
+    vehicle: { name: vehicle.name, file: vehicleFile, sha256: sha256Hex(readFileSync(vehicleFile)) },
+    inputs,
+    options: { ...options },
+    criterion: 'BIC',
+    tests: [...used].sort(byStep).map(testRecord),
+    refusedTests: [...refused].sort(byStep).map(refusedTestRecord),
+    rejectedSteps: rejected.map((r) => ({ file: r.file, onset_s: r.onset_s, reasonCode: r.reasonCode, reason: r.reason })),
+    speeds: speeds.map(speedRecord),
+    actuator:
+      actuator === null
+        ? null
+        : {
+            gain: actuator.gain.value,
+            lag_s: actuator.lag_s.value,
+            delay_s: actuator.delay_s.value,
+            ci95: { gain: actuator.gain.ci95, lag_s: actuator.lag_s.ci95, delay_s: actuator.delay_s.ci95 },
+            stepCount: actuator.stepCount,
+          },
+    singleTrack,
+    singleTrackRefusal,
+    warnings,
+  };
+}
+
+function describeRejected(rejected: readonly RejectedStep[]): string {
+  if (rejected.length === 0) return '';
+  const shown = rejected.slice(0, 10).map((r) => `${r.file} at ${r.onset_s.toFixed(2)} s: ${r.reason}`);
+  return `. Candidates rejected by segmentation (${rejected.length}):\n  ${shown.join('\n  ')}${rejected.length > 10 ? '\n  …' : ''}`;
+}

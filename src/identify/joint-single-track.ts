@@ -1,0 +1,212 @@
+import type { StepTest } from '../log/types.js';
+import type { SingleTrackParameters, Vehicle } from '../vehicle/types.js';
+import {
+  characteristicSpeed_mps,
+  criticalSpeed_mps,
+  singleTrackTransferFunctions,
+  steadyStateYawGain_perS,
+  understeerGradient_radPerMps2,
+} from '../vehicle/single-track.js';
+import type { SpeedModel } from './aggregate.js';
+import type { ActuatorIdentification } from './actuator.js';
+import type { FitRefusal } from './quality-gate.js';
+import { fitLeastSquares, LEAST_SQUARES_DEFAULTS, type StopReason } from './least-squares.js';
+import { simulateThirdOrderHeld } from './simulate-third-order.js';
+import { yawSignals } from './step-signals.js';
+import { numericalJacobian, parameterUncertainty } from './uncertainty.js';
+
+/**
+ * Joint single-track fit over all steps at all speeds. Mass, yaw inertia and axle
+ * positions come from the vehicle file; the fit finds the axle cornering stiffnesses
+ * Cf, Cr (N/rad), the actuator lag τa and delay θa (s), and one yaw-rate offset per step.
+ * Each step is simulated exactly (command held between samples) through
+ *   e^(−θa s)/(τa s + 1) · (b1 s + b0)/(s² + a1 s + a0)
+ * with the single-track coefficients at the step's speed (vehicle/single-track.ts;
+ * DOMAIN.md §3; Gillespie 1992, Rajamani 2012). Positivity by reparametrisation: the
+ * fitted parameters are ln Cf, ln Cr, τa, θa. The per-step offsets are solved exactly
+ * (the mean residual of each step: variable projection), so the fitter sees 4 parameters.
+ * Intervals: from the Jacobian (uncertainty.ts), exponentiated for Cf and Cr, and by the
+ * delta method for the understeer gradient K = (m/L)(b/Cf − a/Cr).
+ */
+
+export interface SingleTrackFit {
+  readonly parameters: SingleTrackParameters;
+  readonly ci95: {
+    readonly frontCorneringStiffness_NPerRad: readonly [number, number];
+    readonly rearCorneringStiffness_NPerRad: readonly [number, number];
+    readonly actuatorLag_s: readonly [number, number];
+    readonly actuatorDelay_s: readonly [number, number];
+    readonly understeerGradient_radPerMps2: readonly [number, number];
+  };
+  readonly understeerGradient_radPerMps2: number;
+  readonly characteristicSpeed_mps: number | null;
+  readonly criticalSpeed_mps: number | null;
+  readonly r2: number;
+  readonly rmse: number;
+  readonly stepCount: number;
+  readonly stopReason: StopReason;
+  readonly comparison: readonly { readonly speed_mps: number; readonly fopdtGain: number; readonly singleTrackGain: number; readonly difference_pct: number }[];
+  readonly warnings: readonly string[];
+}
+
+/** Normalised axle cornering stiffness used for a start when the vehicle file has none: C ≈ 10 × axle load per rad (common practice for road tyres; from memory). */
+const START_STIFFNESS_PER_LOAD = 10;
+const GRAVITY_MPS2 = 9.80665;
+
+function startParameters(vehicle: Vehicle, speeds: readonly SpeedModel[], actuator: ActuatorIdentification | null): number[] {
+  const a = vehicle.cgToFrontAxle_m;
+  const b = vehicle.cgToRearAxle_m;
+  const L = a + b;
+  let cf = vehicle.frontCorneringStiffness_NPerRad;
+  let cr = vehicle.rearCorneringStiffness_NPerRad;
+  if (cf === undefined || cr === undefined) {
+    // Understeer gradient from the steady gains: 1/G = L/v + K·v (DOMAIN.md §3), averaged over speeds.
+    const k = speeds.reduce((sum, s) => sum + (s.speed_mps / s.model.gain - L) / (s.speed_mps * s.speed_mps), 0) / speeds.length;
+    cr = START_STIFFNESS_PER_LOAD * vehicle.mass_kg * GRAVITY_MPS2 * (a / L);
+    const inverseCf = (k * L) / vehicle.mass_kg / b + a / (b * cr);
+    cf = inverseCf > 0 ? 1 / inverseCf : START_STIFFNESS_PER_LOAD * vehicle.mass_kg * GRAVITY_MPS2 * (b / L);
+  }
+  const lag = actuator?.lag_s.value ?? vehicle.actuatorLag_s ?? 0.05;
+  const delay = actuator?.delay_s.value ?? vehicle.actuatorDelay_s ?? 0.05;
+  return [Math.log(cf), Math.log(cr), Math.max(lag, 0.005), Math.max(delay, 0)];
+}
+
+function parametersOf(vehicle: Vehicle, p: readonly number[]): SingleTrackParameters {
+  return {
+    mass_kg: vehicle.mass_kg,
+    yawInertia_kgm2: vehicle.yawInertia_kgm2,
+    cgToFrontAxle_m: vehicle.cgToFrontAxle_m,
+    cgToRearAxle_m: vehicle.cgToRearAxle_m,
+    frontCorneringStiffness_NPerRad: Math.exp(p[0]),
+    rearCorneringStiffness_NPerRad: Math.exp(p[1]),
+    actuatorLag_s: p[2],
+    actuatorDelay_s: p[3],
+  };
+}
+
+/** Lags below this are simulated at this value (the third-order form divides by τa), s. */
+const MIN_LAG_S = 1e-4;
+
+/** Yaw rate of one step without offset: command (relative to pre-step) through actuator and single-track model. */
+function simulateStep(params: SingleTrackParameters, speed_mps: number, time_s: Float64Array, input: Float64Array): Float64Array {
+  const yaw = singleTrackTransferFunctions(params, speed_mps).yawRate;
+  const [b1, b0] = yaw.numerator.length === 2 ? yaw.numerator : [0, yaw.numerator[0]];
+  const [, a1, a0] = yaw.denominator;
+  const tau = Math.max(params.actuatorLag_s, MIN_LAG_S);
+  // (τs + 1)(s² + a1 s + a0) / τ, monic
+  const denominator: [number, number, number, number] = [1, a1 + 1 / tau, a0 + a1 / tau, a0 / tau];
+  return simulateThirdOrderHeld(time_s, input, [0, b1 / tau, b0 / tau], denominator, params.actuatorDelay_s);
+}
+
+/** Fit Cf, Cr, τa, θa to all steps (method in the file comment); a refusal when the fit fails or is not determined. */
+export function fitSingleTrack(
+  vehicle: Vehicle,
+  steps: readonly StepTest[],
+  speeds: readonly SpeedModel[],
+  actuator: ActuatorIdentification | null,
+  mismatchWarning_pct: number,
+): SingleTrackFit | FitRefusal {
+  const signals = steps.map(yawSignals);
+  const total = signals.reduce((sum, s) => sum + s.time_s.length, 0);
+  const data = new Float64Array(total);
+  let offset = 0;
+  for (const s of signals) {
+    data.set(s.output, offset);
+    offset += s.output.length;
+  }
+  const model = (p: readonly number[]): Float64Array => {
+    const params = parametersOf(vehicle, p);
+    const prediction = new Float64Array(total);
+    let at = 0;
+    for (let i = 0; i < steps.length; i++) {
+      const s = signals[i];
+      const y = simulateStep(params, steps[i].speed_mps, s.time_s, s.input);
+      let mean = 0;
+      for (let k = 0; k < y.length; k++) mean += s.output[k] - y[k];
+      mean /= y.length;
+      for (let k = 0; k < y.length; k++) prediction[at + k] = y[k] + mean;
+      at += y.length;
+    }
+    return prediction;
+  };
+  const start = startParameters(vehicle, speeds, actuator);
+  let residualScale = 0;
+  for (let i = 0; i < total; i++) residualScale = Math.max(residualScale, Math.abs(data[i]));
+  const scale = [1, 1, 0.05, 0.05];
+  const result = fitLeastSquares(
+    { data, model, initial: start, scale, lower: [Math.log(10), Math.log(10), 0.001, 0], upper: [Math.log(1e8), Math.log(1e8), 1, 0.5], residualScale: Math.max(residualScale, 1e-9) },
+    { ...LEAST_SQUARES_DEFAULTS, maxIterations: 100 },
+  );
+  if (result.stopReason !== 'converged') {
+    return {
+      reasonCode: 'notConverged',
+      reason: `the joint single-track fit did not converge (${result.stopReason} after ${result.iterations} iterations) — check the vehicle file's mass, inertia and axle positions against the vehicle tested`,
+    };
+  }
+  const p = result.parameters;
+  const prediction = model(p);
+  let mean = 0;
+  for (let i = 0; i < total; i++) mean += data[i];
+  mean /= total;
+  let sst = 0;
+  for (let i = 0; i < total; i++) sst += (data[i] - mean) ** 2;
+  const r2 = 1 - result.ssr / sst;
+  const rmse = Math.sqrt(result.ssr / total);
+  // Lag-1 autocorrelation of the residuals for the effective sample size.
+  let c0 = 0;
+  let c1 = 0;
+  for (let i = 0; i < total; i++) c0 += (data[i] - prediction[i]) ** 2;
+  for (let i = 1; i < total; i++) c1 += (data[i] - prediction[i]) * (data[i - 1] - prediction[i - 1]);
+  const jacobian = numericalJacobian(model, p, scale);
+  // The per-step offsets are fitted too: count them in the degrees of freedom via the SSR scaling.
+  const uncertainty = parameterUncertainty(p, jacobian.columns, result.ssr * (total - 4) / Math.max(1, total - 4 - steps.length), c0 > 0 ? c1 / c0 : 0);
+  if (!uncertainty.identifiable) {
+    return {
+      reasonCode: 'notDetermined',
+      reason: 'the steps do not determine Cf, Cr, actuator lag and delay together (singular Jacobian) — test at least two well separated speeds',
+    };
+  }
+  const params = parametersOf(vehicle, p);
+  const m = vehicle.mass_kg;
+  const a = vehicle.cgToFrontAxle_m;
+  const b = vehicle.cgToRearAxle_m;
+  const L = a + b;
+  const understeer = understeerGradient_radPerMps2(params);
+  // Delta method on K(ln Cf, ln Cr): ∂K/∂lnCf = −(m/L)·b/Cf, ∂K/∂lnCr = (m/L)·a/Cr.
+  const gf = (-(m / L) * b) / params.frontCorneringStiffness_NPerRad;
+  const gr = ((m / L) * a) / params.rearCorneringStiffness_NPerRad;
+  const cov = uncertainty.covariance;
+  const varianceK = gf * gf * cov[0] + 2 * gf * gr * cov[1] + gr * gr * cov[5];
+  const halfK = (uncertainty.upper95[0] - p[0]) / Math.max(uncertainty.standardErrors[0], 1e-300) * Math.sqrt(Math.max(varianceK, 0));
+  const warnings: string[] = [];
+  const comparison = speeds.map((s) => {
+    const singleTrackGain = steadyStateYawGain_perS(params, s.speed_mps);
+    const difference_pct = (100 * (singleTrackGain - s.model.gain)) / Math.abs(s.model.gain);
+    if (Math.abs(difference_pct) > mismatchWarning_pct) {
+      warnings.push(
+        `at ${s.speed_mps.toFixed(2)} m/s the joint single-track model's steady yaw gain ${singleTrackGain.toFixed(3)} 1/s misses the measured ${s.model.gain.toFixed(3)} 1/s by ${difference_pct.toFixed(1)} % ` +
+          `(threshold ${mismatchWarning_pct} %) — the linear single-track model does not explain this speed: check for tyre saturation (large steps), load or surface changes`,
+      );
+    }
+    return { speed_mps: s.speed_mps, fopdtGain: s.model.gain, singleTrackGain, difference_pct };
+  });
+  return {
+    parameters: params,
+    ci95: {
+      frontCorneringStiffness_NPerRad: [Math.exp(uncertainty.lower95[0]), Math.exp(uncertainty.upper95[0])],
+      rearCorneringStiffness_NPerRad: [Math.exp(uncertainty.lower95[1]), Math.exp(uncertainty.upper95[1])],
+      actuatorLag_s: [uncertainty.lower95[2], uncertainty.upper95[2]],
+      actuatorDelay_s: [uncertainty.lower95[3], uncertainty.upper95[3]],
+      understeerGradient_radPerMps2: [understeer - halfK, understeer + halfK],
+    },
+    understeerGradient_radPerMps2: understeer,
+    characteristicSpeed_mps: characteristicSpeed_mps(params),
+    criticalSpeed_mps: criticalSpeed_mps(params),
+    r2,
+    rmse,
+    stepCount: steps.length,
+    stopReason: result.stopReason,
+    comparison,
+    warnings,
+  };
+}
