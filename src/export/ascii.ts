@@ -27,6 +27,7 @@ const REPLACEMENTS: Readonly<Record<string, string>> = {
   '“': '"',
   '”': '"',
   '…': '...',
+  '√': 'sqrt',
 };
 
 export function toAscii(text: string): string {

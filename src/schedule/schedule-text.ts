@@ -42,22 +42,27 @@ export const CONTROLLER_EQUATION =
   'u = kp·e + ki·∫e dt + kd·s/(1 + Tf·s)·e, Tf = Td/N, Td = kd/kp (gains interpolated at the current speed); ' +
   'u is the road-wheel angle command, rad, positive to the left; N = derivativeFilter';
 
-/** The per-sample update, k = sample index, Ts = sampleTime_s, I clamped to ±integratorClamp_rad. */
+/**
+ * The per-sample update, k = sample index, Ts = sampleTime_s, I clamped to ±integratorClamp_rad.
+ * The same equations as src/controller/discrete-step.ts (discretePidStep) and derivativeFilterTime_s.
+ */
 export function controllerUpdateText(discretisation: Discretisation): string[] {
-  const common = ['Tf = kd/(kp·N) with kp, ki, kd the gains looked up at the current speed'];
+  const common = [
+    'kp[k], ki[k], kd[k] = the gains looked up at the current speed; Tf = kd/(kp·N) (Tf = 0 when kd = 0; Tf = √(kd/ki)/N when kp = 0)',
+  ];
   if (discretisation === 'tustin') {
     return [
       ...common,
-      'I[k] = clamp(I[k−1] + ki·Ts·(e[k] + e[k−1])/2, −integratorClamp_rad, +integratorClamp_rad)',
-      'D[k] = ((2·Tf − Ts)·D[k−1] + 2·kd·(e[k] − e[k−1]))/(2·Tf + Ts)   (Tustin; the filter pole (2Tf − Ts)/(2Tf + Ts) nears −1 as Tf → 0)',
-      'u[k] = kp·e[k] + I[k] + D[k]',
+      'I[k] = clamp(I[k−1] + Ts·(ki[k]·e[k] + ki[k−1]·e[k−1])/2, −integratorClamp_rad, +integratorClamp_rad)',
+      'D[k] = ((2·Tf − Ts)·D[k−1] + 2·kd[k]·(e[k] − e[k−1]))/(2·Tf + Ts)   (Tustin; the filter pole (2Tf − Ts)/(2Tf + Ts) nears −1 as Tf → 0)',
+      'u[k] = kp[k]·e[k] + I[k] + D[k]',
     ];
   }
   return [
     ...common,
-    'I[k] = clamp(I[k−1] + ki·Ts·e[k], −integratorClamp_rad, +integratorClamp_rad)',
-    'D[k] = (Tf·D[k−1] + kd·(e[k] − e[k−1]))/(Tf + Ts)   (backward Euler; the filter pole Tf/(Tf + Ts) stays in [0, 1))',
-    'u[k] = kp·e[k] + I[k] + D[k]',
+    'I[k] = clamp(I[k−1] + ki[k]·Ts·e[k], −integratorClamp_rad, +integratorClamp_rad)',
+    'D[k] = (Tf·D[k−1] + kd[k]·(e[k] − e[k−1]))/(Tf + Ts)   (backward Euler; the filter pole Tf/(Tf + Ts) stays in [0, 1))',
+    'u[k] = kp[k]·e[k] + I[k] + D[k]',
   ];
 }
 

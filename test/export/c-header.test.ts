@@ -101,7 +101,7 @@ describe('exportC(schedule)', () => {
     expect(text).toMatch(/#ifndef SPEEDBAND_SCHEDULE_H/);
     expect(text).toMatch(/kp rad per m; ki rad per m\*s; kd rad per m\/s/);
     expect(text).toMatch(/Loop: path \(preview 4 m from the front-axle\)/);
-    expect(text).toMatch(/I\[k\] = clamp\(I\[k-1\] \+ ki\*Ts\*e\[k\]/);
+    expect(text).toMatch(/I\[k\] = clamp\(I\[k-1\] \+ ki\[k\]\*Ts\*e\[k\]/);
     expect(text).toMatch(/closed track/);
     expect(text).toMatch(/IEEE 754 double/);
     expect(text).not.toMatch(/malloc|free\(/);
