@@ -2,13 +2,15 @@
  * Reading a vehicle file: a path to vehicle.json, or a folder holding one.
  * Checked in three passes, each error naming the file and the JSON path:
  * required fields (with a hint when the field is present under another unit),
- * the JSON Schema (types, unknown fields), then physical ranges and relations.
+ * unknown fields (with "did you mean"), the JSON Schema (types), then physical
+ * ranges and relations.
  */
 import { existsSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
+import { closestName } from '../log/closest-name.js';
 import { VEHICLE_RANGES, VEHICLE_SCHEMA } from './schema.js';
 import type { Vehicle } from './types.js';
 
@@ -32,6 +34,19 @@ function checkRequiredFields(value: Record<string, unknown>, file: string): void
     throw new SpeedbandError('vehicle.missingField', `missing required field "${field}": ${hint}`, {
       location: { file, jsonPath: `/${field}` },
       details: { field, lookalike: lookalike ?? null },
+    });
+  }
+}
+
+function checkUnknownFields(value: Record<string, unknown>, file: string): void {
+  const known = Object.keys(VEHICLE_SCHEMA.properties);
+  for (const key of Object.keys(value)) {
+    if (known.includes(key)) continue;
+    const suggestion = closestName(key, known);
+    const hint = suggestion === null ? `known fields: ${known.filter((name) => name !== '$schema').join(', ')}` : `did you mean "${suggestion}"?`;
+    throw new SpeedbandError('vehicle.unknownField', `unknown field "${key}" — ${hint} (remove it or fix its spelling)`, {
+      location: { file, jsonPath: `/${key}` },
+      details: { field: key, suggestion },
     });
   }
 }
@@ -64,12 +79,13 @@ function checkRanges(vehicle: Vehicle, file: string): void {
 /**
  * Validate a parsed vehicle file (already-parsed JSON) and return it typed.
  * `file` is used in error locations only. Throws `SpeedbandError` with code
- * `vehicle.missingField`, `vehicle.invalid` (schema), `vehicle.outOfRange` or
+ * `vehicle.missingField`, `vehicle.unknownField`, `vehicle.invalid` (schema), `vehicle.outOfRange` or
  * `vehicle.incompleteStiffness`, located by file and JSON path.
  */
 export function validateVehicle(value: unknown, file: string): Vehicle {
   if (typeof value === 'object' && value !== null && !Array.isArray(value)) {
     checkRequiredFields(value as Record<string, unknown>, file);
+    checkUnknownFields(value as Record<string, unknown>, file);
   }
   const vehicle = validateStructure(value, file);
   checkRanges(vehicle, file);

@@ -98,10 +98,17 @@ describe('loadVehicle(path)', () => {
     expect(error.location.jsonPath).toBe('/rearCorneringStiffness_NPerRad');
   });
 
-  it('rejects an unknown field, naming it', () => {
+  it('rejects an unknown field, naming it and its JSON path', () => {
     const error = errorOf(() => validateVehicle({ ...GOOD, wheelbase_m: 3.4 }, 'v.json'));
-    expect(error.code).toBe('vehicle.invalid');
+    expect(error.code).toBe('vehicle.unknownField');
+    expect(error.location.jsonPath).toBe('/wheelbase_m');
     expect(error.message).toMatch(/unknown field "wheelbase_m"/);
+  });
+
+  it('suggests the field a misspelt one probably meant', () => {
+    const { actuatorDelay_s: _delay, ...withoutDelay } = GOOD;
+    const error = errorOf(() => validateVehicle({ ...withoutDelay, actuatorDleay_s: 0.04 }, 'v.json'));
+    expect(error.message).toMatch(/unknown field "actuatorDleay_s" — did you mean "actuatorDelay_s"\?/);
   });
 
   it('names the line of a JSON syntax error', () => {
