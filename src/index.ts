@@ -77,6 +77,7 @@ export {
   denseCheck,
   judgeMargins,
   refineBreakpoints,
+  scheduleGains,
   THRESHOLD_DEFAULTS,
   PLAN_DEFAULTS,
   PLAN_SCHEMA,

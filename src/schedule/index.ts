@@ -33,3 +33,4 @@ export { assembleSchedule, parseSchedule, readSchedule, writeSchedule, type Sche
 export { serialiseSchedule } from './schedule-json.js';
 export { gainUnits } from './schedule-text.js';
 export { scheduleTable, scheduleLookup, scheduleLookupSettings } from './schedule-lookup.js';
+export { scheduleGains, type ScheduleGainsInput } from './schedule-gains.js';
