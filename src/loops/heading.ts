@@ -12,6 +12,7 @@ export const HEADING_LOOP: LoopDefinition = {
   kind: 'heading',
   description: 'steer command → heading ψ = r/s (integrating)',
   outputUnit: 'rad',
+  gainUnits: { kp: 'rad per rad', ki: 'rad per rad·s', kd: 'rad per rad/s' },
   fromYawRate: (yawRate) => integrate(yawRate),
   fromSingleTrack: (responses) => integrate(responses.yawRate),
   integrators: 1,

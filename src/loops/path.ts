@@ -14,6 +14,7 @@ export const PATH_LOOP: LoopDefinition = {
   kind: 'path',
   description: 'steer command → lateral offset at a preview point (double-integrating)',
   outputUnit: 'm',
+  gainUnits: { kp: 'rad per m', ki: 'rad per m·s', kd: 'rad per m/s' },
   fromYawRate: (yawRate, { speed_mps, previewFromCg_m }) => ({
     numerator: multiplyPolynomials(yawRate.numerator, [previewFromCg_m, speed_mps]),
     denominator: multiplyPolynomials(yawRate.denominator, [1, 0, 0]),

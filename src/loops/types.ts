@@ -48,8 +48,10 @@ export interface LoopContext {
 export interface LoopDefinition {
   readonly kind: LoopKind;
   readonly description: string;
-  /** Unit of the controlled variable, for help texts and gain units. */
+  /** Unit of the controlled variable, for help texts. */
   readonly outputUnit: string;
+  /** Units of the parallel gains kp, ki, kd (steer command rad per error, per error·s, per error rate). */
+  readonly gainUnits: { readonly kp: string; readonly ki: string; readonly kd: string };
   /** From a steer → yaw-rate transfer function alone (lumped models; lateral velocity neglected). */
   readonly fromYawRate: (yawRate: TransferFunction, context: LoopContext) => TransferFunction;
   /** From the single-track responses (exact: uses lateral velocity too). */

@@ -5,6 +5,7 @@ export const YAW_RATE_LOOP: LoopDefinition = {
   kind: 'yaw-rate',
   description: 'steer command → yaw rate (self-regulating)',
   outputUnit: 'rad/s',
+  gainUnits: { kp: 'rad per rad/s', ki: 'rad per rad', kd: 'rad per rad/s²' },
   fromYawRate: (yawRate) => yawRate,
   fromSingleTrack: (responses) => responses.yawRate,
   integrators: 0,

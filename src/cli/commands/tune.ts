@@ -1,0 +1,117 @@
+import { SpeedbandError } from '../../core/errors.js';
+import { CONTROLLER_DEFAULTS } from '../../controller/defaults.js';
+import type { ControllerSettings } from '../../controller/types.js';
+import { TUNING_DEFAULTS } from '../../tuning/defaults.js';
+import { RULE_NAMES } from '../../tuning/registry.js';
+import type { RuleParameters } from '../../tuning/types.js';
+import type { CommandModule } from '../command.js';
+import { EXIT } from '../io.js';
+
+/** A number option or undefined when absent (yargs gives NaN for a non-number). */
+function numberOption(args: Record<string, unknown>, name: string): number | undefined {
+  const value = args[name];
+  if (value === undefined) return undefined;
+  if (typeof value !== 'number' || !Number.isFinite(value)) {
+    throw new SpeedbandError('cli.badNumber', `--${name} is "${String(value)}"; expected a finite number`, { details: { option: name } });
+  }
+  return value;
+}
+
+export const command: CommandModule = {
+  command: 'tune',
+  describe: 'Tune one operating point: apply a published tuning rule to the loop the firmware closes at one speed and report the gains, the derivation and the margins of the full loop',
+  builder: (yargs) =>
+    yargs
+      .usage(
+        'speedband tune --rule RULE --speed-mps V (--gain K --time-constant-s T --dead-time-s L | --vehicle V) [options]\n\n' +
+          'The model is either a lumped steer-command → yaw-rate FOPDT K·e^(−Ls)/(Ts + 1) (as identified from step tests at this speed) or a vehicle file with nominal cornering stiffnesses (single-track model with its actuator). ' +
+          'The rule is applied to the design model of the chosen loop (yaw rate: self-regulating; heading: integrating; path: double-integrating); the margins are computed on the full loop with the exact delay, ' +
+          'the derivative filter and the controller delay Ts/2 + latency. Exit code 0 when the tuned loop is stable, 1 when not, 2 for bad input or a rule that does not apply.',
+      )
+      .option('rule', { type: 'string', choices: [...RULE_NAMES], demandOption: true, describe: 'Tuning rule' })
+      .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'], default: 'yaw-rate', describe: 'The loop the firmware closes' })
+      .option('speed-mps', { type: 'number', demandOption: true, describe: 'Forward speed of the operating point, m/s' })
+      .option('preview-m', { type: 'number', default: 0, describe: 'Path loop: preview distance ahead of the reference point, m' })
+      .option('reference-point', { type: 'string', choices: ['cg', 'front-axle'], default: 'cg', describe: 'Path loop: where the preview distance is measured from (front-axle needs --vehicle)' })
+      .option('gain', { type: 'number', describe: 'FOPDT steady yaw-rate gain K, (rad/s)/rad' })
+      .option('time-constant-s', { type: 'number', describe: 'FOPDT time constant T, s' })
+      .option('dead-time-s', { type: 'number', describe: 'FOPDT dead time L, s (actuator delay included, as identified)' })
+      .option('vehicle', { type: 'string', describe: 'Vehicle file (vehicle.json) or its folder: the single-track model with nominal cornering stiffnesses, or with --gain only the geometry and sample time' })
+      .option('controller-type', { type: 'string', choices: ['P', 'PI', 'PID'], describe: `Controller terms (Ziegler–Nichols default ${TUNING_DEFAULTS.controllerType}; SIMC default by plant class)` })
+      .option('closed-loop-time-constant-s', { type: 'number', describe: 'IMC λ or SIMC τc, s (default: the design model\'s dead time θ)' })
+      .option('damping-ratio', { type: 'number', describe: `Damping target ζ (default ${TUNING_DEFAULTS.dampingRatio})` })
+      .option('natural-frequency-radps', { type: 'number', describe: `Damping target ωn, rad/s (default: from --settling-distance-m, else ωn·θ_eff = ${TUNING_DEFAULTS.defaultBandwidthDelayProduct})` })
+      .option('settling-distance-m', { type: 'number', describe: 'Damping target settling distance D, m: ωn = 4·v/(ζ·D)' })
+      .option('integral-pole-ratio', { type: 'number', describe: `Damping target ωn/p (default ${TUNING_DEFAULTS.integralPoleRatio})` })
+      .option('sample-time-s', { type: 'number', describe: `Controller sample time Ts, s (default: the vehicle's, else ${CONTROLLER_DEFAULTS.sampleTime_s})` })
+      .option('latency-s', { type: 'number', default: CONTROLLER_DEFAULTS.computationLatency_s, describe: 'Computation latency from sample to steer command, s' })
+      .option('derivative-filter', { type: 'number', default: CONTROLLER_DEFAULTS.derivativeFilter, describe: 'Derivative filter factor N: Tf = (kd/kp)/N' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' }),
+  examples: [
+    ['speedband tune --rule simc --loop yaw-rate --speed-mps 8 --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07', 'SIMC PI for a yaw-rate loop from an identified FOPDT'],
+    ['speedband tune --rule damping-target --loop path --preview-m 2 --reference-point front-axle --speed-mps 10 --settling-distance-m 30 --vehicle vehicles/parcel-van', 'Path loop with 2 m preview from the front axle, settling within 30 m, on the single-track model'],
+    ['speedband tune --rule ziegler-nichols-ultimate --controller-type PI --loop heading --speed-mps 2 --vehicle vehicles/vineyard-sprayer --json', 'Ziegler–Nichols PI for a heading loop, machine-readable'],
+  ],
+  run: async (args, io) => {
+    const { tuneOperatingPoint } = await import('../../tuning/operating-point.js');
+    const { describeTunedOperatingPoint } = await import('../../tuning/describe.js');
+    const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
+    const gain = numberOption(args, 'gain');
+    const timeConstant_s = numberOption(args, 'time-constant-s');
+    const deadTime_s = numberOption(args, 'dead-time-s');
+    const fopdtGiven = [gain, timeConstant_s, deadTime_s].filter((value) => value !== undefined).length;
+    if (fopdtGiven !== 0 && fopdtGiven !== 3) {
+      throw new SpeedbandError('cli.incompleteModel', 'a FOPDT model needs all of --gain, --time-constant-s and --dead-time-s', { details: { gain, timeConstant_s, deadTime_s } });
+    }
+    if (fopdtGiven === 0 && vehicle === undefined) {
+      throw new SpeedbandError('cli.missingModel', 'no model given — pass --gain, --time-constant-s and --dead-time-s (an identified FOPDT), or --vehicle with nominal cornering stiffnesses');
+    }
+    let model;
+    if (fopdtGiven === 3) {
+      if (timeConstant_s! < 0 || deadTime_s! < 0) {
+        throw new SpeedbandError('cli.badNumber', `FOPDT times must be ≥ 0 s; got time constant ${timeConstant_s} s and dead time ${deadTime_s} s`);
+      }
+      model = {
+        kind: 'lumped' as const,
+        yawRate: { kind: 'fopdt' as const, gain: gain!, timeConstant_s: timeConstant_s!, deadTime_s: deadTime_s! },
+        ...(vehicle === undefined ? {} : { cgToFrontAxle_m: vehicle.cgToFrontAxle_m }),
+      };
+    } else {
+      const { singleTrackParametersFromVehicle } = await import('../../vehicle/single-track.js');
+      model = { kind: 'single-track' as const, parameters: singleTrackParametersFromVehicle(vehicle!) };
+    }
+    const controller: ControllerSettings = {
+      ...CONTROLLER_DEFAULTS,
+      sampleTime_s: numberOption(args, 'sample-time-s') ?? vehicle?.controllerSampleTime_s ?? CONTROLLER_DEFAULTS.sampleTime_s,
+      computationLatency_s: numberOption(args, 'latency-s') ?? CONTROLLER_DEFAULTS.computationLatency_s,
+      derivativeFilter: numberOption(args, 'derivative-filter') ?? CONTROLLER_DEFAULTS.derivativeFilter,
+    };
+    const timeConstant = numberOption(args, 'closed-loop-time-constant-s');
+    const ruleParameters: RuleParameters = {
+      ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] as 'P' | 'PI' | 'PID' }),
+      ...(timeConstant === undefined ? {} : { closedLoopTimeConstant_s: timeConstant, simcClosedLoopTimeConstant_s: timeConstant }),
+      ...optionalNumber('dampingRatio', numberOption(args, 'damping-ratio')),
+      ...optionalNumber('naturalFrequency_radps', numberOption(args, 'natural-frequency-radps')),
+      ...optionalNumber('settlingDistance_m', numberOption(args, 'settling-distance-m')),
+      ...optionalNumber('integralPoleRatio', numberOption(args, 'integral-pole-ratio')),
+    };
+    const point = tuneOperatingPoint({
+      loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
+      speed_mps: numberOption(args, 'speed-mps')!,
+      model,
+      rule: String(args.rule),
+      ruleParameters,
+      controller,
+    });
+    if (args.json) {
+      io.stdout(`${JSON.stringify({ gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, controller }, null, 2)}\n`);
+    } else {
+      io.stdout(`${describeTunedOperatingPoint(point)}\n`);
+    }
+    return point.margins.stable ? EXIT.ok : EXIT.failed;
+  },
+};
+
+function optionalNumber<K extends string>(key: K, value: number | undefined): Partial<Record<K, number>> {
+  return value === undefined ? {} : ({ [key]: value } as Record<K, number>);
+}
