@@ -44,11 +44,11 @@ export function findGainCrossovers(loop: CompiledLoopResponse, grid: LoopGrid, r
 }
 
 /**
- * Every crossing of the negative real axis by L(jω) in the grid's band, in order of
- * frequency. Crossings whose grid estimate of |L| is at least `refineAbove`, and the
- * `refineLargestBelow` largest of the others, are refined; the rest keep a grid
- * estimate (they are far inside the unit circle and decide neither a margin nor the
- * encirclement count).
+ * The crossings of the negative real axis by L(jω) in the grid's band that can matter,
+ * refined, in order of frequency: every one whose grid estimate of |L| is at least
+ * `refineAbove`, and the `refineLargestBelow` largest of the others. The rest lie far
+ * inside the unit circle and decide neither a margin nor the encirclement count (with a
+ * delay there are thousands of them at high frequency, so they are not even stored).
  */
 export function findPhaseCrossovers(
   loop: CompiledLoopResponse,
@@ -56,14 +56,23 @@ export function findPhaseCrossovers(
   settings: { readonly relativeTolerance: number; readonly refineAbove: number; readonly refineLargestBelow: number },
 ): PhaseCrossover[] {
   const { frequency_radps: w, magnitude, phase_rad: phase } = grid;
-  interface Candidate {
-    readonly interval: number;
-    readonly level: number;
-    readonly direction: 1 | -1;
-    readonly estimate: number;
-    readonly estimateFrequency: number;
-  }
-  const candidates: Candidate[] = [];
+  const point = newLoopPoint();
+  const found: PhaseCrossover[] = [];
+  const refine = (interval: number, level: number, direction: 1 | -1): void => {
+    const offset = (x: number): number => {
+      evaluateLoopResponse(loop, x, point);
+      return point.phase_rad - level;
+    };
+    const frequency = bracketedRoot(offset, w[interval], w[interval + 1], settings.relativeTolerance);
+    evaluateLoopResponse(loop, frequency, point);
+    found.push({ frequency_radps: frequency, magnitude: point.magnitude, level_rad: level, direction, refined: true });
+  };
+  // The largest few below the threshold, kept in small parallel arrays (no allocation per crossing).
+  const keep = settings.refineLargestBelow;
+  const keptEstimate = new Float64Array(keep).fill(-1);
+  const keptInterval = new Int32Array(keep);
+  const keptLevel = new Float64Array(keep);
+  const keptDirection = new Int8Array(keep);
   for (let i = 0; i + 1 < w.length; i++) {
     const a = phase[i];
     const b = phase[i + 1];
@@ -72,33 +81,28 @@ export function findPhaseCrossovers(
     const high = Math.max(a, b);
     const kFirst = Math.floor((low / Math.PI - 1) / 2) + 1;
     const kLast = Math.floor((high / Math.PI - 1) / 2);
+    if (kLast < kFirst) continue;
+    const logA = Math.log(magnitude[i]);
+    const logB = Math.log(magnitude[i + 1]);
+    const direction = b > a ? 1 : -1;
     for (let k = kFirst; k <= kLast; k++) {
       const level = (2 * k + 1) * Math.PI;
       const t = (level - a) / (b - a);
-      const estimate = Math.exp(Math.log(magnitude[i]) * (1 - t) + Math.log(magnitude[i + 1]) * t);
-      candidates.push({ interval: i, level, direction: b > a ? 1 : -1, estimate, estimateFrequency: w[i] + t * (w[i + 1] - w[i]) });
+      const estimate = Math.exp(logA * (1 - t) + logB * t);
+      if (estimate >= settings.refineAbove) {
+        refine(i, level, direction);
+        continue;
+      }
+      let smallest = 0;
+      for (let j = 1; j < keep; j++) if (keptEstimate[j] < keptEstimate[smallest]) smallest = j;
+      if (keep > 0 && estimate > keptEstimate[smallest]) {
+        keptEstimate[smallest] = estimate;
+        keptInterval[smallest] = i;
+        keptLevel[smallest] = level;
+        keptDirection[smallest] = direction;
+      }
     }
   }
-  const refine = new Uint8Array(candidates.length);
-  const below: number[] = [];
-  candidates.forEach((c, index) => {
-    if (c.estimate >= settings.refineAbove) refine[index] = 1;
-    else below.push(index);
-  });
-  below.sort((x, y) => candidates[y].estimate - candidates[x].estimate);
-  for (const index of below.slice(0, settings.refineLargestBelow)) refine[index] = 1;
-
-  const point = newLoopPoint();
-  return candidates.map((c, index): PhaseCrossover => {
-    if (refine[index] === 0) {
-      return { frequency_radps: c.estimateFrequency, magnitude: c.estimate, level_rad: c.level, direction: c.direction, refined: false };
-    }
-    const offset = (x: number): number => {
-      evaluateLoopResponse(loop, x, point);
-      return point.phase_rad - c.level;
-    };
-    const frequency = bracketedRoot(offset, w[c.interval], w[c.interval + 1], settings.relativeTolerance);
-    evaluateLoopResponse(loop, frequency, point);
-    return { frequency_radps: frequency, magnitude: point.magnitude, level_rad: c.level, direction: c.direction, refined: true };
-  });
+  for (let j = 0; j < keep; j++) if (keptEstimate[j] >= 0) refine(keptInterval[j], keptLevel[j], keptDirection[j] > 0 ? 1 : -1);
+  return found.sort((x, y) => x.frequency_radps - y.frequency_radps);
 }
