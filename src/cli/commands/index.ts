@@ -1,7 +1,6 @@
 import type { CommandModule } from '../command.js';
 import { command as makeTestLogs } from './make-test-logs.js';
 import { command as inspect } from './inspect.js';
-import { command as identify } from './identify.js';
 import { command as exportSchedule } from './export.js';
 import { command as tune } from './tune.js';
 
