@@ -4,7 +4,7 @@ import type { LoopMargins } from '../verify/types.js';
 import type { TunedOperatingPoint } from './operating-point.js';
 
 /** Units of kp, ki, kd for each loop (controlled variable per rad of steer command). */
-export function gainUnits(kind: LoopKind): { readonly kp: string; readonly ki: string; readonly kd: string } {
+function gainUnits(kind: LoopKind): { readonly kp: string; readonly ki: string; readonly kd: string } {
   return findLoop(kind).gainUnits;
 }
 
