@@ -40,7 +40,6 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   const progress = input.progress ?? (() => {});
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
-  const inputs = input.logPaths.map((file) => ({ file, sha256: sha256Hex(readFileSync(file)) }));
 
   const steps: StepTest[] = [];
   const rejected: RejectedStep[] = [];
@@ -50,6 +49,8 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
     steps.push(...search.steps);
     rejected.push(...search.rejected);
   }
+  // Hashed after reading, so that a missing file is reported by the log reader with its name.
+  const inputs = input.logPaths.map((file) => ({ file, sha256: sha256Hex(readFileSync(file)) }));
   if (steps.length === 0) {
     throw new SpeedbandError('identify.noSteps', `no step-steer event was found in ${input.logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`, {
       location: { file: input.logPaths[0] },

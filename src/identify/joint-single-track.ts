@@ -87,8 +87,11 @@ function parametersOf(vehicle: Vehicle, p: readonly number[]): SingleTrackParame
 /** Lags below this are simulated at this value (the third-order form divides by τa), s. */
 const MIN_LAG_S = 1e-4;
 
-/** Yaw rate of one step without offset: command (relative to pre-step) through actuator and single-track model. */
-function simulateStep(params: SingleTrackParameters, speed_mps: number, time_s: Float64Array, input: Float64Array): Float64Array {
+/**
+ * Yaw rate (rad/s) from rest for a road-wheel angle command (rad) held between samples, through the
+ * actuator e^(−θa s)/(τa s + 1) and the single-track δ → r transfer function at speed_mps (ISO 8855 signs).
+ */
+export function simulateYawThroughActuator(params: SingleTrackParameters, speed_mps: number, time_s: Float64Array, input: Float64Array): Float64Array {
   const yaw = singleTrackTransferFunctions(params, speed_mps).yawRate;
   const [b1, b0] = yaw.numerator.length === 2 ? yaw.numerator : [0, yaw.numerator[0]];
   const [, a1, a0] = yaw.denominator;
@@ -120,7 +123,7 @@ export function fitSingleTrack(
     let at = 0;
     for (let i = 0; i < steps.length; i++) {
       const s = signals[i];
-      const y = simulateStep(params, steps[i].speed_mps, s.time_s, s.input);
+      const y = simulateYawThroughActuator(params, steps[i].speed_mps, s.time_s, s.input);
       let mean = 0;
       for (let k = 0; k < y.length; k++) mean += s.output[k] - y[k];
       mean /= y.length;

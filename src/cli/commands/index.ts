@@ -1,6 +1,7 @@
 import type { CommandModule } from '../command.js';
 import { command as makeTestLogs } from './make-test-logs.js';
 import { command as inspect } from './inspect.js';
+import { command as identify } from './identify.js';
 import { command as exportSchedule } from './export.js';
 import { command as tune } from './tune.js';
 
@@ -10,4 +11,4 @@ import { command as tune } from './tune.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, exportSchedule, tune];
+export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, identify, exportSchedule, tune];

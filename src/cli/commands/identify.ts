@@ -1,0 +1,141 @@
+import type { CommandModule } from '../command.js';
+import { EXIT, type CommandIo } from '../io.js';
+
+/**
+ * `speedband identify`: step-steer logs + vehicle file → models.json (per-step and
+ * per-speed FOPDT models with intervals, actuator, joint single-track fit).
+ * The library does the work (src/identify/identify-from-logs.ts); this prints it.
+ */
+
+const f = (value: number, digits: number): string => value.toFixed(digits);
+const plusMinus = (value: number, interval: readonly [number, number], digits: number): string =>
+  `${f(value, digits)} ± ${f((interval[1] - interval[0]) / 2, digits)}`;
+
+async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+  const { identifyFromLogs } = await import('../../identify/identify-from-logs.js');
+  const { writeModels } = await import('../../identify/models-file.js');
+  const { radiansToDegrees } = await import('../../core/units.js');
+  const logPaths = (args.logs as unknown[]).map(String);
+  const out = String(args.out);
+  const models = identifyFromLogs({
+    vehicle: String(args.vehicle),
+    logPaths,
+    options: {
+      biasMode: args.bias === 'pre-step' ? 'preStep' : 'fitted',
+      hold: args['command-hold'] === 'linear' ? 'linear' : 'zeroOrder',
+      speedTolerance_mps: Number(args['speed-tolerance-mps']),
+      minR2: Number(args['min-r2']),
+      fitSecondOrder: args['second-order'] !== false,
+      jointFit: args['joint-fit'] !== false,
+    },
+    progress: io.progress,
+  });
+  const outcome = writeModels(out, models, args.force === true);
+
+  if (args.json === true) {
+    io.stdout(
+      `${JSON.stringify(
+        {
+          file: out,
+          outcome,
+          vehicle: models.vehicle.name,
+          speeds: models.speeds.map((s) => ({ speed_mps: s.speed_mps, stepCount: s.stepCount, fopdt: s.fopdt })),
+          singleTrack: models.singleTrack,
+          singleTrackRefusal: models.singleTrackRefusal,
+          refusedTests: models.refusedTests.map((t) => ({ file: t.file, stepIndex: t.stepIndex, speed_mps: t.speed_mps, reasonCode: t.reasonCode, reason: t.reason })),
+          rejectedSteps: models.rejectedSteps,
+          warnings: models.warnings,
+        },
+        null,
+        2,
+      )}\n`,
+    );
+    return EXIT.ok;
+  }
+
+  const lines: string[] = [];
+  lines.push(`Vehicle ${models.vehicle.name}: ${models.tests.length} steps used, ${models.refusedTests.length} refused, ${models.rejectedSteps.length} candidates rejected by segmentation`);
+  lines.push('');
+  lines.push('FOPDT per speed, steering command → yaw rate (± = half-width of the 95 % interval)');
+  lines.push(
+    `${'speed m/s'.padStart(9)}  ${'gain 1/s'.padEnd(17)}  ${'time constant s'.padEnd(17)}  ${'dead time s'.padEnd(17)}  ${'R² (min)'.padStart(8)}  ${'steps used/refused'.padEnd(18)}  models chosen (BIC)`,
+  );
+  for (const speed of models.speeds) {
+    const tests = models.tests.filter((t) => Math.abs(t.speed_mps - speed.speed_mps) <= Number(args['speed-tolerance-mps']));
+    const refused = models.refusedTests.filter((t) => Math.abs(t.speed_mps - speed.speed_mps) <= Number(args['speed-tolerance-mps'])).length;
+    const minR2 = Math.min(...tests.map((t) => t.fopdt.r2));
+    const chosen = new Map<string, number>();
+    for (const t of tests) chosen.set(t.chosenModel, (chosen.get(t.chosenModel) ?? 0) + 1);
+    const chosenText = [...chosen.entries()].sort((a, b) => a[0].localeCompare(b[0])).map(([k, n]) => `${k} ×${n}`).join(', ');
+    lines.push(
+      `${f(speed.speed_mps, 2).padStart(9)}  ${plusMinus(speed.fopdt.gain, speed.fopdt.ci95.gain, 4).padEnd(17)}  ${plusMinus(speed.fopdt.timeConstant_s, speed.fopdt.ci95.timeConstant_s, 4).padEnd(17)}  ` +
+        `${plusMinus(speed.fopdt.deadTime_s, speed.fopdt.ci95.deadTime_s, 4).padEnd(17)}  ${f(minR2, 4).padStart(8)}  ${`${speed.stepCount}/${refused}`.padEnd(18)}  ${chosenText}`,
+    );
+  }
+  lines.push('');
+  if (models.actuator !== null) {
+    const a = models.actuator;
+    lines.push(`Steering actuator (command → measured angle, ${a.stepCount} steps): lag ${plusMinus(a.lag_s, a.ci95.lag_s, 4)} s, delay ${plusMinus(a.delay_s, a.ci95.delay_s, 4)} s, gain ${plusMinus(a.gain, a.ci95.gain, 3)}`);
+  } else {
+    lines.push('Steering actuator: not identified (no steer_angle_rad column in the logs)');
+  }
+  const st = models.singleTrack;
+  if (st !== null) {
+    lines.push(`Joint single-track fit (${st.stepCount} steps, R² ${f(st.r2, 4)}):`);
+    lines.push(`  front cornering stiffness  ${plusMinus(st.frontCorneringStiffness_NPerRad, st.ci95.frontCorneringStiffness_NPerRad, 0)} N/rad`);
+    lines.push(`  rear cornering stiffness   ${plusMinus(st.rearCorneringStiffness_NPerRad, st.ci95.rearCorneringStiffness_NPerRad, 0)} N/rad`);
+    lines.push(`  actuator lag               ${plusMinus(st.actuatorLag_s, st.ci95.actuatorLag_s, 4)} s`);
+    lines.push(`  actuator delay             ${plusMinus(st.actuatorDelay_s, st.ci95.actuatorDelay_s, 4)} s`);
+    lines.push(
+      `  understeer gradient        ${f(radiansToDegrees(st.understeerGradient_radPerMps2), 4)} °/(m/s²) (${st.understeerGradient_radPerMps2.toExponential(3)} rad/(m/s²))` +
+        (st.characteristicSpeed_mps !== null ? `, characteristic speed ${f(st.characteristicSpeed_mps, 1)} m/s` : '') +
+        (st.criticalSpeed_mps !== null ? `, critical speed ${f(st.criticalSpeed_mps, 1)} m/s (open-loop unstable above)` : ''),
+    );
+    lines.push(`  steady yaw gain vs per-speed FOPDT: ${st.comparison.map((c) => `${f(c.speed_mps, 1)} m/s ${c.difference_pct >= 0 ? '+' : ''}${f(c.difference_pct, 1)} %`).join(', ')}`);
+  } else {
+    lines.push(`Joint single-track fit refused: ${models.singleTrackRefusal?.reason ?? 'no reason recorded'}`);
+  }
+  if (models.refusedTests.length > 0 || models.rejectedSteps.length > 0) {
+    lines.push('');
+    lines.push('Dropped steps:');
+    for (const t of models.refusedTests) lines.push(`  ${t.file} step ${t.stepIndex} (${f(t.speed_mps, 2)} m/s, ${f(radiansToDegrees(t.amplitude_rad), 2)}°): ${t.reason}`);
+    for (const r of models.rejectedSteps) lines.push(`  ${r.file} at ${f(r.onset_s, 2)} s: ${r.reason}`);
+  }
+  if (models.warnings.length > 0) {
+    lines.push('');
+    lines.push('Warnings:');
+    for (const w of models.warnings) lines.push(`  ${w}`);
+  }
+  lines.push('');
+  lines.push(`${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}`);
+  io.stdout(`${lines.join('\n')}\n`);
+  return EXIT.ok;
+}
+
+export const command: CommandModule = {
+  command: 'identify',
+  describe: 'Fit models of the steering-to-yaw response from step-steer logs: FOPDT per step and per speed with 95 % intervals, the steering actuator, and a joint single-track model; writes models.json',
+  builder: (yargs) =>
+    yargs
+      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, yaw inertia, axle positions, steering ratio' })
+      .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]); steps at two or more speeds' })
+      .option('out', { type: 'string', demandOption: true, describe: 'models.json to write (atomically; validated against its JSON Schema)' })
+      .option('speed-tolerance-mps', { type: 'number', default: 0.5, describe: 'Steps whose speeds differ by at most this (m/s) are one nominal speed' })
+      .option('min-r2', { type: 'number', default: 0.8, describe: 'Refuse a step whose FOPDT fit explains less than this fraction (R²) of the yaw response' })
+      .option('bias', { type: 'string', choices: ['fitted', 'pre-step'], default: 'fitted', describe: 'Yaw-rate sensor offset per step: fitted with the model, or the mean of the pre-step window' })
+      .option('command-hold', {
+        type: 'string',
+        choices: ['zero-order', 'linear'],
+        default: 'zero-order',
+        describe: 'How the logged command is taken between samples: held (a rig writing the command at samples) or linearly interpolated (a continuous command sampled by the logger)',
+      })
+      .option('second-order', { type: 'boolean', default: true, describe: 'Also fit second order plus dead time (with and without a zero) per step and choose by BIC' })
+      .option('joint-fit', { type: 'boolean', default: true, describe: 'Fit the joint single-track model (Cf, Cr, actuator lag and delay) over all steps' })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (per-speed models, single-track results, dropped steps, warnings) instead of tables' }),
+  examples: [
+    ['speedband identify --vehicle vehicles/parcel-van --logs vehicles/parcel-van/logs/*.csv --out models.json', 'Models of the demo van from its synthetic logs'],
+    ['speedband identify --vehicle van.json --logs run1.csv run2.csv --out models.json --bias pre-step --json', 'Offset from the pre-step window; a JSON summary for scripts'],
+  ],
+  run,
+};
