@@ -58,6 +58,8 @@ export { stepAmplitudes, planSteps, sampleCommand, planDuration_s, STEP_PLAN_DEF
 export { generateTestLog, writeTestLogs, testLogsReadme, testLogFileName, TEST_LOG_DEFAULTS, TEST_LOG_COLUMNS, type GeneratedTestLog, type TestLogOptions } from './vehicle/test-logs.js';
 export { DEMO_FLEET, regenerateDemoFleet, regenerateDemoVehicle, type DemoVehicle } from './vehicle/demo-fleet.js';
 export { matrixExponential } from './lti/matrix-exponential.js';
+// Identification: per-step fits, per-speed models, actuator, joint single-track fit, models file (src/identify/)
+export * from './identify/index.js';
 // Log reading, step segmentation, transient metrics, inspection (src/log/)
 export type { SteerLog, LogSegment, LogSplit, LogChannelSource, StepTest, StepMetrics, RejectedStep } from './log/types.js';
 export { readSteerLog, parseSteerLog, READ_DEFAULTS, type ReadLogOptions } from './log/read.js';
