@@ -4,7 +4,7 @@
  * Pure: tuning and loop analysis are function arguments.
  */
 import type { PidGains } from '../controller/types.js';
-import { denseCheck } from './dense-check.js';
+import { denseCheck, judgeMargins } from './dense-check.js';
 import { checkGrid } from './grid.js';
 import { makeGainLookup } from './interpolate.js';
 import type {
@@ -85,12 +85,17 @@ function severity(failures: readonly CheckFailure[]): number {
 
 const shown = (speed: number): string => String(Number(speed.toPrecision(4)));
 
+/** Identity of the interval below breakpoint `index` (its neighbouring breakpoint speeds). */
+const intervalKey = (speeds: readonly number[], index: number): string => `${speeds[index - 1] ?? '-'}|${speeds[index] ?? '+'}`;
+
 /**
  * Refine: check the table on checkGrid(breakpoints, range, density); for each interval between
  * neighbouring breakpoints (or beyond an end) with failing speeds, insert one breakpoint at its
  * most severe failing speed (instability first, then the summed relative excess over the limits),
  * with gains from `tuneAt`; repeat until the check passes, `maxInsertions` is used up, or every
  * failure sits at a breakpoint or below the low-speed floor (insertion cannot change those gains).
+ * A candidate whose own tuned gains fail at its speed is not inserted (the rule itself fails there):
+ * it is reported in `unfixable` and its interval is not tried again.
  */
 export function refineBreakpoints(input: RefineInput): RefineResult {
   const { range, density, lookup, tuneAt, analyse, thresholds, maxInsertions, onProgress } = input;
@@ -98,6 +103,9 @@ export function refineBreakpoints(input: RefineInput): RefineResult {
   let gains = [...input.table.gains];
   let inserted = speeds.map(() => false);
   const insertions: BreakpointInsertion[] = [];
+  /** Candidates whose own tuned gains fail: inserting cannot help; their intervals are not tried again. */
+  const rejected: UnfixableFailure[] = [];
+  const hopelessIntervals = new Set<string>();
   let round = 0;
 
   for (;;) {
@@ -112,7 +120,7 @@ export function refineBreakpoints(input: RefineInput): RefineResult {
       unfixable,
       check,
     });
-    if (check.passed) return result(true, 'passed', []);
+    if (check.passed) return result(true, 'passed', [...rejected]);
 
     round += 1;
     const unfixable: UnfixableFailure[] = [];
@@ -129,13 +137,14 @@ export function refineBreakpoints(input: RefineInput): RefineResult {
         continue;
       }
       const interval = speeds.filter((speed) => speed < point.speed_mps).length;
+      if (hopelessIntervals.has(intervalKey(speeds, interval))) continue;
       const list = byInterval.get(interval) ?? [];
       list.push(point);
       byInterval.set(interval, list);
     }
     const remaining = maxInsertions - insertions.length;
-    if (byInterval.size === 0) return result(false, 'notFixableByInsertion', unfixable);
-    if (remaining <= 0) return result(false, 'insertionLimit', unfixable);
+    if (byInterval.size === 0) return result(false, 'notFixableByInsertion', [...unfixable, ...rejected]);
+    if (remaining <= 0) return result(false, 'insertionLimit', [...unfixable, ...rejected]);
 
     const chosen: BreakpointInsertion[] = [];
     for (const interval of [...byInterval.keys()].sort((a, b) => a - b).slice(0, remaining)) {
@@ -159,10 +168,24 @@ export function refineBreakpoints(input: RefineInput): RefineResult {
           .join('; ')}) — breakpoint inserted there`,
       });
     }
+    const intervalsBefore = speeds;
     for (const insertion of chosen) {
+      const tuned = tuneAt(insertion.speed_mps);
+      const own = judgeMargins(analyse(insertion.speed_mps, tuned), thresholds);
+      if (own.length > 0) {
+        hopelessIntervals.add(intervalKey(intervalsBefore, intervalsBefore.filter((speed) => speed < insertion.speed_mps).length));
+        rejected.push({
+          speed_mps: insertion.speed_mps,
+          failures: own,
+          reason: `the rule's own gains at ${shown(insertion.speed_mps)} m/s fail too (${own
+            .map((failure) => failure.message)
+            .join('; ')}) — a breakpoint there cannot fix the interval; change the rule or its parameters`,
+        });
+        continue;
+      }
       const at = speeds.filter((speed) => speed < insertion.speed_mps).length;
       speeds = [...speeds.slice(0, at), insertion.speed_mps, ...speeds.slice(at)];
-      gains = [...gains.slice(0, at), tuneAt(insertion.speed_mps), ...gains.slice(at)];
+      gains = [...gains.slice(0, at), tuned, ...gains.slice(at)];
       inserted = [...inserted.slice(0, at), true, ...inserted.slice(at)];
       insertions.push(insertion);
       onProgress?.({ stage: 'refine', done: insertions.length, total: maxInsertions, note: insertion.reason });

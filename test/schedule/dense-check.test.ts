@@ -117,6 +117,30 @@ describe('denseCheck on a loop that passes at every breakpoint but fails between
   });
 });
 
+describe('refineBreakpoints when the rule itself fails between breakpoints', () => {
+  it('does not insert a breakpoint whose own gains fail, and says the rule is at fault', () => {
+    // The "rule" gives the ideal gains at 2, 6 and 18 m/s but three times them elsewhere: kθ = π/2 → unstable
+    // (closed form, Åström & Murray 2008), so a breakpoint between would fail by itself.
+    const rule = (speed: number) => (BREAKPOINTS.includes(speed) ? idealGains(speed) : { kp: 3 * idealGains(speed).kp, ki: 0, kd: 0 });
+    const refined = refineBreakpoints({
+      table,
+      range: RANGE,
+      density: 100,
+      lookup: { interpolation: 'linear', lowSpeedFloor_mps: 2 },
+      tuneAt: rule,
+      analyse: integratorLoopMargins,
+      thresholds: THRESHOLDS,
+      maxInsertions: 5,
+    });
+    expect(refined.passed).toBe(false);
+    expect(refined.stoppedBecause).toBe('notFixableByInsertion');
+    expect(refined.insertions).toEqual([]);
+    expect(refined.table.speeds_mps).toEqual(BREAKPOINTS);
+    expect(refined.unfixable.length).toBeGreaterThan(0);
+    expect(refined.unfixable[0].reason).toMatch(/the rule's own gains at .* fail too/);
+  });
+});
+
 describe('judgeMargins(margins, thresholds)', () => {
   it('an unstable loop fails on stability as well as on its margins', () => {
     // Source: DOMAIN.md §5b — k·e^(−θs)/s is unstable for kθ > π/2.
