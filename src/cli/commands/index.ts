@@ -4,6 +4,7 @@ import { command as inspect } from './inspect.js';
 import { command as identify } from './identify.js';
 import { command as exportSchedule } from './export.js';
 import { command as tune } from './tune.js';
+import { command as margins } from './margins.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them.
@@ -11,4 +12,4 @@ import { command as tune } from './tune.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, identify, exportSchedule, tune];
+export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, identify, exportSchedule, tune, margins];

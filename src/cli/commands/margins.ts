@@ -1,0 +1,147 @@
+import { SpeedbandError } from '../../core/errors.js';
+import { CONTROLLER_DEFAULTS } from '../../controller/defaults.js';
+import type { CommandModule } from '../command.js';
+import { EXIT } from '../io.js';
+
+/** A number option or undefined when absent (yargs gives NaN for a non-number). */
+function numberOption(args: Record<string, unknown>, name: string): number | undefined {
+  const value = args[name];
+  if (value === undefined) return undefined;
+  if (typeof value !== 'number' || Number.isNaN(value)) {
+    throw new SpeedbandError('cli.badNumber', `--${name} is "${String(value)}" — expected a number`, { details: { option: name } });
+  }
+  return value;
+}
+
+/** "1 3 2" or "1,3,2" → [1, 3, 2]; each entry must be a finite number. */
+function coefficientOption(args: Record<string, unknown>, name: string): number[] | undefined {
+  const value = args[name];
+  if (value === undefined) return undefined;
+  const text = String(value).trim();
+  const parts = text.split(/[\s,;]+/).filter((part) => part !== '');
+  const numbers = parts.map(Number);
+  const bad = parts.findIndex((part, i) => !Number.isFinite(numbers[i]));
+  if (parts.length === 0 || bad >= 0) {
+    throw new SpeedbandError(
+      'cli.badCoefficients',
+      `--${name} is "${text}"${bad >= 0 ? ` (entry ${bad + 1}, "${parts[bad]}", is not a number)` : ''} — expected coefficients highest power first, separated by spaces or commas, e.g. --${name} "1 3 2" for s² + 3s + 2`,
+      { details: { option: name, value: text } },
+    );
+  }
+  return numbers;
+}
+
+/** N: a number > 0, or "none"/"infinity" for an unfiltered derivative. */
+function filterOption(value: unknown): number {
+  if (typeof value === 'number') return value;
+  const text = String(value).trim().toLowerCase();
+  if (text === 'none' || text === 'infinity' || text === 'inf') return Infinity;
+  const parsed = Number(text);
+  if (!Number.isFinite(parsed)) {
+    throw new SpeedbandError('cli.badNumber', `--derivative-filter is "${String(value)}" — expected a number N > 0 (Tf = Td/N) or "none" for an unfiltered derivative`, {
+      details: { option: 'derivative-filter' },
+    });
+  }
+  return parsed;
+}
+
+const format = (value: number | null, digits: number, unit: string): string => (value === null ? 'none' : `${value.toFixed(digits)} ${unit}`);
+const at = (frequency: number | null): string => (frequency === null ? '' : ` at ${frequency.toPrecision(4)} rad/s`);
+
+export const command: CommandModule = {
+  command: 'margins',
+  describe: 'Stability margins of one loop: a plant (transfer function with delay, or FOPDT) under a PID — phase, lower and upper gain, delay margins, sensitivity peaks and a verdict',
+  builder: (yargs) =>
+    yargs
+      .usage(
+        'speedband margins (--numerator "..." --denominator "..." [--delay-s θ] | --gain K --time-constant-s T --dead-time-s L) --kp KP [--ki KI] [--kd KD] [options]\n\n' +
+          'The plant is G(s) = N(s)/D(s)·e^(−θs) with coefficients highest power first, or the FOPDT K·e^(−Ls)/(Ts + 1). ' +
+          'The loop L = C·G is analysed with the exact delay: every gain crossover (phase margin, delay margin = min PM/ω), every crossing of −180° ' +
+          '(upper gain margin: raising the gain by it destabilises; lower gain margin, negative dB: reducing the gain by it destabilises), ' +
+          'the peaks Ms = max|1/(1 + L)| and Mt = max|L/(1 + L)|, and a verdict from the closed-loop poles (Padé approximant) and the Nyquist ' +
+          'encirclement count, which must agree. With --sample-time-s the controller is the discrete PID the firmware runs and the hold adds Ts/2 of delay.\n\n' +
+          'Exit code: 0 when the loop is stable, 1 when it is unstable or the two tests disagree (undetermined), 2 for bad input.',
+      )
+      .option('numerator', { type: 'string', describe: 'Plant numerator coefficients, highest power first, e.g. "2 1" (a leading minus needs the = form: --numerator="-2 1")' })
+      .option('denominator', { type: 'string', describe: 'Plant denominator coefficients, highest power first, e.g. "1 3 2"' })
+      .option('delay-s', { type: 'number', describe: 'Plant delay θ with --numerator/--denominator, s (default 0)' })
+      .option('gain', { type: 'number', describe: 'FOPDT steady-state gain K (plant output per unit input; negative allowed with negative controller gains)' })
+      .option('time-constant-s', { type: 'number', describe: 'FOPDT time constant T, s' })
+      .option('dead-time-s', { type: 'number', describe: 'FOPDT dead time L, s' })
+      .option('kp', { type: 'number', demandOption: true, describe: 'Proportional gain (with --form ideal or series: the gain Kc)' })
+      .option('ki', { type: 'number', describe: 'Integral gain, per s (with --form ideal or series: the integral time in s; omit for no integral action)' })
+      .option('kd', { type: 'number', describe: 'Derivative gain, s (with --form ideal or series: the derivative time in s); default 0' })
+      .option('form', { type: 'string', choices: ['parallel', 'ideal', 'series'], default: 'parallel', describe: 'How --kp --ki --kd are written: parallel kp + ki/s + kd·s; ideal Kc(1 + 1/(Ti·s) + Td·s); series Kc(1 + 1/(τI·s))(1 + τD·s)' })
+      .option('derivative-filter', { type: 'string', default: String(CONTROLLER_DEFAULTS.derivativeFilter), describe: 'Derivative filter factor N: Tf = Td/N; "none" for an unfiltered derivative' })
+      .option('sample-time-s', { type: 'number', describe: 'Firmware sample time Ts, s: analyse the discrete PID plus a Ts/2 hold delay (default: a continuous controller)' })
+      .option('discretisation', { type: 'string', choices: ['backward-euler', 'tustin'], default: CONTROLLER_DEFAULTS.discretisation, describe: 'Discretisation of the discrete PID (with --sample-time-s)' })
+      .option('latency-s', { type: 'number', default: 0, describe: 'Computation latency from sample to actuator command, s (added to the plant delay)' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' }),
+  examples: [
+    ['speedband margins --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5', 'A yaw-rate PI loop on an identified FOPDT'],
+    ['speedband margins --numerator 1 --denominator "1 0 0" --delay-s 1 --kp 0.0625 --ki 8 --kd 8 --form series --derivative-filter none', 'SIMC PID on a double integrator with delay: both gain margins'],
+    ['speedband margins --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5 --sample-time-s 0.02 --latency-s 0.005 --json', 'The same loop as firmware at 50 Hz with 5 ms latency, as JSON'],
+  ],
+  run: async (args, io) => {
+    const { analyseLoop } = await import('../../verify/analyse-loop.js');
+    const numerator = coefficientOption(args, 'numerator');
+    const denominator = coefficientOption(args, 'denominator');
+    const gain = numberOption(args, 'gain');
+    const timeConstant_s = numberOption(args, 'time-constant-s');
+    const deadTime_s = numberOption(args, 'dead-time-s');
+    const fopdtGiven = [gain, timeConstant_s, deadTime_s].filter((value) => value !== undefined).length;
+    const rationalGiven = numerator !== undefined || denominator !== undefined;
+    if (rationalGiven && fopdtGiven > 0) {
+      throw new SpeedbandError('cli.conflictingPlant', 'both a transfer function (--numerator/--denominator) and a FOPDT (--gain/--time-constant-s/--dead-time-s) were given — pass one plant');
+    }
+    let plant: { numerator: number[]; denominator: number[]; delay_s: number };
+    if (rationalGiven) {
+      if (numerator === undefined || denominator === undefined) {
+        throw new SpeedbandError('cli.incompleteModel', `--${numerator === undefined ? 'numerator' : 'denominator'} is missing — a transfer function needs both --numerator and --denominator`);
+      }
+      plant = { numerator, denominator, delay_s: numberOption(args, 'delay-s') ?? 0 };
+    } else if (fopdtGiven === 3) {
+      if (!(timeConstant_s! >= 0) || !(deadTime_s! >= 0)) {
+        throw new SpeedbandError('cli.badNumber', `FOPDT times must be ≥ 0 s; got time constant ${timeConstant_s} s and dead time ${deadTime_s} s`);
+      }
+      plant = { numerator: [gain!], denominator: [timeConstant_s!, 1], delay_s: deadTime_s! };
+    } else {
+      throw new SpeedbandError(
+        'cli.missingModel',
+        fopdtGiven === 0
+          ? 'no plant given — pass --numerator and --denominator (and --delay-s), or --gain, --time-constant-s and --dead-time-s'
+          : 'a FOPDT plant needs all of --gain, --time-constant-s and --dead-time-s',
+      );
+    }
+    const form = String(args.form) as 'parallel' | 'ideal' | 'series';
+    const ki = numberOption(args, 'ki') ?? (form === 'parallel' ? 0 : Infinity);
+    const sampleTime_s = numberOption(args, 'sample-time-s');
+    const margins = analyseLoop({
+      plant,
+      pid: { kp: numberOption(args, 'kp')!, ki, kd: numberOption(args, 'kd') ?? 0, derivativeFilter: filterOption(args['derivative-filter']), form },
+      ...(sampleTime_s === undefined ? {} : { sampleTime_s, discretisation: String(args.discretisation) as 'tustin' | 'backward-euler' }),
+      latency_s: numberOption(args, 'latency-s') ?? 0,
+    });
+    if (args.json === true) {
+      io.stdout(`${JSON.stringify(margins, null, 2)}\n`);
+    } else {
+      const lines = [
+        `verdict: ${margins.verdict}${margins.analysis ? ` (closed-loop poles: ${margins.analysis.closedLoopPoleVerdict}, Padé order ${margins.analysis.padeOrder}; Nyquist count: ${margins.analysis.encirclementVerdict}${margins.analysis.encirclementNote ? ` — ${margins.analysis.encirclementNote}` : ''})` : ''}`,
+        `phase margin:        ${format(margins.phaseMargin_deg, 2, '°')}${at(margins.phaseMarginFrequency_radps)}`,
+        `upper gain margin:   ${format(margins.upperGainMargin_dB, 2, 'dB')}${at(margins.upperGainMarginFrequency_radps)}${margins.upperGainMargin_dB === null ? '' : '  (raising the gain by this destabilises)'}`,
+        `lower gain margin:   ${format(margins.lowerGainMargin_dB, 2, 'dB')}${at(margins.lowerGainMarginFrequency_radps)}${margins.lowerGainMargin_dB === null ? '' : '  (reducing the gain by this destabilises)'}`,
+        `delay margin:        ${format(margins.delayMargin_s, 4, 's')}${at(margins.delayMarginFrequency_radps)}`,
+        `sensitivity peak Ms: ${margins.sensitivityPeak.toFixed(3)}${at(margins.sensitivityPeakFrequency_radps)}`,
+        `complementary peak:  ${margins.complementarySensitivityPeak.toFixed(3)}${at(margins.complementarySensitivityPeakFrequency_radps)}`,
+      ];
+      if (margins.analysis?.neutralType) {
+        lines.push(`|L(j∞)| = ${margins.analysis.highFrequencyLoopGain.toFixed(3)} ≥ 1 with a delay: a neutral-type loop, unstable whatever the margins — filter the derivative (--derivative-filter N)`);
+      }
+      if (margins.analysis && margins.analysis.openLoopRightHalfPlanePoles > 0) {
+        lines.push(`open loop has ${margins.analysis.openLoopRightHalfPlanePoles} pole(s) in the right half-plane: stability comes from the encirclement count, not the margins alone`);
+      }
+      io.stdout(`${lines.join('\n')}\n`);
+    }
+    return margins.stable ? EXIT.ok : EXIT.failed;
+  },
+};
