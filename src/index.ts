@@ -121,6 +121,21 @@ export {
   type ScheduleInput,
 } from './schedule/index.js';
 export { exportC, exportCsv, exportJson, parseQFormat, quantiseTable, recheckQuantised, makeQuantisedRecheck, type FixedPointFormat, type QuantisedTable, type QuantisedRecheck } from './export/index.js';
+// Loop analysis: margins, sensitivity peaks, stability verdicts (src/verify/)
+export {
+  analyseLoop,
+  analyseOpenLoop,
+  openLoopOf,
+  parallelGainsOf,
+  phaseMarginFromPhase,
+  ANALYSIS_DEFAULTS,
+  LOOP_DEFAULTS,
+  type LoopDescription,
+  type LoopMargins,
+  type LoopAnalysisDetails,
+  type OpenLoop,
+  type DiscreteControllerFactor,
+} from './verify/index.js';
 // Loop plants (src/loops/) and tuning rules (src/tuning/)
 export {
   LOOPS,
