@@ -7,7 +7,7 @@ import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
 import { CHANNEL_DEFINITIONS, type ChannelName } from './columns.js';
 import { resolveColumns, type ColumnMap, type ResolvedColumn } from './column-map.js';
-import { cellProblem, cleanHeaderCell, detectDelimiter, parseDecimalCell, splitLines, stripByteOrderMark } from './csv-text.js';
+import { cellProblem, cleanHeaderCell, detectDelimiter, parseDecimalRange, type Delimiter } from './csv-text.js';
 import type { LogSegment, LogSplit, SteerLog } from './types.js';
 
 export const READ_DEFAULTS = {
@@ -41,57 +41,86 @@ export function readSteerLog(path: string, options: ReadLogOptions = {}): SteerL
  */
 export function parseSteerLog(text: string, file: string, options: ReadLogOptions = {}): SteerLog {
   const gapFactor = options.gapFactor ?? READ_DEFAULTS.gapFactor;
-  const lines = splitLines(stripByteOrderMark(text));
   const droppedRows: Record<string, number> = {};
   const drop = (reason: string): void => {
     droppedRows[reason] = (droppedRows[reason] ?? 0) + 1;
   };
 
-  let headerIndex = 0;
-  while (headerIndex < lines.length && isSkippable(lines[headerIndex])) {
-    drop(lines[headerIndex].trim() === '' ? 'blankLine' : 'commentLine');
-    headerIndex += 1;
+  // The text is scanned in place, line by line, without splitting it into strings (see csv-text.ts).
+  let position = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  let lineNumber = 0;
+  let header: string[] | null = null;
+  let headerLine = 0;
+  let delimiter: Delimiter = ',';
+  while (position < text.length && header === null) {
+    const { contentEnd, next } = lineBounds(text, position);
+    lineNumber += 1;
+    const kind = lineKind(text, position, contentEnd);
+    if (kind === 'data') {
+      headerLine = lineNumber;
+      const headerText = text.slice(position, contentEnd);
+      delimiter = detectDelimiter(headerText);
+      header = headerText.split(delimiter).map(cleanHeaderCell);
+    } else {
+      drop(kind);
+    }
+    position = next;
   }
-  if (headerIndex >= lines.length) {
+  if (header === null) {
     throw new SpeedbandError('log.empty', 'the file is empty — expected a header line (e.g. time_s,speed_mps,steer_cmd_rad,yaw_rate_radps) and data rows', {
       location: { file },
     });
   }
-  const headerLine = headerIndex + 1;
-  const delimiter = detectDelimiter(lines[headerIndex]);
-  const header = lines[headerIndex].split(delimiter).map(cleanHeaderCell);
+  const delimiterCode = delimiter.charCodeAt(0);
   const { columns, ignored } = resolveColumns(header, options.columns ?? {}, options.steeringRatio, file);
 
-  const capacity = lines.length - headerIndex - 1;
+  // Upper bound on the number of rows: the number of line feeds left, plus one.
+  let capacity = 1;
+  for (let at = text.indexOf('\n', position); at >= 0; at = text.indexOf('\n', at + 1)) capacity += 1;
   const values = columns.map(() => new Float64Array(capacity));
+  const slotOfColumn = new Int32Array(header.length).fill(-1);
+  columns.forEach((column, slot) => {
+    slotOfColumn[column.index] = slot;
+  });
+  const toSi = Float64Array.from(columns, (column) => column.toSi);
+  const lowest = Float64Array.from(columns, (column) => CHANNEL_DEFINITIONS[column.channel].plausible.min ?? -Infinity);
+  const highest = Float64Array.from(columns, (column) => CHANNEL_DEFINITIONS[column.channel].plausible.max ?? Infinity);
   const lineOfRow = new Int32Array(capacity);
-  const timeColumn = columns.findIndex((column) => column.channel === 'time_s');
+  const timeSlot = columns.findIndex((column) => column.channel === 'time_s');
+  const timeValues = values[timeSlot];
   let rowCount = 0;
   let rows = 0;
-  for (let index = headerIndex + 1; index < lines.length; index += 1) {
-    const line = lines[index];
-    if (isSkippable(line)) {
-      // A trailing newline at the end of the file is not a row.
-      if (!(index === lines.length - 1 && line === '')) {
-        rowCount += 1;
-        drop(line.trim() === '' ? 'blankLine' : 'commentLine');
-      }
+  while (position < text.length) {
+    const { contentEnd, next } = lineBounds(text, position);
+    lineNumber += 1;
+    const lineStart = position;
+    position = next;
+    const kind = lineKind(text, lineStart, contentEnd);
+    if (kind !== 'data') {
+      rowCount += 1;
+      drop(kind);
       continue;
     }
     rowCount += 1;
-    const lineNumber = index + 1;
-    const cells = line.split(delimiter);
-    if (cells.length !== header.length) throw rowLengthError(cells.length, header, lineNumber, file);
-    for (let c = 0; c < columns.length; c += 1) {
-      const column = columns[c];
-      const cell = cells[column.index];
-      const raw = parseDecimalCell(cell);
-      if (Number.isNaN(raw)) throw cellError(cell, column, lineNumber, file);
-      const value = raw * column.toSi;
-      checkPlausible(value, raw, column, lineNumber, file);
-      values[c][rows] = value;
+    let cellStart = lineStart;
+    let cellCount = 0;
+    for (;;) {
+      let cellEnd = text.indexOf(delimiter, cellStart);
+      if (cellEnd < 0 || cellEnd > contentEnd) cellEnd = contentEnd;
+      const slot = cellCount < slotOfColumn.length ? slotOfColumn[cellCount] : -1;
+      if (slot >= 0) {
+        const raw = parseDecimalRange(text, cellStart, cellEnd);
+        if (raw !== raw) throw cellError(text.slice(cellStart, cellEnd), columns[slot], lineNumber, file);
+        const value = raw * toSi[slot];
+        if (!(value >= lowest[slot] && value <= highest[slot])) throw implausibleError(value, raw, columns[slot], lineNumber, file);
+        values[slot][rows] = value;
+      }
+      cellCount += 1;
+      if (cellEnd >= contentEnd || text.charCodeAt(cellEnd) !== delimiterCode) break;
+      cellStart = cellEnd + 1;
     }
-    if (rows > 0) checkTimeIncreases(values[timeColumn][rows - 1], values[timeColumn][rows], lineOfRow[rows - 1], lineNumber, columns[timeColumn], file);
+    if (cellCount !== header.length) throw rowLengthError(cellCount, header, lineNumber, file);
+    if (rows > 0) checkTimeIncreases(timeValues[rows - 1], timeValues[rows], lineOfRow[rows - 1], lineNumber, columns[timeSlot], file);
     lineOfRow[rows] = lineNumber;
     rows += 1;
   }
@@ -134,8 +163,22 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
   };
 }
 
-function isSkippable(line: string): boolean {
-  return line.trim() === '' || line.trimStart().startsWith('#');
+/** End of the line's content (before CR LF or LF) and the start of the next line. */
+function lineBounds(text: string, from: number): { contentEnd: number; next: number } {
+  const feed = text.indexOf('\n', from);
+  const end = feed < 0 ? text.length : feed;
+  const contentEnd = end > from && text.charCodeAt(end - 1) === 13 ? end - 1 : end;
+  return { contentEnd, next: end + 1 };
+}
+
+/** A line with only blanks, a comment line (first non-blank character '#'), or data. */
+function lineKind(text: string, from: number, to: number): 'blankLine' | 'commentLine' | 'data' {
+  for (let i = from; i < to; i += 1) {
+    const code = text.charCodeAt(i);
+    if (code === 32 || code === 9 || code === 13) continue;
+    return code === 35 ? 'commentLine' : 'data';
+  }
+  return 'blankLine';
 }
 
 function medianStep(time_s: Float64Array, rows: number): number {
@@ -212,12 +255,11 @@ function cellError(cell: string, column: ResolvedColumn, line: number, file: str
   return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell } });
 }
 
-function checkPlausible(value: number, raw: number, column: ResolvedColumn, line: number, file: string): void {
+function implausibleError(value: number, raw: number, column: ResolvedColumn, line: number, file: string): SpeedbandError {
   const definition = CHANNEL_DEFINITIONS[column.channel];
   const { min, max } = definition.plausible;
-  if ((min === null || value >= min) && (max === null || value <= max)) return;
   const range = `${min === null ? '−∞' : min.toFixed(3)} … ${max === null ? '∞' : max.toFixed(3)} ${definition.siUnit}`;
-  throw new SpeedbandError(
+  return new SpeedbandError(
     'log.implausibleValue',
     `${column.channel} is ${raw} ${column.unit}${column.unit === definition.siUnit ? '' : ` (${value.toPrecision(4)} ${definition.siUnit})`}, outside the plausible ${range} — ${definition.implausibleHint}`,
     { location: { file, line, column: columnLabel(column.index, column.header) }, details: { channel: column.channel, value, min, max } },

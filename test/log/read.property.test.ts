@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { isSpeedbandError } from '../../src/core/errors.js';
+import { parseDecimalRange } from '../../src/log/csv-text.js';
 import { parseSteerLog } from '../../src/log/read.js';
 import type { SteerLog } from '../../src/log/types.js';
 
@@ -75,5 +76,28 @@ describe('parseSteerLog on random input (fast-check)', () => {
       { numRuns: 400, seed: 11 },
     );
     expect(valid).toBeGreaterThan(20); // the property must also exercise the accepting path
+  });
+});
+
+describe('parseDecimalRange(text, from, to)', () => {
+  it('equals Number() on every plain decimal, fixed-point or exponent, short or long (fast-check)', () => {
+    const decimal = fc.oneof(
+      fc.tuple(fc.double({ min: -1e6, max: 1e6, noNaN: true }), fc.integer({ min: 0, max: 17 })).map(([x, digits]) => x.toFixed(digits)),
+      fc.double({ noNaN: true, noDefaultInfinity: true }).map(String),
+      fc.stringMatching(/^[+-]?\d{1,20}(\.\d{0,20})?$/),
+    );
+    fc.assert(
+      fc.property(decimal, (text) => {
+        const padded = `;${text};`;
+        expect(Object.is(parseDecimalRange(padded, 1, padded.length - 1), Number(text))).toBe(true);
+      }),
+      { numRuns: 3000, seed: 5 },
+    );
+  });
+
+  it('returns NaN for text that is not a plain finite decimal', () => {
+    for (const text of ['', ' ', '-', '.', '1.2.3', '0x10', '1e', 'NaN', 'Infinity', '1,5', '12a', '--1']) {
+      expect(parseDecimalRange(text, 0, text.length), text).toBeNaN();
+    }
   });
 });
