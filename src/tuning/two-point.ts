@@ -15,7 +15,7 @@ export interface TwoPointFopdt {
 }
 
 /** Grid points of the step response used to find the crossings (linear interpolation between them). */
-const STEP_POINTS = 4000;
+const STEP_POINTS = 400;
 
 function crossing(time_s: Float64Array, output: Float64Array, level: number): number | null {
   for (let i = 1; i < output.length; i++) {
@@ -52,7 +52,7 @@ export function fopdtByTwoPoints(g: TransferFunction): TwoPointFopdt {
     });
   }
   const slowest_s = poles.reduce((longest, pole) => Math.max(longest, 1 / Math.abs(pole.re)), 0);
-  let horizon_s = g.delay_s + 5 * slowest_s;
+  let horizon_s = g.delay_s + 3 * slowest_s;
   for (let attempt = 0; attempt < 6; attempt++, horizon_s *= 2) {
     const time_s = new Float64Array(STEP_POINTS);
     for (let i = 0; i < STEP_POINTS; i++) time_s[i] = (horizon_s * i) / (STEP_POINTS - 1);
