@@ -10,7 +10,7 @@ import type { DesignModel } from './types.js';
 
 /** How the design model was obtained, for the derivation a reviewer reads. */
 export interface DesignModelDerivation {
-  /** The steer command → yaw rate FOPDT the design starts from: K (1/s), τ (s), θ (s, before the controller delay). */
+  /** The steer command → yaw rate FOPDT the design starts from: K (1/s), τ (s, the longest lag), θ (s, before the controller delay). */
   readonly yawRateGain_perS: number;
   readonly yawRateTimeConstant_s: number;
   readonly yawRateDeadTime_s: number;
@@ -47,8 +47,9 @@ function assemble(
 
 /**
  * The design model of a loop from a lumped per-speed yaw-rate model. The yaw-rate response is
- * taken as FOPDT K·e^(−θs)/(τs + 1) (an identified FOPDT as is; a second-order model reduced by
- * `fopdtByTwoPoints`), the controller delay Ts/2 + latency added to θ, and the loop's integrators
+ * taken as FOPDT K·e^(−θs)/(τs + 1) (an identified FOPDT as is; an overdamped second-order model
+ * without zero keeps both real lags τ1,2 = (ζ ± √(ζ² − 1))/ωn; any other second-order model is reduced
+ * by `fopdtByTwoPoints`), the controller delay Ts/2 + latency added to θ, and the loop's integrators
  * and gain factor applied:
  *   yaw-rate  K·e^(−θs)/(τs + 1)            (self-regulating)
  *   heading   K·e^(−θs)/(s(τs + 1))         (integrating, k' = K)
@@ -59,6 +60,14 @@ function assemble(
 export function designModelFromLumped(kind: LoopKind, model: LumpedModel, speed_mps: number, controllerDelay_s: number): DesignModelDerivation {
   if (model.kind === 'fopdt') {
     return assemble(kind, speed_mps, model, 'identified', controllerDelay_s);
+  }
+  const { dampingRatio: zeta, naturalFrequency_radps: omega, zeroTimeConstant_s: beta } = model;
+  if (beta === 0 && zeta >= 1 && omega > 0) {
+    // Overdamped without a zero: two real lags τ1,2 = (ζ ± √(ζ² − 1))/ωn, kept exactly (SIMC's second-order rule uses both).
+    const spread = Math.sqrt(zeta * zeta - 1);
+    const lags_s = [(zeta + spread) / omega, (zeta - spread) / omega];
+    const derivation = assemble(kind, speed_mps, { gain: model.gain, timeConstant_s: lags_s[0], deadTime_s: model.deadTime_s }, 'identified', controllerDelay_s);
+    return { ...derivation, model: { ...derivation.model, lags_s } };
   }
   return assemble(kind, speed_mps, fopdtByTwoPoints(lumpedYawRateTransferFunction(model)), 'two-point', controllerDelay_s);
 }

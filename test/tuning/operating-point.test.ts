@@ -88,6 +88,24 @@ describe('tuneOperatingPoint: applicability and signs', () => {
   });
 });
 
+describe('design models from lumped second-order models', () => {
+  it('an overdamped second-order yaw model keeps both lags and SIMC gives the series PID with τD = τ2 (Skogestad 2003)', () => {
+    // ζ = 1.25, ωn = 2 rad/s: τ1,2 = (ζ ± √(ζ² − 1))/ωn = 1 s and 0.25 s (textbook factorisation).
+    const tuned = tuneOperatingPoint({
+      loop: { kind: 'yaw-rate' },
+      speed_mps: 5,
+      model: { kind: 'lumped', yawRate: { kind: 'second-order', gain: 2, naturalFrequency_radps: 2, dampingRatio: 1.25, zeroTimeConstant_s: 0, deadTime_s: 0.09 } },
+      rule: 'simc',
+      ruleParameters: {},
+      controller,
+    });
+    expect(tuned.design.model.lags_s).toEqual([1, 0.25]);
+    // θ = 0.09 + Ts/2 = 0.1 s, τc = θ: Kc = τ1/(K(τc + θ)) = 1/(2·0.2) = 2.5, τI = min(1, 0.8) = 0.8 s, τD = 0.25 s.
+    expect(tuned.derivation.ruleForm).toEqual({ form: 'series', gain: expect.closeTo(2.5, 12), integralTime_s: expect.closeTo(0.8, 12), derivativeTime_s: 0.25 });
+    expect(tuned.margins.stable).toBe(true);
+  });
+});
+
 describe('design models from the single-track model', () => {
   it("Smith's two-point method returns a FOPDT exactly: t28 = θ + τ/3, t63 = θ + τ (Smith 1972)", () => {
     const found = fopdtByTwoPoints({ numerator: [3 / 0.4], denominator: [1, 1 / 0.4], delay_s: 0.15 });
