@@ -5,7 +5,7 @@ import { pidTransferFunction } from '../../src/controller/pid.js';
 import type { ControllerSettings, Discretisation, PidGains } from '../../src/controller/types.js';
 import { isSpeedbandError } from '../../src/core/errors.js';
 import { frequencyResponse } from '../../src/lti/frequency-response.js';
-import { runPython } from '../helpers/python.js';
+import { runPythonSingleThread as runPython } from '../lti/python-single-thread.js';
 
 const settingsFor = (discretisation: Discretisation, sampleTime_s = 0.01, derivativeFilter = 10): ControllerSettings => ({
   derivativeFilter,

@@ -3,7 +3,7 @@ import { derivativeFilterTime_s, pidTransferFunction } from '../../src/controlle
 import { isSpeedbandError } from '../../src/core/errors.js';
 import { frequencyResponse, logarithmicFrequencies } from '../../src/lti/frequency-response.js';
 import { transferFunctionPoles } from '../../src/lti/transfer-function.js';
-import { runPython } from '../helpers/python.js';
+import { runPythonSingleThread as runPython } from '../lti/python-single-thread.js';
 
 describe('derivativeFilterTime_s(gains, N)', () => {
   it('is Td/N with Td = kd/kp, not kd/N', () => {

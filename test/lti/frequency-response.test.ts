@@ -3,7 +3,7 @@ import { makeRandom } from '../../src/core/random.js';
 import { frequencyResponse, logarithmicFrequencies, responseMagnitude } from '../../src/lti/frequency-response.js';
 import { evaluateTransferFunction, transferFunction } from '../../src/lti/transfer-function.js';
 import type { TransferFunction } from '../../src/lti/types.js';
-import { runPython } from '../helpers/python.js';
+import { runPythonSingleThread as runPython } from './python-single-thread.js';
 
 describe('frequencyResponse(g, ω)', () => {
   it('agrees with scipy.signal.freqs times e^(−jωθ) to 1e-9 relative on 250 seeded random systems with delay', () => {

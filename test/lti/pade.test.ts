@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { padeApproximant, padeOrderFor, padePhaseError_rad, replaceDelayWithPade } from '../../src/lti/pade.js';
 import { transferFunction, transferFunctionPoles, unityFeedback } from '../../src/lti/transfer-function.js';
-import { runPython } from '../helpers/python.js';
+import { runPythonSingleThread as runPython } from './python-single-thread.js';
 
 describe('padeApproximant(θ, n)', () => {
   it('matches the textbook Padé table for orders 1–3', () => {

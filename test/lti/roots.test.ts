@@ -6,7 +6,7 @@ import { polynomialRoots } from '../../src/lti/roots.js';
 import { replaceDelayWithPade } from '../../src/lti/pade.js';
 import { seriesConnection, transferFunction, unityFeedback } from '../../src/lti/transfer-function.js';
 import type { Complex } from '../../src/lti/types.js';
-import { runPython } from '../helpers/python.js';
+import { runPythonSingleThread as runPython } from './python-single-thread.js';
 
 /** Largest distance from each expected root to its greedily matched found root, relative to max(1, |expected|). */
 function worstMatch(found: readonly Complex[], expected: readonly Complex[]): number {
