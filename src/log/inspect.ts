@@ -8,6 +8,11 @@ import { CHANNEL_DEFINITIONS, isChannelName } from './columns.js';
 import { findStepTests, type SegmentOptions } from './segment.js';
 import type { LogSplit, RejectedStep, SteerLog, StepMetrics, StepTest } from './types.js';
 
+export const INSPECT_DEFAULTS = {
+  /** Steady lateral acceleration above which a step leaves the linear tyre range, m/s² (common practice, DOMAIN.md §6). */
+  linearRangeLateralAcceleration_mps2: 4,
+} as const;
+
 export interface ChannelSummary {
   readonly channel: string;
   readonly describe: string;
@@ -57,6 +62,15 @@ export function inspectLog(log: SteerLog, options: SegmentOptions = {}): LogInsp
   const first = log.segments[0];
   const last = log.segments[log.segments.length - 1];
   const warnings = [...log.warnings];
+  for (const step of steps) {
+    // Steady lateral acceleration ≈ vx·r (single-track kinematics at constant speed).
+    const lateral_mps2 = Math.abs(step.speed_mps * step.metrics.steadyYawGain_perS * (step.amplitude_rad + levelBefore(step)));
+    if (lateral_mps2 > INSPECT_DEFAULTS.linearRangeLateralAcceleration_mps2) {
+      warnings.push(
+        `step ${step.stepIndex} at ${step.onset_s.toFixed(2)} s: steady lateral acceleration ≈ ${lateral_mps2.toFixed(1)} m/s² (vx·r), beyond the linear tyre range (~${INSPECT_DEFAULTS.linearRangeLateralAcceleration_mps2} m/s², common practice) — its gain may be low; repeat with a smaller amplitude`,
+      );
+    }
+  }
   if (steps.length === 0) {
     warnings.push(
       rejected.length === 0
@@ -78,6 +92,13 @@ export function inspectLog(log: SteerLog, options: SegmentOptions = {}): LogInsp
     rejected,
     warnings,
   };
+}
+
+/** Command level before the step (mean over the pre-step samples), rad. */
+function levelBefore(step: StepTest): number {
+  let sum = 0;
+  for (let i = 0; i < step.preStepSamples; i += 1) sum += step.steerCommand_rad[i];
+  return sum / step.preStepSamples;
 }
 
 function stepSummary(step: StepTest): StepSummary {
