@@ -19,9 +19,9 @@ import { validateOpenLoop } from './validate-loop.js';
 /** Every tolerance and grid setting of the analysis, in one place. */
 export const ANALYSIS_DEFAULTS = {
   grid: {
-    pointsPerDecade: 40,
-    cornerFactor: 1e3,
-    maximumPhaseStep_rad: 0.2,
+    pointsPerDecade: 30,
+    cornerFactor: 100,
+    maximumPhaseStep_rad: 0.35,
     detailMagnitude: 0.2,
     maximumPoints: 20_000,
   },
@@ -30,7 +30,7 @@ export const ANALYSIS_DEFAULTS = {
   /** Crossing frequencies are refined to this relative width. */
   frequencyRelativeTolerance: 1e-12,
   /** Sensitivity peaks are refined to this width in ln ω. */
-  peakLogFrequencyTolerance: 1e-7,
+  peakLogFrequencyTolerance: 1e-5,
   /** |L| within this of 1 at a crossing of the negative real axis: the loop passes through −1. */
   crossingMagnitudeTolerance: 1e-9,
   /** Negative-real-axis crossings with a grid estimate of |L| ≥ this are refined, plus the `refineLargestBelow` largest others. */

@@ -73,6 +73,7 @@ export function findPhaseCrossovers(
   const keptInterval = new Int32Array(keep);
   const keptLevel = new Float64Array(keep);
   const keptDirection = new Int8Array(keep);
+  let keptMinimum = -1;
   for (let i = 0; i + 1 < w.length; i++) {
     const a = phase[i];
     const b = phase[i + 1];
@@ -82,6 +83,9 @@ export function findPhaseCrossovers(
     const kFirst = Math.floor((low / Math.PI - 1) / 2) + 1;
     const kLast = Math.floor((high / Math.PI - 1) / 2);
     if (kLast < kFirst) continue;
+    // No crossing inside can beat the ones kept: the estimate never exceeds the larger end.
+    const larger = Math.max(magnitude[i], magnitude[i + 1]);
+    if (larger < settings.refineAbove && keep > 0 && larger <= keptMinimum) continue;
     const logA = Math.log(magnitude[i]);
     const logB = Math.log(magnitude[i + 1]);
     const direction = b > a ? 1 : -1;
@@ -100,6 +104,8 @@ export function findPhaseCrossovers(
         keptInterval[smallest] = i;
         keptLevel[smallest] = level;
         keptDirection[smallest] = direction;
+        keptMinimum = keptEstimate[0];
+        for (let j = 1; j < keep; j++) keptMinimum = Math.min(keptMinimum, keptEstimate[j]);
       }
     }
   }

@@ -214,6 +214,6 @@ export function evaluateLoopResponse(loop: CompiledLoopResponse, frequency_radps
   }
   out.re = re;
   out.im = im;
-  out.magnitude = Math.hypot(re, im);
+  out.magnitude = Math.sqrt(re * re + im * im);
   out.phase_rad = phase;
 }

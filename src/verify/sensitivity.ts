@@ -37,11 +37,13 @@ export function sensitivityPeaks(loop: CompiledLoopResponse, grid: LoopGrid, log
   const point = newLoopPoint();
   const sAt = (logW: number): number => {
     evaluateLoopResponse(loop, Math.exp(logW), point);
-    return 1 / Math.hypot(1 + point.re, point.im);
+    const re = 1 + point.re;
+    return 1 / Math.sqrt(re * re + point.im * point.im);
   };
   const tAt = (logW: number): number => {
     evaluateLoopResponse(loop, Math.exp(logW), point);
-    return point.magnitude / Math.hypot(1 + point.re, point.im);
+    const re = 1 + point.re;
+    return point.magnitude / Math.sqrt(re * re + point.im * point.im);
   };
   const refine = (index: number, best: number, g: (logW: number) => number): Peak => {
     if (index === 0 || index === w.length - 1 || !Number.isFinite(best)) return { value: best, frequency_radps: w[index] };
