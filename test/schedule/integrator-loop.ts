@@ -22,8 +22,8 @@ export function integratorLoopMargins(speed_mps: number, gains: PidGains): LoopM
   const phaseMargin_rad = Math.PI / 2 - k * theta;
   let peak = 0;
   let peakFrequency = 0;
-  for (let i = 0; i <= 2000; i += 1) {
-    const w = (k / 100) * Math.pow(10, (4 * i) / 2000);
+  for (let i = 0; i <= 400; i += 1) {
+    const w = (k / 100) * Math.pow(10, (4 * i) / 400);
     const re = 1 + (k / w) * -Math.sin(w * theta);
     const im = (k / w) * -Math.cos(w * theta);
     const s = 1 / Math.hypot(re, im);

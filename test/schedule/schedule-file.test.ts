@@ -1,6 +1,7 @@
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { canonicalJson } from '../../src/schedule/canonical-json.js';
 import { checksumContent, computeScheduleChecksum, verifyScheduleChecksum } from '../../src/schedule/checksum.js';
@@ -76,6 +77,27 @@ print(json.dumps({'value': hashlib.sha256(text.encode('utf-8')).hexdigest(), 'te
     const verdict = verifyScheduleChecksum(schedule);
     expect(verdict.valid).toBe(false);
     expect(verdict.changes).toEqual([`breakpoint 2 (speed 4.5 m/s: speed or gains)`]);
+  });
+
+  it('any change to any one speed or gain is detected and located (property)', () => {
+    // Source: SHA-256 collision resistance (FIPS 180-4) — distinct canonical texts give distinct digests in practice.
+    const schedule = sampleSchedule();
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 0, max: schedule.breakpoints.length - 1 }),
+        fc.constantFrom('speed_mps', 'kp', 'ki', 'kd'),
+        fc.double({ noNaN: true, noDefaultInfinity: true }),
+        (k, field, value) => {
+          fc.pre(!Object.is(value, (schedule.breakpoints[k] as unknown as Record<string, number>)[field]) && !Object.is(value, -0));
+          const edited = clone(schedule);
+          (edited.breakpoints[k] as unknown as Record<string, number>)[field] = value;
+          const verdict = verifyScheduleChecksum(edited);
+          expect(verdict.valid).toBe(false);
+          expect(verdict.changes).toEqual([`breakpoint ${k} (speed ${edited.breakpoints[k].speed_mps} m/s: speed or gains)`]);
+        },
+      ),
+      { numRuns: 200 },
+    );
   });
 
   it('an altered checksum value fails verification', () => {
