@@ -91,46 +91,77 @@ export function sampleLoop(
 ): LoopGrid {
   const decades = Math.log10(band.high_radps / band.low_radps);
   const count = Math.max(2, Math.ceil(decades * settings.pointsPerDecade) + 1);
-  const base: number[] = new Array(count);
+  const base = new Float64Array(count + extraFrequencies.length);
   for (let i = 0; i < count; i++) base[i] = band.low_radps * Math.pow(10, (decades * i) / (count - 1));
   base[count - 1] = band.high_radps;
-  for (const w of extraFrequencies) if (w > band.low_radps && w < band.high_radps) base.push(w);
-  base.sort((a, b) => a - b);
+  let baseCount = count;
+  for (const w of extraFrequencies) if (w > band.low_radps && w < band.high_radps) base[baseCount++] = w;
+  const sortedBase = baseCount > count ? base.subarray(0, baseCount).sort() : base.subarray(0, count);
 
-  const w: number[] = [];
-  const magnitude: number[] = [];
-  const phase: number[] = [];
-  const re: number[] = [];
-  const im: number[] = [];
-  const point = newLoopPoint();
-  const push = (frequency: number): void => {
-    evaluateLoopResponse(loop, frequency, point);
-    w.push(frequency);
-    magnitude.push(point.magnitude);
-    phase.push(point.phase_rad);
-    re.push(point.re);
-    im.push(point.im);
+  let capacity = Math.min(settings.maximumPoints, 2 * sortedBase.length + 64);
+  let w: Float64Array = new Float64Array(capacity);
+  let magnitude: Float64Array = new Float64Array(capacity);
+  let phase: Float64Array = new Float64Array(capacity);
+  let re: Float64Array = new Float64Array(capacity);
+  let im: Float64Array = new Float64Array(capacity);
+  let size = 0;
+  const grow = (): void => {
+    capacity *= 2;
+    const widen = (a: Float64Array): Float64Array => {
+      const b = new Float64Array(capacity);
+      b.set(a);
+      return b;
+    };
+    w = widen(w);
+    magnitude = widen(magnitude);
+    phase = widen(phase);
+    re = widen(re);
+    im = widen(im);
   };
-  push(base[0]);
-  for (let i = 1; i < base.length; i++) {
-    if (base[i] <= w[w.length - 1]) continue;
-    const from = w[w.length - 1];
-    const fromMagnitude = magnitude[magnitude.length - 1];
-    const fromPhase = phase[phase.length - 1];
-    evaluateLoopResponse(loop, base[i], point);
+  const point = newLoopPoint();
+  const store = (frequency: number): void => {
+    if (size === capacity) grow();
+    w[size] = frequency;
+    magnitude[size] = point.magnitude;
+    phase[size] = point.phase_rad;
+    re[size] = point.re;
+    im[size] = point.im;
+    size++;
+  };
+  evaluateLoopResponse(loop, sortedBase[0], point);
+  store(sortedBase[0]);
+  for (let i = 1; i < sortedBase.length; i++) {
+    const target = sortedBase[i];
+    const from = w[size - 1];
+    if (target <= from) continue;
+    const fromMagnitude = magnitude[size - 1];
+    const fromPhase = phase[size - 1];
+    evaluateLoopResponse(loop, target, point);
     const step = Math.abs(point.phase_rad - fromPhase);
-    const detailed = Math.max(fromMagnitude, point.magnitude) >= settings.detailMagnitude;
-    if (detailed && step > settings.maximumPhaseStep_rad && w.length < settings.maximumPoints) {
-      const pieces = Math.min(Math.ceil(step / settings.maximumPhaseStep_rad), settings.maximumPoints - w.length);
-      for (let k = 1; k < pieces; k++) push(from + ((base[i] - from) * k) / pieces);
+    if (Math.max(fromMagnitude, point.magnitude) >= settings.detailMagnitude && step > settings.maximumPhaseStep_rad && size < settings.maximumPoints) {
+      // Keep the end point's value, fill in between, then store the end point again.
+      const endRe = point.re;
+      const endIm = point.im;
+      const endMagnitude = point.magnitude;
+      const endPhase = point.phase_rad;
+      const pieces = Math.min(Math.ceil(step / settings.maximumPhaseStep_rad), settings.maximumPoints - size);
+      for (let k = 1; k < pieces; k++) {
+        const between = from + ((target - from) * k) / pieces;
+        evaluateLoopResponse(loop, between, point);
+        store(between);
+      }
+      point.re = endRe;
+      point.im = endIm;
+      point.magnitude = endMagnitude;
+      point.phase_rad = endPhase;
     }
-    push(base[i]);
+    store(target);
   }
   return {
-    frequency_radps: Float64Array.from(w),
-    magnitude: Float64Array.from(magnitude),
-    phase_rad: Float64Array.from(phase),
-    real: Float64Array.from(re),
-    imaginary: Float64Array.from(im),
+    frequency_radps: w.subarray(0, size),
+    magnitude: magnitude.subarray(0, size),
+    phase_rad: phase.subarray(0, size),
+    real: re.subarray(0, size),
+    imaginary: im.subarray(0, size),
   };
 }
