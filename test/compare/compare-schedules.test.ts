@@ -148,8 +148,8 @@ describe('compareSchedules margin flags (margins edited in a copy; they are not 
   const withMargin = (name: 'lowerGainMargin_dB' | 'upperGainMargin_dB' | 'phaseMargin_deg', oldValue: number | null, newValue: number | null) => {
     const old = clone(base);
     const next = clone(base);
-    (old.breakpoints[3].margins as { [key: string]: unknown })[name] = oldValue;
-    (next.breakpoints[3].margins as { [key: string]: unknown })[name] = newValue;
+    (old.breakpoints[3].margins as unknown as Record<string, unknown>)[name] = oldValue;
+    (next.breakpoints[3].margins as unknown as Record<string, unknown>)[name] = newValue;
     return compareSchedules(old, next).flags.filter((flag) => flag.speed_mps !== null).map((flag) => flag.kind);
   };
 
