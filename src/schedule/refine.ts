@@ -110,7 +110,13 @@ export function refineBreakpoints(input: RefineInput): RefineResult {
 
   for (;;) {
     const table: GainTable = { speeds_mps: speeds, gains };
-    const check = denseCheck({ grid: checkGrid(speeds, range, density), gainsAt: makeGainLookup(table, lookup), analyse, thresholds });
+    const check = denseCheck({
+      grid: checkGrid(speeds, range, density),
+      gainsAt: makeGainLookup(table, lookup),
+      analyse,
+      thresholds,
+      ...(onProgress === undefined ? {} : { onProgress }),
+    });
     const result = (passed: boolean, stoppedBecause: RefineStop, unfixable: UnfixableFailure[]): RefineResult => ({
       passed,
       stoppedBecause,

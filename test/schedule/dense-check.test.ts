@@ -44,6 +44,7 @@ describe('denseCheck on a loop that passes at every breakpoint but fails between
 
   it('refinement inserts breakpoints in the failing interval until the check passes, and says why', () => {
     const events: string[] = [];
+    const checkEvents: number[] = [];
     const refined = refineBreakpoints({
       table,
       range: RANGE,
@@ -53,13 +54,17 @@ describe('denseCheck on a loop that passes at every breakpoint but fails between
       analyse: integratorLoopMargins,
       thresholds: THRESHOLDS,
       maxInsertions: 10,
-      onProgress: (event) => events.push(event.note ?? ''),
+      onProgress: (event) => {
+        if (event.stage === 'refine') events.push(event.note ?? '');
+        else checkEvents.push(event.done / event.total);
+      },
     });
     expect(refined.passed).toBe(true);
     expect(refined.stoppedBecause).toBe('passed');
     expect(refined.check.passed).toBe(true);
     expect(refined.insertions.length).toBeGreaterThan(0);
     expect(events.length).toBe(refined.insertions.length);
+    expect(checkEvents.filter((fraction) => fraction === 1).length).toBe(Math.max(...refined.insertions.map((insertion) => insertion.round)) + 1); // one full check per round, plus the final one
     for (const insertion of refined.insertions) {
       expect(insertion.reason).toMatch(/failed; worst at .* breakpoint inserted there/);
       expect(insertion.below_mps).not.toBeNull();
