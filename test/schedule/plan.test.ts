@@ -2,6 +2,8 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { RULE_NAMES } from '../../src/tuning/registry.js';
+import { PLAN_SCHEMA } from '../../src/schedule/plan-schema.js';
 import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planThresholds, readPlan, resolvePlan, ruleParametersAt } from '../../src/schedule/plan.js';
 
 describe('resolvePlan(partial)', () => {
@@ -48,6 +50,10 @@ describe('planBreakpoints(plan)', () => {
 });
 
 describe('plan file validation', () => {
+  it('names exactly the tuning rules the tuning stage registers', () => {
+    expect([...PLAN_SCHEMA.properties.rule.properties.name.enum].sort()).toEqual([...RULE_NAMES].sort());
+  });
+
   it('rejects a mistyped field with its JSON path', () => {
     expect(() => planFromJson({ loop: { kind: 'lateral' } })).toThrow(expect.objectContaining({ code: 'plan.invalid', location: expect.objectContaining({ jsonPath: '/loop/kind' }) }));
     expect(() => planFromJson({ controller: { sampleTime_s: -1 } })).toThrow(expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/controller/sampleTime_s' }) }));
