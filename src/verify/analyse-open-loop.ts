@@ -110,6 +110,8 @@ export function phaseMarginFromPhase(phase_rad: number): number {
   return x - 2 * Math.PI * Math.ceil((x - Math.PI) / (2 * Math.PI));
 }
 
+const finite = (value: number): number => (Number.isFinite(value) ? value : Number.MAX_VALUE);
+
 /** Highest grid frequency (rad/s) where |L| ≥ threshold, extended by one grid step; the low end if none. */
 function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
   const { frequency_radps: w, magnitude } = grid;
@@ -232,9 +234,10 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
     upperGainMarginFrequency_radps: upper === null ? null : upper.frequency,
     delayMargin_s: stable && delayMargin !== null ? delayMargin.value : null,
     delayMarginFrequency_radps: stable && delayMargin !== null ? delayMargin.frequency : null,
-    sensitivityPeak: peaks.sensitivity.value,
+    // A grid point exactly on −1 would give an infinite peak: report the largest finite number instead (never Infinity).
+    sensitivityPeak: finite(peaks.sensitivity.value),
     sensitivityPeakFrequency_radps: peaks.sensitivity.frequency_radps,
-    complementarySensitivityPeak: peaks.complementary.value,
+    complementarySensitivityPeak: finite(peaks.complementary.value),
     complementarySensitivityPeakFrequency_radps: peaks.complementary.frequency_radps,
     analysis: {
       closedLoopPoleVerdict: poles.verdict,
