@@ -10,7 +10,8 @@ import { actuatorSignals } from './step-signals.js';
  * the measured angle (the FOPDT fit of fit-fopdt.ts with an angle-sensor offset), then
  * combined over the steps whose fit converged with R² ≥ 0.9 by inverse-variance weighting
  * (aggregate.ts). g should be close to 1 for a position loop; it is reported, not forced.
- * A rate-limited actuator makes large steps look slower: use the small steps for the lag.
+ * The actuator does not depend on speed, and a rate-limited actuator makes large steps look
+ * slower, so the fit uses the MAX_STEPS steps of smallest amplitude (ties: file, then step order).
  */
 export interface ActuatorIdentification {
   readonly gain: CombinedValue;
@@ -20,11 +21,17 @@ export interface ActuatorIdentification {
 }
 
 const MIN_R2 = 0.9;
+/** Steps used for the actuator fit at most. */
+const MAX_STEPS = 12;
 
 /** Actuator lag and delay from the steps that log the steer angle, or null when none does (or none fits). Units: s. */
 export function identifyActuator(steps: readonly StepTest[], hold: CommandHold): ActuatorIdentification | null {
   const fits: FopdtFit[] = [];
-  for (const step of steps) {
+  const chosen = steps
+    .filter((step) => step.steerAngle_rad !== undefined)
+    .sort((a, b) => Math.abs(a.amplitude_rad) - Math.abs(b.amplitude_rad) || a.file.localeCompare(b.file) || a.stepIndex - b.stepIndex)
+    .slice(0, MAX_STEPS);
+  for (const step of chosen) {
     const signals = actuatorSignals(step);
     if (signals === null) continue;
     const fit = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, hold });

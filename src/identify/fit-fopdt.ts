@@ -126,6 +126,7 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
       names: ['gain', 'timeConstant_s', 'deadTime_s'],
       simulate: (p) => simulateFopdt(time_s, input, p[0], p[1], p[2], options.hold, new Float64Array(n), fullStates),
       starts,
+      maxRuns: 2,
       scale: [gainScale, Math.max(grid[0].timeConstant_s, 0.02), 0.05],
       lower: [-Infinity, 0, 0],
       upper: [Infinity, 10 * timeConstantMax_s, window_s / 2],

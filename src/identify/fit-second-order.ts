@@ -46,6 +46,7 @@ export function fitSecondOrder(signals: StepSignals, seed: FopdtModel | SecondOr
         : ['gain', 'naturalFrequency_radps', 'dampingRatio', 'deadTime_s'],
       simulate,
       starts,
+      maxRuns: seed.kind === 'fopdt' ? 2 : 1,
       scale: withZero ? [gainScale, 2 / tau, 1, Math.max(tau, 0.05), 0.05] : [gainScale, 2 / tau, 1, 0.05],
       lower: withZero ? [-Infinity, 1e-3, 0.05, -window_s, 0] : [-Infinity, 1e-3, 0.05, 0],
       upper: withZero ? [Infinity, 1e3, 20, window_s, window_s / 2] : [Infinity, 1e3, 20, window_s / 2],

@@ -1,4 +1,4 @@
-import { fitLeastSquares, LEAST_SQUARES_DEFAULTS, type StopReason } from './least-squares.js';
+import { fitLeastSquares, LEAST_SQUARES_DEFAULTS, sumOfSquares, type StopReason } from './least-squares.js';
 import { fitQuality, type FitQuality } from './fit-quality.js';
 import { meanOf, type StepSignals } from './step-signals.js';
 import { numericalJacobian, parameterUncertainty, type ParameterUncertainty } from './uncertainty.js';
@@ -6,9 +6,12 @@ import { numericalJacobian, parameterUncertainty, type ParameterUncertainty } fr
 /**
  * Shared machinery of every per-step fit: an output bias (the yaw-rate sensor offset)
  * either taken from the pre-step window or fitted as one more parameter, Levenberg–
- * Marquardt from several starts (least-squares.ts), the best start by sum of squares
- * (a converged one preferred), then intervals and quality at the optimum.
+ * Marquardt from the most promising of several starts (least-squares.ts), the best result by
+ * sum of squares (a converged one preferred), then intervals and quality at the optimum.
  */
+
+/** A start is refined too when its initial sum of squares is within this factor of the best start's. */
+const START_SSR_FACTOR = 3;
 
 /** How the output offset is found: mean of the pre-step window, or fitted with the model. */
 export type BiasMode = 'preStep' | 'fitted';
@@ -19,6 +22,8 @@ export interface StepModelDefinition {
   /** Response to signals.input without bias; must stay finite slightly outside the bounds. */
   readonly simulate: (parameters: readonly number[]) => Float64Array;
   readonly starts: readonly (readonly number[])[];
+  /** Most Levenberg–Marquardt runs (from the best-ranked starts). */
+  readonly maxRuns: number;
   readonly scale: readonly number[];
   readonly lower: readonly number[];
   readonly upper: readonly number[];
@@ -37,8 +42,9 @@ export interface StepModelFit {
   readonly quality: FitQuality;
   /** Model prediction including bias at every sample. */
   readonly prediction: Float64Array;
-  /** Starts tried and the sum of squares each reached (for the report and tests). */
-  readonly startsTried: number;
+  /** Starts given and Levenberg–Marquardt runs made from them. */
+  readonly startsGiven: number;
+  readonly runs: number;
 }
 
 /** Fit a step model from several starts and return the best with its uncertainty and quality. */
@@ -60,8 +66,17 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
   const lower = fitted ? [...definition.lower, -Infinity] : definition.lower;
   const upper = fitted ? [...definition.upper, Infinity] : definition.upper;
   let best: { parameters: readonly number[]; ssr: number; stopReason: StopReason; iterations: number } | null = null;
-  for (const start of definition.starts) {
-    const initial = fitted ? [...start, preStepBias] : [...start];
+  // Starts ranked by their initial sum of squares; Levenberg–Marquardt runs from the best and from
+  // any other within START_SSR_FACTOR of it (a distinct basin worth exploring), at most maxRuns.
+  const ranked = definition.starts
+    .map((start) => {
+      const initial = fitted ? [...start, preStepBias] : [...start];
+      const ssr = sumOfSquares(output, model(initial));
+      return { initial, ssr: Number.isNaN(ssr) ? Infinity : ssr };
+    })
+    .sort((a, b) => a.ssr - b.ssr);
+  const runs = ranked.filter((r, i) => i === 0 || r.ssr <= START_SSR_FACTOR * ranked[0].ssr).slice(0, Math.max(1, definition.maxRuns));
+  for (const { initial } of runs) {
     const result = fitLeastSquares(
       { data: output, model, initial, scale, lower, upper, residualScale },
       { ...LEAST_SQUARES_DEFAULTS, maxIterations },
@@ -91,6 +106,7 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
     uncertainty,
     quality,
     prediction,
-    startsTried: definition.starts.length,
+    startsGiven: definition.starts.length,
+    runs: runs.length,
   };
 }

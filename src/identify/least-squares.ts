@@ -64,8 +64,8 @@ export interface LeastSquaresOptions {
 
 export const LEAST_SQUARES_DEFAULTS: LeastSquaresOptions = {
   maxIterations: 200,
-  chunkIterations: 4,
-  relativeSsrTolerance: 1e-9,
+  chunkIterations: 3,
+  relativeSsrTolerance: 1e-8,
   relativeParameterTolerance: 1e-7,
   centralDifference: false,
   relativeDifferenceStep: 1e-7,
