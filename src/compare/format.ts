@@ -12,7 +12,7 @@ export function shown(value: number | null, digits = 4): string {
 /** A signed percentage with one decimal, e.g. '+20.0 %'; '—' for null. */
 export function shownPercent(value: number | null): string {
   if (value === null) return '—';
-  return `${value >= 0 ? '+' : '−'}${Math.abs(value).toFixed(1)} %`;
+  return `${value >= 0 ? '+' : '-'}${Math.abs(value).toFixed(1)} %`;
 }
 
 /** A speed in m/s with up to 3 decimals. */

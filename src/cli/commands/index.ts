@@ -5,6 +5,7 @@ import { command as identify } from './identify.js';
 import { command as exportSchedule } from './export.js';
 import { command as tune } from './tune.js';
 import { command as margins } from './margins.js';
+import { command as compare } from './compare.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them.
@@ -12,4 +13,4 @@ import { command as margins } from './margins.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, identify, exportSchedule, tune, margins];
+export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, identify, exportSchedule, tune, margins, compare];

@@ -1,0 +1,69 @@
+import { COMPARE_DEFAULTS as HELP_DEFAULTS } from '../../compare/defaults.js';
+import { SpeedbandError } from '../../core/errors.js';
+import type { CommandModule } from '../command.js';
+import { EXIT, type CommandIo } from '../io.js';
+
+
+function threshold(args: Record<string, unknown>, option: string): number | undefined {
+  const value = args[option];
+  if (value === undefined) return undefined;
+  if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) {
+    throw new SpeedbandError('cli.badNumber', `--${option} is "${String(value)}" — expected a number ≥ 0`, { details: { option } });
+  }
+  return value;
+}
+
+export const command: CommandModule = {
+  command: 'compare <old> <new>',
+  describe:
+    'Compare two schedule.json files after a vehicle change (load, tyres, actuator, firmware rate): gain changes per speed, margins, model drift, settings; exit 1 when something moved past a threshold',
+  builder: (yargs) =>
+    yargs
+      .positional('old', { type: 'string', describe: 'The schedule in use (schedule.json written by speedband; schema and checksum are verified)' })
+      .positional('new', { type: 'string', describe: 'The schedule built after the change' })
+      .option('gain-change-pct', {
+        type: 'number',
+        describe: `Flag a gain whose change |new − old|/|old| reaches this, % (default ${HELP_DEFAULTS.gainChange_pct}). A gain that was 0 has no percentage: any change from 0 is flagged`,
+      })
+      .option('gain-margin-drop-dB', {
+        type: 'number',
+        describe: `Flag an upper gain margin that decreases by this or more, and a lower gain margin (conditionally stable loops) that moves this much closer to 0 dB, dB (default ${HELP_DEFAULTS.gainMarginDrop_dB})`,
+      })
+      .option('phase-margin-drop-deg', { type: 'number', describe: `Flag a phase margin that decreases by this or more, degrees (default ${HELP_DEFAULTS.phaseMarginDrop_deg})` })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the comparison as JSON (every compared speed, margin, model parameter and flag) for machines' })
+      .option('markdown', { type: 'boolean', default: false, describe: 'Print a Markdown report for a change review: summary, table of gains and margins, model drift, flag list' })
+      .epilogue(
+        'Speeds compared: the breakpoints of both schedules within their common range; where a speed is a breakpoint of only one, ' +
+          "the other schedule's gains come from its own lookup and its margins are interpolated linearly between its breakpoints. " +
+          'A changed loop kind, preview, controller form, sample time or discretisation makes the gains not comparable one by one (said, and flagged). ' +
+          'Model drift (cornering stiffnesses, actuator lag and delay, understeer gradient) needs both schedules built from a joint single-track fit.\n\n' +
+          'Exit code: 0 nothing flagged; 1 something flagged (use it to stop a CI pipeline); 2 bad input (unreadable, invalid or checksum-failed file, bad option).',
+      ),
+  examples: [
+    ['speedband compare schedule-before.json schedule-after.json', 'Table of gains and margins old → new per speed, model drift, flags; exit 1 when flagged'],
+    ['speedband compare old.json new.json --markdown > review.md', 'A Markdown change review with a flag list'],
+    ['speedband compare old.json new.json --gain-change-pct 10 --phase-margin-drop-deg 5 --json', 'Tighter limits, JSON output for a CI job'],
+  ],
+  run: async (args, io) => run(args, io),
+};
+
+async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+  if (args.json === true && args.markdown === true) {
+    throw new SpeedbandError('cli.optionConflict', '--json and --markdown both given — choose one output: --json for machines, --markdown for a change review');
+  }
+  const thresholds = {
+    gainChange_pct: threshold(args, 'gain-change-pct'),
+    gainMarginDrop_dB: threshold(args, 'gain-margin-drop-dB'),
+    phaseMarginDrop_deg: threshold(args, 'phase-margin-drop-deg'),
+  };
+  const given = Object.fromEntries(Object.entries(thresholds).filter(([, value]) => value !== undefined));
+  const { readSchedule } = await import('../../schedule/schedule-file.js');
+  const { compareSchedules, comparisonText, comparisonMarkdown } = await import('../../compare/index.js');
+  const oldName = String(args.old);
+  const newName = String(args.new);
+  const comparison = compareSchedules(readSchedule(oldName), readSchedule(newName), given);
+  if (args.json === true) io.stdout(`${JSON.stringify({ files: { old: oldName, new: newName }, ...comparison }, null, 2)}\n`);
+  else if (args.markdown === true) io.stdout(comparisonMarkdown(comparison, oldName, newName));
+  else io.stdout(comparisonText(comparison, oldName, newName));
+  return comparison.flags.length === 0 ? EXIT.ok : EXIT.failed;
+}

@@ -1,0 +1,90 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { recordingIo } from '../../src/cli/io.js';
+import { runCli } from '../../src/cli/main.js';
+import { serialiseSchedule } from '../../src/schedule/schedule-json.js';
+import { writeSchedule } from '../../src/schedule/schedule-file.js';
+import { fixtureGains, fixtureSchedule } from '../compare/fixture-schedules.js';
+
+const folder = mkdtempSync(join(tmpdir(), 'speedband-compare-'));
+const oldPath = join(folder, 'old.json');
+const raisedPath = join(folder, 'raised.json');
+writeSchedule(oldPath, fixtureSchedule(), false);
+// One gain raised 20 % at 7 m/s; the file is assembled and checksummed by the schedule module.
+writeSchedule(raisedPath, fixtureSchedule({ gainsAt: (speed) => ({ ...fixtureGains(speed), kp: fixtureGains(speed).kp * (speed === 7 ? 1.2 : 1) }) }), false);
+
+async function compare(...args: string[]) {
+  const io = recordingIo();
+  const code = await runCli(['compare', ...args], io);
+  return { code, out: io.out(), err: io.err() };
+}
+
+describe('speedband compare OLD NEW', () => {
+  it('a schedule compared with itself: nothing flagged, exit 0', async () => {
+    const result = await compare(oldPath, oldPath);
+    expect(result.code).toBe(0);
+    expect(result.out).toMatch(/Nothing flagged: 6 speeds compared \(2–16 m\/s\)\.\n$/);
+    expect(result.out).toMatch(/speed m\/s {2}breakpoint of {2}kp old → new/);
+  });
+
+  it('one gain raised 20 %: flagged at that breakpoint only, exit 1, table row marked', async () => {
+    const result = await compare(oldPath, raisedPath);
+    expect(result.code).toBe(1);
+    expect(result.out).toMatch(/- kp at 7 m\/s: .* \(\+20\.0 %, limit ±15 %\)/);
+    expect(result.out).toMatch(/1 flag: gains at 1 of 6 speeds/);
+    const flaggedRows = result.out.split('\n').filter((line) => /^\s+\d[\d.]*\s+both\s/.test(line) && /\s(kp|ki|kd)$/.test(line));
+    expect(flaggedRows).toHaveLength(1);
+    expect(flaggedRows[0]).toMatch(/^\s+7\s/);
+  });
+
+  it('--json gives the comparison for machines; --gain-change-pct 25 passes the same change with exit 0', async () => {
+    const result = await compare(oldPath, raisedPath, '--json');
+    expect(result.code).toBe(1);
+    const parsed = JSON.parse(result.out) as { files: { old: string }; flags: { kind: string; speed_mps: number; quantity: string }[]; speeds: unknown[] };
+    expect(parsed.files.old).toBe(oldPath);
+    expect(parsed.flags.map((flag) => [flag.kind, flag.speed_mps, flag.quantity])).toEqual([['gainChange', 7, 'kp']]);
+    expect(parsed.speeds).toHaveLength(6);
+    expect((await compare(oldPath, raisedPath, '--gain-change-pct', '25')).code).toBe(0);
+  });
+
+  it('--markdown writes a review: a Markdown table and a flag list', async () => {
+    const result = await compare(oldPath, raisedPath, '--markdown');
+    expect(result.code).toBe(1);
+    expect(result.out).toMatch(/^## Gain schedule change: /);
+    expect(result.out).toMatch(/\n\| speed m\/s \| breakpoint of \| kp old → new \|/);
+    expect(result.out).toMatch(/\n\|---\|---\|/);
+    expect(result.out).toMatch(/### Flags\n\n- \[ \] kp at 7 m\/s/);
+  });
+
+  it('an invalid, tampered or missing file exits 2 naming the file', async () => {
+    const invalid = join(folder, 'invalid.json');
+    writeFileSync(invalid, '{"format": "something else"}');
+    const bad = await compare(oldPath, invalid);
+    expect(bad.code).toBe(2);
+    expect(bad.err).toContain(invalid);
+    const tampered = join(folder, 'tampered.json');
+    writeFileSync(tampered, serialiseSchedule(fixtureSchedule()).replace(/"kp": ([0-9.]+)/, (_, kp: string) => `"kp": ${Number(kp) * 1.2}`));
+    const changed = await compare(tampered, oldPath);
+    expect(changed.code).toBe(2);
+    expect(changed.err).toMatch(new RegExp(`${tampered.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}.*checksum does not match`));
+    const missing = await compare(oldPath, join(folder, 'nowhere.json'));
+    expect(missing.code).toBe(2);
+    expect(missing.err).toContain('nowhere.json');
+  });
+
+  it('a negative threshold or both --json and --markdown is bad usage, exit 2', async () => {
+    expect((await compare(oldPath, oldPath, '--phase-margin-drop-deg', '-5')).code).toBe(2);
+    expect((await compare(oldPath, oldPath, '--json', '--markdown')).code).toBe(2);
+  });
+
+  it('--help teaches the thresholds with units and defaults, and the exit codes for CI', async () => {
+    const result = await compare('--help');
+    expect(result.code).toBe(0);
+    expect(result.out).toMatch(/--gain-change-pct[\s\S]*default 15/);
+    expect(result.out).toMatch(/--gain-margin-drop-dB[\s\S]*dB \(default 3\)/);
+    expect(result.out).toMatch(/--phase-margin-drop-deg[\s\S]*degrees \(default 10\)/);
+    expect(result.out).toMatch(/Exit code: 0 nothing flagged; 1 something flagged/);
+  });
+});
