@@ -7,15 +7,19 @@
  * - peak response time: from 50 % of the steering input to the yaw-rate peak;
  * - overshoot: (peak − steady)/steady × 100 %, with peak and steady measured
  *   as changes from the pre-step level (so a step back to zero is measured too).
- * Crossing times are interpolated linearly between samples.
+ * Crossing times are interpolated linearly between samples, on the yaw rate
+ * smoothed by a centred moving average of `smoothingSamples` samples (no phase
+ * lag; it keeps sensor noise from triggering the 90 % crossing or the peak early).
  */
 import type { StepMetrics } from './types.js';
 
 export const METRICS_DEFAULTS = {
   /** The steady level is the mean over this last fraction of the samples after the onset. */
   steadyFraction: 0.25,
-  /** A peak counts only when it exceeds the steady level by more than this many yaw-rate noise σ. */
+  /** A peak counts only when it exceeds the steady level by more than this many σ of the smoothed yaw-rate noise. */
   peakNoiseMultiple: 3,
+  /** Width of the centred moving average applied to the yaw rate before crossings and the peak are found, samples (odd). */
+  smoothingSamples: 5,
 } as const;
 
 /** The samples of one step: a pre-step part (command at its old level) followed by the ramp and hold. */
@@ -62,12 +66,19 @@ export function stepLevels(window: StepWindow, steadyFraction: number = METRICS_
  * Units: gain (rad/s)/rad = 1/s, times s, overshoot %. Times are null when the
  * crossing does not happen within the window; overshoot is 0 and the peak time
  * null when the yaw rate never rises above its steady level by more than
- * `peakNoiseMultiple` noise σ before the steady part.
+ * `peakNoiseMultiple` σ of the smoothed noise before the steady part.
  */
-export function stepMetrics(window: StepWindow, options: { steadyFraction?: number; peakNoiseMultiple?: number } = {}): StepMetrics {
+export function stepMetrics(
+  window: StepWindow,
+  options: { steadyFraction?: number; peakNoiseMultiple?: number; smoothingSamples?: number } = {},
+): StepMetrics {
   const levels = stepLevels(window, options.steadyFraction ?? METRICS_DEFAULTS.steadyFraction);
   const peakNoiseMultiple = options.peakNoiseMultiple ?? METRICS_DEFAULTS.peakNoiseMultiple;
-  const { time_s, steerCommand_rad, yawRate_radps, preStepSamples } = window;
+  const { time_s, steerCommand_rad, preStepSamples } = window;
+  const smoothingSamples = options.smoothingSamples ?? METRICS_DEFAULTS.smoothingSamples;
+  const yawRate_radps = centredMovingAverage(window.yawRate_radps, smoothingSamples);
+  // White noise σ shrinks by √width under the moving average.
+  const smoothedNoise_radps = levels.yawRateNoise_radps / Math.sqrt(Math.max(1, smoothingSamples));
   const commandChange = levels.commandSteady_rad - levels.commandBefore_rad;
   const yawChange = levels.yawRateSteady_radps - levels.yawRateBefore_radps;
   const start = Math.max(1, preStepSamples);
@@ -86,7 +97,7 @@ export function stepMetrics(window: StepWindow, options: { steadyFraction?: numb
     }
   }
   const excess = peakValue - Math.abs(yawChange);
-  const hasPeak = direction !== 0 && peakIndex >= 0 && peakIndex < levels.steadyStart && excess > peakNoiseMultiple * levels.yawRateNoise_radps && excess > 0;
+  const hasPeak = direction !== 0 && peakIndex >= 0 && peakIndex < levels.steadyStart && excess > peakNoiseMultiple * smoothedNoise_radps && excess > 0;
   const peak_s = hasPeak ? refinedPeakTime(time_s, yawRate_radps, peakIndex, direction) : null;
 
   return {
@@ -95,6 +106,21 @@ export function stepMetrics(window: StepWindow, options: { steadyFraction?: numb
     peakResponseTime_s: halfInput_s === null || peak_s === null ? null : peak_s - halfInput_s,
     overshoot_pct: hasPeak ? (100 * excess) / Math.abs(yawChange) : 0,
   };
+}
+
+/** Centred moving average over `width` samples (odd; the window shrinks symmetrically at the ends). */
+export function centredMovingAverage(values: Float64Array, width: number): Float64Array {
+  const half = Math.max(0, Math.floor(width / 2));
+  if (half === 0) return values;
+  const n = values.length;
+  const smoothed = new Float64Array(n);
+  for (let i = 0; i < n; i += 1) {
+    const reach = Math.min(half, i, n - 1 - i);
+    let sum = 0;
+    for (let k = i - reach; k <= i + reach; k += 1) sum += values[k];
+    smoothed[i] = sum / (2 * reach + 1);
+  }
+  return smoothed;
 }
 
 function meanAndDeviation(values: Float64Array, from: number, to: number): { mean: number; deviation: number } {

@@ -124,3 +124,47 @@ describe('firstCrossing(time, values, target, direction, from)', () => {
     expect(firstCrossing(time_s, Float64Array.from([0, 0, 0, 0]), 1, 1, 0)).toBeNull();
   });
 });
+
+describe('stepMetrics(window) on a single-track model response computed by scipy', () => {
+  it('gain, response time, peak time and overshoot agree with the same definitions applied by numpy to scipy.signal.lsim', () => {
+    // Single-track δ → r (DOMAIN.md §3, Gillespie 1992 / Rajamani 2012) for an invented van at 25 m/s, first-order actuator lag 0.08 s.
+    const vehicle = { m: 3500, Iz: 5500, a: 1.5, b: 2.0, Cf: 120_000, Cr: 150_000, vx: 25, lag: 0.08 };
+    const ramp_s = 0.15;
+    const amplitude_rad = 0.015;
+    const rate_Hz = 100;
+    const reference = runPython<{ t: number[]; u: number[]; y: number[]; gain: number; response_s: number; peak_s: number; overshoot_pct: number }>(
+      [
+        'import sys, json, numpy as np',
+        'from scipy import signal',
+        'p = json.load(sys.stdin)',
+        'm, Iz, a, b, Cf, Cr, vx = p["m"], p["Iz"], p["a"], p["b"], p["Cf"], p["Cr"], p["vx"]',
+        'L = a + b',
+        'a1 = (Cf + Cr)/(m*vx) + (a*a*Cf + b*b*Cr)/(Iz*vx)',
+        'a0 = Cf*Cr*L*L/(m*Iz*vx*vx) + (b*Cr - a*Cf)/Iz',
+        'b1 = a*Cf/Iz; b0 = Cf*Cr*L/(m*Iz*vx)',
+        'num = np.array([b1, b0]); den = np.polymul([1, a1, a0], [p["lag"], 1])',
+        't = np.arange(0, 8, 1e-4)',
+        'u = p["A"] * np.clip((t - 2.0) / p["ramp"], 0, 1)',
+        '_, y, _ = signal.lsim((num, den), u, t)',
+        'gain = b0 / a0',
+        'steady = gain * p["A"]',
+        't50 = 2.0 + p["ramp"] / 2',
+        'i90 = int(np.argmax(y >= 0.9 * steady))',
+        't90 = t[i90-1] + (0.9*steady - y[i90-1]) / (y[i90] - y[i90-1]) * 1e-4',
+        'ipk = int(np.argmax(y))',
+        'k = np.arange(0, len(t), int(round(1e-4**-1 / p["rate"])))',
+        'print(json.dumps({"t": t[k].tolist(), "u": u[k].tolist(), "y": y[k].tolist(), "gain": gain, "response_s": t90 - t50, "peak_s": t[ipk] - t50, "overshoot_pct": 100*(y[ipk] - steady)/steady}))',
+      ].join('\n'),
+      { ...vehicle, A: amplitude_rad, ramp: ramp_s, rate: rate_Hz },
+    );
+    const time_s = Float64Array.from(reference.t);
+    let preStepSamples = 0;
+    while (time_s[preStepSamples] <= 2 + 1e-9) preStepSamples += 1;
+    const metrics = stepMetrics({ time_s, steerCommand_rad: Float64Array.from(reference.u), yawRate_radps: Float64Array.from(reference.y), preStepSamples });
+    expect(reference.overshoot_pct).toBeGreaterThan(1); // the model does overshoot at this speed, so the peak check means something
+    expect(metrics.steadyYawGain_perS).toBeCloseTo(reference.gain, 3); // b0/a0 = vx/(L + K·vx²)
+    expect(Math.abs((metrics.responseTime_s ?? NaN) - reference.response_s)).toBeLessThan(0.005); // 100 Hz samples, 5-sample smoothing
+    expect(Math.abs((metrics.peakResponseTime_s ?? NaN) - reference.peak_s)).toBeLessThan(0.02); // a flat peak: parabolic refinement on 10 ms samples
+    expect(Math.abs(metrics.overshoot_pct - reference.overshoot_pct)).toBeLessThan(0.2); // percentage points
+  });
+});
