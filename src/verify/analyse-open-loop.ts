@@ -3,7 +3,8 @@
  * phase crossover, phase margin, both gain margins, delay margin, sensitivity peaks,
  * and a verdict from two independent tests that must agree.
  */
-import { addPolynomials, multiplyPolynomials } from '../lti/polynomial.js';
+import { SpeedbandError } from '../core/errors.js';
+import { multiplyPolynomials } from '../lti/polynomial.js';
 import { polynomialRoots } from '../lti/roots.js';
 import { ratioToDecibels, radiansToDegrees } from '../core/units.js';
 import type { Complex } from '../lti/types.js';
@@ -162,6 +163,13 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
           ...cancelCommonIntegrators(multiplyPolynomials(numerator, discrete.continuousCounterpart.numerator), multiplyPolynomials(denominator, discrete.continuousCounterpart.denominator)),
           delay_s: loop.delay_s + discrete.sampleTime_s / 2,
         };
+  if (verdictLoop.numerator.length > verdictLoop.denominator.length) {
+    throw new SpeedbandError(
+      'verify.improperLoop',
+      'the plant times the continuous counterpart of the discrete controller has more zeros than poles — give the derivative a filter (derivative filter N, Tf = Td/N)',
+      { location: { jsonPath: 'discreteController.continuousCounterpart' }, details: { numerator: verdictLoop.numerator, denominator: verdictLoop.denominator } },
+    );
+  }
   const verdictSweep = discrete === null ? margins : sweep(verdictLoop.numerator, verdictLoop.denominator, verdictLoop.delay_s, null);
 
   const highFrequencyLoopGain = verdictLoop.numerator.length === verdictLoop.denominator.length ? Math.abs(verdictLoop.numerator[0] / verdictLoop.denominator[0]) : 0;

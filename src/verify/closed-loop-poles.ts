@@ -22,9 +22,12 @@ export interface PoleVerdict {
 
 const orderCache = new Map<number, number>();
 
+/** Beyond this ω·θ (rad) every order up to the maximum misses the 1° bound: one cache entry serves them all. */
+const LARGEST_KEY = 64;
+
 /** padeOrderFor on x = ω·θ rounded up to a quarter (memoised; rounding up only raises the order). */
 function orderFor(normalisedFrequency: number): { order: number; withinBound: boolean } {
-  const key = Math.ceil(normalisedFrequency * 4) / 4;
+  const key = Math.min(Math.ceil(normalisedFrequency * 4) / 4, LARGEST_KEY);
   const cached = orderCache.get(key);
   if (cached !== undefined) return { order: cached, withinBound: cached <= PADE_DEFAULTS.maximumOrder };
   let order: number;
