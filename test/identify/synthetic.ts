@@ -56,3 +56,24 @@ export function rampStepSignals(overrides: Partial<RampStep> = {}): StepSignals 
   }
   return { time_s, input, output, preStepSamples: c.preStepSamples, clean };
 }
+
+/** A segmented-step record around synthetic ramp-step signals (as src/log/segment.ts would give). */
+export function rampStepTest(overrides: Partial<RampStep> & { readonly file?: string; readonly stepIndex?: number; readonly speed_mps?: number } = {}): import('../../src/log/types.js').StepTest {
+  const signals = rampStepSignals(overrides);
+  const amplitude = overrides.amplitude ?? RAMP_STEP.amplitude;
+  return {
+    file: overrides.file ?? 'synthetic.csv',
+    segmentIndex: 0,
+    stepIndex: overrides.stepIndex ?? 0,
+    onset_s: signals.time_s[signals.preStepSamples],
+    amplitude_rad: amplitude,
+    direction: amplitude >= 0 ? 'left' : 'right',
+    speed_mps: overrides.speed_mps ?? 10,
+    speedSpread_mps: 0.05,
+    time_s: signals.time_s,
+    steerCommand_rad: signals.input,
+    yawRate_radps: signals.output,
+    preStepSamples: signals.preStepSamples,
+    metrics: { steadyYawGain_perS: overrides.gain ?? RAMP_STEP.gain, responseTime_s: null, peakResponseTime_s: null, overshoot_pct: 0 },
+  };
+}
