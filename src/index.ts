@@ -190,3 +190,6 @@ export {
   type TunedOperatingPoint,
   type ProportionalGainRange,
 } from './tuning/index.js';
+
+// After a vehicle change: compare two schedules (gains, margins, model drift, flags).
+export * from './compare/index.js';
