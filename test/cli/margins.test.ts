@@ -48,6 +48,15 @@ describe('speedband margins', () => {
     expect(loss).toBeLessThan(1.3 * expectedLoss_deg);
   });
 
+  it('a negative plant gain with negative controller gains prints the same margins (the = form passes a leading minus)', async () => {
+    // Source: common practice (DOMAIN.md §5b): L = C·G is unchanged when both signs flip.
+    const positive = await run(['margins', '--numerator', '2 1', '--denominator', '0.5 1 1', '--delay-s', '0.1', '--kp', '0.4', '--ki', '0.8']);
+    const negative = await run(['margins', '--numerator=-2 -1', '--denominator', '0.5 1 1', '--delay-s', '0.1', '--kp', '-0.4', '--ki', '-0.8']);
+    expect(negative.code).toBe(positive.code);
+    expect(negative.out).toBe(positive.out);
+    expect(positive.out).toMatch(/phase margin:\s+[\d.]+ °/);
+  });
+
   it('bad input exits 2 with a message that names the option and what was expected', async () => {
     const letters = await run(['margins', '--numerator', '1 x', '--denominator', '1 0', '--kp', '1']);
     expect(letters.code).toBe(2);
