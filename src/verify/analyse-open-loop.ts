@@ -130,6 +130,7 @@ function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
  *   in (−180°, 180°]; the smallest is reported. Delay margin (stable loops only) =
  *   min over crossovers of PMᵢ/ωᵢ, where a crossover with PMᵢ ≤ 0 needs
  *   (PMᵢ + 360°)/ωᵢ of extra delay to reach −1 (the added delay turns the point clockwise).
+ *   Null for an unstable loop, and for a stable one without gain crossover (no delay destabilises it).
  * - Phase crossovers (∠L = −180°·(2k + 1)) and, for a loop without integrators whose
  *   L(0) is negative, ω = 0: each is a gain factor 1/|L| at which −1 lies on the curve
  *   and the encirclement count changes. Upper gain margin = the smallest factor > 1

@@ -28,6 +28,12 @@ const loops: Record<string, OpenLoop> = {
     plant: { numerator: [1, 0.3], denominator: [0.3, 1, 0, 0], delay_s: 0.15 },
     pid: { kp: 1, ki: 0.03, kd: 0 },
   }),
+  // An oversteering car at 30 m/s (open-loop unstable yaw rate, synthetic numbers: m = 1500 kg, Iz = 2500 kg·m²,
+  // a = 1.6 m, b = 1.0 m, Cf = 80 kN/rad, Cr = 60 kN/rad; DOMAIN.md §3) under a PI yaw-rate loop.
+  'PI yaw-rate loop on an oversteering car above its critical speed, θ = 0.05 s': openLoopOf({
+    plant: { numerator: [51.2, 110.93333333333334], denominator: [1, 6.641777777777778, -17.58577777777778], delay_s: 0.05 },
+    pid: { kp: 0.2, ki: 0.4, kd: 0 },
+  }),
 };
 
 interface Sweep {
