@@ -17,4 +17,5 @@ export const HEADING_LOOP: LoopDefinition = {
   fromSingleTrack: (responses) => integrate(responses.yawRate),
   integrators: 1,
   designGainFactor: () => 1,
+  designLead_s: () => 0,
 };

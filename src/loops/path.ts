@@ -30,6 +30,7 @@ export const PATH_LOOP: LoopDefinition = {
   },
   integrators: 2,
   designGainFactor: ({ speed_mps }) => speed_mps,
+  designLead_s: ({ speed_mps, previewFromCg_m }, lateralVelocityPerYawRate_m) => (previewFromCg_m + lateralVelocityPerYawRate_m) / speed_mps,
 };
 
 function sameDenominator(a: TransferFunction, b: TransferFunction): boolean {

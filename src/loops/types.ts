@@ -63,4 +63,10 @@ export interface LoopDefinition {
   readonly integrators: 0 | 1 | 2;
   /** Factor on the yaw-rate gain in the design model (1, or vx for the path loop). */
   readonly designGainFactor: (context: LoopContext) => number;
+  /**
+   * Lead time constant T0 (s) of the design model's numerator (T0·s + 1); `lateralVelocityPerYawRate_m` is
+   * G_vy(0)/G_r(0) from the single-track model (0 for lumped models, which neglect vy). Path loop:
+   * (G_vy(0) + d·G_r(0))/(vx·G_r(0)), the low-frequency zero of the exact path plant; other loops 0.
+   */
+  readonly designLead_s: (context: LoopContext, lateralVelocityPerYawRate_m: number) => number;
 }

@@ -10,4 +10,5 @@ export const YAW_RATE_LOOP: LoopDefinition = {
   fromSingleTrack: (responses) => responses.yawRate,
   integrators: 0,
   designGainFactor: () => 1,
+  designLead_s: () => 0,
 };

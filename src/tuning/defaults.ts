@@ -28,4 +28,14 @@ export const TUNING_DEFAULTS = {
    * (recomputed in test/tuning/damping-target.test.ts).
    */
   maximumBandwidthDelayProduct: 0.2,
+  /**
+   * Damping-target on a path loop with a lead T0 (preview and sideslip): the delay-free design loop's
+   * high-frequency gain |k''·kd·T0| must stay below this — at 1 the design loop no longer falls below
+   * 1 at high frequency and the lag and delay the design neglects decide stability (the neutral-type
+   * argument of DOMAIN.md §5b). Over the demo fleet (2–25 m/s, previews 0–5 m, settling 5–80 m) every
+   * design below 1 with ωn·θ_eff ≤ 0.2 came out stable on the full loop.
+   */
+  maximumPreviewHighFrequencyGain: 1,
+  /** The default ωn keeps k''·kd·T0 at or below this. Our choice: half the limit. */
+  defaultPreviewHighFrequencyGain: 0.5,
 } as const;

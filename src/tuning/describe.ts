@@ -38,7 +38,9 @@ export function describeTunedOperatingPoint(point: TunedOperatingPoint): string 
   );
   const m = derivation.designModel;
   lines.push(
-    `Design model: gain ${number(m.gain)}, ${m.integrators} integrator(s), lags [${m.lags_s.map(number).join(', ')}] s, dead time ${number(m.deadTime_s)} s`,
+    `Design model: gain ${number(m.gain)}, ${m.integrators} integrator(s), lags [${m.lags_s.map(number).join(', ')}] s, dead time ${number(m.deadTime_s)} s${
+      (m.leadTimeConstant_s ?? 0) !== 0 ? `, lead ${number(m.leadTimeConstant_s ?? 0)} s` : ''
+    }`,
   );
   lines.push(`Rule: ${derivation.rule} (${derivation.controllerType}) — ${derivation.citation}`);
   const form = derivation.ruleForm;

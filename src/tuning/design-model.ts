@@ -2,7 +2,7 @@ import type { LumpedModel } from '../identify/types.js';
 import { lumpedYawRateTransferFunction } from '../loops/lumped-yaw-rate.js';
 import { findLoop } from '../loops/registry.js';
 import type { LoopKind } from '../loops/types.js';
-import { seriesConnection } from '../lti/transfer-function.js';
+import { dcGain, seriesConnection } from '../lti/transfer-function.js';
 import { actuatorTransferFunction, singleTrackTransferFunctions } from '../vehicle/single-track.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
 import { fopdtByTwoPoints } from './two-point.js';
@@ -27,13 +27,18 @@ function assemble(
   yaw: { gain: number; timeConstant_s: number; deadTime_s: number },
   source: 'identified' | 'two-point',
   controllerDelay_s: number,
+  previewFromCg_m: number,
+  lateralVelocityPerYawRate_m: number,
 ): DesignModelDerivation {
   const loop = findLoop(kind);
+  const context = { speed_mps, previewFromCg_m };
+  const lead = loop.designLead_s(context, lateralVelocityPerYawRate_m);
   const model: DesignModel = {
     integrators: loop.integrators,
-    gain: yaw.gain * loop.designGainFactor({ speed_mps, previewFromCg_m: 0 }),
+    gain: yaw.gain * loop.designGainFactor(context),
     lags_s: yaw.timeConstant_s > 0 ? [yaw.timeConstant_s] : [],
     deadTime_s: yaw.deadTime_s + controllerDelay_s,
+    ...(lead !== 0 ? { leadTimeConstant_s: lead } : {}),
   };
   return {
     yawRateGain_perS: yaw.gain,
@@ -53,31 +58,38 @@ function assemble(
  * and gain factor applied:
  *   yaw-rate  K·e^(−θs)/(τs + 1)            (self-regulating)
  *   heading   K·e^(−θs)/(s(τs + 1))         (integrating, k' = K)
- *   path      K·vx·e^(−θs)/(s²(τs + 1))     (double-integrating, k'' = K·vx; the preview zero (d/vx)s + 1 is
- *                                             left out of the design and counted by the margins on the full loop)
+ *   path      K·vx·((d/vx)s + 1)·e^(−θs)/(s²(τs + 1))   (double-integrating, k'' = K·vx, preview lead T0 = d/vx
+ *                                                         with d from the CG, `previewFromCg_m`, m)
  * The rules fold the lag τ into the delay by Skogestad's half rule where their plant class needs it.
  */
-export function designModelFromLumped(kind: LoopKind, model: LumpedModel, speed_mps: number, controllerDelay_s: number): DesignModelDerivation {
+export function designModelFromLumped(
+  kind: LoopKind,
+  model: LumpedModel,
+  speed_mps: number,
+  controllerDelay_s: number,
+  previewFromCg_m = 0,
+): DesignModelDerivation {
   if (model.kind === 'fopdt') {
-    return assemble(kind, speed_mps, model, 'identified', controllerDelay_s);
+    return assemble(kind, speed_mps, model, 'identified', controllerDelay_s, previewFromCg_m, 0);
   }
   const { dampingRatio: zeta, naturalFrequency_radps: omega, zeroTimeConstant_s: beta } = model;
   if (beta === 0 && zeta >= 1 && omega > 0) {
     // Overdamped without a zero: two real lags τ1,2 = (ζ ± √(ζ² − 1))/ωn, kept exactly (SIMC's second-order rule uses both).
     const spread = Math.sqrt(zeta * zeta - 1);
     const lags_s = [(zeta + spread) / omega, (zeta - spread) / omega];
-    const derivation = assemble(kind, speed_mps, { gain: model.gain, timeConstant_s: lags_s[0], deadTime_s: model.deadTime_s }, 'identified', controllerDelay_s);
+    const derivation = assemble(kind, speed_mps, { gain: model.gain, timeConstant_s: lags_s[0], deadTime_s: model.deadTime_s }, 'identified', controllerDelay_s, previewFromCg_m, 0);
     return { ...derivation, model: { ...derivation.model, lags_s } };
   }
-  return assemble(kind, speed_mps, fopdtByTwoPoints(lumpedYawRateTransferFunction(model)), 'two-point', controllerDelay_s);
+  return assemble(kind, speed_mps, fopdtByTwoPoints(lumpedYawRateTransferFunction(model)), 'two-point', controllerDelay_s, previewFromCg_m, 0);
 }
 
 /**
  * The design model from the single-track model at one speed, "the same way" as from a lumped model:
  * the steer command → yaw rate response with the actuator, e^(−θa s)/(τa s + 1)·(b1 s + b0)/(s² + a1 s + a0),
  * is reduced to FOPDT by Smith's two-point method on its exact step response (`fopdtByTwoPoints`), then as `designModelFromLumped`.
- * For the path loop k'' = K·vx with K = vx/(L + Ku·vx²) the steady yaw gain; the lateral-velocity
- * term and the preview zero are left to the full-loop margins. Throws `tuning.unstablePlant` above
+ * For the path loop k'' = K·vx with K = vx/(L + Ku·vx²) the steady yaw gain, and the lead
+ * T0 = (G_vy(0)/G_r(0) + d)/vx: the low-frequency zero of the exact path plant (the CG's own sideslip
+ * acts like a preview of G_vy(0)/G_r(0) ≈ b at low speed). Throws `tuning.unstablePlant` above
  * an oversteering vehicle's critical speed.
  */
 export function designModelFromSingleTrack(
@@ -85,7 +97,12 @@ export function designModelFromSingleTrack(
   parameters: SingleTrackParameters,
   speed_mps: number,
   controllerDelay_s: number,
+  previewFromCg_m = 0,
 ): DesignModelDerivation {
-  const yawRate = seriesConnection(actuatorTransferFunction(parameters), singleTrackTransferFunctions(parameters, speed_mps).yawRate);
-  return assemble(kind, speed_mps, fopdtByTwoPoints(yawRate), 'two-point', controllerDelay_s);
+  const responses = singleTrackTransferFunctions(parameters, speed_mps);
+  const yawRate = seriesConnection(actuatorTransferFunction(parameters), responses.yawRate);
+  const yawGain = dcGain(responses.yawRate);
+  const lateralGain = dcGain(responses.lateralVelocity);
+  const lateralVelocityPerYawRate_m = yawGain === null || lateralGain === null || yawGain === 0 ? 0 : lateralGain / yawGain;
+  return assemble(kind, speed_mps, fopdtByTwoPoints(yawRate), 'two-point', controllerDelay_s, previewFromCg_m, lateralVelocityPerYawRate_m);
 }

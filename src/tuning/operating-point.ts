@@ -57,8 +57,8 @@ export function tuneOperatingPoint(request: OperatingPointRequest): TunedOperati
       : loopPlantFromSingleTrack(specification, model.parameters, speed_mps, controller);
   const design =
     model.kind === 'lumped'
-      ? designModelFromLumped(specification.kind, model.yawRate, speed_mps, controllerDelay_s)
-      : designModelFromSingleTrack(specification.kind, model.parameters, speed_mps, controllerDelay_s);
+      ? designModelFromLumped(specification.kind, model.yawRate, speed_mps, controllerDelay_s, loop.previewFromCg_m ?? 0)
+      : designModelFromSingleTrack(specification.kind, model.parameters, speed_mps, controllerDelay_s, loop.previewFromCg_m ?? 0);
   const derivation = applyRule(request.rule, design.model, request.ruleParameters, { speed_mps });
   const margins = loopMargins(loop, derivation.gains, controller.derivativeFilter);
   return { gains: derivation.gains, derivation, design, loop, margins };

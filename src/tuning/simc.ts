@@ -94,7 +94,10 @@ export function simc(model: DesignModel, parameters: RuleParameters): RuleResult
       halfRuleAddedDeadTime_s: reduction.addedDeadTime_s,
       halfRuleAddedToLag_s: reduction.addedToRetainedLag_s,
     },
-    warnings: [],
+    warnings:
+      (model.leadTimeConstant_s ?? 0) !== 0
+        ? [`the design neglects the path loop's lead (T0 = ${(model.leadTimeConstant_s ?? 0).toPrecision(3)} s, preview and sideslip): the margins of the full loop include it; damping-target places the poles with it`]
+        : [],
   };
 }
 

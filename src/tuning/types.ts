@@ -14,7 +14,7 @@ export type ControllerType = 'P' | 'PI' | 'PID';
 
 /**
  * The low-order model a rule is applied to:
- *   G(s) = gain · e^(−deadTime_s·s) / (s^integrators · Π (lags_s[i]·s + 1))
+ *   G(s) = gain · (leadTimeConstant_s·s + 1) · e^(−deadTime_s·s) / (s^integrators · Π (lags_s[i]·s + 1))
  * Units of `gain`: self-regulating (rad/s)/rad = 1/s for a yaw-rate loop; integrating k' (rad/s)/rad
  * for a heading loop; double-integrating k'' (m/s²)/rad for a path loop. Lags sorted longest first.
  * `plantClass` follows from the integrator count and the number of lags (see `plantClassOf`).
@@ -24,6 +24,12 @@ export interface DesignModel {
   readonly gain: number;
   readonly lags_s: readonly number[];
   readonly deadTime_s: number;
+  /**
+   * Numerator lead T0, s (absent = 0): the path loop's low-frequency zero, T0 = (G_vy(0)/G_r(0) + d)/vx
+   * (d/vx for lumped models; may be negative at speed, an RHP zero). Only damping-target
+   * places poles with it; the other rules neglect it and say so in a warning.
+   */
+  readonly leadTimeConstant_s?: number;
 }
 
 /** The controller as the rule writes it down, before conversion to the parallel gains firmware runs. */

@@ -50,12 +50,18 @@ describe('speedband tune', () => {
   });
 
   it('the single-track model from a demo vehicle file, path loop with a front-axle preview', async () => {
-    const { code, out } = await run(['tune', '--rule', 'damping-target', '--loop', 'path', '--preview-m', '2', '--reference-point', 'front-axle', '--speed-mps', '10', '--settling-distance-m', '40', '--vehicle', 'vehicles/parcel-van']);
+    const { code, out } = await run(['tune', '--rule', 'damping-target', '--loop', 'path', '--preview-m', '2', '--reference-point', 'front-axle', '--speed-mps', '10', '--settling-distance-m', '100', '--vehicle', 'vehicles/parcel-van']);
     expect(code).toBe(0);
     // Front-axle preview: d = 2 m + a (parcel van a = 1.75 m).
     expect(out).toMatch(/3\.7500 m from the CG/);
-    // ωn = 4·v/(ζ·D) = 4·10/40 (DOMAIN.md §4).
-    expect(out).toMatch(/naturalFrequency_radps = 1\b/);
+    // ωn = 4·v/(ζ·D) = 4·10/100 (DOMAIN.md §4).
+    expect(out).toMatch(/naturalFrequency_radps = 0\.40000/);
+  });
+
+  it('a settling target too fast for the preview lead exits 2 with how far to lower ωn', async () => {
+    const { code, err } = await run(['tune', '--rule', 'damping-target', '--loop', 'path', '--preview-m', '2', '--reference-point', 'front-axle', '--speed-mps', '10', '--settling-distance-m', '40', '--vehicle', 'vehicles/parcel-van']);
+    expect(code).toBe(2);
+    expect(err).toMatch(/lower ωn to at most [0-9.]+ rad\/s/);
   });
 
   it('bad input exits 2: no model, an incomplete FOPDT, an unknown rule', async () => {

@@ -50,6 +50,78 @@ print(json.dumps(out))
     });
   });
 
+  it('property: with a lead k″(T0 s + 1)/s² the delay-free closed-loop poles are still the requested ones (numpy.roots on the full characteristic polynomial)', () => {
+    const cases = fc
+      .sample(
+        fc.record({
+          gain: fc.double({ min: 0.05, max: 50, noNaN: true }),
+          zeta: fc.double({ min: 0.4, max: 1.8, noNaN: true }),
+          omega: fc.double({ min: 0.1, max: 5, noNaN: true }),
+          ratio: fc.double({ min: 3, max: 10, noNaN: true }),
+          leadTimesOmega: fc.double({ min: 0.001, max: 0.3, noNaN: true }),
+        }),
+        { numRuns: 150, seed: 7 },
+      )
+      .map((c) => ({ ...c, lead: c.leadTimesOmega / c.omega }))
+      .filter((c) => Math.abs(c.zeta - 1) > 0.05);
+    const designed = cases.map((c) => {
+      try {
+        return dampingTarget(
+          { integrators: 2, gain: c.gain, lags_s: [], deadTime_s: 0.01, leadTimeConstant_s: c.lead },
+          { dampingRatio: c.zeta, naturalFrequency_radps: c.omega, integralPoleRatio: c.ratio },
+          { speed_mps: 5 },
+        ).gains;
+      } catch {
+        return null;
+      }
+    });
+    const placed = cases.filter((_, i) => designed[i] !== null);
+    expect(placed.length).toBeGreaterThan(100);
+    // Source: numpy.roots of (1 + k″kd T0)s³ + k″(kd + kp T0)s² + k″(kp + ki T0)s + k″ki (loop algebra written out here).
+    const roots = runPython<{ re: number[]; im: number[] }[]>(
+      `
+import json, sys, numpy as np
+out = []
+for c in json.load(sys.stdin):
+    k, T = c['gain'], c['lead']
+    r = np.roots([1 + k*c['kd']*T, k*(c['kd'] + c['kp']*T), k*(c['kp'] + c['ki']*T), k*c['ki']])
+    out.append({'re': r.real.tolist(), 'im': r.imag.tolist()})
+print(json.dumps(out))
+`,
+      cases.flatMap((c, i) => (designed[i] === null ? [] : [{ gain: c.gain, lead: c.lead, ...designed[i]! }])),
+    );
+    placed.forEach((c, i) => {
+      const { zeta, omega, ratio } = c;
+      const wanted = [{ re: -omega / ratio, im: 0 }];
+      if (zeta > 1) {
+        const spread = omega * Math.sqrt(zeta * zeta - 1);
+        wanted.push({ re: -zeta * omega - spread, im: 0 }, { re: -zeta * omega + spread, im: 0 });
+      } else {
+        const imaginary = omega * Math.sqrt(1 - zeta * zeta);
+        wanted.push({ re: -zeta * omega, im: -imaginary }, { re: -zeta * omega, im: imaginary });
+      }
+      const found = roots[i].re.map((re, k) => ({ re, im: roots[i].im[k] }));
+      for (const w of wanted) {
+        expect(Math.min(...found.map((f) => Math.hypot(f.re - w.re, f.im - w.im)))).toBeLessThan(1e-6 * omega);
+      }
+    });
+  });
+
+  it('refuses a target too fast for the lead (design loop gain |k″·kd·T0| ≥ 1) with tuning.targetNotReachable and a usable ωn', () => {
+    const model = { integrators: 2 as const, gain: 10, lags_s: [], deadTime_s: 0.05, leadTimeConstant_s: 0.5 };
+    let limit = 0;
+    try {
+      dampingTarget(model, { naturalFrequency_radps: 1.5 }, { speed_mps: 5 });
+      throw new Error('expected a refusal');
+    } catch (error) {
+      expect((error as { code: string }).code).toBe('tuning.targetNotReachable');
+      limit = (error as { details: { maximumNaturalFrequency_radps: number } }).details.maximumNaturalFrequency_radps;
+    }
+    expect(limit).toBeGreaterThan(0);
+    expect(limit).toBeLessThan(1.5);
+    expect(dampingTarget(model, { naturalFrequency_radps: 0.99 * limit }, { speed_mps: 5 }).intermediate.highFrequencyLoopGain).toBeLessThan(1);
+  });
+
   it('a settling distance D at speed vx gives ωn = 4vx/(ζD) (ts ≈ 4/(ζωn), common practice)', () => {
     const result = dampingTarget({ integrators: 2, gain: 10, lags_s: [], deadTime_s: 0.1 }, { dampingRatio: 0.8, settlingDistance_m: 25 }, { speed_mps: 10 });
     expect(result.intermediate.naturalFrequency_radps).toBeCloseTo((4 * 10) / (0.8 * 25), 14);

@@ -124,6 +124,10 @@ describe('design models from the single-track model', () => {
     expect(design.model.gain).toBeCloseTo(yawGain * speed, 9);
     expect(design.model.integrators).toBe(2);
     expect(design.yawRateSource).toBe('two-point');
+    // Lead of the exact path plant: T0 = (vy/r + d)/vx with the steady sideslip vy/r = b − m·a·vx²/(Cr·L)
+    // (Rajamani 2012 §3.3, steady-state cornering — from memory; here d = 0).
+    const sideslipPerYawRate_m = van.cgToRearAxle_m - (van.mass_kg * van.cgToFrontAxle_m * speed * speed) / (van.rearCorneringStiffness_NPerRad * L);
+    expect(design.model.leadTimeConstant_s).toBeCloseTo(sideslipPerYawRate_m / speed, 10);
     // The delay of the FOPDT covers at least part of the actuator delay, and the controller delay is added on top.
     expect(design.model.deadTime_s).toBeGreaterThan(0.01);
   });

@@ -49,7 +49,7 @@ export const command: CommandModule = {
       .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' }),
   examples: [
     ['speedband tune --rule simc --loop yaw-rate --speed-mps 8 --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07', 'SIMC PI for a yaw-rate loop from an identified FOPDT'],
-    ['speedband tune --rule damping-target --loop path --preview-m 2 --reference-point front-axle --speed-mps 10 --settling-distance-m 30 --vehicle vehicles/parcel-van', 'Path loop with 2 m preview from the front axle, settling within 30 m, on the single-track model'],
+    ['speedband tune --rule damping-target --loop path --preview-m 2 --reference-point front-axle --speed-mps 10 --settling-distance-m 100 --vehicle vehicles/parcel-van', 'Path loop with 2 m preview from the front axle, settling within 100 m, on the single-track model'],
     ['speedband tune --rule ziegler-nichols-ultimate --controller-type PI --loop heading --speed-mps 2 --vehicle vehicles/vineyard-sprayer --json', 'Ziegler–Nichols PI for a heading loop, machine-readable'],
   ],
   run: async (args, io) => {
