@@ -1,9 +1,78 @@
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { firstCrossing, stepMetrics, type StepWindow } from '../../src/log/metrics.js';
 import { runPython } from '../helpers/python.js';
 import { syntheticLog, type FopdtPlant } from './synthetic-log.js';
 
-const PLANT: FopdtPlant = { gain_perS: 2.5, timeConstant_s: 0.4, deadTime_s: 0.12 };
+/** Every scipy reference of this file, computed in one python call (before the tests that use them). */
+const SCIPY_INPUT = {
+  fopdt: { K: 2.5, tau: 0.4, theta: 0.12, ramp: 0.15 },
+  secondOrder: { w: 6, z: 0.4 },
+  singleTrack: { m: 3500, Iz: 5500, a: 1.5, b: 2.0, Cf: 120_000, Cr: 150_000, vx: 25, lag: 0.08, A: 0.015, ramp: 0.15, rate: 100 },
+};
+const SCIPY_SCRIPT = [
+  'import sys, json, numpy as np',
+  'from scipy import signal',
+  'd = json.load(sys.stdin)',
+  'out = {}',
+  '# First-order-plus-dead-time response to a ramped step: 90 % time after the ramp 50 % point.',
+  'f = d["fopdt"]',
+  't = np.arange(0, 8, 1e-4)',
+  'u = np.clip((t - f["theta"]) / f["ramp"], 0, 1)',
+  '_, y, _ = signal.lsim(([f["K"]], [f["tau"], 1]), u, t)',
+  'y90 = 0.9 * f["K"]',
+  'i = int(np.argmax(y >= y90))',
+  't90 = t[i-1] + (y90 - y[i-1]) / (y[i] - y[i-1]) * (t[i] - t[i-1])',
+  'out["fopdtRamp"] = {"t90": float(t90 - f["ramp"] / 2)}',
+  '# Underdamped second order, ideal step.',
+  'q = d["secondOrder"]',
+  't = np.arange(0, 5, 1e-4)',
+  '_, y = signal.step(([q["w"]**2], [1, 2*q["z"]*q["w"], q["w"]**2]), T=t)',
+  'out["secondOrder"] = {"overshoot_pct": float(100*(y.max()-1)), "peak_s": float(t[int(np.argmax(y))])}',
+  '# Single-track model with actuator lag, ramped step at t = 2 s, metrics by the same definitions in numpy.',
+  'p = d["singleTrack"]',
+  'm, Iz, a, b, Cf, Cr, vx = p["m"], p["Iz"], p["a"], p["b"], p["Cf"], p["Cr"], p["vx"]',
+  'L = a + b',
+  'a1 = (Cf + Cr)/(m*vx) + (a*a*Cf + b*b*Cr)/(Iz*vx)',
+  'a0 = Cf*Cr*L*L/(m*Iz*vx*vx) + (b*Cr - a*Cf)/Iz',
+  'b1 = a*Cf/Iz; b0 = Cf*Cr*L/(m*Iz*vx)',
+  'num = np.array([b1, b0]); den = np.polymul([1, a1, a0], [p["lag"], 1])',
+  't = np.arange(0, 8, 1e-4)',
+  'u = p["A"] * np.clip((t - 2.0) / p["ramp"], 0, 1)',
+  '_, y, _ = signal.lsim((num, den), u, t)',
+  'gain = b0 / a0',
+  'steady = gain * p["A"]',
+  't50 = 2.0 + p["ramp"] / 2',
+  'i90 = int(np.argmax(y >= 0.9 * steady))',
+  't90 = t[i90-1] + (0.9*steady - y[i90-1]) / (y[i90] - y[i90-1]) * 1e-4',
+  'ipk = int(np.argmax(y))',
+  'k = np.arange(0, len(t), int(round(1e4 / p["rate"])))',
+  'out["singleTrack"] = {"t": t[k].tolist(), "u": u[k].tolist(), "y": y[k].tolist(), "gain": gain, "response_s": t90 - t50, "peak_s": t[ipk] - t50, "overshoot_pct": 100*(y[ipk] - steady)/steady}',
+  'print(json.dumps(out))',
+].join('\n');
+
+interface ScipyReferences {
+  readonly fopdtRamp: { readonly t90: number };
+  readonly secondOrder: { readonly overshoot_pct: number; readonly peak_s: number };
+  readonly singleTrack: {
+    readonly t: number[];
+    readonly u: number[];
+    readonly y: number[];
+    readonly gain: number;
+    readonly response_s: number;
+    readonly peak_s: number;
+    readonly overshoot_pct: number;
+  };
+}
+let references: ScipyReferences | undefined;
+beforeAll(() => {
+  references = runPython<ScipyReferences>(SCIPY_SCRIPT, SCIPY_INPUT);
+});
+function scipy(): ScipyReferences {
+  if (references === undefined) throw new Error('scipy references not computed');
+  return references;
+}
+
+const PLANT: FopdtPlant = { gain_perS: SCIPY_INPUT.fopdt.K, timeConstant_s: SCIPY_INPUT.fopdt.tau, deadTime_s: SCIPY_INPUT.fopdt.theta };
 const AMPLITUDE_rad = 0.03;
 
 /** One step from 0 to `amplitude` at t = 2 s with the given ramp, as a metrics window. */
@@ -36,28 +105,14 @@ describe('stepMetrics(window) on an analytic first-order-plus-dead-time response
   });
 
   it('a 0.15 s ramp: response time from the ramp 50 % point agrees with the closed form and with scipy.signal.lsim', () => {
-    const ramp_s = 0.15;
+    const ramp_s = SCIPY_INPUT.fopdt.ramp;
     const rate_Hz = 1000;
     const metrics = stepMetrics(fopdtWindow(ramp_s, rate_Hz));
     const tau = PLANT.timeConstant_s;
     // Closed form (textbook ramp response of a first-order lag): for u > Tr, y/y∞ = 1 − (τ/Tr)(e^((Tr−u)/τ) − e^(−u/τ)) = 0.9
     // ⇒ u90 = τ·ln(10τ(e^(Tr/τ) − 1)/Tr); the 50 % point of the input is at Tr/2.
     const closedForm_s = PLANT.deadTime_s + tau * Math.log((10 * tau * (Math.exp(ramp_s / tau) - 1)) / ramp_s) - ramp_s / 2;
-    const reference = runPython<{ t90: number }>(
-      [
-        'import sys, json, numpy as np',
-        'from scipy import signal',
-        'd = json.load(sys.stdin)',
-        't = np.arange(0, 8, 1e-4)',
-        'u = np.clip((t - d["theta"]) / d["ramp"], 0, 1)',
-        '_, y, _ = signal.lsim(([d["K"]], [d["tau"], 1]), u, t)',
-        'y90 = 0.9 * d["K"]',
-        'i = int(np.argmax(y >= y90))',
-        't90 = t[i-1] + (y90 - y[i-1]) / (y[i] - y[i-1]) * (t[i] - t[i-1])',
-        'print(json.dumps({"t90": float(t90 - d["ramp"] / 2)}))',
-      ].join('\n'),
-      { K: PLANT.gain_perS, tau, theta: PLANT.deadTime_s, ramp: ramp_s },
-    );
+    const reference = scipy().fopdtRamp;
     expect(Math.abs(closedForm_s - reference.t90)).toBeLessThan(1e-4); // scipy.signal.lsim on a 0.1 ms grid
     expect(Math.abs((metrics.responseTime_s ?? NaN) - closedForm_s)).toBeLessThan(1e-3); // linear interpolation at 1 kHz
     expect(metrics.steadyYawGain_perS).toBeCloseTo(PLANT.gain_perS, 4);
@@ -73,8 +128,8 @@ describe('stepMetrics(window) on an analytic first-order-plus-dead-time response
 
 describe('stepMetrics(window) on an underdamped second-order response', () => {
   it('overshoot e^(−πζ/√(1−ζ²)) and peak time π/(ωn√(1−ζ²)) of an ideal step, as scipy.signal.step finds them', () => {
-    const zeta = 0.4;
-    const omega_radps = 6;
+    const zeta = SCIPY_INPUT.secondOrder.z;
+    const omega_radps = SCIPY_INPUT.secondOrder.w;
     const gain = 1.8;
     const rate_Hz = 5000;
     const onset_s = 1;
@@ -96,19 +151,9 @@ describe('stepMetrics(window) on an underdamped second-order response', () => {
     // Source: Ogata, Modern Control Engineering, maximum overshoot Mp = e^(−ζπ/√(1−ζ²)) and peak time tp = π/ωd.
     const overshoot_pct = 100 * Math.exp((-zeta * Math.PI) / Math.sqrt(1 - zeta * zeta));
     const peak_s = Math.PI / damped;
-    const reference = runPython<{ overshoot_pct: number; peak_s: number }>(
-      [
-        'import sys, json, numpy as np',
-        'from scipy import signal',
-        'd = json.load(sys.stdin)',
-        't = np.linspace(0, 5, 500001)',
-        '_, y = signal.step(([d["w"]**2], [1, 2*d["z"]*d["w"], d["w"]**2]), T=t)',
-        'print(json.dumps({"overshoot_pct": float(100*(y.max()-1)), "peak_s": float(t[int(np.argmax(y))])}))',
-      ].join('\n'),
-      { w: omega_radps, z: zeta },
-    );
+    const reference = scipy().secondOrder;
     expect(reference.overshoot_pct).toBeCloseTo(overshoot_pct, 3);
-    expect(reference.peak_s).toBeCloseTo(peak_s, 4);
+    expect(Math.abs(reference.peak_s - peak_s)).toBeLessThan(1.5e-4); // scipy on a 0.1 ms grid
     expect(metrics.overshoot_pct).toBeCloseTo(overshoot_pct, 2);
     // The 50 % point of an ideal step lies half a sample after the onset sample.
     expect(Math.abs((metrics.peakResponseTime_s ?? NaN) - (peak_s - 0.5 / rate_Hz))).toBeLessThan(2 / rate_Hz);
@@ -127,36 +172,9 @@ describe('firstCrossing(time, values, target, direction, from)', () => {
 
 describe('stepMetrics(window) on a single-track model response computed by scipy', () => {
   it('gain, response time, peak time and overshoot agree with the same definitions applied by numpy to scipy.signal.lsim', () => {
-    // Single-track δ → r (DOMAIN.md §3, Gillespie 1992 / Rajamani 2012) for an invented van at 25 m/s, first-order actuator lag 0.08 s.
-    const vehicle = { m: 3500, Iz: 5500, a: 1.5, b: 2.0, Cf: 120_000, Cr: 150_000, vx: 25, lag: 0.08 };
-    const ramp_s = 0.15;
-    const amplitude_rad = 0.015;
-    const rate_Hz = 100;
-    const reference = runPython<{ t: number[]; u: number[]; y: number[]; gain: number; response_s: number; peak_s: number; overshoot_pct: number }>(
-      [
-        'import sys, json, numpy as np',
-        'from scipy import signal',
-        'p = json.load(sys.stdin)',
-        'm, Iz, a, b, Cf, Cr, vx = p["m"], p["Iz"], p["a"], p["b"], p["Cf"], p["Cr"], p["vx"]',
-        'L = a + b',
-        'a1 = (Cf + Cr)/(m*vx) + (a*a*Cf + b*b*Cr)/(Iz*vx)',
-        'a0 = Cf*Cr*L*L/(m*Iz*vx*vx) + (b*Cr - a*Cf)/Iz',
-        'b1 = a*Cf/Iz; b0 = Cf*Cr*L/(m*Iz*vx)',
-        'num = np.array([b1, b0]); den = np.polymul([1, a1, a0], [p["lag"], 1])',
-        't = np.arange(0, 8, 1e-4)',
-        'u = p["A"] * np.clip((t - 2.0) / p["ramp"], 0, 1)',
-        '_, y, _ = signal.lsim((num, den), u, t)',
-        'gain = b0 / a0',
-        'steady = gain * p["A"]',
-        't50 = 2.0 + p["ramp"] / 2',
-        'i90 = int(np.argmax(y >= 0.9 * steady))',
-        't90 = t[i90-1] + (0.9*steady - y[i90-1]) / (y[i90] - y[i90-1]) * 1e-4',
-        'ipk = int(np.argmax(y))',
-        'k = np.arange(0, len(t), int(round(1e-4**-1 / p["rate"])))',
-        'print(json.dumps({"t": t[k].tolist(), "u": u[k].tolist(), "y": y[k].tolist(), "gain": gain, "response_s": t90 - t50, "peak_s": t[ipk] - t50, "overshoot_pct": 100*(y[ipk] - steady)/steady}))',
-      ].join('\n'),
-      { ...vehicle, A: amplitude_rad, ramp: ramp_s, rate: rate_Hz },
-    );
+    // Single-track δ → r (DOMAIN.md §3, Gillespie 1992 / Rajamani 2012) for an invented van at 25 m/s with a 0.08 s actuator lag,
+    // driven by a 0.015 rad step ramped over 0.15 s from t = 2 s, sampled at 100 Hz (see SCIPY_INPUT).
+    const reference = scipy().singleTrack;
     const time_s = Float64Array.from(reference.t);
     let preStepSamples = 0;
     while (time_s[preStepSamples] <= 2 + 1e-9) preStepSamples += 1;
