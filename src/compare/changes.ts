@@ -11,13 +11,22 @@
  */
 import type { CompareThresholds, GainChange, MarginChange } from './types.js';
 
+/**
+ * "Reaches the threshold" allows for binary rounding: 1 → 1.15 computes as 14.999999999999996 %
+ * and must count as 15 %. A value within this relative distance below the threshold counts as reaching it.
+ */
+export const THRESHOLD_ROUNDING = 1e-9;
+
+/** value ≥ threshold up to rounding; a threshold of 0 flags any change (value > 0), never no change. */
+const reaches = (value: number, threshold: number): boolean => (threshold > 0 ? value >= threshold * (1 - THRESHOLD_ROUNDING) : value > 0);
+
 /** Change of one gain; `comparable` false (settings differ) gives null changes and no flag. */
 export function gainChange(old: number, next: number, comparable: boolean, thresholds: CompareThresholds): GainChange {
   if (!comparable) return { old, new: next, change: null, change_pct: null, flagged: false };
   const change = next - old;
   if (old === 0) return { old, new: next, change, change_pct: null, flagged: Math.abs(change) > thresholds.gainChangeFromZero };
   const change_pct = (100 * change) / old;
-  return { old, new: next, change, change_pct, flagged: Math.abs(change_pct) >= thresholds.gainChange_pct };
+  return { old, new: next, change, change_pct, flagged: reaches(Math.abs(change_pct), thresholds.gainChange_pct) };
 }
 
 /** How a margin is judged: 'decrease' (upper gain margin, phase margin), 'towardZero' (lower gain margin), 'none' (informative). */
@@ -35,7 +44,7 @@ export function marginChange(old: number | null, next: number | null, sense: Mar
   if (sense === 'none') return { old, new: next, change, flagged: false };
   const loss = marginLoss(old, next, sense);
   const appeared = old === null && next !== null;
-  return { old, new: next, change, flagged: appeared || (loss !== null && loss >= drop) };
+  return { old, new: next, change, flagged: appeared || (loss !== null && reaches(loss, drop)) };
 }
 
 /** The drop threshold for a margin name (dB for gain margins, degrees for the phase margin). */

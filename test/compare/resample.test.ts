@@ -1,0 +1,88 @@
+import { describe, expect, it } from 'vitest';
+import { commonSpeedRange, comparedSpeeds, marginsAtSpeed } from '../../src/compare/resample.js';
+import { gainChange, marginChange } from '../../src/compare/changes.js';
+import { COMPARE_DEFAULTS } from '../../src/compare/defaults.js';
+import type { BreakpointMargins } from '../../src/schedule/schedule-types.js';
+
+const margins = (upper: number | null, lower: number | null, stable = true): BreakpointMargins => ({
+  stable,
+  verdict: stable ? 'stable' : 'unstable',
+  lowerGainMargin_dB: lower,
+  upperGainMargin_dB: upper,
+  phaseMargin_deg: 50,
+  delayMargin_s: 0.1,
+  sensitivityPeak: 1.5,
+  complementarySensitivityPeak: 1.2,
+});
+const rows = (list: readonly [number, BreakpointMargins][]) => ({ breakpoints: list.map(([speed_mps, m]) => ({ speed_mps, kp: 1, ki: 0, kd: 0, insertedByRefinement: false, margins: m })) });
+
+describe('commonSpeedRange / comparedSpeeds', () => {
+  it('the common range is the overlap of the breakpoint ranges; none when they do not overlap', () => {
+    expect(commonSpeedRange([2, 5, 10], [4, 12])).toEqual({ minimum_mps: 4, maximum_mps: 10 });
+    expect(commonSpeedRange([2, 5], [5, 9])).toEqual({ minimum_mps: 5, maximum_mps: 5 });
+    expect(commonSpeedRange([2, 4], [5, 9])).toBeNull();
+  });
+
+  it('compared speeds are the sorted union inside the range, each once', () => {
+    expect(comparedSpeeds([2, 5, 10], [4, 5, 12], { minimum_mps: 4, maximum_mps: 10 })).toEqual([4, 5, 10]);
+  });
+});
+
+describe('marginsAtSpeed(schedule, speed)', () => {
+  const schedule = rows([
+    [2, margins(10, -20)],
+    [6, margins(6, null)],
+    [10, margins(null, null, false)],
+  ]);
+
+  it('returns the breakpoint margins exactly at a breakpoint', () => {
+    const at = marginsAtSpeed(schedule, 6);
+    expect(at.atBreakpoint).toBe(true);
+    expect(at.value('upperGainMargin_dB')).toBe(6);
+  });
+
+  it('interpolates linearly between two finite neighbours: 10 dB at 2 m/s, 6 dB at 6 m/s → 9 dB at 3 m/s', () => {
+    // Source: linear interpolation, 10 + (3 − 2)/(6 − 2)·(6 − 10) = 9.
+    expect(marginsAtSpeed(schedule, 3).value('upperGainMargin_dB')).toBe(9);
+  });
+
+  it('takes the finite neighbour when the other has no crossing (the cautious reading), null between two nulls', () => {
+    expect(marginsAtSpeed(schedule, 3).value('lowerGainMargin_dB')).toBe(-20);
+    expect(marginsAtSpeed(schedule, 8).value('upperGainMargin_dB')).toBe(6);
+    expect(marginsAtSpeed(schedule, 8).value('lowerGainMargin_dB')).toBeNull();
+  });
+
+  it('is stable between breakpoints only when both neighbours are', () => {
+    expect(marginsAtSpeed(schedule, 4).stable).toBe(true);
+    expect(marginsAtSpeed(schedule, 8).stable).toBe(false);
+  });
+});
+
+describe('gainChange / marginChange', () => {
+  it('a negative gain growing in magnitude by 20 % reads +20 % (ratio new/old − 1) and is flagged', () => {
+    const change = gainChange(-1, -1.2, true, COMPARE_DEFAULTS);
+    expect(change.change_pct).toBeCloseTo(20, 12);
+    expect(change.flagged).toBe(true);
+  });
+
+  it('exactly 15 % is flagged (the limit is reached), 14.9 % is not', () => {
+    expect(gainChange(1, 1.15, true, COMPARE_DEFAULTS).flagged).toBe(true);
+    expect(gainChange(1, 1.149, true, COMPARE_DEFAULTS).flagged).toBe(false);
+    expect(gainChange(1, 0.85, true, COMPARE_DEFAULTS).flagged).toBe(true);
+  });
+
+  it('informative margins (delay margin, sensitivity peak) are never flagged', () => {
+    expect(marginChange(0.2, 0.01, 'none', 0).flagged).toBe(false);
+    expect(marginChange(0.2, 0.01, 'none', 0).change).toBeCloseTo(-0.19, 12);
+  });
+});
+
+describe('thresholds of 0', () => {
+  it('flag any change and never an unchanged value', () => {
+    const zero = { ...COMPARE_DEFAULTS, gainChange_pct: 0 };
+    expect(gainChange(1, 1, true, zero).flagged).toBe(false);
+    expect(gainChange(1, 1.0001, true, zero).flagged).toBe(true);
+    expect(marginChange(60, 60, 'decrease', 0).flagged).toBe(false);
+    expect(marginChange(60, 59.9, 'decrease', 0).flagged).toBe(true);
+  });
+});
