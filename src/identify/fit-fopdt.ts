@@ -32,8 +32,8 @@ export interface FopdtFitOptions {
 export const FOPDT_FIT_DEFAULTS: FopdtFitOptions = {
   biasMode: 'fitted',
   hold: 'zeroOrder',
-  deadTimeGridPoints: 12,
-  timeConstantGridPoints: 8,
+  deadTimeGridPoints: 10,
+  timeConstantGridPoints: 7,
   refinedStarts: 1,
 };
 

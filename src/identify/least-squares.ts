@@ -99,11 +99,22 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
   const { data, model, scale, residualScale } = problem;
   const p = problem.initial.length;
   const toPhysical = (scaled: readonly number[]): number[] => scaled.map((v, i) => v * scale[i]);
+  // Note: callers' models must be pure (same parameters → same prediction); predictions are reused.
   const index = Array.from({ length: data.length }, (_, i) => i);
   const scaledData = Array.from(data, (v) => v / residualScale);
   let nonFiniteSeen = false;
-  const parameterized = (scaled: number[]): ((x: number) => number) => {
+  // The library evaluates the model at the same parameters twice per iteration (error after the
+  // update, then the next step's residuals): remember the last two evaluations.
+  const memo: { key: number[]; prediction: Float64Array }[] = [];
+  const evaluate = (scaled: readonly number[]): Float64Array => {
+    for (const entry of memo) if (entry.key.every((v, i) => v === scaled[i])) return entry.prediction;
     const prediction = model(toPhysical(scaled));
+    memo.unshift({ key: scaled.slice(), prediction });
+    if (memo.length > 2) memo.pop();
+    return prediction;
+  };
+  const parameterized = (scaled: number[]): ((x: number) => number) => {
+    const prediction = evaluate(scaled);
     return (x: number) => {
       const value = prediction[x] / residualScale;
       if (!Number.isFinite(value)) nonFiniteSeen = true;
@@ -113,7 +124,7 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
   const minValues = problem.lower.map((v, i) => v / scale[i]);
   const maxValues = problem.upper.map((v, i) => v / scale[i]);
   let current = problem.initial.map((v, i) => Math.min(Math.max(v / scale[i], minValues[i]), maxValues[i]));
-  let ssr = sumOfSquares(data, model(toPhysical(current)));
+  let ssr = sumOfSquares(data, evaluate(current));
   if (Number.isNaN(ssr)) return { parameters: toPhysical(current), ssr, iterations: 0, stopReason: 'nonFinite' };
   let iterations = 0;
   while (iterations < options.maxIterations) {
@@ -135,7 +146,7 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
     });
     iterations += result.iterations;
     const next = result.parameterValues;
-    const nextSsr = sumOfSquares(data, model(toPhysical(next)));
+    const nextSsr = sumOfSquares(data, evaluate(next));
     if (Number.isNaN(nextSsr) || (nonFiniteSeen && result.iterations < chunk)) {
       return { parameters: toPhysical(current), ssr, iterations, stopReason: 'nonFinite' };
     }
