@@ -31,7 +31,7 @@ export const ANALYSIS_DEFAULTS = {
   /** Crossing frequencies are refined to this relative width. */
   frequencyRelativeTolerance: 1e-12,
   /** Sensitivity peaks are refined to this width in ln ω. */
-  peakLogFrequencyTolerance: 1e-5,
+  peakLogFrequencyTolerance: 1e-4,
   /** |L| within this of 1 at a crossing of the negative real axis: the loop passes through −1. */
   crossingMagnitudeTolerance: 1e-9,
   /** Negative-real-axis crossings with a grid estimate of |L| ≥ this are refined, plus the `refineLargestBelow` largest others. */
@@ -67,7 +67,13 @@ function cancelCommonIntegrators(numerator: readonly number[], denominator: read
   return { numerator: numerator.slice(0, n), denominator: denominator.slice(0, d) };
 }
 
-function sweep(numerator: readonly number[], denominator: readonly number[], delay_s: number, discrete: OpenLoop['discreteController'] | null): Sweep {
+function sweep(
+  numerator: readonly number[],
+  denominator: readonly number[],
+  delay_s: number,
+  discrete: OpenLoop['discreteController'] | null,
+  withGainCrossovers: boolean,
+): Sweep {
   const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? polynomialRoots(numerator) : [];
   const poles: Complex[] = denominator.length > 1 ? polynomialRoots(denominator) : [];
   let scale = 1;
@@ -93,7 +99,7 @@ function sweep(numerator: readonly number[], denominator: readonly number[], del
     compiled,
     grid,
     band,
-    gainCrossovers: findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance),
+    gainCrossovers: withGainCrossovers ? findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance) : [],
     phaseCrossovers: findPhaseCrossovers(compiled, grid, {
       relativeTolerance: ANALYSIS_DEFAULTS.frequencyRelativeTolerance,
       refineAbove: ANALYSIS_DEFAULTS.refineAbove,
@@ -154,7 +160,7 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   const loop = validateOpenLoop(input);
   const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
   const discrete = loop.discreteController ?? null;
-  const margins = sweep(numerator, denominator, loop.delay_s, discrete);
+  const margins = sweep(numerator, denominator, loop.delay_s, discrete, true);
 
   // The loop the verdict is decided on (the same one unless a discrete controller is approximated).
   const verdictLoop =
@@ -171,7 +177,7 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
       { location: { jsonPath: 'discreteController.continuousCounterpart' }, details: { numerator: verdictLoop.numerator, denominator: verdictLoop.denominator } },
     );
   }
-  const verdictSweep = discrete === null ? margins : sweep(verdictLoop.numerator, verdictLoop.denominator, verdictLoop.delay_s, null);
+  const verdictSweep = discrete === null ? margins : sweep(verdictLoop.numerator, verdictLoop.denominator, verdictLoop.delay_s, null, false);
 
   const highFrequencyLoopGain = verdictLoop.numerator.length === verdictLoop.denominator.length ? Math.abs(verdictLoop.numerator[0] / verdictLoop.denominator[0]) : 0;
   const neutralType = verdictLoop.delay_s > 0 && highFrequencyLoopGain >= 1 - ANALYSIS_DEFAULTS.neutralTolerance;
