@@ -5,111 +5,17 @@
  */
 import { SpeedbandError } from '../core/errors.js';
 import { multiplyPolynomials } from '../lti/polynomial.js';
-import { polynomialRoots } from '../lti/roots.js';
 import { ratioToDecibels, radiansToDegrees } from '../core/units.js';
-import type { Complex } from '../lti/types.js';
 import { closedLoopPoleVerdict } from './closed-loop-poles.js';
-import { findGainCrossovers, findPhaseCrossovers, type GainCrossover, type PhaseCrossover } from './crossings.js';
+import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { nyquistCount, type EncirclementResult } from './encirclement.js';
-import { frequencyBand, sampleLoop, type LoopGrid } from './frequency-grid.js';
-import { compileLoopResponse, type CompiledLoopResponse } from './loop-response.js';
+import type { LoopGrid } from './frequency-grid.js';
 import { sensitivityPeaks } from './sensitivity.js';
+import { cancelCommonIntegrators, sweepLoop } from './sweep.js';
 import type { LoopAnalysisDetails, LoopMargins, OpenLoop } from './types.js';
 import { validateOpenLoop } from './validate-loop.js';
 
-/** Every tolerance and grid setting of the analysis, in one place. */
-export const ANALYSIS_DEFAULTS = {
-  grid: {
-    pointsPerDecade: 30,
-    cornerFactor: 100,
-    maximumPhaseStep_rad: 0.35,
-    detailMagnitude: 0.2,
-    maximumPoints: 20_000,
-  },
-  /** A root with |Re| ≤ this × max(1 rad/s, largest root magnitude) is on the imaginary axis. */
-  axisRelativeTolerance: 1e-9,
-  /** Crossing frequencies are refined to this relative width. */
-  frequencyRelativeTolerance: 1e-12,
-  /** Sensitivity peaks are refined to this width in ln ω. */
-  peakLogFrequencyTolerance: 1e-4,
-  /** |L| within this of 1 at a crossing of the negative real axis: the loop passes through −1. */
-  crossingMagnitudeTolerance: 1e-9,
-  /** Negative-real-axis crossings with a grid estimate of |L| ≥ this are refined, plus the `refineLargestBelow` largest others. */
-  refineAbove: 0.5,
-  refineLargestBelow: 3,
-  /** The Padé band ends at the highest frequency where |L| ≥ this (only there can a pole cross the axis). */
-  padeBandMagnitude: 0.5,
-  /** A closed-loop pole with |Re| ≤ this × largest pole magnitude is on the axis. */
-  poleRelativeTolerance: 1e-9,
-  /** |L(j∞)| ≥ 1 − this with a delay makes a neutral-type loop. */
-  neutralTolerance: 1e-9,
-} as const;
-
-interface Sweep {
-  readonly compiled: CompiledLoopResponse;
-  readonly grid: LoopGrid;
-  readonly band: { readonly low_radps: number; readonly high_radps: number };
-  readonly gainCrossovers: readonly GainCrossover[];
-  readonly phaseCrossovers: readonly PhaseCrossover[];
-  readonly originPoles: number;
-  readonly rightHalfPlanePoles: number;
-  readonly otherAxisPoles: number;
-}
-
-/** Remove common factors s from N and D (exact zeros at the constant end). */
-function cancelCommonIntegrators(numerator: readonly number[], denominator: readonly number[]): { numerator: number[]; denominator: number[] } {
-  let n = numerator.length;
-  let d = denominator.length;
-  while (n > 1 && d > 1 && numerator[n - 1] === 0 && denominator[d - 1] === 0) {
-    n--;
-    d--;
-  }
-  return { numerator: numerator.slice(0, n), denominator: denominator.slice(0, d) };
-}
-
-function sweep(
-  numerator: readonly number[],
-  denominator: readonly number[],
-  delay_s: number,
-  discrete: OpenLoop['discreteController'] | null,
-  withGainCrossovers: boolean,
-): Sweep {
-  const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? polynomialRoots(numerator) : [];
-  const poles: Complex[] = denominator.length > 1 ? polynomialRoots(denominator) : [];
-  let scale = 1;
-  for (const r of [...zeros, ...poles]) scale = Math.max(scale, Math.hypot(r.re, r.im));
-  const axisTolerance = ANALYSIS_DEFAULTS.axisRelativeTolerance * scale;
-  let originPoles = 0;
-  let rightHalfPlanePoles = 0;
-  let otherAxisPoles = 0;
-  const extraFrequencies: number[] = [];
-  for (const p of poles) {
-    if (Math.hypot(p.re, p.im) <= axisTolerance) originPoles++;
-    else if (Math.abs(p.re) <= axisTolerance) otherAxisPoles++;
-    else if (p.re > 0) rightHalfPlanePoles++;
-  }
-  for (const r of [...zeros, ...poles]) {
-    // Lightly damped roots: make sure the grid sees their resonance or notch.
-    if (r.im > Math.abs(r.re)) extraFrequencies.push(r.im - Math.abs(r.re), r.im, r.im + Math.abs(r.re));
-  }
-  const compiled = compileLoopResponse(numerator, denominator, delay_s, { zeros, poles, axisTolerance }, discrete ?? null);
-  const band = frequencyBand(compiled, originPoles, numerator.length < denominator.length, ANALYSIS_DEFAULTS.grid);
-  const grid = sampleLoop(compiled, band, extraFrequencies, ANALYSIS_DEFAULTS.grid);
-  return {
-    compiled,
-    grid,
-    band,
-    gainCrossovers: withGainCrossovers ? findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance) : [],
-    phaseCrossovers: findPhaseCrossovers(compiled, grid, {
-      relativeTolerance: ANALYSIS_DEFAULTS.frequencyRelativeTolerance,
-      refineAbove: ANALYSIS_DEFAULTS.refineAbove,
-      refineLargestBelow: ANALYSIS_DEFAULTS.refineLargestBelow,
-    }),
-    originPoles,
-    rightHalfPlanePoles,
-    otherAxisPoles,
-  };
-}
+export { ANALYSIS_DEFAULTS };
 
 /** Phase margin from the continuous phase at a gain crossover: 180° + ∠L wrapped into (−180°, 180°], rad. */
 export function phaseMarginFromPhase(phase_rad: number): number {
@@ -160,7 +66,7 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   const loop = validateOpenLoop(input);
   const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
   const discrete = loop.discreteController ?? null;
-  const margins = sweep(numerator, denominator, loop.delay_s, discrete, true);
+  const margins = sweepLoop(numerator, denominator, loop.delay_s, discrete, true);
 
   // The loop the verdict is decided on (the same one unless a discrete controller is approximated).
   const verdictLoop =
@@ -177,7 +83,7 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
       { location: { jsonPath: 'discreteController.continuousCounterpart' }, details: { numerator: verdictLoop.numerator, denominator: verdictLoop.denominator } },
     );
   }
-  const verdictSweep = discrete === null ? margins : sweep(verdictLoop.numerator, verdictLoop.denominator, verdictLoop.delay_s, null, false);
+  const verdictSweep = discrete === null ? margins : sweepLoop(verdictLoop.numerator, verdictLoop.denominator, verdictLoop.delay_s, null, false);
 
   const highFrequencyLoopGain = verdictLoop.numerator.length === verdictLoop.denominator.length ? Math.abs(verdictLoop.numerator[0] / verdictLoop.denominator[0]) : 0;
   const neutralType = verdictLoop.delay_s > 0 && highFrequencyLoopGain >= 1 - ANALYSIS_DEFAULTS.neutralTolerance;

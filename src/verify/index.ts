@@ -1,3 +1,4 @@
-export { analyseOpenLoop, ANALYSIS_DEFAULTS, phaseMarginFromPhase } from './analyse-open-loop.js';
+export { analyseOpenLoop, phaseMarginFromPhase } from './analyse-open-loop.js';
+export { ANALYSIS_DEFAULTS } from './defaults.js';
 export { analyseLoop, openLoopOf, parallelGainsOf, LOOP_DEFAULTS, type LoopDescription } from './analyse-loop.js';
 export type { LoopMargins, LoopAnalysisDetails, OpenLoop, DiscreteControllerFactor } from './types.js';

@@ -1,0 +1,81 @@
+/**
+ * One loop swept over frequency: its roots classified (origin, right half-plane, other
+ * axis poles), the band and grid, and the crossings found on it.
+ */
+import { polynomialRoots } from '../lti/roots.js';
+import type { Complex } from '../lti/types.js';
+import { findGainCrossovers, findPhaseCrossovers, type GainCrossover, type PhaseCrossover } from './crossings.js';
+import { ANALYSIS_DEFAULTS } from './defaults.js';
+import { frequencyBand, sampleLoop, type LoopGrid } from './frequency-grid.js';
+import { compileLoopResponse, type CompiledLoopResponse } from './loop-response.js';
+import type { OpenLoop } from './types.js';
+
+export interface Sweep {
+  readonly compiled: CompiledLoopResponse;
+  readonly grid: LoopGrid;
+  readonly band: { readonly low_radps: number; readonly high_radps: number };
+  readonly gainCrossovers: readonly GainCrossover[];
+  readonly phaseCrossovers: readonly PhaseCrossover[];
+  readonly originPoles: number;
+  readonly rightHalfPlanePoles: number;
+  readonly otherAxisPoles: number;
+}
+
+/** Remove common factors s from N and D (exact zeros at the constant end). */
+export function cancelCommonIntegrators(numerator: readonly number[], denominator: readonly number[]): { numerator: number[]; denominator: number[] } {
+  let n = numerator.length;
+  let d = denominator.length;
+  while (n > 1 && d > 1 && numerator[n - 1] === 0 && denominator[d - 1] === 0) {
+    n--;
+    d--;
+  }
+  return { numerator: numerator.slice(0, n), denominator: denominator.slice(0, d) };
+}
+
+/**
+ * Roots of N and D (|Re| ≤ 1e−9·max(1, largest |root|) is on the axis), the band and grid,
+ * gain crossovers (when asked) and the negative-real-axis crossings that can matter.
+ */
+export function sweepLoop(
+  numerator: readonly number[],
+  denominator: readonly number[],
+  delay_s: number,
+  discrete: OpenLoop['discreteController'] | null,
+  withGainCrossovers: boolean,
+): Sweep {
+  const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? polynomialRoots(numerator) : [];
+  const poles: Complex[] = denominator.length > 1 ? polynomialRoots(denominator) : [];
+  let scale = 1;
+  for (const r of [...zeros, ...poles]) scale = Math.max(scale, Math.hypot(r.re, r.im));
+  const axisTolerance = ANALYSIS_DEFAULTS.axisRelativeTolerance * scale;
+  let originPoles = 0;
+  let rightHalfPlanePoles = 0;
+  let otherAxisPoles = 0;
+  const extraFrequencies: number[] = [];
+  for (const p of poles) {
+    if (Math.hypot(p.re, p.im) <= axisTolerance) originPoles++;
+    else if (Math.abs(p.re) <= axisTolerance) otherAxisPoles++;
+    else if (p.re > 0) rightHalfPlanePoles++;
+  }
+  for (const r of [...zeros, ...poles]) {
+    // Lightly damped roots: make sure the grid sees their resonance or notch.
+    if (r.im > Math.abs(r.re)) extraFrequencies.push(r.im - Math.abs(r.re), r.im, r.im + Math.abs(r.re));
+  }
+  const compiled = compileLoopResponse(numerator, denominator, delay_s, { zeros, poles, axisTolerance }, discrete ?? null);
+  const band = frequencyBand(compiled, originPoles, numerator.length < denominator.length, ANALYSIS_DEFAULTS.grid);
+  const grid = sampleLoop(compiled, band, extraFrequencies, ANALYSIS_DEFAULTS.grid);
+  return {
+    compiled,
+    grid,
+    band,
+    gainCrossovers: withGainCrossovers ? findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance) : [],
+    phaseCrossovers: findPhaseCrossovers(compiled, grid, {
+      relativeTolerance: ANALYSIS_DEFAULTS.frequencyRelativeTolerance,
+      refineAbove: ANALYSIS_DEFAULTS.refineAbove,
+      refineLargestBelow: ANALYSIS_DEFAULTS.refineLargestBelow,
+    }),
+    originPoles,
+    rightHalfPlanePoles,
+    otherAxisPoles,
+  };
+}
