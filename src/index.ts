@@ -69,7 +69,7 @@ export { CHANNELS, LOG_UNITS, type ChannelName, type LogUnit } from './log/colum
 export { findStepTests, SEGMENT_DEFAULTS, type SegmentOptions, type StepSearch } from './log/segment.js';
 export { stepMetrics, stepLevels, METRICS_DEFAULTS, type StepWindow, type StepLevels } from './log/metrics.js';
 export { inspectLog, type LogInspection, type StepSummary, type ChannelSummary } from './log/inspect.js';
-export { formatInspection } from './log/inspection-text.js';
+export { formatInspection, formatInspectionSummary } from './log/inspection-text.js';
 // The schedule: plan, interpolation, dense check, refinement, schedule file (src/schedule/); exports (src/export/)
 export {
   makeGainLookup,

@@ -6,5 +6,5 @@ export { LOG_PROFILE_SCHEMA, loadLogProfile, parseLogProfile, parseColumnOptions
 export { READ_DEFAULTS, readSteerLog, parseSteerLog, type ReadLogOptions } from './read.js';
 export { SEGMENT_DEFAULTS, findStepTests, type SegmentOptions, type StepSearch } from './segment.js';
 export { METRICS_DEFAULTS, stepMetrics, stepLevels, firstCrossing, type StepWindow, type StepLevels } from './metrics.js';
-export { inspectLog, type LogInspection, type StepSummary, type ChannelSummary } from './inspect.js';
-export { formatInspection } from './inspection-text.js';
+export { inspectLog, INSPECT_DEFAULTS, type LogInspection, type StepSummary, type ChannelSummary } from './inspect.js';
+export { formatInspection, formatInspectionSummary } from './inspection-text.js';

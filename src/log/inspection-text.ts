@@ -4,18 +4,8 @@
  * warnings. Fixed-width columns so that logs line up when several are shown.
  */
 import { radiansToDegrees } from '../core/units.js';
+import { textTable as table } from '../core/text-table.js';
 import type { LogInspection } from './inspect.js';
-
-/** A left-aligned or right-aligned table; the first row is the heading. */
-function table(rows: readonly (readonly string[])[], rightAligned: readonly boolean[]): string[] {
-  const widths = rows[0].map((_, c) => Math.max(...rows.map((row) => row[c].length)));
-  return rows.map((row) =>
-    row
-      .map((cell, c) => (rightAligned[c] ? cell.padStart(widths[c]) : cell.padEnd(widths[c])))
-      .join('  ')
-      .trimEnd(),
-  );
-}
 
 const dash = '—';
 const fixed = (value: number | null, digits: number): string => (value === null || !Number.isFinite(value) ? dash : value.toFixed(digits));
@@ -68,5 +58,39 @@ export function formatInspection(inspection: LogInspection): string {
     lines.push('', '  warnings');
     for (const warning of inspection.warnings) lines.push(`    - ${warning}`);
   }
+  return lines.join('\n') + '\n';
+}
+
+function median(values: readonly number[]): number | null {
+  const finite = values.filter((value) => Number.isFinite(value)).sort((a, b) => a - b);
+  if (finite.length === 0) return null;
+  const middle = finite.length >> 1;
+  return finite.length % 2 === 1 ? finite[middle] : 0.5 * (finite[middle - 1] + finite[middle]);
+}
+
+/**
+ * One line per log, in order of mean step speed: steps found and rejected, the mean
+ * speed of the steps (m/s), and the median steady yaw gain (1/s) and response time (s)
+ * over the log's steps — how the yaw response changes with speed at a glance.
+ */
+export function formatInspectionSummary(inspections: readonly LogInspection[]): string {
+  const rows = inspections.map((inspection) => {
+    const speeds = inspection.steps.map((step) => step.speed_mps);
+    return {
+      file: inspection.file,
+      speed_mps: speeds.length === 0 ? null : speeds.reduce((sum, speed) => sum + speed, 0) / speeds.length,
+      found: inspection.steps.length,
+      rejected: inspection.rejected.length,
+      gain_perS: median(inspection.steps.map((step) => step.metrics.steadyYawGain_perS)),
+      response_s: median(inspection.steps.map((step) => step.metrics.responseTime_s ?? NaN)),
+    };
+  });
+  rows.sort((a, b) => (a.speed_mps ?? Infinity) - (b.speed_mps ?? Infinity));
+  const lines = [`summary of ${inspections.length} logs (medians over each log's steps)`];
+  const tableRows = [['speed m/s', 'steps', 'rejected', 'yaw gain 1/s', 'response s', 'file']];
+  for (const row of rows) {
+    tableRows.push([fixed(row.speed_mps, 2), String(row.found), String(row.rejected), fixed(row.gain_perS, 3), fixed(row.response_s, 3), row.file]);
+  }
+  lines.push(...table(tableRows, [true, true, true, true, true, false]).map((line) => `  ${line}`));
   return lines.join('\n') + '\n';
 }

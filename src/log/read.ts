@@ -141,6 +141,12 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
   const { segments, splits } = splitAtGaps(file, rows, lineOfRow, samplePeriod_s * gapFactor, channel);
 
   const warnings: string[] = [];
+  const irregular = countIrregularSteps(time_s, rows, samplePeriod_s, gapFactor);
+  if (irregular > 0) {
+    warnings.push(
+      `${irregular} time step${irregular === 1 ? '' : 's'} longer than 1.5 median sample periods (but not long enough to split the log): the logger missed samples or its clock jitters`,
+    );
+  }
   if (ignored.length > 0) warnings.push(`columns not used: ${ignored.join(', ')}`);
   if (splits.length > 0) {
     warnings.push(
@@ -187,6 +193,16 @@ function medianStep(time_s: Float64Array, rows: number): number {
   steps.sort();
   const middle = steps.length >> 1;
   return steps.length % 2 === 1 ? steps[middle] : 0.5 * (steps[middle - 1] + steps[middle]);
+}
+
+/** Time steps between 1.5 and `gapFactor` median periods (missed samples that do not split the log). */
+function countIrregularSteps(time_s: Float64Array, rows: number, samplePeriod_s: number, gapFactor: number): number {
+  let count = 0;
+  for (let i = 1; i < rows; i += 1) {
+    const step_s = time_s[i] - time_s[i - 1];
+    if (step_s > 1.5 * samplePeriod_s && step_s <= gapFactor * samplePeriod_s) count += 1;
+  }
+  return count;
 }
 
 function splitAtGaps(
@@ -276,9 +292,12 @@ function checkTimeIncreases(previous: number, current: number, previousLine: num
       { location, details: { time_s: current, previousLine } },
     );
   }
+  // Enough decimals to tell the two times apart (12.40 then 12.39), at least two.
+  let decimals = 2;
+  while (decimals < 9 && previous.toFixed(decimals) === current.toFixed(decimals)) decimals += 1;
   throw new SpeedbandError(
     'log.timeNotIncreasing',
-    `time_s must increase: ${previous} then ${current} at line ${line} — sort the log or split it`,
+    `time_s must increase: ${previous.toFixed(decimals)} then ${current.toFixed(decimals)} at line ${line} — sort the log or split it`,
     { location, details: { previous_s: previous, current_s: current, previousLine } },
   );
 }

@@ -116,6 +116,13 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
     expect(log.segments[1].time_s[0]).toBe(1);
   });
 
+  it('warns about missed samples that are too short to split the log', () => {
+    const rows = ['0.00,5,0,0', '0.01,5,0,0', '0.02,5,0,0', '0.04,5,0,0', '0.05,5,0,0', '0.06,5,0,0'];
+    const log = parseSteerLog([HEADER, ...rows].join('\n'), 'a.csv');
+    expect(log.segments).toHaveLength(1);
+    expect(log.warnings.join(' ')).toMatch(/1 time step longer than 1\.5 median sample periods/);
+  });
+
   it('counts skipped blank and comment lines by reason instead of dropping them silently', () => {
     const text = ['# logger v2', HEADER, ROWS[0], '', '# marker: step 1', ROWS[1], ROWS[2]].join('\n') + '\n';
     const log = parseSteerLog(text, 'a.csv');
@@ -145,7 +152,7 @@ describe('parseSteerLog(text, file) rejects malformed input with a typed error n
       code: 'log.timeNotIncreasing',
       line: 4,
       column: /column 1 \(time_s\)/,
-      message: /time_s must increase: 12\.4 then 12\.39 at line 4 — sort the log or split it/,
+      message: /time_s must increase: 12\.40 then 12\.39 at line 4 — sort the log or split it/,
     },
     { name: 'a duplicate timestamp', text: [HEADER, ROWS[0], ROWS[1], '0.01,10,0,0'].join('\n'), code: 'log.duplicateTime', line: 4, column: /column 1 \(time_s\)/, message: /lines 3 and 4/ },
     { name: 'a steer command in degrees in a radian column (|steer| > π/2)', text: [HEADER, ROWS[0], '0.01,10,5.0,0'].join('\n'), code: 'log.implausibleValue', line: 3, column: /column 3 \(steer_cmd_rad\)/, message: /probably degrees/ },

@@ -1,8 +1,8 @@
 import { READ_DEFAULTS, readSteerLog } from '../../log/read.js';
 import { SEGMENT_DEFAULTS } from '../../log/segment.js';
 import { mergeColumnMaps } from '../../log/column-map.js';
-import { inspectLog } from '../../log/inspect.js';
-import { formatInspection } from '../../log/inspection-text.js';
+import { inspectLog, type LogInspection } from '../../log/inspect.js';
+import { formatInspection, formatInspectionSummary } from '../../log/inspection-text.js';
 import { describeError, isSpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
@@ -56,11 +56,13 @@ export const command: CommandModule = {
 
     let exitCode: number = EXIT.ok;
     const reports: unknown[] = [];
+    const inspections: LogInspection[] = [];
     for (const file of (args.logs as string[] | undefined) ?? []) {
       try {
         const log = readSteerLog(file, { columns, steeringRatio, gapFactor: Number(args['gap-factor']) });
         const inspection = inspectLog(log, segmentOptions);
         if (inspection.steps.length === 0 && exitCode === EXIT.ok) exitCode = EXIT.failed;
+        inspections.push(inspection);
         if (args.json) reports.push(inspection);
         else io.stdout(formatInspection(inspection) + '\n');
       } catch (error) {
@@ -71,6 +73,7 @@ export const command: CommandModule = {
       }
     }
     if (args.json) io.stdout(JSON.stringify(reports, null, 2) + '\n');
+    else if (inspections.length > 1) io.stdout(formatInspectionSummary(inspections));
     return exitCode;
   },
 };
