@@ -10,8 +10,8 @@ import { scheduleLookupSettings } from '../schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { AnalyseLoop, DenseCheckResult, GainTable, ProgressCallback } from '../schedule/types.js';
 
-/** The hook the export command calls when it has one: re-check a schedule with a quantised table. */
-export type QuantisedRecheck = (schedule: ScheduleFile, quantised: GainTable) => DenseCheckResult;
+/** The hook the export command calls: re-check a schedule with a quantised table; null when there is no model to check against. */
+export type QuantisedRecheck = (schedule: ScheduleFile, quantised: GainTable) => DenseCheckResult | null;
 
 export interface RecheckInput {
   readonly schedule: ScheduleFile;

@@ -4,9 +4,9 @@ import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { SAFETY_EPILOGUE } from '../safety.js';
 
-/** What the export command needs beyond the schedule file; the build wires the quantised re-check. */
+/** What the export command needs beyond the schedule file. */
 export interface ExportDependencies {
-  /** Re-checks a quantised table against the schedule's loop model; absent: the command says it was not re-checked. */
+  /** Re-checks a quantised table against the schedule's loop model; absent: the model recorded in the schedule (src/build/quantised-recheck.ts). */
   readonly recheck?: QuantisedRecheck;
 }
 
@@ -93,10 +93,11 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
       const error = quantisation.errors[name];
       notes.push(`  ${name}: max absolute error ${shown(error.maxAbsolute)} (${schedule.units[name]}), max relative ${shown(100 * error.maxRelative)} %`);
     }
-    if (dependencies.recheck === undefined) {
-      notes.push('  The quantised gains were not re-checked against the loop model here; the error bound above is what changed.');
+    const recheck = dependencies.recheck ?? (await import('../../build/quantised-recheck.js')).recheckWithRecordedModel;
+    const result = recheck(schedule, quantisation.table);
+    if (result === null) {
+      notes.push('  The quantised gains were not re-checked: the schedule records no vehicle model speedband can rebuild; the error bound above is what changed.');
     } else {
-      const result = dependencies.recheck(schedule, quantisation.table);
       recheckPassed = result.passed;
       notes.push(
         result.passed

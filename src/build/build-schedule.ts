@@ -1,0 +1,123 @@
+/**
+ * The main job: logs + vehicle (+ plan) → identified models → gains at each breakpoint by the
+ * plan's rule → interpolated table → dense check at every grid speed with the discrete controller
+ * → bounded breakpoint refinement → schedule file (not written here; see writeSchedule).
+ */
+import { readFileSync } from 'node:fs';
+import type { ControllerSettings, PidGains } from '../controller/types.js';
+import { sha256Hex } from '../core/files.js';
+import { identifyFromLogs } from '../identify/identify-from-logs.js';
+import type { ModelsFile } from '../identify/models-schema.js';
+import type { LoopSpecification } from '../loops/types.js';
+import { readPlan, resolvePlan, ruleParametersAt, type PartialPlan, type Plan } from '../schedule/plan.js';
+import type { RefineResult } from '../schedule/refine.js';
+import { assembleSchedule } from '../schedule/schedule-file.js';
+import { scheduleGains } from '../schedule/schedule-gains.js';
+import type { ScheduleFile } from '../schedule/schedule-types.js';
+import type { ProgressCallback } from '../schedule/types.js';
+import { tuneOperatingPoint, type TunedOperatingPoint } from '../tuning/operating-point.js';
+import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
+import { checkModelFromModels, type CheckModel } from './check-model.js';
+import { makeLoopAnalysis } from './loop-analysis.js';
+
+export interface BuildInput {
+  /** Vehicle file, or a folder holding vehicle.json. */
+  readonly vehicle: string;
+  /** Step-test logs (CSV). Ignored when `models` is given. */
+  readonly logPaths: readonly string[];
+  /** Identification already done (e.g. read from models.json); skips reading the logs. */
+  readonly models?: ModelsFile;
+  /** A plan file path; or `plan`, a plan object; neither: every default. */
+  readonly planFile?: string;
+  readonly plan?: PartialPlan;
+  /** Progress lines for long runs. */
+  readonly progress?: (text: string) => void;
+}
+
+export interface BuildResult {
+  readonly schedule: ScheduleFile;
+  readonly models: ModelsFile;
+  readonly plan: Plan;
+  readonly checkModel: CheckModel;
+  readonly refinement: RefineResult;
+  /** The rule's derivation at each final breakpoint (gains, design model, intermediate quantities, warnings). */
+  readonly tuned: readonly TunedOperatingPoint[];
+}
+
+/** Loop specification and controller settings of a plan, in the tuning and loop code's records. */
+export function planLoopAndController(plan: Plan): { loop: LoopSpecification; controller: ControllerSettings } {
+  return {
+    loop: { kind: plan.loop.kind, preview_m: plan.loop.preview_m, referencePoint: plan.loop.referencePoint },
+    controller: {
+      derivativeFilter: plan.controller.derivativeFilter,
+      sampleTime_s: plan.controller.sampleTime_s,
+      discretisation: plan.controller.discretisation,
+      computationLatency_s: plan.controller.computationLatency_s,
+    },
+  };
+}
+
+/**
+ * Build a checked schedule. Deterministic: the same inputs and plan give the same schedule.
+ * Throws SpeedbandError for bad input (logs, vehicle, plan) and `tuning.ruleNotApplicable` when the
+ * plan's rule does not cover the loop. A schedule that fails its dense check is returned with
+ * status 'failed'; the caller decides whether to write it.
+ */
+export function buildSchedule(input: BuildInput): BuildResult {
+  const progress = input.progress ?? (() => {});
+  const vehicleFile = resolveVehiclePath(input.vehicle);
+  const vehicle = loadVehicle(vehicleFile);
+  const models = input.models ?? identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, progress });
+  const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
+  const resolved = input.planFile !== undefined ? readPlan(input.planFile, { testSpeeds_mps }) : resolvePlan(input.plan ?? {}, { testSpeeds_mps });
+  const checkModel = checkModelFromModels(models, vehicle, resolved.check.model);
+  // A refused joint fit falls back to lumped models: the plan recorded in the schedule says which was used.
+  const plan: Plan = checkModel.kind === resolved.check.model ? resolved : { ...resolved, check: { ...resolved.check, model: checkModel.kind } };
+  const { loop, controller } = planLoopAndController(plan);
+
+  const tuneCache = new Map<number, TunedOperatingPoint>();
+  const tune = (speed_mps: number): TunedOperatingPoint => {
+    let tuned = tuneCache.get(speed_mps);
+    if (tuned === undefined) {
+      tuned = tuneOperatingPoint({
+        loop,
+        speed_mps,
+        model: checkModel.modelAt(speed_mps),
+        rule: plan.rule.name,
+        ruleParameters: ruleParametersAt(plan, speed_mps),
+        controller,
+      });
+      tuneCache.set(speed_mps, tuned);
+    }
+    return tuned;
+  };
+  const tuneAt = (speed_mps: number): PidGains => tune(speed_mps).gains;
+  const onProgress: ProgressCallback = (event) => {
+    if (event.done === event.total || event.done % 50 === 0) {
+      progress(`${event.stage}: ${event.done}/${event.total} speeds${event.note === undefined ? '' : ` — ${event.note}`}\n`);
+    }
+  };
+  progress(`tune and check: ${plan.rule.name} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
+  const refinement = scheduleGains({ plan, tuneAt, analyse: makeLoopAnalysis(checkModel, loop, controller), onProgress });
+  const tuned = refinement.table.speeds_mps.map((speed) => tune(speed));
+
+  const inputs = [
+    { file: vehicleFile, sha256: sha256Hex(readFileSync(vehicleFile)), role: 'vehicle' },
+    ...models.inputs.map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
+    ...(input.planFile === undefined ? [] : [{ file: input.planFile, sha256: sha256Hex(readFileSync(input.planFile)), role: 'plan' }]),
+  ];
+  const schedule = assembleSchedule({
+    vehicle: { name: vehicle.name, file: vehicleFile, sha256: inputs[0].sha256 },
+    plan,
+    table: refinement.table,
+    insertedByRefinement: refinement.insertedByRefinement,
+    check: refinement.check,
+    insertions: refinement.insertions,
+    integratorClamp_rad: vehicle.maxSteerAngle_rad,
+    inputs,
+    modelSummary: checkModel.summary as unknown as Readonly<Record<string, unknown>>,
+    modelDescription: checkModel.description,
+    ruleCitation: tuned[0]?.derivation.citation,
+  });
+  return { schedule, models, plan, checkModel, refinement, tuned };
+}

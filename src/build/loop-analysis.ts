@@ -1,0 +1,34 @@
+/**
+ * The loop analysis of the dense check at one speed: the loop plant of the chosen model at that
+ * speed (src/loops), under the DISCRETE PID the firmware runs at its sample time, with the hold
+ * counted as Ts/2 of delay plus the computation latency (src/verify analyseLoop). Tuning uses the
+ * continuous counterpart; the check decides on what the firmware runs.
+ */
+import { samplingDelay_s } from '../controller/discrete.js';
+import type { ControllerSettings, PidGains } from '../controller/types.js';
+import { loopPlantFromLumped, loopPlantFromSingleTrack } from '../loops/build.js';
+import type { LoopSpecification } from '../loops/types.js';
+import type { AnalyseLoop } from '../schedule/types.js';
+import { analyseLoop } from '../verify/analyse-loop.js';
+import type { LoopMargins } from '../verify/types.js';
+import type { CheckModel } from './check-model.js';
+
+/** Build the (speed_mps, gains) → LoopMargins function the dense check and refinement call. */
+export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings): AnalyseLoop {
+  return (speed_mps: number, gains: PidGains): LoopMargins => {
+    const operatingPoint = model.modelAt(speed_mps);
+    const plant =
+      operatingPoint.kind === 'single-track'
+        ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
+        : loopPlantFromLumped(loop, operatingPoint.yawRate, speed_mps, controller, operatingPoint.cgToFrontAxle_m);
+    // The loop plant carries the hold and latency as delay; analyseLoop adds them itself for a discrete controller.
+    const vehicleDelay_s = Math.max(0, plant.plant.delay_s - samplingDelay_s(controller));
+    return analyseLoop({
+      plant: { ...plant.plant, delay_s: vehicleDelay_s },
+      pid: { kp: gains.kp, ki: gains.ki, kd: gains.kd, derivativeFilter: controller.derivativeFilter, form: 'parallel' },
+      sampleTime_s: controller.sampleTime_s,
+      discretisation: controller.discretisation,
+      latency_s: controller.computationLatency_s,
+    });
+  };
+}

@@ -1,0 +1,69 @@
+/**
+ * Re-verify a schedule independently of how it was made: its own table, lookup, loop and
+ * controller, checked densely against a vehicle model (a fresh identification, a models file,
+ * or the model recorded in the schedule). Hand edits are caught earlier by readSchedule
+ * (schema and checksum); this catches gains that no longer hold on the model.
+ */
+import type { ControllerSettings } from '../controller/types.js';
+import type { LoopSpecification } from '../loops/types.js';
+import { denseCheck } from '../schedule/dense-check.js';
+import { checkGrid } from '../schedule/grid.js';
+import { scheduleLookup } from '../schedule/schedule-lookup.js';
+import type { ScheduleFile } from '../schedule/schedule-types.js';
+import type { DenseCheckResult, GainsAtSpeed, ProgressCallback, SpeedRange } from '../schedule/types.js';
+import { checkModelFromSummary, parseCheckModelSummary, type CheckModel } from './check-model.js';
+import { makeLoopAnalysis } from './loop-analysis.js';
+
+export interface RecheckInput {
+  readonly schedule: ScheduleFile;
+  readonly model: CheckModel;
+  /** Check speeds across the range (default: the schedule's own grid density). */
+  readonly gridSpeeds?: number;
+  /** Speed range to check (default: the schedule's own). */
+  readonly range?: SpeedRange;
+  /** Gains to check instead of the schedule's own lookup (e.g. quantised gains). */
+  readonly gainsAt?: GainsAtSpeed;
+  readonly onProgress?: ProgressCallback;
+}
+
+/** Loop specification and controller settings as the schedule states them. */
+export function scheduleLoopAndController(schedule: ScheduleFile): { loop: LoopSpecification; controller: ControllerSettings } {
+  return {
+    loop: {
+      kind: schedule.loop.kind,
+      ...(schedule.loop.preview_m === undefined ? {} : { preview_m: schedule.loop.preview_m }),
+      ...(schedule.loop.referencePoint === undefined ? {} : { referencePoint: schedule.loop.referencePoint }),
+    },
+    controller: {
+      derivativeFilter: schedule.controller.derivativeFilter,
+      sampleTime_s: schedule.controller.sampleTime_s,
+      discretisation: schedule.controller.discretisation,
+      computationLatency_s: schedule.controller.computationLatency_s,
+    },
+  };
+}
+
+/** The model a schedule records in its provenance (what it was built and checked on), or null when it records none speedband can rebuild. */
+export function recordedCheckModel(schedule: ScheduleFile): CheckModel | null {
+  const summary = parseCheckModelSummary(schedule.provenance.model);
+  return summary === null ? null : checkModelFromSummary(summary, `${schedule.check.model.description} (as recorded in the schedule)`);
+}
+
+/** Dense check of a schedule's gains on a model, with the schedule's thresholds. */
+export function recheckSchedule(input: RecheckInput): DenseCheckResult {
+  const { schedule } = input;
+  const { loop, controller } = scheduleLoopAndController(schedule);
+  const range = input.range ?? schedule.check.range;
+  const grid = checkGrid(
+    schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps),
+    range,
+    input.gridSpeeds ?? schedule.check.gridSpeeds,
+  );
+  return denseCheck({
+    grid,
+    gainsAt: input.gainsAt ?? scheduleLookup(schedule),
+    analyse: makeLoopAnalysis(input.model, loop, controller),
+    thresholds: schedule.check.thresholds,
+    ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }),
+  });
+}

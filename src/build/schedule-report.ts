@@ -1,0 +1,93 @@
+/**
+ * The terminal report of a schedule: breakpoints with gains and proven margins, the worst grid
+ * point of the dense check, inserted breakpoints, failures, and the safety cautions.
+ */
+import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
+import type { ScheduleFile } from '../schedule/schedule-types.js';
+import type { DenseCheckResult, WorstMargins } from '../schedule/types.js';
+import { SAFETY_CAUTIONS } from '../cli/safety.js';
+
+/** One line per worst figure: value, unit and the speed where it occurs. */
+export function formatWorstMargins(worst: WorstMargins): string[] {
+  const entry = (label: string, value: { value: number; speed_mps: number } | null, digits: number, unit: string): string =>
+    value === null ? `  ${label}: none on the grid` : `  ${label}: ${value.value.toFixed(digits)} ${unit} at ${value.speed_mps.toFixed(2)} m/s`;
+  return [
+    entry('lower gain margin (closest to 0 dB)', worst.lowerGainMargin_dB, 2, 'dB'),
+    entry('upper gain margin (smallest)', worst.upperGainMargin_dB, 2, 'dB'),
+    entry('phase margin (smallest)', worst.phaseMargin_deg, 1, '°'),
+    entry('delay margin (smallest)', worst.delayMargin_s, 4, 's'),
+    entry('peak sensitivity Ms (largest)', worst.sensitivityPeak, 3, ''),
+  ];
+}
+
+/** Breakpoint table, check summary and cautions of a schedule. */
+export function formatSchedule(schedule: ScheduleFile): string {
+  const lines: string[] = [];
+  const loop = schedule.loop;
+  lines.push(
+    `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${loop.preview_m} m from the ${loop.referencePoint})` : ''}, ` +
+      `rule ${schedule.provenance.rule.name}, ${schedule.interpolation.method} interpolation, ` +
+      `${schedule.controller.discretisation} PID at ${schedule.controller.sampleTime_s} s, derivative filter N = ${schedule.controller.derivativeFilter}`,
+  );
+  lines.push(`  error: ${loop.error}`);
+  lines.push(`  units: kp ${schedule.units.kp}; ki ${schedule.units.ki}; kd ${schedule.units.kd}`);
+  lines.push('');
+  const rows = [['speed m/s', 'kp', 'ki', 'kd', 'lower GM dB', 'upper GM dB', 'PM °', 'delay margin s', 'Ms', 'verdict', '']];
+  for (const breakpoint of schedule.breakpoints) {
+    const m = breakpoint.margins;
+    rows.push([
+      breakpoint.speed_mps.toFixed(2),
+      precisionOrDash(breakpoint.kp, 4),
+      precisionOrDash(breakpoint.ki, 4),
+      precisionOrDash(breakpoint.kd, 4),
+      fixedOrDash(m.lowerGainMargin_dB, 2),
+      fixedOrDash(m.upperGainMargin_dB, 2),
+      fixedOrDash(m.phaseMargin_deg, 1),
+      fixedOrDash(m.delayMargin_s, 4),
+      fixedOrDash(m.sensitivityPeak, 3),
+      m.verdict,
+      breakpoint.insertedByRefinement ? 'inserted' : '',
+    ]);
+  }
+  lines.push(...textTable(rows, [true, true, true, true, true, true, true, true, true, false, false]).map((line) => `  ${line}`));
+  lines.push('');
+  lines.push(...formatCheck(schedule.check.passed, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
+  if (schedule.check.insertions.length > 0) {
+    lines.push('', '  breakpoints inserted by refinement:');
+    for (const insertion of schedule.check.insertions) lines.push(`    ${insertion.speed_mps.toFixed(2)} m/s: ${insertion.reason}`);
+  }
+  if (schedule.check.failures.length > 0) {
+    lines.push('', '  failing speeds (first 10):');
+    for (const failure of schedule.check.failures.slice(0, 10)) lines.push(`    ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}`);
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+/** The dense check's verdict, its thresholds and worst figures. */
+export function formatCheck(passed: boolean, gridSize: number, failedSpeeds: number, worst: WorstMargins, schedule: ScheduleFile): string[] {
+  const t = schedule.check.thresholds;
+  return [
+    `  dense check on the ${schedule.check.model.kind} model, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
+      (passed ? 'PASSED' : `FAILED at ${failedSpeeds} speeds`),
+    `  limits: lower GM ≤ ${t.maximumLowerGainMargin_dB} dB, upper GM ≥ ${t.minimumUpperGainMargin_dB} dB, PM ≥ ${t.minimumPhaseMargin_deg}°, ` +
+      `Ms ≤ ${t.maximumSensitivityPeak}, delay margin ≥ ${t.minimumDelayMargin_s.toFixed(3)} s`,
+    '  worst over the grid:',
+    ...formatWorstMargins(worst).map((line) => `  ${line}`),
+  ];
+}
+
+/** A dense check result against a schedule's own settings (for `check` and the baseline check). */
+export function formatRecheck(title: string, result: DenseCheckResult, schedule: ScheduleFile): string {
+  const lines = [title, ...formatCheck(result.passed, result.points.length, result.failedCount, result.worst, schedule)];
+  const failing = result.points.filter((point) => point.failures.length > 0);
+  if (failing.length > 0) {
+    lines.push('  failing speeds (first 10):');
+    for (const point of failing.slice(0, 10)) lines.push(`    ${point.speed_mps.toFixed(2)} m/s: ${point.failures.map((failure) => failure.message).join('; ')}`);
+  }
+  return `${lines.join('\n')}\n`;
+}
+
+/** The cautions, as a block to print wherever a schedule is written. */
+export function formatCautions(): string {
+  return `Safety:\n${SAFETY_CAUTIONS.map((caution) => `  - ${caution}`).join('\n')}\n`;
+}
