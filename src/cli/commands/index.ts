@@ -6,6 +6,7 @@ import { command as exportSchedule } from './export.js';
 import { command as tune } from './tune.js';
 import { command as margins } from './margins.js';
 import { command as compare } from './compare.js';
+import { command as build } from './build.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them.
@@ -13,4 +14,4 @@ import { command as compare } from './compare.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [makeTestLogs, inspect, identify, exportSchedule, tune, margins, compare];
+export const COMMANDS: readonly CommandModule[] = [build, makeTestLogs, inspect, identify, exportSchedule, tune, margins, compare];
