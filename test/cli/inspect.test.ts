@@ -86,6 +86,23 @@ describe('speedband inspect', () => {
     expect(io.out()).toMatch(/steps: 4 found/);
   });
 
+  it('several logs end with a summary sorted by speed', async () => {
+    const slow = syntheticLog({
+      plant: PLANT,
+      seed: 4,
+      yawNoise_radps: 0.002,
+      stages: [
+        { level_rad: 0, hold_s: 3, speed_mps: 4 },
+        { level_rad: deg(3), hold_s: 4, speed_mps: 4 },
+      ],
+    });
+    const slowLog = writeLog('slow.csv', syntheticCsv(slow));
+    const io = recordingIo();
+    expect(await runCli(['inspect', goodLog, slowLog], io)).toBe(0);
+    const summary = io.out().slice(io.out().indexOf('summary of 2 logs'));
+    expect(summary).toMatch(/4\.00\s+1\s+0\s+2\.[45]\d\d\s+\S+\s+\S*slow\.csv\n\s+10\.00\s+4\s+0\s+2\.[45]\d\d\s+\S+\s+\S*good\.csv/);
+  });
+
   it('exits 2 for a missing file', async () => {
     const io = recordingIo();
     expect(await runCli(['inspect', join(folder, 'absent.csv')], io)).toBe(2);
