@@ -1,4 +1,5 @@
 /** The comparison as Markdown for a change review: title, summary, per-speed table, worst margins, model drift, settings and a flag list. */
+import { SAFETY_EPILOGUE } from '../cli/safety.js';
 import { shownSpeed } from './format.js';
 import { DRIFT_HEADER, SPEED_TABLE_HEADER, WORST_HEADER, driftRows, speedRow, summaryLine, thresholdsText, worstRows } from './comparison-words.js';
 import type { ScheduleComparison } from './types.js';
@@ -40,5 +41,6 @@ export function comparisonMarkdown(comparison: ScheduleComparison, oldName: stri
   lines.push('### Flags', '');
   if (comparison.flags.length === 0) lines.push('None.');
   else lines.push(...comparison.flags.map((flag) => `- [ ] ${flag.message}`));
+  lines.push('', `> A comparison is not a verification: the new schedule's own dense check decides. ${SAFETY_EPILOGUE}`);
   return `${lines.join('\n')}\n`;
 }

@@ -1,4 +1,5 @@
 /** The comparison as terminal text: header, per-speed table, worst margins, model drift, settings, flags, summary line. */
+import { SAFETY_EPILOGUE } from '../cli/safety.js';
 import { alignedTable, shownSpeed } from './format.js';
 import {
   DRIFT_HEADER,
@@ -51,6 +52,6 @@ export function comparisonText(comparison: ScheduleComparison, oldName: string, 
   if (comparison.flags.length > 0) {
     lines.push('Flags:', ...comparison.flags.map((flag) => `  - ${flag.message}`), '');
   }
-  lines.push(summaryLine(comparison));
+  lines.push(`A comparison is not a verification: the new schedule's own dense check decides. ${SAFETY_EPILOGUE}`, '', summaryLine(comparison));
   return `${lines.join('\n')}\n`;
 }

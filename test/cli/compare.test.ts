@@ -27,6 +27,7 @@ describe('speedband compare OLD NEW', () => {
     expect(result.code).toBe(0);
     expect(result.out).toMatch(/Nothing flagged: 6 speeds compared \(2–16 m\/s\)\.\n$/);
     expect(result.out).toMatch(/speed m\/s {2}breakpoint of {2}kp old → new/);
+    expect(result.out).toMatch(/A comparison is not a verification.*Safety: These gains are engineering input/);
   });
 
   it('one gain raised 20 %: flagged at that breakpoint only, exit 1, table row marked', async () => {
