@@ -1,4 +1,4 @@
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { runPython } from '../helpers/python.js';
 import { reactionCurve, zieglerNicholsStep } from '../../src/tuning/ziegler-nichols-step.js';
 import { zieglerNicholsUltimate } from '../../src/tuning/ziegler-nichols-ultimate.js';
@@ -6,6 +6,47 @@ import { ultimatePoint } from '../../src/tuning/ultimate-gain.js';
 import type { DesignModel } from '../../src/tuning/types.js';
 
 const fopdt: DesignModel = { integrators: 0, gain: 2, lags_s: [10], deadTime_s: 2 };
+const secondOrderModels: DesignModel[] = [
+  { integrators: 0, gain: 1.5, lags_s: [4, 1], deadTime_s: 0.5 },
+  { integrators: 0, gain: -0.7, lags_s: [2, 2], deadTime_s: 0 },
+  { integrators: 0, gain: 3, lags_s: [10, 0.3], deadTime_s: 1 },
+];
+const fopdtModels = [
+  { gain: 2, tau: 10, theta: 2 },
+  { gain: 0.5, tau: 0.3, theta: 0.05 },
+  { gain: 7, tau: 1, theta: 4 },
+];
+/**
+ * Both python cross-checks in one call:
+ * - tangents: scipy.signal.step on a fine grid, tangent at the maximum slope, L = θ + t* − y(t*)/R;
+ * - ultimate: scipy.optimize.brentq on atan(ωτ) + ωθ = π; Ku = √(1 + (ωτ)²)/K, Pu = 2π/ω.
+ */
+let references: { tangents: { slope: number; deadTime: number }[]; ultimate: { ku: number; pu: number }[] } = { tangents: [], ultimate: [] };
+beforeAll(() => {
+  references = runPython(
+    `
+import json, sys, math, numpy as np
+from scipy import signal
+from scipy.optimize import brentq
+d = json.load(sys.stdin)
+tangents = []
+for m in d['secondOrder']:
+    t1, t2 = m['lags_s']
+    t = np.linspace(0, 20*t1, 20001)
+    _, y = signal.step(signal.lti([m['gain']], np.polymul([t1, 1], [t2, 1])), T=t)
+    dy = np.gradient(y, t)
+    i = np.argmax(np.abs(dy))
+    tangents.append({'slope': dy[i], 'deadTime': m['deadTime_s'] + t[i] - y[i]/dy[i]})
+ultimate = []
+for m in d['fopdt']:
+    w = brentq(lambda w: math.atan(w*m['tau']) + w*m['theta'] - math.pi, 1e-9, math.pi/m['theta'], xtol=1e-15)
+    ultimate.append({'ku': math.hypot(1, w*m['tau'])/m['gain'], 'pu': 2*math.pi/w})
+print(json.dumps({'tangents': tangents, 'ultimate': ultimate}))
+`,
+    { secondOrder: secondOrderModels, fopdt: fopdtModels },
+  );
+});
+
 
 describe('Ziegler–Nichols step-response method', () => {
   // Source: Ziegler & Nichols 1942, reaction-curve table; for FOPDT a = Kθ/τ = 2·2/10 = 0.4, L = θ = 2 s.
@@ -30,32 +71,10 @@ describe('Ziegler–Nichols step-response method', () => {
   }
 
   it('reactionCurve of a second-order model matches the tangent at the inflection of scipy.signal.step', () => {
-    const models: DesignModel[] = [
-      { integrators: 0, gain: 1.5, lags_s: [4, 1], deadTime_s: 0.5 },
-      { integrators: 0, gain: -0.7, lags_s: [2, 2], deadTime_s: 0 },
-      { integrators: 0, gain: 3, lags_s: [10, 0.3], deadTime_s: 1 },
-    ];
-    // Source: scipy.signal.step on a fine grid; tangent at the maximum slope; L = θ + t* − y(t*)/R.
-    const reference = runPython<{ slope: number; deadTime: number }[]>(
-      `
-import json, sys, numpy as np
-from scipy import signal
-out = []
-for m in json.load(sys.stdin):
-    t1, t2 = m['lags_s']
-    t = np.linspace(0, 20*t1, 20001)
-    _, y = signal.step(signal.lti([m['gain']], np.polymul([t1, 1], [t2, 1])), T=t)
-    dy = np.gradient(y, t)
-    i = np.argmax(np.abs(dy))
-    out.append({'slope': dy[i], 'deadTime': m['deadTime_s'] + t[i] - y[i]/dy[i]})
-print(json.dumps(out))
-`,
-      models,
-    );
-    models.forEach((model, index) => {
+    secondOrderModels.forEach((model, index) => {
       const curve = reactionCurve(model);
-      expect(curve.maximumSlope).toBeCloseTo(reference[index].slope, 5);
-      expect(curve.apparentDeadTime_s).toBeCloseTo(reference[index].deadTime, 3);
+      expect(curve.maximumSlope).toBeCloseTo(references.tangents[index].slope, 5);
+      expect(curve.apparentDeadTime_s).toBeCloseTo(references.tangents[index].deadTime, 3);
     });
   });
 
@@ -73,29 +92,11 @@ print(json.dumps(out))
 
 describe('Ziegler–Nichols ultimate-gain method', () => {
   it('ultimatePoint of FOPDT models matches scipy brentq on the −180° phase crossing', () => {
-    const models = [
-      { gain: 2, tau: 10, theta: 2 },
-      { gain: 0.5, tau: 0.3, theta: 0.05 },
-      { gain: 7, tau: 1, theta: 4 },
-    ];
-    // Source: scipy.optimize.brentq on atan(ωτ) + ωθ = π; Ku = √(1 + (ωτ)²)/K, Pu = 2π/ω.
-    const reference = runPython<{ ku: number; pu: number }[]>(
-      `
-import json, sys, math
-from scipy.optimize import brentq
-out = []
-for m in json.load(sys.stdin):
-    w = brentq(lambda w: math.atan(w*m['tau']) + w*m['theta'] - math.pi, 1e-9, math.pi/m['theta'], xtol=1e-15)
-    out.append({'ku': math.hypot(1, w*m['tau'])/m['gain'], 'pu': 2*math.pi/w})
-print(json.dumps(out))
-`,
-      models,
-    );
-    models.forEach((m, index) => {
+    fopdtModels.forEach((m, index) => {
       const point = ultimatePoint({ integrators: 0, gain: m.gain, lags_s: [m.tau], deadTime_s: m.theta });
       expect(point).not.toBeNull();
-      expect(point!.ultimateGain).toBeCloseTo(reference[index].ku, 9);
-      expect(point!.ultimatePeriod_s).toBeCloseTo(reference[index].pu, 9);
+      expect(point!.ultimateGain).toBeCloseTo(references.ultimate[index].ku, 9);
+      expect(point!.ultimatePeriod_s).toBeCloseTo(references.ultimate[index].pu, 9);
     });
   });
 
