@@ -1,9 +1,12 @@
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
-import { simulateYawThroughActuator } from '../../src/identify/joint-single-track.js';
+import type { SpeedModel } from '../../src/identify/aggregate.js';
+import { fitSingleTrack, simulateYawThroughActuator, type SingleTrackFit } from '../../src/identify/joint-single-track.js';
+import { readSteerLog } from '../../src/log/read.js';
+import { findStepTests } from '../../src/log/segment.js';
 import { modelsToJson, parseModels } from '../../src/identify/models-file.js';
 import type { ModelsFile } from '../../src/identify/models-schema.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
@@ -85,6 +88,21 @@ describe('identifyFromLogs on logs from the exact simulator (parcel van, seeded 
     delete value.speeds[0].fopdt.gain;
     expect(() => parseModels(JSON.stringify(value), 'broken.json')).toThrow(/gain/);
   });
+});
+
+describe('fitSingleTrack without nominal stiffnesses in the vehicle file', () => {
+  it('starts from the understeer gradient of the per-speed gains and still recovers Cf and Cr within 5 %', () => {
+    const { frontCorneringStiffness_NPerRad: _f, rearCorneringStiffness_NPerRad: _r, ...withoutStiffness } = loadVehicle(VEHICLE);
+    const csv = readdirSync(join(folder, 'noisy')).filter((name) => name.endsWith('.csv')).sort().map((name) => join(folder, 'noisy', name));
+    const steps = csv.flatMap((file) => findStepTests(readSteerLog(file)).steps);
+    const speeds = noisy.speeds.map((s) => ({ speed_mps: s.speed_mps, model: { kind: 'fopdt' as const, gain: s.fopdt.gain, timeConstant_s: s.fopdt.timeConstant_s, deadTime_s: s.fopdt.deadTime_s } }));
+    const fit = fitSingleTrack(withoutStiffness, steps, speeds as unknown as SpeedModel[], null, 10);
+    expect('reasonCode' in fit).toBe(false);
+    const st = fit as SingleTrackFit;
+    // Source: vehicles/parcel-van nominal values used by the simulator
+    expect(Math.abs(st.parameters.frontCorneringStiffness_NPerRad / 120000 - 1)).toBeLessThan(STIFFNESS_RELATIVE);
+    expect(Math.abs(st.parameters.rearCorneringStiffness_NPerRad / 180000 - 1)).toBeLessThan(STIFFNESS_RELATIVE);
+  }, 60_000);
 });
 
 describe('simulateYawThroughActuator(params, speed, time, command)', () => {
