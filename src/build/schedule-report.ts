@@ -51,7 +51,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
   }
   lines.push(...textTable(rows, [true, true, true, true, true, true, true, true, true, false, false]).map((line) => `  ${line}`));
   lines.push('');
-  lines.push(...formatCheck(schedule.check.passed, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
+  lines.push(...formatCheck(schedule.check.model.kind, schedule.check.passed, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
   if (schedule.check.insertions.length > 0) {
     lines.push('', '  breakpoints inserted by refinement:');
     for (const insertion of schedule.check.insertions) lines.push(`    ${insertion.speed_mps.toFixed(2)} m/s: ${insertion.reason}`);
@@ -64,10 +64,10 @@ export function formatSchedule(schedule: ScheduleFile): string {
 }
 
 /** The dense check's verdict, its thresholds and worst figures. */
-export function formatCheck(passed: boolean, gridSize: number, failedSpeeds: number, worst: WorstMargins, schedule: ScheduleFile): string[] {
+export function formatCheck(modelKind: string, passed: boolean, gridSize: number, failedSpeeds: number, worst: WorstMargins, schedule: ScheduleFile): string[] {
   const t = schedule.check.thresholds;
   return [
-    `  dense check on the ${schedule.check.model.kind} model, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
+    `  dense check on the ${modelKind} model, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
       (passed ? 'PASSED' : `FAILED at ${failedSpeeds} speeds`),
     `  limits: lower GM ≤ ${t.maximumLowerGainMargin_dB} dB, upper GM ≥ ${t.minimumUpperGainMargin_dB} dB, PM ≥ ${t.minimumPhaseMargin_deg}°, ` +
       `Ms ≤ ${t.maximumSensitivityPeak}, delay margin ≥ ${t.minimumDelayMargin_s.toFixed(3)} s`,
@@ -77,8 +77,8 @@ export function formatCheck(passed: boolean, gridSize: number, failedSpeeds: num
 }
 
 /** A dense check result against a schedule's own settings (for `check` and the baseline check). */
-export function formatRecheck(title: string, result: DenseCheckResult, schedule: ScheduleFile): string {
-  const lines = [title, ...formatCheck(result.passed, result.points.length, result.failedCount, result.worst, schedule)];
+export function formatRecheck(title: string, result: DenseCheckResult, schedule: ScheduleFile, modelKind: string): string {
+  const lines = [title, ...formatCheck(modelKind, result.passed, result.points.length, result.failedCount, result.worst, schedule)];
   const failing = result.points.filter((point) => point.failures.length > 0);
   if (failing.length > 0) {
     lines.push('  failing speeds (first 10):');

@@ -87,7 +87,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     if (warnings.length > 0) text += `  rule warnings:\n${warnings.map((warning) => `    - ${warning}`).join('\n')}\n`;
     if (baselineResult !== undefined && baseline !== undefined) {
       const { formatRecheck } = await import('../../build/schedule-report.js');
-      text += `\n${formatRecheck(`Baseline ${String(args.baseline)}: its gains on the new vehicle model — ${baselineResult.passed ? 'still within the limits' : 'NOT SAFE everywhere'}`, baselineResult, baseline)}`;
+      text += `\n${formatRecheck(`Baseline ${String(args.baseline)}: its gains on the new vehicle model — ${baselineResult.passed ? 'still within the limits' : 'NOT SAFE everywhere'}`, baselineResult, baseline, result.checkModel.kind)}`;
     }
     text += '\n';
     if (written) {

@@ -7,6 +7,8 @@ import { command as tune } from './tune.js';
 import { command as margins } from './margins.js';
 import { command as compare } from './compare.js';
 import { command as build } from './build.js';
+import { command as check } from './check.js';
+import { command as demo } from './demo.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them.
@@ -14,4 +16,4 @@ import { command as build } from './build.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [build, makeTestLogs, inspect, identify, exportSchedule, tune, margins, compare];
+export const COMMANDS: readonly CommandModule[] = [demo, build, check, makeTestLogs, inspect, identify, exportSchedule, tune, margins, compare];

@@ -1,0 +1,71 @@
+/**
+ * The demo: the main job end to end on a bundled demo vehicle (invented data) — identify, build,
+ * check, export C and CSV — into one folder, saying where everything went.
+ */
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { SpeedbandError } from '../core/errors.js';
+import type { WriteOutcome } from '../core/files.js';
+import { writeFileAtomic } from '../core/files.js';
+import { exportC } from '../export/c-header.js';
+import { exportCsv } from '../export/csv.js';
+import { writeModels } from '../identify/models-file.js';
+import type { DenseCheckResult } from '../schedule/types.js';
+import { writeSchedule } from '../schedule/schedule-file.js';
+import { buildSchedule, type BuildResult } from './build-schedule.js';
+import { recheckSchedule, recordedCheckModel } from './recheck-schedule.js';
+
+/** The bundled vehicles folder (…/vehicles beside src/ or dist/). */
+export const BUNDLED_VEHICLES = fileURLToPath(new URL('../../vehicles/', import.meta.url));
+
+export const DEMO_DEFAULTS = { vehicle: 'parcel-van', outDir: 'speedband-demo' } as const;
+
+export interface DemoInput {
+  readonly vehicle: string;
+  readonly outDir: string;
+  readonly force: boolean;
+  readonly progress?: (text: string) => void;
+}
+
+export interface DemoResult {
+  readonly build: BuildResult;
+  readonly recheck: DenseCheckResult;
+  readonly files: readonly { readonly path: string; readonly what: string; readonly outcome: WriteOutcome }[];
+}
+
+/** Names of the bundled demo vehicles (folders with a vehicle.json and logs/). */
+export function bundledVehicles(): string[] {
+  return readdirSync(BUNDLED_VEHICLES, { withFileTypes: true })
+    .filter((entry) => entry.isDirectory())
+    .map((entry) => entry.name)
+    .sort();
+}
+
+/** Run the demo; a failing schedule is still written (marked failed) so that it can be looked at. */
+export function runDemo(input: DemoInput): DemoResult {
+  const known = bundledVehicles();
+  if (!known.includes(input.vehicle)) {
+    throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle "${input.vehicle}" — choose one of: ${known.join(', ')}`);
+  }
+  const folder = join(BUNDLED_VEHICLES, input.vehicle);
+  const logsFolder = join(folder, 'logs');
+  const logPaths = readdirSync(logsFolder)
+    .filter((name) => name.endsWith('.csv'))
+    .sort()
+    .map((name) => join(logsFolder, name));
+  const build = buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
+  const files: { path: string; what: string; outcome: WriteOutcome }[] = [];
+  const modelsPath = join(input.outDir, 'models.json');
+  files.push({ path: modelsPath, what: 'identified models (per step, per speed, single-track)', outcome: writeModels(modelsPath, build.models, input.force) });
+  const schedulePath = join(input.outDir, 'schedule.json');
+  files.push({ path: schedulePath, what: `gain schedule (status ${build.schedule.status})`, outcome: writeSchedule(schedulePath, build.schedule, input.force) });
+  const headerPath = join(input.outDir, 'schedule.h');
+  files.push({ path: headerPath, what: 'C99 header for firmware', outcome: writeFileAtomic(headerPath, exportC(build.schedule, {}).text, input.force) });
+  const csvPath = join(input.outDir, 'schedule.csv');
+  files.push({ path: csvPath, what: 'breakpoints, gains and margins for a spreadsheet', outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), input.force) });
+  const model = recordedCheckModel(build.schedule);
+  if (model === null) throw new SpeedbandError('demo.internal', 'the demo schedule records no rebuildable model');
+  const recheck = recheckSchedule({ schedule: build.schedule, model });
+  return { build, recheck, files };
+}

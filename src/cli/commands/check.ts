@@ -1,0 +1,105 @@
+import { SpeedbandError } from '../../core/errors.js';
+import type { CommandModule } from '../command.js';
+import { EXIT, type CommandIo } from '../io.js';
+
+/**
+ * `speedband check`: re-verify a schedule independently of how it was made — schema and
+ * checksum (a hand edit is caught), then the dense check of its own gains, lookup, loop and
+ * controller on a vehicle model: identified afresh from logs, read from models.json, or the
+ * model the schedule records.
+ */
+async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+  const { readSchedule } = await import('../../schedule/schedule-file.js');
+  const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { checkModelFromModels } = await import('../../build/check-model.js');
+  const { recheckSchedule, recordedCheckModel } = await import('../../build/recheck-schedule.js');
+  const { formatRecheck } = await import('../../build/schedule-report.js');
+  const { sha256Hex, readTextFile } = await import('../../core/files.js');
+
+  const schedulePath = String(args.schedule);
+  const schedule = readSchedule(schedulePath);
+  const vehicleFile = resolveVehiclePath(String(args.vehicle));
+  const vehicle = loadVehicle(vehicleFile);
+  const notes: string[] = [];
+  if (sha256Hex(readTextFile(vehicleFile)) !== schedule.vehicle.sha256) {
+    notes.push(`note: ${vehicleFile} differs from the vehicle file the schedule was built with (${schedule.vehicle.file}) — checking against the file given`);
+  }
+  if (vehicle.name !== schedule.vehicle.name) {
+    notes.push(`note: the schedule was built for vehicle "${schedule.vehicle.name}", the vehicle file given is "${vehicle.name}"`);
+  }
+
+  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
+  const modelsPath = args.models === undefined ? undefined : String(args.models);
+  if (logPaths.length > 0 && modelsPath !== undefined) {
+    throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one');
+  }
+  let model;
+  if (modelsPath !== undefined || logPaths.length > 0) {
+    const models =
+      modelsPath !== undefined
+        ? (await import('../../identify/models-file.js')).readModels(modelsPath)
+        : (await import('../../identify/identify-from-logs.js')).identifyFromLogs({ vehicle: vehicleFile, logPaths, progress: io.progress });
+    model = checkModelFromModels(models, vehicle, schedule.check.model.kind);
+  } else {
+    model = recordedCheckModel(schedule);
+    if (model === null) {
+      throw new SpeedbandError(
+        'check.noModel',
+        'the schedule records no vehicle model speedband can rebuild — give the model with --models models.json or --logs FILE…',
+        { location: { file: schedulePath, jsonPath: '/provenance/model' } },
+      );
+    }
+    notes.push('note: checking on the model recorded in the schedule; give --logs or --models to check on fresh data');
+  }
+  const gridSpeeds = args['grid-speeds'] === undefined ? undefined : Number(args['grid-speeds']);
+  if (gridSpeeds !== undefined && !(Number.isInteger(gridSpeeds) && gridSpeeds >= 2)) {
+    throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(args['grid-speeds'])} — give a whole number of speeds ≥ 2`);
+  }
+  const result = recheckSchedule({ schedule, model, ...(gridSpeeds === undefined ? {} : { gridSpeeds }) });
+
+  if (args.json === true) {
+    io.stdout(
+      `${JSON.stringify(
+        {
+          file: schedulePath,
+          checksum: 'verified',
+          passed: result.passed,
+          model: { kind: model.kind, description: model.description },
+          gridSize: result.points.length,
+          failedSpeeds: result.failedCount,
+          worst: result.worst,
+          failing: result.points.filter((p) => p.failures.length > 0).map((p) => ({ speed_mps: p.speed_mps, failures: p.failures.map((f) => f.message) })),
+          notes,
+        },
+        null,
+        2,
+      )}\n`,
+    );
+  } else {
+    io.stdout(
+      `${schedulePath}: schema valid, checksum ${schedule.checksum.value.slice(0, 16)}… verified\n` +
+        notes.map((note) => `${note}\n`).join('') +
+        formatRecheck(`model: ${model.description}`, result, schedule, model.kind),
+    );
+  }
+  return result.passed ? EXIT.ok : EXIT.failed;
+}
+
+export const command: CommandModule = {
+  command: 'check <schedule>',
+  describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), and stability margins of its own gains at every speed of its range. Exit 0 passed, 1 failed, 2 bad input',
+  builder: (yargs) =>
+    yargs
+      .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build' })
+      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
+      .option('models', { type: 'string', describe: 'Check on this identification (models.json)' })
+      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
+      .option('grid-speeds', { type: 'number', describe: 'Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule\'s own' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' }),
+  examples: [
+    ['speedband check schedule.json --vehicle vehicles/parcel-van', 'On the model recorded in the schedule'],
+    ['speedband check schedule.json --vehicle van.json --logs todays-logs/*.csv', 'On a fresh identification from new logs'],
+    ['speedband check schedule.json --vehicle van.json --models models.json --grid-speeds 2000', 'A denser check'],
+  ],
+  run,
+};

@@ -1,0 +1,48 @@
+import type { CommandModule } from '../command.js';
+import { EXIT, type CommandIo } from '../io.js';
+
+/** `speedband demo`: the main job on a bundled demo vehicle, end to end, into one folder. */
+async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+  const { runDemo } = await import('../../build/demo.js');
+  const { formatSchedule, formatCautions } = await import('../../build/schedule-report.js');
+  const outDir = String(args.out);
+  const vehicle = String(args.vehicle);
+  io.stderr(`speedband demo: building a schedule for the bundled demo vehicle "${vehicle}" (invented data, for demonstration only)…\n`);
+  const result = runDemo({ vehicle, outDir, force: args.force === true, progress: io.progress });
+  const lines: string[] = [];
+  lines.push(formatSchedule(result.build.schedule));
+  lines.push(`Re-checked independently from the written schedule: ${result.recheck.passed ? 'PASSED' : 'FAILED'} at ${result.recheck.points.length} speeds.`);
+  lines.push('', `Everything went to ${outDir}/:`);
+  for (const file of result.files) lines.push(`  ${file.path.padEnd(Math.max(...result.files.map((f) => f.path.length)))}  ${file.what}${file.outcome === 'unchanged' ? ' (unchanged)' : ''}`);
+  lines.push(
+    '',
+    'Next:',
+    `  npx speedband check ${outDir}/schedule.json --vehicle vehicles/${vehicle}`,
+    `  npx speedband export ${outDir}/schedule.json --format c --q-format 16.16 --out ${outDir}/schedule_q16.h`,
+    ...(vehicle === 'parcel-van'
+      ? [
+          '  After a vehicle change (the same van loaded heavier, new rear tyres):',
+          `  npx speedband build --vehicle vehicles/parcel-van-loaded --logs vehicles/parcel-van-loaded/logs/*.csv --baseline ${outDir}/schedule.json --out ${outDir}/loaded-schedule.json`,
+          `  npx speedband compare ${outDir}/schedule.json ${outDir}/loaded-schedule.json`,
+        ]
+      : []),
+    '',
+  );
+  io.stdout(`${lines.join('\n')}${formatCautions()}`);
+  return result.build.schedule.status === 'passed' && result.recheck.passed ? EXIT.ok : EXIT.failed;
+}
+
+export const command: CommandModule = {
+  command: 'demo',
+  describe: 'Run the whole job on a bundled demo vehicle (invented data): identify, build, check, export C and CSV into one folder',
+  builder: (yargs) =>
+    yargs
+      .option('out', { type: 'string', default: 'speedband-demo', describe: 'Folder for models.json, schedule.json, schedule.h and schedule.csv' })
+      .option('vehicle', { type: 'string', default: 'parcel-van', describe: 'Bundled demo vehicle: parcel-van, vineyard-sprayer or sidewalk-robot' })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace existing files in the folder whose content differs' }),
+  examples: [
+    ['speedband demo', 'The parcel van, into ./speedband-demo'],
+    ['speedband demo --vehicle vineyard-sprayer --out sprayer-demo', 'The sprayer with its slow hydraulic steering'],
+  ],
+  run,
+};
