@@ -41,6 +41,11 @@ export function readSteerLog(path: string, options: ReadLogOptions = {}): SteerL
  */
 export function parseSteerLog(text: string, file: string, options: ReadLogOptions = {}): SteerLog {
   const gapFactor = options.gapFactor ?? READ_DEFAULTS.gapFactor;
+  if (!(Number.isFinite(gapFactor) && gapFactor > 1)) {
+    throw new SpeedbandError('log.badOption', `the gap factor is ${gapFactor} — it must be a number above 1 (default ${READ_DEFAULTS.gapFactor} sample periods)`, {
+      details: { option: 'gapFactor', value: gapFactor },
+    });
+  }
   const droppedRows: Record<string, number> = {};
   const drop = (reason: string): void => {
     droppedRows[reason] = (droppedRows[reason] ?? 0) + 1;

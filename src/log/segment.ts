@@ -5,6 +5,7 @@
  * `StepTest` with its window of samples and metrics) or rejected with a reason
  * the user can act on.
  */
+import { SpeedbandError } from '../core/errors.js';
 import { degreesToRadians, radiansToDegrees } from '../core/units.js';
 import { stepLevels, stepMetrics, METRICS_DEFAULTS } from './metrics.js';
 import { differenceNoise, findPlateaus, type Plateau } from './plateaus.js';
@@ -48,9 +49,13 @@ export interface StepSearch {
   readonly rejected: readonly RejectedStep[];
 }
 
-/** Find and judge every step-steer candidate in a log (all segments). SI units, positive amplitude = left. */
+/**
+ * Find and judge every step-steer candidate in a log (all segments). SI units, positive amplitude = left.
+ * Throws `log.badOption` when an option is not a positive finite number (fractions at most 1).
+ */
 export function findStepTests(log: SteerLog, options: SegmentOptions = {}): StepSearch {
   const settings: Settings = { ...SEGMENT_DEFAULTS, ...options };
+  checkSettings(settings);
   const steps: StepTest[] = [];
   const rejected: RejectedStep[] = [];
   for (const segment of log.segments) {
@@ -68,6 +73,22 @@ type Settings = { readonly [K in keyof typeof SEGMENT_DEFAULTS]: number } & { re
 interface Candidate {
   readonly before: Plateau;
   readonly after: Plateau;
+}
+
+function checkSettings(settings: Settings): void {
+  for (const [name, value] of Object.entries(settings)) {
+    if (value === undefined) continue;
+    const fraction = name.endsWith('Fraction');
+    if (typeof value !== 'number' || !Number.isFinite(value) || value < 0 || (value === 0 && !name.startsWith('speedTolerance')) || (fraction && value > 1)) {
+      throw new SpeedbandError(
+        'log.badOption',
+        `segmentation option ${name} is ${String(value)} — it must be a ${fraction ? 'fraction in (0, 1]' : 'positive number'} (default ${
+          (SEGMENT_DEFAULTS as Record<string, number>)[name] ?? 'none'
+        })`,
+        { details: { option: name, value } },
+      );
+    }
+  }
 }
 
 function segmentCandidates(segment: LogSegment, settings: Settings): Candidate[] {

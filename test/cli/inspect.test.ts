@@ -103,6 +103,15 @@ describe('speedband inspect', () => {
     expect(summary).toMatch(/4\.00\s+1\s+0\s+2\.[45]\d\d\s+\S+\s+\S*slow\.csv\n\s+10\.00\s+4\s+0\s+2\.[45]\d\d\s+\S+\s+\S*good\.csv/);
   });
 
+  it('exits 2 naming the option when a numeric option is out of range', async () => {
+    const io = recordingIo();
+    expect(await runCli(['inspect', goodLog, '--min-hold-s', '-2'], io)).toBe(2);
+    expect(io.err()).toMatch(/minHold_s is -2/);
+    const gap = recordingIo();
+    expect(await runCli(['inspect', goodLog, '--gap-factor', '0.5'], gap)).toBe(2);
+    expect(gap.err()).toMatch(/gap factor is 0\.5/);
+  });
+
   it('exits 2 for a missing file', async () => {
     const io = recordingIo();
     expect(await runCli(['inspect', join(folder, 'absent.csv')], io)).toBe(2);

@@ -155,3 +155,13 @@ describe('findStepTests(log) rejects candidates with a reason the user can act o
     expect(rejected[0].reason).toMatch(/amplitude 0\.30°.*noise 0\.\d\d°\/s.*repeat with ≥ 1\.00°/);
   });
 });
+
+describe('findStepTests(log, options) validates its options', () => {
+  it('rejects a non-positive, non-finite or out-of-range option with log.badOption naming it', () => {
+    const { log } = search(PATTERN);
+    for (const options of [{ minHold_s: -1 }, { maxRamp_s: Number.NaN }, { speedToleranceFraction: 2 }, { maxSteerAngle_rad: 0 }]) {
+      expect(() => findStepTests(log, options)).toThrow(expect.objectContaining({ code: 'log.badOption', message: expect.stringContaining(Object.keys(options)[0]) }));
+    }
+    expect(findStepTests(log, { speedToleranceAbsolute_mps: 0, speedToleranceFraction: 0.5 }).steps).toHaveLength(8);
+  });
+});
