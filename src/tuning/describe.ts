@@ -56,7 +56,7 @@ export function describeTunedOperatingPoint(point: TunedOperatingPoint): string 
   lines.push(`  kd = ${number(gains.kd)} ${units.kd}`);
   lines.push('Margins of the full loop (exact delay, filtered derivative):');
   lines.push(...marginLines(margins));
-  for (const warning of derivation.warnings) lines.push(`Warning: ${warning}`);
+  for (const warning of point.warnings) lines.push(`Warning: ${warning}`);
   if (!margins.stable) lines.push('The tuned loop is NOT stable on the full plant: choose a slower target (larger τc, λ or settling distance) or another rule.');
   return lines.join('\n');
 }

@@ -38,7 +38,15 @@ export interface TunedOperatingPoint {
   readonly loop: LoopPlant;
   /** Margins of L = C(s)·G_loop(s), C the PID with its derivative filter N, G_loop with the exact delay. */
   readonly margins: LoopMargins;
+  /** The rule's warnings plus the operating point's own (e.g. a crossover too close to the sampling rate). */
+  readonly warnings: readonly string[];
 }
+
+/**
+ * Crossover limit as a fraction of the sampling frequency 2π/Ts: sampling at least ten times the
+ * crossover keeps the Ts/2 hold-delay model honest (common practice).
+ */
+export const CROSSOVER_PER_SAMPLING_FREQUENCY = 0.1;
 
 /**
  * Tune one operating point: build the loop plant the firmware sees (src/loops), derive the rule's
@@ -61,7 +69,15 @@ export function tuneOperatingPoint(request: OperatingPointRequest): TunedOperati
       : designModelFromSingleTrack(specification.kind, model.parameters, speed_mps, controllerDelay_s, loop.previewFromCg_m ?? 0);
   const derivation = applyRule(request.rule, design.model, request.ruleParameters, { speed_mps });
   const margins = loopMargins(loop, derivation.gains, controller.derivativeFilter);
-  return { gains: derivation.gains, derivation, design, loop, margins };
+  const warnings = [...derivation.warnings];
+  const samplingFrequency_radps = (2 * Math.PI) / controller.sampleTime_s;
+  const crossover = margins.phaseMarginFrequency_radps;
+  if (crossover !== null && crossover > CROSSOVER_PER_SAMPLING_FREQUENCY * samplingFrequency_radps) {
+    warnings.push(
+      `the loop crosses over at ${crossover.toPrecision(3)} rad/s, above a tenth of the sampling frequency 2π/Ts = ${samplingFrequency_radps.toPrecision(3)} rad/s (common practice: sample at least ten times faster): the Ts/2 delay model is optimistic there — check with the discrete controller or choose a slower target`,
+    );
+  }
+  return { gains: derivation.gains, derivation, design, loop, margins, warnings };
 }
 
 /** Margins of the loop plant under parallel gains with derivative filter N (see tuneOperatingPoint). */

@@ -62,6 +62,17 @@ describe('tuneOperatingPoint: SIMC loops with known margins (τc = θ, margins o
   });
 });
 
+describe('tuneOperatingPoint: sampling', () => {
+  it('warns when the crossover exceeds a tenth of the sampling frequency (common practice: sample ≥ 10× the crossover)', () => {
+    const fast = tuneOperatingPoint({ loop: { kind: 'yaw-rate' }, speed_mps: 5, model: { kind: 'lumped', yawRate: { kind: 'fopdt', gain: 2, timeConstant_s: 0.12, deadTime_s: 0 } }, rule: 'imc-pid', ruleParameters: {}, controller });
+    // θ = Ts/2 = 0.01 s only, λ = θ: crossover near 1/(λ + θ/2)·... far above 2π/Ts/10 = 31 rad/s.
+    expect(fast.margins.phaseMarginFrequency_radps!).toBeGreaterThan(0.1 * ((2 * Math.PI) / controller.sampleTime_s));
+    expect(fast.warnings.join()).toMatch(/a tenth of the sampling frequency/);
+    const slow = lumped({ kind: 'fopdt', gain: 2, timeConstant_s: 0.3, deadTime_s: 0.09 }, { kind: 'yaw-rate' }, 'simc');
+    expect(slow.warnings).toEqual([]);
+  });
+});
+
 describe('tuneOperatingPoint: applicability and signs', () => {
   it('Ziegler–Nichols for a path loop is tuning.ruleNotApplicable naming simc and damping-target', () => {
     try {

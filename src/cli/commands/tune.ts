@@ -104,7 +104,7 @@ export const command: CommandModule = {
       controller,
     });
     if (args.json) {
-      io.stdout(`${JSON.stringify({ gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, controller }, null, 2)}\n`);
+      io.stdout(`${JSON.stringify({ gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, warnings: point.warnings, controller }, null, 2)}\n`);
     } else {
       io.stdout(`${describeTunedOperatingPoint(point)}\n`);
     }
