@@ -56,6 +56,7 @@ interface ReferenceCase {
   readonly upperGainMargin: number | null;
   readonly sensitivityPeak: number;
   readonly largestRealPart: number;
+  readonly rightHalfPlanePoles: number;
 }
 
 const SCRIPT = String.raw`
@@ -110,7 +111,7 @@ for case in d['loops']:
     out.append({'response': {'re': h.real.tolist(), 'im': h.imag.tolist()},
                 'phaseMargin_deg': math.degrees(min(pms)) if pms else None,
                 'delayMargin_s': dm, 'lowerGainMargin': lower, 'upperGainMargin': upper,
-                'sensitivityPeak': ms, 'largestRealPart': largest})
+                'sensitivityPeak': ms, 'largestRealPart': largest, 'rightHalfPlanePoles': int(np.sum(poles.real > 0))})
 print(json.dumps(out))
 `;
 
@@ -145,18 +146,27 @@ describe(`analyseOpenLoop against numpy/scipy on ${CASES} random loops with dela
     });
   });
 
-  it('stability verdicts agree with numpy roots of the closed loop with a [12/12] Padé approximant', () => {
+  it('stability verdicts and the Nyquist count Z agree with numpy roots of the closed loop with a [12/12] Padé approximant', () => {
     let stable = 0;
     let compared = 0;
+    let countsCompared = 0;
     loops.forEach((loop, index) => {
       const largest = reference[index].largestRealPart;
       if (Math.abs(largest) < 1e-4) return; // too close to the axis for a reference to decide
       const margins = analyseOpenLoop(loop);
       expect({ index, verdict: margins.verdict }).toEqual({ index, verdict: largest < 0 ? 'stable' : 'unstable' });
+      // The Nyquist count Z = N + P is the number of closed-loop poles in the right half-plane.
+      // (A [12/12] Padé resolves closed-loop poles up to |s|·θ ≈ 15 only; a violently unstable loop has
+      // more right-half-plane poles beyond that, which the exact-delay count sees: compare up to 4.)
+      if (reference[index].rightHalfPlanePoles <= 4) {
+        expect({ index, z: margins.analysis?.closedLoopRightHalfPlanePoles }).toEqual({ index, z: reference[index].rightHalfPlanePoles });
+        countsCompared++;
+      }
       compared++;
       if (largest < 0) stable++;
     });
     expect(compared).toBeGreaterThanOrEqual(200);
+    expect(countsCompared).toBeGreaterThanOrEqual(200);
     // Both kinds are well represented.
     expect(stable).toBeGreaterThan(50);
     expect(compared - stable).toBeGreaterThan(50);
