@@ -1,0 +1,220 @@
+import { mkdtempSync, readFileSync, writeFileSync, existsSync, readdirSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { runCli } from '../../src/cli/main.js';
+import { recordingIo } from '../../src/cli/io.js';
+import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
+import { writeModels } from '../../src/identify/models-file.js';
+import type { ModelsFile } from '../../src/identify/models-schema.js';
+import { readSchedule } from '../../src/schedule/schedule-file.js';
+import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
+import { runPython } from '../helpers/python.js';
+
+const VAN = 'vehicles/parcel-van';
+const vanLogs = (): string[] =>
+  readdirSync(join(VAN, 'logs'))
+    .filter((name) => name.endsWith('.csv'))
+    .sort()
+    .map((name) => join(VAN, 'logs', name));
+
+let dir: string;
+let models: ModelsFile;
+let modelsPath: string;
+let schedulePath: string;
+
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), 'speedband-build-'));
+  models = identifyFromLogs({ vehicle: VAN, logPaths: vanLogs() });
+  modelsPath = join(dir, 'models.json');
+  writeModels(modelsPath, models, false);
+  schedulePath = join(dir, 'schedule.json');
+  const io = recordingIo();
+  const code = await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--out', schedulePath], io);
+  if (code !== 0) throw new Error(`build failed: ${io.err()}${io.out()}`);
+});
+
+describe('speedband build', () => {
+  it('writes a schedule that passes, lists every breakpoint with its margins, and shows the cautions', () => {
+    const schedule = readSchedule(schedulePath);
+    expect(schedule.status).toBe('passed');
+    expect(schedule.check.gridSize).toBeGreaterThanOrEqual(200);
+    expect(schedule.breakpoints.length).toBeGreaterThanOrEqual(2);
+    for (const breakpoint of schedule.breakpoints) expect(breakpoint.margins.verdict).toBe('stable');
+    expect(schedule.provenance.model.kind).toBe('single-track');
+    expect(schedule.cautions.join(' ')).toMatch(/closed track/);
+  });
+
+  it('is deterministic: the same inputs and plan give a byte-identical schedule', async () => {
+    const again = join(dir, 'again.json');
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--out', again], recordingIo())).toBe(0);
+    expect(readFileSync(again)).toEqual(readFileSync(schedulePath));
+    // No machine paths inside: only base names of the inputs.
+    expect(readFileSync(again, 'utf8')).not.toContain(dir);
+  });
+
+  it('never overwrites a different file without --force', async () => {
+    const path = join(dir, 'occupied.json');
+    writeFileSync(path, '{}');
+    const io = recordingIo();
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--out', path], io)).toBe(2);
+    expect(io.err()).toMatch(/--force/);
+    expect(readFileSync(path, 'utf8')).toBe('{}');
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--out', path, '--force'], recordingIo())).toBe(0);
+  });
+
+  it('refuses to write a schedule that fails its limits (exit 1), and --allow-failing writes it marked failed', async () => {
+    const plan = join(dir, 'strict-plan.json');
+    // A phase-margin demand no SIMC yaw-rate loop of this van meets (it reaches about 51–63°).
+    writeFileSync(plan, JSON.stringify({ acceptance: { minimumPhaseMargin_deg: 80 } }));
+    const out = join(dir, 'strict.json');
+    const io = recordingIo();
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', out], io)).toBe(1);
+    expect(existsSync(out)).toBe(false);
+    expect(io.out()).toMatch(/Nothing written/);
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', out, '--allow-failing'], recordingIo())).toBe(1);
+    expect(readSchedule(out).status).toBe('failed');
+    // export refuses a failed schedule for firmware.
+    expect(await runCli(['export', out, '--format', 'c'], recordingIo())).toBe(1);
+  });
+
+  it('names the missing input when neither logs nor models are given', async () => {
+    const io = recordingIo();
+    expect(await runCli(['build', '--vehicle', VAN, '--out', join(dir, 'x.json')], io)).toBe(2);
+    expect(io.err()).toMatch(/--logs/);
+  });
+});
+
+describe('speedband check', () => {
+  it('passes the schedule it built, on the recorded model and on the models file', async () => {
+    expect(await runCli(['check', schedulePath, '--vehicle', VAN], recordingIo())).toBe(0);
+    const io = recordingIo();
+    expect(await runCli(['check', schedulePath, '--vehicle', VAN, '--models', modelsPath, '--json'], io)).toBe(0);
+    const result = JSON.parse(io.out()) as { passed: boolean; gridSize: number };
+    expect(result.passed).toBe(true);
+    expect(result.gridSize).toBeGreaterThanOrEqual(200);
+  });
+
+  it('refuses a schedule with one altered gain, naming the breakpoint, and one with an altered checksum', async () => {
+    const edited = JSON.parse(readFileSync(schedulePath, 'utf8')) as { breakpoints: { kp: number }[]; checksum: { value: string } };
+    edited.breakpoints[2].kp *= 1.2;
+    const gainPath = join(dir, 'edited-gain.json');
+    writeFileSync(gainPath, JSON.stringify(edited, null, 2));
+    const io = recordingIo();
+    expect(await runCli(['check', gainPath, '--vehicle', VAN], io)).toBe(2);
+    expect(io.err()).toMatch(/checksum/);
+    expect(io.err()).toMatch(/breakpoint 2/);
+
+    const original = JSON.parse(readFileSync(schedulePath, 'utf8')) as { checksum: { value: string } };
+    original.checksum.value = '0'.repeat(64);
+    const sumPath = join(dir, 'edited-checksum.json');
+    writeFileSync(sumPath, JSON.stringify(original, null, 2));
+    expect(await runCli(['check', sumPath, '--vehicle', VAN], recordingIo())).toBe(2);
+  });
+
+  it('fails (exit 1) when the vehicle has changed under the schedule: four times the actuator delay', async () => {
+    const changed = JSON.parse(readFileSync(modelsPath, 'utf8')) as ModelsFile & { singleTrack: { actuatorDelay_s: number } };
+    changed.singleTrack.actuatorDelay_s *= 4;
+    const changedPath = join(dir, 'slow-actuator-models.json');
+    writeFileSync(changedPath, JSON.stringify(changed, null, 2));
+    const io = recordingIo();
+    expect(await runCli(['check', schedulePath, '--vehicle', VAN, '--models', changedPath], io)).toBe(1);
+    expect(io.out()).toMatch(/FAILED/);
+
+    // The refit flow: a new schedule for the changed vehicle, and the old gains judged on it.
+    const refit = recordingIo();
+    const code = await runCli(['build', '--vehicle', VAN, '--models', changedPath, '--baseline', schedulePath, '--out', join(dir, 'refit.json'), '--json'], refit);
+    const report = JSON.parse(refit.out()) as { status: string; baseline: { passedOnNewModel: boolean; failedSpeeds: number } };
+    expect(report.baseline.passedOnNewModel).toBe(false);
+    expect(report.baseline.failedSpeeds).toBeGreaterThan(0);
+    expect(code).toBe(1);
+  });
+});
+
+describe('breakpoint margins against scipy', () => {
+  it('agree with an independent python computation of the same sampled loop (single-track plant, backward-Euler PID, hold and latency)', () => {
+    const schedule: ScheduleFile = readSchedule(schedulePath);
+    const model = schedule.provenance.model as Record<string, number>;
+    // Source: single-track δ→r transfer function (Gillespie 1992 / Rajamani 2012, DOMAIN.md §3), actuator
+    // e^(−θa s)/(τa s + 1), backward-Euler PID by scipy.signal.cont2discrete, hold as e^(−jωT/2).
+    const script = `
+import sys, json, numpy as np
+from scipy import signal, optimize
+d = json.load(sys.stdin)
+m, Iz, a, b = d['mass_kg'], d['yawInertia_kgm2'], d['cgToFrontAxle_m'], d['cgToRearAxle_m']
+Cf, Cr, lag, delay = d['frontCorneringStiffness_NPerRad'], d['rearCorneringStiffness_NPerRad'], d['actuatorLag_s'], d['actuatorDelay_s']
+T, N, latency = d['T'], d['N'], d['latency']
+out = []
+for bp in d['breakpoints']:
+    vx, kp, ki, kd = bp['speed_mps'], bp['kp'], bp['ki'], bp['kd']
+    L = a + b
+    a1 = (Cf + Cr) / (m * vx) + (a*a*Cf + b*b*Cr) / (Iz * vx)
+    a0 = Cf*Cr*L*L / (m*Iz*vx*vx) + (b*Cr - a*Cf) / Iz
+    b1 = a*Cf/Iz; b0 = Cf*Cr*L/(m*Iz*vx)
+    def C(w):
+        z = np.exp(1j*w*T)
+        q = (1 - 1/z) / T                     # backward Euler: s -> (1 - z^-1)/T
+        c = kp + ki / q
+        if kd != 0:
+            Tf = (kd/kp)/N
+            c = c + kd*q/(1 + Tf*q)
+        return c
+    def Lw(w):
+        s = 1j*w
+        G = (b1*s + b0)/(s*s + a1*s + a0) / (lag*s + 1) * np.exp(-s*(delay + latency + T/2))
+        return C(w)*G
+    w = np.logspace(-3, np.log10(np.pi/T), 200000)
+    Lv = Lw(w)
+    mag = np.abs(Lv)
+    pms = []
+    for i in np.nonzero(np.diff(np.sign(mag - 1)))[0]:
+        wc = optimize.brentq(lambda x: abs(Lw(x)) - 1, w[i], w[i+1], xtol=1e-14)
+        ph = np.degrees(np.angle(Lw(wc)))
+        pm = 180 + ph
+        pm = (pm + 180) % 360 - 180
+        pms.append(pm)
+    gms = []
+    im = Lv.imag
+    for i in np.nonzero(np.diff(np.sign(im)))[0]:
+        if Lv.real[i] < 0:
+            wp = optimize.brentq(lambda x: Lw(x).imag, w[i], w[i+1], xtol=1e-14)
+            val = Lw(wp)
+            if val.real < 0 and abs(val) < 1:
+                gms.append(-20*np.log10(abs(val)))
+    S = np.abs(1/(1 + Lv))
+    k = int(np.argmax(S))
+    lo, hi = w[max(k-1, 0)], w[min(k+1, len(w)-1)]
+    r = optimize.minimize_scalar(lambda x: -abs(1/(1 + Lw(x))), bounds=(lo, hi), method='bounded', options={'xatol': 1e-12})
+    out.append({'pm': min(pms) if pms else None, 'gm': min(gms) if gms else None, 'ms': float(-r.fun)})
+print(json.dumps(out))
+`;
+    const reference = runPython<{ pm: number | null; gm: number | null; ms: number }[]>(script, {
+      ...model,
+      T: schedule.controller.sampleTime_s,
+      N: schedule.controller.derivativeFilter,
+      latency: schedule.controller.computationLatency_s,
+      breakpoints: schedule.breakpoints,
+    });
+    schedule.breakpoints.forEach((breakpoint, k) => {
+      const expected = reference[k];
+      // Tolerance: 0.1 % relative on margins, 0.1 % on Ms (issue 6 asks for agreement with scipy.signal).
+      expect(breakpoint.margins.phaseMargin_deg).not.toBeNull();
+      expect(Math.abs(breakpoint.margins.phaseMargin_deg! - expected.pm!)).toBeLessThan(1e-3 * Math.abs(expected.pm!));
+      expect(Math.abs(breakpoint.margins.upperGainMargin_dB! - expected.gm!)).toBeLessThan(1e-3 * Math.abs(expected.gm!));
+      expect(Math.abs(breakpoint.margins.sensitivityPeak! - expected.ms)).toBeLessThan(1e-3 * expected.ms);
+    });
+  });
+});
+
+describe('speedband demo', () => {
+  it('builds, checks and exports the parcel van into one folder, and a second run changes nothing', async () => {
+    const out = join(dir, 'demo');
+    const io = recordingIo();
+    expect(await runCli(['demo', '--out', out], io)).toBe(0);
+    for (const name of ['models.json', 'schedule.json', 'schedule.h', 'schedule.csv']) expect(existsSync(join(out, name))).toBe(true);
+    expect(io.out()).toMatch(/Re-checked independently from the written schedule: PASSED/);
+    const again = recordingIo();
+    expect(await runCli(['demo', '--out', out], again)).toBe(0);
+    expect(again.out()).toMatch(/schedule\.json .*\(unchanged\)/);
+  });
+});
