@@ -10,7 +10,7 @@ import { gainChange, marginChange, marginDrop } from './changes.js';
 import { resolveThresholds } from './defaults.js';
 import { shown, shownPercent, shownSpeed } from './format.js';
 import { modelDrift } from './model-drift.js';
-import { commonSpeedRange, comparedSpeeds, marginsAtSpeed } from './resample.js';
+import { marginsAtSpeed, matchSpeeds, type ComparedPoint } from './resample.js';
 import { settingChanges } from './settings.js';
 import type {
   CompareThresholds,
@@ -47,15 +47,18 @@ interface Side {
   readonly lookup: GainsAtSpeed;
 }
 
-function compareAtSpeed(old: Side, next: Side, speed_mps: number, comparable: boolean, thresholds: CompareThresholds): ComparedSpeed {
-  const oldGains = old.lookup(speed_mps);
-  const newGains = next.lookup(speed_mps);
-  const oldMargins = marginsAtSpeed(old.schedule, speed_mps);
-  const newMargins = marginsAtSpeed(next.schedule, speed_mps);
+function compareAtSpeed(old: Side, next: Side, point: ComparedPoint, comparable: boolean, thresholds: CompareThresholds): ComparedSpeed {
+  const { speed_mps, oldSpeed_mps, newSpeed_mps } = point;
+  const oldGains = old.lookup(oldSpeed_mps);
+  const newGains = next.lookup(newSpeed_mps);
+  const oldMargins = marginsAtSpeed(old.schedule, oldSpeed_mps);
+  const newMargins = marginsAtSpeed(next.schedule, newSpeed_mps);
   const flaggedMargin = (name: FlaggedMargin) =>
     marginChange(oldMargins.value(name), newMargins.value(name), name === 'lowerGainMargin_dB' ? 'towardZero' : 'decrease', marginDrop(name, thresholds));
   return {
     speed_mps,
+    oldSpeed_mps,
+    newSpeed_mps,
     oldSource: oldMargins.atBreakpoint ? 'breakpoint' : 'interpolated',
     newSource: newMargins.atBreakpoint ? 'breakpoint' : 'interpolated',
     kp: gainChange(oldGains.kp, newGains.kp, comparable, thresholds),
@@ -108,7 +111,8 @@ function worstChange(old: ScheduleFile, next: ScheduleFile, name: FlaggedMargin,
 
 /**
  * Compare schedule `old` with schedule `next` (both as read by readSchedule).
- * - Compared speeds: the union of both breakpoint speeds inside the common breakpoint range;
+ * - Compared speeds: the union of both breakpoint speeds inside the common breakpoint range, two
+ *   breakpoints within thresholds.speedTolerance_mps being one speed (resample.ts matchSpeeds);
  *   gains from each schedule's own lookup, margins from its breakpoints (linear between them,
  *   see resample.ts); breakpoints outside the common range are listed as not compared.
  * - Gain changes in each gain's unit and in % (100·(new − old)/old; null when old = 0, when the
@@ -126,16 +130,15 @@ function worstChange(old: ScheduleFile, next: ScheduleFile, name: FlaggedMargin,
  */
 export function compareSchedules(old: ScheduleFile, next: ScheduleFile, thresholdsGiven: Partial<CompareThresholds> = {}): ScheduleComparison {
   const thresholds = resolveThresholds(thresholdsGiven);
-  const settings = settingChanges(old, next);
+  const settings = settingChanges(old, next, thresholds.speedTolerance_mps);
   const gainsComparable = settings.every((change) => !change.breaksGainComparison);
   const oldSpeeds = old.breakpoints.map((row) => row.speed_mps);
   const newSpeeds = next.breakpoints.map((row) => row.speed_mps);
-  const commonRange = commonSpeedRange(oldSpeeds, newSpeeds);
+  const match = matchSpeeds(oldSpeeds, newSpeeds, thresholds.speedTolerance_mps);
+  const commonRange = match.commonRange;
   const oldSide: Side = { schedule: old, lookup: scheduleLookup(old) };
   const newSide: Side = { schedule: next, lookup: scheduleLookup(next) };
-  const speeds =
-    commonRange === null ? [] : comparedSpeeds(oldSpeeds, newSpeeds, commonRange).map((speed) => compareAtSpeed(oldSide, newSide, speed, gainsComparable, thresholds));
-  const outside = (list: readonly number[]) => (commonRange === null ? [...list] : list.filter((speed) => speed < commonRange.minimum_mps || speed > commonRange.maximum_mps));
+  const speeds = match.points.map((point) => compareAtSpeed(oldSide, newSide, point, gainsComparable, thresholds));
 
   const flags: ComparisonFlag[] = settings.map((change) => ({
     kind: 'settingChanged',
@@ -196,9 +199,12 @@ export function compareSchedules(old: ScheduleFile, next: ScheduleFile, threshol
     gainsComparable,
     settingChanges: settings,
     commonRange,
-    sameBreakpoints: oldSpeeds.length === newSpeeds.length && oldSpeeds.every((speed, k) => speed === newSpeeds[k]),
+    sameBreakpoints:
+      oldSpeeds.length === newSpeeds.length &&
+      speeds.length === oldSpeeds.length &&
+      speeds.every((row) => row.oldSource === 'breakpoint' && row.newSource === 'breakpoint'),
     speeds,
-    notCompared: { old_mps: outside(oldSpeeds), new_mps: outside(newSpeeds) },
+    notCompared: match.notCompared,
     worst,
     modelDrift: drift,
     flags,

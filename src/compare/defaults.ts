@@ -1,7 +1,9 @@
 /**
  * Comparison thresholds, in one place (our choices, in line with common practice for a change
  * review): a gain moving ±15 %, a gain margin losing 3 dB (a factor √2 of loop gain), a phase
- * margin losing 10°. A gain term that appears from 0 is flagged whatever its size.
+ * margin losing 10°. A gain term that appears from 0 is flagged whatever its size. Breakpoints (and
+ * low-speed floors) within 0.05 m/s are the same speed: builds place breakpoints at measured test
+ * speeds, which move by millimetres per second between test days, far below any breakpoint spacing.
  */
 import { SpeedbandError } from '../core/errors.js';
 import type { CompareThresholds } from './types.js';
@@ -11,6 +13,7 @@ export const COMPARE_DEFAULTS: CompareThresholds = {
   gainChangeFromZero: 0,
   gainMarginDrop_dB: 3,
   phaseMarginDrop_deg: 10,
+  speedTolerance_mps: 0.05,
 };
 
 /**

@@ -3,7 +3,7 @@ export * from './types.js';
 export { COMPARE_DEFAULTS, resolveThresholds } from './defaults.js';
 export { compareSchedules } from './compare-schedules.js';
 export { gainChange, marginChange, marginLoss, type MarginSense } from './changes.js';
-export { commonSpeedRange, comparedSpeeds, marginsAtSpeed, type MarginsAtSpeed, type MarginName } from './resample.js';
+export { matchSpeeds, marginsAtSpeed, type ComparedPoint, type SpeedMatch, type MarginsAtSpeed, type MarginName } from './resample.js';
 export { modelDrift, MODEL_PARAMETERS } from './model-drift.js';
 export { settingChanges } from './settings.js';
 export { comparisonText } from './comparison-text.js';

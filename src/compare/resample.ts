@@ -1,6 +1,6 @@
 /**
  * Where two schedules are compared: the union of their breakpoint speeds within the common
- * breakpoint range, and each schedule's values there.
+ * breakpoint range (breakpoints closer than a tolerance matched), and each schedule's values there.
  * - Gains: the schedule's own lookup (src/schedule/schedule-lookup.ts: its interpolation method,
  *   exact at breakpoints), so a compared speed shows what that schedule's firmware would use.
  * - Margins: proven only at breakpoints; between them they are read by linear interpolation of the
@@ -10,17 +10,58 @@
  */
 import type { BreakpointMargins, ScheduleFile } from '../schedule/schedule-types.js';
 
-/** The common range of two sets of breakpoint speeds (m/s), or null when they do not overlap. */
-export function commonSpeedRange(oldSpeeds: readonly number[], newSpeeds: readonly number[]): { minimum_mps: number; maximum_mps: number } | null {
-  const minimum_mps = Math.max(oldSpeeds[0], newSpeeds[0]);
-  const maximum_mps = Math.min(oldSpeeds[oldSpeeds.length - 1], newSpeeds[newSpeeds.length - 1]);
-  return minimum_mps <= maximum_mps ? { minimum_mps, maximum_mps } : null;
+/** One compared speed and where each schedule is read, m/s (the two differ only for matched breakpoints). */
+export interface ComparedPoint {
+  readonly speed_mps: number;
+  readonly oldSpeed_mps: number;
+  readonly newSpeed_mps: number;
 }
 
-/** Sorted union (exact equality removes duplicates) of both speed lists inside [minimum, maximum], m/s. */
-export function comparedSpeeds(oldSpeeds: readonly number[], newSpeeds: readonly number[], range: { minimum_mps: number; maximum_mps: number }): number[] {
-  const inside = [...oldSpeeds, ...newSpeeds].filter((speed) => speed >= range.minimum_mps && speed <= range.maximum_mps);
-  return [...new Set(inside)].sort((a, b) => a - b);
+export interface SpeedMatch {
+  /** First and last compared speed, m/s; null when the breakpoint ranges do not overlap. */
+  readonly commonRange: { readonly minimum_mps: number; readonly maximum_mps: number } | null;
+  readonly points: readonly ComparedPoint[];
+  /** Breakpoints outside the common range, m/s. */
+  readonly notCompared: { readonly old_mps: readonly number[]; readonly new_mps: readonly number[] };
+}
+
+/**
+ * The speeds two schedules are compared at: the union of both breakpoint lists (each strictly
+ * increasing, m/s) inside the common breakpoint range. Two breakpoints, one from each list, within
+ * `tolerance_mps` of each other are one compared speed (the old one's), each schedule read at its own
+ * breakpoint — breakpoints placed at measured test speeds differ by millimetres per second between
+ * builds. The common range is widened by the tolerance at both ends for the same reason.
+ */
+export function matchSpeeds(oldSpeeds: readonly number[], newSpeeds: readonly number[], tolerance_mps: number): SpeedMatch {
+  const low = Math.max(oldSpeeds[0], newSpeeds[0]) - tolerance_mps;
+  const high = Math.min(oldSpeeds[oldSpeeds.length - 1], newSpeeds[newSpeeds.length - 1]) + tolerance_mps;
+  const inside = (speed: number) => speed >= low && speed <= high;
+  if (!(low <= high)) return { commonRange: null, points: [], notCompared: { old_mps: [...oldSpeeds], new_mps: [...newSpeeds] } };
+  const olds = oldSpeeds.filter(inside);
+  const news = newSpeeds.filter(inside);
+  const points: ComparedPoint[] = [];
+  let i = 0;
+  let j = 0;
+  while (i < olds.length || j < news.length) {
+    const o = i < olds.length ? olds[i] : Number.POSITIVE_INFINITY;
+    const n = j < news.length ? news[j] : Number.POSITIVE_INFINITY;
+    if (Math.abs(o - n) <= tolerance_mps) {
+      points.push({ speed_mps: o, oldSpeed_mps: o, newSpeed_mps: n });
+      i += 1;
+      j += 1;
+    } else if (o < n) {
+      points.push({ speed_mps: o, oldSpeed_mps: o, newSpeed_mps: o });
+      i += 1;
+    } else {
+      points.push({ speed_mps: n, oldSpeed_mps: n, newSpeed_mps: n });
+      j += 1;
+    }
+  }
+  return {
+    commonRange: points.length === 0 ? null : { minimum_mps: points[0].speed_mps, maximum_mps: points[points.length - 1].speed_mps },
+    points,
+    notCompared: { old_mps: oldSpeeds.filter((speed) => !inside(speed)), new_mps: newSpeeds.filter((speed) => !inside(speed)) },
+  };
 }
 
 export type MarginName = 'lowerGainMargin_dB' | 'upperGainMargin_dB' | 'phaseMargin_deg' | 'delayMargin_s' | 'sensitivityPeak';

@@ -14,6 +14,8 @@ interface SettingDefinition {
   readonly setting: string;
   readonly read: (schedule: ScheduleFile) => Value;
   readonly breaksGainComparison: boolean;
+  /** Values closer than this count as equal (speeds use the comparison's speed tolerance); exact otherwise. */
+  readonly speedLike?: boolean;
 }
 
 const SETTINGS: readonly SettingDefinition[] = [
@@ -27,16 +29,22 @@ const SETTINGS: readonly SettingDefinition[] = [
   { setting: 'controller.computationLatency_s', read: (s) => s.controller.computationLatency_s, breaksGainComparison: false },
   { setting: 'controller.integratorClamp_rad', read: (s) => s.controller.integratorClamp_rad, breaksGainComparison: false },
   { setting: 'interpolation.method', read: (s) => s.interpolation.method, breaksGainComparison: false },
-  { setting: 'interpolation.lowSpeedFloor_mps', read: (s) => s.interpolation.lowSpeedFloor_mps, breaksGainComparison: false },
+  { setting: 'interpolation.lowSpeedFloor_mps', read: (s) => s.interpolation.lowSpeedFloor_mps, breaksGainComparison: false, speedLike: true },
 ];
 
-/** Every listed setting whose value differs (exact comparison), in the order above. */
-export function settingChanges(old: ScheduleFile, next: ScheduleFile): SettingChange[] {
+const same = (before: Value, after: Value, tolerance: number): boolean =>
+  before === after || (typeof before === 'number' && typeof after === 'number' && Math.abs(before - after) <= tolerance);
+
+/**
+ * Every listed setting whose value differs, in the order above: exact comparison, except speeds
+ * (the low-speed floor, often the lowest measured test speed) which are equal within `speedTolerance_mps`.
+ */
+export function settingChanges(old: ScheduleFile, next: ScheduleFile, speedTolerance_mps: number): SettingChange[] {
   const changes: SettingChange[] = [];
   for (const definition of SETTINGS) {
     const before = definition.read(old);
     const after = definition.read(next);
-    if (before !== after) changes.push({ setting: definition.setting, old: before, new: after, breaksGainComparison: definition.breaksGainComparison });
+    if (!same(before, after, definition.speedLike === true ? speedTolerance_mps : 0)) changes.push({ setting: definition.setting, old: before, new: after, breaksGainComparison: definition.breaksGainComparison });
   }
   return changes;
 }

@@ -17,6 +17,11 @@ export interface CompareThresholds {
   readonly gainMarginDrop_dB: number;
   /** Phase margin flagged when it decreases by this or more, degrees. */
   readonly phaseMarginDrop_deg: number;
+  /**
+   * Breakpoints of the two schedules closer than this are the same compared speed, and low-speed
+   * floors closer than this are the same setting, m/s (breakpoints at measured test speeds move by mm/s).
+   */
+  readonly speedTolerance_mps: number;
 }
 
 /** One gain at one compared speed. */
@@ -46,6 +51,9 @@ export type SpeedSource = 'breakpoint' | 'interpolated';
 
 export interface ComparedSpeed {
   readonly speed_mps: number;
+  /** Speed at which each schedule was read, m/s: equal to speed_mps except for two breakpoints matched within the speed tolerance. */
+  readonly oldSpeed_mps: number;
+  readonly newSpeed_mps: number;
   /** 'breakpoint': the table row itself; 'interpolated': the schedule's lookup (gains) and linear interpolation of its breakpoint margins. */
   readonly oldSource: SpeedSource;
   readonly newSource: SpeedSource;
@@ -132,9 +140,9 @@ export interface ScheduleComparison {
   /** False when a setting change makes a gain-by-gain comparison meaningless (gain changes are then null and not flagged). */
   readonly gainsComparable: boolean;
   readonly settingChanges: readonly SettingChange[];
-  /** Common breakpoint range, m/s; null when the schedules' breakpoint ranges do not overlap. */
+  /** First and last compared speed, m/s; null when the schedules' breakpoint ranges do not overlap. */
   readonly commonRange: { readonly minimum_mps: number; readonly maximum_mps: number } | null;
-  /** True when both schedules have the same breakpoint speeds (no resampling). */
+  /** True when both schedules have the same breakpoint speeds, within the speed tolerance (no resampling). */
   readonly sameBreakpoints: boolean;
   readonly speeds: readonly ComparedSpeed[];
   /** Breakpoints outside the common range, not compared. */

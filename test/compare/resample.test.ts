@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { commonSpeedRange, comparedSpeeds, marginsAtSpeed } from '../../src/compare/resample.js';
+import { marginsAtSpeed, matchSpeeds } from '../../src/compare/resample.js';
 import { gainChange, marginChange } from '../../src/compare/changes.js';
 import { COMPARE_DEFAULTS } from '../../src/compare/defaults.js';
 import type { BreakpointMargins } from '../../src/schedule/schedule-types.js';
@@ -16,15 +16,26 @@ const margins = (upper: number | null, lower: number | null, stable = true): Bre
 });
 const rows = (list: readonly [number, BreakpointMargins][]) => ({ breakpoints: list.map(([speed_mps, m]) => ({ speed_mps, kp: 1, ki: 0, kd: 0, insertedByRefinement: false, margins: m })) });
 
-describe('commonSpeedRange / comparedSpeeds', () => {
-  it('the common range is the overlap of the breakpoint ranges; none when they do not overlap', () => {
-    expect(commonSpeedRange([2, 5, 10], [4, 12])).toEqual({ minimum_mps: 4, maximum_mps: 10 });
-    expect(commonSpeedRange([2, 5], [5, 9])).toEqual({ minimum_mps: 5, maximum_mps: 5 });
-    expect(commonSpeedRange([2, 4], [5, 9])).toBeNull();
+describe('matchSpeeds(old, new, tolerance)', () => {
+  it('compares the sorted union inside the overlap of the breakpoint ranges and lists the rest', () => {
+    const match = matchSpeeds([2, 5, 10], [4, 5, 12], 0);
+    expect(match.points.map((point) => point.speed_mps)).toEqual([4, 5, 10]);
+    expect(match.commonRange).toEqual({ minimum_mps: 4, maximum_mps: 10 });
+    expect(match.notCompared).toEqual({ old_mps: [2], new_mps: [12] });
+    expect(matchSpeeds([2, 4], [5, 9], 0.05)).toEqual({ commonRange: null, points: [], notCompared: { old_mps: [2, 4], new_mps: [5, 9] } });
   });
 
-  it('compared speeds are the sorted union inside the range, each once', () => {
-    expect(comparedSpeeds([2, 5, 10], [4, 5, 12], { minimum_mps: 4, maximum_mps: 10 })).toEqual([4, 5, 10]);
+  it('breakpoints within the tolerance are one compared speed, each schedule read at its own breakpoint', () => {
+    // Breakpoints at measured test speeds (build places them there): 15.087 and 15.088 m/s are the same test speed.
+    const match = matchSpeeds([2.000247, 9.104, 15.087, 25.002], [2.00019, 9.1041, 15.088, 20, 25.004], 0.05);
+    expect(match.points).toEqual([
+      { speed_mps: 2.000247, oldSpeed_mps: 2.000247, newSpeed_mps: 2.00019 },
+      { speed_mps: 9.104, oldSpeed_mps: 9.104, newSpeed_mps: 9.1041 },
+      { speed_mps: 15.087, oldSpeed_mps: 15.087, newSpeed_mps: 15.088 },
+      { speed_mps: 20, oldSpeed_mps: 20, newSpeed_mps: 20 },
+      { speed_mps: 25.002, oldSpeed_mps: 25.002, newSpeed_mps: 25.004 },
+    ]);
+    expect(match.notCompared).toEqual({ old_mps: [], new_mps: [] });
   });
 });
 

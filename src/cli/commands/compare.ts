@@ -30,6 +30,10 @@ export const command: CommandModule = {
         describe: `Flag an upper gain margin that decreases by this or more, and a lower gain margin (conditionally stable loops) that moves this much closer to 0 dB, dB (default ${HELP_DEFAULTS.gainMarginDrop_dB})`,
       })
       .option('phase-margin-drop-deg', { type: 'number', describe: `Flag a phase margin that decreases by this or more, degrees (default ${HELP_DEFAULTS.phaseMarginDrop_deg})` })
+      .option('speed-tolerance-mps', {
+        type: 'number',
+        describe: `Breakpoints of the two schedules closer than this are the same speed (builds place breakpoints at measured test speeds), m/s (default ${HELP_DEFAULTS.speedTolerance_mps})`,
+      })
       .option('json', { type: 'boolean', default: false, describe: 'Print the comparison as JSON (every compared speed, margin, model parameter and flag) for machines' })
       .option('markdown', { type: 'boolean', default: false, describe: 'Print a Markdown report for a change review: summary, table of gains and margins, model drift, flag list' })
       .epilogue(
@@ -55,6 +59,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     gainChange_pct: threshold(args, 'gain-change-pct'),
     gainMarginDrop_dB: threshold(args, 'gain-margin-drop-dB'),
     phaseMarginDrop_deg: threshold(args, 'phase-margin-drop-deg'),
+    speedTolerance_mps: threshold(args, 'speed-tolerance-mps'),
   };
   const given = Object.fromEntries(Object.entries(thresholds).filter(([, value]) => value !== undefined));
   const { readSchedule } = await import('../../schedule/schedule-file.js');
