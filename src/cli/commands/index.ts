@@ -11,9 +11,9 @@ import { command as check } from './check.js';
 import { command as demo } from './demo.js';
 
 /**
- * Every command of the CLI, in the order `--help` lists them.
+ * Every command of the CLI, in the order `--help` lists them (the pipeline's order).
  * Add a command: write `src/cli/commands/<name>.ts` exporting `command: CommandModule`
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [demo, build, check, makeTestLogs, inspect, identify, exportSchedule, tune, margins, compare];
+export const COMMANDS: readonly CommandModule[] = [demo, inspect, identify, tune, margins, build, check, exportSchedule, compare, makeTestLogs];
