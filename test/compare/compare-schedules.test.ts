@@ -247,3 +247,28 @@ describe('compareSchedules worst margins and check status', () => {
     expect(kinds).toContain('upperGainMarginDrop');
   });
 });
+
+describe('compareSchedules with breakpoints at measured test speeds', () => {
+  it('breakpoints and floors a few mm/s apart are the same speed and setting; each schedule is read at its own breakpoint', () => {
+    const old = fixtureSchedule({ speeds: [2.000247, 3, 4.5, 7, 10, 16] });
+    const next = fixtureSchedule({ speeds: [2.00019, 3, 4.5, 7.004, 10, 16.002] });
+    const comparison = compareSchedules(old, next);
+    expect(comparison.sameBreakpoints).toBe(true);
+    expect(comparison.flags).toEqual([]);
+    expect(comparison.speeds.map((row) => [row.speed_mps, row.newSpeed_mps])).toEqual([
+      [2.000247, 2.00019],
+      [3, 3],
+      [4.5, 4.5],
+      [7, 7.004],
+      [10, 10],
+      [16, 16.002],
+    ]);
+    const at7 = comparison.speeds[3];
+    expect(at7.kp.new).toBe(next.breakpoints[3].kp);
+    expect(at7.phaseMargin_deg.new).toBe(next.breakpoints[3].margins.phaseMargin_deg);
+    // With no tolerance they are different speeds, resampled through each lookup, and the floors differ.
+    const exact = compareSchedules(old, next, { speedTolerance_mps: 0 });
+    expect(exact.sameBreakpoints).toBe(false);
+    expect(exact.settingChanges.map((change) => change.setting)).toEqual(['interpolation.lowSpeedFloor_mps']);
+  });
+});
