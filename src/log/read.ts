@@ -6,9 +6,11 @@
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
 import { CHANNEL_DEFINITIONS, type ChannelName } from './columns.js';
-import { resolveColumns, type ColumnMap, type ResolvedColumn } from './column-map.js';
-import { cellProblem, cleanHeaderCell, detectDelimiter, parseDecimalRange, type Delimiter } from './csv-text.js';
-import type { LogSegment, LogSplit, SteerLog } from './types.js';
+import { resolveColumns, type ColumnMap } from './column-map.js';
+import { cleanHeaderCell, detectDelimiter, parseDecimalRange, type Delimiter } from './csv-text.js';
+import { cellError, checkTimeIncreases, implausibleError, rowLengthError } from './read-errors.js';
+import { countIrregularSteps, medianStep, splitAtGaps } from './time-gaps.js';
+import type { SteerLog } from './types.js';
 
 export const READ_DEFAULTS = {
   /** A time step longer than this many median sample periods splits the log into segments. */
@@ -190,119 +192,4 @@ function lineKind(text: string, from: number, to: number): 'blankLine' | 'commen
     return code === 35 ? 'commentLine' : 'data';
   }
   return 'blankLine';
-}
-
-function medianStep(time_s: Float64Array, rows: number): number {
-  const steps = new Float64Array(rows - 1);
-  for (let i = 1; i < rows; i += 1) steps[i - 1] = time_s[i] - time_s[i - 1];
-  steps.sort();
-  const middle = steps.length >> 1;
-  return steps.length % 2 === 1 ? steps[middle] : 0.5 * (steps[middle - 1] + steps[middle]);
-}
-
-/** Time steps between 1.5 and `gapFactor` median periods (missed samples that do not split the log). */
-function countIrregularSteps(time_s: Float64Array, rows: number, samplePeriod_s: number, gapFactor: number): number {
-  let count = 0;
-  for (let i = 1; i < rows; i += 1) {
-    const step_s = time_s[i] - time_s[i - 1];
-    if (step_s > 1.5 * samplePeriod_s && step_s <= gapFactor * samplePeriod_s) count += 1;
-  }
-  return count;
-}
-
-function splitAtGaps(
-  file: string,
-  rows: number,
-  lineOfRow: Int32Array,
-  maxStep_s: number,
-  channel: (name: ChannelName) => Float64Array | undefined,
-): { segments: LogSegment[]; splits: LogSplit[] } {
-  const time_s = channel('time_s') as Float64Array;
-  const starts = [0];
-  const splits: LogSplit[] = [];
-  for (let i = 1; i < rows; i += 1) {
-    const gap_s = time_s[i] - time_s[i - 1];
-    if (gap_s > maxStep_s) {
-      starts.push(i);
-      splits.push({ line: lineOfRow[i], gap_s });
-    }
-  }
-  const segments: LogSegment[] = starts.map((start, segmentIndex) => {
-    const end = segmentIndex + 1 < starts.length ? starts[segmentIndex + 1] : rows;
-    const cut = (name: ChannelName): Float64Array | undefined => channel(name)?.slice(start, end);
-    const steerAngle_rad = cut('steer_angle_rad');
-    const lateralAcceleration_mps2 = cut('lat_accel_mps2');
-    return {
-      file,
-      segmentIndex,
-      firstLine: lineOfRow[start],
-      time_s: cut('time_s') as Float64Array,
-      speed_mps: cut('speed_mps') as Float64Array,
-      steerCommand_rad: cut('steer_cmd_rad') as Float64Array,
-      yawRate_radps: cut('yaw_rate_radps') as Float64Array,
-      ...(steerAngle_rad === undefined ? {} : { steerAngle_rad }),
-      ...(lateralAcceleration_mps2 === undefined ? {} : { lateralAcceleration_mps2 }),
-    };
-  });
-  return { segments, splits };
-}
-
-function columnLabel(index: number, name: string): string {
-  return `${index + 1} (${name})`;
-}
-
-function rowLengthError(found: number, header: readonly string[], line: number, file: string): SpeedbandError {
-  const short = found < header.length;
-  const index = short ? found : header.length;
-  return new SpeedbandError(
-    short ? 'log.missingCell' : 'log.extraCell',
-    short
-      ? `the row has ${found} cells but the header has ${header.length}; "${header[index]}" is missing — complete or remove the row`
-      : `the row has ${found} cells but the header has ${header.length} — remove the extra cells or add a header name for them`,
-    { location: { file, line, column: short ? columnLabel(index, header[index]) : index + 1 }, details: { found, expected: header.length } },
-  );
-}
-
-function cellError(cell: string, column: ResolvedColumn, line: number, file: string): SpeedbandError {
-  const problem = cellProblem(cell);
-  const location = { file, line, column: columnLabel(column.index, column.header) };
-  const messages: Record<typeof problem, [string, string]> = {
-    empty: ['log.emptyCell', `the ${column.channel} cell is empty — every row needs a number in every used column; fill it or remove the row`],
-    nonFinite: ['log.nonFinite', `${column.channel} is "${cell.trim()}", not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`],
-    decimalComma: ['log.nonNumeric', `${column.channel} is "${cell.trim()}": a decimal comma — write numbers with a decimal point (e.g. 12.5)`],
-    nonNumeric: ['log.nonNumeric', `${column.channel} is "${cell.trim()}", expected a decimal number (e.g. 0.0125 or 1.2e-3) — fix or remove the row`],
-  };
-  const [code, message] = messages[problem];
-  return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell } });
-}
-
-function implausibleError(value: number, raw: number, column: ResolvedColumn, line: number, file: string): SpeedbandError {
-  const definition = CHANNEL_DEFINITIONS[column.channel];
-  const { min, max } = definition.plausible;
-  const range = `${min === null ? '−∞' : min.toFixed(3)} … ${max === null ? '∞' : max.toFixed(3)} ${definition.siUnit}`;
-  return new SpeedbandError(
-    'log.implausibleValue',
-    `${column.channel} is ${raw} ${column.unit}${column.unit === definition.siUnit ? '' : ` (${value.toPrecision(4)} ${definition.siUnit})`}, outside the plausible ${range} — ${definition.implausibleHint}`,
-    { location: { file, line, column: columnLabel(column.index, column.header) }, details: { channel: column.channel, value, min, max } },
-  );
-}
-
-function checkTimeIncreases(previous: number, current: number, previousLine: number, line: number, column: ResolvedColumn, file: string): void {
-  if (current > previous) return;
-  const location = { file, line, column: columnLabel(column.index, column.header) };
-  if (current === previous) {
-    throw new SpeedbandError(
-      'log.duplicateTime',
-      `time_s ${current} appears twice (lines ${previousLine} and ${line}) — remove the duplicate sample`,
-      { location, details: { time_s: current, previousLine } },
-    );
-  }
-  // Enough decimals to tell the two times apart (12.40 then 12.39), at least two.
-  let decimals = 2;
-  while (decimals < 9 && previous.toFixed(decimals) === current.toFixed(decimals)) decimals += 1;
-  throw new SpeedbandError(
-    'log.timeNotIncreasing',
-    `time_s must increase: ${previous.toFixed(decimals)} then ${current.toFixed(decimals)} at line ${line} — sort the log or split it`,
-    { location, details: { previous_s: previous, current_s: current, previousLine } },
-  );
 }

@@ -1,0 +1,68 @@
+/**
+ * The errors of log reading: each names the file, the 1-based line and the
+ * column (number and header name), says what was found and what to do.
+ */
+import { SpeedbandError } from '../core/errors.js';
+import { CHANNEL_DEFINITIONS } from './columns.js';
+import type { ResolvedColumn } from './column-map.js';
+import { cellProblem } from './csv-text.js';
+
+function columnLabel(index: number, name: string): string {
+  return `${index + 1} (${name})`;
+}
+
+export function rowLengthError(found: number, header: readonly string[], line: number, file: string): SpeedbandError {
+  const short = found < header.length;
+  const index = short ? found : header.length;
+  return new SpeedbandError(
+    short ? 'log.missingCell' : 'log.extraCell',
+    short
+      ? `the row has ${found} cells but the header has ${header.length}; "${header[index]}" is missing — complete or remove the row`
+      : `the row has ${found} cells but the header has ${header.length} — remove the extra cells or add a header name for them`,
+    { location: { file, line, column: short ? columnLabel(index, header[index]) : index + 1 }, details: { found, expected: header.length } },
+  );
+}
+
+export function cellError(cell: string, column: ResolvedColumn, line: number, file: string): SpeedbandError {
+  const problem = cellProblem(cell);
+  const location = { file, line, column: columnLabel(column.index, column.header) };
+  const messages: Record<typeof problem, [string, string]> = {
+    empty: ['log.emptyCell', `the ${column.channel} cell is empty — every row needs a number in every used column; fill it or remove the row`],
+    nonFinite: ['log.nonFinite', `${column.channel} is "${cell.trim()}", not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`],
+    decimalComma: ['log.nonNumeric', `${column.channel} is "${cell.trim()}": a decimal comma — write numbers with a decimal point (e.g. 12.5)`],
+    nonNumeric: ['log.nonNumeric', `${column.channel} is "${cell.trim()}", expected a decimal number (e.g. 0.0125 or 1.2e-3) — fix or remove the row`],
+  };
+  const [code, message] = messages[problem];
+  return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell } });
+}
+
+export function implausibleError(value: number, raw: number, column: ResolvedColumn, line: number, file: string): SpeedbandError {
+  const definition = CHANNEL_DEFINITIONS[column.channel];
+  const { min, max } = definition.plausible;
+  const range = `${min === null ? '−∞' : min.toFixed(3)} … ${max === null ? '∞' : max.toFixed(3)} ${definition.siUnit}`;
+  return new SpeedbandError(
+    'log.implausibleValue',
+    `${column.channel} is ${raw} ${column.unit}${column.unit === definition.siUnit ? '' : ` (${value.toPrecision(4)} ${definition.siUnit})`}, outside the plausible ${range} — ${definition.implausibleHint}`,
+    { location: { file, line, column: columnLabel(column.index, column.header) }, details: { channel: column.channel, value, min, max } },
+  );
+}
+
+export function checkTimeIncreases(previous: number, current: number, previousLine: number, line: number, column: ResolvedColumn, file: string): void {
+  if (current > previous) return;
+  const location = { file, line, column: columnLabel(column.index, column.header) };
+  if (current === previous) {
+    throw new SpeedbandError(
+      'log.duplicateTime',
+      `time_s ${current} appears twice (lines ${previousLine} and ${line}) — remove the duplicate sample`,
+      { location, details: { time_s: current, previousLine } },
+    );
+  }
+  // Enough decimals to tell the two times apart (12.40 then 12.39), at least two.
+  let decimals = 2;
+  while (decimals < 9 && previous.toFixed(decimals) === current.toFixed(decimals)) decimals += 1;
+  throw new SpeedbandError(
+    'log.timeNotIncreasing',
+    `time_s must increase: ${previous.toFixed(decimals)} then ${current.toFixed(decimals)} at line ${line} — sort the log or split it`,
+    { location, details: { previous_s: previous, current_s: current, previousLine } },
+  );
+}
