@@ -9,7 +9,10 @@ import { EXIT } from '../io.js';
 
 export const command: CommandModule = {
   command: 'inspect <logs..>',
-  describe: 'Read step-steer test logs and report their channels, sampling, splits, the steps found with ISO 7401-style metrics, and why any candidate step was rejected',
+  describe:
+    'Read step-steer test logs and report their channels, sampling, splits, the steps found with ISO 7401-style metrics ' +
+    '(steady yaw gain; response time from 50 % steer input to 90 % steady yaw rate; peak time; overshoot), and why any candidate step was rejected. ' +
+    'Exit 0 when every log was read and has a usable step, 1 when a log has none, 2 when a log cannot be read.',
   builder: (yargs) =>
     yargs
       .positional('logs', { type: 'string', array: true, describe: 'CSV log files (header line, then one row per sample)' })
