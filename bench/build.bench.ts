@@ -1,0 +1,57 @@
+/**
+ * The main job's benchmark (issue: build/check/export). Figures:
+ * - whole-process `speedband build` on the parcel van's logs (built CLI), wall time and peak memory;
+ *   target < 1 s (stretch 0.6 s) on the 2-core machine;
+ * - in the same run, the whole-process time merely to read and parse the same logs, and the ratio,
+ *   so that start-up and import costs stay visible;
+ * - the dense check of 2,000 grid speeds in-process (target < 0.5 s).
+ * Run `npm run build` first: the CLI runs from dist/.
+ */
+import { mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { buildSchedule } from '../src/build/build-schedule.js';
+import { recheckSchedule, recordedCheckModel } from '../src/build/recheck-schedule.js';
+import { measureProcess, printFigure, timeMs } from './measure.js';
+
+const VAN = 'vehicles/parcel-van';
+const logs = readdirSync(join(VAN, 'logs'))
+  .filter((name) => name.endsWith('.csv'))
+  .sort()
+  .map((name) => join(VAN, 'logs', name));
+const work = mkdtempSync(join(tmpdir(), 'speedband-bench-build-'));
+const readScript = join(work, 'read-only.mjs');
+writeFileSync(
+  readScript,
+  `import { readSteerLog } from '${join(process.cwd(), 'dist/log/read.js')}';\nfor (const file of process.argv.slice(2)) readSteerLog(file, {});\n`,
+);
+
+const median = <T>(runs: T[], key: (run: T) => number): T => [...runs].sort((p, q) => key(p) - key(q))[Math.floor(runs.length / 2)];
+const builds = Array.from({ length: 5 }, (_, k) =>
+  measureProcess(process.execPath, ['bin/speedband.js', 'build', '--vehicle', VAN, '--logs', ...logs, '--out', join(work, `schedule-${k}.json`)]),
+);
+const reads = Array.from({ length: 5 }, () => measureProcess(process.execPath, [readScript, ...logs]));
+const build = median(builds, (run) => run.wall_ms);
+const read = median(reads, (run) => run.wall_ms);
+printFigure(`build, parcel van (${logs.length} logs), whole process, median of 5`, build.wall_ms, 'ms', '< 1000 ms, stretch 600 ms');
+printFigure('build, peak memory', build.peakMemory_MB ?? NaN, 'MB');
+printFigure('read + parse the same logs only, whole process, median of 5', read.wall_ms, 'ms');
+printFigure('ratio build / bare read', build.wall_ms / read.wall_ms, '×');
+
+const result = buildSchedule({ vehicle: VAN, logPaths: logs });
+const model = recordedCheckModel(result.schedule);
+if (model === null) throw new Error('no model recorded');
+recheckSchedule({ schedule: result.schedule, model, gridSpeeds: 200 }); // warm-up
+const checks: number[] = [];
+let points = 0;
+for (let k = 0; k < 3; k += 1) {
+  checks.push(
+    await timeMs(() => {
+      points = recheckSchedule({ schedule: result.schedule, model, gridSpeeds: 2000 }).points.length;
+    }),
+  );
+}
+checks.sort((p, q) => p - q);
+printFigure(`dense check, ${points} grid speeds, in-process (median of 3)`, checks[1], 'ms', '< 500 ms');
+printFigure('dense check, loops analysed per second', (points / checks[1]) * 1000, 'loops/s');
+rmSync(work, { recursive: true, force: true });
