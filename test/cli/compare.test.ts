@@ -89,3 +89,34 @@ describe('speedband compare OLD NEW', () => {
     expect(result.out).toMatch(/Exit code: 0 nothing flagged; 1 something flagged/);
   });
 });
+
+describe('speedband compare on schedules written by speedband build (demo van before and after its change)', () => {
+  it('reports model drift from the joint single-track fits the build records, in the direction of the vehicle files', async () => {
+    // A small plan keeps the test quick: 3 breakpoints, 20 check speeds (the build's defaults are larger).
+    const plan = join(folder, 'plan.json');
+    writeFileSync(plan, JSON.stringify({ breakpoints: { count: 3 }, check: { gridSpeeds: 20, maxInsertedBreakpoints: 0 } }));
+    const built = async (vehicle: string) => {
+      const out = join(folder, `${vehicle}.json`);
+      const logs = ['08.00', '25.00'].map((speed) => join('vehicles', vehicle, 'logs', `synthetic-steps-${speed}mps.csv`));
+      const io = recordingIo();
+      const code = await runCli(['build', '--vehicle', join('vehicles', vehicle), '--logs', ...logs, '--plan', plan, '--out', out, '--allow-failing'], io);
+      expect(code, io.err()).toBe(0);
+      return out;
+    };
+    const before = await built('parcel-van');
+    const after = await built('parcel-van-loaded');
+    const result = await compare(before, after, '--json');
+    const parsed = JSON.parse(result.out) as {
+      flags: unknown[];
+      gainsComparable: boolean;
+      modelDrift: { available: boolean; parameters?: { name: string; change: number }[] };
+    };
+    expect(result.code).toBe(parsed.flags.length > 0 ? 1 : 0);
+    expect(parsed.gainsComparable).toBe(true);
+    expect(parsed.modelDrift.available).toBe(true);
+    const change = (name: string) => parsed.modelDrift.parameters!.find((parameter) => parameter.name === name)!.change;
+    // Source: the vehicle files (rear stiffness 180 → 160 kN/rad) and K = (m/L)(b/Cf − a/Cr) (Gillespie 1992): both fall.
+    expect(change('rearCorneringStiffness_NPerRad')).toBeLessThan(0);
+    expect(change('understeerGradient_radPerMps2')).toBeLessThan(0);
+  }, 30_000);
+});
