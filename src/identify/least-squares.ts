@@ -28,6 +28,12 @@ import { levenbergMarquardt } from 'ml-levenberg-marquardt';
  *   we pass weights 1 and scale residuals ourselves (residualScale).
  */
 
+/** The library's own damping factors and limits (levenberg_marquardt.ts), passed explicitly. */
+const DAMPING_STEP_UP = 11;
+const DAMPING_STEP_DOWN = 9;
+const MIN_DAMPING = 1e-7;
+const MAX_DAMPING = 1e7;
+
 export type StopReason = 'converged' | 'iterationCap' | 'nonFinite';
 
 export interface LeastSquaresProblem {
@@ -65,7 +71,7 @@ export interface LeastSquaresOptions {
 export const LEAST_SQUARES_DEFAULTS: LeastSquaresOptions = {
   maxIterations: 200,
   chunkIterations: 3,
-  relativeSsrTolerance: 1e-8,
+  relativeSsrTolerance: 1e-7,
   relativeParameterTolerance: 1e-7,
   centralDifference: false,
   relativeDifferenceStep: 1e-7,
@@ -127,15 +133,20 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
   let ssr = sumOfSquares(data, evaluate(current));
   if (Number.isNaN(ssr)) return { parameters: toPhysical(current), ssr, iterations: 0, stopReason: 'nonFinite' };
   let iterations = 0;
+  // The library restarts its damping at every call and reports none back: carry an estimate.
+  // A chunk that improves lowers it; one that cannot improve raises it as the library would
+  // have over the chunk (×11 per iteration). Without improvement even at the library's
+  // largest damping (1e7: a tiny gradient step), the point is a minimum to working precision.
+  let damping = options.damping;
   while (iterations < options.maxIterations) {
     const chunk = Math.min(options.chunkIterations, options.maxIterations - iterations);
     nonFiniteSeen = false;
     const result = levenbergMarquardt({ x: index, y: scaledData }, parameterized, {
       initialValues: current,
       weights: 1,
-      damping: options.damping,
-      dampingStepUp: 11,
-      dampingStepDown: 9,
+      damping,
+      dampingStepUp: DAMPING_STEP_UP,
+      dampingStepDown: DAMPING_STEP_DOWN,
       improvementThreshold: 1e-3,
       maxIterations: chunk,
       errorTolerance: 0,
@@ -150,16 +161,19 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
     if (Number.isNaN(nextSsr) || (nonFiniteSeen && result.iterations < chunk)) {
       return { parameters: toPhysical(current), ssr, iterations, stopReason: 'nonFinite' };
     }
-    const ssrChange = Math.abs(ssr - nextSsr);
-    let parameterChange = 0;
-    for (let i = 0; i < p; i++) parameterChange = Math.max(parameterChange, Math.abs(next[i] - current[i]) / Math.max(Math.abs(current[i]), 1));
-    const improved = nextSsr <= ssr;
-    if (improved) {
+    if (nextSsr < ssr) {
+      const ssrChange = ssr - nextSsr;
+      let parameterChange = 0;
+      for (let i = 0; i < p; i++) parameterChange = Math.max(parameterChange, Math.abs(next[i] - current[i]) / Math.max(Math.abs(current[i]), 1));
       current = next;
       ssr = nextSsr;
-    }
-    if (ssr === 0 || ssrChange <= options.relativeSsrTolerance * ssr || parameterChange <= options.relativeParameterTolerance) {
-      return { parameters: toPhysical(current), ssr, iterations, stopReason: 'converged' };
+      damping = Math.max(damping / DAMPING_STEP_DOWN, MIN_DAMPING);
+      if (ssr === 0 || ssrChange <= options.relativeSsrTolerance * ssr || parameterChange <= options.relativeParameterTolerance) {
+        return { parameters: toPhysical(current), ssr, iterations, stopReason: 'converged' };
+      }
+    } else {
+      if (ssr === 0 || damping >= MAX_DAMPING) return { parameters: toPhysical(current), ssr, iterations, stopReason: 'converged' };
+      damping = Math.min(damping * Math.pow(DAMPING_STEP_UP, chunk), MAX_DAMPING);
     }
   }
   return { parameters: toPhysical(current), ssr, iterations, stopReason: 'iterationCap' };
