@@ -4,7 +4,7 @@ export { COMPARE_DEFAULTS, resolveThresholds } from './defaults.js';
 export { compareSchedules } from './compare-schedules.js';
 export { gainChange, marginChange, marginLoss, type MarginSense } from './changes.js';
 export { matchSpeeds, marginsAtSpeed, type ComparedPoint, type SpeedMatch, type MarginsAtSpeed, type MarginName } from './resample.js';
-export { modelDrift, MODEL_PARAMETERS } from './model-drift.js';
+export { modelDrift, MODEL_PARAMETERS, OPTIONAL_MODEL_PARAMETERS } from './model-drift.js';
 export { settingChanges } from './settings.js';
 export { comparisonText } from './comparison-text.js';
 export { comparisonMarkdown } from './comparison-markdown.js';

@@ -50,4 +50,20 @@ describe('compare: the parcel van schedule against the loaded van schedule (head
     expect(byName.frontCorneringStiffness_NPerRad.change).toBe(0);
     expect(byName.understeerGradient_radPerMps2.change).toBeLessThan(0);
   });
+
+  it('derives the characteristic speed √(L/K) of each model and reports mass, inertia and axle distances', () => {
+    if (!comparison.modelDrift.available) throw new Error('model drift expected');
+    const byName = Object.fromEntries(comparison.modelDrift.parameters.map((parameter) => [parameter.name, parameter]));
+    // Source: Gillespie 1992 §6, characteristic speed √(L/K), K = (m/L)(b/Cf − a/Cr), from the vehicle files.
+    const characteristic = (vehicle: Vehicle) => {
+      const L = vehicle.cgToFrontAxle_m + vehicle.cgToRearAxle_m;
+      const K = (vehicle.mass_kg / L) * (vehicle.cgToRearAxle_m / vehicle.frontCorneringStiffness_NPerRad! - vehicle.cgToFrontAxle_m / vehicle.rearCorneringStiffness_NPerRad!);
+      return Math.sqrt(L / K);
+    };
+    expect(byName.characteristicSpeed_mps.old).toBeCloseTo(characteristic(van), 9);
+    expect(byName.characteristicSpeed_mps.new).toBeCloseTo(characteristic(loaded), 9);
+    expect(byName.characteristicSpeed_mps.change).toBeGreaterThan(0);
+    expect(byName.mass_kg.change).toBe(900);
+    expect(byName.cgToFrontAxle_m.change).toBeCloseTo(0.18, 12);
+  });
 });
