@@ -8,6 +8,7 @@ import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { sha256Hex } from '../core/files.js';
 import { identifyFromLogs } from '../identify/identify-from-logs.js';
 import type { ModelsFile } from '../identify/models-schema.js';
+import type { ReadLogOptions } from '../log/read.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { readPlan, resolvePlan, ruleParametersAt, type PartialPlan, type Plan } from '../schedule/plan.js';
 import type { RefineResult } from '../schedule/refine.js';
@@ -30,6 +31,8 @@ export interface BuildInput {
   /** A plan file path; or `plan`, a plan object; neither: every default. */
   readonly planFile?: string;
   readonly plan?: PartialPlan;
+  /** How to read the logs (column names and units). */
+  readonly readOptions?: ReadLogOptions;
   /** Progress lines for long runs. */
   readonly progress?: (text: string) => void;
 }
@@ -67,7 +70,7 @@ export function buildSchedule(input: BuildInput): BuildResult {
   const progress = input.progress ?? (() => {});
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
-  const models = input.models ?? identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, progress });
+  const models = input.models ?? identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, progress, ...(input.readOptions === undefined ? {} : { readOptions: input.readOptions }) });
   const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
   const resolved = input.planFile !== undefined ? readPlan(input.planFile, { testSpeeds_mps }) : resolvePlan(input.plan ?? {}, { testSpeeds_mps });
   const checkModel = checkModelFromModels(models, vehicle, resolved.check.model);

@@ -1,6 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
+import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband build`: logs + vehicle (+ plan) → identified models → gains per breakpoint →
@@ -24,9 +25,11 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   // Read the baseline first: a bad baseline is bad input, found before minutes of work.
   const baseline = args.baseline === undefined ? undefined : readSchedule(String(args.baseline));
   const out = String(args.out);
+  const columns = await logColumnsFromArgs(args);
   const result = buildSchedule({
     vehicle: String(args.vehicle),
     logPaths,
+    ...(columns === undefined ? {} : { readOptions: { columns } }),
     ...(modelsIn === undefined ? {} : { models: readModels(modelsIn) }),
     ...(args.plan === undefined ? {} : { planFile: String(args.plan) }),
     progress: io.progress,
@@ -106,7 +109,7 @@ export const command: CommandModule = {
   command: 'build',
   describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, write schedule.json',
   builder: (yargs) =>
-    yargs
+    withLogColumnOptions(yargs)
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder' })
       .option('logs', { type: 'array', string: true, describe: 'Step-test logs (CSV, columns time_s, speed_mps, steer_cmd_rad, yaw_rate_radps …) at two or more speeds' })
       .option('models', { type: 'string', describe: 'Reuse an identification (models.json from `speedband identify`) instead of --logs' })

@@ -1,6 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
+import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband check`: re-verify a schedule independently of how it was made — schema and
@@ -38,7 +39,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     const models =
       modelsPath !== undefined
         ? (await import('../../identify/models-file.js')).readModels(modelsPath)
-        : (await import('../../identify/identify-from-logs.js')).identifyFromLogs({ vehicle: vehicleFile, logPaths, progress: io.progress });
+        : (await import('../../identify/identify-from-logs.js')).identifyFromLogs({ vehicle: vehicleFile, logPaths, progress: io.progress, readOptions: { columns: await logColumnsFromArgs(args) } });
     model = checkModelFromModels(models, vehicle, schedule.check.model.kind);
   } else {
     model = recordedCheckModel(schedule);
@@ -89,7 +90,7 @@ export const command: CommandModule = {
   command: 'check <schedule>',
   describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), and stability margins of its own gains at every speed of its range. Exit 0 passed, 1 failed, 2 bad input',
   builder: (yargs) =>
-    yargs
+    withLogColumnOptions(yargs)
       .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build' })
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
       .option('models', { type: 'string', describe: 'Check on this identification (models.json)' })

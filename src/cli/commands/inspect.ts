@@ -1,32 +1,22 @@
 import { READ_DEFAULTS, readSteerLog } from '../../log/read.js';
 import { SEGMENT_DEFAULTS } from '../../log/segment.js';
-import { mergeColumnMaps } from '../../log/column-map.js';
 import { inspectLog, type LogInspection } from '../../log/inspect.js';
 import { formatInspection, formatInspectionSummary } from '../../log/inspection-text.js';
 import { describeError, isSpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
+import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
 import { SAFETY_EPILOGUE } from '../safety.js';
 
 export const command: CommandModule = {
   command: 'inspect <logs..>',
   describe: 'Read step-steer test logs: channels, sampling, splits, the steps found with ISO 7401-style metrics, and why a candidate step was rejected',
   builder: (yargs) =>
-    yargs
+    withLogColumnOptions(yargs)
       .positional('logs', { type: 'string', array: true, describe: 'CSV log files (header line, then one row per sample)' })
       .option('vehicle', {
         type: 'string',
         describe: 'Vehicle file (vehicle.json) or a folder holding one: gives the steering ratio for steering-wheel columns and the steer-angle limit for the actuator-limit check',
-      })
-      .option('log-profile', {
-        type: 'string',
-        describe: 'JSON file naming the columns and their units, e.g. {"columns": {"speed_mps": {"from": "v", "unit": "km/h"}}}',
-      })
-      .option('column', {
-        type: 'string',
-        array: true,
-        describe:
-          'Map one channel, CHANNEL=HEADER[:UNIT] (overrides the profile; repeatable). Channels: time_s, speed_mps, steer_cmd_rad, yaw_rate_radps, steer_angle_rad, lat_accel_mps2. Units: s, ms, m/s, km/h, mph, rad, deg, steering-wheel-rad, steering-wheel-deg, rad/s, deg/s, m/s2',
       })
       .option('steering-ratio', { type: 'number', describe: 'Steering-wheel angle per road-wheel angle, for steering-wheel columns (default: the vehicle file\'s steeringRatio)' })
       .option('min-hold-s', { type: 'number', default: SEGMENT_DEFAULTS.minHold_s, describe: 'Shortest hold after a step that is accepted, s' })
@@ -50,11 +40,8 @@ export const command: CommandModule = {
     ['speedband inspect run7.csv --log-profile logger.json --json', 'Column names and units from a profile file, machine-readable output'],
   ],
   run: async (args, io) => {
-    const { loadLogProfile, parseColumnOptions } = await import('../../log/profile.js');
-
     const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
-    const profile = args['log-profile'] === undefined ? undefined : loadLogProfile(String(args['log-profile']));
-    const columns = mergeColumnMaps(profile?.columns, parseColumnOptions((args.column as string[] | undefined) ?? []));
+    const columns = await logColumnsFromArgs(args);
     const steeringRatio = (args['steering-ratio'] as number | undefined) ?? vehicle?.steeringRatio;
     const segmentOptions = {
       minHold_s: Number(args['min-hold-s']),

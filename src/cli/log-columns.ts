@@ -1,0 +1,27 @@
+import type { Argv } from 'yargs';
+import type { ColumnMap } from '../log/column-map.js';
+
+/** The column-map options every command that reads logs shares: a log-profile file and per-channel overrides. */
+export function withLogColumnOptions(yargs: Argv): Argv {
+  return yargs
+    .option('log-profile', {
+      type: 'string',
+      describe: 'JSON file naming the log columns and their units, e.g. {"columns": {"speed_mps": {"from": "v", "unit": "km/h"}}}',
+    })
+    .option('column', {
+      type: 'string',
+      array: true,
+      describe:
+        'Map one channel, CHANNEL=HEADER[:UNIT] (overrides the profile; repeatable). Channels: time_s, speed_mps, steer_cmd_rad, yaw_rate_radps, steer_angle_rad, lat_accel_mps2. Units: s, ms, m/s, km/h, mph, rad, deg, steering-wheel-rad, steering-wheel-deg, rad/s, deg/s, m/s2',
+    });
+}
+
+/** The column map of --log-profile and --column (the options win), or undefined when neither is given. */
+export async function logColumnsFromArgs(args: Record<string, unknown>): Promise<ColumnMap | undefined> {
+  const columnOptions = (args.column as string[] | undefined) ?? [];
+  if (args['log-profile'] === undefined && columnOptions.length === 0) return undefined;
+  const { loadLogProfile, parseColumnOptions } = await import('../log/profile.js');
+  const { mergeColumnMaps } = await import('../log/column-map.js');
+  const profile = args['log-profile'] === undefined ? undefined : loadLogProfile(String(args['log-profile']));
+  return mergeColumnMaps(profile?.columns, parseColumnOptions(columnOptions));
+}
