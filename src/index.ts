@@ -193,3 +193,19 @@ export {
 
 // After a vehicle change: compare two schedules (gains, margins, model drift, flags).
 export * from './compare/index.js';
+// The main job: build, re-check, demo (src/build/)
+export { buildSchedule, planLoopAndController, type BuildInput, type BuildResult } from './build/build-schedule.js';
+export {
+  checkModelFromModels,
+  checkModelFromSummary,
+  parseCheckModelSummary,
+  lumpedAt,
+  type CheckModel,
+  type CheckModelKind,
+  type CheckModelSummary,
+  type LumpedAtSpeed,
+} from './build/check-model.js';
+export { makeLoopAnalysis } from './build/loop-analysis.js';
+export { recheckSchedule, recordedCheckModel, scheduleLoopAndController, type RecheckInput as ScheduleRecheckInput } from './build/recheck-schedule.js';
+export { recheckWithRecordedModel } from './build/quantised-recheck.js';
+export { runDemo, bundledVehicles, BUNDLED_VEHICLES, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
