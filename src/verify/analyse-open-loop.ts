@@ -132,8 +132,11 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   }
   const critical = margins.phaseCrossovers.filter((c) => c.refined).map((c) => ({ frequency_radps: c.frequency_radps, magnitude: c.magnitude }));
   const mLast = margins.compiled.denominator[margins.compiled.denominator.length - 1];
-  if (margins.originPoles === 0 && mLast !== 0 && discrete === null) {
-    const zeroValue = numerator[numerator.length - 1] / mLast;
+  // ω = 0: L(0) real and negative (no integrator) is a critical gain too; a discrete controller contributes C(z = 1).
+  const sum = (values: readonly number[]): number => values.reduce((total, value) => total + value, 0);
+  const discreteDc = discrete === null ? 1 : sum(discrete.denominator) === 0 ? Number.NaN : sum(discrete.numerator) / sum(discrete.denominator);
+  if (margins.originPoles === 0 && mLast !== 0 && Number.isFinite(discreteDc)) {
+    const zeroValue = (numerator[numerator.length - 1] / mLast) * discreteDc;
     if (zeroValue < 0) critical.push({ frequency_radps: 0, magnitude: -zeroValue });
   }
   let lower: { magnitude: number; frequency: number } | null = null;
