@@ -16,7 +16,17 @@ import { readSteerLog } from '../src/log/read.js';
 import { findStepTests } from '../src/log/segment.js';
 import { loadVehicle } from '../src/vehicle/load.js';
 import { generateTestLog } from '../src/vehicle/test-logs.js';
+import { spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
 import { measureProcess, printFigure, timeMs } from './measure.js';
+
+/** CPU time (user + system, ms) of a whole command, from GNU time; NaN where /usr/bin/time is absent. Wall time on a shared machine includes waiting. */
+function processCpu_ms(command: string, args: readonly string[]): number {
+  if (!existsSync('/usr/bin/time')) return Number.NaN;
+  const result = spawnSync('/usr/bin/time', ['-f', 'cpu=%U+%S', command, ...args], { encoding: 'utf8', stdio: ['ignore', 'ignore', 'pipe'] });
+  const match = /cpu=([\d.]+)\+([\d.]+)/.exec(result.stderr ?? '');
+  return match ? 1000 * (Number(match[1]) + Number(match[2])) : Number.NaN;
+}
 
 const VEHICLE = 'vehicles/parcel-van';
 const folder = mkdtempSync(join(tmpdir(), 'speedband-bench-identify-'));
@@ -35,6 +45,13 @@ try {
   const demoWalls = demoRuns.map((r) => r.wall_ms).sort((a, b) => a - b);
   printFigure('identify, demo van logs, whole process (median of 3)', demoWalls[1], 'ms', '< 1000 ms');
   printFigure('identify, demo van logs, peak memory', demoRuns[1].peakMemory_MB ?? NaN, 'MB');
+  const demoArgs = ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', ...demoLogs, '--out', join(folder, 'demo.json'), '--force'];
+  printFigure('identify, demo van logs, whole-process CPU time (user + system)', processCpu_ms(process.execPath, demoArgs), 'ms');
+  const halfLogs = demoLogs.filter((_, i) => i % 2 === 0);
+  const halfArgs = ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', ...halfLogs, '--out', join(folder, 'half.json'), '--force'];
+  const half = measureProcess(process.execPath, halfArgs);
+  printFigure(`identify, ${halfLogs.length} of the demo logs (about 40 steps), whole process`, half.wall_ms, 'ms', '< 1000 ms');
+  printFigure(`identify, ${halfLogs.length} of the demo logs, whole-process CPU time`, processCpu_ms(process.execPath, halfArgs), 'ms');
 
   // One-hour log: blocks of 8 steps with straight driving in between, time continuous.
   const vehicle = loadVehicle(VEHICLE);
@@ -68,6 +85,7 @@ try {
   const hour = measureProcess(process.execPath, ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', hourLog, '--out', join(folder, 'hour.json'), '--force']);
   printFigure('identify, one-hour log, whole process', hour.wall_ms, 'ms', '< 10000 ms');
   printFigure('identify, one-hour log, peak memory', hour.peakMemory_MB ?? NaN, 'MB', '< 500 MB');
+  printFigure('identify, one-hour log, whole-process CPU time', processCpu_ms(process.execPath, ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', hourLog, '--out', join(folder, 'hour.json'), '--force']), 'ms');
 
   // In-process fit rates (after one warm-up pass).
   for (const step of steps.slice(0, 5)) identifyStep(step, IDENTIFY_DEFAULTS);
