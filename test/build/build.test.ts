@@ -131,6 +131,31 @@ describe('speedband check', () => {
   });
 });
 
+describe('the refit flow on the changed demo vehicle', () => {
+  it('answers whether the old gains are still safe: they fail at high speed on the loaded van with softer rear tyres, and hold at low speed', async () => {
+    const loaded = 'vehicles/parcel-van-loaded';
+    const logs = readdirSync(join(loaded, 'logs'))
+      .filter((name) => name.endsWith('.csv'))
+      .sort()
+      .map((name) => join(loaded, 'logs', name));
+    const io = recordingIo();
+    const code = await runCli(['build', '--vehicle', loaded, '--logs', ...logs, '--baseline', schedulePath, '--out', join(dir, 'loaded.json'), '--json'], io);
+    const report = JSON.parse(io.out()) as {
+      status: string;
+      baseline: { passedOnNewModel: boolean; failing: { speed_mps: number }[] };
+    };
+    // The new schedule passes its own check; the old one does not, so the command exits 1.
+    expect(report.status).toBe('passed');
+    expect(report.baseline.passedOnNewModel).toBe(false);
+    expect(code).toBe(1);
+    // Less understeer (K = (m/L)(b/Cf − a/Cr) falls: rear CG shift and softer rear tyres, Gillespie 1992) raises the
+    // yaw gain vx/(L + K·vx²) most at high speed, so the old gains fail there first (common practice: check high speed).
+    const failing = report.baseline.failing.map((point) => point.speed_mps);
+    expect(Math.min(...failing)).toBeGreaterThan(10);
+    expect(Math.max(...failing)).toBeCloseTo(25, 0);
+  });
+});
+
 describe('breakpoint margins against scipy', () => {
   it('agree with an independent python computation of the same sampled loop (single-track plant, backward-Euler PID, hold and latency)', () => {
     const schedule: ScheduleFile = readSchedule(schedulePath);
