@@ -28,8 +28,8 @@ export interface StepIdentification {
 }
 
 /**
- * Identify one step: FOPDT always; second order with and without a zero when asked;
- * the structure with the lowest BIC is chosen. BIC rather than AIC: with ~1,000 samples
+ * Identify one step: FOPDT always; second order without a zero when asked, and with a zero
+ * when the model without it leaves non-white residuals; the structure with the lowest BIC is chosen. BIC rather than AIC: with ~1,000 samples
  * per step its ln(n) ≈ 7 penalty per parameter keeps the FOPDT (which the tuning rules
  * need) unless a second-order model is clearly better, and it is consistent (picks the
  * true order as n grows; Schwarz 1978). The quality gate applies to the FOPDT fit.
@@ -38,7 +38,13 @@ export function identifyStep(step: StepTest, options: IdentifyOptions): StepIden
   const signals = yawSignals(step);
   const fopdt = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, biasMode: options.biasMode, hold: options.hold });
   const secondOrder = options.fitSecondOrder ? fitSecondOrder(signals, fopdt.model, false, options.biasMode, options.hold) : null;
-  const secondOrderZero = secondOrder !== null ? fitSecondOrder(signals, secondOrder.model, true, options.biasMode, options.hold) : null;
+  // The zero is fitted only when the model without it leaves structure in the residuals (Ljung–Box
+  // rejects whiteness): with white residuals the extra parameter cannot lower the BIC by more than
+  // noise (on the demo logs it never did), and the fit is the slowest of the three.
+  const secondOrderZero =
+    secondOrder !== null && !(secondOrder.fit.stopReason === 'converged' && secondOrder.fit.quality.whiteness.white)
+      ? fitSecondOrder(signals, secondOrder.model, true, options.biasMode, options.hold)
+      : null;
   const bic: Partial<Record<ModelStructure, number>> = { fopdt: fopdt.fit.quality.bic };
   if (secondOrder !== null && secondOrder.fit.stopReason === 'converged') bic['second-order'] = secondOrder.fit.quality.bic;
   if (secondOrderZero !== null && secondOrderZero.fit.stopReason === 'converged') bic['second-order-zero'] = secondOrderZero.fit.quality.bic;

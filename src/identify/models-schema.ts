@@ -67,7 +67,9 @@ export interface TestRecord {
   readonly direction: 'left' | 'right';
   readonly yawNoise_radps: number;
   readonly fopdt: StepFopdtRecord;
+  /** Null when second-order fits were switched off or gave non-finite values. */
   readonly secondOrder: SecondOrderRecord | null;
+  /** Null also when not needed: fitted only when the model without zero leaves non-white residuals. */
   readonly secondOrderZero: SecondOrderRecord | null;
   /** Structure with the lowest BIC. */
   readonly chosenModel: ModelStructureName;
