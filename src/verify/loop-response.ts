@@ -12,7 +12,7 @@
  * Horner angle is then moved to the branch nearest this continuous phase, which keeps
  * the Horner accuracy and the continuity.
  */
-import { polynomialRoots } from '../lti/roots.js';
+import { analysisRoots } from './small-roots.js';
 import type { Complex } from '../lti/types.js';
 
 /** Roots compiled for the continuous-angle sum. */
@@ -96,8 +96,8 @@ function compileDiscrete(d: { numerator: readonly number[]; denominator: readonl
     numerator: Float64Array.from(d.numerator),
     denominator: Float64Array.from(d.denominator),
     sampleTime_s: d.sampleTime_s,
-    zeros: discreteRootAngles(d.numerator.length > 1 ? polynomialRoots(d.numerator) : []),
-    poles: discreteRootAngles(d.denominator.length > 1 ? polynomialRoots(d.denominator) : []),
+    zeros: discreteRootAngles(d.numerator.length > 1 ? analysisRoots(d.numerator) : []),
+    poles: discreteRootAngles(d.denominator.length > 1 ? analysisRoots(d.denominator) : []),
     leadPhase_rad: d.numerator[0] / d.denominator[0] < 0 ? Math.PI : 0,
   };
 }

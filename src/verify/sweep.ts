@@ -2,7 +2,7 @@
  * One loop swept over frequency: its roots classified (origin, right half-plane, other
  * axis poles), the band and grid, and the crossings found on it.
  */
-import { polynomialRoots } from '../lti/roots.js';
+import { analysisRoots } from './small-roots.js';
 import type { Complex } from '../lti/types.js';
 import { findGainCrossovers, findPhaseCrossovers, type GainCrossover, type PhaseCrossover } from './crossings.js';
 import { ANALYSIS_DEFAULTS } from './defaults.js';
@@ -43,8 +43,8 @@ export function sweepLoop(
   discrete: OpenLoop['discreteController'] | null,
   withGainCrossovers: boolean,
 ): Sweep {
-  const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? polynomialRoots(numerator) : [];
-  const poles: Complex[] = denominator.length > 1 ? polynomialRoots(denominator) : [];
+  const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? analysisRoots(numerator) : [];
+  const poles: Complex[] = denominator.length > 1 ? analysisRoots(denominator) : [];
   let scale = 1;
   for (const r of [...zeros, ...poles]) scale = Math.max(scale, Math.hypot(r.re, r.im));
   const axisTolerance = ANALYSIS_DEFAULTS.axisRelativeTolerance * scale;
