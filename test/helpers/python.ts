@@ -6,9 +6,10 @@ import { execFileSync } from 'node:child_process';
  * The script reads `data = json.load(sys.stdin)` and ends with `print(json.dumps(result))`.
  * numpy's BLAS/OpenMP pools are limited to one thread: several test workers share
  * two cores, and contending pools make small linear algebra tens of times slower.
+ * SPEEDBAND_PYTHON names another interpreter (CI sets it when python3 lacks scipy).
  */
 export function runPython<T>(script: string, input: unknown): T {
-  const output = execFileSync('python3', ['-c', script], {
+  const output = execFileSync(process.env.SPEEDBAND_PYTHON ?? 'python3', ['-c', script], {
     input: JSON.stringify(input),
     encoding: 'utf8',
     maxBuffer: 256 * 1024 * 1024,
