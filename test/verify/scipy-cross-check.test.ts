@@ -1,6 +1,6 @@
 /**
  * Property test against reference libraries: ≥ 200 random plants with delay (stable,
- * integrating, open-loop unstable, resonant; positive and negative gain) under random
+ * integrating, open-loop unstable, resonant, non-minimum phase; positive and negative gain) under random
  * filtered PIDs. One python3 call (numpy/scipy) computes, independently:
  * - the frequency response with scipy.signal.freqs times the exact e^(−jωθ);
  * - every margin by dense evaluation and scipy.optimize.brentq (gain crossovers on
@@ -31,19 +31,22 @@ function randomLoops(seed: number, count: number): OpenLoop[] {
     const sign = random.uniform() < 0.2 ? -1 : 1;
     const gain = sign * logBetween(0.2, 5);
     const tau = logBetween(0.2, 10);
-    const kind = i % 5;
+    const kind = i % 6;
+    // kind 5: a right-half-plane zero (non-minimum phase), K(1 − a·s)/((τs + 1)(0.5τs + 1)).
+    const numerator = kind === 5 ? [-gain * logBetween(0.05, 1) * tau, gain] : [gain];
     const denominator =
       kind === 0 ? [tau, 1]
       : kind === 1 ? [tau * tau * 0.3, tau * 1.3, 1]
       : kind === 2 ? [tau, 1, 0]
       : kind === 3 ? [tau, -1]
-      : [1 / (tau * tau), (2 * between(0.1, 0.7)) / tau, 1];
+      : kind === 4 ? [1 / (tau * tau), (2 * between(0.1, 0.7)) / tau, 1]
+      : [0.5 * tau * tau, 1.5 * tau, 1];
     const delay_s = logBetween(0.02, kind === 3 ? 0.3 * tau : 2);
     const kp = (sign * logBetween(0.05, 3)) / Math.abs(gain);
     const ki = kp / logBetween(0.3, 20);
     const kd = random.uniform() < 0.5 ? 0 : kp * logBetween(0.01, 1);
     const derivativeFilter = [5, 10, 20][Math.floor(random.uniform() * 3)];
-    loops.push(openLoopOf({ plant: { numerator: [gain], denominator, delay_s }, pid: { kp, ki, kd, derivativeFilter } }));
+    loops.push(openLoopOf({ plant: { numerator, denominator, delay_s }, pid: { kp, ki, kd, derivativeFilter } }));
   }
   return loops;
 }
