@@ -13,7 +13,7 @@ export const ANALYSIS_DEFAULTS = {
   /** Crossing frequencies are refined to this relative width. */
   frequencyRelativeTolerance: 1e-12,
   /** Sensitivity peaks are refined to this width in ln ω. */
-  peakLogFrequencyTolerance: 1e-4,
+  peakLogFrequencyTolerance: 1e-6,
   /** |L| within this of 1 at a crossing of the negative real axis: the loop passes through −1. */
   crossingMagnitudeTolerance: 1e-9,
   /** Negative-real-axis crossings with a grid estimate of |L| ≥ this are refined, plus the `refineLargestBelow` largest others. */
