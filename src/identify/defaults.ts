@@ -9,6 +9,8 @@ export interface IdentifyOptions {
   readonly hold: CommandHold;
   /** Also fit second order plus dead time (with and without a zero) and choose by BIC. */
   readonly fitSecondOrder: boolean;
+  /** Fit at most this long after each step's onset, s (longer holds add time, not information). */
+  readonly maxHold_s: number;
   /** Refuse a step fit whose R² is below this. */
   readonly minR2: number;
   /** Refuse a step whose steady yaw-rate change is less than this many times the yaw-rate noise (standard deviation). */
@@ -31,6 +33,7 @@ export const IDENTIFY_DEFAULTS: IdentifyOptions = {
   biasMode: 'fitted',
   hold: 'zeroOrder',
   fitSecondOrder: true,
+  maxHold_s: 10,
   minR2: 0.8,
   minSignalToNoise: 5,
   maxRelativeGainInterval: 0.25,

@@ -10,6 +10,7 @@ import { identifyActuator } from './actuator.js';
 import { aggregateSpeed, groupBySpeed } from './aggregate.js';
 import { IDENTIFY_DEFAULTS, type IdentifyOptions } from './defaults.js';
 import { identifyStep, type StepIdentification } from './identify-step.js';
+import { truncateStep } from './step-signals.js';
 import { fitSingleTrack } from './joint-single-track.js';
 import { refusedTestRecord, speedRecord, testRecord } from './models-records.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, type ModelsFile, type SingleTrackRecord } from './models-schema.js';
@@ -46,7 +47,7 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   for (const file of input.logPaths) {
     const log = readSteerLog(file, { steeringRatio: vehicle.steeringRatio, ...input.readOptions });
     const search = findStepTests(log, { maxSteerAngle_rad: vehicle.maxSteerAngle_rad });
-    steps.push(...search.steps);
+    steps.push(...search.steps.map((step) => truncateStep(step, options.maxHold_s)));
     rejected.push(...search.rejected);
   }
   // Hashed after reading, so that a missing file is reported by the log reader with its name.

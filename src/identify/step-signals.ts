@@ -56,3 +56,22 @@ export function actuatorSignals(step: StepTest): StepSignals | null {
     preStepSamples: step.preStepSamples,
   };
 }
+
+/**
+ * The step with its window cut to at most `maxHold_s` after the onset (the pre-step samples kept).
+ * A hold far longer than the response adds no information on the dynamics, only fitting time
+ * (e.g. the last step of a run followed by minutes of straight driving). Arrays are views, not copies.
+ */
+export function truncateStep(step: StepTest, maxHold_s: number): StepTest {
+  const onsetTime_s = step.time_s[Math.min(step.preStepSamples, step.time_s.length - 1)];
+  let end = step.time_s.length;
+  while (end > step.preStepSamples + 2 && step.time_s[end - 1] - onsetTime_s > maxHold_s) end--;
+  if (end === step.time_s.length) return step;
+  return {
+    ...step,
+    time_s: step.time_s.subarray(0, end),
+    steerCommand_rad: step.steerCommand_rad.subarray(0, end),
+    yawRate_radps: step.yawRate_radps.subarray(0, end),
+    ...(step.steerAngle_rad === undefined ? {} : { steerAngle_rad: step.steerAngle_rad.subarray(0, end) }),
+  };
+}

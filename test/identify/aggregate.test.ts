@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { aggregateSpeed, groupBySpeed, inverseVarianceMean } from '../../src/identify/aggregate.js';
 import { IDENTIFY_DEFAULTS } from '../../src/identify/defaults.js';
 import { identifyStep } from '../../src/identify/identify-step.js';
+import { truncateStep } from '../../src/identify/step-signals.js';
 import { rampStepTest } from './synthetic.js';
 
 const FAST = { ...IDENTIFY_DEFAULTS, fitSecondOrder: false, hold: 'linear' as const };
@@ -53,5 +54,17 @@ describe('the quality gate', () => {
 
   it('accepts a clean step', () => {
     expect(identifyStep(rampStepTest({ seed: 5 }), FAST).refusal).toBeNull();
+  });
+});
+
+describe('truncateStep(step, maxHold_s)', () => {
+  it('keeps the pre-step samples and at most maxHold_s after the onset, and leaves short steps alone', () => {
+    const step = rampStepTest({ samples: 3000 }); // onset at 1 s, 29 s of hold
+    const cut = truncateStep(step, 5);
+    expect(cut.preStepSamples).toBe(step.preStepSamples);
+    expect(cut.time_s[cut.time_s.length - 1] - step.onset_s).toBeLessThanOrEqual(5 + 1e-9);
+    expect(cut.time_s.length).toBe(step.preStepSamples + 501);
+    expect(cut.yawRate_radps.length).toBe(cut.time_s.length);
+    expect(truncateStep(step, 100)).toBe(step);
   });
 });

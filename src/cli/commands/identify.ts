@@ -25,6 +25,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       hold: args['command-hold'] === 'linear' ? 'linear' : 'zeroOrder',
       speedTolerance_mps: Number(args['speed-tolerance-mps']),
       minR2: Number(args['min-r2']),
+      maxHold_s: Number(args['max-hold-s']),
       fitSecondOrder: args['second-order'] !== false,
       jointFit: args['joint-fit'] !== false,
     },
@@ -121,6 +122,7 @@ export const command: CommandModule = {
       .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]); steps at two or more speeds' })
       .option('out', { type: 'string', demandOption: true, describe: 'models.json to write (atomically; validated against its JSON Schema)' })
       .option('speed-tolerance-mps', { type: 'number', default: 0.5, describe: 'Steps whose speeds differ by at most this (m/s) are one nominal speed' })
+      .option('max-hold-s', { type: 'number', default: 10, describe: 'Fit each step over at most this many seconds after its onset (s); longer holds add time, not information' })
       .option('min-r2', { type: 'number', default: 0.8, describe: 'Refuse a step whose FOPDT fit explains less than this fraction (R²) of the yaw response' })
       .option('bias', { type: 'string', choices: ['fitted', 'pre-step'], default: 'fitted', describe: 'Yaw-rate sensor offset per step: fitted with the model, or the mean of the pre-step window' })
       .option('command-hold', {
