@@ -42,10 +42,11 @@ interface Reference {
 }
 
 const SCRIPT = String.raw`
-import json, sys, math
+import json, sys, math, warnings
 import numpy as np
 from scipy.optimize import brentq
 from scipy.interpolate import pade
+warnings.simplefilter("ignore")
 d = json.load(sys.stdin)
 out = {}
 # Delay on a coarse grid: L = 0.5 e^(-10 s)/(s + 1); first phase crossover atan(w) + 10 w = pi.
