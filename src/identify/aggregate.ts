@@ -16,6 +16,8 @@ export interface SpeedModel {
   /** Mean of the steps' speeds, m/s. */
   readonly speed_mps: number;
   readonly stepCount: number;
+  /** The steps combined, by file and step index. */
+  readonly steps: readonly { readonly file: string; readonly stepIndex: number }[];
   readonly model: FopdtModel;
   readonly gain: CombinedValue;
   readonly timeConstant_s: CombinedValue;
@@ -99,6 +101,7 @@ export function aggregateSpeed(group: readonly StepIdentification[], options: Id
   return {
     speed_mps,
     stepCount: group.length,
+    steps: group.map((s) => ({ file: s.file, stepIndex: s.stepIndex })),
     model: { kind: 'fopdt', gain: gain.value, timeConstant_s: timeConstant_s.value, deadTime_s: deadTime_s.value },
     gain,
     timeConstant_s,

@@ -91,5 +91,5 @@ export function speedRecord(speed: SpeedModel): SpeedRecord {
     standardErrors: { gain: speed.gain.standardError, timeConstant_s: speed.timeConstant_s.standardError, deadTime_s: speed.deadTime_s.standardError },
     ci95: { gain: speed.gain.ci95, timeConstant_s: speed.timeConstant_s.ci95, deadTime_s: speed.deadTime_s.ci95 },
   };
-  return { speed_mps: speed.speed_mps, stepCount: speed.stepCount, fopdt, asymmetry_pct: speed.asymmetry_pct, repeatSpread_pct: speed.repeatSpread_pct };
+  return { speed_mps: speed.speed_mps, stepCount: speed.stepCount, steps: speed.steps, fopdt, asymmetry_pct: speed.asymmetry_pct, repeatSpread_pct: speed.repeatSpread_pct };
 }

@@ -91,6 +91,8 @@ export interface RefusedTestRecord {
 export interface SpeedRecord {
   readonly speed_mps: number;
   readonly stepCount: number;
+  /** The steps combined here (keys into tests[]). */
+  readonly steps: readonly { readonly file: string; readonly stepIndex: number }[];
   /** Inverse-variance weighted over the steps at this speed. */
   readonly fopdt: FopdtRecord;
   readonly asymmetry_pct: number | null;
@@ -326,10 +328,19 @@ export const MODELS_SCHEMA = {
       items: {
         type: 'object',
         additionalProperties: false,
-        required: ['speed_mps', 'stepCount', 'fopdt', 'asymmetry_pct', 'repeatSpread_pct'],
+        required: ['speed_mps', 'stepCount', 'steps', 'fopdt', 'asymmetry_pct', 'repeatSpread_pct'],
         properties: {
           speed_mps: number,
           stepCount: { type: 'integer', minimum: 1 },
+          steps: {
+            type: 'array',
+            items: {
+              type: 'object',
+              additionalProperties: false,
+              required: ['file', 'stepIndex'],
+              properties: { file: { type: 'string' }, stepIndex: { type: 'integer', minimum: 0 } },
+            },
+          },
           fopdt: { $ref: '#/definitions/fopdtRecord' },
           asymmetry_pct: nullableNumber,
           repeatSpread_pct: number,

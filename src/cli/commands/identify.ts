@@ -62,7 +62,9 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     `${'speed m/s'.padStart(9)}  ${'gain 1/s'.padEnd(17)}  ${'time constant s'.padEnd(17)}  ${'dead time s'.padEnd(17)}  ${'R² (min)'.padStart(8)}  ${'steps used/refused'.padEnd(18)}  models chosen (BIC)`,
   );
   for (const speed of models.speeds) {
-    const tests = models.tests.filter((t) => Math.abs(t.speed_mps - speed.speed_mps) <= Number(args['speed-tolerance-mps']));
+    const keys = new Set(speed.steps.map((k) => `${k.file}\u0000${k.stepIndex}`));
+    const tests = models.tests.filter((t) => keys.has(`${t.file}\u0000${t.stepIndex}`));
+    // Refused steps belong to no group: count those within the speed tolerance.
     const refused = models.refusedTests.filter((t) => Math.abs(t.speed_mps - speed.speed_mps) <= Number(args['speed-tolerance-mps'])).length;
     const minR2 = Math.min(...tests.map((t) => t.fopdt.r2));
     const chosen = new Map<string, number>();
