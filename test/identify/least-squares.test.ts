@@ -132,10 +132,11 @@ describe('fitLeastSquares and the ml-levenberg-marquardt behaviours it handles',
   it('library: bounds are clamped after each step but derivative probes evaluate the model outside them; the FOPDT model stays finite there', () => {
     const probed: number[] = [];
     const t = [0, 1, 2, 3];
-    levenbergMarquardt({ x: t, y: t.map((v) => -v) }, (p) => {
+    const clamped = levenbergMarquardt({ x: t, y: t.map((v) => -v) }, (p) => {
       probed.push(p[0]);
       return (v) => p[0] * v;
     }, { initialValues: [0.5], minValues: [0], maxValues: [1], gradientDifference: [0.01], centralDifference: true, maxIterations: 5, damping: 1e-2 });
+    expect(clamped.parameterValues[0]).toBe(0); // the step towards −1 is clamped to the bound
     expect(Math.min(...probed)).toBeLessThan(0); // the optimum −1 is clamped to 0, and the probe at 0 − 0.01 is outside
     const time_s = Float64Array.from({ length: 50 }, (_, i) => i * 0.01);
     const input = time_s.map((v) => (v > 0.1 ? 1 : 0));
