@@ -26,6 +26,8 @@ export interface SpeedModel {
   readonly asymmetry_pct: number | null;
   /** (max − min)/mean of the step gains × 100, %. */
   readonly repeatSpread_pct: number;
+  /** Root mean square of the steps' FOPDT residuals, rad/s. */
+  readonly fopdtRmse_radps: number;
   readonly warnings: readonly string[];
 }
 
@@ -108,6 +110,7 @@ export function aggregateSpeed(group: readonly StepIdentification[], options: Id
     deadTime_s,
     asymmetry_pct,
     repeatSpread_pct,
+    fopdtRmse_radps: Math.sqrt(mean(group.map((s) => s.fopdt.fit.quality.rmse ** 2))),
     warnings,
   };
 }

@@ -45,9 +45,24 @@ export interface SingleTrackFit {
   readonly rmse: number;
   readonly stepCount: number;
   readonly stopReason: StopReason;
-  readonly comparison: readonly { readonly speed_mps: number; readonly fopdtGain: number; readonly singleTrackGain: number; readonly difference_pct: number }[];
+  readonly comparison: readonly SpeedComparison[];
   readonly warnings: readonly string[];
 }
+
+/** The joint model against one speed's FOPDT: steady yaw gain and residuals over that speed's steps. */
+export interface SpeedComparison {
+  readonly speed_mps: number;
+  readonly fopdtGain: number;
+  readonly singleTrackGain: number;
+  /** (single-track − FOPDT)/|FOPDT| × 100, %. */
+  readonly difference_pct: number;
+  /** RMS residual of the joint model over this speed's steps, and of the per-step FOPDT fits, rad/s. */
+  readonly singleTrackRmse_radps: number;
+  readonly fopdtRmse_radps: number;
+}
+
+/** The joint model explains a speed poorly when its RMS residual there exceeds this multiple of the per-step FOPDT fits' (which have 4 parameters per step). */
+const RMSE_WARNING_FACTOR = 2;
 
 /** Normalised axle cornering stiffness used for a start when the vehicle file has none: C ≈ 10 × axle load per rad (common practice for road tyres; from memory). */
 const START_STIFFNESS_PER_LOAD = 10;
@@ -182,16 +197,43 @@ export function fitSingleTrack(
   const varianceK = gf * gf * cov[0] + 2 * gf * gr * cov[1] + gr * gr * cov[5];
   const halfK = (uncertainty.upper95[0] - p[0]) / Math.max(uncertainty.standardErrors[0], 1e-300) * Math.sqrt(Math.max(varianceK, 0));
   const warnings: string[] = [];
-  const comparison = speeds.map((s) => {
+  // Residuals of the joint model per step, to compare with each speed's FOPDT fits.
+  const stepSquares = new Map<string, { sum: number; count: number }>();
+  let at = 0;
+  steps.forEach((step, i) => {
+    const length = signals[i].time_s.length;
+    let sum = 0;
+    for (let k = at; k < at + length; k++) sum += (data[k] - prediction[k]) ** 2;
+    stepSquares.set(`${step.file}\u0000${step.stepIndex}`, { sum, count: length });
+    at += length;
+  });
+  const comparison: SpeedComparison[] = speeds.map((s) => {
     const singleTrackGain = steadyStateYawGain_perS(params, s.speed_mps);
     const difference_pct = (100 * (singleTrackGain - s.model.gain)) / Math.abs(s.model.gain);
+    let sum = 0;
+    let count = 0;
+    for (const key of s.steps ?? []) {
+      const entry = stepSquares.get(`${key.file}\u0000${key.stepIndex}`);
+      if (entry !== undefined) {
+        sum += entry.sum;
+        count += entry.count;
+      }
+    }
+    const singleTrackRmse_radps = count > 0 ? Math.sqrt(sum / count) : Number.NaN;
+    const where = `at ${s.speed_mps.toFixed(2)} m/s the joint single-track model`;
     if (Math.abs(difference_pct) > mismatchWarning_pct) {
       warnings.push(
-        `at ${s.speed_mps.toFixed(2)} m/s the joint single-track model's steady yaw gain ${singleTrackGain.toFixed(3)} 1/s misses the measured ${s.model.gain.toFixed(3)} 1/s by ${difference_pct.toFixed(1)} % ` +
+        `${where}'s steady yaw gain ${singleTrackGain.toFixed(3)} 1/s misses the measured ${s.model.gain.toFixed(3)} 1/s by ${difference_pct.toFixed(1)} % ` +
           `(threshold ${mismatchWarning_pct} %) — the linear single-track model does not explain this speed: check for tyre saturation (large steps), load or surface changes`,
       );
     }
-    return { speed_mps: s.speed_mps, fopdtGain: s.model.gain, singleTrackGain, difference_pct };
+    if (singleTrackRmse_radps > RMSE_WARNING_FACTOR * s.fopdtRmse_radps) {
+      warnings.push(
+        `${where} leaves an RMS yaw-rate residual of ${singleTrackRmse_radps.toExponential(2)} rad/s, more than ${RMSE_WARNING_FACTOR}× the per-step FOPDT fits' ` +
+          `${s.fopdtRmse_radps.toExponential(2)} rad/s — its dynamics do not match this speed: check the vehicle file's mass, inertia and axle positions`,
+      );
+    }
+    return { speed_mps: s.speed_mps, fopdtGain: s.model.gain, singleTrackGain, difference_pct, singleTrackRmse_radps, fopdtRmse_radps: s.fopdtRmse_radps };
   });
   return {
     parameters: params,

@@ -129,7 +129,14 @@ export interface SingleTrackRecord {
   readonly stepCount: number;
   readonly stopReason: 'converged' | 'iterationCap' | 'nonFinite';
   /** Per speed: the joint model's steady yaw gain against the per-speed FOPDT gain. */
-  readonly comparison: readonly { readonly speed_mps: number; readonly fopdtGain: number; readonly singleTrackGain: number; readonly difference_pct: number }[];
+  readonly comparison: readonly {
+    readonly speed_mps: number;
+    readonly fopdtGain: number;
+    readonly singleTrackGain: number;
+    readonly difference_pct: number;
+    readonly singleTrackRmse_radps: number;
+    readonly fopdtRmse_radps: number;
+  }[];
 }
 
 export interface ModelsFile {
@@ -409,8 +416,15 @@ export const MODELS_SCHEMA = {
               items: {
                 type: 'object',
                 additionalProperties: false,
-                required: ['speed_mps', 'fopdtGain', 'singleTrackGain', 'difference_pct'],
-                properties: { speed_mps: number, fopdtGain: number, singleTrackGain: number, difference_pct: number },
+                required: ['speed_mps', 'fopdtGain', 'singleTrackGain', 'difference_pct', 'singleTrackRmse_radps', 'fopdtRmse_radps'],
+                properties: {
+                  speed_mps: number,
+                  fopdtGain: number,
+                  singleTrackGain: number,
+                  difference_pct: number,
+                  singleTrackRmse_radps: number,
+                  fopdtRmse_radps: number,
+                },
               },
             },
           },

@@ -105,6 +105,27 @@ describe('fitSingleTrack without nominal stiffnesses in the vehicle file', () =>
   }, 60_000);
 });
 
+describe('fitSingleTrack with a wrong vehicle file', () => {
+  it('warns, per speed, where the joint model fails to explain the steps (mass a quarter, yaw inertia four times the true values)', () => {
+    const vehicle = loadVehicle(VEHICLE);
+    const wrong = { ...vehicle, mass_kg: vehicle.mass_kg / 4, yawInertia_kgm2: 4 * vehicle.yawInertia_kgm2 };
+    const csv = readdirSync(join(folder, 'noisy')).filter((name) => name.endsWith('.csv')).sort().map((name) => join(folder, 'noisy', name));
+    const steps = csv.flatMap((file) => findStepTests(readSteerLog(file)).steps);
+    const speeds = noisy.speeds.map((s) => {
+      const tests = noisy.tests.filter((t) => s.steps.some((k) => k.file === t.file && k.stepIndex === t.stepIndex));
+      return {
+        speed_mps: s.speed_mps,
+        steps: s.steps,
+        fopdtRmse_radps: Math.sqrt(tests.reduce((sum, t) => sum + t.fopdt.rmse ** 2, 0) / tests.length),
+        model: { kind: 'fopdt' as const, gain: s.fopdt.gain, timeConstant_s: s.fopdt.timeConstant_s, deadTime_s: s.fopdt.deadTime_s },
+      };
+    });
+    const fit = fitSingleTrack(wrong, steps, speeds as unknown as SpeedModel[], null, 10) as SingleTrackFit;
+    expect(fit.warnings.some((w) => /RMS yaw-rate residual/.test(w))).toBe(true);
+    expect(fit.comparison.some((c) => c.singleTrackRmse_radps > 2 * c.fopdtRmse_radps)).toBe(true);
+  }, 60_000);
+});
+
 describe('simulateYawThroughActuator(params, speed, time, command)', () => {
   it('equals the exact single-track simulator of src/vehicle (actuator delay and lag, no limits) to 1e−9 rad/s', () => {
     // Source: simulateSingleTrack, matrix-exponential simulator written independently in src/vehicle/simulate.ts

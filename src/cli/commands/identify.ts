@@ -94,7 +94,10 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
         (st.characteristicSpeed_mps !== null ? `, characteristic speed ${f(st.characteristicSpeed_mps, 1)} m/s` : '') +
         (st.criticalSpeed_mps !== null ? `, critical speed ${f(st.criticalSpeed_mps, 1)} m/s (open-loop unstable above)` : ''),
     );
-    lines.push(`  steady yaw gain vs per-speed FOPDT: ${st.comparison.map((c) => `${f(c.speed_mps, 1)} m/s ${c.difference_pct >= 0 ? '+' : ''}${f(c.difference_pct, 1)} %`).join(', ')}`);
+    lines.push('  against the per-speed FOPDT models (steady yaw gain difference; RMS yaw-rate residual, single-track / FOPDT):');
+    for (const c of st.comparison) {
+      lines.push(`    ${f(c.speed_mps, 2).padStart(6)} m/s  ${`${c.difference_pct >= 0 ? '+' : ''}${f(c.difference_pct, 1)} %`.padStart(8)}  ${f(c.singleTrackRmse_radps / c.fopdtRmse_radps, 2)}×`);
+    }
   } else {
     lines.push(`Joint single-track fit refused: ${models.singleTrackRefusal?.reason ?? 'no reason recorded'}`);
   }
