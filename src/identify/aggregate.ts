@@ -55,13 +55,18 @@ export function inverseVarianceMean(values: readonly number[], standardErrors: r
   return { value, standardError, ci95: [value - 1.96 * standardError, value + 1.96 * standardError], birgeRatio };
 }
 
-/** Group accepted steps by nominal speed: sorted by speed, a new group starts when a step is more than the tolerance above the group's first. */
-export function groupBySpeed(steps: readonly StepIdentification[], tolerance_mps: number): StepIdentification[][] {
+/**
+ * Group accepted steps by nominal speed: sorted by speed, a new group starts when a step is more than
+ * min(tolerance_mps, toleranceFraction × speed) above the group's first (absolute at road speeds,
+ * relative for slow machines tested at speeds a fraction of a m/s apart).
+ */
+export function groupBySpeed(steps: readonly StepIdentification[], tolerance_mps: number, toleranceFraction: number): StepIdentification[][] {
   const sorted = [...steps].sort((a, b) => a.speed_mps - b.speed_mps || a.file.localeCompare(b.file) || a.stepIndex - b.stepIndex);
   const groups: StepIdentification[][] = [];
   for (const step of sorted) {
     const current = groups[groups.length - 1];
-    if (current !== undefined && step.speed_mps - current[0].speed_mps <= tolerance_mps) current.push(step);
+    const limit_mps = current === undefined ? 0 : Math.min(tolerance_mps, toleranceFraction * current[0].speed_mps);
+    if (current !== undefined && step.speed_mps - current[0].speed_mps <= limit_mps) current.push(step);
     else groups.push([step]);
   }
   return groups;

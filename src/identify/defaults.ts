@@ -17,8 +17,9 @@ export interface IdentifyOptions {
   readonly minSignalToNoise: number;
   /** Refuse a step whose gain 95 % interval half-width exceeds this fraction of the gain. */
   readonly maxRelativeGainInterval: number;
-  /** Steps whose mean speeds differ by less than this from a group's lowest are the same nominal speed, m/s. */
+  /** Steps whose mean speeds differ by at most min(speedTolerance_mps, speedToleranceFraction × speed) from a group's lowest are the same nominal speed. */
   readonly speedTolerance_mps: number;
+  readonly speedToleranceFraction: number;
   /** Warn when left and right gains at one speed differ by more than this, % of their mean. */
   readonly asymmetryWarning_pct: number;
   /** Warn when repeats at one speed spread (max − min) by more than this, % of their mean gain. */
@@ -38,6 +39,7 @@ export const IDENTIFY_DEFAULTS: IdentifyOptions = {
   minSignalToNoise: 5,
   maxRelativeGainInterval: 0.25,
   speedTolerance_mps: 0.5,
+  speedToleranceFraction: 0.05,
   asymmetryWarning_pct: 10,
   repeatSpreadWarning_pct: 15,
   jointMismatchWarning_pct: 10,

@@ -66,7 +66,7 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   });
   const used = identified.filter((s) => s.refusal === null);
   const refused = identified.filter((s) => s.refusal !== null);
-  const groups = groupBySpeed(used, options.speedTolerance_mps);
+  const groups = groupBySpeed(used, options.speedTolerance_mps, options.speedToleranceFraction);
   if (groups.length < 2) {
     const dropped = refused.map((s) => `${s.file} step ${s.stepIndex} at ${s.speed_mps.toFixed(2)} m/s: ${s.refusal?.reason}`);
     throw new SpeedbandError(

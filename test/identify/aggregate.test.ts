@@ -31,8 +31,15 @@ describe('groupBySpeed and aggregateSpeed', () => {
       identifyStep(rampStepTest({ seed: 2, speed_mps: 10.2, gain: 2.0, amplitude: -0.03, stepIndex: 1 }), FAST),
       identifyStep(rampStepTest({ seed: 3, speed_mps: 15, gain: 3, stepIndex: 2 }), FAST),
     ];
-    const groups = groupBySpeed(steps, 0.5);
+    const groups = groupBySpeed(steps, 0.5, 0.05);
     expect(groups.map((g) => g.length)).toEqual([2, 1]);
+    // Source: common practice — slow machines are tested at speeds a fraction of a m/s apart: 0.5 and 0.75 m/s stay apart
+    const slowSteps = [
+      identifyStep(rampStepTest({ seed: 6, speed_mps: 0.5 }), FAST),
+      identifyStep(rampStepTest({ seed: 7, speed_mps: 0.51, stepIndex: 1 }), FAST),
+      identifyStep(rampStepTest({ seed: 8, speed_mps: 0.75, stepIndex: 2 }), FAST),
+    ];
+    expect(groupBySpeed(slowSteps, 0.5, 0.05).map((g) => g.length)).toEqual([2, 1]);
     const slow = aggregateSpeed(groups[0], FAST);
     expect(slow.asymmetry_pct).toBeGreaterThan(15);
     expect(slow.warnings.join('\n')).toMatch(/left and right yaw gains differ/);

@@ -24,6 +24,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       biasMode: args.bias === 'pre-step' ? 'preStep' : 'fitted',
       hold: args['command-hold'] === 'linear' ? 'linear' : 'zeroOrder',
       speedTolerance_mps: Number(args['speed-tolerance-mps']),
+      speedToleranceFraction: Number(args['speed-tolerance-fraction']),
       minR2: Number(args['min-r2']),
       maxHold_s: Number(args['max-hold-s']),
       fitSecondOrder: args['second-order'] !== false,
@@ -65,7 +66,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     const keys = new Set(speed.steps.map((k) => `${k.file}\u0000${k.stepIndex}`));
     const tests = models.tests.filter((t) => keys.has(`${t.file}\u0000${t.stepIndex}`));
     // Refused steps belong to no group: count those within the speed tolerance.
-    const refused = models.refusedTests.filter((t) => Math.abs(t.speed_mps - speed.speed_mps) <= Number(args['speed-tolerance-mps'])).length;
+    const tolerance_mps = Math.min(Number(args['speed-tolerance-mps']), Number(args['speed-tolerance-fraction']) * speed.speed_mps);
+    const refused = models.refusedTests.filter((t) => Math.abs(t.speed_mps - speed.speed_mps) <= tolerance_mps).length;
     const minR2 = Math.min(...tests.map((t) => t.fopdt.r2));
     const chosen = new Map<string, number>();
     for (const t of tests) chosen.set(t.chosenModel, (chosen.get(t.chosenModel) ?? 0) + 1);
@@ -126,7 +128,8 @@ export const command: CommandModule = {
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, yaw inertia, axle positions, steering ratio' })
       .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]); steps at two or more speeds' })
       .option('out', { type: 'string', demandOption: true, describe: 'models.json to write (atomically; validated against its JSON Schema)' })
-      .option('speed-tolerance-mps', { type: 'number', default: 0.5, describe: 'Steps whose speeds differ by at most this (m/s) are one nominal speed' })
+      .option('speed-tolerance-mps', { type: 'number', default: 0.5, describe: 'Steps whose speeds differ by at most this (m/s) — and by at most --speed-tolerance-fraction of the speed — are one nominal speed' })
+      .option('speed-tolerance-fraction', { type: 'number', default: 0.05, describe: 'Relative speed tolerance (fraction of the speed) for slow machines tested at speeds close together' })
       .option('max-hold-s', { type: 'number', default: 10, describe: 'Fit each step over at most this many seconds after its onset (s); longer holds add time, not information' })
       .option('min-r2', { type: 'number', default: 0.8, describe: 'Refuse a step whose FOPDT fit explains less than this fraction (R²) of the yaw response' })
       .option('bias', { type: 'string', choices: ['fitted', 'pre-step'], default: 'fitted', describe: 'Yaw-rate sensor offset per step: fitted with the model, or the mean of the pre-step window' })
