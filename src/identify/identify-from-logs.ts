@@ -1,4 +1,5 @@
-import { readFileSync } from 'node:fs';
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { join } from 'node:path';
 import { SpeedbandError } from '../core/errors.js';
 import { sha256Hex } from '../core/files.js';
 import { readSteerLog, type ReadLogOptions } from '../log/read.js';
@@ -18,7 +19,7 @@ import { MODELS_FORMAT, MODELS_FORMAT_VERSION, type ModelsFile, type SingleTrack
 export interface IdentifyFromLogsInput {
   /** Vehicle file, or a folder holding vehicle.json. */
   readonly vehicle: string;
-  /** CSV step-test logs, one or more per speed. */
+  /** CSV step-test logs, one or more per speed; a folder stands for the .csv files in it (sorted by name). */
   readonly logPaths: readonly string[];
   readonly options?: Partial<IdentifyOptions>;
   /** How to read the logs (column names and units). */
@@ -42,19 +43,20 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
 
+  const logPaths = expandLogPaths(input.logPaths);
   const steps: StepTest[] = [];
   const rejected: RejectedStep[] = [];
-  for (const file of input.logPaths) {
+  for (const file of logPaths) {
     const log = readSteerLog(file, { steeringRatio: vehicle.steeringRatio, ...input.readOptions });
     const search = findStepTests(log, { maxSteerAngle_rad: vehicle.maxSteerAngle_rad });
     steps.push(...search.steps.map((step) => truncateStep(step, options.maxHold_s)));
     rejected.push(...search.rejected);
   }
   // Hashed after reading, so that a missing file is reported by the log reader with its name.
-  const inputs = input.logPaths.map((file) => ({ file, sha256: sha256Hex(readFileSync(file)) }));
+  const inputs = logPaths.map((file) => ({ file, sha256: sha256Hex(readFileSync(file)) }));
   if (steps.length === 0) {
-    throw new SpeedbandError('identify.noSteps', `no step-steer event was found in ${input.logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`, {
-      location: { file: input.logPaths[0] },
+    throw new SpeedbandError('identify.noSteps', `no step-steer event was found in ${logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`, {
+      location: { file: logPaths[0] },
       details: { rejected: rejected.length },
     });
   }
@@ -73,7 +75,7 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
       'identify.tooFewSpeeds',
       `usable steps were found at ${groups.length} speed(s) (${groups.map((g) => `${g[0].speed_mps.toFixed(2)} m/s`).join(', ') || 'none'}); ` +
         `a speed schedule needs at least two — log steps at more speeds${dropped.length > 0 ? `. Dropped steps:\n  ${dropped.join('\n  ')}` : ''}${describeRejected(rejected)}`,
-      { location: { file: input.logPaths[0] }, details: { speeds: groups.length, refused: refused.length, rejected: rejected.length } },
+      { location: { file: logPaths[0] }, details: { speeds: groups.length, refused: refused.length, rejected: rejected.length } },
     );
   }
   const speeds = groups.map((g) => aggregateSpeed(g, options));
@@ -136,6 +138,30 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
     singleTrackRefusal,
     warnings,
   };
+}
+
+/** Paths as given, with each folder replaced by the .csv files in it, sorted by name; throws `identify.noLogs` when none remain. */
+function expandLogPaths(paths: readonly string[]): string[] {
+  const files: string[] = [];
+  for (const path of paths) {
+    let isFolder = false;
+    try {
+      isFolder = statSync(path).isDirectory();
+    } catch {
+      isFolder = false; // a missing file is reported by the log reader, with its name
+    }
+    if (isFolder) {
+      files.push(...readdirSync(path).filter((name) => name.toLowerCase().endsWith('.csv')).sort().map((name) => join(path, name)));
+    } else {
+      files.push(path);
+    }
+  }
+  if (files.length === 0) {
+    throw new SpeedbandError('identify.noLogs', `no CSV log found in ${paths.join(', ') || '(no path given)'} — give log files or folders holding .csv logs`, {
+      ...(paths[0] === undefined ? {} : { location: { file: paths[0] } }),
+    });
+  }
+  return files;
 }
 
 function describeRejected(rejected: readonly RejectedStep[]): string {

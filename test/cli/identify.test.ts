@@ -39,6 +39,13 @@ describe('speedband identify', () => {
     expect(JSON.parse(again.out()).outcome).toBe('unchanged');
   }, 60_000);
 
+  it('takes a folder of logs as its .csv files', async () => {
+    const io = recordingIo();
+    const out = join(folder, 'from-folder.json');
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', join(folder, 'logs'), '--out', out, '--joint-fit', 'false', '--second-order', 'false'], io)).toBe(0);
+    expect(readModels(out).inputs.map((i) => i.file)).toEqual([...logs].sort());
+  }, 60_000);
+
   it('refuses logs at a single speed with exit 2 and says that two speeds are needed', async () => {
     const io = recordingIo();
     const code = await runCli(['identify', '--vehicle', VEHICLE, '--logs', logs[0], '--out', join(folder, 'one.json')], io);

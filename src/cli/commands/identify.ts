@@ -126,7 +126,7 @@ export const command: CommandModule = {
   builder: (yargs) =>
     yargs
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, yaw inertia, axle positions, steering ratio' })
-      .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]); steps at two or more speeds' })
+      .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]), or folders of them; steps at two or more speeds' })
       .option('out', { type: 'string', demandOption: true, describe: 'models.json to write (atomically; validated against its JSON Schema)' })
       .option('speed-tolerance-mps', { type: 'number', default: 0.5, describe: 'Steps whose speeds differ by at most this (m/s) — and by at most --speed-tolerance-fraction of the speed — are one nominal speed' })
       .option('speed-tolerance-fraction', { type: 'number', default: 0.05, describe: 'Relative speed tolerance (fraction of the speed) for slow machines tested at speeds close together' })
@@ -144,7 +144,7 @@ export const command: CommandModule = {
       .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (per-speed models, single-track results, dropped steps, warnings) instead of tables' }),
   examples: [
-    ['speedband identify --vehicle vehicles/parcel-van --logs vehicles/parcel-van/logs/*.csv --out models.json', 'Models of the demo van from its synthetic logs'],
+    ['speedband identify --vehicle vehicles/parcel-van --logs vehicles/parcel-van/logs --out models.json', 'Models of the demo van from its synthetic logs (every .csv in the folder)'],
     ['speedband identify --vehicle van.json --logs run1.csv run2.csv --out models.json --bias pre-step --json', 'Offset from the pre-step window; a JSON summary for scripts'],
   ],
   run,
