@@ -52,6 +52,7 @@ function secondOrderRecord(fit: SecondOrderFit | null): SecondOrderRecord | null
   return Object.values(record).every((v) => typeof v !== 'number' || Number.isFinite(v)) ? record : null;
 }
 
+/** A used step's record: FOPDT with intervals and quality, second-order fits, the BIC choice. Units as in the schema. */
 export function testRecord(step: StepIdentification): TestRecord {
   return {
     file: step.file,
@@ -68,6 +69,7 @@ export function testRecord(step: StepIdentification): TestRecord {
   };
 }
 
+/** A refused step's record: where, why, and the FOPDT values found (null where not finite). */
 export function refusedTestRecord(step: StepIdentification): RefusedTestRecord {
   const m = step.fopdt.model;
   return {
@@ -83,6 +85,7 @@ export function refusedTestRecord(step: StepIdentification): RefusedTestRecord {
   };
 }
 
+/** A speed's record: inverse-variance FOPDT with standard errors and 95 % intervals, the steps combined. */
 export function speedRecord(speed: SpeedModel): SpeedRecord {
   const fopdt: FopdtRecord = {
     gain: speed.gain.value,
