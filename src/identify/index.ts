@@ -18,6 +18,7 @@ export { numericalJacobian, parameterUncertainty, type ParameterUncertainty } fr
 export { checkYawFit, type FitRefusal } from './quality-gate.js';
 export { aggregateSpeed, groupBySpeed, inverseVarianceMean, type SpeedModel, type CombinedValue } from './aggregate.js';
 export { identifyActuator, type ActuatorIdentification } from './actuator.js';
-export { fitSingleTrack, simulateYawThroughActuator, type SingleTrackFit } from './joint-single-track.js';
+export { fitSingleTrack, type SingleTrackFit, type SpeedComparison } from './joint-single-track.js';
+export { simulateYawThroughActuator } from './simulate-single-track-yaw.js';
 export { readModels, writeModels, parseModels, modelsToJson } from './models-file.js';
 export { MODELS_SCHEMA, MODELS_FORMAT, MODELS_FORMAT_VERSION, type ModelsFile, type TestRecord, type RefusedTestRecord, type SpeedRecord, type FopdtRecord, type StepFopdtRecord, type SecondOrderRecord, type ActuatorRecord, type SingleTrackRecord, type HashedFile } from './models-schema.js';

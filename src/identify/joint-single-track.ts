@@ -1,17 +1,11 @@
 import type { StepTest } from '../log/types.js';
 import type { SingleTrackParameters, Vehicle } from '../vehicle/types.js';
-import {
-  characteristicSpeed_mps,
-  criticalSpeed_mps,
-  singleTrackTransferFunctions,
-  steadyStateYawGain_perS,
-  understeerGradient_radPerMps2,
-} from '../vehicle/single-track.js';
+import { characteristicSpeed_mps, criticalSpeed_mps, steadyStateYawGain_perS, understeerGradient_radPerMps2 } from '../vehicle/single-track.js';
 import type { SpeedModel } from './aggregate.js';
 import type { ActuatorIdentification } from './actuator.js';
 import type { FitRefusal } from './quality-gate.js';
 import { fitLeastSquares, LEAST_SQUARES_DEFAULTS, type StopReason } from './least-squares.js';
-import { simulateThirdOrderHeld } from './simulate-third-order.js';
+import { simulateYawThroughActuator } from './simulate-single-track-yaw.js';
 import { yawSignals } from './step-signals.js';
 import { numericalJacobian, parameterUncertainty } from './uncertainty.js';
 
@@ -97,23 +91,6 @@ function parametersOf(vehicle: Vehicle, p: readonly number[]): SingleTrackParame
     actuatorLag_s: p[2],
     actuatorDelay_s: p[3],
   };
-}
-
-/** Lags below this are simulated at this value (the third-order form divides by τa), s. */
-const MIN_LAG_S = 1e-4;
-
-/**
- * Yaw rate (rad/s) from rest for a road-wheel angle command (rad) held between samples, through the
- * actuator e^(−θa s)/(τa s + 1) and the single-track δ → r transfer function at speed_mps (ISO 8855 signs).
- */
-export function simulateYawThroughActuator(params: SingleTrackParameters, speed_mps: number, time_s: Float64Array, input: Float64Array): Float64Array {
-  const yaw = singleTrackTransferFunctions(params, speed_mps).yawRate;
-  const [b1, b0] = yaw.numerator.length === 2 ? yaw.numerator : [0, yaw.numerator[0]];
-  const [, a1, a0] = yaw.denominator;
-  const tau = Math.max(params.actuatorLag_s, MIN_LAG_S);
-  // (τs + 1)(s² + a1 s + a0) / τ, monic
-  const denominator: [number, number, number, number] = [1, a1 + 1 / tau, a0 + a1 / tau, a0 / tau];
-  return simulateThirdOrderHeld(time_s, input, [0, b1 / tau, b0 / tau], denominator, params.actuatorDelay_s);
 }
 
 /** Fit Cf, Cr, τa, θa to all steps (method in the file comment); a refusal when the fit fails or is not determined. */
