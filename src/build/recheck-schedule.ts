@@ -21,6 +21,8 @@ export interface RecheckInput {
   readonly gridSpeeds?: number;
   /** Speed range to check (default: the schedule's own). */
   readonly range?: SpeedRange;
+  /** Exact check speeds, m/s (overrides range and gridSpeeds), e.g. another schedule's grid for a side-by-side check. */
+  readonly grid?: ArrayLike<number>;
   /** Gains to check instead of the schedule's own lookup (e.g. quantised gains). */
   readonly gainsAt?: GainsAtSpeed;
   readonly onProgress?: ProgressCallback;
@@ -54,11 +56,13 @@ export function recheckSchedule(input: RecheckInput): DenseCheckResult {
   const { schedule } = input;
   const { loop, controller } = scheduleLoopAndController(schedule);
   const range = input.range ?? schedule.check.range;
-  const grid = checkGrid(
-    schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps),
-    range,
-    input.gridSpeeds ?? schedule.check.gridSpeeds,
-  );
+  const grid =
+    input.grid ??
+    checkGrid(
+      schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps),
+      range,
+      input.gridSpeeds ?? schedule.check.gridSpeeds,
+    );
   return denseCheck({
     grid,
     gainsAt: input.gainsAt ?? scheduleLookup(schedule),

@@ -91,3 +91,28 @@ export function formatRecheck(title: string, result: DenseCheckResult, schedule:
 export function formatCautions(): string {
   return `Safety:\n${SAFETY_CAUTIONS.map((caution) => `  - ${caution}`).join('\n')}\n`;
 }
+
+/** Side by side at each new breakpoint: the new gains and margins, and the old gains' margins on the new vehicle. */
+export function formatBaseline(title: string, baseline: import('./baseline.js').BaselineCheck, old: ScheduleFile, modelKind: string): string {
+  const rows = [['speed m/s', 'new kp', 'new ki', 'new kd', 'new PM °', 'new upper GM dB', '|', 'old kp', 'old ki', 'old kd', 'old PM °', 'old upper GM dB', 'old Ms', 'old gains']];
+  for (const row of baseline.rows) {
+    rows.push([
+      row.speed_mps.toFixed(2),
+      precisionOrDash(row.newGains.kp, 4),
+      precisionOrDash(row.newGains.ki, 4),
+      precisionOrDash(row.newGains.kd, 4),
+      fixedOrDash(row.newMargins.phaseMargin_deg, 1),
+      fixedOrDash(row.newMargins.upperGainMargin_dB, 2),
+      '|',
+      precisionOrDash(row.oldGains.kp, 4),
+      precisionOrDash(row.oldGains.ki, 4),
+      precisionOrDash(row.oldGains.kd, 4),
+      fixedOrDash(row.oldMargins.phaseMargin_deg, 1),
+      fixedOrDash(row.oldMargins.upperGainMargin_dB, 2),
+      fixedOrDash(row.oldMargins.sensitivityPeak, 3),
+      row.oldFailures.length === 0 ? 'within limits' : `FAIL: ${row.oldFailures.join('; ')}`,
+    ]);
+  }
+  const table = textTable(rows, [true, true, true, true, true, true, false, true, true, true, true, true, true, false]).map((line) => `  ${line}`);
+  return `${formatRecheck(title, baseline.check, old, modelKind)}\n  at the new breakpoints, side by side (same vehicle model, each with its own controller settings):\n${table.join('\n')}\n`;
+}

@@ -153,6 +153,12 @@ describe('the refit flow on the changed demo vehicle', () => {
     const failing = report.baseline.failing.map((point) => point.speed_mps);
     expect(Math.min(...failing)).toBeGreaterThan(10);
     expect(Math.max(...failing)).toBeCloseTo(25, 0);
+    // Side by side at the new breakpoints: the old gains at the top speed fail, the new ones pass there.
+    const rows = (report.baseline as unknown as { atNewBreakpoints: { speed_mps: number; oldFailures: string[]; newMargins: { phaseMargin_deg: number } }[] }).atNewBreakpoints;
+    const top = rows[rows.length - 1];
+    expect(top.oldFailures.length).toBeGreaterThan(0);
+    expect(top.newMargins.phaseMargin_deg).toBeGreaterThanOrEqual(45);
+    expect(rows[0].oldFailures).toEqual([]);
   });
 });
 
@@ -228,6 +234,24 @@ print(json.dumps(out))
       expect(Math.abs(breakpoint.margins.upperGainMargin_dB! - expected.gm!)).toBeLessThan(1e-3 * Math.abs(expected.gm!));
       expect(Math.abs(breakpoint.margins.sensitivityPeak! - expected.ms)).toBeLessThan(1e-3 * expected.ms);
     });
+  });
+});
+
+describe('speedband export of a built schedule', () => {
+  it('--q-format re-checks the fixed-point gains on the model the schedule records', async () => {
+    const io = recordingIo();
+    expect(await runCli(['export', schedulePath, '--format', 'c', '--q-format', '16.16', '--out', join(dir, 'q16.h'), '--json'], io)).toBe(0);
+    const summary = JSON.parse(io.out()) as { quantisation: { recheckPassed: boolean | null; resolutionBound: number } };
+    expect(summary.quantisation.recheckPassed).toBe(true);
+    // Source: Q16.16 rounding error bound 2^−17 (half of the last fractional bit).
+    expect(summary.quantisation.resolutionBound).toBe(2 ** -17);
+    // Too few fractional bits: Q15.1 rounds every kp of the van (0.18–0.93 rad per rad/s) to 0 or 1 (error bound 2^-2);
+    // the re-check fails and nothing is written.
+    const coarse = recordingIo();
+    const coarsePath = join(dir, 'q15-1.h');
+    expect(await runCli(['export', schedulePath, '--format', 'c', '--q-format', '15.1', '--out', coarsePath], coarse)).toBe(1);
+    expect(coarse.err()).toMatch(/Dense check with the quantised gains: FAILED/);
+    expect(existsSync(coarsePath)).toBe(false);
   });
 });
 

@@ -41,11 +41,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const modelsOut = args['models-out'] === undefined ? undefined : String(args['models-out']);
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force === true);
 
-  let baselineResult: import('../../schedule/types.js').DenseCheckResult | undefined;
-  if (baseline !== undefined) {
-    const { recheckSchedule } = await import('../../build/recheck-schedule.js');
-    baselineResult = recheckSchedule({ schedule: baseline, model: result.checkModel, range: schedule.check.range, gridSpeeds: schedule.check.gridSpeeds });
-  }
+  const baselineCheck = baseline === undefined ? undefined : (await import('../../build/baseline.js')).checkBaseline(baseline, result);
+  const baselineResult = baselineCheck?.check;
 
   if (args.json === true) {
     io.stdout(
@@ -76,6 +73,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
                   gridSize: baselineResult.points.length,
                   worst: baselineResult.worst,
                   failing: baselineResult.points.filter((p) => p.failures.length > 0).map((p) => ({ speed_mps: p.speed_mps, failures: p.failures.map((f) => f.message) })),
+                  atNewBreakpoints: baselineCheck?.rows ?? [],
                 },
           cautions: schedule.cautions,
         },
@@ -88,9 +86,10 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     let text = formatSchedule(schedule);
     text += `\n  model: ${result.checkModel.description}\n`;
     if (warnings.length > 0) text += `  rule warnings:\n${warnings.map((warning) => `    - ${warning}`).join('\n')}\n`;
-    if (baselineResult !== undefined && baseline !== undefined) {
-      const { formatRecheck } = await import('../../build/schedule-report.js');
-      text += `\n${formatRecheck(`Baseline ${String(args.baseline)}: its gains on the new vehicle model — ${baselineResult.passed ? 'still within the limits' : 'NOT SAFE everywhere'}`, baselineResult, baseline, result.checkModel.kind)}`;
+    if (baselineCheck !== undefined && baseline !== undefined) {
+      const { formatBaseline } = await import('../../build/schedule-report.js');
+      const verdict = baselineCheck.check.passed ? 'still within the limits at every speed' : 'NOT within the limits everywhere';
+      text += `\n${formatBaseline(`Baseline ${String(args.baseline)}: its gains on the new vehicle model — ${verdict}`, baselineCheck, baseline, result.checkModel.kind)}`;
     }
     text += '\n';
     if (written) {
@@ -118,7 +117,7 @@ export const command: CommandModule = {
         describe: 'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2',
       })
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
-      .option('models-out', { type: 'string', describe: 'Also write the identification as models.json' })
+      .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
       .option('baseline', { type: 'string', describe: 'A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?)' })
       .option('allow-failing', { type: 'boolean', default: false, describe: 'Write a schedule that fails its dense check, marked "failed" (export refuses it unless told otherwise)' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing output files whose content differs' })
