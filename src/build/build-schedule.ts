@@ -6,6 +6,7 @@
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { sha256Hex } from '../core/files.js';
+import type { IdentifyOptions } from '../identify/defaults.js';
 import { identifyFromLogs } from '../identify/identify-from-logs.js';
 import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
@@ -20,6 +21,9 @@ import { tuneOperatingPoint, type TunedOperatingPoint } from '../tuning/operatin
 import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
 import { checkModelFromModels, type CheckModel } from './check-model.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
+
+/** Identification options `build` overrides: only the FOPDT and joint single-track fits feed a schedule. */
+export const BUILD_IDENTIFY_OPTIONS: Partial<IdentifyOptions> = { fitSecondOrder: false };
 
 export interface BuildInput {
   /** Vehicle file, or a folder holding vehicle.json. */
@@ -70,7 +74,11 @@ export function buildSchedule(input: BuildInput): BuildResult {
   const progress = input.progress ?? (() => {});
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
-  const models = input.models ?? identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, progress, ...(input.readOptions === undefined ? {} : { readOptions: input.readOptions }) });
+  // The schedule uses the joint single-track fit (or the per-speed FOPDT when that is refused), never the
+  // per-step second-order fits: build skips them (the models file records `options.fitSecondOrder: false`).
+  const models =
+    input.models ??
+    identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, options: BUILD_IDENTIFY_OPTIONS, progress, ...(input.readOptions === undefined ? {} : { readOptions: input.readOptions }) });
   const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
   const resolved = input.planFile !== undefined ? readPlan(input.planFile, { testSpeeds_mps }) : resolvePlan(input.plan ?? {}, { testSpeeds_mps });
   const checkModel = checkModelFromModels(models, vehicle, resolved.check.model);
