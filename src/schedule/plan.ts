@@ -92,14 +92,14 @@ export type PartialPlan = {
  * Defaults, in one place. Sources: acceptance limits common practice (DOMAIN.md §5: GM ≥ 6 dB both
  * ways, PM ≥ 45°, Ms ≤ 2); derivative filter N = 10 common practice (DOMAIN.md §4); backward Euler
  * because its derivative-filter pole stays in [0, 1) (DOMAIN.md §5b); SIMC with τc = θ (Skogestad 2003).
- * Our choices: speed range 1–20 m/s with a 2 m/s floor, 6 geometric breakpoints (gains change
+ * Our choices: speed range 1–20 m/s (the test speeds when there are any) with the floor at its bottom, 6 geometric breakpoints (gains change
  * fastest at low speed), 100 Hz firmware with one sample of computation latency, 20 ms delay-margin
  * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
  */
 export const PLAN_DEFAULTS: Plan = {
   loop: { kind: 'yaw-rate', preview_m: 0, referencePoint: 'front-axle' },
   rule: { name: 'simc', parameters: {} },
-  speeds: { minimum_mps: 1, maximum_mps: 20, lowSpeedFloor_mps: 2 },
+  speeds: { minimum_mps: 1, maximum_mps: 20, lowSpeedFloor_mps: 1 },
   breakpoints: { mode: 'automatic', count: 6, spacing: 'geometric' },
   interpolation: 'monotone-cubic',
   controller: { form: 'parallel', derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler', computationLatency_s: 0.01 },
@@ -153,7 +153,9 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   const tests = context.testSpeeds_mps ?? [];
   const fromTests = tests.length >= 2 ? { minimum_mps: Math.min(...tests), maximum_mps: Math.max(...tests) } : {};
   const speeds = { ...PLAN_DEFAULTS.speeds, ...fromTests, ...partial.speeds };
-  if (partial.speeds?.lowSpeedFloor_mps === undefined && speeds.lowSpeedFloor_mps < speeds.minimum_mps) {
+  // Unless the plan sets it, the floor is the bottom of the range (the lowest test speed by default):
+  // a fixed floor would leave a slow vehicle's whole range (a 0.5–3 m/s robot) under one set of gains.
+  if (partial.speeds?.lowSpeedFloor_mps === undefined) {
     speeds.lowSpeedFloor_mps = speeds.minimum_mps;
   }
   if (!(speeds.maximum_mps > speeds.minimum_mps)) {
