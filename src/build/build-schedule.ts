@@ -80,7 +80,8 @@ export function buildSchedule(input: BuildInput): BuildResult {
     input.models ??
     identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, options: BUILD_IDENTIFY_OPTIONS, progress, ...(input.readOptions === undefined ? {} : { readOptions: input.readOptions }) });
   const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
-  const resolved = input.planFile !== undefined ? readPlan(input.planFile, { testSpeeds_mps }) : resolvePlan(input.plan ?? {}, { testSpeeds_mps });
+  const context = { testSpeeds_mps, ...(vehicle.controllerSampleTime_s === undefined ? {} : { vehicleSampleTime_s: vehicle.controllerSampleTime_s }) };
+  const resolved = input.planFile !== undefined ? readPlan(input.planFile, context) : resolvePlan(input.plan ?? {}, context);
   const checkModel = checkModelFromModels(models, vehicle, resolved.check.model);
   // A refused joint fit falls back to lumped models: the plan recorded in the schedule says which was used.
   const plan: Plan = checkModel.kind === resolved.check.model ? resolved : { ...resolved, check: { ...resolved.check, model: checkModel.kind } };

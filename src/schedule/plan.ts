@@ -93,7 +93,7 @@ export type PartialPlan = {
  * ways, PM ≥ 45°, Ms ≤ 2); derivative filter N = 10 common practice (DOMAIN.md §4); backward Euler
  * because its derivative-filter pole stays in [0, 1) (DOMAIN.md §5b); SIMC with τc = θ (Skogestad 2003).
  * Our choices: speed range 1–20 m/s (the test speeds when there are any) with the floor at its bottom, 6 geometric breakpoints (gains change
- * fastest at low speed), 100 Hz firmware with one sample of computation latency, 20 ms delay-margin
+ * fastest at low speed), 100 Hz firmware (or the vehicle file's sample time) with one sample of computation latency, 20 ms delay-margin
  * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
  */
 export const PLAN_DEFAULTS: Plan = {
@@ -141,6 +141,8 @@ export interface ResolveContext {
   readonly testSpeeds_mps?: readonly number[];
   /** File name for error locations. */
   readonly file?: string;
+  /** The vehicle file's controllerSampleTime_s: the sample time when the plan gives none. */
+  readonly vehicleSampleTime_s?: number;
 }
 
 /**
@@ -184,6 +186,9 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   } else if (written !== undefined) {
     breakpoints = { mode: 'automatic', count: written.count ?? 6, spacing: written.spacing ?? 'geometric' };
   }
+  // Sample time: the plan's, else the vehicle file's, else the default; latency: the plan's, else one sample.
+  const sampleTime = partial.controller?.sampleTime_s ?? context.vehicleSampleTime_s ?? PLAN_DEFAULTS.controller.sampleTime_s;
+  const latency = partial.controller?.computationLatency_s ?? sampleTime;
   const parameters = partial.rule?.parameters ?? PLAN_DEFAULTS.rule.parameters;
   for (const [name, value] of Object.entries(parameters)) {
     if (typeof value === 'object') checkSpeedTable(value as SpeedTable, `/rule/parameters/${name}`, file);
@@ -194,7 +199,7 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
     speeds,
     breakpoints,
     interpolation: partial.interpolation ?? PLAN_DEFAULTS.interpolation,
-    controller: { ...PLAN_DEFAULTS.controller, ...partial.controller },
+    controller: { ...PLAN_DEFAULTS.controller, ...partial.controller, sampleTime_s: sampleTime, computationLatency_s: latency },
     acceptance: { ...PLAN_DEFAULTS.acceptance, ...partial.acceptance },
     check: { ...PLAN_DEFAULTS.check, ...partial.check },
   };
