@@ -23,6 +23,20 @@ describe('resolvePlan(partial)', () => {
     expect(plan.speeds).toEqual({ minimum_mps: 4, maximum_mps: 12, lowSpeedFloor_mps: 4 });
   });
 
+  it('keeps a low-speed floor the plan sets, and otherwise puts it at the bottom of the range', () => {
+    expect(resolvePlan({ speeds: { lowSpeedFloor_mps: 2 } }, { testSpeeds_mps: [0.5, 3] }).speeds.lowSpeedFloor_mps).toBe(2);
+    expect(resolvePlan({}, { testSpeeds_mps: [0.5, 3] }).speeds.lowSpeedFloor_mps).toBe(0.5);
+  });
+
+  it("takes the vehicle file's sample time when the plan gives none, with one sample of computation latency", () => {
+    const fromVehicle = resolvePlan({}, { vehicleSampleTime_s: 0.05 });
+    expect(fromVehicle.controller.sampleTime_s).toBe(0.05);
+    expect(fromVehicle.controller.computationLatency_s).toBe(0.05);
+    const fromPlan = resolvePlan({ controller: { sampleTime_s: 0.02, computationLatency_s: 0.001 } }, { vehicleSampleTime_s: 0.05 });
+    expect(fromPlan.controller.sampleTime_s).toBe(0.02);
+    expect(fromPlan.controller.computationLatency_s).toBe(0.001);
+  });
+
   it('required delay margin is latency plus half a sample (zero-order hold) plus room', () => {
     // Source: DOMAIN.md §5 — a zero-order hold adds about Ts/2 of delay; delay margin above the latency with room (common practice).
     const plan = resolvePlan({ controller: { sampleTime_s: 0.02, computationLatency_s: 0.004 }, acceptance: { delayMarginRoom_s: 0.03 } });
