@@ -1,20 +1,28 @@
-import { Ajv, type ErrorObject, type ValidateFunction } from 'ajv';
+import { createRequire } from 'node:module';
+import type { Ajv, ErrorObject } from 'ajv';
 import { SpeedbandError } from './errors.js';
+import { AJV_OPTIONS } from './schema-options.js';
+
+export { AJV_OPTIONS } from './schema-options.js';
 
 let sharedAjv: Ajv | undefined;
 
 /**
- * Ajv settings of the process. `validateSchema: false`: our schemas are constants of the program, so
- * checking them against the JSON Schema meta-schema at every start (compiling the meta-schema costs
- * ≈ 60 ms, a tenth of a `build`) is done once in the tests instead (test/core/schema.test.ts);
- * strict mode still refuses unknown keywords while compiling.
+ * One Ajv instance for the process (schemas compile once, on first use). Ajv is loaded only here, on
+ * the first schema compiled at run time: the program's own file formats use precompiled validators.
  */
-export const AJV_OPTIONS = { allErrors: true, strict: true, allowUnionTypes: true, validateSchema: false } as const;
-
-/** One Ajv instance for the process (schemas compile once, on first use). */
 function ajv(): Ajv {
-  sharedAjv ??= new Ajv(AJV_OPTIONS);
+  if (sharedAjv === undefined) {
+    const { Ajv: AjvClass } = createRequire(import.meta.url)('ajv') as typeof import('ajv');
+    sharedAjv = new AjvClass(AJV_OPTIONS);
+  }
   return sharedAjv;
+}
+
+/** A validator function as Ajv compiles it (or as its standalone code defines it): true when valid, problems in `errors`. */
+export interface SchemaValidator {
+  (value: unknown): boolean;
+  errors?: ErrorObject[] | null;
 }
 
 /** Text for one Ajv error: where, what was found, what was expected. */
@@ -36,10 +44,12 @@ function describeAjvError(error: ErrorObject): string {
  * Build a validator from a JSON Schema. The returned function checks a parsed
  * value and returns it typed, or throws a `SpeedbandError` with `code`
  * (e.g. 'vehicle.invalid'), the file and the JSON path of the first problem,
- * and every problem listed in the message.
+ * and every problem listed in the message. `precompiled`: the schema's validator from
+ * src/core/precompiled-validators.ts (generated; no Ajv compile at run time); without it the
+ * schema is compiled on first use.
  */
-export function makeValidator<T>(schema: object, code: string, what: string): (value: unknown, file: string) => T {
-  let compiled: ValidateFunction | undefined;
+export function makeValidator<T>(schema: object, code: string, what: string, precompiled?: SchemaValidator): (value: unknown, file: string) => T {
+  let compiled: SchemaValidator | undefined = precompiled;
   return (value: unknown, file: string): T => {
     compiled ??= ajv().compile(schema);
     if (compiled(value)) return value as T;

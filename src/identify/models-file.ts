@@ -1,9 +1,10 @@
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { validateModelsFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, MODELS_SCHEMA, type ModelsFile } from './models-schema.js';
 
-const validateModels = makeValidator<ModelsFile>(MODELS_SCHEMA, 'models.invalid', 'speedband models file');
+const validateModels = makeValidator<ModelsFile>(MODELS_SCHEMA, 'models.invalid', 'speedband models file', validateModelsFile);
 
 /** The models file as text: validated, 2-space JSON with a final newline (same models → same bytes). */
 export function modelsToJson(models: ModelsFile, file = 'models.json'): string {

@@ -15,6 +15,7 @@
  */
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
+import { validateLogProfile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import { CHANNELS, LOG_UNITS, isChannelName, isLogUnit, type ChannelName, type LogUnit } from './columns.js';
 import type { ColumnMap } from './column-map.js';
@@ -48,7 +49,7 @@ export const LOG_PROFILE_SCHEMA = {
   additionalProperties: false,
 } as const;
 
-const validateProfile = makeValidator<LogProfile>(LOG_PROFILE_SCHEMA, 'log.profileInvalid', 'log profile');
+const validateProfile = makeValidator<LogProfile>(LOG_PROFILE_SCHEMA, 'log.profileInvalid', 'log profile', validateLogProfile);
 
 /** Parse and validate log-profile JSON text; `file` names it in errors. */
 export function parseLogProfile(text: string, file: string): LogProfile {

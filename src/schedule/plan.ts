@@ -5,6 +5,7 @@
 import type { Discretisation } from '../controller/types.js';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
+import { validatePlanFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import type { ControllerType, RuleName, RuleParameters } from '../tuning/types.js';
 import { PLAN_SCHEMA } from './plan-schema.js';
@@ -113,7 +114,7 @@ export const PLAN_DEFAULTS: Plan = {
   check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track' },
 };
 
-const validatePlan = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file');
+const validatePlan = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile);
 
 function planError(message: string, jsonPath: string, file?: string): SpeedbandError {
   return new SpeedbandError('plan.invalid', message, { location: { file, jsonPath } });

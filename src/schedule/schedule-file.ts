@@ -6,6 +6,7 @@ import { basename } from 'node:path';
 import { SAFETY_CAUTIONS } from '../cli/safety.js';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { validateScheduleFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import type { LoopMargins } from '../verify/types.js';
 import { VERSION } from '../version.js';
@@ -149,7 +150,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   return { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) };
 }
 
-const validateScheduleShape = makeValidator<ScheduleFile>(SCHEDULE_SCHEMA, 'schedule.invalid', 'schedule file');
+const validateScheduleShape = makeValidator<ScheduleFile>(SCHEDULE_SCHEMA, 'schedule.invalid', 'schedule file', validateScheduleFile);
 
 /**
  * Check a parsed schedule: schema (JSON path of the first problem), strictly increasing breakpoint

@@ -9,6 +9,7 @@ import { existsSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
+import { validateVehicleFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import { closestName } from '../log/closest-name.js';
 import { VEHICLE_RANGES, VEHICLE_SCHEMA } from './schema.js';
@@ -17,7 +18,7 @@ import type { Vehicle } from './types.js';
 /** The file name looked for when a folder is given. */
 export const VEHICLE_FILE_NAME = 'vehicle.json';
 
-const validateStructure = makeValidator<Vehicle>(VEHICLE_SCHEMA, 'vehicle.invalid', 'vehicle file');
+const validateStructure = makeValidator<Vehicle>(VEHICLE_SCHEMA, 'vehicle.invalid', 'vehicle file', validateVehicleFile);
 
 /** The stem of a field name without its unit suffix: 'mass_kg' → 'mass'. */
 const stemOf = (name: string): string => name.split('_')[0].toLowerCase();
