@@ -4,7 +4,7 @@ import { command as inspect } from './inspect.js';
 import { command as identify } from './identify.js';
 import { command as exportSchedule } from './export.js';
 import { command as tune } from './tune.js';
-import { command as margins } from './margins.js';
+import { command as stability } from './stability.js';
 import { command as compare } from './compare.js';
 import { command as build } from './build.js';
 import { command as check } from './check.js';
@@ -16,4 +16,4 @@ import { command as demo } from './demo.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [demo, inspect, identify, tune, margins, build, check, exportSchedule, compare, makeTestLogs];
+export const COMMANDS: readonly CommandModule[] = [demo, inspect, identify, tune, stability, build, check, exportSchedule, compare, makeTestLogs];

@@ -49,12 +49,12 @@ const format = (value: number | null, digits: number, unit: string): string => (
 const at = (frequency: number | null): string => (frequency === null ? '' : ` at ${frequency.toPrecision(4)} rad/s`);
 
 export const command: CommandModule = {
-  command: 'margins',
+  command: 'stability',
   describe: 'Stability margins of one loop: a plant (transfer function with delay, or FOPDT) under a PID — phase, lower and upper gain, delay margins, sensitivity peaks and a verdict',
   builder: (yargs) =>
     yargs
       .usage(
-        'speedband margins (--numerator "..." --denominator "..." [--delay-s θ] | --gain K --time-constant-s T --dead-time-s L) --kp KP [--ki KI] [--kd KD] [options]\n\n' +
+        'speedband stability (--numerator "..." --denominator "..." [--delay-s θ] | --gain K --time-constant-s T --dead-time-s L) --kp KP [--ki KI] [--kd KD] [options]\n\n' +
           'The plant is G(s) = N(s)/D(s)·e^(−θs) with coefficients highest power first, or the FOPDT K·e^(−Ls)/(Ts + 1). ' +
           'The loop L = C·G is analysed with the exact delay: every gain crossover (phase margin, delay margin = min PM/ω), every crossing of −180° ' +
           '(upper gain margin: raising the gain by it destabilises; lower gain margin, negative dB: reducing the gain by it destabilises), ' +
@@ -78,9 +78,9 @@ export const command: CommandModule = {
       .option('latency-s', { type: 'number', default: 0, describe: 'Computation latency from sample to actuator command, s (added to the plant delay)' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' }),
   examples: [
-    ['speedband margins --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5', 'A yaw-rate PI loop on an identified FOPDT'],
-    ['speedband margins --numerator 1 --denominator "1 0 0" --delay-s 1 --kp 0.0625 --ki 8 --kd 8 --form series --derivative-filter none', 'SIMC PID on a double integrator with delay: both gain margins'],
-    ['speedband margins --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5 --sample-time-s 0.02 --latency-s 0.005 --json', 'The same loop as firmware at 50 Hz with 5 ms latency, as JSON'],
+    ['speedband stability --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5', 'A yaw-rate PI loop on an identified FOPDT'],
+    ['speedband stability --numerator 1 --denominator "1 0 0" --delay-s 1 --kp 0.0625 --ki 8 --kd 8 --form series --derivative-filter none', 'SIMC PID on a double integrator with delay: both gain margins'],
+    ['speedband stability --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5 --sample-time-s 0.02 --latency-s 0.005 --json', 'The same loop as firmware at 50 Hz with 5 ms latency, as JSON'],
   ],
   run: async (args, io) => {
     const { analyseLoop } = await import('../../verify/analyse-loop.js');
