@@ -47,6 +47,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
     );
   }
 
+  skipHelpCache(parser);
   try {
     await parser.parseAsync([...argv], {}, (error, _argv, output) => {
       if (output) (error ? io.stderr : io.stdout)(output.endsWith('\n') ? output : `${output}\n`);
@@ -67,3 +68,16 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
 }
 
 class UsageError extends Error {}
+
+/**
+ * yargs renders the whole help text after starting every command, to show it should the command
+ * fail later (50–90 ms: text wrapping of every option and example). Our `.fail` throws instead of
+ * printing help, so that text is never used: the cache step is made a no-op on this parser's usage
+ * instance (yargs 18 internals, pinned in package.json; without them nothing changes). `--help` and
+ * usage errors render help as before.
+ */
+function skipHelpCache(parser: unknown): void {
+  const internals = (parser as { getInternalMethods?: () => { getUsageInstance?: () => { cacheHelpMessage?: unknown } } }).getInternalMethods?.();
+  const usage = internals?.getUsageInstance?.();
+  if (usage !== undefined && typeof usage.cacheHelpMessage === 'function') usage.cacheHelpMessage = () => {};
+}
