@@ -3,7 +3,7 @@
  * check, export C and CSV — into one folder, saying where everything went.
  */
 import { readdirSync } from 'node:fs';
-import { join } from 'node:path';
+import { join, relative } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { SpeedbandError } from '../core/errors.js';
 import type { WriteOutcome } from '../core/files.js';
@@ -48,7 +48,8 @@ export function runDemo(input: DemoInput): DemoResult {
   if (!known.includes(input.vehicle)) {
     throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle "${input.vehicle}" — choose one of: ${known.join(', ')}`);
   }
-  const folder = join(BUNDLED_VEHICLES, input.vehicle);
+  // Paths relative to the working directory, so that the files written name no machine paths.
+  const folder = relative(process.cwd(), join(BUNDLED_VEHICLES, input.vehicle)) || '.';
   const logsFolder = join(folder, 'logs');
   const logPaths = readdirSync(logsFolder)
     .filter((name) => name.endsWith('.csv'))
