@@ -10,7 +10,8 @@ import { degreesToRadians, radiansToDegrees } from '../core/units.js';
 import { stepLevels, stepMetrics, METRICS_DEFAULTS } from './metrics.js';
 import { firstIndexAtOrAfter, lastIndexWithinSpeedBand, maxAbs, preStepDrift, speedDuringHold } from './hold-signals.js';
 import { differenceNoise, findPlateaus, type Plateau } from './plateaus.js';
-import type { LogSegment, RejectedStep, SteerLog, StepTest } from './types.js';
+import { edgeStretches } from './edge-stretches.js';
+import type { LogSegment, LogSplit, RejectedStep, SteerLog, StepTest } from './types.js';
 
 export const SEGMENT_DEFAULTS = {
   /** Smallest half-width of the band a held command stays in, rad (0.1°). */
@@ -52,6 +53,9 @@ export interface StepSearch {
 
 /**
  * Find and judge every step-steer candidate in a log (all segments). SI units, positive amplitude = left.
+ * A command move next to a segment edge (start or end of the file, a time gap) whose level there is held
+ * shorter than `minPlateau_s` is a candidate too, so it is rejected with a reason (`noPreStepWindow`,
+ * `holdTooShort`) rather than lost.
  * Throws `log.badOption` when an option is not a positive finite number (fractions at most 1).
  */
 export function findStepTests(log: SteerLog, options: SegmentOptions = {}): StepSearch {
@@ -60,8 +64,9 @@ export function findStepTests(log: SteerLog, options: SegmentOptions = {}): Step
   const steps: StepTest[] = [];
   const rejected: RejectedStep[] = [];
   for (const segment of log.segments) {
+    const edges = describeEdges(log.segments.length, log.splits, segment.segmentIndex);
     for (const candidate of segmentCandidates(segment, settings)) {
-      const outcome = judgeCandidate(segment, candidate, settings, steps.length);
+      const outcome = judgeCandidate(segment, candidate, settings, steps.length, edges);
       if ('reasonCode' in outcome) rejected.push(outcome);
       else steps.push(outcome);
     }
@@ -74,6 +79,22 @@ type Settings = { readonly [K in keyof typeof SEGMENT_DEFAULTS]: number } & { re
 interface Candidate {
   readonly before: Plateau;
   readonly after: Plateau;
+  /** Set when `before` starts at the segment's first sample or `after` ends at its last one and that stretch is not a full plateau. */
+  readonly edge?: 'start' | 'end';
+}
+
+/** What cuts a segment at each end, in words: 'the log starts' / 'a 2.02 s time gap at line 1001 ...'. */
+interface EdgeWords {
+  readonly start: string;
+  readonly end: string;
+}
+
+function describeEdges(segmentCount: number, splits: readonly LogSplit[], segmentIndex: number): EdgeWords {
+  const gapWords = (split: LogSplit | undefined): string => (split === undefined ? 'a time gap' : `a ${split.gap_s.toFixed(2)} s time gap (line ${split.line})`);
+  return {
+    start: segmentIndex === 0 ? 'the log starts' : `the log resumes after ${gapWords(splits[segmentIndex - 1])}`,
+    end: segmentIndex === segmentCount - 1 ? 'the log ends' : `${gapWords(splits[segmentIndex])} cuts the log`,
+  };
 }
 
 function checkSettings(settings: Settings): void {
@@ -101,12 +122,22 @@ function segmentCandidates(segment: LogSegment, settings: Settings): Candidate[]
     maxRamp_s: settings.maxRamp_s,
     onsetTolerance_rad: Math.max(3 * noise, 0.1 * band_rad),
   });
+  const { leading, trailing } = edgeStretches(segment.steerCommand_rad, plateaus, {
+    band_rad,
+    minPlateau_s: settings.minPlateau_s,
+    maxRamp_s: settings.maxRamp_s,
+    onsetTolerance_rad: Math.max(3 * noise, 0.1 * band_rad),
+  });
+  const levels = [...(leading === null ? [] : [leading]), ...plateaus, ...(trailing === null ? [] : [trailing])];
   const candidates: Candidate[] = [];
-  for (let k = 1; k < plateaus.length; k += 1) candidates.push({ before: plateaus[k - 1], after: plateaus[k] });
+  for (let k = 1; k < levels.length; k += 1) {
+    const edge = k === 1 && leading !== null ? 'start' : k === levels.length - 1 && trailing !== null ? 'end' : undefined;
+    candidates.push({ before: levels[k - 1], after: levels[k], ...(edge === undefined ? {} : { edge }) });
+  }
   return candidates;
 }
 
-function judgeCandidate(segment: LogSegment, { before, after }: Candidate, settings: Settings, stepIndex: number): StepTest | RejectedStep {
+function judgeCandidate(segment: LogSegment, { before, after, edge }: Candidate, settings: Settings, stepIndex: number, edges: EdgeWords): StepTest | RejectedStep {
   const t = segment.time_s;
   const onset = before.end;
   const onset_s = t[onset];
@@ -122,6 +153,12 @@ function judgeCandidate(segment: LogSegment, { before, after }: Candidate, setti
     );
   }
   const preStep_s = t[onset] - t[before.start];
+  if (preStep_s < settings.minPreStep_s && edge === 'start') {
+    return reject(
+      'noPreStepWindow',
+      `${stepText}: ${edges.start} only ${preStep_s.toFixed(2)} s before the step (need ≥ ${settings.minPreStep_s} s of held command to measure the yaw-rate bias) — start logging earlier or keep the logger running through the step`,
+    );
+  }
   if (preStep_s < settings.minPreStep_s) {
     return reject(
       'noPreStepWindow',
@@ -129,6 +166,12 @@ function judgeCandidate(segment: LogSegment, { before, after }: Candidate, setti
     );
   }
   const hold_s = t[after.end] - t[onset];
+  if (hold_s < settings.minHold_s && edge === 'end') {
+    return reject(
+      'holdTooShort',
+      `${stepText}: ${edges.end} ${hold_s.toFixed(2)} s after the step (need ≥ ${settings.minHold_s} s of hold for the yaw rate to settle) — keep logging until the yaw rate settles after the last step`,
+    );
+  }
   if (hold_s < settings.minHold_s) {
     return reject(
       'holdTooShort',
@@ -210,7 +253,9 @@ function judgeCandidate(segment: LogSegment, { before, after }: Candidate, setti
 }
 
 function formatDegrees(angle_rad: number): string {
-  return `${radiansToDegrees(angle_rad).toFixed(2)}°`;
+  const degrees = radiansToDegrees(angle_rad);
+  // A level of −0.001° is zero in words ("−0.00°" reads as a sign error).
+  return `${(Math.abs(degrees) < 0.005 ? 0 : degrees).toFixed(2)}°`;
 }
 
 /** Round an angle up to 1, 2 or 5 × 10^k degrees, for advice. */
