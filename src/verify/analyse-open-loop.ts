@@ -10,6 +10,7 @@ import { closedLoopPoleVerdict } from './closed-loop-poles.js';
 import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { nyquistCount, type EncirclementResult } from './encirclement.js';
 import type { LoopGrid } from './frequency-grid.js';
+import { sampledLoopVerdict } from './sampled-verdict.js';
 import { sensitivityPeaks } from './sensitivity.js';
 import { cancelCommonIntegrators, sweepLoop } from './sweep.js';
 import type { LoopAnalysisDetails, LoopMargins, OpenLoop } from './types.js';
@@ -48,7 +49,10 @@ function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
  *   and the encirclement count changes. Upper gain margin = the smallest factor > 1
  *   (raising the gain destabilises), lower = the largest factor < 1, reported as a
  *   negative dB figure 20·log10(1/|L|) (reducing the gain destabilises, as in a
- *   conditionally stable double integrator with PID). Null when there is none.
+ *   conditionally stable double integrator with PID). Null when there is none, and both
+ *   null (with their frequencies) when the loop is not stable: a gain margin is the
+ *   distance to instability and does not apply to a loop that is already unstable
+ *   (reducing the gain may stabilise it); the phase margin is kept (negative is informative).
  * - Ms = max|1/(1 + L)| and Mt = max|L/(1 + L)|, refined by golden-section search.
  * - Verdict: closed-loop poles with a Padé approximant (order by `padeOrderFor` from
  *   ω·θ over the band where |L| ≥ 0.5) AND the Nyquist count Z = N + P with the exact
@@ -57,8 +61,12 @@ function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
  *   |L(j∞)| ≥ 1 (e.g. an unfiltered derivative on a plant of relative degree one) is a
  *   neutral-type loop: unstable whatever the margins. If the two tests disagree the
  *   verdict is 'undetermined' and stable is false.
- * - With a discrete controller the verdict uses its continuous counterpart C(s) with an
- *   extra Ts/2 delay (an approximation of sampling; margins use the exact C(e^(jωTs)))
+ * - With a discrete controller the verdict is decided by the exact sampled-data loop
+ *   (`sampledLoopVerdict`: zero-order-hold equivalent of the plant with the fractional
+ *   delay, the controller C(z), eigenvalues of the closed-loop matrix inside |z| < 1)
+ *   AND the Nyquist count, which still runs on the continuous counterpart C(s) with an
+ *   extra Ts/2 delay (an approximation of sampling): 'stable' only when both say stable,
+ *   'unstable' when both say unstable, else 'undetermined'. Margins use C(e^(jωTs))·e^(−jωTs/2)
  *   and the band stops at the Nyquist frequency π/Ts.
  * Throws `verify.invalidLoop` / `verify.improperLoop` on bad input.
  */
@@ -119,6 +127,18 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   if (neutralType) verdict = 'unstable';
   else if (poles.verdict === encirclementVerdict) verdict = poles.verdict === 'stable' ? 'stable' : 'unstable';
   else verdict = 'undetermined';
+  // A discrete controller: the exact sampled-data eigenvalues decide, the frequency-domain count must agree.
+  const sampled =
+    discrete === null
+      ? null
+      : sampledLoopVerdict(
+          { plant: { numerator: loop.numerator, denominator: loop.denominator, delay_s: loop.delay_s }, controller: discrete, sampleTime_s: discrete.sampleTime_s },
+          ANALYSIS_DEFAULTS.sampledPoleRadiusTolerance,
+        );
+  if (sampled !== null) {
+    const frequencyVerdict = neutralType ? 'unstable' : encirclementVerdict;
+    verdict = sampled.verdict === 'stable' && frequencyVerdict === 'stable' ? 'stable' : sampled.verdict === 'unstable' && frequencyVerdict === 'unstable' ? 'unstable' : 'undetermined';
+  }
   const stable = verdict === 'stable';
 
   // Margins on the loop as the firmware runs it.
@@ -141,7 +161,8 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   }
   let lower: { magnitude: number; frequency: number } | null = null;
   let upper: { magnitude: number; frequency: number } | null = null;
-  for (const c of critical) {
+  // A gain margin is a distance to instability: it exists only for a stable loop.
+  if (stable) for (const c of critical) {
     if (c.magnitude > 1 && (lower === null || c.magnitude < lower.magnitude)) lower = { magnitude: c.magnitude, frequency: c.frequency_radps };
     if (c.magnitude < 1 && c.magnitude > 0 && (upper === null || c.magnitude > upper.magnitude)) upper = { magnitude: c.magnitude, frequency: c.frequency_radps };
   }
@@ -177,6 +198,7 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
       phaseCrossovers: critical.map((c) => ({ frequency_radps: c.frequency_radps, gainMargin_dB: ratioToDecibels(1 / c.magnitude) })),
       bandLow_radps: margins.band.low_radps,
       bandHigh_radps: margins.band.high_radps,
+      ...(sampled === null ? {} : { sampledDataVerdict: sampled.verdict, sampledDataLargestPoleMagnitude: sampled.largestPoleMagnitude }),
     },
   };
 }

@@ -25,4 +25,6 @@ export const ANALYSIS_DEFAULTS = {
   poleRelativeTolerance: 1e-9,
   /** |L(j∞)| ≥ 1 − this with a delay makes a neutral-type loop. */
   neutralTolerance: 1e-9,
+  /** Sampled-data loop: stable needs every closed-loop eigenvalue |z| < 1 − this; within this of 1 is marginal (not stable). */
+  sampledPoleRadiusTolerance: 1e-8,
 } as const;

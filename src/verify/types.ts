@@ -2,6 +2,7 @@
  * Stability and robustness of one loop L = C·G (DOMAIN.md §5). Absent margins are null.
  * Gain margins in dB: lower (reducing the gain by this much destabilises; reported as a
  * negative dB figure, e.g. −15.6 dB) and upper (raising the gain by this much destabilises).
+ * On a loop that is not stable both gain margins are null: they do not apply.
  */
 export interface LoopMargins {
   readonly stable: boolean;
@@ -51,13 +52,18 @@ export interface LoopAnalysisDetails {
   /** Frequency band analysed, rad/s. */
   readonly bandLow_radps: number;
   readonly bandHigh_radps: number;
+  /** With a discrete controller: the exact sampled-data verdict (closed-loop eigenvalues in z, `sampledLoopVerdict`). */
+  readonly sampledDataVerdict?: 'stable' | 'unstable' | 'marginal';
+  /** With a discrete controller: the largest closed-loop eigenvalue magnitude |z| of the sampled-data loop. */
+  readonly sampledDataLargestPoleMagnitude?: number;
 }
 
 /**
  * A discrete controller C(z) in the loop, evaluated on the unit circle z = e^(jωTs).
  * Coefficients in powers of z, highest first. The zero-order hold is counted as a
  * delay of Ts/2 (DOMAIN.md §5): margins use C(e^(jωTs))·e^(−jωTs/2); the stability
- * verdict uses `continuousCounterpart`(s)·e^(−sTs/2).
+ * verdict is the exact sampled-data one (src/verify/sampled-verdict.ts), confirmed by
+ * the Nyquist count on `continuousCounterpart`(s)·e^(−sTs/2).
  */
 export interface DiscreteControllerFactor {
   readonly numerator: readonly number[];

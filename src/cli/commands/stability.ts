@@ -2,6 +2,7 @@ import { SpeedbandError } from '../../core/errors.js';
 import { CONTROLLER_DEFAULTS } from '../../controller/defaults.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
+import type { LoopMargins } from '../../verify/types.js';
 
 /** A number option or undefined when absent (yargs gives NaN for a non-number). */
 function numberOption(args: Record<string, unknown>, name: string): number | undefined {
@@ -44,6 +45,12 @@ function filterOption(value: unknown): number {
   }
   return parsed;
 }
+
+/** The exact sampled-data verdict, when the loop has a discrete controller. */
+const sampledWords = (margins: LoopMargins): string =>
+  margins.analysis?.sampledDataVerdict === undefined
+    ? ''
+    : `sampled-data poles: ${margins.analysis.sampledDataVerdict}, largest |z| ${margins.analysis.sampledDataLargestPoleMagnitude?.toFixed(4)}; `;
 
 const format = (value: number | null, digits: number, unit: string): string => (value === null ? 'none' : `${value.toFixed(digits)} ${unit}`);
 const at = (frequency: number | null): string => (frequency === null ? '' : ` at ${frequency.toPrecision(4)} rad/s`);
@@ -126,10 +133,14 @@ export const command: CommandModule = {
       io.stdout(`${JSON.stringify(margins, null, 2)}\n`);
     } else {
       const lines = [
-        `verdict: ${margins.verdict}${margins.analysis ? ` (closed-loop poles: ${margins.analysis.closedLoopPoleVerdict}, Padé order ${margins.analysis.padeOrder}; Nyquist count: ${margins.analysis.encirclementVerdict}${margins.analysis.encirclementNote ? ` — ${margins.analysis.encirclementNote}` : ''})` : ''}`,
+        `verdict: ${margins.verdict}${margins.analysis ? ` (${sampledWords(margins)}closed-loop poles: ${margins.analysis.closedLoopPoleVerdict}, Padé order ${margins.analysis.padeOrder}; Nyquist count: ${margins.analysis.encirclementVerdict}${margins.analysis.encirclementNote ? ` — ${margins.analysis.encirclementNote}` : ''})` : ''}`,
         `phase margin:        ${format(margins.phaseMargin_deg, 2, '°')}${at(margins.phaseMarginFrequency_radps)}`,
-        `upper gain margin:   ${format(margins.upperGainMargin_dB, 2, 'dB')}${at(margins.upperGainMarginFrequency_radps)}${margins.upperGainMargin_dB === null ? '' : '  (raising the gain by this destabilises)'}`,
-        `lower gain margin:   ${format(margins.lowerGainMargin_dB, 2, 'dB')}${at(margins.lowerGainMarginFrequency_radps)}${margins.lowerGainMargin_dB === null ? '' : '  (reducing the gain by this destabilises)'}`,
+        ...(margins.stable
+          ? [
+              `upper gain margin:   ${format(margins.upperGainMargin_dB, 2, 'dB')}${at(margins.upperGainMarginFrequency_radps)}${margins.upperGainMargin_dB === null ? '' : '  (raising the gain by this destabilises)'}`,
+              `lower gain margin:   ${format(margins.lowerGainMargin_dB, 2, 'dB')}${at(margins.lowerGainMarginFrequency_radps)}${margins.lowerGainMargin_dB === null ? '' : '  (reducing the gain by this destabilises)'}`,
+            ]
+          : ['gain margins:        the loop is not stable: gain margins do not apply']),
         `delay margin:        ${format(margins.delayMargin_s, 4, 's')}${at(margins.delayMarginFrequency_radps)}`,
         `sensitivity peak Ms: ${margins.sensitivityPeak.toFixed(3)}${at(margins.sensitivityPeakFrequency_radps)}`,
         `complementary peak:  ${margins.complementarySensitivityPeak.toFixed(3)}${at(margins.complementarySensitivityPeakFrequency_radps)}`,

@@ -1,0 +1,215 @@
+/**
+ * The exact verdict of a sampled loop (plant with delay, zero-order hold, discrete PID)
+ * against independent python computations:
+ * - a fine-step Runge–Kutta simulation of the continuous plant with the firmware's PID
+ *   difference equation and the hold (the audit cases: divergence or decay);
+ * - on 160 random loops, numpy.roots of the closed-loop characteristic polynomial built from
+ *   scipy.signal.cont2discrete (zoh) with the delay split into whole samples and a fractional
+ *   part by the modified z-transform (Franklin, Powell & Workman, Digital Control of Dynamic
+ *   Systems, 3rd ed., §4.3.4), the controller C(z) derived in python from the continuous PID by
+ *   the substitution s = (z − 1)/(T·z) (backward Euler) or s = (2/T)(z − 1)/(z + 1) (Tustin).
+ * One python call per test.
+ */
+import { describe, expect, it } from 'vitest';
+import { runPython } from '../helpers/python.js';
+import { makeRandom } from '../../src/core/random.js';
+import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
+import { splitDelay } from '../../src/verify/sampled-verdict.js';
+
+/** Fine-step simulation: RK4 on the continuous plant (step h dividing Ts and the fractional delay), discrete PID, hold. */
+const SIMULATE = `
+import json, sys
+import numpy as np
+from scipy import signal
+data = json.load(sys.stdin)
+out = []
+for c in data:
+    A, B, C, D = signal.tf2ss(c['num'], c['den'])
+    A = np.array(A, float); B = np.array(B, float).ravel(); C = np.array(C, float).ravel(); D = float(np.array(D).ravel()[0])
+    T = c['Ts']; theta = c['theta']; kp, ki, kd, N = c['kp'], c['ki'], c['kd'], c['N']
+    h = c['h']; sub = int(round(T / h)); steps = int(round(c['duration'] / T))
+    Tf = kd / (kp * N)
+    if c['method'] == 'tustin':
+        wc = wp = T / 2; p = (2*Tf - T) / (2*Tf + T); g = 2*kd / (2*Tf + T)
+    else:
+        wc = T; wp = 0.0; p = Tf / (Tf + T); g = kd / (Tf + T)
+    # held inputs u[k] from t = kT; u(t - theta) read from the history (0 before the start)
+    us = []
+    def held(t):
+        k = int(np.floor((t - theta) / T + 1e-9))
+        return us[k] if 0 <= k < len(us) else 0.0
+    x = np.zeros(len(B)); I = 0.0; Dk = 0.0; e_prev = 0.0; kie_prev = 0.0; r = 1.0
+    errors = []
+    f = lambda x, u: A @ x + B * u
+    for k in range(steps):
+        t = k * T
+        y = C @ x + D * held(t - 1e-12)
+        e = r - y
+        I = I + wc * ki * e + wp * kie_prev
+        Dk = p * Dk + g * (e - e_prev)
+        us.append(kp * e + I + Dk)
+        e_prev = e; kie_prev = ki * e
+        errors.append(abs(e))
+        for j in range(sub):
+            tj = t + j * h
+            u = held(tj + 0.5 * h)  # constant over the substep: h divides T and the fractional delay
+            k1 = f(x, u); k2 = f(x + 0.5*h*k1, u); k3 = f(x + 0.5*h*k2, u); k4 = f(x + h*k3, u)
+            x = x + h / 6 * (k1 + 2*k2 + 2*k3 + k4)
+        if not np.all(np.isfinite(x)) or np.max(np.abs(x)) > 1e12:
+            break
+    errors = np.array(errors)
+    n = len(errors); q = max(n // 6, 1)
+    out.append({'early': float(np.max(errors[q:2*q])), 'late': float(np.max(errors[-q:])), 'samples': n})
+print(json.dumps(out))
+`;
+
+interface SimulatedCase {
+  readonly num: number[];
+  readonly den: number[];
+  readonly theta: number;
+  readonly Ts: number;
+  readonly kp: number;
+  readonly ki: number;
+  readonly kd: number;
+  readonly N: number;
+  readonly method: 'tustin' | 'backward-euler';
+  readonly h: number;
+  readonly duration: number;
+}
+
+const descriptionOf = (c: SimulatedCase): LoopDescription => ({
+  plant: { numerator: c.num, denominator: c.den, delay_s: c.theta },
+  pid: { kp: c.kp, ki: c.ki, kd: c.kd, derivativeFilter: c.N },
+  sampleTime_s: c.Ts,
+  discretisation: c.method,
+});
+
+describe('sampled-data verdict of a discrete PID with a zero-order hold', () => {
+  it('splitDelay(θ, Ts) gives θ = ℓ·Ts + m with 0 ≤ m < Ts, whole samples snapped', () => {
+    expect(splitDelay(0.141, 0.05).wholeSamples).toBe(2);
+    expect(splitDelay(0.141, 0.05).fraction_s).toBeCloseTo(0.041, 12);
+    // 0.03/0.01 is 2.9999999999999996 in binary: three whole samples, no fraction.
+    expect(splitDelay(0.03, 0.01)).toEqual({ wholeSamples: 3, fraction_s: 0 });
+    expect(splitDelay(0, 0.01)).toEqual({ wholeSamples: 0, fraction_s: 0 });
+  });
+
+  it('the audited loops that the Ts/2 approximation called stable are not stable, and a fine-step simulation diverges; a gentler loop decays', () => {
+    const cases: SimulatedCase[] = [
+      // Audit case 1 (simulated error grows ≈ 36× over 100 s): K 3.61, τ 0.12 s, θ 0.141 s, Tustin at 50 ms; exact max |z| = 1.0022 (audit figure).
+      { num: [3.61], den: [0.12, 1], theta: 0.141, Ts: 0.05, kp: 0.3065, ki: 1.2602, kd: 0.0186, N: 10, method: 'tustin', h: 0.001, duration: 120 },
+      // Audit case 2: 1/(0.3s + 1), θ 0.03 s, Tustin at 10 ms, kp 8, kd 0.2 (no integral).
+      { num: [1], den: [0.3, 1], theta: 0.03, Ts: 0.01, kp: 8, ki: 0, kd: 0.2, N: 10, method: 'tustin', h: 0.0005, duration: 6 },
+      // Case 1 with half the gains: stable.
+      { num: [3.61], den: [0.12, 1], theta: 0.141, Ts: 0.05, kp: 0.15, ki: 0.6, kd: 0.009, N: 10, method: 'tustin', h: 0.001, duration: 12 },
+    ];
+    const simulated = runPython<Array<{ early: number; late: number }>>(SIMULATE, cases);
+    const ours = cases.map((c) => analyseLoop(descriptionOf(c)));
+
+    // Source: audit of the Ts/2 approximation (exact sampled-data poles, max |z| = 1.0022).
+    expect(ours[0].analysis?.sampledDataLargestPoleMagnitude).toBeCloseTo(1.0022, 4);
+    for (const index of [0, 1]) {
+      expect({ index, stable: ours[index].stable }).toEqual({ index, stable: false });
+      expect(['unstable', 'undetermined']).toContain(ours[index].verdict);
+      expect(ours[index].analysis?.sampledDataVerdict).toBe('unstable');
+      // Gain margins do not apply to a loop that is not stable.
+      expect(ours[index].upperGainMargin_dB).toBeNull();
+      expect(ours[index].lowerGainMargin_dB).toBeNull();
+      // Independent: the simulated error grows by more than 3× between the second and the last sixth of the run.
+      expect(simulated[index].late / simulated[index].early).toBeGreaterThan(3);
+    }
+    expect(ours[2].verdict).toBe('stable');
+    expect(ours[2].analysis?.sampledDataVerdict).toBe('stable');
+    expect(ours[2].analysis!.sampledDataLargestPoleMagnitude!).toBeLessThan(1);
+    expect(simulated[2].late / simulated[2].early).toBeLessThan(1e-3);
+  });
+
+  it('on 160 random loops the sampled-data verdict and largest |z| equal numpy roots of the modified-z-transform closed loop', () => {
+    const random = makeRandom(20261201);
+    const between = (low: number, high: number): number => low + (high - low) * random.uniform();
+    const logBetween = (low: number, high: number): number => Math.exp(between(Math.log(low), Math.log(high)));
+    const cases: Array<{ num: number[]; den: number[]; theta: number; Ts: number; kp: number; ki: number; kd: number; N: number; method: 'tustin' | 'backward-euler' }> = [];
+    for (let i = 0; i < 160; i++) {
+      const gain = logBetween(0.3, 4);
+      const tau = logBetween(0.1, 2);
+      const kind = i % 4;
+      const den =
+        kind === 0 ? [tau, 1]
+        : kind === 1 ? [0.3 * tau * tau, 1.3 * tau, 1]
+        : kind === 2 ? [tau, 1, 0]
+        : [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1];
+      const Ts = logBetween(0.005, 0.1);
+      const theta = Math.min(between(0, 0.25), 20 * Ts);
+      const kp = logBetween(0.1, 6) / gain;
+      const ki = kp / logBetween(0.1, 3);
+      const kd = random.uniform() < 0.25 ? 0 : kp * logBetween(0.005, 0.3);
+      const N = [5, 10, 20][Math.floor(random.uniform() * 3)];
+      cases.push({ num: [gain], den, theta, Ts, kp, ki, kd, N, method: i % 2 === 0 ? 'tustin' : 'backward-euler' });
+    }
+    const reference = runPython<number[]>(
+      `
+import json, sys
+import numpy as np
+from numpy.polynomial import polynomial as P
+from scipy import signal
+from scipy.linalg import expm
+data = json.load(sys.stdin)
+def pmul(a, b): return np.polymul(a, b)
+def padd(a, b): return np.polyadd(a, b)
+out = []
+for c in data:
+    T = c['Ts']; theta = c['theta']
+    ell = int(np.floor(theta / T + 1e-9)); m = theta - ell * T
+    if m < 1e-9 * T: m = 0.0
+    A, B, C, D = signal.tf2ss(c['num'], c['den'])
+    Phi0, G0, _, _, _ = signal.cont2discrete((A, B, C, D), T - m, method='zoh')
+    if m > 0:
+        _, Gm, _, _, _ = signal.cont2discrete((A, B, C, D), m, method='zoh')
+        G1 = Phi0 @ Gm
+    else:
+        G1 = np.zeros_like(G0)
+    Phi = expm(np.array(A, float) * T)
+    # G(z) = [C (zI - Phi)^-1 (G0 z + G1) + D] z^-(ell+1)
+    n0, den = signal.ss2tf(Phi, G0, C, np.zeros((1, 1)))
+    n1, _ = signal.ss2tf(Phi, G1, C, np.zeros((1, 1)))
+    Dv = float(np.array(D).ravel()[0])
+    plant_num = padd(padd(pmul(n0[0], [1, 0]), n1[0]), Dv * np.asarray(den))
+    plant_den = pmul(den, [1] + [0] * (ell + 1))
+    # C(z) from the continuous PID by substitution
+    kp, ki, kd, N = c['kp'], c['ki'], c['kd'], c['N']
+    if c['method'] == 'tustin':
+        sn, sd = np.array([2.0, -2.0]), np.array([T, T])
+    else:
+        sn, sd = np.array([1.0, -1.0]), np.array([T, 0.0])
+    if kd == 0:
+        cn = padd(kp * sn, ki * sd); cd = sn
+    else:
+        Tf = kd / (kp * N)
+        f = padd(sd, Tf * sn)
+        cn = padd(padd(kp * pmul(sn, f), ki * pmul(sd, f)), kd * pmul(sn, sn))
+        cd = pmul(sn, f)
+    char = padd(pmul(cd, plant_den), pmul(cn, plant_num))
+    char = np.trim_zeros(np.real_if_close(char), 'f')
+    out.append(float(np.max(np.abs(np.roots(char)))))
+print(json.dumps(out))
+`,
+      cases,
+    );
+    let stable = 0;
+    let compared = 0;
+    cases.forEach((c, index) => {
+      const ours = analyseLoop({ plant: { numerator: c.num, denominator: c.den, delay_s: c.theta }, pid: { kp: c.kp, ki: c.ki, kd: c.kd, derivativeFilter: c.N }, sampleTime_s: c.Ts, discretisation: c.method });
+      const largest = reference[index];
+      if (Math.abs(largest - 1) < 1e-5) return; // too close to the unit circle for either to decide
+      compared++;
+      if (largest < 1) stable++;
+      expect({ index, verdict: ours.analysis?.sampledDataVerdict }).toEqual({ index, verdict: largest < 1 ? 'stable' : 'unstable' });
+      expect({ index, largest: ours.analysis!.sampledDataLargestPoleMagnitude! }).toEqual({ index, largest: expect.closeTo(largest, 6) as number });
+      // The final verdict is never 'stable' when the exact sampled loop is not.
+      if (largest > 1) expect({ index, stable: ours.stable }).toEqual({ index, stable: false });
+    });
+    expect(compared).toBeGreaterThanOrEqual(150);
+    // Both kinds are well represented.
+    expect(stable).toBeGreaterThan(40);
+    expect(compared - stable).toBeGreaterThan(40);
+  });
+});
