@@ -79,4 +79,15 @@ describe('speedband stability', () => {
     expect(help.out).toMatch(/Exit code: 0 when the loop is stable, 1 when it is unstable/);
     expect(help.out).toMatch(/Examples:/);
   });
+
+  it('says gain margins do not apply when the sampled loop is not stable, and names the sampled-data poles', async () => {
+    // Source: audit of the Ts/2 hold approximation — this Tustin loop at 50 ms has exact sampled-data poles up to |z| = 1.0022
+    // (cross-checked by simulation in test/verify/sampled-verdict.test.ts).
+    const result = await run(['stability', '--gain', '3.61', '--time-constant-s', '0.12', '--dead-time-s', '0.141', '--kp', '0.3065', '--ki', '1.2602', '--kd', '0.0186', '--sample-time-s', '0.05', '--discretisation', 'tustin']);
+    expect(result.code).toBe(1);
+    expect(result.out).toMatch(/sampled-data poles: unstable, largest \|z\| 1\.0022/);
+    expect(result.out).toMatch(/the loop is not stable: gain margins do not apply/);
+    expect(result.out).not.toMatch(/reducing the gain by this destabilises/);
+    expect(result.out).toMatch(/phase margin:\s+[\d.-]+ °/);
+  });
 });

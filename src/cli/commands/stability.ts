@@ -64,9 +64,12 @@ export const command: CommandModule = {
         'speedband stability (--numerator "..." --denominator "..." [--delay-s θ] | --gain K --time-constant-s T --dead-time-s L) --kp KP [--ki KI] [--kd KD] [options]\n\n' +
           'The plant is G(s) = N(s)/D(s)·e^(−θs) with coefficients highest power first, or the FOPDT K·e^(−Ls)/(Ts + 1). ' +
           'The loop L = C·G is analysed with the exact delay: every gain crossover (phase margin, delay margin = min PM/ω), every crossing of −180° ' +
-          '(upper gain margin: raising the gain by it destabilises; lower gain margin, negative dB: reducing the gain by it destabilises), ' +
+          '(upper gain margin: raising the gain by it destabilises; lower gain margin, negative dB: reducing the gain by it destabilises; ' +
+          'on a loop that is not stable gain margins do not apply and are not given), ' +
           'the peaks Ms = max|1/(1 + L)| and Mt = max|L/(1 + L)|, and a verdict from the closed-loop poles (Padé approximant) and the Nyquist ' +
-          'encirclement count, which must agree. With --sample-time-s the controller is the discrete PID the firmware runs and the hold adds Ts/2 of delay.\n\n' +
+          'encirclement count, which must agree. With --sample-time-s the controller is the discrete PID the firmware runs: margins count the hold as Ts/2 of delay, ' +
+          'and the verdict is decided by the exact sampled-data loop (zero-order-hold equivalent of the plant with its fractional delay, closed-loop poles inside |z| < 1), ' +
+          'which the Nyquist count must confirm.\n\n' +
           'Exit code: 0 when the loop is stable, 1 when it is unstable or the two tests disagree (undetermined), 2 for bad input.',
       )
       .option('numerator', { type: 'string', describe: 'Plant numerator coefficients, highest power first, e.g. "2 1" (a leading minus needs the = form: --numerator="-2 1")' })
@@ -80,7 +83,7 @@ export const command: CommandModule = {
       .option('kd', { type: 'number', describe: 'Derivative gain, s (with --form ideal or series: the derivative time in s); default 0' })
       .option('form', { type: 'string', choices: ['parallel', 'ideal', 'series'], default: 'parallel', describe: 'How --kp --ki --kd are written: parallel kp + ki/s + kd·s; ideal Kc(1 + 1/(Ti·s) + Td·s); series Kc(1 + 1/(τI·s))(1 + τD·s)' })
       .option('derivative-filter', { type: 'string', default: String(CONTROLLER_DEFAULTS.derivativeFilter), describe: 'Derivative filter factor N: Tf = Td/N; "none" for an unfiltered derivative' })
-      .option('sample-time-s', { type: 'number', describe: 'Firmware sample time Ts, s: analyse the discrete PID plus a Ts/2 hold delay (default: a continuous controller)' })
+      .option('sample-time-s', { type: 'number', describe: 'Firmware sample time Ts, s: analyse the discrete PID with a zero-order hold (margins: Ts/2 hold delay; verdict: exact sampled-data poles) (default: a continuous controller)' })
       .option('discretisation', { type: 'string', choices: ['backward-euler', 'tustin'], default: CONTROLLER_DEFAULTS.discretisation, describe: 'Discretisation of the discrete PID (with --sample-time-s)' })
       .option('latency-s', { type: 'number', default: 0, describe: 'Computation latency from sample to actuator command, s (added to the plant delay)' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' }),
