@@ -22,13 +22,29 @@ import { checkCoefficients } from './validate-loop.js';
  * - series:   C = Kc·(1 + 1/(τI·s))·(1 + τD·s), read as kp = Kc, ki = τI (s), kd = τD (s),
  *             converted to ideal by Kc' = Kc(1 + τD/τI), Ti = τI + τD, Td = τIτD/(τI + τD)
  *             (DOMAIN.md §4) and then filtered like the others.
- * For ideal and series forms ki = Infinity means no integral action.
+ * For ideal and series forms the times are better given by name: `integralTime_s` (Ti or τI,
+ * s; null or Infinity = no integral action) and `derivativeTime_s` (Td or τD, s). When
+ * given they are used and `ki`/`kd` are ignored; `ki`/`kd` read as times remain accepted
+ * for compatibility (ki = Infinity means no integral action). The parallel form refuses the
+ * named times (its ki is 1/s and kd is s: give those).
  * The derivative filter is Tf = Td/N with N = derivativeFilter (default 10, common
  * practice; Infinity = unfiltered — only proper with a plant of relative degree ≥ 1).
  */
 export interface LoopDescription {
   readonly plant: { readonly numerator: readonly number[]; readonly denominator: readonly number[]; readonly delay_s: number };
-  readonly pid: { readonly kp: number; readonly ki: number; readonly kd: number; readonly derivativeFilter?: number; readonly form?: PidForm };
+  readonly pid: {
+    readonly kp: number;
+    /** Parallel: integral gain, 1/s. Ideal/series (compatibility): the integral time, s — prefer integralTime_s. */
+    readonly ki?: number;
+    /** Parallel: derivative gain, s. Ideal/series (compatibility): the derivative time, s — prefer derivativeTime_s. */
+    readonly kd?: number;
+    /** Ideal/series only: integral time Ti (ideal) or τI (series), s; null or Infinity = no integral action. */
+    readonly integralTime_s?: number | null;
+    /** Ideal/series only: derivative time Td (ideal) or τD (series), s. */
+    readonly derivativeTime_s?: number;
+    readonly derivativeFilter?: number;
+    readonly form?: PidForm;
+  };
   /** Firmware sample time, s: the controller is then the discrete PID at this rate and the hold adds Ts/2 of delay. Omit for a continuous controller. */
   readonly sampleTime_s?: number;
   /** Discretisation of the discrete PID (default backward Euler). */
@@ -56,20 +72,38 @@ const badPid = (message: string, jsonPath: string, details: Record<string, unkno
  */
 export function parallelGainsOf(pid: LoopDescription['pid']): PidGains {
   const form = pid.form ?? LOOP_DEFAULTS.form;
-  for (const name of ['kp', 'ki', 'kd'] as const) {
-    const value = pid[name];
-    const allowInfinite = name === 'ki' && form !== 'parallel';
-    if (typeof value !== 'number' || Number.isNaN(value) || (!Number.isFinite(value) && !(allowInfinite && value === Infinity))) {
-      badPid(`pid.${name} is ${String(value)} — expected a finite number${allowInfinite ? ' (or Infinity for no integral action)' : ''}`, `pid.${name}`, { ...pid });
-    }
-  }
-  if (form === 'parallel') return { kp: pid.kp, ki: pid.ki, kd: pid.kd };
-  if (form !== 'ideal' && form !== 'series') {
+  if (form !== 'parallel' && form !== 'ideal' && form !== 'series') {
     return badPid(`pid.form is '${String(form)}' — expected 'parallel', 'ideal' or 'series'`, 'pid.form', { form });
   }
-  if (!(pid.ki > 0)) badPid(`pid.ki is read as the ${form} integral time and is ${pid.ki} s — expected a time > 0 s, or Infinity for no integral action`, 'pid.ki', { ...pid });
-  if (!(pid.kd >= 0)) badPid(`pid.kd is read as the ${form} derivative time and is ${pid.kd} s — expected a time ≥ 0 s`, 'pid.kd', { ...pid });
-  const times = { gain: pid.kp, integralTime_s: pid.ki === Infinity ? null : pid.ki, derivativeTime_s: pid.kd };
+  if (form === 'parallel') {
+    for (const name of ['integralTime_s', 'derivativeTime_s'] as const) {
+      if (pid[name] !== undefined) {
+        badPid(`pid.${name} is given with the parallel form — the parallel form takes ki (1/s) and kd (s); set form 'ideal' or 'series' to give times`, `pid.${name}`, { ...pid });
+      }
+    }
+  }
+  // Ideal/series: the named times win over ki/kd read as times.
+  const integralName = form !== 'parallel' && pid.integralTime_s !== undefined ? 'integralTime_s' : 'ki';
+  const derivativeName = form !== 'parallel' && pid.derivativeTime_s !== undefined ? 'derivativeTime_s' : 'kd';
+  const integral = integralName === 'ki' ? pid.ki : pid.integralTime_s === null ? Infinity : pid.integralTime_s;
+  const derivative = derivativeName === 'kd' ? pid.kd : pid.derivativeTime_s;
+  const checks = [
+    ['kp', pid.kp, false],
+    [integralName, integral, form !== 'parallel'],
+    [derivativeName, derivative, false],
+  ] as const;
+  for (const [name, value, allowInfinite] of checks) {
+    if (typeof value !== 'number' || Number.isNaN(value) || (!Number.isFinite(value) && !(allowInfinite && value === Infinity))) {
+      const hint = form === 'parallel' ? '' : ` (for the ${form} form give integralTime_s and derivativeTime_s in s${allowInfinite ? '; null or Infinity for no integral action' : ''})`;
+      badPid(`pid.${name} is ${String(value)} — expected a finite number${allowInfinite && form === 'parallel' ? ' (or Infinity for no integral action)' : ''}${hint}`, `pid.${name}`, { ...pid });
+    }
+  }
+  const ki = integral as number;
+  const kd = derivative as number;
+  if (form === 'parallel') return { kp: pid.kp, ki, kd };
+  if (!(ki > 0)) badPid(`pid.${integralName} is read as the ${form} integral time and is ${ki} s — expected a time > 0 s, or ${integralName === 'ki' ? 'Infinity' : 'null'} for no integral action`, `pid.${integralName}`, { ...pid });
+  if (!(kd >= 0)) badPid(`pid.${derivativeName} is read as the ${form} derivative time and is ${kd} s — expected a time ≥ 0 s`, `pid.${derivativeName}`, { ...pid });
+  const times = { gain: pid.kp, integralTime_s: ki === Infinity ? null : ki, derivativeTime_s: kd };
   return form === 'ideal' ? idealToParallel(times) : seriesToParallel(times);
 }
 
