@@ -206,6 +206,7 @@ export {
   type LumpedAtSpeed,
 } from './build/check-model.js';
 export { makeLoopAnalysis } from './build/loop-analysis.js';
+export { operatingPointModelFromModels, type ModelAtSpeed } from './build/operating-point-from-models.js';
 export { recheckSchedule, recordedCheckModel, scheduleLoopAndController, type RecheckInput as ScheduleRecheckInput } from './build/recheck-schedule.js';
 export { recheckWithRecordedModel } from './build/quantised-recheck.js';
 export { runDemo, bundledVehicles, BUNDLED_VEHICLES, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';

@@ -23,8 +23,10 @@ export const command: CommandModule = {
   builder: (yargs) =>
     yargs
       .usage(
-        'speedband tune --rule RULE --speed-mps V (--gain K --time-constant-s T --dead-time-s L | --vehicle V) [options]\n\n' +
-          'The model is either a lumped steer-command → yaw-rate FOPDT K·e^(−Ls)/(Ts + 1) (as identified from step tests at this speed) or a vehicle file with nominal cornering stiffnesses (single-track model with its actuator). ' +
+        'speedband tune --rule RULE --speed-mps V (--models models.json --vehicle V | --gain K --time-constant-s T --dead-time-s L | --vehicle V) [options]\n\n' +
+          'The model is one of: the models identified from step tests (--models, from `speedband identify`, with the vehicle file it was identified with: the joint single-track fit, ' +
+          'else the per-speed FOPDT models interpolated between the test speeds — the model `speedband build` tunes on); a lumped steer-command → yaw-rate FOPDT K·e^(−Ls)/(Ts + 1) given by hand; ' +
+          'or a vehicle file alone with nominal cornering stiffnesses (single-track model with its actuator; nominal values are for the simulator — to tune a real vehicle, identify it and use --models). ' +
           'The rule is applied to the design model of the chosen loop (yaw rate: self-regulating; heading: integrating; path: double-integrating); the margins are computed on the full loop with the exact delay, ' +
           'the derivative filter and the controller delay Ts/2 + latency. Exit code 0 when the tuned loop is stable, 1 when not, 2 for bad input or a rule that does not apply.',
       )
@@ -36,7 +38,12 @@ export const command: CommandModule = {
       .option('gain', { type: 'number', describe: 'FOPDT steady yaw-rate gain K, (rad/s)/rad' })
       .option('time-constant-s', { type: 'number', describe: 'FOPDT time constant T, s' })
       .option('dead-time-s', { type: 'number', describe: 'FOPDT dead time L, s (actuator delay included, as identified)' })
-      .option('vehicle', { type: 'string', describe: 'Vehicle file (vehicle.json) or its folder: the single-track model with nominal cornering stiffnesses, or with --gain only the geometry and sample time' })
+      .option('models', { type: 'string', describe: 'models.json from `speedband identify`: tune on the identified model at --speed-mps (needs --vehicle for mass, inertia and geometry)' })
+      .option('vehicle', {
+        type: 'string',
+        describe:
+          'Vehicle file (vehicle.json) or its folder. With --models: mass, yaw inertia, axle distances and sample time for the identified model. Alone: the single-track model with the file\'s nominal cornering stiffnesses — values for the simulator, not measured; to tune a real vehicle use --models. With --gain: only the geometry (front-axle preview) and sample time',
+      })
       .option('controller-type', { type: 'string', choices: ['P', 'PI', 'PID'], describe: `Controller terms (Ziegler–Nichols default ${TUNING_DEFAULTS.controllerType}; SIMC default by plant class)` })
       .option('closed-loop-time-constant-s', { type: 'number', describe: 'IMC λ or SIMC τc, s (default: the design model\'s dead time θ)' })
       .option('damping-ratio', { type: 'number', describe: `Damping target ζ (default ${TUNING_DEFAULTS.dampingRatio})` })
@@ -48,6 +55,7 @@ export const command: CommandModule = {
       .option('derivative-filter', { type: 'number', default: CONTROLLER_DEFAULTS.derivativeFilter, describe: 'Derivative filter factor N: Tf = (kd/kp)/N' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' }),
   examples: [
+    ['speedband tune --rule simc --loop heading --speed-mps 10 --models models.json --vehicle vehicles/parcel-van', 'SIMC for a heading loop on the model identified by `speedband identify` (joint single-track fit)'],
     ['speedband tune --rule simc --loop yaw-rate --speed-mps 8 --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07', 'SIMC PI for a yaw-rate loop from an identified FOPDT'],
     ['speedband tune --rule damping-target --loop path --preview-m 2 --reference-point front-axle --speed-mps 10 --settling-distance-m 100 --vehicle vehicles/parcel-van', 'Path loop with 2 m preview from the front axle, settling within 100 m, on the single-track model'],
     ['speedband tune --rule ziegler-nichols-ultimate --controller-type PI --loop heading --speed-mps 2 --vehicle vehicles/vineyard-sprayer --json', 'Ziegler–Nichols PI for a heading loop, machine-readable'],
@@ -56,6 +64,7 @@ export const command: CommandModule = {
     const { tuneOperatingPoint } = await import('../../tuning/operating-point.js');
     const { describeTunedOperatingPoint } = await import('../../tuning/describe.js');
     const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
+    const speed_mps = numberOption(args, 'speed-mps')!;
     const gain = numberOption(args, 'gain');
     const timeConstant_s = numberOption(args, 'time-constant-s');
     const deadTime_s = numberOption(args, 'dead-time-s');
@@ -63,11 +72,19 @@ export const command: CommandModule = {
     if (fopdtGiven !== 0 && fopdtGiven !== 3) {
       throw new SpeedbandError('cli.incompleteModel', 'a FOPDT model needs all of --gain, --time-constant-s and --dead-time-s', { details: { gain, timeConstant_s, deadTime_s } });
     }
-    if (fopdtGiven === 0 && vehicle === undefined) {
-      throw new SpeedbandError('cli.missingModel', 'no model given — pass --gain, --time-constant-s and --dead-time-s (an identified FOPDT), or --vehicle with nominal cornering stiffnesses');
+    if (fopdtGiven === 0 && vehicle === undefined && args.models === undefined) {
+      throw new SpeedbandError(
+        'cli.missingModel',
+        'no model given — pass --models models.json with --vehicle (identified by `speedband identify`), --gain, --time-constant-s and --dead-time-s (an identified FOPDT), or --vehicle with nominal cornering stiffnesses',
+      );
     }
     let model;
-    if (fopdtGiven === 3) {
+    let modelWords: { description: string; warnings: readonly string[] } | undefined;
+    if (args.models !== undefined) {
+      const fromModels = await modelFromModelsFile(String(args.models), args.vehicle === undefined ? undefined : String(args.vehicle), fopdtGiven, speed_mps);
+      model = fromModels.model;
+      modelWords = fromModels;
+    } else if (fopdtGiven === 3) {
       if (timeConstant_s! < 0 || deadTime_s! < 0) {
         throw new SpeedbandError('cli.badNumber', `FOPDT times must be ≥ 0 s; got time constant ${timeConstant_s} s and dead time ${deadTime_s} s`);
       }
@@ -97,20 +114,44 @@ export const command: CommandModule = {
     };
     const point = tuneOperatingPoint({
       loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
-      speed_mps: numberOption(args, 'speed-mps')!,
+      speed_mps,
       model,
       rule: String(args.rule),
       ruleParameters,
       controller,
     });
+    const warnings = [...(modelWords?.warnings ?? []), ...point.warnings];
     if (args.json) {
-      io.stdout(`${JSON.stringify({ gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, warnings: point.warnings, controller }, null, 2)}\n`);
+      const modelSource = modelWords === undefined ? {} : { model: { source: String(args.models), kind: model.kind, description: modelWords.description } };
+      io.stdout(`${JSON.stringify({ ...modelSource, gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, warnings, controller }, null, 2)}\n`);
     } else {
-      io.stdout(`${describeTunedOperatingPoint(point)}\n`);
+      const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${String(args.models)})`, ...modelWords.warnings.map((warning) => `Warning: ${warning}`)];
+      io.stdout(`${[...header, describeTunedOperatingPoint(point)].join('\n')}\n`);
     }
     return point.margins.stable ? EXIT.ok : EXIT.failed;
   },
 };
+
+/** The identified model at the speed (`operatingPointModelFromModels`); --models excludes a hand-given FOPDT and needs --vehicle. */
+async function modelFromModelsFile(modelsPath: string, vehiclePath: string | undefined, fopdtGiven: number, speed_mps: number) {
+  if (fopdtGiven > 0) {
+    throw new SpeedbandError('cli.conflictingOptions', '--models and --gain/--time-constant-s/--dead-time-s both give the vehicle model — use one');
+  }
+  const models = (await import('../../identify/models-file.js')).readModels(modelsPath);
+  if (vehiclePath === undefined) {
+    throw new SpeedbandError(
+      'cli.missingVehicle',
+      `--models needs --vehicle: the models file records the vehicle's name and hash, not its mass, inertia and geometry — pass the vehicle file it was identified with ("${models.vehicle.name}", ${models.vehicle.file})`,
+      { location: { file: modelsPath, jsonPath: '/vehicle' } },
+    );
+  }
+  const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { sha256Hex } = await import('../../core/files.js');
+  const { readFileSync } = await import('node:fs');
+  const { operatingPointModelFromModels } = await import('../../build/operating-point-from-models.js');
+  const vehicleFile = resolveVehiclePath(vehiclePath);
+  return operatingPointModelFromModels(models, loadVehicle(vehicleFile), speed_mps, sha256Hex(readFileSync(vehicleFile)));
+}
 
 function optionalNumber<K extends string>(key: K, value: number | undefined): Partial<Record<K, number>> {
   return value === undefined ? {} : ({ [key]: value } as Record<K, number>);
