@@ -14,16 +14,22 @@
  * (A, B, C, D) is the controllable canonical realisation of N/D. The sample y[k] is taken
  * at the instant kTs just before the new output u[k] takes effect (left limit), so a
  * biproper plant without delay forms no algebraic loop. The past inputs
- * u[k−1] … u[k−ℓ−1] are a shift register; the controller is realised in transposed
- * direct form from its z⁻¹ coefficients; u[k] = C(z)·e[k], e[k] = −y[k]. The loop is
- * stable iff every eigenvalue of the closed-loop matrix has |z| < 1 − tolerance; one
- * within the tolerance of the unit circle is 'marginal' (on the boundary: not stable).
+ * u[k−1] … u[k−ℓ−1] are a shift register and u[k] = C(z)·e[k], e[k] = −y[k]. The
+ * closed-loop poles (the eigenvalues of the closed-loop state matrix of plant, register
+ * and controller, size n + ℓ + 1 + deg C) are the roots of its characteristic polynomial
+ *   a(z)·det(zI − Φ)·z^(ℓ+1) + b(z)·[C·adj(zI − Φ)·(Γ0·z + Γ1) + D·det(zI − Φ)]
+ * with C(z) = b(z)/a(z); det and adj come from the Faddeev–LeVerrier recursion. Where they
+ * lie is decided by the Schur–Cohn test (`unit-circle-roots.ts`, O(N²), no root finding: a
+ * general eigenvalue routine costs ~0.16 ms at N = 16, too slow for a dense check of 2,000
+ * speeds). The loop is stable iff every pole has |z| < 1 − tolerance; a pole within the
+ * tolerance of the unit circle is 'marginal' (on the boundary: not stable).
  */
-import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { SpeedbandError } from '../core/errors.js';
+import { addPolynomials, multiplyPolynomials } from '../lti/polynomial.js';
 import { controllableCanonicalForm } from '../lti/state-space.js';
 import { zeroOrderHoldDiscretisation } from '../lti/time-response.js';
 import { transferFunction } from '../lti/transfer-function.js';
+import { allRootsInside, largestRootMagnitude } from './unit-circle-roots.js';
 
 /** A plant under a discrete controller, as the firmware runs it. */
 export interface SampledLoop {
@@ -89,51 +95,69 @@ export function sampledLoopVerdict(loop: SampledLoop, tolerance: number): Sample
   const n = model.inputVector.length;
   const { wholeSamples: ell, fraction_s: m } = splitDelay(loop.plant.delay_s, ts);
   const late = zeroOrderHoldDiscretisation(model, ts - m); // Φ(Ts − m), Γ0
-  const early = zeroOrderHoldDiscretisation(model, m); // Φ(m), ∫₀^m e^(Aσ)dσ·B
-  const transition = multiplyMatrices(late.transition, early.transition);
+  const early = m === 0 ? null : zeroOrderHoldDiscretisation(model, m); // Φ(m), ∫₀^m e^(Aσ)dσ·B
+  const transition = early === null ? late.transition : multiplyMatrices(late.transition, early.transition);
   const gamma0 = late.inputGain;
-  const gamma1 = late.transition.map((row) => row.reduce((sum, value, j) => sum + value * early.inputGain[j], 0));
+  const gamma1 = early === null ? new Array<number>(n).fill(0) : late.transition.map((row) => row.reduce((sum, value, j) => sum + value * early.inputGain[j], 0));
 
+  // Pulse transfer function y/u = [C·adj(zI − Φ)·(Γ0·z + Γ1) + D·det(zI − Φ)] / [det(zI − Φ)·z^(ℓ+1)].
+  const { characteristic, adjugate } = faddeevLeVerrier(transition);
+  const plantNumerator = new Array<number>(n + 1).fill(0);
+  adjugate.forEach((term, k) => {
+    // term multiplies z^(n−1−k): Γ0·z lands on z^(n−k), Γ1 on z^(n−1−k).
+    plantNumerator[k] += quadratic(model.outputVector, term, gamma0);
+    plantNumerator[k + 1] += quadratic(model.outputVector, term, gamma1);
+  });
+  for (let i = 0; i <= n; i++) plantNumerator[i] += model.feedthrough * characteristic[i];
+  const plantDenominator = characteristic.concat(new Array<number>(ell + 1).fill(0));
+
+  // 1 + C(z)·G(z) = 0 ⇔ a(z)·den(z) + b(z)·num(z) = 0 with C = b/a in powers of z (equal lengths).
   const { b, a } = controllerInDelays(loop.controller);
-  const q = a.length - 1;
-  const registerLength = ell + 1; // u[k−1] … u[k−ℓ−1]
-  const size = n + registerLength + q;
-  const reg = (i: number): number => n + i - 1; // index of u[k−i], i = 1 … ℓ+1
-  const ctl = (i: number): number => n + registerLength + i; // controller state i = 0 … q−1
+  const closedLoop = addPolynomials(multiplyPolynomials(a, plantDenominator), multiplyPolynomials(b, plantNumerator));
+  const lead = closedLoop[0];
+  const monic = closedLoop.map((value) => value / lead);
+  const finite = monic.every(Number.isFinite);
+  const largest = finite ? largestRootMagnitude(monic, RADIUS_RELATIVE_TOLERANCE) : Infinity;
+  const verdict = !finite ? 'unstable' : allRootsInside(monic, 1 - tolerance) ? 'stable' : allRootsInside(monic, 1 + tolerance) ? 'marginal' : 'unstable';
+  return { verdict, largestPoleMagnitude: largest, wholeSampleDelay: ell, fractionalDelay_s: m, closedLoopOrder: monic.length - 1 };
+}
 
-  // e[k] = −y[k] = −(C·x + D·u[k−ℓ−1]) as a row over the closed-loop state.
-  const error = new Float64Array(size);
-  for (let j = 0; j < n; j++) error[j] = -model.outputVector[j];
-  error[reg(registerLength)] -= model.feedthrough;
-  // u[k] = s1[k] + b0·e[k] (transposed direct form).
-  const input = new Float64Array(size);
-  for (let j = 0; j < size; j++) input[j] = b[0] * error[j];
-  if (q > 0) input[ctl(0)] += 1;
+/** Relative width to which the largest |z| is bisected. */
+const RADIUS_RELATIVE_TOLERANCE = 1e-9;
 
-  const matrix: number[][] = Array.from({ length: size }, () => new Array<number>(size).fill(0));
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) matrix[i][j] = transition[i][j];
-    // Γ0·u[k−ℓ]: the current output when ℓ = 0, else the register.
-    if (ell === 0) for (let j = 0; j < size; j++) matrix[i][j] += gamma0[i] * input[j];
-    else matrix[i][reg(ell)] += gamma0[i];
-    matrix[i][reg(registerLength)] += gamma1[i];
+/**
+ * det(zI − M) = z^n + c1·z^(n−1) + … + cn (returned highest first, with the leading 1) and
+ * adj(zI − M) = Σ_k N_k·z^(n−1−k) by the Faddeev–LeVerrier recursion: N_0 = I,
+ * c_k = −tr(M·N_(k−1))/k, N_k = M·N_(k−1) + c_k·I (Gantmacher, The Theory of Matrices, §IV.4).
+ * For the small plant orders here (n ≤ 6) it is accurate to rounding.
+ */
+function faddeevLeVerrier(matrix: readonly (readonly number[])[]): { characteristic: number[]; adjugate: number[][][] } {
+  const n = matrix.length;
+  const characteristic = [1];
+  const adjugate: number[][][] = [];
+  let term: number[][] = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0)));
+  for (let k = 1; k <= n; k++) {
+    adjugate.push(term);
+    const product = multiplyMatrices(matrix, term);
+    let trace = 0;
+    for (let i = 0; i < n; i++) trace += product[i][i];
+    const coefficient = -trace / k;
+    characteristic.push(coefficient);
+    for (let i = 0; i < n; i++) product[i][i] += coefficient;
+    term = product;
   }
-  for (let j = 0; j < size; j++) matrix[reg(1)][j] = input[j];
-  for (let i = 2; i <= registerLength; i++) matrix[reg(i)][reg(i - 1)] = 1;
-  // s_i[k+1] = s_(i+1)[k] + b_i·e[k] − a_i·u[k], i = 1 … q (s_(q+1) = 0).
-  for (let i = 1; i <= q; i++) {
-    const row = matrix[ctl(i - 1)];
-    for (let j = 0; j < size; j++) row[j] = b[i] * error[j] - a[i] * input[j];
-    if (i < q) row[ctl(i)] += 1;
-  }
+  return { characteristic, adjugate };
+}
 
-  const decomposition = new EigenvalueDecomposition(new Matrix(matrix), { assumeSymmetric: false });
-  const re = decomposition.realEigenvalues;
-  const im = decomposition.imaginaryEigenvalues;
-  let largest = 0;
-  for (let i = 0; i < re.length; i++) largest = Math.max(largest, Math.hypot(re[i], im[i]));
-  const verdict = !Number.isFinite(largest) ? 'unstable' : largest < 1 - tolerance ? 'stable' : largest <= 1 + tolerance ? 'marginal' : 'unstable';
-  return { verdict, largestPoleMagnitude: largest, wholeSampleDelay: ell, fractionalDelay_s: m, closedLoopOrder: size };
+/** cᵀ·M·g for a row vector c, a square matrix M and a column vector g. */
+function quadratic(row: readonly number[], matrix: readonly (readonly number[])[], column: readonly number[]): number {
+  let sum = 0;
+  for (let i = 0; i < row.length; i++) {
+    let inner = 0;
+    for (let j = 0; j < column.length; j++) inner += matrix[i][j] * column[j];
+    sum += row[i] * inner;
+  }
+  return sum;
 }
 
 function multiplyMatrices(left: readonly (readonly number[])[], right: readonly (readonly number[])[]): number[][] {

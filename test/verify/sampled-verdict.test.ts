@@ -15,6 +15,7 @@ import { runPython } from '../helpers/python.js';
 import { makeRandom } from '../../src/core/random.js';
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 import { splitDelay } from '../../src/verify/sampled-verdict.js';
+import { allRootsInside, largestRootMagnitude } from '../../src/verify/unit-circle-roots.js';
 
 /** Fine-step simulation: RK4 on the continuous plant (step h dividing Ts and the fractional delay), discrete PID, hold. */
 const SIMULATE = `
@@ -211,5 +212,21 @@ print(json.dumps(out))
     // Both kinds are well represented.
     expect(stable).toBeGreaterThan(40);
     expect(compared - stable).toBeGreaterThan(40);
+  });
+});
+
+describe('Schur–Cohn test of where polynomial roots lie', () => {
+  it('allRootsInside and largestRootMagnitude agree with polynomials built from known roots', () => {
+    // (z − 0.5)(z + 0.9) = z² + 0.4z − 0.45: roots 0.5 and −0.9 (worked by hand).
+    expect(allRootsInside([1, 0.4, -0.45], 1)).toBe(true);
+    expect(allRootsInside([1, 0.4, -0.45], 0.89)).toBe(false);
+    expect(largestRootMagnitude([1, 0.4, -0.45], 1e-12)).toBeCloseTo(0.9, 10);
+    // z² − 1.2z + 0.85: complex pair 0.6 ± 0.7j, |z| = √0.85 (worked by hand).
+    expect(largestRootMagnitude([1, -1.2, 0.85], 1e-12)).toBeCloseTo(Math.sqrt(0.85), 10);
+    // (z − 1.1)(z − 0.2): one root outside the unit circle.
+    expect(allRootsInside([1, -1.3, 0.22], 1)).toBe(false);
+    expect(largestRootMagnitude([1, -1.3, 0.22], 1e-12)).toBeCloseTo(1.1, 10);
+    // z³: every root at 0.
+    expect(largestRootMagnitude([1, 0, 0, 0], 1e-12)).toBe(0);
   });
 });
