@@ -479,7 +479,7 @@ return errors === 0;
 }
 
 export const validateModelsFile = validate1;
-const schema1 = {"$schema":"http://json-schema.org/draft-07/schema#","title":"speedband models file","definitions":{"hashedFile":{"type":"object","additionalProperties":false,"required":["file","sha256"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"reason":{"type":"object","additionalProperties":false,"required":["reasonCode","reason"],"properties":{"reasonCode":{"type":"string"},"reason":{"type":"string"}}},"fopdtRecord":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}}}},"stepFopdtRecord":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95","bias_radps","rmse","nrmse","r2","bic","stopReason","iterations","residualLag1Autocorrelation","ljungBoxQ","residualsWhite","twoPoint"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"bias_radps":{"type":"number"},"rmse":{"type":"number"},"nrmse":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"iterations":{"type":"integer","minimum":0},"residualLag1Autocorrelation":{"type":"number"},"ljungBoxQ":{"type":"number"},"residualsWhite":{"type":"boolean"},"twoPoint":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}}]}}},"secondOrderRecord":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","naturalFrequency_radps","dampingRatio","zeroTimeConstant_s","deadTime_s","r2","bic","stopReason"],"properties":{"gain":{"type":"number"},"naturalFrequency_radps":{"type":"number"},"dampingRatio":{"type":"number"},"zeroTimeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]}}}]},"testRecord":{"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","yawNoise_radps","fopdt","secondOrder","secondOrderZero","chosenModel"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"yawNoise_radps":{"type":"number"},"fopdt":{"$ref":"#/definitions/stepFopdtRecord"},"secondOrder":{"$ref":"#/definitions/secondOrderRecord"},"secondOrderZero":{"$ref":"#/definitions/secondOrderRecord"},"chosenModel":{"enum":["fopdt","second-order","second-order-zero"]}}},"refusedTestRecord":{"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","reasonCode","reason","fopdt"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"reasonCode":{"type":"string"},"reason":{"type":"string"},"fopdt":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","r2"],"properties":{"gain":{"type":["number","null"]},"timeConstant_s":{"type":["number","null"]},"deadTime_s":{"type":["number","null"]},"r2":{"type":["number","null"]}}}}}},"type":"object","additionalProperties":false,"required":["format","formatVersion","tool","vehicle","inputs","options","criterion","tests","refusedTests","rejectedSteps","speeds","actuator","singleTrack","singleTrackRefusal","warnings"],"properties":{"format":{"const":"speedband-models"},"formatVersion":{"const":1},"tool":{"type":"object","additionalProperties":false,"required":["name","version"],"properties":{"name":{"const":"speedband"},"version":{"type":"string"}}},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"inputs":{"type":"array","items":{"$ref":"#/definitions/hashedFile"}},"options":{"type":"object","additionalProperties":{"type":["string","number","boolean"]}},"criterion":{"const":"BIC"},"tests":{"type":"array","items":{"$ref":"#/definitions/testRecord"}},"refusedTests":{"type":"array","items":{"$ref":"#/definitions/refusedTestRecord"}},"rejectedSteps":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","onset_s","reasonCode","reason"],"properties":{"file":{"type":"string"},"onset_s":{"type":"number"},"reasonCode":{"type":"string"},"reason":{"type":"string"}}}},"speeds":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","stepCount","steps","fopdt","asymmetry_pct","repeatSpread_pct"],"properties":{"speed_mps":{"type":"number"},"stepCount":{"type":"integer","minimum":1},"steps":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","stepIndex"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0}}}},"fopdt":{"$ref":"#/definitions/fopdtRecord"},"asymmetry_pct":{"type":["number","null"]},"repeatSpread_pct":{"type":"number"}}}},"actuator":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","lag_s","delay_s","ci95","stepCount"],"properties":{"gain":{"type":"number"},"lag_s":{"type":"number"},"delay_s":{"type":"number"},"ci95":{"type":"object","additionalProperties":false,"required":["gain","lag_s","delay_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"lag_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"delay_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"stepCount":{"type":"integer","minimum":1}}}]},"singleTrack":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","understeerGradient_radPerMps2","ci95","characteristicSpeed_mps","criticalSpeed_mps","r2","rmse","stepCount","stopReason","comparison"],"properties":{"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"understeerGradient_radPerMps2":{"type":"number"},"ci95":{"type":"object","additionalProperties":false,"required":["frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","understeerGradient_radPerMps2"],"properties":{"frontCorneringStiffness_NPerRad":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"rearCorneringStiffness_NPerRad":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"actuatorLag_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"actuatorDelay_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"understeerGradient_radPerMps2":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"characteristicSpeed_mps":{"type":["number","null"]},"criticalSpeed_mps":{"type":["number","null"]},"r2":{"type":"number"},"rmse":{"type":"number"},"stepCount":{"type":"integer","minimum":1},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"comparison":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","fopdtGain","singleTrackGain","difference_pct","singleTrackRmse_radps","fopdtRmse_radps"],"properties":{"speed_mps":{"type":"number"},"fopdtGain":{"type":"number"},"singleTrackGain":{"type":"number"},"difference_pct":{"type":"number"},"singleTrackRmse_radps":{"type":"number"},"fopdtRmse_radps":{"type":"number"}}}}}}]},"singleTrackRefusal":{"anyOf":[{"type":"null"},{"$ref":"#/definitions/reason"}]},"warnings":{"type":"array","items":{"type":"string"}}}};
+const schema1 = {"$schema":"http://json-schema.org/draft-07/schema#","title":"speedband models file","definitions":{"hashedFile":{"type":"object","additionalProperties":false,"required":["file","sha256"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"reason":{"type":"object","additionalProperties":false,"required":["reasonCode","reason"],"properties":{"reasonCode":{"type":"string"},"reason":{"type":"string"}}},"fopdtRecord":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}}}},"stepFopdtRecord":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95","bias_radps","rmse","nrmse","r2","bic","stopReason","iterations","residualLag1Autocorrelation","ljungBoxQ","residualsWhite","twoPoint"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"bias_radps":{"type":"number"},"rmse":{"type":"number"},"nrmse":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"iterations":{"type":"integer","minimum":0},"residualLag1Autocorrelation":{"type":"number"},"ljungBoxQ":{"type":"number"},"residualsWhite":{"type":"boolean"},"twoPoint":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"agreesWithFit":{"type":"boolean"}}}]}}},"secondOrderRecord":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","naturalFrequency_radps","dampingRatio","zeroTimeConstant_s","deadTime_s","r2","bic","stopReason"],"properties":{"gain":{"type":"number"},"naturalFrequency_radps":{"type":"number"},"dampingRatio":{"type":"number"},"zeroTimeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]}}}]},"testRecord":{"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","yawNoise_radps","fopdt","secondOrder","secondOrderZero","chosenModel"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"yawNoise_radps":{"type":"number"},"fopdt":{"$ref":"#/definitions/stepFopdtRecord"},"secondOrder":{"$ref":"#/definitions/secondOrderRecord"},"secondOrderZero":{"$ref":"#/definitions/secondOrderRecord"},"chosenModel":{"enum":["fopdt","second-order","second-order-zero"]}}},"refusedTestRecord":{"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","reasonCode","reason","fopdt"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"reasonCode":{"type":"string"},"reason":{"type":"string"},"fopdt":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","r2"],"properties":{"gain":{"type":["number","null"]},"timeConstant_s":{"type":["number","null"]},"deadTime_s":{"type":["number","null"]},"r2":{"type":["number","null"]}}}}}},"type":"object","additionalProperties":false,"required":["format","formatVersion","tool","vehicle","inputs","options","criterion","tests","refusedTests","rejectedSteps","speeds","actuator","singleTrack","singleTrackRefusal","warnings"],"properties":{"format":{"const":"speedband-models"},"formatVersion":{"const":1},"tool":{"type":"object","additionalProperties":false,"required":["name","version"],"properties":{"name":{"const":"speedband"},"version":{"type":"string"}}},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"inputs":{"type":"array","items":{"$ref":"#/definitions/hashedFile"}},"options":{"type":"object","additionalProperties":{"type":["string","number","boolean"]}},"criterion":{"const":"BIC"},"tests":{"type":"array","items":{"$ref":"#/definitions/testRecord"}},"refusedTests":{"type":"array","items":{"$ref":"#/definitions/refusedTestRecord"}},"rejectedSteps":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","onset_s","reasonCode","reason"],"properties":{"file":{"type":"string"},"onset_s":{"type":"number"},"reasonCode":{"type":"string"},"reason":{"type":"string"}}}},"speeds":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","stepCount","steps","fopdt","asymmetry_pct","repeatSpread_pct"],"properties":{"speed_mps":{"type":"number"},"stepCount":{"type":"integer","minimum":1},"steps":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","stepIndex"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0}}}},"fopdt":{"$ref":"#/definitions/fopdtRecord"},"asymmetry_pct":{"type":["number","null"]},"repeatSpread_pct":{"type":"number"}}}},"actuator":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","lag_s","delay_s","ci95","stepCount"],"properties":{"gain":{"type":"number"},"lag_s":{"type":"number"},"delay_s":{"type":"number"},"ci95":{"type":"object","additionalProperties":false,"required":["gain","lag_s","delay_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"lag_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"delay_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"stepCount":{"type":"integer","minimum":1}}}]},"singleTrack":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","understeerGradient_radPerMps2","ci95","characteristicSpeed_mps","criticalSpeed_mps","r2","rmse","stepCount","stopReason","comparison"],"properties":{"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"understeerGradient_radPerMps2":{"type":"number"},"ci95":{"type":"object","additionalProperties":false,"required":["frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","understeerGradient_radPerMps2"],"properties":{"frontCorneringStiffness_NPerRad":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"rearCorneringStiffness_NPerRad":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"actuatorLag_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"actuatorDelay_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"understeerGradient_radPerMps2":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"characteristicSpeed_mps":{"type":["number","null"]},"criticalSpeed_mps":{"type":["number","null"]},"r2":{"type":"number"},"rmse":{"type":"number"},"stepCount":{"type":"integer","minimum":1},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"comparison":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","fopdtGain","singleTrackGain","difference_pct","singleTrackRmse_radps","fopdtRmse_radps"],"properties":{"speed_mps":{"type":"number"},"fopdtGain":{"type":"number"},"singleTrackGain":{"type":"number"},"difference_pct":{"type":"number"},"singleTrackRmse_radps":{"type":"number"},"fopdtRmse_radps":{"type":"number"}}}}}}]},"singleTrackRefusal":{"anyOf":[{"type":"null"},{"$ref":"#/definitions/reason"}]},"warnings":{"type":"array","items":{"type":"string"}}}};
 const schema2 = {"type":"object","additionalProperties":false,"required":["file","sha256"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}};
 const schema7 = {"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","reasonCode","reason","fopdt"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"reasonCode":{"type":"string"},"reason":{"type":"string"},"fopdt":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","r2"],"properties":{"gain":{"type":["number","null"]},"timeConstant_s":{"type":["number","null"]},"deadTime_s":{"type":["number","null"]},"r2":{"type":["number","null"]}}}}};
 const schema8 = {"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}}}};
@@ -487,7 +487,7 @@ const schema9 = {"type":"object","additionalProperties":false,"required":["reaso
 const func6 = Object.prototype.hasOwnProperty;
 const pattern0 = new RegExp("^[0-9a-f]{64}$", "u");
 const schema3 = {"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","yawNoise_radps","fopdt","secondOrder","secondOrderZero","chosenModel"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"yawNoise_radps":{"type":"number"},"fopdt":{"$ref":"#/definitions/stepFopdtRecord"},"secondOrder":{"$ref":"#/definitions/secondOrderRecord"},"secondOrderZero":{"$ref":"#/definitions/secondOrderRecord"},"chosenModel":{"enum":["fopdt","second-order","second-order-zero"]}}};
-const schema4 = {"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95","bias_radps","rmse","nrmse","r2","bic","stopReason","iterations","residualLag1Autocorrelation","ljungBoxQ","residualsWhite","twoPoint"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"bias_radps":{"type":"number"},"rmse":{"type":"number"},"nrmse":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"iterations":{"type":"integer","minimum":0},"residualLag1Autocorrelation":{"type":"number"},"ljungBoxQ":{"type":"number"},"residualsWhite":{"type":"boolean"},"twoPoint":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}}]}}};
+const schema4 = {"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95","bias_radps","rmse","nrmse","r2","bic","stopReason","iterations","residualLag1Autocorrelation","ljungBoxQ","residualsWhite","twoPoint"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"bias_radps":{"type":"number"},"rmse":{"type":"number"},"nrmse":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"iterations":{"type":"integer","minimum":0},"residualLag1Autocorrelation":{"type":"number"},"ljungBoxQ":{"type":"number"},"residualsWhite":{"type":"boolean"},"twoPoint":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"agreesWithFit":{"type":"boolean"}}}]}}};
 const schema5 = {"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","naturalFrequency_radps","dampingRatio","zeroTimeConstant_s","deadTime_s","r2","bic","stopReason"],"properties":{"gain":{"type":"number"},"naturalFrequency_radps":{"type":"number"},"dampingRatio":{"type":"number"},"zeroTimeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]}}}]};
 
 function validate2(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
@@ -1424,7 +1424,7 @@ vErrors.push(err79);
 errors++;
 }
 for(const key4 in data32){
-if(!(((key4 === "gain") || (key4 === "timeConstant_s")) || (key4 === "deadTime_s"))){
+if(!((((key4 === "gain") || (key4 === "timeConstant_s")) || (key4 === "deadTime_s")) || (key4 === "agreesWithFit"))){
 const err80 = {instancePath:instancePath+"/fopdt/twoPoint",schemaPath:"#/definitions/stepFopdtRecord/properties/twoPoint/anyOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err80];
@@ -1474,9 +1474,9 @@ vErrors.push(err83);
 errors++;
 }
 }
-}
-else {
-const err84 = {instancePath:instancePath+"/fopdt/twoPoint",schemaPath:"#/definitions/stepFopdtRecord/properties/twoPoint/anyOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data32.agreesWithFit !== undefined){
+if(typeof data32.agreesWithFit !== "boolean"){
+const err84 = {instancePath:instancePath+"/fopdt/twoPoint/agreesWithFit",schemaPath:"#/definitions/stepFopdtRecord/properties/twoPoint/anyOf/1/properties/agreesWithFit/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err84];
 }
@@ -1485,16 +1485,28 @@ vErrors.push(err84);
 }
 errors++;
 }
-var _valid0 = _errs72 === errors;
-valid11 = valid11 || _valid0;
 }
-if(!valid11){
-const err85 = {instancePath:instancePath+"/fopdt/twoPoint",schemaPath:"#/definitions/stepFopdtRecord/properties/twoPoint/anyOf",keyword:"anyOf",params:{},message:"must match a schema in anyOf"};
+}
+else {
+const err85 = {instancePath:instancePath+"/fopdt/twoPoint",schemaPath:"#/definitions/stepFopdtRecord/properties/twoPoint/anyOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err85];
 }
 else {
 vErrors.push(err85);
+}
+errors++;
+}
+var _valid0 = _errs72 === errors;
+valid11 = valid11 || _valid0;
+}
+if(!valid11){
+const err86 = {instancePath:instancePath+"/fopdt/twoPoint",schemaPath:"#/definitions/stepFopdtRecord/properties/twoPoint/anyOf",keyword:"anyOf",params:{},message:"must match a schema in anyOf"};
+if(vErrors === null){
+vErrors = [err86];
+}
+else {
+vErrors.push(err86);
 }
 errors++;
 }
@@ -1512,23 +1524,7 @@ vErrors = null;
 }
 }
 else {
-const err86 = {instancePath:instancePath+"/fopdt",schemaPath:"#/definitions/stepFopdtRecord/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err86];
-}
-else {
-vErrors.push(err86);
-}
-errors++;
-}
-}
-if(data.secondOrder !== undefined){
-let data36 = data.secondOrder;
-const _errs83 = errors;
-let valid14 = false;
-const _errs84 = errors;
-if(data36 !== null){
-const err87 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/0/type",keyword:"type",params:{type: "null"},message:"must be null"};
+const err87 = {instancePath:instancePath+"/fopdt",schemaPath:"#/definitions/stepFopdtRecord/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err87];
 }
@@ -1537,13 +1533,14 @@ vErrors.push(err87);
 }
 errors++;
 }
-var _valid1 = _errs84 === errors;
-valid14 = valid14 || _valid1;
-if(!valid14){
+}
+if(data.secondOrder !== undefined){
+let data37 = data.secondOrder;
+const _errs85 = errors;
+let valid14 = false;
 const _errs86 = errors;
-if(data36 && typeof data36 == "object" && !Array.isArray(data36)){
-if(data36.gain === undefined){
-const err88 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "gain"},message:"must have required property '"+"gain"+"'"};
+if(data37 !== null){
+const err88 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/0/type",keyword:"type",params:{type: "null"},message:"must be null"};
 if(vErrors === null){
 vErrors = [err88];
 }
@@ -1552,8 +1549,13 @@ vErrors.push(err88);
 }
 errors++;
 }
-if(data36.naturalFrequency_radps === undefined){
-const err89 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "naturalFrequency_radps"},message:"must have required property '"+"naturalFrequency_radps"+"'"};
+var _valid1 = _errs86 === errors;
+valid14 = valid14 || _valid1;
+if(!valid14){
+const _errs88 = errors;
+if(data37 && typeof data37 == "object" && !Array.isArray(data37)){
+if(data37.gain === undefined){
+const err89 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "gain"},message:"must have required property '"+"gain"+"'"};
 if(vErrors === null){
 vErrors = [err89];
 }
@@ -1562,8 +1564,8 @@ vErrors.push(err89);
 }
 errors++;
 }
-if(data36.dampingRatio === undefined){
-const err90 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "dampingRatio"},message:"must have required property '"+"dampingRatio"+"'"};
+if(data37.naturalFrequency_radps === undefined){
+const err90 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "naturalFrequency_radps"},message:"must have required property '"+"naturalFrequency_radps"+"'"};
 if(vErrors === null){
 vErrors = [err90];
 }
@@ -1572,8 +1574,8 @@ vErrors.push(err90);
 }
 errors++;
 }
-if(data36.zeroTimeConstant_s === undefined){
-const err91 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "zeroTimeConstant_s"},message:"must have required property '"+"zeroTimeConstant_s"+"'"};
+if(data37.dampingRatio === undefined){
+const err91 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "dampingRatio"},message:"must have required property '"+"dampingRatio"+"'"};
 if(vErrors === null){
 vErrors = [err91];
 }
@@ -1582,8 +1584,8 @@ vErrors.push(err91);
 }
 errors++;
 }
-if(data36.deadTime_s === undefined){
-const err92 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "deadTime_s"},message:"must have required property '"+"deadTime_s"+"'"};
+if(data37.zeroTimeConstant_s === undefined){
+const err92 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "zeroTimeConstant_s"},message:"must have required property '"+"zeroTimeConstant_s"+"'"};
 if(vErrors === null){
 vErrors = [err92];
 }
@@ -1592,8 +1594,8 @@ vErrors.push(err92);
 }
 errors++;
 }
-if(data36.r2 === undefined){
-const err93 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "r2"},message:"must have required property '"+"r2"+"'"};
+if(data37.deadTime_s === undefined){
+const err93 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "deadTime_s"},message:"must have required property '"+"deadTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err93];
 }
@@ -1602,8 +1604,8 @@ vErrors.push(err93);
 }
 errors++;
 }
-if(data36.bic === undefined){
-const err94 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "bic"},message:"must have required property '"+"bic"+"'"};
+if(data37.r2 === undefined){
+const err94 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "r2"},message:"must have required property '"+"r2"+"'"};
 if(vErrors === null){
 vErrors = [err94];
 }
@@ -1612,8 +1614,8 @@ vErrors.push(err94);
 }
 errors++;
 }
-if(data36.stopReason === undefined){
-const err95 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "stopReason"},message:"must have required property '"+"stopReason"+"'"};
+if(data37.bic === undefined){
+const err95 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "bic"},message:"must have required property '"+"bic"+"'"};
 if(vErrors === null){
 vErrors = [err95];
 }
@@ -1622,9 +1624,8 @@ vErrors.push(err95);
 }
 errors++;
 }
-for(const key5 in data36){
-if(!((((((((key5 === "gain") || (key5 === "naturalFrequency_radps")) || (key5 === "dampingRatio")) || (key5 === "zeroTimeConstant_s")) || (key5 === "deadTime_s")) || (key5 === "r2")) || (key5 === "bic")) || (key5 === "stopReason"))){
-const err96 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
+if(data37.stopReason === undefined){
+const err96 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "stopReason"},message:"must have required property '"+"stopReason"+"'"};
 if(vErrors === null){
 vErrors = [err96];
 }
@@ -1633,11 +1634,9 @@ vErrors.push(err96);
 }
 errors++;
 }
-}
-if(data36.gain !== undefined){
-let data37 = data36.gain;
-if(!((typeof data37 == "number") && (isFinite(data37)))){
-const err97 = {instancePath:instancePath+"/secondOrder/gain",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key5 in data37){
+if(!((((((((key5 === "gain") || (key5 === "naturalFrequency_radps")) || (key5 === "dampingRatio")) || (key5 === "zeroTimeConstant_s")) || (key5 === "deadTime_s")) || (key5 === "r2")) || (key5 === "bic")) || (key5 === "stopReason"))){
+const err97 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err97];
 }
@@ -1647,10 +1646,10 @@ vErrors.push(err97);
 errors++;
 }
 }
-if(data36.naturalFrequency_radps !== undefined){
-let data38 = data36.naturalFrequency_radps;
+if(data37.gain !== undefined){
+let data38 = data37.gain;
 if(!((typeof data38 == "number") && (isFinite(data38)))){
-const err98 = {instancePath:instancePath+"/secondOrder/naturalFrequency_radps",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/naturalFrequency_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err98 = {instancePath:instancePath+"/secondOrder/gain",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err98];
 }
@@ -1660,10 +1659,10 @@ vErrors.push(err98);
 errors++;
 }
 }
-if(data36.dampingRatio !== undefined){
-let data39 = data36.dampingRatio;
+if(data37.naturalFrequency_radps !== undefined){
+let data39 = data37.naturalFrequency_radps;
 if(!((typeof data39 == "number") && (isFinite(data39)))){
-const err99 = {instancePath:instancePath+"/secondOrder/dampingRatio",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/dampingRatio/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err99 = {instancePath:instancePath+"/secondOrder/naturalFrequency_radps",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/naturalFrequency_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err99];
 }
@@ -1673,10 +1672,10 @@ vErrors.push(err99);
 errors++;
 }
 }
-if(data36.zeroTimeConstant_s !== undefined){
-let data40 = data36.zeroTimeConstant_s;
+if(data37.dampingRatio !== undefined){
+let data40 = data37.dampingRatio;
 if(!((typeof data40 == "number") && (isFinite(data40)))){
-const err100 = {instancePath:instancePath+"/secondOrder/zeroTimeConstant_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/zeroTimeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err100 = {instancePath:instancePath+"/secondOrder/dampingRatio",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/dampingRatio/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err100];
 }
@@ -1686,10 +1685,10 @@ vErrors.push(err100);
 errors++;
 }
 }
-if(data36.deadTime_s !== undefined){
-let data41 = data36.deadTime_s;
+if(data37.zeroTimeConstant_s !== undefined){
+let data41 = data37.zeroTimeConstant_s;
 if(!((typeof data41 == "number") && (isFinite(data41)))){
-const err101 = {instancePath:instancePath+"/secondOrder/deadTime_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err101 = {instancePath:instancePath+"/secondOrder/zeroTimeConstant_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/zeroTimeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err101];
 }
@@ -1699,10 +1698,10 @@ vErrors.push(err101);
 errors++;
 }
 }
-if(data36.r2 !== undefined){
-let data42 = data36.r2;
+if(data37.deadTime_s !== undefined){
+let data42 = data37.deadTime_s;
 if(!((typeof data42 == "number") && (isFinite(data42)))){
-const err102 = {instancePath:instancePath+"/secondOrder/r2",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/r2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err102 = {instancePath:instancePath+"/secondOrder/deadTime_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err102];
 }
@@ -1712,10 +1711,10 @@ vErrors.push(err102);
 errors++;
 }
 }
-if(data36.bic !== undefined){
-let data43 = data36.bic;
+if(data37.r2 !== undefined){
+let data43 = data37.r2;
 if(!((typeof data43 == "number") && (isFinite(data43)))){
-const err103 = {instancePath:instancePath+"/secondOrder/bic",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/bic/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err103 = {instancePath:instancePath+"/secondOrder/r2",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/r2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err103];
 }
@@ -1725,10 +1724,10 @@ vErrors.push(err103);
 errors++;
 }
 }
-if(data36.stopReason !== undefined){
-let data44 = data36.stopReason;
-if(!(((data44 === "converged") || (data44 === "iterationCap")) || (data44 === "nonFinite"))){
-const err104 = {instancePath:instancePath+"/secondOrder/stopReason",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/stopReason/enum",keyword:"enum",params:{allowedValues: schema5.anyOf[1].properties.stopReason.enum},message:"must be equal to one of the allowed values"};
+if(data37.bic !== undefined){
+let data44 = data37.bic;
+if(!((typeof data44 == "number") && (isFinite(data44)))){
+const err104 = {instancePath:instancePath+"/secondOrder/bic",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/bic/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err104];
 }
@@ -1738,9 +1737,10 @@ vErrors.push(err104);
 errors++;
 }
 }
-}
-else {
-const err105 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data37.stopReason !== undefined){
+let data45 = data37.stopReason;
+if(!(((data45 === "converged") || (data45 === "iterationCap")) || (data45 === "nonFinite"))){
+const err105 = {instancePath:instancePath+"/secondOrder/stopReason",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/stopReason/enum",keyword:"enum",params:{allowedValues: schema5.anyOf[1].properties.stopReason.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err105];
 }
@@ -1749,11 +1749,10 @@ vErrors.push(err105);
 }
 errors++;
 }
-var _valid1 = _errs86 === errors;
-valid14 = valid14 || _valid1;
 }
-if(!valid14){
-const err106 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf",keyword:"anyOf",params:{},message:"must match a schema in anyOf"};
+}
+else {
+const err106 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err106];
 }
@@ -1762,25 +1761,11 @@ vErrors.push(err106);
 }
 errors++;
 }
-else {
-errors = _errs83;
-if(vErrors !== null){
-if(_errs83){
-vErrors.length = _errs83;
+var _valid1 = _errs88 === errors;
+valid14 = valid14 || _valid1;
 }
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data.secondOrderZero !== undefined){
-let data45 = data.secondOrderZero;
-const _errs106 = errors;
-let valid17 = false;
-const _errs107 = errors;
-if(data45 !== null){
-const err107 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/0/type",keyword:"type",params:{type: "null"},message:"must be null"};
+if(!valid14){
+const err107 = {instancePath:instancePath+"/secondOrder",schemaPath:"#/definitions/secondOrderRecord/anyOf",keyword:"anyOf",params:{},message:"must match a schema in anyOf"};
 if(vErrors === null){
 vErrors = [err107];
 }
@@ -1789,13 +1774,25 @@ vErrors.push(err107);
 }
 errors++;
 }
-var _valid2 = _errs107 === errors;
-valid17 = valid17 || _valid2;
-if(!valid17){
+else {
+errors = _errs85;
+if(vErrors !== null){
+if(_errs85){
+vErrors.length = _errs85;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data.secondOrderZero !== undefined){
+let data46 = data.secondOrderZero;
+const _errs108 = errors;
+let valid17 = false;
 const _errs109 = errors;
-if(data45 && typeof data45 == "object" && !Array.isArray(data45)){
-if(data45.gain === undefined){
-const err108 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "gain"},message:"must have required property '"+"gain"+"'"};
+if(data46 !== null){
+const err108 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/0/type",keyword:"type",params:{type: "null"},message:"must be null"};
 if(vErrors === null){
 vErrors = [err108];
 }
@@ -1804,8 +1801,13 @@ vErrors.push(err108);
 }
 errors++;
 }
-if(data45.naturalFrequency_radps === undefined){
-const err109 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "naturalFrequency_radps"},message:"must have required property '"+"naturalFrequency_radps"+"'"};
+var _valid2 = _errs109 === errors;
+valid17 = valid17 || _valid2;
+if(!valid17){
+const _errs111 = errors;
+if(data46 && typeof data46 == "object" && !Array.isArray(data46)){
+if(data46.gain === undefined){
+const err109 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "gain"},message:"must have required property '"+"gain"+"'"};
 if(vErrors === null){
 vErrors = [err109];
 }
@@ -1814,8 +1816,8 @@ vErrors.push(err109);
 }
 errors++;
 }
-if(data45.dampingRatio === undefined){
-const err110 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "dampingRatio"},message:"must have required property '"+"dampingRatio"+"'"};
+if(data46.naturalFrequency_radps === undefined){
+const err110 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "naturalFrequency_radps"},message:"must have required property '"+"naturalFrequency_radps"+"'"};
 if(vErrors === null){
 vErrors = [err110];
 }
@@ -1824,8 +1826,8 @@ vErrors.push(err110);
 }
 errors++;
 }
-if(data45.zeroTimeConstant_s === undefined){
-const err111 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "zeroTimeConstant_s"},message:"must have required property '"+"zeroTimeConstant_s"+"'"};
+if(data46.dampingRatio === undefined){
+const err111 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "dampingRatio"},message:"must have required property '"+"dampingRatio"+"'"};
 if(vErrors === null){
 vErrors = [err111];
 }
@@ -1834,8 +1836,8 @@ vErrors.push(err111);
 }
 errors++;
 }
-if(data45.deadTime_s === undefined){
-const err112 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "deadTime_s"},message:"must have required property '"+"deadTime_s"+"'"};
+if(data46.zeroTimeConstant_s === undefined){
+const err112 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "zeroTimeConstant_s"},message:"must have required property '"+"zeroTimeConstant_s"+"'"};
 if(vErrors === null){
 vErrors = [err112];
 }
@@ -1844,8 +1846,8 @@ vErrors.push(err112);
 }
 errors++;
 }
-if(data45.r2 === undefined){
-const err113 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "r2"},message:"must have required property '"+"r2"+"'"};
+if(data46.deadTime_s === undefined){
+const err113 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "deadTime_s"},message:"must have required property '"+"deadTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err113];
 }
@@ -1854,8 +1856,8 @@ vErrors.push(err113);
 }
 errors++;
 }
-if(data45.bic === undefined){
-const err114 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "bic"},message:"must have required property '"+"bic"+"'"};
+if(data46.r2 === undefined){
+const err114 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "r2"},message:"must have required property '"+"r2"+"'"};
 if(vErrors === null){
 vErrors = [err114];
 }
@@ -1864,8 +1866,8 @@ vErrors.push(err114);
 }
 errors++;
 }
-if(data45.stopReason === undefined){
-const err115 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "stopReason"},message:"must have required property '"+"stopReason"+"'"};
+if(data46.bic === undefined){
+const err115 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "bic"},message:"must have required property '"+"bic"+"'"};
 if(vErrors === null){
 vErrors = [err115];
 }
@@ -1874,9 +1876,8 @@ vErrors.push(err115);
 }
 errors++;
 }
-for(const key6 in data45){
-if(!((((((((key6 === "gain") || (key6 === "naturalFrequency_radps")) || (key6 === "dampingRatio")) || (key6 === "zeroTimeConstant_s")) || (key6 === "deadTime_s")) || (key6 === "r2")) || (key6 === "bic")) || (key6 === "stopReason"))){
-const err116 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+if(data46.stopReason === undefined){
+const err116 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/required",keyword:"required",params:{missingProperty: "stopReason"},message:"must have required property '"+"stopReason"+"'"};
 if(vErrors === null){
 vErrors = [err116];
 }
@@ -1885,11 +1886,9 @@ vErrors.push(err116);
 }
 errors++;
 }
-}
-if(data45.gain !== undefined){
-let data46 = data45.gain;
-if(!((typeof data46 == "number") && (isFinite(data46)))){
-const err117 = {instancePath:instancePath+"/secondOrderZero/gain",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key6 in data46){
+if(!((((((((key6 === "gain") || (key6 === "naturalFrequency_radps")) || (key6 === "dampingRatio")) || (key6 === "zeroTimeConstant_s")) || (key6 === "deadTime_s")) || (key6 === "r2")) || (key6 === "bic")) || (key6 === "stopReason"))){
+const err117 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err117];
 }
@@ -1899,10 +1898,10 @@ vErrors.push(err117);
 errors++;
 }
 }
-if(data45.naturalFrequency_radps !== undefined){
-let data47 = data45.naturalFrequency_radps;
+if(data46.gain !== undefined){
+let data47 = data46.gain;
 if(!((typeof data47 == "number") && (isFinite(data47)))){
-const err118 = {instancePath:instancePath+"/secondOrderZero/naturalFrequency_radps",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/naturalFrequency_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err118 = {instancePath:instancePath+"/secondOrderZero/gain",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err118];
 }
@@ -1912,10 +1911,10 @@ vErrors.push(err118);
 errors++;
 }
 }
-if(data45.dampingRatio !== undefined){
-let data48 = data45.dampingRatio;
+if(data46.naturalFrequency_radps !== undefined){
+let data48 = data46.naturalFrequency_radps;
 if(!((typeof data48 == "number") && (isFinite(data48)))){
-const err119 = {instancePath:instancePath+"/secondOrderZero/dampingRatio",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/dampingRatio/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err119 = {instancePath:instancePath+"/secondOrderZero/naturalFrequency_radps",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/naturalFrequency_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err119];
 }
@@ -1925,10 +1924,10 @@ vErrors.push(err119);
 errors++;
 }
 }
-if(data45.zeroTimeConstant_s !== undefined){
-let data49 = data45.zeroTimeConstant_s;
+if(data46.dampingRatio !== undefined){
+let data49 = data46.dampingRatio;
 if(!((typeof data49 == "number") && (isFinite(data49)))){
-const err120 = {instancePath:instancePath+"/secondOrderZero/zeroTimeConstant_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/zeroTimeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err120 = {instancePath:instancePath+"/secondOrderZero/dampingRatio",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/dampingRatio/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err120];
 }
@@ -1938,10 +1937,10 @@ vErrors.push(err120);
 errors++;
 }
 }
-if(data45.deadTime_s !== undefined){
-let data50 = data45.deadTime_s;
+if(data46.zeroTimeConstant_s !== undefined){
+let data50 = data46.zeroTimeConstant_s;
 if(!((typeof data50 == "number") && (isFinite(data50)))){
-const err121 = {instancePath:instancePath+"/secondOrderZero/deadTime_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err121 = {instancePath:instancePath+"/secondOrderZero/zeroTimeConstant_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/zeroTimeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err121];
 }
@@ -1951,10 +1950,10 @@ vErrors.push(err121);
 errors++;
 }
 }
-if(data45.r2 !== undefined){
-let data51 = data45.r2;
+if(data46.deadTime_s !== undefined){
+let data51 = data46.deadTime_s;
 if(!((typeof data51 == "number") && (isFinite(data51)))){
-const err122 = {instancePath:instancePath+"/secondOrderZero/r2",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/r2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err122 = {instancePath:instancePath+"/secondOrderZero/deadTime_s",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err122];
 }
@@ -1964,10 +1963,10 @@ vErrors.push(err122);
 errors++;
 }
 }
-if(data45.bic !== undefined){
-let data52 = data45.bic;
+if(data46.r2 !== undefined){
+let data52 = data46.r2;
 if(!((typeof data52 == "number") && (isFinite(data52)))){
-const err123 = {instancePath:instancePath+"/secondOrderZero/bic",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/bic/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err123 = {instancePath:instancePath+"/secondOrderZero/r2",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/r2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err123];
 }
@@ -1977,10 +1976,10 @@ vErrors.push(err123);
 errors++;
 }
 }
-if(data45.stopReason !== undefined){
-let data53 = data45.stopReason;
-if(!(((data53 === "converged") || (data53 === "iterationCap")) || (data53 === "nonFinite"))){
-const err124 = {instancePath:instancePath+"/secondOrderZero/stopReason",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/stopReason/enum",keyword:"enum",params:{allowedValues: schema5.anyOf[1].properties.stopReason.enum},message:"must be equal to one of the allowed values"};
+if(data46.bic !== undefined){
+let data53 = data46.bic;
+if(!((typeof data53 == "number") && (isFinite(data53)))){
+const err124 = {instancePath:instancePath+"/secondOrderZero/bic",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/bic/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err124];
 }
@@ -1990,9 +1989,10 @@ vErrors.push(err124);
 errors++;
 }
 }
-}
-else {
-const err125 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data46.stopReason !== undefined){
+let data54 = data46.stopReason;
+if(!(((data54 === "converged") || (data54 === "iterationCap")) || (data54 === "nonFinite"))){
+const err125 = {instancePath:instancePath+"/secondOrderZero/stopReason",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/properties/stopReason/enum",keyword:"enum",params:{allowedValues: schema5.anyOf[1].properties.stopReason.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err125];
 }
@@ -2001,11 +2001,10 @@ vErrors.push(err125);
 }
 errors++;
 }
-var _valid2 = _errs109 === errors;
-valid17 = valid17 || _valid2;
 }
-if(!valid17){
-const err126 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf",keyword:"anyOf",params:{},message:"must match a schema in anyOf"};
+}
+else {
+const err126 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err126];
 }
@@ -2014,22 +2013,11 @@ vErrors.push(err126);
 }
 errors++;
 }
-else {
-errors = _errs106;
-if(vErrors !== null){
-if(_errs106){
-vErrors.length = _errs106;
+var _valid2 = _errs111 === errors;
+valid17 = valid17 || _valid2;
 }
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data.chosenModel !== undefined){
-let data54 = data.chosenModel;
-if(!(((data54 === "fopdt") || (data54 === "second-order")) || (data54 === "second-order-zero"))){
-const err127 = {instancePath:instancePath+"/chosenModel",schemaPath:"#/properties/chosenModel/enum",keyword:"enum",params:{allowedValues: schema3.properties.chosenModel.enum},message:"must be equal to one of the allowed values"};
+if(!valid17){
+const err127 = {instancePath:instancePath+"/secondOrderZero",schemaPath:"#/definitions/secondOrderRecord/anyOf",keyword:"anyOf",params:{},message:"must match a schema in anyOf"};
 if(vErrors === null){
 vErrors = [err127];
 }
@@ -2038,15 +2026,39 @@ vErrors.push(err127);
 }
 errors++;
 }
-}
+else {
+errors = _errs108;
+if(vErrors !== null){
+if(_errs108){
+vErrors.length = _errs108;
 }
 else {
-const err128 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+vErrors = null;
+}
+}
+}
+}
+if(data.chosenModel !== undefined){
+let data55 = data.chosenModel;
+if(!(((data55 === "fopdt") || (data55 === "second-order")) || (data55 === "second-order-zero"))){
+const err128 = {instancePath:instancePath+"/chosenModel",schemaPath:"#/properties/chosenModel/enum",keyword:"enum",params:{allowedValues: schema3.properties.chosenModel.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err128];
 }
 else {
 vErrors.push(err128);
+}
+errors++;
+}
+}
+}
+else {
+const err129 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err129];
+}
+else {
+vErrors.push(err129);
 }
 errors++;
 }

@@ -2,6 +2,7 @@ import type { FopdtFit } from './fit-fopdt.js';
 import type { SecondOrderFit } from './fit-second-order.js';
 import type { StepIdentification } from './identify-step.js';
 import type { SpeedModel } from './aggregate.js';
+import { twoPointAgreesWithFit } from './two-point-agreement.js';
 import type { FopdtRecord, RefusedTestRecord, SecondOrderRecord, SpeedRecord, StepFopdtRecord, TestRecord } from './models-schema.js';
 
 /** Records of the models file built from identification results (plain copies; no computation). */
@@ -33,7 +34,12 @@ function stepFopdtRecord(fit: FopdtFit): StepFopdtRecord {
     twoPoint:
       fit.twoPoint === null
         ? null
-        : { gain: fit.twoPoint.gain, timeConstant_s: fit.twoPoint.timeConstant_s, deadTime_s: fit.twoPoint.deadTime_s },
+        : {
+            gain: fit.twoPoint.gain,
+            timeConstant_s: fit.twoPoint.timeConstant_s,
+            deadTime_s: fit.twoPoint.deadTime_s,
+            agreesWithFit: twoPointAgreesWithFit(fit.twoPoint, { gain: parameters[0], timeConstant_s: parameters[1], deadTime_s: parameters[2] }),
+          },
   };
 }
 
@@ -85,7 +91,12 @@ export function refusedTestRecord(step: StepIdentification): RefusedTestRecord {
   };
 }
 
-/** A speed's record: inverse-variance FOPDT with standard errors and 95 % intervals, the steps combined. */
+/** Order of step keys in a models file: by file name (UTF-16 code units, the same in every locale), then step index. */
+export function compareStepKeys(p: { readonly file: string; readonly stepIndex: number }, q: { readonly file: string; readonly stepIndex: number }): number {
+  return p.file < q.file ? -1 : p.file > q.file ? 1 : p.stepIndex - q.stepIndex;
+}
+
+/** A speed's record: inverse-variance FOPDT with standard errors and 95 % intervals, the steps combined (sorted by `compareStepKeys`). */
 export function speedRecord(speed: SpeedModel): SpeedRecord {
   const fopdt: FopdtRecord = {
     gain: speed.gain.value,
@@ -94,5 +105,5 @@ export function speedRecord(speed: SpeedModel): SpeedRecord {
     standardErrors: { gain: speed.gain.standardError, timeConstant_s: speed.timeConstant_s.standardError, deadTime_s: speed.deadTime_s.standardError },
     ci95: { gain: speed.gain.ci95, timeConstant_s: speed.timeConstant_s.ci95, deadTime_s: speed.deadTime_s.ci95 },
   };
-  return { speed_mps: speed.speed_mps, stepCount: speed.stepCount, steps: speed.steps, fopdt, asymmetry_pct: speed.asymmetry_pct, repeatSpread_pct: speed.repeatSpread_pct };
+  return { speed_mps: speed.speed_mps, stepCount: speed.stepCount, steps: [...speed.steps].sort(compareStepKeys), fopdt, asymmetry_pct: speed.asymmetry_pct, repeatSpread_pct: speed.repeatSpread_pct };
 }

@@ -42,7 +42,13 @@ export interface StepFopdtRecord extends FopdtRecord {
   readonly ljungBoxQ: number;
   readonly residualsWhite: boolean;
   /** Smith's two-point estimate (independent check), or null when the response allowed none. */
-  readonly twoPoint: { readonly gain: number; readonly timeConstant_s: number; readonly deadTime_s: number } | null;
+  readonly twoPoint: {
+    readonly gain: number;
+    readonly timeConstant_s: number;
+    readonly deadTime_s: number;
+    /** Within `TWO_POINT_AGREEMENT` of the fit (two-point-agreement.ts); absent in files written before it was recorded. */
+    readonly agreesWithFit?: boolean;
+  } | null;
 }
 
 export interface SecondOrderRecord {
@@ -224,7 +230,7 @@ const stepFopdtRecord = {
           type: 'object',
           additionalProperties: false,
           required: ['gain', 'timeConstant_s', 'deadTime_s'],
-          properties: { gain: number, timeConstant_s: number, deadTime_s: number },
+          properties: { gain: number, timeConstant_s: number, deadTime_s: number, agreesWithFit: { type: 'boolean' } },
         },
       ],
     },

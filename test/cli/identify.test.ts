@@ -1,4 +1,4 @@
-import { existsSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -65,4 +65,53 @@ describe('speedband identify', () => {
     expect(io.out()).toMatch(/speed-tolerance-mps/);
     expect(io.out()).toMatch(/Examples/);
   });
+});
+
+describe('speedband identify: --json without --out, the two-point note, step order in models.json', () => {
+  it('--json alone prints the summary and writes nothing; neither --json nor --out is a usage error naming both', async () => {
+    const before = readdirSync(folder).sort();
+    const io = recordingIo();
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--joint-fit', 'false', '--second-order', 'false', '--json'], io)).toBe(0);
+    const summary = JSON.parse(io.out()) as { file: string | null; outcome: string | null; speeds: unknown[]; twoPointCheck: { steps: number; disagreeing: number } };
+    expect(summary.file).toBeNull();
+    expect(summary.outcome).toBeNull();
+    expect(summary.speeds).toHaveLength(2);
+    expect(summary.twoPointCheck.steps).toBe(16);
+    expect(readdirSync(folder).sort()).toEqual(before);
+
+    const neither = recordingIo();
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs], neither)).toBe(2);
+    expect(neither.err()).toMatch(/give --out models\.json to write the models file, and\/or --json to print a summary/);
+  }, 60_000);
+
+  it('records per step whether the two-point estimate agrees with the fit and counts the disagreements in a note', async () => {
+    const out = join(folder, 'two-point.json');
+    const io = recordingIo();
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--out', out, '--joint-fit', 'false', '--second-order', 'false'], io)).toBe(0);
+    const models = readModels(out);
+    const flags = models.tests.map((test) => test.fopdt.twoPoint?.agreesWithFit);
+    expect(flags.every((flag) => typeof flag === 'boolean')).toBe(true);
+    const disagreeing = flags.filter((flag) => flag === false).length;
+    // The robot's response (τ + θ ≈ 0.06 s) is shorter than its 0.15 s command ramps: Smith's reading, which takes the step as
+    // instantaneous at mid-ramp, stretches τ (test/identify/two-point-agreement.test.ts), so the note must appear.
+    expect(disagreeing).toBeGreaterThan(0);
+    expect(io.out()).toMatch(new RegExp(`Note: Smith's two-point estimate \\(28\\.3 %/63\\.2 % crossings\\) disagrees with the FOPDT fit on ${disagreeing} of ${models.tests.length} steps`));
+    expect(io.out()).toMatch(/a ramp that is not short against the response/);
+  }, 60_000);
+
+  it('lists each speed\'s steps by file, then step index (two files at one speed)', async () => {
+    const vehicle = loadVehicle(VEHICLE);
+    const first = writeTestLogs(vehicle, [0.8, 1.6], join(folder, 'repeat-a'), { seed: 7 });
+    const second = writeTestLogs(vehicle, [0.8], join(folder, 'repeat-b'), { seed: 8 });
+    const csv = [...first.files, ...second.files].map((f) => f.path).filter((p) => p.endsWith('.csv'));
+    const out = join(folder, 'order.json');
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...csv, '--out', out, '--joint-fit', 'false', '--second-order', 'false'], recordingIo())).toBe(0);
+    const speeds = readModels(out).speeds;
+    expect(speeds[0].steps.length).toBeGreaterThan(8);
+    for (const speed of speeds) {
+      const keys = speed.steps.map((step) => [step.file, step.stepIndex] as const);
+      const sorted = [...keys].sort((p, q) => (p[0] < q[0] ? -1 : p[0] > q[0] ? 1 : p[1] - q[1]));
+      expect(keys).toEqual(sorted);
+    }
+  }, 60_000);
 });

@@ -1,3 +1,4 @@
+import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 
@@ -12,11 +13,15 @@ const plusMinus = (value: number, interval: readonly [number, number], digits: n
   `${f(value, digits)} ± ${f((interval[1] - interval[0]) / 2, digits)}`;
 
 async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+  const out = args.out === undefined ? undefined : String(args.out);
+  if (out === undefined && args.json !== true) {
+    throw new SpeedbandError('cli.missingOption', 'nothing to do: give --out models.json to write the models file, and/or --json to print a summary');
+  }
   const { identifyFromLogs } = await import('../../identify/identify-from-logs.js');
   const { writeModels } = await import('../../identify/models-file.js');
   const { radiansToDegrees } = await import('../../core/units.js');
+  const { tallyTwoPointAgreement, TWO_POINT_AGREEMENT } = await import('../../identify/two-point-agreement.js');
   const logPaths = (args.logs as unknown[]).map(String);
-  const out = String(args.out);
   const models = identifyFromLogs({
     vehicle: String(args.vehicle),
     logPaths,
@@ -32,13 +37,14 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     },
     progress: io.progress,
   });
-  const outcome = writeModels(out, models, args.force === true);
+  const outcome = out === undefined ? null : writeModels(out, models, args.force === true);
+  const twoPoint = tallyTwoPointAgreement(models.tests);
 
   if (args.json === true) {
     io.stdout(
       `${JSON.stringify(
         {
-          file: out,
+          file: out ?? null,
           outcome,
           vehicle: models.vehicle.name,
           speeds: models.speeds.map((s) => ({ speed_mps: s.speed_mps, stepCount: s.stepCount, fopdt: s.fopdt })),
@@ -47,6 +53,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           refusedTests: models.refusedTests.map((t) => ({ file: t.file, stepIndex: t.stepIndex, speed_mps: t.speed_mps, reasonCode: t.reasonCode, reason: t.reason })),
           rejectedSteps: models.rejectedSteps,
           warnings: models.warnings,
+          twoPointCheck: { ...twoPoint, tolerance: TWO_POINT_AGREEMENT },
         },
         null,
         2,
@@ -114,6 +121,15 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     lines.push('Warnings:');
     for (const w of models.warnings) lines.push(`  ${w}`);
   }
+  if (twoPoint.disagreeing > 0) {
+    lines.push('');
+    lines.push(
+      `Note: Smith's two-point estimate (28.3 %/63.2 % crossings) disagrees with the FOPDT fit on ${twoPoint.disagreeing} of ${twoPoint.steps} steps ` +
+        `(gain beyond ${100 * TWO_POINT_AGREEMENT.gainFraction} %, or τ or θ beyond ${100 * TWO_POINT_AGREEMENT.timeFraction} % of the fit's τ + θ; per step in models.json, tests[].fopdt.twoPoint.agreesWithFit). ` +
+        'The estimate reads each step as instantaneous at half the command ramp, so a ramp that is not short against the response (τ + θ) makes it disagree by construction; ' +
+        'otherwise a large share hints at a response that is not first order — see the models chosen per speed above. The fits use the logged command and are not affected.',
+    );
+  }
   lines.push('');
   lines.push(`${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}`);
   io.stdout(`${lines.join('\n')}\n`);
@@ -127,7 +143,7 @@ export const command: CommandModule = {
     yargs
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, yaw inertia, axle positions, steering ratio' })
       .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]), or folders of them; steps at two or more speeds' })
-      .option('out', { type: 'string', demandOption: true, describe: 'models.json to write (atomically; validated against its JSON Schema)' })
+      .option('out', { type: 'string', describe: 'models.json to write (atomically; validated against its JSON Schema). Required unless --json is given' })
       .option('speed-tolerance-mps', { type: 'number', default: 0.5, describe: 'Steps whose speeds differ by at most this (m/s) — and by at most --speed-tolerance-fraction of the speed — are one nominal speed' })
       .option('speed-tolerance-fraction', { type: 'number', default: 0.05, describe: 'Relative speed tolerance (fraction of the speed) for slow machines tested at speeds close together' })
       .option('max-hold-s', { type: 'number', default: 10, describe: 'Fit each step over at most this many seconds after its onset (s); longer holds add time, not information' })
@@ -142,10 +158,11 @@ export const command: CommandModule = {
       .option('second-order', { type: 'boolean', default: true, describe: 'Also fit second order plus dead time (with and without a zero) per step and choose by BIC' })
       .option('joint-fit', { type: 'boolean', default: true, describe: 'Fit the joint single-track model (Cf, Cr, actuator lag and delay) over all steps' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (per-speed models, single-track results, dropped steps, warnings) instead of tables' }),
+      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (per-speed models, single-track results, dropped steps, warnings) instead of tables; with no --out, nothing is written' }),
   examples: [
     ['speedband identify --vehicle vehicles/parcel-van --logs vehicles/parcel-van/logs --out models.json', 'Models of the demo van from its synthetic logs (every .csv in the folder)'],
     ['speedband identify --vehicle van.json --logs run1.csv run2.csv --out models.json --bias pre-step --json', 'Offset from the pre-step window; a JSON summary for scripts'],
+    ['speedband identify --vehicle vehicles/sidewalk-robot --logs vehicles/sidewalk-robot/logs --json', 'Only the JSON summary on stdout; no models file written'],
   ],
   run,
 };
