@@ -11,6 +11,8 @@ export { simulateFopdt, firstOrderStates, type CommandHold } from './simulate-fo
 export { simulateSecondOrder } from './simulate-second-order.js';
 export { simulateThirdOrderHeld } from './simulate-third-order.js';
 export { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
+export { twoPointAgreesWithFit, tallyTwoPointAgreement, TWO_POINT_AGREEMENT, type TwoPointTally } from './two-point-agreement.js';
+export { compareStepKeys } from './models-records.js';
 export { yawSignals, actuatorSignals, type StepSignals } from './step-signals.js';
 export { fitQuality, type FitQuality } from './fit-quality.js';
 export { ljungBox, studentT975, chiSquare95, autocorrelation, effectiveSampleSize, type WhitenessTest } from './statistics.js';
