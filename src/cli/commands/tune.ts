@@ -4,6 +4,7 @@ import type { ControllerSettings } from '../../controller/types.js';
 import { TUNING_DEFAULTS } from '../../tuning/defaults.js';
 import { RULE_NAMES } from '../../tuning/registry.js';
 import type { RuleParameters } from '../../tuning/types.js';
+import type { Vehicle } from '../../vehicle/types.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
 
@@ -81,7 +82,7 @@ export const command: CommandModule = {
     let model;
     let modelWords: { description: string; warnings: readonly string[] } | undefined;
     if (args.models !== undefined) {
-      const fromModels = await modelFromModelsFile(String(args.models), args.vehicle === undefined ? undefined : String(args.vehicle), fopdtGiven, speed_mps);
+      const fromModels = await modelFromModelsFile(String(args.models), vehicle === undefined ? undefined : { path: String(args.vehicle), vehicle }, fopdtGiven, speed_mps);
       model = fromModels.model;
       modelWords = fromModels;
     } else if (fopdtGiven === 3) {
@@ -133,24 +134,23 @@ export const command: CommandModule = {
 };
 
 /** The identified model at the speed (`operatingPointModelFromModels`); --models excludes a hand-given FOPDT and needs --vehicle. */
-async function modelFromModelsFile(modelsPath: string, vehiclePath: string | undefined, fopdtGiven: number, speed_mps: number) {
+async function modelFromModelsFile(modelsPath: string, given: { path: string; vehicle: Vehicle } | undefined, fopdtGiven: number, speed_mps: number) {
   if (fopdtGiven > 0) {
     throw new SpeedbandError('cli.conflictingOptions', '--models and --gain/--time-constant-s/--dead-time-s both give the vehicle model — use one');
   }
   const models = (await import('../../identify/models-file.js')).readModels(modelsPath);
-  if (vehiclePath === undefined) {
+  if (given === undefined) {
     throw new SpeedbandError(
       'cli.missingVehicle',
       `--models needs --vehicle: the models file records the vehicle's name and hash, not its mass, inertia and geometry — pass the vehicle file it was identified with ("${models.vehicle.name}", ${models.vehicle.file})`,
       { location: { file: modelsPath, jsonPath: '/vehicle' } },
     );
   }
-  const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { resolveVehiclePath } = await import('../../vehicle/load.js');
   const { sha256Hex } = await import('../../core/files.js');
   const { readFileSync } = await import('node:fs');
   const { operatingPointModelFromModels } = await import('../../build/operating-point-from-models.js');
-  const vehicleFile = resolveVehiclePath(vehiclePath);
-  return operatingPointModelFromModels(models, loadVehicle(vehicleFile), speed_mps, sha256Hex(readFileSync(vehicleFile)));
+  return operatingPointModelFromModels(models, given.vehicle, speed_mps, sha256Hex(readFileSync(resolveVehiclePath(given.path))));
 }
 
 function optionalNumber<K extends string>(key: K, value: number | undefined): Partial<Record<K, number>> {
