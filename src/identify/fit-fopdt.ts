@@ -1,6 +1,6 @@
 import type { FopdtModel } from './types.js';
 import { fitStepModel, type BiasMode, type StepModelFit } from './fit-step-model.js';
-import { simulateFopdt, type CommandHold } from './simulate-fopdt.js';
+import { delayedFirstOrderOutput, firstOrderStates, simulateFopdt, type CommandHold } from './simulate-fopdt.js';
 import { meanOf, type StepSignals } from './step-signals.js';
 import { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
 
@@ -103,13 +103,17 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
   const coarseInput = input.filter((_, i) => i % stride === 0);
   const coarseOutput = output.filter((_, i) => i % stride === 0);
   const scratch = new Float64Array(coarseTime.length);
-  const states = new Float64Array(coarseTime.length);
+  // The lag states depend on the time constant only: computed once per grid time constant.
+  const timeConstants_s = Array.from({ length: options.timeConstantGridPoints }, (_, j) =>
+    timeConstantMin_s * Math.pow(timeConstantMax_s / timeConstantMin_s, j / (options.timeConstantGridPoints - 1)),
+  );
+  const statesByTimeConstant = timeConstants_s.map((timeConstant_s) => firstOrderStates(coarseTime, coarseInput, timeConstant_s, options.hold, new Float64Array(coarseTime.length)));
   const grid: GridPoint[] = [];
   for (let i = 0; i < options.deadTimeGridPoints; i++) {
     const deadTime_s = (deadTimeMax_s * i) / (options.deadTimeGridPoints - 1);
     for (let j = 0; j < options.timeConstantGridPoints; j++) {
-      const timeConstant_s = timeConstantMin_s * Math.pow(timeConstantMax_s / timeConstantMin_s, j / (options.timeConstantGridPoints - 1));
-      const x = simulateFopdt(coarseTime, coarseInput, 1, timeConstant_s, deadTime_s, options.hold, scratch, states);
+      const timeConstant_s = timeConstants_s[j];
+      const x = delayedFirstOrderOutput(coarseTime, coarseInput, 1, timeConstant_s, deadTime_s, options.hold, statesByTimeConstant[j], scratch);
       const { gain, ssr } = projectLinear(coarseOutput, x, fixedBias);
       grid.push({ deadTime_s, timeConstant_s, gain, ssr });
     }

@@ -61,10 +61,28 @@ export function simulateFopdt(
   out: Float64Array = new Float64Array(time_s.length),
   states: Float64Array = new Float64Array(time_s.length),
 ): Float64Array {
+  firstOrderStates(time_s, input, timeConstant_s, hold, states);
+  return delayedFirstOrderOutput(time_s, input, gain, timeConstant_s, deadTime_s, hold, states, out);
+}
+
+/**
+ * The output part of simulateFopdt: y_k = gain·x(t_k − deadTime_s) from the lag states at the samples
+ * (`firstOrderStates` with the same input, time constant and hold). Split out so that a grid over dead
+ * times reuses one set of states per time constant. Units as in simulateFopdt.
+ */
+export function delayedFirstOrderOutput(
+  time_s: Float64Array,
+  input: Float64Array,
+  gain: number,
+  timeConstant_s: number,
+  deadTime_s: number,
+  hold: CommandHold,
+  states: Float64Array,
+  out: Float64Array,
+): Float64Array {
   const n = time_s.length;
   const tau = timeConstant_s;
   const lagFree = tau <= MIN_TIME_CONSTANT_S;
-  firstOrderStates(time_s, input, tau, hold, states);
   const slopes = hold === 'linear' ? 1 : 0;
   const t0 = time_s[0];
   const tLast = time_s[n - 1];
