@@ -24,12 +24,11 @@
  * speeds). The loop is stable iff every pole has |z| < 1 − tolerance; a pole within the
  * tolerance of the unit circle is 'marginal' (on the boundary: not stable).
  */
-import { SpeedbandError } from '../core/errors.js';
 import { addPolynomials, multiplyPolynomials } from '../lti/polynomial.js';
-import { controllableCanonicalForm } from '../lti/state-space.js';
-import { zeroOrderHoldDiscretisation } from '../lti/time-response.js';
-import { transferFunction } from '../lti/transfer-function.js';
+import { controllerInDelays, multiplyMatrices, sampledPlant, type SampledPlant } from './sampled-plant.js';
 import { allRootsInside, largestRootMagnitude } from './unit-circle-roots.js';
+
+export { splitDelay } from './sampled-plant.js';
 
 /** A plant under a discrete controller, as the firmware runs it. */
 export interface SampledLoop {
@@ -54,34 +53,6 @@ export interface SampledVerdict {
   readonly closedLoopOrder: number;
 }
 
-/** Relative rounding under which a delay counts as a whole number of samples. */
-const WHOLE_SAMPLE_TOLERANCE = 1e-9;
-
-/** θ = ℓ·Ts + m with 0 ≤ m < Ts, a remainder within rounding of 0 or Ts snapped to a whole sample. */
-export function splitDelay(delay_s: number, sampleTime_s: number): { wholeSamples: number; fraction_s: number } {
-  const ratio = delay_s / sampleTime_s;
-  const nearest = Math.round(ratio);
-  if (Math.abs(ratio - nearest) <= WHOLE_SAMPLE_TOLERANCE * Math.max(1, ratio)) return { wholeSamples: nearest, fraction_s: 0 };
-  const wholeSamples = Math.floor(ratio);
-  return { wholeSamples, fraction_s: delay_s - wholeSamples * sampleTime_s };
-}
-
-/** Controller C(z) as b(z⁻¹)/a(z⁻¹) with a[0] = 1, both of length q + 1. Throws for a non-causal C(z). */
-function controllerInDelays(controller: SampledLoop['controller']): { b: number[]; a: number[] } {
-  const { numerator, denominator } = controller;
-  if (numerator.length > denominator.length || denominator[0] === 0) {
-    throw new SpeedbandError(
-      'verify.invalidController',
-      `the discrete controller has numerator degree ${numerator.length - 1} above denominator degree ${denominator.length - 1} in z (or a zero leading denominator coefficient): it would need future errors — give C(z) coefficients in powers of z, highest first, with a non-zero leading denominator coefficient`,
-      { location: { jsonPath: 'discreteController' }, details: { numerator: [...numerator], denominator: [...denominator] } },
-    );
-  }
-  const lead = denominator[0];
-  const a = denominator.map((c) => c / lead);
-  const b = new Array<number>(denominator.length - numerator.length).fill(0).concat(numerator.map((c) => c / lead));
-  return { b, a };
-}
-
 /**
  * The exact closed-loop verdict of a plant (with delay θ, s) under a discrete controller
  * C(z) at sample time Ts (s) with a zero-order hold; see the module comment for the
@@ -90,36 +61,33 @@ function controllerInDelays(controller: SampledLoop['controller']): { b: number[
  * `lti.improperTransferFunction` for an improper plant.
  */
 export function sampledLoopVerdict(loop: SampledLoop, tolerance: number): SampledVerdict {
-  const ts = loop.sampleTime_s;
-  const model = controllableCanonicalForm(transferFunction(loop.plant.numerator, loop.plant.denominator, 0));
-  const n = model.inputVector.length;
-  const { wholeSamples: ell, fraction_s: m } = splitDelay(loop.plant.delay_s, ts);
-  const late = zeroOrderHoldDiscretisation(model, ts - m); // Φ(Ts − m), Γ0
-  const early = m === 0 ? null : zeroOrderHoldDiscretisation(model, m); // Φ(m), ∫₀^m e^(Aσ)dσ·B
-  const transition = early === null ? late.transition : multiplyMatrices(late.transition, early.transition);
-  const gamma0 = late.inputGain;
-  const gamma1 = early === null ? new Array<number>(n).fill(0) : late.transition.map((row) => row.reduce((sum, value, j) => sum + value * early.inputGain[j], 0));
+  return sampledVerdictOf(sampledPlant(loop.plant, loop.sampleTime_s), loop.controller, tolerance);
+}
 
+/** As sampledLoopVerdict, for a plant already sampled by `sampledPlant`. */
+export function sampledVerdictOf(plant: SampledPlant, controller: SampledLoop['controller'], tolerance: number): SampledVerdict {
+  const { transition, inputGainCurrent: gamma0, inputGainPrevious: gamma1, wholeSampleDelay: ell } = plant;
+  const n = gamma0.length;
   // Pulse transfer function y/u = [C·adj(zI − Φ)·(Γ0·z + Γ1) + D·det(zI − Φ)] / [det(zI − Φ)·z^(ℓ+1)].
   const { characteristic, adjugate } = faddeevLeVerrier(transition);
   const plantNumerator = new Array<number>(n + 1).fill(0);
   adjugate.forEach((term, k) => {
     // term multiplies z^(n−1−k): Γ0·z lands on z^(n−k), Γ1 on z^(n−1−k).
-    plantNumerator[k] += quadratic(model.outputVector, term, gamma0);
-    plantNumerator[k + 1] += quadratic(model.outputVector, term, gamma1);
+    plantNumerator[k] += quadratic(plant.outputVector, term, gamma0);
+    plantNumerator[k + 1] += quadratic(plant.outputVector, term, gamma1);
   });
-  for (let i = 0; i <= n; i++) plantNumerator[i] += model.feedthrough * characteristic[i];
+  for (let i = 0; i <= n; i++) plantNumerator[i] += plant.feedthrough * characteristic[i];
   const plantDenominator = characteristic.concat(new Array<number>(ell + 1).fill(0));
 
   // 1 + C(z)·G(z) = 0 ⇔ a(z)·den(z) + b(z)·num(z) = 0 with C = b/a in powers of z (equal lengths).
-  const { b, a } = controllerInDelays(loop.controller);
+  const { b, a } = controllerInDelays(controller);
   const closedLoop = addPolynomials(multiplyPolynomials(a, plantDenominator), multiplyPolynomials(b, plantNumerator));
   const lead = closedLoop[0];
   const monic = closedLoop.map((value) => value / lead);
   const finite = monic.every(Number.isFinite);
   const largest = finite ? largestRootMagnitude(monic, RADIUS_RELATIVE_TOLERANCE) : Infinity;
   const verdict = !finite ? 'unstable' : allRootsInside(monic, 1 - tolerance) ? 'stable' : allRootsInside(monic, 1 + tolerance) ? 'marginal' : 'unstable';
-  return { verdict, largestPoleMagnitude: largest, wholeSampleDelay: ell, fractionalDelay_s: m, closedLoopOrder: monic.length - 1 };
+  return { verdict, largestPoleMagnitude: largest, wholeSampleDelay: ell, fractionalDelay_s: plant.fractionalDelay_s, closedLoopOrder: monic.length - 1 };
 }
 
 /** Relative width to which the largest |z| is bisected. */
@@ -158,8 +126,4 @@ function quadratic(row: readonly number[], matrix: readonly (readonly number[])[
     sum += row[i] * inner;
   }
   return sum;
-}
-
-function multiplyMatrices(left: readonly (readonly number[])[], right: readonly (readonly number[])[]): number[][] {
-  return left.map((row) => right[0].map((_, j) => row.reduce((sum, value, k) => sum + value * right[k][j], 0)));
 }
