@@ -109,17 +109,19 @@ export function fitSingleTrack(
     data.set(s.output, offset);
     offset += s.output.length;
   }
+  // One state buffer for every simulation; each step is simulated straight into its part of the prediction.
+  const states = new Float64Array(3 * signals.reduce((longest, s) => Math.max(longest, s.time_s.length), 0));
   const model = (p: readonly number[]): Float64Array => {
     const params = parametersOf(vehicle, p);
     const prediction = new Float64Array(total);
     let at = 0;
     for (let i = 0; i < steps.length; i++) {
       const s = signals[i];
-      const y = simulateYawThroughActuator(params, steps[i].speed_mps, s.time_s, s.input);
+      const y = simulateYawThroughActuator(params, steps[i].speed_mps, s.time_s, s.input, prediction.subarray(at, at + s.time_s.length), states);
       let mean = 0;
       for (let k = 0; k < y.length; k++) mean += s.output[k] - y[k];
       mean /= y.length;
-      for (let k = 0; k < y.length; k++) prediction[at + k] = y[k] + mean;
+      for (let k = 0; k < y.length; k++) y[k] = y[k] + mean;
       at += y.length;
     }
     return prediction;

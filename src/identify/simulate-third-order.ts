@@ -39,6 +39,7 @@ export function simulateThirdOrderHeld(
   denominator: readonly [number, number, number, number],
   delay_s: number,
   out: Float64Array = new Float64Array(time_s.length),
+  states: Float64Array = new Float64Array(3 * time_s.length),
 ): Float64Array {
   const n = time_s.length;
   const [, a2, a1, a0] = denominator;
@@ -59,7 +60,10 @@ export function simulateThirdOrderHeld(
     updateA = found;
     return found;
   };
-  const x = new Float64Array(3 * n);
+  const x = states; // ≥ 3n; starts at rest
+  x[0] = 0;
+  x[1] = 0;
+  x[2] = 0;
   for (let j = 0; j + 1 < n; j++) {
     const { phi, gamma } = update(time_s[j + 1] - time_s[j]);
     const o = 3 * j;
