@@ -3,17 +3,17 @@
  * phase crossover, phase margin, both gain margins, delay margin, sensitivity peaks,
  * and a verdict from two independent tests that must agree.
  */
-import { SpeedbandError } from '../core/errors.js';
-import { multiplyPolynomials } from '../lti/polynomial.js';
 import { ratioToDecibels, radiansToDegrees } from '../core/units.js';
 import { closedLoopPoleVerdict } from './closed-loop-poles.js';
 import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { nyquistCount, type EncirclementResult } from './encirclement.js';
 import type { LoopGrid } from './frequency-grid.js';
-import { sampledLoopVerdict } from './sampled-verdict.js';
+import { sampledNyquistCount } from './sampled-nyquist.js';
+import { sampledPlant } from './sampled-plant.js';
+import { sampledVerdictOf } from './sampled-verdict.js';
 import { sensitivityPeaks } from './sensitivity.js';
 import { cancelCommonIntegrators, sweepLoop } from './sweep.js';
-import type { LoopAnalysisDetails, LoopMargins, OpenLoop } from './types.js';
+import type { DiscreteControllerFactor, LoopAnalysisDetails, LoopMargins, OpenLoop } from './types.js';
 import { validateOpenLoop } from './validate-loop.js';
 
 export { ANALYSIS_DEFAULTS };
@@ -61,13 +61,16 @@ function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
  *   |L(j∞)| ≥ 1 (e.g. an unfiltered derivative on a plant of relative degree one) is a
  *   neutral-type loop: unstable whatever the margins. If the two tests disagree the
  *   verdict is 'undetermined' and stable is false.
- * - With a discrete controller the verdict is decided by the exact sampled-data loop
- *   (`sampledLoopVerdict`: zero-order-hold equivalent of the plant with the fractional
- *   delay, the controller C(z), eigenvalues of the closed-loop matrix inside |z| < 1)
- *   AND the Nyquist count, which still runs on the continuous counterpart C(s) with an
- *   extra Ts/2 delay (an approximation of sampling): 'stable' only when both say stable,
- *   'unstable' when both say unstable, else 'undetermined'. Margins use C(e^(jωTs))·e^(−jωTs/2)
- *   and the band stops at the Nyquist frequency π/Ts.
+ * - With a discrete controller the verdict is decided on the exact sampled-data loop
+ *   (`sampledPlant`: zero-order-hold equivalent of the plant with the fractional delay)
+ *   by two tests: its closed-loop poles inside |z| < 1 (`sampledVerdictOf`, Schur–Cohn on
+ *   the characteristic polynomial) AND the Nyquist count on its exact pulse frequency
+ *   response (`sampledNyquistCount`): 'stable' only when both say stable, 'unstable' when
+ *   both say unstable, else 'undetermined' (the continuous counterpart C(s) with a Ts/2
+ *   delay, an approximation of sampling, is no longer used for the verdict: it called
+ *   unstable sampled loops stable). The pole and count fields of `analysis` then speak of
+ *   the sampled loop (see `sampledDecision`). Margins use C(e^(jωTs))·e^(−jωTs/2) and the
+ *   band stops at the Nyquist frequency π/Ts.
  * Throws `verify.invalidLoop` / `verify.improperLoop` on bad input.
  */
 export function analyseOpenLoop(input: OpenLoop): LoopMargins {
@@ -76,69 +79,11 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   const discrete = loop.discreteController ?? null;
   const margins = sweepLoop(numerator, denominator, loop.delay_s, discrete, true);
 
-  // The loop the verdict is decided on (the same one unless a discrete controller is approximated).
-  const verdictLoop =
-    discrete === null
-      ? { numerator, denominator, delay_s: loop.delay_s }
-      : {
-          ...cancelCommonIntegrators(multiplyPolynomials(numerator, discrete.continuousCounterpart.numerator), multiplyPolynomials(denominator, discrete.continuousCounterpart.denominator)),
-          delay_s: loop.delay_s + discrete.sampleTime_s / 2,
-        };
-  if (verdictLoop.numerator.length > verdictLoop.denominator.length) {
-    throw new SpeedbandError(
-      'verify.improperLoop',
-      'the plant times the continuous counterpart of the discrete controller has more zeros than poles — give the derivative a filter (derivative filter N, Tf = Td/N)',
-      { location: { jsonPath: 'discreteController.continuousCounterpart' }, details: { numerator: verdictLoop.numerator, denominator: verdictLoop.denominator } },
-    );
-  }
-  const verdictSweep = discrete === null ? margins : sweepLoop(verdictLoop.numerator, verdictLoop.denominator, verdictLoop.delay_s, null, false);
-
-  const highFrequencyLoopGain = verdictLoop.numerator.length === verdictLoop.denominator.length ? Math.abs(verdictLoop.numerator[0] / verdictLoop.denominator[0]) : 0;
-  const neutralType = verdictLoop.delay_s > 0 && highFrequencyLoopGain >= 1 - ANALYSIS_DEFAULTS.neutralTolerance;
-
-  const poles = closedLoopPoleVerdict(
-    verdictLoop.numerator,
-    verdictLoop.denominator,
-    verdictLoop.delay_s,
-    bandWhereGainMatters(verdictSweep.grid, ANALYSIS_DEFAULTS.padeBandMagnitude),
-    ANALYSIS_DEFAULTS.poleRelativeTolerance,
-  );
-  const vGrid = verdictSweep.grid;
-  const lastConstant = verdictLoop.denominator[verdictLoop.denominator.length - 1];
-  const count: EncirclementResult = nyquistCount({
-    phaseCrossovers: verdictSweep.phaseCrossovers,
-    originPoles: verdictSweep.originPoles,
-    rightHalfPlanePoles: verdictSweep.rightHalfPlanePoles,
-    otherAxisPoles: verdictSweep.otherAxisPoles,
-    lowPhase_rad: vGrid.phase_rad[0],
-    lowMagnitude: vGrid.magnitude[0],
-    zeroFrequencyValue: verdictSweep.originPoles === 0 && lastConstant !== 0 ? verdictLoop.numerator[verdictLoop.numerator.length - 1] / lastConstant : null,
-    magnitudeTolerance: ANALYSIS_DEFAULTS.crossingMagnitudeTolerance,
-  });
-  const encirclementVerdict: LoopAnalysisDetails['encirclementVerdict'] =
-    count.closedLoopRightHalfPlanePoles === null
-      ? count.reason !== null && count.reason.includes('marginal')
-        ? 'marginal'
-        : 'undetermined'
-      : count.closedLoopRightHalfPlanePoles === 0
-        ? 'stable'
-        : 'unstable';
-  let verdict: LoopMargins['verdict'];
-  if (neutralType) verdict = 'unstable';
-  else if (poles.verdict === encirclementVerdict) verdict = poles.verdict === 'stable' ? 'stable' : 'unstable';
-  else verdict = 'undetermined';
-  // A discrete controller: the exact sampled-data eigenvalues decide, the frequency-domain count must agree.
-  const sampled =
-    discrete === null
-      ? null
-      : sampledLoopVerdict(
-          { plant: { numerator: loop.numerator, denominator: loop.denominator, delay_s: loop.delay_s }, controller: discrete, sampleTime_s: discrete.sampleTime_s },
-          ANALYSIS_DEFAULTS.sampledPoleRadiusTolerance,
-        );
-  if (sampled !== null) {
-    const frequencyVerdict = neutralType ? 'unstable' : encirclementVerdict;
-    verdict = sampled.verdict === 'stable' && frequencyVerdict === 'stable' ? 'stable' : sampled.verdict === 'unstable' && frequencyVerdict === 'unstable' ? 'unstable' : 'undetermined';
-  }
+  // Continuous loop: closed-loop poles with a Padé approximant AND the Nyquist count with the exact delay.
+  // Sampled loop (discrete controller): its exact closed-loop poles (Schur–Cohn) AND the Nyquist count on its
+  // exact pulse frequency response.
+  const decision = discrete === null ? continuousDecision(numerator, denominator, loop.delay_s, margins) : sampledDecision(numerator, denominator, loop.delay_s, discrete, margins);
+  const { verdict } = decision;
   const stable = verdict === 'stable';
 
   // Margins on the loop as the firmware runs it.
@@ -185,20 +130,112 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
     complementarySensitivityPeak: finite(peaks.complementary.value),
     complementarySensitivityPeakFrequency_radps: peaks.complementary.frequency_radps,
     analysis: {
+      ...decision.details,
+      gainCrossovers: crossovers.map((c) => ({ frequency_radps: c.frequency_radps, phaseMargin_deg: radiansToDegrees(c.phaseMargin_rad) })),
+      phaseCrossovers: critical.map((c) => ({ frequency_radps: c.frequency_radps, gainMargin_dB: ratioToDecibels(1 / c.magnitude) })),
+      bandLow_radps: margins.band.low_radps,
+      bandHigh_radps: margins.band.high_radps,
+    },
+  };
+}
+
+type Sweep = ReturnType<typeof sweepLoop>;
+type DecisionDetails = Pick<
+  LoopAnalysisDetails,
+  | 'closedLoopPoleVerdict'
+  | 'padeOrder'
+  | 'encirclementVerdict'
+  | 'encirclementNote'
+  | 'closedLoopRightHalfPlanePoles'
+  | 'openLoopRightHalfPlanePoles'
+  | 'openLoopOriginPoles'
+  | 'highFrequencyLoopGain'
+  | 'neutralType'
+  | 'sampledDataVerdict'
+  | 'sampledDataLargestPoleMagnitude'
+  | 'sampledDataEncirclementVerdict'
+  | 'sampledDataEncirclementNote'
+  | 'sampledDataClosedLoopOutsidePoles'
+>;
+interface Decision {
+  readonly verdict: LoopMargins['verdict'];
+  readonly details: DecisionDetails;
+}
+
+/** Verdict of a continuous loop N/D·e^(−θs): Padé closed-loop poles AND the Nyquist count with the exact delay; a neutral-type loop is unstable. */
+function continuousDecision(numerator: readonly number[], denominator: readonly number[], delay_s: number, sweep: Sweep): Decision {
+  const highFrequencyLoopGain = numerator.length === denominator.length ? Math.abs(numerator[0] / denominator[0]) : 0;
+  const neutralType = delay_s > 0 && highFrequencyLoopGain >= 1 - ANALYSIS_DEFAULTS.neutralTolerance;
+  const poles = closedLoopPoleVerdict(numerator, denominator, delay_s, bandWhereGainMatters(sweep.grid, ANALYSIS_DEFAULTS.padeBandMagnitude), ANALYSIS_DEFAULTS.poleRelativeTolerance);
+  const lastConstant = denominator[denominator.length - 1];
+  const count: EncirclementResult = nyquistCount({
+    phaseCrossovers: sweep.phaseCrossovers,
+    originPoles: sweep.originPoles,
+    rightHalfPlanePoles: sweep.rightHalfPlanePoles,
+    otherAxisPoles: sweep.otherAxisPoles,
+    lowPhase_rad: sweep.grid.phase_rad[0],
+    lowMagnitude: sweep.grid.magnitude[0],
+    zeroFrequencyValue: sweep.originPoles === 0 && lastConstant !== 0 ? numerator[numerator.length - 1] / lastConstant : null,
+    magnitudeTolerance: ANALYSIS_DEFAULTS.crossingMagnitudeTolerance,
+  });
+  const encirclementVerdict: LoopAnalysisDetails['encirclementVerdict'] =
+    count.closedLoopRightHalfPlanePoles === null
+      ? count.reason !== null && count.reason.includes('marginal')
+        ? 'marginal'
+        : 'undetermined'
+      : count.closedLoopRightHalfPlanePoles === 0
+        ? 'stable'
+        : 'unstable';
+  let verdict: LoopMargins['verdict'];
+  if (neutralType) verdict = 'unstable';
+  else if (poles.verdict === encirclementVerdict) verdict = poles.verdict === 'stable' ? 'stable' : 'unstable';
+  else verdict = 'undetermined';
+  return {
+    verdict,
+    details: {
       closedLoopPoleVerdict: poles.verdict,
       padeOrder: poles.padeOrder,
       encirclementVerdict,
       encirclementNote: count.reason,
       closedLoopRightHalfPlanePoles: count.closedLoopRightHalfPlanePoles,
-      openLoopRightHalfPlanePoles: verdictSweep.rightHalfPlanePoles,
-      openLoopOriginPoles: verdictSweep.originPoles,
+      openLoopRightHalfPlanePoles: sweep.rightHalfPlanePoles,
+      openLoopOriginPoles: sweep.originPoles,
       highFrequencyLoopGain,
       neutralType,
-      gainCrossovers: crossovers.map((c) => ({ frequency_radps: c.frequency_radps, phaseMargin_deg: radiansToDegrees(c.phaseMargin_rad) })),
-      phaseCrossovers: critical.map((c) => ({ frequency_radps: c.frequency_radps, gainMargin_dB: ratioToDecibels(1 / c.magnitude) })),
-      bandLow_radps: margins.band.low_radps,
-      bandHigh_radps: margins.band.high_radps,
-      ...(sampled === null ? {} : { sampledDataVerdict: sampled.verdict, sampledDataLargestPoleMagnitude: sampled.largestPoleMagnitude }),
+    },
+  };
+}
+
+/**
+ * Verdict of the sampled loop (plant N/D·e^(−θs), zero-order hold, C(z)): its closed-loop poles
+ * inside |z| < 1 (Schur–Cohn) AND the Nyquist count on its exact pulse frequency response;
+ * 'stable' when both say stable, 'unstable' when both say unstable, else 'undetermined'. The
+ * pole and count fields of the details then speak of the sampled loop (no Padé: order 0;
+ * right-half-plane poles read as poles outside the unit circle; origin poles include the
+ * controller's integrator at z = 1); a sampled loop is never neutral-type.
+ */
+function sampledDecision(numerator: readonly number[], denominator: readonly number[], delay_s: number, discrete: DiscreteControllerFactor, sweep: Sweep): Decision {
+  const plant = sampledPlant({ numerator, denominator, delay_s }, discrete.sampleTime_s);
+  const poles = sampledVerdictOf(plant, discrete, ANALYSIS_DEFAULTS.sampledPoleRadiusTolerance);
+  const count = sampledNyquistCount(plant, discrete, sweep);
+  const verdict = poles.verdict === 'stable' && count.verdict === 'stable' ? 'stable' : poles.verdict === 'unstable' && count.verdict === 'unstable' ? 'unstable' : 'undetermined';
+  return {
+    verdict,
+    details: {
+      closedLoopPoleVerdict: poles.verdict,
+      padeOrder: 0,
+      encirclementVerdict: count.verdict,
+      encirclementNote: count.reason,
+      closedLoopRightHalfPlanePoles: count.closedLoopOutsidePoles,
+      openLoopRightHalfPlanePoles: count.openLoopOutsidePoles,
+      openLoopOriginPoles: count.openLoopUnitPoles,
+      highFrequencyLoopGain: 0,
+      neutralType: false,
+      sampledDataVerdict: poles.verdict,
+      sampledDataLargestPoleMagnitude: poles.largestPoleMagnitude,
+      sampledDataEncirclementVerdict: count.verdict,
+      sampledDataEncirclementNote: count.reason,
+      sampledDataClosedLoopOutsidePoles: count.closedLoopOutsidePoles,
     },
   };
 }

@@ -56,14 +56,19 @@ export interface LoopAnalysisDetails {
   readonly sampledDataVerdict?: 'stable' | 'unstable' | 'marginal';
   /** With a discrete controller: the largest closed-loop eigenvalue magnitude |z| of the sampled-data loop. */
   readonly sampledDataLargestPoleMagnitude?: number;
+  /** With a discrete controller: the Nyquist count on the exact pulse frequency response of the sampled loop. */
+  readonly sampledDataEncirclementVerdict?: 'stable' | 'unstable' | 'marginal' | 'undetermined';
+  readonly sampledDataEncirclementNote?: string | null;
+  /** With a discrete controller: closed-loop poles outside the unit circle by that count (null when not counted). */
+  readonly sampledDataClosedLoopOutsidePoles?: number | null;
 }
 
 /**
  * A discrete controller C(z) in the loop, evaluated on the unit circle z = e^(jωTs).
  * Coefficients in powers of z, highest first. The zero-order hold is counted as a
  * delay of Ts/2 (DOMAIN.md §5): margins use C(e^(jωTs))·e^(−jωTs/2); the stability
- * verdict is the exact sampled-data one (src/verify/sampled-verdict.ts), confirmed by
- * the Nyquist count on `continuousCounterpart`(s)·e^(−sTs/2).
+ * verdict is decided on the exact sampled-data loop (src/verify/sampled-verdict.ts and
+ * sampled-nyquist.ts); `continuousCounterpart`(s)·e^(−sTs/2) is analysed too, for the record.
  */
 export interface DiscreteControllerFactor {
   readonly numerator: readonly number[];

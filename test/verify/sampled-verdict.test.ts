@@ -110,7 +110,9 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
     expect(ours[0].analysis?.sampledDataLargestPoleMagnitude).toBeCloseTo(1.0022, 4);
     for (const index of [0, 1]) {
       expect({ index, stable: ours[index].stable }).toEqual({ index, stable: false });
-      expect(['unstable', 'undetermined']).toContain(ours[index].verdict);
+      // Both exact tests agree: the sampled loop's poles and the Nyquist count on its pulse frequency response.
+      expect(ours[index].verdict).toBe('unstable');
+      expect(ours[index].analysis?.sampledDataEncirclementVerdict).toBe('unstable');
       expect(ours[index].analysis?.sampledDataVerdict).toBe('unstable');
       // Gain margins do not apply to a loop that is not stable.
       expect(ours[index].upperGainMargin_dB).toBeNull();
@@ -124,7 +126,7 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
     expect(simulated[2].late / simulated[2].early).toBeLessThan(1e-3);
   });
 
-  it('on 160 random loops the sampled-data verdict and largest |z| equal numpy roots of the modified-z-transform closed loop', () => {
+  it('on 160 random loops the sampled-data verdict, largest |z| and the Nyquist count of poles outside the unit circle equal numpy roots of the modified-z-transform closed loop', () => {
     const random = makeRandom(20261201);
     const between = (low: number, high: number): number => low + (high - low) * random.uniform();
     const logBetween = (low: number, high: number): number => Math.exp(between(Math.log(low), Math.log(high)));
@@ -132,12 +134,14 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
     for (let i = 0; i < 160; i++) {
       const gain = logBetween(0.3, 4);
       const tau = logBetween(0.1, 2);
-      const kind = i % 4;
+      const kind = i % 5;
+      // kind 4: open-loop unstable (a pole at +1/τ, one pole outside the unit circle after sampling).
       const den =
         kind === 0 ? [tau, 1]
         : kind === 1 ? [0.3 * tau * tau, 1.3 * tau, 1]
         : kind === 2 ? [tau, 1, 0]
-        : [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1];
+        : kind === 3 ? [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1]
+        : [tau, -1];
       const Ts = logBetween(0.005, 0.1);
       const theta = Math.min(between(0, 0.25), 20 * Ts);
       const kp = logBetween(0.1, 6) / gain;
@@ -146,7 +150,7 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
       const N = [5, 10, 20][Math.floor(random.uniform() * 3)];
       cases.push({ num: [gain], den, theta, Ts, kp, ki, kd, N, method: i % 2 === 0 ? 'tustin' : 'backward-euler' });
     }
-    const reference = runPython<number[]>(
+    const reference = runPython<Array<[number, number]>>(
       `
 import json, sys
 import numpy as np
@@ -190,7 +194,8 @@ for c in data:
         cd = pmul(sn, f)
     char = padd(pmul(cd, plant_den), pmul(cn, plant_num))
     char = np.trim_zeros(np.real_if_close(char), 'f')
-    out.append(float(np.max(np.abs(np.roots(char)))))
+    roots = np.abs(np.roots(char))
+    out.append([float(np.max(roots)), int(np.sum(roots > 1))])
 print(json.dumps(out))
 `,
       cases,
@@ -199,14 +204,16 @@ print(json.dumps(out))
     let compared = 0;
     cases.forEach((c, index) => {
       const ours = analyseLoop({ plant: { numerator: c.num, denominator: c.den, delay_s: c.theta }, pid: { kp: c.kp, ki: c.ki, kd: c.kd, derivativeFilter: c.N }, sampleTime_s: c.Ts, discretisation: c.method });
-      const largest = reference[index];
+      const [largest, outside] = reference[index];
       if (Math.abs(largest - 1) < 1e-5) return; // too close to the unit circle for either to decide
       compared++;
       if (largest < 1) stable++;
-      expect({ index, verdict: ours.analysis?.sampledDataVerdict }).toEqual({ index, verdict: largest < 1 ? 'stable' : 'unstable' });
+      const expected = largest < 1 ? 'stable' : 'unstable';
+      expect({ index, verdict: ours.analysis?.sampledDataVerdict }).toEqual({ index, verdict: expected });
       expect({ index, largest: ours.analysis!.sampledDataLargestPoleMagnitude! }).toEqual({ index, largest: expect.closeTo(largest, 6) as number });
-      // The final verdict is never 'stable' when the exact sampled loop is not.
-      if (largest > 1) expect({ index, stable: ours.stable }).toEqual({ index, stable: false });
+      // The Nyquist count on the exact pulse frequency response finds as many closed-loop poles outside the unit circle.
+      expect({ index, outside: ours.analysis?.sampledDataClosedLoopOutsidePoles }).toEqual({ index, outside });
+      expect({ index, verdict: ours.verdict }).toEqual({ index, verdict: expected });
     });
     expect(compared).toBeGreaterThanOrEqual(150);
     // Both kinds are well represented.

@@ -1,0 +1,207 @@
+/**
+ * Nyquist criterion for a sampled loop, on the exact pulse frequency response
+ * L(e^(jϑ)) = C(e^(jϑ))·G(e^(jϑ)), ϑ = ω·Ts in [0, π], with
+ * G(z) = [C·(zI − Φ)⁻¹·(Γ0·z + Γ1) + D]·z^(−(ℓ+1)) evaluated by a complex solve (no
+ * characteristic polynomial). Argument principle on the unit circle (Franklin, Powell &
+ * Workman, Digital Control of Dynamic Systems, 3rd ed., §7.4; Åström & Wittenmark,
+ * Computer-Controlled Systems, §3.3): Z = P + N, where Z counts closed-loop poles outside
+ * the unit circle, P open-loop poles outside, N clockwise encirclements of −1 as z goes
+ * once round the circle counter-clockwise. Poles at z = 1 (plant integrators, the PID's
+ * integrator), k of them, are passed on a small outward detour: they count as inside, and
+ * the detour turns 1 + L by −k·π at infinite radius. By conjugate symmetry the turn of
+ * 1 + L over the whole circle is twice its turn over ϑ ∈ (0, π]. The turn is accumulated
+ * on a grid refined until each step turns 1 + L by ≤ 0.25 rad and L by ≤ 0.5 rad.
+ */
+import type { Complex } from '../lti/types.js';
+import { controllerInDelays, type SampledPlant } from './sampled-plant.js';
+import { analysisRoots } from './small-roots.js';
+
+/** Open-loop poles of the continuous plant, as the loop sweep counts them. */
+export interface PlantPoleCounts {
+  readonly originPoles: number;
+  readonly rightHalfPlanePoles: number;
+  readonly otherAxisPoles: number;
+}
+
+export interface SampledNyquistResult {
+  readonly verdict: 'stable' | 'unstable' | 'marginal' | 'undetermined';
+  /** Z: closed-loop poles outside the unit circle; null when not counted. */
+  readonly closedLoopOutsidePoles: number | null;
+  readonly reason: string | null;
+  /** P: open-loop poles outside the unit circle (plant and controller). */
+  readonly openLoopOutsidePoles: number;
+  /** Open-loop poles at z = 1 (plant integrators and the controller's integrator). */
+  readonly openLoopUnitPoles: number;
+}
+
+const SETTINGS = {
+  /** ϑ (rad) where the arc starts when there are poles at z = 1: the detour radius. */
+  detourAngle_rad: 1e-8,
+  /** Initial grid: uniform points over (0, π], plus log-spaced points per decade towards the detour. */
+  uniformPoints: 32,
+  logPointsPerDecade: 3,
+  /** Refine a step that turns 1 + L by more than this, or L by more than `maximumLoopTurn_rad`. */
+  maximumTurn_rad: 0.25,
+  maximumLoopTurn_rad: 0.5,
+  maximumDepth: 40,
+  /** |1 + L| below this × max(1, |L|) on the path: the loop passes through −1. */
+  marginalTolerance: 1e-9,
+  /** A controller pole within this of z = 1 is an integrator; within this of |z| = 1 elsewhere: on the circle. */
+  circleTolerance: 1e-9,
+} as const;
+
+/** L(e^(jϑ)) of the sampled loop. */
+function makeLoopEvaluator(plant: SampledPlant, b: readonly number[], a: readonly number[]): (angle: number) => Complex {
+  const n = plant.inputGainCurrent.length;
+  const re = new Float64Array(n * (n + 1));
+  const im = new Float64Array(n * (n + 1));
+  const width = n + 1;
+  const delay = plant.wholeSampleDelay + 1;
+  return (angle: number): Complex => {
+    const zr = Math.cos(angle);
+    const zi = Math.sin(angle);
+    // Augmented [zI − Φ | Γ0·z + Γ1], complex Gaussian elimination with partial pivoting.
+    for (let i = 0; i < n; i++) {
+      for (let j = 0; j < n; j++) {
+        re[i * width + j] = (i === j ? zr : 0) - plant.transition[i][j];
+        im[i * width + j] = i === j ? zi : 0;
+      }
+      re[i * width + n] = plant.inputGainCurrent[i] * zr + plant.inputGainPrevious[i];
+      im[i * width + n] = plant.inputGainCurrent[i] * zi;
+    }
+    for (let col = 0; col < n; col++) {
+      let pivot = col;
+      let best = -1;
+      for (let r = col; r < n; r++) {
+        const size = Math.hypot(re[r * width + col], im[r * width + col]);
+        if (size > best) { best = size; pivot = r; }
+      }
+      if (pivot !== col) {
+        for (let j = col; j <= n; j++) {
+          const tr = re[col * width + j]; re[col * width + j] = re[pivot * width + j]; re[pivot * width + j] = tr;
+          const ti = im[col * width + j]; im[col * width + j] = im[pivot * width + j]; im[pivot * width + j] = ti;
+        }
+      }
+      const pr = re[col * width + col];
+      const pi = im[col * width + col];
+      const pd = pr * pr + pi * pi;
+      for (let r = col + 1; r < n; r++) {
+        const xr = re[r * width + col];
+        const xi = im[r * width + col];
+        const fr = (xr * pr + xi * pi) / pd;
+        const fi = (xi * pr - xr * pi) / pd;
+        for (let j = col; j <= n; j++) {
+          const yr = re[col * width + j];
+          const yi = im[col * width + j];
+          re[r * width + j] -= fr * yr - fi * yi;
+          im[r * width + j] -= fr * yi + fi * yr;
+        }
+      }
+    }
+    // Back substitution into the last column, then C·x + D.
+    let gr = plant.feedthrough;
+    let gi = 0;
+    for (let r = n - 1; r >= 0; r--) {
+      let sr = re[r * width + n];
+      let si = im[r * width + n];
+      for (let j = r + 1; j < n; j++) {
+        const xr = re[j * width + n];
+        const xi = im[j * width + n];
+        sr -= re[r * width + j] * xr - im[r * width + j] * xi;
+        si -= re[r * width + j] * xi + im[r * width + j] * xr;
+      }
+      const pr = re[r * width + r];
+      const pi = im[r * width + r];
+      const pd = pr * pr + pi * pi;
+      const xr = (sr * pr + si * pi) / pd;
+      const xi = (si * pr - sr * pi) / pd;
+      re[r * width + n] = xr;
+      im[r * width + n] = xi;
+      gr += plant.outputVector[r] * xr;
+      gi += plant.outputVector[r] * xi;
+    }
+    // z^(−(ℓ+1)) and C(z) = Σ b_i z^(−i) / Σ a_i z^(−i).
+    const dr = Math.cos(delay * angle);
+    const di = -Math.sin(delay * angle);
+    // Powers of z⁻¹ = cos ϑ − j·sin ϑ by repeated multiplication.
+    let nr = 0, ni = 0, er = 0, ei = 0;
+    let pr = 1, pi = 0;
+    for (let i = 0; i < b.length; i++) {
+      nr += b[i] * pr; ni += b[i] * pi;
+      er += a[i] * pr; ei += a[i] * pi;
+      const next = pr * zr + pi * zi;
+      pi = pi * zr - pr * zi;
+      pr = next;
+    }
+    const ed = er * er + ei * ei;
+    const cr = (nr * er + ni * ei) / ed;
+    const ci = (ni * er - nr * ei) / ed;
+    const hr = gr * dr - gi * di;
+    const hi = gr * di + gi * dr;
+    return { re: cr * hr - ci * hi, im: cr * hi + ci * hr };
+  };
+}
+
+/**
+ * Z = P + N for the sampled loop of `plant` (from `sampledPlant`) under C(z) (coefficients in
+ * powers of z, highest first), with the continuous plant's pole counts (`plantPoles`: origin
+ * poles map to z = 1, right-half-plane poles outside the circle, other axis poles onto it —
+ * not handled: 'undetermined'). 'marginal' when 1 + L passes through 0 on the path.
+ */
+export function sampledNyquistCount(plant: SampledPlant, controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] }, plantPoles: PlantPoleCounts): SampledNyquistResult {
+  const { b, a } = controllerInDelays(controller);
+  let unitPoles = plantPoles.originPoles;
+  let outside = plantPoles.rightHalfPlanePoles;
+  const undetermined = (reason: string): SampledNyquistResult => ({ verdict: 'undetermined', closedLoopOutsidePoles: null, reason, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles });
+  if (plantPoles.otherAxisPoles > 0) return undetermined('open-loop poles on the unit circle away from z = 1');
+  for (const root of analysisRoots(a)) {
+    const size = Math.hypot(root.re, root.im);
+    if (Math.hypot(root.re - 1, root.im) <= SETTINGS.circleTolerance) unitPoles++;
+    else if (Math.abs(size - 1) <= SETTINGS.circleTolerance) return undetermined('a controller pole on the unit circle away from z = 1');
+    else if (size > 1) outside++;
+  }
+  const loop = makeLoopEvaluator(plant, b, a);
+  const start = unitPoles > 0 ? SETTINGS.detourAngle_rad : 0;
+  const grid: number[] = [start];
+  if (unitPoles > 0) {
+    const first = Math.PI / SETTINGS.uniformPoints;
+    const decades = Math.log10(first / start);
+    const count = Math.ceil(decades * SETTINGS.logPointsPerDecade);
+    for (let i = 1; i < count; i++) grid.push(start * Math.pow(10, (decades * i) / count));
+  }
+  for (let i = 1; i <= SETTINGS.uniformPoints; i++) grid.push((Math.PI * i) / SETTINGS.uniformPoints);
+
+  let turn = 0;
+  let marginal = false;
+  const onePlus = (l: Complex): Complex => ({ re: 1 + l.re, im: l.im });
+  const isMarginal = (l: Complex): boolean => Math.hypot(1 + l.re, l.im) <= SETTINGS.marginalTolerance * Math.max(1, Math.hypot(l.re, l.im));
+  const angleBetween = (p: Complex, q: Complex): number => Math.atan2(p.re * q.im - p.im * q.re, p.re * q.re + p.im * q.im);
+  const walk = (left: number, right: number, lLeft: Complex, lRight: Complex, depth: number): void => {
+    const step = angleBetween(onePlus(lLeft), onePlus(lRight));
+    const loopStep = angleBetween(lLeft, lRight);
+    if (depth < SETTINGS.maximumDepth && (Math.abs(step) > SETTINGS.maximumTurn_rad || Math.abs(loopStep) > SETTINGS.maximumLoopTurn_rad)) {
+      const middle = 0.5 * (left + right);
+      const lMiddle = loop(middle);
+      if (isMarginal(lMiddle)) marginal = true;
+      walk(left, middle, lLeft, lMiddle, depth + 1);
+      walk(middle, right, lMiddle, lRight, depth + 1);
+      return;
+    }
+    turn += step;
+  };
+  let previous = loop(grid[0]);
+  if (isMarginal(previous)) marginal = true;
+  for (let i = 1; i < grid.length; i++) {
+    const next = loop(grid[i]);
+    if (isMarginal(next)) marginal = true;
+    walk(grid[i - 1], grid[i], previous, next, 0);
+    previous = next;
+  }
+  if (marginal) return { verdict: 'marginal', closedLoopOutsidePoles: null, reason: 'the loop passes through −1 (marginal)', openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
+  const windings = (2 * turn - unitPoles * Math.PI) / (2 * Math.PI);
+  const rounded = Math.round(windings);
+  if (Math.abs(windings - rounded) > 0.05) return undetermined(`the encirclement count is not a whole number (${windings.toFixed(3)})`);
+  const z = outside - rounded;
+  if (z < 0) return undetermined(`inconsistent count Z = ${z}`);
+  return { verdict: z === 0 ? 'stable' : 'unstable', closedLoopOutsidePoles: z, reason: null, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
+}
