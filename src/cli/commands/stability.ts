@@ -46,11 +46,16 @@ function filterOption(value: unknown): number {
   return parsed;
 }
 
-/** The exact sampled-data verdict, when the loop has a discrete controller. */
-const sampledWords = (margins: LoopMargins): string =>
-  margins.analysis?.sampledDataVerdict === undefined
-    ? ''
-    : `sampled-data poles: ${margins.analysis.sampledDataVerdict}, largest |z| ${margins.analysis.sampledDataLargestPoleMagnitude?.toFixed(4)}; `;
+/** The evidence behind the verdict: the sampled loop's two exact tests, or the continuous loop's Padé poles and Nyquist count. */
+const verdictEvidence = (margins: LoopMargins): string => {
+  const analysis = margins.analysis;
+  if (analysis === undefined) return '';
+  const note = analysis.encirclementNote ? ` — ${analysis.encirclementNote}` : '';
+  if (analysis.sampledDataVerdict !== undefined) {
+    return ` (sampled-data poles: ${analysis.sampledDataVerdict}, largest |z| ${analysis.sampledDataLargestPoleMagnitude?.toFixed(4)}; Nyquist count on the pulse frequency response: ${analysis.encirclementVerdict}${note})`;
+  }
+  return ` (closed-loop poles: ${analysis.closedLoopPoleVerdict}, Padé order ${analysis.padeOrder}; Nyquist count: ${analysis.encirclementVerdict}${note})`;
+};
 
 const format = (value: number | null, digits: number, unit: string): string => (value === null ? 'none' : `${value.toFixed(digits)} ${unit}`);
 const at = (frequency: number | null): string => (frequency === null ? '' : ` at ${frequency.toPrecision(4)} rad/s`);
@@ -136,7 +141,7 @@ export const command: CommandModule = {
       io.stdout(`${JSON.stringify(margins, null, 2)}\n`);
     } else {
       const lines = [
-        `verdict: ${margins.verdict}${margins.analysis ? ` (${sampledWords(margins)}closed-loop poles: ${margins.analysis.closedLoopPoleVerdict}, Padé order ${margins.analysis.padeOrder}; Nyquist count: ${margins.analysis.encirclementVerdict}${margins.analysis.encirclementNote ? ` — ${margins.analysis.encirclementNote}` : ''})` : ''}`,
+        `verdict: ${margins.verdict}${verdictEvidence(margins)}`,
         `phase margin:        ${format(margins.phaseMargin_deg, 2, '°')}${at(margins.phaseMarginFrequency_radps)}`,
         ...(margins.stable
           ? [
@@ -152,7 +157,7 @@ export const command: CommandModule = {
         lines.push(`|L(j∞)| = ${margins.analysis.highFrequencyLoopGain.toFixed(3)} ≥ 1 with a delay: a neutral-type loop, unstable whatever the margins — filter the derivative (--derivative-filter N)`);
       }
       if (margins.analysis && margins.analysis.openLoopRightHalfPlanePoles > 0) {
-        lines.push(`open loop has ${margins.analysis.openLoopRightHalfPlanePoles} pole(s) in the right half-plane: stability comes from the encirclement count, not the margins alone`);
+        lines.push(`open loop has ${margins.analysis.openLoopRightHalfPlanePoles} pole(s) in the right half-plane${margins.analysis.sampledDataVerdict === undefined ? '' : ' (outside the unit circle once sampled)'}: stability comes from the encirclement count, not the margins alone`);
       }
       io.stdout(`${lines.join('\n')}\n`);
     }
