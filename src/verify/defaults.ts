@@ -27,4 +27,20 @@ export const ANALYSIS_DEFAULTS = {
   neutralTolerance: 1e-9,
   /** Sampled-data loop: stable needs every closed-loop eigenvalue |z| < 1 − this; within this of 1 is marginal (not stable). */
   sampledPoleRadiusTolerance: 1e-8,
+  /** Nyquist count of a sampled loop on its pulse frequency response (sampled-nyquist.ts). */
+  sampledNyquist: {
+    /** ϑ (rad) where the arc starts when there are poles at z = 1: the detour radius. */
+    detourAngle_rad: 1e-8,
+    /** Initial grid: uniform points over (0, π], plus log-spaced points per decade towards the detour. */
+    uniformPoints: 32,
+    logPointsPerDecade: 2,
+    /** Refine a step that turns 1 + L by more than this, or L by more than `maximumLoopTurn_rad`. */
+    maximumTurn_rad: 0.25,
+    maximumLoopTurn_rad: 0.5,
+    maximumDepth: 40,
+    /** |1 + L| below this × max(1, |L|) on the path: the loop passes through −1. */
+    marginalTolerance: 1e-9,
+    /** A controller pole within this of z = 1 is an integrator; within this of |z| = 1 elsewhere: on the circle. */
+    circleTolerance: 1e-9,
+  },
 } as const;

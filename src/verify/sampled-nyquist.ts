@@ -13,6 +13,7 @@
  * on a grid refined until each step turns 1 + L by ≤ 0.25 rad and L by ≤ 0.5 rad.
  */
 import type { Complex } from '../lti/types.js';
+import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { controllerInDelays, type SampledPlant } from './sampled-plant.js';
 import { analysisRoots } from './small-roots.js';
 
@@ -34,21 +35,7 @@ export interface SampledNyquistResult {
   readonly openLoopUnitPoles: number;
 }
 
-const SETTINGS = {
-  /** ϑ (rad) where the arc starts when there are poles at z = 1: the detour radius. */
-  detourAngle_rad: 1e-8,
-  /** Initial grid: uniform points over (0, π], plus log-spaced points per decade towards the detour. */
-  uniformPoints: 32,
-  logPointsPerDecade: 3,
-  /** Refine a step that turns 1 + L by more than this, or L by more than `maximumLoopTurn_rad`. */
-  maximumTurn_rad: 0.25,
-  maximumLoopTurn_rad: 0.5,
-  maximumDepth: 40,
-  /** |1 + L| below this × max(1, |L|) on the path: the loop passes through −1. */
-  marginalTolerance: 1e-9,
-  /** A controller pole within this of z = 1 is an integrator; within this of |z| = 1 elsewhere: on the circle. */
-  circleTolerance: 1e-9,
-} as const;
+const SETTINGS = ANALYSIS_DEFAULTS.sampledNyquist;
 
 /** L(e^(jϑ)) of the sampled loop. */
 function makeLoopEvaluator(plant: SampledPlant, b: readonly number[], a: readonly number[]): (angle: number) => Complex {

@@ -134,21 +134,23 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
     for (let i = 0; i < 160; i++) {
       const gain = logBetween(0.3, 4);
       const tau = logBetween(0.1, 2);
-      const kind = i % 5;
-      // kind 4: open-loop unstable (a pole at +1/τ, one pole outside the unit circle after sampling).
+      const kind = i % 6;
+      // kind 4: open-loop unstable (a pole at +1/τ, one pole outside the unit circle after sampling);
+      // kind 5: a path-like double integrator with a preview lead, (τs + 1)/(s²(0.1τs + 1)): three poles at z = 1 with the PID.
       const den =
         kind === 0 ? [tau, 1]
         : kind === 1 ? [0.3 * tau * tau, 1.3 * tau, 1]
         : kind === 2 ? [tau, 1, 0]
         : kind === 3 ? [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1]
-        : [tau, -1];
+        : kind === 4 ? [tau, -1]
+        : [0.1 * tau, 1, 0, 0];
       const Ts = logBetween(0.005, 0.1);
       const theta = Math.min(between(0, 0.25), 20 * Ts);
       const kp = logBetween(0.1, 6) / gain;
       const ki = kp / logBetween(0.1, 3);
       const kd = random.uniform() < 0.25 ? 0 : kp * logBetween(0.005, 0.3);
       const N = [5, 10, 20][Math.floor(random.uniform() * 3)];
-      cases.push({ num: [gain], den, theta, Ts, kp, ki, kd, N, method: i % 2 === 0 ? 'tustin' : 'backward-euler' });
+      cases.push({ num: kind === 5 ? [gain * tau, gain] : [gain], den, theta, Ts, kp, ki, kd, N, method: i % 2 === 0 ? 'tustin' : 'backward-euler' });
     }
     const reference = runPython<Array<[number, number]>>(
       `
