@@ -14,7 +14,9 @@
  * reference, starts from a fixed nonzero state (plant and integrator; history zero before
  * t = 0) and integrates plant + controller states with classical RK4. The delayed plant input
  * u(t − θ) is read from a history buffer of u on the same grid (h = θ/M, M whole), the RK4
- * half steps by 4-point cubic interpolation. Step h ≤ θ/50 and ≤ 1/(50·fastest open-loop pole)
+ * half steps by 4-point cubic interpolation. The plant + controller is linear, so one RK4 step is a
+ * fixed matrix per loop (the four stages applied to unit states and inputs); all loops advance in
+ * lockstep, and a loop that has diverged is frozen. Step h ≤ θ/50 and ≤ 1/(50·fastest open-loop pole)
  * (plant poles and the derivative filter pole 1/Tf). Horizon HORIZON_TIME_SCALES × the slowest open-loop time
  * scale (θ, 1/|Re p| of plant poles, 1/|z| of plant zeros, Ti = kp/ki, Tf, and the gain's time
  * scale: Ti/|kp·K0| for a self-regulating plant, 1/|kp·K1| for an integrating one), capped at
@@ -190,7 +192,7 @@ print(json.dumps(out))
 /**
  * Ultimate proportional gain of K·e^(−θs)/(τs + 1): the phase crossover ω solves ω·θ + atan(ω·τ) = π,
  * Ku = √(1 + (ω·τ)²)/K. Source: the textbook ultimate-gain condition ∠L(jωu) = −180°, |L(jωu)| = 1
- * (Seborg, Edgar & Mellichamp, Process Dynamics and Control, frequency-response chapter), solved here by bisection.
+ * (common practice; e.g. process-control texts on frequency response, from memory), solved here by bisection.
  */
 function ultimateGainFirstOrder(gain: number, tau_s: number, delay_s: number): number {
   let low = 0;
@@ -206,8 +208,8 @@ function ultimateGainFirstOrder(gain: number, tau_s: number, delay_s: number): n
 /**
  * Loops whose stability is known in closed form, run through the same simulation (so the
  * simulation is itself checked against textbook limits) and through our analysis:
- * - P control of e^(−θs)/s is stable iff kp·θ < π/2 (Source: Åström & Murray, Feedback Systems,
- *   2nd ed., delay chapter; common practice);
+ * - P control of e^(−θs)/s is stable iff kp·θ < π/2 (Source: the Nyquist argument — ∠L = −π/2 − ωθ reaches
+ *   −π at ω = π/(2θ), where |L| = kp/ω = 2·kp·θ/π; common practice; DOMAIN.md §5b quotes the same limit);
  * - P control of e^(−s)/(s + 1) is stable iff kp < Ku ≈ 2.26 (ultimate gain, computed above).
  */
 const firstOrderUltimateGain = ultimateGainFirstOrder(1, 1, 1);
@@ -269,6 +271,7 @@ describe(`continuous-loop verdicts against an RK4 closed-loop simulation with a 
         return;
       }
       const kind = KINDS[index % KINDS.length];
+      // Source: brute-force time simulation, RK4 with a delay buffer (common practice).
       expect({ index, kind, delay_s: c.delay_s, verdict }).toEqual({ index, kind, delay_s: c.delay_s, verdict: simulation.verdict });
       tally[simulation.verdict]++;
       decidedPerKind.set(kind, (decidedPerKind.get(kind) ?? 0) + 1);
