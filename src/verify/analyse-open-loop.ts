@@ -8,8 +8,9 @@ import { closedLoopPoleVerdict } from './closed-loop-poles.js';
 import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { nyquistCount, type EncirclementResult } from './encirclement.js';
 import type { LoopGrid } from './frequency-grid.js';
+import { evaluateLoopResponse, newLoopPoint } from './loop-response.js';
 import { sampledNyquistCount } from './sampled-nyquist.js';
-import { sampledPlant } from './sampled-plant.js';
+import { sampledPlant, type SampledPlant } from './sampled-plant.js';
 import { sampledVerdictOf } from './sampled-verdict.js';
 import { sensitivityPeaks } from './sensitivity.js';
 import { cancelCommonIntegrators, sweepLoop } from './sweep.js';
@@ -35,9 +36,10 @@ function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
 
 /**
  * Analyse the open loop L(s) = N(s)/D(s)·e^(−θs) of a unity negative-feedback loop
- * (closed loop 1 + L = 0), optionally with a discrete controller C(z) evaluated at
- * z = e^(jωTs) and the hold counted as a Ts/2 delay. Frequencies rad/s, phases in
- * degrees, gain margins in dB (20·log10 of the gain factor).
+ * (closed loop 1 + L = 0), optionally with a discrete controller C(z): the loop is then the
+ * sampled loop L(e^(jωTs)) = C(e^(jωTs))·G_zoh(e^(jωTs)) for 0 < ω ≤ π/Ts, G_zoh the exact
+ * zero-order-hold equivalent of the plant with its fractional delay (`sampledPlant`).
+ * Frequencies rad/s, phases in degrees, gain margins in dB (20·log10 of the gain factor).
  *
  * - Gain crossovers (|L| = 1), refined by Brent's method: phase margin PMᵢ = 180° + ∠L
  *   in (−180°, 180°]; the smallest is reported. Delay margin (stable loops only) =
@@ -69,20 +71,24 @@ function bandWhereGainMatters(grid: LoopGrid, threshold: number): number {
  *   both say unstable, else 'undetermined' (the continuous counterpart C(s) with a Ts/2
  *   delay, an approximation of sampling, is no longer used for the verdict: it called
  *   unstable sampled loops stable). The pole and count fields of `analysis` then speak of
- *   the sampled loop (see `sampledDecision`). Margins use C(e^(jωTs))·e^(−jωTs/2) and the
- *   band stops at the Nyquist frequency π/Ts.
+   * the sampled loop (see `sampledDecision`). The margins, Ms and Mt are those of the exact
+ *   pulse frequency response (every crossing and peak over 0 < ω ≤ π/Ts, refined as for a
+ *   continuous loop; no Ts/2 approximation of the hold). There L(e^(jπ)) is real: when it is
+ *   negative, ω = π/Ts is a crossing of the negative real axis too. The delay margin is
+ *   quoted in continuous time (s); the firmware can only realise a delay in whole samples.
  * Throws `verify.invalidLoop` / `verify.improperLoop` on bad input.
  */
 export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   const loop = validateOpenLoop(input);
   const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
   const discrete = loop.discreteController ?? null;
-  const margins = sweepLoop(numerator, denominator, loop.delay_s, discrete, true);
+  const plant = discrete === null ? null : sampledPlant({ numerator, denominator, delay_s: loop.delay_s }, discrete.sampleTime_s);
+  const margins = sweepLoop(numerator, denominator, loop.delay_s, discrete, true, plant);
 
   // Continuous loop: closed-loop poles with a Padé approximant AND the Nyquist count with the exact delay.
   // Sampled loop (discrete controller): its exact closed-loop poles (Schur–Cohn) AND the Nyquist count on its
   // exact pulse frequency response.
-  const decision = discrete === null ? continuousDecision(numerator, denominator, loop.delay_s, margins) : sampledDecision(numerator, denominator, loop.delay_s, discrete, margins);
+  const decision = discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, margins) : sampledDecision(plant, discrete, margins);
   const { verdict } = decision;
   const stable = verdict === 'stable';
 
@@ -99,10 +105,20 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   const mLast = margins.compiled.denominator[margins.compiled.denominator.length - 1];
   // ω = 0: L(0) real and negative (no integrator) is a critical gain too; a discrete controller contributes C(z = 1).
   const sum = (values: readonly number[]): number => values.reduce((total, value) => total + value, 0);
-  const discreteDc = discrete === null ? 1 : sum(discrete.denominator) === 0 ? Number.NaN : sum(discrete.numerator) / sum(discrete.denominator);
+  // A controller pole at z = 1 (an integrator) leaves rounding residue in the sum of its denominator: no finite L(0) then.
+  const atOne = (values: readonly number[]): boolean => Math.abs(sum(values)) <= ANALYSIS_DEFAULTS.sampledNyquist.circleTolerance * sum(values.map(Math.abs));
+  const discreteDc = discrete === null ? 1 : atOne(discrete.denominator) ? Number.NaN : sum(discrete.numerator) / sum(discrete.denominator);
   if (margins.originPoles === 0 && mLast !== 0 && Number.isFinite(discreteDc)) {
     const zeroValue = (numerator[numerator.length - 1] / mLast) * discreteDc;
     if (zeroValue < 0) critical.push({ frequency_radps: 0, magnitude: -zeroValue });
+  }
+  // ω = π/Ts on a sampled loop: L(e^(jπ)) is real; negative, it is a crossing of the negative real axis at the band's end.
+  if (plant !== null && discrete !== null) {
+    const nyquist_radps = Math.PI / discrete.sampleTime_s;
+    const point = newLoopPoint();
+    evaluateLoopResponse(margins.compiled, nyquist_radps, point);
+    const known = critical.some((c) => Math.abs(c.frequency_radps - nyquist_radps) <= ANALYSIS_DEFAULTS.frequencyRelativeTolerance * 1e3 * nyquist_radps);
+    if (point.re < 0 && !known) critical.push({ frequency_radps: nyquist_radps, magnitude: point.magnitude });
   }
   let lower: { magnitude: number; frequency: number } | null = null;
   let upper: { magnitude: number; frequency: number } | null = null;
@@ -214,9 +230,8 @@ function continuousDecision(numerator: readonly number[], denominator: readonly 
  * right-half-plane poles read as poles outside the unit circle; origin poles include the
  * controller's integrator at z = 1); a sampled loop is never neutral-type.
  */
-function sampledDecision(numerator: readonly number[], denominator: readonly number[], delay_s: number, discrete: DiscreteControllerFactor, sweep: Sweep): Decision {
-  const plant = sampledPlant({ numerator, denominator, delay_s }, discrete.sampleTime_s);
-  const poles = sampledVerdictOf(plant, discrete, ANALYSIS_DEFAULTS.sampledPoleRadiusTolerance);
+function sampledDecision(plant: SampledPlant, discrete: DiscreteControllerFactor, sweep: Sweep): Decision {
+  const poles = sampledVerdictOf(plant, discrete, ANALYSIS_DEFAULTS.sampledPoleRadiusTolerance, sweep.compiled.sampled?.pulse);
   const count = sampledNyquistCount(plant, discrete, sweep);
   const verdict = poles.verdict === 'stable' && count.verdict === 'stable' ? 'stable' : poles.verdict === 'unstable' && count.verdict === 'unstable' ? 'unstable' : 'undetermined';
   return {

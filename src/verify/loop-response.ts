@@ -10,10 +10,13 @@
  * (the positive imaginary axis, or the upper unit half circle for z) never meets, so
  * every term is continuous in ω; the delay term is exact and analytic. The wrapped
  * Horner angle is then moved to the branch nearest this continuous phase, which keeps
- * the Horner accuracy and the continuity.
+ * the Horner accuracy and the continuity. A sampled loop (discrete controller with its
+ * sampled plant, `CompiledSampled`) is evaluated exactly instead, by the same snapping.
  */
 import { analysisRoots } from './small-roots.js';
 import type { Complex } from '../lti/types.js';
+import type { SampledPlant } from './sampled-plant.js';
+import { pulseTransferFunction } from './sampled-verdict.js';
 
 /** Roots compiled for the continuous-angle sum. */
 interface RootAngles {
@@ -33,6 +36,28 @@ export interface CompiledDiscrete {
   readonly leadPhase_rad: number;
 }
 
+/**
+ * The exact sampled loop C(z)·G(z) at z = e^(jωTs), G(z) = B(z)/(A(z)·z^(ℓ+1)) the plant's
+ * zero-order-hold equivalent with its fractional delay (sampled-plant.ts), compiled: the value
+ * by Horner's rule on B, A (Faddeev–LeVerrier, as the sampled verdict builds them) and C(z) —
+ * the Nyquist count evaluates the same G by a complex solve (`sampledLoopEvaluator`), and the
+ * tests check both against scipy — the continuous phase from the roots of B
+ * (`zeros`), of A (`poles`: e^(pᵢTs) from the plant's poles pᵢ), the controller's roots and −(ℓ+1)·ωTs.
+ */
+export interface CompiledSampled {
+  /** B(z) and A(z) of the plant's pulse transfer function (`pulseTransferFunction`), powers of z highest first. */
+  readonly pulse: { readonly numerator: readonly number[]; readonly denominator: readonly number[] };
+  readonly pulseNumerator: Float64Array;
+  readonly pulseDenominator: Float64Array;
+  readonly sampleTime_s: number;
+  readonly zeros: RootAngles;
+  readonly poles: RootAngles;
+  /** π when the leading coefficient of B is negative, else 0. */
+  readonly leadPhase_rad: number;
+  /** ℓ + 1: the whole samples of delay plus the one the sampling adds. */
+  readonly delaySamples: number;
+}
+
 /** L(jω) ready to evaluate; build with `compileLoopResponse`. */
 export interface CompiledLoopResponse {
   readonly numerator: Float64Array;
@@ -42,6 +67,8 @@ export interface CompiledLoopResponse {
   readonly zeros: RootAngles;
   readonly poles: RootAngles;
   readonly discrete: CompiledDiscrete | null;
+  /** With a discrete controller and its sampled plant: the loop is evaluated exactly (no Ts/2 hold approximation). */
+  readonly sampled: CompiledSampled | null;
 }
 
 /** Scratch record one evaluation writes into (reused: no allocation per frequency). */
@@ -58,7 +85,9 @@ export const newLoopPoint = (): LoopPoint => ({ re: 0, im: 0, magnitude: 0, phas
 /**
  * Compile L(s) = N(s)/D(s)·e^(−delay_s·s) [· C(e^(sTs))·e^(−sTs/2)] from its coefficients
  * and the already computed roots of N and D. Roots closer to the imaginary axis than
- * `axisTolerance` (rad/s, absolute) are treated as on it.
+ * `axisTolerance` (rad/s, absolute) are treated as on it. With a discrete controller and
+ * `sampledPlant` (the zero-order-hold equivalent of N/D·e^(−delay_s·s) at its sample time,
+ * from `sampledPlant`) the loop is evaluated exactly as C(e^(jωTs))·G(e^(jωTs)) instead.
  */
 export function compileLoopResponse(
   numerator: readonly number[],
@@ -66,15 +95,47 @@ export function compileLoopResponse(
   delay_s: number,
   roots: { readonly zeros: readonly Complex[]; readonly poles: readonly Complex[]; readonly axisTolerance: number },
   discrete: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number } | null,
+  sampledPlant: SampledPlant | null = null,
 ): CompiledLoopResponse {
+  const poles = continuousRootAngles(roots.poles, roots.axisTolerance);
   return {
     numerator: Float64Array.from(numerator),
     denominator: Float64Array.from(denominator),
     delay_s,
     leadPhase_rad: numerator[0] / denominator[0] < 0 ? Math.PI : 0,
     zeros: continuousRootAngles(roots.zeros, roots.axisTolerance),
-    poles: continuousRootAngles(roots.poles, roots.axisTolerance),
+    poles,
     discrete: discrete === null ? null : compileDiscrete(discrete),
+    sampled: discrete === null || sampledPlant === null ? null : compileSampled(sampledPlant, discrete, poles),
+  };
+}
+
+/** Leading coefficients below this × the largest are rounding residue of B(z) (their roots would be at infinity). */
+const PULSE_LEAD_RELATIVE_TOLERANCE = 1e-12;
+
+function compileSampled(plant: SampledPlant, controller: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number }, plantPoles: RootAngles): CompiledSampled {
+  const pulse = pulseTransferFunction(plant);
+  const full = pulse.numerator;
+  const largest = full.reduce((m, c) => Math.max(m, Math.abs(c)), 0);
+  let first = 0;
+  while (first < full.length - 1 && Math.abs(full[first]) <= PULSE_LEAD_RELATIVE_TOLERANCE * largest) first++;
+  const pulseNumerator = full.slice(first);
+  // A = det(zI − Φ) = Π(z − e^(pᵢTs)): its roots from the plant's poles, exactly (an axis pole maps onto the circle).
+  const ts = controller.sampleTime_s;
+  const poles: Complex[] = [];
+  for (let i = 0; i < plantPoles.re.length; i++) {
+    const radius = Math.exp(plantPoles.re[i] * ts);
+    poles.push({ re: radius * Math.cos(plantPoles.im[i] * ts), im: radius * Math.sin(plantPoles.im[i] * ts) });
+  }
+  return {
+    pulse,
+    pulseNumerator: Float64Array.from(pulse.numerator),
+    pulseDenominator: Float64Array.from(pulse.denominator),
+    sampleTime_s: ts,
+    zeros: discreteRootAngles(pulseNumerator.length > 1 ? analysisRoots(pulseNumerator) : []),
+    poles: discreteRootAngles(poles),
+    leadPhase_rad: pulseNumerator[0] < 0 ? Math.PI : 0,
+    delaySamples: plant.wholeSampleDelay + 1,
   };
 }
 
@@ -169,6 +230,10 @@ const nearestBranch = (wrapped: number, reference: number): number =>
  */
 export function evaluateLoopResponse(loop: CompiledLoopResponse, frequency_radps: number, out: LoopPoint): void {
   const w = frequency_radps;
+  if (loop.sampled !== null && loop.discrete !== null) {
+    evaluateSampledLoop(loop.sampled, loop.discrete, w, out);
+    return;
+  }
   // Horner at s = jω, highest power first.
   let nRe = 0;
   let nIm = 0;
@@ -234,4 +299,64 @@ export function evaluateLoopResponse(loop: CompiledLoopResponse, frequency_radps
   out.im = im;
   out.magnitude = Math.sqrt(re * re + im * im);
   out.phase_rad = phase;
+}
+
+/**
+ * The exact sampled loop at ω (rad/s, 0 < ω ≤ π/Ts): value by the complex solve, continuous phase
+ * = ∠(leading coefficients) + Σ∠(z − zeros) − Σ∠(z − poles) − (ℓ+1)·ωTs over the roots of B, A and C(z),
+ * the accurate wrapped angle snapped to that branch (as for the continuous loop).
+ */
+function evaluateSampledLoop(sampled: CompiledSampled, controller: CompiledDiscrete, frequency_radps: number, out: LoopPoint): void {
+  const angle = frequency_radps * sampled.sampleTime_s;
+  const c = Math.cos(angle);
+  const s = Math.sin(angle);
+  // C(z)·B(z)/A(z) at z = e^(jϑ) by Horner's rule, then z^(−(ℓ+1)).
+  const cn = hornerOnCircle(controller.numerator, c, s);
+  const cRe = cn.re;
+  const cIm = cn.im;
+  const cd = hornerOnCircle(controller.denominator, c, s);
+  const dRe = cd.re;
+  const dIm = cd.im;
+  const bn = hornerOnCircle(sampled.pulseNumerator, c, s);
+  const bRe = bn.re;
+  const bIm = bn.im;
+  const an = hornerOnCircle(sampled.pulseDenominator, c, s);
+  const topRe = cRe * bRe - cIm * bIm;
+  const topIm = cRe * bIm + cIm * bRe;
+  const bottomRe = dRe * an.re - dIm * an.im;
+  const bottomIm = dRe * an.im + dIm * an.re;
+  const b2 = bottomRe * bottomRe + bottomIm * bottomIm;
+  const ratioRe = (topRe * bottomRe + topIm * bottomIm) / b2;
+  const ratioIm = (topIm * bottomRe - topRe * bottomIm) / b2;
+  const delay = sampled.delaySamples * angle;
+  const eRe = Math.cos(delay);
+  const eIm = -Math.sin(delay);
+  const value = { re: ratioRe * eRe - ratioIm * eIm, im: ratioRe * eIm + ratioIm * eRe };
+  const smooth =
+    sampled.leadPhase_rad +
+    controller.leadPhase_rad +
+    discreteAngleSum(sampled.zeros, c, s) -
+    discreteAngleSum(sampled.poles, c, s) +
+    discreteAngleSum(controller.zeros, c, s) -
+    discreteAngleSum(controller.poles, c, s) -
+    sampled.delaySamples * angle;
+  out.re = value.re;
+  out.im = value.im;
+  out.magnitude = Math.sqrt(value.re * value.re + value.im * value.im);
+  out.phase_rad = nearestBranch(Math.atan2(value.im, value.re), smooth);
+}
+
+const horner = { re: 0, im: 0 };
+/** p(z) at z = c + j·s (coefficients highest power first) into a shared scratch record. */
+function hornerOnCircle(p: Float64Array, c: number, s: number): { re: number; im: number } {
+  let re = 0;
+  let im = 0;
+  for (let i = 0; i < p.length; i++) {
+    const next = re * c - im * s + p[i];
+    im = re * s + im * c;
+    re = next;
+  }
+  horner.re = re;
+  horner.im = im;
+  return horner;
 }

@@ -37,8 +37,12 @@ export interface SampledNyquistResult {
 
 const SETTINGS = ANALYSIS_DEFAULTS.sampledNyquist;
 
-/** L(e^(jϑ)) of the sampled loop. */
-function makeLoopEvaluator(plant: SampledPlant, b: readonly number[], a: readonly number[]): (angle: number) => Complex {
+/**
+ * L(e^(jϑ)) = C(e^(jϑ))·[C·(e^(jϑ)I − Φ)⁻¹·(Γ0·e^(jϑ) + Γ1) + D]·e^(−jϑ(ℓ+1)) of the sampled loop, as a
+ * function of ϑ = ω·Ts (rad), by a complex solve (no polynomial); C(z) = Σ bᵢz⁻ⁱ / Σ aᵢz⁻ⁱ as
+ * `controllerInDelays` gives it. Dimensionless; negative-feedback convention (closed loop 1 + L = 0).
+ */
+export function sampledLoopEvaluator(plant: SampledPlant, b: readonly number[], a: readonly number[]): (angle: number) => Complex {
   const n = plant.inputGainCurrent.length;
   const re = new Float64Array(n * (n + 1));
   const im = new Float64Array(n * (n + 1));
@@ -60,7 +64,7 @@ function makeLoopEvaluator(plant: SampledPlant, b: readonly number[], a: readonl
       let pivot = col;
       let best = -1;
       for (let r = col; r < n; r++) {
-        const size = Math.hypot(re[r * width + col], im[r * width + col]);
+        const size = re[r * width + col] * re[r * width + col] + im[r * width + col] * im[r * width + col];
         if (size > best) { best = size; pivot = r; }
       }
       if (pivot !== col) {
@@ -147,7 +151,7 @@ export function sampledNyquistCount(plant: SampledPlant, controller: { readonly 
     else if (Math.abs(size - 1) <= SETTINGS.circleTolerance) return undetermined('a controller pole on the unit circle away from z = 1');
     else if (size > 1) outside++;
   }
-  const loop = makeLoopEvaluator(plant, b, a);
+  const loop = sampledLoopEvaluator(plant, b, a);
   const start = unitPoles > 0 ? SETTINGS.detourAngle_rad : 0;
   const grid: number[] = [start];
   if (unitPoles > 0) {

@@ -64,20 +64,15 @@ export function sampledLoopVerdict(loop: SampledLoop, tolerance: number): Sample
   return sampledVerdictOf(sampledPlant(loop.plant, loop.sampleTime_s), loop.controller, tolerance);
 }
 
-/** As sampledLoopVerdict, for a plant already sampled by `sampledPlant`. */
-export function sampledVerdictOf(plant: SampledPlant, controller: SampledLoop['controller'], tolerance: number): SampledVerdict {
-  const { transition, inputGainCurrent: gamma0, inputGainPrevious: gamma1, wholeSampleDelay: ell } = plant;
-  const n = gamma0.length;
-  // Pulse transfer function y/u = [C·adj(zI − Φ)·(Γ0·z + Γ1) + D·det(zI − Φ)] / [det(zI − Φ)·z^(ℓ+1)].
-  const { characteristic, adjugate } = faddeevLeVerrier(transition);
-  const plantNumerator = new Array<number>(n + 1).fill(0);
-  adjugate.forEach((term, k) => {
-    // term multiplies z^(n−1−k): Γ0·z lands on z^(n−k), Γ1 on z^(n−1−k).
-    plantNumerator[k] += quadratic(plant.outputVector, term, gamma0);
-    plantNumerator[k + 1] += quadratic(plant.outputVector, term, gamma1);
-  });
-  for (let i = 0; i <= n; i++) plantNumerator[i] += plant.feedthrough * characteristic[i];
-  const plantDenominator = characteristic.concat(new Array<number>(ell + 1).fill(0));
+/** As sampledLoopVerdict, for a plant already sampled by `sampledPlant` (and its `pulseTransferFunction`, when already built). */
+export function sampledVerdictOf(
+  plant: SampledPlant,
+  controller: SampledLoop['controller'],
+  tolerance: number,
+  pulse: { readonly numerator: readonly number[]; readonly denominator: readonly number[] } = pulseTransferFunction(plant),
+): SampledVerdict {
+  const { numerator: plantNumerator, denominator: characteristic } = pulse;
+  const plantDenominator = characteristic.concat(new Array<number>(plant.wholeSampleDelay + 1).fill(0));
 
   // 1 + C(z)·G(z) = 0 ⇔ a(z)·den(z) + b(z)·num(z) = 0 with C = b/a in powers of z (equal lengths).
   const { b, a } = controllerInDelays(controller);
@@ -87,7 +82,26 @@ export function sampledVerdictOf(plant: SampledPlant, controller: SampledLoop['c
   const finite = monic.every(Number.isFinite);
   const largest = finite ? largestRootMagnitude(monic, RADIUS_RELATIVE_TOLERANCE) : Infinity;
   const verdict = !finite ? 'unstable' : allRootsInside(monic, 1 - tolerance) ? 'stable' : allRootsInside(monic, 1 + tolerance) ? 'marginal' : 'unstable';
-  return { verdict, largestPoleMagnitude: largest, wholeSampleDelay: ell, fractionalDelay_s: plant.fractionalDelay_s, closedLoopOrder: monic.length - 1 };
+  return { verdict, largestPoleMagnitude: largest, wholeSampleDelay: plant.wholeSampleDelay, fractionalDelay_s: plant.fractionalDelay_s, closedLoopOrder: monic.length - 1 };
+}
+
+/**
+ * The pulse transfer function of a sampled plant, G(z) = B(z)/(A(z)·z^(ℓ+1)) with
+ * B(z) = C·adj(zI − Φ)·(Γ0·z + Γ1) + D·det(zI − Φ) and A(z) = det(zI − Φ) (monic, its roots
+ * the eigenvalues e^(pᵢ·Ts) of Φ), both degree n, coefficients in powers of z highest first
+ * (dimensionless); det and adj by the Faddeev–LeVerrier recursion.
+ */
+export function pulseTransferFunction(plant: SampledPlant): { readonly numerator: number[]; readonly denominator: number[] } {
+  const n = plant.inputGainCurrent.length;
+  const { characteristic, adjugate } = faddeevLeVerrier(plant.transition);
+  const numerator = new Array<number>(n + 1).fill(0);
+  adjugate.forEach((term, k) => {
+    // term multiplies z^(n−1−k): Γ0·z lands on z^(n−k), Γ1 on z^(n−1−k).
+    numerator[k] += quadratic(plant.outputVector, term, plant.inputGainCurrent);
+    numerator[k + 1] += quadratic(plant.outputVector, term, plant.inputGainPrevious);
+  });
+  for (let i = 0; i <= n; i++) numerator[i] += plant.feedthrough * characteristic[i];
+  return { numerator, denominator: characteristic };
 }
 
 /** Relative width to which the largest |z| is bisected. */

@@ -8,6 +8,7 @@ import { findGainCrossovers, findPhaseCrossovers, type GainCrossover, type Phase
 import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { frequencyBand, sampleLoop, type LoopGrid } from './frequency-grid.js';
 import { compileLoopResponse, type CompiledLoopResponse } from './loop-response.js';
+import type { SampledPlant } from './sampled-plant.js';
 import type { OpenLoop } from './types.js';
 
 export interface Sweep {
@@ -34,7 +35,9 @@ export function cancelCommonIntegrators(numerator: readonly number[], denominato
 
 /**
  * Roots of N and D (|Re| ≤ 1e−9·max(1, largest |root|) is on the axis), the band and grid,
- * gain crossovers (when asked) and the negative-real-axis crossings that can matter.
+ * gain crossovers (when asked) and the negative-real-axis crossings that can matter. With a
+ * discrete controller and `sampledPlant` (the zero-order-hold equivalent of N/D·e^(−θs)) the
+ * loop is swept exactly on C(e^(jωTs))·G(e^(jωTs)) up to π/Ts.
  */
 export function sweepLoop(
   numerator: readonly number[],
@@ -42,6 +45,7 @@ export function sweepLoop(
   delay_s: number,
   discrete: OpenLoop['discreteController'] | null,
   withGainCrossovers: boolean,
+  sampledPlant: SampledPlant | null = null,
 ): Sweep {
   const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? analysisRoots(numerator) : [];
   const poles: Complex[] = denominator.length > 1 ? analysisRoots(denominator) : [];
@@ -61,7 +65,7 @@ export function sweepLoop(
     // Lightly damped roots: make sure the grid sees their resonance or notch.
     if (r.im > Math.abs(r.re)) extraFrequencies.push(r.im - Math.abs(r.re), r.im, r.im + Math.abs(r.re));
   }
-  const compiled = compileLoopResponse(numerator, denominator, delay_s, { zeros, poles, axisTolerance }, discrete ?? null);
+  const compiled = compileLoopResponse(numerator, denominator, delay_s, { zeros, poles, axisTolerance }, discrete ?? null, sampledPlant);
   const band = frequencyBand(compiled, originPoles, numerator.length < denominator.length, ANALYSIS_DEFAULTS.grid);
   const grid = sampleLoop(compiled, band, extraFrequencies, ANALYSIS_DEFAULTS.grid);
   return {

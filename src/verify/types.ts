@@ -65,10 +65,11 @@ export interface LoopAnalysisDetails {
 
 /**
  * A discrete controller C(z) in the loop, evaluated on the unit circle z = e^(jωTs).
- * Coefficients in powers of z, highest first. The zero-order hold is counted as a
- * delay of Ts/2 (DOMAIN.md §5): margins use C(e^(jωTs))·e^(−jωTs/2); the stability
- * verdict is decided on the exact sampled-data loop (src/verify/sampled-verdict.ts and
- * sampled-nyquist.ts); `continuousCounterpart`(s)·e^(−sTs/2) is analysed too, for the record.
+ * Coefficients in powers of z, highest first. The loop is analysed exactly as sampled:
+ * margins, Ms and Mt on C(e^(jωTs))·G_zoh(e^(jωTs)), 0 < ω ≤ π/Ts, with G_zoh the plant's
+ * zero-order-hold equivalent including the fractional delay (src/verify/sampled-plant.ts),
+ * and the stability verdict on the same sampled-data loop (sampled-verdict.ts and
+ * sampled-nyquist.ts). `continuousCounterpart` is the C(s) that C(z) implements.
  */
 export interface DiscreteControllerFactor {
   readonly numerator: readonly number[];
@@ -79,7 +80,7 @@ export interface DiscreteControllerFactor {
 }
 
 /**
- * An open loop L = N(s)/D(s)·e^(−delay_s·s) [· C(e^(jωTs))·e^(−jωTs/2)] in the
+ * An open loop L = N(s)/D(s)·e^(−delay_s·s) [sampled through a zero-order hold under C(z)] in the
  * negative-feedback sign convention: closed loop 1 + L = 0. `continuous` holds the
  * plant (with its delay and any computation latency) and, for a continuous
  * controller, the controller too. Coefficients highest power first.

@@ -167,10 +167,13 @@ describe('breakpoint margins against scipy', () => {
     const schedule: ScheduleFile = readSchedule(schedulePath);
     const model = schedule.provenance.model as Record<string, number>;
     // Source: single-track δ→r transfer function (Gillespie 1992 / Rajamani 2012, DOMAIN.md §3), actuator
-    // e^(−θa s)/(τa s + 1), backward-Euler PID by scipy.signal.cont2discrete, hold as e^(−jωT/2).
+    // e^(−θa s)/(τa s + 1), backward-Euler PID, and the plant's exact zero-order-hold equivalent by
+    // scipy.signal.cont2discrete (zoh) with the delay θ = ℓT + m by the modified z-transform (Franklin, Powell &
+    // Workman, Digital Control of Dynamic Systems, 3rd ed., §4.3.4): G(z) = [C(zI − Φ)⁻¹(Γ0z + Γ1) + D]·z^−(ℓ+1).
     const script = `
 import sys, json, numpy as np
 from scipy import signal, optimize
+from scipy.linalg import expm
 d = json.load(sys.stdin)
 m, Iz, a, b = d['mass_kg'], d['yawInertia_kgm2'], d['cgToFrontAxle_m'], d['cgToRearAxle_m']
 Cf, Cr, lag, delay = d['frontCorneringStiffness_NPerRad'], d['rearCorneringStiffness_NPerRad'], d['actuatorLag_s'], d['actuatorDelay_s']
@@ -190,9 +193,20 @@ for bp in d['breakpoints']:
             Tf = (kd/kp)/N
             c = c + kd*q/(1 + Tf*q)
         return c
+    num = [b1, b0]; den = np.polymul([1, a1, a0], [lag, 1])
+    theta = delay + latency
+    ell = int(np.floor(theta / T + 1e-9)); frac = theta - ell * T
+    if frac < 1e-9 * T: frac = 0.0
+    A, B, Cm, D = signal.tf2ss(num, den)
+    Phi0, G0, _, _, _ = signal.cont2discrete((A, B, Cm, D), T - frac, method='zoh')
+    G1 = Phi0 @ signal.cont2discrete((A, B, Cm, D), frac, method='zoh')[1] if frac > 0 else np.zeros_like(G0)
+    Phi = expm(np.array(A, float) * T)
+    n0, dz = signal.ss2tf(Phi, G0, Cm, np.zeros((1, 1)))
+    n1, _ = signal.ss2tf(Phi, G1, Cm, np.zeros((1, 1)))
+    pn = np.polyadd(np.polyadd(np.polymul(n0[0], [1, 0]), n1[0]), float(np.array(D).ravel()[0]) * np.asarray(dz))
     def Lw(w):
-        s = 1j*w
-        G = (b1*s + b0)/(s*s + a1*s + a0) / (lag*s + 1) * np.exp(-s*(delay + latency + T/2))
+        z = np.exp(1j*w*T)
+        G = np.polyval(pn, z) / (np.polyval(dz, z) * z**(ell + 1))
         return C(w)*G
     w = np.logspace(-3, np.log10(np.pi/T), 200000)
     Lv = Lw(w)
@@ -212,6 +226,8 @@ for bp in d['breakpoints']:
             val = Lw(wp)
             if val.real < 0 and abs(val) < 1:
                 gms.append(-20*np.log10(abs(val)))
+    end = Lw(np.pi/T)   # real at the Nyquist frequency: negative is a crossing of the negative real axis there
+    if end.real < 0 and abs(end) < 1: gms.append(-20*np.log10(abs(end)))
     S = np.abs(1/(1 + Lv))
     k = int(np.argmax(S))
     lo, hi = w[max(k-1, 0)], w[min(k+1, len(w)-1)]
