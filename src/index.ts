@@ -131,6 +131,8 @@ export {
   sampledLoopVerdict,
   sampledPlant,
   sampledNyquistCount,
+  pulseTransferFunction,
+  sampledLoopEvaluator,
   ANALYSIS_DEFAULTS,
   LOOP_DEFAULTS,
   type SampledLoop,

@@ -45,7 +45,7 @@ export interface LoopDescription {
     readonly derivativeFilter?: number;
     readonly form?: PidForm;
   };
-  /** Firmware sample time, s: the controller is then the discrete PID at this rate and the hold adds Ts/2 of delay. Omit for a continuous controller. */
+  /** Firmware sample time, s: the controller is then the discrete PID at this rate behind a zero-order hold, analysed exactly as sampled. Omit for a continuous controller. */
   readonly sampleTime_s?: number;
   /** Discretisation of the discrete PID (default backward Euler). */
   readonly discretisation?: Discretisation;

@@ -72,8 +72,9 @@ export const command: CommandModule = {
           '(upper gain margin: raising the gain by it destabilises; lower gain margin, negative dB: reducing the gain by it destabilises; ' +
           'on a loop that is not stable gain margins do not apply and are not given), ' +
           'the peaks Ms = max|1/(1 + L)| and Mt = max|L/(1 + L)|, and a verdict from the closed-loop poles (Padé approximant) and the Nyquist ' +
-          'encirclement count, which must agree. With --sample-time-s the controller is the discrete PID the firmware runs: margins count the hold as Ts/2 of delay, ' +
-          'and the verdict is decided by the exact sampled-data loop (zero-order-hold equivalent of the plant with its fractional delay, closed-loop poles inside |z| < 1), ' +
+          'encirclement count, which must agree. With --sample-time-s the controller is the discrete PID the firmware runs and the loop is analysed exactly as sampled: ' +
+          'the zero-order-hold equivalent of the plant with its fractional delay; margins, Ms and Mt on its frequency response up to the Nyquist frequency π/Ts ' +
+          '(the delay margin in seconds of continuous time; the firmware adds delay in whole samples only), and the verdict from its closed-loop poles inside |z| < 1, ' +
           'which the Nyquist count must confirm.\n\n' +
           'Exit code: 0 when the loop is stable, 1 when it is unstable or the two tests disagree (undetermined), 2 for bad input.',
       )
@@ -88,7 +89,7 @@ export const command: CommandModule = {
       .option('kd', { type: 'number', describe: 'Derivative gain, s (with --form ideal or series: the derivative time in s); default 0' })
       .option('form', { type: 'string', choices: ['parallel', 'ideal', 'series'], default: 'parallel', describe: 'How --kp --ki --kd are written: parallel kp + ki/s + kd·s; ideal Kc(1 + 1/(Ti·s) + Td·s); series Kc(1 + 1/(τI·s))(1 + τD·s)' })
       .option('derivative-filter', { type: 'string', default: String(CONTROLLER_DEFAULTS.derivativeFilter), describe: 'Derivative filter factor N: Tf = Td/N; "none" for an unfiltered derivative' })
-      .option('sample-time-s', { type: 'number', describe: 'Firmware sample time Ts, s: analyse the discrete PID with a zero-order hold (margins: Ts/2 hold delay; verdict: exact sampled-data poles) (default: a continuous controller)' })
+      .option('sample-time-s', { type: 'number', describe: 'Firmware sample time Ts, s: analyse the discrete PID with a zero-order hold (margins and verdict on the exact sampled loop) (default: a continuous controller)' })
       .option('discretisation', { type: 'string', choices: ['backward-euler', 'tustin'], default: CONTROLLER_DEFAULTS.discretisation, describe: 'Discretisation of the discrete PID (with --sample-time-s)' })
       .option('latency-s', { type: 'number', default: 0, describe: 'Computation latency from sample to actuator command, s (added to the plant delay)' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' }),
