@@ -1,8 +1,9 @@
 /**
  * The loop analysis of the dense check at one speed: the loop plant of the chosen model at that
- * speed (src/loops), under the DISCRETE PID the firmware runs at its sample time, with the hold
- * counted as Ts/2 of delay plus the computation latency (src/verify analyseLoop). Tuning uses the
- * continuous counterpart; the check decides on what the firmware runs.
+ * speed (src/loops), under the DISCRETE PID the firmware runs at its sample time: src/verify analyseLoop
+ * analyses the exact sampled loop (zero-order-hold equivalent of the plant with its delay and the
+ * computation latency). Tuning uses the continuous counterpart with a Ts/2 delay; the check decides
+ * on what the firmware runs.
  */
 import { samplingDelay_s } from '../controller/discrete.js';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
@@ -21,7 +22,7 @@ export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, con
       operatingPoint.kind === 'single-track'
         ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
         : loopPlantFromLumped(loop, operatingPoint.yawRate, speed_mps, controller, operatingPoint.cgToFrontAxle_m);
-    // The loop plant carries the hold and latency as delay; analyseLoop adds them itself for a discrete controller.
+    // The loop plant carries the Ts/2 + latency of the tuning model as delay; analyseLoop models the sampled loop itself.
     const vehicleDelay_s = Math.max(0, plant.plant.delay_s - samplingDelay_s(controller));
     return analyseLoop({
       plant: { ...plant.plant, delay_s: vehicleDelay_s },
