@@ -11,20 +11,9 @@
  */
 import { describe, expect, it } from 'vitest';
 import { runPython } from '../helpers/python.js';
-import { makeRandom } from '../../src/core/random.js';
+import { randomSampledLoops, type SampledCase } from './sampled-loop-cases.js';
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 
-interface SampledCase {
-  readonly num: number[];
-  readonly den: number[];
-  readonly theta: number;
-  readonly Ts: number;
-  readonly kp: number;
-  readonly ki: number;
-  readonly kd: number;
-  readonly N: number;
-  readonly method: 'tustin' | 'backward-euler';
-}
 
 interface Reference {
   /** Largest closed-loop |z| (numpy roots of the characteristic polynomial). */
@@ -157,30 +146,7 @@ const within = (ours: number | null, reference: number | null, floor: number): b
 
 describe('margins of a sampled loop on its exact pulse frequency response', () => {
   it('on random stable sampled loops the phase margin, both gain margins, delay margin, Ms and Mt agree with scipy within 0.1 %', () => {
-    const random = makeRandom(20261202);
-    const between = (low: number, high: number): number => low + (high - low) * random.uniform();
-    const logBetween = (low: number, high: number): number => Math.exp(between(Math.log(low), Math.log(high)));
-    const cases: SampledCase[] = [];
-    for (let i = 0; i < 240; i++) {
-      const gain = logBetween(0.3, 4);
-      const tau = logBetween(0.1, 2);
-      const kind = i % 6;
-      // kind 4: open-loop unstable plant; kind 5: path-like double integrator with a preview lead.
-      const den =
-        kind === 0 ? [tau, 1]
-        : kind === 1 ? [0.3 * tau * tau, 1.3 * tau, 1]
-        : kind === 2 ? [tau, 1, 0]
-        : kind === 3 ? [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1]
-        : kind === 4 ? [tau, -1]
-        : [0.1 * tau, 1, 0, 0];
-      const Ts = logBetween(0.005, 0.1);
-      const theta = Math.min(between(0, 0.25), 20 * Ts);
-      const kp = logBetween(0.1, 4) / gain;
-      const ki = kp / logBetween(0.3, 3);
-      const kd = random.uniform() < 0.25 ? 0 : kp * logBetween(0.005, 0.3);
-      const N = [5, 10, 20][Math.floor(random.uniform() * 3)];
-      cases.push({ num: kind === 5 ? [gain * tau, gain] : [gain], den, theta, Ts, kp, ki, kd, N, method: i % 2 === 0 ? 'tustin' : 'backward-euler' });
-    }
+    const cases = randomSampledLoops(20261202, 240, 4, [0.3, 3]);
     const reference = runPython<Reference[]>(REFERENCE, cases);
     let compared = 0;
     let withLower = 0;

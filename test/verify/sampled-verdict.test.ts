@@ -12,7 +12,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { runPython } from '../helpers/python.js';
-import { makeRandom } from '../../src/core/random.js';
+import { randomSampledLoops } from './sampled-loop-cases.js';
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 import { splitDelay } from '../../src/verify/sampled-verdict.js';
 import { allRootsInside, largestRootMagnitude } from '../../src/verify/unit-circle-roots.js';
@@ -127,31 +127,7 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
   });
 
   it('on 160 random loops the sampled-data verdict, largest |z| and the Nyquist count of poles outside the unit circle equal numpy roots of the modified-z-transform closed loop', () => {
-    const random = makeRandom(20261201);
-    const between = (low: number, high: number): number => low + (high - low) * random.uniform();
-    const logBetween = (low: number, high: number): number => Math.exp(between(Math.log(low), Math.log(high)));
-    const cases: Array<{ num: number[]; den: number[]; theta: number; Ts: number; kp: number; ki: number; kd: number; N: number; method: 'tustin' | 'backward-euler' }> = [];
-    for (let i = 0; i < 160; i++) {
-      const gain = logBetween(0.3, 4);
-      const tau = logBetween(0.1, 2);
-      const kind = i % 6;
-      // kind 4: open-loop unstable (a pole at +1/τ, one pole outside the unit circle after sampling);
-      // kind 5: a path-like double integrator with a preview lead, (τs + 1)/(s²(0.1τs + 1)): three poles at z = 1 with the PID.
-      const den =
-        kind === 0 ? [tau, 1]
-        : kind === 1 ? [0.3 * tau * tau, 1.3 * tau, 1]
-        : kind === 2 ? [tau, 1, 0]
-        : kind === 3 ? [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1]
-        : kind === 4 ? [tau, -1]
-        : [0.1 * tau, 1, 0, 0];
-      const Ts = logBetween(0.005, 0.1);
-      const theta = Math.min(between(0, 0.25), 20 * Ts);
-      const kp = logBetween(0.1, 6) / gain;
-      const ki = kp / logBetween(0.1, 3);
-      const kd = random.uniform() < 0.25 ? 0 : kp * logBetween(0.005, 0.3);
-      const N = [5, 10, 20][Math.floor(random.uniform() * 3)];
-      cases.push({ num: kind === 5 ? [gain * tau, gain] : [gain], den, theta, Ts, kp, ki, kd, N, method: i % 2 === 0 ? 'tustin' : 'backward-euler' });
-    }
+    const cases = randomSampledLoops(20261201, 160, 6, [0.1, 3]);
     const reference = runPython<Array<[number, number]>>(
       `
 import json, sys
