@@ -45,3 +45,50 @@ export function randomSampledLoops(seed: number, count: number, maxLoopGain: num
   }
   return cases;
 }
+
+/**
+ * Python shared by the sampled-loop cross-checks (numpy/scipy, independent of our code):
+ * `zoh_plant(c)` → (pn, pd, ell): the zero-order-hold equivalent of num/den with delay θ = ell·Ts + m by the
+ * modified z-transform, G(z) = [C (zI − Φ)⁻¹ (G0 z + G1) + D] z^-(ell+1) (Franklin, Powell & Workman §4.3.4);
+ * `discrete_pid(c)` → (cn, cd, sn, sd, f): C(z) from the continuous PID kp + ki/s + kd·s/(1 + Tf·s), Tf = kd/(kp·N),
+ * by substituting s = sn(z)/sd(z) (Tustin or backward Euler); f = sd + Tf·sn is the filter factor (kd ≠ 0).
+ */
+export const PYTHON_SAMPLED_LOOP = `
+import json, sys
+import numpy as np
+from scipy import signal, optimize
+from scipy.linalg import expm
+pmul, padd = np.polymul, np.polyadd
+def zoh_plant(c):
+    T = c['Ts']; theta = c['theta']
+    ell = int(np.floor(theta / T + 1e-9)); m = theta - ell * T
+    if m < 1e-9 * T: m = 0.0
+    A, B, C, D = signal.tf2ss(c['num'], c['den'])
+    Phi0, G0, _, _, _ = signal.cont2discrete((A, B, C, D), T - m, method='zoh')
+    if m > 0:
+        _, Gm, _, _, _ = signal.cont2discrete((A, B, C, D), m, method='zoh')
+        G1 = Phi0 @ Gm
+    else:
+        G1 = np.zeros_like(G0)
+    Phi = expm(np.array(A, float) * T)
+    n0, den = signal.ss2tf(Phi, G0, C, np.zeros((1, 1)))
+    n1, _ = signal.ss2tf(Phi, G1, C, np.zeros((1, 1)))
+    Dv = float(np.array(D).ravel()[0])
+    pn = padd(padd(pmul(n0[0], [1, 0]), n1[0]), Dv * np.asarray(den))
+    pd = pmul(den, [1] + [0] * (ell + 1))
+    return pn, pd, ell
+def discrete_pid(c):
+    T = c['Ts']; kp, ki, kd, N = c['kp'], c['ki'], c['kd'], c['N']
+    if c['method'] == 'tustin':
+        sn, sd = np.array([2.0, -2.0]), np.array([T, T])
+    else:
+        sn, sd = np.array([1.0, -1.0]), np.array([T, 0.0])
+    if kd == 0:
+        return padd(kp * sn, ki * sd), sn, sn, sd, None
+    Tf = kd / (kp * N)
+    f = padd(sd, Tf * sn)
+    cn = padd(padd(kp * pmul(sn, f), ki * pmul(sd, f)), kd * pmul(sn, sn))
+    return cn, pmul(sn, f), sn, sd, f
+data = json.load(sys.stdin)
+out = []
+`;

@@ -11,7 +11,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { runPython } from '../helpers/python.js';
-import { randomSampledLoops, type SampledCase } from './sampled-loop-cases.js';
+import { PYTHON_SAMPLED_LOOP, randomSampledLoops, type SampledCase } from './sampled-loop-cases.js';
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 
 
@@ -33,43 +33,11 @@ interface Reference {
 }
 
 /** Python reference: modified-z-transform plant, C(z) by substitution, margins by dense evaluation + brentq. */
-const REFERENCE = `
-import json, sys
-import numpy as np
-from scipy import signal, optimize
-from scipy.linalg import expm
-data = json.load(sys.stdin)
-pmul, padd = np.polymul, np.polyadd
-out = []
+const REFERENCE = `${PYTHON_SAMPLED_LOOP}
 for c in data:
-    T = c['Ts']; theta = c['theta']
-    ell = int(np.floor(theta / T + 1e-9)); m = theta - ell * T
-    if m < 1e-9 * T: m = 0.0
-    A, B, C, D = signal.tf2ss(c['num'], c['den'])
-    Phi0, G0, _, _, _ = signal.cont2discrete((A, B, C, D), T - m, method='zoh')
-    if m > 0:
-        _, Gm, _, _, _ = signal.cont2discrete((A, B, C, D), m, method='zoh')
-        G1 = Phi0 @ Gm
-    else:
-        G1 = np.zeros_like(G0)
-    Phi = expm(np.array(A, float) * T)
-    n0, den = signal.ss2tf(Phi, G0, C, np.zeros((1, 1)))
-    n1, _ = signal.ss2tf(Phi, G1, C, np.zeros((1, 1)))
-    Dv = float(np.array(D).ravel()[0])
-    pn = padd(padd(pmul(n0[0], [1, 0]), n1[0]), Dv * np.asarray(den))
-    pd = pmul(den, [1] + [0] * (ell + 1))
-    kp, ki, kd, N = c['kp'], c['ki'], c['kd'], c['N']
-    if c['method'] == 'tustin':
-        sn, sd = np.array([2.0, -2.0]), np.array([T, T])
-    else:
-        sn, sd = np.array([1.0, -1.0]), np.array([T, 0.0])
-    if kd == 0:
-        cn = padd(kp * sn, ki * sd); cd = sn
-    else:
-        Tf = kd / (kp * N)
-        f = padd(sd, Tf * sn)
-        cn = padd(padd(kp * pmul(sn, f), ki * pmul(sd, f)), kd * pmul(sn, sn))
-        cd = pmul(sn, f)
+    T = c['Ts']; theta = c['theta']; kd = c['kd']
+    pn, pd, ell = zoh_plant(c)
+    cn, cd, sn, sd, f = discrete_pid(c)
     char = np.trim_zeros(padd(pmul(cd, pd), pmul(cn, pn)), 'f')
     largest = float(np.max(np.abs(np.roots(char))))
     # Evaluated in factors so that near z = 1 the integrators' (z − 1) are exact: det(zI − Φ) = Π(z − e^(pT)).

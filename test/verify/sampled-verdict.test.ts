@@ -12,7 +12,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { runPython } from '../helpers/python.js';
-import { randomSampledLoops } from './sampled-loop-cases.js';
+import { PYTHON_SAMPLED_LOOP, randomSampledLoops, type SampledCase } from './sampled-loop-cases.js';
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 import { splitDelay } from '../../src/verify/sampled-verdict.js';
 import { allRootsInside, largestRootMagnitude } from '../../src/verify/unit-circle-roots.js';
@@ -64,16 +64,7 @@ for c in data:
 print(json.dumps(out))
 `;
 
-interface SimulatedCase {
-  readonly num: number[];
-  readonly den: number[];
-  readonly theta: number;
-  readonly Ts: number;
-  readonly kp: number;
-  readonly ki: number;
-  readonly kd: number;
-  readonly N: number;
-  readonly method: 'tustin' | 'backward-euler';
+interface SimulatedCase extends SampledCase {
   readonly h: number;
   readonly duration: number;
 }
@@ -129,47 +120,10 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
   it('on 160 random loops the sampled-data verdict, largest |z| and the Nyquist count of poles outside the unit circle equal numpy roots of the modified-z-transform closed loop', () => {
     const cases = randomSampledLoops(20261201, 160, 6, [0.1, 3]);
     const reference = runPython<Array<[number, number]>>(
-      `
-import json, sys
-import numpy as np
-from numpy.polynomial import polynomial as P
-from scipy import signal
-from scipy.linalg import expm
-data = json.load(sys.stdin)
-def pmul(a, b): return np.polymul(a, b)
-def padd(a, b): return np.polyadd(a, b)
-out = []
+      `${PYTHON_SAMPLED_LOOP}
 for c in data:
-    T = c['Ts']; theta = c['theta']
-    ell = int(np.floor(theta / T + 1e-9)); m = theta - ell * T
-    if m < 1e-9 * T: m = 0.0
-    A, B, C, D = signal.tf2ss(c['num'], c['den'])
-    Phi0, G0, _, _, _ = signal.cont2discrete((A, B, C, D), T - m, method='zoh')
-    if m > 0:
-        _, Gm, _, _, _ = signal.cont2discrete((A, B, C, D), m, method='zoh')
-        G1 = Phi0 @ Gm
-    else:
-        G1 = np.zeros_like(G0)
-    Phi = expm(np.array(A, float) * T)
-    # G(z) = [C (zI - Phi)^-1 (G0 z + G1) + D] z^-(ell+1)
-    n0, den = signal.ss2tf(Phi, G0, C, np.zeros((1, 1)))
-    n1, _ = signal.ss2tf(Phi, G1, C, np.zeros((1, 1)))
-    Dv = float(np.array(D).ravel()[0])
-    plant_num = padd(padd(pmul(n0[0], [1, 0]), n1[0]), Dv * np.asarray(den))
-    plant_den = pmul(den, [1] + [0] * (ell + 1))
-    # C(z) from the continuous PID by substitution
-    kp, ki, kd, N = c['kp'], c['ki'], c['kd'], c['N']
-    if c['method'] == 'tustin':
-        sn, sd = np.array([2.0, -2.0]), np.array([T, T])
-    else:
-        sn, sd = np.array([1.0, -1.0]), np.array([T, 0.0])
-    if kd == 0:
-        cn = padd(kp * sn, ki * sd); cd = sn
-    else:
-        Tf = kd / (kp * N)
-        f = padd(sd, Tf * sn)
-        cn = padd(padd(kp * pmul(sn, f), ki * pmul(sd, f)), kd * pmul(sn, sn))
-        cd = pmul(sn, f)
+    plant_num, plant_den, _ = zoh_plant(c)
+    cn, cd, _, _, _ = discrete_pid(c)
     char = padd(pmul(cd, plant_den), pmul(cn, plant_num))
     char = np.trim_zeros(np.real_if_close(char), 'f')
     roots = np.abs(np.roots(char))
