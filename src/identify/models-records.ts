@@ -58,15 +58,16 @@ function secondOrderRecord(fit: SecondOrderFit | null): SecondOrderRecord | null
   return Object.values(record).every((v) => typeof v !== 'number' || Number.isFinite(v)) ? record : null;
 }
 
+/** Which step a record is about: file, index, onset, speed, amplitude and direction. */
+function stepIdentity(step: StepIdentification): Pick<TestRecord, 'file' | 'stepIndex' | 'onset_s' | 'speed_mps' | 'amplitude_rad' | 'direction'> {
+  const { file, stepIndex, onset_s, speed_mps, amplitude_rad, direction } = step;
+  return { file, stepIndex, onset_s, speed_mps, amplitude_rad, direction };
+}
+
 /** A used step's record: FOPDT with intervals and quality, second-order fits, the BIC choice. Units as in the schema. */
 export function testRecord(step: StepIdentification): TestRecord {
   return {
-    file: step.file,
-    stepIndex: step.stepIndex,
-    onset_s: step.onset_s,
-    speed_mps: step.speed_mps,
-    amplitude_rad: step.amplitude_rad,
-    direction: step.direction,
+    ...stepIdentity(step),
     yawNoise_radps: step.yawNoise_radps,
     fopdt: stepFopdtRecord(step.fopdt),
     secondOrder: secondOrderRecord(step.secondOrder),
@@ -79,12 +80,7 @@ export function testRecord(step: StepIdentification): TestRecord {
 export function refusedTestRecord(step: StepIdentification): RefusedTestRecord {
   const m = step.fopdt.model;
   return {
-    file: step.file,
-    stepIndex: step.stepIndex,
-    onset_s: step.onset_s,
-    speed_mps: step.speed_mps,
-    amplitude_rad: step.amplitude_rad,
-    direction: step.direction,
+    ...stepIdentity(step),
     reasonCode: step.refusal?.reasonCode ?? 'unknown',
     reason: step.refusal?.reason ?? '',
     fopdt: { gain: finiteOrNull(m.gain), timeConstant_s: finiteOrNull(m.timeConstant_s), deadTime_s: finiteOrNull(m.deadTime_s), r2: finiteOrNull(step.fopdt.fit.quality.r2) },
