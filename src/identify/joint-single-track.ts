@@ -6,6 +6,7 @@ import type { ActuatorIdentification } from './actuator.js';
 import type { FitRefusal } from './quality-gate.js';
 import { fitLeastSquares, LEAST_SQUARES_DEFAULTS, type StopReason } from './least-squares.js';
 import { simulateYawThroughActuator } from './simulate-single-track-yaw.js';
+import { newHoldUpdateCache } from './simulate-third-order.js';
 import { yawSignals } from './step-signals.js';
 import { numericalJacobian, parameterUncertainty } from './uncertainty.js';
 
@@ -111,27 +112,56 @@ export function fitSingleTrack(
   }
   // One state buffer for every simulation; each step is simulated straight into its part of the prediction.
   const states = new Float64Array(3 * signals.reduce((longest, s) => Math.max(longest, s.time_s.length), 0));
-  const model = (p: readonly number[]): Float64Array => {
+  const cache = newHoldUpdateCache();
+  /** Yaw rate of every step at p, each step shifted by its best offset; with `delayColumn`, ∂/∂θa too. */
+  const simulateAll = (p: readonly number[], delayColumn: Float64Array | null): Float64Array => {
     const params = parametersOf(vehicle, p);
     const prediction = new Float64Array(total);
     let at = 0;
     for (let i = 0; i < steps.length; i++) {
       const s = signals[i];
-      const y = simulateYawThroughActuator(params, steps[i].speed_mps, s.time_s, s.input, prediction.subarray(at, at + s.time_s.length), states);
+      const end = at + s.time_s.length;
+      const derivative = delayColumn === null ? null : delayColumn.subarray(at, end);
+      const y = simulateYawThroughActuator(params, steps[i].speed_mps, s.time_s, s.input, prediction.subarray(at, end), states, cache, derivative);
+      // The offset is the mean residual, so it moves with the prediction: subtract the column's mean too.
       let mean = 0;
       for (let k = 0; k < y.length; k++) mean += s.output[k] - y[k];
       mean /= y.length;
       for (let k = 0; k < y.length; k++) y[k] = y[k] + mean;
-      at += y.length;
+      if (derivative !== null) {
+        let derivativeMean = 0;
+        for (let k = 0; k < derivative.length; k++) derivativeMean += derivative[k];
+        derivativeMean /= derivative.length;
+        for (let k = 0; k < derivative.length; k++) derivative[k] -= derivativeMean;
+      }
+      at = end;
     }
     return prediction;
+  };
+  const model = (p: readonly number[]): Float64Array => simulateAll(p, null);
+  const scale = [1, 1, 0.05, 0.05];
+  // Jacobian: ∂/∂θa exact (simulate-third-order.ts), the others by forward differences with the
+  // adapter's step rule (relative to max(|p/scale|, 1), in scaled units).
+  const modelJacobian = (p: readonly number[]): readonly Float64Array[] => {
+    const delayColumn = new Float64Array(total);
+    const base = simulateAll(p, delayColumn);
+    const columns: Float64Array[] = [];
+    for (let i = 0; i < 3; i++) {
+      const h = LEAST_SQUARES_DEFAULTS.relativeDifferenceStep * Math.max(Math.abs(p[i]) / scale[i], 1) * scale[i];
+      const probe = p.slice();
+      probe[i] += h;
+      const column = simulateAll(probe, null);
+      for (let k = 0; k < total; k++) column[k] = (column[k] - base[k]) / h;
+      columns.push(column);
+    }
+    columns.push(delayColumn);
+    return columns;
   };
   const start = startParameters(vehicle, speeds, actuator);
   let residualScale = 0;
   for (let i = 0; i < total; i++) residualScale = Math.max(residualScale, Math.abs(data[i]));
-  const scale = [1, 1, 0.05, 0.05];
   const result = fitLeastSquares(
-    { data, model, initial: start, scale, lower: [Math.log(10), Math.log(10), 0.001, 0], upper: [Math.log(1e8), Math.log(1e8), 1, 0.5], residualScale: Math.max(residualScale, 1e-9) },
+    { data, model, jacobian: modelJacobian, initial: start, scale, lower: [Math.log(10), Math.log(10), 0.001, 0], upper: [Math.log(1e8), Math.log(1e8), 1, 0.5], residualScale: Math.max(residualScale, 1e-9) },
     { ...LEAST_SQUARES_DEFAULTS, maxIterations: 100 },
   );
   if (result.stopReason !== 'converged') {

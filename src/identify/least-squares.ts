@@ -26,6 +26,11 @@ import { levenbergMarquardt } from 'ml-levenberg-marquardt';
  *   evaluate the model just outside them: models must return finite values there.
  * - `weights` are applied inconsistently (the error uses r²·w², the step uses r²/w²):
  *   we pass weights 1 and scale residuals ourselves (residualScale).
+ * - An analytical Jacobian (`jacobianFunction`, 5.1.0) is asked for one point at a time and
+ *   negated by the library; a problem that knows its derivatives gives whole columns
+ *   (`LeastSquaresProblem.jacobian`, physical units) and the adapter scales them. Without it the
+ *   library's forward differences cost one model run per parameter and iteration. A non-finite
+ *   Jacobian makes ml-matrix's Cholesky step throw ("not symmetric"): the adapter reports nonFinite.
  */
 
 /** The library's own damping factors and limits (levenberg_marquardt.ts), passed explicitly. */
@@ -49,6 +54,12 @@ export interface LeastSquaresProblem {
   readonly upper: readonly number[];
   /** Typical residual magnitude (> 0), to keep the damping meaningful. */
   readonly residualScale: number;
+  /**
+   * Optional exact derivatives: column i is ∂model/∂p_i at `parameters` (physical units), each as
+   * long as data. Used instead of finite differences; the columns are read before the next call
+   * (buffers may be reused).
+   */
+  readonly jacobian?: (parameters: readonly number[]) => readonly Float64Array[];
 }
 
 export interface LeastSquaresOptions {
@@ -127,6 +138,23 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
       return value;
     };
   };
+  // ∂(model/residualScale)/∂(p_i/scale_i) = column_i·scale_i/residualScale, one point at a time.
+  const { jacobian } = problem;
+  const partials = new Array<number>(p).fill(0);
+  const jacobianFunction =
+    jacobian === undefined
+      ? undefined
+      : (scaled: number[]): ((x: number) => number[]) => {
+          const columns = jacobian(toPhysical(scaled));
+          return (x: number) => {
+            for (let i = 0; i < p; i++) {
+              const value = (columns[i][x] * scale[i]) / residualScale;
+              if (!Number.isFinite(value)) nonFiniteSeen = true;
+              partials[i] = value;
+            }
+            return partials;
+          };
+        };
   const minValues = problem.lower.map((v, i) => v / scale[i]);
   const maxValues = problem.upper.map((v, i) => v / scale[i]);
   let current = problem.initial.map((v, i) => Math.min(Math.max(v / scale[i], minValues[i]), maxValues[i]));
@@ -141,20 +169,28 @@ export function fitLeastSquares(problem: LeastSquaresProblem, options: LeastSqua
   while (iterations < options.maxIterations) {
     const chunk = Math.min(options.chunkIterations, options.maxIterations - iterations);
     nonFiniteSeen = false;
-    const result = levenbergMarquardt({ x: index, y: scaledData }, parameterized, {
-      initialValues: current,
-      weights: 1,
-      damping,
-      dampingStepUp: DAMPING_STEP_UP,
-      dampingStepDown: DAMPING_STEP_DOWN,
-      improvementThreshold: 1e-3,
-      maxIterations: chunk,
-      errorTolerance: 0,
-      centralDifference: options.centralDifference,
-      gradientDifference: current.map((v) => options.relativeDifferenceStep * Math.max(Math.abs(v), 1)),
-      minValues,
-      maxValues,
-    });
+    let result: ReturnType<typeof levenbergMarquardt>;
+    try {
+      result = levenbergMarquardt({ x: index, y: scaledData }, parameterized, {
+        initialValues: current,
+        weights: 1,
+        damping,
+        dampingStepUp: DAMPING_STEP_UP,
+        dampingStepDown: DAMPING_STEP_DOWN,
+        improvementThreshold: 1e-3,
+        maxIterations: chunk,
+        errorTolerance: 0,
+        centralDifference: options.centralDifference,
+        gradientDifference: current.map((v) => options.relativeDifferenceStep * Math.max(Math.abs(v), 1)),
+        minValues,
+        maxValues,
+        ...(jacobianFunction === undefined ? {} : { jacobianFunction }),
+      });
+    } catch (error) {
+      // A non-finite Jacobian reaches ml-matrix's Cholesky step, which throws ("not symmetric": NaN ≠ NaN).
+      if (nonFiniteSeen) return { parameters: toPhysical(current), ssr, iterations, stopReason: 'nonFinite' };
+      throw error;
+    }
     iterations += result.iterations;
     const next = result.parameterValues;
     const nextSsr = sumOfSquares(data, evaluate(next));

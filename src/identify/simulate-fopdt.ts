@@ -114,3 +114,113 @@ export function delayedFirstOrderOutput(
   }
   return out;
 }
+
+/** Derivatives of simulateFopdt's output with respect to its three parameters, one column each (same length as time_s). */
+export interface FopdtSensitivities {
+  /** ∂y/∂K: the unit-gain response x(t_k − θ). */
+  readonly gain: Float64Array;
+  /** ∂y/∂τ, output units per s. */
+  readonly timeConstant: Float64Array;
+  /** ∂y/∂θ = −K·ẋ(t_k − θ), output units per s. */
+  readonly deadTime: Float64Array;
+}
+
+/**
+ * Exact derivatives of simulateFopdt (same formulas, differentiated). With the state sensitivity
+ * S = ∂x/∂τ, over an interval of length h with d = e^(−h/τ):
+ *   S_{j+1} = −m + (S_j + m)·d + (x_j − u_j + mτ)·d·h/τ²,  S_0 = 0,
+ * and at the fractional offset s the same with e^(−s/τ); ẋ = m − (x_j − u_j + mτ)·e^(−s/τ)/τ.
+ * With the command held, ẋ jumps at sample times: a point t_k − θ falling exactly on a sample
+ * takes the interval before it, i.e. the derivative for a growing dead time (the side a fit at
+ * θ = 0 can move to). No lag (τ ≤ 1e−9 s): ∂y/∂τ = 0. `states` and `stateSensitivities` are
+ * scratch of the same length as time_s; the columns are written into `out`.
+ */
+export function fopdtSensitivities(
+  time_s: Float64Array,
+  input: Float64Array,
+  gain: number,
+  timeConstant_s: number,
+  deadTime_s: number,
+  hold: CommandHold,
+  out: FopdtSensitivities,
+  states: Float64Array,
+  stateSensitivities: Float64Array,
+): FopdtSensitivities {
+  const n = time_s.length;
+  const tau = timeConstant_s;
+  const lagFree = tau <= MIN_TIME_CONSTANT_S;
+  const slopes = hold === 'linear' ? 1 : 0;
+  firstOrderStates(time_s, input, tau, hold, states);
+  const sensitivity = stateSensitivities;
+  sensitivity[0] = 0;
+  const inverseTauSquared = lagFree ? 0 : 1 / (tau * tau);
+  let lastH = Number.NaN;
+  let decay = 0;
+  for (let j = 0; j + 1 < n; j++) {
+    if (lagFree) {
+      sensitivity[j + 1] = 0;
+      continue;
+    }
+    const h = time_s[j + 1] - time_s[j];
+    const u = input[j];
+    const m = (slopes * (input[j + 1] - u)) / h;
+    if (!(Math.abs(h - lastH) <= 1e-12)) {
+      lastH = h;
+      decay = Math.exp(-h / tau);
+    }
+    sensitivity[j + 1] = -m + (sensitivity[j] + m) * decay + (states[j] - u + m * tau) * decay * h * inverseTauSquared;
+  }
+  const t0 = time_s[0];
+  const tLast = time_s[n - 1];
+  let j = 0;
+  let lastS = Number.NaN;
+  for (let k = 0; k < n; k++) {
+    const q = time_s[k] - deadTime_s;
+    let x: number;
+    let dxdTau: number;
+    let rate: number;
+    if (q <= t0) {
+      x = input[0];
+      dxdTau = 0;
+      rate = 0;
+    } else if (q > tLast) {
+      const s = q - tLast;
+      const u = input[n - 1];
+      if (lagFree) {
+        x = u;
+        dxdTau = 0;
+        rate = 0;
+      } else {
+        const e = Math.exp(-s / tau);
+        const away = (states[n - 1] - u) * e;
+        x = u + away;
+        dxdTau = sensitivity[n - 1] * e + away * s * inverseTauSquared;
+        rate = -away / tau;
+      }
+    } else {
+      while (j + 1 < n - 1 && time_s[j + 1] < q) j++;
+      while (j > 0 && time_s[j] >= q) j--;
+      const s = q - time_s[j];
+      const u = input[j];
+      const m = (slopes * (input[j + 1] - u)) / (time_s[j + 1] - time_s[j]);
+      if (lagFree) {
+        x = u + m * s;
+        dxdTau = 0;
+        rate = m;
+      } else {
+        if (!(Math.abs(s - lastS) <= 1e-12)) {
+          lastS = s;
+          decay = Math.exp(-s / tau);
+        }
+        const away = (states[j] - u + m * tau) * decay;
+        x = u + m * (s - tau) + away;
+        dxdTau = -m + (sensitivity[j] + m) * decay + away * s * inverseTauSquared;
+        rate = m - away / tau;
+      }
+    }
+    out.gain[k] = x;
+    out.timeConstant[k] = gain * dxdTau;
+    out.deadTime[k] = -gain * rate;
+  }
+  return out;
+}

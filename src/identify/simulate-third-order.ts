@@ -6,31 +6,73 @@ import { expm4 } from './simulate-second-order.js';
  * (zero-order hold), from rest. Controllable canonical form, ẋ = A x + B u with
  * A = [0 1 0; 0 0 1; −a0 −a1 −a2], B = [0; 0; 1], y = b0 x1 + b1 x2 + b2 x3; each interval
  * is propagated exactly by Φ, Γ from exp([A B; 0 0]·h) (Van Loan 1978), and the output at
- * t_k is y(t_k − θ) by the same update over the fractional offset. The last two updates
- * are reused for intervals within 1e−12 s, so uniform sampling needs two exponentials.
+ * t_k is y(t_k − θ) by the same update over the fractional offset (a point falling exactly on a
+ * sample takes the interval before it, with the full update: the same value). Updates are
+ * looked up in a small cache keyed by (a0, a1, a2, interval within 1e−12 s), so uniform sampling
+ * needs two exponentials, and steps simulated one after another at the same speed share them.
  * Used by the joint single-track fit, where the generic src/lti response is too slow
  * for thousands of evaluations; test/identify checks the two agree.
  */
-interface Update {
-  readonly phi: Float64Array; // 3×3 row-major
-  readonly gamma: Float64Array; // 3
+
+/** Entries kept by a HoldUpdateCache: the sample period and the delay's fraction, for two models. */
+const CACHE_ENTRIES = 4;
+/** Floats per entry: a0, a1, a2, interval, Φ (3×3 row-major), Γ (3). */
+const ENTRY = 16;
+
+/** Exact zero-order-hold updates already computed, reused across calls (see newHoldUpdateCache). */
+export interface HoldUpdateCache {
+  readonly entries: Float64Array;
+  /** Entries filled so far, and the one to replace next (round robin). */
+  filled: number;
+  next: number;
 }
 
-function zeroOrderHoldUpdate(a0: number, a1: number, a2: number, s: number): Update {
+/** An empty cache; pass the same one to consecutive simulations (one per fit, single-threaded). */
+export function newHoldUpdateCache(): HoldUpdateCache {
+  return { entries: new Float64Array(CACHE_ENTRIES * ENTRY), filled: 0, next: 0 };
+}
+
+/** Offset in cache.entries of the update over interval_s for the denominator (a0, a1, a2); computed when missing. */
+function holdUpdate(cache: HoldUpdateCache, a0: number, a1: number, a2: number, interval_s: number): number {
+  const e = cache.entries;
+  for (let i = 0; i < cache.filled; i++) {
+    const o = i * ENTRY;
+    if (e[o] === a0 && e[o + 1] === a1 && e[o + 2] === a2 && Math.abs(e[o + 3] - interval_s) <= 1e-12) return o;
+  }
   const m = new Float64Array(16);
-  m[1] = s; // A12
-  m[6] = s; // A23
-  m[8] = -a0 * s;
-  m[9] = -a1 * s;
-  m[10] = -a2 * s;
-  m[11] = s; // B3
-  const e = expm4(m);
-  return { phi: Float64Array.of(e[0], e[1], e[2], e[4], e[5], e[6], e[8], e[9], e[10]), gamma: Float64Array.of(e[3], e[7], e[11]) };
+  m[1] = interval_s; // A12
+  m[6] = interval_s; // A23
+  m[8] = -a0 * interval_s;
+  m[9] = -a1 * interval_s;
+  m[10] = -a2 * interval_s;
+  m[11] = interval_s; // B3
+  const x = expm4(m);
+  const o = cache.next * ENTRY;
+  e[o] = a0;
+  e[o + 1] = a1;
+  e[o + 2] = a2;
+  e[o + 3] = interval_s;
+  e[o + 4] = x[0];
+  e[o + 5] = x[1];
+  e[o + 6] = x[2];
+  e[o + 7] = x[4];
+  e[o + 8] = x[5];
+  e[o + 9] = x[6];
+  e[o + 10] = x[8];
+  e[o + 11] = x[9];
+  e[o + 12] = x[10];
+  e[o + 13] = x[3];
+  e[o + 14] = x[7];
+  e[o + 15] = x[11];
+  cache.next = (cache.next + 1) % CACHE_ENTRIES;
+  cache.filled = Math.max(cache.filled, cache.next === 0 ? CACHE_ENTRIES : cache.next);
+  return o;
 }
 
 /**
  * y(t_k) for numerator [b2, b1, b0] and monic denominator [1, a2, a1, a0] (highest power first), delay θ ≥ 0 or < 0 (advance),
  * input held between samples and 0 before the first sample. Units: those of the transfer function.
+ * `delayDerivative`, when given, receives ∂y/∂θ = −C·ẋ(t_k − θ) at every sample (for a growing delay).
  */
 export function simulateThirdOrderHeld(
   time_s: Float64Array,
@@ -40,55 +82,64 @@ export function simulateThirdOrderHeld(
   delay_s: number,
   out: Float64Array = new Float64Array(time_s.length),
   states: Float64Array = new Float64Array(3 * time_s.length),
+  cache: HoldUpdateCache = newHoldUpdateCache(),
+  delayDerivative: Float64Array | null = null,
 ): Float64Array {
   const n = time_s.length;
   const [, a2, a1, a0] = denominator;
   const [b2, b1, b0] = numerator;
-  // Intervals within 1e−12 s of the last two seen reuse their update (uniform sampling: one for the
-  // sample period, one for the fractional delay offset).
-  let keyA = Number.NaN;
-  let keyB = Number.NaN;
-  let updateA: Update | null = null;
-  let updateB: Update | null = null;
-  const update = (interval_s: number): Update => {
-    if (Math.abs(interval_s - keyA) <= 1e-12 && updateA !== null) return updateA;
-    if (Math.abs(interval_s - keyB) <= 1e-12 && updateB !== null) return updateB;
-    const found = zeroOrderHoldUpdate(a0, a1, a2, interval_s);
-    keyB = keyA;
-    updateB = updateA;
-    keyA = interval_s;
-    updateA = found;
-    return found;
-  };
+  const e = cache.entries;
   const x = states; // ≥ 3n; starts at rest
   x[0] = 0;
   x[1] = 0;
   x[2] = 0;
+  let interval = Number.NaN;
+  let o = 0;
   for (let j = 0; j + 1 < n; j++) {
-    const { phi, gamma } = update(time_s[j + 1] - time_s[j]);
-    const o = 3 * j;
-    const u = input[j];
-    for (let r = 0; r < 3; r++) {
-      x[o + 3 + r] = phi[3 * r] * x[o] + phi[3 * r + 1] * x[o + 1] + phi[3 * r + 2] * x[o + 2] + gamma[r] * u;
+    const h = time_s[j + 1] - time_s[j];
+    if (!(Math.abs(h - interval) <= 1e-12)) {
+      o = holdUpdate(cache, a0, a1, a2, h);
+      interval = h;
     }
+    const s = 3 * j;
+    const x1 = x[s];
+    const x2 = x[s + 1];
+    const x3 = x[s + 2];
+    const u = input[j];
+    x[s + 3] = e[o + 4] * x1 + e[o + 5] * x2 + e[o + 6] * x3 + e[o + 13] * u;
+    x[s + 4] = e[o + 7] * x1 + e[o + 8] * x2 + e[o + 9] * x3 + e[o + 14] * u;
+    x[s + 5] = e[o + 10] * x1 + e[o + 11] * x2 + e[o + 12] * x3 + e[o + 15] * u;
   }
   const t0 = time_s[0];
+  interval = Number.NaN;
   let j = 0;
   for (let k = 0; k < n; k++) {
     const q = time_s[k] - delay_s;
     if (q <= t0) {
       out[k] = 0;
+      if (delayDerivative !== null) delayDerivative[k] = 0;
       continue;
     }
-    while (j + 1 < n && time_s[j + 1] <= q) j++;
-    while (j > 0 && time_s[j] > q) j--;
-    const { phi, gamma } = update(q - time_s[j]);
-    const o = 3 * j;
+    while (j + 1 < n && time_s[j + 1] < q) j++;
+    while (j > 0 && time_s[j] >= q) j--;
+    const offset = q - time_s[j];
+    if (!(Math.abs(offset - interval) <= 1e-12)) {
+      o = holdUpdate(cache, a0, a1, a2, offset);
+      interval = offset;
+    }
+    const s = 3 * j;
+    const x1 = x[s];
+    const x2 = x[s + 1];
+    const x3 = x[s + 2];
     const u = input[j];
-    const y1 = phi[0] * x[o] + phi[1] * x[o + 1] + phi[2] * x[o + 2] + gamma[0] * u;
-    const y2 = phi[3] * x[o] + phi[4] * x[o + 1] + phi[5] * x[o + 2] + gamma[1] * u;
-    const y3 = phi[6] * x[o] + phi[7] * x[o + 1] + phi[8] * x[o + 2] + gamma[2] * u;
+    const y1 = e[o + 4] * x1 + e[o + 5] * x2 + e[o + 6] * x3 + e[o + 13] * u;
+    const y2 = e[o + 7] * x1 + e[o + 8] * x2 + e[o + 9] * x3 + e[o + 14] * u;
+    const y3 = e[o + 10] * x1 + e[o + 11] * x2 + e[o + 12] * x3 + e[o + 15] * u;
     out[k] = b0 * y1 + b1 * y2 + b2 * y3;
+    if (delayDerivative !== null) {
+      // ẋ = A x + B u at t_k − θ; y grows with θ as −C·ẋ.
+      delayDerivative[k] = -(b0 * y2 + b1 * y3 + b2 * (u - a0 * y1 - a1 * y2 - a2 * y3));
+    }
   }
   return out;
 }

@@ -154,3 +154,21 @@ describe('fitLeastSquares and the ml-levenberg-marquardt behaviours it handles',
     expect(run(2)).toBeCloseTo(12, 12); // r²·w², not r²/w² = 0.75
   });
 });
+
+describe('fitLeastSquares with an exact Jacobian', () => {
+  it('reaches the finite-difference optimum of the same problem', () => {
+    // Property: the Jacobian changes the path, not the minimiser
+    const data = noisyDecay(0.02, 0.01, 7);
+    const jacobian = (p: readonly number[]): Float64Array[] => [x.map((t) => (t / (p[0] * p[0])) * Math.exp(-t / p[0]))];
+    const numeric = fitLeastSquares(decayProblem(data, 0.03));
+    const exact = fitLeastSquares({ ...decayProblem(data, 0.03), jacobian });
+    expect(exact.stopReason).toBe('converged');
+    expect(exact.parameters[0]).toBeCloseTo(numeric.parameters[0], 7);
+  });
+
+  it('reports nonFinite when the Jacobian is not finite, never converged', () => {
+    const data = noisyDecay(0.02, 0.01, 8);
+    const jacobian = (): Float64Array[] => [x.map(() => Number.NaN)];
+    expect(fitLeastSquares({ ...decayProblem(data, 0.03), jacobian }).stopReason).toBe('nonFinite');
+  });
+});
