@@ -1,8 +1,9 @@
 import type { FopdtModel } from './types.js';
 import { fitStepModel, type BiasMode, type StepModelFit } from './fit-step-model.js';
-import { delayedFirstOrderOutput, firstOrderStates, simulateFopdt, type CommandHold } from './simulate-fopdt.js';
+import { delayedFirstOrderOutput, firstOrderStates, fopdtSensitivities, simulateFopdt, type CommandHold, type FopdtSensitivities } from './simulate-fopdt.js';
 import { meanOf, type StepSignals } from './step-signals.js';
 import { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
+import { projectGainAndBias } from './variable-projection.js';
 
 /**
  * FOPDT fit of one step: K·e^(−θs)/(τs + 1) from the (relative) input to the output,
@@ -13,9 +14,10 @@ import { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
  * so the fit runs in two stages:
  * 1. a coarse grid over (θ, τ) in which K and the bias are solved exactly by linear least
  *    squares for each pair (variable projection: the response is linear in them);
- * 2. Levenberg–Marquardt with all parameters free (θ continuous) from the best grid
- *    points and from Smith's two-point estimate (two-point.ts); the lowest converged
- *    sum of squares wins.
+ * 2. Levenberg–Marquardt over τ and θ (θ continuous), K and the bias still solved exactly at
+ *    every point (variable projection, variable-projection.ts), from the best grid points and
+ *    from Smith's two-point estimate (two-point.ts); the lowest converged sum of squares wins.
+ *    Its Jacobian is exact (fopdtSensitivities, in Kaufman's projected form), not finite differences.
  */
 
 export interface FopdtFitOptions {
@@ -51,39 +53,6 @@ interface GridPoint {
   readonly ssr: number;
 }
 
-/** Best K (and bias when fitted) for a fixed unit-gain response x: linear least squares. */
-function projectLinear(output: Float64Array, x: Float64Array, fixedBias: number | null): { gain: number; ssr: number } {
-  const n = output.length;
-  let sx = 0;
-  let sy = 0;
-  let sxx = 0;
-  let sxy = 0;
-  for (let i = 0; i < n; i++) {
-    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
-    sx += x[i];
-    sy += y;
-    sxx += x[i] * x[i];
-    sxy += x[i] * y;
-  }
-  let gain: number;
-  let bias: number;
-  if (fixedBias === null) {
-    const det = n * sxx - sx * sx;
-    gain = det !== 0 ? (n * sxy - sx * sy) / det : 0;
-    bias = (sy - gain * sx) / n;
-  } else {
-    gain = sxx !== 0 ? sxy / sxx : 0;
-    bias = 0;
-  }
-  let ssr = 0;
-  for (let i = 0; i < n; i++) {
-    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
-    const r = y - gain * x[i] - bias;
-    ssr += r * r;
-  }
-  return { gain, ssr };
-}
-
 /** Fit K, τ, θ (and the bias) of one step; formulas and method in the file comment. Units: K output/input, τ and θ in s. */
 export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_FIT_DEFAULTS): FopdtFit {
   const { time_s, input, output, preStepSamples } = signals;
@@ -114,7 +83,7 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
     for (let j = 0; j < options.timeConstantGridPoints; j++) {
       const timeConstant_s = timeConstants_s[j];
       const x = delayedFirstOrderOutput(coarseTime, coarseInput, 1, timeConstant_s, deadTime_s, options.hold, statesByTimeConstant[j], scratch);
-      const { gain, ssr } = projectLinear(coarseOutput, x, fixedBias);
+      const { gain, ssr } = projectGainAndBias(coarseOutput, x, fixedBias);
       grid.push({ deadTime_s, timeConstant_s, gain, ssr });
     }
   }
@@ -124,11 +93,18 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
     starts.push([twoPoint.gain, twoPoint.timeConstant_s, Math.max(0, twoPoint.deadTime_s)]);
   }
   const gainScale = Math.max(Math.abs(grid[0].gain), 1e-6);
+  const columns: FopdtSensitivities = { gain: new Float64Array(n), timeConstant: new Float64Array(n), deadTime: new Float64Array(n) };
+  const stateSensitivities = new Float64Array(n);
   const fit = fitStepModel(
     signals,
     {
       names: ['gain', 'timeConstant_s', 'deadTime_s'],
       simulate: (p) => simulateFopdt(time_s, input, p[0], p[1], p[2], options.hold, new Float64Array(n), fullStates),
+      sensitivities: (p) => {
+        fopdtSensitivities(time_s, input, p[0], p[1], p[2], options.hold, columns, fullStates, stateSensitivities);
+        return [columns.gain, columns.timeConstant, columns.deadTime];
+      },
+      linearInGain: true,
       starts,
       maxRuns: 2,
       scale: [gainScale, Math.max(grid[0].timeConstant_s, 0.02), 0.05],

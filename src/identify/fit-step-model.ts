@@ -2,6 +2,7 @@ import { fitLeastSquares, LEAST_SQUARES_DEFAULTS, sumOfSquares, type StopReason 
 import { fitQuality, type FitQuality } from './fit-quality.js';
 import { meanOf, type StepSignals } from './step-signals.js';
 import { numericalJacobian, parameterUncertainty, type ParameterUncertainty } from './uncertainty.js';
+import { projectGainAndBias, projectOrthogonal, type LinearPart } from './variable-projection.js';
 
 /**
  * Shared machinery of every per-step fit: an output bias (the yaw-rate sensor offset)
@@ -21,6 +22,17 @@ export interface StepModelDefinition {
   readonly names: readonly string[];
   /** Response to signals.input without bias; must stay finite slightly outside the bounds. */
   readonly simulate: (parameters: readonly number[]) => Float64Array;
+  /**
+   * Optional exact derivatives of `simulate`: column i is ∂response/∂parameter_i (model parameters
+   * only; the bias column is added here). Without it the fitter uses finite differences.
+   */
+  readonly sensitivities?: (parameters: readonly number[]) => readonly Float64Array[];
+  /**
+   * The response is proportional to parameter 0, a gain (which must be unbounded): gain and bias are
+   * then solved exactly at every point and Levenberg–Marquardt searches the other parameters only
+   * (variable projection, variable-projection.ts).
+   */
+  readonly linearInGain?: boolean;
   readonly starts: readonly (readonly number[])[];
   /** Most Levenberg–Marquardt runs (from the best-ranked starts). */
   readonly maxRuns: number;
@@ -63,28 +75,30 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
     return response;
   };
   const scale = fitted ? [...definition.scale, residualScale] : definition.scale;
-  const lower = fitted ? [...definition.lower, -Infinity] : definition.lower;
-  const upper = fitted ? [...definition.upper, Infinity] : definition.upper;
+  const search = definition.linearInGain === true ? projectedSearch(definition, output, fitted ? null : preStepBias) : fullSearch(definition, model, fitted);
+  const searchScale = definition.linearInGain === true ? definition.scale.slice(1) : scale;
+  const lower = definition.linearInGain === true ? definition.lower.slice(1) : fitted ? [...definition.lower, -Infinity] : definition.lower;
+  const upper = definition.linearInGain === true ? definition.upper.slice(1) : fitted ? [...definition.upper, Infinity] : definition.upper;
   let best: { parameters: readonly number[]; ssr: number; stopReason: StopReason; iterations: number } | null = null;
   // Starts ranked by their initial sum of squares; Levenberg–Marquardt runs from the best and from
   // any other within START_SSR_FACTOR of it (a distinct basin worth exploring), at most maxRuns.
   const ranked = definition.starts
     .map((start) => {
-      const initial = fitted ? [...start, preStepBias] : [...start];
-      const ssr = sumOfSquares(output, model(initial));
+      const initial = search.initial(start, preStepBias);
+      const ssr = sumOfSquares(output, search.model(initial));
       return { initial, ssr: Number.isNaN(ssr) ? Infinity : ssr };
     })
     .sort((a, b) => a.ssr - b.ssr);
   const runs = ranked.filter((r, i) => i === 0 || r.ssr <= START_SSR_FACTOR * ranked[0].ssr).slice(0, Math.max(1, definition.maxRuns));
   for (const { initial } of runs) {
     const result = fitLeastSquares(
-      { data: output, model, initial, scale, lower, upper, residualScale },
+      { data: output, model: search.model, initial, scale: searchScale, lower, upper, residualScale, ...(search.jacobian === undefined ? {} : { jacobian: search.jacobian }) },
       { ...LEAST_SQUARES_DEFAULTS, maxIterations },
     );
     if (Number.isNaN(result.ssr)) continue;
     const rank = (stop: StopReason): number => (stop === 'converged' ? 0 : 1);
     if (best === null || rank(result.stopReason) < rank(best.stopReason) || (rank(result.stopReason) === rank(best.stopReason) && result.ssr < best.ssr)) {
-      best = result;
+      best = { ...result, parameters: search.full(result.parameters) };
     }
   }
   if (best === null) {
@@ -108,5 +122,79 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
     prediction,
     startsGiven: definition.starts.length,
     runs: runs.length,
+  };
+}
+
+/** What Levenberg–Marquardt searches: its model and optional exact Jacobian, and the full parameter vector (model parameters, then the bias when fitted) of a point. */
+interface Search {
+  readonly initial: (start: readonly number[], preStepBias: number) => number[];
+  readonly model: (parameters: readonly number[]) => Float64Array;
+  readonly jacobian?: (parameters: readonly number[]) => readonly Float64Array[];
+  readonly full: (parameters: readonly number[]) => readonly number[];
+}
+
+/** Every parameter searched, the bias among them when fitted. */
+function fullSearch(definition: StepModelDefinition, model: (parameters: readonly number[]) => Float64Array, fitted: boolean): Search {
+  const p = definition.names.length;
+  const { sensitivities } = definition;
+  let ones: Float64Array | null = null;
+  return {
+    initial: (start, preStepBias) => (fitted ? [...start, preStepBias] : [...start]),
+    model,
+    ...(sensitivities === undefined
+      ? {}
+      : {
+          jacobian: (parameters: readonly number[]): readonly Float64Array[] => {
+            const columns = sensitivities(parameters.slice(0, p));
+            if (!fitted) return columns;
+            ones ??= new Float64Array(columns[0].length).fill(1);
+            return [...columns, ones];
+          },
+        }),
+    full: (parameters) => parameters,
+  };
+}
+
+/**
+ * Gain and bias solved exactly at every point (variable-projection.ts): the search runs on the
+ * other parameters. `fixedBias` null: the bias is fitted.
+ */
+function projectedSearch(definition: StepModelDefinition, output: Float64Array, fixedBias: number | null): Search {
+  if (definition.lower[0] !== -Infinity || definition.upper[0] !== Infinity) {
+    throw new Error('fitStepModel: a model linear in its gain needs the gain unbounded');
+  }
+  const withUnitGain = (rest: readonly number[]): number[] => [1, ...rest];
+  const linearPart = (rest: readonly number[]): LinearPart => projectGainAndBias(output, definition.simulate(withUnitGain(rest)), fixedBias);
+  const { sensitivities } = definition;
+  return {
+    initial: (start) => start.slice(1),
+    model: (rest) => {
+      const unit = definition.simulate(withUnitGain(rest));
+      const { gain, bias } = projectGainAndBias(output, unit, fixedBias);
+      const prediction = new Float64Array(unit.length);
+      for (let i = 0; i < unit.length; i++) prediction[i] = gain * unit[i] + bias;
+      return prediction;
+    },
+    ...(sensitivities === undefined
+      ? {}
+      : {
+          jacobian: (rest: readonly number[]): readonly Float64Array[] => {
+            // Column 0 of the sensitivities at unit gain is the unit response itself.
+            const columns = sensitivities(withUnitGain(rest));
+            const unit = columns[0];
+            const { gain } = projectGainAndBias(output, unit, fixedBias);
+            const kaufman: Float64Array[] = [];
+            for (let k = 1; k < columns.length; k++) {
+              const column = new Float64Array(unit.length);
+              for (let i = 0; i < unit.length; i++) column[i] = gain * columns[k][i];
+              kaufman.push(projectOrthogonal(column, unit, fixedBias === null));
+            }
+            return kaufman;
+          },
+        }),
+    full: (rest) => {
+      const { gain, bias } = linearPart(rest);
+      return fixedBias === null ? [gain, ...rest, bias] : [gain, ...rest];
+    },
   };
 }

@@ -1,0 +1,78 @@
+/**
+ * Variable projection for step responses that are linear in their gain and output bias,
+ * y ≈ K·x(α) + b, where x is the unit-gain response and α the remaining (nonlinear) parameters
+ * (Golub & Pereyra 1973, "The differentiation of pseudo-inverses and nonlinear least squares
+ * problems whose variables separate"). For fixed α the best K and b solve a 2×2 linear least-squares
+ * problem; the fit then searches α alone. The Jacobian of the projected residual is taken in
+ * Kaufman's form (Kaufman 1975, BIT 15): ∂ŷ/∂α_k ≈ P⊥·K·∂x/∂α_k, P⊥ the projection orthogonal to
+ * span{x, 1} (span{x} with a fixed bias). It drops a term orthogonal to the residual, so the gradient
+ * Jᵀr — and hence every stationary point — is exact.
+ */
+
+/** Best gain and bias for a unit-gain response, and the sum of squares left. */
+export interface LinearPart {
+  readonly gain: number;
+  /** The fitted bias, or the fixed one. Output units. */
+  readonly bias: number;
+  readonly ssr: number;
+}
+
+/** Best K (and b, unless `fixedBias` is given) for y ≈ K·x + b by linear least squares. */
+export function projectGainAndBias(output: Float64Array, x: Float64Array, fixedBias: number | null): LinearPart {
+  const n = output.length;
+  let sx = 0;
+  let sy = 0;
+  let sxx = 0;
+  let sxy = 0;
+  for (let i = 0; i < n; i++) {
+    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
+    sx += x[i];
+    sy += y;
+    sxx += x[i] * x[i];
+    sxy += x[i] * y;
+  }
+  let gain: number;
+  let offset: number;
+  if (fixedBias === null) {
+    const det = n * sxx - sx * sx;
+    gain = det !== 0 ? (n * sxy - sx * sy) / det : 0;
+    offset = (sy - gain * sx) / n;
+  } else {
+    gain = sxx !== 0 ? sxy / sxx : 0;
+    offset = 0;
+  }
+  let ssr = 0;
+  for (let i = 0; i < n; i++) {
+    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
+    const r = y - gain * x[i] - offset;
+    ssr += r * r;
+  }
+  return { gain, bias: fixedBias === null ? offset : fixedBias, ssr };
+}
+
+/** v ← P⊥·v in place: v minus its least-squares fit by span{x, 1} (`withBias`) or span{x}. */
+export function projectOrthogonal(v: Float64Array, x: Float64Array, withBias: boolean): Float64Array {
+  const n = v.length;
+  let sx = 0;
+  let sv = 0;
+  let sxx = 0;
+  let sxv = 0;
+  for (let i = 0; i < n; i++) {
+    sx += x[i];
+    sv += v[i];
+    sxx += x[i] * x[i];
+    sxv += x[i] * v[i];
+  }
+  let slope: number;
+  let offset: number;
+  if (withBias) {
+    const det = n * sxx - sx * sx;
+    slope = det !== 0 ? (n * sxv - sx * sv) / det : 0;
+    offset = (sv - slope * sx) / n;
+  } else {
+    slope = sxx !== 0 ? sxv / sxx : 0;
+    offset = 0;
+  }
+  for (let i = 0; i < n; i++) v[i] -= slope * x[i] + offset;
+  return v;
+}
