@@ -81,7 +81,7 @@ export interface LeastSquaresOptions {
 
 export const LEAST_SQUARES_DEFAULTS: LeastSquaresOptions = {
   maxIterations: 200,
-  chunkIterations: 3,
+  chunkIterations: 2,
   relativeSsrTolerance: 1e-7,
   relativeParameterTolerance: 1e-7,
   centralDifference: false,
