@@ -83,8 +83,9 @@ function companionRoots(core: readonly number[]): Complex[] {
 /**
  * Newton's method z ← z − p(z)/p'(z) on the original polynomial; a real start stays
  * real. A step is kept only if it lowers |p(z)|, so a multiple root is never made worse.
+ * `dp` is differentiatePolynomial(p).
  */
-function polishRoot(p: readonly number[], dp: readonly number[], re: number, im: number): Complex {
+export function polishRoot(p: readonly number[], dp: readonly number[], re: number, im: number): Complex {
   let zRe = re;
   let zIm = im;
   let value = evaluatePolynomial(p, zRe, zIm);
