@@ -17,34 +17,33 @@ export interface LinearPart {
   readonly ssr: number;
 }
 
+/** Least-squares line v − shift ≈ slope·x + offset (offset 0 unless `withBias`). */
+function fitLine(v: Float64Array, x: Float64Array, shift: number, withBias: boolean): { slope: number; offset: number } {
+  const n = v.length;
+  let sx = 0;
+  let sv = 0;
+  let sxx = 0;
+  let sxv = 0;
+  for (let i = 0; i < n; i++) {
+    const y = v[i] - shift;
+    sx += x[i];
+    sv += y;
+    sxx += x[i] * x[i];
+    sxv += x[i] * y;
+  }
+  if (!withBias) return { slope: sxx !== 0 ? sxv / sxx : 0, offset: 0 };
+  const det = n * sxx - sx * sx;
+  const slope = det !== 0 ? (n * sxv - sx * sv) / det : 0;
+  return { slope, offset: (sv - slope * sx) / n };
+}
+
 /** Best K (and b, unless `fixedBias` is given) for y ≈ K·x + b by linear least squares. */
 export function projectGainAndBias(output: Float64Array, x: Float64Array, fixedBias: number | null): LinearPart {
-  const n = output.length;
-  let sx = 0;
-  let sy = 0;
-  let sxx = 0;
-  let sxy = 0;
-  for (let i = 0; i < n; i++) {
-    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
-    sx += x[i];
-    sy += y;
-    sxx += x[i] * x[i];
-    sxy += x[i] * y;
-  }
-  let gain: number;
-  let offset: number;
-  if (fixedBias === null) {
-    const det = n * sxx - sx * sx;
-    gain = det !== 0 ? (n * sxy - sx * sy) / det : 0;
-    offset = (sy - gain * sx) / n;
-  } else {
-    gain = sxx !== 0 ? sxy / sxx : 0;
-    offset = 0;
-  }
+  const shift = fixedBias ?? 0;
+  const { slope: gain, offset } = fitLine(output, x, shift, fixedBias === null);
   let ssr = 0;
-  for (let i = 0; i < n; i++) {
-    const y = fixedBias === null ? output[i] : output[i] - fixedBias;
-    const r = y - gain * x[i] - offset;
+  for (let i = 0; i < output.length; i++) {
+    const r = output[i] - shift - gain * x[i] - offset;
     ssr += r * r;
   }
   return { gain, bias: fixedBias === null ? offset : fixedBias, ssr };
@@ -52,27 +51,7 @@ export function projectGainAndBias(output: Float64Array, x: Float64Array, fixedB
 
 /** v ← P⊥·v in place: v minus its least-squares fit by span{x, 1} (`withBias`) or span{x}. */
 export function projectOrthogonal(v: Float64Array, x: Float64Array, withBias: boolean): Float64Array {
-  const n = v.length;
-  let sx = 0;
-  let sv = 0;
-  let sxx = 0;
-  let sxv = 0;
-  for (let i = 0; i < n; i++) {
-    sx += x[i];
-    sv += v[i];
-    sxx += x[i] * x[i];
-    sxv += x[i] * v[i];
-  }
-  let slope: number;
-  let offset: number;
-  if (withBias) {
-    const det = n * sxx - sx * sx;
-    slope = det !== 0 ? (n * sxv - sx * sv) / det : 0;
-    offset = (sv - slope * sx) / n;
-  } else {
-    slope = sxx !== 0 ? sxv / sxx : 0;
-    offset = 0;
-  }
-  for (let i = 0; i < n; i++) v[i] -= slope * x[i] + offset;
+  const { slope, offset } = fitLine(v, x, 0, withBias);
+  for (let i = 0; i < v.length; i++) v[i] -= slope * x[i] + offset;
   return v;
 }
