@@ -166,6 +166,7 @@ function projectedSearch(definition: StepModelDefinition, output: Float64Array, 
   const withUnitGain = (rest: readonly number[]): number[] => [1, ...rest];
   const linearPart = (rest: readonly number[]): LinearPart => projectGainAndBias(output, definition.simulate(withUnitGain(rest)), fixedBias);
   const { sensitivities } = definition;
+  const scratch: Float64Array[] = [];
   return {
     initial: (start) => start.slice(1),
     model: (rest) => {
@@ -183,9 +184,11 @@ function projectedSearch(definition: StepModelDefinition, output: Float64Array, 
             const columns = sensitivities(withUnitGain(rest));
             const unit = columns[0];
             const { gain } = projectGainAndBias(output, unit, fixedBias);
+            // The adapter reads the columns before asking again: the buffers are reused.
             const kaufman: Float64Array[] = [];
             for (let k = 1; k < columns.length; k++) {
-              const column = new Float64Array(unit.length);
+              if (scratch.length < k) scratch.push(new Float64Array(unit.length));
+              const column = scratch[k - 1];
               for (let i = 0; i < unit.length; i++) column[i] = gain * columns[k][i];
               kaufman.push(projectOrthogonal(column, unit, fixedBias === null));
             }

@@ -52,7 +52,8 @@ export function twoPointEstimate(signals: StepSignals): TwoPointEstimate | null 
     const b = Math.min(n, i + 3);
     smooth[i] = (meanOf(output, a, b) - baseline) / outputChange;
   }
-  const relativeInput = input.map((v) => (v - meanOf(input, 0, pre)) / inputChange);
+  const inputBefore = meanOf(input, 0, pre);
+  const relativeInput = input.map((v) => (v - inputBefore) / inputChange);
   const stepTime_s = crossingTime(time_s, relativeInput, pre - 1, 0.5, true);
   if (stepTime_s === null) return null;
   const from = time_s.findIndex((t) => t >= stepTime_s);
