@@ -48,17 +48,22 @@ export function sampledLoopEvaluator(plant: SampledPlant, b: readonly number[], 
   const im = new Float64Array(n * (n + 1));
   const width = n + 1;
   const delay = plant.wholeSampleDelay + 1;
+  // The plant's matrices as flat typed arrays, read at every evaluation.
+  const transition = Float64Array.from(plant.transition.flat());
+  const gainCurrent = Float64Array.from(plant.inputGainCurrent);
+  const gainPrevious = Float64Array.from(plant.inputGainPrevious);
+  const output = Float64Array.from(plant.outputVector);
   return (angle: number): Complex => {
     const zr = Math.cos(angle);
     const zi = Math.sin(angle);
     // Augmented [zI − Φ | Γ0·z + Γ1], complex Gaussian elimination with partial pivoting.
     for (let i = 0; i < n; i++) {
       for (let j = 0; j < n; j++) {
-        re[i * width + j] = (i === j ? zr : 0) - plant.transition[i][j];
+        re[i * width + j] = (i === j ? zr : 0) - transition[i * n + j];
         im[i * width + j] = i === j ? zi : 0;
       }
-      re[i * width + n] = plant.inputGainCurrent[i] * zr + plant.inputGainPrevious[i];
-      im[i * width + n] = plant.inputGainCurrent[i] * zi;
+      re[i * width + n] = gainCurrent[i] * zr + gainPrevious[i];
+      im[i * width + n] = gainCurrent[i] * zi;
     }
     for (let col = 0; col < n; col++) {
       let pivot = col;
@@ -108,8 +113,8 @@ export function sampledLoopEvaluator(plant: SampledPlant, b: readonly number[], 
       const xi = (si * pr - sr * pi) / pd;
       re[r * width + n] = xr;
       im[r * width + n] = xi;
-      gr += plant.outputVector[r] * xr;
-      gi += plant.outputVector[r] * xi;
+      gr += output[r] * xr;
+      gi += output[r] * xi;
     }
     // z^(−(ℓ+1)) and C(z) = Σ b_i z^(−i) / Σ a_i z^(−i).
     const dr = Math.cos(delay * angle);
