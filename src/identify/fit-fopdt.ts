@@ -1,5 +1,5 @@
 import type { FopdtModel } from './types.js';
-import { fitStepModel, type BiasMode, type StepModelFit } from './fit-step-model.js';
+import { fitStepModel, type BiasMode, type StepModelDefinition, type StepModelFit } from './fit-step-model.js';
 import { delayedFirstOrderOutput, firstOrderStates, fopdtSensitivities, simulateFopdt, type CommandHold, type FopdtSensitivities } from './simulate-fopdt.js';
 import { meanOf, type StepSignals } from './step-signals.js';
 import { twoPointEstimate, type TwoPointEstimate } from './two-point.js';
@@ -18,6 +18,9 @@ import { projectGainAndBias } from './variable-projection.js';
  *    every point (variable projection, variable-projection.ts), from the best grid points and
  *    from Smith's two-point estimate (two-point.ts); the lowest converged sum of squares wins.
  *    Its Jacobian is exact (fopdtSensitivities, in Kaufman's projected form), not finite differences.
+ * 3. With the command held, y(θ) has a kink wherever t − θ crosses a sample, and a spurious minimum
+ *    can sit just inside a cell between kinks: a quarter sample beyond each kink around θ is probed
+ *    (τ + θ kept) and LM runs again from a lower probe (at most KINK_HOPS times).
  */
 
 export interface FopdtFitOptions {
@@ -38,6 +41,9 @@ export const FOPDT_FIT_DEFAULTS: FopdtFitOptions = {
   timeConstantGridPoints: 7,
   refinedStarts: 1,
 };
+
+/** Runs across a sample kink at most (each: two probes of one simulation, and a run when one is lower). */
+const KINK_HOPS = 3;
 
 export interface FopdtFit {
   readonly model: FopdtModel;
@@ -95,24 +101,44 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
   const gainScale = Math.max(Math.abs(grid[0].gain), 1e-6);
   const columns: FopdtSensitivities = { gain: new Float64Array(n), timeConstant: new Float64Array(n), deadTime: new Float64Array(n) };
   const stateSensitivities = new Float64Array(n);
-  const fit = fitStepModel(
-    signals,
-    {
-      names: ['gain', 'timeConstant_s', 'deadTime_s'],
-      simulate: (p) => simulateFopdt(time_s, input, p[0], p[1], p[2], options.hold, new Float64Array(n), fullStates),
-      sensitivities: (p) => {
-        fopdtSensitivities(time_s, input, p[0], p[1], p[2], options.hold, columns, fullStates, stateSensitivities);
-        return [columns.gain, columns.timeConstant, columns.deadTime];
-      },
-      linearInGain: true,
-      starts,
-      maxRuns: 2,
-      scale: [gainScale, Math.max(grid[0].timeConstant_s, 0.02), 0.05],
-      lower: [-Infinity, 0, 0],
-      upper: [Infinity, 10 * timeConstantMax_s, window_s / 2],
+  const definition: StepModelDefinition = {
+    names: ['gain', 'timeConstant_s', 'deadTime_s'],
+    simulate: (p) => simulateFopdt(time_s, input, p[0], p[1], p[2], options.hold, new Float64Array(n), fullStates),
+    sensitivities: (p) => {
+      fopdtSensitivities(time_s, input, p[0], p[1], p[2], options.hold, columns, fullStates, stateSensitivities);
+      return [columns.gain, columns.timeConstant, columns.deadTime];
     },
-    options.biasMode,
-  );
+    linearInGain: true,
+    starts,
+    maxRuns: 2,
+    scale: [gainScale, Math.max(grid[0].timeConstant_s, 0.02), 0.05],
+    lower: [-Infinity, 0, 0],
+    upper: [Infinity, 10 * timeConstantMax_s, window_s / 2],
+  };
+  let fit = fitStepModel(signals, definition, options.biasMode);
+  if (options.hold === 'zeroOrder') {
+    // With the command held, y(θ) has a kink wherever t − θ crosses a sample (θ a whole number of
+    // sample periods), and the sum of squares can hold a spurious minimum just inside one cell between
+    // kinks. Probe a quarter sample beyond each of the two kinks around θ, along τ + θ constant (the
+    // time to 63 %, the best-determined combination), and run again from a lower probe.
+    const projectedSsr = (timeConstant_s: number, deadTime_s: number): number =>
+      projectGainAndBias(output, simulateFopdt(time_s, input, 1, timeConstant_s, deadTime_s, 'zeroOrder', new Float64Array(n), fullStates), fixedBias).ssr;
+    for (let hop = 0; hop < KINK_HOPS && fit.stopReason === 'converged'; hop++) {
+      const [gain, timeConstant_s, deadTime_s] = fit.parameters;
+      const below = Math.floor(deadTime_s / samplePeriod_s) * samplePeriod_s - samplePeriod_s / 4;
+      const above = Math.ceil(deadTime_s / samplePeriod_s) * samplePeriod_s + samplePeriod_s / 4;
+      const probes = [below, above]
+        .map((theta) => [timeConstant_s + deadTime_s - theta, theta])
+        .filter(([tau, theta]) => tau > 0 && theta >= 0 && theta <= window_s / 2)
+        .map(([tau, theta]) => ({ tau, theta, ssr: projectedSsr(tau, theta) }))
+        .filter((probe) => probe.ssr < fit.ssr)
+        .sort((a, b) => a.ssr - b.ssr);
+      if (probes.length === 0) break;
+      const next = fitStepModel(signals, { ...definition, starts: [[gain, probes[0].tau, probes[0].theta]], maxRuns: 1 }, options.biasMode);
+      if (!(next.stopReason === 'converged' && next.ssr < fit.ssr)) break;
+      fit = { ...next, startsGiven: fit.startsGiven + 1, runs: fit.runs + 1 };
+    }
+  }
   return {
     model: { kind: 'fopdt', gain: fit.parameters[0], timeConstant_s: fit.parameters[1], deadTime_s: fit.parameters[2] },
     fit,
