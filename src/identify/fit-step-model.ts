@@ -2,7 +2,7 @@ import { fitLeastSquares, LEAST_SQUARES_DEFAULTS, sumOfSquares, type StopReason 
 import { fitQuality, type FitQuality } from './fit-quality.js';
 import { meanOf, type StepSignals } from './step-signals.js';
 import { numericalJacobian, parameterUncertainty, type ParameterUncertainty } from './uncertainty.js';
-import { projectGainAndBias, projectOrthogonal, type LinearPart } from './variable-projection.js';
+import { projectGainAndBias, projectOrthogonal } from './variable-projection.js';
 
 /**
  * Shared machinery of every per-step fit: an output bias (the yaw-rate sensor offset)
@@ -75,10 +75,7 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
     return response;
   };
   const scale = fitted ? [...definition.scale, residualScale] : definition.scale;
-  const search = definition.linearInGain === true ? projectedSearch(definition, output, fitted ? null : preStepBias) : fullSearch(definition, model, fitted);
-  const searchScale = definition.linearInGain === true ? definition.scale.slice(1) : scale;
-  const lower = definition.linearInGain === true ? definition.lower.slice(1) : fitted ? [...definition.lower, -Infinity] : definition.lower;
-  const upper = definition.linearInGain === true ? definition.upper.slice(1) : fitted ? [...definition.upper, Infinity] : definition.upper;
+  const search = definition.linearInGain === true ? projectedSearch(definition, output, fitted ? null : preStepBias) : fullSearch(definition, model, fitted, scale);
   let best: { parameters: readonly number[]; ssr: number; stopReason: StopReason; iterations: number } | null = null;
   // Starts ranked by their initial sum of squares; Levenberg–Marquardt runs from the best and from
   // any other within START_SSR_FACTOR of it (a distinct basin worth exploring), at most maxRuns.
@@ -92,7 +89,7 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
   const runs = ranked.filter((r, i) => i === 0 || r.ssr <= START_SSR_FACTOR * ranked[0].ssr).slice(0, Math.max(1, definition.maxRuns));
   for (const { initial } of runs) {
     const result = fitLeastSquares(
-      { data: output, model: search.model, initial, scale: searchScale, lower, upper, residualScale, ...(search.jacobian === undefined ? {} : { jacobian: search.jacobian }) },
+      { data: output, model: search.model, initial, scale: search.scale, lower: search.lower, upper: search.upper, residualScale, ...(search.jacobian === undefined ? {} : { jacobian: search.jacobian }) },
       { ...LEAST_SQUARES_DEFAULTS, maxIterations },
     );
     if (Number.isNaN(result.ssr)) continue;
@@ -125,8 +122,14 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
   };
 }
 
-/** What Levenberg–Marquardt searches: its model and optional exact Jacobian, and the full parameter vector (model parameters, then the bias when fitted) of a point. */
+/**
+ * What Levenberg–Marquardt searches: its parameters' scales and bounds, its model and optional exact
+ * Jacobian, and the full parameter vector (model parameters, then the bias when fitted) of a point.
+ */
 interface Search {
+  readonly scale: readonly number[];
+  readonly lower: readonly number[];
+  readonly upper: readonly number[];
   readonly initial: (start: readonly number[], preStepBias: number) => number[];
   readonly model: (parameters: readonly number[]) => Float64Array;
   readonly jacobian?: (parameters: readonly number[]) => readonly Float64Array[];
@@ -134,11 +137,14 @@ interface Search {
 }
 
 /** Every parameter searched, the bias among them when fitted. */
-function fullSearch(definition: StepModelDefinition, model: (parameters: readonly number[]) => Float64Array, fitted: boolean): Search {
+function fullSearch(definition: StepModelDefinition, model: (parameters: readonly number[]) => Float64Array, fitted: boolean, scale: readonly number[]): Search {
   const p = definition.names.length;
   const { sensitivities } = definition;
   let ones: Float64Array | null = null;
   return {
+    scale,
+    lower: fitted ? [...definition.lower, -Infinity] : definition.lower,
+    upper: fitted ? [...definition.upper, Infinity] : definition.upper,
     initial: (start, preStepBias) => (fitted ? [...start, preStepBias] : [...start]),
     model,
     ...(sensitivities === undefined
@@ -164,10 +170,12 @@ function projectedSearch(definition: StepModelDefinition, output: Float64Array, 
     throw new Error('fitStepModel: a model linear in its gain needs the gain unbounded');
   }
   const withUnitGain = (rest: readonly number[]): number[] => [1, ...rest];
-  const linearPart = (rest: readonly number[]): LinearPart => projectGainAndBias(output, definition.simulate(withUnitGain(rest)), fixedBias);
   const { sensitivities } = definition;
   const scratch: Float64Array[] = [];
   return {
+    scale: definition.scale.slice(1),
+    lower: definition.lower.slice(1),
+    upper: definition.upper.slice(1),
     initial: (start) => start.slice(1),
     model: (rest) => {
       const unit = definition.simulate(withUnitGain(rest));
@@ -196,7 +204,7 @@ function projectedSearch(definition: StepModelDefinition, output: Float64Array, 
           },
         }),
     full: (rest) => {
-      const { gain, bias } = linearPart(rest);
+      const { gain, bias } = projectGainAndBias(output, definition.simulate(withUnitGain(rest)), fixedBias);
       return fixedBias === null ? [gain, ...rest, bias] : [gain, ...rest];
     },
   };
