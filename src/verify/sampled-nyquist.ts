@@ -170,7 +170,9 @@ export function sampledNyquistCount(plant: SampledPlant, controller: { readonly 
   let turn = 0;
   let marginal = false;
   const onePlus = (l: Complex): Complex => ({ re: 1 + l.re, im: l.im });
-  const isMarginal = (l: Complex): boolean => Math.hypot(1 + l.re, l.im) <= SETTINGS.marginalTolerance * Math.max(1, Math.hypot(l.re, l.im));
+  // |1 + L| ≤ tolerance·max(1, |L|), compared squared (Math.hypot is slow and |L| stays far below overflow).
+  const marginal2 = SETTINGS.marginalTolerance * SETTINGS.marginalTolerance;
+  const isMarginal = (l: Complex): boolean => (1 + l.re) * (1 + l.re) + l.im * l.im <= marginal2 * Math.max(1, l.re * l.re + l.im * l.im);
   const angleBetween = (p: Complex, q: Complex): number => Math.atan2(p.re * q.im - p.im * q.re, p.re * q.re + p.im * q.im);
   const walk = (left: number, right: number, lLeft: Complex, lRight: Complex, depth: number): void => {
     const step = angleBetween(onePlus(lLeft), onePlus(lRight));
