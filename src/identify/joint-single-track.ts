@@ -138,13 +138,21 @@ export function fitSingleTrack(
     }
     return prediction;
   };
-  const model = (p: readonly number[]): Float64Array => simulateAll(p, null);
+  // Each evaluation keeps its exact ∂/∂θa: the fitter asks for the Jacobian where it last evaluated.
+  let last: { readonly p: readonly number[]; readonly prediction: Float64Array; readonly delayColumn: Float64Array } | null = null;
+  const model = (p: readonly number[]): Float64Array => {
+    const delayColumn = new Float64Array(total);
+    const prediction = simulateAll(p, delayColumn);
+    last = { p: p.slice(), prediction, delayColumn };
+    return prediction;
+  };
   const scale = [1, 1, 0.05, 0.05];
   // Jacobian: ∂/∂θa exact (simulate-third-order.ts), the others by forward differences with the
   // adapter's step rule (relative to max(|p/scale|, 1), in scaled units).
   const modelJacobian = (p: readonly number[]): readonly Float64Array[] => {
-    const delayColumn = new Float64Array(total);
-    const base = simulateAll(p, delayColumn);
+    const here = last !== null && last.p.every((v, i) => v === p[i]) ? last : null;
+    const delayColumn = here?.delayColumn ?? new Float64Array(total);
+    const base = here?.prediction ?? simulateAll(p, delayColumn);
     const columns: Float64Array[] = [];
     for (let i = 0; i < 3; i++) {
       const h = LEAST_SQUARES_DEFAULTS.relativeDifferenceStep * Math.max(Math.abs(p[i]) / scale[i], 1) * scale[i];
