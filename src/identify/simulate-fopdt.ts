@@ -21,12 +21,24 @@ const MIN_TIME_CONSTANT_S = 1e-9;
 /** How the sampled command is taken between samples: held (zero-order hold) or linearly interpolated. */
 export type CommandHold = 'zeroOrder' | 'linear';
 
-/** Lag state at every sample (exact for the linearly interpolated input), starting from rest at u_0. */
-export function firstOrderStates(time_s: Float64Array, input: Float64Array, timeConstant_s: number, hold: CommandHold, out: Float64Array): Float64Array {
+/**
+ * Lag state at every sample (exact for the linearly interpolated input), starting from rest at u_0.
+ * With `sensitivity`, also S = ∂x/∂τ at every sample (recursion in `fopdtSensitivities`), in the same pass.
+ */
+export function firstOrderStates(
+  time_s: Float64Array,
+  input: Float64Array,
+  timeConstant_s: number,
+  hold: CommandHold,
+  out: Float64Array,
+  sensitivity: Float64Array | null = null,
+): Float64Array {
   const slopes = hold === 'linear' ? 1 : 0;
   const n = time_s.length;
   const tau = timeConstant_s;
+  const inverseTauSquared = 1 / (tau * tau);
   out[0] = input[0];
+  if (sensitivity !== null) sensitivity[0] = 0;
   // Uniform sampling reuses one decay factor (the interval is compared to 1e−12 s).
   let lastH = Number.NaN;
   let decay = 0;
@@ -36,11 +48,13 @@ export function firstOrderStates(time_s: Float64Array, input: Float64Array, time
     const m = (slopes * (input[j + 1] - u)) / h;
     if (tau <= MIN_TIME_CONSTANT_S) {
       out[j + 1] = u + m * h;
+      if (sensitivity !== null) sensitivity[j + 1] = 0;
     } else {
       if (!(Math.abs(h - lastH) <= 1e-12)) {
         lastH = h;
         decay = Math.exp(-h / tau);
       }
+      if (sensitivity !== null) sensitivity[j + 1] = -m + (sensitivity[j] + m) * decay + (out[j] - u + m * tau) * decay * h * inverseTauSquared;
       out[j + 1] = u + m * (h - tau) + (out[j] - u + m * tau) * decay;
     }
   }
@@ -150,26 +164,10 @@ export function fopdtSensitivities(
   const tau = timeConstant_s;
   const lagFree = tau <= MIN_TIME_CONSTANT_S;
   const slopes = hold === 'linear' ? 1 : 0;
-  firstOrderStates(time_s, input, tau, hold, states);
   const sensitivity = stateSensitivities;
-  sensitivity[0] = 0;
+  firstOrderStates(time_s, input, tau, hold, states, sensitivity);
   const inverseTauSquared = lagFree ? 0 : 1 / (tau * tau);
-  let lastH = Number.NaN;
   let decay = 0;
-  for (let j = 0; j + 1 < n; j++) {
-    if (lagFree) {
-      sensitivity[j + 1] = 0;
-      continue;
-    }
-    const h = time_s[j + 1] - time_s[j];
-    const u = input[j];
-    const m = (slopes * (input[j + 1] - u)) / h;
-    if (!(Math.abs(h - lastH) <= 1e-12)) {
-      lastH = h;
-      decay = Math.exp(-h / tau);
-    }
-    sensitivity[j + 1] = -m + (sensitivity[j] + m) * decay + (states[j] - u + m * tau) * decay * h * inverseTauSquared;
-  }
   const t0 = time_s[0];
   const tLast = time_s[n - 1];
   let j = 0;
