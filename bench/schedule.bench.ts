@@ -26,6 +26,7 @@ const stub: AnalyseLoop = (v, gains) => {
     verdict: pm > 0 ? 'stable' : 'unstable',
     phaseMargin_deg: (pm * 180) / Math.PI,
     phaseMarginFrequency_radps: k,
+    phaseMarginDirection: 'lag',
     lowerGainMargin_dB: null,
     lowerGainMarginFrequency_radps: null,
     upperGainMargin_dB: 20 * Math.log10(Math.PI / (0.2 * k)),

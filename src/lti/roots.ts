@@ -1,20 +1,19 @@
 /**
  * Roots of real polynomials: companion-matrix eigenvalues (the method numpy.roots
- * uses), with the matrix balanced first (Parlett & Reinsch 1969, as in EISPACK
- * `balanc`), then each root polished by Newton's method on the original polynomial.
+ * uses) by the balanced Hessenberg QR iteration of ./eigenvalues.ts, then each root
+ * polished by Newton's method on the original polynomial.
  * mathjs `polynomialRoot` stops at cubics and loses roots of badly scaled
  * polynomials (DOMAIN.md §5b); closed-loop polynomials here are degree 4–8.
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { SpeedbandError } from '../core/errors.js';
+import { eigenvalues } from './eigenvalues.js';
 import { differentiatePolynomial, evaluatePolynomial, trimPolynomial } from './polynomial.js';
 import type { Complex } from './types.js';
 
 const DEFAULTS = {
   /** Newton polishing steps per root (each accepted only if it lowers |p|). */
   polishSteps: 8,
-  /** Balancing sweeps stop when no row/column norm changes by more than this factor. */
-  balanceThreshold: 0.95,
 } as const;
 
 /**
@@ -58,13 +57,12 @@ function compareRoots(a: Complex, b: Complex): number {
 function companionRoots(core: readonly number[]): Complex[] {
   const n = core.length - 1;
   const lead = core[0];
-  const companion: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  for (let j = 0; j < n; j++) companion[0][j] = -core[j + 1] / lead;
-  for (let i = 1; i < n; i++) companion[i][i - 1] = 1;
-  balanceInPlace(companion);
-  const decomposition = new EigenvalueDecomposition(new Matrix(companion), { assumeSymmetric: false });
-  const realParts = decomposition.realEigenvalues;
-  const imaginaryParts = decomposition.imaginaryEigenvalues;
+  // Upper Hessenberg companion matrix: first row −p_(j+1)/p_0, ones on the subdiagonal.
+  const companion = new Float64Array(n * n);
+  for (let j = 0; j < n; j++) companion[j] = -core[j + 1] / lead;
+  for (let i = 1; i < n; i++) companion[i * n + i - 1] = 1;
+  const found = eigenvalues(companion, n);
+  const { re: realParts, im: imaginaryParts } = found.converged ? found : fallbackEigenvalues(companion, n);
   const derivative = differentiatePolynomial(core);
   const roots: Complex[] = [];
   for (let k = 0; k < n; k++) {
@@ -78,6 +76,13 @@ function companionRoots(core: readonly number[]): Complex[] {
     }
   }
   return roots;
+}
+
+/** ml-matrix's decomposition (EISPACK hqr2 with eigenvectors) for the rare matrix our QR iteration leaves unconverged. */
+function fallbackEigenvalues(matrix: Float64Array, n: number): { re: readonly number[]; im: readonly number[] } {
+  const rows = Array.from({ length: n }, (_, i) => Array.from(matrix.subarray(i * n, (i + 1) * n)));
+  const decomposition = new EigenvalueDecomposition(new Matrix(rows), { assumeSymmetric: false });
+  return { re: decomposition.realEigenvalues, im: decomposition.imaginaryEigenvalues };
 }
 
 /**
@@ -107,47 +112,4 @@ export function polishRoot(p: readonly number[], dp: readonly number[], re: numb
     size = nextSize;
   }
   return { re: zRe, im: zIm };
-}
-
-/**
- * Diagonal similarity scaling by powers of 2 so that each row and its column have
- * comparable norms (Parlett & Reinsch 1969; EISPACK `balanc`). Eigenvalues are
- * unchanged; their accuracy on badly scaled companion matrices improves greatly.
- */
-function balanceInPlace(a: number[][]): void {
-  const n = a.length;
-  const radix = 2;
-  const radix2 = radix * radix;
-  let converged = false;
-  for (let sweep = 0; sweep < 100 && !converged; sweep++) {
-    converged = true;
-    for (let i = 0; i < n; i++) {
-      let columnNorm = 0;
-      let rowNorm = 0;
-      for (let j = 0; j < n; j++) {
-        if (j === i) continue;
-        columnNorm += Math.abs(a[j][i]);
-        rowNorm += Math.abs(a[i][j]);
-      }
-      if (columnNorm === 0 || rowNorm === 0) continue;
-      let g = rowNorm / radix;
-      let f = 1;
-      const total = columnNorm + rowNorm;
-      while (columnNorm < g) {
-        f *= radix;
-        columnNorm *= radix2;
-      }
-      g = rowNorm * radix;
-      while (columnNorm > g) {
-        f /= radix;
-        columnNorm /= radix2;
-      }
-      if ((columnNorm + rowNorm) / f < DEFAULTS.balanceThreshold * total) {
-        converged = false;
-        const inverse = 1 / f;
-        for (let j = 0; j < n; j++) a[i][j] *= inverse;
-        for (let j = 0; j < n; j++) a[j][i] *= f;
-      }
-    }
-  }
 }

@@ -32,17 +32,21 @@ const format = (value: number): string => String(Number(value.toPrecision(4)));
 /**
  * Every acceptance limit the margins break. A missing margin (null) means no such crossing:
  * no lower gain margin (not conditionally stable), no upper gain margin or delay margin
- * (unbounded) — none of those fail. An unstable or undetermined verdict always fails.
+ * (unbounded) — none of those fail. An unstable or marginal verdict always fails, alone: the margins do
+ * not apply to a loop that is not stable.
  */
 export function judgeMargins(margins: LoopMargins, thresholds: AcceptanceThresholds): CheckFailure[] {
   const failures: CheckFailure[] = [];
   if (!margins.stable || margins.verdict !== 'stable') {
-    failures.push({
-      criterion: 'stability',
-      value: null,
-      limit: null,
-      message: margins.verdict === 'undetermined' ? 'stability undetermined (pole and Nyquist verdicts disagree)' : 'closed loop unstable',
-    });
+    // Margins are distances to instability: on a loop that is not stable they do not apply, and only this fails.
+    return [
+      {
+        criterion: 'stability',
+        value: null,
+        limit: null,
+        message: margins.verdict === 'marginal' ? `closed loop marginal: ${margins.analysis?.verdictNote ?? 'a closed-loop pole on the stability boundary'}` : 'closed loop unstable',
+      },
+    ];
   }
   const lower = margins.lowerGainMargin_dB;
   if (lower !== null && lower > thresholds.maximumLowerGainMargin_dB) {

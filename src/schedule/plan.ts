@@ -147,6 +147,27 @@ export interface ResolveContext {
 }
 
 /**
+ * Plausible ranges of the controller settings (the schema only asks for positive numbers): a steering
+ * controller runs at 1 Hz to 10 kHz, computes within a second and filters its derivative with N from 1
+ * to 1,000 (common practice: 5–20). Outside them the numbers are a unit slip (ms in an s field) or a typo,
+ * and the loop analysis would spend its time on a delay register of millions of samples.
+ */
+export const CONTROLLER_RANGES = {
+  sampleTime_s: { minimum: 1e-4, maximum: 1, words: 'from 0.0001 s (10 kHz) to 1 s', advice: 'give the controller period in seconds, e.g. 0.01 for 100 Hz' },
+  computationLatency_s: { minimum: 0, maximum: 1, words: 'from 0 s to 1 s', advice: 'give the time from sampling to the steering command in seconds, e.g. 0.01 (not milliseconds)' },
+  derivativeFilter: { minimum: 1, maximum: 1000, words: 'from 1 to 1,000', advice: 'N sets the derivative filter time Td/N; 5–20 is common practice' },
+} as const;
+
+function checkControllerPlausible(controller: Plan['controller'], written: Partial<Plan['controller']>, file?: string): void {
+  for (const [field, range] of Object.entries(CONTROLLER_RANGES) as [keyof typeof CONTROLLER_RANGES, (typeof CONTROLLER_RANGES)[keyof typeof CONTROLLER_RANGES]][]) {
+    const value = controller[field];
+    if (value >= range.minimum && value <= range.maximum) continue;
+    const where = written[field] === undefined && field === 'sampleTime_s' ? ' (taken from the vehicle file\'s controllerSampleTime_s)' : '';
+    throw planError(`controller.${field} is ${value}${where} — expected ${range.words}: ${range.advice}`, `/controller/${field}`, file);
+  }
+}
+
+/**
  * Apply PLAN_DEFAULTS section by section and check what a schema cannot: range order, the floor
  * inside the range, explicit breakpoints strictly increasing, speed tables well formed.
  * A partial plan should be schema-valid already (readPlan validates; library callers are typed).
@@ -194,13 +215,15 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   for (const [name, value] of Object.entries(parameters)) {
     if (typeof value === 'object') checkSpeedTable(value as SpeedTable, `/rule/parameters/${name}`, file);
   }
+  const controller = { ...PLAN_DEFAULTS.controller, ...partial.controller, sampleTime_s: sampleTime, computationLatency_s: latency };
+  checkControllerPlausible(controller, partial.controller ?? {}, file);
   return {
     loop: { ...PLAN_DEFAULTS.loop, ...partial.loop },
     rule: { name: partial.rule?.name ?? PLAN_DEFAULTS.rule.name, parameters },
     speeds,
     breakpoints,
     interpolation: partial.interpolation ?? PLAN_DEFAULTS.interpolation,
-    controller: { ...PLAN_DEFAULTS.controller, ...partial.controller, sampleTime_s: sampleTime, computationLatency_s: latency },
+    controller,
     acceptance: { ...PLAN_DEFAULTS.acceptance, ...partial.acceptance },
     check: { ...PLAN_DEFAULTS.check, ...partial.check },
   };

@@ -60,7 +60,7 @@ export const SCHEDULE_SCHEMA = object({
       insertedByRefinement: { type: 'boolean' },
       margins: object({
         stable: { type: 'boolean' },
-        verdict: { enum: ['stable', 'unstable', 'undetermined'] },
+        verdict: { enum: ['stable', 'unstable', 'marginal'] },
         lowerGainMargin_dB: nullableNumber,
         upperGainMargin_dB: nullableNumber,
         phaseMargin_deg: nullableNumber,

@@ -13,7 +13,7 @@ export const SCHEDULE_FORMAT_VERSION = 1;
 /** Margins proven at one breakpoint (from LoopMargins; null where there is no such crossing). */
 export interface BreakpointMargins {
   readonly stable: boolean;
-  readonly verdict: 'stable' | 'unstable' | 'undetermined';
+  readonly verdict: 'stable' | 'unstable' | 'marginal';
   readonly lowerGainMargin_dB: number | null;
   readonly upperGainMargin_dB: number | null;
   readonly phaseMargin_deg: number | null;

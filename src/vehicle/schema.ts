@@ -60,11 +60,11 @@ export interface FieldRange {
 
 /** Physical ranges of the numeric fields (checked in this order). */
 export const VEHICLE_RANGES: readonly FieldRange[] = [
-  { field: 'mass_kg', minimum: 0, expected: 'a mass above 0 kg', advice: 'enter the test mass in kilograms' },
-  { field: 'yawInertia_kgm2', minimum: 0, expected: 'a yaw inertia above 0 kg·m²', advice: 'enter the yaw moment of inertia in kg·m²' },
-  { field: 'cgToFrontAxle_m', minimum: 0, expected: 'a distance above 0 m', advice: 'the centre of gravity must lie between the axles; measure from the CG to the front axle in metres' },
-  { field: 'cgToRearAxle_m', minimum: 0, expected: 'a distance above 0 m', advice: 'the centre of gravity must lie between the axles; measure from the CG to the rear axle in metres' },
-  { field: 'steeringRatio', minimum: 0, expected: 'a ratio above 0', advice: 'use steering-wheel angle divided by road-wheel angle (1 for a road-wheel actuator)' },
+  { field: 'mass_kg', minimum: 0, maximum: 1e6, expected: 'a mass above 0 kg and below 1,000,000 kg', advice: 'enter the test mass in kilograms (a sidewalk robot is tens of kg, a loaded haul truck hundreds of tonnes)' },
+  { field: 'yawInertia_kgm2', minimum: 0, maximum: 1e8, expected: 'a yaw inertia above 0 kg·m² and below 1e8 kg·m²', advice: 'enter the yaw moment of inertia in kg·m² (roughly mass × wheelbase² / 4 for a first estimate)' },
+  { field: 'cgToFrontAxle_m', minimum: 0, maximum: 20, expected: 'a distance above 0 m and below 20 m', advice: 'the centre of gravity must lie between the axles; measure from the CG to the front axle in metres' },
+  { field: 'cgToRearAxle_m', minimum: 0, maximum: 20, expected: 'a distance above 0 m and below 20 m', advice: 'the centre of gravity must lie between the axles; measure from the CG to the rear axle in metres' },
+  { field: 'steeringRatio', minimum: 0, maximum: 100, expected: 'a ratio above 0 and below 100', advice: 'use steering-wheel angle divided by road-wheel angle (1 for a road-wheel actuator)' },
   {
     field: 'maxSteerAngle_rad',
     minimum: 0,
@@ -72,10 +72,10 @@ export const VEHICLE_RANGES: readonly FieldRange[] = [
     expected: 'a road-wheel angle above 0 and below π/2 rad (90°)',
     advice: 'a larger value is probably degrees in a radian field or a steering-wheel angle: convert to road-wheel radians',
   },
-  { field: 'maxSteerRate_radps', minimum: 0, expected: 'a rate above 0 rad/s', advice: 'enter the road-wheel angle rate limit in rad/s' },
-  { field: 'actuatorLag_s', minimum: 0, minimumInclusive: true, maximum: 10, expected: 'a lag from 0 s to 10 s', advice: 'enter the actuator time constant in seconds (0 for none)' },
-  { field: 'actuatorDelay_s', minimum: 0, minimumInclusive: true, maximum: 10, expected: 'a delay from 0 s to 10 s', advice: 'enter the actuator transport delay in seconds (0 for none)' },
-  { field: 'controllerSampleTime_s', minimum: 0, maximum: 1, expected: 'a sample time above 0 s and below 1 s', advice: 'enter the controller period in seconds, e.g. 0.01 for 100 Hz' },
+  { field: 'maxSteerRate_radps', minimum: 0, maximum: 20, expected: 'a rate above 0 rad/s and below 20 rad/s', advice: 'enter the road-wheel angle rate limit in rad/s' },
+  { field: 'actuatorLag_s', minimum: 0, minimumInclusive: true, maximum: 5, expected: 'a lag from 0 s to below 5 s', advice: 'enter the actuator time constant in seconds (0 for none)' },
+  { field: 'actuatorDelay_s', minimum: 0, minimumInclusive: true, maximum: 1, expected: 'a delay from 0 s to below 1 s', advice: 'enter the actuator transport delay in seconds (0 for none)' },
+  { field: 'controllerSampleTime_s', minimum: 1e-4, minimumInclusive: true, maximum: 1, expected: 'a sample time from 0.0001 s (10 kHz) to below 1 s', advice: 'enter the controller period in seconds, e.g. 0.01 for 100 Hz' },
   { field: 'frontCorneringStiffness_NPerRad', minimum: 0, expected: 'a stiffness above 0 N/rad', advice: 'enter the whole-axle cornering stiffness in N/rad (ISO 8855 sign: positive)' },
   { field: 'rearCorneringStiffness_NPerRad', minimum: 0, expected: 'a stiffness above 0 N/rad', advice: 'enter the whole-axle cornering stiffness in N/rad (ISO 8855 sign: positive)' },
 ];

@@ -52,13 +52,26 @@ export function closedLoopPoleVerdict(
   bandFrequency_radps: number,
   relativeTolerance: number,
 ): PoleVerdict {
-  let padeOrder = 0;
-  let padeWithinBound = true;
+  if (delay_s === 0) return poleVerdictWithOrder(numerator, denominator, 0, 0, true, relativeTolerance);
+  const chosen = orderFor(delay_s * bandFrequency_radps);
+  return poleVerdictWithOrder(numerator, denominator, delay_s, Math.max(1, Math.min(chosen.order, PADE_DEFAULTS.maximumOrder)), chosen.withinBound, relativeTolerance);
+}
+
+/** As closedLoopPoleVerdict with a given Padé order (≥ 1 with a delay; ignored without one). */
+export function closedLoopPoleVerdictAtOrder(numerator: readonly number[], denominator: readonly number[], delay_s: number, order: number, relativeTolerance: number): PoleVerdict {
+  return poleVerdictWithOrder(numerator, denominator, delay_s, delay_s === 0 ? 0 : order, true, relativeTolerance);
+}
+
+function poleVerdictWithOrder(
+  numerator: readonly number[],
+  denominator: readonly number[],
+  delay_s: number,
+  padeOrder: number,
+  padeWithinBound: boolean,
+  relativeTolerance: number,
+): PoleVerdict {
   let characteristic: number[];
   if (delay_s > 0) {
-    const chosen = orderFor(delay_s * bandFrequency_radps);
-    padeOrder = Math.max(1, Math.min(chosen.order, PADE_DEFAULTS.maximumOrder));
-    padeWithinBound = chosen.withinBound;
     const pade = padeApproximant(delay_s, padeOrder);
     characteristic = addPolynomials(multiplyPolynomials(denominator, pade.denominator), multiplyPolynomials(numerator, pade.numerator));
   } else {

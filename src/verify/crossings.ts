@@ -6,6 +6,7 @@
 import type { LoopGrid } from './frequency-grid.js';
 import { evaluateLoopResponse, newLoopPoint, type CompiledLoopResponse } from './loop-response.js';
 import { bracketedRoot } from './root-search.js';
+import { tooManyPhaseWraps } from './analysis-bounds.js';
 
 export interface GainCrossover {
   readonly frequency_radps: number;
@@ -53,7 +54,7 @@ export function findGainCrossovers(loop: CompiledLoopResponse, grid: LoopGrid, r
 export function findPhaseCrossovers(
   loop: CompiledLoopResponse,
   grid: LoopGrid,
-  settings: { readonly relativeTolerance: number; readonly refineAbove: number; readonly refineLargestBelow: number },
+  settings: { readonly relativeTolerance: number; readonly refineAbove: number; readonly refineLargestBelow: number; readonly maximumPhaseWraps: number },
 ): PhaseCrossover[] {
   const { frequency_radps: w, magnitude, phase_rad: phase } = grid;
   const point = newLoopPoint();
@@ -74,6 +75,7 @@ export function findPhaseCrossovers(
   const keptLevel = new Float64Array(keep);
   const keptDirection = new Int8Array(keep);
   let keptMinimum = -1;
+  let examined = 0;
   for (let i = 0; i + 1 < w.length; i++) {
     const a = phase[i];
     const b = phase[i + 1];
@@ -89,6 +91,8 @@ export function findPhaseCrossovers(
     const logA = Math.log(magnitude[i]);
     const logB = Math.log(magnitude[i + 1]);
     const direction = b > a ? 1 : -1;
+    examined += kLast - kFirst + 1;
+    if (examined > settings.maximumPhaseWraps) throw tooManyPhaseWraps(loop.delay_s + (loop.discrete?.sampleTime_s ?? 0), w[i + 1], Math.abs(phase[i + 1] - phase[0]) / (2 * Math.PI));
     for (let k = kFirst; k <= kLast; k++) {
       const level = (2 * k + 1) * Math.PI;
       const t = (level - a) / (b - a);

@@ -25,8 +25,36 @@ export const ANALYSIS_DEFAULTS = {
   poleRelativeTolerance: 1e-9,
   /** |L(j∞)| ≥ 1 − this with a delay makes a neutral-type loop. */
   neutralTolerance: 1e-9,
-  /** Sampled-data loop: stable needs every closed-loop eigenvalue |z| < 1 − this; within this of 1 is marginal (not stable). */
-  sampledPoleRadiusTolerance: 1e-8,
+  /**
+   * Sampled-data loop: the closed-loop eigenvalues decide up to this closed-loop order (plant + delay register
+   * + controller; QR costs ~10·N³ flops: ≈ 30 ms at 240); past it the argument principle decides.
+   */
+  sampledEigenvalueMaximumOrder: 240,
+  /** Continuous loop: when the Padé pole test and the exact-delay count disagree, the pole test is repeated at this order. */
+  padeRetryOrder: 12,
+  /** Bounds on the work of one analysis (any input the schemas accept). */
+  bounds: {
+    /** Whole samples of delay a sampled loop may carry (the delay register's length). */
+    maximumWholeSampleDelay: 100_000,
+    /** Crossings of the negative real axis examined over the band (each wrap of the phase is one). */
+    maximumPhaseWraps: 5_000,
+  },
+  /** Delay margin: the crossover estimate is confirmed by the exact verdict of the loop with the delay added (delay-margin.ts). */
+  delayMargin: {
+    /** The estimate is confirmed at this fraction of itself (just below the limit, where the loop must still be stable). */
+    confirmAtFraction: 0.999,
+    /** Sampled loops: also checked at `earlyStepsPerSample` points per sample up to this many samples (or the estimate). */
+    earlySamples: 2,
+    earlyStepsPerSample: 8,
+    /** … when a closed-loop pole with |arg z| ≥ π/2 has at least this |z| (or |L| ≥ 0.5 in the upper half of the band). */
+    highFrequencyPoleMagnitude: 0.9,
+    /** Relative width of the bisection that shortens an estimate the exact verdict refutes. */
+    bisectionRelativeTolerance: 1e-4,
+    /** A sampled loop's estimate past this many samples is confirmed at whole samples (one sample is then under 1 % of it). */
+    wholeSamplesAbove: 100,
+    /** A sampled crossover above this angle per sample (ω·Ts, rad) is also checked just above the estimate. */
+    fastCrossoverAngle_rad: 0.1,
+  },
   /** Nyquist count of a sampled loop on its pulse frequency response (sampled-nyquist.ts). */
   sampledNyquist: {
     /** ϑ (rad) where the arc starts when there are poles at z = 1: the detour radius. */
@@ -37,7 +65,11 @@ export const ANALYSIS_DEFAULTS = {
     /** Refine a step that turns 1 + L by more than this, or L by more than `maximumLoopTurn_rad`. */
     maximumTurn_rad: 0.25,
     maximumLoopTurn_rad: 0.5,
+    /** Where |L| stays below this at both ends of a step, the delay register's turn of L needs no refinement. */
+    rotationMagnitude: 0.25,
     maximumDepth: 40,
+    /** Bound on the evaluations of one count (past it: `verify.analysisTooLarge`). */
+    maximumEvaluations: 200_000,
     /** |1 + L| below this × max(1, |L|) on the path: the loop passes through −1. */
     marginalTolerance: 1e-9,
     /** A controller pole within this of z = 1 is an integrator; within this of |z| = 1 elsewhere: on the circle. */

@@ -16,7 +16,7 @@
 import { analysisRoots } from './small-roots.js';
 import type { Complex } from '../lti/types.js';
 import type { SampledPlant } from './sampled-plant.js';
-import { pulseTransferFunction } from './sampled-verdict.js';
+import { pulseTransferFunction } from './pulse-transfer-function.js';
 
 /** Roots compiled for the continuous-angle sum. */
 interface RootAngles {

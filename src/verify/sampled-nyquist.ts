@@ -16,13 +16,12 @@ import type { Complex } from '../lti/types.js';
 import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { controllerInDelays, type SampledPlant } from './sampled-plant.js';
 import { analysisRoots } from './small-roots.js';
+import type { PlantPoles } from './pole-counts.js';
+import { compilePulseResponse, evaluatePulse, newPulsePoint } from './pulse-response.js';
+import { pulseTransferFunction } from './pulse-transfer-function.js';
+import { SpeedbandError } from '../core/errors.js';
 
-/** Open-loop poles of the continuous plant, as the loop sweep counts them. */
-export interface PlantPoleCounts {
-  readonly originPoles: number;
-  readonly rightHalfPlanePoles: number;
-  readonly otherAxisPoles: number;
-}
+export type { PlantPoleCounts, PlantPoles } from './pole-counts.js';
 
 export interface SampledNyquistResult {
   readonly verdict: 'stable' | 'unstable' | 'marginal' | 'undetermined';
@@ -140,12 +139,21 @@ export function sampledLoopEvaluator(plant: SampledPlant, b: readonly number[], 
 
 /**
  * Z = P + N for the sampled loop of `plant` (from `sampledPlant`) under C(z) (coefficients in
- * powers of z, highest first), with the continuous plant's pole counts (`plantPoles`: origin
- * poles map to z = 1, right-half-plane poles outside the circle, other axis poles onto it —
- * not handled: 'undetermined'). 'marginal' when 1 + L passes through 0 on the path.
+ * powers of z, highest first), with the continuous plant's poles (`plantPoles`: origin poles map to
+ * z = 1, right-half-plane poles outside the circle, other axis poles onto it — not handled:
+ * 'undetermined'), with `options.extraWholeSamples` whole samples of delay added (z^(−k), exact);
+ * `options.pulseNumerator` is B(z) when already built (`pulseTransferFunction(plant).numerator`).
+ * 'marginal' when 1 + L passes through 0 on the path. The loop is evaluated by `evaluatePulse`
+ * (pulse-response.ts: B(z) by Horner's rule, A(z) in product form over its roots).
  */
-export function sampledNyquistCount(plant: SampledPlant, controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] }, plantPoles: PlantPoleCounts): SampledNyquistResult {
-  const { b, a } = controllerInDelays(controller);
+export function sampledNyquistCount(
+  plant: SampledPlant,
+  controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] },
+  plantPoles: PlantPoles,
+  options: { readonly extraWholeSamples?: number; readonly pulseNumerator?: readonly number[] } = {},
+): SampledNyquistResult {
+  const extraWholeSamples = options.extraWholeSamples ?? 0;
+  const { a } = controllerInDelays(controller);
   let unitPoles = plantPoles.originPoles;
   let outside = plantPoles.rightHalfPlanePoles;
   const undetermined = (reason: string): SampledNyquistResult => ({ verdict: 'undetermined', closedLoopOutsidePoles: null, reason, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles });
@@ -156,7 +164,7 @@ export function sampledNyquistCount(plant: SampledPlant, controller: { readonly 
     else if (Math.abs(size - 1) <= SETTINGS.circleTolerance) return undetermined('a controller pole on the unit circle away from z = 1');
     else if (size > 1) outside++;
   }
-  const loop = sampledLoopEvaluator(plant, b, a);
+  const response = compilePulseResponse(options.pulseNumerator ?? pulseTransferFunction(plant).numerator, plantPoles.poles, plant.sampleTime_s, controller, plant.wholeSampleDelay);
   const start = unitPoles > 0 ? SETTINGS.detourAngle_rad : 0;
   const grid: number[] = [start];
   if (unitPoles > 0) {
@@ -169,31 +177,76 @@ export function sampledNyquistCount(plant: SampledPlant, controller: { readonly 
 
   let turn = 0;
   let marginal = false;
-  const onePlus = (l: Complex): Complex => ({ re: 1 + l.re, im: l.im });
-  // |1 + L| ≤ tolerance·max(1, |L|), compared squared (Math.hypot is slow and |L| stays far below overflow).
+  let evaluations = grid.length;
   const marginal2 = SETTINGS.marginalTolerance * SETTINGS.marginalTolerance;
-  const isMarginal = (l: Complex): boolean => (1 + l.re) * (1 + l.re) + l.im * l.im <= marginal2 * Math.max(1, l.re * l.re + l.im * l.im);
-  const angleBetween = (p: Complex, q: Complex): number => Math.atan2(p.re * q.im - p.im * q.re, p.re * q.re + p.im * q.im);
-  const walk = (left: number, right: number, lLeft: Complex, lRight: Complex, depth: number): void => {
-    const step = angleBetween(onePlus(lLeft), onePlus(lRight));
-    const loopStep = angleBetween(lLeft, lRight);
-    if (depth < SETTINGS.maximumDepth && (Math.abs(step) > SETTINGS.maximumTurn_rad || Math.abs(loopStep) > SETTINGS.maximumLoopTurn_rad)) {
-      const middle = 0.5 * (left + right);
-      const lMiddle = loop(middle);
-      if (isMarginal(lMiddle)) marginal = true;
-      walk(left, middle, lLeft, lMiddle, depth + 1);
-      walk(middle, right, lMiddle, lRight, depth + 1);
-      return;
-    }
-    turn += step;
+  const small2 = SETTINGS.rotationMagnitude * SETTINGS.rotationMagnitude;
+  const delaySamples = response.delaySamples + extraWholeSamples;
+  const point = newPulsePoint();
+  // Values at the ends of the step being walked, kept on explicit stacks (no allocation per evaluation).
+  const depthLimit = SETTINGS.maximumDepth + 2;
+  const stackAngle = new Float64Array(depthLimit + 1);
+  const stackRe = new Float64Array(depthLimit + 1);
+  const stackIm = new Float64Array(depthLimit + 1);
+  const stackBodyRe = new Float64Array(depthLimit + 1);
+  const stackBodyIm = new Float64Array(depthLimit + 1);
+  const evaluate = (angle: number): void => {
+    evaluatePulse(response, angle, extraWholeSamples, point);
+    // |1 + L| ≤ tolerance·max(1, |L|), compared squared.
+    const l2 = point.re * point.re + point.im * point.im;
+    if ((1 + point.re) * (1 + point.re) + point.im * point.im <= marginal2 * Math.max(1, l2)) marginal = true;
   };
-  let previous = loop(grid[0]);
-  if (isMarginal(previous)) marginal = true;
+  /** Angle turned from p to q (principal value), rad. */
+  const angleBetween = (pRe: number, pIm: number, qRe: number, qIm: number): number => Math.atan2(pRe * qIm - pIm * qRe, pRe * qRe + pIm * qIm);
+  // Walk from (left) to (right): the left end is the point on top of the stack, the right end below it.
+  // The delay register turns L by (ℓ+1)·ϑ without changing |L|: where |L| stays small that turn cannot move
+  // 1 + L round the origin, so the refinement follows L without it (the body) there, and L itself only where
+  // |L| ≥ rotationMagnitude. The work then does not grow with the delay.
+  evaluate(grid[0]);
+  let leftAngle = grid[0];
+  let leftRe = point.re;
+  let leftIm = point.im;
+  let leftBodyRe = point.bodyRe;
+  let leftBodyIm = point.bodyIm;
   for (let i = 1; i < grid.length; i++) {
-    const next = loop(grid[i]);
-    if (isMarginal(next)) marginal = true;
-    walk(grid[i - 1], grid[i], previous, next, 0);
-    previous = next;
+    evaluate(grid[i]);
+    let top = 0;
+    stackAngle[0] = grid[i];
+    stackRe[0] = point.re;
+    stackIm[0] = point.im;
+    stackBodyRe[0] = point.bodyRe;
+    stackBodyIm[0] = point.bodyIm;
+    while (top >= 0) {
+      const rightAngle = stackAngle[top];
+      const rightRe = stackRe[top];
+      const rightIm = stackIm[top];
+      const step = angleBetween(1 + leftRe, leftIm, 1 + rightRe, rightIm);
+      const rotation = delaySamples * (rightAngle - leftAngle);
+      const bodyStep = angleBetween(leftBodyRe, leftBodyIm, stackBodyRe[top], stackBodyIm[top]);
+      const large = Math.max(leftRe * leftRe + leftIm * leftIm, rightRe * rightRe + rightIm * rightIm) >= small2;
+      const refine =
+        Math.abs(step) > SETTINGS.maximumTurn_rad ||
+        Math.abs(bodyStep) > SETTINGS.maximumLoopTurn_rad ||
+        (large && (Math.abs(angleBetween(leftRe, leftIm, rightRe, rightIm)) > SETTINGS.maximumLoopTurn_rad || rotation > SETTINGS.maximumLoopTurn_rad));
+      if (refine && top < depthLimit - 1 && top < SETTINGS.maximumDepth) {
+        if (++evaluations > SETTINGS.maximumEvaluations) throw tooManyEvaluations(plant, evaluations);
+        const middle = 0.5 * (leftAngle + rightAngle);
+        evaluate(middle);
+        top++;
+        stackAngle[top] = middle;
+        stackRe[top] = point.re;
+        stackIm[top] = point.im;
+        stackBodyRe[top] = point.bodyRe;
+        stackBodyIm[top] = point.bodyIm;
+        continue;
+      }
+      turn += step;
+      leftAngle = rightAngle;
+      leftRe = rightRe;
+      leftIm = rightIm;
+      leftBodyRe = stackBodyRe[top];
+      leftBodyIm = stackBodyIm[top];
+      top--;
+    }
   }
   if (marginal) return { verdict: 'marginal', closedLoopOutsidePoles: null, reason: 'the loop passes through −1 (marginal)', openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
   const windings = (2 * turn - unitPoles * Math.PI) / (2 * Math.PI);
@@ -202,4 +255,12 @@ export function sampledNyquistCount(plant: SampledPlant, controller: { readonly 
   const z = outside - rounded;
   if (z < 0) return undetermined(`inconsistent count Z = ${z}`);
   return { verdict: z === 0 ? 'stable' : 'unstable', closedLoopOutsidePoles: z, reason: null, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
+}
+
+function tooManyEvaluations(plant: SampledPlant, evaluations: number): SpeedbandError {
+  return new SpeedbandError(
+    'verify.analysisTooLarge',
+    `the Nyquist count of the sampled loop needed more than ${SETTINGS.maximumEvaluations} evaluations (its delay register is ${plant.wholeSampleDelay} samples long): the loop turns round −1 too often to count — check the delays (computationLatency_s, actuatorDelay_s) and the sample time`,
+    { details: { wholeSampleDelay: plant.wholeSampleDelay, evaluations } },
+  );
 }

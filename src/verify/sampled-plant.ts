@@ -25,6 +25,8 @@ export interface SampledPlant {
   readonly wholeSampleDelay: number;
   /** m: the fractional part of the delay, s (0 ≤ m < Ts). */
   readonly fractionalDelay_s: number;
+  /** Ts, s. */
+  readonly sampleTime_s: number;
 }
 
 /** Relative rounding under which a delay counts as a whole number of samples. */
@@ -74,6 +76,7 @@ export function sampledPlant(plant: { readonly numerator: readonly number[]; rea
     feedthrough: model.feedthrough,
     wholeSampleDelay: wholeSamples,
     fractionalDelay_s: m,
+    sampleTime_s,
   };
 }
 

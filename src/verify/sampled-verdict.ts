@@ -14,21 +14,29 @@
  * (A, B, C, D) is the controllable canonical realisation of N/D. The sample y[k] is taken
  * at the instant kTs just before the new output u[k] takes effect (left limit), so a
  * biproper plant without delay forms no algebraic loop. The past inputs
- * u[k−1] … u[k−ℓ−1] are a shift register and u[k] = C(z)·e[k], e[k] = −y[k]. The
- * closed-loop poles (the eigenvalues of the closed-loop state matrix of plant, register
- * and controller, size n + ℓ + 1 + deg C) are the roots of its characteristic polynomial
- *   a(z)·det(zI − Φ)·z^(ℓ+1) + b(z)·[C·adj(zI − Φ)·(Γ0·z + Γ1) + D·det(zI − Φ)]
- * with C(z) = b(z)/a(z); det and adj come from the Faddeev–LeVerrier recursion. Where they
- * lie is decided by the Schur–Cohn test (`unit-circle-roots.ts`, O(N²), no root finding: a
- * general eigenvalue routine costs ~0.16 ms at N = 16, too slow for a dense check of 2,000
- * speeds). The loop is stable iff every pole has |z| < 1 − tolerance; a pole within the
- * tolerance of the unit circle is 'marginal' (on the boundary: not stable).
+ * u[k−1] … u[k−ℓ−1] are a shift register and u[k] = C(z)·e[k], e[k] = −y[k].
+ *
+ * The closed-loop poles are the eigenvalues of the closed-loop state matrix of plant, register
+ * and controller (`sampled-closed-loop.ts`, order N = n + ℓ + 1 + deg C), computed by a
+ * backward-stable QR iteration with a first-order bound on each eigenvalue's rounding error
+ * (src/lti/eigenvalues.ts). The loop is 'stable' when every pole has |z| plus its bound below 1,
+ * 'unstable' when some pole has |z| minus its bound above 1, and 'marginal' — on the boundary
+ * within the numbers' own precision, named with its pole — otherwise. The characteristic
+ * polynomial is not used to decide: with poles at z = 1 (integrators) its coefficients cancel
+ * and a root test on it (Schur–Cohn, Jury) loses the slow closed-loop poles to rounding. Past
+ * `ANALYSIS_DEFAULTS.sampledEigenvalueMaximumOrder` (a delay register of hundreds of samples)
+ * the argument principle on the exact pulse frequency response decides (`sampled-nyquist.ts`).
  */
-import { addPolynomials, multiplyPolynomials } from '../lti/polynomial.js';
-import { controllerInDelays, multiplyMatrices, sampledPlant, type SampledPlant } from './sampled-plant.js';
-import { allRootsInside, largestRootMagnitude } from './unit-circle-roots.js';
+import { backwardError, eigenvalueCondition, eigenvalues } from '../lti/eigenvalues.js';
+import { ANALYSIS_DEFAULTS } from './defaults.js';
+import { sampledClosedLoopMatrix, sampledClosedLoopOrder } from './sampled-closed-loop.js';
+import { sampledPlant, type SampledPlant } from './sampled-plant.js';
+import { sampledNyquistCount } from './sampled-nyquist.js';
+import type { PlantPoles } from './pole-counts.js';
+import { plantPoleCounts } from './pole-counts.js';
 
 export { splitDelay } from './sampled-plant.js';
+export { pulseTransferFunction } from './pulse-transfer-function.js';
 
 /** A plant under a discrete controller, as the firmware runs it. */
 export interface SampledLoop {
@@ -39,12 +47,38 @@ export interface SampledLoop {
   readonly sampleTime_s: number;
 }
 
+/** One closed-loop pole in z with the bound of its rounding error. */
+export interface ClosedLoopPole {
+  readonly re: number;
+  readonly im: number;
+  /** |z|, dimensionless. */
+  readonly magnitude: number;
+  /** First-order bound of the error of |z| from rounding (κ(λ)·η, see src/lti/eigenvalues.ts); 0 when not computed. */
+  readonly errorBound: number;
+}
+
 /** The sampled-data verdict and what it rests on. */
 export interface SampledVerdict {
-  /** 'stable': every closed-loop eigenvalue |z| < 1 − tolerance; 'marginal': the largest within the tolerance of 1. */
+  /**
+   * 'stable': every closed-loop pole has |z| + its error bound < 1; 'unstable': some pole has
+   * |z| − its bound > 1; 'marginal': the deciding pole lies within its bound of the unit circle.
+   */
   readonly verdict: 'stable' | 'unstable' | 'marginal';
-  /** Largest closed-loop eigenvalue magnitude |z| (dimensionless). */
-  readonly largestPoleMagnitude: number;
+  /** How the verdict was reached: the eigenvalues of the closed-loop state matrix, or (for a very long delay register) the argument principle on the exact pulse frequency response. */
+  readonly method: 'eigenvalues' | 'argument principle';
+  /** Largest closed-loop pole magnitude |z| (dimensionless); null when decided by the argument principle. */
+  readonly largestPoleMagnitude: number | null;
+  /** The pole that decides: the largest |z| (upper member of a pair); null when decided by the argument principle. */
+  readonly decidingPole: ClosedLoopPole | null;
+  /** Time constant of the slowest closed-loop pole, −Ts/ln|z|, s; null when that pole is not inside the unit circle or not known. */
+  readonly slowestTimeConstant_s: number | null;
+  /**
+   * Largest |z| of the closed-loop poles at high frequency (|arg z| ≥ π/2); null when not known. Such a pole near
+   * the circle (a Tustin derivative filter's pole near z = −1, say) is moved by a fraction of a sample of delay.
+   */
+  readonly highFrequencyPoleMagnitude: number | null;
+  /** Why the verdict is marginal (the pole, its distance from the circle and its bound), or how it was reached when not by eigenvalues. */
+  readonly note: string | null;
   /** ℓ: whole samples of delay. */
   readonly wholeSampleDelay: number;
   /** m: the fractional part of the delay, s (0 ≤ m < Ts). */
@@ -54,90 +88,83 @@ export interface SampledVerdict {
 }
 
 /**
- * The exact closed-loop verdict of a plant (with delay θ, s) under a discrete controller
- * C(z) at sample time Ts (s) with a zero-order hold; see the module comment for the
- * model. `tolerance` (dimensionless) is the distance below |z| = 1 a pole needs to count
- * as stable. Throws `verify.invalidController` for a non-causal C(z) and
- * `lti.improperTransferFunction` for an improper plant.
+ * The exact closed-loop verdict of a plant (with delay θ, s) under a discrete controller C(z) at
+ * sample time Ts (s) with a zero-order hold; see the module comment. Throws
+ * `verify.invalidController` for a non-causal C(z) and `lti.improperTransferFunction` for an
+ * improper plant.
  */
-export function sampledLoopVerdict(loop: SampledLoop, tolerance: number): SampledVerdict {
-  return sampledVerdictOf(sampledPlant(loop.plant, loop.sampleTime_s), loop.controller, tolerance);
+export function sampledLoopVerdict(loop: SampledLoop): SampledVerdict {
+  return sampledVerdictOf(sampledPlant(loop.plant, loop.sampleTime_s), loop.controller, loop.sampleTime_s, plantPoleCounts(loop.plant.denominator));
 }
 
-/** As sampledLoopVerdict, for a plant already sampled by `sampledPlant` (and its `pulseTransferFunction`, when already built). */
+/**
+ * As sampledLoopVerdict, for a plant already sampled by `sampledPlant`; `plantPoles` (the continuous
+ * plant's origin, right-half-plane and other axis poles) serve the argument-principle fallback, which
+ * decides past `maximumEigenvalueOrder`.
+ */
 export function sampledVerdictOf(
   plant: SampledPlant,
   controller: SampledLoop['controller'],
-  tolerance: number,
-  pulse: { readonly numerator: readonly number[]; readonly denominator: readonly number[] } = pulseTransferFunction(plant),
+  sampleTime_s: number,
+  plantPoles: PlantPoles,
+  maximumEigenvalueOrder: number = ANALYSIS_DEFAULTS.sampledEigenvalueMaximumOrder,
 ): SampledVerdict {
-  const { numerator: plantNumerator, denominator: characteristic } = pulse;
-  const plantDenominator = characteristic.concat(new Array<number>(plant.wholeSampleDelay + 1).fill(0));
-
-  // 1 + C(z)·G(z) = 0 ⇔ a(z)·den(z) + b(z)·num(z) = 0 with C = b/a in powers of z (equal lengths).
-  const { b, a } = controllerInDelays(controller);
-  const closedLoop = addPolynomials(multiplyPolynomials(a, plantDenominator), multiplyPolynomials(b, plantNumerator));
-  const lead = closedLoop[0];
-  const monic = closedLoop.map((value) => value / lead);
-  const finite = monic.every(Number.isFinite);
-  const largest = finite ? largestRootMagnitude(monic, RADIUS_RELATIVE_TOLERANCE) : Infinity;
-  const verdict = !finite ? 'unstable' : allRootsInside(monic, 1 - tolerance) ? 'stable' : allRootsInside(monic, 1 + tolerance) ? 'marginal' : 'unstable';
-  return { verdict, largestPoleMagnitude: largest, wholeSampleDelay: plant.wholeSampleDelay, fractionalDelay_s: plant.fractionalDelay_s, closedLoopOrder: monic.length - 1 };
+  const common = { wholeSampleDelay: plant.wholeSampleDelay, fractionalDelay_s: plant.fractionalDelay_s, closedLoopOrder: sampledClosedLoopOrder(plant, controller) };
+  if (common.closedLoopOrder <= maximumEigenvalueOrder) {
+    const { matrix, size } = sampledClosedLoopMatrix(plant, controller);
+    const finite = matrix.every(Number.isFinite);
+    const result = finite ? eigenvalues(matrix, size) : null;
+    if (result !== null && result.converged) return { ...common, ...judgePoles(result, size, sampleTime_s) };
+  }
+  // A very long delay register (or a QR iteration that did not converge): the argument principle decides.
+  const count = sampledNyquistCount(plant, controller, plantPoles);
+  const verdict = count.verdict === 'stable' || count.verdict === 'unstable' || count.verdict === 'marginal' ? count.verdict : 'marginal';
+  const why = common.closedLoopOrder > maximumEigenvalueOrder ? `the closed-loop order ${common.closedLoopOrder} exceeds ${maximumEigenvalueOrder}` : 'the eigenvalue iteration did not converge';
+  return {
+    ...common,
+    verdict,
+    method: 'argument principle',
+    largestPoleMagnitude: null,
+    decidingPole: null,
+    slowestTimeConstant_s: null,
+    highFrequencyPoleMagnitude: null,
+    note: `decided by the Nyquist count on the exact pulse frequency response: ${why}${count.reason === null ? '' : ` (${count.reason})`}`,
+  };
 }
 
 /**
- * The pulse transfer function of a sampled plant, G(z) = B(z)/(A(z)·z^(ℓ+1)) with
- * B(z) = C·adj(zI − Φ)·(Γ0·z + Γ1) + D·det(zI − Φ) and A(z) = det(zI − Φ) (monic, its roots
- * the eigenvalues e^(pᵢ·Ts) of Φ), both degree n, coefficients in powers of z highest first
- * (dimensionless); det and adj by the Faddeev–LeVerrier recursion.
+ * Poles farther than this from the unit circle need no condition number: their rounding bound would
+ * have to exceed it, i.e. κ > 1e−3/η ≈ 1e8 — an eigenvalue that ill-conditioned is a defective
+ * cluster, which sits at the circle in these loops (the integrators at z = 1), not in the interior.
  */
-export function pulseTransferFunction(plant: SampledPlant): { readonly numerator: number[]; readonly denominator: number[] } {
-  const n = plant.inputGainCurrent.length;
-  const { characteristic, adjugate } = faddeevLeVerrier(plant.transition);
-  const numerator = new Array<number>(n + 1).fill(0);
-  adjugate.forEach((term, k) => {
-    // term multiplies z^(n−1−k): Γ0·z lands on z^(n−k), Γ1 on z^(n−1−k).
-    numerator[k] += quadratic(plant.outputVector, term, plant.inputGainCurrent);
-    numerator[k + 1] += quadratic(plant.outputVector, term, plant.inputGainPrevious);
-  });
-  for (let i = 0; i <= n; i++) numerator[i] += plant.feedthrough * characteristic[i];
-  return { numerator, denominator: characteristic };
-}
+const CONDITION_WITHIN = 1e-3;
 
-/** Relative width to which the largest |z| is bisected. */
-const RADIUS_RELATIVE_TOLERANCE = 1e-9;
-
-/**
- * det(zI − M) = z^n + c1·z^(n−1) + … + cn (returned highest first, with the leading 1) and
- * adj(zI − M) = Σ_k N_k·z^(n−1−k) by the Faddeev–LeVerrier recursion: N_0 = I,
- * c_k = −tr(M·N_(k−1))/k, N_k = M·N_(k−1) + c_k·I (Gantmacher, The Theory of Matrices, §IV.4).
- * For the small plant orders here (n ≤ 6) it is accurate to rounding.
- */
-function faddeevLeVerrier(matrix: readonly (readonly number[])[]): { characteristic: number[]; adjugate: number[][][] } {
-  const n = matrix.length;
-  const characteristic = [1];
-  const adjugate: number[][][] = [];
-  let term: number[][] = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0)));
-  for (let k = 1; k <= n; k++) {
-    adjugate.push(term);
-    const product = multiplyMatrices(matrix, term);
-    let trace = 0;
-    for (let i = 0; i < n; i++) trace += product[i][i];
-    const coefficient = -trace / k;
-    characteristic.push(coefficient);
-    for (let i = 0; i < n; i++) product[i][i] += coefficient;
-    term = product;
+function judgePoles(result: ReturnType<typeof eigenvalues>, size: number, sampleTime_s: number): Omit<SampledVerdict, 'wholeSampleDelay' | 'fractionalDelay_s' | 'closedLoopOrder'> {
+  const eta = backwardError(result, size);
+  let largest: ClosedLoopPole | null = null;
+  let straddling: ClosedLoopPole | null = null;
+  let outside = false;
+  let highFrequency = 0;
+  for (let i = 0; i < size; i++) {
+    const re = result.re[i];
+    const im = result.im[i];
+    if (im < 0) continue; // the pair's upper member stands for both
+    const magnitude = Math.hypot(re, im);
+    if (re <= 0) highFrequency = Math.max(highFrequency, magnitude);
+    const bound = Math.abs(magnitude - 1) > CONDITION_WITHIN ? 0 : Math.min(eigenvalueCondition(result.hessenberg, size, re, im, result.norm) * eta, Number.MAX_VALUE);
+    const pole: ClosedLoopPole = { re, im, magnitude, errorBound: bound };
+    if (largest === null || magnitude > largest.magnitude) largest = pole;
+    if (magnitude - bound > 1) outside = true;
+    else if (magnitude + bound >= 1 && (straddling === null || magnitude > straddling.magnitude)) straddling = pole;
   }
-  return { characteristic, adjugate };
+  const deciding = largest as ClosedLoopPole;
+  const verdict = outside ? 'unstable' : straddling !== null ? 'marginal' : 'stable';
+  const slowest = deciding.magnitude > 0 && deciding.magnitude < 1 ? -sampleTime_s / Math.log(deciding.magnitude) : null;
+  const note =
+    verdict === 'marginal' && straddling !== null
+      ? `the closed-loop pole z = ${formatPole(straddling)} lies ${Math.abs(1 - straddling.magnitude).toExponential(2)} ${straddling.magnitude < 1 ? 'inside' : 'outside'} the unit circle, within its rounding bound ${straddling.errorBound.toExponential(2)}: on the stability boundary`
+      : null;
+  return { verdict, method: 'eigenvalues', largestPoleMagnitude: deciding.magnitude, decidingPole: deciding, slowestTimeConstant_s: slowest, highFrequencyPoleMagnitude: highFrequency, note };
 }
 
-/** cᵀ·M·g for a row vector c, a square matrix M and a column vector g. */
-function quadratic(row: readonly number[], matrix: readonly (readonly number[])[], column: readonly number[]): number {
-  let sum = 0;
-  for (let i = 0; i < row.length; i++) {
-    let inner = 0;
-    for (let j = 0; j < column.length; j++) inner += matrix[i][j] * column[j];
-    sum += row[i] * inner;
-  }
-  return sum;
-}
+const formatPole = (pole: ClosedLoopPole): string => (pole.im === 0 ? pole.re.toPrecision(9) : `${pole.re.toPrecision(9)} ± ${pole.im.toPrecision(9)}j`);

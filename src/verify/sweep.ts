@@ -8,6 +8,7 @@ import { findGainCrossovers, findPhaseCrossovers, type GainCrossover, type Phase
 import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { frequencyBand, sampleLoop, type LoopGrid } from './frequency-grid.js';
 import { compileLoopResponse, type CompiledLoopResponse } from './loop-response.js';
+import { axisToleranceOf, classifyPoles } from './pole-counts.js';
 import type { SampledPlant } from './sampled-plant.js';
 import type { OpenLoop } from './types.js';
 
@@ -20,6 +21,8 @@ export interface Sweep {
   readonly originPoles: number;
   readonly rightHalfPlanePoles: number;
   readonly otherAxisPoles: number;
+  /** The continuous poles of N/D (rad/s), snapped to the axis and origin as classified. */
+  readonly poles: readonly Complex[];
 }
 
 /** Remove common factors s from N and D (exact zeros at the constant end). */
@@ -49,18 +52,10 @@ export function sweepLoop(
 ): Sweep {
   const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? analysisRoots(numerator) : [];
   const poles: Complex[] = denominator.length > 1 ? analysisRoots(denominator) : [];
-  let scale = 1;
-  for (const r of [...zeros, ...poles]) scale = Math.max(scale, Math.hypot(r.re, r.im));
-  const axisTolerance = ANALYSIS_DEFAULTS.axisRelativeTolerance * scale;
-  let originPoles = 0;
-  let rightHalfPlanePoles = 0;
-  let otherAxisPoles = 0;
+  const axisTolerance = axisToleranceOf([...zeros, ...poles]);
+  const classified = classifyPoles(poles, axisTolerance);
+  const { originPoles, rightHalfPlanePoles, otherAxisPoles } = classified;
   const extraFrequencies: number[] = [];
-  for (const p of poles) {
-    if (Math.hypot(p.re, p.im) <= axisTolerance) originPoles++;
-    else if (Math.abs(p.re) <= axisTolerance) otherAxisPoles++;
-    else if (p.re > 0) rightHalfPlanePoles++;
-  }
   for (const r of [...zeros, ...poles]) {
     // Lightly damped roots: make sure the grid sees their resonance or notch.
     if (r.im > Math.abs(r.re)) extraFrequencies.push(r.im - Math.abs(r.re), r.im, r.im + Math.abs(r.re));
@@ -77,9 +72,11 @@ export function sweepLoop(
       relativeTolerance: ANALYSIS_DEFAULTS.frequencyRelativeTolerance,
       refineAbove: ANALYSIS_DEFAULTS.refineAbove,
       refineLargestBelow: ANALYSIS_DEFAULTS.refineLargestBelow,
+      maximumPhaseWraps: ANALYSIS_DEFAULTS.bounds.maximumPhaseWraps,
     }),
     originPoles,
     rightHalfPlanePoles,
     otherAxisPoles,
+    poles: classified.poles,
   };
 }

@@ -147,11 +147,12 @@ describe('refineBreakpoints when the rule itself fails between breakpoints', () 
 });
 
 describe('judgeMargins(margins, thresholds)', () => {
-  it('an unstable loop fails on stability as well as on its margins', () => {
-    // Source: DOMAIN.md §5b — k·e^(−θs)/s is unstable for kθ > π/2.
+  it('an unstable loop fails on stability; its margins do not apply and are not judged', () => {
+    // Source: Åström & Murray 2008 — k·e^(−θs)/s is unstable for kθ > π/2.
     const k = 2 / LOOP_DELAY_S;
     const failures = judgeMargins(integratorLoopMargins(1, { kp: k, ki: 0, kd: 0 }), THRESHOLDS);
-    expect(failures.map((f) => f.criterion)).toEqual(expect.arrayContaining(['stability', 'phaseMargin', 'upperGainMargin']));
+    expect(failures.map((f) => f.criterion)).toEqual(['stability']);
+    expect(failures[0].message).toBe('closed loop unstable');
   });
 
   it('a lower gain margin closer to 0 dB than −6 dB fails; absent margins do not', () => {

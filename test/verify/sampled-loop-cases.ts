@@ -51,7 +51,10 @@ export function randomSampledLoops(seed: number, count: number, maxLoopGain: num
  * `zoh_plant(c)` → (pn, pd, ell): the zero-order-hold equivalent of num/den with delay θ = ell·Ts + m by the
  * modified z-transform, G(z) = [C (zI − Φ)⁻¹ (G0 z + G1) + D] z^-(ell+1) (Franklin, Powell & Workman §4.3.4);
  * `discrete_pid(c)` → (cn, cd, sn, sd, f): C(z) from the continuous PID kp + ki/s + kd·s/(1 + Tf·s), Tf = kd/(kp·N),
- * by substituting s = sn(z)/sd(z) (Tustin or backward Euler); f = sd + Tf·sn is the filter factor (kd ≠ 0).
+ * by substituting s = sn(z)/sd(z) (Tustin or backward Euler); f = sd + Tf·sn is the filter factor (kd ≠ 0);
+ * `closed_loop_matrix(c, added, gain)` → the closed-loop state matrix (plant by scipy.linalg.expm of the augmented
+ * matrix, the delay register, C(z)·gain by scipy.signal.tf2ss) with `added` seconds of delay, and
+ * `largest_pole(c, added, gain)` → the largest |z| of its numpy eigenvalues.
  */
 export const PYTHON_SAMPLED_LOOP = `
 import json, sys
@@ -89,6 +92,52 @@ def discrete_pid(c):
     f = padd(sd, Tf * sn)
     cn = padd(padd(kp * pmul(sn, f), ki * pmul(sd, f)), kd * pmul(sn, sn))
     return cn, pmul(sn, f), sn, sd, f
+_realisations = {}
+def _realisations_of(c):
+    key = (tuple(c['num']), tuple(c['den']), c['Ts'], c['kp'], c['ki'], c['kd'], c['N'], c['method'])
+    if key not in _realisations:
+        A, B, C, D = signal.tf2ss(c['num'], c['den'])
+        A = np.atleast_2d(np.array(A, float)); n = A.shape[0]
+        plant = (A, np.array(B, float).reshape(n, 1), np.array(C, float).reshape(1, n), float(np.ravel(D)[0]))
+        cn, cd, _, _, _ = discrete_pid(c)
+        Ac, Bc, Cc, Dc = signal.tf2ss(np.asarray(cn, float), np.asarray(cd, float))
+        _realisations[key] = (plant, (np.atleast_2d(Ac), np.ravel(Bc), np.ravel(Cc), float(np.ravel(Dc)[0])))
+    return _realisations[key]
+def closed_loop_matrix(c, added=0.0, gain=1.0):
+    """The closed-loop state matrix of plant (zero-order hold with fractional delay, scipy.linalg.expm of the
+    augmented matrix), a register of past outputs for the whole samples, and gain·C(z) by scipy.signal.tf2ss."""
+    T = c['Ts']; theta = c['theta'] + added
+    ell = int(np.floor(theta / T + 1e-9)); m = theta - ell * T
+    if m < 1e-9 * T: m = 0.0
+    (A, B, C, D), (Ac, Bc, Cc, Dc) = _realisations_of(c)
+    n = A.shape[0]
+    def zoh(h):
+        M = np.zeros((n + 1, n + 1)); M[:n, :n] = A * h; M[:n, n:] = B * h
+        E = expm(M)
+        return E[:n, :n], E[:n, n:]
+    Phi_late, G0 = zoh(T - m)
+    if m > 0:
+        Phi_early, Gm = zoh(m); Phi = Phi_late @ Phi_early; G1 = Phi_late @ Gm
+    else:
+        Phi = Phi_late; G1 = np.zeros((n, 1))
+    q = Ac.shape[0] if Ac.size else 0
+    R = ell + 1; N = n + R + q; ic = n + R
+    e = np.zeros(N); e[:n] = -C.ravel(); e[n + R - 1] -= D
+    u = gain * Dc * e
+    if q: u[ic:ic + q] += gain * Cc
+    M = np.zeros((N, N))
+    M[:n, :n] = Phi
+    if ell == 0: M[:n, :] += G0 @ u.reshape(1, -1)
+    else: M[:n, n + ell - 1] += G0.ravel()
+    M[:n, n + R - 1] += G1.ravel()
+    M[n, :] = u
+    for i in range(1, R): M[n + i, n + i - 1] = 1
+    if q:
+        M[ic:ic + q, ic:ic + q] += Ac
+        M[ic:ic + q, :] += Bc.reshape(q, 1) @ e.reshape(1, -1)
+    return M
+def largest_pole(c, added=0.0, gain=1.0):
+    return float(np.max(np.abs(np.linalg.eigvals(closed_loop_matrix(c, added, gain)))))
 data = json.load(sys.stdin)
 out = []
 `;

@@ -3,19 +3,19 @@
  * against independent python computations:
  * - a fine-step Runge–Kutta simulation of the continuous plant with the firmware's PID
  *   difference equation and the hold (the audit cases: divergence or decay);
- * - on 160 random loops, numpy.roots of the closed-loop characteristic polynomial built from
- *   scipy.signal.cont2discrete (zoh) with the delay split into whole samples and a fractional
- *   part by the modified z-transform (Franklin, Powell & Workman, Digital Control of Dynamic
- *   Systems, 3rd ed., §4.3.4), the controller C(z) derived in python from the continuous PID by
- *   the substitution s = (z − 1)/(T·z) (backward Euler) or s = (2/T)(z − 1)/(z + 1) (Tustin).
- * One python call per test.
+ * - on 320 random loops, numpy.linalg.eigvals of the closed-loop state matrix built in python: the
+ *   plant's zero-order hold by scipy.linalg.expm of the augmented matrix with the delay split into
+ *   whole samples and a fractional part (the modified z-transform; Franklin, Powell & Workman, Digital
+ *   Control of Dynamic Systems, 3rd ed., §4.3.4), the controller C(z) derived in python from the
+ *   continuous PID by the substitution s = (z − 1)/(T·z) (backward Euler) or s = (2/T)(z − 1)/(z + 1)
+ *   (Tustin) and realised by scipy.signal.tf2ss;
+ * - the delay margin against a scan of that closed loop with added delay, refined by bisection.
  */
 import { describe, expect, it } from 'vitest';
 import { runPython } from '../helpers/python.js';
 import { PYTHON_SAMPLED_LOOP, randomSampledLoops, type SampledCase } from './sampled-loop-cases.js';
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 import { splitDelay } from '../../src/verify/sampled-verdict.js';
-import { allRootsInside, largestRootMagnitude } from '../../src/verify/unit-circle-roots.js';
 
 /** Fine-step simulation: RK4 on the continuous plant (step h dividing Ts and the fractional delay), discrete PID, hold. */
 const SIMULATE = `
@@ -117,55 +117,147 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
     expect(simulated[2].late / simulated[2].early).toBeLessThan(1e-3);
   });
 
-  it('on 160 random loops the sampled-data verdict, largest |z| and the Nyquist count of poles outside the unit circle equal numpy roots of the modified-z-transform closed loop', () => {
-    const cases = randomSampledLoops(20261201, 160, 6, [0.1, 3]);
-    const reference = runPython<Array<[number, number]>>(
+  it('on 320 seeded random sampled loops — general ones, slow integral poles within 1e-4 of z = 1, |L(e^(jπ))| > 1, and loops placed within 1e-6…1e-4 of the stability boundary — the verdict and largest |z| equal numpy eigenvalues of the closed-loop state matrix built independently in python, and the Nyquist count agrees', () => {
+    const general = randomSampledLoops(20261201, 160, 6, [0.1, 3]);
+    // Integral times of 50–5,000 s at 5–100 ms samples: the slow closed-loop pole sits 1e-6…1e-3 inside z = 1,
+    // where a root test on the characteristic polynomial loses it (the integrators' coefficients cancel).
+    const slowIntegral = randomSampledLoops(20261203, 60, 3, [50, 5000]);
+    // Tustin with a fast derivative filter: the controller's gain near the Nyquist frequency exceeds 1.
+    const fastDerivative = randomSampledLoops(20261204, 50, 3, [0.3, 3]).map((c) => ({ ...c, method: 'tustin' as const, N: 200, kd: c.kd === 0 ? c.kp * 0.1 : c.kd }));
+    const nearBoundarySeeds = randomSampledLoops(20261205, 72, 2, [0.3, 3]);
+    // Python places each of these at |z| = 1 ± δ (δ log-uniform in 1e-6…1e-4) by scaling the whole controller.
+    const placed = runPython<Array<{ factor: number; largest: number } | null>>(
+      `${PYTHON_SAMPLED_LOOP}
+for i, c in enumerate(data):
+    delta = 10 ** (-6 + 2 * ((i * 0.6180339887) % 1)); side = 1 if i % 2 == 0 else -1
+    if largest_pole(c) >= 1: out.append(None); continue
+    low, high = 1.0, None
+    for k in range(14):
+        g = 2.0 ** (k + 1)
+        if largest_pole(c, 0.0, g) >= 1: high = g; break
+        low = g
+    if high is None: out.append(None); continue
+    target = 1 + side * delta
+    for _ in range(52):
+        mid = 0.5 * (low + high)
+        if largest_pole(c, 0.0, mid) < target: low = mid
+        else: high = mid
+    g = low if side < 0 else high
+    out.append({'factor': g, 'largest': largest_pole(c, 0.0, g)})
+print(json.dumps(out))
+`,
+      nearBoundarySeeds,
+    );
+    const nearBoundary = nearBoundarySeeds.flatMap((c, i) => {
+      const p = placed[i];
+      return p === null ? [] : [{ ...c, kp: c.kp * p.factor, ki: c.ki * p.factor, kd: c.kd * p.factor }];
+    });
+    const cases = [...general, ...slowIntegral, ...fastDerivative, ...nearBoundary];
+    const reference = runPython<Array<{ largest: number; nyquistGain: number }>>(
       `${PYTHON_SAMPLED_LOOP}
 for c in data:
-    plant_num, plant_den, _ = zoh_plant(c)
+    pn, pd, ell = zoh_plant(c)
     cn, cd, _, _, _ = discrete_pid(c)
-    char = padd(pmul(cd, plant_den), pmul(cn, plant_num))
-    char = np.trim_zeros(np.real_if_close(char), 'f')
-    roots = np.abs(np.roots(char))
-    out.append([float(np.max(roots)), int(np.sum(roots > 1))])
+    L = np.polyval(cn, -1.0) / np.polyval(cd, -1.0) * np.polyval(pn, -1.0) / np.polyval(pd, -1.0)
+    out.append({'largest': largest_pole(c), 'nyquistGain': float(abs(L))})
 print(json.dumps(out))
 `,
       cases,
     );
     let stable = 0;
-    let compared = 0;
+    let withinOneE4 = 0;
+    let nyquistAboveOne = 0;
     cases.forEach((c, index) => {
-      const ours = analyseLoop({ plant: { numerator: c.num, denominator: c.den, delay_s: c.theta }, pid: { kp: c.kp, ki: c.ki, kd: c.kd, derivativeFilter: c.N }, sampleTime_s: c.Ts, discretisation: c.method });
-      const [largest, outside] = reference[index];
-      if (Math.abs(largest - 1) < 1e-5) return; // too close to the unit circle for either to decide
-      compared++;
-      if (largest < 1) stable++;
+      const ours = analyseLoop(descriptionOf({ ...c, h: 0, duration: 0 }));
+      const { largest, nyquistGain } = reference[index];
       const expected = largest < 1 ? 'stable' : 'unstable';
-      expect({ index, verdict: ours.analysis?.sampledDataVerdict }).toEqual({ index, verdict: expected });
-      expect({ index, largest: ours.analysis!.sampledDataLargestPoleMagnitude! }).toEqual({ index, largest: expect.closeTo(largest, 6) as number });
-      // The Nyquist count on the exact pulse frequency response finds as many closed-loop poles outside the unit circle.
-      expect({ index, outside: ours.analysis?.sampledDataClosedLoopOutsidePoles }).toEqual({ index, outside });
+      if (largest < 1) stable++;
+      if (Math.abs(largest - 1) < 1e-4) withinOneE4++;
+      if (nyquistGain > 1) nyquistAboveOne++;
+      // Source: numpy.linalg.eigvals of the closed-loop state matrix (python, scipy.linalg.expm zero-order hold).
+      const pole = ours.analysis!.sampledDataDecidingPole!;
+      expect({ index, largest: ours.analysis!.sampledDataLargestPoleMagnitude! }).toEqual({ index, largest: expect.closeTo(largest, 8) as number });
       expect({ index, verdict: ours.verdict }).toEqual({ index, verdict: expected });
+      // The rounding bound is far below the distance to the circle (≥ 1e-6 here).
+      expect(pole.errorBound).toBeLessThan(Math.abs(largest - 1) / 10);
+      // The independent Nyquist count on the exact pulse frequency response agrees.
+      expect({ index, agrees: ours.analysis!.crossCheckAgrees }).toEqual({ index, agrees: true });
     });
-    expect(compared).toBeGreaterThanOrEqual(150);
+    expect(nearBoundary.length).toBeGreaterThanOrEqual(36);
+    expect(withinOneE4).toBeGreaterThanOrEqual(80);
+    expect(nyquistAboveOne).toBeGreaterThanOrEqual(10);
     // Both kinds are well represented.
-    expect(stable).toBeGreaterThan(40);
-    expect(compared - stable).toBeGreaterThan(40);
+    expect(stable).toBeGreaterThan(100);
+    expect(cases.length - stable).toBeGreaterThan(60);
   });
-});
 
-describe('Schur–Cohn test of where polynomial roots lie', () => {
-  it('allRootsInside and largestRootMagnitude agree with polynomials built from known roots', () => {
-    // (z − 0.5)(z + 0.9) = z² + 0.4z − 0.45: roots 0.5 and −0.9 (worked by hand).
-    expect(allRootsInside([1, 0.4, -0.45], 1)).toBe(true);
-    expect(allRootsInside([1, 0.4, -0.45], 0.89)).toBe(false);
-    expect(largestRootMagnitude([1, 0.4, -0.45], 1e-12)).toBeCloseTo(0.9, 10);
-    // z² − 1.2z + 0.85: complex pair 0.6 ± 0.7j, |z| = √0.85 (worked by hand).
-    expect(largestRootMagnitude([1, -1.2, 0.85], 1e-12)).toBeCloseTo(Math.sqrt(0.85), 10);
-    // (z − 1.1)(z − 0.2): one root outside the unit circle.
-    expect(allRootsInside([1, -1.3, 0.22], 1)).toBe(false);
-    expect(largestRootMagnitude([1, -1.3, 0.22], 1e-12)).toBeCloseTo(1.1, 10);
-    // z³: every root at 0.
-    expect(largestRootMagnitude([1, 0, 0, 0], 1e-12)).toBe(0);
+  it('the delay margin of a sampled loop equals the smallest added delay that destabilises the exact sampled loop (a scan and bisection in python), within 1 %, and never exceeds it', () => {
+    const candidates = [
+      ...randomSampledLoops(20261206, 160, 3, [0.3, 3]),
+      ...randomSampledLoops(20261207, 80, 3, [0.3, 3]).map((c) => ({ ...c, method: 'tustin' as const, N: 200, kd: c.kd === 0 ? c.kp * 0.1 : c.kd })),
+    ];
+    const analysed = candidates.map((c) => ({ c, ours: analyseLoop(descriptionOf({ ...c, h: 0, duration: 0 })) }));
+    // Margins up to 50 samples keep the reference's closed-loop matrices small (one state per sample of delay).
+    const stableOnes = analysed.filter(({ c, ours }) => ours.verdict === 'stable' && ours.delayMargin_s !== null && ours.delayMargin_s <= 50 * c.Ts);
+    const exact = runPython<Array<number | null>>(
+      `${PYTHON_SAMPLED_LOOP}
+for c in data:
+    T = c['Ts']; hi = c['scanTo']
+    points = sorted(set([k * T / 8 for k in range(1, 17) if k * T / 8 < hi] + list(np.linspace(0, hi, 41)[1:])))
+    previous = 0.0; found = None
+    for d in points:
+        if largest_pole(c, d) >= 1:
+            low, high = previous, d
+            for _ in range(30):
+                mid = 0.5 * (low + high)
+                if largest_pole(c, mid) < 1: low = mid
+                else: high = mid
+            found = low; break
+        previous = d
+    out.append(found)
+print(json.dumps(out))
+`,
+      stableOnes.map(({ c, ours }) => ({ ...c, scanTo: ours.delayMargin_s! * 1.1 + 2 * c.Ts })),
+    );
+    let shortened = 0;
+    stableOnes.forEach(({ ours }, index) => {
+      const reference = exact[index];
+      // Source: python scan of the exact closed loop with added delay (numpy eigenvalues), refined by bisection.
+      expect({ index, found: reference !== null }).toEqual({ index, found: true });
+      expect({ index, ratio: ours.delayMargin_s! / reference! }).toEqual({ index, ratio: expect.closeTo(1, 2) as number });
+      expect(ours.delayMargin_s!).toBeLessThanOrEqual(reference! * 1.001 + 1e-12);
+      if (ours.analysis!.delayMarginNote!.includes('shortened')) shortened++;
+    });
+    expect(stableOnes.length).toBeGreaterThanOrEqual(60);
+    // Some loops are destabilised by less delay than their gain crossovers suggest (|L| ≥ 1 near π/Ts).
+    expect(shortened).toBeGreaterThan(0);
+  });
+
+  it('a delay margin the crossovers overstate: crossovers promise 1.8 s, the exact sampled loop is unstable with about 1.1 samples added and stable again at 2', () => {
+    // Source: python (numpy eigenvalues of the closed loop with added delay). A fast lag 1/(0.05 s + 1) behind half a
+    // sample of delay, a Tustin PID with a fast derivative filter (N = 100) at 10 ms: the fraction of a sample moves the
+    // zero-order-hold equivalent's sampling zero towards z = −1, where the derivative's gain is high.
+    const c: SampledCase = { num: [1], den: [0.05, 1], theta: 0.005, Ts: 0.01, kp: 0.5, ki: 1, kd: 0.025, N: 100, method: 'tustin' };
+    const ours = analyseLoop(descriptionOf({ ...c, h: 0, duration: 0 }));
+    const reference = runPython<{ nominal: number; exact: number; twoSamples: number }>(
+      `${PYTHON_SAMPLED_LOOP}
+c = data
+low, high = 0.0, 0.0125
+for _ in range(40):
+    mid = 0.5 * (low + high)
+    if largest_pole(c, mid) < 1: low = mid
+    else: high = mid
+print(json.dumps({'nominal': largest_pole(c), 'exact': low, 'twoSamples': largest_pole(c, 0.02)}))
+`,
+      c,
+    );
+    expect(reference.nominal).toBeLessThan(1);
+    expect(reference.twoSamples).toBeLessThan(1);
+    expect(ours.verdict).toBe('stable');
+    const crossovers = ours.analysis!.gainCrossovers.map((g) => ((g.phaseMargin_deg > 0 ? g.phaseMargin_deg : g.phaseMargin_deg + 360) * Math.PI) / 180 / g.frequency_radps);
+    expect(Math.min(...crossovers)).toBeGreaterThan(1);
+    expect(ours.delayMargin_s! / reference.exact).toBeCloseTo(1, 2);
+    expect(ours.delayMargin_s!).toBeLessThanOrEqual(reference.exact * 1.001);
+    expect(ours.analysis!.delayMarginNote).toContain('shortened');
   });
 });

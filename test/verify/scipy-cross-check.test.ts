@@ -112,7 +112,7 @@ for case in d['loops']:
     largest = float(np.max(poles.real))
     dm = min(((p if p > 0 else p + 2 * math.pi) / w for p, w in zip(pms, gc)), default=None)
     out.append({'response': {'re': h.real.tolist(), 'im': h.imag.tolist()},
-                'phaseMargin_deg': math.degrees(min(pms)) if pms else None,
+                'phaseMargin_deg': math.degrees(min(abs(p) for p in pms)) if pms else None,
                 'delayMargin_s': dm, 'lowerGainMargin': lower, 'upperGainMargin': upper,
                 'sensitivityPeak': ms, 'largestRealPart': largest, 'rightHalfPlanePoles': int(np.sum(poles.real > 0))})
 print(json.dumps(out))
@@ -180,13 +180,16 @@ describe(`analyseOpenLoop against numpy/scipy on ${CASES} random loops with dela
       const ours = analyseOpenLoop(loop);
       const ref = reference[index];
       const where = { index };
-      expect({ ...where, has: ours.phaseMargin_deg !== null }).toEqual({ ...where, has: ref.phaseMargin_deg !== null });
-      if (ref.phaseMargin_deg !== null) {
-        expect(Math.abs(ours.phaseMargin_deg! - ref.phaseMargin_deg) / Math.max(Math.abs(ref.phaseMargin_deg), 1)).toBeLessThan(MARGIN_TOLERANCE);
-      }
-      // A gain margin is a distance to instability: the reference has one only for a loop its closed-loop
-      // roots call stable (loops too close to the axis for the reference to decide are left out).
+      // Margins are distances to instability: the reference has them only for a loop its closed-loop roots
+      // call stable (loops too close to the axis for the reference to decide are left out). The phase margin
+      // is the smallest phase change, lag or lead, at a crossover: min |180° + ∠L| (never negative when stable).
       if (Math.abs(ref.largestRealPart) >= 1e-4) {
+        const phase = ref.largestRealPart < 0 ? ref.phaseMargin_deg : null;
+        expect({ ...where, has: ours.phaseMargin_deg !== null }).toEqual({ ...where, has: phase !== null });
+        if (phase !== null) {
+          expect(ours.phaseMargin_deg!).toBeGreaterThan(0);
+          expect(Math.abs(ours.phaseMargin_deg! - phase) / Math.max(phase, 1)).toBeLessThan(MARGIN_TOLERANCE);
+        }
         const upper = ref.largestRealPart < 0 ? ref.upperGainMargin : null;
         const lower = ref.largestRealPart < 0 ? ref.lowerGainMargin : null;
         expect({ ...where, has: ours.upperGainMargin_dB !== null }).toEqual({ ...where, has: upper !== null });

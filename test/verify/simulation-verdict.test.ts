@@ -27,7 +27,7 @@
  * - stable if last ≤ DECAY_RATIO × first (the response decayed);
  * - unstable if last ≥ GROWTH_RATIO × first, or |state| exceeded DIVERGED × its start value;
  * - otherwise inconclusive (closed-loop damping too small to decide within the horizon): skipped
- *   and counted. A loop our code calls 'undetermined' is skipped and counted too.
+ *   and counted. A loop our code calls 'marginal' is skipped and counted too.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runPython } from '../helpers/python.js';
@@ -254,16 +254,16 @@ describe(`continuous-loop verdicts against an RK4 closed-loop simulation with a 
 
   // Measured (seed 20261214, 120 loops): 87 decided by the simulation — 65 stable, 22 unstable — all equal to
   // our verdict; 33 inconclusive (most with the horizon cut by STEP_CAP, the rest near the boundary); none
-  // 'undetermined'. Decided per kind: first order 18, second order 17, resonant 16, non-minimum phase 16,
+  // 'marginal'. Decided per kind: first order 18, second order 17, resonant 16, non-minimum phase 16,
   // open-loop unstable 12, integrating 8.
   it('on every loop the simulation decides, our verdict equals the simulation; at least 50 loops decided, both verdicts well represented', () => {
-    const tally = { stable: 0, unstable: 0, inconclusive: 0, undetermined: 0 };
+    const tally = { stable: 0, unstable: 0, inconclusive: 0, marginal: 0 };
     const decidedPerKind = new Map<string, number>();
     cases.forEach((c, index) => {
       const simulation = simulated[index];
       const verdict = ours[index].verdict;
-      if (verdict === 'undetermined') {
-        tally.undetermined++;
+      if (verdict === 'marginal') {
+        tally.marginal++;
         return;
       }
       if (simulation.verdict === 'inconclusive') {
@@ -283,7 +283,7 @@ describe(`continuous-loop verdicts against an RK4 closed-loop simulation with a 
   });
 
   it('negative plant gains are among the decided loops (ISO 8855 sign conventions differ between standards)', () => {
-    const decidedNegative = cases.filter((c, index) => c.numerator[c.numerator.length - 1] < 0 && simulated[index].verdict !== 'inconclusive' && ours[index].verdict !== 'undetermined');
+    const decidedNegative = cases.filter((c, index) => c.numerator[c.numerator.length - 1] < 0 && simulated[index].verdict !== 'inconclusive' && ours[index].verdict !== 'marginal');
     expect(decidedNegative.length).toBeGreaterThanOrEqual(10);
   });
 });

@@ -46,15 +46,19 @@ function filterOption(value: unknown): number {
   return parsed;
 }
 
-/** The evidence behind the verdict: the sampled loop's two exact tests, or the continuous loop's Padé poles and Nyquist count. */
+/** The evidence behind the verdict: the deciding test and its cross-check. */
 const verdictEvidence = (margins: LoopMargins): string => {
   const analysis = margins.analysis;
   if (analysis === undefined) return '';
-  const note = analysis.encirclementNote ? ` — ${analysis.encirclementNote}` : '';
+  const count = analysis.encirclementVerdict;
+  const agreement = analysis.crossCheckAgrees === null ? `cross-check not counted${analysis.encirclementNote ? ` (${analysis.encirclementNote})` : ''}` : analysis.crossCheckAgrees ? `the Nyquist count agrees (${count})` : `THE NYQUIST COUNT DISAGREES (${count}) — please report this loop`;
   if (analysis.sampledDataVerdict !== undefined) {
-    return ` (sampled-data poles: ${analysis.sampledDataVerdict}, largest |z| ${analysis.sampledDataLargestPoleMagnitude?.toFixed(4)}; Nyquist count on the pulse frequency response: ${analysis.encirclementVerdict}${note})`;
+    const pole = analysis.sampledDataDecidingPole;
+    const poleText = pole === null || pole === undefined ? '' : `, largest |z| ${pole.magnitude.toFixed(6)}${pole.errorBound > 0 ? ` (rounding bound ${pole.errorBound.toExponential(1)})` : ''}`;
+    const slowest = analysis.sampledDataSlowestTimeConstant_s;
+    return ` — decided by the ${analysis.decidedBy}${poleText}${slowest === null || slowest === undefined ? '' : `, slowest time constant ${slowest.toPrecision(3)} s`}; ${agreement}`;
   }
-  return ` (closed-loop poles: ${analysis.closedLoopPoleVerdict}, Padé order ${analysis.padeOrder}; Nyquist count: ${analysis.encirclementVerdict}${note})`;
+  return ` — decided by the ${analysis.decidedBy}${analysis.padeOrder > 0 ? ` of order ${analysis.padeOrder}` : ''}; ${agreement}`;
 };
 
 const format = (value: number | null, digits: number, unit: string): string => (value === null ? 'none' : `${value.toFixed(digits)} ${unit}`);
@@ -68,15 +72,21 @@ export const command: CommandModule = {
       .usage(
         'speedband stability (--numerator "..." --denominator "..." [--delay-s θ] | --gain K --time-constant-s T --dead-time-s L) --kp KP [--ki KI] [--kd KD] [options]\n\n' +
           'The plant is G(s) = N(s)/D(s)·e^(−θs) with coefficients highest power first, or the FOPDT K·e^(−Ls)/(Ts + 1). ' +
-          'The loop L = C·G is analysed with the exact delay: every gain crossover (phase margin, delay margin = min PM/ω), every crossing of −180° ' +
-          '(upper gain margin: raising the gain by it destabilises; lower gain margin, negative dB: reducing the gain by it destabilises; ' +
-          'on a loop that is not stable gain margins do not apply and are not given), ' +
-          'the peaks Ms = max|1/(1 + L)| and Mt = max|L/(1 + L)|, and a verdict from the closed-loop poles (Padé approximant) and the Nyquist ' +
-          'encirclement count, which must agree. With --sample-time-s the controller is the discrete PID the firmware runs and the loop is analysed exactly as sampled: ' +
-          'the zero-order-hold equivalent of the plant with its fractional delay; margins, Ms and Mt on its frequency response up to the Nyquist frequency π/Ts ' +
-          '(the delay margin in seconds of continuous time; the firmware adds delay in whole samples only), and the verdict from its closed-loop poles inside |z| < 1, ' +
-          'which the Nyquist count must confirm.\n\n' +
-          'Exit code: 0 when the loop is stable, 1 when it is unstable or the two tests disagree (undetermined), 2 for bad input.',
+          'The loop L = C·G is analysed with the exact delay.\n\n' +
+          'Verdict: decided by the closed-loop poles (a continuous loop: with the delay as a Padé approximant of an order chosen from the band; ' +
+          'with --sample-time-s: the exact closed-loop poles in z of the discrete PID the firmware runs, the plant through a zero-order hold with its ' +
+          'fractional delay, each pole with a bound on its rounding error), cross-checked by the Nyquist encirclement count. "marginal" means a ' +
+          'closed-loop pole lies on the stability boundary within that numerical tolerance; the output names it.\n\n' +
+          'Margins are distances to instability, given only for a stable loop:\n' +
+          '  phase margin  the smallest phase change, lag (as usual) or lead, that puts L on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], ' +
+          'the smallest over the crossovers, with its frequency; never negative on a stable loop (phase margin as the phase lag to the stability ' +
+          'limit: Åström & Murray, Feedback Systems, 2008, §9.3; lead counted too)\n' +
+          '  upper gain margin  raising the gain by this destabilises (dB)\n' +
+          '  lower gain margin  reducing the gain by this destabilises (negative dB; conditionally stable loops)\n' +
+          '  delay margin  the smallest added delay that destabilises: phase lag over frequency at the gain crossovers, confirmed (or shortened) ' +
+          'by the exact verdict of the loop with that delay added (a sampled loop: any fraction of a sample)\n' +
+          '  Ms = max|1/(1 + L)|, Mt = max|L/(1 + L)|  (a sampled loop: on its frequency response up to the Nyquist frequency π/Ts)\n\n' +
+          'Exit code: 0 when the loop is stable, 1 when it is unstable or marginal, 2 for bad input.',
       )
       .option('numerator', { type: 'string', describe: 'Plant numerator coefficients, highest power first, e.g. "2 1" (a leading minus needs the = form: --numerator="-2 1")' })
       .option('denominator', { type: 'string', describe: 'Plant denominator coefficients, highest power first, e.g. "1 3 2"' })
@@ -143,14 +153,17 @@ export const command: CommandModule = {
     } else {
       const lines = [
         `verdict: ${margins.verdict}${verdictEvidence(margins)}`,
-        `phase margin:        ${format(margins.phaseMargin_deg, 2, '°')}${at(margins.phaseMarginFrequency_radps)}`,
         ...(margins.stable
           ? [
+              `phase margin:        ${format(margins.phaseMargin_deg, 2, '°')}${at(margins.phaseMarginFrequency_radps)}${margins.phaseMarginDirection === 'lead' ? '  (a phase LEAD of this much reaches −1)' : ''}`,
               `upper gain margin:   ${format(margins.upperGainMargin_dB, 2, 'dB')}${at(margins.upperGainMarginFrequency_radps)}${margins.upperGainMargin_dB === null ? '' : '  (raising the gain by this destabilises)'}`,
               `lower gain margin:   ${format(margins.lowerGainMargin_dB, 2, 'dB')}${at(margins.lowerGainMarginFrequency_radps)}${margins.lowerGainMargin_dB === null ? '' : '  (reducing the gain by this destabilises)'}`,
+              `delay margin:        ${format(margins.delayMargin_s, 4, 's')}${at(margins.delayMarginFrequency_radps)}`,
             ]
-          : ['gain margins:        the loop is not stable: gain margins do not apply']),
-        `delay margin:        ${format(margins.delayMargin_s, 4, 's')}${at(margins.delayMarginFrequency_radps)}`,
+          : [
+              `margins:             the loop is not stable: phase, gain and delay margins do not apply${margins.analysis?.verdictNote ? ` (${margins.analysis.verdictNote})` : ''}`,
+              ...(margins.analysis?.gainCrossovers ?? []).map((c) => `  gain crossover at ${c.frequency_radps.toPrecision(4)} rad/s: 180° + ∠L = ${c.phaseMargin_deg.toFixed(2)}°`),
+            ]),
         `sensitivity peak Ms: ${margins.sensitivityPeak.toFixed(3)}${at(margins.sensitivityPeakFrequency_radps)}`,
         `complementary peak:  ${margins.complementarySensitivityPeak.toFixed(3)}${at(margins.complementarySensitivityPeakFrequency_radps)}`,
       ];
