@@ -115,7 +115,10 @@ export function buildSchedule(input: BuildInput): BuildResult {
 
   const inputs = [
     { file: vehicleFile, sha256: sha256Hex(readFileSync(vehicleFile)), role: 'vehicle' },
-    ...models.inputs.map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
+    // Logs in the canonical order of identification (by content hash), whatever order a models file lists them in.
+    ...[...models.inputs]
+      .sort((a, b) => (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : a.file < b.file ? -1 : a.file > b.file ? 1 : 0))
+      .map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
     ...(input.planFile === undefined ? [] : [{ file: input.planFile, sha256: sha256Hex(readFileSync(input.planFile)), role: 'plan' }]),
   ];
   const schedule = assembleSchedule({

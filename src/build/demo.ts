@@ -15,6 +15,7 @@ import type { DenseCheckResult } from '../schedule/types.js';
 import { writeSchedule } from '../schedule/schedule-file.js';
 import { buildSchedule, type BuildResult } from './build-schedule.js';
 import { recheckSchedule, recordedCheckModel } from './recheck-schedule.js';
+import { quoted } from '../core/quote.js';
 
 /** The bundled vehicles folder (…/vehicles beside src/ or dist/). */
 export const BUNDLED_VEHICLES = fileURLToPath(new URL('../../vehicles/', import.meta.url));
@@ -46,7 +47,7 @@ export function bundledVehicles(): string[] {
 export function runDemo(input: DemoInput): DemoResult {
   const known = bundledVehicles();
   if (!known.includes(input.vehicle)) {
-    throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle "${input.vehicle}" — choose one of: ${known.join(', ')}`);
+    throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle ${quoted(input.vehicle)} — choose one of: ${known.join(', ')}`);
   }
   // Paths relative to the working directory, so that the files written name no machine paths.
   const folder = relative(process.cwd(), join(BUNDLED_VEHICLES, input.vehicle)) || '.';

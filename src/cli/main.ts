@@ -1,5 +1,7 @@
 import yargs from 'yargs';
+import { isatty } from 'node:tty';
 import { describeError, isSpeedbandError } from '../core/errors.js';
+import { safeMessageText } from '../core/quote.js';
 import { COMMANDS } from './commands/index.js';
 import { EXIT, processIo, type CommandIo } from './io.js';
 import { SAFETY_EPILOGUE } from './safety.js';
@@ -24,7 +26,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
     .strict()
     .recommendCommands()
     .demandCommand(1, 'Name a command: speedband <command> --help shows its options.')
-    .wrap(Math.min(110, process.stdout.columns ?? 100))
+    .wrap(Math.min(110, terminalColumns() ?? 100))
     .epilogue(SAFETY_EPILOGUE)
     .exitProcess(false)
     .fail((message, error) => {
@@ -55,19 +57,24 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
     return exitCode;
   } catch (error) {
     if (error instanceof UsageError) {
-      io.stderr(`speedband: ${error.message}\n`);
+      io.stderr(`speedband: ${safeMessageText(error.message)}\n`);
       return EXIT.badInput;
     }
     if (isSpeedbandError(error)) {
       io.stderr(`speedband: ${describeError(error)}\n`);
       return EXIT.badInput;
     }
-    io.stderr(`speedband: internal error — please report it with the command you ran:\n${(error as Error).stack ?? String(error)}\n`);
+    io.stderr(`speedband: internal error — please report it with the command you ran:\n${safeMessageText((error as Error).stack ?? String(error))}\n`);
     return EXIT.internal;
   }
 }
 
 class UsageError extends Error {}
+
+/** The terminal's width when standard output is one (process.stdout is not touched otherwise: io writes to fd 1 itself). */
+function terminalColumns(): number | undefined {
+  return isatty(1) ? process.stdout.columns : undefined;
+}
 
 /**
  * yargs renders the whole help text after starting every command, to show it should the command

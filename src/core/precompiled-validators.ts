@@ -7385,7 +7385,8 @@ return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":1},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","undetermined"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"}}},"plan":{"type":"object"}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","additionalProperties":false,"required":["loop","controller","interpolation","breakpoints"],"properties":{"loop":{"type":"string","pattern":"^[0-9a-f]{64}$"},"controller":{"type":"string","pattern":"^[0-9a-f]{64}$"},"interpolation":{"type":"string","pattern":"^[0-9a-f]{64}$"},"breakpoints":{"type":"array","items":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":2},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","undetermined"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const pattern5 = new RegExp("^/", "u");
 
 function validate5(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
@@ -7546,8 +7547,8 @@ errors++;
 }
 }
 if(data.formatVersion !== undefined){
-if(1 !== data.formatVersion){
-const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 1},message:"must be equal to constant"};
+if(2 !== data.formatVersion){
+const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 2},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -9966,7 +9967,7 @@ vErrors.push(err219);
 errors++;
 }
 for(const key20 in data93){
-if(!((((((key20 === "tool") || (key20 === "toolVersion")) || (key20 === "inputs")) || (key20 === "model")) || (key20 === "rule")) || (key20 === "plan"))){
+if(!(((((((key20 === "tool") || (key20 === "toolVersion")) || (key20 === "inputs")) || (key20 === "model")) || (key20 === "rule")) || (key20 === "plan")) || (key20 === "handEdits"))){
 const err220 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err220];
@@ -10233,9 +10234,15 @@ vErrors.push(err241);
 errors++;
 }
 }
-}
-else {
-const err242 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data93.handEdits !== undefined){
+let data107 = data93.handEdits;
+if(Array.isArray(data107)){
+const len6 = data107.length;
+for(let i6=0; i6<len6; i6++){
+let data108 = data107[i6];
+if(data108 && typeof data108 == "object" && !Array.isArray(data108)){
+if(data108.statement === undefined){
+const err242 = {instancePath:instancePath+"/provenance/handEdits/" + i6,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
 if(vErrors === null){
 vErrors = [err242];
 }
@@ -10244,12 +10251,8 @@ vErrors.push(err242);
 }
 errors++;
 }
-}
-if(data.cautions !== undefined){
-let data107 = data.cautions;
-if(Array.isArray(data107)){
-if(data107.length < 1){
-const err243 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data108.changedSections === undefined){
+const err243 = {instancePath:instancePath+"/provenance/handEdits/" + i6,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
 if(vErrors === null){
 vErrors = [err243];
 }
@@ -10258,10 +10261,8 @@ vErrors.push(err243);
 }
 errors++;
 }
-const len6 = data107.length;
-for(let i6=0; i6<len6; i6++){
-if(typeof data107[i6] !== "string"){
-const err244 = {instancePath:instancePath+"/cautions/" + i6,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data108.toolVersion === undefined){
+const err244 = {instancePath:instancePath+"/provenance/handEdits/" + i6,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
 if(vErrors === null){
 vErrors = [err244];
 }
@@ -10270,10 +10271,8 @@ vErrors.push(err244);
 }
 errors++;
 }
-}
-}
-else {
-const err245 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data108.model === undefined){
+const err245 = {instancePath:instancePath+"/provenance/handEdits/" + i6,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err245];
 }
@@ -10282,12 +10281,8 @@ vErrors.push(err245);
 }
 errors++;
 }
-}
-if(data.checksum !== undefined){
-let data109 = data.checksum;
-if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
-if(data109.algorithm === undefined){
-const err246 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(data108.gridSize === undefined){
+const err246 = {instancePath:instancePath+"/provenance/handEdits/" + i6,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err246];
 }
@@ -10296,8 +10291,9 @@ vErrors.push(err246);
 }
 errors++;
 }
-if(data109.canonicalForm === undefined){
-const err247 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+for(const key23 in data108){
+if(!(((((key23 === "statement") || (key23 === "changedSections")) || (key23 === "toolVersion")) || (key23 === "model")) || (key23 === "gridSize"))){
+const err247 = {instancePath:instancePath+"/provenance/handEdits/" + i6,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err247];
 }
@@ -10306,8 +10302,10 @@ vErrors.push(err247);
 }
 errors++;
 }
-if(data109.value === undefined){
-const err248 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+if(data108.statement !== undefined){
+if(typeof data108.statement !== "string"){
+const err248 = {instancePath:instancePath+"/provenance/handEdits/" + i6+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err248];
 }
@@ -10316,8 +10314,14 @@ vErrors.push(err248);
 }
 errors++;
 }
-if(data109.sections === undefined){
-const err249 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+if(data108.changedSections !== undefined){
+let data110 = data108.changedSections;
+if(Array.isArray(data110)){
+const len7 = data110.length;
+for(let i7=0; i7<len7; i7++){
+if(typeof data110[i7] !== "string"){
+const err249 = {instancePath:instancePath+"/provenance/handEdits/" + i6+"/changedSections/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err249];
 }
@@ -10326,9 +10330,10 @@ vErrors.push(err249);
 }
 errors++;
 }
-for(const key23 in data109){
-if(!((((key23 === "algorithm") || (key23 === "canonicalForm")) || (key23 === "value")) || (key23 === "sections"))){
-const err250 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
+}
+}
+else {
+const err250 = {instancePath:instancePath+"/provenance/handEdits/" + i6+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err250];
 }
@@ -10338,9 +10343,9 @@ vErrors.push(err250);
 errors++;
 }
 }
-if(data109.algorithm !== undefined){
-if("SHA-256" !== data109.algorithm){
-const err251 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(data108.toolVersion !== undefined){
+if(typeof data108.toolVersion !== "string"){
+const err251 = {instancePath:instancePath+"/provenance/handEdits/" + i6+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err251];
 }
@@ -10350,9 +10355,9 @@ vErrors.push(err251);
 errors++;
 }
 }
-if(data109.canonicalForm !== undefined){
-if(typeof data109.canonicalForm !== "string"){
-const err252 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data108.model !== undefined){
+if(typeof data108.model !== "string"){
+const err252 = {instancePath:instancePath+"/provenance/handEdits/" + i6+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err252];
 }
@@ -10362,11 +10367,10 @@ vErrors.push(err252);
 errors++;
 }
 }
-if(data109.value !== undefined){
-let data112 = data109.value;
-if(typeof data112 === "string"){
-if(!pattern0.test(data112)){
-const err253 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data108.gridSize !== undefined){
+let data114 = data108.gridSize;
+if(!(((typeof data114 == "number") && (!(data114 % 1) && !isNaN(data114))) && (isFinite(data114)))){
+const err253 = {instancePath:instancePath+"/provenance/handEdits/" + i6+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err253];
 }
@@ -10375,9 +10379,9 @@ vErrors.push(err253);
 }
 errors++;
 }
-}
-else {
-const err254 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if((typeof data114 == "number") && (isFinite(data114))){
+if(data114 < 1 || isNaN(data114)){
+const err254 = {instancePath:instancePath+"/provenance/handEdits/" + i6+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err254];
 }
@@ -10387,11 +10391,10 @@ vErrors.push(err254);
 errors++;
 }
 }
-if(data109.sections !== undefined){
-let data113 = data109.sections;
-if(data113 && typeof data113 == "object" && !Array.isArray(data113)){
-if(data113.loop === undefined){
-const err255 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "loop"},message:"must have required property '"+"loop"+"'"};
+}
+}
+else {
+const err255 = {instancePath:instancePath+"/provenance/handEdits/" + i6,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err255];
 }
@@ -10400,8 +10403,10 @@ vErrors.push(err255);
 }
 errors++;
 }
-if(data113.controller === undefined){
-const err256 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "controller"},message:"must have required property '"+"controller"+"'"};
+}
+}
+else {
+const err256 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err256];
 }
@@ -10410,8 +10415,10 @@ vErrors.push(err256);
 }
 errors++;
 }
-if(data113.interpolation === undefined){
-const err257 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "interpolation"},message:"must have required property '"+"interpolation"+"'"};
+}
+}
+else {
+const err257 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err257];
 }
@@ -10420,8 +10427,12 @@ vErrors.push(err257);
 }
 errors++;
 }
-if(data113.breakpoints === undefined){
-const err258 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
+}
+if(data.cautions !== undefined){
+let data115 = data.cautions;
+if(Array.isArray(data115)){
+if(data115.length < 1){
+const err258 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err258];
 }
@@ -10430,9 +10441,10 @@ vErrors.push(err258);
 }
 errors++;
 }
-for(const key24 in data113){
-if(!((((key24 === "loop") || (key24 === "controller")) || (key24 === "interpolation")) || (key24 === "breakpoints"))){
-const err259 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key24},message:"must NOT have additional properties"};
+const len8 = data115.length;
+for(let i8=0; i8<len8; i8++){
+if(typeof data115[i8] !== "string"){
+const err259 = {instancePath:instancePath+"/cautions/" + i8,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err259];
 }
@@ -10442,11 +10454,9 @@ vErrors.push(err259);
 errors++;
 }
 }
-if(data113.loop !== undefined){
-let data114 = data113.loop;
-if(typeof data114 === "string"){
-if(!pattern0.test(data114)){
-const err260 = {instancePath:instancePath+"/checksum/sections/loop",schemaPath:"#/properties/checksum/properties/sections/properties/loop/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+}
+else {
+const err260 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err260];
 }
@@ -10456,8 +10466,11 @@ vErrors.push(err260);
 errors++;
 }
 }
-else {
-const err261 = {instancePath:instancePath+"/checksum/sections/loop",schemaPath:"#/properties/checksum/properties/sections/properties/loop/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data.checksum !== undefined){
+let data117 = data.checksum;
+if(data117 && typeof data117 == "object" && !Array.isArray(data117)){
+if(data117.algorithm === undefined){
+const err261 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
 if(vErrors === null){
 vErrors = [err261];
 }
@@ -10466,12 +10479,8 @@ vErrors.push(err261);
 }
 errors++;
 }
-}
-if(data113.controller !== undefined){
-let data115 = data113.controller;
-if(typeof data115 === "string"){
-if(!pattern0.test(data115)){
-const err262 = {instancePath:instancePath+"/checksum/sections/controller",schemaPath:"#/properties/checksum/properties/sections/properties/controller/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data117.canonicalForm === undefined){
+const err262 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
 if(vErrors === null){
 vErrors = [err262];
 }
@@ -10480,9 +10489,8 @@ vErrors.push(err262);
 }
 errors++;
 }
-}
-else {
-const err263 = {instancePath:instancePath+"/checksum/sections/controller",schemaPath:"#/properties/checksum/properties/sections/properties/controller/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data117.value === undefined){
+const err263 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err263];
 }
@@ -10491,12 +10499,8 @@ vErrors.push(err263);
 }
 errors++;
 }
-}
-if(data113.interpolation !== undefined){
-let data116 = data113.interpolation;
-if(typeof data116 === "string"){
-if(!pattern0.test(data116)){
-const err264 = {instancePath:instancePath+"/checksum/sections/interpolation",schemaPath:"#/properties/checksum/properties/sections/properties/interpolation/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data117.sections === undefined){
+const err264 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
 if(vErrors === null){
 vErrors = [err264];
 }
@@ -10505,9 +10509,9 @@ vErrors.push(err264);
 }
 errors++;
 }
-}
-else {
-const err265 = {instancePath:instancePath+"/checksum/sections/interpolation",schemaPath:"#/properties/checksum/properties/sections/properties/interpolation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key24 in data117){
+if(!((((key24 === "algorithm") || (key24 === "canonicalForm")) || (key24 === "value")) || (key24 === "sections"))){
+const err265 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key24},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err265];
 }
@@ -10517,15 +10521,9 @@ vErrors.push(err265);
 errors++;
 }
 }
-if(data113.breakpoints !== undefined){
-let data117 = data113.breakpoints;
-if(Array.isArray(data117)){
-const len7 = data117.length;
-for(let i7=0; i7<len7; i7++){
-let data118 = data117[i7];
-if(typeof data118 === "string"){
-if(!pattern0.test(data118)){
-const err266 = {instancePath:instancePath+"/checksum/sections/breakpoints/" + i7,schemaPath:"#/properties/checksum/properties/sections/properties/breakpoints/items/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data117.algorithm !== undefined){
+if("SHA-256" !== data117.algorithm){
+const err266 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err266];
 }
@@ -10535,8 +10533,9 @@ vErrors.push(err266);
 errors++;
 }
 }
-else {
-const err267 = {instancePath:instancePath+"/checksum/sections/breakpoints/" + i7,schemaPath:"#/properties/checksum/properties/sections/properties/breakpoints/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data117.canonicalForm !== undefined){
+if(typeof data117.canonicalForm !== "string"){
+const err267 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err267];
 }
@@ -10546,9 +10545,11 @@ vErrors.push(err267);
 errors++;
 }
 }
-}
-else {
-const err268 = {instancePath:instancePath+"/checksum/sections/breakpoints",schemaPath:"#/properties/checksum/properties/sections/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data117.value !== undefined){
+let data120 = data117.value;
+if(typeof data120 === "string"){
+if(!pattern0.test(data120)){
+const err268 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
 if(vErrors === null){
 vErrors = [err268];
 }
@@ -10558,9 +10559,8 @@ vErrors.push(err268);
 errors++;
 }
 }
-}
 else {
-const err269 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err269 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err269];
 }
@@ -10570,9 +10570,14 @@ vErrors.push(err269);
 errors++;
 }
 }
-}
-else {
-const err270 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data117.sections !== undefined){
+let data121 = data117.sections;
+if(data121 && typeof data121 == "object" && !Array.isArray(data121)){
+for(const key25 in data121){
+const _errs255 = errors;
+if(typeof key25 === "string"){
+if(!pattern5.test(key25)){
+const err270 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key25};
 if(vErrors === null){
 vErrors = [err270];
 }
@@ -10582,14 +10587,75 @@ vErrors.push(err270);
 errors++;
 }
 }
-}
-else {
-const err271 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+var valid43 = _errs255 === errors;
+if(!valid43){
+const err271 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key25},message:"property name must be valid"};
 if(vErrors === null){
 vErrors = [err271];
 }
 else {
 vErrors.push(err271);
+}
+errors++;
+}
+}
+for(const key26 in data121){
+let data122 = data121[key26];
+if(typeof data122 === "string"){
+if(!pattern0.test(data122)){
+const err272 = {instancePath:instancePath+"/checksum/sections/" + key26.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err272];
+}
+else {
+vErrors.push(err272);
+}
+errors++;
+}
+}
+else {
+const err273 = {instancePath:instancePath+"/checksum/sections/" + key26.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err273];
+}
+else {
+vErrors.push(err273);
+}
+errors++;
+}
+}
+}
+else {
+const err274 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err274];
+}
+else {
+vErrors.push(err274);
+}
+errors++;
+}
+}
+}
+else {
+const err275 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err275];
+}
+else {
+vErrors.push(err275);
+}
+errors++;
+}
+}
+}
+else {
+const err276 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err276];
+}
+else {
+vErrors.push(err276);
 }
 errors++;
 }

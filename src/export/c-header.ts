@@ -15,6 +15,7 @@ import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { GainTable } from '../schedule/types.js';
 import { toAscii } from './ascii.js';
 import { quantiseTable, type FixedPointFormat, type QuantisedTable } from './fixed-point.js';
+import { quoted } from '../core/quote.js';
 
 export interface CHeaderOptions {
   readonly fixedPoint?: FixedPointFormat;
@@ -47,7 +48,7 @@ function comment(lines: readonly string[]): string {
 export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): CHeaderExport {
   const prefix = options.prefix ?? C_HEADER_DEFAULTS.prefix;
   if (!/^[A-Za-z_][A-Za-z0-9_]*$/.test(prefix)) {
-    throw new SpeedbandError('export.prefixInvalid', `"${prefix}" is not a C identifier — use letters, digits and underscores, not starting with a digit`);
+    throw new SpeedbandError('export.prefixInvalid', `${quoted(prefix)} is not a C identifier — use letters, digits and underscores, not starting with a digit`);
   }
   const upper = prefix.toUpperCase();
   const settings = scheduleLookupSettings(schedule);

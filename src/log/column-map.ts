@@ -5,6 +5,7 @@
  */
 import { SpeedbandError } from '../core/errors.js';
 import { closestName } from './closest-name.js';
+import { QUOTED_TEXT_MAX, cutText, escapeControlCharacters, quoted } from '../core/quote.js';
 import {
   CHANNELS,
   CHANNEL_DEFINITIONS,
@@ -77,8 +78,8 @@ export function resolveColumns(header: readonly string[], map: ColumnMap, steeri
     if (second >= 0) {
       throw new SpeedbandError(
         'log.duplicateColumn',
-        `the header names column "${name}" twice (columns ${index + 1} and ${second + 1}) — rename one so that ${channel} is unambiguous`,
-        { location: { file, line: 1, column: `${second + 1} (${name})` }, details: { channel, name } },
+        `the header names column ${quoted(name)} twice (columns ${index + 1} and ${second + 1}) — rename one so that ${channel} is unambiguous`,
+        { location: { file, line: 1, column: `${second + 1} (${cutText(escapeControlCharacters(name), QUOTED_TEXT_MAX)})` }, details: { channel, name } },
       );
     }
     columns.push({ channel, header: name, index, unit, toSi: unitFactor(channel, unit, steeringRatio, file) });
@@ -93,7 +94,7 @@ function unitFactor(channel: ChannelName, unit: LogUnit, steeringRatio: number |
   if (definition.quantity !== CHANNEL_DEFINITIONS[channel].quantity) {
     throw new SpeedbandError(
       'log.unitMismatch',
-      `unit "${unit}" is not a unit of ${CHANNEL_DEFINITIONS[channel].describe} (${channel}) — use one of ${unitsForChannel(channel).join(', ')}`,
+      `unit ${quoted(unit)} is not a unit of ${CHANNEL_DEFINITIONS[channel].describe} (${channel}) — use one of ${unitsForChannel(channel).join(', ')}`,
       { location: { file }, details: { channel, unit } },
     );
   }
@@ -110,15 +111,24 @@ function unitFactor(channel: ChannelName, unit: LogUnit, steeringRatio: number |
   return definition.toSi / steeringRatio;
 }
 
+/** At most this many header names are listed in a message. */
+const LISTED_HEADER_NAMES = 30;
+
+/** Header names for a message: each cut and escaped, at most LISTED_HEADER_NAMES of them. */
+function listOfNames(header: readonly string[]): string {
+  const shown = header.slice(0, LISTED_HEADER_NAMES).map((name) => escapeControlCharacters(cutText(name, QUOTED_TEXT_MAX)));
+  return header.length > LISTED_HEADER_NAMES ? `${shown.join(', ')}, … (${header.length} columns)` : shown.join(', ');
+}
+
 function missingColumn(channel: ChannelName, name: string, header: readonly string[], file: string): SpeedbandError {
   const suggestion = closestName(name, header);
   const hint =
     suggestion === null
       ? `add the column, or map it with --column ${channel}=HEADER[:UNIT] or a log profile`
-      : `did you mean "${suggestion}"? If so, rename it or map it with --column ${channel}=${suggestion}[:UNIT]`;
+      : `did you mean ${quoted(suggestion)}? If so, rename it or map it with --column ${channel}=${cutText(suggestion, QUOTED_TEXT_MAX)}[:UNIT]`;
   return new SpeedbandError(
     'log.missingColumn',
-    `no column "${name}" (${CHANNEL_DEFINITIONS[channel].describe}) in the header; found: ${header.join(', ')} — ${hint}`,
-    { location: { file, line: 1 }, details: { channel, name, suggestion, header } },
+    `no column ${quoted(name)} (${CHANNEL_DEFINITIONS[channel].describe}) in the header; found: ${listOfNames(header)} — ${hint}`,
+    { location: { file, line: 1 }, details: { channel, name: cutText(name, QUOTED_TEXT_MAX), suggestion, header: header.slice(0, LISTED_HEADER_NAMES).map((entry) => cutText(entry, QUOTED_TEXT_MAX)) } },
   );
 }

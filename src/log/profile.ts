@@ -19,6 +19,7 @@ import { validateLogProfile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import { CHANNELS, LOG_UNITS, isChannelName, isLogUnit, type ChannelName, type LogUnit } from './columns.js';
 import type { ColumnMap } from './column-map.js';
+import { quoted } from '../core/quote.js';
 
 export interface LogProfile {
   readonly description?: string;
@@ -75,7 +76,7 @@ export function parseColumnOptions(options: readonly string[]): ColumnMap {
     if (equals < 0 || !isChannelName(channel)) {
       throw new SpeedbandError(
         'log.badColumnOption',
-        `--column "${option}" is not CHANNEL=HEADER[:UNIT] with CHANNEL one of ${CHANNELS.join(', ')} — e.g. --column speed_mps=v:km/h`,
+        `--column ${quoted(option)} is not CHANNEL=HEADER[:UNIT] with CHANNEL one of ${CHANNELS.join(', ')} — e.g. --column speed_mps=v:km/h`,
         { details: { option } },
       );
     }
@@ -88,7 +89,7 @@ export function parseColumnOptions(options: readonly string[]): ColumnMap {
       if (!isLogUnit(candidate)) {
         throw new SpeedbandError(
           'log.unknownUnit',
-          `--column "${option}": unknown unit "${candidate}" — use one of ${LOG_UNITS.join(', ')}`,
+          `--column ${quoted(option)}: unknown unit ${quoted(candidate)} — use one of ${LOG_UNITS.join(', ')}`,
           { details: { option, unit: candidate } },
         );
       }

@@ -152,12 +152,26 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
 
 const validateScheduleShape = makeValidator<ScheduleFile>(SCHEDULE_SCHEMA, 'schedule.invalid', 'schedule file', validateScheduleFile);
 
+/** Refuse a schedule file of an earlier format version by name, before its schema is checked. */
+function refuseOldVersion(value: unknown, file: string): void {
+  if (typeof value !== 'object' || value === null) return;
+  const { format, formatVersion } = value as { format?: unknown; formatVersion?: unknown };
+  if (format === SCHEDULE_FORMAT && typeof formatVersion === 'number' && formatVersion < SCHEDULE_FORMAT_VERSION) {
+    throw new SpeedbandError(
+      'schedule.unsupportedVersion',
+      `schedule format version ${formatVersion} was written by an earlier speedband whose checksum covered only the table, not the margins, ` +
+        `status, limits and texts (this speedband reads version ${SCHEDULE_FORMAT_VERSION}) — rebuild the schedule with speedband build`,
+      { location: { file, jsonPath: '/formatVersion' } },
+    );
+  }
+}
+
 /**
- * Check a parsed schedule: schema (JSON path of the first problem), strictly increasing breakpoint
- * speeds and finite gains, status agreeing with the check, and the checksum (`schedule.checksumMismatch`
- * naming what changed). Returns it typed.
+ * Check a parsed schedule without its checksum: schema (JSON path of the first problem), strictly
+ * increasing breakpoint speeds and finite gains. For `speedband reverify`, which takes edited files.
  */
-export function parseSchedule(value: unknown, file: string): ScheduleFile {
+export function parseScheduleUnverified(value: unknown, file: string): ScheduleFile {
+  refuseOldVersion(value, file);
   const schedule = validateScheduleShape(value, file);
   try {
     validateGainTable({ speeds_mps: schedule.breakpoints.map((row) => row.speed_mps), gains: schedule.breakpoints });
@@ -167,20 +181,30 @@ export function parseSchedule(value: unknown, file: string): ScheduleFile {
     }
     throw error;
   }
-  if ((schedule.status === 'passed') !== schedule.check.passed) {
-    throw new SpeedbandError(
-      'schedule.invalid',
-      `status is "${schedule.status}" but check.passed is ${schedule.check.passed} — the file was edited; rebuild the schedule`,
-      { location: { file, jsonPath: '/status' } },
-    );
-  }
+  return schedule;
+}
+
+/**
+ * Check a parsed schedule: as parseScheduleUnverified, then status agreeing with the check, and the
+ * checksum over every field (`schedule.checksumMismatch` naming the sections that changed). Returns it typed.
+ */
+export function parseSchedule(value: unknown, file: string): ScheduleFile {
+  const schedule = parseScheduleUnverified(value, file);
   const verdict = verifyScheduleChecksum(schedule);
   if (!verdict.valid) {
     throw new SpeedbandError(
       'schedule.checksumMismatch',
-      `the checksum does not match the table: changed since it was written — ${verdict.changes.join('; ')}. ` +
-        'Do not load this table into firmware; rebuild the schedule or restore the original file',
+      `the checksum does not match the file: changed since it was written — ${verdict.changes.join('; ')}. ` +
+        'Do not load this table into firmware; rebuild the schedule, restore the original file, or (for a deliberate hand edit) ' +
+        're-verify it with speedband reverify',
       { location: { file, jsonPath: '/checksum/value' }, details: { changes: verdict.changes } },
+    );
+  }
+  if ((schedule.status === 'passed') !== schedule.check.passed) {
+    throw new SpeedbandError(
+      'schedule.invalid',
+      `status is "${schedule.status}" but check.passed is ${schedule.check.passed} — the file is inconsistent; rebuild the schedule`,
+      { location: { file, jsonPath: '/status' } },
     );
   }
   return schedule;

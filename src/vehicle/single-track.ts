@@ -15,6 +15,7 @@
 import { SpeedbandError } from '../core/errors.js';
 import type { TransferFunction } from '../lti/types.js';
 import type { SingleTrackParameters, Vehicle } from './types.js';
+import { quoted } from '../core/quote.js';
 
 /** Continuous-time state space ẋ = A x + B δ, y = C x + D δ, states [vy, r], outputs [vy, r, ay]. */
 export interface SingleTrackStateSpace {
@@ -168,7 +169,7 @@ export function singleTrackParametersFromVehicle(vehicle: Vehicle): SingleTrackP
       .join(' and ');
     throw new SpeedbandError(
       'vehicle.noCorneringStiffness',
-      `vehicle "${vehicle.name}" has no ${missing} — the single-track model needs nominal whole-axle cornering stiffnesses (N/rad); add them to the vehicle file, or identify them from step-test logs first`,
+      `vehicle ${quoted(vehicle.name)} has no ${missing} — the single-track model needs nominal whole-axle cornering stiffnesses (N/rad); add them to the vehicle file, or identify them from step-test logs first`,
       { location: { jsonPath: cf === undefined ? '/frontCorneringStiffness_NPerRad' : '/rearCorneringStiffness_NPerRad' }, details: { missing } },
     );
   }

@@ -2,6 +2,7 @@ import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
+import { quoted } from '../../core/quote.js';
 
 /**
  * `speedband check`: re-verify a schedule independently of how it was made — schema and
@@ -26,7 +27,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     notes.push(`note: ${vehicleFile} differs from the vehicle file the schedule was built with (${schedule.vehicle.file}) — checking against the file given`);
   }
   if (vehicle.name !== schedule.vehicle.name) {
-    notes.push(`note: the schedule was built for vehicle "${schedule.vehicle.name}", the vehicle file given is "${vehicle.name}"`);
+    notes.push(`note: the schedule was built for vehicle ${quoted(schedule.vehicle.name)}, the vehicle file given is ${quoted(vehicle.name)}`);
   }
 
   const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);

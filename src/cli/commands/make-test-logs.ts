@@ -1,6 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
+import { quoted } from '../../core/quote.js';
 
 /** Linear-range habit for step tests (DOMAIN.md §6, common practice): warn above this steady lateral acceleration. */
 const LINEAR_RANGE_WARNING_mps2 = 4;
@@ -11,7 +12,7 @@ const LINEAR_RANGE_WARNING_mps2 = 4;
  */
 function parseNumberList(text: string, option: string): number[] {
   const bad = (item: string) =>
-    new SpeedbandError('cli.badList', `--${option} "${text}": "${item}" is not a number — give comma-separated numbers (2,4,6) or start:step:end (2:2:10)`, {
+    new SpeedbandError('cli.badList', `--${option} ${quoted(text)}: ${quoted(item)} is not a number — give comma-separated numbers (2,4,6) or start:step:end (2:2:10)`, {
       details: { option, text },
     });
   const range = /^\s*([^:]+):([^:]+):([^:]+)\s*$/.exec(text);
@@ -22,7 +23,7 @@ function parseNumberList(text: string, option: string): number[] {
       return value;
     });
     if (!(step > 0) || end < start) {
-      throw new SpeedbandError('cli.badList', `--${option} "${text}": a range needs step > 0 and end ≥ start`, { details: { option, text } });
+      throw new SpeedbandError('cli.badList', `--${option} ${quoted(text)}: a range needs step > 0 and end ≥ start`, { details: { option, text } });
     }
     const count = Math.floor((end - start) / step + 1e-9) + 1;
     return Array.from({ length: count }, (_, k) => Number((start + k * step).toPrecision(12)));
@@ -143,7 +144,7 @@ export const command: CommandModule = {
     const text = table.map((line) => line.map((cell, column) => (column === 0 ? cell.padEnd(widths[column]) : cell.padStart(widths[column]))).join('  ').trimEnd());
     io.stdout(`${text.join('\n')}\n`);
     io.stdout(
-      `\nSynthetic data for demos and tests only (vehicle "${vehicle.name}", seed ${String(args.seed)}): ${rows.length} logs, each with ${rows[0]?.stepOnsets_s.length ?? 0} steps (left and right at two amplitudes, with returns to zero). ` +
+      `\nSynthetic data for demos and tests only (vehicle ${quoted(vehicle.name)}, seed ${String(args.seed)}): ${rows.length} logs, each with ${rows[0]?.stepOnsets_s.length ?? 0} steps (left and right at two amplitudes, with returns to zero). ` +
         `How they were made: ${result.files[result.files.length - 1].path}\n`,
     );
     return EXIT.ok;
