@@ -18,4 +18,7 @@ await build({
   minifyIdentifiers: false,
   legalComments: 'eof',
   logLevel: 'warning',
+  // jsonc-parser's "main" is a UMD build that loads its parts with a dynamic require esbuild cannot follow;
+  // its ES module build bundles cleanly (Node itself, unbundled, loads the UMD build fine).
+  alias: { 'jsonc-parser': 'jsonc-parser/lib/esm/main.js' },
 });

@@ -25,3 +25,8 @@ export async function logColumnsFromArgs(args: Record<string, unknown>): Promise
   const profile = args['log-profile'] === undefined ? undefined : loadLogProfile(String(args['log-profile']));
   return mergeColumnMaps(profile?.columns, parseColumnOptions(columnOptions));
 }
+
+/** The input files named by the given options (those that were given), with their role, for checkOutputPaths. */
+export function optionalInputs(args: Record<string, unknown>, options: readonly (readonly [string, string])[]): { path: string; role: string }[] {
+  return options.filter(([option]) => args[option] !== undefined).map(([option, role]) => ({ path: String(args[option]), role }));
+}

@@ -2,17 +2,23 @@ import yargs from 'yargs';
 import { isatty } from 'node:tty';
 import { describeError, isSpeedbandError } from '../core/errors.js';
 import { safeMessageText } from '../core/quote.js';
+import type { CommandModule } from './command.js';
 import { COMMANDS } from './commands/index.js';
 import { EXIT, processIo, type CommandIo } from './io.js';
 import { SAFETY_EPILOGUE } from './safety.js';
 import { VERSION } from '../version.js';
+
+export interface RunOptions {
+  /** The commands to offer (default: all of speedband's); tests pass a command made with other dependencies. */
+  readonly commands?: readonly CommandModule[];
+}
 
 /**
  * Run the CLI on an argument vector and return the exit code.
  * Usage errors and `SpeedbandError`s become a message on stderr and exit 2;
  * anything else is a bug (exit 3).
  */
-export async function runCli(argv: readonly string[], io: CommandIo = processIo): Promise<number> {
+export async function runCli(argv: readonly string[], io: CommandIo = processIo, options: RunOptions = {}): Promise<number> {
   let exitCode: number = EXIT.ok;
   let parser = yargs()
     .scriptName('speedband')
@@ -34,7 +40,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
       throw new UsageError(message ?? 'invalid usage');
     });
 
-  for (const module of COMMANDS) {
+  for (const module of options.commands ?? COMMANDS) {
     parser = parser.command(
       module.command,
       module.describe,

@@ -2,11 +2,13 @@
  * Output paths are checked before any work: an output is never one of the command's inputs (not even
  * with --force, and not through another name: a symbolic link, `..`, or a hard link), never the same
  * file as another output of the command, and never a folder, a device or a symbolic link; its folder
- * (or the nearest existing ancestor, as missing folders are created) must be a writable folder.
+ * (or the nearest existing ancestor, as missing folders are created) must be a folder that accepts a new
+ * file (a probe file is created and removed).
  * Symbolic links: a link as the output file itself is refused (speedband never writes through one);
  * folders on the way may be links. Inputs are followed through links when compared.
  */
-import { accessSync, constants, lstatSync, realpathSync, statSync } from 'node:fs';
+import { randomBytes } from 'node:crypto';
+import { accessSync, closeSync, constants, lstatSync, openSync, realpathSync, statSync, unlinkSync } from 'node:fs';
 import { basename, dirname, join, resolve } from 'node:path';
 import { SpeedbandError } from './errors.js';
 import { describeFileError } from './files.js';
@@ -86,8 +88,12 @@ function checkFolderOf(output: OutputPath): void {
       where,
     );
   }
+  // access(2) says yes to root on folders that still refuse new files (sysfs); creating and removing a probe file asks the file system itself.
+  const probe = join(existing, `.speedband-probe-${process.pid}-${randomBytes(4).toString('hex')}`);
   try {
     accessSync(existing, constants.W_OK | constants.X_OK);
+    closeSync(openSync(probe, 'wx'));
+    unlinkSync(probe);
   } catch (cause) {
     throw new SpeedbandError('output.folderNotWritable', `${output.option}: the folder ${existing} is not writable: ${describeFileError(cause)} — choose another output path`, {
       ...where,

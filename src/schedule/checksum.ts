@@ -57,6 +57,8 @@ export interface ChecksumVerdict {
   readonly valid: boolean;
   /** What differs from the recorded checksum, in words (empty when valid). */
   readonly changes: readonly string[];
+  /** The sections that differ, as JSON pointers (empty when valid, or when only the checksum itself was altered). */
+  readonly sections: readonly string[];
 }
 
 /** A section's name in words: a breakpoint by number and speed, anything else by its JSON pointer. */
@@ -71,14 +73,20 @@ function sectionName(pointer: string, schedule: ScheduleFile): string {
 export function verifyScheduleChecksum(schedule: ScheduleFile): ChecksumVerdict {
   const expected = schedule.checksum;
   const actual = computeScheduleChecksum(schedule);
-  if (actual.value === expected.value) return { valid: true, changes: [] };
+  if (actual.value === expected.value) return { valid: true, changes: [], sections: [] };
   const recorded = expected.sections ?? {};
   const changes: string[] = [];
+  const sections: string[] = [];
   for (const [pointer, digest] of Object.entries(actual.sections)) {
-    if (!(pointer in recorded)) changes.push(`${sectionName(pointer, schedule)} (added)`);
-    else if (recorded[pointer] !== digest) changes.push(sectionName(pointer, schedule));
+    if (Object.hasOwn(recorded, pointer) && recorded[pointer] === digest) continue;
+    changes.push(Object.hasOwn(recorded, pointer) ? sectionName(pointer, schedule) : `${sectionName(pointer, schedule)} (added)`);
+    sections.push(pointer);
   }
-  for (const pointer of Object.keys(recorded)) if (!(pointer in actual.sections)) changes.push(`${pointer} (removed)`);
+  for (const pointer of Object.keys(recorded)) {
+    if (Object.hasOwn(actual.sections, pointer)) continue;
+    changes.push(`${pointer} (removed)`);
+    sections.push(pointer);
+  }
   if (changes.length === 0) changes.push('the checksum value or its section digests (every section matches its digest)');
-  return { valid: false, changes };
+  return { valid: false, changes, sections };
 }

@@ -106,7 +106,7 @@ export const PLAN_SCHEMA = {
       type: 'object',
       additionalProperties: false,
       properties: {
-        gridSpeeds: { type: 'integer', minimum: 2, maximum: 100000 },
+        gridSpeeds: { type: 'integer', minimum: 2, maximum: 10000 },
         maxInsertedBreakpoints: { type: 'integer', minimum: 0, maximum: 100 },
         model: { enum: ['single-track', 'interpolated-lumped'] },
       },

@@ -49,7 +49,8 @@ export interface ScheduleInput {
 
 const finiteOrNull = (value: number | null): number | null => (value !== null && Number.isFinite(value) ? value : null);
 
-function breakpointMargins(margins: LoopMargins): BreakpointMargins {
+/** The margins a schedule records at a breakpoint (non-finite figures as null). */
+export function breakpointMargins(margins: LoopMargins): BreakpointMargins {
   return {
     stable: margins.stable,
     verdict: margins.verdict,
@@ -63,6 +64,17 @@ function breakpointMargins(margins: LoopMargins): BreakpointMargins {
 }
 
 const finiteWorst = (worst: WorstValue | null): WorstValue | null => (worst !== null && Number.isFinite(worst.value) ? worst : null);
+
+/** The worst margins as a schedule records them (non-finite figures as null). */
+export function recordedWorst(worst: WorstMargins): WorstMargins {
+  return {
+    lowerGainMargin_dB: finiteWorst(worst.lowerGainMargin_dB),
+    upperGainMargin_dB: finiteWorst(worst.upperGainMargin_dB),
+    phaseMargin_deg: finiteWorst(worst.phaseMargin_deg),
+    delayMargin_s: finiteWorst(worst.delayMargin_s),
+    sensitivityPeak: finiteWorst(worst.sensitivityPeak),
+  };
+}
 
 /**
  * Assemble a schedule file with its checksum. Status is 'passed' when the dense check passed,
@@ -82,13 +94,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
     return { speed_mps, kp: gains.kp, ki: gains.ki, kd: gains.kd, insertedByRefinement: inserted[k] ?? false, margins: breakpointMargins(point.margins) };
   });
   const path = plan.loop.kind === 'path';
-  const worst: WorstMargins = {
-    lowerGainMargin_dB: finiteWorst(check.worst.lowerGainMargin_dB),
-    upperGainMargin_dB: finiteWorst(check.worst.upperGainMargin_dB),
-    phaseMargin_deg: finiteWorst(check.worst.phaseMargin_deg),
-    delayMargin_s: finiteWorst(check.worst.delayMargin_s),
-    sensitivityPeak: finiteWorst(check.worst.sensitivityPeak),
-  };
+  const worst = recordedWorst(check.worst);
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
     format: SCHEDULE_FORMAT,
     formatVersion: SCHEDULE_FORMAT_VERSION,

@@ -1,7 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
+import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband build`: logs + vehicle (+ plan) → identified models → gains per breakpoint →
@@ -22,9 +22,27 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   if (logPaths.length > 0 && modelsIn !== undefined) {
     throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one: --logs to identify afresh, --models to reuse models.json');
   }
+  const out = String(args.out);
+  const modelsOut = args['models-out'] === undefined ? undefined : String(args['models-out']);
+  // Outputs checked against every input and each other before any work (never replaced, not even with --force).
+  const { checkOutputPaths } = await import('../../core/output-paths.js');
+  const { resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
+  checkOutputPaths(
+    [{ path: out, option: '--out' }, ...(modelsOut === undefined ? [] : [{ path: modelsOut, option: '--models-out' }])],
+    [
+      { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
+      ...optionalInputs(args, [
+        ['models', 'models file'],
+        ['plan', 'plan file'],
+        ['baseline', 'baseline schedule'],
+        ['log-profile', 'log profile'],
+      ]),
+    ],
+  );
   // Read the baseline first: a bad baseline is bad input, found before minutes of work.
   const baseline = args.baseline === undefined ? undefined : readSchedule(String(args.baseline));
-  const out = String(args.out);
   const columns = await logColumnsFromArgs(args);
   const result = buildSchedule({
     vehicle: String(args.vehicle),
@@ -38,7 +56,6 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const passed = schedule.status === 'passed';
   const written = passed || args['allow-failing'] === true;
   const outcome = written ? writeSchedule(out, schedule, args.force === true) : null;
-  const modelsOut = args['models-out'] === undefined ? undefined : String(args['models-out']);
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force === true);
 
   const baselineCheck = baseline === undefined ? undefined : (await import('../../build/baseline.js')).checkBaseline(baseline, result);

@@ -17,7 +17,18 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   if (out === undefined && args.json !== true) {
     throw new SpeedbandError('cli.missingOption', 'nothing to do: give --out models.json to write the models file, and/or --json to print a summary');
   }
-  const { identifyFromLogs } = await import('../../identify/identify-from-logs.js');
+  const { identifyFromLogs, expandLogPaths } = await import('../../identify/identify-from-logs.js');
+  if (out !== undefined) {
+    const { checkOutputPaths } = await import('../../core/output-paths.js');
+    const { resolveVehiclePath } = await import('../../vehicle/load.js');
+    checkOutputPaths(
+      [{ path: out, option: '--out' }],
+      [
+        { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+        ...expandLogPaths((args.logs as unknown[]).map(String)).map((path) => ({ path, role: 'log' })),
+      ],
+    );
+  }
   const { writeModels } = await import('../../identify/models-file.js');
   const { radiansToDegrees } = await import('../../core/units.js');
   const { tallyTwoPointAgreement, TWO_POINT_AGREEMENT } = await import('../../identify/two-point-agreement.js');
