@@ -20,6 +20,7 @@ import type { ProgressCallback } from '../schedule/types.js';
 import { tuneOperatingPoint, type TunedOperatingPoint } from '../tuning/operating-point.js';
 import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
 import { checkModelFromModels, type CheckModel } from './check-model.js';
+import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
 
 /** Identification options `build` overrides: only the FOPDT and joint single-track fits feed a schedule. */
@@ -91,6 +92,7 @@ export function buildSchedule(input: BuildInput): BuildResult {
   const tune = (speed_mps: number): TunedOperatingPoint => {
     let tuned = tuneCache.get(speed_mps);
     if (tuned === undefined) {
+      requireBoundedDelay(modelDelay_s(checkModel.modelAt(speed_mps)), controller, speed_mps);
       tuned = tuneOperatingPoint({
         loop,
         speed_mps,
