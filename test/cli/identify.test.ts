@@ -43,7 +43,10 @@ describe('speedband identify', () => {
     const io = recordingIo();
     const out = join(folder, 'from-folder.json');
     expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', join(folder, 'logs'), '--out', out, '--joint-fit', 'false', '--second-order', 'false'], io)).toBe(0);
-    expect(readModels(out).inputs.map((i) => i.file)).toEqual([...logs].sort());
+    const inputs = readModels(out).inputs;
+    expect(inputs.map((i) => i.file).sort()).toEqual([...logs].sort());
+    // Canonical order: by content hash, whatever the order the folder lists them in.
+    expect(inputs.map((i) => i.sha256)).toEqual(inputs.map((i) => i.sha256).sort());
   }, 60_000);
 
   it('refuses logs at a single speed with exit 2 and says that two speeds are needed', async () => {
