@@ -11,6 +11,7 @@ import { checkGrid } from '../schedule/grid.js';
 import type { FallbackGains } from '../export/c-header.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { AnalyseLoop, DenseCheckResult, GainTable } from '../schedule/types.js';
+import type { LoopMargins } from '../verify/types.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
 import { recordedCheckModel, scheduleLoopAndController } from './recheck-schedule.js';
 
@@ -33,10 +34,16 @@ export function findFallbackGains(schedule: ScheduleFile, table: GainTable, anal
   const { thresholds } = schedule.check;
   for (let k = table.speeds_mps.length - 1; k >= 0; k -= 1) {
     const gains = table.gains[k];
-    // Screen first, stopping at the first failing speed; only a candidate that passes everywhere is checked in full.
-    if (Array.from(grid).some((speed_mps) => judgeMargins(analyse(speed_mps, gains), thresholds).length > 0)) continue;
+    // Screen first, stopping at the first failing speed; a candidate that passes everywhere is then summed up from the same analyses.
+    const analysed = new Map<number, LoopMargins>();
+    const fails = Array.from(grid).some((speed_mps) => {
+      const margins = analyse(speed_mps, gains);
+      analysed.set(speed_mps, margins);
+      return judgeMargins(margins, thresholds).length > 0;
+    });
+    if (fails) continue;
     const constant: GainTable = { speeds_mps: table.speeds_mps, gains: table.speeds_mps.map(() => gains) };
-    const result = recheckQuantised({ schedule, quantised: constant, analyse });
+    const result = recheckQuantised({ schedule, quantised: constant, analyse: (speed_mps, at) => analysed.get(speed_mps) ?? analyse(speed_mps, at) });
     if (result.passed) return { breakpoint: k, speed_mps: table.speeds_mps[k], gridSize: result.points.length, worst: result.worst };
   }
   return null;
