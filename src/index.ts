@@ -2,6 +2,10 @@
  * speedband's public API. This file only re-exports; see DEVELOPERS.md for the map.
  */
 export { SpeedbandError, isSpeedbandError, describeError, type ErrorLocation } from './core/errors.js';
+export { parseJsonText, jsonPointer } from './core/json-text.js';
+export { quoted, safeMessageText } from './core/quote.js';
+export { writeFileAtomic, readTextFile, sha256Hex, type WriteOutcome } from './core/files.js';
+export { checkOutputPaths, checkOutputFolder, type OutputPath, type InputPath } from './core/output-paths.js';
 export { VERSION } from './version.js';
 export { runCli } from './cli/main.js';
 // Linear systems (src/lti/) and controllers (src/controller/)
@@ -96,6 +100,7 @@ export {
   verifyScheduleChecksum,
   assembleSchedule,
   parseSchedule,
+  parseScheduleUnverified,
   readSchedule,
   writeSchedule,
   serialiseSchedule,
@@ -120,7 +125,23 @@ export {
   type ScheduleFile,
   type ScheduleInput,
 } from './schedule/index.js';
-export { exportC, exportCsv, exportJson, parseQFormat, quantiseTable, recheckQuantised, makeQuantisedRecheck, type FixedPointFormat, type QuantisedTable, type QuantisedRecheck } from './export/index.js';
+export {
+  exportC,
+  exportCsv,
+  exportJson,
+  parseQFormat,
+  quantiseTable,
+  recheckQuantised,
+  makeQuantisedRecheck,
+  allowFailingMacro,
+  commentSafe,
+  LOOKUP_STATUS,
+  type FixedPointFormat,
+  type QuantisedTable,
+  type QuantisedRecheck,
+  type HeaderCheck,
+  type FallbackGains,
+} from './export/index.js';
 // Loop analysis: margins, sensitivity peaks, stability verdicts (src/verify/)
 export {
   analyseLoop,
@@ -219,3 +240,6 @@ export { operatingPointModelFromModels, type ModelAtSpeed } from './build/operat
 export { recheckSchedule, recordedCheckModel, scheduleLoopAndController, type RecheckInput as ScheduleRecheckInput } from './build/recheck-schedule.js';
 export { recheckWithRecordedModel } from './build/quantised-recheck.js';
 export { runDemo, bundledVehicles, BUNDLED_VEHICLES, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
+export { recordedLoopAnalysis, checkExportedTable, findFallbackGains } from './build/export-check.js';
+export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
+export { DELAY_BOUNDS, requireBoundedDelay } from './build/delay-bound.js';

@@ -29,7 +29,7 @@ export { PLAN_SCHEMA } from './plan-schema.js';
 export { SCHEDULE_SCHEMA } from './schedule-schema.js';
 export { canonicalJson } from './canonical-json.js';
 export { computeScheduleChecksum, verifyScheduleChecksum, checksumContent, CANONICAL_FORM_TEXT, type ChecksumVerdict } from './checksum.js';
-export { assembleSchedule, parseSchedule, readSchedule, writeSchedule, type ScheduleInput } from './schedule-file.js';
+export { assembleSchedule, parseSchedule, parseScheduleUnverified, readSchedule, writeSchedule, type ScheduleInput } from './schedule-file.js';
 export { serialiseSchedule } from './schedule-json.js';
 export { gainUnits } from './schedule-text.js';
 export { scheduleTable, scheduleLookup, scheduleLookupSettings } from './schedule-lookup.js';
