@@ -5,7 +5,7 @@ import { createRequire } from 'node:module';
 const require = createRequire(import.meta.url);
 
 export const validateLogProfile = validate0;
-const schema0 = {"type":"object","properties":{"description":{"type":"string"},"columns":{"type":"object","properties":{"time_s":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"speed_mps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"steer_cmd_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"yaw_rate_radps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"steer_angle_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"lat_accel_mps2":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false}},"additionalProperties":false}},"required":["columns"],"additionalProperties":false};
+const schema0 = {"type":"object","properties":{"description":{"type":"string"},"columns":{"type":"object","properties":{"time_s":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"speed_mps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"steer_cmd_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"yaw_rate_radps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"steer_angle_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"lat_accel_mps2":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false}},"additionalProperties":false}},"required":["columns"],"additionalProperties":false};
 const func0 = require("ajv/dist/runtime/ucs2length").default;
 
 function validate0(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
@@ -103,8 +103,9 @@ errors++;
 }
 if(data2.unit !== undefined){
 let data4 = data2.unit;
-if(!((((((((((((data4 === "s") || (data4 === "ms")) || (data4 === "m/s")) || (data4 === "km/h")) || (data4 === "mph")) || (data4 === "rad")) || (data4 === "deg")) || (data4 === "steering-wheel-rad")) || (data4 === "steering-wheel-deg")) || (data4 === "rad/s")) || (data4 === "deg/s")) || (data4 === "m/s2"))){
-const err7 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.time_s.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(typeof data4 === "string"){
+if(func0(data4) > 64){
+const err7 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err7];
 }
@@ -113,10 +114,8 @@ vErrors.push(err7);
 }
 errors++;
 }
-}
-}
-else {
-const err8 = {instancePath:instancePath+"/columns/time_s",schemaPath:"#/properties/columns/properties/time_s/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(func0(data4) < 1){
+const err8 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err8];
 }
@@ -126,12 +125,8 @@ vErrors.push(err8);
 errors++;
 }
 }
-if(data1.speed_mps !== undefined){
-let data5 = data1.speed_mps;
-if(data5 && typeof data5 == "object" && !Array.isArray(data5)){
-for(const key3 in data5){
-if(!((key3 === "from") || (key3 === "unit"))){
-const err9 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
+else {
+const err9 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err9];
 }
@@ -141,11 +136,9 @@ vErrors.push(err9);
 errors++;
 }
 }
-if(data5.from !== undefined){
-let data6 = data5.from;
-if(typeof data6 === "string"){
-if(func0(data6) < 1){
-const err10 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+}
+else {
+const err10 = {instancePath:instancePath+"/columns/time_s",schemaPath:"#/properties/columns/properties/time_s/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err10];
 }
@@ -155,8 +148,12 @@ vErrors.push(err10);
 errors++;
 }
 }
-else {
-const err11 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data1.speed_mps !== undefined){
+let data5 = data1.speed_mps;
+if(data5 && typeof data5 == "object" && !Array.isArray(data5)){
+for(const key3 in data5){
+if(!((key3 === "from") || (key3 === "unit"))){
+const err11 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err11];
 }
@@ -166,10 +163,11 @@ vErrors.push(err11);
 errors++;
 }
 }
-if(data5.unit !== undefined){
-let data7 = data5.unit;
-if(!((((((((((((data7 === "s") || (data7 === "ms")) || (data7 === "m/s")) || (data7 === "km/h")) || (data7 === "mph")) || (data7 === "rad")) || (data7 === "deg")) || (data7 === "steering-wheel-rad")) || (data7 === "steering-wheel-deg")) || (data7 === "rad/s")) || (data7 === "deg/s")) || (data7 === "m/s2"))){
-const err12 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.speed_mps.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(data5.from !== undefined){
+let data6 = data5.from;
+if(typeof data6 === "string"){
+if(func0(data6) < 1){
+const err12 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err12];
 }
@@ -179,9 +177,8 @@ vErrors.push(err12);
 errors++;
 }
 }
-}
 else {
-const err13 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err13 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err13];
 }
@@ -191,12 +188,11 @@ vErrors.push(err13);
 errors++;
 }
 }
-if(data1.steer_cmd_rad !== undefined){
-let data8 = data1.steer_cmd_rad;
-if(data8 && typeof data8 == "object" && !Array.isArray(data8)){
-for(const key4 in data8){
-if(!((key4 === "from") || (key4 === "unit"))){
-const err14 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
+if(data5.unit !== undefined){
+let data7 = data5.unit;
+if(typeof data7 === "string"){
+if(func0(data7) > 64){
+const err14 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err14];
 }
@@ -205,12 +201,8 @@ vErrors.push(err14);
 }
 errors++;
 }
-}
-if(data8.from !== undefined){
-let data9 = data8.from;
-if(typeof data9 === "string"){
-if(func0(data9) < 1){
-const err15 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(func0(data7) < 1){
+const err15 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -221,7 +213,7 @@ errors++;
 }
 }
 else {
-const err16 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err16 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err16];
 }
@@ -231,10 +223,9 @@ vErrors.push(err16);
 errors++;
 }
 }
-if(data8.unit !== undefined){
-let data10 = data8.unit;
-if(!((((((((((((data10 === "s") || (data10 === "ms")) || (data10 === "m/s")) || (data10 === "km/h")) || (data10 === "mph")) || (data10 === "rad")) || (data10 === "deg")) || (data10 === "steering-wheel-rad")) || (data10 === "steering-wheel-deg")) || (data10 === "rad/s")) || (data10 === "deg/s")) || (data10 === "m/s2"))){
-const err17 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.steer_cmd_rad.properties.unit.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err17 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err17];
 }
@@ -244,9 +235,12 @@ vErrors.push(err17);
 errors++;
 }
 }
-}
-else {
-const err18 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data1.steer_cmd_rad !== undefined){
+let data8 = data1.steer_cmd_rad;
+if(data8 && typeof data8 == "object" && !Array.isArray(data8)){
+for(const key4 in data8){
+if(!((key4 === "from") || (key4 === "unit"))){
+const err18 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err18];
 }
@@ -256,12 +250,11 @@ vErrors.push(err18);
 errors++;
 }
 }
-if(data1.yaw_rate_radps !== undefined){
-let data11 = data1.yaw_rate_radps;
-if(data11 && typeof data11 == "object" && !Array.isArray(data11)){
-for(const key5 in data11){
-if(!((key5 === "from") || (key5 === "unit"))){
-const err19 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
+if(data8.from !== undefined){
+let data9 = data8.from;
+if(typeof data9 === "string"){
+if(func0(data9) < 1){
+const err19 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err19];
 }
@@ -271,11 +264,8 @@ vErrors.push(err19);
 errors++;
 }
 }
-if(data11.from !== undefined){
-let data12 = data11.from;
-if(typeof data12 === "string"){
-if(func0(data12) < 1){
-const err20 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err20 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err20];
 }
@@ -285,8 +275,11 @@ vErrors.push(err20);
 errors++;
 }
 }
-else {
-const err21 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data8.unit !== undefined){
+let data10 = data8.unit;
+if(typeof data10 === "string"){
+if(func0(data10) > 64){
+const err21 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err21];
 }
@@ -295,11 +288,8 @@ vErrors.push(err21);
 }
 errors++;
 }
-}
-if(data11.unit !== undefined){
-let data13 = data11.unit;
-if(!((((((((((((data13 === "s") || (data13 === "ms")) || (data13 === "m/s")) || (data13 === "km/h")) || (data13 === "mph")) || (data13 === "rad")) || (data13 === "deg")) || (data13 === "steering-wheel-rad")) || (data13 === "steering-wheel-deg")) || (data13 === "rad/s")) || (data13 === "deg/s")) || (data13 === "m/s2"))){
-const err22 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.yaw_rate_radps.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(func0(data10) < 1){
+const err22 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err22];
 }
@@ -309,9 +299,8 @@ vErrors.push(err22);
 errors++;
 }
 }
-}
 else {
-const err23 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err23 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err23];
 }
@@ -321,12 +310,9 @@ vErrors.push(err23);
 errors++;
 }
 }
-if(data1.steer_angle_rad !== undefined){
-let data14 = data1.steer_angle_rad;
-if(data14 && typeof data14 == "object" && !Array.isArray(data14)){
-for(const key6 in data14){
-if(!((key6 === "from") || (key6 === "unit"))){
-const err24 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+}
+else {
+const err24 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err24];
 }
@@ -336,11 +322,12 @@ vErrors.push(err24);
 errors++;
 }
 }
-if(data14.from !== undefined){
-let data15 = data14.from;
-if(typeof data15 === "string"){
-if(func0(data15) < 1){
-const err25 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(data1.yaw_rate_radps !== undefined){
+let data11 = data1.yaw_rate_radps;
+if(data11 && typeof data11 == "object" && !Array.isArray(data11)){
+for(const key5 in data11){
+if(!((key5 === "from") || (key5 === "unit"))){
+const err25 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err25];
 }
@@ -350,8 +337,11 @@ vErrors.push(err25);
 errors++;
 }
 }
-else {
-const err26 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data11.from !== undefined){
+let data12 = data11.from;
+if(typeof data12 === "string"){
+if(func0(data12) < 1){
+const err26 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err26];
 }
@@ -361,10 +351,8 @@ vErrors.push(err26);
 errors++;
 }
 }
-if(data14.unit !== undefined){
-let data16 = data14.unit;
-if(!((((((((((((data16 === "s") || (data16 === "ms")) || (data16 === "m/s")) || (data16 === "km/h")) || (data16 === "mph")) || (data16 === "rad")) || (data16 === "deg")) || (data16 === "steering-wheel-rad")) || (data16 === "steering-wheel-deg")) || (data16 === "rad/s")) || (data16 === "deg/s")) || (data16 === "m/s2"))){
-const err27 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.steer_angle_rad.properties.unit.enum},message:"must be equal to one of the allowed values"};
+else {
+const err27 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err27];
 }
@@ -374,9 +362,11 @@ vErrors.push(err27);
 errors++;
 }
 }
-}
-else {
-const err28 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data11.unit !== undefined){
+let data13 = data11.unit;
+if(typeof data13 === "string"){
+if(func0(data13) > 64){
+const err28 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err28];
 }
@@ -385,13 +375,8 @@ vErrors.push(err28);
 }
 errors++;
 }
-}
-if(data1.lat_accel_mps2 !== undefined){
-let data17 = data1.lat_accel_mps2;
-if(data17 && typeof data17 == "object" && !Array.isArray(data17)){
-for(const key7 in data17){
-if(!((key7 === "from") || (key7 === "unit"))){
-const err29 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+if(func0(data13) < 1){
+const err29 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err29];
 }
@@ -401,11 +386,8 @@ vErrors.push(err29);
 errors++;
 }
 }
-if(data17.from !== undefined){
-let data18 = data17.from;
-if(typeof data18 === "string"){
-if(func0(data18) < 1){
-const err30 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err30 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err30];
 }
@@ -415,8 +397,9 @@ vErrors.push(err30);
 errors++;
 }
 }
+}
 else {
-const err31 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err31 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err31];
 }
@@ -426,10 +409,12 @@ vErrors.push(err31);
 errors++;
 }
 }
-if(data17.unit !== undefined){
-let data19 = data17.unit;
-if(!((((((((((((data19 === "s") || (data19 === "ms")) || (data19 === "m/s")) || (data19 === "km/h")) || (data19 === "mph")) || (data19 === "rad")) || (data19 === "deg")) || (data19 === "steering-wheel-rad")) || (data19 === "steering-wheel-deg")) || (data19 === "rad/s")) || (data19 === "deg/s")) || (data19 === "m/s2"))){
-const err32 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.lat_accel_mps2.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(data1.steer_angle_rad !== undefined){
+let data14 = data1.steer_angle_rad;
+if(data14 && typeof data14 == "object" && !Array.isArray(data14)){
+for(const key6 in data14){
+if(!((key6 === "from") || (key6 === "unit"))){
+const err32 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err32];
 }
@@ -439,9 +424,11 @@ vErrors.push(err32);
 errors++;
 }
 }
-}
-else {
-const err33 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data14.from !== undefined){
+let data15 = data14.from;
+if(typeof data15 === "string"){
+if(func0(data15) < 1){
+const err33 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -451,9 +438,8 @@ vErrors.push(err33);
 errors++;
 }
 }
-}
 else {
-const err34 = {instancePath:instancePath+"/columns",schemaPath:"#/properties/columns/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err34 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err34];
 }
@@ -463,14 +449,160 @@ vErrors.push(err34);
 errors++;
 }
 }
-}
-else {
-const err35 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data14.unit !== undefined){
+let data16 = data14.unit;
+if(typeof data16 === "string"){
+if(func0(data16) > 64){
+const err35 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err35];
 }
 else {
 vErrors.push(err35);
+}
+errors++;
+}
+if(func0(data16) < 1){
+const err36 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err36];
+}
+else {
+vErrors.push(err36);
+}
+errors++;
+}
+}
+else {
+const err37 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err37];
+}
+else {
+vErrors.push(err37);
+}
+errors++;
+}
+}
+}
+else {
+const err38 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err38];
+}
+else {
+vErrors.push(err38);
+}
+errors++;
+}
+}
+if(data1.lat_accel_mps2 !== undefined){
+let data17 = data1.lat_accel_mps2;
+if(data17 && typeof data17 == "object" && !Array.isArray(data17)){
+for(const key7 in data17){
+if(!((key7 === "from") || (key7 === "unit"))){
+const err39 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err39];
+}
+else {
+vErrors.push(err39);
+}
+errors++;
+}
+}
+if(data17.from !== undefined){
+let data18 = data17.from;
+if(typeof data18 === "string"){
+if(func0(data18) < 1){
+const err40 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err40];
+}
+else {
+vErrors.push(err40);
+}
+errors++;
+}
+}
+else {
+const err41 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err41];
+}
+else {
+vErrors.push(err41);
+}
+errors++;
+}
+}
+if(data17.unit !== undefined){
+let data19 = data17.unit;
+if(typeof data19 === "string"){
+if(func0(data19) > 64){
+const err42 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
+if(vErrors === null){
+vErrors = [err42];
+}
+else {
+vErrors.push(err42);
+}
+errors++;
+}
+if(func0(data19) < 1){
+const err43 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err43];
+}
+else {
+vErrors.push(err43);
+}
+errors++;
+}
+}
+else {
+const err44 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err44];
+}
+else {
+vErrors.push(err44);
+}
+errors++;
+}
+}
+}
+else {
+const err45 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err45];
+}
+else {
+vErrors.push(err45);
+}
+errors++;
+}
+}
+}
+else {
+const err46 = {instancePath:instancePath+"/columns",schemaPath:"#/properties/columns/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err46];
+}
+else {
+vErrors.push(err46);
+}
+errors++;
+}
+}
+}
+else {
+const err47 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err47];
+}
+else {
+vErrors.push(err47);
 }
 errors++;
 }
@@ -484,7 +616,7 @@ const schema2 = {"type":"object","additionalProperties":false,"required":["file"
 const schema7 = {"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","reasonCode","reason","fopdt"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"reasonCode":{"type":"string"},"reason":{"type":"string"},"fopdt":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","r2"],"properties":{"gain":{"type":["number","null"]},"timeConstant_s":{"type":["number","null"]},"deadTime_s":{"type":["number","null"]},"r2":{"type":["number","null"]}}}}};
 const schema8 = {"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}}}};
 const schema9 = {"type":"object","additionalProperties":false,"required":["reasonCode","reason"],"properties":{"reasonCode":{"type":"string"},"reason":{"type":"string"}}};
-const func6 = Object.prototype.hasOwnProperty;
+const func18 = Object.prototype.hasOwnProperty;
 const pattern0 = new RegExp("^[0-9a-f]{64}$", "u");
 const schema3 = {"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","yawNoise_radps","fopdt","secondOrder","secondOrderZero","chosenModel"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"yawNoise_radps":{"type":"number"},"fopdt":{"$ref":"#/definitions/stepFopdtRecord"},"secondOrder":{"$ref":"#/definitions/secondOrderRecord"},"secondOrderZero":{"$ref":"#/definitions/secondOrderRecord"},"chosenModel":{"enum":["fopdt","second-order","second-order-zero"]}}};
 const schema4 = {"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95","bias_radps","rmse","nrmse","r2","bic","stopReason","iterations","residualLag1Autocorrelation","ljungBoxQ","residualsWhite","twoPoint"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"bias_radps":{"type":"number"},"rmse":{"type":"number"},"nrmse":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"iterations":{"type":"integer","minimum":0},"residualLag1Autocorrelation":{"type":"number"},"ljungBoxQ":{"type":"number"},"residualsWhite":{"type":"boolean"},"twoPoint":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"agreesWithFit":{"type":"boolean"}}}]}}};
@@ -605,7 +737,7 @@ vErrors.push(err10);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema3.properties, key0))){
+if(!(func18.call(schema3.properties, key0))){
 const err11 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err11];
@@ -882,7 +1014,7 @@ vErrors.push(err35);
 errors++;
 }
 for(const key1 in data7){
-if(!(func6.call(schema4.properties, key1))){
+if(!(func18.call(schema4.properties, key1))){
 const err36 = {instancePath:instancePath+"/fopdt",schemaPath:"#/definitions/stepFopdtRecord/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err36];
@@ -2222,7 +2354,7 @@ vErrors.push(err14);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema1.properties, key0))){
+if(!(func18.call(schema1.properties, key0))){
 const err15 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err15];
@@ -2694,7 +2826,7 @@ vErrors.push(err53);
 errors++;
 }
 for(const key5 in data19){
-if(!(func6.call(schema7.properties, key5))){
+if(!(func18.call(schema7.properties, key5))){
 const err54 = {instancePath:instancePath+"/refusedTests/" + i2,schemaPath:"#/definitions/refusedTestRecord/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err54];
@@ -4313,7 +4445,7 @@ vErrors.push(err188);
 errors++;
 }
 for(const key15 in data76){
-if(!(func6.call(schema1.properties.singleTrack.anyOf[1].properties, key15))){
+if(!(func18.call(schema1.properties.singleTrack.anyOf[1].properties, key15))){
 const err189 = {instancePath:instancePath+"/singleTrack",schemaPath:"#/properties/singleTrack/anyOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err189];
@@ -5182,7 +5314,7 @@ let vErrors = null;
 let errors = 0;
 if(data && typeof data == "object" && !Array.isArray(data)){
 for(const key0 in data){
-if(!(func6.call(schema10.properties, key0))){
+if(!(func18.call(schema10.properties, key0))){
 const err0 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err0];
@@ -7522,7 +7654,7 @@ vErrors.push(err12);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema11.properties, key0))){
+if(!(func18.call(schema11.properties, key0))){
 const err13 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err13];
@@ -7880,7 +8012,7 @@ vErrors.push(err43);
 errors++;
 }
 for(const key3 in data12){
-if(!(func6.call(schema11.properties.controller.properties, key3))){
+if(!(func18.call(schema11.properties.controller.properties, key3))){
 const err44 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err44];
@@ -8871,7 +9003,7 @@ vErrors.push(err128);
 errors++;
 }
 for(const key8 in data51){
-if(!(func6.call(schema11.properties.check.properties, key8))){
+if(!(func18.call(schema11.properties.check.properties, key8))){
 const err129 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err129];
@@ -10685,7 +10817,7 @@ vErrors.push(err7);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema12.properties, key0))){
+if(!(func18.call(schema12.properties, key0))){
 const err8 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err8];
