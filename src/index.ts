@@ -89,8 +89,9 @@ export {
   planFromJson,
   planBreakpoints,
   planThresholds,
-  ruleParametersAt,
+  makeRuleParameterLookup,
   valueAtSpeed,
+  SPEED_VARYING_PARAMETERS,
   SCHEDULE_SCHEMA,
   canonicalJson,
   computeScheduleChecksum,
@@ -118,6 +119,7 @@ export {
   type BreakpointInsertion,
   type Plan,
   type PartialPlan,
+  type RuleParameterLookup,
   type ScheduleFile,
   type ScheduleInput,
 } from './schedule/index.js';

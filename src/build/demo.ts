@@ -43,7 +43,7 @@ export function bundledVehicles(): string[] {
 }
 
 /** Run the demo; a failing schedule is still written (marked failed) so that it can be looked at. */
-export function runDemo(input: DemoInput): DemoResult {
+export async function runDemo(input: DemoInput): Promise<DemoResult> {
   const known = bundledVehicles();
   if (!known.includes(input.vehicle)) {
     throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle "${input.vehicle}" — choose one of: ${known.join(', ')}`);
@@ -55,7 +55,7 @@ export function runDemo(input: DemoInput): DemoResult {
     .filter((name) => name.endsWith('.csv'))
     .sort()
     .map((name) => join(logsFolder, name));
-  const build = buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
+  const build = await buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
   const files: { path: string; what: string; outcome: WriteOutcome }[] = [];
   const modelsPath = join(input.outDir, 'models.json');
   files.push({ path: modelsPath, what: 'identified models (per step, per speed, single-track)', outcome: writeModels(modelsPath, build.models, input.force) });

@@ -26,7 +26,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const baseline = args.baseline === undefined ? undefined : readSchedule(String(args.baseline));
   const out = String(args.out);
   const columns = await logColumnsFromArgs(args);
-  const result = buildSchedule({
+  const result = await buildSchedule({
     vehicle: String(args.vehicle),
     logPaths,
     ...(columns === undefined ? {} : { readOptions: { columns } }),
