@@ -16,8 +16,8 @@ const REBUILD = 'the bundle is older than the sources — run `npm run build`';
 const DIST_CLI = fileURLToPath(new URL('../../dist/cli/', import.meta.url));
 const VAN_LOG = fileURLToPath(new URL('../../vehicles/parcel-van/logs/synthetic-steps-10.00mps.csv', import.meta.url));
 
-function runBinary(args: readonly string[], cwd?: string): { status: number | null; stdout: string; stderr: string } {
-  const result = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', timeout: 120_000, ...(cwd === undefined ? {} : { cwd }) });
+function runBinary(args: readonly string[], cwd?: string, nodeOptions: readonly string[] = []): { status: number | null; stdout: string; stderr: string } {
+  const result = spawnSync(process.execPath, [...nodeOptions, BIN, ...args], { encoding: 'utf8', timeout: 120_000, ...(cwd === undefined ? {} : { cwd }) });
   return { status: result.status, stdout: result.stdout, stderr: result.stderr };
 }
 
@@ -76,5 +76,23 @@ describe('the speedband binary (bundled CLI)', () => {
     // 1 mi/h = 0.44704 m/s exactly (international mile 1609.344 m): the round trip returns the m/s log's values.
     expect(fromMph?.min).toBeCloseTo(speedOf(si.stdout)?.min ?? NaN, 9);
     expect(fromMph?.max).toBeCloseTo(speedOf(si.stdout)?.max ?? NaN, 9);
+  });
+
+  it('loads the mathjs chunk only when needed: not for --help nor a log in built-in units, once for a mi/h column', () => {
+    // A module-loading hook (node:module register) that reports every module URL naming mathjs on stderr.
+    const folder = mkdtempSync(join(tmpdir(), 'speedband-bundle-lazy-'));
+    writeFileSync(join(folder, 'hooks.mjs'), "export async function load(url, context, next) { if (url.includes('mathjs')) process.stderr.write(`LOADED ${url}\\n`); return next(url, context); }\n");
+    writeFileSync(join(folder, 'register.mjs'), `import { register } from 'node:module';\nregister(${JSON.stringify(new URL(`file://${join(folder, 'hooks.mjs')}`).href)});\n`);
+    const hook = ['--import', join(folder, 'register.mjs')];
+    const loaded = (stderr: string): string[] => stderr.split('\n').filter((line) => line.startsWith('LOADED '));
+    const help = runBinary(['--help'], folder, hook);
+    expect(help.status).toBe(0);
+    expect(loaded(help.stderr)).toEqual([]);
+    const plain = runBinary(['inspect', VAN_LOG, '--column', 'speed_mps=speed_mps:km/h'], folder, hook);
+    expect(plain.status, plain.stderr).toBe(0);
+    expect(loaded(plain.stderr)).toEqual([]);
+    const mph = runBinary(['inspect', VAN_LOG, '--column', 'speed_mps=speed_mps:mi/h'], folder, hook);
+    expect(mph.status, mph.stderr).toBe(0);
+    expect(loaded(mph.stderr)).toEqual([expect.stringMatching(/\/dist\/cli\/mathjs\.bundle\.js$/)]);
   });
 });
