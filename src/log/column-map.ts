@@ -47,8 +47,8 @@ export function mergeColumnMaps(...maps: readonly (ColumnMap | undefined)[]): Co
     for (const channel of CHANNELS) {
       const source = map[channel];
       if (source === undefined) continue;
-      const { conversion: _earlier, ...kept } = merged[channel] ?? {};
-      // A unit given again replaces the earlier unit's conversion too (its own, or none until resolved).
+      const { conversion: _replaced, ...kept } = merged[channel] ?? {};
+      // A unit given again brings its own conversion (or none until resolved); the earlier one goes with the earlier unit.
       merged[channel] = source.unit === undefined ? { ...merged[channel], ...source } : { ...kept, ...source };
     }
   }
@@ -75,7 +75,8 @@ export async function resolveColumnUnits(map: ColumnMap, origin: (channel: Chann
  * ones are used when present (or must be present when the map names them).
  * `steeringRatio` (steering-wheel angle per road-wheel angle) is needed only
  * for steering-wheel units. Throws `log.missingColumn` (with "did you mean"),
- * `log.duplicateColumn`, `log.unitMismatch` or `log.steeringRatioRequired`.
+ * `log.duplicateColumn`, `log.unitMismatch`, `log.unitNotResolved` (a unit outside the
+ * built-in table given without its conversion) or `log.steeringRatioRequired`.
  */
 export function resolveColumns(header: readonly string[], map: ColumnMap, steeringRatio: number | undefined, file: string): ResolvedColumns {
   const columns: ResolvedColumn[] = [];
