@@ -68,8 +68,9 @@ export * from './identify/index.js';
 export type { SteerLog, LogSegment, LogSplit, LogChannelSource, StepTest, StepMetrics, RejectedStep } from './log/types.js';
 export { readSteerLog, parseSteerLog, READ_DEFAULTS, type ReadLogOptions } from './log/read.js';
 export { loadLogProfile, parseLogProfile, parseColumnOptions, LOG_PROFILE_SCHEMA, type LogProfile } from './log/profile.js';
-export { mergeColumnMaps, type ColumnMap, type ColumnSource } from './log/column-map.js';
-export { CHANNELS, LOG_UNITS, type ChannelName, type LogUnit } from './log/columns.js';
+export { mergeColumnMaps, resolveColumnUnits, type ColumnMap, type ColumnSource } from './log/column-map.js';
+export { BUILT_IN_UNITS, resolveColumnUnit, type UnitConversion } from './log/column-units.js';
+export { CHANNELS, type ChannelName } from './log/columns.js';
 export { findStepTests, SEGMENT_DEFAULTS, type SegmentOptions, type StepSearch } from './log/segment.js';
 export { stepMetrics, stepLevels, METRICS_DEFAULTS, type StepWindow, type StepLevels } from './log/metrics.js';
 export { inspectLog, type LogInspection, type StepSummary, type ChannelSummary } from './log/inspect.js';
@@ -92,8 +93,9 @@ export {
   planFromJson,
   planBreakpoints,
   planThresholds,
-  ruleParametersAt,
+  makeRuleParameterLookup,
   valueAtSpeed,
+  SPEED_VARYING_PARAMETERS,
   SCHEDULE_SCHEMA,
   canonicalJson,
   computeScheduleChecksum,
@@ -122,6 +124,7 @@ export {
   type BreakpointInsertion,
   type Plan,
   type PartialPlan,
+  type RuleParameterLookup,
   type ScheduleFile,
   type ScheduleInput,
 } from './schedule/index.js';

@@ -48,7 +48,7 @@ export function bundledVehicles(): string[] {
 }
 
 /** Run the demo; a failing schedule is still written (marked failed) so that it can be looked at. */
-export function runDemo(input: DemoInput): DemoResult {
+export async function runDemo(input: DemoInput): Promise<DemoResult> {
   const known = bundledVehicles();
   if (!known.includes(input.vehicle)) {
     throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle ${quoted(input.vehicle)} — choose one of: ${known.join(', ')}`);
@@ -69,7 +69,7 @@ export function runDemo(input: DemoInput): DemoResult {
     [modelsPath, schedulePath, headerPath, csvPath].map((path) => ({ path, option: '--out' })),
     [{ path: join(folder, 'vehicle.json'), role: 'vehicle file' }, ...logPaths.map((path) => ({ path, role: 'log' }))],
   );
-  const build = buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
+  const build = await buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
   const files: { path: string; what: string; outcome: WriteOutcome }[] = [];
   files.push({ path: modelsPath, what: 'identified models (per step, per speed, single-track)', outcome: writeModels(modelsPath, build.models, input.force) });
   files.push({ path: schedulePath, what: `gain schedule (status ${build.schedule.status})`, outcome: writeSchedule(schedulePath, build.schedule, input.force) });

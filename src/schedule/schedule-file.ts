@@ -22,6 +22,7 @@ import {
   SCHEDULE_FORMAT_VERSION,
   type BreakpointMargins,
   type ScheduleFile,
+  type ScheduleRuleParametersAt,
 } from './schedule-types.js';
 import type { DenseCheckResult, GainTable, WorstMargins, WorstValue } from './types.js';
 
@@ -45,6 +46,8 @@ export interface ScheduleInput {
   readonly modelSummary: Readonly<Record<string, unknown>>;
   readonly modelDescription: string;
   readonly ruleCitation?: string;
+  /** The plan's rule parameters resolved at each final breakpoint (speed tables and expressions evaluated). */
+  readonly ruleParametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
 }
 
 const finiteOrNull = (value: number | null): number | null => (value !== null && Number.isFinite(value) ? value : null);
@@ -148,6 +151,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
         name: plan.rule.name,
         parameters: plan.rule.parameters as Readonly<Record<string, unknown>>,
         ...(input.ruleCitation === undefined ? {} : { citation: input.ruleCitation }),
+        ...(input.ruleParametersAtBreakpoints === undefined ? {} : { parametersAtBreakpoints: input.ruleParametersAtBreakpoints }),
       },
       plan: plan as unknown as Readonly<Record<string, unknown>>,
     },

@@ -100,7 +100,18 @@ export const SCHEDULE_SCHEMA = object({
       toolVersion: text,
       inputs: { type: 'array', items: object({ file: text, sha256, role: text }) },
       model: freeObject,
-      rule: object({ name: text, parameters: freeObject, citation: text }, ['citation']),
+      rule: object(
+        {
+          name: text,
+          parameters: freeObject,
+          citation: text,
+          parametersAtBreakpoints: {
+            type: 'array',
+            items: object({ speed_mps: number, parameters: { type: 'object', additionalProperties: { type: ['number', 'string'] } } }),
+          },
+        },
+        ['citation', 'parametersAtBreakpoints'],
+      ),
       plan: freeObject,
       handEdits: {
         type: 'array',

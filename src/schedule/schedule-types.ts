@@ -92,6 +92,12 @@ export interface ScheduleCheck {
   readonly insertions: readonly { readonly speed_mps: number; readonly reason: string }[];
 }
 
+/** The rule's parameters at one breakpoint: numbers (the controller type stays text). */
+export interface ScheduleRuleParametersAt {
+  readonly speed_mps: number;
+  readonly parameters: Readonly<Record<string, number | string>>;
+}
+
 export interface ScheduleProvenance {
   readonly tool: 'speedband';
   readonly toolVersion: string;
@@ -99,7 +105,14 @@ export interface ScheduleProvenance {
   readonly inputs: readonly { readonly file: string; readonly sha256: string; readonly role: string }[];
   /** Summary of the model used (JSON-able). */
   readonly model: Readonly<Record<string, unknown>>;
-  readonly rule: { readonly name: string; readonly parameters: Readonly<Record<string, unknown>>; readonly citation?: string };
+  readonly rule: {
+    readonly name: string;
+    /** As written in the plan (numbers, speed tables, expressions in speed_mps). */
+    readonly parameters: Readonly<Record<string, unknown>>;
+    readonly citation?: string;
+    /** The parameters as resolved at each breakpoint, when the plan gives any. */
+    readonly parametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
+  };
   /** The resolved plan. */
   readonly plan: Readonly<Record<string, unknown>>;
   /** Present when the schedule was edited by hand and re-verified (`speedband reverify`), one record per time. */

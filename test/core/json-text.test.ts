@@ -2,6 +2,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { buildSchedule } from '../../src/build/build-schedule.js';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
 import { jsonPointer, parseJsonText } from '../../src/core/json-text.js';
@@ -60,7 +61,7 @@ describe('every JSON input refuses a repeated key', () => {
     expect(io.err()).toMatch(new RegExp(`${vehicle.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}.*at /mass_kg: the key "mass_kg" appears twice`));
   });
 
-  it('the plan, models, schedule and log-profile files', () => {
+  it('the plan, models, schedule and log-profile files', async () => {
     const dir = folder();
     const plan = join(dir, 'plan.json');
     writeFileSync(plan, '{"interpolation": "linear", "controller": {"sampleTime_s": 0.01, "sampleTime_s": 0.1}}');
@@ -72,8 +73,25 @@ describe('every JSON input refuses a repeated key', () => {
     expect(() => parseSchedule(parseJsonText(schedule, 'schedule.json'), 'schedule.json')).toThrow(
       expect.objectContaining({ code: 'json.duplicateKey', location: expect.objectContaining({ jsonPath: '/units/kp' }) }),
     );
-    expect(() => parseLogProfile('{"columns": {"time_s": {"from": "t", "from": "T"}}}', 'profile.json')).toThrow(
-      expect.objectContaining({ code: 'json.duplicateKey', location: expect.objectContaining({ jsonPath: '/columns/time_s/from' }) }),
-    );
+    // parseLogProfile is asynchronous (a unit outside the built-in table loads mathjs): the refusal is a rejection.
+    await expect(parseLogProfile('{"columns": {"time_s": {"from": "t", "from": "T"}}}', 'profile.json')).rejects.toMatchObject({
+      code: 'json.duplicateKey',
+      location: expect.objectContaining({ jsonPath: '/columns/time_s/from' }),
+    });
+  });
+
+  it('the JSON read on the paths that take units and expressions (a profile unit for mathjs, a plan expression of speed)', async () => {
+    const dir = folder();
+    await expect(parseLogProfile('{"columns": {"speed_mps": {"from": "v", "unit": "mi/h", "unit": "km/h"}}}', 'profile.json')).rejects.toMatchObject({
+      code: 'json.duplicateKey',
+      location: expect.objectContaining({ file: 'profile.json', jsonPath: '/columns/speed_mps/unit' }),
+    });
+    const plan = join(dir, 'plan.json');
+    writeFileSync(plan, '{"rule": {"name": "damping-target", "parameters": {"settlingDistance_m": "max(90, 14 * speed_mps)", "settlingDistance_m": 20}}}');
+    // The plan is read before any log: a log that does not exist is never reached.
+    await expect(buildSchedule({ vehicle: 'vehicles/parcel-van', logPaths: [join(dir, 'no-such-log.csv')], planFile: plan })).rejects.toMatchObject({
+      code: 'json.duplicateKey',
+      location: expect.objectContaining({ file: plan, jsonPath: '/rule/parameters/settlingDistance_m' }),
+    });
   });
 });

@@ -44,7 +44,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   // Read the baseline first: a bad baseline is bad input, found before minutes of work.
   const baseline = args.baseline === undefined ? undefined : readSchedule(String(args.baseline));
   const columns = await logColumnsFromArgs(args);
-  const result = buildSchedule({
+  const result = await buildSchedule({
     vehicle: String(args.vehicle),
     logPaths,
     ...(columns === undefined ? {} : { readOptions: { columns } }),
@@ -131,7 +131,8 @@ export const command: CommandModule = {
       .option('models', { type: 'string', describe: 'Reuse an identification (models.json from `speedband identify`) instead of --logs' })
       .option('plan', {
         type: 'string',
-        describe: 'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2',
+        describe:
+          'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2',
       })
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
