@@ -2,6 +2,7 @@
  * The terminal report of a schedule: breakpoints with gains and proven margins, the worst grid
  * point of the dense check, inserted breakpoints, failures, and the safety cautions.
  */
+import { escapeControlCharacters } from '../core/quote.js';
 import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult, WorstMargins } from '../schedule/types.js';
@@ -24,7 +25,8 @@ export function formatWorstMargins(worst: WorstMargins): string[] {
 export function formatRuleParameters(schedule: ScheduleFile): string[] {
   const written = Object.entries(schedule.provenance.rule.parameters);
   if (written.length === 0) return [];
-  const shown = (value: unknown): string => (typeof value === 'string' || typeof value === 'number' ? String(value) : `table over speed ${JSON.stringify(value)}`);
+  const shown = (value: unknown): string =>
+    typeof value === 'string' ? escapeControlCharacters(value) : typeof value === 'number' ? String(value) : `table over speed ${JSON.stringify(value)}`;
   const lines = [`  rule parameters: ${written.map(([name, value]) => `${name} = ${shown(value)}`).join('; ')}`];
   const atBreakpoints = schedule.provenance.rule.parametersAtBreakpoints ?? [];
   for (const [name, value] of written) {

@@ -35,6 +35,17 @@ export function quoted(text: string, max: number = QUOTED_TEXT_MAX): string {
   return text.length > max ? `"${shown}…" (${text.length} characters in all)` : `"${shown}"`;
 }
 
+/** Longest message of another library (mathjs's parse errors…) kept inside one of ours, in characters. */
+export const LIBRARY_MESSAGE_MAX = 300;
+
+/**
+ * A library's message that may echo input text (mathjs: `Syntax error in part "…"`, `Unit "…" not found`):
+ * each double-quoted part re-quoted with `quoted`, control characters escaped, the whole cut to LIBRARY_MESSAGE_MAX.
+ */
+export function libraryMessage(text: string): string {
+  return escapeControlCharacters(cutText(text.replace(/"([^"]*)"/g, (_whole, inner: string) => quoted(inner)), LIBRARY_MESSAGE_MAX));
+}
+
 /**
  * A whole message made safe for a terminal: control characters other than line feeds escaped and
  * every line cut to MESSAGE_LINE_MAX characters. The last guard; messages quote input text with `quoted`.

@@ -12,6 +12,7 @@
  */
 import type { MathNode } from 'mathjs';
 import { loadMathjs } from './mathjs.js';
+import { libraryMessage, quoted } from './quote.js';
 
 /** The one variable an expression of speed may use, m/s. */
 export const SPEED_VARIABLE = 'speed_mps';
@@ -58,7 +59,7 @@ function refusal(node: MathNode): Refusal | null {
     case 'SymbolNode': {
       const name = String(n.name);
       if (name === SPEED_VARIABLE || ALLOWED_CONSTANTS.includes(name)) return null;
-      return { reason: `unknown name "${name}" — the only variable is ${SPEED_VARIABLE} (constants pi and e)`, token: word(name) };
+      return { reason: `unknown name ${quoted(name)} — the only variable is ${SPEED_VARIABLE} (constants pi and e)`, token: word(name) };
     }
     case 'FunctionNode': {
       const fn = n.fn as MathNode & { name?: string };
@@ -128,7 +129,7 @@ export async function compileSpeedExpression(text: string): Promise<ExpressionCo
   } catch (error) {
     const message = error instanceof Error ? error.message.replace(/\s*\(char \d+\)\s*$/, '') : String(error);
     const char = (error as { char?: unknown }).char;
-    return { kind: 'refused', reason: message, position: typeof char === 'number' ? char : null };
+    return { kind: 'refused', reason: libraryMessage(message), position: typeof char === 'number' ? char : null };
   }
   const refused = refusal(tree);
   if (refused !== null) return { kind: 'refused', reason: refused.reason, position: placed(text, refused.token) };

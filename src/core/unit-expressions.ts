@@ -8,6 +8,7 @@
  * gravity g_n = 9.80665 m/s² (accelerometers report in it); for mathjs "g" is the gram.
  */
 import { loadMathjs } from './mathjs.js';
+import { libraryMessage } from './quote.js';
 import { STANDARD_GRAVITY_MPS2 } from './units.js';
 
 /** The physical quantities a unit may be asked for. */
@@ -68,7 +69,7 @@ export async function readUnitExpression(expression: string, quantity: PhysicalQ
   try {
     unit = math.unit(text);
   } catch (error) {
-    return { kind: 'notAUnit', reason: error instanceof Error ? error.message : String(error) };
+    return { kind: 'notAUnit', reason: libraryMessage(error instanceof Error ? error.message : String(error)) };
   }
   if (unit.value !== null) return { kind: 'notAUnit', reason: 'it holds a number; give the unit alone (e.g. km/h, not 3.6 km/h)' };
   const si = math.unit(SI_UNITS[quantity]);

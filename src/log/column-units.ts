@@ -9,6 +9,7 @@
  * (standard gravity; see src/core/unit-expressions.ts).
  */
 import { SpeedbandError, type ErrorLocation } from '../core/errors.js';
+import { quoted } from '../core/quote.js';
 import { quantityWords, readUnitExpression, type PhysicalQuantity } from '../core/unit-expressions.js';
 import { MPS_PER_KPH, MPS_PER_MPH, RADIANS_PER_DEGREE, SECONDS_PER_MILLISECOND, STANDARD_GRAVITY_MPS2 } from '../core/units.js';
 import { CHANNEL_DEFINITIONS, type ChannelName } from './columns.js';
@@ -76,7 +77,7 @@ function unitMismatchError(channel: ChannelName, unit: string, found: string, or
   const quantity = CHANNEL_DEFINITIONS[channel].quantity;
   return new SpeedbandError(
     'log.unitMismatch',
-    prefixed(origin, `"${unit}" is ${found}; ${channel} (${CHANNEL_DEFINITIONS[channel].describe}) needs ${quantityWords(quantity)} — give a unit such as ${EXAMPLES[quantity]}`),
+    prefixed(origin, `${quoted(unit)} is ${found}; ${channel} (${CHANNEL_DEFINITIONS[channel].describe}) needs ${quantityWords(quantity)} — give a unit such as ${EXAMPLES[quantity]}`),
     { location: origin.location ?? {}, details: { channel, unit, found } },
   );
 }
@@ -109,7 +110,7 @@ export async function resolveColumnUnit(channel: ChannelName, unit: string, orig
     const quantity = CHANNEL_DEFINITIONS[channel].quantity;
     throw new SpeedbandError(
       'log.unknownUnit',
-      prefixed(origin, `"${unit}" is not a unit (${reading.reason}) — give ${quantityWords(quantity)} unit for ${channel} such as ${EXAMPLES[quantity]} (mathjs unit names)`),
+      prefixed(origin, `${quoted(unit)} is not a unit (${reading.reason}) — give ${quantityWords(quantity)} unit for ${channel} such as ${EXAMPLES[quantity]} (mathjs unit names)`),
       { location: origin.location ?? {}, details: { channel, unit, reason: reading.reason } },
     );
   }

@@ -6,6 +6,7 @@
  * speed they are evaluated at: every speed-varying parameter must be a positive number there.
  */
 import { SpeedbandError } from '../core/errors.js';
+import { quoted } from '../core/quote.js';
 import { compileSpeedExpression, type ExpressionValue } from '../core/speed-expression.js';
 import type { RuleParameters } from '../tuning/types.js';
 import type { PlanRuleParameters, SpeedVarying } from './plan.js';
@@ -55,7 +56,7 @@ export async function makeRuleParameterLookup(parameters: PlanRuleParameters, fi
       const where = compiled.position === null ? '' : ` (at character ${compiled.position} of the expression)`;
       throw new SpeedbandError(
         'plan.invalid',
-        `${name} ${JSON.stringify(abbreviated(text))}: ${compiled.reason}${where} — write a number, a table {"speeds_mps": […], "values": […]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)"`,
+        `${name} ${quoted(text)}: ${compiled.reason}${where} — write a number, a table {"speeds_mps": […], "values": […]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)"`,
         { location: { file, jsonPath: `/rule/parameters/${name}` }, details: { parameter: name, reason: compiled.reason, position: compiled.position } },
       );
     }
@@ -72,14 +73,12 @@ export async function makeRuleParameterLookup(parameters: PlanRuleParameters, fi
   };
 }
 
-const abbreviated = (text: string): string => (text.length > 80 ? `${text.slice(0, 77)}...` : text);
-
 function checkedValue(name: string, text: string, result: ExpressionValue, speed_mps: number, file: string | undefined): number {
   if (result.kind === 'number' && Number.isFinite(result.value) && result.value > 0) return result.value;
   const found = result.kind === 'number' ? shown(result.value) : result.found;
   throw new SpeedbandError(
     'plan.invalid',
-    `${name} ${JSON.stringify(abbreviated(text))} gives ${found} at ${shown(speed_mps)} m/s — it must be a positive number at every speed the schedule is tuned at; change the expression (e.g. bound it with max(…, …))`,
+    `${name} ${quoted(text)} gives ${found} at ${shown(speed_mps)} m/s — it must be a positive number at every speed the schedule is tuned at; change the expression (e.g. bound it with max(…, …))`,
     { location: { file, jsonPath: `/rule/parameters/${name}` }, details: { parameter: name, speed_mps, found } },
   );
 }

@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
-import { QUOTED_TEXT_MAX, quoted, safeMessageText } from '../../src/core/quote.js';
+import { LIBRARY_MESSAGE_MAX, QUOTED_TEXT_MAX, libraryMessage, quoted, safeMessageText } from '../../src/core/quote.js';
 
 /** C0/C1 control characters, DEL, bidirectional overrides and line separators (none may reach a terminal raw). */
 const RAW_CONTROL = /[\u0000-\u0009\u000b-\u001f\u007f-\u009f\u2028\u2029\u202a-\u202e\u2066-\u2069]/;
@@ -16,6 +16,14 @@ describe('quoted(text)', () => {
     const long = quoted('x'.repeat(1_000_000));
     expect(long.length).toBeLessThan(QUOTED_TEXT_MAX + 60);
     expect(long).toMatch(/\(1000000 characters in all\)$/);
+  });
+
+  it('libraryMessage re-quotes the input a library echoes (mathjs parse errors) and bounds the whole', () => {
+    expect(libraryMessage('Unit "knots" not found.')).toBe('Unit "knots" not found.');
+    const echoed = libraryMessage(`Syntax error in part "\u001b[2J${' '.repeat(450)}+ x" (char 20)`);
+    expect(echoed).toMatch(/^Syntax error in part "\\e\[2J {76}…" \(457 characters in all\)/);
+    expect(RAW_CONTROL.test(echoed)).toBe(false);
+    expect(libraryMessage(`no quotes \u0007${'z'.repeat(5000)}`).length).toBeLessThan(LIBRARY_MESSAGE_MAX + 40);
   });
 
   it('safeMessageText keeps line breaks, escapes other control characters and cuts each line', () => {

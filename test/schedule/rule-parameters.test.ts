@@ -37,6 +37,20 @@ describe('makeRuleParameterLookup(parameters) gives the rule parameters at any s
     await expect(makeRuleParameterLookup({ dampingRatio: 'evaluate("1")' })).rejects.toMatchObject({ message: expect.stringContaining('function evaluate is not allowed') });
   });
 
+  it('an expression quoted in an error is cut and its control characters escaped, like all input text in messages', async () => {
+    const hostile = `max(15, speed_mps) \u001b[2J${' '.repeat(400)}+ x`;
+    const error: unknown = await makeRuleParameterLookup({ settlingDistance_m: hostile }, 'plan.json').then(
+      () => undefined,
+      (refused: unknown) => refused,
+    );
+    expect(error).toMatchObject({ code: 'plan.invalid' });
+    const message = (error as Error).message;
+    expect(message).not.toContain('\u001b'); // the raw escape character
+    expect(message).toContain('\\e[2J'); // written as the two characters \e
+    expect(message).toContain(`(${hostile.length} characters in all)`);
+    expect(message.length).toBeLessThan(500);
+  });
+
   it('an expression that is not a positive number at a speed → plan.invalid naming the speed and the value', async () => {
     const at = await makeRuleParameterLookup({ settlingDistance_m: '10 * speed_mps - 50' }, 'plan.json');
     expect(at(6).settlingDistance_m).toBe(10);
