@@ -65,6 +65,11 @@ describe('run-time dependencies (package.json "dependencies") match the import g
     expect(imports.get('mathjs')).toEqual([{ importer: 'src/core/mathjs.ts', kind: 'dynamic-import' }]);
   });
 
+  it('jsonc-parser (repeated keys in JSON inputs) is a run-time dependency imported by the strict JSON parser alone', () => {
+    expect(manifest.dependencies['jsonc-parser']).toBeDefined();
+    expect(imports.get('jsonc-parser')).toEqual([{ importer: 'src/core/json-text.ts', kind: 'import-statement' }]);
+  });
+
   it('csv-parse, used only by a benchmark, is a development dependency', () => {
     expect(manifest.dependencies['csv-parse']).toBeUndefined();
     expect(manifest.devDependencies['csv-parse']).toBeDefined();

@@ -24,7 +24,12 @@ const RUNS_PER_KIND = Number(process.env.SPEEDBAND_FUZZ_RUNS ?? 10);
 const SEED = Number(process.env.SPEEDBAND_FUZZ_SEED ?? 20_240_612);
 
 const VAN = 'vehicles/parcel-van';
-const PLAN = { loop: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, rule: { name: 'damping-target', parameters: { dampingRatio: 1 } }, interpolation: 'monotone-cubic' };
+// The settling distance is an expression of speed, so that mutations reach the expression parser too.
+const PLAN = {
+  loop: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' },
+  rule: { name: 'damping-target', parameters: { dampingRatio: 1, settlingDistance_m: 'max(90, 14 * speed_mps)' } },
+  interpolation: 'monotone-cubic',
+};
 
 interface Outcome {
   readonly code: number | 'timeout';
