@@ -92,6 +92,23 @@ describe('speedband identify', () => {
     });
   }, 60_000);
 
+  it('--out that is the --log-profile or a log is refused (exit 2) before the column options are read, even with --force', async () => {
+    const profile = join(folder, 'profile.json');
+    const profileText = '{"columns": {"speed_mps": {"unit": "m/s"}}}';
+    writeFileSync(profile, profileText);
+    const onProfile = recordingIo();
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--log-profile', profile, '--out', profile, '--force'], onProfile)).toBe(2);
+    expect(onProfile.err()).toMatch(/--out .*profile\.json is the log profile .* this command reads/);
+    expect(readFileSync(profile, 'utf8')).toBe(profileText);
+    // A unit of the wrong quantity would be refused too, but the output path is checked first, before any work.
+    const logText = readFileSync(logs[0], 'utf8');
+    const onLog = recordingIo();
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--column', 'speed_mps=speed_mps:deg', '--out', logs[0], '--force'], onLog)).toBe(2);
+    expect(onLog.err()).toMatch(/is the log .* this command reads/);
+    expect(onLog.err()).not.toMatch(/needs a speed/);
+    expect(readFileSync(logs[0], 'utf8')).toBe(logText);
+  });
+
   it('--help describes options with units and defaults and gives examples', async () => {
     const io = recordingIo();
     expect(await runCli(['identify', '--help'], io)).toBe(0);

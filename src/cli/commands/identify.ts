@@ -1,7 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
+import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband identify`: step-steer logs + vehicle file → models.json (per-step and
@@ -27,6 +27,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       [
         { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
         ...expandLogPaths((args.logs as unknown[]).map(String)).map((path) => ({ path, role: 'log' })),
+        ...optionalInputs(args, [['log-profile', 'log profile']]),
       ],
     );
   }
