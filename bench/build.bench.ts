@@ -47,7 +47,7 @@ printFigure('build, peak memory', build.peakMemory_MB ?? NaN, 'MB');
 printFigure(`read + parse the same logs only, whole process, median of ${RUNS}`, read.wall_ms, 'ms');
 printFigure('ratio build / bare read (medians)', build.wall_ms / read.wall_ms, '×');
 
-const result = buildSchedule({ vehicle: VAN, logPaths: logs });
+const result = await buildSchedule({ vehicle: VAN, logPaths: logs });
 const model = recordedCheckModel(result.schedule);
 if (model === null) throw new Error('no model recorded');
 recheckSchedule({ schedule: result.schedule, model, gridSpeeds: 200 }); // warm-up

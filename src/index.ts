@@ -2,6 +2,10 @@
  * speedband's public API. This file only re-exports; see DEVELOPERS.md for the map.
  */
 export { SpeedbandError, isSpeedbandError, describeError, type ErrorLocation } from './core/errors.js';
+export { parseJsonText, jsonPointer } from './core/json-text.js';
+export { quoted, safeMessageText } from './core/quote.js';
+export { writeFileAtomic, readTextFile, sha256Hex, type WriteOutcome } from './core/files.js';
+export { checkOutputPaths, checkOutputFolder, type OutputPath, type InputPath } from './core/output-paths.js';
 export { VERSION } from './version.js';
 export { runCli } from './cli/main.js';
 // Linear systems (src/lti/) and controllers (src/controller/)
@@ -64,8 +68,9 @@ export * from './identify/index.js';
 export type { SteerLog, LogSegment, LogSplit, LogChannelSource, StepTest, StepMetrics, RejectedStep } from './log/types.js';
 export { readSteerLog, parseSteerLog, READ_DEFAULTS, type ReadLogOptions } from './log/read.js';
 export { loadLogProfile, parseLogProfile, parseColumnOptions, LOG_PROFILE_SCHEMA, type LogProfile } from './log/profile.js';
-export { mergeColumnMaps, type ColumnMap, type ColumnSource } from './log/column-map.js';
-export { CHANNELS, LOG_UNITS, type ChannelName, type LogUnit } from './log/columns.js';
+export { mergeColumnMaps, resolveColumnUnits, type ColumnMap, type ColumnSource } from './log/column-map.js';
+export { BUILT_IN_UNITS, resolveColumnUnit, type UnitConversion } from './log/column-units.js';
+export { CHANNELS, type ChannelName } from './log/columns.js';
 export { findStepTests, SEGMENT_DEFAULTS, type SegmentOptions, type StepSearch } from './log/segment.js';
 export { stepMetrics, stepLevels, METRICS_DEFAULTS, type StepWindow, type StepLevels } from './log/metrics.js';
 export { inspectLog, type LogInspection, type StepSummary, type ChannelSummary } from './log/inspect.js';
@@ -88,14 +93,16 @@ export {
   planFromJson,
   planBreakpoints,
   planThresholds,
-  ruleParametersAt,
+  makeRuleParameterLookup,
   valueAtSpeed,
+  SPEED_VARYING_PARAMETERS,
   SCHEDULE_SCHEMA,
   canonicalJson,
   computeScheduleChecksum,
   verifyScheduleChecksum,
   assembleSchedule,
   parseSchedule,
+  parseScheduleUnverified,
   readSchedule,
   writeSchedule,
   serialiseSchedule,
@@ -117,10 +124,27 @@ export {
   type BreakpointInsertion,
   type Plan,
   type PartialPlan,
+  type RuleParameterLookup,
   type ScheduleFile,
   type ScheduleInput,
 } from './schedule/index.js';
-export { exportC, exportCsv, exportJson, parseQFormat, quantiseTable, recheckQuantised, makeQuantisedRecheck, type FixedPointFormat, type QuantisedTable, type QuantisedRecheck } from './export/index.js';
+export {
+  exportC,
+  exportCsv,
+  exportJson,
+  parseQFormat,
+  quantiseTable,
+  recheckQuantised,
+  makeQuantisedRecheck,
+  allowFailingMacro,
+  commentSafe,
+  LOOKUP_STATUS,
+  type FixedPointFormat,
+  type QuantisedTable,
+  type QuantisedRecheck,
+  type HeaderCheck,
+  type FallbackGains,
+} from './export/index.js';
 // Loop analysis: margins, sensitivity peaks, stability verdicts (src/verify/)
 export {
   analyseLoop,
@@ -219,3 +243,6 @@ export { operatingPointModelFromModels, type ModelAtSpeed } from './build/operat
 export { recheckSchedule, recordedCheckModel, scheduleLoopAndController, type RecheckInput as ScheduleRecheckInput } from './build/recheck-schedule.js';
 export { recheckWithRecordedModel } from './build/quantised-recheck.js';
 export { runDemo, bundledVehicles, BUNDLED_VEHICLES, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
+export { recordedLoopAnalysis, checkExportedTable, findFallbackGains } from './build/export-check.js';
+export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
+export { DELAY_BOUNDS, requireBoundedDelay } from './build/delay-bound.js';

@@ -5,21 +5,24 @@
  */
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
+import { SpeedbandError } from '../core/errors.js';
 import { sha256Hex } from '../core/files.js';
 import type { IdentifyOptions } from '../identify/defaults.js';
 import { identifyFromLogs } from '../identify/identify-from-logs.js';
 import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { readPlan, resolvePlan, ruleParametersAt, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
 import type { RefineResult } from '../schedule/refine.js';
 import { assembleSchedule } from '../schedule/schedule-file.js';
+import { makeRuleParameterLookup } from '../schedule/rule-parameters.js';
 import { scheduleGains } from '../schedule/schedule-gains.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { ProgressCallback } from '../schedule/types.js';
 import { tuneOperatingPoint, type TunedOperatingPoint } from '../tuning/operating-point.js';
 import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
 import { checkModelFromModels, type CheckModel } from './check-model.js';
+import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
 
 /** Identification options `build` overrides: only the FOPDT and joint single-track fits feed a schedule. */
@@ -51,6 +54,16 @@ export interface BuildResult {
   readonly tuned: readonly TunedOperatingPoint[];
 }
 
+/** A tuning error at one speed, with that speed in its words and details (a plan's parameters may vary with speed). */
+function atSpeed(error: unknown, speed_mps: number): unknown {
+  if (!(error instanceof SpeedbandError) || error.code === 'plan.invalid') return error;
+  return new SpeedbandError(error.code, `tuning at ${speed_mps.toFixed(2)} m/s: ${error.message}`, {
+    location: error.location,
+    details: { ...error.details, speed_mps },
+    cause: error,
+  });
+}
+
 /** Loop specification and controller settings of a plan, in the tuning and loop code's records. */
 export function planLoopAndController(plan: Plan): { loop: LoopSpecification; controller: ControllerSettings } {
   return {
@@ -68,12 +81,16 @@ export function planLoopAndController(plan: Plan): { loop: LoopSpecification; co
  * Build a checked schedule. Deterministic: the same inputs and plan give the same schedule.
  * Throws SpeedbandError for bad input (logs, vehicle, plan) and `tuning.ruleNotApplicable` when the
  * plan's rule does not cover the loop. A schedule that fails its dense check is returned with
- * status 'failed'; the caller decides whether to write it.
+ * status 'failed'; the caller decides whether to write it. Asynchronous only because a plan's
+ * expressions of speed are compiled with mathjs, loaded then (before identification, so a plan
+ * error comes at once).
  */
-export function buildSchedule(input: BuildInput): BuildResult {
+export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const progress = input.progress ?? (() => {});
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
+  const written: PartialPlan = input.planFile !== undefined ? readPlanFile(input.planFile) : (input.plan ?? {});
+  const ruleParametersAt = await makeRuleParameterLookup(written.rule?.parameters ?? {}, input.planFile);
   // The schedule uses the joint single-track fit (or the per-speed FOPDT when that is refused), never the
   // per-step second-order fits: build skips them (the models file records `options.fitSecondOrder: false`).
   const models =
@@ -81,7 +98,7 @@ export function buildSchedule(input: BuildInput): BuildResult {
     identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, options: BUILD_IDENTIFY_OPTIONS, progress, ...(input.readOptions === undefined ? {} : { readOptions: input.readOptions }) });
   const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
   const context = { testSpeeds_mps, ...(vehicle.controllerSampleTime_s === undefined ? {} : { vehicleSampleTime_s: vehicle.controllerSampleTime_s }) };
-  const resolved = input.planFile !== undefined ? readPlan(input.planFile, context) : resolvePlan(input.plan ?? {}, context);
+  const resolved = resolvePlan(written, { ...context, ...(input.planFile === undefined ? {} : { file: input.planFile }) });
   const checkModel = checkModelFromModels(models, vehicle, resolved.check.model);
   // A refused joint fit falls back to lumped models: the plan recorded in the schedule says which was used.
   const plan: Plan = checkModel.kind === resolved.check.model ? resolved : { ...resolved, check: { ...resolved.check, model: checkModel.kind } };
@@ -91,14 +108,19 @@ export function buildSchedule(input: BuildInput): BuildResult {
   const tune = (speed_mps: number): TunedOperatingPoint => {
     let tuned = tuneCache.get(speed_mps);
     if (tuned === undefined) {
-      tuned = tuneOperatingPoint({
-        loop,
-        speed_mps,
-        model: checkModel.modelAt(speed_mps),
-        rule: plan.rule.name,
-        ruleParameters: ruleParametersAt(plan, speed_mps),
-        controller,
-      });
+      requireBoundedDelay(modelDelay_s(checkModel.modelAt(speed_mps)), controller, speed_mps);
+      try {
+        tuned = tuneOperatingPoint({
+          loop,
+          speed_mps,
+          model: checkModel.modelAt(speed_mps),
+          rule: plan.rule.name,
+          ruleParameters: ruleParametersAt(speed_mps),
+          controller,
+        });
+      } catch (error) {
+        throw atSpeed(error, speed_mps);
+      }
       tuneCache.set(speed_mps, tuned);
     }
     return tuned;
@@ -115,7 +137,10 @@ export function buildSchedule(input: BuildInput): BuildResult {
 
   const inputs = [
     { file: vehicleFile, sha256: sha256Hex(readFileSync(vehicleFile)), role: 'vehicle' },
-    ...models.inputs.map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
+    // Logs in the canonical order of identification (by content hash), whatever order a models file lists them in.
+    ...[...models.inputs]
+      .sort((a, b) => (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : a.file < b.file ? -1 : a.file > b.file ? 1 : 0))
+      .map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
     ...(input.planFile === undefined ? [] : [{ file: input.planFile, sha256: sha256Hex(readFileSync(input.planFile)), role: 'plan' }]),
   ];
   const schedule = assembleSchedule({
@@ -130,6 +155,10 @@ export function buildSchedule(input: BuildInput): BuildResult {
     modelSummary: checkModel.summary as unknown as Readonly<Record<string, unknown>>,
     modelDescription: checkModel.description,
     ruleCitation: tuned[0]?.derivation.citation,
+    // The rule's parameters as resolved at each breakpoint (tables and expressions evaluated), when the plan gives any.
+    ...(Object.keys(plan.rule.parameters).length === 0
+      ? {}
+      : { ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps) => ({ speed_mps, parameters: { ...ruleParametersAt(speed_mps) } })) }),
   });
   return { schedule, models, plan, checkModel, refinement, tuned };
 }

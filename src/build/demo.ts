@@ -8,13 +8,18 @@ import { fileURLToPath } from 'node:url';
 import { SpeedbandError } from '../core/errors.js';
 import type { WriteOutcome } from '../core/files.js';
 import { writeFileAtomic } from '../core/files.js';
+import { checkOutputFolder, checkOutputPaths } from '../core/output-paths.js';
+import { scheduleTable } from '../schedule/schedule-lookup.js';
 import { exportC } from '../export/c-header.js';
 import { exportCsv } from '../export/csv.js';
 import { writeModels } from '../identify/models-file.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import { writeSchedule } from '../schedule/schedule-file.js';
-import { buildSchedule, type BuildResult } from './build-schedule.js';
+import { buildSchedule, planLoopAndController, type BuildResult } from './build-schedule.js';
+import { findFallbackGains } from './export-check.js';
+import { makeLoopAnalysis } from './loop-analysis.js';
 import { recheckSchedule, recordedCheckModel } from './recheck-schedule.js';
+import { quoted } from '../core/quote.js';
 
 /** The bundled vehicles folder (…/vehicles beside src/ or dist/). */
 export const BUNDLED_VEHICLES = fileURLToPath(new URL('../../vehicles/', import.meta.url));
@@ -43,10 +48,10 @@ export function bundledVehicles(): string[] {
 }
 
 /** Run the demo; a failing schedule is still written (marked failed) so that it can be looked at. */
-export function runDemo(input: DemoInput): DemoResult {
+export async function runDemo(input: DemoInput): Promise<DemoResult> {
   const known = bundledVehicles();
   if (!known.includes(input.vehicle)) {
-    throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle "${input.vehicle}" — choose one of: ${known.join(', ')}`);
+    throw new SpeedbandError('demo.unknownVehicle', `no bundled demo vehicle ${quoted(input.vehicle)} — choose one of: ${known.join(', ')}`);
   }
   // Paths relative to the working directory, so that the files written name no machine paths.
   const folder = relative(process.cwd(), join(BUNDLED_VEHICLES, input.vehicle)) || '.';
@@ -55,15 +60,22 @@ export function runDemo(input: DemoInput): DemoResult {
     .filter((name) => name.endsWith('.csv'))
     .sort()
     .map((name) => join(logsFolder, name));
-  const build = buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
-  const files: { path: string; what: string; outcome: WriteOutcome }[] = [];
   const modelsPath = join(input.outDir, 'models.json');
-  files.push({ path: modelsPath, what: 'identified models (per step, per speed, single-track)', outcome: writeModels(modelsPath, build.models, input.force) });
   const schedulePath = join(input.outDir, 'schedule.json');
-  files.push({ path: schedulePath, what: `gain schedule (status ${build.schedule.status})`, outcome: writeSchedule(schedulePath, build.schedule, input.force) });
   const headerPath = join(input.outDir, 'schedule.h');
-  files.push({ path: headerPath, what: 'C99 header for firmware', outcome: writeFileAtomic(headerPath, exportC(build.schedule, {}).text, input.force) });
   const csvPath = join(input.outDir, 'schedule.csv');
+  checkOutputFolder({ path: input.outDir, option: '--out' });
+  checkOutputPaths(
+    [modelsPath, schedulePath, headerPath, csvPath].map((path) => ({ path, option: '--out' })),
+    [{ path: join(folder, 'vehicle.json'), role: 'vehicle file' }, ...logPaths.map((path) => ({ path, role: 'log' }))],
+  );
+  const build = await buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
+  const files: { path: string; what: string; outcome: WriteOutcome }[] = [];
+  files.push({ path: modelsPath, what: 'identified models (per step, per speed, single-track)', outcome: writeModels(modelsPath, build.models, input.force) });
+  files.push({ path: schedulePath, what: `gain schedule (status ${build.schedule.status})`, outcome: writeSchedule(schedulePath, build.schedule, input.force) });
+  const { loop, controller } = planLoopAndController(build.plan);
+  const fallback = findFallbackGains(build.schedule, scheduleTable(build.schedule), makeLoopAnalysis(build.checkModel, loop, controller));
+  files.push({ path: headerPath, what: 'C99 header for firmware', outcome: writeFileAtomic(headerPath, exportC(build.schedule, { fallback }).text, input.force) });
   files.push({ path: csvPath, what: 'breakpoints, gains and margins for a spreadsheet', outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), input.force) });
   const model = recordedCheckModel(build.schedule);
   if (model === null) throw new SpeedbandError('demo.internal', 'the demo schedule records no rebuildable model');

@@ -13,11 +13,13 @@ import type { AnalyseLoop } from '../schedule/types.js';
 import { analyseLoop } from '../verify/analyse-loop.js';
 import type { LoopMargins } from '../verify/types.js';
 import type { CheckModel } from './check-model.js';
+import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 
 /** Build the (speed_mps, gains) → LoopMargins function the dense check and refinement call. */
 export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings): AnalyseLoop {
   return (speed_mps: number, gains: PidGains): LoopMargins => {
     const operatingPoint = model.modelAt(speed_mps);
+    requireBoundedDelay(modelDelay_s(operatingPoint), controller, speed_mps);
     const plant =
       operatingPoint.kind === 'single-track'
         ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)

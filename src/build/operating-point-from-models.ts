@@ -8,6 +8,7 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { OperatingPointModel } from '../tuning/operating-point.js';
 import type { Vehicle } from '../vehicle/types.js';
 import { checkModelFromModels, type CheckModelKind } from './check-model.js';
+import { quoted } from '../core/quote.js';
 
 export interface ModelAtSpeed {
   readonly model: OperatingPointModel;
@@ -41,7 +42,7 @@ export function operatingPointModelFromModels(models: ModelsFile, vehicle: Vehic
   const warnings: string[] = [];
   if (vehicleSha256 !== undefined && vehicleSha256 !== models.vehicle.sha256) {
     warnings.push(
-      `the vehicle file given ("${vehicle.name}") differs from the one the models were identified with ("${models.vehicle.name}", ${models.vehicle.file}): ` +
+      `the vehicle file given (${quoted(vehicle.name)}) differs from the one the models were identified with (${quoted(models.vehicle.name)}, ${models.vehicle.file}): ` +
         'the fitted stiffnesses assume that file\'s mass, inertia and geometry — pass the same vehicle file or identify again',
     );
   }

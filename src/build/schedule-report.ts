@@ -2,6 +2,7 @@
  * The terminal report of a schedule: breakpoints with gains and proven margins, the worst grid
  * point of the dense check, inserted breakpoints, failures, and the safety cautions.
  */
+import { escapeControlCharacters } from '../core/quote.js';
 import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult, WorstMargins } from '../schedule/types.js';
@@ -20,6 +21,22 @@ export function formatWorstMargins(worst: WorstMargins): string[] {
   ];
 }
 
+/** The rule's parameters as the plan wrote them, and those that vary with speed as resolved at the breakpoints. */
+export function formatRuleParameters(schedule: ScheduleFile): string[] {
+  const written = Object.entries(schedule.provenance.rule.parameters);
+  if (written.length === 0) return [];
+  const shown = (value: unknown): string =>
+    typeof value === 'string' ? escapeControlCharacters(value) : typeof value === 'number' ? String(value) : `table over speed ${JSON.stringify(value)}`;
+  const lines = [`  rule parameters: ${written.map(([name, value]) => `${name} = ${shown(value)}`).join('; ')}`];
+  const atBreakpoints = schedule.provenance.rule.parametersAtBreakpoints ?? [];
+  for (const [name, value] of written) {
+    if (typeof value === 'number' || name === 'controllerType' || atBreakpoints.length === 0) continue;
+    const values = atBreakpoints.map((entry) => entry.parameters[name]).map((v) => (typeof v === 'number' ? String(Number(v.toPrecision(4))) : String(v)));
+    lines.push(`    ${name} at the breakpoints: ${values.join(', ')}`);
+  }
+  return lines;
+}
+
 /** Breakpoint table, check summary and cautions of a schedule. */
 export function formatSchedule(schedule: ScheduleFile): string {
   const lines: string[] = [];
@@ -31,6 +48,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
   );
   lines.push(`  error: ${loop.error}`);
   lines.push(`  units: kp ${schedule.units.kp}; ki ${schedule.units.ki}; kd ${schedule.units.kd}`);
+  lines.push(...formatRuleParameters(schedule));
   lines.push('');
   const rows = [['speed m/s', 'kp', 'ki', 'kd', 'lower GM dB', 'upper GM dB', 'PM °', 'delay margin s', 'Ms', 'verdict', '']];
   for (const breakpoint of schedule.breakpoints) {

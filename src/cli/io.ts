@@ -1,3 +1,8 @@
+import { SpeedbandError } from '../core/errors.js';
+import { describeFileError } from '../core/files.js';
+import { writeAllSync, type WriteCall } from '../core/write-all.js';
+import { isatty } from 'node:tty';
+
 /** Where a command writes. Tests pass a recorder; the binary passes the process streams. */
 export interface CommandIo {
   readonly stdout: (text: string) => void;
@@ -6,13 +11,40 @@ export interface CommandIo {
   readonly progress: (text: string) => void;
 }
 
-export const processIo: CommandIo = {
-  stdout: (text) => process.stdout.write(text),
-  stderr: (text) => process.stderr.write(text),
-  progress: (text) => {
-    if (process.stderr.isTTY) process.stderr.write(text);
-  },
-};
+/**
+ * Io on file descriptors, written synchronously and completely (src/core/write-all.ts): a failed write
+ * to standard output (a full disk ENOSPC, a closed pipe EPIPE) throws `output.stdoutFailed`, which the
+ * CLI reports with exit 2 — never a truncated file with exit 0. Failures on standard error are
+ * ignored (there is nowhere left to report them).
+ */
+export function fileDescriptorIo(stdoutFd: number, stderrFd: number, write?: WriteCall): CommandIo {
+  const toStderr = (text: string): void => {
+    try {
+      writeAllSync(stderrFd, text, write);
+    } catch {
+      /* nowhere to report it */
+    }
+  };
+  return {
+    stdout: (text) => {
+      try {
+        writeAllSync(stdoutFd, text, write);
+      } catch (cause) {
+        throw new SpeedbandError(
+          'output.stdoutFailed',
+          `cannot write to standard output: ${describeFileError(cause)} — the output is incomplete; do not use it (free space, or read the whole output)`,
+          { details: { reason: (cause as NodeJS.ErrnoException).code ?? null }, cause },
+        );
+      }
+    },
+    stderr: toStderr,
+    progress: (text) => {
+      if (isatty(stderrFd)) toStderr(text);
+    },
+  };
+}
+
+export const processIo: CommandIo = fileDescriptorIo(1, 2);
 
 /** A recording io for tests and for library callers that want the text. */
 export function recordingIo(): CommandIo & { out: () => string; err: () => string } {

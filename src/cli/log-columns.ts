@@ -12,16 +12,21 @@ export function withLogColumnOptions(yargs: Argv): Argv {
       type: 'string',
       array: true,
       describe:
-        'Map one channel, CHANNEL=HEADER[:UNIT] (overrides the profile; repeatable). Channels: time_s, speed_mps, steer_cmd_rad, yaw_rate_radps, steer_angle_rad, lat_accel_mps2. Units: s, ms, m/s, km/h, mph, rad, deg, steering-wheel-rad, steering-wheel-deg, rad/s, deg/s, m/s2',
+        "Map one channel, CHANNEL=HEADER[:UNIT] (overrides the profile; repeatable). Channels: time_s, speed_mps, steer_cmd_rad, yaw_rate_radps, steer_angle_rad, lat_accel_mps2. UNIT: any unit of the channel's quantity as mathjs writes it — time s, ms, min; speed m/s, km/h, mi/h (or mph), ft/s; angle rad, deg, grad; angular rate rad/s, deg/s; acceleration m/s^2, ft/s^2, g (standard gravity) — or steering-wheel-deg / steering-wheel-rad (divided by the vehicle's steering ratio)",
     });
 }
 
-/** The column map of --log-profile and --column (the options win), or undefined when neither is given. */
+/** The column map of --log-profile and --column (the options win), units converted, or undefined when neither is given. */
 export async function logColumnsFromArgs(args: Record<string, unknown>): Promise<ColumnMap | undefined> {
   const columnOptions = (args.column as string[] | undefined) ?? [];
   if (args['log-profile'] === undefined && columnOptions.length === 0) return undefined;
   const { loadLogProfile, parseColumnOptions } = await import('../log/profile.js');
   const { mergeColumnMaps } = await import('../log/column-map.js');
-  const profile = args['log-profile'] === undefined ? undefined : loadLogProfile(String(args['log-profile']));
-  return mergeColumnMaps(profile?.columns, parseColumnOptions(columnOptions));
+  const profile = args['log-profile'] === undefined ? undefined : await loadLogProfile(String(args['log-profile']));
+  return mergeColumnMaps(profile?.columns, await parseColumnOptions(columnOptions));
+}
+
+/** The input files named by the given options (those that were given), with their role, for checkOutputPaths. */
+export function optionalInputs(args: Record<string, unknown>, options: readonly (readonly [string, string])[]): { path: string; role: string }[] {
+  return options.filter(([option]) => args[option] !== undefined).map(([option, role]) => ({ path: String(args[option]), role }));
 }

@@ -1,16 +1,24 @@
 import yargs from 'yargs';
+import { isatty } from 'node:tty';
 import { describeError, isSpeedbandError } from '../core/errors.js';
+import { safeMessageText } from '../core/quote.js';
+import type { CommandModule } from './command.js';
 import { COMMANDS } from './commands/index.js';
 import { EXIT, processIo, type CommandIo } from './io.js';
 import { SAFETY_EPILOGUE } from './safety.js';
 import { VERSION } from '../version.js';
+
+export interface RunOptions {
+  /** The commands to offer (default: all of speedband's); tests pass a command made with other dependencies. */
+  readonly commands?: readonly CommandModule[];
+}
 
 /**
  * Run the CLI on an argument vector and return the exit code.
  * Usage errors and `SpeedbandError`s become a message on stderr and exit 2;
  * anything else is a bug (exit 3).
  */
-export async function runCli(argv: readonly string[], io: CommandIo = processIo): Promise<number> {
+export async function runCli(argv: readonly string[], io: CommandIo = processIo, options: RunOptions = {}): Promise<number> {
   let exitCode: number = EXIT.ok;
   let parser = yargs()
     .scriptName('speedband')
@@ -24,7 +32,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
     .strict()
     .recommendCommands()
     .demandCommand(1, 'Name a command: speedband <command> --help shows its options.')
-    .wrap(Math.min(110, process.stdout.columns ?? 100))
+    .wrap(Math.min(110, terminalColumns() ?? 100))
     .epilogue(SAFETY_EPILOGUE)
     .exitProcess(false)
     .fail((message, error) => {
@@ -32,7 +40,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
       throw new UsageError(message ?? 'invalid usage');
     });
 
-  for (const module of COMMANDS) {
+  for (const module of options.commands ?? COMMANDS) {
     parser = parser.command(
       module.command,
       module.describe,
@@ -55,19 +63,24 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo)
     return exitCode;
   } catch (error) {
     if (error instanceof UsageError) {
-      io.stderr(`speedband: ${error.message}\n`);
+      io.stderr(`speedband: ${safeMessageText(error.message)}\n`);
       return EXIT.badInput;
     }
     if (isSpeedbandError(error)) {
       io.stderr(`speedband: ${describeError(error)}\n`);
       return EXIT.badInput;
     }
-    io.stderr(`speedband: internal error — please report it with the command you ran:\n${(error as Error).stack ?? String(error)}\n`);
+    io.stderr(`speedband: internal error — please report it with the command you ran:\n${safeMessageText((error as Error).stack ?? String(error))}\n`);
     return EXIT.internal;
   }
 }
 
 class UsageError extends Error {}
+
+/** The terminal's width when standard output is one (process.stdout is not touched otherwise: io writes to fd 1 itself). */
+function terminalColumns(): number | undefined {
+  return isatty(1) ? process.stdout.columns : undefined;
+}
 
 /**
  * yargs renders the whole help text after starting every command, to show it should the command

@@ -9,6 +9,7 @@
  */
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { ModelDrift, ModelParameterDrift } from './types.js';
+import { quoted } from '../core/quote.js';
 
 /** The single-track parameters compared, in report order. */
 export const MODEL_PARAMETERS = [
@@ -41,7 +42,7 @@ const drift = (name: string, before: number, after: number): ModelParameterDrift
 
 function missingReason(model: Readonly<Record<string, unknown>>, which: string): string | null {
   if (model.kind !== 'single-track') {
-    return `the ${which} schedule's model is ${typeof model.kind === 'string' ? `"${model.kind}"` : 'not named'}, not a joint single-track fit`;
+    return `the ${which} schedule's model is ${typeof model.kind === 'string' ? quoted(model.kind) : 'not named'}, not a joint single-track fit`;
   }
   const missing = MODEL_PARAMETERS.filter((name) => !finiteNumber(model[name]));
   return missing.length === 0 ? null : `the ${which} schedule's single-track model lacks ${missing.join(', ')}`;

@@ -5,6 +5,8 @@
  * message that says what was found, what was expected and what to do.
  * The CLI turns it into words on stderr and a non-zero exit code.
  */
+import { safeMessageText } from './quote.js';
+
 export interface ErrorLocation {
   readonly file?: string;
   /** 1-based line number in a text file. */
@@ -47,8 +49,11 @@ export function formatLocation(location: ErrorLocation): string {
   return parts.join(', ');
 }
 
-/** The full user-facing text of an error: location, then message. */
+/**
+ * The full user-facing text of an error: location, then message — control characters escaped and
+ * over-long lines cut (src/core/quote.ts), whatever text from an input the message carries.
+ */
 export function describeError(error: SpeedbandError): string {
   const where = formatLocation(error.location);
-  return where === '' ? error.message : `${where}: ${error.message}`;
+  return safeMessageText(where === '' ? error.message : `${where}: ${error.message}`);
 }

@@ -5,7 +5,7 @@ import { createRequire } from 'node:module';
 const require = createRequire(import.meta.url);
 
 export const validateLogProfile = validate0;
-const schema0 = {"type":"object","properties":{"description":{"type":"string"},"columns":{"type":"object","properties":{"time_s":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"speed_mps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"steer_cmd_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"yaw_rate_radps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"steer_angle_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false},"lat_accel_mps2":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"enum":["s","ms","m/s","km/h","mph","rad","deg","steering-wheel-rad","steering-wheel-deg","rad/s","deg/s","m/s2"],"description":"unit the column was recorded in"}},"additionalProperties":false}},"additionalProperties":false}},"required":["columns"],"additionalProperties":false};
+const schema0 = {"type":"object","properties":{"description":{"type":"string"},"columns":{"type":"object","properties":{"time_s":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"speed_mps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"steer_cmd_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"yaw_rate_radps":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"steer_angle_rad":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false},"lat_accel_mps2":{"type":"object","properties":{"from":{"type":"string","minLength":1,"description":"header name of the column in the log file"},"unit":{"type":"string","minLength":1,"maxLength":64,"description":"unit the column was recorded in: any unit of the channel's quantity (km/h, mi/h, deg, deg/s, ms, g, steering-wheel-deg…)"}},"additionalProperties":false}},"additionalProperties":false}},"required":["columns"],"additionalProperties":false};
 const func0 = require("ajv/dist/runtime/ucs2length").default;
 
 function validate0(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
@@ -103,8 +103,9 @@ errors++;
 }
 if(data2.unit !== undefined){
 let data4 = data2.unit;
-if(!((((((((((((data4 === "s") || (data4 === "ms")) || (data4 === "m/s")) || (data4 === "km/h")) || (data4 === "mph")) || (data4 === "rad")) || (data4 === "deg")) || (data4 === "steering-wheel-rad")) || (data4 === "steering-wheel-deg")) || (data4 === "rad/s")) || (data4 === "deg/s")) || (data4 === "m/s2"))){
-const err7 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.time_s.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(typeof data4 === "string"){
+if(func0(data4) > 64){
+const err7 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err7];
 }
@@ -113,10 +114,8 @@ vErrors.push(err7);
 }
 errors++;
 }
-}
-}
-else {
-const err8 = {instancePath:instancePath+"/columns/time_s",schemaPath:"#/properties/columns/properties/time_s/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(func0(data4) < 1){
+const err8 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err8];
 }
@@ -126,12 +125,8 @@ vErrors.push(err8);
 errors++;
 }
 }
-if(data1.speed_mps !== undefined){
-let data5 = data1.speed_mps;
-if(data5 && typeof data5 == "object" && !Array.isArray(data5)){
-for(const key3 in data5){
-if(!((key3 === "from") || (key3 === "unit"))){
-const err9 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
+else {
+const err9 = {instancePath:instancePath+"/columns/time_s/unit",schemaPath:"#/properties/columns/properties/time_s/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err9];
 }
@@ -141,11 +136,9 @@ vErrors.push(err9);
 errors++;
 }
 }
-if(data5.from !== undefined){
-let data6 = data5.from;
-if(typeof data6 === "string"){
-if(func0(data6) < 1){
-const err10 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+}
+else {
+const err10 = {instancePath:instancePath+"/columns/time_s",schemaPath:"#/properties/columns/properties/time_s/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err10];
 }
@@ -155,8 +148,12 @@ vErrors.push(err10);
 errors++;
 }
 }
-else {
-const err11 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data1.speed_mps !== undefined){
+let data5 = data1.speed_mps;
+if(data5 && typeof data5 == "object" && !Array.isArray(data5)){
+for(const key3 in data5){
+if(!((key3 === "from") || (key3 === "unit"))){
+const err11 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err11];
 }
@@ -166,10 +163,11 @@ vErrors.push(err11);
 errors++;
 }
 }
-if(data5.unit !== undefined){
-let data7 = data5.unit;
-if(!((((((((((((data7 === "s") || (data7 === "ms")) || (data7 === "m/s")) || (data7 === "km/h")) || (data7 === "mph")) || (data7 === "rad")) || (data7 === "deg")) || (data7 === "steering-wheel-rad")) || (data7 === "steering-wheel-deg")) || (data7 === "rad/s")) || (data7 === "deg/s")) || (data7 === "m/s2"))){
-const err12 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.speed_mps.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(data5.from !== undefined){
+let data6 = data5.from;
+if(typeof data6 === "string"){
+if(func0(data6) < 1){
+const err12 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err12];
 }
@@ -179,9 +177,8 @@ vErrors.push(err12);
 errors++;
 }
 }
-}
 else {
-const err13 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err13 = {instancePath:instancePath+"/columns/speed_mps/from",schemaPath:"#/properties/columns/properties/speed_mps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err13];
 }
@@ -191,12 +188,11 @@ vErrors.push(err13);
 errors++;
 }
 }
-if(data1.steer_cmd_rad !== undefined){
-let data8 = data1.steer_cmd_rad;
-if(data8 && typeof data8 == "object" && !Array.isArray(data8)){
-for(const key4 in data8){
-if(!((key4 === "from") || (key4 === "unit"))){
-const err14 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
+if(data5.unit !== undefined){
+let data7 = data5.unit;
+if(typeof data7 === "string"){
+if(func0(data7) > 64){
+const err14 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err14];
 }
@@ -205,12 +201,8 @@ vErrors.push(err14);
 }
 errors++;
 }
-}
-if(data8.from !== undefined){
-let data9 = data8.from;
-if(typeof data9 === "string"){
-if(func0(data9) < 1){
-const err15 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(func0(data7) < 1){
+const err15 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -221,7 +213,7 @@ errors++;
 }
 }
 else {
-const err16 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err16 = {instancePath:instancePath+"/columns/speed_mps/unit",schemaPath:"#/properties/columns/properties/speed_mps/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err16];
 }
@@ -231,10 +223,9 @@ vErrors.push(err16);
 errors++;
 }
 }
-if(data8.unit !== undefined){
-let data10 = data8.unit;
-if(!((((((((((((data10 === "s") || (data10 === "ms")) || (data10 === "m/s")) || (data10 === "km/h")) || (data10 === "mph")) || (data10 === "rad")) || (data10 === "deg")) || (data10 === "steering-wheel-rad")) || (data10 === "steering-wheel-deg")) || (data10 === "rad/s")) || (data10 === "deg/s")) || (data10 === "m/s2"))){
-const err17 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.steer_cmd_rad.properties.unit.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err17 = {instancePath:instancePath+"/columns/speed_mps",schemaPath:"#/properties/columns/properties/speed_mps/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err17];
 }
@@ -244,9 +235,12 @@ vErrors.push(err17);
 errors++;
 }
 }
-}
-else {
-const err18 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data1.steer_cmd_rad !== undefined){
+let data8 = data1.steer_cmd_rad;
+if(data8 && typeof data8 == "object" && !Array.isArray(data8)){
+for(const key4 in data8){
+if(!((key4 === "from") || (key4 === "unit"))){
+const err18 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err18];
 }
@@ -256,12 +250,11 @@ vErrors.push(err18);
 errors++;
 }
 }
-if(data1.yaw_rate_radps !== undefined){
-let data11 = data1.yaw_rate_radps;
-if(data11 && typeof data11 == "object" && !Array.isArray(data11)){
-for(const key5 in data11){
-if(!((key5 === "from") || (key5 === "unit"))){
-const err19 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
+if(data8.from !== undefined){
+let data9 = data8.from;
+if(typeof data9 === "string"){
+if(func0(data9) < 1){
+const err19 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err19];
 }
@@ -271,11 +264,8 @@ vErrors.push(err19);
 errors++;
 }
 }
-if(data11.from !== undefined){
-let data12 = data11.from;
-if(typeof data12 === "string"){
-if(func0(data12) < 1){
-const err20 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err20 = {instancePath:instancePath+"/columns/steer_cmd_rad/from",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err20];
 }
@@ -285,8 +275,11 @@ vErrors.push(err20);
 errors++;
 }
 }
-else {
-const err21 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data8.unit !== undefined){
+let data10 = data8.unit;
+if(typeof data10 === "string"){
+if(func0(data10) > 64){
+const err21 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err21];
 }
@@ -295,11 +288,8 @@ vErrors.push(err21);
 }
 errors++;
 }
-}
-if(data11.unit !== undefined){
-let data13 = data11.unit;
-if(!((((((((((((data13 === "s") || (data13 === "ms")) || (data13 === "m/s")) || (data13 === "km/h")) || (data13 === "mph")) || (data13 === "rad")) || (data13 === "deg")) || (data13 === "steering-wheel-rad")) || (data13 === "steering-wheel-deg")) || (data13 === "rad/s")) || (data13 === "deg/s")) || (data13 === "m/s2"))){
-const err22 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.yaw_rate_radps.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(func0(data10) < 1){
+const err22 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err22];
 }
@@ -309,9 +299,8 @@ vErrors.push(err22);
 errors++;
 }
 }
-}
 else {
-const err23 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err23 = {instancePath:instancePath+"/columns/steer_cmd_rad/unit",schemaPath:"#/properties/columns/properties/steer_cmd_rad/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err23];
 }
@@ -321,12 +310,9 @@ vErrors.push(err23);
 errors++;
 }
 }
-if(data1.steer_angle_rad !== undefined){
-let data14 = data1.steer_angle_rad;
-if(data14 && typeof data14 == "object" && !Array.isArray(data14)){
-for(const key6 in data14){
-if(!((key6 === "from") || (key6 === "unit"))){
-const err24 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+}
+else {
+const err24 = {instancePath:instancePath+"/columns/steer_cmd_rad",schemaPath:"#/properties/columns/properties/steer_cmd_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err24];
 }
@@ -336,11 +322,12 @@ vErrors.push(err24);
 errors++;
 }
 }
-if(data14.from !== undefined){
-let data15 = data14.from;
-if(typeof data15 === "string"){
-if(func0(data15) < 1){
-const err25 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(data1.yaw_rate_radps !== undefined){
+let data11 = data1.yaw_rate_radps;
+if(data11 && typeof data11 == "object" && !Array.isArray(data11)){
+for(const key5 in data11){
+if(!((key5 === "from") || (key5 === "unit"))){
+const err25 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err25];
 }
@@ -350,8 +337,11 @@ vErrors.push(err25);
 errors++;
 }
 }
-else {
-const err26 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data11.from !== undefined){
+let data12 = data11.from;
+if(typeof data12 === "string"){
+if(func0(data12) < 1){
+const err26 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err26];
 }
@@ -361,10 +351,8 @@ vErrors.push(err26);
 errors++;
 }
 }
-if(data14.unit !== undefined){
-let data16 = data14.unit;
-if(!((((((((((((data16 === "s") || (data16 === "ms")) || (data16 === "m/s")) || (data16 === "km/h")) || (data16 === "mph")) || (data16 === "rad")) || (data16 === "deg")) || (data16 === "steering-wheel-rad")) || (data16 === "steering-wheel-deg")) || (data16 === "rad/s")) || (data16 === "deg/s")) || (data16 === "m/s2"))){
-const err27 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.steer_angle_rad.properties.unit.enum},message:"must be equal to one of the allowed values"};
+else {
+const err27 = {instancePath:instancePath+"/columns/yaw_rate_radps/from",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err27];
 }
@@ -374,9 +362,11 @@ vErrors.push(err27);
 errors++;
 }
 }
-}
-else {
-const err28 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data11.unit !== undefined){
+let data13 = data11.unit;
+if(typeof data13 === "string"){
+if(func0(data13) > 64){
+const err28 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err28];
 }
@@ -385,13 +375,8 @@ vErrors.push(err28);
 }
 errors++;
 }
-}
-if(data1.lat_accel_mps2 !== undefined){
-let data17 = data1.lat_accel_mps2;
-if(data17 && typeof data17 == "object" && !Array.isArray(data17)){
-for(const key7 in data17){
-if(!((key7 === "from") || (key7 === "unit"))){
-const err29 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+if(func0(data13) < 1){
+const err29 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err29];
 }
@@ -401,11 +386,8 @@ vErrors.push(err29);
 errors++;
 }
 }
-if(data17.from !== undefined){
-let data18 = data17.from;
-if(typeof data18 === "string"){
-if(func0(data18) < 1){
-const err30 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err30 = {instancePath:instancePath+"/columns/yaw_rate_radps/unit",schemaPath:"#/properties/columns/properties/yaw_rate_radps/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err30];
 }
@@ -415,8 +397,9 @@ vErrors.push(err30);
 errors++;
 }
 }
+}
 else {
-const err31 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err31 = {instancePath:instancePath+"/columns/yaw_rate_radps",schemaPath:"#/properties/columns/properties/yaw_rate_radps/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err31];
 }
@@ -426,10 +409,12 @@ vErrors.push(err31);
 errors++;
 }
 }
-if(data17.unit !== undefined){
-let data19 = data17.unit;
-if(!((((((((((((data19 === "s") || (data19 === "ms")) || (data19 === "m/s")) || (data19 === "km/h")) || (data19 === "mph")) || (data19 === "rad")) || (data19 === "deg")) || (data19 === "steering-wheel-rad")) || (data19 === "steering-wheel-deg")) || (data19 === "rad/s")) || (data19 === "deg/s")) || (data19 === "m/s2"))){
-const err32 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/enum",keyword:"enum",params:{allowedValues: schema0.properties.columns.properties.lat_accel_mps2.properties.unit.enum},message:"must be equal to one of the allowed values"};
+if(data1.steer_angle_rad !== undefined){
+let data14 = data1.steer_angle_rad;
+if(data14 && typeof data14 == "object" && !Array.isArray(data14)){
+for(const key6 in data14){
+if(!((key6 === "from") || (key6 === "unit"))){
+const err32 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err32];
 }
@@ -439,9 +424,11 @@ vErrors.push(err32);
 errors++;
 }
 }
-}
-else {
-const err33 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data14.from !== undefined){
+let data15 = data14.from;
+if(typeof data15 === "string"){
+if(func0(data15) < 1){
+const err33 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -451,9 +438,8 @@ vErrors.push(err33);
 errors++;
 }
 }
-}
 else {
-const err34 = {instancePath:instancePath+"/columns",schemaPath:"#/properties/columns/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err34 = {instancePath:instancePath+"/columns/steer_angle_rad/from",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err34];
 }
@@ -463,14 +449,160 @@ vErrors.push(err34);
 errors++;
 }
 }
-}
-else {
-const err35 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data14.unit !== undefined){
+let data16 = data14.unit;
+if(typeof data16 === "string"){
+if(func0(data16) > 64){
+const err35 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
 if(vErrors === null){
 vErrors = [err35];
 }
 else {
 vErrors.push(err35);
+}
+errors++;
+}
+if(func0(data16) < 1){
+const err36 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err36];
+}
+else {
+vErrors.push(err36);
+}
+errors++;
+}
+}
+else {
+const err37 = {instancePath:instancePath+"/columns/steer_angle_rad/unit",schemaPath:"#/properties/columns/properties/steer_angle_rad/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err37];
+}
+else {
+vErrors.push(err37);
+}
+errors++;
+}
+}
+}
+else {
+const err38 = {instancePath:instancePath+"/columns/steer_angle_rad",schemaPath:"#/properties/columns/properties/steer_angle_rad/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err38];
+}
+else {
+vErrors.push(err38);
+}
+errors++;
+}
+}
+if(data1.lat_accel_mps2 !== undefined){
+let data17 = data1.lat_accel_mps2;
+if(data17 && typeof data17 == "object" && !Array.isArray(data17)){
+for(const key7 in data17){
+if(!((key7 === "from") || (key7 === "unit"))){
+const err39 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err39];
+}
+else {
+vErrors.push(err39);
+}
+errors++;
+}
+}
+if(data17.from !== undefined){
+let data18 = data17.from;
+if(typeof data18 === "string"){
+if(func0(data18) < 1){
+const err40 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err40];
+}
+else {
+vErrors.push(err40);
+}
+errors++;
+}
+}
+else {
+const err41 = {instancePath:instancePath+"/columns/lat_accel_mps2/from",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/from/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err41];
+}
+else {
+vErrors.push(err41);
+}
+errors++;
+}
+}
+if(data17.unit !== undefined){
+let data19 = data17.unit;
+if(typeof data19 === "string"){
+if(func0(data19) > 64){
+const err42 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/maxLength",keyword:"maxLength",params:{limit: 64},message:"must NOT have more than 64 characters"};
+if(vErrors === null){
+vErrors = [err42];
+}
+else {
+vErrors.push(err42);
+}
+errors++;
+}
+if(func0(data19) < 1){
+const err43 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err43];
+}
+else {
+vErrors.push(err43);
+}
+errors++;
+}
+}
+else {
+const err44 = {instancePath:instancePath+"/columns/lat_accel_mps2/unit",schemaPath:"#/properties/columns/properties/lat_accel_mps2/properties/unit/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err44];
+}
+else {
+vErrors.push(err44);
+}
+errors++;
+}
+}
+}
+else {
+const err45 = {instancePath:instancePath+"/columns/lat_accel_mps2",schemaPath:"#/properties/columns/properties/lat_accel_mps2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err45];
+}
+else {
+vErrors.push(err45);
+}
+errors++;
+}
+}
+}
+else {
+const err46 = {instancePath:instancePath+"/columns",schemaPath:"#/properties/columns/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err46];
+}
+else {
+vErrors.push(err46);
+}
+errors++;
+}
+}
+}
+else {
+const err47 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err47];
+}
+else {
+vErrors.push(err47);
 }
 errors++;
 }
@@ -484,7 +616,7 @@ const schema2 = {"type":"object","additionalProperties":false,"required":["file"
 const schema7 = {"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","reasonCode","reason","fopdt"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"reasonCode":{"type":"string"},"reason":{"type":"string"},"fopdt":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","r2"],"properties":{"gain":{"type":["number","null"]},"timeConstant_s":{"type":["number","null"]},"deadTime_s":{"type":["number","null"]},"r2":{"type":["number","null"]}}}}};
 const schema8 = {"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}}}};
 const schema9 = {"type":"object","additionalProperties":false,"required":["reasonCode","reason"],"properties":{"reasonCode":{"type":"string"},"reason":{"type":"string"}}};
-const func6 = Object.prototype.hasOwnProperty;
+const func18 = Object.prototype.hasOwnProperty;
 const pattern0 = new RegExp("^[0-9a-f]{64}$", "u");
 const schema3 = {"type":"object","additionalProperties":false,"required":["file","stepIndex","onset_s","speed_mps","amplitude_rad","direction","yawNoise_radps","fopdt","secondOrder","secondOrderZero","chosenModel"],"properties":{"file":{"type":"string"},"stepIndex":{"type":"integer","minimum":0},"onset_s":{"type":"number"},"speed_mps":{"type":"number"},"amplitude_rad":{"type":"number"},"direction":{"enum":["left","right"]},"yawNoise_radps":{"type":"number"},"fopdt":{"$ref":"#/definitions/stepFopdtRecord"},"secondOrder":{"$ref":"#/definitions/secondOrderRecord"},"secondOrderZero":{"$ref":"#/definitions/secondOrderRecord"},"chosenModel":{"enum":["fopdt","second-order","second-order-zero"]}}};
 const schema4 = {"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s","standardErrors","ci95","bias_radps","rmse","nrmse","r2","bic","stopReason","iterations","residualLag1Autocorrelation","ljungBoxQ","residualsWhite","twoPoint"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"standardErrors":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}}},"ci95":{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"timeConstant_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2},"deadTime_s":{"type":"array","items":{"type":"number"},"minItems":2,"maxItems":2}}},"bias_radps":{"type":"number"},"rmse":{"type":"number"},"nrmse":{"type":"number"},"r2":{"type":"number"},"bic":{"type":"number"},"stopReason":{"enum":["converged","iterationCap","nonFinite"]},"iterations":{"type":"integer","minimum":0},"residualLag1Autocorrelation":{"type":"number"},"ljungBoxQ":{"type":"number"},"residualsWhite":{"type":"boolean"},"twoPoint":{"anyOf":[{"type":"null"},{"type":"object","additionalProperties":false,"required":["gain","timeConstant_s","deadTime_s"],"properties":{"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"},"agreesWithFit":{"type":"boolean"}}}]}}};
@@ -605,7 +737,7 @@ vErrors.push(err10);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema3.properties, key0))){
+if(!(func18.call(schema3.properties, key0))){
 const err11 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err11];
@@ -882,7 +1014,7 @@ vErrors.push(err35);
 errors++;
 }
 for(const key1 in data7){
-if(!(func6.call(schema4.properties, key1))){
+if(!(func18.call(schema4.properties, key1))){
 const err36 = {instancePath:instancePath+"/fopdt",schemaPath:"#/definitions/stepFopdtRecord/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err36];
@@ -2222,7 +2354,7 @@ vErrors.push(err14);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema1.properties, key0))){
+if(!(func18.call(schema1.properties, key0))){
 const err15 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err15];
@@ -2694,7 +2826,7 @@ vErrors.push(err53);
 errors++;
 }
 for(const key5 in data19){
-if(!(func6.call(schema7.properties, key5))){
+if(!(func18.call(schema7.properties, key5))){
 const err54 = {instancePath:instancePath+"/refusedTests/" + i2,schemaPath:"#/definitions/refusedTestRecord/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err54];
@@ -4313,7 +4445,7 @@ vErrors.push(err188);
 errors++;
 }
 for(const key15 in data76){
-if(!(func6.call(schema1.properties.singleTrack.anyOf[1].properties, key15))){
+if(!(func18.call(schema1.properties.singleTrack.anyOf[1].properties, key15))){
 const err189 = {instancePath:instancePath+"/singleTrack",schemaPath:"#/properties/singleTrack/anyOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err189];
@@ -5174,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string"},"description":{"type":"string"},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"preview_m":{"type":"number","minimum":0},"referencePoint":{"enum":["cg","front-axle"]}}},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target"]},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"]},"closedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}}}}},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0},"maximum_mps":{"type":"number","exclusiveMinimum":0},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0}}},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100},"spacing":{"enum":["geometric","linear"]}}}]},"interpolation":{"enum":["linear","monotone-cubic"]},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"]},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"computationLatency_s":{"type":"number","minimum":0}}},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0},"minimumUpperGainMargin_dB":{"type":"number","minimum":0},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180},"maximumSensitivityPeak":{"type":"number","minimum":1},"delayMarginRoom_s":{"type":"number","minimum":0}}},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100},"model":{"enum":["single-track","interpolated-lumped"]}}}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string"},"description":{"type":"string"},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"preview_m":{"type":"number","minimum":0},"referencePoint":{"enum":["cg","front-axle"]}}},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target"]},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"]},"closedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}}}}},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0},"maximum_mps":{"type":"number","exclusiveMinimum":0},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0}}},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100},"spacing":{"enum":["geometric","linear"]}}}]},"interpolation":{"enum":["linear","monotone-cubic"]},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"]},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"computationLatency_s":{"type":"number","minimum":0}}},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0},"minimumUpperGainMargin_dB":{"type":"number","minimum":0},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180},"maximumSensitivityPeak":{"type":"number","minimum":1},"delayMarginRoom_s":{"type":"number","minimum":0}}},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100},"model":{"enum":["single-track","interpolated-lumped"]}}}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -5182,7 +5314,7 @@ let vErrors = null;
 let errors = 0;
 if(data && typeof data == "object" && !Array.isArray(data)){
 for(const key0 in data){
-if(!(func6.call(schema10.properties, key0))){
+if(!(func18.call(schema10.properties, key0))){
 const err0 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err0];
@@ -5385,9 +5517,9 @@ valid4 = true;
 passing0 = 0;
 }
 const _errs25 = errors;
-if(data10 && typeof data10 == "object" && !Array.isArray(data10)){
-if(data10.speeds_mps === undefined){
-const err15 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(typeof data10 === "string"){
+if(func0(data10) < 1){
+const err15 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -5396,138 +5528,14 @@ vErrors.push(err15);
 }
 errors++;
 }
-if(data10.values === undefined){
-const err16 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+}
+else {
+const err16 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err16];
 }
 else {
 vErrors.push(err16);
-}
-errors++;
-}
-for(const key4 in data10){
-if(!((key4 === "speeds_mps") || (key4 === "values"))){
-const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err17];
-}
-else {
-vErrors.push(err17);
-}
-errors++;
-}
-}
-if(data10.speeds_mps !== undefined){
-let data11 = data10.speeds_mps;
-if(Array.isArray(data11)){
-if(data11.length < 1){
-const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
-if(vErrors === null){
-vErrors = [err18];
-}
-else {
-vErrors.push(err18);
-}
-errors++;
-}
-const len0 = data11.length;
-for(let i0=0; i0<len0; i0++){
-let data12 = data11[i0];
-if((typeof data12 == "number") && (isFinite(data12))){
-if(data12 < 0 || isNaN(data12)){
-const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err19];
-}
-else {
-vErrors.push(err19);
-}
-errors++;
-}
-}
-else {
-const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err20];
-}
-else {
-vErrors.push(err20);
-}
-errors++;
-}
-}
-}
-else {
-const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
-if(vErrors === null){
-vErrors = [err21];
-}
-else {
-vErrors.push(err21);
-}
-errors++;
-}
-}
-if(data10.values !== undefined){
-let data13 = data10.values;
-if(Array.isArray(data13)){
-if(data13.length < 1){
-const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
-if(vErrors === null){
-vErrors = [err22];
-}
-else {
-vErrors.push(err22);
-}
-errors++;
-}
-const len1 = data13.length;
-for(let i1=0; i1<len1; i1++){
-let data14 = data13[i1];
-if((typeof data14 == "number") && (isFinite(data14))){
-if(data14 <= 0 || isNaN(data14)){
-const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err23];
-}
-else {
-vErrors.push(err23);
-}
-errors++;
-}
-}
-else {
-const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err24];
-}
-else {
-vErrors.push(err24);
-}
-errors++;
-}
-}
-}
-else {
-const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
-if(vErrors === null){
-vErrors = [err25];
-}
-else {
-vErrors.push(err25);
-}
-errors++;
-}
-}
-}
-else {
-const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err26];
-}
-else {
-vErrors.push(err26);
 }
 errors++;
 }
@@ -5541,14 +5549,172 @@ if(_valid0){
 valid4 = true;
 passing0 = 1;
 }
+const _errs27 = errors;
+if(data10 && typeof data10 == "object" && !Array.isArray(data10)){
+if(data10.speeds_mps === undefined){
+const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(vErrors === null){
+vErrors = [err17];
 }
-if(!valid4){
-const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+if(data10.values === undefined){
+const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+for(const key4 in data10){
+if(!((key4 === "speeds_mps") || (key4 === "values"))){
+const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err19];
+}
+else {
+vErrors.push(err19);
+}
+errors++;
+}
+}
+if(data10.speeds_mps !== undefined){
+let data11 = data10.speeds_mps;
+if(Array.isArray(data11)){
+if(data11.length < 1){
+const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err20];
+}
+else {
+vErrors.push(err20);
+}
+errors++;
+}
+const len0 = data11.length;
+for(let i0=0; i0<len0; i0++){
+let data12 = data11[i0];
+if((typeof data12 == "number") && (isFinite(data12))){
+if(data12 < 0 || isNaN(data12)){
+const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err21];
+}
+else {
+vErrors.push(err21);
+}
+errors++;
+}
+}
+else {
+const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err22];
+}
+else {
+vErrors.push(err22);
+}
+errors++;
+}
+}
+}
+else {
+const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err23];
+}
+else {
+vErrors.push(err23);
+}
+errors++;
+}
+}
+if(data10.values !== undefined){
+let data13 = data10.values;
+if(Array.isArray(data13)){
+if(data13.length < 1){
+const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err24];
+}
+else {
+vErrors.push(err24);
+}
+errors++;
+}
+const len1 = data13.length;
+for(let i1=0; i1<len1; i1++){
+let data14 = data13[i1];
+if((typeof data14 == "number") && (isFinite(data14))){
+if(data14 <= 0 || isNaN(data14)){
+const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err25];
+}
+else {
+vErrors.push(err25);
+}
+errors++;
+}
+}
+else {
+const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err26];
+}
+else {
+vErrors.push(err26);
+}
+errors++;
+}
+}
+}
+else {
+const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err27];
 }
 else {
 vErrors.push(err27);
+}
+errors++;
+}
+}
+}
+else {
+const err28 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err28];
+}
+else {
+vErrors.push(err28);
+}
+errors++;
+}
+var _valid0 = _errs27 === errors;
+if(_valid0 && valid4){
+valid4 = false;
+passing0 = [passing0, 2];
+}
+else {
+if(_valid0){
+valid4 = true;
+passing0 = 2;
+}
+}
+}
+if(!valid4){
+const err29 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err29];
+}
+else {
+vErrors.push(err29);
 }
 errors++;
 }
@@ -5566,41 +5732,13 @@ vErrors = null;
 }
 if(data8.simcClosedLoopTimeConstant_s !== undefined){
 let data15 = data8.simcClosedLoopTimeConstant_s;
-const _errs37 = errors;
+const _errs39 = errors;
 let valid10 = false;
 let passing1 = null;
-const _errs38 = errors;
+const _errs40 = errors;
 if((typeof data15 == "number") && (isFinite(data15))){
 if(data15 <= 0 || isNaN(data15)){
-const err28 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err28];
-}
-else {
-vErrors.push(err28);
-}
-errors++;
-}
-}
-else {
-const err29 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err29];
-}
-else {
-vErrors.push(err29);
-}
-errors++;
-}
-var _valid1 = _errs38 === errors;
-if(_valid1){
-valid10 = true;
-passing1 = 0;
-}
-const _errs40 = errors;
-if(data15 && typeof data15 == "object" && !Array.isArray(data15)){
-if(data15.speeds_mps === undefined){
-const err30 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+const err30 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err30];
 }
@@ -5609,8 +5747,9 @@ vErrors.push(err30);
 }
 errors++;
 }
-if(data15.values === undefined){
-const err31 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+}
+else {
+const err31 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err31];
 }
@@ -5619,9 +5758,15 @@ vErrors.push(err31);
 }
 errors++;
 }
-for(const key5 in data15){
-if(!((key5 === "speeds_mps") || (key5 === "values"))){
-const err32 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
+var _valid1 = _errs40 === errors;
+if(_valid1){
+valid10 = true;
+passing1 = 0;
+}
+const _errs42 = errors;
+if(typeof data15 === "string"){
+if(func0(data15) < 1){
+const err32 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err32];
 }
@@ -5631,11 +5776,8 @@ vErrors.push(err32);
 errors++;
 }
 }
-if(data15.speeds_mps !== undefined){
-let data16 = data15.speeds_mps;
-if(Array.isArray(data16)){
-if(data16.length < 1){
-const err33 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+const err33 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -5644,12 +5786,20 @@ vErrors.push(err33);
 }
 errors++;
 }
-const len2 = data16.length;
-for(let i2=0; i2<len2; i2++){
-let data17 = data16[i2];
-if((typeof data17 == "number") && (isFinite(data17))){
-if(data17 < 0 || isNaN(data17)){
-const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid1 = _errs42 === errors;
+if(_valid1 && valid10){
+valid10 = false;
+passing1 = [passing1, 1];
+}
+else {
+if(_valid1){
+valid10 = true;
+passing1 = 1;
+}
+const _errs44 = errors;
+if(data15 && typeof data15 == "object" && !Array.isArray(data15)){
+if(data15.speeds_mps === undefined){
+const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err34];
 }
@@ -5658,9 +5808,8 @@ vErrors.push(err34);
 }
 errors++;
 }
-}
-else {
-const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data15.values === undefined){
+const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err35];
 }
@@ -5669,10 +5818,9 @@ vErrors.push(err35);
 }
 errors++;
 }
-}
-}
-else {
-const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key5 in data15){
+if(!((key5 === "speeds_mps") || (key5 === "values"))){
+const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err36];
 }
@@ -5682,11 +5830,11 @@ vErrors.push(err36);
 errors++;
 }
 }
-if(data15.values !== undefined){
-let data18 = data15.values;
-if(Array.isArray(data18)){
-if(data18.length < 1){
-const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data15.speeds_mps !== undefined){
+let data16 = data15.speeds_mps;
+if(Array.isArray(data16)){
+if(data16.length < 1){
+const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err37];
 }
@@ -5695,12 +5843,12 @@ vErrors.push(err37);
 }
 errors++;
 }
-const len3 = data18.length;
-for(let i3=0; i3<len3; i3++){
-let data19 = data18[i3];
-if((typeof data19 == "number") && (isFinite(data19))){
-if(data19 <= 0 || isNaN(data19)){
-const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const len2 = data16.length;
+for(let i2=0; i2<len2; i2++){
+let data17 = data16[i2];
+if((typeof data17 == "number") && (isFinite(data17))){
+if(data17 < 0 || isNaN(data17)){
+const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err38];
 }
@@ -5711,7 +5859,7 @@ errors++;
 }
 }
 else {
-const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err39];
 }
@@ -5723,7 +5871,7 @@ errors++;
 }
 }
 else {
-const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err40];
 }
@@ -5733,9 +5881,11 @@ vErrors.push(err40);
 errors++;
 }
 }
-}
-else {
-const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data15.values !== undefined){
+let data18 = data15.values;
+if(Array.isArray(data18)){
+if(data18.length < 1){
+const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err41];
 }
@@ -5744,19 +5894,12 @@ vErrors.push(err41);
 }
 errors++;
 }
-var _valid1 = _errs40 === errors;
-if(_valid1 && valid10){
-valid10 = false;
-passing1 = [passing1, 1];
-}
-else {
-if(_valid1){
-valid10 = true;
-passing1 = 1;
-}
-}
-if(!valid10){
-const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
+const len3 = data18.length;
+for(let i3=0; i3<len3; i3++){
+let data19 = data18[i3];
+if((typeof data19 == "number") && (isFinite(data19))){
+if(data19 <= 0 || isNaN(data19)){
+const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err42];
 }
@@ -5765,27 +5908,9 @@ vErrors.push(err42);
 }
 errors++;
 }
-else {
-errors = _errs37;
-if(vErrors !== null){
-if(_errs37){
-vErrors.length = _errs37;
 }
 else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.dampingRatio !== undefined){
-let data20 = data8.dampingRatio;
-const _errs52 = errors;
-let valid16 = false;
-let passing2 = null;
-const _errs53 = errors;
-if((typeof data20 == "number") && (isFinite(data20))){
-if(data20 <= 0 || isNaN(data20)){
-const err43 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err43 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err43];
 }
@@ -5795,8 +5920,9 @@ vErrors.push(err43);
 errors++;
 }
 }
+}
 else {
-const err44 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err44 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err44];
 }
@@ -5805,15 +5931,10 @@ vErrors.push(err44);
 }
 errors++;
 }
-var _valid2 = _errs53 === errors;
-if(_valid2){
-valid16 = true;
-passing2 = 0;
 }
-const _errs55 = errors;
-if(data20 && typeof data20 == "object" && !Array.isArray(data20)){
-if(data20.speeds_mps === undefined){
-const err45 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+}
+else {
+const err45 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err45];
 }
@@ -5822,8 +5943,20 @@ vErrors.push(err45);
 }
 errors++;
 }
-if(data20.values === undefined){
-const err46 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+var _valid1 = _errs44 === errors;
+if(_valid1 && valid10){
+valid10 = false;
+passing1 = [passing1, 2];
+}
+else {
+if(_valid1){
+valid10 = true;
+passing1 = 2;
+}
+}
+}
+if(!valid10){
+const err46 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err46];
 }
@@ -5832,9 +5965,27 @@ vErrors.push(err46);
 }
 errors++;
 }
-for(const key6 in data20){
-if(!((key6 === "speeds_mps") || (key6 === "values"))){
-const err47 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+else {
+errors = _errs39;
+if(vErrors !== null){
+if(_errs39){
+vErrors.length = _errs39;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data8.dampingRatio !== undefined){
+let data20 = data8.dampingRatio;
+const _errs56 = errors;
+let valid16 = false;
+let passing2 = null;
+const _errs57 = errors;
+if((typeof data20 == "number") && (isFinite(data20))){
+if(data20 <= 0 || isNaN(data20)){
+const err47 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err47];
 }
@@ -5844,11 +5995,8 @@ vErrors.push(err47);
 errors++;
 }
 }
-if(data20.speeds_mps !== undefined){
-let data21 = data20.speeds_mps;
-if(Array.isArray(data21)){
-if(data21.length < 1){
-const err48 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+const err48 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err48];
 }
@@ -5857,12 +6005,15 @@ vErrors.push(err48);
 }
 errors++;
 }
-const len4 = data21.length;
-for(let i4=0; i4<len4; i4++){
-let data22 = data21[i4];
-if((typeof data22 == "number") && (isFinite(data22))){
-if(data22 < 0 || isNaN(data22)){
-const err49 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid2 = _errs57 === errors;
+if(_valid2){
+valid16 = true;
+passing2 = 0;
+}
+const _errs59 = errors;
+if(typeof data20 === "string"){
+if(func0(data20) < 1){
+const err49 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err49];
 }
@@ -5873,7 +6024,7 @@ errors++;
 }
 }
 else {
-const err50 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err50 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err50];
 }
@@ -5882,82 +6033,7 @@ vErrors.push(err50);
 }
 errors++;
 }
-}
-}
-else {
-const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
-if(vErrors === null){
-vErrors = [err51];
-}
-else {
-vErrors.push(err51);
-}
-errors++;
-}
-}
-if(data20.values !== undefined){
-let data23 = data20.values;
-if(Array.isArray(data23)){
-if(data23.length < 1){
-const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
-if(vErrors === null){
-vErrors = [err52];
-}
-else {
-vErrors.push(err52);
-}
-errors++;
-}
-const len5 = data23.length;
-for(let i5=0; i5<len5; i5++){
-let data24 = data23[i5];
-if((typeof data24 == "number") && (isFinite(data24))){
-if(data24 <= 0 || isNaN(data24)){
-const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err53];
-}
-else {
-vErrors.push(err53);
-}
-errors++;
-}
-}
-else {
-const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err54];
-}
-else {
-vErrors.push(err54);
-}
-errors++;
-}
-}
-}
-else {
-const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
-if(vErrors === null){
-vErrors = [err55];
-}
-else {
-vErrors.push(err55);
-}
-errors++;
-}
-}
-}
-else {
-const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err56];
-}
-else {
-vErrors.push(err56);
-}
-errors++;
-}
-var _valid2 = _errs55 === errors;
+var _valid2 = _errs59 === errors;
 if(_valid2 && valid16){
 valid16 = false;
 passing2 = [passing2, 1];
@@ -5967,9 +6043,82 @@ if(_valid2){
 valid16 = true;
 passing2 = 1;
 }
+const _errs61 = errors;
+if(data20 && typeof data20 == "object" && !Array.isArray(data20)){
+if(data20.speeds_mps === undefined){
+const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(vErrors === null){
+vErrors = [err51];
 }
-if(!valid16){
-const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
+else {
+vErrors.push(err51);
+}
+errors++;
+}
+if(data20.values === undefined){
+const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+if(vErrors === null){
+vErrors = [err52];
+}
+else {
+vErrors.push(err52);
+}
+errors++;
+}
+for(const key6 in data20){
+if(!((key6 === "speeds_mps") || (key6 === "values"))){
+const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err53];
+}
+else {
+vErrors.push(err53);
+}
+errors++;
+}
+}
+if(data20.speeds_mps !== undefined){
+let data21 = data20.speeds_mps;
+if(Array.isArray(data21)){
+if(data21.length < 1){
+const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err54];
+}
+else {
+vErrors.push(err54);
+}
+errors++;
+}
+const len4 = data21.length;
+for(let i4=0; i4<len4; i4++){
+let data22 = data21[i4];
+if((typeof data22 == "number") && (isFinite(data22))){
+if(data22 < 0 || isNaN(data22)){
+const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err55];
+}
+else {
+vErrors.push(err55);
+}
+errors++;
+}
+}
+else {
+const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err56];
+}
+else {
+vErrors.push(err56);
+}
+errors++;
+}
+}
+}
+else {
+const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err57];
 }
@@ -5978,11 +6127,96 @@ vErrors.push(err57);
 }
 errors++;
 }
+}
+if(data20.values !== undefined){
+let data23 = data20.values;
+if(Array.isArray(data23)){
+if(data23.length < 1){
+const err58 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err58];
+}
 else {
-errors = _errs52;
+vErrors.push(err58);
+}
+errors++;
+}
+const len5 = data23.length;
+for(let i5=0; i5<len5; i5++){
+let data24 = data23[i5];
+if((typeof data24 == "number") && (isFinite(data24))){
+if(data24 <= 0 || isNaN(data24)){
+const err59 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err59];
+}
+else {
+vErrors.push(err59);
+}
+errors++;
+}
+}
+else {
+const err60 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err60];
+}
+else {
+vErrors.push(err60);
+}
+errors++;
+}
+}
+}
+else {
+const err61 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err61];
+}
+else {
+vErrors.push(err61);
+}
+errors++;
+}
+}
+}
+else {
+const err62 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err62];
+}
+else {
+vErrors.push(err62);
+}
+errors++;
+}
+var _valid2 = _errs61 === errors;
+if(_valid2 && valid16){
+valid16 = false;
+passing2 = [passing2, 2];
+}
+else {
+if(_valid2){
+valid16 = true;
+passing2 = 2;
+}
+}
+}
+if(!valid16){
+const err63 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err63];
+}
+else {
+vErrors.push(err63);
+}
+errors++;
+}
+else {
+errors = _errs56;
 if(vErrors !== null){
-if(_errs52){
-vErrors.length = _errs52;
+if(_errs56){
+vErrors.length = _errs56;
 }
 else {
 vErrors = null;
@@ -5992,90 +6226,13 @@ vErrors = null;
 }
 if(data8.naturalFrequency_radps !== undefined){
 let data25 = data8.naturalFrequency_radps;
-const _errs67 = errors;
+const _errs73 = errors;
 let valid22 = false;
 let passing3 = null;
-const _errs68 = errors;
+const _errs74 = errors;
 if((typeof data25 == "number") && (isFinite(data25))){
 if(data25 <= 0 || isNaN(data25)){
-const err58 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err58];
-}
-else {
-vErrors.push(err58);
-}
-errors++;
-}
-}
-else {
-const err59 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err59];
-}
-else {
-vErrors.push(err59);
-}
-errors++;
-}
-var _valid3 = _errs68 === errors;
-if(_valid3){
-valid22 = true;
-passing3 = 0;
-}
-const _errs70 = errors;
-if(data25 && typeof data25 == "object" && !Array.isArray(data25)){
-if(data25.speeds_mps === undefined){
-const err60 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err60];
-}
-else {
-vErrors.push(err60);
-}
-errors++;
-}
-if(data25.values === undefined){
-const err61 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err61];
-}
-else {
-vErrors.push(err61);
-}
-errors++;
-}
-for(const key7 in data25){
-if(!((key7 === "speeds_mps") || (key7 === "values"))){
-const err62 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err62];
-}
-else {
-vErrors.push(err62);
-}
-errors++;
-}
-}
-if(data25.speeds_mps !== undefined){
-let data26 = data25.speeds_mps;
-if(Array.isArray(data26)){
-if(data26.length < 1){
-const err63 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
-if(vErrors === null){
-vErrors = [err63];
-}
-else {
-vErrors.push(err63);
-}
-errors++;
-}
-const len6 = data26.length;
-for(let i6=0; i6<len6; i6++){
-let data27 = data26[i6];
-if((typeof data27 == "number") && (isFinite(data27))){
-if(data27 < 0 || isNaN(data27)){
-const err64 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const err64 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err64];
 }
@@ -6086,7 +6243,7 @@ errors++;
 }
 }
 else {
-const err65 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err65 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err65];
 }
@@ -6095,10 +6252,15 @@ vErrors.push(err65);
 }
 errors++;
 }
+var _valid3 = _errs74 === errors;
+if(_valid3){
+valid22 = true;
+passing3 = 0;
 }
-}
-else {
-const err66 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const _errs76 = errors;
+if(typeof data25 === "string"){
+if(func0(data25) < 1){
+const err66 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err66];
 }
@@ -6108,11 +6270,8 @@ vErrors.push(err66);
 errors++;
 }
 }
-if(data25.values !== undefined){
-let data28 = data25.values;
-if(Array.isArray(data28)){
-if(data28.length < 1){
-const err67 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+const err67 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err67];
 }
@@ -6121,56 +6280,7 @@ vErrors.push(err67);
 }
 errors++;
 }
-const len7 = data28.length;
-for(let i7=0; i7<len7; i7++){
-let data29 = data28[i7];
-if((typeof data29 == "number") && (isFinite(data29))){
-if(data29 <= 0 || isNaN(data29)){
-const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err68];
-}
-else {
-vErrors.push(err68);
-}
-errors++;
-}
-}
-else {
-const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err69];
-}
-else {
-vErrors.push(err69);
-}
-errors++;
-}
-}
-}
-else {
-const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
-if(vErrors === null){
-vErrors = [err70];
-}
-else {
-vErrors.push(err70);
-}
-errors++;
-}
-}
-}
-else {
-const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err71];
-}
-else {
-vErrors.push(err71);
-}
-errors++;
-}
-var _valid3 = _errs70 === errors;
+var _valid3 = _errs76 === errors;
 if(_valid3 && valid22){
 valid22 = false;
 passing3 = [passing3, 1];
@@ -6180,9 +6290,59 @@ if(_valid3){
 valid22 = true;
 passing3 = 1;
 }
+const _errs78 = errors;
+if(data25 && typeof data25 == "object" && !Array.isArray(data25)){
+if(data25.speeds_mps === undefined){
+const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(vErrors === null){
+vErrors = [err68];
 }
-if(!valid22){
-const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
+else {
+vErrors.push(err68);
+}
+errors++;
+}
+if(data25.values === undefined){
+const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+if(vErrors === null){
+vErrors = [err69];
+}
+else {
+vErrors.push(err69);
+}
+errors++;
+}
+for(const key7 in data25){
+if(!((key7 === "speeds_mps") || (key7 === "values"))){
+const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err70];
+}
+else {
+vErrors.push(err70);
+}
+errors++;
+}
+}
+if(data25.speeds_mps !== undefined){
+let data26 = data25.speeds_mps;
+if(Array.isArray(data26)){
+if(data26.length < 1){
+const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err71];
+}
+else {
+vErrors.push(err71);
+}
+errors++;
+}
+const len6 = data26.length;
+for(let i6=0; i6<len6; i6++){
+let data27 = data26[i6];
+if((typeof data27 == "number") && (isFinite(data27))){
+if(data27 < 0 || isNaN(data27)){
+const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err72];
 }
@@ -6191,27 +6351,9 @@ vErrors.push(err72);
 }
 errors++;
 }
-else {
-errors = _errs67;
-if(vErrors !== null){
-if(_errs67){
-vErrors.length = _errs67;
 }
 else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.settlingDistance_m !== undefined){
-let data30 = data8.settlingDistance_m;
-const _errs82 = errors;
-let valid28 = false;
-let passing4 = null;
-const _errs83 = errors;
-if((typeof data30 == "number") && (isFinite(data30))){
-if(data30 <= 0 || isNaN(data30)){
-const err73 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err73 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err73];
 }
@@ -6221,8 +6363,9 @@ vErrors.push(err73);
 errors++;
 }
 }
+}
 else {
-const err74 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err74 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err74];
 }
@@ -6231,15 +6374,12 @@ vErrors.push(err74);
 }
 errors++;
 }
-var _valid4 = _errs83 === errors;
-if(_valid4){
-valid28 = true;
-passing4 = 0;
 }
-const _errs85 = errors;
-if(data30 && typeof data30 == "object" && !Array.isArray(data30)){
-if(data30.speeds_mps === undefined){
-const err75 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(data25.values !== undefined){
+let data28 = data25.values;
+if(Array.isArray(data28)){
+if(data28.length < 1){
+const err75 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err75];
 }
@@ -6248,8 +6388,12 @@ vErrors.push(err75);
 }
 errors++;
 }
-if(data30.values === undefined){
-const err76 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const len7 = data28.length;
+for(let i7=0; i7<len7; i7++){
+let data29 = data28[i7];
+if((typeof data29 == "number") && (isFinite(data29))){
+if(data29 <= 0 || isNaN(data29)){
+const err76 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err76];
 }
@@ -6258,9 +6402,9 @@ vErrors.push(err76);
 }
 errors++;
 }
-for(const key8 in data30){
-if(!((key8 === "speeds_mps") || (key8 === "values"))){
-const err77 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
+}
+else {
+const err77 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err77];
 }
@@ -6270,11 +6414,9 @@ vErrors.push(err77);
 errors++;
 }
 }
-if(data30.speeds_mps !== undefined){
-let data31 = data30.speeds_mps;
-if(Array.isArray(data31)){
-if(data31.length < 1){
-const err78 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err78 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err78];
 }
@@ -6283,12 +6425,10 @@ vErrors.push(err78);
 }
 errors++;
 }
-const len8 = data31.length;
-for(let i8=0; i8<len8; i8++){
-let data32 = data31[i8];
-if((typeof data32 == "number") && (isFinite(data32))){
-if(data32 < 0 || isNaN(data32)){
-const err79 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+}
+else {
+const err79 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err79];
 }
@@ -6297,9 +6437,20 @@ vErrors.push(err79);
 }
 errors++;
 }
+var _valid3 = _errs78 === errors;
+if(_valid3 && valid22){
+valid22 = false;
+passing3 = [passing3, 2];
 }
 else {
-const err80 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(_valid3){
+valid22 = true;
+passing3 = 2;
+}
+}
+}
+if(!valid22){
+const err80 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err80];
 }
@@ -6308,10 +6459,27 @@ vErrors.push(err80);
 }
 errors++;
 }
-}
+else {
+errors = _errs73;
+if(vErrors !== null){
+if(_errs73){
+vErrors.length = _errs73;
 }
 else {
-const err81 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+vErrors = null;
+}
+}
+}
+}
+if(data8.settlingDistance_m !== undefined){
+let data30 = data8.settlingDistance_m;
+const _errs90 = errors;
+let valid28 = false;
+let passing4 = null;
+const _errs91 = errors;
+if((typeof data30 == "number") && (isFinite(data30))){
+if(data30 <= 0 || isNaN(data30)){
+const err81 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err81];
 }
@@ -6321,11 +6489,8 @@ vErrors.push(err81);
 errors++;
 }
 }
-if(data30.values !== undefined){
-let data33 = data30.values;
-if(Array.isArray(data33)){
-if(data33.length < 1){
-const err82 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+const err82 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err82];
 }
@@ -6334,12 +6499,15 @@ vErrors.push(err82);
 }
 errors++;
 }
-const len9 = data33.length;
-for(let i9=0; i9<len9; i9++){
-let data34 = data33[i9];
-if((typeof data34 == "number") && (isFinite(data34))){
-if(data34 <= 0 || isNaN(data34)){
-const err83 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+var _valid4 = _errs91 === errors;
+if(_valid4){
+valid28 = true;
+passing4 = 0;
+}
+const _errs93 = errors;
+if(typeof data30 === "string"){
+if(func0(data30) < 1){
+const err83 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err83];
 }
@@ -6350,7 +6518,7 @@ errors++;
 }
 }
 else {
-const err84 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err84 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err84];
 }
@@ -6359,31 +6527,7 @@ vErrors.push(err84);
 }
 errors++;
 }
-}
-}
-else {
-const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
-if(vErrors === null){
-vErrors = [err85];
-}
-else {
-vErrors.push(err85);
-}
-errors++;
-}
-}
-}
-else {
-const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err86];
-}
-else {
-vErrors.push(err86);
-}
-errors++;
-}
-var _valid4 = _errs85 === errors;
+var _valid4 = _errs93 === errors;
 if(_valid4 && valid28){
 valid28 = false;
 passing4 = [passing4, 1];
@@ -6393,9 +6537,31 @@ if(_valid4){
 valid28 = true;
 passing4 = 1;
 }
+const _errs95 = errors;
+if(data30 && typeof data30 == "object" && !Array.isArray(data30)){
+if(data30.speeds_mps === undefined){
+const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(vErrors === null){
+vErrors = [err85];
 }
-if(!valid28){
-const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
+else {
+vErrors.push(err85);
+}
+errors++;
+}
+if(data30.values === undefined){
+const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+if(vErrors === null){
+vErrors = [err86];
+}
+else {
+vErrors.push(err86);
+}
+errors++;
+}
+for(const key8 in data30){
+if(!((key8 === "speeds_mps") || (key8 === "values"))){
+const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err87];
 }
@@ -6404,27 +6570,12 @@ vErrors.push(err87);
 }
 errors++;
 }
-else {
-errors = _errs82;
-if(vErrors !== null){
-if(_errs82){
-vErrors.length = _errs82;
 }
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.integralPoleRatio !== undefined){
-let data35 = data8.integralPoleRatio;
-const _errs97 = errors;
-let valid34 = false;
-let passing5 = null;
-const _errs98 = errors;
-if((typeof data35 == "number") && (isFinite(data35))){
-if(data35 <= 0 || isNaN(data35)){
-const err88 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data30.speeds_mps !== undefined){
+let data31 = data30.speeds_mps;
+if(Array.isArray(data31)){
+if(data31.length < 1){
+const err88 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err88];
 }
@@ -6433,9 +6584,12 @@ vErrors.push(err88);
 }
 errors++;
 }
-}
-else {
-const err89 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len8 = data31.length;
+for(let i8=0; i8<len8; i8++){
+let data32 = data31[i8];
+if((typeof data32 == "number") && (isFinite(data32))){
+if(data32 < 0 || isNaN(data32)){
+const err89 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err89];
 }
@@ -6444,15 +6598,9 @@ vErrors.push(err89);
 }
 errors++;
 }
-var _valid5 = _errs98 === errors;
-if(_valid5){
-valid34 = true;
-passing5 = 0;
 }
-const _errs100 = errors;
-if(data35 && typeof data35 == "object" && !Array.isArray(data35)){
-if(data35.speeds_mps === undefined){
-const err90 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+else {
+const err90 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err90];
 }
@@ -6461,8 +6609,10 @@ vErrors.push(err90);
 }
 errors++;
 }
-if(data35.values === undefined){
-const err91 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+}
+}
+else {
+const err91 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err91];
 }
@@ -6471,9 +6621,12 @@ vErrors.push(err91);
 }
 errors++;
 }
-for(const key9 in data35){
-if(!((key9 === "speeds_mps") || (key9 === "values"))){
-const err92 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
+}
+if(data30.values !== undefined){
+let data33 = data30.values;
+if(Array.isArray(data33)){
+if(data33.length < 1){
+const err92 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err92];
 }
@@ -6482,12 +6635,12 @@ vErrors.push(err92);
 }
 errors++;
 }
-}
-if(data35.speeds_mps !== undefined){
-let data36 = data35.speeds_mps;
-if(Array.isArray(data36)){
-if(data36.length < 1){
-const err93 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len9 = data33.length;
+for(let i9=0; i9<len9; i9++){
+let data34 = data33[i9];
+if((typeof data34 == "number") && (isFinite(data34))){
+if(data34 <= 0 || isNaN(data34)){
+const err93 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err93];
 }
@@ -6496,12 +6649,9 @@ vErrors.push(err93);
 }
 errors++;
 }
-const len10 = data36.length;
-for(let i10=0; i10<len10; i10++){
-let data37 = data36[i10];
-if((typeof data37 == "number") && (isFinite(data37))){
-if(data37 < 0 || isNaN(data37)){
-const err94 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err94 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err94];
 }
@@ -6511,8 +6661,9 @@ vErrors.push(err94);
 errors++;
 }
 }
+}
 else {
-const err95 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err95 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err95];
 }
@@ -6524,7 +6675,7 @@ errors++;
 }
 }
 else {
-const err96 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err96 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err96];
 }
@@ -6533,12 +6684,20 @@ vErrors.push(err96);
 }
 errors++;
 }
+var _valid4 = _errs95 === errors;
+if(_valid4 && valid28){
+valid28 = false;
+passing4 = [passing4, 2];
 }
-if(data35.values !== undefined){
-let data38 = data35.values;
-if(Array.isArray(data38)){
-if(data38.length < 1){
-const err97 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+if(_valid4){
+valid28 = true;
+passing4 = 2;
+}
+}
+}
+if(!valid28){
+const err97 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err97];
 }
@@ -6547,12 +6706,27 @@ vErrors.push(err97);
 }
 errors++;
 }
-const len11 = data38.length;
-for(let i11=0; i11<len11; i11++){
-let data39 = data38[i11];
-if((typeof data39 == "number") && (isFinite(data39))){
-if(data39 <= 0 || isNaN(data39)){
-const err98 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+errors = _errs90;
+if(vErrors !== null){
+if(_errs90){
+vErrors.length = _errs90;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data8.integralPoleRatio !== undefined){
+let data35 = data8.integralPoleRatio;
+const _errs107 = errors;
+let valid34 = false;
+let passing5 = null;
+const _errs108 = errors;
+if((typeof data35 == "number") && (isFinite(data35))){
+if(data35 <= 0 || isNaN(data35)){
+const err98 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err98];
 }
@@ -6563,7 +6737,7 @@ errors++;
 }
 }
 else {
-const err99 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err99 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err99];
 }
@@ -6572,10 +6746,15 @@ vErrors.push(err99);
 }
 errors++;
 }
+var _valid5 = _errs108 === errors;
+if(_valid5){
+valid34 = true;
+passing5 = 0;
 }
-}
-else {
-const err100 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const _errs110 = errors;
+if(typeof data35 === "string"){
+if(func0(data35) < 1){
+const err100 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err100];
 }
@@ -6585,9 +6764,8 @@ vErrors.push(err100);
 errors++;
 }
 }
-}
 else {
-const err101 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err101 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err101];
 }
@@ -6596,7 +6774,7 @@ vErrors.push(err101);
 }
 errors++;
 }
-var _valid5 = _errs100 === errors;
+var _valid5 = _errs110 === errors;
 if(_valid5 && valid34){
 valid34 = false;
 passing5 = [passing5, 1];
@@ -6606,9 +6784,10 @@ if(_valid5){
 valid34 = true;
 passing5 = 1;
 }
-}
-if(!valid34){
-const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
+const _errs112 = errors;
+if(data35 && typeof data35 == "object" && !Array.isArray(data35)){
+if(data35.speeds_mps === undefined){
+const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err102];
 }
@@ -6617,21 +6796,8 @@ vErrors.push(err102);
 }
 errors++;
 }
-else {
-errors = _errs97;
-if(vErrors !== null){
-if(_errs97){
-vErrors.length = _errs97;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-}
-else {
-const err103 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data35.values === undefined){
+const err103 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err103];
 }
@@ -6640,10 +6806,9 @@ vErrors.push(err103);
 }
 errors++;
 }
-}
-}
-else {
-const err104 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key9 in data35){
+if(!((key9 === "speeds_mps") || (key9 === "values"))){
+const err104 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err104];
 }
@@ -6653,12 +6818,11 @@ vErrors.push(err104);
 errors++;
 }
 }
-if(data.speeds !== undefined){
-let data40 = data.speeds;
-if(data40 && typeof data40 == "object" && !Array.isArray(data40)){
-for(const key10 in data40){
-if(!(((key10 === "minimum_mps") || (key10 === "maximum_mps")) || (key10 === "lowSpeedFloor_mps"))){
-const err105 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
+if(data35.speeds_mps !== undefined){
+let data36 = data35.speeds_mps;
+if(Array.isArray(data36)){
+if(data36.length < 1){
+const err105 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err105];
 }
@@ -6667,12 +6831,12 @@ vErrors.push(err105);
 }
 errors++;
 }
-}
-if(data40.minimum_mps !== undefined){
-let data41 = data40.minimum_mps;
-if((typeof data41 == "number") && (isFinite(data41))){
-if(data41 < 0 || isNaN(data41)){
-const err106 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const len10 = data36.length;
+for(let i10=0; i10<len10; i10++){
+let data37 = data36[i10];
+if((typeof data37 == "number") && (isFinite(data37))){
+if(data37 < 0 || isNaN(data37)){
+const err106 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err106];
 }
@@ -6683,7 +6847,7 @@ errors++;
 }
 }
 else {
-const err107 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err107 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err107];
 }
@@ -6693,11 +6857,9 @@ vErrors.push(err107);
 errors++;
 }
 }
-if(data40.maximum_mps !== undefined){
-let data42 = data40.maximum_mps;
-if((typeof data42 == "number") && (isFinite(data42))){
-if(data42 <= 0 || isNaN(data42)){
-const err108 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err108 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err108];
 }
@@ -6707,8 +6869,11 @@ vErrors.push(err108);
 errors++;
 }
 }
-else {
-const err109 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data35.values !== undefined){
+let data38 = data35.values;
+if(Array.isArray(data38)){
+if(data38.length < 1){
+const err109 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err109];
 }
@@ -6717,12 +6882,12 @@ vErrors.push(err109);
 }
 errors++;
 }
-}
-if(data40.lowSpeedFloor_mps !== undefined){
-let data43 = data40.lowSpeedFloor_mps;
-if((typeof data43 == "number") && (isFinite(data43))){
-if(data43 <= 0 || isNaN(data43)){
-const err110 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const len11 = data38.length;
+for(let i11=0; i11<len11; i11++){
+let data39 = data38[i11];
+if((typeof data39 == "number") && (isFinite(data39))){
+if(data39 <= 0 || isNaN(data39)){
+const err110 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err110];
 }
@@ -6733,7 +6898,7 @@ errors++;
 }
 }
 else {
-const err111 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err111 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err111];
 }
@@ -6745,7 +6910,7 @@ errors++;
 }
 }
 else {
-const err112 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err112 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err112];
 }
@@ -6755,15 +6920,9 @@ vErrors.push(err112);
 errors++;
 }
 }
-if(data.breakpoints !== undefined){
-let data44 = data.breakpoints;
-const _errs121 = errors;
-let valid41 = false;
-let passing6 = null;
-const _errs122 = errors;
-if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
-if(data44.speeds_mps === undefined){
-const err113 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+}
+else {
+const err113 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err113];
 }
@@ -6772,9 +6931,20 @@ vErrors.push(err113);
 }
 errors++;
 }
-for(const key11 in data44){
-if(!(key11 === "speeds_mps")){
-const err114 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
+var _valid5 = _errs112 === errors;
+if(_valid5 && valid34){
+valid34 = false;
+passing5 = [passing5, 2];
+}
+else {
+if(_valid5){
+valid34 = true;
+passing5 = 2;
+}
+}
+}
+if(!valid34){
+const err114 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err114];
 }
@@ -6783,12 +6953,21 @@ vErrors.push(err114);
 }
 errors++;
 }
+else {
+errors = _errs107;
+if(vErrors !== null){
+if(_errs107){
+vErrors.length = _errs107;
 }
-if(data44.speeds_mps !== undefined){
-let data45 = data44.speeds_mps;
-if(Array.isArray(data45)){
-if(data45.length < 1){
-const err115 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+vErrors = null;
+}
+}
+}
+}
+}
+else {
+const err115 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err115];
 }
@@ -6797,12 +6976,10 @@ vErrors.push(err115);
 }
 errors++;
 }
-const len12 = data45.length;
-for(let i12=0; i12<len12; i12++){
-let data46 = data45[i12];
-if((typeof data46 == "number") && (isFinite(data46))){
-if(data46 <= 0 || isNaN(data46)){
-const err116 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+}
+else {
+const err116 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err116];
 }
@@ -6812,8 +6989,12 @@ vErrors.push(err116);
 errors++;
 }
 }
-else {
-const err117 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data.speeds !== undefined){
+let data40 = data.speeds;
+if(data40 && typeof data40 == "object" && !Array.isArray(data40)){
+for(const key10 in data40){
+if(!(((key10 === "minimum_mps") || (key10 === "maximum_mps")) || (key10 === "lowSpeedFloor_mps"))){
+const err117 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err117];
 }
@@ -6823,9 +7004,11 @@ vErrors.push(err117);
 errors++;
 }
 }
-}
-else {
-const err118 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data40.minimum_mps !== undefined){
+let data41 = data40.minimum_mps;
+if((typeof data41 == "number") && (isFinite(data41))){
+if(data41 < 0 || isNaN(data41)){
+const err118 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err118];
 }
@@ -6835,9 +7018,8 @@ vErrors.push(err118);
 errors++;
 }
 }
-}
 else {
-const err119 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err119 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err119];
 }
@@ -6846,16 +7028,12 @@ vErrors.push(err119);
 }
 errors++;
 }
-var _valid6 = _errs122 === errors;
-if(_valid6){
-valid41 = true;
-passing6 = 0;
 }
-const _errs129 = errors;
-if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
-for(const key12 in data44){
-if(!((key12 === "count") || (key12 === "spacing"))){
-const err120 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
+if(data40.maximum_mps !== undefined){
+let data42 = data40.maximum_mps;
+if((typeof data42 == "number") && (isFinite(data42))){
+if(data42 <= 0 || isNaN(data42)){
+const err120 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err120];
 }
@@ -6865,10 +7043,8 @@ vErrors.push(err120);
 errors++;
 }
 }
-if(data44.count !== undefined){
-let data47 = data44.count;
-if(!(((typeof data47 == "number") && (!(data47 % 1) && !isNaN(data47))) && (isFinite(data47)))){
-const err121 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err121 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err121];
 }
@@ -6877,9 +7053,12 @@ vErrors.push(err121);
 }
 errors++;
 }
-if((typeof data47 == "number") && (isFinite(data47))){
-if(data47 > 100 || isNaN(data47)){
-const err122 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+}
+if(data40.lowSpeedFloor_mps !== undefined){
+let data43 = data40.lowSpeedFloor_mps;
+if((typeof data43 == "number") && (isFinite(data43))){
+if(data43 <= 0 || isNaN(data43)){
+const err122 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err122];
 }
@@ -6888,8 +7067,9 @@ vErrors.push(err122);
 }
 errors++;
 }
-if(data47 < 1 || isNaN(data47)){
-const err123 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+}
+else {
+const err123 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err123];
 }
@@ -6900,10 +7080,8 @@ errors++;
 }
 }
 }
-if(data44.spacing !== undefined){
-let data48 = data44.spacing;
-if(!((data48 === "geometric") || (data48 === "linear"))){
-const err124 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
+else {
+const err124 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err124];
 }
@@ -6913,9 +7091,15 @@ vErrors.push(err124);
 errors++;
 }
 }
-}
-else {
-const err125 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.breakpoints !== undefined){
+let data44 = data.breakpoints;
+const _errs133 = errors;
+let valid41 = false;
+let passing6 = null;
+const _errs134 = errors;
+if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
+if(data44.speeds_mps === undefined){
+const err125 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err125];
 }
@@ -6924,19 +7108,9 @@ vErrors.push(err125);
 }
 errors++;
 }
-var _valid6 = _errs129 === errors;
-if(_valid6 && valid41){
-valid41 = false;
-passing6 = [passing6, 1];
-}
-else {
-if(_valid6){
-valid41 = true;
-passing6 = 1;
-}
-}
-if(!valid41){
-const err126 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
+for(const key11 in data44){
+if(!(key11 === "speeds_mps")){
+const err126 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err126];
 }
@@ -6945,22 +7119,12 @@ vErrors.push(err126);
 }
 errors++;
 }
-else {
-errors = _errs121;
-if(vErrors !== null){
-if(_errs121){
-vErrors.length = _errs121;
 }
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data.interpolation !== undefined){
-let data49 = data.interpolation;
-if(!((data49 === "linear") || (data49 === "monotone-cubic"))){
-const err127 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
+if(data44.speeds_mps !== undefined){
+let data45 = data44.speeds_mps;
+if(Array.isArray(data45)){
+if(data45.length < 1){
+const err127 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err127];
 }
@@ -6969,13 +7133,12 @@ vErrors.push(err127);
 }
 errors++;
 }
-}
-if(data.controller !== undefined){
-let data50 = data.controller;
-if(data50 && typeof data50 == "object" && !Array.isArray(data50)){
-for(const key13 in data50){
-if(!(((((key13 === "form") || (key13 === "derivativeFilter")) || (key13 === "sampleTime_s")) || (key13 === "discretisation")) || (key13 === "computationLatency_s"))){
-const err128 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
+const len12 = data45.length;
+for(let i12=0; i12<len12; i12++){
+let data46 = data45[i12];
+if((typeof data46 == "number") && (isFinite(data46))){
+if(data46 <= 0 || isNaN(data46)){
+const err128 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err128];
 }
@@ -6985,9 +7148,8 @@ vErrors.push(err128);
 errors++;
 }
 }
-if(data50.form !== undefined){
-if(!(data50.form === "parallel")){
-const err129 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
+else {
+const err129 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err129];
 }
@@ -6997,11 +7159,9 @@ vErrors.push(err129);
 errors++;
 }
 }
-if(data50.derivativeFilter !== undefined){
-let data52 = data50.derivativeFilter;
-if((typeof data52 == "number") && (isFinite(data52))){
-if(data52 <= 0 || isNaN(data52)){
-const err130 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err130 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err130];
 }
@@ -7011,8 +7171,9 @@ vErrors.push(err130);
 errors++;
 }
 }
+}
 else {
-const err131 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err131 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err131];
 }
@@ -7021,12 +7182,16 @@ vErrors.push(err131);
 }
 errors++;
 }
+var _valid6 = _errs134 === errors;
+if(_valid6){
+valid41 = true;
+passing6 = 0;
 }
-if(data50.sampleTime_s !== undefined){
-let data53 = data50.sampleTime_s;
-if((typeof data53 == "number") && (isFinite(data53))){
-if(data53 <= 0 || isNaN(data53)){
-const err132 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const _errs141 = errors;
+if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
+for(const key12 in data44){
+if(!((key12 === "count") || (key12 === "spacing"))){
+const err132 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err132];
 }
@@ -7036,8 +7201,10 @@ vErrors.push(err132);
 errors++;
 }
 }
-else {
-const err133 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data44.count !== undefined){
+let data47 = data44.count;
+if(!(((typeof data47 == "number") && (!(data47 % 1) && !isNaN(data47))) && (isFinite(data47)))){
+const err133 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err133];
 }
@@ -7046,11 +7213,9 @@ vErrors.push(err133);
 }
 errors++;
 }
-}
-if(data50.discretisation !== undefined){
-let data54 = data50.discretisation;
-if(!((data54 === "tustin") || (data54 === "backward-euler"))){
-const err134 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
+if((typeof data47 == "number") && (isFinite(data47))){
+if(data47 > 100 || isNaN(data47)){
+const err134 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
 if(vErrors === null){
 vErrors = [err134];
 }
@@ -7059,12 +7224,8 @@ vErrors.push(err134);
 }
 errors++;
 }
-}
-if(data50.computationLatency_s !== undefined){
-let data55 = data50.computationLatency_s;
-if((typeof data55 == "number") && (isFinite(data55))){
-if(data55 < 0 || isNaN(data55)){
-const err135 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data47 < 1 || isNaN(data47)){
+const err135 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err135];
 }
@@ -7074,8 +7235,11 @@ vErrors.push(err135);
 errors++;
 }
 }
-else {
-const err136 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+if(data44.spacing !== undefined){
+let data48 = data44.spacing;
+if(!((data48 === "geometric") || (data48 === "linear"))){
+const err136 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err136];
 }
@@ -7087,7 +7251,7 @@ errors++;
 }
 }
 else {
-const err137 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err137 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err137];
 }
@@ -7096,13 +7260,19 @@ vErrors.push(err137);
 }
 errors++;
 }
+var _valid6 = _errs141 === errors;
+if(_valid6 && valid41){
+valid41 = false;
+passing6 = [passing6, 1];
 }
-if(data.acceptance !== undefined){
-let data56 = data.acceptance;
-if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
-for(const key14 in data56){
-if(!(((((key14 === "maximumLowerGainMargin_dB") || (key14 === "minimumUpperGainMargin_dB")) || (key14 === "minimumPhaseMargin_deg")) || (key14 === "maximumSensitivityPeak")) || (key14 === "delayMarginRoom_s"))){
-const err138 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
+else {
+if(_valid6){
+valid41 = true;
+passing6 = 1;
+}
+}
+if(!valid41){
+const err138 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err138];
 }
@@ -7111,12 +7281,22 @@ vErrors.push(err138);
 }
 errors++;
 }
+else {
+errors = _errs133;
+if(vErrors !== null){
+if(_errs133){
+vErrors.length = _errs133;
 }
-if(data56.maximumLowerGainMargin_dB !== undefined){
-let data57 = data56.maximumLowerGainMargin_dB;
-if((typeof data57 == "number") && (isFinite(data57))){
-if(data57 > 0 || isNaN(data57)){
-const err139 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data.interpolation !== undefined){
+let data49 = data.interpolation;
+if(!((data49 === "linear") || (data49 === "monotone-cubic"))){
+const err139 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err139];
 }
@@ -7126,8 +7306,12 @@ vErrors.push(err139);
 errors++;
 }
 }
-else {
-const err140 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data.controller !== undefined){
+let data50 = data.controller;
+if(data50 && typeof data50 == "object" && !Array.isArray(data50)){
+for(const key13 in data50){
+if(!(((((key13 === "form") || (key13 === "derivativeFilter")) || (key13 === "sampleTime_s")) || (key13 === "discretisation")) || (key13 === "computationLatency_s"))){
+const err140 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err140];
 }
@@ -7137,11 +7321,9 @@ vErrors.push(err140);
 errors++;
 }
 }
-if(data56.minimumUpperGainMargin_dB !== undefined){
-let data58 = data56.minimumUpperGainMargin_dB;
-if((typeof data58 == "number") && (isFinite(data58))){
-if(data58 < 0 || isNaN(data58)){
-const err141 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data50.form !== undefined){
+if(!(data50.form === "parallel")){
+const err141 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err141];
 }
@@ -7151,8 +7333,11 @@ vErrors.push(err141);
 errors++;
 }
 }
-else {
-const err142 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data50.derivativeFilter !== undefined){
+let data52 = data50.derivativeFilter;
+if((typeof data52 == "number") && (isFinite(data52))){
+if(data52 <= 0 || isNaN(data52)){
+const err142 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err142];
 }
@@ -7162,11 +7347,8 @@ vErrors.push(err142);
 errors++;
 }
 }
-if(data56.minimumPhaseMargin_deg !== undefined){
-let data59 = data56.minimumPhaseMargin_deg;
-if((typeof data59 == "number") && (isFinite(data59))){
-if(data59 > 180 || isNaN(data59)){
-const err143 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
+else {
+const err143 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err143];
 }
@@ -7175,8 +7357,12 @@ vErrors.push(err143);
 }
 errors++;
 }
-if(data59 < 0 || isNaN(data59)){
-const err144 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data50.sampleTime_s !== undefined){
+let data53 = data50.sampleTime_s;
+if((typeof data53 == "number") && (isFinite(data53))){
+if(data53 <= 0 || isNaN(data53)){
+const err144 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err144];
 }
@@ -7187,7 +7373,7 @@ errors++;
 }
 }
 else {
-const err145 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err145 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err145];
 }
@@ -7197,11 +7383,10 @@ vErrors.push(err145);
 errors++;
 }
 }
-if(data56.maximumSensitivityPeak !== undefined){
-let data60 = data56.maximumSensitivityPeak;
-if((typeof data60 == "number") && (isFinite(data60))){
-if(data60 < 1 || isNaN(data60)){
-const err146 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data50.discretisation !== undefined){
+let data54 = data50.discretisation;
+if(!((data54 === "tustin") || (data54 === "backward-euler"))){
+const err146 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err146];
 }
@@ -7211,8 +7396,11 @@ vErrors.push(err146);
 errors++;
 }
 }
-else {
-const err147 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data50.computationLatency_s !== undefined){
+let data55 = data50.computationLatency_s;
+if((typeof data55 == "number") && (isFinite(data55))){
+if(data55 < 0 || isNaN(data55)){
+const err147 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err147];
 }
@@ -7222,11 +7410,8 @@ vErrors.push(err147);
 errors++;
 }
 }
-if(data56.delayMarginRoom_s !== undefined){
-let data61 = data56.delayMarginRoom_s;
-if((typeof data61 == "number") && (isFinite(data61))){
-if(data61 < 0 || isNaN(data61)){
-const err148 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err148 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err148];
 }
@@ -7236,8 +7421,9 @@ vErrors.push(err148);
 errors++;
 }
 }
+}
 else {
-const err149 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err149 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err149];
 }
@@ -7247,9 +7433,12 @@ vErrors.push(err149);
 errors++;
 }
 }
-}
-else {
-const err150 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.acceptance !== undefined){
+let data56 = data.acceptance;
+if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
+for(const key14 in data56){
+if(!(((((key14 === "maximumLowerGainMargin_dB") || (key14 === "minimumUpperGainMargin_dB")) || (key14 === "minimumPhaseMargin_deg")) || (key14 === "maximumSensitivityPeak")) || (key14 === "delayMarginRoom_s"))){
+const err150 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err150];
 }
@@ -7259,12 +7448,11 @@ vErrors.push(err150);
 errors++;
 }
 }
-if(data.check !== undefined){
-let data62 = data.check;
-if(data62 && typeof data62 == "object" && !Array.isArray(data62)){
-for(const key15 in data62){
-if(!(((key15 === "gridSpeeds") || (key15 === "maxInsertedBreakpoints")) || (key15 === "model"))){
-const err151 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+if(data56.maximumLowerGainMargin_dB !== undefined){
+let data57 = data56.maximumLowerGainMargin_dB;
+if((typeof data57 == "number") && (isFinite(data57))){
+if(data57 > 0 || isNaN(data57)){
+const err151 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err151];
 }
@@ -7274,10 +7462,8 @@ vErrors.push(err151);
 errors++;
 }
 }
-if(data62.gridSpeeds !== undefined){
-let data63 = data62.gridSpeeds;
-if(!(((typeof data63 == "number") && (!(data63 % 1) && !isNaN(data63))) && (isFinite(data63)))){
-const err152 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err152 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err152];
 }
@@ -7286,9 +7472,12 @@ vErrors.push(err152);
 }
 errors++;
 }
-if((typeof data63 == "number") && (isFinite(data63))){
-if(data63 > 100000 || isNaN(data63)){
-const err153 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+}
+if(data56.minimumUpperGainMargin_dB !== undefined){
+let data58 = data56.minimumUpperGainMargin_dB;
+if((typeof data58 == "number") && (isFinite(data58))){
+if(data58 < 0 || isNaN(data58)){
+const err153 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err153];
 }
@@ -7297,8 +7486,9 @@ vErrors.push(err153);
 }
 errors++;
 }
-if(data63 < 2 || isNaN(data63)){
-const err154 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+}
+else {
+const err154 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err154];
 }
@@ -7308,11 +7498,11 @@ vErrors.push(err154);
 errors++;
 }
 }
-}
-if(data62.maxInsertedBreakpoints !== undefined){
-let data64 = data62.maxInsertedBreakpoints;
-if(!(((typeof data64 == "number") && (!(data64 % 1) && !isNaN(data64))) && (isFinite(data64)))){
-const err155 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data56.minimumPhaseMargin_deg !== undefined){
+let data59 = data56.minimumPhaseMargin_deg;
+if((typeof data59 == "number") && (isFinite(data59))){
+if(data59 > 180 || isNaN(data59)){
+const err155 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
 if(vErrors === null){
 vErrors = [err155];
 }
@@ -7321,9 +7511,8 @@ vErrors.push(err155);
 }
 errors++;
 }
-if((typeof data64 == "number") && (isFinite(data64))){
-if(data64 > 100 || isNaN(data64)){
-const err156 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+if(data59 < 0 || isNaN(data59)){
+const err156 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err156];
 }
@@ -7332,8 +7521,9 @@ vErrors.push(err156);
 }
 errors++;
 }
-if(data64 < 0 || isNaN(data64)){
-const err157 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err157 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err157];
 }
@@ -7343,11 +7533,11 @@ vErrors.push(err157);
 errors++;
 }
 }
-}
-if(data62.model !== undefined){
-let data65 = data62.model;
-if(!((data65 === "single-track") || (data65 === "interpolated-lumped"))){
-const err158 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data56.maximumSensitivityPeak !== undefined){
+let data60 = data56.maximumSensitivityPeak;
+if((typeof data60 == "number") && (isFinite(data60))){
+if(data60 < 1 || isNaN(data60)){
+const err158 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err158];
 }
@@ -7357,9 +7547,8 @@ vErrors.push(err158);
 errors++;
 }
 }
-}
 else {
-const err159 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err159 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err159];
 }
@@ -7369,9 +7558,11 @@ vErrors.push(err159);
 errors++;
 }
 }
-}
-else {
-const err160 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data56.delayMarginRoom_s !== undefined){
+let data61 = data56.delayMarginRoom_s;
+if((typeof data61 == "number") && (isFinite(data61))){
+if(data61 < 0 || isNaN(data61)){
+const err160 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err160];
 }
@@ -7380,12 +7571,158 @@ vErrors.push(err160);
 }
 errors++;
 }
+}
+else {
+const err161 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err161];
+}
+else {
+vErrors.push(err161);
+}
+errors++;
+}
+}
+}
+else {
+const err162 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err162];
+}
+else {
+vErrors.push(err162);
+}
+errors++;
+}
+}
+if(data.check !== undefined){
+let data62 = data.check;
+if(data62 && typeof data62 == "object" && !Array.isArray(data62)){
+for(const key15 in data62){
+if(!(((key15 === "gridSpeeds") || (key15 === "maxInsertedBreakpoints")) || (key15 === "model"))){
+const err163 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err163];
+}
+else {
+vErrors.push(err163);
+}
+errors++;
+}
+}
+if(data62.gridSpeeds !== undefined){
+let data63 = data62.gridSpeeds;
+if(!(((typeof data63 == "number") && (!(data63 % 1) && !isNaN(data63))) && (isFinite(data63)))){
+const err164 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err164];
+}
+else {
+vErrors.push(err164);
+}
+errors++;
+}
+if((typeof data63 == "number") && (isFinite(data63))){
+if(data63 > 100000 || isNaN(data63)){
+const err165 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+if(vErrors === null){
+vErrors = [err165];
+}
+else {
+vErrors.push(err165);
+}
+errors++;
+}
+if(data63 < 2 || isNaN(data63)){
+const err166 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+if(vErrors === null){
+vErrors = [err166];
+}
+else {
+vErrors.push(err166);
+}
+errors++;
+}
+}
+}
+if(data62.maxInsertedBreakpoints !== undefined){
+let data64 = data62.maxInsertedBreakpoints;
+if(!(((typeof data64 == "number") && (!(data64 % 1) && !isNaN(data64))) && (isFinite(data64)))){
+const err167 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err167];
+}
+else {
+vErrors.push(err167);
+}
+errors++;
+}
+if((typeof data64 == "number") && (isFinite(data64))){
+if(data64 > 100 || isNaN(data64)){
+const err168 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+if(vErrors === null){
+vErrors = [err168];
+}
+else {
+vErrors.push(err168);
+}
+errors++;
+}
+if(data64 < 0 || isNaN(data64)){
+const err169 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err169];
+}
+else {
+vErrors.push(err169);
+}
+errors++;
+}
+}
+}
+if(data62.model !== undefined){
+let data65 = data62.model;
+if(!((data65 === "single-track") || (data65 === "interpolated-lumped"))){
+const err170 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err170];
+}
+else {
+vErrors.push(err170);
+}
+errors++;
+}
+}
+}
+else {
+const err171 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err171];
+}
+else {
+vErrors.push(err171);
+}
+errors++;
+}
+}
+}
+else {
+const err172 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err172];
+}
+else {
+vErrors.push(err172);
+}
+errors++;
+}
 validate4.errors = vErrors;
 return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":1},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"}}},"plan":{"type":"object"}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","additionalProperties":false,"required":["loop","controller","interpolation","breakpoints"],"properties":{"loop":{"type":"string","pattern":"^[0-9a-f]{64}$"},"controller":{"type":"string","pattern":"^[0-9a-f]{64}$"},"interpolation":{"type":"string","pattern":"^[0-9a-f]{64}$"},"breakpoints":{"type":"array","items":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":2},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const pattern5 = new RegExp("^/", "u");
 
 function validate5(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
@@ -7522,7 +7859,7 @@ vErrors.push(err12);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema11.properties, key0))){
+if(!(func18.call(schema11.properties, key0))){
 const err13 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err13];
@@ -7546,8 +7883,8 @@ errors++;
 }
 }
 if(data.formatVersion !== undefined){
-if(1 !== data.formatVersion){
-const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 1},message:"must be equal to constant"};
+if(2 !== data.formatVersion){
+const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 2},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -7880,7 +8217,7 @@ vErrors.push(err43);
 errors++;
 }
 for(const key3 in data12){
-if(!(func6.call(schema11.properties.controller.properties, key3))){
+if(!(func18.call(schema11.properties.controller.properties, key3))){
 const err44 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err44];
@@ -8871,7 +9208,7 @@ vErrors.push(err128);
 errors++;
 }
 for(const key8 in data51){
-if(!(func6.call(schema11.properties.check.properties, key8))){
+if(!(func18.call(schema11.properties.check.properties, key8))){
 const err129 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err129];
@@ -9966,7 +10303,7 @@ vErrors.push(err219);
 errors++;
 }
 for(const key20 in data93){
-if(!((((((key20 === "tool") || (key20 === "toolVersion")) || (key20 === "inputs")) || (key20 === "model")) || (key20 === "rule")) || (key20 === "plan"))){
+if(!(((((((key20 === "tool") || (key20 === "toolVersion")) || (key20 === "inputs")) || (key20 === "model")) || (key20 === "rule")) || (key20 === "plan")) || (key20 === "handEdits"))){
 const err220 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err220];
@@ -10160,7 +10497,7 @@ vErrors.push(err235);
 errors++;
 }
 for(const key22 in data102){
-if(!(((key22 === "name") || (key22 === "parameters")) || (key22 === "citation"))){
+if(!((((key22 === "name") || (key22 === "parameters")) || (key22 === "citation")) || (key22 === "parametersAtBreakpoints"))){
 const err236 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key22},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err236];
@@ -10208,9 +10545,15 @@ vErrors.push(err239);
 errors++;
 }
 }
-}
-else {
-const err240 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data102.parametersAtBreakpoints !== undefined){
+let data106 = data102.parametersAtBreakpoints;
+if(Array.isArray(data106)){
+const len6 = data106.length;
+for(let i6=0; i6<len6; i6++){
+let data107 = data106[i6];
+if(data107 && typeof data107 == "object" && !Array.isArray(data107)){
+if(data107.speed_mps === undefined){
+const err240 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err240];
 }
@@ -10219,11 +10562,8 @@ vErrors.push(err240);
 }
 errors++;
 }
-}
-if(data93.plan !== undefined){
-let data106 = data93.plan;
-if(!(data106 && typeof data106 == "object" && !Array.isArray(data106))){
-const err241 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data107.parameters === undefined){
+const err241 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
 if(vErrors === null){
 vErrors = [err241];
 }
@@ -10232,10 +10572,9 @@ vErrors.push(err241);
 }
 errors++;
 }
-}
-}
-else {
-const err242 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key23 in data107){
+if(!((key23 === "speed_mps") || (key23 === "parameters"))){
+const err242 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err242];
 }
@@ -10245,11 +10584,10 @@ vErrors.push(err242);
 errors++;
 }
 }
-if(data.cautions !== undefined){
-let data107 = data.cautions;
-if(Array.isArray(data107)){
-if(data107.length < 1){
-const err243 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data107.speed_mps !== undefined){
+let data108 = data107.speed_mps;
+if(!((typeof data108 == "number") && (isFinite(data108)))){
+const err243 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err243];
 }
@@ -10258,10 +10596,14 @@ vErrors.push(err243);
 }
 errors++;
 }
-const len6 = data107.length;
-for(let i6=0; i6<len6; i6++){
-if(typeof data107[i6] !== "string"){
-const err244 = {instancePath:instancePath+"/cautions/" + i6,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+if(data107.parameters !== undefined){
+let data109 = data107.parameters;
+if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
+for(const key24 in data109){
+let data110 = data109[key24];
+if((!((typeof data110 == "number") && (isFinite(data110)))) && (typeof data110 !== "string")){
+const err244 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/parameters/" + key24.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
 if(vErrors === null){
 vErrors = [err244];
 }
@@ -10273,7 +10615,7 @@ errors++;
 }
 }
 else {
-const err245 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err245 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err245];
 }
@@ -10283,11 +10625,9 @@ vErrors.push(err245);
 errors++;
 }
 }
-if(data.checksum !== undefined){
-let data109 = data.checksum;
-if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
-if(data109.algorithm === undefined){
-const err246 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+}
+else {
+const err246 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err246];
 }
@@ -10296,8 +10636,10 @@ vErrors.push(err246);
 }
 errors++;
 }
-if(data109.canonicalForm === undefined){
-const err247 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+}
+}
+else {
+const err247 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err247];
 }
@@ -10306,8 +10648,10 @@ vErrors.push(err247);
 }
 errors++;
 }
-if(data109.value === undefined){
-const err248 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+}
+else {
+const err248 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err248];
 }
@@ -10316,8 +10660,11 @@ vErrors.push(err248);
 }
 errors++;
 }
-if(data109.sections === undefined){
-const err249 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+if(data93.plan !== undefined){
+let data111 = data93.plan;
+if(!(data111 && typeof data111 == "object" && !Array.isArray(data111))){
+const err249 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err249];
 }
@@ -10326,9 +10673,16 @@ vErrors.push(err249);
 }
 errors++;
 }
-for(const key23 in data109){
-if(!((((key23 === "algorithm") || (key23 === "canonicalForm")) || (key23 === "value")) || (key23 === "sections"))){
-const err250 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
+}
+if(data93.handEdits !== undefined){
+let data112 = data93.handEdits;
+if(Array.isArray(data112)){
+const len7 = data112.length;
+for(let i7=0; i7<len7; i7++){
+let data113 = data112[i7];
+if(data113 && typeof data113 == "object" && !Array.isArray(data113)){
+if(data113.statement === undefined){
+const err250 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
 if(vErrors === null){
 vErrors = [err250];
 }
@@ -10337,10 +10691,8 @@ vErrors.push(err250);
 }
 errors++;
 }
-}
-if(data109.algorithm !== undefined){
-if("SHA-256" !== data109.algorithm){
-const err251 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(data113.changedSections === undefined){
+const err251 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
 if(vErrors === null){
 vErrors = [err251];
 }
@@ -10349,10 +10701,8 @@ vErrors.push(err251);
 }
 errors++;
 }
-}
-if(data109.canonicalForm !== undefined){
-if(typeof data109.canonicalForm !== "string"){
-const err252 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data113.toolVersion === undefined){
+const err252 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
 if(vErrors === null){
 vErrors = [err252];
 }
@@ -10361,12 +10711,8 @@ vErrors.push(err252);
 }
 errors++;
 }
-}
-if(data109.value !== undefined){
-let data112 = data109.value;
-if(typeof data112 === "string"){
-if(!pattern0.test(data112)){
-const err253 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data113.model === undefined){
+const err253 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err253];
 }
@@ -10375,9 +10721,8 @@ vErrors.push(err253);
 }
 errors++;
 }
-}
-else {
-const err254 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data113.gridSize === undefined){
+const err254 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err254];
 }
@@ -10386,12 +10731,9 @@ vErrors.push(err254);
 }
 errors++;
 }
-}
-if(data109.sections !== undefined){
-let data113 = data109.sections;
-if(data113 && typeof data113 == "object" && !Array.isArray(data113)){
-if(data113.loop === undefined){
-const err255 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "loop"},message:"must have required property '"+"loop"+"'"};
+for(const key25 in data113){
+if(!(((((key25 === "statement") || (key25 === "changedSections")) || (key25 === "toolVersion")) || (key25 === "model")) || (key25 === "gridSize"))){
+const err255 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key25},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err255];
 }
@@ -10400,8 +10742,10 @@ vErrors.push(err255);
 }
 errors++;
 }
-if(data113.controller === undefined){
-const err256 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "controller"},message:"must have required property '"+"controller"+"'"};
+}
+if(data113.statement !== undefined){
+if(typeof data113.statement !== "string"){
+const err256 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err256];
 }
@@ -10410,8 +10754,14 @@ vErrors.push(err256);
 }
 errors++;
 }
-if(data113.interpolation === undefined){
-const err257 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "interpolation"},message:"must have required property '"+"interpolation"+"'"};
+}
+if(data113.changedSections !== undefined){
+let data115 = data113.changedSections;
+if(Array.isArray(data115)){
+const len8 = data115.length;
+for(let i8=0; i8<len8; i8++){
+if(typeof data115[i8] !== "string"){
+const err257 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/changedSections/" + i8,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err257];
 }
@@ -10420,8 +10770,10 @@ vErrors.push(err257);
 }
 errors++;
 }
-if(data113.breakpoints === undefined){
-const err258 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
+}
+}
+else {
+const err258 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err258];
 }
@@ -10430,9 +10782,10 @@ vErrors.push(err258);
 }
 errors++;
 }
-for(const key24 in data113){
-if(!((((key24 === "loop") || (key24 === "controller")) || (key24 === "interpolation")) || (key24 === "breakpoints"))){
-const err259 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key24},message:"must NOT have additional properties"};
+}
+if(data113.toolVersion !== undefined){
+if(typeof data113.toolVersion !== "string"){
+const err259 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err259];
 }
@@ -10442,11 +10795,9 @@ vErrors.push(err259);
 errors++;
 }
 }
-if(data113.loop !== undefined){
-let data114 = data113.loop;
-if(typeof data114 === "string"){
-if(!pattern0.test(data114)){
-const err260 = {instancePath:instancePath+"/checksum/sections/loop",schemaPath:"#/properties/checksum/properties/sections/properties/loop/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data113.model !== undefined){
+if(typeof data113.model !== "string"){
+const err260 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err260];
 }
@@ -10456,8 +10807,10 @@ vErrors.push(err260);
 errors++;
 }
 }
-else {
-const err261 = {instancePath:instancePath+"/checksum/sections/loop",schemaPath:"#/properties/checksum/properties/sections/properties/loop/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data113.gridSize !== undefined){
+let data119 = data113.gridSize;
+if(!(((typeof data119 == "number") && (!(data119 % 1) && !isNaN(data119))) && (isFinite(data119)))){
+const err261 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err261];
 }
@@ -10466,12 +10819,9 @@ vErrors.push(err261);
 }
 errors++;
 }
-}
-if(data113.controller !== undefined){
-let data115 = data113.controller;
-if(typeof data115 === "string"){
-if(!pattern0.test(data115)){
-const err262 = {instancePath:instancePath+"/checksum/sections/controller",schemaPath:"#/properties/checksum/properties/sections/properties/controller/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if((typeof data119 == "number") && (isFinite(data119))){
+if(data119 < 1 || isNaN(data119)){
+const err262 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err262];
 }
@@ -10481,8 +10831,10 @@ vErrors.push(err262);
 errors++;
 }
 }
+}
+}
 else {
-const err263 = {instancePath:instancePath+"/checksum/sections/controller",schemaPath:"#/properties/checksum/properties/sections/properties/controller/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err263 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err263];
 }
@@ -10492,11 +10844,9 @@ vErrors.push(err263);
 errors++;
 }
 }
-if(data113.interpolation !== undefined){
-let data116 = data113.interpolation;
-if(typeof data116 === "string"){
-if(!pattern0.test(data116)){
-const err264 = {instancePath:instancePath+"/checksum/sections/interpolation",schemaPath:"#/properties/checksum/properties/sections/properties/interpolation/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+}
+else {
+const err264 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err264];
 }
@@ -10506,8 +10856,9 @@ vErrors.push(err264);
 errors++;
 }
 }
+}
 else {
-const err265 = {instancePath:instancePath+"/checksum/sections/interpolation",schemaPath:"#/properties/checksum/properties/sections/properties/interpolation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err265 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err265];
 }
@@ -10517,15 +10868,11 @@ vErrors.push(err265);
 errors++;
 }
 }
-if(data113.breakpoints !== undefined){
-let data117 = data113.breakpoints;
-if(Array.isArray(data117)){
-const len7 = data117.length;
-for(let i7=0; i7<len7; i7++){
-let data118 = data117[i7];
-if(typeof data118 === "string"){
-if(!pattern0.test(data118)){
-const err266 = {instancePath:instancePath+"/checksum/sections/breakpoints/" + i7,schemaPath:"#/properties/checksum/properties/sections/properties/breakpoints/items/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data.cautions !== undefined){
+let data120 = data.cautions;
+if(Array.isArray(data120)){
+if(data120.length < 1){
+const err266 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err266];
 }
@@ -10534,9 +10881,10 @@ vErrors.push(err266);
 }
 errors++;
 }
-}
-else {
-const err267 = {instancePath:instancePath+"/checksum/sections/breakpoints/" + i7,schemaPath:"#/properties/checksum/properties/sections/properties/breakpoints/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const len9 = data120.length;
+for(let i9=0; i9<len9; i9++){
+if(typeof data120[i9] !== "string"){
+const err267 = {instancePath:instancePath+"/cautions/" + i9,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err267];
 }
@@ -10548,7 +10896,7 @@ errors++;
 }
 }
 else {
-const err268 = {instancePath:instancePath+"/checksum/sections/breakpoints",schemaPath:"#/properties/checksum/properties/sections/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err268 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err268];
 }
@@ -10558,9 +10906,11 @@ vErrors.push(err268);
 errors++;
 }
 }
-}
-else {
-const err269 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.checksum !== undefined){
+let data122 = data.checksum;
+if(data122 && typeof data122 == "object" && !Array.isArray(data122)){
+if(data122.algorithm === undefined){
+const err269 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
 if(vErrors === null){
 vErrors = [err269];
 }
@@ -10569,10 +10919,8 @@ vErrors.push(err269);
 }
 errors++;
 }
-}
-}
-else {
-const err270 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data122.canonicalForm === undefined){
+const err270 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
 if(vErrors === null){
 vErrors = [err270];
 }
@@ -10581,15 +10929,173 @@ vErrors.push(err270);
 }
 errors++;
 }
-}
-}
-else {
-const err271 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data122.value === undefined){
+const err271 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err271];
 }
 else {
 vErrors.push(err271);
+}
+errors++;
+}
+if(data122.sections === undefined){
+const err272 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+if(vErrors === null){
+vErrors = [err272];
+}
+else {
+vErrors.push(err272);
+}
+errors++;
+}
+for(const key26 in data122){
+if(!((((key26 === "algorithm") || (key26 === "canonicalForm")) || (key26 === "value")) || (key26 === "sections"))){
+const err273 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key26},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err273];
+}
+else {
+vErrors.push(err273);
+}
+errors++;
+}
+}
+if(data122.algorithm !== undefined){
+if("SHA-256" !== data122.algorithm){
+const err274 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err274];
+}
+else {
+vErrors.push(err274);
+}
+errors++;
+}
+}
+if(data122.canonicalForm !== undefined){
+if(typeof data122.canonicalForm !== "string"){
+const err275 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err275];
+}
+else {
+vErrors.push(err275);
+}
+errors++;
+}
+}
+if(data122.value !== undefined){
+let data125 = data122.value;
+if(typeof data125 === "string"){
+if(!pattern0.test(data125)){
+const err276 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err276];
+}
+else {
+vErrors.push(err276);
+}
+errors++;
+}
+}
+else {
+const err277 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err277];
+}
+else {
+vErrors.push(err277);
+}
+errors++;
+}
+}
+if(data122.sections !== undefined){
+let data126 = data122.sections;
+if(data126 && typeof data126 == "object" && !Array.isArray(data126)){
+for(const key27 in data126){
+const _errs267 = errors;
+if(typeof key27 === "string"){
+if(!pattern5.test(key27)){
+const err278 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key27};
+if(vErrors === null){
+vErrors = [err278];
+}
+else {
+vErrors.push(err278);
+}
+errors++;
+}
+}
+var valid47 = _errs267 === errors;
+if(!valid47){
+const err279 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key27},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err279];
+}
+else {
+vErrors.push(err279);
+}
+errors++;
+}
+}
+for(const key28 in data126){
+let data127 = data126[key28];
+if(typeof data127 === "string"){
+if(!pattern0.test(data127)){
+const err280 = {instancePath:instancePath+"/checksum/sections/" + key28.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err280];
+}
+else {
+vErrors.push(err280);
+}
+errors++;
+}
+}
+else {
+const err281 = {instancePath:instancePath+"/checksum/sections/" + key28.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err281];
+}
+else {
+vErrors.push(err281);
+}
+errors++;
+}
+}
+}
+else {
+const err282 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err282];
+}
+else {
+vErrors.push(err282);
+}
+errors++;
+}
+}
+}
+else {
+const err283 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err283];
+}
+else {
+vErrors.push(err283);
+}
+errors++;
+}
+}
+}
+else {
+const err284 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err284];
+}
+else {
+vErrors.push(err284);
 }
 errors++;
 }
@@ -10685,7 +11191,7 @@ vErrors.push(err7);
 errors++;
 }
 for(const key0 in data){
-if(!(func6.call(schema12.properties, key0))){
+if(!(func18.call(schema12.properties, key0))){
 const err8 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err8];

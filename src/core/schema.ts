@@ -2,6 +2,7 @@ import { createRequire } from 'node:module';
 import type { Ajv, ErrorObject } from 'ajv';
 import { SpeedbandError } from './errors.js';
 import { AJV_OPTIONS } from './schema-options.js';
+import { cutText, quoted } from './quote.js';
 
 export { AJV_OPTIONS } from './schema-options.js';
 
@@ -27,12 +28,12 @@ export interface SchemaValidator {
 
 /** Text for one Ajv error: where, what was found, what was expected. */
 function describeAjvError(error: ErrorObject): string {
-  const path = error.instancePath === '' ? '(top level)' : error.instancePath;
+  const path = error.instancePath === '' ? '(top level)' : cutText(error.instancePath, 200);
   switch (error.keyword) {
     case 'required':
       return `${path}: missing required field "${String(error.params.missingProperty)}"`;
     case 'additionalProperties':
-      return `${path}: unknown field "${String(error.params.additionalProperty)}" — check its spelling against the schema`;
+      return `${path}: unknown field ${quoted(String(error.params.additionalProperty))} — check its spelling against the schema`;
     case 'enum':
       return `${path}: ${error.message ?? 'not allowed'} (${(error.params.allowedValues as unknown[]).map(String).join(', ')})`;
     default:
@@ -62,17 +63,5 @@ export function makeValidator<T>(schema: object, code: string, what: string, pre
   };
 }
 
-/** Parse JSON text with an error that names the file and line of a syntax error. */
-export function parseJsonText(text: string, file: string): unknown {
-  try {
-    return JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
-  } catch (cause) {
-    const message = (cause as Error).message;
-    const position = /position (\d+)/.exec(message);
-    const line = position ? text.slice(0, Number(position[1])).split('\n').length : undefined;
-    throw new SpeedbandError('json.syntax', `not valid JSON: ${message} — fix the syntax`, {
-      location: { file, line },
-      cause,
-    });
-  }
-}
+/** The strict JSON parser of every file speedband reads (src/core/json-text.ts), re-exported for its callers. */
+export { parseJsonText } from './json-text.js';

@@ -17,3 +17,7 @@ export const mphToMps = (speed_mph: number): number => speed_mph * MPS_PER_MPH;
 export const ratioToDecibels = (ratio: number): number => 20 * Math.log10(ratio);
 /** Decibels to amplitude ratio: 10^(dB/20). */
 export const decibelsToRatio = (gain_dB: number): number => Math.pow(10, gain_dB / 20);
+/** Milliseconds per second is a definition (SI prefix milli = 10⁻³). */
+export const SECONDS_PER_MILLISECOND = 1e-3;
+/** Standard acceleration of gravity g_n, m/s² (exact by definition, 3rd CGPM 1901): the "g" accelerometers report in. */
+export const STANDARD_GRAVITY_MPS2 = 9.80665;

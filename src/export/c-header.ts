@@ -2,24 +2,52 @@
  * C99 header for firmware: the breakpoints and gains as const arrays and a `static inline` lookup
  * that computes exactly what src/schedule/interpolate.ts computes — clamp to the table, the
  * low-speed floor, linear or monotone cubic Hermite (Fritsch & Carlson 1980, slopes stored), exact
- * values at breakpoints, result kept between neighbouring values. Arithmetic in IEEE 754 double.
- * No dynamic memory, no library calls. With a fixed-point format the gains are stored as Q-format
- * integers and converted to double in the lookup; the slopes stay those of the exact table, so the
- * lookup's error is at most 2^−(F+1) everywhere (see fixed-point.ts).
- * Comments carry the units, loop, controller equation, checksum and safety cautions (ASCII only).
+ * values at breakpoints, result kept between neighbouring values — and returns a status for a speed
+ * that is NaN or infinite (c-lookup.ts). Arithmetic in IEEE 754 double. No dynamic memory, no library
+ * calls. With a fixed-point format the gains are stored as Q-format integers and converted to double
+ * in the lookup; the slopes stay those of the exact table, so the lookup's error is at most 2^−(F+1)
+ * everywhere (see fixed-point.ts).
+ * No text from the schedule reaches the header except through the comment whitelist (c-comment.ts);
+ * identifiers come from the validated prefix, numbers from cDouble, the checksum is checked hex.
+ * A schedule whose check did not pass gives a header that stops the build with #error unless the
+ * user defines <PREFIX>_ALLOW_FAILING_SCHEDULE (for review only).
  */
 import { SpeedbandError } from '../core/errors.js';
+import { quoted } from '../core/quote.js';
 import { gainSlopes } from '../schedule/interpolate.js';
 import { scheduleLookupSettings, scheduleTable } from '../schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
-import type { GainTable } from '../schedule/types.js';
-import { toAscii } from './ascii.js';
+import type { GainTable, WorstMargins, WorstValue } from '../schedule/types.js';
+import { cComment, commentSafe } from './c-comment.js';
+import { LOOKUP_STATUS, lookupFunctionsText } from './c-lookup.js';
 import { quantiseTable, type FixedPointFormat, type QuantisedTable } from './fixed-point.js';
+
+/** The dense check whose figures the header states (at export: the gains it holds, re-checked). */
+export interface HeaderCheck {
+  readonly passed: boolean;
+  readonly gridSize: number;
+  readonly failedSpeeds: number;
+  readonly worst: WorstMargins;
+  /** Where the figures come from, in words. */
+  readonly source: string;
+}
+
+/** One breakpoint's gains, proven to pass the dense check when held constant over the whole range. */
+export interface FallbackGains {
+  readonly breakpoint: number;
+  readonly speed_mps: number;
+  readonly gridSize: number;
+  readonly worst: WorstMargins;
+}
 
 export interface CHeaderOptions {
   readonly fixedPoint?: FixedPointFormat;
   /** Prefix of every C identifier; the include guard is its upper case. Default 'speedband_schedule'. */
   readonly prefix?: string;
+  /** The check to state and to decide on #error (default: the schedule's recorded check). */
+  readonly check?: HeaderCheck;
+  /** Fallback gains for a NaN or infinite speed (default: none — the lookup then returns LOOKUP_NO_GAINS). */
+  readonly fallback?: FallbackGains | null;
 }
 
 export interface CHeaderExport {
@@ -30,24 +58,34 @@ export interface CHeaderExport {
 
 export const C_HEADER_DEFAULTS = { prefix: 'speedband_schedule' } as const;
 
+/** The macro a user defines to compile the header of a schedule that failed its check (for review only). */
+export const allowFailingMacro = (prefix: string): string => `${prefix.toUpperCase()}_ALLOW_FAILING_SCHEDULE`;
+
 /** A C double literal that parses back to exactly x (shortest round-trip digits). */
 export function cDouble(x: number): string {
-  if (!Number.isFinite(x)) throw new SpeedbandError('export.notFinite', `the value ${x} cannot be written as a C constant`);
+  if (typeof x !== 'number' || !Number.isFinite(x)) throw new SpeedbandError('export.notFinite', `the value ${String(x)} cannot be written as a C constant`);
   const text = String(x);
   return /[.e]/.test(text) ? text : `${text}.0`;
 }
 
 const list = (values: ArrayLike<number>, format: (x: number) => string): string => Array.from(values, format).join(', ');
 
-function comment(lines: readonly string[]): string {
-  return `/*\n${lines.map((line) => ` * ${toAscii(line).replace(/\*\//g, '* /')}`.trimEnd()).join('\n')}\n */`;
-}
+const figure = (label: string, value: WorstValue | null, unit: string): string =>
+  `${label}: ${value === null ? 'none' : `${Number(value.value.toPrecision(4))}${unit} at ${Number(value.speed_mps.toPrecision(4))} m/s`}`;
+
+const worstLines = (worst: WorstMargins): string[] => [
+  `  ${figure('worst phase margin', worst.phaseMargin_deg, ' deg')}; ${figure('worst upper gain margin', worst.upperGainMargin_dB, ' dB')};`,
+  `  ${figure('worst lower gain margin', worst.lowerGainMargin_dB, ' dB')}; ${figure('worst delay margin', worst.delayMargin_s, ' s')}; ${figure('largest sensitivity peak', worst.sensitivityPeak, '')}.`,
+];
 
 /** The C99 header text for a schedule (see the file comment for what it computes). */
 export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): CHeaderExport {
   const prefix = options.prefix ?? C_HEADER_DEFAULTS.prefix;
-  if (!/^[A-Za-z_][A-Za-z0-9_]*$/.test(prefix)) {
-    throw new SpeedbandError('export.prefixInvalid', `"${prefix}" is not a C identifier — use letters, digits and underscores, not starting with a digit`);
+  if (!/^[A-Za-z_][A-Za-z0-9_]{0,62}$/.test(prefix)) {
+    throw new SpeedbandError('export.prefixInvalid', `${quoted(prefix)} is not a C identifier — use letters, digits and underscores, not starting with a digit, at most 63 characters`);
+  }
+  if (!/^[0-9a-f]{64}$/.test(schedule.checksum.value)) {
+    throw new SpeedbandError('export.checksumInvalid', 'the schedule checksum is not 64 hexadecimal digits — read the schedule with readSchedule first');
   }
   const upper = prefix.toUpperCase();
   const settings = scheduleLookupSettings(schedule);
@@ -57,19 +95,28 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
   const cubic = settings.interpolation === 'monotone-cubic';
   const slopes = quantisation?.slopes ?? gainSlopes(table, settings.interpolation);
   const n = table.speeds_mps.length;
-  const { units, controller, loop, check } = schedule;
-  const worst = check.worst;
-  const figure = (label: string, value: { value: number; speed_mps: number } | null, unit: string): string =>
-    `${label}: ${value === null ? 'none' : `${Number(value.value.toPrecision(4))}${unit} at ${Number(value.speed_mps.toPrecision(4))} m/s`}`;
+  const { units, controller, loop } = schedule;
+  const check: HeaderCheck = options.check ?? {
+    passed: schedule.status === 'passed',
+    gridSize: schedule.check.gridSize,
+    failedSpeeds: schedule.check.failedSpeeds,
+    worst: schedule.check.worst,
+    source: 'as recorded in the schedule',
+  };
+  const fallback = options.fallback ?? null;
+  if (fallback !== null && !(Number.isInteger(fallback.breakpoint) && fallback.breakpoint >= 0 && fallback.breakpoint < n)) {
+    throw new SpeedbandError('export.fallbackInvalid', `fallback breakpoint ${fallback.breakpoint} is not a breakpoint of the table (0 to ${n - 1})`);
+  }
+  const optIn = allowFailingMacro(prefix);
 
-  const header = comment([
+  const header = cComment([
     `Gain schedule for ${schedule.vehicle.name} -- generated by speedband ${schedule.provenance.toolVersion} from schedule.json.`,
-    'Do not edit: the checksum below covers the breakpoints, gains, loop, controller and interpolation settings.',
+    'Do not edit: the checksum below covers every field of the schedule file (gains, margins, limits, texts, provenance).',
     '',
     `Loop: ${loop.kind}${loop.kind === 'path' ? ` (preview ${loop.preview_m} m from the ${loop.referencePoint})` : ''}.`,
     `Error: ${loop.error}.`,
     `Units: speed ${units.speed}; output ${units.output} (road-wheel angle command); kp ${units.kp}; ki ${units.ki}; kd ${units.kd}.`,
-    `Controller (${controller.form} form, derivative filter N = ${controller.derivativeFilter}, ${controller.discretisation}, sample time ${controller.sampleTime_s} s):`,
+    `Controller (${controller.form} form, derivative filter N = ${controller.derivativeFilter}, ${controller.discretisation}, sample time ${controller.sampleTime_s} s, computation latency ${controller.computationLatency_s} s):`,
     `  ${controller.equation}`,
     ...controller.update.map((line) => `  ${line}`),
     `  ${controller.integration}`,
@@ -81,9 +128,14 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
           `int${quantisation.format.wordBits}_t (value = integer / 2^${quantisation.format.fractionalBits}); ` +
           `max quantisation error kp ${quantisation.errors.kp.maxAbsolute.toPrecision(3)}, ki ${quantisation.errors.ki.maxAbsolute.toPrecision(3)}, kd ${quantisation.errors.kd.maxAbsolute.toPrecision(3)}.`
     }`,
-    `Dense check (${check.model.kind} model, ${check.gridSize} speeds, ${check.range.minimum_mps} to ${check.range.maximum_mps} m/s): ${schedule.status.toUpperCase()}.`,
-    `  ${figure('worst phase margin', worst.phaseMargin_deg, ' deg')}; ${figure('worst upper gain margin', worst.upperGainMargin_dB, ' dB')};`,
-    `  ${figure('worst lower gain margin', worst.lowerGainMargin_dB, ' dB')}; ${figure('worst delay margin', worst.delayMargin_s, ' s')}; ${figure('largest sensitivity peak', worst.sensitivityPeak, '')}.`,
+    `Dense check of the gains in this header (${schedule.check.model.kind} model, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
+      `${check.passed ? 'PASSED' : `FAILED at ${check.failedSpeeds} speeds`}.`,
+    ...worstLines(check.worst),
+    `Lookup status: ${upper}_LOOKUP_OK (${LOOKUP_STATUS.OK.value}), ${upper}_LOOKUP_FALLBACK (${LOOKUP_STATUS.FALLBACK.value}), ${upper}_LOOKUP_NO_GAINS (${LOOKUP_STATUS.NO_GAINS.value}): check it.`,
+    fallback === null
+      ? `Speed NaN or infinite: no fallback -- no breakpoint's gains, held constant, pass the dense check over the whole range; the lookup returns ${upper}_LOOKUP_NO_GAINS and leaves the gains unwritten (hand over or stop).`
+      : `Speed NaN or infinite: fallback gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which held constant pass the dense check at all ${fallback.gridSize} speeds of the range; the lookup returns ${upper}_LOOKUP_FALLBACK.`,
+    ...(check.passed ? [] : [`This schedule FAILED its check: the header stops the build with #error unless ${optIn} is defined (review only, never to drive).`]),
     `Checksum: ${schedule.checksum.algorithm} ${schedule.checksum.value}`,
     `  (${schedule.checksum.canonicalForm})`,
     '',
@@ -93,19 +145,20 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
 
   const gainType = quantisation === undefined ? 'double' : `int${quantisation.format.wordBits}_t`;
   const gainArray = (name: 'kp' | 'ki' | 'kd'): string => {
-    const values = quantisation === undefined ? list(table.gains.map((row) => row[name]), cDouble) : quantisation.raw[name].join(', ');
+    const values = quantisation === undefined ? list(table.gains.map((row) => row[name]), cDouble) : quantisation.raw[name].map((q) => String(Math.trunc(q))).join(', ');
     return `static const ${gainType} ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${values} };`;
   };
   const gainValue = (name: string, index: string): string =>
     quantisation === undefined ? `${prefix}_${name}[${index}]` : `((double)${prefix}_${name}[${index}] / ${upper}_GAIN_SCALE)`;
-  const segment = (name: 'kp' | 'ki' | 'kd'): string =>
-    cubic
-      ? `  g.${name} = ${prefix}_segment(${gainValue(name, 'k')}, ${gainValue(name, 'k + 1')}, ${prefix}_${name}_slope[k], ${prefix}_${name}_slope[k + 1], t, h);`
-      : `  g.${name} = ${prefix}_segment(${gainValue(name, 'k')}, ${gainValue(name, 'k + 1')}, t);`;
-  const row = (index: string): string =>
-    ['kp', 'ki', 'kd'].map((name) => `    g.${name} = ${gainValue(name, index)};`).join('\n');
 
   const lines = [
+    ...(check.passed
+      ? []
+      : [
+          `#ifndef ${optIn}`,
+          `#error "speedband: this gain schedule FAILED its dense stability check and is for review only; define ${optIn} to compile it anyway"`,
+          '#endif',
+        ]),
     header,
     `#ifndef ${upper}_H`,
     `#define ${upper}_H`,
@@ -118,8 +171,13 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     `#define ${upper}_LOW_SPEED_FLOOR_MPS ${cDouble(settings.lowSpeedFloor_mps)}`,
     `#define ${upper}_CHECKSUM "${schedule.checksum.value}"`,
     ...(quantisation === undefined ? [] : [`#define ${upper}_GAIN_SCALE ${cDouble(2 ** quantisation.format.fractionalBits)}`]),
+    `#define ${upper}_LOOKUP_OK ${LOOKUP_STATUS.OK.value}`,
+    `#define ${upper}_LOOKUP_FALLBACK ${LOOKUP_STATUS.FALLBACK.value}`,
+    `#define ${upper}_LOOKUP_NO_GAINS ${LOOKUP_STATUS.NO_GAINS.value}`,
+    `/* Breakpoint whose gains the lookup returns for a NaN or infinite speed; -1: none. */`,
+    `#define ${upper}_FALLBACK_BREAKPOINT ${fallback === null ? -1 : fallback.breakpoint}`,
     '',
-    `/* Gains at one speed: kp ${toAscii(units.kp)}, ki ${toAscii(units.ki)}, kd ${toAscii(units.kd)}. */`,
+    `/* Gains at one speed: kp ${commentSafe(units.kp)}, ki ${commentSafe(units.ki)}, kd ${commentSafe(units.kd)}. */`,
     `typedef struct ${prefix}_gains {`,
     '  double kp;',
     '  double ki;',
@@ -140,67 +198,7 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
         ]
       : []),
     '',
-    cubic
-      ? [
-          '/* Cubic Hermite on one interval, kept between its end values. t in [0, 1), h = interval width in m/s. */',
-          `static inline double ${prefix}_segment(double y0, double y1, double m0, double m1, double t, double h)`,
-          '{',
-          '  double t2 = t * t;',
-          '  double t3 = t2 * t;',
-          '  double y = (2.0 * t3 - 3.0 * t2 + 1.0) * y0 + (t3 - 2.0 * t2 + t) * h * m0 + (-2.0 * t3 + 3.0 * t2) * y1 + (t3 - t2) * h * m1;',
-        ].join('\n')
-      : [
-          '/* Linear interpolation on one interval, kept between its end values. t in [0, 1). */',
-          `static inline double ${prefix}_segment(double y0, double y1, double t)`,
-          '{',
-          '  double y = y0 + t * (y1 - y0);',
-        ].join('\n'),
-    '  double low = y0 < y1 ? y0 : y1;',
-    '  double high = y0 < y1 ? y1 : y0;',
-    '  return y < low ? low : (y > high ? high : y);',
-    '}',
-    '',
-    '/*',
-    ' * Gains at a speed, m/s. Below the low-speed floor the floor speed is used; outside the table the',
-    ' * end values are held; exact table values at breakpoints. A NaN speed gives the first breakpoint.',
-    ' */',
-    `static inline ${prefix}_gains ${prefix}_lookup(double speed_mps)`,
-    '{',
-    `  ${prefix}_gains g;`,
-    `  double v = speed_mps < ${upper}_LOW_SPEED_FLOOR_MPS ? ${upper}_LOW_SPEED_FLOOR_MPS : speed_mps;`,
-    '  int low = 0;',
-    `  int high = ${upper}_BREAKPOINTS - 1;`,
-    '  int k;',
-    '  double h;',
-    '  double t;',
-    `  if (!(v > ${prefix}_speed_mps[0])) {`,
-    row('0'),
-    '    return g;',
-    '  }',
-    `  if (v >= ${prefix}_speed_mps[${upper}_BREAKPOINTS - 1]) {`,
-    row(`${upper}_BREAKPOINTS - 1`),
-    '    return g;',
-    '  }',
-    '  while (high - low > 1) {',
-    '    int middle = (low + high) / 2;',
-    `    if (${prefix}_speed_mps[middle] <= v) {`,
-    '      low = middle;',
-    '    } else {',
-    '      high = middle;',
-    '    }',
-    '  }',
-    '  k = low;',
-    `  if (v == ${prefix}_speed_mps[k]) {`,
-    row('k'),
-    '    return g;',
-    '  }',
-    `  h = ${prefix}_speed_mps[k + 1] - ${prefix}_speed_mps[k];`,
-    `  t = (v - ${prefix}_speed_mps[k]) / h;`,
-    segment('kp'),
-    segment('ki'),
-    segment('kd'),
-    '  return g;',
-    '}',
+    lookupFunctionsText({ prefix, upper, cubic, gainValue, fallbackBreakpoint: fallback?.breakpoint ?? null }),
     '',
     `#endif /* ${upper}_H */`,
     '',

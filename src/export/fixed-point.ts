@@ -11,6 +11,7 @@ import type { PidGains } from '../controller/types.js';
 import { SpeedbandError } from '../core/errors.js';
 import { gainSlopes, makeGainLookup, type GainSlopes } from '../schedule/interpolate.js';
 import type { GainTable, LookupSettings } from '../schedule/types.js';
+import { quoted } from '../core/quote.js';
 
 export interface FixedPointFormat {
   readonly fractionalBits: number;
@@ -49,7 +50,7 @@ export function parseQFormat(text: string): FixedPointFormat {
   if (!match || integerBits < 1 || (wordBits !== 16 && wordBits !== 32)) {
     throw new SpeedbandError(
       'export.qFormatInvalid',
-      `Q format "${text}" is not I.F with I ≥ 1 integer bits (sign included) and I + F = 16 or 32 — e.g. 16.16 or 4.12`,
+      `Q format ${quoted(text)} is not I.F with I ≥ 1 integer bits (sign included) and I + F = 16 or 32 — e.g. 16.16 or 4.12`,
       { details: { given: text } },
     );
   }

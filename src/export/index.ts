@@ -1,5 +1,7 @@
 /** The export stage: C99 header, CSV, JSON, fixed-point gains and the quantised re-check. Re-exports only. */
-export { exportC, cDouble, C_HEADER_DEFAULTS, type CHeaderOptions, type CHeaderExport } from './c-header.js';
+export { exportC, cDouble, allowFailingMacro, C_HEADER_DEFAULTS, type CHeaderOptions, type CHeaderExport, type HeaderCheck, type FallbackGains } from './c-header.js';
+export { commentSafe, cComment } from './c-comment.js';
+export { LOOKUP_STATUS } from './c-lookup.js';
 export { exportCsv } from './csv.js';
 export { exportJson } from './json.js';
 export { parseQFormat, quantiseTable, type FixedPointFormat, type QuantisedTable, type GainQuantisationError } from './fixed-point.js';

@@ -1,7 +1,7 @@
 import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { SpeedbandError } from '../core/errors.js';
-import { sha256Hex } from '../core/files.js';
+import { readFileBytes, sha256Hex } from '../core/files.js';
 import { readSteerLog, type ReadLogOptions } from '../log/read.js';
 import { findStepTests } from '../log/segment.js';
 import type { RejectedStep, StepTest } from '../log/types.js';
@@ -43,7 +43,8 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
 
-  const logPaths = expandLogPaths(input.logPaths);
+  const inputs = canonicalLogOrder(expandLogPaths(input.logPaths));
+  const logPaths = inputs.map((entry) => entry.file);
   const steps: StepTest[] = [];
   const rejected: RejectedStep[] = [];
   for (const file of logPaths) {
@@ -52,8 +53,6 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
     steps.push(...search.steps.map((step) => truncateStep(step, options.maxHold_s)));
     rejected.push(...search.rejected);
   }
-  // Hashed after reading, so that a missing file is reported by the log reader with its name.
-  const inputs = logPaths.map((file) => ({ file, sha256: sha256Hex(readFileSync(file)) }));
   if (steps.length === 0) {
     throw new SpeedbandError('identify.noSteps', `no step-steer event was found in ${logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`, {
       location: { file: logPaths[0] },
@@ -141,7 +140,7 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
 }
 
 /** Paths as given, with each folder replaced by the .csv files in it, sorted by name; throws `identify.noLogs` when none remain. */
-function expandLogPaths(paths: readonly string[]): string[] {
+export function expandLogPaths(paths: readonly string[]): string[] {
   const files: string[] = [];
   for (const path of paths) {
     let isFolder = false;
@@ -162,6 +161,28 @@ function expandLogPaths(paths: readonly string[]): string[] {
     });
   }
   return files;
+}
+
+/**
+ * The logs in a canonical order — by the SHA-256 of their content, then by path — so that the same set
+ * of logs given in any order identifies the same models, bit for bit (the fits add up floating-point
+ * numbers in log order). The same content given twice (a file named twice, or a copy) would count its
+ * steps twice: refused with `identify.duplicateLog`, naming both paths.
+ */
+export function canonicalLogOrder(paths: readonly string[]): { file: string; sha256: string }[] {
+  const hashed = paths.map((file) => ({ file, sha256: sha256Hex(readFileBytes(file)) }));
+  hashed.sort((a, b) => (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : a.file < b.file ? -1 : a.file > b.file ? 1 : 0));
+  for (let k = 1; k < hashed.length; k += 1) {
+    if (hashed[k].sha256 !== hashed[k - 1].sha256) continue;
+    const [first, second] = [hashed[k - 1].file, hashed[k].file];
+    throw new SpeedbandError(
+      'identify.duplicateLog',
+      `${first} and ${second} have the same content (SHA-256 ${hashed[k].sha256.slice(0, 16)}…)${first === second ? ': the same file was given twice' : ''} — ` +
+        'a log given twice counts its steps twice and changes the schedule; give each log once',
+      { location: { file: second }, details: { files: [first, second], sha256: hashed[k].sha256 } },
+    );
+  }
+  return hashed;
 }
 
 function describeRejected(rejected: readonly RejectedStep[]): string {

@@ -1,6 +1,6 @@
 /** Identification (stage 2): re-exports only. */
 export type { FopdtModel, SecondOrderModel, LumpedModel } from './types.js';
-export { identifyFromLogs, type IdentifyFromLogsInput } from './identify-from-logs.js';
+export { identifyFromLogs, expandLogPaths, canonicalLogOrder, type IdentifyFromLogsInput } from './identify-from-logs.js';
 export { IDENTIFY_DEFAULTS, type IdentifyOptions } from './defaults.js';
 export { identifyStep, type StepIdentification, type ModelStructure } from './identify-step.js';
 export { fitFopdt, FOPDT_FIT_DEFAULTS, type FopdtFit, type FopdtFitOptions } from './fit-fopdt.js';

@@ -3,6 +3,7 @@ import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.
 import { validateModelsFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, MODELS_SCHEMA, type ModelsFile } from './models-schema.js';
+import { QUOTED_TEXT_MAX, cutText } from '../core/quote.js';
 
 const validateModels = makeValidator<ModelsFile>(MODELS_SCHEMA, 'models.invalid', 'speedband models file', validateModelsFile);
 
@@ -18,14 +19,14 @@ export function parseModels(text: string, file: string): ModelsFile {
   if (typeof value === 'object' && value !== null && (value as { format?: unknown }).format !== MODELS_FORMAT) {
     throw new SpeedbandError(
       'models.wrongFormat',
-      `not a speedband models file: format is ${JSON.stringify((value as { format?: unknown }).format)}, expected "${MODELS_FORMAT}" — give the file written by speedband identify`,
+      `not a speedband models file: format is ${cutText(String(JSON.stringify((value as { format?: unknown }).format)), QUOTED_TEXT_MAX)}, expected "${MODELS_FORMAT}" — give the file written by speedband identify`,
       { location: { file, jsonPath: '/format' } },
     );
   }
   if (typeof value === 'object' && value !== null && (value as { formatVersion?: unknown }).formatVersion !== MODELS_FORMAT_VERSION) {
     throw new SpeedbandError(
       'models.unsupportedVersion',
-      `models file format version ${JSON.stringify((value as { formatVersion?: unknown }).formatVersion)} is not supported (this speedband reads version ${MODELS_FORMAT_VERSION}) — rerun speedband identify`,
+      `models file format version ${cutText(String(JSON.stringify((value as { formatVersion?: unknown }).formatVersion)), QUOTED_TEXT_MAX)} is not supported (this speedband reads version ${MODELS_FORMAT_VERSION}) — rerun speedband identify`,
       { location: { file, jsonPath: '/formatVersion' } },
     );
   }

@@ -5,20 +5,19 @@
  */
 import { SpeedbandError } from '../core/errors.js';
 import { closestName } from './closest-name.js';
-import {
-  CHANNELS,
-  CHANNEL_DEFINITIONS,
-  REQUIRED_CHANNELS,
-  UNIT_DEFINITIONS,
-  unitsForChannel,
-  type ChannelName,
-  type LogUnit,
-} from './columns.js';
+import { QUOTED_TEXT_MAX, cutText, escapeControlCharacters, quoted } from '../core/quote.js';
+import { builtInConversion, checkUnitQuantity, resolveColumnUnit, type UnitConversion, type UnitOrigin } from './column-units.js';
+import { CHANNELS, CHANNEL_DEFINITIONS, REQUIRED_CHANNELS, type ChannelName } from './columns.js';
 
-/** Where one channel comes from: the header name (default: the channel name) and its unit (default: the channel's SI unit). */
+/**
+ * Where one channel comes from: the header name (default: the channel name) and its unit as written
+ * (default: the channel's SI unit). `conversion` is filled in by `resolveColumnUnits` for units outside
+ * the built-in table (they need mathjs); the log reader converts built-in units by itself.
+ */
 export interface ColumnSource {
   readonly from?: string;
-  readonly unit?: LogUnit;
+  readonly unit?: string;
+  readonly conversion?: UnitConversion;
 }
 
 export type ColumnMap = Readonly<Partial<Record<ChannelName, ColumnSource>>>;
@@ -30,7 +29,7 @@ export interface ResolvedColumn {
   readonly header: string;
   /** 0-based index into a row's cells. */
   readonly index: number;
-  readonly unit: LogUnit;
+  readonly unit: string;
   /** Multiply a recorded value by this to get SI (includes 1/steering ratio for steering-wheel units). */
   readonly toSi: number;
 }
@@ -48,10 +47,28 @@ export function mergeColumnMaps(...maps: readonly (ColumnMap | undefined)[]): Co
     if (map === undefined) continue;
     for (const channel of CHANNELS) {
       const source = map[channel];
-      if (source !== undefined) merged[channel] = { ...merged[channel], ...source };
+      if (source === undefined) continue;
+      const { conversion: _replaced, ...kept } = merged[channel] ?? {};
+      // A unit given again brings its own conversion (or none until resolved); the earlier one goes with the earlier unit.
+      merged[channel] = source.unit === undefined ? { ...merged[channel], ...source } : { ...kept, ...source };
     }
   }
   return merged;
+}
+
+/**
+ * Give every unit of a column map its conversion (built-in, or through mathjs, loaded here): the
+ * step between a map as written (a log profile, --column options, code) and reading logs with it.
+ * `origin(channel)` says where each unit was written, for errors (`log.unknownUnit`, `log.unitMismatch`).
+ */
+export async function resolveColumnUnits(map: ColumnMap, origin: (channel: ChannelName) => UnitOrigin = () => ({})): Promise<ColumnMap> {
+  const resolved: Partial<Record<ChannelName, ColumnSource>> = {};
+  for (const channel of CHANNELS) {
+    const source = map[channel];
+    if (source === undefined) continue;
+    resolved[channel] = source.unit === undefined ? source : { ...source, conversion: await resolveColumnUnit(channel, source.unit, origin(channel)) };
+  }
+  return resolved;
 }
 
 /**
@@ -59,7 +76,8 @@ export function mergeColumnMaps(...maps: readonly (ColumnMap | undefined)[]): Co
  * ones are used when present (or must be present when the map names them).
  * `steeringRatio` (steering-wheel angle per road-wheel angle) is needed only
  * for steering-wheel units. Throws `log.missingColumn` (with "did you mean"),
- * `log.duplicateColumn`, `log.unitMismatch` or `log.steeringRatioRequired`.
+ * `log.duplicateColumn`, `log.unitMismatch`, `log.unitNotResolved` (a unit outside the
+ * built-in table given without its conversion) or `log.steeringRatioRequired`.
  */
 export function resolveColumns(header: readonly string[], map: ColumnMap, steeringRatio: number | undefined, file: string): ResolvedColumns {
   const columns: ResolvedColumn[] = [];
@@ -77,37 +95,52 @@ export function resolveColumns(header: readonly string[], map: ColumnMap, steeri
     if (second >= 0) {
       throw new SpeedbandError(
         'log.duplicateColumn',
-        `the header names column "${name}" twice (columns ${index + 1} and ${second + 1}) — rename one so that ${channel} is unambiguous`,
-        { location: { file, line: 1, column: `${second + 1} (${name})` }, details: { channel, name } },
+        `the header names column ${quoted(name)} twice (columns ${index + 1} and ${second + 1}) — rename one so that ${channel} is unambiguous`,
+        { location: { file, line: 1, column: `${second + 1} (${cutText(escapeControlCharacters(name), QUOTED_TEXT_MAX)})` }, details: { channel, name } },
       );
     }
-    columns.push({ channel, header: name, index, unit, toSi: unitFactor(channel, unit, steeringRatio, file) });
+    const conversion = columnConversion(channel, unit, source?.conversion, file);
+    columns.push({ channel, header: name, index, unit, toSi: unitFactor(channel, conversion, steeringRatio, file) });
     used.add(index);
   }
   const ignored = header.filter((name, index) => !used.has(index) && name !== '');
   return { columns, ignored };
 }
 
-function unitFactor(channel: ChannelName, unit: LogUnit, steeringRatio: number | undefined, file: string): number {
-  const definition = UNIT_DEFINITIONS[unit];
-  if (definition.quantity !== CHANNEL_DEFINITIONS[channel].quantity) {
+/** The conversion resolved for this unit, else the built-in one; a unit needing mathjs must have been resolved. */
+function columnConversion(channel: ChannelName, unit: string, resolved: UnitConversion | undefined, file: string): UnitConversion {
+  const conversion = resolved !== undefined && resolved.unit === unit ? resolved : builtInConversion(unit);
+  if (conversion === undefined) {
     throw new SpeedbandError(
-      'log.unitMismatch',
-      `unit "${unit}" is not a unit of ${CHANNEL_DEFINITIONS[channel].describe} (${channel}) — use one of ${unitsForChannel(channel).join(', ')}`,
+      'log.unitNotResolved',
+      `unit ${quoted(unit)} of ${channel} is not a built-in unit and was not converted — pass the column map through resolveColumnUnits (log profiles and --column options are) before reading`,
       { location: { file }, details: { channel, unit } },
     );
   }
-  if (!definition.steeringWheel) return definition.toSi;
+  return checkUnitQuantity(channel, conversion, { location: { file } });
+}
+
+function unitFactor(channel: ChannelName, conversion: UnitConversion, steeringRatio: number | undefined, file: string): number {
+  if (!conversion.steeringWheel) return conversion.toSi;
   if (steeringRatio === undefined || !Number.isFinite(steeringRatio) || steeringRatio <= 0) {
     throw new SpeedbandError(
       'log.steeringRatioRequired',
-      `${channel} is a steering-wheel angle (${unit}) and needs the steering ratio to become a road-wheel angle, but ${
+      `${channel} is a steering-wheel angle (${conversion.unit}) and needs the steering ratio to become a road-wheel angle, but ${
         steeringRatio === undefined ? 'none was given' : `the ratio given is ${steeringRatio}`
       } — pass --vehicle FILE (its steeringRatio) or --steering-ratio N`,
-      { location: { file }, details: { channel, unit, steeringRatio } },
+      { location: { file }, details: { channel, unit: conversion.unit, steeringRatio } },
     );
   }
-  return definition.toSi / steeringRatio;
+  return conversion.toSi / steeringRatio;
+}
+
+/** At most this many header names are listed in a message. */
+const LISTED_HEADER_NAMES = 30;
+
+/** Header names for a message: each cut and escaped, at most LISTED_HEADER_NAMES of them. */
+function listOfNames(header: readonly string[]): string {
+  const shown = header.slice(0, LISTED_HEADER_NAMES).map((name) => escapeControlCharacters(cutText(name, QUOTED_TEXT_MAX)));
+  return header.length > LISTED_HEADER_NAMES ? `${shown.join(', ')}, … (${header.length} columns)` : shown.join(', ');
 }
 
 function missingColumn(channel: ChannelName, name: string, header: readonly string[], file: string): SpeedbandError {
@@ -115,10 +148,10 @@ function missingColumn(channel: ChannelName, name: string, header: readonly stri
   const hint =
     suggestion === null
       ? `add the column, or map it with --column ${channel}=HEADER[:UNIT] or a log profile`
-      : `did you mean "${suggestion}"? If so, rename it or map it with --column ${channel}=${suggestion}[:UNIT]`;
+      : `did you mean ${quoted(suggestion)}? If so, rename it or map it with --column ${channel}=${cutText(suggestion, QUOTED_TEXT_MAX)}[:UNIT]`;
   return new SpeedbandError(
     'log.missingColumn',
-    `no column "${name}" (${CHANNEL_DEFINITIONS[channel].describe}) in the header; found: ${header.join(', ')} — ${hint}`,
-    { location: { file, line: 1 }, details: { channel, name, suggestion, header } },
+    `no column ${quoted(name)} (${CHANNEL_DEFINITIONS[channel].describe}) in the header; found: ${listOfNames(header)} — ${hint}`,
+    { location: { file, line: 1 }, details: { channel, name: cutText(name, QUOTED_TEXT_MAX), suggestion, header: header.slice(0, LISTED_HEADER_NAMES).map((entry) => cutText(entry, QUOTED_TEXT_MAX)) } },
   );
 }

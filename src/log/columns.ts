@@ -1,10 +1,10 @@
 /**
- * The channels a step-test log carries, the units a column may be recorded in,
- * and the physical limits beyond which a value is taken as a unit or wiring
- * mistake rather than a measurement. SI inside, ISO 8855 signs (positive steer
- * and yaw rate to the left).
+ * The channels a step-test log carries, the quantity each holds (the units a column
+ * may be recorded in are in column-units.ts), and the physical limits beyond which a
+ * value is taken as a unit or wiring mistake rather than a measurement. SI inside,
+ * ISO 8855 signs (positive steer and yaw rate to the left).
  */
-import { MPS_PER_KPH, MPS_PER_MPH, RADIANS_PER_DEGREE } from '../core/units.js';
+import type { PhysicalQuantity } from '../core/unit-expressions.js';
 
 /** Channel names in the default CSV header; they are also the keys of a column map. */
 export const CHANNELS = ['time_s', 'speed_mps', 'steer_cmd_rad', 'yaw_rate_radps', 'steer_angle_rad', 'lat_accel_mps2'] as const;
@@ -12,42 +12,12 @@ export type ChannelName = (typeof CHANNELS)[number];
 
 export const REQUIRED_CHANNELS: readonly ChannelName[] = ['time_s', 'speed_mps', 'steer_cmd_rad', 'yaw_rate_radps'];
 
-export type Quantity = 'time' | 'speed' | 'angle' | 'angularRate' | 'acceleration';
-
-/** Units a column may be recorded in. `steering-wheel-*` angles are divided by the steering ratio to give road-wheel angle. */
-export const LOG_UNITS = ['s', 'ms', 'm/s', 'km/h', 'mph', 'rad', 'deg', 'steering-wheel-rad', 'steering-wheel-deg', 'rad/s', 'deg/s', 'm/s2'] as const;
-export type LogUnit = (typeof LOG_UNITS)[number];
-
-interface UnitDefinition {
-  readonly quantity: Quantity;
-  /** Multiply a recorded value by this to get SI. */
-  readonly toSi: number;
-  /** True when the value is a steering-wheel angle (divide by the steering ratio as well). */
-  readonly steeringWheel: boolean;
-}
-
-/** Milliseconds per second is a definition, not a measured constant. */
-const SECONDS_PER_MILLISECOND = 1e-3;
-
-export const UNIT_DEFINITIONS: Readonly<Record<LogUnit, UnitDefinition>> = {
-  s: { quantity: 'time', toSi: 1, steeringWheel: false },
-  ms: { quantity: 'time', toSi: SECONDS_PER_MILLISECOND, steeringWheel: false },
-  'm/s': { quantity: 'speed', toSi: 1, steeringWheel: false },
-  'km/h': { quantity: 'speed', toSi: MPS_PER_KPH, steeringWheel: false },
-  mph: { quantity: 'speed', toSi: MPS_PER_MPH, steeringWheel: false },
-  rad: { quantity: 'angle', toSi: 1, steeringWheel: false },
-  deg: { quantity: 'angle', toSi: RADIANS_PER_DEGREE, steeringWheel: false },
-  'steering-wheel-rad': { quantity: 'angle', toSi: 1, steeringWheel: true },
-  'steering-wheel-deg': { quantity: 'angle', toSi: RADIANS_PER_DEGREE, steeringWheel: true },
-  'rad/s': { quantity: 'angularRate', toSi: 1, steeringWheel: false },
-  'deg/s': { quantity: 'angularRate', toSi: RADIANS_PER_DEGREE, steeringWheel: false },
-  'm/s2': { quantity: 'acceleration', toSi: 1, steeringWheel: false },
-};
+export type Quantity = PhysicalQuantity;
 
 export interface ChannelDefinition {
   readonly quantity: Quantity;
-  /** The SI unit the channel holds inside the program. */
-  readonly siUnit: LogUnit;
+  /** The SI unit the channel holds inside the program (its default unit in a log). */
+  readonly siUnit: string;
   readonly describe: string;
   /** Smallest and largest plausible SI value; outside is a unit or wiring mistake. Null: no bound. */
   readonly plausible: { readonly min: number | null; readonly max: number | null };
@@ -110,14 +80,4 @@ export const CHANNEL_DEFINITIONS: Readonly<Record<ChannelName, ChannelDefinition
 
 export function isChannelName(name: string): name is ChannelName {
   return (CHANNELS as readonly string[]).includes(name);
-}
-
-export function isLogUnit(name: string): name is LogUnit {
-  return (LOG_UNITS as readonly string[]).includes(name);
-}
-
-/** Units allowed for a channel (those of its quantity). */
-export function unitsForChannel(channel: ChannelName): readonly LogUnit[] {
-  const quantity = CHANNEL_DEFINITIONS[channel].quantity;
-  return LOG_UNITS.filter((unit) => UNIT_DEFINITIONS[unit].quantity === quantity);
 }

@@ -1,7 +1,8 @@
 /** Stage 1, read: CSV step-test logs, step segmentation, transient metrics. Re-exports only. */
 export * from './types.js';
-export { CHANNELS, REQUIRED_CHANNELS, LOG_UNITS, CHANNEL_DEFINITIONS, type ChannelName, type LogUnit } from './columns.js';
-export { mergeColumnMaps, resolveColumns, type ColumnMap, type ColumnSource, type ResolvedColumn } from './column-map.js';
+export { CHANNELS, REQUIRED_CHANNELS, CHANNEL_DEFINITIONS, type ChannelName } from './columns.js';
+export { BUILT_IN_UNITS, STEERING_WHEEL_PREFIX, builtInConversion, resolveColumnUnit, type UnitConversion, type UnitOrigin } from './column-units.js';
+export { mergeColumnMaps, resolveColumns, resolveColumnUnits, type ColumnMap, type ColumnSource, type ResolvedColumn } from './column-map.js';
 export { LOG_PROFILE_SCHEMA, loadLogProfile, parseLogProfile, parseColumnOptions, type LogProfile } from './profile.js';
 export { READ_DEFAULTS, readSteerLog, parseSteerLog, type ReadLogOptions } from './read.js';
 export { SEGMENT_DEFAULTS, findStepTests, type SegmentOptions, type StepSearch } from './segment.js';

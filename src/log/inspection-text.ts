@@ -6,6 +6,7 @@
 import { radiansToDegrees } from '../core/units.js';
 import { textTable as table } from '../core/text-table.js';
 import type { LogInspection } from './inspect.js';
+import { quoted } from '../core/quote.js';
 
 const dash = '—';
 const fixed = (value: number | null, digits: number): string => (value === null || !Number.isFinite(value) ? dash : value.toFixed(digits));
@@ -27,7 +28,7 @@ export function formatInspection(inspection: LogInspection): string {
   const channelRows = [['channel', 'from column', 'recorded in', 'min', 'max', 'unit']];
   for (const channel of inspection.channels) {
     const digits = channel.channel === 'time_s' ? 3 : 4;
-    channelRows.push([channel.channel, `${channel.columnNumber} "${channel.header}"`, channel.recordedUnit, fixed(channel.min, digits), fixed(channel.max, digits), channel.unit]);
+    channelRows.push([channel.channel, `${channel.columnNumber} ${quoted(channel.header)}`, channel.recordedUnit, fixed(channel.min, digits), fixed(channel.max, digits), channel.unit]);
   }
   lines.push(...table(channelRows, [false, false, false, true, true, false]).map((line) => `    ${line}`));
 

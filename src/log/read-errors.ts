@@ -6,9 +6,10 @@ import { SpeedbandError } from '../core/errors.js';
 import { CHANNEL_DEFINITIONS } from './columns.js';
 import type { ResolvedColumn } from './column-map.js';
 import { cellProblem } from './csv-text.js';
+import { QUOTED_TEXT_MAX, cutText, escapeControlCharacters, quoted } from '../core/quote.js';
 
 function columnLabel(index: number, name: string): string {
-  return `${index + 1} (${name})`;
+  return `${index + 1} (${cutText(escapeControlCharacters(name), QUOTED_TEXT_MAX)})`;
 }
 
 export function rowLengthError(found: number, header: readonly string[], line: number, file: string): SpeedbandError {
@@ -17,7 +18,7 @@ export function rowLengthError(found: number, header: readonly string[], line: n
   return new SpeedbandError(
     short ? 'log.missingCell' : 'log.extraCell',
     short
-      ? `the row has ${found} cells but the header has ${header.length}; "${header[index]}" is missing — complete or remove the row`
+      ? `the row has ${found} cells but the header has ${header.length}; ${quoted(header[index])} is missing — complete or remove the row`
       : `the row has ${found} cells but the header has ${header.length} — remove the extra cells or add a header name for them`,
     { location: { file, line, column: short ? columnLabel(index, header[index]) : index + 1 }, details: { found, expected: header.length } },
   );
@@ -28,12 +29,12 @@ export function cellError(cell: string, column: ResolvedColumn, line: number, fi
   const location = { file, line, column: columnLabel(column.index, column.header) };
   const messages: Record<typeof problem, [string, string]> = {
     empty: ['log.emptyCell', `the ${column.channel} cell is empty — every row needs a number in every used column; fill it or remove the row`],
-    nonFinite: ['log.nonFinite', `${column.channel} is "${cell.trim()}", not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`],
-    decimalComma: ['log.nonNumeric', `${column.channel} is "${cell.trim()}": a decimal comma — write numbers with a decimal point (e.g. 12.5)`],
-    nonNumeric: ['log.nonNumeric', `${column.channel} is "${cell.trim()}", expected a decimal number (e.g. 0.0125 or 1.2e-3) — fix or remove the row`],
+    nonFinite: ['log.nonFinite', `${column.channel} is ${quoted(cell.trim())}, not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`],
+    decimalComma: ['log.nonNumeric', `${column.channel} is ${quoted(cell.trim())}: a decimal comma — write numbers with a decimal point (e.g. 12.5)`],
+    nonNumeric: ['log.nonNumeric', `${column.channel} is ${quoted(cell.trim())}, expected a decimal number (e.g. 0.0125 or 1.2e-3) — fix or remove the row`],
   };
   const [code, message] = messages[problem];
-  return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell } });
+  return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell: cutText(cell, QUOTED_TEXT_MAX) } });
 }
 
 export function implausibleError(value: number, raw: number, column: ResolvedColumn, line: number, file: string): SpeedbandError {

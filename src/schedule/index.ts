@@ -10,26 +10,27 @@ export {
   PLAN_DEFAULTS,
   resolvePlan,
   readPlan,
+  readPlanFile,
   planFromJson,
   planBreakpoints,
   planThresholds,
-  valueAtSpeed,
-  ruleParametersAt,
   type Plan,
   type PartialPlan,
   type LoopKind,
   type ReferencePoint,
   type SpeedTable,
   type SpeedVarying,
+  type SpeedExpression,
   type PlanRuleParameters,
   type BreakpointPlan,
   type ResolveContext,
 } from './plan.js';
 export { PLAN_SCHEMA } from './plan-schema.js';
+export { makeRuleParameterLookup, valueAtSpeed, SPEED_VARYING_PARAMETERS, type RuleParameterLookup, type SpeedVaryingParameter } from './rule-parameters.js';
 export { SCHEDULE_SCHEMA } from './schedule-schema.js';
 export { canonicalJson } from './canonical-json.js';
 export { computeScheduleChecksum, verifyScheduleChecksum, checksumContent, CANONICAL_FORM_TEXT, type ChecksumVerdict } from './checksum.js';
-export { assembleSchedule, parseSchedule, readSchedule, writeSchedule, type ScheduleInput } from './schedule-file.js';
+export { assembleSchedule, parseSchedule, parseScheduleUnverified, readSchedule, writeSchedule, type ScheduleInput } from './schedule-file.js';
 export { serialiseSchedule } from './schedule-json.js';
 export { gainUnits } from './schedule-text.js';
 export { scheduleTable, scheduleLookup, scheduleLookupSettings } from './schedule-lookup.js';

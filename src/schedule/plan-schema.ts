@@ -5,11 +5,15 @@
 const positive = { type: 'number', exclusiveMinimum: 0 } as const;
 const nonNegative = { type: 'number', minimum: 0 } as const;
 
-/** A number, or a table of values per speed (linear between, held beyond the ends). */
+/**
+ * A number, a table of values per speed (linear between, held beyond the ends), or an expression in
+ * speed_mps ("max(15, 1.2 * speed_mps)"; src/core/speed-expression.ts checks and compiles it).
+ */
 const speedVarying = (value: object) =>
   ({
     oneOf: [
       value,
+      { type: 'string', minLength: 1, description: 'an expression in speed_mps (m/s), e.g. "max(15, 1.2 * speed_mps)"' },
       {
         type: 'object',
         additionalProperties: false,

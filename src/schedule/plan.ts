@@ -7,7 +7,7 @@ import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
 import { validatePlanFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
-import type { ControllerType, RuleName, RuleParameters } from '../tuning/types.js';
+import type { ControllerType, RuleName } from '../tuning/types.js';
 import { PLAN_SCHEMA } from './plan-schema.js';
 import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
 
@@ -19,10 +19,12 @@ export interface SpeedTable {
   readonly speeds_mps: readonly number[];
   readonly values: readonly number[];
 }
-/** A rule parameter that is one number at every speed, or a SpeedTable. */
-export type SpeedVarying = number | SpeedTable;
+/** An expression in speed_mps (m/s), e.g. "max(15, 1.2 * speed_mps)" (src/core/speed-expression.ts). */
+export type SpeedExpression = string;
+/** A rule parameter that is one number at every speed, a SpeedTable, or a SpeedExpression. */
+export type SpeedVarying = number | SpeedTable | SpeedExpression;
 
-/** Rule parameters as written in a plan (names as in src/tuning/types.ts RuleParameters; numbers may vary with speed). */
+/** Rule parameters as written in a plan (names as in src/tuning/types.ts RuleParameters; numbers may vary with speed: rule-parameters.ts). */
 export interface PlanRuleParameters {
   readonly controllerType?: ControllerType;
   readonly closedLoopTimeConstant_s?: SpeedVarying;
@@ -121,7 +123,7 @@ function planError(message: string, jsonPath: string, file?: string): SpeedbandE
 }
 
 function checkSpeedTable(value: SpeedVarying | undefined, jsonPath: string, file?: string): void {
-  if (value === undefined || typeof value === 'number') return;
+  if (value === undefined || typeof value !== 'object') return;
   if (value.speeds_mps.length !== value.values.length) {
     throw planError(`${value.speeds_mps.length} speeds but ${value.values.length} values — give one value per speed`, jsonPath, file);
   }
@@ -212,9 +214,7 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   const sampleTime = partial.controller?.sampleTime_s ?? context.vehicleSampleTime_s ?? PLAN_DEFAULTS.controller.sampleTime_s;
   const latency = partial.controller?.computationLatency_s ?? sampleTime;
   const parameters = partial.rule?.parameters ?? PLAN_DEFAULTS.rule.parameters;
-  for (const [name, value] of Object.entries(parameters)) {
-    if (typeof value === 'object') checkSpeedTable(value as SpeedTable, `/rule/parameters/${name}`, file);
-  }
+  for (const [name, value] of Object.entries(parameters)) checkSpeedTable(value as SpeedVarying, `/rule/parameters/${name}`, file);
   const controller = { ...PLAN_DEFAULTS.controller, ...partial.controller, sampleTime_s: sampleTime, computationLatency_s: latency };
   checkControllerPlausible(controller, partial.controller ?? {}, file);
   return {
@@ -229,10 +229,14 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   };
 }
 
+/** Read and schema-validate a plan file, not yet resolved (errors name the file and JSON path). */
+export function readPlanFile(path: string): PartialPlan {
+  return validatePlan(parseJsonText(readTextFile(path), path), path);
+}
+
 /** Read, schema-validate and resolve a plan file; errors name the file and JSON path. */
 export function readPlan(path: string, context: Omit<ResolveContext, 'file'> = {}): Plan {
-  const value = validatePlan(parseJsonText(readTextFile(path), path), path);
-  return resolvePlan(value, { ...context, file: path });
+  return resolvePlan(readPlanFile(path), { ...context, file: path });
 }
 
 /** Validate a parsed plan object (e.g. from a test or another file) against the schema, then resolve it. */
@@ -273,26 +277,4 @@ export function planThresholds(plan: Plan): AcceptanceThresholds {
     maximumSensitivityPeak: acceptance.maximumSensitivityPeak,
     minimumDelayMargin_s: controller.computationLatency_s + controller.sampleTime_s / 2 + acceptance.delayMarginRoom_s,
   };
-}
-
-/** A speed-varying value at a speed (m/s): linear between table speeds, end values held beyond them. */
-export function valueAtSpeed(value: SpeedVarying, speed_mps: number): number {
-  if (typeof value === 'number') return value;
-  const { speeds_mps: speeds, values } = value;
-  if (speed_mps <= speeds[0]) return values[0];
-  const last = speeds.length - 1;
-  if (speed_mps >= speeds[last]) return values[last];
-  let k = 0;
-  while (speeds[k + 1] < speed_mps) k += 1;
-  const t = (speed_mps - speeds[k]) / (speeds[k + 1] - speeds[k]);
-  return values[k] + t * (values[k + 1] - values[k]);
-}
-
-/** The rule's parameters at one speed (every speed table evaluated), for src/tuning (RuleParameters). */
-export function ruleParametersAt(plan: Plan, speed_mps: number): RuleParameters {
-  const resolved: Record<string, number | string> = {};
-  for (const [name, value] of Object.entries(plan.rule.parameters) as [string, SpeedVarying | string][]) {
-    resolved[name] = typeof value === 'string' ? value : valueAtSpeed(value, speed_mps);
-  }
-  return resolved as RuleParameters;
 }

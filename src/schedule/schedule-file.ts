@@ -22,6 +22,7 @@ import {
   SCHEDULE_FORMAT_VERSION,
   type BreakpointMargins,
   type ScheduleFile,
+  type ScheduleRuleParametersAt,
 } from './schedule-types.js';
 import type { DenseCheckResult, GainTable, WorstMargins, WorstValue } from './types.js';
 
@@ -45,11 +46,14 @@ export interface ScheduleInput {
   readonly modelSummary: Readonly<Record<string, unknown>>;
   readonly modelDescription: string;
   readonly ruleCitation?: string;
+  /** The plan's rule parameters resolved at each final breakpoint (speed tables and expressions evaluated). */
+  readonly ruleParametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
 }
 
 const finiteOrNull = (value: number | null): number | null => (value !== null && Number.isFinite(value) ? value : null);
 
-function breakpointMargins(margins: LoopMargins): BreakpointMargins {
+/** The margins a schedule records at a breakpoint (non-finite figures as null). */
+export function breakpointMargins(margins: LoopMargins): BreakpointMargins {
   return {
     stable: margins.stable,
     verdict: margins.verdict,
@@ -63,6 +67,17 @@ function breakpointMargins(margins: LoopMargins): BreakpointMargins {
 }
 
 const finiteWorst = (worst: WorstValue | null): WorstValue | null => (worst !== null && Number.isFinite(worst.value) ? worst : null);
+
+/** The worst margins as a schedule records them (non-finite figures as null). */
+export function recordedWorst(worst: WorstMargins): WorstMargins {
+  return {
+    lowerGainMargin_dB: finiteWorst(worst.lowerGainMargin_dB),
+    upperGainMargin_dB: finiteWorst(worst.upperGainMargin_dB),
+    phaseMargin_deg: finiteWorst(worst.phaseMargin_deg),
+    delayMargin_s: finiteWorst(worst.delayMargin_s),
+    sensitivityPeak: finiteWorst(worst.sensitivityPeak),
+  };
+}
 
 /**
  * Assemble a schedule file with its checksum. Status is 'passed' when the dense check passed,
@@ -82,13 +97,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
     return { speed_mps, kp: gains.kp, ki: gains.ki, kd: gains.kd, insertedByRefinement: inserted[k] ?? false, margins: breakpointMargins(point.margins) };
   });
   const path = plan.loop.kind === 'path';
-  const worst: WorstMargins = {
-    lowerGainMargin_dB: finiteWorst(check.worst.lowerGainMargin_dB),
-    upperGainMargin_dB: finiteWorst(check.worst.upperGainMargin_dB),
-    phaseMargin_deg: finiteWorst(check.worst.phaseMargin_deg),
-    delayMargin_s: finiteWorst(check.worst.delayMargin_s),
-    sensitivityPeak: finiteWorst(check.worst.sensitivityPeak),
-  };
+  const worst = recordedWorst(check.worst);
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
     format: SCHEDULE_FORMAT,
     formatVersion: SCHEDULE_FORMAT_VERSION,
@@ -142,6 +151,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
         name: plan.rule.name,
         parameters: plan.rule.parameters as Readonly<Record<string, unknown>>,
         ...(input.ruleCitation === undefined ? {} : { citation: input.ruleCitation }),
+        ...(input.ruleParametersAtBreakpoints === undefined ? {} : { parametersAtBreakpoints: input.ruleParametersAtBreakpoints }),
       },
       plan: plan as unknown as Readonly<Record<string, unknown>>,
     },
@@ -152,12 +162,26 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
 
 const validateScheduleShape = makeValidator<ScheduleFile>(SCHEDULE_SCHEMA, 'schedule.invalid', 'schedule file', validateScheduleFile);
 
+/** Refuse a schedule file of an earlier format version by name, before its schema is checked. */
+function refuseOldVersion(value: unknown, file: string): void {
+  if (typeof value !== 'object' || value === null) return;
+  const { format, formatVersion } = value as { format?: unknown; formatVersion?: unknown };
+  if (format === SCHEDULE_FORMAT && typeof formatVersion === 'number' && formatVersion < SCHEDULE_FORMAT_VERSION) {
+    throw new SpeedbandError(
+      'schedule.unsupportedVersion',
+      `schedule format version ${formatVersion} was written by an earlier speedband whose checksum covered only the table, not the margins, ` +
+        `status, limits and texts (this speedband reads version ${SCHEDULE_FORMAT_VERSION}) — rebuild the schedule with speedband build`,
+      { location: { file, jsonPath: '/formatVersion' } },
+    );
+  }
+}
+
 /**
- * Check a parsed schedule: schema (JSON path of the first problem), strictly increasing breakpoint
- * speeds and finite gains, status agreeing with the check, and the checksum (`schedule.checksumMismatch`
- * naming what changed). Returns it typed.
+ * Check a parsed schedule without its checksum: schema (JSON path of the first problem), strictly
+ * increasing breakpoint speeds and finite gains. For `speedband reverify`, which takes edited files.
  */
-export function parseSchedule(value: unknown, file: string): ScheduleFile {
+export function parseScheduleUnverified(value: unknown, file: string): ScheduleFile {
+  refuseOldVersion(value, file);
   const schedule = validateScheduleShape(value, file);
   try {
     validateGainTable({ speeds_mps: schedule.breakpoints.map((row) => row.speed_mps), gains: schedule.breakpoints });
@@ -167,20 +191,30 @@ export function parseSchedule(value: unknown, file: string): ScheduleFile {
     }
     throw error;
   }
-  if ((schedule.status === 'passed') !== schedule.check.passed) {
-    throw new SpeedbandError(
-      'schedule.invalid',
-      `status is "${schedule.status}" but check.passed is ${schedule.check.passed} — the file was edited; rebuild the schedule`,
-      { location: { file, jsonPath: '/status' } },
-    );
-  }
+  return schedule;
+}
+
+/**
+ * Check a parsed schedule: as parseScheduleUnverified, then status agreeing with the check, and the
+ * checksum over every field (`schedule.checksumMismatch` naming the sections that changed). Returns it typed.
+ */
+export function parseSchedule(value: unknown, file: string): ScheduleFile {
+  const schedule = parseScheduleUnverified(value, file);
   const verdict = verifyScheduleChecksum(schedule);
   if (!verdict.valid) {
     throw new SpeedbandError(
       'schedule.checksumMismatch',
-      `the checksum does not match the table: changed since it was written — ${verdict.changes.join('; ')}. ` +
-        'Do not load this table into firmware; rebuild the schedule or restore the original file',
+      `the checksum does not match the file: changed since it was written — ${verdict.changes.join('; ')}. ` +
+        'Do not load this table into firmware; rebuild the schedule, restore the original file, or (for a deliberate hand edit) ' +
+        're-verify it with speedband reverify',
       { location: { file, jsonPath: '/checksum/value' }, details: { changes: verdict.changes } },
+    );
+  }
+  if ((schedule.status === 'passed') !== schedule.check.passed) {
+    throw new SpeedbandError(
+      'schedule.invalid',
+      `status is "${schedule.status}" but check.passed is ${schedule.check.passed} — the file is inconsistent; rebuild the schedule`,
+      { location: { file, jsonPath: '/status' } },
     );
   }
   return schedule;

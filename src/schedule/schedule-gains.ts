@@ -10,7 +10,7 @@ import type { AnalyseLoop, ProgressCallback } from './types.js';
 
 export interface ScheduleGainsInput {
   readonly plan: Plan;
-  /** Gains of the plan's rule at a speed, m/s (e.g. tuneOperatingPoint with ruleParametersAt(plan, speed)). */
+  /** Gains of the plan's rule at a speed, m/s (e.g. tuneOperatingPoint with the parameters of makeRuleParameterLookup at that speed). */
   readonly tuneAt: (speed_mps: number) => PidGains;
   readonly analyse: AnalyseLoop;
   readonly onProgress?: ProgressCallback;

@@ -24,7 +24,7 @@ const object = (properties: Record<string, object>, optional: readonly string[] 
 
 export const SCHEDULE_SCHEMA = object({
   format: { const: 'speedband-schedule' },
-  formatVersion: { const: 1 },
+  formatVersion: { const: 2 },
   status: { enum: ['passed', 'failed'] },
   vehicle: object({ name: text, file: text, sha256 }),
   loop: object(
@@ -100,15 +100,31 @@ export const SCHEDULE_SCHEMA = object({
       toolVersion: text,
       inputs: { type: 'array', items: object({ file: text, sha256, role: text }) },
       model: freeObject,
-      rule: object({ name: text, parameters: freeObject, citation: text }, ['citation']),
+      rule: object(
+        {
+          name: text,
+          parameters: freeObject,
+          citation: text,
+          parametersAtBreakpoints: {
+            type: 'array',
+            items: object({ speed_mps: number, parameters: { type: 'object', additionalProperties: { type: ['number', 'string'] } } }),
+          },
+        },
+        ['citation', 'parametersAtBreakpoints'],
+      ),
       plan: freeObject,
+      handEdits: {
+        type: 'array',
+        items: object({ statement: text, changedSections: { type: 'array', items: text }, toolVersion: text, model: text, gridSize: { type: 'integer', minimum: 1 } }),
+      },
     },
+    ['handEdits'],
   ),
   cautions: { type: 'array', minItems: 1, items: text },
   checksum: object({
     algorithm: { const: 'SHA-256' },
     canonicalForm: text,
     value: sha256,
-    sections: object({ loop: sha256, controller: sha256, interpolation: sha256, breakpoints: { type: 'array', items: sha256 } }),
+    sections: { type: 'object', propertyNames: { pattern: '^/' }, additionalProperties: sha256 },
   }),
 });

@@ -8,7 +8,8 @@ import type { InterpolationMethod, AcceptanceThresholds, WorstMargins } from './
 import type { LoopKind, ReferencePoint } from './plan.js';
 
 export const SCHEDULE_FORMAT = 'speedband-schedule';
-export const SCHEDULE_FORMAT_VERSION = 1;
+/** 2: the checksum covers every field (version 1 covered the table and controller settings only). */
+export const SCHEDULE_FORMAT_VERSION = 2;
 
 /** Margins proven at one breakpoint (from LoopMargins; null where there is no such crossing). */
 export interface BreakpointMargins {
@@ -91,6 +92,12 @@ export interface ScheduleCheck {
   readonly insertions: readonly { readonly speed_mps: number; readonly reason: string }[];
 }
 
+/** The rule's parameters at one breakpoint: numbers (the controller type stays text). */
+export interface ScheduleRuleParametersAt {
+  readonly speed_mps: number;
+  readonly parameters: Readonly<Record<string, number | string>>;
+}
+
 export interface ScheduleProvenance {
   readonly tool: 'speedband';
   readonly toolVersion: string;
@@ -98,24 +105,42 @@ export interface ScheduleProvenance {
   readonly inputs: readonly { readonly file: string; readonly sha256: string; readonly role: string }[];
   /** Summary of the model used (JSON-able). */
   readonly model: Readonly<Record<string, unknown>>;
-  readonly rule: { readonly name: string; readonly parameters: Readonly<Record<string, unknown>>; readonly citation?: string };
+  readonly rule: {
+    readonly name: string;
+    /** As written in the plan (numbers, speed tables, expressions in speed_mps). */
+    readonly parameters: Readonly<Record<string, unknown>>;
+    readonly citation?: string;
+    /** The parameters as resolved at each breakpoint, when the plan gives any. */
+    readonly parametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
+  };
   /** The resolved plan. */
   readonly plan: Readonly<Record<string, unknown>>;
+  /** Present when the schedule was edited by hand and re-verified (`speedband reverify`), one record per time. */
+  readonly handEdits?: readonly HandEditRecord[];
+}
+
+/** A hand edit that `speedband reverify` re-verified densely before writing a fresh checksum. */
+export interface HandEditRecord {
+  /** In words: edited by hand, then re-verified. */
+  readonly statement: string;
+  /** The sections that differed from the checksum the file carried (JSON pointers; empty when it could not tell). */
+  readonly changedSections: readonly string[];
+  /** speedband version that re-verified. */
+  readonly toolVersion: string;
+  /** The model the dense check ran on, in words. */
+  readonly model: string;
+  /** Speeds checked. */
+  readonly gridSize: number;
 }
 
 export interface ScheduleChecksum {
   readonly algorithm: 'SHA-256';
   /** How the checksummed bytes are formed, in words. */
   readonly canonicalForm: string;
-  /** SHA-256 (lowercase hex) of the canonical table content. */
+  /** SHA-256 (lowercase hex) of the canonical JSON of every field but the checksum. */
   readonly value: string;
-  /** Digests of each part, to name what changed when the value does not match. */
-  readonly sections: {
-    readonly loop: string;
-    readonly controller: string;
-    readonly interpolation: string;
-    readonly breakpoints: readonly string[];
-  };
+  /** Digests by JSON pointer (a top-level field, or a child of one), to name what changed when the value does not match. */
+  readonly sections: Readonly<Record<string, string>>;
 }
 
 export interface ScheduleFile {

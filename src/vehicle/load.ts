@@ -14,6 +14,7 @@ import { makeValidator, parseJsonText } from '../core/schema.js';
 import { closestName } from '../log/closest-name.js';
 import { VEHICLE_RANGES, VEHICLE_SCHEMA } from './schema.js';
 import type { Vehicle } from './types.js';
+import { QUOTED_TEXT_MAX, cutText, quoted } from '../core/quote.js';
 
 /** The file name looked for when a folder is given. */
 export const VEHICLE_FILE_NAME = 'vehicle.json';
@@ -31,7 +32,7 @@ function checkRequiredFields(value: Record<string, unknown>, file: string): void
     const hint =
       lookalike === undefined
         ? `add "${field}" (${VEHICLE_SCHEMA.properties[field].description})`
-        : `found "${lookalike}" instead — rename it to "${field}" and give the value in the unit the name states`;
+        : `found ${quoted(lookalike)} instead — rename it to "${field}" and give the value in the unit the name states`;
     throw new SpeedbandError('vehicle.missingField', `missing required field "${field}": ${hint}`, {
       location: { file, jsonPath: `/${field}` },
       details: { field, lookalike: lookalike ?? null },
@@ -45,9 +46,9 @@ function checkUnknownFields(value: Record<string, unknown>, file: string): void 
     if (known.includes(key)) continue;
     const suggestion = closestName(key, known);
     const hint = suggestion === null ? `known fields: ${known.filter((name) => name !== '$schema').join(', ')}` : `did you mean "${suggestion}"?`;
-    throw new SpeedbandError('vehicle.unknownField', `unknown field "${key}" — ${hint} (remove it or fix its spelling)`, {
-      location: { file, jsonPath: `/${key}` },
-      details: { field: key, suggestion },
+    throw new SpeedbandError('vehicle.unknownField', `unknown field ${quoted(key)} — ${hint} (remove it or fix its spelling)`, {
+      location: { file, jsonPath: `/${cutText(key, QUOTED_TEXT_MAX)}` },
+      details: { field: cutText(key, QUOTED_TEXT_MAX), suggestion },
     });
   }
 }

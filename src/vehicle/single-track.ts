@@ -15,6 +15,7 @@
 import { SpeedbandError } from '../core/errors.js';
 import type { TransferFunction } from '../lti/types.js';
 import type { SingleTrackParameters, Vehicle } from './types.js';
+import { quoted } from '../core/quote.js';
 
 /** Continuous-time state space ẋ = A x + B δ, y = C x + D δ, states [vy, r], outputs [vy, r, ay]. */
 export interface SingleTrackStateSpace {
@@ -67,6 +68,15 @@ export function singleTrackStateSpace(params: SingleTrackParameters, speed_mps: 
   const a22 = -(a * a * cf + b * b * cr) / (iz * vx);
   const bv = cf / m;
   const br = (a * cf) / iz;
+  const denominatorTerms = [a11 + a22, a11 * a22 - a12 * a21, a21 * bv - a11 * br, a12 * br - a22 * bv];
+  if (![a11, a12, a21, a22, bv, br, ...denominatorTerms].every(Number.isFinite)) {
+    throw new SpeedbandError(
+      'vehicle.nonFiniteModel',
+      `mass ${m} kg, yaw inertia ${iz} kg·m², axle distances ${a} and ${b} m and cornering stiffnesses ${cf} and ${cr} N/rad give a single-track model ` +
+        `with non-finite coefficients at ${vx} m/s — check the magnitudes and units of these numbers`,
+      { details: { speed_mps: vx } },
+    );
+  }
   return {
     A: [
       [a11, a12],
@@ -168,7 +178,7 @@ export function singleTrackParametersFromVehicle(vehicle: Vehicle): SingleTrackP
       .join(' and ');
     throw new SpeedbandError(
       'vehicle.noCorneringStiffness',
-      `vehicle "${vehicle.name}" has no ${missing} — the single-track model needs nominal whole-axle cornering stiffnesses (N/rad); add them to the vehicle file, or identify them from step-test logs first`,
+      `vehicle ${quoted(vehicle.name)} has no ${missing} — the single-track model needs nominal whole-axle cornering stiffnesses (N/rad); add them to the vehicle file, or identify them from step-test logs first`,
       { location: { jsonPath: cf === undefined ? '/frontCorneringStiffness_NPerRad' : '/rearCorneringStiffness_NPerRad' }, details: { missing } },
     );
   }

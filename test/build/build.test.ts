@@ -1,4 +1,4 @@
-import { mkdtempSync, readFileSync, writeFileSync, existsSync, readdirSync } from 'node:fs';
+import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync, existsSync, readdirSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -7,6 +7,7 @@ import { recordingIo } from '../../src/cli/io.js';
 import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
 import { writeModels } from '../../src/identify/models-file.js';
 import type { ModelsFile } from '../../src/identify/models-schema.js';
+import { computeScheduleChecksum } from '../../src/schedule/checksum.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { runPython } from '../helpers/python.js';
@@ -281,5 +282,112 @@ describe('speedband demo', () => {
     const again = recordingIo();
     expect(await runCli(['demo', '--out', out], again)).toBe(0);
     expect(again.out()).toMatch(/schedule\.json .*\(unchanged\)/);
+  });
+});
+
+describe('a schedule edited and re-checksummed with speedband\'s own function', () => {
+  it('gains ×3: check says FAILED (exit 1) and export writes nothing (exit 1), though the file says passed and its checksum matches', async () => {
+    const schedule = JSON.parse(readFileSync(schedulePath, 'utf8')) as ScheduleFile & { breakpoints: { kp: number; ki: number; kd: number }[] };
+    for (const row of schedule.breakpoints) {
+      row.kp *= 3;
+      row.ki *= 3;
+      row.kd *= 3;
+    }
+    const path = join(dir, 'gains-x3.json');
+    writeFileSync(path, JSON.stringify({ ...schedule, checksum: computeScheduleChecksum(schedule) }, null, 2));
+    expect(readSchedule(path).status).toBe('passed');
+    const check = recordingIo();
+    expect(await runCli(['check', path, '--vehicle', VAN], check)).toBe(1);
+    expect(check.out()).toMatch(/FAILED at \d+ speeds/);
+    const out = join(dir, 'gains-x3.h');
+    const exported = recordingIo();
+    expect(await runCli(['export', path, '--format', 'c', '--out', out], exported)).toBe(1);
+    expect(exported.err()).toMatch(/does not hold what it states/);
+    expect(existsSync(out)).toBe(false);
+  });
+});
+
+describe('speedband reverify (a deliberate hand edit)', () => {
+  it('re-checks an edited schedule densely and, as it passes, writes it with a fresh checksum, the margins of the check and a record of the edit', async () => {
+    const edited = JSON.parse(readFileSync(schedulePath, 'utf8')) as ScheduleFile & { breakpoints: { kp: number; margins: { phaseMargin_deg: number } }[] };
+    edited.breakpoints[2].kp *= 0.95;
+    edited.breakpoints[2].margins.phaseMargin_deg = 89; // a claim the re-verification must not keep
+    const editedPath = join(dir, 'hand-tuned.json');
+    writeFileSync(editedPath, JSON.stringify(edited, null, 2));
+    expect(await runCli(['check', editedPath, '--vehicle', VAN], recordingIo())).toBe(2);
+    const out = join(dir, 'hand-tuned-reverified.json');
+    const io = recordingIo();
+    expect(await runCli(['reverify', editedPath, '--vehicle', VAN, '--out', out], io)).toBe(0);
+    expect(io.out()).toMatch(/changed by hand since it was written: breakpoint 2/);
+    const reverified = readSchedule(out);
+    expect(reverified.status).toBe('passed');
+    expect(reverified.breakpoints[2].kp).toBe(edited.breakpoints[2].kp);
+    expect(reverified.breakpoints[2].margins.phaseMargin_deg).not.toBe(89);
+    expect(reverified.provenance.handEdits).toEqual([expect.objectContaining({ statement: expect.stringMatching(/edited by hand.*re-verified/i), changedSections: ['/breakpoints/2'] })]);
+    expect(await runCli(['check', out, '--vehicle', VAN], recordingIo())).toBe(0);
+    expect(await runCli(['export', out, '--format', 'c', '--out', join(dir, 'hand-tuned.h')], recordingIo())).toBe(0);
+    const again = recordingIo();
+    expect(await runCli(['reverify', out, '--vehicle', VAN, '--out', out], again)).toBe(2);
+    expect(again.err()).toMatch(/never replaces an input/);
+  });
+
+  it('refuses to give a failing edit a fresh checksum: gains ×3 fail the check, nothing is written (exit 1)', async () => {
+    const edited = JSON.parse(readFileSync(schedulePath, 'utf8')) as ScheduleFile & { breakpoints: { kp: number }[] };
+    for (const row of edited.breakpoints) row.kp *= 3;
+    const editedPath = join(dir, 'hand-x3.json');
+    writeFileSync(editedPath, JSON.stringify(edited, null, 2));
+    const out = join(dir, 'hand-x3-reverified.json');
+    const io = recordingIo();
+    expect(await runCli(['reverify', editedPath, '--vehicle', VAN, '--out', out], io)).toBe(1);
+    expect(io.out()).toMatch(/Nothing written/);
+    expect(existsSync(out)).toBe(false);
+  });
+});
+
+describe('inputs are never outputs, and output paths are checked before any work', () => {
+  it('--out equal to a log, the vehicle file, the models file or --models-out is refused with exit 2, even with --force; nothing is replaced', async () => {
+    const copy = join(dir, 'inputs');
+    mkdirSync(copy, { recursive: true });
+    const log = join(copy, 'a-log.csv');
+    copyFileSync(vanLogs()[0], log);
+    const vehicle = join(copy, 'vehicle.json');
+    copyFileSync(join(VAN, 'vehicle.json'), vehicle);
+    const before = [readFileSync(log), readFileSync(vehicle), readFileSync(modelsPath)];
+    const cases: [string[], RegExp][] = [
+      [['--logs', log, ...vanLogs().slice(1), '--out', log], /the log/],
+      [['--logs', ...vanLogs(), '--out', join(copy, '..', 'inputs', 'vehicle.json')], /the vehicle file/],
+      [['--models', modelsPath, '--out', modelsPath], /the models file/],
+      [['--models', modelsPath, '--out', join(dir, 'same.json'), '--models-out', join(dir, 'same.json')], /name the same file/],
+    ];
+    for (const [args, message] of cases) {
+      const io = recordingIo();
+      const started = Date.now();
+      expect(await runCli(['build', '--vehicle', vehicle, ...args, '--force'], io)).toBe(2);
+      expect(io.err()).toMatch(message);
+      expect(Date.now() - started).toBeLessThan(2000); // refused before identification and the dense check
+    }
+    expect([readFileSync(log), readFileSync(vehicle), readFileSync(modelsPath)]).toEqual(before);
+  });
+});
+
+describe('the same logs in any order, and a log given twice', () => {
+  const logs = () => vanLogs().slice(0, 4);
+  it('gives a byte-identical schedule for the logs in any order', async () => {
+    const forward = join(dir, 'order-forward.json');
+    const backward = join(dir, 'order-backward.json');
+    expect(await runCli(['build', '--vehicle', VAN, '--logs', ...logs(), '--out', forward], recordingIo())).toBe(0);
+    const shuffled = [logs()[2], logs()[0], logs()[3], logs()[1]];
+    expect(await runCli(['build', '--vehicle', VAN, '--logs', ...shuffled, '--out', backward], recordingIo())).toBe(0);
+    expect(readFileSync(backward)).toEqual(readFileSync(forward));
+  });
+
+  it('refuses a log given twice (same content, another name) with exit 2, naming both paths', async () => {
+    const twin = join(dir, 'twin.csv');
+    copyFileSync(logs()[1], twin);
+    const io = recordingIo();
+    expect(await runCli(['build', '--vehicle', VAN, '--logs', ...logs(), twin, '--out', join(dir, 'twice.json')], io)).toBe(2);
+    expect(io.err()).toMatch(/same content/);
+    expect(io.err()).toContain(twin);
+    expect(io.err()).toContain(logs()[1]);
   });
 });

@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -13,8 +13,11 @@ import { readSchedule } from '../../src/schedule/schedule-file.js';
 const BIN = fileURLToPath(new URL('../../bin/speedband.js', import.meta.url));
 const REBUILD = 'the bundle is older than the sources — run `npm run build`';
 
-function runBinary(args: readonly string[]): { status: number | null; stdout: string; stderr: string } {
-  const result = spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', timeout: 120_000 });
+const DIST_CLI = fileURLToPath(new URL('../../dist/cli/', import.meta.url));
+const VAN_LOG = fileURLToPath(new URL('../../vehicles/parcel-van/logs/synthetic-steps-10.00mps.csv', import.meta.url));
+
+function runBinary(args: readonly string[], cwd?: string, nodeOptions: readonly string[] = []): { status: number | null; stdout: string; stderr: string } {
+  const result = spawnSync(process.execPath, [...nodeOptions, BIN, ...args], { encoding: 'utf8', timeout: 120_000, ...(cwd === undefined ? {} : { cwd }) });
   return { status: result.status, stdout: result.stdout, stderr: result.stderr };
 }
 
@@ -39,5 +42,57 @@ describe('the speedband binary (bundled CLI)', () => {
     const binary = runBinary(['inspect', 'no-such-log.csv', '--vehicle', 'vehicles/parcel-van']);
     expect(binary.status).toBe(2);
     expect(binary.stderr).toContain('no-such-log.csv');
+  });
+
+  it('keeps mathjs out of the CLI bundle: a separate chunk, imported only dynamically, so --help never reads it', () => {
+    const cli = readFileSync(join(DIST_CLI, 'speedband.bundle.js'), 'utf8');
+    const chunk = readFileSync(join(DIST_CLI, 'mathjs.bundle.js'), 'utf8');
+    expect(cli, REBUILD).toContain('import("./mathjs.bundle.js")');
+    expect(cli).not.toMatch(/from\s*"\.\/mathjs\.bundle\.js"/);
+    // mathjs's own code (its sparse matrix class, its unit parser) is in the chunk only.
+    for (const marker of ['SparseMatrix', 'Unit.parse']) {
+      expect(chunk).toContain(marker);
+      expect(cli).not.toContain(marker);
+    }
+  });
+
+  it('run from another folder, converts a log recorded in mi/h through the mathjs chunk exactly as one in m/s', () => {
+    const folder = mkdtempSync(join(tmpdir(), 'speedband-bundle-units-'));
+    const [header, ...rows] = readFileSync(VAN_LOG, 'utf8').trim().split('\n');
+    const columns = header.split(',');
+    const speed = columns.indexOf('speed_mps');
+    const converted = rows.map((row) => row.split(',').map((cell, k) => (k === speed ? String(Number(cell) / 0.44704) : cell)).join(','));
+    writeFileSync(join(folder, 'van-mph.csv'), [columns.map((name, k) => (k === speed ? 'v_mph' : name)).join(','), ...converted].join('\n'));
+    writeFileSync(join(folder, 'van.csv'), readFileSync(VAN_LOG));
+    const vehicle = fileURLToPath(new URL('../../vehicles/parcel-van', import.meta.url));
+    const mph = runBinary(['inspect', 'van-mph.csv', '--vehicle', vehicle, '--column', 'speed_mps=v_mph:mi/h', '--json'], folder);
+    const si = runBinary(['inspect', 'van.csv', '--vehicle', vehicle, '--json'], folder);
+    expect(mph.status, mph.stderr).toBe(0);
+    expect(si.status, si.stderr).toBe(0);
+    type Channel = { channel: string; recordedUnit: string; min: number; max: number };
+    const speedOf = (text: string): Channel | undefined => (JSON.parse(text) as { channels: Channel[] }[])[0].channels.find((c) => c.channel === 'speed_mps');
+    const fromMph = speedOf(mph.stdout);
+    expect(fromMph?.recordedUnit).toBe('mi/h');
+    // 1 mi/h = 0.44704 m/s exactly (international mile 1609.344 m): the round trip returns the m/s log's values.
+    expect(fromMph?.min).toBeCloseTo(speedOf(si.stdout)?.min ?? NaN, 9);
+    expect(fromMph?.max).toBeCloseTo(speedOf(si.stdout)?.max ?? NaN, 9);
+  });
+
+  it('loads the mathjs chunk only when needed: not for --help nor a log in built-in units, once for a mi/h column', () => {
+    // A module-loading hook (node:module register) that reports every module URL naming mathjs on stderr.
+    const folder = mkdtempSync(join(tmpdir(), 'speedband-bundle-lazy-'));
+    writeFileSync(join(folder, 'hooks.mjs'), "export async function load(url, context, next) { if (url.includes('mathjs')) process.stderr.write(`LOADED ${url}\\n`); return next(url, context); }\n");
+    writeFileSync(join(folder, 'register.mjs'), `import { register } from 'node:module';\nregister(${JSON.stringify(new URL(`file://${join(folder, 'hooks.mjs')}`).href)});\n`);
+    const hook = ['--import', join(folder, 'register.mjs')];
+    const loaded = (stderr: string): string[] => stderr.split('\n').filter((line) => line.startsWith('LOADED '));
+    const help = runBinary(['--help'], folder, hook);
+    expect(help.status).toBe(0);
+    expect(loaded(help.stderr)).toEqual([]);
+    const plain = runBinary(['inspect', VAN_LOG, '--column', 'speed_mps=speed_mps:km/h'], folder, hook);
+    expect(plain.status, plain.stderr).toBe(0);
+    expect(loaded(plain.stderr)).toEqual([]);
+    const mph = runBinary(['inspect', VAN_LOG, '--column', 'speed_mps=speed_mps:mi/h'], folder, hook);
+    expect(mph.status, mph.stderr).toBe(0);
+    expect(loaded(mph.stderr)).toEqual([expect.stringMatching(/\/dist\/cli\/mathjs\.bundle\.js$/)]);
   });
 });

@@ -1,4 +1,4 @@
-import { existsSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -43,7 +43,10 @@ describe('speedband identify', () => {
     const io = recordingIo();
     const out = join(folder, 'from-folder.json');
     expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', join(folder, 'logs'), '--out', out, '--joint-fit', 'false', '--second-order', 'false'], io)).toBe(0);
-    expect(readModels(out).inputs.map((i) => i.file)).toEqual([...logs].sort());
+    const inputs = readModels(out).inputs;
+    expect(inputs.map((i) => i.file).sort()).toEqual([...logs].sort());
+    // Canonical order: by content hash, whatever the order the folder lists them in.
+    expect(inputs.map((i) => i.sha256)).toEqual(inputs.map((i) => i.sha256).sort());
   }, 60_000);
 
   it('refuses logs at a single speed with exit 2 and says that two speeds are needed', async () => {
@@ -59,9 +62,57 @@ describe('speedband identify', () => {
     expect(io.err()).toMatch(/absent\.csv/);
   });
 
+  it('reads logs recorded in other units through --column (km/h and deg/s here): the same models as from SI logs', async () => {
+    const converted = logs.map((path, k) => {
+      const [header, ...rows] = readFileSync(path, 'utf8').trim().split('\n');
+      const names = header.split(',');
+      const speed = names.indexOf('speed_mps');
+      const yaw = names.indexOf('yaw_rate_radps');
+      const scaled = rows.map((row) =>
+        row
+          .split(',')
+          .map((cell, c) => (c === speed ? String(Number(cell) * 3.6) : c === yaw ? String((Number(cell) * 180) / Math.PI) : cell))
+          .join(','),
+      );
+      const target = join(folder, `converted-${k}.csv`);
+      writeFileSync(target, [names.map((name, c) => (c === speed ? 'v_kph' : c === yaw ? 'r_dps' : name)).join(','), ...scaled].join('\n'));
+      return target;
+    });
+    const options = ['--vehicle', VEHICLE, '--joint-fit', 'false', '--second-order', 'false', '--json'];
+    const si = recordingIo();
+    expect(await runCli(['identify', ...options, '--logs', ...logs], si)).toBe(0);
+    const other = recordingIo();
+    expect(await runCli(['identify', ...options, '--logs', ...converted, '--column', 'speed_mps=v_kph:km/h', '--column', 'yaw_rate_radps=r_dps:deg/s'], other), other.err()).toBe(0);
+    const speeds = (text: string) => (JSON.parse(text) as { speeds: { speed_mps: number; fopdt: { gain: number } }[] }).speeds;
+    // 1 km/h = 1/3.6 m/s, 1° = π/180 rad (SI Brochure 9th ed., Tables 7 and 8): the round trip gives the same fits.
+    expect(speeds(other.out())).toHaveLength(2);
+    speeds(other.out()).forEach((speed, k) => {
+      expect(speed.speed_mps).toBeCloseTo(speeds(si.out())[k].speed_mps, 9);
+      expect(speed.fopdt.gain).toBeCloseTo(speeds(si.out())[k].fopdt.gain, 6);
+    });
+  }, 60_000);
+
+  it('--out that is the --log-profile or a log is refused (exit 2) before the column options are read, even with --force', async () => {
+    const profile = join(folder, 'profile.json');
+    const profileText = '{"columns": {"speed_mps": {"unit": "m/s"}}}';
+    writeFileSync(profile, profileText);
+    const onProfile = recordingIo();
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--log-profile', profile, '--out', profile, '--force'], onProfile)).toBe(2);
+    expect(onProfile.err()).toMatch(/--out .*profile\.json is the log profile .* this command reads/);
+    expect(readFileSync(profile, 'utf8')).toBe(profileText);
+    // A unit of the wrong quantity would be refused too, but the output path is checked first, before any work.
+    const logText = readFileSync(logs[0], 'utf8');
+    const onLog = recordingIo();
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--column', 'speed_mps=speed_mps:deg', '--out', logs[0], '--force'], onLog)).toBe(2);
+    expect(onLog.err()).toMatch(/is the log .* this command reads/);
+    expect(onLog.err()).not.toMatch(/needs a speed/);
+    expect(readFileSync(logs[0], 'utf8')).toBe(logText);
+  });
+
   it('--help describes options with units and defaults and gives examples', async () => {
     const io = recordingIo();
     expect(await runCli(['identify', '--help'], io)).toBe(0);
+    expect(io.out()).toMatch(/--column/);
     expect(io.out()).toMatch(/speed-tolerance-mps/);
     expect(io.out()).toMatch(/Examples/);
   });

@@ -2,12 +2,18 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
+import { findFallbackGains } from '../../src/build/export-check.js';
+import type { PidGains } from '../../src/controller/types.js';
+import { commentSafe } from '../../src/export/c-comment.js';
+import { computeScheduleChecksum } from '../../src/schedule/checksum.js';
 import { exportC } from '../../src/export/c-header.js';
 import { parseQFormat } from '../../src/export/fixed-point.js';
 import { makeGainLookup } from '../../src/schedule/interpolate.js';
-import { scheduleLookup } from '../../src/schedule/schedule-lookup.js';
+import { scheduleLookup, scheduleTable } from '../../src/schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
+import { integratorLoopMargins } from '../schedule/integrator-loop.js';
 import { sampleSchedule } from '../schedule/sample-schedule.js';
 
 /** Agreement between the C lookup (double) and the TypeScript lookup, relative. */
@@ -20,8 +26,10 @@ function speedsFor(schedule: ScheduleFile): number[] {
   return [...speeds, ...schedule.breakpoints.map((row) => row.speed_mps)];
 }
 
-/** Compile the header into a tiny program with the machine's gcc (C99, all warnings as errors) and evaluate the lookup. */
-function runC(header: string, speeds: readonly number[]): { kp: number; ki: number; kd: number }[] {
+const GCC_FLAGS = ['-std=c99', '-Wall', '-Wextra', '-Werror', '-pedantic'] as const;
+
+/** Compile the header into a tiny program with the machine's gcc (C99, all warnings as errors) and evaluate the lookup: status and gains. */
+function runCStatus(header: string, speeds: readonly string[]): { status: number; kp: number; ki: number; kd: number }[] {
   const dir = mkdtempSync(join(tmpdir(), 'speedband-c-'));
   writeFileSync(join(dir, 'schedule.h'), header);
   writeFileSync(
@@ -33,22 +41,35 @@ int main(void)
 {
   double v;
   while (scanf("%lf", &v) == 1) {
-    speedband_schedule_gains g = speedband_schedule_lookup(v);
-    printf("%.17g %.17g %.17g\\n", g.kp, g.ki, g.kd);
+    speedband_schedule_gains g;
+    int status;
+    g.kp = -1.0;
+    g.ki = -1.0;
+    g.kd = -1.0;
+    status = speedband_schedule_lookup(v, &g);
+    printf("%d %.17g %.17g %.17g\\n", status, g.kp, g.ki, g.kd);
   }
   return 0;
 }
 `,
   );
-  execFileSync('gcc', ['-std=c99', '-Wall', '-Wextra', '-Werror', '-pedantic', '-o', join(dir, 'lookup'), join(dir, 'main.c')], { cwd: dir });
-  const output = execFileSync(join(dir, 'lookup'), { input: speeds.map((v) => v.toPrecision(17)).join('\n'), encoding: 'utf8' });
+  execFileSync('gcc', [...GCC_FLAGS, '-o', join(dir, 'lookup'), join(dir, 'main.c')], { cwd: dir });
+  const output = execFileSync(join(dir, 'lookup'), { input: speeds.join('\n'), encoding: 'utf8' });
   return output
     .trim()
     .split('\n')
     .map((line) => {
-      const [kp, ki, kd] = line.split(' ').map(Number);
-      return { kp, ki, kd };
+      const [status, kp, ki, kd] = line.split(' ').map(Number);
+      return { status, kp, ki, kd };
     });
+}
+
+/** The gains the C lookup gives at finite speeds (every status must be LOOKUP_OK = 0). */
+function runC(header: string, speeds: readonly number[]): { kp: number; ki: number; kd: number }[] {
+  return runCStatus(header, speeds.map((v) => v.toPrecision(17))).map(({ status, kp, ki, kd }) => {
+    if (status !== 0) throw new Error(`status ${status} at a finite speed`);
+    return { kp, ki, kd };
+  });
 }
 
 const close = (a: number, b: number, relative: number): boolean => Math.abs(a - b) <= relative * Math.max(Math.abs(a), Math.abs(b), 1e-300);
@@ -110,5 +131,136 @@ describe('exportC(schedule)', () => {
   it('a gain too large for the word is a typed overflow error', () => {
     expect(() => exportC(sampleSchedule(), { fixedPoint: parseQFormat('1.15') })).toThrow(expect.objectContaining({ code: 'export.fixedPointOverflow' }));
     expect(() => parseQFormat('16.8')).toThrow(expect.objectContaining({ code: 'export.qFormatInvalid' }));
+  });
+});
+
+/** Text built to end a comment and inject code, each way C99 allows (ISO/IEC 9899:1999 §5.1.1.2 translation phases, §5.2.1.1 trigraphs). */
+const HOSTILE: readonly string[] = [
+  '*\\\n/ int injected_splice(void) { return 42; } /*', // backslash-newline splice: "*" then "/" after phase 2
+  '*??/\n/ int injected_trigraph(void) { return 42; } /*', // ??/ is a backslash under -std=c99 (phase 1), then a splice
+  '*/ int injected_plain(void) { return 42; } /*',
+  'x */\n#define speedband_schedule_lookup(v, g) 42\n/*',
+  'ends in a backslash \\',
+  'trigraphs ??= ??( ??) ??< ??> ??! ??- ??\' ??/',
+  '/* nested opening',
+  '\u2028*/ int injected_separator(void) { return 42; } /*',
+  'control \u0000 \u001b[31m red \r\n carriage',
+  'm·/s and ·/·/ from the ASCII table',
+  'x'.repeat(5000),
+];
+
+/** A schedule whose every free-text field carries hostile text (the checksum recomputed, as an edited file would have). */
+function hostileSchedule(): ScheduleFile {
+  const base = JSON.parse(JSON.stringify(sampleSchedule())) as Record<string, any>;
+  const pick = (k: number): string => HOSTILE[k % HOSTILE.length];
+  base.vehicle.name = pick(0);
+  base.cautions = [...HOSTILE];
+  base.units = { ...base.units, kp: pick(1), ki: pick(2), kd: pick(3) };
+  base.loop.error = pick(4);
+  base.controller.equation = pick(5);
+  base.controller.update = HOSTILE.slice(6);
+  base.controller.integration = pick(7);
+  base.interpolation.description = pick(8);
+  base.provenance.toolVersion = pick(0);
+  const schedule = base as ScheduleFile;
+  return { ...schedule, checksum: { ...computeScheduleChecksum(schedule), canonicalForm: pick(1) } };
+}
+
+/** Every name the header may define (README, "C header"), for the default prefix. */
+const DOCUMENTED_SYMBOLS = new Set([
+  'speedband_schedule_speed_mps',
+  'speedband_schedule_kp',
+  'speedband_schedule_ki',
+  'speedband_schedule_kd',
+  'speedband_schedule_kp_slope',
+  'speedband_schedule_ki_slope',
+  'speedband_schedule_kd_slope',
+  'speedband_schedule_segment',
+  'speedband_schedule_lookup',
+]);
+const DOCUMENTED_MACROS = new Set(
+  ['H', 'BREAKPOINTS', 'SAMPLE_TIME_S', 'DERIVATIVE_FILTER', 'INTEGRATOR_CLAMP_RAD', 'LOW_SPEED_FLOOR_MPS', 'CHECKSUM', 'GAIN_SCALE', 'LOOKUP_OK', 'LOOKUP_FALLBACK', 'LOOKUP_NO_GAINS', 'FALLBACK_BREAKPOINT'].map(
+    (name) => `SPEEDBAND_SCHEDULE_${name}`,
+  ),
+);
+
+describe('exportC with hostile text in every free-text field', () => {
+  it('keeps all of it inside comments: the header compiles cleanly and defines no symbol or macro beyond the documented ones', () => {
+    const dir = mkdtempSync(join(tmpdir(), 'speedband-c-hostile-'));
+    for (const fixedPoint of [undefined, parseQFormat('16.16')]) {
+      const { text } = exportC(hostileSchedule(), { ...(fixedPoint === undefined ? {} : { fixedPoint }) });
+      expect(/^[\x09\x0a\x20-\x7e]*$/.test(text)).toBe(true);
+      expect(text).not.toMatch(/\?\?|\\/);
+      writeFileSync(join(dir, 'schedule.h'), text);
+      writeFileSync(join(dir, 'main.c'), '#include "schedule.h"\nint main(void)\n{\n  speedband_schedule_gains g;\n  return speedband_schedule_lookup(5.0, &g);\n}\n');
+      writeFileSync(join(dir, 'empty.c'), '#include <stdint.h>\nint main(void)\n{\n  return 0;\n}\n');
+      // Compiles with every warning an error; -fkeep-inline-functions emits every function the header defines.
+      execFileSync('gcc', [...GCC_FLAGS, '-fkeep-inline-functions', '-c', '-o', join(dir, 'main.o'), join(dir, 'main.c')], { cwd: dir });
+      const symbols = execFileSync('nm', ['--defined-only', join(dir, 'main.o')], { encoding: 'utf8' })
+        .trim()
+        .split('\n')
+        .map((line) => line.trim().split(/\s+/))
+        .map(([, type, name]) => ({ type, name }));
+      for (const { type, name } of symbols) {
+        if (name === 'main') continue;
+        expect(DOCUMENTED_SYMBOLS.has(name), `${type} ${name}`).toBe(true);
+        expect(type, name).toMatch(/^[a-z]$/); // local (static) only: nothing visible to other translation units
+      }
+      const macros = (file: string): Set<string> =>
+        new Set(execFileSync('gcc', ['-std=c99', '-E', '-dM', join(dir, file)], { encoding: 'utf8' }).split('\n').map((line) => line.split(/[\s(]/)[1]));
+      const before = macros('empty.c');
+      const added = [...macros('main.c')].filter((name) => !before.has(name));
+      for (const name of added) expect(DOCUMENTED_MACROS.has(name), name).toBe(true);
+      // The preprocessed code declares nothing at file scope beyond the documented names (and what <stdint.h> brings).
+      const code = execFileSync('gcc', ['-std=c99', '-E', '-P', join(dir, 'schedule.h')], { encoding: 'utf8' });
+      expect(code).not.toMatch(/injected|\b42\b/);
+    }
+  });
+
+  it('commentSafe leaves no comment end, nested opening, trigraph, backslash or non-printable character (property)', () => {
+    fc.assert(
+      fc.property(fc.string({ unit: fc.constantFrom('*', '/', '?', '\\', '\n', '\r', 'a', ' ', '·', '\u2028', '\u0000', '=', '(') }), (text) => {
+        const safe = commentSafe(text);
+        expect(safe).not.toMatch(/\*\/|\/\*|\?\?|\\/);
+        expect(/^[\x20-\x7e]*$/.test(safe)).toBe(true);
+      }),
+      { numRuns: 500, seed: 12 },
+    );
+  });
+});
+
+describe('the C lookup at a NaN or infinite speed', () => {
+  it('returns LOOKUP_FALLBACK with the fallback gains, proven over the whole range, and LOOKUP_OK at finite speeds', () => {
+    const schedule = sampleSchedule();
+    const table = scheduleTable(schedule);
+    const fallback = findFallbackGains(schedule, table, integratorLoopMargins);
+    // Source: integrator loop closed form (Åström & Murray 2008): the 16 m/s gains held constant give
+    // kθ = (π/6)(v/16)² ≤ π/6 at every v ≤ 16 m/s, so PM ≥ 60° and upper GM ≥ 9.5 dB over the whole range.
+    expect(fallback?.breakpoint).toBe(5);
+    expect(fallback?.speed_mps).toBe(16);
+    const { text } = exportC(schedule, { fallback });
+    expect(text).toMatch(/#define SPEEDBAND_SCHEDULE_FALLBACK_BREAKPOINT 5/);
+    const results = runCStatus(text, ['nan', 'inf', '-inf', '5']);
+    const top = schedule.breakpoints[5];
+    for (const result of results.slice(0, 3)) expect(result).toEqual({ status: 1, kp: top.kp, ki: top.ki, kd: top.kd });
+    expect(results[3].status).toBe(0);
+  });
+
+  it('without proven fallback gains returns LOOKUP_NO_GAINS and leaves the gains unwritten; a null pointer is LOOKUP_NO_GAINS too', () => {
+    const schedule = sampleSchedule();
+    // A loop on which constant gains fail everywhere except at their own breakpoint: no fallback.
+    const strict = (speed_mps: number, gains: PidGains) => {
+      const own = scheduleLookup(schedule)(speed_mps);
+      return gains.kp === own.kp ? integratorLoopMargins(speed_mps, gains) : { ...integratorLoopMargins(speed_mps, gains), stable: false, verdict: 'unstable' as const };
+    };
+    expect(findFallbackGains(schedule, scheduleTable(schedule), strict)).toBeNull();
+    const { text } = exportC(schedule);
+    expect(text).toMatch(/#define SPEEDBAND_SCHEDULE_FALLBACK_BREAKPOINT -1/);
+    for (const result of runCStatus(text, ['nan', 'inf', '-inf'])) expect(result).toEqual({ status: 2, kp: -1, ki: -1, kd: -1 });
+    const dir = mkdtempSync(join(tmpdir(), 'speedband-c-null-'));
+    writeFileSync(join(dir, 'schedule.h'), text);
+    writeFileSync(join(dir, 'main.c'), '#include <stdio.h>\n#include "schedule.h"\nint main(void)\n{\n  printf("%d", speedband_schedule_lookup(5.0, 0));\n  return 0;\n}\n');
+    execFileSync('gcc', [...GCC_FLAGS, '-o', join(dir, 'null'), join(dir, 'main.c')], { cwd: dir });
+    expect(execFileSync(join(dir, 'null'), { encoding: 'utf8' })).toBe('2');
   });
 });

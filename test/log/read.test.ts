@@ -67,9 +67,9 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
     expect(Array.from(segment.lateralAcceleration_mps2 ?? [])).toEqual([1.0, 1.1]);
   });
 
-  it('converts units: 36 km/h → 10 m/s, 90 deg → π/2 rad, 180 deg/s → π rad/s, 250 ms → 0.25 s, 22.369 mph → 10 m/s, steering wheel 160° at ratio 16 → 10° road wheel', () => {
+  it('converts units: 36 km/h → 10 m/s, 90 deg → π/2 rad, 180 deg/s → π rad/s, 250 ms → 0.25 s, 22.369 mph → 10 m/s, steering wheel 160° at ratio 16 → 10° road wheel', async () => {
     const text = ['t,v_kph,v_mph,swa_deg,wheel_deg,r_dps', '0,36,22.369362920544,160,90,180', '250,36,22.369362920544,160,90,180'].join('\n');
-    const columns = parseColumnOptions([
+    const columns = await parseColumnOptions([
       'time_s=t:ms',
       'speed_mps=v_kph:km/h',
       'steer_cmd_rad=swa_deg:steering-wheel-deg',
@@ -86,7 +86,7 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
     expect(mph.speed_mps[0]).toBeCloseTo(10, 9); // international mile 1609.344 m (1959 international yard and pound agreement): 10 m/s = 22.369362920544 mph
   });
 
-  it('reads a log profile file (JSON) and applies it', () => {
+  it('reads a log profile file (JSON) and applies it', async () => {
     const folder = mkdtempSync(join(tmpdir(), 'speedband-log-'));
     const profilePath = join(folder, 'logger.json');
     writeFileSync(
@@ -95,7 +95,7 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
     );
     const logPath = join(folder, 'log.csv');
     writeFileSync(logPath, 't;v;SWA;yaw_rate_radps\n0;72;320;0.1\n20;72;320;0.1\n');
-    const profile = loadLogProfile(profilePath);
+    const profile = await loadLogProfile(profilePath);
     const segment = readSteerLog(logPath, { columns: profile.columns, steeringRatio: 16 }).segments[0];
     expect(segment.time_s[1]).toBeCloseTo(0.02, 12);
     expect(segment.speed_mps[0]).toBeCloseTo(20, 12); // 72 km/h = 20 m/s
@@ -173,16 +173,23 @@ describe('parseSteerLog(text, file) rejects malformed input with a typed error n
     if (message) expect(words).toMatch(message);
   });
 
-  it('a steering-wheel unit without a steering ratio → log.steeringRatioRequired, telling the user to pass the vehicle or ratio', () => {
-    const error = errorOf([HEADER, ...ROWS].join('\n'), { columns: parseColumnOptions(['steer_cmd_rad=:steering-wheel-deg']) });
+  it('a steering-wheel unit without a steering ratio → log.steeringRatioRequired, telling the user to pass the vehicle or ratio', async () => {
+    const error = errorOf([HEADER, ...ROWS].join('\n'), { columns: await parseColumnOptions(['steer_cmd_rad=:steering-wheel-deg']) });
     expect(error.code).toBe('log.steeringRatioRequired');
     expect(error.message).toMatch(/--vehicle/);
   });
 
-  it('a unit of the wrong quantity → log.unitMismatch listing the units that fit', () => {
+  it('a unit of the wrong quantity → log.unitMismatch naming both quantities and units that fit', () => {
     const error = errorOf([HEADER, ...ROWS].join('\n'), { columns: { speed_mps: { unit: 'deg' } } });
     expect(error.code).toBe('log.unitMismatch');
-    expect(error.message).toMatch(/m\/s, km\/h, mph/);
+    expect(error.message).toMatch(/"deg" is an angle; speed_mps \(vehicle speed\) needs a speed/);
+    expect(error.message).toMatch(/km\/h, mi\/h/);
+  });
+
+  it('a unit outside the built-in table that was not resolved (mathjs not loaded) → log.unitNotResolved saying what to call', () => {
+    const error = errorOf([HEADER, ...ROWS].join('\n'), { columns: { speed_mps: { unit: 'mi/h' } } });
+    expect(error.code).toBe('log.unitNotResolved');
+    expect(error.message).toMatch(/resolveColumnUnits/);
   });
 
   it('a mapped optional column that is absent → log.missingColumn', () => {
@@ -196,25 +203,31 @@ describe('parseSteerLog(text, file) rejects malformed input with a typed error n
 });
 
 describe('log profiles and --column options are validated', () => {
-  it('parseLogProfile rejects an unknown unit and an unknown channel with log.profileInvalid and a JSON path', () => {
-    for (const profile of [{ columns: { speed_mps: { unit: 'knots' } } }, { columns: { speed_kph: { from: 'v' } } }]) {
-      try {
-        parseLogProfile(JSON.stringify(profile), 'p.json');
-        expect.unreachable();
-      } catch (error) {
-        expect((error as SpeedbandError).code).toBe('log.profileInvalid');
-        expect((error as SpeedbandError).location.jsonPath).toBeDefined();
-      }
+  it('parseLogProfile rejects an unknown channel (log.profileInvalid) and an unknown unit (log.unknownUnit), each at its JSON path', async () => {
+    for (const [profile, code, jsonPath] of [
+      [{ columns: { speed_mps: { unit: 'knots' } } }, 'log.unknownUnit', '/columns/speed_mps/unit'],
+      [{ columns: { speed_mps: { unit: 'deg/s' } } }, 'log.unitMismatch', '/columns/speed_mps/unit'],
+      [{ columns: { speed_kph: { from: 'v' } } }, 'log.profileInvalid', undefined],
+    ] as const) {
+      const error = await parseLogProfile(JSON.stringify(profile), 'p.json').then(
+        () => expect.unreachable(),
+        (caught: unknown) => caught as SpeedbandError,
+      );
+      expect(error.code).toBe(code);
+      expect(error.location.file).toBe('p.json');
+      if (jsonPath === undefined) expect(error.location.jsonPath).toBeDefined();
+      else expect(error.location.jsonPath).toBe(jsonPath);
     }
   });
 
-  it('parseColumnOptions reads CHANNEL=HEADER[:UNIT] and rejects unknown channels and units', () => {
-    expect(parseColumnOptions(['speed_mps=v:km/h', 'time_s=stamp', 'yaw_rate_radps=:deg/s'])).toEqual({
-      speed_mps: { from: 'v', unit: 'km/h' },
+  it('parseColumnOptions reads CHANNEL=HEADER[:UNIT], converts the units and rejects unknown channels and units', async () => {
+    expect(await parseColumnOptions(['speed_mps=v:km/h', 'time_s=stamp', 'yaw_rate_radps=:deg/s'])).toEqual({
+      speed_mps: { from: 'v', unit: 'km/h', conversion: { unit: 'km/h', quantity: 'speed', toSi: 1 / 3.6, steeringWheel: false } }, // 1 km/h = 1000 m / 3600 s (SI Brochure 9th ed., Tables 7 and 8)
       time_s: { from: 'stamp' },
-      yaw_rate_radps: { unit: 'deg/s' },
+      yaw_rate_radps: { unit: 'deg/s', conversion: { unit: 'deg/s', quantity: 'angularRate', toSi: Math.PI / 180, steeringWheel: false } }, // 1° = π/180 rad (SI Brochure 9th ed., Table 8)
     });
-    expect(() => parseColumnOptions(['speed=v'])).toThrow(expect.objectContaining({ code: 'log.badColumnOption' }));
-    expect(() => parseColumnOptions(['speed_mps=v:knots'])).toThrow(expect.objectContaining({ code: 'log.unknownUnit' }));
+    await expect(parseColumnOptions(['speed=v'])).rejects.toMatchObject({ code: 'log.badColumnOption' });
+    await expect(parseColumnOptions(['speed_mps=v:'])).rejects.toMatchObject({ code: 'log.badColumnOption' });
+    await expect(parseColumnOptions(['speed_mps=v:knots'])).rejects.toMatchObject({ code: 'log.unknownUnit', message: expect.stringContaining('--column "speed_mps=v:knots"') });
   });
 });

@@ -4,7 +4,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { RULE_NAMES } from '../../src/tuning/registry.js';
 import { PLAN_SCHEMA } from '../../src/schedule/plan-schema.js';
-import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planThresholds, readPlan, resolvePlan, ruleParametersAt } from '../../src/schedule/plan.js';
+import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planThresholds, readPlan, resolvePlan } from '../../src/schedule/plan.js';
+import { makeRuleParameterLookup } from '../../src/schedule/rule-parameters.js';
 
 describe('resolvePlan(partial)', () => {
   it('an empty plan is the defaults, with common-practice acceptance limits', () => {
@@ -81,7 +82,7 @@ describe('plan file validation', () => {
     );
   });
 
-  it('readPlan reads a file; speed-varying rule parameters interpolate linearly and hold beyond their ends', () => {
+  it('readPlan reads a file; speed-varying rule parameters interpolate linearly and hold beyond their ends', async () => {
     const folder = mkdtempSync(join(tmpdir(), 'speedband-plan-'));
     const path = join(folder, 'plan.json');
     writeFileSync(
@@ -93,8 +94,9 @@ describe('plan file validation', () => {
     );
     const plan = readPlan(path);
     expect(plan.loop).toEqual({ kind: 'path', preview_m: 3, referencePoint: 'front-axle' });
-    expect(ruleParametersAt(plan, 6)).toEqual({ dampingRatio: 1, settlingDistance_m: 24 });
-    expect(ruleParametersAt(plan, 1).settlingDistance_m).toBe(8);
-    expect(ruleParametersAt(plan, 30).settlingDistance_m).toBe(40);
+    const ruleParametersAt = await makeRuleParameterLookup(plan.rule.parameters);
+    expect(ruleParametersAt(6)).toEqual({ dampingRatio: 1, settlingDistance_m: 24 });
+    expect(ruleParametersAt(1).settlingDistance_m).toBe(8);
+    expect(ruleParametersAt(30).settlingDistance_m).toBe(40);
   });
 });

@@ -8,6 +8,7 @@ import { checksumContent, computeScheduleChecksum, verifyScheduleChecksum } from
 import { parseSchedule, readSchedule, writeSchedule } from '../../src/schedule/schedule-file.js';
 import { serialiseSchedule } from '../../src/schedule/schedule-json.js';
 import { SAFETY_CAUTIONS } from '../../src/cli/safety.js';
+import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { runPython } from '../helpers/python.js';
 import { sampleSchedule } from './sample-schedule.js';
 
@@ -56,12 +57,7 @@ def canon(v):
     if isinstance(v, list): return '[' + ','.join(canon(x) for x in v) + ']'
     return '{' + ','.join(json.dumps(k, ensure_ascii=False) + ':' + canon(v[k]) for k in sorted(v)) + '}'
 s = json.load(sys.stdin)
-c = s['controller']; i = s['interpolation']; l = s['loop']
-content = {'format': s['format'], 'formatVersion': s['formatVersion'],
-  'loop': {k: l[k] for k in ('kind', 'preview_m', 'referencePoint') if k in l},
-  'controller': {k: c[k] for k in ('form', 'derivativeFilter', 'discretisation', 'sampleTime_s', 'integratorClamp_rad')},
-  'interpolation': {k: i[k] for k in ('method', 'outOfRange', 'lowSpeedFloor_mps')},
-  'breakpoints': [{k: b[k] for k in ('speed_mps', 'kp', 'ki', 'kd')} for b in s['breakpoints']]}
+content = {k: v for k, v in s.items() if k != 'checksum'}
 text = canon(content)
 print(json.dumps({'value': hashlib.sha256(text.encode('utf-8')).hexdigest(), 'text': text}))`,
       schedule,
@@ -76,7 +72,7 @@ print(json.dumps({'value': hashlib.sha256(text.encode('utf-8')).hexdigest(), 'te
     (schedule.breakpoints[2] as { ki: number }).ki *= 1.0001;
     const verdict = verifyScheduleChecksum(schedule);
     expect(verdict.valid).toBe(false);
-    expect(verdict.changes).toEqual([`breakpoint 2 (speed 4.5 m/s: speed or gains)`]);
+    expect(verdict.changes).toEqual(['breakpoint 2 (speed 4.5 m/s)']);
   });
 
   it('any change to any one speed or gain is detected and located (property)', () => {
@@ -93,7 +89,7 @@ print(json.dumps({'value': hashlib.sha256(text.encode('utf-8')).hexdigest(), 'te
           (edited.breakpoints[k] as unknown as Record<string, number>)[field] = value;
           const verdict = verifyScheduleChecksum(edited);
           expect(verdict.valid).toBe(false);
-          expect(verdict.changes).toEqual([`breakpoint ${k} (speed ${edited.breakpoints[k].speed_mps} m/s: speed or gains)`]);
+          expect(verdict.changes).toEqual([`breakpoint ${k} (speed ${edited.breakpoints[k].speed_mps} m/s)`]);
         },
       ),
       { numRuns: 200 },
@@ -109,7 +105,39 @@ print(json.dumps({'value': hashlib.sha256(text.encode('utf-8')).hexdigest(), 'te
   it('a changed discretisation fails verification as a controller change', () => {
     const schedule = clone(sampleSchedule());
     (schedule.controller as { discretisation: string }).discretisation = 'tustin';
-    expect(verifyScheduleChecksum(schedule).changes).toEqual(['the controller settings']);
+    expect(verifyScheduleChecksum(schedule).changes).toEqual(['/controller/discretisation']);
+  });
+
+  // Every field but the checksum carries meaning a reviewer relies on: each edit below is refused and named.
+  const edits: readonly [string, (s: Record<string, any>) => void, string][] = [
+    ['status flipped', (s) => (s.status = s.status === 'passed' ? 'failed' : 'passed'), '/status'],
+    ['a breakpoint margin', (s) => (s.breakpoints[1].margins.phaseMargin_deg += 10), 'breakpoint 1 (speed 3 m/s)'],
+    ['the check range', (s) => (s.check.range.maximum_mps = 30), '/check/range'],
+    ['a threshold', (s) => (s.check.thresholds.minimumPhaseMargin_deg = 20), '/check/thresholds'],
+    ['the worst margins', (s) => (s.check.worst.phaseMargin_deg.value = 80), '/check/worst'],
+    ['check.passed', (s) => (s.check.passed = !s.check.passed), '/check/passed'],
+    ['the computation latency', (s) => (s.controller.computationLatency_s = 0.05), '/controller/computationLatency_s'],
+    ['the controller equation text', (s) => (s.controller.equation = 'u = 0'), '/controller/equation'],
+    ['a unit', (s) => (s.units.kp = 'deg per m'), '/units/kp'],
+    ['the vehicle name', (s) => (s.vehicle.name = 'another van'), '/vehicle/name'],
+    ['a caution', (s) => (s.cautions[0] = 'Approved for public roads.'), '/cautions/0'],
+    ['the interpolation description', (s) => (s.interpolation.description = 'linear'), '/interpolation/description'],
+    ['the plan in the provenance', (s) => (s.provenance.plan.interpolation = 'linear'), '/provenance/plan'],
+    ['a field a later version might add', (s) => (s.feedForward = { gain: 1 }), '/feedForward/gain (added)'],
+    ['a field removed', (s) => delete s.cautions, '/cautions/0 (removed)'],
+  ];
+  it.each(edits)('covers the whole file: %s is detected and named', (_what, edit, named) => {
+    const schedule = clone(sampleSchedule()) as unknown as Record<string, any>;
+    edit(schedule);
+    const verdict = verifyScheduleChecksum(schedule as unknown as ScheduleFile);
+    expect(verdict.valid).toBe(false);
+    expect(verdict.changes).toContain(named);
+  });
+
+  it('a file of format version 1 (whose checksum covered the table only) is refused by name', () => {
+    const old = JSON.parse(serialiseSchedule(sampleSchedule()));
+    old.formatVersion = 1;
+    expect(() => parseSchedule(old, 'old.json')).toThrow(expect.objectContaining({ code: 'schedule.unsupportedVersion', message: expect.stringMatching(/rebuild/) }));
   });
 });
 

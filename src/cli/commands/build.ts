@@ -1,7 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
+import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband build`: logs + vehicle (+ plan) → identified models → gains per breakpoint →
@@ -22,11 +22,29 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   if (logPaths.length > 0 && modelsIn !== undefined) {
     throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one: --logs to identify afresh, --models to reuse models.json');
   }
+  const out = String(args.out);
+  const modelsOut = args['models-out'] === undefined ? undefined : String(args['models-out']);
+  // Outputs checked against every input and each other before any work (never replaced, not even with --force).
+  const { checkOutputPaths } = await import('../../core/output-paths.js');
+  const { resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
+  checkOutputPaths(
+    [{ path: out, option: '--out' }, ...(modelsOut === undefined ? [] : [{ path: modelsOut, option: '--models-out' }])],
+    [
+      { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
+      ...optionalInputs(args, [
+        ['models', 'models file'],
+        ['plan', 'plan file'],
+        ['baseline', 'baseline schedule'],
+        ['log-profile', 'log profile'],
+      ]),
+    ],
+  );
   // Read the baseline first: a bad baseline is bad input, found before minutes of work.
   const baseline = args.baseline === undefined ? undefined : readSchedule(String(args.baseline));
-  const out = String(args.out);
   const columns = await logColumnsFromArgs(args);
-  const result = buildSchedule({
+  const result = await buildSchedule({
     vehicle: String(args.vehicle),
     logPaths,
     ...(columns === undefined ? {} : { readOptions: { columns } }),
@@ -38,7 +56,6 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const passed = schedule.status === 'passed';
   const written = passed || args['allow-failing'] === true;
   const outcome = written ? writeSchedule(out, schedule, args.force === true) : null;
-  const modelsOut = args['models-out'] === undefined ? undefined : String(args['models-out']);
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force === true);
 
   const baselineCheck = baseline === undefined ? undefined : (await import('../../build/baseline.js')).checkBaseline(baseline, result);
@@ -114,7 +131,8 @@ export const command: CommandModule = {
       .option('models', { type: 'string', describe: 'Reuse an identification (models.json from `speedband identify`) instead of --logs' })
       .option('plan', {
         type: 'string',
-        describe: 'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2',
+        describe:
+          'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2',
       })
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })

@@ -1,7 +1,8 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
+import { checkModelFromArgs } from '../check-model-args.js';
+import { withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband check`: re-verify a schedule independently of how it was made — schema and
@@ -9,52 +10,19 @@ import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
  * controller on a vehicle model: identified afresh from logs, read from models.json, or the
  * model the schedule records.
  */
+/** Most check speeds (bounded work: a fraction of a millisecond each, 20,000 speeds in seconds); the same bound as a plan's check.gridSpeeds. */
+const MAX_GRID_SPEEDS = 100_000;
+
 async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
   const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
-  const { checkModelFromModels } = await import('../../build/check-model.js');
-  const { recheckSchedule, recordedCheckModel } = await import('../../build/recheck-schedule.js');
+  const { recheckSchedule } = await import('../../build/recheck-schedule.js');
   const { formatRecheck } = await import('../../build/schedule-report.js');
-  const { sha256Hex, readTextFile } = await import('../../core/files.js');
-
   const schedulePath = String(args.schedule);
   const schedule = readSchedule(schedulePath);
-  const vehicleFile = resolveVehiclePath(String(args.vehicle));
-  const vehicle = loadVehicle(vehicleFile);
-  const notes: string[] = [];
-  if (sha256Hex(readTextFile(vehicleFile)) !== schedule.vehicle.sha256) {
-    notes.push(`note: ${vehicleFile} differs from the vehicle file the schedule was built with (${schedule.vehicle.file}) — checking against the file given`);
-  }
-  if (vehicle.name !== schedule.vehicle.name) {
-    notes.push(`note: the schedule was built for vehicle "${schedule.vehicle.name}", the vehicle file given is "${vehicle.name}"`);
-  }
-
-  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
-  const modelsPath = args.models === undefined ? undefined : String(args.models);
-  if (logPaths.length > 0 && modelsPath !== undefined) {
-    throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one');
-  }
-  let model;
-  if (modelsPath !== undefined || logPaths.length > 0) {
-    const models =
-      modelsPath !== undefined
-        ? (await import('../../identify/models-file.js')).readModels(modelsPath)
-        : (await import('../../identify/identify-from-logs.js')).identifyFromLogs({ vehicle: vehicleFile, logPaths, progress: io.progress, readOptions: { columns: await logColumnsFromArgs(args) } });
-    model = checkModelFromModels(models, vehicle, schedule.check.model.kind);
-  } else {
-    model = recordedCheckModel(schedule);
-    if (model === null) {
-      throw new SpeedbandError(
-        'check.noModel',
-        'the schedule records no vehicle model speedband can rebuild — give the model with --models models.json or --logs FILE…',
-        { location: { file: schedulePath, jsonPath: '/provenance/model' } },
-      );
-    }
-    notes.push('note: checking on the model recorded in the schedule; give --logs or --models to check on fresh data');
-  }
+  const { model, notes } = await checkModelFromArgs(args, schedule, schedulePath, io);
   const gridSpeeds = args['grid-speeds'] === undefined ? undefined : Number(args['grid-speeds']);
-  if (gridSpeeds !== undefined && !(Number.isInteger(gridSpeeds) && gridSpeeds >= 2)) {
-    throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(args['grid-speeds'])} — give a whole number of speeds ≥ 2`);
+  if (gridSpeeds !== undefined && !(Number.isInteger(gridSpeeds) && gridSpeeds >= 2 && gridSpeeds <= MAX_GRID_SPEEDS)) {
+    throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(args['grid-speeds'])} — give a whole number of speeds from 2 to ${MAX_GRID_SPEEDS}`);
   }
   const result = recheckSchedule({ schedule, model, ...(gridSpeeds === undefined ? {} : { gridSpeeds }) });
 

@@ -2,13 +2,14 @@ import { COMPARE_DEFAULTS as HELP_DEFAULTS } from '../../compare/defaults.js';
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
+import { quoted } from '../../core/quote.js';
 
 
 function threshold(args: Record<string, unknown>, option: string): number | undefined {
   const value = args[option];
   if (value === undefined) return undefined;
   if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) {
-    throw new SpeedbandError('cli.badNumber', `--${option} is "${String(value)}" — expected a number ≥ 0`, { details: { option } });
+    throw new SpeedbandError('cli.badNumber', `--${option} is ${quoted(String(value))} — expected a number ≥ 0`, { details: { option } });
   }
   return value;
 }

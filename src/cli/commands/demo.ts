@@ -8,7 +8,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const outDir = String(args.out);
   const vehicle = String(args.vehicle);
   io.stderr(`speedband demo: building a schedule for the bundled demo vehicle "${vehicle}" (invented data, for demonstration only)…\n`);
-  const result = runDemo({ vehicle, outDir, force: args.force === true, progress: io.progress });
+  const result = await runDemo({ vehicle, outDir, force: args.force === true, progress: io.progress });
   const lines: string[] = [];
   lines.push(formatSchedule(result.build.schedule));
   lines.push(`Re-checked independently from the written schedule: ${result.recheck.passed ? 'PASSED' : 'FAILED'} at ${result.recheck.points.length} speeds.`);

@@ -1,13 +1,17 @@
 import { SpeedbandError } from '../../core/errors.js';
-import type { QuantisedRecheck } from '../../export/recheck.js';
+import type { AnalyseLoop } from '../../schedule/types.js';
+import type { ScheduleFile } from '../../schedule/schedule-types.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { SAFETY_EPILOGUE } from '../safety.js';
 
 /** What the export command needs beyond the schedule file. */
 export interface ExportDependencies {
-  /** Re-checks a quantised table against the schedule's loop model; absent: the model recorded in the schedule (src/build/quantised-recheck.ts). */
-  readonly recheck?: QuantisedRecheck;
+  /**
+   * The loop analysis to re-check a schedule's gains with (null: none available); absent: the model the
+   * schedule records (src/build/export-check.ts). Tests pass constructed loops.
+   */
+  readonly analyseFor?: (schedule: ScheduleFile) => AnalyseLoop | null;
 }
 
 type Format = 'c' | 'csv' | 'json';
@@ -19,7 +23,8 @@ const shown = (value: number): string => value.toPrecision(3);
 export function makeExportCommand(dependencies: ExportDependencies): CommandModule {
   return {
     command: 'export <schedule>',
-    describe: 'Write a verified schedule.json as a C99 header for firmware, a CSV for spreadsheets, or canonical JSON; the schema and checksum are verified first',
+    describe:
+      'Write a verified schedule.json as a C99 header for firmware, a CSV for spreadsheets, or canonical JSON; the schema and checksum are verified and the dense check of the exported gains is re-run first',
     builder: (yargs) =>
       yargs
         .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband (its checksum must match)' })
@@ -37,8 +42,13 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
             'C only: store gains as fixed-point I.F (I integer bits including sign, F fractional bits, I + F = 16 or 32, e.g. 16.16); prints the quantisation error per gain (bound 2^-(F+1))',
         })
         .option('prefix', { type: 'string', default: 'speedband_schedule', describe: 'C only: prefix of every identifier; the include guard is its upper case' })
-        .option('allow-failing', { type: 'boolean', default: false, describe: 'Export a schedule whose dense check failed (status "failed"), e.g. for review' })
-        .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
+        .option('allow-failing', {
+          type: 'boolean',
+          default: false,
+          describe:
+            'Export a schedule whose dense check fails (or cannot be re-run), for review only: the C header then starts with #error unless <PREFIX>_ALLOW_FAILING_SCHEDULE is defined',
+        })
+        .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs (never the schedule itself)' })
         .option('json', { type: 'boolean', default: false, describe: 'With --out: print a JSON summary (file, format, checksum, quantisation errors) instead of text' }),
     examples: [
       ['speedband export schedule.json --format c --out firmware/steer_schedule.h', 'C99 header with the lookup, units, controller equation, checksum and cautions'],
@@ -50,42 +60,45 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
 }
 
 async function run(args: Record<string, unknown>, io: CommandIo, dependencies: ExportDependencies): Promise<number> {
-  const { readSchedule } = await import('../../schedule/schedule-file.js');
   const format = String(args.format) as Format;
+  const schedulePath = String(args.schedule);
   const out = args.out === undefined ? undefined : String(args.out);
   const qFormat = args['q-format'] === undefined ? undefined : String(args['q-format']);
+  const allowFailing = args['allow-failing'] === true;
   if (qFormat !== undefined && format !== 'c') {
     throw new SpeedbandError('cli.optionNotApplicable', `--q-format applies to --format c only (got --format ${format}) — drop --q-format or export C`);
   }
   if (args.json === true && out === undefined) {
     throw new SpeedbandError('cli.optionNotApplicable', '--json prints a summary of a written file: give --out FILE too');
   }
-  const schedule = readSchedule(String(args.schedule));
-  if (schedule.status === 'failed' && args['allow-failing'] !== true) {
+  if (out !== undefined) (await import('../../core/output-paths.js')).checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }]);
+  const { readSchedule } = await import('../../schedule/schedule-file.js');
+  const { scheduleTable, scheduleLookupSettings } = await import('../../schedule/schedule-lookup.js');
+  const exportCheck = await import('../../build/export-check.js');
+  const schedule = readSchedule(schedulePath);
+  if (schedule.status === 'failed' && !allowFailing) {
     io.stderr(
-      `speedband: ${String(args.schedule)}: the schedule's dense check failed (${schedule.check.failedSpeeds} of ${schedule.check.gridSize} speeds) — ` +
+      `speedband: ${schedulePath}: the schedule's dense check failed (${schedule.check.failedSpeeds} of ${schedule.check.gridSize} speeds) — ` +
         'it is not exported for firmware; fix the schedule, or pass --allow-failing to export it for review\n',
     );
     return EXIT.failed;
   }
-
-  const notes: string[] = [];
-  let text: string;
-  let quantisation: import('../../export/fixed-point.js').QuantisedTable | undefined;
-  let recheckPassed: boolean | null = null;
-  if (format === 'c') {
-    const { exportC } = await import('../../export/c-header.js');
-    const { parseQFormat } = await import('../../export/fixed-point.js');
-    const fixedPoint = qFormat === undefined ? undefined : parseQFormat(qFormat);
-    const exported = exportC(schedule, { prefix: String(args.prefix), ...(fixedPoint === undefined ? {} : { fixedPoint }) });
-    text = exported.text;
-    quantisation = exported.quantisation;
-  } else if (format === 'csv') {
-    text = (await import('../../export/csv.js')).exportCsv(schedule);
-  } else {
-    text = (await import('../../export/json.js')).exportJson(schedule);
+  const analyse = (dependencies.analyseFor ?? exportCheck.recordedLoopAnalysis)(schedule);
+  if (analyse === null && !allowFailing) {
+    throw new SpeedbandError(
+      'export.noModel',
+      'the schedule records no vehicle model speedband can rebuild, so the gains cannot be re-checked before export — rebuild it with speedband build, ' +
+        'or pass --allow-failing to export it for review (a C header then stops the build with #error)',
+      { location: { file: schedulePath, jsonPath: '/provenance/model' } },
+    );
   }
 
+  const notes: string[] = [];
+  const fixedPoint = qFormat === undefined ? undefined : (await import('../../export/fixed-point.js')).parseQFormat(qFormat);
+  const quantisation =
+    fixedPoint === undefined ? undefined : (await import('../../export/fixed-point.js')).quantiseTable(scheduleTable(schedule), fixedPoint, scheduleLookupSettings(schedule));
+  const table = quantisation?.table ?? scheduleTable(schedule);
+  const check = analyse === null ? null : exportCheck.checkExportedTable(schedule, table, analyse);
   if (quantisation !== undefined) {
     const { fractionalBits, wordBits } = quantisation.format;
     notes.push(`Q${wordBits - fractionalBits}.${fractionalBits} gains (int${wordBits}_t), error bound 2^-${fractionalBits + 1} = ${shown(quantisation.resolutionBound)}:`);
@@ -93,29 +106,54 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
       const error = quantisation.errors[name];
       notes.push(`  ${name}: max absolute error ${shown(error.maxAbsolute)} (${schedule.units[name]}), max relative ${shown(100 * error.maxRelative)} %`);
     }
-    const recheck = dependencies.recheck ?? (await import('../../build/quantised-recheck.js')).recheckWithRecordedModel;
-    const result = recheck(schedule, quantisation.table);
-    if (result === null) {
-      notes.push('  The quantised gains were not re-checked: the schedule records no vehicle model speedband can rebuild; the error bound above is what changed.');
-    } else {
-      recheckPassed = result.passed;
-      notes.push(
-        result.passed
-          ? `  Dense check with the quantised gains: passed at all ${result.points.length} speeds.`
-          : `  Dense check with the quantised gains: FAILED at ${result.failedCount} of ${result.points.length} speeds — use more fractional bits.`,
-      );
-    }
   }
-
-  if (recheckPassed === false && args['allow-failing'] !== true) {
-    io.stderr(`${notes.join('\n')}\nspeedband: nothing written — the quantised schedule fails the dense check (pass --allow-failing to write it for review)\n`);
+  const what = quantisation === undefined ? 'the gains' : 'the quantised gains';
+  if (check === null) {
+    notes.push(`  The exported gains were NOT re-checked: the schedule records no vehicle model speedband can rebuild (exported for review only).`);
+  } else {
+    notes.push(
+      check.passed
+        ? `  Dense check with ${what}: passed at all ${check.points.length} speeds (model recorded in the schedule).`
+        : `  Dense check with ${what}: FAILED at ${check.failedCount} of ${check.points.length} speeds${quantisation === undefined ? '' : ' — use more fractional bits'}.`,
+    );
+  }
+  if (check !== null && !check.passed && !allowFailing) {
+    const why =
+      quantisation !== undefined
+        ? 'the quantised schedule fails the dense check'
+        : 'the schedule says its check passed, but its gains fail a fresh dense check on the model it records — the file does not hold what it states ' +
+          '(edited and re-checksummed?); run speedband check for the details, or speedband reverify after a deliberate edit';
+    io.stderr(`${notes.join('\n')}\nspeedband: nothing written — ${why} (pass --allow-failing to write it for review)\n`);
     return EXIT.failed;
+  }
+  const passed = schedule.status === 'passed' && check !== null && check.passed;
+
+  let text: string;
+  let fallback: import('../../export/c-header.js').FallbackGains | null = null;
+  if (format === 'c') {
+    const { exportC } = await import('../../export/c-header.js');
+    fallback = analyse === null ? null : exportCheck.findFallbackGains(schedule, table, analyse);
+    const upper = String(args.prefix).toUpperCase();
+    notes.push(
+      fallback === null
+        ? `  NaN or infinite speed: no breakpoint's gains, held constant, pass the dense check over the whole range — the C lookup returns ${upper}_LOOKUP_NO_GAINS (the caller must hand over or stop).`
+        : `  NaN or infinite speed: the C lookup returns ${upper}_LOOKUP_FALLBACK with the gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which pass the dense check held constant over the whole range.`,
+    );
+    const headerCheck =
+      check === null
+        ? { passed: false, gridSize: schedule.check.gridSize, failedSpeeds: schedule.check.failedSpeeds, worst: schedule.check.worst, source: 'NOT re-checked at export: no model to rebuild' }
+        : { passed, gridSize: check.points.length, failedSpeeds: check.failedCount, worst: check.worst, source: 're-checked at export on the model the schedule records' };
+    text = exportC(schedule, { prefix: String(args.prefix), check: headerCheck, fallback, ...(fixedPoint === undefined ? {} : { fixedPoint }) }).text;
+  } else if (format === 'csv') {
+    text = (await import('../../export/csv.js')).exportCsv(schedule);
+  } else {
+    text = (await import('../../export/json.js')).exportJson(schedule);
   }
 
   if (out === undefined) {
     io.stdout(text);
-    if (notes.length > 0) io.stderr(`${notes.join('\n')}\n`);
-    return EXIT.ok;
+    io.stderr(`${notes.join('\n')}\n`);
+    return passed ? EXIT.ok : EXIT.failed;
   }
   const { writeFileAtomic } = await import('../../core/files.js');
   const outcome = writeFileAtomic(out, text, args.force === true);
@@ -129,10 +167,12 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
           status: schedule.status,
           checksum: schedule.checksum.value,
           breakpoints: schedule.breakpoints.length,
+          check: check === null ? null : { passed: check.passed, gridSize: check.points.length, failedSpeeds: check.failedCount, worst: check.worst },
+          fallback,
           quantisation:
             quantisation === undefined
               ? null
-              : { format: quantisation.format, resolutionBound: quantisation.resolutionBound, errors: quantisation.errors, recheckPassed },
+              : { format: quantisation.format, resolutionBound: quantisation.resolutionBound, errors: quantisation.errors, recheckPassed: check === null ? null : check.passed },
         },
         null,
         2,
@@ -142,11 +182,11 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
     io.stdout(
       `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}: ${format === 'c' ? 'C99 header' : format.toUpperCase()}, ${schedule.breakpoints.length} breakpoints, ` +
         `${schedule.interpolation.method} interpolation, status ${schedule.status}, checksum ${schedule.checksum.value.slice(0, 16)}…\n` +
-        (notes.length > 0 ? `${notes.join('\n')}\n` : '') +
+        `${notes.join('\n')}\n` +
         `${SAFETY_EPILOGUE}\n`,
     );
   }
-  return recheckPassed === false ? EXIT.failed : EXIT.ok;
+  return passed ? EXIT.ok : EXIT.failed;
 }
 
 export const command: CommandModule = makeExportCommand({});

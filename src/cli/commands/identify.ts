@@ -1,6 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
+import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband identify`: step-steer logs + vehicle file → models.json (per-step and
@@ -17,11 +18,24 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   if (out === undefined && args.json !== true) {
     throw new SpeedbandError('cli.missingOption', 'nothing to do: give --out models.json to write the models file, and/or --json to print a summary');
   }
-  const { identifyFromLogs } = await import('../../identify/identify-from-logs.js');
+  const { identifyFromLogs, expandLogPaths } = await import('../../identify/identify-from-logs.js');
+  if (out !== undefined) {
+    const { checkOutputPaths } = await import('../../core/output-paths.js');
+    const { resolveVehiclePath } = await import('../../vehicle/load.js');
+    checkOutputPaths(
+      [{ path: out, option: '--out' }],
+      [
+        { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+        ...expandLogPaths((args.logs as unknown[]).map(String)).map((path) => ({ path, role: 'log' })),
+        ...optionalInputs(args, [['log-profile', 'log profile']]),
+      ],
+    );
+  }
   const { writeModels } = await import('../../identify/models-file.js');
   const { radiansToDegrees } = await import('../../core/units.js');
   const { tallyTwoPointAgreement, TWO_POINT_AGREEMENT } = await import('../../identify/two-point-agreement.js');
   const logPaths = (args.logs as unknown[]).map(String);
+  const columns = await logColumnsFromArgs(args);
   const models = identifyFromLogs({
     vehicle: String(args.vehicle),
     logPaths,
@@ -35,6 +49,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       fitSecondOrder: args['second-order'] !== false,
       jointFit: args['joint-fit'] !== false,
     },
+    ...(columns === undefined ? {} : { readOptions: { columns } }),
     progress: io.progress,
   });
   const outcome = out === undefined ? null : writeModels(out, models, args.force === true);
@@ -140,7 +155,7 @@ export const command: CommandModule = {
   command: 'identify',
   describe: 'Fit models of the steering-to-yaw response from step-steer logs: FOPDT per step and per speed with 95 % intervals, the steering actuator, and a joint single-track model; writes models.json',
   builder: (yargs) =>
-    yargs
+    withLogColumnOptions(yargs)
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, yaw inertia, axle positions, steering ratio' })
       .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]), or folders of them; steps at two or more speeds' })
       .option('out', { type: 'string', describe: 'models.json to write (atomically; validated against its JSON Schema). Required unless --json is given' })

@@ -1,9 +1,13 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
+import { quoted } from '../../core/quote.js';
 
 /** Linear-range habit for step tests (DOMAIN.md §6, common practice): warn above this steady lateral acceleration. */
 const LINEAR_RANGE_WARNING_mps2 = 4;
+
+/** At most this many values in a list option (bounded work: one log file per speed). */
+const MAX_LISTED_VALUES = 1000;
 
 /**
  * A list of numbers: "2,4,6.5" or "start:step:end" (inclusive, e.g. "2:2:10").
@@ -11,7 +15,7 @@ const LINEAR_RANGE_WARNING_mps2 = 4;
  */
 function parseNumberList(text: string, option: string): number[] {
   const bad = (item: string) =>
-    new SpeedbandError('cli.badList', `--${option} "${text}": "${item}" is not a number — give comma-separated numbers (2,4,6) or start:step:end (2:2:10)`, {
+    new SpeedbandError('cli.badList', `--${option} ${quoted(text)}: ${quoted(item)} is not a number — give comma-separated numbers (2,4,6) or start:step:end (2:2:10)`, {
       details: { option, text },
     });
   const range = /^\s*([^:]+):([^:]+):([^:]+)\s*$/.exec(text);
@@ -22,9 +26,12 @@ function parseNumberList(text: string, option: string): number[] {
       return value;
     });
     if (!(step > 0) || end < start) {
-      throw new SpeedbandError('cli.badList', `--${option} "${text}": a range needs step > 0 and end ≥ start`, { details: { option, text } });
+      throw new SpeedbandError('cli.badList', `--${option} ${quoted(text)}: a range needs step > 0 and end ≥ start`, { details: { option, text } });
     }
     const count = Math.floor((end - start) / step + 1e-9) + 1;
+    if (count > MAX_LISTED_VALUES) {
+      throw new SpeedbandError('cli.badList', `--${option} ${quoted(text)} lists ${count} values; at most ${MAX_LISTED_VALUES} — use a larger step`, { details: { option, text } });
+    }
     return Array.from({ length: count }, (_, k) => Number((start + k * step).toPrecision(12)));
   }
   return text.split(',').map((item) => {
@@ -83,11 +90,23 @@ export const command: CommandModule = {
     ['speedband make-test-logs --vehicle vehicles/sidewalk-robot --speeds 1,2 --amplitudes-deg 6,3 --out /tmp/robot', 'Fixed amplitudes of 6° and 3° at every speed'],
   ],
   run: async (args, io) => {
-    const { loadVehicle } = await import('../../vehicle/load.js');
-    const { writeTestLogs } = await import('../../vehicle/test-logs.js');
+    const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
+    const { writeTestLogs, testLogFileName } = await import('../../vehicle/test-logs.js');
     const { degreesToRadians, radiansToDegrees } = await import('../../core/units.js');
-    const vehicle = loadVehicle(String(args.vehicle));
+    const { checkOutputFolder, checkOutputPaths } = await import('../../core/output-paths.js');
+    const { join } = await import('node:path');
     const speeds = parseNumberList(String(args.speeds), 'speeds');
+    const out = String(args.out);
+    checkOutputFolder({ path: out, option: '--out' });
+    checkOutputPaths(
+      // Each file once: two speeds with one file name are refused by writeTestLogs, with its own words.
+      [...new Set([...speeds.filter((speed) => Number.isFinite(speed) && speed > 0).map((speed) => join(out, testLogFileName(speed))), join(out, 'README.md')])].map((path) => ({
+        path,
+        option: '--out',
+      })),
+      [{ path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' }],
+    );
+    const vehicle = loadVehicle(String(args.vehicle));
     const amplitudesText = args['amplitudes-deg'] as string | undefined;
     const amplitudes_rad = amplitudesText === undefined ? undefined : parseNumberList(amplitudesText, 'amplitudes-deg').map(degreesToRadians);
     const result = writeTestLogs(
@@ -143,7 +162,7 @@ export const command: CommandModule = {
     const text = table.map((line) => line.map((cell, column) => (column === 0 ? cell.padEnd(widths[column]) : cell.padStart(widths[column]))).join('  ').trimEnd());
     io.stdout(`${text.join('\n')}\n`);
     io.stdout(
-      `\nSynthetic data for demos and tests only (vehicle "${vehicle.name}", seed ${String(args.seed)}): ${rows.length} logs, each with ${rows[0]?.stepOnsets_s.length ?? 0} steps (left and right at two amplitudes, with returns to zero). ` +
+      `\nSynthetic data for demos and tests only (vehicle ${quoted(vehicle.name)}, seed ${String(args.seed)}): ${rows.length} logs, each with ${rows[0]?.stepOnsets_s.length ?? 0} steps (left and right at two amplitudes, with returns to zero). ` +
         `How they were made: ${result.files[result.files.length - 1].path}\n`,
     );
     return EXIT.ok;

@@ -3,13 +3,14 @@ import { CONTROLLER_DEFAULTS } from '../../controller/defaults.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
 import type { LoopMargins } from '../../verify/types.js';
+import { quoted } from '../../core/quote.js';
 
 /** A number option or undefined when absent (yargs gives NaN for a non-number). */
 function numberOption(args: Record<string, unknown>, name: string): number | undefined {
   const value = args[name];
   if (value === undefined) return undefined;
   if (typeof value !== 'number' || Number.isNaN(value)) {
-    throw new SpeedbandError('cli.badNumber', `--${name} is "${String(value)}" — expected a number`, { details: { option: name } });
+    throw new SpeedbandError('cli.badNumber', `--${name} is ${quoted(String(value))} — expected a number`, { details: { option: name } });
   }
   return value;
 }
@@ -25,7 +26,7 @@ function coefficientOption(args: Record<string, unknown>, name: string): number[
   if (parts.length === 0 || bad >= 0) {
     throw new SpeedbandError(
       'cli.badCoefficients',
-      `--${name} is "${text}"${bad >= 0 ? ` (entry ${bad + 1}, "${parts[bad]}", is not a number)` : ''} — expected coefficients highest power first, separated by spaces or commas, e.g. --${name} "1 3 2" for s² + 3s + 2`,
+      `--${name} is ${quoted(text)}${bad >= 0 ? ` (entry ${bad + 1}, ${quoted(parts[bad])}, is not a number)` : ''} — expected coefficients highest power first, separated by spaces or commas, e.g. --${name} "1 3 2" for s² + 3s + 2`,
       { details: { option: name, value: text } },
     );
   }
@@ -39,7 +40,7 @@ function filterOption(value: unknown): number {
   if (text === 'none' || text === 'infinity' || text === 'inf') return Infinity;
   const parsed = Number(text);
   if (!Number.isFinite(parsed)) {
-    throw new SpeedbandError('cli.badNumber', `--derivative-filter is "${String(value)}" — expected a number N > 0 (Tf = Td/N) or "none" for an unfiltered derivative`, {
+    throw new SpeedbandError('cli.badNumber', `--derivative-filter is ${quoted(String(value))} — expected a number N > 0 (Tf = Td/N) or "none" for an unfiltered derivative`, {
       details: { option: 'derivative-filter' },
     });
   }

@@ -7,13 +7,14 @@ import type { RuleParameters } from '../../tuning/types.js';
 import type { Vehicle } from '../../vehicle/types.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
+import { QUOTED_TEXT_MAX, cutText, quoted } from '../../core/quote.js';
 
 /** A number option or undefined when absent (yargs gives NaN for a non-number). */
 function numberOption(args: Record<string, unknown>, name: string): number | undefined {
   const value = args[name];
   if (value === undefined) return undefined;
   if (typeof value !== 'number' || !Number.isFinite(value)) {
-    throw new SpeedbandError('cli.badNumber', `--${name} is "${String(value)}"; expected a finite number`, { details: { option: name } });
+    throw new SpeedbandError('cli.badNumber', `--${name} is ${quoted(String(value))}; expected a finite number`, { details: { option: name } });
   }
   return value;
 }
@@ -142,7 +143,7 @@ async function modelFromModelsFile(modelsPath: string, given: { path: string; ve
   if (given === undefined) {
     throw new SpeedbandError(
       'cli.missingVehicle',
-      `--models needs --vehicle: the models file records the vehicle's name and hash, not its mass, inertia and geometry — pass the vehicle file it was identified with ("${models.vehicle.name}", ${models.vehicle.file})`,
+      `--models needs --vehicle: the models file records the vehicle's name and hash, not its mass, inertia and geometry — pass the vehicle file it was identified with (${quoted(models.vehicle.name)}, ${cutText(models.vehicle.file, QUOTED_TEXT_MAX)})`,
       { location: { file: modelsPath, jsonPath: '/vehicle' } },
     );
   }

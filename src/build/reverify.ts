@@ -1,0 +1,81 @@
+/**
+ * The supported path for a deliberate hand edit of a schedule (`speedband reverify`): the edited file
+ * (its checksum no longer matches) is re-checked densely — its own gains, lookup, loop, controller,
+ * range and thresholds, on a vehicle model — and only when that passes is it given back with the
+ * figures of this check (status, breakpoint margins, worst margins), its texts regenerated from its
+ * numbers (loop error, controller equations, interpolation, units, cautions), a record in
+ * `provenance.handEdits` saying it was edited by hand and re-verified (which sections had changed,
+ * the model, the version), and a fresh checksum. Nothing the hand edit wrote about margins or
+ * status is kept: only what the check proves.
+ */
+import { SAFETY_CAUTIONS } from '../cli/safety.js';
+import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
+import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
+import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';
+import type { HandEditRecord, ScheduleFile } from '../schedule/schedule-types.js';
+import type { DenseCheckResult } from '../schedule/types.js';
+import { VERSION } from '../version.js';
+import type { CheckModel } from './check-model.js';
+import { recheckSchedule } from './recheck-schedule.js';
+
+export interface ReverifyResult {
+  /** The dense check of the edited schedule. */
+  readonly check: DenseCheckResult;
+  /** What had changed against the checksum the file carried, in words (empty: nothing). */
+  readonly changes: readonly string[];
+  /** The re-verified schedule, or null when the check failed (nothing may be written). */
+  readonly schedule: ScheduleFile | null;
+}
+
+/**
+ * Re-verify a (hand-edited) schedule on a model; see the file comment. `modelRecorded`: the model is
+ * the one the schedule records (its check.model and provenance.model are kept as they are).
+ */
+export function reverifySchedule(edited: ScheduleFile, model: CheckModel, options: { readonly modelRecorded?: boolean } = {}): ReverifyResult {
+  const recorded = options.modelRecorded === true;
+  const verdict = verifyScheduleChecksum(edited);
+  const check = recheckSchedule({ schedule: edited, model });
+  if (!check.passed) return { check, changes: verdict.changes, schedule: null };
+  const margins = edited.breakpoints.map((row) => {
+    const point = check.points.find((candidate) => candidate.speed_mps === row.speed_mps);
+    if (point === undefined) throw new Error(`breakpoint ${row.speed_mps} m/s missing from the check grid`);
+    return breakpointMargins(point.margins);
+  });
+  const record: HandEditRecord = {
+    statement:
+      verdict.sections.length > 0
+        ? 'Edited by hand after it was written, then re-verified densely by speedband reverify: the figures are those of that check.'
+        : 'Re-verified densely by speedband reverify (no change against the checksum it carried).',
+    changedSections: verdict.sections,
+    toolVersion: VERSION,
+    model: recorded ? edited.check.model.description : model.description,
+    gridSize: check.points.length,
+  };
+  const { loop, controller, interpolation } = edited;
+  const withoutChecksum: Omit<ScheduleFile, 'checksum'> & { checksum?: unknown } = {
+    ...edited,
+    status: 'passed',
+    loop: { ...loop, error: loopErrorText(loop.kind, loop.preview_m ?? 0, loop.referencePoint ?? 'cg') },
+    controller: { ...controller, equation: CONTROLLER_EQUATION, update: controllerUpdateText(controller.discretisation), integration: INTEGRATION_TEXT },
+    interpolation: { ...interpolation, description: interpolationText(interpolation.method, interpolation.lowSpeedFloor_mps) },
+    units: gainUnits(loop.kind),
+    breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k] })),
+    check: {
+      ...edited.check,
+      passed: true,
+      model: recorded ? edited.check.model : { kind: model.kind, description: model.description },
+      gridSize: check.points.length,
+      worst: recordedWorst(check.worst),
+      failedSpeeds: 0,
+      failures: check.points.filter((point) => point.failures.length > 0).slice(0, LISTED_FAILURES).map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((f) => f.message) })),
+    },
+    provenance: {
+      ...edited.provenance,
+      model: recorded ? edited.provenance.model : (model.summary as unknown as Readonly<Record<string, unknown>>),
+      handEdits: [...(edited.provenance.handEdits ?? []), record],
+    },
+    cautions: [...SAFETY_CAUTIONS],
+  };
+  delete withoutChecksum.checksum;
+  return { check, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
+}

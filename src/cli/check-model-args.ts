@@ -1,0 +1,60 @@
+import { SpeedbandError } from '../core/errors.js';
+import { quoted } from '../core/quote.js';
+import type { CheckModel } from '../build/check-model.js';
+import type { ScheduleFile } from '../schedule/schedule-types.js';
+import type { CommandIo } from './io.js';
+import { logColumnsFromArgs } from './log-columns.js';
+
+/**
+ * The vehicle model `check` and `reverify` run the dense check on: a fresh identification from --logs,
+ * a models file (--models), or the model the schedule records — with notes on what was used and on a
+ * vehicle file that differs from the one the schedule was built with.
+ */
+export async function checkModelFromArgs(
+  args: Record<string, unknown>,
+  schedule: ScheduleFile,
+  schedulePath: string,
+  io: CommandIo,
+): Promise<{ model: CheckModel; notes: string[]; recorded: boolean }> {
+  const { loadVehicle, resolveVehiclePath } = await import('../vehicle/load.js');
+  const { checkModelFromModels } = await import('../build/check-model.js');
+  const { recordedCheckModel } = await import('../build/recheck-schedule.js');
+  const { sha256Hex, readFileBytes } = await import('../core/files.js');
+  const vehicleFile = resolveVehiclePath(String(args.vehicle));
+  const vehicle = loadVehicle(vehicleFile);
+  const notes: string[] = [];
+  if (sha256Hex(readFileBytes(vehicleFile)) !== schedule.vehicle.sha256) {
+    notes.push(`note: ${vehicleFile} differs from the vehicle file the schedule was built with (${quoted(schedule.vehicle.file)}) — checking against the file given`);
+  }
+  if (vehicle.name !== schedule.vehicle.name) {
+    notes.push(`note: the schedule was built for vehicle ${quoted(schedule.vehicle.name)}, the vehicle file given is ${quoted(vehicle.name)}`);
+  }
+  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
+  const modelsPath = args.models === undefined ? undefined : String(args.models);
+  if (logPaths.length > 0 && modelsPath !== undefined) {
+    throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one');
+  }
+  if (modelsPath !== undefined || logPaths.length > 0) {
+    const columns = await logColumnsFromArgs(args);
+    const models =
+      modelsPath !== undefined
+        ? (await import('../identify/models-file.js')).readModels(modelsPath)
+        : (await import('../identify/identify-from-logs.js')).identifyFromLogs({
+            vehicle: vehicleFile,
+            logPaths,
+            progress: io.progress,
+            ...(columns === undefined ? {} : { readOptions: { columns } }),
+          });
+    return { model: checkModelFromModels(models, vehicle, schedule.check.model.kind), notes, recorded: false };
+  }
+  const model = recordedCheckModel(schedule);
+  if (model === null) {
+    throw new SpeedbandError(
+      'check.noModel',
+      'the schedule records no vehicle model speedband can rebuild — give the model with --models models.json or --logs FILE…',
+      { location: { file: schedulePath, jsonPath: '/provenance/model' } },
+    );
+  }
+  notes.push('note: checking on the model recorded in the schedule; give --logs or --models to check on fresh data');
+  return { model, notes, recorded: true };
+}

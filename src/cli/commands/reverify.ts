@@ -1,0 +1,94 @@
+import type { CommandModule } from '../command.js';
+import { EXIT, type CommandIo } from '../io.js';
+import { checkModelFromArgs } from '../check-model-args.js';
+import { optionalInputs, withLogColumnOptions } from '../log-columns.js';
+
+/**
+ * `speedband reverify`: the supported path for a deliberate hand edit of a schedule. The edited file
+ * (its checksum no longer matches, so check and export refuse it) is re-checked densely on a vehicle
+ * model; only when that passes is it written to --out with the figures of this check, a record that
+ * it was edited by hand and re-verified, and a fresh checksum (src/build/reverify.ts).
+ */
+async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+  const schedulePath = String(args.schedule);
+  const out = String(args.out);
+  const { checkOutputPaths } = await import('../../core/output-paths.js');
+  const { resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
+  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
+  checkOutputPaths(
+    [{ path: out, option: '--out' }],
+    [
+      { path: schedulePath, role: 'schedule' },
+      { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
+      ...optionalInputs(args, [
+        ['models', 'models file'],
+        ['log-profile', 'log profile'],
+      ]),
+    ],
+  );
+  const { readTextFile } = await import('../../core/files.js');
+  const { parseJsonText } = await import('../../core/json-text.js');
+  const { parseScheduleUnverified, writeSchedule } = await import('../../schedule/schedule-file.js');
+  const { reverifySchedule } = await import('../../build/reverify.js');
+  const { formatRecheck, formatCautions } = await import('../../build/schedule-report.js');
+  const edited = parseScheduleUnverified(parseJsonText(readTextFile(schedulePath), schedulePath), schedulePath);
+  const { model, notes, recorded } = await checkModelFromArgs(args, edited, schedulePath, io);
+  const result = reverifySchedule(edited, model, { modelRecorded: recorded });
+  const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, args.force === true);
+
+  if (args.json === true) {
+    io.stdout(
+      `${JSON.stringify(
+        {
+          file: result.schedule === null ? null : out,
+          outcome,
+          changes: result.changes,
+          passed: result.check.passed,
+          model: { kind: model.kind, description: model.description },
+          gridSize: result.check.points.length,
+          failedSpeeds: result.check.failedCount,
+          worst: result.check.worst,
+          checksum: result.schedule?.checksum.value ?? null,
+          notes,
+        },
+        null,
+        2,
+      )}\n`,
+    );
+  } else {
+    const changed =
+      result.changes.length === 0 ? 'no change against the checksum it carries' : `changed by hand since it was written: ${result.changes.join('; ')}`;
+    let text = `${schedulePath}: schema valid; ${changed}\n${notes.map((note) => `${note}\n`).join('')}`;
+    text += formatRecheck(`model: ${model.description}`, result.check, edited, model.kind);
+    text +=
+      result.schedule === null
+        ? 'Nothing written: the edited schedule fails its dense check (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n'
+        : `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}: re-verified, margins and status from this check, provenance records the hand edit, ` +
+          `checksum ${result.schedule.checksum.value.slice(0, 16)}…\n`;
+    text += formatCautions();
+    io.stdout(text);
+  }
+  return result.check.passed ? EXIT.ok : EXIT.failed;
+}
+
+export const command: CommandModule = {
+  command: 'reverify <schedule>',
+  describe:
+    'Re-verify a schedule.json you edited by hand (check and export refuse it: its checksum no longer matches): dense check of its own gains at every speed of its range; only if it passes, write it to --out with the margins of this check, a record of the hand edit and a fresh checksum. Exit 0 passed and written, 1 failed (nothing written), 2 bad input',
+  builder: (yargs) =>
+    withLogColumnOptions(yargs)
+      .positional('schedule', { type: 'string', describe: 'The edited schedule.json' })
+      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
+      .option('models', { type: 'string', describe: 'Check on this identification (models.json); default: the model the schedule records' })
+      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
+      .option('out', { type: 'string', demandOption: true, describe: 'Where to write the re-verified schedule (never the edited file itself: inputs are never outputs)' })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' }),
+  examples: [
+    ['speedband reverify edited.json --vehicle vehicles/parcel-van --out schedule.json', 'Re-verify a hand-tuned schedule on the model it records'],
+    ['speedband reverify edited.json --vehicle van.json --models models.json --out schedule.json', 'Re-verify on an identification'],
+  ],
+  run,
+};
