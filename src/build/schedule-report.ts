@@ -2,6 +2,7 @@
  * The terminal report of a schedule: breakpoints with gains and proven margins, the worst grid
  * point of the dense check, inserted breakpoints, failures, and the safety cautions.
  */
+import { describeControllerSettings } from '../controller/defaults.js';
 import { escapeControlCharacters } from '../core/quote.js';
 import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
@@ -43,9 +44,9 @@ export function formatSchedule(schedule: ScheduleFile): string {
   const loop = schedule.loop;
   lines.push(
     `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${loop.preview_m} m from the ${loop.referencePoint})` : ''}, ` +
-      `rule ${schedule.provenance.rule.name}, ${schedule.interpolation.method} interpolation, ` +
-      `${schedule.controller.discretisation} PID at ${schedule.controller.sampleTime_s} s, derivative filter N = ${schedule.controller.derivativeFilter}`,
+      `rule ${schedule.provenance.rule.name}, ${schedule.interpolation.method} interpolation`,
   );
+  lines.push(`  controller the gains assume: ${describeControllerSettings(schedule.controller)}`);
   lines.push(`  error: ${loop.error}`);
   lines.push(`  units: kp ${schedule.units.kp}; ki ${schedule.units.ki}; kd ${schedule.units.kd}`);
   lines.push(...formatRuleParameters(schedule));

@@ -2,6 +2,7 @@
  * The plan: which loop, rule, breakpoints, interpolation, controller and acceptance limits a
  * schedule is built with. Every field has a documented default (PLAN_DEFAULTS), so `{}` is a plan.
  */
+import { CONTROLLER_DEFAULTS, resolveControllerSettings } from '../controller/defaults.js';
 import type { Discretisation } from '../controller/types.js';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
@@ -105,7 +106,7 @@ export const PLAN_DEFAULTS: Plan = {
   speeds: { minimum_mps: 1, maximum_mps: 20, lowSpeedFloor_mps: 1 },
   breakpoints: { mode: 'automatic', count: 6, spacing: 'geometric' },
   interpolation: 'monotone-cubic',
-  controller: { form: 'parallel', derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler', computationLatency_s: 0.01 },
+  controller: { form: 'parallel', ...CONTROLLER_DEFAULTS },
   acceptance: {
     maximumLowerGainMargin_dB: -6,
     minimumUpperGainMargin_dB: 6,
@@ -189,9 +190,8 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   } else if (written !== undefined) {
     breakpoints = { mode: 'automatic', count: written.count ?? 6, spacing: written.spacing ?? 'geometric' };
   }
-  // Sample time: the plan's, else the vehicle file's, else the default; latency: the plan's, else one sample.
-  const sampleTime = partial.controller?.sampleTime_s ?? context.vehicleSampleTime_s ?? PLAN_DEFAULTS.controller.sampleTime_s;
-  const latency = partial.controller?.computationLatency_s ?? sampleTime;
+  // Sample time: the plan's, else the vehicle file's, else the default; latency: the plan's, else one sample (as tune and stability).
+  const controller = resolveControllerSettings(partial.controller ?? {}, context.vehicleSampleTime_s);
   const parameters = partial.rule?.parameters ?? PLAN_DEFAULTS.rule.parameters;
   for (const [name, value] of Object.entries(parameters)) checkSpeedTable(value as SpeedVarying, `/rule/parameters/${name}`, file);
   return {
@@ -200,7 +200,7 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
     speeds,
     breakpoints,
     interpolation: partial.interpolation ?? PLAN_DEFAULTS.interpolation,
-    controller: { ...PLAN_DEFAULTS.controller, ...partial.controller, sampleTime_s: sampleTime, computationLatency_s: latency },
+    controller: { form: 'parallel', ...controller },
     acceptance: { ...PLAN_DEFAULTS.acceptance, ...partial.acceptance },
     check: { ...PLAN_DEFAULTS.check, ...partial.check },
   };

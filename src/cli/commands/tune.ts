@@ -1,6 +1,6 @@
 import { SpeedbandError } from '../../core/errors.js';
-import { CONTROLLER_DEFAULTS } from '../../controller/defaults.js';
-import type { ControllerSettings } from '../../controller/types.js';
+import { CONTROLLER_DEFAULTS, describeControllerSettings, resolveControllerSettings } from '../../controller/defaults.js';
+import type { ControllerSettings, Discretisation } from '../../controller/types.js';
 import { TUNING_DEFAULTS } from '../../tuning/defaults.js';
 import { RULE_NAMES } from '../../tuning/registry.js';
 import type { RuleParameters } from '../../tuning/types.js';
@@ -52,9 +52,14 @@ export const command: CommandModule = {
       .option('natural-frequency-radps', { type: 'number', describe: `Damping target ωn, rad/s (default: from --settling-distance-m, else ωn·θ_eff = ${TUNING_DEFAULTS.defaultBandwidthDelayProduct})` })
       .option('settling-distance-m', { type: 'number', describe: 'Damping target settling distance D, m: ωn = 4·v/(ζ·D)' })
       .option('integral-pole-ratio', { type: 'number', describe: `Damping target ωn/p (default ${TUNING_DEFAULTS.integralPoleRatio})` })
-      .option('sample-time-s', { type: 'number', describe: `Controller sample time Ts, s (default: the vehicle's, else ${CONTROLLER_DEFAULTS.sampleTime_s})` })
-      .option('latency-s', { type: 'number', default: CONTROLLER_DEFAULTS.computationLatency_s, describe: 'Computation latency from sample to steer command, s' })
-      .option('derivative-filter', { type: 'number', default: CONTROLLER_DEFAULTS.derivativeFilter, describe: 'Derivative filter factor N: Tf = (kd/kp)/N' })
+      .option('sample-time-s', { type: 'number', describe: `Controller sample time Ts, s (default, as build: the vehicle file's controllerSampleTime_s, else ${CONTROLLER_DEFAULTS.sampleTime_s})` })
+      .option('latency-s', { type: 'number', describe: 'Computation latency from sample to steer command, s (default, as build: one sample, Ts)' })
+      .option('derivative-filter', { type: 'number', describe: `Derivative filter factor N: Tf = (kd/kp)/N (default ${CONTROLLER_DEFAULTS.derivativeFilter}, as build)` })
+      .option('discretisation', {
+        type: 'string',
+        choices: ['backward-euler', 'tustin'],
+        describe: `Discretisation of the firmware's PID, for the margins of the sampled loop (default ${CONTROLLER_DEFAULTS.discretisation}, as build)`,
+      })
       .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' }),
   examples: [
     ['speedband tune --rule simc --loop heading --speed-mps 10 --models models.json --vehicle vehicles/parcel-van', 'SIMC for a heading loop on the model identified by `speedband identify` (joint single-track fit)'],
@@ -99,12 +104,16 @@ export const command: CommandModule = {
       const { singleTrackParametersFromVehicle } = await import('../../vehicle/single-track.js');
       model = { kind: 'single-track' as const, parameters: singleTrackParametersFromVehicle(vehicle!) };
     }
-    const controller: ControllerSettings = {
-      ...CONTROLLER_DEFAULTS,
-      sampleTime_s: numberOption(args, 'sample-time-s') ?? vehicle?.controllerSampleTime_s ?? CONTROLLER_DEFAULTS.sampleTime_s,
-      computationLatency_s: numberOption(args, 'latency-s') ?? CONTROLLER_DEFAULTS.computationLatency_s,
-      derivativeFilter: numberOption(args, 'derivative-filter') ?? CONTROLLER_DEFAULTS.derivativeFilter,
-    };
+    // The same defaults as build and stability (src/controller/defaults.ts): the vehicle's sample time, one sample of latency.
+    const controller: ControllerSettings = resolveControllerSettings(
+      {
+        ...optionalNumber('sampleTime_s', numberOption(args, 'sample-time-s')),
+        ...optionalNumber('computationLatency_s', numberOption(args, 'latency-s')),
+        ...optionalNumber('derivativeFilter', numberOption(args, 'derivative-filter')),
+        ...(args.discretisation === undefined ? {} : { discretisation: args.discretisation as Discretisation }),
+      },
+      vehicle?.controllerSampleTime_s,
+    );
     const timeConstant = numberOption(args, 'closed-loop-time-constant-s');
     const ruleParameters: RuleParameters = {
       ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] as 'P' | 'PI' | 'PID' }),
@@ -123,14 +132,18 @@ export const command: CommandModule = {
       controller,
     });
     const warnings = [...(modelWords?.warnings ?? []), ...point.warnings];
+    // The margins of the discrete PID the firmware runs: the analysis of build's dense check.
+    const sampledMargins = (await import('../../build/loop-analysis.js')).analyseSampledLoop(point.loop, point.gains, controller);
     if (args.json) {
       const modelSource = modelWords === undefined ? {} : { model: { source: String(args.models), kind: model.kind, description: modelWords.description } };
-      io.stdout(`${JSON.stringify({ ...modelSource, gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, warnings, controller }, null, 2)}\n`);
+      io.stdout(
+        `${JSON.stringify({ ...modelSource, controller, gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, sampledMargins, warnings }, null, 2)}\n`,
+      );
     } else {
       const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${String(args.models)})`, ...modelWords.warnings.map((warning) => `Warning: ${warning}`)];
-      io.stdout(`${[...header, describeTunedOperatingPoint(point)].join('\n')}\n`);
+      io.stdout(`${[...header, `Controller: ${describeControllerSettings(controller)}`, describeTunedOperatingPoint(point, sampledMargins)].join('\n')}\n`);
     }
-    return point.margins.stable ? EXIT.ok : EXIT.failed;
+    return point.margins.stable && sampledMargins.stable ? EXIT.ok : EXIT.failed;
   },
 };
 
