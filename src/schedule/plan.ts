@@ -10,6 +10,8 @@ import { validatePlanFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import type { ControllerType, RuleName } from '../tuning/types.js';
 import { PLAN_SCHEMA } from './plan-schema.js';
+import { planReferenceHint } from './plan-reference-path.js';
+import { findRule, parameterNotTakenWords, parametersNotTaken } from '../tuning/registry.js';
 import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
 
 export type LoopKind = 'yaw-rate' | 'heading' | 'path';
@@ -117,10 +119,25 @@ export const PLAN_DEFAULTS: Plan = {
   check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track' },
 };
 
-const validatePlan = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile);
+const validateSchema = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile, planReferenceHint);
+
+/** Schema, then the rule's parameters: one the rule does not take is refused (it would be ignored), naming those it takes. */
+function validatePlan(value: unknown, file: string): PartialPlan {
+  const plan = validateSchema(value, file);
+  const rule = findRule(plan.rule?.name ?? PLAN_DEFAULTS.rule.name);
+  const notTaken = parametersNotTaken(rule, Object.keys(plan.rule?.parameters ?? {}));
+  if (notTaken.length > 0) {
+    throw new SpeedbandError(
+      'plan.parameterNotTaken',
+      `${parameterNotTakenWords(rule, notTaken[0])}${plan.rule?.name === undefined ? ' (simc is the default rule: name another with "rule": {"name": …})' : ''} — remove it or change the rule\n${planReferenceHint()}`,
+      { location: { file, jsonPath: `/rule/parameters/${notTaken[0]}` }, details: { rule: rule.name, parameters: notTaken, takes: rule.parameters } },
+    );
+  }
+  return plan;
+}
 
 function planError(message: string, jsonPath: string, file?: string): SpeedbandError {
-  return new SpeedbandError('plan.invalid', message, { location: { file, jsonPath } });
+  return new SpeedbandError('plan.invalid', `${message}\n${planReferenceHint()}`, { location: { file, jsonPath } });
 }
 
 function checkSpeedTable(value: SpeedVarying | undefined, jsonPath: string, file?: string): void {

@@ -11,7 +11,7 @@ import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
 import { validateVehicleFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
-import { closestName } from '../log/closest-name.js';
+import { closestName } from '../core/closest-name.js';
 import { VEHICLE_RANGES, VEHICLE_SCHEMA } from './schema.js';
 import type { Vehicle } from './types.js';
 import { QUOTED_TEXT_MAX, cutText, quoted } from '../core/quote.js';

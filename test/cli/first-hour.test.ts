@@ -1,5 +1,5 @@
 // The traps a new user met in the first hour with speedband, each as the command they ran.
-import { mkdtempSync, readdirSync } from 'node:fs';
+import { existsSync, mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -76,5 +76,65 @@ describe('one set of controller defaults: tune, stability and build', () => {
     expect(free.phaseMargin_deg - sampled.phaseMargin_deg).toBeGreaterThan(0.7 * expectedLoss_deg);
     expect(free.phaseMargin_deg - sampled.phaseMargin_deg).toBeLessThan(1.3 * expectedLoss_deg);
     expect((await run([...loop])).out).toMatch(/^controller: backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\)/);
+  });
+});
+
+describe('plan parameters: a parameter the rule does not use is refused, in plans and on the command line', () => {
+  const planFile = (name: string, plan: unknown): string => {
+    const path = join(dir, name);
+    writeFileSync(path, JSON.stringify(plan));
+    return path;
+  };
+
+  it('IMC\'s closedLoopTimeConstant_s in a SIMC plan: exit 2 at its JSON path, naming the parameter SIMC takes and the plan reference', async () => {
+    const plan = planFile('simc-lambda.json', { rule: { name: 'simc', parameters: { closedLoopTimeConstant_s: 0.2 } } });
+    const result = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'never.json')]);
+    expect(result.code).toBe(2);
+    expect(result.err).toMatch(/at \/rule\/parameters\/closedLoopTimeConstant_s: simc does not use closedLoopTimeConstant_s \(a parameter of imc-pid\) — did you mean simcClosedLoopTimeConstant_s\? simc takes controllerType, simcClosedLoopTimeConstant_s/);
+    expect(result.err).toMatch(/plan reference \(every field, its unit, default and source\): docs\/plan\.md/);
+    expect(existsSync(join(dir, 'never.json'))).toBe(false);
+  });
+
+  it('a damping-target parameter in a plan of the default rule (SIMC) is refused the same way', async () => {
+    const plan = planFile('simc-zeta.json', { rule: { parameters: { dampingRatio: 0.8 } } });
+    const result = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'never.json')]);
+    expect(result.code).toBe(2);
+    expect(result.err).toMatch(/simc does not use dampingRatio \(a parameter of damping-target\)/);
+    expect(result.err).toMatch(/simc is the default rule/);
+  });
+
+  it('a misspelt plan field gets the closest field name and the plan reference', async () => {
+    const plan = planFile('typo.json', { acceptance: { minimumPhaseMargin_degs: 50 } });
+    const result = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'never.json')]);
+    expect(result.code).toBe(2);
+    expect(result.err).toMatch(/\/acceptance: unknown field "minimumPhaseMargin_degs" — did you mean "minimumPhaseMargin_deg"\?/);
+    expect(result.err).toMatch(/docs\/plan\.md/);
+  });
+
+  it('tune refuses an option the rule does not use, naming the options it takes', async () => {
+    const result = await run(['tune', '--rule', 'simc', '--damping-ratio', '0.7', '--speed-mps', '8', '--gain', '2.4', '--time-constant-s', '0.12', '--dead-time-s', '0.07']);
+    expect(result.code).toBe(2);
+    expect(result.err).toMatch(/simc does not use --damping-ratio \(a parameter of damping-target\) — simc takes --controller-type, --closed-loop-time-constant-s/);
+    const zieglerNichols = await run(['tune', '--rule', 'ziegler-nichols-step', '--closed-loop-time-constant-s', '0.2', '--speed-mps', '8', '--gain', '2.4', '--time-constant-s', '0.12', '--dead-time-s', '0.07']);
+    expect(zieglerNichols.code).toBe(2);
+    expect(zieglerNichols.err).toMatch(/ziegler-nichols-step does not use --closed-loop-time-constant-s \(a parameter of imc-pid, simc\) — ziegler-nichols-step takes --controller-type/);
+  });
+
+  it('speedband plan --default prints the whole default plan; given back to build it builds the same schedule as no plan', async () => {
+    const printed = await run(['plan', '--default']);
+    expect(printed.code).toBe(0);
+    const plan = JSON.parse(printed.out) as { loop: { kind: string }; acceptance: object; controller: object; check: object };
+    expect(plan.loop.kind).toBe('yaw-rate');
+    expect(Object.keys(plan.acceptance)).toHaveLength(5);
+    const path = planFile('default-plan.json', plan);
+    const out = join(dir, 'with-default-plan.json');
+    expect((await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', path, '--out', out])).code).toBe(0);
+    const [withPlan, without] = [readSchedule(out), readSchedule(schedulePath)];
+    expect(withPlan.breakpoints).toEqual(without.breakpoints);
+    expect(withPlan.controller).toEqual(without.controller);
+    expect(withPlan.check.thresholds).toEqual(without.check.thresholds);
+    const path2 = JSON.parse((await run(['plan', '--default', '--loop', 'path'])).out) as { loop: { kind: string }; description: string };
+    expect(path2.loop.kind).toBe('path');
+    expect(path2.description).toMatch(/damping-target/);
   });
 });

@@ -2,8 +2,8 @@ import { SpeedbandError } from '../../core/errors.js';
 import { CONTROLLER_DEFAULTS, describeControllerSettings, resolveControllerSettings } from '../../controller/defaults.js';
 import type { ControllerSettings, Discretisation } from '../../controller/types.js';
 import { TUNING_DEFAULTS } from '../../tuning/defaults.js';
-import { RULE_NAMES } from '../../tuning/registry.js';
-import type { RuleParameters } from '../../tuning/types.js';
+import { RULE_NAMES, findRule, parameterNotTakenWords, parametersNotTaken } from '../../tuning/registry.js';
+import type { RuleParameterName, RuleParameters } from '../../tuning/types.js';
 import type { Vehicle } from '../../vehicle/types.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
@@ -70,6 +70,7 @@ export const command: CommandModule = {
   run: async (args, io) => {
     const { tuneOperatingPoint } = await import('../../tuning/operating-point.js');
     const { describeTunedOperatingPoint } = await import('../../tuning/describe.js');
+    ruleParametersFromOptions(args, String(args.rule)); // an option the rule does not use is refused before any model is read
     const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
     const speed_mps = numberOption(args, 'speed-mps')!;
     const gain = numberOption(args, 'gain');
@@ -114,15 +115,7 @@ export const command: CommandModule = {
       },
       vehicle?.controllerSampleTime_s,
     );
-    const timeConstant = numberOption(args, 'closed-loop-time-constant-s');
-    const ruleParameters: RuleParameters = {
-      ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] as 'P' | 'PI' | 'PID' }),
-      ...(timeConstant === undefined ? {} : { closedLoopTimeConstant_s: timeConstant, simcClosedLoopTimeConstant_s: timeConstant }),
-      ...optionalNumber('dampingRatio', numberOption(args, 'damping-ratio')),
-      ...optionalNumber('naturalFrequency_radps', numberOption(args, 'natural-frequency-radps')),
-      ...optionalNumber('settlingDistance_m', numberOption(args, 'settling-distance-m')),
-      ...optionalNumber('integralPoleRatio', numberOption(args, 'integral-pole-ratio')),
-    };
+    const ruleParameters = ruleParametersFromOptions(args, String(args.rule));
     const point = tuneOperatingPoint({
       loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
       speed_mps,
@@ -165,6 +158,43 @@ async function modelFromModelsFile(modelsPath: string, given: { path: string; ve
   const { readFileSync } = await import('node:fs');
   const { operatingPointModelFromModels } = await import('../../build/operating-point-from-models.js');
   return operatingPointModelFromModels(models, given.vehicle, speed_mps, sha256Hex(readFileSync(resolveVehiclePath(given.path))));
+}
+
+/** The command-line option of each rule parameter (λ and τc share one option: the rule says which it is). */
+const PARAMETER_OPTIONS: Readonly<Record<RuleParameterName, string>> = {
+  controllerType: '--controller-type',
+  closedLoopTimeConstant_s: '--closed-loop-time-constant-s',
+  simcClosedLoopTimeConstant_s: '--closed-loop-time-constant-s',
+  dampingRatio: '--damping-ratio',
+  naturalFrequency_radps: '--natural-frequency-radps',
+  settlingDistance_m: '--settling-distance-m',
+  integralPoleRatio: '--integral-pole-ratio',
+};
+
+/**
+ * The rule's parameters from the options given; an option the rule does not use is refused (it would be
+ * ignored), naming the options the rule takes. --closed-loop-time-constant-s is IMC's λ or SIMC's τc.
+ */
+function ruleParametersFromOptions(args: Record<string, unknown>, ruleName: string): RuleParameters {
+  const rule = findRule(ruleName);
+  const timeConstant = numberOption(args, 'closed-loop-time-constant-s');
+  const timeConstantName: RuleParameterName = rule.parameters.includes('simcClosedLoopTimeConstant_s') ? 'simcClosedLoopTimeConstant_s' : 'closedLoopTimeConstant_s';
+  const given: RuleParameters = {
+    ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] as 'P' | 'PI' | 'PID' }),
+    ...optionalNumber(timeConstantName, timeConstant),
+    ...optionalNumber('dampingRatio', numberOption(args, 'damping-ratio')),
+    ...optionalNumber('naturalFrequency_radps', numberOption(args, 'natural-frequency-radps')),
+    ...optionalNumber('settlingDistance_m', numberOption(args, 'settling-distance-m')),
+    ...optionalNumber('integralPoleRatio', numberOption(args, 'integral-pole-ratio')),
+  };
+  const notTaken = parametersNotTaken(rule, Object.keys(given));
+  if (notTaken.length > 0) {
+    const shown = (parameter: RuleParameterName): string => PARAMETER_OPTIONS[parameter];
+    throw new SpeedbandError('cli.optionNotTaken', `${parameterNotTakenWords(rule, notTaken[0], shown)} — drop it or choose another --rule`, {
+      details: { rule: rule.name, options: notTaken.map((name) => PARAMETER_OPTIONS[name as RuleParameterName]), takes: [...new Set(rule.parameters.map(shown))] },
+    });
+  }
+  return given;
 }
 
 function optionalNumber<K extends string>(key: K, value: number | undefined): Partial<Record<K, number>> {
