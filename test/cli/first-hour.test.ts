@@ -7,6 +7,7 @@ import { runCli } from '../../src/cli/main.js';
 import { recordingIo } from '../../src/cli/io.js';
 import { CONTROLLER_DEFAULTS } from '../../src/controller/defaults.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
+import { convertLogs } from '../identify/converted-logs.js';
 
 async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
   const io = recordingIo();
@@ -136,5 +137,46 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
     const path2 = JSON.parse((await run(['plan', '--default', '--loop', 'path'])).out) as { loop: { kind: string }; description: string };
     expect(path2.loop.kind).toBe('path');
     expect(path2.description).toMatch(/damping-target/);
+  });
+});
+
+describe('inputs checked against physics: a channel off by a unit factor is refused with its likely unit and the --column fix', () => {
+  // Source: SI and the international yard (1959): 1 km/h = 1/3.6 m/s, 1 mph = 0.44704 m/s (a factor 2.237); 1 rad = 57.2958°.
+  it('speed logged in km/h under speed_mps: build exits 2 naming km/h and the --column fix; with the fix it builds the 2–25 m/s schedule', async () => {
+    const logs = convertLogs(join(VAN, 'logs'), join(dir, 'kph'), { scale: { speed_mps: 3.6 } });
+    const out = join(dir, 'kph-schedule.json');
+    const refused = await run(['build', '--vehicle', VAN, '--logs', ...logs, '--out', out]);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toMatch(/speed_mps \(column "speed_mps" read as m\/s\) reads 3\.60× too high/);
+    expect(refused.err).toMatch(/it looks like km\/h: --column speed_mps=speed_mps:km\/h/);
+    expect(existsSync(out)).toBe(false);
+    const fixed = await run(['build', '--vehicle', VAN, '--logs', ...logs, '--column', 'speed_mps=speed_mps:km/h', '--out', out]);
+    expect(fixed.code).toBe(0);
+    const schedule = readSchedule(out);
+    expect(schedule.check.range.minimum_mps).toBeCloseTo(2, 1);
+    expect(schedule.check.range.maximum_mps).toBeCloseTo(25, 1);
+  });
+
+  it('speed in mph, without lateral acceleration or measured steer angle logged: identify exits 2 naming mph from the kinematic yaw gain alone', async () => {
+    const logs = convertLogs(join(VAN, 'logs'), join(dir, 'mph'), { scale: { speed_mps: 1 / 0.44704 }, drop: ['lat_accel_mps2', 'steer_angle_rad'] });
+    const refused = await run(['identify', '--vehicle', VAN, '--logs', ...logs, '--json']);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toMatch(/speed_mps \(column "speed_mps" read as m\/s\) reads 2\.24× too high/);
+    expect(refused.err).toMatch(/kinematic v\/L/);
+    expect(refused.err).toMatch(/--column speed_mps=speed_mps:mph/);
+    expect(refused.err).toMatch(/logging lat_accel_mps2 and steer_angle_rad tells the channels apart/);
+  });
+
+  it('a steering-wheel angle in degrees mapped as a road-wheel angle in degrees: exit 2 naming the steering ratio\'s unit, steering-wheel-deg', async () => {
+    // The van's steering ratio is 18; its logs from 15 m/s up keep the steering-wheel angle below the road-wheel limit.
+    const logs = convertLogs(join(VAN, 'logs'), join(dir, 'steering-wheel'), { scale: { steer_cmd_rad: 18 * (180 / Math.PI) }, only: /(15|18|21|25)\.00mps/ });
+    const refused = await run(['build', '--vehicle', VAN, '--logs', ...logs, '--column', 'steer_cmd_rad=steer_cmd_rad:deg', '--out', join(dir, 'never.json')]);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toMatch(/steer_cmd_rad \(column "steer_cmd_rad" read as deg\) reads 18\.0× too high/);
+    expect(refused.err).toMatch(/--column steer_cmd_rad=steer_cmd_rad:steering-wheel-deg/);
+    // In a radian column the same angles are refused on reading, as a steering-wheel angle or degrees.
+    const unmapped = await run(['build', '--vehicle', VAN, '--logs', ...logs, '--out', join(dir, 'never.json')]);
+    expect(unmapped.code).toBe(2);
+    expect(unmapped.err).toMatch(/steering-wheel-deg/);
   });
 });
