@@ -17,6 +17,7 @@ import { quoted } from '../core/quote.js';
 import { gainSlopes } from '../schedule/interpolate.js';
 import { scheduleLookupSettings, scheduleTable } from '../schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
+import { modelWords } from '../schedule/schedule-text.js';
 import type { GainTable, WorstMargins, WorstValue } from '../schedule/types.js';
 import { cComment, commentSafe } from './c-comment.js';
 import { LOOKUP_STATUS, lookupFunctionsText } from './c-lookup.js';
@@ -128,7 +129,7 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
       : `Arithmetic: integers only (no floating point). Speed in units of 2^-16 m/s; gains kp ${formatName(quantisation.formats.kp)}, ki ${formatName(quantisation.formats.ki)}, ` +
         `kd ${formatName(quantisation.formats.kd)} (value = integer / 2^F); largest error against the exact lookup kp ${quantisation.errors.kp.maxAbsoluteInterpolated.toPrecision(3)}, ` +
         `ki ${quantisation.errors.ki.maxAbsoluteInterpolated.toPrecision(3)}, kd ${quantisation.errors.kd.maxAbsoluteInterpolated.toPrecision(3)}.`,
-    `Dense check of the gains in this header (${schedule.check.model.kind} model, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
+    `Dense check of the gains in this header (${modelWords(schedule.check.model.kind)}, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
       `${check.passed ? 'PASSED' : `FAILED at ${check.failedSpeeds} speeds`}.`,
     ...worstLines(check.worst),
     `Lookup status: ${upper}_LOOKUP_OK (${LOOKUP_STATUS.OK.value}), ${upper}_LOOKUP_FALLBACK (${LOOKUP_STATUS.FALLBACK.value}), ${upper}_LOOKUP_NO_GAINS (${LOOKUP_STATUS.NO_GAINS.value}): check it.`,

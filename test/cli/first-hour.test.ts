@@ -180,3 +180,111 @@ describe('inputs checked against physics: a channel off by a unit factor is refu
     expect(unmapped.err).toMatch(/steering-wheel-deg/);
   });
 });
+
+describe('machine and human output', () => {
+  it('under --json an error is JSON on standard output {"error": {code, message, location}} with exit 2 (bad input and usage alike)', async () => {
+    const missing = await run(['build', '--vehicle', VAN, '--models', join(dir, 'no-such-models.json'), '--out', join(dir, 'never.json'), '--json']);
+    expect(missing.code).toBe(2);
+    const error = (JSON.parse(missing.out) as { error: { code: string; message: string; location: { file?: string } } }).error;
+    expect(error.code).toBe('file.unreadable');
+    expect(error.location.file).toBe(join(dir, 'no-such-models.json'));
+    expect(error.message).toMatch(/no such file/);
+    const logs = convertLogs(join(VAN, 'logs'), join(dir, 'kph-json'), { scale: { speed_mps: 3.6 } });
+    const scaled = await run(['identify', '--vehicle', VAN, '--logs', ...logs, '--json']);
+    expect(scaled.code).toBe(2);
+    expect((JSON.parse(scaled.out) as { error: { code: string } }).error.code).toBe('identify.channelScale');
+    const usage = await run(['check', schedulePath, '--vehicle', VAN, '--unheard-of-option', '--json']);
+    expect(usage.code).toBe(2);
+    expect((JSON.parse(usage.out) as { error: { code: string; message: string } }).error).toMatchObject({ code: 'cli.usage', message: expect.stringMatching(/Unknown argument.*unheard-of-option/) });
+    // Without --json the error stays words on standard error only.
+    const words = await run(['build', '--vehicle', VAN, '--models', join(dir, 'no-such-models.json'), '--out', join(dir, 'never.json')]);
+    expect(words.out).toBe('');
+    expect(words.err).toMatch(/^speedband: .*no-such-models\.json/);
+  });
+
+  it('every command\'s --help lists its exit codes, 0, 2 and 3 at least', async () => {
+    const { COMMANDS } = await import('../../src/cli/commands/index.js');
+    for (const command of COMMANDS) {
+      const name = command.command.split(' ')[0];
+      const help = await run([name, '--help']);
+      expect(help.code, name).toBe(0);
+      const section = help.out.slice(help.out.indexOf('Exit codes:'), help.out.indexOf('Safety:'));
+      expect(section, name).toMatch(/^Exit codes:\n {2}0 {2}\S/);
+      expect(section, name).toMatch(/^ {2}2 {2}\S/m);
+      expect(section, name).toMatch(/^ {2}3 {2}a bug in speedband/m);
+    }
+    const build = await run(['build', '--help']);
+    expect(build.out.replace(/\s+/g, ' ')).toMatch(/ 1 the schedule failed its dense check .* or with --baseline the OLD gains fail on the new vehicle model .* the output says which/);
+  });
+
+  it('build --baseline: exit 1 says it is the old gains that fail, and that the new schedule passed and was written', async () => {
+    const loadedLogs = readdirSync('vehicles/parcel-van-loaded/logs').filter((name) => name.endsWith('.csv')).map((name) => join('vehicles/parcel-van-loaded/logs', name));
+    const out = join(dir, 'loaded.json');
+    const text = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--logs', ...loadedLogs, '--baseline', schedulePath, '--out', out]);
+    expect(text.code).toBe(1);
+    expect(readSchedule(out).status).toBe('passed');
+    expect(text.out).toMatch(/Exit 1: the OLD gains of the baseline \S+ fail on the new vehicle model at \d+ of \d+ speeds \(the new schedule passed and was written\)\./);
+    const json = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--logs', ...loadedLogs, '--baseline', schedulePath, '--out', out, '--json']);
+    const parsed = JSON.parse(json.out) as { exitCode: number; exitReasons: string[]; status: string; baseline: { failures: { speed_mps: number; messages: string[] }[] } };
+    expect(parsed.exitCode).toBe(1);
+    expect(parsed.status).toBe('passed');
+    expect(parsed.exitReasons).toHaveLength(1);
+    expect(parsed.baseline.failures[0]).toEqual({ speed_mps: expect.any(Number), messages: [expect.any(String), ...parsed.baseline.failures[0].messages.slice(1)] });
+  });
+
+  it('the build table shows pass or FAIL against the limits beside the closed-loop verdict; failing speeds have one JSON shape in build and check', async () => {
+    const plan = join(dir, 'heading.json');
+    writeFileSync(plan, JSON.stringify({ loop: { kind: 'heading' } }));
+    const out = join(dir, 'heading-schedule.json');
+    const built = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', out, '--allow-failing']);
+    expect(built.code).toBe(1);
+    // A stable loop below the phase-margin limit: "stable" in the closed-loop column, "FAIL: PM" under the limits.
+    expect(built.out).toMatch(/closed loop\s+limits/);
+    expect(built.out).toMatch(/\s25\.00\s.*\sstable\s+FAIL: PM, Ms/);
+    expect(built.out).toMatch(/\s2\.00\s.*\sstable\s+pass/);
+    const buildJson = JSON.parse((await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', out, '--allow-failing', '--json'])).out) as {
+      check: { failures: { speed_mps: number; messages: string[] }[] };
+    };
+    const checkJson = JSON.parse((await run(['check', out, '--vehicle', VAN, '--json'])).out) as { failures: { speed_mps: number; messages: string[] }[] };
+    expect(Object.keys(checkJson.failures[0]).sort()).toEqual(['messages', 'speed_mps']);
+    expect(Object.keys(buildJson.check.failures[0]).sort()).toEqual(['messages', 'speed_mps']);
+    expect(checkJson.failures[0]).toEqual(buildJson.check.failures[0]);
+  });
+
+  it('labels in plain words: the model of the check and what limited a step amplitude', async () => {
+    const plan = join(dir, 'lumped.json');
+    writeFileSync(plan, JSON.stringify({ check: { model: 'interpolated-lumped' } }));
+    const built = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'lumped-schedule.json')]);
+    expect(built.out).toMatch(/dense check on the per-speed models interpolated in speed,/);
+    expect(built.out).not.toMatch(/interpolated-lumped/);
+    const logs = await run(['make-test-logs', '--vehicle', VAN, '--speeds', '2,10', '--out', join(dir, 'made')]);
+    expect(logs.out).toMatch(/steer rate limit/);
+    expect(logs.out).toMatch(/lateral acceleration target/);
+    expect(logs.out).not.toMatch(/rateLimit|lateralAcceleration\b/);
+  });
+});
+
+describe('models of another vehicle, and gains beyond the tested speeds', () => {
+  it('build --models refuses models identified with another vehicle file unless --allow-other-vehicle', async () => {
+    const refused = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--models', modelsPath, '--out', join(dir, 'other.json')]);
+    expect(refused.code).toBe(2);
+    expect(refused.err).toMatch(/the models were identified with another vehicle file \("parcel-van", "vehicle\.json", SHA-256 [0-9a-f]{12}…\) than the one given \("parcel-van-loaded"/);
+    expect(refused.err).toMatch(/--allow-other-vehicle/);
+    expect(existsSync(join(dir, 'other.json'))).toBe(false);
+    const allowed = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--models', modelsPath, '--out', join(dir, 'other.json'), '--allow-other-vehicle']);
+    expect([0, 1]).toContain(allowed.code);
+  });
+
+  it('tune below the tested speeds says how far and how large the gains are against the lowest tested speed', async () => {
+    const low = await run(['tune', '--rule', 'simc', '--speed-mps', '0.5', '--models', modelsPath, '--vehicle', VAN, '--json']);
+    const at2 = await run(['tune', '--rule', 'simc', '--speed-mps', String(readSchedule(schedulePath).breakpoints[0].speed_mps), '--models', modelsPath, '--vehicle', VAN, '--json']);
+    const [gains, reference] = [JSON.parse(low.out) as { gains: { kp: number; ki: number }; warnings: string[] }, JSON.parse(at2.out) as { gains: { kp: number; ki: number } }];
+    const warning = gains.warnings.find((text) => /below the lowest tested speed/.test(text));
+    expect(warning).toMatch(/^0\.5 m\/s is 1\.5 m\/s \(75 %\) below the lowest tested speed, 2 m\/s: the model is extrapolated there, and the gains are kp [\d.]+×, ki [\d.]+× those at 2 m\/s/);
+    const kpRatio = Number(/kp ([\d.]+)×/.exec(warning ?? '')?.[1]);
+    expect(kpRatio).toBeCloseTo(gains.gains.kp / reference.gains.kp, 2);
+    expect(kpRatio).toBeGreaterThan(2);
+    const text = await run(['tune', '--rule', 'simc', '--speed-mps', '0.5', '--models', modelsPath, '--vehicle', VAN]);
+    expect(text.out).toMatch(/^Warning: 0\.5 m\/s is 1\.5 m\/s \(75 %\) below the lowest tested speed/m);
+  });
+});

@@ -76,7 +76,7 @@ describe('speedband stability', () => {
     const help = await run(['stability', '--help']);
     expect(help.code).toBe(0);
     expect(help.out).toMatch(/--delay-s\s+Plant delay θ/);
-    expect(help.out).toMatch(/Exit code: 0 when the loop is stable, 1 when it is unstable/);
+    expect(help.out).toMatch(/Exit codes:\n  0  the loop is stable\n  1  it is not stable/);
     expect(help.out).toMatch(/Examples:/);
   });
 

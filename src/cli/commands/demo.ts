@@ -46,6 +46,11 @@ export const command: CommandModule = {
       .option('out', { type: 'string', default: 'speedband-demo', describe: 'Folder for models.json, schedule.json, schedule.h and schedule.csv' })
       .option('vehicle', { type: 'string', default: 'parcel-van', describe: 'Bundled demo vehicle: parcel-van, parcel-van-loaded, vineyard-sprayer or sidewalk-robot (any command takes these names as --vehicle, from any folder)' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing files in the folder whose content differs' }),
+  exitCodes: [
+    [0, 'the demo schedule passed its dense check and the independent re-check'],
+    [1, 'it failed one of them (the files are still written, the schedule marked failed)'],
+    [2, 'bad input: unknown demo vehicle, an output folder that cannot be written'],
+  ],
   examples: [
     ['speedband demo', 'The parcel van, into ./speedband-demo'],
     ['speedband demo --vehicle vineyard-sprayer --out sprayer-demo', 'The sprayer with its slow hydraulic steering'],

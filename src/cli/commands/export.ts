@@ -50,6 +50,11 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
         })
         .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs (never the schedule itself)' })
         .option('json', { type: 'boolean', default: false, describe: 'With --out: print a JSON summary (file, format, checksum, quantisation errors) instead of text' }),
+    exitCodes: [
+      [0, 'written (or printed); the exported gains passed the re-run dense check'],
+      [1, 'not written: the schedule failed its check or the exported (quantised) gains fail it — or written with --allow-failing, for review only'],
+      [2, 'bad input: unreadable, invalid or edited schedule (checksum), bad option, a gain that does not fit the Q format'],
+    ],
     examples: [
       ['speedband export schedule.json --format c --out firmware/steer_schedule.h', 'C99 header with the lookup, units, controller equation, checksum and cautions'],
       ['speedband export schedule.json --format c --q-format Q16.16 --out steer_schedule_q16.h', 'Gains as Q16.16 int32_t with an integer-only lookup; prints the error per gain'],
@@ -174,7 +179,10 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
           status: schedule.status,
           checksum: schedule.checksum.value,
           breakpoints: schedule.breakpoints.length,
-          check: check === null ? null : { passed: check.passed, gridSize: check.points.length, failedSpeeds: check.failedCount, worst: check.worst },
+          check:
+            check === null
+              ? null
+              : { passed: check.passed, gridSize: check.points.length, failedSpeeds: check.failedCount, failures: (await import('../../schedule/dense-check.js')).failingSpeeds(check.points), worst: check.worst },
           fallback,
           quantisation:
             quantisation === undefined

@@ -9,11 +9,14 @@ export const command: CommandModule = {
   builder: (yargs) =>
     yargs
       .option('default', { type: 'boolean', default: false, describe: 'Print the default plan (required: the only thing this command does today)' })
-      .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'], describe: 'The loop the plan is for (default yaw-rate)' })
-      .epilogue(
-        'The plan printed, given to `speedband build --plan`, builds what no plan builds. Fields whose default the data decide (speed range, sample time, latency) are left out ' +
-          'and named in its "description". Every field with its unit, default and source: docs/plan.md in the speedband package.',
-      ),
+      .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'], describe: 'The loop the plan is for (default yaw-rate)' }),
+  epilogue:
+    'The plan printed, given to `speedband build --plan`, builds what no plan builds. Fields whose default the data decide (speed range, sample time, latency) are left out ' +
+    'and named in its "description". Every field with its unit, default and source: docs/plan.md in the speedband package.',
+  exitCodes: [
+    [0, 'the plan was printed'],
+    [2, 'bad usage'],
+  ],
   examples: [
     ['speedband plan --default > plan.json', 'Start a plan from the defaults, then edit it'],
     ['speedband plan --default --loop path', 'The defaults for a path loop'],

@@ -77,8 +77,7 @@ export const command: CommandModule = {
           'encirclement count, which must agree. The controller is the discrete PID the firmware runs, with the defaults of tune and build (0.01 s, one sample of latency, backward Euler, N = 10), and the loop is analysed exactly as sampled: ' +
           'the zero-order-hold equivalent of the plant with its fractional delay; margins, Ms and Mt on its frequency response up to the Nyquist frequency π/Ts ' +
           '(the delay margin in seconds of continuous time; the firmware adds delay in whole samples only), and the verdict from its closed-loop poles inside |z| < 1, ' +
-          'which the Nyquist count must confirm. With --continuous, the continuous PID on the plant with its exact delay instead.\n\n' +
-          'Exit code: 0 when the loop is stable, 1 when it is unstable or the two tests disagree (undetermined), 2 for bad input.',
+          'which the Nyquist count must confirm. With --continuous, the continuous PID on the plant with its exact delay instead.',
       )
       .option('numerator', { type: 'string', describe: 'Plant numerator coefficients, highest power first, e.g. "2 1" (a leading minus needs the = form: --numerator="-2 1")' })
       .option('denominator', { type: 'string', describe: 'Plant denominator coefficients, highest power first, e.g. "1 3 2"' })
@@ -103,6 +102,11 @@ export const command: CommandModule = {
         describe: 'Analyse a continuous PID instead (no sampling; latency 0 s unless --latency-s): textbook loops, or a controller much faster than the plant',
       })
       .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' }),
+  exitCodes: [
+    [0, 'the loop is stable'],
+    [1, 'it is not stable, or the two tests (closed-loop poles, Nyquist count) do not agree'],
+    [2, 'bad input: plant, controller or options'],
+  ],
   examples: [
     ['speedband stability --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5', 'A yaw-rate PI loop on an identified FOPDT, run as firmware at 100 Hz with one sample of latency'],
     ['speedband stability --numerator 1 --denominator "1 0 0" --delay-s 1 --kp 0.0625 --ki 8 --kd 8 --form series --derivative-filter none --continuous', 'SIMC PID on a double integrator with delay, continuous as in the paper: both gain margins'],

@@ -5,6 +5,7 @@ import { TUNING_DEFAULTS } from '../../tuning/defaults.js';
 import { RULE_NAMES, findRule, parameterNotTakenWords, parametersNotTaken } from '../../tuning/registry.js';
 import type { RuleParameterName, RuleParameters } from '../../tuning/types.js';
 import type { Vehicle } from '../../vehicle/types.js';
+import type { OperatingPointModel } from '../../tuning/operating-point.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
 import { QUOTED_TEXT_MAX, cutText, quoted } from '../../core/quote.js';
@@ -30,7 +31,8 @@ export const command: CommandModule = {
           'else the per-speed FOPDT models interpolated between the test speeds — the model `speedband build` tunes on); a lumped steer-command → yaw-rate FOPDT K·e^(−Ls)/(Ts + 1) given by hand; ' +
           'or a vehicle file alone with nominal cornering stiffnesses (single-track model with its actuator; nominal values are for the simulator — to tune a real vehicle, identify it and use --models). ' +
           'The rule is applied to the design model of the chosen loop (yaw rate: self-regulating; heading: integrating; path: double-integrating); the margins are computed on the full loop with the exact delay, ' +
-          'the derivative filter and the controller delay Ts/2 + latency. Exit code 0 when the tuned loop is stable, 1 when not, 2 for bad input or a rule that does not apply.',
+          'the derivative filter and the controller delay Ts/2 + latency, and again with the discrete PID the firmware runs (the exact sampled loop, as build and check judge it). ' +
+          'The controller settings default as in build: the vehicle file\'s sample time (else 0.01 s), one sample of latency, backward Euler, N = 10.',
       )
       .option('rule', { type: 'string', choices: [...RULE_NAMES], demandOption: true, describe: 'Tuning rule' })
       .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'], default: 'yaw-rate', describe: 'The loop the firmware closes' })
@@ -61,6 +63,11 @@ export const command: CommandModule = {
         describe: `Discretisation of the firmware's PID, for the margins of the sampled loop (default ${CONTROLLER_DEFAULTS.discretisation}, as build)`,
       })
       .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' }),
+  exitCodes: [
+    [0, 'the tuned loop is stable, as designed and with the discrete PID'],
+    [1, 'it is not stable'],
+    [2, 'bad input, an option the rule does not use, or a rule that does not apply to the loop (the rules that do are named)'],
+  ],
   examples: [
     ['speedband tune --rule simc --loop heading --speed-mps 10 --models models.json --vehicle vehicles/parcel-van', 'SIMC for a heading loop on the model identified by `speedband identify` (joint single-track fit)'],
     ['speedband tune --rule simc --loop yaw-rate --speed-mps 8 --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07', 'SIMC PI for a yaw-rate loop from an identified FOPDT'],
@@ -87,11 +94,14 @@ export const command: CommandModule = {
       );
     }
     let model;
-    let modelWords: { description: string; warnings: readonly string[] } | undefined;
+    let modelWords: { description: string; warnings: readonly string[]; testSpeeds_mps: readonly number[] } | undefined;
+    let modelFromModels: ((at_mps: number) => OperatingPointModel) | undefined;
     if (args.models !== undefined) {
-      const fromModels = await modelFromModelsFile(String(args.models), vehicle === undefined ? undefined : { path: String(args.vehicle), vehicle }, fopdtGiven, speed_mps);
+      const given = vehicle === undefined ? undefined : { path: String(args.vehicle), vehicle };
+      const fromModels = await modelFromModelsFile(String(args.models), given, fopdtGiven, speed_mps);
       model = fromModels.model;
       modelWords = fromModels;
+      modelFromModels = (at_mps) => fromModels.modelAt(at_mps);
     } else if (fopdtGiven === 3) {
       if (timeConstant_s! < 0 || deadTime_s! < 0) {
         throw new SpeedbandError('cli.badNumber', `FOPDT times must be ≥ 0 s; got time constant ${timeConstant_s} s and dead time ${deadTime_s} s`);
@@ -116,15 +126,27 @@ export const command: CommandModule = {
       vehicle?.controllerSampleTime_s,
     );
     const ruleParameters = ruleParametersFromOptions(args, String(args.rule));
-    const point = tuneOperatingPoint({
+    const request = {
       loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
       speed_mps,
       model,
       rule: String(args.rule),
       ruleParameters,
       controller,
-    });
-    const warnings = [...(modelWords?.warnings ?? []), ...point.warnings];
+    };
+    const point = tuneOperatingPoint(request);
+    // Beyond the tested speeds: how far, and how large the gains are against those at the nearest test speed.
+    const extrapolation =
+      modelWords === undefined
+        ? null
+        : (await import('../../build/extrapolation.js')).extrapolationAt(speed_mps, modelWords.testSpeeds_mps, (at) =>
+            at === speed_mps ? point.gains : tuneOperatingPoint({ ...request, speed_mps: at, model: modelFromModels!(at) }).gains,
+          );
+    const warnings = [
+      ...(modelWords?.warnings ?? []),
+      ...(extrapolation === null ? [] : [(await import('../../build/extrapolation.js')).extrapolationWords(extrapolation)]),
+      ...point.warnings,
+    ];
     // The margins of the discrete PID the firmware runs: the analysis of build's dense check.
     const sampledMargins = (await import('../../build/loop-analysis.js')).analyseSampledLoop(point.loop, point.gains, controller);
     if (args.json) {
@@ -133,7 +155,8 @@ export const command: CommandModule = {
         `${JSON.stringify({ ...modelSource, controller, gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, sampledMargins, warnings }, null, 2)}\n`,
       );
     } else {
-      const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${String(args.models)})`, ...modelWords.warnings.map((warning) => `Warning: ${warning}`)];
+      const modelWarnings = warnings.slice(0, warnings.length - point.warnings.length);
+      const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${String(args.models)})`, ...modelWarnings.map((warning) => `Warning: ${warning}`)];
       io.stdout(`${[...header, `Controller: ${describeControllerSettings(controller)}`, describeTunedOperatingPoint(point, sampledMargins)].join('\n')}\n`);
     }
     return point.margins.stable && sampledMargins.stable ? EXIT.ok : EXIT.failed;
@@ -157,7 +180,11 @@ async function modelFromModelsFile(modelsPath: string, given: { path: string; ve
   const { sha256Hex } = await import('../../core/files.js');
   const { readFileSync } = await import('node:fs');
   const { operatingPointModelFromModels } = await import('../../build/operating-point-from-models.js');
-  return operatingPointModelFromModels(models, given.vehicle, speed_mps, sha256Hex(readFileSync(resolveVehiclePath(given.path))));
+  const vehicleSha256 = sha256Hex(readFileSync(resolveVehiclePath(given.path)));
+  return {
+    ...operatingPointModelFromModels(models, given.vehicle, speed_mps, vehicleSha256),
+    modelAt: (at_mps: number) => operatingPointModelFromModels(models, given.vehicle, at_mps).model,
+  };
 }
 
 /** The command-line option of each rule parameter (λ and τc share one option: the rule says which it is). */
