@@ -36,6 +36,27 @@ beforeAll(async () => {
   buildOutput = built.out;
 });
 
+describe('the same log options on every command that reads logs', () => {
+  it('build, check, identify, inspect and reverify take --column and --log-profile, described alike (one definition)', async () => {
+    const { COMMANDS } = await import('../../src/cli/commands/index.js');
+    const readers: string[] = [];
+    for (const command of COMMANDS) {
+      const name = command.command.split(' ')[0];
+      const help = (await run([name, '--help'])).out.replace(/\s+/g, ' ');
+      if (!/--logs\b|<logs\.\.>/.test(help)) continue;
+      readers.push(name);
+      expect(help, name).toMatch(/--column Map one channel, CHANNEL=HEADER\[:UNIT\] \(overrides the profile; repeatable\)/);
+      expect(help, name).toMatch(/--log-profile JSON file naming the log columns and their units/);
+    }
+    expect(readers.sort()).toEqual(['build', 'check', 'identify', 'inspect', 'reverify']);
+    // identify reads a column in another unit, as its missing-column error recommends.
+    const logs = convertLogs(join(VAN, 'logs'), join(dir, 'identify-kph'), { scale: { speed_mps: 3.6 }, only: /(02|10|25)\.00mps/ });
+    const identified = await run(['identify', '--vehicle', VAN, '--logs', ...logs, '--column', 'speed_mps=speed_mps:km/h', '--json', '--no-second-order']);
+    expect(identified.code, identified.err).toBe(0);
+    expect((JSON.parse(identified.out) as { speeds: { speed_mps: number }[] }).speeds.map((speed) => Math.round(speed.speed_mps))).toEqual([2, 10, 25]);
+  });
+});
+
 describe('one set of controller defaults: tune, stability and build', () => {
   it('tune at a breakpoint speed gives the gains build wrote there, with the default settings of both', async () => {
     const schedule = readSchedule(schedulePath);
