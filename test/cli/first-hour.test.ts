@@ -82,6 +82,8 @@ describe('one set of controller defaults: tune, stability and build', () => {
     expect(buildOutput).toMatch(/controller the gains assume: backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\), derivative filter N = 10/);
     const tuned = await run(['tune', '--rule', 'simc', '--speed-mps', '9', '--models', modelsPath, '--vehicle', VAN]);
     expect(tuned.out).toMatch(/^Controller: backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\), derivative filter N = 10$/m);
+    const compared = await run(['compare', schedulePath, schedulePath]);
+    expect(compared.out).toMatch(/controller the gains assume \(both\): backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\)/);
   });
 
   it('stability analyses the same discrete controller by default (0.01 s, one sample of latency); --continuous analyses the continuous PID', async () => {
