@@ -113,3 +113,16 @@ describe('development dependencies are each used by the tests, benchmarks, scrip
     expect(unused).toEqual([]);
   });
 });
+
+describe('a fresh `npm ci` is quiet', () => {
+  it('every installed package with an install script is reviewed in package.json "allowScripts" (npm 11.16+ warns about the others)', () => {
+    // Source: npm CLI documentation, `npm install-scripts` / `npm approve-scripts` (the allowScripts field of package.json).
+    const lock = JSON.parse(readFileSync(join(ROOT, 'package-lock.json'), 'utf8')) as { packages: Record<string, { hasInstallScript?: boolean }> };
+    const withScripts = Object.entries(lock.packages)
+      .filter(([path, entry]) => path !== '' && entry.hasInstallScript === true)
+      .map(([path]) => path.slice(path.lastIndexOf('node_modules/') + 'node_modules/'.length));
+    const allowScripts = (JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')) as { allowScripts?: Record<string, boolean> }).allowScripts ?? {};
+    expect(withScripts.length).toBeGreaterThan(0);
+    expect(withScripts.filter((name) => typeof allowScripts[name] !== 'boolean')).toEqual([]);
+  });
+});

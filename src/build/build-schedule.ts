@@ -24,6 +24,9 @@ import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
 import { checkModelFromModels, type CheckModel } from './check-model.js';
 import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
+import { extrapolationAt, type Extrapolation } from './extrapolation.js';
+import { quoted } from '../core/quote.js';
+import { basename } from 'node:path';
 
 /** Identification options `build` overrides: only the FOPDT and joint single-track fits feed a schedule. */
 export const BUILD_IDENTIFY_OPTIONS: Partial<IdentifyOptions> = { fitSecondOrder: false };
@@ -42,6 +45,11 @@ export interface BuildInput {
   readonly readOptions?: ReadLogOptions;
   /** Progress lines for long runs. */
   readonly progress?: (text: string) => void;
+  /**
+   * Accept `models` identified with another vehicle file (default false: `build.otherVehicle`). The joint
+   * fit's stiffnesses were fitted with that file's mass, inertia and geometry.
+   */
+  readonly allowOtherVehicle?: boolean;
 }
 
 export interface BuildResult {
@@ -52,6 +60,8 @@ export interface BuildResult {
   readonly refinement: RefineResult;
   /** The rule's derivation at each final breakpoint (gains, design model, intermediate quantities, warnings). */
   readonly tuned: readonly TunedOperatingPoint[];
+  /** Breakpoints outside the tested speeds: how far, and their gains against those at the nearest test speed. */
+  readonly extrapolations: readonly Extrapolation[];
 }
 
 /** A tuning error at one speed, with that speed in its words and details (a plan's parameters may vary with speed). */
@@ -89,6 +99,16 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const progress = input.progress ?? (() => {});
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
+  const vehicleSha256 = sha256Hex(readFileSync(vehicleFile));
+  if (input.models !== undefined && input.models.vehicle.sha256 !== vehicleSha256 && input.allowOtherVehicle !== true) {
+    throw new SpeedbandError(
+      'build.otherVehicle',
+      `the models were identified with another vehicle file (${quoted(input.models.vehicle.name)}, ${quoted(basename(input.models.vehicle.file))}, SHA-256 ${input.models.vehicle.sha256.slice(0, 12)}…) ` +
+        `than the one given (${quoted(vehicle.name)}, SHA-256 ${vehicleSha256.slice(0, 12)}…): their stiffnesses were fitted with that file's mass, inertia and geometry — ` +
+        'give the vehicle file they were identified with, identify again from the logs, or pass --allow-other-vehicle if the change is deliberate',
+      { location: { file: vehicleFile }, details: { modelsVehicle: input.models.vehicle, vehicleSha256 } },
+    );
+  }
   const written: PartialPlan = input.planFile !== undefined ? readPlanFile(input.planFile) : (input.plan ?? {});
   const ruleParametersAt = await makeRuleParameterLookup(written.rule?.parameters ?? {}, input.planFile);
   // The schedule uses the joint single-track fit (or the per-speed FOPDT when that is refused), never the
@@ -136,7 +156,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const tuned = refinement.table.speeds_mps.map((speed) => tune(speed));
 
   const inputs = [
-    { file: vehicleFile, sha256: sha256Hex(readFileSync(vehicleFile)), role: 'vehicle' },
+    { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
     // Logs in the canonical order of identification (by content hash), whatever order a models file lists them in.
     ...[...models.inputs]
       .sort((a, b) => (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : a.file < b.file ? -1 : a.file > b.file ? 1 : 0))
@@ -160,5 +180,6 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
       ? {}
       : { ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps) => ({ speed_mps, parameters: { ...ruleParametersAt(speed_mps) } })) }),
   });
-  return { schedule, models, plan, checkModel, refinement, tuned };
+  const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
+  return { schedule, models, plan, checkModel, refinement, tuned, extrapolations };
 }

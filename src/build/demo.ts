@@ -4,7 +4,6 @@
  */
 import { readdirSync } from 'node:fs';
 import { join, relative } from 'node:path';
-import { fileURLToPath } from 'node:url';
 import { SpeedbandError } from '../core/errors.js';
 import type { WriteOutcome } from '../core/files.js';
 import { writeFileAtomic } from '../core/files.js';
@@ -20,9 +19,9 @@ import { findFallbackGains } from './export-check.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
 import { recheckSchedule, recordedCheckModel } from './recheck-schedule.js';
 import { quoted } from '../core/quote.js';
+import { BUNDLED_VEHICLES, bundledVehicles } from '../vehicle/bundled.js';
 
-/** The bundled vehicles folder (…/vehicles beside src/ or dist/). */
-export const BUNDLED_VEHICLES = fileURLToPath(new URL('../../vehicles/', import.meta.url));
+export { BUNDLED_VEHICLES, bundledVehicles } from '../vehicle/bundled.js';
 
 export const DEMO_DEFAULTS = { vehicle: 'parcel-van', outDir: 'speedband-demo' } as const;
 
@@ -39,13 +38,6 @@ export interface DemoResult {
   readonly files: readonly { readonly path: string; readonly what: string; readonly outcome: WriteOutcome }[];
 }
 
-/** Names of the bundled demo vehicles (folders with a vehicle.json and logs/). */
-export function bundledVehicles(): string[] {
-  return readdirSync(BUNDLED_VEHICLES, { withFileTypes: true })
-    .filter((entry) => entry.isDirectory())
-    .map((entry) => entry.name)
-    .sort();
-}
 
 /** Run the demo; a failing schedule is still written (marked failed) so that it can be looked at. */
 export async function runDemo(input: DemoInput): Promise<DemoResult> {

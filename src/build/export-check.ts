@@ -12,6 +12,7 @@ import type { FallbackGains } from '../export/c-header.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { AnalyseLoop, DenseCheckResult, GainTable } from '../schedule/types.js';
 import type { LoopMargins } from '../verify/types.js';
+import type { PidGains } from '../controller/types.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
 import { recordedCheckModel, scheduleLoopAndController } from './recheck-schedule.js';
 
@@ -23,9 +24,12 @@ export function recordedLoopAnalysis(schedule: ScheduleFile): AnalyseLoop | null
   return makeLoopAnalysis(model, loop, controller);
 }
 
-/** Dense check of `table` (the gains an export holds) on the schedule's grid, range and thresholds. */
-export function checkExportedTable(schedule: ScheduleFile, table: GainTable, analyse: AnalyseLoop): DenseCheckResult {
-  return recheckQuantised({ schedule, quantised: table, analyse });
+/**
+ * Dense check of `table` (the gains an export holds) on the schedule's grid, range and thresholds;
+ * `gainsAt`: the export's own lookup between breakpoints (the integer lookup of a fixed-point header).
+ */
+export function checkExportedTable(schedule: ScheduleFile, table: GainTable, analyse: AnalyseLoop, gainsAt?: (speed_mps: number) => PidGains): DenseCheckResult {
+  return recheckQuantised({ schedule, quantised: table, analyse, ...(gainsAt === undefined ? {} : { gainsAt }) });
 }
 
 /** The fallback gains (see the file comment), tried from the highest breakpoint down; null when none passes. */

@@ -8,7 +8,7 @@
 import { samplingDelay_s } from '../controller/discrete.js';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { loopPlantFromLumped, loopPlantFromSingleTrack } from '../loops/build.js';
-import type { LoopSpecification } from '../loops/types.js';
+import type { LoopPlant, LoopSpecification } from '../loops/types.js';
 import type { AnalyseLoop } from '../schedule/types.js';
 import { analyseLoop } from '../verify/analyse-loop.js';
 import type { LoopMargins } from '../verify/types.js';
@@ -24,14 +24,22 @@ export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, con
       operatingPoint.kind === 'single-track'
         ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
         : loopPlantFromLumped(loop, operatingPoint.yawRate, speed_mps, controller, operatingPoint.cgToFrontAxle_m);
-    // The loop plant carries the Ts/2 + latency of the tuning model as delay; analyseLoop models the sampled loop itself.
-    const vehicleDelay_s = Math.max(0, plant.plant.delay_s - samplingDelay_s(controller));
-    return analyseLoop({
-      plant: { ...plant.plant, delay_s: vehicleDelay_s },
-      pid: { kp: gains.kp, ki: gains.ki, kd: gains.kd, derivativeFilter: controller.derivativeFilter, form: 'parallel' },
-      sampleTime_s: controller.sampleTime_s,
-      discretisation: controller.discretisation,
-      latency_s: controller.computationLatency_s,
-    });
+    return analyseSampledLoop(plant, gains, controller);
   };
+}
+
+/**
+ * Margins of a loop plant (built with `controller`, src/loops) under the discrete PID the firmware runs:
+ * the same analysis as the dense check (`tune` reports it beside the design loop's margins).
+ */
+export function analyseSampledLoop(plant: LoopPlant, gains: PidGains, controller: ControllerSettings): LoopMargins {
+  // The loop plant carries the Ts/2 + latency of the tuning model as delay; analyseLoop models the sampled loop itself.
+  const vehicleDelay_s = Math.max(0, plant.plant.delay_s - samplingDelay_s(controller));
+  return analyseLoop({
+    plant: { ...plant.plant, delay_s: vehicleDelay_s },
+    pid: { kp: gains.kp, ki: gains.ki, kd: gains.kd, derivativeFilter: controller.derivativeFilter, form: 'parallel' },
+    sampleTime_s: controller.sampleTime_s,
+    discretisation: controller.discretisation,
+    latency_s: controller.computationLatency_s,
+  });
 }

@@ -2,10 +2,14 @@
  * The terminal report of a schedule: breakpoints with gains and proven margins, the worst grid
  * point of the dense check, inserted breakpoints, failures, and the safety cautions.
  */
+import { describeControllerSettings } from '../controller/defaults.js';
 import { escapeControlCharacters } from '../core/quote.js';
 import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
-import type { ScheduleFile } from '../schedule/schedule-types.js';
-import type { DenseCheckResult, WorstMargins } from '../schedule/types.js';
+import type { BreakpointMargins, ScheduleFile } from '../schedule/schedule-types.js';
+import type { AcceptanceThresholds, CheckCriterion, DenseCheckResult, WorstMargins } from '../schedule/types.js';
+import { judgeMargins } from '../schedule/dense-check.js';
+import { modelWords } from '../schedule/schedule-text.js';
+import type { LoopMargins } from '../verify/types.js';
 import { SAFETY_CAUTIONS } from '../cli/safety.js';
 
 /** One line per worst figure: value, unit and the speed where it occurs. */
@@ -37,20 +41,36 @@ export function formatRuleParameters(schedule: ScheduleFile): string[] {
   return lines;
 }
 
+/** The margins a criterion names, in the words of the table's header. */
+const CRITERION_WORDS: Readonly<Record<CheckCriterion, string>> = {
+  stability: 'unstable',
+  lowerGainMargin: 'lower GM',
+  upperGainMargin: 'upper GM',
+  phaseMargin: 'PM',
+  delayMargin: 'delay margin',
+  sensitivityPeak: 'Ms',
+};
+
+/** "pass", or "FAIL: PM, Ms": a breakpoint's margins against the schedule's limits (the verdict column says only whether the loop is stable). */
+export function limitsCell(margins: BreakpointMargins, thresholds: AcceptanceThresholds): string {
+  const failures = judgeMargins(margins as unknown as LoopMargins, thresholds);
+  return failures.length === 0 ? 'pass' : `FAIL: ${failures.map((failure) => CRITERION_WORDS[failure.criterion]).join(', ')}`;
+}
+
 /** Breakpoint table, check summary and cautions of a schedule. */
 export function formatSchedule(schedule: ScheduleFile): string {
   const lines: string[] = [];
   const loop = schedule.loop;
   lines.push(
     `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${loop.preview_m} m from the ${loop.referencePoint})` : ''}, ` +
-      `rule ${schedule.provenance.rule.name}, ${schedule.interpolation.method} interpolation, ` +
-      `${schedule.controller.discretisation} PID at ${schedule.controller.sampleTime_s} s, derivative filter N = ${schedule.controller.derivativeFilter}`,
+      `rule ${schedule.provenance.rule.name}, ${schedule.interpolation.method} interpolation`,
   );
+  lines.push(`  controller the gains assume: ${describeControllerSettings(schedule.controller)}`);
   lines.push(`  error: ${loop.error}`);
   lines.push(`  units: kp ${schedule.units.kp}; ki ${schedule.units.ki}; kd ${schedule.units.kd}`);
   lines.push(...formatRuleParameters(schedule));
   lines.push('');
-  const rows = [['speed m/s', 'kp', 'ki', 'kd', 'lower GM dB', 'upper GM dB', 'PM °', 'delay margin s', 'Ms', 'verdict', '']];
+  const rows = [['speed m/s', 'kp', 'ki', 'kd', 'lower GM dB', 'upper GM dB', 'PM °', 'delay margin s', 'Ms', 'closed loop', 'limits', '']];
   for (const breakpoint of schedule.breakpoints) {
     const m = breakpoint.margins;
     rows.push([
@@ -64,10 +84,11 @@ export function formatSchedule(schedule: ScheduleFile): string {
       fixedOrDash(m.delayMargin_s, 4),
       fixedOrDash(m.sensitivityPeak, 3),
       m.verdict,
+      limitsCell(m, schedule.check.thresholds),
       breakpoint.insertedByRefinement ? 'inserted' : '',
     ]);
   }
-  lines.push(...textTable(rows, [true, true, true, true, true, true, true, true, true, false, false]).map((line) => `  ${line}`));
+  lines.push(...textTable(rows, [true, true, true, true, true, true, true, true, true, false, false, false]).map((line) => `  ${line}`));
   lines.push('');
   lines.push(...formatCheck(schedule.check.model.kind, schedule.check.passed, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
   if (schedule.check.insertions.length > 0) {
@@ -85,7 +106,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
 export function formatCheck(modelKind: string, passed: boolean, gridSize: number, failedSpeeds: number, worst: WorstMargins, schedule: ScheduleFile): string[] {
   const t = schedule.check.thresholds;
   return [
-    `  dense check on the ${modelKind} model, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
+    `  dense check on the ${modelWords(modelKind)}, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
       (passed ? 'PASSED' : `FAILED at ${failedSpeeds} speeds`),
     `  limits: lower GM ≤ ${t.maximumLowerGainMargin_dB} dB, upper GM ≥ ${t.minimumUpperGainMargin_dB} dB, PM ≥ ${t.minimumPhaseMargin_deg}°, ` +
       `Ms ≤ ${t.maximumSensitivityPeak}, delay margin ≥ ${t.minimumDelayMargin_s.toFixed(3)} s`,

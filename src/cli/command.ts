@@ -12,5 +12,9 @@ export interface CommandModule {
   readonly describe: string;
   readonly builder: (yargs: Argv) => Argv;
   readonly examples?: ReadonlyArray<readonly [string, string]>;
+  /** What each exit code means for this command (0, 1, 2; 3, a bug, is added for every command). Shown in --help. */
+  readonly exitCodes: ReadonlyArray<readonly [0 | 1 | 2, string]>;
+  /** Text after the options in --help, before the exit codes and the safety cautions. */
+  readonly epilogue?: string;
   readonly run: (args: Record<string, unknown>, io: CommandIo) => Promise<number>;
 }

@@ -47,7 +47,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
       (y) => {
         let built = module.builder(y);
         for (const [example, meaning] of module.examples ?? []) built = built.example(example, meaning);
-        return built;
+        return built.epilogue([...(module.epilogue === undefined ? [] : [module.epilogue]), exitCodesText(module), SAFETY_EPILOGUE].join('\n\n'));
       },
       async (args) => {
         exitCode = await module.run(args as Record<string, unknown>, io);
@@ -62,17 +62,51 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
     });
     return exitCode;
   } catch (error) {
+    const json = wantsJson(argv);
     if (error instanceof UsageError) {
-      io.stderr(`speedband: ${safeMessageText(error.message)}\n`);
-      return EXIT.badInput;
+      return reportError(io, json, EXIT.badInput, { code: 'cli.usage', message: safeMessageText(error.message), location: {} }, `speedband: ${safeMessageText(error.message)}`);
     }
     if (isSpeedbandError(error)) {
-      io.stderr(`speedband: ${describeError(error)}\n`);
-      return EXIT.badInput;
+      const report = { code: error.code, message: safeMessageText(error.message), location: error.location };
+      // Standard output itself failed: the error can only go to standard error.
+      return reportError(io, json && error.code !== 'output.stdoutFailed', EXIT.badInput, report, `speedband: ${describeError(error)}`);
     }
-    io.stderr(`speedband: internal error — please report it with the command you ran:\n${safeMessageText((error as Error).stack ?? String(error))}\n`);
-    return EXIT.internal;
+    const stack = safeMessageText((error as Error).stack ?? String(error));
+    return reportError(io, json, EXIT.internal, { code: 'internal', message: `internal error — please report it with the command you ran: ${stack}`, location: {} }, `speedband: internal error — please report it with the command you ran:\n${stack}`);
   }
+}
+
+/** `--json` given (the last of --json / --no-json / --json=BOOLEAN wins, as yargs reads them). */
+function wantsJson(argv: readonly string[]): boolean {
+  let json = false;
+  for (const argument of argv) {
+    if (argument === '--') break;
+    if (argument === '--json' || argument === '--json=true') json = true;
+    if (argument === '--no-json' || argument === '--json=false') json = false;
+  }
+  return json;
+}
+
+/**
+ * An error as words on standard error, and — under --json — as JSON on standard output too:
+ * {"error": {"code", "message", "location"}}, so that a script reading the output always gets JSON.
+ */
+function reportError(io: CommandIo, json: boolean, exitCode: number, error: { code: string; message: string; location: object }, words: string): number {
+  io.stderr(`${words}\n`);
+  if (json) {
+    try {
+      io.stdout(`${JSON.stringify({ error: { code: error.code, message: error.message, location: error.location } }, null, 2)}\n`);
+    } catch {
+      /* standard output failed as well: the words went to standard error */
+    }
+  }
+  return exitCode;
+}
+
+/** The exit codes of a command, for its --help. */
+function exitCodesText(module: CommandModule): string {
+  const lines = [...module.exitCodes, [3, 'a bug in speedband: please report it with the command you ran'] as const].map(([code, meaning]) => `  ${code}  ${meaning}`);
+  return `Exit codes:\n${lines.join('\n')}`;
 }
 
 class UsageError extends Error {}

@@ -39,6 +39,12 @@ function summary(schedule: ScheduleFile): ScheduleSummary {
     breakpoints: schedule.breakpoints.length,
     checksum: schedule.checksum.value,
     units: { kp: schedule.units.kp, ki: schedule.units.ki, kd: schedule.units.kd },
+    controller: {
+      derivativeFilter: schedule.controller.derivativeFilter,
+      sampleTime_s: schedule.controller.sampleTime_s,
+      discretisation: schedule.controller.discretisation,
+      computationLatency_s: schedule.controller.computationLatency_s,
+    },
   };
 }
 

@@ -1,7 +1,7 @@
 /** The comparison as Markdown for a change review: title, summary, per-speed table, worst margins, model drift, settings and a flag list. */
 import { SAFETY_EPILOGUE } from '../cli/safety.js';
 import { shownSpeed } from './format.js';
-import { DRIFT_HEADER, SPEED_TABLE_HEADER, WORST_HEADER, driftRows, speedRow, summaryLine, thresholdsText, worstRows } from './comparison-words.js';
+import { DRIFT_HEADER, SPEED_TABLE_HEADER, WORST_HEADER, controllerLines, driftRows, speedRow, summaryLine, thresholdsText, worstRows } from './comparison-words.js';
 import type { ScheduleComparison } from './types.js';
 
 const escape = (cell: string): string => cell.replace(/\|/g, '\\|');
@@ -21,6 +21,7 @@ export function comparisonMarkdown(comparison: ScheduleComparison, oldName: stri
     `- old: ${old.vehicle}, ${old.loopKind} loop, ${old.breakpoints} breakpoints, check ${old.status}, checksum \`${old.checksum.slice(0, 16)}…\``,
     `- new: ${next.vehicle}, ${next.loopKind} loop, ${next.breakpoints} breakpoints, check ${next.status}, checksum \`${next.checksum.slice(0, 16)}…\``,
     `- gain units (new): kp ${next.units.kp}, ki ${next.units.ki}, kd ${next.units.kd}`,
+    ...controllerLines(old.controller, next.controller).map((line) => `- ${line}`),
     `- flagged when: ${thresholdsText(comparison)}`,
     '',
   ];

@@ -2,6 +2,7 @@
 import { SAFETY_EPILOGUE } from '../cli/safety.js';
 import { alignedTable, shownSpeed } from './format.js';
 import {
+  controllerLines,
   DRIFT_HEADER,
   SPEED_TABLE_HEADER,
   SPEED_TABLE_RIGHT,
@@ -22,6 +23,7 @@ export function comparisonText(comparison: ScheduleComparison, oldName: string, 
     `  old: ${old.vehicle}, ${old.loopKind} loop, ${old.breakpoints} breakpoints, check ${old.status}, checksum ${old.checksum.slice(0, 16)}…`,
     `  new: ${next.vehicle}, ${next.loopKind} loop, ${next.breakpoints} breakpoints, check ${next.status}, checksum ${next.checksum.slice(0, 16)}…`,
     `  gain units (new): kp ${next.units.kp}, ki ${next.units.ki}, kd ${next.units.kd}`,
+    ...controllerLines(old.controller, next.controller).map((line) => `  ${line}`),
     `  flagged when: ${thresholdsText(comparison)}`,
     '',
   ];

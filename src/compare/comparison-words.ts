@@ -2,6 +2,8 @@
  * The pieces of a comparison report shared by the terminal text and the Markdown review:
  * cells of the per-speed table, model drift rows, worst margins, the summary line.
  */
+import { describeControllerSettings } from '../controller/defaults.js';
+import type { ControllerSettings } from '../controller/types.js';
 import { shown, shownPercent, shownSpeed } from './format.js';
 import type { ComparedSpeed, GainChange, MarginChange, ScheduleComparison } from './types.js';
 
@@ -95,4 +97,10 @@ export function summaryLine(comparison: ScheduleComparison): string {
   if (whole > 0) parts.push(`${whole} whole-schedule finding${whole === 1 ? '' : 's'}`);
   const count = comparison.flags.length;
   return `${count} flag${count === 1 ? '' : 's'}: ${parts.join(', ')} (${range})${comparison.gainsComparable ? '' : '; gains NOT comparable one by one'}.`;
+}
+
+/** The controller settings the gains assume: one line when both schedules share them, else one per schedule. */
+export function controllerLines(old: ControllerSettings, next: ControllerSettings): string[] {
+  const [before, after] = [describeControllerSettings(old), describeControllerSettings(next)];
+  return before === after ? [`controller the gains assume (both): ${after}`] : [`controller the old gains assume: ${before}`, `controller the new gains assume: ${after}`];
 }

@@ -1,3 +1,4 @@
+import type { ControllerSettings } from '../controller/types.js';
 /**
  * Records of a schedule comparison (after a vehicle change: load, tyres, actuator, firmware rate).
  * Plain, readonly, JSON-able. Speeds in m/s; gains in each schedule's own units (parallel PID,
@@ -131,6 +132,8 @@ export interface ScheduleSummary {
   readonly breakpoints: number;
   readonly checksum: string;
   readonly units: { readonly kp: string; readonly ki: string; readonly kd: string };
+  /** The controller the gains assume. */
+  readonly controller: ControllerSettings;
 }
 
 export interface ScheduleComparison {

@@ -3,6 +3,7 @@ import type { Ajv, ErrorObject } from 'ajv';
 import { SpeedbandError } from './errors.js';
 import { AJV_OPTIONS } from './schema-options.js';
 import { cutText, quoted } from './quote.js';
+import { closestName } from './closest-name.js';
 
 export { AJV_OPTIONS } from './schema-options.js';
 
@@ -26,14 +27,30 @@ export interface SchemaValidator {
   errors?: ErrorObject[] | null;
 }
 
+/** The field names the schema allows where an `additionalProperties` error was raised (its schemaPath names that node). */
+function knownFieldsAt(schema: object, schemaPath: string): string[] {
+  let node: unknown = schema;
+  const parts = schemaPath.replace(/^#\/?/, '').split('/').filter((part) => part !== '');
+  for (const part of parts.slice(0, -1)) {
+    node = node !== null && typeof node === 'object' ? (node as Record<string, unknown>)[part.replace(/~1/g, '/').replace(/~0/g, '~')] : undefined;
+  }
+  const properties = node !== null && typeof node === 'object' ? (node as { properties?: object }).properties : undefined;
+  return properties === undefined ? [] : Object.keys(properties).filter((name) => name !== '$schema');
+}
+
 /** Text for one Ajv error: where, what was found, what was expected. */
-function describeAjvError(error: ErrorObject): string {
+function describeAjvError(error: ErrorObject, schema: object): string {
   const path = error.instancePath === '' ? '(top level)' : cutText(error.instancePath, 200);
   switch (error.keyword) {
     case 'required':
       return `${path}: missing required field "${String(error.params.missingProperty)}"`;
-    case 'additionalProperties':
-      return `${path}: unknown field ${quoted(String(error.params.additionalProperty))} — check its spelling against the schema`;
+    case 'additionalProperties': {
+      const found = String(error.params.additionalProperty);
+      const known = knownFieldsAt(schema, error.schemaPath);
+      const closest = closestName(found, known);
+      const hint = closest !== null ? `did you mean "${closest}"?` : known.length > 0 ? `known fields here: ${known.join(', ')}` : 'check its spelling';
+      return `${path}: unknown field ${quoted(found)} — ${hint}`;
+    }
     case 'enum':
       return `${path}: ${error.message ?? 'not allowed'} (${(error.params.allowedValues as unknown[]).map(String).join(', ')})`;
     default:
@@ -49,14 +66,21 @@ function describeAjvError(error: ErrorObject): string {
  * src/core/precompiled-validators.ts (generated; no Ajv compile at run time); without it the
  * schema is compiled on first use.
  */
-export function makeValidator<T>(schema: object, code: string, what: string, precompiled?: SchemaValidator): (value: unknown, file: string) => T {
+export function makeValidator<T>(
+  schema: object,
+  code: string,
+  what: string,
+  precompiled?: SchemaValidator,
+  /** Words after the problems, e.g. where the format's reference is. */
+  reference?: () => string,
+): (value: unknown, file: string) => T {
   let compiled: SchemaValidator | undefined = precompiled;
   return (value: unknown, file: string): T => {
     compiled ??= ajv().compile(schema);
     if (compiled(value)) return value as T;
     const errors = compiled.errors ?? [];
-    const lines = errors.map(describeAjvError);
-    throw new SpeedbandError(code, `not a valid ${what}:\n  ${lines.join('\n  ')}`, {
+    const lines = errors.map((error) => describeAjvError(error, schema));
+    throw new SpeedbandError(code, `not a valid ${what}:\n  ${lines.join('\n  ')}${reference === undefined ? '' : `\n${reference()}`}`, {
       location: { file, jsonPath: errors[0]?.instancePath || '/' },
       details: { problems: lines },
     });

@@ -4,9 +4,9 @@
  * low-speed floor, linear or monotone cubic Hermite (Fritsch & Carlson 1980, slopes stored), exact
  * values at breakpoints, result kept between neighbouring values — and returns a status for a speed
  * that is NaN or infinite (c-lookup.ts). Arithmetic in IEEE 754 double. No dynamic memory, no library
- * calls. With a fixed-point format the gains are stored as Q-format integers and converted to double
- * in the lookup; the slopes stay those of the exact table, so the lookup's error is at most 2^−(F+1)
- * everywhere (see fixed-point.ts).
+ * calls. With a fixed-point format the header holds integers only — speeds in 2^−16 m/s, each gain in its
+ * Q format, the Hermite slope terms — and an integer lookup (c-integer-lookup.ts, the same computation as
+ * integer-lookup.ts, which the export re-checks): no floating point on that path.
  * No text from the schedule reaches the header except through the comment whitelist (c-comment.ts);
  * identifiers come from the validated prefix, numbers from cDouble, the checksum is checked hex.
  * A schedule whose check did not pass gives a header that stops the build with #error unless the
@@ -17,10 +17,12 @@ import { quoted } from '../core/quote.js';
 import { gainSlopes } from '../schedule/interpolate.js';
 import { scheduleLookupSettings, scheduleTable } from '../schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
+import { modelWords } from '../schedule/schedule-text.js';
 import type { GainTable, WorstMargins, WorstValue } from '../schedule/types.js';
 import { cComment, commentSafe } from './c-comment.js';
 import { LOOKUP_STATUS, lookupFunctionsText } from './c-lookup.js';
-import { quantiseTable, type FixedPointFormat, type QuantisedTable } from './fixed-point.js';
+import { integerLookupText } from './c-integer-lookup.js';
+import { formatName, quantiseTable, type FixedPointRequest, type QuantisedTable } from './fixed-point.js';
 
 /** The dense check whose figures the header states (at export: the gains it holds, re-checked). */
 export interface HeaderCheck {
@@ -41,7 +43,8 @@ export interface FallbackGains {
 }
 
 export interface CHeaderOptions {
-  readonly fixedPoint?: FixedPointFormat;
+  /** A Q format for every gain, or 'auto' (per gain, from its range): the integer-only header. */
+  readonly fixedPoint?: FixedPointRequest;
   /** Prefix of every C identifier; the include guard is its upper case. Default 'speedband_schedule'. */
   readonly prefix?: string;
   /** The check to state and to decide on #error (default: the schedule's recorded check). */
@@ -93,7 +96,7 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
   const quantisation = options.fixedPoint === undefined ? undefined : quantiseTable(exact, options.fixedPoint, settings);
   const table: GainTable = quantisation?.table ?? exact;
   const cubic = settings.interpolation === 'monotone-cubic';
-  const slopes = quantisation?.slopes ?? gainSlopes(table, settings.interpolation);
+  const slopes = gainSlopes(table, settings.interpolation);
   const n = table.speeds_mps.length;
   const { units, controller, loop } = schedule;
   const check: HeaderCheck = options.check ?? {
@@ -121,18 +124,22 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     ...controller.update.map((line) => `  ${line}`),
     `  ${controller.integration}`,
     `Interpolation: ${schedule.interpolation.description}`,
-    `Arithmetic: IEEE 754 double.${
-      quantisation === undefined
-        ? ''
-        : ` Gains stored as Q${quantisation.format.wordBits - quantisation.format.fractionalBits}.${quantisation.format.fractionalBits} ` +
-          `int${quantisation.format.wordBits}_t (value = integer / 2^${quantisation.format.fractionalBits}); ` +
-          `max quantisation error kp ${quantisation.errors.kp.maxAbsolute.toPrecision(3)}, ki ${quantisation.errors.ki.maxAbsolute.toPrecision(3)}, kd ${quantisation.errors.kd.maxAbsolute.toPrecision(3)}.`
-    }`,
-    `Dense check of the gains in this header (${schedule.check.model.kind} model, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
+    quantisation === undefined
+      ? 'Arithmetic: IEEE 754 double.'
+      : `Arithmetic: integers only (no floating point). Speed in units of 2^-16 m/s; gains kp ${formatName(quantisation.formats.kp)}, ki ${formatName(quantisation.formats.ki)}, ` +
+        `kd ${formatName(quantisation.formats.kd)} (value = integer / 2^F); largest error against the exact lookup kp ${quantisation.errors.kp.maxAbsoluteInterpolated.toPrecision(3)}, ` +
+        `ki ${quantisation.errors.ki.maxAbsoluteInterpolated.toPrecision(3)}, kd ${quantisation.errors.kd.maxAbsoluteInterpolated.toPrecision(3)}.`,
+    `Dense check of the gains in this header (${modelWords(schedule.check.model.kind)}, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
       `${check.passed ? 'PASSED' : `FAILED at ${check.failedSpeeds} speeds`}.`,
     ...worstLines(check.worst),
     `Lookup status: ${upper}_LOOKUP_OK (${LOOKUP_STATUS.OK.value}), ${upper}_LOOKUP_FALLBACK (${LOOKUP_STATUS.FALLBACK.value}), ${upper}_LOOKUP_NO_GAINS (${LOOKUP_STATUS.NO_GAINS.value}): check it.`,
-    fallback === null
+    quantisation !== undefined
+      ? `An integer speed is never NaN: the lookup does not return ${upper}_LOOKUP_FALLBACK. ${
+          fallback === null
+            ? `No breakpoint's gains, held constant, pass the dense check over the whole range (${upper}_FALLBACK_BREAKPOINT -1).`
+            : `Breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s) holds gains that, held constant, pass the dense check at all ${fallback.gridSize} speeds (for a speed-sensor fault).`
+        }`
+      : fallback === null
       ? `Speed NaN or infinite: no fallback -- no breakpoint's gains, held constant, pass the dense check over the whole range; the lookup returns ${upper}_LOOKUP_NO_GAINS and leaves the gains unwritten (hand over or stop).`
       : `Speed NaN or infinite: fallback gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which held constant pass the dense check at all ${fallback.gridSize} speeds of the range; the lookup returns ${upper}_LOOKUP_FALLBACK.`,
     ...(check.passed ? [] : [`This schedule FAILED its check: the header stops the build with #error unless ${optIn} is defined (review only, never to drive).`]),
@@ -143,13 +150,43 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     ...schedule.cautions.map((caution) => `  ${caution}`),
   ]);
 
-  const gainType = quantisation === undefined ? 'double' : `int${quantisation.format.wordBits}_t`;
-  const gainArray = (name: 'kp' | 'ki' | 'kd'): string => {
-    const values = quantisation === undefined ? list(table.gains.map((row) => row[name]), cDouble) : quantisation.raw[name].map((q) => String(Math.trunc(q))).join(', ');
-    return `static const ${gainType} ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${values} };`;
-  };
-  const gainValue = (name: string, index: string): string =>
-    quantisation === undefined ? `${prefix}_${name}[${index}]` : `((double)${prefix}_${name}[${index}] / ${upper}_GAIN_SCALE)`;
+  const unitsComment = `kp ${commentSafe(units.kp)}, ki ${commentSafe(units.ki)}, kd ${commentSafe(units.kd)}`;
+  const body =
+    quantisation === undefined
+      ? [
+          `#define ${upper}_LOOKUP_OK ${LOOKUP_STATUS.OK.value}`,
+          `#define ${upper}_LOOKUP_FALLBACK ${LOOKUP_STATUS.FALLBACK.value}`,
+          `#define ${upper}_LOOKUP_NO_GAINS ${LOOKUP_STATUS.NO_GAINS.value}`,
+          `/* Breakpoint whose gains the lookup returns for a NaN or infinite speed; -1: none. */`,
+          `#define ${upper}_FALLBACK_BREAKPOINT ${fallback === null ? -1 : fallback.breakpoint}`,
+          '',
+          `/* Gains at one speed: ${unitsComment}. */`,
+          `typedef struct ${prefix}_gains {`,
+          '  double kp;',
+          '  double ki;',
+          '  double kd;',
+          `} ${prefix}_gains;`,
+          '',
+          '/* Breakpoint speeds, m/s, strictly increasing. */',
+          `static const double ${prefix}_speed_mps[${upper}_BREAKPOINTS] = { ${list(table.speeds_mps, cDouble)} };`,
+          ...(['kp', 'ki', 'kd'] as const).map((name) => `static const double ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${list(table.gains.map((row) => row[name]), cDouble)} };`),
+          ...(cubic
+            ? [
+                '/* Hermite slopes (Fritsch & Carlson 1980), gain per m/s. */',
+                ...(['kp', 'ki', 'kd'] as const).map((name) => `static const double ${prefix}_${name}_slope[${upper}_BREAKPOINTS] = { ${list(slopes[name], cDouble)} };`),
+              ]
+            : []),
+          '',
+          lookupFunctionsText({ prefix, upper, cubic, gainValue: (name, index) => `${prefix}_${name}[${index}]`, fallbackBreakpoint: fallback?.breakpoint ?? null }),
+        ]
+      : [
+          `#define ${upper}_LOOKUP_OK ${LOOKUP_STATUS.OK.value}`,
+          `#define ${upper}_LOOKUP_FALLBACK ${LOOKUP_STATUS.FALLBACK.value}`,
+          `#define ${upper}_LOOKUP_NO_GAINS ${LOOKUP_STATUS.NO_GAINS.value}`,
+          `/* Breakpoint whose gains pass the dense check held constant over the whole range; -1: none. */`,
+          `#define ${upper}_FALLBACK_BREAKPOINT ${fallback === null ? -1 : fallback.breakpoint}`,
+          ...integerLookupText({ prefix, upper, quantisation, unitsComment }),
+        ];
 
   const lines = [
     ...(check.passed
@@ -170,35 +207,7 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     `#define ${upper}_INTEGRATOR_CLAMP_RAD ${cDouble(controller.integratorClamp_rad)}`,
     `#define ${upper}_LOW_SPEED_FLOOR_MPS ${cDouble(settings.lowSpeedFloor_mps)}`,
     `#define ${upper}_CHECKSUM "${schedule.checksum.value}"`,
-    ...(quantisation === undefined ? [] : [`#define ${upper}_GAIN_SCALE ${cDouble(2 ** quantisation.format.fractionalBits)}`]),
-    `#define ${upper}_LOOKUP_OK ${LOOKUP_STATUS.OK.value}`,
-    `#define ${upper}_LOOKUP_FALLBACK ${LOOKUP_STATUS.FALLBACK.value}`,
-    `#define ${upper}_LOOKUP_NO_GAINS ${LOOKUP_STATUS.NO_GAINS.value}`,
-    `/* Breakpoint whose gains the lookup returns for a NaN or infinite speed; -1: none. */`,
-    `#define ${upper}_FALLBACK_BREAKPOINT ${fallback === null ? -1 : fallback.breakpoint}`,
-    '',
-    `/* Gains at one speed: kp ${commentSafe(units.kp)}, ki ${commentSafe(units.ki)}, kd ${commentSafe(units.kd)}. */`,
-    `typedef struct ${prefix}_gains {`,
-    '  double kp;',
-    '  double ki;',
-    '  double kd;',
-    `} ${prefix}_gains;`,
-    '',
-    '/* Breakpoint speeds, m/s, strictly increasing. */',
-    `static const double ${prefix}_speed_mps[${upper}_BREAKPOINTS] = { ${list(table.speeds_mps, cDouble)} };`,
-    gainArray('kp'),
-    gainArray('ki'),
-    gainArray('kd'),
-    ...(cubic
-      ? [
-          '/* Hermite slopes (Fritsch & Carlson 1980), gain per m/s. */',
-          ...(['kp', 'ki', 'kd'] as const).map(
-            (name) => `static const double ${prefix}_${name}_slope[${upper}_BREAKPOINTS] = { ${list(slopes[name], cDouble)} };`,
-          ),
-        ]
-      : []),
-    '',
-    lookupFunctionsText({ prefix, upper, cubic, gainValue, fallbackBreakpoint: fallback?.breakpoint ?? null }),
+    ...body,
     '',
     `#endif /* ${upper}_H */`,
     '',

@@ -11,7 +11,7 @@ const cell = (value: number | boolean | string | null): string => {
   return /[",\r\n]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
 };
 
-/** CSV text: speed_mps, kp/ki/kd with the loop's units, margins, verdict, whether refinement inserted the row. */
+/** CSV text: speed_mps, kp/ki/kd with the loop's units, margins, verdict, whether refinement inserted the row, the controller settings. */
 export function exportCsv(schedule: ScheduleFile): string {
   const { units } = schedule;
   const header = [
@@ -26,6 +26,11 @@ export function exportCsv(schedule: ScheduleFile): string {
     'sensitivityPeak',
     'verdict',
     'insertedByRefinement',
+    // The controller the gains assume, on every row (a spreadsheet row stands alone).
+    'sampleTime_s',
+    'computationLatency_s',
+    'derivativeFilter',
+    'discretisation',
   ];
   const rows = schedule.breakpoints.map((row) =>
     [
@@ -40,6 +45,10 @@ export function exportCsv(schedule: ScheduleFile): string {
       row.margins.sensitivityPeak,
       row.margins.verdict,
       row.insertedByRefinement,
+      schedule.controller.sampleTime_s,
+      schedule.controller.computationLatency_s,
+      schedule.controller.derivativeFilter,
+      schedule.controller.discretisation,
     ]
       .map(cell)
       .join(','),

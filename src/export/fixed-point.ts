@@ -1,17 +1,18 @@
 /**
  * Fixed-point (Q-format) gains for firmware without floating point. Format I.F: a signed
  * two's-complement word of I + F bits (I integer bits including the sign bit, F fractional bits);
- * stored integer q = round(x·2^F) (round half away from zero), represented value q/2^F,
- * quantisation error at most 2^−(F+1) per value inside the range [−2^(I−1), 2^(I−1) − 2^−F].
- * The Hermite slopes stay those of the exact table (kept in double), so between breakpoints the
- * quantised lookup is h00·q0 + h01·q1 + (exact slope terms) with h00 + h01 = 1, h00, h01 ≥ 0: its
- * error is also at most 2^−(F+1), and the clamp to the neighbouring values cannot enlarge it.
+ * stored integer q = round(x·2^F) (round half away from zero), represented value q/2^F, error at most
+ * 2^−(F+1) per stored value inside [−2^(I−1), 2^(I−1) − 2^−F]. One format for all gains ("Q16.16",
+ * "16.16"), or `auto`: per gain, the 32-bit format with the most fractional bits that holds the gain's
+ * values and slope terms. The lookup between breakpoints is integer arithmetic (integer-lookup.ts);
+ * the export re-checks exactly what it computes.
  */
 import type { PidGains } from '../controller/types.js';
 import { SpeedbandError } from '../core/errors.js';
-import { gainSlopes, makeGainLookup, type GainSlopes } from '../schedule/interpolate.js';
-import type { GainTable, LookupSettings } from '../schedule/types.js';
 import { quoted } from '../core/quote.js';
+import { gainSlopes, makeGainLookup } from '../schedule/interpolate.js';
+import type { GainTable, LookupSettings } from '../schedule/types.js';
+import { makeIntegerGainLookup, roundToInteger, SPEED_FRACTIONAL_BITS, type IntegerTable } from './integer-lookup.js';
 
 export interface FixedPointFormat {
   readonly fractionalBits: number;
@@ -19,98 +20,162 @@ export interface FixedPointFormat {
   readonly wordBits: 16 | 32;
 }
 
+/** What the user asked for: one format for every gain, or `auto` (per gain, from its range, 32-bit words). */
+export type FixedPointRequest = FixedPointFormat | 'auto';
+
+const NAMES = ['kp', 'ki', 'kd'] as const;
+type GainName = (typeof NAMES)[number];
+
 /** Maximum quantisation error of one gain: at the breakpoints, and over the interpolated lookup. */
 export interface GainQuantisationError {
   readonly maxAbsolute: number;
   /** Largest |error|/|value| over breakpoints with a non-zero value (0 when all values are 0). */
   readonly maxRelative: number;
-  /** Largest |lookup(quantised) − lookup(exact)| found on 1,001 speeds across the table (bounded by 2^−(F+1)). */
+  /** Largest |integer lookup − exact lookup| found on 1,001 speeds across the table. */
   readonly maxAbsoluteInterpolated: number;
 }
 
 export interface QuantisedTable {
-  readonly format: FixedPointFormat;
+  /** The format of each gain. */
+  readonly formats: Readonly<Record<GainName, FixedPointFormat>>;
   /** The stored integers per gain. */
   readonly raw: { readonly kp: readonly number[]; readonly ki: readonly number[]; readonly kd: readonly number[] };
-  /** The values the integers represent (q/2^F), as a gain table. */
+  /** The values the integers represent at the breakpoints (q/2^F), as a gain table. */
   readonly table: GainTable;
-  readonly errors: { readonly kp: GainQuantisationError; readonly ki: GainQuantisationError; readonly kd: GainQuantisationError };
-  /** Bound on the error at and between breakpoints, 2^−(F+1). */
+  readonly errors: Readonly<Record<GainName, GainQuantisationError>>;
+  /** Bound on the error of a stored value, 2^−(F+1), per gain; `resolutionBound` is the largest. */
+  readonly resolutionBounds: Readonly<Record<GainName, number>>;
   readonly resolutionBound: number;
-  /** Hermite slopes of the exact table, gain per m/s (used with the quantised values). */
-  readonly slopes: GainSlopes;
+  /** The integers the C lookup holds (speeds in 2^−16 m/s, slope terms). */
+  readonly integer: IntegerTable;
+  /** The gains the firmware's integer lookup computes at a speed (m/s): what the export re-checks. */
+  readonly lookup: (speed_mps: number) => PidGains;
 }
 
-/** Parse "I.F" (e.g. "16.16", "8.24") into a format; I + F must be 16 or 32. */
+/**
+ * Parse a format: "I.F" or "QI.F" (e.g. "16.16", "Q16.16", "q8.24"; I + F = 16 or 32, I ≥ 1), or "auto".
+ * Throws `export.qFormatInvalid`.
+ */
+export function parseFixedPointRequest(text: string): FixedPointRequest {
+  if (text.trim().toLowerCase() === 'auto') return 'auto';
+  return parseQFormat(text);
+}
+
+/** Parse "I.F" or "QI.F" into a format; I + F must be 16 or 32 (see parseFixedPointRequest). */
 export function parseQFormat(text: string): FixedPointFormat {
-  const match = /^(\d+)\.(\d+)$/.exec(text.trim());
+  const match = /^[Qq]?(\d+)\.(\d+)$/.exec(text.trim());
   const integerBits = match ? Number(match[1]) : Number.NaN;
   const fractionalBits = match ? Number(match[2]) : Number.NaN;
   const wordBits = integerBits + fractionalBits;
   if (!match || integerBits < 1 || (wordBits !== 16 && wordBits !== 32)) {
     throw new SpeedbandError(
       'export.qFormatInvalid',
-      `Q format ${quoted(text)} is not I.F with I ≥ 1 integer bits (sign included) and I + F = 16 or 32 — e.g. 16.16 or 4.12`,
+      `Q format ${quoted(text)} is not I.F (or QI.F) with I ≥ 1 integer bits (sign included) and I + F = 16 or 32 — e.g. Q16.16, 16.16 or Q4.12, or auto (per gain, from its range)`,
       { details: { given: text } },
     );
   }
   return { fractionalBits, wordBits: wordBits as 16 | 32 };
 }
 
-const NAMES = ['kp', 'ki', 'kd'] as const;
+/** The 32-bit format with the most fractional bits that holds every magnitude given (at least one integer bit, the sign). */
+function formatFor(magnitudes: readonly number[]): FixedPointFormat {
+  const largest = Math.max(0, ...magnitudes);
+  for (let fractionalBits = 31; fractionalBits >= 0; fractionalBits -= 1) {
+    if (Math.round(largest * 2 ** fractionalBits) <= 2 ** 31 - 1) return { fractionalBits, wordBits: 32 };
+  }
+  return { fractionalBits: 0, wordBits: 32 };
+}
+
 const INTERPOLATED_SPEEDS = 1000;
 
-/** Quantise a gain table; `export.fixedPointOverflow` when a gain does not fit the word. */
-export function quantiseTable(table: GainTable, format: FixedPointFormat, lookup: LookupSettings): QuantisedTable {
-  const scale = 2 ** format.fractionalBits;
-  const lowest = -(2 ** (format.wordBits - 1));
-  const highest = 2 ** (format.wordBits - 1) - 1;
-  const raw = { kp: [] as number[], ki: [] as number[], kd: [] as number[] };
-  table.gains.forEach((gains, k) => {
-    for (const name of NAMES) {
-      const value = gains[name];
-      const q = Math.sign(value) * Math.round(Math.abs(value) * scale);
-      if (q < lowest || q > highest) {
-        throw new SpeedbandError(
-          'export.fixedPointOverflow',
-          `${name} = ${value} at ${table.speeds_mps[k]} m/s does not fit Q${format.wordBits - format.fractionalBits}.${format.fractionalBits} ` +
-            `(range ${lowest / scale} to ${highest / scale}) — use fewer fractional bits or a 32-bit word`,
-          { details: { gain: name, value, speed_mps: table.speeds_mps[k] } },
-        );
-      }
-      raw[name].push(q === 0 ? 0 : q);
-    }
+/**
+ * Quantise a gain table for the integer lookup. `export.fixedPointOverflow` when a gain (or, for a monotone
+ * cubic, a slope term h·m, stored in 32 bits) does not fit its format.
+ */
+export function quantiseTable(table: GainTable, request: FixedPointRequest, lookup: LookupSettings): QuantisedTable {
+  const cubic = lookup.interpolation === 'monotone-cubic';
+  const slopes = gainSlopes(table, lookup.interpolation);
+  const n = table.speeds_mps.length;
+  const width = (k: number): number => table.speeds_mps[k + 1] - table.speeds_mps[k];
+  const slopeTerms = (name: GainName): { d0: number[]; d1: number[] } => ({
+    d0: cubic ? Array.from({ length: n - 1 }, (_, k) => width(k) * slopes[name][k]) : [],
+    d1: cubic ? Array.from({ length: n - 1 }, (_, k) => width(k) * slopes[name][k + 1]) : [],
   });
+  const formats = Object.fromEntries(
+    NAMES.map((name) => {
+      const terms = slopeTerms(name);
+      return [name, request === 'auto' ? formatFor([...table.gains.map((gains) => Math.abs(gains[name])), ...terms.d0.map(Math.abs), ...terms.d1.map(Math.abs)]) : request];
+    }),
+  ) as Record<GainName, FixedPointFormat>;
+  const stored = (name: GainName, value: number, words: number, what: string): bigint => {
+    const { fractionalBits, wordBits } = formats[name];
+    const q = roundToInteger(value * 2 ** fractionalBits);
+    const limit = 2n ** BigInt(words - 1);
+    if (q < -limit || q > limit - 1n) {
+      const scale = 2 ** fractionalBits;
+      throw new SpeedbandError(
+        'export.fixedPointOverflow',
+        `${what} = ${value} does not fit Q${wordBits - fractionalBits}.${fractionalBits}${words === wordBits ? '' : ` in ${words} bits`} ` +
+          `(range ${Number(-limit) / scale} to ${Number(limit - 1n) / scale}) — use fewer fractional bits, a 32-bit word, or --q-format auto`,
+        { details: { gain: name, value } },
+      );
+    }
+    return q;
+  };
+  const gains = Object.fromEntries(
+    NAMES.map((name) => [name, table.gains.map((row, k) => stored(name, row[name], formats[name].wordBits, `${name} at ${table.speeds_mps[k]} m/s`))]),
+  ) as Record<GainName, bigint[]>;
+  const integer: IntegerTable = {
+    cubic,
+    speeds: table.speeds_mps.map((speed) => roundToInteger(speed * 2 ** SPEED_FRACTIONAL_BITS)),
+    floor: roundToInteger(lookup.lowSpeedFloor_mps * 2 ** SPEED_FRACTIONAL_BITS),
+    fractionalBits: { kp: formats.kp.fractionalBits, ki: formats.ki.fractionalBits, kd: formats.kd.fractionalBits },
+    gains,
+    slopeTerms: Object.fromEntries(
+      NAMES.map((name) => {
+        const terms = slopeTerms(name);
+        const term = (value: number, k: number): bigint => stored(name, value, 32, `${name} slope term between ${table.speeds_mps[k]} and ${table.speeds_mps[k + 1]} m/s`);
+        return [name, { d0: terms.d0.map(term), d1: terms.d1.map(term) }];
+      }),
+    ) as unknown as IntegerTable['slopeTerms'],
+  };
   const quantised: GainTable = {
     speeds_mps: table.speeds_mps,
-    gains: table.gains.map((_, k): PidGains => ({ kp: raw.kp[k] / scale, ki: raw.ki[k] / scale, kd: raw.kd[k] / scale })),
+    gains: table.gains.map((_, k): PidGains => ({
+      kp: Number(gains.kp[k]) / 2 ** formats.kp.fractionalBits,
+      ki: Number(gains.ki[k]) / 2 ** formats.ki.fractionalBits,
+      kd: Number(gains.kd[k]) / 2 ** formats.kd.fractionalBits,
+    })),
   };
-  const slopes = gainSlopes(table, lookup.interpolation);
+  const integerLookup = makeIntegerGainLookup(integer);
   const exactLookup = makeGainLookup(table, lookup, slopes);
-  const quantisedLookup = makeGainLookup(quantised, lookup, slopes);
-  const first = table.speeds_mps[0];
-  const last = table.speeds_mps[table.speeds_mps.length - 1];
-  const error = (name: (typeof NAMES)[number]): GainQuantisationError => {
+  const [first, last] = [table.speeds_mps[0], table.speeds_mps[n - 1]];
+  const speeds = Array.from({ length: INTERPOLATED_SPEEDS + 1 }, (_, i) => first + ((last - first) * i) / INTERPOLATED_SPEEDS);
+  const fromInteger = speeds.map(integerLookup);
+  const fromExact = speeds.map(exactLookup);
+  const error = (name: GainName): GainQuantisationError => {
     let maxAbsolute = 0;
     let maxRelative = 0;
-    table.gains.forEach((gains, k) => {
-      const difference = Math.abs(quantised.gains[k][name] - gains[name]);
+    table.gains.forEach((row, k) => {
+      const difference = Math.abs(quantised.gains[k][name] - row[name]);
       maxAbsolute = Math.max(maxAbsolute, difference);
-      if (gains[name] !== 0) maxRelative = Math.max(maxRelative, difference / Math.abs(gains[name]));
+      if (row[name] !== 0) maxRelative = Math.max(maxRelative, difference / Math.abs(row[name]));
     });
-    let maxAbsoluteInterpolated = maxAbsolute;
-    for (let i = 0; i <= INTERPOLATED_SPEEDS; i += 1) {
-      const speed = first + ((last - first) * i) / INTERPOLATED_SPEEDS;
-      maxAbsoluteInterpolated = Math.max(maxAbsoluteInterpolated, Math.abs(quantisedLookup(speed)[name] - exactLookup(speed)[name]));
-    }
+    const maxAbsoluteInterpolated = speeds.reduce((worst, _, i) => Math.max(worst, Math.abs(fromInteger[i][name] - fromExact[i][name])), maxAbsolute);
     return { maxAbsolute, maxRelative, maxAbsoluteInterpolated };
   };
+  const resolutionBounds = { kp: 2 ** -(formats.kp.fractionalBits + 1), ki: 2 ** -(formats.ki.fractionalBits + 1), kd: 2 ** -(formats.kd.fractionalBits + 1) };
   return {
-    format,
-    raw,
+    formats,
+    raw: { kp: gains.kp.map(Number), ki: gains.ki.map(Number), kd: gains.kd.map(Number) },
     table: quantised,
     errors: { kp: error('kp'), ki: error('ki'), kd: error('kd') },
-    resolutionBound: 2 ** -(format.fractionalBits + 1),
-    slopes,
+    resolutionBounds,
+    resolutionBound: Math.max(resolutionBounds.kp, resolutionBounds.ki, resolutionBounds.kd),
+    integer,
+    lookup: integerLookup,
   };
 }
+
+/** "Q16.16" for a format. */
+export const formatName = (format: FixedPointFormat): string => `Q${format.wordBits - format.fractionalBits}.${format.fractionalBits}`;

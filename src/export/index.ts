@@ -4,6 +4,7 @@ export { commentSafe, cComment } from './c-comment.js';
 export { LOOKUP_STATUS } from './c-lookup.js';
 export { exportCsv } from './csv.js';
 export { exportJson } from './json.js';
-export { parseQFormat, quantiseTable, type FixedPointFormat, type QuantisedTable, type GainQuantisationError } from './fixed-point.js';
+export { parseQFormat, parseFixedPointRequest, quantiseTable, formatName, type FixedPointFormat, type FixedPointRequest, type QuantisedTable, type GainQuantisationError } from './fixed-point.js';
+export { integerLookup, makeIntegerGainLookup, speedToInteger, SPEED_FRACTIONAL_BITS, type IntegerTable } from './integer-lookup.js';
 export { recheckQuantised, makeQuantisedRecheck, type QuantisedRecheck, type RecheckInput } from './recheck.js';
 export { toAscii } from './ascii.js';

@@ -8,6 +8,7 @@ import { checkGrid } from '../schedule/grid.js';
 import { makeGainLookup } from '../schedule/interpolate.js';
 import { scheduleLookupSettings } from '../schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
+import type { PidGains } from '../controller/types.js';
 import type { AnalyseLoop, DenseCheckResult, GainTable, ProgressCallback } from '../schedule/types.js';
 
 /** The hook the export command calls: re-check a schedule with a quantised table; null when there is no model to check against. */
@@ -18,6 +19,8 @@ export interface RecheckInput {
   /** The table the firmware will really use (e.g. QuantisedTable.table). */
   readonly quantised: GainTable;
   readonly analyse: AnalyseLoop;
+  /** The export's own lookup between breakpoints (default: the schedule's interpolation of `quantised`). */
+  readonly gainsAt?: (speed_mps: number) => PidGains;
   readonly onProgress?: ProgressCallback;
 }
 
@@ -26,7 +29,7 @@ export function recheckQuantised(input: RecheckInput): DenseCheckResult {
   const { schedule, quantised, analyse, onProgress } = input;
   return denseCheck({
     grid: checkGrid(quantised.speeds_mps, schedule.check.range, schedule.check.gridSpeeds),
-    gainsAt: makeGainLookup(quantised, scheduleLookupSettings(schedule)),
+    gainsAt: input.gainsAt ?? makeGainLookup(quantised, scheduleLookupSettings(schedule)),
     analyse,
     thresholds: schedule.check.thresholds,
     onProgress,

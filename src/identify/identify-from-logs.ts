@@ -4,7 +4,9 @@ import { SpeedbandError } from '../core/errors.js';
 import { readFileBytes, sha256Hex } from '../core/files.js';
 import { readSteerLog, type ReadLogOptions } from '../log/read.js';
 import { findStepTests } from '../log/segment.js';
-import type { RejectedStep, StepTest } from '../log/types.js';
+import type { LogChannelSource, RejectedStep, StepTest } from '../log/types.js';
+import { channelObservations } from './channel-observations.js';
+import { requireConsistentChannels } from './channel-scales.js';
 import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
 import { VERSION } from '../version.js';
 import { identifyActuator } from './actuator.js';
@@ -26,6 +28,11 @@ export interface IdentifyFromLogsInput {
   readonly readOptions?: ReadLogOptions;
   /** Progress lines for long runs (the CLI passes io.progress). */
   readonly progress?: (text: string) => void;
+  /**
+   * Check the logs against the vehicle's kinematics before fitting (default true): a channel off by a
+   * factor (km/h read as m/s, a steering-wheel angle as road-wheel) is `identify.channelScale`.
+   */
+  readonly checkChannels?: boolean;
 }
 
 /**
@@ -47,8 +54,10 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   const logPaths = inputs.map((entry) => entry.file);
   const steps: StepTest[] = [];
   const rejected: RejectedStep[] = [];
+  let channels: readonly LogChannelSource[] = [];
   for (const file of logPaths) {
     const log = readSteerLog(file, { steeringRatio: vehicle.steeringRatio, ...input.readOptions });
+    if (channels.length === 0) channels = log.channels ?? [];
     const search = findStepTests(log, { maxSteerAngle_rad: vehicle.maxSteerAngle_rad });
     steps.push(...search.steps.map((step) => truncateStep(step, options.maxHold_s)));
     rejected.push(...search.rejected);
@@ -58,6 +67,11 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
       location: { file: logPaths[0] },
       details: { rejected: rejected.length },
     });
+  }
+
+  if (input.checkChannels !== false) {
+    const wheelbase_m = vehicle.cgToFrontAxle_m + vehicle.cgToRearAxle_m;
+    requireConsistentChannels(channelObservations(steps, wheelbase_m), channels, { wheelbase_m, steeringRatio: vehicle.steeringRatio }, logPaths.length);
   }
 
   const identified: StepIdentification[] = [];

@@ -73,5 +73,6 @@ export function truncateStep(step: StepTest, maxHold_s: number): StepTest {
     steerCommand_rad: step.steerCommand_rad.subarray(0, end),
     yawRate_radps: step.yawRate_radps.subarray(0, end),
     ...(step.steerAngle_rad === undefined ? {} : { steerAngle_rad: step.steerAngle_rad.subarray(0, end) }),
+    ...(step.lateralAcceleration_mps2 === undefined ? {} : { lateralAcceleration_mps2: step.lateralAcceleration_mps2.subarray(0, end) }),
   };
 }

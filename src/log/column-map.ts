@@ -4,7 +4,7 @@
  * channel, the column number and the factor to SI.
  */
 import { SpeedbandError } from '../core/errors.js';
-import { closestName } from './closest-name.js';
+import { closestName } from '../core/closest-name.js';
 import { QUOTED_TEXT_MAX, cutText, escapeControlCharacters, quoted } from '../core/quote.js';
 import { builtInConversion, checkUnitQuantity, resolveColumnUnit, type UnitConversion, type UnitOrigin } from './column-units.js';
 import { CHANNELS, CHANNEL_DEFINITIONS, REQUIRED_CHANNELS, type ChannelName } from './columns.js';

@@ -172,7 +172,7 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
     warnings,
     delimiter,
     ignoredColumns: ignored,
-    channels: columns.map((column) => ({ channel: column.channel, header: column.header, columnNumber: column.index + 1, unit: column.unit })),
+    channels: columns.map((column) => ({ channel: column.channel, header: column.header, columnNumber: column.index + 1, unit: column.unit, toSi: column.toSi })),
   };
 }
 

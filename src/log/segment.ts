@@ -235,6 +235,7 @@ function judgeCandidate(segment: LogSegment, { before, after, edge }: Candidate,
   }
 
   const steerAngle_rad = segment.steerAngle_rad?.slice(windowStart, windowEnd);
+  const lateralAcceleration_mps2 = segment.lateralAcceleration_mps2?.slice(windowStart, windowEnd);
   // The plateau means include a ramp sample or two inside the band; the step levels do not.
   const measuredAmplitude_rad = levels.commandSteady_rad - levels.commandBefore_rad;
   return {
@@ -248,6 +249,7 @@ function judgeCandidate(segment: LogSegment, { before, after, edge }: Candidate,
     speedSpread_mps: speed.spread_mps,
     ...window,
     ...(steerAngle_rad === undefined ? {} : { steerAngle_rad }),
+    ...(lateralAcceleration_mps2 === undefined ? {} : { lateralAcceleration_mps2 }),
     metrics: stepMetrics(window),
   };
 }

@@ -58,6 +58,8 @@ export interface LogChannelSource {
   readonly columnNumber: number;
   /** Unit the column was recorded in (converted to SI on reading), e.g. 'km/h'. */
   readonly unit: string;
+  /** The factor a recorded value was multiplied by to give SI (1/steering ratio included for steering-wheel units). */
+  readonly toSi?: number;
 }
 
 /** Transient metrics of one step in the spirit of ISO 7401 (definitions from memory; see src/log/metrics.ts). */
@@ -91,6 +93,8 @@ export interface StepTest {
   readonly steerCommand_rad: Float64Array;
   readonly yawRate_radps: Float64Array;
   readonly steerAngle_rad?: Float64Array;
+  /** Lateral acceleration, m/s², when logged. */
+  readonly lateralAcceleration_mps2?: Float64Array;
   /** Number of samples at the start of the window before the onset. */
   readonly preStepSamples: number;
   readonly metrics: StepMetrics;

@@ -105,6 +105,20 @@ function track(current: WorstValue | null, value: number | null, speed_mps: numb
 }
 
 /** Worst figures over checked points: largest lower gain margin, smallest upper gain margin, phase and delay margins, largest Ms. First speed wins ties. */
+/** One failing speed, as every JSON output of speedband writes it (and the schedule file's check.failures). */
+export interface FailingSpeed {
+  readonly speed_mps: number;
+  readonly messages: readonly string[];
+}
+
+/** The failing speeds of a check, in speed order as checked, at most `limit` of them. */
+export function failingSpeeds(points: readonly { readonly speed_mps: number; readonly failures: readonly CheckFailure[] }[], limit = Infinity): FailingSpeed[] {
+  return points
+    .filter((point) => point.failures.length > 0)
+    .slice(0, limit)
+    .map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((failure) => failure.message) }));
+}
+
 export function worstMargins(points: readonly { readonly speed_mps: number; readonly margins: LoopMargins }[]): WorstMargins {
   let lower: WorstValue | null = null;
   let upper: WorstValue | null = null;

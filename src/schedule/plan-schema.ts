@@ -4,13 +4,16 @@
  */
 const positive = { type: 'number', exclusiveMinimum: 0 } as const;
 const nonNegative = { type: 'number', minimum: 0 } as const;
+/** A field with its description (the plan reference, docs/plan.md, is generated from these: src/schedule/plan-reference.ts). */
+const described = <T extends object>(schema: T, description: string) => ({ ...schema, description }) as const;
 
 /**
  * A number, a table of values per speed (linear between, held beyond the ends), or an expression in
  * speed_mps ("max(15, 1.2 * speed_mps)"; src/core/speed-expression.ts checks and compiles it).
  */
-const speedVarying = (value: object) =>
+const speedVarying = (value: object, description: string) =>
   ({
+    description,
     oneOf: [
       value,
       { type: 'string', minLength: 1, description: 'an expression in speed_mps (m/s), e.g. "max(15, 1.2 * speed_mps)"' },
@@ -32,88 +35,131 @@ export const PLAN_SCHEMA = {
   type: 'object',
   additionalProperties: false,
   properties: {
-    $schema: { type: 'string' },
-    description: { type: 'string' },
-    loop: {
-      type: 'object',
-      additionalProperties: false,
-      properties: {
-        kind: { enum: ['yaw-rate', 'heading', 'path'] },
-        preview_m: nonNegative,
-        referencePoint: { enum: ['cg', 'front-axle'] },
+    $schema: described({ type: 'string' }, 'Optional pointer to this schema; ignored.'),
+    description: described({ type: 'string' }, 'Free text for the reader; recorded in the schedule with the plan.'),
+    loop: described(
+      {
+        type: 'object',
+        additionalProperties: false,
+        properties: {
+          kind: described(
+            { enum: ['yaw-rate', 'heading', 'path'] },
+            'The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators).',
+          ),
+          preview_m: described(nonNegative, 'Path loop: preview distance ahead of the reference point; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable).'),
+          referencePoint: described({ enum: ['cg', 'front-axle'] }, 'Path loop: where the preview distance is measured from; front-axle adds the CG-to-front-axle distance.'),
+        },
       },
-    },
-    rule: {
-      type: 'object',
-      additionalProperties: false,
-      properties: {
-        name: { enum: ['ziegler-nichols-step', 'ziegler-nichols-ultimate', 'imc-pid', 'simc', 'damping-target'] },
-        parameters: {
-          type: 'object',
-          additionalProperties: false,
-          properties: {
-            controllerType: { enum: ['P', 'PI', 'PID'] },
-            closedLoopTimeConstant_s: speedVarying(positive),
-            simcClosedLoopTimeConstant_s: speedVarying(positive),
-            dampingRatio: speedVarying(positive),
-            naturalFrequency_radps: speedVarying(positive),
-            settlingDistance_m: speedVarying(positive),
-            integralPoleRatio: speedVarying(positive),
+      'The loop the firmware closes.',
+    ),
+    rule: described(
+      {
+        type: 'object',
+        additionalProperties: false,
+        properties: {
+          name: described(
+            { enum: ['ziegler-nichols-step', 'ziegler-nichols-ultimate', 'imc-pid', 'simc', 'damping-target'] },
+            'The published tuning rule applied at each breakpoint (the table of rules below names each source).',
+          ),
+          parameters: described(
+            {
+              type: 'object',
+              additionalProperties: false,
+              properties: {
+                controllerType: described({ enum: ['P', 'PI', 'PID'] }, 'Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent).'),
+                closedLoopTimeConstant_s: speedVarying(positive, 'IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).'),
+                simcClosedLoopTimeConstant_s: speedVarying(positive, 'SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is "tight control with good robustness").'),
+                dampingRatio: speedVarying(positive, 'Damping-target ζ of the closed-loop pole pair.'),
+                naturalFrequency_radps: speedVarying(positive, 'Damping-target ωn of the pole pair (wins over settlingDistance_m).'),
+                settlingDistance_m: speedVarying(positive, 'Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).'),
+                integralPoleRatio: speedVarying(positive, 'Damping-target ratio ωn/p of the natural frequency to the integral pole p.'),
+              },
+            },
+            'The rule\'s parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps.',
+          ),
+        },
+      },
+      'The tuning rule and its parameters.',
+    ),
+    speeds: described(
+      {
+        type: 'object',
+        additionalProperties: false,
+        properties: {
+          minimum_mps: described(nonNegative, 'Bottom of the speed range the dense check covers.'),
+          maximum_mps: described(positive, 'Top of the speed range the dense check covers.'),
+          lowSpeedFloor_mps: described(positive, 'Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here.'),
+        },
+      },
+      'The speed range of the schedule.',
+    ),
+    breakpoints: described(
+      {
+        oneOf: [
+          {
+            type: 'object',
+            additionalProperties: false,
+            required: ['speeds_mps'],
+            properties: { speeds_mps: described({ type: 'array', minItems: 1, items: positive }, 'Explicit breakpoint speeds, strictly increasing.') },
           },
+          {
+            type: 'object',
+            additionalProperties: false,
+            properties: {
+              count: described({ type: 'integer', minimum: 1, maximum: 100 }, 'Number of automatic breakpoints from the floor to the top of the range.'),
+              spacing: described({ enum: ['geometric', 'linear'] }, 'Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest.'),
+            },
+          },
+        ],
+      },
+      'Where gains are tuned: explicit speeds, or a count and spacing.',
+    ),
+    interpolation: described(
+      { enum: ['linear', 'monotone-cubic'] },
+      'How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints).',
+    ),
+    controller: described(
+      {
+        type: 'object',
+        additionalProperties: false,
+        properties: {
+          form: described({ enum: ['parallel'] }, 'Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered).'),
+          derivativeFilter: described(positive, 'Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000.'),
+          sampleTime_s: described(positive, 'Sample time Ts of the firmware\'s controller; from 0.0001 s (10 kHz) to 1 s.'),
+          discretisation: described({ enum: ['tustin', 'backward-euler'] }, 'How the firmware discretises the integral and the derivative filter (backward Euler\'s filter pole stays in [0, 1): no ringing).'),
+          computationLatency_s: described(nonNegative, 'Time from taking a sample to the steer command it produces; from 0 s to 1 s.'),
         },
       },
-    },
-    speeds: {
-      type: 'object',
-      additionalProperties: false,
-      properties: { minimum_mps: nonNegative, maximum_mps: positive, lowSpeedFloor_mps: positive },
-    },
-    breakpoints: {
-      oneOf: [
-        {
-          type: 'object',
-          additionalProperties: false,
-          required: ['speeds_mps'],
-          properties: { speeds_mps: { type: 'array', minItems: 1, items: positive } },
+      'The controller the firmware runs (the same defaults as speedband tune and speedband stability).',
+    ),
+    acceptance: described(
+      {
+        type: 'object',
+        additionalProperties: false,
+        properties: {
+          maximumLowerGainMargin_dB: described({ type: 'number', maximum: 0 }, 'Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this.'),
+          minimumUpperGainMargin_dB: described(nonNegative, 'Upper gain margin (the gain increase that destabilises) must be at least this.'),
+          minimumPhaseMargin_deg: described({ type: 'number', minimum: 0, maximum: 180 }, 'Phase margin must be at least this.'),
+          maximumSensitivityPeak: described({ type: 'number', minimum: 1 }, 'Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund).'),
+          delayMarginRoom_s: described(nonNegative, 'Required delay margin = computation latency + Ts/2 (the hold) + this room.'),
         },
-        {
-          type: 'object',
-          additionalProperties: false,
-          properties: { count: { type: 'integer', minimum: 1, maximum: 100 }, spacing: { enum: ['geometric', 'linear'] } },
+      },
+      'Limits every speed of the dense check must meet.',
+    ),
+    check: described(
+      {
+        type: 'object',
+        additionalProperties: false,
+        properties: {
+          gridSpeeds: described({ type: 'integer', minimum: 2, maximum: 100000 }, 'Evenly spaced check speeds across the range (breakpoints and midpoints are added).'),
+          maxInsertedBreakpoints: described({ type: 'integer', minimum: 0, maximum: 100 }, 'Most breakpoints the refinement may insert where the check fails between breakpoints.'),
+          model: described(
+            { enum: ['single-track', 'interpolated-lumped'] },
+            'Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused).',
+          ),
         },
-      ],
-    },
-    interpolation: { enum: ['linear', 'monotone-cubic'] },
-    controller: {
-      type: 'object',
-      additionalProperties: false,
-      properties: {
-        form: { enum: ['parallel'] },
-        derivativeFilter: positive,
-        sampleTime_s: positive,
-        discretisation: { enum: ['tustin', 'backward-euler'] },
-        computationLatency_s: nonNegative,
       },
-    },
-    acceptance: {
-      type: 'object',
-      additionalProperties: false,
-      properties: {
-        maximumLowerGainMargin_dB: { type: 'number', maximum: 0 },
-        minimumUpperGainMargin_dB: nonNegative,
-        minimumPhaseMargin_deg: { type: 'number', minimum: 0, maximum: 180 },
-        maximumSensitivityPeak: { type: 'number', minimum: 1 },
-        delayMarginRoom_s: nonNegative,
-      },
-    },
-    check: {
-      type: 'object',
-      additionalProperties: false,
-      properties: {
-        gridSpeeds: { type: 'integer', minimum: 2, maximum: 100000 },
-        maxInsertedBreakpoints: { type: 'integer', minimum: 0, maximum: 100 },
-        model: { enum: ['single-track', 'interpolated-lumped'] },
-      },
-    },
+      'The dense check.',
+    ),
   },
 } as const;

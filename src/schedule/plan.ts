@@ -2,6 +2,7 @@
  * The plan: which loop, rule, breakpoints, interpolation, controller and acceptance limits a
  * schedule is built with. Every field has a documented default (PLAN_DEFAULTS), so `{}` is a plan.
  */
+import { CONTROLLER_DEFAULTS, resolveControllerSettings } from '../controller/defaults.js';
 import type { Discretisation } from '../controller/types.js';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
@@ -9,6 +10,8 @@ import { validatePlanFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import type { ControllerType, RuleName } from '../tuning/types.js';
 import { PLAN_SCHEMA } from './plan-schema.js';
+import { planReferenceHint } from './plan-reference-path.js';
+import { findRule, parameterNotTakenWords, parametersNotTaken } from '../tuning/registry.js';
 import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
 
 export type LoopKind = 'yaw-rate' | 'heading' | 'path';
@@ -105,7 +108,7 @@ export const PLAN_DEFAULTS: Plan = {
   speeds: { minimum_mps: 1, maximum_mps: 20, lowSpeedFloor_mps: 1 },
   breakpoints: { mode: 'automatic', count: 6, spacing: 'geometric' },
   interpolation: 'monotone-cubic',
-  controller: { form: 'parallel', derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler', computationLatency_s: 0.01 },
+  controller: { form: 'parallel', ...CONTROLLER_DEFAULTS },
   acceptance: {
     maximumLowerGainMargin_dB: -6,
     minimumUpperGainMargin_dB: 6,
@@ -116,10 +119,25 @@ export const PLAN_DEFAULTS: Plan = {
   check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track' },
 };
 
-const validatePlan = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile);
+const validateSchema = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile, planReferenceHint);
+
+/** Schema, then the rule's parameters: one the rule does not take is refused (it would be ignored), naming those it takes. */
+function validatePlan(value: unknown, file: string): PartialPlan {
+  const plan = validateSchema(value, file);
+  const rule = findRule(plan.rule?.name ?? PLAN_DEFAULTS.rule.name);
+  const notTaken = parametersNotTaken(rule, Object.keys(plan.rule?.parameters ?? {}));
+  if (notTaken.length > 0) {
+    throw new SpeedbandError(
+      'plan.parameterNotTaken',
+      `${parameterNotTakenWords(rule, notTaken[0])}${plan.rule?.name === undefined ? ' (simc is the default rule: name another with "rule": {"name": …})' : ''} — remove it or change the rule\n${planReferenceHint()}`,
+      { location: { file, jsonPath: `/rule/parameters/${notTaken[0]}` }, details: { rule: rule.name, parameters: notTaken, takes: rule.parameters } },
+    );
+  }
+  return plan;
+}
 
 function planError(message: string, jsonPath: string, file?: string): SpeedbandError {
-  return new SpeedbandError('plan.invalid', message, { location: { file, jsonPath } });
+  return new SpeedbandError('plan.invalid', `${message}\n${planReferenceHint()}`, { location: { file, jsonPath } });
 }
 
 function checkSpeedTable(value: SpeedVarying | undefined, jsonPath: string, file?: string): void {
@@ -210,13 +228,11 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   } else if (written !== undefined) {
     breakpoints = { mode: 'automatic', count: written.count ?? 6, spacing: written.spacing ?? 'geometric' };
   }
-  // Sample time: the plan's, else the vehicle file's, else the default; latency: the plan's, else one sample.
-  const sampleTime = partial.controller?.sampleTime_s ?? context.vehicleSampleTime_s ?? PLAN_DEFAULTS.controller.sampleTime_s;
-  const latency = partial.controller?.computationLatency_s ?? sampleTime;
+  // Sample time: the plan's, else the vehicle file's, else the default; latency: the plan's, else one sample (as tune and stability).
+  const controller = { form: 'parallel' as const, ...resolveControllerSettings(partial.controller ?? {}, context.vehicleSampleTime_s) };
+  checkControllerPlausible(controller, partial.controller ?? {}, file);
   const parameters = partial.rule?.parameters ?? PLAN_DEFAULTS.rule.parameters;
   for (const [name, value] of Object.entries(parameters)) checkSpeedTable(value as SpeedVarying, `/rule/parameters/${name}`, file);
-  const controller = { ...PLAN_DEFAULTS.controller, ...partial.controller, sampleTime_s: sampleTime, computationLatency_s: latency };
-  checkControllerPlausible(controller, partial.controller ?? {}, file);
   return {
     loop: { ...PLAN_DEFAULTS.loop, ...partial.loop },
     rule: { name: partial.rule?.name ?? PLAN_DEFAULTS.rule.name, parameters },

@@ -9,6 +9,7 @@ import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
 import { compileSpeedExpression, type ExpressionValue } from '../core/speed-expression.js';
 import type { RuleParameters } from '../tuning/types.js';
+import { planReferenceHint } from './plan-reference-path.js';
 import type { PlanRuleParameters, SpeedVarying } from './plan.js';
 
 /** The rule parameters that may vary with speed (the plan schema's speedVarying fields); all must be positive. */
@@ -56,7 +57,7 @@ export async function makeRuleParameterLookup(parameters: PlanRuleParameters, fi
       const where = compiled.position === null ? '' : ` (at character ${compiled.position} of the expression)`;
       throw new SpeedbandError(
         'plan.invalid',
-        `${name} ${quoted(text)}: ${compiled.reason}${where} — write a number, a table {"speeds_mps": […], "values": […]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)"`,
+        `${name} ${quoted(text)}: ${compiled.reason}${where} — write a number, a table {"speeds_mps": […], "values": […]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)"\n${planReferenceHint()}`,
         { location: { file, jsonPath: `/rule/parameters/${name}` }, details: { parameter: name, reason: compiled.reason, position: compiled.position } },
       );
     }
@@ -78,7 +79,7 @@ function checkedValue(name: string, text: string, result: ExpressionValue, speed
   const found = result.kind === 'number' ? shown(result.value) : result.found;
   throw new SpeedbandError(
     'plan.invalid',
-    `${name} ${quoted(text)} gives ${found} at ${shown(speed_mps)} m/s — it must be a positive number at every speed the schedule is tuned at; change the expression (e.g. bound it with max(…, …))`,
+    `${name} ${quoted(text)} gives ${found} at ${shown(speed_mps)} m/s — it must be a positive number at every speed the schedule is tuned at; change the expression (e.g. bound it with max(…, …))\n${planReferenceHint()}`,
     { location: { file, jsonPath: `/rule/parameters/${name}` }, details: { parameter: name, speed_mps, found } },
   );
 }

@@ -12,6 +12,7 @@ import type { LoopMargins } from '../verify/types.js';
 import { VERSION } from '../version.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from './checksum.js';
 import { validateGainTable } from './interpolate.js';
+import { failingSpeeds } from './dense-check.js';
 import { planThresholds, type Plan } from './plan.js';
 import type { BreakpointInsertion } from './refine.js';
 import { SCHEDULE_SCHEMA } from './schedule-schema.js';
@@ -136,10 +137,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
       thresholds: planThresholds(plan),
       worst,
       failedSpeeds: check.failedCount,
-      failures: check.points
-        .filter((point) => point.failures.length > 0)
-        .slice(0, LISTED_FAILURES)
-        .map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((failure) => failure.message) })),
+      failures: failingSpeeds(check.points, LISTED_FAILURES),
       insertions: (input.insertions ?? []).map((insertion) => ({ speed_mps: insertion.speed_mps, reason: insertion.reason })),
     },
     provenance: {

@@ -80,3 +80,8 @@ export function interpolationText(method: InterpolationMethod, lowSpeedFloor_mps
     `below ${lowSpeedFloor_mps} m/s (low-speed floor) the gains at ${lowSpeedFloor_mps} m/s are used.`
   );
 }
+
+/** A check model's kind in words: "joint single-track model", "per-speed models interpolated in speed". */
+export function modelWords(kind: string): string {
+  return kind === 'interpolated-lumped' ? 'per-speed models interpolated in speed' : kind === 'single-track' ? 'joint single-track model' : `${kind} model`;
+}

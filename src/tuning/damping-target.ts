@@ -142,5 +142,6 @@ export const DAMPING_TARGET: TuningRule = {
   title: 'Damping-target placement',
   citation: CITATION,
   plantClasses: ['double-integrating'],
+  parameters: ['dampingRatio', 'naturalFrequency_radps', 'settlingDistance_m', 'integralPoleRatio'],
   tune: dampingTarget,
 };

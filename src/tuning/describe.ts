@@ -26,7 +26,7 @@ function marginLines(margins: LoopMargins): string[] {
  * A tuned operating point as text for a terminal: loop, design model, rule with citation, its form and
  * intermediate quantities, parallel gains with units, margins of the full loop, warnings.
  */
-export function describeTunedOperatingPoint(point: TunedOperatingPoint): string {
+export function describeTunedOperatingPoint(point: TunedOperatingPoint, sampledMargins?: LoopMargins): string {
   const { loop, design, derivation, gains, margins } = point;
   const units = gainUnits(loop.kind);
   const lines: string[] = [];
@@ -54,9 +54,15 @@ export function describeTunedOperatingPoint(point: TunedOperatingPoint): string 
   lines.push(`  kp = ${number(gains.kp)} ${units.kp}`);
   lines.push(`  ki = ${number(gains.ki)} ${units.ki}`);
   lines.push(`  kd = ${number(gains.kd)} ${units.kd}`);
-  lines.push('Margins of the full loop (exact delay, filtered derivative):');
+  lines.push('Margins of the full loop (exact delay, filtered derivative; the sampling counted as a Ts/2 delay plus the latency):');
   lines.push(...marginLines(margins));
+  if (sampledMargins !== undefined) {
+    lines.push('Margins with the discrete PID the firmware runs (the exact sampled loop, as build and check judge it):');
+    lines.push(...marginLines(sampledMargins));
+  }
   for (const warning of point.warnings) lines.push(`Warning: ${warning}`);
-  if (!margins.stable) lines.push('The tuned loop is NOT stable on the full plant: choose a slower target (larger τc, λ or settling distance) or another rule.');
+  if (!margins.stable || (sampledMargins !== undefined && !sampledMargins.stable)) {
+    lines.push('The tuned loop is NOT stable on the full plant: choose a slower target (larger τc, λ or settling distance) or another rule.');
+  }
   return lines.join('\n');
 }

@@ -58,5 +58,6 @@ export const IMC_PID: TuningRule = {
   title: 'IMC-PID (internal model control)',
   citation: CITATION,
   plantClasses: ['self-regulating'],
+  parameters: ['closedLoopTimeConstant_s'],
   tune: (model, parameters) => imcPid(model, parameters),
 };

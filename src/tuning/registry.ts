@@ -3,7 +3,8 @@ import { DAMPING_TARGET } from './damping-target.js';
 import { IMC_PID } from './imc-pid.js';
 import { describePlantClass, plantClassOf } from './plant-class.js';
 import { SIMC } from './simc.js';
-import type { DesignModel, RuleContext, RuleName, RuleParameters, RuleResult, TuningRule } from './types.js';
+import type { DesignModel, RuleContext, RuleName, RuleParameterName, RuleParameters, RuleResult, TuningRule } from './types.js';
+import { closestName } from '../core/closest-name.js';
 import { ZIEGLER_NICHOLS_STEP } from './ziegler-nichols-step.js';
 import { ZIEGLER_NICHOLS_ULTIMATE } from './ziegler-nichols-ultimate.js';
 
@@ -22,6 +23,31 @@ export function findRule(name: string): TuningRule {
     `unknown tuning rule "${name}"${closest === undefined ? '' : ` — did you mean ${closest}?`}; known rules: ${RULE_NAMES.join(', ')}`,
     { details: { rule: name, known: RULE_NAMES } },
   );
+}
+
+/** The rules that read the parameter `name` (none: it is no rule's parameter). */
+export function rulesTaking(name: string): RuleName[] {
+  return TUNING_RULES.filter((rule) => (rule.parameters as readonly string[]).includes(name)).map((rule) => rule.name);
+}
+
+/** Of the parameter names given, those the rule does not read, in the order given. */
+export function parametersNotTaken(rule: TuningRule, given: readonly string[]): string[] {
+  return given.filter((name) => !(rule.parameters as readonly string[]).includes(name));
+}
+
+/**
+ * Words for a parameter the rule does not take: whose parameter it is, the closest one the rule takes,
+ * and the list the rule takes. `shown` writes a parameter name as the user wrote it (a plan field, or a
+ * command-line option).
+ */
+export function parameterNotTakenWords(rule: TuningRule, name: string, shown: (parameter: RuleParameterName) => string = (parameter) => parameter): string {
+  // Rules whose parameters are written the same way (two parameters may share one command-line option).
+  const owners = TUNING_RULES.filter((candidate) => candidate.parameters.some((parameter) => shown(parameter) === shown(name as RuleParameterName))).map((candidate) => candidate.name);
+  const own = [...new Set(rule.parameters.map(shown))];
+  const closest = closestName(shown(name as RuleParameterName), own);
+  const whose = owners.length > 0 ? ` (a parameter of ${owners.join(', ')})` : '';
+  const takes = own.length > 0 ? `${rule.name} takes ${own.join(', ')}` : `${rule.name} takes no parameter`;
+  return `${rule.name} does not use ${shown(name as RuleParameterName)}${whose} — ${closest === null ? '' : `did you mean ${closest}? `}${takes}`;
 }
 
 /**
@@ -51,6 +77,13 @@ export function applicableRules(model: DesignModel, parameters: RuleParameters, 
  */
 export function applyRule(name: string, model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
   const rule = findRule(name);
+  // A parameter the rule does not read would be silently ignored: refused instead.
+  const notTaken = parametersNotTaken(rule, Object.keys(parameters).filter((key) => parameters[key as RuleParameterName] !== undefined));
+  if (notTaken.length > 0) {
+    throw new SpeedbandError('tuning.parameterNotTaken', `${parameterNotTakenWords(rule, notTaken[0])}; remove it`, {
+      details: { rule: rule.name, parameters: notTaken, takes: rule.parameters },
+    });
+  }
   const plantClass = plantClassOf(model);
   const declared = rule.plantClasses.includes(plantClass);
   let refusal: SpeedbandError;

@@ -106,5 +106,6 @@ export const SIMC: TuningRule = {
   title: 'SIMC (Skogestad internal model control)',
   citation: CITATION,
   plantClasses: ['self-regulating', 'second-order', 'integrating', 'double-integrating'],
+  parameters: ['controllerType', 'simcClosedLoopTimeConstant_s'],
   tune: (model, parameters) => simc(model, parameters),
 };

@@ -84,6 +84,8 @@ export interface RuleParameters {
   readonly integralPoleRatio?: number;
 }
 
+export type RuleParameterName = keyof RuleParameters;
+
 /** Context some rules need beyond the model. */
 export interface RuleContext {
   /** Forward speed, m/s (damping-target settling distance). */
@@ -96,6 +98,8 @@ export interface TuningRule {
   readonly title: string;
   readonly citation: string;
   readonly plantClasses: readonly PlantClass[];
+  /** The parameters the rule reads (all optional); any other is refused (`tuning.parameterNotTaken`), never ignored. */
+  readonly parameters: readonly RuleParameterName[];
   /**
    * Compute the gains. Throws SpeedbandError `tuning.ruleNotApplicable` when the model is outside
    * the rule's plant classes or the rule cannot produce justified numbers for it.

@@ -98,5 +98,6 @@ export const ZIEGLER_NICHOLS_STEP: TuningRule = {
   title: 'Ziegler–Nichols step-response method',
   citation: CITATION,
   plantClasses: ['self-regulating', 'second-order', 'integrating'],
+  parameters: ['controllerType'],
   tune: (model, parameters) => zieglerNicholsStep(model, parameters),
 };

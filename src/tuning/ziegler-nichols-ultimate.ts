@@ -52,5 +52,6 @@ export const ZIEGLER_NICHOLS_ULTIMATE: TuningRule = {
   title: 'Ziegler–Nichols ultimate-gain method',
   citation: CITATION,
   plantClasses: ['self-regulating', 'second-order', 'integrating'],
+  parameters: ['controllerType'],
   tune: (model, parameters) => zieglerNicholsUltimate(model, parameters),
 };

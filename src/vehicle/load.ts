@@ -11,8 +11,9 @@ import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
 import { validateVehicleFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
-import { closestName } from '../log/closest-name.js';
+import { closestName } from '../core/closest-name.js';
 import { VEHICLE_RANGES, VEHICLE_SCHEMA } from './schema.js';
+import { bundledVehicleFolder, bundledVehicles, shownPath } from './bundled.js';
 import type { Vehicle } from './types.js';
 import { QUOTED_TEXT_MAX, cutText, quoted } from '../core/quote.js';
 
@@ -94,8 +95,20 @@ export function validateVehicle(value: unknown, file: string): Vehicle {
   return vehicle;
 }
 
-/** The vehicle.json a user's path stands for: the path itself, or vehicle.json inside a folder. */
+/**
+ * The vehicle.json a user's path stands for: the path itself, vehicle.json inside a folder, or — when
+ * nothing exists at the path and it is a bundled demo vehicle's name (`parcel-van`) — that vehicle's file.
+ */
 export function resolveVehiclePath(path: string): string {
+  const bundled = existsSync(path) ? undefined : bundledVehicleFolder(path);
+  if (bundled !== undefined) return shownPath(join(bundled, VEHICLE_FILE_NAME));
+  if (!existsSync(path) && !/[\\/.]/.test(path)) {
+    throw new SpeedbandError(
+      'vehicle.notFound',
+      `no file or folder ${quoted(path)} here, and no bundled demo vehicle of that name (${bundledVehicles().join(', ')}) — give the path of vehicle.json or of its folder`,
+      { location: { file: path }, details: { bundled: bundledVehicles() } },
+    );
+  }
   if (existsSync(path) && statSync(path).isDirectory()) {
     const inside = join(path, VEHICLE_FILE_NAME);
     if (!existsSync(inside)) {

@@ -54,6 +54,14 @@ export interface StepAmplitudes {
   readonly steadyLateralAcceleration_mps2: number;
 }
 
+/** What chose the large amplitude, in words for tables. */
+export const LIMITED_BY_WORDS: Readonly<Record<StepAmplitudes['limitedBy'], string>> = {
+  lateralAcceleration: 'lateral acceleration target',
+  angleLimit: 'half the steer-angle limit',
+  rateLimit: 'steer rate limit',
+  given: 'given amplitudes',
+};
+
 /** Actuator limits the plan must respect, rad and rad/s. */
 export interface ActuatorLimits {
   readonly maxSteerAngle_rad: number;

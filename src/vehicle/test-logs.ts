@@ -15,7 +15,7 @@ import { makeRandom } from '../core/random.js';
 import { radiansToDegrees } from '../core/units.js';
 import { simulateSingleTrack } from './simulate.js';
 import { singleTrackParametersFromVehicle } from './single-track.js';
-import { planDuration_s, planSteps, sampleCommand, stepAmplitudes, STEP_PLAN_DEFAULTS, type PlannedStep, type StepAmplitudes } from './step-plan.js';
+import { LIMITED_BY_WORDS, planDuration_s, planSteps, sampleCommand, stepAmplitudes, STEP_PLAN_DEFAULTS, type PlannedStep, type StepAmplitudes } from './step-plan.js';
 import type { Vehicle } from './types.js';
 
 export const TEST_LOG_DEFAULTS = {
@@ -182,7 +182,7 @@ export function testLogsReadme(vehicle: Vehicle, logs: readonly GeneratedTestLog
     settings.commandResolution_rad > 0 ? ` --command-resolution-deg ${Number(radiansToDegrees(settings.commandResolution_rad).toPrecision(12))}` : '';
   const rows = logs.map(
     (log) =>
-      `| ${log.fileName} | ${log.speed_mps} | ${deg(log.amplitudes.large_rad)} / ${deg(log.amplitudes.small_rad)} | ${log.amplitudes.limitedBy} | ${log.amplitudes.steadyLateralAcceleration_mps2.toFixed(2)} | ${log.steps.length} | ${log.steps.map((s) => s.onset_s.toFixed(2)).join(' ')} |`,
+      `| ${log.fileName} | ${log.speed_mps} | ${deg(log.amplitudes.large_rad)} / ${deg(log.amplitudes.small_rad)} | ${LIMITED_BY_WORDS[log.amplitudes.limitedBy]} | ${log.amplitudes.steadyLateralAcceleration_mps2.toFixed(2)} | ${log.steps.length} | ${log.steps.map((s) => s.onset_s.toFixed(2)).join(' ')} |`,
   );
   return [
     `# Synthetic step-steer logs — ${vehicle.name}`,

@@ -143,7 +143,7 @@ describe('the refit flow on the changed demo vehicle', () => {
     const code = await runCli(['build', '--vehicle', loaded, '--logs', ...logs, '--baseline', schedulePath, '--out', join(dir, 'loaded.json'), '--json'], io);
     const report = JSON.parse(io.out()) as {
       status: string;
-      baseline: { passedOnNewModel: boolean; failing: { speed_mps: number }[] };
+      baseline: { passedOnNewModel: boolean; failures: { speed_mps: number }[] };
     };
     // The new schedule passes its own check; the old one does not, so the command exits 1.
     expect(report.status).toBe('passed');
@@ -151,7 +151,7 @@ describe('the refit flow on the changed demo vehicle', () => {
     expect(code).toBe(1);
     // Less understeer (K = (m/L)(b/Cf − a/Cr) falls: rear CG shift and softer rear tyres, Gillespie 1992) raises the
     // yaw gain vx/(L + K·vx²) most at high speed, so the old gains fail there first (common practice: check high speed).
-    const failing = report.baseline.failing.map((point) => point.speed_mps);
+    const failing = report.baseline.failures.map((point) => point.speed_mps);
     expect(Math.min(...failing)).toBeGreaterThan(10);
     expect(Math.max(...failing)).toBeCloseTo(25, 0);
     // Side by side at the new breakpoints: the old gains at the top speed fail, the new ones pass there.

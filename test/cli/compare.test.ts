@@ -86,7 +86,7 @@ describe('speedband compare OLD NEW', () => {
     expect(result.out).toMatch(/--gain-change-pct[\s\S]*default 15/);
     expect(result.out).toMatch(/--gain-margin-drop-dB[\s\S]*dB \(default 3\)/);
     expect(result.out).toMatch(/--phase-margin-drop-deg[\s\S]*degrees \(default 10\)/);
-    expect(result.out).toMatch(/Exit code: 0 nothing flagged; 1 something flagged/);
+    expect(result.out).toMatch(/Exit codes:\n  0  nothing flagged\n  1  something moved past a threshold/);
   });
 });
 

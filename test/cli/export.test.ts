@@ -84,7 +84,7 @@ describe('speedband export', () => {
     const io = recordingIo();
     expect(await exportCli([path, '--format', 'c', '--q-format', '16.16', '--out', join(dir, 'q.h'), '--json'], io)).toBe(0);
     const summary = JSON.parse(io.out());
-    expect(summary.quantisation.format).toEqual({ fractionalBits: 16, wordBits: 32 });
+    for (const name of ['kp', 'ki', 'kd']) expect(summary.quantisation.formats[name]).toEqual({ fractionalBits: 16, wordBits: 32 });
     // Source: Q-format rounding, at most 2^−17 per value.
     expect(summary.quantisation.errors.kp.maxAbsolute).toBeLessThanOrEqual(2 ** -17);
     expect(summary.quantisation.recheckPassed).toBe(true);

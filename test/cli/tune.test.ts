@@ -21,9 +21,11 @@ describe('speedband tune', () => {
   it('SIMC on a yaw-rate FOPDT prints Kc = τ/(K(τc+θ)) and the closed-form phase margin of e^(−θs)/(2θs); exit 0', async () => {
     const { code, out } = await run(['tune', '--rule', 'simc', '--loop', 'yaw-rate', '--speed-mps', '8', ...fopdt]);
     expect(code).toBe(0);
-    // Source: Skogestad 2003 SIMC PI; θ = 0.07 s + Ts/2 = 0.005 s (default Ts 0.01 s): Kc = 0.12/(2.4·0.15) = 1/3, τI = 0.12 s.
-    expect(out).toMatch(/kp = 0\.33333 rad per rad\/s/);
-    expect(out).toMatch(/ki = 2\.7778 rad per rad\b/);
+    // Source: Skogestad 2003 SIMC PI; θ = 0.07 s + Ts/2 + latency = 0.085 s (default Ts 0.01 s, one sample of latency, as build):
+    // Kc = 0.12/(2.4·0.17) = 0.29412, τI = min(0.12, 4·0.17) = 0.12 s, ki = Kc/τI = 2.4510.
+    expect(out).toMatch(/Controller: backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\), derivative filter N = 10/);
+    expect(out).toMatch(/kp = 0\.29412 rad per rad\/s/);
+    expect(out).toMatch(/ki = 2\.4510 rad per rad\b/);
     // Closed form: PM = 90° − 0.5 rad = 61.352°, upper GM = 20·log10(π) = 9.943 dB.
     expect(out).toMatch(/phase margin\s+61\.352 °/);
     expect(out).toMatch(/upper gain margin\s+9\.9430 dB/);
@@ -34,11 +36,12 @@ describe('speedband tune', () => {
     const { code, out } = await run(['tune', '--rule', 'imc-pid', '--speed-mps', '8', ...fopdt, '--closed-loop-time-constant-s', '0.1', '--json']);
     expect(code).toBe(0);
     const parsed = JSON.parse(out) as { gains: { kp: number; ki: number; kd: number }; derivation: { rule: string }; margins: { stable: boolean } };
-    // Source: Rivera, Morari & Skogestad 1986 with θ = 0.075 s, τ = 0.12 s, λ = 0.1 s, K = 2.4: Kc = (2τ+θ)/(K(2λ+θ)).
-    const kc = (2 * 0.12 + 0.075) / (2.4 * (2 * 0.1 + 0.075));
+    // Source: Rivera, Morari & Skogestad 1986 with θ = 0.07 + Ts/2 + one sample of latency = 0.085 s, τ = 0.12 s, λ = 0.1 s, K = 2.4:
+    // Kc = (2τ+θ)/(K(2λ+θ)).
+    const kc = (2 * 0.12 + 0.085) / (2.4 * (2 * 0.1 + 0.085));
     expect(parsed.gains.kp).toBeCloseTo(kc, 12);
-    expect(parsed.gains.ki).toBeCloseTo(kc / (0.12 + 0.075 / 2), 12);
-    expect(parsed.gains.kd).toBeCloseTo((kc * 0.12 * 0.075) / (2 * 0.12 + 0.075), 12);
+    expect(parsed.gains.ki).toBeCloseTo(kc / (0.12 + 0.085 / 2), 12);
+    expect(parsed.gains.kd).toBeCloseTo((kc * 0.12 * 0.085) / (2 * 0.12 + 0.085), 12);
     expect(parsed.derivation.rule).toBe('imc-pid');
     expect(parsed.margins.stable).toBe(true);
   });
@@ -157,8 +160,8 @@ describe('speedband tune --models (the model identified by speedband identify)',
     const at10 = lumped.speeds.find((speed) => Math.abs(speed.speed_mps - 10) < 0.1)!.fopdt;
     expect(json.design.yawRateGain_perS).toBe(at10.gain);
     expect(json.design.yawRateTimeConstant_s).toBe(at10.timeConstant_s);
-    // Source: Skogestad 2003, SIMC for FOPDT with τc = θ; θ = identified dead time + Ts/2 (0.005 s, the van's Ts = 0.01 s).
-    const theta = at10.deadTime_s + 0.005;
+    // Source: Skogestad 2003, SIMC for FOPDT with τc = θ; θ = identified dead time + Ts/2 + one sample of latency (the van's Ts = 0.01 s).
+    const theta = at10.deadTime_s + 0.005 + 0.01;
     const kc = at10.timeConstant_s / (at10.gain * 2 * theta);
     expect(json.gains.kp).toBeCloseTo(kc, 10);
     expect(json.gains.ki).toBeCloseTo(kc / Math.min(at10.timeConstant_s, 8 * theta), 10);

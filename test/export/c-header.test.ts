@@ -9,7 +9,9 @@ import type { PidGains } from '../../src/controller/types.js';
 import { commentSafe } from '../../src/export/c-comment.js';
 import { computeScheduleChecksum } from '../../src/schedule/checksum.js';
 import { exportC } from '../../src/export/c-header.js';
-import { parseQFormat } from '../../src/export/fixed-point.js';
+import { parseFixedPointRequest, parseQFormat } from '../../src/export/fixed-point.js';
+import { integerLookup, speedToInteger } from '../../src/export/integer-lookup.js';
+import { gainSlopes } from '../../src/schedule/interpolate.js';
 import { makeGainLookup } from '../../src/schedule/interpolate.js';
 import { scheduleLookup, scheduleTable } from '../../src/schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
@@ -64,6 +66,37 @@ int main(void)
     });
 }
 
+/** Compile a fixed-point header with -mgeneral-regs-only (any floating point is then a compile error) and run its integer lookup. */
+function runIntegerC(header: string, speeds: readonly bigint[]): { kp: bigint; ki: bigint; kd: bigint }[] {
+  const dir = mkdtempSync(join(tmpdir(), 'speedband-c-integer-'));
+  writeFileSync(join(dir, 'schedule.h'), header);
+  writeFileSync(
+    join(dir, 'main.c'),
+    `#include <stdio.h>
+#include "schedule.h"
+int main(void)
+{
+  long v;
+  while (scanf("%ld", &v) == 1) {
+    speedband_schedule_gains g;
+    if (speedband_schedule_lookup((int32_t)v, &g) != SPEEDBAND_SCHEDULE_LOOKUP_OK) return 1;
+    printf("%ld %ld %ld\\n", (long)g.kp, (long)g.ki, (long)g.kd);
+  }
+  return 0;
+}
+`,
+  );
+  execFileSync('gcc', [...GCC_FLAGS, '-mgeneral-regs-only', '-o', join(dir, 'lookup'), join(dir, 'main.c')], { cwd: dir });
+  const output = execFileSync(join(dir, 'lookup'), { input: speeds.map(String).join('\n'), encoding: 'utf8' });
+  return output
+    .trim()
+    .split('\n')
+    .map((line) => {
+      const [kp, ki, kd] = line.split(' ').map((cell) => BigInt(cell));
+      return { kp, ki, kd };
+    });
+}
+
 /** The gains the C lookup gives at finite speeds (every status must be LOOKUP_OK = 0). */
 function runC(header: string, speeds: readonly number[]): { kp: number; ki: number; kd: number }[] {
   return runCStatus(header, speeds.map((v) => v.toPrecision(17))).map(({ status, kp, ki, kd }) => {
@@ -94,24 +127,76 @@ describe('exportC(schedule)', () => {
     });
   }
 
-  it('fixed point Q16.16: integers in int32_t, C agrees with the exact lookup within the reported quantisation error', () => {
-    const schedule = sampleSchedule();
-    const exported = exportC(schedule, { fixedPoint: parseQFormat('16.16') });
-    const quantisation = exported.quantisation!;
-    // Source: definition of Q format — rounding to 2^−16 leaves at most 2^−17 per stored value.
-    for (const name of ['kp', 'ki', 'kd'] as const) expect(quantisation.errors[name].maxAbsolute).toBeLessThanOrEqual(2 ** -17);
-    expect(exported.text).toMatch(/static const int32_t speedband_schedule_kp\[/);
-    const speeds = speedsFor(schedule);
-    const fromC = runC(exported.text, speeds);
-    const exact = scheduleLookup(schedule);
-    const quantised = makeGainLookup(quantisation.table, { interpolation: 'monotone-cubic', lowSpeedFloor_mps: 2 }, quantisation.slopes);
-    speeds.forEach((speed, i) => {
+  for (const [request, interpolation] of [
+    ['Q16.16', 'monotone-cubic'],
+    ['auto', 'monotone-cubic'],
+    ['8.8', 'linear'],
+  ] as const) {
+    it(`fixed point ${request}, ${interpolation}: integers only (compiles with -mgeneral-regs-only), bit for bit the TypeScript integer lookup, within the derived error bound of the exact lookup`, () => {
+      const schedule = sampleSchedule({ interpolation });
+      const exported = exportC(schedule, { fixedPoint: parseFixedPointRequest(request) });
+      const quantisation = exported.quantisation!;
+      // Source: definition of Q format — rounding to 2^−F leaves at most 2^−(F+1) per stored value.
+      for (const name of ['kp', 'ki', 'kd'] as const) expect(quantisation.errors[name].maxAbsolute).toBeLessThanOrEqual(quantisation.resolutionBounds[name]);
+      expect(exported.text).not.toMatch(/\bdouble\b|\bfloat\b/);
+      const speeds = speedsFor(schedule);
+      const integerSpeeds = speeds.map((speed) => speedToInteger(speed));
+      const fromC = runIntegerC(exported.text, integerSpeeds);
+      const exact = scheduleLookup(schedule);
+      const slopes = gainSlopes(scheduleTable(schedule), interpolation);
+      speeds.forEach((speed, i) => {
+        const expected = integerLookup(quantisation.integer, integerSpeeds[i]);
+        expect(fromC[i]).toEqual({ kp: expected.kp, ki: expected.ki, kd: expected.kd });
+      });
+      // The bound, value units: stored values 2^−(F+1) each, carried through the convex weights (h00 + h01 = 1) and the
+      // Hermite slope weights (|h10|, |h11| ≤ 4/27, slope terms stored to 2^−(F+1)), the final rounding 2^−(F+1); the
+      // weights truncated to 2^−24 (t, t², t³: at most 7·2^−24 on each weight) times |Δy| + |h·m0| + |h·m1|; the speed
+      // rounded to 2^−17 m/s on the grid and the argument: |dy/dv|·2^−16, |dy/dv| ≤ 3·max(|m|, |Δy/h|) for a monotone cubic
+      // (Fritsch & Carlson 1980), |Δy/h| for linear.
+      const table = scheduleTable(schedule);
       for (const name of ['kp', 'ki', 'kd'] as const) {
-        // Source: Q-format rounding bound 2^−17, carried through the convex Hermite weights (fixed-point.ts); 1e-15 for double rounding.
-        expect(Math.abs(fromC[i][name] - exact(speed)[name])).toBeLessThanOrEqual(quantisation.resolutionBound + 1e-15);
-        expect(close(fromC[i][name], quantised(speed)[name], C_AGREEMENT) || fromC[i][name] === quantised(speed)[name]).toBe(true);
+        const epsilon = quantisation.resolutionBounds[name];
+        let largest = 0;
+        let steepest = 0;
+        for (let k = 0; k + 1 < table.speeds_mps.length; k += 1) {
+          const h = table.speeds_mps[k + 1] - table.speeds_mps[k];
+          const dy = Math.abs(table.gains[k + 1][name] - table.gains[k][name]);
+          largest = Math.max(largest, dy + h * (Math.abs(slopes[name][k]) + Math.abs(slopes[name][k + 1])));
+          steepest = Math.max(steepest, 3 * Math.max(Math.abs(slopes[name][k]), Math.abs(slopes[name][k + 1]), dy / h));
+        }
+        const bound = epsilon * (2 + 8 / 27) + 7 * 2 ** -24 * largest + steepest * 2 ** -16;
+        speeds.forEach((speed, i) => {
+          const value = Number(fromC[i][name]) / 2 ** quantisation.formats[name].fractionalBits;
+          expect(Math.abs(value - exact(speed)[name])).toBeLessThanOrEqual(bound);
+        });
+        expect(quantisation.errors[name].maxAbsoluteInterpolated).toBeLessThanOrEqual(bound);
       }
+      // Exact stored values at the breakpoints.
+      schedule.breakpoints.forEach((_, k) =>
+        expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual({ kp: quantisation.integer.gains.kp[k], ki: quantisation.integer.gains.ki[k], kd: quantisation.integer.gains.kd[k] }),
+      );
     });
+  }
+
+  it('--q-format spellings: Q16.16, q16.16 and 16.16 are one format; auto picks each gain\'s format from its range', () => {
+    expect(parseFixedPointRequest('Q16.16')).toEqual({ fractionalBits: 16, wordBits: 32 });
+    expect(parseFixedPointRequest('q16.16')).toEqual(parseQFormat('16.16'));
+    expect(parseFixedPointRequest('Q4.12')).toEqual({ fractionalBits: 12, wordBits: 16 });
+    expect(parseFixedPointRequest('AUTO')).toBe('auto');
+    const schedule = sampleSchedule();
+    const { formats } = exportC(schedule, { fixedPoint: 'auto' }).quantisation!;
+    const table = scheduleTable(schedule);
+    const slopes = gainSlopes(table, 'monotone-cubic');
+    for (const name of ['kp', 'ki', 'kd'] as const) {
+      // Source: two's complement — an int32 holds −2^31 … 2^31 − 1: the most fractional bits F with max|value|·2^F < 2^31,
+      // over the gains and the slope terms h·m the integer lookup stores in the same format.
+      const terms = table.speeds_mps.slice(1).flatMap((speed, k) => [(speed - table.speeds_mps[k]) * slopes[name][k], (speed - table.speeds_mps[k]) * slopes[name][k + 1]]);
+      const largest = Math.max(...table.gains.map((row) => Math.abs(row[name])), ...terms.map(Math.abs));
+      expect(formats[name].wordBits).toBe(32);
+      if (largest > 0) expect(largest * 2 ** formats[name].fractionalBits).toBeLessThan(2 ** 31);
+      // One more fractional bit would not fit (31 is the most an int32 has beside its sign).
+      if (largest > 0 && formats[name].fractionalBits < 31) expect(largest * 2 ** (formats[name].fractionalBits + 1)).toBeGreaterThanOrEqual(2 ** 31 - 1);
+    }
   });
 
   it('carries units, loop, controller equation, checksum and the safety cautions, in ASCII', () => {
@@ -169,6 +254,13 @@ function hostileSchedule(): ScheduleFile {
 /** Every name the header may define (README, "C header"), for the default prefix. */
 const DOCUMENTED_SYMBOLS = new Set([
   'speedband_schedule_speed_mps',
+  'speedband_schedule_speed_q16',
+  'speedband_schedule_kp_slope_term0',
+  'speedband_schedule_ki_slope_term0',
+  'speedband_schedule_kd_slope_term0',
+  'speedband_schedule_kp_slope_term1',
+  'speedband_schedule_ki_slope_term1',
+  'speedband_schedule_kd_slope_term1',
   'speedband_schedule_kp',
   'speedband_schedule_ki',
   'speedband_schedule_kd',
@@ -179,7 +271,9 @@ const DOCUMENTED_SYMBOLS = new Set([
   'speedband_schedule_lookup',
 ]);
 const DOCUMENTED_MACROS = new Set(
-  ['H', 'BREAKPOINTS', 'SAMPLE_TIME_S', 'DERIVATIVE_FILTER', 'INTEGRATOR_CLAMP_RAD', 'LOW_SPEED_FLOOR_MPS', 'CHECKSUM', 'GAIN_SCALE', 'LOOKUP_OK', 'LOOKUP_FALLBACK', 'LOOKUP_NO_GAINS', 'FALLBACK_BREAKPOINT'].map(
+  ['H', 'BREAKPOINTS', 'SAMPLE_TIME_S', 'DERIVATIVE_FILTER', 'INTEGRATOR_CLAMP_RAD', 'LOW_SPEED_FLOOR_MPS', 'CHECKSUM', 'LOOKUP_OK', 'LOOKUP_FALLBACK', 'LOOKUP_NO_GAINS', 'FALLBACK_BREAKPOINT',
+    // Fixed-point headers:
+    'SPEED_FRACTIONAL_BITS', 'KP_FRACTIONAL_BITS', 'KI_FRACTIONAL_BITS', 'KD_FRACTIONAL_BITS', 'LOW_SPEED_FLOOR_Q16'].map(
     (name) => `SPEEDBAND_SCHEDULE_${name}`,
   ),
 );
@@ -192,7 +286,7 @@ describe('exportC with hostile text in every free-text field', () => {
       expect(/^[\x09\x0a\x20-\x7e]*$/.test(text)).toBe(true);
       expect(text).not.toMatch(/\?\?|\\/);
       writeFileSync(join(dir, 'schedule.h'), text);
-      writeFileSync(join(dir, 'main.c'), '#include "schedule.h"\nint main(void)\n{\n  speedband_schedule_gains g;\n  return speedband_schedule_lookup(5.0, &g);\n}\n');
+      writeFileSync(join(dir, 'main.c'), `#include "schedule.h"\nint main(void)\n{\n  speedband_schedule_gains g;\n  return speedband_schedule_lookup(${fixedPoint === undefined ? '5.0' : '327680'}, &g);\n}\n`);
       writeFileSync(join(dir, 'empty.c'), '#include <stdint.h>\nint main(void)\n{\n  return 0;\n}\n');
       // Compiles with every warning an error; -fkeep-inline-functions emits every function the header defines.
       execFileSync('gcc', [...GCC_FLAGS, '-fkeep-inline-functions', '-c', '-o', join(dir, 'main.o'), join(dir, 'main.c')], { cwd: dir });

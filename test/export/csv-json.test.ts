@@ -30,7 +30,15 @@ print(json.dumps(list(csv.reader(io.StringIO(json.load(sys.stdin), newline='')))
       expect(Number(rows[k + 1][2])).toBe(row.ki);
       expect(Number(rows[k + 1][3])).toBe(row.kd);
       expect(rows[k + 1][4]).toBe(''); // no lower gain margin on this loop
+      // The controller settings the gains assume stand on every row.
+      expect(rows[k + 1].slice(11)).toEqual([
+        String(schedule.controller.sampleTime_s),
+        String(schedule.controller.computationLatency_s),
+        String(schedule.controller.derivativeFilter),
+        schedule.controller.discretisation,
+      ]);
     });
+    expect(rows[0].slice(11)).toEqual(['sampleTime_s', 'computationLatency_s', 'derivativeFilter', 'discretisation']);
     expect(text.endsWith('\r\n')).toBe(true);
   });
 });

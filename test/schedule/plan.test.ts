@@ -77,7 +77,7 @@ describe('plan file validation', () => {
 
   it('rejects unsorted breakpoints and speed tables with the offending index', () => {
     expect(() => planFromJson({ breakpoints: { speeds_mps: [2, 8, 5] } })).toThrow(expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/breakpoints/speeds_mps/2' }) }));
-    expect(() => planFromJson({ rule: { parameters: { settlingDistance_m: { speeds_mps: [5, 2], values: [10, 20] } } } })).toThrow(
+    expect(() => planFromJson({ rule: { name: 'damping-target', parameters: { settlingDistance_m: { speeds_mps: [5, 2], values: [10, 20] } } } })).toThrow(
       expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/rule/parameters/settlingDistance_m/speeds_mps/1' }) }),
     );
   });

@@ -16,6 +16,15 @@ function caught(run: () => unknown): SpeedbandError {
 }
 
 describe('rule registry', () => {
+  it('a parameter the rule does not read is tuning.parameterNotTaken (never silently ignored), naming whose it is and what the rule takes', () => {
+    const error = caught(() => applyRule('simc', doubleIntegrator, { simcClosedLoopTimeConstant_s: 0.2, dampingRatio: 0.7 }, { speed_mps: 5 }));
+    expect(error.code).toBe('tuning.parameterNotTaken');
+    expect(error.message).toBe('simc does not use dampingRatio (a parameter of damping-target) — simc takes controllerType, simcClosedLoopTimeConstant_s; remove it');
+    expect(error.details.parameters).toEqual(['dampingRatio']);
+    // An explicitly undefined parameter is not given.
+    expect(applyRule('simc', doubleIntegrator, { dampingRatio: undefined }, { speed_mps: 5 }).rule).toBe('simc');
+  });
+
   it('Ziegler–Nichols on a double integrator (path loop) is tuning.ruleNotApplicable naming why and the rules that apply', () => {
     for (const name of ['ziegler-nichols-step', 'ziegler-nichols-ultimate']) {
       const error = caught(() => applyRule(name, doubleIntegrator, {}, { speed_mps: 5 }));

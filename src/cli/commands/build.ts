@@ -13,6 +13,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const { writeSchedule, readSchedule } = await import('../../schedule/schedule-file.js');
   const { readModels, writeModels } = await import('../../identify/models-file.js');
   const { formatSchedule, formatCautions } = await import('../../build/schedule-report.js');
+  const { failingSpeeds } = await import('../../schedule/dense-check.js');
 
   const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
   const modelsIn = args.models === undefined ? undefined : String(args.models);
@@ -50,6 +51,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     ...(columns === undefined ? {} : { readOptions: { columns } }),
     ...(modelsIn === undefined ? {} : { models: readModels(modelsIn) }),
     ...(args.plan === undefined ? {} : { planFile: String(args.plan) }),
+    allowOtherVehicle: args['allow-other-vehicle'] === true,
     progress: io.progress,
   });
   const { schedule } = result;
@@ -61,6 +63,14 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const baselineCheck = baseline === undefined ? undefined : (await import('../../build/baseline.js')).checkBaseline(baseline, result);
   const baselineResult = baselineCheck?.check;
 
+  // Exit 1 has two causes; both outputs say which.
+  const exitReasons = [
+    ...(passed ? [] : [`the new schedule fails its dense check${written ? ' (written marked failed, --allow-failing)' : ' (nothing written)'}`]),
+    ...(baselineResult === undefined || baselineResult.passed
+      ? []
+      : [`the OLD gains of the baseline ${String(args.baseline)} fail on the new vehicle model at ${baselineResult.failedCount} of ${baselineResult.points.length} speeds${passed ? ' (the new schedule passed and was written)' : ''}`]),
+  ];
+  const exitCode = exitReasons.length === 0 ? EXIT.ok : EXIT.failed;
   if (args.json === true) {
     io.stdout(
       `${JSON.stringify(
@@ -70,8 +80,10 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           status: schedule.status,
           checksum: schedule.checksum.value,
           model: { kind: result.checkModel.kind, description: result.checkModel.description },
+          controller: schedule.controller,
           breakpoints: schedule.breakpoints,
           check: schedule.check,
+          extrapolations: result.extrapolations,
           derivations: result.tuned.map((point, k) => ({
             speed_mps: schedule.breakpoints[k].speed_mps,
             rule: point.derivation.rule,
@@ -89,9 +101,11 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
                   failedSpeeds: baselineResult.failedCount,
                   gridSize: baselineResult.points.length,
                   worst: baselineResult.worst,
-                  failing: baselineResult.points.filter((p) => p.failures.length > 0).map((p) => ({ speed_mps: p.speed_mps, failures: p.failures.map((f) => f.message) })),
+                  failures: failingSpeeds(baselineResult.points),
                   atNewBreakpoints: baselineCheck?.rows ?? [],
                 },
+          exitCode,
+          exitReasons,
           cautions: schedule.cautions,
         },
         null,
@@ -99,7 +113,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       )}\n`,
     );
   } else {
-    const warnings = [...new Set(result.tuned.flatMap((point) => point.derivation.warnings))];
+    const { extrapolationWords } = await import('../../build/extrapolation.js');
+    const warnings = [...new Set([...result.extrapolations.map(extrapolationWords), ...result.tuned.flatMap((point) => point.derivation.warnings)])];
     let text = formatSchedule(schedule);
     text += `\n  model: ${result.checkModel.description}\n`;
     if (warnings.length > 0) text += `  rule warnings:\n${warnings.map((warning) => `    - ${warning}`).join('\n')}\n`;
@@ -115,10 +130,11 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       text += `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
     }
     if (modelsOut !== undefined) text += `Wrote ${modelsOut}\n`;
+    if (exitCode !== EXIT.ok) text += `Exit 1: ${exitReasons.join('; and ')}.\n`;
     text += formatCautions();
     io.stdout(text);
   }
-  return passed && (baselineResult === undefined || baselineResult.passed) ? EXIT.ok : EXIT.failed;
+  return exitCode;
 }
 
 export const command: CommandModule = {
@@ -137,11 +153,21 @@ export const command: CommandModule = {
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
       .option('baseline', { type: 'string', describe: 'A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?)' })
+      .option('allow-other-vehicle', {
+        type: 'boolean',
+        default: false,
+        describe: 'With --models: accept models identified with another vehicle file than --vehicle (refused otherwise: their stiffnesses were fitted with that file\'s mass, inertia and geometry)',
+      })
       .option('allow-failing', { type: 'boolean', default: false, describe: 'Write a schedule that fails its dense check, marked "failed" (export refuses it unless told otherwise)' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing output files whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON (breakpoints, margins, derivations, check, baseline)' }),
+  exitCodes: [
+    [0, 'the schedule passed its dense check and was written (with --baseline: and the old gains still pass on the new vehicle model)'],
+    [1, 'the schedule failed its dense check (written only with --allow-failing, marked failed), or with --baseline the OLD gains fail on the new vehicle model (the new schedule, when it passed, was written) — the output says which'],
+    [2, 'bad input: logs, vehicle, plan, models, baseline or options (nothing written)'],
+  ],
   examples: [
-    ['speedband build --vehicle vehicles/parcel-van --logs vehicles/parcel-van/logs/*.csv --out schedule.json', 'Default plan: yaw-rate loop, SIMC'],
+    ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json', 'Default plan (yaw-rate loop, SIMC) on the bundled demo van and its logs'],
     ['speedband build --vehicle van.json --logs logs/*.csv --plan path-plan.json --out schedule.json', 'The loop, rule and limits from a plan file'],
     ['speedband build --vehicle van.json --logs new-logs/*.csv --baseline old-schedule.json --out new-schedule.json', 'After a vehicle change: new schedule, and are the old gains still safe?'],
   ],

@@ -37,7 +37,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           gridSize: result.points.length,
           failedSpeeds: result.failedCount,
           worst: result.worst,
-          failing: result.points.filter((p) => p.failures.length > 0).map((p) => ({ speed_mps: p.speed_mps, failures: p.failures.map((f) => f.message) })),
+          failures: (await import('../../schedule/dense-check.js')).failingSpeeds(result.points),
           notes,
         },
         null,
@@ -65,6 +65,11 @@ export const command: CommandModule = {
       .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
       .option('grid-speeds', { type: 'number', describe: 'Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule\'s own' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' }),
+  exitCodes: [
+    [0, 'the schedule\'s gains pass the dense check at every speed'],
+    [1, 'they fail at one or more speeds (listed)'],
+    [2, 'bad input: unreadable, invalid or edited schedule (checksum), vehicle, models or logs'],
+  ],
   examples: [
     ['speedband check schedule.json --vehicle vehicles/parcel-van', 'On the model recorded in the schedule'],
     ['speedband check schedule.json --vehicle van.json --logs todays-logs/*.csv', 'On a fresh identification from new logs'],

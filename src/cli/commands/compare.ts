@@ -36,14 +36,17 @@ export const command: CommandModule = {
         describe: `Breakpoints of the two schedules closer than this are the same speed (builds place breakpoints at measured test speeds), m/s (default ${HELP_DEFAULTS.speedTolerance_mps})`,
       })
       .option('json', { type: 'boolean', default: false, describe: 'Print the comparison as JSON (every compared speed, margin, model parameter and flag) for machines' })
-      .option('markdown', { type: 'boolean', default: false, describe: 'Print a Markdown report for a change review: summary, table of gains and margins, model drift, flag list' })
-      .epilogue(
-        'Speeds compared: the breakpoints of both schedules within their common range; where a speed is a breakpoint of only one, ' +
-          "the other schedule's gains come from its own lookup and its margins are interpolated linearly between its breakpoints. " +
-          'A changed loop kind, preview, controller form, sample time or discretisation makes the gains not comparable one by one (said, and flagged). ' +
-          'Model drift (cornering stiffnesses, actuator lag and delay, understeer gradient) needs both schedules built from a joint single-track fit.\n\n' +
-          'Exit code: 0 nothing flagged; 1 something flagged (use it to stop a CI pipeline); 2 bad input (unreadable, invalid or checksum-failed file, bad option).',
-      ),
+      .option('markdown', { type: 'boolean', default: false, describe: 'Print a Markdown report for a change review: summary, table of gains and margins, model drift, flag list' }),
+  epilogue:
+    'Speeds compared: the breakpoints of both schedules within their common range; where a speed is a breakpoint of only one, ' +
+    "the other schedule's gains come from its own lookup and its margins are interpolated linearly between its breakpoints. " +
+    'A changed loop kind, preview, controller form, sample time or discretisation makes the gains not comparable one by one (said, and flagged). ' +
+    'Model drift (cornering stiffnesses, actuator lag and delay, understeer gradient) needs both schedules built from a joint single-track fit.',
+  exitCodes: [
+    [0, 'nothing flagged'],
+    [1, 'something moved past a threshold (flagged): use it to stop a CI pipeline'],
+    [2, 'bad input: unreadable, invalid or checksum-failed file, bad option'],
+  ],
   examples: [
     ['speedband compare schedule-before.json schedule-after.json', 'Table of gains and margins old → new per speed, model drift, flags; exit 1 when flagged'],
     ['speedband compare old.json new.json --markdown > review.md', 'A Markdown change review with a flag list'],

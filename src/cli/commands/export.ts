@@ -39,7 +39,7 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
         .option('q-format', {
           type: 'string',
           describe:
-            'C only: store gains as fixed-point I.F (I integer bits including sign, F fractional bits, I + F = 16 or 32, e.g. 16.16); prints the quantisation error per gain (bound 2^-(F+1))',
+            'C only: gains as fixed-point integers and an integer-only lookup (no floating point; speed in units of 2^-16 m/s). QI.F or I.F (I integer bits including the sign, F fractional bits, I + F = 16 or 32: Q16.16, 16.16, Q4.12) for every gain, or auto: per gain, the 32-bit format with the most fractional bits its values need. Prints the error per gain; the dense check is re-run on what the integer lookup computes',
         })
         .option('prefix', { type: 'string', default: 'speedband_schedule', describe: 'C only: prefix of every identifier; the include guard is its upper case' })
         .option('allow-failing', {
@@ -50,9 +50,15 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
         })
         .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs (never the schedule itself)' })
         .option('json', { type: 'boolean', default: false, describe: 'With --out: print a JSON summary (file, format, checksum, quantisation errors) instead of text' }),
+    exitCodes: [
+      [0, 'written (or printed); the exported gains passed the re-run dense check'],
+      [1, 'not written: the schedule failed its check or the exported (quantised) gains fail it — or written with --allow-failing, for review only'],
+      [2, 'bad input: unreadable, invalid or edited schedule (checksum), bad option, a gain that does not fit the Q format'],
+    ],
     examples: [
       ['speedband export schedule.json --format c --out firmware/steer_schedule.h', 'C99 header with the lookup, units, controller equation, checksum and cautions'],
-      ['speedband export schedule.json --format c --q-format 16.16 --out steer_schedule_q16.h', 'Gains as Q16.16 int32_t; prints the quantisation error per gain'],
+      ['speedband export schedule.json --format c --q-format Q16.16 --out steer_schedule_q16.h', 'Gains as Q16.16 int32_t with an integer-only lookup; prints the error per gain'],
+      ['speedband export schedule.json --format c --q-format auto --out steer_schedule_fixed.h', 'Each gain in the 32-bit Q format that fits its range best'],
       ['speedband export schedule.json --format csv > gains.csv', 'Breakpoints, gains and margins for a spreadsheet'],
     ],
     run: async (args, io) => run(args, io, dependencies),
@@ -94,17 +100,21 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
   }
 
   const notes: string[] = [];
-  const fixedPoint = qFormat === undefined ? undefined : (await import('../../export/fixed-point.js')).parseQFormat(qFormat);
-  const quantisation =
-    fixedPoint === undefined ? undefined : (await import('../../export/fixed-point.js')).quantiseTable(scheduleTable(schedule), fixedPoint, scheduleLookupSettings(schedule));
+  const fixedPointModule = qFormat === undefined ? undefined : await import('../../export/fixed-point.js');
+  const fixedPoint = qFormat === undefined ? undefined : fixedPointModule!.parseFixedPointRequest(qFormat);
+  const quantisation = fixedPoint === undefined ? undefined : fixedPointModule!.quantiseTable(scheduleTable(schedule), fixedPoint, scheduleLookupSettings(schedule));
   const table = quantisation?.table ?? scheduleTable(schedule);
-  const check = analyse === null ? null : exportCheck.checkExportedTable(schedule, table, analyse);
+  // The fixed-point header interpolates in integers: the check judges exactly what that lookup computes.
+  const check = analyse === null ? null : exportCheck.checkExportedTable(schedule, table, analyse, quantisation?.lookup);
   if (quantisation !== undefined) {
-    const { fractionalBits, wordBits } = quantisation.format;
-    notes.push(`Q${wordBits - fractionalBits}.${fractionalBits} gains (int${wordBits}_t), error bound 2^-${fractionalBits + 1} = ${shown(quantisation.resolutionBound)}:`);
+    notes.push(`Fixed point${fixedPoint === 'auto' ? ' (auto: per gain, the 32-bit format with the most fractional bits its values need)' : ''}, integer-only lookup, speed in units of 2^-16 m/s:`);
     for (const name of ['kp', 'ki', 'kd'] as const) {
       const error = quantisation.errors[name];
-      notes.push(`  ${name}: max absolute error ${shown(error.maxAbsolute)} (${schedule.units[name]}), max relative ${shown(100 * error.maxRelative)} %`);
+      const format = quantisation.formats[name];
+      notes.push(
+        `  ${name}: ${fixedPointModule!.formatName(format)} (int${format.wordBits}_t), at breakpoints max error ${shown(error.maxAbsolute)} (bound 2^-${format.fractionalBits + 1}, ${schedule.units[name]}), ` +
+          `max relative ${shown(100 * error.maxRelative)} %; between breakpoints max ${shown(error.maxAbsoluteInterpolated)}`,
+      );
     }
   }
   const what = quantisation === undefined ? 'the gains' : 'the quantised gains';
@@ -135,7 +145,9 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
     fallback = analyse === null ? null : exportCheck.findFallbackGains(schedule, table, analyse);
     const upper = String(args.prefix).toUpperCase();
     notes.push(
-      fallback === null
+      quantisation !== undefined
+        ? `  The integer lookup takes the speed as an integer, never NaN: no fallback status; ${upper}_FALLBACK_BREAKPOINT is ${fallback === null ? '-1 (no breakpoint\'s gains pass held constant over the whole range)' : `${fallback.breakpoint} (${fallback.speed_mps} m/s), gains that pass held constant over the whole range, for a speed-sensor fault`}.`
+        : fallback === null
         ? `  NaN or infinite speed: no breakpoint's gains, held constant, pass the dense check over the whole range — the C lookup returns ${upper}_LOOKUP_NO_GAINS (the caller must hand over or stop).`
         : `  NaN or infinite speed: the C lookup returns ${upper}_LOOKUP_FALLBACK with the gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which pass the dense check held constant over the whole range.`,
     );
@@ -167,12 +179,21 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
           status: schedule.status,
           checksum: schedule.checksum.value,
           breakpoints: schedule.breakpoints.length,
-          check: check === null ? null : { passed: check.passed, gridSize: check.points.length, failedSpeeds: check.failedCount, worst: check.worst },
+          check:
+            check === null
+              ? null
+              : { passed: check.passed, gridSize: check.points.length, failedSpeeds: check.failedCount, failures: (await import('../../schedule/dense-check.js')).failingSpeeds(check.points), worst: check.worst },
           fallback,
           quantisation:
             quantisation === undefined
               ? null
-              : { format: quantisation.format, resolutionBound: quantisation.resolutionBound, errors: quantisation.errors, recheckPassed: check === null ? null : check.passed },
+              : {
+                  formats: quantisation.formats,
+                  resolutionBound: quantisation.resolutionBound,
+                  resolutionBounds: quantisation.resolutionBounds,
+                  errors: quantisation.errors,
+                  recheckPassed: check === null ? null : check.passed,
+                },
         },
         null,
         2,

@@ -174,6 +174,10 @@ export const command: CommandModule = {
       .option('joint-fit', { type: 'boolean', default: true, describe: 'Fit the joint single-track model (Cf, Cr, actuator lag and delay) over all steps' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (per-speed models, single-track results, dropped steps, warnings) instead of tables; with no --out, nothing is written' }),
+  exitCodes: [
+    [0, 'identified: models written (--out) or printed (--json)'],
+    [2, 'bad input: unreadable logs or vehicle, a channel off by a unit factor (checked against the kinematics), no steps, fewer than two usable speeds, an output path'],
+  ],
   examples: [
     ['speedband identify --vehicle vehicles/parcel-van --logs vehicles/parcel-van/logs --out models.json', 'Models of the demo van from its synthetic logs (every .csv in the folder)'],
     ['speedband identify --vehicle van.json --logs run1.csv run2.csv --out models.json --bias pre-step --json', 'Offset from the pre-step window; a JSON summary for scripts'],

@@ -6,7 +6,6 @@ import { describeError, isSpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
 import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
-import { SAFETY_EPILOGUE } from '../safety.js';
 
 export const command: CommandModule = {
   command: 'inspect <logs..>',
@@ -26,14 +25,16 @@ export const command: CommandModule = {
         describe: `Speed spread (max − min) allowed during a hold, m/s; ${100 * SEGMENT_DEFAULTS.speedToleranceFraction} % of the speed is allowed when larger`,
       })
       .option('gap-factor', { type: 'number', default: READ_DEFAULTS.gapFactor, describe: 'A time step longer than this many median sample periods splits the log' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print JSON (one object per log, SI units) instead of tables' })
-      .epilogue(
-        'Metrics (in the spirit of ISO 7401): steady yaw gain = steady yaw-rate change / command change (1/s); ' +
-          'response time = 50 % of the steer input to 90 % of the steady yaw rate (s); peak time = 50 % of the steer input to the yaw-rate peak (s); ' +
-          'overshoot = (peak − steady)/steady (%).\n' +
-          'Exit 0 when every log was read and has a usable step, 1 when a log has none, 2 when a log cannot be read.\n\n' +
-          SAFETY_EPILOGUE,
-      ),
+      .option('json', { type: 'boolean', default: false, describe: 'Print JSON (one object per log, SI units) instead of tables' }),
+  epilogue:
+    'Metrics (in the spirit of ISO 7401): steady yaw gain = steady yaw-rate change / command change (1/s); ' +
+    'response time = 50 % of the steer input to 90 % of the steady yaw rate (s); peak time = 50 % of the steer input to the yaw-rate peak (s); ' +
+    'overshoot = (peak − steady)/steady (%).',
+  exitCodes: [
+    [0, 'every log was read and has a usable step'],
+    [1, 'a log has no usable step (the others are still reported)'],
+    [2, 'a log cannot be read (the others are still reported)'],
+  ],
   examples: [
     ['speedband inspect vehicles/parcel-van/logs/*.csv', 'Every demo log of the parcel van: steps, metrics, rejections'],
     ['speedband inspect run7.csv --vehicle vehicles/parcel-van --column steer_cmd_rad=SWA:steering-wheel-deg --column speed_mps=v:km/h', 'A logger that records the steering-wheel angle in degrees and speed in km/h'],

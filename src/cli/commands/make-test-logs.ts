@@ -84,6 +84,10 @@ export const command: CommandModule = {
       })
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing files whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table' }),
+  exitCodes: [
+    [0, 'the logs and their README were written'],
+    [2, 'bad input: vehicle file without nominal cornering stiffnesses, bad speed list, an output that exists (--force)'],
+  ],
   examples: [
     ['speedband make-test-logs --vehicle vehicles/parcel-van --speeds 2,4,6,8,10,12.5,15,18,21,25 --seed 101 --out vehicles/parcel-van/logs', 'Regenerate the parcel van demo logs'],
     ['speedband make-test-logs --vehicle my-van.json --speeds 5:5:25 --seed 7 --noise-scale 0 --out /tmp/clean', 'Noise-free logs at 5, 10, 15, 20 and 25 m/s'],
@@ -92,6 +96,7 @@ export const command: CommandModule = {
   run: async (args, io) => {
     const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
     const { writeTestLogs, testLogFileName } = await import('../../vehicle/test-logs.js');
+    const { LIMITED_BY_WORDS } = await import('../../vehicle/step-plan.js');
     const { degreesToRadians, radiansToDegrees } = await import('../../core/units.js');
     const { checkOutputFolder, checkOutputPaths } = await import('../../core/output-paths.js');
     const { join } = await import('node:path');
@@ -152,7 +157,7 @@ export const command: CommandModule = {
         row.file,
         row.speed_mps.toString(),
         `±${radiansToDegrees(row.largeAmplitude_rad).toFixed(2)} ±${radiansToDegrees(row.smallAmplitude_rad).toFixed(2)}`,
-        row.amplitudeLimitedBy,
+        LIMITED_BY_WORDS[row.amplitudeLimitedBy],
         row.steadyLateralAcceleration_mps2.toFixed(2),
         row.samples.toString(),
         row.outcome ?? '',

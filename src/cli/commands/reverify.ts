@@ -49,6 +49,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           model: { kind: model.kind, description: model.description },
           gridSize: result.check.points.length,
           failedSpeeds: result.check.failedCount,
+          failures: (await import('../../schedule/dense-check.js')).failingSpeeds(result.check.points),
           worst: result.check.worst,
           checksum: result.schedule?.checksum.value ?? null,
           notes,
@@ -86,6 +87,11 @@ export const command: CommandModule = {
       .option('out', { type: 'string', demandOption: true, describe: 'Where to write the re-verified schedule (never the edited file itself: inputs are never outputs)' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' }),
+  exitCodes: [
+    [0, 'the edited schedule passed the dense check and was written with a fresh checksum'],
+    [1, 'it failed (nothing written)'],
+    [2, 'bad input: unreadable or invalid schedule, vehicle, models or logs; an output path'],
+  ],
   examples: [
     ['speedband reverify edited.json --vehicle vehicles/parcel-van --out schedule.json', 'Re-verify a hand-tuned schedule on the model it records'],
     ['speedband reverify edited.json --vehicle van.json --models models.json --out schedule.json', 'Re-verify on an identification'],

@@ -1,5 +1,6 @@
 import { SpeedbandError } from '../../core/errors.js';
-import { CONTROLLER_DEFAULTS } from '../../controller/defaults.js';
+import { CONTROLLER_DEFAULTS, describeControllerSettings, resolveControllerSettings } from '../../controller/defaults.js';
+import type { Discretisation } from '../../controller/types.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
 import type { LoopMargins } from '../../verify/types.js';
@@ -73,10 +74,11 @@ export const command: CommandModule = {
       .usage(
         'speedband stability (--numerator "..." --denominator "..." [--delay-s θ] | --gain K --time-constant-s T --dead-time-s L) --kp KP [--ki KI] [--kd KD] [options]\n\n' +
           'The plant is G(s) = N(s)/D(s)·e^(−θs) with coefficients highest power first, or the FOPDT K·e^(−Ls)/(Ts + 1). ' +
-          'The loop L = C·G is analysed with the exact delay.\n\n' +
-          'Verdict: decided by the closed-loop poles (a continuous loop: with the delay as a Padé approximant of an order chosen from the band; ' +
-          'with --sample-time-s: the exact closed-loop poles in z of the discrete PID the firmware runs, the plant through a zero-order hold with its ' +
-          'fractional delay, each pole with a bound on its rounding error), cross-checked by the Nyquist encirclement count. "marginal" means a ' +
+          'The loop L = C·G is analysed with the exact delay. The controller is the discrete PID the firmware runs, with the defaults of tune and build ' +
+          '(0.01 s, one sample of latency, backward Euler, N = 10): the plant through a zero-order hold with its fractional delay, analysed exactly as sampled ' +
+          '(margins, Ms and Mt on its frequency response up to the Nyquist frequency π/Ts). With --continuous, the continuous PID on the plant with its exact delay instead.\n\n' +
+          'Verdict: decided by the closed-loop poles (sampled: the exact closed-loop poles in z, each with a bound on its rounding error; --continuous: with the delay ' +
+          'as a Padé approximant of an order chosen from the band), cross-checked by the Nyquist encirclement count. "marginal" means a ' +
           'closed-loop pole lies on the stability boundary within that numerical tolerance; the output names it.\n\n' +
           'Margins are distances to instability, given only for a stable loop:\n' +
           '  phase margin  the smallest phase change, lag (as usual) or lead, that puts L on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], ' +
@@ -86,8 +88,7 @@ export const command: CommandModule = {
           '  lower gain margin  reducing the gain by this destabilises (negative dB; conditionally stable loops)\n' +
           '  delay margin  the smallest added delay that destabilises: phase lag over frequency at the gain crossovers, confirmed (or shortened) ' +
           'by the exact verdict of the loop with that delay added (a sampled loop: any fraction of a sample)\n' +
-          '  Ms = max|1/(1 + L)|, Mt = max|L/(1 + L)|  (a sampled loop: on its frequency response up to the Nyquist frequency π/Ts)\n\n' +
-          'Exit code: 0 when the loop is stable, 1 when it is unstable or marginal, 2 for bad input.',
+          '  Ms = max|1/(1 + L)|, Mt = max|L/(1 + L)|',
       )
       .option('numerator', { type: 'string', describe: 'Plant numerator coefficients, highest power first, e.g. "2 1" (a leading minus needs the = form: --numerator="-2 1")' })
       .option('denominator', { type: 'string', describe: 'Plant denominator coefficients, highest power first, e.g. "1 3 2"' })
@@ -100,13 +101,26 @@ export const command: CommandModule = {
       .option('kd', { type: 'number', describe: 'Derivative gain, s (with --form ideal or series: the derivative time in s); default 0' })
       .option('form', { type: 'string', choices: ['parallel', 'ideal', 'series'], default: 'parallel', describe: 'How --kp --ki --kd are written: parallel kp + ki/s + kd·s; ideal Kc(1 + 1/(Ti·s) + Td·s); series Kc(1 + 1/(τI·s))(1 + τD·s)' })
       .option('derivative-filter', { type: 'string', default: String(CONTROLLER_DEFAULTS.derivativeFilter), describe: 'Derivative filter factor N: Tf = Td/N; "none" for an unfiltered derivative' })
-      .option('sample-time-s', { type: 'number', describe: 'Firmware sample time Ts, s: analyse the discrete PID with a zero-order hold (margins and verdict on the exact sampled loop) (default: a continuous controller)' })
-      .option('discretisation', { type: 'string', choices: ['backward-euler', 'tustin'], default: CONTROLLER_DEFAULTS.discretisation, describe: 'Discretisation of the discrete PID (with --sample-time-s)' })
-      .option('latency-s', { type: 'number', default: 0, describe: 'Computation latency from sample to actuator command, s (added to the plant delay)' })
+      .option('sample-time-s', {
+        type: 'number',
+        describe: `Firmware sample time Ts, s: the discrete PID with a zero-order hold, margins and verdict on the exact sampled loop (default ${CONTROLLER_DEFAULTS.sampleTime_s}, as tune and build)`,
+      })
+      .option('discretisation', { type: 'string', choices: ['backward-euler', 'tustin'], default: CONTROLLER_DEFAULTS.discretisation, describe: 'Discretisation of the discrete PID' })
+      .option('latency-s', { type: 'number', describe: 'Computation latency from sample to actuator command, s, added to the plant delay (default: one sample, Ts, as tune and build)' })
+      .option('continuous', {
+        type: 'boolean',
+        default: false,
+        describe: 'Analyse a continuous PID instead (no sampling; latency 0 s unless --latency-s): textbook loops, or a controller much faster than the plant',
+      })
       .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' }),
+  exitCodes: [
+    [0, 'the loop is stable'],
+    [1, 'it is not stable, or the two tests (closed-loop poles, Nyquist count) do not agree'],
+    [2, 'bad input: plant, controller or options'],
+  ],
   examples: [
-    ['speedband stability --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5', 'A yaw-rate PI loop on an identified FOPDT'],
-    ['speedband stability --numerator 1 --denominator "1 0 0" --delay-s 1 --kp 0.0625 --ki 8 --kd 8 --form series --derivative-filter none', 'SIMC PID on a double integrator with delay: both gain margins'],
+    ['speedband stability --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5', 'A yaw-rate PI loop on an identified FOPDT, run as firmware at 100 Hz with one sample of latency'],
+    ['speedband stability --numerator 1 --denominator "1 0 0" --delay-s 1 --kp 0.0625 --ki 8 --kd 8 --form series --derivative-filter none --continuous', 'SIMC PID on a double integrator with delay, continuous as in the paper: both gain margins'],
     ['speedband stability --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07 --kp 0.35 --ki 2.5 --sample-time-s 0.02 --latency-s 0.005 --json', 'The same loop as firmware at 50 Hz with 5 ms latency, as JSON'],
   ],
   run: async (args, io) => {
@@ -142,17 +156,35 @@ export const command: CommandModule = {
     }
     const form = String(args.form) as 'parallel' | 'ideal' | 'series';
     const ki = numberOption(args, 'ki') ?? (form === 'parallel' ? 0 : Infinity);
-    const sampleTime_s = numberOption(args, 'sample-time-s');
+    const continuous = args.continuous === true;
+    if (continuous && args['sample-time-s'] !== undefined) {
+      throw new SpeedbandError('cli.conflictingOptions', '--continuous and --sample-time-s both given — a continuous controller has no sample time: drop one');
+    }
+    const derivativeFilter = filterOption(args['derivative-filter']);
+    // The same defaults as tune and build (src/controller/defaults.ts): 0.01 s, one sample of latency.
+    const controller = continuous
+      ? null
+      : resolveControllerSettings({
+          ...(args['sample-time-s'] === undefined ? {} : { sampleTime_s: numberOption(args, 'sample-time-s')! }),
+          ...(args['latency-s'] === undefined ? {} : { computationLatency_s: numberOption(args, 'latency-s')! }),
+          derivativeFilter,
+          discretisation: String(args.discretisation) as Discretisation,
+        });
     const margins = analyseLoop({
       plant,
-      pid: { kp: numberOption(args, 'kp')!, ki, kd: numberOption(args, 'kd') ?? 0, derivativeFilter: filterOption(args['derivative-filter']), form },
-      ...(sampleTime_s === undefined ? {} : { sampleTime_s, discretisation: String(args.discretisation) as 'tustin' | 'backward-euler' }),
-      latency_s: numberOption(args, 'latency-s') ?? 0,
+      pid: { kp: numberOption(args, 'kp')!, ki, kd: numberOption(args, 'kd') ?? 0, derivativeFilter, form },
+      ...(controller === null ? {} : { sampleTime_s: controller.sampleTime_s, discretisation: controller.discretisation }),
+      latency_s: controller?.computationLatency_s ?? numberOption(args, 'latency-s') ?? 0,
     });
+    const controllerWords =
+      controller === null
+        ? `continuous PID, derivative filter N = ${derivativeFilter}, latency ${numberOption(args, 'latency-s') ?? 0} s`
+        : describeControllerSettings(controller);
     if (args.json === true) {
-      io.stdout(`${JSON.stringify(margins, null, 2)}\n`);
+      io.stdout(`${JSON.stringify({ controller: controller ?? { continuous: true, derivativeFilter: Number.isFinite(derivativeFilter) ? derivativeFilter : null, computationLatency_s: numberOption(args, 'latency-s') ?? 0 }, ...margins }, null, 2)}\n`);
     } else {
       const lines = [
+        `controller: ${controllerWords}`,
         `verdict: ${margins.verdict}${verdictEvidence(margins)}`,
         ...(margins.stable
           ? [

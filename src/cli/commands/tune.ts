@@ -1,10 +1,11 @@
 import { SpeedbandError } from '../../core/errors.js';
-import { CONTROLLER_DEFAULTS } from '../../controller/defaults.js';
-import type { ControllerSettings } from '../../controller/types.js';
+import { CONTROLLER_DEFAULTS, describeControllerSettings, resolveControllerSettings } from '../../controller/defaults.js';
+import type { ControllerSettings, Discretisation } from '../../controller/types.js';
 import { TUNING_DEFAULTS } from '../../tuning/defaults.js';
-import { RULE_NAMES } from '../../tuning/registry.js';
-import type { RuleParameters } from '../../tuning/types.js';
+import { RULE_NAMES, findRule, parameterNotTakenWords, parametersNotTaken } from '../../tuning/registry.js';
+import type { RuleParameterName, RuleParameters } from '../../tuning/types.js';
 import type { Vehicle } from '../../vehicle/types.js';
+import type { OperatingPointModel } from '../../tuning/operating-point.js';
 import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
 import { QUOTED_TEXT_MAX, cutText, quoted } from '../../core/quote.js';
@@ -30,7 +31,8 @@ export const command: CommandModule = {
           'else the per-speed FOPDT models interpolated between the test speeds — the model `speedband build` tunes on); a lumped steer-command → yaw-rate FOPDT K·e^(−Ls)/(Ts + 1) given by hand; ' +
           'or a vehicle file alone with nominal cornering stiffnesses (single-track model with its actuator; nominal values are for the simulator — to tune a real vehicle, identify it and use --models). ' +
           'The rule is applied to the design model of the chosen loop (yaw rate: self-regulating; heading: integrating; path: double-integrating); the margins are computed on the full loop with the exact delay, ' +
-          'the derivative filter and the controller delay Ts/2 + latency. Exit code 0 when the tuned loop is stable, 1 when not, 2 for bad input or a rule that does not apply.',
+          'the derivative filter and the controller delay Ts/2 + latency, and again with the discrete PID the firmware runs (the exact sampled loop, as build and check judge it). ' +
+          'The controller settings default as in build: the vehicle file\'s sample time (else 0.01 s), one sample of latency, backward Euler, N = 10.',
       )
       .option('rule', { type: 'string', choices: [...RULE_NAMES], demandOption: true, describe: 'Tuning rule' })
       .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'], default: 'yaw-rate', describe: 'The loop the firmware closes' })
@@ -52,10 +54,20 @@ export const command: CommandModule = {
       .option('natural-frequency-radps', { type: 'number', describe: `Damping target ωn, rad/s (default: from --settling-distance-m, else ωn·θ_eff = ${TUNING_DEFAULTS.defaultBandwidthDelayProduct})` })
       .option('settling-distance-m', { type: 'number', describe: 'Damping target settling distance D, m: ωn = 4·v/(ζ·D)' })
       .option('integral-pole-ratio', { type: 'number', describe: `Damping target ωn/p (default ${TUNING_DEFAULTS.integralPoleRatio})` })
-      .option('sample-time-s', { type: 'number', describe: `Controller sample time Ts, s (default: the vehicle's, else ${CONTROLLER_DEFAULTS.sampleTime_s})` })
-      .option('latency-s', { type: 'number', default: CONTROLLER_DEFAULTS.computationLatency_s, describe: 'Computation latency from sample to steer command, s' })
-      .option('derivative-filter', { type: 'number', default: CONTROLLER_DEFAULTS.derivativeFilter, describe: 'Derivative filter factor N: Tf = (kd/kp)/N' })
+      .option('sample-time-s', { type: 'number', describe: `Controller sample time Ts, s (default, as build: the vehicle file's controllerSampleTime_s, else ${CONTROLLER_DEFAULTS.sampleTime_s})` })
+      .option('latency-s', { type: 'number', describe: 'Computation latency from sample to steer command, s (default, as build: one sample, Ts)' })
+      .option('derivative-filter', { type: 'number', describe: `Derivative filter factor N: Tf = (kd/kp)/N (default ${CONTROLLER_DEFAULTS.derivativeFilter}, as build)` })
+      .option('discretisation', {
+        type: 'string',
+        choices: ['backward-euler', 'tustin'],
+        describe: `Discretisation of the firmware's PID, for the margins of the sampled loop (default ${CONTROLLER_DEFAULTS.discretisation}, as build)`,
+      })
       .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' }),
+  exitCodes: [
+    [0, 'the tuned loop is stable, as designed and with the discrete PID'],
+    [1, 'it is not stable'],
+    [2, 'bad input, an option the rule does not use, or a rule that does not apply to the loop (the rules that do are named)'],
+  ],
   examples: [
     ['speedband tune --rule simc --loop heading --speed-mps 10 --models models.json --vehicle vehicles/parcel-van', 'SIMC for a heading loop on the model identified by `speedband identify` (joint single-track fit)'],
     ['speedband tune --rule simc --loop yaw-rate --speed-mps 8 --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07', 'SIMC PI for a yaw-rate loop from an identified FOPDT'],
@@ -65,6 +77,7 @@ export const command: CommandModule = {
   run: async (args, io) => {
     const { tuneOperatingPoint } = await import('../../tuning/operating-point.js');
     const { describeTunedOperatingPoint } = await import('../../tuning/describe.js');
+    ruleParametersFromOptions(args, String(args.rule)); // an option the rule does not use is refused before any model is read
     const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
     const speed_mps = numberOption(args, 'speed-mps')!;
     const gain = numberOption(args, 'gain');
@@ -81,11 +94,14 @@ export const command: CommandModule = {
       );
     }
     let model;
-    let modelWords: { description: string; warnings: readonly string[] } | undefined;
+    let modelWords: { description: string; warnings: readonly string[]; testSpeeds_mps: readonly number[] } | undefined;
+    let modelFromModels: ((at_mps: number) => OperatingPointModel) | undefined;
     if (args.models !== undefined) {
-      const fromModels = await modelFromModelsFile(String(args.models), vehicle === undefined ? undefined : { path: String(args.vehicle), vehicle }, fopdtGiven, speed_mps);
+      const given = vehicle === undefined ? undefined : { path: String(args.vehicle), vehicle };
+      const fromModels = await modelFromModelsFile(String(args.models), given, fopdtGiven, speed_mps);
       model = fromModels.model;
       modelWords = fromModels;
+      modelFromModels = (at_mps) => fromModels.modelAt(at_mps);
     } else if (fopdtGiven === 3) {
       if (timeConstant_s! < 0 || deadTime_s! < 0) {
         throw new SpeedbandError('cli.badNumber', `FOPDT times must be ≥ 0 s; got time constant ${timeConstant_s} s and dead time ${deadTime_s} s`);
@@ -99,38 +115,51 @@ export const command: CommandModule = {
       const { singleTrackParametersFromVehicle } = await import('../../vehicle/single-track.js');
       model = { kind: 'single-track' as const, parameters: singleTrackParametersFromVehicle(vehicle!) };
     }
-    const controller: ControllerSettings = {
-      ...CONTROLLER_DEFAULTS,
-      sampleTime_s: numberOption(args, 'sample-time-s') ?? vehicle?.controllerSampleTime_s ?? CONTROLLER_DEFAULTS.sampleTime_s,
-      computationLatency_s: numberOption(args, 'latency-s') ?? CONTROLLER_DEFAULTS.computationLatency_s,
-      derivativeFilter: numberOption(args, 'derivative-filter') ?? CONTROLLER_DEFAULTS.derivativeFilter,
-    };
-    const timeConstant = numberOption(args, 'closed-loop-time-constant-s');
-    const ruleParameters: RuleParameters = {
-      ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] as 'P' | 'PI' | 'PID' }),
-      ...(timeConstant === undefined ? {} : { closedLoopTimeConstant_s: timeConstant, simcClosedLoopTimeConstant_s: timeConstant }),
-      ...optionalNumber('dampingRatio', numberOption(args, 'damping-ratio')),
-      ...optionalNumber('naturalFrequency_radps', numberOption(args, 'natural-frequency-radps')),
-      ...optionalNumber('settlingDistance_m', numberOption(args, 'settling-distance-m')),
-      ...optionalNumber('integralPoleRatio', numberOption(args, 'integral-pole-ratio')),
-    };
-    const point = tuneOperatingPoint({
+    // The same defaults as build and stability (src/controller/defaults.ts): the vehicle's sample time, one sample of latency.
+    const controller: ControllerSettings = resolveControllerSettings(
+      {
+        ...optionalNumber('sampleTime_s', numberOption(args, 'sample-time-s')),
+        ...optionalNumber('computationLatency_s', numberOption(args, 'latency-s')),
+        ...optionalNumber('derivativeFilter', numberOption(args, 'derivative-filter')),
+        ...(args.discretisation === undefined ? {} : { discretisation: args.discretisation as Discretisation }),
+      },
+      vehicle?.controllerSampleTime_s,
+    );
+    const ruleParameters = ruleParametersFromOptions(args, String(args.rule));
+    const request = {
       loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
       speed_mps,
       model,
       rule: String(args.rule),
       ruleParameters,
       controller,
-    });
-    const warnings = [...(modelWords?.warnings ?? []), ...point.warnings];
+    };
+    const point = tuneOperatingPoint(request);
+    // Beyond the tested speeds: how far, and how large the gains are against those at the nearest test speed.
+    const extrapolation =
+      modelWords === undefined
+        ? null
+        : (await import('../../build/extrapolation.js')).extrapolationAt(speed_mps, modelWords.testSpeeds_mps, (at) =>
+            at === speed_mps ? point.gains : tuneOperatingPoint({ ...request, speed_mps: at, model: modelFromModels!(at) }).gains,
+          );
+    const warnings = [
+      ...(modelWords?.warnings ?? []),
+      ...(extrapolation === null ? [] : [(await import('../../build/extrapolation.js')).extrapolationWords(extrapolation)]),
+      ...point.warnings,
+    ];
+    // The margins of the discrete PID the firmware runs: the analysis of build's dense check.
+    const sampledMargins = (await import('../../build/loop-analysis.js')).analyseSampledLoop(point.loop, point.gains, controller);
     if (args.json) {
       const modelSource = modelWords === undefined ? {} : { model: { source: String(args.models), kind: model.kind, description: modelWords.description } };
-      io.stdout(`${JSON.stringify({ ...modelSource, gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, warnings, controller }, null, 2)}\n`);
+      io.stdout(
+        `${JSON.stringify({ ...modelSource, controller, gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, sampledMargins, warnings }, null, 2)}\n`,
+      );
     } else {
-      const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${String(args.models)})`, ...modelWords.warnings.map((warning) => `Warning: ${warning}`)];
-      io.stdout(`${[...header, describeTunedOperatingPoint(point)].join('\n')}\n`);
+      const modelWarnings = warnings.slice(0, warnings.length - point.warnings.length);
+      const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${String(args.models)})`, ...modelWarnings.map((warning) => `Warning: ${warning}`)];
+      io.stdout(`${[...header, `Controller: ${describeControllerSettings(controller)}`, describeTunedOperatingPoint(point, sampledMargins)].join('\n')}\n`);
     }
-    return point.margins.stable ? EXIT.ok : EXIT.failed;
+    return point.margins.stable && sampledMargins.stable ? EXIT.ok : EXIT.failed;
   },
 };
 
@@ -151,7 +180,48 @@ async function modelFromModelsFile(modelsPath: string, given: { path: string; ve
   const { sha256Hex } = await import('../../core/files.js');
   const { readFileSync } = await import('node:fs');
   const { operatingPointModelFromModels } = await import('../../build/operating-point-from-models.js');
-  return operatingPointModelFromModels(models, given.vehicle, speed_mps, sha256Hex(readFileSync(resolveVehiclePath(given.path))));
+  const vehicleSha256 = sha256Hex(readFileSync(resolveVehiclePath(given.path)));
+  return {
+    ...operatingPointModelFromModels(models, given.vehicle, speed_mps, vehicleSha256),
+    modelAt: (at_mps: number) => operatingPointModelFromModels(models, given.vehicle, at_mps).model,
+  };
+}
+
+/** The command-line option of each rule parameter (λ and τc share one option: the rule says which it is). */
+const PARAMETER_OPTIONS: Readonly<Record<RuleParameterName, string>> = {
+  controllerType: '--controller-type',
+  closedLoopTimeConstant_s: '--closed-loop-time-constant-s',
+  simcClosedLoopTimeConstant_s: '--closed-loop-time-constant-s',
+  dampingRatio: '--damping-ratio',
+  naturalFrequency_radps: '--natural-frequency-radps',
+  settlingDistance_m: '--settling-distance-m',
+  integralPoleRatio: '--integral-pole-ratio',
+};
+
+/**
+ * The rule's parameters from the options given; an option the rule does not use is refused (it would be
+ * ignored), naming the options the rule takes. --closed-loop-time-constant-s is IMC's λ or SIMC's τc.
+ */
+function ruleParametersFromOptions(args: Record<string, unknown>, ruleName: string): RuleParameters {
+  const rule = findRule(ruleName);
+  const timeConstant = numberOption(args, 'closed-loop-time-constant-s');
+  const timeConstantName: RuleParameterName = rule.parameters.includes('simcClosedLoopTimeConstant_s') ? 'simcClosedLoopTimeConstant_s' : 'closedLoopTimeConstant_s';
+  const given: RuleParameters = {
+    ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] as 'P' | 'PI' | 'PID' }),
+    ...optionalNumber(timeConstantName, timeConstant),
+    ...optionalNumber('dampingRatio', numberOption(args, 'damping-ratio')),
+    ...optionalNumber('naturalFrequency_radps', numberOption(args, 'natural-frequency-radps')),
+    ...optionalNumber('settlingDistance_m', numberOption(args, 'settling-distance-m')),
+    ...optionalNumber('integralPoleRatio', numberOption(args, 'integral-pole-ratio')),
+  };
+  const notTaken = parametersNotTaken(rule, Object.keys(given));
+  if (notTaken.length > 0) {
+    const shown = (parameter: RuleParameterName): string => PARAMETER_OPTIONS[parameter];
+    throw new SpeedbandError('cli.optionNotTaken', `${parameterNotTakenWords(rule, notTaken[0], shown)} — drop it or choose another --rule`, {
+      details: { rule: rule.name, options: notTaken.map((name) => PARAMETER_OPTIONS[name as RuleParameterName]), takes: [...new Set(rule.parameters.map(shown))] },
+    });
+  }
+  return given;
 }
 
 function optionalNumber<K extends string>(key: K, value: number | undefined): Partial<Record<K, number>> {

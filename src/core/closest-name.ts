@@ -1,5 +1,5 @@
 /**
- * "Did you mean" suggestions for misspelt column names: the candidate with the
+ * "Did you mean" suggestions for misspelt names (log columns, fields of JSON files, rule parameters): the candidate with the
  * smallest Levenshtein edit distance (case-insensitive), if it is close enough.
  */
 

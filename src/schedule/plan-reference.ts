@@ -1,0 +1,168 @@
+/**
+ * The plan reference (docs/plan.md), generated from the plan's JSON Schema (field descriptions, allowed
+ * values), PLAN_DEFAULTS and the tuning rules' own records: `npm run plan-reference` writes it and
+ * test/schedule/plan-reference.test.ts fails when the file is stale. Plan errors point to it.
+ */
+import { TUNING_RULES } from '../tuning/registry.js';
+import { PLAN_DEFAULTS } from './plan.js';
+import { PLAN_SCHEMA } from './plan-schema.js';
+
+export { PLAN_REFERENCE_PATH } from './plan-reference-path.js';
+
+/** Defaults that are not one constant: what decides them. */
+const DERIVED_DEFAULTS: Readonly<Record<string, string>> = {
+  'speeds.minimum_mps': 'the lowest test speed',
+  'speeds.maximum_mps': 'the highest test speed',
+  'speeds.lowSpeedFloor_mps': 'speeds.minimum_mps',
+  'breakpoints.speeds_mps': 'none: automatic breakpoints',
+  'controller.sampleTime_s': "the vehicle file's controllerSampleTime_s, else 0.01",
+  'controller.computationLatency_s': 'one sample: controller.sampleTime_s',
+  'rule.parameters.controllerType': 'Ziegler–Nichols PID; SIMC by plant class (PI; PID with a second lag, a lag behind an integrator, or two integrators)',
+  'rule.parameters.closedLoopTimeConstant_s': 'λ = θ, the design model\'s dead time (the rule advises λ > 0.8·θ)',
+  'rule.parameters.simcClosedLoopTimeConstant_s': 'τc = θ, the design model\'s dead time',
+  'rule.parameters.dampingRatio': '1 (critically damped)',
+  'rule.parameters.naturalFrequency_radps': 'from settlingDistance_m, else ωn·θ_eff = 0.1 (and at most what the preview lead allows)',
+  'rule.parameters.settlingDistance_m': 'none',
+  'rule.parameters.integralPoleRatio': '5',
+  description: 'none',
+  $schema: 'none',
+};
+
+/** Where each default comes from (a published source, common practice, or our choice and why). */
+const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
+  'loop.kind': 'our choice: the loop every steering firmware can close',
+  'loop.preview_m': 'our choice',
+  'loop.referencePoint': 'our choice',
+  'rule.name': 'Skogestad 2003 (SIMC): one rule for every plant class',
+  'rule.parameters.controllerType': 'Ziegler & Nichols 1942; Skogestad 2003',
+  'rule.parameters.closedLoopTimeConstant_s': 'Rivera, Morari & Skogestad 1986 (from memory: λ > 0.8·θ)',
+  'rule.parameters.simcClosedLoopTimeConstant_s': 'Skogestad 2003',
+  'rule.parameters.dampingRatio': 'common practice for lateral control: no overshoot of the path',
+  'rule.parameters.naturalFrequency_radps': 'our choice: half the warning bound ωn·θ_eff = 0.2',
+  'rule.parameters.settlingDistance_m': '—',
+  'rule.parameters.integralPoleRatio': 'common practice: the integral pole a factor ≈ 5 below ωn',
+  'speeds.minimum_mps': 'the logs',
+  'speeds.maximum_mps': 'the logs',
+  'speeds.lowSpeedFloor_mps': 'our choice: no speed range left under one set of gains',
+  'breakpoints.speeds_mps': '—',
+  'breakpoints.count': 'our choice',
+  'breakpoints.spacing': 'our choice: gains change fastest at low speed',
+  interpolation: 'our choice; Fritsch & Carlson 1980',
+  'controller.form': 'the only form stored',
+  'controller.derivativeFilter': 'common practice',
+  'controller.sampleTime_s': 'common practice: 100 Hz steering controllers',
+  'controller.discretisation': 'its derivative-filter pole stays in [0, 1) for any N',
+  'controller.computationLatency_s': 'our choice, on the safe side',
+  'acceptance.maximumLowerGainMargin_dB': 'common practice: 6 dB both ways',
+  'acceptance.minimumUpperGainMargin_dB': 'common practice: 6 dB both ways',
+  'acceptance.minimumPhaseMargin_deg': 'common practice',
+  'acceptance.maximumSensitivityPeak': 'Åström & Hägglund: Ms 1.4–2 is the usual robust range',
+  'acceptance.delayMarginRoom_s': 'our choice',
+  'check.gridSpeeds': 'our choice',
+  'check.maxInsertedBreakpoints': 'our choice',
+  'check.model': 'our choice: valid between and beyond the test speeds',
+  description: '—',
+  $schema: '—',
+};
+
+interface SchemaNode {
+  readonly description?: string;
+  readonly type?: string;
+  readonly enum?: readonly string[];
+  readonly minimum?: number;
+  readonly maximum?: number;
+  readonly exclusiveMinimum?: number;
+  readonly properties?: Readonly<Record<string, SchemaNode>>;
+  readonly oneOf?: readonly SchemaNode[];
+  readonly items?: SchemaNode;
+}
+
+const UNITS: readonly (readonly [string, string])[] = [
+  ['_mps', 'm/s'],
+  ['_radps', 'rad/s'],
+  ['_dB', 'dB'],
+  ['_deg', '°'],
+  ['_m', 'm'],
+  ['_s', 's'],
+];
+
+/** The unit a field's name states (units live in names), or "—". */
+const unitOf = (name: string): string => UNITS.find(([suffix]) => name.endsWith(suffix))?.[1] ?? '—';
+
+function allowedValues(node: SchemaNode): string {
+  if (node.enum !== undefined) return node.enum.map((value) => `\`${value}\``).join(', ');
+  if (node.oneOf !== undefined && node.oneOf.some((branch) => branch.type === 'string')) {
+    return `${allowedValues(node.oneOf[0])}; a table \`{"speeds_mps": […], "values": […]}\`; or an expression in \`speed_mps\``;
+  }
+  if (node.type === 'array') return `list of ${allowedValues(node.items ?? {})}`;
+  const bounds: string[] = [];
+  if (node.exclusiveMinimum !== undefined) bounds.push(`> ${node.exclusiveMinimum}`);
+  if (node.minimum !== undefined) bounds.push(`≥ ${node.minimum}`);
+  if (node.maximum !== undefined) bounds.push(`≤ ${node.maximum}`);
+  return `${node.type ?? 'value'}${bounds.length > 0 ? ` ${bounds.join(', ')}` : ''}`;
+}
+
+/** A PLAN_DEFAULTS value by dotted path (breakpoints are stored in their resolved form). */
+function constantDefault(path: string): string | undefined {
+  let value: unknown = PLAN_DEFAULTS;
+  for (const part of path.split('.')) value = value !== null && typeof value === 'object' ? (value as Record<string, unknown>)[part] : undefined;
+  return value === undefined || typeof value === 'object' ? undefined : `\`${JSON.stringify(value)}\``;
+}
+
+interface FieldRow {
+  readonly path: string;
+  readonly node: SchemaNode;
+}
+
+/** A node that groups fields: an object, or a oneOf of objects (the breakpoints). */
+const isGroup = (node: SchemaNode): boolean => node.properties !== undefined || (node.oneOf !== undefined && node.oneOf.every((branch) => branch.properties !== undefined));
+
+/** Every leaf field of the schema by dotted path (the object branches of a oneOf flattened into their parent). */
+function leafFields(properties: Readonly<Record<string, SchemaNode>>, prefix = ''): FieldRow[] {
+  return Object.entries(properties).flatMap(([name, node]) => {
+    const path = `${prefix}${name}`;
+    if (!isGroup(node)) return [{ path, node }];
+    const branches = node.properties !== undefined ? [node] : (node.oneOf ?? []);
+    return branches.flatMap((branch) => leafFields(branch.properties ?? {}, `${path}.`));
+  });
+}
+
+function fieldLine({ path, node }: FieldRow): string {
+  const name = path.split('.').pop() ?? path;
+  const fallback = DERIVED_DEFAULTS[path];
+  const constant = constantDefault(path);
+  const defaultText = fallback ?? constant;
+  const source = DEFAULT_SOURCES[path];
+  if (defaultText === undefined || source === undefined) throw new Error(`plan reference: no default or source written for ${path} (src/schedule/plan-reference.ts)`);
+  const cell = (text: string): string => text.replace(/\|/g, '\\|');
+  return `| \`${path}\` | ${cell(node.description ?? '')} | ${cell(allowedValues(node))} | ${unitOf(name)} | ${cell(defaultText)} | ${cell(source)} |`;
+}
+
+/** The whole reference as Markdown (deterministic: schema order, then the rules in registry order). */
+export function planReferenceMarkdown(): string {
+  const lines: string[] = [
+    '# Plan reference',
+    '',
+    '<!-- Generated from the plan schema by `npm run plan-reference` (src/schedule/plan-reference.ts); do not edit. -->',
+    '',
+    'A plan file (`speedband build --plan plan.json`) says which loop, rule, breakpoints, interpolation, controller and limits a',
+    'schedule is built with. Every field is optional: `{}` is the default plan, and `speedband plan --default [--loop KIND]` prints',
+    'it in full. Unknown fields are refused with the closest known name. Units are in the field names (SI).',
+    '',
+  ];
+  const sections = Object.entries(PLAN_SCHEMA.properties as unknown as Record<string, SchemaNode>);
+  for (const [name, node] of sections) {
+    lines.push(`## \`${name}\``, '', node.description ?? '', '');
+    lines.push('| field | meaning | allowed values | unit | default | source of the default |', '|---|---|---|---|---|---|');
+    for (const field of leafFields({ [name]: node })) lines.push(fieldLine(field));
+    lines.push('');
+  }
+  lines.push('## Rules and the parameters each takes', '');
+  lines.push('A parameter the rule does not take is refused, in a plan and on the command line (`speedband tune`).', '');
+  lines.push('| rule | method | plant classes | parameters | source |', '|---|---|---|---|---|');
+  for (const rule of TUNING_RULES) {
+    lines.push(`| \`${rule.name}\` | ${rule.title} | ${rule.plantClasses.join(', ')} | ${rule.parameters.map((parameter) => `\`${parameter}\``).join(', ')} | ${rule.citation.replace(/\|/g, '\\|')} |`);
+  }
+  lines.push('');
+  return `${lines.join('\n')}`;
+}
