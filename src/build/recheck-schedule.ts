@@ -13,6 +13,7 @@ import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult, GainsAtSpeed, ProgressCallback, SpeedRange } from '../schedule/types.js';
 import { checkModelFromSummary, parseCheckModelSummary, type CheckModel } from './check-model.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
+import { denseCheckOnAllCores } from './parallel-check.js';
 
 export interface RecheckInput {
   readonly schedule: ScheduleFile;
@@ -51,23 +52,45 @@ export function recordedCheckModel(schedule: ScheduleFile): CheckModel | null {
   return summary === null ? null : checkModelFromSummary(summary, `${schedule.check.model.description} (as recorded in the schedule)`);
 }
 
-/** Dense check of a schedule's gains on a model, with the schedule's thresholds. */
-export function recheckSchedule(input: RecheckInput): DenseCheckResult {
+/** The check grid of a recheck: the given speeds, or the schedule's breakpoints and midpoints with evenly spaced speeds over the range. */
+function recheckGrid(input: RecheckInput): ArrayLike<number> {
   const { schedule } = input;
-  const { loop, controller } = scheduleLoopAndController(schedule);
-  const range = input.range ?? schedule.check.range;
-  const grid =
+  return (
     input.grid ??
     checkGrid(
       schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps),
-      range,
+      input.range ?? schedule.check.range,
       input.gridSpeeds ?? schedule.check.gridSpeeds,
-    );
+    )
+  );
+}
+
+/** Dense check of a schedule's gains on a model, with the schedule's thresholds. */
+export function recheckSchedule(input: RecheckInput): DenseCheckResult {
+  const { loop, controller } = scheduleLoopAndController(input.schedule);
   return denseCheck({
-    grid,
-    gainsAt: input.gainsAt ?? scheduleLookup(schedule),
+    grid: recheckGrid(input),
+    gainsAt: input.gainsAt ?? scheduleLookup(input.schedule),
     analyse: makeLoopAnalysis(input.model, loop, controller),
-    thresholds: schedule.check.thresholds,
+    thresholds: input.schedule.check.thresholds,
+    ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }),
+  });
+}
+
+/**
+ * As recheckSchedule, on every core for a large grid (parallel-check.ts): the same points and figures.
+ * `workers` limits the worker threads (default: the available parallelism − 1; 0 = the main thread only).
+ */
+export async function recheckScheduleOnAllCores(input: RecheckInput & { readonly workers?: number }): Promise<DenseCheckResult> {
+  const { loop, controller } = scheduleLoopAndController(input.schedule);
+  return denseCheckOnAllCores({
+    model: input.model,
+    loop,
+    controller,
+    thresholds: input.schedule.check.thresholds,
+    grid: recheckGrid(input),
+    gainsAt: input.gainsAt ?? scheduleLookup(input.schedule),
+    ...(input.workers === undefined ? {} : { workers: input.workers }),
     ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }),
   });
 }

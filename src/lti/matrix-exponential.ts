@@ -21,8 +21,9 @@ const PADE_COEFFICIENTS: readonly number[] = (() => {
 
 type Square = Float64Array; // row-major n×n
 
-function multiply(x: Square, y: Square, n: number): Square {
-  const out = new Float64Array(n * n);
+/** out = x·y (out distinct from both). */
+function multiplyInto(out: Square, x: Square, y: Square, n: number): void {
+  out.fill(0);
   for (let i = 0; i < n; i += 1) {
     for (let k = 0; k < n; k += 1) {
       const xik = x[i * n + k];
@@ -30,20 +31,21 @@ function multiply(x: Square, y: Square, n: number): Square {
       for (let j = 0; j < n; j += 1) out[i * n + j] += xik * y[k * n + j];
     }
   }
-  return out;
 }
 
-/** Solve D·X = N for X (n×n right-hand sides) by Gaussian elimination with partial pivoting. */
-function solve(d: Square, rhs: Square, n: number): Square {
-  const a = Float64Array.from(d);
-  const b = Float64Array.from(rhs);
+/** Solve D·X = N in place (D and N overwritten; X left in N) by Gaussian elimination with partial pivoting. */
+function solveInPlace(a: Square, b: Square, n: number): void {
   for (let column = 0; column < n; column += 1) {
     let pivot = column;
     for (let row = column + 1; row < n; row += 1) if (Math.abs(a[row * n + column]) > Math.abs(a[pivot * n + column])) pivot = row;
     if (pivot !== column) {
       for (let j = 0; j < n; j += 1) {
-        [a[column * n + j], a[pivot * n + j]] = [a[pivot * n + j], a[column * n + j]];
-        [b[column * n + j], b[pivot * n + j]] = [b[pivot * n + j], b[column * n + j]];
+        const ta = a[column * n + j];
+        a[column * n + j] = a[pivot * n + j];
+        a[pivot * n + j] = ta;
+        const tb = b[column * n + j];
+        b[column * n + j] = b[pivot * n + j];
+        b[pivot * n + j] = tb;
       }
     }
     const diagonal = a[column * n + column];
@@ -61,7 +63,56 @@ function solve(d: Square, rhs: Square, n: number): Square {
       b[row * n + j] = sum / a[row * n + row];
     }
   }
-  return b;
+}
+
+/**
+ * e^X for a square matrix X given row-major in a Float64Array of n² entries (not modified); the result is a new
+ * array in the same layout. Dimensionless: for ẋ = Ax pass A·h. Throws a RangeError for non-finite entries.
+ */
+export function matrixExponentialOf(matrix: Float64Array, n: number): Float64Array {
+  const x = new Float64Array(n * n);
+  let norm = 0;
+  for (let j = 0; j < n; j += 1) {
+    let columnSum = 0;
+    for (let i = 0; i < n; i += 1) {
+      const value = matrix[i * n + j];
+      if (!Number.isFinite(value)) throw new RangeError(`matrixExponential needs finite entries, found ${value} at (${i}, ${j})`);
+      columnSum += Math.abs(value);
+    }
+    norm = Math.max(norm, columnSum);
+  }
+  const squarings = norm > SCALED_NORM_BOUND ? Math.ceil(Math.log2(norm / SCALED_NORM_BOUND)) : 0;
+  const scale = Math.pow(2, -squarings);
+  for (let k = 0; k < n * n; k += 1) x[k] = matrix[k] * scale;
+
+  // N = Σ c_k X^k, D = Σ (−1)^k c_k X^k
+  const numerator = new Float64Array(n * n);
+  const denominator = new Float64Array(n * n);
+  for (let i = 0; i < n; i += 1) {
+    numerator[i * n + i] = 1;
+    denominator[i * n + i] = 1;
+  }
+  let power = Float64Array.from(x);
+  let spare = new Float64Array(n * n);
+  for (let k = 1; k <= PADE_ORDER; k += 1) {
+    if (k > 1) {
+      multiplyInto(spare, power, x, n);
+      [power, spare] = [spare, power];
+    }
+    const c = PADE_COEFFICIENTS[k];
+    const sign = k % 2 === 0 ? 1 : -1;
+    for (let m = 0; m < n * n; m += 1) {
+      numerator[m] += c * power[m];
+      denominator[m] += sign * c * power[m];
+    }
+  }
+  solveInPlace(denominator, numerator, n);
+  let result = numerator;
+  for (let k = 0; k < squarings; k += 1) {
+    multiplyInto(spare, result, result, n);
+    [result, spare] = [spare, result];
+  }
+  return result;
 }
 
 /**
@@ -71,43 +122,12 @@ function solve(d: Square, rhs: Square, n: number): Square {
  */
 export function matrixExponential(matrix: readonly (readonly number[])[]): number[][] {
   const n = matrix.length;
-  const x = new Float64Array(n * n);
-  let norm = 0;
-  for (let j = 0; j < n; j += 1) {
-    let columnSum = 0;
-    for (let i = 0; i < n; i += 1) {
-      if (matrix[i].length !== n) throw new RangeError(`matrixExponential needs a square matrix, row ${i} has ${matrix[i].length} entries for ${n} rows`);
-      const value = matrix[i][j];
-      if (!Number.isFinite(value)) throw new RangeError(`matrixExponential needs finite entries, found ${value} at (${i}, ${j})`);
-      x[i * n + j] = value;
-      columnSum += Math.abs(value);
-    }
-    norm = Math.max(norm, columnSum);
-  }
-  const squarings = norm > SCALED_NORM_BOUND ? Math.ceil(Math.log2(norm / SCALED_NORM_BOUND)) : 0;
-  const scale = Math.pow(2, -squarings);
-  for (let k = 0; k < n * n; k += 1) x[k] *= scale;
-
-  // N = Σ c_k X^k, D = Σ (−1)^k c_k X^k
-  const numerator = new Float64Array(n * n);
-  const denominator = new Float64Array(n * n);
+  const flat = new Float64Array(n * n);
   for (let i = 0; i < n; i += 1) {
-    numerator[i * n + i] = 1;
-    denominator[i * n + i] = 1;
+    if (matrix[i].length !== n) throw new RangeError(`matrixExponential needs a square matrix, row ${i} has ${matrix[i].length} entries for ${n} rows`);
+    for (let j = 0; j < n; j += 1) flat[i * n + j] = matrix[i][j];
   }
-  let power: Square = x;
-  for (let k = 1; k <= PADE_ORDER; k += 1) {
-    if (k > 1) power = multiply(power, x, n);
-    const c = PADE_COEFFICIENTS[k];
-    const sign = k % 2 === 0 ? 1 : -1;
-    for (let m = 0; m < n * n; m += 1) {
-      numerator[m] += c * power[m];
-      denominator[m] += sign * c * power[m];
-    }
-  }
-  let result = solve(denominator, numerator, n);
-  for (let k = 0; k < squarings; k += 1) result = multiply(result, result, n);
-
+  const result = matrixExponentialOf(flat, n);
   const rows: number[][] = [];
   for (let i = 0; i < n; i += 1) rows.push(Array.from(result.subarray(i * n, i * n + n)));
   return rows;

@@ -8,7 +8,7 @@
  * so a fractional-sample delay is exact too.
  */
 import { SpeedbandError } from '../core/errors.js';
-import { matrixExponential } from './matrix-exponential.js';
+import { matrixExponentialOf } from './matrix-exponential.js';
 import { controllableCanonicalForm } from './state-space.js';
 import type { StateSpaceModel, TimeResponse, TransferFunction } from './types.js';
 
@@ -29,16 +29,20 @@ const LENGTH_KEY_DIGITS = 12;
  */
 export function zeroOrderHoldDiscretisation(model: StateSpaceModel, step_s: number): HoldDiscretisation {
   const n = model.inputVector.length;
-  const augmented: number[][] = Array.from({ length: n + 1 }, () => new Array<number>(n + 1).fill(0));
+  const size = n + 1;
+  const augmented = new Float64Array(size * size);
   for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) augmented[i][j] = model.stateMatrix[i][j] * step_s;
-    augmented[i][n] = model.inputVector[i] * step_s;
+    for (let j = 0; j < n; j++) augmented[i * size + j] = model.stateMatrix[i][j] * step_s;
+    augmented[i * size + n] = model.inputVector[i] * step_s;
   }
-  const exponential = matrixExponential(augmented);
-  return {
-    transition: exponential.slice(0, n).map((row) => row.slice(0, n)),
-    inputGain: exponential.slice(0, n).map((row) => row[n]),
-  };
+  const exponential = matrixExponentialOf(augmented, size);
+  const transition: number[][] = [];
+  const inputGain: number[] = [];
+  for (let i = 0; i < n; i++) {
+    transition.push(Array.from(exponential.subarray(i * size, i * size + n)));
+    inputGain.push(exponential[i * size + n]);
+  }
+  return { transition, inputGain };
 }
 
 /**

@@ -60,13 +60,24 @@ export const SCHEDULE_SCHEMA = object({
       insertedByRefinement: { type: 'boolean' },
       margins: object({
         stable: { type: 'boolean' },
-        verdict: { enum: ['stable', 'unstable', 'marginal'] },
-        lowerGainMargin_dB: nullableNumber,
-        upperGainMargin_dB: nullableNumber,
-        phaseMargin_deg: nullableNumber,
-        delayMargin_s: nullableNumber,
-        sensitivityPeak: nullableNumber,
-        complementarySensitivityPeak: nullableNumber,
+        verdict: {
+          enum: ['stable', 'unstable', 'marginal'],
+          description:
+            'From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable.',
+        },
+        lowerGainMargin_dB: { ...nullableNumber, description: 'Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none.' },
+        upperGainMargin_dB: { ...nullableNumber, description: 'Gain increase that destabilises, dB; null when there is none.' },
+        phaseMargin_deg: {
+          ...nullableNumber,
+          description:
+            'Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop.',
+        },
+        delayMargin_s: {
+          ...nullableNumber,
+          description: 'Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added.',
+        },
+        sensitivityPeak: { ...nullableNumber, description: 'Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts.' },
+        complementarySensitivityPeak: { ...nullableNumber, description: 'Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts.' },
       }),
     }),
   },

@@ -50,10 +50,10 @@ export const ANALYSIS_DEFAULTS = {
     highFrequencyPoleMagnitude: 0.9,
     /** Relative width of the bisection that shortens an estimate the exact verdict refutes. */
     bisectionRelativeTolerance: 1e-4,
-    /** A sampled loop's estimate past this many samples is confirmed at whole samples (one sample is then under 1 % of it). */
-    wholeSamplesAbove: 100,
     /** A sampled crossover above this angle per sample (ω·Ts, rad) is also checked just above the estimate. */
     fastCrossoverAngle_rad: 0.1,
+    /** A sampled crossover at or below this angle per sample is confirmed at whole samples (no new discretisation). */
+    wholeSampleCrossoverAngle_rad: 0.03,
   },
   /** Nyquist count of a sampled loop on its pulse frequency response (sampled-nyquist.ts). */
   sampledNyquist: {

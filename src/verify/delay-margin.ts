@@ -10,8 +10,9 @@
  * frequency can be destabilised by a single sample at no gain crossover at all.
  *
  * So the estimate is confirmed by the exact verdict of the loop with the delay added:
- * - at 0.999·d̂ (a sampled loop with d̂ past 100 samples: at the whole samples below, where the added
- *   delay is exactly z^(−k) and one sample is under 1 % of d̂);
+ * - at 0.999·d̂ (a sampled loop with a slow crossover, below 0.03 rad per sample, and d̂ past two samples: at the
+ *   whole samples below it, where the added delay is exactly z^(−k) and the fraction left over acts at the
+ *   crossover as the rotation it is in continuous time);
  * - for a sampled loop whose estimate is within two samples, whose gain in the upper half of the band
  *   reaches 0.5, or whose closed-loop poles at high frequency (|arg z| ≥ π/2) come within 0.1 of the unit
  *   circle: also at every eighth of a sample below two samples (the fraction of a sample moves the
@@ -69,17 +70,23 @@ export function confirmedDelayMargin(input: DelayMarginInput): DelayMarginResult
   };
   const from = Number.isFinite(estimate) ? `the crossover estimate ${format(estimate)} s` : 'no gain crossover';
 
-  // Below the estimate: quarter samples first (where a sample or two may matter), then just below it.
+  // Below the estimate: eighths of a sample first (where a sample or two may matter), then just below it.
   const trials: number[] = [];
+  const fastCrossover = ts !== null && frequency !== null && frequency * ts > SETTINGS.fastCrossoverAngle_rad;
   const early = ts !== null && (estimate < SETTINGS.earlySamples * ts || input.fractionSensitive);
   if (ts !== null && early) {
     const last = Math.min(estimate, SETTINGS.earlySamples * ts);
     for (let k = 1; (k * ts) / SETTINGS.earlyStepsPerSample < last; k++) trials.push((k * ts) / SETTINGS.earlyStepsPerSample);
   }
   if (Number.isFinite(estimate)) {
+    // A sampled loop whose crossover is slow (below 0.03 rad per sample) and whose estimate is past the early samples is
+    // confirmed at the whole samples below it: z^(−k) is an exact rotation of its pulse response, and the fraction of a
+    // sample left over acts at the crossover as the rotation it is in continuous time (the hold's aliasing there is of
+    // order (ωTs/π)² < 1e−4); where a fraction matters at high frequency the early trials above have looked.
     const near = estimate * SETTINGS.confirmAtFraction;
     const whole = ts === null ? 0 : Math.floor(near / ts);
-    trials.push(ts !== null && whole >= SETTINGS.wholeSamplesAbove ? whole * ts : near);
+    const slow = ts !== null && frequency !== null && frequency * ts <= SETTINGS.wholeSampleCrossoverAngle_rad;
+    trials.push(slow && whole >= SETTINGS.earlySamples ? whole * (ts as number) : near);
   }
   let lastStable = 0;
   for (const trial of trials) {
@@ -95,7 +102,7 @@ export function confirmedDelayMargin(input: DelayMarginInput): DelayMarginResult
   const confirmed = `confirmed by the exact verdict: stable with ${format(lastStable)} s added${quarter}`;
 
   // Above the estimate, where sampling bends the boundary (a crossover above ≈ 0.1 rad per sample).
-  if (ts !== null && frequency !== null && frequency * ts > SETTINGS.fastCrossoverAngle_rad) {
+  if (ts !== null && fastCrossover) {
     const above = estimate * (2 - SETTINGS.confirmAtFraction);
     if (stable(above)) {
       let low = above;

@@ -15,7 +15,7 @@ const MAX_GRID_SPEEDS = 100_000;
 
 async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
   const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { recheckSchedule } = await import('../../build/recheck-schedule.js');
+  const { recheckScheduleOnAllCores } = await import('../../build/recheck-schedule.js');
   const { formatRecheck } = await import('../../build/schedule-report.js');
   const schedulePath = String(args.schedule);
   const schedule = readSchedule(schedulePath);
@@ -24,7 +24,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   if (gridSpeeds !== undefined && !(Number.isInteger(gridSpeeds) && gridSpeeds >= 2 && gridSpeeds <= MAX_GRID_SPEEDS)) {
     throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(args['grid-speeds'])} — give a whole number of speeds from 2 to ${MAX_GRID_SPEEDS}`);
   }
-  const result = recheckSchedule({ schedule, model, ...(gridSpeeds === undefined ? {} : { gridSpeeds }) });
+  const result = await recheckScheduleOnAllCores({ schedule, model, ...(gridSpeeds === undefined ? {} : { gridSpeeds }) });
 
   if (args.json === true) {
     io.stdout(
