@@ -3,12 +3,16 @@
  * checked on the NEW vehicle model at exactly the speeds of the new schedule's dense check,
  * so that the two can be read side by side — "are my current gains still safe, and where not?"
  */
+import type { OldGainsOnNewVehicle } from '../compare/types.js';
 import type { PidGains } from '../controller/types.js';
+import { quoted } from '../core/quote.js';
+import { failingIntervals } from '../schedule/failing-intervals.js';
+import { checkGrid } from '../schedule/grid.js';
 import type { BreakpointMargins, ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import type { LoopMargins } from '../verify/types.js';
 import type { BuildResult } from './build-schedule.js';
-import { recheckSchedule } from './recheck-schedule.js';
+import { recheckSchedule, recordedCheckModel } from './recheck-schedule.js';
 
 export interface BaselineRow {
   readonly speed_mps: number;
@@ -45,4 +49,39 @@ export function checkBaseline(baseline: ScheduleFile, build: BuildResult): Basel
     };
   });
   return { check, rows };
+}
+
+/** The old gains' check as the comparison records it (`OldGainsOnNewVehicle`): verdict, where it fails, worst figures. */
+export function summariseOldGainsCheck(check: DenseCheckResult, baseline: ScheduleFile, modelDescription: string): OldGainsOnNewVehicle {
+  const speeds = check.points.map((point) => point.speed_mps);
+  return {
+    available: true,
+    passed: check.passed,
+    model: modelDescription,
+    range: { minimum_mps: speeds[0], maximum_mps: speeds[speeds.length - 1] },
+    gridSize: check.points.length,
+    failedSpeeds: check.failedCount,
+    failingIntervals: failingIntervals(check.points),
+    thresholds: baseline.check.thresholds,
+    worst: check.worst,
+  };
+}
+
+/**
+ * The old schedule's gains checked on the model the NEW schedule records (its provenance), at the speeds of the
+ * new schedule's dense check — what `build --baseline` checks, from two schedule files alone (`speedband compare`,
+ * the report). `check` is null when the new schedule records no model speedband can rebuild.
+ */
+export function oldGainsOnNewVehicle(old: ScheduleFile, next: ScheduleFile): { readonly summary: OldGainsOnNewVehicle; readonly check: DenseCheckResult | null } {
+  const model = recordedCheckModel(next);
+  if (model === null) {
+    return { summary: { available: false, reason: `the new schedule records no vehicle model speedband can rebuild (its provenance.model kind is ${quoted(String(next.provenance.model.kind ?? 'missing'))})` }, check: null };
+  }
+  const grid = checkGrid(
+    next.breakpoints.map((breakpoint) => breakpoint.speed_mps),
+    next.check.range,
+    next.check.gridSpeeds,
+  );
+  const check = recheckSchedule({ schedule: old, model, grid });
+  return { summary: summariseOldGainsCheck(check, old, next.check.model.description), check };
 }

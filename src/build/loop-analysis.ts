@@ -10,22 +10,23 @@ import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { loopPlantFromLumped, loopPlantFromSingleTrack } from '../loops/build.js';
 import type { LoopPlant, LoopSpecification } from '../loops/types.js';
 import type { AnalyseLoop } from '../schedule/types.js';
-import { analyseLoop } from '../verify/analyse-loop.js';
+import { analyseLoop, type LoopDescription } from '../verify/analyse-loop.js';
 import type { LoopMargins } from '../verify/types.js';
 import type { CheckModel } from './check-model.js';
 import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 
 /** Build the (speed_mps, gains) → LoopMargins function the dense check and refinement call. */
 export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings): AnalyseLoop {
-  return (speed_mps: number, gains: PidGains): LoopMargins => {
-    const operatingPoint = model.modelAt(speed_mps);
-    requireBoundedDelay(modelDelay_s(operatingPoint), controller, speed_mps);
-    const plant =
-      operatingPoint.kind === 'single-track'
-        ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
-        : loopPlantFromLumped(loop, operatingPoint.yawRate, speed_mps, controller, operatingPoint.cgToFrontAxle_m);
-    return analyseSampledLoop(plant, gains, controller);
-  };
+  return (speed_mps: number, gains: PidGains): LoopMargins => analyseSampledLoop(checkLoopPlant(model, loop, controller, speed_mps), gains, controller);
+}
+
+/** The loop plant of the check at one speed (the delay bound checked first). */
+export function checkLoopPlant(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings, speed_mps: number): LoopPlant {
+  const operatingPoint = model.modelAt(speed_mps);
+  requireBoundedDelay(modelDelay_s(operatingPoint), controller, speed_mps);
+  return operatingPoint.kind === 'single-track'
+    ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
+    : loopPlantFromLumped(loop, operatingPoint.yawRate, speed_mps, controller, operatingPoint.cgToFrontAxle_m);
 }
 
 /**
@@ -33,13 +34,18 @@ export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, con
  * the same analysis as the dense check (`tune` reports it beside the design loop's margins).
  */
 export function analyseSampledLoop(plant: LoopPlant, gains: PidGains, controller: ControllerSettings): LoopMargins {
+  return analyseLoop(sampledLoopDescription(plant, gains, controller));
+}
+
+/** The loop `analyseSampledLoop` analyses, as a LoopDescription (for its frequency response: `openLoopOf`, `loopFrequencyResponse`). */
+export function sampledLoopDescription(plant: LoopPlant, gains: PidGains, controller: ControllerSettings): LoopDescription {
   // The loop plant carries the Ts/2 + latency of the tuning model as delay; analyseLoop models the sampled loop itself.
   const vehicleDelay_s = Math.max(0, plant.plant.delay_s - samplingDelay_s(controller));
-  return analyseLoop({
+  return {
     plant: { ...plant.plant, delay_s: vehicleDelay_s },
     pid: { kp: gains.kp, ki: gains.ki, kd: gains.kd, derivativeFilter: controller.derivativeFilter, form: 'parallel' },
     sampleTime_s: controller.sampleTime_s,
     discretisation: controller.discretisation,
     latency_s: controller.computationLatency_s,
-  });
+  };
 }

@@ -12,7 +12,9 @@ import { shown, shownPercent, shownSpeed } from './format.js';
 import { modelDrift } from './model-drift.js';
 import { marginsAtSpeed, matchSpeeds, type ComparedPoint } from './resample.js';
 import { settingChanges } from './settings.js';
+import { oldGainsFlagMessage } from './old-gains-words.js';
 import type {
+  OldGainsOnNewVehicle,
   CompareThresholds,
   ComparedSpeed,
   ComparisonFlag,
@@ -22,6 +24,8 @@ import type {
 } from './types.js';
 
 const GAINS = ['kp', 'ki', 'kd'] as const;
+
+const NOT_CHECKED: OldGainsOnNewVehicle = { available: false, reason: 'not checked (the caller gave no dense check of the old gains on the new vehicle model)' };
 const FLAGGED_MARGINS = ['lowerGainMargin_dB', 'upperGainMargin_dB', 'phaseMargin_deg'] as const;
 type FlaggedMargin = (typeof FLAGGED_MARGINS)[number];
 
@@ -132,9 +136,17 @@ function worstChange(old: ScheduleFile, next: ScheduleFile, name: FlaggedMargin,
  *   null and not flagged); every setting change is flagged.
  * - Model drift from provenance.model (model-drift.ts); an understeering model that became
  *   oversteering (understeer gradient K > 0 → K < 0, Gillespie 1992 §6) is flagged.
+ * - `oldGainsOnNewVehicle`: the dense check of the old gains on the new vehicle model, when the caller ran it
+ *   (`oldGainsOnNewVehicle` in src/build/baseline.ts; this function stays pure) — it leads the record and, when
+ *   the old gains fail, the flags.
  * Thresholds default to COMPARE_DEFAULTS.
  */
-export function compareSchedules(old: ScheduleFile, next: ScheduleFile, thresholdsGiven: Partial<CompareThresholds> = {}): ScheduleComparison {
+export function compareSchedules(
+  old: ScheduleFile,
+  next: ScheduleFile,
+  thresholdsGiven: Partial<CompareThresholds> = {},
+  oldGainsOnNewVehicle: OldGainsOnNewVehicle = NOT_CHECKED,
+): ScheduleComparison {
   const thresholds = resolveThresholds(thresholdsGiven);
   const settings = settingChanges(old, next, thresholds.speedTolerance_mps);
   const gainsComparable = settings.every((change) => !change.breaksGainComparison);
@@ -146,14 +158,18 @@ export function compareSchedules(old: ScheduleFile, next: ScheduleFile, threshol
   const newSide: Side = { schedule: next, lookup: scheduleLookup(next) };
   const speeds = match.points.map((point) => compareAtSpeed(oldSide, newSide, point, gainsComparable, thresholds));
 
-  const flags: ComparisonFlag[] = settings.map((change) => ({
+  const flags: ComparisonFlag[] = [];
+  if (oldGainsOnNewVehicle.available && !oldGainsOnNewVehicle.passed) {
+    flags.push({ kind: 'oldGainsFailOnNewVehicle', speed_mps: null, quantity: 'oldGainsOnNewVehicle', message: oldGainsFlagMessage(oldGainsOnNewVehicle) });
+  }
+  flags.push(...settings.map((change): ComparisonFlag => ({
     kind: 'settingChanged',
     speed_mps: null,
     quantity: change.setting,
     message: `${change.setting}: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${
       change.breaksGainComparison ? ' — the gains are not comparable one by one; compare the margins and re-verify the new schedule' : ''
     }`,
-  }));
+  })));
   if (commonRange === null) {
     flags.push({
       kind: 'noCommonSpeeds',
@@ -201,6 +217,7 @@ export function compareSchedules(old: ScheduleFile, next: ScheduleFile, threshol
   return {
     old: summary(old),
     new: summary(next),
+    oldGainsOnNewVehicle,
     thresholds,
     gainsComparable,
     settingChanges: settings,

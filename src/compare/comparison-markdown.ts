@@ -2,6 +2,7 @@
 import { SAFETY_EPILOGUE } from '../cli/safety.js';
 import { shownSpeed } from './format.js';
 import { DRIFT_HEADER, SPEED_TABLE_HEADER, WORST_HEADER, controllerLines, driftRows, speedRow, summaryLine, thresholdsText, worstRows } from './comparison-words.js';
+import { oldGainsLead, oldGainsModelWords } from './old-gains-words.js';
 import type { ScheduleComparison } from './types.js';
 
 const escape = (cell: string): string => cell.replace(/\|/g, '\\|');
@@ -10,11 +11,18 @@ function markdownTable(header: readonly string[], rows: readonly (readonly strin
   return [`| ${header.map(escape).join(' | ')} |`, `|${header.map(() => '---').join('|')}|`, ...rows.map((row) => `| ${row.map(escape).join(' | ')} |`)];
 }
 
+const modelNote = (comparison: ScheduleComparison): string => {
+  const words = oldGainsModelWords(comparison.oldGainsOnNewVehicle);
+  return words === null ? '' : ` (${words}.)`;
+};
+
 /** Markdown report of a comparison; `oldName`/`newName` are how the user named the files. */
 export function comparisonMarkdown(comparison: ScheduleComparison, oldName: string, newName: string): string {
   const { old, new: next } = comparison;
   const lines: string[] = [
     `## Gain schedule change: \`${oldName}\` → \`${newName}\``,
+    '',
+    `**${oldGainsLead(comparison.oldGainsOnNewVehicle)}**${modelNote(comparison)}`,
     '',
     `**${summaryLine(comparison)}**`,
     '',

@@ -13,6 +13,7 @@ import {
   thresholdsText,
   worstRows,
 } from './comparison-words.js';
+import { oldGainsLead, oldGainsModelWords } from './old-gains-words.js';
 import type { ScheduleComparison } from './types.js';
 
 /** Terminal report of a comparison; `oldName`/`newName` are how the user named the files. Ends with the summary line. */
@@ -20,6 +21,8 @@ export function comparisonText(comparison: ScheduleComparison, oldName: string, 
   const { old, new: next } = comparison;
   const lines: string[] = [
     `Schedule comparison: ${oldName} → ${newName}`,
+    oldGainsLead(comparison.oldGainsOnNewVehicle),
+    ...(oldGainsModelWords(comparison.oldGainsOnNewVehicle) === null ? [] : [`  (${oldGainsModelWords(comparison.oldGainsOnNewVehicle)})`]),
     `  old: ${old.vehicle}, ${old.loopKind} loop, ${old.breakpoints} breakpoints, check ${old.status}, checksum ${old.checksum.slice(0, 16)}…`,
     `  new: ${next.vehicle}, ${next.loopKind} loop, ${next.breakpoints} breakpoints, check ${next.status}, checksum ${next.checksum.slice(0, 16)}…`,
     `  gain units (new): kp ${next.units.kp}, ki ${next.units.ki}, kd ${next.units.kd}`,

@@ -90,7 +90,8 @@ export function summaryLine(comparison: ScheduleComparison): string {
   const gains = speedsWith(['gainChange']);
   const margins = speedsWith(['upperGainMarginDrop', 'lowerGainMarginCloser', 'phaseMarginDrop', 'stabilityLost']);
   const settings = comparison.flags.filter((flag) => flag.kind === 'settingChanged').length;
-  const whole = comparison.flags.filter((flag) => flag.speed_mps === null && flag.kind !== 'settingChanged').length;
+  const whole = comparison.flags.filter((flag) => flag.speed_mps === null && flag.kind !== 'settingChanged' && flag.kind !== 'oldGainsFailOnNewVehicle').length;
+  if (comparison.flags.some((flag) => flag.kind === 'oldGainsFailOnNewVehicle')) parts.push('the old gains fail on the new vehicle model');
   if (gains > 0) parts.push(`gains at ${gains} of ${compared} speeds`);
   if (margins > 0) parts.push(`margins at ${margins} of ${compared} speeds`);
   if (settings > 0) parts.push(`${settings} setting${settings === 1 ? '' : 's'}`);

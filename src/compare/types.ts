@@ -1,4 +1,6 @@
 import type { ControllerSettings } from '../controller/types.js';
+import type { FailingInterval } from '../schedule/failing-intervals.js';
+import type { AcceptanceThresholds, WorstMargins } from '../schedule/types.js';
 /**
  * Records of a schedule comparison (after a vehicle change: load, tyres, actuator, firmware rate).
  * Plain, readonly, JSON-able. Speeds in m/s; gains in each schedule's own units (parallel PID,
@@ -113,7 +115,8 @@ export type FlagKind =
   | 'phaseMarginDrop'
   | 'stabilityLost'
   | 'checkNowFails'
-  | 'understeerBecameOversteer';
+  | 'understeerBecameOversteer'
+  | 'oldGainsFailOnNewVehicle';
 
 /** One thing past a threshold, in words, with the numbers. */
 export interface ComparisonFlag {
@@ -136,9 +139,34 @@ export interface ScheduleSummary {
   readonly controller: ControllerSettings;
 }
 
+/**
+ * The key fact of a refit: the OLD schedule's gains (its own lookup, loop, controller and limits) densely
+ * checked on the NEW schedule's vehicle model, at the speeds of the new schedule's check — do the gains in
+ * use still hold on the changed vehicle, and where not? Not available when the new schedule records no
+ * model speedband can rebuild (then `reason` says so).
+ */
+export type OldGainsOnNewVehicle =
+  | {
+      readonly available: true;
+      readonly passed: boolean;
+      /** The model checked on (the new schedule's), in words. */
+      readonly model: string;
+      readonly range: { readonly minimum_mps: number; readonly maximum_mps: number };
+      readonly gridSize: number;
+      readonly failedSpeeds: number;
+      /** Consecutive failing speeds with the limits broken there. */
+      readonly failingIntervals: readonly FailingInterval[];
+      /** The old schedule's own limits, which the check applies. */
+      readonly thresholds: AcceptanceThresholds;
+      readonly worst: WorstMargins;
+    }
+  | { readonly available: false; readonly reason: string };
+
 export interface ScheduleComparison {
   readonly old: ScheduleSummary;
   readonly new: ScheduleSummary;
+  /** Leads every output of a comparison: do the old gains hold on the new vehicle model, and where not. */
+  readonly oldGainsOnNewVehicle: OldGainsOnNewVehicle;
   readonly thresholds: CompareThresholds;
   /** False when a setting change makes a gain-by-gain comparison meaningless (gain changes are then null and not flagged). */
   readonly gainsComparable: boolean;

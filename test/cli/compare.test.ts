@@ -91,11 +91,12 @@ describe('speedband compare OLD NEW', () => {
 });
 
 describe('speedband compare on schedules written by speedband build (demo van before and after its change)', () => {
-  it('reports model drift from the joint single-track fits the build records, in the direction of the vehicle files', async () => {
-    // A small plan keeps the test quick: 3 breakpoints, 20 check speeds (the build's defaults are larger).
-    const plan = join(folder, 'plan.json');
-    writeFileSync(plan, JSON.stringify({ breakpoints: { count: 3 }, check: { gridSpeeds: 20, maxInsertedBreakpoints: 0 } }));
-    const built = async (vehicle: string) => {
+  // A small plan keeps the tests quick: 3 breakpoints, 20 check speeds (the build's defaults are larger).
+  const plan = join(folder, 'plan.json');
+  writeFileSync(plan, JSON.stringify({ breakpoints: { count: 3 }, check: { gridSpeeds: 20, maxInsertedBreakpoints: 0 } }));
+  const builds = new Map<string, Promise<string>>();
+  const built = (vehicle: string): Promise<string> => {
+    const build = async () => {
       const out = join(folder, `${vehicle}.json`);
       const logs = ['08.00', '25.00'].map((speed) => join('vehicles', vehicle, 'logs', `synthetic-steps-${speed}mps.csv`));
       const io = recordingIo();
@@ -103,6 +104,11 @@ describe('speedband compare on schedules written by speedband build (demo van be
       expect(code, io.err()).toBe(0);
       return out;
     };
+    if (!builds.has(vehicle)) builds.set(vehicle, build());
+    return builds.get(vehicle)!;
+  };
+
+  it('reports model drift from the joint single-track fits the build records, in the direction of the vehicle files', async () => {
     const before = await built('parcel-van');
     const after = await built('parcel-van-loaded');
     const result = await compare(before, after, '--json');
@@ -118,5 +124,31 @@ describe('speedband compare on schedules written by speedband build (demo van be
     // Source: the vehicle files (rear stiffness 180 → 160 kN/rad) and K = (m/L)(b/Cf − a/Cr) (Gillespie 1992): both fall.
     expect(change('rearCorneringStiffness_NPerRad')).toBeLessThan(0);
     expect(change('understeerGradient_radPerMps2')).toBeLessThan(0);
+  }, 30_000);
+
+  it('leads with the key fact — the old gains on the new vehicle model — and finds what build --baseline finds, speed for speed', async () => {
+    const before = await built('parcel-van');
+    const after = join(folder, 'parcel-van-loaded-baseline.json');
+    const logs = ['08.00', '25.00'].map((speed) => join('vehicles', 'parcel-van-loaded', 'logs', `synthetic-steps-${speed}mps.csv`));
+    const io = recordingIo();
+    const code = await runCli(['build', '--vehicle', join('vehicles', 'parcel-van-loaded'), '--logs', ...logs, '--plan', plan, '--baseline', before, '--out', after, '--allow-failing', '--json'], io);
+    expect([0, 1]).toContain(code);
+    const build = JSON.parse(io.out()) as { baseline: { passedOnNewModel: boolean; failedSpeeds: number; gridSize: number; failures: { speed_mps: number }[] } };
+    const result = await compare(before, after, '--json');
+    const parsed = JSON.parse(result.out) as { oldGainsOnNewVehicle: { available: boolean; passed: boolean; failedSpeeds: number; gridSize: number; failingIntervals: { from_mps: number; to_mps: number; speeds: number }[] }; flags: { kind: string }[] };
+    const record = parsed.oldGainsOnNewVehicle;
+    expect(record.available).toBe(true);
+    expect(record.passed).toBe(false); // this change breaks the old gains at the top speed (the full demo build: PM 37° at 25 m/s)
+    // The same check as build --baseline: the old gains on the new model at the new schedule's check speeds.
+    expect([record.passed, record.failedSpeeds, record.gridSize]).toEqual([build.baseline.passedOnNewModel, build.baseline.failedSpeeds, build.baseline.gridSize]);
+    expect(record.failingIntervals.reduce((sum, interval) => sum + interval.speeds, 0)).toBe(build.baseline.failedSpeeds);
+    const failing = build.baseline.failures.map((failure) => failure.speed_mps);
+    for (const interval of record.failingIntervals) expect(failing).toContain(interval.from_mps);
+    expect(parsed.flags.some((flag) => flag.kind === 'oldGainsFailOnNewVehicle')).toBe(!record.passed);
+    const markdown = (await compare(before, after, '--markdown')).out.split('\n');
+    // The first statement after the title is this verdict; where it fails, the speeds are named.
+    expect(markdown[2]).toMatch(record.passed ? /^\*\*The old gains still hold on the new vehicle model/ : /^\*\*The old gains do NOT hold on the new vehicle model: .* at \d+ of \d+ speeds checked .* — at [\d.]+(–[\d.]+)? m\/s \(/);
+    const text = (await compare(before, after)).out.split('\n');
+    expect(text[1]).toMatch(/^The old gains (still hold|do NOT hold) on the new vehicle model/);
   }, 30_000);
 });

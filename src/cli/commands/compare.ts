@@ -36,15 +36,17 @@ export const command: CommandModule = {
         describe: `Breakpoints of the two schedules closer than this are the same speed (builds place breakpoints at measured test speeds), m/s (default ${HELP_DEFAULTS.speedTolerance_mps})`,
       })
       .option('json', { type: 'boolean', default: false, describe: 'Print the comparison as JSON (every compared speed, margin, model parameter and flag) for machines' })
-      .option('markdown', { type: 'boolean', default: false, describe: 'Print a Markdown report for a change review: summary, table of gains and margins, model drift, flag list' }),
+      .option('markdown', { type: 'boolean', default: false, describe: 'Print a Markdown report for a change review: whether the old gains hold on the new vehicle, summary, table of gains and margins, model drift, flag list' }),
   epilogue:
+    'First, the key fact of a refit: the OLD gains (with their own loop, controller and limits) densely checked on the vehicle model the NEW schedule records, ' +
+    'at the new schedule\'s check speeds — do they still hold on the changed vehicle, and where not (flagged when they fail). ' +
     'Speeds compared: the breakpoints of both schedules within their common range; where a speed is a breakpoint of only one, ' +
     "the other schedule's gains come from its own lookup and its margins are interpolated linearly between its breakpoints. " +
     'A changed loop kind, preview, controller form, sample time or discretisation makes the gains not comparable one by one (said, and flagged). ' +
     'Model drift (cornering stiffnesses, actuator lag and delay, understeer gradient) needs both schedules built from a joint single-track fit.',
   exitCodes: [
     [0, 'nothing flagged'],
-    [1, 'something moved past a threshold (flagged): use it to stop a CI pipeline'],
+    [1, 'something moved past a threshold, or the old gains fail on the new vehicle model (flagged): use it to stop a CI pipeline'],
     [2, 'bad input: unreadable, invalid or checksum-failed file, bad option'],
   ],
   examples: [
@@ -67,10 +69,13 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   };
   const given = Object.fromEntries(Object.entries(thresholds).filter(([, value]) => value !== undefined));
   const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { compareSchedules, comparisonText, comparisonMarkdown } = await import('../../compare/index.js');
+  const { compareSchedules, comparisonText, comparisonMarkdown, resolveThresholds } = await import('../../compare/index.js');
+  const { oldGainsOnNewVehicle } = await import('../../build/baseline.js');
   const oldName = String(args.old);
   const newName = String(args.new);
-  const comparison = compareSchedules(readSchedule(oldName), readSchedule(newName), given);
+  resolveThresholds(given); // a bad threshold is bad input before the dense check runs
+  const [old, next] = [readSchedule(oldName), readSchedule(newName)];
+  const comparison = compareSchedules(old, next, given, oldGainsOnNewVehicle(old, next).summary);
   if (args.json === true) io.stdout(`${JSON.stringify({ files: { old: oldName, new: newName }, ...comparison }, null, 2)}\n`);
   else if (args.markdown === true) io.stdout(comparisonMarkdown(comparison, oldName, newName));
   else io.stdout(comparisonText(comparison, oldName, newName));
