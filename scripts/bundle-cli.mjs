@@ -10,6 +10,13 @@
 // `create` and `all` need. `--help` and a build without unit or speed expressions never read it; the
 // paths that need mathjs load one pre-linked file (≈ 0.15 s) instead of mathjs's ~1,000 modules
 // (≈ 1 s). A static import of mathjs anywhere in the CLI is refused here.
+//
+// The HTML report's renderer is a chunk of its own in the same way: src/report/write-report.ts imports
+// `./render/index.js` dynamically, and here that import becomes `import('./report.bundle.js')`, a file holding
+// the renderer and d3 (d3-scale, d3-shape, d3-array). Only `report` and `build --report` read it. The renderer
+// is a pure function of plain data: the chunk may hold nothing but src/report/render/ and d3's packages —
+// a module with state (an error class, a cache) duplicated in two bundles would be two different modules —
+// and a static import of the renderer, or of d3 anywhere, is refused.
 import { build } from 'esbuild';
 
 const common = {
@@ -45,11 +52,41 @@ await build({
   outfile: 'dist/cli/mathjs.bundle.js',
 });
 
+const REPORT_CHUNK = './report.bundle.js';
+const REPORT_RENDERER = /[\\/]report[\\/]render[\\/]index\.js$/;
+const D3 = /^(d3-[a-z-]+|internmap)(\/.*)?$/;
+
+/** `import('./render/index.js')` of write-report.js → the report chunk; a static import of it, or of d3, is an error. */
+const reportChunk = {
+  name: 'report-chunk',
+  setup(bundler) {
+    bundler.onResolve({ filter: /render[\\/]index\.js$/ }, (args) => {
+      if (!REPORT_RENDERER.test(`${args.resolveDir}/${args.path}`.replace(/\/\.\//g, '/'))) return undefined;
+      if (args.kind !== 'dynamic-import') {
+        return { errors: [{ text: `${args.importer} imports the report renderer statically (${args.kind}): load it only with \`await import('./render/index.js')\` (src/report/write-report.ts)` }] };
+      }
+      return { path: REPORT_CHUNK, external: true };
+    });
+    bundler.onResolve({ filter: D3 }, (args) => ({ errors: [{ text: `${args.importer} imports "${args.path}" into the main bundle: d3 belongs to the report renderer (src/report/render/), loaded as its own chunk` }] }));
+  },
+};
+
+const reportBuild = await build({
+  ...common,
+  entryPoints: ['dist/report/render/index.js'],
+  outfile: 'dist/cli/report.bundle.js',
+  metafile: true,
+});
+const strays = Object.keys(reportBuild.metafile.inputs).filter((input) => !/^dist\/report\/render\//.test(input) && !/node_modules\/(d3-[a-z-]+|internmap)\//.test(input));
+if (strays.length > 0) {
+  throw new Error(`the report chunk may hold only src/report/render/ and d3, but also bundles: ${strays.join(', ')} — pass what the renderer needs in ReportData instead of importing it`);
+}
+
 await build({
   ...common,
   entryPoints: ['dist/cli/main.js'],
   outfile: 'dist/cli/speedband.bundle.js',
-  plugins: [mathjsChunk],
+  plugins: [mathjsChunk, reportChunk],
   // jsonc-parser's "main" is a UMD build that loads its parts with a dynamic require esbuild cannot follow;
   // its ES module build bundles cleanly (Node itself, unbundled, loads the UMD build fine).
   alias: { 'jsonc-parser': 'jsonc-parser/lib/esm/main.js' },

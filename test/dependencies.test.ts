@@ -27,6 +27,8 @@ interface PackageImport {
 }
 
 let imports: Map<string, PackageImport[]>;
+/** Imports of our own modules: importer → [imported path, kind]. */
+let ownImports: { importer: string; path: string; kind: string }[];
 
 beforeAll(async () => {
   const result = await build({
@@ -42,6 +44,9 @@ beforeAll(async () => {
   });
   const metafile: Metafile = result.metafile;
   imports = new Map();
+  ownImports = Object.entries(metafile.inputs).flatMap(([importer, input]) =>
+    input.imports.filter((found) => found.external !== true).map((found) => ({ importer, path: found.path, kind: found.kind })),
+  );
   const add = (name: string, entry: PackageImport): void => {
     imports.set(name, [...(imports.get(name) ?? []), entry]);
   };
@@ -68,6 +73,17 @@ describe('run-time dependencies (package.json "dependencies") match the import g
   it('jsonc-parser (repeated keys in JSON inputs) is a run-time dependency imported by the strict JSON parser alone', () => {
     expect(manifest.dependencies['jsonc-parser']).toBeDefined();
     expect(imports.get('jsonc-parser')).toEqual([{ importer: 'src/core/json-text.ts', kind: 'import-statement' }]);
+  });
+
+  it('d3 (the report\'s plots) is imported by the report renderer alone, and the renderer only dynamically, by write-report.ts: no other command loads it', () => {
+    const d3 = [...imports.entries()].filter(([name]) => name.startsWith('d3-'));
+    expect(d3.map(([name]) => name).sort()).toEqual(['d3-array', 'd3-scale', 'd3-shape']);
+    for (const [, found] of d3) for (const entry of found) expect(entry.importer).toMatch(/^src\/report\/render\//);
+    const renderer = ownImports.filter((entry) => entry.path.startsWith('src/report/render/') && !entry.importer.startsWith('src/report/render/'));
+    expect(renderer).toEqual([{ importer: 'src/report/write-report.ts', path: 'src/report/render/index.ts', kind: 'dynamic-import' }]);
+    // The renderer is a pure function of plain data: it imports nothing of ours outside src/report/render/ but types.
+    const outside = ownImports.filter((entry) => entry.importer.startsWith('src/report/render/') && !entry.path.startsWith('src/report/render/'));
+    expect(outside).toEqual([]);
   });
 
   it('csv-parse, used only by a benchmark, is a development dependency', () => {

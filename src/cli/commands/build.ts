@@ -25,12 +25,19 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   }
   const out = String(args.out);
   const modelsOut = args['models-out'] === undefined ? undefined : String(args['models-out']);
+  const reportOut = args.report === undefined ? undefined : String(args.report);
+  const { responseSpeedsFromArgs } = await import('./report.js');
+  const responseSpeeds_mps = responseSpeedsFromArgs(args);
   // Outputs checked against every input and each other before any work (never replaced, not even with --force).
   const { checkOutputPaths } = await import('../../core/output-paths.js');
   const { resolveVehiclePath } = await import('../../vehicle/load.js');
   const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
   checkOutputPaths(
-    [{ path: out, option: '--out' }, ...(modelsOut === undefined ? [] : [{ path: modelsOut, option: '--models-out' }])],
+    [
+      { path: out, option: '--out' },
+      ...(modelsOut === undefined ? [] : [{ path: modelsOut, option: '--models-out' }]),
+      ...(reportOut === undefined ? [] : [{ path: reportOut, option: '--report' }]),
+    ],
     [
       { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
       ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
@@ -62,6 +69,25 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
 
   const baselineCheck = baseline === undefined ? undefined : (await import('../../build/baseline.js')).checkBaseline(baseline, result);
   const baselineResult = baselineCheck?.check;
+
+  // The report goes with the schedule: written when the schedule is.
+  let report: { file: string; outcome: string; bytes: number; sections: readonly string[] } | null = null;
+  if (reportOut !== undefined && written) {
+    const { gatherReportData } = await import('../../report/report-data.js');
+    const { writeReport } = await import('../../report/write-report.js');
+    const { loadVehicle, resolveVehiclePath: vehiclePath } = await import('../../vehicle/load.js');
+    const steeringRatio = loadVehicle(vehiclePath(String(args.vehicle))).steeringRatio;
+    const data = gatherReportData({
+      schedule,
+      scheduleFile: out,
+      check: result.refinement.check,
+      models: { file: modelsOut ?? modelsIn ?? 'models identified by this build', content: result.models },
+      ...(logPaths.length === 0 ? {} : { logs: { paths: logPaths, readOptions: { steeringRatio, ...(columns === undefined ? {} : { columns }) } } }),
+      ...(baseline === undefined || baselineResult === undefined ? {} : { baseline: { file: String(args.baseline), schedule: baseline, check: baselineResult } }),
+      ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
+    });
+    report = { file: reportOut, ...(await writeReport(reportOut, data, args.force === true)) };
+  }
 
   // Exit 1 has two causes; both outputs say which.
   const exitReasons = [
@@ -104,6 +130,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
                   failures: failingSpeeds(baselineResult.points),
                   atNewBreakpoints: baselineCheck?.rows ?? [],
                 },
+          report: report === null ? null : { file: report.file, outcome: report.outcome, bytes: report.bytes, sections: report.sections },
           exitCode,
           exitReasons,
           cautions: schedule.cautions,
@@ -130,6 +157,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       text += `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
     }
     if (modelsOut !== undefined) text += `Wrote ${modelsOut}\n`;
+    if (report !== null) text += (await import('./report.js')).reportWords(report.file, report.outcome, report.bytes, report.sections);
+    else if (reportOut !== undefined) text += `No report written: it goes with the schedule, which was not written.\n`;
     if (exitCode !== EXIT.ok) text += `Exit 1: ${exitReasons.join('; and ')}.\n`;
     text += formatCautions();
     io.stdout(text);
@@ -153,6 +182,8 @@ export const command: CommandModule = {
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
       .option('baseline', { type: 'string', describe: 'A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?)' })
+      .option('report', { type: 'string', describe: 'Also write the HTML report of the schedule (see speedband report --help): fits over the steps, gains and margins against speed, Bode and Nyquist plots, with --baseline the old gains on the new vehicle. Written with the schedule' })
+      .option('response-speed-mps', { type: 'array', number: true, describe: 'With --report: speeds of the Bode and Nyquist plots, m/s (default: the lowest and highest breakpoint and the speed of the smallest phase margin)' })
       .option('allow-other-vehicle', {
         type: 'boolean',
         default: false,
@@ -170,6 +201,7 @@ export const command: CommandModule = {
     ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json', 'Default plan (yaw-rate loop, SIMC) on the bundled demo van and its logs'],
     ['speedband build --vehicle van.json --logs logs/*.csv --plan path-plan.json --out schedule.json', 'The loop, rule and limits from a plan file'],
     ['speedband build --vehicle van.json --logs new-logs/*.csv --baseline old-schedule.json --out new-schedule.json', 'After a vehicle change: new schedule, and are the old gains still safe?'],
+    ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json --report report.html', 'The schedule and its HTML report for sign-off'],
   ],
   run,
 };

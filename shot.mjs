@@ -1,0 +1,15 @@
+import { chromium } from 'playwright-core';
+import { mkdtempSync, readFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+const [file, out, media = 'screen'] = process.argv.slice(2);
+const ctx = await chromium.launchPersistentContext(mkdtempSync(join(tmpdir(), 'pw-')), { executablePath: '/usr/bin/chromium', headless: true, viewport: { width: 1280, height: 900 }, args: ['--no-sandbox','--disable-gpu','--no-first-run','--disable-background-networking','--disable-component-update','--disable-sync'] });
+const page = await ctx.newPage();
+page.on('console', (m) => console.log('console', m.type(), m.text()));
+page.on('request', (r) => { if (!r.url().startsWith('data:') && !r.url().startsWith('file:')) console.log('request', r.url()); });
+await page.emulateMedia({ media });
+await page.goto('file://' + file);
+const h = await page.evaluate(() => document.documentElement.scrollHeight);
+console.log('height', h);
+for (let y = 0, k = 0; y < h; y += 1400, k++) await page.screenshot({ path: out.replace('.png', `-${k}.png`), fullPage: true, clip: { x: 0, y, width: 1280, height: Math.min(1400, h - y) } });
+await ctx.close();

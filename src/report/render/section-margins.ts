@@ -1,0 +1,108 @@
+/**
+ * Margins against speed on the dense grid: one plot per figure (phase margin, both gain margins, delay
+ * margin, peak sensitivity) with the side beyond its limit shaded, the breakpoints, the failing speeds
+ * marked, and with a baseline the old gains on the new vehicle. A figure no speed has (no lower gain margin
+ * on a loop that is not conditionally stable) is said in words, not drawn empty.
+ */
+import type { ReportCheck, ReportData } from '../types.js';
+import type { CheckCriterion } from '../../schedule/types.js';
+import { renderFigure, type RenderContext } from './figure.js';
+import { escapeHtml, fixedNumber, numberCell, shownNumber, textCell } from './html.js';
+import { ROLE_COLOURS } from './palette.js';
+import type { Mark, PlotSpec } from './plot-types.js';
+
+type Figure = 'phaseMargin_deg' | 'upperGainMargin_dB' | 'lowerGainMargin_dB' | 'delayMargin_s' | 'sensitivityPeak';
+
+interface FigureWords {
+  readonly field: Figure;
+  readonly criterion: CheckCriterion;
+  readonly name: string;
+  readonly unit: string;
+  /** The limit and which side of it fails. */
+  readonly limit: (data: ReportData) => { value: number; failsBelow: boolean };
+}
+
+const FIGURES: readonly FigureWords[] = [
+  { field: 'phaseMargin_deg', criterion: 'phaseMargin', name: 'phase margin', unit: '°', limit: (d) => ({ value: d.schedule.check.thresholds.minimumPhaseMargin_deg, failsBelow: true }) },
+  { field: 'upperGainMargin_dB', criterion: 'upperGainMargin', name: 'upper gain margin', unit: 'dB', limit: (d) => ({ value: d.schedule.check.thresholds.minimumUpperGainMargin_dB, failsBelow: true }) },
+  { field: 'lowerGainMargin_dB', criterion: 'lowerGainMargin', name: 'lower gain margin', unit: 'dB', limit: (d) => ({ value: d.schedule.check.thresholds.maximumLowerGainMargin_dB, failsBelow: false }) },
+  { field: 'delayMargin_s', criterion: 'delayMargin', name: 'delay margin', unit: 's', limit: (d) => ({ value: d.schedule.check.thresholds.minimumDelayMargin_s, failsBelow: true }) },
+  { field: 'sensitivityPeak', criterion: 'sensitivityPeak', name: 'peak sensitivity Ms', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumSensitivityPeak, failsBelow: false }) },
+];
+
+const values = (check: ReportCheck, field: Figure): (number | null)[] => check.points.map((point) => point.margins[field]);
+const failing = (check: ReportCheck, criterion: CheckCriterion) => check.points.filter((point) => point.failures.includes(criterion) || point.failures.includes('stability'));
+
+function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
+  const { check, schedule, baseline } = data;
+  const old = baseline?.check ?? null;
+  const any = (c: ReportCheck | null) => c !== null && c.points.some((point) => point.margins[figure.field] !== null);
+  const atBreakpoints = schedule.breakpoints.map((b) => b.margins[figure.field]);
+  if (!any(check) && !any(old) && atBreakpoints.every((value) => value === null)) return null;
+  const limit = figure.limit(data);
+  // Room beyond the limit so that the shaded side shows even when every value is far from it.
+  const shown = [...(check === null ? [] : values(check, figure.field)), ...(old === null ? [] : values(old, figure.field)), ...atBreakpoints].filter((value): value is number => value !== null);
+  const span = Math.max(...shown.map((value) => Math.abs(value - limit.value)), 1e-9);
+  const room = limit.value + (limit.failsBelow ? -0.12 : 0.12) * span;
+  const marks: Mark[] = [
+    { kind: 'region', label: `beyond the limit (${figure.name} ${limit.failsBelow ? '<' : '>'} ${shownNumber(limit.value)}${figure.unit === '' ? '' : ` ${figure.unit}`})`, axis: 'y', from: limit.failsBelow ? 'min' : limit.value, to: limit.failsBelow ? limit.value : 'max', colour: ROLE_COLOURS.failure },
+    { kind: 'rule', label: 'limit', axis: 'y', at: limit.value, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } },
+  ];
+  if (check !== null) {
+    marks.push({ kind: 'line', label: 'new gains, dense check', x: check.points.map((p) => p.speed_mps), y: values(check, figure.field), style: { colour: ROLE_COLOURS.schedule, width: 2 } });
+  }
+  if (old !== null) {
+    marks.push({ kind: 'line', label: 'old gains on the new vehicle', x: old.points.map((p) => p.speed_mps), y: values(old, figure.field), style: { colour: ROLE_COLOURS.baseline, dash: 'dash', width: 2 } });
+    const oldFails = failing(old, figure.criterion);
+    if (oldFails.length > 0) marks.push({ kind: 'points', label: 'old gains fail here', x: oldFails.map((p) => p.speed_mps), y: oldFails.map((p) => p.margins[figure.field] ?? limit.value), style: { colour: ROLE_COLOURS.failure }, shape: 'plus', size: 4 });
+  }
+  marks.push({ kind: 'points', label: 'breakpoints (proven margins)', x: schedule.breakpoints.map((b) => b.speed_mps), y: atBreakpoints, style: { colour: ROLE_COLOURS.breakpoint }, shape: 'circle', size: 3.5 });
+  if (check !== null) {
+    const fails = failing(check, figure.criterion);
+    if (fails.length > 0) marks.push({ kind: 'points', label: 'new gains fail here', x: fails.map((p) => p.speed_mps), y: fails.map((p) => p.margins[figure.field] ?? limit.value), style: { colour: ROLE_COLOURS.failure }, shape: 'cross', size: 5 });
+  }
+  return {
+    title: `${figure.name} against speed`,
+    description: `${figure.name} of the loop against speed${figure.unit === '' ? '' : `, ${figure.unit}`}, with the limit ${shownNumber(limit.value)}${figure.unit === '' ? '' : ` ${figure.unit}`} (${limit.failsBelow ? 'at least' : 'at most'}) and the side beyond it shaded`,
+    x: { label: 'speed, m/s', domain: [schedule.check.range.minimum_mps, schedule.check.range.maximum_mps] },
+    y: { label: figure.unit === '' ? figure.name : `${figure.name}, ${figure.unit}`, include: [limit.value, room] },
+    marks,
+    height: 230,
+  };
+}
+
+export function renderMarginsSection(data: ReportData, context: RenderContext): string {
+  const { check, baseline } = data;
+  const figures: string[] = [];
+  const absent: string[] = [];
+  for (const figure of FIGURES) {
+    const spec = panel(data, figure);
+    if (spec === null) {
+      absent.push(figure.name);
+      continue;
+    }
+    const rows = (check?.points ?? []).map((point, k) => [
+      numberCell(point.speed_mps, 'speed_mps', fixedNumber(point.speed_mps, 3)),
+      numberCell(point.margins[figure.field], figure.field),
+      textCell(point.failures.length === 0 ? 'within limits' : 'FAILS'),
+      ...(baseline?.check == null ? [] : [numberCell(baseline.check.points[k]?.margins[figure.field] ?? null, `old.${figure.field}`)]),
+    ]);
+    figures.push(
+      renderFigure(
+        {
+          id: `figure-${figure.field}`,
+          caption: `${figure.name[0].toUpperCase()}${figure.name.slice(1)} against speed${check === null ? ' (breakpoints only)' : ` at the ${check.points.length} speeds of the dense check`}.`,
+          panels: [spec],
+          table: { caption: `${figure.name} per check speed`, header: ['speed m/s', `${figure.name}${figure.unit === '' ? '' : ` ${figure.unit}`}`, 'limits', ...(baseline?.check == null ? [] : ['old gains'])], rows },
+        },
+        context,
+      ),
+    );
+  }
+  const intro =
+    check === null
+      ? `<p class="notice">${escapeHtml(data.checkUnavailable ?? 'The dense check is not available.')} Only the margins proven at the breakpoints are drawn.</p>`
+      : `<p>Margins of the sampled loop (discrete PID, zero-order hold, the computation latency) at every speed of the dense check; the shaded side of each limit fails. A margin missing at a speed means there is no such crossing there (or the loop is not stable).</p>`;
+  const missing = absent.length === 0 ? '' : `<p>Not drawn: ${absent.map(escapeHtml).join(', ')} — no speed has one (no crossing of that kind).</p>`;
+  return `${intro}<div class="grid">${figures.join('\n')}</div>${missing}`;
+}

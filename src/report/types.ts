@@ -1,0 +1,155 @@
+/**
+ * Everything the report draws, as plain readonly data (report-data.ts gathers it; render/ turns it into one
+ * HTML file). Each optional part is present only when its inputs were given — the sections of the report
+ * (render/sections.ts) each say which parts they need, and a section whose parts are absent is left out.
+ * Units as in the rest of speedband: m/s, rad, s, dB, degrees.
+ */
+import type { OldGainsOnNewVehicle, ScheduleComparison } from '../compare/types.js';
+import type { PidGains } from '../controller/types.js';
+import type { ModelsFile } from '../identify/models-schema.js';
+import type { CheckCriterion } from '../schedule/types.js';
+import type { ScheduleFile } from '../schedule/schedule-types.js';
+
+/** The margins of one check point the report plots (null: no such crossing, or the loop is not stable). */
+export interface PointMargins {
+  readonly verdict: 'stable' | 'unstable' | 'marginal';
+  readonly lowerGainMargin_dB: number | null;
+  readonly upperGainMargin_dB: number | null;
+  readonly phaseMargin_deg: number | null;
+  readonly delayMargin_s: number | null;
+  readonly sensitivityPeak: number | null;
+}
+
+/** One speed of a dense check: the gains the lookup gives there, their margins and the limits they break. */
+export interface ReportCheckPoint {
+  readonly speed_mps: number;
+  readonly gains: PidGains;
+  readonly margins: PointMargins;
+  readonly failures: readonly CheckCriterion[];
+}
+
+/** A dense check, point by point (the schedule file keeps only its worst figures and first failures). */
+export interface ReportCheck {
+  /** In words: what was checked, on which model. */
+  readonly description: string;
+  readonly passed: boolean;
+  readonly points: readonly ReportCheckPoint[];
+}
+
+/** The open-loop frequency response L of one schedule's loop at one speed, with the crossings that set the margins. */
+export interface LoopResponse {
+  readonly gains: PidGains;
+  readonly frequency_radps: readonly number[];
+  readonly re: readonly number[];
+  readonly im: readonly number[];
+  readonly magnitude_dB: readonly number[];
+  readonly phase_deg: readonly number[];
+  readonly margins: PointMargins & {
+    readonly phaseMarginFrequency_radps: number | null;
+    readonly upperGainMarginFrequency_radps: number | null;
+    readonly lowerGainMarginFrequency_radps: number | null;
+  };
+  /** Nyquist frequency π/Ts of the sampled loop, rad/s. */
+  readonly nyquistFrequency_radps: number;
+}
+
+/** The loop at one chosen speed: the new gains, and with a baseline the old gains on the new vehicle. */
+export interface FrequencyResponseAtSpeed {
+  readonly speed_mps: number;
+  /** Why this speed was chosen, in words ("lowest breakpoint", "smallest phase margin", "asked for"). */
+  readonly reason: string;
+  readonly response: LoopResponse;
+  readonly old: LoopResponse | null;
+}
+
+/** The check model's prediction of the per-speed FOPDT (Smith's two-point reading of its exact step response, or the interpolation itself). */
+export interface ModelPrediction {
+  readonly description: string;
+  readonly speeds_mps: readonly number[];
+  readonly gain: readonly (number | null)[];
+  readonly timeConstant_s: readonly (number | null)[];
+  readonly deadTime_s: readonly (number | null)[];
+}
+
+/** One measured step with its own FOPDT fit, decimated for drawing. */
+export interface StepTrace {
+  readonly file: string;
+  readonly stepIndex: number;
+  readonly direction: 'left' | 'right';
+  /** Signed command change, rad. */
+  readonly amplitude_rad: number;
+  /** Time since the onset, s. */
+  readonly time_s: readonly number[];
+  /** (yaw rate − fitted bias)/command change, 1/s. */
+  readonly measuredPerCommand_perS: readonly number[];
+  /** The step's FOPDT fit on the same scale, 1/s. */
+  readonly fitPerCommand_perS: readonly number[];
+  /** Yaw rate − fit, rad/s. */
+  readonly residual_radps: readonly number[];
+  /** RMSE of the residual over the whole fitted window (every sample), rad/s. */
+  readonly rmse_radps: number;
+  readonly r2: number;
+}
+
+export interface StepTracesAtSpeed {
+  readonly speed_mps: number;
+  readonly steps: readonly StepTrace[];
+  /** Steps of this speed in models.json whose log was not given. */
+  readonly missing: number;
+}
+
+/** A previous schedule: the old against the new on each plot, and the old gains checked on the new vehicle. */
+export interface ReportBaseline {
+  readonly file: string;
+  readonly schedule: ScheduleFile;
+  readonly comparison: ScheduleComparison;
+  readonly oldGainsOnNewVehicle: OldGainsOnNewVehicle;
+  /** The old gains' dense check on the new model (null when the new schedule records no model to rebuild). */
+  readonly check: ReportCheck | null;
+  /** The old schedule's lookup at the new schedule's check speeds. */
+  readonly gainCurve: GainCurve;
+  /** The old schedule's vehicle model read as FOPDT per speed (null when it records none to rebuild). */
+  readonly prediction: ModelPrediction | null;
+  /** The comparison in words, as `speedband compare` writes it: the lead sentence, the model it was checked on, the summary line. */
+  readonly lead: string;
+  readonly leadModel: string | null;
+  readonly summary: string;
+  readonly speedTable: TextTable;
+  readonly worstTable: TextTable;
+  readonly driftTable: TextTable | null;
+  readonly driftUnavailable: string | null;
+  readonly flags: readonly string[];
+}
+
+/** A table of words (header and rows of cells). */
+export interface TextTable {
+  readonly header: readonly string[];
+  readonly rows: readonly (readonly string[])[];
+}
+
+/** Gains a schedule's lookup gives over a speed grid (what the firmware's table computes between breakpoints). */
+export interface GainCurve {
+  readonly speeds_mps: readonly number[];
+  readonly kp: readonly number[];
+  readonly ki: readonly number[];
+  readonly kd: readonly number[];
+}
+
+export interface ReportData {
+  readonly toolVersion: string;
+  /** The schedule as the user named it (base name). */
+  readonly scheduleFile: string;
+  readonly schedule: ScheduleFile;
+  /** The schedule's dense check re-run point by point on the model it records (null: it records none speedband can rebuild, with `checkUnavailable` saying why). */
+  readonly check: ReportCheck | null;
+  readonly checkUnavailable: string | null;
+  /** Whether the re-run reproduces the schedule's recorded worst figures and failure count (null when not re-run). */
+  readonly checkReproduced: boolean | null;
+  /** The schedule's lookup at the speeds of its dense check. */
+  readonly gainCurve: GainCurve;
+  readonly frequencyResponses: readonly FrequencyResponseAtSpeed[];
+  readonly models: { readonly file: string; readonly content: ModelsFile } | null;
+  readonly prediction: ModelPrediction | null;
+  readonly stepTraces: readonly StepTracesAtSpeed[] | null;
+  readonly baseline: ReportBaseline | null;
+}
