@@ -11,7 +11,7 @@ import { actuatorTransferFunction, singleTrackTransferFunctions } from '../vehic
 import type { ModelPrediction } from './types.js';
 
 /** Speeds per prediction curve. */
-export const PREDICTION_SPEEDS = 41;
+export const PREDICTION_SPEEDS = 25;
 
 /** The prediction over [minimum_mps, maximum_mps]; null where the model has no stable FOPDT reading (oversteer above its critical speed). */
 export function modelPrediction(model: CheckModel, minimum_mps: number, maximum_mps: number): ModelPrediction {

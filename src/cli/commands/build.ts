@@ -78,7 +78,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     const { loadVehicle, resolveVehiclePath: vehiclePath } = await import('../../vehicle/load.js');
     const steeringRatio = loadVehicle(vehiclePath(String(args.vehicle))).steeringRatio;
     const data = gatherReportData({
-      schedule,
+      // The schedule as written (its fields in file order), so that `report` on the same files gives the same bytes.
+      schedule: readSchedule(out),
       scheduleFile: out,
       check: result.refinement.check,
       models: { file: modelsOut ?? modelsIn ?? 'models identified by this build', content: result.models },

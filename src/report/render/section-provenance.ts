@@ -2,9 +2,11 @@
 import type { ReportData } from '../types.js';
 import { escapeHtml, fixedNumber, htmlTable, numberCell, shownNumber, textCell, type Cell } from './html.js';
 
-/** A record's scalar fields as rows (numbers exact in `<data>`); nested values as JSON text. */
+/** A record's fields as rows sorted by name (the same order however the record was built); numbers exact in `<data>`, nested values as JSON text. */
 function recordRows(record: Readonly<Record<string, unknown>>): Cell[][] {
-  return Object.entries(record).map(([name, value]) => [
+  return Object.entries(record)
+    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+    .map(([name, value]) => [
     textCell(name),
     typeof value === 'number' ? numberCell(value, name, shownNumber(value, 6)) : textCell(typeof value === 'string' ? value : JSON.stringify(value), name),
   ]);

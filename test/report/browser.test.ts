@@ -1,0 +1,199 @@
+/**
+ * The report in a browser: headless Chromium (Debian's package, driven by playwright-core; nothing is
+ * downloaded) opens the reports `build --report` writes for every demo vehicle — the parcel van, the vineyard
+ * sprayer, the sidewalk robot, and the loaded van against the van's schedule as its baseline. No console error,
+ * no request beyond the file itself, every plot with data marks that actually paint pixels, the tables equal to
+ * schedule.json, and a print layout that fits A4 and Letter. Screenshots are left in the folder printed by
+ * SCREENSHOTS below for a person to look at.
+ */
+import { mkdirSync, mkdtempSync, readFileSync, statSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { recordingIo } from '../../src/cli/io.js';
+import { runCli } from '../../src/cli/main.js';
+import { readSchedule } from '../../src/schedule/schedule-file.js';
+import { launchChromium } from '../helpers/browser.js';
+import { decodePng, differingPixels, greyVariance } from '../helpers/png.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'speedband-report-browser-'));
+/** Where the screenshots are left. */
+const SCREENSHOTS = join(tmpdir(), 'speedband-report-screenshots');
+/** The printable width of A4 and US Letter with the report's 14 mm margins, CSS px (96 per inch). */
+const PRINTABLE_WIDTH_PX = { A4: ((210 - 28) / 25.4) * 96, Letter: ((215.9 - 28) / 25.4) * 96 };
+
+interface Built {
+  readonly name: string;
+  readonly schedule: string;
+  readonly report: string;
+}
+const reports: Built[] = [];
+let browser: Browser;
+/** 1280 CSS px wide at half the pixels (the pixel checks need not read 15 million pixels per page), and at full resolution for the screenshots kept. */
+let checking: BrowserContext;
+let full: BrowserContext;
+
+async function build(name: string, vehicle: string, extra: string[] = []): Promise<Built> {
+  const schedule = join(dir, `${name}.json`);
+  const report = join(dir, `${name}.html`);
+  const io = recordingIo();
+  const code = await runCli(['build', '--vehicle', vehicle, '--logs', join('vehicles', vehicle, 'logs'), '--out', schedule, '--report', report, ...extra], io);
+  // The loaded van's build exits 1: the OLD gains fail on it (the new schedule passes and is written).
+  if (code !== 0 && !(code === 1 && extra.includes('--baseline'))) throw new Error(`build of ${vehicle} failed: ${io.err()}${io.out()}`);
+  return { name, schedule, report };
+}
+
+/** Open a report, recording console errors, page errors and every request. */
+async function open(report: string, context: BrowserContext = checking): Promise<{ page: Page; errors: string[]; requests: string[] }> {
+  const page = await context.newPage();
+  const errors: string[] = [];
+  const requests: string[] = [];
+  page.on('console', (message) => {
+    if (message.type() === 'error' || message.type() === 'warning') errors.push(`${message.type()}: ${message.text()}`);
+  });
+  page.on('pageerror', (error) => errors.push(`page error: ${error.message}`));
+  page.on('request', (request) => requests.push(request.url()));
+  await page.goto(pathToFileURL(report).href, { waitUntil: 'load' });
+  return { page, errors, requests };
+}
+
+beforeAll(async () => {
+  mkdirSync(SCREENSHOTS, { recursive: true });
+  const van = await build('parcel-van', 'parcel-van', ['--models-out', join(dir, 'parcel-van-models.json')]);
+  reports.push(van, await build('vineyard-sprayer', 'vineyard-sprayer'), await build('sidewalk-robot', 'sidewalk-robot'));
+  reports.push(await build('parcel-van-loaded', 'parcel-van-loaded', ['--baseline', van.schedule]));
+  browser = await launchChromium();
+  checking = await browser.newContext({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 0.5 });
+  full = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+}, 120_000);
+
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe('the report in headless Chromium, for every demo vehicle', () => {
+  it('the screenshot reader used below reads a known page back: three blocks of known colour', async () => {
+    const page = await full.newPage();
+    await page.setContent('<body style="margin:0;background:#fff"><div style="display:flex"><div style="width:40px;height:30px;background:#d55e00"></div><div style="width:40px;height:30px;background:#0072b2"></div><div style="width:40px;height:30px;background:#009e73"></div></div></body>');
+    const image = decodePng(await page.screenshot({ clip: { x: 0, y: 0, width: 120, height: 40 } }));
+    const at = (x: number, y: number) => [...image.rgba.subarray((y * image.width + x) * 4, (y * image.width + x) * 4 + 3)];
+    // Source: the CSS colours written above (Okabe & Ito's vermillion, blue, bluish green) and white.
+    expect([at(20, 15), at(60, 15), at(100, 15), at(60, 35)]).toEqual([[0xd5, 0x5e, 0x00], [0x00, 0x72, 0xb2], [0x00, 0x9e, 0x73], [255, 255, 255]]);
+    expect(greyVariance(image, { x: 0, y: 0, width: 40, height: 30 })).toBeLessThan(1e-6);
+    await page.close();
+  });
+
+  it('each report loads with no console error and requests nothing but itself; every plot has a title, a description, data marks and a table to fall back on; no plot is blank', async () => {
+    for (const built of reports) {
+      expect(statSync(built.report).size, built.name).toBeLessThan(3 * 1024 * 1024);
+      const { page, errors, requests } = await open(built.report);
+      expect(errors, built.name).toEqual([]);
+      expect(requests, built.name).toEqual([pathToFileURL(built.report).href]);
+      const plots = await page.$$eval('svg.plot', (svgs) =>
+        svgs.map((svg) => {
+          const [titleId, descId] = (svg.getAttribute('aria-labelledby') ?? '').split(' ');
+          const area = svg.querySelector('rect.plot-area')!.getBoundingClientRect();
+          const figure = svg.closest('figure');
+          return {
+            title: document.getElementById(titleId)?.textContent ?? '',
+            description: document.getElementById(descId)?.textContent ?? '',
+            role: svg.getAttribute('role'),
+            marks: svg.querySelectorAll('.marks path, .marks circle').length,
+            axisLabels: svg.querySelectorAll('text').length,
+            fallbackRows: figure?.querySelectorAll('details table tbody tr').length ?? 0,
+            area: { x: area.x + window.scrollX, y: area.y + window.scrollY, width: area.width, height: area.height },
+          };
+        }),
+      );
+      expect(plots.length, built.name).toBeGreaterThanOrEqual(built.name === 'parcel-van-loaded' ? 30 : 25);
+      for (const plot of plots) {
+        expect(plot.role).toBe('img');
+        expect(plot.title.length, built.name).toBeGreaterThan(5);
+        expect(plot.description, plot.title).toMatch(/points/);
+        expect(plot.marks, plot.title).toBeGreaterThan(0);
+        expect(plot.axisLabels, plot.title).toBeGreaterThanOrEqual(4);
+        expect(plot.fallbackRows, plot.title).toBeGreaterThan(0);
+      }
+      // Blank: the data marks must paint the plotting area — its pixels vary, and differ from the same page with the marks hidden
+      // (screenshots at half scale: areas in CSS px are halved).
+      const shown = decodePng(await page.screenshot({ fullPage: true }));
+      await page.addStyleTag({ content: '.marks { visibility: hidden; }' });
+      const hidden = decodePng(await page.screenshot({ fullPage: true }));
+      for (const plot of plots) {
+        const area = { x: plot.area.x / 2, y: plot.area.y / 2, width: plot.area.width / 2, height: plot.area.height / 2 };
+        expect(greyVariance(shown, area), `${built.name}: ${plot.title}`).toBeGreaterThan(20);
+        expect(differingPixels(shown, hidden, area), `${built.name}: ${plot.title}`).toBeGreaterThan(20);
+      }
+      await page.close();
+    }
+  }, 120_000);
+
+  it('the numbers in the tables are those of schedule.json, read back from the page (every breakpoint field, the worst figures, the inputs, the checksum)', async () => {
+    for (const built of [reports[0], reports[3]]) {
+      const schedule = readSchedule(built.schedule);
+      const { page } = await open(built.report);
+      const rows = await page.$$eval('#breakpoints tbody tr', (trs) =>
+        trs.map((tr) => Object.fromEntries([...tr.querySelectorAll('td[data-field]')].map((td) => [td.getAttribute('data-field'), td.querySelector('data')?.getAttribute('value') ?? td.textContent]))),
+      );
+      expect(rows).toHaveLength(schedule.breakpoints.length);
+      schedule.breakpoints.forEach((breakpoint, k) => {
+        const row = rows[k] as Record<string, string>;
+        const number = (field: string) => (row[field] === '—' ? null : Number(row[field]));
+        expect([number('speed_mps'), number('kp'), number('ki'), number('kd')]).toEqual([breakpoint.speed_mps, breakpoint.kp, breakpoint.ki, breakpoint.kd]);
+        for (const field of ['lowerGainMargin_dB', 'upperGainMargin_dB', 'phaseMargin_deg', 'delayMargin_s', 'sensitivityPeak', 'complementarySensitivityPeak'] as const) {
+          expect(number(field), field).toBe(breakpoint.margins[field]);
+        }
+        expect(row.verdict).toBe(breakpoint.margins.verdict);
+        expect(row.insertedByRefinement).toBe(breakpoint.insertedByRefinement ? 'inserted' : 'planned');
+      });
+      const worst = await page.$$eval('#worst td[data-field]', (tds) => Object.fromEntries(tds.map((td) => [td.getAttribute('data-field'), td.querySelector('data')?.getAttribute('value') ?? null])));
+      for (const [name, value] of Object.entries(schedule.check.worst)) {
+        expect(worst[`${name}.value`] === null ? null : Number(worst[`${name}.value`]), name).toBe(value?.value ?? null);
+        expect(worst[`${name}.speed_mps`] === null ? null : Number(worst[`${name}.speed_mps`]), name).toBe(value?.speed_mps ?? null);
+      }
+      expect(Number(worst['phaseMargin_deg.limit'])).toBe(schedule.check.thresholds.minimumPhaseMargin_deg);
+      const inputs = await page.$$eval('#inputs tbody tr', (trs) => trs.map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent)));
+      expect(inputs).toEqual(schedule.provenance.inputs.map((input) => [input.file, input.role, input.sha256]));
+      expect(await page.textContent('#checksum')).toBe(schedule.checksum.value);
+      await page.close();
+    }
+  }, 60_000);
+
+  it('after a change it leads with the old gains on the new vehicle, right after the cautions', async () => {
+    const { page } = await open(reports[3].report);
+    const order = await page.$$eval('h1, h2', (headings) => headings.map((heading) => heading.textContent));
+    expect(order.slice(0, 3)).toEqual(['Steering gain schedule — parcel-van-loaded', 'Safety', 'After the change: the old gains on the new vehicle']);
+    expect(await page.textContent('#old-gains')).toMatch(/The old gains do NOT hold on the new vehicle model: .* at \d+ of \d+ speeds checked .* — at [\d.]+–[\d.]+ m\/s \(phase margin/);
+    await page.close();
+  }, 30_000);
+
+  it('screenshots at 1280 px and in print emulation; the print layout fits the printable width of A4 and of Letter, without navigation or fallback tables; both print as PDF', async () => {
+    const built = reports[3];
+    const { page } = await open(built.report, full);
+    await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-1280.png`), fullPage: true });
+    await page.emulateMedia({ media: 'print' });
+    for (const [paper, width] of Object.entries(PRINTABLE_WIDTH_PX)) {
+      await page.setViewportSize({ width: Math.floor(width), height: 1100 });
+      const layout = await page.evaluate(() => ({
+        overflow: document.documentElement.scrollWidth - window.innerWidth,
+        widestPlot: Math.max(...[...document.querySelectorAll('svg.plot')].map((svg) => svg.getBoundingClientRect().right)),
+        hidden: [...document.querySelectorAll('nav.contents, details')].every((element) => getComputedStyle(element).display === 'none'),
+        cautionsFirst: document.querySelector('.cautions')!.getBoundingClientRect().top < document.querySelector('main')!.getBoundingClientRect().top,
+      }));
+      expect(layout.overflow, paper).toBeLessThanOrEqual(0);
+      expect(layout.widestPlot, paper).toBeLessThanOrEqual(width);
+      expect(layout.hidden, paper).toBe(true);
+      expect(layout.cautionsFirst, paper).toBe(true);
+      await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-print-${paper}.png`), fullPage: true });
+    }
+    for (const format of ['A4', 'Letter'] as const) {
+      const pdf = await page.pdf({ format, margin: { top: '14mm', bottom: '14mm', left: '14mm', right: '14mm' } });
+      expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+      expect((pdf.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length, format).toBeGreaterThan(5);
+    }
+    await page.close();
+    expect(readFileSync(join(SCREENSHOTS, `${built.name}-1280.png`)).length).toBeGreaterThan(10_000);
+  }, 60_000);
+});
