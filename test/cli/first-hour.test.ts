@@ -37,7 +37,7 @@ beforeAll(async () => {
 });
 
 describe('the same log options on every command that reads logs', () => {
-  it('build, check, identify, inspect and reverify take --column and --log-profile, described alike (one definition)', async () => {
+  it('build, check, identify, inspect, report and reverify take --column and --log-profile, described alike (one definition)', async () => {
     const { COMMANDS } = await import('../../src/cli/commands/index.js');
     const readers: string[] = [];
     for (const command of COMMANDS) {
@@ -48,7 +48,7 @@ describe('the same log options on every command that reads logs', () => {
       expect(help, name).toMatch(/--column Map one channel, CHANNEL=HEADER\[:UNIT\] \(overrides the profile; repeatable\)/);
       expect(help, name).toMatch(/--log-profile JSON file naming the log columns and their units/);
     }
-    expect(readers.sort()).toEqual(['build', 'check', 'identify', 'inspect', 'reverify']);
+    expect(readers.sort()).toEqual(['build', 'check', 'identify', 'inspect', 'report', 'reverify']);
     // identify reads a column in another unit, as its missing-column error recommends.
     const logs = convertLogs(join(VAN, 'logs'), join(dir, 'identify-kph'), { scale: { speed_mps: 3.6 }, only: /(02|10|25)\.00mps/ });
     const identified = await run(['identify', '--vehicle', VAN, '--logs', ...logs, '--column', 'speed_mps=speed_mps:km/h', '--json', '--no-second-order']);
