@@ -97,13 +97,14 @@ export function greyVariance(image: Image, box: { x: number; y: number; width: n
   return count === 0 ? 0 : squares / count - (sum / count) ** 2;
 }
 
-/** Pixels of a rectangle that differ between two images of the same size (any channel by more than `tolerance`). */
-export function differingPixels(a: Image, b: Image, box: { x: number; y: number; width: number; height: number }, tolerance = 8): number {
+/** Pixels of a rectangle where image `a` is darker than `b` (grey level lower by more than `tolerance`): the ink that `a` adds. */
+export function inkedPixels(a: Image, b: Image, box: { x: number; y: number; width: number; height: number }, tolerance = 24): number {
   let count = 0;
   for (let row = Math.max(0, Math.floor(box.y)); row < Math.min(a.height, b.height, Math.ceil(box.y + box.height)); row++) {
     for (let column = Math.max(0, Math.floor(box.x)); column < Math.min(a.width, b.width, Math.ceil(box.x + box.width)); column++) {
       const k = (row * a.width + column) * 4;
-      if (Math.abs(a.rgba[k] - b.rgba[k]) > tolerance || Math.abs(a.rgba[k + 1] - b.rgba[k + 1]) > tolerance || Math.abs(a.rgba[k + 2] - b.rgba[k + 2]) > tolerance) count++;
+      const grey = (image: Image) => (image.rgba[k] + image.rgba[k + 1] + image.rgba[k + 2]) / 3;
+      if (grey(b) - grey(a) > tolerance) count++;
     }
   }
   return count;

@@ -184,7 +184,7 @@ export const command: CommandModule = {
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
       .option('baseline', { type: 'string', describe: 'A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?)' })
       .option('report', { type: 'string', describe: 'Also write the HTML report of the schedule (see speedband report --help): fits over the steps, gains and margins against speed, Bode and Nyquist plots, with --baseline the old gains on the new vehicle. Written with the schedule' })
-      .option('response-speed-mps', { type: 'array', number: true, describe: 'With --report: speeds of the Bode and Nyquist plots, m/s (default: the lowest and highest breakpoint and the speed of the smallest phase margin)' })
+      .option('response-speed-mps', { type: 'array', string: true, describe: 'With --report: speeds of the Bode and Nyquist plots, m/s (default: the lowest and highest breakpoint and the speed of the smallest phase margin)' })
       .option('allow-other-vehicle', {
         type: 'boolean',
         default: false,

@@ -9,7 +9,7 @@ export function responseSpeedsFromArgs(args: Record<string, unknown>): number[] 
   const given = args['response-speed-mps'] as unknown[] | undefined;
   if (given === undefined) return undefined;
   return given.map((value) => {
-    const speed = typeof value === 'number' ? value : Number(value);
+    const speed = typeof value === 'number' ? value : String(value).trim() === '' ? Number.NaN : Number(value);
     if (!Number.isFinite(speed) || speed <= 0) throw new SpeedbandError('cli.badNumber', `--response-speed-mps is ${quoted(String(value))} — expected a speed > 0 in m/s inside the schedule's range`);
     return speed;
   });
@@ -81,7 +81,7 @@ export const command: CommandModule = {
       .option('models', { type: 'string', describe: 'The identification the schedule was built from (models.json; checked by the SHA-256 of its vehicle file and logs): adds the identified parameters against speed with their intervals and the single-track prediction' })
       .option('logs', { type: 'array', string: true, describe: 'The logs of that identification (files or folders; each checked by SHA-256 against models.json): adds the fits over the measured steps with residuals. Needs --models' })
       .option('baseline', { type: 'string', describe: 'A previous schedule.json: the report leads with whether ITS gains still hold on this schedule\'s vehicle model, and draws old against new' })
-      .option('response-speed-mps', { type: 'array', number: true, describe: 'Speeds of the Bode and Nyquist plots, m/s (repeatable; default: the lowest and highest breakpoint and the speed of the smallest phase margin)' })
+      .option('response-speed-mps', { type: 'array', string: true, describe: 'Speeds of the Bode and Nyquist plots, m/s (repeatable; default: the lowest and highest breakpoint and the speed of the smallest phase margin)' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace an existing report whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print what was written as JSON (file, outcome, bytes, sections, the old gains\' verdict)' }),
   epilogue:
