@@ -4,6 +4,7 @@
  * grid, gains, loop, controller and limits: `recheckSchedule`) — or taken as the build just ran it.
  */
 import { recheckSchedule, recordedCheckModel } from '../build/recheck-schedule.js';
+import { failingIntervals, failingIntervalWords } from '../schedule/failing-intervals.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult, WorstMargins } from '../schedule/types.js';
 import type { LoopMargins } from '../verify/types.js';
@@ -27,6 +28,7 @@ export function reportCheck(check: DenseCheckResult, description: string): Repor
     description,
     passed: check.passed,
     points: check.points.map((point) => ({ speed_mps: point.speed_mps, gains: point.gains, margins: pointMargins(point.margins), failures: point.failures.map((failure) => failure.criterion) })),
+    failingIntervals: failingIntervals(check.points).map(failingIntervalWords),
   };
 }
 

@@ -34,6 +34,8 @@ export interface ReportCheck {
   readonly description: string;
   readonly passed: boolean;
   readonly points: readonly ReportCheckPoint[];
+  /** Where it fails, in words: runs of consecutive failing speeds and the limits broken ("19.34–25 m/s (phase margin)"). */
+  readonly failingIntervals: readonly string[];
 }
 
 /** The open-loop frequency response L of one schedule's loop at one speed, with the crossings that set the margins. */

@@ -39,11 +39,25 @@ function valuesOf(mark: Mark, axis: 'x' | 'y'): readonly (number | null)[] {
   }
 }
 
-/** A scale for one axis: the spec's domain, or the data's extent with the values it must include, made nice. */
+/** Room added beyond the data at each end of a free axis, as a fraction of the span (markers at the extremes stay whole). */
+const PADDING = 0.03;
+
+/**
+ * A scale for one axis: the spec's domain, or the data's extent with the values it must include, padded and made
+ * nice. The padding stops at an included value it reaches (a gain plot including 0 does not go below 0).
+ */
 function makeScale(spec: AxisSpec, marks: readonly Mark[], axis: 'x' | 'y', range: [number, number]): Scale {
   const log = spec.scale === 'log';
-  const values = [...marks.flatMap((mark) => valuesOf(mark, axis)), ...(spec.include ?? [])].filter((value) => usable(value, log));
-  let [low, high] = spec.domain ?? (extent(values) as [number | undefined, number | undefined]).map((value) => value ?? (log ? 1 : 0));
+  const data = marks.flatMap((mark) => valuesOf(mark, axis)).filter((value) => usable(value, log));
+  const include = (spec.include ?? []).filter((value) => usable(value, log));
+  let [low, high] = spec.domain ?? (extent([...data, ...include]) as [number | undefined, number | undefined]).map((value) => value ?? (log ? 1 : 0));
+  if (spec.domain === undefined && !log && high > low && data.length > 0) {
+    const [dataLow, dataHigh] = extent(data) as [number, number];
+    const pad = PADDING * (high - low);
+    const stop = (from: number, to: number): number => include.find((value) => (value - to) * (value - from) <= 0) ?? to;
+    low = Math.min(low, stop(dataLow, dataLow - pad));
+    high = Math.max(high, stop(dataHigh, dataHigh + pad));
+  }
   if (!(high > low)) {
     const room = log ? 10 : Math.abs(low) > 0 ? Math.abs(low) * 0.1 : 1;
     [low, high] = log ? [low / room, high * room] : [low - room, high + room];
@@ -176,23 +190,31 @@ export function renderPlot(spec: PlotSpec, ids: IdSource): string {
   ].join('');
   const guides = spec.marks.filter((mark) => mark.kind === 'region').map((mark) => drawMark(mark, x, y, xLog, yLog));
   const overlays = spec.marks.filter((mark) => mark.kind === 'rule' || mark.kind === 'ring').map((mark) => drawMark(mark, x, y, xLog, yLog));
-  const data = spec.marks.filter((mark) => mark.kind !== 'region' && mark.kind !== 'rule' && mark.kind !== 'ring').map((mark) => drawMark(mark, x, y, xLog, yLog));
+  const isGuide = (mark: Mark): boolean => mark.kind === 'region' || mark.kind === 'rule' || mark.kind === 'ring';
+  const curves = spec.marks.filter((mark) => !isGuide(mark) && mark.kind !== 'points').map((mark) => drawMark(mark, x, y, xLog, yLog));
+  const points = spec.marks.filter((mark) => mark.kind === 'points').map((mark) => drawMark(mark, x, y, xLog, yLog));
+  // Markers are clipped a marker's size outside the area, so that one at the edge of the domain shows whole.
+  const [pointsClipId, out] = [ids.next('plot-clip'), 8];
   const text = (px: number, py: number, anchor: string, content: string, extra = ''): string =>
     `<text x="${px.toFixed(1)}" y="${py.toFixed(1)}" text-anchor="${anchor}" font-size="12"${extra}>${escapeHtml(content)}</text>`;
   return [
     `<svg class="plot" xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${width} ${height}" role="img" aria-labelledby="${titleId} ${descId}">`,
     `<title id="${titleId}">${escapeHtml(spec.title)}</title>`,
     `<desc id="${descId}">${escapeHtml(description)}.</desc>`,
-    `<defs><clipPath id="${clipId}"><rect x="${left}" y="${top}" width="${right - left}" height="${bottom - top}"/></clipPath></defs>`,
+    `<defs><clipPath id="${clipId}"><rect x="${left}" y="${top}" width="${right - left}" height="${bottom - top}"/></clipPath>` +
+      `<clipPath id="${pointsClipId}"><rect x="${left - out}" y="${top - out}" width="${right - left + 2 * out}" height="${bottom - top + 2 * out}"/></clipPath></defs>`,
     `<rect class="plot-area" x="${left}" y="${top}" width="${right - left}" height="${bottom - top}" fill="#ffffff"/>`,
     `<g clip-path="url(#${clipId})">`,
     ...guides,
     `<path d="${grid}" fill="none" stroke="${GREYS.grid}" stroke-width="1"/>`,
     ...overlays,
-    `<g class="marks">`,
-    ...data,
-    `</g></g>`,
+    `</g>`,
     `<path d="M${left},${top}V${bottom}H${right}" fill="none" stroke="${GREYS.axis}" stroke-width="1.2"/>`,
+    `<g class="marks"><g clip-path="url(#${clipId})">`,
+    ...curves,
+    `</g><g clip-path="url(#${pointsClipId})">`,
+    ...points,
+    `</g></g>`,
     `<g aria-hidden="true">`,
     ...xTicks.map((tick) => text(x(tick.value), bottom + 16, 'middle', tick.label)),
     ...yTicks.map((tick) => text(left - 6, y(tick.value) + 4, 'end', tick.label)),

@@ -3,15 +3,6 @@ import type { ScheduleFile } from '../../schedule/schedule-types.js';
 import type { ReportData } from '../types.js';
 import { escapeHtml, fixedNumber, htmlTable, numberCell, shownNumber, textCell, type Cell } from './html.js';
 
-const CRITERION_WORDS: Readonly<Record<string, string>> = {
-  stability: 'closed-loop stability',
-  lowerGainMargin: 'lower gain margin',
-  upperGainMargin: 'upper gain margin',
-  phaseMargin: 'phase margin',
-  delayMargin: 'delay margin',
-  sensitivityPeak: 'peak sensitivity',
-};
-
 /** One row per breakpoint: every number as the schedule file holds it (exact in `<data value>`). */
 export function breakpointTable(schedule: ScheduleFile): string {
   const { units } = schedule;
@@ -80,14 +71,13 @@ export function renderScheduleSection(data: ReportData): string {
     parts.push(`<h3>Breakpoints inserted by the check</h3><ul>${check.insertions.map((insertion) => `<li>${fixedNumber(insertion.speed_mps, 2)} m/s: ${escapeHtml(insertion.reason)}</li>`).join('')}</ul>`);
   }
   if (check.failures.length > 0) {
-    const failing = data.check?.points.filter((point) => point.failures.length > 0) ?? [];
-    const where = failing.length === 0 ? '' : ` Limits broken: ${[...new Set(failing.flatMap((point) => point.failures))].map((criterion) => CRITERION_WORDS[criterion]).join(', ')}.`;
+    const intervals = data.check?.failingIntervals ?? [];
+    const where = intervals.length === 0 ? '' : `<p>Where: <strong>${intervals.map(escapeHtml).join('; ')}</strong>.</p>`;
     parts.push(
-      `<h3>Failing speeds</h3><p>${check.failedSpeeds} of ${check.gridSize} speeds.${escapeHtml(where)}</p>` +
-        `<ul>${check.failures
-          .slice(0, 20)
+      `<h3>Failing speeds</h3><p>${check.failedSpeeds} of ${check.gridSize} speeds break a limit.</p>${where}` +
+        `<details><summary>The first ${check.failures.length} failing speeds, as schedule.json lists them</summary><ul>${check.failures
           .map((failure) => `<li>${fixedNumber(failure.speed_mps, 2)} m/s: ${failure.messages.map(escapeHtml).join('; ')}</li>`)
-          .join('')}${check.failures.length > 20 ? `<li>… and ${check.failedSpeeds - 20} more (schedule.json lists the first ${check.failures.length})</li>` : ''}</ul>`,
+          .join('')}</ul></details>`,
     );
   }
   return parts.join('\n');
