@@ -8,7 +8,9 @@ import type { Mark, PlotSpec } from './plot-types.js';
 const GAINS = ['kp', 'ki', 'kd'] as const;
 
 export function renderGainsSection(data: ReportData, context: RenderContext): string {
-  const { schedule, gainCurve, baseline } = data;
+  const { schedule, gainCurve } = data;
+  // The old gains are drawn only when they mean the same thing (same loop, controller form, sample time, discretisation).
+  const baseline = data.baseline !== null && data.baseline.comparison.gainsComparable ? data.baseline : null;
   const planned = schedule.breakpoints.filter((breakpoint) => !breakpoint.insertedByRefinement);
   const inserted = schedule.breakpoints.filter((breakpoint) => breakpoint.insertedByRefinement);
   const [low, high] = [schedule.check.range.minimum_mps, schedule.check.range.maximum_mps];
@@ -53,6 +55,7 @@ export function renderGainsSection(data: ReportData, context: RenderContext): st
       notes: [
         `Between breakpoints the firmware's lookup interpolates (${schedule.interpolation.method}); outside the range it holds the end gains, and below the low-speed floor (${fixedNumber(floor, 2)} m/s) it uses the floor's gains.`,
         ...(inserted.length > 0 ? [`${inserted.length} breakpoint${inserted.length === 1 ? ' was' : 's were'} inserted where the check failed between breakpoints.`] : []),
+        ...(data.baseline !== null && baseline === null ? [`The old gains of ${data.baseline.file} are not drawn: a loop or controller setting changed, so they are not comparable one by one (see the change from the baseline).`] : []),
       ],
       table: {
         caption: 'Gains at the breakpoints',

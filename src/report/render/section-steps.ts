@@ -19,11 +19,13 @@ function figureOf(speed: StepTracesAtSpeed, data: ReportData, context: RenderCon
     response.push({ kind: 'line', label: k === 0 ? 'FOPDT fit of each step' : `${name}, fit`, x: step.time_s, y: step.fitPerCommand_perS, style: { colour: ROLE_COLOURS.fit, dash: 'dash', width: 1.1 }, legend: k === 0 });
     residual.push({ kind: 'line', label: k === 0 ? 'residual (measured − fit)' : `${name}, residual`, x: step.time_s, y: step.residual_radps, style: { colour: ROLE_COLOURS.measured, width: 1.1 }, legend: k === 0 });
   });
+  const times = speed.steps.flatMap((step) => [step.time_s[0], step.time_s[step.time_s.length - 1]]);
+  const x = { label: 'time since the step, s', domain: [Math.min(...times), Math.max(...times)] as const };
   const panels: PlotSpec[] = [
     {
       title: `Steps at ${at} m/s and their fits`,
       description: `Yaw rate change per steering command change of ${speed.steps.length} steps at ${at} m/s against time since the step, 1/s, each with its FOPDT fit`,
-      x: { label: 'time since the step, s' },
+      x,
       y: { label: 'yaw rate per command, 1/s', include: [0] },
       marks: response,
       height: 230,
@@ -31,7 +33,7 @@ function figureOf(speed: StepTracesAtSpeed, data: ReportData, context: RenderCon
     {
       title: `Residuals at ${at} m/s`,
       description: `Measured minus fitted yaw rate of each step at ${at} m/s, rad/s`,
-      x: { label: 'time since the step, s' },
+      x,
       y: { label: 'residual, rad/s', include: [0] },
       marks: residual,
       height: 160,

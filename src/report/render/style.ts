@@ -57,7 +57,7 @@ footer.report { margin: 2rem auto 2rem; font-size: 0.85rem; color: #444; border-
   .grid { display: block; }
   .grid > figure { width: 100%; max-width: 150mm; margin: 0 auto 5mm; }
   .grid > figure.row { max-width: none; }
-  figure.row .panels { grid-template-columns: repeat(3, 1fr); }
+  figure.row .panels { grid-template-columns: repeat(2, 1fr); }
   h2 { break-after: avoid; page-break-after: avoid; }
   h3 { break-after: avoid; page-break-after: avoid; }
   tr, .cautions, .key-fact { break-inside: avoid; page-break-inside: avoid; }
