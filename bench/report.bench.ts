@@ -7,6 +7,7 @@
  *   unchanged — the renderer and d3 are a chunk loaded by the report path only).
  * Median of several runs with the fastest beside it (the machine is shared and noisy). Run `npm run build` first.
  */
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -42,3 +43,12 @@ try {
   // exit 1: the old gains fail on the loaded van (the schedule and its report are written)
 }
 printFigure('report HTML, loaded van against the van (build --report)', statSync(change).size / 1024 / 1024, 'MB', '< 3 MB');
+
+// compare now leads with the old gains densely checked on the new schedule's model (the 209 speeds of its check).
+const compares: { wall_ms: number }[] = [];
+for (let k = 0; k < RUNS; k++) {
+  const started = process.hrtime.bigint();
+  spawnSync(process.execPath, ['bin/speedband.js', 'compare', schedule, loaded, '--markdown'], { stdio: 'ignore' }); // exit 1: flagged
+  compares.push({ wall_ms: Number(process.hrtime.bigint() - started) / 1e6 });
+}
+printFigure(`compare van → loaded van with the old gains' check (median of ${RUNS})`, sorted(compares)[RUNS >> 1], 'ms');
