@@ -250,3 +250,10 @@ export { runDemo, bundledVehicles, BUNDLED_VEHICLES, DEMO_DEFAULTS, type DemoInp
 export { recordedLoopAnalysis, checkExportedTable, findFallbackGains } from './build/export-check.js';
 export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
 export { DELAY_BOUNDS, requireBoundedDelay } from './build/delay-bound.js';
+// The HTML report (src/report/): its data, and the HTML (the renderer and d3 are loaded on first use).
+export { gatherReportData, requireModelsOfSchedule, type ReportInput } from './report/report-data.js';
+export { renderReportHtml, writeReport } from './report/write-report.js';
+export type { ReportData, ReportCheck, LoopResponse, FrequencyResponseAtSpeed, ModelPrediction, StepTracesAtSpeed, ReportBaseline } from './report/types.js';
+export { loopFrequencyResponse, type FrequencyPoint } from './verify/frequency-points.js';
+export { oldGainsOnNewVehicle, checkBaseline, type BaselineCheck } from './build/baseline.js';
+export { failingIntervals, failingIntervalWords, type FailingInterval } from './schedule/failing-intervals.js';
