@@ -8,7 +8,7 @@
  * the model, the version), and a fresh checksum. Nothing the hand edit wrote about margins or
  * status is kept: only what the check proves.
  */
-import { SAFETY_CAUTIONS } from '../cli/safety.js';
+import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
 import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
 import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';

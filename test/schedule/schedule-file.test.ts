@@ -7,7 +7,7 @@ import { canonicalJson } from '../../src/schedule/canonical-json.js';
 import { checksumContent, computeScheduleChecksum, verifyScheduleChecksum } from '../../src/schedule/checksum.js';
 import { parseSchedule, readSchedule, writeSchedule } from '../../src/schedule/schedule-file.js';
 import { serialiseSchedule } from '../../src/schedule/schedule-json.js';
-import { SAFETY_CAUTIONS } from '../../src/cli/safety.js';
+import { SAFETY_CAUTIONS } from '../../src/core/safety.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { runPython } from '../helpers/python.js';
 import { sampleSchedule } from './sample-schedule.js';
