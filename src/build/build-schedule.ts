@@ -209,6 +209,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
     check: refinement.check,
     insertions: refinement.insertions,
     integratorClamp_rad: vehicle.maxSteerAngle_rad,
+    maxSteerRate_radps: vehicle.maxSteerRate_radps,
     inputs,
     modelSummary: checkModel.summary as unknown as Readonly<Record<string, unknown>>,
     modelDescription: checkModel.description,

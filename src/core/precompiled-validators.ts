@@ -8391,7 +8391,7 @@ return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
 const pattern5 = new RegExp("^/", "u");
 
 function validate5(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
@@ -12171,8 +12171,8 @@ vErrors.push(err321);
 }
 errors++;
 }
-if(data137.failures === undefined){
-const err322 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
+if(data137.steeringLimits === undefined){
+const err322 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "steeringLimits"},message:"must have required property '"+"steeringLimits"+"'"};
 if(vErrors === null){
 vErrors = [err322];
 }
@@ -12181,9 +12181,8 @@ vErrors.push(err322);
 }
 errors++;
 }
-for(const key29 in data137){
-if(!(((key29 === "passed") || (key29 === "limits")) || (key29 === "failures"))){
-const err323 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key29},message:"must NOT have additional properties"};
+if(data137.failures === undefined){
+const err323 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err323];
 }
@@ -12192,10 +12191,9 @@ vErrors.push(err323);
 }
 errors++;
 }
-}
-if(data137.passed !== undefined){
-if(typeof data137.passed !== "boolean"){
-const err324 = {instancePath:instancePath+"/check/timeDomain/passed",schemaPath:"#/properties/check/properties/timeDomain/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+for(const key29 in data137){
+if(!((((key29 === "passed") || (key29 === "limits")) || (key29 === "steeringLimits")) || (key29 === "failures"))){
+const err324 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key29},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err324];
 }
@@ -12205,11 +12203,9 @@ vErrors.push(err324);
 errors++;
 }
 }
-if(data137.limits !== undefined){
-let data139 = data137.limits;
-if(data139 && typeof data139 == "object" && !Array.isArray(data139)){
-if(data139.maximumOvershoot_pct === undefined){
-const err325 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumOvershoot_pct"},message:"must have required property '"+"maximumOvershoot_pct"+"'"};
+if(data137.passed !== undefined){
+if(typeof data137.passed !== "boolean"){
+const err325 = {instancePath:instancePath+"/check/timeDomain/passed",schemaPath:"#/properties/check/properties/timeDomain/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err325];
 }
@@ -12218,8 +12214,12 @@ vErrors.push(err325);
 }
 errors++;
 }
-if(data139.maximumRecoveryTime_s === undefined){
-const err326 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumRecoveryTime_s"},message:"must have required property '"+"maximumRecoveryTime_s"+"'"};
+}
+if(data137.limits !== undefined){
+let data139 = data137.limits;
+if(data139 && typeof data139 == "object" && !Array.isArray(data139)){
+if(data139.maximumOvershoot_pct === undefined){
+const err326 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumOvershoot_pct"},message:"must have required property '"+"maximumOvershoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err326];
 }
@@ -12228,8 +12228,8 @@ vErrors.push(err326);
 }
 errors++;
 }
-if(data139.maximumLaneChangeError_m === undefined){
-const err327 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumLaneChangeError_m"},message:"must have required property '"+"maximumLaneChangeError_m"+"'"};
+if(data139.maximumRecoveryTime_s === undefined){
+const err327 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumRecoveryTime_s"},message:"must have required property '"+"maximumRecoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err327];
 }
@@ -12238,8 +12238,8 @@ vErrors.push(err327);
 }
 errors++;
 }
-if(data139.maximumCurveEntryError_m === undefined){
-const err328 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumCurveEntryError_m"},message:"must have required property '"+"maximumCurveEntryError_m"+"'"};
+if(data139.maximumLaneChangeError_m === undefined){
+const err328 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumLaneChangeError_m"},message:"must have required property '"+"maximumLaneChangeError_m"+"'"};
 if(vErrors === null){
 vErrors = [err328];
 }
@@ -12248,9 +12248,8 @@ vErrors.push(err328);
 }
 errors++;
 }
-for(const key30 in data139){
-if(!((((key30 === "maximumOvershoot_pct") || (key30 === "maximumRecoveryTime_s")) || (key30 === "maximumLaneChangeError_m")) || (key30 === "maximumCurveEntryError_m"))){
-const err329 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key30},message:"must NOT have additional properties"};
+if(data139.maximumCurveEntryError_m === undefined){
+const err329 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumCurveEntryError_m"},message:"must have required property '"+"maximumCurveEntryError_m"+"'"};
 if(vErrors === null){
 vErrors = [err329];
 }
@@ -12259,11 +12258,9 @@ vErrors.push(err329);
 }
 errors++;
 }
-}
-if(data139.maximumOvershoot_pct !== undefined){
-let data140 = data139.maximumOvershoot_pct;
-if(!((typeof data140 == "number") && (isFinite(data140)))){
-const err330 = {instancePath:instancePath+"/check/timeDomain/limits/maximumOvershoot_pct",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key30 in data139){
+if(!((((key30 === "maximumOvershoot_pct") || (key30 === "maximumRecoveryTime_s")) || (key30 === "maximumLaneChangeError_m")) || (key30 === "maximumCurveEntryError_m"))){
+const err330 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key30},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err330];
 }
@@ -12273,10 +12270,10 @@ vErrors.push(err330);
 errors++;
 }
 }
-if(data139.maximumRecoveryTime_s !== undefined){
-let data141 = data139.maximumRecoveryTime_s;
-if(!((typeof data141 == "number") && (isFinite(data141)))){
-const err331 = {instancePath:instancePath+"/check/timeDomain/limits/maximumRecoveryTime_s",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data139.maximumOvershoot_pct !== undefined){
+let data140 = data139.maximumOvershoot_pct;
+if(!((typeof data140 == "number") && (isFinite(data140)))){
+const err331 = {instancePath:instancePath+"/check/timeDomain/limits/maximumOvershoot_pct",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err331];
 }
@@ -12286,10 +12283,10 @@ vErrors.push(err331);
 errors++;
 }
 }
-if(data139.maximumLaneChangeError_m !== undefined){
-let data142 = data139.maximumLaneChangeError_m;
-if(!((typeof data142 == "number") && (isFinite(data142)))){
-const err332 = {instancePath:instancePath+"/check/timeDomain/limits/maximumLaneChangeError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data139.maximumRecoveryTime_s !== undefined){
+let data141 = data139.maximumRecoveryTime_s;
+if(!((typeof data141 == "number") && (isFinite(data141)))){
+const err332 = {instancePath:instancePath+"/check/timeDomain/limits/maximumRecoveryTime_s",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err332];
 }
@@ -12299,10 +12296,10 @@ vErrors.push(err332);
 errors++;
 }
 }
-if(data139.maximumCurveEntryError_m !== undefined){
-let data143 = data139.maximumCurveEntryError_m;
-if(!((typeof data143 == "number") && (isFinite(data143)))){
-const err333 = {instancePath:instancePath+"/check/timeDomain/limits/maximumCurveEntryError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data139.maximumLaneChangeError_m !== undefined){
+let data142 = data139.maximumLaneChangeError_m;
+if(!((typeof data142 == "number") && (isFinite(data142)))){
+const err333 = {instancePath:instancePath+"/check/timeDomain/limits/maximumLaneChangeError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err333];
 }
@@ -12312,9 +12309,10 @@ vErrors.push(err333);
 errors++;
 }
 }
-}
-else {
-const err334 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data139.maximumCurveEntryError_m !== undefined){
+let data143 = data139.maximumCurveEntryError_m;
+if(!((typeof data143 == "number") && (isFinite(data143)))){
+const err334 = {instancePath:instancePath+"/check/timeDomain/limits/maximumCurveEntryError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err334];
 }
@@ -12324,15 +12322,9 @@ vErrors.push(err334);
 errors++;
 }
 }
-if(data137.failures !== undefined){
-let data144 = data137.failures;
-if(Array.isArray(data144)){
-const len5 = data144.length;
-for(let i5=0; i5<len5; i5++){
-let data145 = data144[i5];
-if(data145 && typeof data145 == "object" && !Array.isArray(data145)){
-if(data145.speed_mps === undefined){
-const err335 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+else {
+const err335 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err335];
 }
@@ -12341,8 +12333,12 @@ vErrors.push(err335);
 }
 errors++;
 }
-if(data145.messages === undefined){
-const err336 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+}
+if(data137.steeringLimits !== undefined){
+let data144 = data137.steeringLimits;
+if(data144 && typeof data144 == "object" && !Array.isArray(data144)){
+if(data144.maxSteerAngle_rad === undefined){
+const err336 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/required",keyword:"required",params:{missingProperty: "maxSteerAngle_rad"},message:"must have required property '"+"maxSteerAngle_rad"+"'"};
 if(vErrors === null){
 vErrors = [err336];
 }
@@ -12351,9 +12347,8 @@ vErrors.push(err336);
 }
 errors++;
 }
-for(const key31 in data145){
-if(!((key31 === "speed_mps") || (key31 === "messages"))){
-const err337 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
+if(data144.maxSteerRate_radps === undefined){
+const err337 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/required",keyword:"required",params:{missingProperty: "maxSteerRate_radps"},message:"must have required property '"+"maxSteerRate_radps"+"'"};
 if(vErrors === null){
 vErrors = [err337];
 }
@@ -12362,11 +12357,9 @@ vErrors.push(err337);
 }
 errors++;
 }
-}
-if(data145.speed_mps !== undefined){
-let data146 = data145.speed_mps;
-if(!((typeof data146 == "number") && (isFinite(data146)))){
-const err338 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/speed_mps",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key31 in data144){
+if(!((key31 === "maxSteerAngle_rad") || (key31 === "maxSteerRate_radps"))){
+const err338 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err338];
 }
@@ -12376,13 +12369,11 @@ vErrors.push(err338);
 errors++;
 }
 }
-if(data145.messages !== undefined){
-let data147 = data145.messages;
-if(Array.isArray(data147)){
-const len6 = data147.length;
-for(let i6=0; i6<len6; i6++){
-if(typeof data147[i6] !== "string"){
-const err339 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages/" + i6,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data144.maxSteerAngle_rad !== undefined){
+let data145 = data144.maxSteerAngle_rad;
+if((typeof data145 == "number") && (isFinite(data145))){
+if(data145 <= 0 || isNaN(data145)){
+const err339 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerAngle_rad",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerAngle_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err339];
 }
@@ -12392,9 +12383,8 @@ vErrors.push(err339);
 errors++;
 }
 }
-}
 else {
-const err340 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err340 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerAngle_rad",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerAngle_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err340];
 }
@@ -12404,9 +12394,11 @@ vErrors.push(err340);
 errors++;
 }
 }
-}
-else {
-const err341 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data144.maxSteerRate_radps !== undefined){
+let data146 = data144.maxSteerRate_radps;
+if((typeof data146 == "number") && (isFinite(data146))){
+if(data146 <= 0 || isNaN(data146)){
+const err341 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerRate_radps",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerRate_radps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err341];
 }
@@ -12416,9 +12408,8 @@ vErrors.push(err341);
 errors++;
 }
 }
-}
 else {
-const err342 = {instancePath:instancePath+"/check/timeDomain/failures",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err342 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerRate_radps",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerRate_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err342];
 }
@@ -12430,7 +12421,7 @@ errors++;
 }
 }
 else {
-const err343 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err343 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err343];
 }
@@ -12440,9 +12431,15 @@ vErrors.push(err343);
 errors++;
 }
 }
-}
-else {
-const err344 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data137.failures !== undefined){
+let data147 = data137.failures;
+if(Array.isArray(data147)){
+const len5 = data147.length;
+for(let i5=0; i5<len5; i5++){
+let data148 = data147[i5];
+if(data148 && typeof data148 == "object" && !Array.isArray(data148)){
+if(data148.speed_mps === undefined){
+const err344 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err344];
 }
@@ -12451,12 +12448,8 @@ vErrors.push(err344);
 }
 errors++;
 }
-}
-if(data.provenance !== undefined){
-let data149 = data.provenance;
-if(data149 && typeof data149 == "object" && !Array.isArray(data149)){
-if(data149.tool === undefined){
-const err345 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(data148.messages === undefined){
+const err345 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
 if(vErrors === null){
 vErrors = [err345];
 }
@@ -12465,8 +12458,9 @@ vErrors.push(err345);
 }
 errors++;
 }
-if(data149.toolVersion === undefined){
-const err346 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+for(const key32 in data148){
+if(!((key32 === "speed_mps") || (key32 === "messages"))){
+const err346 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err346];
 }
@@ -12475,8 +12469,11 @@ vErrors.push(err346);
 }
 errors++;
 }
-if(data149.inputs === undefined){
-const err347 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+}
+if(data148.speed_mps !== undefined){
+let data149 = data148.speed_mps;
+if(!((typeof data149 == "number") && (isFinite(data149)))){
+const err347 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/speed_mps",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err347];
 }
@@ -12485,8 +12482,14 @@ vErrors.push(err347);
 }
 errors++;
 }
-if(data149.model === undefined){
-const err348 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+}
+if(data148.messages !== undefined){
+let data150 = data148.messages;
+if(Array.isArray(data150)){
+const len6 = data150.length;
+for(let i6=0; i6<len6; i6++){
+if(typeof data150[i6] !== "string"){
+const err348 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages/" + i6,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err348];
 }
@@ -12495,8 +12498,10 @@ vErrors.push(err348);
 }
 errors++;
 }
-if(data149.rule === undefined){
-const err349 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+}
+}
+else {
+const err349 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err349];
 }
@@ -12505,8 +12510,10 @@ vErrors.push(err349);
 }
 errors++;
 }
-if(data149.plan === undefined){
-const err350 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+}
+}
+else {
+const err350 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err350];
 }
@@ -12515,9 +12522,10 @@ vErrors.push(err350);
 }
 errors++;
 }
-for(const key32 in data149){
-if(!(((((((key32 === "tool") || (key32 === "toolVersion")) || (key32 === "inputs")) || (key32 === "model")) || (key32 === "rule")) || (key32 === "plan")) || (key32 === "handEdits"))){
-const err351 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
+}
+}
+else {
+const err351 = {instancePath:instancePath+"/check/timeDomain/failures",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err351];
 }
@@ -12527,9 +12535,9 @@ vErrors.push(err351);
 errors++;
 }
 }
-if(data149.tool !== undefined){
-if("speedband" !== data149.tool){
-const err352 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+}
+else {
+const err352 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err352];
 }
@@ -12539,9 +12547,9 @@ vErrors.push(err352);
 errors++;
 }
 }
-if(data149.toolVersion !== undefined){
-if(typeof data149.toolVersion !== "string"){
-const err353 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err353 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err353];
 }
@@ -12551,15 +12559,11 @@ vErrors.push(err353);
 errors++;
 }
 }
-if(data149.inputs !== undefined){
-let data152 = data149.inputs;
-if(Array.isArray(data152)){
-const len7 = data152.length;
-for(let i7=0; i7<len7; i7++){
-let data153 = data152[i7];
-if(data153 && typeof data153 == "object" && !Array.isArray(data153)){
-if(data153.file === undefined){
-const err354 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(data.provenance !== undefined){
+let data152 = data.provenance;
+if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
+if(data152.tool === undefined){
+const err354 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
 if(vErrors === null){
 vErrors = [err354];
 }
@@ -12568,8 +12572,8 @@ vErrors.push(err354);
 }
 errors++;
 }
-if(data153.sha256 === undefined){
-const err355 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(data152.toolVersion === undefined){
+const err355 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
 if(vErrors === null){
 vErrors = [err355];
 }
@@ -12578,8 +12582,8 @@ vErrors.push(err355);
 }
 errors++;
 }
-if(data153.role === undefined){
-const err356 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(data152.inputs === undefined){
+const err356 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
 if(vErrors === null){
 vErrors = [err356];
 }
@@ -12588,9 +12592,8 @@ vErrors.push(err356);
 }
 errors++;
 }
-for(const key33 in data153){
-if(!(((key33 === "file") || (key33 === "sha256")) || (key33 === "role"))){
-const err357 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
+if(data152.model === undefined){
+const err357 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err357];
 }
@@ -12599,10 +12602,8 @@ vErrors.push(err357);
 }
 errors++;
 }
-}
-if(data153.file !== undefined){
-if(typeof data153.file !== "string"){
-const err358 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.rule === undefined){
+const err358 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
 if(vErrors === null){
 vErrors = [err358];
 }
@@ -12611,12 +12612,8 @@ vErrors.push(err358);
 }
 errors++;
 }
-}
-if(data153.sha256 !== undefined){
-let data155 = data153.sha256;
-if(typeof data155 === "string"){
-if(!pattern0.test(data155)){
-const err359 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data152.plan === undefined){
+const err359 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
 if(vErrors === null){
 vErrors = [err359];
 }
@@ -12625,9 +12622,9 @@ vErrors.push(err359);
 }
 errors++;
 }
-}
-else {
-const err360 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key33 in data152){
+if(!(((((((key33 === "tool") || (key33 === "toolVersion")) || (key33 === "inputs")) || (key33 === "model")) || (key33 === "rule")) || (key33 === "plan")) || (key33 === "handEdits"))){
+const err360 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err360];
 }
@@ -12637,9 +12634,9 @@ vErrors.push(err360);
 errors++;
 }
 }
-if(data153.role !== undefined){
-if(typeof data153.role !== "string"){
-const err361 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.tool !== undefined){
+if("speedband" !== data152.tool){
+const err361 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err361];
 }
@@ -12649,9 +12646,9 @@ vErrors.push(err361);
 errors++;
 }
 }
-}
-else {
-const err362 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data152.toolVersion !== undefined){
+if(typeof data152.toolVersion !== "string"){
+const err362 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err362];
 }
@@ -12661,9 +12658,15 @@ vErrors.push(err362);
 errors++;
 }
 }
-}
-else {
-const err363 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data152.inputs !== undefined){
+let data155 = data152.inputs;
+if(Array.isArray(data155)){
+const len7 = data155.length;
+for(let i7=0; i7<len7; i7++){
+let data156 = data155[i7];
+if(data156 && typeof data156 == "object" && !Array.isArray(data156)){
+if(data156.file === undefined){
+const err363 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
 if(vErrors === null){
 vErrors = [err363];
 }
@@ -12672,11 +12675,8 @@ vErrors.push(err363);
 }
 errors++;
 }
-}
-if(data149.model !== undefined){
-let data157 = data149.model;
-if(!(data157 && typeof data157 == "object" && !Array.isArray(data157))){
-const err364 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data156.sha256 === undefined){
+const err364 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
 if(vErrors === null){
 vErrors = [err364];
 }
@@ -12685,12 +12685,8 @@ vErrors.push(err364);
 }
 errors++;
 }
-}
-if(data149.rule !== undefined){
-let data158 = data149.rule;
-if(data158 && typeof data158 == "object" && !Array.isArray(data158)){
-if(data158.name === undefined){
-const err365 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(data156.role === undefined){
+const err365 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
 if(vErrors === null){
 vErrors = [err365];
 }
@@ -12699,8 +12695,9 @@ vErrors.push(err365);
 }
 errors++;
 }
-if(data158.parameters === undefined){
-const err366 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+for(const key34 in data156){
+if(!(((key34 === "file") || (key34 === "sha256")) || (key34 === "role"))){
+const err366 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err366];
 }
@@ -12709,8 +12706,10 @@ vErrors.push(err366);
 }
 errors++;
 }
-if(data158.tuneFor === undefined){
-const err367 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
+}
+if(data156.file !== undefined){
+if(typeof data156.file !== "string"){
+const err367 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err367];
 }
@@ -12719,9 +12718,12 @@ vErrors.push(err367);
 }
 errors++;
 }
-for(const key34 in data158){
-if(!((((((key34 === "name") || (key34 === "parameters")) || (key34 === "citation")) || (key34 === "parametersAtBreakpoints")) || (key34 === "tuneFor")) || (key34 === "searchAtBreakpoints"))){
-const err368 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
+}
+if(data156.sha256 !== undefined){
+let data158 = data156.sha256;
+if(typeof data158 === "string"){
+if(!pattern0.test(data158)){
+const err368 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
 if(vErrors === null){
 vErrors = [err368];
 }
@@ -12731,9 +12733,8 @@ vErrors.push(err368);
 errors++;
 }
 }
-if(data158.name !== undefined){
-if(typeof data158.name !== "string"){
-const err369 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+else {
+const err369 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err369];
 }
@@ -12743,10 +12744,9 @@ vErrors.push(err369);
 errors++;
 }
 }
-if(data158.parameters !== undefined){
-let data160 = data158.parameters;
-if(!(data160 && typeof data160 == "object" && !Array.isArray(data160))){
-const err370 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data156.role !== undefined){
+if(typeof data156.role !== "string"){
+const err370 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err370];
 }
@@ -12756,9 +12756,9 @@ vErrors.push(err370);
 errors++;
 }
 }
-if(data158.citation !== undefined){
-if(typeof data158.citation !== "string"){
-const err371 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err371 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err371];
 }
@@ -12768,15 +12768,9 @@ vErrors.push(err371);
 errors++;
 }
 }
-if(data158.parametersAtBreakpoints !== undefined){
-let data162 = data158.parametersAtBreakpoints;
-if(Array.isArray(data162)){
-const len8 = data162.length;
-for(let i8=0; i8<len8; i8++){
-let data163 = data162[i8];
-if(data163 && typeof data163 == "object" && !Array.isArray(data163)){
-if(data163.speed_mps === undefined){
-const err372 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+else {
+const err372 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err372];
 }
@@ -12785,8 +12779,11 @@ vErrors.push(err372);
 }
 errors++;
 }
-if(data163.parameters === undefined){
-const err373 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+}
+if(data152.model !== undefined){
+let data160 = data152.model;
+if(!(data160 && typeof data160 == "object" && !Array.isArray(data160))){
+const err373 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err373];
 }
@@ -12795,9 +12792,12 @@ vErrors.push(err373);
 }
 errors++;
 }
-for(const key35 in data163){
-if(!((key35 === "speed_mps") || (key35 === "parameters"))){
-const err374 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
+}
+if(data152.rule !== undefined){
+let data161 = data152.rule;
+if(data161 && typeof data161 == "object" && !Array.isArray(data161)){
+if(data161.name === undefined){
+const err374 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
 if(vErrors === null){
 vErrors = [err374];
 }
@@ -12806,11 +12806,8 @@ vErrors.push(err374);
 }
 errors++;
 }
-}
-if(data163.speed_mps !== undefined){
-let data164 = data163.speed_mps;
-if(!((typeof data164 == "number") && (isFinite(data164)))){
-const err375 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data161.parameters === undefined){
+const err375 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
 if(vErrors === null){
 vErrors = [err375];
 }
@@ -12819,14 +12816,8 @@ vErrors.push(err375);
 }
 errors++;
 }
-}
-if(data163.parameters !== undefined){
-let data165 = data163.parameters;
-if(data165 && typeof data165 == "object" && !Array.isArray(data165)){
-for(const key36 in data165){
-let data166 = data165[key36];
-if((!((typeof data166 == "number") && (isFinite(data166)))) && (typeof data166 !== "string")){
-const err376 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters/" + key36.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(data161.tuneFor === undefined){
+const err376 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
 if(vErrors === null){
 vErrors = [err376];
 }
@@ -12835,10 +12826,9 @@ vErrors.push(err376);
 }
 errors++;
 }
-}
-}
-else {
-const err377 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key35 in data161){
+if(!((((((key35 === "name") || (key35 === "parameters")) || (key35 === "citation")) || (key35 === "parametersAtBreakpoints")) || (key35 === "tuneFor")) || (key35 === "searchAtBreakpoints"))){
+const err377 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err377];
 }
@@ -12848,9 +12838,9 @@ vErrors.push(err377);
 errors++;
 }
 }
-}
-else {
-const err378 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data161.name !== undefined){
+if(typeof data161.name !== "string"){
+const err378 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err378];
 }
@@ -12860,9 +12850,10 @@ vErrors.push(err378);
 errors++;
 }
 }
-}
-else {
-const err379 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data161.parameters !== undefined){
+let data163 = data161.parameters;
+if(!(data163 && typeof data163 == "object" && !Array.isArray(data163))){
+const err379 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err379];
 }
@@ -12872,10 +12863,9 @@ vErrors.push(err379);
 errors++;
 }
 }
-if(data158.tuneFor !== undefined){
-let data167 = data158.tuneFor;
-if(!((data167 === "rule-parameters") || (data167 === "fastest-passing"))){
-const err380 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
+if(data161.citation !== undefined){
+if(typeof data161.citation !== "string"){
+const err380 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err380];
 }
@@ -12885,15 +12875,15 @@ vErrors.push(err380);
 errors++;
 }
 }
-if(data158.searchAtBreakpoints !== undefined){
-let data168 = data158.searchAtBreakpoints;
-if(Array.isArray(data168)){
-const len9 = data168.length;
-for(let i9=0; i9<len9; i9++){
-let data169 = data168[i9];
-if(data169 && typeof data169 == "object" && !Array.isArray(data169)){
-if(data169.speed_mps === undefined){
-const err381 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data161.parametersAtBreakpoints !== undefined){
+let data165 = data161.parametersAtBreakpoints;
+if(Array.isArray(data165)){
+const len8 = data165.length;
+for(let i8=0; i8<len8; i8++){
+let data166 = data165[i8];
+if(data166 && typeof data166 == "object" && !Array.isArray(data166)){
+if(data166.speed_mps === undefined){
+const err381 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err381];
 }
@@ -12902,8 +12892,8 @@ vErrors.push(err381);
 }
 errors++;
 }
-if(data169.parameter === undefined){
-const err382 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(data166.parameters === undefined){
+const err382 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
 if(vErrors === null){
 vErrors = [err382];
 }
@@ -12912,8 +12902,9 @@ vErrors.push(err382);
 }
 errors++;
 }
-if(data169.value === undefined){
-const err383 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+for(const key36 in data166){
+if(!((key36 === "speed_mps") || (key36 === "parameters"))){
+const err383 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err383];
 }
@@ -12922,8 +12913,11 @@ vErrors.push(err383);
 }
 errors++;
 }
-if(data169.outcome === undefined){
-const err384 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+}
+if(data166.speed_mps !== undefined){
+let data167 = data166.speed_mps;
+if(!((typeof data167 == "number") && (isFinite(data167)))){
+const err384 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err384];
 }
@@ -12932,8 +12926,14 @@ vErrors.push(err384);
 }
 errors++;
 }
-if(data169.candidates === undefined){
-const err385 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+}
+if(data166.parameters !== undefined){
+let data168 = data166.parameters;
+if(data168 && typeof data168 == "object" && !Array.isArray(data168)){
+for(const key37 in data168){
+let data169 = data168[key37];
+if((!((typeof data169 == "number") && (isFinite(data169)))) && (typeof data169 !== "string")){
+const err385 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
 if(vErrors === null){
 vErrors = [err385];
 }
@@ -12942,8 +12942,10 @@ vErrors.push(err385);
 }
 errors++;
 }
-if(data169.reason === undefined){
-const err386 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+}
+}
+else {
+const err386 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err386];
 }
@@ -12952,9 +12954,10 @@ vErrors.push(err386);
 }
 errors++;
 }
-for(const key37 in data169){
-if(!((((((key37 === "speed_mps") || (key37 === "parameter")) || (key37 === "value")) || (key37 === "outcome")) || (key37 === "candidates")) || (key37 === "reason"))){
-const err387 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key37},message:"must NOT have additional properties"};
+}
+}
+else {
+const err387 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err387];
 }
@@ -12964,10 +12967,9 @@ vErrors.push(err387);
 errors++;
 }
 }
-if(data169.speed_mps !== undefined){
-let data170 = data169.speed_mps;
-if(!((typeof data170 == "number") && (isFinite(data170)))){
-const err388 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+else {
+const err388 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err388];
 }
@@ -12977,9 +12979,10 @@ vErrors.push(err388);
 errors++;
 }
 }
-if(data169.parameter !== undefined){
-if(typeof data169.parameter !== "string"){
-const err389 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data161.tuneFor !== undefined){
+let data170 = data161.tuneFor;
+if(!((data170 === "rule-parameters") || (data170 === "fastest-passing"))){
+const err389 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err389];
 }
@@ -12989,10 +12992,15 @@ vErrors.push(err389);
 errors++;
 }
 }
-if(data169.value !== undefined){
-let data172 = data169.value;
-if(!((typeof data172 == "number") && (isFinite(data172)))){
-const err390 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data161.searchAtBreakpoints !== undefined){
+let data171 = data161.searchAtBreakpoints;
+if(Array.isArray(data171)){
+const len9 = data171.length;
+for(let i9=0; i9<len9; i9++){
+let data172 = data171[i9];
+if(data172 && typeof data172 == "object" && !Array.isArray(data172)){
+if(data172.speed_mps === undefined){
+const err390 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err390];
 }
@@ -13001,11 +13009,8 @@ vErrors.push(err390);
 }
 errors++;
 }
-}
-if(data169.outcome !== undefined){
-let data173 = data169.outcome;
-if(!((data173 === "fastest passing") || (data173 === "none passed"))){
-const err391 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(data172.parameter === undefined){
+const err391 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
 if(vErrors === null){
 vErrors = [err391];
 }
@@ -13014,11 +13019,8 @@ vErrors.push(err391);
 }
 errors++;
 }
-}
-if(data169.candidates !== undefined){
-let data174 = data169.candidates;
-if(!(((typeof data174 == "number") && (!(data174 % 1) && !isNaN(data174))) && (isFinite(data174)))){
-const err392 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data172.value === undefined){
+const err392 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err392];
 }
@@ -13027,9 +13029,8 @@ vErrors.push(err392);
 }
 errors++;
 }
-if((typeof data174 == "number") && (isFinite(data174))){
-if(data174 < 1 || isNaN(data174)){
-const err393 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data172.outcome === undefined){
+const err393 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
 if(vErrors === null){
 vErrors = [err393];
 }
@@ -13038,11 +13039,8 @@ vErrors.push(err393);
 }
 errors++;
 }
-}
-}
-if(data169.reason !== undefined){
-if(typeof data169.reason !== "string"){
-const err394 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data172.candidates === undefined){
+const err394 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
 if(vErrors === null){
 vErrors = [err394];
 }
@@ -13051,10 +13049,8 @@ vErrors.push(err394);
 }
 errors++;
 }
-}
-}
-else {
-const err395 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data172.reason === undefined){
+const err395 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
 if(vErrors === null){
 vErrors = [err395];
 }
@@ -13063,10 +13059,9 @@ vErrors.push(err395);
 }
 errors++;
 }
-}
-}
-else {
-const err396 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key38 in data172){
+if(!((((((key38 === "speed_mps") || (key38 === "parameter")) || (key38 === "value")) || (key38 === "outcome")) || (key38 === "candidates")) || (key38 === "reason"))){
+const err396 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err396];
 }
@@ -13076,9 +13071,10 @@ vErrors.push(err396);
 errors++;
 }
 }
-}
-else {
-const err397 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data172.speed_mps !== undefined){
+let data173 = data172.speed_mps;
+if(!((typeof data173 == "number") && (isFinite(data173)))){
+const err397 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err397];
 }
@@ -13088,10 +13084,9 @@ vErrors.push(err397);
 errors++;
 }
 }
-if(data149.plan !== undefined){
-let data176 = data149.plan;
-if(!(data176 && typeof data176 == "object" && !Array.isArray(data176))){
-const err398 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data172.parameter !== undefined){
+if(typeof data172.parameter !== "string"){
+const err398 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err398];
 }
@@ -13101,15 +13096,10 @@ vErrors.push(err398);
 errors++;
 }
 }
-if(data149.handEdits !== undefined){
-let data177 = data149.handEdits;
-if(Array.isArray(data177)){
-const len10 = data177.length;
-for(let i10=0; i10<len10; i10++){
-let data178 = data177[i10];
-if(data178 && typeof data178 == "object" && !Array.isArray(data178)){
-if(data178.statement === undefined){
-const err399 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(data172.value !== undefined){
+let data175 = data172.value;
+if(!((typeof data175 == "number") && (isFinite(data175)))){
+const err399 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err399];
 }
@@ -13118,8 +13108,11 @@ vErrors.push(err399);
 }
 errors++;
 }
-if(data178.changedSections === undefined){
-const err400 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+}
+if(data172.outcome !== undefined){
+let data176 = data172.outcome;
+if(!((data176 === "fastest passing") || (data176 === "none passed"))){
+const err400 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err400];
 }
@@ -13128,8 +13121,11 @@ vErrors.push(err400);
 }
 errors++;
 }
-if(data178.toolVersion === undefined){
-const err401 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+}
+if(data172.candidates !== undefined){
+let data177 = data172.candidates;
+if(!(((typeof data177 == "number") && (!(data177 % 1) && !isNaN(data177))) && (isFinite(data177)))){
+const err401 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err401];
 }
@@ -13138,8 +13134,9 @@ vErrors.push(err401);
 }
 errors++;
 }
-if(data178.model === undefined){
-const err402 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if((typeof data177 == "number") && (isFinite(data177))){
+if(data177 < 1 || isNaN(data177)){
+const err402 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err402];
 }
@@ -13148,8 +13145,11 @@ vErrors.push(err402);
 }
 errors++;
 }
-if(data178.gridSize === undefined){
-const err403 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+}
+}
+if(data172.reason !== undefined){
+if(typeof data172.reason !== "string"){
+const err403 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err403];
 }
@@ -13158,9 +13158,10 @@ vErrors.push(err403);
 }
 errors++;
 }
-for(const key38 in data178){
-if(!(((((key38 === "statement") || (key38 === "changedSections")) || (key38 === "toolVersion")) || (key38 === "model")) || (key38 === "gridSize"))){
-const err404 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
+}
+}
+else {
+const err404 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err404];
 }
@@ -13170,9 +13171,9 @@ vErrors.push(err404);
 errors++;
 }
 }
-if(data178.statement !== undefined){
-if(typeof data178.statement !== "string"){
-const err405 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err405 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err405];
 }
@@ -13182,13 +13183,9 @@ vErrors.push(err405);
 errors++;
 }
 }
-if(data178.changedSections !== undefined){
-let data180 = data178.changedSections;
-if(Array.isArray(data180)){
-const len11 = data180.length;
-for(let i11=0; i11<len11; i11++){
-if(typeof data180[i11] !== "string"){
-const err406 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections/" + i11,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err406 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err406];
 }
@@ -13198,9 +13195,10 @@ vErrors.push(err406);
 errors++;
 }
 }
-}
-else {
-const err407 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data152.plan !== undefined){
+let data179 = data152.plan;
+if(!(data179 && typeof data179 == "object" && !Array.isArray(data179))){
+const err407 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err407];
 }
@@ -13210,9 +13208,15 @@ vErrors.push(err407);
 errors++;
 }
 }
-if(data178.toolVersion !== undefined){
-if(typeof data178.toolVersion !== "string"){
-const err408 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.handEdits !== undefined){
+let data180 = data152.handEdits;
+if(Array.isArray(data180)){
+const len10 = data180.length;
+for(let i10=0; i10<len10; i10++){
+let data181 = data180[i10];
+if(data181 && typeof data181 == "object" && !Array.isArray(data181)){
+if(data181.statement === undefined){
+const err408 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
 if(vErrors === null){
 vErrors = [err408];
 }
@@ -13221,10 +13225,8 @@ vErrors.push(err408);
 }
 errors++;
 }
-}
-if(data178.model !== undefined){
-if(typeof data178.model !== "string"){
-const err409 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data181.changedSections === undefined){
+const err409 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
 if(vErrors === null){
 vErrors = [err409];
 }
@@ -13233,11 +13235,8 @@ vErrors.push(err409);
 }
 errors++;
 }
-}
-if(data178.gridSize !== undefined){
-let data184 = data178.gridSize;
-if(!(((typeof data184 == "number") && (!(data184 % 1) && !isNaN(data184))) && (isFinite(data184)))){
-const err410 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data181.toolVersion === undefined){
+const err410 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
 if(vErrors === null){
 vErrors = [err410];
 }
@@ -13246,9 +13245,8 @@ vErrors.push(err410);
 }
 errors++;
 }
-if((typeof data184 == "number") && (isFinite(data184))){
-if(data184 < 1 || isNaN(data184)){
-const err411 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data181.model === undefined){
+const err411 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err411];
 }
@@ -13257,11 +13255,8 @@ vErrors.push(err411);
 }
 errors++;
 }
-}
-}
-}
-else {
-const err412 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data181.gridSize === undefined){
+const err412 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err412];
 }
@@ -13270,10 +13265,9 @@ vErrors.push(err412);
 }
 errors++;
 }
-}
-}
-else {
-const err413 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key39 in data181){
+if(!(((((key39 === "statement") || (key39 === "changedSections")) || (key39 === "toolVersion")) || (key39 === "model")) || (key39 === "gridSize"))){
+const err413 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err413];
 }
@@ -13283,9 +13277,9 @@ vErrors.push(err413);
 errors++;
 }
 }
-}
-else {
-const err414 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data181.statement !== undefined){
+if(typeof data181.statement !== "string"){
+const err414 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err414];
 }
@@ -13295,11 +13289,13 @@ vErrors.push(err414);
 errors++;
 }
 }
-if(data.cautions !== undefined){
-let data185 = data.cautions;
-if(Array.isArray(data185)){
-if(data185.length < 1){
-const err415 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data181.changedSections !== undefined){
+let data183 = data181.changedSections;
+if(Array.isArray(data183)){
+const len11 = data183.length;
+for(let i11=0; i11<len11; i11++){
+if(typeof data183[i11] !== "string"){
+const err415 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections/" + i11,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err415];
 }
@@ -13308,10 +13304,10 @@ vErrors.push(err415);
 }
 errors++;
 }
-const len12 = data185.length;
-for(let i12=0; i12<len12; i12++){
-if(typeof data185[i12] !== "string"){
-const err416 = {instancePath:instancePath+"/cautions/" + i12,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+}
+else {
+const err416 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err416];
 }
@@ -13321,9 +13317,9 @@ vErrors.push(err416);
 errors++;
 }
 }
-}
-else {
-const err417 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data181.toolVersion !== undefined){
+if(typeof data181.toolVersion !== "string"){
+const err417 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err417];
 }
@@ -13333,11 +13329,9 @@ vErrors.push(err417);
 errors++;
 }
 }
-if(data.checksum !== undefined){
-let data187 = data.checksum;
-if(data187 && typeof data187 == "object" && !Array.isArray(data187)){
-if(data187.algorithm === undefined){
-const err418 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(data181.model !== undefined){
+if(typeof data181.model !== "string"){
+const err418 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err418];
 }
@@ -13346,8 +13340,11 @@ vErrors.push(err418);
 }
 errors++;
 }
-if(data187.canonicalForm === undefined){
-const err419 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+}
+if(data181.gridSize !== undefined){
+let data187 = data181.gridSize;
+if(!(((typeof data187 == "number") && (!(data187 % 1) && !isNaN(data187))) && (isFinite(data187)))){
+const err419 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err419];
 }
@@ -13356,8 +13353,9 @@ vErrors.push(err419);
 }
 errors++;
 }
-if(data187.value === undefined){
-const err420 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if((typeof data187 == "number") && (isFinite(data187))){
+if(data187 < 1 || isNaN(data187)){
+const err420 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err420];
 }
@@ -13366,8 +13364,11 @@ vErrors.push(err420);
 }
 errors++;
 }
-if(data187.sections === undefined){
-const err421 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+}
+}
+else {
+const err421 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err421];
 }
@@ -13376,9 +13377,10 @@ vErrors.push(err421);
 }
 errors++;
 }
-for(const key39 in data187){
-if(!((((key39 === "algorithm") || (key39 === "canonicalForm")) || (key39 === "value")) || (key39 === "sections"))){
-const err422 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
+}
+}
+else {
+const err422 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err422];
 }
@@ -13388,9 +13390,9 @@ vErrors.push(err422);
 errors++;
 }
 }
-if(data187.algorithm !== undefined){
-if("SHA-256" !== data187.algorithm){
-const err423 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+}
+else {
+const err423 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err423];
 }
@@ -13400,9 +13402,11 @@ vErrors.push(err423);
 errors++;
 }
 }
-if(data187.canonicalForm !== undefined){
-if(typeof data187.canonicalForm !== "string"){
-const err424 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data.cautions !== undefined){
+let data188 = data.cautions;
+if(Array.isArray(data188)){
+if(data188.length < 1){
+const err424 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err424];
 }
@@ -13411,12 +13415,10 @@ vErrors.push(err424);
 }
 errors++;
 }
-}
-if(data187.value !== undefined){
-let data190 = data187.value;
-if(typeof data190 === "string"){
-if(!pattern0.test(data190)){
-const err425 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+const len12 = data188.length;
+for(let i12=0; i12<len12; i12++){
+if(typeof data188[i12] !== "string"){
+const err425 = {instancePath:instancePath+"/cautions/" + i12,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err425];
 }
@@ -13426,8 +13428,9 @@ vErrors.push(err425);
 errors++;
 }
 }
+}
 else {
-const err426 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err426 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err426];
 }
@@ -13437,14 +13440,11 @@ vErrors.push(err426);
 errors++;
 }
 }
-if(data187.sections !== undefined){
-let data191 = data187.sections;
-if(data191 && typeof data191 == "object" && !Array.isArray(data191)){
-for(const key40 in data191){
-const _errs406 = errors;
-if(typeof key40 === "string"){
-if(!pattern5.test(key40)){
-const err427 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key40};
+if(data.checksum !== undefined){
+let data190 = data.checksum;
+if(data190 && typeof data190 == "object" && !Array.isArray(data190)){
+if(data190.algorithm === undefined){
+const err427 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
 if(vErrors === null){
 vErrors = [err427];
 }
@@ -13453,10 +13453,8 @@ vErrors.push(err427);
 }
 errors++;
 }
-}
-var valid66 = _errs406 === errors;
-if(!valid66){
-const err428 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key40},message:"property name must be valid"};
+if(data190.canonicalForm === undefined){
+const err428 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
 if(vErrors === null){
 vErrors = [err428];
 }
@@ -13465,12 +13463,8 @@ vErrors.push(err428);
 }
 errors++;
 }
-}
-for(const key41 in data191){
-let data192 = data191[key41];
-if(typeof data192 === "string"){
-if(!pattern0.test(data192)){
-const err429 = {instancePath:instancePath+"/checksum/sections/" + key41.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data190.value === undefined){
+const err429 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err429];
 }
@@ -13479,9 +13473,8 @@ vErrors.push(err429);
 }
 errors++;
 }
-}
-else {
-const err430 = {instancePath:instancePath+"/checksum/sections/" + key41.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data190.sections === undefined){
+const err430 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
 if(vErrors === null){
 vErrors = [err430];
 }
@@ -13490,10 +13483,9 @@ vErrors.push(err430);
 }
 errors++;
 }
-}
-}
-else {
-const err431 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key40 in data190){
+if(!((((key40 === "algorithm") || (key40 === "canonicalForm")) || (key40 === "value")) || (key40 === "sections"))){
+const err431 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err431];
 }
@@ -13503,9 +13495,9 @@ vErrors.push(err431);
 errors++;
 }
 }
-}
-else {
-const err432 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data190.algorithm !== undefined){
+if("SHA-256" !== data190.algorithm){
+const err432 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err432];
 }
@@ -13515,14 +13507,129 @@ vErrors.push(err432);
 errors++;
 }
 }
-}
-else {
-const err433 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data190.canonicalForm !== undefined){
+if(typeof data190.canonicalForm !== "string"){
+const err433 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err433];
 }
 else {
 vErrors.push(err433);
+}
+errors++;
+}
+}
+if(data190.value !== undefined){
+let data193 = data190.value;
+if(typeof data193 === "string"){
+if(!pattern0.test(data193)){
+const err434 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err434];
+}
+else {
+vErrors.push(err434);
+}
+errors++;
+}
+}
+else {
+const err435 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err435];
+}
+else {
+vErrors.push(err435);
+}
+errors++;
+}
+}
+if(data190.sections !== undefined){
+let data194 = data190.sections;
+if(data194 && typeof data194 == "object" && !Array.isArray(data194)){
+for(const key41 in data194){
+const _errs413 = errors;
+if(typeof key41 === "string"){
+if(!pattern5.test(key41)){
+const err436 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key41};
+if(vErrors === null){
+vErrors = [err436];
+}
+else {
+vErrors.push(err436);
+}
+errors++;
+}
+}
+var valid67 = _errs413 === errors;
+if(!valid67){
+const err437 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key41},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err437];
+}
+else {
+vErrors.push(err437);
+}
+errors++;
+}
+}
+for(const key42 in data194){
+let data195 = data194[key42];
+if(typeof data195 === "string"){
+if(!pattern0.test(data195)){
+const err438 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err438];
+}
+else {
+vErrors.push(err438);
+}
+errors++;
+}
+}
+else {
+const err439 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err439];
+}
+else {
+vErrors.push(err439);
+}
+errors++;
+}
+}
+}
+else {
+const err440 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err440];
+}
+else {
+vErrors.push(err440);
+}
+errors++;
+}
+}
+}
+else {
+const err441 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err441];
+}
+else {
+vErrors.push(err441);
+}
+errors++;
+}
+}
+}
+else {
+const err442 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err442];
+}
+else {
+vErrors.push(err442);
 }
 errors++;
 }

@@ -43,6 +43,8 @@ export interface ScheduleInput {
   readonly insertions?: readonly BreakpointInsertion[];
   /** Integrator clamp, rad: the vehicle's steer-angle limit. */
   readonly integratorClamp_rad: number;
+  /** The vehicle's steering-rate limit, rad/s (the figures' actuator room and steps through the limits). */
+  readonly maxSteerRate_radps: number;
   /** Input files (paths are reduced to base names), SHA-256 and role. */
   readonly inputs: readonly { readonly file: string; readonly sha256: string; readonly role: string }[];
   readonly modelSummary: Readonly<Record<string, unknown>>;
@@ -192,6 +194,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
           maximumLaneChangeError_m: plan.acceptance.maximumLaneChangeError_m,
           maximumCurveEntryError_m: plan.acceptance.maximumCurveEntryError_m,
         },
+        steeringLimits: { maxSteerAngle_rad: input.integratorClamp_rad, maxSteerRate_radps: input.maxSteerRate_radps },
         failures: timeDomainFailures,
       },
     },

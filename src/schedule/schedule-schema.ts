@@ -127,6 +127,7 @@ export const SCHEDULE_SCHEMA = object({
     timeDomain: object({
       passed: { type: 'boolean' },
       limits: timeDomainLimits,
+      steeringLimits: object({ maxSteerAngle_rad: { type: 'number', exclusiveMinimum: 0 }, maxSteerRate_radps: { type: 'number', exclusiveMinimum: 0 } }),
       failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
     }),
   }),

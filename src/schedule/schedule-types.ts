@@ -118,6 +118,8 @@ export interface ScheduleCheck {
   readonly timeDomain: {
     readonly passed: boolean;
     readonly limits: TimeDomainLimits;
+    /** The vehicle's steering limits the figures were computed against (actuator room, steps through the limits). */
+    readonly steeringLimits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number };
     readonly failures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
   };
 }
