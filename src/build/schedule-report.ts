@@ -74,7 +74,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
   lines.push('');
   lines.push(...formatTimeDomain(schedule));
   lines.push('');
-  lines.push(...formatCheck(schedule.check.model.kind, schedule.check.passed, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
+  lines.push(...formatCheck(schedule.check.model.kind, schedule.check.failedSpeeds === 0, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
   if (schedule.check.insertions.length > 0) {
     lines.push('', '  breakpoints inserted by refinement:');
     for (const insertion of schedule.check.insertions) lines.push(`    ${insertion.speed_mps.toFixed(2)} m/s: ${insertion.reason}`);

@@ -93,7 +93,8 @@ describe('plan file validation', () => {
       }),
     );
     const plan = readPlan(path);
-    expect(plan.loop).toEqual({ kind: 'path', preview_m: 3, referencePoint: 'front-axle' });
+    // A preview distance given: no preview time unless given too.
+    expect(plan.loop).toEqual({ kind: 'path', preview_m: 3, previewTime_s: 0, referencePoint: 'front-axle' });
     const ruleParametersAt = await makeRuleParameterLookup(plan.rule.parameters);
     expect(ruleParametersAt(6)).toEqual({ dampingRatio: 1, settlingDistance_m: 24 });
     expect(ruleParametersAt(1).settlingDistance_m).toBe(8);
