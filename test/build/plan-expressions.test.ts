@@ -106,3 +106,22 @@ describe('speedband build with "tuneFor": "fastest-passing"', () => {
     });
   });
 });
+
+describe('speedband reverify with edited set-point weights', () => {
+  it('recomputes the time-domain figures: b raised to 1 where the build chose less breaks the overshoot limit, and nothing is written (exit 1)', async () => {
+    const plan = join(dir, 'heading.json');
+    writeFileSync(plan, JSON.stringify({ loop: { kind: 'heading' } }));
+    const built = join(dir, 'heading-schedule.json');
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', built], recordingIo())).toBe(0);
+    const schedule = readSchedule(built);
+    const k = schedule.breakpoints.findIndex((row) => row.setpointWeightProportional < 0.9);
+    expect(k).toBeGreaterThanOrEqual(0);
+    const edited = { ...schedule, breakpoints: schedule.breakpoints.map((row, i) => (i === k ? { ...row, setpointWeightProportional: 1 } : row)) };
+    const editedPath = join(dir, 'heading-edited.json');
+    writeFileSync(editedPath, JSON.stringify(edited));
+    const io = recordingIo();
+    expect(await runCli(['reverify', editedPath, '--vehicle', VAN, '--models', modelsPath, '--out', join(dir, 'heading-reverified.json')], io)).toBe(1);
+    expect(io.out()).toMatch(/time domain at .* m\/s: .*overshoot/);
+    expect(io.out()).toMatch(/Nothing written/);
+  });
+});
