@@ -20,10 +20,12 @@ import { simulateLimitedLoop } from './limited-loop-simulation.js';
 import { stepResponse } from '../lti/time-response.js';
 import { simulateClosedLoop } from './closed-loop-simulation.js';
 import { SCENARIO_DEFAULTS } from './defaults.js';
+import { actuatorRoom } from './actuator-room.js';
 import { overshoot_pct, peakMagnitude, settlingTime_s } from './figures.js';
+import { judgeTimeDomain } from './time-domain-limits.js';
 import type { PerformanceLoop } from './loop-at-speed.js';
 import { curveEntryPath, laneChangePath, sampledPath } from './scenarios.js';
-import type { ActuatorRoom, DisturbanceFigures, TimeDomainFigures, TimeDomainLimits } from './types.js';
+import type { DisturbanceFigures, TimeDomainFigures, TimeDomainLimits } from './types.js';
 
 export interface SetpointWeights {
   /** b: the proportional term acts on b·r − y. */
@@ -62,8 +64,6 @@ const LINEAR: Omit<FirmwareSettings, keyof import('../controller/types.js').Cont
   commandLimit_rad: Number.POSITIVE_INFINITY,
   integratorClamp_rad: Number.POSITIVE_INFINITY,
 };
-
-const shown = (value: number): string => String(Number(value.toPrecision(3)));
 
 export function breakpointPerformance(input: BreakpointPerformanceInput): BreakpointPerformance {
   const { loop, gains, limits } = input;
@@ -198,63 +198,4 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
   return { setpointWeights: weights, figures, failures: judgeTimeDomain(figures, limits, loop.kind) };
 }
 
-/**
- * The largest reference (scaled from a response to `size`) that keeps the commanded angle within
- * ±maxSteerAngle_rad and the steering rate the actuator is asked for within maxSteerRate_radps: with the
- * actuator's lag τ known, that rate is (c − δ)/τ of its first-order position loop, largest at the instants
- * the delayed command changes (δ = c + (δ₀ − c)·e^(−t/τ) in between, exact); otherwise the command's own rate
- * |u_k − u_(k−1)|/Ts.
- */
-function actuatorRoom(command: Float64Array, size: number, loop: PerformanceLoop, limits: BreakpointPerformanceInput['vehicleLimits']): ActuatorRoom {
-  const ts = loop.controller.sampleTime_s;
-  const peakAngle = peakMagnitude(command) / size;
-  let peakRate = 0;
-  if (loop.actuator !== null && loop.actuator.lag_s > 0) {
-    const decay = Math.exp(-ts / loop.actuator.lag_s);
-    let angle = 0;
-    for (let k = 0; k < command.length; k++) {
-      peakRate = Math.max(peakRate, Math.abs(command[k] - angle) / loop.actuator.lag_s);
-      angle = command[k] + (angle - command[k]) * decay;
-    }
-  } else {
-    for (let k = 0; k < command.length; k++) peakRate = Math.max(peakRate, Math.abs(command[k] - (k > 0 ? command[k - 1] : 0)) / ts);
-  }
-  peakRate /= size;
-  const byAngle = peakAngle > 0 ? limits.maxSteerAngle_rad / peakAngle : Number.POSITIVE_INFINITY;
-  const byRate = peakRate > 0 ? limits.maxSteerRate_radps / peakRate : Number.POSITIVE_INFINITY;
-  return { largestReference: Math.min(byAngle, byRate), limitedBy: byRate < byAngle ? 'rate' : 'angle', peakAnglePerUnit: peakAngle, peakRatePerUnit: peakRate };
-}
-
-/**
- * The time-domain limits the figures break, in words. The step through the steering limits must settle (no limit
- * cycle) on every loop; a heading loop's must also keep the overshoot limit (a heading step is a manoeuvre the
- * loop is asked to make; a yaw-rate step that large saturates the rate by design).
- */
-export function judgeTimeDomain(figures: TimeDomainFigures, limits: TimeDomainLimits, kind: import('../loops/types.js').LoopKind): string[] {
-  const failures: string[] = [];
-  const { referenceStep, steeringMisalignment, lateralForce, laneChange, curveEntry } = figures;
-  if (!(referenceStep.overshoot_pct <= limits.maximumOvershoot_pct)) {
-    failures.push(`reference-step overshoot ${shown(referenceStep.overshoot_pct)} %, needs ≤ ${shown(limits.maximumOvershoot_pct)} % (even with set-point weight b = 0)`);
-  }
-  for (const [name, figure] of [['steering misalignment', steeringMisalignment], ['lateral force step', lateralForce]] as const) {
-    if (figure === null) continue;
-    if (figure.recoveryTime_s === null || figure.recoveryTime_s > limits.maximumRecoveryTime_s) {
-      failures.push(`${name} removed to 5 % ${figure.recoveryTime_s === null ? 'not within the simulated time' : `in ${shown(figure.recoveryTime_s)} s`}, needs ≤ ${shown(limits.maximumRecoveryTime_s)} s`);
-    }
-  }
-  if (laneChange !== null && !(laneChange.peakError_m <= limits.maximumLaneChangeError_m)) {
-    failures.push(`lane-change error ${shown(laneChange.peakError_m)} m, needs ≤ ${shown(limits.maximumLaneChangeError_m)} m`);
-  }
-  const limited = figures.limitedStep;
-  if (limited !== null) {
-    if (limited.settlingTime_s === null) {
-      failures.push(`a ${shown(limited.size)} step through the steering limits does not settle within the simulated time (a limit cycle, or too slow)`);
-    } else if (kind === 'heading' && !(limited.overshoot_pct <= limits.maximumOvershoot_pct)) {
-      failures.push(`a ${shown(limited.size)} step through the steering limits overshoots ${shown(limited.overshoot_pct)} %, needs ≤ ${shown(limits.maximumOvershoot_pct)} %`);
-    }
-  }
-  if (curveEntry !== null && !(curveEntry.errorAfterSettle_m <= limits.maximumCurveEntryError_m)) {
-    failures.push(`curve-entry error ${shown(curveEntry.errorAfterSettle_m)} m ${SCENARIO_DEFAULTS.curveEntrySettle_s} s after entry, needs ≤ ${shown(limits.maximumCurveEntryError_m)} m`);
-  }
-  return failures;
-}
+export { judgeTimeDomain } from './time-domain-limits.js';
