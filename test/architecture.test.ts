@@ -17,11 +17,12 @@ export const LAYERS: Readonly<Record<string, number>> = {
   loops: 4,
   verify: 5,
   tuning: 6,
-  schedule: 7,
-  export: 8,
-  compare: 8,
-  build: 9,
-  cli: 10,
+  performance: 7,
+  schedule: 8,
+  export: 9,
+  compare: 9,
+  build: 10,
+  cli: 11,
 };
 
 function sourceFiles(folder: string): string[] {
