@@ -1,26 +1,33 @@
 /**
  * The supported path for a deliberate hand edit of a schedule (`speedband reverify`): the edited file
  * (its checksum no longer matches) is re-checked densely — its own gains, lookup, loop, controller,
- * range and thresholds, on a vehicle model — and only when that passes is it given back with the
+ * range and thresholds, on a vehicle model — and its time-domain figures recomputed at its breakpoints
+ * (its own gains, set-point weights, feed-forward and limits); only when both pass is it given back with the
  * figures of this check (status, breakpoint margins, worst margins), its texts regenerated from its
  * numbers (loop error, controller equations, interpolation, units, cautions), a record in
  * `provenance.handEdits` saying it was edited by hand and re-verified (which sections had changed,
  * the model, the version), and a fresh checksum. Nothing the hand edit wrote about margins or
  * status is kept: only what the check proves.
  */
-import { SAFETY_CAUTIONS } from '../cli/safety.js';
+import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
 import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
-import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';
+import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, feedForwardText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';
+import { breakpointPerformance } from '../performance/breakpoint-performance.js';
+import { performanceLoopAt } from '../performance/loop-at-speed.js';
 import type { HandEditRecord, ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import { VERSION } from '../version.js';
 import type { CheckModel } from './check-model.js';
-import { recheckSchedule } from './recheck-schedule.js';
+import { recheckSchedule, scheduleLoopAndController } from './recheck-schedule.js';
 
 export interface ReverifyResult {
   /** The dense check of the edited schedule. */
   readonly check: DenseCheckResult;
+  /** The time-domain limits the edited schedule breaks at its breakpoints, in words (empty: none). */
+  readonly timeDomainFailures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
+  /** Dense check and time-domain limits both kept. */
+  readonly passed: boolean;
   /** What had changed against the checksum the file carried, in words (empty: nothing). */
   readonly changes: readonly string[];
   /** The re-verified schedule, or null when the check failed (nothing may be written). */
@@ -35,12 +42,31 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
   const recorded = options.modelRecorded === true;
   const verdict = verifyScheduleChecksum(edited);
   const check = recheckSchedule({ schedule: edited, model });
-  if (!check.passed) return { check, changes: verdict.changes, schedule: null };
-  const margins = edited.breakpoints.map((row) => {
+  if (!check.passed) return { check, timeDomainFailures: [], passed: false, changes: verdict.changes, schedule: null };
+  const points = edited.breakpoints.map((row) => {
     const point = check.points.find((candidate) => candidate.speed_mps === row.speed_mps);
     if (point === undefined) throw new Error(`breakpoint ${row.speed_mps} m/s missing from the check grid`);
-    return breakpointMargins(point.margins);
+    return point;
   });
+  const margins = points.map((point) => breakpointMargins(point.margins));
+  // The time-domain figures of the edited gains, set-point weights and feed-forward, against the schedule's own limits.
+  const { loop: specification, controller: settings } = scheduleLoopAndController(edited);
+  const figures = edited.breakpoints.map((row, k) => {
+    const atSpeed = performanceLoopAt(model.modelAt(row.speed_mps), specification, row.speed_mps, settings);
+    return breakpointPerformance({
+      loop: { ...atSpeed, feedForward: { ...atSpeed.feedForward, gain: row.feedForward, leadTime_s: row.feedForwardLeadTime_s } },
+      gains: { kp: row.kp, ki: row.ki, kd: row.kd },
+      limits: edited.check.timeDomain.limits,
+      vehicleLimits: edited.check.timeDomain.steeringLimits,
+      slowestTimeConstant_s: points[k].margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
+      setpointWeights: { proportional: row.setpointWeightProportional, derivative: row.setpointWeightDerivative },
+      antiWindup: edited.controller.antiWindup,
+    });
+  });
+  const timeDomainFailures = edited.breakpoints
+    .map((row, k) => ({ speed_mps: row.speed_mps, messages: figures[k].failures }))
+    .filter((entry) => entry.messages.length > 0);
+  if (timeDomainFailures.length > 0) return { check, timeDomainFailures, passed: false, changes: verdict.changes, schedule: null };
   const record: HandEditRecord = {
     statement:
       verdict.sections.length > 0
@@ -55,11 +81,17 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> & { checksum?: unknown } = {
     ...edited,
     status: 'passed',
-    loop: { ...loop, error: loopErrorText(loop.kind, loop.preview_m ?? 0, loop.referencePoint ?? 'cg') },
-    controller: { ...controller, equation: CONTROLLER_EQUATION, update: controllerUpdateText(controller.discretisation), integration: INTEGRATION_TEXT },
+    loop: { ...loop, error: loopErrorText(loop.kind, loop.preview_m ?? 0, loop.referencePoint ?? 'cg', loop.previewTime_s ?? 0) },
+    controller: {
+      ...controller,
+      equation: CONTROLLER_EQUATION,
+      feedForward: feedForwardText(loop.kind),
+      update: controllerUpdateText(controller.discretisation, controller.antiWindup),
+      integration: INTEGRATION_TEXT,
+    },
     interpolation: { ...interpolation, description: interpolationText(interpolation.method, interpolation.lowSpeedFloor_mps) },
     units: gainUnits(loop.kind),
-    breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k] })),
+    breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k], timeDomain: figures[k].figures })),
     check: {
       ...edited.check,
       passed: true,
@@ -68,6 +100,7 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
       worst: recordedWorst(check.worst),
       failedSpeeds: 0,
       failures: check.points.filter((point) => point.failures.length > 0).slice(0, LISTED_FAILURES).map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((f) => f.message) })),
+      timeDomain: { ...edited.check.timeDomain, passed: true, failures: [] },
     },
     provenance: {
       ...edited.provenance,
@@ -77,5 +110,5 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
     cautions: [...SAFETY_CAUTIONS],
   };
   delete withoutChecksum.checksum;
-  return { check, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
+  return { check, timeDomainFailures: [], passed: true, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
 }

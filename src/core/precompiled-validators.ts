@@ -5306,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance ahead of the reference point; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable)."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview distance is measured from; front-axle adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -5353,7 +5353,7 @@ if(data.loop !== undefined){
 let data2 = data.loop;
 if(data2 && typeof data2 == "object" && !Array.isArray(data2)){
 for(const key1 in data2){
-if(!(((key1 === "kind") || (key1 === "preview_m")) || (key1 === "referencePoint"))){
+if(!((((key1 === "kind") || (key1 === "preview_m")) || (key1 === "previewTime_s")) || (key1 === "referencePoint"))){
 const err3 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err3];
@@ -5402,10 +5402,11 @@ vErrors.push(err6);
 errors++;
 }
 }
-if(data2.referencePoint !== undefined){
-let data5 = data2.referencePoint;
-if(!((data5 === "cg") || (data5 === "front-axle"))){
-const err7 = {instancePath:instancePath+"/loop/referencePoint",schemaPath:"#/properties/loop/properties/referencePoint/enum",keyword:"enum",params:{allowedValues: schema10.properties.loop.properties.referencePoint.enum},message:"must be equal to one of the allowed values"};
+if(data2.previewTime_s !== undefined){
+let data5 = data2.previewTime_s;
+if((typeof data5 == "number") && (isFinite(data5))){
+if(data5 < 0 || isNaN(data5)){
+const err7 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err7];
 }
@@ -5415,9 +5416,8 @@ vErrors.push(err7);
 errors++;
 }
 }
-}
 else {
-const err8 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err8 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err8];
 }
@@ -5427,12 +5427,10 @@ vErrors.push(err8);
 errors++;
 }
 }
-if(data.rule !== undefined){
-let data6 = data.rule;
-if(data6 && typeof data6 == "object" && !Array.isArray(data6)){
-for(const key2 in data6){
-if(!((key2 === "name") || (key2 === "parameters"))){
-const err9 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key2},message:"must NOT have additional properties"};
+if(data2.referencePoint !== undefined){
+let data6 = data2.referencePoint;
+if(!((data6 === "cg") || (data6 === "front-axle"))){
+const err9 = {instancePath:instancePath+"/loop/referencePoint",schemaPath:"#/properties/loop/properties/referencePoint/enum",keyword:"enum",params:{allowedValues: schema10.properties.loop.properties.referencePoint.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err9];
 }
@@ -5442,10 +5440,9 @@ vErrors.push(err9);
 errors++;
 }
 }
-if(data6.name !== undefined){
-let data7 = data6.name;
-if(!(((((data7 === "ziegler-nichols-step") || (data7 === "ziegler-nichols-ultimate")) || (data7 === "imc-pid")) || (data7 === "simc")) || (data7 === "damping-target"))){
-const err10 = {instancePath:instancePath+"/rule/name",schemaPath:"#/properties/rule/properties/name/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.name.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err10 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err10];
 }
@@ -5455,12 +5452,12 @@ vErrors.push(err10);
 errors++;
 }
 }
-if(data6.parameters !== undefined){
-let data8 = data6.parameters;
-if(data8 && typeof data8 == "object" && !Array.isArray(data8)){
-for(const key3 in data8){
-if(!(((((((key3 === "controllerType") || (key3 === "closedLoopTimeConstant_s")) || (key3 === "simcClosedLoopTimeConstant_s")) || (key3 === "dampingRatio")) || (key3 === "naturalFrequency_radps")) || (key3 === "settlingDistance_m")) || (key3 === "integralPoleRatio"))){
-const err11 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
+if(data.rule !== undefined){
+let data7 = data.rule;
+if(data7 && typeof data7 == "object" && !Array.isArray(data7)){
+for(const key2 in data7){
+if(!(((key2 === "name") || (key2 === "tuneFor")) || (key2 === "parameters"))){
+const err11 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key2},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err11];
 }
@@ -5470,10 +5467,10 @@ vErrors.push(err11);
 errors++;
 }
 }
-if(data8.controllerType !== undefined){
-let data9 = data8.controllerType;
-if(!(((data9 === "P") || (data9 === "PI")) || (data9 === "PID"))){
-const err12 = {instancePath:instancePath+"/rule/parameters/controllerType",schemaPath:"#/properties/rule/properties/parameters/properties/controllerType/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.parameters.properties.controllerType.enum},message:"must be equal to one of the allowed values"};
+if(data7.name !== undefined){
+let data8 = data7.name;
+if(!(((((((data8 === "ziegler-nichols-step") || (data8 === "ziegler-nichols-ultimate")) || (data8 === "imc-pid")) || (data8 === "simc")) || (data8 === "damping-target")) || (data8 === "amigo")) || (data8 === "migo"))){
+const err12 = {instancePath:instancePath+"/rule/name",schemaPath:"#/properties/rule/properties/name/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.name.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err12];
 }
@@ -5483,15 +5480,10 @@ vErrors.push(err12);
 errors++;
 }
 }
-if(data8.closedLoopTimeConstant_s !== undefined){
-let data10 = data8.closedLoopTimeConstant_s;
-const _errs22 = errors;
-let valid4 = false;
-let passing0 = null;
-const _errs23 = errors;
-if((typeof data10 == "number") && (isFinite(data10))){
-if(data10 <= 0 || isNaN(data10)){
-const err13 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data7.tuneFor !== undefined){
+let data9 = data7.tuneFor;
+if(!((data9 === "rule-parameters") || (data9 === "fastest-passing"))){
+const err13 = {instancePath:instancePath+"/rule/tuneFor",schemaPath:"#/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err13];
 }
@@ -5501,8 +5493,12 @@ vErrors.push(err13);
 errors++;
 }
 }
-else {
-const err14 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data7.parameters !== undefined){
+let data10 = data7.parameters;
+if(data10 && typeof data10 == "object" && !Array.isArray(data10)){
+for(const key3 in data10){
+if(!(func18.call(schema10.properties.rule.properties.parameters.properties, key3))){
+const err14 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err14];
 }
@@ -5511,15 +5507,11 @@ vErrors.push(err14);
 }
 errors++;
 }
-var _valid0 = _errs23 === errors;
-if(_valid0){
-valid4 = true;
-passing0 = 0;
 }
-const _errs25 = errors;
-if(typeof data10 === "string"){
-if(func0(data10) < 1){
-const err15 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(data10.controllerType !== undefined){
+let data11 = data10.controllerType;
+if(!(((data11 === "P") || (data11 === "PI")) || (data11 === "PID"))){
+const err15 = {instancePath:instancePath+"/rule/parameters/controllerType",schemaPath:"#/properties/rule/properties/parameters/properties/controllerType/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.parameters.properties.controllerType.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -5529,8 +5521,15 @@ vErrors.push(err15);
 errors++;
 }
 }
-else {
-const err16 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data10.closedLoopTimeConstant_s !== undefined){
+let data12 = data10.closedLoopTimeConstant_s;
+const _errs25 = errors;
+let valid4 = false;
+let passing0 = null;
+const _errs26 = errors;
+if((typeof data12 == "number") && (isFinite(data12))){
+if(data12 <= 0 || isNaN(data12)){
+const err16 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err16];
 }
@@ -5539,7 +5538,46 @@ vErrors.push(err16);
 }
 errors++;
 }
-var _valid0 = _errs25 === errors;
+}
+else {
+const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+var _valid0 = _errs26 === errors;
+if(_valid0){
+valid4 = true;
+passing0 = 0;
+}
+const _errs28 = errors;
+if(typeof data12 === "string"){
+if(func0(data12) < 1){
+const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+else {
+const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err19];
+}
+else {
+vErrors.push(err19);
+}
+errors++;
+}
+var _valid0 = _errs28 === errors;
 if(_valid0 && valid4){
 valid4 = false;
 passing0 = [passing0, 1];
@@ -5549,45 +5587,10 @@ if(_valid0){
 valid4 = true;
 passing0 = 1;
 }
-const _errs27 = errors;
-if(data10 && typeof data10 == "object" && !Array.isArray(data10)){
-if(data10.speeds_mps === undefined){
-const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err17];
-}
-else {
-vErrors.push(err17);
-}
-errors++;
-}
-if(data10.values === undefined){
-const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err18];
-}
-else {
-vErrors.push(err18);
-}
-errors++;
-}
-for(const key4 in data10){
-if(!((key4 === "speeds_mps") || (key4 === "values"))){
-const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err19];
-}
-else {
-vErrors.push(err19);
-}
-errors++;
-}
-}
-if(data10.speeds_mps !== undefined){
-let data11 = data10.speeds_mps;
-if(Array.isArray(data11)){
-if(data11.length < 1){
-const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs30 = errors;
+if(data12 && typeof data12 == "object" && !Array.isArray(data12)){
+if(data12.speeds_mps === undefined){
+const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err20];
 }
@@ -5596,12 +5599,8 @@ vErrors.push(err20);
 }
 errors++;
 }
-const len0 = data11.length;
-for(let i0=0; i0<len0; i0++){
-let data12 = data11[i0];
-if((typeof data12 == "number") && (isFinite(data12))){
-if(data12 < 0 || isNaN(data12)){
-const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data12.values === undefined){
+const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err21];
 }
@@ -5610,9 +5609,9 @@ vErrors.push(err21);
 }
 errors++;
 }
-}
-else {
-const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key4 in data12){
+if(!((key4 === "speeds_mps") || (key4 === "values"))){
+const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err22];
 }
@@ -5622,9 +5621,11 @@ vErrors.push(err22);
 errors++;
 }
 }
-}
-else {
-const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data12.speeds_mps !== undefined){
+let data13 = data12.speeds_mps;
+if(Array.isArray(data13)){
+if(data13.length < 1){
+const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err23];
 }
@@ -5633,12 +5634,12 @@ vErrors.push(err23);
 }
 errors++;
 }
-}
-if(data10.values !== undefined){
-let data13 = data10.values;
-if(Array.isArray(data13)){
-if(data13.length < 1){
-const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len0 = data13.length;
+for(let i0=0; i0<len0; i0++){
+let data14 = data13[i0];
+if((typeof data14 == "number") && (isFinite(data14))){
+if(data14 < 0 || isNaN(data14)){
+const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err24];
 }
@@ -5647,12 +5648,9 @@ vErrors.push(err24);
 }
 errors++;
 }
-const len1 = data13.length;
-for(let i1=0; i1<len1; i1++){
-let data14 = data13[i1];
-if((typeof data14 == "number") && (isFinite(data14))){
-if(data14 <= 0 || isNaN(data14)){
-const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err25];
 }
@@ -5662,8 +5660,9 @@ vErrors.push(err25);
 errors++;
 }
 }
+}
 else {
-const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err26];
 }
@@ -5673,9 +5672,11 @@ vErrors.push(err26);
 errors++;
 }
 }
-}
-else {
-const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data12.values !== undefined){
+let data15 = data12.values;
+if(Array.isArray(data15)){
+if(data15.length < 1){
+const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err27];
 }
@@ -5684,10 +5685,12 @@ vErrors.push(err27);
 }
 errors++;
 }
-}
-}
-else {
-const err28 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len1 = data15.length;
+for(let i1=0; i1<len1; i1++){
+let data16 = data15[i1];
+if((typeof data16 == "number") && (isFinite(data16))){
+if(data16 <= 0 || isNaN(data16)){
+const err28 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err28];
 }
@@ -5696,7 +5699,42 @@ vErrors.push(err28);
 }
 errors++;
 }
-var _valid0 = _errs27 === errors;
+}
+else {
+const err29 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err29];
+}
+else {
+vErrors.push(err29);
+}
+errors++;
+}
+}
+}
+else {
+const err30 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err30];
+}
+else {
+vErrors.push(err30);
+}
+errors++;
+}
+}
+}
+else {
+const err31 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err31];
+}
+else {
+vErrors.push(err31);
+}
+errors++;
+}
+var _valid0 = _errs30 === errors;
 if(_valid0 && valid4){
 valid4 = false;
 passing0 = [passing0, 2];
@@ -5709,64 +5747,7 @@ passing0 = 2;
 }
 }
 if(!valid4){
-const err29 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err29];
-}
-else {
-vErrors.push(err29);
-}
-errors++;
-}
-else {
-errors = _errs22;
-if(vErrors !== null){
-if(_errs22){
-vErrors.length = _errs22;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.simcClosedLoopTimeConstant_s !== undefined){
-let data15 = data8.simcClosedLoopTimeConstant_s;
-const _errs39 = errors;
-let valid10 = false;
-let passing1 = null;
-const _errs40 = errors;
-if((typeof data15 == "number") && (isFinite(data15))){
-if(data15 <= 0 || isNaN(data15)){
-const err30 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err30];
-}
-else {
-vErrors.push(err30);
-}
-errors++;
-}
-}
-else {
-const err31 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err31];
-}
-else {
-vErrors.push(err31);
-}
-errors++;
-}
-var _valid1 = _errs40 === errors;
-if(_valid1){
-valid10 = true;
-passing1 = 0;
-}
-const _errs42 = errors;
-if(typeof data15 === "string"){
-if(func0(data15) < 1){
-const err32 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err32 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err32];
 }
@@ -5775,9 +5756,27 @@ vErrors.push(err32);
 }
 errors++;
 }
+else {
+errors = _errs25;
+if(vErrors !== null){
+if(_errs25){
+vErrors.length = _errs25;
 }
 else {
-const err33 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.simcClosedLoopTimeConstant_s !== undefined){
+let data17 = data10.simcClosedLoopTimeConstant_s;
+const _errs42 = errors;
+let valid10 = false;
+let passing1 = null;
+const _errs43 = errors;
+if((typeof data17 == "number") && (isFinite(data17))){
+if(data17 <= 0 || isNaN(data17)){
+const err33 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -5786,7 +5785,46 @@ vErrors.push(err33);
 }
 errors++;
 }
-var _valid1 = _errs42 === errors;
+}
+else {
+const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err34];
+}
+else {
+vErrors.push(err34);
+}
+errors++;
+}
+var _valid1 = _errs43 === errors;
+if(_valid1){
+valid10 = true;
+passing1 = 0;
+}
+const _errs45 = errors;
+if(typeof data17 === "string"){
+if(func0(data17) < 1){
+const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err35];
+}
+else {
+vErrors.push(err35);
+}
+errors++;
+}
+}
+else {
+const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err36];
+}
+else {
+vErrors.push(err36);
+}
+errors++;
+}
+var _valid1 = _errs45 === errors;
 if(_valid1 && valid10){
 valid10 = false;
 passing1 = [passing1, 1];
@@ -5796,45 +5834,10 @@ if(_valid1){
 valid10 = true;
 passing1 = 1;
 }
-const _errs44 = errors;
-if(data15 && typeof data15 == "object" && !Array.isArray(data15)){
-if(data15.speeds_mps === undefined){
-const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err34];
-}
-else {
-vErrors.push(err34);
-}
-errors++;
-}
-if(data15.values === undefined){
-const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err35];
-}
-else {
-vErrors.push(err35);
-}
-errors++;
-}
-for(const key5 in data15){
-if(!((key5 === "speeds_mps") || (key5 === "values"))){
-const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err36];
-}
-else {
-vErrors.push(err36);
-}
-errors++;
-}
-}
-if(data15.speeds_mps !== undefined){
-let data16 = data15.speeds_mps;
-if(Array.isArray(data16)){
-if(data16.length < 1){
-const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs47 = errors;
+if(data17 && typeof data17 == "object" && !Array.isArray(data17)){
+if(data17.speeds_mps === undefined){
+const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err37];
 }
@@ -5843,12 +5846,8 @@ vErrors.push(err37);
 }
 errors++;
 }
-const len2 = data16.length;
-for(let i2=0; i2<len2; i2++){
-let data17 = data16[i2];
-if((typeof data17 == "number") && (isFinite(data17))){
-if(data17 < 0 || isNaN(data17)){
-const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data17.values === undefined){
+const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err38];
 }
@@ -5857,9 +5856,9 @@ vErrors.push(err38);
 }
 errors++;
 }
-}
-else {
-const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key5 in data17){
+if(!((key5 === "speeds_mps") || (key5 === "values"))){
+const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err39];
 }
@@ -5869,9 +5868,11 @@ vErrors.push(err39);
 errors++;
 }
 }
-}
-else {
-const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data17.speeds_mps !== undefined){
+let data18 = data17.speeds_mps;
+if(Array.isArray(data18)){
+if(data18.length < 1){
+const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err40];
 }
@@ -5880,12 +5881,12 @@ vErrors.push(err40);
 }
 errors++;
 }
-}
-if(data15.values !== undefined){
-let data18 = data15.values;
-if(Array.isArray(data18)){
-if(data18.length < 1){
-const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len2 = data18.length;
+for(let i2=0; i2<len2; i2++){
+let data19 = data18[i2];
+if((typeof data19 == "number") && (isFinite(data19))){
+if(data19 < 0 || isNaN(data19)){
+const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err41];
 }
@@ -5894,12 +5895,9 @@ vErrors.push(err41);
 }
 errors++;
 }
-const len3 = data18.length;
-for(let i3=0; i3<len3; i3++){
-let data19 = data18[i3];
-if((typeof data19 == "number") && (isFinite(data19))){
-if(data19 <= 0 || isNaN(data19)){
-const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err42];
 }
@@ -5909,8 +5907,9 @@ vErrors.push(err42);
 errors++;
 }
 }
+}
 else {
-const err43 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err43 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err43];
 }
@@ -5920,9 +5919,11 @@ vErrors.push(err43);
 errors++;
 }
 }
-}
-else {
-const err44 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data17.values !== undefined){
+let data20 = data17.values;
+if(Array.isArray(data20)){
+if(data20.length < 1){
+const err44 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err44];
 }
@@ -5931,10 +5932,12 @@ vErrors.push(err44);
 }
 errors++;
 }
-}
-}
-else {
-const err45 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len3 = data20.length;
+for(let i3=0; i3<len3; i3++){
+let data21 = data20[i3];
+if((typeof data21 == "number") && (isFinite(data21))){
+if(data21 <= 0 || isNaN(data21)){
+const err45 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err45];
 }
@@ -5943,7 +5946,42 @@ vErrors.push(err45);
 }
 errors++;
 }
-var _valid1 = _errs44 === errors;
+}
+else {
+const err46 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err46];
+}
+else {
+vErrors.push(err46);
+}
+errors++;
+}
+}
+}
+else {
+const err47 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err47];
+}
+else {
+vErrors.push(err47);
+}
+errors++;
+}
+}
+}
+else {
+const err48 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err48];
+}
+else {
+vErrors.push(err48);
+}
+errors++;
+}
+var _valid1 = _errs47 === errors;
 if(_valid1 && valid10){
 valid10 = false;
 passing1 = [passing1, 2];
@@ -5956,64 +5994,7 @@ passing1 = 2;
 }
 }
 if(!valid10){
-const err46 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err46];
-}
-else {
-vErrors.push(err46);
-}
-errors++;
-}
-else {
-errors = _errs39;
-if(vErrors !== null){
-if(_errs39){
-vErrors.length = _errs39;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.dampingRatio !== undefined){
-let data20 = data8.dampingRatio;
-const _errs56 = errors;
-let valid16 = false;
-let passing2 = null;
-const _errs57 = errors;
-if((typeof data20 == "number") && (isFinite(data20))){
-if(data20 <= 0 || isNaN(data20)){
-const err47 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err47];
-}
-else {
-vErrors.push(err47);
-}
-errors++;
-}
-}
-else {
-const err48 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err48];
-}
-else {
-vErrors.push(err48);
-}
-errors++;
-}
-var _valid2 = _errs57 === errors;
-if(_valid2){
-valid16 = true;
-passing2 = 0;
-}
-const _errs59 = errors;
-if(typeof data20 === "string"){
-if(func0(data20) < 1){
-const err49 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err49 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err49];
 }
@@ -6022,9 +6003,27 @@ vErrors.push(err49);
 }
 errors++;
 }
+else {
+errors = _errs42;
+if(vErrors !== null){
+if(_errs42){
+vErrors.length = _errs42;
 }
 else {
-const err50 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.dampingRatio !== undefined){
+let data22 = data10.dampingRatio;
+const _errs59 = errors;
+let valid16 = false;
+let passing2 = null;
+const _errs60 = errors;
+if((typeof data22 == "number") && (isFinite(data22))){
+if(data22 <= 0 || isNaN(data22)){
+const err50 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err50];
 }
@@ -6033,7 +6032,46 @@ vErrors.push(err50);
 }
 errors++;
 }
-var _valid2 = _errs59 === errors;
+}
+else {
+const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err51];
+}
+else {
+vErrors.push(err51);
+}
+errors++;
+}
+var _valid2 = _errs60 === errors;
+if(_valid2){
+valid16 = true;
+passing2 = 0;
+}
+const _errs62 = errors;
+if(typeof data22 === "string"){
+if(func0(data22) < 1){
+const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err52];
+}
+else {
+vErrors.push(err52);
+}
+errors++;
+}
+}
+else {
+const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err53];
+}
+else {
+vErrors.push(err53);
+}
+errors++;
+}
+var _valid2 = _errs62 === errors;
 if(_valid2 && valid16){
 valid16 = false;
 passing2 = [passing2, 1];
@@ -6043,45 +6081,10 @@ if(_valid2){
 valid16 = true;
 passing2 = 1;
 }
-const _errs61 = errors;
-if(data20 && typeof data20 == "object" && !Array.isArray(data20)){
-if(data20.speeds_mps === undefined){
-const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err51];
-}
-else {
-vErrors.push(err51);
-}
-errors++;
-}
-if(data20.values === undefined){
-const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err52];
-}
-else {
-vErrors.push(err52);
-}
-errors++;
-}
-for(const key6 in data20){
-if(!((key6 === "speeds_mps") || (key6 === "values"))){
-const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err53];
-}
-else {
-vErrors.push(err53);
-}
-errors++;
-}
-}
-if(data20.speeds_mps !== undefined){
-let data21 = data20.speeds_mps;
-if(Array.isArray(data21)){
-if(data21.length < 1){
-const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs64 = errors;
+if(data22 && typeof data22 == "object" && !Array.isArray(data22)){
+if(data22.speeds_mps === undefined){
+const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err54];
 }
@@ -6090,12 +6093,8 @@ vErrors.push(err54);
 }
 errors++;
 }
-const len4 = data21.length;
-for(let i4=0; i4<len4; i4++){
-let data22 = data21[i4];
-if((typeof data22 == "number") && (isFinite(data22))){
-if(data22 < 0 || isNaN(data22)){
-const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data22.values === undefined){
+const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err55];
 }
@@ -6104,9 +6103,9 @@ vErrors.push(err55);
 }
 errors++;
 }
-}
-else {
-const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key6 in data22){
+if(!((key6 === "speeds_mps") || (key6 === "values"))){
+const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err56];
 }
@@ -6116,9 +6115,11 @@ vErrors.push(err56);
 errors++;
 }
 }
-}
-else {
-const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data22.speeds_mps !== undefined){
+let data23 = data22.speeds_mps;
+if(Array.isArray(data23)){
+if(data23.length < 1){
+const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err57];
 }
@@ -6127,12 +6128,12 @@ vErrors.push(err57);
 }
 errors++;
 }
-}
-if(data20.values !== undefined){
-let data23 = data20.values;
-if(Array.isArray(data23)){
-if(data23.length < 1){
-const err58 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len4 = data23.length;
+for(let i4=0; i4<len4; i4++){
+let data24 = data23[i4];
+if((typeof data24 == "number") && (isFinite(data24))){
+if(data24 < 0 || isNaN(data24)){
+const err58 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err58];
 }
@@ -6141,12 +6142,9 @@ vErrors.push(err58);
 }
 errors++;
 }
-const len5 = data23.length;
-for(let i5=0; i5<len5; i5++){
-let data24 = data23[i5];
-if((typeof data24 == "number") && (isFinite(data24))){
-if(data24 <= 0 || isNaN(data24)){
-const err59 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err59 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err59];
 }
@@ -6156,8 +6154,9 @@ vErrors.push(err59);
 errors++;
 }
 }
+}
 else {
-const err60 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err60 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err60];
 }
@@ -6167,9 +6166,11 @@ vErrors.push(err60);
 errors++;
 }
 }
-}
-else {
-const err61 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data22.values !== undefined){
+let data25 = data22.values;
+if(Array.isArray(data25)){
+if(data25.length < 1){
+const err61 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err61];
 }
@@ -6178,10 +6179,12 @@ vErrors.push(err61);
 }
 errors++;
 }
-}
-}
-else {
-const err62 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len5 = data25.length;
+for(let i5=0; i5<len5; i5++){
+let data26 = data25[i5];
+if((typeof data26 == "number") && (isFinite(data26))){
+if(data26 <= 0 || isNaN(data26)){
+const err62 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err62];
 }
@@ -6190,7 +6193,42 @@ vErrors.push(err62);
 }
 errors++;
 }
-var _valid2 = _errs61 === errors;
+}
+else {
+const err63 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err63];
+}
+else {
+vErrors.push(err63);
+}
+errors++;
+}
+}
+}
+else {
+const err64 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err64];
+}
+else {
+vErrors.push(err64);
+}
+errors++;
+}
+}
+}
+else {
+const err65 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err65];
+}
+else {
+vErrors.push(err65);
+}
+errors++;
+}
+var _valid2 = _errs64 === errors;
 if(_valid2 && valid16){
 valid16 = false;
 passing2 = [passing2, 2];
@@ -6203,64 +6241,7 @@ passing2 = 2;
 }
 }
 if(!valid16){
-const err63 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err63];
-}
-else {
-vErrors.push(err63);
-}
-errors++;
-}
-else {
-errors = _errs56;
-if(vErrors !== null){
-if(_errs56){
-vErrors.length = _errs56;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.naturalFrequency_radps !== undefined){
-let data25 = data8.naturalFrequency_radps;
-const _errs73 = errors;
-let valid22 = false;
-let passing3 = null;
-const _errs74 = errors;
-if((typeof data25 == "number") && (isFinite(data25))){
-if(data25 <= 0 || isNaN(data25)){
-const err64 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err64];
-}
-else {
-vErrors.push(err64);
-}
-errors++;
-}
-}
-else {
-const err65 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err65];
-}
-else {
-vErrors.push(err65);
-}
-errors++;
-}
-var _valid3 = _errs74 === errors;
-if(_valid3){
-valid22 = true;
-passing3 = 0;
-}
-const _errs76 = errors;
-if(typeof data25 === "string"){
-if(func0(data25) < 1){
-const err66 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err66 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err66];
 }
@@ -6269,9 +6250,27 @@ vErrors.push(err66);
 }
 errors++;
 }
+else {
+errors = _errs59;
+if(vErrors !== null){
+if(_errs59){
+vErrors.length = _errs59;
 }
 else {
-const err67 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.naturalFrequency_radps !== undefined){
+let data27 = data10.naturalFrequency_radps;
+const _errs76 = errors;
+let valid22 = false;
+let passing3 = null;
+const _errs77 = errors;
+if((typeof data27 == "number") && (isFinite(data27))){
+if(data27 <= 0 || isNaN(data27)){
+const err67 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err67];
 }
@@ -6280,7 +6279,46 @@ vErrors.push(err67);
 }
 errors++;
 }
-var _valid3 = _errs76 === errors;
+}
+else {
+const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err68];
+}
+else {
+vErrors.push(err68);
+}
+errors++;
+}
+var _valid3 = _errs77 === errors;
+if(_valid3){
+valid22 = true;
+passing3 = 0;
+}
+const _errs79 = errors;
+if(typeof data27 === "string"){
+if(func0(data27) < 1){
+const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err69];
+}
+else {
+vErrors.push(err69);
+}
+errors++;
+}
+}
+else {
+const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err70];
+}
+else {
+vErrors.push(err70);
+}
+errors++;
+}
+var _valid3 = _errs79 === errors;
 if(_valid3 && valid22){
 valid22 = false;
 passing3 = [passing3, 1];
@@ -6290,45 +6328,10 @@ if(_valid3){
 valid22 = true;
 passing3 = 1;
 }
-const _errs78 = errors;
-if(data25 && typeof data25 == "object" && !Array.isArray(data25)){
-if(data25.speeds_mps === undefined){
-const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err68];
-}
-else {
-vErrors.push(err68);
-}
-errors++;
-}
-if(data25.values === undefined){
-const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err69];
-}
-else {
-vErrors.push(err69);
-}
-errors++;
-}
-for(const key7 in data25){
-if(!((key7 === "speeds_mps") || (key7 === "values"))){
-const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err70];
-}
-else {
-vErrors.push(err70);
-}
-errors++;
-}
-}
-if(data25.speeds_mps !== undefined){
-let data26 = data25.speeds_mps;
-if(Array.isArray(data26)){
-if(data26.length < 1){
-const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs81 = errors;
+if(data27 && typeof data27 == "object" && !Array.isArray(data27)){
+if(data27.speeds_mps === undefined){
+const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err71];
 }
@@ -6337,12 +6340,8 @@ vErrors.push(err71);
 }
 errors++;
 }
-const len6 = data26.length;
-for(let i6=0; i6<len6; i6++){
-let data27 = data26[i6];
-if((typeof data27 == "number") && (isFinite(data27))){
-if(data27 < 0 || isNaN(data27)){
-const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data27.values === undefined){
+const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err72];
 }
@@ -6351,9 +6350,9 @@ vErrors.push(err72);
 }
 errors++;
 }
-}
-else {
-const err73 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key7 in data27){
+if(!((key7 === "speeds_mps") || (key7 === "values"))){
+const err73 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err73];
 }
@@ -6363,9 +6362,11 @@ vErrors.push(err73);
 errors++;
 }
 }
-}
-else {
-const err74 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data27.speeds_mps !== undefined){
+let data28 = data27.speeds_mps;
+if(Array.isArray(data28)){
+if(data28.length < 1){
+const err74 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err74];
 }
@@ -6374,12 +6375,12 @@ vErrors.push(err74);
 }
 errors++;
 }
-}
-if(data25.values !== undefined){
-let data28 = data25.values;
-if(Array.isArray(data28)){
-if(data28.length < 1){
-const err75 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len6 = data28.length;
+for(let i6=0; i6<len6; i6++){
+let data29 = data28[i6];
+if((typeof data29 == "number") && (isFinite(data29))){
+if(data29 < 0 || isNaN(data29)){
+const err75 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err75];
 }
@@ -6388,12 +6389,9 @@ vErrors.push(err75);
 }
 errors++;
 }
-const len7 = data28.length;
-for(let i7=0; i7<len7; i7++){
-let data29 = data28[i7];
-if((typeof data29 == "number") && (isFinite(data29))){
-if(data29 <= 0 || isNaN(data29)){
-const err76 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err76 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err76];
 }
@@ -6403,8 +6401,9 @@ vErrors.push(err76);
 errors++;
 }
 }
+}
 else {
-const err77 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err77 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err77];
 }
@@ -6414,9 +6413,11 @@ vErrors.push(err77);
 errors++;
 }
 }
-}
-else {
-const err78 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data27.values !== undefined){
+let data30 = data27.values;
+if(Array.isArray(data30)){
+if(data30.length < 1){
+const err78 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err78];
 }
@@ -6425,10 +6426,12 @@ vErrors.push(err78);
 }
 errors++;
 }
-}
-}
-else {
-const err79 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len7 = data30.length;
+for(let i7=0; i7<len7; i7++){
+let data31 = data30[i7];
+if((typeof data31 == "number") && (isFinite(data31))){
+if(data31 <= 0 || isNaN(data31)){
+const err79 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err79];
 }
@@ -6437,7 +6440,42 @@ vErrors.push(err79);
 }
 errors++;
 }
-var _valid3 = _errs78 === errors;
+}
+else {
+const err80 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err80];
+}
+else {
+vErrors.push(err80);
+}
+errors++;
+}
+}
+}
+else {
+const err81 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err81];
+}
+else {
+vErrors.push(err81);
+}
+errors++;
+}
+}
+}
+else {
+const err82 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err82];
+}
+else {
+vErrors.push(err82);
+}
+errors++;
+}
+var _valid3 = _errs81 === errors;
 if(_valid3 && valid22){
 valid22 = false;
 passing3 = [passing3, 2];
@@ -6450,64 +6488,7 @@ passing3 = 2;
 }
 }
 if(!valid22){
-const err80 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err80];
-}
-else {
-vErrors.push(err80);
-}
-errors++;
-}
-else {
-errors = _errs73;
-if(vErrors !== null){
-if(_errs73){
-vErrors.length = _errs73;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.settlingDistance_m !== undefined){
-let data30 = data8.settlingDistance_m;
-const _errs90 = errors;
-let valid28 = false;
-let passing4 = null;
-const _errs91 = errors;
-if((typeof data30 == "number") && (isFinite(data30))){
-if(data30 <= 0 || isNaN(data30)){
-const err81 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err81];
-}
-else {
-vErrors.push(err81);
-}
-errors++;
-}
-}
-else {
-const err82 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err82];
-}
-else {
-vErrors.push(err82);
-}
-errors++;
-}
-var _valid4 = _errs91 === errors;
-if(_valid4){
-valid28 = true;
-passing4 = 0;
-}
-const _errs93 = errors;
-if(typeof data30 === "string"){
-if(func0(data30) < 1){
-const err83 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err83 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err83];
 }
@@ -6516,9 +6497,27 @@ vErrors.push(err83);
 }
 errors++;
 }
+else {
+errors = _errs76;
+if(vErrors !== null){
+if(_errs76){
+vErrors.length = _errs76;
 }
 else {
-const err84 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.settlingDistance_m !== undefined){
+let data32 = data10.settlingDistance_m;
+const _errs93 = errors;
+let valid28 = false;
+let passing4 = null;
+const _errs94 = errors;
+if((typeof data32 == "number") && (isFinite(data32))){
+if(data32 <= 0 || isNaN(data32)){
+const err84 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err84];
 }
@@ -6527,7 +6526,46 @@ vErrors.push(err84);
 }
 errors++;
 }
-var _valid4 = _errs93 === errors;
+}
+else {
+const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err85];
+}
+else {
+vErrors.push(err85);
+}
+errors++;
+}
+var _valid4 = _errs94 === errors;
+if(_valid4){
+valid28 = true;
+passing4 = 0;
+}
+const _errs96 = errors;
+if(typeof data32 === "string"){
+if(func0(data32) < 1){
+const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err86];
+}
+else {
+vErrors.push(err86);
+}
+errors++;
+}
+}
+else {
+const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err87];
+}
+else {
+vErrors.push(err87);
+}
+errors++;
+}
+var _valid4 = _errs96 === errors;
 if(_valid4 && valid28){
 valid28 = false;
 passing4 = [passing4, 1];
@@ -6537,45 +6575,10 @@ if(_valid4){
 valid28 = true;
 passing4 = 1;
 }
-const _errs95 = errors;
-if(data30 && typeof data30 == "object" && !Array.isArray(data30)){
-if(data30.speeds_mps === undefined){
-const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err85];
-}
-else {
-vErrors.push(err85);
-}
-errors++;
-}
-if(data30.values === undefined){
-const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err86];
-}
-else {
-vErrors.push(err86);
-}
-errors++;
-}
-for(const key8 in data30){
-if(!((key8 === "speeds_mps") || (key8 === "values"))){
-const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err87];
-}
-else {
-vErrors.push(err87);
-}
-errors++;
-}
-}
-if(data30.speeds_mps !== undefined){
-let data31 = data30.speeds_mps;
-if(Array.isArray(data31)){
-if(data31.length < 1){
-const err88 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs98 = errors;
+if(data32 && typeof data32 == "object" && !Array.isArray(data32)){
+if(data32.speeds_mps === undefined){
+const err88 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err88];
 }
@@ -6584,12 +6587,8 @@ vErrors.push(err88);
 }
 errors++;
 }
-const len8 = data31.length;
-for(let i8=0; i8<len8; i8++){
-let data32 = data31[i8];
-if((typeof data32 == "number") && (isFinite(data32))){
-if(data32 < 0 || isNaN(data32)){
-const err89 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data32.values === undefined){
+const err89 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err89];
 }
@@ -6598,9 +6597,9 @@ vErrors.push(err89);
 }
 errors++;
 }
-}
-else {
-const err90 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key8 in data32){
+if(!((key8 === "speeds_mps") || (key8 === "values"))){
+const err90 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err90];
 }
@@ -6610,9 +6609,11 @@ vErrors.push(err90);
 errors++;
 }
 }
-}
-else {
-const err91 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data32.speeds_mps !== undefined){
+let data33 = data32.speeds_mps;
+if(Array.isArray(data33)){
+if(data33.length < 1){
+const err91 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err91];
 }
@@ -6621,12 +6622,12 @@ vErrors.push(err91);
 }
 errors++;
 }
-}
-if(data30.values !== undefined){
-let data33 = data30.values;
-if(Array.isArray(data33)){
-if(data33.length < 1){
-const err92 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len8 = data33.length;
+for(let i8=0; i8<len8; i8++){
+let data34 = data33[i8];
+if((typeof data34 == "number") && (isFinite(data34))){
+if(data34 < 0 || isNaN(data34)){
+const err92 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err92];
 }
@@ -6635,12 +6636,9 @@ vErrors.push(err92);
 }
 errors++;
 }
-const len9 = data33.length;
-for(let i9=0; i9<len9; i9++){
-let data34 = data33[i9];
-if((typeof data34 == "number") && (isFinite(data34))){
-if(data34 <= 0 || isNaN(data34)){
-const err93 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err93 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err93];
 }
@@ -6650,8 +6648,9 @@ vErrors.push(err93);
 errors++;
 }
 }
+}
 else {
-const err94 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err94 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err94];
 }
@@ -6661,9 +6660,11 @@ vErrors.push(err94);
 errors++;
 }
 }
-}
-else {
-const err95 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data32.values !== undefined){
+let data35 = data32.values;
+if(Array.isArray(data35)){
+if(data35.length < 1){
+const err95 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err95];
 }
@@ -6672,10 +6673,12 @@ vErrors.push(err95);
 }
 errors++;
 }
-}
-}
-else {
-const err96 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len9 = data35.length;
+for(let i9=0; i9<len9; i9++){
+let data36 = data35[i9];
+if((typeof data36 == "number") && (isFinite(data36))){
+if(data36 <= 0 || isNaN(data36)){
+const err96 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err96];
 }
@@ -6684,7 +6687,42 @@ vErrors.push(err96);
 }
 errors++;
 }
-var _valid4 = _errs95 === errors;
+}
+else {
+const err97 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err97];
+}
+else {
+vErrors.push(err97);
+}
+errors++;
+}
+}
+}
+else {
+const err98 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err98];
+}
+else {
+vErrors.push(err98);
+}
+errors++;
+}
+}
+}
+else {
+const err99 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err99];
+}
+else {
+vErrors.push(err99);
+}
+errors++;
+}
+var _valid4 = _errs98 === errors;
 if(_valid4 && valid28){
 valid28 = false;
 passing4 = [passing4, 2];
@@ -6697,64 +6735,7 @@ passing4 = 2;
 }
 }
 if(!valid28){
-const err97 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err97];
-}
-else {
-vErrors.push(err97);
-}
-errors++;
-}
-else {
-errors = _errs90;
-if(vErrors !== null){
-if(_errs90){
-vErrors.length = _errs90;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.integralPoleRatio !== undefined){
-let data35 = data8.integralPoleRatio;
-const _errs107 = errors;
-let valid34 = false;
-let passing5 = null;
-const _errs108 = errors;
-if((typeof data35 == "number") && (isFinite(data35))){
-if(data35 <= 0 || isNaN(data35)){
-const err98 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err98];
-}
-else {
-vErrors.push(err98);
-}
-errors++;
-}
-}
-else {
-const err99 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err99];
-}
-else {
-vErrors.push(err99);
-}
-errors++;
-}
-var _valid5 = _errs108 === errors;
-if(_valid5){
-valid34 = true;
-passing5 = 0;
-}
-const _errs110 = errors;
-if(typeof data35 === "string"){
-if(func0(data35) < 1){
-const err100 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err100 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err100];
 }
@@ -6763,9 +6744,27 @@ vErrors.push(err100);
 }
 errors++;
 }
+else {
+errors = _errs93;
+if(vErrors !== null){
+if(_errs93){
+vErrors.length = _errs93;
 }
 else {
-const err101 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.integralPoleRatio !== undefined){
+let data37 = data10.integralPoleRatio;
+const _errs110 = errors;
+let valid34 = false;
+let passing5 = null;
+const _errs111 = errors;
+if((typeof data37 == "number") && (isFinite(data37))){
+if(data37 <= 0 || isNaN(data37)){
+const err101 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err101];
 }
@@ -6774,7 +6773,46 @@ vErrors.push(err101);
 }
 errors++;
 }
-var _valid5 = _errs110 === errors;
+}
+else {
+const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err102];
+}
+else {
+vErrors.push(err102);
+}
+errors++;
+}
+var _valid5 = _errs111 === errors;
+if(_valid5){
+valid34 = true;
+passing5 = 0;
+}
+const _errs113 = errors;
+if(typeof data37 === "string"){
+if(func0(data37) < 1){
+const err103 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err103];
+}
+else {
+vErrors.push(err103);
+}
+errors++;
+}
+}
+else {
+const err104 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err104];
+}
+else {
+vErrors.push(err104);
+}
+errors++;
+}
+var _valid5 = _errs113 === errors;
 if(_valid5 && valid34){
 valid34 = false;
 passing5 = [passing5, 1];
@@ -6784,45 +6822,10 @@ if(_valid5){
 valid34 = true;
 passing5 = 1;
 }
-const _errs112 = errors;
-if(data35 && typeof data35 == "object" && !Array.isArray(data35)){
-if(data35.speeds_mps === undefined){
-const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err102];
-}
-else {
-vErrors.push(err102);
-}
-errors++;
-}
-if(data35.values === undefined){
-const err103 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err103];
-}
-else {
-vErrors.push(err103);
-}
-errors++;
-}
-for(const key9 in data35){
-if(!((key9 === "speeds_mps") || (key9 === "values"))){
-const err104 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err104];
-}
-else {
-vErrors.push(err104);
-}
-errors++;
-}
-}
-if(data35.speeds_mps !== undefined){
-let data36 = data35.speeds_mps;
-if(Array.isArray(data36)){
-if(data36.length < 1){
-const err105 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs115 = errors;
+if(data37 && typeof data37 == "object" && !Array.isArray(data37)){
+if(data37.speeds_mps === undefined){
+const err105 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err105];
 }
@@ -6831,12 +6834,8 @@ vErrors.push(err105);
 }
 errors++;
 }
-const len10 = data36.length;
-for(let i10=0; i10<len10; i10++){
-let data37 = data36[i10];
-if((typeof data37 == "number") && (isFinite(data37))){
-if(data37 < 0 || isNaN(data37)){
-const err106 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data37.values === undefined){
+const err106 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err106];
 }
@@ -6845,9 +6844,9 @@ vErrors.push(err106);
 }
 errors++;
 }
-}
-else {
-const err107 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key9 in data37){
+if(!((key9 === "speeds_mps") || (key9 === "values"))){
+const err107 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err107];
 }
@@ -6857,9 +6856,11 @@ vErrors.push(err107);
 errors++;
 }
 }
-}
-else {
-const err108 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data37.speeds_mps !== undefined){
+let data38 = data37.speeds_mps;
+if(Array.isArray(data38)){
+if(data38.length < 1){
+const err108 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err108];
 }
@@ -6868,12 +6869,12 @@ vErrors.push(err108);
 }
 errors++;
 }
-}
-if(data35.values !== undefined){
-let data38 = data35.values;
-if(Array.isArray(data38)){
-if(data38.length < 1){
-const err109 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len10 = data38.length;
+for(let i10=0; i10<len10; i10++){
+let data39 = data38[i10];
+if((typeof data39 == "number") && (isFinite(data39))){
+if(data39 < 0 || isNaN(data39)){
+const err109 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err109];
 }
@@ -6882,12 +6883,9 @@ vErrors.push(err109);
 }
 errors++;
 }
-const len11 = data38.length;
-for(let i11=0; i11<len11; i11++){
-let data39 = data38[i11];
-if((typeof data39 == "number") && (isFinite(data39))){
-if(data39 <= 0 || isNaN(data39)){
-const err110 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err110 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err110];
 }
@@ -6897,8 +6895,9 @@ vErrors.push(err110);
 errors++;
 }
 }
+}
 else {
-const err111 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err111 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err111];
 }
@@ -6908,9 +6907,11 @@ vErrors.push(err111);
 errors++;
 }
 }
-}
-else {
-const err112 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data37.values !== undefined){
+let data40 = data37.values;
+if(Array.isArray(data40)){
+if(data40.length < 1){
+const err112 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err112];
 }
@@ -6919,10 +6920,12 @@ vErrors.push(err112);
 }
 errors++;
 }
-}
-}
-else {
-const err113 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len11 = data40.length;
+for(let i11=0; i11<len11; i11++){
+let data41 = data40[i11];
+if((typeof data41 == "number") && (isFinite(data41))){
+if(data41 <= 0 || isNaN(data41)){
+const err113 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err113];
 }
@@ -6931,7 +6934,42 @@ vErrors.push(err113);
 }
 errors++;
 }
-var _valid5 = _errs112 === errors;
+}
+else {
+const err114 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err114];
+}
+else {
+vErrors.push(err114);
+}
+errors++;
+}
+}
+}
+else {
+const err115 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err115];
+}
+else {
+vErrors.push(err115);
+}
+errors++;
+}
+}
+}
+else {
+const err116 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err116];
+}
+else {
+vErrors.push(err116);
+}
+errors++;
+}
+var _valid5 = _errs115 === errors;
 if(_valid5 && valid34){
 valid34 = false;
 passing5 = [passing5, 2];
@@ -6944,57 +6982,7 @@ passing5 = 2;
 }
 }
 if(!valid34){
-const err114 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err114];
-}
-else {
-vErrors.push(err114);
-}
-errors++;
-}
-else {
-errors = _errs107;
-if(vErrors !== null){
-if(_errs107){
-vErrors.length = _errs107;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-}
-else {
-const err115 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err115];
-}
-else {
-vErrors.push(err115);
-}
-errors++;
-}
-}
-}
-else {
-const err116 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err116];
-}
-else {
-vErrors.push(err116);
-}
-errors++;
-}
-}
-if(data.speeds !== undefined){
-let data40 = data.speeds;
-if(data40 && typeof data40 == "object" && !Array.isArray(data40)){
-for(const key10 in data40){
-if(!(((key10 === "minimum_mps") || (key10 === "maximum_mps")) || (key10 === "lowSpeedFloor_mps"))){
-const err117 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
+const err117 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err117];
 }
@@ -7003,12 +6991,27 @@ vErrors.push(err117);
 }
 errors++;
 }
+else {
+errors = _errs110;
+if(vErrors !== null){
+if(_errs110){
+vErrors.length = _errs110;
 }
-if(data40.minimum_mps !== undefined){
-let data41 = data40.minimum_mps;
-if((typeof data41 == "number") && (isFinite(data41))){
-if(data41 < 0 || isNaN(data41)){
-const err118 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data10.sensitivityPeakTarget !== undefined){
+let data42 = data10.sensitivityPeakTarget;
+const _errs127 = errors;
+let valid40 = false;
+let passing6 = null;
+const _errs128 = errors;
+if((typeof data42 == "number") && (isFinite(data42))){
+if(data42 <= 0 || isNaN(data42)){
+const err118 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err118];
 }
@@ -7019,7 +7022,7 @@ errors++;
 }
 }
 else {
-const err119 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err119 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err119];
 }
@@ -7028,12 +7031,15 @@ vErrors.push(err119);
 }
 errors++;
 }
+var _valid6 = _errs128 === errors;
+if(_valid6){
+valid40 = true;
+passing6 = 0;
 }
-if(data40.maximum_mps !== undefined){
-let data42 = data40.maximum_mps;
-if((typeof data42 == "number") && (isFinite(data42))){
-if(data42 <= 0 || isNaN(data42)){
-const err120 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const _errs130 = errors;
+if(typeof data42 === "string"){
+if(func0(data42) < 1){
+const err120 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err120];
 }
@@ -7044,7 +7050,7 @@ errors++;
 }
 }
 else {
-const err121 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err121 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err121];
 }
@@ -7053,12 +7059,20 @@ vErrors.push(err121);
 }
 errors++;
 }
+var _valid6 = _errs130 === errors;
+if(_valid6 && valid40){
+valid40 = false;
+passing6 = [passing6, 1];
 }
-if(data40.lowSpeedFloor_mps !== undefined){
-let data43 = data40.lowSpeedFloor_mps;
-if((typeof data43 == "number") && (isFinite(data43))){
-if(data43 <= 0 || isNaN(data43)){
-const err122 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+if(_valid6){
+valid40 = true;
+passing6 = 1;
+}
+const _errs132 = errors;
+if(data42 && typeof data42 == "object" && !Array.isArray(data42)){
+if(data42.speeds_mps === undefined){
+const err122 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err122];
 }
@@ -7067,9 +7081,8 @@ vErrors.push(err122);
 }
 errors++;
 }
-}
-else {
-const err123 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data42.values === undefined){
+const err123 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err123];
 }
@@ -7078,10 +7091,9 @@ vErrors.push(err123);
 }
 errors++;
 }
-}
-}
-else {
-const err124 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key10 in data42){
+if(!((key10 === "speeds_mps") || (key10 === "values"))){
+const err124 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err124];
 }
@@ -7091,15 +7103,11 @@ vErrors.push(err124);
 errors++;
 }
 }
-if(data.breakpoints !== undefined){
-let data44 = data.breakpoints;
-const _errs133 = errors;
-let valid41 = false;
-let passing6 = null;
-const _errs134 = errors;
-if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
-if(data44.speeds_mps === undefined){
-const err125 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(data42.speeds_mps !== undefined){
+let data43 = data42.speeds_mps;
+if(Array.isArray(data43)){
+if(data43.length < 1){
+const err125 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err125];
 }
@@ -7108,9 +7116,12 @@ vErrors.push(err125);
 }
 errors++;
 }
-for(const key11 in data44){
-if(!(key11 === "speeds_mps")){
-const err126 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
+const len12 = data43.length;
+for(let i12=0; i12<len12; i12++){
+let data44 = data43[i12];
+if((typeof data44 == "number") && (isFinite(data44))){
+if(data44 < 0 || isNaN(data44)){
+const err126 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err126];
 }
@@ -7120,11 +7131,8 @@ vErrors.push(err126);
 errors++;
 }
 }
-if(data44.speeds_mps !== undefined){
-let data45 = data44.speeds_mps;
-if(Array.isArray(data45)){
-if(data45.length < 1){
-const err127 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+const err127 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err127];
 }
@@ -7133,12 +7141,10 @@ vErrors.push(err127);
 }
 errors++;
 }
-const len12 = data45.length;
-for(let i12=0; i12<len12; i12++){
-let data46 = data45[i12];
-if((typeof data46 == "number") && (isFinite(data46))){
-if(data46 <= 0 || isNaN(data46)){
-const err128 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+}
+else {
+const err128 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err128];
 }
@@ -7148,8 +7154,11 @@ vErrors.push(err128);
 errors++;
 }
 }
-else {
-const err129 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data42.values !== undefined){
+let data45 = data42.values;
+if(Array.isArray(data45)){
+if(data45.length < 1){
+const err129 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err129];
 }
@@ -7158,10 +7167,12 @@ vErrors.push(err129);
 }
 errors++;
 }
-}
-}
-else {
-const err130 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len13 = data45.length;
+for(let i13=0; i13<len13; i13++){
+let data46 = data45[i13];
+if((typeof data46 == "number") && (isFinite(data46))){
+if(data46 <= 0 || isNaN(data46)){
+const err130 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err130];
 }
@@ -7171,9 +7182,8 @@ vErrors.push(err130);
 errors++;
 }
 }
-}
 else {
-const err131 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err131 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err131];
 }
@@ -7182,16 +7192,10 @@ vErrors.push(err131);
 }
 errors++;
 }
-var _valid6 = _errs134 === errors;
-if(_valid6){
-valid41 = true;
-passing6 = 0;
 }
-const _errs141 = errors;
-if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
-for(const key12 in data44){
-if(!((key12 === "count") || (key12 === "spacing"))){
-const err132 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
+}
+else {
+const err132 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err132];
 }
@@ -7201,10 +7205,9 @@ vErrors.push(err132);
 errors++;
 }
 }
-if(data44.count !== undefined){
-let data47 = data44.count;
-if(!(((typeof data47 == "number") && (!(data47 % 1) && !isNaN(data47))) && (isFinite(data47)))){
-const err133 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+}
+else {
+const err133 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err133];
 }
@@ -7213,9 +7216,20 @@ vErrors.push(err133);
 }
 errors++;
 }
-if((typeof data47 == "number") && (isFinite(data47))){
-if(data47 > 100 || isNaN(data47)){
-const err134 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+var _valid6 = _errs132 === errors;
+if(_valid6 && valid40){
+valid40 = false;
+passing6 = [passing6, 2];
+}
+else {
+if(_valid6){
+valid40 = true;
+passing6 = 2;
+}
+}
+}
+if(!valid40){
+const err134 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err134];
 }
@@ -7224,8 +7238,27 @@ vErrors.push(err134);
 }
 errors++;
 }
-if(data47 < 1 || isNaN(data47)){
-const err135 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+else {
+errors = _errs127;
+if(vErrors !== null){
+if(_errs127){
+vErrors.length = _errs127;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data10.phaseMarginTarget_deg !== undefined){
+let data47 = data10.phaseMarginTarget_deg;
+const _errs144 = errors;
+let valid46 = false;
+let passing7 = null;
+const _errs145 = errors;
+if((typeof data47 == "number") && (isFinite(data47))){
+if(data47 <= 0 || isNaN(data47)){
+const err135 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err135];
 }
@@ -7235,11 +7268,8 @@ vErrors.push(err135);
 errors++;
 }
 }
-}
-if(data44.spacing !== undefined){
-let data48 = data44.spacing;
-if(!((data48 === "geometric") || (data48 === "linear"))){
-const err136 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
+else {
+const err136 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err136];
 }
@@ -7248,10 +7278,15 @@ vErrors.push(err136);
 }
 errors++;
 }
+var _valid7 = _errs145 === errors;
+if(_valid7){
+valid46 = true;
+passing7 = 0;
 }
-}
-else {
-const err137 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const _errs147 = errors;
+if(typeof data47 === "string"){
+if(func0(data47) < 1){
+const err137 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err137];
 }
@@ -7260,19 +7295,9 @@ vErrors.push(err137);
 }
 errors++;
 }
-var _valid6 = _errs141 === errors;
-if(_valid6 && valid41){
-valid41 = false;
-passing6 = [passing6, 1];
 }
 else {
-if(_valid6){
-valid41 = true;
-passing6 = 1;
-}
-}
-if(!valid41){
-const err138 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
+const err138 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err138];
 }
@@ -7281,22 +7306,20 @@ vErrors.push(err138);
 }
 errors++;
 }
-else {
-errors = _errs133;
-if(vErrors !== null){
-if(_errs133){
-vErrors.length = _errs133;
+var _valid7 = _errs147 === errors;
+if(_valid7 && valid46){
+valid46 = false;
+passing7 = [passing7, 1];
 }
 else {
-vErrors = null;
+if(_valid7){
+valid46 = true;
+passing7 = 1;
 }
-}
-}
-}
-if(data.interpolation !== undefined){
-let data49 = data.interpolation;
-if(!((data49 === "linear") || (data49 === "monotone-cubic"))){
-const err139 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
+const _errs149 = errors;
+if(data47 && typeof data47 == "object" && !Array.isArray(data47)){
+if(data47.speeds_mps === undefined){
+const err139 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err139];
 }
@@ -7305,13 +7328,8 @@ vErrors.push(err139);
 }
 errors++;
 }
-}
-if(data.controller !== undefined){
-let data50 = data.controller;
-if(data50 && typeof data50 == "object" && !Array.isArray(data50)){
-for(const key13 in data50){
-if(!(((((key13 === "form") || (key13 === "derivativeFilter")) || (key13 === "sampleTime_s")) || (key13 === "discretisation")) || (key13 === "computationLatency_s"))){
-const err140 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
+if(data47.values === undefined){
+const err140 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err140];
 }
@@ -7320,10 +7338,9 @@ vErrors.push(err140);
 }
 errors++;
 }
-}
-if(data50.form !== undefined){
-if(!(data50.form === "parallel")){
-const err141 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
+for(const key11 in data47){
+if(!((key11 === "speeds_mps") || (key11 === "values"))){
+const err141 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err141];
 }
@@ -7333,11 +7350,11 @@ vErrors.push(err141);
 errors++;
 }
 }
-if(data50.derivativeFilter !== undefined){
-let data52 = data50.derivativeFilter;
-if((typeof data52 == "number") && (isFinite(data52))){
-if(data52 <= 0 || isNaN(data52)){
-const err142 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data47.speeds_mps !== undefined){
+let data48 = data47.speeds_mps;
+if(Array.isArray(data48)){
+if(data48.length < 1){
+const err142 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err142];
 }
@@ -7346,9 +7363,12 @@ vErrors.push(err142);
 }
 errors++;
 }
-}
-else {
-const err143 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len14 = data48.length;
+for(let i14=0; i14<len14; i14++){
+let data49 = data48[i14];
+if((typeof data49 == "number") && (isFinite(data49))){
+if(data49 < 0 || isNaN(data49)){
+const err143 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err143];
 }
@@ -7358,11 +7378,8 @@ vErrors.push(err143);
 errors++;
 }
 }
-if(data50.sampleTime_s !== undefined){
-let data53 = data50.sampleTime_s;
-if((typeof data53 == "number") && (isFinite(data53))){
-if(data53 <= 0 || isNaN(data53)){
-const err144 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err144 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err144];
 }
@@ -7372,8 +7389,9 @@ vErrors.push(err144);
 errors++;
 }
 }
+}
 else {
-const err145 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err145 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err145];
 }
@@ -7383,10 +7401,11 @@ vErrors.push(err145);
 errors++;
 }
 }
-if(data50.discretisation !== undefined){
-let data54 = data50.discretisation;
-if(!((data54 === "tustin") || (data54 === "backward-euler"))){
-const err146 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
+if(data47.values !== undefined){
+let data50 = data47.values;
+if(Array.isArray(data50)){
+if(data50.length < 1){
+const err146 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err146];
 }
@@ -7395,12 +7414,12 @@ vErrors.push(err146);
 }
 errors++;
 }
-}
-if(data50.computationLatency_s !== undefined){
-let data55 = data50.computationLatency_s;
-if((typeof data55 == "number") && (isFinite(data55))){
-if(data55 < 0 || isNaN(data55)){
-const err147 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const len15 = data50.length;
+for(let i15=0; i15<len15; i15++){
+let data51 = data50[i15];
+if((typeof data51 == "number") && (isFinite(data51))){
+if(data51 <= 0 || isNaN(data51)){
+const err147 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err147];
 }
@@ -7411,7 +7430,7 @@ errors++;
 }
 }
 else {
-const err148 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err148 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err148];
 }
@@ -7423,7 +7442,7 @@ errors++;
 }
 }
 else {
-const err149 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err149 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err149];
 }
@@ -7433,12 +7452,9 @@ vErrors.push(err149);
 errors++;
 }
 }
-if(data.acceptance !== undefined){
-let data56 = data.acceptance;
-if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
-for(const key14 in data56){
-if(!(((((key14 === "maximumLowerGainMargin_dB") || (key14 === "minimumUpperGainMargin_dB")) || (key14 === "minimumPhaseMargin_deg")) || (key14 === "maximumSensitivityPeak")) || (key14 === "delayMarginRoom_s"))){
-const err150 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
+}
+else {
+const err150 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err150];
 }
@@ -7447,12 +7463,20 @@ vErrors.push(err150);
 }
 errors++;
 }
+var _valid7 = _errs149 === errors;
+if(_valid7 && valid46){
+valid46 = false;
+passing7 = [passing7, 2];
 }
-if(data56.maximumLowerGainMargin_dB !== undefined){
-let data57 = data56.maximumLowerGainMargin_dB;
-if((typeof data57 == "number") && (isFinite(data57))){
-if(data57 > 0 || isNaN(data57)){
-const err151 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+else {
+if(_valid7){
+valid46 = true;
+passing7 = 2;
+}
+}
+}
+if(!valid46){
+const err151 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf",keyword:"oneOf",params:{passingSchemas: passing7},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err151];
 }
@@ -7461,9 +7485,21 @@ vErrors.push(err151);
 }
 errors++;
 }
+else {
+errors = _errs144;
+if(vErrors !== null){
+if(_errs144){
+vErrors.length = _errs144;
 }
 else {
-const err152 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+}
+else {
+const err152 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err152];
 }
@@ -7473,11 +7509,9 @@ vErrors.push(err152);
 errors++;
 }
 }
-if(data56.minimumUpperGainMargin_dB !== undefined){
-let data58 = data56.minimumUpperGainMargin_dB;
-if((typeof data58 == "number") && (isFinite(data58))){
-if(data58 < 0 || isNaN(data58)){
-const err153 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err153 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err153];
 }
@@ -7487,8 +7521,12 @@ vErrors.push(err153);
 errors++;
 }
 }
-else {
-const err154 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data.speeds !== undefined){
+let data52 = data.speeds;
+if(data52 && typeof data52 == "object" && !Array.isArray(data52)){
+for(const key12 in data52){
+if(!(((key12 === "minimum_mps") || (key12 === "maximum_mps")) || (key12 === "lowSpeedFloor_mps"))){
+const err154 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err154];
 }
@@ -7498,11 +7536,11 @@ vErrors.push(err154);
 errors++;
 }
 }
-if(data56.minimumPhaseMargin_deg !== undefined){
-let data59 = data56.minimumPhaseMargin_deg;
-if((typeof data59 == "number") && (isFinite(data59))){
-if(data59 > 180 || isNaN(data59)){
-const err155 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
+if(data52.minimum_mps !== undefined){
+let data53 = data52.minimum_mps;
+if((typeof data53 == "number") && (isFinite(data53))){
+if(data53 < 0 || isNaN(data53)){
+const err155 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err155];
 }
@@ -7511,8 +7549,9 @@ vErrors.push(err155);
 }
 errors++;
 }
-if(data59 < 0 || isNaN(data59)){
-const err156 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err156 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err156];
 }
@@ -7522,8 +7561,11 @@ vErrors.push(err156);
 errors++;
 }
 }
-else {
-const err157 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data52.maximum_mps !== undefined){
+let data54 = data52.maximum_mps;
+if((typeof data54 == "number") && (isFinite(data54))){
+if(data54 <= 0 || isNaN(data54)){
+const err157 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err157];
 }
@@ -7533,11 +7575,8 @@ vErrors.push(err157);
 errors++;
 }
 }
-if(data56.maximumSensitivityPeak !== undefined){
-let data60 = data56.maximumSensitivityPeak;
-if((typeof data60 == "number") && (isFinite(data60))){
-if(data60 < 1 || isNaN(data60)){
-const err158 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+else {
+const err158 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err158];
 }
@@ -7547,8 +7586,11 @@ vErrors.push(err158);
 errors++;
 }
 }
-else {
-const err159 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data52.lowSpeedFloor_mps !== undefined){
+let data55 = data52.lowSpeedFloor_mps;
+if((typeof data55 == "number") && (isFinite(data55))){
+if(data55 <= 0 || isNaN(data55)){
+const err159 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err159];
 }
@@ -7558,11 +7600,8 @@ vErrors.push(err159);
 errors++;
 }
 }
-if(data56.delayMarginRoom_s !== undefined){
-let data61 = data56.delayMarginRoom_s;
-if((typeof data61 == "number") && (isFinite(data61))){
-if(data61 < 0 || isNaN(data61)){
-const err160 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err160 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err160];
 }
@@ -7572,8 +7611,9 @@ vErrors.push(err160);
 errors++;
 }
 }
+}
 else {
-const err161 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err161 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err161];
 }
@@ -7583,9 +7623,15 @@ vErrors.push(err161);
 errors++;
 }
 }
-}
-else {
-const err162 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.breakpoints !== undefined){
+let data56 = data.breakpoints;
+const _errs170 = errors;
+let valid53 = false;
+let passing8 = null;
+const _errs171 = errors;
+if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
+if(data56.speeds_mps === undefined){
+const err162 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err162];
 }
@@ -7594,13 +7640,9 @@ vErrors.push(err162);
 }
 errors++;
 }
-}
-if(data.check !== undefined){
-let data62 = data.check;
-if(data62 && typeof data62 == "object" && !Array.isArray(data62)){
-for(const key15 in data62){
-if(!(((key15 === "gridSpeeds") || (key15 === "maxInsertedBreakpoints")) || (key15 === "model"))){
-const err163 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+for(const key13 in data56){
+if(!(key13 === "speeds_mps")){
+const err163 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err163];
 }
@@ -7610,10 +7652,11 @@ vErrors.push(err163);
 errors++;
 }
 }
-if(data62.gridSpeeds !== undefined){
-let data63 = data62.gridSpeeds;
-if(!(((typeof data63 == "number") && (!(data63 % 1) && !isNaN(data63))) && (isFinite(data63)))){
-const err164 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data56.speeds_mps !== undefined){
+let data57 = data56.speeds_mps;
+if(Array.isArray(data57)){
+if(data57.length < 1){
+const err164 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err164];
 }
@@ -7622,9 +7665,12 @@ vErrors.push(err164);
 }
 errors++;
 }
-if((typeof data63 == "number") && (isFinite(data63))){
-if(data63 > 100000 || isNaN(data63)){
-const err165 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+const len16 = data57.length;
+for(let i16=0; i16<len16; i16++){
+let data58 = data57[i16];
+if((typeof data58 == "number") && (isFinite(data58))){
+if(data58 <= 0 || isNaN(data58)){
+const err165 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err165];
 }
@@ -7633,8 +7679,9 @@ vErrors.push(err165);
 }
 errors++;
 }
-if(data63 < 2 || isNaN(data63)){
-const err166 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+}
+else {
+const err166 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err166];
 }
@@ -7645,10 +7692,8 @@ errors++;
 }
 }
 }
-if(data62.maxInsertedBreakpoints !== undefined){
-let data64 = data62.maxInsertedBreakpoints;
-if(!(((typeof data64 == "number") && (!(data64 % 1) && !isNaN(data64))) && (isFinite(data64)))){
-const err167 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err167 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err167];
 }
@@ -7657,9 +7702,10 @@ vErrors.push(err167);
 }
 errors++;
 }
-if((typeof data64 == "number") && (isFinite(data64))){
-if(data64 > 100 || isNaN(data64)){
-const err168 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+}
+}
+else {
+const err168 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err168];
 }
@@ -7668,8 +7714,16 @@ vErrors.push(err168);
 }
 errors++;
 }
-if(data64 < 0 || isNaN(data64)){
-const err169 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid8 = _errs171 === errors;
+if(_valid8){
+valid53 = true;
+passing8 = 0;
+}
+const _errs178 = errors;
+if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
+for(const key14 in data56){
+if(!((key14 === "count") || (key14 === "spacing"))){
+const err169 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err169];
 }
@@ -7679,11 +7733,10 @@ vErrors.push(err169);
 errors++;
 }
 }
-}
-if(data62.model !== undefined){
-let data65 = data62.model;
-if(!((data65 === "single-track") || (data65 === "interpolated-lumped"))){
-const err170 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data56.count !== undefined){
+let data59 = data56.count;
+if(!(((typeof data59 == "number") && (!(data59 % 1) && !isNaN(data59))) && (isFinite(data59)))){
+const err170 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err170];
 }
@@ -7692,10 +7745,9 @@ vErrors.push(err170);
 }
 errors++;
 }
-}
-}
-else {
-const err171 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data59 == "number") && (isFinite(data59))){
+if(data59 > 100 || isNaN(data59)){
+const err171 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
 if(vErrors === null){
 vErrors = [err171];
 }
@@ -7704,10 +7756,8 @@ vErrors.push(err171);
 }
 errors++;
 }
-}
-}
-else {
-const err172 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data59 < 1 || isNaN(data59)){
+const err172 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err172];
 }
@@ -7716,12 +7766,632 @@ vErrors.push(err172);
 }
 errors++;
 }
+}
+}
+if(data56.spacing !== undefined){
+let data60 = data56.spacing;
+if(!((data60 === "geometric") || (data60 === "linear"))){
+const err173 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err173];
+}
+else {
+vErrors.push(err173);
+}
+errors++;
+}
+}
+}
+else {
+const err174 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err174];
+}
+else {
+vErrors.push(err174);
+}
+errors++;
+}
+var _valid8 = _errs178 === errors;
+if(_valid8 && valid53){
+valid53 = false;
+passing8 = [passing8, 1];
+}
+else {
+if(_valid8){
+valid53 = true;
+passing8 = 1;
+}
+}
+if(!valid53){
+const err175 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing8},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err175];
+}
+else {
+vErrors.push(err175);
+}
+errors++;
+}
+else {
+errors = _errs170;
+if(vErrors !== null){
+if(_errs170){
+vErrors.length = _errs170;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data.interpolation !== undefined){
+let data61 = data.interpolation;
+if(!((data61 === "linear") || (data61 === "monotone-cubic"))){
+const err176 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err176];
+}
+else {
+vErrors.push(err176);
+}
+errors++;
+}
+}
+if(data.controller !== undefined){
+let data62 = data.controller;
+if(data62 && typeof data62 == "object" && !Array.isArray(data62)){
+for(const key15 in data62){
+if(!((((((key15 === "form") || (key15 === "derivativeFilter")) || (key15 === "sampleTime_s")) || (key15 === "discretisation")) || (key15 === "computationLatency_s")) || (key15 === "antiWindup"))){
+const err177 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err177];
+}
+else {
+vErrors.push(err177);
+}
+errors++;
+}
+}
+if(data62.form !== undefined){
+if(!(data62.form === "parallel")){
+const err178 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err178];
+}
+else {
+vErrors.push(err178);
+}
+errors++;
+}
+}
+if(data62.derivativeFilter !== undefined){
+let data64 = data62.derivativeFilter;
+if((typeof data64 == "number") && (isFinite(data64))){
+if(data64 <= 0 || isNaN(data64)){
+const err179 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err179];
+}
+else {
+vErrors.push(err179);
+}
+errors++;
+}
+}
+else {
+const err180 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err180];
+}
+else {
+vErrors.push(err180);
+}
+errors++;
+}
+}
+if(data62.sampleTime_s !== undefined){
+let data65 = data62.sampleTime_s;
+if((typeof data65 == "number") && (isFinite(data65))){
+if(data65 <= 0 || isNaN(data65)){
+const err181 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err181];
+}
+else {
+vErrors.push(err181);
+}
+errors++;
+}
+}
+else {
+const err182 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err182];
+}
+else {
+vErrors.push(err182);
+}
+errors++;
+}
+}
+if(data62.discretisation !== undefined){
+let data66 = data62.discretisation;
+if(!((data66 === "tustin") || (data66 === "backward-euler"))){
+const err183 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err183];
+}
+else {
+vErrors.push(err183);
+}
+errors++;
+}
+}
+if(data62.computationLatency_s !== undefined){
+let data67 = data62.computationLatency_s;
+if((typeof data67 == "number") && (isFinite(data67))){
+if(data67 < 0 || isNaN(data67)){
+const err184 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err184];
+}
+else {
+vErrors.push(err184);
+}
+errors++;
+}
+}
+else {
+const err185 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err185];
+}
+else {
+vErrors.push(err185);
+}
+errors++;
+}
+}
+if(data62.antiWindup !== undefined){
+let data68 = data62.antiWindup;
+if(!((data68 === "conditional-integration") || (data68 === "back-calculation"))){
+const err186 = {instancePath:instancePath+"/controller/antiWindup",schemaPath:"#/properties/controller/properties/antiWindup/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.antiWindup.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err186];
+}
+else {
+vErrors.push(err186);
+}
+errors++;
+}
+}
+}
+else {
+const err187 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err187];
+}
+else {
+vErrors.push(err187);
+}
+errors++;
+}
+}
+if(data.acceptance !== undefined){
+let data69 = data.acceptance;
+if(data69 && typeof data69 == "object" && !Array.isArray(data69)){
+for(const key16 in data69){
+if(!(func18.call(schema10.properties.acceptance.properties, key16))){
+const err188 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err188];
+}
+else {
+vErrors.push(err188);
+}
+errors++;
+}
+}
+if(data69.maximumLowerGainMargin_dB !== undefined){
+let data70 = data69.maximumLowerGainMargin_dB;
+if((typeof data70 == "number") && (isFinite(data70))){
+if(data70 > 0 || isNaN(data70)){
+const err189 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err189];
+}
+else {
+vErrors.push(err189);
+}
+errors++;
+}
+}
+else {
+const err190 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err190];
+}
+else {
+vErrors.push(err190);
+}
+errors++;
+}
+}
+if(data69.minimumUpperGainMargin_dB !== undefined){
+let data71 = data69.minimumUpperGainMargin_dB;
+if((typeof data71 == "number") && (isFinite(data71))){
+if(data71 < 0 || isNaN(data71)){
+const err191 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err191];
+}
+else {
+vErrors.push(err191);
+}
+errors++;
+}
+}
+else {
+const err192 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err192];
+}
+else {
+vErrors.push(err192);
+}
+errors++;
+}
+}
+if(data69.minimumPhaseMargin_deg !== undefined){
+let data72 = data69.minimumPhaseMargin_deg;
+if((typeof data72 == "number") && (isFinite(data72))){
+if(data72 > 180 || isNaN(data72)){
+const err193 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
+if(vErrors === null){
+vErrors = [err193];
+}
+else {
+vErrors.push(err193);
+}
+errors++;
+}
+if(data72 < 0 || isNaN(data72)){
+const err194 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err194];
+}
+else {
+vErrors.push(err194);
+}
+errors++;
+}
+}
+else {
+const err195 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err195];
+}
+else {
+vErrors.push(err195);
+}
+errors++;
+}
+}
+if(data69.maximumSensitivityPeak !== undefined){
+let data73 = data69.maximumSensitivityPeak;
+if((typeof data73 == "number") && (isFinite(data73))){
+if(data73 < 1 || isNaN(data73)){
+const err196 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err196];
+}
+else {
+vErrors.push(err196);
+}
+errors++;
+}
+}
+else {
+const err197 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err197];
+}
+else {
+vErrors.push(err197);
+}
+errors++;
+}
+}
+if(data69.maximumComplementarySensitivityPeak !== undefined){
+let data74 = data69.maximumComplementarySensitivityPeak;
+if((typeof data74 == "number") && (isFinite(data74))){
+if(data74 < 1 || isNaN(data74)){
+const err198 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err198];
+}
+else {
+vErrors.push(err198);
+}
+errors++;
+}
+}
+else {
+const err199 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err199];
+}
+else {
+vErrors.push(err199);
+}
+errors++;
+}
+}
+if(data69.delayMarginRoom_s !== undefined){
+let data75 = data69.delayMarginRoom_s;
+if((typeof data75 == "number") && (isFinite(data75))){
+if(data75 < 0 || isNaN(data75)){
+const err200 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err200];
+}
+else {
+vErrors.push(err200);
+}
+errors++;
+}
+}
+else {
+const err201 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err201];
+}
+else {
+vErrors.push(err201);
+}
+errors++;
+}
+}
+if(data69.maximumOvershoot_pct !== undefined){
+let data76 = data69.maximumOvershoot_pct;
+if((typeof data76 == "number") && (isFinite(data76))){
+if(data76 < 0 || isNaN(data76)){
+const err202 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err202];
+}
+else {
+vErrors.push(err202);
+}
+errors++;
+}
+}
+else {
+const err203 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err203];
+}
+else {
+vErrors.push(err203);
+}
+errors++;
+}
+}
+if(data69.maximumRecoveryTime_s !== undefined){
+let data77 = data69.maximumRecoveryTime_s;
+if((typeof data77 == "number") && (isFinite(data77))){
+if(data77 <= 0 || isNaN(data77)){
+const err204 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err204];
+}
+else {
+vErrors.push(err204);
+}
+errors++;
+}
+}
+else {
+const err205 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err205];
+}
+else {
+vErrors.push(err205);
+}
+errors++;
+}
+}
+if(data69.maximumLaneChangeError_m !== undefined){
+let data78 = data69.maximumLaneChangeError_m;
+if((typeof data78 == "number") && (isFinite(data78))){
+if(data78 <= 0 || isNaN(data78)){
+const err206 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err206];
+}
+else {
+vErrors.push(err206);
+}
+errors++;
+}
+}
+else {
+const err207 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err207];
+}
+else {
+vErrors.push(err207);
+}
+errors++;
+}
+}
+if(data69.maximumCurveEntryError_m !== undefined){
+let data79 = data69.maximumCurveEntryError_m;
+if((typeof data79 == "number") && (isFinite(data79))){
+if(data79 <= 0 || isNaN(data79)){
+const err208 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err208];
+}
+else {
+vErrors.push(err208);
+}
+errors++;
+}
+}
+else {
+const err209 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err209];
+}
+else {
+vErrors.push(err209);
+}
+errors++;
+}
+}
+}
+else {
+const err210 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err210];
+}
+else {
+vErrors.push(err210);
+}
+errors++;
+}
+}
+if(data.check !== undefined){
+let data80 = data.check;
+if(data80 && typeof data80 == "object" && !Array.isArray(data80)){
+for(const key17 in data80){
+if(!(((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model"))){
+const err211 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err211];
+}
+else {
+vErrors.push(err211);
+}
+errors++;
+}
+}
+if(data80.gridSpeeds !== undefined){
+let data81 = data80.gridSpeeds;
+if(!(((typeof data81 == "number") && (!(data81 % 1) && !isNaN(data81))) && (isFinite(data81)))){
+const err212 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err212];
+}
+else {
+vErrors.push(err212);
+}
+errors++;
+}
+if((typeof data81 == "number") && (isFinite(data81))){
+if(data81 > 100000 || isNaN(data81)){
+const err213 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+if(vErrors === null){
+vErrors = [err213];
+}
+else {
+vErrors.push(err213);
+}
+errors++;
+}
+if(data81 < 2 || isNaN(data81)){
+const err214 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+if(vErrors === null){
+vErrors = [err214];
+}
+else {
+vErrors.push(err214);
+}
+errors++;
+}
+}
+}
+if(data80.maxInsertedBreakpoints !== undefined){
+let data82 = data80.maxInsertedBreakpoints;
+if(!(((typeof data82 == "number") && (!(data82 % 1) && !isNaN(data82))) && (isFinite(data82)))){
+const err215 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err215];
+}
+else {
+vErrors.push(err215);
+}
+errors++;
+}
+if((typeof data82 == "number") && (isFinite(data82))){
+if(data82 > 100 || isNaN(data82)){
+const err216 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+if(vErrors === null){
+vErrors = [err216];
+}
+else {
+vErrors.push(err216);
+}
+errors++;
+}
+if(data82 < 0 || isNaN(data82)){
+const err217 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err217];
+}
+else {
+vErrors.push(err217);
+}
+errors++;
+}
+}
+}
+if(data80.model !== undefined){
+let data83 = data80.model;
+if(!((data83 === "single-track") || (data83 === "interpolated-lumped"))){
+const err218 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err218];
+}
+else {
+vErrors.push(err218);
+}
+errors++;
+}
+}
+}
+else {
+const err219 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err219];
+}
+else {
+vErrors.push(err219);
+}
+errors++;
+}
+}
+}
+else {
+const err220 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err220];
+}
+else {
+vErrors.push(err220);
+}
+errors++;
+}
 validate4.errors = vErrors;
 return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":2},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
 const pattern5 = new RegExp("^/", "u");
 
 function validate5(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
@@ -7883,8 +8553,8 @@ errors++;
 }
 }
 if(data.formatVersion !== undefined){
-if(2 !== data.formatVersion){
-const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 2},message:"must be equal to constant"};
+if(3 !== data.formatVersion){
+const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 3},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -8037,7 +8707,7 @@ vErrors.push(err27);
 errors++;
 }
 for(const key2 in data7){
-if(!((((key2 === "kind") || (key2 === "referencePoint")) || (key2 === "preview_m")) || (key2 === "error"))){
+if(!(((((key2 === "kind") || (key2 === "referencePoint")) || (key2 === "preview_m")) || (key2 === "previewTime_s")) || (key2 === "error"))){
 const err28 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key2},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err28];
@@ -8099,9 +8769,11 @@ vErrors.push(err32);
 errors++;
 }
 }
-if(data7.error !== undefined){
-if(typeof data7.error !== "string"){
-const err33 = {instancePath:instancePath+"/loop/error",schemaPath:"#/properties/loop/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data7.previewTime_s !== undefined){
+let data11 = data7.previewTime_s;
+if((typeof data11 == "number") && (isFinite(data11))){
+if(data11 < 0 || isNaN(data11)){
+const err33 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -8111,9 +8783,8 @@ vErrors.push(err33);
 errors++;
 }
 }
-}
 else {
-const err34 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err34 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err34];
 }
@@ -8123,11 +8794,9 @@ vErrors.push(err34);
 errors++;
 }
 }
-if(data.controller !== undefined){
-let data12 = data.controller;
-if(data12 && typeof data12 == "object" && !Array.isArray(data12)){
-if(data12.form === undefined){
-const err35 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "form"},message:"must have required property '"+"form"+"'"};
+if(data7.error !== undefined){
+if(typeof data7.error !== "string"){
+const err35 = {instancePath:instancePath+"/loop/error",schemaPath:"#/properties/loop/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err35];
 }
@@ -8136,8 +8805,10 @@ vErrors.push(err35);
 }
 errors++;
 }
-if(data12.derivativeFilter === undefined){
-const err36 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "derivativeFilter"},message:"must have required property '"+"derivativeFilter"+"'"};
+}
+}
+else {
+const err36 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err36];
 }
@@ -8146,8 +8817,12 @@ vErrors.push(err36);
 }
 errors++;
 }
-if(data12.discretisation === undefined){
-const err37 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "discretisation"},message:"must have required property '"+"discretisation"+"'"};
+}
+if(data.controller !== undefined){
+let data13 = data.controller;
+if(data13 && typeof data13 == "object" && !Array.isArray(data13)){
+if(data13.form === undefined){
+const err37 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "form"},message:"must have required property '"+"form"+"'"};
 if(vErrors === null){
 vErrors = [err37];
 }
@@ -8156,8 +8831,8 @@ vErrors.push(err37);
 }
 errors++;
 }
-if(data12.sampleTime_s === undefined){
-const err38 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "sampleTime_s"},message:"must have required property '"+"sampleTime_s"+"'"};
+if(data13.derivativeFilter === undefined){
+const err38 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "derivativeFilter"},message:"must have required property '"+"derivativeFilter"+"'"};
 if(vErrors === null){
 vErrors = [err38];
 }
@@ -8166,8 +8841,8 @@ vErrors.push(err38);
 }
 errors++;
 }
-if(data12.computationLatency_s === undefined){
-const err39 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "computationLatency_s"},message:"must have required property '"+"computationLatency_s"+"'"};
+if(data13.discretisation === undefined){
+const err39 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "discretisation"},message:"must have required property '"+"discretisation"+"'"};
 if(vErrors === null){
 vErrors = [err39];
 }
@@ -8176,8 +8851,8 @@ vErrors.push(err39);
 }
 errors++;
 }
-if(data12.integratorClamp_rad === undefined){
-const err40 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integratorClamp_rad"},message:"must have required property '"+"integratorClamp_rad"+"'"};
+if(data13.sampleTime_s === undefined){
+const err40 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "sampleTime_s"},message:"must have required property '"+"sampleTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err40];
 }
@@ -8186,8 +8861,8 @@ vErrors.push(err40);
 }
 errors++;
 }
-if(data12.equation === undefined){
-const err41 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "equation"},message:"must have required property '"+"equation"+"'"};
+if(data13.computationLatency_s === undefined){
+const err41 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "computationLatency_s"},message:"must have required property '"+"computationLatency_s"+"'"};
 if(vErrors === null){
 vErrors = [err41];
 }
@@ -8196,8 +8871,8 @@ vErrors.push(err41);
 }
 errors++;
 }
-if(data12.update === undefined){
-const err42 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "update"},message:"must have required property '"+"update"+"'"};
+if(data13.integratorClamp_rad === undefined){
+const err42 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integratorClamp_rad"},message:"must have required property '"+"integratorClamp_rad"+"'"};
 if(vErrors === null){
 vErrors = [err42];
 }
@@ -8206,8 +8881,8 @@ vErrors.push(err42);
 }
 errors++;
 }
-if(data12.integration === undefined){
-const err43 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integration"},message:"must have required property '"+"integration"+"'"};
+if(data13.antiWindup === undefined){
+const err43 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "antiWindup"},message:"must have required property '"+"antiWindup"+"'"};
 if(vErrors === null){
 vErrors = [err43];
 }
@@ -8216,9 +8891,8 @@ vErrors.push(err43);
 }
 errors++;
 }
-for(const key3 in data12){
-if(!(func18.call(schema11.properties.controller.properties, key3))){
-const err44 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
+if(data13.equation === undefined){
+const err44 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "equation"},message:"must have required property '"+"equation"+"'"};
 if(vErrors === null){
 vErrors = [err44];
 }
@@ -8227,10 +8901,8 @@ vErrors.push(err44);
 }
 errors++;
 }
-}
-if(data12.form !== undefined){
-if("parallel" !== data12.form){
-const err45 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/const",keyword:"const",params:{allowedValue: "parallel"},message:"must be equal to constant"};
+if(data13.feedForward === undefined){
+const err45 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "feedForward"},message:"must have required property '"+"feedForward"+"'"};
 if(vErrors === null){
 vErrors = [err45];
 }
@@ -8239,12 +8911,8 @@ vErrors.push(err45);
 }
 errors++;
 }
-}
-if(data12.derivativeFilter !== undefined){
-let data14 = data12.derivativeFilter;
-if((typeof data14 == "number") && (isFinite(data14))){
-if(data14 <= 0 || isNaN(data14)){
-const err46 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data13.update === undefined){
+const err46 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "update"},message:"must have required property '"+"update"+"'"};
 if(vErrors === null){
 vErrors = [err46];
 }
@@ -8253,9 +8921,8 @@ vErrors.push(err46);
 }
 errors++;
 }
-}
-else {
-const err47 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data13.integration === undefined){
+const err47 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integration"},message:"must have required property '"+"integration"+"'"};
 if(vErrors === null){
 vErrors = [err47];
 }
@@ -8264,11 +8931,9 @@ vErrors.push(err47);
 }
 errors++;
 }
-}
-if(data12.discretisation !== undefined){
-let data15 = data12.discretisation;
-if(!((data15 === "tustin") || (data15 === "backward-euler"))){
-const err48 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema11.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
+for(const key3 in data13){
+if(!(func18.call(schema11.properties.controller.properties, key3))){
+const err48 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err48];
 }
@@ -8278,11 +8943,9 @@ vErrors.push(err48);
 errors++;
 }
 }
-if(data12.sampleTime_s !== undefined){
-let data16 = data12.sampleTime_s;
-if((typeof data16 == "number") && (isFinite(data16))){
-if(data16 <= 0 || isNaN(data16)){
-const err49 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data13.form !== undefined){
+if("parallel" !== data13.form){
+const err49 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/const",keyword:"const",params:{allowedValue: "parallel"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err49];
 }
@@ -8292,8 +8955,11 @@ vErrors.push(err49);
 errors++;
 }
 }
-else {
-const err50 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data13.derivativeFilter !== undefined){
+let data15 = data13.derivativeFilter;
+if((typeof data15 == "number") && (isFinite(data15))){
+if(data15 <= 0 || isNaN(data15)){
+const err50 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err50];
 }
@@ -8303,11 +8969,8 @@ vErrors.push(err50);
 errors++;
 }
 }
-if(data12.computationLatency_s !== undefined){
-let data17 = data12.computationLatency_s;
-if((typeof data17 == "number") && (isFinite(data17))){
-if(data17 < 0 || isNaN(data17)){
-const err51 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err51 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err51];
 }
@@ -8317,8 +8980,10 @@ vErrors.push(err51);
 errors++;
 }
 }
-else {
-const err52 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data13.discretisation !== undefined){
+let data16 = data13.discretisation;
+if(!((data16 === "tustin") || (data16 === "backward-euler"))){
+const err52 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema11.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err52];
 }
@@ -8328,11 +8993,11 @@ vErrors.push(err52);
 errors++;
 }
 }
-if(data12.integratorClamp_rad !== undefined){
-let data18 = data12.integratorClamp_rad;
-if((typeof data18 == "number") && (isFinite(data18))){
-if(data18 <= 0 || isNaN(data18)){
-const err53 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data13.sampleTime_s !== undefined){
+let data17 = data13.sampleTime_s;
+if((typeof data17 == "number") && (isFinite(data17))){
+if(data17 <= 0 || isNaN(data17)){
+const err53 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err53];
 }
@@ -8343,7 +9008,7 @@ errors++;
 }
 }
 else {
-const err54 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err54 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err54];
 }
@@ -8353,9 +9018,11 @@ vErrors.push(err54);
 errors++;
 }
 }
-if(data12.equation !== undefined){
-if(typeof data12.equation !== "string"){
-const err55 = {instancePath:instancePath+"/controller/equation",schemaPath:"#/properties/controller/properties/equation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data13.computationLatency_s !== undefined){
+let data18 = data13.computationLatency_s;
+if((typeof data18 == "number") && (isFinite(data18))){
+if(data18 < 0 || isNaN(data18)){
+const err55 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err55];
 }
@@ -8365,13 +9032,8 @@ vErrors.push(err55);
 errors++;
 }
 }
-if(data12.update !== undefined){
-let data20 = data12.update;
-if(Array.isArray(data20)){
-const len0 = data20.length;
-for(let i0=0; i0<len0; i0++){
-if(typeof data20[i0] !== "string"){
-const err56 = {instancePath:instancePath+"/controller/update/" + i0,schemaPath:"#/properties/controller/properties/update/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+else {
+const err56 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err56];
 }
@@ -8381,9 +9043,11 @@ vErrors.push(err56);
 errors++;
 }
 }
-}
-else {
-const err57 = {instancePath:instancePath+"/controller/update",schemaPath:"#/properties/controller/properties/update/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data13.integratorClamp_rad !== undefined){
+let data19 = data13.integratorClamp_rad;
+if((typeof data19 == "number") && (isFinite(data19))){
+if(data19 <= 0 || isNaN(data19)){
+const err57 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err57];
 }
@@ -8393,9 +9057,8 @@ vErrors.push(err57);
 errors++;
 }
 }
-if(data12.integration !== undefined){
-if(typeof data12.integration !== "string"){
-const err58 = {instancePath:instancePath+"/controller/integration",schemaPath:"#/properties/controller/properties/integration/type",keyword:"type",params:{type: "string"},message:"must be string"};
+else {
+const err58 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err58];
 }
@@ -8405,9 +9068,10 @@ vErrors.push(err58);
 errors++;
 }
 }
-}
-else {
-const err59 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data13.antiWindup !== undefined){
+let data20 = data13.antiWindup;
+if(!((data20 === "conditional-integration") || (data20 === "back-calculation"))){
+const err59 = {instancePath:instancePath+"/controller/antiWindup",schemaPath:"#/properties/controller/properties/antiWindup/enum",keyword:"enum",params:{allowedValues: schema11.properties.controller.properties.antiWindup.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err59];
 }
@@ -8417,11 +9081,9 @@ vErrors.push(err59);
 errors++;
 }
 }
-if(data.interpolation !== undefined){
-let data23 = data.interpolation;
-if(data23 && typeof data23 == "object" && !Array.isArray(data23)){
-if(data23.method === undefined){
-const err60 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
+if(data13.equation !== undefined){
+if(typeof data13.equation !== "string"){
+const err60 = {instancePath:instancePath+"/controller/equation",schemaPath:"#/properties/controller/properties/equation/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err60];
 }
@@ -8430,8 +9092,10 @@ vErrors.push(err60);
 }
 errors++;
 }
-if(data23.outOfRange === undefined){
-const err61 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "outOfRange"},message:"must have required property '"+"outOfRange"+"'"};
+}
+if(data13.feedForward !== undefined){
+if(typeof data13.feedForward !== "string"){
+const err61 = {instancePath:instancePath+"/controller/feedForward",schemaPath:"#/properties/controller/properties/feedForward/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err61];
 }
@@ -8440,8 +9104,14 @@ vErrors.push(err61);
 }
 errors++;
 }
-if(data23.lowSpeedFloor_mps === undefined){
-const err62 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "lowSpeedFloor_mps"},message:"must have required property '"+"lowSpeedFloor_mps"+"'"};
+}
+if(data13.update !== undefined){
+let data23 = data13.update;
+if(Array.isArray(data23)){
+const len0 = data23.length;
+for(let i0=0; i0<len0; i0++){
+if(typeof data23[i0] !== "string"){
+const err62 = {instancePath:instancePath+"/controller/update/" + i0,schemaPath:"#/properties/controller/properties/update/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err62];
 }
@@ -8450,8 +9120,10 @@ vErrors.push(err62);
 }
 errors++;
 }
-if(data23.description === undefined){
-const err63 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
+}
+}
+else {
+const err63 = {instancePath:instancePath+"/controller/update",schemaPath:"#/properties/controller/properties/update/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err63];
 }
@@ -8460,9 +9132,10 @@ vErrors.push(err63);
 }
 errors++;
 }
-for(const key4 in data23){
-if(!((((key4 === "method") || (key4 === "outOfRange")) || (key4 === "lowSpeedFloor_mps")) || (key4 === "description"))){
-const err64 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
+}
+if(data13.integration !== undefined){
+if(typeof data13.integration !== "string"){
+const err64 = {instancePath:instancePath+"/controller/integration",schemaPath:"#/properties/controller/properties/integration/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err64];
 }
@@ -8472,10 +9145,9 @@ vErrors.push(err64);
 errors++;
 }
 }
-if(data23.method !== undefined){
-let data24 = data23.method;
-if(!((data24 === "linear") || (data24 === "monotone-cubic"))){
-const err65 = {instancePath:instancePath+"/interpolation/method",schemaPath:"#/properties/interpolation/properties/method/enum",keyword:"enum",params:{allowedValues: schema11.properties.interpolation.properties.method.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err65 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err65];
 }
@@ -8485,9 +9157,11 @@ vErrors.push(err65);
 errors++;
 }
 }
-if(data23.outOfRange !== undefined){
-if("clamp" !== data23.outOfRange){
-const err66 = {instancePath:instancePath+"/interpolation/outOfRange",schemaPath:"#/properties/interpolation/properties/outOfRange/const",keyword:"const",params:{allowedValue: "clamp"},message:"must be equal to constant"};
+if(data.interpolation !== undefined){
+let data26 = data.interpolation;
+if(data26 && typeof data26 == "object" && !Array.isArray(data26)){
+if(data26.method === undefined){
+const err66 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
 if(vErrors === null){
 vErrors = [err66];
 }
@@ -8496,12 +9170,8 @@ vErrors.push(err66);
 }
 errors++;
 }
-}
-if(data23.lowSpeedFloor_mps !== undefined){
-let data26 = data23.lowSpeedFloor_mps;
-if((typeof data26 == "number") && (isFinite(data26))){
-if(data26 < 0 || isNaN(data26)){
-const err67 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data26.outOfRange === undefined){
+const err67 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "outOfRange"},message:"must have required property '"+"outOfRange"+"'"};
 if(vErrors === null){
 vErrors = [err67];
 }
@@ -8510,9 +9180,8 @@ vErrors.push(err67);
 }
 errors++;
 }
-}
-else {
-const err68 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data26.lowSpeedFloor_mps === undefined){
+const err68 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "lowSpeedFloor_mps"},message:"must have required property '"+"lowSpeedFloor_mps"+"'"};
 if(vErrors === null){
 vErrors = [err68];
 }
@@ -8521,10 +9190,8 @@ vErrors.push(err68);
 }
 errors++;
 }
-}
-if(data23.description !== undefined){
-if(typeof data23.description !== "string"){
-const err69 = {instancePath:instancePath+"/interpolation/description",schemaPath:"#/properties/interpolation/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data26.description === undefined){
+const err69 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
 if(vErrors === null){
 vErrors = [err69];
 }
@@ -8533,10 +9200,9 @@ vErrors.push(err69);
 }
 errors++;
 }
-}
-}
-else {
-const err70 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key4 in data26){
+if(!((((key4 === "method") || (key4 === "outOfRange")) || (key4 === "lowSpeedFloor_mps")) || (key4 === "description"))){
+const err70 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err70];
 }
@@ -8546,11 +9212,10 @@ vErrors.push(err70);
 errors++;
 }
 }
-if(data.units !== undefined){
-let data28 = data.units;
-if(data28 && typeof data28 == "object" && !Array.isArray(data28)){
-if(data28.speed === undefined){
-const err71 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "speed"},message:"must have required property '"+"speed"+"'"};
+if(data26.method !== undefined){
+let data27 = data26.method;
+if(!((data27 === "linear") || (data27 === "monotone-cubic"))){
+const err71 = {instancePath:instancePath+"/interpolation/method",schemaPath:"#/properties/interpolation/properties/method/enum",keyword:"enum",params:{allowedValues: schema11.properties.interpolation.properties.method.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err71];
 }
@@ -8559,8 +9224,10 @@ vErrors.push(err71);
 }
 errors++;
 }
-if(data28.error === undefined){
-const err72 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "error"},message:"must have required property '"+"error"+"'"};
+}
+if(data26.outOfRange !== undefined){
+if("clamp" !== data26.outOfRange){
+const err72 = {instancePath:instancePath+"/interpolation/outOfRange",schemaPath:"#/properties/interpolation/properties/outOfRange/const",keyword:"const",params:{allowedValue: "clamp"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err72];
 }
@@ -8569,8 +9236,12 @@ vErrors.push(err72);
 }
 errors++;
 }
-if(data28.output === undefined){
-const err73 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "output"},message:"must have required property '"+"output"+"'"};
+}
+if(data26.lowSpeedFloor_mps !== undefined){
+let data29 = data26.lowSpeedFloor_mps;
+if((typeof data29 == "number") && (isFinite(data29))){
+if(data29 < 0 || isNaN(data29)){
+const err73 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err73];
 }
@@ -8579,8 +9250,9 @@ vErrors.push(err73);
 }
 errors++;
 }
-if(data28.kp === undefined){
-const err74 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
+}
+else {
+const err74 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err74];
 }
@@ -8589,8 +9261,10 @@ vErrors.push(err74);
 }
 errors++;
 }
-if(data28.ki === undefined){
-const err75 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
+}
+if(data26.description !== undefined){
+if(typeof data26.description !== "string"){
+const err75 = {instancePath:instancePath+"/interpolation/description",schemaPath:"#/properties/interpolation/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err75];
 }
@@ -8599,8 +9273,10 @@ vErrors.push(err75);
 }
 errors++;
 }
-if(data28.kd === undefined){
-const err76 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
+}
+}
+else {
+const err76 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err76];
 }
@@ -8609,9 +9285,12 @@ vErrors.push(err76);
 }
 errors++;
 }
-for(const key5 in data28){
-if(!((((((key5 === "speed") || (key5 === "error")) || (key5 === "output")) || (key5 === "kp")) || (key5 === "ki")) || (key5 === "kd"))){
-const err77 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
+}
+if(data.units !== undefined){
+let data31 = data.units;
+if(data31 && typeof data31 == "object" && !Array.isArray(data31)){
+if(data31.speed === undefined){
+const err77 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "speed"},message:"must have required property '"+"speed"+"'"};
 if(vErrors === null){
 vErrors = [err77];
 }
@@ -8620,10 +9299,8 @@ vErrors.push(err77);
 }
 errors++;
 }
-}
-if(data28.speed !== undefined){
-if("m/s" !== data28.speed){
-const err78 = {instancePath:instancePath+"/units/speed",schemaPath:"#/properties/units/properties/speed/const",keyword:"const",params:{allowedValue: "m/s"},message:"must be equal to constant"};
+if(data31.error === undefined){
+const err78 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "error"},message:"must have required property '"+"error"+"'"};
 if(vErrors === null){
 vErrors = [err78];
 }
@@ -8632,10 +9309,8 @@ vErrors.push(err78);
 }
 errors++;
 }
-}
-if(data28.error !== undefined){
-if(typeof data28.error !== "string"){
-const err79 = {instancePath:instancePath+"/units/error",schemaPath:"#/properties/units/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.output === undefined){
+const err79 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "output"},message:"must have required property '"+"output"+"'"};
 if(vErrors === null){
 vErrors = [err79];
 }
@@ -8644,10 +9319,8 @@ vErrors.push(err79);
 }
 errors++;
 }
-}
-if(data28.output !== undefined){
-if("rad" !== data28.output){
-const err80 = {instancePath:instancePath+"/units/output",schemaPath:"#/properties/units/properties/output/const",keyword:"const",params:{allowedValue: "rad"},message:"must be equal to constant"};
+if(data31.kp === undefined){
+const err80 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
 if(vErrors === null){
 vErrors = [err80];
 }
@@ -8656,10 +9329,8 @@ vErrors.push(err80);
 }
 errors++;
 }
-}
-if(data28.kp !== undefined){
-if(typeof data28.kp !== "string"){
-const err81 = {instancePath:instancePath+"/units/kp",schemaPath:"#/properties/units/properties/kp/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.ki === undefined){
+const err81 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
 if(vErrors === null){
 vErrors = [err81];
 }
@@ -8668,10 +9339,8 @@ vErrors.push(err81);
 }
 errors++;
 }
-}
-if(data28.ki !== undefined){
-if(typeof data28.ki !== "string"){
-const err82 = {instancePath:instancePath+"/units/ki",schemaPath:"#/properties/units/properties/ki/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.kd === undefined){
+const err82 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
 if(vErrors === null){
 vErrors = [err82];
 }
@@ -8680,10 +9349,8 @@ vErrors.push(err82);
 }
 errors++;
 }
-}
-if(data28.kd !== undefined){
-if(typeof data28.kd !== "string"){
-const err83 = {instancePath:instancePath+"/units/kd",schemaPath:"#/properties/units/properties/kd/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.feedForward === undefined){
+const err83 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "feedForward"},message:"must have required property '"+"feedForward"+"'"};
 if(vErrors === null){
 vErrors = [err83];
 }
@@ -8692,10 +9359,8 @@ vErrors.push(err83);
 }
 errors++;
 }
-}
-}
-else {
-const err84 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data31.feedForwardInput === undefined){
+const err84 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "feedForwardInput"},message:"must have required property '"+"feedForwardInput"+"'"};
 if(vErrors === null){
 vErrors = [err84];
 }
@@ -8704,12 +9369,9 @@ vErrors.push(err84);
 }
 errors++;
 }
-}
-if(data.breakpoints !== undefined){
-let data35 = data.breakpoints;
-if(Array.isArray(data35)){
-if(data35.length < 1){
-const err85 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key5 in data31){
+if(!((((((((key5 === "speed") || (key5 === "error")) || (key5 === "output")) || (key5 === "kp")) || (key5 === "ki")) || (key5 === "kd")) || (key5 === "feedForward")) || (key5 === "feedForwardInput"))){
+const err85 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err85];
 }
@@ -8718,12 +9380,10 @@ vErrors.push(err85);
 }
 errors++;
 }
-const len1 = data35.length;
-for(let i1=0; i1<len1; i1++){
-let data36 = data35[i1];
-if(data36 && typeof data36 == "object" && !Array.isArray(data36)){
-if(data36.speed_mps === undefined){
-const err86 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+if(data31.speed !== undefined){
+if("m/s" !== data31.speed){
+const err86 = {instancePath:instancePath+"/units/speed",schemaPath:"#/properties/units/properties/speed/const",keyword:"const",params:{allowedValue: "m/s"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err86];
 }
@@ -8732,8 +9392,10 @@ vErrors.push(err86);
 }
 errors++;
 }
-if(data36.kp === undefined){
-const err87 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
+}
+if(data31.error !== undefined){
+if(typeof data31.error !== "string"){
+const err87 = {instancePath:instancePath+"/units/error",schemaPath:"#/properties/units/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err87];
 }
@@ -8742,8 +9404,10 @@ vErrors.push(err87);
 }
 errors++;
 }
-if(data36.ki === undefined){
-const err88 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
+}
+if(data31.output !== undefined){
+if("rad" !== data31.output){
+const err88 = {instancePath:instancePath+"/units/output",schemaPath:"#/properties/units/properties/output/const",keyword:"const",params:{allowedValue: "rad"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err88];
 }
@@ -8752,8 +9416,10 @@ vErrors.push(err88);
 }
 errors++;
 }
-if(data36.kd === undefined){
-const err89 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
+}
+if(data31.kp !== undefined){
+if(typeof data31.kp !== "string"){
+const err89 = {instancePath:instancePath+"/units/kp",schemaPath:"#/properties/units/properties/kp/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err89];
 }
@@ -8762,8 +9428,10 @@ vErrors.push(err89);
 }
 errors++;
 }
-if(data36.insertedByRefinement === undefined){
-const err90 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "insertedByRefinement"},message:"must have required property '"+"insertedByRefinement"+"'"};
+}
+if(data31.ki !== undefined){
+if(typeof data31.ki !== "string"){
+const err90 = {instancePath:instancePath+"/units/ki",schemaPath:"#/properties/units/properties/ki/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err90];
 }
@@ -8772,8 +9440,10 @@ vErrors.push(err90);
 }
 errors++;
 }
-if(data36.margins === undefined){
-const err91 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "margins"},message:"must have required property '"+"margins"+"'"};
+}
+if(data31.kd !== undefined){
+if(typeof data31.kd !== "string"){
+const err91 = {instancePath:instancePath+"/units/kd",schemaPath:"#/properties/units/properties/kd/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err91];
 }
@@ -8782,9 +9452,10 @@ vErrors.push(err91);
 }
 errors++;
 }
-for(const key6 in data36){
-if(!((((((key6 === "speed_mps") || (key6 === "kp")) || (key6 === "ki")) || (key6 === "kd")) || (key6 === "insertedByRefinement")) || (key6 === "margins"))){
-const err92 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+}
+if(data31.feedForward !== undefined){
+if(typeof data31.feedForward !== "string"){
+const err92 = {instancePath:instancePath+"/units/feedForward",schemaPath:"#/properties/units/properties/feedForward/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err92];
 }
@@ -8794,11 +9465,9 @@ vErrors.push(err92);
 errors++;
 }
 }
-if(data36.speed_mps !== undefined){
-let data37 = data36.speed_mps;
-if((typeof data37 == "number") && (isFinite(data37))){
-if(data37 < 0 || isNaN(data37)){
-const err93 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data31.feedForwardInput !== undefined){
+if(typeof data31.feedForwardInput !== "string"){
+const err93 = {instancePath:instancePath+"/units/feedForwardInput",schemaPath:"#/properties/units/properties/feedForwardInput/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err93];
 }
@@ -8808,8 +9477,9 @@ vErrors.push(err93);
 errors++;
 }
 }
+}
 else {
-const err94 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err94 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err94];
 }
@@ -8819,10 +9489,11 @@ vErrors.push(err94);
 errors++;
 }
 }
-if(data36.kp !== undefined){
-let data38 = data36.kp;
-if(!((typeof data38 == "number") && (isFinite(data38)))){
-const err95 = {instancePath:instancePath+"/breakpoints/" + i1+"/kp",schemaPath:"#/properties/breakpoints/items/properties/kp/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data.breakpoints !== undefined){
+let data40 = data.breakpoints;
+if(Array.isArray(data40)){
+if(data40.length < 1){
+const err95 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err95];
 }
@@ -8831,11 +9502,12 @@ vErrors.push(err95);
 }
 errors++;
 }
-}
-if(data36.ki !== undefined){
-let data39 = data36.ki;
-if(!((typeof data39 == "number") && (isFinite(data39)))){
-const err96 = {instancePath:instancePath+"/breakpoints/" + i1+"/ki",schemaPath:"#/properties/breakpoints/items/properties/ki/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len1 = data40.length;
+for(let i1=0; i1<len1; i1++){
+let data41 = data40[i1];
+if(data41 && typeof data41 == "object" && !Array.isArray(data41)){
+if(data41.speed_mps === undefined){
+const err96 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err96];
 }
@@ -8844,11 +9516,8 @@ vErrors.push(err96);
 }
 errors++;
 }
-}
-if(data36.kd !== undefined){
-let data40 = data36.kd;
-if(!((typeof data40 == "number") && (isFinite(data40)))){
-const err97 = {instancePath:instancePath+"/breakpoints/" + i1+"/kd",schemaPath:"#/properties/breakpoints/items/properties/kd/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data41.kp === undefined){
+const err97 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
 if(vErrors === null){
 vErrors = [err97];
 }
@@ -8857,10 +9526,8 @@ vErrors.push(err97);
 }
 errors++;
 }
-}
-if(data36.insertedByRefinement !== undefined){
-if(typeof data36.insertedByRefinement !== "boolean"){
-const err98 = {instancePath:instancePath+"/breakpoints/" + i1+"/insertedByRefinement",schemaPath:"#/properties/breakpoints/items/properties/insertedByRefinement/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(data41.ki === undefined){
+const err98 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
 if(vErrors === null){
 vErrors = [err98];
 }
@@ -8869,12 +9536,8 @@ vErrors.push(err98);
 }
 errors++;
 }
-}
-if(data36.margins !== undefined){
-let data42 = data36.margins;
-if(data42 && typeof data42 == "object" && !Array.isArray(data42)){
-if(data42.stable === undefined){
-const err99 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "stable"},message:"must have required property '"+"stable"+"'"};
+if(data41.kd === undefined){
+const err99 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
 if(vErrors === null){
 vErrors = [err99];
 }
@@ -8883,8 +9546,8 @@ vErrors.push(err99);
 }
 errors++;
 }
-if(data42.verdict === undefined){
-const err100 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "verdict"},message:"must have required property '"+"verdict"+"'"};
+if(data41.setpointWeightProportional === undefined){
+const err100 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "setpointWeightProportional"},message:"must have required property '"+"setpointWeightProportional"+"'"};
 if(vErrors === null){
 vErrors = [err100];
 }
@@ -8893,8 +9556,8 @@ vErrors.push(err100);
 }
 errors++;
 }
-if(data42.lowerGainMargin_dB === undefined){
-const err101 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+if(data41.setpointWeightDerivative === undefined){
+const err101 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "setpointWeightDerivative"},message:"must have required property '"+"setpointWeightDerivative"+"'"};
 if(vErrors === null){
 vErrors = [err101];
 }
@@ -8903,8 +9566,8 @@ vErrors.push(err101);
 }
 errors++;
 }
-if(data42.upperGainMargin_dB === undefined){
-const err102 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(data41.feedForward === undefined){
+const err102 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "feedForward"},message:"must have required property '"+"feedForward"+"'"};
 if(vErrors === null){
 vErrors = [err102];
 }
@@ -8913,8 +9576,8 @@ vErrors.push(err102);
 }
 errors++;
 }
-if(data42.phaseMargin_deg === undefined){
-const err103 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data41.feedForwardLeadTime_s === undefined){
+const err103 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "feedForwardLeadTime_s"},message:"must have required property '"+"feedForwardLeadTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err103];
 }
@@ -8923,8 +9586,8 @@ vErrors.push(err103);
 }
 errors++;
 }
-if(data42.delayMargin_s === undefined){
-const err104 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+if(data41.insertedByRefinement === undefined){
+const err104 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "insertedByRefinement"},message:"must have required property '"+"insertedByRefinement"+"'"};
 if(vErrors === null){
 vErrors = [err104];
 }
@@ -8933,8 +9596,8 @@ vErrors.push(err104);
 }
 errors++;
 }
-if(data42.sensitivityPeak === undefined){
-const err105 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+if(data41.margins === undefined){
+const err105 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "margins"},message:"must have required property '"+"margins"+"'"};
 if(vErrors === null){
 vErrors = [err105];
 }
@@ -8943,8 +9606,8 @@ vErrors.push(err105);
 }
 errors++;
 }
-if(data42.complementarySensitivityPeak === undefined){
-const err106 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+if(data41.timeDomain === undefined){
+const err106 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "timeDomain"},message:"must have required property '"+"timeDomain"+"'"};
 if(vErrors === null){
 vErrors = [err106];
 }
@@ -8953,9 +9616,9 @@ vErrors.push(err106);
 }
 errors++;
 }
-for(const key7 in data42){
-if(!((((((((key7 === "stable") || (key7 === "verdict")) || (key7 === "lowerGainMargin_dB")) || (key7 === "upperGainMargin_dB")) || (key7 === "phaseMargin_deg")) || (key7 === "delayMargin_s")) || (key7 === "sensitivityPeak")) || (key7 === "complementarySensitivityPeak"))){
-const err107 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+for(const key6 in data41){
+if(!(func18.call(schema11.properties.breakpoints.items.properties, key6))){
+const err107 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err107];
 }
@@ -8965,9 +9628,11 @@ vErrors.push(err107);
 errors++;
 }
 }
-if(data42.stable !== undefined){
-if(typeof data42.stable !== "boolean"){
-const err108 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/stable",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/stable/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(data41.speed_mps !== undefined){
+let data42 = data41.speed_mps;
+if((typeof data42 == "number") && (isFinite(data42))){
+if(data42 < 0 || isNaN(data42)){
+const err108 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err108];
 }
@@ -8977,10 +9642,8 @@ vErrors.push(err108);
 errors++;
 }
 }
-if(data42.verdict !== undefined){
-let data44 = data42.verdict;
-if(!(((data44 === "stable") || (data44 === "unstable")) || (data44 === "marginal"))){
-const err109 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/verdict",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/verdict/enum",keyword:"enum",params:{allowedValues: schema11.properties.breakpoints.items.properties.margins.properties.verdict.enum},message:"must be equal to one of the allowed values"};
+else {
+const err109 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err109];
 }
@@ -8990,10 +9653,10 @@ vErrors.push(err109);
 errors++;
 }
 }
-if(data42.lowerGainMargin_dB !== undefined){
-let data45 = data42.lowerGainMargin_dB;
-if((!((typeof data45 == "number") && (isFinite(data45)))) && (data45 !== null)){
-const err110 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/lowerGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.lowerGainMargin_dB.type},message:"must be number,null"};
+if(data41.kp !== undefined){
+let data43 = data41.kp;
+if(!((typeof data43 == "number") && (isFinite(data43)))){
+const err110 = {instancePath:instancePath+"/breakpoints/" + i1+"/kp",schemaPath:"#/properties/breakpoints/items/properties/kp/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err110];
 }
@@ -9003,10 +9666,10 @@ vErrors.push(err110);
 errors++;
 }
 }
-if(data42.upperGainMargin_dB !== undefined){
-let data46 = data42.upperGainMargin_dB;
-if((!((typeof data46 == "number") && (isFinite(data46)))) && (data46 !== null)){
-const err111 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/upperGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.upperGainMargin_dB.type},message:"must be number,null"};
+if(data41.ki !== undefined){
+let data44 = data41.ki;
+if(!((typeof data44 == "number") && (isFinite(data44)))){
+const err111 = {instancePath:instancePath+"/breakpoints/" + i1+"/ki",schemaPath:"#/properties/breakpoints/items/properties/ki/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err111];
 }
@@ -9016,10 +9679,10 @@ vErrors.push(err111);
 errors++;
 }
 }
-if(data42.phaseMargin_deg !== undefined){
-let data47 = data42.phaseMargin_deg;
-if((!((typeof data47 == "number") && (isFinite(data47)))) && (data47 !== null)){
-const err112 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/phaseMargin_deg",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.phaseMargin_deg.type},message:"must be number,null"};
+if(data41.kd !== undefined){
+let data45 = data41.kd;
+if(!((typeof data45 == "number") && (isFinite(data45)))){
+const err112 = {instancePath:instancePath+"/breakpoints/" + i1+"/kd",schemaPath:"#/properties/breakpoints/items/properties/kd/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err112];
 }
@@ -9029,10 +9692,11 @@ vErrors.push(err112);
 errors++;
 }
 }
-if(data42.delayMargin_s !== undefined){
-let data48 = data42.delayMargin_s;
-if((!((typeof data48 == "number") && (isFinite(data48)))) && (data48 !== null)){
-const err113 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/delayMargin_s",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.delayMargin_s.type},message:"must be number,null"};
+if(data41.setpointWeightProportional !== undefined){
+let data46 = data41.setpointWeightProportional;
+if((typeof data46 == "number") && (isFinite(data46))){
+if(data46 > 1 || isNaN(data46)){
+const err113 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightProportional",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightProportional/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
 if(vErrors === null){
 vErrors = [err113];
 }
@@ -9041,11 +9705,8 @@ vErrors.push(err113);
 }
 errors++;
 }
-}
-if(data42.sensitivityPeak !== undefined){
-let data49 = data42.sensitivityPeak;
-if((!((typeof data49 == "number") && (isFinite(data49)))) && (data49 !== null)){
-const err114 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/sensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.sensitivityPeak.type},message:"must be number,null"};
+if(data46 < 0 || isNaN(data46)){
+const err114 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightProportional",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightProportional/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err114];
 }
@@ -9055,10 +9716,8 @@ vErrors.push(err114);
 errors++;
 }
 }
-if(data42.complementarySensitivityPeak !== undefined){
-let data50 = data42.complementarySensitivityPeak;
-if((!((typeof data50 == "number") && (isFinite(data50)))) && (data50 !== null)){
-const err115 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/complementarySensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/complementarySensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.complementarySensitivityPeak.type},message:"must be number,null"};
+else {
+const err115 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightProportional",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightProportional/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err115];
 }
@@ -9068,9 +9727,11 @@ vErrors.push(err115);
 errors++;
 }
 }
-}
-else {
-const err116 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data41.setpointWeightDerivative !== undefined){
+let data47 = data41.setpointWeightDerivative;
+if((typeof data47 == "number") && (isFinite(data47))){
+if(data47 > 1 || isNaN(data47)){
+const err116 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightDerivative",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightDerivative/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
 if(vErrors === null){
 vErrors = [err116];
 }
@@ -9079,10 +9740,8 @@ vErrors.push(err116);
 }
 errors++;
 }
-}
-}
-else {
-const err117 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data47 < 0 || isNaN(data47)){
+const err117 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightDerivative",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightDerivative/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err117];
 }
@@ -9092,9 +9751,8 @@ vErrors.push(err117);
 errors++;
 }
 }
-}
 else {
-const err118 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err118 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightDerivative",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightDerivative/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err118];
 }
@@ -9104,11 +9762,10 @@ vErrors.push(err118);
 errors++;
 }
 }
-if(data.check !== undefined){
-let data51 = data.check;
-if(data51 && typeof data51 == "object" && !Array.isArray(data51)){
-if(data51.passed === undefined){
-const err119 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
+if(data41.feedForward !== undefined){
+let data48 = data41.feedForward;
+if(!((typeof data48 == "number") && (isFinite(data48)))){
+const err119 = {instancePath:instancePath+"/breakpoints/" + i1+"/feedForward",schemaPath:"#/properties/breakpoints/items/properties/feedForward/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err119];
 }
@@ -9117,8 +9774,11 @@ vErrors.push(err119);
 }
 errors++;
 }
-if(data51.model === undefined){
-const err120 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+}
+if(data41.feedForwardLeadTime_s !== undefined){
+let data49 = data41.feedForwardLeadTime_s;
+if(!((typeof data49 == "number") && (isFinite(data49)))){
+const err120 = {instancePath:instancePath+"/breakpoints/" + i1+"/feedForwardLeadTime_s",schemaPath:"#/properties/breakpoints/items/properties/feedForwardLeadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err120];
 }
@@ -9127,8 +9787,10 @@ vErrors.push(err120);
 }
 errors++;
 }
-if(data51.range === undefined){
-const err121 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "range"},message:"must have required property '"+"range"+"'"};
+}
+if(data41.insertedByRefinement !== undefined){
+if(typeof data41.insertedByRefinement !== "boolean"){
+const err121 = {instancePath:instancePath+"/breakpoints/" + i1+"/insertedByRefinement",schemaPath:"#/properties/breakpoints/items/properties/insertedByRefinement/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err121];
 }
@@ -9137,8 +9799,12 @@ vErrors.push(err121);
 }
 errors++;
 }
-if(data51.gridSpeeds === undefined){
-const err122 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSpeeds"},message:"must have required property '"+"gridSpeeds"+"'"};
+}
+if(data41.margins !== undefined){
+let data51 = data41.margins;
+if(data51 && typeof data51 == "object" && !Array.isArray(data51)){
+if(data51.stable === undefined){
+const err122 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "stable"},message:"must have required property '"+"stable"+"'"};
 if(vErrors === null){
 vErrors = [err122];
 }
@@ -9147,8 +9813,8 @@ vErrors.push(err122);
 }
 errors++;
 }
-if(data51.gridSize === undefined){
-const err123 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(data51.verdict === undefined){
+const err123 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "verdict"},message:"must have required property '"+"verdict"+"'"};
 if(vErrors === null){
 vErrors = [err123];
 }
@@ -9157,8 +9823,8 @@ vErrors.push(err123);
 }
 errors++;
 }
-if(data51.thresholds === undefined){
-const err124 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "thresholds"},message:"must have required property '"+"thresholds"+"'"};
+if(data51.lowerGainMargin_dB === undefined){
+const err124 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err124];
 }
@@ -9167,8 +9833,8 @@ vErrors.push(err124);
 }
 errors++;
 }
-if(data51.worst === undefined){
-const err125 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(data51.upperGainMargin_dB === undefined){
+const err125 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err125];
 }
@@ -9177,8 +9843,8 @@ vErrors.push(err125);
 }
 errors++;
 }
-if(data51.failedSpeeds === undefined){
-const err126 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
+if(data51.phaseMargin_deg === undefined){
+const err126 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err126];
 }
@@ -9187,8 +9853,8 @@ vErrors.push(err126);
 }
 errors++;
 }
-if(data51.failures === undefined){
-const err127 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
+if(data51.delayMargin_s === undefined){
+const err127 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err127];
 }
@@ -9197,8 +9863,8 @@ vErrors.push(err127);
 }
 errors++;
 }
-if(data51.insertions === undefined){
-const err128 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "insertions"},message:"must have required property '"+"insertions"+"'"};
+if(data51.sensitivityPeak === undefined){
+const err128 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err128];
 }
@@ -9207,9 +9873,8 @@ vErrors.push(err128);
 }
 errors++;
 }
-for(const key8 in data51){
-if(!(func18.call(schema11.properties.check.properties, key8))){
-const err129 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
+if(data51.complementarySensitivityPeak === undefined){
+const err129 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err129];
 }
@@ -9218,10 +9883,9 @@ vErrors.push(err129);
 }
 errors++;
 }
-}
-if(data51.passed !== undefined){
-if(typeof data51.passed !== "boolean"){
-const err130 = {instancePath:instancePath+"/check/passed",schemaPath:"#/properties/check/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+for(const key7 in data51){
+if(!((((((((key7 === "stable") || (key7 === "verdict")) || (key7 === "lowerGainMargin_dB")) || (key7 === "upperGainMargin_dB")) || (key7 === "phaseMargin_deg")) || (key7 === "delayMargin_s")) || (key7 === "sensitivityPeak")) || (key7 === "complementarySensitivityPeak"))){
+const err130 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err130];
 }
@@ -9231,11 +9895,9 @@ vErrors.push(err130);
 errors++;
 }
 }
-if(data51.model !== undefined){
-let data53 = data51.model;
-if(data53 && typeof data53 == "object" && !Array.isArray(data53)){
-if(data53.kind === undefined){
-const err131 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "kind"},message:"must have required property '"+"kind"+"'"};
+if(data51.stable !== undefined){
+if(typeof data51.stable !== "boolean"){
+const err131 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/stable",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/stable/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err131];
 }
@@ -9244,8 +9906,11 @@ vErrors.push(err131);
 }
 errors++;
 }
-if(data53.description === undefined){
-const err132 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
+}
+if(data51.verdict !== undefined){
+let data53 = data51.verdict;
+if(!(((data53 === "stable") || (data53 === "unstable")) || (data53 === "marginal"))){
+const err132 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/verdict",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/verdict/enum",keyword:"enum",params:{allowedValues: schema11.properties.breakpoints.items.properties.margins.properties.verdict.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err132];
 }
@@ -9254,9 +9919,11 @@ vErrors.push(err132);
 }
 errors++;
 }
-for(const key9 in data53){
-if(!((key9 === "kind") || (key9 === "description"))){
-const err133 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
+}
+if(data51.lowerGainMargin_dB !== undefined){
+let data54 = data51.lowerGainMargin_dB;
+if((!((typeof data54 == "number") && (isFinite(data54)))) && (data54 !== null)){
+const err133 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/lowerGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.lowerGainMargin_dB.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err133];
 }
@@ -9266,10 +9933,10 @@ vErrors.push(err133);
 errors++;
 }
 }
-if(data53.kind !== undefined){
-let data54 = data53.kind;
-if(!((data54 === "single-track") || (data54 === "interpolated-lumped"))){
-const err134 = {instancePath:instancePath+"/check/model/kind",schemaPath:"#/properties/check/properties/model/properties/kind/enum",keyword:"enum",params:{allowedValues: schema11.properties.check.properties.model.properties.kind.enum},message:"must be equal to one of the allowed values"};
+if(data51.upperGainMargin_dB !== undefined){
+let data55 = data51.upperGainMargin_dB;
+if((!((typeof data55 == "number") && (isFinite(data55)))) && (data55 !== null)){
+const err134 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/upperGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.upperGainMargin_dB.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err134];
 }
@@ -9279,9 +9946,10 @@ vErrors.push(err134);
 errors++;
 }
 }
-if(data53.description !== undefined){
-if(typeof data53.description !== "string"){
-const err135 = {instancePath:instancePath+"/check/model/description",schemaPath:"#/properties/check/properties/model/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data51.phaseMargin_deg !== undefined){
+let data56 = data51.phaseMargin_deg;
+if((!((typeof data56 == "number") && (isFinite(data56)))) && (data56 !== null)){
+const err135 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/phaseMargin_deg",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.phaseMargin_deg.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err135];
 }
@@ -9291,9 +9959,10 @@ vErrors.push(err135);
 errors++;
 }
 }
-}
-else {
-const err136 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data51.delayMargin_s !== undefined){
+let data57 = data51.delayMargin_s;
+if((!((typeof data57 == "number") && (isFinite(data57)))) && (data57 !== null)){
+const err136 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/delayMargin_s",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.delayMargin_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err136];
 }
@@ -9303,11 +9972,10 @@ vErrors.push(err136);
 errors++;
 }
 }
-if(data51.range !== undefined){
-let data56 = data51.range;
-if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
-if(data56.minimum_mps === undefined){
-const err137 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "minimum_mps"},message:"must have required property '"+"minimum_mps"+"'"};
+if(data51.sensitivityPeak !== undefined){
+let data58 = data51.sensitivityPeak;
+if((!((typeof data58 == "number") && (isFinite(data58)))) && (data58 !== null)){
+const err137 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/sensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.sensitivityPeak.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err137];
 }
@@ -9316,8 +9984,11 @@ vErrors.push(err137);
 }
 errors++;
 }
-if(data56.maximum_mps === undefined){
-const err138 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "maximum_mps"},message:"must have required property '"+"maximum_mps"+"'"};
+}
+if(data51.complementarySensitivityPeak !== undefined){
+let data59 = data51.complementarySensitivityPeak;
+if((!((typeof data59 == "number") && (isFinite(data59)))) && (data59 !== null)){
+const err138 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/complementarySensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/complementarySensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.complementarySensitivityPeak.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err138];
 }
@@ -9326,9 +9997,10 @@ vErrors.push(err138);
 }
 errors++;
 }
-for(const key10 in data56){
-if(!((key10 === "minimum_mps") || (key10 === "maximum_mps"))){
-const err139 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
+}
+}
+else {
+const err139 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err139];
 }
@@ -9338,10 +10010,10 @@ vErrors.push(err139);
 errors++;
 }
 }
-if(data56.minimum_mps !== undefined){
-let data57 = data56.minimum_mps;
-if(!((typeof data57 == "number") && (isFinite(data57)))){
-const err140 = {instancePath:instancePath+"/check/range/minimum_mps",schemaPath:"#/properties/check/properties/range/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data41.timeDomain !== undefined){
+let data60 = data41.timeDomain;
+if((!(data60 && typeof data60 == "object" && !Array.isArray(data60))) && (data60 !== null)){
+const err140 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err140];
 }
@@ -9350,11 +10022,9 @@ vErrors.push(err140);
 }
 errors++;
 }
-}
-if(data56.maximum_mps !== undefined){
-let data58 = data56.maximum_mps;
-if(!((typeof data58 == "number") && (isFinite(data58)))){
-const err141 = {instancePath:instancePath+"/check/range/maximum_mps",schemaPath:"#/properties/check/properties/range/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data60 && typeof data60 == "object" && !Array.isArray(data60)){
+if(data60.referenceStep === undefined){
+const err141 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "referenceStep"},message:"must have required property '"+"referenceStep"+"'"};
 if(vErrors === null){
 vErrors = [err141];
 }
@@ -9363,10 +10033,8 @@ vErrors.push(err141);
 }
 errors++;
 }
-}
-}
-else {
-const err142 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data60.steeringMisalignment === undefined){
+const err142 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "steeringMisalignment"},message:"must have required property '"+"steeringMisalignment"+"'"};
 if(vErrors === null){
 vErrors = [err142];
 }
@@ -9375,11 +10043,8 @@ vErrors.push(err142);
 }
 errors++;
 }
-}
-if(data51.gridSpeeds !== undefined){
-let data59 = data51.gridSpeeds;
-if(!(((typeof data59 == "number") && (!(data59 % 1) && !isNaN(data59))) && (isFinite(data59)))){
-const err143 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data60.lateralForce === undefined){
+const err143 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "lateralForce"},message:"must have required property '"+"lateralForce"+"'"};
 if(vErrors === null){
 vErrors = [err143];
 }
@@ -9388,9 +10053,8 @@ vErrors.push(err143);
 }
 errors++;
 }
-if((typeof data59 == "number") && (isFinite(data59))){
-if(data59 < 2 || isNaN(data59)){
-const err144 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+if(data60.laneChange === undefined){
+const err144 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "laneChange"},message:"must have required property '"+"laneChange"+"'"};
 if(vErrors === null){
 vErrors = [err144];
 }
@@ -9399,12 +10063,8 @@ vErrors.push(err144);
 }
 errors++;
 }
-}
-}
-if(data51.gridSize !== undefined){
-let data60 = data51.gridSize;
-if(!(((typeof data60 == "number") && (!(data60 % 1) && !isNaN(data60))) && (isFinite(data60)))){
-const err145 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data60.curveEntry === undefined){
+const err145 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "curveEntry"},message:"must have required property '"+"curveEntry"+"'"};
 if(vErrors === null){
 vErrors = [err145];
 }
@@ -9413,9 +10073,8 @@ vErrors.push(err145);
 }
 errors++;
 }
-if((typeof data60 == "number") && (isFinite(data60))){
-if(data60 < 1 || isNaN(data60)){
-const err146 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data60.actuator === undefined){
+const err146 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "actuator"},message:"must have required property '"+"actuator"+"'"};
 if(vErrors === null){
 vErrors = [err146];
 }
@@ -9424,13 +10083,8 @@ vErrors.push(err146);
 }
 errors++;
 }
-}
-}
-if(data51.thresholds !== undefined){
-let data61 = data51.thresholds;
-if(data61 && typeof data61 == "object" && !Array.isArray(data61)){
-if(data61.maximumLowerGainMargin_dB === undefined){
-const err147 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumLowerGainMargin_dB"},message:"must have required property '"+"maximumLowerGainMargin_dB"+"'"};
+if(data60.limitedStep === undefined){
+const err147 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "limitedStep"},message:"must have required property '"+"limitedStep"+"'"};
 if(vErrors === null){
 vErrors = [err147];
 }
@@ -9439,8 +10093,9 @@ vErrors.push(err147);
 }
 errors++;
 }
-if(data61.minimumUpperGainMargin_dB === undefined){
-const err148 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumUpperGainMargin_dB"},message:"must have required property '"+"minimumUpperGainMargin_dB"+"'"};
+for(const key8 in data60){
+if(!(((((((key8 === "referenceStep") || (key8 === "steeringMisalignment")) || (key8 === "lateralForce")) || (key8 === "laneChange")) || (key8 === "curveEntry")) || (key8 === "actuator")) || (key8 === "limitedStep"))){
+const err148 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err148];
 }
@@ -9449,8 +10104,12 @@ vErrors.push(err148);
 }
 errors++;
 }
-if(data61.minimumPhaseMargin_deg === undefined){
-const err149 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumPhaseMargin_deg"},message:"must have required property '"+"minimumPhaseMargin_deg"+"'"};
+}
+if(data60.referenceStep !== undefined){
+let data61 = data60.referenceStep;
+if(data61 && typeof data61 == "object" && !Array.isArray(data61)){
+if(data61.overshoot_pct === undefined){
+const err149 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/required",keyword:"required",params:{missingProperty: "overshoot_pct"},message:"must have required property '"+"overshoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err149];
 }
@@ -9459,8 +10118,8 @@ vErrors.push(err149);
 }
 errors++;
 }
-if(data61.maximumSensitivityPeak === undefined){
-const err150 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumSensitivityPeak"},message:"must have required property '"+"maximumSensitivityPeak"+"'"};
+if(data61.settlingTime_s === undefined){
+const err150 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/required",keyword:"required",params:{missingProperty: "settlingTime_s"},message:"must have required property '"+"settlingTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err150];
 }
@@ -9469,8 +10128,8 @@ vErrors.push(err150);
 }
 errors++;
 }
-if(data61.minimumDelayMargin_s === undefined){
-const err151 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumDelayMargin_s"},message:"must have required property '"+"minimumDelayMargin_s"+"'"};
+if(data61.settlingDistance_m === undefined){
+const err151 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/required",keyword:"required",params:{missingProperty: "settlingDistance_m"},message:"must have required property '"+"settlingDistance_m"+"'"};
 if(vErrors === null){
 vErrors = [err151];
 }
@@ -9479,9 +10138,9 @@ vErrors.push(err151);
 }
 errors++;
 }
-for(const key11 in data61){
-if(!(((((key11 === "maximumLowerGainMargin_dB") || (key11 === "minimumUpperGainMargin_dB")) || (key11 === "minimumPhaseMargin_deg")) || (key11 === "maximumSensitivityPeak")) || (key11 === "minimumDelayMargin_s"))){
-const err152 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
+for(const key9 in data61){
+if(!(((key9 === "overshoot_pct") || (key9 === "settlingTime_s")) || (key9 === "settlingDistance_m"))){
+const err152 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err152];
 }
@@ -9491,10 +10150,10 @@ vErrors.push(err152);
 errors++;
 }
 }
-if(data61.maximumLowerGainMargin_dB !== undefined){
-let data62 = data61.maximumLowerGainMargin_dB;
+if(data61.overshoot_pct !== undefined){
+let data62 = data61.overshoot_pct;
 if(!((typeof data62 == "number") && (isFinite(data62)))){
-const err153 = {instancePath:instancePath+"/check/thresholds/maximumLowerGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err153 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/overshoot_pct",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/overshoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err153];
 }
@@ -9504,10 +10163,10 @@ vErrors.push(err153);
 errors++;
 }
 }
-if(data61.minimumUpperGainMargin_dB !== undefined){
-let data63 = data61.minimumUpperGainMargin_dB;
-if(!((typeof data63 == "number") && (isFinite(data63)))){
-const err154 = {instancePath:instancePath+"/check/thresholds/minimumUpperGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data61.settlingTime_s !== undefined){
+let data63 = data61.settlingTime_s;
+if((!((typeof data63 == "number") && (isFinite(data63)))) && (data63 !== null)){
+const err154 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.referenceStep.properties.settlingTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err154];
 }
@@ -9516,11 +10175,9 @@ vErrors.push(err154);
 }
 errors++;
 }
-}
-if(data61.minimumPhaseMargin_deg !== undefined){
-let data64 = data61.minimumPhaseMargin_deg;
-if(!((typeof data64 == "number") && (isFinite(data64)))){
-const err155 = {instancePath:instancePath+"/check/thresholds/minimumPhaseMargin_deg",schemaPath:"#/properties/check/properties/thresholds/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if((typeof data63 == "number") && (isFinite(data63))){
+if(data63 < 0 || isNaN(data63)){
+const err155 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err155];
 }
@@ -9530,10 +10187,11 @@ vErrors.push(err155);
 errors++;
 }
 }
-if(data61.maximumSensitivityPeak !== undefined){
-let data65 = data61.maximumSensitivityPeak;
-if(!((typeof data65 == "number") && (isFinite(data65)))){
-const err156 = {instancePath:instancePath+"/check/thresholds/maximumSensitivityPeak",schemaPath:"#/properties/check/properties/thresholds/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+if(data61.settlingDistance_m !== undefined){
+let data64 = data61.settlingDistance_m;
+if((!((typeof data64 == "number") && (isFinite(data64)))) && (data64 !== null)){
+const err156 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingDistance_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingDistance_m/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.referenceStep.properties.settlingDistance_m.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err156];
 }
@@ -9542,11 +10200,9 @@ vErrors.push(err156);
 }
 errors++;
 }
-}
-if(data61.minimumDelayMargin_s !== undefined){
-let data66 = data61.minimumDelayMargin_s;
-if(!((typeof data66 == "number") && (isFinite(data66)))){
-const err157 = {instancePath:instancePath+"/check/thresholds/minimumDelayMargin_s",schemaPath:"#/properties/check/properties/thresholds/properties/minimumDelayMargin_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if((typeof data64 == "number") && (isFinite(data64))){
+if(data64 < 0 || isNaN(data64)){
+const err157 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingDistance_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingDistance_m/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err157];
 }
@@ -9557,8 +10213,9 @@ errors++;
 }
 }
 }
+}
 else {
-const err158 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err158 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err158];
 }
@@ -9568,11 +10225,11 @@ vErrors.push(err158);
 errors++;
 }
 }
-if(data51.worst !== undefined){
-let data67 = data51.worst;
-if(data67 && typeof data67 == "object" && !Array.isArray(data67)){
-if(data67.lowerGainMargin_dB === undefined){
-const err159 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+if(data60.steeringMisalignment !== undefined){
+let data65 = data60.steeringMisalignment;
+if(data65 && typeof data65 == "object" && !Array.isArray(data65)){
+if(data65.size === undefined){
+const err159 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/required",keyword:"required",params:{missingProperty: "size"},message:"must have required property '"+"size"+"'"};
 if(vErrors === null){
 vErrors = [err159];
 }
@@ -9581,8 +10238,8 @@ vErrors.push(err159);
 }
 errors++;
 }
-if(data67.upperGainMargin_dB === undefined){
-const err160 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(data65.peakError === undefined){
+const err160 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/required",keyword:"required",params:{missingProperty: "peakError"},message:"must have required property '"+"peakError"+"'"};
 if(vErrors === null){
 vErrors = [err160];
 }
@@ -9591,8 +10248,8 @@ vErrors.push(err160);
 }
 errors++;
 }
-if(data67.phaseMargin_deg === undefined){
-const err161 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data65.recoveryTime_s === undefined){
+const err161 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/required",keyword:"required",params:{missingProperty: "recoveryTime_s"},message:"must have required property '"+"recoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err161];
 }
@@ -9601,8 +10258,9 @@ vErrors.push(err161);
 }
 errors++;
 }
-if(data67.delayMargin_s === undefined){
-const err162 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+for(const key10 in data65){
+if(!(((key10 === "size") || (key10 === "peakError")) || (key10 === "recoveryTime_s"))){
+const err162 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err162];
 }
@@ -9611,8 +10269,11 @@ vErrors.push(err162);
 }
 errors++;
 }
-if(data67.sensitivityPeak === undefined){
-const err163 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+}
+if(data65.size !== undefined){
+let data66 = data65.size;
+if(!((typeof data66 == "number") && (isFinite(data66)))){
+const err163 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/size",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/size/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err163];
 }
@@ -9621,9 +10282,11 @@ vErrors.push(err163);
 }
 errors++;
 }
-for(const key12 in data67){
-if(!(((((key12 === "lowerGainMargin_dB") || (key12 === "upperGainMargin_dB")) || (key12 === "phaseMargin_deg")) || (key12 === "delayMargin_s")) || (key12 === "sensitivityPeak"))){
-const err164 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
+}
+if(data65.peakError !== undefined){
+let data67 = data65.peakError;
+if(!((typeof data67 == "number") && (isFinite(data67)))){
+const err164 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/peakError",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/peakError/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err164];
 }
@@ -9633,10 +10296,10 @@ vErrors.push(err164);
 errors++;
 }
 }
-if(data67.lowerGainMargin_dB !== undefined){
-let data68 = data67.lowerGainMargin_dB;
-if((!(data68 && typeof data68 == "object" && !Array.isArray(data68))) && (data68 !== null)){
-const err165 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.lowerGainMargin_dB.type},message:"must be object,null"};
+if(data65.recoveryTime_s !== undefined){
+let data68 = data65.recoveryTime_s;
+if((!((typeof data68 == "number") && (isFinite(data68)))) && (data68 !== null)){
+const err165 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/recoveryTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.steeringMisalignment.properties.recoveryTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err165];
 }
@@ -9645,9 +10308,9 @@ vErrors.push(err165);
 }
 errors++;
 }
-if(data68 && typeof data68 == "object" && !Array.isArray(data68)){
-if(data68.value === undefined){
-const err166 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if((typeof data68 == "number") && (isFinite(data68))){
+if(data68 < 0 || isNaN(data68)){
+const err166 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/recoveryTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err166];
 }
@@ -9656,8 +10319,11 @@ vErrors.push(err166);
 }
 errors++;
 }
-if(data68.speed_mps === undefined){
-const err167 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+}
+}
+else {
+const err167 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err167];
 }
@@ -9666,9 +10332,11 @@ vErrors.push(err167);
 }
 errors++;
 }
-for(const key13 in data68){
-if(!((key13 === "value") || (key13 === "speed_mps"))){
-const err168 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
+}
+if(data60.lateralForce !== undefined){
+let data69 = data60.lateralForce;
+if((!(data69 && typeof data69 == "object" && !Array.isArray(data69))) && (data69 !== null)){
+const err168 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.lateralForce.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err168];
 }
@@ -9677,11 +10345,9 @@ vErrors.push(err168);
 }
 errors++;
 }
-}
-if(data68.value !== undefined){
-let data69 = data68.value;
-if(!((typeof data69 == "number") && (isFinite(data69)))){
-const err169 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69 && typeof data69 == "object" && !Array.isArray(data69)){
+if(data69.size === undefined){
+const err169 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/required",keyword:"required",params:{missingProperty: "size"},message:"must have required property '"+"size"+"'"};
 if(vErrors === null){
 vErrors = [err169];
 }
@@ -9690,11 +10356,8 @@ vErrors.push(err169);
 }
 errors++;
 }
-}
-if(data68.speed_mps !== undefined){
-let data70 = data68.speed_mps;
-if(!((typeof data70 == "number") && (isFinite(data70)))){
-const err170 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69.peakError === undefined){
+const err170 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/required",keyword:"required",params:{missingProperty: "peakError"},message:"must have required property '"+"peakError"+"'"};
 if(vErrors === null){
 vErrors = [err170];
 }
@@ -9703,13 +10366,8 @@ vErrors.push(err170);
 }
 errors++;
 }
-}
-}
-}
-if(data67.upperGainMargin_dB !== undefined){
-let data71 = data67.upperGainMargin_dB;
-if((!(data71 && typeof data71 == "object" && !Array.isArray(data71))) && (data71 !== null)){
-const err171 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.upperGainMargin_dB.type},message:"must be object,null"};
+if(data69.recoveryTime_s === undefined){
+const err171 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/required",keyword:"required",params:{missingProperty: "recoveryTime_s"},message:"must have required property '"+"recoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err171];
 }
@@ -9718,9 +10376,9 @@ vErrors.push(err171);
 }
 errors++;
 }
-if(data71 && typeof data71 == "object" && !Array.isArray(data71)){
-if(data71.value === undefined){
-const err172 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+for(const key11 in data69){
+if(!(((key11 === "size") || (key11 === "peakError")) || (key11 === "recoveryTime_s"))){
+const err172 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err172];
 }
@@ -9729,8 +10387,11 @@ vErrors.push(err172);
 }
 errors++;
 }
-if(data71.speed_mps === undefined){
-const err173 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+if(data69.size !== undefined){
+let data70 = data69.size;
+if(!((typeof data70 == "number") && (isFinite(data70)))){
+const err173 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/size",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/size/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err173];
 }
@@ -9739,9 +10400,11 @@ vErrors.push(err173);
 }
 errors++;
 }
-for(const key14 in data71){
-if(!((key14 === "value") || (key14 === "speed_mps"))){
-const err174 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
+}
+if(data69.peakError !== undefined){
+let data71 = data69.peakError;
+if(!((typeof data71 == "number") && (isFinite(data71)))){
+const err174 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/peakError",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/peakError/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err174];
 }
@@ -9751,10 +10414,10 @@ vErrors.push(err174);
 errors++;
 }
 }
-if(data71.value !== undefined){
-let data72 = data71.value;
-if(!((typeof data72 == "number") && (isFinite(data72)))){
-const err175 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69.recoveryTime_s !== undefined){
+let data72 = data69.recoveryTime_s;
+if((!((typeof data72 == "number") && (isFinite(data72)))) && (data72 !== null)){
+const err175 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/recoveryTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.lateralForce.properties.recoveryTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err175];
 }
@@ -9763,11 +10426,9 @@ vErrors.push(err175);
 }
 errors++;
 }
-}
-if(data71.speed_mps !== undefined){
-let data73 = data71.speed_mps;
-if(!((typeof data73 == "number") && (isFinite(data73)))){
-const err176 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if((typeof data72 == "number") && (isFinite(data72))){
+if(data72 < 0 || isNaN(data72)){
+const err176 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/recoveryTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err176];
 }
@@ -9779,10 +10440,11 @@ errors++;
 }
 }
 }
-if(data67.phaseMargin_deg !== undefined){
-let data74 = data67.phaseMargin_deg;
-if((!(data74 && typeof data74 == "object" && !Array.isArray(data74))) && (data74 !== null)){
-const err177 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.phaseMargin_deg.type},message:"must be object,null"};
+}
+if(data60.laneChange !== undefined){
+let data73 = data60.laneChange;
+if((!(data73 && typeof data73 == "object" && !Array.isArray(data73))) && (data73 !== null)){
+const err177 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.laneChange.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err177];
 }
@@ -9791,9 +10453,9 @@ vErrors.push(err177);
 }
 errors++;
 }
-if(data74 && typeof data74 == "object" && !Array.isArray(data74)){
-if(data74.value === undefined){
-const err178 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(data73 && typeof data73 == "object" && !Array.isArray(data73)){
+if(data73.size_m === undefined){
+const err178 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/required",keyword:"required",params:{missingProperty: "size_m"},message:"must have required property '"+"size_m"+"'"};
 if(vErrors === null){
 vErrors = [err178];
 }
@@ -9802,8 +10464,8 @@ vErrors.push(err178);
 }
 errors++;
 }
-if(data74.speed_mps === undefined){
-const err179 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data73.length_m === undefined){
+const err179 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/required",keyword:"required",params:{missingProperty: "length_m"},message:"must have required property '"+"length_m"+"'"};
 if(vErrors === null){
 vErrors = [err179];
 }
@@ -9812,9 +10474,8 @@ vErrors.push(err179);
 }
 errors++;
 }
-for(const key15 in data74){
-if(!((key15 === "value") || (key15 === "speed_mps"))){
-const err180 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+if(data73.peakError_m === undefined){
+const err180 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/required",keyword:"required",params:{missingProperty: "peakError_m"},message:"must have required property '"+"peakError_m"+"'"};
 if(vErrors === null){
 vErrors = [err180];
 }
@@ -9823,11 +10484,9 @@ vErrors.push(err180);
 }
 errors++;
 }
-}
-if(data74.value !== undefined){
-let data75 = data74.value;
-if(!((typeof data75 == "number") && (isFinite(data75)))){
-const err181 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/value",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key12 in data73){
+if(!(((key12 === "size_m") || (key12 === "length_m")) || (key12 === "peakError_m"))){
+const err181 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err181];
 }
@@ -9837,10 +10496,10 @@ vErrors.push(err181);
 errors++;
 }
 }
-if(data74.speed_mps !== undefined){
-let data76 = data74.speed_mps;
-if(!((typeof data76 == "number") && (isFinite(data76)))){
-const err182 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data73.size_m !== undefined){
+let data74 = data73.size_m;
+if(!((typeof data74 == "number") && (isFinite(data74)))){
+const err182 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange/size_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/properties/size_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err182];
 }
@@ -9850,12 +10509,10 @@ vErrors.push(err182);
 errors++;
 }
 }
-}
-}
-if(data67.delayMargin_s !== undefined){
-let data77 = data67.delayMargin_s;
-if((!(data77 && typeof data77 == "object" && !Array.isArray(data77))) && (data77 !== null)){
-const err183 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.delayMargin_s.type},message:"must be object,null"};
+if(data73.length_m !== undefined){
+let data75 = data73.length_m;
+if(!((typeof data75 == "number") && (isFinite(data75)))){
+const err183 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange/length_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/properties/length_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err183];
 }
@@ -9864,9 +10521,11 @@ vErrors.push(err183);
 }
 errors++;
 }
-if(data77 && typeof data77 == "object" && !Array.isArray(data77)){
-if(data77.value === undefined){
-const err184 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+if(data73.peakError_m !== undefined){
+let data76 = data73.peakError_m;
+if(!((typeof data76 == "number") && (isFinite(data76)))){
+const err184 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange/peakError_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/properties/peakError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err184];
 }
@@ -9875,8 +10534,13 @@ vErrors.push(err184);
 }
 errors++;
 }
-if(data77.speed_mps === undefined){
-const err185 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+}
+}
+if(data60.curveEntry !== undefined){
+let data77 = data60.curveEntry;
+if((!(data77 && typeof data77 == "object" && !Array.isArray(data77))) && (data77 !== null)){
+const err185 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.curveEntry.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err185];
 }
@@ -9885,9 +10549,9 @@ vErrors.push(err185);
 }
 errors++;
 }
-for(const key16 in data77){
-if(!((key16 === "value") || (key16 === "speed_mps"))){
-const err186 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
+if(data77 && typeof data77 == "object" && !Array.isArray(data77)){
+if(data77.curvature_perM === undefined){
+const err186 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/required",keyword:"required",params:{missingProperty: "curvature_perM"},message:"must have required property '"+"curvature_perM"+"'"};
 if(vErrors === null){
 vErrors = [err186];
 }
@@ -9896,11 +10560,8 @@ vErrors.push(err186);
 }
 errors++;
 }
-}
-if(data77.value !== undefined){
-let data78 = data77.value;
-if(!((typeof data78 == "number") && (isFinite(data78)))){
-const err187 = {instancePath:instancePath+"/check/worst/delayMargin_s/value",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data77.peakError_m === undefined){
+const err187 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/required",keyword:"required",params:{missingProperty: "peakError_m"},message:"must have required property '"+"peakError_m"+"'"};
 if(vErrors === null){
 vErrors = [err187];
 }
@@ -9909,11 +10570,8 @@ vErrors.push(err187);
 }
 errors++;
 }
-}
-if(data77.speed_mps !== undefined){
-let data79 = data77.speed_mps;
-if(!((typeof data79 == "number") && (isFinite(data79)))){
-const err188 = {instancePath:instancePath+"/check/worst/delayMargin_s/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data77.errorAfterSettle_m === undefined){
+const err188 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/required",keyword:"required",params:{missingProperty: "errorAfterSettle_m"},message:"must have required property '"+"errorAfterSettle_m"+"'"};
 if(vErrors === null){
 vErrors = [err188];
 }
@@ -9922,13 +10580,9 @@ vErrors.push(err188);
 }
 errors++;
 }
-}
-}
-}
-if(data67.sensitivityPeak !== undefined){
-let data80 = data67.sensitivityPeak;
-if((!(data80 && typeof data80 == "object" && !Array.isArray(data80))) && (data80 !== null)){
-const err189 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.sensitivityPeak.type},message:"must be object,null"};
+for(const key13 in data77){
+if(!(((key13 === "curvature_perM") || (key13 === "peakError_m")) || (key13 === "errorAfterSettle_m"))){
+const err189 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err189];
 }
@@ -9937,9 +10591,11 @@ vErrors.push(err189);
 }
 errors++;
 }
-if(data80 && typeof data80 == "object" && !Array.isArray(data80)){
-if(data80.value === undefined){
-const err190 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+if(data77.curvature_perM !== undefined){
+let data78 = data77.curvature_perM;
+if(!((typeof data78 == "number") && (isFinite(data78)))){
+const err190 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry/curvature_perM",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/properties/curvature_perM/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err190];
 }
@@ -9948,8 +10604,11 @@ vErrors.push(err190);
 }
 errors++;
 }
-if(data80.speed_mps === undefined){
-const err191 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+if(data77.peakError_m !== undefined){
+let data79 = data77.peakError_m;
+if(!((typeof data79 == "number") && (isFinite(data79)))){
+const err191 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry/peakError_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/properties/peakError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err191];
 }
@@ -9958,9 +10617,11 @@ vErrors.push(err191);
 }
 errors++;
 }
-for(const key17 in data80){
-if(!((key17 === "value") || (key17 === "speed_mps"))){
-const err192 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+}
+if(data77.errorAfterSettle_m !== undefined){
+let data80 = data77.errorAfterSettle_m;
+if(!((typeof data80 == "number") && (isFinite(data80)))){
+const err192 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry/errorAfterSettle_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/properties/errorAfterSettle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err192];
 }
@@ -9970,10 +10631,13 @@ vErrors.push(err192);
 errors++;
 }
 }
-if(data80.value !== undefined){
-let data81 = data80.value;
-if(!((typeof data81 == "number") && (isFinite(data81)))){
-const err193 = {instancePath:instancePath+"/check/worst/sensitivityPeak/value",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+}
+if(data60.actuator !== undefined){
+let data81 = data60.actuator;
+if(data81 && typeof data81 == "object" && !Array.isArray(data81)){
+if(data81.largestReference === undefined){
+const err193 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "largestReference"},message:"must have required property '"+"largestReference"+"'"};
 if(vErrors === null){
 vErrors = [err193];
 }
@@ -9982,11 +10646,8 @@ vErrors.push(err193);
 }
 errors++;
 }
-}
-if(data80.speed_mps !== undefined){
-let data82 = data80.speed_mps;
-if(!((typeof data82 == "number") && (isFinite(data82)))){
-const err194 = {instancePath:instancePath+"/check/worst/sensitivityPeak/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data81.limitedBy === undefined){
+const err194 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "limitedBy"},message:"must have required property '"+"limitedBy"+"'"};
 if(vErrors === null){
 vErrors = [err194];
 }
@@ -9995,12 +10656,8 @@ vErrors.push(err194);
 }
 errors++;
 }
-}
-}
-}
-}
-else {
-const err195 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data81.peakAnglePerUnit === undefined){
+const err195 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "peakAnglePerUnit"},message:"must have required property '"+"peakAnglePerUnit"+"'"};
 if(vErrors === null){
 vErrors = [err195];
 }
@@ -10009,11 +10666,8 @@ vErrors.push(err195);
 }
 errors++;
 }
-}
-if(data51.failedSpeeds !== undefined){
-let data83 = data51.failedSpeeds;
-if(!(((typeof data83 == "number") && (!(data83 % 1) && !isNaN(data83))) && (isFinite(data83)))){
-const err196 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data81.peakRatePerUnit === undefined){
+const err196 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "peakRatePerUnit"},message:"must have required property '"+"peakRatePerUnit"+"'"};
 if(vErrors === null){
 vErrors = [err196];
 }
@@ -10022,9 +10676,9 @@ vErrors.push(err196);
 }
 errors++;
 }
-if((typeof data83 == "number") && (isFinite(data83))){
-if(data83 < 0 || isNaN(data83)){
-const err197 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+for(const key14 in data81){
+if(!((((key14 === "largestReference") || (key14 === "limitedBy")) || (key14 === "peakAnglePerUnit")) || (key14 === "peakRatePerUnit"))){
+const err197 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err197];
 }
@@ -10034,16 +10688,10 @@ vErrors.push(err197);
 errors++;
 }
 }
-}
-if(data51.failures !== undefined){
-let data84 = data51.failures;
-if(Array.isArray(data84)){
-const len2 = data84.length;
-for(let i2=0; i2<len2; i2++){
-let data85 = data84[i2];
-if(data85 && typeof data85 == "object" && !Array.isArray(data85)){
-if(data85.speed_mps === undefined){
-const err198 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data81.largestReference !== undefined){
+let data82 = data81.largestReference;
+if(!((typeof data82 == "number") && (isFinite(data82)))){
+const err198 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/largestReference",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/largestReference/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err198];
 }
@@ -10052,8 +10700,11 @@ vErrors.push(err198);
 }
 errors++;
 }
-if(data85.messages === undefined){
-const err199 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+}
+if(data81.limitedBy !== undefined){
+let data83 = data81.limitedBy;
+if(!((data83 === "angle") || (data83 === "rate"))){
+const err199 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/limitedBy",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/limitedBy/enum",keyword:"enum",params:{allowedValues: schema11.properties.breakpoints.items.properties.timeDomain.properties.actuator.properties.limitedBy.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err199];
 }
@@ -10062,9 +10713,11 @@ vErrors.push(err199);
 }
 errors++;
 }
-for(const key18 in data85){
-if(!((key18 === "speed_mps") || (key18 === "messages"))){
-const err200 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
+}
+if(data81.peakAnglePerUnit !== undefined){
+let data84 = data81.peakAnglePerUnit;
+if(!((typeof data84 == "number") && (isFinite(data84)))){
+const err200 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/peakAnglePerUnit",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/peakAnglePerUnit/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err200];
 }
@@ -10074,10 +10727,10 @@ vErrors.push(err200);
 errors++;
 }
 }
-if(data85.speed_mps !== undefined){
-let data86 = data85.speed_mps;
-if(!((typeof data86 == "number") && (isFinite(data86)))){
-const err201 = {instancePath:instancePath+"/check/failures/" + i2+"/speed_mps",schemaPath:"#/properties/check/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data81.peakRatePerUnit !== undefined){
+let data85 = data81.peakRatePerUnit;
+if(!((typeof data85 == "number") && (isFinite(data85)))){
+const err201 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/peakRatePerUnit",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/peakRatePerUnit/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err201];
 }
@@ -10087,13 +10740,9 @@ vErrors.push(err201);
 errors++;
 }
 }
-if(data85.messages !== undefined){
-let data87 = data85.messages;
-if(Array.isArray(data87)){
-const len3 = data87.length;
-for(let i3=0; i3<len3; i3++){
-if(typeof data87[i3] !== "string"){
-const err202 = {instancePath:instancePath+"/check/failures/" + i2+"/messages/" + i3,schemaPath:"#/properties/check/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err202 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err202];
 }
@@ -10103,9 +10752,10 @@ vErrors.push(err202);
 errors++;
 }
 }
-}
-else {
-const err203 = {instancePath:instancePath+"/check/failures/" + i2+"/messages",schemaPath:"#/properties/check/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data60.limitedStep !== undefined){
+let data86 = data60.limitedStep;
+if((!(data86 && typeof data86 == "object" && !Array.isArray(data86))) && (data86 !== null)){
+const err203 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.limitedStep.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err203];
 }
@@ -10114,10 +10764,9 @@ vErrors.push(err203);
 }
 errors++;
 }
-}
-}
-else {
-const err204 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data86 && typeof data86 == "object" && !Array.isArray(data86)){
+if(data86.size === undefined){
+const err204 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "size"},message:"must have required property '"+"size"+"'"};
 if(vErrors === null){
 vErrors = [err204];
 }
@@ -10126,10 +10775,8 @@ vErrors.push(err204);
 }
 errors++;
 }
-}
-}
-else {
-const err205 = {instancePath:instancePath+"/check/failures",schemaPath:"#/properties/check/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data86.overshoot_pct === undefined){
+const err205 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "overshoot_pct"},message:"must have required property '"+"overshoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err205];
 }
@@ -10138,16 +10785,8 @@ vErrors.push(err205);
 }
 errors++;
 }
-}
-if(data51.insertions !== undefined){
-let data89 = data51.insertions;
-if(Array.isArray(data89)){
-const len4 = data89.length;
-for(let i4=0; i4<len4; i4++){
-let data90 = data89[i4];
-if(data90 && typeof data90 == "object" && !Array.isArray(data90)){
-if(data90.speed_mps === undefined){
-const err206 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data86.settlingTime_s === undefined){
+const err206 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "settlingTime_s"},message:"must have required property '"+"settlingTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err206];
 }
@@ -10156,8 +10795,8 @@ vErrors.push(err206);
 }
 errors++;
 }
-if(data90.reason === undefined){
-const err207 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(data86.peakSteerRate_radps === undefined){
+const err207 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "peakSteerRate_radps"},message:"must have required property '"+"peakSteerRate_radps"+"'"};
 if(vErrors === null){
 vErrors = [err207];
 }
@@ -10166,9 +10805,9 @@ vErrors.push(err207);
 }
 errors++;
 }
-for(const key19 in data90){
-if(!((key19 === "speed_mps") || (key19 === "reason"))){
-const err208 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
+for(const key15 in data86){
+if(!((((key15 === "size") || (key15 === "overshoot_pct")) || (key15 === "settlingTime_s")) || (key15 === "peakSteerRate_radps"))){
+const err208 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err208];
 }
@@ -10178,10 +10817,10 @@ vErrors.push(err208);
 errors++;
 }
 }
-if(data90.speed_mps !== undefined){
-let data91 = data90.speed_mps;
-if(!((typeof data91 == "number") && (isFinite(data91)))){
-const err209 = {instancePath:instancePath+"/check/insertions/" + i4+"/speed_mps",schemaPath:"#/properties/check/properties/insertions/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data86.size !== undefined){
+let data87 = data86.size;
+if(!((typeof data87 == "number") && (isFinite(data87)))){
+const err209 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/size",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/size/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err209];
 }
@@ -10191,9 +10830,10 @@ vErrors.push(err209);
 errors++;
 }
 }
-if(data90.reason !== undefined){
-if(typeof data90.reason !== "string"){
-const err210 = {instancePath:instancePath+"/check/insertions/" + i4+"/reason",schemaPath:"#/properties/check/properties/insertions/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data86.overshoot_pct !== undefined){
+let data88 = data86.overshoot_pct;
+if(!((typeof data88 == "number") && (isFinite(data88)))){
+const err210 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/overshoot_pct",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/overshoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err210];
 }
@@ -10203,9 +10843,10 @@ vErrors.push(err210);
 errors++;
 }
 }
-}
-else {
-const err211 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data86.settlingTime_s !== undefined){
+let data89 = data86.settlingTime_s;
+if((!((typeof data89 == "number") && (isFinite(data89)))) && (data89 !== null)){
+const err211 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/settlingTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.limitedStep.properties.settlingTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err211];
 }
@@ -10214,10 +10855,9 @@ vErrors.push(err211);
 }
 errors++;
 }
-}
-}
-else {
-const err212 = {instancePath:instancePath+"/check/insertions",schemaPath:"#/properties/check/properties/insertions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if((typeof data89 == "number") && (isFinite(data89))){
+if(data89 < 0 || isNaN(data89)){
+const err212 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/settlingTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err212];
 }
@@ -10228,8 +10868,10 @@ errors++;
 }
 }
 }
-else {
-const err213 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data86.peakSteerRate_radps !== undefined){
+let data90 = data86.peakSteerRate_radps;
+if(!((typeof data90 == "number") && (isFinite(data90)))){
+const err213 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/peakSteerRate_radps",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/peakSteerRate_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err213];
 }
@@ -10239,11 +10881,13 @@ vErrors.push(err213);
 errors++;
 }
 }
-if(data.provenance !== undefined){
-let data93 = data.provenance;
-if(data93 && typeof data93 == "object" && !Array.isArray(data93)){
-if(data93.tool === undefined){
-const err214 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+}
+}
+}
+}
+}
+else {
+const err214 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err214];
 }
@@ -10252,8 +10896,10 @@ vErrors.push(err214);
 }
 errors++;
 }
-if(data93.toolVersion === undefined){
-const err215 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+}
+}
+else {
+const err215 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err215];
 }
@@ -10262,8 +10908,12 @@ vErrors.push(err215);
 }
 errors++;
 }
-if(data93.inputs === undefined){
-const err216 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+}
+if(data.check !== undefined){
+let data91 = data.check;
+if(data91 && typeof data91 == "object" && !Array.isArray(data91)){
+if(data91.passed === undefined){
+const err216 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err216];
 }
@@ -10272,8 +10922,8 @@ vErrors.push(err216);
 }
 errors++;
 }
-if(data93.model === undefined){
-const err217 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(data91.model === undefined){
+const err217 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err217];
 }
@@ -10282,8 +10932,8 @@ vErrors.push(err217);
 }
 errors++;
 }
-if(data93.rule === undefined){
-const err218 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(data91.range === undefined){
+const err218 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "range"},message:"must have required property '"+"range"+"'"};
 if(vErrors === null){
 vErrors = [err218];
 }
@@ -10292,8 +10942,8 @@ vErrors.push(err218);
 }
 errors++;
 }
-if(data93.plan === undefined){
-const err219 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(data91.gridSpeeds === undefined){
+const err219 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSpeeds"},message:"must have required property '"+"gridSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err219];
 }
@@ -10302,9 +10952,8 @@ vErrors.push(err219);
 }
 errors++;
 }
-for(const key20 in data93){
-if(!(((((((key20 === "tool") || (key20 === "toolVersion")) || (key20 === "inputs")) || (key20 === "model")) || (key20 === "rule")) || (key20 === "plan")) || (key20 === "handEdits"))){
-const err220 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
+if(data91.gridSize === undefined){
+const err220 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err220];
 }
@@ -10313,10 +10962,8 @@ vErrors.push(err220);
 }
 errors++;
 }
-}
-if(data93.tool !== undefined){
-if("speedband" !== data93.tool){
-const err221 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(data91.thresholds === undefined){
+const err221 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "thresholds"},message:"must have required property '"+"thresholds"+"'"};
 if(vErrors === null){
 vErrors = [err221];
 }
@@ -10325,10 +10972,8 @@ vErrors.push(err221);
 }
 errors++;
 }
-}
-if(data93.toolVersion !== undefined){
-if(typeof data93.toolVersion !== "string"){
-const err222 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data91.worst === undefined){
+const err222 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err222];
 }
@@ -10337,16 +10982,8 @@ vErrors.push(err222);
 }
 errors++;
 }
-}
-if(data93.inputs !== undefined){
-let data96 = data93.inputs;
-if(Array.isArray(data96)){
-const len5 = data96.length;
-for(let i5=0; i5<len5; i5++){
-let data97 = data96[i5];
-if(data97 && typeof data97 == "object" && !Array.isArray(data97)){
-if(data97.file === undefined){
-const err223 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(data91.failedSpeeds === undefined){
+const err223 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err223];
 }
@@ -10355,8 +10992,8 @@ vErrors.push(err223);
 }
 errors++;
 }
-if(data97.sha256 === undefined){
-const err224 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(data91.failures === undefined){
+const err224 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err224];
 }
@@ -10365,8 +11002,8 @@ vErrors.push(err224);
 }
 errors++;
 }
-if(data97.role === undefined){
-const err225 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(data91.insertions === undefined){
+const err225 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "insertions"},message:"must have required property '"+"insertions"+"'"};
 if(vErrors === null){
 vErrors = [err225];
 }
@@ -10375,9 +11012,8 @@ vErrors.push(err225);
 }
 errors++;
 }
-for(const key21 in data97){
-if(!(((key21 === "file") || (key21 === "sha256")) || (key21 === "role"))){
-const err226 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key21},message:"must NOT have additional properties"};
+if(data91.timeDomain === undefined){
+const err226 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "timeDomain"},message:"must have required property '"+"timeDomain"+"'"};
 if(vErrors === null){
 vErrors = [err226];
 }
@@ -10386,10 +11022,9 @@ vErrors.push(err226);
 }
 errors++;
 }
-}
-if(data97.file !== undefined){
-if(typeof data97.file !== "string"){
-const err227 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key16 in data91){
+if(!(func18.call(schema11.properties.check.properties, key16))){
+const err227 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err227];
 }
@@ -10399,11 +11034,9 @@ vErrors.push(err227);
 errors++;
 }
 }
-if(data97.sha256 !== undefined){
-let data99 = data97.sha256;
-if(typeof data99 === "string"){
-if(!pattern0.test(data99)){
-const err228 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data91.passed !== undefined){
+if(typeof data91.passed !== "boolean"){
+const err228 = {instancePath:instancePath+"/check/passed",schemaPath:"#/properties/check/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err228];
 }
@@ -10413,8 +11046,11 @@ vErrors.push(err228);
 errors++;
 }
 }
-else {
-const err229 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data91.model !== undefined){
+let data93 = data91.model;
+if(data93 && typeof data93 == "object" && !Array.isArray(data93)){
+if(data93.kind === undefined){
+const err229 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "kind"},message:"must have required property '"+"kind"+"'"};
 if(vErrors === null){
 vErrors = [err229];
 }
@@ -10423,10 +11059,8 @@ vErrors.push(err229);
 }
 errors++;
 }
-}
-if(data97.role !== undefined){
-if(typeof data97.role !== "string"){
-const err230 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data93.description === undefined){
+const err230 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
 if(vErrors === null){
 vErrors = [err230];
 }
@@ -10435,10 +11069,9 @@ vErrors.push(err230);
 }
 errors++;
 }
-}
-}
-else {
-const err231 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key17 in data93){
+if(!((key17 === "kind") || (key17 === "description"))){
+const err231 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err231];
 }
@@ -10448,9 +11081,10 @@ vErrors.push(err231);
 errors++;
 }
 }
-}
-else {
-const err232 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data93.kind !== undefined){
+let data94 = data93.kind;
+if(!((data94 === "single-track") || (data94 === "interpolated-lumped"))){
+const err232 = {instancePath:instancePath+"/check/model/kind",schemaPath:"#/properties/check/properties/model/properties/kind/enum",keyword:"enum",params:{allowedValues: schema11.properties.check.properties.model.properties.kind.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err232];
 }
@@ -10460,10 +11094,9 @@ vErrors.push(err232);
 errors++;
 }
 }
-if(data93.model !== undefined){
-let data101 = data93.model;
-if(!(data101 && typeof data101 == "object" && !Array.isArray(data101))){
-const err233 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data93.description !== undefined){
+if(typeof data93.description !== "string"){
+const err233 = {instancePath:instancePath+"/check/model/description",schemaPath:"#/properties/check/properties/model/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err233];
 }
@@ -10473,11 +11106,9 @@ vErrors.push(err233);
 errors++;
 }
 }
-if(data93.rule !== undefined){
-let data102 = data93.rule;
-if(data102 && typeof data102 == "object" && !Array.isArray(data102)){
-if(data102.name === undefined){
-const err234 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+}
+else {
+const err234 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err234];
 }
@@ -10486,8 +11117,12 @@ vErrors.push(err234);
 }
 errors++;
 }
-if(data102.parameters === undefined){
-const err235 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+}
+if(data91.range !== undefined){
+let data96 = data91.range;
+if(data96 && typeof data96 == "object" && !Array.isArray(data96)){
+if(data96.minimum_mps === undefined){
+const err235 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "minimum_mps"},message:"must have required property '"+"minimum_mps"+"'"};
 if(vErrors === null){
 vErrors = [err235];
 }
@@ -10496,9 +11131,8 @@ vErrors.push(err235);
 }
 errors++;
 }
-for(const key22 in data102){
-if(!((((key22 === "name") || (key22 === "parameters")) || (key22 === "citation")) || (key22 === "parametersAtBreakpoints"))){
-const err236 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key22},message:"must NOT have additional properties"};
+if(data96.maximum_mps === undefined){
+const err236 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "maximum_mps"},message:"must have required property '"+"maximum_mps"+"'"};
 if(vErrors === null){
 vErrors = [err236];
 }
@@ -10507,10 +11141,9 @@ vErrors.push(err236);
 }
 errors++;
 }
-}
-if(data102.name !== undefined){
-if(typeof data102.name !== "string"){
-const err237 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key18 in data96){
+if(!((key18 === "minimum_mps") || (key18 === "maximum_mps"))){
+const err237 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err237];
 }
@@ -10520,10 +11153,10 @@ vErrors.push(err237);
 errors++;
 }
 }
-if(data102.parameters !== undefined){
-let data104 = data102.parameters;
-if(!(data104 && typeof data104 == "object" && !Array.isArray(data104))){
-const err238 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data96.minimum_mps !== undefined){
+let data97 = data96.minimum_mps;
+if(!((typeof data97 == "number") && (isFinite(data97)))){
+const err238 = {instancePath:instancePath+"/check/range/minimum_mps",schemaPath:"#/properties/check/properties/range/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err238];
 }
@@ -10533,9 +11166,10 @@ vErrors.push(err238);
 errors++;
 }
 }
-if(data102.citation !== undefined){
-if(typeof data102.citation !== "string"){
-const err239 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data96.maximum_mps !== undefined){
+let data98 = data96.maximum_mps;
+if(!((typeof data98 == "number") && (isFinite(data98)))){
+const err239 = {instancePath:instancePath+"/check/range/maximum_mps",schemaPath:"#/properties/check/properties/range/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err239];
 }
@@ -10545,15 +11179,9 @@ vErrors.push(err239);
 errors++;
 }
 }
-if(data102.parametersAtBreakpoints !== undefined){
-let data106 = data102.parametersAtBreakpoints;
-if(Array.isArray(data106)){
-const len6 = data106.length;
-for(let i6=0; i6<len6; i6++){
-let data107 = data106[i6];
-if(data107 && typeof data107 == "object" && !Array.isArray(data107)){
-if(data107.speed_mps === undefined){
-const err240 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+else {
+const err240 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err240];
 }
@@ -10562,8 +11190,11 @@ vErrors.push(err240);
 }
 errors++;
 }
-if(data107.parameters === undefined){
-const err241 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+}
+if(data91.gridSpeeds !== undefined){
+let data99 = data91.gridSpeeds;
+if(!(((typeof data99 == "number") && (!(data99 % 1) && !isNaN(data99))) && (isFinite(data99)))){
+const err241 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err241];
 }
@@ -10572,9 +11203,9 @@ vErrors.push(err241);
 }
 errors++;
 }
-for(const key23 in data107){
-if(!((key23 === "speed_mps") || (key23 === "parameters"))){
-const err242 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
+if((typeof data99 == "number") && (isFinite(data99))){
+if(data99 < 2 || isNaN(data99)){
+const err242 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
 if(vErrors === null){
 vErrors = [err242];
 }
@@ -10584,10 +11215,11 @@ vErrors.push(err242);
 errors++;
 }
 }
-if(data107.speed_mps !== undefined){
-let data108 = data107.speed_mps;
-if(!((typeof data108 == "number") && (isFinite(data108)))){
-const err243 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+if(data91.gridSize !== undefined){
+let data100 = data91.gridSize;
+if(!(((typeof data100 == "number") && (!(data100 % 1) && !isNaN(data100))) && (isFinite(data100)))){
+const err243 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err243];
 }
@@ -10596,14 +11228,9 @@ vErrors.push(err243);
 }
 errors++;
 }
-}
-if(data107.parameters !== undefined){
-let data109 = data107.parameters;
-if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
-for(const key24 in data109){
-let data110 = data109[key24];
-if((!((typeof data110 == "number") && (isFinite(data110)))) && (typeof data110 !== "string")){
-const err244 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/parameters/" + key24.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if((typeof data100 == "number") && (isFinite(data100))){
+if(data100 < 1 || isNaN(data100)){
+const err244 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err244];
 }
@@ -10614,8 +11241,11 @@ errors++;
 }
 }
 }
-else {
-const err245 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data91.thresholds !== undefined){
+let data101 = data91.thresholds;
+if(data101 && typeof data101 == "object" && !Array.isArray(data101)){
+if(data101.maximumLowerGainMargin_dB === undefined){
+const err245 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumLowerGainMargin_dB"},message:"must have required property '"+"maximumLowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err245];
 }
@@ -10624,10 +11254,8 @@ vErrors.push(err245);
 }
 errors++;
 }
-}
-}
-else {
-const err246 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data101.minimumUpperGainMargin_dB === undefined){
+const err246 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumUpperGainMargin_dB"},message:"must have required property '"+"minimumUpperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err246];
 }
@@ -10636,10 +11264,8 @@ vErrors.push(err246);
 }
 errors++;
 }
-}
-}
-else {
-const err247 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data101.minimumPhaseMargin_deg === undefined){
+const err247 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumPhaseMargin_deg"},message:"must have required property '"+"minimumPhaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err247];
 }
@@ -10648,10 +11274,8 @@ vErrors.push(err247);
 }
 errors++;
 }
-}
-}
-else {
-const err248 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data101.maximumSensitivityPeak === undefined){
+const err248 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumSensitivityPeak"},message:"must have required property '"+"maximumSensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err248];
 }
@@ -10660,11 +11284,8 @@ vErrors.push(err248);
 }
 errors++;
 }
-}
-if(data93.plan !== undefined){
-let data111 = data93.plan;
-if(!(data111 && typeof data111 == "object" && !Array.isArray(data111))){
-const err249 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data101.maximumComplementarySensitivityPeak === undefined){
+const err249 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumComplementarySensitivityPeak"},message:"must have required property '"+"maximumComplementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err249];
 }
@@ -10673,16 +11294,8 @@ vErrors.push(err249);
 }
 errors++;
 }
-}
-if(data93.handEdits !== undefined){
-let data112 = data93.handEdits;
-if(Array.isArray(data112)){
-const len7 = data112.length;
-for(let i7=0; i7<len7; i7++){
-let data113 = data112[i7];
-if(data113 && typeof data113 == "object" && !Array.isArray(data113)){
-if(data113.statement === undefined){
-const err250 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(data101.minimumDelayMargin_s === undefined){
+const err250 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumDelayMargin_s"},message:"must have required property '"+"minimumDelayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err250];
 }
@@ -10691,8 +11304,9 @@ vErrors.push(err250);
 }
 errors++;
 }
-if(data113.changedSections === undefined){
-const err251 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+for(const key19 in data101){
+if(!((((((key19 === "maximumLowerGainMargin_dB") || (key19 === "minimumUpperGainMargin_dB")) || (key19 === "minimumPhaseMargin_deg")) || (key19 === "maximumSensitivityPeak")) || (key19 === "maximumComplementarySensitivityPeak")) || (key19 === "minimumDelayMargin_s"))){
+const err251 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err251];
 }
@@ -10701,8 +11315,11 @@ vErrors.push(err251);
 }
 errors++;
 }
-if(data113.toolVersion === undefined){
-const err252 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+}
+if(data101.maximumLowerGainMargin_dB !== undefined){
+let data102 = data101.maximumLowerGainMargin_dB;
+if(!((typeof data102 == "number") && (isFinite(data102)))){
+const err252 = {instancePath:instancePath+"/check/thresholds/maximumLowerGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err252];
 }
@@ -10711,8 +11328,11 @@ vErrors.push(err252);
 }
 errors++;
 }
-if(data113.model === undefined){
-const err253 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+}
+if(data101.minimumUpperGainMargin_dB !== undefined){
+let data103 = data101.minimumUpperGainMargin_dB;
+if(!((typeof data103 == "number") && (isFinite(data103)))){
+const err253 = {instancePath:instancePath+"/check/thresholds/minimumUpperGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err253];
 }
@@ -10721,8 +11341,11 @@ vErrors.push(err253);
 }
 errors++;
 }
-if(data113.gridSize === undefined){
-const err254 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+}
+if(data101.minimumPhaseMargin_deg !== undefined){
+let data104 = data101.minimumPhaseMargin_deg;
+if(!((typeof data104 == "number") && (isFinite(data104)))){
+const err254 = {instancePath:instancePath+"/check/thresholds/minimumPhaseMargin_deg",schemaPath:"#/properties/check/properties/thresholds/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err254];
 }
@@ -10731,9 +11354,11 @@ vErrors.push(err254);
 }
 errors++;
 }
-for(const key25 in data113){
-if(!(((((key25 === "statement") || (key25 === "changedSections")) || (key25 === "toolVersion")) || (key25 === "model")) || (key25 === "gridSize"))){
-const err255 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key25},message:"must NOT have additional properties"};
+}
+if(data101.maximumSensitivityPeak !== undefined){
+let data105 = data101.maximumSensitivityPeak;
+if(!((typeof data105 == "number") && (isFinite(data105)))){
+const err255 = {instancePath:instancePath+"/check/thresholds/maximumSensitivityPeak",schemaPath:"#/properties/check/properties/thresholds/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err255];
 }
@@ -10743,9 +11368,10 @@ vErrors.push(err255);
 errors++;
 }
 }
-if(data113.statement !== undefined){
-if(typeof data113.statement !== "string"){
-const err256 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data101.maximumComplementarySensitivityPeak !== undefined){
+let data106 = data101.maximumComplementarySensitivityPeak;
+if(!((typeof data106 == "number") && (isFinite(data106)))){
+const err256 = {instancePath:instancePath+"/check/thresholds/maximumComplementarySensitivityPeak",schemaPath:"#/properties/check/properties/thresholds/properties/maximumComplementarySensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err256];
 }
@@ -10755,13 +11381,10 @@ vErrors.push(err256);
 errors++;
 }
 }
-if(data113.changedSections !== undefined){
-let data115 = data113.changedSections;
-if(Array.isArray(data115)){
-const len8 = data115.length;
-for(let i8=0; i8<len8; i8++){
-if(typeof data115[i8] !== "string"){
-const err257 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/changedSections/" + i8,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data101.minimumDelayMargin_s !== undefined){
+let data107 = data101.minimumDelayMargin_s;
+if(!((typeof data107 == "number") && (isFinite(data107)))){
+const err257 = {instancePath:instancePath+"/check/thresholds/minimumDelayMargin_s",schemaPath:"#/properties/check/properties/thresholds/properties/minimumDelayMargin_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err257];
 }
@@ -10773,7 +11396,7 @@ errors++;
 }
 }
 else {
-const err258 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err258 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err258];
 }
@@ -10783,9 +11406,11 @@ vErrors.push(err258);
 errors++;
 }
 }
-if(data113.toolVersion !== undefined){
-if(typeof data113.toolVersion !== "string"){
-const err259 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data91.worst !== undefined){
+let data108 = data91.worst;
+if(data108 && typeof data108 == "object" && !Array.isArray(data108)){
+if(data108.lowerGainMargin_dB === undefined){
+const err259 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err259];
 }
@@ -10794,10 +11419,8 @@ vErrors.push(err259);
 }
 errors++;
 }
-}
-if(data113.model !== undefined){
-if(typeof data113.model !== "string"){
-const err260 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data108.upperGainMargin_dB === undefined){
+const err260 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err260];
 }
@@ -10806,11 +11429,8 @@ vErrors.push(err260);
 }
 errors++;
 }
-}
-if(data113.gridSize !== undefined){
-let data119 = data113.gridSize;
-if(!(((typeof data119 == "number") && (!(data119 % 1) && !isNaN(data119))) && (isFinite(data119)))){
-const err261 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data108.phaseMargin_deg === undefined){
+const err261 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err261];
 }
@@ -10819,9 +11439,8 @@ vErrors.push(err261);
 }
 errors++;
 }
-if((typeof data119 == "number") && (isFinite(data119))){
-if(data119 < 1 || isNaN(data119)){
-const err262 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data108.delayMargin_s === undefined){
+const err262 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err262];
 }
@@ -10830,11 +11449,8 @@ vErrors.push(err262);
 }
 errors++;
 }
-}
-}
-}
-else {
-const err263 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data108.sensitivityPeak === undefined){
+const err263 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err263];
 }
@@ -10843,10 +11459,8 @@ vErrors.push(err263);
 }
 errors++;
 }
-}
-}
-else {
-const err264 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data108.complementarySensitivityPeak === undefined){
+const err264 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err264];
 }
@@ -10855,10 +11469,9 @@ vErrors.push(err264);
 }
 errors++;
 }
-}
-}
-else {
-const err265 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key20 in data108){
+if(!((((((key20 === "lowerGainMargin_dB") || (key20 === "upperGainMargin_dB")) || (key20 === "phaseMargin_deg")) || (key20 === "delayMargin_s")) || (key20 === "sensitivityPeak")) || (key20 === "complementarySensitivityPeak"))){
+const err265 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err265];
 }
@@ -10868,11 +11481,10 @@ vErrors.push(err265);
 errors++;
 }
 }
-if(data.cautions !== undefined){
-let data120 = data.cautions;
-if(Array.isArray(data120)){
-if(data120.length < 1){
-const err266 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data108.lowerGainMargin_dB !== undefined){
+let data109 = data108.lowerGainMargin_dB;
+if((!(data109 && typeof data109 == "object" && !Array.isArray(data109))) && (data109 !== null)){
+const err266 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.lowerGainMargin_dB.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err266];
 }
@@ -10881,10 +11493,9 @@ vErrors.push(err266);
 }
 errors++;
 }
-const len9 = data120.length;
-for(let i9=0; i9<len9; i9++){
-if(typeof data120[i9] !== "string"){
-const err267 = {instancePath:instancePath+"/cautions/" + i9,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
+if(data109.value === undefined){
+const err267 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err267];
 }
@@ -10893,10 +11504,8 @@ vErrors.push(err267);
 }
 errors++;
 }
-}
-}
-else {
-const err268 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data109.speed_mps === undefined){
+const err268 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err268];
 }
@@ -10905,12 +11514,9 @@ vErrors.push(err268);
 }
 errors++;
 }
-}
-if(data.checksum !== undefined){
-let data122 = data.checksum;
-if(data122 && typeof data122 == "object" && !Array.isArray(data122)){
-if(data122.algorithm === undefined){
-const err269 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+for(const key21 in data109){
+if(!((key21 === "value") || (key21 === "speed_mps"))){
+const err269 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key21},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err269];
 }
@@ -10919,8 +11525,11 @@ vErrors.push(err269);
 }
 errors++;
 }
-if(data122.canonicalForm === undefined){
-const err270 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+}
+if(data109.value !== undefined){
+let data110 = data109.value;
+if(!((typeof data110 == "number") && (isFinite(data110)))){
+const err270 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err270];
 }
@@ -10929,8 +11538,11 @@ vErrors.push(err270);
 }
 errors++;
 }
-if(data122.value === undefined){
-const err271 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+if(data109.speed_mps !== undefined){
+let data111 = data109.speed_mps;
+if(!((typeof data111 == "number") && (isFinite(data111)))){
+const err271 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err271];
 }
@@ -10939,8 +11551,13 @@ vErrors.push(err271);
 }
 errors++;
 }
-if(data122.sections === undefined){
-const err272 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+}
+}
+if(data108.upperGainMargin_dB !== undefined){
+let data112 = data108.upperGainMargin_dB;
+if((!(data112 && typeof data112 == "object" && !Array.isArray(data112))) && (data112 !== null)){
+const err272 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.upperGainMargin_dB.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err272];
 }
@@ -10949,9 +11566,9 @@ vErrors.push(err272);
 }
 errors++;
 }
-for(const key26 in data122){
-if(!((((key26 === "algorithm") || (key26 === "canonicalForm")) || (key26 === "value")) || (key26 === "sections"))){
-const err273 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key26},message:"must NOT have additional properties"};
+if(data112 && typeof data112 == "object" && !Array.isArray(data112)){
+if(data112.value === undefined){
+const err273 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err273];
 }
@@ -10960,10 +11577,8 @@ vErrors.push(err273);
 }
 errors++;
 }
-}
-if(data122.algorithm !== undefined){
-if("SHA-256" !== data122.algorithm){
-const err274 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(data112.speed_mps === undefined){
+const err274 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err274];
 }
@@ -10972,10 +11587,9 @@ vErrors.push(err274);
 }
 errors++;
 }
-}
-if(data122.canonicalForm !== undefined){
-if(typeof data122.canonicalForm !== "string"){
-const err275 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key22 in data112){
+if(!((key22 === "value") || (key22 === "speed_mps"))){
+const err275 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key22},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err275];
 }
@@ -10985,11 +11599,10 @@ vErrors.push(err275);
 errors++;
 }
 }
-if(data122.value !== undefined){
-let data125 = data122.value;
-if(typeof data125 === "string"){
-if(!pattern0.test(data125)){
-const err276 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data112.value !== undefined){
+let data113 = data112.value;
+if(!((typeof data113 == "number") && (isFinite(data113)))){
+const err276 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err276];
 }
@@ -10999,8 +11612,10 @@ vErrors.push(err276);
 errors++;
 }
 }
-else {
-const err277 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data112.speed_mps !== undefined){
+let data114 = data112.speed_mps;
+if(!((typeof data114 == "number") && (isFinite(data114)))){
+const err277 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err277];
 }
@@ -11010,14 +11625,12 @@ vErrors.push(err277);
 errors++;
 }
 }
-if(data122.sections !== undefined){
-let data126 = data122.sections;
-if(data126 && typeof data126 == "object" && !Array.isArray(data126)){
-for(const key27 in data126){
-const _errs267 = errors;
-if(typeof key27 === "string"){
-if(!pattern5.test(key27)){
-const err278 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key27};
+}
+}
+if(data108.phaseMargin_deg !== undefined){
+let data115 = data108.phaseMargin_deg;
+if((!(data115 && typeof data115 == "object" && !Array.isArray(data115))) && (data115 !== null)){
+const err278 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.phaseMargin_deg.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err278];
 }
@@ -11026,10 +11639,9 @@ vErrors.push(err278);
 }
 errors++;
 }
-}
-var valid47 = _errs267 === errors;
-if(!valid47){
-const err279 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key27},message:"property name must be valid"};
+if(data115 && typeof data115 == "object" && !Array.isArray(data115)){
+if(data115.value === undefined){
+const err279 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err279];
 }
@@ -11038,12 +11650,8 @@ vErrors.push(err279);
 }
 errors++;
 }
-}
-for(const key28 in data126){
-let data127 = data126[key28];
-if(typeof data127 === "string"){
-if(!pattern0.test(data127)){
-const err280 = {instancePath:instancePath+"/checksum/sections/" + key28.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data115.speed_mps === undefined){
+const err280 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err280];
 }
@@ -11052,9 +11660,9 @@ vErrors.push(err280);
 }
 errors++;
 }
-}
-else {
-const err281 = {instancePath:instancePath+"/checksum/sections/" + key28.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key23 in data115){
+if(!((key23 === "value") || (key23 === "speed_mps"))){
+const err281 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err281];
 }
@@ -11064,9 +11672,10 @@ vErrors.push(err281);
 errors++;
 }
 }
-}
-else {
-const err282 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data115.value !== undefined){
+let data116 = data115.value;
+if(!((typeof data116 == "number") && (isFinite(data116)))){
+const err282 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/value",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err282];
 }
@@ -11076,9 +11685,10 @@ vErrors.push(err282);
 errors++;
 }
 }
-}
-else {
-const err283 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data115.speed_mps !== undefined){
+let data117 = data115.speed_mps;
+if(!((typeof data117 == "number") && (isFinite(data117)))){
+const err283 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err283];
 }
@@ -11089,13 +11699,1937 @@ errors++;
 }
 }
 }
-else {
-const err284 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+}
+if(data108.delayMargin_s !== undefined){
+let data118 = data108.delayMargin_s;
+if((!(data118 && typeof data118 == "object" && !Array.isArray(data118))) && (data118 !== null)){
+const err284 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.delayMargin_s.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err284];
 }
 else {
 vErrors.push(err284);
+}
+errors++;
+}
+if(data118 && typeof data118 == "object" && !Array.isArray(data118)){
+if(data118.value === undefined){
+const err285 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err285];
+}
+else {
+vErrors.push(err285);
+}
+errors++;
+}
+if(data118.speed_mps === undefined){
+const err286 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err286];
+}
+else {
+vErrors.push(err286);
+}
+errors++;
+}
+for(const key24 in data118){
+if(!((key24 === "value") || (key24 === "speed_mps"))){
+const err287 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key24},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err287];
+}
+else {
+vErrors.push(err287);
+}
+errors++;
+}
+}
+if(data118.value !== undefined){
+let data119 = data118.value;
+if(!((typeof data119 == "number") && (isFinite(data119)))){
+const err288 = {instancePath:instancePath+"/check/worst/delayMargin_s/value",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err288];
+}
+else {
+vErrors.push(err288);
+}
+errors++;
+}
+}
+if(data118.speed_mps !== undefined){
+let data120 = data118.speed_mps;
+if(!((typeof data120 == "number") && (isFinite(data120)))){
+const err289 = {instancePath:instancePath+"/check/worst/delayMargin_s/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err289];
+}
+else {
+vErrors.push(err289);
+}
+errors++;
+}
+}
+}
+}
+if(data108.sensitivityPeak !== undefined){
+let data121 = data108.sensitivityPeak;
+if((!(data121 && typeof data121 == "object" && !Array.isArray(data121))) && (data121 !== null)){
+const err290 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.sensitivityPeak.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err290];
+}
+else {
+vErrors.push(err290);
+}
+errors++;
+}
+if(data121 && typeof data121 == "object" && !Array.isArray(data121)){
+if(data121.value === undefined){
+const err291 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err291];
+}
+else {
+vErrors.push(err291);
+}
+errors++;
+}
+if(data121.speed_mps === undefined){
+const err292 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err292];
+}
+else {
+vErrors.push(err292);
+}
+errors++;
+}
+for(const key25 in data121){
+if(!((key25 === "value") || (key25 === "speed_mps"))){
+const err293 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key25},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err293];
+}
+else {
+vErrors.push(err293);
+}
+errors++;
+}
+}
+if(data121.value !== undefined){
+let data122 = data121.value;
+if(!((typeof data122 == "number") && (isFinite(data122)))){
+const err294 = {instancePath:instancePath+"/check/worst/sensitivityPeak/value",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err294];
+}
+else {
+vErrors.push(err294);
+}
+errors++;
+}
+}
+if(data121.speed_mps !== undefined){
+let data123 = data121.speed_mps;
+if(!((typeof data123 == "number") && (isFinite(data123)))){
+const err295 = {instancePath:instancePath+"/check/worst/sensitivityPeak/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err295];
+}
+else {
+vErrors.push(err295);
+}
+errors++;
+}
+}
+}
+}
+if(data108.complementarySensitivityPeak !== undefined){
+let data124 = data108.complementarySensitivityPeak;
+if((!(data124 && typeof data124 == "object" && !Array.isArray(data124))) && (data124 !== null)){
+const err296 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.complementarySensitivityPeak.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err296];
+}
+else {
+vErrors.push(err296);
+}
+errors++;
+}
+if(data124 && typeof data124 == "object" && !Array.isArray(data124)){
+if(data124.value === undefined){
+const err297 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err297];
+}
+else {
+vErrors.push(err297);
+}
+errors++;
+}
+if(data124.speed_mps === undefined){
+const err298 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err298];
+}
+else {
+vErrors.push(err298);
+}
+errors++;
+}
+for(const key26 in data124){
+if(!((key26 === "value") || (key26 === "speed_mps"))){
+const err299 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key26},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err299];
+}
+else {
+vErrors.push(err299);
+}
+errors++;
+}
+}
+if(data124.value !== undefined){
+let data125 = data124.value;
+if(!((typeof data125 == "number") && (isFinite(data125)))){
+const err300 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak/value",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err300];
+}
+else {
+vErrors.push(err300);
+}
+errors++;
+}
+}
+if(data124.speed_mps !== undefined){
+let data126 = data124.speed_mps;
+if(!((typeof data126 == "number") && (isFinite(data126)))){
+const err301 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err301];
+}
+else {
+vErrors.push(err301);
+}
+errors++;
+}
+}
+}
+}
+}
+else {
+const err302 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err302];
+}
+else {
+vErrors.push(err302);
+}
+errors++;
+}
+}
+if(data91.failedSpeeds !== undefined){
+let data127 = data91.failedSpeeds;
+if(!(((typeof data127 == "number") && (!(data127 % 1) && !isNaN(data127))) && (isFinite(data127)))){
+const err303 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err303];
+}
+else {
+vErrors.push(err303);
+}
+errors++;
+}
+if((typeof data127 == "number") && (isFinite(data127))){
+if(data127 < 0 || isNaN(data127)){
+const err304 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err304];
+}
+else {
+vErrors.push(err304);
+}
+errors++;
+}
+}
+}
+if(data91.failures !== undefined){
+let data128 = data91.failures;
+if(Array.isArray(data128)){
+const len2 = data128.length;
+for(let i2=0; i2<len2; i2++){
+let data129 = data128[i2];
+if(data129 && typeof data129 == "object" && !Array.isArray(data129)){
+if(data129.speed_mps === undefined){
+const err305 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err305];
+}
+else {
+vErrors.push(err305);
+}
+errors++;
+}
+if(data129.messages === undefined){
+const err306 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+if(vErrors === null){
+vErrors = [err306];
+}
+else {
+vErrors.push(err306);
+}
+errors++;
+}
+for(const key27 in data129){
+if(!((key27 === "speed_mps") || (key27 === "messages"))){
+const err307 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key27},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err307];
+}
+else {
+vErrors.push(err307);
+}
+errors++;
+}
+}
+if(data129.speed_mps !== undefined){
+let data130 = data129.speed_mps;
+if(!((typeof data130 == "number") && (isFinite(data130)))){
+const err308 = {instancePath:instancePath+"/check/failures/" + i2+"/speed_mps",schemaPath:"#/properties/check/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err308];
+}
+else {
+vErrors.push(err308);
+}
+errors++;
+}
+}
+if(data129.messages !== undefined){
+let data131 = data129.messages;
+if(Array.isArray(data131)){
+const len3 = data131.length;
+for(let i3=0; i3<len3; i3++){
+if(typeof data131[i3] !== "string"){
+const err309 = {instancePath:instancePath+"/check/failures/" + i2+"/messages/" + i3,schemaPath:"#/properties/check/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err309];
+}
+else {
+vErrors.push(err309);
+}
+errors++;
+}
+}
+}
+else {
+const err310 = {instancePath:instancePath+"/check/failures/" + i2+"/messages",schemaPath:"#/properties/check/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err310];
+}
+else {
+vErrors.push(err310);
+}
+errors++;
+}
+}
+}
+else {
+const err311 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err311];
+}
+else {
+vErrors.push(err311);
+}
+errors++;
+}
+}
+}
+else {
+const err312 = {instancePath:instancePath+"/check/failures",schemaPath:"#/properties/check/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err312];
+}
+else {
+vErrors.push(err312);
+}
+errors++;
+}
+}
+if(data91.insertions !== undefined){
+let data133 = data91.insertions;
+if(Array.isArray(data133)){
+const len4 = data133.length;
+for(let i4=0; i4<len4; i4++){
+let data134 = data133[i4];
+if(data134 && typeof data134 == "object" && !Array.isArray(data134)){
+if(data134.speed_mps === undefined){
+const err313 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err313];
+}
+else {
+vErrors.push(err313);
+}
+errors++;
+}
+if(data134.reason === undefined){
+const err314 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(vErrors === null){
+vErrors = [err314];
+}
+else {
+vErrors.push(err314);
+}
+errors++;
+}
+for(const key28 in data134){
+if(!((key28 === "speed_mps") || (key28 === "reason"))){
+const err315 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key28},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err315];
+}
+else {
+vErrors.push(err315);
+}
+errors++;
+}
+}
+if(data134.speed_mps !== undefined){
+let data135 = data134.speed_mps;
+if(!((typeof data135 == "number") && (isFinite(data135)))){
+const err316 = {instancePath:instancePath+"/check/insertions/" + i4+"/speed_mps",schemaPath:"#/properties/check/properties/insertions/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err316];
+}
+else {
+vErrors.push(err316);
+}
+errors++;
+}
+}
+if(data134.reason !== undefined){
+if(typeof data134.reason !== "string"){
+const err317 = {instancePath:instancePath+"/check/insertions/" + i4+"/reason",schemaPath:"#/properties/check/properties/insertions/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err317];
+}
+else {
+vErrors.push(err317);
+}
+errors++;
+}
+}
+}
+else {
+const err318 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err318];
+}
+else {
+vErrors.push(err318);
+}
+errors++;
+}
+}
+}
+else {
+const err319 = {instancePath:instancePath+"/check/insertions",schemaPath:"#/properties/check/properties/insertions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err319];
+}
+else {
+vErrors.push(err319);
+}
+errors++;
+}
+}
+if(data91.timeDomain !== undefined){
+let data137 = data91.timeDomain;
+if(data137 && typeof data137 == "object" && !Array.isArray(data137)){
+if(data137.passed === undefined){
+const err320 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
+if(vErrors === null){
+vErrors = [err320];
+}
+else {
+vErrors.push(err320);
+}
+errors++;
+}
+if(data137.limits === undefined){
+const err321 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "limits"},message:"must have required property '"+"limits"+"'"};
+if(vErrors === null){
+vErrors = [err321];
+}
+else {
+vErrors.push(err321);
+}
+errors++;
+}
+if(data137.steeringLimits === undefined){
+const err322 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "steeringLimits"},message:"must have required property '"+"steeringLimits"+"'"};
+if(vErrors === null){
+vErrors = [err322];
+}
+else {
+vErrors.push(err322);
+}
+errors++;
+}
+if(data137.failures === undefined){
+const err323 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
+if(vErrors === null){
+vErrors = [err323];
+}
+else {
+vErrors.push(err323);
+}
+errors++;
+}
+for(const key29 in data137){
+if(!((((key29 === "passed") || (key29 === "limits")) || (key29 === "steeringLimits")) || (key29 === "failures"))){
+const err324 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key29},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err324];
+}
+else {
+vErrors.push(err324);
+}
+errors++;
+}
+}
+if(data137.passed !== undefined){
+if(typeof data137.passed !== "boolean"){
+const err325 = {instancePath:instancePath+"/check/timeDomain/passed",schemaPath:"#/properties/check/properties/timeDomain/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(vErrors === null){
+vErrors = [err325];
+}
+else {
+vErrors.push(err325);
+}
+errors++;
+}
+}
+if(data137.limits !== undefined){
+let data139 = data137.limits;
+if(data139 && typeof data139 == "object" && !Array.isArray(data139)){
+if(data139.maximumOvershoot_pct === undefined){
+const err326 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumOvershoot_pct"},message:"must have required property '"+"maximumOvershoot_pct"+"'"};
+if(vErrors === null){
+vErrors = [err326];
+}
+else {
+vErrors.push(err326);
+}
+errors++;
+}
+if(data139.maximumRecoveryTime_s === undefined){
+const err327 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumRecoveryTime_s"},message:"must have required property '"+"maximumRecoveryTime_s"+"'"};
+if(vErrors === null){
+vErrors = [err327];
+}
+else {
+vErrors.push(err327);
+}
+errors++;
+}
+if(data139.maximumLaneChangeError_m === undefined){
+const err328 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumLaneChangeError_m"},message:"must have required property '"+"maximumLaneChangeError_m"+"'"};
+if(vErrors === null){
+vErrors = [err328];
+}
+else {
+vErrors.push(err328);
+}
+errors++;
+}
+if(data139.maximumCurveEntryError_m === undefined){
+const err329 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumCurveEntryError_m"},message:"must have required property '"+"maximumCurveEntryError_m"+"'"};
+if(vErrors === null){
+vErrors = [err329];
+}
+else {
+vErrors.push(err329);
+}
+errors++;
+}
+for(const key30 in data139){
+if(!((((key30 === "maximumOvershoot_pct") || (key30 === "maximumRecoveryTime_s")) || (key30 === "maximumLaneChangeError_m")) || (key30 === "maximumCurveEntryError_m"))){
+const err330 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key30},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err330];
+}
+else {
+vErrors.push(err330);
+}
+errors++;
+}
+}
+if(data139.maximumOvershoot_pct !== undefined){
+let data140 = data139.maximumOvershoot_pct;
+if(!((typeof data140 == "number") && (isFinite(data140)))){
+const err331 = {instancePath:instancePath+"/check/timeDomain/limits/maximumOvershoot_pct",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err331];
+}
+else {
+vErrors.push(err331);
+}
+errors++;
+}
+}
+if(data139.maximumRecoveryTime_s !== undefined){
+let data141 = data139.maximumRecoveryTime_s;
+if(!((typeof data141 == "number") && (isFinite(data141)))){
+const err332 = {instancePath:instancePath+"/check/timeDomain/limits/maximumRecoveryTime_s",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err332];
+}
+else {
+vErrors.push(err332);
+}
+errors++;
+}
+}
+if(data139.maximumLaneChangeError_m !== undefined){
+let data142 = data139.maximumLaneChangeError_m;
+if(!((typeof data142 == "number") && (isFinite(data142)))){
+const err333 = {instancePath:instancePath+"/check/timeDomain/limits/maximumLaneChangeError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err333];
+}
+else {
+vErrors.push(err333);
+}
+errors++;
+}
+}
+if(data139.maximumCurveEntryError_m !== undefined){
+let data143 = data139.maximumCurveEntryError_m;
+if(!((typeof data143 == "number") && (isFinite(data143)))){
+const err334 = {instancePath:instancePath+"/check/timeDomain/limits/maximumCurveEntryError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err334];
+}
+else {
+vErrors.push(err334);
+}
+errors++;
+}
+}
+}
+else {
+const err335 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err335];
+}
+else {
+vErrors.push(err335);
+}
+errors++;
+}
+}
+if(data137.steeringLimits !== undefined){
+let data144 = data137.steeringLimits;
+if(data144 && typeof data144 == "object" && !Array.isArray(data144)){
+if(data144.maxSteerAngle_rad === undefined){
+const err336 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/required",keyword:"required",params:{missingProperty: "maxSteerAngle_rad"},message:"must have required property '"+"maxSteerAngle_rad"+"'"};
+if(vErrors === null){
+vErrors = [err336];
+}
+else {
+vErrors.push(err336);
+}
+errors++;
+}
+if(data144.maxSteerRate_radps === undefined){
+const err337 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/required",keyword:"required",params:{missingProperty: "maxSteerRate_radps"},message:"must have required property '"+"maxSteerRate_radps"+"'"};
+if(vErrors === null){
+vErrors = [err337];
+}
+else {
+vErrors.push(err337);
+}
+errors++;
+}
+for(const key31 in data144){
+if(!((key31 === "maxSteerAngle_rad") || (key31 === "maxSteerRate_radps"))){
+const err338 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err338];
+}
+else {
+vErrors.push(err338);
+}
+errors++;
+}
+}
+if(data144.maxSteerAngle_rad !== undefined){
+let data145 = data144.maxSteerAngle_rad;
+if((typeof data145 == "number") && (isFinite(data145))){
+if(data145 <= 0 || isNaN(data145)){
+const err339 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerAngle_rad",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerAngle_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err339];
+}
+else {
+vErrors.push(err339);
+}
+errors++;
+}
+}
+else {
+const err340 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerAngle_rad",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerAngle_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err340];
+}
+else {
+vErrors.push(err340);
+}
+errors++;
+}
+}
+if(data144.maxSteerRate_radps !== undefined){
+let data146 = data144.maxSteerRate_radps;
+if((typeof data146 == "number") && (isFinite(data146))){
+if(data146 <= 0 || isNaN(data146)){
+const err341 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerRate_radps",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerRate_radps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(vErrors === null){
+vErrors = [err341];
+}
+else {
+vErrors.push(err341);
+}
+errors++;
+}
+}
+else {
+const err342 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerRate_radps",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerRate_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err342];
+}
+else {
+vErrors.push(err342);
+}
+errors++;
+}
+}
+}
+else {
+const err343 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err343];
+}
+else {
+vErrors.push(err343);
+}
+errors++;
+}
+}
+if(data137.failures !== undefined){
+let data147 = data137.failures;
+if(Array.isArray(data147)){
+const len5 = data147.length;
+for(let i5=0; i5<len5; i5++){
+let data148 = data147[i5];
+if(data148 && typeof data148 == "object" && !Array.isArray(data148)){
+if(data148.speed_mps === undefined){
+const err344 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err344];
+}
+else {
+vErrors.push(err344);
+}
+errors++;
+}
+if(data148.messages === undefined){
+const err345 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+if(vErrors === null){
+vErrors = [err345];
+}
+else {
+vErrors.push(err345);
+}
+errors++;
+}
+for(const key32 in data148){
+if(!((key32 === "speed_mps") || (key32 === "messages"))){
+const err346 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err346];
+}
+else {
+vErrors.push(err346);
+}
+errors++;
+}
+}
+if(data148.speed_mps !== undefined){
+let data149 = data148.speed_mps;
+if(!((typeof data149 == "number") && (isFinite(data149)))){
+const err347 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/speed_mps",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err347];
+}
+else {
+vErrors.push(err347);
+}
+errors++;
+}
+}
+if(data148.messages !== undefined){
+let data150 = data148.messages;
+if(Array.isArray(data150)){
+const len6 = data150.length;
+for(let i6=0; i6<len6; i6++){
+if(typeof data150[i6] !== "string"){
+const err348 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages/" + i6,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err348];
+}
+else {
+vErrors.push(err348);
+}
+errors++;
+}
+}
+}
+else {
+const err349 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err349];
+}
+else {
+vErrors.push(err349);
+}
+errors++;
+}
+}
+}
+else {
+const err350 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err350];
+}
+else {
+vErrors.push(err350);
+}
+errors++;
+}
+}
+}
+else {
+const err351 = {instancePath:instancePath+"/check/timeDomain/failures",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err351];
+}
+else {
+vErrors.push(err351);
+}
+errors++;
+}
+}
+}
+else {
+const err352 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err352];
+}
+else {
+vErrors.push(err352);
+}
+errors++;
+}
+}
+}
+else {
+const err353 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err353];
+}
+else {
+vErrors.push(err353);
+}
+errors++;
+}
+}
+if(data.provenance !== undefined){
+let data152 = data.provenance;
+if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
+if(data152.tool === undefined){
+const err354 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(vErrors === null){
+vErrors = [err354];
+}
+else {
+vErrors.push(err354);
+}
+errors++;
+}
+if(data152.toolVersion === undefined){
+const err355 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err355];
+}
+else {
+vErrors.push(err355);
+}
+errors++;
+}
+if(data152.inputs === undefined){
+const err356 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+if(vErrors === null){
+vErrors = [err356];
+}
+else {
+vErrors.push(err356);
+}
+errors++;
+}
+if(data152.model === undefined){
+const err357 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err357];
+}
+else {
+vErrors.push(err357);
+}
+errors++;
+}
+if(data152.rule === undefined){
+const err358 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(vErrors === null){
+vErrors = [err358];
+}
+else {
+vErrors.push(err358);
+}
+errors++;
+}
+if(data152.plan === undefined){
+const err359 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(vErrors === null){
+vErrors = [err359];
+}
+else {
+vErrors.push(err359);
+}
+errors++;
+}
+for(const key33 in data152){
+if(!(((((((key33 === "tool") || (key33 === "toolVersion")) || (key33 === "inputs")) || (key33 === "model")) || (key33 === "rule")) || (key33 === "plan")) || (key33 === "handEdits"))){
+const err360 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err360];
+}
+else {
+vErrors.push(err360);
+}
+errors++;
+}
+}
+if(data152.tool !== undefined){
+if("speedband" !== data152.tool){
+const err361 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err361];
+}
+else {
+vErrors.push(err361);
+}
+errors++;
+}
+}
+if(data152.toolVersion !== undefined){
+if(typeof data152.toolVersion !== "string"){
+const err362 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err362];
+}
+else {
+vErrors.push(err362);
+}
+errors++;
+}
+}
+if(data152.inputs !== undefined){
+let data155 = data152.inputs;
+if(Array.isArray(data155)){
+const len7 = data155.length;
+for(let i7=0; i7<len7; i7++){
+let data156 = data155[i7];
+if(data156 && typeof data156 == "object" && !Array.isArray(data156)){
+if(data156.file === undefined){
+const err363 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(vErrors === null){
+vErrors = [err363];
+}
+else {
+vErrors.push(err363);
+}
+errors++;
+}
+if(data156.sha256 === undefined){
+const err364 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(vErrors === null){
+vErrors = [err364];
+}
+else {
+vErrors.push(err364);
+}
+errors++;
+}
+if(data156.role === undefined){
+const err365 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(vErrors === null){
+vErrors = [err365];
+}
+else {
+vErrors.push(err365);
+}
+errors++;
+}
+for(const key34 in data156){
+if(!(((key34 === "file") || (key34 === "sha256")) || (key34 === "role"))){
+const err366 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err366];
+}
+else {
+vErrors.push(err366);
+}
+errors++;
+}
+}
+if(data156.file !== undefined){
+if(typeof data156.file !== "string"){
+const err367 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err367];
+}
+else {
+vErrors.push(err367);
+}
+errors++;
+}
+}
+if(data156.sha256 !== undefined){
+let data158 = data156.sha256;
+if(typeof data158 === "string"){
+if(!pattern0.test(data158)){
+const err368 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err368];
+}
+else {
+vErrors.push(err368);
+}
+errors++;
+}
+}
+else {
+const err369 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err369];
+}
+else {
+vErrors.push(err369);
+}
+errors++;
+}
+}
+if(data156.role !== undefined){
+if(typeof data156.role !== "string"){
+const err370 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err370];
+}
+else {
+vErrors.push(err370);
+}
+errors++;
+}
+}
+}
+else {
+const err371 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err371];
+}
+else {
+vErrors.push(err371);
+}
+errors++;
+}
+}
+}
+else {
+const err372 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err372];
+}
+else {
+vErrors.push(err372);
+}
+errors++;
+}
+}
+if(data152.model !== undefined){
+let data160 = data152.model;
+if(!(data160 && typeof data160 == "object" && !Array.isArray(data160))){
+const err373 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err373];
+}
+else {
+vErrors.push(err373);
+}
+errors++;
+}
+}
+if(data152.rule !== undefined){
+let data161 = data152.rule;
+if(data161 && typeof data161 == "object" && !Array.isArray(data161)){
+if(data161.name === undefined){
+const err374 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(vErrors === null){
+vErrors = [err374];
+}
+else {
+vErrors.push(err374);
+}
+errors++;
+}
+if(data161.parameters === undefined){
+const err375 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err375];
+}
+else {
+vErrors.push(err375);
+}
+errors++;
+}
+if(data161.tuneFor === undefined){
+const err376 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
+if(vErrors === null){
+vErrors = [err376];
+}
+else {
+vErrors.push(err376);
+}
+errors++;
+}
+for(const key35 in data161){
+if(!((((((key35 === "name") || (key35 === "parameters")) || (key35 === "citation")) || (key35 === "parametersAtBreakpoints")) || (key35 === "tuneFor")) || (key35 === "searchAtBreakpoints"))){
+const err377 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err377];
+}
+else {
+vErrors.push(err377);
+}
+errors++;
+}
+}
+if(data161.name !== undefined){
+if(typeof data161.name !== "string"){
+const err378 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err378];
+}
+else {
+vErrors.push(err378);
+}
+errors++;
+}
+}
+if(data161.parameters !== undefined){
+let data163 = data161.parameters;
+if(!(data163 && typeof data163 == "object" && !Array.isArray(data163))){
+const err379 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err379];
+}
+else {
+vErrors.push(err379);
+}
+errors++;
+}
+}
+if(data161.citation !== undefined){
+if(typeof data161.citation !== "string"){
+const err380 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err380];
+}
+else {
+vErrors.push(err380);
+}
+errors++;
+}
+}
+if(data161.parametersAtBreakpoints !== undefined){
+let data165 = data161.parametersAtBreakpoints;
+if(Array.isArray(data165)){
+const len8 = data165.length;
+for(let i8=0; i8<len8; i8++){
+let data166 = data165[i8];
+if(data166 && typeof data166 == "object" && !Array.isArray(data166)){
+if(data166.speed_mps === undefined){
+const err381 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err381];
+}
+else {
+vErrors.push(err381);
+}
+errors++;
+}
+if(data166.parameters === undefined){
+const err382 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err382];
+}
+else {
+vErrors.push(err382);
+}
+errors++;
+}
+for(const key36 in data166){
+if(!((key36 === "speed_mps") || (key36 === "parameters"))){
+const err383 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err383];
+}
+else {
+vErrors.push(err383);
+}
+errors++;
+}
+}
+if(data166.speed_mps !== undefined){
+let data167 = data166.speed_mps;
+if(!((typeof data167 == "number") && (isFinite(data167)))){
+const err384 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err384];
+}
+else {
+vErrors.push(err384);
+}
+errors++;
+}
+}
+if(data166.parameters !== undefined){
+let data168 = data166.parameters;
+if(data168 && typeof data168 == "object" && !Array.isArray(data168)){
+for(const key37 in data168){
+let data169 = data168[key37];
+if((!((typeof data169 == "number") && (isFinite(data169)))) && (typeof data169 !== "string")){
+const err385 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(vErrors === null){
+vErrors = [err385];
+}
+else {
+vErrors.push(err385);
+}
+errors++;
+}
+}
+}
+else {
+const err386 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err386];
+}
+else {
+vErrors.push(err386);
+}
+errors++;
+}
+}
+}
+else {
+const err387 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err387];
+}
+else {
+vErrors.push(err387);
+}
+errors++;
+}
+}
+}
+else {
+const err388 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err388];
+}
+else {
+vErrors.push(err388);
+}
+errors++;
+}
+}
+if(data161.tuneFor !== undefined){
+let data170 = data161.tuneFor;
+if(!((data170 === "rule-parameters") || (data170 === "fastest-passing"))){
+const err389 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err389];
+}
+else {
+vErrors.push(err389);
+}
+errors++;
+}
+}
+if(data161.searchAtBreakpoints !== undefined){
+let data171 = data161.searchAtBreakpoints;
+if(Array.isArray(data171)){
+const len9 = data171.length;
+for(let i9=0; i9<len9; i9++){
+let data172 = data171[i9];
+if(data172 && typeof data172 == "object" && !Array.isArray(data172)){
+if(data172.speed_mps === undefined){
+const err390 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err390];
+}
+else {
+vErrors.push(err390);
+}
+errors++;
+}
+if(data172.parameter === undefined){
+const err391 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(vErrors === null){
+vErrors = [err391];
+}
+else {
+vErrors.push(err391);
+}
+errors++;
+}
+if(data172.value === undefined){
+const err392 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err392];
+}
+else {
+vErrors.push(err392);
+}
+errors++;
+}
+if(data172.outcome === undefined){
+const err393 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+if(vErrors === null){
+vErrors = [err393];
+}
+else {
+vErrors.push(err393);
+}
+errors++;
+}
+if(data172.candidates === undefined){
+const err394 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+if(vErrors === null){
+vErrors = [err394];
+}
+else {
+vErrors.push(err394);
+}
+errors++;
+}
+if(data172.reason === undefined){
+const err395 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(vErrors === null){
+vErrors = [err395];
+}
+else {
+vErrors.push(err395);
+}
+errors++;
+}
+for(const key38 in data172){
+if(!((((((key38 === "speed_mps") || (key38 === "parameter")) || (key38 === "value")) || (key38 === "outcome")) || (key38 === "candidates")) || (key38 === "reason"))){
+const err396 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err396];
+}
+else {
+vErrors.push(err396);
+}
+errors++;
+}
+}
+if(data172.speed_mps !== undefined){
+let data173 = data172.speed_mps;
+if(!((typeof data173 == "number") && (isFinite(data173)))){
+const err397 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err397];
+}
+else {
+vErrors.push(err397);
+}
+errors++;
+}
+}
+if(data172.parameter !== undefined){
+if(typeof data172.parameter !== "string"){
+const err398 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err398];
+}
+else {
+vErrors.push(err398);
+}
+errors++;
+}
+}
+if(data172.value !== undefined){
+let data175 = data172.value;
+if(!((typeof data175 == "number") && (isFinite(data175)))){
+const err399 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err399];
+}
+else {
+vErrors.push(err399);
+}
+errors++;
+}
+}
+if(data172.outcome !== undefined){
+let data176 = data172.outcome;
+if(!((data176 === "fastest passing") || (data176 === "none passed"))){
+const err400 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err400];
+}
+else {
+vErrors.push(err400);
+}
+errors++;
+}
+}
+if(data172.candidates !== undefined){
+let data177 = data172.candidates;
+if(!(((typeof data177 == "number") && (!(data177 % 1) && !isNaN(data177))) && (isFinite(data177)))){
+const err401 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err401];
+}
+else {
+vErrors.push(err401);
+}
+errors++;
+}
+if((typeof data177 == "number") && (isFinite(data177))){
+if(data177 < 1 || isNaN(data177)){
+const err402 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err402];
+}
+else {
+vErrors.push(err402);
+}
+errors++;
+}
+}
+}
+if(data172.reason !== undefined){
+if(typeof data172.reason !== "string"){
+const err403 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err403];
+}
+else {
+vErrors.push(err403);
+}
+errors++;
+}
+}
+}
+else {
+const err404 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err404];
+}
+else {
+vErrors.push(err404);
+}
+errors++;
+}
+}
+}
+else {
+const err405 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err405];
+}
+else {
+vErrors.push(err405);
+}
+errors++;
+}
+}
+}
+else {
+const err406 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err406];
+}
+else {
+vErrors.push(err406);
+}
+errors++;
+}
+}
+if(data152.plan !== undefined){
+let data179 = data152.plan;
+if(!(data179 && typeof data179 == "object" && !Array.isArray(data179))){
+const err407 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err407];
+}
+else {
+vErrors.push(err407);
+}
+errors++;
+}
+}
+if(data152.handEdits !== undefined){
+let data180 = data152.handEdits;
+if(Array.isArray(data180)){
+const len10 = data180.length;
+for(let i10=0; i10<len10; i10++){
+let data181 = data180[i10];
+if(data181 && typeof data181 == "object" && !Array.isArray(data181)){
+if(data181.statement === undefined){
+const err408 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(vErrors === null){
+vErrors = [err408];
+}
+else {
+vErrors.push(err408);
+}
+errors++;
+}
+if(data181.changedSections === undefined){
+const err409 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(vErrors === null){
+vErrors = [err409];
+}
+else {
+vErrors.push(err409);
+}
+errors++;
+}
+if(data181.toolVersion === undefined){
+const err410 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err410];
+}
+else {
+vErrors.push(err410);
+}
+errors++;
+}
+if(data181.model === undefined){
+const err411 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err411];
+}
+else {
+vErrors.push(err411);
+}
+errors++;
+}
+if(data181.gridSize === undefined){
+const err412 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(vErrors === null){
+vErrors = [err412];
+}
+else {
+vErrors.push(err412);
+}
+errors++;
+}
+for(const key39 in data181){
+if(!(((((key39 === "statement") || (key39 === "changedSections")) || (key39 === "toolVersion")) || (key39 === "model")) || (key39 === "gridSize"))){
+const err413 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err413];
+}
+else {
+vErrors.push(err413);
+}
+errors++;
+}
+}
+if(data181.statement !== undefined){
+if(typeof data181.statement !== "string"){
+const err414 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err414];
+}
+else {
+vErrors.push(err414);
+}
+errors++;
+}
+}
+if(data181.changedSections !== undefined){
+let data183 = data181.changedSections;
+if(Array.isArray(data183)){
+const len11 = data183.length;
+for(let i11=0; i11<len11; i11++){
+if(typeof data183[i11] !== "string"){
+const err415 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections/" + i11,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err415];
+}
+else {
+vErrors.push(err415);
+}
+errors++;
+}
+}
+}
+else {
+const err416 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err416];
+}
+else {
+vErrors.push(err416);
+}
+errors++;
+}
+}
+if(data181.toolVersion !== undefined){
+if(typeof data181.toolVersion !== "string"){
+const err417 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err417];
+}
+else {
+vErrors.push(err417);
+}
+errors++;
+}
+}
+if(data181.model !== undefined){
+if(typeof data181.model !== "string"){
+const err418 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err418];
+}
+else {
+vErrors.push(err418);
+}
+errors++;
+}
+}
+if(data181.gridSize !== undefined){
+let data187 = data181.gridSize;
+if(!(((typeof data187 == "number") && (!(data187 % 1) && !isNaN(data187))) && (isFinite(data187)))){
+const err419 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err419];
+}
+else {
+vErrors.push(err419);
+}
+errors++;
+}
+if((typeof data187 == "number") && (isFinite(data187))){
+if(data187 < 1 || isNaN(data187)){
+const err420 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err420];
+}
+else {
+vErrors.push(err420);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err421 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err421];
+}
+else {
+vErrors.push(err421);
+}
+errors++;
+}
+}
+}
+else {
+const err422 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err422];
+}
+else {
+vErrors.push(err422);
+}
+errors++;
+}
+}
+}
+else {
+const err423 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err423];
+}
+else {
+vErrors.push(err423);
+}
+errors++;
+}
+}
+if(data.cautions !== undefined){
+let data188 = data.cautions;
+if(Array.isArray(data188)){
+if(data188.length < 1){
+const err424 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err424];
+}
+else {
+vErrors.push(err424);
+}
+errors++;
+}
+const len12 = data188.length;
+for(let i12=0; i12<len12; i12++){
+if(typeof data188[i12] !== "string"){
+const err425 = {instancePath:instancePath+"/cautions/" + i12,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err425];
+}
+else {
+vErrors.push(err425);
+}
+errors++;
+}
+}
+}
+else {
+const err426 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err426];
+}
+else {
+vErrors.push(err426);
+}
+errors++;
+}
+}
+if(data.checksum !== undefined){
+let data190 = data.checksum;
+if(data190 && typeof data190 == "object" && !Array.isArray(data190)){
+if(data190.algorithm === undefined){
+const err427 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(vErrors === null){
+vErrors = [err427];
+}
+else {
+vErrors.push(err427);
+}
+errors++;
+}
+if(data190.canonicalForm === undefined){
+const err428 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(vErrors === null){
+vErrors = [err428];
+}
+else {
+vErrors.push(err428);
+}
+errors++;
+}
+if(data190.value === undefined){
+const err429 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err429];
+}
+else {
+vErrors.push(err429);
+}
+errors++;
+}
+if(data190.sections === undefined){
+const err430 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+if(vErrors === null){
+vErrors = [err430];
+}
+else {
+vErrors.push(err430);
+}
+errors++;
+}
+for(const key40 in data190){
+if(!((((key40 === "algorithm") || (key40 === "canonicalForm")) || (key40 === "value")) || (key40 === "sections"))){
+const err431 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err431];
+}
+else {
+vErrors.push(err431);
+}
+errors++;
+}
+}
+if(data190.algorithm !== undefined){
+if("SHA-256" !== data190.algorithm){
+const err432 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err432];
+}
+else {
+vErrors.push(err432);
+}
+errors++;
+}
+}
+if(data190.canonicalForm !== undefined){
+if(typeof data190.canonicalForm !== "string"){
+const err433 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err433];
+}
+else {
+vErrors.push(err433);
+}
+errors++;
+}
+}
+if(data190.value !== undefined){
+let data193 = data190.value;
+if(typeof data193 === "string"){
+if(!pattern0.test(data193)){
+const err434 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err434];
+}
+else {
+vErrors.push(err434);
+}
+errors++;
+}
+}
+else {
+const err435 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err435];
+}
+else {
+vErrors.push(err435);
+}
+errors++;
+}
+}
+if(data190.sections !== undefined){
+let data194 = data190.sections;
+if(data194 && typeof data194 == "object" && !Array.isArray(data194)){
+for(const key41 in data194){
+const _errs413 = errors;
+if(typeof key41 === "string"){
+if(!pattern5.test(key41)){
+const err436 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key41};
+if(vErrors === null){
+vErrors = [err436];
+}
+else {
+vErrors.push(err436);
+}
+errors++;
+}
+}
+var valid67 = _errs413 === errors;
+if(!valid67){
+const err437 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key41},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err437];
+}
+else {
+vErrors.push(err437);
+}
+errors++;
+}
+}
+for(const key42 in data194){
+let data195 = data194[key42];
+if(typeof data195 === "string"){
+if(!pattern0.test(data195)){
+const err438 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err438];
+}
+else {
+vErrors.push(err438);
+}
+errors++;
+}
+}
+else {
+const err439 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err439];
+}
+else {
+vErrors.push(err439);
+}
+errors++;
+}
+}
+}
+else {
+const err440 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err440];
+}
+else {
+vErrors.push(err440);
+}
+errors++;
+}
+}
+}
+else {
+const err441 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err441];
+}
+else {
+vErrors.push(err441);
+}
+errors++;
+}
+}
+}
+else {
+const err442 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err442];
+}
+else {
+vErrors.push(err442);
 }
 errors++;
 }

@@ -18,7 +18,7 @@ export interface GainTable {
 /** What the lookup does between and outside breakpoints. */
 export interface LookupSettings {
   readonly interpolation: InterpolationMethod;
-  /** Below this speed the gains of this speed are used (gains grow like 1/vx², DOMAIN.md §7), m/s. */
+  /** Below this speed the gains of this speed are used (gains grow like 1/vx², docs/domain.md §7), m/s. */
   readonly lowSpeedFloor_mps: number;
 }
 
@@ -29,7 +29,7 @@ export interface SpeedRange {
 }
 
 /**
- * Acceptance limits of the dense check (common practice, DOMAIN.md §5; all configurable in the plan).
+ * Acceptance limits of the dense check (common practice, docs/domain.md §5; all configurable in the plan).
  * Gain margins in dB: the lower gain margin is negative (reducing the gain by that much destabilises).
  */
 export interface AcceptanceThresholds {
@@ -40,6 +40,8 @@ export interface AcceptanceThresholds {
   readonly minimumPhaseMargin_deg: number;
   /** Peak sensitivity Ms = max|1/(1 + L)| must be at most this. */
   readonly maximumSensitivityPeak: number;
+  /** Peak complementary sensitivity Mt = max|L/(1 + L)| must be at most this. */
+  readonly maximumComplementarySensitivityPeak: number;
   /** Delay margin must be at least this, s (measured latency plus room). */
   readonly minimumDelayMargin_s: number;
 }
@@ -56,7 +58,8 @@ export type CheckCriterion =
   | 'upperGainMargin'
   | 'phaseMargin'
   | 'delayMargin'
-  | 'sensitivityPeak';
+  | 'sensitivityPeak'
+  | 'complementarySensitivityPeak';
 
 /** One acceptance limit broken at one speed; `value` and `limit` in the criterion's unit. */
 export interface CheckFailure {
@@ -89,6 +92,8 @@ export interface WorstMargins {
   readonly delayMargin_s: WorstValue | null;
   /** Largest peak sensitivity. */
   readonly sensitivityPeak: WorstValue | null;
+  /** Largest peak complementary sensitivity. */
+  readonly complementarySensitivityPeak: WorstValue | null;
 }
 
 export interface DenseCheckResult {

@@ -15,7 +15,7 @@ export const TUNING_DEFAULTS = {
   simcTauCPerDeadTime: 1,
   /** Damping-target ζ: critically damped, no overshoot of the path (common practice for lateral control). */
   dampingRatio: 1,
-  /** Damping-target ωn/p: the integral pole a factor 5 below ωn keeps the integral term gentle (DOMAIN.md §4). */
+  /** Damping-target ωn/p: the integral pole a factor 5 below ωn keeps the integral term gentle (docs/domain.md §4). */
   integralPoleRatio: 5,
   /**
    * Damping-target ωn when neither ωn nor a settling distance is given: ωn·θ_eff = this value,
@@ -32,10 +32,23 @@ export const TUNING_DEFAULTS = {
    * Damping-target on a path loop with a lead T0 (preview and sideslip): the delay-free design loop's
    * high-frequency gain |k''·kd·T0| must stay below this — at 1 the design loop no longer falls below
    * 1 at high frequency and the lag and delay the design neglects decide stability (the neutral-type
-   * argument of DOMAIN.md §5b). Over the demo fleet (2–25 m/s, previews 0–5 m, settling 5–80 m) every
+   * argument of docs/domain.md §5b). Over the demo fleet (2–25 m/s, previews 0–5 m, settling 5–80 m) every
    * design below 1 with ωn·θ_eff ≤ 0.2 came out stable on the full loop.
    */
   maximumPreviewHighFrequencyGain: 1,
   /** The default ωn keeps k''·kd·T0 at or below this. Our choice: half the limit. */
   defaultPreviewHighFrequencyGain: 0.5,
+  /**
+   * MIGO's bound on the sensitivity peaks: M = 1.4, the robustness Åström & Hägglund use for MIGO and AMIGO
+   * (Åström & Hägglund 2004, J. Process Control 14; 2006, Advanced PID Control, §7.4 — from memory).
+   */
+  sensitivityPeakTarget: 1.4,
+  /**
+   * SIMC on a path loop with a lead T0 (preview and sideslip): the lead is neglected when T0 ≤ this × (τc + θ),
+   * and cancels an integrator (k''(T0 s + 1)/s² ≈ k''T0/s) when T0 ≥ integratorLeadPerHorizon × (τc + θ).
+   * Our reading of Skogestad's (2003, §3.1) rule for positive numerator time constants against the
+   * closed-loop time constant; in between neither model holds in the band the rule designs for, and SIMC refuses.
+   */
+  negligibleLeadPerHorizon: 0.5,
+  integratorLeadPerHorizon: 4,
 } as const;

@@ -167,7 +167,7 @@ describe('breakpoint margins against scipy', () => {
   it('agree with an independent python computation of the same sampled loop (single-track plant, backward-Euler PID, hold and latency)', () => {
     const schedule: ScheduleFile = readSchedule(schedulePath);
     const model = schedule.provenance.model as Record<string, number>;
-    // Source: single-track δ→r transfer function (Gillespie 1992 / Rajamani 2012, DOMAIN.md §3), actuator
+    // Source: single-track δ→r transfer function (Gillespie 1992 / Rajamani 2012, docs/domain.md §3), actuator
     // e^(−θa s)/(τa s + 1), backward-Euler PID, and the plant's exact zero-order-hold equivalent by
     // scipy.signal.cont2discrete (zoh) with the delay θ = ℓT + m by the modified z-transform (Franklin, Powell &
     // Workman, Digital Control of Dynamic Systems, 3rd ed., §4.3.4): G(z) = [C(zI − Φ)⁻¹(Γ0z + Γ1) + D]·z^−(ℓ+1).

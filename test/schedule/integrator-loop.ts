@@ -3,7 +3,7 @@
  * without the real loop analysis: plant G_v(s) = v²·e^(−θs)/s at speed v (an integrating plant
  * whose gain grows like v²) under a P controller kp, so L(s) = k·e^(−θs)/s with k = kp·v².
  *
- * Closed form (Åström & Murray 2008, Feedback Systems, integrator with delay; DOMAIN.md §5b:
+ * Closed form (Åström & Murray 2008, Feedback Systems, integrator with delay; docs/domain.md §5b:
  * k·e^(−θs)/s is stable iff kθ < π/2): gain crossover ωc = k; phase margin 90° − kθ·180/π;
  * delay margin (π/2 − kθ)/k; phase crossover ω180 = π/(2θ), upper gain margin π/(2kθ);
  * no lower gain margin. Peak sensitivity by a fine frequency sweep.
@@ -22,6 +22,8 @@ export function integratorLoopMargins(speed_mps: number, gains: PidGains): LoopM
   const phaseMargin_rad = Math.PI / 2 - k * theta;
   let peak = 0;
   let peakFrequency = 0;
+  let complementaryPeak = 0;
+  let complementaryFrequency = 0;
   for (let i = 0; i <= 400; i += 1) {
     const w = (k / 100) * Math.pow(10, (4 * i) / 400);
     const re = 1 + (k / w) * -Math.sin(w * theta);
@@ -30,6 +32,12 @@ export function integratorLoopMargins(speed_mps: number, gains: PidGains): LoopM
     if (s > peak) {
       peak = s;
       peakFrequency = w;
+    }
+    // |T| = |L|·|S|, |L| = k/ω.
+    const t = (k / w) * s;
+    if (t > complementaryPeak) {
+      complementaryPeak = t;
+      complementaryFrequency = w;
     }
   }
   const stable = k * theta < Math.PI / 2;
@@ -48,7 +56,7 @@ export function integratorLoopMargins(speed_mps: number, gains: PidGains): LoopM
     delayMarginFrequency_radps: stable ? k : null,
     sensitivityPeak: peak,
     sensitivityPeakFrequency_radps: peakFrequency,
-    complementarySensitivityPeak: Number.NaN,
-    complementarySensitivityPeakFrequency_radps: Number.NaN,
+    complementarySensitivityPeak: complementaryPeak,
+    complementarySensitivityPeakFrequency_radps: complementaryFrequency,
   };
 }

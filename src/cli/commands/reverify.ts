@@ -45,7 +45,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           file: result.schedule === null ? null : out,
           outcome,
           changes: result.changes,
-          passed: result.check.passed,
+          passed: result.passed,
+          timeDomainFailures: result.timeDomainFailures,
           model: { kind: model.kind, description: model.description },
           gridSize: result.check.points.length,
           failedSpeeds: result.check.failedCount,
@@ -63,15 +64,16 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       result.changes.length === 0 ? 'no change against the checksum it carries' : `changed by hand since it was written: ${result.changes.join('; ')}`;
     let text = `${schedulePath}: schema valid; ${changed}\n${notes.map((note) => `${note}\n`).join('')}`;
     text += formatRecheck(`model: ${model.description}`, result.check, edited, model.kind);
+    for (const failure of result.timeDomainFailures) text += `  time domain at ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}\n`;
     text +=
       result.schedule === null
-        ? 'Nothing written: the edited schedule fails its dense check (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n'
+        ? 'Nothing written: the edited schedule fails its dense check or its time-domain limits (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n'
         : `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}: re-verified, margins and status from this check, provenance records the hand edit, ` +
           `checksum ${result.schedule.checksum.value.slice(0, 16)}…\n`;
     text += formatCautions();
     io.stdout(text);
   }
-  return result.check.passed ? EXIT.ok : EXIT.failed;
+  return result.passed ? EXIT.ok : EXIT.failed;
 }
 
 export const command: CommandModule = {
