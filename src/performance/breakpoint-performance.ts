@@ -25,7 +25,7 @@ import { overshoot_pct, peakMagnitude, settlingTime_s } from './figures.js';
 import { judgeTimeDomain } from './time-domain-limits.js';
 import type { PerformanceLoop } from './loop-at-speed.js';
 import { curveEntryPath, laneChangePath, sampledPath } from './scenarios.js';
-import type { DisturbanceFigures, TimeDomainFigures, TimeDomainLimits } from './types.js';
+import type { BreakpointTraces, DisturbanceFigures, TimeDomainFigures, TimeDomainLimits } from './types.js';
 
 export interface SetpointWeights {
   /** b: the proportional term acts on b·r − y. */
@@ -45,6 +45,8 @@ export interface BreakpointPerformanceInput {
   readonly setpointWeights?: SetpointWeights;
   /** The firmware's anti-windup, for the step through the actuator's limits. */
   readonly antiWindup: AntiWindup;
+  /** Keep the simulated responses behind the figures (`traces`), e.g. to draw them. */
+  readonly keepTraces?: boolean;
 }
 
 export interface BreakpointPerformance {
@@ -52,6 +54,8 @@ export interface BreakpointPerformance {
   readonly figures: TimeDomainFigures;
   /** The limits broken, in words (empty: within every limit). */
   readonly failures: readonly string[];
+  /** The responses behind the figures (only with `keepTraces`). */
+  readonly traces?: BreakpointTraces;
 }
 
 /** Steps of the bisection on b (2^−14 of the unit interval). */
@@ -102,6 +106,7 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
       : simulateClosedLoop({ plant: loop.plant, gains: firmware(weights.proportional, weights.derivative, 0), settings, reference });
   const settling = settlingTime_s(step.output, 1, d.settlingBand, ts);
   let stepCommand = step.command;
+  let stepOutput = step.output;
   let referenceStep: TimeDomainFigures['referenceStep'] = {
     overshoot_pct: overshoot_pct(step.output),
     settlingTime_s: settling,
@@ -109,21 +114,25 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
   };
 
   // Disturbances: the loop output's response outside the loop, added to the measurement (exact by superposition).
-  const disturbance = (response: import('../lti/types.js').TransferFunction, size: number): DisturbanceFigures => {
+  const disturbance = (response: import('../lti/types.js').TransferFunction, size: number): { figures: DisturbanceFigures; run: { error: Float64Array; command: Float64Array } } => {
     const count = samples(settle_s);
     const time = Float64Array.from({ length: count }, (_, k) => k * ts);
     const open = stepResponse(response, time).output;
     const outputDisturbance = Float64Array.from(open, (y) => size * y);
     const run = simulateClosedLoop({ plant: loop.plant, gains: firmware(weights.proportional, weights.derivative, 0), settings, reference: new Float64Array(count), outputDisturbance });
     const peakError = peakMagnitude(run.error);
-    return { size, peakError, recoveryTime_s: peakError === 0 ? 0 : settlingTime_s(run.error, 0, d.recoveryBand * peakError, ts) };
+    return { figures: { size, peakError, recoveryTime_s: peakError === 0 ? 0 : settlingTime_s(run.error, 0, d.recoveryBand * peakError, ts) }, run };
   };
-  const steeringMisalignment = disturbance(loop.misalignment, d.steeringMisalignment_rad);
-  const lateralForce = loop.lateralForce === null || loop.mass_kg === null ? null : disturbance(loop.lateralForce, d.lateralForcePerWeight * loop.mass_kg * d.gravity_mps2);
+  const misalignmentRun = disturbance(loop.misalignment, d.steeringMisalignment_rad);
+  const lateralForceRun = loop.lateralForce === null || loop.mass_kg === null ? null : disturbance(loop.lateralForce, d.lateralForcePerWeight * loop.mass_kg * d.gravity_mps2);
+  const steeringMisalignment = misalignmentRun.figures;
+  const lateralForce = lateralForceRun?.figures ?? null;
 
   let laneChange: TimeDomainFigures['laneChange'] = null;
   let curveEntry: TimeDomainFigures['curveEntry'] = null;
   let laneChangeCommand: Float64Array | null = null;
+  let laneRunKept: BreakpointTraces['laneChange'] = null;
+  let curveRunKept: BreakpointTraces['curveEntry'] = null;
   if (loop.kind === 'path') {
     const v = loop.speed_mps;
     const ff = loop.feedForward;
@@ -134,6 +143,7 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     const laneRun = simulateClosedLoop({ plant: loop.plant, gains: full, settings, reference: new Float64Array(laneCount), outputDisturbance: lane.disturbance, feedForwardInput: lane.curvature });
     laneChange = { size_m: d.laneChangeSize_m, length_m: length, peakError_m: peakMagnitude(laneRun.error) };
     laneChangeCommand = laneRun.command;
+    laneRunKept = laneRun;
     const curvature = Math.min(d.curveLateralAcceleration_mps2 / (v * v), (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(ff.gain));
     const curveCount = samples(d.leadIn_s + settle_s);
     const curve = sampledPath(curveEntryPath(curvature), v, ts, d.leadIn_s, ff.leadTime_s, curveCount);
@@ -143,9 +153,11 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
       peakError_m: peakMagnitude(curveRun.error),
       errorAfterSettle_m: peakMagnitude(curveRun.error, Math.round((d.leadIn_s + d.curveEntrySettle_s) / ts)),
     };
+    curveRunKept = curveRun;
   }
 
   let limitedStep: TimeDomainFigures['limitedStep'] = null;
+  let limitedRunKept: BreakpointTraces['limitedStep'] = null;
   if (loop.actuator !== null && loop.kind !== 'path') {
     const actuatorModel = loop.actuator;
     const v = loop.speed_mps;
@@ -154,7 +166,7 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
         ? d.limitedHeadingStep_rad
         : Math.min(d.limitedYawStepLateralAcceleration_mps2 / v, (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(loop.feedForward.gain));
     const count = samples(settle_s);
-    const limitedRun = (b: number): NonNullable<TimeDomainFigures['limitedStep']> => {
+    const limitedRun = (b: number): NonNullable<TimeDomainFigures['limitedStep']> & { run: { output: Float64Array; steerAngle: Float64Array } } => {
       const run = simulateLimitedLoop({
         vehicle: loop.misalignment,
         actuator: actuatorModel,
@@ -167,11 +179,11 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
       let peakRate = 0;
       for (let k = 1; k < count; k++) peakRate = Math.max(peakRate, Math.abs(run.steerAngle[k] - run.steerAngle[k - 1]) / ts);
       const normalised = run.output.map((y) => y / size);
-      return { size, overshoot_pct: overshoot_pct(normalised), settlingTime_s: settlingTime_s(normalised, 1, d.settlingBand, ts), peakSteerRate_radps: peakRate };
+      return { size, overshoot_pct: overshoot_pct(normalised), settlingTime_s: settlingTime_s(normalised, 1, d.settlingBand, ts), peakSteerRate_radps: peakRate, run };
     };
-    limitedStep = limitedRun(weights.proportional);
+    let limited = limitedRun(weights.proportional);
     // Chosen weights (heading loop): lower b until the step through the limits keeps the overshoot limit too (its overshoot grows with b).
-    if (loop.kind === 'heading' && input.setpointWeights === undefined && limitedStep.overshoot_pct > limits.maximumOvershoot_pct && weights.proportional > 0) {
+    if (loop.kind === 'heading' && input.setpointWeights === undefined && limited.overshoot_pct > limits.maximumOvershoot_pct && weights.proportional > 0) {
       let low = 0;
       let high = weights.proportional;
       let best = limitedRun(0);
@@ -186,16 +198,32 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
         }
       }
       weights = { ...weights, proportional: low };
-      limitedStep = best;
+      limited = best;
       const lowered = mix(atZero.output, atOne.output, low);
       const settlingLowered = settlingTime_s(lowered, 1, d.settlingBand, ts);
       referenceStep = { overshoot_pct: overshoot_pct(lowered), settlingTime_s: settlingLowered, settlingDistance_m: settlingLowered === null ? null : settlingLowered * loop.speed_mps };
       stepCommand = mix(atZero.command, atOne.command, low);
+      stepOutput = lowered;
     }
+    const { run, ...limitedFigures } = limited;
+    limitedStep = limitedFigures;
+    limitedRunKept = run;
   }
   const actuator = actuatorRoom(laneChangeCommand ?? stepCommand, laneChangeCommand === null ? 1 : d.laneChangeSize_m, loop, input.vehicleLimits);
   const figures: TimeDomainFigures = { referenceStep, steeringMisalignment, lateralForce, laneChange, curveEntry, actuator, limitedStep };
-  return { setpointWeights: weights, figures, failures: judgeTimeDomain(figures, limits, loop.kind) };
+  const result = { setpointWeights: weights, figures, failures: judgeTimeDomain(figures, limits, loop.kind) };
+  if (input.keepTraces !== true) return result;
+  const traces: BreakpointTraces = {
+    sampleTime_s: ts,
+    leadIn_s: d.leadIn_s,
+    referenceStep: { output: stepOutput, command: stepCommand },
+    steeringMisalignment: misalignmentRun.run,
+    lateralForce: lateralForceRun?.run ?? null,
+    laneChange: laneRunKept,
+    curveEntry: curveRunKept,
+    limitedStep: limitedRunKept,
+  };
+  return { ...result, traces };
 }
 
 export { judgeTimeDomain } from './time-domain-limits.js';

@@ -84,3 +84,21 @@ export interface TimeDomainFigures {
   /** Heading and yaw-rate loops on the single-track model: a large step through the actuator's limits. */
   readonly limitedStep: LimitedStepFigures | null;
 }
+
+/**
+ * The simulated responses behind the figures at one breakpoint, one value per controller sample from t = 0
+ * (breakpointPerformance with keepTraces). Loop output and error in the loop's unit; command and angle in rad.
+ */
+export interface BreakpointTraces {
+  readonly sampleTime_s: number;
+  /** Straight driving before the lane change and the curve entry start, s. */
+  readonly leadIn_s: number;
+  /** The unit reference step with the chosen set-point weights (linear loop): output and road-wheel angle command per unit of the step. */
+  readonly referenceStep: { readonly output: Float64Array; readonly command: Float64Array };
+  readonly steeringMisalignment: { readonly error: Float64Array; readonly command: Float64Array };
+  readonly lateralForce: { readonly error: Float64Array; readonly command: Float64Array } | null;
+  readonly laneChange: { readonly error: Float64Array; readonly command: Float64Array } | null;
+  readonly curveEntry: { readonly error: Float64Array; readonly command: Float64Array } | null;
+  /** The step through the steering limits at its full size: loop output and road-wheel angle. */
+  readonly limitedStep: { readonly output: Float64Array; readonly steerAngle: Float64Array } | null;
+}
