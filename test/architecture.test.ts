@@ -22,7 +22,8 @@ export const LAYERS: Readonly<Record<string, number>> = {
   export: 9,
   compare: 9,
   build: 10,
-  cli: 11,
+  report: 11,
+  cli: 12,
 };
 
 function sourceFiles(folder: string): string[] {

@@ -19,6 +19,7 @@ export function pointMargins(margins: LoopMargins): PointMargins {
     phaseMargin_deg: margins.phaseMargin_deg,
     delayMargin_s: margins.delayMargin_s,
     sensitivityPeak: margins.sensitivityPeak,
+    complementarySensitivityPeak: margins.complementarySensitivityPeak,
   };
 }
 

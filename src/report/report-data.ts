@@ -18,6 +18,7 @@ import { VERSION } from '../version.js';
 import { loopResponseAt, responseSpeeds } from './frequency-responses.js';
 import { modelPrediction } from './model-prediction.js';
 import { reportCheck, reproducesRecordedCheck, rerunScheduleCheck } from './report-check.js';
+import { closedLoopTraces } from './closed-loop-traces.js';
 import { stepTraces } from './step-traces.js';
 import type { GainCurve, ReportBaseline, ReportData } from './types.js';
 import { checkGrid } from '../schedule/grid.js';
@@ -136,5 +137,6 @@ export function gatherReportData(input: ReportInput): ReportData {
         ? null
         : stepTraces({ models: models.content, modelsFile: models.file, logPaths: input.logs.paths, ...(input.logs.readOptions === undefined ? {} : { readOptions: input.logs.readOptions }) }),
     baseline: input.baseline === undefined ? null : baselineData(input.baseline, schedule, testSpeeds),
+    closedLoop: model === null ? null : closedLoopTraces(schedule, model, dense),
   };
 }

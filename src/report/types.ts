@@ -7,6 +7,7 @@
 import type { OldGainsOnNewVehicle, ScheduleComparison } from '../compare/types.js';
 import type { PidGains } from '../controller/types.js';
 import type { ModelsFile } from '../identify/models-schema.js';
+import type { TimeDomainFigures } from '../performance/types.js';
 import type { CheckCriterion } from '../schedule/types.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 
@@ -18,6 +19,7 @@ export interface PointMargins {
   readonly phaseMargin_deg: number | null;
   readonly delayMargin_s: number | null;
   readonly sensitivityPeak: number | null;
+  readonly complementarySensitivityPeak: number | null;
 }
 
 /** One speed of a dense check: the gains the lookup gives there, their margins and the limits they break. */
@@ -137,6 +139,44 @@ export interface GainCurve {
   readonly kd: readonly number[];
 }
 
+/** One simulated signal, thinned for drawing: time since the start of the simulation, s, and its value. */
+export interface TraceSignal {
+  readonly time_s: readonly number[];
+  readonly value: readonly number[];
+}
+
+/** The closed-loop responses at one breakpoint (closed-loop-traces.ts); angles rad, rates rad/s, errors in the loop's unit. */
+export interface ClosedLoopTracesAtSpeed {
+  readonly speed_mps: number;
+  /** Why this breakpoint was drawn, in words. */
+  readonly reason: string;
+  /** The figures of the simulation the traces come from (equal to the schedule's when it is reproduced). */
+  readonly figures: TimeDomainFigures;
+  /** Loop output per unit of a reference step, with the breakpoint's set-point weights (linear loop). */
+  readonly referenceStep: TraceSignal;
+  /** The step of `size` through the steering limits: output per unit of the step, road-wheel angle and its rate. */
+  readonly limitedStep: { readonly size: number; readonly output: TraceSignal; readonly angle: TraceSignal; readonly rate: TraceSignal } | null;
+  /** Error after a steering misalignment and after a lateral force step, each as a fraction of its own peak. */
+  readonly steeringMisalignment: TraceSignal;
+  readonly lateralForce: TraceSignal | null;
+  /** Path loop: the lane change's error, the angle commanded and the steering rate asked of the actuator. */
+  readonly laneChange: { readonly error: TraceSignal; readonly angle: TraceSignal; readonly rate: TraceSignal } | null;
+  /** Path loop: the curve entry's error. */
+  readonly curveEntry: TraceSignal | null;
+}
+
+export interface ClosedLoopTraces {
+  /** Unit of the loop's error and output (schedule units.error). */
+  readonly errorUnit: string;
+  /** Straight driving before the lane change and the curve entry, s; the curve-entry error is judged from this long after entry on, s. */
+  readonly leadIn_s: number;
+  readonly curveEntrySettle_s: number;
+  /** Settling band of a step and recovery band of a disturbance, fractions. */
+  readonly settlingBand: number;
+  readonly recoveryBand: number;
+  readonly speeds: readonly ClosedLoopTracesAtSpeed[];
+}
+
 export interface ReportData {
   readonly toolVersion: string;
   /** The schedule as the user named it (base name). */
@@ -154,4 +194,6 @@ export interface ReportData {
   readonly prediction: ModelPrediction | null;
   readonly stepTraces: readonly StepTracesAtSpeed[] | null;
   readonly baseline: ReportBaseline | null;
+  /** The closed-loop responses behind the time-domain figures at a few breakpoints (null: no model to rebuild, or no figures). */
+  readonly closedLoop: ClosedLoopTraces | null;
 }

@@ -24,6 +24,7 @@ export const CRITERION_NAMES: Readonly<Record<CheckCriterion, string>> = {
   phaseMargin: 'phase margin',
   delayMargin: 'delay margin',
   sensitivityPeak: 'peak sensitivity',
+  complementarySensitivityPeak: 'peak complementary sensitivity',
 };
 const CRITERION_ORDER = Object.keys(CRITERION_NAMES) as CheckCriterion[];
 

@@ -2,12 +2,13 @@
 /**
  * The report in a browser: headless Chromium (Debian's package, driven by playwright-core; nothing is
  * downloaded) opens the reports `build --report` writes for every demo vehicle — the parcel van, the vineyard
- * sprayer, the sidewalk robot, and the loaded van against the van's schedule as its baseline. No console error,
+ * sprayer, the sidewalk robot, the van's path loop (the default path plan), and the loaded van against the van's
+ * schedule as its baseline. No console error,
  * no request beyond the file itself, every plot with data marks that actually paint pixels, the tables equal to
  * schedule.json, and a print layout that fits A4 and Letter. Screenshots are left in the folder printed by
  * SCREENSHOTS below for a person to look at.
  */
-import { mkdirSync, mkdtempSync, readFileSync, statSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -65,6 +66,9 @@ beforeAll(async () => {
   const van = await build('parcel-van', 'parcel-van', ['--models-out', join(dir, 'parcel-van-models.json')]);
   reports.push(van, await build('vineyard-sprayer', 'vineyard-sprayer'), await build('sidewalk-robot', 'sidewalk-robot'));
   reports.push(await build('parcel-van-loaded', 'parcel-van-loaded', ['--baseline', van.schedule]));
+  // The path loop with the default path plan of the README.
+  writeFileSync(join(dir, 'path-plan.json'), JSON.stringify({ loop: { kind: 'path' } }));
+  reports.push(await build('parcel-van-path', 'parcel-van', ['--plan', join(dir, 'path-plan.json')]));
   browser = await launchChromium();
   checking = await browser.newContext({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 0.5 });
   full = await browser.newContext({ viewport: { width: 1280, height: 900 } });
@@ -132,7 +136,7 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
   }, 120_000);
 
   it('the numbers in the tables are those of schedule.json, read back from the page (every breakpoint field, the worst figures, the inputs, the checksum)', async () => {
-    for (const built of [reports[0], reports[3]]) {
+    for (const built of [reports[0], reports[3], reports[4]]) {
       const schedule = readSchedule(built.schedule);
       const { page } = await open(built.report);
       const rows = await page.$$eval('#breakpoints tbody tr', (trs) =>
@@ -155,6 +159,23 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
         expect(worst[`${name}.speed_mps`] === null ? null : Number(worst[`${name}.speed_mps`]), name).toBe(value?.speed_mps ?? null);
       }
       expect(Number(worst['phaseMargin_deg.limit'])).toBe(schedule.check.thresholds.minimumPhaseMargin_deg);
+      // Set-point weights, feed-forward and every time-domain figure the table shows, as the file holds them.
+      const timeDomain = await page.$$eval('#time-domain-table tbody tr', (trs) =>
+        trs.map((tr) => Object.fromEntries([...tr.querySelectorAll('td[data-field]')].map((td) => [td.getAttribute('data-field'), td.querySelector('data')?.getAttribute('value') ?? td.textContent]))),
+      );
+      expect(timeDomain).toHaveLength(schedule.breakpoints.length);
+      schedule.breakpoints.forEach((breakpoint, k) => {
+        const row = timeDomain[k] as Record<string, string>;
+        for (const field of ['speed_mps', 'setpointWeightProportional', 'setpointWeightDerivative', 'feedForward', 'feedForwardLeadTime_s'] as const) expect(Number(row[field]), field).toBe(breakpoint[field]);
+        const figures = breakpoint.timeDomain as unknown as Record<string, Record<string, number | null> | null>;
+        const columns = Object.keys(row).filter((field) => field.includes('.') && field !== 'actuator.limitedBy');
+        expect(columns.length).toBeGreaterThanOrEqual(5);
+        for (const field of columns) {
+          const [part, name] = field.split('.');
+          expect(row[field] === '—' ? null : Number(row[field]), `${built.name} ${breakpoint.speed_mps} m/s ${field}`).toBe(figures[part]?.[name] ?? null);
+        }
+        expect(row['actuator.limitedBy']).toBe(breakpoint.timeDomain!.actuator.limitedBy);
+      });
       const inputs = await page.$$eval('#inputs tbody tr', (trs) => trs.map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent)));
       expect(inputs).toEqual(schedule.provenance.inputs.map((input) => [input.file, input.role, input.sha256]));
       expect(await page.textContent('#checksum')).toBe(schedule.checksum.value);
@@ -170,31 +191,40 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
     await page.close();
   }, 30_000);
 
-  it('screenshots at 1280 px and in print emulation; the print layout fits the printable width of A4 and of Letter, without navigation or fallback tables; both print as PDF', async () => {
-    const built = reports[3];
-    const { page } = await open(built.report, full);
-    await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-1280.png`), fullPage: true });
-    await page.emulateMedia({ media: 'print' });
-    for (const [paper, width] of Object.entries(PRINTABLE_WIDTH_PX)) {
-      await page.setViewportSize({ width: Math.floor(width), height: 1100 });
-      const layout = await page.evaluate(() => ({
-        overflow: document.documentElement.scrollWidth - window.innerWidth,
-        widestPlot: Math.max(...[...document.querySelectorAll('svg.plot')].map((svg) => svg.getBoundingClientRect().right)),
-        hidden: [...document.querySelectorAll('nav.contents, details')].every((element) => getComputedStyle(element).display === 'none'),
-        cautionsFirst: document.querySelector('.cautions')!.getBoundingClientRect().top < document.querySelector('main')!.getBoundingClientRect().top,
-      }));
-      expect(layout.overflow, paper).toBeLessThanOrEqual(0);
-      expect(layout.widestPlot, paper).toBeLessThanOrEqual(width);
-      expect(layout.hidden, paper).toBe(true);
-      expect(layout.cautionsFirst, paper).toBe(true);
-      if (paper === 'A4') await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-print-A4.png`), fullPage: true });
+  it('screenshots at 1280 px and in print emulation; the print layout fits the printable width of A4 and of Letter, without navigation or fallback tables; both print as PDF (the loaded van and the path loop)', async () => {
+    await (async () => {
+      const { page } = await open(reports[0].report, full);
+      await page.screenshot({ path: join(SCREENSHOTS, `${reports[0].name}-1280.png`), fullPage: true });
+      await page.close();
+    })();
+    // The loaded van (yaw-rate loop, with a baseline) and the path loop (the widest tables).
+    for (const built of [reports[3], reports[4]]) {
+      const { page } = await open(built.report, full);
+      await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-1280.png`), fullPage: true });
+      await page.emulateMedia({ media: 'print' });
+      for (const [paper, width] of Object.entries(PRINTABLE_WIDTH_PX)) {
+        await page.setViewportSize({ width: Math.floor(width), height: 1100 });
+        const layout = await page.evaluate(() => ({
+          overflow: document.documentElement.scrollWidth - window.innerWidth,
+          widestPlot: Math.max(...[...document.querySelectorAll('svg.plot')].map((svg) => svg.getBoundingClientRect().right)),
+          widestTable: Math.max(...[...document.querySelectorAll('main table')].filter((table) => table.closest('details') === null).map((table) => table.getBoundingClientRect().right)),
+          hidden: [...document.querySelectorAll('nav.contents, details')].every((element) => getComputedStyle(element).display === 'none'),
+          cautionsFirst: document.querySelector('.cautions')!.getBoundingClientRect().top < document.querySelector('main')!.getBoundingClientRect().top,
+        }));
+        expect(layout.overflow, `${built.name} ${paper}`).toBeLessThanOrEqual(0);
+        expect(layout.widestPlot, `${built.name} ${paper}`).toBeLessThanOrEqual(width);
+        expect(layout.widestTable, `${built.name} ${paper}`).toBeLessThanOrEqual(width);
+        expect(layout.hidden, `${built.name} ${paper}`).toBe(true);
+        expect(layout.cautionsFirst, `${built.name} ${paper}`).toBe(true);
+        if (paper === 'A4') await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-print-A4.png`), fullPage: true });
+      }
+      for (const format of ['A4', 'Letter'] as const) {
+        const pdf = await page.pdf({ format, margin: { top: '14mm', bottom: '14mm', left: '14mm', right: '14mm' } });
+        expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+        expect((pdf.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length, format).toBeGreaterThan(5);
+      }
+      await page.close();
+      expect(readFileSync(join(SCREENSHOTS, `${built.name}-1280.png`)).length).toBeGreaterThan(10_000);
     }
-    for (const format of ['A4', 'Letter'] as const) {
-      const pdf = await page.pdf({ format, margin: { top: '14mm', bottom: '14mm', left: '14mm', right: '14mm' } });
-      expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
-      expect((pdf.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length, format).toBeGreaterThan(5);
-    }
-    await page.close();
-    expect(readFileSync(join(SCREENSHOTS, `${built.name}-1280.png`)).length).toBeGreaterThan(10_000);
-  }, 60_000);
+  }, 120_000);
 });

@@ -53,7 +53,7 @@ describe('speedband build --report and speedband report', () => {
     const again = join(dir, 'again.html');
     const result = await cli('report', schedulePath, '--models', modelsPath, '--logs', LOGS, '--out', again);
     expect(result.code, result.err).toBe(0);
-    expect(result.out).toMatch(/^Wrote .*again\.html \(\d+ KB; Breakpoints and worst figures, Gains against speed, Margins against speed, Frequency response and Nyquist plots, Identified models against speed, Fits over the measured steps, Provenance\)\n$/);
+    expect(result.out).toMatch(/^Wrote .*again\.html \(\d+ KB; Breakpoints and worst figures, Gains against speed, Margins against speed, Time-domain figures and closed-loop responses, Frequency response and Nyquist plots, Identified models against speed, Fits over the measured steps, Provenance\)\n$/);
     expect(readFileSync(again)).toEqual(readFileSync(reportPath));
     // No machine paths: base names only.
     expect(readFileSync(again, 'utf8')).not.toContain(dir);

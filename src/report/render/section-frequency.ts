@@ -105,8 +105,8 @@ function figureOf(entry: FrequencyResponseAtSpeed, data: ReportData, context: Re
       caption: `Open loop at ${speed} m/s (${entry.reason}): Bode and Nyquist plots.`,
       panels: [...bodePanels(series, speed), nyquistPanel(series, speed, data.schedule.check.thresholds.maximumSensitivityPeak)],
       notes: [
-        `New gains kp ${shownNumber(r.gains.kp)}, ki ${shownNumber(r.gains.ki)}, kd ${shownNumber(r.gains.kd)}: phase margin ${fixedNumber(m.phaseMargin_deg, 1)}° at ${shownNumber(m.phaseMarginFrequency_radps, 3)} rad/s, upper gain margin ${fixedNumber(m.upperGainMargin_dB, 2)} dB at ${shownNumber(m.upperGainMarginFrequency_radps, 3)} rad/s, Ms ${shownNumber(m.sensitivityPeak, 3)}; closed loop ${m.verdict}.`,
-        ...(entry.old === null ? [] : [`Old gains on the new vehicle: phase margin ${fixedNumber(entry.old.margins.phaseMargin_deg, 1)}°, upper gain margin ${fixedNumber(entry.old.margins.upperGainMargin_dB, 2)} dB, Ms ${shownNumber(entry.old.margins.sensitivityPeak, 3)}; closed loop ${entry.old.margins.verdict}.`]),
+        `New gains kp ${shownNumber(r.gains.kp)}, ki ${shownNumber(r.gains.ki)}, kd ${shownNumber(r.gains.kd)}: phase margin ${fixedNumber(m.phaseMargin_deg, 1)}° at ${shownNumber(m.phaseMarginFrequency_radps, 3)} rad/s, upper gain margin ${fixedNumber(m.upperGainMargin_dB, 2)} dB at ${shownNumber(m.upperGainMarginFrequency_radps, 3)} rad/s, Ms ${shownNumber(m.sensitivityPeak, 3)}, Mt ${shownNumber(m.complementarySensitivityPeak, 3)}; closed loop ${m.verdict}.`,
+        ...(entry.old === null ? [] : [`Old gains on the new vehicle: phase margin ${fixedNumber(entry.old.margins.phaseMargin_deg, 1)}°, upper gain margin ${fixedNumber(entry.old.margins.upperGainMargin_dB, 2)} dB, Ms ${shownNumber(entry.old.margins.sensitivityPeak, 3)}, Mt ${shownNumber(entry.old.margins.complementarySensitivityPeak, 3)}; closed loop ${entry.old.margins.verdict}.`]),
       ],
       table: { caption: `L of the new gains at ${speed} m/s (every ${TABLE_STRIDE}th frequency)`, header: ['frequency rad/s', '|L| dB', 'phase °', 'Re L', 'Im L'], rows },
     },

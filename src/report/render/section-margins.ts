@@ -1,6 +1,6 @@
 /**
  * Margins against speed on the dense grid: one plot per figure (phase margin, both gain margins, delay
- * margin, peak sensitivity) with the side beyond its limit shaded, the breakpoints, the failing speeds
+ * margin, peak sensitivity Ms and peak complementary sensitivity Mt) with the side beyond its limit shaded, the breakpoints, the failing speeds
  * marked, and with a baseline the old gains on the new vehicle. A figure no speed has (no lower gain margin
  * on a loop that is not conditionally stable) is said in words, not drawn empty.
  */
@@ -11,7 +11,7 @@ import { escapeHtml, fixedNumber, numberCell, shownNumber, textCell } from './ht
 import { ROLE_COLOURS } from './palette.js';
 import type { Mark, PlotSpec } from './plot-types.js';
 
-type Figure = 'phaseMargin_deg' | 'upperGainMargin_dB' | 'lowerGainMargin_dB' | 'delayMargin_s' | 'sensitivityPeak';
+type Figure = 'phaseMargin_deg' | 'upperGainMargin_dB' | 'lowerGainMargin_dB' | 'delayMargin_s' | 'sensitivityPeak' | 'complementarySensitivityPeak';
 
 interface FigureWords {
   readonly field: Figure;
@@ -28,6 +28,7 @@ const FIGURES: readonly FigureWords[] = [
   { field: 'lowerGainMargin_dB', criterion: 'lowerGainMargin', name: 'lower gain margin', unit: 'dB', limit: (d) => ({ value: d.schedule.check.thresholds.maximumLowerGainMargin_dB, failsBelow: false }) },
   { field: 'delayMargin_s', criterion: 'delayMargin', name: 'delay margin', unit: 's', limit: (d) => ({ value: d.schedule.check.thresholds.minimumDelayMargin_s, failsBelow: true }) },
   { field: 'sensitivityPeak', criterion: 'sensitivityPeak', name: 'peak sensitivity Ms', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumSensitivityPeak, failsBelow: false }) },
+  { field: 'complementarySensitivityPeak', criterion: 'complementarySensitivityPeak', name: 'peak complementary sensitivity Mt', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumComplementarySensitivityPeak, failsBelow: false }) },
 ];
 
 const values = (check: ReportCheck, field: Figure): (number | null)[] => check.points.map((point) => point.margins[field]);
@@ -104,5 +105,24 @@ export function renderMarginsSection(data: ReportData, context: RenderContext): 
       ? `<p class="notice">${escapeHtml(data.checkUnavailable ?? 'The dense check is not available.')} Only the margins proven at the breakpoints are drawn.</p>`
       : `<p>Margins of the sampled loop (discrete PID, zero-order hold, the computation latency) at every speed of the dense check; the shaded side of each limit fails. A margin missing at a speed means there is no such crossing there (or the loop is not stable).</p>`;
   const missing = absent.length === 0 ? '' : `<p>Not drawn: ${absent.map(escapeHtml).join(', ')} — no speed has one (no crossing of that kind).</p>`;
-  return `${intro}<div class="grid">${figures.join('\n')}</div>${missing}`;
+  return `${intro}${verdictNotice(data)}<div class="grid">${figures.join('\n')}</div>${missing}`;
+}
+
+/** Where the closed loop is not stable — 'marginal' (a pole on the unit circle within its rounding bound) or unstable — as runs of check speeds, in words. */
+function verdictNotice(data: ReportData): string {
+  const points = data.check?.points ?? [];
+  const words: string[] = [];
+  for (const verdict of ['marginal', 'unstable'] as const) {
+    const runs: [number, number][] = [];
+    points.forEach((point, k) => {
+      if (point.margins.verdict !== verdict) return;
+      const last = runs[runs.length - 1];
+      if (last !== undefined && points[k - 1]?.margins.verdict === verdict) last[1] = point.speed_mps;
+      else runs.push([point.speed_mps, point.speed_mps]);
+    });
+    if (runs.length === 0) continue;
+    const where = runs.map(([from, to]) => (from === to ? `${fixedNumber(from, 2)} m/s` : `${fixedNumber(from, 2)}–${fixedNumber(to, 2)} m/s`)).join(', ');
+    words.push(verdict === 'marginal' ? `marginal at ${where} (a closed-loop pole on the unit circle within the bound on its rounding error: neither proven stable nor unstable)` : `unstable at ${where}`);
+  }
+  return words.length === 0 ? '' : `<p class="notice">The closed loop of the new gains is ${escapeHtml(words.join('; '))}. No margins are drawn there.</p>`;
 }

@@ -54,6 +54,7 @@ export function worstTable(schedule: ScheduleFile): string {
       row('phase margin (smallest)', 'phaseMargin_deg', '°', thresholds.minimumPhaseMargin_deg, '≥', (v) => fixedNumber(v, 1)),
       row('delay margin (smallest)', 'delayMargin_s', 's', thresholds.minimumDelayMargin_s, '≥', (v) => shownNumber(v, 4)),
       row('peak sensitivity Ms (largest)', 'sensitivityPeak', '', thresholds.maximumSensitivityPeak, '≤', (v) => shownNumber(v, 4)),
+      row('peak complementary sensitivity Mt (largest)', 'complementarySensitivityPeak', '', thresholds.maximumComplementarySensitivityPeak, '≤', (v) => shownNumber(v, 4)),
     ],
   });
 }

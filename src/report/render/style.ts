@@ -63,6 +63,8 @@ footer.report { margin: 2rem auto 2rem; font-size: 0.85rem; color: #444; border-
   tr, .cautions, .key-fact { break-inside: avoid; page-break-inside: avoid; }
   .cautions, .key-fact, .notice { background: none; }
   a { color: inherit; text-decoration: none; }
-  table { font-size: 8.5pt; }
+  table { font-size: 7.5pt; }
+  th, td { padding: 0.1rem 0.25rem; }
+  .table-scroll { overflow: visible; }
 }
 `;

@@ -1,0 +1,119 @@
+/**
+ * The report's time-domain section: the closed-loop responses it draws are the simulations behind the
+ * figures schedule.json records (simulated again, every figure equal), the thinned curves keep their peaks,
+ * the section is drawn only when the schedule has figures, and a 'marginal' verdict is said in words.
+ */
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { beforeAll, describe, expect, it } from 'vitest';
+import { recordingIo } from '../../src/cli/io.js';
+import { runCli } from '../../src/cli/main.js';
+import { readModels } from '../../src/identify/models-file.js';
+import { thinnedSignal, TRACE_STRETCHES } from '../../src/report/closed-loop-traces.js';
+import { reportSectionTitles } from '../../src/report/render/index.js';
+import { gatherReportData } from '../../src/report/report-data.js';
+import type { ReportData, TraceSignal } from '../../src/report/types.js';
+import { renderReportHtml } from '../../src/report/write-report.js';
+import { readSchedule } from '../../src/schedule/schedule-file.js';
+import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
+
+const VAN = 'vehicles/parcel-van';
+let yawRate: ReportData;
+let path: ReportData;
+
+async function cli(...args: string[]): Promise<void> {
+  const io = recordingIo();
+  const code = await runCli(args, io);
+  if (code !== 0) throw new Error(`${args.join(' ')} failed: ${io.err()}${io.out()}`);
+}
+
+beforeAll(async () => {
+  const dir = mkdtempSync(join(tmpdir(), 'speedband-closed-loop-'));
+  const models = join(dir, 'models.json');
+  await cli('build', '--vehicle', VAN, '--logs', join(VAN, 'logs'), '--out', join(dir, 'yaw-rate.json'), '--models-out', models);
+  // The default path plan (README): {"loop":{"kind":"path"}}.
+  writeFileSync(join(dir, 'path-plan.json'), JSON.stringify({ loop: { kind: 'path' } }));
+  await cli('build', '--vehicle', VAN, '--models', models, '--plan', join(dir, 'path-plan.json'), '--out', join(dir, 'path.json'));
+  const content = readModels(models);
+  for (const name of ['yaw-rate', 'path'] as const) {
+    const file = join(dir, `${name}.json`);
+    const data = gatherReportData({ schedule: readSchedule(file), scheduleFile: file, models: { file: models, content } });
+    if (name === 'path') path = data;
+    else yawRate = data;
+  }
+}, 90_000);
+
+const peakOf = (signal: TraceSignal): number => Math.max(...signal.value.map(Math.abs));
+
+describe('closed-loop responses in the report', () => {
+  it('are the simulations behind schedule.json: simulated again at the drawn breakpoints, every time-domain figure equals the one the file records (yaw-rate and path loops)', () => {
+    for (const data of [yawRate, path]) {
+      const drawn = data.closedLoop!.speeds;
+      const speeds = data.schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps);
+      // The lowest and highest breakpoint, and the one closest to a limit.
+      expect(drawn[0].speed_mps).toBe(speeds[0]);
+      expect(drawn.at(-1)!.speed_mps).toBe(speeds.at(-1));
+      expect(drawn.some((at) => /closest to a time-domain limit/.test(at.reason))).toBe(true);
+      for (const at of drawn) {
+        const recorded = data.schedule.breakpoints.find((breakpoint) => breakpoint.speed_mps === at.speed_mps)!.timeDomain;
+        expect(JSON.parse(JSON.stringify(at.figures)), `${data.schedule.loop.kind} at ${at.speed_mps} m/s`).toEqual(recorded);
+      }
+    }
+  });
+
+  it('keep the peaks the figures are read from: overshoot of the step, peak error of the lane change and the curve entry, the steering rate asked for and reached', () => {
+    for (const at of yawRate.closedLoop!.speeds) {
+      expect(100 * (Math.max(...at.referenceStep.value) - 1)).toBe(at.figures.referenceStep.overshoot_pct);
+      // The step through the limits: the rate the road wheels reach is the figure, and never above the vehicle's limit.
+      expect(peakOf(at.limitedStep!.rate)).toBeCloseTo(at.figures.limitedStep!.peakSteerRate_radps, 12);
+      expect(peakOf(at.limitedStep!.rate)).toBeLessThanOrEqual(yawRate.schedule.check.timeDomain.steeringLimits.maxSteerRate_radps * (1 + 1e-12));
+      expect(peakOf(at.steeringMisalignment)).toBe(1);
+    }
+    for (const at of path.closedLoop!.speeds) {
+      const figures = at.figures;
+      expect(peakOf(at.laneChange!.error)).toBe(figures.laneChange!.peakError_m);
+      expect(peakOf(at.curveEntry!)).toBe(figures.curveEntry!.peakError_m);
+      // The actuator's room is read from the lane change: angle and asked-for rate per metre of lane change.
+      expect(peakOf(at.laneChange!.angle) / figures.laneChange!.size_m).toBeCloseTo(figures.actuator.peakAnglePerUnit, 12);
+      expect(peakOf(at.laneChange!.rate) / figures.laneChange!.size_m).toBeCloseTo(figures.actuator.peakRatePerUnit, 12);
+      expect(at.limitedStep).toBeNull();
+    }
+  });
+
+  it('thinning keeps each stretch\'s smallest and largest sample, in time order, and the last sample', () => {
+    const ts = 0.001;
+    const values = Float64Array.from({ length: 10_001 }, (_, k) => Math.sin(2 * Math.PI * 0.7 * k * ts) * Math.exp(-0.1 * k * ts));
+    const thinned = thinnedSignal(values, ts, 10);
+    expect(thinned.time_s.length).toBeLessThanOrEqual(2 * TRACE_STRETCHES + 1);
+    expect(Math.max(...thinned.value)).toBe(Math.max(...values));
+    expect(Math.min(...thinned.value)).toBe(Math.min(...values));
+    expect(thinned.time_s.every((t, k) => k === 0 || t > thinned.time_s[k - 1])).toBe(true);
+    expect(thinned.value.at(-1)).toBe(values.at(-1));
+    // Cut at the end time asked for.
+    expect(thinnedSignal(values, ts, 2.5).time_s.at(-1)).toBeCloseTo(2.5, 12);
+  });
+
+  it('the section is drawn only when the schedule has time-domain figures; the table lists the set-point weights and feed-forward of every breakpoint', async () => {
+    expect(reportSectionTitles(path)).toContain('Time-domain figures and closed-loop responses');
+    const without: ScheduleFile = { ...path.schedule, breakpoints: path.schedule.breakpoints.map((breakpoint) => ({ ...breakpoint, timeDomain: null })) };
+    expect(reportSectionTitles({ ...path, schedule: without, closedLoop: null })).not.toContain('Time-domain figures and closed-loop responses');
+    const { html } = await renderReportHtml(path);
+    const table = html.slice(html.indexOf('<table id="time-domain-table"'), html.indexOf('</table>', html.indexOf('<table id="time-domain-table"')));
+    for (const breakpoint of path.schedule.breakpoints) {
+      expect(table).toContain(`<data value="${String(breakpoint.setpointWeightProportional)}">`);
+      expect(table).toContain(`<data value="${String(breakpoint.feedForward)}">`);
+      expect(table).toContain(`<data value="${String(breakpoint.timeDomain!.laneChange!.peakError_m)}">`);
+    }
+  });
+
+  it("says where the closed loop is 'marginal' (a pole on the unit circle within its rounding bound) or unstable, as runs of check speeds", async () => {
+    const points = yawRate.check!.points;
+    const marked = points.map((point, k) => (k === 3 || k === 4 ? { ...point, margins: { ...point.margins, verdict: 'marginal' as const } } : k === 9 ? { ...point, margins: { ...point.margins, verdict: 'unstable' as const } } : point));
+    const { html } = await renderReportHtml({ ...yawRate, check: { ...yawRate.check!, points: marked } });
+    const speed = (k: number) => points[k].speed_mps.toFixed(2);
+    expect(html).toContain(`The closed loop of the new gains is marginal at ${speed(3)}–${speed(4)} m/s (a closed-loop pole on the unit circle`);
+    expect(html).toContain(`; unstable at ${speed(9)} m/s.`);
+    expect((await renderReportHtml(yawRate)).html).not.toContain('The closed loop of the new gains is');
+  });
+});
