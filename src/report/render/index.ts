@@ -20,13 +20,18 @@ function header(data: ReportData): string {
   const range = `${fixedNumber(schedule.check.range.minimum_mps, 2)}–${fixedNumber(schedule.check.range.maximum_mps, 2)} m/s`;
   const parts = [
     `<h1>Steering gain schedule — ${escapeHtml(schedule.vehicle.name)}</h1>`,
-    `<p><span class="status ${passed ? 'passed' : 'failed'}">${passed ? 'dense check passed' : 'dense check FAILED'}</span> ` +
-      `${escapeHtml(schedule.loop.kind)} loop, rule ${escapeHtml(schedule.provenance.rule.name)}, ${schedule.breakpoints.length} breakpoints over ${range}, ` +
-      `checked at ${schedule.check.gridSize} speeds; checksum <span class="mono">${escapeHtml(schedule.checksum.value.slice(0, 16))}…</span></p>`,
+    `<p><span class="status ${passed ? 'passed' : 'failed'}">${passed ? 'checks passed' : 'checks FAILED'}</span> ` +
+      `${escapeHtml(schedule.loop.kind)} loop, rule ${escapeHtml(schedule.provenance.rule.name)}, ${schedule.breakpoints.length} breakpoints over ${range}; ` +
+      `margins checked at ${schedule.check.gridSize} speeds, time-domain figures at the breakpoints; checksum <span class="mono">${escapeHtml(schedule.checksum.value.slice(0, 16))}…</span></p>`,
     `<section class="cautions" role="note" aria-labelledby="cautions-title"><h2 id="cautions-title">Safety</h2><ul>${schedule.cautions.map((caution) => `<li>${escapeHtml(caution)}</li>`).join('')}</ul></section>`,
   ];
   if (!passed) {
-    parts.push(`<p class="notice">This schedule failed its dense check at ${schedule.check.failedSpeeds} of ${schedule.check.gridSize} speeds and was written for review only (--allow-failing). Do not run it.</p>`);
+    const td = schedule.check.timeDomain;
+    const failed = [
+      ...(schedule.check.passed ? [] : [`its dense check at ${schedule.check.failedSpeeds} of ${schedule.check.gridSize} speeds`]),
+      ...(td.passed ? [] : [`the time-domain limits at ${td.failures.length} of ${schedule.breakpoints.length} breakpoints`]),
+    ];
+    parts.push(`<p class="notice">This schedule failed ${failed.join(' and ')} and was written for review only (--allow-failing). Do not run it.</p>`);
   }
   if (baseline !== null) {
     const fails = baseline.oldGainsOnNewVehicle.available && !baseline.oldGainsOnNewVehicle.passed;

@@ -17,6 +17,8 @@ interface FigureWords {
   readonly field: Figure;
   readonly criterion: CheckCriterion;
   readonly name: string;
+  /** A shorter y-axis label (default: the name). */
+  readonly axis?: string;
   readonly unit: string;
   /** The limit and which side of it fails. */
   readonly limit: (data: ReportData) => { value: number; failsBelow: boolean };
@@ -28,7 +30,7 @@ const FIGURES: readonly FigureWords[] = [
   { field: 'lowerGainMargin_dB', criterion: 'lowerGainMargin', name: 'lower gain margin', unit: 'dB', limit: (d) => ({ value: d.schedule.check.thresholds.maximumLowerGainMargin_dB, failsBelow: false }) },
   { field: 'delayMargin_s', criterion: 'delayMargin', name: 'delay margin', unit: 's', limit: (d) => ({ value: d.schedule.check.thresholds.minimumDelayMargin_s, failsBelow: true }) },
   { field: 'sensitivityPeak', criterion: 'sensitivityPeak', name: 'peak sensitivity Ms', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumSensitivityPeak, failsBelow: false }) },
-  { field: 'complementarySensitivityPeak', criterion: 'complementarySensitivityPeak', name: 'peak complementary sensitivity Mt', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumComplementarySensitivityPeak, failsBelow: false }) },
+  { field: 'complementarySensitivityPeak', criterion: 'complementarySensitivityPeak', name: 'peak complementary sensitivity Mt', axis: 'Mt (peak of |T|)', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumComplementarySensitivityPeak, failsBelow: false }) },
 ];
 
 const values = (check: ReportCheck, field: Figure): (number | null)[] => check.points.map((point) => point.margins[field]);
@@ -66,7 +68,7 @@ function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
     title: `${figure.name} against speed`,
     description: `${figure.name} of the loop against speed${figure.unit === '' ? '' : `, ${figure.unit}`}, with the limit ${shownNumber(limit.value)}${figure.unit === '' ? '' : ` ${figure.unit}`} (${limit.failsBelow ? 'at least' : 'at most'}) and the side beyond it shaded`,
     x: { label: 'speed, m/s', domain: [schedule.check.range.minimum_mps, schedule.check.range.maximum_mps] },
-    y: { label: figure.unit === '' ? figure.name : `${figure.name}, ${figure.unit}`, include: [limit.value, room] },
+    y: { label: figure.unit === '' ? (figure.axis ?? figure.name) : `${figure.axis ?? figure.name}, ${figure.unit}`, include: [limit.value, room] },
     marks,
     height: 230,
   };
