@@ -2,7 +2,7 @@ import yargs from 'yargs';
 import { isatty } from 'node:tty';
 import { describeError, isSpeedbandError } from '../core/errors.js';
 import { safeMessageText } from '../core/quote.js';
-import type { CommandModule } from './command.js';
+import type { AnyCommand, CommandModule } from './command.js';
 import { COMMANDS } from './commands/index.js';
 import { EXIT, processIo, type CommandIo } from './io.js';
 import { SAFETY_EPILOGUE } from '../core/safety.js';
@@ -10,7 +10,7 @@ import { VERSION } from '../version.js';
 
 export interface RunOptions {
   /** The commands to offer (default: all of speedband's); tests pass a command made with other dependencies. */
-  readonly commands?: readonly CommandModule[];
+  readonly commands?: readonly AnyCommand[];
 }
 
 /**
@@ -50,7 +50,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
         return built.epilogue([...(module.epilogue === undefined ? [] : [module.epilogue]), exitCodesText(module), SAFETY_EPILOGUE].join('\n\n'));
       },
       async (args) => {
-        exitCode = await module.run(args as Record<string, unknown>, io);
+        exitCode = await module.run(args, io);
       },
     );
   }
