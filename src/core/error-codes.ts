@@ -14,11 +14,11 @@ export const ERROR_CODES = {
 
   // Vehicle file and single-track model
   'vehicle.incompleteStiffness': 'The vehicle file gives the nominal cornering stiffness of one axle only: add the other axle\'s, or remove both.',
-  'vehicle.invalid': 'The vehicle file does not match its schema (wrong type, misspelled or extra field): fix the field at the JSON path named.',
+  'vehicle.invalid': 'The vehicle file is not a JSON object or a field has the wrong type: fix the field at the JSON path named.',
   'vehicle.missingField': 'The vehicle file lacks a required field (the message names a look-alike field if there is one): add it, in the unit its name states.',
   'vehicle.noCorneringStiffness': 'The single-track model needs both axles\' cornering stiffnesses and the vehicle file has none: add them, or identify them from step-test logs.',
   'vehicle.nonFiniteModel': 'The vehicle\'s mass, inertia, distances and stiffnesses give a model with non-finite coefficients: check their magnitudes and units.',
-  'vehicle.notFound': 'No vehicle file at that path, no vehicle.json in that folder and no bundled demo vehicle of that name: give the path of vehicle.json or its folder.',
+  'vehicle.notFound': 'The vehicle given is a folder without vehicle.json, or a name that is neither a path nor a bundled demo vehicle: give the path of vehicle.json or its folder.',
   'vehicle.outOfRange': 'A vehicle field is outside its physical range (e.g. a mass ≤ 0 kg): correct the value or its unit.',
   'vehicle.speedNotPositive': 'The single-track model was asked for a speed ≤ 0 m/s; its slip angles divide by speed: use a positive speed.',
   'vehicle.unknownField': 'The vehicle file has a field speedband does not know (the message suggests the closest): remove it or fix its spelling.',
