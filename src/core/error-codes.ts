@@ -44,7 +44,7 @@ export const ERROR_CODES = {
   'log.headerOnly': 'The log has a header but fewer than two data rows: check that the logger wrote its data.',
   'log.implausibleValue': 'A log value is outside the plausible range of its channel, often a unit mix-up: check the column\'s unit (--column CHANNEL=HEADER:UNIT).',
   'log.missingCell': 'A log row has fewer cells than the header: complete or remove the row.',
-  'log.missingColumn': 'A column the reader needs is not in the header (the message names the closest header): rename it or map it with --column.',
+  'log.missingColumn': 'A column the reader needs is not in the header (the message names the closest header): add or rename it, or map it with --column or a log profile.',
   'log.nonFinite': 'A log cell holds NaN or Infinity, so the logger recorded no valid value: remove the row or cut the log around it.',
   'log.nonNumeric': 'A log cell is not a decimal number (or uses a decimal comma): write numbers with a decimal point, or remove the row.',
   'log.profileInvalid': 'The log profile file does not match its schema: fix the field at the JSON path named.',
@@ -95,7 +95,7 @@ export const ERROR_CODES = {
   // Tuning rules
   'tuning.invalidParameter': 'A tuning-rule parameter is out of its range (e.g. a sensitivity-peak target ≤ 1): give a value in range.',
   'tuning.noSteadyState': 'The yaw-rate response has no finite steady state, so the first-order-plus-dead-time fit the rule needs does not exist: check the model.',
-  'tuning.notConfirmed': 'The exact analysis of the sampled loop does not confirm a MIGO design: a fault in speedband\'s design search; report the loop.',
+  'tuning.notConfirmed': 'The exact analysis of the sampled loop does not confirm the MIGO design: choose another rule, and report the loop.',
   'tuning.parameterNotTaken': 'A parameter was given that the chosen tuning rule does not take: remove it or choose another rule.',
   'tuning.parameterRequired': 'The chosen tuning rule needs a parameter that cannot be derived here: give it explicitly.',
   'tuning.ruleNotApplicable': 'The chosen tuning rule does not apply to this plant (the message lists the rules that do): choose one of those.',
