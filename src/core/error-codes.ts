@@ -1,9 +1,9 @@
 /**
  * Every error code speedband reports, with one line of meaning: what happened and what the user
- * does about it. A `SpeedbandError` takes only these codes (`ErrorCode`); the CLI reports the code
- * on standard error's JSON twin (`--json`: {"error": {"code", …}}) and docs/errors.md lists them
- * (generated: `npm run error-reference`). Codes are `stage.problem`, grouped below by stage in
- * pipeline order and sorted inside a group; `internal` alone marks a bug in speedband.
+ * does about it. A `SpeedbandError` takes only these codes (`ErrorCode`); under `--json` the CLI
+ * reports the code ({"error": {"code", …}}), and docs/errors.md lists them all (generated:
+ * `npm run error-reference`). Codes are `stage.problem`, grouped below by stage in pipeline order
+ * (the stages of src/core/error-reference.ts) and sorted inside a stage; `internal` alone is a bug.
  */
 
 export const ERROR_CODES = {
