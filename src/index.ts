@@ -2,6 +2,7 @@
  * speedband's public API. This file only re-exports; see DEVELOPERS.md for the map.
  */
 export { SpeedbandError, isSpeedbandError, describeError, type ErrorLocation } from './core/errors.js';
+export { ERROR_CODES, type ErrorCode } from './core/error-codes.js';
 export { parseJsonText, jsonPointer } from './core/json-text.js';
 export { quoted, safeMessageText } from './core/quote.js';
 export { writeFileAtomic, readTextFile, sha256Hex, type WriteOutcome } from './core/files.js';

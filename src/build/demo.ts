@@ -70,7 +70,7 @@ export async function runDemo(input: DemoInput): Promise<DemoResult> {
   files.push({ path: headerPath, what: 'C99 header for firmware', outcome: writeFileAtomic(headerPath, exportC(build.schedule, { fallback }).text, input.force) });
   files.push({ path: csvPath, what: 'breakpoints, gains and margins for a spreadsheet', outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), input.force) });
   const model = recordedCheckModel(build.schedule);
-  if (model === null) throw new SpeedbandError('demo.internal', 'the demo schedule records no rebuildable model');
+  if (model === null) throw new SpeedbandError('internal', 'the demo schedule records no rebuildable model');
   const recheck = recheckSchedule({ schedule: build.schedule, model });
   return { build, recheck, files };
 }

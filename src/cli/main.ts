@@ -1,5 +1,6 @@
 import yargs from 'yargs';
 import { isatty } from 'node:tty';
+import { exitCodeForError } from '../core/error-codes.js';
 import { describeError, isSpeedbandError } from '../core/errors.js';
 import { safeMessageText } from '../core/quote.js';
 import type { AnyCommand, CommandModule } from './command.js';
@@ -15,8 +16,8 @@ export interface RunOptions {
 
 /**
  * Run the CLI on an argument vector and return the exit code.
- * Usage errors and `SpeedbandError`s become a message on stderr and exit 2;
- * anything else is a bug (exit 3).
+ * Usage errors and `SpeedbandError`s become a message on stderr and exit 2 (code `internal`: 3,
+ * src/core/error-codes.ts); anything else is a bug (exit 3).
  */
 export async function runCli(argv: readonly string[], io: CommandIo = processIo, options: RunOptions = {}): Promise<number> {
   let exitCode: number = EXIT.ok;
@@ -69,7 +70,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
     if (isSpeedbandError(error)) {
       const report = { code: error.code, message: safeMessageText(error.message), location: error.location };
       // Standard output itself failed: the error can only go to standard error.
-      return reportError(io, json && error.code !== 'output.stdoutFailed', EXIT.badInput, report, `speedband: ${describeError(error)}`);
+      return reportError(io, json && error.code !== 'output.stdoutFailed', exitCodeForError(error.code), report, `speedband: ${describeError(error)}`);
     }
     const stack = safeMessageText((error as Error).stack ?? String(error));
     return reportError(io, json, EXIT.internal, { code: 'internal', message: `internal error — please report it with the command you ran: ${stack}`, location: {} }, `speedband: internal error — please report it with the command you ran:\n${stack}`);

@@ -1,10 +1,11 @@
 /**
- * The one error type of speedband. Errors are data: a stable `code`
- * (`log.missingColumn`, `fit.notConverged`, `tuning.ruleNotApplicable`...),
+ * The one error type of speedband. Errors are data: a stable `code` from the
+ * registry in src/core/error-codes.ts (`log.missingColumn`, `tuning.ruleNotApplicable`...),
  * a location (file, line, column or JSON path), the numbers involved, and a
  * message that says what was found, what was expected and what to do.
  * The CLI turns it into words on stderr and a non-zero exit code.
  */
+import type { ErrorCode } from './error-codes.js';
 import { safeMessageText } from './quote.js';
 
 export interface ErrorLocation {
@@ -18,12 +19,12 @@ export interface ErrorLocation {
 }
 
 export class SpeedbandError extends Error {
-  readonly code: string;
+  readonly code: ErrorCode;
   readonly location: ErrorLocation;
   readonly details: Readonly<Record<string, unknown>>;
 
   constructor(
-    code: string,
+    code: ErrorCode,
     message: string,
     options: { location?: ErrorLocation; details?: Record<string, unknown>; cause?: unknown } = {},
   ) {
