@@ -37,6 +37,7 @@ import { basename } from 'node:path';
 /** Identification options `build` overrides: only the FOPDT and joint single-track fits feed a schedule. */
 export const BUILD_IDENTIFY_OPTIONS: Partial<IdentifyOptions> = { fitSecondOrder: false };
 
+/** Input of buildSchedule: vehicle file, logs (or models), plan file or object, how to read the logs, progress. */
 export interface BuildInput {
   /** Vehicle file, or a folder holding vehicle.json. */
   readonly vehicle: string;
@@ -58,6 +59,7 @@ export interface BuildInput {
   readonly allowOtherVehicle?: boolean;
 }
 
+/** What buildSchedule returns: the schedule file (not written), the models, the resolved plan, the check model, the refinement, each breakpoint's derivation and figures. */
 export interface BuildResult {
   readonly schedule: ScheduleFile;
   readonly models: ModelsFile;

@@ -23,8 +23,10 @@ import { BUNDLED_VEHICLES, bundledVehicles } from '../vehicle/bundled.js';
 
 export { BUNDLED_VEHICLES, bundledVehicles } from '../vehicle/bundled.js';
 
+/** Defaults of the demo: the parcel van, into ./speedband-demo. */
 export const DEMO_DEFAULTS = { vehicle: 'parcel-van', outDir: 'speedband-demo' } as const;
 
+/** Input of runDemo: the bundled vehicle, the output folder, whether to replace files, progress. */
 export interface DemoInput {
   readonly vehicle: string;
   readonly outDir: string;
@@ -32,6 +34,7 @@ export interface DemoInput {
   readonly progress?: (text: string) => void;
 }
 
+/** What runDemo did: the build, the independent re-check and the files written. */
 export interface DemoResult {
   readonly build: BuildResult;
   readonly recheck: DenseCheckResult;

@@ -136,6 +136,7 @@ export interface ScheduleSummary {
   readonly controller: ControllerSettings;
 }
 
+/** What moved between two schedules: gain and margin changes per speed, model drift, setting changes, flags. */
 export interface ScheduleComparison {
   readonly old: ScheduleSummary;
   readonly new: ScheduleSummary;

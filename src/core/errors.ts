@@ -8,6 +8,7 @@
 import type { ErrorCode } from './error-codes.js';
 import { safeMessageText } from './quote.js';
 
+/** Where in an input an error is: file, 1-based line and column, or a JSON path. */
 export interface ErrorLocation {
   readonly file?: string;
   /** 1-based line number in a text file. */
@@ -18,6 +19,7 @@ export interface ErrorLocation {
   readonly jsonPath?: string;
 }
 
+/** The one error type of speedband: a `code` from ERROR_CODES, a message saying what was found, what was expected and what to do, a location and the numbers involved. */
 export class SpeedbandError extends Error {
   readonly code: ErrorCode;
   readonly location: ErrorLocation;
@@ -36,6 +38,7 @@ export class SpeedbandError extends Error {
   }
 }
 
+/** Whether a caught value is a SpeedbandError (bad input, exit 2) rather than a bug. */
 export function isSpeedbandError(value: unknown): value is SpeedbandError {
   return value instanceof SpeedbandError;
 }

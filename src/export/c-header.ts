@@ -43,6 +43,7 @@ export interface FallbackGains {
   readonly worst: WorstMargins;
 }
 
+/** Options of exportC: fixed-point format, identifier prefix, the check to state, fallback gains. */
 export interface CHeaderOptions {
   /** A Q format for every gain, or 'auto' (per gain, from its range): the integer-only header. */
   readonly fixedPoint?: FixedPointRequest;
@@ -54,12 +55,14 @@ export interface CHeaderOptions {
   readonly fallback?: FallbackGains | null;
 }
 
+/** The C header text and, with a fixed-point format, the quantised table and its errors. */
 export interface CHeaderExport {
   readonly text: string;
   /** Present with a fixed-point format: the quantised table and its errors. */
   readonly quantisation?: QuantisedTable;
 }
 
+/** Defaults of the C header: the identifier prefix. */
 export const C_HEADER_DEFAULTS = { prefix: 'speedband_schedule' } as const;
 
 /** The macro a user defines to compile the header of a schedule that failed its check (for review only). */

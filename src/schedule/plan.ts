@@ -54,6 +54,7 @@ export type BreakpointPlan =
   | { readonly mode: 'explicit'; readonly speeds_mps: readonly number[] }
   | { readonly mode: 'automatic'; readonly count: number; readonly spacing: 'geometric' | 'linear' };
 
+/** A resolved plan: loop, rule and its parameters, speeds, breakpoints, interpolation, controller, acceptance limits, check. */
 export interface Plan {
   readonly loop: {
     readonly kind: LoopKind;
