@@ -1,51 +1,59 @@
 /**
- * speedband's public API. This file only re-exports; see DEVELOPERS.md for the map.
+ * speedband's supported library API, by pipeline stage: what `import … from 'speedband'` gives, documented in
+ * docs/api.md (generated from this file: `npm run api-reference`). Everything else is internal: reachable by its
+ * module path as `speedband/internal/<stage>/<module>.js` (the compiled `dist/` tree), without a promise that it
+ * stays. This file only re-exports.
  */
+
+// Errors, files, the command line (src/core/, src/cli/)
 export { SpeedbandError, isSpeedbandError, describeError, type ErrorLocation } from './core/errors.js';
-export { parseJsonText, jsonPointer } from './core/json-text.js';
-export { quoted, safeMessageText } from './core/quote.js';
-export { writeFileAtomic, readTextFile, sha256Hex, type WriteOutcome } from './core/files.js';
-export { checkOutputPaths, checkOutputFolder, type OutputPath, type InputPath } from './core/output-paths.js';
+export { ERROR_CODES, type ErrorCode } from './core/error-codes.js';
+export { writeFileAtomic, type WriteOutcome } from './core/files.js';
+export { SAFETY_CAUTIONS } from './core/safety.js';
 export { VERSION } from './version.js';
 export { runCli } from './cli/main.js';
-// Linear systems (src/lti/) and controllers (src/controller/)
-export type { TransferFunction, Complex, FrequencyResponse, StateSpaceModel, TimeResponse } from './lti/types.js';
-export { trimPolynomial, addPolynomials, multiplyPolynomials, scalePolynomial, differentiatePolynomial, evaluatePolynomial, polynomialDegree } from './lti/polynomial.js';
-export { polynomialRoots } from './lti/roots.js';
+
+// Step-test logs (src/log/)
+export type { SteerLog, StepTest, StepMetrics, RejectedStep } from './log/types.js';
+export { readSteerLog, parseSteerLog, READ_DEFAULTS, type ReadLogOptions } from './log/read.js';
+export { loadLogProfile, parseColumnOptions, type LogProfile } from './log/profile.js';
+export type { ColumnMap } from './log/column-map.js';
+export { findStepTests, SEGMENT_DEFAULTS, type SegmentOptions, type StepSearch } from './log/segment.js';
+export { inspectLog, type LogInspection } from './log/inspect.js';
+
+// Vehicles and the single-track model (src/vehicle/)
+export type { Vehicle, SingleTrackParameters } from './vehicle/types.js';
+export { loadVehicle, validateVehicle } from './vehicle/load.js';
 export {
-  transferFunction,
-  seriesConnection,
-  parallelConnection,
-  unityFeedback,
-  scaleTransferFunction,
-  evaluateTransferFunction,
-  transferFunctionPoles,
-  transferFunctionZeros,
-  dcGain,
-  relativeDegree,
-} from './lti/transfer-function.js';
-export { frequencyResponse, logarithmicFrequencies, responseMagnitude } from './lti/frequency-response.js';
-export { padeApproximant, replaceDelayWithPade, padeOrderFor, padePhaseError_rad, PADE_DEFAULTS } from './lti/pade.js';
-export { controllableCanonicalForm } from './lti/state-space.js';
-export { stepResponse, inputResponse, zeroOrderHoldDiscretisation, type HoldDiscretisation } from './lti/time-response.js';
-export type { PidGains, PidForm, Discretisation, ControllerSettings, IdealPid, SeriesPid } from './controller/types.js';
-export { parallelToIdeal, idealToParallel, seriesToIdeal, idealToSeries, parallelToSeries, seriesToParallel } from './controller/pid-forms.js';
-export { pidTransferFunction, derivativeFilterTime_s } from './controller/pid.js';
-export {
-  discretePidCoefficients,
-  discretePidFrequencyResponse,
-  samplingDelay_s,
-  DISCRETE_PID_EQUATION,
-  type DiscretePidCoefficients,
-  type ControllerWarning,
-} from './controller/discrete.js';
-export { discretePidStep, initialDiscretePidState, type DiscretePidState } from './controller/discrete-step.js';
-export { CONTROLLER_DEFAULTS } from './controller/defaults.js';
-// THE controller equation of a schedule (2-DOF PID, feed-forward, anti-windup, clamps), one sample at a time.
+  singleTrackParametersFromVehicle,
+  singleTrackTransferFunctions,
+  steadyStateYawGain_perS,
+  understeerGradient_radPerMps2,
+  characteristicSpeed_mps,
+  criticalSpeed_mps,
+} from './vehicle/single-track.js';
+export { simulateSingleTrack, type SingleTrackSimulationInput, type SingleTrackSimulation } from './vehicle/simulate.js';
+export { generateTestLog, writeTestLogs, TEST_LOG_DEFAULTS, type GeneratedTestLog, type TestLogOptions } from './vehicle/test-logs.js';
+
+// Identification (src/identify/)
+export type { FopdtModel, LumpedModel } from './identify/types.js';
+export { identifyFromLogs, type IdentifyFromLogsInput } from './identify/identify-from-logs.js';
+export { IDENTIFY_DEFAULTS, type IdentifyOptions } from './identify/defaults.js';
+export { readModels, writeModels, parseModels } from './identify/models-file.js';
+export type { ModelsFile, SpeedRecord, SingleTrackRecord } from './identify/models-schema.js';
+
+// Linear systems and controllers (src/lti/, src/controller/)
+export type { TransferFunction, Complex } from './lti/types.js';
+export { transferFunction, evaluateTransferFunction } from './lti/transfer-function.js';
+export { frequencyResponse } from './lti/frequency-response.js';
+export { stepResponse } from './lti/time-response.js';
+export type { PidGains, Discretisation, ControllerSettings } from './controller/types.js';
+export { CONTROLLER_DEFAULTS, resolveControllerSettings, describeControllerSettings } from './controller/defaults.js';
+export { pidTransferFunction } from './controller/pid.js';
+export { parallelToIdeal, idealToParallel, parallelToSeries, seriesToParallel } from './controller/pid-forms.js';
 export {
   firmwareStep,
   initialFirmwareState,
-  trackingTime_s,
   type AntiWindup,
   type FirmwareGains,
   type FirmwareSettings,
@@ -53,229 +61,53 @@ export {
   type FirmwareInput,
   type FirmwareOutput,
 } from './controller/firmware-step.js';
-// Time-domain figures of the exact sampled closed loop (src/performance/) and the curvature feed-forward.
-export { simulateClosedLoop, type LoopSimulationInput, type LoopSimulation } from './performance/closed-loop-simulation.js';
-export { simulateLimitedLoop, type LimitedLoopInput, type LimitedLoopSimulation } from './performance/limited-loop-simulation.js';
-export { breakpointPerformance, judgeTimeDomain, type BreakpointPerformance, type BreakpointPerformanceInput, type SetpointWeights } from './performance/breakpoint-performance.js';
-export { performanceLoopAt, type PerformanceLoop } from './performance/loop-at-speed.js';
-export { SCENARIO_DEFAULTS } from './performance/defaults.js';
-export type { TimeDomainFigures, TimeDomainLimits } from './performance/types.js';
-export { feedForwardFromSingleTrack, feedForwardFromLumped, rampLag_s, type FeedForward } from './loops/feed-forward.js';
-// Vehicles, the single-track model, the exact simulator and synthetic test logs (src/vehicle/)
-export type { Vehicle, SingleTrackParameters } from './vehicle/types.js';
-export { loadVehicle, validateVehicle, resolveVehiclePath, VEHICLE_FILE_NAME } from './vehicle/load.js';
-export { VEHICLE_SCHEMA, VEHICLE_RANGES } from './vehicle/schema.js';
-export {
-  singleTrackStateSpace,
-  singleTrackTransferFunctions,
-  actuatorTransferFunction,
-  understeerGradient_radPerMps2,
-  steadyStateYawGain_perS,
-  characteristicSpeed_mps,
-  criticalSpeed_mps,
-  singleTrackParametersFromVehicle,
-  type SingleTrackStateSpace,
-  type SingleTrackTransferFunctions,
-} from './vehicle/single-track.js';
-export { simulateSingleTrack, type SingleTrackSimulationInput, type SingleTrackSimulation } from './vehicle/simulate.js';
-export { stepAmplitudes, planSteps, sampleCommand, planDuration_s, STEP_PLAN_DEFAULTS, type PlannedStep, type StepAmplitudes } from './vehicle/step-plan.js';
-export { generateTestLog, writeTestLogs, testLogsReadme, testLogFileName, TEST_LOG_DEFAULTS, TEST_LOG_COLUMNS, type GeneratedTestLog, type TestLogOptions } from './vehicle/test-logs.js';
-export { DEMO_FLEET, regenerateDemoFleet, regenerateDemoVehicle, type DemoVehicle } from './vehicle/demo-fleet.js';
-export { matrixExponential } from './lti/matrix-exponential.js';
-// Identification: per-step fits, per-speed models, actuator, joint single-track fit, models file (src/identify/)
-export * from './identify/index.js';
-// Log reading, step segmentation, transient metrics, inspection (src/log/)
-export type { SteerLog, LogSegment, LogSplit, LogChannelSource, StepTest, StepMetrics, RejectedStep } from './log/types.js';
-export { readSteerLog, parseSteerLog, READ_DEFAULTS, type ReadLogOptions } from './log/read.js';
-export { loadLogProfile, parseLogProfile, parseColumnOptions, LOG_PROFILE_SCHEMA, type LogProfile } from './log/profile.js';
-export { mergeColumnMaps, resolveColumnUnits, type ColumnMap, type ColumnSource } from './log/column-map.js';
-export { BUILT_IN_UNITS, resolveColumnUnit, type UnitConversion } from './log/column-units.js';
-export { CHANNELS, type ChannelName } from './log/columns.js';
-export { findStepTests, SEGMENT_DEFAULTS, type SegmentOptions, type StepSearch } from './log/segment.js';
-export { stepMetrics, stepLevels, METRICS_DEFAULTS, type StepWindow, type StepLevels } from './log/metrics.js';
-export { inspectLog, type LogInspection, type StepSummary, type ChannelSummary } from './log/inspect.js';
-export { formatInspection, formatInspectionSummary } from './log/inspection-text.js';
-// The schedule: plan, interpolation, dense check, refinement, schedule file (src/schedule/); exports (src/export/)
-export {
-  makeGainLookup,
-  gainSlopes,
-  monotoneCubicSlopes,
-  checkGrid,
-  denseCheck,
-  judgeMargins,
-  refineBreakpoints,
-  scheduleGains,
-  THRESHOLD_DEFAULTS,
-  PLAN_DEFAULTS,
-  PLAN_SCHEMA,
-  resolvePlan,
-  readPlan,
-  planFromJson,
-  planBreakpoints,
-  planThresholds,
-  makeRuleParameterLookup,
-  valueAtSpeed,
-  SPEED_VARYING_PARAMETERS,
-  SCHEDULE_SCHEMA,
-  canonicalJson,
-  computeScheduleChecksum,
-  verifyScheduleChecksum,
-  assembleSchedule,
-  parseSchedule,
-  parseScheduleUnverified,
-  readSchedule,
-  writeSchedule,
-  serialiseSchedule,
-  scheduleTable,
-  scheduleLookup,
-  gainUnits,
-  type GainTable,
-  type LookupSettings,
-  type InterpolationMethod,
-  type AcceptanceThresholds,
-  type AnalyseLoop,
-  type GainsAtSpeed,
-  type DenseCheckResult,
-  type CheckPoint,
-  type CheckFailure,
-  type WorstMargins,
-  type RefineInput,
-  type RefineResult,
-  type BreakpointInsertion,
-  type Plan,
-  type PartialPlan,
-  type RuleParameterLookup,
-  type ScheduleFile,
-  type ScheduleInput,
-} from './schedule/index.js';
-export {
-  exportC,
-  exportCsv,
-  exportJson,
-  parseQFormat,
-  parseFixedPointRequest,
-  quantiseTable,
-  makeIntegerGainLookup,
-  recheckQuantised,
-  makeQuantisedRecheck,
-  allowFailingMacro,
-  commentSafe,
-  LOOKUP_STATUS,
-  type FixedPointFormat,
-  type FixedPointRequest,
-  type IntegerTable,
-  type QuantisedTable,
-  type QuantisedRecheck,
-  type HeaderCheck,
-  type FallbackGains,
-} from './export/index.js';
-// Loop analysis: margins, sensitivity peaks, stability verdicts (src/verify/)
-export {
-  analyseLoop,
-  analyseOpenLoop,
-  openLoopOf,
-  parallelGainsOf,
-  phaseMarginFromPhase,
-  sampledLoopVerdict,
-  sampledPlant,
-  sampledNyquistCount,
-  pulseTransferFunction,
-  sampledLoopEvaluator,
-  ANALYSIS_DEFAULTS,
-  LOOP_DEFAULTS,
-  type SampledLoop,
-  type SampledVerdict,
-  type SampledPlant,
-  type SampledNyquistResult,
-  type LoopDescription,
-  type LoopMargins,
-  type LoopAnalysisDetails,
-  type OpenLoop,
-  type DiscreteControllerFactor,
-} from './verify/index.js';
-// Loop plants (src/loops/) and tuning rules (src/tuning/)
-export {
-  LOOPS,
-  LOOP_KINDS,
-  findLoop,
-  loopPlantFromLumped,
-  loopPlantFromSingleTrack,
-  previewFromCg_m,
-  lumpedYawRateTransferFunction,
-  type LoopKind,
-  type ReferencePoint,
-  type LoopSpecification,
-  type LoopPlant,
-  type LoopContext,
-  type LoopDefinition,
-} from './loops/index.js';
-export {
-  TUNING_DEFAULTS,
-  TUNING_RULES,
-  RULE_NAMES,
-  findRule,
-  applicableRules,
-  applyRule,
-  plantClassOf,
-  reduceByHalfRule,
-  ultimatePoint,
-  reactionCurve,
-  zieglerNicholsStep,
-  zieglerNicholsUltimate,
-  imcPid,
-  simc,
-  dampingTarget,
-  amigo,
-  migo,
-  fopdtByTwoPoints,
-  designModelFromLumped,
-  designModelFromSingleTrack,
-  tuneOperatingPoint,
-  loopMargins,
-  proportionalGainRange,
-  describeTunedOperatingPoint,
-  type PlantClass,
-  type ControllerType,
-  type DesignModel,
-  type RuleForm,
-  type RuleResult,
-  type RuleName,
-  type RuleParameters,
-  type RuleContext,
-  type TuningRule,
-  type DesignModelDerivation,
-  type OperatingPointModel,
-  type OperatingPointRequest,
-  type TunedOperatingPoint,
-  type ProportionalGainRange,
-} from './tuning/index.js';
 
-// After a vehicle change: compare two schedules (gains, margins, model drift, flags).
-export * from './compare/index.js';
-// The main job: build, re-check, demo (src/build/)
-export { buildSchedule, planLoopAndController, type BuildInput, type BuildResult } from './build/build-schedule.js';
-export {
-  checkModelFromModels,
-  checkModelFromSummary,
-  parseCheckModelSummary,
-  lumpedAt,
-  type CheckModel,
-  type CheckModelKind,
-  type CheckModelSummary,
-  type LumpedAtSpeed,
-} from './build/check-model.js';
-export { makeLoopAnalysis } from './build/loop-analysis.js';
-export { operatingPointModelFromModels, type ModelAtSpeed } from './build/operating-point-from-models.js';
-export { recheckSchedule, recordedCheckModel, scheduleLoopAndController, type RecheckInput as ScheduleRecheckInput } from './build/recheck-schedule.js';
-export { recheckWithRecordedModel } from './build/quantised-recheck.js';
-export { runDemo, bundledVehicles, BUNDLED_VEHICLES, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
-export { recordedLoopAnalysis, checkExportedTable, findFallbackGains } from './build/export-check.js';
+// Loops, margins and verdicts (src/loops/, src/verify/)
+export type { LoopKind, ReferencePoint, LoopSpecification, LoopPlant } from './loops/types.js';
+export { loopPlantFromLumped, loopPlantFromSingleTrack } from './loops/build.js';
+export { analyseLoop, type LoopDescription } from './verify/analyse-loop.js';
+export type { LoopMargins } from './verify/types.js';
+
+// Tuning rules (src/tuning/)
+export type { RuleName, RuleParameters, RuleResult, DesignModel, TuningRule } from './tuning/types.js';
+export { TUNING_RULES, RULE_NAMES, findRule, applyRule, applicableRules } from './tuning/registry.js';
+export { TUNING_DEFAULTS } from './tuning/defaults.js';
+export { tuneOperatingPoint, type OperatingPointModel, type OperatingPointRequest, type TunedOperatingPoint } from './tuning/operating-point.js';
+
+// Time-domain figures at a breakpoint (src/performance/)
+export { breakpointPerformance, type BreakpointPerformance, type BreakpointPerformanceInput } from './performance/breakpoint-performance.js';
+export { simulateClosedLoop, type LoopSimulationInput, type LoopSimulation } from './performance/closed-loop-simulation.js';
+export type { TimeDomainFigures, TimeDomainLimits } from './performance/types.js';
+
+// Plans and schedule files (src/schedule/)
+export { PLAN_DEFAULTS, DEFAULT_RULES, readPlan, planFromJson, resolvePlan, type Plan, type PartialPlan } from './schedule/plan.js';
+export { defaultPlanFile } from './schedule/default-plan.js';
+export type { ScheduleFile } from './schedule/schedule-types.js';
+export { readSchedule, parseSchedule, writeSchedule } from './schedule/schedule-file.js';
+export { computeScheduleChecksum, verifyScheduleChecksum } from './schedule/checksum.js';
+export { scheduleLookup, scheduleExtrasLookup } from './schedule/schedule-lookup.js';
+export { denseCheck, judgeMargins } from './schedule/dense-check.js';
+export type { AcceptanceThresholds, DenseCheckResult, CheckPoint, CheckFailure, WorstMargins } from './schedule/types.js';
+
+// Exports for firmware and spreadsheets (src/export/)
+export { exportC, C_HEADER_DEFAULTS, type CHeaderOptions, type CHeaderExport } from './export/c-header.js';
+export { exportCsv } from './export/csv.js';
+export { exportJson } from './export/json.js';
+export { parseFixedPointRequest, type FixedPointRequest } from './export/fixed-point.js';
+
+// After a vehicle change (src/compare/)
+export { compareSchedules } from './compare/compare-schedules.js';
+export { comparisonText } from './compare/comparison-text.js';
+export { comparisonMarkdown } from './compare/comparison-markdown.js';
+export type { ScheduleComparison, OldGainsOnNewVehicle } from './compare/types.js';
+
+// The main job end to end (src/build/)
+export { buildSchedule, buildScheduleFromData, type BuildInput, type LoadedBuildInput, type BuildResult } from './build/build-schedule.js';
+export { recheckSchedule, recheckScheduleOnAllCores, type RecheckInput } from './build/recheck-schedule.js';
 export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
-export { DELAY_BOUNDS, requireBoundedDelay } from './build/delay-bound.js';
-// The HTML report (src/report/): its data, and the HTML (the renderer and d3 are loaded on first use).
-export { gatherReportData, requireModelsOfSchedule, type ReportInput } from './report/report-data.js';
+export { runDemo, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
+
+// The HTML report (src/report/)
+export { gatherReportData, type ReportInput } from './report/report-data.js';
 export { renderReportHtml, writeReport } from './report/write-report.js';
-export type { ReportData, ReportCheck, LoopResponse, FrequencyResponseAtSpeed, ModelPrediction, StepTracesAtSpeed, ReportBaseline } from './report/types.js';
-export { loopFrequencyResponse, type FrequencyPoint } from './verify/frequency-points.js';
-export { oldGainsOnNewVehicle, checkBaseline, type BaselineCheck } from './build/baseline.js';
-export { failingIntervals, failingIntervalWords, type FailingInterval } from './schedule/failing-intervals.js';
+export type { ReportData } from './report/types.js';

@@ -16,6 +16,7 @@ import type { IdentifyOptions } from '../identify/defaults.js';
 import { identifyFromLogs } from '../identify/identify-from-logs.js';
 import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
+import type { Vehicle } from '../vehicle/types.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
 import type { RefineResult } from '../schedule/refine.js';
@@ -36,6 +37,7 @@ import { basename } from 'node:path';
 /** Identification options `build` overrides: only the FOPDT and joint single-track fits feed a schedule. */
 export const BUILD_IDENTIFY_OPTIONS: Partial<IdentifyOptions> = { fitSecondOrder: false };
 
+/** Input of buildSchedule: vehicle file, logs (or models), plan file or object, how to read the logs, progress. */
 export interface BuildInput {
   /** Vehicle file, or a folder holding vehicle.json. */
   readonly vehicle: string;
@@ -57,6 +59,7 @@ export interface BuildInput {
   readonly allowOtherVehicle?: boolean;
 }
 
+/** What buildSchedule returns: the schedule file (not written), the models, the resolved plan, the check model, the refinement, each breakpoint's derivation and figures. */
 export interface BuildResult {
   readonly schedule: ScheduleFile;
   readonly models: ModelsFile;
@@ -100,34 +103,69 @@ export function planLoopAndController(plan: Plan): { loop: LoopSpecification; co
 }
 
 /**
- * Build a checked schedule. Deterministic: the same inputs and plan give the same schedule.
+ * What `buildScheduleFromData` needs, loaded: the vehicle and its file's name and hash, the models (identified
+ * or read), the plan as written. The names of the files stay, for provenance and error locations.
+ */
+export type LoadedBuildInput = Omit<BuildInput, 'vehicle' | 'logPaths' | 'models' | 'plan' | 'readOptions'> & {
+  readonly vehicle: Vehicle;
+  /** The vehicle file's path and SHA-256, as the schedule's provenance records them. */
+  readonly vehicleFile: string;
+  readonly vehicleSha256: string;
+  readonly models: ModelsFile;
+  /** The plan as written (every field optional), and the SHA-256 of its file when it came from one. */
+  readonly plan: PartialPlan;
+  readonly planSha256?: string;
+};
+
+/**
+ * Build a checked schedule from files: reads the vehicle and plan files, identifies the logs (unless models are
+ * given), then `buildScheduleFromData`. Deterministic: the same inputs and plan give the same schedule.
  * Throws SpeedbandError for bad input (logs, vehicle, plan) and `tuning.ruleNotApplicable` when the
  * plan's rule does not cover the loop. A schedule that fails its dense check is returned with
- * status 'failed'; the caller decides whether to write it. Asynchronous only because a plan's
- * expressions of speed are compiled with mathjs, loaded then (before identification, so a plan
- * error comes at once).
+ * status 'failed'; the caller decides whether to write it.
  */
 export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
-  const progress = input.progress ?? (() => {});
   const vehicleFile = resolveVehiclePath(input.vehicle);
   const vehicle = loadVehicle(vehicleFile);
   const vehicleSha256 = sha256Hex(readFileSync(vehicleFile));
-  if (input.models !== undefined && input.models.vehicle.sha256 !== vehicleSha256 && input.allowOtherVehicle !== true) {
-    throw new SpeedbandError(
-      'build.otherVehicle',
-      `the models were identified with another vehicle file (${quoted(input.models.vehicle.name)}, ${quoted(basename(input.models.vehicle.file))}, SHA-256 ${input.models.vehicle.sha256.slice(0, 12)}…) ` +
-        `than the one given (${quoted(vehicle.name)}, SHA-256 ${vehicleSha256.slice(0, 12)}…): their stiffnesses were fitted with that file's mass, inertia and geometry — ` +
-        'give the vehicle file they were identified with, identify again from the logs, or pass --allow-other-vehicle if the change is deliberate',
-      { location: { file: vehicleFile }, details: { modelsVehicle: input.models.vehicle, vehicleSha256 } },
-    );
-  }
-  const written: PartialPlan = input.planFile !== undefined ? readPlanFile(input.planFile) : (input.plan ?? {});
-  const ruleParametersAt = await makeRuleParameterLookup(written.rule?.parameters ?? {}, input.planFile);
+  const plan: PartialPlan = input.planFile !== undefined ? readPlanFile(input.planFile) : (input.plan ?? {});
+  const planSha256 = input.planFile === undefined ? undefined : sha256Hex(readFileSync(input.planFile));
+  // A plan's expressions are compiled (and refused) before the logs are identified: a plan error comes at once.
+  await makeRuleParameterLookup(plan.rule?.parameters ?? {}, input.planFile);
   // The schedule uses the joint single-track fit (or the per-speed FOPDT when that is refused), never the
   // per-step second-order fits: build skips them (the models file records `options.fitSecondOrder: false`).
   const models =
     input.models ??
-    identifyFromLogs({ vehicle: vehicleFile, logPaths: input.logPaths, options: BUILD_IDENTIFY_OPTIONS, progress, ...(input.readOptions === undefined ? {} : { readOptions: input.readOptions }) });
+    identifyFromLogs({
+      vehicle: vehicleFile,
+      logPaths: input.logPaths,
+      options: BUILD_IDENTIFY_OPTIONS,
+      ...(input.progress === undefined ? {} : { progress: input.progress }),
+      ...(input.readOptions === undefined ? {} : { readOptions: input.readOptions }),
+    });
+  const { vehicle: _path, logPaths: _logs, models: _models, plan: _plan, readOptions: _read, ...rest } = input;
+  return buildScheduleFromData({ ...rest, vehicle, vehicleFile, vehicleSha256, models, plan, ...(planSha256 === undefined ? {} : { planSha256 }) });
+}
+
+/**
+ * Build a checked schedule from loaded data (no file is read): gains at each breakpoint by the plan's rule,
+ * interpolated, checked densely, refined. Asynchronous only because a plan's expressions of speed are compiled
+ * with mathjs, loaded then.
+ */
+export async function buildScheduleFromData(input: LoadedBuildInput): Promise<BuildResult> {
+  const progress = input.progress ?? (() => {});
+  const { vehicle, vehicleFile, vehicleSha256, models } = input;
+  if (models.vehicle.sha256 !== vehicleSha256 && input.allowOtherVehicle !== true) {
+    throw new SpeedbandError(
+      'build.otherVehicle',
+      `the models were identified with another vehicle file (${quoted(models.vehicle.name)}, ${quoted(basename(models.vehicle.file))}, SHA-256 ${models.vehicle.sha256.slice(0, 12)}…) ` +
+        `than the one given (${quoted(vehicle.name)}, SHA-256 ${vehicleSha256.slice(0, 12)}…): their stiffnesses were fitted with that file's mass, inertia and geometry — ` +
+        'give the vehicle file they were identified with, identify again from the logs, or pass --allow-other-vehicle if the change is deliberate',
+      { location: { file: vehicleFile }, details: { modelsVehicle: models.vehicle, vehicleSha256 } },
+    );
+  }
+  const written = input.plan;
+  const ruleParametersAt = await makeRuleParameterLookup(written.rule?.parameters ?? {}, input.planFile);
   const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
   const context = { testSpeeds_mps, ...(vehicle.controllerSampleTime_s === undefined ? {} : { vehicleSampleTime_s: vehicle.controllerSampleTime_s }) };
   const resolved = resolvePlan(written, { ...context, ...(input.planFile === undefined ? {} : { file: input.planFile }) });
@@ -219,7 +257,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
     ...[...models.inputs]
       .sort((a, b) => (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : a.file < b.file ? -1 : a.file > b.file ? 1 : 0))
       .map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
-    ...(input.planFile === undefined ? [] : [{ file: input.planFile, sha256: sha256Hex(readFileSync(input.planFile)), role: 'plan' }]),
+    ...(input.planFile === undefined || input.planSha256 === undefined ? [] : [{ file: input.planFile, sha256: input.planSha256, role: 'plan' }]),
   ];
   const schedule = assembleSchedule({
     vehicle: { name: vehicle.name, file: vehicleFile, sha256: inputs[0].sha256 },

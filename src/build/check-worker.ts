@@ -5,6 +5,7 @@
  */
 import { parentPort, workerData } from 'node:worker_threads';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
+import type { ErrorCode } from '../core/error-codes.js';
 import { isSpeedbandError } from '../core/errors.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { judgeMargins } from '../schedule/dense-check.js';
@@ -29,7 +30,7 @@ export interface CheckChunk {
 }
 export type CheckChunkAnswer =
   | { readonly start: number; readonly points: readonly CheckPoint[] }
-  | { readonly start: number; readonly error: { readonly code: string; readonly message: string; readonly details?: unknown } };
+  | { readonly start: number; readonly error: { readonly code: ErrorCode; readonly message: string; readonly details?: unknown } };
 
 const data = workerData as CheckWorkerData;
 const analyse = makeLoopAnalysis(checkModelFromSummary(data.summary, data.description), data.loop, data.controller);

@@ -23,8 +23,10 @@ import { BUNDLED_VEHICLES, bundledVehicles } from '../vehicle/bundled.js';
 
 export { BUNDLED_VEHICLES, bundledVehicles } from '../vehicle/bundled.js';
 
+/** Defaults of the demo: the parcel van, into ./speedband-demo. */
 export const DEMO_DEFAULTS = { vehicle: 'parcel-van', outDir: 'speedband-demo' } as const;
 
+/** Input of runDemo: the bundled vehicle, the output folder, whether to replace files, progress. */
 export interface DemoInput {
   readonly vehicle: string;
   readonly outDir: string;
@@ -32,6 +34,7 @@ export interface DemoInput {
   readonly progress?: (text: string) => void;
 }
 
+/** What runDemo did: the build, the independent re-check and the files written. */
 export interface DemoResult {
   readonly build: BuildResult;
   readonly recheck: DenseCheckResult;
@@ -70,7 +73,7 @@ export async function runDemo(input: DemoInput): Promise<DemoResult> {
   files.push({ path: headerPath, what: 'C99 header for firmware', outcome: writeFileAtomic(headerPath, exportC(build.schedule, { fallback }).text, input.force) });
   files.push({ path: csvPath, what: 'breakpoints, gains and margins for a spreadsheet', outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), input.force) });
   const model = recordedCheckModel(build.schedule);
-  if (model === null) throw new SpeedbandError('demo.internal', 'the demo schedule records no rebuildable model');
+  if (model === null) throw new SpeedbandError('internal', 'the demo schedule records no rebuildable model');
   const recheck = recheckSchedule({ schedule: build.schedule, model });
   return { build, recheck, files };
 }

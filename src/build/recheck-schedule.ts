@@ -15,6 +15,7 @@ import { checkModelFromSummary, parseCheckModelSummary, type CheckModel } from '
 import { makeLoopAnalysis } from './loop-analysis.js';
 import { denseCheckOnAllCores } from './parallel-check.js';
 
+/** Input of recheckSchedule: the schedule, and the model to check it on (default: the one it records). */
 export interface RecheckInput {
   readonly schedule: ScheduleFile;
   readonly model: CheckModel;

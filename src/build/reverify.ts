@@ -21,6 +21,7 @@ import { VERSION } from '../version.js';
 import type { CheckModel } from './check-model.js';
 import { recheckSchedule, scheduleLoopAndController } from './recheck-schedule.js';
 
+/** The outcome of reverifySchedule: the dense check of the edited gains and, when it passes, the schedule to write. */
 export interface ReverifyResult {
   /** The dense check of the edited schedule. */
   readonly check: DenseCheckResult;

@@ -8,7 +8,7 @@ import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { BreakpointMargins, ScheduleFile } from '../schedule/schedule-types.js';
 import type { AcceptanceThresholds, CheckCriterion, DenseCheckResult, WorstMargins } from '../schedule/types.js';
 import { judgeMargins } from '../schedule/dense-check.js';
-import { modelWords, previewText } from '../schedule/schedule-text.js';
+import { modelWords, previewText, referencePointText } from '../schedule/schedule-text.js';
 import type { LoopMargins } from '../verify/types.js';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 
@@ -64,7 +64,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
   const lines: string[] = [];
   const loop = schedule.loop;
   lines.push(
-    `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${previewText(loop.preview_m ?? 0, loop.previewTime_s ?? 0)} from the ${loop.referencePoint})` : ''}, ` +
+    `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${previewText(loop.preview_m ?? 0, loop.previewTime_s ?? 0)} from the ${referencePointText(loop.referencePoint ?? 'cg')})` : ''}, ` +
       `rule ${schedule.provenance.rule.name}${schedule.provenance.rule.tuneFor === 'fastest-passing' ? ' (fastest passing)' : ''}, ${schedule.interpolation.method} interpolation`,
   );
   lines.push(`  controller the gains assume: ${describeControllerSettings(schedule.controller)}`);

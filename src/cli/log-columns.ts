@@ -2,7 +2,7 @@ import type { Argv } from 'yargs';
 import type { ColumnMap } from '../log/column-map.js';
 
 /** The column-map options every command that reads logs shares: a log-profile file and per-channel overrides. */
-export function withLogColumnOptions(yargs: Argv): Argv {
+export function withLogColumnOptions<T>(yargs: Argv<T>) {
   return yargs
     .option('log-profile', {
       type: 'string',
@@ -17,16 +17,22 @@ export function withLogColumnOptions(yargs: Argv): Argv {
 }
 
 /** The column map of --log-profile and --column (the options win), units converted, or undefined when neither is given. */
-export async function logColumnsFromArgs(args: Record<string, unknown>): Promise<ColumnMap | undefined> {
-  const columnOptions = (args.column as string[] | undefined) ?? [];
+/** The options of withLogColumnOptions as a command reads them. */
+export interface LogColumnArgs {
+  readonly column?: readonly string[];
+  readonly 'log-profile'?: string;
+}
+
+export async function logColumnsFromArgs(args: LogColumnArgs): Promise<ColumnMap | undefined> {
+  const columnOptions = args.column ?? [];
   if (args['log-profile'] === undefined && columnOptions.length === 0) return undefined;
   const { loadLogProfile, parseColumnOptions } = await import('../log/profile.js');
   const { mergeColumnMaps } = await import('../log/column-map.js');
-  const profile = args['log-profile'] === undefined ? undefined : await loadLogProfile(String(args['log-profile']));
+  const profile = args['log-profile'] === undefined ? undefined : await loadLogProfile(args['log-profile']);
   return mergeColumnMaps(profile?.columns, await parseColumnOptions(columnOptions));
 }
 
 /** The input files named by the given options (those that were given), with their role, for checkOutputPaths. */
-export function optionalInputs(args: Record<string, unknown>, options: readonly (readonly [string, string])[]): { path: string; role: string }[] {
-  return options.filter(([option]) => args[option] !== undefined).map(([option, role]) => ({ path: String(args[option]), role }));
+export function optionalInputs<A extends object>(args: A, options: readonly (readonly [string, string])[]): { path: string; role: string }[] {
+  return options.filter(([option]) => (args as Record<string, unknown>)[option] !== undefined).map(([option, role]) => ({ path: String((args as Record<string, unknown>)[option]), role }));
 }

@@ -1,8 +1,9 @@
 import yargs from 'yargs';
 import { isatty } from 'node:tty';
+import { exitCodeForError } from '../core/error-codes.js';
 import { describeError, isSpeedbandError } from '../core/errors.js';
 import { safeMessageText } from '../core/quote.js';
-import type { CommandModule } from './command.js';
+import type { AnyCommand, CommandModule } from './command.js';
 import { COMMANDS } from './commands/index.js';
 import { EXIT, processIo, type CommandIo } from './io.js';
 import { SAFETY_EPILOGUE } from '../core/safety.js';
@@ -10,13 +11,13 @@ import { VERSION } from '../version.js';
 
 export interface RunOptions {
   /** The commands to offer (default: all of speedband's); tests pass a command made with other dependencies. */
-  readonly commands?: readonly CommandModule[];
+  readonly commands?: readonly AnyCommand[];
 }
 
 /**
  * Run the CLI on an argument vector and return the exit code.
- * Usage errors and `SpeedbandError`s become a message on stderr and exit 2;
- * anything else is a bug (exit 3).
+ * Usage errors and `SpeedbandError`s become a message on stderr and exit 2 (code `internal`: 3,
+ * src/core/error-codes.ts); anything else is a bug (exit 3).
  */
 export async function runCli(argv: readonly string[], io: CommandIo = processIo, options: RunOptions = {}): Promise<number> {
   let exitCode: number = EXIT.ok;
@@ -50,7 +51,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
         return built.epilogue([...(module.epilogue === undefined ? [] : [module.epilogue]), exitCodesText(module), SAFETY_EPILOGUE].join('\n\n'));
       },
       async (args) => {
-        exitCode = await module.run(args as Record<string, unknown>, io);
+        exitCode = await module.run(args, io);
       },
     );
   }
@@ -69,7 +70,7 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
     if (isSpeedbandError(error)) {
       const report = { code: error.code, message: safeMessageText(error.message), location: error.location };
       // Standard output itself failed: the error can only go to standard error.
-      return reportError(io, json && error.code !== 'output.stdoutFailed', EXIT.badInput, report, `speedband: ${describeError(error)}`);
+      return reportError(io, json && error.code !== 'output.stdoutFailed', exitCodeForError(error.code), report, `speedband: ${describeError(error)}`);
     }
     const stack = safeMessageText((error as Error).stack ?? String(error));
     return reportError(io, json, EXIT.internal, { code: 'internal', message: `internal error — please report it with the command you ran: ${stack}`, location: {} }, `speedband: internal error — please report it with the command you ran:\n${stack}`);

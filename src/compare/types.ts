@@ -162,6 +162,7 @@ export type OldGainsOnNewVehicle =
     }
   | { readonly available: false; readonly reason: string };
 
+/** What moved between two schedules: gain and margin changes per speed, model drift, setting changes, flags. */
 export interface ScheduleComparison {
   readonly old: ScheduleSummary;
   readonly new: ScheduleSummary;

@@ -63,6 +63,7 @@ export interface FirmwareState {
   readonly previousSaturation: number;
 }
 
+/** The controller state at start: integral, filter and previous values at zero. */
 export function initialFirmwareState(): FirmwareState {
   return { integral: 0, derivative: 0, previousDerivativeInput: null, previousIntegrand: 0, previousSaturation: 0 };
 }
@@ -77,6 +78,7 @@ export interface FirmwareInput {
   readonly feedForwardInput: number;
 }
 
+/** One sample of the controller: the steer command (rad) and what limited it. */
 export interface FirmwareOutput {
   /** u_k, the road-wheel angle command after the limit, rad. */
   readonly command: number;

@@ -1,12 +1,14 @@
 /**
- * The one error type of speedband. Errors are data: a stable `code`
- * (`log.missingColumn`, `fit.notConverged`, `tuning.ruleNotApplicable`...),
+ * The one error type of speedband. Errors are data: a stable `code` from the
+ * registry in src/core/error-codes.ts (`log.missingColumn`, `tuning.ruleNotApplicable`...),
  * a location (file, line, column or JSON path), the numbers involved, and a
  * message that says what was found, what was expected and what to do.
  * The CLI turns it into words on stderr and a non-zero exit code.
  */
+import type { ErrorCode } from './error-codes.js';
 import { safeMessageText } from './quote.js';
 
+/** Where in an input an error is: file, 1-based line and column, or a JSON path. */
 export interface ErrorLocation {
   readonly file?: string;
   /** 1-based line number in a text file. */
@@ -17,13 +19,14 @@ export interface ErrorLocation {
   readonly jsonPath?: string;
 }
 
+/** The one error type of speedband: a `code` from ERROR_CODES, a message saying what was found, what was expected and what to do, a location and the numbers involved. */
 export class SpeedbandError extends Error {
-  readonly code: string;
+  readonly code: ErrorCode;
   readonly location: ErrorLocation;
   readonly details: Readonly<Record<string, unknown>>;
 
   constructor(
-    code: string,
+    code: ErrorCode,
     message: string,
     options: { location?: ErrorLocation; details?: Record<string, unknown>; cause?: unknown } = {},
   ) {
@@ -35,6 +38,7 @@ export class SpeedbandError extends Error {
   }
 }
 
+/** Whether a caught value is a SpeedbandError (bad input, exit 2) rather than a bug. */
 export function isSpeedbandError(value: unknown): value is SpeedbandError {
   return value instanceof SpeedbandError;
 }

@@ -51,6 +51,7 @@ export function readTextFile(path: string): string {
   return readFileBytes(path).toString('utf8');
 }
 
+/** What writeFileAtomic did: wrote the file, or left it unchanged because it already held the same bytes. */
 export type WriteOutcome = 'written' | 'unchanged';
 
 /** Suffix of our temporary files: `.<target name>.<process id>.<8 hex digits>.speedband-tmp`. */

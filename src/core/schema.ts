@@ -1,5 +1,6 @@
 import { createRequire } from 'node:module';
 import type { Ajv, ErrorObject } from 'ajv';
+import type { ErrorCode } from './error-codes.js';
 import { SpeedbandError } from './errors.js';
 import { AJV_OPTIONS } from './schema-options.js';
 import { cutText, quoted } from './quote.js';
@@ -68,7 +69,7 @@ function describeAjvError(error: ErrorObject, schema: object): string {
  */
 export function makeValidator<T>(
   schema: object,
-  code: string,
+  code: ErrorCode,
   what: string,
   precompiled?: SchemaValidator,
   /** Words after the problems, e.g. where the format's reference is. */

@@ -6,6 +6,7 @@ import { parseSchedule } from '../schedule/schedule-file.js';
 import { serialiseSchedule } from '../schedule/schedule-json.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 
+/** The schedule as canonical JSON text (the bytes the checksum is computed over, plus the checksum). */
 export function exportJson(schedule: ScheduleFile): string {
   const text = serialiseSchedule(schedule);
   parseSchedule(JSON.parse(text), '(export)');

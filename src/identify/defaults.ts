@@ -30,6 +30,7 @@ export interface IdentifyOptions {
   readonly jointFit: boolean;
 }
 
+/** Defaults of identification (hold, quality gates, speed grouping, warnings), in one place. */
 export const IDENTIFY_DEFAULTS: IdentifyOptions = {
   biasMode: 'fitted',
   hold: 'zeroOrder',

@@ -18,6 +18,7 @@ import { fitSingleTrack } from './joint-single-track.js';
 import { refusedTestRecord, speedRecord, testRecord } from './models-records.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, type ModelsFile, type SingleTrackRecord } from './models-schema.js';
 
+/** Input of identifyFromLogs: the vehicle file, the logs, identification options and how to read the logs. */
 export interface IdentifyFromLogsInput {
   /** Vehicle file, or a folder holding vehicle.json. */
   readonly vehicle: string;

@@ -94,6 +94,7 @@ export interface RefusedTestRecord {
   readonly fopdt: { readonly gain: number | null; readonly timeConstant_s: number | null; readonly deadTime_s: number | null; readonly r2: number | null };
 }
 
+/** The model at one nominal test speed: inverse-variance FOPDT over its steps, asymmetry and spread. */
 export interface SpeedRecord {
   readonly speed_mps: number;
   readonly stepCount: number;
@@ -113,6 +114,7 @@ export interface ActuatorRecord {
   readonly stepCount: number;
 }
 
+/** The joint single-track fit over all steps: cornering stiffnesses, actuator lag and delay, understeer gradient, 95 % intervals, fit quality. */
 export interface SingleTrackRecord {
   readonly frontCorneringStiffness_NPerRad: number;
   readonly rearCorneringStiffness_NPerRad: number;
@@ -145,6 +147,7 @@ export interface SingleTrackRecord {
   }[];
 }
 
+/** models.json: per-step and per-speed FOPDT models with 95 % intervals, the actuator, the joint single-track fit, the inputs with their SHA-256. */
 export interface ModelsFile {
   readonly format: typeof MODELS_FORMAT;
   readonly formatVersion: typeof MODELS_FORMAT_VERSION;

@@ -21,4 +21,5 @@ export interface SecondOrderModel {
   readonly deadTime_s: number;
 }
 
+/** A per-speed model of the steer command → yaw rate response: FOPDT or second order plus dead time. */
 export type LumpedModel = FopdtModel | SecondOrderModel;

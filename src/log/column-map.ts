@@ -20,6 +20,7 @@ export interface ColumnSource {
   readonly conversion?: UnitConversion;
 }
 
+/** Per channel (time_s, speed_mps, steer_cmd_rad, …): the header it is read from and its unit. */
 export type ColumnMap = Readonly<Partial<Record<ChannelName, ColumnSource>>>;
 
 /** One channel found in the header. */

@@ -39,6 +39,7 @@ export interface StepSummary {
   readonly metrics: StepMetrics;
 }
 
+/** What `inspect` reports of one log: channels, sampling, splits, steps with their metrics, rejected candidates (JSON-able). */
 export interface LogInspection {
   readonly file: string;
   /** Last minus first time stamp, s (gaps included). */

@@ -23,6 +23,7 @@ import { MAXIMUM_UNIT_LENGTH } from '../core/unit-expressions.js';
 import { CHANNELS, isChannelName, type ChannelName } from './columns.js';
 import { resolveColumnUnits, type ColumnMap } from './column-map.js';
 
+/** A log-profile file: the log columns of a logger and their units, as `{ "columns": { CHANNEL: { "from", "unit" } } }`. */
 export interface LogProfile {
   readonly description?: string;
   readonly columns: ColumnMap;

@@ -2,6 +2,7 @@
  * The errors of log reading: each names the file, the 1-based line and the
  * column (number and header name), says what was found and what to do.
  */
+import type { ErrorCode } from '../core/error-codes.js';
 import { SpeedbandError } from '../core/errors.js';
 import { CHANNEL_DEFINITIONS } from './columns.js';
 import type { ResolvedColumn } from './column-map.js';
@@ -27,7 +28,7 @@ export function rowLengthError(found: number, header: readonly string[], line: n
 export function cellError(cell: string, column: ResolvedColumn, line: number, file: string): SpeedbandError {
   const problem = cellProblem(cell);
   const location = { file, line, column: columnLabel(column.index, column.header) };
-  const messages: Record<typeof problem, [string, string]> = {
+  const messages: Record<typeof problem, [ErrorCode, string]> = {
     empty: ['log.emptyCell', `the ${column.channel} cell is empty — every row needs a number in every used column; fill it or remove the row`],
     nonFinite: ['log.nonFinite', `${column.channel} is ${quoted(cell.trim())}, not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`],
     decimalComma: ['log.nonNumeric', `${column.channel} is ${quoted(cell.trim())}: a decimal comma — write numbers with a decimal point (e.g. 12.5)`],

@@ -12,11 +12,13 @@ import { cellError, checkTimeIncreases, implausibleError, rowLengthError } from 
 import { countIrregularSteps, medianStep, splitAtGaps } from './time-gaps.js';
 import type { SteerLog } from './types.js';
 
+/** Defaults of reading a log: a time step longer than `gapFactor` median periods splits it. */
 export const READ_DEFAULTS = {
   /** A time step longer than this many median sample periods splits the log into segments. */
   gapFactor: 5,
 } as const;
 
+/** How to read a log: column names and units (a column map), the steering ratio for steering-wheel columns, the gap factor. */
 export interface ReadLogOptions {
   /** Header names and units per channel; channels not listed use their default name and SI unit. */
   readonly columns?: ColumnMap;

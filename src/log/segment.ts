@@ -13,6 +13,7 @@ import { differenceNoise, findPlateaus, type Plateau } from './plateaus.js';
 import { edgeStretches } from './edge-stretches.js';
 import type { LogSegment, LogSplit, RejectedStep, SteerLog, StepTest } from './types.js';
 
+/** Defaults of finding steps in a log (hold, ramp, pre-step window, speed tolerance, noise thresholds), each with its reason in the comments beside it. */
 export const SEGMENT_DEFAULTS = {
   /** Smallest half-width of the band a held command stays in, rad (0.1°). */
   heldBand_rad: degreesToRadians(0.1),
@@ -40,11 +41,13 @@ export const SEGMENT_DEFAULTS = {
   minSignalToNoise: 5,
 } as const;
 
+/** Options of findStepTests: any SEGMENT_DEFAULTS value, and the steer-angle limit for the actuator-limit check. */
 export type SegmentOptions = Partial<{ -readonly [K in keyof typeof SEGMENT_DEFAULTS]: number }> & {
   /** The vehicle's road-wheel angle limit, rad; enables the actuator-limit check. */
   readonly maxSteerAngle_rad?: number;
 };
 
+/** The steps found in a log and the candidates rejected, each with its reason. */
 export interface StepSearch {
   /** Accepted steps, in time order, `stepIndex` counting from 0 within the file. */
   readonly steps: readonly StepTest[];

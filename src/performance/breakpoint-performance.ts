@@ -34,6 +34,7 @@ export interface SetpointWeights {
   readonly derivative: number;
 }
 
+/** Input of breakpointPerformance: the loop at the speed, gains, controller, limits of the actuator and of the plan. */
 export interface BreakpointPerformanceInput {
   readonly loop: PerformanceLoop;
   readonly gains: PidGains;
@@ -49,6 +50,7 @@ export interface BreakpointPerformanceInput {
   readonly keepTraces?: boolean;
 }
 
+/** The figures breakpointPerformance computes and the time-domain limits they break. */
 export interface BreakpointPerformance {
   readonly setpointWeights: SetpointWeights;
   readonly figures: TimeDomainFigures;
@@ -69,6 +71,7 @@ const LINEAR: Omit<FirmwareSettings, keyof import('../controller/types.js').Cont
   integratorClamp_rad: Number.POSITIVE_INFINITY,
 };
 
+/** The time-domain figures of the exact sampled closed loop at one breakpoint: set-point weights, reference step, disturbances, lane change and curve entry, a step through the actuator limits. */
 export function breakpointPerformance(input: BreakpointPerformanceInput): BreakpointPerformance {
   const { loop, gains, limits } = input;
   const ts = loop.controller.sampleTime_s;

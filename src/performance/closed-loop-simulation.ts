@@ -13,6 +13,7 @@
 import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
 import type { SampledPlant } from '../verify/sampled-plant.js';
 
+/** Input of simulateClosedLoop: the sampled plant, the controller equation's settings and gains, reference and disturbances. */
 export interface LoopSimulationInput {
   readonly plant: SampledPlant;
   readonly gains: FirmwareGains;
@@ -25,6 +26,7 @@ export interface LoopSimulationInput {
   readonly outputDisturbance?: Float64Array;
 }
 
+/** Traces of a closed-loop simulation at the samples: reference, output, error, steer command. */
 export interface LoopSimulation {
   /** y[k], the measured loop output (disturbance included). */
   readonly output: Float64Array;

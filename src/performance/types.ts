@@ -72,6 +72,7 @@ export interface ActuatorRoom {
   readonly peakRatePerUnit: number;
 }
 
+/** The time-domain figures of one breakpoint as schedule.json records them. */
 export interface TimeDomainFigures {
   readonly referenceStep: ReferenceStepFigures;
   readonly steeringMisalignment: DisturbanceFigures;

@@ -24,6 +24,7 @@ import type { GainCurve, ReportBaseline, ReportData } from './types.js';
 import { checkGrid } from '../schedule/grid.js';
 import { scheduleLookup } from '../schedule/schedule-lookup.js';
 
+/** What the report is made from: a schedule, and optionally its identification, logs and a previous schedule. */
 export interface ReportInput {
   readonly schedule: ScheduleFile;
   /** How the user named the schedule (its base name is shown). */
@@ -97,7 +98,7 @@ function baselineData(input: NonNullable<ReportInput['baseline']>, schedule: Sch
   };
 }
 
-/** Everything the report draws (see the file comment). Throws `report.modelsMismatch`, `report.logsWithoutModels`, `report.logNotInModels`, `report.speedOutOfRange`. */
+/** Everything the report draws, each part only when its inputs are given (the dense check re-run point by point on the model the schedule records, the closed-loop responses, with models.json the fits, with a baseline the old gains on the new vehicle). Throws `report.modelsMismatch`, `report.logsWithoutModels`, `report.logNotInModels`, `report.speedOutOfRange`. */
 export function gatherReportData(input: ReportInput): ReportData {
   const { schedule } = input;
   if (input.logs !== undefined && input.models === undefined) {

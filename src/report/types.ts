@@ -177,6 +177,7 @@ export interface ClosedLoopTraces {
   readonly speeds: readonly ClosedLoopTracesAtSpeed[];
 }
 
+/** Everything one report draws (gatherReportData gathers it, renderReportHtml turns it into HTML). */
 export interface ReportData {
   readonly toolVersion: string;
   /** The schedule as the user named it (base name). */

@@ -16,8 +16,9 @@ import { planReferenceHint } from './plan-reference-path.js';
 import { findRule, parameterNotTakenWords, parametersNotTaken } from '../tuning/registry.js';
 import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
 
-export type LoopKind = 'yaw-rate' | 'heading' | 'path';
-export type ReferencePoint = 'cg' | 'front-axle';
+import type { LoopKind, ReferencePoint } from '../loops/types.js';
+
+export type { LoopKind, ReferencePoint };
 
 /** A value per speed: linear between the given speeds (m/s), the end values held beyond them. */
 export interface SpeedTable {
@@ -53,6 +54,7 @@ export type BreakpointPlan =
   | { readonly mode: 'explicit'; readonly speeds_mps: readonly number[] }
   | { readonly mode: 'automatic'; readonly count: number; readonly spacing: 'geometric' | 'linear' };
 
+/** A resolved plan: loop, rule and its parameters, speeds, breakpoints, interpolation, controller, acceptance limits, check. */
 export interface Plan {
   readonly loop: {
     readonly kind: LoopKind;

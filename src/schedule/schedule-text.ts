@@ -30,6 +30,9 @@ export function previewText(preview_m: number, previewTime_s: number): string {
   return previewTime_s === 0 ? `${preview_m} m` : `${preview_m} m + ${previewTime_s} s × speed`;
 }
 
+/** A preview reference point in words: "front axle" or "centre of gravity". */
+export const referencePointText = (point: ReferencePoint): string => (point === 'cg' ? 'centre of gravity' : 'front axle');
+
 /** The error the controller acts on (ISO 8855 signs: positive to the left); r and y are the controller's reference and measurement. */
 export function loopErrorText(kind: LoopKind, preview_m: number, referencePoint: ReferencePoint, previewTime_s = 0): string {
   switch (kind) {
@@ -39,7 +42,7 @@ export function loopErrorText(kind: LoopKind, preview_m: number, referencePoint:
       return 'e = r − y: r the heading reference, y the measured heading, rad (positive counter-clockwise seen from above, ISO 8855)';
     case 'path':
       return `e = r − y at the preview point ${previewText(preview_m, previewTime_s)} ahead of the ${
-        referencePoint === 'cg' ? 'centre of gravity' : 'front axle'
+        referencePointText(referencePoint)
       }: y = lateral offset of that point from the path (e_y + d·e_ψ, d the preview distance from the centre of gravity), r = the commanded offset from the path (0 to follow the path itself), m (positive to the left, ISO 8855)`;
   }
 }

@@ -189,6 +189,7 @@ export interface ScheduleChecksum {
   readonly sections: Readonly<Record<string, string>>;
 }
 
+/** schedule.json: the loop, the controller equation, breakpoints with gains and proven margins, the dense check, provenance, cautions and a checksum. */
 export interface ScheduleFile {
   readonly format: typeof SCHEDULE_FORMAT;
   readonly formatVersion: typeof SCHEDULE_FORMAT_VERSION;

@@ -69,6 +69,7 @@ export interface CheckFailure {
   readonly message: string;
 }
 
+/** One speed of the dense check: the interpolated gains, the margins of the loop there and the limits broken. */
 export interface CheckPoint {
   readonly speed_mps: number;
   readonly gains: PidGains;
@@ -96,6 +97,7 @@ export interface WorstMargins {
   readonly complementarySensitivityPeak: WorstValue | null;
 }
 
+/** The dense check of a gain table: every grid speed with its margins and failures, the worst figures, pass or fail. */
 export interface DenseCheckResult {
   readonly passed: boolean;
   readonly points: readonly CheckPoint[];

@@ -17,6 +17,7 @@ export type OperatingPointModel =
   | { readonly kind: 'lumped'; readonly yawRate: LumpedModel; /** needed for a front-axle preview, m */ readonly cgToFrontAxle_m?: number }
   | { readonly kind: 'single-track'; readonly parameters: SingleTrackParameters };
 
+/** Input of tuneOperatingPoint: loop, speed, model (lumped or single-track), rule with its parameters, controller settings. */
 export interface OperatingPointRequest {
   readonly loop: LoopSpecification;
   readonly speed_mps: number;
@@ -29,6 +30,7 @@ export interface OperatingPointRequest {
   readonly startGains?: PidGains;
 }
 
+/** The gains at one speed with the rule's derivation, the design model, the loop plant and the margins of the full loop. */
 export interface TunedOperatingPoint {
   /** Parallel gains for the firmware (units per loop: see LoopDefinition.outputUnit). */
   readonly gains: PidGains;

@@ -13,6 +13,7 @@ import { ZIEGLER_NICHOLS_ULTIMATE } from './ziegler-nichols-ultimate.js';
 /** Every tuning rule, in the order help texts list them. A new rule is one file plus one line here. */
 export const TUNING_RULES: readonly TuningRule[] = [ZIEGLER_NICHOLS_STEP, ZIEGLER_NICHOLS_ULTIMATE, IMC_PID, SIMC, DAMPING_TARGET, AMIGO, MIGO];
 
+/** The names of every tuning rule, in the registry's order. */
 export const RULE_NAMES: readonly RuleName[] = TUNING_RULES.map((rule) => rule.name);
 
 /** The rule called `name`, or a `tuning.unknownRule` error listing the known names (with a closest match). */

@@ -60,6 +60,7 @@ export interface RuleResult {
   readonly warnings: readonly string[];
 }
 
+/** The name of a published tuning rule speedband applies. */
 export type RuleName =
   | 'ziegler-nichols-step'
   | 'ziegler-nichols-ultimate'

@@ -27,6 +27,7 @@ import { matrixExponential } from '../lti/matrix-exponential.js';
 import { singleTrackStateSpace } from './single-track.js';
 import type { SingleTrackParameters } from './types.js';
 
+/** Input of simulateSingleTrack: parameters, speed, time grid, steer command and the actuator limits. */
 export interface SingleTrackSimulationInput {
   readonly params: SingleTrackParameters;
   /** Constant forward speed, m/s (> 0). */

@@ -18,6 +18,7 @@ import { singleTrackParametersFromVehicle } from './single-track.js';
 import { LIMITED_BY_WORDS, planDuration_s, planSteps, sampleCommand, stepAmplitudes, STEP_PLAN_DEFAULTS, type PlannedStep, type StepAmplitudes } from './step-plan.js';
 import type { Vehicle } from './types.js';
 
+/** Defaults of synthetic logs: seed, sample rate and the sensor noise levels (demo data only). */
 export const TEST_LOG_DEFAULTS = {
   seed: 1,
   sampleRate_hz: 50,
@@ -40,6 +41,7 @@ export const TEST_LOG_DEFAULTS = {
 
 export type TestLogSettings = { readonly [K in keyof typeof TEST_LOG_DEFAULTS]: number };
 
+/** Options of generateTestLog: any TEST_LOG_DEFAULTS value, fixed step amplitudes, command quantisation. */
 export interface TestLogOptions extends Partial<TestLogSettings> {
   /** Large and small amplitudes (rad, positive) for every speed, instead of the per-speed rule. */
   readonly amplitudes_rad?: readonly number[];
@@ -51,6 +53,7 @@ export interface TestLogOptions extends Partial<TestLogSettings> {
 const DECIMALS = { speed_mps: 3, angle_rad: 5, yawRate_radps: 5, lateralAcceleration_mps2: 3 } as const;
 export const TEST_LOG_COLUMNS = ['time_s', 'speed_mps', 'steer_cmd_rad', 'steer_angle_rad', 'yaw_rate_radps', 'lat_accel_mps2'] as const;
 
+/** One synthetic step-test log: its CSV text, the planned steps and their onsets. */
 export interface GeneratedTestLog {
   readonly fileName: string;
   readonly speed_mps: number;

@@ -57,6 +57,13 @@ describe('the same log options on every command that reads logs', () => {
   });
 });
 
+/** A plan file in the test folder. */
+const writePlan = (name: string, plan: unknown): string => {
+  const path = join(dir, name);
+  writeFileSync(path, JSON.stringify(plan));
+  return path;
+};
+
 describe('one set of controller defaults: tune, stability and build', () => {
   it('tune at a breakpoint speed gives the gains build wrote there, with the default settings of both', async () => {
     const schedule = readSchedule(schedulePath);
@@ -76,6 +83,19 @@ describe('one set of controller defaults: tune, stability and build', () => {
     }
     // One sample of latency by default (the van's controllerSampleTime_s is 0.01 s).
     expect(schedule.controller.computationLatency_s).toBe(0.01);
+  });
+
+  it('a path loop too: tune with no preview given takes the preview and reference point build takes (0.5 m + 0.3 s × speed from the front axle)', async () => {
+    const out = join(dir, 'path-migo.json');
+    const built = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', writePlan('path-migo-plan.json', { loop: { kind: 'path' }, rule: { name: 'migo' } }), '--out', out, '--allow-failing']);
+    expect(built.code, built.err).toBeLessThanOrEqual(1);
+    const schedule = readSchedule(out);
+    expect(schedule.loop).toMatchObject({ preview_m: 0.5, previewTime_s: 0.3, referencePoint: 'front-axle' });
+    for (const breakpoint of schedule.breakpoints.filter((row) => !row.insertedByRefinement).slice(0, 3)) {
+      const tuned = await run(['tune', '--rule', 'migo', '--loop', 'path', '--speed-mps', String(breakpoint.speed_mps), '--models', modelsPath, '--vehicle', VAN, '--json']);
+      expect(tuned.code, tuned.err).toBeLessThanOrEqual(1);
+      expect((JSON.parse(tuned.out) as { gains: unknown }).gains).toEqual({ kp: breakpoint.kp, ki: breakpoint.ki, kd: breakpoint.kd });
+    }
   });
 
   it('the build summary and the tune output name the controller settings the gains assume, latency included', async () => {
@@ -104,14 +124,8 @@ describe('one set of controller defaults: tune, stability and build', () => {
 });
 
 describe('plan parameters: a parameter the rule does not use is refused, in plans and on the command line', () => {
-  const planFile = (name: string, plan: unknown): string => {
-    const path = join(dir, name);
-    writeFileSync(path, JSON.stringify(plan));
-    return path;
-  };
-
   it('IMC\'s closedLoopTimeConstant_s in a SIMC plan: exit 2 at its JSON path, naming the parameter SIMC takes and the plan reference', async () => {
-    const plan = planFile('simc-lambda.json', { rule: { name: 'simc', parameters: { closedLoopTimeConstant_s: 0.2 } } });
+    const plan = writePlan('simc-lambda.json', { rule: { name: 'simc', parameters: { closedLoopTimeConstant_s: 0.2 } } });
     const result = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'never.json')]);
     expect(result.code).toBe(2);
     expect(result.err).toMatch(/at \/rule\/parameters\/closedLoopTimeConstant_s: simc does not use closedLoopTimeConstant_s \(a parameter of imc-pid\) — did you mean simcClosedLoopTimeConstant_s\? simc takes controllerType, simcClosedLoopTimeConstant_s/);
@@ -120,7 +134,7 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
   });
 
   it('a damping-target parameter in a plan of the default rule (SIMC) is refused the same way', async () => {
-    const plan = planFile('simc-zeta.json', { rule: { parameters: { dampingRatio: 0.8 } } });
+    const plan = writePlan('simc-zeta.json', { rule: { parameters: { dampingRatio: 0.8 } } });
     const result = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'never.json')]);
     expect(result.code).toBe(2);
     expect(result.err).toMatch(/simc does not use dampingRatio \(a parameter of damping-target\)/);
@@ -128,7 +142,7 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
   });
 
   it('a misspelt plan field gets the closest field name and the plan reference', async () => {
-    const plan = planFile('typo.json', { acceptance: { minimumPhaseMargin_degs: 50 } });
+    const plan = writePlan('typo.json', { acceptance: { minimumPhaseMargin_degs: 50 } });
     const result = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'never.json')]);
     expect(result.code).toBe(2);
     expect(result.err).toMatch(/\/acceptance: unknown field "minimumPhaseMargin_degs" — did you mean "minimumPhaseMargin_deg"\?/);
@@ -151,7 +165,7 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
     expect(plan.loop.kind).toBe('yaw-rate');
     // Ten limits: four margins, Ms, Mt, the delay-margin room and the time-domain limits of the reference step, disturbances, lane change and curve entry.
     expect(Object.keys(plan.acceptance)).toHaveLength(10);
-    const path = planFile('default-plan.json', plan);
+    const path = writePlan('default-plan.json', plan);
     const out = join(dir, 'with-default-plan.json');
     expect((await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', path, '--out', out])).code).toBe(0);
     const [withPlan, without] = [readSchedule(out), readSchedule(schedulePath)];

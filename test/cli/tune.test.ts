@@ -47,14 +47,14 @@ describe('speedband tune', () => {
   });
 
   it('Ziegler–Nichols for a path loop exits 2 saying why and naming the rules that apply', async () => {
-    const { code, err } = await run(['tune', '--rule', 'ziegler-nichols-step', '--loop', 'path', '--speed-mps', '8', ...fopdt]);
+    const { code, err } = await run(['tune', '--rule', 'ziegler-nichols-step', '--loop', 'path', '--preview-m', '0', '--speed-mps', '8', ...fopdt]);
     expect(code).toBe(2);
     expect(err).toMatch(/no finite maximum slope/);
     expect(err).toMatch(/rules that apply: simc, damping-target/);
   });
 
   it('a tuned loop that is unstable on the full plant exits 1 and says so', async () => {
-    const { code, out } = await run(['tune', '--rule', 'simc', '--loop', 'path', '--speed-mps', '8', ...fopdt, '--closed-loop-time-constant-s', '0.01']);
+    const { code, out } = await run(['tune', '--rule', 'simc', '--loop', 'path', '--preview-m', '0', '--speed-mps', '8', ...fopdt, '--closed-loop-time-constant-s', '0.01']);
     expect(code).toBe(1);
     expect(out).toMatch(/NOT stable/);
   });

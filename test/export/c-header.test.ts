@@ -250,7 +250,7 @@ describe('exportC(schedule)', () => {
     expect(text).toContain(schedule.checksum.value);
     expect(text).toMatch(/#ifndef SPEEDBAND_SCHEDULE_H/);
     expect(text).toMatch(/kp rad per m; ki rad per m\*s; kd rad per m\/s/);
-    expect(text).toMatch(/Loop: path \(preview 4 m from the front-axle\)/);
+    expect(text).toMatch(/Loop: path \(preview 4 m from the front axle\)/);
     expect(text).toMatch(/I\[k\] = clamp\(I\[k-1\] \+ dI\[k\], -integratorClamp_rad - F\[k\]/);
     expect(text).toMatch(/Feed-forward: F = kff\*w, w = the path curvature/);
     expect(text).toMatch(/v\[k\] = F\[k\] \+ kp\[k\]\*\(b\[k\]\*r\[k\] - y\[k\]\) \+ I\[k\] \+ D\[k\]/);

@@ -1,17 +1,29 @@
-import type { CommandModule } from '../command.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { commandPrefix } from '../invocation.js';
 import { BUNDLED_VEHICLES, shownPath } from '../../vehicle/bundled.js';
 import { join } from 'node:path';
 
+function builder(yargs: Argv) {
+  return (
+    yargs
+      .option('out', { type: 'string', default: 'speedband-demo', describe: 'Folder for models.json, schedule.json, schedule.h and schedule.csv' })
+      .option('vehicle', { type: 'string', default: 'parcel-van', describe: 'Bundled demo vehicle: parcel-van, parcel-van-loaded, vineyard-sprayer or sidewalk-robot (any command takes these names as --vehicle, from any folder)' })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace existing files in the folder whose content differs' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
 /** `speedband demo`: the main job on a bundled demo vehicle, end to end, into one folder. */
-async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+async function run(args: Args, io: CommandIo): Promise<number> {
   const { runDemo } = await import('../../build/demo.js');
   const { formatSchedule, formatCautions } = await import('../../build/schedule-report.js');
-  const outDir = String(args.out);
-  const vehicle = String(args.vehicle);
+  const outDir = args.out;
+  const vehicle = args.vehicle;
   io.stderr(`speedband demo: building a schedule for the bundled demo vehicle "${vehicle}" (invented data, for demonstration only)…\n`);
-  const result = await runDemo({ vehicle, outDir, force: args.force === true, progress: io.progress });
+  const result = await runDemo({ vehicle, outDir, force: args.force, progress: io.progress });
   const lines: string[] = [];
   lines.push(formatSchedule(result.build.schedule));
   lines.push(`Re-checked independently from the written schedule: ${result.recheck.passed ? 'PASSED' : 'FAILED'} at ${result.recheck.points.length} speeds.`);
@@ -38,14 +50,10 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   return result.build.schedule.status === 'passed' && result.recheck.passed ? EXIT.ok : EXIT.failed;
 }
 
-export const command: CommandModule = {
+export const command = defineCommand({
   command: 'demo',
   describe: 'Run the whole job on a bundled demo vehicle (invented data): identify, build, check, export C and CSV into one folder',
-  builder: (yargs) =>
-    yargs
-      .option('out', { type: 'string', default: 'speedband-demo', describe: 'Folder for models.json, schedule.json, schedule.h and schedule.csv' })
-      .option('vehicle', { type: 'string', default: 'parcel-van', describe: 'Bundled demo vehicle: parcel-van, parcel-van-loaded, vineyard-sprayer or sidewalk-robot (any command takes these names as --vehicle, from any folder)' })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace existing files in the folder whose content differs' }),
+  builder,
   exitCodes: [
     [0, 'the demo schedule passed its dense check and the independent re-check'],
     [1, 'it failed one of them (the files are still written, the schedule marked failed)'],
@@ -56,4 +64,4 @@ export const command: CommandModule = {
     ['speedband demo --vehicle vineyard-sprayer --out sprayer-demo', 'The sprayer with its slow hydraulic steering'],
   ],
   run,
-};
+});

@@ -1,7 +1,9 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { AnalyseLoop } from '../../schedule/types.js';
 import type { ScheduleFile } from '../../schedule/schedule-types.js';
-import type { CommandModule } from '../command.js';
+import type { Argv } from 'yargs';
+import { C_HEADER_DEFAULTS } from '../../export/c-header.js';
+import { defineCommand, type CommandModule, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { SAFETY_EPILOGUE } from '../../core/safety.js';
 
@@ -14,42 +16,49 @@ export interface ExportDependencies {
   readonly analyseFor?: (schedule: ScheduleFile) => AnalyseLoop | null;
 }
 
-type Format = 'c' | 'csv' | 'json';
-const FORMATS: readonly Format[] = ['c', 'csv', 'json'];
+const FORMATS = ['c', 'csv', 'json'] as const;
+type Format = (typeof FORMATS)[number];
 
 const shown = (value: number): string => value.toPrecision(3);
 
+function builder(yargs: Argv) {
+  return (
+    yargs
+      .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband (its checksum must match)' })
+      .option('format', {
+        type: 'string',
+        choices: FORMATS,
+        demandOption: true,
+        describe:
+          'c: C99 header with const tables and a static inline lookup (IEEE 754 double, clamped, same interpolation as the schedule); csv: one row per breakpoint, units in the header; json: the canonical schedule file',
+      })
+      .option('out', { type: 'string', describe: 'File to write (atomically); without it the export goes to standard output' })
+      .option('q-format', {
+        type: 'string',
+        describe:
+          'C only: gains as fixed-point integers and an integer-only lookup (no floating point; speed in units of 2^-16 m/s). QI.F or I.F (I integer bits including the sign, F fractional bits, I + F = 16 or 32: Q16.16, 16.16, Q4.12) for every gain, or auto: per gain, the 32-bit format with the most fractional bits its values need. Prints the error per gain; the dense check is re-run on what the integer lookup computes',
+      })
+      .option('prefix', { type: 'string', default: C_HEADER_DEFAULTS.prefix, describe: 'C only: prefix of every identifier; the include guard is its upper case' })
+      .option('allow-failing', {
+        type: 'boolean',
+        default: false,
+        describe:
+          'Export a schedule whose dense check fails (or cannot be re-run), for review only: the C header then starts with #error unless <PREFIX>_ALLOW_FAILING_SCHEDULE is defined',
+      })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs (never the schedule itself)' })
+      .option('json', { type: 'boolean', default: false, describe: 'With --out: print a JSON summary (file, format, checksum, quantisation errors) instead of text' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
 /** The `export` command, with its dependencies given (the default export has no quantised re-check). */
-export function makeExportCommand(dependencies: ExportDependencies): CommandModule {
-  return {
+export function makeExportCommand(dependencies: ExportDependencies): CommandModule<Args> {
+  return defineCommand({
     command: 'export <schedule>',
     describe:
       'Write a verified schedule.json as a C99 header for firmware, a CSV for spreadsheets, or canonical JSON; the schema and checksum are verified and the dense check of the exported gains is re-run first',
-    builder: (yargs) =>
-      yargs
-        .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband (its checksum must match)' })
-        .option('format', {
-          type: 'string',
-          choices: FORMATS,
-          demandOption: true,
-          describe:
-            'c: C99 header with const tables and a static inline lookup (IEEE 754 double, clamped, same interpolation as the schedule); csv: one row per breakpoint, units in the header; json: the canonical schedule file',
-        })
-        .option('out', { type: 'string', describe: 'File to write (atomically); without it the export goes to standard output' })
-        .option('q-format', {
-          type: 'string',
-          describe:
-            'C only: gains as fixed-point integers and an integer-only lookup (no floating point; speed in units of 2^-16 m/s). QI.F or I.F (I integer bits including the sign, F fractional bits, I + F = 16 or 32: Q16.16, 16.16, Q4.12) for every gain, or auto: per gain, the 32-bit format with the most fractional bits its values need. Prints the error per gain; the dense check is re-run on what the integer lookup computes',
-        })
-        .option('prefix', { type: 'string', default: 'speedband_schedule', describe: 'C only: prefix of every identifier; the include guard is its upper case' })
-        .option('allow-failing', {
-          type: 'boolean',
-          default: false,
-          describe:
-            'Export a schedule whose dense check fails (or cannot be re-run), for review only: the C header then starts with #error unless <PREFIX>_ALLOW_FAILING_SCHEDULE is defined',
-        })
-        .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs (never the schedule itself)' })
-        .option('json', { type: 'boolean', default: false, describe: 'With --out: print a JSON summary (file, format, checksum, quantisation errors) instead of text' }),
+    builder,
     exitCodes: [
       [0, 'written (or printed); the exported gains passed the re-run dense check'],
       [1, 'not written: the schedule failed its check or the exported (quantised) gains fail it — or written with --allow-failing, for review only'],
@@ -62,19 +71,19 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
       ['speedband export schedule.json --format csv > gains.csv', 'Breakpoints, gains and margins for a spreadsheet'],
     ],
     run: async (args, io) => run(args, io, dependencies),
-  };
+  });
 }
 
-async function run(args: Record<string, unknown>, io: CommandIo, dependencies: ExportDependencies): Promise<number> {
-  const format = String(args.format) as Format;
-  const schedulePath = String(args.schedule);
-  const out = args.out === undefined ? undefined : String(args.out);
-  const qFormat = args['q-format'] === undefined ? undefined : String(args['q-format']);
-  const allowFailing = args['allow-failing'] === true;
+async function run(args: Args, io: CommandIo, dependencies: ExportDependencies): Promise<number> {
+  const format: Format = args.format;
+  const schedulePath = args.schedule;
+  const out = args.out;
+  const qFormat = args['q-format'];
+  const allowFailing = args['allow-failing'];
   if (qFormat !== undefined && format !== 'c') {
     throw new SpeedbandError('cli.optionNotApplicable', `--q-format applies to --format c only (got --format ${format}) — drop --q-format or export C`);
   }
-  if (args.json === true && out === undefined) {
+  if (args.json && out === undefined) {
     throw new SpeedbandError('cli.optionNotApplicable', '--json prints a summary of a written file: give --out FILE too');
   }
   if (out !== undefined) (await import('../../core/output-paths.js')).checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }]);
@@ -143,7 +152,7 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
   if (format === 'c') {
     const { exportC } = await import('../../export/c-header.js');
     fallback = analyse === null ? null : exportCheck.findFallbackGains(schedule, table, analyse);
-    const upper = String(args.prefix).toUpperCase();
+    const upper = args.prefix.toUpperCase();
     notes.push(
       quantisation !== undefined
         ? `  The integer lookup takes the speed as an integer, never NaN: no fallback status; ${upper}_FALLBACK_BREAKPOINT is ${fallback === null ? '-1 (no breakpoint\'s gains pass held constant over the whole range)' : `${fallback.breakpoint} (${fallback.speed_mps} m/s), gains that pass held constant over the whole range, for a speed-sensor fault`}.`
@@ -155,7 +164,7 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
       check === null
         ? { passed: false, gridSize: schedule.check.gridSize, failedSpeeds: schedule.check.failedSpeeds, worst: schedule.check.worst, source: 'NOT re-checked at export: no model to rebuild' }
         : { passed, gridSize: check.points.length, failedSpeeds: check.failedCount, worst: check.worst, source: 're-checked at export on the model the schedule records' };
-    text = exportC(schedule, { prefix: String(args.prefix), check: headerCheck, fallback, ...(fixedPoint === undefined ? {} : { fixedPoint }) }).text;
+    text = exportC(schedule, { prefix: args.prefix, check: headerCheck, fallback, ...(fixedPoint === undefined ? {} : { fixedPoint }) }).text;
   } else if (format === 'csv') {
     text = (await import('../../export/csv.js')).exportCsv(schedule);
   } else {
@@ -168,8 +177,8 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
     return passed ? EXIT.ok : EXIT.failed;
   }
   const { writeFileAtomic } = await import('../../core/files.js');
-  const outcome = writeFileAtomic(out, text, args.force === true);
-  if (args.json === true) {
+  const outcome = writeFileAtomic(out, text, args.force);
+  if (args.json) {
     io.stdout(
       `${JSON.stringify(
         {
@@ -210,4 +219,4 @@ async function run(args: Record<string, unknown>, io: CommandIo, dependencies: E
   return passed ? EXIT.ok : EXIT.failed;
 }
 
-export const command: CommandModule = makeExportCommand({});
+export const command = makeExportCommand({});

@@ -1,5 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
-import type { CommandModule } from '../command.js';
+import { IDENTIFY_DEFAULTS } from '../../identify/defaults.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
@@ -13,9 +15,35 @@ const f = (value: number, digits: number): string => value.toFixed(digits);
 const plusMinus = (value: number, interval: readonly [number, number], digits: number): string =>
   `${f(value, digits)} ± ${f((interval[1] - interval[0]) / 2, digits)}`;
 
-async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
-  const out = args.out === undefined ? undefined : String(args.out);
-  if (out === undefined && args.json !== true) {
+function builder(yargs: Argv) {
+  return (
+    withLogColumnOptions(yargs)
+      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, yaw inertia, axle positions, steering ratio' })
+      .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]), or folders of them; steps at two or more speeds' })
+      .option('out', { type: 'string', describe: 'models.json to write (atomically; validated against its JSON Schema). Required unless --json is given' })
+      .option('speed-tolerance-mps', { type: 'number', default: IDENTIFY_DEFAULTS.speedTolerance_mps, describe: 'Steps whose speeds differ by at most this (m/s) — and by at most --speed-tolerance-fraction of the speed — are one nominal speed' })
+      .option('speed-tolerance-fraction', { type: 'number', default: IDENTIFY_DEFAULTS.speedToleranceFraction, describe: 'Relative speed tolerance (fraction of the speed) for slow machines tested at speeds close together' })
+      .option('max-hold-s', { type: 'number', default: IDENTIFY_DEFAULTS.maxHold_s, describe: 'Fit each step over at most this many seconds after its onset (s); longer holds add time, not information' })
+      .option('min-r2', { type: 'number', default: IDENTIFY_DEFAULTS.minR2, describe: 'Refuse a step whose FOPDT fit explains less than this fraction (R²) of the yaw response' })
+      .option('bias', { type: 'string', choices: ['fitted', 'pre-step'], default: 'fitted', describe: 'Yaw-rate sensor offset per step: fitted with the model, or the mean of the pre-step window' })
+      .option('command-hold', {
+        type: 'string',
+        choices: ['zero-order', 'linear'],
+        default: 'zero-order',
+        describe: 'How the logged command is taken between samples: held (a rig writing the command at samples) or linearly interpolated (a continuous command sampled by the logger)',
+      })
+      .option('second-order', { type: 'boolean', default: IDENTIFY_DEFAULTS.fitSecondOrder, describe: 'Also fit second order plus dead time (with and without a zero) per step and choose by BIC' })
+      .option('joint-fit', { type: 'boolean', default: IDENTIFY_DEFAULTS.jointFit, describe: 'Fit the joint single-track model (Cf, Cr, actuator lag and delay) over all steps' })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (per-speed models, single-track results, dropped steps, warnings) instead of tables; with no --out, nothing is written' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
+async function run(args: Args, io: CommandIo): Promise<number> {
+  const out = args.out;
+  if (out === undefined && !args.json) {
     throw new SpeedbandError('cli.missingOption', 'nothing to do: give --out models.json to write the models file, and/or --json to print a summary');
   }
   const { identifyFromLogs, expandLogPaths } = await import('../../identify/identify-from-logs.js');
@@ -25,8 +53,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     checkOutputPaths(
       [{ path: out, option: '--out' }],
       [
-        { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
-        ...expandLogPaths((args.logs as unknown[]).map(String)).map((path) => ({ path, role: 'log' })),
+        { path: resolveVehiclePath(args.vehicle), role: 'vehicle file' },
+        ...expandLogPaths(args.logs).map((path) => ({ path, role: 'log' })),
         ...optionalInputs(args, [['log-profile', 'log profile']]),
       ],
     );
@@ -34,28 +62,28 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const { writeModels } = await import('../../identify/models-file.js');
   const { radiansToDegrees } = await import('../../core/units.js');
   const { tallyTwoPointAgreement, TWO_POINT_AGREEMENT } = await import('../../identify/two-point-agreement.js');
-  const logPaths = (args.logs as unknown[]).map(String);
+  const logPaths = args.logs;
   const columns = await logColumnsFromArgs(args);
   const models = identifyFromLogs({
-    vehicle: String(args.vehicle),
+    vehicle: args.vehicle,
     logPaths,
     options: {
       biasMode: args.bias === 'pre-step' ? 'preStep' : 'fitted',
       hold: args['command-hold'] === 'linear' ? 'linear' : 'zeroOrder',
-      speedTolerance_mps: Number(args['speed-tolerance-mps']),
-      speedToleranceFraction: Number(args['speed-tolerance-fraction']),
-      minR2: Number(args['min-r2']),
-      maxHold_s: Number(args['max-hold-s']),
-      fitSecondOrder: args['second-order'] !== false,
-      jointFit: args['joint-fit'] !== false,
+      speedTolerance_mps: args['speed-tolerance-mps'],
+      speedToleranceFraction: args['speed-tolerance-fraction'],
+      minR2: args['min-r2'],
+      maxHold_s: args['max-hold-s'],
+      fitSecondOrder: args['second-order'],
+      jointFit: args['joint-fit'],
     },
     ...(columns === undefined ? {} : { readOptions: { columns } }),
     progress: io.progress,
   });
-  const outcome = out === undefined ? null : writeModels(out, models, args.force === true);
+  const outcome = out === undefined ? null : writeModels(out, models, args.force);
   const twoPoint = tallyTwoPointAgreement(models.tests);
 
-  if (args.json === true) {
+  if (args.json) {
     io.stdout(
       `${JSON.stringify(
         {
@@ -88,7 +116,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     const keys = new Set(speed.steps.map((k) => `${k.file}\u0000${k.stepIndex}`));
     const tests = models.tests.filter((t) => keys.has(`${t.file}\u0000${t.stepIndex}`));
     // Refused steps belong to no group: count those within the speed tolerance.
-    const tolerance_mps = Math.min(Number(args['speed-tolerance-mps']), Number(args['speed-tolerance-fraction']) * speed.speed_mps);
+    const tolerance_mps = Math.min(args['speed-tolerance-mps'], args['speed-tolerance-fraction'] * speed.speed_mps);
     const refused = models.refusedTests.filter((t) => Math.abs(t.speed_mps - speed.speed_mps) <= tolerance_mps).length;
     const minR2 = Math.min(...tests.map((t) => t.fopdt.r2));
     const chosen = new Map<string, number>();
@@ -151,29 +179,10 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   return EXIT.ok;
 }
 
-export const command: CommandModule = {
+export const command = defineCommand({
   command: 'identify',
   describe: 'Fit models of the steering-to-yaw response from step-steer logs: FOPDT per step and per speed with 95 % intervals, the steering actuator, and a joint single-track model; writes models.json',
-  builder: (yargs) =>
-    withLogColumnOptions(yargs)
-      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, yaw inertia, axle positions, steering ratio' })
-      .option('logs', { type: 'array', string: true, demandOption: true, describe: 'CSV step-test logs (time_s, speed_mps, steer_cmd_rad, yaw_rate_radps[, steer_angle_rad]), or folders of them; steps at two or more speeds' })
-      .option('out', { type: 'string', describe: 'models.json to write (atomically; validated against its JSON Schema). Required unless --json is given' })
-      .option('speed-tolerance-mps', { type: 'number', default: 0.5, describe: 'Steps whose speeds differ by at most this (m/s) — and by at most --speed-tolerance-fraction of the speed — are one nominal speed' })
-      .option('speed-tolerance-fraction', { type: 'number', default: 0.05, describe: 'Relative speed tolerance (fraction of the speed) for slow machines tested at speeds close together' })
-      .option('max-hold-s', { type: 'number', default: 10, describe: 'Fit each step over at most this many seconds after its onset (s); longer holds add time, not information' })
-      .option('min-r2', { type: 'number', default: 0.8, describe: 'Refuse a step whose FOPDT fit explains less than this fraction (R²) of the yaw response' })
-      .option('bias', { type: 'string', choices: ['fitted', 'pre-step'], default: 'fitted', describe: 'Yaw-rate sensor offset per step: fitted with the model, or the mean of the pre-step window' })
-      .option('command-hold', {
-        type: 'string',
-        choices: ['zero-order', 'linear'],
-        default: 'zero-order',
-        describe: 'How the logged command is taken between samples: held (a rig writing the command at samples) or linearly interpolated (a continuous command sampled by the logger)',
-      })
-      .option('second-order', { type: 'boolean', default: true, describe: 'Also fit second order plus dead time (with and without a zero) per step and choose by BIC' })
-      .option('joint-fit', { type: 'boolean', default: true, describe: 'Fit the joint single-track model (Cf, Cr, actuator lag and delay) over all steps' })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (per-speed models, single-track results, dropped steps, warnings) instead of tables; with no --out, nothing is written' }),
+  builder,
   exitCodes: [
     [0, 'identified: models written (--out) or printed (--json)'],
     [2, 'bad input: unreadable logs or vehicle, a channel off by a unit factor (checked against the kinematics), no steps, fewer than two usable speeds, an output path'],
@@ -184,4 +193,4 @@ export const command: CommandModule = {
     ['speedband identify --vehicle vehicles/sidewalk-robot --logs vehicles/sidewalk-robot/logs --json', 'Only the JSON summary on stdout; no models file written'],
   ],
   run,
-};
+});

@@ -1,4 +1,4 @@
-import type { CommandModule } from '../command.js';
+import type { AnyCommand } from '../command.js';
 import { command as makeTestLogs } from './make-test-logs.js';
 import { command as inspect } from './inspect.js';
 import { command as identify } from './identify.js';
@@ -15,8 +15,8 @@ import { command as report } from './report.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them (the pipeline's order).
- * Add a command: write `src/cli/commands/<name>.ts` exporting `command: CommandModule`
+ * Add a command: write `src/cli/commands/<name>.ts` exporting `command = defineCommand({ … })`
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [demo, inspect, identify, tune, stability, plan, build, check, reverify, exportSchedule, report, compare, makeTestLogs];
+export const COMMANDS: readonly AnyCommand[] = [demo, inspect, identify, tune, stability, plan, build, check, reverify, exportSchedule, report, compare, makeTestLogs];

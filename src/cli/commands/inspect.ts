@@ -3,11 +3,11 @@ import { SEGMENT_DEFAULTS } from '../../log/segment.js';
 import { inspectLog, type LogInspection } from '../../log/inspect.js';
 import { formatInspection, formatInspectionSummary } from '../../log/inspection-text.js';
 import { describeError, isSpeedbandError } from '../../core/errors.js';
-import type { CommandModule } from '../command.js';
+import { defineCommand } from '../command.js';
 import { EXIT } from '../io.js';
 import { logColumnsFromArgs, withLogColumnOptions } from '../log-columns.js';
 
-export const command: CommandModule = {
+export const command = defineCommand({
   command: 'inspect <logs..>',
   describe: 'Read step-steer test logs: channels, sampling, splits, the steps found with ISO 7401-style metrics, and why a candidate step was rejected',
   builder: (yargs) =>
@@ -41,21 +41,21 @@ export const command: CommandModule = {
     ['speedband inspect run7.csv --log-profile logger.json --json', 'Column names and units from a profile file, machine-readable output'],
   ],
   run: async (args, io) => {
-    const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
+    const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(args.vehicle);
     const columns = await logColumnsFromArgs(args);
-    const steeringRatio = (args['steering-ratio'] as number | undefined) ?? vehicle?.steeringRatio;
+    const steeringRatio = args['steering-ratio'] ?? vehicle?.steeringRatio;
     const segmentOptions = {
-      minHold_s: Number(args['min-hold-s']),
-      speedToleranceAbsolute_mps: Number(args['speed-tolerance-mps']),
+      minHold_s: args['min-hold-s'],
+      speedToleranceAbsolute_mps: args['speed-tolerance-mps'],
       ...(vehicle === undefined ? {} : { maxSteerAngle_rad: vehicle.maxSteerAngle_rad }),
     };
 
     let exitCode: number = EXIT.ok;
     const reports: unknown[] = [];
     const inspections: LogInspection[] = [];
-    for (const file of (args.logs as string[] | undefined) ?? []) {
+    for (const file of args.logs ?? []) {
       try {
-        const log = readSteerLog(file, { columns, steeringRatio, gapFactor: Number(args['gap-factor']) });
+        const log = readSteerLog(file, { columns, steeringRatio, gapFactor: args['gap-factor'] });
         const inspection = inspectLog(log, segmentOptions);
         if (inspection.steps.length === 0 && exitCode === EXIT.ok) exitCode = EXIT.failed;
         inspections.push(inspection);
@@ -72,4 +72,4 @@ export const command: CommandModule = {
     else if (inspections.length > 1) io.stdout(formatInspectionSummary(inspections));
     return exitCode;
   },
-};
+});

@@ -1,5 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
-import type { CommandModule } from '../command.js';
+import type { Argv } from 'yargs';
+import { TEST_LOG_DEFAULTS } from '../../vehicle/test-logs.js';
+import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT } from '../io.js';
 import { quoted } from '../../core/quote.js';
 
@@ -41,10 +43,8 @@ function parseNumberList(text: string, option: string): number[] {
   });
 }
 
-export const command: CommandModule = {
-  command: 'make-test-logs',
-  describe: 'Write synthetic (invented, labelled) step-steer test logs for a vehicle file: one CSV per speed, simulated exactly with seeded noise',
-  builder: (yargs) =>
+function builder(yargs: Argv) {
+  return (
     yargs
       .usage(
         'speedband make-test-logs --vehicle V --speeds LIST --out DIR [options]\n\n' +
@@ -65,16 +65,16 @@ export const command: CommandModule = {
         describe: 'Test speeds in m/s: comma-separated (2,5,10) or start:step:end (2:2:20); one log per speed',
       })
       .option('out', { type: 'string', demandOption: true, describe: 'Folder to write the logs and a README.md into (created if needed)' })
-      .option('seed', { type: 'number', default: 1, describe: 'Integer seed of the noise; the same seed gives byte-identical files' })
+      .option('seed', { type: 'number', default: TEST_LOG_DEFAULTS.seed, describe: 'Integer seed of the noise; the same seed gives byte-identical files' })
       .option('amplitudes-deg', {
         type: 'string',
         describe:
           'Road-wheel step amplitudes in degrees for every speed, e.g. 2,1 (default: per speed, the large one aiming at 1.5 m/s² steady lateral acceleration within half the angle limit and the rate limit; the small one half of it)',
       })
-      .option('sample-rate-hz', { type: 'number', default: 50, describe: 'Sample rate of the logs, Hz' })
+      .option('sample-rate-hz', { type: 'number', default: TEST_LOG_DEFAULTS.sampleRate_hz, describe: 'Sample rate of the logs, Hz' })
       .option('noise-scale', {
         type: 'number',
-        default: 1,
+        default: TEST_LOG_DEFAULTS.noiseScale,
         describe: 'Multiplies every sensor noise level and the yaw-rate bias (1: yaw rate σ 0.001 rad/s, bias within ±0.003 rad/s; 0: noise-free)',
       })
       .option('command-resolution-deg', {
@@ -83,7 +83,16 @@ export const command: CommandModule = {
         describe: 'Quantise the steer command to multiples of this road-wheel angle, degrees, as a firmware with a coarse command would (0: not quantised)',
       })
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing files whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table' }),
+      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
+export const command = defineCommand({
+  command: 'make-test-logs',
+  describe: 'Write synthetic (invented, labelled) step-steer test logs for a vehicle file: one CSV per speed, simulated exactly with seeded noise',
+  builder,
   exitCodes: [
     [0, 'the logs and their README were written'],
     [2, 'bad input: vehicle file without nominal cornering stiffnesses, bad speed list, an output that exists (--force)'],
@@ -100,8 +109,8 @@ export const command: CommandModule = {
     const { degreesToRadians, radiansToDegrees } = await import('../../core/units.js');
     const { checkOutputFolder, checkOutputPaths } = await import('../../core/output-paths.js');
     const { join } = await import('node:path');
-    const speeds = parseNumberList(String(args.speeds), 'speeds');
-    const out = String(args.out);
+    const speeds = parseNumberList(args.speeds, 'speeds');
+    const out = args.out;
     checkOutputFolder({ path: out, option: '--out' });
     checkOutputPaths(
       // Each file once: two speeds with one file name are refused by writeTestLogs, with its own words.
@@ -109,24 +118,24 @@ export const command: CommandModule = {
         path,
         option: '--out',
       })),
-      [{ path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' }],
+      [{ path: resolveVehiclePath(args.vehicle), role: 'vehicle file' }],
     );
-    const vehicle = loadVehicle(String(args.vehicle));
-    const amplitudesText = args['amplitudes-deg'] as string | undefined;
+    const vehicle = loadVehicle(args.vehicle);
+    const amplitudesText = args['amplitudes-deg'];
     const amplitudes_rad = amplitudesText === undefined ? undefined : parseNumberList(amplitudesText, 'amplitudes-deg').map(degreesToRadians);
     const result = writeTestLogs(
       vehicle,
       speeds,
-      String(args.out),
+      out,
       {
-        seed: Number(args.seed),
-        sampleRate_hz: Number(args['sample-rate-hz']),
-        noiseScale: Number(args['noise-scale']),
-        commandResolution_rad: degreesToRadians(Number(args['command-resolution-deg'])),
-        commandPaths: { vehicle: String(args.vehicle), out: String(args.out) },
+        seed: args.seed,
+        sampleRate_hz: args['sample-rate-hz'],
+        noiseScale: args['noise-scale'],
+        commandResolution_rad: degreesToRadians(args['command-resolution-deg']),
+        commandPaths: { vehicle: args.vehicle, out },
         ...(amplitudes_rad === undefined ? {} : { amplitudes_rad }),
       },
-      Boolean(args.force),
+      args.force,
     );
     const outcomes = new Map(result.files.map((file) => [file.path, file.outcome]));
     const rows = result.logs.map((log, index) => ({
@@ -167,9 +176,9 @@ export const command: CommandModule = {
     const text = table.map((line) => line.map((cell, column) => (column === 0 ? cell.padEnd(widths[column]) : cell.padStart(widths[column]))).join('  ').trimEnd());
     io.stdout(`${text.join('\n')}\n`);
     io.stdout(
-      `\nSynthetic data for demos and tests only (vehicle ${quoted(vehicle.name)}, seed ${String(args.seed)}): ${rows.length} logs, each with ${rows[0]?.stepOnsets_s.length ?? 0} steps (left and right at two amplitudes, with returns to zero). ` +
+      `\nSynthetic data for demos and tests only (vehicle ${quoted(vehicle.name)}, seed ${args.seed}): ${rows.length} logs, each with ${rows[0]?.stepOnsets_s.length ?? 0} steps (left and right at two amplitudes, with returns to zero). ` +
         `How they were made: ${result.files[result.files.length - 1].path}\n`,
     );
     return EXIT.ok;
   },
-};
+});

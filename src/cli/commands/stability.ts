@@ -1,23 +1,14 @@
 import { SpeedbandError } from '../../core/errors.js';
 import { CONTROLLER_DEFAULTS, describeControllerSettings, resolveControllerSettings } from '../../controller/defaults.js';
-import type { Discretisation } from '../../controller/types.js';
-import type { CommandModule } from '../command.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
+import { numberOption } from '../number-option.js';
 import { EXIT } from '../io.js';
 import type { LoopMargins } from '../../verify/types.js';
 import { quoted } from '../../core/quote.js';
 
-/** A number option or undefined when absent (yargs gives NaN for a non-number). */
-function numberOption(args: Record<string, unknown>, name: string): number | undefined {
-  const value = args[name];
-  if (value === undefined) return undefined;
-  if (typeof value !== 'number' || Number.isNaN(value)) {
-    throw new SpeedbandError('cli.badNumber', `--${name} is ${quoted(String(value))} — expected a number`, { details: { option: name } });
-  }
-  return value;
-}
-
 /** "1 3 2" or "1,3,2" → [1, 3, 2]; each entry must be a finite number. */
-function coefficientOption(args: Record<string, unknown>, name: string): number[] | undefined {
+function coefficientOption(args: Args, name: 'numerator' | 'denominator'): number[] | undefined {
   const value = args[name];
   if (value === undefined) return undefined;
   const text = String(value).trim();
@@ -66,10 +57,8 @@ const verdictEvidence = (margins: LoopMargins): string => {
 const format = (value: number | null, digits: number, unit: string): string => (value === null ? 'none' : `${value.toFixed(digits)} ${unit}`);
 const at = (frequency: number | null): string => (frequency === null ? '' : ` at ${frequency.toPrecision(4)} rad/s`);
 
-export const command: CommandModule = {
-  command: 'stability',
-  describe: 'Stability margins of one loop: a plant (transfer function with delay, or FOPDT) under a PID — phase, lower and upper gain, delay margins, sensitivity peaks and a verdict',
-  builder: (yargs) =>
+function builder(yargs: Argv) {
+  return (
     yargs
       .usage(
         'speedband stability (--numerator "..." --denominator "..." [--delay-s θ] | --gain K --time-constant-s T --dead-time-s L) --kp KP [--ki KI] [--kd KD] [options]\n\n' +
@@ -99,20 +88,29 @@ export const command: CommandModule = {
       .option('kp', { type: 'number', demandOption: true, describe: 'Proportional gain (with --form ideal or series: the gain Kc)' })
       .option('ki', { type: 'number', describe: 'Integral gain, per s (with --form ideal or series: the integral time in s; omit for no integral action)' })
       .option('kd', { type: 'number', describe: 'Derivative gain, s (with --form ideal or series: the derivative time in s); default 0' })
-      .option('form', { type: 'string', choices: ['parallel', 'ideal', 'series'], default: 'parallel', describe: 'How --kp --ki --kd are written: parallel kp + ki/s + kd·s; ideal Kc(1 + 1/(Ti·s) + Td·s); series Kc(1 + 1/(τI·s))(1 + τD·s)' })
+      .option('form', { type: 'string', choices: ['parallel', 'ideal', 'series'] as const, default: 'parallel' as const, describe: 'How --kp --ki --kd are written: parallel kp + ki/s + kd·s; ideal Kc(1 + 1/(Ti·s) + Td·s); series Kc(1 + 1/(τI·s))(1 + τD·s)' })
       .option('derivative-filter', { type: 'string', default: String(CONTROLLER_DEFAULTS.derivativeFilter), describe: 'Derivative filter factor N: Tf = Td/N; "none" for an unfiltered derivative' })
       .option('sample-time-s', {
         type: 'number',
         describe: `Firmware sample time Ts, s: the discrete PID with a zero-order hold, margins and verdict on the exact sampled loop (default ${CONTROLLER_DEFAULTS.sampleTime_s}, as tune and build)`,
       })
-      .option('discretisation', { type: 'string', choices: ['backward-euler', 'tustin'], default: CONTROLLER_DEFAULTS.discretisation, describe: 'Discretisation of the discrete PID' })
+      .option('discretisation', { type: 'string', choices: ['backward-euler', 'tustin'] as const, default: CONTROLLER_DEFAULTS.discretisation, describe: 'Discretisation of the discrete PID' })
       .option('latency-s', { type: 'number', describe: 'Computation latency from sample to actuator command, s, added to the plant delay (default: one sample, Ts, as tune and build)' })
       .option('continuous', {
         type: 'boolean',
         default: false,
         describe: 'Analyse a continuous PID instead (no sampling; latency 0 s unless --latency-s): textbook loops, or a controller much faster than the plant',
       })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' }),
+      .option('json', { type: 'boolean', default: false, describe: 'Print the margins as JSON (units in field names; absent margins are null)' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
+export const command = defineCommand({
+  command: 'stability',
+  describe: 'Stability margins of one loop: a plant (transfer function with delay, or FOPDT) under a PID — phase, lower and upper gain, delay margins, sensitivity peaks and a verdict',
+  builder,
   exitCodes: [
     [0, 'the loop is stable'],
     [1, 'it is not stable, or the two tests (closed-loop poles, Nyquist count) do not agree'],
@@ -154,9 +152,9 @@ export const command: CommandModule = {
           : 'a FOPDT plant needs all of --gain, --time-constant-s and --dead-time-s',
       );
     }
-    const form = String(args.form) as 'parallel' | 'ideal' | 'series';
+    const form = args.form;
     const ki = numberOption(args, 'ki') ?? (form === 'parallel' ? 0 : Infinity);
-    const continuous = args.continuous === true;
+    const continuous = args.continuous;
     if (continuous && args['sample-time-s'] !== undefined) {
       throw new SpeedbandError('cli.conflictingOptions', '--continuous and --sample-time-s both given — a continuous controller has no sample time: drop one');
     }
@@ -168,7 +166,7 @@ export const command: CommandModule = {
           ...(args['sample-time-s'] === undefined ? {} : { sampleTime_s: numberOption(args, 'sample-time-s')! }),
           ...(args['latency-s'] === undefined ? {} : { computationLatency_s: numberOption(args, 'latency-s')! }),
           derivativeFilter,
-          discretisation: String(args.discretisation) as Discretisation,
+          discretisation: args.discretisation,
         });
     const margins = analyseLoop({
       plant,
@@ -180,7 +178,7 @@ export const command: CommandModule = {
       controller === null
         ? `continuous PID, derivative filter N = ${derivativeFilter}, latency ${numberOption(args, 'latency-s') ?? 0} s`
         : describeControllerSettings(controller);
-    if (args.json === true) {
+    if (args.json) {
       io.stdout(`${JSON.stringify({ controller: controller ?? { continuous: true, derivativeFilter: Number.isFinite(derivativeFilter) ? derivativeFilter : null, computationLatency_s: numberOption(args, 'latency-s') ?? 0 }, ...margins }, null, 2)}\n`);
     } else {
       const lines = [
@@ -210,4 +208,4 @@ export const command: CommandModule = {
     }
     return margins.stable ? EXIT.ok : EXIT.failed;
   },
-};
+});

@@ -1,29 +1,21 @@
 import { SpeedbandError } from '../../core/errors.js';
 import { CONTROLLER_DEFAULTS, describeControllerSettings, resolveControllerSettings } from '../../controller/defaults.js';
-import type { ControllerSettings, Discretisation } from '../../controller/types.js';
+import type { ControllerSettings } from '../../controller/types.js';
 import { TUNING_DEFAULTS } from '../../tuning/defaults.js';
 import { RULE_NAMES, findRule, parameterNotTakenWords, parametersNotTaken } from '../../tuning/registry.js';
 import type { RuleParameterName, RuleParameters } from '../../tuning/types.js';
 import type { Vehicle } from '../../vehicle/types.js';
 import type { OperatingPointModel } from '../../tuning/operating-point.js';
-import type { CommandModule } from '../command.js';
+import type { LoopSpecification } from '../../loops/types.js';
+import { DEFAULT_PATH_PREVIEW, PLAN_DEFAULTS } from '../../schedule/plan.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
+import { numberOption } from '../number-option.js';
 import { EXIT } from '../io.js';
 import { QUOTED_TEXT_MAX, cutText, quoted } from '../../core/quote.js';
 
-/** A number option or undefined when absent (yargs gives NaN for a non-number). */
-function numberOption(args: Record<string, unknown>, name: string): number | undefined {
-  const value = args[name];
-  if (value === undefined) return undefined;
-  if (typeof value !== 'number' || !Number.isFinite(value)) {
-    throw new SpeedbandError('cli.badNumber', `--${name} is ${quoted(String(value))}; expected a finite number`, { details: { option: name } });
-  }
-  return value;
-}
-
-export const command: CommandModule = {
-  command: 'tune',
-  describe: 'Tune one operating point: apply a published tuning rule to the loop the firmware closes at one speed and report the gains, the derivation and the margins of the full loop',
-  builder: (yargs) =>
+function builder(yargs: Argv) {
+  return (
     yargs
       .usage(
         'speedband tune --rule RULE --speed-mps V (--models models.json --vehicle V | --gain K --time-constant-s T --dead-time-s L | --vehicle V) [options]\n\n' +
@@ -34,12 +26,16 @@ export const command: CommandModule = {
           'the derivative filter and the controller delay Ts/2 + latency, and again with the discrete PID the firmware runs (the exact sampled loop, as build and check judge it). ' +
           'The controller settings default as in build: the vehicle file\'s sample time (else 0.01 s), one sample of latency, backward Euler, N = 10.',
       )
-      .option('rule', { type: 'string', choices: [...RULE_NAMES], demandOption: true, describe: 'Tuning rule' })
-      .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'], default: 'yaw-rate', describe: 'The loop the firmware closes' })
+      .option('rule', { type: 'string', choices: RULE_NAMES, demandOption: true, describe: 'Tuning rule' })
+      .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'] as const, default: PLAN_DEFAULTS.loop.kind, describe: 'The loop the firmware closes' })
       .option('speed-mps', { type: 'number', demandOption: true, describe: 'Forward speed of the operating point, m/s' })
-      .option('preview-m', { type: 'number', default: 0, describe: 'Path loop: preview distance ahead of the reference point, m' })
-      .option('preview-time-s', { type: 'number', default: 0, describe: 'Path loop: preview time, s — the preview is preview-m + preview-time-s × speed' })
-      .option('reference-point', { type: 'string', choices: ['cg', 'front-axle'], default: 'cg', describe: 'Path loop: where the preview distance is measured from (front-axle needs --vehicle)' })
+      .option('preview-m', { type: 'number', describe: `Path loop: preview distance ahead of the reference point, m (default, as build: ${DEFAULT_PATH_PREVIEW.preview_m} m when neither --preview-m nor --preview-time-s is given, else 0)` })
+      .option('preview-time-s', { type: 'number', describe: `Path loop: preview time, s — the preview is preview-m + preview-time-s × speed (default, as build: ${DEFAULT_PATH_PREVIEW.previewTime_s} s when neither is given, else 0)` })
+      .option('reference-point', {
+        type: 'string',
+        choices: ['cg', 'front-axle'] as const,
+        describe: `Path loop: where the preview distance is measured from (default, as build: ${PLAN_DEFAULTS.loop.referencePoint} when --vehicle gives the axle positions, else cg)`,
+      })
       .option('gain', { type: 'number', describe: 'FOPDT steady yaw-rate gain K, (rad/s)/rad' })
       .option('time-constant-s', { type: 'number', describe: 'FOPDT time constant T, s' })
       .option('dead-time-s', { type: 'number', describe: 'FOPDT dead time L, s (actuator delay included, as identified)' })
@@ -49,7 +45,7 @@ export const command: CommandModule = {
         describe:
           'Vehicle file (vehicle.json) or its folder. With --models: mass, yaw inertia, axle distances and sample time for the identified model. Alone: the single-track model with the file\'s nominal cornering stiffnesses — values for the simulator, not measured; to tune a real vehicle use --models. With --gain: only the geometry (front-axle preview) and sample time',
       })
-      .option('controller-type', { type: 'string', choices: ['P', 'PI', 'PID'], describe: `Controller terms (Ziegler–Nichols default ${TUNING_DEFAULTS.controllerType}; SIMC default by plant class)` })
+      .option('controller-type', { type: 'string', choices: ['P', 'PI', 'PID'] as const, describe: `Controller terms (Ziegler–Nichols default ${TUNING_DEFAULTS.controllerType}; SIMC default by plant class)` })
       .option('closed-loop-time-constant-s', { type: 'number', describe: 'IMC λ or SIMC τc, s (default: the design model\'s dead time θ)' })
       .option('damping-ratio', { type: 'number', describe: `Damping target ζ (default ${TUNING_DEFAULTS.dampingRatio})` })
       .option('natural-frequency-radps', { type: 'number', describe: `Damping target ωn, rad/s (default: from --settling-distance-m, else ωn·θ_eff = ${TUNING_DEFAULTS.defaultBandwidthDelayProduct})` })
@@ -62,10 +58,19 @@ export const command: CommandModule = {
       .option('derivative-filter', { type: 'number', describe: `Derivative filter factor N: Tf = (kd/kp)/N (default ${CONTROLLER_DEFAULTS.derivativeFilter}, as build)` })
       .option('discretisation', {
         type: 'string',
-        choices: ['backward-euler', 'tustin'],
+        choices: ['backward-euler', 'tustin'] as const,
         describe: `Discretisation of the firmware's PID, for the margins of the sampled loop (default ${CONTROLLER_DEFAULTS.discretisation}, as build)`,
       })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' }),
+      .option('json', { type: 'boolean', default: false, describe: 'Print the tuned point as JSON (SI units in field names)' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
+export const command = defineCommand({
+  command: 'tune',
+  describe: 'Tune one operating point: apply a published tuning rule to the loop the firmware closes at one speed and report the gains, the derivation and the margins of the full loop',
+  builder,
   exitCodes: [
     [0, 'the tuned loop is stable, as designed and with the discrete PID'],
     [1, 'it is not stable'],
@@ -81,8 +86,8 @@ export const command: CommandModule = {
   run: async (args, io) => {
     const { tuneOperatingPoint } = await import('../../tuning/operating-point.js');
     const { describeTunedOperatingPoint } = await import('../../tuning/describe.js');
-    ruleParametersFromOptions(args, String(args.rule)); // an option the rule does not use is refused before any model is read
-    const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(String(args.vehicle));
+    ruleParametersFromOptions(args, args.rule); // an option the rule does not use is refused before any model is read
+    const vehicle = args.vehicle === undefined ? undefined : (await import('../../vehicle/load.js')).loadVehicle(args.vehicle);
     const speed_mps = numberOption(args, 'speed-mps')!;
     const gain = numberOption(args, 'gain');
     const timeConstant_s = numberOption(args, 'time-constant-s');
@@ -101,8 +106,8 @@ export const command: CommandModule = {
     let modelWords: { description: string; warnings: readonly string[]; testSpeeds_mps: readonly number[] } | undefined;
     let modelFromModels: ((at_mps: number) => OperatingPointModel) | undefined;
     if (args.models !== undefined) {
-      const given = vehicle === undefined ? undefined : { path: String(args.vehicle), vehicle };
-      const fromModels = await modelFromModelsFile(String(args.models), given, fopdtGiven, speed_mps);
+      const given = vehicle === undefined || args.vehicle === undefined ? undefined : { path: args.vehicle, vehicle };
+      const fromModels = await modelFromModelsFile(args.models, given, fopdtGiven, speed_mps);
       model = fromModels.model;
       modelWords = fromModels;
       modelFromModels = (at_mps) => fromModels.modelAt(at_mps);
@@ -125,16 +130,16 @@ export const command: CommandModule = {
         ...optionalNumber('sampleTime_s', numberOption(args, 'sample-time-s')),
         ...optionalNumber('computationLatency_s', numberOption(args, 'latency-s')),
         ...optionalNumber('derivativeFilter', numberOption(args, 'derivative-filter')),
-        ...(args.discretisation === undefined ? {} : { discretisation: args.discretisation as Discretisation }),
+        ...(args.discretisation === undefined ? {} : { discretisation: args.discretisation }),
       },
       vehicle?.controllerSampleTime_s,
     );
-    const ruleParameters = ruleParametersFromOptions(args, String(args.rule));
+    const ruleParameters = ruleParametersFromOptions(args, args.rule);
     const request = {
-      loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, previewTime_s: numberOption(args, 'preview-time-s') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
+      loop: tuneLoop(args),
       speed_mps,
       model,
-      rule: String(args.rule),
+      rule: args.rule,
       ruleParameters,
       controller,
     };
@@ -154,18 +159,18 @@ export const command: CommandModule = {
     // The margins of the discrete PID the firmware runs: the analysis of build's dense check.
     const sampledMargins = (await import('../../build/loop-analysis.js')).analyseSampledLoop(point.loop, point.gains, controller);
     if (args.json) {
-      const modelSource = modelWords === undefined ? {} : { model: { source: String(args.models), kind: model.kind, description: modelWords.description } };
+      const modelSource = modelWords === undefined ? {} : { model: { source: args.models, kind: model.kind, description: modelWords.description } };
       io.stdout(
         `${JSON.stringify({ ...modelSource, controller, gains: point.gains, derivation: point.derivation, design: point.design, loop: point.loop, margins: point.margins, sampledMargins, warnings }, null, 2)}\n`,
       );
     } else {
       const modelWarnings = warnings.slice(0, warnings.length - point.warnings.length);
-      const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${String(args.models)})`, ...modelWarnings.map((warning) => `Warning: ${warning}`)];
+      const header = modelWords === undefined ? [] : [`Model: ${modelWords.description} (${args.models})`, ...modelWarnings.map((warning) => `Warning: ${warning}`)];
       io.stdout(`${[...header, `Controller: ${describeControllerSettings(controller)}`, describeTunedOperatingPoint(point, sampledMargins)].join('\n')}\n`);
     }
     return point.margins.stable && sampledMargins.stable ? EXIT.ok : EXIT.failed;
   },
-};
+});
 
 /** The identified model at the speed (`operatingPointModelFromModels`); --models excludes a hand-given FOPDT and needs --vehicle. */
 async function modelFromModelsFile(modelsPath: string, given: { path: string; vehicle: Vehicle } | undefined, fopdtGiven: number, speed_mps: number) {
@@ -208,12 +213,12 @@ const PARAMETER_OPTIONS: Readonly<Record<RuleParameterName, string>> = {
  * The rule's parameters from the options given; an option the rule does not use is refused (it would be
  * ignored), naming the options the rule takes. --closed-loop-time-constant-s is IMC's λ or SIMC's τc.
  */
-function ruleParametersFromOptions(args: Record<string, unknown>, ruleName: string): RuleParameters {
+function ruleParametersFromOptions(args: Args, ruleName: string): RuleParameters {
   const rule = findRule(ruleName);
   const timeConstant = numberOption(args, 'closed-loop-time-constant-s');
   const timeConstantName: RuleParameterName = rule.parameters.includes('simcClosedLoopTimeConstant_s') ? 'simcClosedLoopTimeConstant_s' : 'closedLoopTimeConstant_s';
   const given: RuleParameters = {
-    ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] as 'P' | 'PI' | 'PID' }),
+    ...(args['controller-type'] === undefined ? {} : { controllerType: args['controller-type'] }),
     ...optionalNumber(timeConstantName, timeConstant),
     ...optionalNumber('dampingRatio', numberOption(args, 'damping-ratio')),
     ...optionalNumber('naturalFrequency_radps', numberOption(args, 'natural-frequency-radps')),
@@ -234,4 +239,11 @@ function ruleParametersFromOptions(args: Record<string, unknown>, ruleName: stri
 
 function optionalNumber<K extends string>(key: K, value: number | undefined): Partial<Record<K, number>> {
   return value === undefined ? {} : ({ [key]: value } as Record<K, number>);
+}
+
+/** The loop of the tuned point, with build's defaults: a path loop given no preview gets the plan's default preview. */
+function tuneLoop(args: Args): LoopSpecification {
+  const previewGiven = args['preview-m'] !== undefined || args['preview-time-s'] !== undefined;
+  const preview = args.loop === 'path' && !previewGiven ? DEFAULT_PATH_PREVIEW : { preview_m: numberOption(args, 'preview-m') ?? 0, previewTime_s: numberOption(args, 'preview-time-s') ?? 0 };
+  return { kind: args.loop, ...preview, referencePoint: args['reference-point'] ?? (args.vehicle === undefined ? 'cg' : PLAN_DEFAULTS.loop.referencePoint) };
 }
