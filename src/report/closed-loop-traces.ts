@@ -113,7 +113,8 @@ export function closedLoopTraces(schedule: ScheduleFile, model: CheckModel, chec
               rate: thinnedSignal(rateOf(limited.steerAngle), ts, stepEnd),
             },
       steeringMisalignment: thinnedSignal(traces.steeringMisalignment.error, ts, disturbanceEnd, 1 / (peakMagnitude(traces.steeringMisalignment.error) || 1)),
-      lateralForce: traces.lateralForce === null ? null : thinnedSignal(traces.lateralForce.error, ts, disturbanceEnd, 1 / (peakMagnitude(traces.lateralForce.error) || 1)),
+      lateralForce:
+        traces.lateralForce === null ? null : thinnedSignal(traces.lateralForce.error, ts, disturbanceEnd, 1 / (peakMagnitude(traces.lateralForce.error) || 1)),
       laneChange:
         traces.laneChange === null
           ? null
@@ -125,5 +126,12 @@ export function closedLoopTraces(schedule: ScheduleFile, model: CheckModel, chec
       curveEntry: traces.curveEntry === null ? null : thinnedSignal(traces.curveEntry.error, ts, traces.leadIn_s + d.curveEntrySettle_s + 5),
     };
   });
-  return { errorUnit: schedule.units.error, leadIn_s: d.leadIn_s, curveEntrySettle_s: d.curveEntrySettle_s, settlingBand: d.settlingBand, recoveryBand: d.recoveryBand, speeds };
+  return {
+    errorUnit: schedule.units.error,
+    leadIn_s: d.leadIn_s,
+    curveEntrySettle_s: d.curveEntrySettle_s,
+    settlingBand: d.settlingBand,
+    recoveryBand: d.recoveryBand,
+    speeds,
+  };
 }

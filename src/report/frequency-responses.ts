@@ -19,14 +19,22 @@ import type { LoopResponse, ReportCheck } from './types.js';
 export const FREQUENCY_PLOT = { points: 240, decadesBelowCrossover: 2 } as const;
 
 /** The speeds to draw, with why: those asked for, or the lowest and highest breakpoint and the check speed with the smallest phase margin. */
-export function responseSpeeds(schedule: ScheduleFile, check: ReportCheck | null, asked: readonly number[] | undefined): { speed_mps: number; reason: string }[] {
+export function responseSpeeds(
+  schedule: ScheduleFile,
+  check: ReportCheck | null,
+  asked: readonly number[] | undefined,
+): { speed_mps: number; reason: string }[] {
   const { minimum_mps, maximum_mps } = schedule.check.range;
   if (asked !== undefined && asked.length > 0) {
     for (const speed_mps of asked) {
       if (!(speed_mps >= minimum_mps - 1e-9 && speed_mps <= maximum_mps + 1e-9)) {
-        throw new SpeedbandError('report.speedOutOfRange', `--response-speed-mps ${speed_mps} is outside the schedule's checked range ${minimum_mps.toFixed(3)}–${maximum_mps.toFixed(3)} m/s — give speeds inside it`, {
-          details: { speed_mps, minimum_mps, maximum_mps },
-        });
+        throw new SpeedbandError(
+          'report.speedOutOfRange',
+          `--response-speed-mps ${speed_mps} is outside the schedule's checked range ${minimum_mps.toFixed(3)}–${maximum_mps.toFixed(3)} m/s — give speeds inside it`,
+          {
+            details: { speed_mps, minimum_mps, maximum_mps },
+          },
+        );
       }
     }
     return [...new Set(asked)].sort((a, b) => a - b).map((speed_mps) => ({ speed_mps, reason: 'asked for' }));

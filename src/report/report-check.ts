@@ -28,7 +28,12 @@ export function reportCheck(check: DenseCheckResult, description: string): Repor
   return {
     description,
     passed: check.passed,
-    points: check.points.map((point) => ({ speed_mps: point.speed_mps, gains: point.gains, margins: pointMargins(point.margins), failures: point.failures.map((failure) => failure.criterion) })),
+    points: check.points.map((point) => ({
+      speed_mps: point.speed_mps,
+      gains: point.gains,
+      margins: pointMargins(point.margins),
+      failures: point.failures.map((failure) => failure.criterion),
+    })),
     failingIntervals: failingIntervals(check.points).map(failingIntervalWords),
   };
 }

@@ -44,12 +44,20 @@ export interface ReportInput {
 /** models.json must be the identification the schedule was built from: the same vehicle file and the same logs, by SHA-256. */
 export function requireModelsOfSchedule(schedule: ScheduleFile, models: ModelsFile, modelsFile: string): void {
   const mismatch = (what: string): never => {
-    throw new SpeedbandError('report.modelsMismatch', `${modelsFile} is not the identification this schedule was built from: ${what} — give the models.json of that build (build --models-out, or identify on the same logs)`, {
-      location: { file: modelsFile },
-    });
+    throw new SpeedbandError(
+      'report.modelsMismatch',
+      `${modelsFile} is not the identification this schedule was built from: ${what} — give the models.json of that build (build --models-out, or identify on the same logs)`,
+      {
+        location: { file: modelsFile },
+      },
+    );
   };
-  if (models.vehicle.sha256 !== schedule.vehicle.sha256) mismatch(`its vehicle file (SHA-256 ${models.vehicle.sha256.slice(0, 16)}…) differs from the schedule's (${schedule.vehicle.sha256.slice(0, 16)}…)`);
-  const scheduleLogs = schedule.provenance.inputs.filter((entry) => entry.role === 'log').map((entry) => entry.sha256).sort();
+  if (models.vehicle.sha256 !== schedule.vehicle.sha256)
+    mismatch(`its vehicle file (SHA-256 ${models.vehicle.sha256.slice(0, 16)}…) differs from the schedule's (${schedule.vehicle.sha256.slice(0, 16)}…)`);
+  const scheduleLogs = schedule.provenance.inputs
+    .filter((entry) => entry.role === 'log')
+    .map((entry) => entry.sha256)
+    .sort();
   const modelLogs = models.inputs.map((entry) => entry.sha256).sort();
   if (scheduleLogs.length !== modelLogs.length || scheduleLogs.some((sha256, k) => sha256 !== modelLogs[k])) {
     mismatch(`its ${modelLogs.length} logs are not the schedule's ${scheduleLogs.length} (compared by SHA-256)`);
@@ -57,7 +65,14 @@ export function requireModelsOfSchedule(schedule: ScheduleFile, models: ModelsFi
 }
 
 /** The speeds of a schedule's dense check (breakpoints, midpoints and the evenly spaced grid). */
-const checkSpeeds = (schedule: ScheduleFile): number[] => Array.from(checkGrid(schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps), schedule.check.range, schedule.check.gridSpeeds));
+const checkSpeeds = (schedule: ScheduleFile): number[] =>
+  Array.from(
+    checkGrid(
+      schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps),
+      schedule.check.range,
+      schedule.check.gridSpeeds,
+    ),
+  );
 
 /** A schedule's lookup at the given speeds. */
 export function gainCurve(schedule: ScheduleFile, speeds_mps: readonly number[]): GainCurve {
@@ -102,7 +117,10 @@ function baselineData(input: NonNullable<ReportInput['baseline']>, schedule: Sch
 export function gatherReportData(input: ReportInput): ReportData {
   const { schedule } = input;
   if (input.logs !== undefined && input.models === undefined) {
-    throw new SpeedbandError('report.logsWithoutModels', 'the logs draw the identification fits, which are in models.json — give --models with --logs (or leave --logs out)');
+    throw new SpeedbandError(
+      'report.logsWithoutModels',
+      'the logs draw the identification fits, which are in models.json — give --models with --logs (or leave --logs out)',
+    );
   }
   if (input.models !== undefined) requireModelsOfSchedule(schedule, input.models.content, input.models.file);
   const model = recordedCheckModel(schedule);
@@ -116,7 +134,10 @@ export function gatherReportData(input: ReportInput): ReportData {
     scheduleFile: basename(input.scheduleFile),
     schedule,
     check,
-    checkUnavailable: dense === null ? `the schedule records no vehicle model speedband can rebuild (provenance.model), so its dense check cannot be re-run for the plots` : null,
+    checkUnavailable:
+      dense === null
+        ? `the schedule records no vehicle model speedband can rebuild (provenance.model), so its dense check cannot be re-run for the plots`
+        : null,
     checkReproduced: dense === null ? null : reproducesRecordedCheck(schedule, dense),
     gainCurve: gainCurve(schedule, checkSpeeds(schedule)),
     frequencyResponses:
@@ -129,14 +150,16 @@ export function gatherReportData(input: ReportInput): ReportData {
             old: input.baseline === undefined ? null : loopResponseAt(input.baseline.schedule, model, entry.speed_mps),
           })),
     models: models === null ? null : { file: basename(models.file), content: models.content },
-    prediction:
-      model === null || models === null
-        ? null
-        : modelPrediction(model, ...predictionSpan(schedule, testSpeeds)),
+    prediction: model === null || models === null ? null : modelPrediction(model, ...predictionSpan(schedule, testSpeeds)),
     stepTraces:
       input.logs === undefined || models === null
         ? null
-        : stepTraces({ models: models.content, modelsFile: models.file, logPaths: input.logs.paths, ...(input.logs.readOptions === undefined ? {} : { readOptions: input.logs.readOptions }) }),
+        : stepTraces({
+            models: models.content,
+            modelsFile: models.file,
+            logPaths: input.logs.paths,
+            ...(input.logs.readOptions === undefined ? {} : { readOptions: input.logs.readOptions }),
+          }),
     baseline: input.baseline === undefined ? null : baselineData(input.baseline, schedule, testSpeeds),
     closedLoop: model === null ? null : closedLoopTraces(schedule, model, dense),
   };

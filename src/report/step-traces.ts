@@ -110,7 +110,10 @@ export function stepTraces(input: StepTraceInput): StepTracesAtSpeed[] {
       const test = testsByKey.get(`${key.file}\u0000${key.stepIndex}`);
       const sha256 = hashOfFile.get(key.file);
       const path = sha256 === undefined ? undefined : byHash.get(sha256);
-      const step = test === undefined || path === undefined ? undefined : stepsIn(path).find((candidate) => Math.abs(candidate.onset_s - test.onset_s) <= ONSET_TOLERANCE_S);
+      const step =
+        test === undefined || path === undefined
+          ? undefined
+          : stepsIn(path).find((candidate) => Math.abs(candidate.onset_s - test.onset_s) <= ONSET_TOLERANCE_S);
       if (test === undefined || step === undefined) missing++;
       else steps.push(stepTrace(step, test, hold));
     }

@@ -13,7 +13,11 @@ export async function renderReportHtml(data: ReportData): Promise<{ readonly htm
 }
 
 /** Render and write the report atomically; a different existing file is replaced only with `force`. */
-export async function writeReport(path: string, data: ReportData, force: boolean): Promise<{ readonly outcome: WriteOutcome; readonly bytes: number; readonly sections: readonly string[] }> {
+export async function writeReport(
+  path: string,
+  data: ReportData,
+  force: boolean,
+): Promise<{ readonly outcome: WriteOutcome; readonly bytes: number; readonly sections: readonly string[] }> {
   const { html, sections } = await renderReportHtml(data);
   return { outcome: writeFileAtomic(path, html, force), bytes: Buffer.byteLength(html, 'utf8'), sections };
 }

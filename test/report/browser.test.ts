@@ -81,11 +81,18 @@ afterAll(async () => {
 describe('the report in headless Chromium, for every demo vehicle', () => {
   it('the screenshot reader used below reads a known page back: three blocks of known colour', async () => {
     const page = await full.newPage();
-    await page.setContent('<body style="margin:0;background:#fff"><div style="display:flex"><div style="width:40px;height:30px;background:#d55e00"></div><div style="width:40px;height:30px;background:#0072b2"></div><div style="width:40px;height:30px;background:#009e73"></div></div></body>');
+    await page.setContent(
+      '<body style="margin:0;background:#fff"><div style="display:flex"><div style="width:40px;height:30px;background:#d55e00"></div><div style="width:40px;height:30px;background:#0072b2"></div><div style="width:40px;height:30px;background:#009e73"></div></div></body>',
+    );
     const image = decodePng(await page.screenshot({ clip: { x: 0, y: 0, width: 120, height: 40 } }));
     const at = (x: number, y: number) => [...image.rgba.subarray((y * image.width + x) * 4, (y * image.width + x) * 4 + 3)];
     // Source: the CSS colours written above (Okabe & Ito's vermillion, blue, bluish green) and white.
-    expect([at(20, 15), at(60, 15), at(100, 15), at(60, 35)]).toEqual([[0xd5, 0x5e, 0x00], [0x00, 0x72, 0xb2], [0x00, 0x9e, 0x73], [255, 255, 255]]);
+    expect([at(20, 15), at(60, 15), at(100, 15), at(60, 35)]).toEqual([
+      [0xd5, 0x5e, 0x00],
+      [0x00, 0x72, 0xb2],
+      [0x00, 0x9e, 0x73],
+      [255, 255, 255],
+    ]);
     expect(greyVariance(image, { x: 0, y: 0, width: 40, height: 30 })).toBeLessThan(1e-6);
     await page.close();
   });
@@ -140,20 +147,36 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
       const schedule = readSchedule(built.schedule);
       const { page } = await open(built.report);
       const rows = await page.$$eval('#breakpoints tbody tr', (trs) =>
-        trs.map((tr) => Object.fromEntries([...tr.querySelectorAll('td[data-field]')].map((td) => [td.getAttribute('data-field'), td.querySelector('data')?.getAttribute('value') ?? td.textContent]))),
+        trs.map((tr) =>
+          Object.fromEntries(
+            [...tr.querySelectorAll('td[data-field]')].map((td) => [
+              td.getAttribute('data-field'),
+              td.querySelector('data')?.getAttribute('value') ?? td.textContent,
+            ]),
+          ),
+        ),
       );
       expect(rows).toHaveLength(schedule.breakpoints.length);
       schedule.breakpoints.forEach((breakpoint, k) => {
         const row = rows[k] as Record<string, string>;
         const number = (field: string) => (row[field] === '—' ? null : Number(row[field]));
         expect([number('speed_mps'), number('kp'), number('ki'), number('kd')]).toEqual([breakpoint.speed_mps, breakpoint.kp, breakpoint.ki, breakpoint.kd]);
-        for (const field of ['lowerGainMargin_dB', 'upperGainMargin_dB', 'phaseMargin_deg', 'delayMargin_s', 'sensitivityPeak', 'complementarySensitivityPeak'] as const) {
+        for (const field of [
+          'lowerGainMargin_dB',
+          'upperGainMargin_dB',
+          'phaseMargin_deg',
+          'delayMargin_s',
+          'sensitivityPeak',
+          'complementarySensitivityPeak',
+        ] as const) {
           expect(number(field), field).toBe(breakpoint.margins[field]);
         }
         expect(row.verdict).toBe(breakpoint.margins.verdict);
         expect(row.insertedByRefinement).toBe(breakpoint.insertedByRefinement ? 'inserted' : 'planned');
       });
-      const worst = await page.$$eval('#worst td[data-field]', (tds) => Object.fromEntries(tds.map((td) => [td.getAttribute('data-field'), td.querySelector('data')?.getAttribute('value') ?? null])));
+      const worst = await page.$$eval('#worst td[data-field]', (tds) =>
+        Object.fromEntries(tds.map((td) => [td.getAttribute('data-field'), td.querySelector('data')?.getAttribute('value') ?? null])),
+      );
       for (const [name, value] of Object.entries(schedule.check.worst)) {
         expect(worst[`${name}.value`] === null ? null : Number(worst[`${name}.value`]), name).toBe(value?.value ?? null);
         expect(worst[`${name}.speed_mps`] === null ? null : Number(worst[`${name}.speed_mps`]), name).toBe(value?.speed_mps ?? null);
@@ -161,12 +184,20 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
       expect(Number(worst['phaseMargin_deg.limit'])).toBe(schedule.check.thresholds.minimumPhaseMargin_deg);
       // Set-point weights, feed-forward and every time-domain figure the table shows, as the file holds them.
       const timeDomain = await page.$$eval('#time-domain-table tbody tr', (trs) =>
-        trs.map((tr) => Object.fromEntries([...tr.querySelectorAll('td[data-field]')].map((td) => [td.getAttribute('data-field'), td.querySelector('data')?.getAttribute('value') ?? td.textContent]))),
+        trs.map((tr) =>
+          Object.fromEntries(
+            [...tr.querySelectorAll('td[data-field]')].map((td) => [
+              td.getAttribute('data-field'),
+              td.querySelector('data')?.getAttribute('value') ?? td.textContent,
+            ]),
+          ),
+        ),
       );
       expect(timeDomain).toHaveLength(schedule.breakpoints.length);
       schedule.breakpoints.forEach((breakpoint, k) => {
         const row = timeDomain[k] as Record<string, string>;
-        for (const field of ['speed_mps', 'setpointWeightProportional', 'setpointWeightDerivative', 'feedForward', 'feedForwardLeadTime_s'] as const) expect(Number(row[field]), field).toBe(breakpoint[field]);
+        for (const field of ['speed_mps', 'setpointWeightProportional', 'setpointWeightDerivative', 'feedForward', 'feedForwardLeadTime_s'] as const)
+          expect(Number(row[field]), field).toBe(breakpoint[field]);
         const figures = breakpoint.timeDomain as unknown as Record<string, Record<string, number | null> | null>;
         const columns = Object.keys(row).filter((field) => field.includes('.') && field !== 'actuator.limitedBy');
         expect(columns.length).toBeGreaterThanOrEqual(5);
@@ -187,7 +218,9 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
     const { page } = await open(reports[3].report);
     const order = await page.$$eval('h1, h2', (headings) => headings.map((heading) => heading.textContent));
     expect(order.slice(0, 3)).toEqual(['Steering gain schedule — parcel-van-loaded', 'Safety', 'After the change: the old gains on the new vehicle']);
-    expect(await page.textContent('#old-gains')).toMatch(/The old gains do NOT hold on the new vehicle model: .* at \d+ of \d+ speeds checked .* — at [\d.]+–[\d.]+ m\/s \(phase margin/);
+    expect(await page.textContent('#old-gains')).toMatch(
+      /The old gains do NOT hold on the new vehicle model: .* at \d+ of \d+ speeds checked .* — at [\d.]+–[\d.]+ m\/s \(phase margin/,
+    );
     await page.close();
   }, 30_000);
 
@@ -207,7 +240,11 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
         const layout = await page.evaluate(() => ({
           overflow: document.documentElement.scrollWidth - window.innerWidth,
           widestPlot: Math.max(...[...document.querySelectorAll('svg.plot')].map((svg) => svg.getBoundingClientRect().right)),
-          widestTable: Math.max(...[...document.querySelectorAll('main table')].filter((table) => table.closest('details') === null).map((table) => table.getBoundingClientRect().right)),
+          widestTable: Math.max(
+            ...[...document.querySelectorAll('main table')]
+              .filter((table) => table.closest('details') === null)
+              .map((table) => table.getBoundingClientRect().right),
+          ),
           hidden: [...document.querySelectorAll('nav.contents, details')].every((element) => getComputedStyle(element).display === 'none'),
           cautionsFirst: document.querySelector('.cautions')!.getBoundingClientRect().top < document.querySelector('main')!.getBoundingClientRect().top,
         }));

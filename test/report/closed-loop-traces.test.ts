@@ -81,7 +81,7 @@ describe('closed-loop responses in the report', () => {
     }
   });
 
-  it('thinning keeps each stretch\'s smallest and largest sample, in time order, and the last sample', () => {
+  it("thinning keeps each stretch's smallest and largest sample, in time order, and the last sample", () => {
     const ts = 0.001;
     const values = Float64Array.from({ length: 10_001 }, (_, k) => Math.sin(2 * Math.PI * 0.7 * k * ts) * Math.exp(-0.1 * k * ts));
     const thinned = thinnedSignal(values, ts, 10);
@@ -109,7 +109,13 @@ describe('closed-loop responses in the report', () => {
 
   it("says where the closed loop is 'marginal' (a pole on the unit circle within its rounding bound) or unstable, as runs of check speeds", async () => {
     const points = yawRate.check!.points;
-    const marked = points.map((point, k) => (k === 3 || k === 4 ? { ...point, margins: { ...point.margins, verdict: 'marginal' as const } } : k === 9 ? { ...point, margins: { ...point.margins, verdict: 'unstable' as const } } : point));
+    const marked = points.map((point, k) =>
+      k === 3 || k === 4
+        ? { ...point, margins: { ...point.margins, verdict: 'marginal' as const } }
+        : k === 9
+          ? { ...point, margins: { ...point.margins, verdict: 'unstable' as const } }
+          : point,
+    );
     const { html } = await renderReportHtml({ ...yawRate, check: { ...yawRate.check!, points: marked } });
     const speed = (k: number) => points[k].speed_mps.toFixed(2);
     expect(html).toContain(`The closed loop of the new gains is marginal at ${speed(3)}–${speed(4)} m/s (a closed-loop pole on the unit circle`);

@@ -48,12 +48,14 @@ beforeAll(async () => {
 }, 60_000);
 
 describe('speedband build --report and speedband report', () => {
-  it('build --report writes the report beside the schedule; report from the same files gives the same bytes (the re-run check reproduces the build\'s)', async () => {
+  it("build --report writes the report beside the schedule; report from the same files gives the same bytes (the re-run check reproduces the build's)", async () => {
     expect(existsSync(reportPath)).toBe(true);
     const again = join(dir, 'again.html');
     const result = await cli('report', schedulePath, '--models', modelsPath, '--logs', LOGS, '--out', again);
     expect(result.code, result.err).toBe(0);
-    expect(result.out).toMatch(/^Wrote .*again\.html \(\d+ KB; Breakpoints and worst figures, Gains against speed, Margins against speed, Time-domain figures and closed-loop responses, Frequency response and Nyquist plots, Identified models against speed, Fits over the measured steps, Provenance\)\n$/);
+    expect(result.out).toMatch(
+      /^Wrote .*again\.html \(\d+ KB; Breakpoints and worst figures, Gains against speed, Margins against speed, Time-domain figures and closed-loop responses, Frequency response and Nyquist plots, Identified models against speed, Fits over the measured steps, Provenance\)\n$/,
+    );
     expect(readFileSync(again)).toEqual(readFileSync(reportPath));
     // No machine paths: base names only.
     expect(readFileSync(again, 'utf8')).not.toContain(dir);
@@ -88,7 +90,11 @@ describe('speedband build --report and speedband report', () => {
   });
 
   it('with some of the logs, draws their steps and counts the others as not given', () => {
-    const some = readdirSync(LOGS).filter((name) => name.endsWith('.csv')).sort().slice(0, 3).map((name) => join(LOGS, name));
+    const some = readdirSync(LOGS)
+      .filter((name) => name.endsWith('.csv'))
+      .sort()
+      .slice(0, 3)
+      .map((name) => join(LOGS, name));
     const data = gatherReportData({ schedule, scheduleFile: schedulePath, models: { file: modelsPath, content: models }, logs: { paths: some } });
     const drawn = data.stepTraces!.reduce((sum, speed) => sum + speed.steps.length, 0);
     const missing = data.stepTraces!.reduce((sum, speed) => sum + speed.missing, 0);
@@ -118,7 +124,11 @@ describe('speedband build --report and speedband report', () => {
     expect(lowest.response.margins.upperGainMargin_dB).toBe(proven.upperGainMargin_dB);
     // |L| = 1 at the gain crossover, and 180° + ∠L there is the phase margin (the definition, Åström & Murray 2008 §9.3).
     const { loop, controller } = scheduleLoopAndController(schedule);
-    const description = sampledLoopDescription(checkLoopPlant(recordedCheckModel(schedule)!, loop, controller, lowest.speed_mps), lowest.response.gains, controller);
+    const description = sampledLoopDescription(
+      checkLoopPlant(recordedCheckModel(schedule)!, loop, controller, lowest.speed_mps),
+      lowest.response.gains,
+      controller,
+    );
     const [atCrossover] = loopFrequencyResponse(openLoopOf(description), [lowest.response.margins.phaseMarginFrequency_radps!]);
     expect(atCrossover.magnitude).toBeCloseTo(1, 6);
     expect(180 + atCrossover.phase_deg).toBeCloseTo(proven.phaseMargin_deg!, 4);

@@ -23,22 +23,62 @@ export const LOOKS = {
 } as const satisfies Readonly<Record<string, { colour: PaletteColour; shape: MarkerShape; dash: 'solid' | 'dash' }>>;
 export type Look = (typeof LOOKS)[keyof typeof LOOKS];
 
-const line = (label: string, signal: TraceSignal, look: { readonly colour: PaletteColour; readonly dash: 'solid' | 'dash' }): Mark => ({ kind: 'line', label, x: signal.time_s, y: signal.value, style: { colour: look.colour, dash: look.dash, width: 1.6 } });
-const limitRule = (label: string, at: number): Mark => ({ kind: 'rule', label, axis: 'y', at, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } });
+const line = (label: string, signal: TraceSignal, look: { readonly colour: PaletteColour; readonly dash: 'solid' | 'dash' }): Mark => ({
+  kind: 'line',
+  label,
+  x: signal.time_s,
+  y: signal.value,
+  style: { colour: look.colour, dash: look.dash, width: 1.6 },
+});
+const limitRule = (label: string, at: number): Mark => ({
+  kind: 'rule',
+  label,
+  axis: 'y',
+  at,
+  style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 },
+});
 const end = (...signals: TraceSignal[]): number => Math.max(...signals.map((signal) => signal.time_s[signal.time_s.length - 1]));
 const peak = (signal: TraceSignal): number => Math.max(...signal.value.map(Math.abs));
 
 /** A steering angle or rate against its limit: ± the limit as rules, the side beyond shaded. */
-function steeringPanel(title: string, quantity: string, unit: string, limit: number, signals: readonly { label: string; signal: TraceSignal }[], description: string): PlotSpec {
+function steeringPanel(
+  title: string,
+  quantity: string,
+  unit: string,
+  limit: number,
+  signals: readonly { label: string; signal: TraceSignal }[],
+  description: string,
+): PlotSpec {
   const negative = signals.some(({ signal }) => Math.min(...signal.value) < -0.05 * limit);
   const marks: Mark[] = [
     { kind: 'region', label: `beyond the vehicle's limit (±${shownNumber(limit)} ${unit})`, axis: 'y', from: limit, to: 'max', colour: ROLE_COLOURS.failure },
     limitRule(`vehicle limit ±${shownNumber(limit)} ${unit}`, limit),
   ];
-  if (negative) marks.push({ kind: 'region', label: `beyond the vehicle's limit (±${shownNumber(limit)} ${unit})`, axis: 'y', from: 'min', to: -limit, colour: ROLE_COLOURS.failure }, limitRule(`vehicle limit ±${shownNumber(limit)} ${unit}`, -limit));
-  signals.forEach(({ label, signal }, k) => marks.push(line(label, signal, { colour: k === 0 ? ROLE_COLOURS.schedule : SECOND, dash: k === 0 ? 'solid' : 'dash' })));
+  if (negative)
+    marks.push(
+      {
+        kind: 'region',
+        label: `beyond the vehicle's limit (±${shownNumber(limit)} ${unit})`,
+        axis: 'y',
+        from: 'min',
+        to: -limit,
+        colour: ROLE_COLOURS.failure,
+      },
+      limitRule(`vehicle limit ±${shownNumber(limit)} ${unit}`, -limit),
+    );
+  signals.forEach(({ label, signal }, k) =>
+    marks.push(line(label, signal, { colour: k === 0 ? ROLE_COLOURS.schedule : SECOND, dash: k === 0 ? 'solid' : 'dash' })),
+  );
   const all = signals.map(({ signal }) => signal);
-  return { title, description, x: { label: 'time, s', domain: [0, end(...all)] }, y: { label: `${quantity}, ${unit}`, include: [0, limit * 1.08, ...(negative ? [-limit * 1.08] : [])] }, marks, width: 420, height: 200 };
+  return {
+    title,
+    description,
+    x: { label: 'time, s', domain: [0, end(...all)] },
+    y: { label: `${quantity}, ${unit}`, include: [0, limit * 1.08, ...(negative ? [-limit * 1.08] : [])] },
+    marks,
+    width: 420,
+    height: 200,
+  };
 }
 
 export function tracesFigure(data: ReportData, traces: ClosedLoopTraces, at: ClosedLoopTracesAtSpeed, context: RenderContext): string {
@@ -50,20 +90,45 @@ export function tracesFigure(data: ReportData, traces: ClosedLoopTraces, at: Clo
   const summary: Cell[][] = [];
   const row = (name: string, signal: TraceSignal, signalUnit: string, limit: string) => {
     const k = signal.value.reduce((best, value, i) => (Math.abs(value) > Math.abs(signal.value[best]) ? i : best), 0);
-    summary.push([textCell(name), numberCell(signal.value[k], 'peak', shownNumber(signal.value[k], 4)), numberCell(signal.time_s[k], 'peakTime_s', shownNumber(signal.time_s[k], 3)), numberCell(signal.value[signal.value.length - 1], 'final', shownNumber(signal.value[signal.value.length - 1], 4)), textCell(signalUnit), textCell(limit)]);
+    summary.push([
+      textCell(name),
+      numberCell(signal.value[k], 'peak', shownNumber(signal.value[k], 4)),
+      numberCell(signal.time_s[k], 'peakTime_s', shownNumber(signal.time_s[k], 3)),
+      numberCell(signal.value[signal.value.length - 1], 'final', shownNumber(signal.value[signal.value.length - 1], 4)),
+      textCell(signalUnit),
+      textCell(limit),
+    ]);
   };
 
   // The reference step, and the step through the steering limits.
   const stepMarks: Mark[] = [
-    { kind: 'region', label: `settling band ±${shownNumber(100 * traces.settlingBand)} %`, axis: 'y', from: 1 - traces.settlingBand, to: 1 + traces.settlingBand, colour: 'grey' },
+    {
+      kind: 'region',
+      label: `settling band ±${shownNumber(100 * traces.settlingBand)} %`,
+      axis: 'y',
+      from: 1 - traces.settlingBand,
+      to: 1 + traces.settlingBand,
+      colour: 'grey',
+    },
     limitRule(`overshoot limit ${shownNumber(limits.maximumOvershoot_pct)} %`, 1 + limits.maximumOvershoot_pct / 100),
-    line(`reference step, linear loop (b = ${shownNumber(schedule.breakpoints.find((b) => b.speed_mps === at.speed_mps)?.setpointWeightProportional, 3)})`, at.referenceStep, LOOKS.referenceStep),
+    line(
+      `reference step, linear loop (b = ${shownNumber(schedule.breakpoints.find((b) => b.speed_mps === at.speed_mps)?.setpointWeightProportional, 3)})`,
+      at.referenceStep,
+      LOOKS.referenceStep,
+    ),
   ];
   row('reference step: output per unit', at.referenceStep, '', `overshoot ≤ ${shownNumber(limits.maximumOvershoot_pct)} %`);
   if (at.limitedStep !== null) {
     const judged = schedule.loop.kind === 'heading' ? '' : ' (judged on settling only)';
-    stepMarks.push(line(`a ${shownNumber(at.limitedStep.size, 3)} ${unit} step through the steering limits${judged}`, at.limitedStep.output, LOOKS.limitedStep));
-    row(`step of ${shownNumber(at.limitedStep.size, 3)} ${unit} through the limits: output per unit`, at.limitedStep.output, '', schedule.loop.kind === 'heading' ? `overshoot ≤ ${shownNumber(limits.maximumOvershoot_pct)} %, settles` : 'settles');
+    stepMarks.push(
+      line(`a ${shownNumber(at.limitedStep.size, 3)} ${unit} step through the steering limits${judged}`, at.limitedStep.output, LOOKS.limitedStep),
+    );
+    row(
+      `step of ${shownNumber(at.limitedStep.size, 3)} ${unit} through the limits: output per unit`,
+      at.limitedStep.output,
+      '',
+      schedule.loop.kind === 'heading' ? `overshoot ≤ ${shownNumber(limits.maximumOvershoot_pct)} %, settles` : 'settles',
+    );
   }
   panels.push({
     title: `Reference step at ${speed}`,
@@ -82,11 +147,29 @@ export function tracesFigure(data: ReportData, traces: ClosedLoopTraces, at: Clo
   ];
   const disturbanceEnd = end(...disturbances.map((entry) => entry.signal));
   const disturbanceMarks: Mark[] = [
-    { kind: 'region', label: `recovered: within ±${shownNumber(100 * traces.recoveryBand)} % of the peak`, axis: 'y', from: -traces.recoveryBand, to: traces.recoveryBand, colour: 'grey' },
-    ...(limits.maximumRecoveryTime_s < disturbanceEnd ? [{ kind: 'rule', label: `recovery limit ${shownNumber(limits.maximumRecoveryTime_s)} s`, axis: 'x', at: limits.maximumRecoveryTime_s, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } } as const] : []),
+    {
+      kind: 'region',
+      label: `recovered: within ±${shownNumber(100 * traces.recoveryBand)} % of the peak`,
+      axis: 'y',
+      from: -traces.recoveryBand,
+      to: traces.recoveryBand,
+      colour: 'grey',
+    },
+    ...(limits.maximumRecoveryTime_s < disturbanceEnd
+      ? [
+          {
+            kind: 'rule',
+            label: `recovery limit ${shownNumber(limits.maximumRecoveryTime_s)} s`,
+            axis: 'x',
+            at: limits.maximumRecoveryTime_s,
+            style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 },
+          } as const,
+        ]
+      : []),
     ...disturbances.map((entry) => line(entry.label, entry.signal, entry.look)),
   ];
-  for (const entry of disturbances) row(`${entry.label}: error per its peak`, entry.signal, '', `recovered within ${shownNumber(limits.maximumRecoveryTime_s)} s`);
+  for (const entry of disturbances)
+    row(`${entry.label}: error per its peak`, entry.signal, '', `recovered within ${shownNumber(limits.maximumRecoveryTime_s)} s`);
   panels.push({
     title: `Disturbances at ${speed}`,
     description: `Error after a ${shownNumber(at.figures.steeringMisalignment.size)} rad steering misalignment${at.figures.lateralForce === null ? '' : ` and a ${shownNumber(at.figures.lateralForce.size, 3)} N lateral force step`} at ${speed}, each as a fraction of its own peak, against time`,
@@ -101,17 +184,50 @@ export function tracesFigure(data: ReportData, traces: ClosedLoopTraces, at: Clo
   if (at.laneChange !== null || at.curveEntry !== null) {
     const marks: Mark[] = [];
     if (at.laneChange !== null) {
-      marks.push(limitRule(`lane-change limit ±${shownNumber(limits.maximumLaneChangeError_m)} m`, limits.maximumLaneChangeError_m), limitRule(`lane-change limit ±${shownNumber(limits.maximumLaneChangeError_m)} m`, -limits.maximumLaneChangeError_m));
-      marks.push(line(`lane change ${shownNumber(at.figures.laneChange?.size_m)} m over ${shownNumber(at.figures.laneChange?.length_m, 3)} m`, at.laneChange.error, LOOKS.laneChange));
+      marks.push(
+        limitRule(`lane-change limit ±${shownNumber(limits.maximumLaneChangeError_m)} m`, limits.maximumLaneChangeError_m),
+        limitRule(`lane-change limit ±${shownNumber(limits.maximumLaneChangeError_m)} m`, -limits.maximumLaneChangeError_m),
+      );
+      marks.push(
+        line(
+          `lane change ${shownNumber(at.figures.laneChange?.size_m)} m over ${shownNumber(at.figures.laneChange?.length_m, 3)} m`,
+          at.laneChange.error,
+          LOOKS.laneChange,
+        ),
+      );
       row('lane change: error', at.laneChange.error, unit, `≤ ${shownNumber(limits.maximumLaneChangeError_m)} m`);
     }
     if (at.curveEntry !== null) {
       const from = traces.leadIn_s + traces.curveEntrySettle_s;
-      marks.push({ kind: 'region', label: `curve-entry error judged from ${shownNumber(traces.curveEntrySettle_s)} s after entry on`, axis: 'x', from, to: 'max', colour: 'grey' });
-      marks.push({ kind: 'rule', label: `curve-entry limit ±${shownNumber(limits.maximumCurveEntryError_m)} m`, axis: 'y', at: limits.maximumCurveEntryError_m, style: { colour: ROLE_COLOURS.failure, dash: 'dot', width: 1.4 } });
-      marks.push({ kind: 'rule', label: `curve-entry limit ±${shownNumber(limits.maximumCurveEntryError_m)} m`, axis: 'y', at: -limits.maximumCurveEntryError_m, style: { colour: ROLE_COLOURS.failure, dash: 'dot', width: 1.4 } });
+      marks.push({
+        kind: 'region',
+        label: `curve-entry error judged from ${shownNumber(traces.curveEntrySettle_s)} s after entry on`,
+        axis: 'x',
+        from,
+        to: 'max',
+        colour: 'grey',
+      });
+      marks.push({
+        kind: 'rule',
+        label: `curve-entry limit ±${shownNumber(limits.maximumCurveEntryError_m)} m`,
+        axis: 'y',
+        at: limits.maximumCurveEntryError_m,
+        style: { colour: ROLE_COLOURS.failure, dash: 'dot', width: 1.4 },
+      });
+      marks.push({
+        kind: 'rule',
+        label: `curve-entry limit ±${shownNumber(limits.maximumCurveEntryError_m)} m`,
+        axis: 'y',
+        at: -limits.maximumCurveEntryError_m,
+        style: { colour: ROLE_COLOURS.failure, dash: 'dot', width: 1.4 },
+      });
       marks.push(line(`curve entry, curvature ${shownNumber(at.figures.curveEntry?.curvature_perM, 3)} 1/m`, at.curveEntry, LOOKS.curveEntry));
-      row('curve entry: error', at.curveEntry, unit, `≤ ${shownNumber(limits.maximumCurveEntryError_m)} m from ${shownNumber(traces.curveEntrySettle_s)} s after entry`);
+      row(
+        'curve entry: error',
+        at.curveEntry,
+        unit,
+        `≤ ${shownNumber(limits.maximumCurveEntryError_m)} m from ${shownNumber(traces.curveEntrySettle_s)} s after entry`,
+      );
     }
     const signals = [at.laneChange?.error, at.curveEntry].filter((signal): signal is TraceSignal => signal !== undefined && signal !== null);
     panels.push({
@@ -126,12 +242,40 @@ export function tracesFigure(data: ReportData, traces: ClosedLoopTraces, at: Clo
   }
 
   // Steering angle and rate against the vehicle's limits: the manoeuvre at full size (lane change, or the step through the limits).
-  const manoeuvre = at.laneChange !== null ? { name: 'lane change', angle: at.laneChange.angle, rate: at.laneChange.rate, rateWords: 'rate asked of the actuator' } : at.limitedStep === null ? null : { name: 'step through the limits', angle: at.limitedStep.angle, rate: at.limitedStep.rate, rateWords: 'road-wheel angle rate' };
+  const manoeuvre =
+    at.laneChange !== null
+      ? { name: 'lane change', angle: at.laneChange.angle, rate: at.laneChange.rate, rateWords: 'rate asked of the actuator' }
+      : at.limitedStep === null
+        ? null
+        : { name: 'step through the limits', angle: at.limitedStep.angle, rate: at.limitedStep.rate, rateWords: 'road-wheel angle rate' };
   if (manoeuvre !== null) {
-    panels.push(steeringPanel(`Steering angle at ${speed}`, 'road-wheel angle', 'rad', steeringLimits.maxSteerAngle_rad, [{ label: `road-wheel angle, ${manoeuvre.name}`, signal: manoeuvre.angle }], `Road-wheel angle during the ${manoeuvre.name} at ${speed}, rad, against time, with the vehicle's angle limit`));
-    panels.push(steeringPanel(`Steering rate at ${speed}`, 'steering rate', 'rad/s', steeringLimits.maxSteerRate_radps, [{ label: `${manoeuvre.rateWords}, ${manoeuvre.name}`, signal: manoeuvre.rate }], `Steering ${manoeuvre.rateWords} during the ${manoeuvre.name} at ${speed}, rad/s, against time, with the vehicle's rate limit`));
+    panels.push(
+      steeringPanel(
+        `Steering angle at ${speed}`,
+        'road-wheel angle',
+        'rad',
+        steeringLimits.maxSteerAngle_rad,
+        [{ label: `road-wheel angle, ${manoeuvre.name}`, signal: manoeuvre.angle }],
+        `Road-wheel angle during the ${manoeuvre.name} at ${speed}, rad, against time, with the vehicle's angle limit`,
+      ),
+    );
+    panels.push(
+      steeringPanel(
+        `Steering rate at ${speed}`,
+        'steering rate',
+        'rad/s',
+        steeringLimits.maxSteerRate_radps,
+        [{ label: `${manoeuvre.rateWords}, ${manoeuvre.name}`, signal: manoeuvre.rate }],
+        `Steering ${manoeuvre.rateWords} during the ${manoeuvre.name} at ${speed}, rad/s, against time, with the vehicle's rate limit`,
+      ),
+    );
     row(`${manoeuvre.name}: road-wheel angle`, manoeuvre.angle, 'rad', `±${shownNumber(steeringLimits.maxSteerAngle_rad)} rad`);
-    row(`${manoeuvre.name}: ${manoeuvre.rateWords}`, manoeuvre.rate, 'rad/s', `±${shownNumber(steeringLimits.maxSteerRate_radps)} rad/s (peak ${shownNumber(peak(manoeuvre.rate), 3)})`);
+    row(
+      `${manoeuvre.name}: ${manoeuvre.rateWords}`,
+      manoeuvre.rate,
+      'rad/s',
+      `±${shownNumber(steeringLimits.maxSteerRate_radps)} rad/s (peak ${shownNumber(peak(manoeuvre.rate), 3)})`,
+    );
   }
 
   return renderFigure(
@@ -143,9 +287,12 @@ export function tracesFigure(data: ReportData, traces: ClosedLoopTraces, at: Clo
       notes: [
         `Simulated again for this report as the build simulated them: the exact sampled closed loop with this breakpoint's gains, set-point weights and feed-forward on ${schedule.check.model.description}. Curves thinned for drawing (each stretch keeps its smallest and largest sample).`,
       ],
-      table: { caption: `Closed-loop responses at ${speed}: peak, its time and the final value of each curve`, header: ['curve', 'peak', 'at s', 'final', 'unit', 'limit'], rows: summary },
+      table: {
+        caption: `Closed-loop responses at ${speed}: peak, its time and the final value of each curve`,
+        header: ['curve', 'peak', 'at s', 'final', 'unit', 'limit'],
+        rows: summary,
+      },
     },
     context,
   );
 }
-

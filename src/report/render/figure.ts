@@ -42,7 +42,8 @@ function swatch(mark: Mark): string {
     }
     case 'points': {
       const colour = colourOf(mark.style.colour);
-      if (mark.shape === 'circle' || mark.shape === 'open-circle') return `${open}<circle cx="14" cy="6" r="4" fill="${mark.shape === 'circle' ? colour : '#fff'}" stroke="${colour}" stroke-width="1.4"/></svg>`;
+      if (mark.shape === 'circle' || mark.shape === 'open-circle')
+        return `${open}<circle cx="14" cy="6" r="4" fill="${mark.shape === 'circle' ? colour : '#fff'}" stroke="${colour}" stroke-width="1.4"/></svg>`;
       const shapes = { diamond: 'M14,1L19,6L14,11L9,6Z', square: 'M10,2H18V10H10Z', cross: 'M10,2L18,10M18,2L10,10', plus: 'M14,1V11M9,6H19' } as const;
       const filled = mark.shape === 'diamond' || mark.shape === 'square';
       return `${open}<path d="${shapes[mark.shape]}" fill="${filled ? colour : 'none'}" stroke="${colour}" stroke-width="1.8"/></svg>`;
@@ -61,7 +62,8 @@ function swatch(mark: Mark): string {
 /** Legend entries of all panels, each label once, in the order first drawn. */
 function legend(panels: readonly PlotSpec[]): string {
   const seen = new Map<string, Mark>();
-  for (const panel of panels) for (const mark of panel.marks) if (mark.legend !== false && mark.label !== '' && !seen.has(mark.label)) seen.set(mark.label, mark);
+  for (const panel of panels)
+    for (const mark of panel.marks) if (mark.legend !== false && mark.label !== '' && !seen.has(mark.label)) seen.set(mark.label, mark);
   if (seen.size === 0) return '';
   return `<ul class="legend">${[...seen.values()].map((mark) => `<li>${swatch(mark)}<span>${escapeHtml(mark.label)}</span></li>`).join('')}</ul>`;
 }

@@ -46,9 +46,16 @@ export const textCell = (text: string, field?: string): Cell => ({ html: escapeH
 export const numberCell = (value: number | null | undefined, field: string, shown?: string): Cell => ({ html: dataNumber(value, shown), field, numeric: true });
 
 /** A table with a caption and a header row; `id` for links and tests. */
-export function htmlTable(options: { readonly id?: string; readonly caption: string; readonly header: readonly string[]; readonly rows: readonly (readonly Cell[])[]; readonly className?: string }): string {
+export function htmlTable(options: {
+  readonly id?: string;
+  readonly caption: string;
+  readonly header: readonly string[];
+  readonly rows: readonly (readonly Cell[])[];
+  readonly className?: string;
+}): string {
   const head = options.header.map((name) => `<th scope="col">${escapeHtml(name)}</th>`).join('');
-  const cell = (c: Cell): string => `<td${c.field === undefined ? '' : ` data-field="${escapeHtml(c.field)}"`}${c.numeric === true ? ' class="number"' : ''}>${c.html}</td>`;
+  const cell = (c: Cell): string =>
+    `<td${c.field === undefined ? '' : ` data-field="${escapeHtml(c.field)}"`}${c.numeric === true ? ' class="number"' : ''}>${c.html}</td>`;
   const body = options.rows.map((row) => `<tr>${row.map(cell).join('')}</tr>`).join('\n');
   return (
     `<table${options.id === undefined ? '' : ` id="${escapeHtml(options.id)}"`}${options.className === undefined ? '' : ` class="${options.className}"`}>` +

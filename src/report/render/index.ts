@@ -41,7 +41,9 @@ function header(data: ReportData): string {
     );
   }
   if (data.checkReproduced === false) {
-    parts.push(`<p class="notice">The dense check re-run for these plots does not reproduce the worst figures the schedule records exactly (another speedband version wrote it?): the tables show the file's figures, the plots the re-run.</p>`);
+    parts.push(
+      `<p class="notice">The dense check re-run for these plots does not reproduce the worst figures the schedule records exactly (another speedband version wrote it?): the tables show the file's figures, the plots the re-run.</p>`,
+    );
   }
   return `<header class="report">${parts.join('\n')}</header>`;
 }
@@ -57,7 +59,10 @@ export function renderReport(data: ReportData): string {
   let figures = 0;
   const context: RenderContext = { ids, nextFigure: () => (figures += 1) };
   const sections = SECTIONS.filter((section) => section.present(data));
-  const body = sections.map((section) => `<section id="${section.id}" aria-labelledby="${section.id}-title"><h2 id="${section.id}-title">${escapeHtml(section.title)}</h2>\n${section.render(data, context)}\n</section>`);
+  const body = sections.map(
+    (section) =>
+      `<section id="${section.id}" aria-labelledby="${section.id}-title"><h2 id="${section.id}-title">${escapeHtml(section.title)}</h2>\n${section.render(data, context)}\n</section>`,
+  );
   const contents = `<nav class="contents" aria-label="Contents"><ol>${sections.map((section) => `<li><a href="#${section.id}">${escapeHtml(section.title)}</a></li>`).join('')}</ol></nav>`;
   return [
     '<!DOCTYPE html>',

@@ -22,16 +22,65 @@ export type MarkerShape = 'circle' | 'open-circle' | 'diamond' | 'cross' | 'plus
 
 /** Data marks (class "mark") and guides (class "guide"); `label` names it in the legend and in the description. */
 export type Mark =
-  | { readonly kind: 'line'; readonly label: string; readonly x: readonly number[]; readonly y: readonly (number | null)[]; readonly style: SeriesStyle; readonly legend?: boolean }
-  | { readonly kind: 'points'; readonly label: string; readonly x: readonly number[]; readonly y: readonly (number | null)[]; readonly style: SeriesStyle; readonly shape: MarkerShape; readonly size?: number; readonly legend?: boolean }
-  | { readonly kind: 'error-bars'; readonly label: string; readonly x: readonly number[]; readonly low: readonly (number | null)[]; readonly high: readonly (number | null)[]; readonly style: SeriesStyle; readonly legend?: boolean }
-  | { readonly kind: 'band'; readonly label: string; readonly x: readonly number[]; readonly low: readonly (number | null)[]; readonly high: readonly (number | null)[]; readonly style: SeriesStyle; readonly legend?: boolean }
+  | {
+      readonly kind: 'line';
+      readonly label: string;
+      readonly x: readonly number[];
+      readonly y: readonly (number | null)[];
+      readonly style: SeriesStyle;
+      readonly legend?: boolean;
+    }
+  | {
+      readonly kind: 'points';
+      readonly label: string;
+      readonly x: readonly number[];
+      readonly y: readonly (number | null)[];
+      readonly style: SeriesStyle;
+      readonly shape: MarkerShape;
+      readonly size?: number;
+      readonly legend?: boolean;
+    }
+  | {
+      readonly kind: 'error-bars';
+      readonly label: string;
+      readonly x: readonly number[];
+      readonly low: readonly (number | null)[];
+      readonly high: readonly (number | null)[];
+      readonly style: SeriesStyle;
+      readonly legend?: boolean;
+    }
+  | {
+      readonly kind: 'band';
+      readonly label: string;
+      readonly x: readonly number[];
+      readonly low: readonly (number | null)[];
+      readonly high: readonly (number | null)[];
+      readonly style: SeriesStyle;
+      readonly legend?: boolean;
+    }
   /** A shaded stretch of one axis across the plot (e.g. where a margin breaks its limit). */
-  | { readonly kind: 'region'; readonly label: string; readonly axis: 'x' | 'y'; readonly from: number | 'min' | 'max'; readonly to: number | 'min' | 'max'; readonly colour: PaletteColour | 'grey'; readonly legend?: boolean }
+  | {
+      readonly kind: 'region';
+      readonly label: string;
+      readonly axis: 'x' | 'y';
+      readonly from: number | 'min' | 'max';
+      readonly to: number | 'min' | 'max';
+      readonly colour: PaletteColour | 'grey';
+      readonly legend?: boolean;
+    }
   /** A straight reference line at one value of an axis (a limit, 0 dB, −180°). */
   | { readonly kind: 'rule'; readonly label: string; readonly axis: 'x' | 'y'; readonly at: number; readonly style: SeriesStyle; readonly legend?: boolean }
   /** A circle in data units (equal-aspect plots): the unit circle, a sensitivity limit around −1. */
-  | { readonly kind: 'ring'; readonly label: string; readonly cx: number; readonly cy: number; readonly r: number; readonly style: SeriesStyle; readonly fill?: PaletteColour; readonly legend?: boolean };
+  | {
+      readonly kind: 'ring';
+      readonly label: string;
+      readonly cx: number;
+      readonly cy: number;
+      readonly r: number;
+      readonly style: SeriesStyle;
+      readonly fill?: PaletteColour;
+      readonly legend?: boolean;
+    };
 
 export interface PlotSpec {
   /** The plot's own title (in the SVG <title>; the figure caption names the figure). */

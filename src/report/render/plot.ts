@@ -21,7 +21,8 @@ const colourOf = colourValue;
 const DASHES = DASH_PATTERNS;
 const strokeOf = (style: SeriesStyle): string =>
   `stroke="${colourOf(style.colour)}" stroke-width="${style.width ?? 1.8}"${(style.dash ?? 'solid') === 'solid' ? '' : ` stroke-dasharray="${DASHES[style.dash ?? 'solid']}"`}${style.opacity === undefined ? '' : ` stroke-opacity="${style.opacity}"`}`;
-const usable = (value: number | null | undefined, log: boolean): value is number => value !== null && value !== undefined && Number.isFinite(value) && (!log || value > 0);
+const usable = (value: number | null | undefined, log: boolean): value is number =>
+  value !== null && value !== undefined && Number.isFinite(value) && (!log || value > 0);
 
 /** The values a mark puts on each axis (data marks, and rules/rings so that they stay in view). */
 function valuesOf(mark: Mark, axis: 'x' | 'y'): readonly (number | null)[] {
@@ -99,7 +100,9 @@ function drawMark(mark: Mark, x: Scale, y: Scale, xLog: boolean, yLog: boolean):
         .y0((i) => y(mark.low[i] as number))
         .y1((i) => y(mark.high[i] as number))
         .digits(1)(indices);
-      return path === null ? '' : `<path class="mark" d="${path}" fill="${colourOf(mark.style.colour)}" fill-opacity="${mark.style.opacity ?? 0.25}" stroke="none">${title}</path>`;
+      return path === null
+        ? ''
+        : `<path class="mark" d="${path}" fill="${colourOf(mark.style.colour)}" fill-opacity="${mark.style.opacity ?? 0.25}" stroke="none">${title}</path>`;
     }
     case 'points': {
       const size = mark.size ?? 4;
@@ -132,7 +135,10 @@ function drawMark(mark: Mark, x: Scale, y: Scale, xLog: boolean, yLog: boolean):
       const clampTo = (value: number | 'min' | 'max'): number => (value === 'min' ? Math.min(d0, d1) : value === 'max' ? Math.max(d0, d1) : value);
       const [a, b] = [scale(clampTo(mark.from)), scale(clampTo(mark.to))];
       const [r0, r1] = (mark.axis === 'y' ? x : y).range();
-      const rect = mark.axis === 'y' ? [Math.min(r0, r1), Math.min(a, b), Math.abs(r1 - r0), Math.abs(b - a)] : [Math.min(a, b), Math.min(r0, r1), Math.abs(b - a), Math.abs(r1 - r0)];
+      const rect =
+        mark.axis === 'y'
+          ? [Math.min(r0, r1), Math.min(a, b), Math.abs(r1 - r0), Math.abs(b - a)]
+          : [Math.min(a, b), Math.min(r0, r1), Math.abs(b - a), Math.abs(r1 - r0)];
       return `<rect class="guide" x="${rect[0].toFixed(1)}" y="${rect[1].toFixed(1)}" width="${rect[2].toFixed(1)}" height="${rect[3].toFixed(1)}" fill="${colourOf(mark.colour)}" fill-opacity="0.13">${title}</rect>`;
     }
     case 'rule': {
@@ -173,7 +179,9 @@ export function renderPlot(spec: PlotSpec, ids: IdSource): string {
     const perPixel = Math.abs((x.domain()[1] - x.domain()[0]) / (xRange[1] - xRange[0]));
     const [y0, y1] = y.domain();
     const half = (perPixel * Math.abs(yRange[0] - yRange[1])) / 2;
-    y = scaleLinear().domain([(y0 + y1) / 2 - half, (y0 + y1) / 2 + half]).range(yRange);
+    y = scaleLinear()
+      .domain([(y0 + y1) / 2 - half, (y0 + y1) / 2 + half])
+      .range(yRange);
   }
   const xLog = spec.x.scale === 'log';
   const yLog = spec.y.scale === 'log';

@@ -25,7 +25,9 @@ interface Series {
 function seriesOf(entry: FrequencyResponseAtSpeed, oldFile: string | null): Series[] {
   return [
     { label: 'new gains', response: entry.response, colour: ROLE_COLOURS.schedule, dash: 'solid' },
-    ...(entry.old === null ? [] : [{ label: `old gains (${oldFile ?? 'baseline'}) on the new vehicle`, response: entry.old, colour: ROLE_COLOURS.baseline, dash: 'dash' } as const]),
+    ...(entry.old === null
+      ? []
+      : [{ label: `old gains (${oldFile ?? 'baseline'}) on the new vehicle`, response: entry.old, colour: ROLE_COLOURS.baseline, dash: 'dash' } as const]),
   ];
 }
 
@@ -53,30 +55,74 @@ function bodePanels(series: readonly Series[], speed: string): PlotSpec[] {
     phase.push({ kind: 'line', label: s.label, x: r.frequency_radps, y: r.phase_deg, style: { colour: s.colour, dash: s.dash, width: 2 } });
     const gm = r.margins.upperGainMarginFrequency_radps;
     if (gm !== null && r.margins.upperGainMargin_dB !== null) {
-      magnitude.push({ kind: 'points', label: 'phase crossover (sets the upper gain margin)', x: [gm], y: [-r.margins.upperGainMargin_dB], style: { colour: s.colour }, shape: 'square', size: 4 });
+      magnitude.push({
+        kind: 'points',
+        label: 'phase crossover (sets the upper gain margin)',
+        x: [gm],
+        y: [-r.margins.upperGainMargin_dB],
+        style: { colour: s.colour },
+        shape: 'square',
+        size: 4,
+      });
     }
     const pm = r.margins.phaseMarginFrequency_radps;
     const pmPhase = pm === null ? null : at(r, r.phase_deg, pm);
     if (pm !== null && pmPhase !== null) {
-      phase.push({ kind: 'points', label: 'gain crossover (sets the phase margin)', x: [pm], y: [pmPhase], style: { colour: s.colour }, shape: 'diamond', size: 5 });
+      phase.push({
+        kind: 'points',
+        label: 'gain crossover (sets the phase margin)',
+        x: [pm],
+        y: [pmPhase],
+        style: { colour: s.colour },
+        shape: 'diamond',
+        size: 5,
+      });
     }
   }
   return [
-    { title: `Bode magnitude at ${speed} m/s`, description: `Open-loop magnitude |L| in dB against frequency at ${speed} m/s, up to the Nyquist frequency of the sampled loop`, x, y: { label: '|L|, dB', include: [0] }, marks: magnitude, height: 220 },
-    { title: `Bode phase at ${speed} m/s`, description: `Open-loop phase of L in degrees (continuous, not wrapped) against frequency at ${speed} m/s`, x, y: { label: 'phase of L, °', include: [-180] }, marks: phase, height: 220 },
+    {
+      title: `Bode magnitude at ${speed} m/s`,
+      description: `Open-loop magnitude |L| in dB against frequency at ${speed} m/s, up to the Nyquist frequency of the sampled loop`,
+      x,
+      y: { label: '|L|, dB', include: [0] },
+      marks: magnitude,
+      height: 220,
+    },
+    {
+      title: `Bode phase at ${speed} m/s`,
+      description: `Open-loop phase of L in degrees (continuous, not wrapped) against frequency at ${speed} m/s`,
+      x,
+      y: { label: 'phase of L, °', include: [-180] },
+      marks: phase,
+      height: 220,
+    },
   ];
 }
 
 function nyquistPanel(series: readonly Series[], speed: string, msLimit: number): PlotSpec {
   const marks: Mark[] = [
-    { kind: 'ring', label: `|1 + L| < 1/${shownNumber(msLimit)}: peak sensitivity beyond its limit`, cx: -1, cy: 0, r: 1 / msLimit, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 }, fill: ROLE_COLOURS.failure },
+    {
+      kind: 'ring',
+      label: `|1 + L| < 1/${shownNumber(msLimit)}: peak sensitivity beyond its limit`,
+      cx: -1,
+      cy: 0,
+      r: 1 / msLimit,
+      style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 },
+      fill: ROLE_COLOURS.failure,
+    },
     { kind: 'ring', label: 'unit circle (|L| = 1)', cx: 0, cy: 0, r: 1, style: { colour: 'grey', dash: 'dot', width: 1.2 } },
     { kind: 'rule', label: 'real axis', axis: 'y', at: 0, style: { colour: 'grey', width: 0.8 }, legend: false },
   ];
   for (const s of series) {
     const r = s.response;
     const inWindow = (k: number): boolean => Math.hypot(r.re[k], r.im[k]) <= NYQUIST_WINDOW.largest;
-    marks.push({ kind: 'line', label: s.label, x: r.re, y: r.im.map((value, k) => (inWindow(k) ? value : null)), style: { colour: s.colour, dash: s.dash, width: 2 } });
+    marks.push({
+      kind: 'line',
+      label: s.label,
+      x: r.re,
+      y: r.im.map((value, k) => (inWindow(k) ? value : null)),
+      style: { colour: s.colour, dash: s.dash, width: 2 },
+    });
   }
   marks.push({ kind: 'points', label: 'critical point −1', x: [-1], y: [0], style: { colour: ROLE_COLOURS.failure }, shape: 'cross', size: 5 });
   return {
@@ -97,7 +143,13 @@ function figureOf(entry: FrequencyResponseAtSpeed, data: ReportData, context: Re
   const rows = r.frequency_radps
     .map((frequency, k) => ({ frequency, k }))
     .filter(({ k }) => k % TABLE_STRIDE === 0 || k === r.frequency_radps.length - 1)
-    .map(({ frequency, k }) => [numberCell(frequency, 'frequency_radps'), numberCell(r.magnitude_dB[k], 'magnitude_dB'), numberCell(r.phase_deg[k], 'phase_deg'), numberCell(r.re[k], 're'), numberCell(r.im[k], 'im')]);
+    .map(({ frequency, k }) => [
+      numberCell(frequency, 'frequency_radps'),
+      numberCell(r.magnitude_dB[k], 'magnitude_dB'),
+      numberCell(r.phase_deg[k], 'phase_deg'),
+      numberCell(r.re[k], 're'),
+      numberCell(r.im[k], 'im'),
+    ]);
   const m = r.margins;
   return renderFigure(
     {
@@ -106,9 +158,17 @@ function figureOf(entry: FrequencyResponseAtSpeed, data: ReportData, context: Re
       panels: [...bodePanels(series, speed), nyquistPanel(series, speed, data.schedule.check.thresholds.maximumSensitivityPeak)],
       notes: [
         `New gains kp ${shownNumber(r.gains.kp)}, ki ${shownNumber(r.gains.ki)}, kd ${shownNumber(r.gains.kd)}: phase margin ${fixedNumber(m.phaseMargin_deg, 1)}° at ${shownNumber(m.phaseMarginFrequency_radps, 3)} rad/s, upper gain margin ${fixedNumber(m.upperGainMargin_dB, 2)} dB at ${shownNumber(m.upperGainMarginFrequency_radps, 3)} rad/s, Ms ${shownNumber(m.sensitivityPeak, 3)}, Mt ${shownNumber(m.complementarySensitivityPeak, 3)}; closed loop ${m.verdict}.`,
-        ...(entry.old === null ? [] : [`Old gains on the new vehicle: phase margin ${fixedNumber(entry.old.margins.phaseMargin_deg, 1)}°, upper gain margin ${fixedNumber(entry.old.margins.upperGainMargin_dB, 2)} dB, Ms ${shownNumber(entry.old.margins.sensitivityPeak, 3)}, Mt ${shownNumber(entry.old.margins.complementarySensitivityPeak, 3)}; closed loop ${entry.old.margins.verdict}.`]),
+        ...(entry.old === null
+          ? []
+          : [
+              `Old gains on the new vehicle: phase margin ${fixedNumber(entry.old.margins.phaseMargin_deg, 1)}°, upper gain margin ${fixedNumber(entry.old.margins.upperGainMargin_dB, 2)} dB, Ms ${shownNumber(entry.old.margins.sensitivityPeak, 3)}, Mt ${shownNumber(entry.old.margins.complementarySensitivityPeak, 3)}; closed loop ${entry.old.margins.verdict}.`,
+            ]),
       ],
-      table: { caption: `L of the new gains at ${speed} m/s (every ${TABLE_STRIDE}th frequency)`, header: ['frequency rad/s', '|L| dB', 'phase °', 'Re L', 'Im L'], rows },
+      table: {
+        caption: `L of the new gains at ${speed} m/s (every ${TABLE_STRIDE}th frequency)`,
+        header: ['frequency rad/s', '|L| dB', 'phase °', 'Re L', 'Im L'],
+        rows,
+      },
     },
     context,
   );

@@ -18,18 +18,64 @@ export function renderGainsSection(data: ReportData, context: RenderContext): st
   const oldBreakpoints = baseline?.schedule.breakpoints.filter((breakpoint) => breakpoint.speed_mps >= low && breakpoint.speed_mps <= high) ?? [];
   const panels = GAINS.map((gain): PlotSpec => {
     const marks: Mark[] = [
-      ...(floor > low ? [{ kind: 'rule', label: `low-speed floor ${fixedNumber(floor, 2)} m/s (its gains below)`, axis: 'x', at: floor, style: { colour: 'grey', dash: 'dot', width: 1.2 } } as const] : []),
-      { kind: 'line', label: `${schedule.interpolation.method} lookup (new schedule)`, x: gainCurve.speeds_mps, y: gainCurve[gain], style: { colour: ROLE_COLOURS.schedule, width: 2 } },
+      ...(floor > low
+        ? [
+            {
+              kind: 'rule',
+              label: `low-speed floor ${fixedNumber(floor, 2)} m/s (its gains below)`,
+              axis: 'x',
+              at: floor,
+              style: { colour: 'grey', dash: 'dot', width: 1.2 },
+            } as const,
+          ]
+        : []),
+      {
+        kind: 'line',
+        label: `${schedule.interpolation.method} lookup (new schedule)`,
+        x: gainCurve.speeds_mps,
+        y: gainCurve[gain],
+        style: { colour: ROLE_COLOURS.schedule, width: 2 },
+      },
       ...(baseline === null
         ? []
         : [
-            { kind: 'line', label: `old schedule ${baseline.file}`, x: baseline.gainCurve.speeds_mps, y: baseline.gainCurve[gain], style: { colour: ROLE_COLOURS.baseline, dash: 'dash', width: 2 } } as const,
-            { kind: 'points', label: 'old breakpoints', x: oldBreakpoints.map((b) => b.speed_mps), y: oldBreakpoints.map((b) => b[gain]), style: { colour: ROLE_COLOURS.baseline }, shape: 'open-circle' } as const,
+            {
+              kind: 'line',
+              label: `old schedule ${baseline.file}`,
+              x: baseline.gainCurve.speeds_mps,
+              y: baseline.gainCurve[gain],
+              style: { colour: ROLE_COLOURS.baseline, dash: 'dash', width: 2 },
+            } as const,
+            {
+              kind: 'points',
+              label: 'old breakpoints',
+              x: oldBreakpoints.map((b) => b.speed_mps),
+              y: oldBreakpoints.map((b) => b[gain]),
+              style: { colour: ROLE_COLOURS.baseline },
+              shape: 'open-circle',
+            } as const,
           ]),
-      { kind: 'points', label: 'breakpoints', x: planned.map((b) => b.speed_mps), y: planned.map((b) => b[gain]), style: { colour: ROLE_COLOURS.breakpoint }, shape: 'circle' },
+      {
+        kind: 'points',
+        label: 'breakpoints',
+        x: planned.map((b) => b.speed_mps),
+        y: planned.map((b) => b[gain]),
+        style: { colour: ROLE_COLOURS.breakpoint },
+        shape: 'circle',
+      },
       ...(inserted.length === 0
         ? []
-        : [{ kind: 'points', label: 'breakpoints inserted by the check', x: inserted.map((b) => b.speed_mps), y: inserted.map((b) => b[gain]), style: { colour: ROLE_COLOURS.inserted }, shape: 'diamond', size: 6 } as const]),
+        : [
+            {
+              kind: 'points',
+              label: 'breakpoints inserted by the check',
+              x: inserted.map((b) => b.speed_mps),
+              y: inserted.map((b) => b[gain]),
+              style: { colour: ROLE_COLOURS.inserted },
+              shape: 'diamond',
+              size: 6,
+            } as const,
+          ]),
     ];
     return {
       title: `${gain} against speed`,
@@ -54,8 +100,14 @@ export function renderGainsSection(data: ReportData, context: RenderContext): st
       layout: 'row',
       notes: [
         `Between breakpoints the firmware's lookup interpolates (${schedule.interpolation.method}); outside the range it holds the end gains, and below the low-speed floor (${fixedNumber(floor, 2)} m/s) it uses the floor's gains.`,
-        ...(inserted.length > 0 ? [`${inserted.length} breakpoint${inserted.length === 1 ? ' was' : 's were'} inserted where the check failed between breakpoints.`] : []),
-        ...(data.baseline !== null && baseline === null ? [`The old gains of ${data.baseline.file} are not drawn: a loop or controller setting changed, so they are not comparable one by one (see the change from the baseline).`] : []),
+        ...(inserted.length > 0
+          ? [`${inserted.length} breakpoint${inserted.length === 1 ? ' was' : 's were'} inserted where the check failed between breakpoints.`]
+          : []),
+        ...(data.baseline !== null && baseline === null
+          ? [
+              `The old gains of ${data.baseline.file} are not drawn: a loop or controller setting changed, so they are not comparable one by one (see the change from the baseline).`,
+            ]
+          : []),
       ],
       table: {
         caption: 'Gains at the breakpoints',

@@ -59,11 +59,54 @@ export function renderIdentificationSection(data: ReportData, context: RenderCon
   const old = data.baseline?.prediction ?? null;
   const panels = PARAMETERS.map((parameter): PlotSpec => {
     const marks: Mark[] = [
-      { kind: 'points', label: 'each step', x: models.tests.map((test) => test.speed_mps), y: models.tests.map((test) => test.fopdt[parameter.field]), style: { colour: ROLE_COLOURS.measured }, shape: 'open-circle', size: 2.5 },
-      { kind: 'error-bars', label: '95 % interval of the speed', x: models.speeds.map((speed) => speed.speed_mps), low: models.speeds.map((speed) => speed.fopdt.ci95[parameter.field][0]), high: models.speeds.map((speed) => speed.fopdt.ci95[parameter.field][1]), style: { colour: ROLE_COLOURS.breakpoint, width: 1.4 } },
-      { kind: 'points', label: 'each speed (inverse-variance mean)', x: models.speeds.map((speed) => speed.speed_mps), y: models.speeds.map((speed) => speed.fopdt[parameter.field]), style: { colour: ROLE_COLOURS.breakpoint }, shape: 'circle', size: 3.5 },
-      ...(prediction === null ? [] : [{ kind: 'line', label: `check model: ${prediction.description}`, x: prediction.speeds_mps, y: prediction[parameter.field], style: { colour: ROLE_COLOURS.model, width: 2 } } as const]),
-      ...(old === null ? [] : [{ kind: 'line', label: `old schedule's model (${data.baseline!.file})`, x: old.speeds_mps, y: old[parameter.field], style: { colour: ROLE_COLOURS.baseline, dash: 'dash', width: 2 } } as const]),
+      {
+        kind: 'points',
+        label: 'each step',
+        x: models.tests.map((test) => test.speed_mps),
+        y: models.tests.map((test) => test.fopdt[parameter.field]),
+        style: { colour: ROLE_COLOURS.measured },
+        shape: 'open-circle',
+        size: 2.5,
+      },
+      {
+        kind: 'error-bars',
+        label: '95 % interval of the speed',
+        x: models.speeds.map((speed) => speed.speed_mps),
+        low: models.speeds.map((speed) => speed.fopdt.ci95[parameter.field][0]),
+        high: models.speeds.map((speed) => speed.fopdt.ci95[parameter.field][1]),
+        style: { colour: ROLE_COLOURS.breakpoint, width: 1.4 },
+      },
+      {
+        kind: 'points',
+        label: 'each speed (inverse-variance mean)',
+        x: models.speeds.map((speed) => speed.speed_mps),
+        y: models.speeds.map((speed) => speed.fopdt[parameter.field]),
+        style: { colour: ROLE_COLOURS.breakpoint },
+        shape: 'circle',
+        size: 3.5,
+      },
+      ...(prediction === null
+        ? []
+        : [
+            {
+              kind: 'line',
+              label: `check model: ${prediction.description}`,
+              x: prediction.speeds_mps,
+              y: prediction[parameter.field],
+              style: { colour: ROLE_COLOURS.model, width: 2 },
+            } as const,
+          ]),
+      ...(old === null
+        ? []
+        : [
+            {
+              kind: 'line',
+              label: `old schedule's model (${data.baseline!.file})`,
+              x: old.speeds_mps,
+              y: old[parameter.field],
+              style: { colour: ROLE_COLOURS.baseline, dash: 'dash', width: 2 },
+            } as const,
+          ]),
     ];
     return {
       title: `${parameter.name} against speed`,
@@ -75,7 +118,11 @@ export function renderIdentificationSection(data: ReportData, context: RenderCon
       height: 260,
     };
   });
-  const interval = (speed: (typeof models.speeds)[number], field: (typeof PARAMETERS)[number]['field']) => [numberCell(speed.fopdt[field], field), numberCell(speed.fopdt.ci95[field][0], `${field}.ci95.low`), numberCell(speed.fopdt.ci95[field][1], `${field}.ci95.high`)];
+  const interval = (speed: (typeof models.speeds)[number], field: (typeof PARAMETERS)[number]['field']) => [
+    numberCell(speed.fopdt[field], field),
+    numberCell(speed.fopdt.ci95[field][0], `${field}.ci95.low`),
+    numberCell(speed.fopdt.ci95[field][1], `${field}.ci95.high`),
+  ];
   const figure = renderFigure(
     {
       id: 'figure-identified',
@@ -89,11 +136,20 @@ export function renderIdentificationSection(data: ReportData, context: RenderCon
       table: {
         caption: 'Per-speed FOPDT with 95 % intervals',
         header: ['speed m/s', 'steps', 'K 1/s', 'K low', 'K high', 'τ s', 'τ low', 'τ high', 'θ s', 'θ low', 'θ high'],
-        rows: models.speeds.map((speed) => [numberCell(speed.speed_mps, 'speed_mps', fixedNumber(speed.speed_mps, 2)), numberCell(speed.stepCount, 'stepCount'), ...interval(speed, 'gain'), ...interval(speed, 'timeConstant_s'), ...interval(speed, 'deadTime_s')]),
+        rows: models.speeds.map((speed) => [
+          numberCell(speed.speed_mps, 'speed_mps', fixedNumber(speed.speed_mps, 2)),
+          numberCell(speed.stepCount, 'stepCount'),
+          ...interval(speed, 'gain'),
+          ...interval(speed, 'timeConstant_s'),
+          ...interval(speed, 'deadTime_s'),
+        ]),
       },
     },
     context,
   );
-  const warnings = models.warnings.length === 0 ? '' : `<h3>Identification warnings</h3><ul>${models.warnings.map((warning) => `<li>${escapeHtml(warning)}</li>`).join('')}</ul>`;
+  const warnings =
+    models.warnings.length === 0
+      ? ''
+      : `<h3>Identification warnings</h3><ul>${models.warnings.map((warning) => `<li>${escapeHtml(warning)}</li>`).join('')}</ul>`;
   return `<div class="grid">${figure}</div><div class="table-scroll">${jointFitTable(models)}</div>${warnings}`;
 }

@@ -25,16 +25,54 @@ interface FigureWords {
 }
 
 const FIGURES: readonly FigureWords[] = [
-  { field: 'phaseMargin_deg', criterion: 'phaseMargin', name: 'phase margin', unit: '°', limit: (d) => ({ value: d.schedule.check.thresholds.minimumPhaseMargin_deg, failsBelow: true }) },
-  { field: 'upperGainMargin_dB', criterion: 'upperGainMargin', name: 'upper gain margin', unit: 'dB', limit: (d) => ({ value: d.schedule.check.thresholds.minimumUpperGainMargin_dB, failsBelow: true }) },
-  { field: 'lowerGainMargin_dB', criterion: 'lowerGainMargin', name: 'lower gain margin', unit: 'dB', limit: (d) => ({ value: d.schedule.check.thresholds.maximumLowerGainMargin_dB, failsBelow: false }) },
-  { field: 'delayMargin_s', criterion: 'delayMargin', name: 'delay margin', unit: 's', limit: (d) => ({ value: d.schedule.check.thresholds.minimumDelayMargin_s, failsBelow: true }) },
-  { field: 'sensitivityPeak', criterion: 'sensitivityPeak', name: 'peak sensitivity Ms', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumSensitivityPeak, failsBelow: false }) },
-  { field: 'complementarySensitivityPeak', criterion: 'complementarySensitivityPeak', name: 'peak complementary sensitivity Mt', axis: 'Mt (peak of |T|)', unit: '', limit: (d) => ({ value: d.schedule.check.thresholds.maximumComplementarySensitivityPeak, failsBelow: false }) },
+  {
+    field: 'phaseMargin_deg',
+    criterion: 'phaseMargin',
+    name: 'phase margin',
+    unit: '°',
+    limit: (d) => ({ value: d.schedule.check.thresholds.minimumPhaseMargin_deg, failsBelow: true }),
+  },
+  {
+    field: 'upperGainMargin_dB',
+    criterion: 'upperGainMargin',
+    name: 'upper gain margin',
+    unit: 'dB',
+    limit: (d) => ({ value: d.schedule.check.thresholds.minimumUpperGainMargin_dB, failsBelow: true }),
+  },
+  {
+    field: 'lowerGainMargin_dB',
+    criterion: 'lowerGainMargin',
+    name: 'lower gain margin',
+    unit: 'dB',
+    limit: (d) => ({ value: d.schedule.check.thresholds.maximumLowerGainMargin_dB, failsBelow: false }),
+  },
+  {
+    field: 'delayMargin_s',
+    criterion: 'delayMargin',
+    name: 'delay margin',
+    unit: 's',
+    limit: (d) => ({ value: d.schedule.check.thresholds.minimumDelayMargin_s, failsBelow: true }),
+  },
+  {
+    field: 'sensitivityPeak',
+    criterion: 'sensitivityPeak',
+    name: 'peak sensitivity Ms',
+    unit: '',
+    limit: (d) => ({ value: d.schedule.check.thresholds.maximumSensitivityPeak, failsBelow: false }),
+  },
+  {
+    field: 'complementarySensitivityPeak',
+    criterion: 'complementarySensitivityPeak',
+    name: 'peak complementary sensitivity Mt',
+    axis: 'Mt (peak of |T|)',
+    unit: '',
+    limit: (d) => ({ value: d.schedule.check.thresholds.maximumComplementarySensitivityPeak, failsBelow: false }),
+  },
 ];
 
 const values = (check: ReportCheck, field: Figure): (number | null)[] => check.points.map((point) => point.margins[field]);
-const failing = (check: ReportCheck, criterion: CheckCriterion) => check.points.filter((point) => point.failures.includes(criterion) || point.failures.includes('stability'));
+const failing = (check: ReportCheck, criterion: CheckCriterion) =>
+  check.points.filter((point) => point.failures.includes(criterion) || point.failures.includes('stability'));
 
 function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
   const { check, schedule, baseline } = data;
@@ -44,25 +82,72 @@ function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
   if (!any(check) && !any(old) && atBreakpoints.every((value) => value === null)) return null;
   const limit = figure.limit(data);
   // Room beyond the limit so that the shaded side shows even when every value is far from it.
-  const shown = [...(check === null ? [] : values(check, figure.field)), ...(old === null ? [] : values(old, figure.field)), ...atBreakpoints].filter((value): value is number => value !== null);
+  const shown = [...(check === null ? [] : values(check, figure.field)), ...(old === null ? [] : values(old, figure.field)), ...atBreakpoints].filter(
+    (value): value is number => value !== null,
+  );
   const span = Math.max(...shown.map((value) => Math.abs(value - limit.value)), 1e-9);
   const room = limit.value + (limit.failsBelow ? -0.12 : 0.12) * span;
   const marks: Mark[] = [
-    { kind: 'region', label: `beyond the limit (${figure.name} ${limit.failsBelow ? '<' : '>'} ${shownNumber(limit.value)}${figure.unit === '' ? '' : ` ${figure.unit}`})`, axis: 'y', from: limit.failsBelow ? 'min' : limit.value, to: limit.failsBelow ? limit.value : 'max', colour: ROLE_COLOURS.failure },
+    {
+      kind: 'region',
+      label: `beyond the limit (${figure.name} ${limit.failsBelow ? '<' : '>'} ${shownNumber(limit.value)}${figure.unit === '' ? '' : ` ${figure.unit}`})`,
+      axis: 'y',
+      from: limit.failsBelow ? 'min' : limit.value,
+      to: limit.failsBelow ? limit.value : 'max',
+      colour: ROLE_COLOURS.failure,
+    },
     { kind: 'rule', label: 'limit', axis: 'y', at: limit.value, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } },
   ];
   if (check !== null) {
-    marks.push({ kind: 'line', label: 'new gains, dense check', x: check.points.map((p) => p.speed_mps), y: values(check, figure.field), style: { colour: ROLE_COLOURS.schedule, width: 2 } });
+    marks.push({
+      kind: 'line',
+      label: 'new gains, dense check',
+      x: check.points.map((p) => p.speed_mps),
+      y: values(check, figure.field),
+      style: { colour: ROLE_COLOURS.schedule, width: 2 },
+    });
   }
   if (old !== null) {
-    marks.push({ kind: 'line', label: 'old gains on the new vehicle', x: old.points.map((p) => p.speed_mps), y: values(old, figure.field), style: { colour: ROLE_COLOURS.baseline, dash: 'dash', width: 2 } });
+    marks.push({
+      kind: 'line',
+      label: 'old gains on the new vehicle',
+      x: old.points.map((p) => p.speed_mps),
+      y: values(old, figure.field),
+      style: { colour: ROLE_COLOURS.baseline, dash: 'dash', width: 2 },
+    });
     const oldFails = failing(old, figure.criterion);
-    if (oldFails.length > 0) marks.push({ kind: 'points', label: 'old gains fail here', x: oldFails.map((p) => p.speed_mps), y: oldFails.map((p) => p.margins[figure.field] ?? limit.value), style: { colour: ROLE_COLOURS.failure }, shape: 'plus', size: 4 });
+    if (oldFails.length > 0)
+      marks.push({
+        kind: 'points',
+        label: 'old gains fail here',
+        x: oldFails.map((p) => p.speed_mps),
+        y: oldFails.map((p) => p.margins[figure.field] ?? limit.value),
+        style: { colour: ROLE_COLOURS.failure },
+        shape: 'plus',
+        size: 4,
+      });
   }
-  marks.push({ kind: 'points', label: 'breakpoints (proven margins)', x: schedule.breakpoints.map((b) => b.speed_mps), y: atBreakpoints, style: { colour: ROLE_COLOURS.breakpoint }, shape: 'circle', size: 3.5 });
+  marks.push({
+    kind: 'points',
+    label: 'breakpoints (proven margins)',
+    x: schedule.breakpoints.map((b) => b.speed_mps),
+    y: atBreakpoints,
+    style: { colour: ROLE_COLOURS.breakpoint },
+    shape: 'circle',
+    size: 3.5,
+  });
   if (check !== null) {
     const fails = failing(check, figure.criterion);
-    if (fails.length > 0) marks.push({ kind: 'points', label: 'new gains fail here', x: fails.map((p) => p.speed_mps), y: fails.map((p) => p.margins[figure.field] ?? limit.value), style: { colour: ROLE_COLOURS.failure }, shape: 'cross', size: 5 });
+    if (fails.length > 0)
+      marks.push({
+        kind: 'points',
+        label: 'new gains fail here',
+        x: fails.map((p) => p.speed_mps),
+        y: fails.map((p) => p.margins[figure.field] ?? limit.value),
+        style: { colour: ROLE_COLOURS.failure },
+        shape: 'cross',
+        size: 5,
+      });
   }
   return {
     title: `${figure.name} against speed`,
@@ -96,7 +181,11 @@ export function renderMarginsSection(data: ReportData, context: RenderContext): 
           id: `figure-${figure.field}`,
           caption: `${figure.name[0].toUpperCase()}${figure.name.slice(1)} against speed${check === null ? ' (breakpoints only)' : ` at the ${check.points.length} speeds of the dense check`}.`,
           panels: [spec],
-          table: { caption: `${figure.name} per check speed`, header: ['speed m/s', `${figure.name}${figure.unit === '' ? '' : ` ${figure.unit}`}`, 'limits', ...(baseline?.check == null ? [] : ['old gains'])], rows },
+          table: {
+            caption: `${figure.name} per check speed`,
+            header: ['speed m/s', `${figure.name}${figure.unit === '' ? '' : ` ${figure.unit}`}`, 'limits', ...(baseline?.check == null ? [] : ['old gains'])],
+            rows,
+          },
         },
         context,
       ),
@@ -124,7 +213,11 @@ function verdictNotice(data: ReportData): string {
     });
     if (runs.length === 0) continue;
     const where = runs.map(([from, to]) => (from === to ? `${fixedNumber(from, 2)} m/s` : `${fixedNumber(from, 2)}–${fixedNumber(to, 2)} m/s`)).join(', ');
-    words.push(verdict === 'marginal' ? `marginal at ${where} (a closed-loop pole on the unit circle within the bound on its rounding error: neither proven stable nor unstable)` : `unstable at ${where}`);
+    words.push(
+      verdict === 'marginal'
+        ? `marginal at ${where} (a closed-loop pole on the unit circle within the bound on its rounding error: neither proven stable nor unstable)`
+        : `unstable at ${where}`,
+    );
   }
   return words.length === 0 ? '' : `<p class="notice">The closed loop of the new gains is ${escapeHtml(words.join('; '))}. No margins are drawn there.</p>`;
 }

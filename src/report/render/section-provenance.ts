@@ -7,9 +7,9 @@ function recordRows(record: Readonly<Record<string, unknown>>): Cell[][] {
   return Object.entries(record)
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
     .map(([name, value]) => [
-    textCell(name),
-    typeof value === 'number' ? numberCell(value, name, shownNumber(value, 6)) : textCell(typeof value === 'string' ? value : JSON.stringify(value), name),
-  ]);
+      textCell(name),
+      typeof value === 'number' ? numberCell(value, name, shownNumber(value, 6)) : textCell(typeof value === 'string' ? value : JSON.stringify(value), name),
+    ]);
 }
 
 export function renderProvenanceSection(data: ReportData): string {
@@ -28,13 +28,21 @@ export function renderProvenanceSection(data: ReportData): string {
     `<span class="mono">${escapeHtml(controller.equation)}</span><br>${controller.update.map((line) => `<span class="mono">${escapeHtml(line)}</span>`).join('<br>')}<br>${escapeHtml(controller.integration)}</dd>`,
     `<dt>Interpolation</dt><dd>${escapeHtml(schedule.interpolation.description)}</dd>`,
     `<dt>Acceptance limits</dt><dd>lower gain margin ≤ ${shownNumber(limits.maximumLowerGainMargin_dB)} dB, upper gain margin ≥ ${shownNumber(limits.minimumUpperGainMargin_dB)} dB, phase margin ≥ ${shownNumber(limits.minimumPhaseMargin_deg)}°, peak sensitivity ≤ ${shownNumber(limits.maximumSensitivityPeak)}, delay margin ≥ ${shownNumber(limits.minimumDelayMargin_s)} s</dd>`,
-    ...(data.models === null ? [] : [`<dt>Identification</dt><dd><span class="mono">${escapeHtml(data.models.file)}</span>, written by speedband ${escapeHtml(data.models.content.tool.version)} from the same vehicle file and logs (checked by SHA-256)</dd>`]),
+    ...(data.models === null
+      ? []
+      : [
+          `<dt>Identification</dt><dd><span class="mono">${escapeHtml(data.models.file)}</span>, written by speedband ${escapeHtml(data.models.content.tool.version)} from the same vehicle file and logs (checked by SHA-256)</dd>`,
+        ]),
     `</dl>`,
     `<div class="table-scroll">${htmlTable({
       id: 'inputs',
       caption: 'Every input of the schedule, with its SHA-256',
       header: ['file', 'role', 'SHA-256'],
-      rows: provenance.inputs.map((input) => [textCell(input.file, 'file'), textCell(input.role, 'role'), { html: `<span class="mono">${escapeHtml(input.sha256)}</span>`, field: 'sha256' }]),
+      rows: provenance.inputs.map((input) => [
+        textCell(input.file, 'file'),
+        textCell(input.role, 'role'),
+        { html: `<span class="mono">${escapeHtml(input.sha256)}</span>`, field: 'sha256' },
+      ]),
     })}</div>`,
     `<div class="table-scroll">${htmlTable({ id: 'model', caption: `The vehicle model the gains were tuned and checked on: ${schedule.check.model.description}`, header: ['quantity', 'value'], rows: recordRows(provenance.model) })}</div>`,
   ];
@@ -46,12 +54,21 @@ export function renderProvenanceSection(data: ReportData): string {
         id: 'rule-parameters',
         caption: 'Rule parameters as resolved at each breakpoint',
         header: ['speed m/s', ...names],
-        rows: atBreakpoints.map((entry) => [numberCell(entry.speed_mps, 'speed_mps', fixedNumber(entry.speed_mps, 2)), ...names.map((name) => (typeof entry.parameters[name] === 'number' ? numberCell(entry.parameters[name] as number, name) : textCell(String(entry.parameters[name] ?? '—'), name)))]),
+        rows: atBreakpoints.map((entry) => [
+          numberCell(entry.speed_mps, 'speed_mps', fixedNumber(entry.speed_mps, 2)),
+          ...names.map((name) =>
+            typeof entry.parameters[name] === 'number'
+              ? numberCell(entry.parameters[name] as number, name)
+              : textCell(String(entry.parameters[name] ?? '—'), name),
+          ),
+        ]),
       }),
     );
   }
   for (const edit of provenance.handEdits ?? []) {
-    parts.push(`<p class="notice">Hand edit: ${escapeHtml(edit.statement)} Sections changed: ${escapeHtml(edit.changedSections.join(', ') || 'not known')}; re-verified by speedband ${escapeHtml(edit.toolVersion)} on ${escapeHtml(edit.model)} at ${edit.gridSize} speeds.</p>`);
+    parts.push(
+      `<p class="notice">Hand edit: ${escapeHtml(edit.statement)} Sections changed: ${escapeHtml(edit.changedSections.join(', ') || 'not known')}; re-verified by speedband ${escapeHtml(edit.toolVersion)} on ${escapeHtml(edit.model)} at ${edit.gridSize} speeds.</p>`,
+    );
   }
   parts.push(`<details><summary>The resolved plan (JSON)</summary><pre>${escapeHtml(JSON.stringify(provenance.plan, null, 2))}</pre></details>`);
   return parts.join('\n');

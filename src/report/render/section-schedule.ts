@@ -54,7 +54,9 @@ export function worstTable(schedule: ScheduleFile): string {
       row('phase margin (smallest)', 'phaseMargin_deg', '°', thresholds.minimumPhaseMargin_deg, '≥', (v) => fixedNumber(v, 1)),
       row('delay margin (smallest)', 'delayMargin_s', 's', thresholds.minimumDelayMargin_s, '≥', (v) => shownNumber(v, 4)),
       row('peak sensitivity Ms (largest)', 'sensitivityPeak', '', thresholds.maximumSensitivityPeak, '≤', (v) => shownNumber(v, 4)),
-      row('peak complementary sensitivity Mt (largest)', 'complementarySensitivityPeak', '', thresholds.maximumComplementarySensitivityPeak, '≤', (v) => shownNumber(v, 4)),
+      row('peak complementary sensitivity Mt (largest)', 'complementarySensitivityPeak', '', thresholds.maximumComplementarySensitivityPeak, '≤', (v) =>
+        shownNumber(v, 4),
+      ),
     ],
   });
 }
@@ -69,7 +71,9 @@ export function renderScheduleSection(data: ReportData): string {
     `<div class="table-scroll">${worstTable(schedule)}</div>`,
   ];
   if (check.insertions.length > 0) {
-    parts.push(`<h3>Breakpoints inserted by the check</h3><ul>${check.insertions.map((insertion) => `<li>${fixedNumber(insertion.speed_mps, 2)} m/s: ${escapeHtml(insertion.reason)}</li>`).join('')}</ul>`);
+    parts.push(
+      `<h3>Breakpoints inserted by the check</h3><ul>${check.insertions.map((insertion) => `<li>${fixedNumber(insertion.speed_mps, 2)} m/s: ${escapeHtml(insertion.reason)}</li>`).join('')}</ul>`,
+    );
   }
   if (check.failures.length > 0) {
     const intervals = data.check?.failingIntervals ?? [];

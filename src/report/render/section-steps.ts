@@ -15,9 +15,30 @@ function figureOf(speed: StepTracesAtSpeed, data: ReportData, context: RenderCon
   const residual: Mark[] = [{ kind: 'rule', label: 'zero', axis: 'y', at: 0, style: { colour: 'grey', dash: 'dot', width: 1 }, legend: false }];
   speed.steps.forEach((step, k) => {
     const name = `step ${step.stepIndex} of ${step.file.split(/[\\/]/).pop()}`;
-    response.push({ kind: 'line', label: k === 0 ? 'measured' : name, x: step.time_s, y: step.measuredPerCommand_perS, style: { colour: ROLE_COLOURS.measured, width: 1.4 }, legend: k === 0 });
-    response.push({ kind: 'line', label: k === 0 ? 'FOPDT fit of each step' : `${name}, fit`, x: step.time_s, y: step.fitPerCommand_perS, style: { colour: ROLE_COLOURS.fit, dash: 'dash', width: 1.1 }, legend: k === 0 });
-    residual.push({ kind: 'line', label: k === 0 ? 'residual (measured − fit)' : `${name}, residual`, x: step.time_s, y: step.residual_radps, style: { colour: ROLE_COLOURS.measured, width: 1.1 }, legend: k === 0 });
+    response.push({
+      kind: 'line',
+      label: k === 0 ? 'measured' : name,
+      x: step.time_s,
+      y: step.measuredPerCommand_perS,
+      style: { colour: ROLE_COLOURS.measured, width: 1.4 },
+      legend: k === 0,
+    });
+    response.push({
+      kind: 'line',
+      label: k === 0 ? 'FOPDT fit of each step' : `${name}, fit`,
+      x: step.time_s,
+      y: step.fitPerCommand_perS,
+      style: { colour: ROLE_COLOURS.fit, dash: 'dash', width: 1.1 },
+      legend: k === 0,
+    });
+    residual.push({
+      kind: 'line',
+      label: k === 0 ? 'residual (measured − fit)' : `${name}, residual`,
+      x: step.time_s,
+      y: step.residual_radps,
+      style: { colour: ROLE_COLOURS.measured, width: 1.1 },
+      legend: k === 0,
+    });
   });
   const times = speed.steps.flatMap((step) => [step.time_s[0], step.time_s[step.time_s.length - 1]]);
   const x = { label: 'time since the step, s', domain: [Math.min(...times), Math.max(...times)] as const };

@@ -16,7 +16,6 @@ import type { Mark, PlotSpec } from './plot-types.js';
 /** Whether any breakpoint of the schedule has time-domain figures. */
 export const hasTimeDomain = (data: ReportData): boolean => data.schedule.breakpoints.some((breakpoint) => breakpoint.timeDomain !== null);
 
-
 /** Every time-domain figure of every breakpoint as schedule.json holds it (exact values in `<data>`). */
 export function timeDomainTable(schedule: ScheduleFile): string {
   type Figures = NonNullable<ScheduleFile['breakpoints'][number]['timeDomain']>;
@@ -30,7 +29,11 @@ export function timeDomainTable(schedule: ScheduleFile): string {
     { header: 'curve-entry error m', field: 'curveEntry.errorAfterSettle_m', value: (t) => t.curveEntry?.errorAfterSettle_m },
     { header: 'step through the limits: overshoot %', field: 'limitedStep.overshoot_pct', value: (t) => t.limitedStep?.overshoot_pct },
     { header: 'step through the limits: settling s', field: 'limitedStep.settlingTime_s', value: (t) => t.limitedStep?.settlingTime_s },
-    { header: `largest reference the actuator allows (${schedule.units.error})`, field: 'actuator.largestReference', value: (t) => t.actuator.largestReference },
+    {
+      header: `largest reference the actuator allows (${schedule.units.error})`,
+      field: 'actuator.largestReference',
+      value: (t) => t.actuator.largestReference,
+    },
   ];
   // A column no breakpoint has (a figure of another loop or model) is left out.
   const shown = columns.filter((column) => figures.some((t) => t !== null && column.value(t) !== undefined && column.value(t) !== null));
@@ -50,7 +53,10 @@ export function timeDomainTable(schedule: ScheduleFile): string {
     ];
   });
   const { limits } = schedule.check.timeDomain;
-  const pathLimits = schedule.loop.kind === 'path' ? `, lane-change error ≤ ${shownNumber(limits.maximumLaneChangeError_m)} m, curve-entry error ≤ ${shownNumber(limits.maximumCurveEntryError_m)} m` : '';
+  const pathLimits =
+    schedule.loop.kind === 'path'
+      ? `, lane-change error ≤ ${shownNumber(limits.maximumLaneChangeError_m)} m, curve-entry error ≤ ${shownNumber(limits.maximumCurveEntryError_m)} m`
+      : '';
   return htmlTable({
     id: 'time-domain-table',
     caption:
@@ -74,8 +80,11 @@ function figuresAgainstSpeed(schedule: ScheduleFile): FigureAgainstSpeed[] {
   const of = <T>(pick: (t: NonNullable<ScheduleFile['breakpoints'][number]['timeDomain']>) => T | null | undefined): (T | null)[] =>
     schedule.breakpoints.map((breakpoint) => (breakpoint.timeDomain === null ? null : (pick(breakpoint.timeDomain) ?? null)));
   const present = (values: readonly (number | null)[]): boolean => values.some((value) => value !== null);
-  const overshoot: FigureAgainstSpeed['series'][number][] = [{ label: 'reference step (with the set-point weights)', look: LOOKS.referenceStep, values: of((t) => t.referenceStep.overshoot_pct) }];
-  if (schedule.loop.kind === 'heading') overshoot.push({ label: 'step through the steering limits', look: LOOKS.limitedStep, values: of((t) => t.limitedStep?.overshoot_pct) });
+  const overshoot: FigureAgainstSpeed['series'][number][] = [
+    { label: 'reference step (with the set-point weights)', look: LOOKS.referenceStep, values: of((t) => t.referenceStep.overshoot_pct) },
+  ];
+  if (schedule.loop.kind === 'heading')
+    overshoot.push({ label: 'step through the steering limits', look: LOOKS.limitedStep, values: of((t) => t.limitedStep?.overshoot_pct) });
   const figures: FigureAgainstSpeed[] = [
     { name: 'overshoot', unit: '%', limit: limits.maximumOvershoot_pct, series: overshoot.filter((series) => present(series.values)) },
     {
@@ -87,8 +96,22 @@ function figuresAgainstSpeed(schedule: ScheduleFile): FigureAgainstSpeed[] {
         { label: 'lateral force step', look: LOOKS.lateralForce, values: of((t) => t.lateralForce?.recoveryTime_s) },
       ].filter((series) => present(series.values)),
     },
-    { name: 'lane-change error', unit: 'm', limit: limits.maximumLaneChangeError_m, series: [{ label: 'largest error while changing lane', look: LOOKS.laneChange, values: of((t) => t.laneChange?.peakError_m) }].filter((series) => present(series.values)) },
-    { name: 'curve-entry error', unit: 'm', limit: limits.maximumCurveEntryError_m, series: [{ label: 'largest error from 3 s after entry on', look: LOOKS.curveEntry, values: of((t) => t.curveEntry?.errorAfterSettle_m) }].filter((series) => present(series.values)) },
+    {
+      name: 'lane-change error',
+      unit: 'm',
+      limit: limits.maximumLaneChangeError_m,
+      series: [{ label: 'largest error while changing lane', look: LOOKS.laneChange, values: of((t) => t.laneChange?.peakError_m) }].filter((series) =>
+        present(series.values),
+      ),
+    },
+    {
+      name: 'curve-entry error',
+      unit: 'm',
+      limit: limits.maximumCurveEntryError_m,
+      series: [{ label: 'largest error from 3 s after entry on', look: LOOKS.curveEntry, values: of((t) => t.curveEntry?.errorAfterSettle_m) }].filter(
+        (series) => present(series.values),
+      ),
+    },
   ];
   return figures.filter((figure) => figure.series.length > 0);
 }
@@ -102,7 +125,14 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
   ];
   figure.series.forEach((series) => {
     const { colour, shape } = series.look;
-    marks.push({ kind: 'line', label: `${series.label}, between breakpoints`, x: speeds, y: series.values, style: { colour, dash: 'dot', width: 1 }, legend: false });
+    marks.push({
+      kind: 'line',
+      label: `${series.label}, between breakpoints`,
+      x: speeds,
+      y: series.values,
+      style: { colour, dash: 'dot', width: 1 },
+      legend: false,
+    });
     marks.push({ kind: 'points', label: series.label, x: speeds, y: series.values, style: { colour }, shape, size: 3.5 });
   });
   return {
@@ -120,14 +150,19 @@ export function renderTimeDomainSection(data: ReportData, context: RenderContext
   const { schedule, closedLoop } = data;
   const td = schedule.check.timeDomain;
   const figures = figuresAgainstSpeed(schedule);
-  const unstable = schedule.breakpoints.filter((breakpoint) => breakpoint.timeDomain === null).map((breakpoint) => `${fixedNumber(breakpoint.speed_mps, 2)} m/s`);
+  const unstable = schedule.breakpoints
+    .filter((breakpoint) => breakpoint.timeDomain === null)
+    .map((breakpoint) => `${fixedNumber(breakpoint.speed_mps, 2)} m/s`);
   const parts = [
     `<p>The exact sampled closed loop (the firmware's controller equation, its sample time and latency) simulated at each breakpoint: a reference step with the set-point weights b and c, a steering misalignment of the road wheels, a lateral force step` +
       `${schedule.loop.kind === 'path' ? ', a lane change and a curve entry as planned path with the feed-forward on' : ', and a step through the steering angle and rate limits'}. ` +
       `<strong>${td.passed ? 'Every breakpoint keeps the time-domain limits.' : `${td.failures.length} breakpoint${td.failures.length === 1 ? '' : 's'} break a time-domain limit.`}</strong>` +
       `${unstable.length === 0 ? '' : ` No figures at ${escapeHtml(unstable.join(', '))}: the loop is not stable there.`}</p>`,
   ];
-  if (td.failures.length > 0) parts.push(`<ul>${td.failures.map((failure) => `<li>${fixedNumber(failure.speed_mps, 2)} m/s: ${failure.messages.map(escapeHtml).join('; ')}</li>`).join('')}</ul>`);
+  if (td.failures.length > 0)
+    parts.push(
+      `<ul>${td.failures.map((failure) => `<li>${fixedNumber(failure.speed_mps, 2)} m/s: ${failure.messages.map(escapeHtml).join('; ')}</li>`).join('')}</ul>`,
+    );
   parts.push(`<div class="table-scroll">${timeDomainTable(schedule)}</div>`);
   if (figures.length > 0) {
     parts.push(
@@ -140,7 +175,10 @@ export function renderTimeDomainSection(data: ReportData, context: RenderContext
           table: {
             caption: 'Time-domain figures with a limit, per breakpoint',
             header: ['speed m/s', ...figures.flatMap((figure) => figure.series.map((series) => `${figure.name}: ${series.label} ${figure.unit}`))],
-            rows: schedule.breakpoints.map((breakpoint, k) => [numberCell(breakpoint.speed_mps, 'speed_mps', fixedNumber(breakpoint.speed_mps, 2)), ...figures.flatMap((figure) => figure.series.map((series) => numberCell(series.values[k], figure.name)))]),
+            rows: schedule.breakpoints.map((breakpoint, k) => [
+              numberCell(breakpoint.speed_mps, 'speed_mps', fixedNumber(breakpoint.speed_mps, 2)),
+              ...figures.flatMap((figure) => figure.series.map((series) => numberCell(series.values[k], figure.name))),
+            ]),
           },
         },
         context,

@@ -33,7 +33,12 @@ export const SECTIONS: readonly ReportSection[] = [
   { id: 'gains', title: 'Gains against speed', present: () => true, render: renderGainsSection },
   { id: 'margins', title: 'Margins against speed', present: () => true, render: renderMarginsSection },
   { id: 'time-domain', title: 'Time-domain figures and closed-loop responses', present: hasTimeDomain, render: renderTimeDomainSection },
-  { id: 'frequency-response', title: 'Frequency response and Nyquist plots', present: (data) => data.frequencyResponses.length > 0, render: renderFrequencySection },
+  {
+    id: 'frequency-response',
+    title: 'Frequency response and Nyquist plots',
+    present: (data) => data.frequencyResponses.length > 0,
+    render: renderFrequencySection,
+  },
   { id: 'identification', title: 'Identified models against speed', present: (data) => data.models !== null, render: renderIdentificationSection },
   { id: 'step-fits', title: 'Fits over the measured steps', present: (data) => data.stepTraces !== null, render: renderStepsSection },
   { id: 'comparison', title: 'Change from the baseline', present: (data) => data.baseline !== null, render: renderComparisonSection },
