@@ -5,6 +5,7 @@
  */
 import { basename } from 'node:path';
 import { oldGainsOnNewVehicle, summariseOldGainsCheck } from '../build/baseline.js';
+import type { CheckModel } from '../build/check-model.js';
 import { recordedCheckModel } from '../build/recheck-schedule.js';
 import { compareSchedules } from '../compare/compare-schedules.js';
 import { DRIFT_HEADER, SPEED_TABLE_HEADER, WORST_HEADER, driftRows, speedRow, summaryLine, worstRows } from '../compare/comparison-words.js';
@@ -19,6 +20,7 @@ import { loopResponseAt, responseSpeeds } from './frequency-responses.js';
 import { modelPrediction } from './model-prediction.js';
 import { reportCheck, reproducesRecordedCheck, rerunScheduleCheck } from './report-check.js';
 import { closedLoopTraces } from './closed-loop-traces.js';
+import { oldTimeDomainOnNewVehicle } from './old-time-domain.js';
 import { stepTraces } from './step-traces.js';
 import type { GainCurve, ReportBaseline, ReportData } from './types.js';
 import { checkGrid } from '../schedule/grid.js';
@@ -87,7 +89,12 @@ const predictionSpan = (schedule: ScheduleFile, testSpeeds: readonly number[]): 
   Math.max(schedule.check.range.maximum_mps, ...testSpeeds),
 ];
 
-function baselineData(input: NonNullable<ReportInput['baseline']>, schedule: ScheduleFile, testSpeeds: readonly number[]): ReportBaseline {
+function baselineData(
+  input: NonNullable<ReportInput['baseline']>,
+  schedule: ScheduleFile,
+  testSpeeds: readonly number[],
+  model: CheckModel | null,
+): ReportBaseline {
   const computed = input.check === undefined ? oldGainsOnNewVehicle(input.schedule, schedule) : null;
   const check = input.check ?? computed?.check ?? null;
   const verdict = input.check === undefined ? computed!.summary : summariseOldGainsCheck(input.check, input.schedule, schedule.check.model.description);
@@ -99,6 +106,7 @@ function baselineData(input: NonNullable<ReportInput['baseline']>, schedule: Sch
     comparison,
     oldGainsOnNewVehicle: verdict,
     check: check === null ? null : reportCheck(check, `the old gains of ${basename(input.file)} on the new vehicle model`),
+    timeDomain: check === null || model === null ? null : oldTimeDomainOnNewVehicle(input.schedule, schedule, model, check),
     gainCurve: gainCurve(input.schedule, checkSpeeds(schedule)),
     // Drawn on the parameter plots, which need models.json (its test speeds).
     prediction: oldModel === null || testSpeeds.length === 0 ? null : modelPrediction(oldModel, ...predictionSpan(schedule, testSpeeds)),
@@ -160,7 +168,7 @@ export function gatherReportData(input: ReportInput): ReportData {
             logPaths: input.logs.paths,
             ...(input.logs.readOptions === undefined ? {} : { readOptions: input.logs.readOptions }),
           }),
-    baseline: input.baseline === undefined ? null : baselineData(input.baseline, schedule, testSpeeds),
+    baseline: input.baseline === undefined ? null : baselineData(input.baseline, schedule, testSpeeds, model),
     closedLoop: model === null ? null : closedLoopTraces(schedule, model, dense),
   };
 }

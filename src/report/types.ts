@@ -110,6 +110,8 @@ export interface ReportBaseline {
   readonly oldGainsOnNewVehicle: OldGainsOnNewVehicle;
   /** The old gains' dense check on the new model (null when the new schedule records no model to rebuild). */
   readonly check: ReportCheck | null;
+  /** The old gains' time-domain figures on the new model at each breakpoint of the new schedule (null where not stable; null altogether without a model). */
+  readonly timeDomain: readonly (TimeDomainFigures | null)[] | null;
   /** The old schedule's lookup at the new schedule's check speeds. */
   readonly gainCurve: GainCurve;
   /** The old schedule's vehicle model read as FOPDT per speed (null when it records none to rebuild). */

@@ -81,6 +81,14 @@ describe('closed-loop responses in the report', () => {
     }
   });
 
+  it('with a baseline, the old gains are simulated on the new vehicle at the new breakpoints: a schedule as its own baseline gives back exactly the figures it records', () => {
+    for (const data of [yawRate, path]) {
+      const file = `${data.schedule.loop.kind}.json`;
+      const again = gatherReportData({ schedule: data.schedule, scheduleFile: file, baseline: { file, schedule: data.schedule } });
+      expect(JSON.parse(JSON.stringify(again.baseline!.timeDomain))).toEqual(data.schedule.breakpoints.map((breakpoint) => breakpoint.timeDomain));
+    }
+  });
+
   it("thinning keeps each stretch's smallest and largest sample, in time order, and the last sample", () => {
     const ts = 0.001;
     const values = Float64Array.from({ length: 10_001 }, (_, k) => Math.sin(2 * Math.PI * 0.7 * k * ts) * Math.exp(-0.1 * k * ts));

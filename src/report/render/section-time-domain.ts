@@ -71,50 +71,63 @@ interface FigureAgainstSpeed {
   readonly name: string;
   readonly unit: string;
   readonly limit: number;
-  readonly series: readonly { readonly label: string; readonly look: Look; readonly values: readonly (number | null)[] }[];
+  readonly series: readonly {
+    readonly label: string;
+    readonly look: Look;
+    readonly values: readonly (number | null)[];
+    /** The old gains on the new vehicle at the same breakpoints (with a baseline). */
+    readonly old: readonly (number | null)[] | null;
+  }[];
 }
 
-/** The time-domain figures with a limit, against the speed of the breakpoints. */
-function figuresAgainstSpeed(schedule: ScheduleFile): FigureAgainstSpeed[] {
+type Figures = NonNullable<ScheduleFile['breakpoints'][number]['timeDomain']>;
+
+/** The time-domain figures with a limit, against the speed of the breakpoints; `old`: the old gains' figures on the new vehicle. */
+function figuresAgainstSpeed(schedule: ScheduleFile, old: readonly (Figures | null)[] | null): FigureAgainstSpeed[] {
   const { limits } = schedule.check.timeDomain;
-  const of = <T>(pick: (t: NonNullable<ScheduleFile['breakpoints'][number]['timeDomain']>) => T | null | undefined): (T | null)[] =>
-    schedule.breakpoints.map((breakpoint) => (breakpoint.timeDomain === null ? null : (pick(breakpoint.timeDomain) ?? null)));
-  const present = (values: readonly (number | null)[]): boolean => values.some((value) => value !== null);
-  const overshoot: FigureAgainstSpeed['series'][number][] = [
-    { label: 'reference step (with the set-point weights)', look: LOOKS.referenceStep, values: of((t) => t.referenceStep.overshoot_pct) },
-  ];
-  if (schedule.loop.kind === 'heading')
-    overshoot.push({ label: 'step through the steering limits', look: LOOKS.limitedStep, values: of((t) => t.limitedStep?.overshoot_pct) });
+  const ofList = (list: readonly (Figures | null)[], pick: (t: Figures) => number | null | undefined): (number | null)[] =>
+    list.map((figures) => (figures === null ? null : (pick(figures) ?? null)));
+  const series = (label: string, look: Look, pick: (t: Figures) => number | null | undefined): FigureAgainstSpeed['series'][number] => ({
+    label,
+    look,
+    values: ofList(
+      schedule.breakpoints.map((breakpoint) => breakpoint.timeDomain),
+      pick,
+    ),
+    old: old === null ? null : ofList(old, pick),
+  });
+  const present = (entry: FigureAgainstSpeed['series'][number]): boolean => entry.values.some((value) => value !== null);
+  const overshoot = [series('reference step (with the set-point weights)', LOOKS.referenceStep, (t) => t.referenceStep.overshoot_pct)];
+  if (schedule.loop.kind === 'heading') overshoot.push(series('step through the steering limits', LOOKS.limitedStep, (t) => t.limitedStep?.overshoot_pct));
   const figures: FigureAgainstSpeed[] = [
-    { name: 'overshoot', unit: '%', limit: limits.maximumOvershoot_pct, series: overshoot.filter((series) => present(series.values)) },
+    { name: 'overshoot', unit: '%', limit: limits.maximumOvershoot_pct, series: overshoot.filter(present) },
     {
       name: 'recovery time',
       unit: 's',
       limit: limits.maximumRecoveryTime_s,
       series: [
-        { label: 'steering misalignment', look: LOOKS.steeringMisalignment, values: of((t) => t.steeringMisalignment.recoveryTime_s) },
-        { label: 'lateral force step', look: LOOKS.lateralForce, values: of((t) => t.lateralForce?.recoveryTime_s) },
-      ].filter((series) => present(series.values)),
+        series('steering misalignment', LOOKS.steeringMisalignment, (t) => t.steeringMisalignment.recoveryTime_s),
+        series('lateral force step', LOOKS.lateralForce, (t) => t.lateralForce?.recoveryTime_s),
+      ].filter(present),
     },
     {
       name: 'lane-change error',
       unit: 'm',
       limit: limits.maximumLaneChangeError_m,
-      series: [{ label: 'largest error while changing lane', look: LOOKS.laneChange, values: of((t) => t.laneChange?.peakError_m) }].filter((series) =>
-        present(series.values),
-      ),
+      series: [series('largest error while changing lane', LOOKS.laneChange, (t) => t.laneChange?.peakError_m)].filter(present),
     },
     {
       name: 'curve-entry error',
       unit: 'm',
       limit: limits.maximumCurveEntryError_m,
-      series: [{ label: 'largest error from 3 s after entry on', look: LOOKS.curveEntry, values: of((t) => t.curveEntry?.errorAfterSettle_m) }].filter(
-        (series) => present(series.values),
-      ),
+      series: [series('largest error from 3 s after entry on', LOOKS.curveEntry, (t) => t.curveEntry?.errorAfterSettle_m)].filter(present),
     },
   ];
   return figures.filter((figure) => figure.series.length > 0);
 }
+
+/** Markers of the old gains' series, by the series' place in its panel (all in the baseline's colour). */
+const OLD_SHAPES = ['open-circle', 'plus', 'cross'] as const;
 
 /** One figure against speed. */
 function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpec {
@@ -123,7 +136,19 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
     { kind: 'region', label: 'beyond the limit', axis: 'y', from: figure.limit, to: 'max', colour: ROLE_COLOURS.failure },
     { kind: 'rule', label: 'limit', axis: 'y', at: figure.limit, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } },
   ];
-  figure.series.forEach((series) => {
+  figure.series.forEach((series, k) => {
+    if (series.old !== null && series.old.some((value) => value !== null)) {
+      const label = `${series.label}: old gains on the new vehicle`;
+      marks.push({
+        kind: 'points',
+        label,
+        x: speeds,
+        y: series.old,
+        style: { colour: ROLE_COLOURS.baseline },
+        shape: OLD_SHAPES[k % OLD_SHAPES.length],
+        size: 4.5,
+      });
+    }
     const { colour, shape } = series.look;
     marks.push({
       kind: 'line',
@@ -149,7 +174,8 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
 export function renderTimeDomainSection(data: ReportData, context: RenderContext): string {
   const { schedule, closedLoop } = data;
   const td = schedule.check.timeDomain;
-  const figures = figuresAgainstSpeed(schedule);
+  const old = data.baseline?.timeDomain ?? null;
+  const figures = figuresAgainstSpeed(schedule, old);
   const unstable = schedule.breakpoints
     .filter((breakpoint) => breakpoint.timeDomain === null)
     .map((breakpoint) => `${fixedNumber(breakpoint.speed_mps, 2)} m/s`);
@@ -169,15 +195,28 @@ export function renderTimeDomainSection(data: ReportData, context: RenderContext
       renderFigure(
         {
           id: 'figure-time-domain-figures',
-          caption: 'Time-domain figures at the breakpoints against speed, with their limits.',
+          caption: `Time-domain figures at the breakpoints against speed, with their limits${old === null ? '' : ', and the old gains on the new vehicle at the same speeds'}.`,
           panels: figures.map((figure) => speedPanel(schedule, figure)),
           layout: 'row',
           table: {
             caption: 'Time-domain figures with a limit, per breakpoint',
-            header: ['speed m/s', ...figures.flatMap((figure) => figure.series.map((series) => `${figure.name}: ${series.label} ${figure.unit}`))],
+            header: [
+              'speed m/s',
+              ...figures.flatMap((figure) =>
+                figure.series.flatMap((series) => [
+                  `${figure.name}: ${series.label} ${figure.unit}`,
+                  ...(series.old === null ? [] : [`old gains on the new vehicle ${figure.unit}`]),
+                ]),
+              ),
+            ],
             rows: schedule.breakpoints.map((breakpoint, k) => [
               numberCell(breakpoint.speed_mps, 'speed_mps', fixedNumber(breakpoint.speed_mps, 2)),
-              ...figures.flatMap((figure) => figure.series.map((series) => numberCell(series.values[k], figure.name))),
+              ...figures.flatMap((figure) =>
+                figure.series.flatMap((series) => [
+                  numberCell(series.values[k], figure.name),
+                  ...(series.old === null ? [] : [numberCell(series.old[k], `old.${figure.name}`)]),
+                ]),
+              ),
             ]),
           },
         },
