@@ -66,7 +66,7 @@ describe('fitStepModel with linearInGain (variable projection)', () => {
       const { time_s, input } = signals;
       const definition = {
         names: ['gain', 'timeConstant_s', 'deadTime_s'],
-        simulate: (p: readonly number[]) => simulateFopdt(time_s, input, p[0], p[1], p[2], 'linear'),
+        simulate: (p: readonly number[]) => simulateFopdt({ time_s, input, gain: p[0], timeConstant_s: p[1], deadTime_s: p[2], hold: 'linear' }),
         starts: [[2, 0.3, 0.1]],
         maxRuns: 1,
         scale: [2, 0.3, 0.05],
@@ -89,7 +89,7 @@ describe('fitStepModel with linearInGain (variable projection)', () => {
         signals,
         {
           names: ['gain', 'timeConstant_s', 'deadTime_s'],
-          simulate: (p) => simulateFopdt(signals.time_s, signals.input, p[0], p[1], p[2], 'linear'),
+          simulate: (p) => simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: p[0], timeConstant_s: p[1], deadTime_s: p[2], hold: 'linear' }),
           starts: [[2, 0.3, 0.1]],
           maxRuns: 1,
           scale: [2, 0.3, 0.05],
