@@ -63,7 +63,7 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
   const discrete = loop.discreteController ?? null;
   const plant = discrete === null ? null : sampledPlant({ numerator, denominator, delay_s: loop.delay_s }, discrete.sampleTime_s);
-  const sweep = sweepLoop(numerator, denominator, loop.delay_s, discrete, true, plant);
+  const sweep = sweepLoop({ numerator, denominator, delay_s: loop.delay_s, discreteController: discrete, sampledPlant: plant, crossings: 'gainAndPhase' });
   const decision = discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep);
   const { verdict } = decision;
   const stable = verdict === 'stable';
@@ -124,7 +124,7 @@ function stableWithAddedDelay(loop: OpenLoop, added_s: number, sweep: Sweep, nom
   const discrete = loop.discreteController ?? null;
   const delay_s = loop.delay_s + added_s;
   if (discrete === null || nominal === null) {
-    const trial = sweepLoop(loop.numerator, loop.denominator, delay_s, null, false);
+    const trial = sweepLoop({ numerator: loop.numerator, denominator: loop.denominator, delay_s, discreteController: null, sampledPlant: null, crossings: 'phaseOnly' });
     return continuousDecision(loop.numerator, loop.denominator, delay_s, trial).verdict === 'stable';
   }
   // Whole samples added: z^(−k) on the nominal sampled plant, exactly, without a new discretisation.

@@ -36,20 +36,31 @@ export function cancelCommonIntegrators(numerator: readonly number[], denominato
   return { numerator: numerator.slice(0, n), denominator: denominator.slice(0, d) };
 }
 
+/** Which crossings a sweep looks for: the negative-real-axis (phase) crossings always, the gain crossovers when asked. */
+export type SweepCrossings = 'gainAndPhase' | 'phaseOnly';
+
+/** The loop N(s)/D(s)·e^(−θs), under a discrete controller or not, to sweep. */
+export interface SweepRequest {
+  /** Coefficients of N and D, highest power first. */
+  readonly numerator: readonly number[];
+  readonly denominator: readonly number[];
+  /** θ, s. */
+  readonly delay_s: number;
+  /** The discrete controller closing the loop, or null for a continuous loop. */
+  readonly discreteController: OpenLoop['discreteController'] | null;
+  /** The zero-order-hold equivalent of N/D·e^(−θs) at the controller's sample time (with a discrete controller), or null. */
+  readonly sampledPlant: SampledPlant | null;
+  readonly crossings: SweepCrossings;
+}
+
 /**
  * Roots of N and D (|Re| ≤ 1e−9·max(1, largest |root|) is on the axis), the band and grid,
- * gain crossovers (when asked) and the negative-real-axis crossings that can matter. With a
- * discrete controller and `sampledPlant` (the zero-order-hold equivalent of N/D·e^(−θs)) the
- * loop is swept exactly on C(e^(jωTs))·G(e^(jωTs)) up to π/Ts.
+ * gain crossovers (with `crossings: 'gainAndPhase'`) and the negative-real-axis crossings that
+ * can matter. With a discrete controller and `sampledPlant` the loop is swept exactly on
+ * C(e^(jωTs))·G(e^(jωTs)) up to π/Ts.
  */
-export function sweepLoop(
-  numerator: readonly number[],
-  denominator: readonly number[],
-  delay_s: number,
-  discrete: OpenLoop['discreteController'] | null,
-  withGainCrossovers: boolean,
-  sampledPlant: SampledPlant | null = null,
-): Sweep {
+export function sweepLoop(request: SweepRequest): Sweep {
+  const { numerator, denominator, delay_s, discreteController: discrete, sampledPlant } = request;
   const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? analysisRoots(numerator) : [];
   const poles: Complex[] = denominator.length > 1 ? analysisRoots(denominator) : [];
   const axisTolerance = axisToleranceOf([...zeros, ...poles]);
@@ -67,7 +78,7 @@ export function sweepLoop(
     compiled,
     grid,
     band,
-    gainCrossovers: withGainCrossovers ? findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance) : [],
+    gainCrossovers: request.crossings === 'gainAndPhase' ? findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance) : [],
     phaseCrossovers: findPhaseCrossovers(compiled, grid, {
       relativeTolerance: ANALYSIS_DEFAULTS.frequencyRelativeTolerance,
       refineAbove: ANALYSIS_DEFAULTS.refineAbove,
