@@ -100,7 +100,7 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   const warnings = speeds.flatMap((s) => s.warnings);
   if (options.jointFit) {
     progress('identify: joint single-track fit\n');
-    const joint = fitSingleTrack(vehicle, usedSteps, speeds, actuator, options.jointMismatchWarning_pct);
+    const joint = fitSingleTrack({ vehicle, steps: usedSteps, speeds, actuator, mismatchWarning_pct: options.jointMismatchWarning_pct });
     if ('reasonCode' in joint) {
       singleTrackRefusal = joint;
     } else {

@@ -99,8 +99,8 @@ describe('simulateThirdOrderHeld with a delay derivative and a shared update cac
   it('∂y/∂θ matches central differences of the simulation', () => {
     const input = randomCommand(5);
     const derivative = new Float64Array(n);
-    simulateThirdOrderHeld(time_s, input, numerator, denominator, 0.0437, new Float64Array(n), new Float64Array(3 * n), newHoldUpdateCache(), derivative);
-    const numeric = centralDifference((d) => simulateThirdOrderHeld(time_s, input, numerator, denominator, d), 0.0437, 1e-7);
+    simulateThirdOrderHeld({ time_s, input, numerator, denominator, delay_s: 0.0437, cache: newHoldUpdateCache(), delayDerivative: derivative });
+    const numeric = centralDifference((d) => simulateThirdOrderHeld({ time_s, input, numerator, denominator, delay_s: d }), 0.0437, 1e-7);
     const { worst, size } = worstDifference(derivative, numeric);
     expect(worst).toBeLessThan(1e-6 * size);
   });
@@ -111,8 +111,8 @@ describe('simulateThirdOrderHeld with a delay derivative and a shared update cac
       const input = randomCommand(10 + k);
       const den = [1, 25 + (k % 3), 180, 900 + 50 * (k % 2)] as const;
       const delay = 0.03 + 0.0071 * (k % 4);
-      const shared = simulateThirdOrderHeld(time_s, input, numerator, den, delay, new Float64Array(n), new Float64Array(3 * n), cache);
-      const fresh = simulateThirdOrderHeld(time_s, input, numerator, den, delay);
+      const shared = simulateThirdOrderHeld({ time_s, input, numerator, denominator: den, delay_s: delay, cache });
+      const fresh = simulateThirdOrderHeld({ time_s, input, numerator, denominator: den, delay_s: delay });
       expect(Array.from(shared)).toEqual(Array.from(fresh));
     }
   });
