@@ -35,10 +35,16 @@ export interface GridSettings {
  */
 export function frequencyBand(
   loop: CompiledLoopResponse,
-  originPoles: number,
-  strictlyProper: boolean,
+  shape: {
+    /** Poles of L at the origin. */
+    readonly originPoles: number;
+    /** 'strictlyProper': deg N < deg D, so |L| falls at high frequency. */
+    readonly properness: 'strictlyProper' | 'proper';
+  },
   settings: GridSettings,
 ): { readonly low_radps: number; readonly high_radps: number } {
+  const { originPoles } = shape;
+  const strictlyProper = shape.properness === 'strictlyProper';
   let smallest = Infinity;
   let largest = 0;
   const note = (size: number): void => {

@@ -164,7 +164,13 @@ export function sampledNyquistCount(
     else if (Math.abs(size - 1) <= SETTINGS.circleTolerance) return undetermined('a controller pole on the unit circle away from z = 1');
     else if (size > 1) outside++;
   }
-  const response = compilePulseResponse(options.pulseNumerator ?? pulseTransferFunction(plant).numerator, plantPoles.poles, plant.sampleTime_s, controller, plant.wholeSampleDelay);
+  const response = compilePulseResponse({
+    pulseNumerator: options.pulseNumerator ?? pulseTransferFunction(plant).numerator,
+    continuousPoles: plantPoles.poles,
+    sampleTime_s: plant.sampleTime_s,
+    controller,
+    wholeSampleDelay: plant.wholeSampleDelay,
+  });
   const start = unitPoles > 0 ? SETTINGS.detourAngle_rad : 0;
   const grid: number[] = [start];
   if (unitPoles > 0) {

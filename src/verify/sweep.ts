@@ -71,8 +71,15 @@ export function sweepLoop(request: SweepRequest): Sweep {
     // Lightly damped roots: make sure the grid sees their resonance or notch.
     if (r.im > Math.abs(r.re)) extraFrequencies.push(r.im - Math.abs(r.re), r.im, r.im + Math.abs(r.re));
   }
-  const compiled = compileLoopResponse(numerator, denominator, delay_s, { zeros, poles, axisTolerance }, discrete ?? null, sampledPlant);
-  const band = frequencyBand(compiled, originPoles, numerator.length < denominator.length, ANALYSIS_DEFAULTS.grid);
+  const compiled = compileLoopResponse({
+    numerator,
+    denominator,
+    delay_s,
+    roots: { zeros, poles, axisTolerance },
+    discreteController: discrete ?? null,
+    sampledPlant,
+  });
+  const band = frequencyBand(compiled, { originPoles, properness: numerator.length < denominator.length ? 'strictlyProper' : 'proper' }, ANALYSIS_DEFAULTS.grid);
   const grid = sampleLoop(compiled, band, extraFrequencies, ANALYSIS_DEFAULTS.grid);
   return {
     compiled,
