@@ -159,7 +159,7 @@ function judgePoles(result: ReturnType<typeof eigenvalues>, size: number, sample
     if (im < 0) continue; // the pair's upper member stands for both
     const magnitude = Math.hypot(re, im);
     if (re <= 0) highFrequency = Math.max(highFrequency, magnitude);
-    const bound = Math.abs(magnitude - 1) > CONDITION_WITHIN ? 0 : Math.min(eigenvalueCondition(result.hessenberg, size, re, im, result.norm) * eta, Number.MAX_VALUE);
+    const bound = Math.abs(magnitude - 1) > CONDITION_WITHIN ? 0 : Math.min(eigenvalueCondition(result, size, { re, im }) * eta, Number.MAX_VALUE);
     const pole: ClosedLoopPole = { re, im, magnitude, errorBound: bound };
     if (largest === null || magnitude > largest.magnitude) largest = pole;
     if (magnitude - bound > 1) outside = true;
