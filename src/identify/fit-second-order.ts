@@ -68,17 +68,7 @@ export function fitSecondOrder(signals: StepSignals, request: SecondOrderFitRequ
     seed.kind === 'second-order'
       ? [withZero ? [seed.gain, seed.naturalFrequency_radps, seed.dampingRatio, 0, theta] : [seed.gain, seed.naturalFrequency_radps, seed.dampingRatio, theta]]
       : SECOND.startDampingRatios.map(fromFopdt);
-  const simulate = (p: readonly number[]): Float64Array =>
-    simulateSecondOrder({
-      time_s,
-      input,
-      gain: p[0],
-      naturalFrequency_radps: p[1],
-      dampingRatio: p[2],
-      zeroTimeConstant_s: withZero ? p[3] : 0,
-      deadTime_s: withZero ? p[4] : p[3],
-      hold,
-    });
+  const simulate = (p: readonly number[]): Float64Array => simulateSecondOrder({ time_s, input, ...modelOf(p, withZero), hold });
   const gainScale = Math.max(Math.abs(seed.gain), SECOND.gainScaleFloor);
   const deadTimeUpper_s = window_s * SECOND.deadTimeUpperWindowFraction;
   const { naturalFrequencyMin_radps: wMin, naturalFrequencyMax_radps: wMax, dampingRatioMin: zMin, dampingRatioMax: zMax } = SECOND;
@@ -100,17 +90,17 @@ export function fitSecondOrder(signals: StepSignals, request: SecondOrderFitRequ
     biasMode,
     SECOND.maxIterations,
   );
-  const p = fit.parameters;
+  return { model: modelOf(fit.parameters, withZero), fit, withZero };
+}
+
+/** The model of the fitted parameters [K, ωn, ζ, (β,) θ]: β = 0 when the fit has no zero. */
+function modelOf(p: readonly number[], withZero: boolean): SecondOrderModel {
   return {
-    model: {
-      kind: 'second-order',
-      gain: p[0],
-      naturalFrequency_radps: p[1],
-      dampingRatio: p[2],
-      zeroTimeConstant_s: withZero ? p[3] : 0,
-      deadTime_s: withZero ? p[4] : p[3],
-    },
-    fit,
-    withZero,
+    kind: 'second-order',
+    gain: p[0],
+    naturalFrequency_radps: p[1],
+    dampingRatio: p[2],
+    zeroTimeConstant_s: withZero ? p[3] : 0,
+    deadTime_s: withZero ? p[4] : p[3],
   };
 }

@@ -46,10 +46,7 @@ export const LEVENBERG_MARQUARDT_DAMPING = {
   /** Damping at this size means no step helps any more: the fit counts as converged. */
   maximum: 1e7,
 } as const;
-const DAMPING_STEP_UP = LEVENBERG_MARQUARDT_DAMPING.stepUp;
-const DAMPING_STEP_DOWN = LEVENBERG_MARQUARDT_DAMPING.stepDown;
-const MIN_DAMPING = LEVENBERG_MARQUARDT_DAMPING.minimum;
-const MAX_DAMPING = LEVENBERG_MARQUARDT_DAMPING.maximum;
+const { stepUp: DAMPING_STEP_UP, stepDown: DAMPING_STEP_DOWN, minimum: MIN_DAMPING, maximum: MAX_DAMPING } = LEVENBERG_MARQUARDT_DAMPING;
 
 export type StopReason = 'converged' | 'iterationCap' | 'nonFinite';
 

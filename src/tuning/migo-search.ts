@@ -55,12 +55,14 @@ export const MIGO_SEARCH_DEFAULTS = {
   /** Grid points refined separately before the best is refined further. */
   refinedCandidates: 3,
 } as const;
-const KP_GRID = MIGO_SEARCH_DEFAULTS.kpGrid;
-const KD_GRID = MIGO_SEARCH_DEFAULTS.kdGrid;
-const FINE_KP_STEP = MIGO_SEARCH_DEFAULTS.fineKpStep;
-const FINE_KD_STEP = MIGO_SEARCH_DEFAULTS.fineKdStep;
-const BISECTION_STEPS = MIGO_SEARCH_DEFAULTS.bisectionSteps;
-const REFINED_CANDIDATES = MIGO_SEARCH_DEFAULTS.refinedCandidates;
+const {
+  kpGrid: KP_GRID,
+  kdGrid: KD_GRID,
+  fineKpStep: FINE_KP_STEP,
+  fineKdStep: FINE_KD_STEP,
+  bisectionSteps: BISECTION_STEPS,
+  refinedCandidates: REFINED_CANDIDATES,
+} = MIGO_SEARCH_DEFAULTS;
 
 export function maximiseIntegralGain(input: MigoSearchInput): MigoSearchResult {
   const { response, bounds, structure, sign } = input;

@@ -23,9 +23,7 @@ export const MIGO_EXACT_CHECK_DEFAULTS = {
   /** ki × this at each step. */
   shrinkFactor: 0.97,
 } as const;
-const EXACT_TOLERANCE = MIGO_EXACT_CHECK_DEFAULTS.peakTolerance;
-const EXACT_PHASE_TOLERANCE_deg = MIGO_EXACT_CHECK_DEFAULTS.phaseTolerance_deg;
-const SHRINK_STEPS = MIGO_EXACT_CHECK_DEFAULTS.shrinkSteps;
+const { peakTolerance: EXACT_TOLERANCE, phaseTolerance_deg: EXACT_PHASE_TOLERANCE_deg, shrinkSteps: SHRINK_STEPS } = MIGO_EXACT_CHECK_DEFAULTS;
 
 /**
  * MIGO (Åström, Panagopoulos & Hägglund 1998; Åström & Hägglund 2006, Advanced PID Control, §7.4): of all PI
