@@ -138,15 +138,16 @@ function stableWithAddedDelay(loop: OpenLoop, added_s: number, sweep: Sweep, nom
 }
 
 /**
- * Whether a fraction of a sample of delay may matter anywhere below two samples: |L| reaches 0.5 in the upper half
- * of a sampled loop's band (π/(2Ts) … π/Ts), or a closed-loop pole at high frequency (|arg z| ≥ π/2) lies within
- * 0.1 of the unit circle (or the poles are not known).
+ * Whether a fraction of a sample of delay may matter anywhere below two samples: |L| reaches
+ * `upperBandMagnitude` (0.5) in the upper half of a sampled loop's band (π/(2Ts) … π/Ts), or a closed-loop pole
+ * at high frequency (|arg z| ≥ π/2) has |z| ≥ `highFrequencyPoleMagnitude` (0.9: within 0.1 of the unit circle),
+ * or the poles are not known.
  */
 function fractionSensitive(sweep: Sweep, sampleTime_s: number, highFrequencyPole: number | null): boolean {
   if (highFrequencyPole === null || highFrequencyPole >= ANALYSIS_DEFAULTS.delayMargin.highFrequencyPoleMagnitude) return true;
   const { frequency_radps: w, magnitude } = sweep.grid;
   const from = Math.PI / (2 * sampleTime_s);
-  for (let i = w.length - 1; i >= 0 && w[i] >= from; i--) if (magnitude[i] >= 0.5) return true;
+  for (let i = w.length - 1; i >= 0 && w[i] >= from; i--) if (magnitude[i] >= ANALYSIS_DEFAULTS.delayMargin.upperBandMagnitude) return true;
   return false;
 }
 
