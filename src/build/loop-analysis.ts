@@ -23,7 +23,7 @@ export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, con
     const plant =
       operatingPoint.kind === 'single-track'
         ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
-        : loopPlantFromLumped(loop, operatingPoint.yawRate, speed_mps, controller, operatingPoint.cgToFrontAxle_m);
+        : loopPlantFromLumped({ specification: loop, model: operatingPoint.yawRate, speed_mps, controller, cgToFrontAxle_m: operatingPoint.cgToFrontAxle_m });
     return analyseSampledLoop(plant, gains, controller);
   };
 }
