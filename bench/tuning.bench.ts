@@ -30,7 +30,7 @@ const rulesMs = await timeMs(() => {
 printFigure('rule formulas (ZN ultimate, IMC-PID, SIMC), per second', (ruleCount / rulesMs) * 1000, 'rules/s');
 
 const designMs = await timeMs(() => {
-  for (const speed of speeds) designModelFromSingleTrack('path', van, speed, 0.01);
+  for (const speed of speeds) designModelFromSingleTrack({ kind: 'path', parameters: van, speed_mps: speed, controllerDelay_s: 0.01 });
 });
 printFigure('design model from the single-track model (two-point FOPDT)', designMs / speeds.length, 'ms/speed');
 

@@ -26,7 +26,7 @@ export function checkLoopPlant(model: CheckModel, loop: LoopSpecification, contr
   requireBoundedDelay(modelDelay_s(operatingPoint), controller, speed_mps);
   return operatingPoint.kind === 'single-track'
     ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
-    : loopPlantFromLumped(loop, operatingPoint.yawRate, speed_mps, controller, operatingPoint.cgToFrontAxle_m);
+    : loopPlantFromLumped({ specification: loop, model: operatingPoint.yawRate, speed_mps, controller, cgToFrontAxle_m: operatingPoint.cgToFrontAxle_m });
 }
 
 /**

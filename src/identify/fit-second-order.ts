@@ -20,25 +20,58 @@ export interface SecondOrderFit {
   readonly withZero: boolean;
 }
 
-/** Iteration cap of the second-order fits (β and θ trade off slowly; a capped fit is simply not chosen). */
-const SECOND_ORDER_MAX_ITERATIONS = 60;
+/** Starts, bounds and scales of the second-order fits (our choice, set on the synthetic and demo steps). */
+export const SECOND_ORDER_FIT_DEFAULTS = {
+  /** Iteration cap (β and θ trade off slowly; a capped fit is simply not chosen). */
+  maxIterations: 60,
+  /** The seed's sum of time constants (τ of the FOPDT, 2ζ/ωn of a second-order seed) is at least this, s. */
+  seedTimeConstantFloor_s: 0.01,
+  /** ζ of the two starts from an FOPDT seed (2ζ/ωn = τ at each). */
+  startDampingRatios: [1, 0.6],
+  /** Scales: |K| of the seed (at least gainScaleFloor), 2/τ for ωn, 1 for ζ, max(τ, zeroTimeConstantScaleFloor_s) for β, deadTimeScale_s for θ. */
+  gainScaleFloor: 1e-6,
+  zeroTimeConstantScaleFloor_s: 0.05,
+  deadTimeScale_s: 0.05,
+  /** Bounds of ωn (rad/s) and ζ; β within ± the window, θ from 0 to window · deadTimeUpperWindowFraction. */
+  naturalFrequencyMin_radps: 1e-3,
+  naturalFrequencyMax_radps: 1e3,
+  dampingRatioMin: 0.05,
+  dampingRatioMax: 20,
+  deadTimeUpperWindowFraction: 0.5,
+} as const;
+const SECOND = SECOND_ORDER_FIT_DEFAULTS;
+
+/** What a second-order fit of one step starts from and how it treats the data. */
+export interface SecondOrderFitRequest {
+  /** The step's FOPDT fit, or a second-order fit without zero (then one start with β = 0). */
+  readonly seed: FopdtModel | SecondOrderModel;
+  /** Fit the numerator zero β too. */
+  readonly withZero: boolean;
+  readonly biasMode: BiasMode;
+  /** How the logged command is taken between samples. */
+  readonly hold: CommandHold;
+}
 
 /** Fit the second-order model (with a zero when `withZero`), seeded from an FOPDT fit or a second-order fit without zero. Units: ωn rad/s, β and θ s. */
-export function fitSecondOrder(signals: StepSignals, seed: FopdtModel | SecondOrderModel, withZero: boolean, biasMode: BiasMode, hold: CommandHold): SecondOrderFit {
+export function fitSecondOrder(signals: StepSignals, request: SecondOrderFitRequest): SecondOrderFit {
+  const { seed, withZero, biasMode, hold } = request;
   const { time_s, input } = signals;
   const n = time_s.length;
   const window_s = time_s[n - 1] - time_s[0];
-  const tau = seed.kind === 'fopdt' ? Math.max(seed.timeConstant_s, 0.01) : Math.max((2 * seed.dampingRatio) / seed.naturalFrequency_radps, 0.01);
+  const tau =
+    seed.kind === 'fopdt'
+      ? Math.max(seed.timeConstant_s, SECOND.seedTimeConstantFloor_s)
+      : Math.max((2 * seed.dampingRatio) / seed.naturalFrequency_radps, SECOND.seedTimeConstantFloor_s);
   const theta = Math.max(seed.deadTime_s, 0);
   const fromFopdt = (zeta: number): number[] => (withZero ? [seed.gain, (2 * zeta) / tau, zeta, 0, theta] : [seed.gain, (2 * zeta) / tau, zeta, theta]);
   const starts =
     seed.kind === 'second-order'
       ? [withZero ? [seed.gain, seed.naturalFrequency_radps, seed.dampingRatio, 0, theta] : [seed.gain, seed.naturalFrequency_radps, seed.dampingRatio, theta]]
-      : [fromFopdt(1), fromFopdt(0.6)];
-  const simulate = withZero
-    ? (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], p[3], p[4], hold)
-    : (p: readonly number[]) => simulateSecondOrder(time_s, input, p[0], p[1], p[2], 0, p[3], hold);
-  const gainScale = Math.max(Math.abs(seed.gain), 1e-6);
+      : SECOND.startDampingRatios.map(fromFopdt);
+  const simulate = (p: readonly number[]): Float64Array => simulateSecondOrder({ time_s, input, ...modelOf(p, withZero), hold });
+  const gainScale = Math.max(Math.abs(seed.gain), SECOND.gainScaleFloor);
+  const deadTimeUpper_s = window_s * SECOND.deadTimeUpperWindowFraction;
+  const { naturalFrequencyMin_radps: wMin, naturalFrequencyMax_radps: wMax, dampingRatioMin: zMin, dampingRatioMax: zMax } = SECOND;
   const fit = fitStepModel(
     signals,
     {
@@ -48,24 +81,26 @@ export function fitSecondOrder(signals: StepSignals, seed: FopdtModel | SecondOr
       simulate,
       starts,
       maxRuns: seed.kind === 'fopdt' && withZero ? 2 : 1,
-      scale: withZero ? [gainScale, 2 / tau, 1, Math.max(tau, 0.05), 0.05] : [gainScale, 2 / tau, 1, 0.05],
-      lower: withZero ? [-Infinity, 1e-3, 0.05, -window_s, 0] : [-Infinity, 1e-3, 0.05, 0],
-      upper: withZero ? [Infinity, 1e3, 20, window_s, window_s / 2] : [Infinity, 1e3, 20, window_s / 2],
+      scale: withZero
+        ? [gainScale, 2 / tau, 1, Math.max(tau, SECOND.zeroTimeConstantScaleFloor_s), SECOND.deadTimeScale_s]
+        : [gainScale, 2 / tau, 1, SECOND.deadTimeScale_s],
+      lower: withZero ? [-Infinity, wMin, zMin, -window_s, 0] : [-Infinity, wMin, zMin, 0],
+      upper: withZero ? [Infinity, wMax, zMax, window_s, deadTimeUpper_s] : [Infinity, wMax, zMax, deadTimeUpper_s],
     },
     biasMode,
-    SECOND_ORDER_MAX_ITERATIONS,
+    SECOND.maxIterations,
   );
-  const p = fit.parameters;
+  return { model: modelOf(fit.parameters, withZero), fit, withZero };
+}
+
+/** The model of the fitted parameters [K, ωn, ζ, (β,) θ]: β = 0 when the fit has no zero. */
+function modelOf(p: readonly number[], withZero: boolean): SecondOrderModel {
   return {
-    model: {
-      kind: 'second-order',
-      gain: p[0],
-      naturalFrequency_radps: p[1],
-      dampingRatio: p[2],
-      zeroTimeConstant_s: withZero ? p[3] : 0,
-      deadTime_s: withZero ? p[4] : p[3],
-    },
-    fit,
-    withZero,
+    kind: 'second-order',
+    gain: p[0],
+    naturalFrequency_radps: p[1],
+    dampingRatio: p[2],
+    zeroTimeConstant_s: withZero ? p[3] : 0,
+    deadTime_s: withZero ? p[4] : p[3],
   };
 }

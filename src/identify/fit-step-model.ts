@@ -198,7 +198,7 @@ function projectedSearch(definition: StepModelDefinition, output: Float64Array, 
               if (scratch.length < k) scratch.push(new Float64Array(unit.length));
               const column = scratch[k - 1];
               for (let i = 0; i < unit.length; i++) column[i] = gain * columns[k][i];
-              kaufman.push(projectOrthogonal(column, unit, fixedBias === null));
+              kaufman.push(projectOrthogonal(column, unit, fixedBias === null ? 'slopeAndOffset' : 'slopeOnly'));
             }
             return kaufman;
           },

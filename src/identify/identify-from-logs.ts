@@ -8,13 +8,14 @@ import type { LogChannelSource, RejectedStep, StepTest } from '../log/types.js';
 import { channelObservations } from './channel-observations.js';
 import { requireConsistentChannels } from './channel-scales.js';
 import { loadVehicle, resolveVehiclePath } from '../vehicle/load.js';
+import type { Vehicle } from '../vehicle/types.js';
 import { VERSION } from '../version.js';
-import { identifyActuator } from './actuator.js';
+import { identifyActuator, type ActuatorIdentification } from './actuator.js';
 import { aggregateSpeed, groupBySpeed } from './aggregate.js';
 import { IDENTIFY_DEFAULTS, type IdentifyOptions } from './defaults.js';
 import { identifyStep, type StepIdentification } from './identify-step.js';
 import { truncateStep } from './step-signals.js';
-import { fitSingleTrack } from './joint-single-track.js';
+import { fitSingleTrack, type SingleTrackFit } from './joint-single-track.js';
 import { refusedTestRecord, speedRecord, testRecord } from './models-records.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, type ModelsFile, type SingleTrackRecord } from './models-schema.js';
 
@@ -53,16 +54,7 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
 
   const inputs = canonicalLogOrder(expandLogPaths(input.logPaths));
   const logPaths = inputs.map((entry) => entry.file);
-  const steps: StepTest[] = [];
-  const rejected: RejectedStep[] = [];
-  let channels: readonly LogChannelSource[] = [];
-  for (const file of logPaths) {
-    const log = readSteerLog(file, { steeringRatio: vehicle.steeringRatio, ...input.readOptions });
-    if (channels.length === 0) channels = log.channels ?? [];
-    const search = findStepTests(log, { maxSteerAngle_rad: vehicle.maxSteerAngle_rad });
-    steps.push(...search.steps.map((step) => truncateStep(step, options.maxHold_s)));
-    rejected.push(...search.rejected);
-  }
+  const { steps, rejected, channels } = readSteps(logPaths, vehicle, { readOptions: input.readOptions, maxHold_s: options.maxHold_s });
   if (steps.length === 0) {
     throw new SpeedbandError('identify.noSteps', `no step-steer event was found in ${logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`, {
       location: { file: logPaths[0] },
@@ -101,26 +93,12 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   const warnings = speeds.flatMap((s) => s.warnings);
   if (options.jointFit) {
     progress('identify: joint single-track fit\n');
-    const joint = fitSingleTrack(vehicle, usedSteps, speeds, actuator, options.jointMismatchWarning_pct);
+    const joint = fitSingleTrack({ vehicle, steps: usedSteps, speeds, actuator, mismatchWarning_pct: options.jointMismatchWarning_pct });
     if ('reasonCode' in joint) {
       singleTrackRefusal = joint;
     } else {
       warnings.push(...joint.warnings);
-      singleTrack = {
-        frontCorneringStiffness_NPerRad: joint.parameters.frontCorneringStiffness_NPerRad,
-        rearCorneringStiffness_NPerRad: joint.parameters.rearCorneringStiffness_NPerRad,
-        actuatorLag_s: joint.parameters.actuatorLag_s,
-        actuatorDelay_s: joint.parameters.actuatorDelay_s,
-        understeerGradient_radPerMps2: joint.understeerGradient_radPerMps2,
-        ci95: joint.ci95,
-        characteristicSpeed_mps: joint.characteristicSpeed_mps,
-        criticalSpeed_mps: joint.criticalSpeed_mps,
-        r2: joint.r2,
-        rmse: joint.rmse,
-        stepCount: joint.stepCount,
-        stopReason: joint.stopReason,
-        comparison: joint.comparison,
-      };
+      singleTrack = singleTrackRecord(joint);
     }
   } else {
     singleTrackRefusal = { reasonCode: 'notRequested', reason: 'the joint single-track fit was switched off' };
@@ -138,19 +116,59 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
     refusedTests: [...refused].sort(byStep).map(refusedTestRecord),
     rejectedSteps: rejected.map((r) => ({ file: r.file, onset_s: r.onset_s, reasonCode: r.reasonCode, reason: r.reason })),
     speeds: speeds.map(speedRecord),
-    actuator:
-      actuator === null
-        ? null
-        : {
-            gain: actuator.gain.value,
-            lag_s: actuator.lag_s.value,
-            delay_s: actuator.delay_s.value,
-            ci95: { gain: actuator.gain.ci95, lag_s: actuator.lag_s.ci95, delay_s: actuator.delay_s.ci95 },
-            stepCount: actuator.stepCount,
-          },
+    actuator: actuator === null ? null : actuatorRecord(actuator),
     singleTrack,
     singleTrackRefusal,
     warnings,
+  };
+}
+
+/** Every log read and searched for steps (each truncated to maxHold_s), in the order given; the channels are the first log's. */
+function readSteps(
+  logPaths: readonly string[],
+  vehicle: Vehicle,
+  reading: { readonly readOptions: ReadLogOptions | undefined; readonly maxHold_s: number },
+): { steps: StepTest[]; rejected: RejectedStep[]; channels: readonly LogChannelSource[] } {
+  const steps: StepTest[] = [];
+  const rejected: RejectedStep[] = [];
+  let channels: readonly LogChannelSource[] = [];
+  for (const file of logPaths) {
+    const log = readSteerLog(file, { steeringRatio: vehicle.steeringRatio, ...reading.readOptions });
+    if (channels.length === 0) channels = log.channels ?? [];
+    const search = findStepTests(log, { maxSteerAngle_rad: vehicle.maxSteerAngle_rad });
+    steps.push(...search.steps.map((step) => truncateStep(step, reading.maxHold_s)));
+    rejected.push(...search.rejected);
+  }
+  return { steps, rejected, channels };
+}
+
+/** The joint single-track fit as the models file records it. */
+function singleTrackRecord(joint: SingleTrackFit): SingleTrackRecord {
+  return {
+    frontCorneringStiffness_NPerRad: joint.parameters.frontCorneringStiffness_NPerRad,
+    rearCorneringStiffness_NPerRad: joint.parameters.rearCorneringStiffness_NPerRad,
+    actuatorLag_s: joint.parameters.actuatorLag_s,
+    actuatorDelay_s: joint.parameters.actuatorDelay_s,
+    understeerGradient_radPerMps2: joint.understeerGradient_radPerMps2,
+    ci95: joint.ci95,
+    characteristicSpeed_mps: joint.characteristicSpeed_mps,
+    criticalSpeed_mps: joint.criticalSpeed_mps,
+    r2: joint.r2,
+    rmse: joint.rmse,
+    stepCount: joint.stepCount,
+    stopReason: joint.stopReason,
+    comparison: joint.comparison,
+  };
+}
+
+/** The identified actuator as the models file records it. */
+function actuatorRecord(actuator: ActuatorIdentification): NonNullable<ModelsFile['actuator']> {
+  return {
+    gain: actuator.gain.value,
+    lag_s: actuator.lag_s.value,
+    delay_s: actuator.delay_s.value,
+    ci95: { gain: actuator.gain.ci95, lag_s: actuator.lag_s.ci95, delay_s: actuator.delay_s.ci95 },
+    stepCount: actuator.stepCount,
   };
 }
 

@@ -37,13 +37,13 @@ export interface StepIdentification {
 export function identifyStep(step: StepTest, options: IdentifyOptions): StepIdentification {
   const signals = yawSignals(step);
   const fopdt = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, biasMode: options.biasMode, hold: options.hold });
-  const secondOrder = options.fitSecondOrder ? fitSecondOrder(signals, fopdt.model, false, options.biasMode, options.hold) : null;
+  const secondOrder = options.fitSecondOrder ? fitSecondOrder(signals, { seed: fopdt.model, withZero: false, biasMode: options.biasMode, hold: options.hold }) : null;
   // The zero is fitted only when the model without it leaves structure in the residuals (Ljung–Box
   // rejects whiteness): with white residuals the extra parameter cannot lower the BIC by more than
   // noise (on the demo logs it never did), and the fit is the slowest of the three.
   const secondOrderZero =
     secondOrder !== null && !(secondOrder.fit.stopReason === 'converged' && secondOrder.fit.quality.whiteness.white)
-      ? fitSecondOrder(signals, secondOrder.model, true, options.biasMode, options.hold)
+      ? fitSecondOrder(signals, { seed: secondOrder.model, withZero: true, biasMode: options.biasMode, hold: options.hold })
       : null;
   const bic: Partial<Record<ModelStructure, number>> = { fopdt: fopdt.fit.quality.bic };
   if (secondOrder !== null && secondOrder.fit.stopReason === 'converged') bic['second-order'] = secondOrder.fit.quality.bic;

@@ -33,11 +33,20 @@ import { levenbergMarquardt } from 'ml-levenberg-marquardt';
  *   Jacobian makes ml-matrix's Cholesky step throw ("not symmetric"): the adapter reports nonFinite.
  */
 
-/** The library's own damping factors and limits (levenberg_marquardt.ts), passed explicitly. */
-const DAMPING_STEP_UP = 11;
-const DAMPING_STEP_DOWN = 9;
-const MIN_DAMPING = 1e-7;
-const MAX_DAMPING = 1e7;
+/**
+ * The library's own damping factors (its defaults, read in levenberg_marquardt.ts), passed explicitly,
+ * and the limits the adapter keeps the damping within between chunks (our choice).
+ */
+export const LEVENBERG_MARQUARDT_DAMPING = {
+  /** Damping × this after a step that raised the sum of squares (the library's default). */
+  stepUp: 11,
+  /** Damping ÷ this after a step that lowered it (the library's default). */
+  stepDown: 9,
+  minimum: 1e-7,
+  /** Damping at this size means no step helps any more: the fit counts as converged. */
+  maximum: 1e7,
+} as const;
+const { stepUp: DAMPING_STEP_UP, stepDown: DAMPING_STEP_DOWN, minimum: MIN_DAMPING, maximum: MAX_DAMPING } = LEVENBERG_MARQUARDT_DAMPING;
 
 export type StopReason = 'converged' | 'iterationCap' | 'nonFinite';
 

@@ -9,37 +9,68 @@
  * lag state solves τẋ = −x + u_j + m·s exactly:
  *   x(t_j + s) = u_j + m(s − τ) + (x_j − u_j + mτ)·e^(−s/τ).
  * The output at t_k is K·x(t_k − θ), evaluated with the same formula at the
- * fractional offset, so the response is continuous and smooth in θ (no rounding
- * of the delay to samples). Before the first sample the system rests at x = u_0;
- * after the last the input is held. τ ≤ 1e−9 s is treated as no lag and θ < 0 is
+ * fractional offset, so the response is continuous in θ (no rounding of the delay
+ * to samples): smooth with the interpolated command; with the command held it has a
+ * kink wherever t_k − θ crosses a sample (ẋ jumps there). Before the first sample the
+ * system rests at x = u_0; after the last the input is held. τ at or below
+ * `FIRST_ORDER_LAG_NUMERICS.lagFreeTimeConstant_s` is treated as no lag and θ < 0 is
  * allowed (a time advance), so that derivative probes outside the bounds stay finite.
  *
  * Units: time in s, input in its own unit, output = gain × input unit.
  */
-const MIN_TIME_CONSTANT_S = 1e-9;
+
+/** Numerical thresholds of the lag simulation (our choice; none changes a result beyond rounding). */
+export const FIRST_ORDER_LAG_NUMERICS = {
+  /** A time constant at or below this is no lag: the state follows the command (avoids e^(−h/τ) underflow and 1/τ²). */
+  lagFreeTimeConstant_s: 1e-9,
+  /** Two intervals (or offsets) closer than this share one decay factor e^(−h/τ) (uniform sampling computes it once). */
+  decayReuseTolerance_s: 1e-12,
+} as const;
+
+const MIN_TIME_CONSTANT_S = FIRST_ORDER_LAG_NUMERICS.lagFreeTimeConstant_s;
+const DECAY_REUSE_TOLERANCE_S = FIRST_ORDER_LAG_NUMERICS.decayReuseTolerance_s;
 
 /** How the sampled command is taken between samples: held (zero-order hold) or linearly interpolated. */
 export type CommandHold = 'zeroOrder' | 'linear';
 
+/** The lag driven by a sampled command: what every function of this file takes. */
+export interface FirstOrderLagInput {
+  /** Sample times, s, increasing. */
+  readonly time_s: Float64Array;
+  /** The command at those times, in its own unit (same length as time_s). */
+  readonly input: Float64Array;
+  /** τ, s. */
+  readonly timeConstant_s: number;
+  /** How the command is taken between samples. */
+  readonly hold: CommandHold;
+}
+
+/** A first-order lag plus dead time, K·e^(−θs)/(τs + 1), driven by a sampled command. */
+export interface FopdtResponseInput extends FirstOrderLagInput {
+  /** K, output unit per input unit. */
+  readonly gain: number;
+  /** θ, s (negative allowed: a time advance). */
+  readonly deadTime_s: number;
+}
+
 /**
- * Lag state at every sample (exact for the linearly interpolated input), starting from rest at u_0.
- * With `sensitivity`, also S = ∂x/∂τ at every sample (recursion in `fopdtSensitivities`), in the same pass.
+ * Lag state x at every sample (exact for the held and for the linearly interpolated command), starting from
+ * rest at u_0, written into `states`. With `stateSensitivities`, also S = ∂x/∂τ at every sample (recursion in
+ * `fopdtSensitivities`), in the same pass. Both arrays have the length of time_s.
  */
 export function firstOrderStates(
-  time_s: Float64Array,
-  input: Float64Array,
-  timeConstant_s: number,
-  hold: CommandHold,
-  out: Float64Array,
-  sensitivity: Float64Array | null = null,
+  options: FirstOrderLagInput & { readonly states: Float64Array; readonly stateSensitivities?: Float64Array | null },
 ): Float64Array {
+  const { time_s, input, timeConstant_s, hold } = options;
+  const out = options.states;
+  const sensitivity = options.stateSensitivities ?? null;
   const slopes = hold === 'linear' ? 1 : 0;
   const n = time_s.length;
   const tau = timeConstant_s;
   const inverseTauSquared = 1 / (tau * tau);
   out[0] = input[0];
   if (sensitivity !== null) sensitivity[0] = 0;
-  // Uniform sampling reuses one decay factor (the interval is compared to 1e−12 s).
+  // Uniform sampling reuses one decay factor (intervals compared within DECAY_REUSE_TOLERANCE_S).
   let lastH = Number.NaN;
   let decay = 0;
   for (let j = 0; j + 1 < n; j++) {
@@ -50,7 +81,7 @@ export function firstOrderStates(
       out[j + 1] = u + m * h;
       if (sensitivity !== null) sensitivity[j + 1] = 0;
     } else {
-      if (!(Math.abs(h - lastH) <= 1e-12)) {
+      if (!(Math.abs(h - lastH) <= DECAY_REUSE_TOLERANCE_S)) {
         lastH = h;
         decay = Math.exp(-h / tau);
       }
@@ -62,21 +93,16 @@ export function firstOrderStates(
 }
 
 /**
- * y_k = gain·x(t_k − deadTime_s) for the first-order lag driven by the linearly interpolated input
- * (formula in the file comment). `states` is scratch of the same length (reused to avoid allocation).
+ * y_k = gain·x(t_k − deadTime_s) for the first-order lag driven by the command, held or linearly interpolated
+ * as `hold` says (formula in the file comment). Written into `out` (a new array when not given); `states` is
+ * scratch of the same length (reused to avoid allocation; a new array when not given).
  */
 export function simulateFopdt(
-  time_s: Float64Array,
-  input: Float64Array,
-  gain: number,
-  timeConstant_s: number,
-  deadTime_s: number,
-  hold: CommandHold,
-  out: Float64Array = new Float64Array(time_s.length),
-  states: Float64Array = new Float64Array(time_s.length),
+  options: FopdtResponseInput & { readonly out?: Float64Array; readonly states?: Float64Array },
 ): Float64Array {
-  firstOrderStates(time_s, input, timeConstant_s, hold, states);
-  return delayedFirstOrderOutput(time_s, input, gain, timeConstant_s, deadTime_s, hold, states, out);
+  const n = options.time_s.length;
+  const states = firstOrderStates({ ...options, states: options.states ?? new Float64Array(n), stateSensitivities: null });
+  return delayedFirstOrderOutput({ ...options, states, out: options.out ?? new Float64Array(n) });
 }
 
 /**
@@ -85,15 +111,9 @@ export function simulateFopdt(
  * times reuses one set of states per time constant. Units as in simulateFopdt.
  */
 export function delayedFirstOrderOutput(
-  time_s: Float64Array,
-  input: Float64Array,
-  gain: number,
-  timeConstant_s: number,
-  deadTime_s: number,
-  hold: CommandHold,
-  states: Float64Array,
-  out: Float64Array,
+  options: FopdtResponseInput & { readonly states: Float64Array; readonly out: Float64Array },
 ): Float64Array {
+  const { time_s, input, gain, timeConstant_s, deadTime_s, hold, states, out } = options;
   const n = time_s.length;
   const tau = timeConstant_s;
   const lagFree = tau <= MIN_TIME_CONSTANT_S;
@@ -118,7 +138,7 @@ export function delayedFirstOrderOutput(
       const s = q - time_s[j];
       const u = input[j];
       const m = (slopes * (input[j + 1] - u)) / (time_s[j + 1] - time_s[j]);
-      if (!lagFree && !(Math.abs(s - lastS) <= 1e-12)) {
+      if (!lagFree && !(Math.abs(s - lastS) <= DECAY_REUSE_TOLERANCE_S)) {
         lastS = s;
         decay = Math.exp(-s / tau);
       }
@@ -146,26 +166,19 @@ export interface FopdtSensitivities {
  * and at the fractional offset s the same with e^(−s/τ); ẋ = m − (x_j − u_j + mτ)·e^(−s/τ)/τ.
  * With the command held, ẋ jumps at sample times: a point t_k − θ falling exactly on a sample
  * takes the interval before it, i.e. the derivative for a growing dead time (the side a fit at
- * θ = 0 can move to). No lag (τ ≤ 1e−9 s): ∂y/∂τ = 0. `states` and `stateSensitivities` are
+ * θ = 0 can move to). No lag (τ ≤ lagFreeTimeConstant_s): ∂y/∂τ = 0. `states` and `stateSensitivities` are
  * scratch of the same length as time_s; the columns are written into `out`.
  */
 export function fopdtSensitivities(
-  time_s: Float64Array,
-  input: Float64Array,
-  gain: number,
-  timeConstant_s: number,
-  deadTime_s: number,
-  hold: CommandHold,
-  out: FopdtSensitivities,
-  states: Float64Array,
-  stateSensitivities: Float64Array,
+  options: FopdtResponseInput & { readonly out: FopdtSensitivities; readonly states: Float64Array; readonly stateSensitivities: Float64Array },
 ): FopdtSensitivities {
+  const { time_s, input, gain, timeConstant_s, deadTime_s, hold, out, states, stateSensitivities } = options;
   const n = time_s.length;
   const tau = timeConstant_s;
   const lagFree = tau <= MIN_TIME_CONSTANT_S;
   const slopes = hold === 'linear' ? 1 : 0;
   const sensitivity = stateSensitivities;
-  firstOrderStates(time_s, input, tau, hold, states, sensitivity);
+  firstOrderStates({ time_s, input, timeConstant_s: tau, hold, states, stateSensitivities: sensitivity });
   const inverseTauSquared = lagFree ? 0 : 1 / (tau * tau);
   let decay = 0;
   const t0 = time_s[0];
@@ -206,7 +219,7 @@ export function fopdtSensitivities(
         dxdTau = 0;
         rate = m;
       } else {
-        if (!(Math.abs(s - lastS) <= 1e-12)) {
+        if (!(Math.abs(s - lastS) <= DECAY_REUSE_TOLERANCE_S)) {
           lastS = s;
           decay = Math.exp(-s / tau);
         }

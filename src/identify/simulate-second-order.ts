@@ -85,21 +85,35 @@ function holdUpdate(a21: number, a22: number, s: number): Update {
   return { p11: e[0], p12: e[1], p21: e[4], p22: e[5], g1: e[2], g2: e[6], l1: e[3], l2: e[7] };
 }
 
+/** K(βs + 1)e^(−θs)/(s²/ωn² + 2ζs/ωn + 1) driven by a sampled command. */
+export interface SecondOrderResponseInput {
+  /** Sample times, s, increasing. */
+  readonly time_s: Float64Array;
+  /** The command at those times, in its own unit (same length as time_s). */
+  readonly input: Float64Array;
+  /** K, output unit per input unit. */
+  readonly gain: number;
+  /** ωn, rad/s. */
+  readonly naturalFrequency_radps: number;
+  /** ζ. */
+  readonly dampingRatio: number;
+  /** β, s (0: no zero). */
+  readonly zeroTimeConstant_s: number;
+  /** θ, s. */
+  readonly deadTime_s: number;
+  /** How the command is taken between samples. */
+  readonly hold: CommandHold;
+  /** Where to write the output (same length as time_s); a new array when not given. */
+  readonly out?: Float64Array;
+}
+
 /**
  * Output of K(βs + 1)e^(−θs)/(s²/ωn² + 2ζs/ωn + 1) at each sample time (formulas in the file comment).
  * Units: time s, ωn rad/s, β and θ s; output = gain × input unit.
  */
-export function simulateSecondOrder(
-  time_s: Float64Array,
-  input: Float64Array,
-  gain: number,
-  naturalFrequency_radps: number,
-  dampingRatio: number,
-  zeroTimeConstant_s: number,
-  deadTime_s: number,
-  hold: CommandHold,
-  out: Float64Array = new Float64Array(time_s.length),
-): Float64Array {
+export function simulateSecondOrder(options: SecondOrderResponseInput): Float64Array {
+  const { time_s, input, gain, naturalFrequency_radps, dampingRatio, zeroTimeConstant_s, deadTime_s, hold } = options;
+  const out = options.out ?? new Float64Array(time_s.length);
   const n = time_s.length;
   const slopes = hold === 'linear' ? 1 : 0;
   const w2 = naturalFrequency_radps * naturalFrequency_radps;

@@ -69,22 +69,43 @@ function holdUpdate(cache: HoldUpdateCache, a0: number, a1: number, a2: number, 
   return o;
 }
 
+/** Buffers a held-command simulation may reuse; each is made fresh when not given. */
+export interface HeldSimulationBuffers {
+  /** The output, same length as time_s. */
+  readonly out?: Float64Array;
+  /** State scratch, at least 3 × the length of time_s. */
+  readonly states?: Float64Array;
+  /** Exact updates shared between consecutive simulations (newHoldUpdateCache). */
+  readonly cache?: HoldUpdateCache;
+  /** When given, receives ∂y/∂θ at every sample (same length as time_s). */
+  readonly delayDerivative?: Float64Array | null;
+}
+
+/** A third-order transfer function with delay driven by a held command. */
+export interface ThirdOrderHeldInput extends HeldSimulationBuffers {
+  /** Sample times, s, increasing. */
+  readonly time_s: Float64Array;
+  /** The command at those times (same length as time_s). */
+  readonly input: Float64Array;
+  /** [b2, b1, b0], highest power first. */
+  readonly numerator: readonly [number, number, number];
+  /** Monic [1, a2, a1, a0], highest power first. */
+  readonly denominator: readonly [number, number, number, number];
+  /** θ, s (negative: an advance). */
+  readonly delay_s: number;
+}
+
 /**
  * y(t_k) for numerator [b2, b1, b0] and monic denominator [1, a2, a1, a0] (highest power first), delay θ ≥ 0 or < 0 (advance),
  * input held between samples and 0 before the first sample. Units: those of the transfer function.
  * `delayDerivative`, when given, receives ∂y/∂θ = −C·ẋ(t_k − θ) at every sample (for a growing delay).
  */
-export function simulateThirdOrderHeld(
-  time_s: Float64Array,
-  input: Float64Array,
-  numerator: readonly [number, number, number],
-  denominator: readonly [number, number, number, number],
-  delay_s: number,
-  out: Float64Array = new Float64Array(time_s.length),
-  states: Float64Array = new Float64Array(3 * time_s.length),
-  cache: HoldUpdateCache = newHoldUpdateCache(),
-  delayDerivative: Float64Array | null = null,
-): Float64Array {
+export function simulateThirdOrderHeld(options: ThirdOrderHeldInput): Float64Array {
+  const { time_s, input, numerator, denominator, delay_s } = options;
+  const out = options.out ?? new Float64Array(time_s.length);
+  const states = options.states ?? new Float64Array(3 * time_s.length);
+  const cache = options.cache ?? newHoldUpdateCache();
+  const delayDerivative = options.delayDerivative ?? null;
   const n = time_s.length;
   const [, a2, a1, a0] = denominator;
   const [b2, b1, b0] = numerator;

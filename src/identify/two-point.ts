@@ -24,11 +24,12 @@ export interface TwoPointEstimate {
   readonly inputChange: number;
 }
 
-function crossingTime(time_s: Float64Array, x: Float64Array, from: number, level: number, rising: boolean): number | null {
+/** First time at or after sample `from` at which x rises through `level`, interpolated linearly between samples; null when it never does. */
+function risingCrossingTime(time_s: Float64Array, x: Float64Array, from: number, level: number): number | null {
   for (let i = Math.max(1, from); i < x.length; i++) {
     const a = x[i - 1];
     const b = x[i];
-    if (rising ? b >= level && a < level : b <= level && a > level) {
+    if (b >= level && a < level) {
       const f = b === a ? 0 : (level - a) / (b - a);
       return time_s[i - 1] + f * (time_s[i] - time_s[i - 1]);
     }
@@ -54,11 +55,11 @@ export function twoPointEstimate(signals: StepSignals): TwoPointEstimate | null 
   }
   const inputBefore = meanOf(input, 0, pre);
   const relativeInput = input.map((v) => (v - inputBefore) / inputChange);
-  const stepTime_s = crossingTime(time_s, relativeInput, pre - 1, 0.5, true);
+  const stepTime_s = risingCrossingTime(time_s, relativeInput, pre - 1, 0.5);
   if (stepTime_s === null) return null;
   const from = time_s.findIndex((t) => t >= stepTime_s);
-  const t28 = crossingTime(time_s, smooth, from, 0.283, true);
-  const t63 = crossingTime(time_s, smooth, from, 0.632, true);
+  const t28 = risingCrossingTime(time_s, smooth, from, 0.283);
+  const t63 = risingCrossingTime(time_s, smooth, from, 0.632);
   if (t28 === null || t63 === null) return null;
   const timeConstant_s = 1.5 * (t63 - t28);
   return {

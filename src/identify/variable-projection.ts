@@ -17,8 +17,11 @@ export interface LinearPart {
   readonly ssr: number;
 }
 
-/** Least-squares line v − shift ≈ slope·x + offset (offset 0 unless `withBias`). */
-function fitLine(v: Float64Array, x: Float64Array, shift: number, withBias: boolean): { slope: number; offset: number } {
+/** What a least-squares line through the origin-shifted data has: a slope and an offset, or a slope only (offset 0). */
+export type LineTerms = 'slopeAndOffset' | 'slopeOnly';
+
+/** Least-squares line v − shift ≈ slope·x + offset (offset 0 with 'slopeOnly'). */
+function fitLine(v: Float64Array, x: Float64Array, shift: number, terms: LineTerms): { slope: number; offset: number } {
   const n = v.length;
   let sx = 0;
   let sv = 0;
@@ -31,7 +34,7 @@ function fitLine(v: Float64Array, x: Float64Array, shift: number, withBias: bool
     sxx += x[i] * x[i];
     sxv += x[i] * y;
   }
-  if (!withBias) return { slope: sxx !== 0 ? sxv / sxx : 0, offset: 0 };
+  if (terms === 'slopeOnly') return { slope: sxx !== 0 ? sxv / sxx : 0, offset: 0 };
   const det = n * sxx - sx * sx;
   const slope = det !== 0 ? (n * sxv - sx * sv) / det : 0;
   return { slope, offset: (sv - slope * sx) / n };
@@ -40,7 +43,7 @@ function fitLine(v: Float64Array, x: Float64Array, shift: number, withBias: bool
 /** Best K (and b, unless `fixedBias` is given) for y ≈ K·x + b by linear least squares. */
 export function projectGainAndBias(output: Float64Array, x: Float64Array, fixedBias: number | null): LinearPart {
   const shift = fixedBias ?? 0;
-  const { slope: gain, offset } = fitLine(output, x, shift, fixedBias === null);
+  const { slope: gain, offset } = fitLine(output, x, shift, fixedBias === null ? 'slopeAndOffset' : 'slopeOnly');
   let ssr = 0;
   for (let i = 0; i < output.length; i++) {
     const r = output[i] - shift - gain * x[i] - offset;
@@ -49,9 +52,9 @@ export function projectGainAndBias(output: Float64Array, x: Float64Array, fixedB
   return { gain, bias: fixedBias === null ? offset : fixedBias, ssr };
 }
 
-/** v ← P⊥·v in place: v minus its least-squares fit by span{x, 1} (`withBias`) or span{x}. */
-export function projectOrthogonal(v: Float64Array, x: Float64Array, withBias: boolean): Float64Array {
-  const { slope, offset } = fitLine(v, x, 0, withBias);
+/** v ← P⊥·v in place: v minus its least-squares fit by span{x, 1} ('slopeAndOffset': a fitted bias) or span{x} ('slopeOnly'). */
+export function projectOrthogonal(v: Float64Array, x: Float64Array, terms: LineTerms): Float64Array {
+  const { slope, offset } = fitLine(v, x, 0, terms);
   for (let i = 0; i < v.length; i++) v[i] -= slope * x[i] + offset;
   return v;
 }

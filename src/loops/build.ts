@@ -66,13 +66,16 @@ function record(specification: LoopSpecification, context: LoopContext, plant: T
  * identified from steer-command logs): loop factor × G_r, delay θ + Ts/2 + computation latency
  * (`samplingDelay_s`). A front-axle preview needs `cgToFrontAxle_m`.
  */
-export function loopPlantFromLumped(
-  specification: LoopSpecification,
-  model: LumpedModel,
-  speed_mps: number,
-  controller: ControllerSettings,
-  cgToFrontAxle_m?: number,
-): LoopPlant {
+export function loopPlantFromLumped(request: {
+  readonly specification: LoopSpecification;
+  /** The identified steer command → yaw rate model at this speed. */
+  readonly model: LumpedModel;
+  readonly speed_mps: number;
+  readonly controller: ControllerSettings;
+  /** CG to front axle, m (needed for a front-axle preview only). */
+  readonly cgToFrontAxle_m?: number;
+}): LoopPlant {
+  const { specification, model, speed_mps, controller, cgToFrontAxle_m } = request;
   requireSpeed(speed_mps);
   const loop = findLoop(specification.kind);
   const context: LoopContext = { speed_mps, previewFromCg_m: previewFromCg_m(specification, cgToFrontAxle_m, speed_mps) };

@@ -46,7 +46,21 @@ export function rampLag_s(g: TransferFunction): number {
   return g.delay_s + ratio(d) - ratio(n);
 }
 
-function assemble(kind: LoopKind, speed_mps: number, yawGain: number, lag_s: number, lead_s: number): FeedForward {
+/** The loop and speed a feed-forward is for, and what the controller adds to the plant's lag. */
+export interface FeedForwardPoint {
+  readonly kind: LoopKind;
+  /** Speed, m/s > 0. */
+  readonly speed_mps: number;
+  /** Ts/2 + computation latency, s. */
+  readonly controllerDelay_s: number;
+  /** Preview distance from the CG (path loop), m. */
+  readonly previewFromCg_m: number;
+}
+
+function assemble(point: FeedForwardPoint, yaw: { readonly gain_perS: number; readonly lag_s: number; readonly lead_s: number }): FeedForward {
+  const { kind, speed_mps } = point;
+  const { lag_s, lead_s } = yaw;
+  const yawGain = yaw.gain_perS;
   const perYawRate = 1 / yawGain;
   return {
     gain: kind === 'path' ? speed_mps * perYawRate : perYawRate,
@@ -61,19 +75,21 @@ function assemble(kind: LoopKind, speed_mps: number, yawGain: number, lag_s: num
  * ramp lag of actuator and vehicle plus `controllerDelay_s` (Ts/2 + latency), and (path loop) the lead
  * T0 = (previewFromCg_m + Gvy(0)/Gr(0))/vx.
  */
-export function feedForwardFromSingleTrack(kind: LoopKind, parameters: SingleTrackParameters, speed_mps: number, controllerDelay_s: number, previewFromCg_m: number): FeedForward {
+export function feedForwardFromSingleTrack(point: FeedForwardPoint & { readonly parameters: SingleTrackParameters }): FeedForward {
+  const { parameters, speed_mps, controllerDelay_s, previewFromCg_m } = point;
   const { yawRate, lateralVelocity } = singleTrackTransferFunctions(parameters, speed_mps);
   const last = (p: readonly number[]): number => p[p.length - 1];
   const yawGain = last(yawRate.numerator) / last(yawRate.denominator);
   const lateralPerYaw = last(lateralVelocity.numerator) / last(yawRate.numerator);
   const lag = controllerDelay_s + rampLag_s(actuatorTransferFunction(parameters)) + rampLag_s(yawRate);
-  return assemble(kind, speed_mps, yawGain, lag, (previewFromCg_m + lateralPerYaw) / speed_mps);
+  return assemble(point, { gain_perS: yawGain, lag_s: lag, lead_s: (previewFromCg_m + lateralPerYaw) / speed_mps });
 }
 
 /** The feed-forward from a lumped per-speed yaw-rate model (actuator included; lateral velocity neglected: T0 = d/vx). */
-export function feedForwardFromLumped(kind: LoopKind, model: LumpedModel, speed_mps: number, controllerDelay_s: number, previewFromCg_m: number): FeedForward {
+export function feedForwardFromLumped(point: FeedForwardPoint & { readonly model: LumpedModel }): FeedForward {
+  const { model, speed_mps, controllerDelay_s, previewFromCg_m } = point;
   const yawRate = lumpedYawRateTransferFunction(model);
   const last = (p: readonly number[]): number => p[p.length - 1];
   const yawGain = last(yawRate.numerator) / last(yawRate.denominator);
-  return assemble(kind, speed_mps, yawGain, controllerDelay_s + rampLag_s(yawRate), previewFromCg_m / speed_mps);
+  return assemble(point, { gain_perS: yawGain, lag_s: controllerDelay_s + rampLag_s(yawRate), lead_s: previewFromCg_m / speed_mps });
 }

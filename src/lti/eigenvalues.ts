@@ -262,11 +262,18 @@ function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64A
 
 /**
  * The condition number κ(λ) = ‖x‖·‖y‖/|yᴴx| of the eigenvalue λ = re + j·im of the upper Hessenberg
- * matrix H (row-major N×N), its right and left eigenvectors found by two steps of inverse
- * iteration on H − λI (Gaussian elimination with partial pivoting between adjacent rows, O(N²)).
+ * matrix H = result.hessenberg (row-major N×N, N = size), its right and left eigenvectors found by two
+ * steps of inverse iteration on H − λI (Gaussian elimination with partial pivoting between adjacent
+ * rows, O(N²); an exactly zero pivot is replaced by u·‖H‖_F, with ‖H‖_F = result.norm).
  * Infinity when the vectors are orthogonal to rounding (a defective eigenvalue).
  */
-export function eigenvalueCondition(hessenberg: Float64Array, size: number, re: number, im: number, norm: number): number {
+export function eigenvalueCondition(
+  result: Pick<EigenvalueResult, 'hessenberg' | 'norm'>,
+  size: number,
+  eigenvalue: { readonly re: number; readonly im: number },
+): number {
+  const { hessenberg, norm } = result;
+  const { re, im } = eigenvalue;
   const n = size;
   const { ur, ui, swapped, lr, li, xr, xi, wr, wi } = scratchFor(n);
   // LU of H − λI (complex), Hessenberg: eliminate the single subdiagonal entry of each column.
@@ -443,7 +450,7 @@ function normalise(xr: Float64Array, xi: Float64Array): void {
  * from exactly rounded data); see the module comment. Units of the eigenvalue.
  */
 export function eigenvalueErrorBound(result: EigenvalueResult, size: number, index: number): number {
-  const condition = eigenvalueCondition(result.hessenberg, size, result.re[index], result.im[index], result.norm);
+  const condition = eigenvalueCondition(result, size, { re: result.re[index], im: result.im[index] });
   return condition * backwardError(result, size);
 }
 

@@ -67,11 +67,11 @@ export function performanceLoopAt(model: OperatingPointModel, specification: Loo
       lateralForce: force,
       mass_kg: m,
       actuator: { lag_s: parameters.actuatorLag_s, delay_s: parameters.actuatorDelay_s + controller.computationLatency_s },
-      feedForward: feedForwardFromSingleTrack(specification.kind, parameters, speed_mps, controllerDelay, d),
+      feedForward: feedForwardFromSingleTrack({ kind: specification.kind, parameters, speed_mps, controllerDelay_s: controllerDelay, previewFromCg_m: d }),
       controller,
     };
   }
-  const plant = loopPlantFromLumped(specification, model.yawRate, speed_mps, controller, model.cgToFrontAxle_m);
+  const plant = loopPlantFromLumped({ specification, model: model.yawRate, speed_mps, controller, cgToFrontAxle_m: model.cgToFrontAxle_m });
   const d = previewFromCg_m(specification, model.cgToFrontAxle_m, speed_mps);
   return {
     kind: specification.kind,
@@ -83,7 +83,7 @@ export function performanceLoopAt(model: OperatingPointModel, specification: Loo
     lateralForce: null,
     mass_kg: null,
     actuator: null,
-    feedForward: feedForwardFromLumped(specification.kind, model.yawRate, speed_mps, controllerDelay, d),
+    feedForward: feedForwardFromLumped({ kind: specification.kind, model: model.yawRate, speed_mps, controllerDelay_s: controllerDelay, previewFromCg_m: d }),
     controller,
   };
 }

@@ -55,7 +55,7 @@ function strided(from: number, to: number, points: number): number[] {
 export function stepTrace(step: StepTest, test: TestRecord, hold: CommandHold): StepTrace {
   const { gain, timeConstant_s, deadTime_s, bias_radps } = test.fopdt;
   const input = relativeToPreStep(step.steerCommand_rad, step.preStepSamples);
-  const fit = simulateFopdt(step.time_s, input, gain, timeConstant_s, deadTime_s, hold);
+  const fit = simulateFopdt({ time_s: step.time_s, input, gain, timeConstant_s, deadTime_s, hold });
   const n = step.time_s.length;
   let sum = 0;
   for (let i = 0; i < n; i++) sum += (step.yawRate_radps[i] - fit[i] - bias_radps) ** 2;

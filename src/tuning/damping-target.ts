@@ -58,7 +58,19 @@ const DEFAULT_FREQUENCY_SCAN = 301;
  * (a geometric scan upwards, stopping at the first failure: further intervals exist where the poles
  * are faster than the lead's zero and kd tends to 0 — degenerate, so not chosen by default).
  */
-function frequencyForPreviewGain(zeta: number, ratio: number, lead: number, upper: number, limit: number): number {
+function frequencyForPreviewGain(search: {
+  /** ζ of the placed poles. */
+  readonly zeta: number;
+  /** ωn over the third, real pole p (p = ωn/ratio), as `placement` takes it. */
+  readonly ratio: number;
+  /** T0, s. */
+  readonly lead: number;
+  /** The largest ωn considered, rad/s. */
+  readonly upper: number;
+  /** The bound on |k''·kd·T0|. */
+  readonly limit: number;
+}): number {
+  const { zeta, ratio, lead, upper, limit } = search;
   let chosen = upper * 1e-3;
   for (let i = 0; i < DEFAULT_FREQUENCY_SCAN; i++) {
     const omega = upper * Math.pow(10, -3 + (3 * i) / (DEFAULT_FREQUENCY_SCAN - 1));
@@ -91,12 +103,18 @@ export function dampingTarget(model: DesignModel, parameters: RuleParameters, co
     if (!(effectiveDelay_s > 0)) {
       throw parameterRequired('damping-target', 'a natural frequency ωn or a settling distance D', 'the model has no delay or lag to default ωn from');
     }
-    omega = frequencyForPreviewGain(zeta, ratio, lead, TUNING_DEFAULTS.defaultBandwidthDelayProduct / effectiveDelay_s, TUNING_DEFAULTS.defaultPreviewHighFrequencyGain);
+    omega = frequencyForPreviewGain({
+      zeta,
+      ratio,
+      lead,
+      upper: TUNING_DEFAULTS.defaultBandwidthDelayProduct / effectiveDelay_s,
+      limit: TUNING_DEFAULTS.defaultPreviewHighFrequencyGain,
+    });
   }
   const placed = placement(zeta, omega, ratio, lead);
   const previewGain = highFrequencyGain(placed, lead);
   if (!(previewGain < TUNING_DEFAULTS.maximumPreviewHighFrequencyGain)) {
-    const limit = frequencyForPreviewGain(zeta, ratio, lead, omega, TUNING_DEFAULTS.maximumPreviewHighFrequencyGain);
+    const limit = frequencyForPreviewGain({ zeta, ratio, lead, upper: omega, limit: TUNING_DEFAULTS.maximumPreviewHighFrequencyGain });
     throw new SpeedbandError(
       'tuning.targetNotReachable',
       `with the path loop's lead T0 = (vy/r + d)/vx = ${lead.toPrecision(3)} s the target ωn = ${omega.toPrecision(3)} rad/s needs a loop gain |k''·kd·T0| = ${Number.isFinite(previewGain) ? previewGain.toPrecision(3) : 'of the wrong sign'} at high frequency (expected below ${TUNING_DEFAULTS.maximumPreviewHighFrequencyGain}), so the lag and delay the design neglects would decide stability — lower ωn to at most ${limit.toPrecision(3)} rad/s (a longer settling distance) or shorten the preview`,

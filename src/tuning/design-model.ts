@@ -21,15 +21,27 @@ export interface DesignModelDerivation {
   readonly model: DesignModel;
 }
 
-function assemble(
-  kind: LoopKind,
-  speed_mps: number,
-  yaw: { gain: number; timeConstant_s: number; deadTime_s: number },
-  source: 'identified' | 'two-point',
-  controllerDelay_s: number,
-  previewFromCg_m: number,
-  lateralVelocityPerYawRate_m: number,
-): DesignModelDerivation {
+/** The loop and speed a design model is for, and the controller delay it adds. */
+export interface DesignPoint {
+  readonly kind: LoopKind;
+  readonly speed_mps: number;
+  /** Ts/2 + computation latency, added to the dead time, s. */
+  readonly controllerDelay_s: number;
+  /** Preview distance from the CG (path loop), m; 0 when not given. */
+  readonly previewFromCg_m?: number;
+}
+
+/** The steer command → yaw rate FOPDT a design starts from, where it came from, and G_vy(0)/G_r(0) (m; 0 for a lumped model). */
+interface YawRateDesign {
+  readonly yaw: { gain: number; timeConstant_s: number; deadTime_s: number };
+  readonly source: 'identified' | 'two-point';
+  readonly lateralVelocityPerYawRate_m: number;
+}
+
+function assemble(point: DesignPoint, design: YawRateDesign): DesignModelDerivation {
+  const { kind, speed_mps, controllerDelay_s } = point;
+  const previewFromCg_m = point.previewFromCg_m ?? 0;
+  const { yaw, source, lateralVelocityPerYawRate_m } = design;
   const loop = findLoop(kind);
   const context = { speed_mps, previewFromCg_m };
   const lead = loop.designLead_s(context, lateralVelocityPerYawRate_m);
@@ -62,25 +74,24 @@ function assemble(
  *                                                         with d from the CG, `previewFromCg_m`, m)
  * The rules fold the lag τ into the delay by Skogestad's half rule where their plant class needs it.
  */
-export function designModelFromLumped(
-  kind: LoopKind,
-  model: LumpedModel,
-  speed_mps: number,
-  controllerDelay_s: number,
-  previewFromCg_m = 0,
-): DesignModelDerivation {
+export function designModelFromLumped(point: DesignPoint & { readonly model: LumpedModel }): DesignModelDerivation {
+  const { model } = point;
   if (model.kind === 'fopdt') {
-    return assemble(kind, speed_mps, model, 'identified', controllerDelay_s, previewFromCg_m, 0);
+    return assemble(point, { yaw: model, source: 'identified', lateralVelocityPerYawRate_m: 0 });
   }
   const { dampingRatio: zeta, naturalFrequency_radps: omega, zeroTimeConstant_s: beta } = model;
   if (beta === 0 && zeta >= 1 && omega > 0) {
     // Overdamped without a zero: two real lags τ1,2 = (ζ ± √(ζ² − 1))/ωn, kept exactly (SIMC's second-order rule uses both).
     const spread = Math.sqrt(zeta * zeta - 1);
     const lags_s = [(zeta + spread) / omega, (zeta - spread) / omega];
-    const derivation = assemble(kind, speed_mps, { gain: model.gain, timeConstant_s: lags_s[0], deadTime_s: model.deadTime_s }, 'identified', controllerDelay_s, previewFromCg_m, 0);
+    const derivation = assemble(point, {
+      yaw: { gain: model.gain, timeConstant_s: lags_s[0], deadTime_s: model.deadTime_s },
+      source: 'identified',
+      lateralVelocityPerYawRate_m: 0,
+    });
     return { ...derivation, model: { ...derivation.model, lags_s } };
   }
-  return assemble(kind, speed_mps, fopdtByTwoPoints(lumpedYawRateTransferFunction(model)), 'two-point', controllerDelay_s, previewFromCg_m, 0);
+  return assemble(point, { yaw: fopdtByTwoPoints(lumpedYawRateTransferFunction(model)), source: 'two-point', lateralVelocityPerYawRate_m: 0 });
 }
 
 /**
@@ -92,17 +103,12 @@ export function designModelFromLumped(
  * acts like a preview of G_vy(0)/G_r(0) ≈ b at low speed). Throws `tuning.unstablePlant` above
  * an oversteering vehicle's critical speed.
  */
-export function designModelFromSingleTrack(
-  kind: LoopKind,
-  parameters: SingleTrackParameters,
-  speed_mps: number,
-  controllerDelay_s: number,
-  previewFromCg_m = 0,
-): DesignModelDerivation {
+export function designModelFromSingleTrack(point: DesignPoint & { readonly parameters: SingleTrackParameters }): DesignModelDerivation {
+  const { parameters, speed_mps } = point;
   const responses = singleTrackTransferFunctions(parameters, speed_mps);
   const yawRate = seriesConnection(actuatorTransferFunction(parameters), responses.yawRate);
   const yawGain = dcGain(responses.yawRate);
   const lateralGain = dcGain(responses.lateralVelocity);
   const lateralVelocityPerYawRate_m = yawGain === null || lateralGain === null || yawGain === 0 ? 0 : lateralGain / yawGain;
-  return assemble(kind, speed_mps, fopdtByTwoPoints(yawRate), 'two-point', controllerDelay_s, previewFromCg_m, lateralVelocityPerYawRate_m);
+  return assemble(point, { yaw: fopdtByTwoPoints(yawRate), source: 'two-point', lateralVelocityPerYawRate_m });
 }

@@ -42,15 +42,27 @@ export interface MigoSearchResult {
   readonly evaluations: number;
 }
 
-/** The coarse grid: kp over 10^(−2.5 … 1) of its scale in half decades, kd over 10^(−2 … 1.5) of its scale in quarter decades. */
-const KP_GRID = { from: -2.5, to: 1, step: 0.5 };
-const KD_GRID = { from: -2, to: 1.5, step: 0.25 };
-/** The fine grid tried when the coarse one finds nothing (the feasible set can be a narrow ridge in kd). */
-const FINE_KP_STEP = 0.25;
-const FINE_KD_STEP = 0.125;
-const BISECTION_STEPS = 10;
-/** Grid points refined separately before the best is refined further. */
-const REFINED_CANDIDATES = 3;
+/** The grids and steps of the MIGO search (our choice; exponents are decades of each gain's scale). */
+export const MIGO_SEARCH_DEFAULTS = {
+  /** The coarse grid: kp over 10^(−2.5 … 1) of its scale in half decades, kd over 10^(−2 … 1.5) of its scale in quarter decades. */
+  kpGrid: { from: -2.5, to: 1, step: 0.5 },
+  kdGrid: { from: -2, to: 1.5, step: 0.25 },
+  /** The fine grid steps, tried when the coarse one finds nothing (the feasible set can be a narrow ridge in kd). */
+  fineKpStep: 0.25,
+  fineKdStep: 0.125,
+  /** Bisection steps on ki at each grid point. */
+  bisectionSteps: 10,
+  /** Grid points refined separately before the best is refined further. */
+  refinedCandidates: 3,
+} as const;
+const {
+  kpGrid: KP_GRID,
+  kdGrid: KD_GRID,
+  fineKpStep: FINE_KP_STEP,
+  fineKdStep: FINE_KD_STEP,
+  bisectionSteps: BISECTION_STEPS,
+  refinedCandidates: REFINED_CANDIDATES,
+} = MIGO_SEARCH_DEFAULTS;
 
 export function maximiseIntegralGain(input: MigoSearchInput): MigoSearchResult {
   const { response, bounds, structure, sign } = input;

@@ -12,12 +12,18 @@ import type { PidGains } from '../controller/types.js';
 const CITATION =
   'Åström, K. J., Panagopoulos, H. & Hägglund, T. (1998). Design of PI controllers based on non-convex optimization. Automatica 34(5), 585–601 — MIGO: maximum integral gain subject to a bound on the sensitivity peaks; here on the sampled loop the firmware runs, with Ms ≤ M and Mt ≤ M';
 
-/** Largest relative excess of the exact peaks over the target accepted before ki is reduced (the grid is 5.9 % apart). */
-const EXACT_TOLERANCE = 0.005;
-/** Phase-margin shortfall accepted before ki is reduced, degrees (the grid interpolates crossovers linearly). */
-const EXACT_PHASE_TOLERANCE_deg = 0.5;
-/** Steps of ki reduction (×0.97) tried when the exact analysis finds the grid's design over the bound. */
-const SHRINK_STEPS = 40;
+/** How MIGO's grid design is checked on the exact sampled loop and lowered when over the bound (our choice). */
+export const MIGO_EXACT_CHECK_DEFAULTS = {
+  /** Largest relative excess of the exact peaks over the target accepted before ki is reduced (the grid is 5.9 % apart). */
+  peakTolerance: 0.005,
+  /** Phase-margin shortfall accepted before ki is reduced, degrees (the grid interpolates crossovers linearly). */
+  phaseTolerance_deg: 0.5,
+  /** Steps of ki reduction tried when the exact analysis finds the grid's design over the bound. */
+  shrinkSteps: 40,
+  /** ki × this at each step. */
+  shrinkFactor: 0.97,
+} as const;
+const { peakTolerance: EXACT_TOLERANCE, phaseTolerance_deg: EXACT_PHASE_TOLERANCE_deg, shrinkSteps: SHRINK_STEPS } = MIGO_EXACT_CHECK_DEFAULTS;
 
 /**
  * MIGO (Åström, Panagopoulos & Hägglund 1998; Åström & Hägglund 2006, Advanced PID Control, §7.4): of all PI
@@ -83,7 +89,7 @@ export function migo(model: DesignModel, parameters: RuleParameters, context: Ru
   };
 }
 
-/** Lower ki (×0.97 a step) until the exact sampled analysis finds the loop stable with both peaks within the target. */
+/** Lower ki (× shrinkFactor a step) until the exact sampled analysis finds the loop stable with both peaks within the target. */
 function confirmExactly(gains: PidGains, loop: FullLoop, target: number, phaseMargin_deg: number | undefined): { gains: PidGains; sensitivityPeak: number; complementarySensitivityPeak: number; reductions: number } {
   let current = gains;
   for (let step = 0; step <= SHRINK_STEPS; step++) {
@@ -98,7 +104,7 @@ function confirmExactly(gains: PidGains, loop: FullLoop, target: number, phaseMa
     if (margins.stable && margins.sensitivityPeak <= bound && margins.complementarySensitivityPeak <= bound && phaseOk) {
       return { gains: current, sensitivityPeak: margins.sensitivityPeak, complementarySensitivityPeak: margins.complementarySensitivityPeak, reductions: step };
     }
-    current = { ...current, ki: current.ki * 0.97 };
+    current = { ...current, ki: current.ki * MIGO_EXACT_CHECK_DEFAULTS.shrinkFactor };
   }
   throw new SpeedbandError('tuning.notConfirmed', `rule migo: the exact analysis of the sampled loop does not confirm the optimised design within M = ${target} (kp = ${gains.kp}, ki = ${gains.ki}, kd = ${gains.kd}) — report this loop`, {
     details: { ...gains, sensitivityPeakTarget: target },

@@ -65,12 +65,12 @@ export function tuneOperatingPoint(request: OperatingPointRequest): TunedOperati
   const controllerDelay_s = samplingDelay_s(controller);
   const loop =
     model.kind === 'lumped'
-      ? loopPlantFromLumped(specification, model.yawRate, speed_mps, controller, model.cgToFrontAxle_m)
+      ? loopPlantFromLumped({ specification, model: model.yawRate, speed_mps, controller, cgToFrontAxle_m: model.cgToFrontAxle_m })
       : loopPlantFromSingleTrack(specification, model.parameters, speed_mps, controller);
   const design =
     model.kind === 'lumped'
-      ? designModelFromLumped(specification.kind, model.yawRate, speed_mps, controllerDelay_s, loop.previewFromCg_m ?? 0)
-      : designModelFromSingleTrack(specification.kind, model.parameters, speed_mps, controllerDelay_s, loop.previewFromCg_m ?? 0);
+      ? designModelFromLumped({ kind: specification.kind, model: model.yawRate, speed_mps, controllerDelay_s, previewFromCg_m: loop.previewFromCg_m ?? 0 })
+      : designModelFromSingleTrack({ kind: specification.kind, parameters: model.parameters, speed_mps, controllerDelay_s, previewFromCg_m: loop.previewFromCg_m ?? 0 });
   // The loop as the firmware runs it: the plant's own delay and the latency, without the Ts/2 the design model adds for the hold.
   const fullLoop = { plant: { ...loop.plant, delay_s: loop.plant.delay_s - controller.sampleTime_s / 2 }, controller };
   const derivation = applyRule(request.rule, design.model, request.ruleParameters, {

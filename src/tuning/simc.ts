@@ -53,7 +53,7 @@ export function simc(model: DesignModel, parameters: RuleParameters): RuleResult
   }
   const lead = model.leadTimeConstant_s ?? 0;
   if (model.integrators === 2 && lead > TUNING_DEFAULTS.negligibleLeadPerHorizon * (tauC + theta)) {
-    return simcWithLead(model, parameters, lead, tauC, theta);
+    return simcWithLead(model, parameters, { lead, tauC, theta });
   }
   const k = reduced.gain;
   const horizon = tauC + theta;
@@ -114,7 +114,19 @@ export function simc(model: DesignModel, parameters: RuleParameters): RuleResult
  * that band, k''(T0 s + 1)/s² ≈ k''T0/s, and the integrating rule applies to k' = k''·T0 (same τc); between
  * negligibleLeadPerHorizon and integratorLeadPerHorizon times (τc + θ) neither model holds and SIMC refuses.
  */
-function simcWithLead(model: DesignModel, parameters: RuleParameters, lead: number, tauC: number, theta: number): RuleResult {
+function simcWithLead(
+  model: DesignModel,
+  parameters: RuleParameters,
+  timing: {
+    /** The path loop's lead T0, s. */
+    readonly lead: number;
+    /** τc, s. */
+    readonly tauC: number;
+    /** θ of the design model, s. */
+    readonly theta: number;
+  },
+): RuleResult {
+  const { lead, tauC, theta } = timing;
   const horizon = tauC + theta;
   if (lead < TUNING_DEFAULTS.integratorLeadPerHorizon * horizon) {
     throw ruleNotApplicable(

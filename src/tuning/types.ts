@@ -70,7 +70,7 @@ export type RuleName =
   | 'amigo'
   | 'migo';
 
-/** Every rule parameter, all optional; `resolveRuleParameters` applies TUNING_DEFAULTS. */
+/** Every rule parameter, all optional; each rule takes the value of TUNING_DEFAULTS for one not given. */
 export interface RuleParameters {
   /** Ziegler–Nichols controller rows: P, PI or PID. */
   readonly controllerType?: ControllerType;

@@ -63,7 +63,7 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
   const discrete = loop.discreteController ?? null;
   const plant = discrete === null ? null : sampledPlant({ numerator, denominator, delay_s: loop.delay_s }, discrete.sampleTime_s);
-  const sweep = sweepLoop(numerator, denominator, loop.delay_s, discrete, true, plant);
+  const sweep = sweepLoop({ numerator, denominator, delay_s: loop.delay_s, discreteController: discrete, sampledPlant: plant, crossings: 'gainAndPhase' });
   const decision = discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep);
   const { verdict } = decision;
   const stable = verdict === 'stable';
@@ -124,7 +124,7 @@ function stableWithAddedDelay(loop: OpenLoop, added_s: number, sweep: Sweep, nom
   const discrete = loop.discreteController ?? null;
   const delay_s = loop.delay_s + added_s;
   if (discrete === null || nominal === null) {
-    const trial = sweepLoop(loop.numerator, loop.denominator, delay_s, null, false);
+    const trial = sweepLoop({ numerator: loop.numerator, denominator: loop.denominator, delay_s, discreteController: null, sampledPlant: null, crossings: 'phaseOnly' });
     return continuousDecision(loop.numerator, loop.denominator, delay_s, trial).verdict === 'stable';
   }
   // Whole samples added: z^(−k) on the nominal sampled plant, exactly, without a new discretisation.
@@ -138,15 +138,16 @@ function stableWithAddedDelay(loop: OpenLoop, added_s: number, sweep: Sweep, nom
 }
 
 /**
- * Whether a fraction of a sample of delay may matter anywhere below two samples: |L| reaches 0.5 in the upper half
- * of a sampled loop's band (π/(2Ts) … π/Ts), or a closed-loop pole at high frequency (|arg z| ≥ π/2) lies within
- * 0.1 of the unit circle (or the poles are not known).
+ * Whether a fraction of a sample of delay may matter anywhere below two samples: |L| reaches
+ * `upperBandMagnitude` (0.5) in the upper half of a sampled loop's band (π/(2Ts) … π/Ts), or a closed-loop pole
+ * at high frequency (|arg z| ≥ π/2) has |z| ≥ `highFrequencyPoleMagnitude` (0.9: within 0.1 of the unit circle),
+ * or the poles are not known.
  */
 function fractionSensitive(sweep: Sweep, sampleTime_s: number, highFrequencyPole: number | null): boolean {
   if (highFrequencyPole === null || highFrequencyPole >= ANALYSIS_DEFAULTS.delayMargin.highFrequencyPoleMagnitude) return true;
   const { frequency_radps: w, magnitude } = sweep.grid;
   const from = Math.PI / (2 * sampleTime_s);
-  for (let i = w.length - 1; i >= 0 && w[i] >= from; i--) if (magnitude[i] >= 0.5) return true;
+  for (let i = w.length - 1; i >= 0 && w[i] >= from; i--) if (magnitude[i] >= ANALYSIS_DEFAULTS.delayMargin.upperBandMagnitude) return true;
   return false;
 }
 

@@ -40,40 +40,47 @@ function orderFor(normalisedFrequency: number): { order: number; withinBound: bo
   return { order, withinBound: order <= PADE_DEFAULTS.maximumOrder };
 }
 
+/** The loop N(s)/D(s)·e^(−θs) whose closed loop (unit negative feedback) is checked. */
+export interface PoleCheckLoop {
+  /** Coefficients of N and D, highest power first. */
+  readonly numerator: readonly number[];
+  readonly denominator: readonly number[];
+  /** θ, s. */
+  readonly delay_s: number;
+  /** A pole with |Re| ≤ relativeTolerance·max|pole| counts as on the axis. */
+  readonly relativeTolerance: number;
+}
+
+/** The Padé approximant used: its order, and whether that order met the phase bound (false: capped). */
+interface PadeChoice {
+  readonly order: number;
+  readonly withinBound: boolean;
+}
+
 /**
  * Closed-loop poles of 1 + N/D·e^(−θs) = 0 with a Padé approximant good to 1° of phase
  * up to bandFrequency_radps. A pole with |Re| ≤ relativeTolerance·max|pole| counts as
  * on the axis ('marginal'), so a pole nudged from 0 to +1e−14 by arithmetic flips nothing.
  */
-export function closedLoopPoleVerdict(
-  numerator: readonly number[],
-  denominator: readonly number[],
-  delay_s: number,
-  bandFrequency_radps: number,
-  relativeTolerance: number,
-): PoleVerdict {
-  if (delay_s === 0) return poleVerdictWithOrder(numerator, denominator, 0, 0, true, relativeTolerance);
-  const chosen = orderFor(delay_s * bandFrequency_radps);
-  return poleVerdictWithOrder(numerator, denominator, delay_s, Math.max(1, Math.min(chosen.order, PADE_DEFAULTS.maximumOrder)), chosen.withinBound, relativeTolerance);
+export function closedLoopPoleVerdict(loop: PoleCheckLoop & { readonly bandFrequency_radps: number }): PoleVerdict {
+  if (loop.delay_s === 0) return poleVerdictWithPade({ ...loop, delay_s: 0 }, { order: 0, withinBound: true });
+  const chosen = orderFor(loop.delay_s * loop.bandFrequency_radps);
+  return poleVerdictWithPade(loop, { order: Math.max(1, Math.min(chosen.order, PADE_DEFAULTS.maximumOrder)), withinBound: chosen.withinBound });
 }
 
 /** As closedLoopPoleVerdict with a given Padé order (≥ 1 with a delay; ignored without one). */
-export function closedLoopPoleVerdictAtOrder(numerator: readonly number[], denominator: readonly number[], delay_s: number, order: number, relativeTolerance: number): PoleVerdict {
-  return poleVerdictWithOrder(numerator, denominator, delay_s, delay_s === 0 ? 0 : order, true, relativeTolerance);
+export function closedLoopPoleVerdictAtOrder(loop: PoleCheckLoop & { readonly padeOrder: number }): PoleVerdict {
+  return poleVerdictWithPade(loop, { order: loop.delay_s === 0 ? 0 : loop.padeOrder, withinBound: true });
 }
 
-function poleVerdictWithOrder(
-  numerator: readonly number[],
-  denominator: readonly number[],
-  delay_s: number,
-  padeOrder: number,
-  padeWithinBound: boolean,
-  relativeTolerance: number,
-): PoleVerdict {
+function poleVerdictWithPade(loop: PoleCheckLoop, pade: PadeChoice): PoleVerdict {
+  const { numerator, denominator, delay_s, relativeTolerance } = loop;
+  const padeOrder = pade.order;
+  const padeWithinBound = pade.withinBound;
   let characteristic: number[];
   if (delay_s > 0) {
-    const pade = padeApproximant(delay_s, padeOrder);
-    characteristic = addPolynomials(multiplyPolynomials(denominator, pade.denominator), multiplyPolynomials(numerator, pade.numerator));
+    const approximant = padeApproximant(delay_s, padeOrder);
+    characteristic = addPolynomials(multiplyPolynomials(denominator, approximant.denominator), multiplyPolynomials(numerator, approximant.numerator));
   } else {
     characteristic = addPolynomials([...denominator], [...numerator]);
   }

@@ -61,10 +61,22 @@ export function continuousDecision(numerator: readonly number[], denominator: re
       : count.closedLoopRightHalfPlanePoles === 0
         ? 'stable'
         : 'unstable';
-  let poles = closedLoopPoleVerdict(numerator, denominator, delay_s, bandWhereGainMatters(sweep.grid, ANALYSIS_DEFAULTS.padeBandMagnitude), ANALYSIS_DEFAULTS.poleRelativeTolerance);
+  let poles = closedLoopPoleVerdict({
+    numerator,
+    denominator,
+    delay_s,
+    bandFrequency_radps: bandWhereGainMatters(sweep.grid, ANALYSIS_DEFAULTS.padeBandMagnitude),
+    relativeTolerance: ANALYSIS_DEFAULTS.poleRelativeTolerance,
+  });
   const disagrees = (): boolean => encirclementVerdict !== 'undetermined' && encirclementVerdict !== poles.verdict;
   if (delay_s > 0 && disagrees() && poles.padeOrder < ANALYSIS_DEFAULTS.padeRetryOrder) {
-    poles = closedLoopPoleVerdictAtOrder(numerator, denominator, delay_s, ANALYSIS_DEFAULTS.padeRetryOrder, ANALYSIS_DEFAULTS.poleRelativeTolerance);
+    poles = closedLoopPoleVerdictAtOrder({
+      numerator,
+      denominator,
+      delay_s,
+      padeOrder: ANALYSIS_DEFAULTS.padeRetryOrder,
+      relativeTolerance: ANALYSIS_DEFAULTS.poleRelativeTolerance,
+    });
   }
   let verdict: LoopMargins['verdict'];
   let verdictNote: string | null = null;
@@ -107,7 +119,7 @@ export function continuousDecision(numerator: readonly number[], denominator: re
  * outside the unit circle; origin poles include the controller's integrator at z = 1).
  */
 export function sampledDecision(plant: SampledPlant, discrete: DiscreteControllerFactor, sweep: Sweep): Decision {
-  const poles = sampledVerdictOf(plant, discrete, discrete.sampleTime_s, sweep);
+  const poles = sampledVerdictOf({ plant, controller: discrete, sampleTime_s: discrete.sampleTime_s, plantPoles: sweep });
   const count = sampledNyquistCount(plant, discrete, sweep, { pulseNumerator: sweep.compiled.sampled?.pulse.numerator });
   return {
     verdict: poles.verdict,

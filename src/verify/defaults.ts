@@ -46,8 +46,9 @@ export const ANALYSIS_DEFAULTS = {
     /** Sampled loops: also checked at `earlyStepsPerSample` points per sample up to this many samples (or the estimate). */
     earlySamples: 2,
     earlyStepsPerSample: 8,
-    /** … when a closed-loop pole with |arg z| ≥ π/2 has at least this |z| (or |L| ≥ 0.5 in the upper half of the band). */
+    /** … when a closed-loop pole with |arg z| ≥ π/2 has at least this |z| (or |L| ≥ `upperBandMagnitude` in the upper half of the band). */
     highFrequencyPoleMagnitude: 0.9,
+    upperBandMagnitude: 0.5,
     /** Relative width of the bisection that shortens an estimate the exact verdict refutes. */
     bisectionRelativeTolerance: 1e-4,
     /** A sampled crossover above this angle per sample (ω·Ts, rad) is also checked just above the estimate. */

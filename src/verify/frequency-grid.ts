@@ -27,18 +27,25 @@ export interface GridSettings {
 
 /**
  * Band [low, high] (rad/s) from the loop's corner frequencies: |poles|, |zeros| off the
- * origin, 1/θ for the delay and 1/Ts for a discrete controller; `cornerFactor` below
- * the smallest and above the largest. Widened until |L| ≥ 10 at the low end when the
- * loop has poles at the origin (so the indentation is far outside −1) and until
- * |L| ≤ 0.01 at the high end when L is strictly proper. A discrete controller caps the
- * band at the Nyquist frequency π/Ts.
+ * origin, 1/(θ + Ts/2) for the delay (with a discrete controller's half sample of hold; 1/θ
+ * without one) and 1/Ts for a discrete controller; `cornerFactor` below the smallest and
+ * above the largest. Widened a decade at a time (at most 12) until |L| ≥ 10 at the low end
+ * when the loop has poles at the origin (so the indentation is far outside −1) and, on a
+ * continuous loop, until |L| ≤ 0.01 at the high end when L is strictly proper. A discrete
+ * controller caps the band at the Nyquist frequency π/Ts instead.
  */
 export function frequencyBand(
   loop: CompiledLoopResponse,
-  originPoles: number,
-  strictlyProper: boolean,
+  shape: {
+    /** Poles of L at the origin. */
+    readonly originPoles: number;
+    /** 'strictlyProper': deg N < deg D, so |L| falls at high frequency. */
+    readonly properness: 'strictlyProper' | 'proper';
+  },
   settings: GridSettings,
 ): { readonly low_radps: number; readonly high_radps: number } {
+  const { originPoles } = shape;
+  const strictlyProper = shape.properness === 'strictlyProper';
   let smallest = Infinity;
   let largest = 0;
   const note = (size: number): void => {

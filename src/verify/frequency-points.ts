@@ -35,7 +35,14 @@ export function loopFrequencyResponse(input: OpenLoop, frequencies_radps: readon
   const zeros = numerator.length > 1 && numerator.some((c) => c !== 0) ? analysisRoots(numerator) : [];
   const poles = denominator.length > 1 ? analysisRoots(denominator) : [];
   const plant = discrete === null ? null : sampledPlant({ numerator, denominator, delay_s: loop.delay_s }, discrete.sampleTime_s);
-  const compiled = compileLoopResponse(numerator, denominator, loop.delay_s, { zeros, poles, axisTolerance: axisToleranceOf([...zeros, ...poles]) }, discrete, plant);
+  const compiled = compileLoopResponse({
+    numerator,
+    denominator,
+    delay_s: loop.delay_s,
+    roots: { zeros, poles, axisTolerance: axisToleranceOf([...zeros, ...poles]) },
+    discreteController: discrete,
+    sampledPlant: plant,
+  });
   const point = newLoopPoint();
   return frequencies_radps.map((frequency_radps) => {
     evaluateLoopResponse(compiled, frequency_radps, point);

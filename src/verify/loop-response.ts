@@ -89,14 +89,21 @@ export const newLoopPoint = (): LoopPoint => ({ re: 0, im: 0, magnitude: 0, phas
  * `sampledPlant` (the zero-order-hold equivalent of N/D·e^(−delay_s·s) at its sample time,
  * from `sampledPlant`) the loop is evaluated exactly as C(e^(jωTs))·G(e^(jωTs)) instead.
  */
-export function compileLoopResponse(
-  numerator: readonly number[],
-  denominator: readonly number[],
-  delay_s: number,
-  roots: { readonly zeros: readonly Complex[]; readonly poles: readonly Complex[]; readonly axisTolerance: number },
-  discrete: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number } | null,
-  sampledPlant: SampledPlant | null = null,
-): CompiledLoopResponse {
+export function compileLoopResponse(loop: {
+  /** Coefficients of N and D, highest power first. */
+  readonly numerator: readonly number[];
+  readonly denominator: readonly number[];
+  readonly delay_s: number;
+  /** The roots of N and D, and the distance (rad/s) within which a root counts as on the imaginary axis. */
+  readonly roots: { readonly zeros: readonly Complex[]; readonly poles: readonly Complex[]; readonly axisTolerance: number };
+  /** The discrete controller C(z), or null for a continuous loop. */
+  readonly discreteController: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number } | null;
+  /** The zero-order-hold equivalent of the plant at the controller's sample time, or null (then absent). */
+  readonly sampledPlant?: SampledPlant | null;
+}): CompiledLoopResponse {
+  const { numerator, denominator, delay_s, roots } = loop;
+  const discrete = loop.discreteController;
+  const sampledPlant = loop.sampledPlant ?? null;
   const poles = continuousRootAngles(roots.poles, roots.axisTolerance);
   return {
     numerator: Float64Array.from(numerator),

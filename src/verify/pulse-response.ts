@@ -38,13 +38,18 @@ export const newPulsePoint = (): PulsePoint => ({ re: 0, im: 0, bodyRe: 0, bodyI
  * (rad/s; those within the axis tolerance of the origin given as exactly 0), the sample time (s),
  * C(z) and the whole samples of delay ℓ.
  */
-export function compilePulseResponse(
-  pulseNumerator: readonly number[],
-  continuousPoles: readonly Complex[],
-  sampleTime_s: number,
-  controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] },
-  wholeSampleDelay: number,
-): PulseResponse {
+export function compilePulseResponse(loop: {
+  /** B(z), powers of z, highest first. */
+  readonly pulseNumerator: readonly number[];
+  /** The continuous plant poles pᵢ, rad/s (those within the axis tolerance of the origin exactly 0). */
+  readonly continuousPoles: readonly Complex[];
+  readonly sampleTime_s: number;
+  /** C(z). */
+  readonly controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] };
+  /** ℓ, whole samples of delay. */
+  readonly wholeSampleDelay: number;
+}): PulseResponse {
+  const { pulseNumerator, continuousPoles, sampleTime_s, controller, wholeSampleDelay } = loop;
   const { b, a } = controllerInDelays(controller);
   const offsetRe = new Float64Array(continuousPoles.length);
   const offsetIm = new Float64Array(continuousPoles.length);

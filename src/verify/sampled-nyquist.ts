@@ -17,7 +17,7 @@ import { ANALYSIS_DEFAULTS } from './defaults.js';
 import { controllerInDelays, type SampledPlant } from './sampled-plant.js';
 import { analysisRoots } from './small-roots.js';
 import type { PlantPoles } from './pole-counts.js';
-import { compilePulseResponse, evaluatePulse, newPulsePoint } from './pulse-response.js';
+import { compilePulseResponse, evaluatePulse, newPulsePoint, type PulseResponse } from './pulse-response.js';
 import { pulseTransferFunction } from './pulse-transfer-function.js';
 import { SpeedbandError } from '../core/errors.js';
 
@@ -153,18 +153,51 @@ export function sampledNyquistCount(
   options: { readonly extraWholeSamples?: number; readonly pulseNumerator?: readonly number[] } = {},
 ): SampledNyquistResult {
   const extraWholeSamples = options.extraWholeSamples ?? 0;
-  const { a } = controllerInDelays(controller);
+  const counted = openLoopPoleCount(controller, plantPoles);
+  const { unitPoles, outside } = counted;
+  const undetermined = (reason: string): SampledNyquistResult => ({ verdict: 'undetermined', closedLoopOutsidePoles: null, reason, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles });
+  if (counted.unhandled !== null) return undetermined(counted.unhandled);
+  const response = compilePulseResponse({
+    pulseNumerator: options.pulseNumerator ?? pulseTransferFunction(plant).numerator,
+    continuousPoles: plantPoles.poles,
+    sampleTime_s: plant.sampleTime_s,
+    controller,
+    wholeSampleDelay: plant.wholeSampleDelay,
+  });
+  const { turn, marginal } = turnOfReturnDifference(response, initialAngleGrid(unitPoles), extraWholeSamples, plant);
+  if (marginal) return { verdict: 'marginal', closedLoopOutsidePoles: null, reason: 'the loop passes through −1 (marginal)', openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
+  const windings = (2 * turn - unitPoles * Math.PI) / (2 * Math.PI);
+  const rounded = Math.round(windings);
+  if (Math.abs(windings - rounded) > 0.05) return undetermined(`the encirclement count is not a whole number (${windings.toFixed(3)})`);
+  const z = outside - rounded;
+  if (z < 0) return undetermined(`inconsistent count Z = ${z}`);
+  return { verdict: z === 0 ? 'stable' : 'unstable', closedLoopOutsidePoles: z, reason: null, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
+}
+
+/**
+ * Open-loop poles of plant and controller at z = 1 and outside the unit circle (the plant's from its continuous
+ * poles, the controller's from the roots of its denominator); `unhandled` says why the count cannot be made (a pole
+ * on the circle away from z = 1), else null.
+ */
+function openLoopPoleCount(
+  controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] },
+  plantPoles: PlantPoles,
+): { unitPoles: number; outside: number; unhandled: string | null } {
   let unitPoles = plantPoles.originPoles;
   let outside = plantPoles.rightHalfPlanePoles;
-  const undetermined = (reason: string): SampledNyquistResult => ({ verdict: 'undetermined', closedLoopOutsidePoles: null, reason, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles });
-  if (plantPoles.otherAxisPoles > 0) return undetermined('open-loop poles on the unit circle away from z = 1');
+  if (plantPoles.otherAxisPoles > 0) return { unitPoles, outside, unhandled: 'open-loop poles on the unit circle away from z = 1' };
+  const { a } = controllerInDelays(controller);
   for (const root of analysisRoots(a)) {
     const size = Math.hypot(root.re, root.im);
     if (Math.hypot(root.re - 1, root.im) <= SETTINGS.circleTolerance) unitPoles++;
-    else if (Math.abs(size - 1) <= SETTINGS.circleTolerance) return undetermined('a controller pole on the unit circle away from z = 1');
+    else if (Math.abs(size - 1) <= SETTINGS.circleTolerance) return { unitPoles, outside, unhandled: 'a controller pole on the unit circle away from z = 1' };
     else if (size > 1) outside++;
   }
-  const response = compilePulseResponse(options.pulseNumerator ?? pulseTransferFunction(plant).numerator, plantPoles.poles, plant.sampleTime_s, controller, plant.wholeSampleDelay);
+  return { unitPoles, outside, unhandled: null };
+}
+
+/** The initial grid of angles ϑ over (0, π]: uniform, plus log-spaced points down to the detour when there are poles at z = 1. */
+function initialAngleGrid(unitPoles: number): number[] {
   const start = unitPoles > 0 ? SETTINGS.detourAngle_rad : 0;
   const grid: number[] = [start];
   if (unitPoles > 0) {
@@ -174,7 +207,22 @@ export function sampledNyquistCount(
     for (let i = 1; i < count; i++) grid.push(start * Math.pow(10, (decades * i) / count));
   }
   for (let i = 1; i <= SETTINGS.uniformPoints; i++) grid.push((Math.PI * i) / SETTINGS.uniformPoints);
+  return grid;
+}
 
+/** Angle turned from p to q (principal value), rad. */
+function angleBetween(pRe: number, pIm: number, qRe: number, qIm: number): number {
+  return Math.atan2(pRe * qIm - pIm * qRe, pRe * qRe + pIm * qIm);
+}
+
+/**
+ * The turn of 1 + L(e^(jϑ)) over the grid (rad), each step refined by bisection until it turns 1 + L by at most
+ * maximumTurn_rad and L by at most maximumLoopTurn_rad; `marginal` when 1 + L passed through 0 on the way.
+ * The delay register turns L by (ℓ+1)·ϑ without changing |L|: where |L| stays small that turn cannot move
+ * 1 + L round the origin, so the refinement follows L without it (the body) there, and L itself only where
+ * |L| ≥ rotationMagnitude. The work then does not grow with the delay.
+ */
+function turnOfReturnDifference(response: PulseResponse, grid: readonly number[], extraWholeSamples: number, plant: SampledPlant): { turn: number; marginal: boolean } {
   let turn = 0;
   let marginal = false;
   let evaluations = grid.length;
@@ -195,12 +243,7 @@ export function sampledNyquistCount(
     const l2 = point.re * point.re + point.im * point.im;
     if ((1 + point.re) * (1 + point.re) + point.im * point.im <= marginal2 * Math.max(1, l2)) marginal = true;
   };
-  /** Angle turned from p to q (principal value), rad. */
-  const angleBetween = (pRe: number, pIm: number, qRe: number, qIm: number): number => Math.atan2(pRe * qIm - pIm * qRe, pRe * qRe + pIm * qIm);
   // Walk from (left) to (right): the left end is the point on top of the stack, the right end below it.
-  // The delay register turns L by (ℓ+1)·ϑ without changing |L|: where |L| stays small that turn cannot move
-  // 1 + L round the origin, so the refinement follows L without it (the body) there, and L itself only where
-  // |L| ≥ rotationMagnitude. The work then does not grow with the delay.
   evaluate(grid[0]);
   let leftAngle = grid[0];
   let leftRe = point.re;
@@ -248,13 +291,7 @@ export function sampledNyquistCount(
       top--;
     }
   }
-  if (marginal) return { verdict: 'marginal', closedLoopOutsidePoles: null, reason: 'the loop passes through −1 (marginal)', openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
-  const windings = (2 * turn - unitPoles * Math.PI) / (2 * Math.PI);
-  const rounded = Math.round(windings);
-  if (Math.abs(windings - rounded) > 0.05) return undetermined(`the encirclement count is not a whole number (${windings.toFixed(3)})`);
-  const z = outside - rounded;
-  if (z < 0) return undetermined(`inconsistent count Z = ${z}`);
-  return { verdict: z === 0 ? 'stable' : 'unstable', closedLoopOutsidePoles: z, reason: null, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
+  return { turn, marginal };
 }
 
 function tooManyEvaluations(plant: SampledPlant, evaluations: number): SpeedbandError {

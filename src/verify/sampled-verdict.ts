@@ -94,7 +94,12 @@ export interface SampledVerdict {
  * improper plant.
  */
 export function sampledLoopVerdict(loop: SampledLoop): SampledVerdict {
-  return sampledVerdictOf(sampledPlant(loop.plant, loop.sampleTime_s), loop.controller, loop.sampleTime_s, plantPoleCounts(loop.plant.denominator));
+  return sampledVerdictOf({
+    plant: sampledPlant(loop.plant, loop.sampleTime_s),
+    controller: loop.controller,
+    sampleTime_s: loop.sampleTime_s,
+    plantPoles: plantPoleCounts(loop.plant.denominator),
+  });
 }
 
 /**
@@ -102,13 +107,16 @@ export function sampledLoopVerdict(loop: SampledLoop): SampledVerdict {
  * plant's origin, right-half-plane and other axis poles) serve the argument-principle fallback, which
  * decides past `maximumEigenvalueOrder`.
  */
-export function sampledVerdictOf(
-  plant: SampledPlant,
-  controller: SampledLoop['controller'],
-  sampleTime_s: number,
-  plantPoles: PlantPoles,
-  maximumEigenvalueOrder: number = ANALYSIS_DEFAULTS.sampledEigenvalueMaximumOrder,
-): SampledVerdict {
+export function sampledVerdictOf(loop: {
+  readonly plant: SampledPlant;
+  readonly controller: SampledLoop['controller'];
+  readonly sampleTime_s: number;
+  readonly plantPoles: PlantPoles;
+  /** Closed-loop orders up to this are decided by eigenvalues; default ANALYSIS_DEFAULTS.sampledEigenvalueMaximumOrder. */
+  readonly maximumEigenvalueOrder?: number;
+}): SampledVerdict {
+  const { plant, controller, sampleTime_s, plantPoles } = loop;
+  const maximumEigenvalueOrder = loop.maximumEigenvalueOrder ?? ANALYSIS_DEFAULTS.sampledEigenvalueMaximumOrder;
   const common = { wholeSampleDelay: plant.wholeSampleDelay, fractionalDelay_s: plant.fractionalDelay_s, closedLoopOrder: sampledClosedLoopOrder(plant, controller) };
   if (common.closedLoopOrder <= maximumEigenvalueOrder) {
     const { matrix, size } = sampledClosedLoopMatrix(plant, controller);
@@ -151,7 +159,7 @@ function judgePoles(result: ReturnType<typeof eigenvalues>, size: number, sample
     if (im < 0) continue; // the pair's upper member stands for both
     const magnitude = Math.hypot(re, im);
     if (re <= 0) highFrequency = Math.max(highFrequency, magnitude);
-    const bound = Math.abs(magnitude - 1) > CONDITION_WITHIN ? 0 : Math.min(eigenvalueCondition(result.hessenberg, size, re, im, result.norm) * eta, Number.MAX_VALUE);
+    const bound = Math.abs(magnitude - 1) > CONDITION_WITHIN ? 0 : Math.min(eigenvalueCondition(result, size, { re, im }) * eta, Number.MAX_VALUE);
     const pole: ClosedLoopPole = { re, im, magnitude, errorBound: bound };
     if (largest === null || magnitude > largest.magnitude) largest = pole;
     if (magnitude - bound > 1) outside = true;

@@ -36,20 +36,31 @@ export function cancelCommonIntegrators(numerator: readonly number[], denominato
   return { numerator: numerator.slice(0, n), denominator: denominator.slice(0, d) };
 }
 
+/** Which crossings a sweep looks for: the negative-real-axis (phase) crossings always, the gain crossovers when asked. */
+export type SweepCrossings = 'gainAndPhase' | 'phaseOnly';
+
+/** The loop N(s)/D(s)·e^(−θs), under a discrete controller or not, to sweep. */
+export interface SweepRequest {
+  /** Coefficients of N and D, highest power first. */
+  readonly numerator: readonly number[];
+  readonly denominator: readonly number[];
+  /** θ, s. */
+  readonly delay_s: number;
+  /** The discrete controller closing the loop, or null for a continuous loop. */
+  readonly discreteController: OpenLoop['discreteController'] | null;
+  /** The zero-order-hold equivalent of N/D·e^(−θs) at the controller's sample time (with a discrete controller), or null. */
+  readonly sampledPlant: SampledPlant | null;
+  readonly crossings: SweepCrossings;
+}
+
 /**
  * Roots of N and D (|Re| ≤ 1e−9·max(1, largest |root|) is on the axis), the band and grid,
- * gain crossovers (when asked) and the negative-real-axis crossings that can matter. With a
- * discrete controller and `sampledPlant` (the zero-order-hold equivalent of N/D·e^(−θs)) the
- * loop is swept exactly on C(e^(jωTs))·G(e^(jωTs)) up to π/Ts.
+ * gain crossovers (with `crossings: 'gainAndPhase'`) and the negative-real-axis crossings that
+ * can matter. With a discrete controller and `sampledPlant` the loop is swept exactly on
+ * C(e^(jωTs))·G(e^(jωTs)) up to π/Ts.
  */
-export function sweepLoop(
-  numerator: readonly number[],
-  denominator: readonly number[],
-  delay_s: number,
-  discrete: OpenLoop['discreteController'] | null,
-  withGainCrossovers: boolean,
-  sampledPlant: SampledPlant | null = null,
-): Sweep {
+export function sweepLoop(request: SweepRequest): Sweep {
+  const { numerator, denominator, delay_s, discreteController: discrete, sampledPlant } = request;
   const zeros: Complex[] = numerator.length > 1 && numerator.some((c) => c !== 0) ? analysisRoots(numerator) : [];
   const poles: Complex[] = denominator.length > 1 ? analysisRoots(denominator) : [];
   const axisTolerance = axisToleranceOf([...zeros, ...poles]);
@@ -60,14 +71,21 @@ export function sweepLoop(
     // Lightly damped roots: make sure the grid sees their resonance or notch.
     if (r.im > Math.abs(r.re)) extraFrequencies.push(r.im - Math.abs(r.re), r.im, r.im + Math.abs(r.re));
   }
-  const compiled = compileLoopResponse(numerator, denominator, delay_s, { zeros, poles, axisTolerance }, discrete ?? null, sampledPlant);
-  const band = frequencyBand(compiled, originPoles, numerator.length < denominator.length, ANALYSIS_DEFAULTS.grid);
+  const compiled = compileLoopResponse({
+    numerator,
+    denominator,
+    delay_s,
+    roots: { zeros, poles, axisTolerance },
+    discreteController: discrete ?? null,
+    sampledPlant,
+  });
+  const band = frequencyBand(compiled, { originPoles, properness: numerator.length < denominator.length ? 'strictlyProper' : 'proper' }, ANALYSIS_DEFAULTS.grid);
   const grid = sampleLoop(compiled, band, extraFrequencies, ANALYSIS_DEFAULTS.grid);
   return {
     compiled,
     grid,
     band,
-    gainCrossovers: withGainCrossovers ? findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance) : [],
+    gainCrossovers: request.crossings === 'gainAndPhase' ? findGainCrossovers(compiled, grid, ANALYSIS_DEFAULTS.frequencyRelativeTolerance) : [],
     phaseCrossovers: findPhaseCrossovers(compiled, grid, {
       relativeTolerance: ANALYSIS_DEFAULTS.frequencyRelativeTolerance,
       refineAbove: ANALYSIS_DEFAULTS.refineAbove,

@@ -23,12 +23,19 @@ const GAIN_RELATIVE = 0.02; // brief: gain within 2 %
 const TIME_CONSTANT_RELATIVE = 0.1; // brief: time constant within 10 %
 const DEAD_TIME_S = 0.01; // brief: dead time within 10 ms
 
-describe('simulateFopdt(time, input, K, τ, θ)', () => {
+describe('simulateFopdt({ time_s, input, gain, timeConstant_s, deadTime_s, hold })', () => {
   it('equals the closed-form FOPDT response to a ramped step, for delays that are not whole samples', () => {
     // Source: closed-form ramp response r(t) = t − τ(1 − e^(−t/τ)) (textbook; test/identify/synthetic.ts)
     for (const deadTime_s of [0, 0.05, 0.0437, 0.2]) {
       const signals = rampStepSignals({ noise: 0, bias: 0, deadTime_s });
-      const simulated = simulateFopdt(signals.time_s, signals.input, RAMP_STEP.gain, RAMP_STEP.timeConstant_s, deadTime_s, 'linear');
+      const simulated = simulateFopdt({
+        time_s: signals.time_s,
+        input: signals.input,
+        gain: RAMP_STEP.gain,
+        timeConstant_s: RAMP_STEP.timeConstant_s,
+        deadTime_s,
+        hold: 'linear',
+      });
       let worst = 0;
       for (let i = 0; i < simulated.length; i++) worst = Math.max(worst, Math.abs(simulated[i] - signals.clean[i]));
       expect(worst).toBeLessThan(1e-12);
@@ -40,7 +47,7 @@ describe('simulateFopdt(time, input, K, τ, θ)', () => {
     const signals = rampStepSignals({ noise: 0 });
     for (const deadTime_s of [0, 0.0437, 0.2]) {
       const reference = inputResponse(transferFunction([2.5], [0.35, 1], deadTime_s), signals.time_s, signals.input);
-      const simulated = simulateFopdt(signals.time_s, signals.input, 2.5, 0.35, deadTime_s, 'zeroOrder');
+      const simulated = simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: 2.5, timeConstant_s: 0.35, deadTime_s, hold: 'zeroOrder' });
       let worst = 0;
       for (let i = 0; i < simulated.length; i++) worst = Math.max(worst, Math.abs(simulated[i] - reference.output[i]));
       expect(worst).toBeLessThan(1e-10);
@@ -49,8 +56,8 @@ describe('simulateFopdt(time, input, K, τ, θ)', () => {
 
   it('is continuous in the dead time across a sample boundary', () => {
     const signals = rampStepSignals({ noise: 0 });
-    const below = simulateFopdt(signals.time_s, signals.input, 1, 0.3, 0.1 - 1e-9, 'linear');
-    const above = simulateFopdt(signals.time_s, signals.input, 1, 0.3, 0.1 + 1e-9, 'linear');
+    const below = simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: 1, timeConstant_s: 0.3, deadTime_s: 0.1 - 1e-9, hold: 'linear' });
+    const above = simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: 1, timeConstant_s: 0.3, deadTime_s: 0.1 + 1e-9, hold: 'linear' });
     let worst = 0;
     for (let i = 0; i < below.length; i++) worst = Math.max(worst, Math.abs(below[i] - above[i]));
     expect(worst).toBeLessThan(1e-9);
@@ -189,7 +196,7 @@ describe('fitFopdt on a held command: minima at the sample kinks', () => {
     const fit = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, hold: 'zeroOrder', biasMode: 'fitted' });
     expect(fit.fit.stopReason).toBe('converged');
     const ssr = (tau: number, theta: number): number =>
-      projectGainAndBias(signals.output, simulateFopdt(signals.time_s, signals.input, 1, tau, theta, 'zeroOrder'), null).ssr;
+      projectGainAndBias(signals.output, simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: 1, timeConstant_s: tau, deadTime_s: theta, hold: 'zeroOrder' }), null).ssr;
     let bruteForce = Infinity;
     for (let k = -120; k <= 120; k++) {
       const theta = fit.model.deadTime_s + k * 0.00025;

@@ -16,7 +16,7 @@ const input = time_s.map((t) => 0.03 * Math.min(1, Math.max(0, (t - 1) / 0.15)))
 // A yaw-like response with a zero: K = 3, ωn = 6 rad/s, ζ = 0.55, β = 0.12 s, θ = 0.05 s (five samples)
 const TRUE = { gain: 3, naturalFrequency_radps: 6, dampingRatio: 0.55, zeroTimeConstant_s: 0.12, deadTime_s: 0.05 };
 
-describe('simulateSecondOrder(time, input, K, ωn, ζ, β, θ)', () => {
+describe('simulateSecondOrder({ time_s, input, gain, naturalFrequency_radps, dampingRatio, zeroTimeConstant_s, deadTime_s, hold })', () => {
   it('matches scipy.signal.lsim with linear interpolation of the input (whole-sample delay) to 1e−9', () => {
     const cases = [TRUE, { ...TRUE, dampingRatio: 1.4, zeroTimeConstant_s: 0 }, { ...TRUE, dampingRatio: 1, deadTime_s: 0 }];
     // Source: scipy.signal.lsim(interp=True) — exact for a linearly interpolated input
@@ -39,7 +39,7 @@ print(json.dumps(out))
       { t: Array.from(time_s), u: Array.from(input), h, cases },
     );
     cases.forEach((c, i) => {
-      const y = simulateSecondOrder(time_s, input, c.gain, c.naturalFrequency_radps, c.dampingRatio, c.zeroTimeConstant_s, c.deadTime_s, 'linear');
+      const y = simulateSecondOrder({ time_s, input, ...c, hold: 'linear' });
       let worst = 0;
       for (let k = 0; k < n; k++) worst = Math.max(worst, Math.abs(y[k] - reference[i][k]));
       expect(worst).toBeLessThan(1e-9);
@@ -47,13 +47,13 @@ print(json.dumps(out))
   });
 });
 
-describe('fitSecondOrder(signals, seed, withZero)', () => {
+describe('fitSecondOrder(signals, { seed, withZero, biasMode, hold })', () => {
   it('recovers a second-order-with-zero step and beats the FOPDT by BIC; on FOPDT data the FOPDT keeps the lower BIC', () => {
     const random = makeRandom(7);
-    const clean = simulateSecondOrder(time_s, input, TRUE.gain, TRUE.naturalFrequency_radps, TRUE.dampingRatio, TRUE.zeroTimeConstant_s, TRUE.deadTime_s, 'linear');
+    const clean = simulateSecondOrder({ time_s, input, ...TRUE, hold: 'linear' });
     const signals: StepSignals = { time_s, input, output: clean.map((v) => v + 0.003 * random.normal()), preStepSamples: 100 };
     const fopdt = fitFopdt(signals, LINEAR);
-    const withZero = fitSecondOrder(signals, fopdt.model, true, 'fitted', 'linear');
+    const withZero = fitSecondOrder(signals, { seed: fopdt.model, withZero: true, biasMode: 'fitted', hold: 'linear' });
     expect(withZero.fit.stopReason).toBe('converged');
     // Source: the generating parameters
     expect(Math.abs(withZero.model.gain / TRUE.gain - 1)).toBeLessThan(0.02);
@@ -63,7 +63,7 @@ describe('fitSecondOrder(signals, seed, withZero)', () => {
 
     const fopdtData = rampStepSignals({ seed: 3 });
     const fopdtOnFopdt = fitFopdt(fopdtData, LINEAR);
-    const secondOnFopdt = fitSecondOrder(fopdtData, fopdtOnFopdt.model, true, 'fitted', 'linear');
+    const secondOnFopdt = fitSecondOrder(fopdtData, { seed: fopdtOnFopdt.model, withZero: true, biasMode: 'fitted', hold: 'linear' });
     expect(fopdtOnFopdt.fit.quality.bic).toBeLessThan(secondOnFopdt.fit.quality.bic);
   });
 });

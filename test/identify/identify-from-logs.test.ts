@@ -97,7 +97,7 @@ describe('fitSingleTrack without nominal stiffnesses in the vehicle file', () =>
     const csv = readdirSync(join(folder, 'noisy')).filter((name) => name.endsWith('.csv')).sort().map((name) => join(folder, 'noisy', name));
     const steps = csv.flatMap((file) => findStepTests(readSteerLog(file)).steps);
     const speeds = noisy.speeds.map((s) => ({ speed_mps: s.speed_mps, model: { kind: 'fopdt' as const, gain: s.fopdt.gain, timeConstant_s: s.fopdt.timeConstant_s, deadTime_s: s.fopdt.deadTime_s } }));
-    const fit = fitSingleTrack(withoutStiffness, steps, speeds as unknown as SpeedModel[], null, 10);
+    const fit = fitSingleTrack({ vehicle: withoutStiffness, steps, speeds: speeds as unknown as SpeedModel[], actuator: null, mismatchWarning_pct: 10 });
     expect('reasonCode' in fit).toBe(false);
     const st = fit as SingleTrackFit;
     // Source: vehicles/parcel-van nominal values used by the simulator
@@ -121,13 +121,13 @@ describe('fitSingleTrack with a wrong vehicle file', () => {
         model: { kind: 'fopdt' as const, gain: s.fopdt.gain, timeConstant_s: s.fopdt.timeConstant_s, deadTime_s: s.fopdt.deadTime_s },
       };
     });
-    const fit = fitSingleTrack(wrong, steps, speeds as unknown as SpeedModel[], null, 10) as SingleTrackFit;
+    const fit = fitSingleTrack({ vehicle: wrong, steps, speeds: speeds as unknown as SpeedModel[], actuator: null, mismatchWarning_pct: 10 }) as SingleTrackFit;
     expect(fit.warnings.some((w) => /RMS yaw-rate residual/.test(w))).toBe(true);
     expect(fit.comparison.some((c) => c.singleTrackRmse_radps > 2 * c.fopdtRmse_radps)).toBe(true);
   }, 60_000);
 });
 
-describe('simulateYawThroughActuator(params, speed, time, command)', () => {
+describe('simulateYawThroughActuator({ params, speed_mps, time_s, input })', () => {
   it('equals the exact single-track simulator of src/vehicle (actuator delay and lag, no limits) to 1e−9 rad/s', () => {
     // Source: simulateSingleTrack, matrix-exponential simulator written independently in src/vehicle/simulate.ts
     const params = singleTrackParametersFromVehicle(loadVehicle(VEHICLE));
@@ -135,7 +135,7 @@ describe('simulateYawThroughActuator(params, speed, time, command)', () => {
     const command = time_s.map((t) => (t >= 1 ? 0.02 : t >= 0.9 ? 0.01 : 0));
     for (const speed_mps of [3, 15, 25]) {
       const reference = simulateSingleTrack({ params, speed_mps, time_s, steerCommand_rad: command });
-      const ours = simulateYawThroughActuator(params, speed_mps, time_s, command);
+      const ours = simulateYawThroughActuator({ params, speed_mps, time_s, input: command });
       let worst = 0;
       for (let k = 0; k < time_s.length; k++) worst = Math.max(worst, Math.abs(ours[k] - reference.yawRate_radps[k]));
       expect(worst).toBeLessThan(1e-9);

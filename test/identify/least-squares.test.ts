@@ -141,7 +141,7 @@ describe('fitLeastSquares and the ml-levenberg-marquardt behaviours it handles',
     const time_s = Float64Array.from({ length: 50 }, (_, i) => i * 0.01);
     const input = time_s.map((v) => (v > 0.1 ? 1 : 0));
     for (const [tau, theta] of [[0, 0.05], [-0.01, 0.05], [0.1, -0.02], [-1e-7, -1e-7]]) {
-      expect(simulateFopdt(time_s, input, 1, tau, theta, 'zeroOrder').every(Number.isFinite)).toBe(true);
+      expect(simulateFopdt({ time_s, input, gain: 1, timeConstant_s: tau, deadTime_s: theta, hold: 'zeroOrder' }).every(Number.isFinite)).toBe(true);
     }
   });
 

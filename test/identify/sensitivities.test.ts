@@ -34,7 +34,7 @@ function centralDifference(simulate: (value: number) => Float64Array, value: num
   return up.map((v, i) => (v - down[i]) / (2 * step));
 }
 
-describe('fopdtSensitivities(time, input, K, τ, θ, hold)', () => {
+describe('fopdtSensitivities({ time_s, input, gain, timeConstant_s, deadTime_s, hold, … })', () => {
   for (const hold of ['zeroOrder', 'linear'] as const satisfies readonly CommandHold[]) {
     it(`match central differences of simulateFopdt in K, τ and θ (command ${hold === 'zeroOrder' ? 'held' : 'interpolated'}, θ between samples)`, () => {
       for (const [seed, gain, tau, theta] of [
@@ -44,11 +44,21 @@ describe('fopdtSensitivities(time, input, K, τ, θ, hold)', () => {
       ] as const) {
         const input = randomCommand(seed);
         const out = { gain: new Float64Array(n), timeConstant: new Float64Array(n), deadTime: new Float64Array(n) };
-        fopdtSensitivities(time_s, input, gain, tau, theta, hold, out, new Float64Array(n), new Float64Array(n));
+        fopdtSensitivities({
+          time_s,
+          input,
+          gain,
+          timeConstant_s: tau,
+          deadTime_s: theta,
+          hold,
+          out,
+          states: new Float64Array(n),
+          stateSensitivities: new Float64Array(n),
+        });
         const checks = [
-          [out.gain, centralDifference((k) => simulateFopdt(time_s, input, k, tau, theta, hold), gain, 1e-6)],
-          [out.timeConstant, centralDifference((t) => simulateFopdt(time_s, input, gain, t, theta, hold), tau, 1e-6 * tau)],
-          [out.deadTime, centralDifference((d) => simulateFopdt(time_s, input, gain, tau, d, hold), theta, 1e-7)],
+          [out.gain, centralDifference((k) => simulateFopdt({ time_s, input, gain: k, timeConstant_s: tau, deadTime_s: theta, hold }), gain, 1e-6)],
+          [out.timeConstant, centralDifference((t) => simulateFopdt({ time_s, input, gain, timeConstant_s: t, deadTime_s: theta, hold }), tau, 1e-6 * tau)],
+          [out.deadTime, centralDifference((d) => simulateFopdt({ time_s, input, gain, timeConstant_s: tau, deadTime_s: d, hold }), theta, 1e-7)],
         ] as const;
         for (const [exact, numeric] of checks) {
           const { worst, size } = worstDifference(exact, numeric);
@@ -62,10 +72,20 @@ describe('fopdtSensitivities(time, input, K, τ, θ, hold)', () => {
     // With the command held, ẋ jumps at every sample, so y(θ) has a kink at θ = 0: only the side a fit can move to counts.
     const input = randomCommand(4);
     const out = { gain: new Float64Array(n), timeConstant: new Float64Array(n), deadTime: new Float64Array(n) };
-    fopdtSensitivities(time_s, input, 1.5, 0.2, 0, 'zeroOrder', out, new Float64Array(n), new Float64Array(n));
-    const base = simulateFopdt(time_s, input, 1.5, 0.2, 0, 'zeroOrder');
+    fopdtSensitivities({
+      time_s,
+      input,
+      gain: 1.5,
+      timeConstant_s: 0.2,
+      deadTime_s: 0,
+      hold: 'zeroOrder',
+      out,
+      states: new Float64Array(n),
+      stateSensitivities: new Float64Array(n),
+    });
+    const base = simulateFopdt({ time_s, input, gain: 1.5, timeConstant_s: 0.2, deadTime_s: 0, hold: 'zeroOrder' });
     const h = 1e-8;
-    const grown = simulateFopdt(time_s, input, 1.5, 0.2, h, 'zeroOrder');
+    const grown = simulateFopdt({ time_s, input, gain: 1.5, timeConstant_s: 0.2, deadTime_s: h, hold: 'zeroOrder' });
     const forward = grown.map((v, i) => (v - base[i]) / h);
     const { worst, size } = worstDifference(out.deadTime, forward);
     expect(worst).toBeLessThan(1e-5 * size);
@@ -79,8 +99,8 @@ describe('simulateThirdOrderHeld with a delay derivative and a shared update cac
   it('∂y/∂θ matches central differences of the simulation', () => {
     const input = randomCommand(5);
     const derivative = new Float64Array(n);
-    simulateThirdOrderHeld(time_s, input, numerator, denominator, 0.0437, new Float64Array(n), new Float64Array(3 * n), newHoldUpdateCache(), derivative);
-    const numeric = centralDifference((d) => simulateThirdOrderHeld(time_s, input, numerator, denominator, d), 0.0437, 1e-7);
+    simulateThirdOrderHeld({ time_s, input, numerator, denominator, delay_s: 0.0437, cache: newHoldUpdateCache(), delayDerivative: derivative });
+    const numeric = centralDifference((d) => simulateThirdOrderHeld({ time_s, input, numerator, denominator, delay_s: d }), 0.0437, 1e-7);
     const { worst, size } = worstDifference(derivative, numeric);
     expect(worst).toBeLessThan(1e-6 * size);
   });
@@ -91,8 +111,8 @@ describe('simulateThirdOrderHeld with a delay derivative and a shared update cac
       const input = randomCommand(10 + k);
       const den = [1, 25 + (k % 3), 180, 900 + 50 * (k % 2)] as const;
       const delay = 0.03 + 0.0071 * (k % 4);
-      const shared = simulateThirdOrderHeld(time_s, input, numerator, den, delay, new Float64Array(n), new Float64Array(3 * n), cache);
-      const fresh = simulateThirdOrderHeld(time_s, input, numerator, den, delay);
+      const shared = simulateThirdOrderHeld({ time_s, input, numerator, denominator: den, delay_s: delay, cache });
+      const fresh = simulateThirdOrderHeld({ time_s, input, numerator, denominator: den, delay_s: delay });
       expect(Array.from(shared)).toEqual(Array.from(fresh));
     }
   });

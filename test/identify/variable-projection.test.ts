@@ -36,12 +36,12 @@ print(json.dumps({'free': c.tolist(), 'freeSsr': float(np.sum((y - A @ c)**2)), 
   });
 });
 
-describe('projectOrthogonal(v, x, withBias)', () => {
+describe('projectOrthogonal(v, x, terms)', () => {
   it('leaves a vector orthogonal to x and to the constant, and is idempotent (a projection)', () => {
     // Property of an orthogonal projection P⊥ = I − Φ(ΦᵀΦ)⁻¹Φᵀ
     for (const seed of [2, 3, 4]) {
       const x = randomVector(seed, 200);
-      const v = projectOrthogonal(randomVector(seed + 10, 200), x, true);
+      const v = projectOrthogonal(randomVector(seed + 10, 200), x, 'slopeAndOffset');
       let dotX = 0;
       let sum = 0;
       let norm = 0;
@@ -52,7 +52,7 @@ describe('projectOrthogonal(v, x, withBias)', () => {
       }
       expect(Math.abs(dotX) / Math.sqrt(norm)).toBeLessThan(1e-9);
       expect(Math.abs(sum) / Math.sqrt(norm)).toBeLessThan(1e-9);
-      const again = projectOrthogonal(v.slice(), x, true);
+      const again = projectOrthogonal(v.slice(), x, 'slopeAndOffset');
       for (let i = 0; i < v.length; i++) expect(again[i]).toBeCloseTo(v[i], 12);
     }
   });
@@ -66,7 +66,7 @@ describe('fitStepModel with linearInGain (variable projection)', () => {
       const { time_s, input } = signals;
       const definition = {
         names: ['gain', 'timeConstant_s', 'deadTime_s'],
-        simulate: (p: readonly number[]) => simulateFopdt(time_s, input, p[0], p[1], p[2], 'linear'),
+        simulate: (p: readonly number[]) => simulateFopdt({ time_s, input, gain: p[0], timeConstant_s: p[1], deadTime_s: p[2], hold: 'linear' }),
         starts: [[2, 0.3, 0.1]],
         maxRuns: 1,
         scale: [2, 0.3, 0.05],
@@ -89,7 +89,7 @@ describe('fitStepModel with linearInGain (variable projection)', () => {
         signals,
         {
           names: ['gain', 'timeConstant_s', 'deadTime_s'],
-          simulate: (p) => simulateFopdt(signals.time_s, signals.input, p[0], p[1], p[2], 'linear'),
+          simulate: (p) => simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: p[0], timeConstant_s: p[1], deadTime_s: p[2], hold: 'linear' }),
           starts: [[2, 0.3, 0.1]],
           maxRuns: 1,
           scale: [2, 0.3, 0.05],

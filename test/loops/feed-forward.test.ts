@@ -28,7 +28,7 @@ describe('feedForwardFromSingleTrack(path)', () => {
       for (const speed of [2, 8, 15]) {
         for (const radius of [40, 150]) {
           const curvature = 1 / radius;
-          const ff = feedForwardFromSingleTrack('path', params, speed, 0, 0);
+          const ff = feedForwardFromSingleTrack({ kind: 'path', parameters: params, speed_mps: speed, controllerDelay_s: 0, previewFromCg_m: 0 });
           expect(ff.gain).toBeCloseTo(L + understeerGradient_radPerMps2(params) * speed * speed, 12);
           const ts = 0.01;
           const n = 3001;
@@ -45,10 +45,10 @@ describe('feedForwardFromSingleTrack(path)', () => {
   it('gives the heading and yaw-rate loops the same steering per unit yaw-rate reference r = v·κ', () => {
     // Source: Rajamani 2012, Vehicle Dynamics and Control, §3.3 — steady yaw rate r = v/R for the path radius R.
     const speed = 12;
-    const path = feedForwardFromSingleTrack('path', van, speed, 0.015, 0);
-    const heading = feedForwardFromSingleTrack('heading', van, speed, 0.015, 0);
+    const path = feedForwardFromSingleTrack({ kind: 'path', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 });
+    const heading = feedForwardFromSingleTrack({ kind: 'heading', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 });
     expect(heading.gain * speed).toBeCloseTo(path.gain, 12);
-    expect(feedForwardFromSingleTrack('yaw-rate', van, speed, 0.015, 0).gain).toBe(heading.gain);
+    expect(feedForwardFromSingleTrack({ kind: 'yaw-rate', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 }).gain).toBe(heading.gain);
   });
 
   it('reads the input ahead by the ramp lag of the yaw response: the simulated yaw rate lags a steering ramp by exactly that time', () => {
@@ -56,7 +56,7 @@ describe('feedForwardFromSingleTrack(path)', () => {
     // (first moment of the impulse response; e.g. Åström & Murray 2008, Feedback Systems, §5.3, steady-state ramp error).
     // Checked on the exact simulator, actuator included, with no controller delay.
     const speed = 10;
-    const ff = feedForwardFromSingleTrack('heading', van, speed, 0, 0);
+    const ff = feedForwardFromSingleTrack({ kind: 'heading', parameters: van, speed_mps: speed, controllerDelay_s: 0, previewFromCg_m: 0 });
     const ts = 0.005;
     const n = 4001;
     const time = Float64Array.from({ length: n }, (_, k) => k * ts);
@@ -71,8 +71,8 @@ describe('feedForwardFromSingleTrack(path)', () => {
   it('for the path loop reads the curvature earlier by the ramp lag and later by the lead T0 = (d + Gvy(0)/Gr(0))/v', () => {
     const speed = 6;
     const d = 3.5;
-    const path = feedForwardFromSingleTrack('path', van, speed, 0.015, d);
-    const heading = feedForwardFromSingleTrack('heading', van, speed, 0.015, 0);
+    const path = feedForwardFromSingleTrack({ kind: 'path', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: d });
+    const heading = feedForwardFromSingleTrack({ kind: 'heading', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 });
     // Gvy(0)/Gr(0) = b − m·a·v²/(L·Cr) for the linear single-track model (Gillespie 1992, ch. 6, sideslip at the centre of gravity).
     const L = van.cgToFrontAxle_m + van.cgToRearAxle_m;
     const sideslipLead = van.cgToRearAxle_m - (van.mass_kg * van.cgToFrontAxle_m * speed * speed) / (L * van.rearCorneringStiffness_NPerRad);
@@ -83,7 +83,7 @@ describe('feedForwardFromSingleTrack(path)', () => {
 describe('feedForwardFromLumped', () => {
   it('inverts the identified steady yaw gain and lags by θ + τ of the FOPDT, controller delay included', () => {
     // FOPDT K·e^(−θs)/(τs + 1): Gr(0) = K, ramp lag θ + τ (first moment of the impulse response).
-    const ff = feedForwardFromLumped('path', { kind: 'fopdt', gain: 2.5, timeConstant_s: 0.2, deadTime_s: 0.1 }, 8, 0.015, 4);
+    const ff = feedForwardFromLumped({ kind: 'path', model: { kind: 'fopdt', gain: 2.5, timeConstant_s: 0.2, deadTime_s: 0.1 }, speed_mps: 8, controllerDelay_s: 0.015, previewFromCg_m: 4 });
     expect(ff.gain).toBeCloseTo(8 / 2.5, 12);
     expect(ff.rampLag_s).toBeCloseTo(0.1 + 0.2 + 0.015, 12);
     expect(ff.leadTime_s).toBeCloseTo(0.315 - 4 / 8, 12);

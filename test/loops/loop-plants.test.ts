@@ -92,7 +92,7 @@ describe('loop plants from a lumped FOPDT yaw-rate model', () => {
     const speed = 9;
     const d = 2.5;
     for (const kind of LOOP_KINDS) {
-      const loop = loopPlantFromLumped({ kind, preview_m: d }, fopdt, speed, controller);
+      const loop = loopPlantFromLumped({ specification: { kind, preview_m: d }, model: fopdt, speed_mps: speed, controller });
       for (const w of frequencies) {
         // Source: docs/domain.md §3 formulas, complex arithmetic written out here.
         const s = { re: 0, im: w };
@@ -117,8 +117,8 @@ describe('loop plants from a lumped FOPDT yaw-rate model', () => {
   });
 
   it('refuses a front-axle reference without the axle distance and a negative preview', () => {
-    expect(() => loopPlantFromLumped({ kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, fopdt, 5, controller)).toThrow(/CG-to-front-axle distance/);
-    expect(() => loopPlantFromLumped({ kind: 'path', preview_m: -1 }, fopdt, 5, controller)).toThrow(/expected a finite distance ≥ 0 m/);
-    expect(() => loopPlantFromLumped({ kind: 'yaw-rate' }, fopdt, 0, controller)).toThrow(/above 0 m\/s/);
+    expect(() => loopPlantFromLumped({ specification: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, model: fopdt, speed_mps: 5, controller })).toThrow(/CG-to-front-axle distance/);
+    expect(() => loopPlantFromLumped({ specification: { kind: 'path', preview_m: -1 }, model: fopdt, speed_mps: 5, controller })).toThrow(/expected a finite distance ≥ 0 m/);
+    expect(() => loopPlantFromLumped({ specification: { kind: 'yaw-rate' }, model: fopdt, speed_mps: 0, controller })).toThrow(/above 0 m\/s/);
   });
 });

@@ -55,8 +55,8 @@ function loopTask(task: 'stable' | 'biasFinal', gains: PidGains, plant: Plant, b
 }
 
 // Everything the tests below compare, built first so that python runs once.
-const pathNoPreview = loopPlantFromLumped({ kind: 'path', preview_m: 0 }, yawRate, speed_mps, controller);
-const pathPreview = loopPlantFromLumped({ kind: 'path', preview_m: 6 }, yawRate, speed_mps, controller);
+const pathNoPreview = loopPlantFromLumped({ specification: { kind: 'path', preview_m: 0 }, model: yawRate, speed_mps, controller });
+const pathPreview = loopPlantFromLumped({ specification: { kind: 'path', preview_m: 6 }, model: yawRate, speed_mps, controller });
 const previewRange = proportionalGainRange(pathPreview);
 const previewProbes = previewRange?.highestGain ? [0.01, 0.5, 0.97, 1.03, 3].map((m) => m * previewRange.highestGain!) : [];
 const noPreviewGains = [1e-4, 1e-3, 1e-2, 0.1, 1, 10];

@@ -130,7 +130,7 @@ describe('design models from the single-track model', () => {
     const L = van.cgToFrontAxle_m + van.cgToRearAxle_m;
     const understeer = (van.mass_kg / L) * (van.cgToRearAxle_m / van.frontCorneringStiffness_NPerRad - van.cgToFrontAxle_m / van.rearCorneringStiffness_NPerRad);
     const yawGain = speed / (L + understeer * speed * speed);
-    const design = designModelFromSingleTrack('path', van, speed, 0.01);
+    const design = designModelFromSingleTrack({ kind: 'path', parameters: van, speed_mps: speed, controllerDelay_s: 0.01 });
     expect(design.yawRateGain_perS).toBeCloseTo(yawGain, 10);
     expect(design.model.gain).toBeCloseTo(yawGain * speed, 9);
     expect(design.model.integrators).toBe(2);
@@ -156,7 +156,7 @@ describe('design models from the single-track model', () => {
     const L = 3.4;
     const K = (oversteer.mass_kg / L) * (1.2 / 90000 - 2.2 / 110000);
     const critical = Math.sqrt(-L / K);
-    expect(() => designModelFromSingleTrack('yaw-rate', oversteer, critical * 1.2, 0.01)).toThrow(/not in the left half plane/);
-    expect(() => designModelFromSingleTrack('yaw-rate', oversteer, critical * 0.8, 0.01)).not.toThrow();
+    expect(() => designModelFromSingleTrack({ kind: 'yaw-rate', parameters: oversteer, speed_mps: critical * 1.2, controllerDelay_s: 0.01 })).toThrow(/not in the left half plane/);
+    expect(() => designModelFromSingleTrack({ kind: 'yaw-rate', parameters: oversteer, speed_mps: critical * 0.8, controllerDelay_s: 0.01 })).not.toThrow();
   });
 });

@@ -78,13 +78,13 @@ describe('loops with the discrete PID the firmware runs', () => {
 
   it('L(jω) = G(jω)·e^(−jω(θ + latency + Ts/2))·C(e^(jωTs)) matches the controller module, with a continuous phase', () => {
     const loop = openLoopOf({ plant, pid, sampleTime_s: settings.sampleTime_s, discretisation: 'tustin', latency_s: settings.computationLatency_s });
-    const compiled = compileLoopResponse(
-      loop.numerator,
-      loop.denominator,
-      loop.delay_s,
-      { zeros: [], poles: polynomialRoots(loop.denominator), axisTolerance: 0 },
-      loop.discreteController!,
-    );
+    const compiled = compileLoopResponse({
+      numerator: loop.numerator,
+      denominator: loop.denominator,
+      delay_s: loop.delay_s,
+      roots: { zeros: [], poles: polynomialRoots(loop.denominator), axisTolerance: 0 },
+      discreteController: loop.discreteController!,
+    });
     const frequencies = Float64Array.from({ length: 400 }, (_, i) => 0.01 * Math.pow(10, (4.19 * i) / 399));
     const controller = discretePidFrequencyResponse(pid, settings, frequencies);
     const g = transferFunction(plant.numerator, plant.denominator, plant.delay_s + settings.computationLatency_s + settings.sampleTime_s / 2);

@@ -130,13 +130,13 @@ describe(`analyseOpenLoop against numpy/scipy on ${CASES} random loops with dela
   it('the loop frequency response matches scipy.signal.freqs × e^(−jωθ) to 1e-9 relative', () => {
     const point = newLoopPoint();
     loops.forEach((loop, index) => {
-      const compiled = compileLoopResponse(
-        loop.numerator,
-        loop.denominator,
-        loop.delay_s,
-        { zeros: polynomialRoots(loop.numerator), poles: polynomialRoots(loop.denominator), axisTolerance: 0 },
-        null,
-      );
+      const compiled = compileLoopResponse({
+        numerator: loop.numerator,
+        denominator: loop.denominator,
+        delay_s: loop.delay_s,
+        roots: { zeros: polynomialRoots(loop.numerator), poles: polynomialRoots(loop.denominator), axisTolerance: 0 },
+        discreteController: null,
+      });
       TEST_FREQUENCIES_RADPS.forEach((w, k) => {
         evaluateLoopResponse(compiled, w, point);
         const re = reference[index].response.re[k];
