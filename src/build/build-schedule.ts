@@ -1,7 +1,8 @@
 /**
  * The main job: logs + vehicle (+ plan) → identified models → gains at each breakpoint by the
  * plan's rule → interpolated table → dense check at every grid speed with the discrete controller
- * → bounded breakpoint refinement → schedule file (not written here; see writeSchedule).
+ * → bounded breakpoint refinement → with the plan's variations, the worst case over them at every grid
+ * speed → schedule file (not written here; see writeSchedule).
  */
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
@@ -12,7 +13,11 @@ import { identifyFromLogs } from '../identify/identify-from-logs.js';
 import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import type { PlanVariations } from '../schedule/plan-variations.js';
+import { makeGainLookup } from '../schedule/interpolate.js';
+import { resolveVariationSet } from '../robust/variation-set.js';
+import { robustScheduleCheck, type RobustScheduleCheck } from './robust-schedule-check.js';
 import type { RefineResult } from '../schedule/refine.js';
 import { assembleSchedule } from '../schedule/schedule-file.js';
 import { makeRuleParameterLookup } from '../schedule/rule-parameters.js';
@@ -62,6 +67,8 @@ export interface BuildResult {
   readonly tuned: readonly TunedOperatingPoint[];
   /** Breakpoints outside the tested speeds: how far, and their gains against those at the nearest test speed. */
   readonly extrapolations: readonly Extrapolation[];
+  /** With the plan's variations: the robust check of the final table and its record in the schedule. */
+  readonly robust?: RobustScheduleCheck;
 }
 
 /** A tuning error at one speed, with that speed in its words and details (a plan's parameters may vary with speed). */
@@ -154,6 +161,10 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   progress(`tune and check: ${plan.rule.name} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
   const refinement = scheduleGains({ plan, tuneAt, analyse: makeLoopAnalysis(checkModel, loop, controller), onProgress });
   const tuned = refinement.table.speeds_mps.map((speed) => tune(speed));
+  const robust =
+    plan.variations === undefined
+      ? undefined
+      : await checkOverVariations({ plan, variations: plan.variations, checkModel, models, refinement, planFile: input.planFile, onProgress, progress });
 
   const inputs = [
     { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
@@ -179,7 +190,40 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
     ...(Object.keys(plan.rule.parameters).length === 0
       ? {}
       : { ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps) => ({ speed_mps, parameters: { ...ruleParametersAt(speed_mps) } })) }),
+    ...(robust === undefined ? {} : { variations: robust.record }),
   });
   const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
-  return { schedule, models, plan, checkModel, refinement, tuned, extrapolations };
+  return { schedule, models, plan, checkModel, refinement, tuned, extrapolations, ...(robust === undefined ? {} : { robust }) };
+}
+
+interface OverVariationsInput {
+  readonly plan: Plan;
+  readonly variations: PlanVariations;
+  readonly checkModel: CheckModel;
+  readonly models: ModelsFile;
+  readonly refinement: RefineResult;
+  readonly planFile: string | undefined;
+  readonly onProgress: ProgressCallback;
+  readonly progress: (text: string) => void;
+}
+
+/** The final table's robust check over the plan's variations, on the nominal check's grid (every core). */
+async function checkOverVariations(input: OverVariationsInput): Promise<RobustScheduleCheck> {
+  const { plan, variations, checkModel, refinement } = input;
+  const { loop, controller } = planLoopAndController(plan);
+  const set = resolveVariationSet(variations, checkModel.summary, variations.fromIdentification ? input.models : null, input.planFile);
+  input.progress(`worst case over the variations: ${set.dimensions.length} varied parameters, ${refinement.check.points.length} speeds\n`);
+  return robustScheduleCheck({
+    acceptance: variations.acceptance,
+    model: checkModel,
+    loop,
+    controller,
+    set,
+    search: variations.search,
+    thresholds: planThresholds(plan),
+    grid: refinement.check.points.map((point) => point.speed_mps),
+    gainsAt: makeGainLookup(refinement.table, { interpolation: plan.interpolation, lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps }),
+    breakpointSpeeds: refinement.table.speeds_mps,
+    onProgress: input.onProgress,
+  });
 }

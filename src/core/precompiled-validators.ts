@@ -5306,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance ahead of the reference point; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable)."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview distance is measured from; front-axle adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance ahead of the reference point; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable)."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview distance is measured from; front-axle adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -7705,9 +7705,12 @@ vErrors.push(err171);
 errors++;
 }
 }
-}
-else {
-const err172 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.variations !== undefined){
+let data66 = data.variations;
+if(data66 && typeof data66 == "object" && !Array.isArray(data66)){
+for(const key16 in data66){
+if(!(func18.call(schema10.properties.variations.properties, key16))){
+const err172 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err172];
 }
@@ -7716,13 +7719,2363 @@ vErrors.push(err172);
 }
 errors++;
 }
+}
+if(data66.acceptance !== undefined){
+let data67 = data66.acceptance;
+if(!((data67 === "robust") || (data67 === "nominal"))){
+const err173 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err173];
+}
+else {
+vErrors.push(err173);
+}
+errors++;
+}
+}
+if(data66.mass_pct !== undefined){
+let data68 = data66.mass_pct;
+const _errs185 = errors;
+let valid50 = false;
+let passing7 = null;
+const _errs186 = errors;
+if((typeof data68 == "number") && (isFinite(data68))){
+if(data68 > 90 || isNaN(data68)){
+const err174 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err174];
+}
+else {
+vErrors.push(err174);
+}
+errors++;
+}
+if(data68 < 0 || isNaN(data68)){
+const err175 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err175];
+}
+else {
+vErrors.push(err175);
+}
+errors++;
+}
+}
+else {
+const err176 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err176];
+}
+else {
+vErrors.push(err176);
+}
+errors++;
+}
+var _valid7 = _errs186 === errors;
+if(_valid7){
+valid50 = true;
+passing7 = 0;
+}
+const _errs188 = errors;
+if(Array.isArray(data68)){
+if(data68.length > 2){
+const err177 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err177];
+}
+else {
+vErrors.push(err177);
+}
+errors++;
+}
+if(data68.length < 2){
+const err178 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err178];
+}
+else {
+vErrors.push(err178);
+}
+errors++;
+}
+const len13 = data68.length;
+if(len13 > 0){
+let data69 = data68[0];
+if((typeof data69 == "number") && (isFinite(data69))){
+if(data69 > 0 || isNaN(data69)){
+const err179 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err179];
+}
+else {
+vErrors.push(err179);
+}
+errors++;
+}
+if(data69 < -90 || isNaN(data69)){
+const err180 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err180];
+}
+else {
+vErrors.push(err180);
+}
+errors++;
+}
+}
+else {
+const err181 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err181];
+}
+else {
+vErrors.push(err181);
+}
+errors++;
+}
+}
+if(len13 > 1){
+let data70 = data68[1];
+if((typeof data70 == "number") && (isFinite(data70))){
+if(data70 > 900 || isNaN(data70)){
+const err182 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err182];
+}
+else {
+vErrors.push(err182);
+}
+errors++;
+}
+if(data70 < 0 || isNaN(data70)){
+const err183 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err183];
+}
+else {
+vErrors.push(err183);
+}
+errors++;
+}
+}
+else {
+const err184 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err184];
+}
+else {
+vErrors.push(err184);
+}
+errors++;
+}
+}
+}
+else {
+const err185 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err185];
+}
+else {
+vErrors.push(err185);
+}
+errors++;
+}
+var _valid7 = _errs188 === errors;
+if(_valid7 && valid50){
+valid50 = false;
+passing7 = [passing7, 1];
+}
+else {
+if(_valid7){
+valid50 = true;
+passing7 = 1;
+}
+}
+if(!valid50){
+const err186 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing7},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err186];
+}
+else {
+vErrors.push(err186);
+}
+errors++;
+}
+else {
+errors = _errs185;
+if(vErrors !== null){
+if(_errs185){
+vErrors.length = _errs185;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data66.yawInertia_pct !== undefined){
+let data71 = data66.yawInertia_pct;
+const _errs195 = errors;
+let valid52 = false;
+let passing8 = null;
+const _errs196 = errors;
+if((typeof data71 == "number") && (isFinite(data71))){
+if(data71 > 90 || isNaN(data71)){
+const err187 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err187];
+}
+else {
+vErrors.push(err187);
+}
+errors++;
+}
+if(data71 < 0 || isNaN(data71)){
+const err188 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err188];
+}
+else {
+vErrors.push(err188);
+}
+errors++;
+}
+}
+else {
+const err189 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err189];
+}
+else {
+vErrors.push(err189);
+}
+errors++;
+}
+var _valid8 = _errs196 === errors;
+if(_valid8){
+valid52 = true;
+passing8 = 0;
+}
+const _errs198 = errors;
+if(Array.isArray(data71)){
+if(data71.length > 2){
+const err190 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err190];
+}
+else {
+vErrors.push(err190);
+}
+errors++;
+}
+if(data71.length < 2){
+const err191 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err191];
+}
+else {
+vErrors.push(err191);
+}
+errors++;
+}
+const len14 = data71.length;
+if(len14 > 0){
+let data72 = data71[0];
+if((typeof data72 == "number") && (isFinite(data72))){
+if(data72 > 0 || isNaN(data72)){
+const err192 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err192];
+}
+else {
+vErrors.push(err192);
+}
+errors++;
+}
+if(data72 < -90 || isNaN(data72)){
+const err193 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err193];
+}
+else {
+vErrors.push(err193);
+}
+errors++;
+}
+}
+else {
+const err194 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err194];
+}
+else {
+vErrors.push(err194);
+}
+errors++;
+}
+}
+if(len14 > 1){
+let data73 = data71[1];
+if((typeof data73 == "number") && (isFinite(data73))){
+if(data73 > 900 || isNaN(data73)){
+const err195 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err195];
+}
+else {
+vErrors.push(err195);
+}
+errors++;
+}
+if(data73 < 0 || isNaN(data73)){
+const err196 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err196];
+}
+else {
+vErrors.push(err196);
+}
+errors++;
+}
+}
+else {
+const err197 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err197];
+}
+else {
+vErrors.push(err197);
+}
+errors++;
+}
+}
+}
+else {
+const err198 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err198];
+}
+else {
+vErrors.push(err198);
+}
+errors++;
+}
+var _valid8 = _errs198 === errors;
+if(_valid8 && valid52){
+valid52 = false;
+passing8 = [passing8, 1];
+}
+else {
+if(_valid8){
+valid52 = true;
+passing8 = 1;
+}
+}
+if(!valid52){
+const err199 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing8},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err199];
+}
+else {
+vErrors.push(err199);
+}
+errors++;
+}
+else {
+errors = _errs195;
+if(vErrors !== null){
+if(_errs195){
+vErrors.length = _errs195;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data66.cgRearwardShift_m !== undefined){
+let data74 = data66.cgRearwardShift_m;
+const _errs205 = errors;
+let valid54 = false;
+let passing9 = null;
+const _errs206 = errors;
+if((typeof data74 == "number") && (isFinite(data74))){
+if(data74 > 5 || isNaN(data74)){
+const err200 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(vErrors === null){
+vErrors = [err200];
+}
+else {
+vErrors.push(err200);
+}
+errors++;
+}
+if(data74 < 0 || isNaN(data74)){
+const err201 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err201];
+}
+else {
+vErrors.push(err201);
+}
+errors++;
+}
+}
+else {
+const err202 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err202];
+}
+else {
+vErrors.push(err202);
+}
+errors++;
+}
+var _valid9 = _errs206 === errors;
+if(_valid9){
+valid54 = true;
+passing9 = 0;
+}
+const _errs208 = errors;
+if(Array.isArray(data74)){
+if(data74.length > 2){
+const err203 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err203];
+}
+else {
+vErrors.push(err203);
+}
+errors++;
+}
+if(data74.length < 2){
+const err204 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err204];
+}
+else {
+vErrors.push(err204);
+}
+errors++;
+}
+const len15 = data74.length;
+if(len15 > 0){
+let data75 = data74[0];
+if((typeof data75 == "number") && (isFinite(data75))){
+if(data75 > 0 || isNaN(data75)){
+const err205 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err205];
+}
+else {
+vErrors.push(err205);
+}
+errors++;
+}
+if(data75 < -5 || isNaN(data75)){
+const err206 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+if(vErrors === null){
+vErrors = [err206];
+}
+else {
+vErrors.push(err206);
+}
+errors++;
+}
+}
+else {
+const err207 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err207];
+}
+else {
+vErrors.push(err207);
+}
+errors++;
+}
+}
+if(len15 > 1){
+let data76 = data74[1];
+if((typeof data76 == "number") && (isFinite(data76))){
+if(data76 > 5 || isNaN(data76)){
+const err208 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(vErrors === null){
+vErrors = [err208];
+}
+else {
+vErrors.push(err208);
+}
+errors++;
+}
+if(data76 < 0 || isNaN(data76)){
+const err209 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err209];
+}
+else {
+vErrors.push(err209);
+}
+errors++;
+}
+}
+else {
+const err210 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err210];
+}
+else {
+vErrors.push(err210);
+}
+errors++;
+}
+}
+}
+else {
+const err211 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err211];
+}
+else {
+vErrors.push(err211);
+}
+errors++;
+}
+var _valid9 = _errs208 === errors;
+if(_valid9 && valid54){
+valid54 = false;
+passing9 = [passing9, 1];
+}
+else {
+if(_valid9){
+valid54 = true;
+passing9 = 1;
+}
+}
+if(!valid54){
+const err212 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err212];
+}
+else {
+vErrors.push(err212);
+}
+errors++;
+}
+else {
+errors = _errs205;
+if(vErrors !== null){
+if(_errs205){
+vErrors.length = _errs205;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data66.frontCorneringStiffness_pct !== undefined){
+let data77 = data66.frontCorneringStiffness_pct;
+const _errs215 = errors;
+let valid56 = false;
+let passing10 = null;
+const _errs216 = errors;
+if((typeof data77 == "number") && (isFinite(data77))){
+if(data77 > 90 || isNaN(data77)){
+const err213 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err213];
+}
+else {
+vErrors.push(err213);
+}
+errors++;
+}
+if(data77 < 0 || isNaN(data77)){
+const err214 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err214];
+}
+else {
+vErrors.push(err214);
+}
+errors++;
+}
+}
+else {
+const err215 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err215];
+}
+else {
+vErrors.push(err215);
+}
+errors++;
+}
+var _valid10 = _errs216 === errors;
+if(_valid10){
+valid56 = true;
+passing10 = 0;
+}
+const _errs218 = errors;
+if(Array.isArray(data77)){
+if(data77.length > 2){
+const err216 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err216];
+}
+else {
+vErrors.push(err216);
+}
+errors++;
+}
+if(data77.length < 2){
+const err217 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err217];
+}
+else {
+vErrors.push(err217);
+}
+errors++;
+}
+const len16 = data77.length;
+if(len16 > 0){
+let data78 = data77[0];
+if((typeof data78 == "number") && (isFinite(data78))){
+if(data78 > 0 || isNaN(data78)){
+const err218 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err218];
+}
+else {
+vErrors.push(err218);
+}
+errors++;
+}
+if(data78 < -90 || isNaN(data78)){
+const err219 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err219];
+}
+else {
+vErrors.push(err219);
+}
+errors++;
+}
+}
+else {
+const err220 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err220];
+}
+else {
+vErrors.push(err220);
+}
+errors++;
+}
+}
+if(len16 > 1){
+let data79 = data77[1];
+if((typeof data79 == "number") && (isFinite(data79))){
+if(data79 > 900 || isNaN(data79)){
+const err221 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err221];
+}
+else {
+vErrors.push(err221);
+}
+errors++;
+}
+if(data79 < 0 || isNaN(data79)){
+const err222 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err222];
+}
+else {
+vErrors.push(err222);
+}
+errors++;
+}
+}
+else {
+const err223 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err223];
+}
+else {
+vErrors.push(err223);
+}
+errors++;
+}
+}
+}
+else {
+const err224 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err224];
+}
+else {
+vErrors.push(err224);
+}
+errors++;
+}
+var _valid10 = _errs218 === errors;
+if(_valid10 && valid56){
+valid56 = false;
+passing10 = [passing10, 1];
+}
+else {
+if(_valid10){
+valid56 = true;
+passing10 = 1;
+}
+}
+if(!valid56){
+const err225 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err225];
+}
+else {
+vErrors.push(err225);
+}
+errors++;
+}
+else {
+errors = _errs215;
+if(vErrors !== null){
+if(_errs215){
+vErrors.length = _errs215;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data66.rearCorneringStiffness_pct !== undefined){
+let data80 = data66.rearCorneringStiffness_pct;
+const _errs225 = errors;
+let valid58 = false;
+let passing11 = null;
+const _errs226 = errors;
+if((typeof data80 == "number") && (isFinite(data80))){
+if(data80 > 90 || isNaN(data80)){
+const err226 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err226];
+}
+else {
+vErrors.push(err226);
+}
+errors++;
+}
+if(data80 < 0 || isNaN(data80)){
+const err227 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err227];
+}
+else {
+vErrors.push(err227);
+}
+errors++;
+}
+}
+else {
+const err228 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err228];
+}
+else {
+vErrors.push(err228);
+}
+errors++;
+}
+var _valid11 = _errs226 === errors;
+if(_valid11){
+valid58 = true;
+passing11 = 0;
+}
+const _errs228 = errors;
+if(Array.isArray(data80)){
+if(data80.length > 2){
+const err229 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err229];
+}
+else {
+vErrors.push(err229);
+}
+errors++;
+}
+if(data80.length < 2){
+const err230 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err230];
+}
+else {
+vErrors.push(err230);
+}
+errors++;
+}
+const len17 = data80.length;
+if(len17 > 0){
+let data81 = data80[0];
+if((typeof data81 == "number") && (isFinite(data81))){
+if(data81 > 0 || isNaN(data81)){
+const err231 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err231];
+}
+else {
+vErrors.push(err231);
+}
+errors++;
+}
+if(data81 < -90 || isNaN(data81)){
+const err232 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err232];
+}
+else {
+vErrors.push(err232);
+}
+errors++;
+}
+}
+else {
+const err233 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err233];
+}
+else {
+vErrors.push(err233);
+}
+errors++;
+}
+}
+if(len17 > 1){
+let data82 = data80[1];
+if((typeof data82 == "number") && (isFinite(data82))){
+if(data82 > 900 || isNaN(data82)){
+const err234 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err234];
+}
+else {
+vErrors.push(err234);
+}
+errors++;
+}
+if(data82 < 0 || isNaN(data82)){
+const err235 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err235];
+}
+else {
+vErrors.push(err235);
+}
+errors++;
+}
+}
+else {
+const err236 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err236];
+}
+else {
+vErrors.push(err236);
+}
+errors++;
+}
+}
+}
+else {
+const err237 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err237];
+}
+else {
+vErrors.push(err237);
+}
+errors++;
+}
+var _valid11 = _errs228 === errors;
+if(_valid11 && valid58){
+valid58 = false;
+passing11 = [passing11, 1];
+}
+else {
+if(_valid11){
+valid58 = true;
+passing11 = 1;
+}
+}
+if(!valid58){
+const err238 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err238];
+}
+else {
+vErrors.push(err238);
+}
+errors++;
+}
+else {
+errors = _errs225;
+if(vErrors !== null){
+if(_errs225){
+vErrors.length = _errs225;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data66.actuatorLag_pct !== undefined){
+let data83 = data66.actuatorLag_pct;
+const _errs235 = errors;
+let valid60 = false;
+let passing12 = null;
+const _errs236 = errors;
+if((typeof data83 == "number") && (isFinite(data83))){
+if(data83 > 90 || isNaN(data83)){
+const err239 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err239];
+}
+else {
+vErrors.push(err239);
+}
+errors++;
+}
+if(data83 < 0 || isNaN(data83)){
+const err240 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err240];
+}
+else {
+vErrors.push(err240);
+}
+errors++;
+}
+}
+else {
+const err241 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err241];
+}
+else {
+vErrors.push(err241);
+}
+errors++;
+}
+var _valid12 = _errs236 === errors;
+if(_valid12){
+valid60 = true;
+passing12 = 0;
+}
+const _errs238 = errors;
+if(Array.isArray(data83)){
+if(data83.length > 2){
+const err242 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err242];
+}
+else {
+vErrors.push(err242);
+}
+errors++;
+}
+if(data83.length < 2){
+const err243 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err243];
+}
+else {
+vErrors.push(err243);
+}
+errors++;
+}
+const len18 = data83.length;
+if(len18 > 0){
+let data84 = data83[0];
+if((typeof data84 == "number") && (isFinite(data84))){
+if(data84 > 0 || isNaN(data84)){
+const err244 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err244];
+}
+else {
+vErrors.push(err244);
+}
+errors++;
+}
+if(data84 < -90 || isNaN(data84)){
+const err245 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err245];
+}
+else {
+vErrors.push(err245);
+}
+errors++;
+}
+}
+else {
+const err246 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err246];
+}
+else {
+vErrors.push(err246);
+}
+errors++;
+}
+}
+if(len18 > 1){
+let data85 = data83[1];
+if((typeof data85 == "number") && (isFinite(data85))){
+if(data85 > 900 || isNaN(data85)){
+const err247 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err247];
+}
+else {
+vErrors.push(err247);
+}
+errors++;
+}
+if(data85 < 0 || isNaN(data85)){
+const err248 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err248];
+}
+else {
+vErrors.push(err248);
+}
+errors++;
+}
+}
+else {
+const err249 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err249];
+}
+else {
+vErrors.push(err249);
+}
+errors++;
+}
+}
+}
+else {
+const err250 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err250];
+}
+else {
+vErrors.push(err250);
+}
+errors++;
+}
+var _valid12 = _errs238 === errors;
+if(_valid12 && valid60){
+valid60 = false;
+passing12 = [passing12, 1];
+}
+else {
+if(_valid12){
+valid60 = true;
+passing12 = 1;
+}
+}
+if(!valid60){
+const err251 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err251];
+}
+else {
+vErrors.push(err251);
+}
+errors++;
+}
+else {
+errors = _errs235;
+if(vErrors !== null){
+if(_errs235){
+vErrors.length = _errs235;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data66.addedLatency_s !== undefined){
+let data86 = data66.addedLatency_s;
+if((typeof data86 == "number") && (isFinite(data86))){
+if(data86 > 1 || isNaN(data86)){
+const err252 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
+if(vErrors === null){
+vErrors = [err252];
+}
+else {
+vErrors.push(err252);
+}
+errors++;
+}
+if(data86 < 0 || isNaN(data86)){
+const err253 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err253];
+}
+else {
+vErrors.push(err253);
+}
+errors++;
+}
+}
+else {
+const err254 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err254];
+}
+else {
+vErrors.push(err254);
+}
+errors++;
+}
+}
+if(data66.fromIdentification !== undefined){
+if(typeof data66.fromIdentification !== "boolean"){
+const err255 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(vErrors === null){
+vErrors = [err255];
+}
+else {
+vErrors.push(err255);
+}
+errors++;
+}
+}
+if(data66.search !== undefined){
+let data88 = data66.search;
+if(data88 && typeof data88 == "object" && !Array.isArray(data88)){
+for(const key17 in data88){
+if(!(((key17 === "samples") || (key17 === "seed")) || (key17 === "localSearchEvaluations"))){
+const err256 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err256];
+}
+else {
+vErrors.push(err256);
+}
+errors++;
+}
+}
+if(data88.samples !== undefined){
+let data89 = data88.samples;
+if(!(((typeof data89 == "number") && (!(data89 % 1) && !isNaN(data89))) && (isFinite(data89)))){
+const err257 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err257];
+}
+else {
+vErrors.push(err257);
+}
+errors++;
+}
+if((typeof data89 == "number") && (isFinite(data89))){
+if(data89 > 4096 || isNaN(data89)){
+const err258 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
+if(vErrors === null){
+vErrors = [err258];
+}
+else {
+vErrors.push(err258);
+}
+errors++;
+}
+if(data89 < 0 || isNaN(data89)){
+const err259 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err259];
+}
+else {
+vErrors.push(err259);
+}
+errors++;
+}
+}
+}
+if(data88.seed !== undefined){
+let data90 = data88.seed;
+if(!(((typeof data90 == "number") && (!(data90 % 1) && !isNaN(data90))) && (isFinite(data90)))){
+const err260 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err260];
+}
+else {
+vErrors.push(err260);
+}
+errors++;
+}
+if((typeof data90 == "number") && (isFinite(data90))){
+if(data90 > 4294967295 || isNaN(data90)){
+const err261 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
+if(vErrors === null){
+vErrors = [err261];
+}
+else {
+vErrors.push(err261);
+}
+errors++;
+}
+if(data90 < 0 || isNaN(data90)){
+const err262 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err262];
+}
+else {
+vErrors.push(err262);
+}
+errors++;
+}
+}
+}
+if(data88.localSearchEvaluations !== undefined){
+let data91 = data88.localSearchEvaluations;
+if(!(((typeof data91 == "number") && (!(data91 % 1) && !isNaN(data91))) && (isFinite(data91)))){
+const err263 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err263];
+}
+else {
+vErrors.push(err263);
+}
+errors++;
+}
+if((typeof data91 == "number") && (isFinite(data91))){
+if(data91 > 1000 || isNaN(data91)){
+const err264 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(vErrors === null){
+vErrors = [err264];
+}
+else {
+vErrors.push(err264);
+}
+errors++;
+}
+if(data91 < 0 || isNaN(data91)){
+const err265 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err265];
+}
+else {
+vErrors.push(err265);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err266 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err266];
+}
+else {
+vErrors.push(err266);
+}
+errors++;
+}
+}
+}
+else {
+const err267 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err267];
+}
+else {
+vErrors.push(err267);
+}
+errors++;
+}
+}
+}
+else {
+const err268 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err268];
+}
+else {
+vErrors.push(err268);
+}
+errors++;
+}
 validate4.errors = vErrors;
 return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":2},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":2},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"variations":{"$id":"https://speedband.dev/schema/schedule-variations.json","type":"object","additionalProperties":false,"required":["acceptance","passed","set","search","gridSize","failedSpeeds","unstableSpeeds","loopAnalyses","worst","failures","breakpoints","weakest"],"properties":{"acceptance":{"enum":["robust","nominal"]},"passed":{"type":"boolean"},"set":{"type":"object","additionalProperties":false,"required":["model","dimensions","notApplied"],"properties":{"model":{"enum":["single-track","interpolated-lumped"]},"dimensions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["parameter","change","minimum","maximum","source"],"properties":{"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"change":{"enum":["scale","add"]},"minimum":{"type":"number"},"maximum":{"type":"number"},"source":{"type":"string"}}}},"notApplied":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["field","reason"],"properties":{"field":{"type":"string"},"reason":{"type":"string"}}}}}},"search":{"type":"object","additionalProperties":false,"required":["samples","seed","localSearchEvaluations","method"],"properties":{"samples":{"type":"integer","minimum":0},"seed":{"type":"integer","minimum":0},"localSearchEvaluations":{"type":"integer","minimum":0},"method":{"type":"string"}}},"gridSize":{"type":"integer","minimum":1},"failedSpeeds":{"type":"integer","minimum":0},"unstableSpeeds":{"type":"integer","minimum":0},"loopAnalyses":{"type":"integer","minimum":0},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstOverGrid"},"upperGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"delayMargin_s":{"$ref":"#/definitions/worstOverGrid"},"sensitivityPeak":{"$ref":"#/definitions/worstOverGrid"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstOverGrid"}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"breakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","instability","worst","weakest"],"properties":{"speed_mps":{"type":"number"},"instability":{"$ref":"#/definitions/instability"},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstAtSpeed"},"upperGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"delayMargin_s":{"$ref":"#/definitions/worstAtSpeed"},"sensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"}}},"weakest":{"$ref":"#/definitions/weakest"}}}},"weakest":{"$ref":"#/definitions/weakest"}},"definitions":{"combination":{"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."},"worstOverGrid":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"worstAtSpeed":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"instability":{"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}},"weakest":{"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."}},"description":"The worst case over a set of vehicles around the check model (plan \"variations\"): per grid speed the worst lower and upper gain margin, phase margin, delay margin, Ms and Mt over the set, each with the parameter changes behind it; a set holding an unstable loop is the worst case of all."},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
 const pattern5 = new RegExp("^/", "u");
+const schema12 = {"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}};
+const schema13 = {"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."};
+
+function validate6(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema12.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.value === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.speed_mps === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err3 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+for(const key0 in data){
+if(!(((key0 === "value") || (key0 === "speed_mps")) || (key0 === "combination"))){
+const err4 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.value !== undefined){
+let data0 = data.value;
+if(!((typeof data0 == "number") && (isFinite(data0)))){
+const err5 = {instancePath:instancePath+"/value",schemaPath:"#/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+}
+if(data.speed_mps !== undefined){
+let data1 = data.speed_mps;
+if(!((typeof data1 == "number") && (isFinite(data1)))){
+const err6 = {instancePath:instancePath+"/speed_mps",schemaPath:"#/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data2 = data.combination;
+if(data2 && typeof data2 == "object" && !Array.isArray(data2)){
+for(const key1 in data2){
+if(!(func18.call(schema13.properties, key1))){
+const err7 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+}
+if(data2.mass_kg !== undefined){
+let data3 = data2.mass_kg;
+if(!((typeof data3 == "number") && (isFinite(data3)))){
+const err8 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data2.yawInertia_kgm2 !== undefined){
+let data4 = data2.yawInertia_kgm2;
+if(!((typeof data4 == "number") && (isFinite(data4)))){
+const err9 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data2.cgToFrontAxle_m !== undefined){
+let data5 = data2.cgToFrontAxle_m;
+if(!((typeof data5 == "number") && (isFinite(data5)))){
+const err10 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data2.frontCorneringStiffness_NPerRad !== undefined){
+let data6 = data2.frontCorneringStiffness_NPerRad;
+if(!((typeof data6 == "number") && (isFinite(data6)))){
+const err11 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data2.rearCorneringStiffness_NPerRad !== undefined){
+let data7 = data2.rearCorneringStiffness_NPerRad;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err12 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data2.actuatorLag_s !== undefined){
+let data8 = data2.actuatorLag_s;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err13 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data2.actuatorDelay_s !== undefined){
+let data9 = data2.actuatorDelay_s;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err14 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data2.gain !== undefined){
+let data10 = data2.gain;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err15 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+if(data2.timeConstant_s !== undefined){
+let data11 = data2.timeConstant_s;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err16 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+if(data2.deadTime_s !== undefined){
+let data12 = data2.deadTime_s;
+if(!((typeof data12 == "number") && (isFinite(data12)))){
+const err17 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+}
+}
+else {
+const err18 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+}
+validate6.errors = vErrors;
+return errors === 0;
+}
+
+const schema14 = {"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}};
+
+function validate13(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema14.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.verdict === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "verdict"},message:"must have required property '"+"verdict"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+if(data.largestPoleMagnitude === undefined){
+const err3 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "largestPoleMagnitude"},message:"must have required property '"+"largestPoleMagnitude"+"'"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+for(const key0 in data){
+if(!(((key0 === "verdict") || (key0 === "combination")) || (key0 === "largestPoleMagnitude"))){
+const err4 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.verdict !== undefined){
+let data0 = data.verdict;
+if(!((data0 === "unstable") || (data0 === "marginal"))){
+const err5 = {instancePath:instancePath+"/verdict",schemaPath:"#/properties/verdict/enum",keyword:"enum",params:{allowedValues: schema14.properties.verdict.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data1 = data.combination;
+if(data1 && typeof data1 == "object" && !Array.isArray(data1)){
+for(const key1 in data1){
+if(!(func18.call(schema13.properties, key1))){
+const err6 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+}
+if(data1.mass_kg !== undefined){
+let data2 = data1.mass_kg;
+if(!((typeof data2 == "number") && (isFinite(data2)))){
+const err7 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+}
+if(data1.yawInertia_kgm2 !== undefined){
+let data3 = data1.yawInertia_kgm2;
+if(!((typeof data3 == "number") && (isFinite(data3)))){
+const err8 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data1.cgToFrontAxle_m !== undefined){
+let data4 = data1.cgToFrontAxle_m;
+if(!((typeof data4 == "number") && (isFinite(data4)))){
+const err9 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data1.frontCorneringStiffness_NPerRad !== undefined){
+let data5 = data1.frontCorneringStiffness_NPerRad;
+if(!((typeof data5 == "number") && (isFinite(data5)))){
+const err10 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data1.rearCorneringStiffness_NPerRad !== undefined){
+let data6 = data1.rearCorneringStiffness_NPerRad;
+if(!((typeof data6 == "number") && (isFinite(data6)))){
+const err11 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data1.actuatorLag_s !== undefined){
+let data7 = data1.actuatorLag_s;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err12 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data1.actuatorDelay_s !== undefined){
+let data8 = data1.actuatorDelay_s;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err13 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data1.gain !== undefined){
+let data9 = data1.gain;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err14 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data1.timeConstant_s !== undefined){
+let data10 = data1.timeConstant_s;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err15 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+if(data1.deadTime_s !== undefined){
+let data11 = data1.deadTime_s;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err16 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+}
+else {
+const err17 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+}
+if(data.largestPoleMagnitude !== undefined){
+let data12 = data.largestPoleMagnitude;
+if((!((typeof data12 == "number") && (isFinite(data12)))) && (data12 !== null)){
+const err18 = {instancePath:instancePath+"/largestPoleMagnitude",schemaPath:"#/properties/largestPoleMagnitude/type",keyword:"type",params:{type: schema14.properties.largestPoleMagnitude.type},message:"must be number,null"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+}
+validate13.errors = vErrors;
+return errors === 0;
+}
+
+const schema16 = {"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}};
+
+function validate15(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema16.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.value === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+for(const key0 in data){
+if(!((key0 === "value") || (key0 === "combination"))){
+const err3 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+}
+if(data.value !== undefined){
+let data0 = data.value;
+if(!((typeof data0 == "number") && (isFinite(data0)))){
+const err4 = {instancePath:instancePath+"/value",schemaPath:"#/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data1 = data.combination;
+if(data1 && typeof data1 == "object" && !Array.isArray(data1)){
+for(const key1 in data1){
+if(!(func18.call(schema13.properties, key1))){
+const err5 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+}
+if(data1.mass_kg !== undefined){
+let data2 = data1.mass_kg;
+if(!((typeof data2 == "number") && (isFinite(data2)))){
+const err6 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+}
+if(data1.yawInertia_kgm2 !== undefined){
+let data3 = data1.yawInertia_kgm2;
+if(!((typeof data3 == "number") && (isFinite(data3)))){
+const err7 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+}
+if(data1.cgToFrontAxle_m !== undefined){
+let data4 = data1.cgToFrontAxle_m;
+if(!((typeof data4 == "number") && (isFinite(data4)))){
+const err8 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data1.frontCorneringStiffness_NPerRad !== undefined){
+let data5 = data1.frontCorneringStiffness_NPerRad;
+if(!((typeof data5 == "number") && (isFinite(data5)))){
+const err9 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data1.rearCorneringStiffness_NPerRad !== undefined){
+let data6 = data1.rearCorneringStiffness_NPerRad;
+if(!((typeof data6 == "number") && (isFinite(data6)))){
+const err10 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data1.actuatorLag_s !== undefined){
+let data7 = data1.actuatorLag_s;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err11 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data1.actuatorDelay_s !== undefined){
+let data8 = data1.actuatorDelay_s;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err12 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data1.gain !== undefined){
+let data9 = data1.gain;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err13 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data1.timeConstant_s !== undefined){
+let data10 = data1.timeConstant_s;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err14 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data1.deadTime_s !== undefined){
+let data11 = data1.deadTime_s;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err15 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+}
+else {
+const err16 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+}
+validate15.errors = vErrors;
+return errors === 0;
+}
+
+const schema18 = {"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."};
+
+function validate22(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema18.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.speed_mps === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.figure === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "figure"},message:"must have required property '"+"figure"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+if(data.parameter === undefined){
+const err3 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+if(data.worst === undefined){
+const err4 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+if(data.withParameterNominal === undefined){
+const err5 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "withParameterNominal"},message:"must have required property '"+"withParameterNominal"+"'"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+if(data.restoresStability === undefined){
+const err6 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "restoresStability"},message:"must have required property '"+"restoresStability"+"'"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err7 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+for(const key0 in data){
+if(!(((((((key0 === "speed_mps") || (key0 === "figure")) || (key0 === "parameter")) || (key0 === "worst")) || (key0 === "withParameterNominal")) || (key0 === "restoresStability")) || (key0 === "combination"))){
+const err8 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data.speed_mps !== undefined){
+let data0 = data.speed_mps;
+if(!((typeof data0 == "number") && (isFinite(data0)))){
+const err9 = {instancePath:instancePath+"/speed_mps",schemaPath:"#/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data.figure !== undefined){
+let data1 = data.figure;
+if(!(((((((data1 === "stability") || (data1 === "phaseMargin_deg")) || (data1 === "upperGainMargin_dB")) || (data1 === "lowerGainMargin_dB")) || (data1 === "delayMargin_s")) || (data1 === "sensitivityPeak")) || (data1 === "complementarySensitivityPeak"))){
+const err10 = {instancePath:instancePath+"/figure",schemaPath:"#/properties/figure/enum",keyword:"enum",params:{allowedValues: schema18.properties.figure.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data.parameter !== undefined){
+let data2 = data.parameter;
+if(!((((((((((data2 === "mass_kg") || (data2 === "yawInertia_kgm2")) || (data2 === "cgToFrontAxle_m")) || (data2 === "frontCorneringStiffness_NPerRad")) || (data2 === "rearCorneringStiffness_NPerRad")) || (data2 === "actuatorLag_s")) || (data2 === "actuatorDelay_s")) || (data2 === "gain")) || (data2 === "timeConstant_s")) || (data2 === "deadTime_s"))){
+const err11 = {instancePath:instancePath+"/parameter",schemaPath:"#/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema18.properties.parameter.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data.worst !== undefined){
+let data3 = data.worst;
+if((!((typeof data3 == "number") && (isFinite(data3)))) && (data3 !== null)){
+const err12 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/type",keyword:"type",params:{type: schema18.properties.worst.type},message:"must be number,null"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data.withParameterNominal !== undefined){
+let data4 = data.withParameterNominal;
+if((!((typeof data4 == "number") && (isFinite(data4)))) && (data4 !== null)){
+const err13 = {instancePath:instancePath+"/withParameterNominal",schemaPath:"#/properties/withParameterNominal/type",keyword:"type",params:{type: schema18.properties.withParameterNominal.type},message:"must be number,null"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data.restoresStability !== undefined){
+let data5 = data.restoresStability;
+if((typeof data5 !== "boolean") && (data5 !== null)){
+const err14 = {instancePath:instancePath+"/restoresStability",schemaPath:"#/properties/restoresStability/type",keyword:"type",params:{type: schema18.properties.restoresStability.type},message:"must be boolean,null"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data6 = data.combination;
+if(data6 && typeof data6 == "object" && !Array.isArray(data6)){
+for(const key1 in data6){
+if(!(func18.call(schema13.properties, key1))){
+const err15 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+if(data6.mass_kg !== undefined){
+let data7 = data6.mass_kg;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err16 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+if(data6.yawInertia_kgm2 !== undefined){
+let data8 = data6.yawInertia_kgm2;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err17 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+}
+if(data6.cgToFrontAxle_m !== undefined){
+let data9 = data6.cgToFrontAxle_m;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err18 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+if(data6.frontCorneringStiffness_NPerRad !== undefined){
+let data10 = data6.frontCorneringStiffness_NPerRad;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err19 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err19];
+}
+else {
+vErrors.push(err19);
+}
+errors++;
+}
+}
+if(data6.rearCorneringStiffness_NPerRad !== undefined){
+let data11 = data6.rearCorneringStiffness_NPerRad;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err20 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err20];
+}
+else {
+vErrors.push(err20);
+}
+errors++;
+}
+}
+if(data6.actuatorLag_s !== undefined){
+let data12 = data6.actuatorLag_s;
+if(!((typeof data12 == "number") && (isFinite(data12)))){
+const err21 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err21];
+}
+else {
+vErrors.push(err21);
+}
+errors++;
+}
+}
+if(data6.actuatorDelay_s !== undefined){
+let data13 = data6.actuatorDelay_s;
+if(!((typeof data13 == "number") && (isFinite(data13)))){
+const err22 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err22];
+}
+else {
+vErrors.push(err22);
+}
+errors++;
+}
+}
+if(data6.gain !== undefined){
+let data14 = data6.gain;
+if(!((typeof data14 == "number") && (isFinite(data14)))){
+const err23 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err23];
+}
+else {
+vErrors.push(err23);
+}
+errors++;
+}
+}
+if(data6.timeConstant_s !== undefined){
+let data15 = data6.timeConstant_s;
+if(!((typeof data15 == "number") && (isFinite(data15)))){
+const err24 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err24];
+}
+else {
+vErrors.push(err24);
+}
+errors++;
+}
+}
+if(data6.deadTime_s !== undefined){
+let data16 = data6.deadTime_s;
+if(!((typeof data16 == "number") && (isFinite(data16)))){
+const err25 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err25];
+}
+else {
+vErrors.push(err25);
+}
+errors++;
+}
+}
+}
+else {
+const err26 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err26];
+}
+else {
+vErrors.push(err26);
+}
+errors++;
+}
+}
+}
+validate22.errors = vErrors;
+return errors === 0;
+}
+
 
 function validate5(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
@@ -10239,11 +12592,11 @@ vErrors.push(err213);
 errors++;
 }
 }
-if(data.provenance !== undefined){
-let data93 = data.provenance;
+if(data.variations !== undefined){
+let data93 = data.variations;
 if(data93 && typeof data93 == "object" && !Array.isArray(data93)){
-if(data93.tool === undefined){
-const err214 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(data93.acceptance === undefined){
+const err214 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "acceptance"},message:"must have required property '"+"acceptance"+"'"};
 if(vErrors === null){
 vErrors = [err214];
 }
@@ -10252,8 +12605,8 @@ vErrors.push(err214);
 }
 errors++;
 }
-if(data93.toolVersion === undefined){
-const err215 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(data93.passed === undefined){
+const err215 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err215];
 }
@@ -10262,8 +12615,8 @@ vErrors.push(err215);
 }
 errors++;
 }
-if(data93.inputs === undefined){
-const err216 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+if(data93.set === undefined){
+const err216 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "set"},message:"must have required property '"+"set"+"'"};
 if(vErrors === null){
 vErrors = [err216];
 }
@@ -10272,8 +12625,8 @@ vErrors.push(err216);
 }
 errors++;
 }
-if(data93.model === undefined){
-const err217 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(data93.search === undefined){
+const err217 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "search"},message:"must have required property '"+"search"+"'"};
 if(vErrors === null){
 vErrors = [err217];
 }
@@ -10282,8 +12635,8 @@ vErrors.push(err217);
 }
 errors++;
 }
-if(data93.rule === undefined){
-const err218 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(data93.gridSize === undefined){
+const err218 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err218];
 }
@@ -10292,8 +12645,8 @@ vErrors.push(err218);
 }
 errors++;
 }
-if(data93.plan === undefined){
-const err219 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(data93.failedSpeeds === undefined){
+const err219 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err219];
 }
@@ -10302,9 +12655,8 @@ vErrors.push(err219);
 }
 errors++;
 }
-for(const key20 in data93){
-if(!(((((((key20 === "tool") || (key20 === "toolVersion")) || (key20 === "inputs")) || (key20 === "model")) || (key20 === "rule")) || (key20 === "plan")) || (key20 === "handEdits"))){
-const err220 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
+if(data93.unstableSpeeds === undefined){
+const err220 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "unstableSpeeds"},message:"must have required property '"+"unstableSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err220];
 }
@@ -10313,10 +12665,8 @@ vErrors.push(err220);
 }
 errors++;
 }
-}
-if(data93.tool !== undefined){
-if("speedband" !== data93.tool){
-const err221 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(data93.loopAnalyses === undefined){
+const err221 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "loopAnalyses"},message:"must have required property '"+"loopAnalyses"+"'"};
 if(vErrors === null){
 vErrors = [err221];
 }
@@ -10325,10 +12675,8 @@ vErrors.push(err221);
 }
 errors++;
 }
-}
-if(data93.toolVersion !== undefined){
-if(typeof data93.toolVersion !== "string"){
-const err222 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data93.worst === undefined){
+const err222 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err222];
 }
@@ -10337,16 +12685,8 @@ vErrors.push(err222);
 }
 errors++;
 }
-}
-if(data93.inputs !== undefined){
-let data96 = data93.inputs;
-if(Array.isArray(data96)){
-const len5 = data96.length;
-for(let i5=0; i5<len5; i5++){
-let data97 = data96[i5];
-if(data97 && typeof data97 == "object" && !Array.isArray(data97)){
-if(data97.file === undefined){
-const err223 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(data93.failures === undefined){
+const err223 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err223];
 }
@@ -10355,8 +12695,8 @@ vErrors.push(err223);
 }
 errors++;
 }
-if(data97.sha256 === undefined){
-const err224 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(data93.breakpoints === undefined){
+const err224 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
 if(vErrors === null){
 vErrors = [err224];
 }
@@ -10365,8 +12705,8 @@ vErrors.push(err224);
 }
 errors++;
 }
-if(data97.role === undefined){
-const err225 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(data93.weakest === undefined){
+const err225 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
 if(vErrors === null){
 vErrors = [err225];
 }
@@ -10375,9 +12715,9 @@ vErrors.push(err225);
 }
 errors++;
 }
-for(const key21 in data97){
-if(!(((key21 === "file") || (key21 === "sha256")) || (key21 === "role"))){
-const err226 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key21},message:"must NOT have additional properties"};
+for(const key20 in data93){
+if(!(func18.call(schema11.properties.variations.properties, key20))){
+const err226 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err226];
 }
@@ -10387,9 +12727,10 @@ vErrors.push(err226);
 errors++;
 }
 }
-if(data97.file !== undefined){
-if(typeof data97.file !== "string"){
-const err227 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data93.acceptance !== undefined){
+let data94 = data93.acceptance;
+if(!((data94 === "robust") || (data94 === "nominal"))){
+const err227 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err227];
 }
@@ -10399,11 +12740,9 @@ vErrors.push(err227);
 errors++;
 }
 }
-if(data97.sha256 !== undefined){
-let data99 = data97.sha256;
-if(typeof data99 === "string"){
-if(!pattern0.test(data99)){
-const err228 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data93.passed !== undefined){
+if(typeof data93.passed !== "boolean"){
+const err228 = {instancePath:instancePath+"/variations/passed",schemaPath:"#/properties/variations/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err228];
 }
@@ -10413,8 +12752,11 @@ vErrors.push(err228);
 errors++;
 }
 }
-else {
-const err229 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data93.set !== undefined){
+let data96 = data93.set;
+if(data96 && typeof data96 == "object" && !Array.isArray(data96)){
+if(data96.model === undefined){
+const err229 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err229];
 }
@@ -10423,10 +12765,8 @@ vErrors.push(err229);
 }
 errors++;
 }
-}
-if(data97.role !== undefined){
-if(typeof data97.role !== "string"){
-const err230 = {instancePath:instancePath+"/provenance/inputs/" + i5+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data96.dimensions === undefined){
+const err230 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "dimensions"},message:"must have required property '"+"dimensions"+"'"};
 if(vErrors === null){
 vErrors = [err230];
 }
@@ -10435,10 +12775,8 @@ vErrors.push(err230);
 }
 errors++;
 }
-}
-}
-else {
-const err231 = {instancePath:instancePath+"/provenance/inputs/" + i5,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data96.notApplied === undefined){
+const err231 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "notApplied"},message:"must have required property '"+"notApplied"+"'"};
 if(vErrors === null){
 vErrors = [err231];
 }
@@ -10447,10 +12785,9 @@ vErrors.push(err231);
 }
 errors++;
 }
-}
-}
-else {
-const err232 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key21 in data96){
+if(!(((key21 === "model") || (key21 === "dimensions")) || (key21 === "notApplied"))){
+const err232 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key21},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err232];
 }
@@ -10460,10 +12797,10 @@ vErrors.push(err232);
 errors++;
 }
 }
-if(data93.model !== undefined){
-let data101 = data93.model;
-if(!(data101 && typeof data101 == "object" && !Array.isArray(data101))){
-const err233 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data96.model !== undefined){
+let data97 = data96.model;
+if(!((data97 === "single-track") || (data97 === "interpolated-lumped"))){
+const err233 = {instancePath:instancePath+"/variations/set/model",schemaPath:"#/properties/variations/properties/set/properties/model/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.model.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err233];
 }
@@ -10473,11 +12810,15 @@ vErrors.push(err233);
 errors++;
 }
 }
-if(data93.rule !== undefined){
-let data102 = data93.rule;
-if(data102 && typeof data102 == "object" && !Array.isArray(data102)){
-if(data102.name === undefined){
-const err234 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(data96.dimensions !== undefined){
+let data98 = data96.dimensions;
+if(Array.isArray(data98)){
+const len5 = data98.length;
+for(let i5=0; i5<len5; i5++){
+let data99 = data98[i5];
+if(data99 && typeof data99 == "object" && !Array.isArray(data99)){
+if(data99.parameter === undefined){
+const err234 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
 if(vErrors === null){
 vErrors = [err234];
 }
@@ -10486,8 +12827,8 @@ vErrors.push(err234);
 }
 errors++;
 }
-if(data102.parameters === undefined){
-const err235 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(data99.change === undefined){
+const err235 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "change"},message:"must have required property '"+"change"+"'"};
 if(vErrors === null){
 vErrors = [err235];
 }
@@ -10496,9 +12837,8 @@ vErrors.push(err235);
 }
 errors++;
 }
-for(const key22 in data102){
-if(!((((key22 === "name") || (key22 === "parameters")) || (key22 === "citation")) || (key22 === "parametersAtBreakpoints"))){
-const err236 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key22},message:"must NOT have additional properties"};
+if(data99.minimum === undefined){
+const err236 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "minimum"},message:"must have required property '"+"minimum"+"'"};
 if(vErrors === null){
 vErrors = [err236];
 }
@@ -10507,10 +12847,8 @@ vErrors.push(err236);
 }
 errors++;
 }
-}
-if(data102.name !== undefined){
-if(typeof data102.name !== "string"){
-const err237 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data99.maximum === undefined){
+const err237 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "maximum"},message:"must have required property '"+"maximum"+"'"};
 if(vErrors === null){
 vErrors = [err237];
 }
@@ -10519,11 +12857,8 @@ vErrors.push(err237);
 }
 errors++;
 }
-}
-if(data102.parameters !== undefined){
-let data104 = data102.parameters;
-if(!(data104 && typeof data104 == "object" && !Array.isArray(data104))){
-const err238 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data99.source === undefined){
+const err238 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "source"},message:"must have required property '"+"source"+"'"};
 if(vErrors === null){
 vErrors = [err238];
 }
@@ -10532,10 +12867,9 @@ vErrors.push(err238);
 }
 errors++;
 }
-}
-if(data102.citation !== undefined){
-if(typeof data102.citation !== "string"){
-const err239 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key22 in data99){
+if(!(((((key22 === "parameter") || (key22 === "change")) || (key22 === "minimum")) || (key22 === "maximum")) || (key22 === "source"))){
+const err239 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key22},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err239];
 }
@@ -10545,15 +12879,10 @@ vErrors.push(err239);
 errors++;
 }
 }
-if(data102.parametersAtBreakpoints !== undefined){
-let data106 = data102.parametersAtBreakpoints;
-if(Array.isArray(data106)){
-const len6 = data106.length;
-for(let i6=0; i6<len6; i6++){
-let data107 = data106[i6];
-if(data107 && typeof data107 == "object" && !Array.isArray(data107)){
-if(data107.speed_mps === undefined){
-const err240 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data99.parameter !== undefined){
+let data100 = data99.parameter;
+if(!((((((((((data100 === "mass_kg") || (data100 === "yawInertia_kgm2")) || (data100 === "cgToFrontAxle_m")) || (data100 === "frontCorneringStiffness_NPerRad")) || (data100 === "rearCorneringStiffness_NPerRad")) || (data100 === "actuatorLag_s")) || (data100 === "actuatorDelay_s")) || (data100 === "gain")) || (data100 === "timeConstant_s")) || (data100 === "deadTime_s"))){
+const err240 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/parameter",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.parameter.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err240];
 }
@@ -10562,8 +12891,11 @@ vErrors.push(err240);
 }
 errors++;
 }
-if(data107.parameters === undefined){
-const err241 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+}
+if(data99.change !== undefined){
+let data101 = data99.change;
+if(!((data101 === "scale") || (data101 === "add"))){
+const err241 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/change",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/change/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.change.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err241];
 }
@@ -10572,9 +12904,11 @@ vErrors.push(err241);
 }
 errors++;
 }
-for(const key23 in data107){
-if(!((key23 === "speed_mps") || (key23 === "parameters"))){
-const err242 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
+}
+if(data99.minimum !== undefined){
+let data102 = data99.minimum;
+if(!((typeof data102 == "number") && (isFinite(data102)))){
+const err242 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/minimum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/minimum/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err242];
 }
@@ -10584,10 +12918,10 @@ vErrors.push(err242);
 errors++;
 }
 }
-if(data107.speed_mps !== undefined){
-let data108 = data107.speed_mps;
-if(!((typeof data108 == "number") && (isFinite(data108)))){
-const err243 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data99.maximum !== undefined){
+let data103 = data99.maximum;
+if(!((typeof data103 == "number") && (isFinite(data103)))){
+const err243 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/maximum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/maximum/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err243];
 }
@@ -10597,13 +12931,9 @@ vErrors.push(err243);
 errors++;
 }
 }
-if(data107.parameters !== undefined){
-let data109 = data107.parameters;
-if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
-for(const key24 in data109){
-let data110 = data109[key24];
-if((!((typeof data110 == "number") && (isFinite(data110)))) && (typeof data110 !== "string")){
-const err244 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/parameters/" + key24.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(data99.source !== undefined){
+if(typeof data99.source !== "string"){
+const err244 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/source",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/source/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err244];
 }
@@ -10615,7 +12945,7 @@ errors++;
 }
 }
 else {
-const err245 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err245 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err245];
 }
@@ -10627,7 +12957,7 @@ errors++;
 }
 }
 else {
-const err246 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i6,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err246 = {instancePath:instancePath+"/variations/set/dimensions",schemaPath:"#/properties/variations/properties/set/properties/dimensions/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err246];
 }
@@ -10637,9 +12967,15 @@ vErrors.push(err246);
 errors++;
 }
 }
-}
-else {
-const err247 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data96.notApplied !== undefined){
+let data105 = data96.notApplied;
+if(Array.isArray(data105)){
+const len6 = data105.length;
+for(let i6=0; i6<len6; i6++){
+let data106 = data105[i6];
+if(data106 && typeof data106 == "object" && !Array.isArray(data106)){
+if(data106.field === undefined){
+const err247 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "field"},message:"must have required property '"+"field"+"'"};
 if(vErrors === null){
 vErrors = [err247];
 }
@@ -10648,10 +12984,8 @@ vErrors.push(err247);
 }
 errors++;
 }
-}
-}
-else {
-const err248 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data106.reason === undefined){
+const err248 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
 if(vErrors === null){
 vErrors = [err248];
 }
@@ -10660,11 +12994,9 @@ vErrors.push(err248);
 }
 errors++;
 }
-}
-if(data93.plan !== undefined){
-let data111 = data93.plan;
-if(!(data111 && typeof data111 == "object" && !Array.isArray(data111))){
-const err249 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key23 in data106){
+if(!((key23 === "field") || (key23 === "reason"))){
+const err249 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err249];
 }
@@ -10674,15 +13006,9 @@ vErrors.push(err249);
 errors++;
 }
 }
-if(data93.handEdits !== undefined){
-let data112 = data93.handEdits;
-if(Array.isArray(data112)){
-const len7 = data112.length;
-for(let i7=0; i7<len7; i7++){
-let data113 = data112[i7];
-if(data113 && typeof data113 == "object" && !Array.isArray(data113)){
-if(data113.statement === undefined){
-const err250 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(data106.field !== undefined){
+if(typeof data106.field !== "string"){
+const err250 = {instancePath:instancePath+"/variations/set/notApplied/" + i6+"/field",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/field/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err250];
 }
@@ -10691,8 +13017,10 @@ vErrors.push(err250);
 }
 errors++;
 }
-if(data113.changedSections === undefined){
-const err251 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+}
+if(data106.reason !== undefined){
+if(typeof data106.reason !== "string"){
+const err251 = {instancePath:instancePath+"/variations/set/notApplied/" + i6+"/reason",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err251];
 }
@@ -10701,8 +13029,10 @@ vErrors.push(err251);
 }
 errors++;
 }
-if(data113.toolVersion === undefined){
-const err252 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+}
+}
+else {
+const err252 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err252];
 }
@@ -10711,8 +13041,10 @@ vErrors.push(err252);
 }
 errors++;
 }
-if(data113.model === undefined){
-const err253 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+}
+}
+else {
+const err253 = {instancePath:instancePath+"/variations/set/notApplied",schemaPath:"#/properties/variations/properties/set/properties/notApplied/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err253];
 }
@@ -10721,8 +13053,10 @@ vErrors.push(err253);
 }
 errors++;
 }
-if(data113.gridSize === undefined){
-const err254 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+}
+}
+else {
+const err254 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err254];
 }
@@ -10731,9 +13065,12 @@ vErrors.push(err254);
 }
 errors++;
 }
-for(const key25 in data113){
-if(!(((((key25 === "statement") || (key25 === "changedSections")) || (key25 === "toolVersion")) || (key25 === "model")) || (key25 === "gridSize"))){
-const err255 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key25},message:"must NOT have additional properties"};
+}
+if(data93.search !== undefined){
+let data109 = data93.search;
+if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
+if(data109.samples === undefined){
+const err255 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "samples"},message:"must have required property '"+"samples"+"'"};
 if(vErrors === null){
 vErrors = [err255];
 }
@@ -10742,10 +13079,8 @@ vErrors.push(err255);
 }
 errors++;
 }
-}
-if(data113.statement !== undefined){
-if(typeof data113.statement !== "string"){
-const err256 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data109.seed === undefined){
+const err256 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "seed"},message:"must have required property '"+"seed"+"'"};
 if(vErrors === null){
 vErrors = [err256];
 }
@@ -10754,14 +13089,8 @@ vErrors.push(err256);
 }
 errors++;
 }
-}
-if(data113.changedSections !== undefined){
-let data115 = data113.changedSections;
-if(Array.isArray(data115)){
-const len8 = data115.length;
-for(let i8=0; i8<len8; i8++){
-if(typeof data115[i8] !== "string"){
-const err257 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/changedSections/" + i8,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data109.localSearchEvaluations === undefined){
+const err257 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "localSearchEvaluations"},message:"must have required property '"+"localSearchEvaluations"+"'"};
 if(vErrors === null){
 vErrors = [err257];
 }
@@ -10770,10 +13099,8 @@ vErrors.push(err257);
 }
 errors++;
 }
-}
-}
-else {
-const err258 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data109.method === undefined){
+const err258 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
 if(vErrors === null){
 vErrors = [err258];
 }
@@ -10782,10 +13109,9 @@ vErrors.push(err258);
 }
 errors++;
 }
-}
-if(data113.toolVersion !== undefined){
-if(typeof data113.toolVersion !== "string"){
-const err259 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key24 in data109){
+if(!((((key24 === "samples") || (key24 === "seed")) || (key24 === "localSearchEvaluations")) || (key24 === "method"))){
+const err259 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key24},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err259];
 }
@@ -10795,9 +13121,10 @@ vErrors.push(err259);
 errors++;
 }
 }
-if(data113.model !== undefined){
-if(typeof data113.model !== "string"){
-const err260 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data109.samples !== undefined){
+let data110 = data109.samples;
+if(!(((typeof data110 == "number") && (!(data110 % 1) && !isNaN(data110))) && (isFinite(data110)))){
+const err260 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err260];
 }
@@ -10806,11 +13133,9 @@ vErrors.push(err260);
 }
 errors++;
 }
-}
-if(data113.gridSize !== undefined){
-let data119 = data113.gridSize;
-if(!(((typeof data119 == "number") && (!(data119 % 1) && !isNaN(data119))) && (isFinite(data119)))){
-const err261 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if((typeof data110 == "number") && (isFinite(data110))){
+if(data110 < 0 || isNaN(data110)){
+const err261 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err261];
 }
@@ -10819,9 +13144,12 @@ vErrors.push(err261);
 }
 errors++;
 }
-if((typeof data119 == "number") && (isFinite(data119))){
-if(data119 < 1 || isNaN(data119)){
-const err262 = {instancePath:instancePath+"/provenance/handEdits/" + i7+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+}
+}
+if(data109.seed !== undefined){
+let data111 = data109.seed;
+if(!(((typeof data111 == "number") && (!(data111 % 1) && !isNaN(data111))) && (isFinite(data111)))){
+const err262 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err262];
 }
@@ -10830,11 +13158,9 @@ vErrors.push(err262);
 }
 errors++;
 }
-}
-}
-}
-else {
-const err263 = {instancePath:instancePath+"/provenance/handEdits/" + i7,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data111 == "number") && (isFinite(data111))){
+if(data111 < 0 || isNaN(data111)){
+const err263 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err263];
 }
@@ -10845,8 +13171,10 @@ errors++;
 }
 }
 }
-else {
-const err264 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data109.localSearchEvaluations !== undefined){
+let data112 = data109.localSearchEvaluations;
+if(!(((typeof data112 == "number") && (!(data112 % 1) && !isNaN(data112))) && (isFinite(data112)))){
+const err264 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err264];
 }
@@ -10855,10 +13183,9 @@ vErrors.push(err264);
 }
 errors++;
 }
-}
-}
-else {
-const err265 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data112 == "number") && (isFinite(data112))){
+if(data112 < 0 || isNaN(data112)){
+const err265 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err265];
 }
@@ -10868,11 +13195,10 @@ vErrors.push(err265);
 errors++;
 }
 }
-if(data.cautions !== undefined){
-let data120 = data.cautions;
-if(Array.isArray(data120)){
-if(data120.length < 1){
-const err266 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+if(data109.method !== undefined){
+if(typeof data109.method !== "string"){
+const err266 = {instancePath:instancePath+"/variations/search/method",schemaPath:"#/properties/variations/properties/search/properties/method/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err266];
 }
@@ -10881,10 +13207,10 @@ vErrors.push(err266);
 }
 errors++;
 }
-const len9 = data120.length;
-for(let i9=0; i9<len9; i9++){
-if(typeof data120[i9] !== "string"){
-const err267 = {instancePath:instancePath+"/cautions/" + i9,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+}
+else {
+const err267 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err267];
 }
@@ -10894,9 +13220,10 @@ vErrors.push(err267);
 errors++;
 }
 }
-}
-else {
-const err268 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data93.gridSize !== undefined){
+let data114 = data93.gridSize;
+if(!(((typeof data114 == "number") && (!(data114 % 1) && !isNaN(data114))) && (isFinite(data114)))){
+const err268 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err268];
 }
@@ -10905,12 +13232,9 @@ vErrors.push(err268);
 }
 errors++;
 }
-}
-if(data.checksum !== undefined){
-let data122 = data.checksum;
-if(data122 && typeof data122 == "object" && !Array.isArray(data122)){
-if(data122.algorithm === undefined){
-const err269 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if((typeof data114 == "number") && (isFinite(data114))){
+if(data114 < 1 || isNaN(data114)){
+const err269 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err269];
 }
@@ -10919,8 +13243,12 @@ vErrors.push(err269);
 }
 errors++;
 }
-if(data122.canonicalForm === undefined){
-const err270 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+}
+}
+if(data93.failedSpeeds !== undefined){
+let data115 = data93.failedSpeeds;
+if(!(((typeof data115 == "number") && (!(data115 % 1) && !isNaN(data115))) && (isFinite(data115)))){
+const err270 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err270];
 }
@@ -10929,8 +13257,9 @@ vErrors.push(err270);
 }
 errors++;
 }
-if(data122.value === undefined){
-const err271 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if((typeof data115 == "number") && (isFinite(data115))){
+if(data115 < 0 || isNaN(data115)){
+const err271 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err271];
 }
@@ -10939,8 +13268,12 @@ vErrors.push(err271);
 }
 errors++;
 }
-if(data122.sections === undefined){
-const err272 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+}
+if(data93.unstableSpeeds !== undefined){
+let data116 = data93.unstableSpeeds;
+if(!(((typeof data116 == "number") && (!(data116 % 1) && !isNaN(data116))) && (isFinite(data116)))){
+const err272 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err272];
 }
@@ -10949,9 +13282,9 @@ vErrors.push(err272);
 }
 errors++;
 }
-for(const key26 in data122){
-if(!((((key26 === "algorithm") || (key26 === "canonicalForm")) || (key26 === "value")) || (key26 === "sections"))){
-const err273 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key26},message:"must NOT have additional properties"};
+if((typeof data116 == "number") && (isFinite(data116))){
+if(data116 < 0 || isNaN(data116)){
+const err273 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err273];
 }
@@ -10961,9 +13294,11 @@ vErrors.push(err273);
 errors++;
 }
 }
-if(data122.algorithm !== undefined){
-if("SHA-256" !== data122.algorithm){
-const err274 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+}
+if(data93.loopAnalyses !== undefined){
+let data117 = data93.loopAnalyses;
+if(!(((typeof data117 == "number") && (!(data117 % 1) && !isNaN(data117))) && (isFinite(data117)))){
+const err274 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err274];
 }
@@ -10972,10 +13307,9 @@ vErrors.push(err274);
 }
 errors++;
 }
-}
-if(data122.canonicalForm !== undefined){
-if(typeof data122.canonicalForm !== "string"){
-const err275 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if((typeof data117 == "number") && (isFinite(data117))){
+if(data117 < 0 || isNaN(data117)){
+const err275 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err275];
 }
@@ -10985,11 +13319,12 @@ vErrors.push(err275);
 errors++;
 }
 }
-if(data122.value !== undefined){
-let data125 = data122.value;
-if(typeof data125 === "string"){
-if(!pattern0.test(data125)){
-const err276 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+}
+if(data93.worst !== undefined){
+let data118 = data93.worst;
+if(data118 && typeof data118 == "object" && !Array.isArray(data118)){
+if(data118.phaseMargin_deg === undefined){
+const err276 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err276];
 }
@@ -10998,9 +13333,8 @@ vErrors.push(err276);
 }
 errors++;
 }
-}
-else {
-const err277 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data118.upperGainMargin_dB === undefined){
+const err277 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err277];
 }
@@ -11009,15 +13343,8 @@ vErrors.push(err277);
 }
 errors++;
 }
-}
-if(data122.sections !== undefined){
-let data126 = data122.sections;
-if(data126 && typeof data126 == "object" && !Array.isArray(data126)){
-for(const key27 in data126){
-const _errs267 = errors;
-if(typeof key27 === "string"){
-if(!pattern5.test(key27)){
-const err278 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key27};
+if(data118.lowerGainMargin_dB === undefined){
+const err278 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err278];
 }
@@ -11026,10 +13353,8 @@ vErrors.push(err278);
 }
 errors++;
 }
-}
-var valid47 = _errs267 === errors;
-if(!valid47){
-const err279 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key27},message:"property name must be valid"};
+if(data118.delayMargin_s === undefined){
+const err279 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err279];
 }
@@ -11038,12 +13363,8 @@ vErrors.push(err279);
 }
 errors++;
 }
-}
-for(const key28 in data126){
-let data127 = data126[key28];
-if(typeof data127 === "string"){
-if(!pattern0.test(data127)){
-const err280 = {instancePath:instancePath+"/checksum/sections/" + key28.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data118.sensitivityPeak === undefined){
+const err280 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err280];
 }
@@ -11052,9 +13373,8 @@ vErrors.push(err280);
 }
 errors++;
 }
-}
-else {
-const err281 = {instancePath:instancePath+"/checksum/sections/" + key28.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data118.complementarySensitivityPeak === undefined){
+const err281 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err281];
 }
@@ -11063,10 +13383,9 @@ vErrors.push(err281);
 }
 errors++;
 }
-}
-}
-else {
-const err282 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key25 in data118){
+if(!((((((key25 === "phaseMargin_deg") || (key25 === "upperGainMargin_dB")) || (key25 === "lowerGainMargin_dB")) || (key25 === "delayMargin_s")) || (key25 === "sensitivityPeak")) || (key25 === "complementarySensitivityPeak"))){
+const err282 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key25},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err282];
 }
@@ -11076,9 +13395,45 @@ vErrors.push(err282);
 errors++;
 }
 }
+if(data118.phaseMargin_deg !== undefined){
+if(!(validate6(data118.phaseMargin_deg, {instancePath:instancePath+"/variations/worst/phaseMargin_deg",parentData:data118,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data118.upperGainMargin_dB !== undefined){
+if(!(validate6(data118.upperGainMargin_dB, {instancePath:instancePath+"/variations/worst/upperGainMargin_dB",parentData:data118,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data118.lowerGainMargin_dB !== undefined){
+if(!(validate6(data118.lowerGainMargin_dB, {instancePath:instancePath+"/variations/worst/lowerGainMargin_dB",parentData:data118,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data118.delayMargin_s !== undefined){
+if(!(validate6(data118.delayMargin_s, {instancePath:instancePath+"/variations/worst/delayMargin_s",parentData:data118,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data118.sensitivityPeak !== undefined){
+if(!(validate6(data118.sensitivityPeak, {instancePath:instancePath+"/variations/worst/sensitivityPeak",parentData:data118,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data118.complementarySensitivityPeak !== undefined){
+if(!(validate6(data118.complementarySensitivityPeak, {instancePath:instancePath+"/variations/worst/complementarySensitivityPeak",parentData:data118,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
 }
 else {
-const err283 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err283 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err283];
 }
@@ -11088,9 +13443,15 @@ vErrors.push(err283);
 errors++;
 }
 }
-}
-else {
-const err284 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data93.failures !== undefined){
+let data125 = data93.failures;
+if(Array.isArray(data125)){
+const len7 = data125.length;
+for(let i7=0; i7<len7; i7++){
+let data126 = data125[i7];
+if(data126 && typeof data126 == "object" && !Array.isArray(data126)){
+if(data126.speed_mps === undefined){
+const err284 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err284];
 }
@@ -11099,14 +13460,1210 @@ vErrors.push(err284);
 }
 errors++;
 }
+if(data126.messages === undefined){
+const err285 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+if(vErrors === null){
+vErrors = [err285];
+}
+else {
+vErrors.push(err285);
+}
+errors++;
+}
+for(const key26 in data126){
+if(!((key26 === "speed_mps") || (key26 === "messages"))){
+const err286 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key26},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err286];
+}
+else {
+vErrors.push(err286);
+}
+errors++;
+}
+}
+if(data126.speed_mps !== undefined){
+let data127 = data126.speed_mps;
+if(!((typeof data127 == "number") && (isFinite(data127)))){
+const err287 = {instancePath:instancePath+"/variations/failures/" + i7+"/speed_mps",schemaPath:"#/properties/variations/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err287];
+}
+else {
+vErrors.push(err287);
+}
+errors++;
+}
+}
+if(data126.messages !== undefined){
+let data128 = data126.messages;
+if(Array.isArray(data128)){
+const len8 = data128.length;
+for(let i8=0; i8<len8; i8++){
+if(typeof data128[i8] !== "string"){
+const err288 = {instancePath:instancePath+"/variations/failures/" + i7+"/messages/" + i8,schemaPath:"#/properties/variations/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err288];
+}
+else {
+vErrors.push(err288);
+}
+errors++;
+}
+}
+}
+else {
+const err289 = {instancePath:instancePath+"/variations/failures/" + i7+"/messages",schemaPath:"#/properties/variations/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err289];
+}
+else {
+vErrors.push(err289);
+}
+errors++;
+}
+}
+}
+else {
+const err290 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err290];
+}
+else {
+vErrors.push(err290);
+}
+errors++;
+}
+}
+}
+else {
+const err291 = {instancePath:instancePath+"/variations/failures",schemaPath:"#/properties/variations/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err291];
+}
+else {
+vErrors.push(err291);
+}
+errors++;
+}
+}
+if(data93.breakpoints !== undefined){
+let data130 = data93.breakpoints;
+if(Array.isArray(data130)){
+const len9 = data130.length;
+for(let i9=0; i9<len9; i9++){
+let data131 = data130[i9];
+if(data131 && typeof data131 == "object" && !Array.isArray(data131)){
+if(data131.speed_mps === undefined){
+const err292 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err292];
+}
+else {
+vErrors.push(err292);
+}
+errors++;
+}
+if(data131.instability === undefined){
+const err293 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "instability"},message:"must have required property '"+"instability"+"'"};
+if(vErrors === null){
+vErrors = [err293];
+}
+else {
+vErrors.push(err293);
+}
+errors++;
+}
+if(data131.worst === undefined){
+const err294 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(vErrors === null){
+vErrors = [err294];
+}
+else {
+vErrors.push(err294);
+}
+errors++;
+}
+if(data131.weakest === undefined){
+const err295 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
+if(vErrors === null){
+vErrors = [err295];
+}
+else {
+vErrors.push(err295);
+}
+errors++;
+}
+for(const key27 in data131){
+if(!((((key27 === "speed_mps") || (key27 === "instability")) || (key27 === "worst")) || (key27 === "weakest"))){
+const err296 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key27},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err296];
+}
+else {
+vErrors.push(err296);
+}
+errors++;
+}
+}
+if(data131.speed_mps !== undefined){
+let data132 = data131.speed_mps;
+if(!((typeof data132 == "number") && (isFinite(data132)))){
+const err297 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/speed_mps",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err297];
+}
+else {
+vErrors.push(err297);
+}
+errors++;
+}
+}
+if(data131.instability !== undefined){
+if(!(validate13(data131.instability, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/instability",parentData:data131,parentDataProperty:"instability",rootData}))){
+vErrors = vErrors === null ? validate13.errors : vErrors.concat(validate13.errors);
+errors = vErrors.length;
+}
+}
+if(data131.worst !== undefined){
+let data134 = data131.worst;
+if(data134 && typeof data134 == "object" && !Array.isArray(data134)){
+if(data134.phaseMargin_deg === undefined){
+const err298 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(vErrors === null){
+vErrors = [err298];
+}
+else {
+vErrors.push(err298);
+}
+errors++;
+}
+if(data134.upperGainMargin_dB === undefined){
+const err299 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(vErrors === null){
+vErrors = [err299];
+}
+else {
+vErrors.push(err299);
+}
+errors++;
+}
+if(data134.lowerGainMargin_dB === undefined){
+const err300 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+if(vErrors === null){
+vErrors = [err300];
+}
+else {
+vErrors.push(err300);
+}
+errors++;
+}
+if(data134.delayMargin_s === undefined){
+const err301 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+if(vErrors === null){
+vErrors = [err301];
+}
+else {
+vErrors.push(err301);
+}
+errors++;
+}
+if(data134.sensitivityPeak === undefined){
+const err302 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err302];
+}
+else {
+vErrors.push(err302);
+}
+errors++;
+}
+if(data134.complementarySensitivityPeak === undefined){
+const err303 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err303];
+}
+else {
+vErrors.push(err303);
+}
+errors++;
+}
+for(const key28 in data134){
+if(!((((((key28 === "phaseMargin_deg") || (key28 === "upperGainMargin_dB")) || (key28 === "lowerGainMargin_dB")) || (key28 === "delayMargin_s")) || (key28 === "sensitivityPeak")) || (key28 === "complementarySensitivityPeak"))){
+const err304 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key28},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err304];
+}
+else {
+vErrors.push(err304);
+}
+errors++;
+}
+}
+if(data134.phaseMargin_deg !== undefined){
+if(!(validate15(data134.phaseMargin_deg, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/phaseMargin_deg",parentData:data134,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data134.upperGainMargin_dB !== undefined){
+if(!(validate15(data134.upperGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/upperGainMargin_dB",parentData:data134,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data134.lowerGainMargin_dB !== undefined){
+if(!(validate15(data134.lowerGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/lowerGainMargin_dB",parentData:data134,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data134.delayMargin_s !== undefined){
+if(!(validate15(data134.delayMargin_s, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/delayMargin_s",parentData:data134,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data134.sensitivityPeak !== undefined){
+if(!(validate15(data134.sensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/sensitivityPeak",parentData:data134,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data134.complementarySensitivityPeak !== undefined){
+if(!(validate15(data134.complementarySensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/complementarySensitivityPeak",parentData:data134,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err305 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err305];
+}
+else {
+vErrors.push(err305);
+}
+errors++;
+}
+}
+if(data131.weakest !== undefined){
+if(!(validate22(data131.weakest, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/weakest",parentData:data131,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err306 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err306];
+}
+else {
+vErrors.push(err306);
+}
+errors++;
+}
+}
+}
+else {
+const err307 = {instancePath:instancePath+"/variations/breakpoints",schemaPath:"#/properties/variations/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err307];
+}
+else {
+vErrors.push(err307);
+}
+errors++;
+}
+}
+if(data93.weakest !== undefined){
+if(!(validate22(data93.weakest, {instancePath:instancePath+"/variations/weakest",parentData:data93,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err308 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err308];
+}
+else {
+vErrors.push(err308);
+}
+errors++;
+}
+}
+if(data.provenance !== undefined){
+let data143 = data.provenance;
+if(data143 && typeof data143 == "object" && !Array.isArray(data143)){
+if(data143.tool === undefined){
+const err309 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(vErrors === null){
+vErrors = [err309];
+}
+else {
+vErrors.push(err309);
+}
+errors++;
+}
+if(data143.toolVersion === undefined){
+const err310 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err310];
+}
+else {
+vErrors.push(err310);
+}
+errors++;
+}
+if(data143.inputs === undefined){
+const err311 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+if(vErrors === null){
+vErrors = [err311];
+}
+else {
+vErrors.push(err311);
+}
+errors++;
+}
+if(data143.model === undefined){
+const err312 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err312];
+}
+else {
+vErrors.push(err312);
+}
+errors++;
+}
+if(data143.rule === undefined){
+const err313 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(vErrors === null){
+vErrors = [err313];
+}
+else {
+vErrors.push(err313);
+}
+errors++;
+}
+if(data143.plan === undefined){
+const err314 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(vErrors === null){
+vErrors = [err314];
+}
+else {
+vErrors.push(err314);
+}
+errors++;
+}
+for(const key29 in data143){
+if(!(((((((key29 === "tool") || (key29 === "toolVersion")) || (key29 === "inputs")) || (key29 === "model")) || (key29 === "rule")) || (key29 === "plan")) || (key29 === "handEdits"))){
+const err315 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key29},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err315];
+}
+else {
+vErrors.push(err315);
+}
+errors++;
+}
+}
+if(data143.tool !== undefined){
+if("speedband" !== data143.tool){
+const err316 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err316];
+}
+else {
+vErrors.push(err316);
+}
+errors++;
+}
+}
+if(data143.toolVersion !== undefined){
+if(typeof data143.toolVersion !== "string"){
+const err317 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err317];
+}
+else {
+vErrors.push(err317);
+}
+errors++;
+}
+}
+if(data143.inputs !== undefined){
+let data146 = data143.inputs;
+if(Array.isArray(data146)){
+const len10 = data146.length;
+for(let i10=0; i10<len10; i10++){
+let data147 = data146[i10];
+if(data147 && typeof data147 == "object" && !Array.isArray(data147)){
+if(data147.file === undefined){
+const err318 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(vErrors === null){
+vErrors = [err318];
+}
+else {
+vErrors.push(err318);
+}
+errors++;
+}
+if(data147.sha256 === undefined){
+const err319 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(vErrors === null){
+vErrors = [err319];
+}
+else {
+vErrors.push(err319);
+}
+errors++;
+}
+if(data147.role === undefined){
+const err320 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(vErrors === null){
+vErrors = [err320];
+}
+else {
+vErrors.push(err320);
+}
+errors++;
+}
+for(const key30 in data147){
+if(!(((key30 === "file") || (key30 === "sha256")) || (key30 === "role"))){
+const err321 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key30},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err321];
+}
+else {
+vErrors.push(err321);
+}
+errors++;
+}
+}
+if(data147.file !== undefined){
+if(typeof data147.file !== "string"){
+const err322 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err322];
+}
+else {
+vErrors.push(err322);
+}
+errors++;
+}
+}
+if(data147.sha256 !== undefined){
+let data149 = data147.sha256;
+if(typeof data149 === "string"){
+if(!pattern0.test(data149)){
+const err323 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err323];
+}
+else {
+vErrors.push(err323);
+}
+errors++;
+}
+}
+else {
+const err324 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err324];
+}
+else {
+vErrors.push(err324);
+}
+errors++;
+}
+}
+if(data147.role !== undefined){
+if(typeof data147.role !== "string"){
+const err325 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err325];
+}
+else {
+vErrors.push(err325);
+}
+errors++;
+}
+}
+}
+else {
+const err326 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err326];
+}
+else {
+vErrors.push(err326);
+}
+errors++;
+}
+}
+}
+else {
+const err327 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err327];
+}
+else {
+vErrors.push(err327);
+}
+errors++;
+}
+}
+if(data143.model !== undefined){
+let data151 = data143.model;
+if(!(data151 && typeof data151 == "object" && !Array.isArray(data151))){
+const err328 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err328];
+}
+else {
+vErrors.push(err328);
+}
+errors++;
+}
+}
+if(data143.rule !== undefined){
+let data152 = data143.rule;
+if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
+if(data152.name === undefined){
+const err329 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(vErrors === null){
+vErrors = [err329];
+}
+else {
+vErrors.push(err329);
+}
+errors++;
+}
+if(data152.parameters === undefined){
+const err330 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err330];
+}
+else {
+vErrors.push(err330);
+}
+errors++;
+}
+for(const key31 in data152){
+if(!((((key31 === "name") || (key31 === "parameters")) || (key31 === "citation")) || (key31 === "parametersAtBreakpoints"))){
+const err331 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err331];
+}
+else {
+vErrors.push(err331);
+}
+errors++;
+}
+}
+if(data152.name !== undefined){
+if(typeof data152.name !== "string"){
+const err332 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err332];
+}
+else {
+vErrors.push(err332);
+}
+errors++;
+}
+}
+if(data152.parameters !== undefined){
+let data154 = data152.parameters;
+if(!(data154 && typeof data154 == "object" && !Array.isArray(data154))){
+const err333 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err333];
+}
+else {
+vErrors.push(err333);
+}
+errors++;
+}
+}
+if(data152.citation !== undefined){
+if(typeof data152.citation !== "string"){
+const err334 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err334];
+}
+else {
+vErrors.push(err334);
+}
+errors++;
+}
+}
+if(data152.parametersAtBreakpoints !== undefined){
+let data156 = data152.parametersAtBreakpoints;
+if(Array.isArray(data156)){
+const len11 = data156.length;
+for(let i11=0; i11<len11; i11++){
+let data157 = data156[i11];
+if(data157 && typeof data157 == "object" && !Array.isArray(data157)){
+if(data157.speed_mps === undefined){
+const err335 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err335];
+}
+else {
+vErrors.push(err335);
+}
+errors++;
+}
+if(data157.parameters === undefined){
+const err336 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err336];
+}
+else {
+vErrors.push(err336);
+}
+errors++;
+}
+for(const key32 in data157){
+if(!((key32 === "speed_mps") || (key32 === "parameters"))){
+const err337 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err337];
+}
+else {
+vErrors.push(err337);
+}
+errors++;
+}
+}
+if(data157.speed_mps !== undefined){
+let data158 = data157.speed_mps;
+if(!((typeof data158 == "number") && (isFinite(data158)))){
+const err338 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err338];
+}
+else {
+vErrors.push(err338);
+}
+errors++;
+}
+}
+if(data157.parameters !== undefined){
+let data159 = data157.parameters;
+if(data159 && typeof data159 == "object" && !Array.isArray(data159)){
+for(const key33 in data159){
+let data160 = data159[key33];
+if((!((typeof data160 == "number") && (isFinite(data160)))) && (typeof data160 !== "string")){
+const err339 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/parameters/" + key33.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(vErrors === null){
+vErrors = [err339];
+}
+else {
+vErrors.push(err339);
+}
+errors++;
+}
+}
+}
+else {
+const err340 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err340];
+}
+else {
+vErrors.push(err340);
+}
+errors++;
+}
+}
+}
+else {
+const err341 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err341];
+}
+else {
+vErrors.push(err341);
+}
+errors++;
+}
+}
+}
+else {
+const err342 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err342];
+}
+else {
+vErrors.push(err342);
+}
+errors++;
+}
+}
+}
+else {
+const err343 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err343];
+}
+else {
+vErrors.push(err343);
+}
+errors++;
+}
+}
+if(data143.plan !== undefined){
+let data161 = data143.plan;
+if(!(data161 && typeof data161 == "object" && !Array.isArray(data161))){
+const err344 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err344];
+}
+else {
+vErrors.push(err344);
+}
+errors++;
+}
+}
+if(data143.handEdits !== undefined){
+let data162 = data143.handEdits;
+if(Array.isArray(data162)){
+const len12 = data162.length;
+for(let i12=0; i12<len12; i12++){
+let data163 = data162[i12];
+if(data163 && typeof data163 == "object" && !Array.isArray(data163)){
+if(data163.statement === undefined){
+const err345 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(vErrors === null){
+vErrors = [err345];
+}
+else {
+vErrors.push(err345);
+}
+errors++;
+}
+if(data163.changedSections === undefined){
+const err346 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(vErrors === null){
+vErrors = [err346];
+}
+else {
+vErrors.push(err346);
+}
+errors++;
+}
+if(data163.toolVersion === undefined){
+const err347 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err347];
+}
+else {
+vErrors.push(err347);
+}
+errors++;
+}
+if(data163.model === undefined){
+const err348 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err348];
+}
+else {
+vErrors.push(err348);
+}
+errors++;
+}
+if(data163.gridSize === undefined){
+const err349 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(vErrors === null){
+vErrors = [err349];
+}
+else {
+vErrors.push(err349);
+}
+errors++;
+}
+for(const key34 in data163){
+if(!(((((key34 === "statement") || (key34 === "changedSections")) || (key34 === "toolVersion")) || (key34 === "model")) || (key34 === "gridSize"))){
+const err350 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err350];
+}
+else {
+vErrors.push(err350);
+}
+errors++;
+}
+}
+if(data163.statement !== undefined){
+if(typeof data163.statement !== "string"){
+const err351 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err351];
+}
+else {
+vErrors.push(err351);
+}
+errors++;
+}
+}
+if(data163.changedSections !== undefined){
+let data165 = data163.changedSections;
+if(Array.isArray(data165)){
+const len13 = data165.length;
+for(let i13=0; i13<len13; i13++){
+if(typeof data165[i13] !== "string"){
+const err352 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/changedSections/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err352];
+}
+else {
+vErrors.push(err352);
+}
+errors++;
+}
+}
+}
+else {
+const err353 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err353];
+}
+else {
+vErrors.push(err353);
+}
+errors++;
+}
+}
+if(data163.toolVersion !== undefined){
+if(typeof data163.toolVersion !== "string"){
+const err354 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err354];
+}
+else {
+vErrors.push(err354);
+}
+errors++;
+}
+}
+if(data163.model !== undefined){
+if(typeof data163.model !== "string"){
+const err355 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err355];
+}
+else {
+vErrors.push(err355);
+}
+errors++;
+}
+}
+if(data163.gridSize !== undefined){
+let data169 = data163.gridSize;
+if(!(((typeof data169 == "number") && (!(data169 % 1) && !isNaN(data169))) && (isFinite(data169)))){
+const err356 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err356];
+}
+else {
+vErrors.push(err356);
+}
+errors++;
+}
+if((typeof data169 == "number") && (isFinite(data169))){
+if(data169 < 1 || isNaN(data169)){
+const err357 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err357];
+}
+else {
+vErrors.push(err357);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err358 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err358];
+}
+else {
+vErrors.push(err358);
+}
+errors++;
+}
+}
+}
+else {
+const err359 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err359];
+}
+else {
+vErrors.push(err359);
+}
+errors++;
+}
+}
+}
+else {
+const err360 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err360];
+}
+else {
+vErrors.push(err360);
+}
+errors++;
+}
+}
+if(data.cautions !== undefined){
+let data170 = data.cautions;
+if(Array.isArray(data170)){
+if(data170.length < 1){
+const err361 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err361];
+}
+else {
+vErrors.push(err361);
+}
+errors++;
+}
+const len14 = data170.length;
+for(let i14=0; i14<len14; i14++){
+if(typeof data170[i14] !== "string"){
+const err362 = {instancePath:instancePath+"/cautions/" + i14,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err362];
+}
+else {
+vErrors.push(err362);
+}
+errors++;
+}
+}
+}
+else {
+const err363 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err363];
+}
+else {
+vErrors.push(err363);
+}
+errors++;
+}
+}
+if(data.checksum !== undefined){
+let data172 = data.checksum;
+if(data172 && typeof data172 == "object" && !Array.isArray(data172)){
+if(data172.algorithm === undefined){
+const err364 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(vErrors === null){
+vErrors = [err364];
+}
+else {
+vErrors.push(err364);
+}
+errors++;
+}
+if(data172.canonicalForm === undefined){
+const err365 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(vErrors === null){
+vErrors = [err365];
+}
+else {
+vErrors.push(err365);
+}
+errors++;
+}
+if(data172.value === undefined){
+const err366 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err366];
+}
+else {
+vErrors.push(err366);
+}
+errors++;
+}
+if(data172.sections === undefined){
+const err367 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+if(vErrors === null){
+vErrors = [err367];
+}
+else {
+vErrors.push(err367);
+}
+errors++;
+}
+for(const key35 in data172){
+if(!((((key35 === "algorithm") || (key35 === "canonicalForm")) || (key35 === "value")) || (key35 === "sections"))){
+const err368 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err368];
+}
+else {
+vErrors.push(err368);
+}
+errors++;
+}
+}
+if(data172.algorithm !== undefined){
+if("SHA-256" !== data172.algorithm){
+const err369 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err369];
+}
+else {
+vErrors.push(err369);
+}
+errors++;
+}
+}
+if(data172.canonicalForm !== undefined){
+if(typeof data172.canonicalForm !== "string"){
+const err370 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err370];
+}
+else {
+vErrors.push(err370);
+}
+errors++;
+}
+}
+if(data172.value !== undefined){
+let data175 = data172.value;
+if(typeof data175 === "string"){
+if(!pattern0.test(data175)){
+const err371 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err371];
+}
+else {
+vErrors.push(err371);
+}
+errors++;
+}
+}
+else {
+const err372 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err372];
+}
+else {
+vErrors.push(err372);
+}
+errors++;
+}
+}
+if(data172.sections !== undefined){
+let data176 = data172.sections;
+if(data176 && typeof data176 == "object" && !Array.isArray(data176)){
+for(const key36 in data176){
+const _errs357 = errors;
+if(typeof key36 === "string"){
+if(!pattern5.test(key36)){
+const err373 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key36};
+if(vErrors === null){
+vErrors = [err373];
+}
+else {
+vErrors.push(err373);
+}
+errors++;
+}
+}
+var valid66 = _errs357 === errors;
+if(!valid66){
+const err374 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key36},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err374];
+}
+else {
+vErrors.push(err374);
+}
+errors++;
+}
+}
+for(const key37 in data176){
+let data177 = data176[key37];
+if(typeof data177 === "string"){
+if(!pattern0.test(data177)){
+const err375 = {instancePath:instancePath+"/checksum/sections/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err375];
+}
+else {
+vErrors.push(err375);
+}
+errors++;
+}
+}
+else {
+const err376 = {instancePath:instancePath+"/checksum/sections/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err376];
+}
+else {
+vErrors.push(err376);
+}
+errors++;
+}
+}
+}
+else {
+const err377 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err377];
+}
+else {
+vErrors.push(err377);
+}
+errors++;
+}
+}
+}
+else {
+const err378 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err378];
+}
+else {
+vErrors.push(err378);
+}
+errors++;
+}
+}
+}
+else {
+const err379 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err379];
+}
+else {
+vErrors.push(err379);
+}
+errors++;
+}
 validate5.errors = vErrors;
 return errors === 0;
 }
 
-export const validateVehicleFile = validate6;
-const schema12 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
+export const validateVehicleFile = validate25;
+const schema20 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
 
-function validate6(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+function validate25(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
 let errors = 0;
 if(data && typeof data == "object" && !Array.isArray(data)){
@@ -11191,7 +14748,7 @@ vErrors.push(err7);
 errors++;
 }
 for(const key0 in data){
-if(!(func18.call(schema12.properties, key0))){
+if(!(func18.call(schema20.properties, key0))){
 const err8 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err8];
@@ -11418,7 +14975,7 @@ vErrors.push(err25);
 }
 errors++;
 }
-validate6.errors = vErrors;
+validate25.errors = vErrors;
 return errors === 0;
 }
 

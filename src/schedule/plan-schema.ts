@@ -2,6 +2,8 @@
  * JSON Schema of a plan file (what `build` is asked to produce). Every field is optional;
  * plan.ts `PLAN_DEFAULTS` fills the rest. Unknown fields are refused (typos get named).
  */
+import { PLAN_VARIATIONS_SCHEMA } from './plan-variations-schema.js';
+
 const positive = { type: 'number', exclusiveMinimum: 0 } as const;
 const nonNegative = { type: 'number', minimum: 0 } as const;
 /** A field with its description (the plan reference, docs/plan.md, is generated from these: src/schedule/plan-reference.ts). */
@@ -161,5 +163,6 @@ export const PLAN_SCHEMA = {
       },
       'The dense check.',
     ),
+    variations: PLAN_VARIATIONS_SCHEMA,
   },
 } as const;

@@ -13,6 +13,7 @@ import { PLAN_SCHEMA } from './plan-schema.js';
 import { planReferenceHint } from './plan-reference-path.js';
 import { findRule, parameterNotTakenWords, parametersNotTaken } from '../tuning/registry.js';
 import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
+import { resolveVariations, type PlanVariations, type WrittenVariations } from './plan-variations.js';
 
 export type LoopKind = 'yaw-rate' | 'heading' | 'path';
 export type ReferencePoint = 'cg' | 'front-axle';
@@ -83,6 +84,8 @@ export interface Plan {
     /** Model the dense check runs on: the joint single-track fit, or lumped models interpolated between test speeds. */
     readonly model: 'single-track' | 'interpolated-lumped';
   };
+  /** The vehicles the schedule must hold on besides the nominal model (plan-variations.ts); absent: nominal check only. */
+  readonly variations?: PlanVariations;
 }
 
 /** A plan as written in a file: every field optional. */
@@ -91,7 +94,9 @@ export type PartialPlan = {
     ? { readonly speeds_mps?: readonly number[]; readonly count?: number; readonly spacing?: 'geometric' | 'linear' }
     : K extends 'interpolation'
       ? InterpolationMethod
-      : Partial<Plan[K]>;
+      : K extends 'variations'
+        ? WrittenVariations
+        : Partial<Plan[K]>;
 } & { readonly $schema?: string; readonly description?: string };
 
 /**
@@ -242,6 +247,7 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
     controller,
     acceptance: { ...PLAN_DEFAULTS.acceptance, ...partial.acceptance },
     check: { ...PLAN_DEFAULTS.check, ...partial.check },
+    ...(partial.variations === undefined ? {} : { variations: resolveVariations(partial.variations, controller.sampleTime_s) }),
   };
 }
 

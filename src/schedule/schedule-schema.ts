@@ -2,6 +2,8 @@
  * JSON Schema of schedule.json (validated on write and on read). The order of `properties`
  * is also the order fields are written in (see schedule-json.ts).
  */
+import { SCHEDULE_VARIATIONS_SCHEMA } from './schedule-variations-schema.js';
+
 const number = { type: 'number' } as const;
 const nullableNumber = { type: ['number', 'null'] } as const;
 const text = { type: 'string' } as const;
@@ -105,6 +107,7 @@ export const SCHEDULE_SCHEMA = object({
     failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
     insertions: { type: 'array', items: object({ speed_mps: number, reason: text }) },
   }),
+  variations: SCHEDULE_VARIATIONS_SCHEMA,
   provenance: object(
     {
       tool: { const: 'speedband' },
@@ -138,4 +141,4 @@ export const SCHEDULE_SCHEMA = object({
     value: sha256,
     sections: { type: 'object', propertyNames: { pattern: '^/' }, additionalProperties: sha256 },
   }),
-});
+}, ['variations']);

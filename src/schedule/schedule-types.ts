@@ -6,6 +6,7 @@
 import type { Discretisation } from '../controller/types.js';
 import type { InterpolationMethod, AcceptanceThresholds, WorstMargins } from './types.js';
 import type { LoopKind, ReferencePoint } from './plan.js';
+import type { ScheduleVariations } from './schedule-variations.js';
 
 export const SCHEDULE_FORMAT = 'speedband-schedule';
 /** 2: the checksum covers every field (version 1 covered the table and controller settings only). */
@@ -154,6 +155,8 @@ export interface ScheduleFile {
   readonly units: ScheduleUnits;
   readonly breakpoints: readonly ScheduleBreakpoint[];
   readonly check: ScheduleCheck;
+  /** Present when the plan gave variations: the worst case over them (schedule-variations.ts). */
+  readonly variations?: ScheduleVariations;
   readonly provenance: ScheduleProvenance;
   readonly cautions: readonly string[];
   readonly checksum: ScheduleChecksum;

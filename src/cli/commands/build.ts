@@ -64,8 +64,13 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const baselineResult = baselineCheck?.check;
 
   // Exit 1 has two causes; both outputs say which.
+  const robustFailed = schedule.check.passed && !passed;
   const exitReasons = [
-    ...(passed ? [] : [`the new schedule fails its dense check${written ? ' (written marked failed, --allow-failing)' : ' (nothing written)'}`]),
+    ...(passed
+      ? []
+      : [
+          `the new schedule fails ${robustFailed ? 'the worst case over the plan\'s variations (robust acceptance)' : 'its dense check'}${written ? ' (written marked failed, --allow-failing)' : ' (nothing written)'}`,
+        ]),
     ...(baselineResult === undefined || baselineResult.passed
       ? []
       : [`the OLD gains of the baseline ${String(args.baseline)} fail on the new vehicle model at ${baselineResult.failedCount} of ${baselineResult.points.length} speeds${passed ? ' (the new schedule passed and was written)' : ''}`]),
@@ -83,6 +88,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           controller: schedule.controller,
           breakpoints: schedule.breakpoints,
           check: schedule.check,
+          variations: schedule.variations ?? null,
           extrapolations: result.extrapolations,
           derivations: result.tuned.map((point, k) => ({
             speed_mps: schedule.breakpoints[k].speed_mps,
@@ -117,6 +123,10 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     const warnings = [...new Set([...result.extrapolations.map(extrapolationWords), ...result.tuned.flatMap((point) => point.derivation.warnings)])];
     let text = formatSchedule(schedule);
     text += `\n  model: ${result.checkModel.description}\n`;
+    if (schedule.variations !== undefined) {
+      const { formatVariations } = await import('../../build/robust-report.js');
+      text += `\n${formatVariations(schedule.variations, schedule.breakpoints.map((row) => row.margins), schedule.check.thresholds)}`;
+    }
     if (warnings.length > 0) text += `  rule warnings:\n${warnings.map((warning) => `    - ${warning}`).join('\n')}\n`;
     if (baselineCheck !== undefined && baseline !== undefined) {
       const { formatBaseline } = await import('../../build/schedule-report.js');
@@ -127,7 +137,9 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     if (written) {
       text += `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out} (status ${schedule.status}, checksum ${schedule.checksum.value.slice(0, 16)}…)\n`;
     } else {
-      text += `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
+      text += robustFailed
+        ? `Nothing written: the schedule passes on the nominal model but not in the worst case over the plan's variations (see above). Retune for the weakest parameter, narrow the variations to what the vehicle really sees, set "variations": {"acceptance": "nominal"} to report the worst case without requiring it, or pass --allow-failing to write it marked failed for review.\n`
+        : `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
     }
     if (modelsOut !== undefined) text += `Wrote ${modelsOut}\n`;
     if (exitCode !== EXIT.ok) text += `Exit 1: ${exitReasons.join('; and ')}.\n`;
