@@ -6,7 +6,8 @@
  * numbers (loop error, controller equations, interpolation, units, cautions), a record in
  * `provenance.handEdits` saying it was edited by hand and re-verified (which sections had changed,
  * the model, the version), and a fresh checksum. Nothing the hand edit wrote about margins or
- * status is kept: only what the check proves.
+ * status is kept: only what the check proves. A schedule that records variations has their worst case
+ * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
 import { SAFETY_CAUTIONS } from '../cli/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
@@ -15,12 +16,18 @@ import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits,
 import type { HandEditRecord, ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import { VERSION } from '../version.js';
+import { acceptancePassed } from '../schedule/schedule-variations.js';
 import type { CheckModel } from './check-model.js';
+import type { RobustScheduleCheck } from './robust-schedule-check.js';
 import { recheckSchedule } from './recheck-schedule.js';
 
 export interface ReverifyResult {
   /** The dense check of the edited schedule. */
   readonly check: DenseCheckResult;
+  /** The worst case over the variations it records (null when it records none). */
+  readonly variations: RobustScheduleCheck | null;
+  /** Whether it passed: the dense check and, under robust acceptance, the worst case. */
+  readonly passed: boolean;
   /** What had changed against the checksum the file carried, in words (empty: nothing). */
   readonly changes: readonly string[];
   /** The re-verified schedule, or null when the check failed (nothing may be written). */
@@ -31,11 +38,22 @@ export interface ReverifyResult {
  * Re-verify a (hand-edited) schedule on a model; see the file comment. `modelRecorded`: the model is
  * the one the schedule records (its check.model and provenance.model are kept as they are).
  */
-export function reverifySchedule(edited: ScheduleFile, model: CheckModel, options: { readonly modelRecorded?: boolean } = {}): ReverifyResult {
+export function reverifySchedule(
+  edited: ScheduleFile,
+  model: CheckModel,
+  options: {
+    readonly modelRecorded?: boolean;
+    /** When the schedule records variations: their worst case on `model` (robust-recheck.ts recheckOverVariations), run by the caller (it is asynchronous). */
+    readonly variations?: RobustScheduleCheck | null;
+  } = {},
+): ReverifyResult {
   const recorded = options.modelRecorded === true;
   const verdict = verifyScheduleChecksum(edited);
   const check = recheckSchedule({ schedule: edited, model });
-  if (!check.passed) return { check, changes: verdict.changes, schedule: null };
+  const robust = options.variations ?? null;
+  if (edited.variations !== undefined && robust === null) throw new Error('internal: a schedule with variations is re-verified with their worst case (recheckOverVariations)');
+  const passed = acceptancePassed(check.passed, robust?.record);
+  if (!passed) return { check, variations: robust, passed, changes: verdict.changes, schedule: null };
   const margins = edited.breakpoints.map((row) => {
     const point = check.points.find((candidate) => candidate.speed_mps === row.speed_mps);
     if (point === undefined) throw new Error(`breakpoint ${row.speed_mps} m/s missing from the check grid`);
@@ -60,6 +78,7 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
     interpolation: { ...interpolation, description: interpolationText(interpolation.method, interpolation.lowSpeedFloor_mps) },
     units: gainUnits(loop.kind),
     breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k] })),
+    ...(robust === null ? {} : { variations: robust.record }),
     check: {
       ...edited.check,
       passed: true,
@@ -77,5 +96,5 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
     cautions: [...SAFETY_CAUTIONS],
   };
   delete withoutChecksum.checksum;
-  return { check, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
+  return { check, variations: robust, passed, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
 }

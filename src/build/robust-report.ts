@@ -13,7 +13,9 @@ import type { RobustFigure, RobustMargins, VariationDimension, VariationSet } fr
 import type { WeakestParameter } from '../robust/weakest-parameter.js';
 import type { BreakpointMargins } from '../schedule/schedule-types.js';
 import type { ScheduleVariations } from '../schedule/schedule-variations.js';
-import type { AcceptanceThresholds } from '../schedule/types.js';
+import { breakpointMargins } from '../schedule/schedule-file.js';
+import { CRITERION_WORDS } from './schedule-report.js';
+import type { AcceptanceThresholds, DenseCheckResult } from '../schedule/types.js';
 
 const DIGITS: Readonly<Record<RobustFigure, number>> = {
   phaseMargin_deg: 1,
@@ -82,20 +84,34 @@ function breakpointTable(variations: ScheduleVariations, nominal: readonly Break
       pair('delayMargin_s', margins, breakpoint),
       pair('sensitivityPeak', margins, breakpoint),
       pair('complementarySensitivityPeak', margins, breakpoint),
-      failures.length === 0 ? 'pass' : `FAIL: ${failures.map((failure) => failure.criterion).join(', ')}`,
+      failures.length === 0 ? 'pass' : `FAIL: ${failures.map((failure) => CRITERION_WORDS[failure.criterion]).join(', ')}`,
       breakpoint.weakest === null ? '—' : parameterWords(breakpoint.weakest.parameter),
     ]);
   });
   return textTable(rows, [true, true, true, true, true, true, true, false, false]).map((line) => `  ${line}`);
 }
 
+/** The nominal margins a dense check found at each breakpoint speed (they are in its grid), as a schedule records them. */
+export function nominalAtBreakpoints(check: DenseCheckResult, breakpointSpeeds: readonly number[]): BreakpointMargins[] {
+  return breakpointSpeeds.map((speed_mps) => {
+    const point = check.points.find((candidate) => candidate.speed_mps === speed_mps);
+    if (point === undefined) throw new Error(`internal: breakpoint ${speed_mps} m/s missing from the check grid`);
+    return breakpointMargins(point.margins);
+  });
+}
+
 /** The whole report of a `variations` section; `nominal` holds the nominal margins at its breakpoints (same order). */
-export function formatVariations(variations: ScheduleVariations, nominal: readonly BreakpointMargins[], thresholds: AcceptanceThresholds): string {
+export function formatVariations(
+  variations: ScheduleVariations,
+  nominal: readonly BreakpointMargins[],
+  thresholds: AcceptanceThresholds,
+  title = 'Worst case over the variations',
+): string {
   const verdict = variations.passed ? 'PASSED' : `FAILED at ${variations.failedSpeeds} speeds${variations.unstableSpeeds > 0 ? ` (${variations.unstableSpeeds} with an unstable loop in the set)` : ''}`;
   const acceptance =
-    variations.acceptance === 'robust' ? 'robust acceptance: the schedule passes only if the worst case does' : 'nominal acceptance: reported beside the nominal check, not required';
+    variations.acceptance === 'robust' ? 'robust acceptance: a schedule passes only if its worst case does' : 'nominal acceptance: reported beside the nominal check, not required';
   const lines = [
-    `Worst case over the variations, ${variations.gridSize} speeds (${acceptance}): ${verdict}`,
+    `${title}, ${variations.gridSize} speeds (${acceptance}): ${verdict}`,
     ...formatSet(variations.set),
     `  search at each speed: ${cornerWords(variations.set.dimensions.length)}, ${variations.search.samples} seeded samples (seed ${variations.search.seed}), compass search from the worst points (at most ${variations.search.localSearchEvaluations} analyses); ${variations.loopAnalyses.toLocaleString('en-US')} loop analyses in all`,
     '',

@@ -42,7 +42,7 @@ export function formatRuleParameters(schedule: ScheduleFile): string[] {
 }
 
 /** The margins a criterion names, in the words of the table's header. */
-const CRITERION_WORDS: Readonly<Record<CheckCriterion, string>> = {
+export const CRITERION_WORDS: Readonly<Record<CheckCriterion, string>> = {
   stability: 'unstable',
   lowerGainMargin: 'lower GM',
   upperGainMargin: 'upper GM',

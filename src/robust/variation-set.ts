@@ -14,7 +14,7 @@ import type { OperatingPointModel } from '../tuning/operating-point.js';
 import type { CheckModelSummary } from '../build/check-model.js';
 import type { VariationDimension, VariationSet, VariedParameter } from './types.js';
 
-const shown = (value: number): string => String(Number(value.toPrecision(4)));
+const shown = (value: number): string => String(Number(value.toPrecision(4))).replace('-', '−');
 const percentWords = ([down, up]: ChangeRange): string => (down === -up ? `±${shown(up)} %` : `${shown(down)} % to +${shown(up)} %`);
 const factors = ([down, up]: ChangeRange): [number, number] => [1 + down / 100, 1 + up / 100];
 

@@ -60,8 +60,9 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const outcome = written ? writeSchedule(out, schedule, args.force === true) : null;
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force === true);
 
-  const baselineCheck = baseline === undefined ? undefined : (await import('../../build/baseline.js')).checkBaseline(baseline, result);
+  const baselineCheck = baseline === undefined ? undefined : await (await import('../../build/baseline.js')).checkBaseline(baseline, result);
   const baselineResult = baselineCheck?.check;
+  const baselineOverSet = baselineCheck?.overVariations?.record;
 
   // Exit 1 has two causes; both outputs say which.
   const robustFailed = schedule.check.passed && !passed;
@@ -74,6 +75,11 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     ...(baselineResult === undefined || baselineResult.passed
       ? []
       : [`the OLD gains of the baseline ${String(args.baseline)} fail on the new vehicle model at ${baselineResult.failedCount} of ${baselineResult.points.length} speeds${passed ? ' (the new schedule passed and was written)' : ''}`]),
+    ...(baselineOverSet === undefined || baselineOverSet.acceptance === 'nominal' || baselineOverSet.passed || (baselineResult !== undefined && !baselineResult.passed)
+      ? []
+      : [
+          `the OLD gains of the baseline ${String(args.baseline)} pass on the new nominal model but fail in the worst case over the new vehicle's variations at ${baselineOverSet.failedSpeeds} of ${baselineOverSet.gridSize} speeds (robust acceptance)`,
+        ]),
   ];
   const exitCode = exitReasons.length === 0 ? EXIT.ok : EXIT.failed;
   if (args.json === true) {
@@ -108,6 +114,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
                   gridSize: baselineResult.points.length,
                   worst: baselineResult.worst,
                   failures: failingSpeeds(baselineResult.points),
+                  overVariations: baselineOverSet ?? null,
                   atNewBreakpoints: baselineCheck?.rows ?? [],
                 },
           exitCode,
@@ -132,6 +139,12 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       const { formatBaseline } = await import('../../build/schedule-report.js');
       const verdict = baselineCheck.check.passed ? 'still within the limits at every speed' : 'NOT within the limits everywhere';
       text += `\n${formatBaseline(`Baseline ${String(args.baseline)}: its gains on the new vehicle model — ${verdict}`, baselineCheck, baseline, result.checkModel.kind)}`;
+      if (baselineOverSet !== undefined) {
+        const { formatVariations } = await import('../../build/robust-report.js');
+        const { breakpointMargins } = await import('../../schedule/schedule-file.js');
+        const title = `Baseline ${String(args.baseline)}: its gains in the worst case over the new vehicle's variations`;
+        text += `\n${formatVariations(baselineOverSet, baselineCheck.rows.map((row) => breakpointMargins(row.oldMargins)), baseline.check.thresholds, title)}`;
+      }
     }
     text += '\n';
     if (written) {
@@ -164,7 +177,11 @@ export const command: CommandModule = {
       })
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
-      .option('baseline', { type: 'string', describe: 'A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?)' })
+      .option('baseline', {
+        type: 'string',
+        describe:
+          "A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?) — and, when the plan gives variations, over the new vehicle's whole set",
+      })
       .option('allow-other-vehicle', {
         type: 'boolean',
         default: false,
@@ -175,7 +192,10 @@ export const command: CommandModule = {
       .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON (breakpoints, margins, derivations, check, baseline)' }),
   exitCodes: [
     [0, 'the schedule passed its dense check and was written (with --baseline: and the old gains still pass on the new vehicle model)'],
-    [1, 'the schedule failed its dense check (written only with --allow-failing, marked failed), or with --baseline the OLD gains fail on the new vehicle model (the new schedule, when it passed, was written) — the output says which'],
+    [
+      1,
+      "the schedule failed its dense check or, under the plan's robust acceptance, the worst case over its variations (written only with --allow-failing, marked failed); or with --baseline the OLD gains fail on the new vehicle model or over its variations (the new schedule, when it passed, was written) — the output says which",
+    ],
     [2, 'bad input: logs, vehicle, plan, models, baseline or options (nothing written)'],
   ],
   examples: [

@@ -3,9 +3,9 @@ import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { checkModelFromArgs } from '../check-model-args.js';
 import { withLogColumnOptions } from '../log-columns.js';
-import type { BreakpointMargins, ScheduleFile } from '../../schedule/schedule-types.js';
+import type { ScheduleFile } from '../../schedule/schedule-types.js';
+import type { ScheduleVariations } from '../../schedule/schedule-variations.js';
 import type { DenseCheckResult } from '../../schedule/types.js';
-import type { LoopMargins } from '../../verify/types.js';
 
 /**
  * `speedband check`: re-verify a schedule independently of how it was made — schema and
@@ -17,7 +17,7 @@ import type { LoopMargins } from '../../verify/types.js';
 const MAX_GRID_SPEEDS = 100_000;
 
 async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
-  const { readSchedule, breakpointMargins } = await import('../../schedule/schedule-file.js');
+  const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { recheckScheduleOnAllCores } = await import('../../build/recheck-schedule.js');
   const { formatRecheck } = await import('../../build/schedule-report.js');
   const schedulePath = String(args.schedule);
@@ -65,19 +65,17 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           ? schedule.variations === undefined
             ? ''
             : '\nWorst case over the variations: not checked (--nominal-only)\n'
-          : `\n${(await import('../../build/robust-report.js')).formatVariations(robust.record, breakpointMarginsOn(result, schedule, breakpointMargins), schedule.check.thresholds)}`) +
+          : `\n${await robustText(robust.record, result, schedule)}`) +
         (schedule.variations === undefined ? '' : `\n${passed ? 'PASSED' : 'FAILED'} (${robust === null ? 'nominal check only' : `${schedule.variations.acceptance} acceptance`})\n`),
     );
   }
   return passed ? EXIT.ok : EXIT.failed;
 }
 
-/** The margins this check found at the schedule's breakpoints (they are in its grid), for the side-by-side table. */
-function breakpointMarginsOn(result: DenseCheckResult, schedule: ScheduleFile, breakpointMargins: (margins: LoopMargins) => BreakpointMargins): BreakpointMargins[] {
-  return schedule.breakpoints.map((row) => {
-    const point = result.points.find((candidate) => candidate.speed_mps === row.speed_mps);
-    return point === undefined ? row.margins : breakpointMargins(point.margins);
-  });
+/** The worst-case report beside this check's nominal margins at the breakpoints. */
+async function robustText(record: ScheduleVariations, result: DenseCheckResult, schedule: ScheduleFile): Promise<string> {
+  const { formatVariations, nominalAtBreakpoints } = await import('../../build/robust-report.js');
+  return formatVariations(record, nominalAtBreakpoints(result, schedule.breakpoints.map((row) => row.speed_mps)), schedule.check.thresholds);
 }
 
 export const command: CommandModule = {
