@@ -17,8 +17,8 @@ import { makeRobustAnalysis } from './robust-analysis.js';
 import { runOnAllCores } from './work-queue.js';
 
 export const PARALLEL_ROBUST_DEFAULTS = {
-  /** Grids smaller than this run on the main thread alone (a worker's start-up costs about as much as a few speeds). */
-  minimumSpeeds: 16,
+  /** Grids smaller than this run on the main thread alone (a worker's start-up, ≈ 0.1–0.3 s, costs as much as 5–15 speeds). */
+  minimumSpeeds: 32,
   /** Speeds per chunk of the shared queue (small: the threads finish together). */
   chunkSpeeds: 4,
 } as const;

@@ -64,7 +64,7 @@ export const VARIATION_DEFAULTS = {
 
 const range = (written: WrittenRange | undefined, fallback: number): ChangeRange => {
   const value = written ?? fallback;
-  return typeof value === 'number' ? [-value, value] : [value[0], value[1]];
+  return typeof value === 'number' ? [value === 0 ? 0 : -value, value] : [value[0], value[1]];
 };
 
 /** The section with every default applied; the added latency defaults to one sample of the controller. */
