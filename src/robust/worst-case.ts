@@ -23,11 +23,25 @@ export interface WorstCaseInput {
   readonly analyse: (values: readonly number[], scope: 'full' | 'figures') => LoopMargins;
 }
 
+/** What the search keeps of an analysed point: the verdict, the figures and the largest pole (not the analysis' details). */
+type Figures = Pick<LoopMargins, 'verdict' | RobustFigure> & { readonly largestPoleMagnitude: number | null };
+
 interface Evaluated {
   readonly point: readonly number[];
   readonly values: readonly number[];
-  readonly margins: LoopMargins;
+  readonly margins: Figures;
 }
+
+const figuresOf = (margins: LoopMargins): Figures => ({
+  verdict: margins.verdict,
+  phaseMargin_deg: margins.phaseMargin_deg,
+  upperGainMargin_dB: margins.upperGainMargin_dB,
+  lowerGainMargin_dB: margins.lowerGainMargin_dB,
+  delayMargin_s: margins.delayMargin_s,
+  sensitivityPeak: margins.sensitivityPeak,
+  complementarySensitivityPeak: margins.complementarySensitivityPeak,
+  largestPoleMagnitude: margins.analysis?.sampledDataLargestPoleMagnitude ?? null,
+});
 
 const nominalChange = (change: 'scale' | 'add'): number => (change === 'scale' ? 1 : 0);
 
@@ -46,7 +60,7 @@ export function combinationOf(set: VariationSet, values: readonly number[]): Com
   return Object.fromEntries(set.dimensions.map((dimension, i) => [dimension.parameter, values[i]]));
 }
 
-const largestPole = (margins: LoopMargins): number | null => margins.analysis?.sampledDataLargestPoleMagnitude ?? null;
+const largestPole = (margins: Figures): number | null => margins.largestPoleMagnitude;
 
 /** Worst figures of a set at one speed; see the module comment. `speed_mps` and `gains` are the caller's to add. */
 export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'speed_mps' | 'gains'> {
@@ -56,6 +70,7 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
   const worst = new Map<RobustFigure, { badness: number; entry: Evaluated }>();
   // Held in an object: the closures below update it.
   const found: { instability: Evaluated | null; evaluations: number } = { instability: null, evaluations: 0 };
+  let nominalMargins: LoopMargins | null = null;
 
   const note = (entry: Evaluated): void => {
     const { margins } = entry;
@@ -75,7 +90,9 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
     const known = cache.get(key);
     if (known !== undefined) return known;
     const values = exact ?? valuesAt(set, point);
-    const entry: Evaluated = { point, values, margins: input.analyse(values, exact === undefined ? 'figures' : 'full') };
+    const margins = input.analyse(values, exact === undefined ? 'figures' : 'full');
+    if (exact !== undefined) nominalMargins = margins;
+    const entry: Evaluated = { point, values, margins: figuresOf(margins) };
     found.evaluations += 1;
     cache.set(key, entry);
     note(entry);
@@ -106,12 +123,12 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
 
   const unstable = found.instability;
   // The points kept are analysed in full (the delay margin confirmed): their figures are the ones reported.
-  const confirmed = new Map<string, LoopMargins>([[pointKey(nominalPoint), nominal.margins]]);
-  const fullAt = (entry: Evaluated): LoopMargins => {
+  const confirmed = new Map<string, Figures>([[pointKey(nominalPoint), nominal.margins]]);
+  const fullAt = (entry: Evaluated): Figures => {
     const key = pointKey(entry.point);
     let margins = confirmed.get(key);
     if (margins === undefined) {
-      margins = input.analyse(entry.values, 'full');
+      margins = figuresOf(input.analyse(entry.values, 'full'));
       found.evaluations += 1;
       confirmed.set(key, margins);
     }
@@ -130,7 +147,7 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
       ? null
       : { verdict: unstable.margins.verdict === 'marginal' ? 'marginal' : 'unstable', combination: combinationOf(set, unstable.values), largestPoleMagnitude: largestPole(unstable.margins) };
   return {
-    nominal: breakpointMargins(nominal.margins),
+    nominal: breakpointMargins(nominalMargins!),
     instability: instabilityRecord,
     worst: Object.fromEntries(ROBUST_FIGURES.map((definition) => [definition.name, result(definition)])) as Record<RobustFigure, WorstFigure | null>,
     evaluations: found.evaluations,

@@ -85,13 +85,16 @@ describe('properties of the worst case (fast-check, real van loops)', () => {
           for (const definition of ROBUST_FIGURES) {
             const nominal = result.nominal[definition.name];
             const worst = result.worst[definition.name]?.value ?? null;
-            expect(badness(worst, definition)).toBeGreaterThanOrEqual(badness(nominal, definition));
+            expect(badness(worst, definition), definition.name).toBeGreaterThanOrEqual(badness(nominal, definition));
           }
         }
         if (full.instability !== null) return;
         expect(small.instability).toBeNull();
+        // To rounding: a box a few 1e−12 wide moves the figures by the analysis' own rounding (1e−14 relative).
+        const rounding = (value: number): number => (Number.isFinite(value) ? 1e-9 * Math.abs(value) : 0);
         for (const definition of ROBUST_FIGURES) {
-          expect(badness(small.worst[definition.name]?.value ?? null, definition), definition.name).toBeLessThanOrEqual(badness(full.worst[definition.name]?.value ?? null, definition));
+          const bound = badness(full.worst[definition.name]?.value ?? null, definition);
+          expect(badness(small.worst[definition.name]?.value ?? null, definition), definition.name).toBeLessThanOrEqual(bound + rounding(bound));
         }
       }),
       { numRuns: 30, seed: 16 },
