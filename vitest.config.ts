@@ -5,5 +5,8 @@ export default defineConfig({
     include: ['test/**/*.test.ts'],
     testTimeout: 60_000,
     hookTimeout: 120_000,
+    // Test files share their workers' module cache: the stages are pure functions over plain data, and loading
+    // the modules once per worker instead of once per file saves about a third of the suite's time on 2 cores.
+    isolate: false,
   },
 });

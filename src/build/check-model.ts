@@ -1,6 +1,6 @@
 /**
  * The vehicle model the schedule is tuned and checked on, at any speed of the range:
- * the joint single-track fit (valid between and beyond the test speeds, DOMAIN.md §3), or —
+ * the joint single-track fit (valid between and beyond the test speeds, docs/domain.md §3), or —
  * when that fit was refused or the plan asks for it — the per-speed FOPDT models interpolated
  * linearly in speed between the test speeds and held at the end values beyond them.
  * The summary written into a schedule's provenance holds every number needed to rebuild it.

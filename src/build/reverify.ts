@@ -9,7 +9,7 @@
  * status is kept: only what the check proves. A schedule that records variations has their worst case
  * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
-import { SAFETY_CAUTIONS } from '../cli/safety.js';
+import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
 import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
 import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';

@@ -10,7 +10,7 @@ import type { AcceptanceThresholds, CheckCriterion, DenseCheckResult, WorstMargi
 import { judgeMargins } from '../schedule/dense-check.js';
 import { modelWords } from '../schedule/schedule-text.js';
 import type { LoopMargins } from '../verify/types.js';
-import { SAFETY_CAUTIONS } from '../cli/safety.js';
+import { SAFETY_CAUTIONS } from '../core/safety.js';
 
 /** One line per worst figure: value, unit and the speed where it occurs. */
 export function formatWorstMargins(worst: WorstMargins): string[] {

@@ -5,7 +5,7 @@ import { safeMessageText } from '../core/quote.js';
 import type { CommandModule } from './command.js';
 import { COMMANDS } from './commands/index.js';
 import { EXIT, processIo, type CommandIo } from './io.js';
-import { SAFETY_EPILOGUE } from './safety.js';
+import { SAFETY_EPILOGUE } from '../core/safety.js';
 import { VERSION } from '../version.js';
 
 export interface RunOptions {

@@ -1,5 +1,5 @@
 /** The comparison as Markdown for a change review: title, summary, per-speed table, worst margins, model drift, settings and a flag list. */
-import { SAFETY_EPILOGUE } from '../cli/safety.js';
+import { SAFETY_EPILOGUE } from '../core/safety.js';
 import { shownSpeed } from './format.js';
 import {
   DRIFT_HEADER,

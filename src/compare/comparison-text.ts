@@ -1,5 +1,5 @@
 /** The comparison as terminal text: header, per-speed table, worst margins, model drift, settings, flags, summary line. */
-import { SAFETY_EPILOGUE } from '../cli/safety.js';
+import { SAFETY_EPILOGUE } from '../core/safety.js';
 import { alignedTable, shownSpeed } from './format.js';
 import {
   controllerLines,

@@ -2,7 +2,7 @@
  * One sample of the firmware's discrete PID (the equation of discrete.ts), for
  * closed-loop simulations with gains that change from sample to sample (a speed
  * schedule). The integral stores Σ w·(ki·e), so a change of ki moves no stored
- * state: bumpless (DOMAIN.md §7).
+ * state: bumpless (docs/domain.md §7).
  */
 import { derivativeFilterTime_s } from './pid.js';
 import type { ControllerSettings, PidGains } from './types.js';

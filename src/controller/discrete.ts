@@ -1,5 +1,5 @@
 /**
- * The discrete PID the firmware runs every sample time T (DOMAIN.md §7), with the
+ * The discrete PID the firmware runs every sample time T (docs/domain.md §7), with the
  * derivative on the error, filtered, and the integral accumulating ki·e (not ki·∫e),
  * so a gain change between samples moves no stored state and causes no output jump:
  *
@@ -157,7 +157,7 @@ export function discretePidFrequencyResponse(gains: PidGains, settings: Controll
 /**
  * Delay (s) that the sampled implementation adds to the loop: the zero-order hold
  * behaves like a delay of T/2 at frequencies well below π/T (Franklin, Powell &
- * Workman §6.2; DOMAIN.md §5), plus the computation latency from sample to command.
+ * Workman §6.2; docs/domain.md §5), plus the computation latency from sample to command.
  */
 export function samplingDelay_s(settings: ControllerSettings): number {
   validateSettings(settings);

@@ -1,5 +1,5 @@
 /**
- * Conversions between the three ways of writing a PID (DOMAIN.md §4; Åström &
+ * Conversions between the three ways of writing a PID (docs/domain.md §4; Åström &
  * Hägglund, Advanced PID Control, 2006, §3.2):
  *   parallel  kp + ki/s + kd·s
  *   ideal     Kc·(1 + 1/(Ti·s) + Td·s)            kp = Kc, ki = Kc/Ti, kd = Kc·Td
@@ -7,7 +7,7 @@
  *             → ideal: Kc' = Kc·(1 + τD/τI), Ti = τI + τD, Td = τI·τD/(τI + τD).
  * The series form exists only when the PID zeros are real, Ti ≥ 4·Td.
  * No integral action is written ki = 0 / integralTime_s = null (Ti = ∞).
- * Negative gains (a negative plant gain, DOMAIN.md §5b) are carried through: all of
+ * Negative gains (a negative plant gain, docs/domain.md §5b) are carried through: all of
  * kp, ki, kd share one sign and the times stay positive.
  */
 import { SpeedbandError } from '../core/errors.js';
@@ -47,7 +47,7 @@ export function idealToParallel(ideal: IdealPid): PidGains {
 
 /**
  * Series (Kc, τI, τD) → ideal: Kc' = Kc·(1 + τD/τI), Ti = τI + τD, Td = τI·τD/(τI + τD)
- * (DOMAIN.md §4; Åström & Hägglund 2006, eq. 3.9). Without integral action (τI null)
+ * (docs/domain.md §4; Åström & Hägglund 2006, eq. 3.9). Without integral action (τI null)
  * the series form is Kc·(1 + τD·s): Kc' = Kc, Td = τD.
  */
 export function seriesToIdeal(series: SeriesPid): IdealPid {

@@ -1,6 +1,6 @@
 /**
  * The continuous PID the loop analysis uses: parallel form with a first-order
- * filtered derivative (DOMAIN.md §4, §5b; Åström & Hägglund 2006, §3.3):
+ * filtered derivative (docs/domain.md §4, §5b; Åström & Hägglund 2006, §3.3):
  *   C(s) = kp + ki/s + kd·s/(1 + Tf·s),   Tf = Td/N,  Td = kd/kp.
  */
 import { SpeedbandError } from '../core/errors.js';
@@ -10,7 +10,7 @@ import type { PidGains } from './types.js';
 
 /**
  * Derivative filter time constant Tf (s) = Td/N with Td = kd/kp (from Td, not from
- * kd: DOMAIN.md §5b). N = Infinity or kd = 0 gives Tf = 0 (no filter).
+ * kd: docs/domain.md §5b). N = Infinity or kd = 0 gives Tf = 0 (no filter).
  * Fallback when kp = 0 (an I+D controller has no Td): Tf = √(kd/ki)/N, the time
  * scale of its zeros s = ±j·√(ki/kd). A pure derivative (kp = ki = 0) has no time
  * scale: throws `controller.derivativeFilterUndefined`. N must be > 0
@@ -53,7 +53,7 @@ export function derivativeFilterTime_s(gains: PidGains, derivativeFilter: number
  *   numerator (kp·Tf + kd)·s² + (kp + ki·Tf)·s + ki,  denominator Tf·s² + s.
  * Without integral action (ki = 0) the factor s is left out: (kp·Tf + kd)·s + kp over
  * Tf·s + 1, so no spurious pole at 0 appears. N = Infinity gives the unfiltered
- * (improper when kd ≠ 0) kd·s² + kp·s + ki over s — DOMAIN.md §5b: analyse the
+ * (improper when kd ≠ 0) kd·s² + kp·s + ki over s — docs/domain.md §5b: analyse the
  * filtered derivative the firmware really runs.
  */
 export function pidTransferFunction(gains: PidGains, derivativeFilter: number): TransferFunction {

@@ -9,7 +9,7 @@ export interface PidGains {
   readonly kd: number;
 }
 
-/** The three common ways of writing a PID (DOMAIN.md §4). */
+/** The three common ways of writing a PID (docs/domain.md §4). */
 export type PidForm = 'parallel' | 'ideal' | 'series';
 
 /** Discretisation the firmware uses for integral and derivative filter. */

@@ -17,7 +17,7 @@ import { numericalJacobian, parameterUncertainty } from './uncertainty.js';
  * Each step is simulated exactly (command held between samples) through
  *   e^(−θa s)/(τa s + 1) · (b1 s + b0)/(s² + a1 s + a0)
  * with the single-track coefficients at the step's speed (vehicle/single-track.ts;
- * DOMAIN.md §3; Gillespie 1992, Rajamani 2012). Positivity by reparametrisation: the
+ * docs/domain.md §3; Gillespie 1992, Rajamani 2012). Positivity by reparametrisation: the
  * fitted parameters are ln Cf, ln Cr, τa, θa. The per-step offsets are solved exactly
  * (the mean residual of each step: variable projection), so the fitter sees 4 parameters.
  * Intervals: from the Jacobian (uncertainty.ts), exponentiated for Cf and Cr, and by the
@@ -70,7 +70,7 @@ function startParameters(vehicle: Vehicle, speeds: readonly SpeedModel[], actuat
   let cf = vehicle.frontCorneringStiffness_NPerRad;
   let cr = vehicle.rearCorneringStiffness_NPerRad;
   if (cf === undefined || cr === undefined) {
-    // Understeer gradient from the steady gains: 1/G = L/v + K·v (DOMAIN.md §3), averaged over speeds.
+    // Understeer gradient from the steady gains: 1/G = L/v + K·v (docs/domain.md §3), averaged over speeds.
     const k = speeds.reduce((sum, s) => sum + (s.speed_mps / s.model.gain - L) / (s.speed_mps * s.speed_mps), 0) / speeds.length;
     cr = START_STIFFNESS_PER_LOAD * vehicle.mass_kg * GRAVITY_MPS2 * (a / L);
     const inverseCf = (k * L) / vehicle.mass_kg / b + a / (b * cr);

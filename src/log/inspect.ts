@@ -9,7 +9,7 @@ import { findStepTests, type SegmentOptions } from './segment.js';
 import type { LogSplit, RejectedStep, SteerLog, StepMetrics, StepTest } from './types.js';
 
 export const INSPECT_DEFAULTS = {
-  /** Steady lateral acceleration above which a step leaves the linear tyre range, m/s² (common practice, DOMAIN.md §6). */
+  /** Steady lateral acceleration above which a step leaves the linear tyre range, m/s² (common practice, docs/domain.md §6). */
   linearRangeLateralAcceleration_mps2: 4,
 } as const;
 

@@ -1,6 +1,6 @@
 import type { TransferFunction } from '../lti/types.js';
 
-/** The loop the firmware closes (DOMAIN.md §3 "Loops a firmware may close"). */
+/** The loop the firmware closes (docs/domain.md §3 "Loops a firmware may close"). */
 export type LoopKind = 'yaw-rate' | 'heading' | 'path';
 
 /** Where a path loop's preview distance is measured from: the centre of gravity or the front axle. */

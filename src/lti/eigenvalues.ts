@@ -126,9 +126,8 @@ function reduceToHessenberg(a: Float64Array, n: number): void {
  * destroys `a`. Returns false when an eigenvalue took more than 30 sweeps.
  */
 function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64Array): boolean {
-  const at = (i: number, j: number): number => a[i * n + j];
   let anorm = 0;
-  for (let i = 0; i < n; i++) for (let j = Math.max(i - 1, 0); j < n; j++) anorm += Math.abs(at(i, j));
+  for (let i = 0; i < n; i++) for (let j = Math.max(i - 1, 0); j < n; j++) anorm += Math.abs(a[i * n + j]);
   let nn = n - 1;
   let t = 0;
   let p = 0;
@@ -144,21 +143,21 @@ function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64A
     let l: number;
     do {
       for (l = nn; l >= 1; l--) {
-        s = Math.abs(at(l - 1, l - 1)) + Math.abs(at(l, l));
+        s = Math.abs(a[(l - 1) * n + (l - 1)]) + Math.abs(a[l * n + l]);
         if (s === 0) s = anorm;
-        if (Math.abs(at(l, l - 1)) + s === s) {
+        if (Math.abs(a[l * n + (l - 1)]) + s === s) {
           a[l * n + l - 1] = 0;
           break;
         }
       }
-      x = at(nn, nn);
+      x = a[nn * n + nn];
       if (l === nn) {
         wr[nn] = x + t;
         wi[nn] = 0;
         nn--;
       } else {
-        y = at(nn - 1, nn - 1);
-        w = at(nn, nn - 1) * at(nn - 1, nn);
+        y = a[(nn - 1) * n + (nn - 1)];
+        w = a[nn * n + (nn - 1)] * a[(nn - 1) * n + nn];
         if (l === nn - 1) {
           p = 0.5 * (y - x);
           q = p * p + w;
@@ -183,26 +182,26 @@ function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64A
           if (its === 10 || its === 20) {
             t += x;
             for (let i = 0; i <= nn; i++) a[i * n + i] -= x;
-            s = Math.abs(at(nn, nn - 1)) + Math.abs(at(nn - 1, nn - 2));
+            s = Math.abs(a[nn * n + (nn - 1)]) + Math.abs(a[(nn - 1) * n + (nn - 2)]);
             y = x = 0.75 * s;
             w = -0.4375 * s * s;
           }
           its++;
           let m: number;
           for (m = nn - 2; m >= l; m--) {
-            z = at(m, m);
+            z = a[m * n + m];
             r = x - z;
             s = y - z;
-            p = (r * s - w) / at(m + 1, m) + at(m, m + 1);
-            q = at(m + 1, m + 1) - z - r - s;
-            r = at(m + 2, m + 1);
+            p = (r * s - w) / a[(m + 1) * n + m] + a[m * n + (m + 1)];
+            q = a[(m + 1) * n + (m + 1)] - z - r - s;
+            r = a[(m + 2) * n + (m + 1)];
             s = Math.abs(p) + Math.abs(q) + Math.abs(r);
             p /= s;
             q /= s;
             r /= s;
             if (m === l) break;
-            const u = Math.abs(at(m, m - 1)) * (Math.abs(q) + Math.abs(r));
-            const v = Math.abs(p) * (Math.abs(at(m - 1, m - 1)) + Math.abs(z) + Math.abs(at(m + 1, m + 1)));
+            const u = Math.abs(a[m * n + (m - 1)]) * (Math.abs(q) + Math.abs(r));
+            const v = Math.abs(p) * (Math.abs(a[(m - 1) * n + (m - 1)]) + Math.abs(z) + Math.abs(a[(m + 1) * n + (m + 1)]));
             if (u + v === v) break;
           }
           for (let i = m + 2; i <= nn; i++) {
@@ -211,9 +210,9 @@ function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64A
           }
           for (let k = m; k <= nn - 1; k++) {
             if (k !== m) {
-              p = at(k, k - 1);
-              q = at(k + 1, k - 1);
-              r = k !== nn - 1 ? at(k + 2, k - 1) : 0;
+              p = a[k * n + (k - 1)];
+              q = a[(k + 1) * n + (k - 1)];
+              r = k !== nn - 1 ? a[(k + 2) * n + (k - 1)] : 0;
               x = Math.abs(p) + Math.abs(q) + Math.abs(r);
               if (x !== 0) {
                 p /= x;
@@ -225,7 +224,7 @@ function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64A
             s = p >= 0 ? root : -root;
             if (s !== 0) {
               if (k === m) {
-                if (l !== m) a[k * n + k - 1] = -at(k, k - 1);
+                if (l !== m) a[k * n + k - 1] = -a[k * n + (k - 1)];
               } else a[k * n + k - 1] = -s * x;
               p += s;
               x = p / s;
@@ -234,9 +233,9 @@ function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64A
               q /= p;
               r /= p;
               for (let j = k; j <= nn; j++) {
-                p = at(k, j) + q * at(k + 1, j);
+                p = a[k * n + j] + q * a[(k + 1) * n + j];
                 if (k !== nn - 1) {
-                  p += r * at(k + 2, j);
+                  p += r * a[(k + 2) * n + j];
                   a[(k + 2) * n + j] -= p * z;
                 }
                 a[(k + 1) * n + j] -= p * y;
@@ -244,9 +243,9 @@ function hessenbergQr(a: Float64Array, n: number, wr: Float64Array, wi: Float64A
               }
               const last = nn < k + 3 ? nn : k + 3;
               for (let i = l; i <= last; i++) {
-                p = x * at(i, k) + y * at(i, k + 1);
+                p = x * a[i * n + k] + y * a[i * n + (k + 1)];
                 if (k !== nn - 1) {
-                  p += z * at(i, k + 2);
+                  p += z * a[i * n + (k + 2)];
                   a[i * n + k + 2] -= p * r;
                 }
                 a[i * n + k + 1] -= p * q;

@@ -1,6 +1,6 @@
 /**
  * Frequency responses on a grid, in typed arrays (hot loops on plain numbers:
- * generic complex-number objects are ~40× slower in sweeps, DOMAIN.md §5b).
+ * generic complex-number objects are ~40× slower in sweeps, docs/domain.md §5b).
  */
 import { SpeedbandError } from '../core/errors.js';
 import type { FrequencyResponse, TransferFunction } from './types.js';

@@ -71,7 +71,7 @@ export function padePhaseError_rad(order: number, normalisedFrequency: number): 
  * (1°) at every frequency up to maximumFrequency_radps (rad/s) for a delay of
  * delay_s (s). Rule: the error depends only on x = ω·θ and grows with x, so the
  * order is chosen from x_max = ω_max·θ, checked on a grid over [0, x_max]. A first
- * order approximant misplaces stability limits (DOMAIN.md §5b): for example it meets
+ * order approximant misplaces stability limits (docs/domain.md §5b): for example it meets
  * the bound only up to x ≈ 0.6, while order 6 holds to x ≈ 7.7 and order 12 to x ≈ 18 (found with this function).
  * Returns 0 for a zero delay. Throws `lti.padeOrderTooHigh` when even
  * PADE_DEFAULTS.maximumOrder is not enough — lower the band or use the exact delay.

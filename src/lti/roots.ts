@@ -3,7 +3,7 @@
  * uses) by the balanced Hessenberg QR iteration of ./eigenvalues.ts, then each root
  * polished by Newton's method on the original polynomial.
  * mathjs `polynomialRoot` stops at cubics and loses roots of badly scaled
- * polynomials (DOMAIN.md §5b); closed-loop polynomials here are degree 4–8.
+ * polynomials (docs/domain.md §5b); closed-loop polynomials here are degree 4–8.
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
 import { SpeedbandError } from '../core/errors.js';

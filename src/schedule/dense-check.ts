@@ -1,5 +1,5 @@
 /**
- * The dense ("frozen speed") check, DOMAIN.md §5: at each grid speed, the scheduled gains
+ * The dense ("frozen speed") check, docs/domain.md §5: at each grid speed, the scheduled gains
  * against the loop at that speed, judged on the stability verdict and every acceptance limit.
  * The loop analysis is a function argument, so the check runs on any model (single-track,
  * interpolated lumped models) and on constructed test loops.
@@ -18,7 +18,7 @@ import type {
   WorstValue,
 } from './types.js';
 
-/** Common-practice acceptance limits (DOMAIN.md §5): GM ≥ 6 dB both ways, PM ≥ 45°, Ms ≤ 2; delay margin set by the plan. */
+/** Common-practice acceptance limits (docs/domain.md §5): GM ≥ 6 dB both ways, PM ≥ 45°, Ms ≤ 2; delay margin set by the plan. */
 export const THRESHOLD_DEFAULTS: AcceptanceThresholds = {
   maximumLowerGainMargin_dB: -6,
   minimumUpperGainMargin_dB: 6,

@@ -1,5 +1,5 @@
 /**
- * The speeds of the dense ("frozen speed") check, DOMAIN.md §5: interpolation can break
+ * The speeds of the dense ("frozen speed") check, docs/domain.md §5: interpolation can break
  * margins that hold at every breakpoint, so the check runs between them too.
  */
 import { SpeedbandError } from '../core/errors.js';

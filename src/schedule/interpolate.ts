@@ -1,7 +1,7 @@
 /**
  * Gain lookup: build once from a table, evaluate many times (factory style).
  *
- * Choices, written down (DOMAIN.md §7):
+ * Choices, written down (docs/domain.md §7):
  * - Between breakpoints each gain (kp, ki, kd) is interpolated on its own, either linearly or
  *   by monotone piecewise cubic Hermite (Fritsch & Carlson 1980, see monotone-cubic.ts).
  * - At a breakpoint the table value is returned exactly.

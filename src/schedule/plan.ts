@@ -100,9 +100,9 @@ export type PartialPlan = {
 } & { readonly $schema?: string; readonly description?: string };
 
 /**
- * Defaults, in one place. Sources: acceptance limits common practice (DOMAIN.md §5: GM ≥ 6 dB both
- * ways, PM ≥ 45°, Ms ≤ 2); derivative filter N = 10 common practice (DOMAIN.md §4); backward Euler
- * because its derivative-filter pole stays in [0, 1) (DOMAIN.md §5b); SIMC with τc = θ (Skogestad 2003).
+ * Defaults, in one place. Sources: acceptance limits common practice (docs/domain.md §5: GM ≥ 6 dB both
+ * ways, PM ≥ 45°, Ms ≤ 2); derivative filter N = 10 common practice (docs/domain.md §4); backward Euler
+ * because its derivative-filter pole stays in [0, 1) (docs/domain.md §5b); SIMC with τc = θ (Skogestad 2003).
  * Our choices: speed range 1–20 m/s (the test speeds when there are any) with the floor at its bottom, 6 geometric breakpoints (gains change
  * fastest at low speed), 100 Hz firmware (or the vehicle file's sample time) with one sample of computation latency, 20 ms delay-margin
  * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
@@ -288,7 +288,7 @@ export function planBreakpoints(plan: Plan): number[] {
 
 /**
  * Acceptance thresholds of the dense check. Required delay margin, s:
- * computationLatency_s + sampleTime_s/2 (zero-order hold, DOMAIN.md §5) + delayMarginRoom_s.
+ * computationLatency_s + sampleTime_s/2 (zero-order hold, docs/domain.md §5) + delayMarginRoom_s.
  */
 export function planThresholds(plan: Plan): AcceptanceThresholds {
   const { acceptance, controller } = plan;

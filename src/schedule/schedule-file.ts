@@ -3,7 +3,7 @@
  * it back (schema, table order, status and checksum verified, with typed errors naming the problem).
  */
 import { basename } from 'node:path';
-import { SAFETY_CAUTIONS } from '../cli/safety.js';
+import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
 import { validateScheduleFile } from '../core/precompiled-validators.js';

@@ -1,6 +1,6 @@
 /**
  * The schedule file (schedule.json) as TypeScript records; schedule-schema.ts is its JSON Schema.
- * What firmware needs (DOMAIN.md §7): breakpoints and gains, the exact controller equation,
+ * What firmware needs (docs/domain.md §7): breakpoints and gains, the exact controller equation,
  * interpolation and out-of-range behaviour, limits, units, proven margins, provenance, checksum.
  */
 import type { Discretisation } from '../controller/types.js';

@@ -18,7 +18,7 @@ export interface GainTable {
 /** What the lookup does between and outside breakpoints. */
 export interface LookupSettings {
   readonly interpolation: InterpolationMethod;
-  /** Below this speed the gains of this speed are used (gains grow like 1/vx², DOMAIN.md §7), m/s. */
+  /** Below this speed the gains of this speed are used (gains grow like 1/vx², docs/domain.md §7), m/s. */
   readonly lowSpeedFloor_mps: number;
 }
 
@@ -29,7 +29,7 @@ export interface SpeedRange {
 }
 
 /**
- * Acceptance limits of the dense check (common practice, DOMAIN.md §5; all configurable in the plan).
+ * Acceptance limits of the dense check (common practice, docs/domain.md §5; all configurable in the plan).
  * Gain margins in dB: the lower gain margin is negative (reducing the gain by that much destabilises).
  */
 export interface AcceptanceThresholds {

@@ -15,7 +15,7 @@ export const TUNING_DEFAULTS = {
   simcTauCPerDeadTime: 1,
   /** Damping-target ζ: critically damped, no overshoot of the path (common practice for lateral control). */
   dampingRatio: 1,
-  /** Damping-target ωn/p: the integral pole a factor 5 below ωn keeps the integral term gentle (DOMAIN.md §4). */
+  /** Damping-target ωn/p: the integral pole a factor 5 below ωn keeps the integral term gentle (docs/domain.md §4). */
   integralPoleRatio: 5,
   /**
    * Damping-target ωn when neither ωn nor a settling distance is given: ωn·θ_eff = this value,
@@ -32,7 +32,7 @@ export const TUNING_DEFAULTS = {
    * Damping-target on a path loop with a lead T0 (preview and sideslip): the delay-free design loop's
    * high-frequency gain |k''·kd·T0| must stay below this — at 1 the design loop no longer falls below
    * 1 at high frequency and the lag and delay the design neglects decide stability (the neutral-type
-   * argument of DOMAIN.md §5b). Over the demo fleet (2–25 m/s, previews 0–5 m, settling 5–80 m) every
+   * argument of docs/domain.md §5b). Over the demo fleet (2–25 m/s, previews 0–5 m, settling 5–80 m) every
    * design below 1 with ωn·θ_eff ≤ 0.2 came out stable on the full loop.
    */
   maximumPreviewHighFrequencyGain: 1,

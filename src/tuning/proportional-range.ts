@@ -17,7 +17,7 @@ const SCAN = { decades: 8, pointsPerDecade: 4 } as const;
 /**
  * The range of P-only gains u = kp·e that give a stable loop with the exact delay, or null when no
  * proportional gain stabilises it (a path loop with zero preview: a double integrator with lag and
- * delay, DOMAIN.md §3). Method: scan kp on a log grid around 1/|G(j·1)|, and from the first stable
+ * delay, docs/domain.md §3). Method: scan kp on a log grid around 1/|G(j·1)|, and from the first stable
  * gain read the range off its gain margins (a P loop stays stable while the gain changes by less
  * than its lower and upper gain margins, by the definition of the margins as the nearest gain
  * changes that change the encirclement count, src/verify). The sign follows the plant's

@@ -3,7 +3,7 @@ import type { PidGains } from '../controller/types.js';
 import type { RuleForm } from './types.js';
 
 /**
- * Parallel gains of a controller written in ideal or series form (DOMAIN.md §4, conversions in
+ * Parallel gains of a controller written in ideal or series form (docs/domain.md §4, conversions in
  * src/controller/pid-forms.ts): ideal kp = Kc, ki = Kc/Ti, kd = Kc·Td; series via ideal
  * Kc' = Kc(1 + τD/τI), Ti = τI + τD, Td = τI·τD/(τI + τD). Signs follow Kc.
  */

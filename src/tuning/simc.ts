@@ -31,7 +31,7 @@ function defaultControllerType(model: DesignModel): ControllerType {
  *   second order, PID: as FOPDT plus τD = τ2;
  *   integrating k'·e^(−θs)/s, PI: Kc = 1/(k'(τc + θ)), τI = 4(τc + θ) (PID with a lag τ2: τD = τ2);
  *   double integrating k''·e^(−θs)/s², PID: Kc = 1/(4k''(τc + θ)²), τI = τD = 4(τc + θ).
- * The parallel gains follow from series → ideal (DOMAIN.md §4). P-only is not a SIMC row.
+ * The parallel gains follow from series → ideal (docs/domain.md §4). P-only is not a SIMC row.
  */
 export function simc(model: DesignModel, parameters: RuleParameters): RuleResult {
   const controllerType = parameters.controllerType ?? defaultControllerType(model);

@@ -3,7 +3,7 @@ import type { PidGains } from '../controller/types.js';
 /**
  * Records passed between the tuning rules and their callers. Plain, readonly, JSON-able.
  * Sign convention: the plant gain keeps its sign (ISO 8855 axes); a negative plant gain
- * gives negative controller gains (DOMAIN.md §5b).
+ * gives negative controller gains (docs/domain.md §5b).
  */
 
 /** The plant classes tuning rules are written for (Skogestad 2003 uses the same split). */

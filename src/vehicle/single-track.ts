@@ -1,5 +1,5 @@
 /**
- * The linear single-track ("bicycle") model with linear tyres (DOMAIN.md §3;
+ * The linear single-track ("bicycle") model with linear tyres (docs/domain.md §3;
  * Gillespie 1992, Rajamani 2012 ch. 2), as state equations and as transfer
  * functions from road-wheel angle δ (rad) to yaw rate r (rad/s) and lateral
  * velocity vy (m/s) at the centre of gravity.
@@ -97,7 +97,7 @@ export function singleTrackStateSpace(params: SingleTrackParameters, speed_mps: 
 /**
  * Transfer functions δ (rad) → r (rad/s) and δ → vy (m/s) at speed vx, without
  * actuator dynamics (delay_s = 0), coefficients highest power first.
- * Denominator s² + a1 s + a0 with (DOMAIN.md §3; Gillespie 1992, Rajamani 2012)
+ * Denominator s² + a1 s + a0 with (docs/domain.md §3; Gillespie 1992, Rajamani 2012)
  *   a1 = (Cf+Cr)/(m vx) + (a²Cf + b²Cr)/(Iz vx),  a0 = Cf Cr L²/(m Iz vx²) + (b Cr − a Cf)/Iz;
  * yaw rate numerator b1 = a Cf/Iz, b0 = Cf Cr L/(m Iz vx);
  * lateral velocity numerator (from (sI − A)⁻¹B of the same state equations)

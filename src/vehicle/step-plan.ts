@@ -1,6 +1,6 @@
 /**
  * The steering command of an open-loop step-steer test at one constant speed
- * (DOMAIN.md §6): a held zero, then left and right steps at a large and a small
+ * (docs/domain.md §6): a held zero, then left and right steps at a large and a small
  * amplitude, each a fast ramp to the amplitude, a hold, a ramp back to zero and a
  * hold at zero. Amplitudes are chosen per speed to stay in the linear tyre range.
  */
@@ -12,7 +12,7 @@ import type { SingleTrackParameters } from './types.js';
 export const STEP_PLAN_DEFAULTS = {
   /** Held zero before the first step, s. */
   preHold_s: 2,
-  /** Shortest command ramp from one level to the next, s (a fast ramp, DOMAIN.md §6). */
+  /** Shortest command ramp from one level to the next, s (a fast ramp, docs/domain.md §6). */
   ramp_s: 0.15,
   /** Longest command ramp, s; kept under what step detection accepts as a step. */
   maxRamp_s: 0.4,

@@ -25,7 +25,7 @@ export interface Vehicle {
   readonly rearCorneringStiffness_NPerRad?: number;
 }
 
-/** The physical parameters of the linear single-track model (DOMAIN.md §3). */
+/** The physical parameters of the linear single-track model (docs/domain.md §3). */
 export interface SingleTrackParameters {
   readonly mass_kg: number;
   readonly yawInertia_kgm2: number;

@@ -21,7 +21,7 @@ import { checkCoefficients } from './validate-loop.js';
  * - ideal:    C = Kc·(1 + 1/(Ti·s) + Td·s/(1 + Tf·s)), read as kp = Kc, ki = Ti (s), kd = Td (s)
  * - series:   C = Kc·(1 + 1/(τI·s))·(1 + τD·s), read as kp = Kc, ki = τI (s), kd = τD (s),
  *             converted to ideal by Kc' = Kc(1 + τD/τI), Ti = τI + τD, Td = τIτD/(τI + τD)
- *             (DOMAIN.md §4) and then filtered like the others.
+ *             (docs/domain.md §4) and then filtered like the others.
  * For ideal and series forms the times are better given by name: `integralTime_s` (Ti or τI,
  * s; null or Infinity = no integral action) and `derivativeTime_s` (Td or τD, s). When
  * given they are used and `ki`/`kd` are ignored; `ki`/`kd` read as times remain accepted

@@ -1,7 +1,7 @@
 /**
  * Stability from the closed-loop poles: roots of D(s)·Dp(s) + N(s)·Np(s), the delay
  * replaced by a Padé approximant Np/Dp whose order is chosen by `padeOrderFor` from
- * ω·θ over the band where the loop gain matters (DOMAIN.md §5b: a first-order Padé
+ * ω·θ over the band where the loop gain matters (docs/domain.md §5b: a first-order Padé
  * puts the limit of k·e^(−θs)/s at kθ = 2 instead of π/2). The approximant is
  * all-pass, so |L| is exact on the axis and only frequencies where |L| is near 1 can
  * move a closed-loop pole across it: the band is where |L| ≥ a threshold.

@@ -2,7 +2,7 @@
  * The open-loop frequency response L(jω) compiled once for fast evaluation at many
  * frequencies: value by Horner's rule (accurate) and a *continuous* phase, so that
  * crossings of −180°·(2k + 1) are found without ever unwrapping a wrapped angle
- * (DOMAIN.md §5b, "delay on a coarse grid").
+ * (docs/domain.md §5b, "delay on a coarse grid").
  *
  * Continuous phase: arg L(jω) = arg(b0/a0) + Σ arg(jω − zᵢ) − Σ arg(jω − pᵢ) − ωθ
  *   (+ the discrete controller's Σ arg(e^(jωTs) − z) − Σ arg(e^(jωTs) − p) − ωTs/2).

@@ -6,7 +6,7 @@
  * negative feedback, e[k] = −y[k]:
  *
  *   x[k+1] = Φ·x[k] + Γ0·u[k−ℓ] + Γ1·u[k−ℓ−1]          plant (n states)
- *   wᵢ[k]  = u[k−i],  i = 1 … ℓ+1                        register (ℓ+1 states)
+ *   wᵢ[k]  = u[k−i],  i = 1 … ℓ+1                        register (ℓ+1 states; ℓ when u[k−ℓ−1] is unused)
  *   u[k]   = ξ₁[k] + b₀·e[k]
  *   ξᵢ[k+1] = ξᵢ₊₁[k] − aᵢ·ξ₁[k] + (bᵢ − aᵢ·b₀)·e[k]      controller (q states), C(z) = Σbᵢz⁻ⁱ / Σaᵢz⁻ⁱ
  *   e[k]   = −(C·x[k] + D·w_(ℓ+1)[k])
@@ -23,9 +23,18 @@ export interface SampledClosedLoopMatrix {
   readonly size: number;
 }
 
+/**
+ * Length of the delay register: ℓ + 1 past outputs, or ℓ when the oldest one reaches neither the plant (Γ1 = 0: a
+ * whole number of samples of delay) nor the measurement (D = 0) — it would only add an eigenvalue at 0.
+ */
+function registerLengthOf(plant: SampledPlant): number {
+  const oldestUsed = plant.feedthrough !== 0 || plant.inputGainPrevious.some((value) => value !== 0);
+  return plant.wholeSampleDelay + (oldestUsed ? 1 : 0);
+}
+
 /** Order of the closed-loop state (plant + delay register + controller) without building it. */
 export function sampledClosedLoopOrder(plant: SampledPlant, controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] }): number {
-  return plant.inputGainCurrent.length + plant.wholeSampleDelay + 1 + Math.max(controller.denominator.length, controller.numerator.length) - 1;
+  return plant.inputGainCurrent.length + registerLengthOf(plant) + Math.max(controller.denominator.length, controller.numerator.length) - 1;
 }
 
 /**
@@ -36,7 +45,8 @@ export function sampledClosedLoopMatrix(plant: SampledPlant, controller: { reado
   const { b, a } = controllerInDelays(controller);
   const n = plant.inputGainCurrent.length;
   const ell = plant.wholeSampleDelay;
-  const registerLength = ell + 1;
+  const registerLength = registerLengthOf(plant);
+  const oldestUsed = registerLength > ell;
   const q = a.length - 1;
   const size = n + registerLength + q;
   const register = n; // w₁ at index n, wᵢ at n + i − 1
@@ -45,7 +55,7 @@ export function sampledClosedLoopMatrix(plant: SampledPlant, controller: { reado
   // e = −(C·x + D·w_(ℓ+1)) and u = ξ₁ + b₀·e as rows over the state.
   const errorRow = new Float64Array(size);
   for (let j = 0; j < n; j++) errorRow[j] = -plant.outputVector[j];
-  errorRow[register + ell] -= plant.feedthrough;
+  if (oldestUsed) errorRow[register + ell] -= plant.feedthrough;
   const outputRow = new Float64Array(size);
   for (let j = 0; j < size; j++) outputRow[j] = b[0] * errorRow[j];
   if (q > 0) outputRow[control] += 1;
@@ -58,9 +68,9 @@ export function sampledClosedLoopMatrix(plant: SampledPlant, controller: { reado
     for (let j = 0; j < n; j++) matrix[i * size + j] = plant.transition[i][j];
     if (ell === 0) addRow(i, outputRow, plant.inputGainCurrent[i]);
     else matrix[i * size + register + ell - 1] += plant.inputGainCurrent[i];
-    matrix[i * size + register + ell] += plant.inputGainPrevious[i];
+    if (oldestUsed) matrix[i * size + register + ell] += plant.inputGainPrevious[i];
   }
-  addRow(register, outputRow, 1);
+  if (registerLength > 0) addRow(register, outputRow, 1);
   for (let i = 1; i < registerLength; i++) matrix[(register + i) * size + register + i - 1] = 1;
   for (let i = 0; i < q; i++) {
     const row = control + i;

@@ -71,7 +71,7 @@ export function sampledPlant(plant: { readonly numerator: readonly number[]; rea
   return {
     transition: early === null ? late.transition : multiplyMatrices(late.transition, early.transition),
     inputGainCurrent: late.inputGain,
-    inputGainPrevious: early === null ? new Array<number>(n).fill(0) : late.transition.map((row) => row.reduce((sum, value, j) => sum + value * early.inputGain[j], 0)),
+    inputGainPrevious: early === null ? new Array<number>(n).fill(0) : multiplyMatrices(late.transition, early.inputGain.map((value) => [value])).map((row) => row[0]),
     outputVector: model.outputVector,
     feedthrough: model.feedthrough,
     wholeSampleDelay: wholeSamples,
@@ -80,7 +80,22 @@ export function sampledPlant(plant: { readonly numerator: readonly number[]; rea
   };
 }
 
-/** Product of two square matrices (rows of numbers). */
+/** Product of two matrices (rows of numbers), left n×m times right m×p. */
 export function multiplyMatrices(left: readonly (readonly number[])[], right: readonly (readonly number[])[]): number[][] {
-  return left.map((row) => right[0].map((_, j) => row.reduce((sum, value, k) => sum + value * right[k][j], 0)));
+  const rows = left.length;
+  const inner = right.length;
+  const columns = right[0].length;
+  const product: number[][] = [];
+  for (let i = 0; i < rows; i++) {
+    const row = new Array<number>(columns).fill(0);
+    const leftRow = left[i];
+    for (let k = 0; k < inner; k++) {
+      const factor = leftRow[k];
+      if (factor === 0) continue;
+      const rightRow = right[k];
+      for (let j = 0; j < columns; j++) row[j] += factor * rightRow[j];
+    }
+    product.push(row);
+  }
+  return product;
 }

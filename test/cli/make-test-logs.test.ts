@@ -61,7 +61,7 @@ describe('speedband make-test-logs', () => {
   it('warns when given amplitudes leave the linear tyre range', async () => {
     const out = mkdtempSync(join(tmpdir(), 'speedband-cli-logs-'));
     const io = recordingIo();
-    // Source: common practice (DOMAIN.md §6) — lateral acceleration well under ~4 m/s² in step tests.
+    // Source: common practice (docs/domain.md §6) — lateral acceleration well under ~4 m/s² in step tests.
     expect(await runCli(['make-test-logs', '--vehicle', VEHICLE, '--speeds', '3', '--amplitudes-deg', '20,10', '--out', out], io)).toBe(0);
     expect(io.err()).toMatch(/warning: at 3 m\/s the large step gives about .* m\/s² steady lateral acceleration/);
   });

@@ -12,7 +12,7 @@ async function run(argv: string[]): Promise<{ code: number; out: string; err: st
 describe('speedband stability', () => {
   it('prints both gain margins of SIMC PID on a double integrator with delay and exits 0 (stable)', async () => {
     // Source: Skogestad 2003, SIMC double integrator at τc = θ = 1: Kc = 1/16, τI = τD = 8 (series);
-    // DOMAIN.md §4: upper GM ≈ 2.76 (8.82 dB), lower GM ≈ 0.165 (−15.65 dB), PM ≈ 33° (from memory).
+    // docs/domain.md §4: upper GM ≈ 2.76 (8.82 dB), lower GM ≈ 0.165 (−15.65 dB), PM ≈ 33° (from memory).
     const result = await run(['stability', '--numerator', '1', '--denominator', '1 0 0', '--delay-s', '1', '--kp', '0.0625', '--ki', '8', '--kd', '8', '--form', 'series', '--derivative-filter', 'none', '--continuous', '--json']);
     expect(result.code).toBe(0);
     const margins = JSON.parse(result.out) as LoopMargins;
@@ -41,7 +41,7 @@ describe('speedband stability', () => {
     const base = ['stability', '--gain', '2', '--time-constant-s', '0.5', '--dead-time-s', '0.1', '--kp', '1.25', '--ki', '2.5', '--json'];
     const continuous = JSON.parse((await run([...base, '--continuous'])).out) as LoopMargins;
     const sampled = JSON.parse((await run([...base, '--sample-time-s', '0.02', '--latency-s', '0.005'])).out) as LoopMargins;
-    // Source: common practice — a zero-order hold adds about Ts/2 of delay (DOMAIN.md §5); with the
+    // Source: common practice — a zero-order hold adds about Ts/2 of delay (docs/domain.md §5); with the
     // latency that is 15 ms more delay, about ω_c·0.015 rad less phase margin.
     const expectedLoss_deg = (continuous.phaseMarginFrequency_radps as number) * 0.015 * (180 / Math.PI);
     const loss = (continuous.phaseMargin_deg as number) - (sampled.phaseMargin_deg as number);
@@ -50,7 +50,7 @@ describe('speedband stability', () => {
   });
 
   it('a negative plant gain with negative controller gains prints the same margins (the = form passes a leading minus)', async () => {
-    // Source: common practice (DOMAIN.md §5b): L = C·G is unchanged when both signs flip.
+    // Source: common practice (docs/domain.md §5b): L = C·G is unchanged when both signs flip.
     const positive = await run(['stability', '--numerator', '2 1', '--denominator', '0.5 1 1', '--delay-s', '0.1', '--kp', '0.4', '--ki', '0.8']);
     const negative = await run(['stability', '--numerator=-2 -1', '--denominator', '0.5 1 1', '--delay-s', '0.1', '--kp', '-0.4', '--ki', '-0.8']);
     expect(negative.code).toBe(positive.code);

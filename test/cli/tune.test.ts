@@ -64,7 +64,7 @@ describe('speedband tune', () => {
     expect(code).toBe(0);
     // Front-axle preview: d = 2 m + a (parcel van a = 1.75 m).
     expect(out).toMatch(/3\.7500 m from the CG/);
-    // ωn = 4·v/(ζ·D) = 4·10/100 (DOMAIN.md §4).
+    // ωn = 4·v/(ζ·D) = 4·10/100 (docs/domain.md §4).
     expect(out).toMatch(/naturalFrequency_radps = 0\.40000/);
   });
 
@@ -126,7 +126,7 @@ describe('speedband tune --models (the model identified by speedband identify)',
     expect(json.model.kind).toBe('single-track');
     expect(json.model.description).toMatch(/joint single-track fit over \d+ steps/);
     expect(json.warnings.filter((w) => /outside the tested range|differs from the one/.test(w))).toEqual([]);
-    // Source: Gillespie 1992 / Rajamani 2012 (DOMAIN.md §3): r/δ = vx/(L + K·vx²), K = (m/L)(b/Cf − a/Cr);
+    // Source: Gillespie 1992 / Rajamani 2012 (docs/domain.md §3): r/δ = vx/(L + K·vx²), K = (m/L)(b/Cf − a/Cr);
     // parcel van m = 3400 kg, a = 1.75 m, b = 1.85 m, L = 3.6 m, with the fitted Cf, Cr (the actuator's steady gain is 1).
     const fit = joint.singleTrack!;
     const understeer = (3400 / 3.6) * (1.85 / fit.frontCorneringStiffness_NPerRad - 1.75 / fit.rearCorneringStiffness_NPerRad);

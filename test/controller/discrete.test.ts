@@ -79,7 +79,7 @@ print(json.dumps(out))
 
 describe('discretePidCoefficients(gains, settings)', () => {
   it('puts the derivative-filter pole at Tf/(Tf + T) (backward Euler) and (2Tf − T)/(2Tf + T) (Tustin)', () => {
-    // Source: DOMAIN.md §5b. kp = 2, kd = 0.4, N = 10 → Tf = 0.02 s; T = 0.01 s → 2/3 and 0.6.
+    // Source: docs/domain.md §5b. kp = 2, kd = 0.4, N = 10 → Tf = 0.02 s; T = 0.01 s → 2/3 and 0.6.
     expect(discretePidCoefficients(CASES[0].gains, CASES[0].settings).derivativeFilterPole).toBeCloseTo(2 / 3, 15);
     expect(discretePidCoefficients(CASES[1].gains, CASES[1].settings).derivativeFilterPole).toBeCloseTo(0.6, 15);
   });
@@ -144,7 +144,7 @@ describe('discretePidCoefficients(gains, settings)', () => {
 
 describe('discretePidStep', () => {
   it('is bumpless: changing ki at constant error moves the output only by the next integral increment', () => {
-    // Source: DOMAIN.md §7 — integrate ki·e, not ki·∫e.
+    // Source: docs/domain.md §7 — integrate ki·e, not ki·∫e.
     const settings = settingsFor('backward-euler');
     let state = initialDiscretePidState();
     let last = 0;

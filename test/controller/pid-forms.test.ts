@@ -25,7 +25,7 @@ function seriesAt(series: SeriesPid, w: number): { re: number; im: number } {
 
 describe('PID form conversions', () => {
   it('series Kc = 2, τI = 4 s, τD = 1 s is ideal Kc = 2.5, Ti = 5 s, Td = 0.8 s', () => {
-    // Source: series → ideal formula, DOMAIN.md §4 and Åström & Hägglund, Advanced PID Control (2006), §3.2:
+    // Source: series → ideal formula, docs/domain.md §4 and Åström & Hägglund, Advanced PID Control (2006), §3.2:
     // Kc' = Kc(1 + τD/τI) = 2·1.25, Ti = τI + τD = 5, Td = τI·τD/(τI + τD) = 4/5.
     const ideal = seriesToIdeal({ gain: 2, integralTime_s: 4, derivativeTime_s: 1 });
     expect(ideal.gain).toBeCloseTo(2.5, 15);
@@ -47,7 +47,7 @@ describe('PID form conversions', () => {
   });
 
   it('refuses Ti < 4·Td with controller.noSeriesForm, saying why', () => {
-    // Source: DOMAIN.md §5b (parallel → series exists only if Ti ≥ 4Td); kp = 1, ki = 0.5, kd = 1 → Ti = 2 s, Td = 1 s.
+    // Source: docs/domain.md §5b (parallel → series exists only if Ti ≥ 4Td); kp = 1, ki = 0.5, kd = 1 → Ti = 2 s, Td = 1 s.
     expect(codeOf(() => parallelToSeries({ kp: 1, ki: 0.5, kd: 1 }))).toBe('controller.noSeriesForm');
     expect(() => parallelToSeries({ kp: 1, ki: 0.5, kd: 1 })).toThrow(/complex/);
   });
@@ -61,7 +61,7 @@ describe('PID form conversions', () => {
   });
 
   it('carries a negative gain through every form with positive times', () => {
-    // Source: DOMAIN.md §5b — a negative plant gain must give negative controller gains.
+    // Source: docs/domain.md §5b — a negative plant gain must give negative controller gains.
     const series = parallelToSeries({ kp: -2.5, ki: -0.5, kd: -2 });
     expect(series.gain).toBeCloseTo(-2, 12);
     expect(series.integralTime_s).toBeCloseTo(4, 12);

@@ -7,7 +7,7 @@ import { runPythonSingleThread as runPython } from '../lti/python-single-thread.
 
 describe('derivativeFilterTime_s(gains, N)', () => {
   it('is Td/N with Td = kd/kp, not kd/N', () => {
-    // Source: DOMAIN.md §5b; Åström & Hägglund (2006) §3.3: Tf = Td/N. kp = 2, kd = 1 → Td = 0.5 s, N = 10 → 0.05 s.
+    // Source: docs/domain.md §5b; Åström & Hägglund (2006) §3.3: Tf = Td/N. kp = 2, kd = 1 → Td = 0.5 s, N = 10 → 0.05 s.
     expect(derivativeFilterTime_s({ kp: 2, ki: 1, kd: 1 }, 10)).toBeCloseTo(0.05, 15);
     expect(derivativeFilterTime_s({ kp: -2, ki: -1, kd: -1 }, 10)).toBeCloseTo(0.05, 15);
     expect(derivativeFilterTime_s({ kp: 2, ki: 1, kd: 1 }, Number.POSITIVE_INFINITY)).toBe(0);

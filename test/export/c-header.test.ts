@@ -122,7 +122,7 @@ describe('exportC(schedule)', () => {
           if (!close(fromC[i][name], expected[name], C_AGREEMENT)) throw new Error(`${name} at ${speed} m/s: C ${fromC[i][name]}, TypeScript ${expected[name]}`);
         }
       });
-      // Exact table values at breakpoints in C as well (DOMAIN.md §7).
+      // Exact table values at breakpoints in C as well (docs/domain.md §7).
       schedule.breakpoints.forEach((row, k) => expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual({ kp: row.kp, ki: row.ki, kd: row.kd }));
     });
   }

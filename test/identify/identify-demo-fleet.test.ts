@@ -32,7 +32,7 @@ describe('identifyFromLogs recovers the simulated vehicle on every demo vehicle 
       expect(Math.abs(fit!.rearCorneringStiffness_NPerRad / truth.rearCorneringStiffness_NPerRad! - 1)).toBeLessThan(STIFFNESS_RELATIVE);
       expect(Math.abs(fit!.actuatorDelay_s - truth.actuatorDelay_s!)).toBeLessThan(ACTUATOR_DELAY_S);
       expect(Math.abs(fit!.actuatorLag_s / truth.actuatorLag_s! - 1)).toBeLessThan(0.1);
-      // Understeer gradient K = (m/L)(b/Cf − a/Cr) with the nominal values (Gillespie 1992; DOMAIN.md §3): within 10 %.
+      // Understeer gradient K = (m/L)(b/Cf − a/Cr) with the nominal values (Gillespie 1992; docs/domain.md §3): within 10 %.
       const a = truth.cgToFrontAxle_m;
       const b = truth.cgToRearAxle_m;
       const nominal = (truth.mass_kg / (a + b)) * (b / truth.frontCorneringStiffness_NPerRad! - a / truth.rearCorneringStiffness_NPerRad!);

@@ -28,7 +28,7 @@ describe('findStepTests on every committed demo log', () => {
           expect(Math.abs(step.amplitude_rad - (plan.to_rad - plan.from_rad))).toBeLessThan(1e-4);
           expect(Math.abs(step.speed_mps - speed_mps)).toBeLessThan(0.05 * speed_mps);
           // Steady yaw gain of the linear single-track model, r/δ = vx/(L + K·vx²), K = (m/L)(b/Cf − a/Cr)
-          // (Gillespie 1992; DOMAIN.md §3), from the vehicle file's nominal stiffnesses the logs were simulated with.
+          // (Gillespie 1992; docs/domain.md §3), from the vehicle file's nominal stiffnesses the logs were simulated with.
           const { mass_kg: m, cgToFrontAxle_m: a, cgToRearAxle_m: b } = vehicle;
           const Cf = vehicle.frontCorneringStiffness_NPerRad ?? NaN;
           const Cr = vehicle.rearCorneringStiffness_NPerRad ?? NaN;

@@ -172,7 +172,7 @@ describe('firstCrossing(time, values, target, direction, from)', () => {
 
 describe('stepMetrics(window) on a single-track model response computed by scipy', () => {
   it('gain, response time, peak time and overshoot agree with the same definitions applied by numpy to scipy.signal.lsim', () => {
-    // Single-track δ → r (DOMAIN.md §3, Gillespie 1992 / Rajamani 2012) for an invented van at 25 m/s with a 0.08 s actuator lag,
+    // Single-track δ → r (docs/domain.md §3, Gillespie 1992 / Rajamani 2012) for an invented van at 25 m/s with a 0.08 s actuator lag,
     // driven by a 0.015 rad step ramped over 0.15 s from t = 2 s, sampled at 100 Hz (see SCIPY_INPUT).
     const reference = scipy().singleTrack;
     const time_s = Float64Array.from(reference.t);

@@ -42,7 +42,7 @@ describe('loop plants from the single-track model', () => {
       { kind: 'path', speed: 12, preview: 4, referencePoint: 'cg', distance: 4 },
       { kind: 'path', speed: 20, preview: 3, referencePoint: 'front-axle', distance: 3 + van.cgToFrontAxle_m },
     ] as const;
-    // Source: the single-track state equations (Rajamani 2012 §2.3; DOMAIN.md §3) written out here
+    // Source: the single-track state equations (Rajamani 2012 §2.3; docs/domain.md §3) written out here
     // independently, kinematics ėy = vy + vx·ψ, ψ̇ = r on a straight path, scipy.signal.ss2tf/freqs.
     const reference = runPython<Response[]>(
       `
@@ -88,13 +88,13 @@ print(json.dumps(out))
 
 describe('loop plants from a lumped FOPDT yaw-rate model', () => {
   const fopdt = { kind: 'fopdt', gain: 3, timeConstant_s: 0.25, deadTime_s: 0.12 } as const;
-  it('yaw-rate G_r, heading G_r/s, path G_r(vx + d·s)/s² with delay θ + Ts/2 + latency (DOMAIN.md §3)', () => {
+  it('yaw-rate G_r, heading G_r/s, path G_r(vx + d·s)/s² with delay θ + Ts/2 + latency (docs/domain.md §3)', () => {
     const speed = 9;
     const d = 2.5;
     for (const kind of LOOP_KINDS) {
       const loop = loopPlantFromLumped({ kind, preview_m: d }, fopdt, speed, controller);
       for (const w of frequencies) {
-        // Source: DOMAIN.md §3 formulas, complex arithmetic written out here.
+        // Source: docs/domain.md §3 formulas, complex arithmetic written out here.
         const s = { re: 0, im: w };
         const lagRe = 1;
         const lagIm = w * 0.25;

@@ -82,7 +82,7 @@ print(json.dumps(out))
 
 describe('replaceDelayWithPade and the stability limit it implies', () => {
   it('first order puts the limit of k·e^(−θs)/s at kθ = 2, high order near the exact π/2', () => {
-    // Source: DOMAIN.md §5b and the textbook result: k e^(−θs)/s under unity feedback is stable for kθ < π/2
+    // Source: docs/domain.md §5b and the textbook result: k e^(−θs)/s under unity feedback is stable for kθ < π/2
     // (phase −90° − ωθ reaches −180° at ω = π/(2θ), where |L| = k/ω = 1 gives k = π/(2θ)).
     // With order 1: closed loop θ/2 s² + (1 − kθ/2) s + k, stable for kθ < 2 (Routh).
     const theta = 0.5;

@@ -6,7 +6,7 @@ import { refineBreakpoints } from '../../src/schedule/refine.js';
 import type { AcceptanceThresholds, GainTable } from '../../src/schedule/types.js';
 import { idealGains, integratorLoopMargins, LOOP_DELAY_S } from './integrator-loop.js';
 
-// Source: common practice (DOMAIN.md §5): GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2; delay margin 50 ms chosen for this case.
+// Source: common practice (docs/domain.md §5): GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2; delay margin 50 ms chosen for this case.
 const THRESHOLDS: AcceptanceThresholds = { ...THRESHOLD_DEFAULTS, minimumDelayMargin_s: 0.05 };
 const RANGE = { minimum_mps: 2, maximum_mps: 18 };
 const BREAKPOINTS = [2, 6, 18];

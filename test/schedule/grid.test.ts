@@ -4,7 +4,7 @@ import { checkGrid } from '../../src/schedule/grid.js';
 
 describe('checkGrid(breakpoints, range, density)', () => {
   it('has at least density speeds, every breakpoint and midpoint, sorted and unique', () => {
-    // Source: DOMAIN.md §5 — the dense check must include breakpoints and the speeds between them.
+    // Source: docs/domain.md §5 — the dense check must include breakpoints and the speeds between them.
     fc.assert(
       fc.property(
         fc.uniqueArray(fc.double({ min: 0.5, max: 30, noNaN: true }), { minLength: 1, maxLength: 12 }),

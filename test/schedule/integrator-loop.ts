@@ -3,7 +3,7 @@
  * without the real loop analysis: plant G_v(s) = v²·e^(−θs)/s at speed v (an integrating plant
  * whose gain grows like v²) under a P controller kp, so L(s) = k·e^(−θs)/s with k = kp·v².
  *
- * Closed form (Åström & Murray 2008, Feedback Systems, integrator with delay; DOMAIN.md §5b:
+ * Closed form (Åström & Murray 2008, Feedback Systems, integrator with delay; docs/domain.md §5b:
  * k·e^(−θs)/s is stable iff kθ < π/2): gain crossover ωc = k; phase margin 90° − kθ·180/π;
  * delay margin (π/2 − kθ)/k; phase crossover ω180 = π/(2θ), upper gain margin π/(2kθ);
  * no lower gain margin. Peak sensitivity by a fine frequency sweep.

@@ -23,7 +23,7 @@ const tableArbitrary = fc
 describe('makeGainLookup(table)', () => {
   for (const interpolation of METHODS) {
     it(`${interpolation}: returns the table values exactly at every breakpoint`, () => {
-      // Source: property stated in STYLE.md habit 9 / DOMAIN.md §7 (firmware tables are exact at breakpoints).
+      // Source: common practice — firmware tables are exact at their breakpoints (docs/domain.md §7).
       fc.assert(
         fc.property(tableArbitrary, (table) => {
           const lookup = makeGainLookup(table, { interpolation });
@@ -53,7 +53,7 @@ describe('makeGainLookup(table)', () => {
     });
 
     it(`${interpolation}: clamps to the end values outside the table`, () => {
-      // Source: DOMAIN.md §7 — out of range the schedule holds its end values (clamp), no extrapolation.
+      // Source: docs/domain.md §7 — out of range the schedule holds its end values (clamp), no extrapolation.
       const table: GainTable = { speeds_mps: [2, 5, 10], gains: [{ kp: 3, ki: 1, kd: 0.5 }, { kp: 2, ki: 0.5, kd: 0.2 }, { kp: 1, ki: 0.2, kd: 0.1 }] };
       const lookup = makeGainLookup(table, { interpolation });
       expect(lookup(0)).toEqual(table.gains[0]);
@@ -112,7 +112,7 @@ describe('makeGainLookup(table)', () => {
   });
 
   it('below the low-speed floor the gains at the floor are used', () => {
-    // Source: DOMAIN.md §7 — gains grow like 1/vx², so below a floor speed the floor's gains are held.
+    // Source: docs/domain.md §7 — gains grow like 1/vx², so below a floor speed the floor's gains are held.
     const table: GainTable = { speeds_mps: [1, 4, 8], gains: [{ kp: 16, ki: 4, kd: 1 }, { kp: 1, ki: 0.25, kd: 0.0625 }, { kp: 0.25, ki: 0.0625, kd: 0.015625 }] };
     for (const interpolation of METHODS) {
       const lookup = makeGainLookup(table, { interpolation, lowSpeedFloor_mps: 2 });

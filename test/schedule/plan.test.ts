@@ -11,7 +11,7 @@ describe('resolvePlan(partial)', () => {
   it('an empty plan is the defaults, with common-practice acceptance limits', () => {
     const plan = resolvePlan({});
     expect(plan).toEqual(PLAN_DEFAULTS);
-    // Source: common practice (DOMAIN.md §5; Åström & Hägglund for Ms): GM ≥ 6 dB both ways, PM ≥ 45°, Ms ≤ 2.
+    // Source: common practice (docs/domain.md §5; Åström & Hägglund for Ms): GM ≥ 6 dB both ways, PM ≥ 45°, Ms ≤ 2.
     expect(plan.acceptance.maximumLowerGainMargin_dB).toBe(-6);
     expect(plan.acceptance.minimumUpperGainMargin_dB).toBe(6);
     expect(plan.acceptance.minimumPhaseMargin_deg).toBe(45);
@@ -39,7 +39,7 @@ describe('resolvePlan(partial)', () => {
   });
 
   it('required delay margin is latency plus half a sample (zero-order hold) plus room', () => {
-    // Source: DOMAIN.md §5 — a zero-order hold adds about Ts/2 of delay; delay margin above the latency with room (common practice).
+    // Source: docs/domain.md §5 — a zero-order hold adds about Ts/2 of delay; delay margin above the latency with room (common practice).
     const plan = resolvePlan({ controller: { sampleTime_s: 0.02, computationLatency_s: 0.004 }, acceptance: { delayMarginRoom_s: 0.03 } });
     expect(planThresholds(plan).minimumDelayMargin_s).toBeCloseTo(0.004 + 0.01 + 0.03, 15);
   });

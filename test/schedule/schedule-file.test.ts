@@ -7,7 +7,7 @@ import { canonicalJson } from '../../src/schedule/canonical-json.js';
 import { checksumContent, computeScheduleChecksum, verifyScheduleChecksum } from '../../src/schedule/checksum.js';
 import { parseSchedule, readSchedule, writeSchedule } from '../../src/schedule/schedule-file.js';
 import { serialiseSchedule } from '../../src/schedule/schedule-json.js';
-import { SAFETY_CAUTIONS } from '../../src/cli/safety.js';
+import { SAFETY_CAUTIONS } from '../../src/core/safety.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { runPython } from '../helpers/python.js';
 import { sampleSchedule } from './sample-schedule.js';
@@ -204,7 +204,7 @@ describe('writeSchedule / readSchedule', () => {
   it('records the loop, units and controller law firmware needs', () => {
     const schedule = sampleSchedule();
     expect(schedule.loop).toMatchObject({ kind: 'path', referencePoint: 'front-axle', preview_m: 4 });
-    // Source: DOMAIN.md §3 — the path loop's error is a lateral offset in m, command a road-wheel angle in rad.
+    // Source: docs/domain.md §3 — the path loop's error is a lateral offset in m, command a road-wheel angle in rad.
     expect(schedule.units).toMatchObject({ kp: 'rad per m', ki: 'rad per m·s', kd: 'rad per m/s' });
     expect(schedule.controller.integration).toMatch(/ki·e·Ts/);
     expect(schedule.controller.update.join('\n')).toMatch(/Tf·D\[k−1\]/);

@@ -101,7 +101,7 @@ const at = {
 };
 
 describe('closed-loop facts of the trade on the path loop', () => {
-  it('zero preview: no P-only gain stabilises the path loop, and proportionalGainRange says so (common practice, DOMAIN.md §3)', () => {
+  it('zero preview: no P-only gain stabilises the path loop, and proportionalGainRange says so (common practice, docs/domain.md §3)', () => {
     expect(proportionalGainRange(pathNoPreview)).toBeNull();
     expect(take(at.noPreview, noPreviewGains.length)).toEqual(noPreviewGains.map(() => false));
   });

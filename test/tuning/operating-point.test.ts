@@ -40,7 +40,7 @@ describe('tuneOperatingPoint: SIMC loops with known margins (τc = θ, margins o
 
   it("heading loop from a delay-only yaw model: integrating k'e^(−θs)/s, GM ≈ 2.96, PM ≈ 46.9°, Ms ≈ 1.70", () => {
     const tuned = lumped({ kind: 'fopdt', gain: 2, timeConstant_s: 0, deadTime_s: 0.09 }, { kind: 'heading' }, 'simc');
-    // Source: Skogestad 2003, SIMC integrating process at τc = θ (table values from memory; DOMAIN.md §4 recomputation).
+    // Source: Skogestad 2003, SIMC integrating process at τc = θ (table values from memory; docs/domain.md §4 recomputation).
     expect(decibelsToRatio(tuned.margins.upperGainMargin_dB!)).toBeCloseTo(2.96, 2);
     expect(tuned.margins.phaseMargin_deg).toBeCloseTo(46.9, 1);
     expect(tuned.margins.sensitivityPeak).toBeCloseTo(1.7, 2);
@@ -48,14 +48,14 @@ describe('tuneOperatingPoint: SIMC loops with known margins (τc = θ, margins o
 
   it("path loop, no preview: double-integrating k''e^(−θs)/s², unfiltered PID: PM ≈ 33°, upper GM ≈ 2.76, lower GM ≈ 0.165, Ms ≈ 1.96", () => {
     const tuned = lumped({ kind: 'fopdt', gain: 2, timeConstant_s: 0, deadTime_s: 0.09 }, { kind: 'path' }, 'simc', unfiltered);
-    // Source: DOMAIN.md §4, recomputed for Skogestad 2003 double-integrating rule at τc = θ (from memory).
+    // Source: docs/domain.md §4, recomputed for Skogestad 2003 double-integrating rule at τc = θ (from memory).
     expect(tuned.design.model).toEqual({ integrators: 2, gain: 10, lags_s: [], deadTime_s: expect.closeTo(0.1, 14) });
     expect(tuned.margins.stable).toBe(true);
     expect(tuned.margins.phaseMargin_deg).toBeCloseTo(33, 0);
     expect(decibelsToRatio(tuned.margins.upperGainMargin_dB!)).toBeCloseTo(2.76, 2);
     expect(decibelsToRatio(tuned.margins.lowerGainMargin_dB!)).toBeCloseTo(0.165, 3);
     expect(tuned.margins.sensitivityPeak).toBeCloseTo(1.96, 2);
-    // A derivative filter N = 10 costs roughly another 11° (DOMAIN.md §4, recomputed there).
+    // A derivative filter N = 10 costs roughly another 11° (docs/domain.md §4, recomputed there).
     const filtered = lumped({ kind: 'fopdt', gain: 2, timeConstant_s: 0, deadTime_s: 0.09 }, { kind: 'path' }, 'simc');
     expect(tuned.margins.phaseMargin_deg! - filtered.margins.phaseMargin_deg!).toBeGreaterThan(8);
     expect(tuned.margins.phaseMargin_deg! - filtered.margins.phaseMargin_deg!).toBeLessThan(14);
@@ -85,7 +85,7 @@ describe('tuneOperatingPoint: applicability and signs', () => {
     }
   });
 
-  it('a negative plant gain gives negative gains and the same margins (DOMAIN.md §5b)', () => {
+  it('a negative plant gain gives negative gains and the same margins (docs/domain.md §5b)', () => {
     for (const [kind, rule] of [['yaw-rate', 'imc-pid'], ['heading', 'ziegler-nichols-step'], ['path', 'damping-target']] as const) {
       const positive = lumped({ kind: 'fopdt', gain: 2, timeConstant_s: 0.2, deadTime_s: 0.09 }, { kind, preview_m: 2 }, rule);
       const negative = lumped({ kind: 'fopdt', gain: -2, timeConstant_s: 0.2, deadTime_s: 0.09 }, { kind, preview_m: 2 }, rule);

@@ -20,7 +20,7 @@ describe('simc (Skogestad 2003)', () => {
   });
 
   it('second order τ1=10 s, τ2=3 s: series PID with τD = τ2, converted to parallel by Kc′ = Kc(1+τD/τI), Ti = τI+τD, Td = τIτD/(τI+τD)', () => {
-    // Source: Skogestad 2003 second-order rule; series → ideal from DOMAIN.md §4 (textbook conversion).
+    // Source: Skogestad 2003 second-order rule; series → ideal from docs/domain.md §4 (textbook conversion).
     const result = simc({ integrators: 0, gain: 2, lags_s: [10, 3], deadTime_s: 2 }, {});
     expect(result.ruleForm).toEqual({ form: 'series', gain: 1.25, integralTime_s: 10, derivativeTime_s: 3 });
     const kcIdeal = 1.25 * (1 + 3 / 10);

@@ -63,7 +63,7 @@ describe('Ziegler–Nichols step-response method', () => {
       expect(result.ruleForm.integralTime_s).toEqual(row.ti === null ? null : expect.closeTo(row.ti, 12));
       expect(result.ruleForm.derivativeTime_s).toBeCloseTo(row.td, 12);
       expect(result.intermediate.a).toBeCloseTo(0.4, 12);
-      // Ideal → parallel: kp = Kc, ki = Kc/Ti, kd = Kc·Td (DOMAIN.md §4)
+      // Ideal → parallel: kp = Kc, ki = Kc/Ti, kd = Kc·Td (docs/domain.md §4)
       expect(result.gains.kp).toBeCloseTo(row.kc, 12);
       expect(result.gains.ki).toBeCloseTo(row.ti === null ? 0 : row.kc / row.ti, 12);
       expect(result.gains.kd).toBeCloseTo(row.kc * row.td, 12);
@@ -134,7 +134,7 @@ describe('Ziegler–Nichols ultimate-gain method', () => {
     expect(() => zieglerNicholsUltimate({ integrators: 0, gain: 1, lags_s: [2], deadTime_s: 0 }, {})).toThrow(/never reaches −180°/);
   });
 
-  it('a negative plant gain gives the same gains with a negative sign (DOMAIN.md §5b, common practice)', () => {
+  it('a negative plant gain gives the same gains with a negative sign (docs/domain.md §5b, common practice)', () => {
     const positive = zieglerNicholsUltimate(fopdt, {});
     const negative = zieglerNicholsUltimate({ ...fopdt, gain: -2 }, {});
     expect(negative.gains.kp).toBeCloseTo(-positive.gains.kp, 12);

@@ -67,7 +67,7 @@ describe('simulateSingleTrack: steady state', () => {
         const { yawRate_radps, lateralAcceleration_mps2 } = simulateSingleTrack({ params, speed_mps: vx, time_s, steerCommand_rad: command });
         const expected = (vx / (L + K * vx * vx)) * step_rad;
         expect(Math.abs(yawRate_radps[yawRate_radps.length - 1] / expected - 1)).toBeLessThan(1e-8);
-        // in the steady state ay = vx·r (DOMAIN.md §3 with v̇y = 0)
+        // in the steady state ay = vx·r (docs/domain.md §3 with v̇y = 0)
         expect(Math.abs(lateralAcceleration_mps2[time_s.length - 1] / (vx * expected) - 1)).toBeLessThan(1e-8);
       }
     }
@@ -83,7 +83,7 @@ describe('simulateSingleTrack agrees with scipy.signal.lsim (zero-order hold)', 
   }
   /**
    * Source: scipy.signal.lsim (reference library) with interp=False (zero-order hold) on the
-   * state equations written in python from the force balance (DOMAIN.md §3) plus the actuator lag
+   * state equations written in python from the force balance (docs/domain.md §3) plus the actuator lag
    * state, the delay applied by shifting the input by whole samples of a grid fine enough
    * (`refine` sub-samples per sample) for the delay to be a whole number of them.
    */

@@ -36,7 +36,7 @@ const OVERSTEER: SingleTrackParameters = {
 
 const RELATIVE = 1e-12; // floating-point agreement of algebraically equal formulas
 
-/** The coefficients written out as in the textbook (DOMAIN.md §3; Rajamani 2012 §2.3, Gillespie 1992 §6). */
+/** The coefficients written out as in the textbook (docs/domain.md §3; Rajamani 2012 §2.3, Gillespie 1992 §6). */
 function textbookYawRate(p: SingleTrackParameters, vx: number) {
   const { mass_kg: m, yawInertia_kgm2: iz, cgToFrontAxle_m: a, cgToRearAxle_m: b } = p;
   const cf = p.frontCorneringStiffness_NPerRad;
@@ -70,7 +70,7 @@ describe('singleTrackTransferFunctions(params, speed_mps)', () => {
     const speeds = [2, 8, 20];
     const cases = speeds.map((vx) => ({ vx, ss: singleTrackStateSpace(UNDERSTEER, vx), tf: singleTrackTransferFunctions(UNDERSTEER, vx) }));
     // Source: scipy.signal.ss2tf (reference library) on the state equations written directly from
-    // the force balance m(v̇y + vx r) = Fyf + Fyr, Iz ṙ = a Fyf − b Fyr (DOMAIN.md §3), independent of our A, B.
+    // the force balance m(v̇y + vx r) = Fyf + Fyr, Iz ṙ = a Fyf − b Fyr (docs/domain.md §3), independent of our A, B.
     const reference = runPython<{ num: number[][]; den: number[] }[]>(
       `
 import json, sys
@@ -165,7 +165,7 @@ describe('singleTrackStateSpace(params, speed_mps)', () => {
     const delta = 0.02;
     const vyDot = A[0][0] * x[0] + A[0][1] * x[1] + B[0][0] * delta;
     const ay = C[2][0] * x[0] + C[2][1] * x[1] + D[2][0] * delta;
-    // Source: DOMAIN.md §3, ay = v̇y + vx·r.
+    // Source: docs/domain.md §3, ay = v̇y + vx·r.
     expect(ay).toBeCloseTo(vyDot + vx * x[1], 12);
   });
 });

@@ -77,7 +77,7 @@ describe('generateTestLog(vehicle, speed_mps, options)', () => {
   });
 
   it('stays in the linear tyre range: |lateral acceleration| well under 4 m/s² at every speed (noise-free)', () => {
-    // Source: common practice (DOMAIN.md §6) — step tests stay well under ~4 m/s².
+    // Source: common practice (docs/domain.md §6) — step tests stay well under ~4 m/s².
     for (const speed of [2, 5, 10, 15, 20, 25, 30]) {
       const ay = column(generateTestLog(VAN, speed, { noiseScale: 0 }).csv, 'lat_accel_mps2');
       expect(Math.max(...ay.map(Math.abs))).toBeLessThan(2.5);

@@ -20,7 +20,7 @@ function thrown(work: () => unknown): SpeedbandError {
 
 describe('analyseLoop({ plant, pid })', () => {
   it('the three PID forms describing one controller give the same margins', () => {
-    // Source: DOMAIN.md §4 (Åström & Hägglund 2006): series Kc = 1, τI = 2, τD = 0.5 is ideal
+    // Source: docs/domain.md §4 (Åström & Hägglund 2006): series Kc = 1, τI = 2, τD = 0.5 is ideal
     // Kc' = 1·(1 + 0.5/2) = 1.25, Ti = 2.5, Td = 2·0.5/2.5 = 0.4, i.e. parallel kp = 1.25, ki = 0.5, kd = 0.5.
     const series = analyseLoop({ plant, pid: { kp: 1, ki: 2, kd: 0.5, form: 'series' } });
     const ideal = analyseLoop({ plant, pid: { kp: 1.25, ki: 2.5, kd: 0.4, form: 'ideal' } });
@@ -113,7 +113,7 @@ describe('loops with the discrete PID the firmware runs', () => {
   });
 
   it('sampling costs phase margin close to ω_c·Ts/2 and the verdict stays that of the continuous loop', () => {
-    // Source: common practice — the zero-order hold acts like a delay of about Ts/2 (DOMAIN.md §5).
+    // Source: common practice — the zero-order hold acts like a delay of about Ts/2 (docs/domain.md §5).
     const continuous = analyseLoop({ plant, pid });
     const sampled = analyseLoop({ plant, pid, sampleTime_s: 0.02 });
     const expectedLoss_deg = (continuous.phaseMarginFrequency_radps as number) * 0.01 * (180 / Math.PI);

@@ -29,7 +29,7 @@ const loops: Record<string, OpenLoop> = {
     pid: { kp: 1, ki: 0.03, kd: 0 },
   }),
   // An oversteering car at 30 m/s (open-loop unstable yaw rate, synthetic numbers: m = 1500 kg, Iz = 2500 kg·m²,
-  // a = 1.6 m, b = 1.0 m, Cf = 80 kN/rad, Cr = 60 kN/rad; DOMAIN.md §3) under a PI yaw-rate loop.
+  // a = 1.6 m, b = 1.0 m, Cf = 80 kN/rad, Cr = 60 kN/rad; docs/domain.md §3) under a PI yaw-rate loop.
   'PI yaw-rate loop on an oversteering car above its critical speed, θ = 0.05 s': openLoopOf({
     plant: { numerator: [51.2, 110.93333333333334], denominator: [1, 6.641777777777778, -17.58577777777778], delay_s: 0.05 },
     pid: { kp: 0.2, ki: 0.4, kd: 0 },

@@ -50,7 +50,7 @@ describe('analyseOpenLoop on loops with closed-form margins', () => {
 
   // Source: Skogestad 2003 (J. Process Control 13:291–309), SIMC with τc = θ on an integrating
   // process k'e^(−θs)/s: Kc = 1/(k'(τc + θ)), τI = 4(τc + θ); GM ≈ 2.96, PM ≈ 46.9°, Ms ≈ 1.70 as
-  // recomputed in DOMAIN.md §4 and matching the paper's table as remembered (from memory).
+  // recomputed in docs/domain.md §4 and matching the paper's table as remembered (from memory).
   it.each([
     [1, 1],
     [0.2, 0.5],
@@ -70,7 +70,7 @@ describe('analyseOpenLoop on loops with closed-form margins', () => {
 
   // Source: Skogestad 2003, SIMC PI with τc = θ on FOPDT with τ ≤ 8θ: Kc = τ/(K·2θ), τI = τ, so
   // L = e^(−θs)/(2θs) exactly. Derived: crossover ω = 1/(2θ), PM = 90° − 0.5 rad = 61.35°;
-  // phase crossover ωθ = π/2 where |L| = 1/π, so GM = π. Ms ≈ 1.59 (DOMAIN.md §4, from memory).
+  // phase crossover ωθ = π/2 where |L| = 1/π, so GM = π. Ms ≈ 1.59 (docs/domain.md §4, from memory).
   it.each([
     [1, 5, 1],
     [-2, 0.3, 0.1],
@@ -88,7 +88,7 @@ describe('analyseOpenLoop on loops with closed-form margins', () => {
   });
 
   // Source: Skogestad 2003, SIMC for a double integrator k''e^(−θs)/s² with τc = θ:
-  // series PID Kc = 1/(4k''(τc + θ)²), τI = τD = 4(τc + θ); DOMAIN.md §4 recomputed PM ≈ 33°,
+  // series PID Kc = 1/(4k''(τc + θ)²), τI = τD = 4(τc + θ); docs/domain.md §4 recomputed PM ≈ 33°,
   // upper GM ≈ 2.76, lower GM ≈ 0.165, Ms ≈ 1.96 (from memory; the brute-force sweep in
   // cross-check.test.ts checks both gain margins independently).
   it('SIMC series PID on a double integrator with delay is conditionally stable: both gain margins', () => {
@@ -106,7 +106,7 @@ describe('analyseOpenLoop on loops with closed-form margins', () => {
   });
 
   it('a derivative filter N = 10 costs the double-integrator loop about 11° of phase margin', () => {
-    // Source: DOMAIN.md §4 ("a derivative filter N = 10 costs another ~11°", recomputed there; from memory).
+    // Source: docs/domain.md §4 ("a derivative filter N = 10 costs another ~11°", recomputed there; from memory).
     const plant = { numerator: [1], denominator: [1, 0, 0], delay_s: 1 };
     const pid = { kp: 1 / 16, ki: 8, kd: 8, form: 'series' as const };
     const unfiltered = analyseLoop({ plant, pid: { ...pid, derivativeFilter: Infinity } });

@@ -16,7 +16,7 @@ function thrown(work: () => unknown): SpeedbandError {
 
 describe('analyseLoop with the PID times named integralTime_s and derivativeTime_s', () => {
   it('parallelGainsOf({ form: series, integralTime_s, derivativeTime_s }) converts by Kc(1 + τD/τI), Ti = τI + τD, Td = τIτD/(τI + τD)', () => {
-    // Source: DOMAIN.md §4 (Åström & Hägglund 2006): series Kc = 1, τI = 2, τD = 0.5 → ideal Kc' = 1.25, Ti = 2.5, Td = 0.4
+    // Source: docs/domain.md §4 (Åström & Hägglund 2006): series Kc = 1, τI = 2, τD = 0.5 → ideal Kc' = 1.25, Ti = 2.5, Td = 0.4
     // → parallel kp = 1.25, ki = Kc'/Ti = 0.5, kd = Kc'·Td = 0.5.
     const gains = parallelGainsOf({ kp: 1, integralTime_s: 2, derivativeTime_s: 0.5, form: 'series' });
     expect(gains.kp).toBeCloseTo(1.25, 12);

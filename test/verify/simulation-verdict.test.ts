@@ -209,7 +209,7 @@ function ultimateGainFirstOrder(gain: number, tau_s: number, delay_s: number): n
  * Loops whose stability is known in closed form, run through the same simulation (so the
  * simulation is itself checked against textbook limits) and through our analysis:
  * - P control of e^(−θs)/s is stable iff kp·θ < π/2 (Source: the Nyquist argument — ∠L = −π/2 − ωθ reaches
- *   −π at ω = π/(2θ), where |L| = kp/ω = 2·kp·θ/π; common practice; DOMAIN.md §5b quotes the same limit);
+ *   −π at ω = π/(2θ), where |L| = kp/ω = 2·kp·θ/π; common practice; docs/domain.md §5b quotes the same limit);
  * - P control of e^(−s)/(s + 1) is stable iff kp < Ku ≈ 2.26 (ultimate gain, computed above).
  */
 const firstOrderUltimateGain = ultimateGainFirstOrder(1, 1, 1);

@@ -1,5 +1,5 @@
 /**
- * One test per trap of DOMAIN.md §5b that general control code has fallen into.
+ * One test per trap of docs/domain.md §5b that general control code has fallen into.
  * Independent values come from closed forms derived beside each test, or from one
  * batched python3 call (numpy/scipy) in beforeAll.
  */
@@ -14,7 +14,7 @@ const REFERENCE = 1e-8;
 
 /** An oversteering single-track car above its critical speed (our own invented numbers, synthetic). */
 function oversteerYawRatePlant(speed_mps: number): { numerator: number[]; denominator: number[] } {
-  // Source: DOMAIN.md §3 single-track formulas (Gillespie 1992; Rajamani 2012).
+  // Source: docs/domain.md §3 single-track formulas (Gillespie 1992; Rajamani 2012).
   const m = 1500;
   const iz = 2500;
   const a = 1.6;
@@ -81,12 +81,12 @@ beforeAll(() => {
   reference = runPython<Reference>(SCRIPT, { multi: multiCrossover, oversteer: { ...oversteer, gains: oversteerGains } });
 });
 
-/** Source: definition (DOMAIN.md §5b): a phase margin lies in (−180°, 180°]. */
+/** Source: definition (docs/domain.md §5b): a phase margin lies in (−180°, 180°]. */
 function wrapDegrees(angle_deg: number): number {
   return angle_deg - 360 * Math.ceil((angle_deg - 180) / 360);
 }
 
-describe('DOMAIN.md §5b traps', () => {
+describe('docs/domain.md §5b traps', () => {
   it('phase wrapping: the signed margin at a crossover is wrapped into (−180°, 180°] even when ∠L there is far below −180°, and an unstable loop reports no phase margin', () => {
     // Source: derived. k·e^(−θs)/s crosses over at ω = k with ∠L = −90° − kθ·180/π, so the signed margin 180° + ∠L
     // is 90° − kθ·180/π wrapped into (−180°, 180°]; with kθ = 12 rad the unwrapped value is −597.5°. The loop is
@@ -110,7 +110,7 @@ describe('DOMAIN.md §5b traps', () => {
   });
 
   it('a positive phase margin does not prove stability: an unfiltered PID on a delayed lag with |L(j∞)| ≥ 1 is unstable', () => {
-    // Source: neutral-type delay systems (DOMAIN.md §5b; Hale & Verduyn Lunel 1993): with an
+    // Source: neutral-type delay systems (docs/domain.md §5b; Hale & Verduyn Lunel 1993): with an
     // unfiltered derivative on K·e^(−θs)/(τs + 1), L(j∞) = kd·K/τ; |L(j∞)| ≥ 1 is unstable.
     const plant = { numerator: [1], denominator: [1, 1], delay_s: 0.1 };
     const neutral = analyseLoop({ plant, pid: { kp: 0.5, ki: 0.5, kd: 1.05, derivativeFilter: Infinity } });
@@ -193,7 +193,7 @@ describe('DOMAIN.md §5b traps', () => {
   });
 
   it('a negative plant gain with negative controller gains gives the same margins', () => {
-    // Source: common practice (DOMAIN.md §5b: axis conventions differ; L = C·G is unchanged).
+    // Source: common practice (docs/domain.md §5b: axis conventions differ; L = C·G is unchanged).
     const plant = { numerator: [0.8], denominator: [2, 3, 1], delay_s: 0.3 };
     const pid = { kp: 1.2, ki: 0.6, kd: 0.3, derivativeFilter: 10 };
     const positive = analyseLoop({ plant, pid });

@@ -3,7 +3,7 @@ import type { AnalyseLoop } from '../../schedule/types.js';
 import type { ScheduleFile } from '../../schedule/schedule-types.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { SAFETY_EPILOGUE } from '../safety.js';
+import { SAFETY_EPILOGUE } from '../../core/safety.js';
 
 /** What the export command needs beyond the schedule file. */
 export interface ExportDependencies {

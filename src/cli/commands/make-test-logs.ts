@@ -3,7 +3,7 @@ import type { CommandModule } from '../command.js';
 import { EXIT } from '../io.js';
 import { quoted } from '../../core/quote.js';
 
-/** Linear-range habit for step tests (DOMAIN.md §6, common practice): warn above this steady lateral acceleration. */
+/** Linear-range habit for step tests (docs/domain.md §6, common practice): warn above this steady lateral acceleration. */
 const LINEAR_RANGE_WARNING_mps2 = 4;
 
 /** At most this many values in a list option (bounded work: one log file per speed). */
