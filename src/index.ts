@@ -250,3 +250,34 @@ export { runDemo, bundledVehicles, BUNDLED_VEHICLES, DEMO_DEFAULTS, type DemoInp
 export { recordedLoopAnalysis, checkExportedTable, findFallbackGains } from './build/export-check.js';
 export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
 export { DELAY_BOUNDS, requireBoundedDelay } from './build/delay-bound.js';
+
+// The worst case over a set of vehicles (src/robust/, src/build/robust-*.ts; records in src/schedule/variation-types.ts)
+export type {
+  VariedParameter,
+  VariationDimension,
+  VariationSet,
+  RobustSearchSettings,
+  RobustFigure,
+  Combination,
+  WorstFigure,
+  InstabilityFound,
+  RobustMargins,
+  RobustCheckPoint,
+  RobustCheckResult,
+  RobustWorstValue,
+  AnalyseOverSet,
+  WeakestParameter,
+} from './robust/types.js';
+export { resolveVariationSet, operatingPointWith } from './robust/variation-set.js';
+export { worstCaseOverSet, searchMethodWords } from './robust/worst-case.js';
+export { compassSearch, COMPASS_SEARCH_DEFAULTS } from './robust/compass-search.js';
+export { robustCheck, judgeRobust } from './robust/robust-check.js';
+export { weakestParameter, tightestFigure } from './robust/weakest-parameter.js';
+export { combinationWords } from './robust/combination-words.js';
+export { worstCaseMarginsAt, makeRobustAnalysis, analysisWithChanges, weakestParameterAt, type RobustContext } from './build/robust-analysis.js';
+export { robustCheckOnAllCores, PARALLEL_ROBUST_DEFAULTS } from './build/parallel-robust-check.js';
+export { robustScheduleCheck, type RobustScheduleCheck } from './build/robust-schedule-check.js';
+export { recheckOverVariations } from './build/robust-recheck.js';
+export { compareOverVariations } from './build/variations-comparison.js';
+export { resolveVariations, VARIATION_DEFAULTS, type PlanVariations, type WrittenVariations } from './schedule/plan-variations.js';
+export { acceptancePassed, type ScheduleVariations } from './schedule/schedule-variations.js';

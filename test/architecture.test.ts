@@ -18,10 +18,11 @@ export const LAYERS: Readonly<Record<string, number>> = {
   verify: 5,
   tuning: 6,
   schedule: 7,
-  export: 8,
-  compare: 8,
-  build: 9,
-  cli: 10,
+  robust: 8,
+  export: 9,
+  compare: 9,
+  build: 10,
+  cli: 11,
 };
 
 function sourceFiles(folder: string): string[] {

@@ -1,5 +1,5 @@
 import type { ControllerSettings } from '../controller/types.js';
-import type { InstabilityFound, RobustFigure, VariationSet, WorstFigure } from '../robust/types.js';
+import type { InstabilityFound, RobustFigure, VariationSet, WorstFigure } from '../schedule/variation-types.js';
 /**
  * Records of a schedule comparison (after a vehicle change: load, tyres, actuator, firmware rate).
  * Plain, readonly, JSON-able. Speeds in m/s; gains in each schedule's own units (parallel PID,

@@ -11,8 +11,11 @@ import { SpeedbandError } from '../core/errors.js';
 import type { Interval, ModelsFile } from '../identify/models-schema.js';
 import type { ChangeRange, PlanVariations } from '../schedule/plan-variations.js';
 import type { OperatingPointModel } from '../tuning/operating-point.js';
-import type { CheckModelSummary } from '../build/check-model.js';
+import type { SingleTrackParameters } from '../vehicle/types.js';
 import type { VariationDimension, VariationSet, VariedParameter } from './types.js';
+
+/** What the set needs of a check model's summary (src/build/check-model.ts CheckModelSummary): its kind and, for the single-track model, its parameters. */
+export type VariedModelSummary = ({ readonly kind: 'single-track' } & SingleTrackParameters) | { readonly kind: 'interpolated-lumped' };
 
 const shown = (value: number): string => String(Number(value.toPrecision(4))).replace('-', '−');
 const percentWords = ([down, up]: ChangeRange): string => (down === -up ? `±${shown(up)} %` : `${shown(down)} % to +${shown(up)} %`);
@@ -31,7 +34,7 @@ function scale(parameter: VariedParameter, range: [number, number], source: stri
   return { parameter, change: 'scale', minimum: range[0], maximum: range[1], source };
 }
 
-function singleTrackSet(variations: PlanVariations, summary: Extract<CheckModelSummary, { kind: 'single-track' }>, models: ModelsFile | null, file?: string): VariationDimension[] {
+function singleTrackSet(variations: PlanVariations, summary: Extract<VariedModelSummary, { kind: 'single-track' }>, models: ModelsFile | null, file?: string): VariationDimension[] {
   const intervals = variations.fromIdentification ? models?.singleTrack?.ci95 : undefined;
   const [forward, rearward] = variations.cgRearwardShift_m;
   if (!(summary.cgToFrontAxle_m + forward > 0 && summary.cgToRearAxle_m - rearward > 0)) {
@@ -109,7 +112,7 @@ const PHYSICAL_FIELDS = ['mass_pct', 'yawInertia_pct', 'cgRearwardShift_m', 'fro
  * identification, for its 95 % intervals (null: the plan's variations only). Dimensions of zero width are
  * left out. Throws `plan.invalid` for a CG shift past an axle.
  */
-export function resolveVariationSet(variations: PlanVariations, summary: CheckModelSummary, models: ModelsFile | null, file?: string): VariationSet {
+export function resolveVariationSet(variations: PlanVariations, summary: VariedModelSummary, models: ModelsFile | null, file?: string): VariationSet {
   const keep = (dimensions: VariationDimension[]): VariationDimension[] => dimensions.filter((dimension) => dimension.maximum > dimension.minimum);
   if (summary.kind === 'single-track') {
     return { model: 'single-track', dimensions: keep(singleTrackSet(variations, summary, models, file)), notApplied: [] };

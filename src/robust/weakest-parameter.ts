@@ -8,22 +8,9 @@
 import type { AcceptanceThresholds } from '../schedule/types.js';
 import type { LoopMargins } from '../verify/types.js';
 import { ROBUST_FIGURES, badness, figureValue } from './figures.js';
-import type { Combination, RobustFigure, RobustMargins, VariationSet, VariedParameter } from './types.js';
+import type { Combination, RobustFigure, RobustMargins, VariationSet, VariedParameter, WeakestParameter } from './types.js';
 
-export interface WeakestParameter {
-  readonly speed_mps: number;
-  /** The figure nearest its limit over the set, or 'stability' when the set holds an unstable loop. */
-  readonly figure: RobustFigure | 'stability';
-  readonly parameter: VariedParameter;
-  /** The figure's worst value (null for stability). */
-  readonly worst: number | null;
-  /** The same figure with that parameter alone back at nominal (null when the loop is then not stable, or for stability). */
-  readonly withParameterNominal: number | null;
-  /** For stability: whether that parameter back at nominal makes the loop stable. */
-  readonly restoresStability: boolean | null;
-  /** The combination behind the worst figure. */
-  readonly combination: Combination;
-}
+export type { WeakestParameter } from './types.js';
 
 /** How far a worst figure lies inside its limit, relative to the limit (negative: past it); null for a figure without a limit. */
 export function slackToLimit(figure: RobustFigure, value: number, thresholds: AcceptanceThresholds): number | null {

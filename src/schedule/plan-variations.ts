@@ -3,7 +3,7 @@
  * schedule must hold on, as written and as resolved with its defaults. Without the section the schedule
  * is checked on the nominal model only; with it (even `{}`) every default below applies.
  */
-import type { RobustSearchSettings } from '../robust/types.js';
+import type { RobustSearchSettings } from './variation-types.js';
 
 /** [down, up] around the nominal value: percent, or metres for the CG shift; down ≤ 0 ≤ up. */
 export type ChangeRange = readonly [number, number];
