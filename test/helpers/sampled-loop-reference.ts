@@ -1,3 +1,4 @@
+import type { SingleTrackParameters } from '../../src/vehicle/types.js';
 import { runPython } from './python.js';
 
 /**
@@ -6,18 +7,10 @@ import { runPython } from './python.js';
  * Control, §2.3), the actuator e^(−θa s)/(τa s + 1), the backward-Euler PID with filter Tf = (kd/kp)/N, and the
  * plant's exact zero-order-hold equivalent by scipy.signal.cont2discrete (zoh) with the delay θ = ℓT + m by the
  * modified z-transform (Franklin, Powell & Workman, Digital Control of Dynamic Systems, 3rd ed., §4.3.4):
- * G(z) = [C(zI − Φ)⁻¹(Γ0z + Γ1) + D]·z^−(ℓ+1). Phase margin = the smallest |180° + ∠L| over the gain crossovers
- * (signed, wrapped), gain margin = the smallest upper one, Ms refined around the grid peak.
+ * G(z) = [C(zI − Φ)⁻¹(Γ0z + Γ1) + D]·z^−(ℓ+1). Phase margin = the smallest 180° + ∠L (wrapped into (−180°, 180°])
+ * over the gain crossovers, gain margin = the smallest upper one, Ms refined around the grid peak.
  */
-export interface SingleTrackLoopCase {
-  readonly mass_kg: number;
-  readonly yawInertia_kgm2: number;
-  readonly cgToFrontAxle_m: number;
-  readonly cgToRearAxle_m: number;
-  readonly frontCorneringStiffness_NPerRad: number;
-  readonly rearCorneringStiffness_NPerRad: number;
-  readonly actuatorLag_s: number;
-  readonly actuatorDelay_s: number;
+export interface SingleTrackLoopCase extends SingleTrackParameters {
   /** Sample time, derivative filter N and computation latency of the controller. */
   readonly T: number;
   readonly N: number;
