@@ -173,7 +173,7 @@ export const command: CommandModule = {
       .option('plan', {
         type: 'string',
         describe:
-          'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2',
+          'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2. A "variations" section (load, tyres, actuator, latency, the identification\'s intervals) adds the worst case over that set at every check speed, required to pass unless it says "acceptance": "nominal" (docs/plan.md)',
       })
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
@@ -202,6 +202,7 @@ export const command: CommandModule = {
     ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json', 'Default plan (yaw-rate loop, SIMC) on the bundled demo van and its logs'],
     ['speedband build --vehicle van.json --logs logs/*.csv --plan path-plan.json --out schedule.json', 'The loop, rule and limits from a plan file'],
     ['speedband build --vehicle van.json --logs new-logs/*.csv --baseline old-schedule.json --out new-schedule.json', 'After a vehicle change: new schedule, and are the old gains still safe?'],
+    ['speedband build --vehicle van.json --logs logs/*.csv --plan robust-plan.json --out schedule.json', 'With "variations" in the plan: nominal and worst case side by side, the weakest parameter named'],
   ],
   run,
 };
