@@ -269,7 +269,8 @@ export type {
   WeakestParameter,
 } from './robust/types.js';
 export { resolveVariationSet, operatingPointWith } from './robust/variation-set.js';
-export { worstCaseOverSet, searchMethodWords } from './robust/worst-case.js';
+export { worstCaseOverSet } from './robust/worst-case.js';
+export { searchMethodWords } from './robust/corner-search.js';
 export { compassSearch, COMPASS_SEARCH_DEFAULTS } from './robust/compass-search.js';
 export { robustCheck, judgeRobust } from './robust/robust-check.js';
 export { weakestParameter, tightestFigure } from './robust/weakest-parameter.js';

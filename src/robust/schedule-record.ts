@@ -6,7 +6,7 @@
 import { failingSpeeds } from '../schedule/dense-check.js';
 import type { ScheduleVariations, ScheduleVariationsBreakpoint } from '../schedule/schedule-variations.js';
 import type { RobustCheckResult, RobustSearchSettings, VariationSet, WeakestParameter } from './types.js';
-import { searchMethodWords } from './worst-case.js';
+import { searchMethodWords } from './corner-search.js';
 
 export interface VariationsRecordInput {
   readonly acceptance: 'robust' | 'nominal';

@@ -1,7 +1,7 @@
 /**
  * The worst case of every figure over a set of vehicles at one speed, by a bounded, deterministic search
- * in the box's normalised coordinates: the nominal vehicle, the corners of the box, seeded samples inside
- * it, then a compass search (compass-search.ts) from the worst point found for each figure. A loop that is
+ * in the box's normalised coordinates: the nominal vehicle, the corners of the box (corner-search.ts), seeded
+ * samples inside it, then a compass search (compass-search.ts) from the worst point found for each figure. A loop that is
  * not stable anywhere in the set is the worst case of all: the search stops after the stage that found it
  * and names the combination (of those found in that stage, the one with the largest closed-loop pole).
  */
@@ -9,7 +9,8 @@ import { breakpointMargins } from '../schedule/schedule-file.js';
 import type { LoopMargins } from '../verify/types.js';
 import { compassSearch } from './compass-search.js';
 import { ROBUST_FIGURES, badness, figureValue, type FigureDefinition } from './figures.js';
-import { ALL_CORNERS_UP_TO_DIMENSIONS, allCorners, axisEnds, pointKey, seededSamples } from './search-points.js';
+import { checkCorners } from './corner-search.js';
+import { pointKey, seededSamples } from './search-points.js';
 import type { Combination, InstabilityFound, RobustFigure, RobustMargins, RobustSearchSettings, VariationSet, WorstFigure } from './types.js';
 
 export interface WorstCaseInput {
@@ -62,6 +63,10 @@ export function combinationOf(set: VariationSet, values: readonly number[]): Com
 
 const largestPole = (margins: Figures): number | null => margins.largestPoleMagnitude;
 
+/** How bad a point is for one figure: +Infinity when its loop is not stable (nothing is worse). */
+const badnessOf = (entry: Evaluated, definition: FigureDefinition): number =>
+  entry.margins.verdict !== 'stable' ? Infinity : badness(figureValue(entry.margins, definition.name), definition);
+
 /** Worst figures of a set at one speed; see the module comment. `speed_mps` and `gains` are the caller's to add. */
 export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'speed_mps' | 'gains'> {
   const { set, search } = input;
@@ -105,7 +110,7 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
   const nominal = evaluate(nominalPoint, nominalValues);
   // 2. Corners; 3. seeded samples; 4. compass search per figure — each stage only while the set looks stable.
   const stages: (() => void)[] = [
-    () => checkCorners(k, nominalPoint, evaluate, () => found.instability !== null),
+    () => checkCorners(k, nominalPoint, (point, definition) => badnessOf(evaluate(point), definition), () => found.instability !== null),
     () => seededSamples(k, search.samples, search.seed).forEach((sample) => evaluate(sample)),
     () => {
       // One budget of new analyses for the searches of every figure at this speed, spent in ROBUST_FIGURES order.
@@ -154,39 +159,6 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
   };
 }
 
-/**
- * The corners checked. Up to ALL_CORNERS_UP_TO_DIMENSIONS dimensions: every corner. Beyond, where 2^k
- * corners would cost more than the samples: a one-at-a-time screening (each dimension to either end, the
- * others nominal) tells for each figure which end of each dimension is worse; from the corner made of those
- * ends, a coordinate search over the corners (flip one dimension to its other end, move to the worst
- * neighbour, until none is worse) catches interactions that reverse a dimension's effect at the corner.
- */
-function checkCorners(k: number, nominalPoint: readonly number[], evaluate: (point: readonly number[]) => Evaluated, unstable: () => boolean): void {
-  if (k <= ALL_CORNERS_UP_TO_DIMENSIONS) {
-    for (const corner of allCorners(k)) evaluate(corner);
-    return;
-  }
-  const ends = axisEnds(nominalPoint).map((point) => evaluate(point));
-  for (const definition of ROBUST_FIGURES) {
-    const bad = (entry: Evaluated): number => (entry.margins.verdict !== 'stable' ? Infinity : badness(figureValue(entry.margins, definition.name), definition));
-    let corner: number[] = Array.from({ length: k }, (_, i) => (bad(ends[2 * i]) > bad(ends[2 * i + 1]) ? 0 : 1));
-    let current = bad(evaluate(corner));
-    for (let round = 0; round < k && !unstable() && current !== -Infinity; round++) {
-      let best: { corner: number[]; value: number } | null = null;
-      for (let i = 0; i < k; i++) {
-        const neighbour = [...corner];
-        neighbour[i] = 1 - neighbour[i];
-        const value = bad(evaluate(neighbour));
-        if (value > current && (best === null || value > best.value)) best = { corner: neighbour, value };
-      }
-      if (best === null) break;
-      corner = best.corner;
-      current = best.value;
-    }
-    if (unstable()) return;
-  }
-}
-
 /** Compass search for one figure from its worst point while the speed's budget lasts; an unstable point ends it (+Infinity). */
 function localSearch(
   definition: FigureDefinition,
@@ -195,22 +167,7 @@ function localSearch(
   exhausted: () => boolean,
 ): void {
   if (start === undefined || start.badness === -Infinity || exhausted()) return;
-  const objective = (point: readonly number[]): number => {
-    const entry = evaluate(point);
-    return entry.margins.verdict !== 'stable' ? Infinity : badness(figureValue(entry.margins, definition.name), definition);
-  };
+  const objective = (point: readonly number[]): number => badnessOf(evaluate(point), definition);
   // Only new analyses count: points another figure's search already analysed come from the cache.
   compassSearch({ start: start.entry.point, startValue: start.badness, objective, exhausted });
-}
-
-/** How the search runs at each speed for a set of `dimensions` varied parameters, in words (recorded in the schedule). */
-export function searchMethodWords(dimensions: number): string {
-  const corners =
-    dimensions <= ALL_CORNERS_UP_TO_DIMENSIONS
-      ? `every corner of the box (${2 ** dimensions})`
-      : `the corners picked by a one-at-a-time screening of each parameter, then a coordinate search over the corners from the worst one of each figure`;
-  return (
-    `at each check speed: the nominal vehicle, ${corners}, the seeded samples inside the box, then a compass search (Kolda, Lewis & Torczon 2003) ` +
-    'from the worst point of each figure within the analysis budget; each worst point kept is analysed in full (delay margin confirmed by the exact verdict)'
-  );
 }
