@@ -41,6 +41,26 @@ export {
 } from './controller/discrete.js';
 export { discretePidStep, initialDiscretePidState, type DiscretePidState } from './controller/discrete-step.js';
 export { CONTROLLER_DEFAULTS } from './controller/defaults.js';
+// THE controller equation of a schedule (2-DOF PID, feed-forward, anti-windup, clamps), one sample at a time.
+export {
+  firmwareStep,
+  initialFirmwareState,
+  trackingTime_s,
+  type AntiWindup,
+  type FirmwareGains,
+  type FirmwareSettings,
+  type FirmwareState,
+  type FirmwareInput,
+  type FirmwareOutput,
+} from './controller/firmware-step.js';
+// Time-domain figures of the exact sampled closed loop (src/performance/) and the curvature feed-forward.
+export { simulateClosedLoop, type LoopSimulationInput, type LoopSimulation } from './performance/closed-loop-simulation.js';
+export { simulateLimitedLoop, type LimitedLoopInput, type LimitedLoopSimulation } from './performance/limited-loop-simulation.js';
+export { breakpointPerformance, judgeTimeDomain, type BreakpointPerformance, type BreakpointPerformanceInput, type SetpointWeights } from './performance/breakpoint-performance.js';
+export { performanceLoopAt, type PerformanceLoop } from './performance/loop-at-speed.js';
+export { SCENARIO_DEFAULTS } from './performance/defaults.js';
+export type { TimeDomainFigures, TimeDomainLimits } from './performance/types.js';
+export { feedForwardFromSingleTrack, feedForwardFromLumped, rampLag_s, type FeedForward } from './loops/feed-forward.js';
 // Vehicles, the single-track model, the exact simulator and synthetic test logs (src/vehicle/)
 export type { Vehicle, SingleTrackParameters } from './vehicle/types.js';
 export { loadVehicle, validateVehicle, resolveVehiclePath, VEHICLE_FILE_NAME } from './vehicle/load.js';
@@ -205,6 +225,8 @@ export {
   imcPid,
   simc,
   dampingTarget,
+  amigo,
+  migo,
   fopdtByTwoPoints,
   designModelFromLumped,
   designModelFromSingleTrack,

@@ -17,12 +17,13 @@ export const LAYERS: Readonly<Record<string, number>> = {
   loops: 4,
   verify: 5,
   tuning: 6,
-  schedule: 7,
-  robust: 8,
-  export: 9,
-  compare: 9,
-  build: 10,
-  cli: 11,
+  performance: 7,
+  schedule: 8,
+  robust: 9,
+  export: 10,
+  compare: 10,
+  build: 11,
+  cli: 12,
 };
 
 function sourceFiles(folder: string): string[] {

@@ -6,6 +6,11 @@
  */
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
+import { fastestPassing, freeParameterOf, limitsWithRoom } from './fastest-passing.js';
+import { makeBreakpointEvaluator, type BreakpointEvaluation } from './breakpoint-evaluation.js';
+import type { BreakpointExtras } from '../schedule/schedule-file.js';
+import type { ScheduleSearchAt } from '../schedule/schedule-types.js';
+import type { RuleParameters } from '../tuning/types.js';
 import { SpeedbandError } from '../core/errors.js';
 import { sha256Hex } from '../core/files.js';
 import type { IdentifyOptions } from '../identify/defaults.js';
@@ -67,6 +72,8 @@ export interface BuildResult {
   readonly tuned: readonly TunedOperatingPoint[];
   /** Breakpoints outside the tested speeds: how far, and their gains against those at the nearest test speed. */
   readonly extrapolations: readonly Extrapolation[];
+  /** At each final breakpoint: margins, time-domain figures and the limits broken. */
+  readonly evaluations: readonly BreakpointEvaluation[];
   /** With the plan's variations: the robust check of the final table and its record in the schedule. */
   readonly robust?: RobustScheduleCheck;
 }
@@ -84,7 +91,12 @@ function atSpeed(error: unknown, speed_mps: number): unknown {
 /** Loop specification and controller settings of a plan, in the tuning and loop code's records. */
 export function planLoopAndController(plan: Plan): { loop: LoopSpecification; controller: ControllerSettings } {
   return {
-    loop: { kind: plan.loop.kind, preview_m: plan.loop.preview_m, referencePoint: plan.loop.referencePoint },
+    loop: {
+      kind: plan.loop.kind,
+      preview_m: plan.loop.preview_m,
+      ...(plan.loop.previewTime_s === 0 ? {} : { previewTime_s: plan.loop.previewTime_s }),
+      referencePoint: plan.loop.referencePoint,
+    },
     controller: {
       derivativeFilter: plan.controller.derivativeFilter,
       sampleTime_s: plan.controller.sampleTime_s,
@@ -131,36 +143,82 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const plan: Plan = checkModel.kind === resolved.check.model ? resolved : { ...resolved, check: { ...resolved.check, model: checkModel.kind } };
   const { loop, controller } = planLoopAndController(plan);
 
-  const tuneCache = new Map<number, TunedOperatingPoint>();
-  const tune = (speed_mps: number): TunedOperatingPoint => {
-    let tuned = tuneCache.get(speed_mps);
-    if (tuned === undefined) {
+  const searching = plan.rule.tuneFor === 'fastest-passing';
+  if (searching) {
+    const free = freeParameterOf(plan.rule.name);
+    for (const name of [free.name, ...free.alsoSetBy]) {
+      if (plan.rule.parameters[name as keyof typeof plan.rule.parameters] !== undefined) {
+        throw new SpeedbandError('plan.invalid', `rule.parameters.${name} is given, but "tuneFor": "fastest-passing" searches ${free.name} at every breakpoint — remove one of them`, {
+          location: { file: input.planFile, jsonPath: `/rule/parameters/${name}` },
+        });
+      }
+    }
+  }
+  const analyse = makeLoopAnalysis(checkModel, loop, controller);
+  const thresholds = planThresholds(plan);
+  const evaluatorInput = {
+    model: checkModel,
+    loop,
+    controller,
+    thresholds,
+    limits: plan.acceptance,
+    vehicleLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
+    antiWindup: plan.controller.antiWindup,
+    analyse,
+  };
+  const evaluate = makeBreakpointEvaluator(evaluatorInput);
+  const roomy = limitsWithRoom(thresholds, plan.acceptance);
+  const evaluateWithRoom = makeBreakpointEvaluator({ ...evaluatorInput, ...roomy, skipFiguresWhenMarginsFail: true });
+  type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
+  const tuneCache = new Map<number, Tuned>();
+  const tuneWith = (speed_mps: number, ruleParameters: RuleParameters, startGains?: PidGains): TunedOperatingPoint =>
+    tuneOperatingPoint({ loop, speed_mps, model: checkModel.modelAt(speed_mps), rule: plan.rule.name, ruleParameters, controller, ...(startGains === undefined ? {} : { startGains }) });
+  const tune = (speed_mps: number): Tuned => {
+    let entry = tuneCache.get(speed_mps);
+    if (entry === undefined) {
       requireBoundedDelay(modelDelay_s(checkModel.modelAt(speed_mps)), controller, speed_mps);
       try {
-        tuned = tuneOperatingPoint({
-          loop,
-          speed_mps,
-          model: checkModel.modelAt(speed_mps),
-          rule: plan.rule.name,
-          ruleParameters: ruleParametersAt(speed_mps),
-          controller,
-        });
+        if (searching) {
+          const found = fastestPassing({
+            rule: plan.rule.name,
+            speed_mps,
+            parameters: ruleParametersAt(speed_mps),
+            tune: (parameters, startGains) => tuneWith(speed_mps, parameters, startGains),
+            evaluate: (gains) => evaluateWithRoom(speed_mps, gains),
+            sensitivityLimits: { sensitivity: roomy.thresholds.maximumSensitivityPeak, complementary: roomy.thresholds.maximumComplementarySensitivityPeak },
+            phaseMarginLimit_deg: roomy.thresholds.minimumPhaseMargin_deg,
+          });
+          entry = { tuned: found.tuned, evaluation: found.evaluation, search: found.record };
+        } else {
+          entry = { tuned: tuneWith(speed_mps, ruleParametersAt(speed_mps)), evaluation: null, search: null };
+        }
       } catch (error) {
         throw atSpeed(error, speed_mps);
       }
-      tuneCache.set(speed_mps, tuned);
+      tuneCache.set(speed_mps, entry);
     }
-    return tuned;
+    return entry;
   };
-  const tuneAt = (speed_mps: number): PidGains => tune(speed_mps).gains;
+  const tuneAt = (speed_mps: number): PidGains => tune(speed_mps).tuned.gains;
   const onProgress: ProgressCallback = (event) => {
     if (event.done === event.total || event.done % 50 === 0) {
       progress(`${event.stage}: ${event.done}/${event.total} speeds${event.note === undefined ? '' : ` — ${event.note}`}\n`);
     }
   };
-  progress(`tune and check: ${plan.rule.name} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
-  const refinement = scheduleGains({ plan, tuneAt, analyse: makeLoopAnalysis(checkModel, loop, controller), onProgress });
-  const tuned = refinement.table.speeds_mps.map((speed) => tune(speed));
+  progress(`tune and check: ${plan.rule.name}${searching ? ' (fastest passing)' : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
+  const refinement = scheduleGains({ plan, tuneAt, analyse, onProgress });
+  const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
+  const tuned = entries.map((entry) => entry.tuned);
+  const evaluations = refinement.table.speeds_mps.map((speed, k) => evaluate(speed, refinement.table.gains[k]));
+  const breakpointExtras: BreakpointExtras[] = evaluations.map((evaluation) => ({
+    setpointWeightProportional: evaluation.performance?.setpointWeights.proportional ?? 1,
+    setpointWeightDerivative: evaluation.performance?.setpointWeights.derivative ?? 0,
+    feedForward: evaluation.performanceLoop.feedForward.gain,
+    feedForwardLeadTime_s: evaluation.performanceLoop.feedForward.leadTime_s,
+    timeDomain: evaluation.performance?.figures ?? null,
+    timeDomainFailures: evaluation.performance === null ? ['closed loop not stable: no time-domain figures'] : evaluation.performance.failures,
+  }));
+  const searchAtBreakpoints = searching ? entries.map((entry) => entry.search as ScheduleSearchAt) : undefined;
   const robust =
     plan.variations === undefined
       ? undefined
@@ -182,18 +240,26 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
     check: refinement.check,
     insertions: refinement.insertions,
     integratorClamp_rad: vehicle.maxSteerAngle_rad,
+    maxSteerRate_radps: vehicle.maxSteerRate_radps,
     inputs,
     modelSummary: checkModel.summary as unknown as Readonly<Record<string, unknown>>,
     modelDescription: checkModel.description,
     ruleCitation: tuned[0]?.derivation.citation,
-    // The rule's parameters as resolved at each breakpoint (tables and expressions evaluated), when the plan gives any.
-    ...(Object.keys(plan.rule.parameters).length === 0
+    // The rule's parameters as resolved at each breakpoint (tables and expressions evaluated, the searched one included).
+    ...(Object.keys(plan.rule.parameters).length === 0 && searchAtBreakpoints === undefined
       ? {}
-      : { ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps) => ({ speed_mps, parameters: { ...ruleParametersAt(speed_mps) } })) }),
+      : {
+          ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps, k) => ({
+            speed_mps,
+            parameters: { ...ruleParametersAt(speed_mps), ...(searchAtBreakpoints === undefined ? {} : { [searchAtBreakpoints[k].parameter]: searchAtBreakpoints[k].value }) },
+          })),
+        }),
+    breakpointExtras,
+    ...(searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints }),
     ...(robust === undefined ? {} : { variations: robust.record }),
   });
   const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
-  return { schedule, models, plan, checkModel, refinement, tuned, extrapolations, ...(robust === undefined ? {} : { robust }) };
+  return { schedule, models, plan, checkModel, refinement, tuned, evaluations, extrapolations, ...(robust === undefined ? {} : { robust }) };
 }
 
 interface OverVariationsInput {

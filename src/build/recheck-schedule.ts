@@ -35,6 +35,7 @@ export function scheduleLoopAndController(schedule: ScheduleFile): { loop: LoopS
     loop: {
       kind: schedule.loop.kind,
       ...(schedule.loop.preview_m === undefined ? {} : { preview_m: schedule.loop.preview_m }),
+      ...(schedule.loop.previewTime_s === undefined ? {} : { previewTime_s: schedule.loop.previewTime_s }),
       ...(schedule.loop.referencePoint === undefined ? {} : { referencePoint: schedule.loop.referencePoint }),
     },
     controller: {

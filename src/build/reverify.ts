@@ -1,7 +1,8 @@
 /**
  * The supported path for a deliberate hand edit of a schedule (`speedband reverify`): the edited file
  * (its checksum no longer matches) is re-checked densely — its own gains, lookup, loop, controller,
- * range and thresholds, on a vehicle model — and only when that passes is it given back with the
+ * range and thresholds, on a vehicle model — and its time-domain figures recomputed at its breakpoints
+ * (its own gains, set-point weights, feed-forward and limits); only when both pass is it given back with the
  * figures of this check (status, breakpoint margins, worst margins), its texts regenerated from its
  * numbers (loop error, controller equations, interpolation, units, cautions), a record in
  * `provenance.handEdits` saying it was edited by hand and re-verified (which sections had changed,
@@ -12,21 +13,25 @@
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
 import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
-import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';
+import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, feedForwardText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';
+import { breakpointPerformance } from '../performance/breakpoint-performance.js';
+import { performanceLoopAt } from '../performance/loop-at-speed.js';
 import type { HandEditRecord, ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import { VERSION } from '../version.js';
 import { acceptancePassed } from '../schedule/schedule-variations.js';
 import type { CheckModel } from './check-model.js';
 import type { RobustScheduleCheck } from './robust-schedule-check.js';
-import { recheckSchedule } from './recheck-schedule.js';
+import { recheckSchedule, scheduleLoopAndController } from './recheck-schedule.js';
 
 export interface ReverifyResult {
   /** The dense check of the edited schedule. */
   readonly check: DenseCheckResult;
   /** The worst case over the variations it records (null when it records none). */
   readonly variations: RobustScheduleCheck | null;
-  /** Whether it passed: the dense check and, under robust acceptance, the worst case. */
+  /** The time-domain limits the edited schedule breaks at its breakpoints, in words (empty: none). */
+  readonly timeDomainFailures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
+  /** Whether it passed: the dense check and time-domain limits kept and, under robust acceptance, the worst case. */
   readonly passed: boolean;
   /** What had changed against the checksum the file carried, in words (empty: nothing). */
   readonly changes: readonly string[];
@@ -52,13 +57,31 @@ export function reverifySchedule(
   const check = recheckSchedule({ schedule: edited, model });
   const robust = options.variations ?? null;
   if (edited.variations !== undefined && robust === null) throw new Error('internal: a schedule with variations is re-verified with their worst case (recheckOverVariations)');
-  const passed = acceptancePassed(check.passed, robust?.record);
-  if (!passed) return { check, variations: robust, passed, changes: verdict.changes, schedule: null };
-  const margins = edited.breakpoints.map((row) => {
+  if (!acceptancePassed(check.passed, robust?.record)) return { check, variations: robust, timeDomainFailures: [], passed: false, changes: verdict.changes, schedule: null };
+  const points = edited.breakpoints.map((row) => {
     const point = check.points.find((candidate) => candidate.speed_mps === row.speed_mps);
     if (point === undefined) throw new Error(`breakpoint ${row.speed_mps} m/s missing from the check grid`);
-    return breakpointMargins(point.margins);
+    return point;
   });
+  const margins = points.map((point) => breakpointMargins(point.margins));
+  // The time-domain figures of the edited gains, set-point weights and feed-forward, against the schedule's own limits.
+  const { loop: specification, controller: settings } = scheduleLoopAndController(edited);
+  const figures = edited.breakpoints.map((row, k) => {
+    const atSpeed = performanceLoopAt(model.modelAt(row.speed_mps), specification, row.speed_mps, settings);
+    return breakpointPerformance({
+      loop: { ...atSpeed, feedForward: { ...atSpeed.feedForward, gain: row.feedForward, leadTime_s: row.feedForwardLeadTime_s } },
+      gains: { kp: row.kp, ki: row.ki, kd: row.kd },
+      limits: edited.check.timeDomain.limits,
+      vehicleLimits: edited.check.timeDomain.steeringLimits,
+      slowestTimeConstant_s: points[k].margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
+      setpointWeights: { proportional: row.setpointWeightProportional, derivative: row.setpointWeightDerivative },
+      antiWindup: edited.controller.antiWindup,
+    });
+  });
+  const timeDomainFailures = edited.breakpoints
+    .map((row, k) => ({ speed_mps: row.speed_mps, messages: figures[k].failures }))
+    .filter((entry) => entry.messages.length > 0);
+  if (timeDomainFailures.length > 0) return { check, variations: robust, timeDomainFailures, passed: false, changes: verdict.changes, schedule: null };
   const record: HandEditRecord = {
     statement:
       verdict.sections.length > 0
@@ -73,11 +96,17 @@ export function reverifySchedule(
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> & { checksum?: unknown } = {
     ...edited,
     status: 'passed',
-    loop: { ...loop, error: loopErrorText(loop.kind, loop.preview_m ?? 0, loop.referencePoint ?? 'cg') },
-    controller: { ...controller, equation: CONTROLLER_EQUATION, update: controllerUpdateText(controller.discretisation), integration: INTEGRATION_TEXT },
+    loop: { ...loop, error: loopErrorText(loop.kind, loop.preview_m ?? 0, loop.referencePoint ?? 'cg', loop.previewTime_s ?? 0) },
+    controller: {
+      ...controller,
+      equation: CONTROLLER_EQUATION,
+      feedForward: feedForwardText(loop.kind),
+      update: controllerUpdateText(controller.discretisation, controller.antiWindup),
+      integration: INTEGRATION_TEXT,
+    },
     interpolation: { ...interpolation, description: interpolationText(interpolation.method, interpolation.lowSpeedFloor_mps) },
     units: gainUnits(loop.kind),
-    breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k] })),
+    breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k], timeDomain: figures[k].figures })),
     ...(robust === null ? {} : { variations: robust.record }),
     check: {
       ...edited.check,
@@ -87,6 +116,7 @@ export function reverifySchedule(
       worst: recordedWorst(check.worst),
       failedSpeeds: 0,
       failures: check.points.filter((point) => point.failures.length > 0).slice(0, LISTED_FAILURES).map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((f) => f.message) })),
+      timeDomain: { ...edited.check.timeDomain, passed: true, failures: [] },
     },
     provenance: {
       ...edited.provenance,
@@ -96,5 +126,5 @@ export function reverifySchedule(
     cautions: [...SAFETY_CAUTIONS],
   };
   delete withoutChecksum.checksum;
-  return { check, variations: robust, passed, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
+  return { check, variations: robust, timeDomainFailures: [], passed: true, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
 }

@@ -8,7 +8,7 @@ import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { BreakpointMargins, ScheduleFile } from '../schedule/schedule-types.js';
 import type { AcceptanceThresholds, CheckCriterion, DenseCheckResult, WorstMargins } from '../schedule/types.js';
 import { judgeMargins } from '../schedule/dense-check.js';
-import { modelWords } from '../schedule/schedule-text.js';
+import { modelWords, previewText } from '../schedule/schedule-text.js';
 import type { LoopMargins } from '../verify/types.js';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 
@@ -22,6 +22,7 @@ export function formatWorstMargins(worst: WorstMargins): string[] {
     entry('phase margin (smallest)', worst.phaseMargin_deg, 1, '°'),
     entry('delay margin (smallest)', worst.delayMargin_s, 4, 's'),
     entry('peak sensitivity Ms (largest)', worst.sensitivityPeak, 3, ''),
+    entry('peak complementary sensitivity Mt (largest)', worst.complementarySensitivityPeak, 3, ''),
   ];
 }
 
@@ -49,6 +50,7 @@ export const CRITERION_WORDS: Readonly<Record<CheckCriterion, string>> = {
   phaseMargin: 'PM',
   delayMargin: 'delay margin',
   sensitivityPeak: 'Ms',
+  complementarySensitivityPeak: 'Mt',
 };
 
 /** "pass", or "FAIL: PM, Ms": a breakpoint's margins against the schedule's limits (the verdict column says only whether the loop is stable). */
@@ -62,15 +64,15 @@ export function formatSchedule(schedule: ScheduleFile): string {
   const lines: string[] = [];
   const loop = schedule.loop;
   lines.push(
-    `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${loop.preview_m} m from the ${loop.referencePoint})` : ''}, ` +
-      `rule ${schedule.provenance.rule.name}, ${schedule.interpolation.method} interpolation`,
+    `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${previewText(loop.preview_m ?? 0, loop.previewTime_s ?? 0)} from the ${loop.referencePoint})` : ''}, ` +
+      `rule ${schedule.provenance.rule.name}${schedule.provenance.rule.tuneFor === 'fastest-passing' ? ' (fastest passing)' : ''}, ${schedule.interpolation.method} interpolation`,
   );
   lines.push(`  controller the gains assume: ${describeControllerSettings(schedule.controller)}`);
   lines.push(`  error: ${loop.error}`);
   lines.push(`  units: kp ${schedule.units.kp}; ki ${schedule.units.ki}; kd ${schedule.units.kd}`);
   lines.push(...formatRuleParameters(schedule));
   lines.push('');
-  const rows = [['speed m/s', 'kp', 'ki', 'kd', 'lower GM dB', 'upper GM dB', 'PM °', 'delay margin s', 'Ms', 'closed loop', 'limits', '']];
+  const rows = [['speed m/s', 'kp', 'ki', 'kd', 'lower GM dB', 'upper GM dB', 'PM °', 'delay margin s', 'Ms', 'Mt', 'closed loop', 'limits', '']];
   for (const breakpoint of schedule.breakpoints) {
     const m = breakpoint.margins;
     rows.push([
@@ -83,14 +85,17 @@ export function formatSchedule(schedule: ScheduleFile): string {
       fixedOrDash(m.phaseMargin_deg, 1),
       fixedOrDash(m.delayMargin_s, 4),
       fixedOrDash(m.sensitivityPeak, 3),
+      fixedOrDash(m.complementarySensitivityPeak, 3),
       m.verdict,
       limitsCell(m, schedule.check.thresholds),
       breakpoint.insertedByRefinement ? 'inserted' : '',
     ]);
   }
-  lines.push(...textTable(rows, [true, true, true, true, true, true, true, true, true, false, false, false]).map((line) => `  ${line}`));
+  lines.push(...textTable(rows, [true, true, true, true, true, true, true, true, true, true, false, false, false]).map((line) => `  ${line}`));
   lines.push('');
-  lines.push(...formatCheck(schedule.check.model.kind, schedule.check.passed, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
+  lines.push(...formatTimeDomain(schedule));
+  lines.push('');
+  lines.push(...formatCheck(schedule.check.model.kind, schedule.check.failedSpeeds === 0, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
   if (schedule.check.insertions.length > 0) {
     lines.push('', '  breakpoints inserted by refinement:');
     for (const insertion of schedule.check.insertions) lines.push(`    ${insertion.speed_mps.toFixed(2)} m/s: ${insertion.reason}`);
@@ -102,6 +107,52 @@ export function formatSchedule(schedule: ScheduleFile): string {
   return `${lines.join('\n')}\n`;
 }
 
+/**
+ * The time-domain figures per breakpoint (exact sampled linear closed loop): set-point weight b, feed-forward
+ * gain and lead time, reference-step overshoot and settling, disturbance recovery, lane change and curve
+ * entry (path), a step through the actuator's limits (heading, yaw rate), the largest reference within them.
+ */
+export function formatTimeDomain(schedule: ScheduleFile): string[] {
+  const path = schedule.loop.kind === 'path';
+  const head = ['speed m/s', 'b', `kff ${schedule.units.feedForward}`, 'T_ff s', 'overshoot %', 'settle s', 'misalign. s', 'force s'];
+  if (path) head.push('lane change m', 'curve m');
+  else head.push('limited step', 'settle s');
+  head.push(path ? 'largest lane change m' : 'largest step');
+  const rows = [head];
+  for (const breakpoint of schedule.breakpoints) {
+    const t = breakpoint.timeDomain;
+    const row = [
+      breakpoint.speed_mps.toFixed(2),
+      breakpoint.setpointWeightProportional.toFixed(2),
+      precisionOrDash(breakpoint.feedForward, 4),
+      fixedOrDash(breakpoint.feedForwardLeadTime_s, 2),
+      fixedOrDash(t?.referenceStep.overshoot_pct ?? null, 1),
+      fixedOrDash(t?.referenceStep.settlingTime_s ?? null, 2),
+      fixedOrDash(t?.steeringMisalignment.recoveryTime_s ?? null, 1),
+      fixedOrDash(t?.lateralForce?.recoveryTime_s ?? null, 1),
+    ];
+    if (path) row.push(fixedOrDash(t?.laneChange?.peakError_m ?? null, 3), fixedOrDash(t?.curveEntry?.errorAfterSettle_m ?? null, 3));
+    else row.push(t?.limitedStep == null ? '—' : `${Number(t.limitedStep.size.toPrecision(3))}: ${fixedOrDash(t.limitedStep.overshoot_pct, 1)} %`, fixedOrDash(t?.limitedStep?.settlingTime_s ?? null, 2));
+    row.push(t === null ? '—' : `${precisionOrDash(t.actuator.largestReference, 3)} (${t.actuator.limitedBy})`);
+    rows.push(row);
+  }
+  const l = schedule.check.timeDomain.limits;
+  const limits = [`overshoot ≤ ${l.maximumOvershoot_pct} %`, `misalignment and force removed to 5 % within ${l.maximumRecoveryTime_s} s`];
+  if (path) limits.push(`lane-change error ≤ ${l.maximumLaneChangeError_m} m`, `curve-entry error ≤ ${l.maximumCurveEntryError_m} m 3 s after entry`);
+  else limits.push('a step through the steering limits settles with the same overshoot limit');
+  const lines = [
+    `  time domain (exact sampled linear closed loop at each breakpoint; ${schedule.check.timeDomain.passed ? 'within every limit' : 'LIMITS BROKEN'}): ${limits.join('; ')}`,
+    ...textTable(rows, rows[0].map((_, i) => i !== 9 || path)).map((line) => `  ${line}`),
+  ];
+  for (const failure of schedule.check.timeDomain.failures.slice(0, 10)) lines.push(`    ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}`);
+  const searches = schedule.provenance.rule.searchAtBreakpoints ?? [];
+  if (searches.length > 0) {
+    lines.push('  fastest-passing search:');
+    for (const search of searches) lines.push(`    ${search.speed_mps.toFixed(2)} m/s: ${search.outcome}, ${search.reason}`);
+  }
+  return lines;
+}
+
 /** The dense check's verdict, its thresholds and worst figures. */
 export function formatCheck(modelKind: string, passed: boolean, gridSize: number, failedSpeeds: number, worst: WorstMargins, schedule: ScheduleFile): string[] {
   const t = schedule.check.thresholds;
@@ -109,7 +160,7 @@ export function formatCheck(modelKind: string, passed: boolean, gridSize: number
     `  dense check on the ${modelWords(modelKind)}, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
       (passed ? 'PASSED' : `FAILED at ${failedSpeeds} speeds`),
     `  limits: lower GM ≤ ${t.maximumLowerGainMargin_dB} dB, upper GM ≥ ${t.minimumUpperGainMargin_dB} dB, PM ≥ ${t.minimumPhaseMargin_deg}°, ` +
-      `Ms ≤ ${t.maximumSensitivityPeak}, delay margin ≥ ${t.minimumDelayMargin_s.toFixed(3)} s`,
+      `Ms ≤ ${t.maximumSensitivityPeak}, Mt ≤ ${t.maximumComplementarySensitivityPeak}, delay margin ≥ ${t.minimumDelayMargin_s.toFixed(3)} s`,
     '  worst over the grid:',
     ...formatWorstMargins(worst).map((line) => `  ${line}`),
   ];

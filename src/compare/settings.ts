@@ -21,6 +21,7 @@ interface SettingDefinition {
 const SETTINGS: readonly SettingDefinition[] = [
   { setting: 'loop.kind', read: (s) => s.loop.kind, breaksGainComparison: true },
   { setting: 'loop.preview_m', read: (s) => s.loop.preview_m ?? null, breaksGainComparison: true },
+  { setting: 'loop.previewTime_s', read: (s) => s.loop.previewTime_s ?? 0, breaksGainComparison: true },
   { setting: 'loop.referencePoint', read: (s) => s.loop.referencePoint ?? null, breaksGainComparison: true },
   { setting: 'controller.form', read: (s) => s.controller.form, breaksGainComparison: true },
   { setting: 'controller.sampleTime_s', read: (s) => s.controller.sampleTime_s, breaksGainComparison: true },
@@ -28,6 +29,7 @@ const SETTINGS: readonly SettingDefinition[] = [
   { setting: 'controller.derivativeFilter', read: (s) => s.controller.derivativeFilter, breaksGainComparison: false },
   { setting: 'controller.computationLatency_s', read: (s) => s.controller.computationLatency_s, breaksGainComparison: false },
   { setting: 'controller.integratorClamp_rad', read: (s) => s.controller.integratorClamp_rad, breaksGainComparison: false },
+  { setting: 'controller.antiWindup', read: (s) => s.controller.antiWindup, breaksGainComparison: false },
   { setting: 'interpolation.method', read: (s) => s.interpolation.method, breaksGainComparison: false },
   { setting: 'interpolation.lowSpeedFloor_mps', read: (s) => s.interpolation.lowSpeedFloor_mps, breaksGainComparison: false, speedLike: true },
 ];

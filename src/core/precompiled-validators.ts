@@ -5306,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance ahead of the reference point; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable)."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview distance is measured from; front-axle adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -5353,7 +5353,7 @@ if(data.loop !== undefined){
 let data2 = data.loop;
 if(data2 && typeof data2 == "object" && !Array.isArray(data2)){
 for(const key1 in data2){
-if(!(((key1 === "kind") || (key1 === "preview_m")) || (key1 === "referencePoint"))){
+if(!((((key1 === "kind") || (key1 === "preview_m")) || (key1 === "previewTime_s")) || (key1 === "referencePoint"))){
 const err3 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err3];
@@ -5402,10 +5402,11 @@ vErrors.push(err6);
 errors++;
 }
 }
-if(data2.referencePoint !== undefined){
-let data5 = data2.referencePoint;
-if(!((data5 === "cg") || (data5 === "front-axle"))){
-const err7 = {instancePath:instancePath+"/loop/referencePoint",schemaPath:"#/properties/loop/properties/referencePoint/enum",keyword:"enum",params:{allowedValues: schema10.properties.loop.properties.referencePoint.enum},message:"must be equal to one of the allowed values"};
+if(data2.previewTime_s !== undefined){
+let data5 = data2.previewTime_s;
+if((typeof data5 == "number") && (isFinite(data5))){
+if(data5 < 0 || isNaN(data5)){
+const err7 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err7];
 }
@@ -5415,9 +5416,8 @@ vErrors.push(err7);
 errors++;
 }
 }
-}
 else {
-const err8 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err8 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err8];
 }
@@ -5427,12 +5427,10 @@ vErrors.push(err8);
 errors++;
 }
 }
-if(data.rule !== undefined){
-let data6 = data.rule;
-if(data6 && typeof data6 == "object" && !Array.isArray(data6)){
-for(const key2 in data6){
-if(!((key2 === "name") || (key2 === "parameters"))){
-const err9 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key2},message:"must NOT have additional properties"};
+if(data2.referencePoint !== undefined){
+let data6 = data2.referencePoint;
+if(!((data6 === "cg") || (data6 === "front-axle"))){
+const err9 = {instancePath:instancePath+"/loop/referencePoint",schemaPath:"#/properties/loop/properties/referencePoint/enum",keyword:"enum",params:{allowedValues: schema10.properties.loop.properties.referencePoint.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err9];
 }
@@ -5442,10 +5440,9 @@ vErrors.push(err9);
 errors++;
 }
 }
-if(data6.name !== undefined){
-let data7 = data6.name;
-if(!(((((data7 === "ziegler-nichols-step") || (data7 === "ziegler-nichols-ultimate")) || (data7 === "imc-pid")) || (data7 === "simc")) || (data7 === "damping-target"))){
-const err10 = {instancePath:instancePath+"/rule/name",schemaPath:"#/properties/rule/properties/name/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.name.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err10 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err10];
 }
@@ -5455,12 +5452,12 @@ vErrors.push(err10);
 errors++;
 }
 }
-if(data6.parameters !== undefined){
-let data8 = data6.parameters;
-if(data8 && typeof data8 == "object" && !Array.isArray(data8)){
-for(const key3 in data8){
-if(!(((((((key3 === "controllerType") || (key3 === "closedLoopTimeConstant_s")) || (key3 === "simcClosedLoopTimeConstant_s")) || (key3 === "dampingRatio")) || (key3 === "naturalFrequency_radps")) || (key3 === "settlingDistance_m")) || (key3 === "integralPoleRatio"))){
-const err11 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
+if(data.rule !== undefined){
+let data7 = data.rule;
+if(data7 && typeof data7 == "object" && !Array.isArray(data7)){
+for(const key2 in data7){
+if(!(((key2 === "name") || (key2 === "tuneFor")) || (key2 === "parameters"))){
+const err11 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key2},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err11];
 }
@@ -5470,10 +5467,10 @@ vErrors.push(err11);
 errors++;
 }
 }
-if(data8.controllerType !== undefined){
-let data9 = data8.controllerType;
-if(!(((data9 === "P") || (data9 === "PI")) || (data9 === "PID"))){
-const err12 = {instancePath:instancePath+"/rule/parameters/controllerType",schemaPath:"#/properties/rule/properties/parameters/properties/controllerType/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.parameters.properties.controllerType.enum},message:"must be equal to one of the allowed values"};
+if(data7.name !== undefined){
+let data8 = data7.name;
+if(!(((((((data8 === "ziegler-nichols-step") || (data8 === "ziegler-nichols-ultimate")) || (data8 === "imc-pid")) || (data8 === "simc")) || (data8 === "damping-target")) || (data8 === "amigo")) || (data8 === "migo"))){
+const err12 = {instancePath:instancePath+"/rule/name",schemaPath:"#/properties/rule/properties/name/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.name.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err12];
 }
@@ -5483,15 +5480,10 @@ vErrors.push(err12);
 errors++;
 }
 }
-if(data8.closedLoopTimeConstant_s !== undefined){
-let data10 = data8.closedLoopTimeConstant_s;
-const _errs22 = errors;
-let valid4 = false;
-let passing0 = null;
-const _errs23 = errors;
-if((typeof data10 == "number") && (isFinite(data10))){
-if(data10 <= 0 || isNaN(data10)){
-const err13 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data7.tuneFor !== undefined){
+let data9 = data7.tuneFor;
+if(!((data9 === "rule-parameters") || (data9 === "fastest-passing"))){
+const err13 = {instancePath:instancePath+"/rule/tuneFor",schemaPath:"#/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err13];
 }
@@ -5501,8 +5493,12 @@ vErrors.push(err13);
 errors++;
 }
 }
-else {
-const err14 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data7.parameters !== undefined){
+let data10 = data7.parameters;
+if(data10 && typeof data10 == "object" && !Array.isArray(data10)){
+for(const key3 in data10){
+if(!(func18.call(schema10.properties.rule.properties.parameters.properties, key3))){
+const err14 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err14];
 }
@@ -5511,15 +5507,11 @@ vErrors.push(err14);
 }
 errors++;
 }
-var _valid0 = _errs23 === errors;
-if(_valid0){
-valid4 = true;
-passing0 = 0;
 }
-const _errs25 = errors;
-if(typeof data10 === "string"){
-if(func0(data10) < 1){
-const err15 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(data10.controllerType !== undefined){
+let data11 = data10.controllerType;
+if(!(((data11 === "P") || (data11 === "PI")) || (data11 === "PID"))){
+const err15 = {instancePath:instancePath+"/rule/parameters/controllerType",schemaPath:"#/properties/rule/properties/parameters/properties/controllerType/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.parameters.properties.controllerType.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -5529,8 +5521,15 @@ vErrors.push(err15);
 errors++;
 }
 }
-else {
-const err16 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data10.closedLoopTimeConstant_s !== undefined){
+let data12 = data10.closedLoopTimeConstant_s;
+const _errs25 = errors;
+let valid4 = false;
+let passing0 = null;
+const _errs26 = errors;
+if((typeof data12 == "number") && (isFinite(data12))){
+if(data12 <= 0 || isNaN(data12)){
+const err16 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err16];
 }
@@ -5539,7 +5538,46 @@ vErrors.push(err16);
 }
 errors++;
 }
-var _valid0 = _errs25 === errors;
+}
+else {
+const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+var _valid0 = _errs26 === errors;
+if(_valid0){
+valid4 = true;
+passing0 = 0;
+}
+const _errs28 = errors;
+if(typeof data12 === "string"){
+if(func0(data12) < 1){
+const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+else {
+const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err19];
+}
+else {
+vErrors.push(err19);
+}
+errors++;
+}
+var _valid0 = _errs28 === errors;
 if(_valid0 && valid4){
 valid4 = false;
 passing0 = [passing0, 1];
@@ -5549,45 +5587,10 @@ if(_valid0){
 valid4 = true;
 passing0 = 1;
 }
-const _errs27 = errors;
-if(data10 && typeof data10 == "object" && !Array.isArray(data10)){
-if(data10.speeds_mps === undefined){
-const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err17];
-}
-else {
-vErrors.push(err17);
-}
-errors++;
-}
-if(data10.values === undefined){
-const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err18];
-}
-else {
-vErrors.push(err18);
-}
-errors++;
-}
-for(const key4 in data10){
-if(!((key4 === "speeds_mps") || (key4 === "values"))){
-const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err19];
-}
-else {
-vErrors.push(err19);
-}
-errors++;
-}
-}
-if(data10.speeds_mps !== undefined){
-let data11 = data10.speeds_mps;
-if(Array.isArray(data11)){
-if(data11.length < 1){
-const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs30 = errors;
+if(data12 && typeof data12 == "object" && !Array.isArray(data12)){
+if(data12.speeds_mps === undefined){
+const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err20];
 }
@@ -5596,12 +5599,8 @@ vErrors.push(err20);
 }
 errors++;
 }
-const len0 = data11.length;
-for(let i0=0; i0<len0; i0++){
-let data12 = data11[i0];
-if((typeof data12 == "number") && (isFinite(data12))){
-if(data12 < 0 || isNaN(data12)){
-const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data12.values === undefined){
+const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err21];
 }
@@ -5610,9 +5609,9 @@ vErrors.push(err21);
 }
 errors++;
 }
-}
-else {
-const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key4 in data12){
+if(!((key4 === "speeds_mps") || (key4 === "values"))){
+const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err22];
 }
@@ -5622,9 +5621,11 @@ vErrors.push(err22);
 errors++;
 }
 }
-}
-else {
-const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data12.speeds_mps !== undefined){
+let data13 = data12.speeds_mps;
+if(Array.isArray(data13)){
+if(data13.length < 1){
+const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err23];
 }
@@ -5633,12 +5634,12 @@ vErrors.push(err23);
 }
 errors++;
 }
-}
-if(data10.values !== undefined){
-let data13 = data10.values;
-if(Array.isArray(data13)){
-if(data13.length < 1){
-const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len0 = data13.length;
+for(let i0=0; i0<len0; i0++){
+let data14 = data13[i0];
+if((typeof data14 == "number") && (isFinite(data14))){
+if(data14 < 0 || isNaN(data14)){
+const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err24];
 }
@@ -5647,12 +5648,9 @@ vErrors.push(err24);
 }
 errors++;
 }
-const len1 = data13.length;
-for(let i1=0; i1<len1; i1++){
-let data14 = data13[i1];
-if((typeof data14 == "number") && (isFinite(data14))){
-if(data14 <= 0 || isNaN(data14)){
-const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err25];
 }
@@ -5662,8 +5660,9 @@ vErrors.push(err25);
 errors++;
 }
 }
+}
 else {
-const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err26];
 }
@@ -5673,9 +5672,11 @@ vErrors.push(err26);
 errors++;
 }
 }
-}
-else {
-const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data12.values !== undefined){
+let data15 = data12.values;
+if(Array.isArray(data15)){
+if(data15.length < 1){
+const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err27];
 }
@@ -5684,10 +5685,12 @@ vErrors.push(err27);
 }
 errors++;
 }
-}
-}
-else {
-const err28 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len1 = data15.length;
+for(let i1=0; i1<len1; i1++){
+let data16 = data15[i1];
+if((typeof data16 == "number") && (isFinite(data16))){
+if(data16 <= 0 || isNaN(data16)){
+const err28 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err28];
 }
@@ -5696,7 +5699,42 @@ vErrors.push(err28);
 }
 errors++;
 }
-var _valid0 = _errs27 === errors;
+}
+else {
+const err29 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err29];
+}
+else {
+vErrors.push(err29);
+}
+errors++;
+}
+}
+}
+else {
+const err30 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err30];
+}
+else {
+vErrors.push(err30);
+}
+errors++;
+}
+}
+}
+else {
+const err31 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err31];
+}
+else {
+vErrors.push(err31);
+}
+errors++;
+}
+var _valid0 = _errs30 === errors;
 if(_valid0 && valid4){
 valid4 = false;
 passing0 = [passing0, 2];
@@ -5709,64 +5747,7 @@ passing0 = 2;
 }
 }
 if(!valid4){
-const err29 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err29];
-}
-else {
-vErrors.push(err29);
-}
-errors++;
-}
-else {
-errors = _errs22;
-if(vErrors !== null){
-if(_errs22){
-vErrors.length = _errs22;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.simcClosedLoopTimeConstant_s !== undefined){
-let data15 = data8.simcClosedLoopTimeConstant_s;
-const _errs39 = errors;
-let valid10 = false;
-let passing1 = null;
-const _errs40 = errors;
-if((typeof data15 == "number") && (isFinite(data15))){
-if(data15 <= 0 || isNaN(data15)){
-const err30 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err30];
-}
-else {
-vErrors.push(err30);
-}
-errors++;
-}
-}
-else {
-const err31 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err31];
-}
-else {
-vErrors.push(err31);
-}
-errors++;
-}
-var _valid1 = _errs40 === errors;
-if(_valid1){
-valid10 = true;
-passing1 = 0;
-}
-const _errs42 = errors;
-if(typeof data15 === "string"){
-if(func0(data15) < 1){
-const err32 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err32 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err32];
 }
@@ -5775,9 +5756,27 @@ vErrors.push(err32);
 }
 errors++;
 }
+else {
+errors = _errs25;
+if(vErrors !== null){
+if(_errs25){
+vErrors.length = _errs25;
 }
 else {
-const err33 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.simcClosedLoopTimeConstant_s !== undefined){
+let data17 = data10.simcClosedLoopTimeConstant_s;
+const _errs42 = errors;
+let valid10 = false;
+let passing1 = null;
+const _errs43 = errors;
+if((typeof data17 == "number") && (isFinite(data17))){
+if(data17 <= 0 || isNaN(data17)){
+const err33 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -5786,7 +5785,46 @@ vErrors.push(err33);
 }
 errors++;
 }
-var _valid1 = _errs42 === errors;
+}
+else {
+const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err34];
+}
+else {
+vErrors.push(err34);
+}
+errors++;
+}
+var _valid1 = _errs43 === errors;
+if(_valid1){
+valid10 = true;
+passing1 = 0;
+}
+const _errs45 = errors;
+if(typeof data17 === "string"){
+if(func0(data17) < 1){
+const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err35];
+}
+else {
+vErrors.push(err35);
+}
+errors++;
+}
+}
+else {
+const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err36];
+}
+else {
+vErrors.push(err36);
+}
+errors++;
+}
+var _valid1 = _errs45 === errors;
 if(_valid1 && valid10){
 valid10 = false;
 passing1 = [passing1, 1];
@@ -5796,45 +5834,10 @@ if(_valid1){
 valid10 = true;
 passing1 = 1;
 }
-const _errs44 = errors;
-if(data15 && typeof data15 == "object" && !Array.isArray(data15)){
-if(data15.speeds_mps === undefined){
-const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err34];
-}
-else {
-vErrors.push(err34);
-}
-errors++;
-}
-if(data15.values === undefined){
-const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err35];
-}
-else {
-vErrors.push(err35);
-}
-errors++;
-}
-for(const key5 in data15){
-if(!((key5 === "speeds_mps") || (key5 === "values"))){
-const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err36];
-}
-else {
-vErrors.push(err36);
-}
-errors++;
-}
-}
-if(data15.speeds_mps !== undefined){
-let data16 = data15.speeds_mps;
-if(Array.isArray(data16)){
-if(data16.length < 1){
-const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs47 = errors;
+if(data17 && typeof data17 == "object" && !Array.isArray(data17)){
+if(data17.speeds_mps === undefined){
+const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err37];
 }
@@ -5843,12 +5846,8 @@ vErrors.push(err37);
 }
 errors++;
 }
-const len2 = data16.length;
-for(let i2=0; i2<len2; i2++){
-let data17 = data16[i2];
-if((typeof data17 == "number") && (isFinite(data17))){
-if(data17 < 0 || isNaN(data17)){
-const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data17.values === undefined){
+const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err38];
 }
@@ -5857,9 +5856,9 @@ vErrors.push(err38);
 }
 errors++;
 }
-}
-else {
-const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key5 in data17){
+if(!((key5 === "speeds_mps") || (key5 === "values"))){
+const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err39];
 }
@@ -5869,9 +5868,11 @@ vErrors.push(err39);
 errors++;
 }
 }
-}
-else {
-const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data17.speeds_mps !== undefined){
+let data18 = data17.speeds_mps;
+if(Array.isArray(data18)){
+if(data18.length < 1){
+const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err40];
 }
@@ -5880,12 +5881,12 @@ vErrors.push(err40);
 }
 errors++;
 }
-}
-if(data15.values !== undefined){
-let data18 = data15.values;
-if(Array.isArray(data18)){
-if(data18.length < 1){
-const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len2 = data18.length;
+for(let i2=0; i2<len2; i2++){
+let data19 = data18[i2];
+if((typeof data19 == "number") && (isFinite(data19))){
+if(data19 < 0 || isNaN(data19)){
+const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err41];
 }
@@ -5894,12 +5895,9 @@ vErrors.push(err41);
 }
 errors++;
 }
-const len3 = data18.length;
-for(let i3=0; i3<len3; i3++){
-let data19 = data18[i3];
-if((typeof data19 == "number") && (isFinite(data19))){
-if(data19 <= 0 || isNaN(data19)){
-const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err42];
 }
@@ -5909,8 +5907,9 @@ vErrors.push(err42);
 errors++;
 }
 }
+}
 else {
-const err43 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err43 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err43];
 }
@@ -5920,9 +5919,11 @@ vErrors.push(err43);
 errors++;
 }
 }
-}
-else {
-const err44 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data17.values !== undefined){
+let data20 = data17.values;
+if(Array.isArray(data20)){
+if(data20.length < 1){
+const err44 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err44];
 }
@@ -5931,10 +5932,12 @@ vErrors.push(err44);
 }
 errors++;
 }
-}
-}
-else {
-const err45 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len3 = data20.length;
+for(let i3=0; i3<len3; i3++){
+let data21 = data20[i3];
+if((typeof data21 == "number") && (isFinite(data21))){
+if(data21 <= 0 || isNaN(data21)){
+const err45 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err45];
 }
@@ -5943,7 +5946,42 @@ vErrors.push(err45);
 }
 errors++;
 }
-var _valid1 = _errs44 === errors;
+}
+else {
+const err46 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err46];
+}
+else {
+vErrors.push(err46);
+}
+errors++;
+}
+}
+}
+else {
+const err47 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err47];
+}
+else {
+vErrors.push(err47);
+}
+errors++;
+}
+}
+}
+else {
+const err48 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err48];
+}
+else {
+vErrors.push(err48);
+}
+errors++;
+}
+var _valid1 = _errs47 === errors;
 if(_valid1 && valid10){
 valid10 = false;
 passing1 = [passing1, 2];
@@ -5956,64 +5994,7 @@ passing1 = 2;
 }
 }
 if(!valid10){
-const err46 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err46];
-}
-else {
-vErrors.push(err46);
-}
-errors++;
-}
-else {
-errors = _errs39;
-if(vErrors !== null){
-if(_errs39){
-vErrors.length = _errs39;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.dampingRatio !== undefined){
-let data20 = data8.dampingRatio;
-const _errs56 = errors;
-let valid16 = false;
-let passing2 = null;
-const _errs57 = errors;
-if((typeof data20 == "number") && (isFinite(data20))){
-if(data20 <= 0 || isNaN(data20)){
-const err47 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err47];
-}
-else {
-vErrors.push(err47);
-}
-errors++;
-}
-}
-else {
-const err48 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err48];
-}
-else {
-vErrors.push(err48);
-}
-errors++;
-}
-var _valid2 = _errs57 === errors;
-if(_valid2){
-valid16 = true;
-passing2 = 0;
-}
-const _errs59 = errors;
-if(typeof data20 === "string"){
-if(func0(data20) < 1){
-const err49 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err49 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err49];
 }
@@ -6022,9 +6003,27 @@ vErrors.push(err49);
 }
 errors++;
 }
+else {
+errors = _errs42;
+if(vErrors !== null){
+if(_errs42){
+vErrors.length = _errs42;
 }
 else {
-const err50 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.dampingRatio !== undefined){
+let data22 = data10.dampingRatio;
+const _errs59 = errors;
+let valid16 = false;
+let passing2 = null;
+const _errs60 = errors;
+if((typeof data22 == "number") && (isFinite(data22))){
+if(data22 <= 0 || isNaN(data22)){
+const err50 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err50];
 }
@@ -6033,7 +6032,46 @@ vErrors.push(err50);
 }
 errors++;
 }
-var _valid2 = _errs59 === errors;
+}
+else {
+const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err51];
+}
+else {
+vErrors.push(err51);
+}
+errors++;
+}
+var _valid2 = _errs60 === errors;
+if(_valid2){
+valid16 = true;
+passing2 = 0;
+}
+const _errs62 = errors;
+if(typeof data22 === "string"){
+if(func0(data22) < 1){
+const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err52];
+}
+else {
+vErrors.push(err52);
+}
+errors++;
+}
+}
+else {
+const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err53];
+}
+else {
+vErrors.push(err53);
+}
+errors++;
+}
+var _valid2 = _errs62 === errors;
 if(_valid2 && valid16){
 valid16 = false;
 passing2 = [passing2, 1];
@@ -6043,45 +6081,10 @@ if(_valid2){
 valid16 = true;
 passing2 = 1;
 }
-const _errs61 = errors;
-if(data20 && typeof data20 == "object" && !Array.isArray(data20)){
-if(data20.speeds_mps === undefined){
-const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err51];
-}
-else {
-vErrors.push(err51);
-}
-errors++;
-}
-if(data20.values === undefined){
-const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err52];
-}
-else {
-vErrors.push(err52);
-}
-errors++;
-}
-for(const key6 in data20){
-if(!((key6 === "speeds_mps") || (key6 === "values"))){
-const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err53];
-}
-else {
-vErrors.push(err53);
-}
-errors++;
-}
-}
-if(data20.speeds_mps !== undefined){
-let data21 = data20.speeds_mps;
-if(Array.isArray(data21)){
-if(data21.length < 1){
-const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs64 = errors;
+if(data22 && typeof data22 == "object" && !Array.isArray(data22)){
+if(data22.speeds_mps === undefined){
+const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err54];
 }
@@ -6090,12 +6093,8 @@ vErrors.push(err54);
 }
 errors++;
 }
-const len4 = data21.length;
-for(let i4=0; i4<len4; i4++){
-let data22 = data21[i4];
-if((typeof data22 == "number") && (isFinite(data22))){
-if(data22 < 0 || isNaN(data22)){
-const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data22.values === undefined){
+const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err55];
 }
@@ -6104,9 +6103,9 @@ vErrors.push(err55);
 }
 errors++;
 }
-}
-else {
-const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key6 in data22){
+if(!((key6 === "speeds_mps") || (key6 === "values"))){
+const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err56];
 }
@@ -6116,9 +6115,11 @@ vErrors.push(err56);
 errors++;
 }
 }
-}
-else {
-const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data22.speeds_mps !== undefined){
+let data23 = data22.speeds_mps;
+if(Array.isArray(data23)){
+if(data23.length < 1){
+const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err57];
 }
@@ -6127,12 +6128,12 @@ vErrors.push(err57);
 }
 errors++;
 }
-}
-if(data20.values !== undefined){
-let data23 = data20.values;
-if(Array.isArray(data23)){
-if(data23.length < 1){
-const err58 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len4 = data23.length;
+for(let i4=0; i4<len4; i4++){
+let data24 = data23[i4];
+if((typeof data24 == "number") && (isFinite(data24))){
+if(data24 < 0 || isNaN(data24)){
+const err58 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err58];
 }
@@ -6141,12 +6142,9 @@ vErrors.push(err58);
 }
 errors++;
 }
-const len5 = data23.length;
-for(let i5=0; i5<len5; i5++){
-let data24 = data23[i5];
-if((typeof data24 == "number") && (isFinite(data24))){
-if(data24 <= 0 || isNaN(data24)){
-const err59 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err59 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err59];
 }
@@ -6156,8 +6154,9 @@ vErrors.push(err59);
 errors++;
 }
 }
+}
 else {
-const err60 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err60 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err60];
 }
@@ -6167,9 +6166,11 @@ vErrors.push(err60);
 errors++;
 }
 }
-}
-else {
-const err61 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data22.values !== undefined){
+let data25 = data22.values;
+if(Array.isArray(data25)){
+if(data25.length < 1){
+const err61 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err61];
 }
@@ -6178,10 +6179,12 @@ vErrors.push(err61);
 }
 errors++;
 }
-}
-}
-else {
-const err62 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len5 = data25.length;
+for(let i5=0; i5<len5; i5++){
+let data26 = data25[i5];
+if((typeof data26 == "number") && (isFinite(data26))){
+if(data26 <= 0 || isNaN(data26)){
+const err62 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err62];
 }
@@ -6190,7 +6193,42 @@ vErrors.push(err62);
 }
 errors++;
 }
-var _valid2 = _errs61 === errors;
+}
+else {
+const err63 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err63];
+}
+else {
+vErrors.push(err63);
+}
+errors++;
+}
+}
+}
+else {
+const err64 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err64];
+}
+else {
+vErrors.push(err64);
+}
+errors++;
+}
+}
+}
+else {
+const err65 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err65];
+}
+else {
+vErrors.push(err65);
+}
+errors++;
+}
+var _valid2 = _errs64 === errors;
 if(_valid2 && valid16){
 valid16 = false;
 passing2 = [passing2, 2];
@@ -6203,64 +6241,7 @@ passing2 = 2;
 }
 }
 if(!valid16){
-const err63 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err63];
-}
-else {
-vErrors.push(err63);
-}
-errors++;
-}
-else {
-errors = _errs56;
-if(vErrors !== null){
-if(_errs56){
-vErrors.length = _errs56;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.naturalFrequency_radps !== undefined){
-let data25 = data8.naturalFrequency_radps;
-const _errs73 = errors;
-let valid22 = false;
-let passing3 = null;
-const _errs74 = errors;
-if((typeof data25 == "number") && (isFinite(data25))){
-if(data25 <= 0 || isNaN(data25)){
-const err64 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err64];
-}
-else {
-vErrors.push(err64);
-}
-errors++;
-}
-}
-else {
-const err65 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err65];
-}
-else {
-vErrors.push(err65);
-}
-errors++;
-}
-var _valid3 = _errs74 === errors;
-if(_valid3){
-valid22 = true;
-passing3 = 0;
-}
-const _errs76 = errors;
-if(typeof data25 === "string"){
-if(func0(data25) < 1){
-const err66 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err66 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err66];
 }
@@ -6269,9 +6250,27 @@ vErrors.push(err66);
 }
 errors++;
 }
+else {
+errors = _errs59;
+if(vErrors !== null){
+if(_errs59){
+vErrors.length = _errs59;
 }
 else {
-const err67 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.naturalFrequency_radps !== undefined){
+let data27 = data10.naturalFrequency_radps;
+const _errs76 = errors;
+let valid22 = false;
+let passing3 = null;
+const _errs77 = errors;
+if((typeof data27 == "number") && (isFinite(data27))){
+if(data27 <= 0 || isNaN(data27)){
+const err67 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err67];
 }
@@ -6280,7 +6279,46 @@ vErrors.push(err67);
 }
 errors++;
 }
-var _valid3 = _errs76 === errors;
+}
+else {
+const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err68];
+}
+else {
+vErrors.push(err68);
+}
+errors++;
+}
+var _valid3 = _errs77 === errors;
+if(_valid3){
+valid22 = true;
+passing3 = 0;
+}
+const _errs79 = errors;
+if(typeof data27 === "string"){
+if(func0(data27) < 1){
+const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err69];
+}
+else {
+vErrors.push(err69);
+}
+errors++;
+}
+}
+else {
+const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err70];
+}
+else {
+vErrors.push(err70);
+}
+errors++;
+}
+var _valid3 = _errs79 === errors;
 if(_valid3 && valid22){
 valid22 = false;
 passing3 = [passing3, 1];
@@ -6290,45 +6328,10 @@ if(_valid3){
 valid22 = true;
 passing3 = 1;
 }
-const _errs78 = errors;
-if(data25 && typeof data25 == "object" && !Array.isArray(data25)){
-if(data25.speeds_mps === undefined){
-const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err68];
-}
-else {
-vErrors.push(err68);
-}
-errors++;
-}
-if(data25.values === undefined){
-const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err69];
-}
-else {
-vErrors.push(err69);
-}
-errors++;
-}
-for(const key7 in data25){
-if(!((key7 === "speeds_mps") || (key7 === "values"))){
-const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err70];
-}
-else {
-vErrors.push(err70);
-}
-errors++;
-}
-}
-if(data25.speeds_mps !== undefined){
-let data26 = data25.speeds_mps;
-if(Array.isArray(data26)){
-if(data26.length < 1){
-const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs81 = errors;
+if(data27 && typeof data27 == "object" && !Array.isArray(data27)){
+if(data27.speeds_mps === undefined){
+const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err71];
 }
@@ -6337,12 +6340,8 @@ vErrors.push(err71);
 }
 errors++;
 }
-const len6 = data26.length;
-for(let i6=0; i6<len6; i6++){
-let data27 = data26[i6];
-if((typeof data27 == "number") && (isFinite(data27))){
-if(data27 < 0 || isNaN(data27)){
-const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data27.values === undefined){
+const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err72];
 }
@@ -6351,9 +6350,9 @@ vErrors.push(err72);
 }
 errors++;
 }
-}
-else {
-const err73 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key7 in data27){
+if(!((key7 === "speeds_mps") || (key7 === "values"))){
+const err73 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err73];
 }
@@ -6363,9 +6362,11 @@ vErrors.push(err73);
 errors++;
 }
 }
-}
-else {
-const err74 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data27.speeds_mps !== undefined){
+let data28 = data27.speeds_mps;
+if(Array.isArray(data28)){
+if(data28.length < 1){
+const err74 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err74];
 }
@@ -6374,12 +6375,12 @@ vErrors.push(err74);
 }
 errors++;
 }
-}
-if(data25.values !== undefined){
-let data28 = data25.values;
-if(Array.isArray(data28)){
-if(data28.length < 1){
-const err75 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len6 = data28.length;
+for(let i6=0; i6<len6; i6++){
+let data29 = data28[i6];
+if((typeof data29 == "number") && (isFinite(data29))){
+if(data29 < 0 || isNaN(data29)){
+const err75 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err75];
 }
@@ -6388,12 +6389,9 @@ vErrors.push(err75);
 }
 errors++;
 }
-const len7 = data28.length;
-for(let i7=0; i7<len7; i7++){
-let data29 = data28[i7];
-if((typeof data29 == "number") && (isFinite(data29))){
-if(data29 <= 0 || isNaN(data29)){
-const err76 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err76 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err76];
 }
@@ -6403,8 +6401,9 @@ vErrors.push(err76);
 errors++;
 }
 }
+}
 else {
-const err77 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err77 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err77];
 }
@@ -6414,9 +6413,11 @@ vErrors.push(err77);
 errors++;
 }
 }
-}
-else {
-const err78 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data27.values !== undefined){
+let data30 = data27.values;
+if(Array.isArray(data30)){
+if(data30.length < 1){
+const err78 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err78];
 }
@@ -6425,10 +6426,12 @@ vErrors.push(err78);
 }
 errors++;
 }
-}
-}
-else {
-const err79 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len7 = data30.length;
+for(let i7=0; i7<len7; i7++){
+let data31 = data30[i7];
+if((typeof data31 == "number") && (isFinite(data31))){
+if(data31 <= 0 || isNaN(data31)){
+const err79 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err79];
 }
@@ -6437,7 +6440,42 @@ vErrors.push(err79);
 }
 errors++;
 }
-var _valid3 = _errs78 === errors;
+}
+else {
+const err80 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err80];
+}
+else {
+vErrors.push(err80);
+}
+errors++;
+}
+}
+}
+else {
+const err81 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err81];
+}
+else {
+vErrors.push(err81);
+}
+errors++;
+}
+}
+}
+else {
+const err82 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err82];
+}
+else {
+vErrors.push(err82);
+}
+errors++;
+}
+var _valid3 = _errs81 === errors;
 if(_valid3 && valid22){
 valid22 = false;
 passing3 = [passing3, 2];
@@ -6450,64 +6488,7 @@ passing3 = 2;
 }
 }
 if(!valid22){
-const err80 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err80];
-}
-else {
-vErrors.push(err80);
-}
-errors++;
-}
-else {
-errors = _errs73;
-if(vErrors !== null){
-if(_errs73){
-vErrors.length = _errs73;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.settlingDistance_m !== undefined){
-let data30 = data8.settlingDistance_m;
-const _errs90 = errors;
-let valid28 = false;
-let passing4 = null;
-const _errs91 = errors;
-if((typeof data30 == "number") && (isFinite(data30))){
-if(data30 <= 0 || isNaN(data30)){
-const err81 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err81];
-}
-else {
-vErrors.push(err81);
-}
-errors++;
-}
-}
-else {
-const err82 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err82];
-}
-else {
-vErrors.push(err82);
-}
-errors++;
-}
-var _valid4 = _errs91 === errors;
-if(_valid4){
-valid28 = true;
-passing4 = 0;
-}
-const _errs93 = errors;
-if(typeof data30 === "string"){
-if(func0(data30) < 1){
-const err83 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err83 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err83];
 }
@@ -6516,9 +6497,27 @@ vErrors.push(err83);
 }
 errors++;
 }
+else {
+errors = _errs76;
+if(vErrors !== null){
+if(_errs76){
+vErrors.length = _errs76;
 }
 else {
-const err84 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.settlingDistance_m !== undefined){
+let data32 = data10.settlingDistance_m;
+const _errs93 = errors;
+let valid28 = false;
+let passing4 = null;
+const _errs94 = errors;
+if((typeof data32 == "number") && (isFinite(data32))){
+if(data32 <= 0 || isNaN(data32)){
+const err84 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err84];
 }
@@ -6527,7 +6526,46 @@ vErrors.push(err84);
 }
 errors++;
 }
-var _valid4 = _errs93 === errors;
+}
+else {
+const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err85];
+}
+else {
+vErrors.push(err85);
+}
+errors++;
+}
+var _valid4 = _errs94 === errors;
+if(_valid4){
+valid28 = true;
+passing4 = 0;
+}
+const _errs96 = errors;
+if(typeof data32 === "string"){
+if(func0(data32) < 1){
+const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err86];
+}
+else {
+vErrors.push(err86);
+}
+errors++;
+}
+}
+else {
+const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err87];
+}
+else {
+vErrors.push(err87);
+}
+errors++;
+}
+var _valid4 = _errs96 === errors;
 if(_valid4 && valid28){
 valid28 = false;
 passing4 = [passing4, 1];
@@ -6537,45 +6575,10 @@ if(_valid4){
 valid28 = true;
 passing4 = 1;
 }
-const _errs95 = errors;
-if(data30 && typeof data30 == "object" && !Array.isArray(data30)){
-if(data30.speeds_mps === undefined){
-const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err85];
-}
-else {
-vErrors.push(err85);
-}
-errors++;
-}
-if(data30.values === undefined){
-const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err86];
-}
-else {
-vErrors.push(err86);
-}
-errors++;
-}
-for(const key8 in data30){
-if(!((key8 === "speeds_mps") || (key8 === "values"))){
-const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err87];
-}
-else {
-vErrors.push(err87);
-}
-errors++;
-}
-}
-if(data30.speeds_mps !== undefined){
-let data31 = data30.speeds_mps;
-if(Array.isArray(data31)){
-if(data31.length < 1){
-const err88 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs98 = errors;
+if(data32 && typeof data32 == "object" && !Array.isArray(data32)){
+if(data32.speeds_mps === undefined){
+const err88 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err88];
 }
@@ -6584,12 +6587,8 @@ vErrors.push(err88);
 }
 errors++;
 }
-const len8 = data31.length;
-for(let i8=0; i8<len8; i8++){
-let data32 = data31[i8];
-if((typeof data32 == "number") && (isFinite(data32))){
-if(data32 < 0 || isNaN(data32)){
-const err89 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data32.values === undefined){
+const err89 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err89];
 }
@@ -6598,9 +6597,9 @@ vErrors.push(err89);
 }
 errors++;
 }
-}
-else {
-const err90 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key8 in data32){
+if(!((key8 === "speeds_mps") || (key8 === "values"))){
+const err90 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err90];
 }
@@ -6610,9 +6609,11 @@ vErrors.push(err90);
 errors++;
 }
 }
-}
-else {
-const err91 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data32.speeds_mps !== undefined){
+let data33 = data32.speeds_mps;
+if(Array.isArray(data33)){
+if(data33.length < 1){
+const err91 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err91];
 }
@@ -6621,12 +6622,12 @@ vErrors.push(err91);
 }
 errors++;
 }
-}
-if(data30.values !== undefined){
-let data33 = data30.values;
-if(Array.isArray(data33)){
-if(data33.length < 1){
-const err92 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len8 = data33.length;
+for(let i8=0; i8<len8; i8++){
+let data34 = data33[i8];
+if((typeof data34 == "number") && (isFinite(data34))){
+if(data34 < 0 || isNaN(data34)){
+const err92 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err92];
 }
@@ -6635,12 +6636,9 @@ vErrors.push(err92);
 }
 errors++;
 }
-const len9 = data33.length;
-for(let i9=0; i9<len9; i9++){
-let data34 = data33[i9];
-if((typeof data34 == "number") && (isFinite(data34))){
-if(data34 <= 0 || isNaN(data34)){
-const err93 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err93 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err93];
 }
@@ -6650,8 +6648,9 @@ vErrors.push(err93);
 errors++;
 }
 }
+}
 else {
-const err94 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err94 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err94];
 }
@@ -6661,9 +6660,11 @@ vErrors.push(err94);
 errors++;
 }
 }
-}
-else {
-const err95 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data32.values !== undefined){
+let data35 = data32.values;
+if(Array.isArray(data35)){
+if(data35.length < 1){
+const err95 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err95];
 }
@@ -6672,10 +6673,12 @@ vErrors.push(err95);
 }
 errors++;
 }
-}
-}
-else {
-const err96 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len9 = data35.length;
+for(let i9=0; i9<len9; i9++){
+let data36 = data35[i9];
+if((typeof data36 == "number") && (isFinite(data36))){
+if(data36 <= 0 || isNaN(data36)){
+const err96 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err96];
 }
@@ -6684,7 +6687,42 @@ vErrors.push(err96);
 }
 errors++;
 }
-var _valid4 = _errs95 === errors;
+}
+else {
+const err97 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err97];
+}
+else {
+vErrors.push(err97);
+}
+errors++;
+}
+}
+}
+else {
+const err98 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err98];
+}
+else {
+vErrors.push(err98);
+}
+errors++;
+}
+}
+}
+else {
+const err99 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err99];
+}
+else {
+vErrors.push(err99);
+}
+errors++;
+}
+var _valid4 = _errs98 === errors;
 if(_valid4 && valid28){
 valid28 = false;
 passing4 = [passing4, 2];
@@ -6697,64 +6735,7 @@ passing4 = 2;
 }
 }
 if(!valid28){
-const err97 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err97];
-}
-else {
-vErrors.push(err97);
-}
-errors++;
-}
-else {
-errors = _errs90;
-if(vErrors !== null){
-if(_errs90){
-vErrors.length = _errs90;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data8.integralPoleRatio !== undefined){
-let data35 = data8.integralPoleRatio;
-const _errs107 = errors;
-let valid34 = false;
-let passing5 = null;
-const _errs108 = errors;
-if((typeof data35 == "number") && (isFinite(data35))){
-if(data35 <= 0 || isNaN(data35)){
-const err98 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
-if(vErrors === null){
-vErrors = [err98];
-}
-else {
-vErrors.push(err98);
-}
-errors++;
-}
-}
-else {
-const err99 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err99];
-}
-else {
-vErrors.push(err99);
-}
-errors++;
-}
-var _valid5 = _errs108 === errors;
-if(_valid5){
-valid34 = true;
-passing5 = 0;
-}
-const _errs110 = errors;
-if(typeof data35 === "string"){
-if(func0(data35) < 1){
-const err100 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+const err100 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err100];
 }
@@ -6763,9 +6744,27 @@ vErrors.push(err100);
 }
 errors++;
 }
+else {
+errors = _errs93;
+if(vErrors !== null){
+if(_errs93){
+vErrors.length = _errs93;
 }
 else {
-const err101 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+vErrors = null;
+}
+}
+}
+}
+if(data10.integralPoleRatio !== undefined){
+let data37 = data10.integralPoleRatio;
+const _errs110 = errors;
+let valid34 = false;
+let passing5 = null;
+const _errs111 = errors;
+if((typeof data37 == "number") && (isFinite(data37))){
+if(data37 <= 0 || isNaN(data37)){
+const err101 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err101];
 }
@@ -6774,7 +6773,46 @@ vErrors.push(err101);
 }
 errors++;
 }
-var _valid5 = _errs110 === errors;
+}
+else {
+const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err102];
+}
+else {
+vErrors.push(err102);
+}
+errors++;
+}
+var _valid5 = _errs111 === errors;
+if(_valid5){
+valid34 = true;
+passing5 = 0;
+}
+const _errs113 = errors;
+if(typeof data37 === "string"){
+if(func0(data37) < 1){
+const err103 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+if(vErrors === null){
+vErrors = [err103];
+}
+else {
+vErrors.push(err103);
+}
+errors++;
+}
+}
+else {
+const err104 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err104];
+}
+else {
+vErrors.push(err104);
+}
+errors++;
+}
+var _valid5 = _errs113 === errors;
 if(_valid5 && valid34){
 valid34 = false;
 passing5 = [passing5, 1];
@@ -6784,45 +6822,10 @@ if(_valid5){
 valid34 = true;
 passing5 = 1;
 }
-const _errs112 = errors;
-if(data35 && typeof data35 == "object" && !Array.isArray(data35)){
-if(data35.speeds_mps === undefined){
-const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err102];
-}
-else {
-vErrors.push(err102);
-}
-errors++;
-}
-if(data35.values === undefined){
-const err103 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
-if(vErrors === null){
-vErrors = [err103];
-}
-else {
-vErrors.push(err103);
-}
-errors++;
-}
-for(const key9 in data35){
-if(!((key9 === "speeds_mps") || (key9 === "values"))){
-const err104 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err104];
-}
-else {
-vErrors.push(err104);
-}
-errors++;
-}
-}
-if(data35.speeds_mps !== undefined){
-let data36 = data35.speeds_mps;
-if(Array.isArray(data36)){
-if(data36.length < 1){
-const err105 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const _errs115 = errors;
+if(data37 && typeof data37 == "object" && !Array.isArray(data37)){
+if(data37.speeds_mps === undefined){
+const err105 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err105];
 }
@@ -6831,12 +6834,8 @@ vErrors.push(err105);
 }
 errors++;
 }
-const len10 = data36.length;
-for(let i10=0; i10<len10; i10++){
-let data37 = data36[i10];
-if((typeof data37 == "number") && (isFinite(data37))){
-if(data37 < 0 || isNaN(data37)){
-const err106 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data37.values === undefined){
+const err106 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err106];
 }
@@ -6845,9 +6844,9 @@ vErrors.push(err106);
 }
 errors++;
 }
-}
-else {
-const err107 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key9 in data37){
+if(!((key9 === "speeds_mps") || (key9 === "values"))){
+const err107 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err107];
 }
@@ -6857,9 +6856,11 @@ vErrors.push(err107);
 errors++;
 }
 }
-}
-else {
-const err108 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data37.speeds_mps !== undefined){
+let data38 = data37.speeds_mps;
+if(Array.isArray(data38)){
+if(data38.length < 1){
+const err108 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err108];
 }
@@ -6868,12 +6869,12 @@ vErrors.push(err108);
 }
 errors++;
 }
-}
-if(data35.values !== undefined){
-let data38 = data35.values;
-if(Array.isArray(data38)){
-if(data38.length < 1){
-const err109 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+const len10 = data38.length;
+for(let i10=0; i10<len10; i10++){
+let data39 = data38[i10];
+if((typeof data39 == "number") && (isFinite(data39))){
+if(data39 < 0 || isNaN(data39)){
+const err109 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err109];
 }
@@ -6882,12 +6883,9 @@ vErrors.push(err109);
 }
 errors++;
 }
-const len11 = data38.length;
-for(let i11=0; i11<len11; i11++){
-let data39 = data38[i11];
-if((typeof data39 == "number") && (isFinite(data39))){
-if(data39 <= 0 || isNaN(data39)){
-const err110 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+else {
+const err110 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err110];
 }
@@ -6897,8 +6895,9 @@ vErrors.push(err110);
 errors++;
 }
 }
+}
 else {
-const err111 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err111 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err111];
 }
@@ -6908,9 +6907,11 @@ vErrors.push(err111);
 errors++;
 }
 }
-}
-else {
-const err112 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data37.values !== undefined){
+let data40 = data37.values;
+if(Array.isArray(data40)){
+if(data40.length < 1){
+const err112 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err112];
 }
@@ -6919,10 +6920,12 @@ vErrors.push(err112);
 }
 errors++;
 }
-}
-}
-else {
-const err113 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len11 = data40.length;
+for(let i11=0; i11<len11; i11++){
+let data41 = data40[i11];
+if((typeof data41 == "number") && (isFinite(data41))){
+if(data41 <= 0 || isNaN(data41)){
+const err113 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err113];
 }
@@ -6931,7 +6934,42 @@ vErrors.push(err113);
 }
 errors++;
 }
-var _valid5 = _errs112 === errors;
+}
+else {
+const err114 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err114];
+}
+else {
+vErrors.push(err114);
+}
+errors++;
+}
+}
+}
+else {
+const err115 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err115];
+}
+else {
+vErrors.push(err115);
+}
+errors++;
+}
+}
+}
+else {
+const err116 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err116];
+}
+else {
+vErrors.push(err116);
+}
+errors++;
+}
+var _valid5 = _errs115 === errors;
 if(_valid5 && valid34){
 valid34 = false;
 passing5 = [passing5, 2];
@@ -6944,57 +6982,7 @@ passing5 = 2;
 }
 }
 if(!valid34){
-const err114 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err114];
-}
-else {
-vErrors.push(err114);
-}
-errors++;
-}
-else {
-errors = _errs107;
-if(vErrors !== null){
-if(_errs107){
-vErrors.length = _errs107;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-}
-else {
-const err115 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err115];
-}
-else {
-vErrors.push(err115);
-}
-errors++;
-}
-}
-}
-else {
-const err116 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err116];
-}
-else {
-vErrors.push(err116);
-}
-errors++;
-}
-}
-if(data.speeds !== undefined){
-let data40 = data.speeds;
-if(data40 && typeof data40 == "object" && !Array.isArray(data40)){
-for(const key10 in data40){
-if(!(((key10 === "minimum_mps") || (key10 === "maximum_mps")) || (key10 === "lowSpeedFloor_mps"))){
-const err117 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
+const err117 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err117];
 }
@@ -7003,12 +6991,27 @@ vErrors.push(err117);
 }
 errors++;
 }
+else {
+errors = _errs110;
+if(vErrors !== null){
+if(_errs110){
+vErrors.length = _errs110;
 }
-if(data40.minimum_mps !== undefined){
-let data41 = data40.minimum_mps;
-if((typeof data41 == "number") && (isFinite(data41))){
-if(data41 < 0 || isNaN(data41)){
-const err118 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data10.sensitivityPeakTarget !== undefined){
+let data42 = data10.sensitivityPeakTarget;
+const _errs127 = errors;
+let valid40 = false;
+let passing6 = null;
+const _errs128 = errors;
+if((typeof data42 == "number") && (isFinite(data42))){
+if(data42 <= 0 || isNaN(data42)){
+const err118 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err118];
 }
@@ -7019,7 +7022,7 @@ errors++;
 }
 }
 else {
-const err119 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err119 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err119];
 }
@@ -7028,12 +7031,15 @@ vErrors.push(err119);
 }
 errors++;
 }
+var _valid6 = _errs128 === errors;
+if(_valid6){
+valid40 = true;
+passing6 = 0;
 }
-if(data40.maximum_mps !== undefined){
-let data42 = data40.maximum_mps;
-if((typeof data42 == "number") && (isFinite(data42))){
-if(data42 <= 0 || isNaN(data42)){
-const err120 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const _errs130 = errors;
+if(typeof data42 === "string"){
+if(func0(data42) < 1){
+const err120 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err120];
 }
@@ -7044,7 +7050,7 @@ errors++;
 }
 }
 else {
-const err121 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err121 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err121];
 }
@@ -7053,12 +7059,20 @@ vErrors.push(err121);
 }
 errors++;
 }
+var _valid6 = _errs130 === errors;
+if(_valid6 && valid40){
+valid40 = false;
+passing6 = [passing6, 1];
 }
-if(data40.lowSpeedFloor_mps !== undefined){
-let data43 = data40.lowSpeedFloor_mps;
-if((typeof data43 == "number") && (isFinite(data43))){
-if(data43 <= 0 || isNaN(data43)){
-const err122 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+if(_valid6){
+valid40 = true;
+passing6 = 1;
+}
+const _errs132 = errors;
+if(data42 && typeof data42 == "object" && !Array.isArray(data42)){
+if(data42.speeds_mps === undefined){
+const err122 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err122];
 }
@@ -7067,9 +7081,8 @@ vErrors.push(err122);
 }
 errors++;
 }
-}
-else {
-const err123 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data42.values === undefined){
+const err123 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err123];
 }
@@ -7078,10 +7091,9 @@ vErrors.push(err123);
 }
 errors++;
 }
-}
-}
-else {
-const err124 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key10 in data42){
+if(!((key10 === "speeds_mps") || (key10 === "values"))){
+const err124 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err124];
 }
@@ -7091,15 +7103,11 @@ vErrors.push(err124);
 errors++;
 }
 }
-if(data.breakpoints !== undefined){
-let data44 = data.breakpoints;
-const _errs133 = errors;
-let valid41 = false;
-let passing6 = null;
-const _errs134 = errors;
-if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
-if(data44.speeds_mps === undefined){
-const err125 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+if(data42.speeds_mps !== undefined){
+let data43 = data42.speeds_mps;
+if(Array.isArray(data43)){
+if(data43.length < 1){
+const err125 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err125];
 }
@@ -7108,9 +7116,12 @@ vErrors.push(err125);
 }
 errors++;
 }
-for(const key11 in data44){
-if(!(key11 === "speeds_mps")){
-const err126 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
+const len12 = data43.length;
+for(let i12=0; i12<len12; i12++){
+let data44 = data43[i12];
+if((typeof data44 == "number") && (isFinite(data44))){
+if(data44 < 0 || isNaN(data44)){
+const err126 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err126];
 }
@@ -7120,11 +7131,8 @@ vErrors.push(err126);
 errors++;
 }
 }
-if(data44.speeds_mps !== undefined){
-let data45 = data44.speeds_mps;
-if(Array.isArray(data45)){
-if(data45.length < 1){
-const err127 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+else {
+const err127 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err127];
 }
@@ -7133,12 +7141,10 @@ vErrors.push(err127);
 }
 errors++;
 }
-const len12 = data45.length;
-for(let i12=0; i12<len12; i12++){
-let data46 = data45[i12];
-if((typeof data46 == "number") && (isFinite(data46))){
-if(data46 <= 0 || isNaN(data46)){
-const err128 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+}
+else {
+const err128 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err128];
 }
@@ -7148,8 +7154,11 @@ vErrors.push(err128);
 errors++;
 }
 }
-else {
-const err129 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i12,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data42.values !== undefined){
+let data45 = data42.values;
+if(Array.isArray(data45)){
+if(data45.length < 1){
+const err129 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err129];
 }
@@ -7158,10 +7167,12 @@ vErrors.push(err129);
 }
 errors++;
 }
-}
-}
-else {
-const err130 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len13 = data45.length;
+for(let i13=0; i13<len13; i13++){
+let data46 = data45[i13];
+if((typeof data46 == "number") && (isFinite(data46))){
+if(data46 <= 0 || isNaN(data46)){
+const err130 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err130];
 }
@@ -7171,9 +7182,8 @@ vErrors.push(err130);
 errors++;
 }
 }
-}
 else {
-const err131 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err131 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err131];
 }
@@ -7182,16 +7192,10 @@ vErrors.push(err131);
 }
 errors++;
 }
-var _valid6 = _errs134 === errors;
-if(_valid6){
-valid41 = true;
-passing6 = 0;
 }
-const _errs141 = errors;
-if(data44 && typeof data44 == "object" && !Array.isArray(data44)){
-for(const key12 in data44){
-if(!((key12 === "count") || (key12 === "spacing"))){
-const err132 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
+}
+else {
+const err132 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err132];
 }
@@ -7201,10 +7205,9 @@ vErrors.push(err132);
 errors++;
 }
 }
-if(data44.count !== undefined){
-let data47 = data44.count;
-if(!(((typeof data47 == "number") && (!(data47 % 1) && !isNaN(data47))) && (isFinite(data47)))){
-const err133 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+}
+else {
+const err133 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err133];
 }
@@ -7213,9 +7216,20 @@ vErrors.push(err133);
 }
 errors++;
 }
-if((typeof data47 == "number") && (isFinite(data47))){
-if(data47 > 100 || isNaN(data47)){
-const err134 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+var _valid6 = _errs132 === errors;
+if(_valid6 && valid40){
+valid40 = false;
+passing6 = [passing6, 2];
+}
+else {
+if(_valid6){
+valid40 = true;
+passing6 = 2;
+}
+}
+}
+if(!valid40){
+const err134 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err134];
 }
@@ -7224,8 +7238,27 @@ vErrors.push(err134);
 }
 errors++;
 }
-if(data47 < 1 || isNaN(data47)){
-const err135 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+else {
+errors = _errs127;
+if(vErrors !== null){
+if(_errs127){
+vErrors.length = _errs127;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data10.phaseMarginTarget_deg !== undefined){
+let data47 = data10.phaseMarginTarget_deg;
+const _errs144 = errors;
+let valid46 = false;
+let passing7 = null;
+const _errs145 = errors;
+if((typeof data47 == "number") && (isFinite(data47))){
+if(data47 <= 0 || isNaN(data47)){
+const err135 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err135];
 }
@@ -7235,11 +7268,8 @@ vErrors.push(err135);
 errors++;
 }
 }
-}
-if(data44.spacing !== undefined){
-let data48 = data44.spacing;
-if(!((data48 === "geometric") || (data48 === "linear"))){
-const err136 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
+else {
+const err136 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err136];
 }
@@ -7248,10 +7278,15 @@ vErrors.push(err136);
 }
 errors++;
 }
+var _valid7 = _errs145 === errors;
+if(_valid7){
+valid46 = true;
+passing7 = 0;
 }
-}
-else {
-const err137 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const _errs147 = errors;
+if(typeof data47 === "string"){
+if(func0(data47) < 1){
+const err137 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err137];
 }
@@ -7260,19 +7295,9 @@ vErrors.push(err137);
 }
 errors++;
 }
-var _valid6 = _errs141 === errors;
-if(_valid6 && valid41){
-valid41 = false;
-passing6 = [passing6, 1];
 }
 else {
-if(_valid6){
-valid41 = true;
-passing6 = 1;
-}
-}
-if(!valid41){
-const err138 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
+const err138 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err138];
 }
@@ -7281,22 +7306,20 @@ vErrors.push(err138);
 }
 errors++;
 }
-else {
-errors = _errs133;
-if(vErrors !== null){
-if(_errs133){
-vErrors.length = _errs133;
+var _valid7 = _errs147 === errors;
+if(_valid7 && valid46){
+valid46 = false;
+passing7 = [passing7, 1];
 }
 else {
-vErrors = null;
+if(_valid7){
+valid46 = true;
+passing7 = 1;
 }
-}
-}
-}
-if(data.interpolation !== undefined){
-let data49 = data.interpolation;
-if(!((data49 === "linear") || (data49 === "monotone-cubic"))){
-const err139 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
+const _errs149 = errors;
+if(data47 && typeof data47 == "object" && !Array.isArray(data47)){
+if(data47.speeds_mps === undefined){
+const err139 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err139];
 }
@@ -7305,13 +7328,8 @@ vErrors.push(err139);
 }
 errors++;
 }
-}
-if(data.controller !== undefined){
-let data50 = data.controller;
-if(data50 && typeof data50 == "object" && !Array.isArray(data50)){
-for(const key13 in data50){
-if(!(((((key13 === "form") || (key13 === "derivativeFilter")) || (key13 === "sampleTime_s")) || (key13 === "discretisation")) || (key13 === "computationLatency_s"))){
-const err140 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
+if(data47.values === undefined){
+const err140 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err140];
 }
@@ -7320,10 +7338,9 @@ vErrors.push(err140);
 }
 errors++;
 }
-}
-if(data50.form !== undefined){
-if(!(data50.form === "parallel")){
-const err141 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
+for(const key11 in data47){
+if(!((key11 === "speeds_mps") || (key11 === "values"))){
+const err141 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err141];
 }
@@ -7333,11 +7350,11 @@ vErrors.push(err141);
 errors++;
 }
 }
-if(data50.derivativeFilter !== undefined){
-let data52 = data50.derivativeFilter;
-if((typeof data52 == "number") && (isFinite(data52))){
-if(data52 <= 0 || isNaN(data52)){
-const err142 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data47.speeds_mps !== undefined){
+let data48 = data47.speeds_mps;
+if(Array.isArray(data48)){
+if(data48.length < 1){
+const err142 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err142];
 }
@@ -7346,9 +7363,12 @@ vErrors.push(err142);
 }
 errors++;
 }
-}
-else {
-const err143 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len14 = data48.length;
+for(let i14=0; i14<len14; i14++){
+let data49 = data48[i14];
+if((typeof data49 == "number") && (isFinite(data49))){
+if(data49 < 0 || isNaN(data49)){
+const err143 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err143];
 }
@@ -7358,11 +7378,8 @@ vErrors.push(err143);
 errors++;
 }
 }
-if(data50.sampleTime_s !== undefined){
-let data53 = data50.sampleTime_s;
-if((typeof data53 == "number") && (isFinite(data53))){
-if(data53 <= 0 || isNaN(data53)){
-const err144 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err144 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err144];
 }
@@ -7372,8 +7389,9 @@ vErrors.push(err144);
 errors++;
 }
 }
+}
 else {
-const err145 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err145 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err145];
 }
@@ -7383,10 +7401,11 @@ vErrors.push(err145);
 errors++;
 }
 }
-if(data50.discretisation !== undefined){
-let data54 = data50.discretisation;
-if(!((data54 === "tustin") || (data54 === "backward-euler"))){
-const err146 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
+if(data47.values !== undefined){
+let data50 = data47.values;
+if(Array.isArray(data50)){
+if(data50.length < 1){
+const err146 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err146];
 }
@@ -7395,12 +7414,12 @@ vErrors.push(err146);
 }
 errors++;
 }
-}
-if(data50.computationLatency_s !== undefined){
-let data55 = data50.computationLatency_s;
-if((typeof data55 == "number") && (isFinite(data55))){
-if(data55 < 0 || isNaN(data55)){
-const err147 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const len15 = data50.length;
+for(let i15=0; i15<len15; i15++){
+let data51 = data50[i15];
+if((typeof data51 == "number") && (isFinite(data51))){
+if(data51 <= 0 || isNaN(data51)){
+const err147 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err147];
 }
@@ -7411,7 +7430,7 @@ errors++;
 }
 }
 else {
-const err148 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err148 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err148];
 }
@@ -7423,7 +7442,7 @@ errors++;
 }
 }
 else {
-const err149 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err149 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err149];
 }
@@ -7433,12 +7452,9 @@ vErrors.push(err149);
 errors++;
 }
 }
-if(data.acceptance !== undefined){
-let data56 = data.acceptance;
-if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
-for(const key14 in data56){
-if(!(((((key14 === "maximumLowerGainMargin_dB") || (key14 === "minimumUpperGainMargin_dB")) || (key14 === "minimumPhaseMargin_deg")) || (key14 === "maximumSensitivityPeak")) || (key14 === "delayMarginRoom_s"))){
-const err150 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
+}
+else {
+const err150 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err150];
 }
@@ -7447,12 +7463,20 @@ vErrors.push(err150);
 }
 errors++;
 }
+var _valid7 = _errs149 === errors;
+if(_valid7 && valid46){
+valid46 = false;
+passing7 = [passing7, 2];
 }
-if(data56.maximumLowerGainMargin_dB !== undefined){
-let data57 = data56.maximumLowerGainMargin_dB;
-if((typeof data57 == "number") && (isFinite(data57))){
-if(data57 > 0 || isNaN(data57)){
-const err151 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+else {
+if(_valid7){
+valid46 = true;
+passing7 = 2;
+}
+}
+}
+if(!valid46){
+const err151 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf",keyword:"oneOf",params:{passingSchemas: passing7},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err151];
 }
@@ -7461,9 +7485,21 @@ vErrors.push(err151);
 }
 errors++;
 }
+else {
+errors = _errs144;
+if(vErrors !== null){
+if(_errs144){
+vErrors.length = _errs144;
 }
 else {
-const err152 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+}
+else {
+const err152 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err152];
 }
@@ -7473,11 +7509,9 @@ vErrors.push(err152);
 errors++;
 }
 }
-if(data56.minimumUpperGainMargin_dB !== undefined){
-let data58 = data56.minimumUpperGainMargin_dB;
-if((typeof data58 == "number") && (isFinite(data58))){
-if(data58 < 0 || isNaN(data58)){
-const err153 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err153 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err153];
 }
@@ -7487,8 +7521,12 @@ vErrors.push(err153);
 errors++;
 }
 }
-else {
-const err154 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data.speeds !== undefined){
+let data52 = data.speeds;
+if(data52 && typeof data52 == "object" && !Array.isArray(data52)){
+for(const key12 in data52){
+if(!(((key12 === "minimum_mps") || (key12 === "maximum_mps")) || (key12 === "lowSpeedFloor_mps"))){
+const err154 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err154];
 }
@@ -7498,11 +7536,11 @@ vErrors.push(err154);
 errors++;
 }
 }
-if(data56.minimumPhaseMargin_deg !== undefined){
-let data59 = data56.minimumPhaseMargin_deg;
-if((typeof data59 == "number") && (isFinite(data59))){
-if(data59 > 180 || isNaN(data59)){
-const err155 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
+if(data52.minimum_mps !== undefined){
+let data53 = data52.minimum_mps;
+if((typeof data53 == "number") && (isFinite(data53))){
+if(data53 < 0 || isNaN(data53)){
+const err155 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err155];
 }
@@ -7511,8 +7549,9 @@ vErrors.push(err155);
 }
 errors++;
 }
-if(data59 < 0 || isNaN(data59)){
-const err156 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err156 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err156];
 }
@@ -7522,8 +7561,11 @@ vErrors.push(err156);
 errors++;
 }
 }
-else {
-const err157 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data52.maximum_mps !== undefined){
+let data54 = data52.maximum_mps;
+if((typeof data54 == "number") && (isFinite(data54))){
+if(data54 <= 0 || isNaN(data54)){
+const err157 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err157];
 }
@@ -7533,11 +7575,8 @@ vErrors.push(err157);
 errors++;
 }
 }
-if(data56.maximumSensitivityPeak !== undefined){
-let data60 = data56.maximumSensitivityPeak;
-if((typeof data60 == "number") && (isFinite(data60))){
-if(data60 < 1 || isNaN(data60)){
-const err158 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+else {
+const err158 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err158];
 }
@@ -7547,8 +7586,11 @@ vErrors.push(err158);
 errors++;
 }
 }
-else {
-const err159 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data52.lowSpeedFloor_mps !== undefined){
+let data55 = data52.lowSpeedFloor_mps;
+if((typeof data55 == "number") && (isFinite(data55))){
+if(data55 <= 0 || isNaN(data55)){
+const err159 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err159];
 }
@@ -7558,11 +7600,8 @@ vErrors.push(err159);
 errors++;
 }
 }
-if(data56.delayMarginRoom_s !== undefined){
-let data61 = data56.delayMarginRoom_s;
-if((typeof data61 == "number") && (isFinite(data61))){
-if(data61 < 0 || isNaN(data61)){
-const err160 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err160 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err160];
 }
@@ -7572,8 +7611,9 @@ vErrors.push(err160);
 errors++;
 }
 }
+}
 else {
-const err161 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err161 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err161];
 }
@@ -7583,9 +7623,15 @@ vErrors.push(err161);
 errors++;
 }
 }
-}
-else {
-const err162 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.breakpoints !== undefined){
+let data56 = data.breakpoints;
+const _errs170 = errors;
+let valid53 = false;
+let passing8 = null;
+const _errs171 = errors;
+if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
+if(data56.speeds_mps === undefined){
+const err162 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err162];
 }
@@ -7594,13 +7640,9 @@ vErrors.push(err162);
 }
 errors++;
 }
-}
-if(data.check !== undefined){
-let data62 = data.check;
-if(data62 && typeof data62 == "object" && !Array.isArray(data62)){
-for(const key15 in data62){
-if(!(((key15 === "gridSpeeds") || (key15 === "maxInsertedBreakpoints")) || (key15 === "model"))){
-const err163 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+for(const key13 in data56){
+if(!(key13 === "speeds_mps")){
+const err163 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err163];
 }
@@ -7610,10 +7652,11 @@ vErrors.push(err163);
 errors++;
 }
 }
-if(data62.gridSpeeds !== undefined){
-let data63 = data62.gridSpeeds;
-if(!(((typeof data63 == "number") && (!(data63 % 1) && !isNaN(data63))) && (isFinite(data63)))){
-const err164 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data56.speeds_mps !== undefined){
+let data57 = data56.speeds_mps;
+if(Array.isArray(data57)){
+if(data57.length < 1){
+const err164 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err164];
 }
@@ -7622,9 +7665,12 @@ vErrors.push(err164);
 }
 errors++;
 }
-if((typeof data63 == "number") && (isFinite(data63))){
-if(data63 > 100000 || isNaN(data63)){
-const err165 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+const len16 = data57.length;
+for(let i16=0; i16<len16; i16++){
+let data58 = data57[i16];
+if((typeof data58 == "number") && (isFinite(data58))){
+if(data58 <= 0 || isNaN(data58)){
+const err165 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err165];
 }
@@ -7633,8 +7679,9 @@ vErrors.push(err165);
 }
 errors++;
 }
-if(data63 < 2 || isNaN(data63)){
-const err166 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+}
+else {
+const err166 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err166];
 }
@@ -7645,10 +7692,8 @@ errors++;
 }
 }
 }
-if(data62.maxInsertedBreakpoints !== undefined){
-let data64 = data62.maxInsertedBreakpoints;
-if(!(((typeof data64 == "number") && (!(data64 % 1) && !isNaN(data64))) && (isFinite(data64)))){
-const err167 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err167 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err167];
 }
@@ -7657,9 +7702,10 @@ vErrors.push(err167);
 }
 errors++;
 }
-if((typeof data64 == "number") && (isFinite(data64))){
-if(data64 > 100 || isNaN(data64)){
-const err168 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+}
+}
+else {
+const err168 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err168];
 }
@@ -7668,8 +7714,16 @@ vErrors.push(err168);
 }
 errors++;
 }
-if(data64 < 0 || isNaN(data64)){
-const err169 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid8 = _errs171 === errors;
+if(_valid8){
+valid53 = true;
+passing8 = 0;
+}
+const _errs178 = errors;
+if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
+for(const key14 in data56){
+if(!((key14 === "count") || (key14 === "spacing"))){
+const err169 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err169];
 }
@@ -7679,11 +7733,10 @@ vErrors.push(err169);
 errors++;
 }
 }
-}
-if(data62.model !== undefined){
-let data65 = data62.model;
-if(!((data65 === "single-track") || (data65 === "interpolated-lumped"))){
-const err170 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data56.count !== undefined){
+let data59 = data56.count;
+if(!(((typeof data59 == "number") && (!(data59 % 1) && !isNaN(data59))) && (isFinite(data59)))){
+const err170 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err170];
 }
@@ -7692,10 +7745,9 @@ vErrors.push(err170);
 }
 errors++;
 }
-}
-}
-else {
-const err171 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data59 == "number") && (isFinite(data59))){
+if(data59 > 100 || isNaN(data59)){
+const err171 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
 if(vErrors === null){
 vErrors = [err171];
 }
@@ -7704,13 +7756,8 @@ vErrors.push(err171);
 }
 errors++;
 }
-}
-if(data.variations !== undefined){
-let data66 = data.variations;
-if(data66 && typeof data66 == "object" && !Array.isArray(data66)){
-for(const key16 in data66){
-if(!(func18.call(schema10.properties.variations.properties, key16))){
-const err172 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
+if(data59 < 1 || isNaN(data59)){
+const err172 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err172];
 }
@@ -7720,10 +7767,11 @@ vErrors.push(err172);
 errors++;
 }
 }
-if(data66.acceptance !== undefined){
-let data67 = data66.acceptance;
-if(!((data67 === "robust") || (data67 === "nominal"))){
-const err173 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+}
+if(data56.spacing !== undefined){
+let data60 = data56.spacing;
+if(!((data60 === "geometric") || (data60 === "linear"))){
+const err173 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err173];
 }
@@ -7733,15 +7781,9 @@ vErrors.push(err173);
 errors++;
 }
 }
-if(data66.mass_pct !== undefined){
-let data68 = data66.mass_pct;
-const _errs185 = errors;
-let valid50 = false;
-let passing7 = null;
-const _errs186 = errors;
-if((typeof data68 == "number") && (isFinite(data68))){
-if(data68 > 90 || isNaN(data68)){
-const err174 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+}
+else {
+const err174 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err174];
 }
@@ -7750,8 +7792,19 @@ vErrors.push(err174);
 }
 errors++;
 }
-if(data68 < 0 || isNaN(data68)){
-const err175 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid8 = _errs178 === errors;
+if(_valid8 && valid53){
+valid53 = false;
+passing8 = [passing8, 1];
+}
+else {
+if(_valid8){
+valid53 = true;
+passing8 = 1;
+}
+}
+if(!valid53){
+const err175 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing8},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err175];
 }
@@ -7760,9 +7813,22 @@ vErrors.push(err175);
 }
 errors++;
 }
+else {
+errors = _errs170;
+if(vErrors !== null){
+if(_errs170){
+vErrors.length = _errs170;
 }
 else {
-const err176 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data.interpolation !== undefined){
+let data61 = data.interpolation;
+if(!((data61 === "linear") || (data61 === "monotone-cubic"))){
+const err176 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err176];
 }
@@ -7771,15 +7837,13 @@ vErrors.push(err176);
 }
 errors++;
 }
-var _valid7 = _errs186 === errors;
-if(_valid7){
-valid50 = true;
-passing7 = 0;
 }
-const _errs188 = errors;
-if(Array.isArray(data68)){
-if(data68.length > 2){
-const err177 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(data.controller !== undefined){
+let data62 = data.controller;
+if(data62 && typeof data62 == "object" && !Array.isArray(data62)){
+for(const key15 in data62){
+if(!((((((key15 === "form") || (key15 === "derivativeFilter")) || (key15 === "sampleTime_s")) || (key15 === "discretisation")) || (key15 === "computationLatency_s")) || (key15 === "antiWindup"))){
+const err177 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err177];
 }
@@ -7788,8 +7852,10 @@ vErrors.push(err177);
 }
 errors++;
 }
-if(data68.length < 2){
-const err178 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+if(data62.form !== undefined){
+if(!(data62.form === "parallel")){
+const err178 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err178];
 }
@@ -7798,12 +7864,12 @@ vErrors.push(err178);
 }
 errors++;
 }
-const len13 = data68.length;
-if(len13 > 0){
-let data69 = data68[0];
-if((typeof data69 == "number") && (isFinite(data69))){
-if(data69 > 0 || isNaN(data69)){
-const err179 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+}
+if(data62.derivativeFilter !== undefined){
+let data64 = data62.derivativeFilter;
+if((typeof data64 == "number") && (isFinite(data64))){
+if(data64 <= 0 || isNaN(data64)){
+const err179 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err179];
 }
@@ -7812,8 +7878,9 @@ vErrors.push(err179);
 }
 errors++;
 }
-if(data69 < -90 || isNaN(data69)){
-const err180 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+else {
+const err180 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err180];
 }
@@ -7823,8 +7890,11 @@ vErrors.push(err180);
 errors++;
 }
 }
-else {
-const err181 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data62.sampleTime_s !== undefined){
+let data65 = data62.sampleTime_s;
+if((typeof data65 == "number") && (isFinite(data65))){
+if(data65 <= 0 || isNaN(data65)){
+const err181 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err181];
 }
@@ -7834,11 +7904,8 @@ vErrors.push(err181);
 errors++;
 }
 }
-if(len13 > 1){
-let data70 = data68[1];
-if((typeof data70 == "number") && (isFinite(data70))){
-if(data70 > 900 || isNaN(data70)){
-const err182 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err182 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err182];
 }
@@ -7847,8 +7914,11 @@ vErrors.push(err182);
 }
 errors++;
 }
-if(data70 < 0 || isNaN(data70)){
-const err183 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data62.discretisation !== undefined){
+let data66 = data62.discretisation;
+if(!((data66 === "tustin") || (data66 === "backward-euler"))){
+const err183 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err183];
 }
@@ -7858,8 +7928,11 @@ vErrors.push(err183);
 errors++;
 }
 }
-else {
-const err184 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data62.computationLatency_s !== undefined){
+let data67 = data62.computationLatency_s;
+if((typeof data67 == "number") && (isFinite(data67))){
+if(data67 < 0 || isNaN(data67)){
+const err184 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err184];
 }
@@ -7869,9 +7942,8 @@ vErrors.push(err184);
 errors++;
 }
 }
-}
 else {
-const err185 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err185 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err185];
 }
@@ -7880,19 +7952,11 @@ vErrors.push(err185);
 }
 errors++;
 }
-var _valid7 = _errs188 === errors;
-if(_valid7 && valid50){
-valid50 = false;
-passing7 = [passing7, 1];
 }
-else {
-if(_valid7){
-valid50 = true;
-passing7 = 1;
-}
-}
-if(!valid50){
-const err186 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing7},message:"must match exactly one schema in oneOf"};
+if(data62.antiWindup !== undefined){
+let data68 = data62.antiWindup;
+if(!((data68 === "conditional-integration") || (data68 === "back-calculation"))){
+const err186 = {instancePath:instancePath+"/controller/antiWindup",schemaPath:"#/properties/controller/properties/antiWindup/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.antiWindup.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err186];
 }
@@ -7901,27 +7965,10 @@ vErrors.push(err186);
 }
 errors++;
 }
-else {
-errors = _errs185;
-if(vErrors !== null){
-if(_errs185){
-vErrors.length = _errs185;
+}
 }
 else {
-vErrors = null;
-}
-}
-}
-}
-if(data66.yawInertia_pct !== undefined){
-let data71 = data66.yawInertia_pct;
-const _errs195 = errors;
-let valid52 = false;
-let passing8 = null;
-const _errs196 = errors;
-if((typeof data71 == "number") && (isFinite(data71))){
-if(data71 > 90 || isNaN(data71)){
-const err187 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+const err187 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err187];
 }
@@ -7930,8 +7977,13 @@ vErrors.push(err187);
 }
 errors++;
 }
-if(data71 < 0 || isNaN(data71)){
-const err188 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data.acceptance !== undefined){
+let data69 = data.acceptance;
+if(data69 && typeof data69 == "object" && !Array.isArray(data69)){
+for(const key16 in data69){
+if(!(func18.call(schema10.properties.acceptance.properties, key16))){
+const err188 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err188];
 }
@@ -7941,8 +7993,11 @@ vErrors.push(err188);
 errors++;
 }
 }
-else {
-const err189 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69.maximumLowerGainMargin_dB !== undefined){
+let data70 = data69.maximumLowerGainMargin_dB;
+if((typeof data70 == "number") && (isFinite(data70))){
+if(data70 > 0 || isNaN(data70)){
+const err189 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err189];
 }
@@ -7951,15 +8006,9 @@ vErrors.push(err189);
 }
 errors++;
 }
-var _valid8 = _errs196 === errors;
-if(_valid8){
-valid52 = true;
-passing8 = 0;
 }
-const _errs198 = errors;
-if(Array.isArray(data71)){
-if(data71.length > 2){
-const err190 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+else {
+const err190 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err190];
 }
@@ -7968,8 +8017,12 @@ vErrors.push(err190);
 }
 errors++;
 }
-if(data71.length < 2){
-const err191 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+if(data69.minimumUpperGainMargin_dB !== undefined){
+let data71 = data69.minimumUpperGainMargin_dB;
+if((typeof data71 == "number") && (isFinite(data71))){
+if(data71 < 0 || isNaN(data71)){
+const err191 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err191];
 }
@@ -7978,12 +8031,9 @@ vErrors.push(err191);
 }
 errors++;
 }
-const len14 = data71.length;
-if(len14 > 0){
-let data72 = data71[0];
-if((typeof data72 == "number") && (isFinite(data72))){
-if(data72 > 0 || isNaN(data72)){
-const err192 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+}
+else {
+const err192 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err192];
 }
@@ -7992,8 +8042,12 @@ vErrors.push(err192);
 }
 errors++;
 }
-if(data72 < -90 || isNaN(data72)){
-const err193 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+if(data69.minimumPhaseMargin_deg !== undefined){
+let data72 = data69.minimumPhaseMargin_deg;
+if((typeof data72 == "number") && (isFinite(data72))){
+if(data72 > 180 || isNaN(data72)){
+const err193 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
 if(vErrors === null){
 vErrors = [err193];
 }
@@ -8002,9 +8056,8 @@ vErrors.push(err193);
 }
 errors++;
 }
-}
-else {
-const err194 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data72 < 0 || isNaN(data72)){
+const err194 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err194];
 }
@@ -8014,11 +8067,8 @@ vErrors.push(err194);
 errors++;
 }
 }
-if(len14 > 1){
-let data73 = data71[1];
-if((typeof data73 == "number") && (isFinite(data73))){
-if(data73 > 900 || isNaN(data73)){
-const err195 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err195 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err195];
 }
@@ -8027,8 +8077,12 @@ vErrors.push(err195);
 }
 errors++;
 }
-if(data73 < 0 || isNaN(data73)){
-const err196 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data69.maximumSensitivityPeak !== undefined){
+let data73 = data69.maximumSensitivityPeak;
+if((typeof data73 == "number") && (isFinite(data73))){
+if(data73 < 1 || isNaN(data73)){
+const err196 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err196];
 }
@@ -8039,7 +8093,7 @@ errors++;
 }
 }
 else {
-const err197 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err197 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err197];
 }
@@ -8049,9 +8103,11 @@ vErrors.push(err197);
 errors++;
 }
 }
-}
-else {
-const err198 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data69.maximumComplementarySensitivityPeak !== undefined){
+let data74 = data69.maximumComplementarySensitivityPeak;
+if((typeof data74 == "number") && (isFinite(data74))){
+if(data74 < 1 || isNaN(data74)){
+const err198 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err198];
 }
@@ -8060,19 +8116,9 @@ vErrors.push(err198);
 }
 errors++;
 }
-var _valid8 = _errs198 === errors;
-if(_valid8 && valid52){
-valid52 = false;
-passing8 = [passing8, 1];
 }
 else {
-if(_valid8){
-valid52 = true;
-passing8 = 1;
-}
-}
-if(!valid52){
-const err199 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing8},message:"must match exactly one schema in oneOf"};
+const err199 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err199];
 }
@@ -8081,27 +8127,12 @@ vErrors.push(err199);
 }
 errors++;
 }
-else {
-errors = _errs195;
-if(vErrors !== null){
-if(_errs195){
-vErrors.length = _errs195;
 }
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data66.cgRearwardShift_m !== undefined){
-let data74 = data66.cgRearwardShift_m;
-const _errs205 = errors;
-let valid54 = false;
-let passing9 = null;
-const _errs206 = errors;
-if((typeof data74 == "number") && (isFinite(data74))){
-if(data74 > 5 || isNaN(data74)){
-const err200 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(data69.delayMarginRoom_s !== undefined){
+let data75 = data69.delayMarginRoom_s;
+if((typeof data75 == "number") && (isFinite(data75))){
+if(data75 < 0 || isNaN(data75)){
+const err200 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err200];
 }
@@ -8110,8 +8141,9 @@ vErrors.push(err200);
 }
 errors++;
 }
-if(data74 < 0 || isNaN(data74)){
-const err201 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err201 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err201];
 }
@@ -8121,8 +8153,11 @@ vErrors.push(err201);
 errors++;
 }
 }
-else {
-const err202 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69.maximumOvershoot_pct !== undefined){
+let data76 = data69.maximumOvershoot_pct;
+if((typeof data76 == "number") && (isFinite(data76))){
+if(data76 < 0 || isNaN(data76)){
+const err202 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err202];
 }
@@ -8131,15 +8166,9 @@ vErrors.push(err202);
 }
 errors++;
 }
-var _valid9 = _errs206 === errors;
-if(_valid9){
-valid54 = true;
-passing9 = 0;
 }
-const _errs208 = errors;
-if(Array.isArray(data74)){
-if(data74.length > 2){
-const err203 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+else {
+const err203 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err203];
 }
@@ -8148,8 +8177,12 @@ vErrors.push(err203);
 }
 errors++;
 }
-if(data74.length < 2){
-const err204 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+if(data69.maximumRecoveryTime_s !== undefined){
+let data77 = data69.maximumRecoveryTime_s;
+if((typeof data77 == "number") && (isFinite(data77))){
+if(data77 <= 0 || isNaN(data77)){
+const err204 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err204];
 }
@@ -8158,12 +8191,9 @@ vErrors.push(err204);
 }
 errors++;
 }
-const len15 = data74.length;
-if(len15 > 0){
-let data75 = data74[0];
-if((typeof data75 == "number") && (isFinite(data75))){
-if(data75 > 0 || isNaN(data75)){
-const err205 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+}
+else {
+const err205 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err205];
 }
@@ -8172,8 +8202,12 @@ vErrors.push(err205);
 }
 errors++;
 }
-if(data75 < -5 || isNaN(data75)){
-const err206 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+}
+if(data69.maximumLaneChangeError_m !== undefined){
+let data78 = data69.maximumLaneChangeError_m;
+if((typeof data78 == "number") && (isFinite(data78))){
+if(data78 <= 0 || isNaN(data78)){
+const err206 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err206];
 }
@@ -8184,7 +8218,7 @@ errors++;
 }
 }
 else {
-const err207 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err207 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err207];
 }
@@ -8194,11 +8228,11 @@ vErrors.push(err207);
 errors++;
 }
 }
-if(len15 > 1){
-let data76 = data74[1];
-if((typeof data76 == "number") && (isFinite(data76))){
-if(data76 > 5 || isNaN(data76)){
-const err208 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(data69.maximumCurveEntryError_m !== undefined){
+let data79 = data69.maximumCurveEntryError_m;
+if((typeof data79 == "number") && (isFinite(data79))){
+if(data79 <= 0 || isNaN(data79)){
+const err208 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err208];
 }
@@ -8207,8 +8241,9 @@ vErrors.push(err208);
 }
 errors++;
 }
-if(data76 < 0 || isNaN(data76)){
-const err209 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err209 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err209];
 }
@@ -8218,8 +8253,9 @@ vErrors.push(err209);
 errors++;
 }
 }
+}
 else {
-const err210 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err210 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err210];
 }
@@ -8229,9 +8265,12 @@ vErrors.push(err210);
 errors++;
 }
 }
-}
-else {
-const err211 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data.check !== undefined){
+let data80 = data.check;
+if(data80 && typeof data80 == "object" && !Array.isArray(data80)){
+for(const key17 in data80){
+if(!(((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model"))){
+const err211 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err211];
 }
@@ -8240,19 +8279,11 @@ vErrors.push(err211);
 }
 errors++;
 }
-var _valid9 = _errs208 === errors;
-if(_valid9 && valid54){
-valid54 = false;
-passing9 = [passing9, 1];
 }
-else {
-if(_valid9){
-valid54 = true;
-passing9 = 1;
-}
-}
-if(!valid54){
-const err212 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
+if(data80.gridSpeeds !== undefined){
+let data81 = data80.gridSpeeds;
+if(!(((typeof data81 == "number") && (!(data81 % 1) && !isNaN(data81))) && (isFinite(data81)))){
+const err212 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err212];
 }
@@ -8261,27 +8292,9 @@ vErrors.push(err212);
 }
 errors++;
 }
-else {
-errors = _errs205;
-if(vErrors !== null){
-if(_errs205){
-vErrors.length = _errs205;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data66.frontCorneringStiffness_pct !== undefined){
-let data77 = data66.frontCorneringStiffness_pct;
-const _errs215 = errors;
-let valid56 = false;
-let passing10 = null;
-const _errs216 = errors;
-if((typeof data77 == "number") && (isFinite(data77))){
-if(data77 > 90 || isNaN(data77)){
-const err213 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if((typeof data81 == "number") && (isFinite(data81))){
+if(data81 > 100000 || isNaN(data81)){
+const err213 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
 if(vErrors === null){
 vErrors = [err213];
 }
@@ -8290,8 +8303,8 @@ vErrors.push(err213);
 }
 errors++;
 }
-if(data77 < 0 || isNaN(data77)){
-const err214 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data81 < 2 || isNaN(data81)){
+const err214 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
 if(vErrors === null){
 vErrors = [err214];
 }
@@ -8301,8 +8314,11 @@ vErrors.push(err214);
 errors++;
 }
 }
-else {
-const err215 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+if(data80.maxInsertedBreakpoints !== undefined){
+let data82 = data80.maxInsertedBreakpoints;
+if(!(((typeof data82 == "number") && (!(data82 % 1) && !isNaN(data82))) && (isFinite(data82)))){
+const err215 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err215];
 }
@@ -8311,15 +8327,9 @@ vErrors.push(err215);
 }
 errors++;
 }
-var _valid10 = _errs216 === errors;
-if(_valid10){
-valid56 = true;
-passing10 = 0;
-}
-const _errs218 = errors;
-if(Array.isArray(data77)){
-if(data77.length > 2){
-const err216 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if((typeof data82 == "number") && (isFinite(data82))){
+if(data82 > 100 || isNaN(data82)){
+const err216 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
 if(vErrors === null){
 vErrors = [err216];
 }
@@ -8328,8 +8338,8 @@ vErrors.push(err216);
 }
 errors++;
 }
-if(data77.length < 2){
-const err217 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(data82 < 0 || isNaN(data82)){
+const err217 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err217];
 }
@@ -8338,12 +8348,12 @@ vErrors.push(err217);
 }
 errors++;
 }
-const len16 = data77.length;
-if(len16 > 0){
-let data78 = data77[0];
-if((typeof data78 == "number") && (isFinite(data78))){
-if(data78 > 0 || isNaN(data78)){
-const err218 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+}
+}
+if(data80.model !== undefined){
+let data83 = data80.model;
+if(!((data83 === "single-track") || (data83 === "interpolated-lumped"))){
+const err218 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err218];
 }
@@ -8352,8 +8362,10 @@ vErrors.push(err218);
 }
 errors++;
 }
-if(data78 < -90 || isNaN(data78)){
-const err219 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+}
+else {
+const err219 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err219];
 }
@@ -8363,8 +8375,12 @@ vErrors.push(err219);
 errors++;
 }
 }
-else {
-const err220 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data.variations !== undefined){
+let data84 = data.variations;
+if(data84 && typeof data84 == "object" && !Array.isArray(data84)){
+for(const key18 in data84){
+if(!(func18.call(schema10.properties.variations.properties, key18))){
+const err220 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err220];
 }
@@ -8374,11 +8390,10 @@ vErrors.push(err220);
 errors++;
 }
 }
-if(len16 > 1){
-let data79 = data77[1];
-if((typeof data79 == "number") && (isFinite(data79))){
-if(data79 > 900 || isNaN(data79)){
-const err221 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(data84.acceptance !== undefined){
+let data85 = data84.acceptance;
+if(!((data85 === "robust") || (data85 === "nominal"))){
+const err221 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err221];
 }
@@ -8387,8 +8402,16 @@ vErrors.push(err221);
 }
 errors++;
 }
-if(data79 < 0 || isNaN(data79)){
-const err222 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data84.mass_pct !== undefined){
+let data86 = data84.mass_pct;
+const _errs233 = errors;
+let valid62 = false;
+let passing9 = null;
+const _errs234 = errors;
+if((typeof data86 == "number") && (isFinite(data86))){
+if(data86 > 90 || isNaN(data86)){
+const err222 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err222];
 }
@@ -8397,9 +8420,8 @@ vErrors.push(err222);
 }
 errors++;
 }
-}
-else {
-const err223 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data86 < 0 || isNaN(data86)){
+const err223 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err223];
 }
@@ -8409,9 +8431,8 @@ vErrors.push(err223);
 errors++;
 }
 }
-}
 else {
-const err224 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err224 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err224];
 }
@@ -8420,19 +8441,15 @@ vErrors.push(err224);
 }
 errors++;
 }
-var _valid10 = _errs218 === errors;
-if(_valid10 && valid56){
-valid56 = false;
-passing10 = [passing10, 1];
+var _valid9 = _errs234 === errors;
+if(_valid9){
+valid62 = true;
+passing9 = 0;
 }
-else {
-if(_valid10){
-valid56 = true;
-passing10 = 1;
-}
-}
-if(!valid56){
-const err225 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
+const _errs236 = errors;
+if(Array.isArray(data86)){
+if(data86.length > 2){
+const err225 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err225];
 }
@@ -8441,27 +8458,8 @@ vErrors.push(err225);
 }
 errors++;
 }
-else {
-errors = _errs215;
-if(vErrors !== null){
-if(_errs215){
-vErrors.length = _errs215;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data66.rearCorneringStiffness_pct !== undefined){
-let data80 = data66.rearCorneringStiffness_pct;
-const _errs225 = errors;
-let valid58 = false;
-let passing11 = null;
-const _errs226 = errors;
-if((typeof data80 == "number") && (isFinite(data80))){
-if(data80 > 90 || isNaN(data80)){
-const err226 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(data86.length < 2){
+const err226 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err226];
 }
@@ -8470,8 +8468,12 @@ vErrors.push(err226);
 }
 errors++;
 }
-if(data80 < 0 || isNaN(data80)){
-const err227 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const len17 = data86.length;
+if(len17 > 0){
+let data87 = data86[0];
+if((typeof data87 == "number") && (isFinite(data87))){
+if(data87 > 0 || isNaN(data87)){
+const err227 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err227];
 }
@@ -8480,9 +8482,8 @@ vErrors.push(err227);
 }
 errors++;
 }
-}
-else {
-const err228 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data87 < -90 || isNaN(data87)){
+const err228 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
 if(vErrors === null){
 vErrors = [err228];
 }
@@ -8491,15 +8492,9 @@ vErrors.push(err228);
 }
 errors++;
 }
-var _valid11 = _errs226 === errors;
-if(_valid11){
-valid58 = true;
-passing11 = 0;
 }
-const _errs228 = errors;
-if(Array.isArray(data80)){
-if(data80.length > 2){
-const err229 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+else {
+const err229 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err229];
 }
@@ -8508,8 +8503,12 @@ vErrors.push(err229);
 }
 errors++;
 }
-if(data80.length < 2){
-const err230 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+if(len17 > 1){
+let data88 = data86[1];
+if((typeof data88 == "number") && (isFinite(data88))){
+if(data88 > 900 || isNaN(data88)){
+const err230 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
 if(vErrors === null){
 vErrors = [err230];
 }
@@ -8518,12 +8517,8 @@ vErrors.push(err230);
 }
 errors++;
 }
-const len17 = data80.length;
-if(len17 > 0){
-let data81 = data80[0];
-if((typeof data81 == "number") && (isFinite(data81))){
-if(data81 > 0 || isNaN(data81)){
-const err231 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(data88 < 0 || isNaN(data88)){
+const err231 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err231];
 }
@@ -8532,8 +8527,9 @@ vErrors.push(err231);
 }
 errors++;
 }
-if(data81 < -90 || isNaN(data81)){
-const err232 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+else {
+const err232 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err232];
 }
@@ -8543,8 +8539,9 @@ vErrors.push(err232);
 errors++;
 }
 }
+}
 else {
-const err233 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err233 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err233];
 }
@@ -8553,12 +8550,19 @@ vErrors.push(err233);
 }
 errors++;
 }
+var _valid9 = _errs236 === errors;
+if(_valid9 && valid62){
+valid62 = false;
+passing9 = [passing9, 1];
 }
-if(len17 > 1){
-let data82 = data80[1];
-if((typeof data82 == "number") && (isFinite(data82))){
-if(data82 > 900 || isNaN(data82)){
-const err234 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+if(_valid9){
+valid62 = true;
+passing9 = 1;
+}
+}
+if(!valid62){
+const err234 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err234];
 }
@@ -8567,8 +8571,27 @@ vErrors.push(err234);
 }
 errors++;
 }
-if(data82 < 0 || isNaN(data82)){
-const err235 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+errors = _errs233;
+if(vErrors !== null){
+if(_errs233){
+vErrors.length = _errs233;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data84.yawInertia_pct !== undefined){
+let data89 = data84.yawInertia_pct;
+const _errs243 = errors;
+let valid64 = false;
+let passing10 = null;
+const _errs244 = errors;
+if((typeof data89 == "number") && (isFinite(data89))){
+if(data89 > 90 || isNaN(data89)){
+const err235 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err235];
 }
@@ -8577,9 +8600,8 @@ vErrors.push(err235);
 }
 errors++;
 }
-}
-else {
-const err236 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data89 < 0 || isNaN(data89)){
+const err236 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err236];
 }
@@ -8589,9 +8611,8 @@ vErrors.push(err236);
 errors++;
 }
 }
-}
 else {
-const err237 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err237 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err237];
 }
@@ -8600,19 +8621,15 @@ vErrors.push(err237);
 }
 errors++;
 }
-var _valid11 = _errs228 === errors;
-if(_valid11 && valid58){
-valid58 = false;
-passing11 = [passing11, 1];
+var _valid10 = _errs244 === errors;
+if(_valid10){
+valid64 = true;
+passing10 = 0;
 }
-else {
-if(_valid11){
-valid58 = true;
-passing11 = 1;
-}
-}
-if(!valid58){
-const err238 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
+const _errs246 = errors;
+if(Array.isArray(data89)){
+if(data89.length > 2){
+const err238 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err238];
 }
@@ -8621,27 +8638,8 @@ vErrors.push(err238);
 }
 errors++;
 }
-else {
-errors = _errs225;
-if(vErrors !== null){
-if(_errs225){
-vErrors.length = _errs225;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data66.actuatorLag_pct !== undefined){
-let data83 = data66.actuatorLag_pct;
-const _errs235 = errors;
-let valid60 = false;
-let passing12 = null;
-const _errs236 = errors;
-if((typeof data83 == "number") && (isFinite(data83))){
-if(data83 > 90 || isNaN(data83)){
-const err239 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(data89.length < 2){
+const err239 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err239];
 }
@@ -8650,8 +8648,12 @@ vErrors.push(err239);
 }
 errors++;
 }
-if(data83 < 0 || isNaN(data83)){
-const err240 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const len18 = data89.length;
+if(len18 > 0){
+let data90 = data89[0];
+if((typeof data90 == "number") && (isFinite(data90))){
+if(data90 > 0 || isNaN(data90)){
+const err240 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err240];
 }
@@ -8660,9 +8662,8 @@ vErrors.push(err240);
 }
 errors++;
 }
-}
-else {
-const err241 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data90 < -90 || isNaN(data90)){
+const err241 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
 if(vErrors === null){
 vErrors = [err241];
 }
@@ -8671,15 +8672,9 @@ vErrors.push(err241);
 }
 errors++;
 }
-var _valid12 = _errs236 === errors;
-if(_valid12){
-valid60 = true;
-passing12 = 0;
 }
-const _errs238 = errors;
-if(Array.isArray(data83)){
-if(data83.length > 2){
-const err242 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+else {
+const err242 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err242];
 }
@@ -8688,8 +8683,12 @@ vErrors.push(err242);
 }
 errors++;
 }
-if(data83.length < 2){
-const err243 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+if(len18 > 1){
+let data91 = data89[1];
+if((typeof data91 == "number") && (isFinite(data91))){
+if(data91 > 900 || isNaN(data91)){
+const err243 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
 if(vErrors === null){
 vErrors = [err243];
 }
@@ -8698,12 +8697,8 @@ vErrors.push(err243);
 }
 errors++;
 }
-const len18 = data83.length;
-if(len18 > 0){
-let data84 = data83[0];
-if((typeof data84 == "number") && (isFinite(data84))){
-if(data84 > 0 || isNaN(data84)){
-const err244 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(data91 < 0 || isNaN(data91)){
+const err244 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err244];
 }
@@ -8712,8 +8707,9 @@ vErrors.push(err244);
 }
 errors++;
 }
-if(data84 < -90 || isNaN(data84)){
-const err245 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+else {
+const err245 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err245];
 }
@@ -8723,8 +8719,9 @@ vErrors.push(err245);
 errors++;
 }
 }
+}
 else {
-const err246 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err246 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err246];
 }
@@ -8733,12 +8730,19 @@ vErrors.push(err246);
 }
 errors++;
 }
+var _valid10 = _errs246 === errors;
+if(_valid10 && valid64){
+valid64 = false;
+passing10 = [passing10, 1];
 }
-if(len18 > 1){
-let data85 = data83[1];
-if((typeof data85 == "number") && (isFinite(data85))){
-if(data85 > 900 || isNaN(data85)){
-const err247 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+if(_valid10){
+valid64 = true;
+passing10 = 1;
+}
+}
+if(!valid64){
+const err247 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err247];
 }
@@ -8747,8 +8751,27 @@ vErrors.push(err247);
 }
 errors++;
 }
-if(data85 < 0 || isNaN(data85)){
-const err248 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+errors = _errs243;
+if(vErrors !== null){
+if(_errs243){
+vErrors.length = _errs243;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data84.cgRearwardShift_m !== undefined){
+let data92 = data84.cgRearwardShift_m;
+const _errs253 = errors;
+let valid66 = false;
+let passing11 = null;
+const _errs254 = errors;
+if((typeof data92 == "number") && (isFinite(data92))){
+if(data92 > 5 || isNaN(data92)){
+const err248 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
 if(vErrors === null){
 vErrors = [err248];
 }
@@ -8757,9 +8780,8 @@ vErrors.push(err248);
 }
 errors++;
 }
-}
-else {
-const err249 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data92 < 0 || isNaN(data92)){
+const err249 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err249];
 }
@@ -8769,9 +8791,8 @@ vErrors.push(err249);
 errors++;
 }
 }
-}
 else {
-const err250 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err250 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err250];
 }
@@ -8780,19 +8801,15 @@ vErrors.push(err250);
 }
 errors++;
 }
-var _valid12 = _errs238 === errors;
-if(_valid12 && valid60){
-valid60 = false;
-passing12 = [passing12, 1];
+var _valid11 = _errs254 === errors;
+if(_valid11){
+valid66 = true;
+passing11 = 0;
 }
-else {
-if(_valid12){
-valid60 = true;
-passing12 = 1;
-}
-}
-if(!valid60){
-const err251 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
+const _errs256 = errors;
+if(Array.isArray(data92)){
+if(data92.length > 2){
+const err251 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err251];
 }
@@ -8801,23 +8818,8 @@ vErrors.push(err251);
 }
 errors++;
 }
-else {
-errors = _errs235;
-if(vErrors !== null){
-if(_errs235){
-vErrors.length = _errs235;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data66.addedLatency_s !== undefined){
-let data86 = data66.addedLatency_s;
-if((typeof data86 == "number") && (isFinite(data86))){
-if(data86 > 1 || isNaN(data86)){
-const err252 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
+if(data92.length < 2){
+const err252 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err252];
 }
@@ -8826,8 +8828,12 @@ vErrors.push(err252);
 }
 errors++;
 }
-if(data86 < 0 || isNaN(data86)){
-const err253 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const len19 = data92.length;
+if(len19 > 0){
+let data93 = data92[0];
+if((typeof data93 == "number") && (isFinite(data93))){
+if(data93 > 0 || isNaN(data93)){
+const err253 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err253];
 }
@@ -8836,9 +8842,8 @@ vErrors.push(err253);
 }
 errors++;
 }
-}
-else {
-const err254 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data93 < -5 || isNaN(data93)){
+const err254 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
 if(vErrors === null){
 vErrors = [err254];
 }
@@ -8848,9 +8853,8 @@ vErrors.push(err254);
 errors++;
 }
 }
-if(data66.fromIdentification !== undefined){
-if(typeof data66.fromIdentification !== "boolean"){
-const err255 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+else {
+const err255 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err255];
 }
@@ -8860,12 +8864,11 @@ vErrors.push(err255);
 errors++;
 }
 }
-if(data66.search !== undefined){
-let data88 = data66.search;
-if(data88 && typeof data88 == "object" && !Array.isArray(data88)){
-for(const key17 in data88){
-if(!(((key17 === "samples") || (key17 === "seed")) || (key17 === "localSearchEvaluations"))){
-const err256 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+if(len19 > 1){
+let data94 = data92[1];
+if((typeof data94 == "number") && (isFinite(data94))){
+if(data94 > 5 || isNaN(data94)){
+const err256 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
 if(vErrors === null){
 vErrors = [err256];
 }
@@ -8874,11 +8877,8 @@ vErrors.push(err256);
 }
 errors++;
 }
-}
-if(data88.samples !== undefined){
-let data89 = data88.samples;
-if(!(((typeof data89 == "number") && (!(data89 % 1) && !isNaN(data89))) && (isFinite(data89)))){
-const err257 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data94 < 0 || isNaN(data94)){
+const err257 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err257];
 }
@@ -8887,9 +8887,9 @@ vErrors.push(err257);
 }
 errors++;
 }
-if((typeof data89 == "number") && (isFinite(data89))){
-if(data89 > 4096 || isNaN(data89)){
-const err258 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
+}
+else {
+const err258 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err258];
 }
@@ -8898,8 +8898,10 @@ vErrors.push(err258);
 }
 errors++;
 }
-if(data89 < 0 || isNaN(data89)){
-const err259 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+}
+else {
+const err259 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err259];
 }
@@ -8908,12 +8910,19 @@ vErrors.push(err259);
 }
 errors++;
 }
+var _valid11 = _errs256 === errors;
+if(_valid11 && valid66){
+valid66 = false;
+passing11 = [passing11, 1];
+}
+else {
+if(_valid11){
+valid66 = true;
+passing11 = 1;
 }
 }
-if(data88.seed !== undefined){
-let data90 = data88.seed;
-if(!(((typeof data90 == "number") && (!(data90 % 1) && !isNaN(data90))) && (isFinite(data90)))){
-const err260 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(!valid66){
+const err260 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err260];
 }
@@ -8922,9 +8931,27 @@ vErrors.push(err260);
 }
 errors++;
 }
-if((typeof data90 == "number") && (isFinite(data90))){
-if(data90 > 4294967295 || isNaN(data90)){
-const err261 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
+else {
+errors = _errs253;
+if(vErrors !== null){
+if(_errs253){
+vErrors.length = _errs253;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data84.frontCorneringStiffness_pct !== undefined){
+let data95 = data84.frontCorneringStiffness_pct;
+const _errs263 = errors;
+let valid68 = false;
+let passing12 = null;
+const _errs264 = errors;
+if((typeof data95 == "number") && (isFinite(data95))){
+if(data95 > 90 || isNaN(data95)){
+const err261 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err261];
 }
@@ -8933,8 +8960,8 @@ vErrors.push(err261);
 }
 errors++;
 }
-if(data90 < 0 || isNaN(data90)){
-const err262 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data95 < 0 || isNaN(data95)){
+const err262 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err262];
 }
@@ -8944,11 +8971,8 @@ vErrors.push(err262);
 errors++;
 }
 }
-}
-if(data88.localSearchEvaluations !== undefined){
-let data91 = data88.localSearchEvaluations;
-if(!(((typeof data91 == "number") && (!(data91 % 1) && !isNaN(data91))) && (isFinite(data91)))){
-const err263 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err263 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err263];
 }
@@ -8957,9 +8981,15 @@ vErrors.push(err263);
 }
 errors++;
 }
-if((typeof data91 == "number") && (isFinite(data91))){
-if(data91 > 1000 || isNaN(data91)){
-const err264 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+var _valid12 = _errs264 === errors;
+if(_valid12){
+valid68 = true;
+passing12 = 0;
+}
+const _errs266 = errors;
+if(Array.isArray(data95)){
+if(data95.length > 2){
+const err264 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err264];
 }
@@ -8968,8 +8998,8 @@ vErrors.push(err264);
 }
 errors++;
 }
-if(data91 < 0 || isNaN(data91)){
-const err265 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data95.length < 2){
+const err265 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err265];
 }
@@ -8978,11 +9008,12 @@ vErrors.push(err265);
 }
 errors++;
 }
-}
-}
-}
-else {
-const err266 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const len20 = data95.length;
+if(len20 > 0){
+let data96 = data95[0];
+if((typeof data96 == "number") && (isFinite(data96))){
+if(data96 > 0 || isNaN(data96)){
+const err266 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err266];
 }
@@ -8991,10 +9022,8 @@ vErrors.push(err266);
 }
 errors++;
 }
-}
-}
-else {
-const err267 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data96 < -90 || isNaN(data96)){
+const err267 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
 if(vErrors === null){
 vErrors = [err267];
 }
@@ -9004,9 +9033,8 @@ vErrors.push(err267);
 errors++;
 }
 }
-}
 else {
-const err268 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err268 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err268];
 }
@@ -9015,12 +9043,654 @@ vErrors.push(err268);
 }
 errors++;
 }
+}
+if(len20 > 1){
+let data97 = data95[1];
+if((typeof data97 == "number") && (isFinite(data97))){
+if(data97 > 900 || isNaN(data97)){
+const err269 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err269];
+}
+else {
+vErrors.push(err269);
+}
+errors++;
+}
+if(data97 < 0 || isNaN(data97)){
+const err270 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err270];
+}
+else {
+vErrors.push(err270);
+}
+errors++;
+}
+}
+else {
+const err271 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err271];
+}
+else {
+vErrors.push(err271);
+}
+errors++;
+}
+}
+}
+else {
+const err272 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err272];
+}
+else {
+vErrors.push(err272);
+}
+errors++;
+}
+var _valid12 = _errs266 === errors;
+if(_valid12 && valid68){
+valid68 = false;
+passing12 = [passing12, 1];
+}
+else {
+if(_valid12){
+valid68 = true;
+passing12 = 1;
+}
+}
+if(!valid68){
+const err273 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err273];
+}
+else {
+vErrors.push(err273);
+}
+errors++;
+}
+else {
+errors = _errs263;
+if(vErrors !== null){
+if(_errs263){
+vErrors.length = _errs263;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data84.rearCorneringStiffness_pct !== undefined){
+let data98 = data84.rearCorneringStiffness_pct;
+const _errs273 = errors;
+let valid70 = false;
+let passing13 = null;
+const _errs274 = errors;
+if((typeof data98 == "number") && (isFinite(data98))){
+if(data98 > 90 || isNaN(data98)){
+const err274 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err274];
+}
+else {
+vErrors.push(err274);
+}
+errors++;
+}
+if(data98 < 0 || isNaN(data98)){
+const err275 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err275];
+}
+else {
+vErrors.push(err275);
+}
+errors++;
+}
+}
+else {
+const err276 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err276];
+}
+else {
+vErrors.push(err276);
+}
+errors++;
+}
+var _valid13 = _errs274 === errors;
+if(_valid13){
+valid70 = true;
+passing13 = 0;
+}
+const _errs276 = errors;
+if(Array.isArray(data98)){
+if(data98.length > 2){
+const err277 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err277];
+}
+else {
+vErrors.push(err277);
+}
+errors++;
+}
+if(data98.length < 2){
+const err278 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err278];
+}
+else {
+vErrors.push(err278);
+}
+errors++;
+}
+const len21 = data98.length;
+if(len21 > 0){
+let data99 = data98[0];
+if((typeof data99 == "number") && (isFinite(data99))){
+if(data99 > 0 || isNaN(data99)){
+const err279 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err279];
+}
+else {
+vErrors.push(err279);
+}
+errors++;
+}
+if(data99 < -90 || isNaN(data99)){
+const err280 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err280];
+}
+else {
+vErrors.push(err280);
+}
+errors++;
+}
+}
+else {
+const err281 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err281];
+}
+else {
+vErrors.push(err281);
+}
+errors++;
+}
+}
+if(len21 > 1){
+let data100 = data98[1];
+if((typeof data100 == "number") && (isFinite(data100))){
+if(data100 > 900 || isNaN(data100)){
+const err282 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err282];
+}
+else {
+vErrors.push(err282);
+}
+errors++;
+}
+if(data100 < 0 || isNaN(data100)){
+const err283 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err283];
+}
+else {
+vErrors.push(err283);
+}
+errors++;
+}
+}
+else {
+const err284 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err284];
+}
+else {
+vErrors.push(err284);
+}
+errors++;
+}
+}
+}
+else {
+const err285 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err285];
+}
+else {
+vErrors.push(err285);
+}
+errors++;
+}
+var _valid13 = _errs276 === errors;
+if(_valid13 && valid70){
+valid70 = false;
+passing13 = [passing13, 1];
+}
+else {
+if(_valid13){
+valid70 = true;
+passing13 = 1;
+}
+}
+if(!valid70){
+const err286 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing13},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err286];
+}
+else {
+vErrors.push(err286);
+}
+errors++;
+}
+else {
+errors = _errs273;
+if(vErrors !== null){
+if(_errs273){
+vErrors.length = _errs273;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data84.actuatorLag_pct !== undefined){
+let data101 = data84.actuatorLag_pct;
+const _errs283 = errors;
+let valid72 = false;
+let passing14 = null;
+const _errs284 = errors;
+if((typeof data101 == "number") && (isFinite(data101))){
+if(data101 > 90 || isNaN(data101)){
+const err287 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err287];
+}
+else {
+vErrors.push(err287);
+}
+errors++;
+}
+if(data101 < 0 || isNaN(data101)){
+const err288 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err288];
+}
+else {
+vErrors.push(err288);
+}
+errors++;
+}
+}
+else {
+const err289 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err289];
+}
+else {
+vErrors.push(err289);
+}
+errors++;
+}
+var _valid14 = _errs284 === errors;
+if(_valid14){
+valid72 = true;
+passing14 = 0;
+}
+const _errs286 = errors;
+if(Array.isArray(data101)){
+if(data101.length > 2){
+const err290 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err290];
+}
+else {
+vErrors.push(err290);
+}
+errors++;
+}
+if(data101.length < 2){
+const err291 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err291];
+}
+else {
+vErrors.push(err291);
+}
+errors++;
+}
+const len22 = data101.length;
+if(len22 > 0){
+let data102 = data101[0];
+if((typeof data102 == "number") && (isFinite(data102))){
+if(data102 > 0 || isNaN(data102)){
+const err292 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err292];
+}
+else {
+vErrors.push(err292);
+}
+errors++;
+}
+if(data102 < -90 || isNaN(data102)){
+const err293 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err293];
+}
+else {
+vErrors.push(err293);
+}
+errors++;
+}
+}
+else {
+const err294 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err294];
+}
+else {
+vErrors.push(err294);
+}
+errors++;
+}
+}
+if(len22 > 1){
+let data103 = data101[1];
+if((typeof data103 == "number") && (isFinite(data103))){
+if(data103 > 900 || isNaN(data103)){
+const err295 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err295];
+}
+else {
+vErrors.push(err295);
+}
+errors++;
+}
+if(data103 < 0 || isNaN(data103)){
+const err296 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err296];
+}
+else {
+vErrors.push(err296);
+}
+errors++;
+}
+}
+else {
+const err297 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err297];
+}
+else {
+vErrors.push(err297);
+}
+errors++;
+}
+}
+}
+else {
+const err298 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err298];
+}
+else {
+vErrors.push(err298);
+}
+errors++;
+}
+var _valid14 = _errs286 === errors;
+if(_valid14 && valid72){
+valid72 = false;
+passing14 = [passing14, 1];
+}
+else {
+if(_valid14){
+valid72 = true;
+passing14 = 1;
+}
+}
+if(!valid72){
+const err299 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing14},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err299];
+}
+else {
+vErrors.push(err299);
+}
+errors++;
+}
+else {
+errors = _errs283;
+if(vErrors !== null){
+if(_errs283){
+vErrors.length = _errs283;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data84.addedLatency_s !== undefined){
+let data104 = data84.addedLatency_s;
+if((typeof data104 == "number") && (isFinite(data104))){
+if(data104 > 1 || isNaN(data104)){
+const err300 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
+if(vErrors === null){
+vErrors = [err300];
+}
+else {
+vErrors.push(err300);
+}
+errors++;
+}
+if(data104 < 0 || isNaN(data104)){
+const err301 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err301];
+}
+else {
+vErrors.push(err301);
+}
+errors++;
+}
+}
+else {
+const err302 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err302];
+}
+else {
+vErrors.push(err302);
+}
+errors++;
+}
+}
+if(data84.fromIdentification !== undefined){
+if(typeof data84.fromIdentification !== "boolean"){
+const err303 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(vErrors === null){
+vErrors = [err303];
+}
+else {
+vErrors.push(err303);
+}
+errors++;
+}
+}
+if(data84.search !== undefined){
+let data106 = data84.search;
+if(data106 && typeof data106 == "object" && !Array.isArray(data106)){
+for(const key19 in data106){
+if(!(((key19 === "samples") || (key19 === "seed")) || (key19 === "localSearchEvaluations"))){
+const err304 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err304];
+}
+else {
+vErrors.push(err304);
+}
+errors++;
+}
+}
+if(data106.samples !== undefined){
+let data107 = data106.samples;
+if(!(((typeof data107 == "number") && (!(data107 % 1) && !isNaN(data107))) && (isFinite(data107)))){
+const err305 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err305];
+}
+else {
+vErrors.push(err305);
+}
+errors++;
+}
+if((typeof data107 == "number") && (isFinite(data107))){
+if(data107 > 4096 || isNaN(data107)){
+const err306 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
+if(vErrors === null){
+vErrors = [err306];
+}
+else {
+vErrors.push(err306);
+}
+errors++;
+}
+if(data107 < 0 || isNaN(data107)){
+const err307 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err307];
+}
+else {
+vErrors.push(err307);
+}
+errors++;
+}
+}
+}
+if(data106.seed !== undefined){
+let data108 = data106.seed;
+if(!(((typeof data108 == "number") && (!(data108 % 1) && !isNaN(data108))) && (isFinite(data108)))){
+const err308 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err308];
+}
+else {
+vErrors.push(err308);
+}
+errors++;
+}
+if((typeof data108 == "number") && (isFinite(data108))){
+if(data108 > 4294967295 || isNaN(data108)){
+const err309 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
+if(vErrors === null){
+vErrors = [err309];
+}
+else {
+vErrors.push(err309);
+}
+errors++;
+}
+if(data108 < 0 || isNaN(data108)){
+const err310 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err310];
+}
+else {
+vErrors.push(err310);
+}
+errors++;
+}
+}
+}
+if(data106.localSearchEvaluations !== undefined){
+let data109 = data106.localSearchEvaluations;
+if(!(((typeof data109 == "number") && (!(data109 % 1) && !isNaN(data109))) && (isFinite(data109)))){
+const err311 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err311];
+}
+else {
+vErrors.push(err311);
+}
+errors++;
+}
+if((typeof data109 == "number") && (isFinite(data109))){
+if(data109 > 1000 || isNaN(data109)){
+const err312 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(vErrors === null){
+vErrors = [err312];
+}
+else {
+vErrors.push(err312);
+}
+errors++;
+}
+if(data109 < 0 || isNaN(data109)){
+const err313 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err313];
+}
+else {
+vErrors.push(err313);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err314 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err314];
+}
+else {
+vErrors.push(err314);
+}
+errors++;
+}
+}
+}
+else {
+const err315 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err315];
+}
+else {
+vErrors.push(err315);
+}
+errors++;
+}
+}
+}
+else {
+const err316 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err316];
+}
+else {
+vErrors.push(err316);
+}
+errors++;
+}
 validate4.errors = vErrors;
 return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":2},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","equation","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"equation":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","insertedByRefinement","margins"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}}}},"variations":{"$id":"https://speedband.dev/schema/schedule-variations.json","type":"object","additionalProperties":false,"required":["acceptance","passed","set","search","gridSize","failedSpeeds","unstableSpeeds","loopAnalyses","worst","failures","breakpoints","weakest"],"properties":{"acceptance":{"enum":["robust","nominal"]},"passed":{"type":"boolean"},"set":{"type":"object","additionalProperties":false,"required":["model","dimensions","notApplied"],"properties":{"model":{"enum":["single-track","interpolated-lumped"]},"dimensions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["parameter","change","minimum","maximum","source"],"properties":{"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"change":{"enum":["scale","add"]},"minimum":{"type":"number"},"maximum":{"type":"number"},"source":{"type":"string"}}}},"notApplied":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["field","reason"],"properties":{"field":{"type":"string"},"reason":{"type":"string"}}}}}},"search":{"type":"object","additionalProperties":false,"required":["samples","seed","localSearchEvaluations","method"],"properties":{"samples":{"type":"integer","minimum":0},"seed":{"type":"integer","minimum":0},"localSearchEvaluations":{"type":"integer","minimum":0},"method":{"type":"string"}}},"gridSize":{"type":"integer","minimum":1},"failedSpeeds":{"type":"integer","minimum":0},"unstableSpeeds":{"type":"integer","minimum":0},"loopAnalyses":{"type":"integer","minimum":0},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstOverGrid"},"upperGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"delayMargin_s":{"$ref":"#/definitions/worstOverGrid"},"sensitivityPeak":{"$ref":"#/definitions/worstOverGrid"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstOverGrid"}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"breakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","instability","worst","weakest"],"properties":{"speed_mps":{"type":"number"},"instability":{"$ref":"#/definitions/instability"},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstAtSpeed"},"upperGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"delayMargin_s":{"$ref":"#/definitions/worstAtSpeed"},"sensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"}}},"weakest":{"$ref":"#/definitions/weakest"}}}},"weakest":{"$ref":"#/definitions/weakest"}},"definitions":{"combination":{"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."},"worstOverGrid":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"worstAtSpeed":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"instability":{"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}},"weakest":{"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."}},"description":"The worst case over a set of vehicles around the check model (plan \"variations\"): per grid speed the worst lower and upper gain margin, phase margin, delay margin, Ms and Mt over the set, each with the parameter changes behind it; a set holding an unstable loop is the worst case of all."},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"variations":{"$id":"https://speedband.dev/schema/schedule-variations.json","type":"object","additionalProperties":false,"required":["acceptance","passed","set","search","gridSize","failedSpeeds","unstableSpeeds","loopAnalyses","worst","failures","breakpoints","weakest"],"properties":{"acceptance":{"enum":["robust","nominal"]},"passed":{"type":"boolean"},"set":{"type":"object","additionalProperties":false,"required":["model","dimensions","notApplied"],"properties":{"model":{"enum":["single-track","interpolated-lumped"]},"dimensions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["parameter","change","minimum","maximum","source"],"properties":{"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"change":{"enum":["scale","add"]},"minimum":{"type":"number"},"maximum":{"type":"number"},"source":{"type":"string"}}}},"notApplied":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["field","reason"],"properties":{"field":{"type":"string"},"reason":{"type":"string"}}}}}},"search":{"type":"object","additionalProperties":false,"required":["samples","seed","localSearchEvaluations","method"],"properties":{"samples":{"type":"integer","minimum":0},"seed":{"type":"integer","minimum":0},"localSearchEvaluations":{"type":"integer","minimum":0},"method":{"type":"string"}}},"gridSize":{"type":"integer","minimum":1},"failedSpeeds":{"type":"integer","minimum":0},"unstableSpeeds":{"type":"integer","minimum":0},"loopAnalyses":{"type":"integer","minimum":0},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstOverGrid"},"upperGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"delayMargin_s":{"$ref":"#/definitions/worstOverGrid"},"sensitivityPeak":{"$ref":"#/definitions/worstOverGrid"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstOverGrid"}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"breakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","instability","worst","weakest"],"properties":{"speed_mps":{"type":"number"},"instability":{"$ref":"#/definitions/instability"},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstAtSpeed"},"upperGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"delayMargin_s":{"$ref":"#/definitions/worstAtSpeed"},"sensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"}}},"weakest":{"$ref":"#/definitions/weakest"}}}},"weakest":{"$ref":"#/definitions/weakest"}},"definitions":{"combination":{"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."},"worstOverGrid":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"worstAtSpeed":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"instability":{"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}},"weakest":{"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."}},"description":"The worst case over a set of vehicles around the check model (plan \"variations\"): per grid speed the worst lower and upper gain margin, phase margin, delay margin, Ms and Mt over the set, each with the parameter changes behind it; a set holding an unstable loop is the worst case of all."},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
 const pattern5 = new RegExp("^/", "u");
 const schema12 = {"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}};
 const schema13 = {"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."};
@@ -10236,8 +10906,8 @@ errors++;
 }
 }
 if(data.formatVersion !== undefined){
-if(2 !== data.formatVersion){
-const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 2},message:"must be equal to constant"};
+if(3 !== data.formatVersion){
+const err15 = {instancePath:instancePath+"/formatVersion",schemaPath:"#/properties/formatVersion/const",keyword:"const",params:{allowedValue: 3},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -10390,7 +11060,7 @@ vErrors.push(err27);
 errors++;
 }
 for(const key2 in data7){
-if(!((((key2 === "kind") || (key2 === "referencePoint")) || (key2 === "preview_m")) || (key2 === "error"))){
+if(!(((((key2 === "kind") || (key2 === "referencePoint")) || (key2 === "preview_m")) || (key2 === "previewTime_s")) || (key2 === "error"))){
 const err28 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key2},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err28];
@@ -10452,9 +11122,11 @@ vErrors.push(err32);
 errors++;
 }
 }
-if(data7.error !== undefined){
-if(typeof data7.error !== "string"){
-const err33 = {instancePath:instancePath+"/loop/error",schemaPath:"#/properties/loop/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data7.previewTime_s !== undefined){
+let data11 = data7.previewTime_s;
+if((typeof data11 == "number") && (isFinite(data11))){
+if(data11 < 0 || isNaN(data11)){
+const err33 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -10464,9 +11136,8 @@ vErrors.push(err33);
 errors++;
 }
 }
-}
 else {
-const err34 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err34 = {instancePath:instancePath+"/loop/previewTime_s",schemaPath:"#/properties/loop/properties/previewTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err34];
 }
@@ -10476,11 +11147,9 @@ vErrors.push(err34);
 errors++;
 }
 }
-if(data.controller !== undefined){
-let data12 = data.controller;
-if(data12 && typeof data12 == "object" && !Array.isArray(data12)){
-if(data12.form === undefined){
-const err35 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "form"},message:"must have required property '"+"form"+"'"};
+if(data7.error !== undefined){
+if(typeof data7.error !== "string"){
+const err35 = {instancePath:instancePath+"/loop/error",schemaPath:"#/properties/loop/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err35];
 }
@@ -10489,8 +11158,10 @@ vErrors.push(err35);
 }
 errors++;
 }
-if(data12.derivativeFilter === undefined){
-const err36 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "derivativeFilter"},message:"must have required property '"+"derivativeFilter"+"'"};
+}
+}
+else {
+const err36 = {instancePath:instancePath+"/loop",schemaPath:"#/properties/loop/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err36];
 }
@@ -10499,8 +11170,12 @@ vErrors.push(err36);
 }
 errors++;
 }
-if(data12.discretisation === undefined){
-const err37 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "discretisation"},message:"must have required property '"+"discretisation"+"'"};
+}
+if(data.controller !== undefined){
+let data13 = data.controller;
+if(data13 && typeof data13 == "object" && !Array.isArray(data13)){
+if(data13.form === undefined){
+const err37 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "form"},message:"must have required property '"+"form"+"'"};
 if(vErrors === null){
 vErrors = [err37];
 }
@@ -10509,8 +11184,8 @@ vErrors.push(err37);
 }
 errors++;
 }
-if(data12.sampleTime_s === undefined){
-const err38 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "sampleTime_s"},message:"must have required property '"+"sampleTime_s"+"'"};
+if(data13.derivativeFilter === undefined){
+const err38 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "derivativeFilter"},message:"must have required property '"+"derivativeFilter"+"'"};
 if(vErrors === null){
 vErrors = [err38];
 }
@@ -10519,8 +11194,8 @@ vErrors.push(err38);
 }
 errors++;
 }
-if(data12.computationLatency_s === undefined){
-const err39 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "computationLatency_s"},message:"must have required property '"+"computationLatency_s"+"'"};
+if(data13.discretisation === undefined){
+const err39 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "discretisation"},message:"must have required property '"+"discretisation"+"'"};
 if(vErrors === null){
 vErrors = [err39];
 }
@@ -10529,8 +11204,8 @@ vErrors.push(err39);
 }
 errors++;
 }
-if(data12.integratorClamp_rad === undefined){
-const err40 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integratorClamp_rad"},message:"must have required property '"+"integratorClamp_rad"+"'"};
+if(data13.sampleTime_s === undefined){
+const err40 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "sampleTime_s"},message:"must have required property '"+"sampleTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err40];
 }
@@ -10539,8 +11214,8 @@ vErrors.push(err40);
 }
 errors++;
 }
-if(data12.equation === undefined){
-const err41 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "equation"},message:"must have required property '"+"equation"+"'"};
+if(data13.computationLatency_s === undefined){
+const err41 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "computationLatency_s"},message:"must have required property '"+"computationLatency_s"+"'"};
 if(vErrors === null){
 vErrors = [err41];
 }
@@ -10549,8 +11224,8 @@ vErrors.push(err41);
 }
 errors++;
 }
-if(data12.update === undefined){
-const err42 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "update"},message:"must have required property '"+"update"+"'"};
+if(data13.integratorClamp_rad === undefined){
+const err42 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integratorClamp_rad"},message:"must have required property '"+"integratorClamp_rad"+"'"};
 if(vErrors === null){
 vErrors = [err42];
 }
@@ -10559,8 +11234,8 @@ vErrors.push(err42);
 }
 errors++;
 }
-if(data12.integration === undefined){
-const err43 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integration"},message:"must have required property '"+"integration"+"'"};
+if(data13.antiWindup === undefined){
+const err43 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "antiWindup"},message:"must have required property '"+"antiWindup"+"'"};
 if(vErrors === null){
 vErrors = [err43];
 }
@@ -10569,9 +11244,8 @@ vErrors.push(err43);
 }
 errors++;
 }
-for(const key3 in data12){
-if(!(func18.call(schema11.properties.controller.properties, key3))){
-const err44 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
+if(data13.equation === undefined){
+const err44 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "equation"},message:"must have required property '"+"equation"+"'"};
 if(vErrors === null){
 vErrors = [err44];
 }
@@ -10580,10 +11254,8 @@ vErrors.push(err44);
 }
 errors++;
 }
-}
-if(data12.form !== undefined){
-if("parallel" !== data12.form){
-const err45 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/const",keyword:"const",params:{allowedValue: "parallel"},message:"must be equal to constant"};
+if(data13.feedForward === undefined){
+const err45 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "feedForward"},message:"must have required property '"+"feedForward"+"'"};
 if(vErrors === null){
 vErrors = [err45];
 }
@@ -10592,12 +11264,8 @@ vErrors.push(err45);
 }
 errors++;
 }
-}
-if(data12.derivativeFilter !== undefined){
-let data14 = data12.derivativeFilter;
-if((typeof data14 == "number") && (isFinite(data14))){
-if(data14 <= 0 || isNaN(data14)){
-const err46 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data13.update === undefined){
+const err46 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "update"},message:"must have required property '"+"update"+"'"};
 if(vErrors === null){
 vErrors = [err46];
 }
@@ -10606,9 +11274,8 @@ vErrors.push(err46);
 }
 errors++;
 }
-}
-else {
-const err47 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data13.integration === undefined){
+const err47 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/required",keyword:"required",params:{missingProperty: "integration"},message:"must have required property '"+"integration"+"'"};
 if(vErrors === null){
 vErrors = [err47];
 }
@@ -10617,11 +11284,9 @@ vErrors.push(err47);
 }
 errors++;
 }
-}
-if(data12.discretisation !== undefined){
-let data15 = data12.discretisation;
-if(!((data15 === "tustin") || (data15 === "backward-euler"))){
-const err48 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema11.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
+for(const key3 in data13){
+if(!(func18.call(schema11.properties.controller.properties, key3))){
+const err48 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err48];
 }
@@ -10631,11 +11296,9 @@ vErrors.push(err48);
 errors++;
 }
 }
-if(data12.sampleTime_s !== undefined){
-let data16 = data12.sampleTime_s;
-if((typeof data16 == "number") && (isFinite(data16))){
-if(data16 <= 0 || isNaN(data16)){
-const err49 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data13.form !== undefined){
+if("parallel" !== data13.form){
+const err49 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/const",keyword:"const",params:{allowedValue: "parallel"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err49];
 }
@@ -10645,8 +11308,11 @@ vErrors.push(err49);
 errors++;
 }
 }
-else {
-const err50 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data13.derivativeFilter !== undefined){
+let data15 = data13.derivativeFilter;
+if((typeof data15 == "number") && (isFinite(data15))){
+if(data15 <= 0 || isNaN(data15)){
+const err50 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err50];
 }
@@ -10656,11 +11322,8 @@ vErrors.push(err50);
 errors++;
 }
 }
-if(data12.computationLatency_s !== undefined){
-let data17 = data12.computationLatency_s;
-if((typeof data17 == "number") && (isFinite(data17))){
-if(data17 < 0 || isNaN(data17)){
-const err51 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err51 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err51];
 }
@@ -10670,8 +11333,10 @@ vErrors.push(err51);
 errors++;
 }
 }
-else {
-const err52 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data13.discretisation !== undefined){
+let data16 = data13.discretisation;
+if(!((data16 === "tustin") || (data16 === "backward-euler"))){
+const err52 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema11.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err52];
 }
@@ -10681,11 +11346,11 @@ vErrors.push(err52);
 errors++;
 }
 }
-if(data12.integratorClamp_rad !== undefined){
-let data18 = data12.integratorClamp_rad;
-if((typeof data18 == "number") && (isFinite(data18))){
-if(data18 <= 0 || isNaN(data18)){
-const err53 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data13.sampleTime_s !== undefined){
+let data17 = data13.sampleTime_s;
+if((typeof data17 == "number") && (isFinite(data17))){
+if(data17 <= 0 || isNaN(data17)){
+const err53 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err53];
 }
@@ -10696,7 +11361,7 @@ errors++;
 }
 }
 else {
-const err54 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err54 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err54];
 }
@@ -10706,9 +11371,11 @@ vErrors.push(err54);
 errors++;
 }
 }
-if(data12.equation !== undefined){
-if(typeof data12.equation !== "string"){
-const err55 = {instancePath:instancePath+"/controller/equation",schemaPath:"#/properties/controller/properties/equation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data13.computationLatency_s !== undefined){
+let data18 = data13.computationLatency_s;
+if((typeof data18 == "number") && (isFinite(data18))){
+if(data18 < 0 || isNaN(data18)){
+const err55 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err55];
 }
@@ -10718,13 +11385,8 @@ vErrors.push(err55);
 errors++;
 }
 }
-if(data12.update !== undefined){
-let data20 = data12.update;
-if(Array.isArray(data20)){
-const len0 = data20.length;
-for(let i0=0; i0<len0; i0++){
-if(typeof data20[i0] !== "string"){
-const err56 = {instancePath:instancePath+"/controller/update/" + i0,schemaPath:"#/properties/controller/properties/update/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+else {
+const err56 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err56];
 }
@@ -10734,9 +11396,11 @@ vErrors.push(err56);
 errors++;
 }
 }
-}
-else {
-const err57 = {instancePath:instancePath+"/controller/update",schemaPath:"#/properties/controller/properties/update/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data13.integratorClamp_rad !== undefined){
+let data19 = data13.integratorClamp_rad;
+if((typeof data19 == "number") && (isFinite(data19))){
+if(data19 <= 0 || isNaN(data19)){
+const err57 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err57];
 }
@@ -10746,9 +11410,8 @@ vErrors.push(err57);
 errors++;
 }
 }
-if(data12.integration !== undefined){
-if(typeof data12.integration !== "string"){
-const err58 = {instancePath:instancePath+"/controller/integration",schemaPath:"#/properties/controller/properties/integration/type",keyword:"type",params:{type: "string"},message:"must be string"};
+else {
+const err58 = {instancePath:instancePath+"/controller/integratorClamp_rad",schemaPath:"#/properties/controller/properties/integratorClamp_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err58];
 }
@@ -10758,9 +11421,10 @@ vErrors.push(err58);
 errors++;
 }
 }
-}
-else {
-const err59 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data13.antiWindup !== undefined){
+let data20 = data13.antiWindup;
+if(!((data20 === "conditional-integration") || (data20 === "back-calculation"))){
+const err59 = {instancePath:instancePath+"/controller/antiWindup",schemaPath:"#/properties/controller/properties/antiWindup/enum",keyword:"enum",params:{allowedValues: schema11.properties.controller.properties.antiWindup.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err59];
 }
@@ -10770,11 +11434,9 @@ vErrors.push(err59);
 errors++;
 }
 }
-if(data.interpolation !== undefined){
-let data23 = data.interpolation;
-if(data23 && typeof data23 == "object" && !Array.isArray(data23)){
-if(data23.method === undefined){
-const err60 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
+if(data13.equation !== undefined){
+if(typeof data13.equation !== "string"){
+const err60 = {instancePath:instancePath+"/controller/equation",schemaPath:"#/properties/controller/properties/equation/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err60];
 }
@@ -10783,8 +11445,10 @@ vErrors.push(err60);
 }
 errors++;
 }
-if(data23.outOfRange === undefined){
-const err61 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "outOfRange"},message:"must have required property '"+"outOfRange"+"'"};
+}
+if(data13.feedForward !== undefined){
+if(typeof data13.feedForward !== "string"){
+const err61 = {instancePath:instancePath+"/controller/feedForward",schemaPath:"#/properties/controller/properties/feedForward/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err61];
 }
@@ -10793,8 +11457,14 @@ vErrors.push(err61);
 }
 errors++;
 }
-if(data23.lowSpeedFloor_mps === undefined){
-const err62 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "lowSpeedFloor_mps"},message:"must have required property '"+"lowSpeedFloor_mps"+"'"};
+}
+if(data13.update !== undefined){
+let data23 = data13.update;
+if(Array.isArray(data23)){
+const len0 = data23.length;
+for(let i0=0; i0<len0; i0++){
+if(typeof data23[i0] !== "string"){
+const err62 = {instancePath:instancePath+"/controller/update/" + i0,schemaPath:"#/properties/controller/properties/update/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err62];
 }
@@ -10803,8 +11473,10 @@ vErrors.push(err62);
 }
 errors++;
 }
-if(data23.description === undefined){
-const err63 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
+}
+}
+else {
+const err63 = {instancePath:instancePath+"/controller/update",schemaPath:"#/properties/controller/properties/update/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err63];
 }
@@ -10813,9 +11485,10 @@ vErrors.push(err63);
 }
 errors++;
 }
-for(const key4 in data23){
-if(!((((key4 === "method") || (key4 === "outOfRange")) || (key4 === "lowSpeedFloor_mps")) || (key4 === "description"))){
-const err64 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
+}
+if(data13.integration !== undefined){
+if(typeof data13.integration !== "string"){
+const err64 = {instancePath:instancePath+"/controller/integration",schemaPath:"#/properties/controller/properties/integration/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err64];
 }
@@ -10825,10 +11498,9 @@ vErrors.push(err64);
 errors++;
 }
 }
-if(data23.method !== undefined){
-let data24 = data23.method;
-if(!((data24 === "linear") || (data24 === "monotone-cubic"))){
-const err65 = {instancePath:instancePath+"/interpolation/method",schemaPath:"#/properties/interpolation/properties/method/enum",keyword:"enum",params:{allowedValues: schema11.properties.interpolation.properties.method.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err65 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err65];
 }
@@ -10838,9 +11510,11 @@ vErrors.push(err65);
 errors++;
 }
 }
-if(data23.outOfRange !== undefined){
-if("clamp" !== data23.outOfRange){
-const err66 = {instancePath:instancePath+"/interpolation/outOfRange",schemaPath:"#/properties/interpolation/properties/outOfRange/const",keyword:"const",params:{allowedValue: "clamp"},message:"must be equal to constant"};
+if(data.interpolation !== undefined){
+let data26 = data.interpolation;
+if(data26 && typeof data26 == "object" && !Array.isArray(data26)){
+if(data26.method === undefined){
+const err66 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
 if(vErrors === null){
 vErrors = [err66];
 }
@@ -10849,12 +11523,8 @@ vErrors.push(err66);
 }
 errors++;
 }
-}
-if(data23.lowSpeedFloor_mps !== undefined){
-let data26 = data23.lowSpeedFloor_mps;
-if((typeof data26 == "number") && (isFinite(data26))){
-if(data26 < 0 || isNaN(data26)){
-const err67 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data26.outOfRange === undefined){
+const err67 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "outOfRange"},message:"must have required property '"+"outOfRange"+"'"};
 if(vErrors === null){
 vErrors = [err67];
 }
@@ -10863,9 +11533,8 @@ vErrors.push(err67);
 }
 errors++;
 }
-}
-else {
-const err68 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data26.lowSpeedFloor_mps === undefined){
+const err68 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "lowSpeedFloor_mps"},message:"must have required property '"+"lowSpeedFloor_mps"+"'"};
 if(vErrors === null){
 vErrors = [err68];
 }
@@ -10874,10 +11543,8 @@ vErrors.push(err68);
 }
 errors++;
 }
-}
-if(data23.description !== undefined){
-if(typeof data23.description !== "string"){
-const err69 = {instancePath:instancePath+"/interpolation/description",schemaPath:"#/properties/interpolation/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data26.description === undefined){
+const err69 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
 if(vErrors === null){
 vErrors = [err69];
 }
@@ -10886,10 +11553,9 @@ vErrors.push(err69);
 }
 errors++;
 }
-}
-}
-else {
-const err70 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key4 in data26){
+if(!((((key4 === "method") || (key4 === "outOfRange")) || (key4 === "lowSpeedFloor_mps")) || (key4 === "description"))){
+const err70 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err70];
 }
@@ -10899,11 +11565,10 @@ vErrors.push(err70);
 errors++;
 }
 }
-if(data.units !== undefined){
-let data28 = data.units;
-if(data28 && typeof data28 == "object" && !Array.isArray(data28)){
-if(data28.speed === undefined){
-const err71 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "speed"},message:"must have required property '"+"speed"+"'"};
+if(data26.method !== undefined){
+let data27 = data26.method;
+if(!((data27 === "linear") || (data27 === "monotone-cubic"))){
+const err71 = {instancePath:instancePath+"/interpolation/method",schemaPath:"#/properties/interpolation/properties/method/enum",keyword:"enum",params:{allowedValues: schema11.properties.interpolation.properties.method.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err71];
 }
@@ -10912,8 +11577,10 @@ vErrors.push(err71);
 }
 errors++;
 }
-if(data28.error === undefined){
-const err72 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "error"},message:"must have required property '"+"error"+"'"};
+}
+if(data26.outOfRange !== undefined){
+if("clamp" !== data26.outOfRange){
+const err72 = {instancePath:instancePath+"/interpolation/outOfRange",schemaPath:"#/properties/interpolation/properties/outOfRange/const",keyword:"const",params:{allowedValue: "clamp"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err72];
 }
@@ -10922,8 +11589,12 @@ vErrors.push(err72);
 }
 errors++;
 }
-if(data28.output === undefined){
-const err73 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "output"},message:"must have required property '"+"output"+"'"};
+}
+if(data26.lowSpeedFloor_mps !== undefined){
+let data29 = data26.lowSpeedFloor_mps;
+if((typeof data29 == "number") && (isFinite(data29))){
+if(data29 < 0 || isNaN(data29)){
+const err73 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err73];
 }
@@ -10932,8 +11603,9 @@ vErrors.push(err73);
 }
 errors++;
 }
-if(data28.kp === undefined){
-const err74 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
+}
+else {
+const err74 = {instancePath:instancePath+"/interpolation/lowSpeedFloor_mps",schemaPath:"#/properties/interpolation/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err74];
 }
@@ -10942,8 +11614,10 @@ vErrors.push(err74);
 }
 errors++;
 }
-if(data28.ki === undefined){
-const err75 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
+}
+if(data26.description !== undefined){
+if(typeof data26.description !== "string"){
+const err75 = {instancePath:instancePath+"/interpolation/description",schemaPath:"#/properties/interpolation/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err75];
 }
@@ -10952,8 +11626,10 @@ vErrors.push(err75);
 }
 errors++;
 }
-if(data28.kd === undefined){
-const err76 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
+}
+}
+else {
+const err76 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err76];
 }
@@ -10962,9 +11638,12 @@ vErrors.push(err76);
 }
 errors++;
 }
-for(const key5 in data28){
-if(!((((((key5 === "speed") || (key5 === "error")) || (key5 === "output")) || (key5 === "kp")) || (key5 === "ki")) || (key5 === "kd"))){
-const err77 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
+}
+if(data.units !== undefined){
+let data31 = data.units;
+if(data31 && typeof data31 == "object" && !Array.isArray(data31)){
+if(data31.speed === undefined){
+const err77 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "speed"},message:"must have required property '"+"speed"+"'"};
 if(vErrors === null){
 vErrors = [err77];
 }
@@ -10973,10 +11652,8 @@ vErrors.push(err77);
 }
 errors++;
 }
-}
-if(data28.speed !== undefined){
-if("m/s" !== data28.speed){
-const err78 = {instancePath:instancePath+"/units/speed",schemaPath:"#/properties/units/properties/speed/const",keyword:"const",params:{allowedValue: "m/s"},message:"must be equal to constant"};
+if(data31.error === undefined){
+const err78 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "error"},message:"must have required property '"+"error"+"'"};
 if(vErrors === null){
 vErrors = [err78];
 }
@@ -10985,10 +11662,8 @@ vErrors.push(err78);
 }
 errors++;
 }
-}
-if(data28.error !== undefined){
-if(typeof data28.error !== "string"){
-const err79 = {instancePath:instancePath+"/units/error",schemaPath:"#/properties/units/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.output === undefined){
+const err79 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "output"},message:"must have required property '"+"output"+"'"};
 if(vErrors === null){
 vErrors = [err79];
 }
@@ -10997,10 +11672,8 @@ vErrors.push(err79);
 }
 errors++;
 }
-}
-if(data28.output !== undefined){
-if("rad" !== data28.output){
-const err80 = {instancePath:instancePath+"/units/output",schemaPath:"#/properties/units/properties/output/const",keyword:"const",params:{allowedValue: "rad"},message:"must be equal to constant"};
+if(data31.kp === undefined){
+const err80 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
 if(vErrors === null){
 vErrors = [err80];
 }
@@ -11009,10 +11682,8 @@ vErrors.push(err80);
 }
 errors++;
 }
-}
-if(data28.kp !== undefined){
-if(typeof data28.kp !== "string"){
-const err81 = {instancePath:instancePath+"/units/kp",schemaPath:"#/properties/units/properties/kp/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.ki === undefined){
+const err81 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
 if(vErrors === null){
 vErrors = [err81];
 }
@@ -11021,10 +11692,8 @@ vErrors.push(err81);
 }
 errors++;
 }
-}
-if(data28.ki !== undefined){
-if(typeof data28.ki !== "string"){
-const err82 = {instancePath:instancePath+"/units/ki",schemaPath:"#/properties/units/properties/ki/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.kd === undefined){
+const err82 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
 if(vErrors === null){
 vErrors = [err82];
 }
@@ -11033,10 +11702,8 @@ vErrors.push(err82);
 }
 errors++;
 }
-}
-if(data28.kd !== undefined){
-if(typeof data28.kd !== "string"){
-const err83 = {instancePath:instancePath+"/units/kd",schemaPath:"#/properties/units/properties/kd/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data31.feedForward === undefined){
+const err83 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "feedForward"},message:"must have required property '"+"feedForward"+"'"};
 if(vErrors === null){
 vErrors = [err83];
 }
@@ -11045,10 +11712,8 @@ vErrors.push(err83);
 }
 errors++;
 }
-}
-}
-else {
-const err84 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data31.feedForwardInput === undefined){
+const err84 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/required",keyword:"required",params:{missingProperty: "feedForwardInput"},message:"must have required property '"+"feedForwardInput"+"'"};
 if(vErrors === null){
 vErrors = [err84];
 }
@@ -11057,12 +11722,9 @@ vErrors.push(err84);
 }
 errors++;
 }
-}
-if(data.breakpoints !== undefined){
-let data35 = data.breakpoints;
-if(Array.isArray(data35)){
-if(data35.length < 1){
-const err85 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key5 in data31){
+if(!((((((((key5 === "speed") || (key5 === "error")) || (key5 === "output")) || (key5 === "kp")) || (key5 === "ki")) || (key5 === "kd")) || (key5 === "feedForward")) || (key5 === "feedForwardInput"))){
+const err85 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err85];
 }
@@ -11071,12 +11733,10 @@ vErrors.push(err85);
 }
 errors++;
 }
-const len1 = data35.length;
-for(let i1=0; i1<len1; i1++){
-let data36 = data35[i1];
-if(data36 && typeof data36 == "object" && !Array.isArray(data36)){
-if(data36.speed_mps === undefined){
-const err86 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+if(data31.speed !== undefined){
+if("m/s" !== data31.speed){
+const err86 = {instancePath:instancePath+"/units/speed",schemaPath:"#/properties/units/properties/speed/const",keyword:"const",params:{allowedValue: "m/s"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err86];
 }
@@ -11085,8 +11745,10 @@ vErrors.push(err86);
 }
 errors++;
 }
-if(data36.kp === undefined){
-const err87 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
+}
+if(data31.error !== undefined){
+if(typeof data31.error !== "string"){
+const err87 = {instancePath:instancePath+"/units/error",schemaPath:"#/properties/units/properties/error/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err87];
 }
@@ -11095,8 +11757,10 @@ vErrors.push(err87);
 }
 errors++;
 }
-if(data36.ki === undefined){
-const err88 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
+}
+if(data31.output !== undefined){
+if("rad" !== data31.output){
+const err88 = {instancePath:instancePath+"/units/output",schemaPath:"#/properties/units/properties/output/const",keyword:"const",params:{allowedValue: "rad"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err88];
 }
@@ -11105,8 +11769,10 @@ vErrors.push(err88);
 }
 errors++;
 }
-if(data36.kd === undefined){
-const err89 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
+}
+if(data31.kp !== undefined){
+if(typeof data31.kp !== "string"){
+const err89 = {instancePath:instancePath+"/units/kp",schemaPath:"#/properties/units/properties/kp/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err89];
 }
@@ -11115,8 +11781,10 @@ vErrors.push(err89);
 }
 errors++;
 }
-if(data36.insertedByRefinement === undefined){
-const err90 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "insertedByRefinement"},message:"must have required property '"+"insertedByRefinement"+"'"};
+}
+if(data31.ki !== undefined){
+if(typeof data31.ki !== "string"){
+const err90 = {instancePath:instancePath+"/units/ki",schemaPath:"#/properties/units/properties/ki/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err90];
 }
@@ -11125,8 +11793,10 @@ vErrors.push(err90);
 }
 errors++;
 }
-if(data36.margins === undefined){
-const err91 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "margins"},message:"must have required property '"+"margins"+"'"};
+}
+if(data31.kd !== undefined){
+if(typeof data31.kd !== "string"){
+const err91 = {instancePath:instancePath+"/units/kd",schemaPath:"#/properties/units/properties/kd/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err91];
 }
@@ -11135,9 +11805,10 @@ vErrors.push(err91);
 }
 errors++;
 }
-for(const key6 in data36){
-if(!((((((key6 === "speed_mps") || (key6 === "kp")) || (key6 === "ki")) || (key6 === "kd")) || (key6 === "insertedByRefinement")) || (key6 === "margins"))){
-const err92 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+}
+if(data31.feedForward !== undefined){
+if(typeof data31.feedForward !== "string"){
+const err92 = {instancePath:instancePath+"/units/feedForward",schemaPath:"#/properties/units/properties/feedForward/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err92];
 }
@@ -11147,11 +11818,9 @@ vErrors.push(err92);
 errors++;
 }
 }
-if(data36.speed_mps !== undefined){
-let data37 = data36.speed_mps;
-if((typeof data37 == "number") && (isFinite(data37))){
-if(data37 < 0 || isNaN(data37)){
-const err93 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data31.feedForwardInput !== undefined){
+if(typeof data31.feedForwardInput !== "string"){
+const err93 = {instancePath:instancePath+"/units/feedForwardInput",schemaPath:"#/properties/units/properties/feedForwardInput/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err93];
 }
@@ -11161,8 +11830,9 @@ vErrors.push(err93);
 errors++;
 }
 }
+}
 else {
-const err94 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err94 = {instancePath:instancePath+"/units",schemaPath:"#/properties/units/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err94];
 }
@@ -11172,10 +11842,11 @@ vErrors.push(err94);
 errors++;
 }
 }
-if(data36.kp !== undefined){
-let data38 = data36.kp;
-if(!((typeof data38 == "number") && (isFinite(data38)))){
-const err95 = {instancePath:instancePath+"/breakpoints/" + i1+"/kp",schemaPath:"#/properties/breakpoints/items/properties/kp/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data.breakpoints !== undefined){
+let data40 = data.breakpoints;
+if(Array.isArray(data40)){
+if(data40.length < 1){
+const err95 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err95];
 }
@@ -11184,11 +11855,12 @@ vErrors.push(err95);
 }
 errors++;
 }
-}
-if(data36.ki !== undefined){
-let data39 = data36.ki;
-if(!((typeof data39 == "number") && (isFinite(data39)))){
-const err96 = {instancePath:instancePath+"/breakpoints/" + i1+"/ki",schemaPath:"#/properties/breakpoints/items/properties/ki/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len1 = data40.length;
+for(let i1=0; i1<len1; i1++){
+let data41 = data40[i1];
+if(data41 && typeof data41 == "object" && !Array.isArray(data41)){
+if(data41.speed_mps === undefined){
+const err96 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err96];
 }
@@ -11197,11 +11869,8 @@ vErrors.push(err96);
 }
 errors++;
 }
-}
-if(data36.kd !== undefined){
-let data40 = data36.kd;
-if(!((typeof data40 == "number") && (isFinite(data40)))){
-const err97 = {instancePath:instancePath+"/breakpoints/" + i1+"/kd",schemaPath:"#/properties/breakpoints/items/properties/kd/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data41.kp === undefined){
+const err97 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kp"},message:"must have required property '"+"kp"+"'"};
 if(vErrors === null){
 vErrors = [err97];
 }
@@ -11210,10 +11879,8 @@ vErrors.push(err97);
 }
 errors++;
 }
-}
-if(data36.insertedByRefinement !== undefined){
-if(typeof data36.insertedByRefinement !== "boolean"){
-const err98 = {instancePath:instancePath+"/breakpoints/" + i1+"/insertedByRefinement",schemaPath:"#/properties/breakpoints/items/properties/insertedByRefinement/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(data41.ki === undefined){
+const err98 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "ki"},message:"must have required property '"+"ki"+"'"};
 if(vErrors === null){
 vErrors = [err98];
 }
@@ -11222,12 +11889,8 @@ vErrors.push(err98);
 }
 errors++;
 }
-}
-if(data36.margins !== undefined){
-let data42 = data36.margins;
-if(data42 && typeof data42 == "object" && !Array.isArray(data42)){
-if(data42.stable === undefined){
-const err99 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "stable"},message:"must have required property '"+"stable"+"'"};
+if(data41.kd === undefined){
+const err99 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "kd"},message:"must have required property '"+"kd"+"'"};
 if(vErrors === null){
 vErrors = [err99];
 }
@@ -11236,8 +11899,8 @@ vErrors.push(err99);
 }
 errors++;
 }
-if(data42.verdict === undefined){
-const err100 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "verdict"},message:"must have required property '"+"verdict"+"'"};
+if(data41.setpointWeightProportional === undefined){
+const err100 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "setpointWeightProportional"},message:"must have required property '"+"setpointWeightProportional"+"'"};
 if(vErrors === null){
 vErrors = [err100];
 }
@@ -11246,8 +11909,8 @@ vErrors.push(err100);
 }
 errors++;
 }
-if(data42.lowerGainMargin_dB === undefined){
-const err101 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+if(data41.setpointWeightDerivative === undefined){
+const err101 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "setpointWeightDerivative"},message:"must have required property '"+"setpointWeightDerivative"+"'"};
 if(vErrors === null){
 vErrors = [err101];
 }
@@ -11256,8 +11919,8 @@ vErrors.push(err101);
 }
 errors++;
 }
-if(data42.upperGainMargin_dB === undefined){
-const err102 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(data41.feedForward === undefined){
+const err102 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "feedForward"},message:"must have required property '"+"feedForward"+"'"};
 if(vErrors === null){
 vErrors = [err102];
 }
@@ -11266,8 +11929,8 @@ vErrors.push(err102);
 }
 errors++;
 }
-if(data42.phaseMargin_deg === undefined){
-const err103 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data41.feedForwardLeadTime_s === undefined){
+const err103 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "feedForwardLeadTime_s"},message:"must have required property '"+"feedForwardLeadTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err103];
 }
@@ -11276,8 +11939,8 @@ vErrors.push(err103);
 }
 errors++;
 }
-if(data42.delayMargin_s === undefined){
-const err104 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+if(data41.insertedByRefinement === undefined){
+const err104 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "insertedByRefinement"},message:"must have required property '"+"insertedByRefinement"+"'"};
 if(vErrors === null){
 vErrors = [err104];
 }
@@ -11286,8 +11949,8 @@ vErrors.push(err104);
 }
 errors++;
 }
-if(data42.sensitivityPeak === undefined){
-const err105 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+if(data41.margins === undefined){
+const err105 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "margins"},message:"must have required property '"+"margins"+"'"};
 if(vErrors === null){
 vErrors = [err105];
 }
@@ -11296,8 +11959,8 @@ vErrors.push(err105);
 }
 errors++;
 }
-if(data42.complementarySensitivityPeak === undefined){
-const err106 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+if(data41.timeDomain === undefined){
+const err106 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "timeDomain"},message:"must have required property '"+"timeDomain"+"'"};
 if(vErrors === null){
 vErrors = [err106];
 }
@@ -11306,9 +11969,9 @@ vErrors.push(err106);
 }
 errors++;
 }
-for(const key7 in data42){
-if(!((((((((key7 === "stable") || (key7 === "verdict")) || (key7 === "lowerGainMargin_dB")) || (key7 === "upperGainMargin_dB")) || (key7 === "phaseMargin_deg")) || (key7 === "delayMargin_s")) || (key7 === "sensitivityPeak")) || (key7 === "complementarySensitivityPeak"))){
-const err107 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+for(const key6 in data41){
+if(!(func18.call(schema11.properties.breakpoints.items.properties, key6))){
+const err107 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err107];
 }
@@ -11318,9 +11981,11 @@ vErrors.push(err107);
 errors++;
 }
 }
-if(data42.stable !== undefined){
-if(typeof data42.stable !== "boolean"){
-const err108 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/stable",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/stable/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(data41.speed_mps !== undefined){
+let data42 = data41.speed_mps;
+if((typeof data42 == "number") && (isFinite(data42))){
+if(data42 < 0 || isNaN(data42)){
+const err108 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err108];
 }
@@ -11330,10 +11995,8 @@ vErrors.push(err108);
 errors++;
 }
 }
-if(data42.verdict !== undefined){
-let data44 = data42.verdict;
-if(!(((data44 === "stable") || (data44 === "unstable")) || (data44 === "marginal"))){
-const err109 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/verdict",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/verdict/enum",keyword:"enum",params:{allowedValues: schema11.properties.breakpoints.items.properties.margins.properties.verdict.enum},message:"must be equal to one of the allowed values"};
+else {
+const err109 = {instancePath:instancePath+"/breakpoints/" + i1+"/speed_mps",schemaPath:"#/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err109];
 }
@@ -11343,10 +12006,10 @@ vErrors.push(err109);
 errors++;
 }
 }
-if(data42.lowerGainMargin_dB !== undefined){
-let data45 = data42.lowerGainMargin_dB;
-if((!((typeof data45 == "number") && (isFinite(data45)))) && (data45 !== null)){
-const err110 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/lowerGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.lowerGainMargin_dB.type},message:"must be number,null"};
+if(data41.kp !== undefined){
+let data43 = data41.kp;
+if(!((typeof data43 == "number") && (isFinite(data43)))){
+const err110 = {instancePath:instancePath+"/breakpoints/" + i1+"/kp",schemaPath:"#/properties/breakpoints/items/properties/kp/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err110];
 }
@@ -11356,10 +12019,10 @@ vErrors.push(err110);
 errors++;
 }
 }
-if(data42.upperGainMargin_dB !== undefined){
-let data46 = data42.upperGainMargin_dB;
-if((!((typeof data46 == "number") && (isFinite(data46)))) && (data46 !== null)){
-const err111 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/upperGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.upperGainMargin_dB.type},message:"must be number,null"};
+if(data41.ki !== undefined){
+let data44 = data41.ki;
+if(!((typeof data44 == "number") && (isFinite(data44)))){
+const err111 = {instancePath:instancePath+"/breakpoints/" + i1+"/ki",schemaPath:"#/properties/breakpoints/items/properties/ki/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err111];
 }
@@ -11369,10 +12032,10 @@ vErrors.push(err111);
 errors++;
 }
 }
-if(data42.phaseMargin_deg !== undefined){
-let data47 = data42.phaseMargin_deg;
-if((!((typeof data47 == "number") && (isFinite(data47)))) && (data47 !== null)){
-const err112 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/phaseMargin_deg",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.phaseMargin_deg.type},message:"must be number,null"};
+if(data41.kd !== undefined){
+let data45 = data41.kd;
+if(!((typeof data45 == "number") && (isFinite(data45)))){
+const err112 = {instancePath:instancePath+"/breakpoints/" + i1+"/kd",schemaPath:"#/properties/breakpoints/items/properties/kd/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err112];
 }
@@ -11382,10 +12045,11 @@ vErrors.push(err112);
 errors++;
 }
 }
-if(data42.delayMargin_s !== undefined){
-let data48 = data42.delayMargin_s;
-if((!((typeof data48 == "number") && (isFinite(data48)))) && (data48 !== null)){
-const err113 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/delayMargin_s",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.delayMargin_s.type},message:"must be number,null"};
+if(data41.setpointWeightProportional !== undefined){
+let data46 = data41.setpointWeightProportional;
+if((typeof data46 == "number") && (isFinite(data46))){
+if(data46 > 1 || isNaN(data46)){
+const err113 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightProportional",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightProportional/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
 if(vErrors === null){
 vErrors = [err113];
 }
@@ -11394,11 +12058,8 @@ vErrors.push(err113);
 }
 errors++;
 }
-}
-if(data42.sensitivityPeak !== undefined){
-let data49 = data42.sensitivityPeak;
-if((!((typeof data49 == "number") && (isFinite(data49)))) && (data49 !== null)){
-const err114 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/sensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.sensitivityPeak.type},message:"must be number,null"};
+if(data46 < 0 || isNaN(data46)){
+const err114 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightProportional",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightProportional/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err114];
 }
@@ -11408,10 +12069,8 @@ vErrors.push(err114);
 errors++;
 }
 }
-if(data42.complementarySensitivityPeak !== undefined){
-let data50 = data42.complementarySensitivityPeak;
-if((!((typeof data50 == "number") && (isFinite(data50)))) && (data50 !== null)){
-const err115 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/complementarySensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/complementarySensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.complementarySensitivityPeak.type},message:"must be number,null"};
+else {
+const err115 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightProportional",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightProportional/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err115];
 }
@@ -11421,9 +12080,11 @@ vErrors.push(err115);
 errors++;
 }
 }
-}
-else {
-const err116 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data41.setpointWeightDerivative !== undefined){
+let data47 = data41.setpointWeightDerivative;
+if((typeof data47 == "number") && (isFinite(data47))){
+if(data47 > 1 || isNaN(data47)){
+const err116 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightDerivative",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightDerivative/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
 if(vErrors === null){
 vErrors = [err116];
 }
@@ -11432,10 +12093,8 @@ vErrors.push(err116);
 }
 errors++;
 }
-}
-}
-else {
-const err117 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data47 < 0 || isNaN(data47)){
+const err117 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightDerivative",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightDerivative/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err117];
 }
@@ -11445,9 +12104,8 @@ vErrors.push(err117);
 errors++;
 }
 }
-}
 else {
-const err118 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err118 = {instancePath:instancePath+"/breakpoints/" + i1+"/setpointWeightDerivative",schemaPath:"#/properties/breakpoints/items/properties/setpointWeightDerivative/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err118];
 }
@@ -11457,11 +12115,10 @@ vErrors.push(err118);
 errors++;
 }
 }
-if(data.check !== undefined){
-let data51 = data.check;
-if(data51 && typeof data51 == "object" && !Array.isArray(data51)){
-if(data51.passed === undefined){
-const err119 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
+if(data41.feedForward !== undefined){
+let data48 = data41.feedForward;
+if(!((typeof data48 == "number") && (isFinite(data48)))){
+const err119 = {instancePath:instancePath+"/breakpoints/" + i1+"/feedForward",schemaPath:"#/properties/breakpoints/items/properties/feedForward/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err119];
 }
@@ -11470,8 +12127,11 @@ vErrors.push(err119);
 }
 errors++;
 }
-if(data51.model === undefined){
-const err120 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+}
+if(data41.feedForwardLeadTime_s !== undefined){
+let data49 = data41.feedForwardLeadTime_s;
+if(!((typeof data49 == "number") && (isFinite(data49)))){
+const err120 = {instancePath:instancePath+"/breakpoints/" + i1+"/feedForwardLeadTime_s",schemaPath:"#/properties/breakpoints/items/properties/feedForwardLeadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err120];
 }
@@ -11480,8 +12140,10 @@ vErrors.push(err120);
 }
 errors++;
 }
-if(data51.range === undefined){
-const err121 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "range"},message:"must have required property '"+"range"+"'"};
+}
+if(data41.insertedByRefinement !== undefined){
+if(typeof data41.insertedByRefinement !== "boolean"){
+const err121 = {instancePath:instancePath+"/breakpoints/" + i1+"/insertedByRefinement",schemaPath:"#/properties/breakpoints/items/properties/insertedByRefinement/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err121];
 }
@@ -11490,8 +12152,12 @@ vErrors.push(err121);
 }
 errors++;
 }
-if(data51.gridSpeeds === undefined){
-const err122 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSpeeds"},message:"must have required property '"+"gridSpeeds"+"'"};
+}
+if(data41.margins !== undefined){
+let data51 = data41.margins;
+if(data51 && typeof data51 == "object" && !Array.isArray(data51)){
+if(data51.stable === undefined){
+const err122 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "stable"},message:"must have required property '"+"stable"+"'"};
 if(vErrors === null){
 vErrors = [err122];
 }
@@ -11500,8 +12166,8 @@ vErrors.push(err122);
 }
 errors++;
 }
-if(data51.gridSize === undefined){
-const err123 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(data51.verdict === undefined){
+const err123 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "verdict"},message:"must have required property '"+"verdict"+"'"};
 if(vErrors === null){
 vErrors = [err123];
 }
@@ -11510,8 +12176,8 @@ vErrors.push(err123);
 }
 errors++;
 }
-if(data51.thresholds === undefined){
-const err124 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "thresholds"},message:"must have required property '"+"thresholds"+"'"};
+if(data51.lowerGainMargin_dB === undefined){
+const err124 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err124];
 }
@@ -11520,8 +12186,8 @@ vErrors.push(err124);
 }
 errors++;
 }
-if(data51.worst === undefined){
-const err125 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(data51.upperGainMargin_dB === undefined){
+const err125 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err125];
 }
@@ -11530,8 +12196,8 @@ vErrors.push(err125);
 }
 errors++;
 }
-if(data51.failedSpeeds === undefined){
-const err126 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
+if(data51.phaseMargin_deg === undefined){
+const err126 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err126];
 }
@@ -11540,8 +12206,8 @@ vErrors.push(err126);
 }
 errors++;
 }
-if(data51.failures === undefined){
-const err127 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
+if(data51.delayMargin_s === undefined){
+const err127 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err127];
 }
@@ -11550,8 +12216,8 @@ vErrors.push(err127);
 }
 errors++;
 }
-if(data51.insertions === undefined){
-const err128 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "insertions"},message:"must have required property '"+"insertions"+"'"};
+if(data51.sensitivityPeak === undefined){
+const err128 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err128];
 }
@@ -11560,9 +12226,8 @@ vErrors.push(err128);
 }
 errors++;
 }
-for(const key8 in data51){
-if(!(func18.call(schema11.properties.check.properties, key8))){
-const err129 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
+if(data51.complementarySensitivityPeak === undefined){
+const err129 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err129];
 }
@@ -11571,10 +12236,9 @@ vErrors.push(err129);
 }
 errors++;
 }
-}
-if(data51.passed !== undefined){
-if(typeof data51.passed !== "boolean"){
-const err130 = {instancePath:instancePath+"/check/passed",schemaPath:"#/properties/check/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+for(const key7 in data51){
+if(!((((((((key7 === "stable") || (key7 === "verdict")) || (key7 === "lowerGainMargin_dB")) || (key7 === "upperGainMargin_dB")) || (key7 === "phaseMargin_deg")) || (key7 === "delayMargin_s")) || (key7 === "sensitivityPeak")) || (key7 === "complementarySensitivityPeak"))){
+const err130 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err130];
 }
@@ -11584,11 +12248,9 @@ vErrors.push(err130);
 errors++;
 }
 }
-if(data51.model !== undefined){
-let data53 = data51.model;
-if(data53 && typeof data53 == "object" && !Array.isArray(data53)){
-if(data53.kind === undefined){
-const err131 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "kind"},message:"must have required property '"+"kind"+"'"};
+if(data51.stable !== undefined){
+if(typeof data51.stable !== "boolean"){
+const err131 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/stable",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/stable/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err131];
 }
@@ -11597,8 +12259,11 @@ vErrors.push(err131);
 }
 errors++;
 }
-if(data53.description === undefined){
-const err132 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
+}
+if(data51.verdict !== undefined){
+let data53 = data51.verdict;
+if(!(((data53 === "stable") || (data53 === "unstable")) || (data53 === "marginal"))){
+const err132 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/verdict",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/verdict/enum",keyword:"enum",params:{allowedValues: schema11.properties.breakpoints.items.properties.margins.properties.verdict.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err132];
 }
@@ -11607,9 +12272,11 @@ vErrors.push(err132);
 }
 errors++;
 }
-for(const key9 in data53){
-if(!((key9 === "kind") || (key9 === "description"))){
-const err133 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
+}
+if(data51.lowerGainMargin_dB !== undefined){
+let data54 = data51.lowerGainMargin_dB;
+if((!((typeof data54 == "number") && (isFinite(data54)))) && (data54 !== null)){
+const err133 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/lowerGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.lowerGainMargin_dB.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err133];
 }
@@ -11619,10 +12286,10 @@ vErrors.push(err133);
 errors++;
 }
 }
-if(data53.kind !== undefined){
-let data54 = data53.kind;
-if(!((data54 === "single-track") || (data54 === "interpolated-lumped"))){
-const err134 = {instancePath:instancePath+"/check/model/kind",schemaPath:"#/properties/check/properties/model/properties/kind/enum",keyword:"enum",params:{allowedValues: schema11.properties.check.properties.model.properties.kind.enum},message:"must be equal to one of the allowed values"};
+if(data51.upperGainMargin_dB !== undefined){
+let data55 = data51.upperGainMargin_dB;
+if((!((typeof data55 == "number") && (isFinite(data55)))) && (data55 !== null)){
+const err134 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/upperGainMargin_dB",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.upperGainMargin_dB.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err134];
 }
@@ -11632,9 +12299,10 @@ vErrors.push(err134);
 errors++;
 }
 }
-if(data53.description !== undefined){
-if(typeof data53.description !== "string"){
-const err135 = {instancePath:instancePath+"/check/model/description",schemaPath:"#/properties/check/properties/model/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data51.phaseMargin_deg !== undefined){
+let data56 = data51.phaseMargin_deg;
+if((!((typeof data56 == "number") && (isFinite(data56)))) && (data56 !== null)){
+const err135 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/phaseMargin_deg",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.phaseMargin_deg.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err135];
 }
@@ -11644,9 +12312,10 @@ vErrors.push(err135);
 errors++;
 }
 }
-}
-else {
-const err136 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data51.delayMargin_s !== undefined){
+let data57 = data51.delayMargin_s;
+if((!((typeof data57 == "number") && (isFinite(data57)))) && (data57 !== null)){
+const err136 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/delayMargin_s",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.delayMargin_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err136];
 }
@@ -11656,11 +12325,10 @@ vErrors.push(err136);
 errors++;
 }
 }
-if(data51.range !== undefined){
-let data56 = data51.range;
-if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
-if(data56.minimum_mps === undefined){
-const err137 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "minimum_mps"},message:"must have required property '"+"minimum_mps"+"'"};
+if(data51.sensitivityPeak !== undefined){
+let data58 = data51.sensitivityPeak;
+if((!((typeof data58 == "number") && (isFinite(data58)))) && (data58 !== null)){
+const err137 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/sensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.sensitivityPeak.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err137];
 }
@@ -11669,8 +12337,11 @@ vErrors.push(err137);
 }
 errors++;
 }
-if(data56.maximum_mps === undefined){
-const err138 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "maximum_mps"},message:"must have required property '"+"maximum_mps"+"'"};
+}
+if(data51.complementarySensitivityPeak !== undefined){
+let data59 = data51.complementarySensitivityPeak;
+if((!((typeof data59 == "number") && (isFinite(data59)))) && (data59 !== null)){
+const err138 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins/complementarySensitivityPeak",schemaPath:"#/properties/breakpoints/items/properties/margins/properties/complementarySensitivityPeak/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.margins.properties.complementarySensitivityPeak.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err138];
 }
@@ -11679,9 +12350,10 @@ vErrors.push(err138);
 }
 errors++;
 }
-for(const key10 in data56){
-if(!((key10 === "minimum_mps") || (key10 === "maximum_mps"))){
-const err139 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
+}
+}
+else {
+const err139 = {instancePath:instancePath+"/breakpoints/" + i1+"/margins",schemaPath:"#/properties/breakpoints/items/properties/margins/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err139];
 }
@@ -11691,10 +12363,10 @@ vErrors.push(err139);
 errors++;
 }
 }
-if(data56.minimum_mps !== undefined){
-let data57 = data56.minimum_mps;
-if(!((typeof data57 == "number") && (isFinite(data57)))){
-const err140 = {instancePath:instancePath+"/check/range/minimum_mps",schemaPath:"#/properties/check/properties/range/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data41.timeDomain !== undefined){
+let data60 = data41.timeDomain;
+if((!(data60 && typeof data60 == "object" && !Array.isArray(data60))) && (data60 !== null)){
+const err140 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err140];
 }
@@ -11703,11 +12375,9 @@ vErrors.push(err140);
 }
 errors++;
 }
-}
-if(data56.maximum_mps !== undefined){
-let data58 = data56.maximum_mps;
-if(!((typeof data58 == "number") && (isFinite(data58)))){
-const err141 = {instancePath:instancePath+"/check/range/maximum_mps",schemaPath:"#/properties/check/properties/range/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data60 && typeof data60 == "object" && !Array.isArray(data60)){
+if(data60.referenceStep === undefined){
+const err141 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "referenceStep"},message:"must have required property '"+"referenceStep"+"'"};
 if(vErrors === null){
 vErrors = [err141];
 }
@@ -11716,10 +12386,8 @@ vErrors.push(err141);
 }
 errors++;
 }
-}
-}
-else {
-const err142 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data60.steeringMisalignment === undefined){
+const err142 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "steeringMisalignment"},message:"must have required property '"+"steeringMisalignment"+"'"};
 if(vErrors === null){
 vErrors = [err142];
 }
@@ -11728,11 +12396,8 @@ vErrors.push(err142);
 }
 errors++;
 }
-}
-if(data51.gridSpeeds !== undefined){
-let data59 = data51.gridSpeeds;
-if(!(((typeof data59 == "number") && (!(data59 % 1) && !isNaN(data59))) && (isFinite(data59)))){
-const err143 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data60.lateralForce === undefined){
+const err143 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "lateralForce"},message:"must have required property '"+"lateralForce"+"'"};
 if(vErrors === null){
 vErrors = [err143];
 }
@@ -11741,9 +12406,8 @@ vErrors.push(err143);
 }
 errors++;
 }
-if((typeof data59 == "number") && (isFinite(data59))){
-if(data59 < 2 || isNaN(data59)){
-const err144 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+if(data60.laneChange === undefined){
+const err144 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "laneChange"},message:"must have required property '"+"laneChange"+"'"};
 if(vErrors === null){
 vErrors = [err144];
 }
@@ -11752,12 +12416,8 @@ vErrors.push(err144);
 }
 errors++;
 }
-}
-}
-if(data51.gridSize !== undefined){
-let data60 = data51.gridSize;
-if(!(((typeof data60 == "number") && (!(data60 % 1) && !isNaN(data60))) && (isFinite(data60)))){
-const err145 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data60.curveEntry === undefined){
+const err145 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "curveEntry"},message:"must have required property '"+"curveEntry"+"'"};
 if(vErrors === null){
 vErrors = [err145];
 }
@@ -11766,9 +12426,8 @@ vErrors.push(err145);
 }
 errors++;
 }
-if((typeof data60 == "number") && (isFinite(data60))){
-if(data60 < 1 || isNaN(data60)){
-const err146 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data60.actuator === undefined){
+const err146 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "actuator"},message:"must have required property '"+"actuator"+"'"};
 if(vErrors === null){
 vErrors = [err146];
 }
@@ -11777,13 +12436,8 @@ vErrors.push(err146);
 }
 errors++;
 }
-}
-}
-if(data51.thresholds !== undefined){
-let data61 = data51.thresholds;
-if(data61 && typeof data61 == "object" && !Array.isArray(data61)){
-if(data61.maximumLowerGainMargin_dB === undefined){
-const err147 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumLowerGainMargin_dB"},message:"must have required property '"+"maximumLowerGainMargin_dB"+"'"};
+if(data60.limitedStep === undefined){
+const err147 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/required",keyword:"required",params:{missingProperty: "limitedStep"},message:"must have required property '"+"limitedStep"+"'"};
 if(vErrors === null){
 vErrors = [err147];
 }
@@ -11792,8 +12446,9 @@ vErrors.push(err147);
 }
 errors++;
 }
-if(data61.minimumUpperGainMargin_dB === undefined){
-const err148 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumUpperGainMargin_dB"},message:"must have required property '"+"minimumUpperGainMargin_dB"+"'"};
+for(const key8 in data60){
+if(!(((((((key8 === "referenceStep") || (key8 === "steeringMisalignment")) || (key8 === "lateralForce")) || (key8 === "laneChange")) || (key8 === "curveEntry")) || (key8 === "actuator")) || (key8 === "limitedStep"))){
+const err148 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err148];
 }
@@ -11802,8 +12457,12 @@ vErrors.push(err148);
 }
 errors++;
 }
-if(data61.minimumPhaseMargin_deg === undefined){
-const err149 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumPhaseMargin_deg"},message:"must have required property '"+"minimumPhaseMargin_deg"+"'"};
+}
+if(data60.referenceStep !== undefined){
+let data61 = data60.referenceStep;
+if(data61 && typeof data61 == "object" && !Array.isArray(data61)){
+if(data61.overshoot_pct === undefined){
+const err149 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/required",keyword:"required",params:{missingProperty: "overshoot_pct"},message:"must have required property '"+"overshoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err149];
 }
@@ -11812,8 +12471,8 @@ vErrors.push(err149);
 }
 errors++;
 }
-if(data61.maximumSensitivityPeak === undefined){
-const err150 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumSensitivityPeak"},message:"must have required property '"+"maximumSensitivityPeak"+"'"};
+if(data61.settlingTime_s === undefined){
+const err150 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/required",keyword:"required",params:{missingProperty: "settlingTime_s"},message:"must have required property '"+"settlingTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err150];
 }
@@ -11822,8 +12481,8 @@ vErrors.push(err150);
 }
 errors++;
 }
-if(data61.minimumDelayMargin_s === undefined){
-const err151 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumDelayMargin_s"},message:"must have required property '"+"minimumDelayMargin_s"+"'"};
+if(data61.settlingDistance_m === undefined){
+const err151 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/required",keyword:"required",params:{missingProperty: "settlingDistance_m"},message:"must have required property '"+"settlingDistance_m"+"'"};
 if(vErrors === null){
 vErrors = [err151];
 }
@@ -11832,9 +12491,9 @@ vErrors.push(err151);
 }
 errors++;
 }
-for(const key11 in data61){
-if(!(((((key11 === "maximumLowerGainMargin_dB") || (key11 === "minimumUpperGainMargin_dB")) || (key11 === "minimumPhaseMargin_deg")) || (key11 === "maximumSensitivityPeak")) || (key11 === "minimumDelayMargin_s"))){
-const err152 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
+for(const key9 in data61){
+if(!(((key9 === "overshoot_pct") || (key9 === "settlingTime_s")) || (key9 === "settlingDistance_m"))){
+const err152 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err152];
 }
@@ -11844,10 +12503,10 @@ vErrors.push(err152);
 errors++;
 }
 }
-if(data61.maximumLowerGainMargin_dB !== undefined){
-let data62 = data61.maximumLowerGainMargin_dB;
+if(data61.overshoot_pct !== undefined){
+let data62 = data61.overshoot_pct;
 if(!((typeof data62 == "number") && (isFinite(data62)))){
-const err153 = {instancePath:instancePath+"/check/thresholds/maximumLowerGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err153 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/overshoot_pct",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/overshoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err153];
 }
@@ -11857,10 +12516,10 @@ vErrors.push(err153);
 errors++;
 }
 }
-if(data61.minimumUpperGainMargin_dB !== undefined){
-let data63 = data61.minimumUpperGainMargin_dB;
-if(!((typeof data63 == "number") && (isFinite(data63)))){
-const err154 = {instancePath:instancePath+"/check/thresholds/minimumUpperGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data61.settlingTime_s !== undefined){
+let data63 = data61.settlingTime_s;
+if((!((typeof data63 == "number") && (isFinite(data63)))) && (data63 !== null)){
+const err154 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.referenceStep.properties.settlingTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err154];
 }
@@ -11869,11 +12528,9 @@ vErrors.push(err154);
 }
 errors++;
 }
-}
-if(data61.minimumPhaseMargin_deg !== undefined){
-let data64 = data61.minimumPhaseMargin_deg;
-if(!((typeof data64 == "number") && (isFinite(data64)))){
-const err155 = {instancePath:instancePath+"/check/thresholds/minimumPhaseMargin_deg",schemaPath:"#/properties/check/properties/thresholds/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if((typeof data63 == "number") && (isFinite(data63))){
+if(data63 < 0 || isNaN(data63)){
+const err155 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err155];
 }
@@ -11883,10 +12540,11 @@ vErrors.push(err155);
 errors++;
 }
 }
-if(data61.maximumSensitivityPeak !== undefined){
-let data65 = data61.maximumSensitivityPeak;
-if(!((typeof data65 == "number") && (isFinite(data65)))){
-const err156 = {instancePath:instancePath+"/check/thresholds/maximumSensitivityPeak",schemaPath:"#/properties/check/properties/thresholds/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+if(data61.settlingDistance_m !== undefined){
+let data64 = data61.settlingDistance_m;
+if((!((typeof data64 == "number") && (isFinite(data64)))) && (data64 !== null)){
+const err156 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingDistance_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingDistance_m/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.referenceStep.properties.settlingDistance_m.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err156];
 }
@@ -11895,11 +12553,9 @@ vErrors.push(err156);
 }
 errors++;
 }
-}
-if(data61.minimumDelayMargin_s !== undefined){
-let data66 = data61.minimumDelayMargin_s;
-if(!((typeof data66 == "number") && (isFinite(data66)))){
-const err157 = {instancePath:instancePath+"/check/thresholds/minimumDelayMargin_s",schemaPath:"#/properties/check/properties/thresholds/properties/minimumDelayMargin_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if((typeof data64 == "number") && (isFinite(data64))){
+if(data64 < 0 || isNaN(data64)){
+const err157 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep/settlingDistance_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/properties/settlingDistance_m/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err157];
 }
@@ -11910,8 +12566,9 @@ errors++;
 }
 }
 }
+}
 else {
-const err158 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err158 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/referenceStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/referenceStep/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err158];
 }
@@ -11921,11 +12578,11 @@ vErrors.push(err158);
 errors++;
 }
 }
-if(data51.worst !== undefined){
-let data67 = data51.worst;
-if(data67 && typeof data67 == "object" && !Array.isArray(data67)){
-if(data67.lowerGainMargin_dB === undefined){
-const err159 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+if(data60.steeringMisalignment !== undefined){
+let data65 = data60.steeringMisalignment;
+if(data65 && typeof data65 == "object" && !Array.isArray(data65)){
+if(data65.size === undefined){
+const err159 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/required",keyword:"required",params:{missingProperty: "size"},message:"must have required property '"+"size"+"'"};
 if(vErrors === null){
 vErrors = [err159];
 }
@@ -11934,8 +12591,8 @@ vErrors.push(err159);
 }
 errors++;
 }
-if(data67.upperGainMargin_dB === undefined){
-const err160 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(data65.peakError === undefined){
+const err160 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/required",keyword:"required",params:{missingProperty: "peakError"},message:"must have required property '"+"peakError"+"'"};
 if(vErrors === null){
 vErrors = [err160];
 }
@@ -11944,8 +12601,8 @@ vErrors.push(err160);
 }
 errors++;
 }
-if(data67.phaseMargin_deg === undefined){
-const err161 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data65.recoveryTime_s === undefined){
+const err161 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/required",keyword:"required",params:{missingProperty: "recoveryTime_s"},message:"must have required property '"+"recoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err161];
 }
@@ -11954,8 +12611,9 @@ vErrors.push(err161);
 }
 errors++;
 }
-if(data67.delayMargin_s === undefined){
-const err162 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+for(const key10 in data65){
+if(!(((key10 === "size") || (key10 === "peakError")) || (key10 === "recoveryTime_s"))){
+const err162 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err162];
 }
@@ -11964,8 +12622,11 @@ vErrors.push(err162);
 }
 errors++;
 }
-if(data67.sensitivityPeak === undefined){
-const err163 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+}
+if(data65.size !== undefined){
+let data66 = data65.size;
+if(!((typeof data66 == "number") && (isFinite(data66)))){
+const err163 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/size",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/size/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err163];
 }
@@ -11974,9 +12635,11 @@ vErrors.push(err163);
 }
 errors++;
 }
-for(const key12 in data67){
-if(!(((((key12 === "lowerGainMargin_dB") || (key12 === "upperGainMargin_dB")) || (key12 === "phaseMargin_deg")) || (key12 === "delayMargin_s")) || (key12 === "sensitivityPeak"))){
-const err164 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
+}
+if(data65.peakError !== undefined){
+let data67 = data65.peakError;
+if(!((typeof data67 == "number") && (isFinite(data67)))){
+const err164 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/peakError",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/peakError/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err164];
 }
@@ -11986,10 +12649,10 @@ vErrors.push(err164);
 errors++;
 }
 }
-if(data67.lowerGainMargin_dB !== undefined){
-let data68 = data67.lowerGainMargin_dB;
-if((!(data68 && typeof data68 == "object" && !Array.isArray(data68))) && (data68 !== null)){
-const err165 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.lowerGainMargin_dB.type},message:"must be object,null"};
+if(data65.recoveryTime_s !== undefined){
+let data68 = data65.recoveryTime_s;
+if((!((typeof data68 == "number") && (isFinite(data68)))) && (data68 !== null)){
+const err165 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/recoveryTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.steeringMisalignment.properties.recoveryTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err165];
 }
@@ -11998,9 +12661,9 @@ vErrors.push(err165);
 }
 errors++;
 }
-if(data68 && typeof data68 == "object" && !Array.isArray(data68)){
-if(data68.value === undefined){
-const err166 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if((typeof data68 == "number") && (isFinite(data68))){
+if(data68 < 0 || isNaN(data68)){
+const err166 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/properties/recoveryTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err166];
 }
@@ -12009,8 +12672,11 @@ vErrors.push(err166);
 }
 errors++;
 }
-if(data68.speed_mps === undefined){
-const err167 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+}
+}
+else {
+const err167 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/steeringMisalignment",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/steeringMisalignment/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err167];
 }
@@ -12019,9 +12685,11 @@ vErrors.push(err167);
 }
 errors++;
 }
-for(const key13 in data68){
-if(!((key13 === "value") || (key13 === "speed_mps"))){
-const err168 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
+}
+if(data60.lateralForce !== undefined){
+let data69 = data60.lateralForce;
+if((!(data69 && typeof data69 == "object" && !Array.isArray(data69))) && (data69 !== null)){
+const err168 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.lateralForce.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err168];
 }
@@ -12030,11 +12698,9 @@ vErrors.push(err168);
 }
 errors++;
 }
-}
-if(data68.value !== undefined){
-let data69 = data68.value;
-if(!((typeof data69 == "number") && (isFinite(data69)))){
-const err169 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69 && typeof data69 == "object" && !Array.isArray(data69)){
+if(data69.size === undefined){
+const err169 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/required",keyword:"required",params:{missingProperty: "size"},message:"must have required property '"+"size"+"'"};
 if(vErrors === null){
 vErrors = [err169];
 }
@@ -12043,11 +12709,8 @@ vErrors.push(err169);
 }
 errors++;
 }
-}
-if(data68.speed_mps !== undefined){
-let data70 = data68.speed_mps;
-if(!((typeof data70 == "number") && (isFinite(data70)))){
-const err170 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69.peakError === undefined){
+const err170 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/required",keyword:"required",params:{missingProperty: "peakError"},message:"must have required property '"+"peakError"+"'"};
 if(vErrors === null){
 vErrors = [err170];
 }
@@ -12056,13 +12719,8 @@ vErrors.push(err170);
 }
 errors++;
 }
-}
-}
-}
-if(data67.upperGainMargin_dB !== undefined){
-let data71 = data67.upperGainMargin_dB;
-if((!(data71 && typeof data71 == "object" && !Array.isArray(data71))) && (data71 !== null)){
-const err171 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.upperGainMargin_dB.type},message:"must be object,null"};
+if(data69.recoveryTime_s === undefined){
+const err171 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/required",keyword:"required",params:{missingProperty: "recoveryTime_s"},message:"must have required property '"+"recoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err171];
 }
@@ -12071,9 +12729,9 @@ vErrors.push(err171);
 }
 errors++;
 }
-if(data71 && typeof data71 == "object" && !Array.isArray(data71)){
-if(data71.value === undefined){
-const err172 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+for(const key11 in data69){
+if(!(((key11 === "size") || (key11 === "peakError")) || (key11 === "recoveryTime_s"))){
+const err172 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err172];
 }
@@ -12082,8 +12740,11 @@ vErrors.push(err172);
 }
 errors++;
 }
-if(data71.speed_mps === undefined){
-const err173 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+if(data69.size !== undefined){
+let data70 = data69.size;
+if(!((typeof data70 == "number") && (isFinite(data70)))){
+const err173 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/size",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/size/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err173];
 }
@@ -12092,9 +12753,11 @@ vErrors.push(err173);
 }
 errors++;
 }
-for(const key14 in data71){
-if(!((key14 === "value") || (key14 === "speed_mps"))){
-const err174 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
+}
+if(data69.peakError !== undefined){
+let data71 = data69.peakError;
+if(!((typeof data71 == "number") && (isFinite(data71)))){
+const err174 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/peakError",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/peakError/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err174];
 }
@@ -12104,10 +12767,10 @@ vErrors.push(err174);
 errors++;
 }
 }
-if(data71.value !== undefined){
-let data72 = data71.value;
-if(!((typeof data72 == "number") && (isFinite(data72)))){
-const err175 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data69.recoveryTime_s !== undefined){
+let data72 = data69.recoveryTime_s;
+if((!((typeof data72 == "number") && (isFinite(data72)))) && (data72 !== null)){
+const err175 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/recoveryTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.lateralForce.properties.recoveryTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err175];
 }
@@ -12116,11 +12779,9 @@ vErrors.push(err175);
 }
 errors++;
 }
-}
-if(data71.speed_mps !== undefined){
-let data73 = data71.speed_mps;
-if(!((typeof data73 == "number") && (isFinite(data73)))){
-const err176 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if((typeof data72 == "number") && (isFinite(data72))){
+if(data72 < 0 || isNaN(data72)){
+const err176 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/lateralForce/recoveryTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/lateralForce/properties/recoveryTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err176];
 }
@@ -12132,10 +12793,11 @@ errors++;
 }
 }
 }
-if(data67.phaseMargin_deg !== undefined){
-let data74 = data67.phaseMargin_deg;
-if((!(data74 && typeof data74 == "object" && !Array.isArray(data74))) && (data74 !== null)){
-const err177 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.phaseMargin_deg.type},message:"must be object,null"};
+}
+if(data60.laneChange !== undefined){
+let data73 = data60.laneChange;
+if((!(data73 && typeof data73 == "object" && !Array.isArray(data73))) && (data73 !== null)){
+const err177 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.laneChange.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err177];
 }
@@ -12144,9 +12806,9 @@ vErrors.push(err177);
 }
 errors++;
 }
-if(data74 && typeof data74 == "object" && !Array.isArray(data74)){
-if(data74.value === undefined){
-const err178 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(data73 && typeof data73 == "object" && !Array.isArray(data73)){
+if(data73.size_m === undefined){
+const err178 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/required",keyword:"required",params:{missingProperty: "size_m"},message:"must have required property '"+"size_m"+"'"};
 if(vErrors === null){
 vErrors = [err178];
 }
@@ -12155,8 +12817,8 @@ vErrors.push(err178);
 }
 errors++;
 }
-if(data74.speed_mps === undefined){
-const err179 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data73.length_m === undefined){
+const err179 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/required",keyword:"required",params:{missingProperty: "length_m"},message:"must have required property '"+"length_m"+"'"};
 if(vErrors === null){
 vErrors = [err179];
 }
@@ -12165,9 +12827,8 @@ vErrors.push(err179);
 }
 errors++;
 }
-for(const key15 in data74){
-if(!((key15 === "value") || (key15 === "speed_mps"))){
-const err180 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+if(data73.peakError_m === undefined){
+const err180 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/required",keyword:"required",params:{missingProperty: "peakError_m"},message:"must have required property '"+"peakError_m"+"'"};
 if(vErrors === null){
 vErrors = [err180];
 }
@@ -12176,11 +12837,9 @@ vErrors.push(err180);
 }
 errors++;
 }
-}
-if(data74.value !== undefined){
-let data75 = data74.value;
-if(!((typeof data75 == "number") && (isFinite(data75)))){
-const err181 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/value",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key12 in data73){
+if(!(((key12 === "size_m") || (key12 === "length_m")) || (key12 === "peakError_m"))){
+const err181 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err181];
 }
@@ -12190,10 +12849,10 @@ vErrors.push(err181);
 errors++;
 }
 }
-if(data74.speed_mps !== undefined){
-let data76 = data74.speed_mps;
-if(!((typeof data76 == "number") && (isFinite(data76)))){
-const err182 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data73.size_m !== undefined){
+let data74 = data73.size_m;
+if(!((typeof data74 == "number") && (isFinite(data74)))){
+const err182 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange/size_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/properties/size_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err182];
 }
@@ -12203,12 +12862,10 @@ vErrors.push(err182);
 errors++;
 }
 }
-}
-}
-if(data67.delayMargin_s !== undefined){
-let data77 = data67.delayMargin_s;
-if((!(data77 && typeof data77 == "object" && !Array.isArray(data77))) && (data77 !== null)){
-const err183 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.delayMargin_s.type},message:"must be object,null"};
+if(data73.length_m !== undefined){
+let data75 = data73.length_m;
+if(!((typeof data75 == "number") && (isFinite(data75)))){
+const err183 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange/length_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/properties/length_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err183];
 }
@@ -12217,9 +12874,11 @@ vErrors.push(err183);
 }
 errors++;
 }
-if(data77 && typeof data77 == "object" && !Array.isArray(data77)){
-if(data77.value === undefined){
-const err184 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+if(data73.peakError_m !== undefined){
+let data76 = data73.peakError_m;
+if(!((typeof data76 == "number") && (isFinite(data76)))){
+const err184 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/laneChange/peakError_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/laneChange/properties/peakError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err184];
 }
@@ -12228,8 +12887,13 @@ vErrors.push(err184);
 }
 errors++;
 }
-if(data77.speed_mps === undefined){
-const err185 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+}
+}
+if(data60.curveEntry !== undefined){
+let data77 = data60.curveEntry;
+if((!(data77 && typeof data77 == "object" && !Array.isArray(data77))) && (data77 !== null)){
+const err185 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.curveEntry.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err185];
 }
@@ -12238,9 +12902,9 @@ vErrors.push(err185);
 }
 errors++;
 }
-for(const key16 in data77){
-if(!((key16 === "value") || (key16 === "speed_mps"))){
-const err186 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
+if(data77 && typeof data77 == "object" && !Array.isArray(data77)){
+if(data77.curvature_perM === undefined){
+const err186 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/required",keyword:"required",params:{missingProperty: "curvature_perM"},message:"must have required property '"+"curvature_perM"+"'"};
 if(vErrors === null){
 vErrors = [err186];
 }
@@ -12249,11 +12913,8 @@ vErrors.push(err186);
 }
 errors++;
 }
-}
-if(data77.value !== undefined){
-let data78 = data77.value;
-if(!((typeof data78 == "number") && (isFinite(data78)))){
-const err187 = {instancePath:instancePath+"/check/worst/delayMargin_s/value",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data77.peakError_m === undefined){
+const err187 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/required",keyword:"required",params:{missingProperty: "peakError_m"},message:"must have required property '"+"peakError_m"+"'"};
 if(vErrors === null){
 vErrors = [err187];
 }
@@ -12262,11 +12923,8 @@ vErrors.push(err187);
 }
 errors++;
 }
-}
-if(data77.speed_mps !== undefined){
-let data79 = data77.speed_mps;
-if(!((typeof data79 == "number") && (isFinite(data79)))){
-const err188 = {instancePath:instancePath+"/check/worst/delayMargin_s/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data77.errorAfterSettle_m === undefined){
+const err188 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/required",keyword:"required",params:{missingProperty: "errorAfterSettle_m"},message:"must have required property '"+"errorAfterSettle_m"+"'"};
 if(vErrors === null){
 vErrors = [err188];
 }
@@ -12275,13 +12933,9 @@ vErrors.push(err188);
 }
 errors++;
 }
-}
-}
-}
-if(data67.sensitivityPeak !== undefined){
-let data80 = data67.sensitivityPeak;
-if((!(data80 && typeof data80 == "object" && !Array.isArray(data80))) && (data80 !== null)){
-const err189 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.sensitivityPeak.type},message:"must be object,null"};
+for(const key13 in data77){
+if(!(((key13 === "curvature_perM") || (key13 === "peakError_m")) || (key13 === "errorAfterSettle_m"))){
+const err189 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err189];
 }
@@ -12290,9 +12944,11 @@ vErrors.push(err189);
 }
 errors++;
 }
-if(data80 && typeof data80 == "object" && !Array.isArray(data80)){
-if(data80.value === undefined){
-const err190 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+if(data77.curvature_perM !== undefined){
+let data78 = data77.curvature_perM;
+if(!((typeof data78 == "number") && (isFinite(data78)))){
+const err190 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry/curvature_perM",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/properties/curvature_perM/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err190];
 }
@@ -12301,8 +12957,11 @@ vErrors.push(err190);
 }
 errors++;
 }
-if(data80.speed_mps === undefined){
-const err191 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+if(data77.peakError_m !== undefined){
+let data79 = data77.peakError_m;
+if(!((typeof data79 == "number") && (isFinite(data79)))){
+const err191 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry/peakError_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/properties/peakError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err191];
 }
@@ -12311,9 +12970,11 @@ vErrors.push(err191);
 }
 errors++;
 }
-for(const key17 in data80){
-if(!((key17 === "value") || (key17 === "speed_mps"))){
-const err192 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+}
+if(data77.errorAfterSettle_m !== undefined){
+let data80 = data77.errorAfterSettle_m;
+if(!((typeof data80 == "number") && (isFinite(data80)))){
+const err192 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/curveEntry/errorAfterSettle_m",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/curveEntry/properties/errorAfterSettle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err192];
 }
@@ -12323,10 +12984,13 @@ vErrors.push(err192);
 errors++;
 }
 }
-if(data80.value !== undefined){
-let data81 = data80.value;
-if(!((typeof data81 == "number") && (isFinite(data81)))){
-const err193 = {instancePath:instancePath+"/check/worst/sensitivityPeak/value",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+}
+if(data60.actuator !== undefined){
+let data81 = data60.actuator;
+if(data81 && typeof data81 == "object" && !Array.isArray(data81)){
+if(data81.largestReference === undefined){
+const err193 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "largestReference"},message:"must have required property '"+"largestReference"+"'"};
 if(vErrors === null){
 vErrors = [err193];
 }
@@ -12335,11 +12999,8 @@ vErrors.push(err193);
 }
 errors++;
 }
-}
-if(data80.speed_mps !== undefined){
-let data82 = data80.speed_mps;
-if(!((typeof data82 == "number") && (isFinite(data82)))){
-const err194 = {instancePath:instancePath+"/check/worst/sensitivityPeak/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data81.limitedBy === undefined){
+const err194 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "limitedBy"},message:"must have required property '"+"limitedBy"+"'"};
 if(vErrors === null){
 vErrors = [err194];
 }
@@ -12348,12 +13009,8 @@ vErrors.push(err194);
 }
 errors++;
 }
-}
-}
-}
-}
-else {
-const err195 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data81.peakAnglePerUnit === undefined){
+const err195 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "peakAnglePerUnit"},message:"must have required property '"+"peakAnglePerUnit"+"'"};
 if(vErrors === null){
 vErrors = [err195];
 }
@@ -12362,11 +13019,8 @@ vErrors.push(err195);
 }
 errors++;
 }
-}
-if(data51.failedSpeeds !== undefined){
-let data83 = data51.failedSpeeds;
-if(!(((typeof data83 == "number") && (!(data83 % 1) && !isNaN(data83))) && (isFinite(data83)))){
-const err196 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data81.peakRatePerUnit === undefined){
+const err196 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/required",keyword:"required",params:{missingProperty: "peakRatePerUnit"},message:"must have required property '"+"peakRatePerUnit"+"'"};
 if(vErrors === null){
 vErrors = [err196];
 }
@@ -12375,9 +13029,9 @@ vErrors.push(err196);
 }
 errors++;
 }
-if((typeof data83 == "number") && (isFinite(data83))){
-if(data83 < 0 || isNaN(data83)){
-const err197 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+for(const key14 in data81){
+if(!((((key14 === "largestReference") || (key14 === "limitedBy")) || (key14 === "peakAnglePerUnit")) || (key14 === "peakRatePerUnit"))){
+const err197 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err197];
 }
@@ -12387,16 +13041,10 @@ vErrors.push(err197);
 errors++;
 }
 }
-}
-if(data51.failures !== undefined){
-let data84 = data51.failures;
-if(Array.isArray(data84)){
-const len2 = data84.length;
-for(let i2=0; i2<len2; i2++){
-let data85 = data84[i2];
-if(data85 && typeof data85 == "object" && !Array.isArray(data85)){
-if(data85.speed_mps === undefined){
-const err198 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data81.largestReference !== undefined){
+let data82 = data81.largestReference;
+if(!((typeof data82 == "number") && (isFinite(data82)))){
+const err198 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/largestReference",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/largestReference/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err198];
 }
@@ -12405,8 +13053,11 @@ vErrors.push(err198);
 }
 errors++;
 }
-if(data85.messages === undefined){
-const err199 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+}
+if(data81.limitedBy !== undefined){
+let data83 = data81.limitedBy;
+if(!((data83 === "angle") || (data83 === "rate"))){
+const err199 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/limitedBy",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/limitedBy/enum",keyword:"enum",params:{allowedValues: schema11.properties.breakpoints.items.properties.timeDomain.properties.actuator.properties.limitedBy.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err199];
 }
@@ -12415,9 +13066,11 @@ vErrors.push(err199);
 }
 errors++;
 }
-for(const key18 in data85){
-if(!((key18 === "speed_mps") || (key18 === "messages"))){
-const err200 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
+}
+if(data81.peakAnglePerUnit !== undefined){
+let data84 = data81.peakAnglePerUnit;
+if(!((typeof data84 == "number") && (isFinite(data84)))){
+const err200 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/peakAnglePerUnit",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/peakAnglePerUnit/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err200];
 }
@@ -12427,10 +13080,10 @@ vErrors.push(err200);
 errors++;
 }
 }
-if(data85.speed_mps !== undefined){
-let data86 = data85.speed_mps;
-if(!((typeof data86 == "number") && (isFinite(data86)))){
-const err201 = {instancePath:instancePath+"/check/failures/" + i2+"/speed_mps",schemaPath:"#/properties/check/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data81.peakRatePerUnit !== undefined){
+let data85 = data81.peakRatePerUnit;
+if(!((typeof data85 == "number") && (isFinite(data85)))){
+const err201 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator/peakRatePerUnit",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/properties/peakRatePerUnit/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err201];
 }
@@ -12440,13 +13093,9 @@ vErrors.push(err201);
 errors++;
 }
 }
-if(data85.messages !== undefined){
-let data87 = data85.messages;
-if(Array.isArray(data87)){
-const len3 = data87.length;
-for(let i3=0; i3<len3; i3++){
-if(typeof data87[i3] !== "string"){
-const err202 = {instancePath:instancePath+"/check/failures/" + i2+"/messages/" + i3,schemaPath:"#/properties/check/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err202 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/actuator",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/actuator/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err202];
 }
@@ -12456,9 +13105,10 @@ vErrors.push(err202);
 errors++;
 }
 }
-}
-else {
-const err203 = {instancePath:instancePath+"/check/failures/" + i2+"/messages",schemaPath:"#/properties/check/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data60.limitedStep !== undefined){
+let data86 = data60.limitedStep;
+if((!(data86 && typeof data86 == "object" && !Array.isArray(data86))) && (data86 !== null)){
+const err203 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.limitedStep.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err203];
 }
@@ -12467,10 +13117,9 @@ vErrors.push(err203);
 }
 errors++;
 }
-}
-}
-else {
-const err204 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data86 && typeof data86 == "object" && !Array.isArray(data86)){
+if(data86.size === undefined){
+const err204 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "size"},message:"must have required property '"+"size"+"'"};
 if(vErrors === null){
 vErrors = [err204];
 }
@@ -12479,10 +13128,8 @@ vErrors.push(err204);
 }
 errors++;
 }
-}
-}
-else {
-const err205 = {instancePath:instancePath+"/check/failures",schemaPath:"#/properties/check/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data86.overshoot_pct === undefined){
+const err205 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "overshoot_pct"},message:"must have required property '"+"overshoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err205];
 }
@@ -12491,16 +13138,8 @@ vErrors.push(err205);
 }
 errors++;
 }
-}
-if(data51.insertions !== undefined){
-let data89 = data51.insertions;
-if(Array.isArray(data89)){
-const len4 = data89.length;
-for(let i4=0; i4<len4; i4++){
-let data90 = data89[i4];
-if(data90 && typeof data90 == "object" && !Array.isArray(data90)){
-if(data90.speed_mps === undefined){
-const err206 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data86.settlingTime_s === undefined){
+const err206 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "settlingTime_s"},message:"must have required property '"+"settlingTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err206];
 }
@@ -12509,8 +13148,8 @@ vErrors.push(err206);
 }
 errors++;
 }
-if(data90.reason === undefined){
-const err207 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(data86.peakSteerRate_radps === undefined){
+const err207 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/required",keyword:"required",params:{missingProperty: "peakSteerRate_radps"},message:"must have required property '"+"peakSteerRate_radps"+"'"};
 if(vErrors === null){
 vErrors = [err207];
 }
@@ -12519,9 +13158,9 @@ vErrors.push(err207);
 }
 errors++;
 }
-for(const key19 in data90){
-if(!((key19 === "speed_mps") || (key19 === "reason"))){
-const err208 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
+for(const key15 in data86){
+if(!((((key15 === "size") || (key15 === "overshoot_pct")) || (key15 === "settlingTime_s")) || (key15 === "peakSteerRate_radps"))){
+const err208 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err208];
 }
@@ -12531,10 +13170,10 @@ vErrors.push(err208);
 errors++;
 }
 }
-if(data90.speed_mps !== undefined){
-let data91 = data90.speed_mps;
-if(!((typeof data91 == "number") && (isFinite(data91)))){
-const err209 = {instancePath:instancePath+"/check/insertions/" + i4+"/speed_mps",schemaPath:"#/properties/check/properties/insertions/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data86.size !== undefined){
+let data87 = data86.size;
+if(!((typeof data87 == "number") && (isFinite(data87)))){
+const err209 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/size",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/size/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err209];
 }
@@ -12544,9 +13183,10 @@ vErrors.push(err209);
 errors++;
 }
 }
-if(data90.reason !== undefined){
-if(typeof data90.reason !== "string"){
-const err210 = {instancePath:instancePath+"/check/insertions/" + i4+"/reason",schemaPath:"#/properties/check/properties/insertions/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data86.overshoot_pct !== undefined){
+let data88 = data86.overshoot_pct;
+if(!((typeof data88 == "number") && (isFinite(data88)))){
+const err210 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/overshoot_pct",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/overshoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err210];
 }
@@ -12556,9 +13196,10 @@ vErrors.push(err210);
 errors++;
 }
 }
-}
-else {
-const err211 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data86.settlingTime_s !== undefined){
+let data89 = data86.settlingTime_s;
+if((!((typeof data89 == "number") && (isFinite(data89)))) && (data89 !== null)){
+const err211 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/settlingTime_s/type",keyword:"type",params:{type: schema11.properties.breakpoints.items.properties.timeDomain.properties.limitedStep.properties.settlingTime_s.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err211];
 }
@@ -12567,10 +13208,9 @@ vErrors.push(err211);
 }
 errors++;
 }
-}
-}
-else {
-const err212 = {instancePath:instancePath+"/check/insertions",schemaPath:"#/properties/check/properties/insertions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if((typeof data89 == "number") && (isFinite(data89))){
+if(data89 < 0 || isNaN(data89)){
+const err212 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/settlingTime_s",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/settlingTime_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err212];
 }
@@ -12581,8 +13221,10 @@ errors++;
 }
 }
 }
-else {
-const err213 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data86.peakSteerRate_radps !== undefined){
+let data90 = data86.peakSteerRate_radps;
+if(!((typeof data90 == "number") && (isFinite(data90)))){
+const err213 = {instancePath:instancePath+"/breakpoints/" + i1+"/timeDomain/limitedStep/peakSteerRate_radps",schemaPath:"#/properties/breakpoints/items/properties/timeDomain/properties/limitedStep/properties/peakSteerRate_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err213];
 }
@@ -12592,11 +13234,13 @@ vErrors.push(err213);
 errors++;
 }
 }
-if(data.variations !== undefined){
-let data93 = data.variations;
-if(data93 && typeof data93 == "object" && !Array.isArray(data93)){
-if(data93.acceptance === undefined){
-const err214 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "acceptance"},message:"must have required property '"+"acceptance"+"'"};
+}
+}
+}
+}
+}
+else {
+const err214 = {instancePath:instancePath+"/breakpoints/" + i1,schemaPath:"#/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err214];
 }
@@ -12605,8 +13249,10 @@ vErrors.push(err214);
 }
 errors++;
 }
-if(data93.passed === undefined){
-const err215 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
+}
+}
+else {
+const err215 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err215];
 }
@@ -12615,8 +13261,12 @@ vErrors.push(err215);
 }
 errors++;
 }
-if(data93.set === undefined){
-const err216 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "set"},message:"must have required property '"+"set"+"'"};
+}
+if(data.check !== undefined){
+let data91 = data.check;
+if(data91 && typeof data91 == "object" && !Array.isArray(data91)){
+if(data91.passed === undefined){
+const err216 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err216];
 }
@@ -12625,8 +13275,8 @@ vErrors.push(err216);
 }
 errors++;
 }
-if(data93.search === undefined){
-const err217 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "search"},message:"must have required property '"+"search"+"'"};
+if(data91.model === undefined){
+const err217 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err217];
 }
@@ -12635,8 +13285,8 @@ vErrors.push(err217);
 }
 errors++;
 }
-if(data93.gridSize === undefined){
-const err218 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(data91.range === undefined){
+const err218 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "range"},message:"must have required property '"+"range"+"'"};
 if(vErrors === null){
 vErrors = [err218];
 }
@@ -12645,8 +13295,8 @@ vErrors.push(err218);
 }
 errors++;
 }
-if(data93.failedSpeeds === undefined){
-const err219 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
+if(data91.gridSpeeds === undefined){
+const err219 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSpeeds"},message:"must have required property '"+"gridSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err219];
 }
@@ -12655,8 +13305,8 @@ vErrors.push(err219);
 }
 errors++;
 }
-if(data93.unstableSpeeds === undefined){
-const err220 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "unstableSpeeds"},message:"must have required property '"+"unstableSpeeds"+"'"};
+if(data91.gridSize === undefined){
+const err220 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err220];
 }
@@ -12665,8 +13315,8 @@ vErrors.push(err220);
 }
 errors++;
 }
-if(data93.loopAnalyses === undefined){
-const err221 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "loopAnalyses"},message:"must have required property '"+"loopAnalyses"+"'"};
+if(data91.thresholds === undefined){
+const err221 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "thresholds"},message:"must have required property '"+"thresholds"+"'"};
 if(vErrors === null){
 vErrors = [err221];
 }
@@ -12675,8 +13325,8 @@ vErrors.push(err221);
 }
 errors++;
 }
-if(data93.worst === undefined){
-const err222 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(data91.worst === undefined){
+const err222 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err222];
 }
@@ -12685,8 +13335,8 @@ vErrors.push(err222);
 }
 errors++;
 }
-if(data93.failures === undefined){
-const err223 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
+if(data91.failedSpeeds === undefined){
+const err223 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err223];
 }
@@ -12695,8 +13345,8 @@ vErrors.push(err223);
 }
 errors++;
 }
-if(data93.breakpoints === undefined){
-const err224 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
+if(data91.failures === undefined){
+const err224 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err224];
 }
@@ -12705,8 +13355,8 @@ vErrors.push(err224);
 }
 errors++;
 }
-if(data93.weakest === undefined){
-const err225 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
+if(data91.insertions === undefined){
+const err225 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "insertions"},message:"must have required property '"+"insertions"+"'"};
 if(vErrors === null){
 vErrors = [err225];
 }
@@ -12715,9 +13365,8 @@ vErrors.push(err225);
 }
 errors++;
 }
-for(const key20 in data93){
-if(!(func18.call(schema11.properties.variations.properties, key20))){
-const err226 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
+if(data91.timeDomain === undefined){
+const err226 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/required",keyword:"required",params:{missingProperty: "timeDomain"},message:"must have required property '"+"timeDomain"+"'"};
 if(vErrors === null){
 vErrors = [err226];
 }
@@ -12726,11 +13375,9 @@ vErrors.push(err226);
 }
 errors++;
 }
-}
-if(data93.acceptance !== undefined){
-let data94 = data93.acceptance;
-if(!((data94 === "robust") || (data94 === "nominal"))){
-const err227 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+for(const key16 in data91){
+if(!(func18.call(schema11.properties.check.properties, key16))){
+const err227 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err227];
 }
@@ -12740,9 +13387,9 @@ vErrors.push(err227);
 errors++;
 }
 }
-if(data93.passed !== undefined){
-if(typeof data93.passed !== "boolean"){
-const err228 = {instancePath:instancePath+"/variations/passed",schemaPath:"#/properties/variations/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(data91.passed !== undefined){
+if(typeof data91.passed !== "boolean"){
+const err228 = {instancePath:instancePath+"/check/passed",schemaPath:"#/properties/check/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err228];
 }
@@ -12752,11 +13399,11 @@ vErrors.push(err228);
 errors++;
 }
 }
-if(data93.set !== undefined){
-let data96 = data93.set;
-if(data96 && typeof data96 == "object" && !Array.isArray(data96)){
-if(data96.model === undefined){
-const err229 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(data91.model !== undefined){
+let data93 = data91.model;
+if(data93 && typeof data93 == "object" && !Array.isArray(data93)){
+if(data93.kind === undefined){
+const err229 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "kind"},message:"must have required property '"+"kind"+"'"};
 if(vErrors === null){
 vErrors = [err229];
 }
@@ -12765,8 +13412,8 @@ vErrors.push(err229);
 }
 errors++;
 }
-if(data96.dimensions === undefined){
-const err230 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "dimensions"},message:"must have required property '"+"dimensions"+"'"};
+if(data93.description === undefined){
+const err230 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/required",keyword:"required",params:{missingProperty: "description"},message:"must have required property '"+"description"+"'"};
 if(vErrors === null){
 vErrors = [err230];
 }
@@ -12775,8 +13422,9 @@ vErrors.push(err230);
 }
 errors++;
 }
-if(data96.notApplied === undefined){
-const err231 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "notApplied"},message:"must have required property '"+"notApplied"+"'"};
+for(const key17 in data93){
+if(!((key17 === "kind") || (key17 === "description"))){
+const err231 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err231];
 }
@@ -12785,9 +13433,11 @@ vErrors.push(err231);
 }
 errors++;
 }
-for(const key21 in data96){
-if(!(((key21 === "model") || (key21 === "dimensions")) || (key21 === "notApplied"))){
-const err232 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key21},message:"must NOT have additional properties"};
+}
+if(data93.kind !== undefined){
+let data94 = data93.kind;
+if(!((data94 === "single-track") || (data94 === "interpolated-lumped"))){
+const err232 = {instancePath:instancePath+"/check/model/kind",schemaPath:"#/properties/check/properties/model/properties/kind/enum",keyword:"enum",params:{allowedValues: schema11.properties.check.properties.model.properties.kind.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err232];
 }
@@ -12797,10 +13447,9 @@ vErrors.push(err232);
 errors++;
 }
 }
-if(data96.model !== undefined){
-let data97 = data96.model;
-if(!((data97 === "single-track") || (data97 === "interpolated-lumped"))){
-const err233 = {instancePath:instancePath+"/variations/set/model",schemaPath:"#/properties/variations/properties/set/properties/model/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data93.description !== undefined){
+if(typeof data93.description !== "string"){
+const err233 = {instancePath:instancePath+"/check/model/description",schemaPath:"#/properties/check/properties/model/properties/description/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err233];
 }
@@ -12810,15 +13459,9 @@ vErrors.push(err233);
 errors++;
 }
 }
-if(data96.dimensions !== undefined){
-let data98 = data96.dimensions;
-if(Array.isArray(data98)){
-const len5 = data98.length;
-for(let i5=0; i5<len5; i5++){
-let data99 = data98[i5];
-if(data99 && typeof data99 == "object" && !Array.isArray(data99)){
-if(data99.parameter === undefined){
-const err234 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+}
+else {
+const err234 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err234];
 }
@@ -12827,8 +13470,12 @@ vErrors.push(err234);
 }
 errors++;
 }
-if(data99.change === undefined){
-const err235 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "change"},message:"must have required property '"+"change"+"'"};
+}
+if(data91.range !== undefined){
+let data96 = data91.range;
+if(data96 && typeof data96 == "object" && !Array.isArray(data96)){
+if(data96.minimum_mps === undefined){
+const err235 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "minimum_mps"},message:"must have required property '"+"minimum_mps"+"'"};
 if(vErrors === null){
 vErrors = [err235];
 }
@@ -12837,8 +13484,8 @@ vErrors.push(err235);
 }
 errors++;
 }
-if(data99.minimum === undefined){
-const err236 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "minimum"},message:"must have required property '"+"minimum"+"'"};
+if(data96.maximum_mps === undefined){
+const err236 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/required",keyword:"required",params:{missingProperty: "maximum_mps"},message:"must have required property '"+"maximum_mps"+"'"};
 if(vErrors === null){
 vErrors = [err236];
 }
@@ -12847,8 +13494,9 @@ vErrors.push(err236);
 }
 errors++;
 }
-if(data99.maximum === undefined){
-const err237 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "maximum"},message:"must have required property '"+"maximum"+"'"};
+for(const key18 in data96){
+if(!((key18 === "minimum_mps") || (key18 === "maximum_mps"))){
+const err237 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err237];
 }
@@ -12857,8 +13505,11 @@ vErrors.push(err237);
 }
 errors++;
 }
-if(data99.source === undefined){
-const err238 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "source"},message:"must have required property '"+"source"+"'"};
+}
+if(data96.minimum_mps !== undefined){
+let data97 = data96.minimum_mps;
+if(!((typeof data97 == "number") && (isFinite(data97)))){
+const err238 = {instancePath:instancePath+"/check/range/minimum_mps",schemaPath:"#/properties/check/properties/range/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err238];
 }
@@ -12867,9 +13518,11 @@ vErrors.push(err238);
 }
 errors++;
 }
-for(const key22 in data99){
-if(!(((((key22 === "parameter") || (key22 === "change")) || (key22 === "minimum")) || (key22 === "maximum")) || (key22 === "source"))){
-const err239 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key22},message:"must NOT have additional properties"};
+}
+if(data96.maximum_mps !== undefined){
+let data98 = data96.maximum_mps;
+if(!((typeof data98 == "number") && (isFinite(data98)))){
+const err239 = {instancePath:instancePath+"/check/range/maximum_mps",schemaPath:"#/properties/check/properties/range/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err239];
 }
@@ -12879,10 +13532,9 @@ vErrors.push(err239);
 errors++;
 }
 }
-if(data99.parameter !== undefined){
-let data100 = data99.parameter;
-if(!((((((((((data100 === "mass_kg") || (data100 === "yawInertia_kgm2")) || (data100 === "cgToFrontAxle_m")) || (data100 === "frontCorneringStiffness_NPerRad")) || (data100 === "rearCorneringStiffness_NPerRad")) || (data100 === "actuatorLag_s")) || (data100 === "actuatorDelay_s")) || (data100 === "gain")) || (data100 === "timeConstant_s")) || (data100 === "deadTime_s"))){
-const err240 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/parameter",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.parameter.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err240 = {instancePath:instancePath+"/check/range",schemaPath:"#/properties/check/properties/range/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err240];
 }
@@ -12892,10 +13544,10 @@ vErrors.push(err240);
 errors++;
 }
 }
-if(data99.change !== undefined){
-let data101 = data99.change;
-if(!((data101 === "scale") || (data101 === "add"))){
-const err241 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/change",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/change/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.change.enum},message:"must be equal to one of the allowed values"};
+if(data91.gridSpeeds !== undefined){
+let data99 = data91.gridSpeeds;
+if(!(((typeof data99 == "number") && (!(data99 % 1) && !isNaN(data99))) && (isFinite(data99)))){
+const err241 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err241];
 }
@@ -12904,11 +13556,9 @@ vErrors.push(err241);
 }
 errors++;
 }
-}
-if(data99.minimum !== undefined){
-let data102 = data99.minimum;
-if(!((typeof data102 == "number") && (isFinite(data102)))){
-const err242 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/minimum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/minimum/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if((typeof data99 == "number") && (isFinite(data99))){
+if(data99 < 2 || isNaN(data99)){
+const err242 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
 if(vErrors === null){
 vErrors = [err242];
 }
@@ -12918,10 +13568,11 @@ vErrors.push(err242);
 errors++;
 }
 }
-if(data99.maximum !== undefined){
-let data103 = data99.maximum;
-if(!((typeof data103 == "number") && (isFinite(data103)))){
-const err243 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/maximum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/maximum/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+if(data91.gridSize !== undefined){
+let data100 = data91.gridSize;
+if(!(((typeof data100 == "number") && (!(data100 % 1) && !isNaN(data100))) && (isFinite(data100)))){
+const err243 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err243];
 }
@@ -12930,10 +13581,9 @@ vErrors.push(err243);
 }
 errors++;
 }
-}
-if(data99.source !== undefined){
-if(typeof data99.source !== "string"){
-const err244 = {instancePath:instancePath+"/variations/set/dimensions/" + i5+"/source",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/source/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if((typeof data100 == "number") && (isFinite(data100))){
+if(data100 < 1 || isNaN(data100)){
+const err244 = {instancePath:instancePath+"/check/gridSize",schemaPath:"#/properties/check/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err244];
 }
@@ -12944,8 +13594,11 @@ errors++;
 }
 }
 }
-else {
-const err245 = {instancePath:instancePath+"/variations/set/dimensions/" + i5,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data91.thresholds !== undefined){
+let data101 = data91.thresholds;
+if(data101 && typeof data101 == "object" && !Array.isArray(data101)){
+if(data101.maximumLowerGainMargin_dB === undefined){
+const err245 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumLowerGainMargin_dB"},message:"must have required property '"+"maximumLowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err245];
 }
@@ -12954,10 +13607,8 @@ vErrors.push(err245);
 }
 errors++;
 }
-}
-}
-else {
-const err246 = {instancePath:instancePath+"/variations/set/dimensions",schemaPath:"#/properties/variations/properties/set/properties/dimensions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data101.minimumUpperGainMargin_dB === undefined){
+const err246 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumUpperGainMargin_dB"},message:"must have required property '"+"minimumUpperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err246];
 }
@@ -12966,16 +13617,8 @@ vErrors.push(err246);
 }
 errors++;
 }
-}
-if(data96.notApplied !== undefined){
-let data105 = data96.notApplied;
-if(Array.isArray(data105)){
-const len6 = data105.length;
-for(let i6=0; i6<len6; i6++){
-let data106 = data105[i6];
-if(data106 && typeof data106 == "object" && !Array.isArray(data106)){
-if(data106.field === undefined){
-const err247 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "field"},message:"must have required property '"+"field"+"'"};
+if(data101.minimumPhaseMargin_deg === undefined){
+const err247 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumPhaseMargin_deg"},message:"must have required property '"+"minimumPhaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err247];
 }
@@ -12984,8 +13627,8 @@ vErrors.push(err247);
 }
 errors++;
 }
-if(data106.reason === undefined){
-const err248 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(data101.maximumSensitivityPeak === undefined){
+const err248 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumSensitivityPeak"},message:"must have required property '"+"maximumSensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err248];
 }
@@ -12994,9 +13637,8 @@ vErrors.push(err248);
 }
 errors++;
 }
-for(const key23 in data106){
-if(!((key23 === "field") || (key23 === "reason"))){
-const err249 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
+if(data101.maximumComplementarySensitivityPeak === undefined){
+const err249 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "maximumComplementarySensitivityPeak"},message:"must have required property '"+"maximumComplementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err249];
 }
@@ -13005,10 +13647,8 @@ vErrors.push(err249);
 }
 errors++;
 }
-}
-if(data106.field !== undefined){
-if(typeof data106.field !== "string"){
-const err250 = {instancePath:instancePath+"/variations/set/notApplied/" + i6+"/field",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/field/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data101.minimumDelayMargin_s === undefined){
+const err250 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/required",keyword:"required",params:{missingProperty: "minimumDelayMargin_s"},message:"must have required property '"+"minimumDelayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err250];
 }
@@ -13017,10 +13657,9 @@ vErrors.push(err250);
 }
 errors++;
 }
-}
-if(data106.reason !== undefined){
-if(typeof data106.reason !== "string"){
-const err251 = {instancePath:instancePath+"/variations/set/notApplied/" + i6+"/reason",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key19 in data101){
+if(!((((((key19 === "maximumLowerGainMargin_dB") || (key19 === "minimumUpperGainMargin_dB")) || (key19 === "minimumPhaseMargin_deg")) || (key19 === "maximumSensitivityPeak")) || (key19 === "maximumComplementarySensitivityPeak")) || (key19 === "minimumDelayMargin_s"))){
+const err251 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err251];
 }
@@ -13030,9 +13669,10 @@ vErrors.push(err251);
 errors++;
 }
 }
-}
-else {
-const err252 = {instancePath:instancePath+"/variations/set/notApplied/" + i6,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data101.maximumLowerGainMargin_dB !== undefined){
+let data102 = data101.maximumLowerGainMargin_dB;
+if(!((typeof data102 == "number") && (isFinite(data102)))){
+const err252 = {instancePath:instancePath+"/check/thresholds/maximumLowerGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err252];
 }
@@ -13042,9 +13682,10 @@ vErrors.push(err252);
 errors++;
 }
 }
-}
-else {
-const err253 = {instancePath:instancePath+"/variations/set/notApplied",schemaPath:"#/properties/variations/properties/set/properties/notApplied/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data101.minimumUpperGainMargin_dB !== undefined){
+let data103 = data101.minimumUpperGainMargin_dB;
+if(!((typeof data103 == "number") && (isFinite(data103)))){
+const err253 = {instancePath:instancePath+"/check/thresholds/minimumUpperGainMargin_dB",schemaPath:"#/properties/check/properties/thresholds/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err253];
 }
@@ -13054,9 +13695,10 @@ vErrors.push(err253);
 errors++;
 }
 }
-}
-else {
-const err254 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data101.minimumPhaseMargin_deg !== undefined){
+let data104 = data101.minimumPhaseMargin_deg;
+if(!((typeof data104 == "number") && (isFinite(data104)))){
+const err254 = {instancePath:instancePath+"/check/thresholds/minimumPhaseMargin_deg",schemaPath:"#/properties/check/properties/thresholds/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err254];
 }
@@ -13066,11 +13708,10 @@ vErrors.push(err254);
 errors++;
 }
 }
-if(data93.search !== undefined){
-let data109 = data93.search;
-if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
-if(data109.samples === undefined){
-const err255 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "samples"},message:"must have required property '"+"samples"+"'"};
+if(data101.maximumSensitivityPeak !== undefined){
+let data105 = data101.maximumSensitivityPeak;
+if(!((typeof data105 == "number") && (isFinite(data105)))){
+const err255 = {instancePath:instancePath+"/check/thresholds/maximumSensitivityPeak",schemaPath:"#/properties/check/properties/thresholds/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err255];
 }
@@ -13079,8 +13720,11 @@ vErrors.push(err255);
 }
 errors++;
 }
-if(data109.seed === undefined){
-const err256 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "seed"},message:"must have required property '"+"seed"+"'"};
+}
+if(data101.maximumComplementarySensitivityPeak !== undefined){
+let data106 = data101.maximumComplementarySensitivityPeak;
+if(!((typeof data106 == "number") && (isFinite(data106)))){
+const err256 = {instancePath:instancePath+"/check/thresholds/maximumComplementarySensitivityPeak",schemaPath:"#/properties/check/properties/thresholds/properties/maximumComplementarySensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err256];
 }
@@ -13089,8 +13733,11 @@ vErrors.push(err256);
 }
 errors++;
 }
-if(data109.localSearchEvaluations === undefined){
-const err257 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "localSearchEvaluations"},message:"must have required property '"+"localSearchEvaluations"+"'"};
+}
+if(data101.minimumDelayMargin_s !== undefined){
+let data107 = data101.minimumDelayMargin_s;
+if(!((typeof data107 == "number") && (isFinite(data107)))){
+const err257 = {instancePath:instancePath+"/check/thresholds/minimumDelayMargin_s",schemaPath:"#/properties/check/properties/thresholds/properties/minimumDelayMargin_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err257];
 }
@@ -13099,8 +13746,10 @@ vErrors.push(err257);
 }
 errors++;
 }
-if(data109.method === undefined){
-const err258 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
+}
+}
+else {
+const err258 = {instancePath:instancePath+"/check/thresholds",schemaPath:"#/properties/check/properties/thresholds/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err258];
 }
@@ -13109,9 +13758,12 @@ vErrors.push(err258);
 }
 errors++;
 }
-for(const key24 in data109){
-if(!((((key24 === "samples") || (key24 === "seed")) || (key24 === "localSearchEvaluations")) || (key24 === "method"))){
-const err259 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key24},message:"must NOT have additional properties"};
+}
+if(data91.worst !== undefined){
+let data108 = data91.worst;
+if(data108 && typeof data108 == "object" && !Array.isArray(data108)){
+if(data108.lowerGainMargin_dB === undefined){
+const err259 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err259];
 }
@@ -13120,11 +13772,8 @@ vErrors.push(err259);
 }
 errors++;
 }
-}
-if(data109.samples !== undefined){
-let data110 = data109.samples;
-if(!(((typeof data110 == "number") && (!(data110 % 1) && !isNaN(data110))) && (isFinite(data110)))){
-const err260 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data108.upperGainMargin_dB === undefined){
+const err260 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err260];
 }
@@ -13133,9 +13782,8 @@ vErrors.push(err260);
 }
 errors++;
 }
-if((typeof data110 == "number") && (isFinite(data110))){
-if(data110 < 0 || isNaN(data110)){
-const err261 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data108.phaseMargin_deg === undefined){
+const err261 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err261];
 }
@@ -13144,12 +13792,8 @@ vErrors.push(err261);
 }
 errors++;
 }
-}
-}
-if(data109.seed !== undefined){
-let data111 = data109.seed;
-if(!(((typeof data111 == "number") && (!(data111 % 1) && !isNaN(data111))) && (isFinite(data111)))){
-const err262 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data108.delayMargin_s === undefined){
+const err262 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err262];
 }
@@ -13158,9 +13802,8 @@ vErrors.push(err262);
 }
 errors++;
 }
-if((typeof data111 == "number") && (isFinite(data111))){
-if(data111 < 0 || isNaN(data111)){
-const err263 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data108.sensitivityPeak === undefined){
+const err263 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err263];
 }
@@ -13169,12 +13812,8 @@ vErrors.push(err263);
 }
 errors++;
 }
-}
-}
-if(data109.localSearchEvaluations !== undefined){
-let data112 = data109.localSearchEvaluations;
-if(!(((typeof data112 == "number") && (!(data112 % 1) && !isNaN(data112))) && (isFinite(data112)))){
-const err264 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data108.complementarySensitivityPeak === undefined){
+const err264 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err264];
 }
@@ -13183,9 +13822,9 @@ vErrors.push(err264);
 }
 errors++;
 }
-if((typeof data112 == "number") && (isFinite(data112))){
-if(data112 < 0 || isNaN(data112)){
-const err265 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+for(const key20 in data108){
+if(!((((((key20 === "lowerGainMargin_dB") || (key20 === "upperGainMargin_dB")) || (key20 === "phaseMargin_deg")) || (key20 === "delayMargin_s")) || (key20 === "sensitivityPeak")) || (key20 === "complementarySensitivityPeak"))){
+const err265 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key20},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err265];
 }
@@ -13195,10 +13834,10 @@ vErrors.push(err265);
 errors++;
 }
 }
-}
-if(data109.method !== undefined){
-if(typeof data109.method !== "string"){
-const err266 = {instancePath:instancePath+"/variations/search/method",schemaPath:"#/properties/variations/properties/search/properties/method/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data108.lowerGainMargin_dB !== undefined){
+let data109 = data108.lowerGainMargin_dB;
+if((!(data109 && typeof data109 == "object" && !Array.isArray(data109))) && (data109 !== null)){
+const err266 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.lowerGainMargin_dB.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err266];
 }
@@ -13207,10 +13846,9 @@ vErrors.push(err266);
 }
 errors++;
 }
-}
-}
-else {
-const err267 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data109 && typeof data109 == "object" && !Array.isArray(data109)){
+if(data109.value === undefined){
+const err267 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err267];
 }
@@ -13219,11 +13857,8 @@ vErrors.push(err267);
 }
 errors++;
 }
-}
-if(data93.gridSize !== undefined){
-let data114 = data93.gridSize;
-if(!(((typeof data114 == "number") && (!(data114 % 1) && !isNaN(data114))) && (isFinite(data114)))){
-const err268 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data109.speed_mps === undefined){
+const err268 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err268];
 }
@@ -13232,9 +13867,9 @@ vErrors.push(err268);
 }
 errors++;
 }
-if((typeof data114 == "number") && (isFinite(data114))){
-if(data114 < 1 || isNaN(data114)){
-const err269 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+for(const key21 in data109){
+if(!((key21 === "value") || (key21 === "speed_mps"))){
+const err269 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key21},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err269];
 }
@@ -13244,11 +13879,10 @@ vErrors.push(err269);
 errors++;
 }
 }
-}
-if(data93.failedSpeeds !== undefined){
-let data115 = data93.failedSpeeds;
-if(!(((typeof data115 == "number") && (!(data115 % 1) && !isNaN(data115))) && (isFinite(data115)))){
-const err270 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data109.value !== undefined){
+let data110 = data109.value;
+if(!((typeof data110 == "number") && (isFinite(data110)))){
+const err270 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err270];
 }
@@ -13257,9 +13891,11 @@ vErrors.push(err270);
 }
 errors++;
 }
-if((typeof data115 == "number") && (isFinite(data115))){
-if(data115 < 0 || isNaN(data115)){
-const err271 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data109.speed_mps !== undefined){
+let data111 = data109.speed_mps;
+if(!((typeof data111 == "number") && (isFinite(data111)))){
+const err271 = {instancePath:instancePath+"/check/worst/lowerGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/lowerGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err271];
 }
@@ -13270,10 +13906,11 @@ errors++;
 }
 }
 }
-if(data93.unstableSpeeds !== undefined){
-let data116 = data93.unstableSpeeds;
-if(!(((typeof data116 == "number") && (!(data116 % 1) && !isNaN(data116))) && (isFinite(data116)))){
-const err272 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+}
+if(data108.upperGainMargin_dB !== undefined){
+let data112 = data108.upperGainMargin_dB;
+if((!(data112 && typeof data112 == "object" && !Array.isArray(data112))) && (data112 !== null)){
+const err272 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.upperGainMargin_dB.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err272];
 }
@@ -13282,9 +13919,9 @@ vErrors.push(err272);
 }
 errors++;
 }
-if((typeof data116 == "number") && (isFinite(data116))){
-if(data116 < 0 || isNaN(data116)){
-const err273 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data112 && typeof data112 == "object" && !Array.isArray(data112)){
+if(data112.value === undefined){
+const err273 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err273];
 }
@@ -13293,12 +13930,8 @@ vErrors.push(err273);
 }
 errors++;
 }
-}
-}
-if(data93.loopAnalyses !== undefined){
-let data117 = data93.loopAnalyses;
-if(!(((typeof data117 == "number") && (!(data117 % 1) && !isNaN(data117))) && (isFinite(data117)))){
-const err274 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data112.speed_mps === undefined){
+const err274 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err274];
 }
@@ -13307,9 +13940,9 @@ vErrors.push(err274);
 }
 errors++;
 }
-if((typeof data117 == "number") && (isFinite(data117))){
-if(data117 < 0 || isNaN(data117)){
-const err275 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+for(const key22 in data112){
+if(!((key22 === "value") || (key22 === "speed_mps"))){
+const err275 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key22},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err275];
 }
@@ -13319,12 +13952,10 @@ vErrors.push(err275);
 errors++;
 }
 }
-}
-if(data93.worst !== undefined){
-let data118 = data93.worst;
-if(data118 && typeof data118 == "object" && !Array.isArray(data118)){
-if(data118.phaseMargin_deg === undefined){
-const err276 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data112.value !== undefined){
+let data113 = data112.value;
+if(!((typeof data113 == "number") && (isFinite(data113)))){
+const err276 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/value",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err276];
 }
@@ -13333,8 +13964,11 @@ vErrors.push(err276);
 }
 errors++;
 }
-if(data118.upperGainMargin_dB === undefined){
-const err277 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+}
+if(data112.speed_mps !== undefined){
+let data114 = data112.speed_mps;
+if(!((typeof data114 == "number") && (isFinite(data114)))){
+const err277 = {instancePath:instancePath+"/check/worst/upperGainMargin_dB/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/upperGainMargin_dB/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err277];
 }
@@ -13343,8 +13977,13 @@ vErrors.push(err277);
 }
 errors++;
 }
-if(data118.lowerGainMargin_dB === undefined){
-const err278 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+}
+}
+}
+if(data108.phaseMargin_deg !== undefined){
+let data115 = data108.phaseMargin_deg;
+if((!(data115 && typeof data115 == "object" && !Array.isArray(data115))) && (data115 !== null)){
+const err278 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.phaseMargin_deg.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err278];
 }
@@ -13353,8 +13992,9 @@ vErrors.push(err278);
 }
 errors++;
 }
-if(data118.delayMargin_s === undefined){
-const err279 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+if(data115 && typeof data115 == "object" && !Array.isArray(data115)){
+if(data115.value === undefined){
+const err279 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err279];
 }
@@ -13363,8 +14003,8 @@ vErrors.push(err279);
 }
 errors++;
 }
-if(data118.sensitivityPeak === undefined){
-const err280 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+if(data115.speed_mps === undefined){
+const err280 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err280];
 }
@@ -13373,8 +14013,9 @@ vErrors.push(err280);
 }
 errors++;
 }
-if(data118.complementarySensitivityPeak === undefined){
-const err281 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+for(const key23 in data115){
+if(!((key23 === "value") || (key23 === "speed_mps"))){
+const err281 = {instancePath:instancePath+"/check/worst/phaseMargin_deg",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key23},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err281];
 }
@@ -13383,9 +14024,11 @@ vErrors.push(err281);
 }
 errors++;
 }
-for(const key25 in data118){
-if(!((((((key25 === "phaseMargin_deg") || (key25 === "upperGainMargin_dB")) || (key25 === "lowerGainMargin_dB")) || (key25 === "delayMargin_s")) || (key25 === "sensitivityPeak")) || (key25 === "complementarySensitivityPeak"))){
-const err282 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key25},message:"must NOT have additional properties"};
+}
+if(data115.value !== undefined){
+let data116 = data115.value;
+if(!((typeof data116 == "number") && (isFinite(data116)))){
+const err282 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/value",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err282];
 }
@@ -13395,45 +14038,10 @@ vErrors.push(err282);
 errors++;
 }
 }
-if(data118.phaseMargin_deg !== undefined){
-if(!(validate6(data118.phaseMargin_deg, {instancePath:instancePath+"/variations/worst/phaseMargin_deg",parentData:data118,parentDataProperty:"phaseMargin_deg",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data118.upperGainMargin_dB !== undefined){
-if(!(validate6(data118.upperGainMargin_dB, {instancePath:instancePath+"/variations/worst/upperGainMargin_dB",parentData:data118,parentDataProperty:"upperGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data118.lowerGainMargin_dB !== undefined){
-if(!(validate6(data118.lowerGainMargin_dB, {instancePath:instancePath+"/variations/worst/lowerGainMargin_dB",parentData:data118,parentDataProperty:"lowerGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data118.delayMargin_s !== undefined){
-if(!(validate6(data118.delayMargin_s, {instancePath:instancePath+"/variations/worst/delayMargin_s",parentData:data118,parentDataProperty:"delayMargin_s",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data118.sensitivityPeak !== undefined){
-if(!(validate6(data118.sensitivityPeak, {instancePath:instancePath+"/variations/worst/sensitivityPeak",parentData:data118,parentDataProperty:"sensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data118.complementarySensitivityPeak !== undefined){
-if(!(validate6(data118.complementarySensitivityPeak, {instancePath:instancePath+"/variations/worst/complementarySensitivityPeak",parentData:data118,parentDataProperty:"complementarySensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-}
-else {
-const err283 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data115.speed_mps !== undefined){
+let data117 = data115.speed_mps;
+if(!((typeof data117 == "number") && (isFinite(data117)))){
+const err283 = {instancePath:instancePath+"/check/worst/phaseMargin_deg/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/phaseMargin_deg/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err283];
 }
@@ -13443,15 +14051,12 @@ vErrors.push(err283);
 errors++;
 }
 }
-if(data93.failures !== undefined){
-let data125 = data93.failures;
-if(Array.isArray(data125)){
-const len7 = data125.length;
-for(let i7=0; i7<len7; i7++){
-let data126 = data125[i7];
-if(data126 && typeof data126 == "object" && !Array.isArray(data126)){
-if(data126.speed_mps === undefined){
-const err284 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+}
+if(data108.delayMargin_s !== undefined){
+let data118 = data108.delayMargin_s;
+if((!(data118 && typeof data118 == "object" && !Array.isArray(data118))) && (data118 !== null)){
+const err284 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.delayMargin_s.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err284];
 }
@@ -13460,8 +14065,9 @@ vErrors.push(err284);
 }
 errors++;
 }
-if(data126.messages === undefined){
-const err285 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+if(data118 && typeof data118 == "object" && !Array.isArray(data118)){
+if(data118.value === undefined){
+const err285 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err285];
 }
@@ -13470,9 +14076,8 @@ vErrors.push(err285);
 }
 errors++;
 }
-for(const key26 in data126){
-if(!((key26 === "speed_mps") || (key26 === "messages"))){
-const err286 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key26},message:"must NOT have additional properties"};
+if(data118.speed_mps === undefined){
+const err286 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err286];
 }
@@ -13481,11 +14086,9 @@ vErrors.push(err286);
 }
 errors++;
 }
-}
-if(data126.speed_mps !== undefined){
-let data127 = data126.speed_mps;
-if(!((typeof data127 == "number") && (isFinite(data127)))){
-const err287 = {instancePath:instancePath+"/variations/failures/" + i7+"/speed_mps",schemaPath:"#/properties/variations/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key24 in data118){
+if(!((key24 === "value") || (key24 === "speed_mps"))){
+const err287 = {instancePath:instancePath+"/check/worst/delayMargin_s",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key24},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err287];
 }
@@ -13495,13 +14098,10 @@ vErrors.push(err287);
 errors++;
 }
 }
-if(data126.messages !== undefined){
-let data128 = data126.messages;
-if(Array.isArray(data128)){
-const len8 = data128.length;
-for(let i8=0; i8<len8; i8++){
-if(typeof data128[i8] !== "string"){
-const err288 = {instancePath:instancePath+"/variations/failures/" + i7+"/messages/" + i8,schemaPath:"#/properties/variations/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data118.value !== undefined){
+let data119 = data118.value;
+if(!((typeof data119 == "number") && (isFinite(data119)))){
+const err288 = {instancePath:instancePath+"/check/worst/delayMargin_s/value",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err288];
 }
@@ -13511,9 +14111,10 @@ vErrors.push(err288);
 errors++;
 }
 }
-}
-else {
-const err289 = {instancePath:instancePath+"/variations/failures/" + i7+"/messages",schemaPath:"#/properties/variations/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data118.speed_mps !== undefined){
+let data120 = data118.speed_mps;
+if(!((typeof data120 == "number") && (isFinite(data120)))){
+const err289 = {instancePath:instancePath+"/check/worst/delayMargin_s/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/delayMargin_s/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err289];
 }
@@ -13524,8 +14125,11 @@ errors++;
 }
 }
 }
-else {
-const err290 = {instancePath:instancePath+"/variations/failures/" + i7,schemaPath:"#/properties/variations/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+}
+if(data108.sensitivityPeak !== undefined){
+let data121 = data108.sensitivityPeak;
+if((!(data121 && typeof data121 == "object" && !Array.isArray(data121))) && (data121 !== null)){
+const err290 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.sensitivityPeak.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err290];
 }
@@ -13534,10 +14138,9 @@ vErrors.push(err290);
 }
 errors++;
 }
-}
-}
-else {
-const err291 = {instancePath:instancePath+"/variations/failures",schemaPath:"#/properties/variations/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data121 && typeof data121 == "object" && !Array.isArray(data121)){
+if(data121.value === undefined){
+const err291 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err291];
 }
@@ -13546,16 +14149,8 @@ vErrors.push(err291);
 }
 errors++;
 }
-}
-if(data93.breakpoints !== undefined){
-let data130 = data93.breakpoints;
-if(Array.isArray(data130)){
-const len9 = data130.length;
-for(let i9=0; i9<len9; i9++){
-let data131 = data130[i9];
-if(data131 && typeof data131 == "object" && !Array.isArray(data131)){
-if(data131.speed_mps === undefined){
-const err292 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data121.speed_mps === undefined){
+const err292 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err292];
 }
@@ -13564,8 +14159,9 @@ vErrors.push(err292);
 }
 errors++;
 }
-if(data131.instability === undefined){
-const err293 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "instability"},message:"must have required property '"+"instability"+"'"};
+for(const key25 in data121){
+if(!((key25 === "value") || (key25 === "speed_mps"))){
+const err293 = {instancePath:instancePath+"/check/worst/sensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key25},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err293];
 }
@@ -13574,8 +14170,11 @@ vErrors.push(err293);
 }
 errors++;
 }
-if(data131.worst === undefined){
-const err294 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+}
+if(data121.value !== undefined){
+let data122 = data121.value;
+if(!((typeof data122 == "number") && (isFinite(data122)))){
+const err294 = {instancePath:instancePath+"/check/worst/sensitivityPeak/value",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err294];
 }
@@ -13584,8 +14183,11 @@ vErrors.push(err294);
 }
 errors++;
 }
-if(data131.weakest === undefined){
-const err295 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
+}
+if(data121.speed_mps !== undefined){
+let data123 = data121.speed_mps;
+if(!((typeof data123 == "number") && (isFinite(data123)))){
+const err295 = {instancePath:instancePath+"/check/worst/sensitivityPeak/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/sensitivityPeak/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err295];
 }
@@ -13594,9 +14196,13 @@ vErrors.push(err295);
 }
 errors++;
 }
-for(const key27 in data131){
-if(!((((key27 === "speed_mps") || (key27 === "instability")) || (key27 === "worst")) || (key27 === "weakest"))){
-const err296 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key27},message:"must NOT have additional properties"};
+}
+}
+}
+if(data108.complementarySensitivityPeak !== undefined){
+let data124 = data108.complementarySensitivityPeak;
+if((!(data124 && typeof data124 == "object" && !Array.isArray(data124))) && (data124 !== null)){
+const err296 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/type",keyword:"type",params:{type: schema11.properties.check.properties.worst.properties.complementarySensitivityPeak.type},message:"must be object,null"};
 if(vErrors === null){
 vErrors = [err296];
 }
@@ -13605,11 +14211,9 @@ vErrors.push(err296);
 }
 errors++;
 }
-}
-if(data131.speed_mps !== undefined){
-let data132 = data131.speed_mps;
-if(!((typeof data132 == "number") && (isFinite(data132)))){
-const err297 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/speed_mps",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data124 && typeof data124 == "object" && !Array.isArray(data124)){
+if(data124.value === undefined){
+const err297 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
 if(vErrors === null){
 vErrors = [err297];
 }
@@ -13618,18 +14222,8 @@ vErrors.push(err297);
 }
 errors++;
 }
-}
-if(data131.instability !== undefined){
-if(!(validate13(data131.instability, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/instability",parentData:data131,parentDataProperty:"instability",rootData}))){
-vErrors = vErrors === null ? validate13.errors : vErrors.concat(validate13.errors);
-errors = vErrors.length;
-}
-}
-if(data131.worst !== undefined){
-let data134 = data131.worst;
-if(data134 && typeof data134 == "object" && !Array.isArray(data134)){
-if(data134.phaseMargin_deg === undefined){
-const err298 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data124.speed_mps === undefined){
+const err298 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err298];
 }
@@ -13638,8 +14232,9 @@ vErrors.push(err298);
 }
 errors++;
 }
-if(data134.upperGainMargin_dB === undefined){
-const err299 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+for(const key26 in data124){
+if(!((key26 === "value") || (key26 === "speed_mps"))){
+const err299 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key26},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err299];
 }
@@ -13648,8 +14243,11 @@ vErrors.push(err299);
 }
 errors++;
 }
-if(data134.lowerGainMargin_dB === undefined){
-const err300 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+}
+if(data124.value !== undefined){
+let data125 = data124.value;
+if(!((typeof data125 == "number") && (isFinite(data125)))){
+const err300 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak/value",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err300];
 }
@@ -13658,8 +14256,11 @@ vErrors.push(err300);
 }
 errors++;
 }
-if(data134.delayMargin_s === undefined){
-const err301 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+}
+if(data124.speed_mps !== undefined){
+let data126 = data124.speed_mps;
+if(!((typeof data126 == "number") && (isFinite(data126)))){
+const err301 = {instancePath:instancePath+"/check/worst/complementarySensitivityPeak/speed_mps",schemaPath:"#/properties/check/properties/worst/properties/complementarySensitivityPeak/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err301];
 }
@@ -13668,8 +14269,12 @@ vErrors.push(err301);
 }
 errors++;
 }
-if(data134.sensitivityPeak === undefined){
-const err302 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+}
+}
+}
+}
+else {
+const err302 = {instancePath:instancePath+"/check/worst",schemaPath:"#/properties/check/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err302];
 }
@@ -13678,8 +14283,11 @@ vErrors.push(err302);
 }
 errors++;
 }
-if(data134.complementarySensitivityPeak === undefined){
-const err303 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+}
+if(data91.failedSpeeds !== undefined){
+let data127 = data91.failedSpeeds;
+if(!(((typeof data127 == "number") && (!(data127 % 1) && !isNaN(data127))) && (isFinite(data127)))){
+const err303 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err303];
 }
@@ -13688,9 +14296,9 @@ vErrors.push(err303);
 }
 errors++;
 }
-for(const key28 in data134){
-if(!((((((key28 === "phaseMargin_deg") || (key28 === "upperGainMargin_dB")) || (key28 === "lowerGainMargin_dB")) || (key28 === "delayMargin_s")) || (key28 === "sensitivityPeak")) || (key28 === "complementarySensitivityPeak"))){
-const err304 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key28},message:"must NOT have additional properties"};
+if((typeof data127 == "number") && (isFinite(data127))){
+if(data127 < 0 || isNaN(data127)){
+const err304 = {instancePath:instancePath+"/check/failedSpeeds",schemaPath:"#/properties/check/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err304];
 }
@@ -13700,45 +14308,16 @@ vErrors.push(err304);
 errors++;
 }
 }
-if(data134.phaseMargin_deg !== undefined){
-if(!(validate15(data134.phaseMargin_deg, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/phaseMargin_deg",parentData:data134,parentDataProperty:"phaseMargin_deg",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
 }
-}
-if(data134.upperGainMargin_dB !== undefined){
-if(!(validate15(data134.upperGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/upperGainMargin_dB",parentData:data134,parentDataProperty:"upperGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data134.lowerGainMargin_dB !== undefined){
-if(!(validate15(data134.lowerGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/lowerGainMargin_dB",parentData:data134,parentDataProperty:"lowerGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data134.delayMargin_s !== undefined){
-if(!(validate15(data134.delayMargin_s, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/delayMargin_s",parentData:data134,parentDataProperty:"delayMargin_s",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data134.sensitivityPeak !== undefined){
-if(!(validate15(data134.sensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/sensitivityPeak",parentData:data134,parentDataProperty:"sensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data134.complementarySensitivityPeak !== undefined){
-if(!(validate15(data134.complementarySensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst/complementarySensitivityPeak",parentData:data134,parentDataProperty:"complementarySensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-}
-else {
-const err305 = {instancePath:instancePath+"/variations/breakpoints/" + i9+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data91.failures !== undefined){
+let data128 = data91.failures;
+if(Array.isArray(data128)){
+const len2 = data128.length;
+for(let i2=0; i2<len2; i2++){
+let data129 = data128[i2];
+if(data129 && typeof data129 == "object" && !Array.isArray(data129)){
+if(data129.speed_mps === undefined){
+const err305 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err305];
 }
@@ -13747,16 +14326,8 @@ vErrors.push(err305);
 }
 errors++;
 }
-}
-if(data131.weakest !== undefined){
-if(!(validate22(data131.weakest, {instancePath:instancePath+"/variations/breakpoints/" + i9+"/weakest",parentData:data131,parentDataProperty:"weakest",rootData}))){
-vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
-errors = vErrors.length;
-}
-}
-}
-else {
-const err306 = {instancePath:instancePath+"/variations/breakpoints/" + i9,schemaPath:"#/properties/variations/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data129.messages === undefined){
+const err306 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
 if(vErrors === null){
 vErrors = [err306];
 }
@@ -13765,10 +14336,9 @@ vErrors.push(err306);
 }
 errors++;
 }
-}
-}
-else {
-const err307 = {instancePath:instancePath+"/variations/breakpoints",schemaPath:"#/properties/variations/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key27 in data129){
+if(!((key27 === "speed_mps") || (key27 === "messages"))){
+const err307 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key27},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err307];
 }
@@ -13778,15 +14348,10 @@ vErrors.push(err307);
 errors++;
 }
 }
-if(data93.weakest !== undefined){
-if(!(validate22(data93.weakest, {instancePath:instancePath+"/variations/weakest",parentData:data93,parentDataProperty:"weakest",rootData}))){
-vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
-errors = vErrors.length;
-}
-}
-}
-else {
-const err308 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data129.speed_mps !== undefined){
+let data130 = data129.speed_mps;
+if(!((typeof data130 == "number") && (isFinite(data130)))){
+const err308 = {instancePath:instancePath+"/check/failures/" + i2+"/speed_mps",schemaPath:"#/properties/check/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err308];
 }
@@ -13796,11 +14361,13 @@ vErrors.push(err308);
 errors++;
 }
 }
-if(data.provenance !== undefined){
-let data143 = data.provenance;
-if(data143 && typeof data143 == "object" && !Array.isArray(data143)){
-if(data143.tool === undefined){
-const err309 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(data129.messages !== undefined){
+let data131 = data129.messages;
+if(Array.isArray(data131)){
+const len3 = data131.length;
+for(let i3=0; i3<len3; i3++){
+if(typeof data131[i3] !== "string"){
+const err309 = {instancePath:instancePath+"/check/failures/" + i2+"/messages/" + i3,schemaPath:"#/properties/check/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err309];
 }
@@ -13809,8 +14376,10 @@ vErrors.push(err309);
 }
 errors++;
 }
-if(data143.toolVersion === undefined){
-const err310 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+}
+}
+else {
+const err310 = {instancePath:instancePath+"/check/failures/" + i2+"/messages",schemaPath:"#/properties/check/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err310];
 }
@@ -13819,8 +14388,10 @@ vErrors.push(err310);
 }
 errors++;
 }
-if(data143.inputs === undefined){
-const err311 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+}
+}
+else {
+const err311 = {instancePath:instancePath+"/check/failures/" + i2,schemaPath:"#/properties/check/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err311];
 }
@@ -13829,8 +14400,10 @@ vErrors.push(err311);
 }
 errors++;
 }
-if(data143.model === undefined){
-const err312 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+}
+}
+else {
+const err312 = {instancePath:instancePath+"/check/failures",schemaPath:"#/properties/check/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err312];
 }
@@ -13839,8 +14412,16 @@ vErrors.push(err312);
 }
 errors++;
 }
-if(data143.rule === undefined){
-const err313 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+}
+if(data91.insertions !== undefined){
+let data133 = data91.insertions;
+if(Array.isArray(data133)){
+const len4 = data133.length;
+for(let i4=0; i4<len4; i4++){
+let data134 = data133[i4];
+if(data134 && typeof data134 == "object" && !Array.isArray(data134)){
+if(data134.speed_mps === undefined){
+const err313 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err313];
 }
@@ -13849,8 +14430,8 @@ vErrors.push(err313);
 }
 errors++;
 }
-if(data143.plan === undefined){
-const err314 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(data134.reason === undefined){
+const err314 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
 if(vErrors === null){
 vErrors = [err314];
 }
@@ -13859,9 +14440,9 @@ vErrors.push(err314);
 }
 errors++;
 }
-for(const key29 in data143){
-if(!(((((((key29 === "tool") || (key29 === "toolVersion")) || (key29 === "inputs")) || (key29 === "model")) || (key29 === "rule")) || (key29 === "plan")) || (key29 === "handEdits"))){
-const err315 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key29},message:"must NOT have additional properties"};
+for(const key28 in data134){
+if(!((key28 === "speed_mps") || (key28 === "reason"))){
+const err315 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key28},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err315];
 }
@@ -13871,9 +14452,10 @@ vErrors.push(err315);
 errors++;
 }
 }
-if(data143.tool !== undefined){
-if("speedband" !== data143.tool){
-const err316 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(data134.speed_mps !== undefined){
+let data135 = data134.speed_mps;
+if(!((typeof data135 == "number") && (isFinite(data135)))){
+const err316 = {instancePath:instancePath+"/check/insertions/" + i4+"/speed_mps",schemaPath:"#/properties/check/properties/insertions/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err316];
 }
@@ -13883,9 +14465,9 @@ vErrors.push(err316);
 errors++;
 }
 }
-if(data143.toolVersion !== undefined){
-if(typeof data143.toolVersion !== "string"){
-const err317 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data134.reason !== undefined){
+if(typeof data134.reason !== "string"){
+const err317 = {instancePath:instancePath+"/check/insertions/" + i4+"/reason",schemaPath:"#/properties/check/properties/insertions/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err317];
 }
@@ -13895,15 +14477,9 @@ vErrors.push(err317);
 errors++;
 }
 }
-if(data143.inputs !== undefined){
-let data146 = data143.inputs;
-if(Array.isArray(data146)){
-const len10 = data146.length;
-for(let i10=0; i10<len10; i10++){
-let data147 = data146[i10];
-if(data147 && typeof data147 == "object" && !Array.isArray(data147)){
-if(data147.file === undefined){
-const err318 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+}
+else {
+const err318 = {instancePath:instancePath+"/check/insertions/" + i4,schemaPath:"#/properties/check/properties/insertions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err318];
 }
@@ -13912,8 +14488,10 @@ vErrors.push(err318);
 }
 errors++;
 }
-if(data147.sha256 === undefined){
-const err319 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+}
+}
+else {
+const err319 = {instancePath:instancePath+"/check/insertions",schemaPath:"#/properties/check/properties/insertions/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err319];
 }
@@ -13922,8 +14500,12 @@ vErrors.push(err319);
 }
 errors++;
 }
-if(data147.role === undefined){
-const err320 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+}
+if(data91.timeDomain !== undefined){
+let data137 = data91.timeDomain;
+if(data137 && typeof data137 == "object" && !Array.isArray(data137)){
+if(data137.passed === undefined){
+const err320 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err320];
 }
@@ -13932,9 +14514,8 @@ vErrors.push(err320);
 }
 errors++;
 }
-for(const key30 in data147){
-if(!(((key30 === "file") || (key30 === "sha256")) || (key30 === "role"))){
-const err321 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key30},message:"must NOT have additional properties"};
+if(data137.limits === undefined){
+const err321 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "limits"},message:"must have required property '"+"limits"+"'"};
 if(vErrors === null){
 vErrors = [err321];
 }
@@ -13943,10 +14524,8 @@ vErrors.push(err321);
 }
 errors++;
 }
-}
-if(data147.file !== undefined){
-if(typeof data147.file !== "string"){
-const err322 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data137.steeringLimits === undefined){
+const err322 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "steeringLimits"},message:"must have required property '"+"steeringLimits"+"'"};
 if(vErrors === null){
 vErrors = [err322];
 }
@@ -13955,12 +14534,8 @@ vErrors.push(err322);
 }
 errors++;
 }
-}
-if(data147.sha256 !== undefined){
-let data149 = data147.sha256;
-if(typeof data149 === "string"){
-if(!pattern0.test(data149)){
-const err323 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data137.failures === undefined){
+const err323 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err323];
 }
@@ -13969,9 +14544,9 @@ vErrors.push(err323);
 }
 errors++;
 }
-}
-else {
-const err324 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key29 in data137){
+if(!((((key29 === "passed") || (key29 === "limits")) || (key29 === "steeringLimits")) || (key29 === "failures"))){
+const err324 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key29},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err324];
 }
@@ -13981,9 +14556,9 @@ vErrors.push(err324);
 errors++;
 }
 }
-if(data147.role !== undefined){
-if(typeof data147.role !== "string"){
-const err325 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data137.passed !== undefined){
+if(typeof data137.passed !== "boolean"){
+const err325 = {instancePath:instancePath+"/check/timeDomain/passed",schemaPath:"#/properties/check/properties/timeDomain/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err325];
 }
@@ -13993,9 +14568,11 @@ vErrors.push(err325);
 errors++;
 }
 }
-}
-else {
-const err326 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data137.limits !== undefined){
+let data139 = data137.limits;
+if(data139 && typeof data139 == "object" && !Array.isArray(data139)){
+if(data139.maximumOvershoot_pct === undefined){
+const err326 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumOvershoot_pct"},message:"must have required property '"+"maximumOvershoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err326];
 }
@@ -14004,10 +14581,8 @@ vErrors.push(err326);
 }
 errors++;
 }
-}
-}
-else {
-const err327 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data139.maximumRecoveryTime_s === undefined){
+const err327 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumRecoveryTime_s"},message:"must have required property '"+"maximumRecoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err327];
 }
@@ -14016,11 +14591,8 @@ vErrors.push(err327);
 }
 errors++;
 }
-}
-if(data143.model !== undefined){
-let data151 = data143.model;
-if(!(data151 && typeof data151 == "object" && !Array.isArray(data151))){
-const err328 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data139.maximumLaneChangeError_m === undefined){
+const err328 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumLaneChangeError_m"},message:"must have required property '"+"maximumLaneChangeError_m"+"'"};
 if(vErrors === null){
 vErrors = [err328];
 }
@@ -14029,12 +14601,8 @@ vErrors.push(err328);
 }
 errors++;
 }
-}
-if(data143.rule !== undefined){
-let data152 = data143.rule;
-if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
-if(data152.name === undefined){
-const err329 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(data139.maximumCurveEntryError_m === undefined){
+const err329 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/required",keyword:"required",params:{missingProperty: "maximumCurveEntryError_m"},message:"must have required property '"+"maximumCurveEntryError_m"+"'"};
 if(vErrors === null){
 vErrors = [err329];
 }
@@ -14043,8 +14611,9 @@ vErrors.push(err329);
 }
 errors++;
 }
-if(data152.parameters === undefined){
-const err330 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+for(const key30 in data139){
+if(!((((key30 === "maximumOvershoot_pct") || (key30 === "maximumRecoveryTime_s")) || (key30 === "maximumLaneChangeError_m")) || (key30 === "maximumCurveEntryError_m"))){
+const err330 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key30},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err330];
 }
@@ -14053,9 +14622,11 @@ vErrors.push(err330);
 }
 errors++;
 }
-for(const key31 in data152){
-if(!((((key31 === "name") || (key31 === "parameters")) || (key31 === "citation")) || (key31 === "parametersAtBreakpoints"))){
-const err331 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
+}
+if(data139.maximumOvershoot_pct !== undefined){
+let data140 = data139.maximumOvershoot_pct;
+if(!((typeof data140 == "number") && (isFinite(data140)))){
+const err331 = {instancePath:instancePath+"/check/timeDomain/limits/maximumOvershoot_pct",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err331];
 }
@@ -14065,9 +14636,10 @@ vErrors.push(err331);
 errors++;
 }
 }
-if(data152.name !== undefined){
-if(typeof data152.name !== "string"){
-const err332 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data139.maximumRecoveryTime_s !== undefined){
+let data141 = data139.maximumRecoveryTime_s;
+if(!((typeof data141 == "number") && (isFinite(data141)))){
+const err332 = {instancePath:instancePath+"/check/timeDomain/limits/maximumRecoveryTime_s",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err332];
 }
@@ -14077,10 +14649,10 @@ vErrors.push(err332);
 errors++;
 }
 }
-if(data152.parameters !== undefined){
-let data154 = data152.parameters;
-if(!(data154 && typeof data154 == "object" && !Array.isArray(data154))){
-const err333 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data139.maximumLaneChangeError_m !== undefined){
+let data142 = data139.maximumLaneChangeError_m;
+if(!((typeof data142 == "number") && (isFinite(data142)))){
+const err333 = {instancePath:instancePath+"/check/timeDomain/limits/maximumLaneChangeError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err333];
 }
@@ -14090,9 +14662,10 @@ vErrors.push(err333);
 errors++;
 }
 }
-if(data152.citation !== undefined){
-if(typeof data152.citation !== "string"){
-const err334 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data139.maximumCurveEntryError_m !== undefined){
+let data143 = data139.maximumCurveEntryError_m;
+if(!((typeof data143 == "number") && (isFinite(data143)))){
+const err334 = {instancePath:instancePath+"/check/timeDomain/limits/maximumCurveEntryError_m",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err334];
 }
@@ -14102,15 +14675,9 @@ vErrors.push(err334);
 errors++;
 }
 }
-if(data152.parametersAtBreakpoints !== undefined){
-let data156 = data152.parametersAtBreakpoints;
-if(Array.isArray(data156)){
-const len11 = data156.length;
-for(let i11=0; i11<len11; i11++){
-let data157 = data156[i11];
-if(data157 && typeof data157 == "object" && !Array.isArray(data157)){
-if(data157.speed_mps === undefined){
-const err335 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+}
+else {
+const err335 = {instancePath:instancePath+"/check/timeDomain/limits",schemaPath:"#/properties/check/properties/timeDomain/properties/limits/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err335];
 }
@@ -14119,8 +14686,12 @@ vErrors.push(err335);
 }
 errors++;
 }
-if(data157.parameters === undefined){
-const err336 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+}
+if(data137.steeringLimits !== undefined){
+let data144 = data137.steeringLimits;
+if(data144 && typeof data144 == "object" && !Array.isArray(data144)){
+if(data144.maxSteerAngle_rad === undefined){
+const err336 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/required",keyword:"required",params:{missingProperty: "maxSteerAngle_rad"},message:"must have required property '"+"maxSteerAngle_rad"+"'"};
 if(vErrors === null){
 vErrors = [err336];
 }
@@ -14129,9 +14700,8 @@ vErrors.push(err336);
 }
 errors++;
 }
-for(const key32 in data157){
-if(!((key32 === "speed_mps") || (key32 === "parameters"))){
-const err337 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
+if(data144.maxSteerRate_radps === undefined){
+const err337 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/required",keyword:"required",params:{missingProperty: "maxSteerRate_radps"},message:"must have required property '"+"maxSteerRate_radps"+"'"};
 if(vErrors === null){
 vErrors = [err337];
 }
@@ -14140,11 +14710,9 @@ vErrors.push(err337);
 }
 errors++;
 }
-}
-if(data157.speed_mps !== undefined){
-let data158 = data157.speed_mps;
-if(!((typeof data158 == "number") && (isFinite(data158)))){
-const err338 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key31 in data144){
+if(!((key31 === "maxSteerAngle_rad") || (key31 === "maxSteerRate_radps"))){
+const err338 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err338];
 }
@@ -14154,13 +14722,11 @@ vErrors.push(err338);
 errors++;
 }
 }
-if(data157.parameters !== undefined){
-let data159 = data157.parameters;
-if(data159 && typeof data159 == "object" && !Array.isArray(data159)){
-for(const key33 in data159){
-let data160 = data159[key33];
-if((!((typeof data160 == "number") && (isFinite(data160)))) && (typeof data160 !== "string")){
-const err339 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/parameters/" + key33.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(data144.maxSteerAngle_rad !== undefined){
+let data145 = data144.maxSteerAngle_rad;
+if((typeof data145 == "number") && (isFinite(data145))){
+if(data145 <= 0 || isNaN(data145)){
+const err339 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerAngle_rad",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerAngle_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err339];
 }
@@ -14170,9 +14736,8 @@ vErrors.push(err339);
 errors++;
 }
 }
-}
 else {
-const err340 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err340 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerAngle_rad",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerAngle_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err340];
 }
@@ -14182,9 +14747,11 @@ vErrors.push(err340);
 errors++;
 }
 }
-}
-else {
-const err341 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data144.maxSteerRate_radps !== undefined){
+let data146 = data144.maxSteerRate_radps;
+if((typeof data146 == "number") && (isFinite(data146))){
+if(data146 <= 0 || isNaN(data146)){
+const err341 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerRate_radps",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerRate_radps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err341];
 }
@@ -14194,9 +14761,8 @@ vErrors.push(err341);
 errors++;
 }
 }
-}
 else {
-const err342 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err342 = {instancePath:instancePath+"/check/timeDomain/steeringLimits/maxSteerRate_radps",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/properties/maxSteerRate_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err342];
 }
@@ -14208,7 +14774,7 @@ errors++;
 }
 }
 else {
-const err343 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err343 = {instancePath:instancePath+"/check/timeDomain/steeringLimits",schemaPath:"#/properties/check/properties/timeDomain/properties/steeringLimits/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err343];
 }
@@ -14218,10 +14784,15 @@ vErrors.push(err343);
 errors++;
 }
 }
-if(data143.plan !== undefined){
-let data161 = data143.plan;
-if(!(data161 && typeof data161 == "object" && !Array.isArray(data161))){
-const err344 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data137.failures !== undefined){
+let data147 = data137.failures;
+if(Array.isArray(data147)){
+const len5 = data147.length;
+for(let i5=0; i5<len5; i5++){
+let data148 = data147[i5];
+if(data148 && typeof data148 == "object" && !Array.isArray(data148)){
+if(data148.speed_mps === undefined){
+const err344 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err344];
 }
@@ -14230,16 +14801,8 @@ vErrors.push(err344);
 }
 errors++;
 }
-}
-if(data143.handEdits !== undefined){
-let data162 = data143.handEdits;
-if(Array.isArray(data162)){
-const len12 = data162.length;
-for(let i12=0; i12<len12; i12++){
-let data163 = data162[i12];
-if(data163 && typeof data163 == "object" && !Array.isArray(data163)){
-if(data163.statement === undefined){
-const err345 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(data148.messages === undefined){
+const err345 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
 if(vErrors === null){
 vErrors = [err345];
 }
@@ -14248,8 +14811,9 @@ vErrors.push(err345);
 }
 errors++;
 }
-if(data163.changedSections === undefined){
-const err346 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+for(const key32 in data148){
+if(!((key32 === "speed_mps") || (key32 === "messages"))){
+const err346 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err346];
 }
@@ -14258,8 +14822,11 @@ vErrors.push(err346);
 }
 errors++;
 }
-if(data163.toolVersion === undefined){
-const err347 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+}
+if(data148.speed_mps !== undefined){
+let data149 = data148.speed_mps;
+if(!((typeof data149 == "number") && (isFinite(data149)))){
+const err347 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/speed_mps",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err347];
 }
@@ -14268,8 +14835,14 @@ vErrors.push(err347);
 }
 errors++;
 }
-if(data163.model === undefined){
-const err348 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+}
+if(data148.messages !== undefined){
+let data150 = data148.messages;
+if(Array.isArray(data150)){
+const len6 = data150.length;
+for(let i6=0; i6<len6; i6++){
+if(typeof data150[i6] !== "string"){
+const err348 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages/" + i6,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err348];
 }
@@ -14278,8 +14851,10 @@ vErrors.push(err348);
 }
 errors++;
 }
-if(data163.gridSize === undefined){
-const err349 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+}
+}
+else {
+const err349 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5+"/messages",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err349];
 }
@@ -14288,9 +14863,10 @@ vErrors.push(err349);
 }
 errors++;
 }
-for(const key34 in data163){
-if(!(((((key34 === "statement") || (key34 === "changedSections")) || (key34 === "toolVersion")) || (key34 === "model")) || (key34 === "gridSize"))){
-const err350 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
+}
+}
+else {
+const err350 = {instancePath:instancePath+"/check/timeDomain/failures/" + i5,schemaPath:"#/properties/check/properties/timeDomain/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err350];
 }
@@ -14300,9 +14876,9 @@ vErrors.push(err350);
 errors++;
 }
 }
-if(data163.statement !== undefined){
-if(typeof data163.statement !== "string"){
-const err351 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err351 = {instancePath:instancePath+"/check/timeDomain/failures",schemaPath:"#/properties/check/properties/timeDomain/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err351];
 }
@@ -14312,13 +14888,9 @@ vErrors.push(err351);
 errors++;
 }
 }
-if(data163.changedSections !== undefined){
-let data165 = data163.changedSections;
-if(Array.isArray(data165)){
-const len13 = data165.length;
-for(let i13=0; i13<len13; i13++){
-if(typeof data165[i13] !== "string"){
-const err352 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/changedSections/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+else {
+const err352 = {instancePath:instancePath+"/check/timeDomain",schemaPath:"#/properties/check/properties/timeDomain/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err352];
 }
@@ -14330,7 +14902,7 @@ errors++;
 }
 }
 else {
-const err353 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err353 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err353];
 }
@@ -14340,9 +14912,11 @@ vErrors.push(err353);
 errors++;
 }
 }
-if(data163.toolVersion !== undefined){
-if(typeof data163.toolVersion !== "string"){
-const err354 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data.variations !== undefined){
+let data152 = data.variations;
+if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
+if(data152.acceptance === undefined){
+const err354 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "acceptance"},message:"must have required property '"+"acceptance"+"'"};
 if(vErrors === null){
 vErrors = [err354];
 }
@@ -14351,10 +14925,8 @@ vErrors.push(err354);
 }
 errors++;
 }
-}
-if(data163.model !== undefined){
-if(typeof data163.model !== "string"){
-const err355 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.passed === undefined){
+const err355 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err355];
 }
@@ -14363,11 +14935,8 @@ vErrors.push(err355);
 }
 errors++;
 }
-}
-if(data163.gridSize !== undefined){
-let data169 = data163.gridSize;
-if(!(((typeof data169 == "number") && (!(data169 % 1) && !isNaN(data169))) && (isFinite(data169)))){
-const err356 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data152.set === undefined){
+const err356 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "set"},message:"must have required property '"+"set"+"'"};
 if(vErrors === null){
 vErrors = [err356];
 }
@@ -14376,9 +14945,8 @@ vErrors.push(err356);
 }
 errors++;
 }
-if((typeof data169 == "number") && (isFinite(data169))){
-if(data169 < 1 || isNaN(data169)){
-const err357 = {instancePath:instancePath+"/provenance/handEdits/" + i12+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data152.search === undefined){
+const err357 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "search"},message:"must have required property '"+"search"+"'"};
 if(vErrors === null){
 vErrors = [err357];
 }
@@ -14387,11 +14955,8 @@ vErrors.push(err357);
 }
 errors++;
 }
-}
-}
-}
-else {
-const err358 = {instancePath:instancePath+"/provenance/handEdits/" + i12,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data152.gridSize === undefined){
+const err358 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err358];
 }
@@ -14400,10 +14965,8 @@ vErrors.push(err358);
 }
 errors++;
 }
-}
-}
-else {
-const err359 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data152.failedSpeeds === undefined){
+const err359 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err359];
 }
@@ -14412,10 +14975,8 @@ vErrors.push(err359);
 }
 errors++;
 }
-}
-}
-else {
-const err360 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data152.unstableSpeeds === undefined){
+const err360 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "unstableSpeeds"},message:"must have required property '"+"unstableSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err360];
 }
@@ -14424,12 +14985,8 @@ vErrors.push(err360);
 }
 errors++;
 }
-}
-if(data.cautions !== undefined){
-let data170 = data.cautions;
-if(Array.isArray(data170)){
-if(data170.length < 1){
-const err361 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data152.loopAnalyses === undefined){
+const err361 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "loopAnalyses"},message:"must have required property '"+"loopAnalyses"+"'"};
 if(vErrors === null){
 vErrors = [err361];
 }
@@ -14438,10 +14995,8 @@ vErrors.push(err361);
 }
 errors++;
 }
-const len14 = data170.length;
-for(let i14=0; i14<len14; i14++){
-if(typeof data170[i14] !== "string"){
-const err362 = {instancePath:instancePath+"/cautions/" + i14,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.worst === undefined){
+const err362 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err362];
 }
@@ -14450,10 +15005,8 @@ vErrors.push(err362);
 }
 errors++;
 }
-}
-}
-else {
-const err363 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data152.failures === undefined){
+const err363 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err363];
 }
@@ -14462,12 +15015,8 @@ vErrors.push(err363);
 }
 errors++;
 }
-}
-if(data.checksum !== undefined){
-let data172 = data.checksum;
-if(data172 && typeof data172 == "object" && !Array.isArray(data172)){
-if(data172.algorithm === undefined){
-const err364 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(data152.breakpoints === undefined){
+const err364 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
 if(vErrors === null){
 vErrors = [err364];
 }
@@ -14476,8 +15025,8 @@ vErrors.push(err364);
 }
 errors++;
 }
-if(data172.canonicalForm === undefined){
-const err365 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(data152.weakest === undefined){
+const err365 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
 if(vErrors === null){
 vErrors = [err365];
 }
@@ -14486,8 +15035,9 @@ vErrors.push(err365);
 }
 errors++;
 }
-if(data172.value === undefined){
-const err366 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+for(const key33 in data152){
+if(!(func18.call(schema11.properties.variations.properties, key33))){
+const err366 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err366];
 }
@@ -14496,8 +15046,11 @@ vErrors.push(err366);
 }
 errors++;
 }
-if(data172.sections === undefined){
-const err367 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+if(data152.acceptance !== undefined){
+let data153 = data152.acceptance;
+if(!((data153 === "robust") || (data153 === "nominal"))){
+const err367 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err367];
 }
@@ -14506,9 +15059,10 @@ vErrors.push(err367);
 }
 errors++;
 }
-for(const key35 in data172){
-if(!((((key35 === "algorithm") || (key35 === "canonicalForm")) || (key35 === "value")) || (key35 === "sections"))){
-const err368 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
+}
+if(data152.passed !== undefined){
+if(typeof data152.passed !== "boolean"){
+const err368 = {instancePath:instancePath+"/variations/passed",schemaPath:"#/properties/variations/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err368];
 }
@@ -14518,9 +15072,11 @@ vErrors.push(err368);
 errors++;
 }
 }
-if(data172.algorithm !== undefined){
-if("SHA-256" !== data172.algorithm){
-const err369 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(data152.set !== undefined){
+let data155 = data152.set;
+if(data155 && typeof data155 == "object" && !Array.isArray(data155)){
+if(data155.model === undefined){
+const err369 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err369];
 }
@@ -14529,10 +15085,8 @@ vErrors.push(err369);
 }
 errors++;
 }
-}
-if(data172.canonicalForm !== undefined){
-if(typeof data172.canonicalForm !== "string"){
-const err370 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data155.dimensions === undefined){
+const err370 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "dimensions"},message:"must have required property '"+"dimensions"+"'"};
 if(vErrors === null){
 vErrors = [err370];
 }
@@ -14541,12 +15095,8 @@ vErrors.push(err370);
 }
 errors++;
 }
-}
-if(data172.value !== undefined){
-let data175 = data172.value;
-if(typeof data175 === "string"){
-if(!pattern0.test(data175)){
-const err371 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data155.notApplied === undefined){
+const err371 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "notApplied"},message:"must have required property '"+"notApplied"+"'"};
 if(vErrors === null){
 vErrors = [err371];
 }
@@ -14555,9 +15105,9 @@ vErrors.push(err371);
 }
 errors++;
 }
-}
-else {
-const err372 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key34 in data155){
+if(!(((key34 === "model") || (key34 === "dimensions")) || (key34 === "notApplied"))){
+const err372 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err372];
 }
@@ -14567,14 +15117,10 @@ vErrors.push(err372);
 errors++;
 }
 }
-if(data172.sections !== undefined){
-let data176 = data172.sections;
-if(data176 && typeof data176 == "object" && !Array.isArray(data176)){
-for(const key36 in data176){
-const _errs357 = errors;
-if(typeof key36 === "string"){
-if(!pattern5.test(key36)){
-const err373 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key36};
+if(data155.model !== undefined){
+let data156 = data155.model;
+if(!((data156 === "single-track") || (data156 === "interpolated-lumped"))){
+const err373 = {instancePath:instancePath+"/variations/set/model",schemaPath:"#/properties/variations/properties/set/properties/model/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.model.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err373];
 }
@@ -14584,9 +15130,15 @@ vErrors.push(err373);
 errors++;
 }
 }
-var valid66 = _errs357 === errors;
-if(!valid66){
-const err374 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key36},message:"property name must be valid"};
+if(data155.dimensions !== undefined){
+let data157 = data155.dimensions;
+if(Array.isArray(data157)){
+const len7 = data157.length;
+for(let i7=0; i7<len7; i7++){
+let data158 = data157[i7];
+if(data158 && typeof data158 == "object" && !Array.isArray(data158)){
+if(data158.parameter === undefined){
+const err374 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
 if(vErrors === null){
 vErrors = [err374];
 }
@@ -14595,12 +15147,8 @@ vErrors.push(err374);
 }
 errors++;
 }
-}
-for(const key37 in data176){
-let data177 = data176[key37];
-if(typeof data177 === "string"){
-if(!pattern0.test(data177)){
-const err375 = {instancePath:instancePath+"/checksum/sections/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data158.change === undefined){
+const err375 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "change"},message:"must have required property '"+"change"+"'"};
 if(vErrors === null){
 vErrors = [err375];
 }
@@ -14609,9 +15157,8 @@ vErrors.push(err375);
 }
 errors++;
 }
-}
-else {
-const err376 = {instancePath:instancePath+"/checksum/sections/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data158.minimum === undefined){
+const err376 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "minimum"},message:"must have required property '"+"minimum"+"'"};
 if(vErrors === null){
 vErrors = [err376];
 }
@@ -14620,10 +15167,8 @@ vErrors.push(err376);
 }
 errors++;
 }
-}
-}
-else {
-const err377 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data158.maximum === undefined){
+const err377 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "maximum"},message:"must have required property '"+"maximum"+"'"};
 if(vErrors === null){
 vErrors = [err377];
 }
@@ -14632,10 +15177,8 @@ vErrors.push(err377);
 }
 errors++;
 }
-}
-}
-else {
-const err378 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data158.source === undefined){
+const err378 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "source"},message:"must have required property '"+"source"+"'"};
 if(vErrors === null){
 vErrors = [err378];
 }
@@ -14644,15 +15187,2006 @@ vErrors.push(err378);
 }
 errors++;
 }
-}
-}
-else {
-const err379 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key35 in data158){
+if(!(((((key35 === "parameter") || (key35 === "change")) || (key35 === "minimum")) || (key35 === "maximum")) || (key35 === "source"))){
+const err379 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err379];
 }
 else {
 vErrors.push(err379);
+}
+errors++;
+}
+}
+if(data158.parameter !== undefined){
+let data159 = data158.parameter;
+if(!((((((((((data159 === "mass_kg") || (data159 === "yawInertia_kgm2")) || (data159 === "cgToFrontAxle_m")) || (data159 === "frontCorneringStiffness_NPerRad")) || (data159 === "rearCorneringStiffness_NPerRad")) || (data159 === "actuatorLag_s")) || (data159 === "actuatorDelay_s")) || (data159 === "gain")) || (data159 === "timeConstant_s")) || (data159 === "deadTime_s"))){
+const err380 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/parameter",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.parameter.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err380];
+}
+else {
+vErrors.push(err380);
+}
+errors++;
+}
+}
+if(data158.change !== undefined){
+let data160 = data158.change;
+if(!((data160 === "scale") || (data160 === "add"))){
+const err381 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/change",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/change/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.change.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err381];
+}
+else {
+vErrors.push(err381);
+}
+errors++;
+}
+}
+if(data158.minimum !== undefined){
+let data161 = data158.minimum;
+if(!((typeof data161 == "number") && (isFinite(data161)))){
+const err382 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/minimum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/minimum/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err382];
+}
+else {
+vErrors.push(err382);
+}
+errors++;
+}
+}
+if(data158.maximum !== undefined){
+let data162 = data158.maximum;
+if(!((typeof data162 == "number") && (isFinite(data162)))){
+const err383 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/maximum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/maximum/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err383];
+}
+else {
+vErrors.push(err383);
+}
+errors++;
+}
+}
+if(data158.source !== undefined){
+if(typeof data158.source !== "string"){
+const err384 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/source",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/source/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err384];
+}
+else {
+vErrors.push(err384);
+}
+errors++;
+}
+}
+}
+else {
+const err385 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err385];
+}
+else {
+vErrors.push(err385);
+}
+errors++;
+}
+}
+}
+else {
+const err386 = {instancePath:instancePath+"/variations/set/dimensions",schemaPath:"#/properties/variations/properties/set/properties/dimensions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err386];
+}
+else {
+vErrors.push(err386);
+}
+errors++;
+}
+}
+if(data155.notApplied !== undefined){
+let data164 = data155.notApplied;
+if(Array.isArray(data164)){
+const len8 = data164.length;
+for(let i8=0; i8<len8; i8++){
+let data165 = data164[i8];
+if(data165 && typeof data165 == "object" && !Array.isArray(data165)){
+if(data165.field === undefined){
+const err387 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "field"},message:"must have required property '"+"field"+"'"};
+if(vErrors === null){
+vErrors = [err387];
+}
+else {
+vErrors.push(err387);
+}
+errors++;
+}
+if(data165.reason === undefined){
+const err388 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(vErrors === null){
+vErrors = [err388];
+}
+else {
+vErrors.push(err388);
+}
+errors++;
+}
+for(const key36 in data165){
+if(!((key36 === "field") || (key36 === "reason"))){
+const err389 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err389];
+}
+else {
+vErrors.push(err389);
+}
+errors++;
+}
+}
+if(data165.field !== undefined){
+if(typeof data165.field !== "string"){
+const err390 = {instancePath:instancePath+"/variations/set/notApplied/" + i8+"/field",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/field/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err390];
+}
+else {
+vErrors.push(err390);
+}
+errors++;
+}
+}
+if(data165.reason !== undefined){
+if(typeof data165.reason !== "string"){
+const err391 = {instancePath:instancePath+"/variations/set/notApplied/" + i8+"/reason",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err391];
+}
+else {
+vErrors.push(err391);
+}
+errors++;
+}
+}
+}
+else {
+const err392 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err392];
+}
+else {
+vErrors.push(err392);
+}
+errors++;
+}
+}
+}
+else {
+const err393 = {instancePath:instancePath+"/variations/set/notApplied",schemaPath:"#/properties/variations/properties/set/properties/notApplied/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err393];
+}
+else {
+vErrors.push(err393);
+}
+errors++;
+}
+}
+}
+else {
+const err394 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err394];
+}
+else {
+vErrors.push(err394);
+}
+errors++;
+}
+}
+if(data152.search !== undefined){
+let data168 = data152.search;
+if(data168 && typeof data168 == "object" && !Array.isArray(data168)){
+if(data168.samples === undefined){
+const err395 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "samples"},message:"must have required property '"+"samples"+"'"};
+if(vErrors === null){
+vErrors = [err395];
+}
+else {
+vErrors.push(err395);
+}
+errors++;
+}
+if(data168.seed === undefined){
+const err396 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "seed"},message:"must have required property '"+"seed"+"'"};
+if(vErrors === null){
+vErrors = [err396];
+}
+else {
+vErrors.push(err396);
+}
+errors++;
+}
+if(data168.localSearchEvaluations === undefined){
+const err397 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "localSearchEvaluations"},message:"must have required property '"+"localSearchEvaluations"+"'"};
+if(vErrors === null){
+vErrors = [err397];
+}
+else {
+vErrors.push(err397);
+}
+errors++;
+}
+if(data168.method === undefined){
+const err398 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
+if(vErrors === null){
+vErrors = [err398];
+}
+else {
+vErrors.push(err398);
+}
+errors++;
+}
+for(const key37 in data168){
+if(!((((key37 === "samples") || (key37 === "seed")) || (key37 === "localSearchEvaluations")) || (key37 === "method"))){
+const err399 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key37},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err399];
+}
+else {
+vErrors.push(err399);
+}
+errors++;
+}
+}
+if(data168.samples !== undefined){
+let data169 = data168.samples;
+if(!(((typeof data169 == "number") && (!(data169 % 1) && !isNaN(data169))) && (isFinite(data169)))){
+const err400 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err400];
+}
+else {
+vErrors.push(err400);
+}
+errors++;
+}
+if((typeof data169 == "number") && (isFinite(data169))){
+if(data169 < 0 || isNaN(data169)){
+const err401 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err401];
+}
+else {
+vErrors.push(err401);
+}
+errors++;
+}
+}
+}
+if(data168.seed !== undefined){
+let data170 = data168.seed;
+if(!(((typeof data170 == "number") && (!(data170 % 1) && !isNaN(data170))) && (isFinite(data170)))){
+const err402 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err402];
+}
+else {
+vErrors.push(err402);
+}
+errors++;
+}
+if((typeof data170 == "number") && (isFinite(data170))){
+if(data170 < 0 || isNaN(data170)){
+const err403 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err403];
+}
+else {
+vErrors.push(err403);
+}
+errors++;
+}
+}
+}
+if(data168.localSearchEvaluations !== undefined){
+let data171 = data168.localSearchEvaluations;
+if(!(((typeof data171 == "number") && (!(data171 % 1) && !isNaN(data171))) && (isFinite(data171)))){
+const err404 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err404];
+}
+else {
+vErrors.push(err404);
+}
+errors++;
+}
+if((typeof data171 == "number") && (isFinite(data171))){
+if(data171 < 0 || isNaN(data171)){
+const err405 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err405];
+}
+else {
+vErrors.push(err405);
+}
+errors++;
+}
+}
+}
+if(data168.method !== undefined){
+if(typeof data168.method !== "string"){
+const err406 = {instancePath:instancePath+"/variations/search/method",schemaPath:"#/properties/variations/properties/search/properties/method/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err406];
+}
+else {
+vErrors.push(err406);
+}
+errors++;
+}
+}
+}
+else {
+const err407 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err407];
+}
+else {
+vErrors.push(err407);
+}
+errors++;
+}
+}
+if(data152.gridSize !== undefined){
+let data173 = data152.gridSize;
+if(!(((typeof data173 == "number") && (!(data173 % 1) && !isNaN(data173))) && (isFinite(data173)))){
+const err408 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err408];
+}
+else {
+vErrors.push(err408);
+}
+errors++;
+}
+if((typeof data173 == "number") && (isFinite(data173))){
+if(data173 < 1 || isNaN(data173)){
+const err409 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err409];
+}
+else {
+vErrors.push(err409);
+}
+errors++;
+}
+}
+}
+if(data152.failedSpeeds !== undefined){
+let data174 = data152.failedSpeeds;
+if(!(((typeof data174 == "number") && (!(data174 % 1) && !isNaN(data174))) && (isFinite(data174)))){
+const err410 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err410];
+}
+else {
+vErrors.push(err410);
+}
+errors++;
+}
+if((typeof data174 == "number") && (isFinite(data174))){
+if(data174 < 0 || isNaN(data174)){
+const err411 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err411];
+}
+else {
+vErrors.push(err411);
+}
+errors++;
+}
+}
+}
+if(data152.unstableSpeeds !== undefined){
+let data175 = data152.unstableSpeeds;
+if(!(((typeof data175 == "number") && (!(data175 % 1) && !isNaN(data175))) && (isFinite(data175)))){
+const err412 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err412];
+}
+else {
+vErrors.push(err412);
+}
+errors++;
+}
+if((typeof data175 == "number") && (isFinite(data175))){
+if(data175 < 0 || isNaN(data175)){
+const err413 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err413];
+}
+else {
+vErrors.push(err413);
+}
+errors++;
+}
+}
+}
+if(data152.loopAnalyses !== undefined){
+let data176 = data152.loopAnalyses;
+if(!(((typeof data176 == "number") && (!(data176 % 1) && !isNaN(data176))) && (isFinite(data176)))){
+const err414 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err414];
+}
+else {
+vErrors.push(err414);
+}
+errors++;
+}
+if((typeof data176 == "number") && (isFinite(data176))){
+if(data176 < 0 || isNaN(data176)){
+const err415 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err415];
+}
+else {
+vErrors.push(err415);
+}
+errors++;
+}
+}
+}
+if(data152.worst !== undefined){
+let data177 = data152.worst;
+if(data177 && typeof data177 == "object" && !Array.isArray(data177)){
+if(data177.phaseMargin_deg === undefined){
+const err416 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(vErrors === null){
+vErrors = [err416];
+}
+else {
+vErrors.push(err416);
+}
+errors++;
+}
+if(data177.upperGainMargin_dB === undefined){
+const err417 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(vErrors === null){
+vErrors = [err417];
+}
+else {
+vErrors.push(err417);
+}
+errors++;
+}
+if(data177.lowerGainMargin_dB === undefined){
+const err418 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+if(vErrors === null){
+vErrors = [err418];
+}
+else {
+vErrors.push(err418);
+}
+errors++;
+}
+if(data177.delayMargin_s === undefined){
+const err419 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+if(vErrors === null){
+vErrors = [err419];
+}
+else {
+vErrors.push(err419);
+}
+errors++;
+}
+if(data177.sensitivityPeak === undefined){
+const err420 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err420];
+}
+else {
+vErrors.push(err420);
+}
+errors++;
+}
+if(data177.complementarySensitivityPeak === undefined){
+const err421 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err421];
+}
+else {
+vErrors.push(err421);
+}
+errors++;
+}
+for(const key38 in data177){
+if(!((((((key38 === "phaseMargin_deg") || (key38 === "upperGainMargin_dB")) || (key38 === "lowerGainMargin_dB")) || (key38 === "delayMargin_s")) || (key38 === "sensitivityPeak")) || (key38 === "complementarySensitivityPeak"))){
+const err422 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err422];
+}
+else {
+vErrors.push(err422);
+}
+errors++;
+}
+}
+if(data177.phaseMargin_deg !== undefined){
+if(!(validate6(data177.phaseMargin_deg, {instancePath:instancePath+"/variations/worst/phaseMargin_deg",parentData:data177,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.upperGainMargin_dB !== undefined){
+if(!(validate6(data177.upperGainMargin_dB, {instancePath:instancePath+"/variations/worst/upperGainMargin_dB",parentData:data177,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.lowerGainMargin_dB !== undefined){
+if(!(validate6(data177.lowerGainMargin_dB, {instancePath:instancePath+"/variations/worst/lowerGainMargin_dB",parentData:data177,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.delayMargin_s !== undefined){
+if(!(validate6(data177.delayMargin_s, {instancePath:instancePath+"/variations/worst/delayMargin_s",parentData:data177,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.sensitivityPeak !== undefined){
+if(!(validate6(data177.sensitivityPeak, {instancePath:instancePath+"/variations/worst/sensitivityPeak",parentData:data177,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.complementarySensitivityPeak !== undefined){
+if(!(validate6(data177.complementarySensitivityPeak, {instancePath:instancePath+"/variations/worst/complementarySensitivityPeak",parentData:data177,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err423 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err423];
+}
+else {
+vErrors.push(err423);
+}
+errors++;
+}
+}
+if(data152.failures !== undefined){
+let data184 = data152.failures;
+if(Array.isArray(data184)){
+const len9 = data184.length;
+for(let i9=0; i9<len9; i9++){
+let data185 = data184[i9];
+if(data185 && typeof data185 == "object" && !Array.isArray(data185)){
+if(data185.speed_mps === undefined){
+const err424 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err424];
+}
+else {
+vErrors.push(err424);
+}
+errors++;
+}
+if(data185.messages === undefined){
+const err425 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+if(vErrors === null){
+vErrors = [err425];
+}
+else {
+vErrors.push(err425);
+}
+errors++;
+}
+for(const key39 in data185){
+if(!((key39 === "speed_mps") || (key39 === "messages"))){
+const err426 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err426];
+}
+else {
+vErrors.push(err426);
+}
+errors++;
+}
+}
+if(data185.speed_mps !== undefined){
+let data186 = data185.speed_mps;
+if(!((typeof data186 == "number") && (isFinite(data186)))){
+const err427 = {instancePath:instancePath+"/variations/failures/" + i9+"/speed_mps",schemaPath:"#/properties/variations/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err427];
+}
+else {
+vErrors.push(err427);
+}
+errors++;
+}
+}
+if(data185.messages !== undefined){
+let data187 = data185.messages;
+if(Array.isArray(data187)){
+const len10 = data187.length;
+for(let i10=0; i10<len10; i10++){
+if(typeof data187[i10] !== "string"){
+const err428 = {instancePath:instancePath+"/variations/failures/" + i9+"/messages/" + i10,schemaPath:"#/properties/variations/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err428];
+}
+else {
+vErrors.push(err428);
+}
+errors++;
+}
+}
+}
+else {
+const err429 = {instancePath:instancePath+"/variations/failures/" + i9+"/messages",schemaPath:"#/properties/variations/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err429];
+}
+else {
+vErrors.push(err429);
+}
+errors++;
+}
+}
+}
+else {
+const err430 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err430];
+}
+else {
+vErrors.push(err430);
+}
+errors++;
+}
+}
+}
+else {
+const err431 = {instancePath:instancePath+"/variations/failures",schemaPath:"#/properties/variations/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err431];
+}
+else {
+vErrors.push(err431);
+}
+errors++;
+}
+}
+if(data152.breakpoints !== undefined){
+let data189 = data152.breakpoints;
+if(Array.isArray(data189)){
+const len11 = data189.length;
+for(let i11=0; i11<len11; i11++){
+let data190 = data189[i11];
+if(data190 && typeof data190 == "object" && !Array.isArray(data190)){
+if(data190.speed_mps === undefined){
+const err432 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err432];
+}
+else {
+vErrors.push(err432);
+}
+errors++;
+}
+if(data190.instability === undefined){
+const err433 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "instability"},message:"must have required property '"+"instability"+"'"};
+if(vErrors === null){
+vErrors = [err433];
+}
+else {
+vErrors.push(err433);
+}
+errors++;
+}
+if(data190.worst === undefined){
+const err434 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(vErrors === null){
+vErrors = [err434];
+}
+else {
+vErrors.push(err434);
+}
+errors++;
+}
+if(data190.weakest === undefined){
+const err435 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
+if(vErrors === null){
+vErrors = [err435];
+}
+else {
+vErrors.push(err435);
+}
+errors++;
+}
+for(const key40 in data190){
+if(!((((key40 === "speed_mps") || (key40 === "instability")) || (key40 === "worst")) || (key40 === "weakest"))){
+const err436 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err436];
+}
+else {
+vErrors.push(err436);
+}
+errors++;
+}
+}
+if(data190.speed_mps !== undefined){
+let data191 = data190.speed_mps;
+if(!((typeof data191 == "number") && (isFinite(data191)))){
+const err437 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/speed_mps",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err437];
+}
+else {
+vErrors.push(err437);
+}
+errors++;
+}
+}
+if(data190.instability !== undefined){
+if(!(validate13(data190.instability, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/instability",parentData:data190,parentDataProperty:"instability",rootData}))){
+vErrors = vErrors === null ? validate13.errors : vErrors.concat(validate13.errors);
+errors = vErrors.length;
+}
+}
+if(data190.worst !== undefined){
+let data193 = data190.worst;
+if(data193 && typeof data193 == "object" && !Array.isArray(data193)){
+if(data193.phaseMargin_deg === undefined){
+const err438 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(vErrors === null){
+vErrors = [err438];
+}
+else {
+vErrors.push(err438);
+}
+errors++;
+}
+if(data193.upperGainMargin_dB === undefined){
+const err439 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(vErrors === null){
+vErrors = [err439];
+}
+else {
+vErrors.push(err439);
+}
+errors++;
+}
+if(data193.lowerGainMargin_dB === undefined){
+const err440 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+if(vErrors === null){
+vErrors = [err440];
+}
+else {
+vErrors.push(err440);
+}
+errors++;
+}
+if(data193.delayMargin_s === undefined){
+const err441 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+if(vErrors === null){
+vErrors = [err441];
+}
+else {
+vErrors.push(err441);
+}
+errors++;
+}
+if(data193.sensitivityPeak === undefined){
+const err442 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err442];
+}
+else {
+vErrors.push(err442);
+}
+errors++;
+}
+if(data193.complementarySensitivityPeak === undefined){
+const err443 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err443];
+}
+else {
+vErrors.push(err443);
+}
+errors++;
+}
+for(const key41 in data193){
+if(!((((((key41 === "phaseMargin_deg") || (key41 === "upperGainMargin_dB")) || (key41 === "lowerGainMargin_dB")) || (key41 === "delayMargin_s")) || (key41 === "sensitivityPeak")) || (key41 === "complementarySensitivityPeak"))){
+const err444 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key41},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err444];
+}
+else {
+vErrors.push(err444);
+}
+errors++;
+}
+}
+if(data193.phaseMargin_deg !== undefined){
+if(!(validate15(data193.phaseMargin_deg, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/phaseMargin_deg",parentData:data193,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.upperGainMargin_dB !== undefined){
+if(!(validate15(data193.upperGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/upperGainMargin_dB",parentData:data193,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.lowerGainMargin_dB !== undefined){
+if(!(validate15(data193.lowerGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/lowerGainMargin_dB",parentData:data193,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.delayMargin_s !== undefined){
+if(!(validate15(data193.delayMargin_s, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/delayMargin_s",parentData:data193,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.sensitivityPeak !== undefined){
+if(!(validate15(data193.sensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/sensitivityPeak",parentData:data193,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.complementarySensitivityPeak !== undefined){
+if(!(validate15(data193.complementarySensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/complementarySensitivityPeak",parentData:data193,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err445 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err445];
+}
+else {
+vErrors.push(err445);
+}
+errors++;
+}
+}
+if(data190.weakest !== undefined){
+if(!(validate22(data190.weakest, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/weakest",parentData:data190,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err446 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err446];
+}
+else {
+vErrors.push(err446);
+}
+errors++;
+}
+}
+}
+else {
+const err447 = {instancePath:instancePath+"/variations/breakpoints",schemaPath:"#/properties/variations/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err447];
+}
+else {
+vErrors.push(err447);
+}
+errors++;
+}
+}
+if(data152.weakest !== undefined){
+if(!(validate22(data152.weakest, {instancePath:instancePath+"/variations/weakest",parentData:data152,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err448 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err448];
+}
+else {
+vErrors.push(err448);
+}
+errors++;
+}
+}
+if(data.provenance !== undefined){
+let data202 = data.provenance;
+if(data202 && typeof data202 == "object" && !Array.isArray(data202)){
+if(data202.tool === undefined){
+const err449 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(vErrors === null){
+vErrors = [err449];
+}
+else {
+vErrors.push(err449);
+}
+errors++;
+}
+if(data202.toolVersion === undefined){
+const err450 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err450];
+}
+else {
+vErrors.push(err450);
+}
+errors++;
+}
+if(data202.inputs === undefined){
+const err451 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+if(vErrors === null){
+vErrors = [err451];
+}
+else {
+vErrors.push(err451);
+}
+errors++;
+}
+if(data202.model === undefined){
+const err452 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err452];
+}
+else {
+vErrors.push(err452);
+}
+errors++;
+}
+if(data202.rule === undefined){
+const err453 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(vErrors === null){
+vErrors = [err453];
+}
+else {
+vErrors.push(err453);
+}
+errors++;
+}
+if(data202.plan === undefined){
+const err454 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(vErrors === null){
+vErrors = [err454];
+}
+else {
+vErrors.push(err454);
+}
+errors++;
+}
+for(const key42 in data202){
+if(!(((((((key42 === "tool") || (key42 === "toolVersion")) || (key42 === "inputs")) || (key42 === "model")) || (key42 === "rule")) || (key42 === "plan")) || (key42 === "handEdits"))){
+const err455 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key42},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err455];
+}
+else {
+vErrors.push(err455);
+}
+errors++;
+}
+}
+if(data202.tool !== undefined){
+if("speedband" !== data202.tool){
+const err456 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err456];
+}
+else {
+vErrors.push(err456);
+}
+errors++;
+}
+}
+if(data202.toolVersion !== undefined){
+if(typeof data202.toolVersion !== "string"){
+const err457 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err457];
+}
+else {
+vErrors.push(err457);
+}
+errors++;
+}
+}
+if(data202.inputs !== undefined){
+let data205 = data202.inputs;
+if(Array.isArray(data205)){
+const len12 = data205.length;
+for(let i12=0; i12<len12; i12++){
+let data206 = data205[i12];
+if(data206 && typeof data206 == "object" && !Array.isArray(data206)){
+if(data206.file === undefined){
+const err458 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(vErrors === null){
+vErrors = [err458];
+}
+else {
+vErrors.push(err458);
+}
+errors++;
+}
+if(data206.sha256 === undefined){
+const err459 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(vErrors === null){
+vErrors = [err459];
+}
+else {
+vErrors.push(err459);
+}
+errors++;
+}
+if(data206.role === undefined){
+const err460 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(vErrors === null){
+vErrors = [err460];
+}
+else {
+vErrors.push(err460);
+}
+errors++;
+}
+for(const key43 in data206){
+if(!(((key43 === "file") || (key43 === "sha256")) || (key43 === "role"))){
+const err461 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key43},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err461];
+}
+else {
+vErrors.push(err461);
+}
+errors++;
+}
+}
+if(data206.file !== undefined){
+if(typeof data206.file !== "string"){
+const err462 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err462];
+}
+else {
+vErrors.push(err462);
+}
+errors++;
+}
+}
+if(data206.sha256 !== undefined){
+let data208 = data206.sha256;
+if(typeof data208 === "string"){
+if(!pattern0.test(data208)){
+const err463 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err463];
+}
+else {
+vErrors.push(err463);
+}
+errors++;
+}
+}
+else {
+const err464 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err464];
+}
+else {
+vErrors.push(err464);
+}
+errors++;
+}
+}
+if(data206.role !== undefined){
+if(typeof data206.role !== "string"){
+const err465 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err465];
+}
+else {
+vErrors.push(err465);
+}
+errors++;
+}
+}
+}
+else {
+const err466 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err466];
+}
+else {
+vErrors.push(err466);
+}
+errors++;
+}
+}
+}
+else {
+const err467 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err467];
+}
+else {
+vErrors.push(err467);
+}
+errors++;
+}
+}
+if(data202.model !== undefined){
+let data210 = data202.model;
+if(!(data210 && typeof data210 == "object" && !Array.isArray(data210))){
+const err468 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err468];
+}
+else {
+vErrors.push(err468);
+}
+errors++;
+}
+}
+if(data202.rule !== undefined){
+let data211 = data202.rule;
+if(data211 && typeof data211 == "object" && !Array.isArray(data211)){
+if(data211.name === undefined){
+const err469 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(vErrors === null){
+vErrors = [err469];
+}
+else {
+vErrors.push(err469);
+}
+errors++;
+}
+if(data211.parameters === undefined){
+const err470 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err470];
+}
+else {
+vErrors.push(err470);
+}
+errors++;
+}
+if(data211.tuneFor === undefined){
+const err471 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
+if(vErrors === null){
+vErrors = [err471];
+}
+else {
+vErrors.push(err471);
+}
+errors++;
+}
+for(const key44 in data211){
+if(!((((((key44 === "name") || (key44 === "parameters")) || (key44 === "citation")) || (key44 === "parametersAtBreakpoints")) || (key44 === "tuneFor")) || (key44 === "searchAtBreakpoints"))){
+const err472 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key44},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err472];
+}
+else {
+vErrors.push(err472);
+}
+errors++;
+}
+}
+if(data211.name !== undefined){
+if(typeof data211.name !== "string"){
+const err473 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err473];
+}
+else {
+vErrors.push(err473);
+}
+errors++;
+}
+}
+if(data211.parameters !== undefined){
+let data213 = data211.parameters;
+if(!(data213 && typeof data213 == "object" && !Array.isArray(data213))){
+const err474 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err474];
+}
+else {
+vErrors.push(err474);
+}
+errors++;
+}
+}
+if(data211.citation !== undefined){
+if(typeof data211.citation !== "string"){
+const err475 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err475];
+}
+else {
+vErrors.push(err475);
+}
+errors++;
+}
+}
+if(data211.parametersAtBreakpoints !== undefined){
+let data215 = data211.parametersAtBreakpoints;
+if(Array.isArray(data215)){
+const len13 = data215.length;
+for(let i13=0; i13<len13; i13++){
+let data216 = data215[i13];
+if(data216 && typeof data216 == "object" && !Array.isArray(data216)){
+if(data216.speed_mps === undefined){
+const err476 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err476];
+}
+else {
+vErrors.push(err476);
+}
+errors++;
+}
+if(data216.parameters === undefined){
+const err477 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err477];
+}
+else {
+vErrors.push(err477);
+}
+errors++;
+}
+for(const key45 in data216){
+if(!((key45 === "speed_mps") || (key45 === "parameters"))){
+const err478 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key45},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err478];
+}
+else {
+vErrors.push(err478);
+}
+errors++;
+}
+}
+if(data216.speed_mps !== undefined){
+let data217 = data216.speed_mps;
+if(!((typeof data217 == "number") && (isFinite(data217)))){
+const err479 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err479];
+}
+else {
+vErrors.push(err479);
+}
+errors++;
+}
+}
+if(data216.parameters !== undefined){
+let data218 = data216.parameters;
+if(data218 && typeof data218 == "object" && !Array.isArray(data218)){
+for(const key46 in data218){
+let data219 = data218[key46];
+if((!((typeof data219 == "number") && (isFinite(data219)))) && (typeof data219 !== "string")){
+const err480 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/parameters/" + key46.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(vErrors === null){
+vErrors = [err480];
+}
+else {
+vErrors.push(err480);
+}
+errors++;
+}
+}
+}
+else {
+const err481 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err481];
+}
+else {
+vErrors.push(err481);
+}
+errors++;
+}
+}
+}
+else {
+const err482 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err482];
+}
+else {
+vErrors.push(err482);
+}
+errors++;
+}
+}
+}
+else {
+const err483 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err483];
+}
+else {
+vErrors.push(err483);
+}
+errors++;
+}
+}
+if(data211.tuneFor !== undefined){
+let data220 = data211.tuneFor;
+if(!((data220 === "rule-parameters") || (data220 === "fastest-passing"))){
+const err484 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err484];
+}
+else {
+vErrors.push(err484);
+}
+errors++;
+}
+}
+if(data211.searchAtBreakpoints !== undefined){
+let data221 = data211.searchAtBreakpoints;
+if(Array.isArray(data221)){
+const len14 = data221.length;
+for(let i14=0; i14<len14; i14++){
+let data222 = data221[i14];
+if(data222 && typeof data222 == "object" && !Array.isArray(data222)){
+if(data222.speed_mps === undefined){
+const err485 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err485];
+}
+else {
+vErrors.push(err485);
+}
+errors++;
+}
+if(data222.parameter === undefined){
+const err486 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(vErrors === null){
+vErrors = [err486];
+}
+else {
+vErrors.push(err486);
+}
+errors++;
+}
+if(data222.value === undefined){
+const err487 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err487];
+}
+else {
+vErrors.push(err487);
+}
+errors++;
+}
+if(data222.outcome === undefined){
+const err488 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+if(vErrors === null){
+vErrors = [err488];
+}
+else {
+vErrors.push(err488);
+}
+errors++;
+}
+if(data222.candidates === undefined){
+const err489 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+if(vErrors === null){
+vErrors = [err489];
+}
+else {
+vErrors.push(err489);
+}
+errors++;
+}
+if(data222.reason === undefined){
+const err490 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(vErrors === null){
+vErrors = [err490];
+}
+else {
+vErrors.push(err490);
+}
+errors++;
+}
+for(const key47 in data222){
+if(!((((((key47 === "speed_mps") || (key47 === "parameter")) || (key47 === "value")) || (key47 === "outcome")) || (key47 === "candidates")) || (key47 === "reason"))){
+const err491 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key47},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err491];
+}
+else {
+vErrors.push(err491);
+}
+errors++;
+}
+}
+if(data222.speed_mps !== undefined){
+let data223 = data222.speed_mps;
+if(!((typeof data223 == "number") && (isFinite(data223)))){
+const err492 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err492];
+}
+else {
+vErrors.push(err492);
+}
+errors++;
+}
+}
+if(data222.parameter !== undefined){
+if(typeof data222.parameter !== "string"){
+const err493 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err493];
+}
+else {
+vErrors.push(err493);
+}
+errors++;
+}
+}
+if(data222.value !== undefined){
+let data225 = data222.value;
+if(!((typeof data225 == "number") && (isFinite(data225)))){
+const err494 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err494];
+}
+else {
+vErrors.push(err494);
+}
+errors++;
+}
+}
+if(data222.outcome !== undefined){
+let data226 = data222.outcome;
+if(!((data226 === "fastest passing") || (data226 === "none passed"))){
+const err495 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err495];
+}
+else {
+vErrors.push(err495);
+}
+errors++;
+}
+}
+if(data222.candidates !== undefined){
+let data227 = data222.candidates;
+if(!(((typeof data227 == "number") && (!(data227 % 1) && !isNaN(data227))) && (isFinite(data227)))){
+const err496 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err496];
+}
+else {
+vErrors.push(err496);
+}
+errors++;
+}
+if((typeof data227 == "number") && (isFinite(data227))){
+if(data227 < 1 || isNaN(data227)){
+const err497 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err497];
+}
+else {
+vErrors.push(err497);
+}
+errors++;
+}
+}
+}
+if(data222.reason !== undefined){
+if(typeof data222.reason !== "string"){
+const err498 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err498];
+}
+else {
+vErrors.push(err498);
+}
+errors++;
+}
+}
+}
+else {
+const err499 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err499];
+}
+else {
+vErrors.push(err499);
+}
+errors++;
+}
+}
+}
+else {
+const err500 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err500];
+}
+else {
+vErrors.push(err500);
+}
+errors++;
+}
+}
+}
+else {
+const err501 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err501];
+}
+else {
+vErrors.push(err501);
+}
+errors++;
+}
+}
+if(data202.plan !== undefined){
+let data229 = data202.plan;
+if(!(data229 && typeof data229 == "object" && !Array.isArray(data229))){
+const err502 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err502];
+}
+else {
+vErrors.push(err502);
+}
+errors++;
+}
+}
+if(data202.handEdits !== undefined){
+let data230 = data202.handEdits;
+if(Array.isArray(data230)){
+const len15 = data230.length;
+for(let i15=0; i15<len15; i15++){
+let data231 = data230[i15];
+if(data231 && typeof data231 == "object" && !Array.isArray(data231)){
+if(data231.statement === undefined){
+const err503 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(vErrors === null){
+vErrors = [err503];
+}
+else {
+vErrors.push(err503);
+}
+errors++;
+}
+if(data231.changedSections === undefined){
+const err504 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(vErrors === null){
+vErrors = [err504];
+}
+else {
+vErrors.push(err504);
+}
+errors++;
+}
+if(data231.toolVersion === undefined){
+const err505 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err505];
+}
+else {
+vErrors.push(err505);
+}
+errors++;
+}
+if(data231.model === undefined){
+const err506 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err506];
+}
+else {
+vErrors.push(err506);
+}
+errors++;
+}
+if(data231.gridSize === undefined){
+const err507 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(vErrors === null){
+vErrors = [err507];
+}
+else {
+vErrors.push(err507);
+}
+errors++;
+}
+for(const key48 in data231){
+if(!(((((key48 === "statement") || (key48 === "changedSections")) || (key48 === "toolVersion")) || (key48 === "model")) || (key48 === "gridSize"))){
+const err508 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key48},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err508];
+}
+else {
+vErrors.push(err508);
+}
+errors++;
+}
+}
+if(data231.statement !== undefined){
+if(typeof data231.statement !== "string"){
+const err509 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err509];
+}
+else {
+vErrors.push(err509);
+}
+errors++;
+}
+}
+if(data231.changedSections !== undefined){
+let data233 = data231.changedSections;
+if(Array.isArray(data233)){
+const len16 = data233.length;
+for(let i16=0; i16<len16; i16++){
+if(typeof data233[i16] !== "string"){
+const err510 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/changedSections/" + i16,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err510];
+}
+else {
+vErrors.push(err510);
+}
+errors++;
+}
+}
+}
+else {
+const err511 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err511];
+}
+else {
+vErrors.push(err511);
+}
+errors++;
+}
+}
+if(data231.toolVersion !== undefined){
+if(typeof data231.toolVersion !== "string"){
+const err512 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err512];
+}
+else {
+vErrors.push(err512);
+}
+errors++;
+}
+}
+if(data231.model !== undefined){
+if(typeof data231.model !== "string"){
+const err513 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err513];
+}
+else {
+vErrors.push(err513);
+}
+errors++;
+}
+}
+if(data231.gridSize !== undefined){
+let data237 = data231.gridSize;
+if(!(((typeof data237 == "number") && (!(data237 % 1) && !isNaN(data237))) && (isFinite(data237)))){
+const err514 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err514];
+}
+else {
+vErrors.push(err514);
+}
+errors++;
+}
+if((typeof data237 == "number") && (isFinite(data237))){
+if(data237 < 1 || isNaN(data237)){
+const err515 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err515];
+}
+else {
+vErrors.push(err515);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err516 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err516];
+}
+else {
+vErrors.push(err516);
+}
+errors++;
+}
+}
+}
+else {
+const err517 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err517];
+}
+else {
+vErrors.push(err517);
+}
+errors++;
+}
+}
+}
+else {
+const err518 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err518];
+}
+else {
+vErrors.push(err518);
+}
+errors++;
+}
+}
+if(data.cautions !== undefined){
+let data238 = data.cautions;
+if(Array.isArray(data238)){
+if(data238.length < 1){
+const err519 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err519];
+}
+else {
+vErrors.push(err519);
+}
+errors++;
+}
+const len17 = data238.length;
+for(let i17=0; i17<len17; i17++){
+if(typeof data238[i17] !== "string"){
+const err520 = {instancePath:instancePath+"/cautions/" + i17,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err520];
+}
+else {
+vErrors.push(err520);
+}
+errors++;
+}
+}
+}
+else {
+const err521 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err521];
+}
+else {
+vErrors.push(err521);
+}
+errors++;
+}
+}
+if(data.checksum !== undefined){
+let data240 = data.checksum;
+if(data240 && typeof data240 == "object" && !Array.isArray(data240)){
+if(data240.algorithm === undefined){
+const err522 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(vErrors === null){
+vErrors = [err522];
+}
+else {
+vErrors.push(err522);
+}
+errors++;
+}
+if(data240.canonicalForm === undefined){
+const err523 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(vErrors === null){
+vErrors = [err523];
+}
+else {
+vErrors.push(err523);
+}
+errors++;
+}
+if(data240.value === undefined){
+const err524 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err524];
+}
+else {
+vErrors.push(err524);
+}
+errors++;
+}
+if(data240.sections === undefined){
+const err525 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+if(vErrors === null){
+vErrors = [err525];
+}
+else {
+vErrors.push(err525);
+}
+errors++;
+}
+for(const key49 in data240){
+if(!((((key49 === "algorithm") || (key49 === "canonicalForm")) || (key49 === "value")) || (key49 === "sections"))){
+const err526 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key49},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err526];
+}
+else {
+vErrors.push(err526);
+}
+errors++;
+}
+}
+if(data240.algorithm !== undefined){
+if("SHA-256" !== data240.algorithm){
+const err527 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err527];
+}
+else {
+vErrors.push(err527);
+}
+errors++;
+}
+}
+if(data240.canonicalForm !== undefined){
+if(typeof data240.canonicalForm !== "string"){
+const err528 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err528];
+}
+else {
+vErrors.push(err528);
+}
+errors++;
+}
+}
+if(data240.value !== undefined){
+let data243 = data240.value;
+if(typeof data243 === "string"){
+if(!pattern0.test(data243)){
+const err529 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err529];
+}
+else {
+vErrors.push(err529);
+}
+errors++;
+}
+}
+else {
+const err530 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err530];
+}
+else {
+vErrors.push(err530);
+}
+errors++;
+}
+}
+if(data240.sections !== undefined){
+let data244 = data240.sections;
+if(data244 && typeof data244 == "object" && !Array.isArray(data244)){
+for(const key50 in data244){
+const _errs503 = errors;
+if(typeof key50 === "string"){
+if(!pattern5.test(key50)){
+const err531 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key50};
+if(vErrors === null){
+vErrors = [err531];
+}
+else {
+vErrors.push(err531);
+}
+errors++;
+}
+}
+var valid86 = _errs503 === errors;
+if(!valid86){
+const err532 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key50},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err532];
+}
+else {
+vErrors.push(err532);
+}
+errors++;
+}
+}
+for(const key51 in data244){
+let data245 = data244[key51];
+if(typeof data245 === "string"){
+if(!pattern0.test(data245)){
+const err533 = {instancePath:instancePath+"/checksum/sections/" + key51.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err533];
+}
+else {
+vErrors.push(err533);
+}
+errors++;
+}
+}
+else {
+const err534 = {instancePath:instancePath+"/checksum/sections/" + key51.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err534];
+}
+else {
+vErrors.push(err534);
+}
+errors++;
+}
+}
+}
+else {
+const err535 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err535];
+}
+else {
+vErrors.push(err535);
+}
+errors++;
+}
+}
+}
+else {
+const err536 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err536];
+}
+else {
+vErrors.push(err536);
+}
+errors++;
+}
+}
+}
+else {
+const err537 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err537];
+}
+else {
+vErrors.push(err537);
 }
 errors++;
 }

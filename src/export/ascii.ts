@@ -28,6 +28,12 @@ const REPLACEMENTS: Readonly<Record<string, string>> = {
   '”': '"',
   '…': '...',
   '√': 'sqrt',
+  'Δ': 'd',
+  'Å': 'A',
+  'å': 'a',
+  'ä': 'a',
+  'ö': 'o',
+  'κ': 'kappa',
 };
 
 export function toAscii(text: string): string {

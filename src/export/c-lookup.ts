@@ -12,8 +12,8 @@ export interface LookupTextInput {
   readonly prefix: string;
   readonly upper: string;
   readonly cubic: boolean;
-  /** Expression of a stored gain value in C, e.g. `prefix_kp[k]` or a Q-format conversion. */
-  readonly gainValue: (name: 'kp' | 'ki' | 'kd', index: string) => string;
+  /** Expression of a stored value in C, e.g. `prefix_kp[k]` or a Q-format conversion. */
+  readonly gainValue: (name: LookupField, index: string) => string;
   /** Index of the fallback breakpoint, or null for none. */
   readonly fallbackBreakpoint: number | null;
 }
@@ -25,7 +25,10 @@ export const LOOKUP_STATUS = {
   NO_GAINS: { value: 2, meaning: 'the speed is NaN or infinite and no fallback gains are proven, or gains is a null pointer: *gains are not written' },
 } as const;
 
-const NAMES = ['kp', 'ki', 'kd'] as const;
+/** The fields of the gains struct, in order: the PID gains, the set-point weights, the feed-forward gain and its lead time. */
+export const LOOKUP_FIELDS = ['kp', 'ki', 'kd', 'setpoint_weight_p', 'setpoint_weight_d', 'feed_forward', 'feed_forward_lead_time_s'] as const;
+export type LookupField = (typeof LOOKUP_FIELDS)[number];
+const NAMES = LOOKUP_FIELDS;
 
 /** The segment (interpolation on one interval) and lookup functions, as C99 text. */
 export function lookupFunctionsText(input: LookupTextInput): string {

@@ -11,19 +11,26 @@ import { findLoop } from './registry.js';
 import type { LoopContext, LoopPlant, LoopSpecification } from './types.js';
 
 /**
- * Preview distance from the CG, m: preview_m from the CG ('cg', the default) or from the front
- * axle ('front-axle': preview_m + a, with a = CG to front axle). 0 for yaw-rate and heading loops.
- * Throws `loops.invalidPreview` for a negative or non-finite preview or a front-axle reference
- * without the axle distance.
+ * Preview distance from the CG at a speed, m: preview_m + previewTime_s·speed_mps from the CG ('cg', the
+ * default) or from the front axle ('front-axle': plus a, the CG to front axle). 0 for yaw-rate and heading
+ * loops. Throws `loops.invalidPreview` for a negative or non-finite preview distance or time, or a
+ * front-axle reference without the axle distance.
  */
-export function previewFromCg_m(specification: LoopSpecification, cgToFrontAxle_m: number | undefined): number {
+export function previewFromCg_m(specification: LoopSpecification, cgToFrontAxle_m: number | undefined, speed_mps: number): number {
   if (specification.kind !== 'path') return 0;
-  const preview = specification.preview_m ?? 0;
-  if (!(Number.isFinite(preview) && preview >= 0)) {
-    throw new SpeedbandError('loops.invalidPreview', `preview distance is ${preview} m; expected a finite distance ≥ 0 m ahead of the reference point`, {
-      details: { preview_m: preview },
+  const distance = specification.preview_m ?? 0;
+  const time = specification.previewTime_s ?? 0;
+  if (!(Number.isFinite(distance) && distance >= 0)) {
+    throw new SpeedbandError('loops.invalidPreview', `preview distance is ${distance} m; expected a finite distance ≥ 0 m ahead of the reference point`, {
+      details: { preview_m: distance },
     });
   }
+  if (!(Number.isFinite(time) && time >= 0)) {
+    throw new SpeedbandError('loops.invalidPreview', `preview time is ${time} s; expected a finite time ≥ 0 s (the preview grows by speed × this time)`, {
+      details: { previewTime_s: time },
+    });
+  }
+  const preview = distance + time * speed_mps;
   if ((specification.referencePoint ?? 'cg') === 'cg') return preview;
   if (cgToFrontAxle_m === undefined || !(cgToFrontAxle_m > 0)) {
     throw new SpeedbandError(
@@ -46,6 +53,7 @@ function record(specification: LoopSpecification, context: LoopContext, plant: T
   return {
     kind: 'path',
     preview_m: specification.preview_m ?? 0,
+    ...(specification.previewTime_s === undefined || specification.previewTime_s === 0 ? {} : { previewTime_s: specification.previewTime_s }),
     referencePoint: specification.referencePoint ?? 'cg',
     previewFromCg_m: context.previewFromCg_m,
     speed_mps: context.speed_mps,
@@ -67,7 +75,7 @@ export function loopPlantFromLumped(
 ): LoopPlant {
   requireSpeed(speed_mps);
   const loop = findLoop(specification.kind);
-  const context: LoopContext = { speed_mps, previewFromCg_m: previewFromCg_m(specification, cgToFrontAxle_m) };
+  const context: LoopContext = { speed_mps, previewFromCg_m: previewFromCg_m(specification, cgToFrontAxle_m, speed_mps) };
   const yawRate = lumpedYawRateTransferFunction(model);
   const plant = loop.fromYawRate({ ...yawRate, delay_s: yawRate.delay_s + samplingDelay_s(controller) }, context);
   return record(specification, context, plant);
@@ -85,7 +93,7 @@ export function loopPlantFromSingleTrack(
 ): LoopPlant {
   requireSpeed(speed_mps);
   const loop = findLoop(specification.kind);
-  const context: LoopContext = { speed_mps, previewFromCg_m: previewFromCg_m(specification, parameters.cgToFrontAxle_m) };
+  const context: LoopContext = { speed_mps, previewFromCg_m: previewFromCg_m(specification, parameters.cgToFrontAxle_m, speed_mps) };
   const vehicle = loop.fromSingleTrack(singleTrackTransferFunctions(parameters, speed_mps), context);
   const actuator = actuatorTransferFunction(parameters);
   const plant = seriesConnection(actuator, { ...vehicle, delay_s: vehicle.delay_s + samplingDelay_s(controller) });

@@ -11,7 +11,12 @@ export interface LoopSpecification {
   readonly kind: LoopKind;
   /** Path loop only: preview distance ahead of the reference point, m (≥ 0). */
   readonly preview_m?: number;
-  /** Path loop only: 'cg' (default) or 'front-axle' (distance from the CG = preview_m + a). */
+  /**
+   * Path loop only: preview time, s (≥ 0, default 0): the preview grows with speed, d = preview_m + previewTime_s·vx
+   * ahead of the reference point (a look-ahead that keeps the same time headway at every speed).
+   */
+  readonly previewTime_s?: number;
+  /** Path loop only: 'cg' (default) or 'front-axle' (distance from the CG = preview + a). */
   readonly referencePoint?: ReferencePoint;
 }
 
@@ -25,6 +30,8 @@ export interface LoopPlant {
   readonly kind: LoopKind;
   /** Path loop: preview distance as given, from `referencePoint`, m. */
   readonly preview_m?: number;
+  /** Path loop: preview time as given, s (the preview at this speed is preview_m + previewTime_s·speed_mps). */
+  readonly previewTime_s?: number;
   readonly referencePoint?: ReferencePoint;
   /** Path loop: the preview distance measured from the CG, m (the d in e = ey + d·eψ). */
   readonly previewFromCg_m?: number;

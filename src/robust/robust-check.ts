@@ -27,6 +27,7 @@ export function judgeRobust(point: RobustMargins, thresholds: AcceptanceThreshol
     phaseMargin_deg: value('phaseMargin_deg'),
     delayMargin_s: value('delayMargin_s'),
     sensitivityPeak: value('sensitivityPeak') ?? point.nominal.sensitivityPeak ?? Infinity,
+    complementarySensitivityPeak: value('complementarySensitivityPeak') ?? point.nominal.complementarySensitivityPeak ?? Infinity,
   } as unknown as LoopMargins;
   const figureOf: Partial<Record<CheckFailure['criterion'], RobustFigure>> = {
     lowerGainMargin: 'lowerGainMargin_dB',
@@ -34,6 +35,7 @@ export function judgeRobust(point: RobustMargins, thresholds: AcceptanceThreshol
     phaseMargin: 'phaseMargin_deg',
     delayMargin: 'delayMargin_s',
     sensitivityPeak: 'sensitivityPeak',
+    complementarySensitivityPeak: 'complementarySensitivityPeak',
   };
   return judgeMargins(margins, thresholds).map((failure) => {
     const figure = figureOf[failure.criterion];

@@ -12,7 +12,7 @@ import type { Combination, RobustFigure, RobustMargins, VariationSet, VariedPara
 
 export type { WeakestParameter } from './types.js';
 
-/** How far a worst figure lies inside its limit, relative to the limit (negative: past it); null for a figure without a limit. */
+/** How far a worst figure lies inside its limit, relative to the limit (negative: past it); null for a figure without a limit (none today). */
 export function slackToLimit(figure: RobustFigure, value: number, thresholds: AcceptanceThresholds): number | null {
   switch (figure) {
     case 'phaseMargin_deg':
@@ -26,7 +26,7 @@ export function slackToLimit(figure: RobustFigure, value: number, thresholds: Ac
     case 'sensitivityPeak':
       return (thresholds.maximumSensitivityPeak - value) / Math.max(thresholds.maximumSensitivityPeak - 1, 0.1);
     case 'complementarySensitivityPeak':
-      return null;
+      return (thresholds.maximumComplementarySensitivityPeak - value) / Math.max(thresholds.maximumComplementarySensitivityPeak - 1, 0.1);
   }
 }
 

@@ -6,26 +6,27 @@
  */
 import { VERSION } from '../version.js';
 import type { LoopKind, PartialPlan } from './plan.js';
-import { PLAN_DEFAULTS } from './plan.js';
+import { DEFAULT_PATH_PREVIEW, DEFAULT_RULES, PLAN_DEFAULTS } from './plan.js';
 
 /** The default plan for a loop kind, as a plan file (JSON-able, every constant default written). */
 export function defaultPlanFile(kind: LoopKind = PLAN_DEFAULTS.loop.kind): PartialPlan {
   const { controller, breakpoints } = PLAN_DEFAULTS;
+  const rule = DEFAULT_RULES[kind];
   const pathNote =
     kind === 'path'
-      ? ' On a path loop SIMC at τc = θ leaves little phase margin (about 22° with N = 10): damping-target with a settlingDistance_m is the usual start.'
+      ? ' On a path loop MIGO (the largest integral gain with Ms and Mt within a bound, on the full loop) with the bound searched is the default: SIMC at τc = θ leaves the path loop unstable.'
       : '';
   return {
     description:
       `The default plan of speedband ${VERSION} for a ${kind} loop. Left out because the data decide them: speeds (minimum_mps and maximum_mps the lowest and highest test speed, ` +
       `lowSpeedFloor_mps the lowest), controller.sampleTime_s (the vehicle file's controllerSampleTime_s, else ${controller.sampleTime_s} s) and ` +
       `controller.computationLatency_s (one sample). Every field, its unit, default and source: docs/plan.md.${pathNote}`,
-    loop: { ...PLAN_DEFAULTS.loop, kind },
-    rule: { name: PLAN_DEFAULTS.rule.name, parameters: {} },
+    loop: { ...PLAN_DEFAULTS.loop, ...(kind === 'path' ? DEFAULT_PATH_PREVIEW : {}), kind },
+    rule: { name: rule.name, tuneFor: rule.tuneFor, parameters: {} },
     speeds: {},
     breakpoints: breakpoints.mode === 'automatic' ? { count: breakpoints.count, spacing: breakpoints.spacing } : { speeds_mps: breakpoints.speeds_mps },
     interpolation: PLAN_DEFAULTS.interpolation,
-    controller: { form: controller.form, derivativeFilter: controller.derivativeFilter, discretisation: controller.discretisation },
+    controller: { form: controller.form, derivativeFilter: controller.derivativeFilter, discretisation: controller.discretisation, antiWindup: controller.antiWindup },
     acceptance: { ...PLAN_DEFAULTS.acceptance },
     check: { ...PLAN_DEFAULTS.check },
   };

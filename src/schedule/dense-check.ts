@@ -18,12 +18,13 @@ import type {
   WorstValue,
 } from './types.js';
 
-/** Common-practice acceptance limits (docs/domain.md §5): GM ≥ 6 dB both ways, PM ≥ 45°, Ms ≤ 2; delay margin set by the plan. */
+/** Common-practice acceptance limits (docs/domain.md §5): GM ≥ 6 dB both ways, PM ≥ 45°, Ms ≤ 2, Mt ≤ 2 (see PLAN_DEFAULTS); delay margin set by the plan. */
 export const THRESHOLD_DEFAULTS: AcceptanceThresholds = {
   maximumLowerGainMargin_dB: -6,
   minimumUpperGainMargin_dB: 6,
   minimumPhaseMargin_deg: 45,
   maximumSensitivityPeak: 2,
+  maximumComplementarySensitivityPeak: 2,
   minimumDelayMargin_s: 0,
 };
 
@@ -93,6 +94,15 @@ export function judgeMargins(margins: LoopMargins, thresholds: AcceptanceThresho
       message: `peak sensitivity ${format(peak)}, needs ≤ ${format(thresholds.maximumSensitivityPeak)}`,
     });
   }
+  const complementary = margins.complementarySensitivityPeak;
+  if (!(complementary <= thresholds.maximumComplementarySensitivityPeak)) {
+    failures.push({
+      criterion: 'complementarySensitivityPeak',
+      value: Number.isFinite(complementary) ? complementary : null,
+      limit: thresholds.maximumComplementarySensitivityPeak,
+      message: `peak complementary sensitivity ${format(complementary)}, needs ≤ ${format(thresholds.maximumComplementarySensitivityPeak)}`,
+    });
+  }
   return failures;
 }
 
@@ -104,7 +114,6 @@ function track(current: WorstValue | null, value: number | null, speed_mps: numb
   return current;
 }
 
-/** Worst figures over checked points: largest lower gain margin, smallest upper gain margin, phase and delay margins, largest Ms. First speed wins ties. */
 /** One failing speed, as every JSON output of speedband writes it (and the schedule file's check.failures). */
 export interface FailingSpeed {
   readonly speed_mps: number;
@@ -119,12 +128,14 @@ export function failingSpeeds(points: readonly { readonly speed_mps: number; rea
     .map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((failure) => failure.message) }));
 }
 
+/** Worst figures over checked points: largest lower gain margin, smallest upper gain margin, phase and delay margins, largest Ms and Mt. First speed wins ties. */
 export function worstMargins(points: readonly { readonly speed_mps: number; readonly margins: LoopMargins }[]): WorstMargins {
   let lower: WorstValue | null = null;
   let upper: WorstValue | null = null;
   let phase: WorstValue | null = null;
   let delay: WorstValue | null = null;
   let peak: WorstValue | null = null;
+  let complementary: WorstValue | null = null;
   const larger: Worse = (a, b) => a > b;
   const smaller: Worse = (a, b) => a < b;
   for (const { speed_mps, margins } of points) {
@@ -133,8 +144,9 @@ export function worstMargins(points: readonly { readonly speed_mps: number; read
     phase = track(phase, margins.phaseMargin_deg, speed_mps, smaller);
     delay = track(delay, margins.delayMargin_s, speed_mps, smaller);
     peak = track(peak, margins.sensitivityPeak, speed_mps, larger);
+    complementary = track(complementary, margins.complementarySensitivityPeak, speed_mps, larger);
   }
-  return { lowerGainMargin_dB: lower, upperGainMargin_dB: upper, phaseMargin_deg: phase, delayMargin_s: delay, sensitivityPeak: peak };
+  return { lowerGainMargin_dB: lower, upperGainMargin_dB: upper, phaseMargin_deg: phase, delayMargin_s: delay, sensitivityPeak: peak, complementarySensitivityPeak: complementary };
 }
 
 export interface DenseCheckInput {

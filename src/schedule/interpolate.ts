@@ -124,3 +124,35 @@ export function makeGainLookup(table: GainTable, settings: Partial<LookupSetting
     };
   };
 }
+
+/**
+ * Any columns of a table interpolated exactly as the gains are (same method, clamp, floor, kept between
+ * neighbours): `(speed_mps) → { name: value }`. The schedule's set-point weights and feed-forward use it;
+ * the C export computes the same (Fritsch–Carlson slopes per column for 'monotone-cubic').
+ */
+export function makeColumnsLookup<Name extends string>(
+  speeds_mps: readonly number[],
+  columns: Readonly<Record<Name, readonly number[]>>,
+  settings: Partial<LookupSettings> = {},
+): (speed_mps: number) => Record<Name, number> {
+  const names = Object.keys(columns) as Name[];
+  // Three columns at a time through the gain lookup: the same arithmetic, one implementation.
+  const lookups = [] as { readonly names: Name[]; readonly lookup: GainsAtSpeed }[];
+  for (let i = 0; i < names.length; i += 3) {
+    const group = names.slice(i, i + 3);
+    const column = (j: number): readonly number[] => (group[j] === undefined ? speeds_mps.map(() => 0) : columns[group[j]]);
+    const table: GainTable = { speeds_mps, gains: speeds_mps.map((_, k) => ({ kp: column(0)[k], ki: column(1)[k], kd: column(2)[k] })) };
+    lookups.push({ names: group, lookup: makeGainLookup(table, settings) });
+  }
+  return (speed_mps) => {
+    const result = {} as Record<Name, number>;
+    for (const { names: group, lookup } of lookups) {
+      const values = lookup(speed_mps);
+      const ordered = [values.kp, values.ki, values.kd];
+      group.forEach((name, j) => {
+        result[name] = ordered[j];
+      });
+    }
+    return result;
+  };
+}

@@ -48,8 +48,15 @@ export const PLAN_SCHEMA = {
             { enum: ['yaw-rate', 'heading', 'path'] },
             'The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators).',
           ),
-          preview_m: described(nonNegative, 'Path loop: preview distance ahead of the reference point; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable).'),
-          referencePoint: described({ enum: ['cg', 'front-axle'] }, 'Path loop: where the preview distance is measured from; front-axle adds the CG-to-front-axle distance.'),
+          preview_m: described(
+            nonNegative,
+            'Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0.',
+          ),
+          previewTime_s: described(
+            nonNegative,
+            'Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0.',
+          ),
+          referencePoint: described({ enum: ['cg', 'front-axle'] }, 'Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance.'),
         },
       },
       'The loop the firmware closes.',
@@ -60,8 +67,12 @@ export const PLAN_SCHEMA = {
         additionalProperties: false,
         properties: {
           name: described(
-            { enum: ['ziegler-nichols-step', 'ziegler-nichols-ultimate', 'imc-pid', 'simc', 'damping-target'] },
-            'The published tuning rule applied at each breakpoint (the table of rules below names each source).',
+            { enum: ['ziegler-nichols-step', 'ziegler-nichols-ultimate', 'imc-pid', 'simc', 'damping-target', 'amigo', 'migo'] },
+            'The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched.',
+          ),
+          tuneFor: described(
+            { enum: ['rule-parameters', 'fastest-passing'] },
+            "How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target).",
           ),
           parameters: described(
             {
@@ -75,6 +86,8 @@ export const PLAN_SCHEMA = {
                 naturalFrequency_radps: speedVarying(positive, 'Damping-target ωn of the pole pair (wins over settlingDistance_m).'),
                 settlingDistance_m: speedVarying(positive, 'Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).'),
                 integralPoleRatio: speedVarying(positive, 'Damping-target ratio ωn/p of the natural frequency to the integral pole p.'),
+                sensitivityPeakTarget: speedVarying(positive, 'MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).'),
+                phaseMarginTarget_deg: speedVarying(positive, 'MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).'),
               },
             },
             'The rule\'s parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps.',
@@ -130,6 +143,10 @@ export const PLAN_SCHEMA = {
           sampleTime_s: described(positive, 'Sample time Ts of the firmware\'s controller; from 0.0001 s (10 kHz) to 1 s.'),
           discretisation: described({ enum: ['tustin', 'backward-euler'] }, 'How the firmware discretises the integral and the derivative filter (backward Euler\'s filter pole stays in [0, 1): no ringing).'),
           computationLatency_s: described(nonNegative, 'Time from taking a sample to the steer command it produces; from 0 s to 1 s.'),
+          antiWindup: described(
+            { enum: ['conditional-integration', 'back-calculation'] },
+            'Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0).',
+          ),
         },
       },
       'The controller the firmware runs (the same defaults as speedband tune and speedband stability).',
@@ -143,7 +160,12 @@ export const PLAN_SCHEMA = {
           minimumUpperGainMargin_dB: described(nonNegative, 'Upper gain margin (the gain increase that destabilises) must be at least this.'),
           minimumPhaseMargin_deg: described({ type: 'number', minimum: 0, maximum: 180 }, 'Phase margin must be at least this.'),
           maximumSensitivityPeak: described({ type: 'number', minimum: 1 }, 'Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund).'),
+          maximumComplementarySensitivityPeak: described({ type: 'number', minimum: 1 }, 'Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2).'),
           delayMarginRoom_s: described(nonNegative, 'Required delay margin = computation latency + Ts/2 (the hold) + this room.'),
+          maximumOvershoot_pct: described(nonNegative, 'Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice).'),
+          maximumRecoveryTime_s: described(positive, 'A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).'),
+          maximumLaneChangeError_m: described(positive, 'Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).'),
+          maximumCurveEntryError_m: described(positive, 'Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).'),
         },
       },
       'Limits every speed of the dense check must meet.',

@@ -3,7 +3,9 @@
  * schedule is built with. Every field has a documented default (PLAN_DEFAULTS), so `{}` is a plan.
  */
 import { CONTROLLER_DEFAULTS, resolveControllerSettings } from '../controller/defaults.js';
+import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
+import type { TimeDomainLimits } from '../performance/types.js';
 import { SpeedbandError } from '../core/errors.js';
 import { readTextFile } from '../core/files.js';
 import { validatePlanFile } from '../core/precompiled-validators.js';
@@ -37,7 +39,16 @@ export interface PlanRuleParameters {
   readonly naturalFrequency_radps?: SpeedVarying;
   readonly settlingDistance_m?: SpeedVarying;
   readonly integralPoleRatio?: SpeedVarying;
+  readonly sensitivityPeakTarget?: SpeedVarying;
+  readonly phaseMarginTarget_deg?: SpeedVarying;
 }
+
+/**
+ * How each breakpoint's rule parameter is chosen: 'rule-parameters' — as the plan gives it (or the rule's
+ * default); 'fastest-passing' — a search over the rule's free parameter for the fastest response that
+ * meets every acceptance limit at that breakpoint on the full loop (src/build/fastest-passing.ts).
+ */
+export type TuneFor = 'rule-parameters' | 'fastest-passing';
 
 export type BreakpointPlan =
   | { readonly mode: 'explicit'; readonly speeds_mps: readonly number[] }
@@ -46,12 +57,14 @@ export type BreakpointPlan =
 export interface Plan {
   readonly loop: {
     readonly kind: LoopKind;
-    /** Path loop: preview distance d ahead of the reference point, m. */
+    /** Path loop: preview distance ahead of the reference point at standstill, m. */
     readonly preview_m: number;
+    /** Path loop: preview time, s: the preview is preview_m + previewTime_s·speed ahead of the reference point. */
+    readonly previewTime_s: number;
     /** Path loop: where the preview is measured from (front-axle adds the CG-to-front-axle distance a). */
     readonly referencePoint: ReferencePoint;
   };
-  readonly rule: { readonly name: RuleName; readonly parameters: PlanRuleParameters };
+  readonly rule: { readonly name: RuleName; readonly parameters: PlanRuleParameters; readonly tuneFor: TuneFor };
   readonly speeds: {
     /** The dense check covers minimum_mps … maximum_mps. */
     readonly minimum_mps: number;
@@ -68,12 +81,15 @@ export interface Plan {
     readonly sampleTime_s: number;
     readonly discretisation: Discretisation;
     readonly computationLatency_s: number;
+    /** How the integrator is kept from winding up while the command is at the steering-angle limit. */
+    readonly antiWindup: AntiWindup;
   };
-  readonly acceptance: {
+  readonly acceptance: TimeDomainLimits & {
     readonly maximumLowerGainMargin_dB: number;
     readonly minimumUpperGainMargin_dB: number;
     readonly minimumPhaseMargin_deg: number;
     readonly maximumSensitivityPeak: number;
+    readonly maximumComplementarySensitivityPeak: number;
     /** Required delay margin = latency (computation latency + half a sample for the hold) + this room, s. */
     readonly delayMarginRoom_s: number;
   };
@@ -100,41 +116,74 @@ export type PartialPlan = {
 } & { readonly $schema?: string; readonly description?: string };
 
 /**
- * Defaults, in one place. Sources: acceptance limits common practice (docs/domain.md §5: GM ≥ 6 dB both
- * ways, PM ≥ 45°, Ms ≤ 2); derivative filter N = 10 common practice (docs/domain.md §4); backward Euler
- * because its derivative-filter pole stays in [0, 1) (docs/domain.md §5b); SIMC with τc = θ (Skogestad 2003).
+ * Defaults, in one place. Sources: acceptance limits common practice (docs/domain.md §5: GM ≥ 6 dB both ways,
+ * PM ≥ 45°, Ms ≤ 2; Åström & Hägglund 2006, Advanced PID Control, §4.8, give Ms 1.2–2 as the usual range); Mt ≤ 2
+ * (6 dB), the same bound as Ms — Skogestad & Postlethwaite (2005, Multivariable Feedback Control, §2.4.3)
+ * suggest about 1.25 for a well-damped reference response (from memory); the overshoot limit judges that
+ * directly; overshoot ≤ 25 % (common practice); disturbances removed to 5 % within 15 s, a lane-change
+ * error ≤ 0.5 m (half the clearance of a 2.5 m wide vehicle in a 3.5 m lane) and a curve-entry error
+ * ≤ 0.3 m 3 s after entry (our choices, the product's targets for lateral control); derivative filter
+ * N = 10 common practice; backward Euler because its derivative-filter pole stays in [0, 1); conditional
+ * integration (Åström & Hägglund 2006, §3.5: no parameter to tune). The rule per loop kind: DEFAULT_RULES.
  * Our choices: speed range 1–20 m/s (the test speeds when there are any) with the floor at its bottom, 6 geometric breakpoints (gains change
  * fastest at low speed), 100 Hz firmware (or the vehicle file's sample time) with one sample of computation latency, 20 ms delay-margin
  * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
  */
 export const PLAN_DEFAULTS: Plan = {
-  loop: { kind: 'yaw-rate', preview_m: 0, referencePoint: 'front-axle' },
-  rule: { name: 'simc', parameters: {} },
+  loop: { kind: 'yaw-rate', preview_m: 0, previewTime_s: 0, referencePoint: 'front-axle' },
+  rule: { name: 'simc', parameters: {}, tuneFor: 'rule-parameters' },
   speeds: { minimum_mps: 1, maximum_mps: 20, lowSpeedFloor_mps: 1 },
   breakpoints: { mode: 'automatic', count: 6, spacing: 'geometric' },
   interpolation: 'monotone-cubic',
-  controller: { form: 'parallel', ...CONTROLLER_DEFAULTS },
+  controller: { form: 'parallel', ...CONTROLLER_DEFAULTS, antiWindup: 'conditional-integration' },
   acceptance: {
     maximumLowerGainMargin_dB: -6,
     minimumUpperGainMargin_dB: 6,
     minimumPhaseMargin_deg: 45,
     maximumSensitivityPeak: 2,
+    maximumComplementarySensitivityPeak: 2,
     delayMarginRoom_s: 0.02,
+    maximumOvershoot_pct: 25,
+    maximumRecoveryTime_s: 15,
+    maximumLaneChangeError_m: 0.5,
+    maximumCurveEntryError_m: 0.3,
   },
   check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track' },
 };
+
+/**
+ * The rule, its parameters and how they are chosen when the plan names no rule, per loop kind — each
+ * builds schedules that pass on every demo vehicle (test/build/default-plans.test.ts):
+ *   yaw-rate: SIMC with τc = θ (Skogestad 2003), as given;
+ *   heading:  SIMC, τc searched for the fastest response within the limits;
+ *   path:     MIGO (Åström, Panagopoulos & Hägglund 1998) on the full loop, M searched likewise.
+ */
+export const DEFAULT_RULES: Readonly<Record<LoopKind, Plan['rule']>> = {
+  'yaw-rate': { name: 'simc', parameters: {}, tuneFor: 'rule-parameters' },
+  heading: { name: 'simc', parameters: {}, tuneFor: 'fastest-passing' },
+  path: { name: 'migo', parameters: {}, tuneFor: 'fastest-passing' },
+};
+
+/**
+ * The path loop's preview when the plan gives neither distance nor time: 0.5 m + 0.3 s × speed ahead of the
+ * front axle (our choice: a look-ahead that grows with speed — common practice in path following — sized so
+ * the default path plan passes on every demo vehicle, from a 0.5 m/s robot to a 25 m/s van).
+ */
+export const DEFAULT_PATH_PREVIEW = { preview_m: 0.5, previewTime_s: 0.3 } as const;
+
 
 const validateSchema = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile, planReferenceHint);
 
 /** Schema, then the rule's parameters: one the rule does not take is refused (it would be ignored), naming those it takes. */
 function validatePlan(value: unknown, file: string): PartialPlan {
   const plan = validateSchema(value, file);
-  const rule = findRule(plan.rule?.name ?? PLAN_DEFAULTS.rule.name);
+  const defaultRule = DEFAULT_RULES[plan.loop?.kind ?? PLAN_DEFAULTS.loop.kind].name;
+  const rule = findRule(plan.rule?.name ?? defaultRule);
   const notTaken = parametersNotTaken(rule, Object.keys(plan.rule?.parameters ?? {}));
   if (notTaken.length > 0) {
     throw new SpeedbandError(
       'plan.parameterNotTaken',
-      `${parameterNotTakenWords(rule, notTaken[0])}${plan.rule?.name === undefined ? ' (simc is the default rule: name another with "rule": {"name": …})' : ''} — remove it or change the rule\n${planReferenceHint()}`,
+      `${parameterNotTakenWords(rule, notTaken[0])}${plan.rule?.name === undefined ? ` (${defaultRule} is the default rule of this loop: name another with "rule": {"name": …})` : ''} — remove it or change the rule\n${planReferenceHint()}`,
       { location: { file, jsonPath: `/rule/parameters/${notTaken[0]}` }, details: { rule: rule.name, parameters: notTaken, takes: rule.parameters } },
     );
   }
@@ -234,13 +283,25 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
     breakpoints = { mode: 'automatic', count: written.count ?? 6, spacing: written.spacing ?? 'geometric' };
   }
   // Sample time: the plan's, else the vehicle file's, else the default; latency: the plan's, else one sample (as tune and stability).
-  const controller = { form: 'parallel' as const, ...resolveControllerSettings(partial.controller ?? {}, context.vehicleSampleTime_s) };
+  const controller = {
+    form: 'parallel' as const,
+    ...resolveControllerSettings(partial.controller ?? {}, context.vehicleSampleTime_s),
+    antiWindup: partial.controller?.antiWindup ?? PLAN_DEFAULTS.controller.antiWindup,
+  };
   checkControllerPlausible(controller, partial.controller ?? {}, file);
   const parameters = partial.rule?.parameters ?? PLAN_DEFAULTS.rule.parameters;
   for (const [name, value] of Object.entries(parameters)) checkSpeedTable(value as SpeedVarying, `/rule/parameters/${name}`, file);
+  const kind = partial.loop?.kind ?? PLAN_DEFAULTS.loop.kind;
+  const previewGiven = partial.loop?.preview_m !== undefined || partial.loop?.previewTime_s !== undefined;
+  const loop = { ...PLAN_DEFAULTS.loop, ...(kind === 'path' && !previewGiven ? DEFAULT_PATH_PREVIEW : {}), ...partial.loop };
+  // No rule named: the loop kind's default rule, parameters and search; a rule named: as the plan says.
+  const rule =
+    partial.rule?.name === undefined
+      ? { ...DEFAULT_RULES[kind], ...(partial.rule?.parameters === undefined ? {} : { parameters }), ...(partial.rule?.tuneFor === undefined ? {} : { tuneFor: partial.rule.tuneFor }) }
+      : { name: partial.rule.name, parameters, tuneFor: partial.rule.tuneFor ?? PLAN_DEFAULTS.rule.tuneFor };
   return {
-    loop: { ...PLAN_DEFAULTS.loop, ...partial.loop },
-    rule: { name: partial.rule?.name ?? PLAN_DEFAULTS.rule.name, parameters },
+    loop,
+    rule,
     speeds,
     breakpoints,
     interpolation: partial.interpolation ?? PLAN_DEFAULTS.interpolation,
@@ -297,6 +358,7 @@ export function planThresholds(plan: Plan): AcceptanceThresholds {
     minimumUpperGainMargin_dB: acceptance.minimumUpperGainMargin_dB,
     minimumPhaseMargin_deg: acceptance.minimumPhaseMargin_deg,
     maximumSensitivityPeak: acceptance.maximumSensitivityPeak,
+    maximumComplementarySensitivityPeak: acceptance.maximumComplementarySensitivityPeak,
     minimumDelayMargin_s: controller.computationLatency_s + controller.sampleTime_s / 2 + acceptance.delayMarginRoom_s,
   };
 }

@@ -20,6 +20,8 @@ export const SPEED_VARYING_PARAMETERS = [
   'naturalFrequency_radps',
   'settlingDistance_m',
   'integralPoleRatio',
+  'sensitivityPeakTarget',
+  'phaseMarginTarget_deg',
 ] as const;
 export type SpeedVaryingParameter = (typeof SPEED_VARYING_PARAMETERS)[number];
 

@@ -18,14 +18,16 @@ import type { BreakpointInsertion } from './refine.js';
 import { SCHEDULE_SCHEMA } from './schedule-schema.js';
 import { acceptancePassed, type ScheduleVariations } from './schedule-variations.js';
 import { serialiseSchedule } from './schedule-json.js';
-import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, gainUnits, interpolationText, loopErrorText } from './schedule-text.js';
+import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, feedForwardText, gainUnits, interpolationText, loopErrorText } from './schedule-text.js';
 import {
   SCHEDULE_FORMAT,
   SCHEDULE_FORMAT_VERSION,
   type BreakpointMargins,
   type ScheduleFile,
   type ScheduleRuleParametersAt,
+  type ScheduleSearchAt,
 } from './schedule-types.js';
+import type { TimeDomainFigures } from '../performance/types.js';
 import type { DenseCheckResult, GainTable, WorstMargins, WorstValue } from './types.js';
 
 /** At most this many failing speeds are listed in the file (all are counted). */
@@ -43,6 +45,8 @@ export interface ScheduleInput {
   readonly insertions?: readonly BreakpointInsertion[];
   /** Integrator clamp, rad: the vehicle's steer-angle limit. */
   readonly integratorClamp_rad: number;
+  /** The vehicle's steering-rate limit, rad/s (the figures' actuator room and steps through the limits). */
+  readonly maxSteerRate_radps: number;
   /** Input files (paths are reduced to base names), SHA-256 and role. */
   readonly inputs: readonly { readonly file: string; readonly sha256: string; readonly role: string }[];
   readonly modelSummary: Readonly<Record<string, unknown>>;
@@ -52,6 +56,22 @@ export interface ScheduleInput {
   readonly ruleParametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
   /** The worst case over the plan's variations (schedule-variations.ts), when the plan gives them. */
   readonly variations?: ScheduleVariations;
+  /** Per final breakpoint: set-point weights, feed-forward and the time-domain figures with the limits they break. */
+  readonly breakpointExtras: readonly BreakpointExtras[];
+  /** With tuneFor fastest-passing: the search at each final breakpoint. */
+  readonly searchAtBreakpoints?: readonly ScheduleSearchAt[];
+}
+
+/** What a schedule records at a breakpoint besides its gains and margins. */
+export interface BreakpointExtras {
+  readonly setpointWeightProportional: number;
+  readonly setpointWeightDerivative: number;
+  readonly feedForward: number;
+  readonly feedForwardLeadTime_s: number;
+  /** Null when the loop is not stable at the breakpoint. */
+  readonly timeDomain: TimeDomainFigures | null;
+  /** The time-domain limits broken there, in words (a loop that is not stable breaks them all: one message). */
+  readonly timeDomainFailures: readonly string[];
 }
 
 const finiteOrNull = (value: number | null): number | null => (value !== null && Number.isFinite(value) ? value : null);
@@ -80,6 +100,7 @@ export function recordedWorst(worst: WorstMargins): WorstMargins {
     phaseMargin_deg: finiteWorst(worst.phaseMargin_deg),
     delayMargin_s: finiteWorst(worst.delayMargin_s),
     sensitivityPeak: finiteWorst(worst.sensitivityPeak),
+    complementarySensitivityPeak: finiteWorst(worst.complementarySensitivityPeak),
   };
 }
 
@@ -92,25 +113,47 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   const { plan, table, check } = input;
   validateGainTable(table);
   const inserted = input.insertedByRefinement ?? table.speeds_mps.map(() => false);
+  if (input.breakpointExtras.length !== table.speeds_mps.length) {
+    throw new SpeedbandError('schedule.tableInvalid', `${input.breakpointExtras.length} breakpoint records for ${table.speeds_mps.length} breakpoints — give one per breakpoint`);
+  }
   const breakpoints = table.speeds_mps.map((speed_mps, k) => {
     const point = check.points.find((candidate) => candidate.speed_mps === speed_mps);
     if (point === undefined) {
       throw new SpeedbandError('schedule.breakpointNotChecked', `breakpoint ${speed_mps} m/s is not among the checked speeds — build the grid with checkGrid(breakpoints, …)`);
     }
     const gains = table.gains[k];
-    return { speed_mps, kp: gains.kp, ki: gains.ki, kd: gains.kd, insertedByRefinement: inserted[k] ?? false, margins: breakpointMargins(point.margins) };
+    const extra = input.breakpointExtras[k];
+    return {
+      speed_mps,
+      kp: gains.kp,
+      ki: gains.ki,
+      kd: gains.kd,
+      setpointWeightProportional: extra.setpointWeightProportional,
+      setpointWeightDerivative: extra.setpointWeightDerivative,
+      feedForward: extra.feedForward,
+      feedForwardLeadTime_s: extra.feedForwardLeadTime_s,
+      insertedByRefinement: inserted[k] ?? false,
+      margins: breakpointMargins(point.margins),
+      timeDomain: extra.timeDomain,
+    };
   });
+  const timeDomainFailures = table.speeds_mps
+    .map((speed_mps, k) => ({ speed_mps, messages: [...input.breakpointExtras[k].timeDomainFailures] }))
+    .filter((entry) => entry.messages.length > 0);
+  const passed = check.passed && timeDomainFailures.length === 0;
   const path = plan.loop.kind === 'path';
   const worst = recordedWorst(check.worst);
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
     format: SCHEDULE_FORMAT,
     formatVersion: SCHEDULE_FORMAT_VERSION,
-    status: acceptancePassed(check.passed, input.variations) ? 'passed' : 'failed',
+    status: acceptancePassed(passed, input.variations) ? 'passed' : 'failed',
     vehicle: { name: input.vehicle.name, file: basename(input.vehicle.file), sha256: input.vehicle.sha256 },
     loop: {
       kind: plan.loop.kind,
-      ...(path ? { referencePoint: plan.loop.referencePoint, preview_m: plan.loop.preview_m } : {}),
-      error: loopErrorText(plan.loop.kind, plan.loop.preview_m, plan.loop.referencePoint),
+      ...(path
+        ? { referencePoint: plan.loop.referencePoint, preview_m: plan.loop.preview_m, ...(plan.loop.previewTime_s === 0 ? {} : { previewTime_s: plan.loop.previewTime_s }) }
+        : {}),
+      error: loopErrorText(plan.loop.kind, plan.loop.preview_m, plan.loop.referencePoint, plan.loop.previewTime_s),
     },
     controller: {
       form: plan.controller.form,
@@ -119,8 +162,10 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
       sampleTime_s: plan.controller.sampleTime_s,
       computationLatency_s: plan.controller.computationLatency_s,
       integratorClamp_rad: input.integratorClamp_rad,
+      antiWindup: plan.controller.antiWindup,
       equation: CONTROLLER_EQUATION,
-      update: controllerUpdateText(plan.controller.discretisation),
+      feedForward: feedForwardText(plan.loop.kind),
+      update: controllerUpdateText(plan.controller.discretisation, plan.controller.antiWindup),
       integration: INTEGRATION_TEXT,
     },
     interpolation: {
@@ -132,7 +177,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
     units: gainUnits(plan.loop.kind),
     breakpoints,
     check: {
-      passed: check.passed,
+      passed,
       model: { kind: plan.check.model, description: input.modelDescription },
       range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps },
       gridSpeeds: plan.check.gridSpeeds,
@@ -142,6 +187,17 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
       failedSpeeds: check.failedCount,
       failures: failingSpeeds(check.points, LISTED_FAILURES),
       insertions: (input.insertions ?? []).map((insertion) => ({ speed_mps: insertion.speed_mps, reason: insertion.reason })),
+      timeDomain: {
+        passed: timeDomainFailures.length === 0,
+        limits: {
+          maximumOvershoot_pct: plan.acceptance.maximumOvershoot_pct,
+          maximumRecoveryTime_s: plan.acceptance.maximumRecoveryTime_s,
+          maximumLaneChangeError_m: plan.acceptance.maximumLaneChangeError_m,
+          maximumCurveEntryError_m: plan.acceptance.maximumCurveEntryError_m,
+        },
+        steeringLimits: { maxSteerAngle_rad: input.integratorClamp_rad, maxSteerRate_radps: input.maxSteerRate_radps },
+        failures: timeDomainFailures,
+      },
     },
     ...(input.variations === undefined ? {} : { variations: input.variations }),
     provenance: {
@@ -154,6 +210,8 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
         parameters: plan.rule.parameters as Readonly<Record<string, unknown>>,
         ...(input.ruleCitation === undefined ? {} : { citation: input.ruleCitation }),
         ...(input.ruleParametersAtBreakpoints === undefined ? {} : { parametersAtBreakpoints: input.ruleParametersAtBreakpoints }),
+        tuneFor: plan.rule.tuneFor,
+        ...(input.searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints: input.searchAtBreakpoints }),
       },
       plan: plan as unknown as Readonly<Record<string, unknown>>,
     },
@@ -171,8 +229,9 @@ function refuseOldVersion(value: unknown, file: string): void {
   if (format === SCHEDULE_FORMAT && typeof formatVersion === 'number' && formatVersion < SCHEDULE_FORMAT_VERSION) {
     throw new SpeedbandError(
       'schedule.unsupportedVersion',
-      `schedule format version ${formatVersion} was written by an earlier speedband whose checksum covered only the table, not the margins, ` +
-        `status, limits and texts (this speedband reads version ${SCHEDULE_FORMAT_VERSION}) — rebuild the schedule with speedband build`,
+      `schedule format version ${formatVersion} was written by an earlier speedband (${
+        formatVersion < 2 ? 'its checksum covered only the table, not the margins, status, limits and texts' : 'it has no set-point weights, feed-forward or time-domain figures'
+      }; this speedband reads version ${SCHEDULE_FORMAT_VERSION}) — rebuild the schedule with speedband build`,
       { location: { file, jsonPath: '/formatVersion' } },
     );
   }

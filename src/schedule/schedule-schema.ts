@@ -24,14 +24,36 @@ const object = (properties: Record<string, object>, optional: readonly string[] 
   properties,
 });
 
+const nullableTime = { type: ['number', 'null'], minimum: 0 } as const;
+const disturbance = object({ size: number, peakError: number, recoveryTime_s: nullableTime });
+const timeDomainFigures = {
+  ...object({
+    referenceStep: object({ overshoot_pct: number, settlingTime_s: nullableTime, settlingDistance_m: nullableTime }),
+    steeringMisalignment: disturbance,
+    lateralForce: { ...disturbance, type: ['object', 'null'] },
+    laneChange: { ...object({ size_m: number, length_m: number, peakError_m: number }), type: ['object', 'null'] },
+    curveEntry: { ...object({ curvature_perM: number, peakError_m: number, errorAfterSettle_m: number }), type: ['object', 'null'] },
+    actuator: object({ largestReference: number, limitedBy: { enum: ['angle', 'rate'] }, peakAnglePerUnit: number, peakRatePerUnit: number }),
+    limitedStep: { ...object({ size: number, overshoot_pct: number, settlingTime_s: nullableTime, peakSteerRate_radps: number }), type: ['object', 'null'] },
+  }),
+  type: ['object', 'null'],
+};
+const timeDomainLimits = object({ maximumOvershoot_pct: number, maximumRecoveryTime_s: number, maximumLaneChangeError_m: number, maximumCurveEntryError_m: number });
+
 export const SCHEDULE_SCHEMA = object({
   format: { const: 'speedband-schedule' },
-  formatVersion: { const: 2 },
+  formatVersion: { const: 3 },
   status: { enum: ['passed', 'failed'] },
   vehicle: object({ name: text, file: text, sha256 }),
   loop: object(
-    { kind: { enum: ['yaw-rate', 'heading', 'path'] }, referencePoint: { enum: ['cg', 'front-axle'] }, preview_m: { type: 'number', minimum: 0 }, error: text },
-    ['referencePoint', 'preview_m'],
+    {
+      kind: { enum: ['yaw-rate', 'heading', 'path'] },
+      referencePoint: { enum: ['cg', 'front-axle'] },
+      preview_m: { type: 'number', minimum: 0 },
+      previewTime_s: { type: 'number', minimum: 0 },
+      error: text,
+    },
+    ['referencePoint', 'preview_m', 'previewTime_s'],
   ),
   controller: object({
     form: { const: 'parallel' },
@@ -40,7 +62,9 @@ export const SCHEDULE_SCHEMA = object({
     sampleTime_s: { type: 'number', exclusiveMinimum: 0 },
     computationLatency_s: { type: 'number', minimum: 0 },
     integratorClamp_rad: { type: 'number', exclusiveMinimum: 0 },
+    antiWindup: { enum: ['conditional-integration', 'back-calculation'] },
     equation: text,
+    feedForward: text,
     update: { type: 'array', items: text },
     integration: text,
   }),
@@ -50,7 +74,7 @@ export const SCHEDULE_SCHEMA = object({
     lowSpeedFloor_mps: { type: 'number', minimum: 0 },
     description: text,
   }),
-  units: object({ speed: { const: 'm/s' }, error: text, output: { const: 'rad' }, kp: text, ki: text, kd: text }),
+  units: object({ speed: { const: 'm/s' }, error: text, output: { const: 'rad' }, kp: text, ki: text, kd: text, feedForward: text, feedForwardInput: text }),
   breakpoints: {
     type: 'array',
     minItems: 1,
@@ -59,6 +83,10 @@ export const SCHEDULE_SCHEMA = object({
       kp: number,
       ki: number,
       kd: number,
+      setpointWeightProportional: { type: 'number', minimum: 0, maximum: 1 },
+      setpointWeightDerivative: { type: 'number', minimum: 0, maximum: 1 },
+      feedForward: number,
+      feedForwardLeadTime_s: number,
       insertedByRefinement: { type: 'boolean' },
       margins: object({
         stable: { type: 'boolean' },
@@ -81,6 +109,7 @@ export const SCHEDULE_SCHEMA = object({
         sensitivityPeak: { ...nullableNumber, description: 'Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts.' },
         complementarySensitivityPeak: { ...nullableNumber, description: 'Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts.' },
       }),
+      timeDomain: timeDomainFigures,
     }),
   },
   check: object({
@@ -94,6 +123,7 @@ export const SCHEDULE_SCHEMA = object({
       minimumUpperGainMargin_dB: number,
       minimumPhaseMargin_deg: number,
       maximumSensitivityPeak: number,
+      maximumComplementarySensitivityPeak: number,
       minimumDelayMargin_s: number,
     }),
     worst: object({
@@ -102,10 +132,17 @@ export const SCHEDULE_SCHEMA = object({
       phaseMargin_deg: worstValue,
       delayMargin_s: worstValue,
       sensitivityPeak: worstValue,
+      complementarySensitivityPeak: worstValue,
     }),
     failedSpeeds: { type: 'integer', minimum: 0 },
     failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
     insertions: { type: 'array', items: object({ speed_mps: number, reason: text }) },
+    timeDomain: object({
+      passed: { type: 'boolean' },
+      limits: timeDomainLimits,
+      steeringLimits: object({ maxSteerAngle_rad: { type: 'number', exclusiveMinimum: 0 }, maxSteerRate_radps: { type: 'number', exclusiveMinimum: 0 } }),
+      failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
+    }),
   }),
   variations: SCHEDULE_VARIATIONS_SCHEMA,
   provenance: object(
@@ -123,8 +160,13 @@ export const SCHEDULE_SCHEMA = object({
             type: 'array',
             items: object({ speed_mps: number, parameters: { type: 'object', additionalProperties: { type: ['number', 'string'] } } }),
           },
+          tuneFor: { enum: ['rule-parameters', 'fastest-passing'] },
+          searchAtBreakpoints: {
+            type: 'array',
+            items: object({ speed_mps: number, parameter: text, value: number, outcome: { enum: ['fastest passing', 'none passed'] }, candidates: { type: 'integer', minimum: 1 }, reason: text }),
+          },
         },
-        ['citation', 'parametersAtBreakpoints'],
+        ['citation', 'parametersAtBreakpoints', 'searchAtBreakpoints'],
       ),
       plan: freeObject,
       handEdits: {

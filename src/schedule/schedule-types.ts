@@ -3,14 +3,20 @@
  * What firmware needs (docs/domain.md §7): breakpoints and gains, the exact controller equation,
  * interpolation and out-of-range behaviour, limits, units, proven margins, provenance, checksum.
  */
+import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
+import type { TimeDomainFigures, TimeDomainLimits } from '../performance/types.js';
 import type { InterpolationMethod, AcceptanceThresholds, WorstMargins } from './types.js';
 import type { LoopKind, ReferencePoint } from './plan.js';
 import type { ScheduleVariations } from './schedule-variations.js';
 
 export const SCHEDULE_FORMAT = 'speedband-schedule';
-/** 2: the checksum covers every field (version 1 covered the table and controller settings only). */
-export const SCHEDULE_FORMAT_VERSION = 2;
+/**
+ * 3: set-point weights, feed-forward and time-domain figures per breakpoint, Mt and the time-domain limits
+ * in the check (version 2 had none of them); 2: the checksum covers every field (version 1 covered the
+ * table and controller settings only).
+ */
+export const SCHEDULE_FORMAT_VERSION = 3;
 
 /** Margins proven at one breakpoint (from LoopMargins; null where there is no such crossing). */
 export interface BreakpointMargins {
@@ -29,17 +35,29 @@ export interface ScheduleBreakpoint {
   readonly kp: number;
   readonly ki: number;
   readonly kd: number;
+  /** b: the proportional term acts on b·r − y (chosen for the overshoot limit). */
+  readonly setpointWeightProportional: number;
+  /** c: the derivative term acts on c·r − y. */
+  readonly setpointWeightDerivative: number;
+  /** kff, in units.feedForward: the command added per unit of the feed-forward input. */
+  readonly feedForward: number;
+  /** T_ff, s: the feed-forward input is read this long ahead (negative: behind). */
+  readonly feedForwardLeadTime_s: number;
   /** True when the dense check's refinement inserted this breakpoint. */
   readonly insertedByRefinement: boolean;
   readonly margins: BreakpointMargins;
+  /** Figures of the exact sampled linear closed loop at this speed; null when the loop is not stable there. */
+  readonly timeDomain: TimeDomainFigures | null;
 }
 
 export interface ScheduleLoop {
   readonly kind: LoopKind;
   /** Path loop only. */
   readonly referencePoint?: ReferencePoint;
-  /** Path loop only: preview distance ahead of the reference point, m. */
+  /** Path loop only: preview distance ahead of the reference point at standstill, m. */
   readonly preview_m?: number;
+  /** Path loop only: preview time, s (the preview is preview_m + previewTime_s·speed). */
+  readonly previewTime_s?: number;
   /** The error the controller acts on, in words with its unit. */
   readonly error: string;
 }
@@ -50,10 +68,13 @@ export interface ScheduleController {
   readonly discretisation: Discretisation;
   readonly sampleTime_s: number;
   readonly computationLatency_s: number;
-  /** The integrator state is clamped to ±this, rad (the steer-angle limit). */
+  /** The feed-forward plus the integrator state is kept within ±this, rad (the steer-angle limit); the command too. */
   readonly integratorClamp_rad: number;
+  readonly antiWindup: AntiWindup;
   /** The continuous-time law, as text. */
   readonly equation: string;
+  /** What the feed-forward input is and when it is read, as text. */
+  readonly feedForward: string;
   /** The per-sample update the firmware runs, as text. */
   readonly update: readonly string[];
   /** How the integrator accumulates (ki·e·Ts, bumpless under gain changes). */
@@ -74,6 +95,9 @@ export interface ScheduleUnits {
   readonly kp: string;
   readonly ki: string;
   readonly kd: string;
+  /** Unit of kff, and of its input. */
+  readonly feedForward: string;
+  readonly feedForwardInput: string;
 }
 
 export interface ScheduleCheck {
@@ -91,6 +115,25 @@ export interface ScheduleCheck {
   readonly failures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
   /** Breakpoints inserted by refinement, with the reason. */
   readonly insertions: readonly { readonly speed_mps: number; readonly reason: string }[];
+  /** The time-domain limits at every breakpoint. */
+  readonly timeDomain: {
+    readonly passed: boolean;
+    readonly limits: TimeDomainLimits;
+    /** The vehicle's steering limits the figures were computed against (actuator room, steps through the limits). */
+    readonly steeringLimits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number };
+    readonly failures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
+  };
+}
+
+/** The fastest-passing search at one breakpoint. */
+export interface ScheduleSearchAt {
+  readonly speed_mps: number;
+  readonly parameter: string;
+  readonly value: number;
+  /** 'fastest passing', or 'none passed' (the value closest to passing is used and the schedule fails). */
+  readonly outcome: 'fastest passing' | 'none passed';
+  readonly candidates: number;
+  readonly reason: string;
 }
 
 /** The rule's parameters at one breakpoint: numbers (the controller type stays text). */
@@ -111,8 +154,11 @@ export interface ScheduleProvenance {
     /** As written in the plan (numbers, speed tables, expressions in speed_mps). */
     readonly parameters: Readonly<Record<string, unknown>>;
     readonly citation?: string;
-    /** The parameters as resolved at each breakpoint, when the plan gives any. */
+    /** The parameters as resolved at each breakpoint, when the plan gives any or a search chose them. */
     readonly parametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
+    readonly tuneFor: 'rule-parameters' | 'fastest-passing';
+    /** With tuneFor fastest-passing: at each breakpoint, the parameter searched, the value chosen and why. */
+    readonly searchAtBreakpoints?: readonly ScheduleSearchAt[];
   };
   /** The resolved plan. */
   readonly plan: Readonly<Record<string, unknown>>;

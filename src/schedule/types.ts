@@ -40,6 +40,8 @@ export interface AcceptanceThresholds {
   readonly minimumPhaseMargin_deg: number;
   /** Peak sensitivity Ms = max|1/(1 + L)| must be at most this. */
   readonly maximumSensitivityPeak: number;
+  /** Peak complementary sensitivity Mt = max|L/(1 + L)| must be at most this. */
+  readonly maximumComplementarySensitivityPeak: number;
   /** Delay margin must be at least this, s (measured latency plus room). */
   readonly minimumDelayMargin_s: number;
 }
@@ -56,7 +58,8 @@ export type CheckCriterion =
   | 'upperGainMargin'
   | 'phaseMargin'
   | 'delayMargin'
-  | 'sensitivityPeak';
+  | 'sensitivityPeak'
+  | 'complementarySensitivityPeak';
 
 /** One acceptance limit broken at one speed; `value` and `limit` in the criterion's unit. */
 export interface CheckFailure {
@@ -89,6 +92,8 @@ export interface WorstMargins {
   readonly delayMargin_s: WorstValue | null;
   /** Largest peak sensitivity. */
   readonly sensitivityPeak: WorstValue | null;
+  /** Largest peak complementary sensitivity. */
+  readonly complementarySensitivityPeak: WorstValue | null;
 }
 
 export interface DenseCheckResult {

@@ -69,8 +69,9 @@ function frequencyForPreviewGain(zeta: number, ratio: number, lead: number, uppe
 }
 
 export function dampingTarget(model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
+  if (model.integrators === 1) return dampingTargetIntegrating(model, parameters, context);
   if (model.integrators !== 2) {
-    throw ruleNotApplicable('damping-target', model, "the placement formulas are written for the double integrator k''/s² of a path loop");
+    throw ruleNotApplicable('damping-target', model, "the placement formulas are written for the integrator k'/s of a heading loop and the double integrator k''/s² of a path loop");
   }
   const reduced = reduceByHalfRule(model, 0).model;
   const effectiveDelay_s = reduced.deadTime_s;
@@ -137,11 +138,64 @@ export function dampingTarget(model: DesignModel, parameters: RuleParameters, co
   };
 }
 
+const INTEGRATING_CITATION =
+  "Pole placement on k'/s with a PI controller: closed-loop characteristic polynomial s² + k'·kp·s + k'·ki = s² + 2ζωn s + ωn² (textbook pole placement, e.g. Åström & Murray, Feedback Systems, 2008, §10; Åström & Hägglund, Advanced PID Control, 2006, §6.3)";
+
+/**
+ * Damping-target placement on the integrating design model k'/s of a heading loop (delay and lags
+ * neglected in the design, the full-loop check decides): a PI controller gives the closed-loop
+ * characteristic polynomial s² + k'·kp·s + k'·ki, placed at s² + 2ζωn s + ωn²:
+ *   kp = 2ζωn/k',  ki = ωn²/k'.
+ * ωn (rad/s) given, or from a settling distance D at speed vx (ωn = 4vx/(ζD)), or by default
+ * ωn = defaultBandwidthDelayProduct/θ_eff (θ_eff: the delay plus the lags by the half rule).
+ * The closed loop has the zero ki/kp = ωn/(2ζ) (overshoot to a reference step even at ζ = 1; the
+ * set-point weight b of the schedule removes it).
+ */
+function dampingTargetIntegrating(model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
+  const reduced = reduceByHalfRule(model, 0).model;
+  const effectiveDelay_s = reduced.deadTime_s;
+  const zeta = requirePositive('damping-target', 'dampingRatio (ζ)', parameters.dampingRatio ?? TUNING_DEFAULTS.dampingRatio);
+  let omega: number;
+  const extra: Record<string, number> = {};
+  if (parameters.naturalFrequency_radps !== undefined) {
+    omega = requirePositive('damping-target', 'naturalFrequency_radps (ωn)', parameters.naturalFrequency_radps);
+  } else if (parameters.settlingDistance_m !== undefined) {
+    const distance = requirePositive('damping-target', 'settlingDistance_m (D)', parameters.settlingDistance_m);
+    const speed = requirePositive('damping-target', 'speed_mps (vx, for ωn = 4vx/(ζD))', context.speed_mps);
+    omega = (4 * speed) / (zeta * distance);
+    extra.settlingDistance_m = distance;
+  } else {
+    if (!(effectiveDelay_s > 0)) {
+      throw parameterRequired('damping-target', 'a natural frequency ωn or a settling distance D', 'the model has no delay or lag to default ωn from');
+    }
+    omega = TUNING_DEFAULTS.defaultBandwidthDelayProduct / effectiveDelay_s;
+  }
+  const k = reduced.gain;
+  const gains = { kp: (2 * zeta * omega) / k, ki: (omega * omega) / k, kd: 0 };
+  const product = omega * effectiveDelay_s;
+  const warnings: string[] = [];
+  if (product > TUNING_DEFAULTS.maximumBandwidthDelayProduct) {
+    warnings.push(
+      `ωn·θ_eff = ${product.toPrecision(3)} exceeds ${TUNING_DEFAULTS.maximumBandwidthDelayProduct}: the target asks for more bandwidth than the actuator lag and delay (θ_eff = ${effectiveDelay_s.toPrecision(3)} s) allow — lengthen the settling distance or lower ωn`,
+    );
+  }
+  return {
+    rule: 'damping-target',
+    citation: INTEGRATING_CITATION,
+    controllerType: 'PI',
+    gains,
+    ruleForm: { form: 'parallel', gain: gains.kp, integralTime_s: gains.kp / gains.ki, derivativeTime_s: 0 },
+    designModel: reduced,
+    intermediate: { dampingRatio: zeta, naturalFrequency_radps: omega, effectiveDeadTime_s: effectiveDelay_s, bandwidthDelayProduct: product, ...extra },
+    warnings,
+  };
+}
+
 export const DAMPING_TARGET: TuningRule = {
   name: 'damping-target',
   title: 'Damping-target placement',
   citation: CITATION,
-  plantClasses: ['double-integrating'],
+  plantClasses: ['integrating', 'double-integrating'],
   parameters: ['dampingRatio', 'naturalFrequency_radps', 'settlingDistance_m', 'integralPoleRatio'],
   tune: dampingTarget,
 };

@@ -38,4 +38,17 @@ export const TUNING_DEFAULTS = {
   maximumPreviewHighFrequencyGain: 1,
   /** The default ωn keeps k''·kd·T0 at or below this. Our choice: half the limit. */
   defaultPreviewHighFrequencyGain: 0.5,
+  /**
+   * MIGO's bound on the sensitivity peaks: M = 1.4, the robustness Åström & Hägglund use for MIGO and AMIGO
+   * (Åström & Hägglund 2004, J. Process Control 14; 2006, Advanced PID Control, §7.4 — from memory).
+   */
+  sensitivityPeakTarget: 1.4,
+  /**
+   * SIMC on a path loop with a lead T0 (preview and sideslip): the lead is neglected when T0 ≤ this × (τc + θ),
+   * and cancels an integrator (k''(T0 s + 1)/s² ≈ k''T0/s) when T0 ≥ integratorLeadPerHorizon × (τc + θ).
+   * Our reading of Skogestad's (2003, §3.1) rule for positive numerator time constants against the
+   * closed-loop time constant; in between neither model holds in the band the rule designs for, and SIMC refuses.
+   */
+  negligibleLeadPerHorizon: 0.5,
+  integratorLeadPerHorizon: 4,
 } as const;

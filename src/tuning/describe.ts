@@ -31,7 +31,9 @@ export function describeTunedOperatingPoint(point: TunedOperatingPoint, sampledM
   const units = gainUnits(loop.kind);
   const lines: string[] = [];
   const preview =
-    loop.kind === 'path' ? `, preview ${number(loop.preview_m ?? 0)} m from the ${loop.referencePoint === 'front-axle' ? 'front axle' : 'CG'} (${number(loop.previewFromCg_m ?? 0)} m from the CG)` : '';
+    loop.kind === 'path'
+      ? `, preview ${number(loop.preview_m ?? 0)} m${(loop.previewTime_s ?? 0) === 0 ? '' : ` + ${number(loop.previewTime_s ?? 0)} s × speed`} from the ${loop.referencePoint === 'front-axle' ? 'front axle' : 'CG'} (${number(loop.previewFromCg_m ?? 0)} m from the CG)`
+      : '';
   lines.push(`Loop: ${loop.kind} at ${number(loop.speed_mps)} m/s${preview}`);
   lines.push(
     `Yaw-rate model (${design.yawRateSource === 'identified' ? 'as given' : "Smith's two-point FOPDT of the model's step response"}): K = ${number(design.yawRateGain_perS)} 1/s, τ = ${number(design.yawRateTimeConstant_s)} s, θ = ${number(design.yawRateDeadTime_s)} s; controller delay Ts/2 + latency = ${number(design.controllerDelay_s)} s`,

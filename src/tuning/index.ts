@@ -24,3 +24,6 @@ export { designModelFromLumped, designModelFromSingleTrack, type DesignModelDeri
 export { tuneOperatingPoint, loopMargins, type OperatingPointModel, type OperatingPointRequest, type TunedOperatingPoint } from './operating-point.js';
 export { proportionalGainRange, type ProportionalGainRange } from './proportional-range.js';
 export { describeTunedOperatingPoint } from './describe.js';
+export { amigo, AMIGO } from './amigo.js';
+export { migo, MIGO } from './migo.js';
+export { fullLoopResponse, gridLoopCheck, type FullLoop, type FullLoopResponse, type SensitivityBounds } from './full-loop.js';

@@ -25,6 +25,8 @@ export interface OperatingPointRequest {
   readonly rule: string;
   readonly ruleParameters: RuleParameters;
   readonly controller: ControllerSettings;
+  /** Gains a numerical rule (MIGO) searches around first. */
+  readonly startGains?: PidGains;
 }
 
 export interface TunedOperatingPoint {
@@ -67,7 +69,13 @@ export function tuneOperatingPoint(request: OperatingPointRequest): TunedOperati
     model.kind === 'lumped'
       ? designModelFromLumped(specification.kind, model.yawRate, speed_mps, controllerDelay_s, loop.previewFromCg_m ?? 0)
       : designModelFromSingleTrack(specification.kind, model.parameters, speed_mps, controllerDelay_s, loop.previewFromCg_m ?? 0);
-  const derivation = applyRule(request.rule, design.model, request.ruleParameters, { speed_mps });
+  // The loop as the firmware runs it: the plant's own delay and the latency, without the Ts/2 the design model adds for the hold.
+  const fullLoop = { plant: { ...loop.plant, delay_s: loop.plant.delay_s - controller.sampleTime_s / 2 }, controller };
+  const derivation = applyRule(request.rule, design.model, request.ruleParameters, {
+    speed_mps,
+    fullLoop,
+    ...(request.startGains === undefined ? {} : { startGains: request.startGains }),
+  });
   const margins = loopMargins(loop, derivation.gains, controller.derivativeFilter);
   const warnings = [...derivation.warnings];
   const samplingFrequency_radps = (2 * Math.PI) / controller.sampleTime_s;

@@ -1,6 +1,8 @@
 import { SpeedbandError, isSpeedbandError } from '../core/errors.js';
+import { AMIGO } from './amigo.js';
 import { DAMPING_TARGET } from './damping-target.js';
 import { IMC_PID } from './imc-pid.js';
+import { MIGO } from './migo.js';
 import { describePlantClass, plantClassOf } from './plant-class.js';
 import { SIMC } from './simc.js';
 import type { DesignModel, RuleContext, RuleName, RuleParameterName, RuleParameters, RuleResult, TuningRule } from './types.js';
@@ -9,7 +11,7 @@ import { ZIEGLER_NICHOLS_STEP } from './ziegler-nichols-step.js';
 import { ZIEGLER_NICHOLS_ULTIMATE } from './ziegler-nichols-ultimate.js';
 
 /** Every tuning rule, in the order help texts list them. A new rule is one file plus one line here. */
-export const TUNING_RULES: readonly TuningRule[] = [ZIEGLER_NICHOLS_STEP, ZIEGLER_NICHOLS_ULTIMATE, IMC_PID, SIMC, DAMPING_TARGET];
+export const TUNING_RULES: readonly TuningRule[] = [ZIEGLER_NICHOLS_STEP, ZIEGLER_NICHOLS_ULTIMATE, IMC_PID, SIMC, DAMPING_TARGET, AMIGO, MIGO];
 
 export const RULE_NAMES: readonly RuleName[] = TUNING_RULES.map((rule) => rule.name);
 

@@ -51,6 +51,10 @@ export function simc(model: DesignModel, parameters: RuleParameters): RuleResult
     if (!(theta > 0)) throw parameterRequired('simc', 'a closed-loop time constant τc', 'the model has no effective dead time to default τc = θ from');
     tauC = TUNING_DEFAULTS.simcTauCPerDeadTime * theta;
   }
+  const lead = model.leadTimeConstant_s ?? 0;
+  if (model.integrators === 2 && lead > TUNING_DEFAULTS.negligibleLeadPerHorizon * (tauC + theta)) {
+    return simcWithLead(model, parameters, lead, tauC, theta);
+  }
   const k = reduced.gain;
   const horizon = tauC + theta;
   let ruleForm: RuleForm;
@@ -98,6 +102,36 @@ export function simc(model: DesignModel, parameters: RuleParameters): RuleResult
       (model.leadTimeConstant_s ?? 0) !== 0
         ? [`the design neglects the path loop's lead (T0 = ${(model.leadTimeConstant_s ?? 0).toPrecision(3)} s, preview and sideslip): the margins of the full loop include it; damping-target places the poles with it`]
         : [],
+  };
+}
+
+/**
+ * A double integrator with a lead k''(T0·s + 1)/s² (a path loop: preview and sideslip). SIMC's
+ * double-integrator settings put the crossover near 1/(τc + θ); there the lead multiplies the loop gain by
+ * about T0/(τc + θ) and the loop comes out unstable (at low speed T0 is seconds — found on every demo
+ * vehicle). Following Skogestad's (2003, §3.1) treatment of a positive numerator time constant against the
+ * closed-loop time constant: when T0 ≥ integratorLeadPerHorizon·(τc + θ) the lead cancels an integrator in
+ * that band, k''(T0 s + 1)/s² ≈ k''T0/s, and the integrating rule applies to k' = k''·T0 (same τc); between
+ * negligibleLeadPerHorizon and integratorLeadPerHorizon times (τc + θ) neither model holds and SIMC refuses.
+ */
+function simcWithLead(model: DesignModel, parameters: RuleParameters, lead: number, tauC: number, theta: number): RuleResult {
+  const horizon = tauC + theta;
+  if (lead < TUNING_DEFAULTS.integratorLeadPerHorizon * horizon) {
+    throw ruleNotApplicable(
+      'simc',
+      model,
+      `the path loop's lead T0 = ${lead.toPrecision(3)} s (preview and sideslip) lies between ${TUNING_DEFAULTS.negligibleLeadPerHorizon}(τc + θ) = ${(TUNING_DEFAULTS.negligibleLeadPerHorizon * horizon).toPrecision(3)} s and ${TUNING_DEFAULTS.integratorLeadPerHorizon}(τc + θ) = ${(TUNING_DEFAULTS.integratorLeadPerHorizon * horizon).toPrecision(3)} s: in the band SIMC designs for the plant is neither the double integrator k''/s² nor the integrator k''·T0/s, and its double-integrator settings leave the loop unstable — use migo or damping-target, or a τc that puts T0 outside that band`,
+    );
+  }
+  const integrating: DesignModel = { integrators: 1, gain: model.gain * lead, lags_s: model.lags_s, deadTime_s: model.deadTime_s };
+  const result = simc(integrating, { ...parameters, simcClosedLoopTimeConstant_s: tauC });
+  return {
+    ...result,
+    intermediate: { ...result.intermediate, previewLead_s: lead, doubleIntegratorGain: model.gain },
+    warnings: [
+      `the path loop's lead T0 = ${lead.toPrecision(3)} s is at least ${TUNING_DEFAULTS.integratorLeadPerHorizon}(τc + θ) = ${(TUNING_DEFAULTS.integratorLeadPerHorizon * horizon).toPrecision(3)} s: k''(T0·s + 1)/s² ≈ k''·T0/s over the band SIMC designs for, so the integrating rule was applied to k' = k''·T0 = ${(model.gain * lead).toPrecision(3)} (Skogestad 2003, §3.1, positive numerator time constants)`,
+      ...result.warnings,
+    ],
   };
 }
 

@@ -1,4 +1,5 @@
 import type { PidGains } from '../controller/types.js';
+import type { FullLoop } from './full-loop.js';
 
 /**
  * Records passed between the tuning rules and their callers. Plain, readonly, JSON-able.
@@ -64,7 +65,9 @@ export type RuleName =
   | 'ziegler-nichols-ultimate'
   | 'imc-pid'
   | 'simc'
-  | 'damping-target';
+  | 'damping-target'
+  | 'amigo'
+  | 'migo';
 
 /** Every rule parameter, all optional; `resolveRuleParameters` applies TUNING_DEFAULTS. */
 export interface RuleParameters {
@@ -82,6 +85,10 @@ export interface RuleParameters {
   readonly settlingDistance_m?: number;
   /** Damping-target ratio ωn/p of natural frequency to the integral pole. */
   readonly integralPoleRatio?: number;
+  /** MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4, Åström & Hägglund's usual robustness). */
+  readonly sensitivityPeakTarget?: number;
+  /** MIGO: optionally also keep the phase margin at least this, degrees (the fastest-passing search sets the plan's limit). */
+  readonly phaseMarginTarget_deg?: number;
 }
 
 export type RuleParameterName = keyof RuleParameters;
@@ -90,6 +97,10 @@ export type RuleParameterName = keyof RuleParameters;
 export interface RuleContext {
   /** Forward speed, m/s (damping-target settling distance). */
   readonly speed_mps: number;
+  /** The loop as the firmware runs it (MIGO optimises on it; tuneOperatingPoint always gives it). */
+  readonly fullLoop?: FullLoop;
+  /** Gains a numerical rule (MIGO) searches around first, e.g. its optimum for a nearby parameter value. */
+  readonly startGains?: PidGains;
 }
 
 /** A tuning rule: where it applies and how it computes. */

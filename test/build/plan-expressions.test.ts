@@ -83,3 +83,45 @@ describe('speedband build with a rule parameter given as an expression of speed'
     expect(refused.err()).toMatch(/tuning at 2\.00 m\/s: .*settling distance/);
   });
 });
+
+describe('speedband build with "tuneFor": "fastest-passing"', () => {
+  it('refuses a plan that also gives the searched parameter (exit 2, JSON path named), and records the search at every breakpoint', async () => {
+    const conflicting = join(dir, 'conflict.json');
+    writeFileSync(conflicting, JSON.stringify({ loop: { kind: 'path' }, rule: { name: 'damping-target', tuneFor: 'fastest-passing', parameters: { settlingDistance_m: 40 } } }));
+    const io = recordingIo();
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', conflicting, '--out', join(dir, 'never.json')], io)).toBe(2);
+    expect(io.err()).toMatch(/rule\/parameters\/settlingDistance_m.*fastest-passing.*searches naturalFrequency_radps/);
+    const searched = join(dir, 'search.json');
+    writeFileSync(searched, JSON.stringify({ loop: { kind: 'heading' }, rule: { name: 'simc', tuneFor: 'fastest-passing' } }));
+    const out = join(dir, 'searched-schedule.json');
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', searched, '--out', out], recordingIo())).toBe(0);
+    const schedule = readSchedule(out);
+    expect(schedule.provenance.rule.tuneFor).toBe('fastest-passing');
+    const search = schedule.provenance.rule.searchAtBreakpoints ?? [];
+    expect(search.map((entry) => entry.speed_mps)).toEqual(schedule.breakpoints.map((row) => row.speed_mps));
+    schedule.breakpoints.forEach((row, k) => {
+      expect(search[k].parameter).toBe('simcClosedLoopTimeConstant_s');
+      expect(schedule.provenance.rule.parametersAtBreakpoints?.[k].parameters.simcClosedLoopTimeConstant_s).toBe(search[k].value);
+      expect(search[k].outcome).toBe('fastest passing');
+    });
+  });
+});
+
+describe('speedband reverify with edited set-point weights', () => {
+  it('recomputes the time-domain figures: b raised to 1 where the build chose less breaks the overshoot limit, and nothing is written (exit 1)', async () => {
+    const plan = join(dir, 'heading.json');
+    writeFileSync(plan, JSON.stringify({ loop: { kind: 'heading' } }));
+    const built = join(dir, 'heading-schedule.json');
+    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', built], recordingIo())).toBe(0);
+    const schedule = readSchedule(built);
+    const k = schedule.breakpoints.findIndex((row) => row.setpointWeightProportional < 0.9);
+    expect(k).toBeGreaterThanOrEqual(0);
+    const edited = { ...schedule, breakpoints: schedule.breakpoints.map((row, i) => (i === k ? { ...row, setpointWeightProportional: 1 } : row)) };
+    const editedPath = join(dir, 'heading-edited.json');
+    writeFileSync(editedPath, JSON.stringify(edited));
+    const io = recordingIo();
+    expect(await runCli(['reverify', editedPath, '--vehicle', VAN, '--models', modelsPath, '--out', join(dir, 'heading-reverified.json')], io)).toBe(1);
+    expect(io.out()).toMatch(/time domain at .* m\/s: .*overshoot/);
+    expect(io.out()).toMatch(/Nothing written/);
+  });
+});

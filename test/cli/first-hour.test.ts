@@ -149,7 +149,8 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
     expect(printed.code).toBe(0);
     const plan = JSON.parse(printed.out) as { loop: { kind: string }; acceptance: object; controller: object; check: object };
     expect(plan.loop.kind).toBe('yaw-rate');
-    expect(Object.keys(plan.acceptance)).toHaveLength(5);
+    // Ten limits: four margins, Ms, Mt, the delay-margin room and the time-domain limits of the reference step, disturbances, lane change and curve entry.
+    expect(Object.keys(plan.acceptance)).toHaveLength(10);
     const path = planFile('default-plan.json', plan);
     const out = join(dir, 'with-default-plan.json');
     expect((await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', path, '--out', out])).code).toBe(0);
@@ -157,9 +158,10 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
     expect(withPlan.breakpoints).toEqual(without.breakpoints);
     expect(withPlan.controller).toEqual(without.controller);
     expect(withPlan.check.thresholds).toEqual(without.check.thresholds);
-    const path2 = JSON.parse((await run(['plan', '--default', '--loop', 'path'])).out) as { loop: { kind: string }; description: string };
-    expect(path2.loop.kind).toBe('path');
-    expect(path2.description).toMatch(/damping-target/);
+    const path2 = JSON.parse((await run(['plan', '--default', '--loop', 'path'])).out) as { loop: { kind: string; previewTime_s: number }; rule: { name: string; tuneFor: string }; description: string };
+    expect(path2.loop).toMatchObject({ kind: 'path', preview_m: 0.5, previewTime_s: 0.3, referencePoint: 'front-axle' });
+    expect(path2.rule).toMatchObject({ name: 'migo', tuneFor: 'fastest-passing' });
+    expect(path2.description).toMatch(/MIGO/);
   });
 });
 
@@ -257,7 +259,8 @@ describe('machine and human output', () => {
 
   it('the build table shows pass or FAIL against the limits beside the closed-loop verdict; failing speeds have one JSON shape in build and check', async () => {
     const plan = join(dir, 'heading.json');
-    writeFileSync(plan, JSON.stringify({ loop: { kind: 'heading' } }));
+    // SIMC named: its parameters as given (τc = θ), no search — short of the phase-margin limit at speed.
+    writeFileSync(plan, JSON.stringify({ loop: { kind: 'heading' }, rule: { name: 'simc' } }));
     const out = join(dir, 'heading-schedule.json');
     const built = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', out, '--allow-failing']);
     expect(built.code).toBe(1);

@@ -13,6 +13,7 @@ import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import type { GainTable } from '../../src/schedule/types.js';
 import type { PidGains } from '../../src/controller/types.js';
 import { idealGains, integratorLoopMargins } from '../schedule/integrator-loop.js';
+import { fixtureExtras } from '../schedule/sample-schedule.js';
 
 export const FIXTURE_SPEEDS = [2, 3, 4.5, 7, 10, 16] as const;
 
@@ -65,6 +66,8 @@ export function fixtureSchedule(options: FixtureOptions = {}): ScheduleFile {
     table,
     check,
     integratorClamp_rad: 0.6,
+    maxSteerRate_radps: 0.5,
+    breakpointExtras: fixtureExtras(speeds),
     inputs: [{ file: 'plan.json', sha256: sha256Hex('plan'), role: 'plan' }],
     modelSummary: options.modelSummary ?? { kind: 'synthetic integrator with delay', deadTime_s: 0.1 },
     modelDescription: 'synthetic test loop v²·e^(−0.1 s)/s (test data only)',

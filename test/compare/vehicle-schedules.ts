@@ -14,6 +14,7 @@ import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { loopMargins, tuneOperatingPoint } from '../../src/tuning/operating-point.js';
 import { understeerGradient_radPerMps2 } from '../../src/vehicle/single-track.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
+import { fixtureExtras } from '../schedule/sample-schedule.js';
 
 export const VEHICLE_SCHEDULE_SPEEDS = [4, 8, 12.5, 18, 25] as const;
 
@@ -45,6 +46,8 @@ export function vehicleSchedule(name: string, parameters: SingleTrackParameters)
     check: result.check,
     insertions: result.insertions,
     integratorClamp_rad: 0.6,
+    maxSteerRate_radps: 0.5,
+    breakpointExtras: fixtureExtras(result.table.speeds_mps),
     inputs: [],
     modelSummary: {
       kind: 'single-track',

@@ -12,8 +12,7 @@ import { exportC } from '../../src/export/c-header.js';
 import { parseFixedPointRequest, parseQFormat } from '../../src/export/fixed-point.js';
 import { integerLookup, speedToInteger } from '../../src/export/integer-lookup.js';
 import { gainSlopes } from '../../src/schedule/interpolate.js';
-import { makeGainLookup } from '../../src/schedule/interpolate.js';
-import { scheduleLookup, scheduleTable } from '../../src/schedule/schedule-lookup.js';
+import { scheduleExtrasLookup, scheduleLookup, scheduleTable } from '../../src/schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { integratorLoopMargins } from '../schedule/integrator-loop.js';
 import { sampleSchedule } from '../schedule/sample-schedule.js';
@@ -64,6 +63,33 @@ int main(void)
       const [status, kp, ki, kd] = line.split(' ').map(Number);
       return { status, kp, ki, kd };
     });
+}
+
+/** The set-point weights and feed-forward the C lookup gives, in struct order, at finite speeds. */
+function runCExtras(header: string, speeds: readonly number[]): number[][] {
+  const dir = mkdtempSync(join(tmpdir(), 'speedband-c-'));
+  writeFileSync(join(dir, 'schedule.h'), header);
+  writeFileSync(
+    join(dir, 'main.c'),
+    `#include <stdio.h>
+#include "schedule.h"
+int main(void)
+{
+  double v;
+  while (scanf("%lf", &v) == 1) {
+    speedband_schedule_gains g;
+    (void)speedband_schedule_lookup(v, &g);
+    printf("%.17g %.17g %.17g %.17g\\n", g.setpoint_weight_p, g.setpoint_weight_d, g.feed_forward, g.feed_forward_lead_time_s);
+  }
+  return 0;
+}
+`,
+  );
+  execFileSync('gcc', [...GCC_FLAGS, '-o', join(dir, 'lookup'), join(dir, 'main.c')], { cwd: dir });
+  return execFileSync(join(dir, 'lookup'), { input: speeds.map((v) => v.toPrecision(17)).join('\n'), encoding: 'utf8' })
+    .trim()
+    .split('\n')
+    .map((line) => line.split(' ').map(Number));
 }
 
 /** Compile a fixed-point header with -mgeneral-regs-only (any floating point is then a compile error) and run its integer lookup. */
@@ -126,6 +152,24 @@ describe('exportC(schedule)', () => {
       schedule.breakpoints.forEach((row, k) => expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual({ kp: row.kp, ki: row.ki, kd: row.kd }));
     });
   }
+
+  it('returns the set-point weights, feed-forward gain and lead time interpolated exactly as scheduleExtrasLookup does (monotone cubic and linear)', () => {
+    for (const interpolation of ['monotone-cubic', 'linear'] as const) {
+      const schedule = sampleSchedule({ interpolation });
+      const speeds = speedsFor(schedule);
+      const fromC = runCExtras(exportC(schedule).text, speeds);
+      const lookup = scheduleExtrasLookup(schedule);
+      speeds.forEach((speed, i) => {
+        const expected = lookup(speed);
+        const ordered = [expected.setpointWeightProportional, expected.setpointWeightDerivative, expected.feedForward, expected.feedForwardLeadTime_s];
+        ordered.forEach((value, j) => {
+          if (!close(fromC[i][j], value, C_AGREEMENT) && Math.abs(fromC[i][j] - value) > 1e-15) throw new Error(`field ${j} at ${speed} m/s: C ${fromC[i][j]}, TypeScript ${value}`);
+        });
+      });
+      // Exact table values at the breakpoints.
+      schedule.breakpoints.forEach((row, k) => expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual([row.setpointWeightProportional, row.setpointWeightDerivative, row.feedForward, row.feedForwardLeadTime_s]));
+    }
+  });
 
   for (const [request, interpolation] of [
     ['Q16.16', 'monotone-cubic'],
@@ -207,7 +251,9 @@ describe('exportC(schedule)', () => {
     expect(text).toMatch(/#ifndef SPEEDBAND_SCHEDULE_H/);
     expect(text).toMatch(/kp rad per m; ki rad per m\*s; kd rad per m\/s/);
     expect(text).toMatch(/Loop: path \(preview 4 m from the front-axle\)/);
-    expect(text).toMatch(/I\[k\] = clamp\(I\[k-1\] \+ ki\[k\]\*Ts\*e\[k\]/);
+    expect(text).toMatch(/I\[k\] = clamp\(I\[k-1\] \+ dI\[k\], -integratorClamp_rad - F\[k\]/);
+    expect(text).toMatch(/Feed-forward: F = kff\*w, w = the path curvature/);
+    expect(text).toMatch(/v\[k\] = F\[k\] \+ kp\[k\]\*\(b\[k\]\*r\[k\] - y\[k\]\) \+ I\[k\] \+ D\[k\]/);
     expect(text).toMatch(/closed track/);
     expect(text).toMatch(/IEEE 754 double/);
     expect(text).not.toMatch(/malloc|free\(/);
@@ -267,6 +313,7 @@ const DOCUMENTED_SYMBOLS = new Set([
   'speedband_schedule_kp_slope',
   'speedband_schedule_ki_slope',
   'speedband_schedule_kd_slope',
+  ...['setpoint_weight_p', 'setpoint_weight_d', 'feed_forward', 'feed_forward_lead_time_s'].flatMap((name) => [`speedband_schedule_${name}`, `speedband_schedule_${name}_slope`]),
   'speedband_schedule_segment',
   'speedband_schedule_lookup',
 ]);

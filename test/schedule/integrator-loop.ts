@@ -22,6 +22,8 @@ export function integratorLoopMargins(speed_mps: number, gains: PidGains): LoopM
   const phaseMargin_rad = Math.PI / 2 - k * theta;
   let peak = 0;
   let peakFrequency = 0;
+  let complementaryPeak = 0;
+  let complementaryFrequency = 0;
   for (let i = 0; i <= 400; i += 1) {
     const w = (k / 100) * Math.pow(10, (4 * i) / 400);
     const re = 1 + (k / w) * -Math.sin(w * theta);
@@ -30,6 +32,12 @@ export function integratorLoopMargins(speed_mps: number, gains: PidGains): LoopM
     if (s > peak) {
       peak = s;
       peakFrequency = w;
+    }
+    // |T| = |L|·|S|, |L| = k/ω.
+    const t = (k / w) * s;
+    if (t > complementaryPeak) {
+      complementaryPeak = t;
+      complementaryFrequency = w;
     }
   }
   const stable = k * theta < Math.PI / 2;
@@ -48,7 +56,7 @@ export function integratorLoopMargins(speed_mps: number, gains: PidGains): LoopM
     delayMarginFrequency_radps: stable ? k : null,
     sensitivityPeak: peak,
     sensitivityPeakFrequency_radps: peakFrequency,
-    complementarySensitivityPeak: Number.NaN,
-    complementarySensitivityPeakFrequency_radps: Number.NaN,
+    complementarySensitivityPeak: complementaryPeak,
+    complementarySensitivityPeakFrequency_radps: complementaryFrequency,
   };
 }

@@ -93,10 +93,30 @@ describe('plan file validation', () => {
       }),
     );
     const plan = readPlan(path);
-    expect(plan.loop).toEqual({ kind: 'path', preview_m: 3, referencePoint: 'front-axle' });
+    // A preview distance given: no preview time unless given too.
+    expect(plan.loop).toEqual({ kind: 'path', preview_m: 3, previewTime_s: 0, referencePoint: 'front-axle' });
     const ruleParametersAt = await makeRuleParameterLookup(plan.rule.parameters);
     expect(ruleParametersAt(6)).toEqual({ dampingRatio: 1, settlingDistance_m: 24 });
     expect(ruleParametersAt(1).settlingDistance_m).toBe(8);
     expect(ruleParametersAt(30).settlingDistance_m).toBe(40);
+  });
+});
+
+describe('defaults per loop kind', () => {
+  it('a plan naming no rule takes the loop kind\'s default rule and search; a path loop without a preview takes 0.5 m + 0.3 s × speed', () => {
+    expect(resolvePlan({}).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'rule-parameters' });
+    expect(resolvePlan({ loop: { kind: 'heading' } }).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'fastest-passing' });
+    const path = resolvePlan({ loop: { kind: 'path' } });
+    expect(path.rule).toEqual({ name: 'migo', parameters: {}, tuneFor: 'fastest-passing' });
+    expect(path.loop).toEqual({ kind: 'path', preview_m: 0.5, previewTime_s: 0.3, referencePoint: 'front-axle' });
+    // A rule named: as given, no search unless asked for.
+    expect(resolvePlan({ loop: { kind: 'path' }, rule: { name: 'damping-target' } }).rule.tuneFor).toBe('rule-parameters');
+    expect(resolvePlan({ rule: { name: 'imc-pid', tuneFor: 'fastest-passing' } }).rule.tuneFor).toBe('fastest-passing');
+  });
+
+  it('the new acceptance limits have their documented defaults', () => {
+    // Overshoot ≤ 25 % (common practice); 15 s, 0.5 m, 0.3 m (our targets); Mt ≤ 2 (see PLAN_DEFAULTS).
+    expect(resolvePlan({}).acceptance).toMatchObject({ maximumComplementarySensitivityPeak: 2, maximumOvershoot_pct: 25, maximumRecoveryTime_s: 15, maximumLaneChangeError_m: 0.5, maximumCurveEntryError_m: 0.3 });
+    expect(resolvePlan({}).controller.antiWindup).toBe('conditional-integration');
   });
 });

@@ -7,10 +7,25 @@ import { denseCheck } from '../../src/schedule/dense-check.js';
 import { checkGrid } from '../../src/schedule/grid.js';
 import { makeGainLookup } from '../../src/schedule/interpolate.js';
 import { planThresholds, resolvePlan, type PartialPlan } from '../../src/schedule/plan.js';
-import { assembleSchedule } from '../../src/schedule/schedule-file.js';
+import { assembleSchedule, type BreakpointExtras } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import type { GainTable } from '../../src/schedule/types.js';
 import { idealGains, integratorLoopMargins } from './integrator-loop.js';
+
+/**
+ * Set-point weights and feed-forward for a fixture table, distinct at every breakpoint so that a lookup of
+ * them is tested (synthetic numbers); no time-domain figures (the fixtures' loops are synthetic).
+ */
+export function fixtureExtras(speeds_mps: readonly number[]): BreakpointExtras[] {
+  return speeds_mps.map((v, k) => ({
+    setpointWeightProportional: 0.5 + 0.05 * k,
+    setpointWeightDerivative: k % 2 === 0 ? 0 : 0.1,
+    feedForward: 3.6 + 0.005 * v * v,
+    feedForwardLeadTime_s: 0.2 - 2 / (v + 1),
+    timeDomain: null,
+    timeDomainFailures: [],
+  }));
+}
 
 export function sampleSchedule(overrides: PartialPlan = {}): ScheduleFile {
   const plan = resolvePlan({
@@ -38,6 +53,8 @@ export function sampleSchedule(overrides: PartialPlan = {}): ScheduleFile {
     table,
     check,
     integratorClamp_rad: 0.6,
+    maxSteerRate_radps: 0.5,
+    breakpointExtras: fixtureExtras(speeds),
     inputs: [
       { file: '/data/logs/van-5mps.csv', sha256: sha256Hex('log 5'), role: 'log' },
       { file: 'plan.json', sha256: sha256Hex('plan'), role: 'plan' },

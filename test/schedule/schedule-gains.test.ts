@@ -6,6 +6,7 @@ import { resolvePlan } from '../../src/schedule/plan.js';
 import { assembleSchedule, readSchedule, writeSchedule } from '../../src/schedule/schedule-file.js';
 import { scheduleGains } from '../../src/schedule/schedule-gains.js';
 import { idealGains, integratorLoopMargins } from './integrator-loop.js';
+import { fixtureExtras } from './sample-schedule.js';
 
 describe('scheduleGains(plan, tuneAt, analyse) then assembleSchedule', () => {
   it('a plan with too few breakpoints is refined until the dense check passes; the file records the insertions', () => {
@@ -29,6 +30,8 @@ describe('scheduleGains(plan, tuneAt, analyse) then assembleSchedule', () => {
       check: result.check,
       insertions: result.insertions,
       integratorClamp_rad: 0.5,
+      maxSteerRate_radps: 0.5,
+      breakpointExtras: fixtureExtras(result.table.speeds_mps),
       inputs: [],
       modelSummary: {},
       modelDescription: 'synthetic test loop',

@@ -156,3 +156,22 @@ print(json.dumps({'phaseMargin_deg': 180 + np.degrees(np.angle(L(wc)))}))
     expect(() => dampingTarget({ integrators: 0, gain: 1, lags_s: [1], deadTime_s: 1 }, {}, { speed_mps: 1 })).toThrow(/double integrator/);
   });
 });
+
+describe('dampingTarget on an integrating design model (heading loop)', () => {
+  it("places the poles of s² + k'·kp·s + k'·ki at s² + 2ζωn s + ωn² (numpy.roots of the closed-loop polynomial)", () => {
+    const k = 1.7;
+    const model = { integrators: 1 as const, gain: k, lags_s: [0.1], deadTime_s: 0.05 };
+    const result = dampingTarget(model, { dampingRatio: 0.8, naturalFrequency_radps: 1.5 }, { speed_mps: 5 });
+    expect(result.gains.kd).toBe(0);
+    // Source: numpy.roots; expected poles −ζωn ± jωn√(1 − ζ²).
+    const roots = runPython<{ re: number[]; im: number[] }>(
+      `import json, sys, numpy as np
+d = json.load(sys.stdin)
+r = np.roots([1, d['k'] * d['kp'], d['k'] * d['ki']])
+print(json.dumps({'re': r.real.tolist(), 'im': sorted(r.imag.tolist())}))`,
+      { k, kp: result.gains.kp, ki: result.gains.ki },
+    );
+    for (const re of roots.re) expect(re).toBeCloseTo(-0.8 * 1.5, 10);
+    expect(roots.im[1]).toBeCloseTo(1.5 * Math.sqrt(1 - 0.64), 10);
+  });
+});

@@ -43,12 +43,14 @@ describe('rule registry', () => {
   });
 
   it('each rule declares its plant classes, and applicableRules agrees with them on a FOPDT', () => {
-    expect(TUNING_RULES.map((rule) => rule.name)).toEqual(['ziegler-nichols-step', 'ziegler-nichols-ultimate', 'imc-pid', 'simc', 'damping-target']);
+    expect(TUNING_RULES.map((rule) => rule.name)).toEqual(['ziegler-nichols-step', 'ziegler-nichols-ultimate', 'imc-pid', 'simc', 'damping-target', 'amigo', 'migo']);
+    // MIGO optimises on the full loop, which a design model alone does not give: it applies through tuneOperatingPoint.
     expect(applicableRules({ integrators: 0, gain: 1, lags_s: [3], deadTime_s: 1 }, {}, { speed_mps: 5 })).toEqual([
       'ziegler-nichols-step',
       'ziegler-nichols-ultimate',
       'imc-pid',
       'simc',
+      'amigo',
     ]);
   });
 

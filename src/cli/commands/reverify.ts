@@ -49,6 +49,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           passed: result.passed,
           nominalPassed: result.check.passed,
           variations: result.variations?.record ?? null,
+          timeDomainFailures: result.timeDomainFailures,
           model: { kind: model.kind, description: model.description },
           gridSize: result.check.points.length,
           failedSpeeds: result.check.failedCount,
@@ -71,9 +72,11 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       const speeds = edited.breakpoints.map((row) => row.speed_mps);
       text += `\n${formatVariations(result.variations.record, nominalAtBreakpoints(result.check, speeds), edited.check.thresholds)}\n`;
     }
+    for (const failure of result.timeDomainFailures) text += `  time domain at ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}\n`;
+    const failedWhat = !result.check.passed ? 'its dense check' : result.timeDomainFailures.length > 0 ? 'its time-domain limits' : 'the worst case over its variations (robust acceptance)';
     text +=
       result.schedule === null
-        ? `Nothing written: the edited schedule fails ${result.check.passed ? 'the worst case over its variations (robust acceptance)' : 'its dense check'} (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n`
+        ? `Nothing written: the edited schedule fails ${failedWhat} (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n`
         : `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}: re-verified, margins and status from this check, provenance records the hand edit, ` +
           `checksum ${result.schedule.checksum.value.slice(0, 16)}…\n`;
     text += formatCautions();

@@ -38,6 +38,7 @@ export const command: CommandModule = {
       .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'], default: 'yaw-rate', describe: 'The loop the firmware closes' })
       .option('speed-mps', { type: 'number', demandOption: true, describe: 'Forward speed of the operating point, m/s' })
       .option('preview-m', { type: 'number', default: 0, describe: 'Path loop: preview distance ahead of the reference point, m' })
+      .option('preview-time-s', { type: 'number', default: 0, describe: 'Path loop: preview time, s — the preview is preview-m + preview-time-s × speed' })
       .option('reference-point', { type: 'string', choices: ['cg', 'front-axle'], default: 'cg', describe: 'Path loop: where the preview distance is measured from (front-axle needs --vehicle)' })
       .option('gain', { type: 'number', describe: 'FOPDT steady yaw-rate gain K, (rad/s)/rad' })
       .option('time-constant-s', { type: 'number', describe: 'FOPDT time constant T, s' })
@@ -54,6 +55,8 @@ export const command: CommandModule = {
       .option('natural-frequency-radps', { type: 'number', describe: `Damping target ωn, rad/s (default: from --settling-distance-m, else ωn·θ_eff = ${TUNING_DEFAULTS.defaultBandwidthDelayProduct})` })
       .option('settling-distance-m', { type: 'number', describe: 'Damping target settling distance D, m: ωn = 4·v/(ζ·D)' })
       .option('integral-pole-ratio', { type: 'number', describe: `Damping target ωn/p (default ${TUNING_DEFAULTS.integralPoleRatio})` })
+      .option('sensitivity-peak-target', { type: 'number', describe: `MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default ${TUNING_DEFAULTS.sensitivityPeakTarget})` })
+      .option('phase-margin-target-deg', { type: 'number', describe: 'MIGO: also keep the phase margin at least this, degrees (no default)' })
       .option('sample-time-s', { type: 'number', describe: `Controller sample time Ts, s (default, as build: the vehicle file's controllerSampleTime_s, else ${CONTROLLER_DEFAULTS.sampleTime_s})` })
       .option('latency-s', { type: 'number', describe: 'Computation latency from sample to steer command, s (default, as build: one sample, Ts)' })
       .option('derivative-filter', { type: 'number', describe: `Derivative filter factor N: Tf = (kd/kp)/N (default ${CONTROLLER_DEFAULTS.derivativeFilter}, as build)` })
@@ -73,6 +76,7 @@ export const command: CommandModule = {
     ['speedband tune --rule simc --loop yaw-rate --speed-mps 8 --gain 2.4 --time-constant-s 0.12 --dead-time-s 0.07', 'SIMC PI for a yaw-rate loop from an identified FOPDT'],
     ['speedband tune --rule damping-target --loop path --preview-m 2 --reference-point front-axle --speed-mps 10 --settling-distance-m 100 --vehicle vehicles/parcel-van', 'Path loop with 2 m preview from the front axle, settling within 100 m, on the single-track model'],
     ['speedband tune --rule ziegler-nichols-ultimate --controller-type PI --loop heading --speed-mps 2 --vehicle vehicles/vineyard-sprayer --json', 'Ziegler–Nichols PI for a heading loop, machine-readable'],
+    ['speedband tune --rule migo --loop path --preview-m 0.5 --preview-time-s 0.3 --reference-point front-axle --speed-mps 12 --sensitivity-peak-target 1.6 --vehicle vehicles/parcel-van', 'MIGO: the largest integral gain with Ms and Mt ≤ 1.6 on the sampled path loop'],
   ],
   run: async (args, io) => {
     const { tuneOperatingPoint } = await import('../../tuning/operating-point.js');
@@ -127,7 +131,7 @@ export const command: CommandModule = {
     );
     const ruleParameters = ruleParametersFromOptions(args, String(args.rule));
     const request = {
-      loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
+      loop: { kind: args.loop as 'yaw-rate' | 'heading' | 'path', preview_m: numberOption(args, 'preview-m') ?? 0, previewTime_s: numberOption(args, 'preview-time-s') ?? 0, referencePoint: args['reference-point'] as 'cg' | 'front-axle' },
       speed_mps,
       model,
       rule: String(args.rule),
@@ -196,6 +200,8 @@ const PARAMETER_OPTIONS: Readonly<Record<RuleParameterName, string>> = {
   naturalFrequency_radps: '--natural-frequency-radps',
   settlingDistance_m: '--settling-distance-m',
   integralPoleRatio: '--integral-pole-ratio',
+  sensitivityPeakTarget: '--sensitivity-peak-target',
+  phaseMarginTarget_deg: '--phase-margin-target-deg',
 };
 
 /**
@@ -213,6 +219,8 @@ function ruleParametersFromOptions(args: Record<string, unknown>, ruleName: stri
     ...optionalNumber('naturalFrequency_radps', numberOption(args, 'natural-frequency-radps')),
     ...optionalNumber('settlingDistance_m', numberOption(args, 'settling-distance-m')),
     ...optionalNumber('integralPoleRatio', numberOption(args, 'integral-pole-ratio')),
+    ...optionalNumber('sensitivityPeakTarget', numberOption(args, 'sensitivity-peak-target')),
+    ...optionalNumber('phaseMarginTarget_deg', numberOption(args, 'phase-margin-target-deg')),
   };
   const notTaken = parametersNotTaken(rule, Object.keys(given));
   if (notTaken.length > 0) {

@@ -1,0 +1,145 @@
+/**
+ * The closed loop with the steering actuator's limits: THE controller equation (firmware-step.ts, with its
+ * command limit and anti-windup) sampling the loop output, the command passing the computation latency and
+ * the actuator delay, and the actuator — a first-order position loop whose rate is limited,
+ * δ̇ = clamp((c − δ)/τa, ±δ̇max), c the delayed command clamped to ±δmax — driving the linear vehicle and loop
+ * (src/loops). As in the open-loop simulator (src/vehicle/simulate.ts): with c held, the actuator ramps at
+ * ±δ̇max until |c − δ| = τa·δ̇max and then approaches c exponentially, the switching instant is known in
+ * closed form, and each piece is integrated exactly with the matrix exponential of the state [x, δ] — so
+ * the response is exact at every sample, saturation included. What a rate limit does to a loop (a phase lag
+ * growing with amplitude; limit cycles, Gelb & Vander Velde 1968) shows here and in no linear figure.
+ */
+import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
+import { matrixExponential } from '../lti/matrix-exponential.js';
+import { controllableCanonicalForm } from '../lti/state-space.js';
+import type { TransferFunction } from '../lti/types.js';
+import { splitDelay } from '../verify/sampled-plant.js';
+
+export interface LimitedLoopInput {
+  /** Road-wheel angle → loop output, without actuator or delay (strictly proper). */
+  readonly vehicle: TransferFunction;
+  /** Actuator lag τa (s) and command delay (actuator delay + computation latency, s). */
+  readonly actuator: { readonly lag_s: number; readonly delay_s: number };
+  readonly maxSteerAngle_rad: number;
+  readonly maxSteerRate_radps: number;
+  readonly gains: FirmwareGains;
+  /** The controller; its commandLimit_rad and integratorClamp_rad are what the firmware clamps to. */
+  readonly settings: FirmwareSettings;
+  readonly reference: Float64Array;
+  readonly feedForwardInput?: Float64Array;
+}
+
+export interface LimitedLoopSimulation {
+  readonly output: Float64Array;
+  readonly error: Float64Array;
+  readonly command: Float64Array;
+  /** Road-wheel angle at each sample, rad. */
+  readonly steerAngle: Float64Array;
+}
+
+interface Piece {
+  readonly phi: Float64Array;
+  readonly gamma: Float64Array;
+}
+
+export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulation {
+  const model = controllableCanonicalForm(input.vehicle);
+  const n = model.inputVector.length;
+  const size = n + 1;
+  const ts = input.settings.sampleTime_s;
+  const lag = input.actuator.lag_s < 1e-6 * ts ? 0 : input.actuator.lag_s;
+  const rate = input.maxSteerRate_radps;
+  const angleLimit = input.maxSteerAngle_rad;
+  // ż = F z + g w: tracking the command through the lag (w = c) or a wheel angle moving at a fixed rate (w = δ̇).
+  const free: number[][] = Array.from({ length: size }, (_, i) =>
+    Array.from({ length: size }, (_, j) => (i < n ? (j < n ? model.stateMatrix[i][j] : model.inputVector[i]) : 0)),
+  );
+  const track = free.map((row, i) => (i === n && lag > 0 ? row.map((_, j) => (j === n ? -1 / lag : 0)) : row));
+  const trackInput = Array.from({ length: size }, (_, i) => (i === n && lag > 0 ? 1 / lag : 0));
+  const rateInput = Array.from({ length: size }, (_, i) => (i === n ? 1 : 0));
+  const { wholeSamples, fraction_s } = splitDelay(input.actuator.delay_s, ts);
+  const standard = new Set([ts, fraction_s, ts - fraction_s]);
+  const cache = new Map<string, Piece>();
+  const piece = (kind: 'track' | 'free', h: number): Piece => {
+    const key = `${kind}:${h}`;
+    const cached = cache.get(key);
+    if (cached !== undefined) return cached;
+    const f = kind === 'track' ? track : free;
+    const g = kind === 'track' ? trackInput : rateInput;
+    const augmented = Array.from({ length: size + 1 }, (_, i) => Array.from({ length: size + 1 }, (_, j) => (i < size ? (j < size ? f[i][j] * h : g[i] * h) : 0)));
+    const e = matrixExponential(augmented);
+    const result = { phi: Float64Array.from(e.slice(0, size).flatMap((row) => row.slice(0, size))), gamma: Float64Array.from(e.slice(0, size).map((row) => row[size])) };
+    if (standard.has(h)) cache.set(key, result);
+    return result;
+  };
+  const z = new Float64Array(size);
+  const next = new Float64Array(size);
+  const apply = (p: Piece, w: number): void => {
+    for (let i = 0; i < size; i++) {
+      let sum = p.gamma[i] * w;
+      for (let j = 0; j < size; j++) sum += p.phi[i * size + j] * z[j];
+      next[i] = sum;
+    }
+    z.set(next);
+  };
+  /** Advance h seconds with the delayed, angle-limited command c held. */
+  const advance = (c: number, h: number): void => {
+    if (h <= 0) return;
+    const error = c - z[n];
+    const direction = Math.sign(error);
+    if (lag > 0) {
+      const band = rate * lag;
+      let remaining = h;
+      if (Math.abs(error) > band) {
+        const ramp = (Math.abs(error) - band) / rate;
+        if (ramp >= remaining) {
+          apply(piece('free', remaining), direction * rate);
+          return;
+        }
+        apply(piece('free', ramp), direction * rate);
+        z[n] = c - direction * band;
+        remaining -= ramp;
+      }
+      apply(piece('track', remaining), c);
+      return;
+    }
+    if (error !== 0 && !Number.isFinite(rate)) z[n] = c;
+    if (z[n] === c) {
+      apply(piece('free', h), 0);
+      return;
+    }
+    const ramp = Math.abs(error) / rate;
+    if (ramp >= h) {
+      apply(piece('free', h), direction * rate);
+      return;
+    }
+    apply(piece('free', ramp), direction * rate);
+    z[n] = c;
+    apply(piece('free', h - ramp), 0);
+  };
+  const count = input.reference.length;
+  const output = new Float64Array(count);
+  const error = new Float64Array(count);
+  const command = new Float64Array(count);
+  const steerAngle = new Float64Array(count);
+  const delayed = (j: number): number => (j < 0 ? 0 : Math.min(angleLimit, Math.max(-angleLimit, command[j])));
+  let state = initialFirmwareState();
+  for (let k = 0; k < count; k++) {
+    let y = model.feedthrough * z[n];
+    for (let j = 0; j < n; j++) y += model.outputVector[j] * z[j];
+    output[k] = y;
+    error[k] = input.reference[k] - y;
+    steerAngle[k] = z[n];
+    const step = firmwareStep(input.gains, input.settings, state, { reference: input.reference[k], measurement: y, feedForwardInput: input.feedForwardInput?.[k] ?? 0 });
+    state = step.state;
+    command[k] = step.command;
+    // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.
+    if (fraction_s > 0) {
+      advance(delayed(k - wholeSamples - 1), fraction_s);
+      advance(delayed(k - wholeSamples), ts - fraction_s);
+    } else {
+      advance(delayed(k - wholeSamples), ts);
+    }
+  }
+  return { output, error, command, steerAngle };
+}

@@ -1,0 +1,229 @@
+/**
+ * The loop a rule may tune on directly, as the firmware runs it: the continuous loop plant (actuator,
+ * vehicle and loop integrators, its delay including the computation latency, without the Ts/2 that the
+ * design model uses for the hold) under the discrete PID at its sample time. `fullLoopResponse`
+ * evaluates what the robustness constraints need on a frequency grid: the plant's exact pulse
+ * frequency response G(e^(jωTs)) (zero-order-hold equivalent with its fractional delay,
+ * src/verify/sampled-plant.ts) and, per candidate gains, C(e^(jωTs)) of discretePidCoefficients.
+ */
+import { discretePidCoefficients } from '../controller/discrete.js';
+import type { ControllerSettings, PidGains } from '../controller/types.js';
+import type { TransferFunction } from '../lti/types.js';
+import { pulseTransferFunction } from '../verify/pulse-transfer-function.js';
+import { sampledPlant } from '../verify/sampled-plant.js';
+import { plantPoleCounts } from '../verify/pole-counts.js';
+import { analysisRoots } from '../verify/small-roots.js';
+
+/** The full loop at one operating point. */
+export interface FullLoop {
+  /** Steer command → loop output, delay = vehicle and actuator delay + computation latency, s (no Ts/2). */
+  readonly plant: TransferFunction;
+  readonly controller: ControllerSettings;
+}
+
+/** The plant's pulse frequency response on a grid, and the grid. */
+export interface FullLoopResponse {
+  readonly frequency_radps: Float64Array;
+  readonly plantRe: Float64Array;
+  readonly plantIm: Float64Array;
+  /** cos and sin of ωTs and 2ωTs, for evaluating C(e^(jωTs)) quickly. */
+  readonly cos1: Float64Array;
+  readonly sin1: Float64Array;
+  readonly cos2: Float64Array;
+  readonly sin2: Float64Array;
+  readonly controller: ControllerSettings;
+  /** Poles of the plant at s = 0 (z = 1): integrators of the loop besides the controller's. */
+  readonly plantIntegrators: number;
+  /** Poles of the plant in the open right half-plane (outside the unit circle once sampled). */
+  readonly plantUnstablePoles: number;
+}
+
+/** Logarithmic grid points per decade (a 5.9 % spacing; the peaks of |S| and |T| are broad at that scale, and a design found on the grid is confirmed by the exact analysis). */
+const POINTS_PER_DECADE = 40;
+/**
+ * The Nyquist count on the grid needs the loop's low-frequency asymptote K/(z − 1)^q at the grid's lowest
+ * frequency: the plant's corners lie above it by construction (fullLoopResponse), the PI zero ki/kp must lie
+ * this factor above it.
+ */
+export const CORNER_ABOVE_LOWEST = 30;
+/** Largest change of the delay's phase between neighbouring grid points, rad: the Nyquist curve is followed without ambiguity. */
+const DELAY_PHASE_STEP_rad = 0.25;
+
+/**
+ * G(e^(jωTs)) on a grid from `lowest_radps` to just below the Nyquist frequency π/Ts: logarithmic, and
+ * at most DELAY_PHASE_STEP_rad of delay phase (ℓ + 3 samples of it) between points, so that the turn of
+ * 1 + L can be followed from point to point. Horner's rule on B(z) and A(z)·z^(ℓ+1) of `pulseTransferFunction`.
+ */
+export function fullLoopResponse(loop: FullLoop, lowest_radps: number): FullLoopResponse {
+  const ts = loop.controller.sampleTime_s;
+  const sampled = sampledPlant(loop.plant, ts);
+  const pulse = pulseTransferFunction(sampled);
+  const poles = plantPoleCounts(loop.plant.denominator);
+  const highest = Math.PI / ts;
+  // Below every corner of the plant (its non-zero poles and zeros) by CORNER_ABOVE_LOWEST, so the low end shows the asymptote.
+  let corner = Number.POSITIVE_INFINITY;
+  for (const root of [...poles.poles, ...(loop.plant.numerator.length > 1 ? analysisRoots(loop.plant.numerator) : [])]) {
+    const size = Math.hypot(root.re, root.im);
+    if (size > 0) corner = Math.min(corner, size);
+  }
+  const low = Math.max(1e-6, Math.min(lowest_radps, highest / 10, corner / CORNER_ABOVE_LOWEST));
+  const delaySamples = sampled.wholeSampleDelay + 1;
+  const linearStep = DELAY_PHASE_STEP_rad / ((delaySamples + 2) * ts);
+  const frequencies: number[] = [];
+  const logCount = Math.ceil(Math.log10(highest / low) * POINTS_PER_DECADE);
+  for (let i = 0; i <= logCount; i++) {
+    const omega = low * Math.pow(highest / low, i / logCount);
+    const previous = frequencies[frequencies.length - 1];
+    if (previous !== undefined && omega - previous > linearStep) {
+      for (let w = previous + linearStep; w < highest; w += linearStep) frequencies.push(w);
+      break;
+    }
+    frequencies.push(omega);
+  }
+  // The last point sits just below π/Ts (at π/Ts a controller pole at z = −1 would divide by zero).
+  frequencies.push(highest * (1 - 1e-9));
+  const count = frequencies.length;
+  const frequency = Float64Array.from(frequencies);
+  const plantRe = new Float64Array(count);
+  const plantIm = new Float64Array(count);
+  const cos1 = new Float64Array(count);
+  const sin1 = new Float64Array(count);
+  const cos2 = new Float64Array(count);
+  const sin2 = new Float64Array(count);
+  for (let i = 0; i < count; i++) {
+    const angle = frequency[i] * ts;
+    const zr = Math.cos(angle);
+    const zi = Math.sin(angle);
+    const [br, bi] = horner(pulse.numerator, zr, zi);
+    const [ar, ai] = horner(pulse.denominator, zr, zi);
+    // z^(ℓ+1) = e^(j(ℓ+1)ωTs)
+    const dr = Math.cos(delaySamples * angle);
+    const di = Math.sin(delaySamples * angle);
+    const denRe = ar * dr - ai * di;
+    const denIm = ar * di + ai * dr;
+    const scale = denRe * denRe + denIm * denIm;
+    plantRe[i] = (br * denRe + bi * denIm) / scale;
+    plantIm[i] = (bi * denRe - br * denIm) / scale;
+    cos1[i] = zr;
+    sin1[i] = zi;
+    cos2[i] = Math.cos(2 * angle);
+    sin2[i] = Math.sin(2 * angle);
+  }
+  return {
+    frequency_radps: frequency,
+    plantRe,
+    plantIm,
+    cos1,
+    sin1,
+    cos2,
+    sin2,
+    controller: loop.controller,
+    plantIntegrators: poles.originPoles,
+    plantUnstablePoles: poles.rightHalfPlanePoles,
+  };
+}
+
+function horner(coefficients: readonly number[], zr: number, zi: number): [number, number] {
+  let re = 0;
+  let im = 0;
+  for (const c of coefficients) {
+    const nextRe = re * zr - im * zi + c;
+    im = re * zi + im * zr;
+    re = nextRe;
+  }
+  return [re, im];
+}
+
+/** Bounds on the sensitivity peaks. */
+export interface SensitivityBounds {
+  /** Ms: |S| = |1/(1 + L)| must stay at or below this. */
+  readonly sensitivity: number;
+  /** Mt: |T| = |L/(1 + L)| must stay at or below this. */
+  readonly complementary: number;
+  /** Optional: at every gain crossover (|L| = 1, interpolated between grid points) L stays at least this far from −1 in phase, degrees. */
+  readonly phaseMargin_deg?: number;
+}
+
+/** What the grid says of one set of gains. */
+export interface GridLoopCheck {
+  readonly sensitivity: number;
+  readonly complementary: number;
+  /**
+   * The Nyquist count on the grid (Z = P − Δarg(1 + L)/2π over the unit circle, indented outside z = 1 round
+   * the q integrators, which turn 1 + L by −qπ there): true when no closed-loop pole lies outside the unit
+   * circle. False also when a step of the curve is too long to follow (it could pass round −1).
+   */
+  readonly stable: boolean;
+  /** Every bound kept and stable. */
+  readonly feasible: boolean;
+}
+
+/**
+ * The peaks of |S| = |1/(1 + L)| and |T| = |L/(1 + L)| on the grid for the discrete PID with these gains,
+ * and the Nyquist count; with `bounds`, stops at the first frequency that breaks one (feasible false).
+ */
+export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bounds?: SensitivityBounds): GridLoopCheck {
+  const stopS = bounds?.sensitivity ?? Number.POSITIVE_INFINITY;
+  const stopT = bounds?.complementary ?? Number.POSITIVE_INFINITY;
+  const { numerator: b, denominator: a } = discretePidCoefficients(gains, response.controller);
+  const b0 = b[0];
+  const b1 = b[1] ?? 0;
+  const b2 = b[2] ?? 0;
+  const a0 = a[0];
+  const a1 = a[1] ?? 0;
+  const a2 = a[2] ?? 0;
+  const { plantRe, plantIm, cos1, sin1, cos2, sin2 } = response;
+  let sensitivity = 0;
+  let complementary = 0;
+  let turn = 0;
+  let previousRe = Number.NaN;
+  let previousIm = Number.NaN;
+  let previousMagnitude = Number.NaN;
+  let followed = true;
+  const minimumPhase_rad = ((bounds?.phaseMargin_deg ?? 0) * Math.PI) / 180;
+  for (let i = 0; i < plantRe.length; i++) {
+    // z⁻¹ = cos − j·sin
+    const nRe = b0 + b1 * cos1[i] + b2 * cos2[i];
+    const nIm = -b1 * sin1[i] - b2 * sin2[i];
+    const dRe = a0 + a1 * cos1[i] + a2 * cos2[i];
+    const dIm = -a1 * sin1[i] - a2 * sin2[i];
+    const d2 = dRe * dRe + dIm * dIm;
+    const cRe = (nRe * dRe + nIm * dIm) / d2;
+    const cIm = (nIm * dRe - nRe * dIm) / d2;
+    const lRe = cRe * plantRe[i] - cIm * plantIm[i];
+    const lIm = cRe * plantIm[i] + cIm * plantRe[i];
+    const re = 1 + lRe;
+    const im = lIm;
+    const onePlus = Math.hypot(re, im);
+    const s = 1 / onePlus;
+    const t = Math.hypot(lRe, lIm) / onePlus;
+    if (s > sensitivity) sensitivity = s;
+    if (t > complementary) complementary = t;
+    if (sensitivity > stopS || complementary > stopT) return { sensitivity, complementary, stable: false, feasible: false };
+    const magnitude = Math.hypot(lRe, lIm);
+    if (minimumPhase_rad > 0 && i > 0 && (previousMagnitude - 1) * (magnitude - 1) <= 0) {
+      // A gain crossover between the two points: L there by linear interpolation in |L|; its phase distance from −1.
+      const t = previousMagnitude === magnitude ? 0 : (previousMagnitude - 1) / (previousMagnitude - magnitude);
+      const crossRe = previousRe - 1 + t * (lRe - (previousRe - 1));
+      const crossIm = previousIm + t * (lIm - previousIm);
+      if (Math.PI - Math.abs(Math.atan2(crossIm, crossRe)) < minimumPhase_rad) return { sensitivity, complementary, stable: false, feasible: false };
+    }
+    previousMagnitude = magnitude;
+    if (i > 0) {
+      // The chord from the last point must not reach −1 (|ΔL| below both distances to −1): then the turn is that of the chord.
+      const stepLength = Math.hypot(re - previousRe, im - previousIm);
+      if (!(stepLength < Math.min(onePlus, Math.hypot(previousRe, previousIm)))) followed = false;
+      turn += Math.atan2(previousRe * im - previousIm * re, previousRe * re + previousIm * im);
+    }
+    previousRe = re;
+    previousIm = im;
+  }
+  // The count assumes the low end of the grid is below every corner of the loop: the controller's too.
+  if (gains.ki !== 0 && Math.abs(gains.ki) < CORNER_ABOVE_LOWEST * response.frequency_radps[0] * Math.abs(gains.kp)) followed = false;
+  const integrators = response.plantIntegrators + (gains.ki !== 0 ? 1 : 0);
+  const total = 2 * turn - integrators * Math.PI;
+  const outside = response.plantUnstablePoles - total / (2 * Math.PI);
+  const stable = followed && Math.abs(outside) < 0.25;
+  const feasible = stable && sensitivity <= stopS && complementary <= stopT;
+  return { sensitivity, complementary, stable, feasible };
+}
