@@ -23,6 +23,9 @@ import type { PlanVariations } from '../schedule/plan-variations.js';
 import { makeGainLookup } from '../schedule/interpolate.js';
 import { resolveVariationSet } from '../robust/variation-set.js';
 import { robustScheduleCheck, type RobustScheduleCheck } from './robust-schedule-check.js';
+import { breakpointControl, type TimeDomainSettings } from './robust-time-domain.js';
+import type { RobustContext } from './robust-analysis.js';
+import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
 import type { RefineResult } from '../schedule/refine.js';
 import { assembleSchedule } from '../schedule/schedule-file.js';
 import { makeRuleParameterLookup } from '../schedule/rule-parameters.js';
@@ -169,6 +172,22 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const evaluate = makeBreakpointEvaluator(evaluatorInput);
   const roomy = limitsWithRoom(thresholds, plan.acceptance);
   const evaluateWithRoom = makeBreakpointEvaluator({ ...evaluatorInput, ...roomy, skipFiguresWhenMarginsFail: true });
+  // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
+  const robustContext: RobustContext | undefined =
+    plan.variations === undefined
+      ? undefined
+      : {
+          model: checkModel,
+          loop,
+          controller,
+          set: resolveVariationSet(plan.variations, checkModel.summary, plan.variations.fromIdentification ? models : null, input.planFile),
+          search: plan.variations.search,
+        };
+  const timeDomainSettings: TimeDomainSettings = { limits: plan.acceptance, vehicleLimits: evaluatorInput.vehicleLimits, antiWindup: plan.controller.antiWindup };
+  const searchOnWorstCase = searching && plan.rule.searchOn === 'worst-case' && robustContext !== undefined;
+  const searchEvaluate = searchOnWorstCase
+    ? makeWorstCaseEvaluator({ nominal: evaluateWithRoom, context: robustContext, thresholds: roomy.thresholds, timeDomain: timeDomainSettings })
+    : evaluateWithRoom;
   type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
   const tuneCache = new Map<number, Tuned>();
   const tuneWith = (speed_mps: number, ruleParameters: RuleParameters, startGains?: PidGains): TunedOperatingPoint =>
@@ -184,7 +203,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
             speed_mps,
             parameters: ruleParametersAt(speed_mps),
             tune: (parameters, startGains) => tuneWith(speed_mps, parameters, startGains),
-            evaluate: (gains) => evaluateWithRoom(speed_mps, gains),
+            evaluate: (gains) => searchEvaluate(speed_mps, gains),
             sensitivityLimits: { sensitivity: roomy.thresholds.maximumSensitivityPeak, complementary: roomy.thresholds.maximumComplementarySensitivityPeak },
             phaseMarginLimit_deg: roomy.thresholds.minimumPhaseMargin_deg,
           });
@@ -205,7 +224,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
       progress(`${event.stage}: ${event.done}/${event.total} speeds${event.note === undefined ? '' : ` — ${event.note}`}\n`);
     }
   };
-  progress(`tune and check: ${plan.rule.name}${searching ? ' (fastest passing)' : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
+  progress(`tune and check: ${plan.rule.name}${searching ? ` (fastest passing${searchOnWorstCase ? ' in the worst case over the variations' : ''})` : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
   const refinement = scheduleGains({ plan, tuneAt, analyse, onProgress });
   const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
   const tuned = entries.map((entry) => entry.tuned);
@@ -220,9 +239,9 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   }));
   const searchAtBreakpoints = searching ? entries.map((entry) => entry.search as ScheduleSearchAt) : undefined;
   const robust =
-    plan.variations === undefined
+    plan.variations === undefined || robustContext === undefined
       ? undefined
-      : await checkOverVariations({ plan, variations: plan.variations, checkModel, models, refinement, planFile: input.planFile, onProgress, progress });
+      : await checkOverVariations({ plan, variations: plan.variations, context: robustContext, refinement, breakpointExtras, timeDomain: timeDomainSettings, onProgress, progress });
 
   const inputs = [
     { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
@@ -265,31 +284,30 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
 interface OverVariationsInput {
   readonly plan: Plan;
   readonly variations: PlanVariations;
-  readonly checkModel: CheckModel;
-  readonly models: ModelsFile;
+  readonly context: RobustContext;
   readonly refinement: RefineResult;
-  readonly planFile: string | undefined;
+  readonly breakpointExtras: readonly BreakpointExtras[];
+  readonly timeDomain: TimeDomainSettings;
   readonly onProgress: ProgressCallback;
   readonly progress: (text: string) => void;
 }
 
-/** The final table's robust check over the plan's variations, on the nominal check's grid (every core). */
+/** The final table's robust check over the plan's variations, on the nominal check's grid (every core), with the worst time-domain figures at its breakpoints. */
 async function checkOverVariations(input: OverVariationsInput): Promise<RobustScheduleCheck> {
-  const { plan, variations, checkModel, refinement } = input;
-  const { loop, controller } = planLoopAndController(plan);
-  const set = resolveVariationSet(variations, checkModel.summary, variations.fromIdentification ? input.models : null, input.planFile);
-  input.progress(`worst case over the variations: ${set.dimensions.length} varied parameters, ${refinement.check.points.length} speeds\n`);
+  const { plan, variations, context, refinement } = input;
+  input.progress(`worst case over the variations: ${context.set.dimensions.length} varied parameters, ${refinement.check.points.length} speeds\n`);
   return robustScheduleCheck({
     acceptance: variations.acceptance,
-    model: checkModel,
-    loop,
-    controller,
-    set,
-    search: variations.search,
+    model: context.model,
+    loop: context.loop,
+    controller: context.controller,
+    set: context.set,
+    search: context.search,
     thresholds: planThresholds(plan),
     grid: refinement.check.points.map((point) => point.speed_mps),
     gainsAt: makeGainLookup(refinement.table, { interpolation: plan.interpolation, lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps }),
     breakpointSpeeds: refinement.table.speeds_mps,
+    timeDomain: { ...input.timeDomain, breakpoints: refinement.table.speeds_mps.map((speed_mps, k) => breakpointControl(speed_mps, refinement.table.gains[k], input.breakpointExtras[k])) },
     onProgress: input.onProgress,
   });
 }

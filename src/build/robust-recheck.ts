@@ -11,6 +11,7 @@ import type { GainsAtSpeed, ProgressCallback } from '../schedule/types.js';
 import type { CheckModel } from './check-model.js';
 import { scheduleLoopAndController } from './recheck-schedule.js';
 import { robustScheduleCheck, type RobustScheduleCheck } from './robust-schedule-check.js';
+import { breakpointControl } from './robust-time-domain.js';
 
 export interface RobustRecheckInput {
   readonly schedule: ScheduleFile;
@@ -50,6 +51,17 @@ export async function recheckOverVariations(input: RobustRecheckInput): Promise<
     grid: checkGrid(breakpointSpeeds, schedule.check.range, schedule.check.gridSpeeds),
     gainsAt: input.gainsAt ?? scheduleLookup(schedule),
     breakpointSpeeds,
+    // The time-domain figures over the set need the breakpoints' own set-point weights and feed-forward: the schedule's gains only.
+    ...(input.gainsAt !== undefined
+      ? {}
+      : {
+          timeDomain: {
+            limits: schedule.check.timeDomain.limits,
+            vehicleLimits: schedule.check.timeDomain.steeringLimits,
+            antiWindup: schedule.controller.antiWindup,
+            breakpoints: schedule.breakpoints.map((row) => breakpointControl(row.speed_mps, row, row)),
+          },
+        }),
     ...(input.workers === undefined ? {} : { workers: input.workers }),
     ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }),
   });

@@ -9,7 +9,8 @@ import { changeWords, combinationWords, parameterWords } from '../robust/combina
 import { ROBUST_FIGURES } from '../robust/figures.js';
 import { judgeRobust } from '../robust/robust-check.js';
 import { ALL_CORNERS_UP_TO_DIMENSIONS } from '../robust/search-points.js';
-import type { RobustFigure, RobustMargins, VariationDimension, VariationSet } from '../robust/types.js';
+import { TIME_DOMAIN_FIGURES } from '../robust/time-domain.js';
+import type { RobustFigure, RobustMargins, RobustTimeDomainFigure, VariationDimension, VariationSet, WorstTimeDomainFigure } from '../robust/types.js';
 import type { WeakestParameter } from '../robust/weakest-parameter.js';
 import type { BreakpointMargins } from '../schedule/schedule-types.js';
 import type { ScheduleVariations } from '../schedule/schedule-variations.js';
@@ -91,6 +92,40 @@ function breakpointTable(variations: ScheduleVariations, nominal: readonly Break
   return textTable(rows, [true, true, true, true, true, true, true, false, false]).map((line) => `  ${line}`);
 }
 
+const TIME_DOMAIN_HEADINGS: Readonly<Record<RobustTimeDomainFigure, string>> = {
+  overshoot_pct: 'overshoot %',
+  settlingTime_s: 'settle s',
+  misalignmentRecoveryTime_s: 'misalign. s',
+  lateralForceRecoveryTime_s: 'force s',
+  laneChangeError_m: 'lane change m',
+  curveEntryError_m: 'curve m',
+  limitedStepOvershoot_pct: 'limited step %',
+  limitedStepSettlingTime_s: 'limited settle s',
+};
+
+/** The worst time-domain figures at each breakpoint (only the figures the loop has), or nothing when none were simulated. */
+function timeDomainTable(variations: ScheduleVariations): string[] {
+  const simulated = variations.breakpoints.filter((breakpoint) => breakpoint.timeDomain !== null);
+  if (simulated.length === 0) return [];
+  const figures = TIME_DOMAIN_FIGURES.filter((definition) => simulated.some((breakpoint) => breakpoint.timeDomain?.worst[definition.name] !== null));
+  const cell = (worst: WorstTimeDomainFigure | null): string => (worst === null ? '—' : worst.value === null ? 'not settled' : worst.value.toFixed(2));
+  const rows = [['speed m/s', ...figures.map((definition) => TIME_DOMAIN_HEADINGS[definition.name]), 'vehicles', 'worst case vs limits']];
+  for (const breakpoint of variations.breakpoints) {
+    const timeDomain = breakpoint.timeDomain;
+    rows.push([
+      breakpoint.speed_mps.toFixed(2),
+      ...figures.map((definition) => (timeDomain === null ? '—' : cell(timeDomain.worst[definition.name]))),
+      timeDomain === null ? '—' : String(timeDomain.vehicles),
+      timeDomain === null ? 'not simulated (unstable in the set)' : timeDomain.failures.length === 0 ? 'pass' : `FAIL: ${timeDomain.failures.length} limit${timeDomain.failures.length === 1 ? '' : 's'}`,
+    ]);
+  }
+  return [
+    '',
+    '  time domain, worst case over the set at each breakpoint (its own gains, set-point weights and feed-forward; simulated on the nominal vehicle, the corners and the combinations behind the worst margins):',
+    ...textTable(rows, [true, ...figures.map(() => true), true, false]).map((line) => `  ${line}`),
+  ];
+}
+
 /** The nominal margins a dense check found at each breakpoint speed (they are in its grid), as a schedule records them. */
 export function nominalAtBreakpoints(check: DenseCheckResult, breakpointSpeeds: readonly number[]): BreakpointMargins[] {
   return breakpointSpeeds.map((speed_mps) => {
@@ -117,6 +152,7 @@ export function formatVariations(
     '',
     '  nominal → worst case over the set, at each breakpoint:',
     ...breakpointTable(variations, nominal, thresholds),
+    ...timeDomainTable(variations),
     '',
     '  worst over the grid:',
   ];

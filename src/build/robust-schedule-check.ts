@@ -1,7 +1,8 @@
 /**
  * The robust check of a schedule's gains, as build, check, reverify and the baseline run it: the worst case
  * over the variation set at every grid speed (on every core), judged on the schedule's limits, with the
- * weakest parameter over the grid and at each breakpoint, and the schedule file's `variations` section.
+ * weakest parameter over the grid and at each breakpoint, the worst time-domain figures at each breakpoint (when
+ * its set-point weights and feed-forward are given), and the schedule file's `variations` section.
  */
 import type { ControllerSettings } from '../controller/types.js';
 import type { LoopSpecification } from '../loops/types.js';
@@ -14,6 +15,7 @@ import type { AcceptanceThresholds, GainsAtSpeed, ProgressCallback } from '../sc
 import type { CheckModel } from './check-model.js';
 import { robustCheckOnAllCores } from './parallel-robust-check.js';
 import { weakestParameterAt, type RobustContext } from './robust-analysis.js';
+import { worstTimeDomainAt, type BreakpointControl, type TimeDomainSettings } from './robust-time-domain.js';
 
 export interface RobustScheduleCheckInput {
   readonly acceptance: 'robust' | 'nominal';
@@ -27,6 +29,8 @@ export interface RobustScheduleCheckInput {
   readonly gainsAt: GainsAtSpeed;
   /** Breakpoint speeds (each must be in the grid): the record lists the worst case at each. */
   readonly breakpointSpeeds: readonly number[];
+  /** The breakpoints' set-point weights and feed-forward (same order as breakpointSpeeds) and the time-domain limits: their worst time-domain figures too. */
+  readonly timeDomain?: TimeDomainSettings & { readonly breakpoints: readonly BreakpointControl[] };
   /** Worker threads besides the main thread (default: every core). */
   readonly workers?: number;
   readonly onProgress?: ProgressCallback;
@@ -68,6 +72,7 @@ export async function robustScheduleCheck(input: RobustScheduleCheckInput): Prom
   const context: RobustContext = { model: input.model, loop: input.loop, controller: input.controller, set: input.set, search: input.search };
   const weakestAt = (point: RobustCheckPoint | null | undefined): WeakestParameter | null => (point === null || point === undefined ? null : weakestParameterAt(point, input.thresholds, context));
   const bySpeed = new Map(check.points.map((point) => [point.speed_mps, point]));
+  const timeDomain = input.timeDomain;
   const record = variationsRecord({
     acceptance: input.acceptance,
     set: input.set,
@@ -76,6 +81,14 @@ export async function robustScheduleCheck(input: RobustScheduleCheckInput): Prom
     breakpointSpeeds: input.breakpointSpeeds,
     weakestAtBreakpoints: input.breakpointSpeeds.map((speed_mps) => weakestAt(bySpeed.get(speed_mps))),
     weakest: weakestAt(tightestPoint(check.points, input.thresholds)),
+    ...(timeDomain === undefined
+      ? {}
+      : {
+          timeDomainAtBreakpoints: timeDomain.breakpoints.map((control) => {
+            const point = bySpeed.get(control.speed_mps);
+            return point === undefined ? null : worstTimeDomainAt(point, control, context, timeDomain);
+          }),
+        }),
     listed: LISTED_FAILURES,
   });
   return { check, record };

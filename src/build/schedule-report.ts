@@ -65,7 +65,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
   const loop = schedule.loop;
   lines.push(
     `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${previewText(loop.preview_m ?? 0, loop.previewTime_s ?? 0)} from the ${loop.referencePoint})` : ''}, ` +
-      `rule ${schedule.provenance.rule.name}${schedule.provenance.rule.tuneFor === 'fastest-passing' ? ' (fastest passing)' : ''}, ${schedule.interpolation.method} interpolation`,
+      `rule ${schedule.provenance.rule.name}${schedule.provenance.rule.tuneFor === 'fastest-passing' ? ` (fastest passing${schedule.provenance.rule.searchOn === 'worst-case' ? ' in the worst case over the variations' : ''})` : ''}, ${schedule.interpolation.method} interpolation`,
   );
   lines.push(`  controller the gains assume: ${describeControllerSettings(schedule.controller)}`);
   lines.push(`  error: ${loop.error}`);

@@ -18,6 +18,9 @@ export type {
   InstabilityFound,
   RobustWorstValue,
   WeakestParameter,
+  RobustTimeDomainFigure,
+  WorstTimeDomainFigure,
+  RobustTimeDomain,
 } from '../schedule/variation-types.js';
 
 /**

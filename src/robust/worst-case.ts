@@ -47,7 +47,7 @@ const figuresOf = (margins: LoopMargins): Figures => ({
 const nominalChange = (change: 'scale' | 'add'): number => (change === 'scale' ? 1 : 0);
 
 /** The changes at a normalised point: the ends exactly at 0 and 1. */
-function valuesAt(set: VariationSet, point: readonly number[]): number[] {
+export function valuesAt(set: VariationSet, point: readonly number[]): number[] {
   return set.dimensions.map((dimension, i) => {
     const u = point[i];
     if (u === 0) return dimension.minimum;

@@ -74,6 +74,10 @@ export const PLAN_SCHEMA = {
             { enum: ['rule-parameters', 'fastest-passing'] },
             "How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target).",
           ),
+          searchOn: described(
+            { enum: ['nominal', 'worst-case'] },
+            'With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan\'s variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal.',
+          ),
           parameters: described(
             {
               type: 'object',

@@ -211,6 +211,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
         ...(input.ruleCitation === undefined ? {} : { citation: input.ruleCitation }),
         ...(input.ruleParametersAtBreakpoints === undefined ? {} : { parametersAtBreakpoints: input.ruleParametersAtBreakpoints }),
         tuneFor: plan.rule.tuneFor,
+        ...(plan.rule.tuneFor === 'fastest-passing' ? { searchOn: plan.rule.searchOn } : {}),
         ...(input.searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints: input.searchAtBreakpoints }),
       },
       plan: plan as unknown as Readonly<Record<string, unknown>>,

@@ -161,12 +161,13 @@ export const SCHEDULE_SCHEMA = object({
             items: object({ speed_mps: number, parameters: { type: 'object', additionalProperties: { type: ['number', 'string'] } } }),
           },
           tuneFor: { enum: ['rule-parameters', 'fastest-passing'] },
+          searchOn: { enum: ['nominal', 'worst-case'] },
           searchAtBreakpoints: {
             type: 'array',
             items: object({ speed_mps: number, parameter: text, value: number, outcome: { enum: ['fastest passing', 'none passed'] }, candidates: { type: 'integer', minimum: 1 }, reason: text }),
           },
         },
-        ['citation', 'parametersAtBreakpoints', 'searchAtBreakpoints'],
+        ['citation', 'parametersAtBreakpoints', 'searchOn', 'searchAtBreakpoints'],
       ),
       plan: freeObject,
       handEdits: {

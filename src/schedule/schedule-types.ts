@@ -157,6 +157,8 @@ export interface ScheduleProvenance {
     /** The parameters as resolved at each breakpoint, when the plan gives any or a search chose them. */
     readonly parametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
     readonly tuneFor: 'rule-parameters' | 'fastest-passing';
+    /** With tuneFor fastest-passing: whether the search judged its candidates on the nominal model or in the worst case over the variations. */
+    readonly searchOn?: 'nominal' | 'worst-case';
     /** With tuneFor fastest-passing: at each breakpoint, the parameter searched, the value chosen and why. */
     readonly searchAtBreakpoints?: readonly ScheduleSearchAt[];
   };

@@ -29,6 +29,17 @@ const PARAMETERS = [
 ] as const;
 const FIGURES = ['phaseMargin_deg', 'upperGainMargin_dB', 'lowerGainMargin_dB', 'delayMargin_s', 'sensitivityPeak', 'complementarySensitivityPeak'] as const;
 
+const TIME_DOMAIN_FIGURES = [
+  'overshoot_pct',
+  'settlingTime_s',
+  'misalignmentRecoveryTime_s',
+  'lateralForceRecoveryTime_s',
+  'laneChangeError_m',
+  'curveEntryError_m',
+  'limitedStepOvershoot_pct',
+  'limitedStepSettlingTime_s',
+] as const;
+
 const figureMap = (definition: string) => object(Object.fromEntries(FIGURES.map((name) => [name, ref(definition)])));
 
 export const SCHEDULE_VARIATIONS_SCHEMA = {
@@ -53,7 +64,7 @@ export const SCHEDULE_VARIATIONS_SCHEMA = {
     failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
     breakpoints: {
       type: 'array',
-      items: object({ speed_mps: number, instability: ref('instability'), worst: figureMap('worstAtSpeed'), weakest: ref('weakest') }),
+      items: object({ speed_mps: number, instability: ref('instability'), worst: figureMap('worstAtSpeed'), timeDomain: ref('timeDomain'), weakest: ref('weakest') }),
     },
     weakest: ref('weakest'),
   }),
@@ -66,6 +77,19 @@ export const SCHEDULE_VARIATIONS_SCHEMA = {
     },
     worstOverGrid: objectOrNull({ value: number, speed_mps: number, combination: ref('combination') }),
     worstAtSpeed: objectOrNull({ value: number, combination: ref('combination') }),
+    timeDomain: {
+      ...objectOrNull({
+        worst: object(Object.fromEntries(TIME_DOMAIN_FIGURES.map((name) => [name, ref('worstTimeDomain')]))),
+        failures: { type: 'array', items: text },
+        vehicles: { type: 'integer', minimum: 0 },
+      }),
+      description:
+        "The worst time-domain figures of the breakpoint's gains, set-point weights and feed-forward over the set (the nominal vehicle, the corners, the combinations behind the worst margins); null when not simulated.",
+    },
+    worstTimeDomain: {
+      ...objectOrNull({ value: { type: ['number', 'null'] }, combination: ref('combination') }),
+      description: 'A worst time-domain figure (value null: the response did not settle within the simulated time) and its combination; null where the loop has no such figure.',
+    },
     instability: objectOrNull({ verdict: { enum: ['unstable', 'marginal'] }, combination: ref('combination'), largestPoleMagnitude: { type: ['number', 'null'] } }),
     weakest: {
       ...objectOrNull({

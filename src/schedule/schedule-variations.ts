@@ -6,19 +6,21 @@
  * src/robust/schedule-record.ts makes it from a robust check.
  */
 import type { FailingSpeed } from './dense-check.js';
-import type { InstabilityFound, RobustFigure, RobustSearchSettings, RobustWorstValue, VariationSet, WeakestParameter, WorstFigure } from './variation-types.js';
+import type { InstabilityFound, RobustFigure, RobustSearchSettings, RobustTimeDomain, RobustWorstValue, VariationSet, WeakestParameter, WorstFigure } from './variation-types.js';
 
 export interface ScheduleVariationsBreakpoint {
   readonly speed_mps: number;
   readonly instability: InstabilityFound | null;
   readonly worst: Readonly<Record<RobustFigure, WorstFigure | null>>;
+  /** The worst time-domain figures there; null when not simulated (the set holds an unstable loop there, or other gains than the schedule's were checked: a baseline). */
+  readonly timeDomain: RobustTimeDomain | null;
   readonly weakest: WeakestParameter | null;
 }
 
 export interface ScheduleVariations {
   /** robust: the schedule passes only when the worst case passes too; nominal: reported beside the nominal check. */
   readonly acceptance: 'robust' | 'nominal';
-  /** Whether the worst case over the set meets the acceptance limits at every grid speed. */
+  /** Whether the worst case over the set meets the acceptance limits at every grid speed, the time-domain limits at every breakpoint. */
   readonly passed: boolean;
   readonly set: VariationSet;
   readonly search: RobustSearchSettings & { readonly method: string };

@@ -100,3 +100,33 @@ export interface WeakestParameter {
   /** The combination behind the worst figure. */
   readonly combination: Combination;
 }
+
+/**
+ * The time-domain figures whose worst value over the set is found at each breakpoint (src/robust/time-domain.ts);
+ * a larger value is worse for each.
+ */
+export type RobustTimeDomainFigure =
+  | 'overshoot_pct'
+  | 'settlingTime_s'
+  | 'misalignmentRecoveryTime_s'
+  | 'lateralForceRecoveryTime_s'
+  | 'laneChangeError_m'
+  | 'curveEntryError_m'
+  | 'limitedStepOvershoot_pct'
+  | 'limitedStepSettlingTime_s';
+
+/** The worst value of a time-domain figure at a breakpoint and its combination; value null: a response that did not settle within the simulated time. */
+export interface WorstTimeDomainFigure {
+  readonly value: number | null;
+  readonly combination: Combination;
+}
+
+/** The time-domain figures of a breakpoint's gains, set-point weights and feed-forward over the set. */
+export interface RobustTimeDomain {
+  /** Per figure; null where the loop has no such figure (a lane change on a heading loop, a lateral force on a lumped model). */
+  readonly worst: Readonly<Record<RobustTimeDomainFigure, WorstTimeDomainFigure | null>>;
+  /** The time-domain limits the worst case breaks, in words, each naming its combination (empty: none). */
+  readonly failures: readonly string[];
+  /** Vehicles of the set simulated there (stable loops only: an unstable one fails the breakpoint by its margins). */
+  readonly vehicles: number;
+}

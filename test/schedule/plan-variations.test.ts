@@ -44,4 +44,20 @@ describe('the plan\'s variations section', () => {
     expect(planError({ variations: { acceptance: 'strict' } }).message).toMatch(/\/variations\/acceptance.*robust, nominal/);
     expect(planError({ variations: { search: { samples: -1 } } }).message).toMatch(/\/variations\/search\/samples/);
   });
+
+  it('rule.searchOn: a fastest-passing search aims at the worst case by default only under robust acceptance of a variations section; a setting that cannot apply is refused', () => {
+    // Without variations, or with a rule that is not searched: the nominal model.
+    expect(resolvePlan({ loop: { kind: 'heading' } }).rule.searchOn).toBe('nominal');
+    expect(resolvePlan({ variations: {} }).rule.searchOn).toBe('nominal');
+    // A search with variations under robust acceptance: the worst case; under nominal acceptance: the nominal model.
+    expect(resolvePlan({ loop: { kind: 'heading' }, variations: {} }).rule.searchOn).toBe('worst-case');
+    expect(resolvePlan({ loop: { kind: 'path' }, variations: { acceptance: 'nominal' } }).rule.searchOn).toBe('nominal');
+    // As written, when it can apply.
+    expect(resolvePlan({ loop: { kind: 'heading' }, variations: {}, rule: { searchOn: 'nominal' } }).rule.searchOn).toBe('nominal');
+    expect(resolvePlan({ loop: { kind: 'path' }, variations: { acceptance: 'nominal' }, rule: { searchOn: 'worst-case' } }).rule.searchOn).toBe('worst-case');
+    expect(planError({ loop: { kind: 'heading' }, rule: { searchOn: 'worst-case' } })).toMatchObject({ code: 'plan.invalid', jsonPath: '/rule/searchOn' });
+    expect(planError({ loop: { kind: 'heading' }, rule: { searchOn: 'worst-case' } }).message).toMatch(/no variations section/);
+    expect(planError({ variations: {}, rule: { searchOn: 'worst-case' } }).message).toMatch(/not searched \(tuneFor "rule-parameters"\)/);
+    expect(planError({ rule: { searchOn: 'worst' } }).message).toMatch(/\/rule\/searchOn.*nominal, worst-case/);
+  });
 });
