@@ -59,6 +59,14 @@ describe('speedband build with a variation set', () => {
     expect(variations.gridSize).toBe(schedule.check.gridSize);
     // Worst never better than nominal, breakpoint by breakpoint.
     schedule.breakpoints.forEach((row, k) => expect(variations.breakpoints[k].worst.phaseMargin_deg!.value).toBeLessThanOrEqual(row.margins.phaseMargin_deg!));
+    // The time-domain figures over the set at each breakpoint: never better than the nominal ones the breakpoint records.
+    schedule.breakpoints.forEach((row, k) => {
+      const timeDomain = variations.breakpoints[k].timeDomain!;
+      expect(timeDomain.vehicles).toBeGreaterThanOrEqual(5);
+      expect(timeDomain.worst.overshoot_pct!.value!).toBeGreaterThanOrEqual(row.timeDomain!.referenceStep.overshoot_pct);
+      expect(timeDomain.worst.misalignmentRecoveryTime_s!.value!).toBeGreaterThanOrEqual(row.timeDomain!.steeringMisalignment.recoveryTime_s!);
+    });
+    expect(run.out).toMatch(/time domain, worst case over the set at each breakpoint/);
     expect(run.out).toMatch(/nominal → worst case over the set, at each breakpoint/);
     expect(run.out).toMatch(/weakest parameter: (mass|rear cornering stiffness) — at [\d.]+ m\/s the/);
     // Deterministic: the same inputs give the same bytes.
@@ -126,6 +134,41 @@ describe('speedband check and reverify of a schedule with variations', () => {
     const refused = await cli(['reverify', join(dir, 'soft.json'), '--vehicle', VAN, '--out', join(dir, 'soft-reverified.json')]);
     expect(refused.code).toBe(1);
     expect(refused.out).toMatch(/fails the worst case over its variations/);
+  });
+});
+
+describe('a fastest-passing search on the worst case (rule.searchOn)', () => {
+  it('a heading schedule searched on the nominal model fails its worst case; searched on the worst case (the default under robust acceptance) it passes, with slower settings', async () => {
+    const written = (searchOn?: 'nominal') => {
+      const path = join(dir, `plan-heading-${searchOn ?? 'default'}.json`);
+      const variations = { mass_pct: 10, yawInertia_pct: 0, frontCorneringStiffness_pct: 0, rearCorneringStiffness_pct: 20, actuatorLag_pct: 0, addedLatency_s: 0, fromIdentification: false, search: { samples: 6, localSearchEvaluations: 6 } };
+      writeFileSync(path, JSON.stringify({ loop: { kind: 'heading' }, check: { gridSpeeds: 12 }, breakpoints: { count: 4 }, variations, ...(searchOn === undefined ? {} : { rule: { searchOn } }) }));
+      return path;
+    };
+    const nominalOut = join(dir, 'heading-nominal.json');
+    const nominal = await cli(['build', '--vehicle', VAN, '--models', vanModels, '--plan', written('nominal'), '--out', nominalOut, '--allow-failing']);
+    expect(nominal.code).toBe(1);
+    const onNominal = readSchedule(nominalOut);
+    expect(onNominal.check.passed).toBe(true);
+    expect(onNominal.variations!.passed).toBe(false);
+    expect(onNominal.provenance.rule.searchOn).toBe('nominal');
+
+    const robustOut = join(dir, 'heading-worst-case.json');
+    const robust = await cli(['build', '--vehicle', VAN, '--models', vanModels, '--plan', written(), '--out', robustOut]);
+    expect(robust.code, robust.out).toBe(0);
+    const onWorstCase = readSchedule(robustOut);
+    expect(onWorstCase.provenance.rule.searchOn).toBe('worst-case');
+    expect(onWorstCase.variations!.passed).toBe(true);
+    expect(robust.out).toMatch(/rule simc \(fastest passing in the worst case over the variations\)/);
+    // Passing the worst case asks at least as much as passing the nominal model: the search stops at a τc no faster.
+    // (Compared at the breakpoints both have: the refinement may insert others.)
+    const searched = (schedule: ScheduleFile) => new Map(schedule.provenance.rule.searchAtBreakpoints!.map((entry) => [entry.speed_mps, entry.value]));
+    const both = [...searched(onWorstCase)].filter(([speed_mps]) => searched(onNominal).has(speed_mps));
+    expect(both.length).toBeGreaterThanOrEqual(4);
+    for (const [speed_mps, value] of both) expect(value).toBeGreaterThanOrEqual(searched(onNominal).get(speed_mps)!);
+    expect(both.some(([speed_mps, value]) => value > searched(onNominal).get(speed_mps)!)).toBe(true);
+    // A faster candidate was refused for what the worst case breaks.
+    expect(onWorstCase.provenance.rule.searchAtBreakpoints!.some((entry) => /does not: worst case: /.test(entry.reason))).toBe(true);
   });
 });
 

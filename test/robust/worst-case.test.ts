@@ -52,6 +52,7 @@ describe('worstCaseMarginsAt on small boxes', () => {
       expect(Math.abs(found.worst.upperGainMargin_dB!.value - reference.get('upperGainMargin_dB')!)).toBeLessThan(0.1);
       expect(Math.abs(found.worst.sensitivityPeak!.value - reference.get('sensitivityPeak')!)).toBeLessThan(0.01);
       expect(Math.abs(found.worst.delayMargin_s!.value - reference.get('delayMargin_s')!)).toBeLessThan(1e-3);
+      expect(Math.abs(found.worst.complementarySensitivityPeak!.value - reference.get('complementarySensitivityPeak')!)).toBeLessThan(0.01);
     });
   }
 });
@@ -115,6 +116,19 @@ describe('a set holding an unstable loop', () => {
     const failures = judgeRobust(found, THRESHOLD_DEFAULTS);
     expect(failures.map((failure) => failure.criterion)).toEqual(['stability']);
     expect(failures[0].message).toMatch(/^closed loop unstable with .*actuator delay \+0\.\d{3} s/);
+  });
+
+  it('Mt is judged like the other limits: a worst Mt above the plan\'s limit fails, naming its combination', () => {
+    const found = worstCaseMarginsAt(25, vanGains(25), vanContext({ rearCorneringStiffness_pct: 20, addedLatency_s: 0.01 }));
+    expect(found.instability).toBeNull();
+    const mt = found.worst.complementarySensitivityPeak!;
+    expect(mt.value).toBeGreaterThan(found.nominal.complementarySensitivityPeak!);
+    // A limit between the nominal and the worst Mt: only the worst case breaks it.
+    const limit = (mt.value + found.nominal.complementarySensitivityPeak!) / 2;
+    const failures = judgeRobust(found, { ...THRESHOLD_DEFAULTS, maximumComplementarySensitivityPeak: limit });
+    const failure = failures.find((entry) => entry.criterion === 'complementarySensitivityPeak')!;
+    expect(failure.value).toBe(mt.value);
+    expect(failure.message).toMatch(/^peak complementary sensitivity .* \(worst case: .*rear cornering stiffness −20\.0 %/);
   });
 
   it('a box of zero width is the nominal vehicle: one analysis, the nominal figures', () => {
