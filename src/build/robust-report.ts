@@ -119,10 +119,12 @@ function timeDomainTable(variations: ScheduleVariations): string[] {
       timeDomain === null ? 'not simulated (unstable in the set)' : timeDomain.failures.length === 0 ? 'pass' : `FAIL: ${timeDomain.failures.length} limit${timeDomain.failures.length === 1 ? '' : 's'}`,
     ]);
   }
+  const failures = variations.breakpoints.flatMap((breakpoint) => (breakpoint.timeDomain?.failures ?? []).map((message) => `    ${breakpoint.speed_mps.toFixed(2)} m/s: ${message}`));
   return [
     '',
     '  time domain, worst case over the set at each breakpoint (its own gains, set-point weights and feed-forward; simulated on the nominal vehicle, the corners and the combinations behind the worst margins):',
     ...textTable(rows, [true, ...figures.map(() => true), true, false]).map((line) => `  ${line}`),
+    ...failures,
   ];
 }
 
