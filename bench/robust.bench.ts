@@ -4,7 +4,8 @@
  * yaw inertia, both cornering stiffnesses, actuator lag and delay with the identification's intervals: 6 varied
  * parameters), 200 evenly spaced speeds, 64 seeded samples and the compass search at each — on the main thread
  * alone and on every core. Figures: median and fastest of 3 runs, loop analyses, loops per second, and the CPU time
- * of all threads (the shared machine's other work does not count there). The checks run
+ * of all threads (the shared machine's other work does not count there); and the time-domain figures over the set at the
+ * schedule's breakpoints (closed-loop simulations of the chosen vehicles, main thread). The checks run
  * from dist/ (run `npm run build` first), as the CLI does: its worker threads then load the built JavaScript
  * instead of compiling the TypeScript sources.
  */
@@ -19,6 +20,9 @@ type Dist = {
   resolveVariationSet: typeof import('../src/robust/variation-set.js').resolveVariationSet;
   resolveVariations: typeof import('../src/schedule/plan-variations.js').resolveVariations;
   scheduleLookup: typeof import('../src/schedule/schedule-lookup.js').scheduleLookup;
+  worstTimeDomainAt: typeof import('../src/build/robust-time-domain.js').worstTimeDomainAt;
+  breakpointControl: typeof import('../src/build/robust-time-domain.js').breakpointControl;
+  worstCaseMarginsAt: typeof import('../src/build/robust-analysis.js').worstCaseMarginsAt;
 };
 const dist = async (path: string): Promise<Record<string, unknown>> => import(new URL(`../dist/${path}`, import.meta.url).href) as Promise<Record<string, unknown>>;
 const lib = {
@@ -27,6 +31,8 @@ const lib = {
   ...(await dist('robust/variation-set.js')),
   ...(await dist('schedule/plan-variations.js')),
   ...(await dist('schedule/schedule-lookup.js')),
+  ...(await dist('build/robust-time-domain.js')),
+  ...(await dist('build/robust-analysis.js')),
 } as unknown as Dist;
 
 const SPEEDS = 200;
@@ -63,3 +69,16 @@ printFigure('  every core, loops per second (median)', (loops / median(runs.all)
 // CPU time of every thread of the process: what the check costs whatever else the shared machine runs.
 printFigure('  every core, CPU time of all threads (median)', median(runs.cpu), 'ms');
 printFigure('  loops per CPU second (median)', (loops / median(runs.cpu)) * 1000, 'loops/s');
+
+// Time-domain figures over the set at the breakpoints (the margins' search at each breakpoint not counted).
+const context = { model, loop, controller, set, search: variations.search };
+const settings = { limits: schedule.check.timeDomain.limits, vehicleLimits: schedule.check.timeDomain.steeringLimits, antiWindup: schedule.controller.antiWindup };
+const points = schedule.breakpoints.map((row) => lib.worstCaseMarginsAt(row.speed_mps, row, context));
+let vehicles = 0;
+const timeDomain = await timeMs(async () => {
+  vehicles = 0;
+  schedule.breakpoints.forEach((row, k) => (vehicles += lib.worstTimeDomainAt(points[k], lib.breakpointControl(row.speed_mps, row, row), context, settings)?.vehicles ?? 0));
+});
+printFigure(`time-domain figures over the set at ${schedule.breakpoints.length} breakpoints`, timeDomain, 'ms');
+printFigure('  vehicles simulated', vehicles, 'vehicles');
+printFigure('  per vehicle', timeDomain / vehicles, 'ms');
