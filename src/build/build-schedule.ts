@@ -19,13 +19,10 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
-import type { PlanVariations } from '../schedule/plan-variations.js';
-import { makeGainLookup } from '../schedule/interpolate.js';
-import { resolveVariationSet } from '../robust/variation-set.js';
-import { robustScheduleCheck, type RobustScheduleCheck } from './robust-schedule-check.js';
-import { breakpointControl, type TimeDomainSettings } from './robust-time-domain.js';
-import type { RobustContext } from './robust-analysis.js';
 import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
+import type { RobustScheduleCheck } from './robust-schedule-check.js';
+import type { TimeDomainSettings } from './robust-time-domain.js';
+import { checkTableOverVariations, planRobustContext } from './build-robust.js';
 import type { RefineResult } from '../schedule/refine.js';
 import { assembleSchedule } from '../schedule/schedule-file.js';
 import { makeRuleParameterLookup } from '../schedule/rule-parameters.js';
@@ -173,16 +170,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const roomy = limitsWithRoom(thresholds, plan.acceptance);
   const evaluateWithRoom = makeBreakpointEvaluator({ ...evaluatorInput, ...roomy, skipFiguresWhenMarginsFail: true });
   // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
-  const robustContext: RobustContext | undefined =
-    plan.variations === undefined
-      ? undefined
-      : {
-          model: checkModel,
-          loop,
-          controller,
-          set: resolveVariationSet(plan.variations, checkModel.summary, plan.variations.fromIdentification ? models : null, input.planFile),
-          search: plan.variations.search,
-        };
+  const robustContext = planRobustContext({ plan, checkModel, loop, controller, models, planFile: input.planFile });
   const timeDomainSettings: TimeDomainSettings = { limits: plan.acceptance, vehicleLimits: evaluatorInput.vehicleLimits, antiWindup: plan.controller.antiWindup };
   const searchOnWorstCase = searching && plan.rule.searchOn === 'worst-case' && robustContext !== undefined;
   const searchEvaluate = searchOnWorstCase
@@ -241,7 +229,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const robust =
     plan.variations === undefined || robustContext === undefined
       ? undefined
-      : await checkOverVariations({ plan, variations: plan.variations, context: robustContext, refinement, breakpointExtras, timeDomain: timeDomainSettings, onProgress, progress });
+      : await checkTableOverVariations({ plan, variations: plan.variations, context: robustContext, refinement, breakpointExtras, timeDomain: timeDomainSettings, onProgress, progress });
 
   const inputs = [
     { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
@@ -279,35 +267,4 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   });
   const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
   return { schedule, models, plan, checkModel, refinement, tuned, evaluations, extrapolations, ...(robust === undefined ? {} : { robust }) };
-}
-
-interface OverVariationsInput {
-  readonly plan: Plan;
-  readonly variations: PlanVariations;
-  readonly context: RobustContext;
-  readonly refinement: RefineResult;
-  readonly breakpointExtras: readonly BreakpointExtras[];
-  readonly timeDomain: TimeDomainSettings;
-  readonly onProgress: ProgressCallback;
-  readonly progress: (text: string) => void;
-}
-
-/** The final table's robust check over the plan's variations, on the nominal check's grid (every core), with the worst time-domain figures at its breakpoints. */
-async function checkOverVariations(input: OverVariationsInput): Promise<RobustScheduleCheck> {
-  const { plan, variations, context, refinement } = input;
-  input.progress(`worst case over the variations: ${context.set.dimensions.length} varied parameters, ${refinement.check.points.length} speeds\n`);
-  return robustScheduleCheck({
-    acceptance: variations.acceptance,
-    model: context.model,
-    loop: context.loop,
-    controller: context.controller,
-    set: context.set,
-    search: context.search,
-    thresholds: planThresholds(plan),
-    grid: refinement.check.points.map((point) => point.speed_mps),
-    gainsAt: makeGainLookup(refinement.table, { interpolation: plan.interpolation, lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps }),
-    breakpointSpeeds: refinement.table.speeds_mps,
-    timeDomain: { ...input.timeDomain, breakpoints: refinement.table.speeds_mps.map((speed_mps, k) => breakpointControl(speed_mps, refinement.table.gains[k], input.breakpointExtras[k])) },
-    onProgress: input.onProgress,
-  });
 }
