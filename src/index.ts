@@ -289,7 +289,13 @@ export type {
   RobustWorstValue,
   AnalyseOverSet,
   WeakestParameter,
+  RobustTimeDomainFigure,
+  WorstTimeDomainFigure,
+  RobustTimeDomain,
 } from './robust/types.js';
+export { worstTimeDomainOverSet, TIME_DOMAIN_FIGURES } from './robust/time-domain.js';
+export { worstTimeDomainAt, breakpointControl, type BreakpointControl, type TimeDomainSettings } from './build/robust-time-domain.js';
+export { makeWorstCaseEvaluator } from './build/worst-case-evaluation.js';
 export { resolveVariationSet, operatingPointWith } from './robust/variation-set.js';
 export { worstCaseOverSet } from './robust/worst-case.js';
 export { searchMethodWords } from './robust/corner-search.js';
