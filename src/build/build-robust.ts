@@ -17,6 +17,10 @@ import type { CheckModel } from './check-model.js';
 import type { RobustContext } from './robust-analysis.js';
 import { robustScheduleCheck, type RobustScheduleCheck } from './robust-schedule-check.js';
 import { breakpointControl, type TimeDomainSettings } from './robust-time-domain.js';
+import type { PidGains } from '../controller/types.js';
+import type { BreakpointEvaluation, BreakpointEvaluator } from './breakpoint-evaluation.js';
+import { worstCaseMarginsAt } from './robust-analysis.js';
+import { robustSetpointWeights } from './robust-setpoint-weights.js';
 
 /** The plan's variation set around the check model, with what the analysis at a speed needs; undefined without variations. */
 export function planRobustContext(input: {
@@ -36,6 +40,19 @@ export function planRobustContext(input: {
     set: resolveVariationSet(variations, input.checkModel.summary, variations.fromIdentification ? input.models : null, input.planFile),
     search: variations.search,
   };
+}
+
+/**
+ * Under robust acceptance: a breakpoint's evaluation with its set-point weights lowered until the worst overshoot over
+ * the set keeps the limit (robust-setpoint-weights.ts), evaluated again on the nominal model with them; unchanged
+ * when the weights chosen there already do.
+ */
+export function withRobustWeights(evaluation: BreakpointEvaluation, speed_mps: number, gains: PidGains, evaluate: BreakpointEvaluator, context: RobustContext, settings: TimeDomainSettings): BreakpointEvaluation {
+  if (evaluation.performance === null) return evaluation;
+  const feedForward = evaluation.performanceLoop.feedForward;
+  const control = { speed_mps, gains, setpointWeights: evaluation.performance.setpointWeights, feedForward: feedForward.gain, feedForwardLeadTime_s: feedForward.leadTime_s };
+  const kept = robustSetpointWeights(worstCaseMarginsAt(speed_mps, gains, context), control, context, settings).control.setpointWeights;
+  return kept.proportional === control.setpointWeights.proportional ? evaluation : evaluate(speed_mps, gains, kept);
 }
 
 export interface OverVariationsInput {

@@ -22,7 +22,7 @@ import { planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan 
 import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
 import type { RobustScheduleCheck } from './robust-schedule-check.js';
 import type { TimeDomainSettings } from './robust-time-domain.js';
-import { checkTableOverVariations, planRobustContext } from './build-robust.js';
+import { checkTableOverVariations, planRobustContext, withRobustWeights } from './build-robust.js';
 import type { RefineResult } from '../schedule/refine.js';
 import { assembleSchedule } from '../schedule/schedule-file.js';
 import { makeRuleParameterLookup } from '../schedule/rule-parameters.js';
@@ -174,7 +174,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const timeDomainSettings: TimeDomainSettings = { limits: plan.acceptance, vehicleLimits: evaluatorInput.vehicleLimits, antiWindup: plan.controller.antiWindup };
   const searchOnWorstCase = searching && plan.rule.searchOn === 'worst-case' && robustContext !== undefined;
   const searchEvaluate = searchOnWorstCase
-    ? makeWorstCaseEvaluator({ nominal: evaluateWithRoom, context: robustContext, thresholds: roomy.thresholds, timeDomain: timeDomainSettings })
+    ? makeWorstCaseEvaluator({ nominal: evaluateWithRoom, context: robustContext, thresholds, timeDomain: timeDomainSettings })
     : evaluateWithRoom;
   type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
   const tuneCache = new Map<number, Tuned>();
@@ -216,7 +216,12 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const refinement = scheduleGains({ plan, tuneAt, analyse, onProgress });
   const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
   const tuned = entries.map((entry) => entry.tuned);
-  const evaluations = refinement.table.speeds_mps.map((speed, k) => evaluate(speed, refinement.table.gains[k]));
+  // Under robust acceptance the set-point weights are lowered until the worst overshoot over the variations keeps the limit.
+  const robustWeights = robustContext !== undefined && plan.variations?.acceptance === 'robust';
+  const evaluations = refinement.table.speeds_mps.map((speed, k) => {
+    const evaluation = evaluate(speed, refinement.table.gains[k]);
+    return robustWeights ? withRobustWeights(evaluation, speed, refinement.table.gains[k], evaluate, robustContext, timeDomainSettings) : evaluation;
+  });
   const breakpointExtras: BreakpointExtras[] = evaluations.map((evaluation) => ({
     setpointWeightProportional: evaluation.performance?.setpointWeights.proportional ?? 1,
     setpointWeightDerivative: evaluation.performance?.setpointWeights.derivative ?? 0,

@@ -7,7 +7,7 @@
  */
 import type { AntiWindup } from '../controller/firmware-step.js';
 import type { PidGains } from '../controller/types.js';
-import { breakpointPerformance, type SetpointWeights } from '../performance/breakpoint-performance.js';
+import { breakpointPerformance, type BreakpointPerformance, type SetpointWeights } from '../performance/breakpoint-performance.js';
 import { performanceLoopAt } from '../performance/loop-at-speed.js';
 import type { TimeDomainLimits } from '../performance/types.js';
 import { worstTimeDomainOverSet } from '../robust/time-domain.js';
@@ -45,33 +45,39 @@ export interface TimeDomainSettings {
 }
 
 /**
+ * The time-domain figures of one vehicle of the set (the changes `values`, one per dimension) under `control`, or
+ * null when its loop is not stable. `chooseWeights`: the set-point weights are chosen on that vehicle for the
+ * overshoot limit (breakpoint-performance.ts) instead of taken from `control`.
+ */
+export function vehiclePerformance(values: readonly number[], control: BreakpointControl, context: RobustContext, settings: TimeDomainSettings, chooseWeights = false): BreakpointPerformance | null {
+  const { speed_mps, gains } = control;
+  const vehicle = operatingPointWith(context.model.modelAt(speed_mps), context.set, values);
+  const margins = analyseOperatingPoint(vehicle, context.loop, context.controller, speed_mps, gains);
+  if (!margins.stable || margins.verdict !== 'stable') return null;
+  const atSpeed = performanceLoopAt(vehicle, context.loop, speed_mps, context.controller);
+  return breakpointPerformance({
+    loop: { ...atSpeed, feedForward: { ...atSpeed.feedForward, gain: control.feedForward, leadTime_s: control.feedForwardLeadTime_s } },
+    gains,
+    limits: settings.limits,
+    vehicleLimits: settings.vehicleLimits,
+    slowestTimeConstant_s: margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
+    ...(chooseWeights ? {} : { setpointWeights: control.setpointWeights }),
+    antiWindup: settings.antiWindup,
+  });
+}
+
+/**
  * The worst time-domain figures of `control` over the set, from the robust point of its speed and gains (its
  * worst margins name the combinations simulated besides the nominal vehicle and the corners); null when the
  * set holds a loop that is not stable there (the margins fail it already).
  */
 export function worstTimeDomainAt(point: RobustMargins, control: BreakpointControl, context: RobustContext, settings: TimeDomainSettings): RobustTimeDomain | null {
   if (point.instability !== null) return null;
-  const { speed_mps, gains } = control;
-  const base = context.model.modelAt(speed_mps);
   return worstTimeDomainOverSet({
     set: context.set,
     combinations: Object.values(point.worst).flatMap((worst) => (worst === null ? [] : [worst.combination])),
     limits: settings.limits,
     kind: context.loop.kind,
-    figuresAt: (values) => {
-      const vehicle = operatingPointWith(base, context.set, values);
-      const margins = analyseOperatingPoint(vehicle, context.loop, context.controller, speed_mps, gains);
-      if (!margins.stable || margins.verdict !== 'stable') return null;
-      const atSpeed = performanceLoopAt(vehicle, context.loop, speed_mps, context.controller);
-      return breakpointPerformance({
-        loop: { ...atSpeed, feedForward: { ...atSpeed.feedForward, gain: control.feedForward, leadTime_s: control.feedForwardLeadTime_s } },
-        gains,
-        limits: settings.limits,
-        vehicleLimits: settings.vehicleLimits,
-        slowestTimeConstant_s: margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
-        setpointWeights: control.setpointWeights,
-        antiWindup: settings.antiWindup,
-      }).figures;
-    },
+    figuresAt: (values) => vehiclePerformance(values, control, context, settings)?.figures ?? null,
   });
 }

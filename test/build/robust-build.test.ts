@@ -160,6 +160,11 @@ describe('a fastest-passing search on the worst case (rule.searchOn)', () => {
     expect(onWorstCase.provenance.rule.searchOn).toBe('worst-case');
     expect(onWorstCase.variations!.passed).toBe(true);
     expect(robust.out).toMatch(/rule simc \(fastest passing in the worst case over the variations\)/);
+    // Its set-point weights were lowered for the worst case: every worst overshoot keeps the 25 % limit (plan default).
+    for (const breakpoint of onWorstCase.variations!.breakpoints) {
+      expect(breakpoint.timeDomain!.worst.overshoot_pct!.value!).toBeLessThanOrEqual(25);
+      expect(breakpoint.timeDomain!.worst.limitedStepOvershoot_pct!.value!).toBeLessThanOrEqual(25);
+    }
     // Passing the worst case asks at least as much as passing the nominal model: the search stops at a τc no faster.
     // (Compared at the breakpoints both have: the refinement may insert others.)
     const searched = (schedule: ScheduleFile) => new Map(schedule.provenance.rule.searchAtBreakpoints!.map((entry) => [entry.speed_mps, entry.value]));

@@ -7,6 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { worstCaseMarginsAt, type RobustContext } from '../../src/build/robust-analysis.js';
 import { worstTimeDomainAt, type BreakpointControl, type TimeDomainSettings } from '../../src/build/robust-time-domain.js';
+import { robustSetpointWeights } from '../../src/build/robust-setpoint-weights.js';
 import { analyseOperatingPoint } from '../../src/build/loop-analysis.js';
 import { breakpointPerformance } from '../../src/performance/breakpoint-performance.js';
 import { performanceLoopAt } from '../../src/performance/loop-at-speed.js';
@@ -122,4 +123,27 @@ describe('time-domain figures over the set at a breakpoint', () => {
       for (const name of ['misalignmentRecoveryTime_s', 'lateralForceRecoveryTime_s', 'settlingTime_s'] as const) expect(Math.abs(found.worst[name]!.value! - brute.get(name)!), name).toBeLessThan(0.1);
     });
   }
+
+  it('robust set-point weights: b lowered until the worst overshoot over the set keeps the limit; the margins and disturbance responses unchanged', () => {
+    const { control } = headingControl(15);
+    const context = headingContext({ mass_pct: 10, rearCorneringStiffness_pct: 20, actuatorLag_pct: 20 });
+    const point = worstCaseMarginsAt(15, control.gains, context);
+    // An overshoot limit just above the nominal overshoot at b = 1: the nominal keeps it, the worst case does not.
+    const atOne = { ...control, setpointWeights: { proportional: 1, derivative: 0 } };
+    const before = worstTimeDomainAt(point, atOne, context, SETTINGS)!;
+    const nominalAtOne = figuresOf(context, atOne, context.set.dimensions.map(() => 1)).referenceStep.overshoot_pct;
+    const limit = nominalAtOne + 0.5;
+    const settings: TimeDomainSettings = { ...SETTINGS, limits: { ...SETTINGS.limits, maximumOvershoot_pct: limit } };
+    expect(before.worst.overshoot_pct!.value!).toBeGreaterThan(limit);
+    const kept = robustSetpointWeights(point, atOne, context, settings);
+    expect(kept.control.setpointWeights.proportional).toBeLessThan(1);
+    expect(kept.timeDomain!.worst.overshoot_pct!.value!).toBeLessThanOrEqual(limit);
+    expect(kept.timeDomain!.failures.filter((message) => message.startsWith('reference-step overshoot'))).toEqual([]);
+    // Source: Åström & Hägglund 2006, §3.4 — set-point weights change only the response to the reference.
+    expect(kept.timeDomain!.worst.misalignmentRecoveryTime_s).toEqual(before.worst.misalignmentRecoveryTime_s);
+    expect(kept.timeDomain!.worst.lateralForceRecoveryTime_s).toEqual(before.worst.lateralForceRecoveryTime_s);
+    // Weights that already keep the limit over the set are kept as they are.
+    const again = robustSetpointWeights(point, kept.control, context, settings);
+    expect(again.control.setpointWeights).toEqual(kept.control.setpointWeights);
+  });
 });
