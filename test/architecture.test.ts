@@ -19,10 +19,11 @@ export const LAYERS: Readonly<Record<string, number>> = {
   tuning: 6,
   performance: 7,
   schedule: 8,
-  export: 9,
-  compare: 9,
-  build: 10,
-  cli: 11,
+  robust: 9,
+  export: 10,
+  compare: 10,
+  build: 11,
+  cli: 12,
 };
 
 function sourceFiles(folder: string): string[] {

@@ -10,29 +10,40 @@ import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { loopPlantFromLumped, loopPlantFromSingleTrack } from '../loops/build.js';
 import type { LoopPlant, LoopSpecification } from '../loops/types.js';
 import type { AnalyseLoop } from '../schedule/types.js';
+import type { OperatingPointModel } from '../tuning/operating-point.js';
 import { analyseLoop } from '../verify/analyse-loop.js';
+import type { AnalysisOptions } from '../verify/analyse-open-loop.js';
 import type { LoopMargins } from '../verify/types.js';
 import type { CheckModel } from './check-model.js';
 import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 
 /** Build the (speed_mps, gains) → LoopMargins function the dense check and refinement call. */
 export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings): AnalyseLoop {
-  return (speed_mps: number, gains: PidGains): LoopMargins => {
-    const operatingPoint = model.modelAt(speed_mps);
-    requireBoundedDelay(modelDelay_s(operatingPoint), controller, speed_mps);
-    const plant =
-      operatingPoint.kind === 'single-track'
-        ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
-        : loopPlantFromLumped({ specification: loop, model: operatingPoint.yawRate, speed_mps, controller, cgToFrontAxle_m: operatingPoint.cgToFrontAxle_m });
-    return analyseSampledLoop(plant, gains, controller);
-  };
+  return (speed_mps: number, gains: PidGains): LoopMargins => analyseOperatingPoint(model.modelAt(speed_mps), loop, controller, speed_mps, gains);
+}
+
+/** The dense check's analysis of one operating-point model (e.g. the check model with a variation applied) at one speed. */
+export function analyseOperatingPoint(
+  operatingPoint: OperatingPointModel,
+  loop: LoopSpecification,
+  controller: ControllerSettings,
+  speed_mps: number,
+  gains: PidGains,
+  options: AnalysisOptions = {},
+): LoopMargins {
+  requireBoundedDelay(modelDelay_s(operatingPoint), controller, speed_mps);
+  const plant =
+    operatingPoint.kind === 'single-track'
+      ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
+      : loopPlantFromLumped({ specification: loop, model: operatingPoint.yawRate, speed_mps, controller, cgToFrontAxle_m: operatingPoint.cgToFrontAxle_m });
+  return analyseSampledLoop(plant, gains, controller, options);
 }
 
 /**
  * Margins of a loop plant (built with `controller`, src/loops) under the discrete PID the firmware runs:
  * the same analysis as the dense check (`tune` reports it beside the design loop's margins).
  */
-export function analyseSampledLoop(plant: LoopPlant, gains: PidGains, controller: ControllerSettings): LoopMargins {
+export function analyseSampledLoop(plant: LoopPlant, gains: PidGains, controller: ControllerSettings, options: AnalysisOptions = {}): LoopMargins {
   // The loop plant carries the Ts/2 + latency of the tuning model as delay; analyseLoop models the sampled loop itself.
   const vehicleDelay_s = Math.max(0, plant.plant.delay_s - samplingDelay_s(controller));
   return analyseLoop({
@@ -41,5 +52,5 @@ export function analyseSampledLoop(plant: LoopPlant, gains: PidGains, controller
     sampleTime_s: controller.sampleTime_s,
     discretisation: controller.discretisation,
     latency_s: controller.computationLatency_s,
-  });
+  }, options);
 }
