@@ -36,6 +36,7 @@ export interface RobustScheduleCheckInput {
   readonly onProgress?: ProgressCallback;
 }
 
+/** A schedule's robust check and the variations section schedule.json records of it. */
 export interface RobustScheduleCheck {
   readonly check: RobustCheckResult;
   readonly record: ScheduleVariations;

@@ -43,6 +43,7 @@ export interface RobustCheckPoint extends RobustMargins {
   readonly failures: readonly CheckFailure[];
 }
 
+/** The worst case over a variation set at every grid speed: each point's worst figures with the vehicle that gives them, the worst over the grid, pass or fail. */
 export interface RobustCheckResult {
   readonly passed: boolean;
   readonly points: readonly RobustCheckPoint[];

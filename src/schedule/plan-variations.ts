@@ -10,6 +10,7 @@ export type ChangeRange = readonly [number, number];
 /** As a plan writes a range: ± one number, or [down, up]. */
 export type WrittenRange = number | readonly [number, number];
 
+/** The plan's variations, resolved: acceptance (robust or nominal) and the range of each varied vehicle parameter. */
 export interface PlanVariations {
   /** robust: the limits hold at the worst case over the set too; nominal: the worst case is reported only. */
   readonly acceptance: 'robust' | 'nominal';
