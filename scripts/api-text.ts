@@ -9,7 +9,7 @@ import { fileURLToPath } from 'node:url';
 
 const ROOT = join(dirname(fileURLToPath(import.meta.url)), '..');
 export const API_ENTRY = join(ROOT, 'src', 'index.ts');
-export const API_REFERENCE_PATH = join(ROOT, 'docs', 'api.md');
+export const API_REFERENCE_PATH = join(ROOT, 'docs/api.md');
 
 export interface ApiEntry {
   readonly name: string;
@@ -76,7 +76,7 @@ export function apiReferenceMarkdown(groups: readonly ApiGroup[] = apiGroups()):
     "What `import { … } from 'speedband'` gives: the supported API, by pipeline stage. Every other module is internal:",
     'reachable as `speedband/internal/<stage>/<module>.js` (the compiled tree), with no promise that it stays as it is.',
     'Units are in the names (`speed_mps`, `phaseMargin_deg`); errors are `SpeedbandError` with a code from',
-    '[errors.md](errors.md).',
+    'docs/errors.md.',
     '',
   ];
   for (const group of groups) {

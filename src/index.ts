@@ -107,6 +107,15 @@ export { recheckSchedule, recheckScheduleOnAllCores, type RecheckInput } from '.
 export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
 export { runDemo, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
 
+// The worst case over a set of vehicles (src/robust/)
+export type { VariationSet, RobustSearchSettings, RobustFigure, Combination, WorstFigure, RobustTimeDomain } from './schedule/variation-types.js';
+export type { RobustMargins, RobustCheckResult } from './robust/types.js';
+export { resolveVariationSet } from './robust/variation-set.js';
+export { worstCaseOverSet } from './robust/worst-case.js';
+export { robustCheck } from './robust/robust-check.js';
+export { robustScheduleCheck, type RobustScheduleCheck } from './build/robust-schedule-check.js';
+export { VARIATION_DEFAULTS, type PlanVariations } from './schedule/plan-variations.js';
+
 // The HTML report (src/report/)
 export { gatherReportData, type ReportInput } from './report/report-data.js';
 export { renderReportHtml, writeReport } from './report/write-report.js';

@@ -19,11 +19,12 @@ export const LAYERS: Readonly<Record<string, number>> = {
   tuning: 6,
   performance: 7,
   schedule: 8,
-  export: 9,
-  compare: 9,
-  build: 10,
-  report: 11,
-  cli: 12,
+  robust: 9,
+  export: 10,
+  compare: 10,
+  build: 11,
+  report: 12,
+  cli: 13,
 };
 
 function sourceFiles(folder: string): string[] {

@@ -1,7 +1,8 @@
 /**
  * The main job: logs + vehicle (+ plan) → identified models → gains at each breakpoint by the
  * plan's rule → interpolated table → dense check at every grid speed with the discrete controller
- * → bounded breakpoint refinement → schedule file (not written here; see writeSchedule).
+ * → bounded breakpoint refinement → with the plan's variations, the worst case over them at every grid
+ * speed → schedule file (not written here; see writeSchedule).
  */
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
@@ -19,6 +20,10 @@ import type { ReadLogOptions } from '../log/read.js';
 import type { Vehicle } from '../vehicle/types.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
+import type { RobustScheduleCheck } from './robust-schedule-check.js';
+import type { TimeDomainSettings } from './robust-time-domain.js';
+import { checkTableOverVariations, planRobustContext, withRobustWeights } from './build-robust.js';
 import type { RefineResult } from '../schedule/refine.js';
 import { assembleSchedule } from '../schedule/schedule-file.js';
 import { makeRuleParameterLookup } from '../schedule/rule-parameters.js';
@@ -72,6 +77,8 @@ export interface BuildResult {
   readonly extrapolations: readonly Extrapolation[];
   /** At each final breakpoint: margins, time-domain figures and the limits broken. */
   readonly evaluations: readonly BreakpointEvaluation[];
+  /** With the plan's variations: the robust check of the final table and its record in the schedule. */
+  readonly robust?: RobustScheduleCheck;
 }
 
 /** A tuning error at one speed, with that speed in its words and details (a plan's parameters may vary with speed). */
@@ -200,6 +207,13 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   const evaluate = makeBreakpointEvaluator(evaluatorInput);
   const roomy = limitsWithRoom(thresholds, plan.acceptance);
   const evaluateWithRoom = makeBreakpointEvaluator({ ...evaluatorInput, ...roomy, skipFiguresWhenMarginsFail: true });
+  // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
+  const robustContext = planRobustContext({ plan, checkModel, loop, controller, models, planFile: input.planFile });
+  const timeDomainSettings: TimeDomainSettings = { limits: plan.acceptance, vehicleLimits: evaluatorInput.vehicleLimits, antiWindup: plan.controller.antiWindup };
+  const searchOnWorstCase = searching && plan.rule.searchOn === 'worst-case' && robustContext !== undefined;
+  const searchEvaluate = searchOnWorstCase
+    ? makeWorstCaseEvaluator({ nominal: evaluateWithRoom, context: robustContext, thresholds, timeDomain: timeDomainSettings })
+    : evaluateWithRoom;
   type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
   const tuneCache = new Map<number, Tuned>();
   const tuneWith = (speed_mps: number, ruleParameters: RuleParameters, startGains?: PidGains): TunedOperatingPoint =>
@@ -215,7 +229,7 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
             speed_mps,
             parameters: ruleParametersAt(speed_mps),
             tune: (parameters, startGains) => tuneWith(speed_mps, parameters, startGains),
-            evaluate: (gains) => evaluateWithRoom(speed_mps, gains),
+            evaluate: (gains) => searchEvaluate(speed_mps, gains),
             sensitivityLimits: { sensitivity: roomy.thresholds.maximumSensitivityPeak, complementary: roomy.thresholds.maximumComplementarySensitivityPeak },
             phaseMarginLimit_deg: roomy.thresholds.minimumPhaseMargin_deg,
           });
@@ -236,11 +250,16 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
       progress(`${event.stage}: ${event.done}/${event.total} speeds${event.note === undefined ? '' : ` — ${event.note}`}\n`);
     }
   };
-  progress(`tune and check: ${plan.rule.name}${searching ? ' (fastest passing)' : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
+  progress(`tune and check: ${plan.rule.name}${searching ? ` (fastest passing${searchOnWorstCase ? ' in the worst case over the variations' : ''})` : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
   const refinement = scheduleGains({ plan, tuneAt, analyse, onProgress });
   const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
   const tuned = entries.map((entry) => entry.tuned);
-  const evaluations = refinement.table.speeds_mps.map((speed, k) => evaluate(speed, refinement.table.gains[k]));
+  // Under robust acceptance the set-point weights are lowered until the worst overshoot over the variations keeps the limit.
+  const robustWeights = robustContext !== undefined && plan.variations?.acceptance === 'robust';
+  const evaluations = refinement.table.speeds_mps.map((speed, k) => {
+    const evaluation = evaluate(speed, refinement.table.gains[k]);
+    return robustWeights ? withRobustWeights(evaluation, speed, refinement.table.gains[k], evaluate, robustContext, timeDomainSettings) : evaluation;
+  });
   const breakpointExtras: BreakpointExtras[] = evaluations.map((evaluation) => ({
     setpointWeightProportional: evaluation.performance?.setpointWeights.proportional ?? 1,
     setpointWeightDerivative: evaluation.performance?.setpointWeights.derivative ?? 0,
@@ -250,6 +269,10 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
     timeDomainFailures: evaluation.performance === null ? ['closed loop not stable: no time-domain figures'] : evaluation.performance.failures,
   }));
   const searchAtBreakpoints = searching ? entries.map((entry) => entry.search as ScheduleSearchAt) : undefined;
+  const robust =
+    plan.variations === undefined || robustContext === undefined
+      ? undefined
+      : await checkTableOverVariations({ plan, variations: plan.variations, context: robustContext, refinement, breakpointExtras, timeDomain: timeDomainSettings, onProgress, progress });
 
   const inputs = [
     { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
@@ -283,7 +306,8 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
         }),
     breakpointExtras,
     ...(searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints }),
+    ...(robust === undefined ? {} : { variations: robust.record }),
   });
   const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
-  return { schedule, models, plan, checkModel, refinement, tuned, evaluations, extrapolations };
+  return { schedule, models, plan, checkModel, refinement, tuned, evaluations, extrapolations, ...(robust === undefined ? {} : { robust }) };
 }

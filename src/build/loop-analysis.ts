@@ -10,31 +10,48 @@ import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { loopPlantFromLumped, loopPlantFromSingleTrack } from '../loops/build.js';
 import type { LoopPlant, LoopSpecification } from '../loops/types.js';
 import type { AnalyseLoop } from '../schedule/types.js';
+import type { OperatingPointModel } from '../tuning/operating-point.js';
 import { analyseLoop, type LoopDescription } from '../verify/analyse-loop.js';
+import type { AnalysisOptions } from '../verify/analyse-open-loop.js';
 import type { LoopMargins } from '../verify/types.js';
 import type { CheckModel } from './check-model.js';
 import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 
 /** Build the (speed_mps, gains) → LoopMargins function the dense check and refinement call. */
 export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings): AnalyseLoop {
-  return (speed_mps: number, gains: PidGains): LoopMargins => analyseSampledLoop(checkLoopPlant(model, loop, controller, speed_mps), gains, controller);
+  return (speed_mps: number, gains: PidGains): LoopMargins => analyseOperatingPoint(model.modelAt(speed_mps), loop, controller, speed_mps, gains);
 }
 
 /** The loop plant of the check at one speed (the delay bound checked first). */
 export function checkLoopPlant(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings, speed_mps: number): LoopPlant {
-  const operatingPoint = model.modelAt(speed_mps);
+  return operatingPointLoopPlant(model.modelAt(speed_mps), loop, controller, speed_mps);
+}
+
+function operatingPointLoopPlant(operatingPoint: OperatingPointModel, loop: LoopSpecification, controller: ControllerSettings, speed_mps: number): LoopPlant {
   requireBoundedDelay(modelDelay_s(operatingPoint), controller, speed_mps);
   return operatingPoint.kind === 'single-track'
     ? loopPlantFromSingleTrack(loop, operatingPoint.parameters, speed_mps, controller)
     : loopPlantFromLumped({ specification: loop, model: operatingPoint.yawRate, speed_mps, controller, cgToFrontAxle_m: operatingPoint.cgToFrontAxle_m });
 }
 
+/** The dense check's analysis of one operating-point model (e.g. the check model with a variation applied) at one speed. */
+export function analyseOperatingPoint(
+  operatingPoint: OperatingPointModel,
+  loop: LoopSpecification,
+  controller: ControllerSettings,
+  speed_mps: number,
+  gains: PidGains,
+  options: AnalysisOptions = {},
+): LoopMargins {
+  return analyseSampledLoop(operatingPointLoopPlant(operatingPoint, loop, controller, speed_mps), gains, controller, options);
+}
+
 /**
  * Margins of a loop plant (built with `controller`, src/loops) under the discrete PID the firmware runs:
  * the same analysis as the dense check (`tune` reports it beside the design loop's margins).
  */
-export function analyseSampledLoop(plant: LoopPlant, gains: PidGains, controller: ControllerSettings): LoopMargins {
-  return analyseLoop(sampledLoopDescription(plant, gains, controller));
+export function analyseSampledLoop(plant: LoopPlant, gains: PidGains, controller: ControllerSettings, options: AnalysisOptions = {}): LoopMargins {
+  return analyseLoop(sampledLoopDescription(plant, gains, controller), options);
 }
 
 /** The loop `analyseSampledLoop` analyses, as a LoopDescription (for its frequency response: `openLoopOf`, `loopFrequencyResponse`). */

@@ -7,7 +7,8 @@
  * numbers (loop error, controller equations, interpolation, units, cautions), a record in
  * `provenance.handEdits` saying it was edited by hand and re-verified (which sections had changed,
  * the model, the version), and a fresh checksum. Nothing the hand edit wrote about margins or
- * status is kept: only what the check proves.
+ * status is kept: only what the check proves. A schedule that records variations has their worst case
+ * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
@@ -18,16 +19,20 @@ import { performanceLoopAt } from '../performance/loop-at-speed.js';
 import type { HandEditRecord, ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import { VERSION } from '../version.js';
+import { acceptancePassed } from '../schedule/schedule-variations.js';
 import type { CheckModel } from './check-model.js';
+import type { RobustScheduleCheck } from './robust-schedule-check.js';
 import { recheckSchedule, scheduleLoopAndController } from './recheck-schedule.js';
 
 /** The outcome of reverifySchedule: the dense check of the edited gains and, when it passes, the schedule to write. */
 export interface ReverifyResult {
   /** The dense check of the edited schedule. */
   readonly check: DenseCheckResult;
+  /** The worst case over the variations it records (null when it records none). */
+  readonly variations: RobustScheduleCheck | null;
   /** The time-domain limits the edited schedule breaks at its breakpoints, in words (empty: none). */
   readonly timeDomainFailures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
-  /** Dense check and time-domain limits both kept. */
+  /** Whether it passed: the dense check and time-domain limits kept and, under robust acceptance, the worst case. */
   readonly passed: boolean;
   /** What had changed against the checksum the file carried, in words (empty: nothing). */
   readonly changes: readonly string[];
@@ -39,11 +44,21 @@ export interface ReverifyResult {
  * Re-verify a (hand-edited) schedule on a model; see the file comment. `modelRecorded`: the model is
  * the one the schedule records (its check.model and provenance.model are kept as they are).
  */
-export function reverifySchedule(edited: ScheduleFile, model: CheckModel, options: { readonly modelRecorded?: boolean } = {}): ReverifyResult {
+export function reverifySchedule(
+  edited: ScheduleFile,
+  model: CheckModel,
+  options: {
+    readonly modelRecorded?: boolean;
+    /** When the schedule records variations: their worst case on `model` (robust-recheck.ts recheckOverVariations), run by the caller (it is asynchronous). */
+    readonly variations?: RobustScheduleCheck | null;
+  } = {},
+): ReverifyResult {
   const recorded = options.modelRecorded === true;
   const verdict = verifyScheduleChecksum(edited);
   const check = recheckSchedule({ schedule: edited, model });
-  if (!check.passed) return { check, timeDomainFailures: [], passed: false, changes: verdict.changes, schedule: null };
+  const robust = options.variations ?? null;
+  if (edited.variations !== undefined && robust === null) throw new Error('internal: a schedule with variations is re-verified with their worst case (recheckOverVariations)');
+  if (!acceptancePassed(check.passed, robust?.record)) return { check, variations: robust, timeDomainFailures: [], passed: false, changes: verdict.changes, schedule: null };
   const points = edited.breakpoints.map((row) => {
     const point = check.points.find((candidate) => candidate.speed_mps === row.speed_mps);
     if (point === undefined) throw new Error(`breakpoint ${row.speed_mps} m/s missing from the check grid`);
@@ -67,7 +82,7 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
   const timeDomainFailures = edited.breakpoints
     .map((row, k) => ({ speed_mps: row.speed_mps, messages: figures[k].failures }))
     .filter((entry) => entry.messages.length > 0);
-  if (timeDomainFailures.length > 0) return { check, timeDomainFailures, passed: false, changes: verdict.changes, schedule: null };
+  if (timeDomainFailures.length > 0) return { check, variations: robust, timeDomainFailures, passed: false, changes: verdict.changes, schedule: null };
   const record: HandEditRecord = {
     statement:
       verdict.sections.length > 0
@@ -93,6 +108,7 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
     interpolation: { ...interpolation, description: interpolationText(interpolation.method, interpolation.lowSpeedFloor_mps) },
     units: gainUnits(loop.kind),
     breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k], timeDomain: figures[k].figures })),
+    ...(robust === null ? {} : { variations: robust.record }),
     check: {
       ...edited.check,
       passed: true,
@@ -111,5 +127,5 @@ export function reverifySchedule(edited: ScheduleFile, model: CheckModel, option
     cautions: [...SAFETY_CAUTIONS],
   };
   delete withoutChecksum.checksum;
-  return { check, timeDomainFailures: [], passed: true, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
+  return { check, variations: robust, timeDomainFailures: [], passed: true, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
 }

@@ -43,7 +43,7 @@ export function formatRuleParameters(schedule: ScheduleFile): string[] {
 }
 
 /** The margins a criterion names, in the words of the table's header. */
-const CRITERION_WORDS: Readonly<Record<CheckCriterion, string>> = {
+export const CRITERION_WORDS: Readonly<Record<CheckCriterion, string>> = {
   stability: 'unstable',
   lowerGainMargin: 'lower GM',
   upperGainMargin: 'upper GM',
@@ -65,7 +65,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
   const loop = schedule.loop;
   lines.push(
     `Schedule for ${schedule.vehicle.name}: ${loop.kind} loop${loop.kind === 'path' ? ` (preview ${previewText(loop.preview_m ?? 0, loop.previewTime_s ?? 0)} from the ${referencePointText(loop.referencePoint ?? 'cg')})` : ''}, ` +
-      `rule ${schedule.provenance.rule.name}${schedule.provenance.rule.tuneFor === 'fastest-passing' ? ' (fastest passing)' : ''}, ${schedule.interpolation.method} interpolation`,
+      `rule ${schedule.provenance.rule.name}${schedule.provenance.rule.tuneFor === 'fastest-passing' ? ` (fastest passing${schedule.provenance.rule.searchOn === 'worst-case' ? ' in the worst case over the variations' : ''})` : ''}, ${schedule.interpolation.method} interpolation`,
   );
   lines.push(`  controller the gains assume: ${describeControllerSettings(schedule.controller)}`);
   lines.push(`  error: ${loop.error}`);

@@ -193,11 +193,14 @@ export function compareSchedules(
     flags.push({ kind: words.kind, speed_mps: null, quantity: `worst ${name}`, message: `worst ${words.name} of the dense check: ${where(change.old)} → ${where(change.new)}` });
   }
   if (old.status === 'passed' && next.status === 'failed') {
+    const overSet = next.check.passed && next.variations !== undefined;
     flags.push({
       kind: 'checkNowFails',
       speed_mps: null,
       quantity: 'status',
-      message: `the new schedule's dense check fails (${next.check.failedSpeeds} of ${next.check.gridSize} speeds); the old one passed`,
+      message: overSet
+        ? `the new schedule fails the worst case over its variations (${next.variations!.failedSpeeds} of ${next.variations!.gridSize} speeds, robust acceptance); the old one passed`
+        : `the new schedule's dense check fails (${next.check.failedSpeeds} of ${next.check.gridSize} speeds); the old one passed`,
     });
   }
 

@@ -1,7 +1,20 @@
 /** The comparison as Markdown for a change review: title, summary, per-speed table, worst margins, model drift, settings and a flag list. */
 import { SAFETY_EPILOGUE } from '../core/safety.js';
 import { shownSpeed } from './format.js';
-import { DRIFT_HEADER, SPEED_TABLE_HEADER, WORST_HEADER, controllerLines, driftRows, speedRow, summaryLine, thresholdsText, worstRows } from './comparison-words.js';
+import {
+  DRIFT_HEADER,
+  SPEED_TABLE_HEADER,
+  VARIATIONS_HEADER,
+  WORST_HEADER,
+  controllerLines,
+  driftRows,
+  speedRow,
+  summaryLine,
+  thresholdsText,
+  variationsHeading,
+  variationsRows,
+  worstRows,
+} from './comparison-words.js';
 import { oldGainsLead, oldGainsModelWords } from './old-gains-words.js';
 import type { ScheduleComparison } from './types.js';
 
@@ -44,6 +57,12 @@ export function comparisonMarkdown(comparison: ScheduleComparison, oldName: stri
   lines.push('### Model drift', '');
   if (comparison.modelDrift.available) lines.push(...markdownTable(DRIFT_HEADER, driftRows(comparison)), '');
   else lines.push(`Not available: ${comparison.modelDrift.reason}.`, '');
+  const variationsTitle = variationsHeading(comparison);
+  if (variationsTitle !== null) {
+    lines.push("### Worst case over the new vehicle's variations", '', variationsTitle, '');
+    const rows = variationsRows(comparison);
+    if (rows.length > 0) lines.push(...markdownTable(VARIATIONS_HEADER, rows), '');
+  }
   if (comparison.settingChanges.length > 0) {
     lines.push('### Settings', '', ...comparison.settingChanges.map((change) => `- \`${change.setting}\`: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${change.breaksGainComparison ? ' (gains not comparable)' : ''}`), '');
   }

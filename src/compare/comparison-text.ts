@@ -11,6 +11,9 @@ import {
   speedRow,
   summaryLine,
   thresholdsText,
+  VARIATIONS_HEADER,
+  variationsHeading,
+  variationsRows,
   worstRows,
 } from './comparison-words.js';
 import { oldGainsLead, oldGainsModelWords } from './old-gains-words.js';
@@ -50,6 +53,13 @@ export function comparisonText(comparison: ScheduleComparison, oldName: string, 
     lines.push('Model drift (single-track fit behind each schedule):', ...alignedTable([[...DRIFT_HEADER], ...driftRows(comparison)], [false, true, true, true, true]).map((line) => `  ${line}`), '');
   } else {
     lines.push(`Model drift: not available — ${comparison.modelDrift.reason}.`, '');
+  }
+  const variationsTitle = variationsHeading(comparison);
+  if (variationsTitle !== null) {
+    lines.push(variationsTitle);
+    const rows = variationsRows(comparison);
+    if (rows.length > 0) lines.push(...alignedTable([[...VARIATIONS_HEADER], ...rows], [true, false, false, false, false]).map((line) => `  ${line}`));
+    lines.push('');
   }
   if (comparison.settingChanges.length > 0) {
     lines.push('Settings changed:', ...comparison.settingChanges.map((change) => `  ${change.setting}: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${change.breaksGainComparison ? ' (gains not comparable)' : ''}`), '');

@@ -5,7 +5,7 @@
 import { describeControllerSettings } from '../controller/defaults.js';
 import type { ControllerSettings } from '../controller/types.js';
 import { shown, shownPercent, shownSpeed } from './format.js';
-import type { ComparedSpeed, GainChange, MarginChange, ScheduleComparison } from './types.js';
+import type { ComparedSpeed, GainChange, MarginChange, ScheduleComparison, WorstCaseSide } from './types.js';
 
 export const SPEED_TABLE_HEADER = ['speed m/s', 'breakpoint of', 'kp old → new', 'ki old → new', 'kd old → new', 'upper GM dB', 'lower GM dB', 'PM °', 'flags'] as const;
 
@@ -74,6 +74,33 @@ export function worstRows(comparison: ScheduleComparison): string[][] {
   ];
 }
 
+export const VARIATIONS_HEADER = ['speed m/s', 'old gains: PM ° / upper GM dB / Ms', 'new gains: PM ° / upper GM dB / Ms', 'old gains vs limits', 'new gains vs limits'] as const;
+
+/** A schedule's worst case at one speed: "41.4 / 10.32 / 1.821", or "unstable". */
+function worstCell(side: WorstCaseSide): string {
+  if (side.instability !== null) return `${side.instability.verdict}`;
+  return [side.worst.phaseMargin_deg, side.worst.upperGainMargin_dB, side.worst.sensitivityPeak].map((figure) => (figure === null ? '—' : shown(figure.value, 3))).join(' / ');
+}
+
+/** Rows of the worst case over the new vehicle's variations (empty when not available). */
+export function variationsRows(comparison: ScheduleComparison): string[][] {
+  const variations = comparison.overVariations;
+  if (variations === undefined || !variations.available) return [];
+  const verdict = (side: WorstCaseSide): string => (side.failures.length === 0 ? 'within' : `FAIL: ${side.failures.length} limit${side.failures.length === 1 ? '' : 's'}`);
+  return variations.speeds.map((row) => [shownSpeed(row.speed_mps), worstCell(row.old), worstCell(row.new), verdict(row.old), verdict(row.new)]);
+}
+
+/** The heading of that section, or why it is absent (null when it was not asked for). */
+export function variationsHeading(comparison: ScheduleComparison): string | null {
+  const variations = comparison.overVariations;
+  if (variations === undefined) return null;
+  if (!variations.available) return `Worst case over the new vehicle's variations: not available — ${variations.reason}.`;
+  return (
+    `Worst case over the new vehicle's variations (${variations.set.dimensions.length} varied parameters of the ${variations.set.model} model the new schedule records; ` +
+    `${variations.acceptance} acceptance${variations.acceptance === 'robust' ? ': the old gains are flagged where they break their limits' : ', reported only'}):`
+  );
+}
+
 /** Thresholds in words. */
 export function thresholdsText(comparison: ScheduleComparison): string {
   const t = comparison.thresholds;
@@ -89,11 +116,13 @@ export function summaryLine(comparison: ScheduleComparison): string {
   const parts: string[] = [];
   const gains = speedsWith(['gainChange']);
   const margins = speedsWith(['upperGainMarginDrop', 'lowerGainMarginCloser', 'phaseMarginDrop', 'stabilityLost']);
+  const overSet = speedsWith(['oldGainsFailOverVariations']);
   const settings = comparison.flags.filter((flag) => flag.kind === 'settingChanged').length;
   const whole = comparison.flags.filter((flag) => flag.speed_mps === null && flag.kind !== 'settingChanged' && flag.kind !== 'oldGainsFailOnNewVehicle').length;
   if (comparison.flags.some((flag) => flag.kind === 'oldGainsFailOnNewVehicle')) parts.push('the old gains fail on the new vehicle model');
   if (gains > 0) parts.push(`gains at ${gains} of ${compared} speeds`);
   if (margins > 0) parts.push(`margins at ${margins} of ${compared} speeds`);
+  if (overSet > 0) parts.push(`old gains in the worst case over the new variations at ${overSet} of ${compared} speeds`);
   if (settings > 0) parts.push(`${settings} setting${settings === 1 ? '' : 's'}`);
   if (whole > 0) parts.push(`${whole} whole-schedule finding${whole === 1 ? '' : 's'}`);
   const count = comparison.flags.length;

@@ -2,6 +2,7 @@
 export * from './types.js';
 export { COMPARE_DEFAULTS, resolveThresholds } from './defaults.js';
 export { compareSchedules } from './compare-schedules.js';
+export { withVariations } from './variations.js';
 export { gainChange, marginChange, marginLoss, type MarginSense } from './changes.js';
 export { matchSpeeds, marginsAtSpeed, type ComparedPoint, type SpeedMatch, type MarginsAtSpeed, type MarginName } from './resample.js';
 export { modelDrift, MODEL_PARAMETERS, OPTIONAL_MODEL_PARAMETERS } from './model-drift.js';

@@ -1,6 +1,7 @@
 import type { ControllerSettings } from '../controller/types.js';
 import type { FailingInterval } from '../schedule/failing-intervals.js';
 import type { AcceptanceThresholds, WorstMargins } from '../schedule/types.js';
+import type { InstabilityFound, RobustFigure, VariationSet, WorstFigure } from '../schedule/variation-types.js';
 /**
  * Records of a schedule comparison (after a vehicle change: load, tyres, actuator, firmware rate).
  * Plain, readonly, JSON-able. Speeds in m/s; gains in each schedule's own units (parallel PID,
@@ -116,7 +117,8 @@ export type FlagKind =
   | 'stabilityLost'
   | 'checkNowFails'
   | 'understeerBecameOversteer'
-  | 'oldGainsFailOnNewVehicle';
+  | 'oldGainsFailOnNewVehicle'
+  | 'oldGainsFailOverVariations';
 
 /** One thing past a threshold, in words, with the numbers. */
 export interface ComparisonFlag {
@@ -162,6 +164,37 @@ export type OldGainsOnNewVehicle =
     }
   | { readonly available: false; readonly reason: string };
 
+/** One schedule's gains at one compared speed, in the worst case over the new schedule's variation set. */
+export interface WorstCaseSide {
+  readonly instability: InstabilityFound | null;
+  readonly worst: Readonly<Record<RobustFigure, WorstFigure | null>>;
+  /** The schedule's own acceptance limits its worst case breaks, in words (empty: within them). */
+  readonly failures: readonly string[];
+}
+
+/** Both schedules' gains over the new vehicle's variation set at one compared speed. */
+export interface VariationsAtSpeed {
+  readonly speed_mps: number;
+  readonly old: WorstCaseSide;
+  readonly new: WorstCaseSide;
+}
+
+/**
+ * The old and the new gains in the worst case over the new schedule's variation set, on the model it records (the
+ * same search as its robust check, each schedule with its own loop, controller and limits). Unavailable when the
+ * new schedule records no variations or no model speedband can rebuild, or when not asked for.
+ */
+export type VariationsComparison =
+  | {
+      readonly available: true;
+      readonly acceptance: 'robust' | 'nominal';
+      readonly set: VariationSet;
+      /** The model the set varies, in words. */
+      readonly model: string;
+      readonly speeds: readonly VariationsAtSpeed[];
+    }
+  | { readonly available: false; readonly reason: string };
+
 /** What moved between two schedules: gain and margin changes per speed, model drift, setting changes, flags. */
 export interface ScheduleComparison {
   readonly old: ScheduleSummary;
@@ -185,5 +218,7 @@ export interface ScheduleComparison {
     readonly phaseMargin_deg: WorstMarginChange;
   };
   readonly modelDrift: ModelDrift;
+  /** The old gains over the new vehicle's variation set (compare/variations.ts); absent when not computed. */
+  readonly overVariations?: VariationsComparison;
   readonly flags: readonly ComparisonFlag[];
 }

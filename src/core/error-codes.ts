@@ -126,6 +126,7 @@ export const ERROR_CODES = {
   // Checking a schedule
   'check.delayTooLong': 'The loop\'s dead time is longer than the analysis handles, usually a unit mistake: check the latency, sample time and actuator delay.',
   'check.noModel': 'The schedule records no vehicle model speedband can rebuild: give the model with --models models.json or --logs.',
+  'check.variationsModelMismatch': 'The schedule\'s variation set varies another kind of model than the one the check runs on: check on the model the schedule was built on, or rebuild it.',
 
   // Stability analysis
   'verify.analysisTooLarge': 'The loop\'s delay is too long for the analysis (too many samples or phase turns), usually a unit mistake: check the delays and the sample time.',

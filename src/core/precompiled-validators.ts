@@ -5306,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"searchOn":{"enum":["nominal","worst-case"],"description":"With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -5456,7 +5456,7 @@ if(data.rule !== undefined){
 let data7 = data.rule;
 if(data7 && typeof data7 == "object" && !Array.isArray(data7)){
 for(const key2 in data7){
-if(!(((key2 === "name") || (key2 === "tuneFor")) || (key2 === "parameters"))){
+if(!((((key2 === "name") || (key2 === "tuneFor")) || (key2 === "searchOn")) || (key2 === "parameters"))){
 const err11 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key2},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err11];
@@ -5493,12 +5493,10 @@ vErrors.push(err13);
 errors++;
 }
 }
-if(data7.parameters !== undefined){
-let data10 = data7.parameters;
-if(data10 && typeof data10 == "object" && !Array.isArray(data10)){
-for(const key3 in data10){
-if(!(func18.call(schema10.properties.rule.properties.parameters.properties, key3))){
-const err14 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
+if(data7.searchOn !== undefined){
+let data10 = data7.searchOn;
+if(!((data10 === "nominal") || (data10 === "worst-case"))){
+const err14 = {instancePath:instancePath+"/rule/searchOn",schemaPath:"#/properties/rule/properties/searchOn/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.searchOn.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err14];
 }
@@ -5508,10 +5506,12 @@ vErrors.push(err14);
 errors++;
 }
 }
-if(data10.controllerType !== undefined){
-let data11 = data10.controllerType;
-if(!(((data11 === "P") || (data11 === "PI")) || (data11 === "PID"))){
-const err15 = {instancePath:instancePath+"/rule/parameters/controllerType",schemaPath:"#/properties/rule/properties/parameters/properties/controllerType/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.parameters.properties.controllerType.enum},message:"must be equal to one of the allowed values"};
+if(data7.parameters !== undefined){
+let data11 = data7.parameters;
+if(data11 && typeof data11 == "object" && !Array.isArray(data11)){
+for(const key3 in data11){
+if(!(func18.call(schema10.properties.rule.properties.parameters.properties, key3))){
+const err15 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key3},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err15];
 }
@@ -5521,15 +5521,10 @@ vErrors.push(err15);
 errors++;
 }
 }
-if(data10.closedLoopTimeConstant_s !== undefined){
-let data12 = data10.closedLoopTimeConstant_s;
-const _errs25 = errors;
-let valid4 = false;
-let passing0 = null;
-const _errs26 = errors;
-if((typeof data12 == "number") && (isFinite(data12))){
-if(data12 <= 0 || isNaN(data12)){
-const err16 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data11.controllerType !== undefined){
+let data12 = data11.controllerType;
+if(!(((data12 === "P") || (data12 === "PI")) || (data12 === "PID"))){
+const err16 = {instancePath:instancePath+"/rule/parameters/controllerType",schemaPath:"#/properties/rule/properties/parameters/properties/controllerType/enum",keyword:"enum",params:{allowedValues: schema10.properties.rule.properties.parameters.properties.controllerType.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err16];
 }
@@ -5539,8 +5534,15 @@ vErrors.push(err16);
 errors++;
 }
 }
-else {
-const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data11.closedLoopTimeConstant_s !== undefined){
+let data13 = data11.closedLoopTimeConstant_s;
+const _errs26 = errors;
+let valid4 = false;
+let passing0 = null;
+const _errs27 = errors;
+if((typeof data13 == "number") && (isFinite(data13))){
+if(data13 <= 0 || isNaN(data13)){
+const err17 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err17];
 }
@@ -5549,15 +5551,9 @@ vErrors.push(err17);
 }
 errors++;
 }
-var _valid0 = _errs26 === errors;
-if(_valid0){
-valid4 = true;
-passing0 = 0;
 }
-const _errs28 = errors;
-if(typeof data12 === "string"){
-if(func0(data12) < 1){
-const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err18 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err18];
 }
@@ -5566,9 +5562,15 @@ vErrors.push(err18);
 }
 errors++;
 }
+var _valid0 = _errs27 === errors;
+if(_valid0){
+valid4 = true;
+passing0 = 0;
 }
-else {
-const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs29 = errors;
+if(typeof data13 === "string"){
+if(func0(data13) < 1){
+const err19 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err19];
 }
@@ -5577,7 +5579,18 @@ vErrors.push(err19);
 }
 errors++;
 }
-var _valid0 = _errs28 === errors;
+}
+else {
+const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err20];
+}
+else {
+vErrors.push(err20);
+}
+errors++;
+}
+var _valid0 = _errs29 === errors;
 if(_valid0 && valid4){
 valid4 = false;
 passing0 = [passing0, 1];
@@ -5587,20 +5600,10 @@ if(_valid0){
 valid4 = true;
 passing0 = 1;
 }
-const _errs30 = errors;
-if(data12 && typeof data12 == "object" && !Array.isArray(data12)){
-if(data12.speeds_mps === undefined){
-const err20 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err20];
-}
-else {
-vErrors.push(err20);
-}
-errors++;
-}
-if(data12.values === undefined){
-const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs31 = errors;
+if(data13 && typeof data13 == "object" && !Array.isArray(data13)){
+if(data13.speeds_mps === undefined){
+const err21 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err21];
 }
@@ -5609,9 +5612,8 @@ vErrors.push(err21);
 }
 errors++;
 }
-for(const key4 in data12){
-if(!((key4 === "speeds_mps") || (key4 === "values"))){
-const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
+if(data13.values === undefined){
+const err22 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err22];
 }
@@ -5620,12 +5622,9 @@ vErrors.push(err22);
 }
 errors++;
 }
-}
-if(data12.speeds_mps !== undefined){
-let data13 = data12.speeds_mps;
-if(Array.isArray(data13)){
-if(data13.length < 1){
-const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key4 in data13){
+if(!((key4 === "speeds_mps") || (key4 === "values"))){
+const err23 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key4},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err23];
 }
@@ -5634,12 +5633,12 @@ vErrors.push(err23);
 }
 errors++;
 }
-const len0 = data13.length;
-for(let i0=0; i0<len0; i0++){
-let data14 = data13[i0];
-if((typeof data14 == "number") && (isFinite(data14))){
-if(data14 < 0 || isNaN(data14)){
-const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data13.speeds_mps !== undefined){
+let data14 = data13.speeds_mps;
+if(Array.isArray(data14)){
+if(data14.length < 1){
+const err24 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err24];
 }
@@ -5648,9 +5647,12 @@ vErrors.push(err24);
 }
 errors++;
 }
-}
-else {
-const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len0 = data14.length;
+for(let i0=0; i0<len0; i0++){
+let data15 = data14[i0];
+if((typeof data15 == "number") && (isFinite(data15))){
+if(data15 < 0 || isNaN(data15)){
+const err25 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err25];
 }
@@ -5660,9 +5662,8 @@ vErrors.push(err25);
 errors++;
 }
 }
-}
 else {
-const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err26 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps/" + i0,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err26];
 }
@@ -5672,11 +5673,9 @@ vErrors.push(err26);
 errors++;
 }
 }
-if(data12.values !== undefined){
-let data15 = data12.values;
-if(Array.isArray(data15)){
-if(data15.length < 1){
-const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err27 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err27];
 }
@@ -5685,12 +5684,12 @@ vErrors.push(err27);
 }
 errors++;
 }
-const len1 = data15.length;
-for(let i1=0; i1<len1; i1++){
-let data16 = data15[i1];
-if((typeof data16 == "number") && (isFinite(data16))){
-if(data16 <= 0 || isNaN(data16)){
-const err28 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data13.values !== undefined){
+let data16 = data13.values;
+if(Array.isArray(data16)){
+if(data16.length < 1){
+const err28 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err28];
 }
@@ -5699,9 +5698,12 @@ vErrors.push(err28);
 }
 errors++;
 }
-}
-else {
-const err29 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len1 = data16.length;
+for(let i1=0; i1<len1; i1++){
+let data17 = data16[i1];
+if((typeof data17 == "number") && (isFinite(data17))){
+if(data17 <= 0 || isNaN(data17)){
+const err29 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err29];
 }
@@ -5711,9 +5713,8 @@ vErrors.push(err29);
 errors++;
 }
 }
-}
 else {
-const err30 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err30 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values/" + i1,schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err30];
 }
@@ -5725,7 +5726,7 @@ errors++;
 }
 }
 else {
-const err31 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err31 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err31];
 }
@@ -5734,7 +5735,19 @@ vErrors.push(err31);
 }
 errors++;
 }
-var _valid0 = _errs30 === errors;
+}
+}
+else {
+const err32 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err32];
+}
+else {
+vErrors.push(err32);
+}
+errors++;
+}
+var _valid0 = _errs31 === errors;
 if(_valid0 && valid4){
 valid4 = false;
 passing0 = [passing0, 2];
@@ -5747,36 +5760,7 @@ passing0 = 2;
 }
 }
 if(!valid4){
-const err32 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err32];
-}
-else {
-vErrors.push(err32);
-}
-errors++;
-}
-else {
-errors = _errs25;
-if(vErrors !== null){
-if(_errs25){
-vErrors.length = _errs25;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data10.simcClosedLoopTimeConstant_s !== undefined){
-let data17 = data10.simcClosedLoopTimeConstant_s;
-const _errs42 = errors;
-let valid10 = false;
-let passing1 = null;
-const _errs43 = errors;
-if((typeof data17 == "number") && (isFinite(data17))){
-if(data17 <= 0 || isNaN(data17)){
-const err33 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err33 = {instancePath:instancePath+"/rule/parameters/closedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/closedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing0},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err33];
 }
@@ -5785,9 +5769,27 @@ vErrors.push(err33);
 }
 errors++;
 }
+else {
+errors = _errs26;
+if(vErrors !== null){
+if(_errs26){
+vErrors.length = _errs26;
 }
 else {
-const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data11.simcClosedLoopTimeConstant_s !== undefined){
+let data18 = data11.simcClosedLoopTimeConstant_s;
+const _errs43 = errors;
+let valid10 = false;
+let passing1 = null;
+const _errs44 = errors;
+if((typeof data18 == "number") && (isFinite(data18))){
+if(data18 <= 0 || isNaN(data18)){
+const err34 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err34];
 }
@@ -5796,15 +5798,9 @@ vErrors.push(err34);
 }
 errors++;
 }
-var _valid1 = _errs43 === errors;
-if(_valid1){
-valid10 = true;
-passing1 = 0;
 }
-const _errs45 = errors;
-if(typeof data17 === "string"){
-if(func0(data17) < 1){
-const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err35 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err35];
 }
@@ -5813,9 +5809,15 @@ vErrors.push(err35);
 }
 errors++;
 }
+var _valid1 = _errs44 === errors;
+if(_valid1){
+valid10 = true;
+passing1 = 0;
 }
-else {
-const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs46 = errors;
+if(typeof data18 === "string"){
+if(func0(data18) < 1){
+const err36 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err36];
 }
@@ -5824,7 +5826,18 @@ vErrors.push(err36);
 }
 errors++;
 }
-var _valid1 = _errs45 === errors;
+}
+else {
+const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err37];
+}
+else {
+vErrors.push(err37);
+}
+errors++;
+}
+var _valid1 = _errs46 === errors;
 if(_valid1 && valid10){
 valid10 = false;
 passing1 = [passing1, 1];
@@ -5834,20 +5847,10 @@ if(_valid1){
 valid10 = true;
 passing1 = 1;
 }
-const _errs47 = errors;
-if(data17 && typeof data17 == "object" && !Array.isArray(data17)){
-if(data17.speeds_mps === undefined){
-const err37 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err37];
-}
-else {
-vErrors.push(err37);
-}
-errors++;
-}
-if(data17.values === undefined){
-const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs48 = errors;
+if(data18 && typeof data18 == "object" && !Array.isArray(data18)){
+if(data18.speeds_mps === undefined){
+const err38 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err38];
 }
@@ -5856,9 +5859,8 @@ vErrors.push(err38);
 }
 errors++;
 }
-for(const key5 in data17){
-if(!((key5 === "speeds_mps") || (key5 === "values"))){
-const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
+if(data18.values === undefined){
+const err39 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err39];
 }
@@ -5867,12 +5869,9 @@ vErrors.push(err39);
 }
 errors++;
 }
-}
-if(data17.speeds_mps !== undefined){
-let data18 = data17.speeds_mps;
-if(Array.isArray(data18)){
-if(data18.length < 1){
-const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key5 in data18){
+if(!((key5 === "speeds_mps") || (key5 === "values"))){
+const err40 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key5},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err40];
 }
@@ -5881,12 +5880,12 @@ vErrors.push(err40);
 }
 errors++;
 }
-const len2 = data18.length;
-for(let i2=0; i2<len2; i2++){
-let data19 = data18[i2];
-if((typeof data19 == "number") && (isFinite(data19))){
-if(data19 < 0 || isNaN(data19)){
-const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data18.speeds_mps !== undefined){
+let data19 = data18.speeds_mps;
+if(Array.isArray(data19)){
+if(data19.length < 1){
+const err41 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err41];
 }
@@ -5895,9 +5894,12 @@ vErrors.push(err41);
 }
 errors++;
 }
-}
-else {
-const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len2 = data19.length;
+for(let i2=0; i2<len2; i2++){
+let data20 = data19[i2];
+if((typeof data20 == "number") && (isFinite(data20))){
+if(data20 < 0 || isNaN(data20)){
+const err42 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err42];
 }
@@ -5907,9 +5909,8 @@ vErrors.push(err42);
 errors++;
 }
 }
-}
 else {
-const err43 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err43 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps/" + i2,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err43];
 }
@@ -5919,11 +5920,9 @@ vErrors.push(err43);
 errors++;
 }
 }
-if(data17.values !== undefined){
-let data20 = data17.values;
-if(Array.isArray(data20)){
-if(data20.length < 1){
-const err44 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err44 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err44];
 }
@@ -5932,12 +5931,12 @@ vErrors.push(err44);
 }
 errors++;
 }
-const len3 = data20.length;
-for(let i3=0; i3<len3; i3++){
-let data21 = data20[i3];
-if((typeof data21 == "number") && (isFinite(data21))){
-if(data21 <= 0 || isNaN(data21)){
-const err45 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data18.values !== undefined){
+let data21 = data18.values;
+if(Array.isArray(data21)){
+if(data21.length < 1){
+const err45 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err45];
 }
@@ -5946,9 +5945,12 @@ vErrors.push(err45);
 }
 errors++;
 }
-}
-else {
-const err46 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len3 = data21.length;
+for(let i3=0; i3<len3; i3++){
+let data22 = data21[i3];
+if((typeof data22 == "number") && (isFinite(data22))){
+if(data22 <= 0 || isNaN(data22)){
+const err46 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err46];
 }
@@ -5958,9 +5960,8 @@ vErrors.push(err46);
 errors++;
 }
 }
-}
 else {
-const err47 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err47 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values/" + i3,schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err47];
 }
@@ -5972,7 +5973,7 @@ errors++;
 }
 }
 else {
-const err48 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err48 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s/values",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err48];
 }
@@ -5981,7 +5982,19 @@ vErrors.push(err48);
 }
 errors++;
 }
-var _valid1 = _errs47 === errors;
+}
+}
+else {
+const err49 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err49];
+}
+else {
+vErrors.push(err49);
+}
+errors++;
+}
+var _valid1 = _errs48 === errors;
 if(_valid1 && valid10){
 valid10 = false;
 passing1 = [passing1, 2];
@@ -5994,36 +6007,7 @@ passing1 = 2;
 }
 }
 if(!valid10){
-const err49 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err49];
-}
-else {
-vErrors.push(err49);
-}
-errors++;
-}
-else {
-errors = _errs42;
-if(vErrors !== null){
-if(_errs42){
-vErrors.length = _errs42;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data10.dampingRatio !== undefined){
-let data22 = data10.dampingRatio;
-const _errs59 = errors;
-let valid16 = false;
-let passing2 = null;
-const _errs60 = errors;
-if((typeof data22 == "number") && (isFinite(data22))){
-if(data22 <= 0 || isNaN(data22)){
-const err50 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err50 = {instancePath:instancePath+"/rule/parameters/simcClosedLoopTimeConstant_s",schemaPath:"#/properties/rule/properties/parameters/properties/simcClosedLoopTimeConstant_s/oneOf",keyword:"oneOf",params:{passingSchemas: passing1},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err50];
 }
@@ -6032,9 +6016,27 @@ vErrors.push(err50);
 }
 errors++;
 }
+else {
+errors = _errs43;
+if(vErrors !== null){
+if(_errs43){
+vErrors.length = _errs43;
 }
 else {
-const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data11.dampingRatio !== undefined){
+let data23 = data11.dampingRatio;
+const _errs60 = errors;
+let valid16 = false;
+let passing2 = null;
+const _errs61 = errors;
+if((typeof data23 == "number") && (isFinite(data23))){
+if(data23 <= 0 || isNaN(data23)){
+const err51 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err51];
 }
@@ -6043,15 +6045,9 @@ vErrors.push(err51);
 }
 errors++;
 }
-var _valid2 = _errs60 === errors;
-if(_valid2){
-valid16 = true;
-passing2 = 0;
 }
-const _errs62 = errors;
-if(typeof data22 === "string"){
-if(func0(data22) < 1){
-const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err52 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err52];
 }
@@ -6060,9 +6056,15 @@ vErrors.push(err52);
 }
 errors++;
 }
+var _valid2 = _errs61 === errors;
+if(_valid2){
+valid16 = true;
+passing2 = 0;
 }
-else {
-const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs63 = errors;
+if(typeof data23 === "string"){
+if(func0(data23) < 1){
+const err53 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err53];
 }
@@ -6071,7 +6073,18 @@ vErrors.push(err53);
 }
 errors++;
 }
-var _valid2 = _errs62 === errors;
+}
+else {
+const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err54];
+}
+else {
+vErrors.push(err54);
+}
+errors++;
+}
+var _valid2 = _errs63 === errors;
 if(_valid2 && valid16){
 valid16 = false;
 passing2 = [passing2, 1];
@@ -6081,20 +6094,10 @@ if(_valid2){
 valid16 = true;
 passing2 = 1;
 }
-const _errs64 = errors;
-if(data22 && typeof data22 == "object" && !Array.isArray(data22)){
-if(data22.speeds_mps === undefined){
-const err54 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err54];
-}
-else {
-vErrors.push(err54);
-}
-errors++;
-}
-if(data22.values === undefined){
-const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs65 = errors;
+if(data23 && typeof data23 == "object" && !Array.isArray(data23)){
+if(data23.speeds_mps === undefined){
+const err55 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err55];
 }
@@ -6103,9 +6106,8 @@ vErrors.push(err55);
 }
 errors++;
 }
-for(const key6 in data22){
-if(!((key6 === "speeds_mps") || (key6 === "values"))){
-const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
+if(data23.values === undefined){
+const err56 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err56];
 }
@@ -6114,12 +6116,9 @@ vErrors.push(err56);
 }
 errors++;
 }
-}
-if(data22.speeds_mps !== undefined){
-let data23 = data22.speeds_mps;
-if(Array.isArray(data23)){
-if(data23.length < 1){
-const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key6 in data23){
+if(!((key6 === "speeds_mps") || (key6 === "values"))){
+const err57 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key6},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err57];
 }
@@ -6128,12 +6127,12 @@ vErrors.push(err57);
 }
 errors++;
 }
-const len4 = data23.length;
-for(let i4=0; i4<len4; i4++){
-let data24 = data23[i4];
-if((typeof data24 == "number") && (isFinite(data24))){
-if(data24 < 0 || isNaN(data24)){
-const err58 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data23.speeds_mps !== undefined){
+let data24 = data23.speeds_mps;
+if(Array.isArray(data24)){
+if(data24.length < 1){
+const err58 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err58];
 }
@@ -6142,9 +6141,12 @@ vErrors.push(err58);
 }
 errors++;
 }
-}
-else {
-const err59 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len4 = data24.length;
+for(let i4=0; i4<len4; i4++){
+let data25 = data24[i4];
+if((typeof data25 == "number") && (isFinite(data25))){
+if(data25 < 0 || isNaN(data25)){
+const err59 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err59];
 }
@@ -6154,9 +6156,8 @@ vErrors.push(err59);
 errors++;
 }
 }
-}
 else {
-const err60 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err60 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps/" + i4,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err60];
 }
@@ -6166,11 +6167,9 @@ vErrors.push(err60);
 errors++;
 }
 }
-if(data22.values !== undefined){
-let data25 = data22.values;
-if(Array.isArray(data25)){
-if(data25.length < 1){
-const err61 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err61 = {instancePath:instancePath+"/rule/parameters/dampingRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err61];
 }
@@ -6179,12 +6178,12 @@ vErrors.push(err61);
 }
 errors++;
 }
-const len5 = data25.length;
-for(let i5=0; i5<len5; i5++){
-let data26 = data25[i5];
-if((typeof data26 == "number") && (isFinite(data26))){
-if(data26 <= 0 || isNaN(data26)){
-const err62 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data23.values !== undefined){
+let data26 = data23.values;
+if(Array.isArray(data26)){
+if(data26.length < 1){
+const err62 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err62];
 }
@@ -6193,9 +6192,12 @@ vErrors.push(err62);
 }
 errors++;
 }
-}
-else {
-const err63 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len5 = data26.length;
+for(let i5=0; i5<len5; i5++){
+let data27 = data26[i5];
+if((typeof data27 == "number") && (isFinite(data27))){
+if(data27 <= 0 || isNaN(data27)){
+const err63 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err63];
 }
@@ -6205,9 +6207,8 @@ vErrors.push(err63);
 errors++;
 }
 }
-}
 else {
-const err64 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err64 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values/" + i5,schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err64];
 }
@@ -6219,7 +6220,7 @@ errors++;
 }
 }
 else {
-const err65 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err65 = {instancePath:instancePath+"/rule/parameters/dampingRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err65];
 }
@@ -6228,7 +6229,19 @@ vErrors.push(err65);
 }
 errors++;
 }
-var _valid2 = _errs64 === errors;
+}
+}
+else {
+const err66 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err66];
+}
+else {
+vErrors.push(err66);
+}
+errors++;
+}
+var _valid2 = _errs65 === errors;
 if(_valid2 && valid16){
 valid16 = false;
 passing2 = [passing2, 2];
@@ -6241,36 +6254,7 @@ passing2 = 2;
 }
 }
 if(!valid16){
-const err66 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err66];
-}
-else {
-vErrors.push(err66);
-}
-errors++;
-}
-else {
-errors = _errs59;
-if(vErrors !== null){
-if(_errs59){
-vErrors.length = _errs59;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data10.naturalFrequency_radps !== undefined){
-let data27 = data10.naturalFrequency_radps;
-const _errs76 = errors;
-let valid22 = false;
-let passing3 = null;
-const _errs77 = errors;
-if((typeof data27 == "number") && (isFinite(data27))){
-if(data27 <= 0 || isNaN(data27)){
-const err67 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err67 = {instancePath:instancePath+"/rule/parameters/dampingRatio",schemaPath:"#/properties/rule/properties/parameters/properties/dampingRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing2},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err67];
 }
@@ -6279,9 +6263,27 @@ vErrors.push(err67);
 }
 errors++;
 }
+else {
+errors = _errs60;
+if(vErrors !== null){
+if(_errs60){
+vErrors.length = _errs60;
 }
 else {
-const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data11.naturalFrequency_radps !== undefined){
+let data28 = data11.naturalFrequency_radps;
+const _errs77 = errors;
+let valid22 = false;
+let passing3 = null;
+const _errs78 = errors;
+if((typeof data28 == "number") && (isFinite(data28))){
+if(data28 <= 0 || isNaN(data28)){
+const err68 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err68];
 }
@@ -6290,15 +6292,9 @@ vErrors.push(err68);
 }
 errors++;
 }
-var _valid3 = _errs77 === errors;
-if(_valid3){
-valid22 = true;
-passing3 = 0;
 }
-const _errs79 = errors;
-if(typeof data27 === "string"){
-if(func0(data27) < 1){
-const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err69 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err69];
 }
@@ -6307,9 +6303,15 @@ vErrors.push(err69);
 }
 errors++;
 }
+var _valid3 = _errs78 === errors;
+if(_valid3){
+valid22 = true;
+passing3 = 0;
 }
-else {
-const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs80 = errors;
+if(typeof data28 === "string"){
+if(func0(data28) < 1){
+const err70 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err70];
 }
@@ -6318,7 +6320,18 @@ vErrors.push(err70);
 }
 errors++;
 }
-var _valid3 = _errs79 === errors;
+}
+else {
+const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err71];
+}
+else {
+vErrors.push(err71);
+}
+errors++;
+}
+var _valid3 = _errs80 === errors;
 if(_valid3 && valid22){
 valid22 = false;
 passing3 = [passing3, 1];
@@ -6328,20 +6341,10 @@ if(_valid3){
 valid22 = true;
 passing3 = 1;
 }
-const _errs81 = errors;
-if(data27 && typeof data27 == "object" && !Array.isArray(data27)){
-if(data27.speeds_mps === undefined){
-const err71 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err71];
-}
-else {
-vErrors.push(err71);
-}
-errors++;
-}
-if(data27.values === undefined){
-const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs82 = errors;
+if(data28 && typeof data28 == "object" && !Array.isArray(data28)){
+if(data28.speeds_mps === undefined){
+const err72 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err72];
 }
@@ -6350,9 +6353,8 @@ vErrors.push(err72);
 }
 errors++;
 }
-for(const key7 in data27){
-if(!((key7 === "speeds_mps") || (key7 === "values"))){
-const err73 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
+if(data28.values === undefined){
+const err73 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err73];
 }
@@ -6361,12 +6363,9 @@ vErrors.push(err73);
 }
 errors++;
 }
-}
-if(data27.speeds_mps !== undefined){
-let data28 = data27.speeds_mps;
-if(Array.isArray(data28)){
-if(data28.length < 1){
-const err74 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key7 in data28){
+if(!((key7 === "speeds_mps") || (key7 === "values"))){
+const err74 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key7},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err74];
 }
@@ -6375,12 +6374,12 @@ vErrors.push(err74);
 }
 errors++;
 }
-const len6 = data28.length;
-for(let i6=0; i6<len6; i6++){
-let data29 = data28[i6];
-if((typeof data29 == "number") && (isFinite(data29))){
-if(data29 < 0 || isNaN(data29)){
-const err75 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data28.speeds_mps !== undefined){
+let data29 = data28.speeds_mps;
+if(Array.isArray(data29)){
+if(data29.length < 1){
+const err75 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err75];
 }
@@ -6389,9 +6388,12 @@ vErrors.push(err75);
 }
 errors++;
 }
-}
-else {
-const err76 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len6 = data29.length;
+for(let i6=0; i6<len6; i6++){
+let data30 = data29[i6];
+if((typeof data30 == "number") && (isFinite(data30))){
+if(data30 < 0 || isNaN(data30)){
+const err76 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err76];
 }
@@ -6401,9 +6403,8 @@ vErrors.push(err76);
 errors++;
 }
 }
-}
 else {
-const err77 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err77 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps/" + i6,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err77];
 }
@@ -6413,11 +6414,9 @@ vErrors.push(err77);
 errors++;
 }
 }
-if(data27.values !== undefined){
-let data30 = data27.values;
-if(Array.isArray(data30)){
-if(data30.length < 1){
-const err78 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err78 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err78];
 }
@@ -6426,12 +6425,12 @@ vErrors.push(err78);
 }
 errors++;
 }
-const len7 = data30.length;
-for(let i7=0; i7<len7; i7++){
-let data31 = data30[i7];
-if((typeof data31 == "number") && (isFinite(data31))){
-if(data31 <= 0 || isNaN(data31)){
-const err79 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data28.values !== undefined){
+let data31 = data28.values;
+if(Array.isArray(data31)){
+if(data31.length < 1){
+const err79 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err79];
 }
@@ -6440,9 +6439,12 @@ vErrors.push(err79);
 }
 errors++;
 }
-}
-else {
-const err80 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len7 = data31.length;
+for(let i7=0; i7<len7; i7++){
+let data32 = data31[i7];
+if((typeof data32 == "number") && (isFinite(data32))){
+if(data32 <= 0 || isNaN(data32)){
+const err80 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err80];
 }
@@ -6452,9 +6454,8 @@ vErrors.push(err80);
 errors++;
 }
 }
-}
 else {
-const err81 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err81 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values/" + i7,schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err81];
 }
@@ -6466,7 +6467,7 @@ errors++;
 }
 }
 else {
-const err82 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err82 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps/values",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err82];
 }
@@ -6475,7 +6476,19 @@ vErrors.push(err82);
 }
 errors++;
 }
-var _valid3 = _errs81 === errors;
+}
+}
+else {
+const err83 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err83];
+}
+else {
+vErrors.push(err83);
+}
+errors++;
+}
+var _valid3 = _errs82 === errors;
 if(_valid3 && valid22){
 valid22 = false;
 passing3 = [passing3, 2];
@@ -6488,36 +6501,7 @@ passing3 = 2;
 }
 }
 if(!valid22){
-const err83 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err83];
-}
-else {
-vErrors.push(err83);
-}
-errors++;
-}
-else {
-errors = _errs76;
-if(vErrors !== null){
-if(_errs76){
-vErrors.length = _errs76;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data10.settlingDistance_m !== undefined){
-let data32 = data10.settlingDistance_m;
-const _errs93 = errors;
-let valid28 = false;
-let passing4 = null;
-const _errs94 = errors;
-if((typeof data32 == "number") && (isFinite(data32))){
-if(data32 <= 0 || isNaN(data32)){
-const err84 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err84 = {instancePath:instancePath+"/rule/parameters/naturalFrequency_radps",schemaPath:"#/properties/rule/properties/parameters/properties/naturalFrequency_radps/oneOf",keyword:"oneOf",params:{passingSchemas: passing3},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err84];
 }
@@ -6526,9 +6510,27 @@ vErrors.push(err84);
 }
 errors++;
 }
+else {
+errors = _errs77;
+if(vErrors !== null){
+if(_errs77){
+vErrors.length = _errs77;
 }
 else {
-const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data11.settlingDistance_m !== undefined){
+let data33 = data11.settlingDistance_m;
+const _errs94 = errors;
+let valid28 = false;
+let passing4 = null;
+const _errs95 = errors;
+if((typeof data33 == "number") && (isFinite(data33))){
+if(data33 <= 0 || isNaN(data33)){
+const err85 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err85];
 }
@@ -6537,15 +6539,9 @@ vErrors.push(err85);
 }
 errors++;
 }
-var _valid4 = _errs94 === errors;
-if(_valid4){
-valid28 = true;
-passing4 = 0;
 }
-const _errs96 = errors;
-if(typeof data32 === "string"){
-if(func0(data32) < 1){
-const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err86 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err86];
 }
@@ -6554,9 +6550,15 @@ vErrors.push(err86);
 }
 errors++;
 }
+var _valid4 = _errs95 === errors;
+if(_valid4){
+valid28 = true;
+passing4 = 0;
 }
-else {
-const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs97 = errors;
+if(typeof data33 === "string"){
+if(func0(data33) < 1){
+const err87 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err87];
 }
@@ -6565,7 +6567,18 @@ vErrors.push(err87);
 }
 errors++;
 }
-var _valid4 = _errs96 === errors;
+}
+else {
+const err88 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err88];
+}
+else {
+vErrors.push(err88);
+}
+errors++;
+}
+var _valid4 = _errs97 === errors;
 if(_valid4 && valid28){
 valid28 = false;
 passing4 = [passing4, 1];
@@ -6575,20 +6588,10 @@ if(_valid4){
 valid28 = true;
 passing4 = 1;
 }
-const _errs98 = errors;
-if(data32 && typeof data32 == "object" && !Array.isArray(data32)){
-if(data32.speeds_mps === undefined){
-const err88 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err88];
-}
-else {
-vErrors.push(err88);
-}
-errors++;
-}
-if(data32.values === undefined){
-const err89 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs99 = errors;
+if(data33 && typeof data33 == "object" && !Array.isArray(data33)){
+if(data33.speeds_mps === undefined){
+const err89 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err89];
 }
@@ -6597,9 +6600,8 @@ vErrors.push(err89);
 }
 errors++;
 }
-for(const key8 in data32){
-if(!((key8 === "speeds_mps") || (key8 === "values"))){
-const err90 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
+if(data33.values === undefined){
+const err90 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err90];
 }
@@ -6608,12 +6610,9 @@ vErrors.push(err90);
 }
 errors++;
 }
-}
-if(data32.speeds_mps !== undefined){
-let data33 = data32.speeds_mps;
-if(Array.isArray(data33)){
-if(data33.length < 1){
-const err91 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key8 in data33){
+if(!((key8 === "speeds_mps") || (key8 === "values"))){
+const err91 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key8},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err91];
 }
@@ -6622,12 +6621,12 @@ vErrors.push(err91);
 }
 errors++;
 }
-const len8 = data33.length;
-for(let i8=0; i8<len8; i8++){
-let data34 = data33[i8];
-if((typeof data34 == "number") && (isFinite(data34))){
-if(data34 < 0 || isNaN(data34)){
-const err92 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data33.speeds_mps !== undefined){
+let data34 = data33.speeds_mps;
+if(Array.isArray(data34)){
+if(data34.length < 1){
+const err92 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err92];
 }
@@ -6636,9 +6635,12 @@ vErrors.push(err92);
 }
 errors++;
 }
-}
-else {
-const err93 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len8 = data34.length;
+for(let i8=0; i8<len8; i8++){
+let data35 = data34[i8];
+if((typeof data35 == "number") && (isFinite(data35))){
+if(data35 < 0 || isNaN(data35)){
+const err93 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err93];
 }
@@ -6648,9 +6650,8 @@ vErrors.push(err93);
 errors++;
 }
 }
-}
 else {
-const err94 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err94 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps/" + i8,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err94];
 }
@@ -6660,11 +6661,9 @@ vErrors.push(err94);
 errors++;
 }
 }
-if(data32.values !== undefined){
-let data35 = data32.values;
-if(Array.isArray(data35)){
-if(data35.length < 1){
-const err95 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err95 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err95];
 }
@@ -6673,12 +6672,12 @@ vErrors.push(err95);
 }
 errors++;
 }
-const len9 = data35.length;
-for(let i9=0; i9<len9; i9++){
-let data36 = data35[i9];
-if((typeof data36 == "number") && (isFinite(data36))){
-if(data36 <= 0 || isNaN(data36)){
-const err96 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data33.values !== undefined){
+let data36 = data33.values;
+if(Array.isArray(data36)){
+if(data36.length < 1){
+const err96 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err96];
 }
@@ -6687,9 +6686,12 @@ vErrors.push(err96);
 }
 errors++;
 }
-}
-else {
-const err97 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len9 = data36.length;
+for(let i9=0; i9<len9; i9++){
+let data37 = data36[i9];
+if((typeof data37 == "number") && (isFinite(data37))){
+if(data37 <= 0 || isNaN(data37)){
+const err97 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err97];
 }
@@ -6699,9 +6701,8 @@ vErrors.push(err97);
 errors++;
 }
 }
-}
 else {
-const err98 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err98 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values/" + i9,schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err98];
 }
@@ -6713,7 +6714,7 @@ errors++;
 }
 }
 else {
-const err99 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err99 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m/values",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err99];
 }
@@ -6722,7 +6723,19 @@ vErrors.push(err99);
 }
 errors++;
 }
-var _valid4 = _errs98 === errors;
+}
+}
+else {
+const err100 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err100];
+}
+else {
+vErrors.push(err100);
+}
+errors++;
+}
+var _valid4 = _errs99 === errors;
 if(_valid4 && valid28){
 valid28 = false;
 passing4 = [passing4, 2];
@@ -6735,36 +6748,7 @@ passing4 = 2;
 }
 }
 if(!valid28){
-const err100 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err100];
-}
-else {
-vErrors.push(err100);
-}
-errors++;
-}
-else {
-errors = _errs93;
-if(vErrors !== null){
-if(_errs93){
-vErrors.length = _errs93;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data10.integralPoleRatio !== undefined){
-let data37 = data10.integralPoleRatio;
-const _errs110 = errors;
-let valid34 = false;
-let passing5 = null;
-const _errs111 = errors;
-if((typeof data37 == "number") && (isFinite(data37))){
-if(data37 <= 0 || isNaN(data37)){
-const err101 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err101 = {instancePath:instancePath+"/rule/parameters/settlingDistance_m",schemaPath:"#/properties/rule/properties/parameters/properties/settlingDistance_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing4},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err101];
 }
@@ -6773,9 +6757,27 @@ vErrors.push(err101);
 }
 errors++;
 }
+else {
+errors = _errs94;
+if(vErrors !== null){
+if(_errs94){
+vErrors.length = _errs94;
 }
 else {
-const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data11.integralPoleRatio !== undefined){
+let data38 = data11.integralPoleRatio;
+const _errs111 = errors;
+let valid34 = false;
+let passing5 = null;
+const _errs112 = errors;
+if((typeof data38 == "number") && (isFinite(data38))){
+if(data38 <= 0 || isNaN(data38)){
+const err102 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err102];
 }
@@ -6784,15 +6786,9 @@ vErrors.push(err102);
 }
 errors++;
 }
-var _valid5 = _errs111 === errors;
-if(_valid5){
-valid34 = true;
-passing5 = 0;
 }
-const _errs113 = errors;
-if(typeof data37 === "string"){
-if(func0(data37) < 1){
-const err103 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err103 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err103];
 }
@@ -6801,9 +6797,15 @@ vErrors.push(err103);
 }
 errors++;
 }
+var _valid5 = _errs112 === errors;
+if(_valid5){
+valid34 = true;
+passing5 = 0;
 }
-else {
-const err104 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs114 = errors;
+if(typeof data38 === "string"){
+if(func0(data38) < 1){
+const err104 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err104];
 }
@@ -6812,7 +6814,18 @@ vErrors.push(err104);
 }
 errors++;
 }
-var _valid5 = _errs113 === errors;
+}
+else {
+const err105 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err105];
+}
+else {
+vErrors.push(err105);
+}
+errors++;
+}
+var _valid5 = _errs114 === errors;
 if(_valid5 && valid34){
 valid34 = false;
 passing5 = [passing5, 1];
@@ -6822,20 +6835,10 @@ if(_valid5){
 valid34 = true;
 passing5 = 1;
 }
-const _errs115 = errors;
-if(data37 && typeof data37 == "object" && !Array.isArray(data37)){
-if(data37.speeds_mps === undefined){
-const err105 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err105];
-}
-else {
-vErrors.push(err105);
-}
-errors++;
-}
-if(data37.values === undefined){
-const err106 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs116 = errors;
+if(data38 && typeof data38 == "object" && !Array.isArray(data38)){
+if(data38.speeds_mps === undefined){
+const err106 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err106];
 }
@@ -6844,9 +6847,8 @@ vErrors.push(err106);
 }
 errors++;
 }
-for(const key9 in data37){
-if(!((key9 === "speeds_mps") || (key9 === "values"))){
-const err107 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
+if(data38.values === undefined){
+const err107 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err107];
 }
@@ -6855,12 +6857,9 @@ vErrors.push(err107);
 }
 errors++;
 }
-}
-if(data37.speeds_mps !== undefined){
-let data38 = data37.speeds_mps;
-if(Array.isArray(data38)){
-if(data38.length < 1){
-const err108 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key9 in data38){
+if(!((key9 === "speeds_mps") || (key9 === "values"))){
+const err108 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key9},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err108];
 }
@@ -6869,12 +6868,12 @@ vErrors.push(err108);
 }
 errors++;
 }
-const len10 = data38.length;
-for(let i10=0; i10<len10; i10++){
-let data39 = data38[i10];
-if((typeof data39 == "number") && (isFinite(data39))){
-if(data39 < 0 || isNaN(data39)){
-const err109 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data38.speeds_mps !== undefined){
+let data39 = data38.speeds_mps;
+if(Array.isArray(data39)){
+if(data39.length < 1){
+const err109 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err109];
 }
@@ -6883,9 +6882,12 @@ vErrors.push(err109);
 }
 errors++;
 }
-}
-else {
-const err110 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len10 = data39.length;
+for(let i10=0; i10<len10; i10++){
+let data40 = data39[i10];
+if((typeof data40 == "number") && (isFinite(data40))){
+if(data40 < 0 || isNaN(data40)){
+const err110 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err110];
 }
@@ -6895,9 +6897,8 @@ vErrors.push(err110);
 errors++;
 }
 }
-}
 else {
-const err111 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err111 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps/" + i10,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err111];
 }
@@ -6907,11 +6908,9 @@ vErrors.push(err111);
 errors++;
 }
 }
-if(data37.values !== undefined){
-let data40 = data37.values;
-if(Array.isArray(data40)){
-if(data40.length < 1){
-const err112 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err112 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err112];
 }
@@ -6920,12 +6919,12 @@ vErrors.push(err112);
 }
 errors++;
 }
-const len11 = data40.length;
-for(let i11=0; i11<len11; i11++){
-let data41 = data40[i11];
-if((typeof data41 == "number") && (isFinite(data41))){
-if(data41 <= 0 || isNaN(data41)){
-const err113 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data38.values !== undefined){
+let data41 = data38.values;
+if(Array.isArray(data41)){
+if(data41.length < 1){
+const err113 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err113];
 }
@@ -6934,9 +6933,12 @@ vErrors.push(err113);
 }
 errors++;
 }
-}
-else {
-const err114 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len11 = data41.length;
+for(let i11=0; i11<len11; i11++){
+let data42 = data41[i11];
+if((typeof data42 == "number") && (isFinite(data42))){
+if(data42 <= 0 || isNaN(data42)){
+const err114 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err114];
 }
@@ -6946,9 +6948,8 @@ vErrors.push(err114);
 errors++;
 }
 }
-}
 else {
-const err115 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err115 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values/" + i11,schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err115];
 }
@@ -6960,7 +6961,7 @@ errors++;
 }
 }
 else {
-const err116 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err116 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio/values",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err116];
 }
@@ -6969,7 +6970,19 @@ vErrors.push(err116);
 }
 errors++;
 }
-var _valid5 = _errs115 === errors;
+}
+}
+else {
+const err117 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err117];
+}
+else {
+vErrors.push(err117);
+}
+errors++;
+}
+var _valid5 = _errs116 === errors;
 if(_valid5 && valid34){
 valid34 = false;
 passing5 = [passing5, 2];
@@ -6982,36 +6995,7 @@ passing5 = 2;
 }
 }
 if(!valid34){
-const err117 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err117];
-}
-else {
-vErrors.push(err117);
-}
-errors++;
-}
-else {
-errors = _errs110;
-if(vErrors !== null){
-if(_errs110){
-vErrors.length = _errs110;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data10.sensitivityPeakTarget !== undefined){
-let data42 = data10.sensitivityPeakTarget;
-const _errs127 = errors;
-let valid40 = false;
-let passing6 = null;
-const _errs128 = errors;
-if((typeof data42 == "number") && (isFinite(data42))){
-if(data42 <= 0 || isNaN(data42)){
-const err118 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err118 = {instancePath:instancePath+"/rule/parameters/integralPoleRatio",schemaPath:"#/properties/rule/properties/parameters/properties/integralPoleRatio/oneOf",keyword:"oneOf",params:{passingSchemas: passing5},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err118];
 }
@@ -7020,9 +7004,27 @@ vErrors.push(err118);
 }
 errors++;
 }
+else {
+errors = _errs111;
+if(vErrors !== null){
+if(_errs111){
+vErrors.length = _errs111;
 }
 else {
-const err119 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data11.sensitivityPeakTarget !== undefined){
+let data43 = data11.sensitivityPeakTarget;
+const _errs128 = errors;
+let valid40 = false;
+let passing6 = null;
+const _errs129 = errors;
+if((typeof data43 == "number") && (isFinite(data43))){
+if(data43 <= 0 || isNaN(data43)){
+const err119 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err119];
 }
@@ -7031,15 +7033,9 @@ vErrors.push(err119);
 }
 errors++;
 }
-var _valid6 = _errs128 === errors;
-if(_valid6){
-valid40 = true;
-passing6 = 0;
 }
-const _errs130 = errors;
-if(typeof data42 === "string"){
-if(func0(data42) < 1){
-const err120 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err120 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err120];
 }
@@ -7048,9 +7044,15 @@ vErrors.push(err120);
 }
 errors++;
 }
+var _valid6 = _errs129 === errors;
+if(_valid6){
+valid40 = true;
+passing6 = 0;
 }
-else {
-const err121 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs131 = errors;
+if(typeof data43 === "string"){
+if(func0(data43) < 1){
+const err121 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err121];
 }
@@ -7059,7 +7061,18 @@ vErrors.push(err121);
 }
 errors++;
 }
-var _valid6 = _errs130 === errors;
+}
+else {
+const err122 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err122];
+}
+else {
+vErrors.push(err122);
+}
+errors++;
+}
+var _valid6 = _errs131 === errors;
 if(_valid6 && valid40){
 valid40 = false;
 passing6 = [passing6, 1];
@@ -7069,20 +7082,10 @@ if(_valid6){
 valid40 = true;
 passing6 = 1;
 }
-const _errs132 = errors;
-if(data42 && typeof data42 == "object" && !Array.isArray(data42)){
-if(data42.speeds_mps === undefined){
-const err122 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err122];
-}
-else {
-vErrors.push(err122);
-}
-errors++;
-}
-if(data42.values === undefined){
-const err123 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs133 = errors;
+if(data43 && typeof data43 == "object" && !Array.isArray(data43)){
+if(data43.speeds_mps === undefined){
+const err123 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err123];
 }
@@ -7091,9 +7094,8 @@ vErrors.push(err123);
 }
 errors++;
 }
-for(const key10 in data42){
-if(!((key10 === "speeds_mps") || (key10 === "values"))){
-const err124 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
+if(data43.values === undefined){
+const err124 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err124];
 }
@@ -7102,12 +7104,9 @@ vErrors.push(err124);
 }
 errors++;
 }
-}
-if(data42.speeds_mps !== undefined){
-let data43 = data42.speeds_mps;
-if(Array.isArray(data43)){
-if(data43.length < 1){
-const err125 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key10 in data43){
+if(!((key10 === "speeds_mps") || (key10 === "values"))){
+const err125 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key10},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err125];
 }
@@ -7116,12 +7115,12 @@ vErrors.push(err125);
 }
 errors++;
 }
-const len12 = data43.length;
-for(let i12=0; i12<len12; i12++){
-let data44 = data43[i12];
-if((typeof data44 == "number") && (isFinite(data44))){
-if(data44 < 0 || isNaN(data44)){
-const err126 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data43.speeds_mps !== undefined){
+let data44 = data43.speeds_mps;
+if(Array.isArray(data44)){
+if(data44.length < 1){
+const err126 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err126];
 }
@@ -7130,9 +7129,12 @@ vErrors.push(err126);
 }
 errors++;
 }
-}
-else {
-const err127 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len12 = data44.length;
+for(let i12=0; i12<len12; i12++){
+let data45 = data44[i12];
+if((typeof data45 == "number") && (isFinite(data45))){
+if(data45 < 0 || isNaN(data45)){
+const err127 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err127];
 }
@@ -7142,9 +7144,8 @@ vErrors.push(err127);
 errors++;
 }
 }
-}
 else {
-const err128 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err128 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps/" + i12,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err128];
 }
@@ -7154,11 +7155,9 @@ vErrors.push(err128);
 errors++;
 }
 }
-if(data42.values !== undefined){
-let data45 = data42.values;
-if(Array.isArray(data45)){
-if(data45.length < 1){
-const err129 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err129 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err129];
 }
@@ -7167,12 +7166,12 @@ vErrors.push(err129);
 }
 errors++;
 }
-const len13 = data45.length;
-for(let i13=0; i13<len13; i13++){
-let data46 = data45[i13];
-if((typeof data46 == "number") && (isFinite(data46))){
-if(data46 <= 0 || isNaN(data46)){
-const err130 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data43.values !== undefined){
+let data46 = data43.values;
+if(Array.isArray(data46)){
+if(data46.length < 1){
+const err130 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err130];
 }
@@ -7181,9 +7180,12 @@ vErrors.push(err130);
 }
 errors++;
 }
-}
-else {
-const err131 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len13 = data46.length;
+for(let i13=0; i13<len13; i13++){
+let data47 = data46[i13];
+if((typeof data47 == "number") && (isFinite(data47))){
+if(data47 <= 0 || isNaN(data47)){
+const err131 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err131];
 }
@@ -7193,9 +7195,8 @@ vErrors.push(err131);
 errors++;
 }
 }
-}
 else {
-const err132 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err132 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values/" + i13,schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err132];
 }
@@ -7207,7 +7208,7 @@ errors++;
 }
 }
 else {
-const err133 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err133 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget/values",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err133];
 }
@@ -7216,7 +7217,19 @@ vErrors.push(err133);
 }
 errors++;
 }
-var _valid6 = _errs132 === errors;
+}
+}
+else {
+const err134 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err134];
+}
+else {
+vErrors.push(err134);
+}
+errors++;
+}
+var _valid6 = _errs133 === errors;
 if(_valid6 && valid40){
 valid40 = false;
 passing6 = [passing6, 2];
@@ -7229,36 +7242,7 @@ passing6 = 2;
 }
 }
 if(!valid40){
-const err134 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err134];
-}
-else {
-vErrors.push(err134);
-}
-errors++;
-}
-else {
-errors = _errs127;
-if(vErrors !== null){
-if(_errs127){
-vErrors.length = _errs127;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data10.phaseMarginTarget_deg !== undefined){
-let data47 = data10.phaseMarginTarget_deg;
-const _errs144 = errors;
-let valid46 = false;
-let passing7 = null;
-const _errs145 = errors;
-if((typeof data47 == "number") && (isFinite(data47))){
-if(data47 <= 0 || isNaN(data47)){
-const err135 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+const err135 = {instancePath:instancePath+"/rule/parameters/sensitivityPeakTarget",schemaPath:"#/properties/rule/properties/parameters/properties/sensitivityPeakTarget/oneOf",keyword:"oneOf",params:{passingSchemas: passing6},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err135];
 }
@@ -7267,9 +7251,27 @@ vErrors.push(err135);
 }
 errors++;
 }
+else {
+errors = _errs128;
+if(vErrors !== null){
+if(_errs128){
+vErrors.length = _errs128;
 }
 else {
-const err136 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data11.phaseMarginTarget_deg !== undefined){
+let data48 = data11.phaseMarginTarget_deg;
+const _errs145 = errors;
+let valid46 = false;
+let passing7 = null;
+const _errs146 = errors;
+if((typeof data48 == "number") && (isFinite(data48))){
+if(data48 <= 0 || isNaN(data48)){
+const err136 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err136];
 }
@@ -7278,15 +7280,9 @@ vErrors.push(err136);
 }
 errors++;
 }
-var _valid7 = _errs145 === errors;
-if(_valid7){
-valid46 = true;
-passing7 = 0;
 }
-const _errs147 = errors;
-if(typeof data47 === "string"){
-if(func0(data47) < 1){
-const err137 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
+else {
+const err137 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err137];
 }
@@ -7295,9 +7291,15 @@ vErrors.push(err137);
 }
 errors++;
 }
+var _valid7 = _errs146 === errors;
+if(_valid7){
+valid46 = true;
+passing7 = 0;
 }
-else {
-const err138 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const _errs148 = errors;
+if(typeof data48 === "string"){
+if(func0(data48) < 1){
+const err138 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/minLength",keyword:"minLength",params:{limit: 1},message:"must NOT have fewer than 1 characters"};
 if(vErrors === null){
 vErrors = [err138];
 }
@@ -7306,7 +7308,18 @@ vErrors.push(err138);
 }
 errors++;
 }
-var _valid7 = _errs147 === errors;
+}
+else {
+const err139 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/1/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err139];
+}
+else {
+vErrors.push(err139);
+}
+errors++;
+}
+var _valid7 = _errs148 === errors;
 if(_valid7 && valid46){
 valid46 = false;
 passing7 = [passing7, 1];
@@ -7316,20 +7329,10 @@ if(_valid7){
 valid46 = true;
 passing7 = 1;
 }
-const _errs149 = errors;
-if(data47 && typeof data47 == "object" && !Array.isArray(data47)){
-if(data47.speeds_mps === undefined){
-const err139 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
-if(vErrors === null){
-vErrors = [err139];
-}
-else {
-vErrors.push(err139);
-}
-errors++;
-}
-if(data47.values === undefined){
-const err140 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
+const _errs150 = errors;
+if(data48 && typeof data48 == "object" && !Array.isArray(data48)){
+if(data48.speeds_mps === undefined){
+const err140 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err140];
 }
@@ -7338,9 +7341,8 @@ vErrors.push(err140);
 }
 errors++;
 }
-for(const key11 in data47){
-if(!((key11 === "speeds_mps") || (key11 === "values"))){
-const err141 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
+if(data48.values === undefined){
+const err141 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/required",keyword:"required",params:{missingProperty: "values"},message:"must have required property '"+"values"+"'"};
 if(vErrors === null){
 vErrors = [err141];
 }
@@ -7349,12 +7351,9 @@ vErrors.push(err141);
 }
 errors++;
 }
-}
-if(data47.speeds_mps !== undefined){
-let data48 = data47.speeds_mps;
-if(Array.isArray(data48)){
-if(data48.length < 1){
-const err142 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key11 in data48){
+if(!((key11 === "speeds_mps") || (key11 === "values"))){
+const err142 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key11},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err142];
 }
@@ -7363,12 +7362,12 @@ vErrors.push(err142);
 }
 errors++;
 }
-const len14 = data48.length;
-for(let i14=0; i14<len14; i14++){
-let data49 = data48[i14];
-if((typeof data49 == "number") && (isFinite(data49))){
-if(data49 < 0 || isNaN(data49)){
-const err143 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data48.speeds_mps !== undefined){
+let data49 = data48.speeds_mps;
+if(Array.isArray(data49)){
+if(data49.length < 1){
+const err143 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err143];
 }
@@ -7377,9 +7376,12 @@ vErrors.push(err143);
 }
 errors++;
 }
-}
-else {
-const err144 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len14 = data49.length;
+for(let i14=0; i14<len14; i14++){
+let data50 = data49[i14];
+if((typeof data50 == "number") && (isFinite(data50))){
+if(data50 < 0 || isNaN(data50)){
+const err144 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err144];
 }
@@ -7389,9 +7391,8 @@ vErrors.push(err144);
 errors++;
 }
 }
-}
 else {
-const err145 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err145 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps/" + i14,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err145];
 }
@@ -7401,11 +7402,9 @@ vErrors.push(err145);
 errors++;
 }
 }
-if(data47.values !== undefined){
-let data50 = data47.values;
-if(Array.isArray(data50)){
-if(data50.length < 1){
-const err146 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err146 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/speeds_mps",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err146];
 }
@@ -7414,12 +7413,12 @@ vErrors.push(err146);
 }
 errors++;
 }
-const len15 = data50.length;
-for(let i15=0; i15<len15; i15++){
-let data51 = data50[i15];
-if((typeof data51 == "number") && (isFinite(data51))){
-if(data51 <= 0 || isNaN(data51)){
-const err147 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data48.values !== undefined){
+let data51 = data48.values;
+if(Array.isArray(data51)){
+if(data51.length < 1){
+const err147 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err147];
 }
@@ -7428,9 +7427,12 @@ vErrors.push(err147);
 }
 errors++;
 }
-}
-else {
-const err148 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len15 = data51.length;
+for(let i15=0; i15<len15; i15++){
+let data52 = data51[i15];
+if((typeof data52 == "number") && (isFinite(data52))){
+if(data52 <= 0 || isNaN(data52)){
+const err148 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err148];
 }
@@ -7440,9 +7442,8 @@ vErrors.push(err148);
 errors++;
 }
 }
-}
 else {
-const err149 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err149 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values/" + i15,schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err149];
 }
@@ -7454,7 +7455,7 @@ errors++;
 }
 }
 else {
-const err150 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err150 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg/values",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/properties/values/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err150];
 }
@@ -7463,7 +7464,19 @@ vErrors.push(err150);
 }
 errors++;
 }
-var _valid7 = _errs149 === errors;
+}
+}
+else {
+const err151 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf/2/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err151];
+}
+else {
+vErrors.push(err151);
+}
+errors++;
+}
+var _valid7 = _errs150 === errors;
 if(_valid7 && valid46){
 valid46 = false;
 passing7 = [passing7, 2];
@@ -7476,20 +7489,20 @@ passing7 = 2;
 }
 }
 if(!valid46){
-const err151 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf",keyword:"oneOf",params:{passingSchemas: passing7},message:"must match exactly one schema in oneOf"};
+const err152 = {instancePath:instancePath+"/rule/parameters/phaseMarginTarget_deg",schemaPath:"#/properties/rule/properties/parameters/properties/phaseMarginTarget_deg/oneOf",keyword:"oneOf",params:{passingSchemas: passing7},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
-vErrors = [err151];
+vErrors = [err152];
 }
 else {
-vErrors.push(err151);
+vErrors.push(err152);
 }
 errors++;
 }
 else {
-errors = _errs144;
+errors = _errs145;
 if(vErrors !== null){
-if(_errs144){
-vErrors.length = _errs144;
+if(_errs145){
+vErrors.length = _errs145;
 }
 else {
 vErrors = null;
@@ -7499,19 +7512,7 @@ vErrors = null;
 }
 }
 else {
-const err152 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
-if(vErrors === null){
-vErrors = [err152];
-}
-else {
-vErrors.push(err152);
-}
-errors++;
-}
-}
-}
-else {
-const err153 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err153 = {instancePath:instancePath+"/rule/parameters",schemaPath:"#/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err153];
 }
@@ -7521,12 +7522,9 @@ vErrors.push(err153);
 errors++;
 }
 }
-if(data.speeds !== undefined){
-let data52 = data.speeds;
-if(data52 && typeof data52 == "object" && !Array.isArray(data52)){
-for(const key12 in data52){
-if(!(((key12 === "minimum_mps") || (key12 === "maximum_mps")) || (key12 === "lowSpeedFloor_mps"))){
-const err154 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
+}
+else {
+const err154 = {instancePath:instancePath+"/rule",schemaPath:"#/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err154];
 }
@@ -7536,11 +7534,12 @@ vErrors.push(err154);
 errors++;
 }
 }
-if(data52.minimum_mps !== undefined){
-let data53 = data52.minimum_mps;
-if((typeof data53 == "number") && (isFinite(data53))){
-if(data53 < 0 || isNaN(data53)){
-const err155 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data.speeds !== undefined){
+let data53 = data.speeds;
+if(data53 && typeof data53 == "object" && !Array.isArray(data53)){
+for(const key12 in data53){
+if(!(((key12 === "minimum_mps") || (key12 === "maximum_mps")) || (key12 === "lowSpeedFloor_mps"))){
+const err155 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key12},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err155];
 }
@@ -7550,8 +7549,11 @@ vErrors.push(err155);
 errors++;
 }
 }
-else {
-const err156 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data53.minimum_mps !== undefined){
+let data54 = data53.minimum_mps;
+if((typeof data54 == "number") && (isFinite(data54))){
+if(data54 < 0 || isNaN(data54)){
+const err156 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err156];
 }
@@ -7561,11 +7563,8 @@ vErrors.push(err156);
 errors++;
 }
 }
-if(data52.maximum_mps !== undefined){
-let data54 = data52.maximum_mps;
-if((typeof data54 == "number") && (isFinite(data54))){
-if(data54 <= 0 || isNaN(data54)){
-const err157 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err157 = {instancePath:instancePath+"/speeds/minimum_mps",schemaPath:"#/properties/speeds/properties/minimum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err157];
 }
@@ -7575,8 +7574,11 @@ vErrors.push(err157);
 errors++;
 }
 }
-else {
-const err158 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data53.maximum_mps !== undefined){
+let data55 = data53.maximum_mps;
+if((typeof data55 == "number") && (isFinite(data55))){
+if(data55 <= 0 || isNaN(data55)){
+const err158 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err158];
 }
@@ -7586,11 +7588,8 @@ vErrors.push(err158);
 errors++;
 }
 }
-if(data52.lowSpeedFloor_mps !== undefined){
-let data55 = data52.lowSpeedFloor_mps;
-if((typeof data55 == "number") && (isFinite(data55))){
-if(data55 <= 0 || isNaN(data55)){
-const err159 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err159 = {instancePath:instancePath+"/speeds/maximum_mps",schemaPath:"#/properties/speeds/properties/maximum_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err159];
 }
@@ -7600,8 +7599,11 @@ vErrors.push(err159);
 errors++;
 }
 }
-else {
-const err160 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data53.lowSpeedFloor_mps !== undefined){
+let data56 = data53.lowSpeedFloor_mps;
+if((typeof data56 == "number") && (isFinite(data56))){
+if(data56 <= 0 || isNaN(data56)){
+const err160 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err160];
 }
@@ -7611,9 +7613,8 @@ vErrors.push(err160);
 errors++;
 }
 }
-}
 else {
-const err161 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err161 = {instancePath:instancePath+"/speeds/lowSpeedFloor_mps",schemaPath:"#/properties/speeds/properties/lowSpeedFloor_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err161];
 }
@@ -7623,15 +7624,9 @@ vErrors.push(err161);
 errors++;
 }
 }
-if(data.breakpoints !== undefined){
-let data56 = data.breakpoints;
-const _errs170 = errors;
-let valid53 = false;
-let passing8 = null;
-const _errs171 = errors;
-if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
-if(data56.speeds_mps === undefined){
-const err162 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
+}
+else {
+const err162 = {instancePath:instancePath+"/speeds",schemaPath:"#/properties/speeds/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err162];
 }
@@ -7640,9 +7635,16 @@ vErrors.push(err162);
 }
 errors++;
 }
-for(const key13 in data56){
-if(!(key13 === "speeds_mps")){
-const err163 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
+}
+if(data.breakpoints !== undefined){
+let data57 = data.breakpoints;
+const _errs171 = errors;
+let valid53 = false;
+let passing8 = null;
+const _errs172 = errors;
+if(data57 && typeof data57 == "object" && !Array.isArray(data57)){
+if(data57.speeds_mps === undefined){
+const err163 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err163];
 }
@@ -7651,12 +7653,9 @@ vErrors.push(err163);
 }
 errors++;
 }
-}
-if(data56.speeds_mps !== undefined){
-let data57 = data56.speeds_mps;
-if(Array.isArray(data57)){
-if(data57.length < 1){
-const err164 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+for(const key13 in data57){
+if(!(key13 === "speeds_mps")){
+const err164 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key13},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err164];
 }
@@ -7665,12 +7664,12 @@ vErrors.push(err164);
 }
 errors++;
 }
-const len16 = data57.length;
-for(let i16=0; i16<len16; i16++){
-let data58 = data57[i16];
-if((typeof data58 == "number") && (isFinite(data58))){
-if(data58 <= 0 || isNaN(data58)){
-const err165 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+}
+if(data57.speeds_mps !== undefined){
+let data58 = data57.speeds_mps;
+if(Array.isArray(data58)){
+if(data58.length < 1){
+const err165 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
 if(vErrors === null){
 vErrors = [err165];
 }
@@ -7679,9 +7678,12 @@ vErrors.push(err165);
 }
 errors++;
 }
-}
-else {
-const err166 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const len16 = data58.length;
+for(let i16=0; i16<len16; i16++){
+let data59 = data58[i16];
+if((typeof data59 == "number") && (isFinite(data59))){
+if(data59 <= 0 || isNaN(data59)){
+const err166 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err166];
 }
@@ -7691,9 +7693,8 @@ vErrors.push(err166);
 errors++;
 }
 }
-}
 else {
-const err167 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err167 = {instancePath:instancePath+"/breakpoints/speeds_mps/" + i16,schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err167];
 }
@@ -7705,7 +7706,7 @@ errors++;
 }
 }
 else {
-const err168 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err168 = {instancePath:instancePath+"/breakpoints/speeds_mps",schemaPath:"#/properties/breakpoints/oneOf/0/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err168];
 }
@@ -7714,16 +7715,10 @@ vErrors.push(err168);
 }
 errors++;
 }
-var _valid8 = _errs171 === errors;
-if(_valid8){
-valid53 = true;
-passing8 = 0;
 }
-const _errs178 = errors;
-if(data56 && typeof data56 == "object" && !Array.isArray(data56)){
-for(const key14 in data56){
-if(!((key14 === "count") || (key14 === "spacing"))){
-const err169 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
+}
+else {
+const err169 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/0/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err169];
 }
@@ -7732,11 +7727,16 @@ vErrors.push(err169);
 }
 errors++;
 }
+var _valid8 = _errs172 === errors;
+if(_valid8){
+valid53 = true;
+passing8 = 0;
 }
-if(data56.count !== undefined){
-let data59 = data56.count;
-if(!(((typeof data59 == "number") && (!(data59 % 1) && !isNaN(data59))) && (isFinite(data59)))){
-const err170 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+const _errs179 = errors;
+if(data57 && typeof data57 == "object" && !Array.isArray(data57)){
+for(const key14 in data57){
+if(!((key14 === "count") || (key14 === "spacing"))){
+const err170 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key14},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err170];
 }
@@ -7745,9 +7745,11 @@ vErrors.push(err170);
 }
 errors++;
 }
-if((typeof data59 == "number") && (isFinite(data59))){
-if(data59 > 100 || isNaN(data59)){
-const err171 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+}
+if(data57.count !== undefined){
+let data60 = data57.count;
+if(!(((typeof data60 == "number") && (!(data60 % 1) && !isNaN(data60))) && (isFinite(data60)))){
+const err171 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err171];
 }
@@ -7756,8 +7758,9 @@ vErrors.push(err171);
 }
 errors++;
 }
-if(data59 < 1 || isNaN(data59)){
-const err172 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if((typeof data60 == "number") && (isFinite(data60))){
+if(data60 > 100 || isNaN(data60)){
+const err172 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
 if(vErrors === null){
 vErrors = [err172];
 }
@@ -7766,12 +7769,8 @@ vErrors.push(err172);
 }
 errors++;
 }
-}
-}
-if(data56.spacing !== undefined){
-let data60 = data56.spacing;
-if(!((data60 === "geometric") || (data60 === "linear"))){
-const err173 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
+if(data60 < 1 || isNaN(data60)){
+const err173 = {instancePath:instancePath+"/breakpoints/count",schemaPath:"#/properties/breakpoints/oneOf/1/properties/count/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err173];
 }
@@ -7782,8 +7781,10 @@ errors++;
 }
 }
 }
-else {
-const err174 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data57.spacing !== undefined){
+let data61 = data57.spacing;
+if(!((data61 === "geometric") || (data61 === "linear"))){
+const err174 = {instancePath:instancePath+"/breakpoints/spacing",schemaPath:"#/properties/breakpoints/oneOf/1/properties/spacing/enum",keyword:"enum",params:{allowedValues: schema10.properties.breakpoints.oneOf[1].properties.spacing.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err174];
 }
@@ -7792,7 +7793,19 @@ vErrors.push(err174);
 }
 errors++;
 }
-var _valid8 = _errs178 === errors;
+}
+}
+else {
+const err175 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf/1/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err175];
+}
+else {
+vErrors.push(err175);
+}
+errors++;
+}
+var _valid8 = _errs179 === errors;
 if(_valid8 && valid53){
 valid53 = false;
 passing8 = [passing8, 1];
@@ -7804,31 +7817,7 @@ passing8 = 1;
 }
 }
 if(!valid53){
-const err175 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing8},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err175];
-}
-else {
-vErrors.push(err175);
-}
-errors++;
-}
-else {
-errors = _errs170;
-if(vErrors !== null){
-if(_errs170){
-vErrors.length = _errs170;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data.interpolation !== undefined){
-let data61 = data.interpolation;
-if(!((data61 === "linear") || (data61 === "monotone-cubic"))){
-const err176 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
+const err176 = {instancePath:instancePath+"/breakpoints",schemaPath:"#/properties/breakpoints/oneOf",keyword:"oneOf",params:{passingSchemas: passing8},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err176];
 }
@@ -7837,13 +7826,22 @@ vErrors.push(err176);
 }
 errors++;
 }
+else {
+errors = _errs171;
+if(vErrors !== null){
+if(_errs171){
+vErrors.length = _errs171;
 }
-if(data.controller !== undefined){
-let data62 = data.controller;
-if(data62 && typeof data62 == "object" && !Array.isArray(data62)){
-for(const key15 in data62){
-if(!((((((key15 === "form") || (key15 === "derivativeFilter")) || (key15 === "sampleTime_s")) || (key15 === "discretisation")) || (key15 === "computationLatency_s")) || (key15 === "antiWindup"))){
-const err177 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data.interpolation !== undefined){
+let data62 = data.interpolation;
+if(!((data62 === "linear") || (data62 === "monotone-cubic"))){
+const err177 = {instancePath:instancePath+"/interpolation",schemaPath:"#/properties/interpolation/enum",keyword:"enum",params:{allowedValues: schema10.properties.interpolation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err177];
 }
@@ -7853,9 +7851,12 @@ vErrors.push(err177);
 errors++;
 }
 }
-if(data62.form !== undefined){
-if(!(data62.form === "parallel")){
-const err178 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
+if(data.controller !== undefined){
+let data63 = data.controller;
+if(data63 && typeof data63 == "object" && !Array.isArray(data63)){
+for(const key15 in data63){
+if(!((((((key15 === "form") || (key15 === "derivativeFilter")) || (key15 === "sampleTime_s")) || (key15 === "discretisation")) || (key15 === "computationLatency_s")) || (key15 === "antiWindup"))){
+const err178 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key15},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err178];
 }
@@ -7865,11 +7866,9 @@ vErrors.push(err178);
 errors++;
 }
 }
-if(data62.derivativeFilter !== undefined){
-let data64 = data62.derivativeFilter;
-if((typeof data64 == "number") && (isFinite(data64))){
-if(data64 <= 0 || isNaN(data64)){
-const err179 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+if(data63.form !== undefined){
+if(!(data63.form === "parallel")){
+const err179 = {instancePath:instancePath+"/controller/form",schemaPath:"#/properties/controller/properties/form/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.form.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err179];
 }
@@ -7879,8 +7878,11 @@ vErrors.push(err179);
 errors++;
 }
 }
-else {
-const err180 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data63.derivativeFilter !== undefined){
+let data65 = data63.derivativeFilter;
+if((typeof data65 == "number") && (isFinite(data65))){
+if(data65 <= 0 || isNaN(data65)){
+const err180 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err180];
 }
@@ -7890,11 +7892,8 @@ vErrors.push(err180);
 errors++;
 }
 }
-if(data62.sampleTime_s !== undefined){
-let data65 = data62.sampleTime_s;
-if((typeof data65 == "number") && (isFinite(data65))){
-if(data65 <= 0 || isNaN(data65)){
-const err181 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err181 = {instancePath:instancePath+"/controller/derivativeFilter",schemaPath:"#/properties/controller/properties/derivativeFilter/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err181];
 }
@@ -7904,8 +7903,11 @@ vErrors.push(err181);
 errors++;
 }
 }
-else {
-const err182 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data63.sampleTime_s !== undefined){
+let data66 = data63.sampleTime_s;
+if((typeof data66 == "number") && (isFinite(data66))){
+if(data66 <= 0 || isNaN(data66)){
+const err182 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err182];
 }
@@ -7915,10 +7917,8 @@ vErrors.push(err182);
 errors++;
 }
 }
-if(data62.discretisation !== undefined){
-let data66 = data62.discretisation;
-if(!((data66 === "tustin") || (data66 === "backward-euler"))){
-const err183 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
+else {
+const err183 = {instancePath:instancePath+"/controller/sampleTime_s",schemaPath:"#/properties/controller/properties/sampleTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err183];
 }
@@ -7928,11 +7928,10 @@ vErrors.push(err183);
 errors++;
 }
 }
-if(data62.computationLatency_s !== undefined){
-let data67 = data62.computationLatency_s;
-if((typeof data67 == "number") && (isFinite(data67))){
-if(data67 < 0 || isNaN(data67)){
-const err184 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data63.discretisation !== undefined){
+let data67 = data63.discretisation;
+if(!((data67 === "tustin") || (data67 === "backward-euler"))){
+const err184 = {instancePath:instancePath+"/controller/discretisation",schemaPath:"#/properties/controller/properties/discretisation/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.discretisation.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err184];
 }
@@ -7942,8 +7941,11 @@ vErrors.push(err184);
 errors++;
 }
 }
-else {
-const err185 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data63.computationLatency_s !== undefined){
+let data68 = data63.computationLatency_s;
+if((typeof data68 == "number") && (isFinite(data68))){
+if(data68 < 0 || isNaN(data68)){
+const err185 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err185];
 }
@@ -7953,10 +7955,8 @@ vErrors.push(err185);
 errors++;
 }
 }
-if(data62.antiWindup !== undefined){
-let data68 = data62.antiWindup;
-if(!((data68 === "conditional-integration") || (data68 === "back-calculation"))){
-const err186 = {instancePath:instancePath+"/controller/antiWindup",schemaPath:"#/properties/controller/properties/antiWindup/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.antiWindup.enum},message:"must be equal to one of the allowed values"};
+else {
+const err186 = {instancePath:instancePath+"/controller/computationLatency_s",schemaPath:"#/properties/controller/properties/computationLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err186];
 }
@@ -7966,9 +7966,10 @@ vErrors.push(err186);
 errors++;
 }
 }
-}
-else {
-const err187 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data63.antiWindup !== undefined){
+let data69 = data63.antiWindup;
+if(!((data69 === "conditional-integration") || (data69 === "back-calculation"))){
+const err187 = {instancePath:instancePath+"/controller/antiWindup",schemaPath:"#/properties/controller/properties/antiWindup/enum",keyword:"enum",params:{allowedValues: schema10.properties.controller.properties.antiWindup.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err187];
 }
@@ -7978,12 +7979,9 @@ vErrors.push(err187);
 errors++;
 }
 }
-if(data.acceptance !== undefined){
-let data69 = data.acceptance;
-if(data69 && typeof data69 == "object" && !Array.isArray(data69)){
-for(const key16 in data69){
-if(!(func18.call(schema10.properties.acceptance.properties, key16))){
-const err188 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
+}
+else {
+const err188 = {instancePath:instancePath+"/controller",schemaPath:"#/properties/controller/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err188];
 }
@@ -7993,11 +7991,12 @@ vErrors.push(err188);
 errors++;
 }
 }
-if(data69.maximumLowerGainMargin_dB !== undefined){
-let data70 = data69.maximumLowerGainMargin_dB;
-if((typeof data70 == "number") && (isFinite(data70))){
-if(data70 > 0 || isNaN(data70)){
-const err189 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(data.acceptance !== undefined){
+let data70 = data.acceptance;
+if(data70 && typeof data70 == "object" && !Array.isArray(data70)){
+for(const key16 in data70){
+if(!(func18.call(schema10.properties.acceptance.properties, key16))){
+const err189 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key16},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err189];
 }
@@ -8007,8 +8006,11 @@ vErrors.push(err189);
 errors++;
 }
 }
-else {
-const err190 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.maximumLowerGainMargin_dB !== undefined){
+let data71 = data70.maximumLowerGainMargin_dB;
+if((typeof data71 == "number") && (isFinite(data71))){
+if(data71 > 0 || isNaN(data71)){
+const err190 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err190];
 }
@@ -8018,11 +8020,8 @@ vErrors.push(err190);
 errors++;
 }
 }
-if(data69.minimumUpperGainMargin_dB !== undefined){
-let data71 = data69.minimumUpperGainMargin_dB;
-if((typeof data71 == "number") && (isFinite(data71))){
-if(data71 < 0 || isNaN(data71)){
-const err191 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err191 = {instancePath:instancePath+"/acceptance/maximumLowerGainMargin_dB",schemaPath:"#/properties/acceptance/properties/maximumLowerGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err191];
 }
@@ -8032,8 +8031,11 @@ vErrors.push(err191);
 errors++;
 }
 }
-else {
-const err192 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.minimumUpperGainMargin_dB !== undefined){
+let data72 = data70.minimumUpperGainMargin_dB;
+if((typeof data72 == "number") && (isFinite(data72))){
+if(data72 < 0 || isNaN(data72)){
+const err192 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err192];
 }
@@ -8043,11 +8045,8 @@ vErrors.push(err192);
 errors++;
 }
 }
-if(data69.minimumPhaseMargin_deg !== undefined){
-let data72 = data69.minimumPhaseMargin_deg;
-if((typeof data72 == "number") && (isFinite(data72))){
-if(data72 > 180 || isNaN(data72)){
-const err193 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
+else {
+const err193 = {instancePath:instancePath+"/acceptance/minimumUpperGainMargin_dB",schemaPath:"#/properties/acceptance/properties/minimumUpperGainMargin_dB/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err193];
 }
@@ -8056,8 +8055,12 @@ vErrors.push(err193);
 }
 errors++;
 }
-if(data72 < 0 || isNaN(data72)){
-const err194 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data70.minimumPhaseMargin_deg !== undefined){
+let data73 = data70.minimumPhaseMargin_deg;
+if((typeof data73 == "number") && (isFinite(data73))){
+if(data73 > 180 || isNaN(data73)){
+const err194 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/maximum",keyword:"maximum",params:{comparison: "<=", limit: 180},message:"must be <= 180"};
 if(vErrors === null){
 vErrors = [err194];
 }
@@ -8066,9 +8069,8 @@ vErrors.push(err194);
 }
 errors++;
 }
-}
-else {
-const err195 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data73 < 0 || isNaN(data73)){
+const err195 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err195];
 }
@@ -8078,11 +8080,8 @@ vErrors.push(err195);
 errors++;
 }
 }
-if(data69.maximumSensitivityPeak !== undefined){
-let data73 = data69.maximumSensitivityPeak;
-if((typeof data73 == "number") && (isFinite(data73))){
-if(data73 < 1 || isNaN(data73)){
-const err196 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+else {
+const err196 = {instancePath:instancePath+"/acceptance/minimumPhaseMargin_deg",schemaPath:"#/properties/acceptance/properties/minimumPhaseMargin_deg/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err196];
 }
@@ -8092,8 +8091,11 @@ vErrors.push(err196);
 errors++;
 }
 }
-else {
-const err197 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.maximumSensitivityPeak !== undefined){
+let data74 = data70.maximumSensitivityPeak;
+if((typeof data74 == "number") && (isFinite(data74))){
+if(data74 < 1 || isNaN(data74)){
+const err197 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err197];
 }
@@ -8103,11 +8105,8 @@ vErrors.push(err197);
 errors++;
 }
 }
-if(data69.maximumComplementarySensitivityPeak !== undefined){
-let data74 = data69.maximumComplementarySensitivityPeak;
-if((typeof data74 == "number") && (isFinite(data74))){
-if(data74 < 1 || isNaN(data74)){
-const err198 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+else {
+const err198 = {instancePath:instancePath+"/acceptance/maximumSensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumSensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err198];
 }
@@ -8117,8 +8116,11 @@ vErrors.push(err198);
 errors++;
 }
 }
-else {
-const err199 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.maximumComplementarySensitivityPeak !== undefined){
+let data75 = data70.maximumComplementarySensitivityPeak;
+if((typeof data75 == "number") && (isFinite(data75))){
+if(data75 < 1 || isNaN(data75)){
+const err199 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err199];
 }
@@ -8128,11 +8130,8 @@ vErrors.push(err199);
 errors++;
 }
 }
-if(data69.delayMarginRoom_s !== undefined){
-let data75 = data69.delayMarginRoom_s;
-if((typeof data75 == "number") && (isFinite(data75))){
-if(data75 < 0 || isNaN(data75)){
-const err200 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err200 = {instancePath:instancePath+"/acceptance/maximumComplementarySensitivityPeak",schemaPath:"#/properties/acceptance/properties/maximumComplementarySensitivityPeak/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err200];
 }
@@ -8142,8 +8141,11 @@ vErrors.push(err200);
 errors++;
 }
 }
-else {
-const err201 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.delayMarginRoom_s !== undefined){
+let data76 = data70.delayMarginRoom_s;
+if((typeof data76 == "number") && (isFinite(data76))){
+if(data76 < 0 || isNaN(data76)){
+const err201 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err201];
 }
@@ -8153,11 +8155,8 @@ vErrors.push(err201);
 errors++;
 }
 }
-if(data69.maximumOvershoot_pct !== undefined){
-let data76 = data69.maximumOvershoot_pct;
-if((typeof data76 == "number") && (isFinite(data76))){
-if(data76 < 0 || isNaN(data76)){
-const err202 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+const err202 = {instancePath:instancePath+"/acceptance/delayMarginRoom_s",schemaPath:"#/properties/acceptance/properties/delayMarginRoom_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err202];
 }
@@ -8167,8 +8166,11 @@ vErrors.push(err202);
 errors++;
 }
 }
-else {
-const err203 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.maximumOvershoot_pct !== undefined){
+let data77 = data70.maximumOvershoot_pct;
+if((typeof data77 == "number") && (isFinite(data77))){
+if(data77 < 0 || isNaN(data77)){
+const err203 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err203];
 }
@@ -8178,11 +8180,8 @@ vErrors.push(err203);
 errors++;
 }
 }
-if(data69.maximumRecoveryTime_s !== undefined){
-let data77 = data69.maximumRecoveryTime_s;
-if((typeof data77 == "number") && (isFinite(data77))){
-if(data77 <= 0 || isNaN(data77)){
-const err204 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err204 = {instancePath:instancePath+"/acceptance/maximumOvershoot_pct",schemaPath:"#/properties/acceptance/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err204];
 }
@@ -8192,8 +8191,11 @@ vErrors.push(err204);
 errors++;
 }
 }
-else {
-const err205 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.maximumRecoveryTime_s !== undefined){
+let data78 = data70.maximumRecoveryTime_s;
+if((typeof data78 == "number") && (isFinite(data78))){
+if(data78 <= 0 || isNaN(data78)){
+const err205 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err205];
 }
@@ -8203,11 +8205,8 @@ vErrors.push(err205);
 errors++;
 }
 }
-if(data69.maximumLaneChangeError_m !== undefined){
-let data78 = data69.maximumLaneChangeError_m;
-if((typeof data78 == "number") && (isFinite(data78))){
-if(data78 <= 0 || isNaN(data78)){
-const err206 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err206 = {instancePath:instancePath+"/acceptance/maximumRecoveryTime_s",schemaPath:"#/properties/acceptance/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err206];
 }
@@ -8217,8 +8216,11 @@ vErrors.push(err206);
 errors++;
 }
 }
-else {
-const err207 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.maximumLaneChangeError_m !== undefined){
+let data79 = data70.maximumLaneChangeError_m;
+if((typeof data79 == "number") && (isFinite(data79))){
+if(data79 <= 0 || isNaN(data79)){
+const err207 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err207];
 }
@@ -8228,11 +8230,8 @@ vErrors.push(err207);
 errors++;
 }
 }
-if(data69.maximumCurveEntryError_m !== undefined){
-let data79 = data69.maximumCurveEntryError_m;
-if((typeof data79 == "number") && (isFinite(data79))){
-if(data79 <= 0 || isNaN(data79)){
-const err208 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
+else {
+const err208 = {instancePath:instancePath+"/acceptance/maximumLaneChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err208];
 }
@@ -8242,8 +8241,11 @@ vErrors.push(err208);
 errors++;
 }
 }
-else {
-const err209 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data70.maximumCurveEntryError_m !== undefined){
+let data80 = data70.maximumCurveEntryError_m;
+if((typeof data80 == "number") && (isFinite(data80))){
+if(data80 <= 0 || isNaN(data80)){
+const err209 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err209];
 }
@@ -8253,9 +8255,8 @@ vErrors.push(err209);
 errors++;
 }
 }
-}
 else {
-const err210 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err210 = {instancePath:instancePath+"/acceptance/maximumCurveEntryError_m",schemaPath:"#/properties/acceptance/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err210];
 }
@@ -8265,12 +8266,9 @@ vErrors.push(err210);
 errors++;
 }
 }
-if(data.check !== undefined){
-let data80 = data.check;
-if(data80 && typeof data80 == "object" && !Array.isArray(data80)){
-for(const key17 in data80){
-if(!(((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model"))){
-const err211 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+}
+else {
+const err211 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err211];
 }
@@ -8280,10 +8278,12 @@ vErrors.push(err211);
 errors++;
 }
 }
-if(data80.gridSpeeds !== undefined){
-let data81 = data80.gridSpeeds;
-if(!(((typeof data81 == "number") && (!(data81 % 1) && !isNaN(data81))) && (isFinite(data81)))){
-const err212 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data.check !== undefined){
+let data81 = data.check;
+if(data81 && typeof data81 == "object" && !Array.isArray(data81)){
+for(const key17 in data81){
+if(!(((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model"))){
+const err212 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err212];
 }
@@ -8292,9 +8292,11 @@ vErrors.push(err212);
 }
 errors++;
 }
-if((typeof data81 == "number") && (isFinite(data81))){
-if(data81 > 100000 || isNaN(data81)){
-const err213 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+}
+if(data81.gridSpeeds !== undefined){
+let data82 = data81.gridSpeeds;
+if(!(((typeof data82 == "number") && (!(data82 % 1) && !isNaN(data82))) && (isFinite(data82)))){
+const err213 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err213];
 }
@@ -8303,8 +8305,9 @@ vErrors.push(err213);
 }
 errors++;
 }
-if(data81 < 2 || isNaN(data81)){
-const err214 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+if((typeof data82 == "number") && (isFinite(data82))){
+if(data82 > 100000 || isNaN(data82)){
+const err214 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
 if(vErrors === null){
 vErrors = [err214];
 }
@@ -8313,12 +8316,8 @@ vErrors.push(err214);
 }
 errors++;
 }
-}
-}
-if(data80.maxInsertedBreakpoints !== undefined){
-let data82 = data80.maxInsertedBreakpoints;
-if(!(((typeof data82 == "number") && (!(data82 % 1) && !isNaN(data82))) && (isFinite(data82)))){
-const err215 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data82 < 2 || isNaN(data82)){
+const err215 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
 if(vErrors === null){
 vErrors = [err215];
 }
@@ -8327,9 +8326,12 @@ vErrors.push(err215);
 }
 errors++;
 }
-if((typeof data82 == "number") && (isFinite(data82))){
-if(data82 > 100 || isNaN(data82)){
-const err216 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+}
+}
+if(data81.maxInsertedBreakpoints !== undefined){
+let data83 = data81.maxInsertedBreakpoints;
+if(!(((typeof data83 == "number") && (!(data83 % 1) && !isNaN(data83))) && (isFinite(data83)))){
+const err216 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err216];
 }
@@ -8338,8 +8340,9 @@ vErrors.push(err216);
 }
 errors++;
 }
-if(data82 < 0 || isNaN(data82)){
-const err217 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if((typeof data83 == "number") && (isFinite(data83))){
+if(data83 > 100 || isNaN(data83)){
+const err217 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
 if(vErrors === null){
 vErrors = [err217];
 }
@@ -8348,12 +8351,8 @@ vErrors.push(err217);
 }
 errors++;
 }
-}
-}
-if(data80.model !== undefined){
-let data83 = data80.model;
-if(!((data83 === "single-track") || (data83 === "interpolated-lumped"))){
-const err218 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data83 < 0 || isNaN(data83)){
+const err218 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err218];
 }
@@ -8364,8 +8363,10 @@ errors++;
 }
 }
 }
-else {
-const err219 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data81.model !== undefined){
+let data84 = data81.model;
+if(!((data84 === "single-track") || (data84 === "interpolated-lumped"))){
+const err219 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err219];
 }
@@ -8377,7 +8378,7 @@ errors++;
 }
 }
 else {
-const err220 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err220 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err220];
 }
@@ -8386,13 +8387,2872 @@ vErrors.push(err220);
 }
 errors++;
 }
+}
+if(data.variations !== undefined){
+let data85 = data.variations;
+if(data85 && typeof data85 == "object" && !Array.isArray(data85)){
+for(const key18 in data85){
+if(!(func18.call(schema10.properties.variations.properties, key18))){
+const err221 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err221];
+}
+else {
+vErrors.push(err221);
+}
+errors++;
+}
+}
+if(data85.acceptance !== undefined){
+let data86 = data85.acceptance;
+if(!((data86 === "robust") || (data86 === "nominal"))){
+const err222 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err222];
+}
+else {
+vErrors.push(err222);
+}
+errors++;
+}
+}
+if(data85.mass_pct !== undefined){
+let data87 = data85.mass_pct;
+const _errs234 = errors;
+let valid62 = false;
+let passing9 = null;
+const _errs235 = errors;
+if((typeof data87 == "number") && (isFinite(data87))){
+if(data87 > 90 || isNaN(data87)){
+const err223 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err223];
+}
+else {
+vErrors.push(err223);
+}
+errors++;
+}
+if(data87 < 0 || isNaN(data87)){
+const err224 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err224];
+}
+else {
+vErrors.push(err224);
+}
+errors++;
+}
+}
+else {
+const err225 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err225];
+}
+else {
+vErrors.push(err225);
+}
+errors++;
+}
+var _valid9 = _errs235 === errors;
+if(_valid9){
+valid62 = true;
+passing9 = 0;
+}
+const _errs237 = errors;
+if(Array.isArray(data87)){
+if(data87.length > 2){
+const err226 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err226];
+}
+else {
+vErrors.push(err226);
+}
+errors++;
+}
+if(data87.length < 2){
+const err227 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err227];
+}
+else {
+vErrors.push(err227);
+}
+errors++;
+}
+const len17 = data87.length;
+if(len17 > 0){
+let data88 = data87[0];
+if((typeof data88 == "number") && (isFinite(data88))){
+if(data88 > 0 || isNaN(data88)){
+const err228 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err228];
+}
+else {
+vErrors.push(err228);
+}
+errors++;
+}
+if(data88 < -90 || isNaN(data88)){
+const err229 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err229];
+}
+else {
+vErrors.push(err229);
+}
+errors++;
+}
+}
+else {
+const err230 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err230];
+}
+else {
+vErrors.push(err230);
+}
+errors++;
+}
+}
+if(len17 > 1){
+let data89 = data87[1];
+if((typeof data89 == "number") && (isFinite(data89))){
+if(data89 > 900 || isNaN(data89)){
+const err231 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err231];
+}
+else {
+vErrors.push(err231);
+}
+errors++;
+}
+if(data89 < 0 || isNaN(data89)){
+const err232 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err232];
+}
+else {
+vErrors.push(err232);
+}
+errors++;
+}
+}
+else {
+const err233 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err233];
+}
+else {
+vErrors.push(err233);
+}
+errors++;
+}
+}
+}
+else {
+const err234 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err234];
+}
+else {
+vErrors.push(err234);
+}
+errors++;
+}
+var _valid9 = _errs237 === errors;
+if(_valid9 && valid62){
+valid62 = false;
+passing9 = [passing9, 1];
+}
+else {
+if(_valid9){
+valid62 = true;
+passing9 = 1;
+}
+}
+if(!valid62){
+const err235 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err235];
+}
+else {
+vErrors.push(err235);
+}
+errors++;
+}
+else {
+errors = _errs234;
+if(vErrors !== null){
+if(_errs234){
+vErrors.length = _errs234;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data85.yawInertia_pct !== undefined){
+let data90 = data85.yawInertia_pct;
+const _errs244 = errors;
+let valid64 = false;
+let passing10 = null;
+const _errs245 = errors;
+if((typeof data90 == "number") && (isFinite(data90))){
+if(data90 > 90 || isNaN(data90)){
+const err236 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err236];
+}
+else {
+vErrors.push(err236);
+}
+errors++;
+}
+if(data90 < 0 || isNaN(data90)){
+const err237 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err237];
+}
+else {
+vErrors.push(err237);
+}
+errors++;
+}
+}
+else {
+const err238 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err238];
+}
+else {
+vErrors.push(err238);
+}
+errors++;
+}
+var _valid10 = _errs245 === errors;
+if(_valid10){
+valid64 = true;
+passing10 = 0;
+}
+const _errs247 = errors;
+if(Array.isArray(data90)){
+if(data90.length > 2){
+const err239 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err239];
+}
+else {
+vErrors.push(err239);
+}
+errors++;
+}
+if(data90.length < 2){
+const err240 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err240];
+}
+else {
+vErrors.push(err240);
+}
+errors++;
+}
+const len18 = data90.length;
+if(len18 > 0){
+let data91 = data90[0];
+if((typeof data91 == "number") && (isFinite(data91))){
+if(data91 > 0 || isNaN(data91)){
+const err241 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err241];
+}
+else {
+vErrors.push(err241);
+}
+errors++;
+}
+if(data91 < -90 || isNaN(data91)){
+const err242 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err242];
+}
+else {
+vErrors.push(err242);
+}
+errors++;
+}
+}
+else {
+const err243 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err243];
+}
+else {
+vErrors.push(err243);
+}
+errors++;
+}
+}
+if(len18 > 1){
+let data92 = data90[1];
+if((typeof data92 == "number") && (isFinite(data92))){
+if(data92 > 900 || isNaN(data92)){
+const err244 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err244];
+}
+else {
+vErrors.push(err244);
+}
+errors++;
+}
+if(data92 < 0 || isNaN(data92)){
+const err245 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err245];
+}
+else {
+vErrors.push(err245);
+}
+errors++;
+}
+}
+else {
+const err246 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err246];
+}
+else {
+vErrors.push(err246);
+}
+errors++;
+}
+}
+}
+else {
+const err247 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err247];
+}
+else {
+vErrors.push(err247);
+}
+errors++;
+}
+var _valid10 = _errs247 === errors;
+if(_valid10 && valid64){
+valid64 = false;
+passing10 = [passing10, 1];
+}
+else {
+if(_valid10){
+valid64 = true;
+passing10 = 1;
+}
+}
+if(!valid64){
+const err248 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err248];
+}
+else {
+vErrors.push(err248);
+}
+errors++;
+}
+else {
+errors = _errs244;
+if(vErrors !== null){
+if(_errs244){
+vErrors.length = _errs244;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data85.cgRearwardShift_m !== undefined){
+let data93 = data85.cgRearwardShift_m;
+const _errs254 = errors;
+let valid66 = false;
+let passing11 = null;
+const _errs255 = errors;
+if((typeof data93 == "number") && (isFinite(data93))){
+if(data93 > 5 || isNaN(data93)){
+const err249 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(vErrors === null){
+vErrors = [err249];
+}
+else {
+vErrors.push(err249);
+}
+errors++;
+}
+if(data93 < 0 || isNaN(data93)){
+const err250 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err250];
+}
+else {
+vErrors.push(err250);
+}
+errors++;
+}
+}
+else {
+const err251 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err251];
+}
+else {
+vErrors.push(err251);
+}
+errors++;
+}
+var _valid11 = _errs255 === errors;
+if(_valid11){
+valid66 = true;
+passing11 = 0;
+}
+const _errs257 = errors;
+if(Array.isArray(data93)){
+if(data93.length > 2){
+const err252 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err252];
+}
+else {
+vErrors.push(err252);
+}
+errors++;
+}
+if(data93.length < 2){
+const err253 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err253];
+}
+else {
+vErrors.push(err253);
+}
+errors++;
+}
+const len19 = data93.length;
+if(len19 > 0){
+let data94 = data93[0];
+if((typeof data94 == "number") && (isFinite(data94))){
+if(data94 > 0 || isNaN(data94)){
+const err254 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err254];
+}
+else {
+vErrors.push(err254);
+}
+errors++;
+}
+if(data94 < -5 || isNaN(data94)){
+const err255 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+if(vErrors === null){
+vErrors = [err255];
+}
+else {
+vErrors.push(err255);
+}
+errors++;
+}
+}
+else {
+const err256 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err256];
+}
+else {
+vErrors.push(err256);
+}
+errors++;
+}
+}
+if(len19 > 1){
+let data95 = data93[1];
+if((typeof data95 == "number") && (isFinite(data95))){
+if(data95 > 5 || isNaN(data95)){
+const err257 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(vErrors === null){
+vErrors = [err257];
+}
+else {
+vErrors.push(err257);
+}
+errors++;
+}
+if(data95 < 0 || isNaN(data95)){
+const err258 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err258];
+}
+else {
+vErrors.push(err258);
+}
+errors++;
+}
+}
+else {
+const err259 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err259];
+}
+else {
+vErrors.push(err259);
+}
+errors++;
+}
+}
+}
+else {
+const err260 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err260];
+}
+else {
+vErrors.push(err260);
+}
+errors++;
+}
+var _valid11 = _errs257 === errors;
+if(_valid11 && valid66){
+valid66 = false;
+passing11 = [passing11, 1];
+}
+else {
+if(_valid11){
+valid66 = true;
+passing11 = 1;
+}
+}
+if(!valid66){
+const err261 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err261];
+}
+else {
+vErrors.push(err261);
+}
+errors++;
+}
+else {
+errors = _errs254;
+if(vErrors !== null){
+if(_errs254){
+vErrors.length = _errs254;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data85.frontCorneringStiffness_pct !== undefined){
+let data96 = data85.frontCorneringStiffness_pct;
+const _errs264 = errors;
+let valid68 = false;
+let passing12 = null;
+const _errs265 = errors;
+if((typeof data96 == "number") && (isFinite(data96))){
+if(data96 > 90 || isNaN(data96)){
+const err262 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err262];
+}
+else {
+vErrors.push(err262);
+}
+errors++;
+}
+if(data96 < 0 || isNaN(data96)){
+const err263 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err263];
+}
+else {
+vErrors.push(err263);
+}
+errors++;
+}
+}
+else {
+const err264 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err264];
+}
+else {
+vErrors.push(err264);
+}
+errors++;
+}
+var _valid12 = _errs265 === errors;
+if(_valid12){
+valid68 = true;
+passing12 = 0;
+}
+const _errs267 = errors;
+if(Array.isArray(data96)){
+if(data96.length > 2){
+const err265 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err265];
+}
+else {
+vErrors.push(err265);
+}
+errors++;
+}
+if(data96.length < 2){
+const err266 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err266];
+}
+else {
+vErrors.push(err266);
+}
+errors++;
+}
+const len20 = data96.length;
+if(len20 > 0){
+let data97 = data96[0];
+if((typeof data97 == "number") && (isFinite(data97))){
+if(data97 > 0 || isNaN(data97)){
+const err267 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err267];
+}
+else {
+vErrors.push(err267);
+}
+errors++;
+}
+if(data97 < -90 || isNaN(data97)){
+const err268 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err268];
+}
+else {
+vErrors.push(err268);
+}
+errors++;
+}
+}
+else {
+const err269 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err269];
+}
+else {
+vErrors.push(err269);
+}
+errors++;
+}
+}
+if(len20 > 1){
+let data98 = data96[1];
+if((typeof data98 == "number") && (isFinite(data98))){
+if(data98 > 900 || isNaN(data98)){
+const err270 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err270];
+}
+else {
+vErrors.push(err270);
+}
+errors++;
+}
+if(data98 < 0 || isNaN(data98)){
+const err271 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err271];
+}
+else {
+vErrors.push(err271);
+}
+errors++;
+}
+}
+else {
+const err272 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err272];
+}
+else {
+vErrors.push(err272);
+}
+errors++;
+}
+}
+}
+else {
+const err273 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err273];
+}
+else {
+vErrors.push(err273);
+}
+errors++;
+}
+var _valid12 = _errs267 === errors;
+if(_valid12 && valid68){
+valid68 = false;
+passing12 = [passing12, 1];
+}
+else {
+if(_valid12){
+valid68 = true;
+passing12 = 1;
+}
+}
+if(!valid68){
+const err274 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err274];
+}
+else {
+vErrors.push(err274);
+}
+errors++;
+}
+else {
+errors = _errs264;
+if(vErrors !== null){
+if(_errs264){
+vErrors.length = _errs264;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data85.rearCorneringStiffness_pct !== undefined){
+let data99 = data85.rearCorneringStiffness_pct;
+const _errs274 = errors;
+let valid70 = false;
+let passing13 = null;
+const _errs275 = errors;
+if((typeof data99 == "number") && (isFinite(data99))){
+if(data99 > 90 || isNaN(data99)){
+const err275 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err275];
+}
+else {
+vErrors.push(err275);
+}
+errors++;
+}
+if(data99 < 0 || isNaN(data99)){
+const err276 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err276];
+}
+else {
+vErrors.push(err276);
+}
+errors++;
+}
+}
+else {
+const err277 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err277];
+}
+else {
+vErrors.push(err277);
+}
+errors++;
+}
+var _valid13 = _errs275 === errors;
+if(_valid13){
+valid70 = true;
+passing13 = 0;
+}
+const _errs277 = errors;
+if(Array.isArray(data99)){
+if(data99.length > 2){
+const err278 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err278];
+}
+else {
+vErrors.push(err278);
+}
+errors++;
+}
+if(data99.length < 2){
+const err279 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err279];
+}
+else {
+vErrors.push(err279);
+}
+errors++;
+}
+const len21 = data99.length;
+if(len21 > 0){
+let data100 = data99[0];
+if((typeof data100 == "number") && (isFinite(data100))){
+if(data100 > 0 || isNaN(data100)){
+const err280 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err280];
+}
+else {
+vErrors.push(err280);
+}
+errors++;
+}
+if(data100 < -90 || isNaN(data100)){
+const err281 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err281];
+}
+else {
+vErrors.push(err281);
+}
+errors++;
+}
+}
+else {
+const err282 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err282];
+}
+else {
+vErrors.push(err282);
+}
+errors++;
+}
+}
+if(len21 > 1){
+let data101 = data99[1];
+if((typeof data101 == "number") && (isFinite(data101))){
+if(data101 > 900 || isNaN(data101)){
+const err283 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err283];
+}
+else {
+vErrors.push(err283);
+}
+errors++;
+}
+if(data101 < 0 || isNaN(data101)){
+const err284 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err284];
+}
+else {
+vErrors.push(err284);
+}
+errors++;
+}
+}
+else {
+const err285 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err285];
+}
+else {
+vErrors.push(err285);
+}
+errors++;
+}
+}
+}
+else {
+const err286 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err286];
+}
+else {
+vErrors.push(err286);
+}
+errors++;
+}
+var _valid13 = _errs277 === errors;
+if(_valid13 && valid70){
+valid70 = false;
+passing13 = [passing13, 1];
+}
+else {
+if(_valid13){
+valid70 = true;
+passing13 = 1;
+}
+}
+if(!valid70){
+const err287 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing13},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err287];
+}
+else {
+vErrors.push(err287);
+}
+errors++;
+}
+else {
+errors = _errs274;
+if(vErrors !== null){
+if(_errs274){
+vErrors.length = _errs274;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data85.actuatorLag_pct !== undefined){
+let data102 = data85.actuatorLag_pct;
+const _errs284 = errors;
+let valid72 = false;
+let passing14 = null;
+const _errs285 = errors;
+if((typeof data102 == "number") && (isFinite(data102))){
+if(data102 > 90 || isNaN(data102)){
+const err288 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(vErrors === null){
+vErrors = [err288];
+}
+else {
+vErrors.push(err288);
+}
+errors++;
+}
+if(data102 < 0 || isNaN(data102)){
+const err289 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err289];
+}
+else {
+vErrors.push(err289);
+}
+errors++;
+}
+}
+else {
+const err290 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err290];
+}
+else {
+vErrors.push(err290);
+}
+errors++;
+}
+var _valid14 = _errs285 === errors;
+if(_valid14){
+valid72 = true;
+passing14 = 0;
+}
+const _errs287 = errors;
+if(Array.isArray(data102)){
+if(data102.length > 2){
+const err291 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(vErrors === null){
+vErrors = [err291];
+}
+else {
+vErrors.push(err291);
+}
+errors++;
+}
+if(data102.length < 2){
+const err292 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+if(vErrors === null){
+vErrors = [err292];
+}
+else {
+vErrors.push(err292);
+}
+errors++;
+}
+const len22 = data102.length;
+if(len22 > 0){
+let data103 = data102[0];
+if((typeof data103 == "number") && (isFinite(data103))){
+if(data103 > 0 || isNaN(data103)){
+const err293 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err293];
+}
+else {
+vErrors.push(err293);
+}
+errors++;
+}
+if(data103 < -90 || isNaN(data103)){
+const err294 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err294];
+}
+else {
+vErrors.push(err294);
+}
+errors++;
+}
+}
+else {
+const err295 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err295];
+}
+else {
+vErrors.push(err295);
+}
+errors++;
+}
+}
+if(len22 > 1){
+let data104 = data102[1];
+if((typeof data104 == "number") && (isFinite(data104))){
+if(data104 > 900 || isNaN(data104)){
+const err296 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err296];
+}
+else {
+vErrors.push(err296);
+}
+errors++;
+}
+if(data104 < 0 || isNaN(data104)){
+const err297 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err297];
+}
+else {
+vErrors.push(err297);
+}
+errors++;
+}
+}
+else {
+const err298 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err298];
+}
+else {
+vErrors.push(err298);
+}
+errors++;
+}
+}
+}
+else {
+const err299 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err299];
+}
+else {
+vErrors.push(err299);
+}
+errors++;
+}
+var _valid14 = _errs287 === errors;
+if(_valid14 && valid72){
+valid72 = false;
+passing14 = [passing14, 1];
+}
+else {
+if(_valid14){
+valid72 = true;
+passing14 = 1;
+}
+}
+if(!valid72){
+const err300 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing14},message:"must match exactly one schema in oneOf"};
+if(vErrors === null){
+vErrors = [err300];
+}
+else {
+vErrors.push(err300);
+}
+errors++;
+}
+else {
+errors = _errs284;
+if(vErrors !== null){
+if(_errs284){
+vErrors.length = _errs284;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data85.addedLatency_s !== undefined){
+let data105 = data85.addedLatency_s;
+if((typeof data105 == "number") && (isFinite(data105))){
+if(data105 > 1 || isNaN(data105)){
+const err301 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
+if(vErrors === null){
+vErrors = [err301];
+}
+else {
+vErrors.push(err301);
+}
+errors++;
+}
+if(data105 < 0 || isNaN(data105)){
+const err302 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err302];
+}
+else {
+vErrors.push(err302);
+}
+errors++;
+}
+}
+else {
+const err303 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err303];
+}
+else {
+vErrors.push(err303);
+}
+errors++;
+}
+}
+if(data85.fromIdentification !== undefined){
+if(typeof data85.fromIdentification !== "boolean"){
+const err304 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(vErrors === null){
+vErrors = [err304];
+}
+else {
+vErrors.push(err304);
+}
+errors++;
+}
+}
+if(data85.search !== undefined){
+let data107 = data85.search;
+if(data107 && typeof data107 == "object" && !Array.isArray(data107)){
+for(const key19 in data107){
+if(!(((key19 === "samples") || (key19 === "seed")) || (key19 === "localSearchEvaluations"))){
+const err305 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err305];
+}
+else {
+vErrors.push(err305);
+}
+errors++;
+}
+}
+if(data107.samples !== undefined){
+let data108 = data107.samples;
+if(!(((typeof data108 == "number") && (!(data108 % 1) && !isNaN(data108))) && (isFinite(data108)))){
+const err306 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err306];
+}
+else {
+vErrors.push(err306);
+}
+errors++;
+}
+if((typeof data108 == "number") && (isFinite(data108))){
+if(data108 > 4096 || isNaN(data108)){
+const err307 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
+if(vErrors === null){
+vErrors = [err307];
+}
+else {
+vErrors.push(err307);
+}
+errors++;
+}
+if(data108 < 0 || isNaN(data108)){
+const err308 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err308];
+}
+else {
+vErrors.push(err308);
+}
+errors++;
+}
+}
+}
+if(data107.seed !== undefined){
+let data109 = data107.seed;
+if(!(((typeof data109 == "number") && (!(data109 % 1) && !isNaN(data109))) && (isFinite(data109)))){
+const err309 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err309];
+}
+else {
+vErrors.push(err309);
+}
+errors++;
+}
+if((typeof data109 == "number") && (isFinite(data109))){
+if(data109 > 4294967295 || isNaN(data109)){
+const err310 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
+if(vErrors === null){
+vErrors = [err310];
+}
+else {
+vErrors.push(err310);
+}
+errors++;
+}
+if(data109 < 0 || isNaN(data109)){
+const err311 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err311];
+}
+else {
+vErrors.push(err311);
+}
+errors++;
+}
+}
+}
+if(data107.localSearchEvaluations !== undefined){
+let data110 = data107.localSearchEvaluations;
+if(!(((typeof data110 == "number") && (!(data110 % 1) && !isNaN(data110))) && (isFinite(data110)))){
+const err312 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err312];
+}
+else {
+vErrors.push(err312);
+}
+errors++;
+}
+if((typeof data110 == "number") && (isFinite(data110))){
+if(data110 > 1000 || isNaN(data110)){
+const err313 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(vErrors === null){
+vErrors = [err313];
+}
+else {
+vErrors.push(err313);
+}
+errors++;
+}
+if(data110 < 0 || isNaN(data110)){
+const err314 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err314];
+}
+else {
+vErrors.push(err314);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err315 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err315];
+}
+else {
+vErrors.push(err315);
+}
+errors++;
+}
+}
+}
+else {
+const err316 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err316];
+}
+else {
+vErrors.push(err316);
+}
+errors++;
+}
+}
+}
+else {
+const err317 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err317];
+}
+else {
+vErrors.push(err317);
+}
+errors++;
+}
 validate4.errors = vErrors;
 return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"variations":{"$id":"https://speedband.dev/schema/schedule-variations.json","type":"object","additionalProperties":false,"required":["acceptance","passed","set","search","gridSize","failedSpeeds","unstableSpeeds","loopAnalyses","worst","failures","breakpoints","weakest"],"properties":{"acceptance":{"enum":["robust","nominal"]},"passed":{"type":"boolean"},"set":{"type":"object","additionalProperties":false,"required":["model","dimensions","notApplied"],"properties":{"model":{"enum":["single-track","interpolated-lumped"]},"dimensions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["parameter","change","minimum","maximum","source"],"properties":{"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"change":{"enum":["scale","add"]},"minimum":{"type":"number"},"maximum":{"type":"number"},"source":{"type":"string"}}}},"notApplied":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["field","reason"],"properties":{"field":{"type":"string"},"reason":{"type":"string"}}}}}},"search":{"type":"object","additionalProperties":false,"required":["samples","seed","localSearchEvaluations","method"],"properties":{"samples":{"type":"integer","minimum":0},"seed":{"type":"integer","minimum":0},"localSearchEvaluations":{"type":"integer","minimum":0},"method":{"type":"string"}}},"gridSize":{"type":"integer","minimum":1},"failedSpeeds":{"type":"integer","minimum":0},"unstableSpeeds":{"type":"integer","minimum":0},"loopAnalyses":{"type":"integer","minimum":0},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstOverGrid"},"upperGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"delayMargin_s":{"$ref":"#/definitions/worstOverGrid"},"sensitivityPeak":{"$ref":"#/definitions/worstOverGrid"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstOverGrid"}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"breakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","instability","worst","timeDomain","weakest"],"properties":{"speed_mps":{"type":"number"},"instability":{"$ref":"#/definitions/instability"},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstAtSpeed"},"upperGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"delayMargin_s":{"$ref":"#/definitions/worstAtSpeed"},"sensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"}}},"timeDomain":{"$ref":"#/definitions/timeDomain"},"weakest":{"$ref":"#/definitions/weakest"}}}},"weakest":{"$ref":"#/definitions/weakest"}},"definitions":{"combination":{"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."},"worstOverGrid":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"worstAtSpeed":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["worst","failures","vehicles"],"properties":{"worst":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","misalignmentRecoveryTime_s","lateralForceRecoveryTime_s","laneChangeError_m","curveEntryError_m","limitedStepOvershoot_pct","limitedStepSettlingTime_s"],"properties":{"overshoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"settlingTime_s":{"$ref":"#/definitions/worstTimeDomain"},"misalignmentRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"lateralForceRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"laneChangeError_m":{"$ref":"#/definitions/worstTimeDomain"},"curveEntryError_m":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepOvershoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepSettlingTime_s":{"$ref":"#/definitions/worstTimeDomain"}}},"failures":{"type":"array","items":{"type":"string"}},"vehicles":{"type":"integer","minimum":0}},"description":"The worst time-domain figures of the breakpoint's gains, set-point weights and feed-forward over the set (the nominal vehicle, the corners, the combinations behind the worst margins); null when not simulated."},"worstTimeDomain":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":["number","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"A worst time-domain figure (value null: the response did not settle within the simulated time) and its combination; null where the loop has no such figure."},"instability":{"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}},"weakest":{"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."}},"description":"The worst case over a set of vehicles around the check model (plan \"variations\"): per grid speed the worst lower and upper gain margin, phase margin, delay margin, Ms and Mt over the set, each with the parameter changes behind it; a set holding an unstable loop is the worst case of all."},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchOn":{"enum":["nominal","worst-case"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
 const pattern5 = new RegExp("^/", "u");
+const schema12 = {"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}};
+const schema13 = {"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."};
+
+function validate6(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema12.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.value === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.speed_mps === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err3 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+for(const key0 in data){
+if(!(((key0 === "value") || (key0 === "speed_mps")) || (key0 === "combination"))){
+const err4 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.value !== undefined){
+let data0 = data.value;
+if(!((typeof data0 == "number") && (isFinite(data0)))){
+const err5 = {instancePath:instancePath+"/value",schemaPath:"#/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+}
+if(data.speed_mps !== undefined){
+let data1 = data.speed_mps;
+if(!((typeof data1 == "number") && (isFinite(data1)))){
+const err6 = {instancePath:instancePath+"/speed_mps",schemaPath:"#/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data2 = data.combination;
+if(data2 && typeof data2 == "object" && !Array.isArray(data2)){
+for(const key1 in data2){
+if(!(func18.call(schema13.properties, key1))){
+const err7 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+}
+if(data2.mass_kg !== undefined){
+let data3 = data2.mass_kg;
+if(!((typeof data3 == "number") && (isFinite(data3)))){
+const err8 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data2.yawInertia_kgm2 !== undefined){
+let data4 = data2.yawInertia_kgm2;
+if(!((typeof data4 == "number") && (isFinite(data4)))){
+const err9 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data2.cgToFrontAxle_m !== undefined){
+let data5 = data2.cgToFrontAxle_m;
+if(!((typeof data5 == "number") && (isFinite(data5)))){
+const err10 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data2.frontCorneringStiffness_NPerRad !== undefined){
+let data6 = data2.frontCorneringStiffness_NPerRad;
+if(!((typeof data6 == "number") && (isFinite(data6)))){
+const err11 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data2.rearCorneringStiffness_NPerRad !== undefined){
+let data7 = data2.rearCorneringStiffness_NPerRad;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err12 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data2.actuatorLag_s !== undefined){
+let data8 = data2.actuatorLag_s;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err13 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data2.actuatorDelay_s !== undefined){
+let data9 = data2.actuatorDelay_s;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err14 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data2.gain !== undefined){
+let data10 = data2.gain;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err15 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+if(data2.timeConstant_s !== undefined){
+let data11 = data2.timeConstant_s;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err16 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+if(data2.deadTime_s !== undefined){
+let data12 = data2.deadTime_s;
+if(!((typeof data12 == "number") && (isFinite(data12)))){
+const err17 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+}
+}
+else {
+const err18 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+}
+validate6.errors = vErrors;
+return errors === 0;
+}
+
+const schema14 = {"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}};
+
+function validate13(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema14.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.verdict === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "verdict"},message:"must have required property '"+"verdict"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+if(data.largestPoleMagnitude === undefined){
+const err3 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "largestPoleMagnitude"},message:"must have required property '"+"largestPoleMagnitude"+"'"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+for(const key0 in data){
+if(!(((key0 === "verdict") || (key0 === "combination")) || (key0 === "largestPoleMagnitude"))){
+const err4 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.verdict !== undefined){
+let data0 = data.verdict;
+if(!((data0 === "unstable") || (data0 === "marginal"))){
+const err5 = {instancePath:instancePath+"/verdict",schemaPath:"#/properties/verdict/enum",keyword:"enum",params:{allowedValues: schema14.properties.verdict.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data1 = data.combination;
+if(data1 && typeof data1 == "object" && !Array.isArray(data1)){
+for(const key1 in data1){
+if(!(func18.call(schema13.properties, key1))){
+const err6 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+}
+if(data1.mass_kg !== undefined){
+let data2 = data1.mass_kg;
+if(!((typeof data2 == "number") && (isFinite(data2)))){
+const err7 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+}
+if(data1.yawInertia_kgm2 !== undefined){
+let data3 = data1.yawInertia_kgm2;
+if(!((typeof data3 == "number") && (isFinite(data3)))){
+const err8 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data1.cgToFrontAxle_m !== undefined){
+let data4 = data1.cgToFrontAxle_m;
+if(!((typeof data4 == "number") && (isFinite(data4)))){
+const err9 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data1.frontCorneringStiffness_NPerRad !== undefined){
+let data5 = data1.frontCorneringStiffness_NPerRad;
+if(!((typeof data5 == "number") && (isFinite(data5)))){
+const err10 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data1.rearCorneringStiffness_NPerRad !== undefined){
+let data6 = data1.rearCorneringStiffness_NPerRad;
+if(!((typeof data6 == "number") && (isFinite(data6)))){
+const err11 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data1.actuatorLag_s !== undefined){
+let data7 = data1.actuatorLag_s;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err12 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data1.actuatorDelay_s !== undefined){
+let data8 = data1.actuatorDelay_s;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err13 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data1.gain !== undefined){
+let data9 = data1.gain;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err14 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data1.timeConstant_s !== undefined){
+let data10 = data1.timeConstant_s;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err15 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+if(data1.deadTime_s !== undefined){
+let data11 = data1.deadTime_s;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err16 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+}
+else {
+const err17 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+}
+if(data.largestPoleMagnitude !== undefined){
+let data12 = data.largestPoleMagnitude;
+if((!((typeof data12 == "number") && (isFinite(data12)))) && (data12 !== null)){
+const err18 = {instancePath:instancePath+"/largestPoleMagnitude",schemaPath:"#/properties/largestPoleMagnitude/type",keyword:"type",params:{type: schema14.properties.largestPoleMagnitude.type},message:"must be number,null"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+}
+validate13.errors = vErrors;
+return errors === 0;
+}
+
+const schema16 = {"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}};
+
+function validate15(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema16.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.value === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+for(const key0 in data){
+if(!((key0 === "value") || (key0 === "combination"))){
+const err3 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+}
+if(data.value !== undefined){
+let data0 = data.value;
+if(!((typeof data0 == "number") && (isFinite(data0)))){
+const err4 = {instancePath:instancePath+"/value",schemaPath:"#/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data1 = data.combination;
+if(data1 && typeof data1 == "object" && !Array.isArray(data1)){
+for(const key1 in data1){
+if(!(func18.call(schema13.properties, key1))){
+const err5 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+}
+if(data1.mass_kg !== undefined){
+let data2 = data1.mass_kg;
+if(!((typeof data2 == "number") && (isFinite(data2)))){
+const err6 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+}
+if(data1.yawInertia_kgm2 !== undefined){
+let data3 = data1.yawInertia_kgm2;
+if(!((typeof data3 == "number") && (isFinite(data3)))){
+const err7 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+}
+if(data1.cgToFrontAxle_m !== undefined){
+let data4 = data1.cgToFrontAxle_m;
+if(!((typeof data4 == "number") && (isFinite(data4)))){
+const err8 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data1.frontCorneringStiffness_NPerRad !== undefined){
+let data5 = data1.frontCorneringStiffness_NPerRad;
+if(!((typeof data5 == "number") && (isFinite(data5)))){
+const err9 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data1.rearCorneringStiffness_NPerRad !== undefined){
+let data6 = data1.rearCorneringStiffness_NPerRad;
+if(!((typeof data6 == "number") && (isFinite(data6)))){
+const err10 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data1.actuatorLag_s !== undefined){
+let data7 = data1.actuatorLag_s;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err11 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data1.actuatorDelay_s !== undefined){
+let data8 = data1.actuatorDelay_s;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err12 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data1.gain !== undefined){
+let data9 = data1.gain;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err13 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data1.timeConstant_s !== undefined){
+let data10 = data1.timeConstant_s;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err14 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data1.deadTime_s !== undefined){
+let data11 = data1.deadTime_s;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err15 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+}
+else {
+const err16 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+}
+validate15.errors = vErrors;
+return errors === 0;
+}
+
+const schema18 = {"type":["object","null"],"additionalProperties":false,"required":["worst","failures","vehicles"],"properties":{"worst":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","misalignmentRecoveryTime_s","lateralForceRecoveryTime_s","laneChangeError_m","curveEntryError_m","limitedStepOvershoot_pct","limitedStepSettlingTime_s"],"properties":{"overshoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"settlingTime_s":{"$ref":"#/definitions/worstTimeDomain"},"misalignmentRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"lateralForceRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"laneChangeError_m":{"$ref":"#/definitions/worstTimeDomain"},"curveEntryError_m":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepOvershoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepSettlingTime_s":{"$ref":"#/definitions/worstTimeDomain"}}},"failures":{"type":"array","items":{"type":"string"}},"vehicles":{"type":"integer","minimum":0}},"description":"The worst time-domain figures of the breakpoint's gains, set-point weights and feed-forward over the set (the nominal vehicle, the corners, the combinations behind the worst margins); null when not simulated."};
+const schema19 = {"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":["number","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"A worst time-domain figure (value null: the response did not settle within the simulated time) and its combination; null where the loop has no such figure."};
+
+function validate23(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema19.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.value === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+for(const key0 in data){
+if(!((key0 === "value") || (key0 === "combination"))){
+const err3 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+}
+if(data.value !== undefined){
+let data0 = data.value;
+if((!((typeof data0 == "number") && (isFinite(data0)))) && (data0 !== null)){
+const err4 = {instancePath:instancePath+"/value",schemaPath:"#/properties/value/type",keyword:"type",params:{type: schema19.properties.value.type},message:"must be number,null"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data1 = data.combination;
+if(data1 && typeof data1 == "object" && !Array.isArray(data1)){
+for(const key1 in data1){
+if(!(func18.call(schema13.properties, key1))){
+const err5 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+}
+if(data1.mass_kg !== undefined){
+let data2 = data1.mass_kg;
+if(!((typeof data2 == "number") && (isFinite(data2)))){
+const err6 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+}
+if(data1.yawInertia_kgm2 !== undefined){
+let data3 = data1.yawInertia_kgm2;
+if(!((typeof data3 == "number") && (isFinite(data3)))){
+const err7 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+}
+if(data1.cgToFrontAxle_m !== undefined){
+let data4 = data1.cgToFrontAxle_m;
+if(!((typeof data4 == "number") && (isFinite(data4)))){
+const err8 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data1.frontCorneringStiffness_NPerRad !== undefined){
+let data5 = data1.frontCorneringStiffness_NPerRad;
+if(!((typeof data5 == "number") && (isFinite(data5)))){
+const err9 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data1.rearCorneringStiffness_NPerRad !== undefined){
+let data6 = data1.rearCorneringStiffness_NPerRad;
+if(!((typeof data6 == "number") && (isFinite(data6)))){
+const err10 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data1.actuatorLag_s !== undefined){
+let data7 = data1.actuatorLag_s;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err11 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data1.actuatorDelay_s !== undefined){
+let data8 = data1.actuatorDelay_s;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err12 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data1.gain !== undefined){
+let data9 = data1.gain;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err13 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data1.timeConstant_s !== undefined){
+let data10 = data1.timeConstant_s;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err14 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data1.deadTime_s !== undefined){
+let data11 = data1.deadTime_s;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err15 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+}
+else {
+const err16 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+}
+validate23.errors = vErrors;
+return errors === 0;
+}
+
+
+function validate22(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema18.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.worst === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.failures === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+if(data.vehicles === undefined){
+const err3 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "vehicles"},message:"must have required property '"+"vehicles"+"'"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+for(const key0 in data){
+if(!(((key0 === "worst") || (key0 === "failures")) || (key0 === "vehicles"))){
+const err4 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+}
+if(data.worst !== undefined){
+let data0 = data.worst;
+if(data0 && typeof data0 == "object" && !Array.isArray(data0)){
+if(data0.overshoot_pct === undefined){
+const err5 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "overshoot_pct"},message:"must have required property '"+"overshoot_pct"+"'"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+if(data0.settlingTime_s === undefined){
+const err6 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "settlingTime_s"},message:"must have required property '"+"settlingTime_s"+"'"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+if(data0.misalignmentRecoveryTime_s === undefined){
+const err7 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "misalignmentRecoveryTime_s"},message:"must have required property '"+"misalignmentRecoveryTime_s"+"'"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+if(data0.lateralForceRecoveryTime_s === undefined){
+const err8 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "lateralForceRecoveryTime_s"},message:"must have required property '"+"lateralForceRecoveryTime_s"+"'"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+if(data0.laneChangeError_m === undefined){
+const err9 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "laneChangeError_m"},message:"must have required property '"+"laneChangeError_m"+"'"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+if(data0.curveEntryError_m === undefined){
+const err10 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "curveEntryError_m"},message:"must have required property '"+"curveEntryError_m"+"'"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+if(data0.limitedStepOvershoot_pct === undefined){
+const err11 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "limitedStepOvershoot_pct"},message:"must have required property '"+"limitedStepOvershoot_pct"+"'"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+if(data0.limitedStepSettlingTime_s === undefined){
+const err12 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/required",keyword:"required",params:{missingProperty: "limitedStepSettlingTime_s"},message:"must have required property '"+"limitedStepSettlingTime_s"+"'"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+for(const key1 in data0){
+if(!((((((((key1 === "overshoot_pct") || (key1 === "settlingTime_s")) || (key1 === "misalignmentRecoveryTime_s")) || (key1 === "lateralForceRecoveryTime_s")) || (key1 === "laneChangeError_m")) || (key1 === "curveEntryError_m")) || (key1 === "limitedStepOvershoot_pct")) || (key1 === "limitedStepSettlingTime_s"))){
+const err13 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data0.overshoot_pct !== undefined){
+if(!(validate23(data0.overshoot_pct, {instancePath:instancePath+"/worst/overshoot_pct",parentData:data0,parentDataProperty:"overshoot_pct",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+if(data0.settlingTime_s !== undefined){
+if(!(validate23(data0.settlingTime_s, {instancePath:instancePath+"/worst/settlingTime_s",parentData:data0,parentDataProperty:"settlingTime_s",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+if(data0.misalignmentRecoveryTime_s !== undefined){
+if(!(validate23(data0.misalignmentRecoveryTime_s, {instancePath:instancePath+"/worst/misalignmentRecoveryTime_s",parentData:data0,parentDataProperty:"misalignmentRecoveryTime_s",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+if(data0.lateralForceRecoveryTime_s !== undefined){
+if(!(validate23(data0.lateralForceRecoveryTime_s, {instancePath:instancePath+"/worst/lateralForceRecoveryTime_s",parentData:data0,parentDataProperty:"lateralForceRecoveryTime_s",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+if(data0.laneChangeError_m !== undefined){
+if(!(validate23(data0.laneChangeError_m, {instancePath:instancePath+"/worst/laneChangeError_m",parentData:data0,parentDataProperty:"laneChangeError_m",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+if(data0.curveEntryError_m !== undefined){
+if(!(validate23(data0.curveEntryError_m, {instancePath:instancePath+"/worst/curveEntryError_m",parentData:data0,parentDataProperty:"curveEntryError_m",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+if(data0.limitedStepOvershoot_pct !== undefined){
+if(!(validate23(data0.limitedStepOvershoot_pct, {instancePath:instancePath+"/worst/limitedStepOvershoot_pct",parentData:data0,parentDataProperty:"limitedStepOvershoot_pct",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+if(data0.limitedStepSettlingTime_s !== undefined){
+if(!(validate23(data0.limitedStepSettlingTime_s, {instancePath:instancePath+"/worst/limitedStepSettlingTime_s",parentData:data0,parentDataProperty:"limitedStepSettlingTime_s",rootData}))){
+vErrors = vErrors === null ? validate23.errors : vErrors.concat(validate23.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err14 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data.failures !== undefined){
+let data9 = data.failures;
+if(Array.isArray(data9)){
+const len0 = data9.length;
+for(let i0=0; i0<len0; i0++){
+if(typeof data9[i0] !== "string"){
+const err15 = {instancePath:instancePath+"/failures/" + i0,schemaPath:"#/properties/failures/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+}
+else {
+const err16 = {instancePath:instancePath+"/failures",schemaPath:"#/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+if(data.vehicles !== undefined){
+let data11 = data.vehicles;
+if(!(((typeof data11 == "number") && (!(data11 % 1) && !isNaN(data11))) && (isFinite(data11)))){
+const err17 = {instancePath:instancePath+"/vehicles",schemaPath:"#/properties/vehicles/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+if((typeof data11 == "number") && (isFinite(data11))){
+if(data11 < 0 || isNaN(data11)){
+const err18 = {instancePath:instancePath+"/vehicles",schemaPath:"#/properties/vehicles/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+}
+}
+validate22.errors = vErrors;
+return errors === 0;
+}
+
+const schema21 = {"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."};
+
+function validate33(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+let vErrors = null;
+let errors = 0;
+if((!(data && typeof data == "object" && !Array.isArray(data))) && (data !== null)){
+const err0 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: schema21.type},message:"must be object,null"};
+if(vErrors === null){
+vErrors = [err0];
+}
+else {
+vErrors.push(err0);
+}
+errors++;
+}
+if(data && typeof data == "object" && !Array.isArray(data)){
+if(data.speed_mps === undefined){
+const err1 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err1];
+}
+else {
+vErrors.push(err1);
+}
+errors++;
+}
+if(data.figure === undefined){
+const err2 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "figure"},message:"must have required property '"+"figure"+"'"};
+if(vErrors === null){
+vErrors = [err2];
+}
+else {
+vErrors.push(err2);
+}
+errors++;
+}
+if(data.parameter === undefined){
+const err3 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(vErrors === null){
+vErrors = [err3];
+}
+else {
+vErrors.push(err3);
+}
+errors++;
+}
+if(data.worst === undefined){
+const err4 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(vErrors === null){
+vErrors = [err4];
+}
+else {
+vErrors.push(err4);
+}
+errors++;
+}
+if(data.withParameterNominal === undefined){
+const err5 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "withParameterNominal"},message:"must have required property '"+"withParameterNominal"+"'"};
+if(vErrors === null){
+vErrors = [err5];
+}
+else {
+vErrors.push(err5);
+}
+errors++;
+}
+if(data.restoresStability === undefined){
+const err6 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "restoresStability"},message:"must have required property '"+"restoresStability"+"'"};
+if(vErrors === null){
+vErrors = [err6];
+}
+else {
+vErrors.push(err6);
+}
+errors++;
+}
+if(data.combination === undefined){
+const err7 = {instancePath,schemaPath:"#/required",keyword:"required",params:{missingProperty: "combination"},message:"must have required property '"+"combination"+"'"};
+if(vErrors === null){
+vErrors = [err7];
+}
+else {
+vErrors.push(err7);
+}
+errors++;
+}
+for(const key0 in data){
+if(!(((((((key0 === "speed_mps") || (key0 === "figure")) || (key0 === "parameter")) || (key0 === "worst")) || (key0 === "withParameterNominal")) || (key0 === "restoresStability")) || (key0 === "combination"))){
+const err8 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err8];
+}
+else {
+vErrors.push(err8);
+}
+errors++;
+}
+}
+if(data.speed_mps !== undefined){
+let data0 = data.speed_mps;
+if(!((typeof data0 == "number") && (isFinite(data0)))){
+const err9 = {instancePath:instancePath+"/speed_mps",schemaPath:"#/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err9];
+}
+else {
+vErrors.push(err9);
+}
+errors++;
+}
+}
+if(data.figure !== undefined){
+let data1 = data.figure;
+if(!(((((((data1 === "stability") || (data1 === "phaseMargin_deg")) || (data1 === "upperGainMargin_dB")) || (data1 === "lowerGainMargin_dB")) || (data1 === "delayMargin_s")) || (data1 === "sensitivityPeak")) || (data1 === "complementarySensitivityPeak"))){
+const err10 = {instancePath:instancePath+"/figure",schemaPath:"#/properties/figure/enum",keyword:"enum",params:{allowedValues: schema21.properties.figure.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err10];
+}
+else {
+vErrors.push(err10);
+}
+errors++;
+}
+}
+if(data.parameter !== undefined){
+let data2 = data.parameter;
+if(!((((((((((data2 === "mass_kg") || (data2 === "yawInertia_kgm2")) || (data2 === "cgToFrontAxle_m")) || (data2 === "frontCorneringStiffness_NPerRad")) || (data2 === "rearCorneringStiffness_NPerRad")) || (data2 === "actuatorLag_s")) || (data2 === "actuatorDelay_s")) || (data2 === "gain")) || (data2 === "timeConstant_s")) || (data2 === "deadTime_s"))){
+const err11 = {instancePath:instancePath+"/parameter",schemaPath:"#/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema21.properties.parameter.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err11];
+}
+else {
+vErrors.push(err11);
+}
+errors++;
+}
+}
+if(data.worst !== undefined){
+let data3 = data.worst;
+if((!((typeof data3 == "number") && (isFinite(data3)))) && (data3 !== null)){
+const err12 = {instancePath:instancePath+"/worst",schemaPath:"#/properties/worst/type",keyword:"type",params:{type: schema21.properties.worst.type},message:"must be number,null"};
+if(vErrors === null){
+vErrors = [err12];
+}
+else {
+vErrors.push(err12);
+}
+errors++;
+}
+}
+if(data.withParameterNominal !== undefined){
+let data4 = data.withParameterNominal;
+if((!((typeof data4 == "number") && (isFinite(data4)))) && (data4 !== null)){
+const err13 = {instancePath:instancePath+"/withParameterNominal",schemaPath:"#/properties/withParameterNominal/type",keyword:"type",params:{type: schema21.properties.withParameterNominal.type},message:"must be number,null"};
+if(vErrors === null){
+vErrors = [err13];
+}
+else {
+vErrors.push(err13);
+}
+errors++;
+}
+}
+if(data.restoresStability !== undefined){
+let data5 = data.restoresStability;
+if((typeof data5 !== "boolean") && (data5 !== null)){
+const err14 = {instancePath:instancePath+"/restoresStability",schemaPath:"#/properties/restoresStability/type",keyword:"type",params:{type: schema21.properties.restoresStability.type},message:"must be boolean,null"};
+if(vErrors === null){
+vErrors = [err14];
+}
+else {
+vErrors.push(err14);
+}
+errors++;
+}
+}
+if(data.combination !== undefined){
+let data6 = data.combination;
+if(data6 && typeof data6 == "object" && !Array.isArray(data6)){
+for(const key1 in data6){
+if(!(func18.call(schema13.properties, key1))){
+const err15 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key1},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err15];
+}
+else {
+vErrors.push(err15);
+}
+errors++;
+}
+}
+if(data6.mass_kg !== undefined){
+let data7 = data6.mass_kg;
+if(!((typeof data7 == "number") && (isFinite(data7)))){
+const err16 = {instancePath:instancePath+"/combination/mass_kg",schemaPath:"#/definitions/combination/properties/mass_kg/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err16];
+}
+else {
+vErrors.push(err16);
+}
+errors++;
+}
+}
+if(data6.yawInertia_kgm2 !== undefined){
+let data8 = data6.yawInertia_kgm2;
+if(!((typeof data8 == "number") && (isFinite(data8)))){
+const err17 = {instancePath:instancePath+"/combination/yawInertia_kgm2",schemaPath:"#/definitions/combination/properties/yawInertia_kgm2/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err17];
+}
+else {
+vErrors.push(err17);
+}
+errors++;
+}
+}
+if(data6.cgToFrontAxle_m !== undefined){
+let data9 = data6.cgToFrontAxle_m;
+if(!((typeof data9 == "number") && (isFinite(data9)))){
+const err18 = {instancePath:instancePath+"/combination/cgToFrontAxle_m",schemaPath:"#/definitions/combination/properties/cgToFrontAxle_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err18];
+}
+else {
+vErrors.push(err18);
+}
+errors++;
+}
+}
+if(data6.frontCorneringStiffness_NPerRad !== undefined){
+let data10 = data6.frontCorneringStiffness_NPerRad;
+if(!((typeof data10 == "number") && (isFinite(data10)))){
+const err19 = {instancePath:instancePath+"/combination/frontCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err19];
+}
+else {
+vErrors.push(err19);
+}
+errors++;
+}
+}
+if(data6.rearCorneringStiffness_NPerRad !== undefined){
+let data11 = data6.rearCorneringStiffness_NPerRad;
+if(!((typeof data11 == "number") && (isFinite(data11)))){
+const err20 = {instancePath:instancePath+"/combination/rearCorneringStiffness_NPerRad",schemaPath:"#/definitions/combination/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err20];
+}
+else {
+vErrors.push(err20);
+}
+errors++;
+}
+}
+if(data6.actuatorLag_s !== undefined){
+let data12 = data6.actuatorLag_s;
+if(!((typeof data12 == "number") && (isFinite(data12)))){
+const err21 = {instancePath:instancePath+"/combination/actuatorLag_s",schemaPath:"#/definitions/combination/properties/actuatorLag_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err21];
+}
+else {
+vErrors.push(err21);
+}
+errors++;
+}
+}
+if(data6.actuatorDelay_s !== undefined){
+let data13 = data6.actuatorDelay_s;
+if(!((typeof data13 == "number") && (isFinite(data13)))){
+const err22 = {instancePath:instancePath+"/combination/actuatorDelay_s",schemaPath:"#/definitions/combination/properties/actuatorDelay_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err22];
+}
+else {
+vErrors.push(err22);
+}
+errors++;
+}
+}
+if(data6.gain !== undefined){
+let data14 = data6.gain;
+if(!((typeof data14 == "number") && (isFinite(data14)))){
+const err23 = {instancePath:instancePath+"/combination/gain",schemaPath:"#/definitions/combination/properties/gain/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err23];
+}
+else {
+vErrors.push(err23);
+}
+errors++;
+}
+}
+if(data6.timeConstant_s !== undefined){
+let data15 = data6.timeConstant_s;
+if(!((typeof data15 == "number") && (isFinite(data15)))){
+const err24 = {instancePath:instancePath+"/combination/timeConstant_s",schemaPath:"#/definitions/combination/properties/timeConstant_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err24];
+}
+else {
+vErrors.push(err24);
+}
+errors++;
+}
+}
+if(data6.deadTime_s !== undefined){
+let data16 = data6.deadTime_s;
+if(!((typeof data16 == "number") && (isFinite(data16)))){
+const err25 = {instancePath:instancePath+"/combination/deadTime_s",schemaPath:"#/definitions/combination/properties/deadTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err25];
+}
+else {
+vErrors.push(err25);
+}
+errors++;
+}
+}
+}
+else {
+const err26 = {instancePath:instancePath+"/combination",schemaPath:"#/definitions/combination/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err26];
+}
+else {
+vErrors.push(err26);
+}
+errors++;
+}
+}
+}
+validate33.errors = vErrors;
+return errors === 0;
+}
+
 
 function validate5(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
@@ -12559,11 +15419,11 @@ vErrors.push(err353);
 errors++;
 }
 }
-if(data.provenance !== undefined){
-let data152 = data.provenance;
+if(data.variations !== undefined){
+let data152 = data.variations;
 if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
-if(data152.tool === undefined){
-const err354 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(data152.acceptance === undefined){
+const err354 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "acceptance"},message:"must have required property '"+"acceptance"+"'"};
 if(vErrors === null){
 vErrors = [err354];
 }
@@ -12572,8 +15432,8 @@ vErrors.push(err354);
 }
 errors++;
 }
-if(data152.toolVersion === undefined){
-const err355 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(data152.passed === undefined){
+const err355 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err355];
 }
@@ -12582,8 +15442,8 @@ vErrors.push(err355);
 }
 errors++;
 }
-if(data152.inputs === undefined){
-const err356 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+if(data152.set === undefined){
+const err356 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "set"},message:"must have required property '"+"set"+"'"};
 if(vErrors === null){
 vErrors = [err356];
 }
@@ -12592,8 +15452,8 @@ vErrors.push(err356);
 }
 errors++;
 }
-if(data152.model === undefined){
-const err357 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(data152.search === undefined){
+const err357 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "search"},message:"must have required property '"+"search"+"'"};
 if(vErrors === null){
 vErrors = [err357];
 }
@@ -12602,8 +15462,8 @@ vErrors.push(err357);
 }
 errors++;
 }
-if(data152.rule === undefined){
-const err358 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(data152.gridSize === undefined){
+const err358 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err358];
 }
@@ -12612,8 +15472,8 @@ vErrors.push(err358);
 }
 errors++;
 }
-if(data152.plan === undefined){
-const err359 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(data152.failedSpeeds === undefined){
+const err359 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err359];
 }
@@ -12622,9 +15482,8 @@ vErrors.push(err359);
 }
 errors++;
 }
-for(const key33 in data152){
-if(!(((((((key33 === "tool") || (key33 === "toolVersion")) || (key33 === "inputs")) || (key33 === "model")) || (key33 === "rule")) || (key33 === "plan")) || (key33 === "handEdits"))){
-const err360 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
+if(data152.unstableSpeeds === undefined){
+const err360 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "unstableSpeeds"},message:"must have required property '"+"unstableSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err360];
 }
@@ -12633,10 +15492,8 @@ vErrors.push(err360);
 }
 errors++;
 }
-}
-if(data152.tool !== undefined){
-if("speedband" !== data152.tool){
-const err361 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(data152.loopAnalyses === undefined){
+const err361 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "loopAnalyses"},message:"must have required property '"+"loopAnalyses"+"'"};
 if(vErrors === null){
 vErrors = [err361];
 }
@@ -12645,10 +15502,8 @@ vErrors.push(err361);
 }
 errors++;
 }
-}
-if(data152.toolVersion !== undefined){
-if(typeof data152.toolVersion !== "string"){
-const err362 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.worst === undefined){
+const err362 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err362];
 }
@@ -12657,16 +15512,8 @@ vErrors.push(err362);
 }
 errors++;
 }
-}
-if(data152.inputs !== undefined){
-let data155 = data152.inputs;
-if(Array.isArray(data155)){
-const len7 = data155.length;
-for(let i7=0; i7<len7; i7++){
-let data156 = data155[i7];
-if(data156 && typeof data156 == "object" && !Array.isArray(data156)){
-if(data156.file === undefined){
-const err363 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(data152.failures === undefined){
+const err363 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err363];
 }
@@ -12675,8 +15522,8 @@ vErrors.push(err363);
 }
 errors++;
 }
-if(data156.sha256 === undefined){
-const err364 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(data152.breakpoints === undefined){
+const err364 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
 if(vErrors === null){
 vErrors = [err364];
 }
@@ -12685,8 +15532,8 @@ vErrors.push(err364);
 }
 errors++;
 }
-if(data156.role === undefined){
-const err365 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(data152.weakest === undefined){
+const err365 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
 if(vErrors === null){
 vErrors = [err365];
 }
@@ -12695,9 +15542,9 @@ vErrors.push(err365);
 }
 errors++;
 }
-for(const key34 in data156){
-if(!(((key34 === "file") || (key34 === "sha256")) || (key34 === "role"))){
-const err366 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
+for(const key33 in data152){
+if(!(func18.call(schema11.properties.variations.properties, key33))){
+const err366 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err366];
 }
@@ -12707,9 +15554,10 @@ vErrors.push(err366);
 errors++;
 }
 }
-if(data156.file !== undefined){
-if(typeof data156.file !== "string"){
-const err367 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.acceptance !== undefined){
+let data153 = data152.acceptance;
+if(!((data153 === "robust") || (data153 === "nominal"))){
+const err367 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err367];
 }
@@ -12719,11 +15567,9 @@ vErrors.push(err367);
 errors++;
 }
 }
-if(data156.sha256 !== undefined){
-let data158 = data156.sha256;
-if(typeof data158 === "string"){
-if(!pattern0.test(data158)){
-const err368 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data152.passed !== undefined){
+if(typeof data152.passed !== "boolean"){
+const err368 = {instancePath:instancePath+"/variations/passed",schemaPath:"#/properties/variations/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err368];
 }
@@ -12733,8 +15579,11 @@ vErrors.push(err368);
 errors++;
 }
 }
-else {
-const err369 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.set !== undefined){
+let data155 = data152.set;
+if(data155 && typeof data155 == "object" && !Array.isArray(data155)){
+if(data155.model === undefined){
+const err369 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err369];
 }
@@ -12743,10 +15592,8 @@ vErrors.push(err369);
 }
 errors++;
 }
-}
-if(data156.role !== undefined){
-if(typeof data156.role !== "string"){
-const err370 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data155.dimensions === undefined){
+const err370 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "dimensions"},message:"must have required property '"+"dimensions"+"'"};
 if(vErrors === null){
 vErrors = [err370];
 }
@@ -12755,10 +15602,8 @@ vErrors.push(err370);
 }
 errors++;
 }
-}
-}
-else {
-const err371 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data155.notApplied === undefined){
+const err371 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "notApplied"},message:"must have required property '"+"notApplied"+"'"};
 if(vErrors === null){
 vErrors = [err371];
 }
@@ -12767,10 +15612,9 @@ vErrors.push(err371);
 }
 errors++;
 }
-}
-}
-else {
-const err372 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key34 in data155){
+if(!(((key34 === "model") || (key34 === "dimensions")) || (key34 === "notApplied"))){
+const err372 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err372];
 }
@@ -12780,10 +15624,10 @@ vErrors.push(err372);
 errors++;
 }
 }
-if(data152.model !== undefined){
-let data160 = data152.model;
-if(!(data160 && typeof data160 == "object" && !Array.isArray(data160))){
-const err373 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data155.model !== undefined){
+let data156 = data155.model;
+if(!((data156 === "single-track") || (data156 === "interpolated-lumped"))){
+const err373 = {instancePath:instancePath+"/variations/set/model",schemaPath:"#/properties/variations/properties/set/properties/model/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.model.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err373];
 }
@@ -12793,11 +15637,15 @@ vErrors.push(err373);
 errors++;
 }
 }
-if(data152.rule !== undefined){
-let data161 = data152.rule;
-if(data161 && typeof data161 == "object" && !Array.isArray(data161)){
-if(data161.name === undefined){
-const err374 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(data155.dimensions !== undefined){
+let data157 = data155.dimensions;
+if(Array.isArray(data157)){
+const len7 = data157.length;
+for(let i7=0; i7<len7; i7++){
+let data158 = data157[i7];
+if(data158 && typeof data158 == "object" && !Array.isArray(data158)){
+if(data158.parameter === undefined){
+const err374 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
 if(vErrors === null){
 vErrors = [err374];
 }
@@ -12806,8 +15654,8 @@ vErrors.push(err374);
 }
 errors++;
 }
-if(data161.parameters === undefined){
-const err375 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(data158.change === undefined){
+const err375 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "change"},message:"must have required property '"+"change"+"'"};
 if(vErrors === null){
 vErrors = [err375];
 }
@@ -12816,8 +15664,8 @@ vErrors.push(err375);
 }
 errors++;
 }
-if(data161.tuneFor === undefined){
-const err376 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
+if(data158.minimum === undefined){
+const err376 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "minimum"},message:"must have required property '"+"minimum"+"'"};
 if(vErrors === null){
 vErrors = [err376];
 }
@@ -12826,9 +15674,8 @@ vErrors.push(err376);
 }
 errors++;
 }
-for(const key35 in data161){
-if(!((((((key35 === "name") || (key35 === "parameters")) || (key35 === "citation")) || (key35 === "parametersAtBreakpoints")) || (key35 === "tuneFor")) || (key35 === "searchAtBreakpoints"))){
-const err377 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
+if(data158.maximum === undefined){
+const err377 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "maximum"},message:"must have required property '"+"maximum"+"'"};
 if(vErrors === null){
 vErrors = [err377];
 }
@@ -12837,10 +15684,8 @@ vErrors.push(err377);
 }
 errors++;
 }
-}
-if(data161.name !== undefined){
-if(typeof data161.name !== "string"){
-const err378 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data158.source === undefined){
+const err378 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "source"},message:"must have required property '"+"source"+"'"};
 if(vErrors === null){
 vErrors = [err378];
 }
@@ -12849,11 +15694,9 @@ vErrors.push(err378);
 }
 errors++;
 }
-}
-if(data161.parameters !== undefined){
-let data163 = data161.parameters;
-if(!(data163 && typeof data163 == "object" && !Array.isArray(data163))){
-const err379 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key35 in data158){
+if(!(((((key35 === "parameter") || (key35 === "change")) || (key35 === "minimum")) || (key35 === "maximum")) || (key35 === "source"))){
+const err379 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err379];
 }
@@ -12863,9 +15706,10 @@ vErrors.push(err379);
 errors++;
 }
 }
-if(data161.citation !== undefined){
-if(typeof data161.citation !== "string"){
-const err380 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data158.parameter !== undefined){
+let data159 = data158.parameter;
+if(!((((((((((data159 === "mass_kg") || (data159 === "yawInertia_kgm2")) || (data159 === "cgToFrontAxle_m")) || (data159 === "frontCorneringStiffness_NPerRad")) || (data159 === "rearCorneringStiffness_NPerRad")) || (data159 === "actuatorLag_s")) || (data159 === "actuatorDelay_s")) || (data159 === "gain")) || (data159 === "timeConstant_s")) || (data159 === "deadTime_s"))){
+const err380 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/parameter",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.parameter.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err380];
 }
@@ -12875,15 +15719,10 @@ vErrors.push(err380);
 errors++;
 }
 }
-if(data161.parametersAtBreakpoints !== undefined){
-let data165 = data161.parametersAtBreakpoints;
-if(Array.isArray(data165)){
-const len8 = data165.length;
-for(let i8=0; i8<len8; i8++){
-let data166 = data165[i8];
-if(data166 && typeof data166 == "object" && !Array.isArray(data166)){
-if(data166.speed_mps === undefined){
-const err381 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data158.change !== undefined){
+let data160 = data158.change;
+if(!((data160 === "scale") || (data160 === "add"))){
+const err381 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/change",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/change/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.change.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err381];
 }
@@ -12892,8 +15731,11 @@ vErrors.push(err381);
 }
 errors++;
 }
-if(data166.parameters === undefined){
-const err382 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+}
+if(data158.minimum !== undefined){
+let data161 = data158.minimum;
+if(!((typeof data161 == "number") && (isFinite(data161)))){
+const err382 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/minimum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/minimum/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err382];
 }
@@ -12902,9 +15744,11 @@ vErrors.push(err382);
 }
 errors++;
 }
-for(const key36 in data166){
-if(!((key36 === "speed_mps") || (key36 === "parameters"))){
-const err383 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
+}
+if(data158.maximum !== undefined){
+let data162 = data158.maximum;
+if(!((typeof data162 == "number") && (isFinite(data162)))){
+const err383 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/maximum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/maximum/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err383];
 }
@@ -12914,10 +15758,9 @@ vErrors.push(err383);
 errors++;
 }
 }
-if(data166.speed_mps !== undefined){
-let data167 = data166.speed_mps;
-if(!((typeof data167 == "number") && (isFinite(data167)))){
-const err384 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data158.source !== undefined){
+if(typeof data158.source !== "string"){
+const err384 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/source",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/source/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err384];
 }
@@ -12927,13 +15770,9 @@ vErrors.push(err384);
 errors++;
 }
 }
-if(data166.parameters !== undefined){
-let data168 = data166.parameters;
-if(data168 && typeof data168 == "object" && !Array.isArray(data168)){
-for(const key37 in data168){
-let data169 = data168[key37];
-if((!((typeof data169 == "number") && (isFinite(data169)))) && (typeof data169 !== "string")){
-const err385 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+}
+else {
+const err385 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err385];
 }
@@ -12945,7 +15784,7 @@ errors++;
 }
 }
 else {
-const err386 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err386 = {instancePath:instancePath+"/variations/set/dimensions",schemaPath:"#/properties/variations/properties/set/properties/dimensions/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err386];
 }
@@ -12955,9 +15794,15 @@ vErrors.push(err386);
 errors++;
 }
 }
-}
-else {
-const err387 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data155.notApplied !== undefined){
+let data164 = data155.notApplied;
+if(Array.isArray(data164)){
+const len8 = data164.length;
+for(let i8=0; i8<len8; i8++){
+let data165 = data164[i8];
+if(data165 && typeof data165 == "object" && !Array.isArray(data165)){
+if(data165.field === undefined){
+const err387 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "field"},message:"must have required property '"+"field"+"'"};
 if(vErrors === null){
 vErrors = [err387];
 }
@@ -12966,10 +15811,8 @@ vErrors.push(err387);
 }
 errors++;
 }
-}
-}
-else {
-const err388 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data165.reason === undefined){
+const err388 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
 if(vErrors === null){
 vErrors = [err388];
 }
@@ -12978,11 +15821,9 @@ vErrors.push(err388);
 }
 errors++;
 }
-}
-if(data161.tuneFor !== undefined){
-let data170 = data161.tuneFor;
-if(!((data170 === "rule-parameters") || (data170 === "fastest-passing"))){
-const err389 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
+for(const key36 in data165){
+if(!((key36 === "field") || (key36 === "reason"))){
+const err389 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err389];
 }
@@ -12992,15 +15833,9 @@ vErrors.push(err389);
 errors++;
 }
 }
-if(data161.searchAtBreakpoints !== undefined){
-let data171 = data161.searchAtBreakpoints;
-if(Array.isArray(data171)){
-const len9 = data171.length;
-for(let i9=0; i9<len9; i9++){
-let data172 = data171[i9];
-if(data172 && typeof data172 == "object" && !Array.isArray(data172)){
-if(data172.speed_mps === undefined){
-const err390 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data165.field !== undefined){
+if(typeof data165.field !== "string"){
+const err390 = {instancePath:instancePath+"/variations/set/notApplied/" + i8+"/field",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/field/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err390];
 }
@@ -13009,8 +15844,10 @@ vErrors.push(err390);
 }
 errors++;
 }
-if(data172.parameter === undefined){
-const err391 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+}
+if(data165.reason !== undefined){
+if(typeof data165.reason !== "string"){
+const err391 = {instancePath:instancePath+"/variations/set/notApplied/" + i8+"/reason",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err391];
 }
@@ -13019,8 +15856,10 @@ vErrors.push(err391);
 }
 errors++;
 }
-if(data172.value === undefined){
-const err392 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+}
+else {
+const err392 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err392];
 }
@@ -13029,8 +15868,10 @@ vErrors.push(err392);
 }
 errors++;
 }
-if(data172.outcome === undefined){
-const err393 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+}
+}
+else {
+const err393 = {instancePath:instancePath+"/variations/set/notApplied",schemaPath:"#/properties/variations/properties/set/properties/notApplied/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err393];
 }
@@ -13039,8 +15880,10 @@ vErrors.push(err393);
 }
 errors++;
 }
-if(data172.candidates === undefined){
-const err394 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+}
+}
+else {
+const err394 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err394];
 }
@@ -13049,8 +15892,12 @@ vErrors.push(err394);
 }
 errors++;
 }
-if(data172.reason === undefined){
-const err395 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+}
+if(data152.search !== undefined){
+let data168 = data152.search;
+if(data168 && typeof data168 == "object" && !Array.isArray(data168)){
+if(data168.samples === undefined){
+const err395 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "samples"},message:"must have required property '"+"samples"+"'"};
 if(vErrors === null){
 vErrors = [err395];
 }
@@ -13059,9 +15906,8 @@ vErrors.push(err395);
 }
 errors++;
 }
-for(const key38 in data172){
-if(!((((((key38 === "speed_mps") || (key38 === "parameter")) || (key38 === "value")) || (key38 === "outcome")) || (key38 === "candidates")) || (key38 === "reason"))){
-const err396 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
+if(data168.seed === undefined){
+const err396 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "seed"},message:"must have required property '"+"seed"+"'"};
 if(vErrors === null){
 vErrors = [err396];
 }
@@ -13070,11 +15916,8 @@ vErrors.push(err396);
 }
 errors++;
 }
-}
-if(data172.speed_mps !== undefined){
-let data173 = data172.speed_mps;
-if(!((typeof data173 == "number") && (isFinite(data173)))){
-const err397 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data168.localSearchEvaluations === undefined){
+const err397 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "localSearchEvaluations"},message:"must have required property '"+"localSearchEvaluations"+"'"};
 if(vErrors === null){
 vErrors = [err397];
 }
@@ -13083,10 +15926,8 @@ vErrors.push(err397);
 }
 errors++;
 }
-}
-if(data172.parameter !== undefined){
-if(typeof data172.parameter !== "string"){
-const err398 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data168.method === undefined){
+const err398 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
 if(vErrors === null){
 vErrors = [err398];
 }
@@ -13095,11 +15936,9 @@ vErrors.push(err398);
 }
 errors++;
 }
-}
-if(data172.value !== undefined){
-let data175 = data172.value;
-if(!((typeof data175 == "number") && (isFinite(data175)))){
-const err399 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key37 in data168){
+if(!((((key37 === "samples") || (key37 === "seed")) || (key37 === "localSearchEvaluations")) || (key37 === "method"))){
+const err399 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key37},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err399];
 }
@@ -13109,10 +15948,10 @@ vErrors.push(err399);
 errors++;
 }
 }
-if(data172.outcome !== undefined){
-let data176 = data172.outcome;
-if(!((data176 === "fastest passing") || (data176 === "none passed"))){
-const err400 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(data168.samples !== undefined){
+let data169 = data168.samples;
+if(!(((typeof data169 == "number") && (!(data169 % 1) && !isNaN(data169))) && (isFinite(data169)))){
+const err400 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err400];
 }
@@ -13121,11 +15960,9 @@ vErrors.push(err400);
 }
 errors++;
 }
-}
-if(data172.candidates !== undefined){
-let data177 = data172.candidates;
-if(!(((typeof data177 == "number") && (!(data177 % 1) && !isNaN(data177))) && (isFinite(data177)))){
-const err401 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if((typeof data169 == "number") && (isFinite(data169))){
+if(data169 < 0 || isNaN(data169)){
+const err401 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err401];
 }
@@ -13134,9 +15971,12 @@ vErrors.push(err401);
 }
 errors++;
 }
-if((typeof data177 == "number") && (isFinite(data177))){
-if(data177 < 1 || isNaN(data177)){
-const err402 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+}
+}
+if(data168.seed !== undefined){
+let data170 = data168.seed;
+if(!(((typeof data170 == "number") && (!(data170 % 1) && !isNaN(data170))) && (isFinite(data170)))){
+const err402 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err402];
 }
@@ -13145,11 +15985,9 @@ vErrors.push(err402);
 }
 errors++;
 }
-}
-}
-if(data172.reason !== undefined){
-if(typeof data172.reason !== "string"){
-const err403 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if((typeof data170 == "number") && (isFinite(data170))){
+if(data170 < 0 || isNaN(data170)){
+const err403 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err403];
 }
@@ -13160,8 +15998,10 @@ errors++;
 }
 }
 }
-else {
-const err404 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data168.localSearchEvaluations !== undefined){
+let data171 = data168.localSearchEvaluations;
+if(!(((typeof data171 == "number") && (!(data171 % 1) && !isNaN(data171))) && (isFinite(data171)))){
+const err404 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err404];
 }
@@ -13170,10 +16010,9 @@ vErrors.push(err404);
 }
 errors++;
 }
-}
-}
-else {
-const err405 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if((typeof data171 == "number") && (isFinite(data171))){
+if(data171 < 0 || isNaN(data171)){
+const err405 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err405];
 }
@@ -13184,8 +16023,9 @@ errors++;
 }
 }
 }
-else {
-const err406 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data168.method !== undefined){
+if(typeof data168.method !== "string"){
+const err406 = {instancePath:instancePath+"/variations/search/method",schemaPath:"#/properties/variations/properties/search/properties/method/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err406];
 }
@@ -13195,10 +16035,9 @@ vErrors.push(err406);
 errors++;
 }
 }
-if(data152.plan !== undefined){
-let data179 = data152.plan;
-if(!(data179 && typeof data179 == "object" && !Array.isArray(data179))){
-const err407 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+}
+else {
+const err407 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err407];
 }
@@ -13208,15 +16047,10 @@ vErrors.push(err407);
 errors++;
 }
 }
-if(data152.handEdits !== undefined){
-let data180 = data152.handEdits;
-if(Array.isArray(data180)){
-const len10 = data180.length;
-for(let i10=0; i10<len10; i10++){
-let data181 = data180[i10];
-if(data181 && typeof data181 == "object" && !Array.isArray(data181)){
-if(data181.statement === undefined){
-const err408 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(data152.gridSize !== undefined){
+let data173 = data152.gridSize;
+if(!(((typeof data173 == "number") && (!(data173 % 1) && !isNaN(data173))) && (isFinite(data173)))){
+const err408 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err408];
 }
@@ -13225,8 +16059,9 @@ vErrors.push(err408);
 }
 errors++;
 }
-if(data181.changedSections === undefined){
-const err409 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if((typeof data173 == "number") && (isFinite(data173))){
+if(data173 < 1 || isNaN(data173)){
+const err409 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err409];
 }
@@ -13235,8 +16070,12 @@ vErrors.push(err409);
 }
 errors++;
 }
-if(data181.toolVersion === undefined){
-const err410 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+}
+}
+if(data152.failedSpeeds !== undefined){
+let data174 = data152.failedSpeeds;
+if(!(((typeof data174 == "number") && (!(data174 % 1) && !isNaN(data174))) && (isFinite(data174)))){
+const err410 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err410];
 }
@@ -13245,8 +16084,9 @@ vErrors.push(err410);
 }
 errors++;
 }
-if(data181.model === undefined){
-const err411 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if((typeof data174 == "number") && (isFinite(data174))){
+if(data174 < 0 || isNaN(data174)){
+const err411 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err411];
 }
@@ -13255,8 +16095,12 @@ vErrors.push(err411);
 }
 errors++;
 }
-if(data181.gridSize === undefined){
-const err412 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+}
+}
+if(data152.unstableSpeeds !== undefined){
+let data175 = data152.unstableSpeeds;
+if(!(((typeof data175 == "number") && (!(data175 % 1) && !isNaN(data175))) && (isFinite(data175)))){
+const err412 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err412];
 }
@@ -13265,9 +16109,9 @@ vErrors.push(err412);
 }
 errors++;
 }
-for(const key39 in data181){
-if(!(((((key39 === "statement") || (key39 === "changedSections")) || (key39 === "toolVersion")) || (key39 === "model")) || (key39 === "gridSize"))){
-const err413 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
+if((typeof data175 == "number") && (isFinite(data175))){
+if(data175 < 0 || isNaN(data175)){
+const err413 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err413];
 }
@@ -13277,9 +16121,11 @@ vErrors.push(err413);
 errors++;
 }
 }
-if(data181.statement !== undefined){
-if(typeof data181.statement !== "string"){
-const err414 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+if(data152.loopAnalyses !== undefined){
+let data176 = data152.loopAnalyses;
+if(!(((typeof data176 == "number") && (!(data176 % 1) && !isNaN(data176))) && (isFinite(data176)))){
+const err414 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err414];
 }
@@ -13288,14 +16134,9 @@ vErrors.push(err414);
 }
 errors++;
 }
-}
-if(data181.changedSections !== undefined){
-let data183 = data181.changedSections;
-if(Array.isArray(data183)){
-const len11 = data183.length;
-for(let i11=0; i11<len11; i11++){
-if(typeof data183[i11] !== "string"){
-const err415 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections/" + i11,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if((typeof data176 == "number") && (isFinite(data176))){
+if(data176 < 0 || isNaN(data176)){
+const err415 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err415];
 }
@@ -13306,8 +16147,11 @@ errors++;
 }
 }
 }
-else {
-const err416 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data152.worst !== undefined){
+let data177 = data152.worst;
+if(data177 && typeof data177 == "object" && !Array.isArray(data177)){
+if(data177.phaseMargin_deg === undefined){
+const err416 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err416];
 }
@@ -13316,10 +16160,8 @@ vErrors.push(err416);
 }
 errors++;
 }
-}
-if(data181.toolVersion !== undefined){
-if(typeof data181.toolVersion !== "string"){
-const err417 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data177.upperGainMargin_dB === undefined){
+const err417 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err417];
 }
@@ -13328,10 +16170,8 @@ vErrors.push(err417);
 }
 errors++;
 }
-}
-if(data181.model !== undefined){
-if(typeof data181.model !== "string"){
-const err418 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data177.lowerGainMargin_dB === undefined){
+const err418 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err418];
 }
@@ -13340,11 +16180,8 @@ vErrors.push(err418);
 }
 errors++;
 }
-}
-if(data181.gridSize !== undefined){
-let data187 = data181.gridSize;
-if(!(((typeof data187 == "number") && (!(data187 % 1) && !isNaN(data187))) && (isFinite(data187)))){
-const err419 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data177.delayMargin_s === undefined){
+const err419 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err419];
 }
@@ -13353,9 +16190,8 @@ vErrors.push(err419);
 }
 errors++;
 }
-if((typeof data187 == "number") && (isFinite(data187))){
-if(data187 < 1 || isNaN(data187)){
-const err420 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data177.sensitivityPeak === undefined){
+const err420 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err420];
 }
@@ -13364,11 +16200,8 @@ vErrors.push(err420);
 }
 errors++;
 }
-}
-}
-}
-else {
-const err421 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data177.complementarySensitivityPeak === undefined){
+const err421 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err421];
 }
@@ -13377,10 +16210,9 @@ vErrors.push(err421);
 }
 errors++;
 }
-}
-}
-else {
-const err422 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key38 in data177){
+if(!((((((key38 === "phaseMargin_deg") || (key38 === "upperGainMargin_dB")) || (key38 === "lowerGainMargin_dB")) || (key38 === "delayMargin_s")) || (key38 === "sensitivityPeak")) || (key38 === "complementarySensitivityPeak"))){
+const err422 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err422];
 }
@@ -13390,9 +16222,45 @@ vErrors.push(err422);
 errors++;
 }
 }
+if(data177.phaseMargin_deg !== undefined){
+if(!(validate6(data177.phaseMargin_deg, {instancePath:instancePath+"/variations/worst/phaseMargin_deg",parentData:data177,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.upperGainMargin_dB !== undefined){
+if(!(validate6(data177.upperGainMargin_dB, {instancePath:instancePath+"/variations/worst/upperGainMargin_dB",parentData:data177,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.lowerGainMargin_dB !== undefined){
+if(!(validate6(data177.lowerGainMargin_dB, {instancePath:instancePath+"/variations/worst/lowerGainMargin_dB",parentData:data177,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.delayMargin_s !== undefined){
+if(!(validate6(data177.delayMargin_s, {instancePath:instancePath+"/variations/worst/delayMargin_s",parentData:data177,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.sensitivityPeak !== undefined){
+if(!(validate6(data177.sensitivityPeak, {instancePath:instancePath+"/variations/worst/sensitivityPeak",parentData:data177,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data177.complementarySensitivityPeak !== undefined){
+if(!(validate6(data177.complementarySensitivityPeak, {instancePath:instancePath+"/variations/worst/complementarySensitivityPeak",parentData:data177,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
 }
 else {
-const err423 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err423 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err423];
 }
@@ -13402,11 +16270,15 @@ vErrors.push(err423);
 errors++;
 }
 }
-if(data.cautions !== undefined){
-let data188 = data.cautions;
-if(Array.isArray(data188)){
-if(data188.length < 1){
-const err424 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data152.failures !== undefined){
+let data184 = data152.failures;
+if(Array.isArray(data184)){
+const len9 = data184.length;
+for(let i9=0; i9<len9; i9++){
+let data185 = data184[i9];
+if(data185 && typeof data185 == "object" && !Array.isArray(data185)){
+if(data185.speed_mps === undefined){
+const err424 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err424];
 }
@@ -13415,10 +16287,8 @@ vErrors.push(err424);
 }
 errors++;
 }
-const len12 = data188.length;
-for(let i12=0; i12<len12; i12++){
-if(typeof data188[i12] !== "string"){
-const err425 = {instancePath:instancePath+"/cautions/" + i12,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data185.messages === undefined){
+const err425 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
 if(vErrors === null){
 vErrors = [err425];
 }
@@ -13427,10 +16297,9 @@ vErrors.push(err425);
 }
 errors++;
 }
-}
-}
-else {
-const err426 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key39 in data185){
+if(!((key39 === "speed_mps") || (key39 === "messages"))){
+const err426 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err426];
 }
@@ -13440,11 +16309,10 @@ vErrors.push(err426);
 errors++;
 }
 }
-if(data.checksum !== undefined){
-let data190 = data.checksum;
-if(data190 && typeof data190 == "object" && !Array.isArray(data190)){
-if(data190.algorithm === undefined){
-const err427 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(data185.speed_mps !== undefined){
+let data186 = data185.speed_mps;
+if(!((typeof data186 == "number") && (isFinite(data186)))){
+const err427 = {instancePath:instancePath+"/variations/failures/" + i9+"/speed_mps",schemaPath:"#/properties/variations/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err427];
 }
@@ -13453,8 +16321,14 @@ vErrors.push(err427);
 }
 errors++;
 }
-if(data190.canonicalForm === undefined){
-const err428 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+}
+if(data185.messages !== undefined){
+let data187 = data185.messages;
+if(Array.isArray(data187)){
+const len10 = data187.length;
+for(let i10=0; i10<len10; i10++){
+if(typeof data187[i10] !== "string"){
+const err428 = {instancePath:instancePath+"/variations/failures/" + i9+"/messages/" + i10,schemaPath:"#/properties/variations/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err428];
 }
@@ -13463,8 +16337,10 @@ vErrors.push(err428);
 }
 errors++;
 }
-if(data190.value === undefined){
-const err429 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+}
+else {
+const err429 = {instancePath:instancePath+"/variations/failures/" + i9+"/messages",schemaPath:"#/properties/variations/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err429];
 }
@@ -13473,8 +16349,10 @@ vErrors.push(err429);
 }
 errors++;
 }
-if(data190.sections === undefined){
-const err430 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+}
+else {
+const err430 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err430];
 }
@@ -13483,9 +16361,10 @@ vErrors.push(err430);
 }
 errors++;
 }
-for(const key40 in data190){
-if(!((((key40 === "algorithm") || (key40 === "canonicalForm")) || (key40 === "value")) || (key40 === "sections"))){
-const err431 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
+}
+}
+else {
+const err431 = {instancePath:instancePath+"/variations/failures",schemaPath:"#/properties/variations/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err431];
 }
@@ -13495,9 +16374,15 @@ vErrors.push(err431);
 errors++;
 }
 }
-if(data190.algorithm !== undefined){
-if("SHA-256" !== data190.algorithm){
-const err432 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(data152.breakpoints !== undefined){
+let data189 = data152.breakpoints;
+if(Array.isArray(data189)){
+const len11 = data189.length;
+for(let i11=0; i11<len11; i11++){
+let data190 = data189[i11];
+if(data190 && typeof data190 == "object" && !Array.isArray(data190)){
+if(data190.speed_mps === undefined){
+const err432 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err432];
 }
@@ -13506,10 +16391,8 @@ vErrors.push(err432);
 }
 errors++;
 }
-}
-if(data190.canonicalForm !== undefined){
-if(typeof data190.canonicalForm !== "string"){
-const err433 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data190.instability === undefined){
+const err433 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "instability"},message:"must have required property '"+"instability"+"'"};
 if(vErrors === null){
 vErrors = [err433];
 }
@@ -13518,12 +16401,8 @@ vErrors.push(err433);
 }
 errors++;
 }
-}
-if(data190.value !== undefined){
-let data193 = data190.value;
-if(typeof data193 === "string"){
-if(!pattern0.test(data193)){
-const err434 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data190.worst === undefined){
+const err434 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err434];
 }
@@ -13532,9 +16411,8 @@ vErrors.push(err434);
 }
 errors++;
 }
-}
-else {
-const err435 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data190.timeDomain === undefined){
+const err435 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "timeDomain"},message:"must have required property '"+"timeDomain"+"'"};
 if(vErrors === null){
 vErrors = [err435];
 }
@@ -13543,15 +16421,8 @@ vErrors.push(err435);
 }
 errors++;
 }
-}
-if(data190.sections !== undefined){
-let data194 = data190.sections;
-if(data194 && typeof data194 == "object" && !Array.isArray(data194)){
-for(const key41 in data194){
-const _errs413 = errors;
-if(typeof key41 === "string"){
-if(!pattern5.test(key41)){
-const err436 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key41};
+if(data190.weakest === undefined){
+const err436 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
 if(vErrors === null){
 vErrors = [err436];
 }
@@ -13560,10 +16431,9 @@ vErrors.push(err436);
 }
 errors++;
 }
-}
-var valid67 = _errs413 === errors;
-if(!valid67){
-const err437 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key41},message:"property name must be valid"};
+for(const key40 in data190){
+if(!(((((key40 === "speed_mps") || (key40 === "instability")) || (key40 === "worst")) || (key40 === "timeDomain")) || (key40 === "weakest"))){
+const err437 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err437];
 }
@@ -13573,11 +16443,10 @@ vErrors.push(err437);
 errors++;
 }
 }
-for(const key42 in data194){
-let data195 = data194[key42];
-if(typeof data195 === "string"){
-if(!pattern0.test(data195)){
-const err438 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data190.speed_mps !== undefined){
+let data191 = data190.speed_mps;
+if(!((typeof data191 == "number") && (isFinite(data191)))){
+const err438 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/speed_mps",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err438];
 }
@@ -13587,8 +16456,17 @@ vErrors.push(err438);
 errors++;
 }
 }
-else {
-const err439 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data190.instability !== undefined){
+if(!(validate13(data190.instability, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/instability",parentData:data190,parentDataProperty:"instability",rootData}))){
+vErrors = vErrors === null ? validate13.errors : vErrors.concat(validate13.errors);
+errors = vErrors.length;
+}
+}
+if(data190.worst !== undefined){
+let data193 = data190.worst;
+if(data193 && typeof data193 == "object" && !Array.isArray(data193)){
+if(data193.phaseMargin_deg === undefined){
+const err439 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err439];
 }
@@ -13597,10 +16475,8 @@ vErrors.push(err439);
 }
 errors++;
 }
-}
-}
-else {
-const err440 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data193.upperGainMargin_dB === undefined){
+const err440 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err440];
 }
@@ -13609,10 +16485,8 @@ vErrors.push(err440);
 }
 errors++;
 }
-}
-}
-else {
-const err441 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data193.lowerGainMargin_dB === undefined){
+const err441 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err441];
 }
@@ -13621,10 +16495,8 @@ vErrors.push(err441);
 }
 errors++;
 }
-}
-}
-else {
-const err442 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data193.delayMargin_s === undefined){
+const err442 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err442];
 }
@@ -13633,14 +16505,1235 @@ vErrors.push(err442);
 }
 errors++;
 }
+if(data193.sensitivityPeak === undefined){
+const err443 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err443];
+}
+else {
+vErrors.push(err443);
+}
+errors++;
+}
+if(data193.complementarySensitivityPeak === undefined){
+const err444 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+if(vErrors === null){
+vErrors = [err444];
+}
+else {
+vErrors.push(err444);
+}
+errors++;
+}
+for(const key41 in data193){
+if(!((((((key41 === "phaseMargin_deg") || (key41 === "upperGainMargin_dB")) || (key41 === "lowerGainMargin_dB")) || (key41 === "delayMargin_s")) || (key41 === "sensitivityPeak")) || (key41 === "complementarySensitivityPeak"))){
+const err445 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key41},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err445];
+}
+else {
+vErrors.push(err445);
+}
+errors++;
+}
+}
+if(data193.phaseMargin_deg !== undefined){
+if(!(validate15(data193.phaseMargin_deg, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/phaseMargin_deg",parentData:data193,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.upperGainMargin_dB !== undefined){
+if(!(validate15(data193.upperGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/upperGainMargin_dB",parentData:data193,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.lowerGainMargin_dB !== undefined){
+if(!(validate15(data193.lowerGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/lowerGainMargin_dB",parentData:data193,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.delayMargin_s !== undefined){
+if(!(validate15(data193.delayMargin_s, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/delayMargin_s",parentData:data193,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.sensitivityPeak !== undefined){
+if(!(validate15(data193.sensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/sensitivityPeak",parentData:data193,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data193.complementarySensitivityPeak !== undefined){
+if(!(validate15(data193.complementarySensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/complementarySensitivityPeak",parentData:data193,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err446 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err446];
+}
+else {
+vErrors.push(err446);
+}
+errors++;
+}
+}
+if(data190.timeDomain !== undefined){
+if(!(validate22(data190.timeDomain, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/timeDomain",parentData:data190,parentDataProperty:"timeDomain",rootData}))){
+vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
+errors = vErrors.length;
+}
+}
+if(data190.weakest !== undefined){
+if(!(validate33(data190.weakest, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/weakest",parentData:data190,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate33.errors : vErrors.concat(validate33.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err447 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err447];
+}
+else {
+vErrors.push(err447);
+}
+errors++;
+}
+}
+}
+else {
+const err448 = {instancePath:instancePath+"/variations/breakpoints",schemaPath:"#/properties/variations/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err448];
+}
+else {
+vErrors.push(err448);
+}
+errors++;
+}
+}
+if(data152.weakest !== undefined){
+if(!(validate33(data152.weakest, {instancePath:instancePath+"/variations/weakest",parentData:data152,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate33.errors : vErrors.concat(validate33.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err449 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err449];
+}
+else {
+vErrors.push(err449);
+}
+errors++;
+}
+}
+if(data.provenance !== undefined){
+let data203 = data.provenance;
+if(data203 && typeof data203 == "object" && !Array.isArray(data203)){
+if(data203.tool === undefined){
+const err450 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(vErrors === null){
+vErrors = [err450];
+}
+else {
+vErrors.push(err450);
+}
+errors++;
+}
+if(data203.toolVersion === undefined){
+const err451 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err451];
+}
+else {
+vErrors.push(err451);
+}
+errors++;
+}
+if(data203.inputs === undefined){
+const err452 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+if(vErrors === null){
+vErrors = [err452];
+}
+else {
+vErrors.push(err452);
+}
+errors++;
+}
+if(data203.model === undefined){
+const err453 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err453];
+}
+else {
+vErrors.push(err453);
+}
+errors++;
+}
+if(data203.rule === undefined){
+const err454 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(vErrors === null){
+vErrors = [err454];
+}
+else {
+vErrors.push(err454);
+}
+errors++;
+}
+if(data203.plan === undefined){
+const err455 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if(vErrors === null){
+vErrors = [err455];
+}
+else {
+vErrors.push(err455);
+}
+errors++;
+}
+for(const key42 in data203){
+if(!(((((((key42 === "tool") || (key42 === "toolVersion")) || (key42 === "inputs")) || (key42 === "model")) || (key42 === "rule")) || (key42 === "plan")) || (key42 === "handEdits"))){
+const err456 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key42},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err456];
+}
+else {
+vErrors.push(err456);
+}
+errors++;
+}
+}
+if(data203.tool !== undefined){
+if("speedband" !== data203.tool){
+const err457 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err457];
+}
+else {
+vErrors.push(err457);
+}
+errors++;
+}
+}
+if(data203.toolVersion !== undefined){
+if(typeof data203.toolVersion !== "string"){
+const err458 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err458];
+}
+else {
+vErrors.push(err458);
+}
+errors++;
+}
+}
+if(data203.inputs !== undefined){
+let data206 = data203.inputs;
+if(Array.isArray(data206)){
+const len12 = data206.length;
+for(let i12=0; i12<len12; i12++){
+let data207 = data206[i12];
+if(data207 && typeof data207 == "object" && !Array.isArray(data207)){
+if(data207.file === undefined){
+const err459 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(vErrors === null){
+vErrors = [err459];
+}
+else {
+vErrors.push(err459);
+}
+errors++;
+}
+if(data207.sha256 === undefined){
+const err460 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(vErrors === null){
+vErrors = [err460];
+}
+else {
+vErrors.push(err460);
+}
+errors++;
+}
+if(data207.role === undefined){
+const err461 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(vErrors === null){
+vErrors = [err461];
+}
+else {
+vErrors.push(err461);
+}
+errors++;
+}
+for(const key43 in data207){
+if(!(((key43 === "file") || (key43 === "sha256")) || (key43 === "role"))){
+const err462 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key43},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err462];
+}
+else {
+vErrors.push(err462);
+}
+errors++;
+}
+}
+if(data207.file !== undefined){
+if(typeof data207.file !== "string"){
+const err463 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err463];
+}
+else {
+vErrors.push(err463);
+}
+errors++;
+}
+}
+if(data207.sha256 !== undefined){
+let data209 = data207.sha256;
+if(typeof data209 === "string"){
+if(!pattern0.test(data209)){
+const err464 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err464];
+}
+else {
+vErrors.push(err464);
+}
+errors++;
+}
+}
+else {
+const err465 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err465];
+}
+else {
+vErrors.push(err465);
+}
+errors++;
+}
+}
+if(data207.role !== undefined){
+if(typeof data207.role !== "string"){
+const err466 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err466];
+}
+else {
+vErrors.push(err466);
+}
+errors++;
+}
+}
+}
+else {
+const err467 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err467];
+}
+else {
+vErrors.push(err467);
+}
+errors++;
+}
+}
+}
+else {
+const err468 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err468];
+}
+else {
+vErrors.push(err468);
+}
+errors++;
+}
+}
+if(data203.model !== undefined){
+let data211 = data203.model;
+if(!(data211 && typeof data211 == "object" && !Array.isArray(data211))){
+const err469 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err469];
+}
+else {
+vErrors.push(err469);
+}
+errors++;
+}
+}
+if(data203.rule !== undefined){
+let data212 = data203.rule;
+if(data212 && typeof data212 == "object" && !Array.isArray(data212)){
+if(data212.name === undefined){
+const err470 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(vErrors === null){
+vErrors = [err470];
+}
+else {
+vErrors.push(err470);
+}
+errors++;
+}
+if(data212.parameters === undefined){
+const err471 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err471];
+}
+else {
+vErrors.push(err471);
+}
+errors++;
+}
+if(data212.tuneFor === undefined){
+const err472 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
+if(vErrors === null){
+vErrors = [err472];
+}
+else {
+vErrors.push(err472);
+}
+errors++;
+}
+for(const key44 in data212){
+if(!(((((((key44 === "name") || (key44 === "parameters")) || (key44 === "citation")) || (key44 === "parametersAtBreakpoints")) || (key44 === "tuneFor")) || (key44 === "searchOn")) || (key44 === "searchAtBreakpoints"))){
+const err473 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key44},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err473];
+}
+else {
+vErrors.push(err473);
+}
+errors++;
+}
+}
+if(data212.name !== undefined){
+if(typeof data212.name !== "string"){
+const err474 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err474];
+}
+else {
+vErrors.push(err474);
+}
+errors++;
+}
+}
+if(data212.parameters !== undefined){
+let data214 = data212.parameters;
+if(!(data214 && typeof data214 == "object" && !Array.isArray(data214))){
+const err475 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err475];
+}
+else {
+vErrors.push(err475);
+}
+errors++;
+}
+}
+if(data212.citation !== undefined){
+if(typeof data212.citation !== "string"){
+const err476 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err476];
+}
+else {
+vErrors.push(err476);
+}
+errors++;
+}
+}
+if(data212.parametersAtBreakpoints !== undefined){
+let data216 = data212.parametersAtBreakpoints;
+if(Array.isArray(data216)){
+const len13 = data216.length;
+for(let i13=0; i13<len13; i13++){
+let data217 = data216[i13];
+if(data217 && typeof data217 == "object" && !Array.isArray(data217)){
+if(data217.speed_mps === undefined){
+const err477 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err477];
+}
+else {
+vErrors.push(err477);
+}
+errors++;
+}
+if(data217.parameters === undefined){
+const err478 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(vErrors === null){
+vErrors = [err478];
+}
+else {
+vErrors.push(err478);
+}
+errors++;
+}
+for(const key45 in data217){
+if(!((key45 === "speed_mps") || (key45 === "parameters"))){
+const err479 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key45},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err479];
+}
+else {
+vErrors.push(err479);
+}
+errors++;
+}
+}
+if(data217.speed_mps !== undefined){
+let data218 = data217.speed_mps;
+if(!((typeof data218 == "number") && (isFinite(data218)))){
+const err480 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err480];
+}
+else {
+vErrors.push(err480);
+}
+errors++;
+}
+}
+if(data217.parameters !== undefined){
+let data219 = data217.parameters;
+if(data219 && typeof data219 == "object" && !Array.isArray(data219)){
+for(const key46 in data219){
+let data220 = data219[key46];
+if((!((typeof data220 == "number") && (isFinite(data220)))) && (typeof data220 !== "string")){
+const err481 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/parameters/" + key46.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(vErrors === null){
+vErrors = [err481];
+}
+else {
+vErrors.push(err481);
+}
+errors++;
+}
+}
+}
+else {
+const err482 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err482];
+}
+else {
+vErrors.push(err482);
+}
+errors++;
+}
+}
+}
+else {
+const err483 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err483];
+}
+else {
+vErrors.push(err483);
+}
+errors++;
+}
+}
+}
+else {
+const err484 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err484];
+}
+else {
+vErrors.push(err484);
+}
+errors++;
+}
+}
+if(data212.tuneFor !== undefined){
+let data221 = data212.tuneFor;
+if(!((data221 === "rule-parameters") || (data221 === "fastest-passing"))){
+const err485 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err485];
+}
+else {
+vErrors.push(err485);
+}
+errors++;
+}
+}
+if(data212.searchOn !== undefined){
+let data222 = data212.searchOn;
+if(!((data222 === "nominal") || (data222 === "worst-case"))){
+const err486 = {instancePath:instancePath+"/provenance/rule/searchOn",schemaPath:"#/properties/provenance/properties/rule/properties/searchOn/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchOn.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err486];
+}
+else {
+vErrors.push(err486);
+}
+errors++;
+}
+}
+if(data212.searchAtBreakpoints !== undefined){
+let data223 = data212.searchAtBreakpoints;
+if(Array.isArray(data223)){
+const len14 = data223.length;
+for(let i14=0; i14<len14; i14++){
+let data224 = data223[i14];
+if(data224 && typeof data224 == "object" && !Array.isArray(data224)){
+if(data224.speed_mps === undefined){
+const err487 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(vErrors === null){
+vErrors = [err487];
+}
+else {
+vErrors.push(err487);
+}
+errors++;
+}
+if(data224.parameter === undefined){
+const err488 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(vErrors === null){
+vErrors = [err488];
+}
+else {
+vErrors.push(err488);
+}
+errors++;
+}
+if(data224.value === undefined){
+const err489 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err489];
+}
+else {
+vErrors.push(err489);
+}
+errors++;
+}
+if(data224.outcome === undefined){
+const err490 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+if(vErrors === null){
+vErrors = [err490];
+}
+else {
+vErrors.push(err490);
+}
+errors++;
+}
+if(data224.candidates === undefined){
+const err491 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+if(vErrors === null){
+vErrors = [err491];
+}
+else {
+vErrors.push(err491);
+}
+errors++;
+}
+if(data224.reason === undefined){
+const err492 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(vErrors === null){
+vErrors = [err492];
+}
+else {
+vErrors.push(err492);
+}
+errors++;
+}
+for(const key47 in data224){
+if(!((((((key47 === "speed_mps") || (key47 === "parameter")) || (key47 === "value")) || (key47 === "outcome")) || (key47 === "candidates")) || (key47 === "reason"))){
+const err493 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key47},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err493];
+}
+else {
+vErrors.push(err493);
+}
+errors++;
+}
+}
+if(data224.speed_mps !== undefined){
+let data225 = data224.speed_mps;
+if(!((typeof data225 == "number") && (isFinite(data225)))){
+const err494 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err494];
+}
+else {
+vErrors.push(err494);
+}
+errors++;
+}
+}
+if(data224.parameter !== undefined){
+if(typeof data224.parameter !== "string"){
+const err495 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err495];
+}
+else {
+vErrors.push(err495);
+}
+errors++;
+}
+}
+if(data224.value !== undefined){
+let data227 = data224.value;
+if(!((typeof data227 == "number") && (isFinite(data227)))){
+const err496 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err496];
+}
+else {
+vErrors.push(err496);
+}
+errors++;
+}
+}
+if(data224.outcome !== undefined){
+let data228 = data224.outcome;
+if(!((data228 === "fastest passing") || (data228 === "none passed"))){
+const err497 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err497];
+}
+else {
+vErrors.push(err497);
+}
+errors++;
+}
+}
+if(data224.candidates !== undefined){
+let data229 = data224.candidates;
+if(!(((typeof data229 == "number") && (!(data229 % 1) && !isNaN(data229))) && (isFinite(data229)))){
+const err498 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err498];
+}
+else {
+vErrors.push(err498);
+}
+errors++;
+}
+if((typeof data229 == "number") && (isFinite(data229))){
+if(data229 < 1 || isNaN(data229)){
+const err499 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err499];
+}
+else {
+vErrors.push(err499);
+}
+errors++;
+}
+}
+}
+if(data224.reason !== undefined){
+if(typeof data224.reason !== "string"){
+const err500 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err500];
+}
+else {
+vErrors.push(err500);
+}
+errors++;
+}
+}
+}
+else {
+const err501 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err501];
+}
+else {
+vErrors.push(err501);
+}
+errors++;
+}
+}
+}
+else {
+const err502 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err502];
+}
+else {
+vErrors.push(err502);
+}
+errors++;
+}
+}
+}
+else {
+const err503 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err503];
+}
+else {
+vErrors.push(err503);
+}
+errors++;
+}
+}
+if(data203.plan !== undefined){
+let data231 = data203.plan;
+if(!(data231 && typeof data231 == "object" && !Array.isArray(data231))){
+const err504 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err504];
+}
+else {
+vErrors.push(err504);
+}
+errors++;
+}
+}
+if(data203.handEdits !== undefined){
+let data232 = data203.handEdits;
+if(Array.isArray(data232)){
+const len15 = data232.length;
+for(let i15=0; i15<len15; i15++){
+let data233 = data232[i15];
+if(data233 && typeof data233 == "object" && !Array.isArray(data233)){
+if(data233.statement === undefined){
+const err505 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(vErrors === null){
+vErrors = [err505];
+}
+else {
+vErrors.push(err505);
+}
+errors++;
+}
+if(data233.changedSections === undefined){
+const err506 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(vErrors === null){
+vErrors = [err506];
+}
+else {
+vErrors.push(err506);
+}
+errors++;
+}
+if(data233.toolVersion === undefined){
+const err507 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err507];
+}
+else {
+vErrors.push(err507);
+}
+errors++;
+}
+if(data233.model === undefined){
+const err508 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err508];
+}
+else {
+vErrors.push(err508);
+}
+errors++;
+}
+if(data233.gridSize === undefined){
+const err509 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(vErrors === null){
+vErrors = [err509];
+}
+else {
+vErrors.push(err509);
+}
+errors++;
+}
+for(const key48 in data233){
+if(!(((((key48 === "statement") || (key48 === "changedSections")) || (key48 === "toolVersion")) || (key48 === "model")) || (key48 === "gridSize"))){
+const err510 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key48},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err510];
+}
+else {
+vErrors.push(err510);
+}
+errors++;
+}
+}
+if(data233.statement !== undefined){
+if(typeof data233.statement !== "string"){
+const err511 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err511];
+}
+else {
+vErrors.push(err511);
+}
+errors++;
+}
+}
+if(data233.changedSections !== undefined){
+let data235 = data233.changedSections;
+if(Array.isArray(data235)){
+const len16 = data235.length;
+for(let i16=0; i16<len16; i16++){
+if(typeof data235[i16] !== "string"){
+const err512 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/changedSections/" + i16,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err512];
+}
+else {
+vErrors.push(err512);
+}
+errors++;
+}
+}
+}
+else {
+const err513 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err513];
+}
+else {
+vErrors.push(err513);
+}
+errors++;
+}
+}
+if(data233.toolVersion !== undefined){
+if(typeof data233.toolVersion !== "string"){
+const err514 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err514];
+}
+else {
+vErrors.push(err514);
+}
+errors++;
+}
+}
+if(data233.model !== undefined){
+if(typeof data233.model !== "string"){
+const err515 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err515];
+}
+else {
+vErrors.push(err515);
+}
+errors++;
+}
+}
+if(data233.gridSize !== undefined){
+let data239 = data233.gridSize;
+if(!(((typeof data239 == "number") && (!(data239 % 1) && !isNaN(data239))) && (isFinite(data239)))){
+const err516 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err516];
+}
+else {
+vErrors.push(err516);
+}
+errors++;
+}
+if((typeof data239 == "number") && (isFinite(data239))){
+if(data239 < 1 || isNaN(data239)){
+const err517 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err517];
+}
+else {
+vErrors.push(err517);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err518 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err518];
+}
+else {
+vErrors.push(err518);
+}
+errors++;
+}
+}
+}
+else {
+const err519 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err519];
+}
+else {
+vErrors.push(err519);
+}
+errors++;
+}
+}
+}
+else {
+const err520 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err520];
+}
+else {
+vErrors.push(err520);
+}
+errors++;
+}
+}
+if(data.cautions !== undefined){
+let data240 = data.cautions;
+if(Array.isArray(data240)){
+if(data240.length < 1){
+const err521 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err521];
+}
+else {
+vErrors.push(err521);
+}
+errors++;
+}
+const len17 = data240.length;
+for(let i17=0; i17<len17; i17++){
+if(typeof data240[i17] !== "string"){
+const err522 = {instancePath:instancePath+"/cautions/" + i17,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err522];
+}
+else {
+vErrors.push(err522);
+}
+errors++;
+}
+}
+}
+else {
+const err523 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err523];
+}
+else {
+vErrors.push(err523);
+}
+errors++;
+}
+}
+if(data.checksum !== undefined){
+let data242 = data.checksum;
+if(data242 && typeof data242 == "object" && !Array.isArray(data242)){
+if(data242.algorithm === undefined){
+const err524 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(vErrors === null){
+vErrors = [err524];
+}
+else {
+vErrors.push(err524);
+}
+errors++;
+}
+if(data242.canonicalForm === undefined){
+const err525 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(vErrors === null){
+vErrors = [err525];
+}
+else {
+vErrors.push(err525);
+}
+errors++;
+}
+if(data242.value === undefined){
+const err526 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err526];
+}
+else {
+vErrors.push(err526);
+}
+errors++;
+}
+if(data242.sections === undefined){
+const err527 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+if(vErrors === null){
+vErrors = [err527];
+}
+else {
+vErrors.push(err527);
+}
+errors++;
+}
+for(const key49 in data242){
+if(!((((key49 === "algorithm") || (key49 === "canonicalForm")) || (key49 === "value")) || (key49 === "sections"))){
+const err528 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key49},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err528];
+}
+else {
+vErrors.push(err528);
+}
+errors++;
+}
+}
+if(data242.algorithm !== undefined){
+if("SHA-256" !== data242.algorithm){
+const err529 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err529];
+}
+else {
+vErrors.push(err529);
+}
+errors++;
+}
+}
+if(data242.canonicalForm !== undefined){
+if(typeof data242.canonicalForm !== "string"){
+const err530 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err530];
+}
+else {
+vErrors.push(err530);
+}
+errors++;
+}
+}
+if(data242.value !== undefined){
+let data245 = data242.value;
+if(typeof data245 === "string"){
+if(!pattern0.test(data245)){
+const err531 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err531];
+}
+else {
+vErrors.push(err531);
+}
+errors++;
+}
+}
+else {
+const err532 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err532];
+}
+else {
+vErrors.push(err532);
+}
+errors++;
+}
+}
+if(data242.sections !== undefined){
+let data246 = data242.sections;
+if(data246 && typeof data246 == "object" && !Array.isArray(data246)){
+for(const key50 in data246){
+const _errs505 = errors;
+if(typeof key50 === "string"){
+if(!pattern5.test(key50)){
+const err533 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key50};
+if(vErrors === null){
+vErrors = [err533];
+}
+else {
+vErrors.push(err533);
+}
+errors++;
+}
+}
+var valid86 = _errs505 === errors;
+if(!valid86){
+const err534 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key50},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err534];
+}
+else {
+vErrors.push(err534);
+}
+errors++;
+}
+}
+for(const key51 in data246){
+let data247 = data246[key51];
+if(typeof data247 === "string"){
+if(!pattern0.test(data247)){
+const err535 = {instancePath:instancePath+"/checksum/sections/" + key51.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err535];
+}
+else {
+vErrors.push(err535);
+}
+errors++;
+}
+}
+else {
+const err536 = {instancePath:instancePath+"/checksum/sections/" + key51.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err536];
+}
+else {
+vErrors.push(err536);
+}
+errors++;
+}
+}
+}
+else {
+const err537 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err537];
+}
+else {
+vErrors.push(err537);
+}
+errors++;
+}
+}
+}
+else {
+const err538 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err538];
+}
+else {
+vErrors.push(err538);
+}
+errors++;
+}
+}
+}
+else {
+const err539 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err539];
+}
+else {
+vErrors.push(err539);
+}
+errors++;
+}
 validate5.errors = vErrors;
 return errors === 0;
 }
 
-export const validateVehicleFile = validate6;
-const schema12 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
+export const validateVehicleFile = validate36;
+const schema23 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
 
-function validate6(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
+function validate36(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
 let errors = 0;
 if(data && typeof data == "object" && !Array.isArray(data)){
@@ -13725,7 +17818,7 @@ vErrors.push(err7);
 errors++;
 }
 for(const key0 in data){
-if(!(func18.call(schema12.properties, key0))){
+if(!(func18.call(schema23.properties, key0))){
 const err8 = {instancePath,schemaPath:"#/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key0},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err8];
@@ -13952,7 +18045,7 @@ vErrors.push(err25);
 }
 errors++;
 }
-validate6.errors = vErrors;
+validate36.errors = vErrors;
 return errors === 0;
 }
 

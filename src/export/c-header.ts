@@ -138,6 +138,12 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     `Dense check of the gains in this header (${modelWords(schedule.check.model.kind)}, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
       `${check.passed ? 'PASSED' : `FAILED at ${check.failedSpeeds} speeds`}.`,
     ...worstLines(check.worst),
+    ...(schedule.variations === undefined
+      ? []
+      : [
+          `Worst case over ${schedule.variations.set.dimensions.length} varied parameters (${schedule.variations.acceptance} acceptance; as recorded in the schedule, not re-run at export): ` +
+            `${schedule.variations.passed ? 'PASSED' : `FAILED at ${schedule.variations.failedSpeeds} speeds`}.`,
+        ]),
     `Lookup status: ${upper}_LOOKUP_OK (${LOOKUP_STATUS.OK.value}), ${upper}_LOOKUP_FALLBACK (${LOOKUP_STATUS.FALLBACK.value}), ${upper}_LOOKUP_NO_GAINS (${LOOKUP_STATUS.NO_GAINS.value}): check it.`,
     quantisation !== undefined
       ? `An integer speed is never NaN: the lookup does not return ${upper}_LOOKUP_FALLBACK. ${

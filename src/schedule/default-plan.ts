@@ -20,7 +20,8 @@ export function defaultPlanFile(kind: LoopKind = PLAN_DEFAULTS.loop.kind): Parti
     description:
       `The default plan of speedband ${VERSION} for a ${kind} loop. Left out because the data decide them: speeds (minimum_mps and maximum_mps the lowest and highest test speed, ` +
       `lowSpeedFloor_mps the lowest), controller.sampleTime_s (the vehicle file's controllerSampleTime_s, else ${controller.sampleTime_s} s) and ` +
-      `controller.computationLatency_s (one sample). Every field, its unit, default and source: docs/plan.md.${pathNote}`,
+      `controller.computationLatency_s (one sample)${rule.tuneFor === 'fastest-passing' ? ', and rule.searchOn (the worst case when a variations section is added under robust acceptance, else the nominal model)' : ''}. ` +
+      `Every field, its unit, default and source: docs/plan.md.${pathNote}`,
     loop: { ...PLAN_DEFAULTS.loop, ...(kind === 'path' ? DEFAULT_PATH_PREVIEW : {}), kind },
     rule: { name: rule.name, tuneFor: rule.tuneFor, parameters: {} },
     speeds: {},

@@ -6,6 +6,7 @@
 import { TUNING_RULES } from '../tuning/registry.js';
 import { PLAN_DEFAULTS } from './plan.js';
 import { PLAN_SCHEMA } from './plan-schema.js';
+import { VARIATION_DEFAULTS } from './plan-variations.js';
 
 export { PLAN_REFERENCE_PATH } from './plan-reference-path.js';
 
@@ -28,11 +29,34 @@ const DERIVED_DEFAULTS: Readonly<Record<string, string>> = {
   'rule.parameters.phaseMarginTarget_deg': 'none (a fastest-passing search sets acceptance.minimumPhaseMargin_deg)',
   'rule.name': 'per loop kind: yaw-rate simc; heading simc; path migo',
   'rule.tuneFor': 'per loop kind: yaw-rate rule-parameters; heading and path fastest-passing (rule-parameters when a rule is named)',
+  'rule.searchOn': 'worst-case when the plan has variations under robust acceptance (and tuneFor is fastest-passing), else nominal',
   'loop.preview_m': '0.5 for a path loop when neither preview_m nor previewTime_s is given, else 0',
   'loop.previewTime_s': '0.3 for a path loop when neither preview_m nor previewTime_s is given, else 0',
   description: 'none',
   $schema: 'none',
+  ...variationDefaults(),
 };
+
+/** The variations' defaults, which apply when the section is given (without it: the nominal check only). */
+function variationDefaults(): Record<string, string> {
+  const d = VARIATION_DEFAULTS;
+  const pm = (value: number): string => `±${value} (when the section is given)`;
+  return {
+    variations: 'none: the nominal check only',
+    'variations.acceptance': `\`"${d.acceptance}"\` (when the section is given)`,
+    'variations.mass_pct': pm(d.mass_pct),
+    'variations.yawInertia_pct': pm(d.yawInertia_pct),
+    'variations.cgRearwardShift_m': pm(d.cgRearwardShift_m),
+    'variations.frontCorneringStiffness_pct': pm(d.frontCorneringStiffness_pct),
+    'variations.rearCorneringStiffness_pct': pm(d.rearCorneringStiffness_pct),
+    'variations.actuatorLag_pct': pm(d.actuatorLag_pct),
+    'variations.addedLatency_s': 'one sample: controller.sampleTime_s',
+    'variations.fromIdentification': `\`${d.fromIdentification}\``,
+    'variations.search.samples': `\`${d.search.samples}\``,
+    'variations.search.seed': `\`${d.search.seed}\``,
+    'variations.search.localSearchEvaluations': `\`${d.search.localSearchEvaluations}\``,
+  };
+}
 
 /** Where each default comes from (a published source, common practice, or our choice and why). */
 const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
@@ -42,6 +66,7 @@ const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
   'loop.referencePoint': 'our choice',
   'rule.name': 'Skogestad 2003 (SIMC); Åström, Panagopoulos & Hägglund 1998 (MIGO) — each default passes on every demo vehicle',
   'rule.tuneFor': 'our choice: the fastest response that meets every acceptance limit',
+  'rule.searchOn': 'our choice: under robust acceptance the search aims at what the schedule must pass',
   'rule.parameters.controllerType': 'Ziegler & Nichols 1942; Skogestad 2003',
   'rule.parameters.closedLoopTimeConstant_s': 'Rivera, Morari & Skogestad 1986 (from memory: λ > 0.8·θ)',
   'rule.parameters.simcClosedLoopTimeConstant_s': 'Skogestad 2003',
@@ -79,6 +104,18 @@ const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
   'check.model': 'our choice: valid between and beyond the test speeds',
   description: '—',
   $schema: '—',
+  'variations.acceptance': 'our choice: a set that is written is meant to be met',
+  'variations.mass_pct': 'common practice (from memory): a road vehicle\'s load moves its mass by about ±10 %; give your kerb-to-gross range',
+  'variations.yawInertia_pct': 'common practice (from memory): follows the load, about ±10 %',
+  'variations.cgRearwardShift_m': 'none: where the load sits depends on the vehicle',
+  'variations.frontCorneringStiffness_pct': 'common practice (from memory): tyre wear, inflation, temperature and dry road surfaces move cornering stiffness by about ±20 %',
+  'variations.rearCorneringStiffness_pct': 'common practice (from memory): as the front axle, each axle on its own (that moves the understeer gradient)',
+  'variations.actuatorLag_pct': 'common practice (from memory): an actuator\'s lag moves by about ±20 % over temperature, supply voltage and wear',
+  'variations.addedLatency_s': 'our choice: one missed sample (a late computation, bus jitter)',
+  'variations.fromIdentification': 'our choice: the identification\'s own uncertainty is always there',
+  'variations.search.samples': 'our choice: about 20 ms a speed at ≈ 0.2 ms a loop analysis',
+  'variations.search.seed': 'our choice',
+  'variations.search.localSearchEvaluations': 'our choice: three step sizes over a few parameters',
 };
 
 interface SchemaNode {
@@ -90,10 +127,11 @@ interface SchemaNode {
   readonly exclusiveMinimum?: number;
   readonly properties?: Readonly<Record<string, SchemaNode>>;
   readonly oneOf?: readonly SchemaNode[];
-  readonly items?: SchemaNode;
+  readonly items?: SchemaNode | readonly SchemaNode[];
 }
 
 const UNITS: readonly (readonly [string, string])[] = [
+  ['_pct', '%'],
   ['_mps', 'm/s'],
   ['_radps', 'rad/s'],
   ['_dB', 'dB'],
@@ -110,7 +148,10 @@ function allowedValues(node: SchemaNode): string {
   if (node.oneOf !== undefined && node.oneOf.some((branch) => branch.type === 'string')) {
     return `${allowedValues(node.oneOf[0])}; a table \`{"speeds_mps": […], "values": […]}\`; or an expression in \`speed_mps\``;
   }
-  if (node.type === 'array') return `list of ${allowedValues(node.items ?? {})}`;
+  if (node.oneOf !== undefined && node.oneOf.some((branch) => branch.type === 'array')) {
+    return node.oneOf.map((branch) => (branch.type === 'array' ? `[down, up]: ${(Array.isArray(branch.items) ? branch.items : []).map((item: SchemaNode) => allowedValues(item)).join(' and ')}` : `± ${allowedValues(branch)}`)).join('; or ');
+  }
+  if (node.type === 'array') return `list of ${allowedValues(Array.isArray(node.items) ? node.items[0] : (node.items ?? {}))}`;
   const bounds: string[] = [];
   if (node.exclusiveMinimum !== undefined) bounds.push(`> ${node.exclusiveMinimum}`);
   if (node.minimum !== undefined) bounds.push(`≥ ${node.minimum}`);

@@ -2,6 +2,8 @@
  * JSON Schema of a plan file (what `build` is asked to produce). Every field is optional;
  * plan.ts `PLAN_DEFAULTS` fills the rest. Unknown fields are refused (typos get named).
  */
+import { PLAN_VARIATIONS_SCHEMA } from './plan-variations-schema.js';
+
 const positive = { type: 'number', exclusiveMinimum: 0 } as const;
 const nonNegative = { type: 'number', minimum: 0 } as const;
 /** A field with its description (the plan reference, docs/plan.md, is generated from these: src/schedule/plan-reference.ts). */
@@ -71,6 +73,10 @@ export const PLAN_SCHEMA = {
           tuneFor: described(
             { enum: ['rule-parameters', 'fastest-passing'] },
             "How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target).",
+          ),
+          searchOn: described(
+            { enum: ['nominal', 'worst-case'] },
+            'With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan\'s variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal.',
           ),
           parameters: described(
             {
@@ -183,5 +189,6 @@ export const PLAN_SCHEMA = {
       },
       'The dense check.',
     ),
+    variations: PLAN_VARIATIONS_SCHEMA,
   },
 } as const;

@@ -15,6 +15,7 @@ import { PLAN_SCHEMA } from './plan-schema.js';
 import { planReferenceHint } from './plan-reference-path.js';
 import { findRule, parameterNotTakenWords, parametersNotTaken } from '../tuning/registry.js';
 import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
+import { resolveVariations, type PlanVariations, type WrittenVariations } from './plan-variations.js';
 
 import type { LoopKind, ReferencePoint } from '../loops/types.js';
 
@@ -49,6 +50,8 @@ export interface PlanRuleParameters {
  * meets every acceptance limit at that breakpoint on the full loop (src/build/fastest-passing.ts).
  */
 export type TuneFor = 'rule-parameters' | 'fastest-passing';
+/** What a fastest-passing search judges each candidate on: the nominal model, or the worst case over the plan's variations. */
+export type SearchOn = 'nominal' | 'worst-case';
 
 export type BreakpointPlan =
   | { readonly mode: 'explicit'; readonly speeds_mps: readonly number[] }
@@ -65,7 +68,7 @@ export interface Plan {
     /** Path loop: where the preview is measured from (front-axle adds the CG-to-front-axle distance a). */
     readonly referencePoint: ReferencePoint;
   };
-  readonly rule: { readonly name: RuleName; readonly parameters: PlanRuleParameters; readonly tuneFor: TuneFor };
+  readonly rule: { readonly name: RuleName; readonly parameters: PlanRuleParameters; readonly tuneFor: TuneFor; readonly searchOn: SearchOn };
   readonly speeds: {
     /** The dense check covers minimum_mps … maximum_mps. */
     readonly minimum_mps: number;
@@ -101,6 +104,8 @@ export interface Plan {
     /** Model the dense check runs on: the joint single-track fit, or lumped models interpolated between test speeds. */
     readonly model: 'single-track' | 'interpolated-lumped';
   };
+  /** The vehicles the schedule must hold on besides the nominal model (plan-variations.ts); absent: nominal check only. */
+  readonly variations?: PlanVariations;
 }
 
 /** A plan as written in a file: every field optional. */
@@ -109,7 +114,9 @@ export type PartialPlan = {
     ? { readonly speeds_mps?: readonly number[]; readonly count?: number; readonly spacing?: 'geometric' | 'linear' }
     : K extends 'interpolation'
       ? InterpolationMethod
-      : Partial<Plan[K]>;
+      : K extends 'variations'
+        ? WrittenVariations
+        : Partial<Plan[K]>;
 } & { readonly $schema?: string; readonly description?: string };
 
 /**
@@ -128,7 +135,7 @@ export type PartialPlan = {
  */
 export const PLAN_DEFAULTS: Plan = {
   loop: { kind: 'yaw-rate', preview_m: 0, previewTime_s: 0, referencePoint: 'front-axle' },
-  rule: { name: 'simc', parameters: {}, tuneFor: 'rule-parameters' },
+  rule: { name: 'simc', parameters: {}, tuneFor: 'rule-parameters', searchOn: 'nominal' },
   speeds: { minimum_mps: 1, maximum_mps: 20, lowSpeedFloor_mps: 1 },
   breakpoints: { mode: 'automatic', count: 6, spacing: 'geometric' },
   interpolation: 'monotone-cubic',
@@ -156,9 +163,9 @@ export const PLAN_DEFAULTS: Plan = {
  *   path:     MIGO (Åström, Panagopoulos & Hägglund 1998) on the full loop, M searched likewise.
  */
 export const DEFAULT_RULES: Readonly<Record<LoopKind, Plan['rule']>> = {
-  'yaw-rate': { name: 'simc', parameters: {}, tuneFor: 'rule-parameters' },
-  heading: { name: 'simc', parameters: {}, tuneFor: 'fastest-passing' },
-  path: { name: 'migo', parameters: {}, tuneFor: 'fastest-passing' },
+  'yaw-rate': { name: 'simc', parameters: {}, tuneFor: 'rule-parameters', searchOn: 'nominal' },
+  heading: { name: 'simc', parameters: {}, tuneFor: 'fastest-passing', searchOn: 'nominal' },
+  path: { name: 'migo', parameters: {}, tuneFor: 'fastest-passing', searchOn: 'nominal' },
 };
 
 /**
@@ -292,10 +299,12 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   const previewGiven = partial.loop?.preview_m !== undefined || partial.loop?.previewTime_s !== undefined;
   const loop = { ...PLAN_DEFAULTS.loop, ...(kind === 'path' && !previewGiven ? DEFAULT_PATH_PREVIEW : {}), ...partial.loop };
   // No rule named: the loop kind's default rule, parameters and search; a rule named: as the plan says.
-  const rule =
+  const chosen =
     partial.rule?.name === undefined
       ? { ...DEFAULT_RULES[kind], ...(partial.rule?.parameters === undefined ? {} : { parameters }), ...(partial.rule?.tuneFor === undefined ? {} : { tuneFor: partial.rule.tuneFor }) }
       : { name: partial.rule.name, parameters, tuneFor: partial.rule.tuneFor ?? PLAN_DEFAULTS.rule.tuneFor };
+  const variations = partial.variations === undefined ? undefined : resolveVariations(partial.variations, controller.sampleTime_s);
+  const rule = { ...chosen, searchOn: resolveSearchOn(partial.rule?.searchOn, chosen.tuneFor, variations, file) };
   return {
     loop,
     rule,
@@ -305,7 +314,26 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
     controller,
     acceptance: { ...PLAN_DEFAULTS.acceptance, ...partial.acceptance },
     check: { ...PLAN_DEFAULTS.check, ...partial.check },
+    ...(variations === undefined ? {} : { variations }),
   };
+}
+
+/**
+ * What a fastest-passing search judges its candidates on: as written; else the worst case when the plan's
+ * variations are accepted robustly (the search then aims at what the schedule must pass), the nominal model otherwise.
+ */
+function resolveSearchOn(written: SearchOn | undefined, tuneFor: TuneFor, variations: PlanVariations | undefined, file: string | undefined): SearchOn {
+  if (written !== undefined && tuneFor !== 'fastest-passing') {
+    throw new SpeedbandError('plan.invalid', `rule.searchOn is "${written}", but the rule's parameters are not searched (tuneFor "${tuneFor}") — remove rule.searchOn, or set rule.tuneFor to "fastest-passing"`, {
+      location: { file, jsonPath: '/rule/searchOn' },
+    });
+  }
+  if (written === 'worst-case' && variations === undefined) {
+    throw new SpeedbandError('plan.invalid', 'rule.searchOn is "worst-case", but the plan has no variations section to take the worst case over — add "variations" (even {} for the defaults), or search on the nominal model', {
+      location: { file, jsonPath: '/rule/searchOn' },
+    });
+  }
+  return written ?? (tuneFor === 'fastest-passing' && variations?.acceptance === 'robust' ? 'worst-case' : 'nominal');
 }
 
 /** Read and schema-validate a plan file, not yet resolved (errors name the file and JSON path). */

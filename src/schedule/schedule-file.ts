@@ -16,6 +16,7 @@ import { failingSpeeds } from './dense-check.js';
 import { planThresholds, type Plan } from './plan.js';
 import type { BreakpointInsertion } from './refine.js';
 import { SCHEDULE_SCHEMA } from './schedule-schema.js';
+import { acceptancePassed, type ScheduleVariations } from './schedule-variations.js';
 import { serialiseSchedule } from './schedule-json.js';
 import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, feedForwardText, gainUnits, interpolationText, loopErrorText } from './schedule-text.js';
 import {
@@ -53,6 +54,8 @@ export interface ScheduleInput {
   readonly ruleCitation?: string;
   /** The plan's rule parameters resolved at each final breakpoint (speed tables and expressions evaluated). */
   readonly ruleParametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
+  /** The worst case over the plan's variations (schedule-variations.ts), when the plan gives them. */
+  readonly variations?: ScheduleVariations;
   /** Per final breakpoint: set-point weights, feed-forward and the time-domain figures with the limits they break. */
   readonly breakpointExtras: readonly BreakpointExtras[];
   /** With tuneFor fastest-passing: the search at each final breakpoint. */
@@ -102,8 +105,8 @@ export function recordedWorst(worst: WorstMargins): WorstMargins {
 }
 
 /**
- * Assemble a schedule file with its checksum. Status is 'passed' when the dense check passed,
- * else 'failed' (the caller decides whether a failed schedule may be written: --allow-failing).
+ * Assemble a schedule file with its checksum. Status is 'passed' when the dense check passed (and, under
+ * robust acceptance, the worst case over the variations), else 'failed' (the caller decides whether a failed schedule may be written: --allow-failing).
  * Deterministic: no clock, file names as base names only.
  */
 export function assembleSchedule(input: ScheduleInput): ScheduleFile {
@@ -143,7 +146,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
     format: SCHEDULE_FORMAT,
     formatVersion: SCHEDULE_FORMAT_VERSION,
-    status: passed ? 'passed' : 'failed',
+    status: acceptancePassed(passed, input.variations) ? 'passed' : 'failed',
     vehicle: { name: input.vehicle.name, file: basename(input.vehicle.file), sha256: input.vehicle.sha256 },
     loop: {
       kind: plan.loop.kind,
@@ -196,6 +199,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
         failures: timeDomainFailures,
       },
     },
+    ...(input.variations === undefined ? {} : { variations: input.variations }),
     provenance: {
       tool: 'speedband',
       toolVersion: VERSION,
@@ -207,6 +211,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
         ...(input.ruleCitation === undefined ? {} : { citation: input.ruleCitation }),
         ...(input.ruleParametersAtBreakpoints === undefined ? {} : { parametersAtBreakpoints: input.ruleParametersAtBreakpoints }),
         tuneFor: plan.rule.tuneFor,
+        ...(plan.rule.tuneFor === 'fastest-passing' ? { searchOn: plan.rule.searchOn } : {}),
         ...(input.searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints: input.searchAtBreakpoints }),
       },
       plan: plan as unknown as Readonly<Record<string, unknown>>,
@@ -267,10 +272,11 @@ export function parseSchedule(value: unknown, file: string): ScheduleFile {
       { location: { file, jsonPath: '/checksum/value' }, details: { changes: verdict.changes } },
     );
   }
-  if ((schedule.status === 'passed') !== schedule.check.passed) {
+  if ((schedule.status === 'passed') !== acceptancePassed(schedule.check.passed, schedule.variations)) {
+    const robust = schedule.variations === undefined ? '' : ` and variations.passed is ${schedule.variations.passed} under ${schedule.variations.acceptance} acceptance`;
     throw new SpeedbandError(
       'schedule.invalid',
-      `status is "${schedule.status}" but check.passed is ${schedule.check.passed} — the file is inconsistent; rebuild the schedule`,
+      `status is "${schedule.status}" but check.passed is ${schedule.check.passed}${robust} — the file is inconsistent; rebuild the schedule`,
       { location: { file, jsonPath: '/status' } },
     );
   }

@@ -2,6 +2,8 @@
  * JSON Schema of schedule.json (validated on write and on read). The order of `properties`
  * is also the order fields are written in (see schedule-json.ts).
  */
+import { SCHEDULE_VARIATIONS_SCHEMA } from './schedule-variations-schema.js';
+
 const number = { type: 'number' } as const;
 const nullableNumber = { type: ['number', 'null'] } as const;
 const text = { type: 'string' } as const;
@@ -142,6 +144,7 @@ export const SCHEDULE_SCHEMA = object({
       failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
     }),
   }),
+  variations: SCHEDULE_VARIATIONS_SCHEMA,
   provenance: object(
     {
       tool: { const: 'speedband' },
@@ -158,12 +161,13 @@ export const SCHEDULE_SCHEMA = object({
             items: object({ speed_mps: number, parameters: { type: 'object', additionalProperties: { type: ['number', 'string'] } } }),
           },
           tuneFor: { enum: ['rule-parameters', 'fastest-passing'] },
+          searchOn: { enum: ['nominal', 'worst-case'] },
           searchAtBreakpoints: {
             type: 'array',
             items: object({ speed_mps: number, parameter: text, value: number, outcome: { enum: ['fastest passing', 'none passed'] }, candidates: { type: 'integer', minimum: 1 }, reason: text }),
           },
         },
-        ['citation', 'parametersAtBreakpoints', 'searchAtBreakpoints'],
+        ['citation', 'parametersAtBreakpoints', 'searchOn', 'searchAtBreakpoints'],
       ),
       plan: freeObject,
       handEdits: {
@@ -180,4 +184,4 @@ export const SCHEDULE_SCHEMA = object({
     value: sha256,
     sections: { type: 'object', propertyNames: { pattern: '^/' }, additionalProperties: sha256 },
   }),
-});
+}, ['variations']);

@@ -8,6 +8,7 @@ import type { Discretisation } from '../controller/types.js';
 import type { TimeDomainFigures, TimeDomainLimits } from '../performance/types.js';
 import type { InterpolationMethod, AcceptanceThresholds, WorstMargins } from './types.js';
 import type { LoopKind, ReferencePoint } from './plan.js';
+import type { ScheduleVariations } from './schedule-variations.js';
 
 export const SCHEDULE_FORMAT = 'speedband-schedule';
 /**
@@ -156,6 +157,8 @@ export interface ScheduleProvenance {
     /** The parameters as resolved at each breakpoint, when the plan gives any or a search chose them. */
     readonly parametersAtBreakpoints?: readonly ScheduleRuleParametersAt[];
     readonly tuneFor: 'rule-parameters' | 'fastest-passing';
+    /** With tuneFor fastest-passing: whether the search judged its candidates on the nominal model or in the worst case over the variations. */
+    readonly searchOn?: 'nominal' | 'worst-case';
     /** With tuneFor fastest-passing: at each breakpoint, the parameter searched, the value chosen and why. */
     readonly searchAtBreakpoints?: readonly ScheduleSearchAt[];
   };
@@ -201,6 +204,8 @@ export interface ScheduleFile {
   readonly units: ScheduleUnits;
   readonly breakpoints: readonly ScheduleBreakpoint[];
   readonly check: ScheduleCheck;
+  /** Present when the plan gave variations: the worst case over them (schedule-variations.ts). */
+  readonly variations?: ScheduleVariations;
   readonly provenance: ScheduleProvenance;
   readonly cautions: readonly string[];
   readonly checksum: ScheduleChecksum;

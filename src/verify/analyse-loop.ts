@@ -10,7 +10,7 @@ import { idealToParallel, seriesToParallel } from '../controller/pid-forms.js';
 import { pidTransferFunction } from '../controller/pid.js';
 import type { Discretisation, PidForm, PidGains } from '../controller/types.js';
 import { multiplyPolynomials } from '../lti/polynomial.js';
-import { analyseOpenLoop } from './analyse-open-loop.js';
+import { analyseOpenLoop, type AnalysisOptions } from './analyse-open-loop.js';
 import type { LoopMargins, OpenLoop } from './types.js';
 import { checkCoefficients } from './validate-loop.js';
 
@@ -161,8 +161,8 @@ export function openLoopOf(description: LoopDescription): OpenLoop {
 
 /**
  * Margins and verdict of a plant under a PID (see LoopDescription for the forms and
- * units): `analyseOpenLoop(openLoopOf(description))`. Units: rad/s, degrees, dB, s.
+ * units): `analyseOpenLoop(openLoopOf(description), options)`. Units: rad/s, degrees, dB, s.
  */
-export function analyseLoop(description: LoopDescription): LoopMargins {
-  return analyseOpenLoop(openLoopOf(description));
+export function analyseLoop(description: LoopDescription, options: AnalysisOptions = {}): LoopMargins {
+  return analyseOpenLoop(openLoopOf(description), options);
 }

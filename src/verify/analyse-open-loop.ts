@@ -27,6 +27,27 @@ export function phaseMarginFromPhase(phase_rad: number): number {
 const finite = (value: number): number => (Number.isFinite(value) ? value : Number.MAX_VALUE);
 
 /**
+ * How much of the analysis to do. 'full' (the default): everything below. 'figures', for searches that
+ * analyse many neighbouring loops and analyse the ones they keep in full: the same verdict, margins and
+ * peaks, but no Nyquist cross-check of the verdict (the closed-loop poles decide either way) and the delay
+ * margin as its crossover estimate, not confirmed by the exact verdict (it may promise more than the loop
+ * tolerates where a fraction of a sample matters; `analysis.delayMarginNote` says it is an estimate).
+ */
+export interface AnalysisOptions {
+  readonly scope?: 'full' | 'figures';
+}
+
+/** The delay margin's crossover estimate min φᵢ/ωᵢ, unconfirmed (scope 'figures'). */
+function delayMarginEstimate(crossovers: readonly { frequency_radps: number; signed_rad: number }[]): { delayMargin_s: number | null; frequency_radps: number | null; note: string | null } {
+  let best: { delayMargin_s: number; frequency_radps: number } | null = null;
+  for (const c of crossovers) {
+    const needed = (c.signed_rad > 0 ? c.signed_rad : c.signed_rad + 2 * Math.PI) / c.frequency_radps;
+    if (best === null || needed < best.delayMargin_s) best = { delayMargin_s: needed, frequency_radps: c.frequency_radps };
+  }
+  return best === null ? { delayMargin_s: null, frequency_radps: null, note: null } : { ...best, note: 'the crossover estimate, not confirmed by the exact verdict (analysis scope "figures")' };
+}
+
+/**
  * Analyse the open loop L(s) = N(s)/D(s)·e^(−θs) of a unity negative-feedback loop
  * (closed loop 1 + L = 0), optionally with a discrete controller C(z): the loop is then the
  * sampled loop L(e^(jωTs)) = C(e^(jωTs))·G_zoh(e^(jωTs)) for 0 < ω ≤ π/Ts, G_zoh the exact
@@ -57,14 +78,15 @@ const finite = (value: number): number => (Number.isFinite(value) ? value : Numb
  * `verify.analysisTooLarge` names the cause. Throws `verify.invalidLoop` / `verify.improperLoop`
  * on bad input.
  */
-export function analyseOpenLoop(input: OpenLoop): LoopMargins {
+export function analyseOpenLoop(input: OpenLoop, options: AnalysisOptions = {}): LoopMargins {
   const loop = validateOpenLoop(input);
   checkAnalysisBounds(loop);
+  const full = (options.scope ?? 'full') === 'full';
   const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
   const discrete = loop.discreteController ?? null;
   const plant = discrete === null ? null : sampledPlant({ numerator, denominator, delay_s: loop.delay_s }, discrete.sampleTime_s);
   const sweep = sweepLoop({ numerator, denominator, delay_s: loop.delay_s, discreteController: discrete, sampledPlant: plant, crossings: 'gainAndPhase' });
-  const decision = discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep);
+  const decision = discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep, full);
   const { verdict } = decision;
   const stable = verdict === 'stable';
 
@@ -76,14 +98,16 @@ export function analyseOpenLoop(input: OpenLoop): LoopMargins {
   }
   const critical = criticalCrossings(sweep, numerator, loop);
   const gains = stable ? gainMargins(critical) : { lower: null, upper: null };
-  const delay = stable
-    ? confirmedDelayMargin({
+  const delay = !stable
+    ? { delayMargin_s: null, frequency_radps: null, note: null }
+    : !full
+      ? delayMarginEstimate(crossovers)
+      : confirmedDelayMargin({
         crossovers: crossovers.map((c) => ({ frequency_radps: c.frequency_radps, lag_rad: c.signed_rad > 0 ? c.signed_rad : c.signed_rad + 2 * Math.PI })),
         sampleTime_s: discrete === null ? null : discrete.sampleTime_s,
         fractionSensitive: discrete !== null && fractionSensitive(sweep, discrete.sampleTime_s, decision.details.sampledDataHighFrequencyPoleMagnitude ?? null),
-        stableWithAddedDelay: (added_s) => stableWithAddedDelay({ ...loop, numerator, denominator }, added_s, sweep, plant),
-      })
-    : { delayMargin_s: null, frequency_radps: null, note: null };
+          stableWithAddedDelay: (added_s) => stableWithAddedDelay({ ...loop, numerator, denominator }, added_s, sweep, plant),
+        });
   const peaks = sensitivityPeaks(sweep.compiled, sweep.grid, ANALYSIS_DEFAULTS.peakLogFrequencyTolerance);
 
   return {

@@ -116,11 +116,15 @@ export function continuousDecision(numerator: readonly number[], denominator: re
  * Verdict of the sampled loop (plant N/D·e^(−θs), zero-order hold, C(z)): its exact closed-loop poles
  * decide, the Nyquist count on its pulse frequency response cross-checks. The pole and count fields of
  * the details then speak of the sampled loop (no Padé: order 0; right-half-plane poles read as poles
- * outside the unit circle; origin poles include the controller's integrator at z = 1).
+ * outside the unit circle; origin poles include the controller's integrator at z = 1). `crossCheck` false
+ * leaves the count out (the poles decide either way).
  */
-export function sampledDecision(plant: SampledPlant, discrete: DiscreteControllerFactor, sweep: Sweep): Decision {
+export function sampledDecision(plant: SampledPlant, discrete: DiscreteControllerFactor, sweep: Sweep, crossCheck = true): Decision {
   const poles = sampledVerdictOf({ plant, controller: discrete, sampleTime_s: discrete.sampleTime_s, plantPoles: sweep });
-  const count = sampledNyquistCount(plant, discrete, sweep, { pulseNumerator: sweep.compiled.sampled?.pulse.numerator });
+  // Without the cross-check (analysis scope 'figures') the count is reported as not made.
+  const count = crossCheck
+    ? sampledNyquistCount(plant, discrete, sweep, { pulseNumerator: sweep.compiled.sampled?.pulse.numerator })
+    : { verdict: 'undetermined' as const, reason: 'not counted (analysis scope "figures")', closedLoopOutsidePoles: null, openLoopOutsidePoles: sweep.rightHalfPlanePoles, openLoopUnitPoles: sweep.originPoles };
   return {
     verdict: poles.verdict,
     details: {

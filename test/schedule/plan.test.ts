@@ -104,10 +104,10 @@ describe('plan file validation', () => {
 
 describe('defaults per loop kind', () => {
   it('a plan naming no rule takes the loop kind\'s default rule and search; a path loop without a preview takes 0.5 m + 0.3 s × speed', () => {
-    expect(resolvePlan({}).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'rule-parameters' });
-    expect(resolvePlan({ loop: { kind: 'heading' } }).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'fastest-passing' });
+    expect(resolvePlan({}).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'rule-parameters', searchOn: 'nominal' });
+    expect(resolvePlan({ loop: { kind: 'heading' } }).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'fastest-passing', searchOn: 'nominal' });
     const path = resolvePlan({ loop: { kind: 'path' } });
-    expect(path.rule).toEqual({ name: 'migo', parameters: {}, tuneFor: 'fastest-passing' });
+    expect(path.rule).toEqual({ name: 'migo', parameters: {}, tuneFor: 'fastest-passing', searchOn: 'nominal' });
     expect(path.loop).toEqual({ kind: 'path', preview_m: 0.5, previewTime_s: 0.3, referencePoint: 'front-axle' });
     // A rule named: as given, no search unless asked for.
     expect(resolvePlan({ loop: { kind: 'path' }, rule: { name: 'damping-target' } }).rule.tuneFor).toBe('rule-parameters');

@@ -67,8 +67,9 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const outcome = written ? writeSchedule(out, schedule, args.force === true) : null;
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force === true);
 
-  const baselineCheck = baseline === undefined ? undefined : (await import('../../build/baseline.js')).checkBaseline(baseline, result);
+  const baselineCheck = baseline === undefined ? undefined : await (await import('../../build/baseline.js')).checkBaseline(baseline, result);
   const baselineResult = baselineCheck?.check;
+  const baselineOverSet = baselineCheck?.overVariations?.record;
 
   // The report goes with the schedule: written when the schedule is.
   let report: { file: string; outcome: string; bytes: number; sections: readonly string[] } | null = null;
@@ -91,11 +92,21 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   }
 
   // Exit 1 has two causes; both outputs say which.
+  const robustFailed = schedule.check.passed && !passed;
   const exitReasons = [
-    ...(passed ? [] : [`the new schedule fails its dense check${written ? ' (written marked failed, --allow-failing)' : ' (nothing written)'}`]),
+    ...(passed
+      ? []
+      : [
+          `the new schedule fails ${robustFailed ? 'the worst case over the plan\'s variations (robust acceptance)' : 'its dense check'}${written ? ' (written marked failed, --allow-failing)' : ' (nothing written)'}`,
+        ]),
     ...(baselineResult === undefined || baselineResult.passed
       ? []
       : [`the OLD gains of the baseline ${String(args.baseline)} fail on the new vehicle model at ${baselineResult.failedCount} of ${baselineResult.points.length} speeds${passed ? ' (the new schedule passed and was written)' : ''}`]),
+    ...(baselineOverSet === undefined || baselineOverSet.acceptance === 'nominal' || baselineOverSet.passed || (baselineResult !== undefined && !baselineResult.passed)
+      ? []
+      : [
+          `the OLD gains of the baseline ${String(args.baseline)} pass on the new nominal model but fail in the worst case over the new vehicle's variations at ${baselineOverSet.failedSpeeds} of ${baselineOverSet.gridSize} speeds (robust acceptance)`,
+        ]),
   ];
   const exitCode = exitReasons.length === 0 ? EXIT.ok : EXIT.failed;
   if (args.json === true) {
@@ -110,6 +121,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           controller: schedule.controller,
           breakpoints: schedule.breakpoints,
           check: schedule.check,
+          variations: schedule.variations ?? null,
           extrapolations: result.extrapolations,
           derivations: result.tuned.map((point, k) => ({
             speed_mps: schedule.breakpoints[k].speed_mps,
@@ -129,6 +141,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
                   gridSize: baselineResult.points.length,
                   worst: baselineResult.worst,
                   failures: failingSpeeds(baselineResult.points),
+                  overVariations: baselineOverSet ?? null,
                   atNewBreakpoints: baselineCheck?.rows ?? [],
                 },
           report: report === null ? null : { file: report.file, outcome: report.outcome, bytes: report.bytes, sections: report.sections },
@@ -145,17 +158,29 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     const warnings = [...new Set([...result.extrapolations.map(extrapolationWords), ...result.tuned.flatMap((point) => point.derivation.warnings)])];
     let text = formatSchedule(schedule);
     text += `\n  model: ${result.checkModel.description}\n`;
+    if (schedule.variations !== undefined) {
+      const { formatVariations } = await import('../../build/robust-report.js');
+      text += `\n${formatVariations(schedule.variations, schedule.breakpoints.map((row) => row.margins), schedule.check.thresholds)}`;
+    }
     if (warnings.length > 0) text += `  rule warnings:\n${warnings.map((warning) => `    - ${warning}`).join('\n')}\n`;
     if (baselineCheck !== undefined && baseline !== undefined) {
       const { formatBaseline } = await import('../../build/schedule-report.js');
       const verdict = baselineCheck.check.passed ? 'still within the limits at every speed' : 'NOT within the limits everywhere';
       text += `\n${formatBaseline(`Baseline ${String(args.baseline)}: its gains on the new vehicle model — ${verdict}`, baselineCheck, baseline, result.checkModel.kind)}`;
+      if (baselineOverSet !== undefined) {
+        const { formatVariations } = await import('../../build/robust-report.js');
+        const { breakpointMargins } = await import('../../schedule/schedule-file.js');
+        const title = `Baseline ${String(args.baseline)}: its gains in the worst case over the new vehicle's variations`;
+        text += `\n${formatVariations(baselineOverSet, baselineCheck.rows.map((row) => breakpointMargins(row.oldMargins)), baseline.check.thresholds, title)}`;
+      }
     }
     text += '\n';
     if (written) {
       text += `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out} (status ${schedule.status}, checksum ${schedule.checksum.value.slice(0, 16)}…)\n`;
     } else {
-      text += `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
+      text += robustFailed
+        ? `Nothing written: the schedule passes on the nominal model but not in the worst case over the plan's variations (see above). Retune for the weakest parameter, narrow the variations to what the vehicle really sees, set "variations": {"acceptance": "nominal"} to report the worst case without requiring it, or pass --allow-failing to write it marked failed for review.\n`
+        : `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
     }
     if (modelsOut !== undefined) text += `Wrote ${modelsOut}\n`;
     if (report !== null) text += (await import('./report.js')).reportWords(report.file, report.outcome, report.bytes, report.sections);
@@ -178,11 +203,15 @@ export const command: CommandModule = {
       .option('plan', {
         type: 'string',
         describe:
-          'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2',
+          'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2. A "variations" section (load, tyres, actuator, latency, the identification\'s intervals) adds the worst case over that set at every check speed, required to pass unless it says "acceptance": "nominal", and a fastest-passing search then aims at it (rule.searchOn; docs/plan.md)',
       })
       .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
       .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
-      .option('baseline', { type: 'string', describe: 'A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?)' })
+      .option('baseline', {
+        type: 'string',
+        describe:
+          "A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?) — and, when the plan gives variations, over the new vehicle's whole set",
+      })
       .option('report', { type: 'string', describe: 'Also write the HTML report of the schedule (see speedband report --help): fits over the steps, gains and margins against speed, Bode and Nyquist plots, with --baseline the old gains on the new vehicle. Written with the schedule' })
       .option('response-speed-mps', { type: 'array', string: true, describe: 'With --report: speeds of the Bode and Nyquist plots, m/s (default: the lowest and highest breakpoint and the speed of the smallest phase margin)' })
       .option('allow-other-vehicle', {
@@ -195,13 +224,17 @@ export const command: CommandModule = {
       .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON (breakpoints, margins, derivations, check, baseline)' }),
   exitCodes: [
     [0, 'the schedule passed its dense check and was written (with --baseline: and the old gains still pass on the new vehicle model)'],
-    [1, 'the schedule failed its dense check (written only with --allow-failing, marked failed), or with --baseline the OLD gains fail on the new vehicle model (the new schedule, when it passed, was written) — the output says which'],
+    [
+      1,
+      "the schedule failed its dense check or, under the plan's robust acceptance, the worst case over its variations (written only with --allow-failing, marked failed); or with --baseline the OLD gains fail on the new vehicle model or over its variations (the new schedule, when it passed, was written) — the output says which",
+    ],
     [2, 'bad input: logs, vehicle, plan, models, baseline or options (nothing written)'],
   ],
   examples: [
     ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json', 'Default plan (yaw-rate loop, SIMC) on the bundled demo van and its logs'],
     ['speedband build --vehicle van.json --logs logs/*.csv --plan path-plan.json --out schedule.json', 'The loop, rule and limits from a plan file'],
     ['speedband build --vehicle van.json --logs new-logs/*.csv --baseline old-schedule.json --out new-schedule.json', 'After a vehicle change: new schedule, and are the old gains still safe?'],
+    ['speedband build --vehicle van.json --logs logs/*.csv --plan robust-plan.json --out schedule.json', 'With "variations" in the plan: nominal and worst case side by side, the weakest parameter named'],
     ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json --report report.html', 'The schedule and its HTML report for sign-off'],
   ],
   run,

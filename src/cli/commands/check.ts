@@ -3,12 +3,15 @@ import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { checkModelFromArgs } from '../check-model-args.js';
 import { withLogColumnOptions } from '../log-columns.js';
+import type { ScheduleFile } from '../../schedule/schedule-types.js';
+import type { ScheduleVariations } from '../../schedule/schedule-variations.js';
+import type { DenseCheckResult } from '../../schedule/types.js';
 
 /**
  * `speedband check`: re-verify a schedule independently of how it was made — schema and
  * checksum (a hand edit is caught), then the dense check of its own gains, lookup, loop and
  * controller on a vehicle model: identified afresh from logs, read from models.json, or the
- * model the schedule records.
+ * model the schedule records — and, when it records variations, their worst case on that model.
  */
 /** Most check speeds (bounded work: a fraction of a millisecond each, 20,000 speeds in seconds); the same bound as a plan's check.gridSpeeds. */
 const MAX_GRID_SPEEDS = 100_000;
@@ -25,6 +28,13 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(args['grid-speeds'])} — give a whole number of speeds from 2 to ${MAX_GRID_SPEEDS}`);
   }
   const result = await recheckScheduleOnAllCores({ schedule, model, ...(gridSpeeds === undefined ? {} : { gridSpeeds }) });
+  // The worst case over the variations the schedule records, on its own grid (it costs ~100 analyses a speed).
+  const robust =
+    schedule.variations === undefined || args['nominal-only'] === true
+      ? null
+      : await (await import('../../build/robust-recheck.js')).recheckOverVariations({ schedule, model, onProgress: (event) => event.done === event.total && io.progress(`worst case over the variations: ${event.total} speeds\n`) });
+  const { acceptancePassed } = await import('../../schedule/schedule-variations.js');
+  const passed = acceptancePassed(result.passed, robust?.record);
 
   if (args.json === true) {
     io.stdout(
@@ -38,6 +48,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           failedSpeeds: result.failedCount,
           worst: result.worst,
           failures: (await import('../../schedule/dense-check.js')).failingSpeeds(result.points),
+          overallPassed: passed,
+          variations: robust?.record ?? null,
           notes,
         },
         null,
@@ -48,10 +60,22 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     io.stdout(
       `${schedulePath}: schema valid, checksum ${schedule.checksum.value.slice(0, 16)}… verified\n` +
         notes.map((note) => `${note}\n`).join('') +
-        formatRecheck(`model: ${model.description}`, result, schedule, model.kind),
+        formatRecheck(`model: ${model.description}`, result, schedule, model.kind) +
+        (robust === null
+          ? schedule.variations === undefined
+            ? ''
+            : '\nWorst case over the variations: not checked (--nominal-only)\n'
+          : `\n${await robustText(robust.record, result, schedule)}`) +
+        (schedule.variations === undefined ? '' : `\n${passed ? 'PASSED' : 'FAILED'} (${robust === null ? 'nominal check only' : `${schedule.variations.acceptance} acceptance`})\n`),
     );
   }
-  return result.passed ? EXIT.ok : EXIT.failed;
+  return passed ? EXIT.ok : EXIT.failed;
+}
+
+/** The worst-case report beside this check's nominal margins at the breakpoints. */
+async function robustText(record: ScheduleVariations, result: DenseCheckResult, schedule: ScheduleFile): Promise<string> {
+  const { formatVariations, nominalAtBreakpoints } = await import('../../build/robust-report.js');
+  return formatVariations(record, nominalAtBreakpoints(result, schedule.breakpoints.map((row) => row.speed_mps)), schedule.check.thresholds);
 }
 
 export const command: CommandModule = {
@@ -63,11 +87,12 @@ export const command: CommandModule = {
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
       .option('models', { type: 'string', describe: 'Check on this identification (models.json)' })
       .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
-      .option('grid-speeds', { type: 'number', describe: 'Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule\'s own' })
+      .option('grid-speeds', { type: 'number', describe: 'Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule\'s own. The worst case over the variations always runs on the schedule\'s own grid' })
+      .option('nominal-only', { type: 'boolean', default: false, describe: 'Skip the worst case over the variations the schedule records (it takes about a hundred loop analyses per speed); the exit code then speaks of the nominal check only' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' }),
   exitCodes: [
-    [0, 'the schedule\'s gains pass the dense check at every speed'],
-    [1, 'they fail at one or more speeds (listed)'],
+    [0, 'the schedule\'s gains pass the dense check at every speed (and, when it records variations under robust acceptance, their worst case too)'],
+    [1, 'they fail at one or more speeds (listed), on the nominal model or in the worst case over the variations'],
     [2, 'bad input: unreadable, invalid or edited schedule (checksum), vehicle, models or logs'],
   ],
   examples: [

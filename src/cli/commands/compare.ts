@@ -35,6 +35,11 @@ export const command: CommandModule = {
         type: 'number',
         describe: `Breakpoints of the two schedules closer than this are the same speed (builds place breakpoints at measured test speeds), m/s (default ${HELP_DEFAULTS.speedTolerance_mps})`,
       })
+      .option('nominal-only', {
+        type: 'boolean',
+        default: false,
+        describe: "Skip the worst case of the old and new gains over the variations the new schedule records (about a hundred loop analyses per compared speed)",
+      })
       .option('json', { type: 'boolean', default: false, describe: 'Print the comparison as JSON (every compared speed, margin, model parameter and flag) for machines' })
       .option('markdown', { type: 'boolean', default: false, describe: 'Print a Markdown report for a change review: whether the old gains hold on the new vehicle, summary, table of gains and margins, model drift, flag list' }),
   epilogue:
@@ -43,7 +48,8 @@ export const command: CommandModule = {
     'Speeds compared: the breakpoints of both schedules within their common range; where a speed is a breakpoint of only one, ' +
     "the other schedule's gains come from its own lookup and its margins are interpolated linearly between its breakpoints. " +
     'A changed loop kind, preview, controller form, sample time or discretisation makes the gains not comparable one by one (said, and flagged). ' +
-    'Model drift (cornering stiffnesses, actuator lag and delay, understeer gradient) needs both schedules built from a joint single-track fit.',
+    'Model drift (cornering stiffnesses, actuator lag and delay, understeer gradient) needs both schedules built from a joint single-track fit. ' +
+    "When the new schedule records variations (its plan's \"variations\"), the old and the new gains are also searched for their worst case over that set on the new schedule's model at each compared speed; under its robust acceptance the old gains are flagged where they break their limits.",
   exitCodes: [
     [0, 'nothing flagged'],
     [1, 'something moved past a threshold, or the old gains fail on the new vehicle model (flagged): use it to stop a CI pipeline'],
@@ -69,13 +75,19 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   };
   const given = Object.fromEntries(Object.entries(thresholds).filter(([, value]) => value !== undefined));
   const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { compareSchedules, comparisonText, comparisonMarkdown, resolveThresholds } = await import('../../compare/index.js');
+  const { compareSchedules, comparisonText, comparisonMarkdown, resolveThresholds, withVariations } = await import('../../compare/index.js');
   const { oldGainsOnNewVehicle } = await import('../../build/baseline.js');
   const oldName = String(args.old);
   const newName = String(args.new);
   resolveThresholds(given); // a bad threshold is bad input before the dense check runs
-  const [old, next] = [readSchedule(oldName), readSchedule(newName)];
-  const comparison = compareSchedules(old, next, given, oldGainsOnNewVehicle(old, next).summary);
+  const oldSchedule = readSchedule(oldName);
+  const newSchedule = readSchedule(newName);
+  const nominal = compareSchedules(oldSchedule, newSchedule, given, oldGainsOnNewVehicle(oldSchedule, newSchedule).summary);
+  // The old gains over the new vehicle's variations (when the new schedule records them): the robust check's machinery.
+  const comparison =
+    newSchedule.variations === undefined || args['nominal-only'] === true
+      ? nominal
+      : withVariations(nominal, (await import('../../build/variations-comparison.js')).compareOverVariations(oldSchedule, newSchedule, nominal.speeds));
   if (args.json === true) io.stdout(`${JSON.stringify({ files: { old: oldName, new: newName }, ...comparison }, null, 2)}\n`);
   else if (args.markdown === true) io.stdout(comparisonMarkdown(comparison, oldName, newName));
   else io.stdout(comparisonText(comparison, oldName, newName));

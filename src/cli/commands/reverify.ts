@@ -35,7 +35,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const { formatRecheck, formatCautions } = await import('../../build/schedule-report.js');
   const edited = parseScheduleUnverified(parseJsonText(readTextFile(schedulePath), schedulePath), schedulePath);
   const { model, notes, recorded } = await checkModelFromArgs(args, edited, schedulePath, io);
-  const result = reverifySchedule(edited, model, { modelRecorded: recorded });
+  const variations = edited.variations === undefined ? null : await (await import('../../build/robust-recheck.js')).recheckOverVariations({ schedule: edited, model });
+  const result = reverifySchedule(edited, model, { modelRecorded: recorded, variations });
   const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, args.force === true);
 
   if (args.json === true) {
@@ -46,6 +47,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           outcome,
           changes: result.changes,
           passed: result.passed,
+          nominalPassed: result.check.passed,
+          variations: result.variations?.record ?? null,
           timeDomainFailures: result.timeDomainFailures,
           model: { kind: model.kind, description: model.description },
           gridSize: result.check.points.length,
@@ -64,10 +67,16 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       result.changes.length === 0 ? 'no change against the checksum it carries' : `changed by hand since it was written: ${result.changes.join('; ')}`;
     let text = `${schedulePath}: schema valid; ${changed}\n${notes.map((note) => `${note}\n`).join('')}`;
     text += formatRecheck(`model: ${model.description}`, result.check, edited, model.kind);
+    if (result.variations !== null) {
+      const { formatVariations, nominalAtBreakpoints } = await import('../../build/robust-report.js');
+      const speeds = edited.breakpoints.map((row) => row.speed_mps);
+      text += `\n${formatVariations(result.variations.record, nominalAtBreakpoints(result.check, speeds), edited.check.thresholds)}\n`;
+    }
     for (const failure of result.timeDomainFailures) text += `  time domain at ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}\n`;
+    const failedWhat = !result.check.passed ? 'its dense check' : result.timeDomainFailures.length > 0 ? 'its time-domain limits' : 'the worst case over its variations (robust acceptance)';
     text +=
       result.schedule === null
-        ? 'Nothing written: the edited schedule fails its dense check or its time-domain limits (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n'
+        ? `Nothing written: the edited schedule fails ${failedWhat} (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n`
         : `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}: re-verified, margins and status from this check, provenance records the hand edit, ` +
           `checksum ${result.schedule.checksum.value.slice(0, 16)}…\n`;
     text += formatCautions();
