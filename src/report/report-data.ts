@@ -14,6 +14,8 @@ import { SpeedbandError } from '../core/errors.js';
 import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
+import type { ScheduleVariations } from '../schedule/schedule-variations.js';
+import { weakestWords } from '../build/robust-report.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import { VERSION } from '../version.js';
 import { loopResponseAt, responseSpeeds } from './frequency-responses.js';
@@ -121,6 +123,16 @@ function baselineData(
   };
 }
 
+/** The worst case over the variations in words: its acceptance and verdict, and the weakest parameter. */
+function variationsWords(variations: ScheduleVariations): NonNullable<ReportData['variations']> {
+  const acceptance =
+    variations.acceptance === 'robust' ? 'the schedule must pass it (robust acceptance)' : 'reported beside the nominal check (nominal acceptance)';
+  const verdict = variations.passed
+    ? `The worst case over the plan's variations keeps the limits at every one of the ${variations.gridSize} check speeds and the time-domain limits at every breakpoint; ${acceptance}.`
+    : `The worst case over the plan's variations breaks a limit at ${variations.failedSpeeds} of ${variations.gridSize} check speeds${variations.unstableSpeeds > 0 ? ` (an unstable loop in the set at ${variations.unstableSpeeds})` : ''}; ${acceptance}.`;
+  return { verdict, weakest: variations.weakest === null ? null : `Weakest parameter: ${weakestWords(variations.weakest)}.` };
+}
+
 /** Everything the report draws, each part only when its inputs are given (the dense check re-run point by point on the model the schedule records, the closed-loop responses, with models.json the fits, with a baseline the old gains on the new vehicle). Throws `report.modelsMismatch`, `report.logsWithoutModels`, `report.logNotInModels`, `report.speedOutOfRange`. */
 export function gatherReportData(input: ReportInput): ReportData {
   const { schedule } = input;
@@ -170,5 +182,6 @@ export function gatherReportData(input: ReportInput): ReportData {
           }),
     baseline: input.baseline === undefined ? null : baselineData(input.baseline, schedule, testSpeeds, model),
     closedLoop: model === null ? null : closedLoopTraces(schedule, model, dense),
+    variations: schedule.variations === undefined ? null : variationsWords(schedule.variations),
   };
 }

@@ -197,6 +197,8 @@ export interface ReportData {
   readonly prediction: ModelPrediction | null;
   readonly stepTraces: readonly StepTracesAtSpeed[] | null;
   readonly baseline: ReportBaseline | null;
+  /** The schedule's worst case over its variations, in words (null: the plan gave none); its figures are drawn from schedule.variations. */
+  readonly variations: { readonly verdict: string; readonly weakest: string | null } | null;
   /** The closed-loop responses behind the time-domain figures at a few breakpoints (null: no model to rebuild, or no figures). */
   readonly closedLoop: ClosedLoopTraces | null;
 }

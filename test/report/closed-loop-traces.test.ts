@@ -14,6 +14,7 @@ import { thinnedSignal, TRACE_STRETCHES } from '../../src/report/closed-loop-tra
 import { reportSectionTitles } from '../../src/report/render/index.js';
 import { gatherReportData } from '../../src/report/report-data.js';
 import type { ReportData, TraceSignal } from '../../src/report/types.js';
+import { escapeHtml } from '../../src/report/render/html.js';
 import { renderReportHtml } from '../../src/report/write-report.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
@@ -88,6 +89,30 @@ describe('closed-loop responses in the report', () => {
       expect(JSON.parse(JSON.stringify(again.baseline!.timeDomain))).toEqual(data.schedule.breakpoints.map((breakpoint) => breakpoint.timeDomain));
     }
   });
+
+  it("with the plan's variations, the worst case over them is said in words and drawn beside the nominal figures: the values drawn are those schedule.variations records", async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'speedband-variations-report-'));
+    const models = join(dir, 'models.json');
+    writeFileSync(models, JSON.stringify(yawRate.models!.content));
+    // The README's example of a variations section.
+    writeFileSync(
+      join(dir, 'plan.json'),
+      JSON.stringify({ variations: { mass_pct: [-5, 30], cgRearwardShift_m: [0, 0.2], rearCorneringStiffness_pct: 12, addedLatency_s: 0.01 } }),
+    );
+    const file = join(dir, 'robust.json');
+    const io = recordingIo();
+    await runCli(['build', '--vehicle', VAN, '--models', models, '--plan', join(dir, 'plan.json'), '--out', file, '--allow-failing'], io);
+    const schedule = readSchedule(file);
+    const variations = schedule.variations!;
+    const data = gatherReportData({ schedule, scheduleFile: file });
+    expect(data.variations!.verdict).toMatch(/^The worst case over the plan's variations (keeps the limits|breaks a limit at \d+ of 209 check speeds)/);
+    const { html } = await renderReportHtml(data);
+    expect(html).toContain(escapeHtml(data.variations!.weakest ?? 'no weakest parameter'));
+    const drawn = [...html.matchAll(/data-field="worst\.overshoot_pct"[^>]*><data value="([^"]+)">/g)].map((match) => Number(match[1]));
+    expect(drawn).toEqual(variations.breakpoints.map((breakpoint) => breakpoint.timeDomain!.worst.overshoot_pct!.value));
+    // Never better than nominal (the set holds the nominal vehicle).
+    schedule.breakpoints.forEach((breakpoint, k) => expect(drawn[k]).toBeGreaterThanOrEqual(breakpoint.timeDomain!.referenceStep.overshoot_pct - 1e-9));
+  }, 120_000);
 
   it("thinning keeps each stretch's smallest and largest sample, in time order, and the last sample", () => {
     const ts = 0.001;

@@ -127,6 +127,18 @@ function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
         size: 4,
       });
   }
+  const variations = schedule.variations;
+  if (variations !== undefined) {
+    marks.push({
+      kind: 'points',
+      label: 'worst case over the variations, at the breakpoints',
+      x: variations.breakpoints.map((b) => b.speed_mps),
+      y: variations.breakpoints.map((b) => (b.instability === null ? (b.worst[figure.field]?.value ?? null) : null)),
+      style: { colour: 'skyBlue' },
+      shape: 'diamond',
+      size: 4.5,
+    });
+  }
   marks.push({
     kind: 'points',
     label: 'breakpoints (proven margins)',
@@ -196,7 +208,11 @@ export function renderMarginsSection(data: ReportData, context: RenderContext): 
       ? `<p class="notice">${escapeHtml(data.checkUnavailable ?? 'The dense check is not available.')} Only the margins proven at the breakpoints are drawn.</p>`
       : `<p>Margins of the sampled loop (discrete PID, zero-order hold, the computation latency) at every speed of the dense check; the shaded side of each limit fails. A margin missing at a speed means there is no such crossing there (or the loop is not stable).</p>`;
   const missing = absent.length === 0 ? '' : `<p>Not drawn: ${absent.map(escapeHtml).join(', ')} — no speed has one (no crossing of that kind).</p>`;
-  return `${intro}${verdictNotice(data)}<div class="grid">${figures.join('\n')}</div>${missing}`;
+  const variations =
+    data.variations === null
+      ? ''
+      : `<p class="notice">${escapeHtml(data.variations.verdict)}${data.variations.weakest === null ? '' : ` ${escapeHtml(data.variations.weakest)}`} Its worst figures at the breakpoints are drawn as diamonds.</p>`;
+  return `${intro}${verdictNotice(data)}${variations}<div class="grid">${figures.join('\n')}</div>${missing}`;
 }
 
 /** Where the closed loop is not stable — 'marginal' (a pole on the unit circle within its rounding bound) or unstable — as runs of check speeds, in words. */

@@ -6,6 +6,7 @@
  * steering angle and rate against the vehicle's limits.
  */
 import type { ScheduleFile } from '../../schedule/schedule-types.js';
+import type { RobustTimeDomainFigure } from '../../schedule/variation-types.js';
 import type { ReportData } from '../types.js';
 import { LOOKS, tracesFigure, type Look } from './closed-loop-figure.js';
 import { renderFigure, type RenderContext } from './figure.js';
@@ -77,6 +78,9 @@ interface FigureAgainstSpeed {
     readonly values: readonly (number | null)[];
     /** The old gains on the new vehicle at the same breakpoints (with a baseline). */
     readonly old: readonly (number | null)[] | null;
+    /** The worst value over the plan's variations at the breakpoints (when the schedule records them), and its name there. */
+    readonly worst: readonly (number | null)[] | null;
+    readonly robust: RobustTimeDomainFigure;
   }[];
 }
 
@@ -87,7 +91,13 @@ function figuresAgainstSpeed(schedule: ScheduleFile, old: readonly (Figures | nu
   const { limits } = schedule.check.timeDomain;
   const ofList = (list: readonly (Figures | null)[], pick: (t: Figures) => number | null | undefined): (number | null)[] =>
     list.map((figures) => (figures === null ? null : (pick(figures) ?? null)));
-  const series = (label: string, look: Look, pick: (t: Figures) => number | null | undefined): FigureAgainstSpeed['series'][number] => ({
+  const variations = schedule.variations;
+  const series = (
+    label: string,
+    look: Look,
+    pick: (t: Figures) => number | null | undefined,
+    robust: RobustTimeDomainFigure,
+  ): FigureAgainstSpeed['series'][number] => ({
     label,
     look,
     values: ofList(
@@ -95,10 +105,13 @@ function figuresAgainstSpeed(schedule: ScheduleFile, old: readonly (Figures | nu
       pick,
     ),
     old: old === null ? null : ofList(old, pick),
+    worst: variations === undefined ? null : variations.breakpoints.map((b) => b.timeDomain?.worst[robust]?.value ?? null),
+    robust,
   });
   const present = (entry: FigureAgainstSpeed['series'][number]): boolean => entry.values.some((value) => value !== null);
-  const overshoot = [series('reference step (with the set-point weights)', LOOKS.referenceStep, (t) => t.referenceStep.overshoot_pct)];
-  if (schedule.loop.kind === 'heading') overshoot.push(series('step through the steering limits', LOOKS.limitedStep, (t) => t.limitedStep?.overshoot_pct));
+  const overshoot = [series('reference step (with the set-point weights)', LOOKS.referenceStep, (t) => t.referenceStep.overshoot_pct, 'overshoot_pct')];
+  if (schedule.loop.kind === 'heading')
+    overshoot.push(series('step through the steering limits', LOOKS.limitedStep, (t) => t.limitedStep?.overshoot_pct, 'limitedStepOvershoot_pct'));
   const figures: FigureAgainstSpeed[] = [
     { name: 'overshoot', unit: '%', limit: limits.maximumOvershoot_pct, series: overshoot.filter(present) },
     {
@@ -106,21 +119,21 @@ function figuresAgainstSpeed(schedule: ScheduleFile, old: readonly (Figures | nu
       unit: 's',
       limit: limits.maximumRecoveryTime_s,
       series: [
-        series('steering misalignment', LOOKS.steeringMisalignment, (t) => t.steeringMisalignment.recoveryTime_s),
-        series('lateral force step', LOOKS.lateralForce, (t) => t.lateralForce?.recoveryTime_s),
+        series('steering misalignment', LOOKS.steeringMisalignment, (t) => t.steeringMisalignment.recoveryTime_s, 'misalignmentRecoveryTime_s'),
+        series('lateral force step', LOOKS.lateralForce, (t) => t.lateralForce?.recoveryTime_s, 'lateralForceRecoveryTime_s'),
       ].filter(present),
     },
     {
       name: 'lane-change error',
       unit: 'm',
       limit: limits.maximumLaneChangeError_m,
-      series: [series('largest error while changing lane', LOOKS.laneChange, (t) => t.laneChange?.peakError_m)].filter(present),
+      series: [series('largest error while changing lane', LOOKS.laneChange, (t) => t.laneChange?.peakError_m, 'laneChangeError_m')].filter(present),
     },
     {
       name: 'curve-entry error',
       unit: 'm',
       limit: limits.maximumCurveEntryError_m,
-      series: [series('largest error from 3 s after entry on', LOOKS.curveEntry, (t) => t.curveEntry?.errorAfterSettle_m)].filter(present),
+      series: [series('largest error from 3 s after entry on', LOOKS.curveEntry, (t) => t.curveEntry?.errorAfterSettle_m, 'curveEntryError_m')].filter(present),
     },
   ];
   return figures.filter((figure) => figure.series.length > 0);
@@ -137,6 +150,18 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
     { kind: 'rule', label: 'limit', axis: 'y', at: figure.limit, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } },
   ];
   figure.series.forEach((series, k) => {
+    if (series.worst !== null && series.worst.some((value) => value !== null)) {
+      const speedsOfSet = schedule.variations?.breakpoints.map((b) => b.speed_mps) ?? speeds;
+      marks.push({
+        kind: 'points',
+        label: `${series.label}: worst case over the variations`,
+        x: speedsOfSet,
+        y: series.worst,
+        style: { colour: 'skyBlue' },
+        shape: k === 0 ? 'diamond' : 'square',
+        size: 4.5,
+      });
+    }
     if (series.old !== null && series.old.some((value) => value !== null)) {
       const label = `${series.label}: old gains on the new vehicle`;
       marks.push({
@@ -206,6 +231,7 @@ export function renderTimeDomainSection(data: ReportData, context: RenderContext
                 figure.series.flatMap((series) => [
                   `${figure.name}: ${series.label} ${figure.unit}`,
                   ...(series.old === null ? [] : [`old gains on the new vehicle ${figure.unit}`]),
+                  ...(series.worst === null ? [] : [`worst case over the variations ${figure.unit}`]),
                 ]),
               ),
             ],
@@ -215,6 +241,7 @@ export function renderTimeDomainSection(data: ReportData, context: RenderContext
                 figure.series.flatMap((series) => [
                   numberCell(series.values[k], figure.name),
                   ...(series.old === null ? [] : [numberCell(series.old[k], `old.${figure.name}`)]),
+                  ...(series.worst === null ? [] : [numberCell(series.worst[k], `worst.${series.robust}`)]),
                 ]),
               ),
             ]),
