@@ -10,6 +10,7 @@ import { command as build } from './build.js';
 import { command as check } from './check.js';
 import { command as demo } from './demo.js';
 import { command as reverify } from './reverify.js';
+import { command as simulate } from './simulate.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them (the pipeline's order).
@@ -17,4 +18,4 @@ import { command as reverify } from './reverify.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly CommandModule[] = [demo, inspect, identify, tune, stability, build, check, reverify, exportSchedule, compare, makeTestLogs];
+export const COMMANDS: readonly CommandModule[] = [demo, inspect, identify, tune, stability, build, check, simulate, reverify, exportSchedule, compare, makeTestLogs];

@@ -1,0 +1,74 @@
+/**
+ * Drive a schedule through the scenarios (src/performance/scenario-catalogue.ts) as the firmware runs it
+ * (src/schedule/schedule-lookup.ts scheduleFirmware) on the single-track model: the one the schedule was
+ * checked on, a fresh identification, or the vehicle file's nominal values.
+ */
+import { SpeedbandError } from '../core/errors.js';
+import { quoted } from '../core/quote.js';
+import { prepareScenario, RANGE_SCENARIOS, SCENARIO_NAMES, type ScenarioName } from '../performance/scenario-catalogue.js';
+import { runScenario, type ScenarioRun } from '../performance/scenario-run.js';
+import type { ScenarioController, ScenarioVehicle } from '../performance/scenario-simulation.js';
+import { scheduleFirmware } from '../schedule/schedule-lookup.js';
+import type { ScheduleFile } from '../schedule/schedule-types.js';
+import { singleTrackParametersFromVehicle } from '../vehicle/single-track.js';
+import type { SingleTrackParameters, Vehicle } from '../vehicle/types.js';
+import type { CheckModel } from './check-model.js';
+import { scheduleLoopAndController } from './recheck-schedule.js';
+
+export interface ScenarioRunAt extends ScenarioRun {
+  /** The speed the run starts at, m/s (a range scenario: the start of its speed change). */
+  readonly speed_mps: number;
+}
+
+/** The speeds the per-speed scenarios run at: low, middle and top of the range, with the breakpoints when asked. */
+export function scenarioSpeeds(schedule: Pick<ScheduleFile, 'check' | 'breakpoints'>, withBreakpoints: boolean): number[] {
+  const { minimum_mps: low, maximum_mps: top } = schedule.check.range;
+  const speeds = new Set([low, (low + top) / 2, top]);
+  if (withBreakpoints) for (const row of schedule.breakpoints) if (row.speed_mps >= low && row.speed_mps <= top) speeds.add(row.speed_mps);
+  return [...speeds].filter((speed) => speed > 0).sort((p, q) => p - q);
+}
+
+/** The single-track model to simulate: the check model's when it is one, else the vehicle file's nominal values. */
+export function scenarioParameters(model: CheckModel | null, vehicle: Vehicle): { parameters: SingleTrackParameters; description: string } {
+  if (model !== null && model.summary.kind === 'single-track') {
+    const at = model.modelAt(1);
+    if (at.kind === 'single-track') return { parameters: at.parameters, description: model.description };
+  }
+  return { parameters: singleTrackParametersFromVehicle(vehicle), description: `nominal single-track values of vehicle file ${quoted(vehicle.name)}` };
+}
+
+export interface SimulateScheduleInput {
+  readonly schedule: ScheduleFile;
+  readonly parameters: SingleTrackParameters;
+  readonly steeringLimits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number };
+  readonly scenarios: readonly ScenarioName[];
+  /** Speeds of the per-speed scenarios, m/s. */
+  readonly speeds: readonly number[];
+}
+
+/** The scenario controller a schedule describes. */
+export function scheduleScenarioController(schedule: ScheduleFile): ScenarioController {
+  const { loop } = scheduleLoopAndController(schedule);
+  return { loop, ...scheduleFirmware(schedule) };
+}
+
+/** Every applicable scenario at every speed (range scenarios once), in the order given. */
+export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] {
+  const { schedule } = input;
+  const controller = scheduleScenarioController(schedule);
+  const vehicle: ScenarioVehicle = { parameters: input.parameters, ...input.steeringLimits };
+  const context = { loop: schedule.loop.kind, parameters: input.parameters, maxSteerAngle_rad: input.steeringLimits.maxSteerAngle_rad, range: schedule.check.range };
+  const runs: ScenarioRunAt[] = [];
+  for (const name of input.scenarios) {
+    if (!SCENARIO_NAMES.includes(name)) {
+      throw new SpeedbandError('simulate.unknownScenario', `scenario ${quoted(name)} is not one speedband knows — give one of ${SCENARIO_NAMES.join(', ')}`);
+    }
+    const speeds = RANGE_SCENARIOS.includes(name) ? [schedule.check.range.minimum_mps] : input.speeds;
+    for (const speed of speeds) {
+      const prepared = prepareScenario(name, context, speed);
+      if (prepared === null) continue;
+      runs.push({ speed_mps: prepared.setup.speed.initial_mps, ...runScenario(vehicle, controller, prepared) });
+    }
+  }
+  return runs;
+}

@@ -1,0 +1,138 @@
+import { SpeedbandError } from '../../core/errors.js';
+import type { CommandModule } from '../command.js';
+import { EXIT, type CommandIo } from '../io.js';
+import { optionalInputs, withLogColumnOptions } from '../log-columns.js';
+import { SAFETY_EPILOGUE } from '../safety.js';
+
+/**
+ * `speedband simulate`: drive a schedule through the scenarios of a test day as the firmware runs it
+ * (src/build/simulate-schedule.ts) and print what each run shows; the traces go to --out as CSV.
+ */
+async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+  const schedulePath = String(args.schedule);
+  const out = args.out === undefined ? undefined : String(args.out);
+  const { checkOutputPaths } = await import('../../core/output-paths.js');
+  const { resolveVehiclePath, loadVehicle } = await import('../../vehicle/load.js');
+  const { SCENARIO_NAMES, SCENARIO_DESCRIPTIONS } = await import('../../performance/scenario-catalogue.js');
+  if (out !== undefined) {
+    const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
+    const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
+    checkOutputPaths(
+      [{ path: out, option: '--out' }],
+      [
+        { path: schedulePath, role: 'schedule' },
+        { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+        ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
+        ...optionalInputs(args, [
+          ['models', 'models file'],
+          ['log-profile', 'log profile'],
+        ]),
+      ],
+    );
+  }
+  const names = ((args.scenario as unknown[] | undefined) ?? []).map(String);
+  for (const name of names) {
+    if (!(SCENARIO_NAMES as readonly string[]).includes(name)) {
+      const { closestName } = await import('../../log/closest-name.js');
+      const near = closestName(name, SCENARIO_NAMES);
+      throw new SpeedbandError(
+        'cli.invalidOption',
+        `--scenario ${name} is not a scenario speedband knows${near === null ? '' : ` — did you mean ${near}?`} Give one or more of: ${SCENARIO_NAMES.join(', ')}`,
+      );
+    }
+  }
+  const speeds = ((args['speed-mps'] as unknown[] | undefined) ?? []).map(Number);
+  for (const speed of speeds) {
+    if (!(Number.isFinite(speed) && speed > 0)) throw new SpeedbandError('cli.invalidOption', `--speed-mps ${String(speed)} is not a forward speed — give speeds above 0 m/s`);
+  }
+  const { readSchedule } = await import('../../schedule/schedule-file.js');
+  const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../build/simulate-schedule.js');
+  const { checkModelFromArgs } = await import('../check-model-args.js');
+  const schedule = readSchedule(schedulePath);
+  const vehicle = loadVehicle(resolveVehiclePath(String(args.vehicle)));
+  const notes: string[] = [];
+  let model = null;
+  if (args.nominal !== true) {
+    const found = await checkModelFromArgs(args, schedule, schedulePath, io);
+    model = found.model;
+    notes.push(...found.notes.filter((note) => !note.startsWith('note: checking on the model recorded')));
+    if (model.summary.kind !== 'single-track') notes.push('note: the model is a set of per-speed yaw-rate models; the scenarios need the single-track model — simulating on the vehicle file\'s nominal values');
+  }
+  const { parameters, description } = scenarioParameters(model, vehicle);
+  const scenarios = names.length > 0 ? (names as (typeof SCENARIO_NAMES)[number][]) : SCENARIO_NAMES;
+  const runs = simulateSchedule({
+    schedule,
+    parameters,
+    steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
+    scenarios,
+    speeds: speeds.length > 0 ? speeds : scenarioSpeeds(schedule, false),
+  });
+  let outcome: string | null = null;
+  if (out !== undefined) {
+    const { tracesCsv } = await import('../../performance/traces-csv.js');
+    const { writeFileAtomic } = await import('../../core/files.js');
+    outcome = writeFileAtomic(out, tracesCsv(schedule.loop.kind, runs.map((r) => ({ scenario: r.scenario.name, startSpeed_mps: r.speed_mps, traces: r.traces }))), args.force === true);
+  }
+  const unconverged = runs.filter((r) => !r.converged);
+  if (args.json === true) {
+    io.stdout(
+      `${JSON.stringify(
+        {
+          schedule: schedulePath,
+          loop: schedule.loop.kind,
+          model: description,
+          traces: out ?? null,
+          runs: runs.map((r) => ({ scenario: r.scenario.name, speed_mps: r.speed_mps, integrator: { ...r.traces.integrator, converged: r.converged }, ...r.metrics })),
+          notes,
+        },
+        null,
+        2,
+      )}\n`,
+    );
+    return EXIT.ok;
+  }
+  const { scenarioTable } = await import('../../build/scenario-report.js');
+  let text = `${schedulePath}: ${schedule.loop.kind} loop, model: ${description}\n${notes.map((note) => `${note}\n`).join('')}`;
+  text += scenarioTable(schedule.loop.kind, runs).join('\n') + '\n';
+  for (const name of new Set(runs.map((r) => r.scenario.name))) text += `  ${name}: ${SCENARIO_DESCRIPTIONS[name]}\n`;
+  if (unconverged.length > 0) text += `note: halving the Runge–Kutta step still moved a metric by more than 0.1 % in ${unconverged.map((r) => r.scenario.name).join(', ')}\n`;
+  if (out !== undefined) text += `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out}: ${runs.length} runs, one row per controller sample\n`;
+  text += `${SAFETY_EPILOGUE}\n`;
+  io.stdout(text);
+  return EXIT.ok;
+}
+
+export const command: CommandModule = {
+  command: 'simulate <schedule>',
+  describe:
+    'Drive a schedule through the manoeuvres of a test day as the firmware runs it — lookup, 2-DOF PID with anti-windup and feed-forward, latency, the actuator\'s delay, lag, rate and angle limits, the single-track vehicle at the speed of the moment — and print what each run shows (errors, overshoot, settling, steering at its limits, lateral acceleration, sustained oscillation). Exit 0 done, 2 bad input',
+  builder: (yargs) =>
+    withLogColumnOptions(yargs)
+      .usage(
+        'speedband simulate SCHEDULE --vehicle V [--models M | --logs LOG… | --nominal] [--scenario NAME…] [--speed-mps V…] [--out traces.csv]\n\n' +
+          'Scenarios (default: all that apply to the loop):\n' +
+          '  small-step, large-step   reference steps in the linear range and through the steering limits\n' +
+          '  initial-offset           start beside the path (path loop) or off its heading (heading loop)\n' +
+          '  misalignment, side-force constant road-wheel misalignment; lateral force step at the centre of gravity\n' +
+          '  lane-change, curve-entry path manoeuvres with the feed-forward on\n' +
+          '  speed-ramp-in-curve, braking-in-curve   the speed changing through the whole range in a curve (once, not per speed)\n\n' +
+          'The model: the one the schedule records (default), --models/--logs (the joint single-track fit), or --nominal (the vehicle file\'s values).\n' +
+          'At constant speed each run is exact at the samples; a speed change is integrated by fourth-order Runge–Kutta, its step halved until no figure moves by 0.1 %.',
+      )
+      .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build' })
+      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: steering limits, and the nominal model for --nominal' })
+      .option('models', { type: 'string', describe: 'Simulate on this identification (models.json)' })
+      .option('logs', { type: 'array', string: true, describe: 'Simulate on a fresh identification from these step-test logs' })
+      .option('nominal', { type: 'boolean', default: false, describe: "Simulate on the vehicle file's nominal cornering stiffnesses and actuator" })
+      .option('scenario', { type: 'array', string: true, describe: 'Scenario names (see above); default all that apply' })
+      .option('speed-mps', { type: 'array', number: true, describe: 'Speeds for the per-speed scenarios, m/s; default: low, middle and top of the schedule\'s range' })
+      .option('out', { type: 'string', describe: 'Write the traces as CSV (time_s, speed_mps, reference/measurement/error in the loop\'s unit, command_rad, steerAngle_rad, …)' })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the metrics as JSON' }),
+  examples: [
+    ['speedband simulate schedule.json --vehicle vehicles/parcel-van --out traces.csv', 'Every scenario at low, middle and top speed, on the model the schedule records'],
+    ['speedband simulate schedule.json --vehicle van.json --scenario large-step --speed-mps 3 6', 'One scenario at two speeds'],
+    ['speedband simulate schedule.json --vehicle van-after-change.json --nominal --scenario braking-in-curve', 'The schedule on a changed vehicle, braking through the range'],
+  ],
+  run,
+};
