@@ -176,3 +176,54 @@ describe('the default heading plan on a 0.2 rad step through the steering limits
     expect(Math.abs(result.overshoot - row.timeDomain!.limitedStep!.overshoot_pct)).toBeLessThan(1);
   });
 });
+
+describe('simulate on every demo vehicle and default plan', () => {
+  it('runs every scenario at low, mid and top speed and through the range: finite figures, the step halving converged', async () => {
+    const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../src/build/simulate-schedule.js');
+    const { recordedCheckModel } = await import('../../src/build/recheck-schedule.js');
+    const { loadVehicle } = await import('../../src/vehicle/load.js');
+    const { SCENARIO_NAMES } = await import('../../src/performance/scenario-catalogue.js');
+    for (const vehicle of VEHICLES) {
+      const file = loadVehicle(join('vehicles', vehicle, 'vehicle.json'));
+      for (const name of Object.keys(PLANS)) {
+        const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
+        const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
+        const runs = simulateSchedule({ schedule, parameters, steeringLimits: file, scenarios: SCENARIO_NAMES, speeds: scenarioSpeeds(schedule, false) });
+        const names = new Set(runs.map((run) => run.scenario.name));
+        expect(names.size, `${vehicle} ${name}`).toBe(schedule.loop.kind === 'yaw-rate' ? SCENARIO_NAMES.length - 1 : SCENARIO_NAMES.length);
+        for (const run of runs) {
+          const label = `${vehicle} ${name} ${run.scenario.name} ${run.speed_mps}`;
+          expect(run.converged, label).toBe(true);
+          for (const value of [run.metrics.peakError, run.metrics.finalError, run.metrics.peakSteerAngle_rad, run.metrics.peakSteerRate_radps, run.metrics.peakLateralAcceleration_mps2]) {
+            expect(Number.isFinite(value), label).toBe(true);
+          }
+        }
+      }
+    }
+  }, 120_000);
+
+  it('gives the build\'s misalignment and lateral-force figures at the breakpoints (two independent simulations: state space relative to the path vs transfer functions by superposition)', async () => {
+    const { simulateSchedule, scenarioParameters } = await import('../../src/build/simulate-schedule.js');
+    const { recordedCheckModel } = await import('../../src/build/recheck-schedule.js');
+    const { loadVehicle } = await import('../../src/vehicle/load.js');
+    for (const vehicle of VEHICLES) {
+      const file = loadVehicle(join('vehicles', vehicle, 'vehicle.json'));
+      for (const name of ['heading (default)', 'path (default)']) {
+        const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
+        const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
+        const rows = lowMidTop(schedule);
+        const runs = simulateSchedule({ schedule, parameters, steeringLimits: file, scenarios: ['misalignment', 'side-force'], speeds: rows.map((row) => row.speed_mps) });
+        for (const run of runs) {
+          const row = rows.find((r) => r.speed_mps === run.speed_mps)!;
+          const figure = run.scenario.name === 'misalignment' ? row.timeDomain!.steeringMisalignment : row.timeDomain!.lateralForce!;
+          const label = `${vehicle} ${name} ${run.scenario.name} ${run.speed_mps}`;
+          expect(run.scenario.size, label).toBeCloseTo(figure.size, 9);
+          expect(Math.abs(run.metrics.peakError - figure.peakError), label).toBeLessThan(1e-6 * figure.peakError);
+          if (figure.recoveryTime_s !== null && figure.recoveryTime_s < 25) {
+            expect(Math.abs(run.metrics.settlingTime_s! - figure.recoveryTime_s), label).toBeLessThanOrEqual(schedule.controller.sampleTime_s + 1e-9);
+          }
+        }
+      }
+    }
+  }, 120_000);
+});
