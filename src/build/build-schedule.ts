@@ -6,6 +6,9 @@
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { fastestPassing, freeParameterOf, limitsWithRoom } from './fastest-passing.js';
+import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController } from './simulate-schedule.js';
+import { speedChangeCertificate } from './speed-change-certificate.js';
+import { SEARCH_SCENARIOS } from '../performance/breakpoint-scenarios.js';
 import { makeBreakpointEvaluator, type BreakpointEvaluation } from './breakpoint-evaluation.js';
 import type { BreakpointExtras } from '../schedule/schedule-file.js';
 import type { ScheduleSearchAt } from '../schedule/schedule-types.js';
@@ -17,7 +20,7 @@ import { identifyFromLogs } from '../identify/identify-from-logs.js';
 import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { planScenarioLimits, planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
 import type { RefineResult } from '../schedule/refine.js';
 import { assembleSchedule } from '../schedule/schedule-file.js';
 import { makeRuleParameterLookup } from '../schedule/rule-parameters.js';
@@ -141,7 +144,15 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   };
   const evaluate = makeBreakpointEvaluator(evaluatorInput);
   const roomy = limitsWithRoom(thresholds, plan.acceptance);
-  const evaluateWithRoom = makeBreakpointEvaluator({ ...evaluatorInput, ...roomy, skipFiguresWhenMarginsFail: true });
+  const scenarioLimits = planScenarioLimits(plan);
+  const scenarios = plan.check.scenarios && checkModel.kind === 'single-track';
+  // The search judges each candidate by the scenarios at its breakpoint too; the schedule's own scenario check follows below.
+  const evaluateWithRoom = makeBreakpointEvaluator({
+    ...evaluatorInput,
+    ...roomy,
+    skipFiguresWhenMarginsFail: true,
+    ...(scenarios ? { scenarios: { limits: scenarioLimits, range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps }, names: SEARCH_SCENARIOS } } : {}),
+  });
   type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
   const tuneCache = new Map<number, Tuned>();
   const tuneWith = (speed_mps: number, ruleParameters: RuleParameters, startGains?: PidGains): TunedOperatingPoint =>
@@ -201,7 +212,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
       .map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
     ...(input.planFile === undefined ? [] : [{ file: input.planFile, sha256: sha256Hex(readFileSync(input.planFile)), role: 'plan' }]),
   ];
-  const schedule = assembleSchedule({
+  const assembled = {
     vehicle: { name: vehicle.name, file: vehicleFile, sha256: inputs[0].sha256 },
     plan,
     table: refinement.table,
@@ -225,6 +236,20 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
         }),
     breakpointExtras,
     ...(searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints }),
-  });
+  };
+  let schedule = assembleSchedule(assembled);
+  if (scenarios) {
+    progress('scenarios: at each breakpoint, at low, middle and top speed, and through the range; the speed-change certificate\n');
+    const { parameters, description } = scenarioParameters(checkModel, vehicle);
+    const steeringLimits = { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps };
+    const scenarioCheck = judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits: scenarioLimits, model: description });
+    const speedChange = speedChangeCertificate({
+      vehicle: { parameters, ...steeringLimits },
+      controller: scheduleScenarioController(schedule),
+      context: { loop: plan.loop.kind, parameters, maxSteerAngle_rad: vehicle.maxSteerAngle_rad, range: schedule.check.range },
+      limits: scenarioLimits,
+    });
+    schedule = assembleSchedule({ ...assembled, scenarioCheck, speedChange });
+  }
   return { schedule, models, plan, checkModel, refinement, tuned, evaluations };
 }

@@ -1,6 +1,7 @@
 /** Scenario runs as a terminal table (simulate, build and check). */
 import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { LoopKind } from '../loops/types.js';
+import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
 import type { ScenarioRunAt } from './simulate-schedule.js';
 
 const UNIT: Readonly<Record<LoopKind, string>> = { heading: 'rad', 'yaw-rate': 'rad/s', path: 'm' };
@@ -41,4 +42,22 @@ export function scenarioTable(loop: LoopKind, runs: readonly ScenarioRunAt[]): s
     ];
   });
   return textTable([heading, ...rows], heading.map((_, i) => i > 0 && i < heading.length - 1)).map((line) => `  ${line}`);
+}
+
+/** The scenario check's verdict and the limits it broke (first 12). */
+export function formatScenarioCheck(check: ScheduleScenarioCheck): string {
+  const l = check.limits;
+  const lines = [
+    `  scenarios (${check.scenarios.length}) at ${check.speeds_mps.map((speed) => speed.toFixed(2)).join(', ')} m/s and through the range, on the ${check.model}: ` +
+      (check.passed ? 'PASSED' : `FAILED, ${check.failures.length} limit(s) broken`),
+    `  limits: no sustained oscillation; small step overshoot ≤ ${l.maximumOvershoot_pct} %, both steps settle; offset, misalignment and force removed within ${l.maximumRecoveryTime_s} s; ` +
+      `path lane change ≤ ${l.maximumLaneChangeError_m} m; error while the speed changes ≤ ${l.maximumSpeedChangeError} (loop unit)`,
+  ];
+  for (const failure of check.failures.slice(0, 12)) lines.push(`    ${failure.message}`);
+  if (check.failures.length > 12) lines.push(`    … and ${check.failures.length - 12} more (schedule.json check.scenarios.failures)`);
+  return `${lines.join('\n')}\n`;
+}
+
+export function formatSpeedChange(certificate: SpeedChangeCertificate): string {
+  return `  speed-change certificate: ${certificate.statement}\n`;
 }

@@ -7,9 +7,10 @@ import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
 import { prepareScenario, RANGE_SCENARIOS, SCENARIO_NAMES, type ScenarioName } from '../performance/scenario-catalogue.js';
 import { runScenario, type ScenarioRun } from '../performance/scenario-run.js';
+import { judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
 import type { ScenarioController, ScenarioVehicle } from '../performance/scenario-simulation.js';
 import { scheduleFirmware } from '../schedule/schedule-lookup.js';
-import type { ScheduleFile } from '../schedule/schedule-types.js';
+import type { ScheduleFile, ScheduleScenarioCheck } from '../schedule/schedule-types.js';
 import { singleTrackParametersFromVehicle } from '../vehicle/single-track.js';
 import type { SingleTrackParameters, Vehicle } from '../vehicle/types.js';
 import type { CheckModel } from './check-model.js';
@@ -71,4 +72,17 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
     }
   }
   return runs;
+}
+
+/**
+ * The scenario check of a schedule: every scenario at each breakpoint and at low, middle and top speed, the range
+ * scenarios once, judged against `limits` (src/performance/scenario-limits.ts); failures ordered by speed.
+ */
+export function judgeScheduleScenarios(input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: ScenarioLimits; readonly model: string }): ScheduleScenarioCheck {
+  const speeds = scenarioSpeeds(input.schedule, true);
+  const runs = simulateSchedule({ ...input, scenarios: SCENARIO_NAMES, speeds });
+  const failures = runs
+    .flatMap((run) => judgeScenarioRun(run.scenario.name, run.speed_mps, run.metrics, input.limits, input.schedule.loop.kind))
+    .sort((p, q) => p.speed_mps - q.speed_mps || SCENARIO_NAMES.indexOf(p.scenario) - SCENARIO_NAMES.indexOf(q.scenario));
+  return { passed: failures.length === 0, limits: input.limits, model: input.model, speeds_mps: speeds, scenarios: [...new Set(runs.map((run) => run.scenario.name))], failures };
 }

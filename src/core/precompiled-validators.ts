@@ -5306,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string"},"description":{"type":"string"},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw rate (rad/s), heading (rad) or path (lateral offset at a preview point, m). Default yaw-rate."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance ahead of the reference point at standstill, m. Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from. Default front-axle."}}},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The tuning rule. Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"]},"closedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}],"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4)."},"phaseMarginTarget_deg":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}],"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit)."}}}}},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0},"maximum_mps":{"type":"number","exclusiveMinimum":0},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0}}},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100},"spacing":{"enum":["geometric","linear"]}}}]},"interpolation":{"enum":["linear","monotone-cubic"]},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"]},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"computationLatency_s":{"type":"number","minimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}}},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0},"minimumUpperGainMargin_dB":{"type":"number","minimum":0},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180},"maximumSensitivityPeak":{"type":"number","minimum":1},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak of |T| = |L/(1 + L)| at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."}}},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100},"model":{"enum":["single-track","interpolated-lumped"]}}}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string"},"description":{"type":"string"},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw rate (rad/s), heading (rad) or path (lateral offset at a preview point, m). Default yaw-rate."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance ahead of the reference point at standstill, m. Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from. Default front-axle."}}},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The tuning rule. Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"]},"closedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}],"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4)."},"phaseMarginTarget_deg":{"oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}],"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit)."}}}}},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0},"maximum_mps":{"type":"number","exclusiveMinimum":0},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0}}},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100},"spacing":{"enum":["geometric","linear"]}}}]},"interpolation":{"enum":["linear","monotone-cubic"]},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"]},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"computationLatency_s":{"type":"number","minimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}}},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0},"minimumUpperGainMargin_dB":{"type":"number","minimum":0},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180},"maximumSensitivityPeak":{"type":"number","minimum":1},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak of |T| = |L/(1 + L)| at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."},"maximumSpeedChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3)."},"maximumSpeedChangeError_rad":{"type":"number","exclusiveMinimum":0,"description":"Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05)."},"maximumSpeedChangeError_radps":{"type":"number","exclusiveMinimum":0,"description":"Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05)."}}},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100},"model":{"enum":["single-track","interpolated-lumped"]},"scenarios":{"type":"boolean","description":"Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (default true; needs the single-track model)."}}}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -8253,9 +8253,11 @@ vErrors.push(err209);
 errors++;
 }
 }
-}
-else {
-const err210 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data69.maximumSpeedChangeError_m !== undefined){
+let data80 = data69.maximumSpeedChangeError_m;
+if((typeof data80 == "number") && (isFinite(data80))){
+if(data80 <= 0 || isNaN(data80)){
+const err210 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err210];
 }
@@ -8265,12 +8267,8 @@ vErrors.push(err210);
 errors++;
 }
 }
-if(data.check !== undefined){
-let data80 = data.check;
-if(data80 && typeof data80 == "object" && !Array.isArray(data80)){
-for(const key17 in data80){
-if(!(((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model"))){
-const err211 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+else {
+const err211 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err211];
 }
@@ -8280,10 +8278,11 @@ vErrors.push(err211);
 errors++;
 }
 }
-if(data80.gridSpeeds !== undefined){
-let data81 = data80.gridSpeeds;
-if(!(((typeof data81 == "number") && (!(data81 % 1) && !isNaN(data81))) && (isFinite(data81)))){
-const err212 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data69.maximumSpeedChangeError_rad !== undefined){
+let data81 = data69.maximumSpeedChangeError_rad;
+if((typeof data81 == "number") && (isFinite(data81))){
+if(data81 <= 0 || isNaN(data81)){
+const err212 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_rad",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err212];
 }
@@ -8292,9 +8291,9 @@ vErrors.push(err212);
 }
 errors++;
 }
-if((typeof data81 == "number") && (isFinite(data81))){
-if(data81 > 100000 || isNaN(data81)){
-const err213 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+}
+else {
+const err213 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_rad",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err213];
 }
@@ -8303,8 +8302,12 @@ vErrors.push(err213);
 }
 errors++;
 }
-if(data81 < 2 || isNaN(data81)){
-const err214 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+}
+if(data69.maximumSpeedChangeError_radps !== undefined){
+let data82 = data69.maximumSpeedChangeError_radps;
+if((typeof data82 == "number") && (isFinite(data82))){
+if(data82 <= 0 || isNaN(data82)){
+const err214 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_radps",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_radps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err214];
 }
@@ -8314,11 +8317,8 @@ vErrors.push(err214);
 errors++;
 }
 }
-}
-if(data80.maxInsertedBreakpoints !== undefined){
-let data82 = data80.maxInsertedBreakpoints;
-if(!(((typeof data82 == "number") && (!(data82 % 1) && !isNaN(data82))) && (isFinite(data82)))){
-const err215 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err215 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_radps",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err215];
 }
@@ -8327,9 +8327,10 @@ vErrors.push(err215);
 }
 errors++;
 }
-if((typeof data82 == "number") && (isFinite(data82))){
-if(data82 > 100 || isNaN(data82)){
-const err216 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+}
+}
+else {
+const err216 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err216];
 }
@@ -8338,8 +8339,13 @@ vErrors.push(err216);
 }
 errors++;
 }
-if(data82 < 0 || isNaN(data82)){
-const err217 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data.check !== undefined){
+let data83 = data.check;
+if(data83 && typeof data83 == "object" && !Array.isArray(data83)){
+for(const key17 in data83){
+if(!((((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model")) || (key17 === "scenarios"))){
+const err217 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err217];
 }
@@ -8349,11 +8355,10 @@ vErrors.push(err217);
 errors++;
 }
 }
-}
-if(data80.model !== undefined){
-let data83 = data80.model;
-if(!((data83 === "single-track") || (data83 === "interpolated-lumped"))){
-const err218 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data83.gridSpeeds !== undefined){
+let data84 = data83.gridSpeeds;
+if(!(((typeof data84 == "number") && (!(data84 % 1) && !isNaN(data84))) && (isFinite(data84)))){
+const err218 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err218];
 }
@@ -8362,10 +8367,9 @@ vErrors.push(err218);
 }
 errors++;
 }
-}
-}
-else {
-const err219 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data84 == "number") && (isFinite(data84))){
+if(data84 > 100000 || isNaN(data84)){
+const err219 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
 if(vErrors === null){
 vErrors = [err219];
 }
@@ -8374,10 +8378,8 @@ vErrors.push(err219);
 }
 errors++;
 }
-}
-}
-else {
-const err220 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data84 < 2 || isNaN(data84)){
+const err220 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
 if(vErrors === null){
 vErrors = [err220];
 }
@@ -8386,12 +8388,97 @@ vErrors.push(err220);
 }
 errors++;
 }
+}
+}
+if(data83.maxInsertedBreakpoints !== undefined){
+let data85 = data83.maxInsertedBreakpoints;
+if(!(((typeof data85 == "number") && (!(data85 % 1) && !isNaN(data85))) && (isFinite(data85)))){
+const err221 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err221];
+}
+else {
+vErrors.push(err221);
+}
+errors++;
+}
+if((typeof data85 == "number") && (isFinite(data85))){
+if(data85 > 100 || isNaN(data85)){
+const err222 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+if(vErrors === null){
+vErrors = [err222];
+}
+else {
+vErrors.push(err222);
+}
+errors++;
+}
+if(data85 < 0 || isNaN(data85)){
+const err223 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err223];
+}
+else {
+vErrors.push(err223);
+}
+errors++;
+}
+}
+}
+if(data83.model !== undefined){
+let data86 = data83.model;
+if(!((data86 === "single-track") || (data86 === "interpolated-lumped"))){
+const err224 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err224];
+}
+else {
+vErrors.push(err224);
+}
+errors++;
+}
+}
+if(data83.scenarios !== undefined){
+if(typeof data83.scenarios !== "boolean"){
+const err225 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(vErrors === null){
+vErrors = [err225];
+}
+else {
+vErrors.push(err225);
+}
+errors++;
+}
+}
+}
+else {
+const err226 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err226];
+}
+else {
+vErrors.push(err226);
+}
+errors++;
+}
+}
+}
+else {
+const err227 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err227];
+}
+else {
+vErrors.push(err227);
+}
+errors++;
+}
 validate4.errors = vErrors;
 return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"]},"lowerGainMargin_dB":{"type":["number","null"]},"upperGainMargin_dB":{"type":["number","null"]},"phaseMargin_deg":{"type":["number","null"]},"delayMargin_s":{"type":["number","null"]},"sensitivityPeak":{"type":["number","null"]},"complementarySensitivityPeak":{"type":["number","null"]}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}},"scenarios":{"type":"object","additionalProperties":false,"required":["passed","limits","model","speeds_mps","scenarios","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m","maximumSpeedChangeError"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"},"maximumSpeedChangeError":{"type":"number"}}},"model":{"type":"string"},"speeds_mps":{"type":"array","items":{"type":"number"}},"scenarios":{"type":"array","items":{"type":"string"}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","scenario","metric","message"],"properties":{"speed_mps":{"type":"number"},"scenario":{"type":"string"},"metric":{"type":"string"},"message":{"type":"string"}}}}}},"speedChange":{"type":"object","additionalProperties":false,"required":["maximumAcceleration_mps2","maximumDeceleration_mps2","searched_mps2","statement"],"properties":{"maximumAcceleration_mps2":{"type":["number","null"]},"maximumDeceleration_mps2":{"type":["number","null"]},"searched_mps2":{"type":"object","additionalProperties":false,"required":["lowest","highest"],"properties":{"lowest":{"type":"number"},"highest":{"type":"number"}}},"statement":{"type":"string"}}}}},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
 const pattern5 = new RegExp("^/", "u");
 
 function validate5(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
@@ -12547,9 +12634,11 @@ vErrors.push(err352);
 errors++;
 }
 }
-}
-else {
-const err353 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data91.scenarios !== undefined){
+let data152 = data91.scenarios;
+if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
+if(data152.passed === undefined){
+const err353 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err353];
 }
@@ -12558,12 +12647,8 @@ vErrors.push(err353);
 }
 errors++;
 }
-}
-if(data.provenance !== undefined){
-let data152 = data.provenance;
-if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
-if(data152.tool === undefined){
-const err354 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(data152.limits === undefined){
+const err354 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "limits"},message:"must have required property '"+"limits"+"'"};
 if(vErrors === null){
 vErrors = [err354];
 }
@@ -12572,8 +12657,8 @@ vErrors.push(err354);
 }
 errors++;
 }
-if(data152.toolVersion === undefined){
-const err355 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(data152.model === undefined){
+const err355 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err355];
 }
@@ -12582,8 +12667,8 @@ vErrors.push(err355);
 }
 errors++;
 }
-if(data152.inputs === undefined){
-const err356 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+if(data152.speeds_mps === undefined){
+const err356 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err356];
 }
@@ -12592,8 +12677,8 @@ vErrors.push(err356);
 }
 errors++;
 }
-if(data152.model === undefined){
-const err357 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(data152.scenarios === undefined){
+const err357 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "scenarios"},message:"must have required property '"+"scenarios"+"'"};
 if(vErrors === null){
 vErrors = [err357];
 }
@@ -12602,8 +12687,8 @@ vErrors.push(err357);
 }
 errors++;
 }
-if(data152.rule === undefined){
-const err358 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+if(data152.failures === undefined){
+const err358 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err358];
 }
@@ -12612,8 +12697,9 @@ vErrors.push(err358);
 }
 errors++;
 }
-if(data152.plan === undefined){
-const err359 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+for(const key33 in data152){
+if(!((((((key33 === "passed") || (key33 === "limits")) || (key33 === "model")) || (key33 === "speeds_mps")) || (key33 === "scenarios")) || (key33 === "failures"))){
+const err359 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err359];
 }
@@ -12622,9 +12708,10 @@ vErrors.push(err359);
 }
 errors++;
 }
-for(const key33 in data152){
-if(!(((((((key33 === "tool") || (key33 === "toolVersion")) || (key33 === "inputs")) || (key33 === "model")) || (key33 === "rule")) || (key33 === "plan")) || (key33 === "handEdits"))){
-const err360 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
+}
+if(data152.passed !== undefined){
+if(typeof data152.passed !== "boolean"){
+const err360 = {instancePath:instancePath+"/check/scenarios/passed",schemaPath:"#/properties/check/properties/scenarios/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err360];
 }
@@ -12634,9 +12721,11 @@ vErrors.push(err360);
 errors++;
 }
 }
-if(data152.tool !== undefined){
-if("speedband" !== data152.tool){
-const err361 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if(data152.limits !== undefined){
+let data154 = data152.limits;
+if(data154 && typeof data154 == "object" && !Array.isArray(data154)){
+if(data154.maximumOvershoot_pct === undefined){
+const err361 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumOvershoot_pct"},message:"must have required property '"+"maximumOvershoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err361];
 }
@@ -12645,10 +12734,8 @@ vErrors.push(err361);
 }
 errors++;
 }
-}
-if(data152.toolVersion !== undefined){
-if(typeof data152.toolVersion !== "string"){
-const err362 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data154.maximumRecoveryTime_s === undefined){
+const err362 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumRecoveryTime_s"},message:"must have required property '"+"maximumRecoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err362];
 }
@@ -12657,16 +12744,8 @@ vErrors.push(err362);
 }
 errors++;
 }
-}
-if(data152.inputs !== undefined){
-let data155 = data152.inputs;
-if(Array.isArray(data155)){
-const len7 = data155.length;
-for(let i7=0; i7<len7; i7++){
-let data156 = data155[i7];
-if(data156 && typeof data156 == "object" && !Array.isArray(data156)){
-if(data156.file === undefined){
-const err363 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+if(data154.maximumLaneChangeError_m === undefined){
+const err363 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumLaneChangeError_m"},message:"must have required property '"+"maximumLaneChangeError_m"+"'"};
 if(vErrors === null){
 vErrors = [err363];
 }
@@ -12675,8 +12754,8 @@ vErrors.push(err363);
 }
 errors++;
 }
-if(data156.sha256 === undefined){
-const err364 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+if(data154.maximumCurveEntryError_m === undefined){
+const err364 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumCurveEntryError_m"},message:"must have required property '"+"maximumCurveEntryError_m"+"'"};
 if(vErrors === null){
 vErrors = [err364];
 }
@@ -12685,8 +12764,8 @@ vErrors.push(err364);
 }
 errors++;
 }
-if(data156.role === undefined){
-const err365 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if(data154.maximumSpeedChangeError === undefined){
+const err365 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumSpeedChangeError"},message:"must have required property '"+"maximumSpeedChangeError"+"'"};
 if(vErrors === null){
 vErrors = [err365];
 }
@@ -12695,9 +12774,9 @@ vErrors.push(err365);
 }
 errors++;
 }
-for(const key34 in data156){
-if(!(((key34 === "file") || (key34 === "sha256")) || (key34 === "role"))){
-const err366 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
+for(const key34 in data154){
+if(!(((((key34 === "maximumOvershoot_pct") || (key34 === "maximumRecoveryTime_s")) || (key34 === "maximumLaneChangeError_m")) || (key34 === "maximumCurveEntryError_m")) || (key34 === "maximumSpeedChangeError"))){
+const err366 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err366];
 }
@@ -12707,9 +12786,10 @@ vErrors.push(err366);
 errors++;
 }
 }
-if(data156.file !== undefined){
-if(typeof data156.file !== "string"){
-const err367 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data154.maximumOvershoot_pct !== undefined){
+let data155 = data154.maximumOvershoot_pct;
+if(!((typeof data155 == "number") && (isFinite(data155)))){
+const err367 = {instancePath:instancePath+"/check/scenarios/limits/maximumOvershoot_pct",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err367];
 }
@@ -12719,11 +12799,10 @@ vErrors.push(err367);
 errors++;
 }
 }
-if(data156.sha256 !== undefined){
-let data158 = data156.sha256;
-if(typeof data158 === "string"){
-if(!pattern0.test(data158)){
-const err368 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data154.maximumRecoveryTime_s !== undefined){
+let data156 = data154.maximumRecoveryTime_s;
+if(!((typeof data156 == "number") && (isFinite(data156)))){
+const err368 = {instancePath:instancePath+"/check/scenarios/limits/maximumRecoveryTime_s",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err368];
 }
@@ -12733,8 +12812,10 @@ vErrors.push(err368);
 errors++;
 }
 }
-else {
-const err369 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data154.maximumLaneChangeError_m !== undefined){
+let data157 = data154.maximumLaneChangeError_m;
+if(!((typeof data157 == "number") && (isFinite(data157)))){
+const err369 = {instancePath:instancePath+"/check/scenarios/limits/maximumLaneChangeError_m",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err369];
 }
@@ -12744,9 +12825,10 @@ vErrors.push(err369);
 errors++;
 }
 }
-if(data156.role !== undefined){
-if(typeof data156.role !== "string"){
-const err370 = {instancePath:instancePath+"/provenance/inputs/" + i7+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data154.maximumCurveEntryError_m !== undefined){
+let data158 = data154.maximumCurveEntryError_m;
+if(!((typeof data158 == "number") && (isFinite(data158)))){
+const err370 = {instancePath:instancePath+"/check/scenarios/limits/maximumCurveEntryError_m",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err370];
 }
@@ -12756,9 +12838,10 @@ vErrors.push(err370);
 errors++;
 }
 }
-}
-else {
-const err371 = {instancePath:instancePath+"/provenance/inputs/" + i7,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data154.maximumSpeedChangeError !== undefined){
+let data159 = data154.maximumSpeedChangeError;
+if(!((typeof data159 == "number") && (isFinite(data159)))){
+const err371 = {instancePath:instancePath+"/check/scenarios/limits/maximumSpeedChangeError",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumSpeedChangeError/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err371];
 }
@@ -12770,7 +12853,7 @@ errors++;
 }
 }
 else {
-const err372 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err372 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err372];
 }
@@ -12781,9 +12864,8 @@ errors++;
 }
 }
 if(data152.model !== undefined){
-let data160 = data152.model;
-if(!(data160 && typeof data160 == "object" && !Array.isArray(data160))){
-const err373 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(typeof data152.model !== "string"){
+const err373 = {instancePath:instancePath+"/check/scenarios/model",schemaPath:"#/properties/check/properties/scenarios/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err373];
 }
@@ -12793,11 +12875,14 @@ vErrors.push(err373);
 errors++;
 }
 }
-if(data152.rule !== undefined){
-let data161 = data152.rule;
-if(data161 && typeof data161 == "object" && !Array.isArray(data161)){
-if(data161.name === undefined){
-const err374 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(data152.speeds_mps !== undefined){
+let data161 = data152.speeds_mps;
+if(Array.isArray(data161)){
+const len7 = data161.length;
+for(let i7=0; i7<len7; i7++){
+let data162 = data161[i7];
+if(!((typeof data162 == "number") && (isFinite(data162)))){
+const err374 = {instancePath:instancePath+"/check/scenarios/speeds_mps/" + i7,schemaPath:"#/properties/check/properties/scenarios/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err374];
 }
@@ -12806,8 +12891,10 @@ vErrors.push(err374);
 }
 errors++;
 }
-if(data161.parameters === undefined){
-const err375 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+}
+}
+else {
+const err375 = {instancePath:instancePath+"/check/scenarios/speeds_mps",schemaPath:"#/properties/check/properties/scenarios/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err375];
 }
@@ -12816,8 +12903,14 @@ vErrors.push(err375);
 }
 errors++;
 }
-if(data161.tuneFor === undefined){
-const err376 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
+}
+if(data152.scenarios !== undefined){
+let data163 = data152.scenarios;
+if(Array.isArray(data163)){
+const len8 = data163.length;
+for(let i8=0; i8<len8; i8++){
+if(typeof data163[i8] !== "string"){
+const err376 = {instancePath:instancePath+"/check/scenarios/scenarios/" + i8,schemaPath:"#/properties/check/properties/scenarios/properties/scenarios/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err376];
 }
@@ -12826,9 +12919,10 @@ vErrors.push(err376);
 }
 errors++;
 }
-for(const key35 in data161){
-if(!((((((key35 === "name") || (key35 === "parameters")) || (key35 === "citation")) || (key35 === "parametersAtBreakpoints")) || (key35 === "tuneFor")) || (key35 === "searchAtBreakpoints"))){
-const err377 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
+}
+}
+else {
+const err377 = {instancePath:instancePath+"/check/scenarios/scenarios",schemaPath:"#/properties/check/properties/scenarios/properties/scenarios/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err377];
 }
@@ -12838,9 +12932,15 @@ vErrors.push(err377);
 errors++;
 }
 }
-if(data161.name !== undefined){
-if(typeof data161.name !== "string"){
-const err378 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data152.failures !== undefined){
+let data165 = data152.failures;
+if(Array.isArray(data165)){
+const len9 = data165.length;
+for(let i9=0; i9<len9; i9++){
+let data166 = data165[i9];
+if(data166 && typeof data166 == "object" && !Array.isArray(data166)){
+if(data166.speed_mps === undefined){
+const err378 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err378];
 }
@@ -12849,11 +12949,8 @@ vErrors.push(err378);
 }
 errors++;
 }
-}
-if(data161.parameters !== undefined){
-let data163 = data161.parameters;
-if(!(data163 && typeof data163 == "object" && !Array.isArray(data163))){
-const err379 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data166.scenario === undefined){
+const err379 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "scenario"},message:"must have required property '"+"scenario"+"'"};
 if(vErrors === null){
 vErrors = [err379];
 }
@@ -12862,10 +12959,8 @@ vErrors.push(err379);
 }
 errors++;
 }
-}
-if(data161.citation !== undefined){
-if(typeof data161.citation !== "string"){
-const err380 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data166.metric === undefined){
+const err380 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "metric"},message:"must have required property '"+"metric"+"'"};
 if(vErrors === null){
 vErrors = [err380];
 }
@@ -12874,16 +12969,8 @@ vErrors.push(err380);
 }
 errors++;
 }
-}
-if(data161.parametersAtBreakpoints !== undefined){
-let data165 = data161.parametersAtBreakpoints;
-if(Array.isArray(data165)){
-const len8 = data165.length;
-for(let i8=0; i8<len8; i8++){
-let data166 = data165[i8];
-if(data166 && typeof data166 == "object" && !Array.isArray(data166)){
-if(data166.speed_mps === undefined){
-const err381 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data166.message === undefined){
+const err381 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "message"},message:"must have required property '"+"message"+"'"};
 if(vErrors === null){
 vErrors = [err381];
 }
@@ -12892,8 +12979,9 @@ vErrors.push(err381);
 }
 errors++;
 }
-if(data166.parameters === undefined){
-const err382 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+for(const key35 in data166){
+if(!((((key35 === "speed_mps") || (key35 === "scenario")) || (key35 === "metric")) || (key35 === "message"))){
+const err382 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err382];
 }
@@ -12902,9 +12990,11 @@ vErrors.push(err382);
 }
 errors++;
 }
-for(const key36 in data166){
-if(!((key36 === "speed_mps") || (key36 === "parameters"))){
-const err383 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
+}
+if(data166.speed_mps !== undefined){
+let data167 = data166.speed_mps;
+if(!((typeof data167 == "number") && (isFinite(data167)))){
+const err383 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/speed_mps",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err383];
 }
@@ -12914,10 +13004,9 @@ vErrors.push(err383);
 errors++;
 }
 }
-if(data166.speed_mps !== undefined){
-let data167 = data166.speed_mps;
-if(!((typeof data167 == "number") && (isFinite(data167)))){
-const err384 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data166.scenario !== undefined){
+if(typeof data166.scenario !== "string"){
+const err384 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/scenario",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/scenario/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err384];
 }
@@ -12927,13 +13016,9 @@ vErrors.push(err384);
 errors++;
 }
 }
-if(data166.parameters !== undefined){
-let data168 = data166.parameters;
-if(data168 && typeof data168 == "object" && !Array.isArray(data168)){
-for(const key37 in data168){
-let data169 = data168[key37];
-if((!((typeof data169 == "number") && (isFinite(data169)))) && (typeof data169 !== "string")){
-const err385 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters/" + key37.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+if(data166.metric !== undefined){
+if(typeof data166.metric !== "string"){
+const err385 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/metric",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/metric/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err385];
 }
@@ -12943,9 +13028,9 @@ vErrors.push(err385);
 errors++;
 }
 }
-}
-else {
-const err386 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data166.message !== undefined){
+if(typeof data166.message !== "string"){
+const err386 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/message",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/message/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err386];
 }
@@ -12957,7 +13042,7 @@ errors++;
 }
 }
 else {
-const err387 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i8,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err387 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err387];
 }
@@ -12969,7 +13054,7 @@ errors++;
 }
 }
 else {
-const err388 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err388 = {instancePath:instancePath+"/check/scenarios/failures",schemaPath:"#/properties/check/properties/scenarios/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err388];
 }
@@ -12979,10 +13064,9 @@ vErrors.push(err388);
 errors++;
 }
 }
-if(data161.tuneFor !== undefined){
-let data170 = data161.tuneFor;
-if(!((data170 === "rule-parameters") || (data170 === "fastest-passing"))){
-const err389 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
+}
+else {
+const err389 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err389];
 }
@@ -12992,15 +13076,11 @@ vErrors.push(err389);
 errors++;
 }
 }
-if(data161.searchAtBreakpoints !== undefined){
-let data171 = data161.searchAtBreakpoints;
-if(Array.isArray(data171)){
-const len9 = data171.length;
-for(let i9=0; i9<len9; i9++){
-let data172 = data171[i9];
-if(data172 && typeof data172 == "object" && !Array.isArray(data172)){
-if(data172.speed_mps === undefined){
-const err390 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data91.speedChange !== undefined){
+let data171 = data91.speedChange;
+if(data171 && typeof data171 == "object" && !Array.isArray(data171)){
+if(data171.maximumAcceleration_mps2 === undefined){
+const err390 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "maximumAcceleration_mps2"},message:"must have required property '"+"maximumAcceleration_mps2"+"'"};
 if(vErrors === null){
 vErrors = [err390];
 }
@@ -13009,8 +13089,8 @@ vErrors.push(err390);
 }
 errors++;
 }
-if(data172.parameter === undefined){
-const err391 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(data171.maximumDeceleration_mps2 === undefined){
+const err391 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "maximumDeceleration_mps2"},message:"must have required property '"+"maximumDeceleration_mps2"+"'"};
 if(vErrors === null){
 vErrors = [err391];
 }
@@ -13019,8 +13099,8 @@ vErrors.push(err391);
 }
 errors++;
 }
-if(data172.value === undefined){
-const err392 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(data171.searched_mps2 === undefined){
+const err392 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "searched_mps2"},message:"must have required property '"+"searched_mps2"+"'"};
 if(vErrors === null){
 vErrors = [err392];
 }
@@ -13029,8 +13109,8 @@ vErrors.push(err392);
 }
 errors++;
 }
-if(data172.outcome === undefined){
-const err393 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+if(data171.statement === undefined){
+const err393 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
 if(vErrors === null){
 vErrors = [err393];
 }
@@ -13039,8 +13119,9 @@ vErrors.push(err393);
 }
 errors++;
 }
-if(data172.candidates === undefined){
-const err394 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+for(const key36 in data171){
+if(!((((key36 === "maximumAcceleration_mps2") || (key36 === "maximumDeceleration_mps2")) || (key36 === "searched_mps2")) || (key36 === "statement"))){
+const err394 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err394];
 }
@@ -13049,8 +13130,11 @@ vErrors.push(err394);
 }
 errors++;
 }
-if(data172.reason === undefined){
-const err395 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+}
+if(data171.maximumAcceleration_mps2 !== undefined){
+let data172 = data171.maximumAcceleration_mps2;
+if((!((typeof data172 == "number") && (isFinite(data172)))) && (data172 !== null)){
+const err395 = {instancePath:instancePath+"/check/speedChange/maximumAcceleration_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/maximumAcceleration_mps2/type",keyword:"type",params:{type: schema11.properties.check.properties.speedChange.properties.maximumAcceleration_mps2.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err395];
 }
@@ -13059,9 +13143,11 @@ vErrors.push(err395);
 }
 errors++;
 }
-for(const key38 in data172){
-if(!((((((key38 === "speed_mps") || (key38 === "parameter")) || (key38 === "value")) || (key38 === "outcome")) || (key38 === "candidates")) || (key38 === "reason"))){
-const err396 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
+}
+if(data171.maximumDeceleration_mps2 !== undefined){
+let data173 = data171.maximumDeceleration_mps2;
+if((!((typeof data173 == "number") && (isFinite(data173)))) && (data173 !== null)){
+const err396 = {instancePath:instancePath+"/check/speedChange/maximumDeceleration_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/maximumDeceleration_mps2/type",keyword:"type",params:{type: schema11.properties.check.properties.speedChange.properties.maximumDeceleration_mps2.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err396];
 }
@@ -13071,10 +13157,11 @@ vErrors.push(err396);
 errors++;
 }
 }
-if(data172.speed_mps !== undefined){
-let data173 = data172.speed_mps;
-if(!((typeof data173 == "number") && (isFinite(data173)))){
-const err397 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data171.searched_mps2 !== undefined){
+let data174 = data171.searched_mps2;
+if(data174 && typeof data174 == "object" && !Array.isArray(data174)){
+if(data174.lowest === undefined){
+const err397 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/required",keyword:"required",params:{missingProperty: "lowest"},message:"must have required property '"+"lowest"+"'"};
 if(vErrors === null){
 vErrors = [err397];
 }
@@ -13083,10 +13170,8 @@ vErrors.push(err397);
 }
 errors++;
 }
-}
-if(data172.parameter !== undefined){
-if(typeof data172.parameter !== "string"){
-const err398 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data174.highest === undefined){
+const err398 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/required",keyword:"required",params:{missingProperty: "highest"},message:"must have required property '"+"highest"+"'"};
 if(vErrors === null){
 vErrors = [err398];
 }
@@ -13095,11 +13180,9 @@ vErrors.push(err398);
 }
 errors++;
 }
-}
-if(data172.value !== undefined){
-let data175 = data172.value;
-if(!((typeof data175 == "number") && (isFinite(data175)))){
-const err399 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key37 in data174){
+if(!((key37 === "lowest") || (key37 === "highest"))){
+const err399 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key37},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err399];
 }
@@ -13109,10 +13192,10 @@ vErrors.push(err399);
 errors++;
 }
 }
-if(data172.outcome !== undefined){
-let data176 = data172.outcome;
-if(!((data176 === "fastest passing") || (data176 === "none passed"))){
-const err400 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(data174.lowest !== undefined){
+let data175 = data174.lowest;
+if(!((typeof data175 == "number") && (isFinite(data175)))){
+const err400 = {instancePath:instancePath+"/check/speedChange/searched_mps2/lowest",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/properties/lowest/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err400];
 }
@@ -13122,10 +13205,10 @@ vErrors.push(err400);
 errors++;
 }
 }
-if(data172.candidates !== undefined){
-let data177 = data172.candidates;
-if(!(((typeof data177 == "number") && (!(data177 % 1) && !isNaN(data177))) && (isFinite(data177)))){
-const err401 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data174.highest !== undefined){
+let data176 = data174.highest;
+if(!((typeof data176 == "number") && (isFinite(data176)))){
+const err401 = {instancePath:instancePath+"/check/speedChange/searched_mps2/highest",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/properties/highest/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err401];
 }
@@ -13134,9 +13217,10 @@ vErrors.push(err401);
 }
 errors++;
 }
-if((typeof data177 == "number") && (isFinite(data177))){
-if(data177 < 1 || isNaN(data177)){
-const err402 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+}
+}
+else {
+const err402 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err402];
 }
@@ -13146,10 +13230,9 @@ vErrors.push(err402);
 errors++;
 }
 }
-}
-if(data172.reason !== undefined){
-if(typeof data172.reason !== "string"){
-const err403 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data171.statement !== undefined){
+if(typeof data171.statement !== "string"){
+const err403 = {instancePath:instancePath+"/check/speedChange/statement",schemaPath:"#/properties/check/properties/speedChange/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err403];
 }
@@ -13161,7 +13244,7 @@ errors++;
 }
 }
 else {
-const err404 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i9,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err404 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err404];
 }
@@ -13173,7 +13256,7 @@ errors++;
 }
 }
 else {
-const err405 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err405 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err405];
 }
@@ -13183,9 +13266,11 @@ vErrors.push(err405);
 errors++;
 }
 }
-}
-else {
-const err406 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.provenance !== undefined){
+let data178 = data.provenance;
+if(data178 && typeof data178 == "object" && !Array.isArray(data178)){
+if(data178.tool === undefined){
+const err406 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
 if(vErrors === null){
 vErrors = [err406];
 }
@@ -13194,11 +13279,8 @@ vErrors.push(err406);
 }
 errors++;
 }
-}
-if(data152.plan !== undefined){
-let data179 = data152.plan;
-if(!(data179 && typeof data179 == "object" && !Array.isArray(data179))){
-const err407 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data178.toolVersion === undefined){
+const err407 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
 if(vErrors === null){
 vErrors = [err407];
 }
@@ -13207,16 +13289,8 @@ vErrors.push(err407);
 }
 errors++;
 }
-}
-if(data152.handEdits !== undefined){
-let data180 = data152.handEdits;
-if(Array.isArray(data180)){
-const len10 = data180.length;
-for(let i10=0; i10<len10; i10++){
-let data181 = data180[i10];
-if(data181 && typeof data181 == "object" && !Array.isArray(data181)){
-if(data181.statement === undefined){
-const err408 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(data178.inputs === undefined){
+const err408 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
 if(vErrors === null){
 vErrors = [err408];
 }
@@ -13225,8 +13299,8 @@ vErrors.push(err408);
 }
 errors++;
 }
-if(data181.changedSections === undefined){
-const err409 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(data178.model === undefined){
+const err409 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err409];
 }
@@ -13235,8 +13309,8 @@ vErrors.push(err409);
 }
 errors++;
 }
-if(data181.toolVersion === undefined){
-const err410 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(data178.rule === undefined){
+const err410 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
 if(vErrors === null){
 vErrors = [err410];
 }
@@ -13245,8 +13319,8 @@ vErrors.push(err410);
 }
 errors++;
 }
-if(data181.model === undefined){
-const err411 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(data178.plan === undefined){
+const err411 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
 if(vErrors === null){
 vErrors = [err411];
 }
@@ -13255,8 +13329,9 @@ vErrors.push(err411);
 }
 errors++;
 }
-if(data181.gridSize === undefined){
-const err412 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+for(const key38 in data178){
+if(!(((((((key38 === "tool") || (key38 === "toolVersion")) || (key38 === "inputs")) || (key38 === "model")) || (key38 === "rule")) || (key38 === "plan")) || (key38 === "handEdits"))){
+const err412 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err412];
 }
@@ -13265,9 +13340,10 @@ vErrors.push(err412);
 }
 errors++;
 }
-for(const key39 in data181){
-if(!(((((key39 === "statement") || (key39 === "changedSections")) || (key39 === "toolVersion")) || (key39 === "model")) || (key39 === "gridSize"))){
-const err413 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
+}
+if(data178.tool !== undefined){
+if("speedband" !== data178.tool){
+const err413 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err413];
 }
@@ -13277,9 +13353,9 @@ vErrors.push(err413);
 errors++;
 }
 }
-if(data181.statement !== undefined){
-if(typeof data181.statement !== "string"){
-const err414 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data178.toolVersion !== undefined){
+if(typeof data178.toolVersion !== "string"){
+const err414 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err414];
 }
@@ -13289,13 +13365,15 @@ vErrors.push(err414);
 errors++;
 }
 }
-if(data181.changedSections !== undefined){
-let data183 = data181.changedSections;
-if(Array.isArray(data183)){
-const len11 = data183.length;
-for(let i11=0; i11<len11; i11++){
-if(typeof data183[i11] !== "string"){
-const err415 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections/" + i11,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data178.inputs !== undefined){
+let data181 = data178.inputs;
+if(Array.isArray(data181)){
+const len10 = data181.length;
+for(let i10=0; i10<len10; i10++){
+let data182 = data181[i10];
+if(data182 && typeof data182 == "object" && !Array.isArray(data182)){
+if(data182.file === undefined){
+const err415 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
 if(vErrors === null){
 vErrors = [err415];
 }
@@ -13304,10 +13382,8 @@ vErrors.push(err415);
 }
 errors++;
 }
-}
-}
-else {
-const err416 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data182.sha256 === undefined){
+const err416 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
 if(vErrors === null){
 vErrors = [err416];
 }
@@ -13316,10 +13392,8 @@ vErrors.push(err416);
 }
 errors++;
 }
-}
-if(data181.toolVersion !== undefined){
-if(typeof data181.toolVersion !== "string"){
-const err417 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data182.role === undefined){
+const err417 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
 if(vErrors === null){
 vErrors = [err417];
 }
@@ -13328,10 +13402,9 @@ vErrors.push(err417);
 }
 errors++;
 }
-}
-if(data181.model !== undefined){
-if(typeof data181.model !== "string"){
-const err418 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key39 in data182){
+if(!(((key39 === "file") || (key39 === "sha256")) || (key39 === "role"))){
+const err418 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err418];
 }
@@ -13341,10 +13414,9 @@ vErrors.push(err418);
 errors++;
 }
 }
-if(data181.gridSize !== undefined){
-let data187 = data181.gridSize;
-if(!(((typeof data187 == "number") && (!(data187 % 1) && !isNaN(data187))) && (isFinite(data187)))){
-const err419 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data182.file !== undefined){
+if(typeof data182.file !== "string"){
+const err419 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err419];
 }
@@ -13353,9 +13425,12 @@ vErrors.push(err419);
 }
 errors++;
 }
-if((typeof data187 == "number") && (isFinite(data187))){
-if(data187 < 1 || isNaN(data187)){
-const err420 = {instancePath:instancePath+"/provenance/handEdits/" + i10+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+}
+if(data182.sha256 !== undefined){
+let data184 = data182.sha256;
+if(typeof data184 === "string"){
+if(!pattern0.test(data184)){
+const err420 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
 if(vErrors === null){
 vErrors = [err420];
 }
@@ -13365,10 +13440,8 @@ vErrors.push(err420);
 errors++;
 }
 }
-}
-}
 else {
-const err421 = {instancePath:instancePath+"/provenance/handEdits/" + i10,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err421 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err421];
 }
@@ -13378,9 +13451,9 @@ vErrors.push(err421);
 errors++;
 }
 }
-}
-else {
-const err422 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data182.role !== undefined){
+if(typeof data182.role !== "string"){
+const err422 = {instancePath:instancePath+"/provenance/inputs/" + i10+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err422];
 }
@@ -13392,7 +13465,7 @@ errors++;
 }
 }
 else {
-const err423 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err423 = {instancePath:instancePath+"/provenance/inputs/" + i10,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err423];
 }
@@ -13402,11 +13475,9 @@ vErrors.push(err423);
 errors++;
 }
 }
-if(data.cautions !== undefined){
-let data188 = data.cautions;
-if(Array.isArray(data188)){
-if(data188.length < 1){
-const err424 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+}
+else {
+const err424 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err424];
 }
@@ -13415,10 +13486,11 @@ vErrors.push(err424);
 }
 errors++;
 }
-const len12 = data188.length;
-for(let i12=0; i12<len12; i12++){
-if(typeof data188[i12] !== "string"){
-const err425 = {instancePath:instancePath+"/cautions/" + i12,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+if(data178.model !== undefined){
+let data186 = data178.model;
+if(!(data186 && typeof data186 == "object" && !Array.isArray(data186))){
+const err425 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err425];
 }
@@ -13428,9 +13500,11 @@ vErrors.push(err425);
 errors++;
 }
 }
-}
-else {
-const err426 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data178.rule !== undefined){
+let data187 = data178.rule;
+if(data187 && typeof data187 == "object" && !Array.isArray(data187)){
+if(data187.name === undefined){
+const err426 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
 if(vErrors === null){
 vErrors = [err426];
 }
@@ -13439,12 +13513,8 @@ vErrors.push(err426);
 }
 errors++;
 }
-}
-if(data.checksum !== undefined){
-let data190 = data.checksum;
-if(data190 && typeof data190 == "object" && !Array.isArray(data190)){
-if(data190.algorithm === undefined){
-const err427 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(data187.parameters === undefined){
+const err427 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
 if(vErrors === null){
 vErrors = [err427];
 }
@@ -13453,8 +13523,8 @@ vErrors.push(err427);
 }
 errors++;
 }
-if(data190.canonicalForm === undefined){
-const err428 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(data187.tuneFor === undefined){
+const err428 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
 if(vErrors === null){
 vErrors = [err428];
 }
@@ -13463,8 +13533,9 @@ vErrors.push(err428);
 }
 errors++;
 }
-if(data190.value === undefined){
-const err429 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+for(const key40 in data187){
+if(!((((((key40 === "name") || (key40 === "parameters")) || (key40 === "citation")) || (key40 === "parametersAtBreakpoints")) || (key40 === "tuneFor")) || (key40 === "searchAtBreakpoints"))){
+const err429 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err429];
 }
@@ -13473,8 +13544,10 @@ vErrors.push(err429);
 }
 errors++;
 }
-if(data190.sections === undefined){
-const err430 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+if(data187.name !== undefined){
+if(typeof data187.name !== "string"){
+const err430 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err430];
 }
@@ -13483,9 +13556,11 @@ vErrors.push(err430);
 }
 errors++;
 }
-for(const key40 in data190){
-if(!((((key40 === "algorithm") || (key40 === "canonicalForm")) || (key40 === "value")) || (key40 === "sections"))){
-const err431 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
+}
+if(data187.parameters !== undefined){
+let data189 = data187.parameters;
+if(!(data189 && typeof data189 == "object" && !Array.isArray(data189))){
+const err431 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err431];
 }
@@ -13495,9 +13570,9 @@ vErrors.push(err431);
 errors++;
 }
 }
-if(data190.algorithm !== undefined){
-if("SHA-256" !== data190.algorithm){
-const err432 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(data187.citation !== undefined){
+if(typeof data187.citation !== "string"){
+const err432 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err432];
 }
@@ -13507,9 +13582,15 @@ vErrors.push(err432);
 errors++;
 }
 }
-if(data190.canonicalForm !== undefined){
-if(typeof data190.canonicalForm !== "string"){
-const err433 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data187.parametersAtBreakpoints !== undefined){
+let data191 = data187.parametersAtBreakpoints;
+if(Array.isArray(data191)){
+const len11 = data191.length;
+for(let i11=0; i11<len11; i11++){
+let data192 = data191[i11];
+if(data192 && typeof data192 == "object" && !Array.isArray(data192)){
+if(data192.speed_mps === undefined){
+const err433 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err433];
 }
@@ -13518,12 +13599,8 @@ vErrors.push(err433);
 }
 errors++;
 }
-}
-if(data190.value !== undefined){
-let data193 = data190.value;
-if(typeof data193 === "string"){
-if(!pattern0.test(data193)){
-const err434 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(data192.parameters === undefined){
+const err434 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
 if(vErrors === null){
 vErrors = [err434];
 }
@@ -13532,9 +13609,9 @@ vErrors.push(err434);
 }
 errors++;
 }
-}
-else {
-const err435 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key41 in data192){
+if(!((key41 === "speed_mps") || (key41 === "parameters"))){
+const err435 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key41},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err435];
 }
@@ -13544,14 +13621,10 @@ vErrors.push(err435);
 errors++;
 }
 }
-if(data190.sections !== undefined){
-let data194 = data190.sections;
-if(data194 && typeof data194 == "object" && !Array.isArray(data194)){
-for(const key41 in data194){
-const _errs413 = errors;
-if(typeof key41 === "string"){
-if(!pattern5.test(key41)){
-const err436 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key41};
+if(data192.speed_mps !== undefined){
+let data193 = data192.speed_mps;
+if(!((typeof data193 == "number") && (isFinite(data193)))){
+const err436 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err436];
 }
@@ -13561,9 +13634,13 @@ vErrors.push(err436);
 errors++;
 }
 }
-var valid67 = _errs413 === errors;
-if(!valid67){
-const err437 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key41},message:"property name must be valid"};
+if(data192.parameters !== undefined){
+let data194 = data192.parameters;
+if(data194 && typeof data194 == "object" && !Array.isArray(data194)){
+for(const key42 in data194){
+let data195 = data194[key42];
+if((!((typeof data195 == "number") && (isFinite(data195)))) && (typeof data195 !== "string")){
+const err437 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/parameters/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
 if(vErrors === null){
 vErrors = [err437];
 }
@@ -13573,11 +13650,9 @@ vErrors.push(err437);
 errors++;
 }
 }
-for(const key42 in data194){
-let data195 = data194[key42];
-if(typeof data195 === "string"){
-if(!pattern0.test(data195)){
-const err438 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+}
+else {
+const err438 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err438];
 }
@@ -13587,8 +13662,9 @@ vErrors.push(err438);
 errors++;
 }
 }
+}
 else {
-const err439 = {instancePath:instancePath+"/checksum/sections/" + key42.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err439 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i11,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err439];
 }
@@ -13600,7 +13676,7 @@ errors++;
 }
 }
 else {
-const err440 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err440 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err440];
 }
@@ -13610,9 +13686,10 @@ vErrors.push(err440);
 errors++;
 }
 }
-}
-else {
-const err441 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data187.tuneFor !== undefined){
+let data196 = data187.tuneFor;
+if(!((data196 === "rule-parameters") || (data196 === "fastest-passing"))){
+const err441 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err441];
 }
@@ -13622,14 +13699,644 @@ vErrors.push(err441);
 errors++;
 }
 }
-}
-else {
-const err442 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data187.searchAtBreakpoints !== undefined){
+let data197 = data187.searchAtBreakpoints;
+if(Array.isArray(data197)){
+const len12 = data197.length;
+for(let i12=0; i12<len12; i12++){
+let data198 = data197[i12];
+if(data198 && typeof data198 == "object" && !Array.isArray(data198)){
+if(data198.speed_mps === undefined){
+const err442 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err442];
 }
 else {
 vErrors.push(err442);
+}
+errors++;
+}
+if(data198.parameter === undefined){
+const err443 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(vErrors === null){
+vErrors = [err443];
+}
+else {
+vErrors.push(err443);
+}
+errors++;
+}
+if(data198.value === undefined){
+const err444 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err444];
+}
+else {
+vErrors.push(err444);
+}
+errors++;
+}
+if(data198.outcome === undefined){
+const err445 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+if(vErrors === null){
+vErrors = [err445];
+}
+else {
+vErrors.push(err445);
+}
+errors++;
+}
+if(data198.candidates === undefined){
+const err446 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+if(vErrors === null){
+vErrors = [err446];
+}
+else {
+vErrors.push(err446);
+}
+errors++;
+}
+if(data198.reason === undefined){
+const err447 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(vErrors === null){
+vErrors = [err447];
+}
+else {
+vErrors.push(err447);
+}
+errors++;
+}
+for(const key43 in data198){
+if(!((((((key43 === "speed_mps") || (key43 === "parameter")) || (key43 === "value")) || (key43 === "outcome")) || (key43 === "candidates")) || (key43 === "reason"))){
+const err448 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key43},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err448];
+}
+else {
+vErrors.push(err448);
+}
+errors++;
+}
+}
+if(data198.speed_mps !== undefined){
+let data199 = data198.speed_mps;
+if(!((typeof data199 == "number") && (isFinite(data199)))){
+const err449 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err449];
+}
+else {
+vErrors.push(err449);
+}
+errors++;
+}
+}
+if(data198.parameter !== undefined){
+if(typeof data198.parameter !== "string"){
+const err450 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err450];
+}
+else {
+vErrors.push(err450);
+}
+errors++;
+}
+}
+if(data198.value !== undefined){
+let data201 = data198.value;
+if(!((typeof data201 == "number") && (isFinite(data201)))){
+const err451 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err451];
+}
+else {
+vErrors.push(err451);
+}
+errors++;
+}
+}
+if(data198.outcome !== undefined){
+let data202 = data198.outcome;
+if(!((data202 === "fastest passing") || (data202 === "none passed"))){
+const err452 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err452];
+}
+else {
+vErrors.push(err452);
+}
+errors++;
+}
+}
+if(data198.candidates !== undefined){
+let data203 = data198.candidates;
+if(!(((typeof data203 == "number") && (!(data203 % 1) && !isNaN(data203))) && (isFinite(data203)))){
+const err453 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err453];
+}
+else {
+vErrors.push(err453);
+}
+errors++;
+}
+if((typeof data203 == "number") && (isFinite(data203))){
+if(data203 < 1 || isNaN(data203)){
+const err454 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err454];
+}
+else {
+vErrors.push(err454);
+}
+errors++;
+}
+}
+}
+if(data198.reason !== undefined){
+if(typeof data198.reason !== "string"){
+const err455 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err455];
+}
+else {
+vErrors.push(err455);
+}
+errors++;
+}
+}
+}
+else {
+const err456 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i12,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err456];
+}
+else {
+vErrors.push(err456);
+}
+errors++;
+}
+}
+}
+else {
+const err457 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err457];
+}
+else {
+vErrors.push(err457);
+}
+errors++;
+}
+}
+}
+else {
+const err458 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err458];
+}
+else {
+vErrors.push(err458);
+}
+errors++;
+}
+}
+if(data178.plan !== undefined){
+let data205 = data178.plan;
+if(!(data205 && typeof data205 == "object" && !Array.isArray(data205))){
+const err459 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err459];
+}
+else {
+vErrors.push(err459);
+}
+errors++;
+}
+}
+if(data178.handEdits !== undefined){
+let data206 = data178.handEdits;
+if(Array.isArray(data206)){
+const len13 = data206.length;
+for(let i13=0; i13<len13; i13++){
+let data207 = data206[i13];
+if(data207 && typeof data207 == "object" && !Array.isArray(data207)){
+if(data207.statement === undefined){
+const err460 = {instancePath:instancePath+"/provenance/handEdits/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(vErrors === null){
+vErrors = [err460];
+}
+else {
+vErrors.push(err460);
+}
+errors++;
+}
+if(data207.changedSections === undefined){
+const err461 = {instancePath:instancePath+"/provenance/handEdits/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(vErrors === null){
+vErrors = [err461];
+}
+else {
+vErrors.push(err461);
+}
+errors++;
+}
+if(data207.toolVersion === undefined){
+const err462 = {instancePath:instancePath+"/provenance/handEdits/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err462];
+}
+else {
+vErrors.push(err462);
+}
+errors++;
+}
+if(data207.model === undefined){
+const err463 = {instancePath:instancePath+"/provenance/handEdits/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err463];
+}
+else {
+vErrors.push(err463);
+}
+errors++;
+}
+if(data207.gridSize === undefined){
+const err464 = {instancePath:instancePath+"/provenance/handEdits/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(vErrors === null){
+vErrors = [err464];
+}
+else {
+vErrors.push(err464);
+}
+errors++;
+}
+for(const key44 in data207){
+if(!(((((key44 === "statement") || (key44 === "changedSections")) || (key44 === "toolVersion")) || (key44 === "model")) || (key44 === "gridSize"))){
+const err465 = {instancePath:instancePath+"/provenance/handEdits/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key44},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err465];
+}
+else {
+vErrors.push(err465);
+}
+errors++;
+}
+}
+if(data207.statement !== undefined){
+if(typeof data207.statement !== "string"){
+const err466 = {instancePath:instancePath+"/provenance/handEdits/" + i13+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err466];
+}
+else {
+vErrors.push(err466);
+}
+errors++;
+}
+}
+if(data207.changedSections !== undefined){
+let data209 = data207.changedSections;
+if(Array.isArray(data209)){
+const len14 = data209.length;
+for(let i14=0; i14<len14; i14++){
+if(typeof data209[i14] !== "string"){
+const err467 = {instancePath:instancePath+"/provenance/handEdits/" + i13+"/changedSections/" + i14,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err467];
+}
+else {
+vErrors.push(err467);
+}
+errors++;
+}
+}
+}
+else {
+const err468 = {instancePath:instancePath+"/provenance/handEdits/" + i13+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err468];
+}
+else {
+vErrors.push(err468);
+}
+errors++;
+}
+}
+if(data207.toolVersion !== undefined){
+if(typeof data207.toolVersion !== "string"){
+const err469 = {instancePath:instancePath+"/provenance/handEdits/" + i13+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err469];
+}
+else {
+vErrors.push(err469);
+}
+errors++;
+}
+}
+if(data207.model !== undefined){
+if(typeof data207.model !== "string"){
+const err470 = {instancePath:instancePath+"/provenance/handEdits/" + i13+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err470];
+}
+else {
+vErrors.push(err470);
+}
+errors++;
+}
+}
+if(data207.gridSize !== undefined){
+let data213 = data207.gridSize;
+if(!(((typeof data213 == "number") && (!(data213 % 1) && !isNaN(data213))) && (isFinite(data213)))){
+const err471 = {instancePath:instancePath+"/provenance/handEdits/" + i13+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err471];
+}
+else {
+vErrors.push(err471);
+}
+errors++;
+}
+if((typeof data213 == "number") && (isFinite(data213))){
+if(data213 < 1 || isNaN(data213)){
+const err472 = {instancePath:instancePath+"/provenance/handEdits/" + i13+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err472];
+}
+else {
+vErrors.push(err472);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err473 = {instancePath:instancePath+"/provenance/handEdits/" + i13,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err473];
+}
+else {
+vErrors.push(err473);
+}
+errors++;
+}
+}
+}
+else {
+const err474 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err474];
+}
+else {
+vErrors.push(err474);
+}
+errors++;
+}
+}
+}
+else {
+const err475 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err475];
+}
+else {
+vErrors.push(err475);
+}
+errors++;
+}
+}
+if(data.cautions !== undefined){
+let data214 = data.cautions;
+if(Array.isArray(data214)){
+if(data214.length < 1){
+const err476 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err476];
+}
+else {
+vErrors.push(err476);
+}
+errors++;
+}
+const len15 = data214.length;
+for(let i15=0; i15<len15; i15++){
+if(typeof data214[i15] !== "string"){
+const err477 = {instancePath:instancePath+"/cautions/" + i15,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err477];
+}
+else {
+vErrors.push(err477);
+}
+errors++;
+}
+}
+}
+else {
+const err478 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err478];
+}
+else {
+vErrors.push(err478);
+}
+errors++;
+}
+}
+if(data.checksum !== undefined){
+let data216 = data.checksum;
+if(data216 && typeof data216 == "object" && !Array.isArray(data216)){
+if(data216.algorithm === undefined){
+const err479 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(vErrors === null){
+vErrors = [err479];
+}
+else {
+vErrors.push(err479);
+}
+errors++;
+}
+if(data216.canonicalForm === undefined){
+const err480 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(vErrors === null){
+vErrors = [err480];
+}
+else {
+vErrors.push(err480);
+}
+errors++;
+}
+if(data216.value === undefined){
+const err481 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err481];
+}
+else {
+vErrors.push(err481);
+}
+errors++;
+}
+if(data216.sections === undefined){
+const err482 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+if(vErrors === null){
+vErrors = [err482];
+}
+else {
+vErrors.push(err482);
+}
+errors++;
+}
+for(const key45 in data216){
+if(!((((key45 === "algorithm") || (key45 === "canonicalForm")) || (key45 === "value")) || (key45 === "sections"))){
+const err483 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key45},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err483];
+}
+else {
+vErrors.push(err483);
+}
+errors++;
+}
+}
+if(data216.algorithm !== undefined){
+if("SHA-256" !== data216.algorithm){
+const err484 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err484];
+}
+else {
+vErrors.push(err484);
+}
+errors++;
+}
+}
+if(data216.canonicalForm !== undefined){
+if(typeof data216.canonicalForm !== "string"){
+const err485 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err485];
+}
+else {
+vErrors.push(err485);
+}
+errors++;
+}
+}
+if(data216.value !== undefined){
+let data219 = data216.value;
+if(typeof data219 === "string"){
+if(!pattern0.test(data219)){
+const err486 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err486];
+}
+else {
+vErrors.push(err486);
+}
+errors++;
+}
+}
+else {
+const err487 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err487];
+}
+else {
+vErrors.push(err487);
+}
+errors++;
+}
+}
+if(data216.sections !== undefined){
+let data220 = data216.sections;
+if(data220 && typeof data220 == "object" && !Array.isArray(data220)){
+for(const key46 in data220){
+const _errs470 = errors;
+if(typeof key46 === "string"){
+if(!pattern5.test(key46)){
+const err488 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key46};
+if(vErrors === null){
+vErrors = [err488];
+}
+else {
+vErrors.push(err488);
+}
+errors++;
+}
+}
+var valid78 = _errs470 === errors;
+if(!valid78){
+const err489 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key46},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err489];
+}
+else {
+vErrors.push(err489);
+}
+errors++;
+}
+}
+for(const key47 in data220){
+let data221 = data220[key47];
+if(typeof data221 === "string"){
+if(!pattern0.test(data221)){
+const err490 = {instancePath:instancePath+"/checksum/sections/" + key47.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err490];
+}
+else {
+vErrors.push(err490);
+}
+errors++;
+}
+}
+else {
+const err491 = {instancePath:instancePath+"/checksum/sections/" + key47.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err491];
+}
+else {
+vErrors.push(err491);
+}
+errors++;
+}
+}
+}
+else {
+const err492 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err492];
+}
+else {
+vErrors.push(err492);
+}
+errors++;
+}
+}
+}
+else {
+const err493 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err493];
+}
+else {
+vErrors.push(err493);
+}
+errors++;
+}
+}
+}
+else {
+const err494 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err494];
+}
+else {
+vErrors.push(err494);
 }
 errors++;
 }

@@ -8,7 +8,7 @@ import { scenarioMetrics, type ScenarioMetrics } from './scenario-metrics.js';
 import type { PreparedScenario } from './scenario-catalogue.js';
 import { simulateScenario, type ScenarioController, type ScenarioTraces, type ScenarioVehicle } from './scenario-simulation.js';
 
-export const STEP_HALVING = { startStepsPerSample: 2, mostStepsPerSample: 64, relativeTolerance: 1e-3 } as const;
+export const STEP_HALVING = { startStepsPerSample: 1, mostStepsPerSample: 64, relativeTolerance: 1e-3 } as const;
 
 export interface ScenarioRun {
   readonly scenario: PreparedScenario;

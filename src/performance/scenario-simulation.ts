@@ -5,13 +5,13 @@
  * delay, the actuator's rate and angle limits and its lag (actuator-motion.ts), and drives the single-track
  * vehicle relative to the path (path-frame-vehicle.ts) at the speed of the moment.
  *
- * Integration. At constant speed the plant is linear and time-invariant between the actuator's switching
- * instants, so each piece is integrated exactly with the matrix exponential (Åström & Wittenmark,
- * Computer-Controlled Systems, §2.3; the exogenous signals — curvature, force, misalignment — taken at the
- * middle of each piece and held). When the speed changes the model is re-evaluated at the instantaneous speed
- * and integrated by the classical fourth-order Runge–Kutta method (Kutta 1901) with a fixed number of steps
- * per sample, each actuator piece on its own (no switch inside a step); scenario-run.ts chooses that number
- * by halving the step until no metric moves by more than 0.1 %.
+ * Integration. Over a sample in which the speed does not change the plant is linear and time-invariant between
+ * the actuator's switching instants, so each piece is integrated exactly with the matrix exponential (Åström &
+ * Wittenmark, Computer-Controlled Systems, §2.3; the exogenous signals — curvature, force, misalignment — taken
+ * at the middle of each piece and held). Over a sample in which the speed changes the model is re-evaluated at
+ * the instantaneous speed and integrated by the classical fourth-order Runge–Kutta method (Kutta 1901) with a
+ * fixed number of steps per sample, each actuator piece on its own (no switch inside a step); scenario-run.ts
+ * chooses that number by halving the step until no metric moves by more than 0.1 %.
  */
 import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
 import { previewFromCg_m } from '../loops/build.js';
@@ -22,7 +22,7 @@ import type { SingleTrackParameters } from '../vehicle/types.js';
 import { actuatorPieces, type ActuatorPiece } from './actuator-motion.js';
 import { INPUTS as INPUT_COUNT, lateralAcceleration_mps2, pathFrameDerivative, pathFrameDerivativeAt, pathFrameSystem, STATE as STATE_INDEX, STATES as STATE_COUNT } from './path-frame-vehicle.js';
 import type { PathShape } from './scenarios.js';
-import { distanceAt_m, isConstantSpeed, speedAt_mps, type SpeedProfile } from './speed-profile.js';
+import { distanceAt_m, speedAt_mps, type SpeedProfile } from './speed-profile.js';
 
 /** The firmware's controller: the loop it closes, its settings, and the scheduled numbers at a speed. */
 export interface ScenarioController {
@@ -104,29 +104,41 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
   const count = Math.floor(setup.duration_s / ts + 1e-9) + 1;
   const lag = parameters.actuatorLag_s < 1e-6 * ts ? 0 : parameters.actuatorLag_s;
   const { wholeSamples, fraction_s } = splitDelay(parameters.actuatorDelay_s + settings.computationLatency_s, ts);
-  const exact = isConstantSpeed(setup.speed);
   const pathS = (time_s: number): number => distanceAt_m(setup.speed, time_s) - setup.pathStart_m;
-  const inputsAt = (time_s: number, w: number): number[] => [
-    w,
-    setup.path.curvature(pathS(time_s)),
-    valueAt(setup.lateralForce, time_s),
-    valueAt(setup.misalignment, time_s),
-  ];
+  // One array reused for every evaluation (the inner loops allocate nothing).
+  const inputs = [0, 0, 0, 0];
+  const inputsAt = (time_s: number, w: number): number[] => {
+    inputs[0] = w;
+    inputs[1] = setup.path.curvature(pathS(time_s));
+    inputs[2] = valueAt(setup.lateralForce, time_s);
+    inputs[3] = valueAt(setup.misalignment, time_s);
+    return inputs;
+  };
 
   const x = new Float64Array(STATES);
   x[STATE.lateralOffset] = setup.initialLateralOffset_m;
   x[STATE.headingError] = setup.initialHeadingError_rad;
   const scratch = new Float64Array(STATES);
 
-  // Exact pieces at constant speed: e^([[A, B], [0, 0]]·h) = [[Φ, Γ], [0, I]].
-  const cache = { free: new Map<number, { phi: Float64Array; gamma: Float64Array }>(), track: new Map<number, { phi: Float64Array; gamma: Float64Array }>() };
-  const systems = exact
-    ? { free: pathFrameSystem(parameters, setup.speed.initial_mps, 'free', lag), track: pathFrameSystem(parameters, setup.speed.initial_mps, 'track', lag) }
-    : null;
-  const exactPiece = (kind: 'free' | 'track', h: number): { phi: Float64Array; gamma: Float64Array } => {
-    const cached = cache[kind].get(h);
+  // Exact pieces over samples at constant speed: e^([[A, B], [0, 0]]·h) = [[Φ, Γ], [0, I]], per speed (a speed
+  // profile has at most two constant stretches) and piece kind.
+  type Exact = { readonly systems: Record<'free' | 'track', { a: Float64Array; b: Float64Array }>; readonly cache: Record<'free' | 'track', Map<number, { phi: Float64Array; gamma: Float64Array }>> };
+  const exactBySpeed = new Map<number, Exact>();
+  const exactAt = (speed_mps: number): Exact => {
+    let found = exactBySpeed.get(speed_mps);
+    if (found === undefined) {
+      found = {
+        systems: { free: pathFrameSystem(parameters, speed_mps, 'free', lag), track: pathFrameSystem(parameters, speed_mps, 'track', lag) },
+        cache: { free: new Map(), track: new Map() },
+      };
+      exactBySpeed.set(speed_mps, found);
+    }
+    return found;
+  };
+  const exactPiece = (exactHere: Exact, kind: 'free' | 'track', h: number): { phi: Float64Array; gamma: Float64Array } => {
+    const cached = exactHere.cache[kind].get(h);
     if (cached !== undefined) return cached;
-    const system = systems![kind];
+    const system = exactHere.systems[kind];
     const size = STATES + INPUTS;
     const augmented = Array.from({ length: size }, (_, i) =>
       Array.from({ length: size }, (_, j) => (i >= STATES ? 0 : j < STATES ? system.a[i * STATES + j] * h : system.b[i * INPUTS + j - STATES] * h)),
@@ -136,9 +148,11 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
       phi: Float64Array.from(e.slice(0, STATES).flatMap((row) => row.slice(0, STATES))),
       gamma: Float64Array.from(e.slice(0, STATES).flatMap((row) => row.slice(STATES))),
     };
-    if (cache[kind].size < 64) cache[kind].set(h, result);
+    if (exactHere.cache[kind].size < 64) exactHere.cache[kind].set(h, result);
     return result;
   };
+  let exactHere: Exact | null = null;
+  let rungeKuttaUsed = false;
   const derivative = (time_s: number, state: Float64Array, kind: 'free' | 'track', w: number, out: Float64Array): void => {
     pathFrameDerivativeAt(parameters, speedAt_mps(setup.speed, time_s), kind, lag, state, inputsAt(time_s, w), out);
   };
@@ -171,9 +185,9 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
       if (Number.isNaN(first)) first = rate;
       peakRate = Math.max(peakRate, Math.abs(rate));
       if (piece.atRateLimit) atRateLimit += piece.duration_s;
-      if (exact) {
-        const { phi, gamma } = exactPiece(piece.kind, piece.duration_s);
-        const inputs = inputsAt(t + piece.duration_s / 2, piece.input);
+      if (exactHere !== null) {
+        const { phi, gamma } = exactPiece(exactHere, piece.kind, piece.duration_s);
+        inputsAt(t + piece.duration_s / 2, piece.input);
         for (let i = 0; i < STATES; i++) {
           let sum = 0;
           for (let j = 0; j < STATES; j++) sum += phi[i * STATES + j] * x[j];
@@ -223,7 +237,6 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
       lookedUpSpeed = v;
     }
     const step = valueAt(setup.referenceStep, t);
-    const curvatureAhead = (ahead_m: number): number => setup.path.curvature(s + ahead_m);
     let reference: number;
     let measurement: number;
     let feedForwardInput: number;
@@ -231,22 +244,28 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
       const d = previewFromCg_m(controller.loop, parameters.cgToFrontAxle_m, v);
       reference = step;
       measurement = x[STATE.lateralOffset] + d * x[STATE.headingError] - setup.path.offsetAhead(s, d);
-      feedForwardInput = curvatureAhead(d + v * scheduled.feedForwardLeadTime_s);
+      feedForwardInput = setup.path.curvature(s + d + v * scheduled.feedForwardLeadTime_s);
     } else if (kind === 'heading') {
-      reference = setup.path.heading(s) + step;
-      measurement = setup.path.heading(s) + x[STATE.headingError];
-      feedForwardInput = v * curvatureAhead(v * scheduled.feedForwardLeadTime_s);
+      // The heading from the path's tangent, and the commanded heading offset: a set-point weight b < 1 on an absolute
+      // heading would make the command depend on where heading 0 points (b·r grows without bound along a curve).
+      reference = step;
+      measurement = x[STATE.headingError];
+      feedForwardInput = v * setup.path.curvature(s + v * scheduled.feedForwardLeadTime_s);
     } else {
       reference = v * setup.path.curvature(s) + step;
       measurement = x[STATE.yawRate];
-      feedForwardInput = v * curvatureAhead(v * scheduled.feedForwardLeadTime_s);
+      feedForwardInput = v * setup.path.curvature(s + v * scheduled.feedForwardLeadTime_s);
     }
     const out = firmwareStep(scheduled.gains, settings, state, { reference, measurement, feedForwardInput });
     state = out.state;
     command[k] = out.command;
     if (Math.abs(out.unlimited) > settings.commandLimit_rad) atAngleLimit += ts;
-    if (systems === null) pathFrameDerivativeAt(parameters, v, 'free', lag, x, inputsAt(t, 0), derivativeNow);
-    else pathFrameDerivative(systems.free, x, inputsAt(t, 0), derivativeNow);
+    // Exact over this sample when the speed does not change in it.
+    exactHere = speedAt_mps(setup.speed, t + ts) === v ? exactAt(v) : null;
+    if (exactHere === null) {
+      rungeKuttaUsed = true;
+      pathFrameDerivativeAt(parameters, v, 'free', lag, x, inputsAt(t, 0), derivativeNow);
+    } else pathFrameDerivative(exactHere.systems.free, x, inputsAt(t, 0), derivativeNow);
     traces.time_s[k] = t;
     traces.speed_mps[k] = v;
     traces.distance_m[k] = distanceAt_m(setup.speed, t);
@@ -271,6 +290,6 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
     peakSteerRate_radps: peakRate,
     timeAtAngleLimit_s: atAngleLimit,
     timeAtRateLimit_s: atRateLimit,
-    integrator: exact ? { name: 'exact', stepsPerSample: 1 } : { name: 'runge-kutta-4', stepsPerSample },
+    integrator: rungeKuttaUsed ? { name: 'runge-kutta-4', stepsPerSample } : { name: 'exact', stepsPerSample: 1 },
   };
 }

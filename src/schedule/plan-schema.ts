@@ -131,6 +131,9 @@ export const PLAN_SCHEMA = {
         maximumRecoveryTime_s: { ...positive, description: 'A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).' },
         maximumLaneChangeError_m: { ...positive, description: 'Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).' },
         maximumCurveEntryError_m: { ...positive, description: 'Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).' },
+        maximumSpeedChangeError_m: { ...positive, description: 'Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3).' },
+        maximumSpeedChangeError_rad: { ...positive, description: 'Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05).' },
+        maximumSpeedChangeError_radps: { ...positive, description: 'Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05).' },
       },
     },
     check: {
@@ -140,6 +143,11 @@ export const PLAN_SCHEMA = {
         gridSpeeds: { type: 'integer', minimum: 2, maximum: 100000 },
         maxInsertedBreakpoints: { type: 'integer', minimum: 0, maximum: 100 },
         model: { enum: ['single-track', 'interpolated-lumped'] },
+        scenarios: {
+          type: 'boolean',
+          description:
+            'Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (default true; needs the single-track model).',
+        },
       },
     },
   },

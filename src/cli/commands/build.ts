@@ -112,7 +112,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     if (written) {
       text += `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out} (status ${schedule.status}, checksum ${schedule.checksum.value.slice(0, 16)}…)\n`;
     } else {
-      text += `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
+      text += `Nothing written: the schedule fails its dense check, its time-domain limits or its scenarios (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
     }
     if (modelsOut !== undefined) text += `Wrote ${modelsOut}\n`;
     text += formatCautions();

@@ -17,6 +17,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { recheckSchedule } = await import('../../build/recheck-schedule.js');
   const { formatRecheck } = await import('../../build/schedule-report.js');
+  const { formatScenarioCheck } = await import('../../build/scenario-report.js');
   const schedulePath = String(args.schedule);
   const schedule = readSchedule(schedulePath);
   const { model, notes } = await checkModelFromArgs(args, schedule, schedulePath, io);
@@ -25,6 +26,9 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(args['grid-speeds'])} — give a whole number of speeds from 2 to ${MAX_GRID_SPEEDS}`);
   }
   const result = recheckSchedule({ schedule, model, ...(gridSpeeds === undefined ? {} : { gridSpeeds }) });
+  const scenarios = await checkScenarios(args, schedule, model);
+  const passed = result.passed && (scenarios.check?.passed ?? true);
+  notes.push(...scenarios.notes);
 
   if (args.json === true) {
     io.stdout(
@@ -32,12 +36,13 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
         {
           file: schedulePath,
           checksum: 'verified',
-          passed: result.passed,
+          passed,
           model: { kind: model.kind, description: model.description },
           gridSize: result.points.length,
           failedSpeeds: result.failedCount,
           worst: result.worst,
           failing: result.points.filter((p) => p.failures.length > 0).map((p) => ({ speed_mps: p.speed_mps, failures: p.failures.map((f) => f.message) })),
+          scenarios: scenarios.check,
           notes,
         },
         null,
@@ -48,10 +53,34 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     io.stdout(
       `${schedulePath}: schema valid, checksum ${schedule.checksum.value.slice(0, 16)}… verified\n` +
         notes.map((note) => `${note}\n`).join('') +
-        formatRecheck(`model: ${model.description}`, result, schedule, model.kind),
+        formatRecheck(`model: ${model.description}`, result, schedule, model.kind) +
+        (scenarios.check === null ? '' : formatScenarioCheck(scenarios.check)),
     );
   }
-  return result.passed ? EXIT.ok : EXIT.failed;
+  return passed ? EXIT.ok : EXIT.failed;
+}
+
+/** The schedule's scenarios on the check model, with the limits the schedule records (none when it records none). */
+async function checkScenarios(
+  args: Record<string, unknown>,
+  schedule: import('../../schedule/schedule-types.js').ScheduleFile,
+  model: import('../../build/check-model.js').CheckModel,
+): Promise<{ check: import('../../schedule/schedule-types.js').ScheduleScenarioCheck | null; notes: string[] }> {
+  const recorded = schedule.check.scenarios;
+  if (recorded === undefined) return { check: null, notes: [] };
+  if (model.summary.kind !== 'single-track') return { check: null, notes: ['note: the scenarios need the single-track model; not run on per-speed yaw-rate models'] };
+  const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { judgeScheduleScenarios, scenarioParameters } = await import('../../build/simulate-schedule.js');
+  const vehicle = loadVehicle(resolveVehiclePath(String(args.vehicle)));
+  const { parameters, description } = scenarioParameters(model, vehicle);
+  const check = judgeScheduleScenarios({
+    schedule,
+    parameters,
+    steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
+    limits: recorded.limits,
+    model: description,
+  });
+  return { check, notes: [] };
 }
 
 export const command: CommandModule = {
