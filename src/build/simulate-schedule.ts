@@ -53,12 +53,34 @@ export function scheduleScenarioController(schedule: ScheduleFile): ScenarioCont
   return { loop, ...scheduleFirmware(schedule) };
 }
 
+/**
+ * The actuator room the build recorded at the breakpoints (largest reference within the steering limits), at a speed:
+ * a breakpoint's own, between breakpoints the smaller neighbour's, beyond them the end one's.
+ */
+export function actuatorRoomLookup(schedule: Pick<ScheduleFile, 'breakpoints'>): (speed_mps: number) => number {
+  const rows = schedule.breakpoints.filter((row) => row.timeDomain !== null);
+  return (speed_mps) => {
+    if (rows.length === 0) return Number.POSITIVE_INFINITY;
+    const room = (k: number): number => rows[k].timeDomain!.actuator.largestReference;
+    let k = 0;
+    while (k < rows.length - 1 && rows[k + 1].speed_mps <= speed_mps) k++;
+    if (rows[k].speed_mps === speed_mps || k === rows.length - 1 || speed_mps < rows[0].speed_mps) return room(speed_mps < rows[0].speed_mps ? 0 : k);
+    return Math.min(room(k), room(k + 1));
+  };
+}
+
 /** Every applicable scenario at every speed (range scenarios once), in the order given. */
 export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] {
   const { schedule } = input;
   const controller = scheduleScenarioController(schedule);
   const vehicle: ScenarioVehicle = { parameters: input.parameters, ...input.steeringLimits };
-  const context = { loop: schedule.loop.kind, parameters: input.parameters, maxSteerAngle_rad: input.steeringLimits.maxSteerAngle_rad, range: schedule.check.range };
+  const context = {
+    loop: schedule.loop.kind,
+    parameters: input.parameters,
+    maxSteerAngle_rad: input.steeringLimits.maxSteerAngle_rad,
+    range: schedule.check.range,
+    linearRoomAt: actuatorRoomLookup(schedule),
+  };
   const runs: ScenarioRunAt[] = [];
   for (const name of input.scenarios) {
     if (!SCENARIO_NAMES.includes(name)) {

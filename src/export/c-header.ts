@@ -4,7 +4,7 @@
  * low-speed floor, linear or monotone cubic Hermite (Fritsch & Carlson 1980, slopes stored), exact
  * values at breakpoints, result kept between neighbouring values — and returns a status for a speed
  * that is NaN or infinite (c-lookup.ts). Arithmetic in IEEE 754 double. No dynamic memory, no library
- * calls. With a fixed-point format the gains are stored as Q-format integers and converted to double
+ * calls. The controller equation follows as a step function with its state struct (c-controller.ts). With a fixed-point format the gains are stored as Q-format integers and converted to double
  * in the lookup; the slopes stay those of the exact table, so the lookup's error is at most 2^−(F+1)
  * everywhere (see fixed-point.ts).
  * No text from the schedule reaches the header except through the comment whitelist (c-comment.ts);
@@ -20,6 +20,7 @@ import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { GainTable, WorstMargins, WorstValue } from '../schedule/types.js';
 import { cComment, commentSafe } from './c-comment.js';
 import { LOOKUP_STATUS, lookupFunctionsText, type LookupField } from './c-lookup.js';
+import { controllerFunctionsText } from './c-controller.js';
 import { monotoneCubicSlopes } from '../schedule/monotone-cubic.js';
 import { quantiseTable, type FixedPointFormat, type QuantisedTable } from './fixed-point.js';
 
@@ -178,6 +179,8 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     `#define ${upper}_SAMPLE_TIME_S ${cDouble(controller.sampleTime_s)}`,
     `#define ${upper}_DERIVATIVE_FILTER ${cDouble(controller.derivativeFilter)}`,
     `#define ${upper}_INTEGRATOR_CLAMP_RAD ${cDouble(controller.integratorClamp_rad)}`,
+    `/* The step function's command limit, rad (the steering-angle limit, as the integrator clamp). */`,
+    `#define ${upper}_COMMAND_LIMIT_RAD ${cDouble(controller.integratorClamp_rad)}`,
     `#define ${upper}_LOW_SPEED_FLOOR_MPS ${cDouble(settings.lowSpeedFloor_mps)}`,
     `#define ${upper}_CHECKSUM "${schedule.checksum.value}"`,
     ...(quantisation === undefined ? [] : [`#define ${upper}_GAIN_SCALE ${cDouble(2 ** quantisation.format.fractionalBits)}`]),
@@ -218,6 +221,8 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
       : []),
     '',
     lookupFunctionsText({ prefix, upper, cubic, gainValue, fallbackBreakpoint: fallback?.breakpoint ?? null }),
+    '',
+    controllerFunctionsText({ prefix, upper, discretisation: controller.discretisation, antiWindup: controller.antiWindup }),
     '',
     `#endif /* ${upper}_H */`,
     '',

@@ -26,11 +26,14 @@ export const SCENARIO_NAMES = [
 ] as const;
 export type ScenarioName = (typeof SCENARIO_NAMES)[number];
 
+/** The small step is at most this fraction of the actuator room (our choice). */
+export const SMALL_STEP_ROOM_FRACTION = 0.5;
+
 /** Scenarios run over the whole speed range (once per schedule), not at one speed. */
 export const RANGE_SCENARIOS: readonly ScenarioName[] = ['speed-ramp-in-curve', 'braking-in-curve'];
 
 export const SCENARIO_DESCRIPTIONS: Readonly<Record<ScenarioName, string>> = {
-  'small-step': 'reference step meant to stay in the linear range (heading 0.01 rad, yaw rate 0.01 rad/s, path 0.05 m)',
+  'small-step': 'reference step meant to stay in the linear range (heading 0.01 rad, yaw rate 0.01 rad/s, path 0.05 m; at most half the step the actuator allows)',
   'large-step': 'reference step through the steering limits (heading 0.2 rad, path 1 m, yaw rate 2 m/s² of lateral acceleration)',
   'initial-offset': 'start beside the path (path 0.5 m) or off its heading (heading 0.05 rad); not for a yaw-rate loop',
   misalignment: 'constant road-wheel angle misalignment of 0.01 rad from the end of the lead-in',
@@ -60,6 +63,12 @@ export interface ScenarioContext {
   readonly maxSteerAngle_rad: number;
   /** The schedule's speed range, m/s (for the ramps). */
   readonly range: { readonly minimum_mps: number; readonly maximum_mps: number };
+  /**
+   * The largest reference step the actuator allows at a speed without reaching its angle or rate limit (the
+   * breakpoints' actuator room, src/performance/actuator-room.ts), loop unit; absent: not known. The small step
+   * is kept within half of it, so that it stays in the linear range on a vehicle with a slow or fast actuator alike.
+   */
+  readonly linearRoomAt?: (speed_mps: number) => number;
 }
 
 /** Curvature of the curve scenarios at speed v: 2 m/s² of lateral acceleration, at most half the steering range in steady state (L + K·v²)·κ. */
@@ -89,8 +98,10 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
   const step = (size: number): PreparedScenario => ({ name, kind: 'step', size, judgeFrom_s: lead, setup: { ...base, referenceStep: { time_s: lead, size } } });
   const loop = context.loop;
   switch (name) {
-    case 'small-step':
-      return step(s.smallStep[loop]);
+    case 'small-step': {
+      const room = context.linearRoomAt?.(speed_mps);
+      return step(room === undefined || !(room > 0) ? s.smallStep[loop] : Math.min(s.smallStep[loop], SMALL_STEP_ROOM_FRACTION * room));
+    }
     case 'large-step': {
       if (loop !== 'yaw-rate') return step(s.largeStep[loop]);
       const steerPerYawRate = (context.parameters.cgToFrontAxle_m + context.parameters.cgToRearAxle_m + understeerGradient_radPerMps2(context.parameters) * speed_mps ** 2) / speed_mps;

@@ -71,6 +71,8 @@ export interface ScenarioTraces {
   readonly reference: Float64Array;
   readonly measurement: Float64Array;
   readonly error: Float64Array;
+  /** What the controller read as its feed-forward input (path curvature 1/m, or yaw-rate reference rad/s), already taken T_ff ahead. */
+  readonly feedForwardInput: Float64Array;
   readonly command_rad: Float64Array;
   readonly steerAngle_rad: Float64Array;
   /** The wheel's rate at the sample instant, rad/s. */
@@ -212,6 +214,7 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
     reference: new Float64Array(count),
     measurement: new Float64Array(count),
     error: new Float64Array(count),
+    feedForwardInput: new Float64Array(count),
     command_rad: new Float64Array(count),
     steerAngle_rad: new Float64Array(count),
     steerRate_radps: new Float64Array(count),
@@ -272,6 +275,7 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
     traces.reference[k] = reference;
     traces.measurement[k] = measurement;
     traces.error[k] = reference - measurement;
+    traces.feedForwardInput[k] = feedForwardInput;
     traces.steerAngle_rad[k] = x[STATE.steerAngle];
     traces.yawRate_radps[k] = x[STATE.yawRate];
     traces.lateralAcceleration_mps2[k] = lateralAcceleration_mps2(derivativeNow, x, v);

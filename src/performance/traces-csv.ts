@@ -19,6 +19,7 @@ export function tracesCsv(loop: LoopKind, runs: readonly { readonly scenario: st
     [`reference_${unit}`, 'reference'],
     [`measurement_${unit}`, 'measurement'],
     [`error_${unit}`, 'error'],
+    [loop === 'path' ? 'feedForwardInput_perM' : 'feedForwardInput_radps', 'feedForwardInput'],
     ['command_rad', 'command_rad'],
     ['steerAngle_rad', 'steerAngle_rad'],
     ['steerRate_radps', 'steerRate_radps'],

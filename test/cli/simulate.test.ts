@@ -21,7 +21,7 @@ describe('speedband simulate', () => {
     expect(code, io.err()).toBe(0);
     const lines = readFileSync(out, 'utf8').trimEnd().split('\n');
     expect(lines[0]).toBe(
-      'scenario,startSpeed_mps,time_s,speed_mps,distance_m,reference_rad,measurement_rad,error_rad,command_rad,steerAngle_rad,steerRate_radps,yawRate_radps,lateralAcceleration_mps2,lateralOffset_m,headingError_rad',
+      'scenario,startSpeed_mps,time_s,speed_mps,distance_m,reference_rad,measurement_rad,error_rad,feedForwardInput_radps,command_rad,steerAngle_rad,steerRate_radps,yawRate_radps,lateralAcceleration_mps2,lateralOffset_m,headingError_rad',
     );
     // 2 scenarios × 2 speeds, 31 s at 0.01 s: 3101 samples each.
     expect(lines.length - 1).toBe(4 * 3101);
