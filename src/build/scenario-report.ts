@@ -45,13 +45,13 @@ export function scenarioTable(loop: LoopKind, runs: readonly ScenarioRunAt[]): s
 }
 
 /** The scenario check's verdict and the limits it broke (first 12). */
-export function formatScenarioCheck(check: ScheduleScenarioCheck): string {
+export function formatScenarioCheck(check: ScheduleScenarioCheck, loop: LoopKind): string {
   const l = check.limits;
   const lines = [
     `  scenarios (${check.scenarios.length}) at ${check.speeds_mps.map((speed) => speed.toFixed(2)).join(', ')} m/s and through the range, on the ${check.model}: ` +
       (check.passed ? 'PASSED' : `FAILED, ${check.failures.length} limit(s) broken`),
     `  limits: no sustained oscillation; small step overshoot ≤ ${l.maximumOvershoot_pct} %, both steps settle; offset, misalignment and force removed within ${l.maximumRecoveryTime_s} s; ` +
-      `path lane change ≤ ${l.maximumLaneChangeError_m} m; error while the speed changes ≤ ${l.maximumSpeedChangeError} (loop unit)`,
+      `path lane change ≤ ${l.maximumLaneChangeError_m} m; error while the speed changes ≤ ${l.maximumSpeedChangeError} ${UNIT[loop]}`,
   ];
   for (const failure of check.failures.slice(0, 12)) lines.push(`    ${failure.message}`);
   if (check.failures.length > 12) lines.push(`    … and ${check.failures.length - 12} more (schedule.json check.scenarios.failures)`);

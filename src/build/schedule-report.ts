@@ -84,7 +84,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
     lines.push('', '  failing speeds (first 10):');
     for (const failure of schedule.check.failures.slice(0, 10)) lines.push(`    ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}`);
   }
-  if (schedule.check.scenarios !== undefined) lines.push('', formatScenarioCheck(schedule.check.scenarios).trimEnd());
+  if (schedule.check.scenarios !== undefined) lines.push('', formatScenarioCheck(schedule.check.scenarios, schedule.loop.kind).trimEnd());
   if (schedule.check.speedChange !== undefined) lines.push(formatSpeedChange(schedule.check.speedChange).trimEnd());
   return `${lines.join('\n')}\n`;
 }

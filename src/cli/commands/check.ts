@@ -54,7 +54,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       `${schedulePath}: schema valid, checksum ${schedule.checksum.value.slice(0, 16)}… verified\n` +
         notes.map((note) => `${note}\n`).join('') +
         formatRecheck(`model: ${model.description}`, result, schedule, model.kind) +
-        (scenarios.check === null ? '' : formatScenarioCheck(scenarios.check)),
+        (scenarios.check === null ? '' : formatScenarioCheck(scenarios.check, schedule.loop.kind)),
     );
   }
   return passed ? EXIT.ok : EXIT.failed;
