@@ -5,7 +5,7 @@ import { runScenario } from '../../src/performance/scenario-run.js';
 import { simulateScenario } from '../../src/performance/scenario-simulation.js';
 import { understeerGradient_radPerMps2 } from '../../src/vehicle/single-track.js';
 import { runPython } from '../helpers/python.js';
-import { constantController, LINEAR_SETTINGS, quietSetup, VAN, vanVehicle } from './scenario-helpers.js';
+import { constantController, LINEAR_SETTINGS, quietSetup, VAN, VAN_FOR_PYTHON, vanVehicle } from './scenario-helpers.js';
 
 const MISALIGNMENT_RAD = 0.004;
 
@@ -121,13 +121,7 @@ describe('the limit-cycle detector', () => {
   it('fires on a saturating heading loop, with the describing function\'s amplitude and period within 20 %', () => {
     const kp = 12;
     const predicted = runPython<{ amplitude: number; period: number; target: number }>(DESCRIBING_FUNCTION, {
-      m: VAN.mass_kg,
-      Iz: VAN.yawInertia_kgm2,
-      a: VAN.cgToFrontAxle_m,
-      b: VAN.cgToRearAxle_m,
-      Cf: VAN.frontCorneringStiffness_NPerRad,
-      Cr: VAN.rearCorneringStiffness_NPerRad,
-      tau: VAN.actuatorLag_s,
+      ...VAN_FOR_PYTHON,
       v: speed,
       theta: VAN.actuatorDelay_s + LINEAR_SETTINGS.computationLatency_s + LINEAR_SETTINGS.sampleTime_s / 2,
       kp,

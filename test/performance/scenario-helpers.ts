@@ -17,6 +17,17 @@ export const VAN: SingleTrackParameters = {
   actuatorDelay_s: 0.043,
 };
 
+/** The van's single-track numbers under the short names the python cross-checks use. */
+export const VAN_FOR_PYTHON = {
+  m: VAN.mass_kg,
+  Iz: VAN.yawInertia_kgm2,
+  a: VAN.cgToFrontAxle_m,
+  b: VAN.cgToRearAxle_m,
+  Cf: VAN.frontCorneringStiffness_NPerRad,
+  Cr: VAN.rearCorneringStiffness_NPerRad,
+  tau: VAN.actuatorLag_s,
+} as const;
+
 export function vanVehicle(limits: { maxSteerAngle_rad?: number; maxSteerRate_radps?: number } = {}): ScenarioVehicle {
   return { parameters: VAN, maxSteerAngle_rad: limits.maxSteerAngle_rad ?? Infinity, maxSteerRate_radps: limits.maxSteerRate_radps ?? Infinity };
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { simulateScenario } from '../../src/performance/scenario-simulation.js';
 import { runPython } from '../helpers/python.js';
-import { constantController, LINEAR_SETTINGS, quietSetup, VAN, vanVehicle } from './scenario-helpers.js';
+import { constantController, LINEAR_SETTINGS, quietSetup, VAN, VAN_FOR_PYTHON, vanVehicle } from './scenario-helpers.js';
 
 /**
  * The path loop built independently in python: the single-track model with path-relative error states written
@@ -84,13 +84,7 @@ describe('simulateScenario at constant speed, no limit reached', () => {
     const ts = LINEAR_SETTINGS.sampleTime_s;
     const inputs = Array.from(ours.time_s, (t) => [t >= 1 ? 0.05 : 0, t >= 4 ? 0.002 : 0, t >= 8 ? 800 : 0]);
     const reference = runPython<{ y: number[]; u: number[] }>(PATH_LOOP_DLSIM, {
-      m: VAN.mass_kg,
-      Iz: VAN.yawInertia_kgm2,
-      a: VAN.cgToFrontAxle_m,
-      b: VAN.cgToRearAxle_m,
-      Cf: VAN.frontCorneringStiffness_NPerRad,
-      Cr: VAN.rearCorneringStiffness_NPerRad,
-      tau: VAN.actuatorLag_s,
+      ...VAN_FOR_PYTHON,
       v: speed,
       preview,
       Ts: ts,

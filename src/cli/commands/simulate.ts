@@ -1,7 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { optionalInputs, withLogColumnOptions } from '../log-columns.js';
+import { withLogColumnOptions } from '../log-columns.js';
 import { SAFETY_EPILOGUE } from '../safety.js';
 
 /**
@@ -15,20 +15,8 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const { resolveVehiclePath, loadVehicle } = await import('../../vehicle/load.js');
   const { SCENARIO_NAMES, SCENARIO_DESCRIPTIONS } = await import('../../performance/scenario-catalogue.js');
   if (out !== undefined) {
-    const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
-    const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
-    checkOutputPaths(
-      [{ path: out, option: '--out' }],
-      [
-        { path: schedulePath, role: 'schedule' },
-        { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
-        ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
-        ...optionalInputs(args, [
-          ['models', 'models file'],
-          ['log-profile', 'log profile'],
-        ]),
-      ],
-    );
+    const { modelInputPaths } = await import('../check-model-args.js');
+    checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }, ...(await modelInputPaths(args))]);
   }
   const names = ((args.scenario as unknown[] | undefined) ?? []).map(String);
   for (const name of names) {
