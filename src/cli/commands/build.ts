@@ -123,7 +123,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
 
 export const command: CommandModule = {
   command: 'build',
-  describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, write schedule.json',
+  describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, drive it through the scenarios of speedband simulate (plan check.scenarios, default on) with a speed-change certificate, write schedule.json',
   builder: (yargs) =>
     withLogColumnOptions(yargs)
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder' })

@@ -85,7 +85,7 @@ async function checkScenarios(
 
 export const command: CommandModule = {
   command: 'check <schedule>',
-  describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), and stability margins of its own gains at every speed of its range. Exit 0 passed, 1 failed, 2 bad input',
+  describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), stability margins of its own gains at every speed of its range, and (when the schedule records them) its scenarios driven as firmware runs them (see speedband simulate). Exit 0 passed, 1 failed, 2 bad input',
   builder: (yargs) =>
     withLogColumnOptions(yargs)
       .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build' })

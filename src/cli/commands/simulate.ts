@@ -97,15 +97,22 @@ export const command: CommandModule = {
   builder: (yargs) =>
     withLogColumnOptions(yargs)
       .usage(
-        'speedband simulate SCHEDULE --vehicle V [--models M | --logs LOG… | --nominal] [--scenario NAME…] [--speed-mps V…] [--out traces.csv]\n\n' +
-          'Scenarios (default: all that apply to the loop):\n' +
-          '  small-step, large-step   reference steps in the linear range and through the steering limits\n' +
-          '  initial-offset           start beside the path (path loop) or off its heading (heading loop)\n' +
-          '  misalignment, side-force constant road-wheel misalignment; lateral force step at the centre of gravity\n' +
-          '  lane-change, curve-entry path manoeuvres with the feed-forward on\n' +
-          '  speed-ramp-in-curve, braking-in-curve   the speed changing through the whole range in a curve (once, not per speed)\n\n' +
-          'The model: the one the schedule records (default), --models/--logs (the joint single-track fit), or --nominal (the vehicle file\'s values).\n' +
-          'At constant speed each run is exact at the samples; a speed change is integrated by fourth-order Runge–Kutta, its step halved until no figure moves by 0.1 %.',
+        [
+          'speedband simulate SCHEDULE --vehicle V [--models M | --logs LOG… | --nominal] [--scenario NAME…] [--speed-mps V…] [--out traces.csv]',
+          '',
+          'Scenarios (default: every one that applies to the loop, at low, middle and top speed):',
+          '  small-step: a reference step meant to stay in the linear range',
+          '  large-step: a reference step through the steering limits (heading 0.2 rad, path 1 m)',
+          '  initial-offset: start 0.5 m beside the path (path loop) or 0.05 rad off its heading (heading loop)',
+          '  misalignment: a constant 0.01 rad road-wheel misalignment',
+          '  side-force: a lateral force step of 5 % of the weight at the centre of gravity (crosswind-like)',
+          '  lane-change, curve-entry: path manoeuvres with the feed-forward on',
+          '  speed-ramp-in-curve, braking-in-curve: 1 m/s² up and 2 m/s² down through the whole range (run once)',
+          '',
+          'Figures per run: peak and final error (loop unit), overshoot, settling time and distance (to 2 % of a step, or 5 % of the peak error), peak steering angle and rate, time at each limit, peak lateral acceleration, and any sustained oscillation (limit cycle) in the last 40 % of the run.',
+          '',
+          'Model: the one the schedule records (default), --models/--logs (the joint single-track fit) or --nominal. Exact at the samples at constant speed; where the speed changes, fourth-order Runge-Kutta with its step halved until no figure moves by 0.1 %. Exit 0 done, 2 bad input.',
+        ].join('\n'),
       )
       .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build' })
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: steering limits, and the nominal model for --nominal' })
