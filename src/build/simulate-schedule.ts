@@ -5,7 +5,7 @@
  */
 import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
-import { prepareScenario, RANGE_SCENARIOS, SCENARIO_NAMES, type ScenarioName } from '../performance/scenario-catalogue.js';
+import { prepareScenario, RANGE_SCENARIOS, SCENARIO_NAMES, type ScenarioName, type ScenarioSizes } from '../performance/scenario-catalogue.js';
 import { runScenario, type ScenarioRun } from '../performance/scenario-run.js';
 import { judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
 import type { ScenarioController, ScenarioVehicle } from '../performance/scenario-simulation.js';
@@ -48,6 +48,8 @@ export interface SimulateScheduleInput {
   readonly scenarios: readonly ScenarioName[];
   /** Speeds of the per-speed scenarios, m/s. */
   readonly speeds: readonly number[];
+  /** Sizes replacing the scenario defaults (simulate's options). */
+  readonly sizes?: ScenarioSizes;
 }
 
 /** The scenario controller a schedule describes. */
@@ -83,6 +85,7 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
     maxSteerAngle_rad: input.steeringLimits.maxSteerAngle_rad,
     range: schedule.check.range,
     linearRoomAt: actuatorRoomLookup(schedule),
+    ...(input.sizes === undefined ? {} : { sizes: input.sizes }),
   };
   const runs: ScenarioRunAt[] = [];
   for (const name of input.scenarios) {

@@ -69,6 +69,16 @@ export interface ScenarioContext {
    * is kept within half of it, so that it stays in the linear range on a vehicle with a slow or fast actuator alike.
    */
   readonly linearRoomAt?: (speed_mps: number) => number;
+  /** Sizes that replace the defaults (a user's own lane change or speed change). */
+  readonly sizes?: ScenarioSizes;
+}
+
+/** The scenario sizes a user may give; absent fields keep the defaults. */
+export interface ScenarioSizes {
+  readonly laneChangeWidth_m?: number;
+  readonly laneChangeLength_m?: number;
+  readonly acceleration_mps2?: number;
+  readonly deceleration_mps2?: number;
 }
 
 /** Curvature of the curve scenarios at speed v: 2 m/s² of lateral acceleration, at most half the steering range in steady state (L + K·v²)·κ. */
@@ -125,13 +135,14 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
       return { name, kind: 'disturbance', size, judgeFrom_s: lead, setup: { ...base, lateralForce: { time_s: lead, size } } };
     }
     case 'lane-change': {
-      const length = Math.max(d.laneChangeDuration_s * speed_mps, d.laneChangeShortestLength_m);
+      const length = context.sizes?.laneChangeLength_m ?? Math.max(d.laneChangeDuration_s * speed_mps, d.laneChangeShortestLength_m);
+      const width = context.sizes?.laneChangeWidth_m ?? d.laneChangeSize_m;
       return {
         name,
         kind: 'disturbance',
-        size: d.laneChangeSize_m,
+        size: width,
         judgeFrom_s: 0,
-        setup: { ...base, duration_s: lead + length / speed_mps + s.settle_s, path: laneChangePath(d.laneChangeSize_m, length) },
+        setup: { ...base, duration_s: lead + length / speed_mps + s.settle_s, path: laneChangePath(width, length) },
       };
     }
     case 'curve-entry': {
@@ -146,7 +157,7 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
         initial_mps: accelerating ? minimum_mps : maximum_mps,
         final_mps: accelerating ? maximum_mps : minimum_mps,
         changeStart_s: lead + s.rampHold_s,
-        acceleration_mps2: accelerating ? s.rampAcceleration_mps2 : s.brakingDeceleration_mps2,
+        acceleration_mps2: accelerating ? (context.sizes?.acceleration_mps2 ?? s.rampAcceleration_mps2) : (context.sizes?.deceleration_mps2 ?? s.brakingDeceleration_mps2),
       };
       return rampScenario(name, context, profile);
     }

@@ -38,6 +38,25 @@ describe('speedband simulate', () => {
     expect(result.runs[0]).toMatchObject({ scenario: 'braking-in-curve', speed_mps: 25, integrator: { name: 'runge-kutta-4', converged: true }, limitCycle: null });
   });
 
+  it('takes the lane change and the speed change the user gives (the path the vehicle follows has that width; the ramp lasts range/acceleration)', async () => {
+    const io = recordingIo();
+    const out = join(folder, 'own.csv');
+    const args = ['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'lane-change', 'speed-ramp-in-curve', '--speed-mps', '10'];
+    expect(await runCli([...args, '--lane-change-width-m', '3', '--lane-change-length-m', '40', '--acceleration-mps2', '3', '--out', out], io), io.err()).toBe(0);
+    const rows = readFileSync(out, 'utf8').trimEnd().split('\n').slice(1).map((line) => line.split(','));
+    const lane = rows.filter((row) => row[0] === 'lane-change');
+    // 1 s lead-in + 40 m at 10 m/s + 30 s: 3501 samples; the reference stays 0 and the vehicle ends 3 m over (offset from the path ≈ 0).
+    expect(lane).toHaveLength(3501);
+    // The feed-forward reads the yaw-rate reference v·κ: the quintic's largest curvature is (10/√3)·w/L² (d²/ds² of
+    // w·(10q³ − 15q⁴ + 6q⁵) at q = (3 − √3)/6; common practice), here 10 m/s × 5.7735 × 3 m / (40 m)².
+    const largest = Math.max(...lane.map((row) => Math.abs(Number(row[8]))));
+    expect(largest).toBeCloseTo((10 * (10 / Math.sqrt(3)) * 3) / 1600, 4);
+    const ramp = rows.filter((row) => row[0] === 'speed-ramp-in-curve');
+    // Range 4–25 m/s at 3 m/s²: 7 s of change between 11 s of lead-in and hold and 10 s of hold.
+    expect(Number(ramp[ramp.length - 1][2])).toBeCloseTo(11 + 7 + 10, 9);
+    expect(await runCli([...args, '--acceleration-mps2', '-1'], recordingIo())).toBe(2);
+  });
+
   it('refuses an unknown scenario with exit 2, naming the closest and every one', async () => {
     const io = recordingIo();
     expect(await runCli(['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'lane-chnage'], io)).toBe(2);

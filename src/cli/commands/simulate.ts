@@ -33,6 +33,18 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   for (const speed of speeds) {
     if (!(Number.isFinite(speed) && speed > 0)) throw new SpeedbandError('cli.invalidOption', `--speed-mps ${String(speed)} is not a forward speed — give speeds above 0 m/s`);
   }
+  const sizes: Record<string, number> = {};
+  for (const [option, field] of [
+    ['lane-change-width-m', 'laneChangeWidth_m'],
+    ['lane-change-length-m', 'laneChangeLength_m'],
+    ['acceleration-mps2', 'acceleration_mps2'],
+    ['deceleration-mps2', 'deceleration_mps2'],
+  ] as const) {
+    if (args[option] === undefined) continue;
+    const value = Number(args[option]);
+    if (!(Number.isFinite(value) && value > 0)) throw new SpeedbandError('cli.invalidOption', `--${option} is ${String(args[option])} — give a positive number`);
+    sizes[field] = value;
+  }
   const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../build/simulate-schedule.js');
   const { checkModelFromArgs } = await import('../check-model-args.js');
@@ -54,6 +66,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
     scenarios,
     speeds: speeds.length > 0 ? speeds : scenarioSpeeds(schedule, false),
+    sizes,
   });
   let outcome: string | null = null;
   if (out !== undefined) {
@@ -121,6 +134,10 @@ export const command: CommandModule = {
       .option('nominal', { type: 'boolean', default: false, describe: "Simulate on the vehicle file's nominal cornering stiffnesses and actuator" })
       .option('scenario', { type: 'array', string: true, describe: 'Scenario names (see above); default all that apply' })
       .option('speed-mps', { type: 'array', number: true, describe: 'Speeds for the per-speed scenarios, m/s; default: low, middle and top of the schedule\'s range' })
+      .option('lane-change-width-m', { type: 'number', describe: 'Lane change: sideways distance, m (default 3.5)' })
+      .option('lane-change-length-m', { type: 'number', describe: 'Lane change: distance travelled while changing lane, m (default max(4 s of travel, 20 m))' })
+      .option('acceleration-mps2', { type: 'number', describe: 'speed-ramp-in-curve: acceleration through the range, m/s² (default 1)' })
+      .option('deceleration-mps2', { type: 'number', describe: 'braking-in-curve: deceleration through the range, m/s² (default 2)' })
       .option('out', { type: 'string', describe: 'Write the traces as CSV (time_s, speed_mps, reference/measurement/error in the loop\'s unit, command_rad, steerAngle_rad, …)' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
       .option('json', { type: 'boolean', default: false, describe: 'Print the metrics as JSON' }),
@@ -128,6 +145,7 @@ export const command: CommandModule = {
     ['speedband simulate schedule.json --vehicle vehicles/parcel-van --out traces.csv', 'Every scenario at low, middle and top speed, on the model the schedule records'],
     ['speedband simulate schedule.json --vehicle van.json --scenario large-step --speed-mps 3 6', 'One scenario at two speeds'],
     ['speedband simulate schedule.json --vehicle van-after-change.json --nominal --scenario braking-in-curve', 'The schedule on a changed vehicle, braking through the range'],
+    ['speedband simulate schedule.json --vehicle van.json --scenario lane-change --lane-change-width-m 3 --lane-change-length-m 40 --speed-mps 10', 'Your own lane change'],
   ],
   run,
 };
