@@ -162,7 +162,7 @@ print(json.dumps({'overshoot': 100 * (max(out) / step - 1), 'tailSpread': max(ta
 `;
 
 describe('the default heading plan on a 0.2 rad step through the steering limits (independent nonlinear simulation)', () => {
-  it('parcel van at its breakpoint nearest 3 m/s: overshoot within 1 % of ours and ≤ 25 %, no limit cycle (the last 10 s within 1 mrad)', () => {
+  it('parcel van at its breakpoint nearest 3 m/s: overshoot within 1 % of ours and ≤ 25 %, no limit cycle (the last 10 s within 1 mrad)', async () => {
     const schedule = schedules.get('parcel-van heading (default)') as ScheduleFile;
     const row = schedule.breakpoints.reduce((best, candidate) => (Math.abs(candidate.speed_mps - 3) < Math.abs(best.speed_mps - 3) ? candidate : best));
     const model = schedule.provenance.model as Record<string, number>;
@@ -192,6 +192,15 @@ describe('the default heading plan on a 0.2 rad step through the steering limits
     expect(Math.abs(result.final - 0.2)).toBeLessThan(1e-3);
     expect(result.overshoot).toBeLessThanOrEqual(25);
     expect(Math.abs(result.overshoot - row.timeDomain!.limitedStep!.overshoot_pct)).toBeLessThan(1);
+    // The scenario simulator's large step (0.2 rad, path-relative states, the schedule's lookup at the breakpoint) too.
+    const { simulateSchedule, scenarioParameters } = await import('../../src/build/simulate-schedule.js');
+    const { recordedCheckModel } = await import('../../src/build/recheck-schedule.js');
+    const steeringLimits = schedule.check.timeDomain.steeringLimits;
+    const { parameters } = scenarioParameters(recordedCheckModel(schedule), { name: 'unused', mass_kg: 1, yawInertia_kgm2: 1, cgToFrontAxle_m: 1, cgToRearAxle_m: 1, steeringRatio: 1, ...steeringLimits });
+    const [run] = simulateSchedule({ schedule, parameters, steeringLimits, scenarios: ['large-step'], speeds: [row.speed_mps] });
+    expect(run.scenario.size).toBe(0.2);
+    expect(run.metrics.limitCycle).toBeNull();
+    expect(Math.abs(run.metrics.overshoot_pct! - result.overshoot)).toBeLessThan(0.5);
   });
 });
 
