@@ -50,6 +50,8 @@ export interface SimulateScheduleInput {
   readonly speeds: readonly number[];
   /** Sizes replacing the scenario defaults (simulate's options). */
   readonly sizes?: ScenarioSizes;
+  /** For judging only: runs hold their values once at rest (src/performance/scenario-simulation.ts REST); traces are then not exact. */
+  readonly stopAtRest?: boolean;
 }
 
 /** The scenario controller a schedule describes. */
@@ -96,7 +98,7 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
     for (const speed of speeds) {
       const prepared = prepareScenario(name, context, speed);
       if (prepared === null) continue;
-      runs.push({ speed_mps: prepared.setup.speed.initial_mps, ...runScenario(vehicle, controller, prepared) });
+      runs.push({ speed_mps: prepared.setup.speed.initial_mps, ...runScenario(vehicle, controller, prepared, input.stopAtRest === true) });
     }
   }
   return runs;
@@ -113,8 +115,8 @@ export function judgeScheduleScenarios(input: Omit<SimulateScheduleInput, 'scena
   const figured = new Set(input.schedule.breakpoints.filter((row) => row.timeDomain !== null).map((row) => row.speed_mps));
   const linear = new Set<ScenarioName>(LINEAR_SCENARIOS);
   const runs = [
-    ...simulateSchedule({ ...input, scenarios: SCENARIO_NAMES.filter((name) => !linear.has(name)), speeds }),
-    ...simulateSchedule({ ...input, scenarios: LINEAR_SCENARIOS, speeds: speeds.filter((speed) => !figured.has(speed)) }),
+    ...simulateSchedule({ ...input, scenarios: SCENARIO_NAMES.filter((name) => !linear.has(name)), speeds, stopAtRest: true }),
+    ...simulateSchedule({ ...input, scenarios: LINEAR_SCENARIOS, speeds: speeds.filter((speed) => !figured.has(speed)), stopAtRest: true }),
   ];
   const failures = runs
     .flatMap((run) => judgeScenarioRun(run.scenario.name, run.speed_mps, run.metrics, input.limits, input.schedule.loop.kind))

@@ -19,27 +19,54 @@ export interface ActuatorPiece {
   readonly atRateLimit: boolean;
 }
 
-/** The pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad). */
-export function actuatorPieces(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number): ActuatorPiece[] {
-  if (duration_s <= 0) return [];
+/** Receives one piece (the fields of ActuatorPiece; `startAngle` NaN when the angle is not set). */
+export type ActuatorPieceVisitor = (kind: 'free' | 'track', duration_s: number, input: number, startAngle: number, atRateLimit: boolean) => void;
+
+/**
+ * Visit the pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad), in order
+ * (no allocation: the simulators' inner loop).
+ */
+export function visitActuatorPieces(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number, visit: ActuatorPieceVisitor): void {
+  if (duration_s <= 0) return;
   const error = target - angle;
   const direction = Math.sign(error);
   if (lag_s > 0) {
     const band = rate_radps * lag_s;
-    if (!(Math.abs(error) > band)) return [{ kind: 'track', duration_s, input: target, atRateLimit: false }];
+    if (!(Math.abs(error) > band)) {
+      visit('track', duration_s, target, Number.NaN, false);
+      return;
+    }
     const ramp = (Math.abs(error) - band) / rate_radps;
-    if (ramp >= duration_s) return [{ kind: 'free', duration_s, input: direction * rate_radps, atRateLimit: true }];
-    return [
-      { kind: 'free', duration_s: ramp, input: direction * rate_radps, atRateLimit: true },
-      { kind: 'track', duration_s: duration_s - ramp, input: target, startAngle: target - direction * band, atRateLimit: false },
-    ];
+    if (ramp >= duration_s) {
+      visit('free', duration_s, direction * rate_radps, Number.NaN, true);
+      return;
+    }
+    visit('free', ramp, direction * rate_radps, Number.NaN, true);
+    visit('track', duration_s - ramp, target, target - direction * band, false);
+    return;
   }
-  if (error !== 0 && !Number.isFinite(rate_radps)) return [{ kind: 'free', duration_s, input: 0, startAngle: target, atRateLimit: false }];
-  if (error === 0) return [{ kind: 'free', duration_s, input: 0, atRateLimit: false }];
+  if (error !== 0 && !Number.isFinite(rate_radps)) {
+    visit('free', duration_s, 0, target, false);
+    return;
+  }
+  if (error === 0) {
+    visit('free', duration_s, 0, Number.NaN, false);
+    return;
+  }
   const ramp = Math.abs(error) / rate_radps;
-  if (ramp >= duration_s) return [{ kind: 'free', duration_s, input: direction * rate_radps, atRateLimit: true }];
-  return [
-    { kind: 'free', duration_s: ramp, input: direction * rate_radps, atRateLimit: true },
-    { kind: 'free', duration_s: duration_s - ramp, input: 0, startAngle: target, atRateLimit: false },
-  ];
+  if (ramp >= duration_s) {
+    visit('free', duration_s, direction * rate_radps, Number.NaN, true);
+    return;
+  }
+  visit('free', ramp, direction * rate_radps, Number.NaN, true);
+  visit('free', duration_s - ramp, 0, target, false);
+}
+
+/** The pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad), as records. */
+export function actuatorPieces(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number): ActuatorPiece[] {
+  const pieces: ActuatorPiece[] = [];
+  visitActuatorPieces(angle, target, duration_s, lag_s, rate_radps, (kind, duration, input, startAngle, atRateLimit) => {
+    pieces.push({ kind, duration_s: duration, input, ...(Number.isNaN(startAngle) ? {} : { startAngle }), atRateLimit });
+  });
+  return pieces;
 }

@@ -104,6 +104,7 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
     misalignment: null,
     initialLateralOffset_m: 0,
     initialHeadingError_rad: 0,
+    restAfter_s: lead,
   };
   const step = (size: number): PreparedScenario => ({ name, kind: 'step', size, judgeFrom_s: lead, setup: { ...base, referenceStep: { time_s: lead, size } } });
   const loop = context.loop;
@@ -125,7 +126,7 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
         kind: 'disturbance',
         size,
         judgeFrom_s: 0,
-        setup: { ...base, duration_s: s.settle_s, initialLateralOffset_m: loop === 'path' ? size : 0, initialHeadingError_rad: loop === 'heading' ? size : 0 },
+        setup: { ...base, duration_s: s.settle_s, restAfter_s: 0, initialLateralOffset_m: loop === 'path' ? size : 0, initialHeadingError_rad: loop === 'heading' ? size : 0 },
       };
     }
     case 'misalignment':
@@ -142,7 +143,7 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
         kind: 'disturbance',
         size: width,
         judgeFrom_s: 0,
-        setup: { ...base, duration_s: lead + length / speed_mps + s.settle_s, path: laneChangePath(width, length) },
+        setup: { ...base, duration_s: lead + length / speed_mps + s.settle_s, restAfter_s: lead + length / speed_mps, path: laneChangePath(width, length) },
       };
     }
     case 'curve-entry': {
@@ -185,6 +186,7 @@ export function rampScenario(name: ScenarioName, context: ScenarioContext, profi
       misalignment: null,
       initialLateralOffset_m: 0,
       initialHeadingError_rad: 0,
+      restAfter_s: profile.changeStart_s + changeDuration_s(profile),
     },
   };
 }

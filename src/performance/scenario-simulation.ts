@@ -19,7 +19,7 @@ import type { LoopSpecification } from '../loops/types.js';
 import { matrixExponential } from '../lti/matrix-exponential.js';
 import { splitDelay } from '../verify/sampled-plant.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
-import { actuatorPieces, type ActuatorPiece } from './actuator-motion.js';
+import { visitActuatorPieces } from './actuator-motion.js';
 import { INPUTS as INPUT_COUNT, lateralAcceleration_mps2, pathFrameDerivative, pathFrameDerivativeAt, pathFrameSystem, STATE as STATE_INDEX, STATES as STATE_COUNT } from './path-frame-vehicle.js';
 import type { PathShape } from './scenarios.js';
 import { distanceAt_m, speedAt_mps, type SpeedProfile } from './speed-profile.js';
@@ -61,6 +61,8 @@ export interface ScenarioSetup {
   readonly misalignment: StepChange | null;
   readonly initialLateralOffset_m: number;
   readonly initialHeadingError_rad: number;
+  /** From this time on no input changes any more (steps made, manoeuvre and speed change over), s. */
+  readonly restAfter_s: number;
 }
 
 export interface ScenarioTraces {
@@ -99,7 +101,15 @@ const STATE = { ...STATE_INDEX };
 const valueAt = (change: StepChange | null, time_s: number): number => (change !== null && time_s >= change.time_s ? change.size : 0);
 
 /** Simulate `setup` (see the file comment); `stepsPerSample` is used only when the speed changes. */
-export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioController, setup: ScenarioSetup, stepsPerSample: number): ScenarioTraces {
+/**
+ * Stopping at rest (for judging, not for traces): once every input has stopped changing (`setup.restAfter_s`) and for
+ * REST.window_s the error, the command and the wheel angle have each changed by at most REST.relativeChange of their
+ * largest magnitude so far per sample, the run holds its last values to the end (time, speed and distance still
+ * advance). What is left out moves a figure by at most about count·relativeChange of its scale (our choice).
+ */
+export const REST = { window_s: 1, relativeChange: 1e-9 } as const;
+
+export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioController, setup: ScenarioSetup, stepsPerSample: number, stopAtRest = false): ScenarioTraces {
   const { parameters } = vehicle;
   const settings = controller.settings;
   const ts = settings.sampleTime_s;
@@ -176,35 +186,38 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
   let peakRate = 0;
   let atRateLimit = 0;
   let atAngleLimit = 0;
-  const rateAtStart = (piece: ActuatorPiece): number => (piece.kind === 'free' ? piece.input : (piece.input - x[STATE.steerAngle]) / lag);
+  // The piece visitor (no allocation per sample): integrates one piece from `pieceTime` and records its rate at the start.
+  let pieceTime = 0;
+  let firstRate = Number.NaN;
+  const integratePiece = (kind: 'free' | 'track', duration: number, input: number, startAngle: number, atLimit: boolean): void => {
+    if (!Number.isNaN(startAngle)) x[STATE.steerAngle] = startAngle;
+    const rate = kind === 'free' ? input : (input - x[STATE.steerAngle]) / lag;
+    if (Number.isNaN(firstRate)) firstRate = rate;
+    peakRate = Math.max(peakRate, Math.abs(rate));
+    if (atLimit) atRateLimit += duration;
+    if (exactHere !== null) {
+      const { phi, gamma } = exactPiece(exactHere, kind, duration);
+      inputsAt(pieceTime + duration / 2, input);
+      for (let i = 0; i < STATES; i++) {
+        let sum = 0;
+        for (let j = 0; j < STATES; j++) sum += phi[i * STATES + j] * x[j];
+        for (let j = 0; j < INPUTS; j++) sum += gamma[i * INPUTS + j] * inputs[j];
+        scratch[i] = sum;
+      }
+      x.set(scratch);
+    } else {
+      const steps = Math.max(1, Math.ceil((duration / ts) * stepsPerSample - 1e-9));
+      const h = duration / steps;
+      for (let s = 0; s < steps; s++) rungeKutta(pieceTime + s * h, h, kind, input);
+    }
+    pieceTime += duration;
+  };
   /** Advance from t0 over h seconds with the delayed, angle-limited command c held; returns the wheel rate at t0. */
   const advance = (t0: number, c: number, h: number): number => {
-    let t = t0;
-    let first = Number.NaN;
-    for (const piece of actuatorPieces(x[STATE.steerAngle], c, h, lag, vehicle.maxSteerRate_radps)) {
-      if (piece.startAngle !== undefined) x[STATE.steerAngle] = piece.startAngle;
-      const rate = rateAtStart(piece);
-      if (Number.isNaN(first)) first = rate;
-      peakRate = Math.max(peakRate, Math.abs(rate));
-      if (piece.atRateLimit) atRateLimit += piece.duration_s;
-      if (exactHere !== null) {
-        const { phi, gamma } = exactPiece(exactHere, piece.kind, piece.duration_s);
-        inputsAt(t + piece.duration_s / 2, piece.input);
-        for (let i = 0; i < STATES; i++) {
-          let sum = 0;
-          for (let j = 0; j < STATES; j++) sum += phi[i * STATES + j] * x[j];
-          for (let j = 0; j < INPUTS; j++) sum += gamma[i * INPUTS + j] * inputs[j];
-          scratch[i] = sum;
-        }
-        x.set(scratch);
-      } else {
-        const steps = Math.max(1, Math.ceil((piece.duration_s / ts) * stepsPerSample - 1e-9));
-        const h = piece.duration_s / steps;
-        for (let s = 0; s < steps; s++) rungeKutta(t + s * h, h, piece.kind, piece.input);
-      }
-      t += piece.duration_s;
-    }
-    return Number.isNaN(first) ? 0 : first;
+    pieceTime = t0;
+    firstRate = Number.NaN;
+    visitActuatorPieces(x[STATE.steerAngle], c, h, lag, vehicle.maxSteerRate_radps, integratePiece);
+    return Number.isNaN(firstRate) ? 0 : firstRate;
   };
 
   const traces = {
@@ -231,8 +244,24 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
   let lookedUpSpeed = Number.NaN;
   let scheduled = controller.at(setup.speed.initial_mps);
   const derivativeNow = new Float64Array(STATES);
+  const restWindow = Math.max(1, Math.round(REST.window_s / ts));
+  let quietSamples = 0;
+  let largestError = 0;
+  let largestCommand = 0;
+  let largestAngle = 0;
   for (let k = 0; k < count; k++) {
     const t = k * ts;
+    if (stopAtRest && k > 0 && t > setup.restAfter_s && quietSamples >= restWindow) {
+      // At rest: hold the last values to the end (see REST); time, speed and distance go on.
+      for (const values of Object.values(traces)) values.fill(values[k - 1], k);
+      traces.steerRate_radps.fill(0, k);
+      for (let j = k; j < count; j++) {
+        traces.time_s[j] = j * ts;
+        traces.speed_mps[j] = speedAt_mps(setup.speed, j * ts);
+        traces.distance_m[j] = distanceAt_m(setup.speed, j * ts);
+      }
+      break;
+    }
     const v = speedAt_mps(setup.speed, t);
     const s = pathS(t);
     if (v !== lookedUpSpeed) {
@@ -281,6 +310,14 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
     traces.lateralAcceleration_mps2[k] = lateralAcceleration_mps2(derivativeNow, x, v);
     traces.lateralOffset_m[k] = x[STATE.lateralOffset];
     traces.headingError_rad[k] = x[STATE.headingError];
+    if (stopAtRest && k > 0) {
+      largestError = Math.max(largestError, Math.abs(traces.error[k]));
+      largestCommand = Math.max(largestCommand, Math.abs(command[k]));
+      largestAngle = Math.max(largestAngle, Math.abs(x[STATE.steerAngle]));
+      const still = (values: Float64Array, largest: number): boolean => Math.abs(values[k] - values[k - 1]) <= REST.relativeChange * largest;
+      const quiet = t > setup.restAfter_s && still(traces.error, largestError) && still(command, largestCommand) && still(traces.steerAngle_rad, largestAngle);
+      quietSamples = quiet ? quietSamples + 1 : 0;
+    }
     // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.
     if (fraction_s > 0) {
       traces.steerRate_radps[k] = advance(t, delayed(k - wholeSamples - 1), fraction_s);

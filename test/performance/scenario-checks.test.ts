@@ -146,3 +146,28 @@ describe('the limit-cycle detector', () => {
     expect(scenarioMetrics(scenario, simulateScenario(vanVehicle(), controller, scenario.setup, 1)).limitCycle).toBeNull();
   });
 });
+
+describe('stopping at rest (judging only)', () => {
+  it('leaves every figure of the catalogue\'s scenarios as the full run gives it (heading loop with limits, 4 and 12 m/s)', async () => {
+    const { prepareScenario, SCENARIO_NAMES } = await import('../../src/performance/scenario-catalogue.js');
+    const { metricsThatMoved } = await import('../../src/performance/scenario-run.js');
+    const settings = { ...LINEAR_SETTINGS, commandLimit_rad: 0.6, integratorClamp_rad: 0.6 };
+    const controller = constantController({ kind: 'heading' }, { kp: 2.2, ki: 2, kd: 0.29, setpointWeightProportional: 0.6, feedForward: 0.45 }, settings, 0.25);
+    const vehicle = vanVehicle({ maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 });
+    const context = { loop: 'heading' as const, parameters: VAN, maxSteerAngle_rad: 0.6, range: { minimum_mps: 4, maximum_mps: 12 } };
+    let shortened = 0;
+    for (const name of SCENARIO_NAMES) {
+      for (const speed of [4, 12]) {
+        const scenario = prepareScenario(name, context, speed);
+        if (scenario === null) continue;
+        const full = runScenario(vehicle, controller, scenario);
+        const stopped = runScenario(vehicle, controller, scenario, true);
+        // Every figure within 0.1 % (times within a sample); the final error within 1e-6 of the peak (it is ≈ 0 at rest).
+        expect(metricsThatMoved(full.metrics, stopped.metrics, LINEAR_SETTINGS.sampleTime_s).filter((key) => key !== 'finalError'), `${name} ${speed}`).toEqual([]);
+        expect(Math.abs(full.metrics.finalError - stopped.metrics.finalError)).toBeLessThanOrEqual(1e-6 * full.metrics.peakError);
+        if (stopped.traces.steerRate_radps.at(-1) === 0 && full.traces.steerRate_radps.at(-1) !== 0) shortened++;
+      }
+    }
+    expect(shortened).toBeGreaterThan(0);
+  });
+});

@@ -60,5 +60,6 @@ export function quietSetup(speed_mps: number, duration_s: number): ScenarioSetup
     misalignment: null,
     initialLateralOffset_m: 0,
     initialHeadingError_rad: 0,
+    restAfter_s: duration_s,
   };
 }
