@@ -60,6 +60,16 @@ export { breakpointPerformance, judgeTimeDomain, type BreakpointPerformance, typ
 export { performanceLoopAt, type PerformanceLoop } from './performance/loop-at-speed.js';
 export { SCENARIO_DEFAULTS } from './performance/defaults.js';
 export type { TimeDomainFigures, TimeDomainLimits } from './performance/types.js';
+// Scenarios: the schedule driven through manoeuvres as firmware runs it (speedband simulate), their limits and the speed-change certificate.
+export { simulateScenario, type ScenarioController, type ScenarioSetup, type ScenarioTraces, type ScenarioVehicle } from './performance/scenario-simulation.js';
+export { runScenario, type ScenarioRun } from './performance/scenario-run.js';
+export { prepareScenario, SCENARIO_NAMES, type ScenarioName, type PreparedScenario, type ScenarioSizes } from './performance/scenario-catalogue.js';
+export { scenarioMetrics, type ScenarioMetrics } from './performance/scenario-metrics.js';
+export { detectLimitCycle, type LimitCycle } from './performance/limit-cycle.js';
+export { judgeScenarioRun, type ScenarioFailure, type ScenarioLimits } from './performance/scenario-limits.js';
+export { tracesCsv } from './performance/traces-csv.js';
+export { simulateSchedule, judgeScheduleScenarios, scheduleScenarioController, type ScenarioRunAt } from './build/simulate-schedule.js';
+export { speedChangeCertificate } from './build/speed-change-certificate.js';
 export { feedForwardFromSingleTrack, feedForwardFromLumped, rampLag_s, type FeedForward } from './loops/feed-forward.js';
 // Vehicles, the single-track model, the exact simulator and synthetic test logs (src/vehicle/)
 export type { Vehicle, SingleTrackParameters } from './vehicle/types.js';
