@@ -79,6 +79,13 @@ export { breakpointPerformance, type BreakpointPerformance, type BreakpointPerfo
 export { simulateClosedLoop, type LoopSimulationInput, type LoopSimulation } from './performance/closed-loop-simulation.js';
 export type { TimeDomainFigures, TimeDomainLimits } from './performance/types.js';
 
+// Scenarios: the schedule driven through manoeuvres as firmware runs it (src/performance/, speedband simulate)
+export { SCENARIO_NAMES, type ScenarioName } from './performance/scenario-catalogue.js';
+export { scenarioMetrics, type ScenarioMetrics } from './performance/scenario-metrics.js';
+export { detectLimitCycle, type LimitCycle } from './performance/limit-cycle.js';
+export type { ScenarioLimits } from './performance/scenario-limits.js';
+export { tracesCsv } from './performance/traces-csv.js';
+
 // Plans and schedule files (src/schedule/)
 export { PLAN_DEFAULTS, DEFAULT_RULES, readPlan, planFromJson, resolvePlan, type Plan, type PartialPlan } from './schedule/plan.js';
 export { defaultPlanFile } from './schedule/default-plan.js';
@@ -106,6 +113,8 @@ export { buildSchedule, buildScheduleFromData, type BuildInput, type LoadedBuild
 export { recheckSchedule, recheckScheduleOnAllCores, type RecheckInput } from './build/recheck-schedule.js';
 export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
 export { runDemo, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
+export { simulateSchedule, judgeScheduleScenarios, type ScenarioRunAt } from './build/simulate-schedule.js';
+export { speedChangeCertificate } from './build/speed-change-certificate.js';
 
 // The worst case over a set of vehicles (src/robust/)
 export type { VariationSet, RobustSearchSettings, RobustFigure, Combination, WorstFigure, RobustTimeDomain } from './schedule/variation-types.js';

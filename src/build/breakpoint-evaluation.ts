@@ -11,6 +11,9 @@ import type { LoopSpecification } from '../loops/types.js';
 import { breakpointPerformance, type BreakpointPerformance, type SetpointWeights } from '../performance/breakpoint-performance.js';
 import { performanceLoopAt, type PerformanceLoop } from '../performance/loop-at-speed.js';
 import type { TimeDomainLimits } from '../performance/types.js';
+import { breakpointScenarioFailures } from '../performance/breakpoint-scenarios.js';
+import type { ScenarioFailure, ScenarioLimits } from '../performance/scenario-limits.js';
+import type { ScenarioName } from '../performance/scenario-catalogue.js';
 import { judgeMargins } from '../schedule/dense-check.js';
 import type { AcceptanceThresholds, AnalyseLoop, CheckFailure } from '../schedule/types.js';
 import type { LoopMargins } from '../verify/types.js';
@@ -23,6 +26,8 @@ export interface BreakpointEvaluation {
   /** Null when the loop is not stable. */
   readonly performance: BreakpointPerformance | null;
   readonly performanceLoop: PerformanceLoop;
+  /** The scenarios' broken limits at this speed (empty when they pass or were not run). */
+  readonly scenarioFailures: readonly ScenarioFailure[];
   /** Every limit broken, in words (margins first). */
   readonly failures: readonly string[];
   /** How far from passing: 0 passes; Infinity when not stable; else the number of limits broken (+1000 when figures were skipped). */
@@ -39,8 +44,15 @@ export interface BreakpointEvaluatorInput {
   readonly antiWindup: AntiWindup;
   /** The dense check's analysis (made here when absent). */
   readonly analyse?: AnalyseLoop;
-  /** A search's shortcut: no time-domain figures for gains that already break a frequency-domain limit. */
+  /** A search's shortcut: no time-domain figures for gains that already break a frequency-domain limit (nor scenarios for gains that break any limit). */
   readonly skipFiguresWhenMarginsFail?: boolean;
+  /** Run the per-speed scenarios (single-track model only) against these limits over this speed range. */
+  readonly scenarios?: {
+    readonly limits: ScenarioLimits;
+    readonly range: { readonly minimum_mps: number; readonly maximum_mps: number };
+    /** Which (default: every per-speed scenario). */
+    readonly names?: readonly ScenarioName[];
+  };
 }
 
 /** Severity offset of gains breaking a frequency-domain limit when their time-domain figures are skipped. */
@@ -60,11 +72,11 @@ export function makeBreakpointEvaluator(input: BreakpointEvaluatorInput): Breakp
     const margins = analyse(speed_mps, gains);
     const marginFailures = judgeMargins(margins, input.thresholds);
     if (!margins.stable) {
-      return { margins, marginFailures, performance: null, performanceLoop, failures: marginFailures.map((f) => f.message), severity: Number.POSITIVE_INFINITY };
+      return { margins, marginFailures, performance: null, performanceLoop, scenarioFailures: [], failures: marginFailures.map((f) => f.message), severity: Number.POSITIVE_INFINITY };
     }
     if (input.skipFiguresWhenMarginsFail === true && marginFailures.length > 0) {
       // Ranked behind every set of gains within the margins, whatever its time-domain figures.
-      return { margins, marginFailures, performance: null, performanceLoop, failures: marginFailures.map((f) => f.message), severity: MARGIN_FAILURE_RANK + marginFailures.length };
+      return { margins, marginFailures, performance: null, performanceLoop, scenarioFailures: [], failures: marginFailures.map((f) => f.message), severity: MARGIN_FAILURE_RANK + marginFailures.length };
     }
     const performance = breakpointPerformance({
       loop: performanceLoop,
@@ -75,7 +87,29 @@ export function makeBreakpointEvaluator(input: BreakpointEvaluatorInput): Breakp
       slowestTimeConstant_s: margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
       ...(setpointWeights === undefined ? {} : { setpointWeights }),
     });
-    const failures = [...marginFailures.map((f) => f.message), ...performance.failures];
-    return { margins, marginFailures, performance, performanceLoop, failures, severity: failures.length };
+    const before = [...marginFailures.map((f) => f.message), ...performance.failures];
+    const model = input.model.modelAt(speed_mps);
+    const scenarioFailures =
+      input.scenarios !== undefined && model.kind === 'single-track' && (input.skipFiguresWhenMarginsFail !== true || before.length === 0)
+        ? breakpointScenarioFailures({
+            parameters: model.parameters,
+            vehicleLimits: input.vehicleLimits,
+            loop: input.loop,
+            settings: { ...input.controller, antiWindup: input.antiWindup, commandLimit_rad: input.vehicleLimits.maxSteerAngle_rad, integratorClamp_rad: input.vehicleLimits.maxSteerAngle_rad },
+            gains: {
+              ...gains,
+              setpointWeightProportional: performance.setpointWeights.proportional,
+              setpointWeightDerivative: performance.setpointWeights.derivative,
+              feedForward: performanceLoop.feedForward.gain,
+            },
+            feedForwardLeadTime_s: performanceLoop.feedForward.leadTime_s,
+            speed_mps,
+            range: input.scenarios.range,
+            limits: input.scenarios.limits,
+            scenarios: input.scenarios.names,
+          })
+        : [];
+    const failures = [...before, ...scenarioFailures.map((f) => f.message)];
+    return { margins, marginFailures, performance, performanceLoop, scenarioFailures, failures, severity: failures.length };
   };
 }

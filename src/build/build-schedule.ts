@@ -7,6 +7,9 @@
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { fastestPassing, freeParameterOf, limitsWithRoom } from './fastest-passing.js';
+import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController } from './simulate-schedule.js';
+import { speedChangeCertificate } from './speed-change-certificate.js';
+import { SEARCH_SCENARIOS } from '../performance/breakpoint-scenarios.js';
 import { makeBreakpointEvaluator, type BreakpointEvaluation } from './breakpoint-evaluation.js';
 import type { BreakpointExtras } from '../schedule/schedule-file.js';
 import type { ScheduleSearchAt } from '../schedule/schedule-types.js';
@@ -19,7 +22,7 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { Vehicle } from '../vehicle/types.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { planScenarioLimits, planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
 import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
 import type { RobustScheduleCheck } from './robust-schedule-check.js';
 import type { TimeDomainSettings } from './robust-time-domain.js';
@@ -206,7 +209,15 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   };
   const evaluate = makeBreakpointEvaluator(evaluatorInput);
   const roomy = limitsWithRoom(thresholds, plan.acceptance);
-  const evaluateWithRoom = makeBreakpointEvaluator({ ...evaluatorInput, ...roomy, skipFiguresWhenMarginsFail: true });
+  const scenarioLimits = planScenarioLimits(plan);
+  const scenarios = plan.check.scenarios && checkModel.kind === 'single-track';
+  // The search judges each candidate by the scenarios at its breakpoint too; the schedule's own scenario check follows below.
+  const evaluateWithRoom = makeBreakpointEvaluator({
+    ...evaluatorInput,
+    ...roomy,
+    skipFiguresWhenMarginsFail: true,
+    ...(scenarios ? { scenarios: { limits: scenarioLimits, range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps }, names: SEARCH_SCENARIOS } } : {}),
+  });
   // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
   const robustContext = planRobustContext({ plan, checkModel, loop, controller, models, planFile: input.planFile });
   const timeDomainSettings: TimeDomainSettings = { limits: plan.acceptance, vehicleLimits: evaluatorInput.vehicleLimits, antiWindup: plan.controller.antiWindup };
@@ -282,7 +293,7 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
       .map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
     ...(input.planFile === undefined || input.planSha256 === undefined ? [] : [{ file: input.planFile, sha256: input.planSha256, role: 'plan' }]),
   ];
-  const schedule = assembleSchedule({
+  const assembled = {
     vehicle: { name: vehicle.name, file: vehicleFile, sha256: inputs[0].sha256 },
     plan,
     table: refinement.table,
@@ -307,7 +318,21 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
     breakpointExtras,
     ...(searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints }),
     ...(robust === undefined ? {} : { variations: robust.record }),
-  });
+  };
+  let schedule = assembleSchedule(assembled);
+  if (scenarios) {
+    progress('scenarios: at each breakpoint, at low, middle and top speed, and through the range; the speed-change certificate\n');
+    const { parameters, description } = scenarioParameters(checkModel, vehicle);
+    const steeringLimits = { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps };
+    const scenarioCheck = judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits: scenarioLimits, model: description });
+    const speedChange = speedChangeCertificate({
+      vehicle: { parameters, ...steeringLimits },
+      controller: scheduleScenarioController(schedule),
+      context: { loop: plan.loop.kind, parameters, maxSteerAngle_rad: vehicle.maxSteerAngle_rad, range: schedule.check.range },
+      limits: scenarioLimits,
+    });
+    schedule = assembleSchedule({ ...assembled, scenarioCheck, speedChange });
+  }
   const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
   return { schedule, models, plan, checkModel, refinement, tuned, evaluations, extrapolations, ...(robust === undefined ? {} : { robust }) };
 }

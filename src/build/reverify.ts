@@ -10,6 +10,9 @@
  * status is kept: only what the check proves. A schedule that records variations has their worst case
  * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
+import { judgeScheduleScenarios, scheduleScenarioController } from './simulate-schedule.js';
+import { speedChangeCertificate } from './speed-change-certificate.js';
+import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
 import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
@@ -83,6 +86,14 @@ export function reverifySchedule(
     .map((row, k) => ({ speed_mps: row.speed_mps, messages: figures[k].failures }))
     .filter((entry) => entry.messages.length > 0);
   if (timeDomainFailures.length > 0) return { check, variations: robust, timeDomainFailures, passed: false, changes: verdict.changes, schedule: null };
+  const breakpoints = edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k], timeDomain: figures[k].figures }));
+  const scenarioResult = rerunScenarios({ ...edited, breakpoints }, model);
+  if (scenarioResult !== null && !scenarioResult.scenarios.passed) {
+    const failures = scenarioResult.scenarios.failures;
+    const speeds = [...new Set(failures.map((failure) => failure.speed_mps))];
+    const byScenario = speeds.map((speed_mps) => ({ speed_mps, messages: failures.filter((failure) => failure.speed_mps === speed_mps).map((failure) => failure.message) }));
+    return { check, variations: robust, timeDomainFailures: byScenario, passed: false, changes: verdict.changes, schedule: null };
+  }
   const record: HandEditRecord = {
     statement:
       verdict.sections.length > 0
@@ -107,10 +118,11 @@ export function reverifySchedule(
     },
     interpolation: { ...interpolation, description: interpolationText(interpolation.method, interpolation.lowSpeedFloor_mps) },
     units: gainUnits(loop.kind),
-    breakpoints: edited.breakpoints.map((row, k) => ({ ...row, margins: margins[k], timeDomain: figures[k].figures })),
+    breakpoints,
     ...(robust === null ? {} : { variations: robust.record }),
     check: {
-      ...edited.check,
+      ...withoutScenarios(edited.check),
+      ...(scenarioResult === null ? {} : { scenarios: scenarioResult.scenarios, speedChange: scenarioResult.speedChange }),
       passed: true,
       model: recorded ? edited.check.model : { kind: model.kind, description: model.description },
       gridSize: check.points.length,
@@ -128,4 +140,30 @@ export function reverifySchedule(
   };
   delete withoutChecksum.checksum;
   return { check, variations: robust, timeDomainFailures: [], passed: true, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
+}
+
+/** The check without its scenario records (they are re-run, or dropped when the model cannot run them). */
+function withoutScenarios(check: ScheduleFile['check']): ScheduleFile['check'] {
+  const { scenarios: _scenarios, speedChange: _speedChange, ...rest } = check;
+  return rest;
+}
+
+/**
+ * The edited schedule's scenarios and speed-change certificate on the model, with the limits and steering limits it
+ * records; null when it records no scenarios or the model is not the single-track one.
+ */
+function rerunScenarios(schedule: ScheduleFile, model: CheckModel): { scenarios: ScheduleScenarioCheck; speedChange: SpeedChangeCertificate } | null {
+  const recorded = schedule.check.scenarios;
+  const at = model.modelAt(schedule.check.range.minimum_mps);
+  if (recorded === undefined || at.kind !== 'single-track') return null;
+  const steeringLimits = schedule.check.timeDomain.steeringLimits;
+  const parameters = at.parameters;
+  const scenarios = judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description });
+  const speedChange = speedChangeCertificate({
+    vehicle: { parameters, ...steeringLimits },
+    controller: scheduleScenarioController(schedule),
+    context: { loop: schedule.loop.kind, parameters, maxSteerAngle_rad: steeringLimits.maxSteerAngle_rad, range: schedule.check.range },
+    limits: recorded.limits,
+  });
+  return { scenarios, speedChange };
 }

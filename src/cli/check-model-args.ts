@@ -3,7 +3,7 @@ import { quoted } from '../core/quote.js';
 import type { CheckModel } from '../build/check-model.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { CommandIo } from './io.js';
-import { logColumnsFromArgs } from './log-columns.js';
+import { logColumnsFromArgs, optionalInputs } from './log-columns.js';
 
 /**
  * The vehicle model `check` and `reverify` run the dense check on: a fresh identification from --logs,
@@ -57,4 +57,19 @@ export async function checkModelFromArgs(
   }
   notes.push('note: checking on the model recorded in the schedule; give --logs or --models to check on fresh data');
   return { model, notes, recorded: true };
+}
+
+/** The input files of the model options (--vehicle, --logs, --models, --log-profile), for the output-path check. */
+export async function modelInputPaths(args: Record<string, unknown>): Promise<{ path: string; role: string }[]> {
+  const { resolveVehiclePath } = await import('../vehicle/load.js');
+  const { expandLogPaths } = await import('../identify/identify-from-logs.js');
+  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
+  return [
+    { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+    ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
+    ...optionalInputs(args, [
+      ['models', 'models file'],
+      ['log-profile', 'log profile'],
+    ]),
+  ];
 }

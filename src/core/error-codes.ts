@@ -25,6 +25,7 @@ export const ERROR_CODES = {
 
   // Simulated test logs
   'simulate.invalidInput': 'The simulator was given mismatched lengths, a non-uniform time grid or bad limits: fix the simulation input named.',
+  'simulate.unknownScenario': 'A scenario name speedband does not know: the message lists the ones it knows.',
 
   // Synthetic step-test logs (make-test-logs)
   'testLogs.amplitudeTooSmall': 'The automatic step amplitude rounds to 0° at this speed: give the amplitudes explicitly.',

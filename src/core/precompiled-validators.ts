@@ -5306,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"searchOn":{"enum":["nominal","worst-case"],"description":"With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"searchOn":{"enum":["nominal","worst-case"],"description":"With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."},"maximumSpeedChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3)."},"maximumSpeedChangeError_rad":{"type":"number","exclusiveMinimum":0,"description":"Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05)."},"maximumSpeedChangeError_radps":{"type":"number","exclusiveMinimum":0,"description":"Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."},"scenarios":{"type":"boolean","description":"Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (needs the single-track model)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -8266,9 +8266,11 @@ vErrors.push(err210);
 errors++;
 }
 }
-}
-else {
-const err211 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data70.maximumSpeedChangeError_m !== undefined){
+let data81 = data70.maximumSpeedChangeError_m;
+if((typeof data81 == "number") && (isFinite(data81))){
+if(data81 <= 0 || isNaN(data81)){
+const err211 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_m/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err211];
 }
@@ -8278,12 +8280,8 @@ vErrors.push(err211);
 errors++;
 }
 }
-if(data.check !== undefined){
-let data81 = data.check;
-if(data81 && typeof data81 == "object" && !Array.isArray(data81)){
-for(const key17 in data81){
-if(!(((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model"))){
-const err212 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
+else {
+const err212 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_m",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err212];
 }
@@ -8293,10 +8291,11 @@ vErrors.push(err212);
 errors++;
 }
 }
-if(data81.gridSpeeds !== undefined){
-let data82 = data81.gridSpeeds;
-if(!(((typeof data82 == "number") && (!(data82 % 1) && !isNaN(data82))) && (isFinite(data82)))){
-const err213 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data70.maximumSpeedChangeError_rad !== undefined){
+let data82 = data70.maximumSpeedChangeError_rad;
+if((typeof data82 == "number") && (isFinite(data82))){
+if(data82 <= 0 || isNaN(data82)){
+const err213 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_rad",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_rad/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err213];
 }
@@ -8305,9 +8304,9 @@ vErrors.push(err213);
 }
 errors++;
 }
-if((typeof data82 == "number") && (isFinite(data82))){
-if(data82 > 100000 || isNaN(data82)){
-const err214 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
+}
+else {
+const err214 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_rad",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_rad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err214];
 }
@@ -8316,8 +8315,12 @@ vErrors.push(err214);
 }
 errors++;
 }
-if(data82 < 2 || isNaN(data82)){
-const err215 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
+}
+if(data70.maximumSpeedChangeError_radps !== undefined){
+let data83 = data70.maximumSpeedChangeError_radps;
+if((typeof data83 == "number") && (isFinite(data83))){
+if(data83 <= 0 || isNaN(data83)){
+const err215 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_radps",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_radps/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err215];
 }
@@ -8327,11 +8330,8 @@ vErrors.push(err215);
 errors++;
 }
 }
-}
-if(data81.maxInsertedBreakpoints !== undefined){
-let data83 = data81.maxInsertedBreakpoints;
-if(!(((typeof data83 == "number") && (!(data83 % 1) && !isNaN(data83))) && (isFinite(data83)))){
-const err216 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err216 = {instancePath:instancePath+"/acceptance/maximumSpeedChangeError_radps",schemaPath:"#/properties/acceptance/properties/maximumSpeedChangeError_radps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err216];
 }
@@ -8340,9 +8340,10 @@ vErrors.push(err216);
 }
 errors++;
 }
-if((typeof data83 == "number") && (isFinite(data83))){
-if(data83 > 100 || isNaN(data83)){
-const err217 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
+}
+}
+else {
+const err217 = {instancePath:instancePath+"/acceptance",schemaPath:"#/properties/acceptance/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err217];
 }
@@ -8351,8 +8352,13 @@ vErrors.push(err217);
 }
 errors++;
 }
-if(data83 < 0 || isNaN(data83)){
-const err218 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data.check !== undefined){
+let data84 = data.check;
+if(data84 && typeof data84 == "object" && !Array.isArray(data84)){
+for(const key17 in data84){
+if(!((((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model")) || (key17 === "scenarios"))){
+const err218 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err218];
 }
@@ -8362,11 +8368,10 @@ vErrors.push(err218);
 errors++;
 }
 }
-}
-if(data81.model !== undefined){
-let data84 = data81.model;
-if(!((data84 === "single-track") || (data84 === "interpolated-lumped"))){
-const err219 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data84.gridSpeeds !== undefined){
+let data85 = data84.gridSpeeds;
+if(!(((typeof data85 == "number") && (!(data85 % 1) && !isNaN(data85))) && (isFinite(data85)))){
+const err219 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err219];
 }
@@ -8375,10 +8380,9 @@ vErrors.push(err219);
 }
 errors++;
 }
-}
-}
-else {
-const err220 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data85 == "number") && (isFinite(data85))){
+if(data85 > 100000 || isNaN(data85)){
+const err220 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100000},message:"must be <= 100000"};
 if(vErrors === null){
 vErrors = [err220];
 }
@@ -8387,13 +8391,8 @@ vErrors.push(err220);
 }
 errors++;
 }
-}
-if(data.variations !== undefined){
-let data85 = data.variations;
-if(data85 && typeof data85 == "object" && !Array.isArray(data85)){
-for(const key18 in data85){
-if(!(func18.call(schema10.properties.variations.properties, key18))){
-const err221 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
+if(data85 < 2 || isNaN(data85)){
+const err221 = {instancePath:instancePath+"/check/gridSpeeds",schemaPath:"#/properties/check/properties/gridSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 2},message:"must be >= 2"};
 if(vErrors === null){
 vErrors = [err221];
 }
@@ -8403,10 +8402,11 @@ vErrors.push(err221);
 errors++;
 }
 }
-if(data85.acceptance !== undefined){
-let data86 = data85.acceptance;
-if(!((data86 === "robust") || (data86 === "nominal"))){
-const err222 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+}
+if(data84.maxInsertedBreakpoints !== undefined){
+let data86 = data84.maxInsertedBreakpoints;
+if(!(((typeof data86 == "number") && (!(data86 % 1) && !isNaN(data86))) && (isFinite(data86)))){
+const err222 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err222];
 }
@@ -8415,16 +8415,9 @@ vErrors.push(err222);
 }
 errors++;
 }
-}
-if(data85.mass_pct !== undefined){
-let data87 = data85.mass_pct;
-const _errs234 = errors;
-let valid62 = false;
-let passing9 = null;
-const _errs235 = errors;
-if((typeof data87 == "number") && (isFinite(data87))){
-if(data87 > 90 || isNaN(data87)){
-const err223 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if((typeof data86 == "number") && (isFinite(data86))){
+if(data86 > 100 || isNaN(data86)){
+const err223 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/maximum",keyword:"maximum",params:{comparison: "<=", limit: 100},message:"must be <= 100"};
 if(vErrors === null){
 vErrors = [err223];
 }
@@ -8433,8 +8426,8 @@ vErrors.push(err223);
 }
 errors++;
 }
-if(data87 < 0 || isNaN(data87)){
-const err224 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data86 < 0 || isNaN(data86)){
+const err224 = {instancePath:instancePath+"/check/maxInsertedBreakpoints",schemaPath:"#/properties/check/properties/maxInsertedBreakpoints/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err224];
 }
@@ -8444,8 +8437,11 @@ vErrors.push(err224);
 errors++;
 }
 }
-else {
-const err225 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+if(data84.model !== undefined){
+let data87 = data84.model;
+if(!((data87 === "single-track") || (data87 === "interpolated-lumped"))){
+const err225 = {instancePath:instancePath+"/check/model",schemaPath:"#/properties/check/properties/model/enum",keyword:"enum",params:{allowedValues: schema10.properties.check.properties.model.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err225];
 }
@@ -8454,15 +8450,10 @@ vErrors.push(err225);
 }
 errors++;
 }
-var _valid9 = _errs235 === errors;
-if(_valid9){
-valid62 = true;
-passing9 = 0;
 }
-const _errs237 = errors;
-if(Array.isArray(data87)){
-if(data87.length > 2){
-const err226 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+if(data84.scenarios !== undefined){
+if(typeof data84.scenarios !== "boolean"){
+const err226 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err226];
 }
@@ -8471,8 +8462,10 @@ vErrors.push(err226);
 }
 errors++;
 }
-if(data87.length < 2){
-const err227 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+}
+else {
+const err227 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err227];
 }
@@ -8481,12 +8474,13 @@ vErrors.push(err227);
 }
 errors++;
 }
-const len17 = data87.length;
-if(len17 > 0){
-let data88 = data87[0];
-if((typeof data88 == "number") && (isFinite(data88))){
-if(data88 > 0 || isNaN(data88)){
-const err228 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+}
+if(data.variations !== undefined){
+let data89 = data.variations;
+if(data89 && typeof data89 == "object" && !Array.isArray(data89)){
+for(const key18 in data89){
+if(!(func18.call(schema10.properties.variations.properties, key18))){
+const err228 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err228];
 }
@@ -8495,8 +8489,11 @@ vErrors.push(err228);
 }
 errors++;
 }
-if(data88 < -90 || isNaN(data88)){
-const err229 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+if(data89.acceptance !== undefined){
+let data90 = data89.acceptance;
+if(!((data90 === "robust") || (data90 === "nominal"))){
+const err229 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err229];
 }
@@ -8506,8 +8503,15 @@ vErrors.push(err229);
 errors++;
 }
 }
-else {
-const err230 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data89.mass_pct !== undefined){
+let data91 = data89.mass_pct;
+const _errs242 = errors;
+let valid62 = false;
+let passing9 = null;
+const _errs243 = errors;
+if((typeof data91 == "number") && (isFinite(data91))){
+if(data91 > 90 || isNaN(data91)){
+const err230 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err230];
 }
@@ -8516,12 +8520,8 @@ vErrors.push(err230);
 }
 errors++;
 }
-}
-if(len17 > 1){
-let data89 = data87[1];
-if((typeof data89 == "number") && (isFinite(data89))){
-if(data89 > 900 || isNaN(data89)){
-const err231 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(data91 < 0 || isNaN(data91)){
+const err231 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err231];
 }
@@ -8530,8 +8530,9 @@ vErrors.push(err231);
 }
 errors++;
 }
-if(data89 < 0 || isNaN(data89)){
-const err232 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err232 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err232];
 }
@@ -8540,9 +8541,15 @@ vErrors.push(err232);
 }
 errors++;
 }
+var _valid9 = _errs243 === errors;
+if(_valid9){
+valid62 = true;
+passing9 = 0;
 }
-else {
-const err233 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const _errs245 = errors;
+if(Array.isArray(data91)){
+if(data91.length > 2){
+const err233 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err233];
 }
@@ -8551,10 +8558,8 @@ vErrors.push(err233);
 }
 errors++;
 }
-}
-}
-else {
-const err234 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data91.length < 2){
+const err234 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err234];
 }
@@ -8563,7 +8568,89 @@ vErrors.push(err234);
 }
 errors++;
 }
-var _valid9 = _errs237 === errors;
+const len17 = data91.length;
+if(len17 > 0){
+let data92 = data91[0];
+if((typeof data92 == "number") && (isFinite(data92))){
+if(data92 > 0 || isNaN(data92)){
+const err235 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err235];
+}
+else {
+vErrors.push(err235);
+}
+errors++;
+}
+if(data92 < -90 || isNaN(data92)){
+const err236 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err236];
+}
+else {
+vErrors.push(err236);
+}
+errors++;
+}
+}
+else {
+const err237 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err237];
+}
+else {
+vErrors.push(err237);
+}
+errors++;
+}
+}
+if(len17 > 1){
+let data93 = data91[1];
+if((typeof data93 == "number") && (isFinite(data93))){
+if(data93 > 900 || isNaN(data93)){
+const err238 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err238];
+}
+else {
+vErrors.push(err238);
+}
+errors++;
+}
+if(data93 < 0 || isNaN(data93)){
+const err239 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err239];
+}
+else {
+vErrors.push(err239);
+}
+errors++;
+}
+}
+else {
+const err240 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err240];
+}
+else {
+vErrors.push(err240);
+}
+errors++;
+}
+}
+}
+else {
+const err241 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err241];
+}
+else {
+vErrors.push(err241);
+}
+errors++;
+}
+var _valid9 = _errs245 === errors;
 if(_valid9 && valid62){
 valid62 = false;
 passing9 = [passing9, 1];
@@ -8575,108 +8662,7 @@ passing9 = 1;
 }
 }
 if(!valid62){
-const err235 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err235];
-}
-else {
-vErrors.push(err235);
-}
-errors++;
-}
-else {
-errors = _errs234;
-if(vErrors !== null){
-if(_errs234){
-vErrors.length = _errs234;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data85.yawInertia_pct !== undefined){
-let data90 = data85.yawInertia_pct;
-const _errs244 = errors;
-let valid64 = false;
-let passing10 = null;
-const _errs245 = errors;
-if((typeof data90 == "number") && (isFinite(data90))){
-if(data90 > 90 || isNaN(data90)){
-const err236 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err236];
-}
-else {
-vErrors.push(err236);
-}
-errors++;
-}
-if(data90 < 0 || isNaN(data90)){
-const err237 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err237];
-}
-else {
-vErrors.push(err237);
-}
-errors++;
-}
-}
-else {
-const err238 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err238];
-}
-else {
-vErrors.push(err238);
-}
-errors++;
-}
-var _valid10 = _errs245 === errors;
-if(_valid10){
-valid64 = true;
-passing10 = 0;
-}
-const _errs247 = errors;
-if(Array.isArray(data90)){
-if(data90.length > 2){
-const err239 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err239];
-}
-else {
-vErrors.push(err239);
-}
-errors++;
-}
-if(data90.length < 2){
-const err240 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err240];
-}
-else {
-vErrors.push(err240);
-}
-errors++;
-}
-const len18 = data90.length;
-if(len18 > 0){
-let data91 = data90[0];
-if((typeof data91 == "number") && (isFinite(data91))){
-if(data91 > 0 || isNaN(data91)){
-const err241 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
-if(vErrors === null){
-vErrors = [err241];
-}
-else {
-vErrors.push(err241);
-}
-errors++;
-}
-if(data91 < -90 || isNaN(data91)){
-const err242 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+const err242 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err242];
 }
@@ -8685,9 +8671,27 @@ vErrors.push(err242);
 }
 errors++;
 }
+else {
+errors = _errs242;
+if(vErrors !== null){
+if(_errs242){
+vErrors.length = _errs242;
 }
 else {
-const err243 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data89.yawInertia_pct !== undefined){
+let data94 = data89.yawInertia_pct;
+const _errs252 = errors;
+let valid64 = false;
+let passing10 = null;
+const _errs253 = errors;
+if((typeof data94 == "number") && (isFinite(data94))){
+if(data94 > 90 || isNaN(data94)){
+const err243 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err243];
 }
@@ -8696,12 +8700,8 @@ vErrors.push(err243);
 }
 errors++;
 }
-}
-if(len18 > 1){
-let data92 = data90[1];
-if((typeof data92 == "number") && (isFinite(data92))){
-if(data92 > 900 || isNaN(data92)){
-const err244 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(data94 < 0 || isNaN(data94)){
+const err244 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err244];
 }
@@ -8710,8 +8710,9 @@ vErrors.push(err244);
 }
 errors++;
 }
-if(data92 < 0 || isNaN(data92)){
-const err245 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err245 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err245];
 }
@@ -8720,9 +8721,15 @@ vErrors.push(err245);
 }
 errors++;
 }
+var _valid10 = _errs253 === errors;
+if(_valid10){
+valid64 = true;
+passing10 = 0;
 }
-else {
-const err246 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const _errs255 = errors;
+if(Array.isArray(data94)){
+if(data94.length > 2){
+const err246 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err246];
 }
@@ -8731,10 +8738,8 @@ vErrors.push(err246);
 }
 errors++;
 }
-}
-}
-else {
-const err247 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data94.length < 2){
+const err247 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err247];
 }
@@ -8743,7 +8748,89 @@ vErrors.push(err247);
 }
 errors++;
 }
-var _valid10 = _errs247 === errors;
+const len18 = data94.length;
+if(len18 > 0){
+let data95 = data94[0];
+if((typeof data95 == "number") && (isFinite(data95))){
+if(data95 > 0 || isNaN(data95)){
+const err248 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err248];
+}
+else {
+vErrors.push(err248);
+}
+errors++;
+}
+if(data95 < -90 || isNaN(data95)){
+const err249 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err249];
+}
+else {
+vErrors.push(err249);
+}
+errors++;
+}
+}
+else {
+const err250 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err250];
+}
+else {
+vErrors.push(err250);
+}
+errors++;
+}
+}
+if(len18 > 1){
+let data96 = data94[1];
+if((typeof data96 == "number") && (isFinite(data96))){
+if(data96 > 900 || isNaN(data96)){
+const err251 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err251];
+}
+else {
+vErrors.push(err251);
+}
+errors++;
+}
+if(data96 < 0 || isNaN(data96)){
+const err252 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err252];
+}
+else {
+vErrors.push(err252);
+}
+errors++;
+}
+}
+else {
+const err253 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err253];
+}
+else {
+vErrors.push(err253);
+}
+errors++;
+}
+}
+}
+else {
+const err254 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err254];
+}
+else {
+vErrors.push(err254);
+}
+errors++;
+}
+var _valid10 = _errs255 === errors;
 if(_valid10 && valid64){
 valid64 = false;
 passing10 = [passing10, 1];
@@ -8755,108 +8842,7 @@ passing10 = 1;
 }
 }
 if(!valid64){
-const err248 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err248];
-}
-else {
-vErrors.push(err248);
-}
-errors++;
-}
-else {
-errors = _errs244;
-if(vErrors !== null){
-if(_errs244){
-vErrors.length = _errs244;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data85.cgRearwardShift_m !== undefined){
-let data93 = data85.cgRearwardShift_m;
-const _errs254 = errors;
-let valid66 = false;
-let passing11 = null;
-const _errs255 = errors;
-if((typeof data93 == "number") && (isFinite(data93))){
-if(data93 > 5 || isNaN(data93)){
-const err249 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
-if(vErrors === null){
-vErrors = [err249];
-}
-else {
-vErrors.push(err249);
-}
-errors++;
-}
-if(data93 < 0 || isNaN(data93)){
-const err250 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err250];
-}
-else {
-vErrors.push(err250);
-}
-errors++;
-}
-}
-else {
-const err251 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err251];
-}
-else {
-vErrors.push(err251);
-}
-errors++;
-}
-var _valid11 = _errs255 === errors;
-if(_valid11){
-valid66 = true;
-passing11 = 0;
-}
-const _errs257 = errors;
-if(Array.isArray(data93)){
-if(data93.length > 2){
-const err252 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err252];
-}
-else {
-vErrors.push(err252);
-}
-errors++;
-}
-if(data93.length < 2){
-const err253 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err253];
-}
-else {
-vErrors.push(err253);
-}
-errors++;
-}
-const len19 = data93.length;
-if(len19 > 0){
-let data94 = data93[0];
-if((typeof data94 == "number") && (isFinite(data94))){
-if(data94 > 0 || isNaN(data94)){
-const err254 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
-if(vErrors === null){
-vErrors = [err254];
-}
-else {
-vErrors.push(err254);
-}
-errors++;
-}
-if(data94 < -5 || isNaN(data94)){
-const err255 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+const err255 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err255];
 }
@@ -8865,9 +8851,27 @@ vErrors.push(err255);
 }
 errors++;
 }
+else {
+errors = _errs252;
+if(vErrors !== null){
+if(_errs252){
+vErrors.length = _errs252;
 }
 else {
-const err256 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data89.cgRearwardShift_m !== undefined){
+let data97 = data89.cgRearwardShift_m;
+const _errs262 = errors;
+let valid66 = false;
+let passing11 = null;
+const _errs263 = errors;
+if((typeof data97 == "number") && (isFinite(data97))){
+if(data97 > 5 || isNaN(data97)){
+const err256 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
 if(vErrors === null){
 vErrors = [err256];
 }
@@ -8876,12 +8880,8 @@ vErrors.push(err256);
 }
 errors++;
 }
-}
-if(len19 > 1){
-let data95 = data93[1];
-if((typeof data95 == "number") && (isFinite(data95))){
-if(data95 > 5 || isNaN(data95)){
-const err257 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(data97 < 0 || isNaN(data97)){
+const err257 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err257];
 }
@@ -8890,8 +8890,9 @@ vErrors.push(err257);
 }
 errors++;
 }
-if(data95 < 0 || isNaN(data95)){
-const err258 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err258 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err258];
 }
@@ -8900,9 +8901,15 @@ vErrors.push(err258);
 }
 errors++;
 }
+var _valid11 = _errs263 === errors;
+if(_valid11){
+valid66 = true;
+passing11 = 0;
 }
-else {
-const err259 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const _errs265 = errors;
+if(Array.isArray(data97)){
+if(data97.length > 2){
+const err259 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err259];
 }
@@ -8911,10 +8918,8 @@ vErrors.push(err259);
 }
 errors++;
 }
-}
-}
-else {
-const err260 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data97.length < 2){
+const err260 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err260];
 }
@@ -8923,7 +8928,89 @@ vErrors.push(err260);
 }
 errors++;
 }
-var _valid11 = _errs257 === errors;
+const len19 = data97.length;
+if(len19 > 0){
+let data98 = data97[0];
+if((typeof data98 == "number") && (isFinite(data98))){
+if(data98 > 0 || isNaN(data98)){
+const err261 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err261];
+}
+else {
+vErrors.push(err261);
+}
+errors++;
+}
+if(data98 < -5 || isNaN(data98)){
+const err262 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+if(vErrors === null){
+vErrors = [err262];
+}
+else {
+vErrors.push(err262);
+}
+errors++;
+}
+}
+else {
+const err263 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err263];
+}
+else {
+vErrors.push(err263);
+}
+errors++;
+}
+}
+if(len19 > 1){
+let data99 = data97[1];
+if((typeof data99 == "number") && (isFinite(data99))){
+if(data99 > 5 || isNaN(data99)){
+const err264 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(vErrors === null){
+vErrors = [err264];
+}
+else {
+vErrors.push(err264);
+}
+errors++;
+}
+if(data99 < 0 || isNaN(data99)){
+const err265 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err265];
+}
+else {
+vErrors.push(err265);
+}
+errors++;
+}
+}
+else {
+const err266 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err266];
+}
+else {
+vErrors.push(err266);
+}
+errors++;
+}
+}
+}
+else {
+const err267 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err267];
+}
+else {
+vErrors.push(err267);
+}
+errors++;
+}
+var _valid11 = _errs265 === errors;
 if(_valid11 && valid66){
 valid66 = false;
 passing11 = [passing11, 1];
@@ -8935,108 +9022,7 @@ passing11 = 1;
 }
 }
 if(!valid66){
-const err261 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err261];
-}
-else {
-vErrors.push(err261);
-}
-errors++;
-}
-else {
-errors = _errs254;
-if(vErrors !== null){
-if(_errs254){
-vErrors.length = _errs254;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data85.frontCorneringStiffness_pct !== undefined){
-let data96 = data85.frontCorneringStiffness_pct;
-const _errs264 = errors;
-let valid68 = false;
-let passing12 = null;
-const _errs265 = errors;
-if((typeof data96 == "number") && (isFinite(data96))){
-if(data96 > 90 || isNaN(data96)){
-const err262 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err262];
-}
-else {
-vErrors.push(err262);
-}
-errors++;
-}
-if(data96 < 0 || isNaN(data96)){
-const err263 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err263];
-}
-else {
-vErrors.push(err263);
-}
-errors++;
-}
-}
-else {
-const err264 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err264];
-}
-else {
-vErrors.push(err264);
-}
-errors++;
-}
-var _valid12 = _errs265 === errors;
-if(_valid12){
-valid68 = true;
-passing12 = 0;
-}
-const _errs267 = errors;
-if(Array.isArray(data96)){
-if(data96.length > 2){
-const err265 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err265];
-}
-else {
-vErrors.push(err265);
-}
-errors++;
-}
-if(data96.length < 2){
-const err266 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err266];
-}
-else {
-vErrors.push(err266);
-}
-errors++;
-}
-const len20 = data96.length;
-if(len20 > 0){
-let data97 = data96[0];
-if((typeof data97 == "number") && (isFinite(data97))){
-if(data97 > 0 || isNaN(data97)){
-const err267 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
-if(vErrors === null){
-vErrors = [err267];
-}
-else {
-vErrors.push(err267);
-}
-errors++;
-}
-if(data97 < -90 || isNaN(data97)){
-const err268 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+const err268 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err268];
 }
@@ -9045,9 +9031,27 @@ vErrors.push(err268);
 }
 errors++;
 }
+else {
+errors = _errs262;
+if(vErrors !== null){
+if(_errs262){
+vErrors.length = _errs262;
 }
 else {
-const err269 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data89.frontCorneringStiffness_pct !== undefined){
+let data100 = data89.frontCorneringStiffness_pct;
+const _errs272 = errors;
+let valid68 = false;
+let passing12 = null;
+const _errs273 = errors;
+if((typeof data100 == "number") && (isFinite(data100))){
+if(data100 > 90 || isNaN(data100)){
+const err269 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err269];
 }
@@ -9056,12 +9060,8 @@ vErrors.push(err269);
 }
 errors++;
 }
-}
-if(len20 > 1){
-let data98 = data96[1];
-if((typeof data98 == "number") && (isFinite(data98))){
-if(data98 > 900 || isNaN(data98)){
-const err270 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(data100 < 0 || isNaN(data100)){
+const err270 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err270];
 }
@@ -9070,8 +9070,9 @@ vErrors.push(err270);
 }
 errors++;
 }
-if(data98 < 0 || isNaN(data98)){
-const err271 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err271 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err271];
 }
@@ -9080,9 +9081,15 @@ vErrors.push(err271);
 }
 errors++;
 }
+var _valid12 = _errs273 === errors;
+if(_valid12){
+valid68 = true;
+passing12 = 0;
 }
-else {
-const err272 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const _errs275 = errors;
+if(Array.isArray(data100)){
+if(data100.length > 2){
+const err272 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err272];
 }
@@ -9091,10 +9098,8 @@ vErrors.push(err272);
 }
 errors++;
 }
-}
-}
-else {
-const err273 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data100.length < 2){
+const err273 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err273];
 }
@@ -9103,7 +9108,89 @@ vErrors.push(err273);
 }
 errors++;
 }
-var _valid12 = _errs267 === errors;
+const len20 = data100.length;
+if(len20 > 0){
+let data101 = data100[0];
+if((typeof data101 == "number") && (isFinite(data101))){
+if(data101 > 0 || isNaN(data101)){
+const err274 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err274];
+}
+else {
+vErrors.push(err274);
+}
+errors++;
+}
+if(data101 < -90 || isNaN(data101)){
+const err275 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err275];
+}
+else {
+vErrors.push(err275);
+}
+errors++;
+}
+}
+else {
+const err276 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err276];
+}
+else {
+vErrors.push(err276);
+}
+errors++;
+}
+}
+if(len20 > 1){
+let data102 = data100[1];
+if((typeof data102 == "number") && (isFinite(data102))){
+if(data102 > 900 || isNaN(data102)){
+const err277 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err277];
+}
+else {
+vErrors.push(err277);
+}
+errors++;
+}
+if(data102 < 0 || isNaN(data102)){
+const err278 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err278];
+}
+else {
+vErrors.push(err278);
+}
+errors++;
+}
+}
+else {
+const err279 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err279];
+}
+else {
+vErrors.push(err279);
+}
+errors++;
+}
+}
+}
+else {
+const err280 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err280];
+}
+else {
+vErrors.push(err280);
+}
+errors++;
+}
+var _valid12 = _errs275 === errors;
 if(_valid12 && valid68){
 valid68 = false;
 passing12 = [passing12, 1];
@@ -9115,108 +9202,7 @@ passing12 = 1;
 }
 }
 if(!valid68){
-const err274 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err274];
-}
-else {
-vErrors.push(err274);
-}
-errors++;
-}
-else {
-errors = _errs264;
-if(vErrors !== null){
-if(_errs264){
-vErrors.length = _errs264;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data85.rearCorneringStiffness_pct !== undefined){
-let data99 = data85.rearCorneringStiffness_pct;
-const _errs274 = errors;
-let valid70 = false;
-let passing13 = null;
-const _errs275 = errors;
-if((typeof data99 == "number") && (isFinite(data99))){
-if(data99 > 90 || isNaN(data99)){
-const err275 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err275];
-}
-else {
-vErrors.push(err275);
-}
-errors++;
-}
-if(data99 < 0 || isNaN(data99)){
-const err276 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err276];
-}
-else {
-vErrors.push(err276);
-}
-errors++;
-}
-}
-else {
-const err277 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err277];
-}
-else {
-vErrors.push(err277);
-}
-errors++;
-}
-var _valid13 = _errs275 === errors;
-if(_valid13){
-valid70 = true;
-passing13 = 0;
-}
-const _errs277 = errors;
-if(Array.isArray(data99)){
-if(data99.length > 2){
-const err278 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err278];
-}
-else {
-vErrors.push(err278);
-}
-errors++;
-}
-if(data99.length < 2){
-const err279 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err279];
-}
-else {
-vErrors.push(err279);
-}
-errors++;
-}
-const len21 = data99.length;
-if(len21 > 0){
-let data100 = data99[0];
-if((typeof data100 == "number") && (isFinite(data100))){
-if(data100 > 0 || isNaN(data100)){
-const err280 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
-if(vErrors === null){
-vErrors = [err280];
-}
-else {
-vErrors.push(err280);
-}
-errors++;
-}
-if(data100 < -90 || isNaN(data100)){
-const err281 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+const err281 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err281];
 }
@@ -9225,9 +9211,27 @@ vErrors.push(err281);
 }
 errors++;
 }
+else {
+errors = _errs272;
+if(vErrors !== null){
+if(_errs272){
+vErrors.length = _errs272;
 }
 else {
-const err282 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data89.rearCorneringStiffness_pct !== undefined){
+let data103 = data89.rearCorneringStiffness_pct;
+const _errs282 = errors;
+let valid70 = false;
+let passing13 = null;
+const _errs283 = errors;
+if((typeof data103 == "number") && (isFinite(data103))){
+if(data103 > 90 || isNaN(data103)){
+const err282 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err282];
 }
@@ -9236,12 +9240,8 @@ vErrors.push(err282);
 }
 errors++;
 }
-}
-if(len21 > 1){
-let data101 = data99[1];
-if((typeof data101 == "number") && (isFinite(data101))){
-if(data101 > 900 || isNaN(data101)){
-const err283 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(data103 < 0 || isNaN(data103)){
+const err283 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err283];
 }
@@ -9250,8 +9250,9 @@ vErrors.push(err283);
 }
 errors++;
 }
-if(data101 < 0 || isNaN(data101)){
-const err284 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err284 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err284];
 }
@@ -9260,9 +9261,15 @@ vErrors.push(err284);
 }
 errors++;
 }
+var _valid13 = _errs283 === errors;
+if(_valid13){
+valid70 = true;
+passing13 = 0;
 }
-else {
-const err285 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const _errs285 = errors;
+if(Array.isArray(data103)){
+if(data103.length > 2){
+const err285 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err285];
 }
@@ -9271,10 +9278,8 @@ vErrors.push(err285);
 }
 errors++;
 }
-}
-}
-else {
-const err286 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data103.length < 2){
+const err286 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err286];
 }
@@ -9283,7 +9288,89 @@ vErrors.push(err286);
 }
 errors++;
 }
-var _valid13 = _errs277 === errors;
+const len21 = data103.length;
+if(len21 > 0){
+let data104 = data103[0];
+if((typeof data104 == "number") && (isFinite(data104))){
+if(data104 > 0 || isNaN(data104)){
+const err287 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err287];
+}
+else {
+vErrors.push(err287);
+}
+errors++;
+}
+if(data104 < -90 || isNaN(data104)){
+const err288 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err288];
+}
+else {
+vErrors.push(err288);
+}
+errors++;
+}
+}
+else {
+const err289 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err289];
+}
+else {
+vErrors.push(err289);
+}
+errors++;
+}
+}
+if(len21 > 1){
+let data105 = data103[1];
+if((typeof data105 == "number") && (isFinite(data105))){
+if(data105 > 900 || isNaN(data105)){
+const err290 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err290];
+}
+else {
+vErrors.push(err290);
+}
+errors++;
+}
+if(data105 < 0 || isNaN(data105)){
+const err291 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err291];
+}
+else {
+vErrors.push(err291);
+}
+errors++;
+}
+}
+else {
+const err292 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err292];
+}
+else {
+vErrors.push(err292);
+}
+errors++;
+}
+}
+}
+else {
+const err293 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err293];
+}
+else {
+vErrors.push(err293);
+}
+errors++;
+}
+var _valid13 = _errs285 === errors;
 if(_valid13 && valid70){
 valid70 = false;
 passing13 = [passing13, 1];
@@ -9295,108 +9382,7 @@ passing13 = 1;
 }
 }
 if(!valid70){
-const err287 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing13},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err287];
-}
-else {
-vErrors.push(err287);
-}
-errors++;
-}
-else {
-errors = _errs274;
-if(vErrors !== null){
-if(_errs274){
-vErrors.length = _errs274;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data85.actuatorLag_pct !== undefined){
-let data102 = data85.actuatorLag_pct;
-const _errs284 = errors;
-let valid72 = false;
-let passing14 = null;
-const _errs285 = errors;
-if((typeof data102 == "number") && (isFinite(data102))){
-if(data102 > 90 || isNaN(data102)){
-const err288 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err288];
-}
-else {
-vErrors.push(err288);
-}
-errors++;
-}
-if(data102 < 0 || isNaN(data102)){
-const err289 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err289];
-}
-else {
-vErrors.push(err289);
-}
-errors++;
-}
-}
-else {
-const err290 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err290];
-}
-else {
-vErrors.push(err290);
-}
-errors++;
-}
-var _valid14 = _errs285 === errors;
-if(_valid14){
-valid72 = true;
-passing14 = 0;
-}
-const _errs287 = errors;
-if(Array.isArray(data102)){
-if(data102.length > 2){
-const err291 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err291];
-}
-else {
-vErrors.push(err291);
-}
-errors++;
-}
-if(data102.length < 2){
-const err292 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err292];
-}
-else {
-vErrors.push(err292);
-}
-errors++;
-}
-const len22 = data102.length;
-if(len22 > 0){
-let data103 = data102[0];
-if((typeof data103 == "number") && (isFinite(data103))){
-if(data103 > 0 || isNaN(data103)){
-const err293 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
-if(vErrors === null){
-vErrors = [err293];
-}
-else {
-vErrors.push(err293);
-}
-errors++;
-}
-if(data103 < -90 || isNaN(data103)){
-const err294 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+const err294 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing13},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err294];
 }
@@ -9405,9 +9391,27 @@ vErrors.push(err294);
 }
 errors++;
 }
+else {
+errors = _errs282;
+if(vErrors !== null){
+if(_errs282){
+vErrors.length = _errs282;
 }
 else {
-const err295 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+vErrors = null;
+}
+}
+}
+}
+if(data89.actuatorLag_pct !== undefined){
+let data106 = data89.actuatorLag_pct;
+const _errs292 = errors;
+let valid72 = false;
+let passing14 = null;
+const _errs293 = errors;
+if((typeof data106 == "number") && (isFinite(data106))){
+if(data106 > 90 || isNaN(data106)){
+const err295 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err295];
 }
@@ -9416,12 +9420,8 @@ vErrors.push(err295);
 }
 errors++;
 }
-}
-if(len22 > 1){
-let data104 = data102[1];
-if((typeof data104 == "number") && (isFinite(data104))){
-if(data104 > 900 || isNaN(data104)){
-const err296 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(data106 < 0 || isNaN(data106)){
+const err296 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err296];
 }
@@ -9430,8 +9430,9 @@ vErrors.push(err296);
 }
 errors++;
 }
-if(data104 < 0 || isNaN(data104)){
-const err297 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+else {
+const err297 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err297];
 }
@@ -9440,9 +9441,15 @@ vErrors.push(err297);
 }
 errors++;
 }
+var _valid14 = _errs293 === errors;
+if(_valid14){
+valid72 = true;
+passing14 = 0;
 }
-else {
-const err298 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const _errs295 = errors;
+if(Array.isArray(data106)){
+if(data106.length > 2){
+const err298 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err298];
 }
@@ -9451,10 +9458,8 @@ vErrors.push(err298);
 }
 errors++;
 }
-}
-}
-else {
-const err299 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data106.length < 2){
+const err299 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err299];
 }
@@ -9463,7 +9468,89 @@ vErrors.push(err299);
 }
 errors++;
 }
-var _valid14 = _errs287 === errors;
+const len22 = data106.length;
+if(len22 > 0){
+let data107 = data106[0];
+if((typeof data107 == "number") && (isFinite(data107))){
+if(data107 > 0 || isNaN(data107)){
+const err300 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+if(vErrors === null){
+vErrors = [err300];
+}
+else {
+vErrors.push(err300);
+}
+errors++;
+}
+if(data107 < -90 || isNaN(data107)){
+const err301 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err301];
+}
+else {
+vErrors.push(err301);
+}
+errors++;
+}
+}
+else {
+const err302 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err302];
+}
+else {
+vErrors.push(err302);
+}
+errors++;
+}
+}
+if(len22 > 1){
+let data108 = data106[1];
+if((typeof data108 == "number") && (isFinite(data108))){
+if(data108 > 900 || isNaN(data108)){
+const err303 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err303];
+}
+else {
+vErrors.push(err303);
+}
+errors++;
+}
+if(data108 < 0 || isNaN(data108)){
+const err304 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err304];
+}
+else {
+vErrors.push(err304);
+}
+errors++;
+}
+}
+else {
+const err305 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err305];
+}
+else {
+vErrors.push(err305);
+}
+errors++;
+}
+}
+}
+else {
+const err306 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err306];
+}
+else {
+vErrors.push(err306);
+}
+errors++;
+}
+var _valid14 = _errs295 === errors;
 if(_valid14 && valid72){
 valid72 = false;
 passing14 = [passing14, 1];
@@ -9475,104 +9562,7 @@ passing14 = 1;
 }
 }
 if(!valid72){
-const err300 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing14},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err300];
-}
-else {
-vErrors.push(err300);
-}
-errors++;
-}
-else {
-errors = _errs284;
-if(vErrors !== null){
-if(_errs284){
-vErrors.length = _errs284;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data85.addedLatency_s !== undefined){
-let data105 = data85.addedLatency_s;
-if((typeof data105 == "number") && (isFinite(data105))){
-if(data105 > 1 || isNaN(data105)){
-const err301 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
-if(vErrors === null){
-vErrors = [err301];
-}
-else {
-vErrors.push(err301);
-}
-errors++;
-}
-if(data105 < 0 || isNaN(data105)){
-const err302 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err302];
-}
-else {
-vErrors.push(err302);
-}
-errors++;
-}
-}
-else {
-const err303 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err303];
-}
-else {
-vErrors.push(err303);
-}
-errors++;
-}
-}
-if(data85.fromIdentification !== undefined){
-if(typeof data85.fromIdentification !== "boolean"){
-const err304 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
-if(vErrors === null){
-vErrors = [err304];
-}
-else {
-vErrors.push(err304);
-}
-errors++;
-}
-}
-if(data85.search !== undefined){
-let data107 = data85.search;
-if(data107 && typeof data107 == "object" && !Array.isArray(data107)){
-for(const key19 in data107){
-if(!(((key19 === "samples") || (key19 === "seed")) || (key19 === "localSearchEvaluations"))){
-const err305 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err305];
-}
-else {
-vErrors.push(err305);
-}
-errors++;
-}
-}
-if(data107.samples !== undefined){
-let data108 = data107.samples;
-if(!(((typeof data108 == "number") && (!(data108 % 1) && !isNaN(data108))) && (isFinite(data108)))){
-const err306 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
-if(vErrors === null){
-vErrors = [err306];
-}
-else {
-vErrors.push(err306);
-}
-errors++;
-}
-if((typeof data108 == "number") && (isFinite(data108))){
-if(data108 > 4096 || isNaN(data108)){
-const err307 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
+const err307 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing14},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err307];
 }
@@ -9581,8 +9571,23 @@ vErrors.push(err307);
 }
 errors++;
 }
-if(data108 < 0 || isNaN(data108)){
-const err308 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+else {
+errors = _errs292;
+if(vErrors !== null){
+if(_errs292){
+vErrors.length = _errs292;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data89.addedLatency_s !== undefined){
+let data109 = data89.addedLatency_s;
+if((typeof data109 == "number") && (isFinite(data109))){
+if(data109 > 1 || isNaN(data109)){
+const err308 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
 if(vErrors === null){
 vErrors = [err308];
 }
@@ -9591,12 +9596,8 @@ vErrors.push(err308);
 }
 errors++;
 }
-}
-}
-if(data107.seed !== undefined){
-let data109 = data107.seed;
-if(!(((typeof data109 == "number") && (!(data109 % 1) && !isNaN(data109))) && (isFinite(data109)))){
-const err309 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data109 < 0 || isNaN(data109)){
+const err309 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err309];
 }
@@ -9605,9 +9606,9 @@ vErrors.push(err309);
 }
 errors++;
 }
-if((typeof data109 == "number") && (isFinite(data109))){
-if(data109 > 4294967295 || isNaN(data109)){
-const err310 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
+}
+else {
+const err310 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err310];
 }
@@ -9616,8 +9617,10 @@ vErrors.push(err310);
 }
 errors++;
 }
-if(data109 < 0 || isNaN(data109)){
-const err311 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data89.fromIdentification !== undefined){
+if(typeof data89.fromIdentification !== "boolean"){
+const err311 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err311];
 }
@@ -9627,11 +9630,12 @@ vErrors.push(err311);
 errors++;
 }
 }
-}
-if(data107.localSearchEvaluations !== undefined){
-let data110 = data107.localSearchEvaluations;
-if(!(((typeof data110 == "number") && (!(data110 % 1) && !isNaN(data110))) && (isFinite(data110)))){
-const err312 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data89.search !== undefined){
+let data111 = data89.search;
+if(data111 && typeof data111 == "object" && !Array.isArray(data111)){
+for(const key19 in data111){
+if(!(((key19 === "samples") || (key19 === "seed")) || (key19 === "localSearchEvaluations"))){
+const err312 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err312];
 }
@@ -9640,9 +9644,11 @@ vErrors.push(err312);
 }
 errors++;
 }
-if((typeof data110 == "number") && (isFinite(data110))){
-if(data110 > 1000 || isNaN(data110)){
-const err313 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+}
+if(data111.samples !== undefined){
+let data112 = data111.samples;
+if(!(((typeof data112 == "number") && (!(data112 % 1) && !isNaN(data112))) && (isFinite(data112)))){
+const err313 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err313];
 }
@@ -9651,8 +9657,9 @@ vErrors.push(err313);
 }
 errors++;
 }
-if(data110 < 0 || isNaN(data110)){
-const err314 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if((typeof data112 == "number") && (isFinite(data112))){
+if(data112 > 4096 || isNaN(data112)){
+const err314 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
 if(vErrors === null){
 vErrors = [err314];
 }
@@ -9661,11 +9668,8 @@ vErrors.push(err314);
 }
 errors++;
 }
-}
-}
-}
-else {
-const err315 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data112 < 0 || isNaN(data112)){
+const err315 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err315];
 }
@@ -9676,8 +9680,10 @@ errors++;
 }
 }
 }
-else {
-const err316 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data111.seed !== undefined){
+let data113 = data111.seed;
+if(!(((typeof data113 == "number") && (!(data113 % 1) && !isNaN(data113))) && (isFinite(data113)))){
+const err316 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err316];
 }
@@ -9686,10 +9692,9 @@ vErrors.push(err316);
 }
 errors++;
 }
-}
-}
-else {
-const err317 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data113 == "number") && (isFinite(data113))){
+if(data113 > 4294967295 || isNaN(data113)){
+const err317 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
 if(vErrors === null){
 vErrors = [err317];
 }
@@ -9698,12 +9703,94 @@ vErrors.push(err317);
 }
 errors++;
 }
+if(data113 < 0 || isNaN(data113)){
+const err318 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err318];
+}
+else {
+vErrors.push(err318);
+}
+errors++;
+}
+}
+}
+if(data111.localSearchEvaluations !== undefined){
+let data114 = data111.localSearchEvaluations;
+if(!(((typeof data114 == "number") && (!(data114 % 1) && !isNaN(data114))) && (isFinite(data114)))){
+const err319 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err319];
+}
+else {
+vErrors.push(err319);
+}
+errors++;
+}
+if((typeof data114 == "number") && (isFinite(data114))){
+if(data114 > 1000 || isNaN(data114)){
+const err320 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(vErrors === null){
+vErrors = [err320];
+}
+else {
+vErrors.push(err320);
+}
+errors++;
+}
+if(data114 < 0 || isNaN(data114)){
+const err321 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err321];
+}
+else {
+vErrors.push(err321);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err322 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err322];
+}
+else {
+vErrors.push(err322);
+}
+errors++;
+}
+}
+}
+else {
+const err323 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err323];
+}
+else {
+vErrors.push(err323);
+}
+errors++;
+}
+}
+}
+else {
+const err324 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err324];
+}
+else {
+vErrors.push(err324);
+}
+errors++;
+}
 validate4.errors = vErrors;
 return errors === 0;
 }
 
 export const validateScheduleFile = validate5;
-const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}}}},"variations":{"$id":"https://speedband.dev/schema/schedule-variations.json","type":"object","additionalProperties":false,"required":["acceptance","passed","set","search","gridSize","failedSpeeds","unstableSpeeds","loopAnalyses","worst","failures","breakpoints","weakest"],"properties":{"acceptance":{"enum":["robust","nominal"]},"passed":{"type":"boolean"},"set":{"type":"object","additionalProperties":false,"required":["model","dimensions","notApplied"],"properties":{"model":{"enum":["single-track","interpolated-lumped"]},"dimensions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["parameter","change","minimum","maximum","source"],"properties":{"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"change":{"enum":["scale","add"]},"minimum":{"type":"number"},"maximum":{"type":"number"},"source":{"type":"string"}}}},"notApplied":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["field","reason"],"properties":{"field":{"type":"string"},"reason":{"type":"string"}}}}}},"search":{"type":"object","additionalProperties":false,"required":["samples","seed","localSearchEvaluations","method"],"properties":{"samples":{"type":"integer","minimum":0},"seed":{"type":"integer","minimum":0},"localSearchEvaluations":{"type":"integer","minimum":0},"method":{"type":"string"}}},"gridSize":{"type":"integer","minimum":1},"failedSpeeds":{"type":"integer","minimum":0},"unstableSpeeds":{"type":"integer","minimum":0},"loopAnalyses":{"type":"integer","minimum":0},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstOverGrid"},"upperGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"delayMargin_s":{"$ref":"#/definitions/worstOverGrid"},"sensitivityPeak":{"$ref":"#/definitions/worstOverGrid"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstOverGrid"}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"breakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","instability","worst","timeDomain","weakest"],"properties":{"speed_mps":{"type":"number"},"instability":{"$ref":"#/definitions/instability"},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstAtSpeed"},"upperGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"delayMargin_s":{"$ref":"#/definitions/worstAtSpeed"},"sensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"}}},"timeDomain":{"$ref":"#/definitions/timeDomain"},"weakest":{"$ref":"#/definitions/weakest"}}}},"weakest":{"$ref":"#/definitions/weakest"}},"definitions":{"combination":{"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."},"worstOverGrid":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"worstAtSpeed":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["worst","failures","vehicles"],"properties":{"worst":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","misalignmentRecoveryTime_s","lateralForceRecoveryTime_s","laneChangeError_m","curveEntryError_m","limitedStepOvershoot_pct","limitedStepSettlingTime_s"],"properties":{"overshoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"settlingTime_s":{"$ref":"#/definitions/worstTimeDomain"},"misalignmentRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"lateralForceRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"laneChangeError_m":{"$ref":"#/definitions/worstTimeDomain"},"curveEntryError_m":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepOvershoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepSettlingTime_s":{"$ref":"#/definitions/worstTimeDomain"}}},"failures":{"type":"array","items":{"type":"string"}},"vehicles":{"type":"integer","minimum":0}},"description":"The worst time-domain figures of the breakpoint's gains, set-point weights and feed-forward over the set (the nominal vehicle, the corners, the combinations behind the worst margins); null when not simulated."},"worstTimeDomain":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":["number","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"A worst time-domain figure (value null: the response did not settle within the simulated time) and its combination; null where the loop has no such figure."},"instability":{"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}},"weakest":{"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."}},"description":"The worst case over a set of vehicles around the check model (plan \"variations\"): per grid speed the worst lower and upper gain margin, phase margin, delay margin, Ms and Mt over the set, each with the parameter changes behind it; a set holding an unstable loop is the worst case of all."},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchOn":{"enum":["nominal","worst-case"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
+const schema11 = {"type":"object","additionalProperties":false,"required":["format","formatVersion","status","vehicle","loop","controller","interpolation","units","breakpoints","check","provenance","cautions","checksum"],"properties":{"format":{"const":"speedband-schedule"},"formatVersion":{"const":3},"status":{"enum":["passed","failed"]},"vehicle":{"type":"object","additionalProperties":false,"required":["name","file","sha256"],"properties":{"name":{"type":"string"},"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"}}},"loop":{"type":"object","additionalProperties":false,"required":["kind","error"],"properties":{"kind":{"enum":["yaw-rate","heading","path"]},"referencePoint":{"enum":["cg","front-axle"]},"preview_m":{"type":"number","minimum":0},"previewTime_s":{"type":"number","minimum":0},"error":{"type":"string"}}},"controller":{"type":"object","additionalProperties":false,"required":["form","derivativeFilter","discretisation","sampleTime_s","computationLatency_s","integratorClamp_rad","antiWindup","equation","feedForward","update","integration"],"properties":{"form":{"const":"parallel"},"derivativeFilter":{"type":"number","exclusiveMinimum":0},"discretisation":{"enum":["tustin","backward-euler"]},"sampleTime_s":{"type":"number","exclusiveMinimum":0},"computationLatency_s":{"type":"number","minimum":0},"integratorClamp_rad":{"type":"number","exclusiveMinimum":0},"antiWindup":{"enum":["conditional-integration","back-calculation"]},"equation":{"type":"string"},"feedForward":{"type":"string"},"update":{"type":"array","items":{"type":"string"}},"integration":{"type":"string"}}},"interpolation":{"type":"object","additionalProperties":false,"required":["method","outOfRange","lowSpeedFloor_mps","description"],"properties":{"method":{"enum":["linear","monotone-cubic"]},"outOfRange":{"const":"clamp"},"lowSpeedFloor_mps":{"type":"number","minimum":0},"description":{"type":"string"}}},"units":{"type":"object","additionalProperties":false,"required":["speed","error","output","kp","ki","kd","feedForward","feedForwardInput"],"properties":{"speed":{"const":"m/s"},"error":{"type":"string"},"output":{"const":"rad"},"kp":{"type":"string"},"ki":{"type":"string"},"kd":{"type":"string"},"feedForward":{"type":"string"},"feedForwardInput":{"type":"string"}}},"breakpoints":{"type":"array","minItems":1,"items":{"type":"object","additionalProperties":false,"required":["speed_mps","kp","ki","kd","setpointWeightProportional","setpointWeightDerivative","feedForward","feedForwardLeadTime_s","insertedByRefinement","margins","timeDomain"],"properties":{"speed_mps":{"type":"number","minimum":0},"kp":{"type":"number"},"ki":{"type":"number"},"kd":{"type":"number"},"setpointWeightProportional":{"type":"number","minimum":0,"maximum":1},"setpointWeightDerivative":{"type":"number","minimum":0,"maximum":1},"feedForward":{"type":"number"},"feedForwardLeadTime_s":{"type":"number"},"insertedByRefinement":{"type":"boolean"},"margins":{"type":"object","additionalProperties":false,"required":["stable","verdict","lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"stable":{"type":"boolean"},"verdict":{"enum":["stable","unstable","marginal"],"description":"From the exact closed-loop poles of the sampled loop (each with a bound on its rounding error), cross-checked by the Nyquist count; marginal: a pole on the unit circle within that bound. Margins below are null unless stable."},"lowerGainMargin_dB":{"type":["number","null"],"description":"Gain reduction that destabilises (negative dB; conditionally stable loops); null when there is none."},"upperGainMargin_dB":{"type":["number","null"],"description":"Gain increase that destabilises, dB; null when there is none."},"phaseMargin_deg":{"type":["number","null"],"description":"Smallest phase change, lag or lead, that puts the loop on −1 at a gain crossover: |180° + ∠L| in (0°, 180°], the smallest over the crossovers (phase lag to the stability limit, Åström & Murray 2008, §9.3; lead counted too). Never negative on a stable loop."},"delayMargin_s":{"type":["number","null"],"description":"Smallest delay added in the loop that destabilises it, s: phase lag over frequency at the gain crossovers, confirmed or shortened by the exact verdict of the loop with that delay added."},"sensitivityPeak":{"type":["number","null"],"description":"Ms = max |1/(1 + L)| over 0 < ω ≤ π/Ts."},"complementarySensitivityPeak":{"type":["number","null"],"description":"Mt = max |L/(1 + L)| over 0 < ω ≤ π/Ts."}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["referenceStep","steeringMisalignment","lateralForce","laneChange","curveEntry","actuator","limitedStep"],"properties":{"referenceStep":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","settlingDistance_m"],"properties":{"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"settlingDistance_m":{"type":["number","null"],"minimum":0}}},"steeringMisalignment":{"type":"object","additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"lateralForce":{"type":["object","null"],"additionalProperties":false,"required":["size","peakError","recoveryTime_s"],"properties":{"size":{"type":"number"},"peakError":{"type":"number"},"recoveryTime_s":{"type":["number","null"],"minimum":0}}},"laneChange":{"type":["object","null"],"additionalProperties":false,"required":["size_m","length_m","peakError_m"],"properties":{"size_m":{"type":"number"},"length_m":{"type":"number"},"peakError_m":{"type":"number"}}},"curveEntry":{"type":["object","null"],"additionalProperties":false,"required":["curvature_perM","peakError_m","errorAfterSettle_m"],"properties":{"curvature_perM":{"type":"number"},"peakError_m":{"type":"number"},"errorAfterSettle_m":{"type":"number"}}},"actuator":{"type":"object","additionalProperties":false,"required":["largestReference","limitedBy","peakAnglePerUnit","peakRatePerUnit"],"properties":{"largestReference":{"type":"number"},"limitedBy":{"enum":["angle","rate"]},"peakAnglePerUnit":{"type":"number"},"peakRatePerUnit":{"type":"number"}}},"limitedStep":{"type":["object","null"],"additionalProperties":false,"required":["size","overshoot_pct","settlingTime_s","peakSteerRate_radps"],"properties":{"size":{"type":"number"},"overshoot_pct":{"type":"number"},"settlingTime_s":{"type":["number","null"],"minimum":0},"peakSteerRate_radps":{"type":"number"}}}}}}}},"check":{"type":"object","additionalProperties":false,"required":["passed","model","range","gridSpeeds","gridSize","thresholds","worst","failedSpeeds","failures","insertions","timeDomain"],"properties":{"passed":{"type":"boolean"},"model":{"type":"object","additionalProperties":false,"required":["kind","description"],"properties":{"kind":{"enum":["single-track","interpolated-lumped"]},"description":{"type":"string"}}},"range":{"type":"object","additionalProperties":false,"required":["minimum_mps","maximum_mps"],"properties":{"minimum_mps":{"type":"number"},"maximum_mps":{"type":"number"}}},"gridSpeeds":{"type":"integer","minimum":2},"gridSize":{"type":"integer","minimum":1},"thresholds":{"type":"object","additionalProperties":false,"required":["maximumLowerGainMargin_dB","minimumUpperGainMargin_dB","minimumPhaseMargin_deg","maximumSensitivityPeak","maximumComplementarySensitivityPeak","minimumDelayMargin_s"],"properties":{"maximumLowerGainMargin_dB":{"type":"number"},"minimumUpperGainMargin_dB":{"type":"number"},"minimumPhaseMargin_deg":{"type":"number"},"maximumSensitivityPeak":{"type":"number"},"maximumComplementarySensitivityPeak":{"type":"number"},"minimumDelayMargin_s":{"type":"number"}}},"worst":{"type":"object","additionalProperties":false,"required":["lowerGainMargin_dB","upperGainMargin_dB","phaseMargin_deg","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"lowerGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"upperGainMargin_dB":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"phaseMargin_deg":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"delayMargin_s":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"sensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}},"complementarySensitivityPeak":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"}}}}},"failedSpeeds":{"type":"integer","minimum":0},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"insertions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","reason"],"properties":{"speed_mps":{"type":"number"},"reason":{"type":"string"}}}},"timeDomain":{"type":"object","additionalProperties":false,"required":["passed","limits","steeringLimits","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"}}},"steeringLimits":{"type":"object","additionalProperties":false,"required":["maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"maxSteerAngle_rad":{"type":"number","exclusiveMinimum":0},"maxSteerRate_radps":{"type":"number","exclusiveMinimum":0}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}}}},"scenarios":{"type":"object","additionalProperties":false,"required":["passed","limits","model","speeds_mps","scenarios","failures"],"properties":{"passed":{"type":"boolean"},"limits":{"type":"object","additionalProperties":false,"required":["maximumOvershoot_pct","maximumRecoveryTime_s","maximumLaneChangeError_m","maximumCurveEntryError_m","maximumSpeedChangeError"],"properties":{"maximumOvershoot_pct":{"type":"number"},"maximumRecoveryTime_s":{"type":"number"},"maximumLaneChangeError_m":{"type":"number"},"maximumCurveEntryError_m":{"type":"number"},"maximumSpeedChangeError":{"type":"number"}}},"model":{"type":"string"},"speeds_mps":{"type":"array","items":{"type":"number"}},"scenarios":{"type":"array","items":{"type":"string"}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","scenario","metric","message"],"properties":{"speed_mps":{"type":"number"},"scenario":{"type":"string"},"metric":{"type":"string"},"message":{"type":"string"}}}}}},"speedChange":{"type":"object","additionalProperties":false,"required":["maximumAcceleration_mps2","maximumDeceleration_mps2","searched_mps2","statement"],"properties":{"maximumAcceleration_mps2":{"type":["number","null"]},"maximumDeceleration_mps2":{"type":["number","null"]},"searched_mps2":{"type":"object","additionalProperties":false,"required":["lowest","highest"],"properties":{"lowest":{"type":"number"},"highest":{"type":"number"}}},"statement":{"type":"string"}}}}},"variations":{"$id":"https://speedband.dev/schema/schedule-variations.json","type":"object","additionalProperties":false,"required":["acceptance","passed","set","search","gridSize","failedSpeeds","unstableSpeeds","loopAnalyses","worst","failures","breakpoints","weakest"],"properties":{"acceptance":{"enum":["robust","nominal"]},"passed":{"type":"boolean"},"set":{"type":"object","additionalProperties":false,"required":["model","dimensions","notApplied"],"properties":{"model":{"enum":["single-track","interpolated-lumped"]},"dimensions":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["parameter","change","minimum","maximum","source"],"properties":{"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"change":{"enum":["scale","add"]},"minimum":{"type":"number"},"maximum":{"type":"number"},"source":{"type":"string"}}}},"notApplied":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["field","reason"],"properties":{"field":{"type":"string"},"reason":{"type":"string"}}}}}},"search":{"type":"object","additionalProperties":false,"required":["samples","seed","localSearchEvaluations","method"],"properties":{"samples":{"type":"integer","minimum":0},"seed":{"type":"integer","minimum":0},"localSearchEvaluations":{"type":"integer","minimum":0},"method":{"type":"string"}}},"gridSize":{"type":"integer","minimum":1},"failedSpeeds":{"type":"integer","minimum":0},"unstableSpeeds":{"type":"integer","minimum":0},"loopAnalyses":{"type":"integer","minimum":0},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstOverGrid"},"upperGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstOverGrid"},"delayMargin_s":{"$ref":"#/definitions/worstOverGrid"},"sensitivityPeak":{"$ref":"#/definitions/worstOverGrid"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstOverGrid"}}},"failures":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","messages"],"properties":{"speed_mps":{"type":"number"},"messages":{"type":"array","items":{"type":"string"}}}}},"breakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","instability","worst","timeDomain","weakest"],"properties":{"speed_mps":{"type":"number"},"instability":{"$ref":"#/definitions/instability"},"worst":{"type":"object","additionalProperties":false,"required":["phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"],"properties":{"phaseMargin_deg":{"$ref":"#/definitions/worstAtSpeed"},"upperGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"lowerGainMargin_dB":{"$ref":"#/definitions/worstAtSpeed"},"delayMargin_s":{"$ref":"#/definitions/worstAtSpeed"},"sensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"},"complementarySensitivityPeak":{"$ref":"#/definitions/worstAtSpeed"}}},"timeDomain":{"$ref":"#/definitions/timeDomain"},"weakest":{"$ref":"#/definitions/weakest"}}}},"weakest":{"$ref":"#/definitions/weakest"}},"definitions":{"combination":{"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."},"worstOverGrid":{"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"worstAtSpeed":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}},"timeDomain":{"type":["object","null"],"additionalProperties":false,"required":["worst","failures","vehicles"],"properties":{"worst":{"type":"object","additionalProperties":false,"required":["overshoot_pct","settlingTime_s","misalignmentRecoveryTime_s","lateralForceRecoveryTime_s","laneChangeError_m","curveEntryError_m","limitedStepOvershoot_pct","limitedStepSettlingTime_s"],"properties":{"overshoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"settlingTime_s":{"$ref":"#/definitions/worstTimeDomain"},"misalignmentRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"lateralForceRecoveryTime_s":{"$ref":"#/definitions/worstTimeDomain"},"laneChangeError_m":{"$ref":"#/definitions/worstTimeDomain"},"curveEntryError_m":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepOvershoot_pct":{"$ref":"#/definitions/worstTimeDomain"},"limitedStepSettlingTime_s":{"$ref":"#/definitions/worstTimeDomain"}}},"failures":{"type":"array","items":{"type":"string"}},"vehicles":{"type":"integer","minimum":0}},"description":"The worst time-domain figures of the breakpoint's gains, set-point weights and feed-forward over the set (the nominal vehicle, the corners, the combinations behind the worst margins); null when not simulated."},"worstTimeDomain":{"type":["object","null"],"additionalProperties":false,"required":["value","combination"],"properties":{"value":{"type":["number","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"A worst time-domain figure (value null: the response did not settle within the simulated time) and its combination; null where the loop has no such figure."},"instability":{"type":["object","null"],"additionalProperties":false,"required":["verdict","combination","largestPoleMagnitude"],"properties":{"verdict":{"enum":["unstable","marginal"]},"combination":{"$ref":"#/definitions/combination"},"largestPoleMagnitude":{"type":["number","null"]}}},"weakest":{"type":["object","null"],"additionalProperties":false,"required":["speed_mps","figure","parameter","worst","withParameterNominal","restoresStability","combination"],"properties":{"speed_mps":{"type":"number"},"figure":{"enum":["stability","phaseMargin_deg","upperGainMargin_dB","lowerGainMargin_dB","delayMargin_s","sensitivityPeak","complementarySensitivityPeak"]},"parameter":{"enum":["mass_kg","yawInertia_kgm2","cgToFrontAxle_m","frontCorneringStiffness_NPerRad","rearCorneringStiffness_NPerRad","actuatorLag_s","actuatorDelay_s","gain","timeConstant_s","deadTime_s"]},"worst":{"type":["number","null"]},"withParameterNominal":{"type":["number","null"]},"restoresStability":{"type":["boolean","null"]},"combination":{"$ref":"#/definitions/combination"}},"description":"At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most."}},"description":"The worst case over a set of vehicles around the check model (plan \"variations\"): per grid speed the worst lower and upper gain margin, phase margin, delay margin, Ms and Mt over the set, each with the parameter changes behind it; a set holding an unstable loop is the worst case of all."},"provenance":{"type":"object","additionalProperties":false,"required":["tool","toolVersion","inputs","model","rule","plan"],"properties":{"tool":{"const":"speedband"},"toolVersion":{"type":"string"},"inputs":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["file","sha256","role"],"properties":{"file":{"type":"string"},"sha256":{"type":"string","pattern":"^[0-9a-f]{64}$"},"role":{"type":"string"}}}},"model":{"type":"object"},"rule":{"type":"object","additionalProperties":false,"required":["name","parameters","tuneFor"],"properties":{"name":{"type":"string"},"parameters":{"type":"object"},"citation":{"type":"string"},"parametersAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameters"],"properties":{"speed_mps":{"type":"number"},"parameters":{"type":"object","additionalProperties":{"type":["number","string"]}}}}},"tuneFor":{"enum":["rule-parameters","fastest-passing"]},"searchOn":{"enum":["nominal","worst-case"]},"searchAtBreakpoints":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["speed_mps","parameter","value","outcome","candidates","reason"],"properties":{"speed_mps":{"type":"number"},"parameter":{"type":"string"},"value":{"type":"number"},"outcome":{"enum":["fastest passing","none passed"]},"candidates":{"type":"integer","minimum":1},"reason":{"type":"string"}}}}}},"plan":{"type":"object"},"handEdits":{"type":"array","items":{"type":"object","additionalProperties":false,"required":["statement","changedSections","toolVersion","model","gridSize"],"properties":{"statement":{"type":"string"},"changedSections":{"type":"array","items":{"type":"string"}},"toolVersion":{"type":"string"},"model":{"type":"string"},"gridSize":{"type":"integer","minimum":1}}}}}},"cautions":{"type":"array","minItems":1,"items":{"type":"string"}},"checksum":{"type":"object","additionalProperties":false,"required":["algorithm","canonicalForm","value","sections"],"properties":{"algorithm":{"const":"SHA-256"},"canonicalForm":{"type":"string"},"value":{"type":"string","pattern":"^[0-9a-f]{64}$"},"sections":{"type":"object","propertyNames":{"pattern":"^/"},"additionalProperties":{"type":"string","pattern":"^[0-9a-f]{64}$"}}}}}};
 const pattern5 = new RegExp("^/", "u");
 const schema12 = {"type":["object","null"],"additionalProperties":false,"required":["value","speed_mps","combination"],"properties":{"value":{"type":"number"},"speed_mps":{"type":"number"},"combination":{"$ref":"#/definitions/combination"}}};
 const schema13 = {"type":"object","additionalProperties":false,"properties":{"mass_kg":{"type":"number"},"yawInertia_kgm2":{"type":"number"},"cgToFrontAxle_m":{"type":"number"},"frontCorneringStiffness_NPerRad":{"type":"number"},"rearCorneringStiffness_NPerRad":{"type":"number"},"actuatorLag_s":{"type":"number"},"actuatorDelay_s":{"type":"number"},"gain":{"type":"number"},"timeConstant_s":{"type":"number"},"deadTime_s":{"type":"number"}},"description":"The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say."};
@@ -15407,9 +15494,11 @@ vErrors.push(err352);
 errors++;
 }
 }
-}
-else {
-const err353 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data91.scenarios !== undefined){
+let data152 = data91.scenarios;
+if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
+if(data152.passed === undefined){
+const err353 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err353];
 }
@@ -15418,12 +15507,8 @@ vErrors.push(err353);
 }
 errors++;
 }
-}
-if(data.variations !== undefined){
-let data152 = data.variations;
-if(data152 && typeof data152 == "object" && !Array.isArray(data152)){
-if(data152.acceptance === undefined){
-const err354 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "acceptance"},message:"must have required property '"+"acceptance"+"'"};
+if(data152.limits === undefined){
+const err354 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "limits"},message:"must have required property '"+"limits"+"'"};
 if(vErrors === null){
 vErrors = [err354];
 }
@@ -15432,8 +15517,8 @@ vErrors.push(err354);
 }
 errors++;
 }
-if(data152.passed === undefined){
-const err355 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
+if(data152.model === undefined){
+const err355 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err355];
 }
@@ -15442,8 +15527,8 @@ vErrors.push(err355);
 }
 errors++;
 }
-if(data152.set === undefined){
-const err356 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "set"},message:"must have required property '"+"set"+"'"};
+if(data152.speeds_mps === undefined){
+const err356 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "speeds_mps"},message:"must have required property '"+"speeds_mps"+"'"};
 if(vErrors === null){
 vErrors = [err356];
 }
@@ -15452,8 +15537,8 @@ vErrors.push(err356);
 }
 errors++;
 }
-if(data152.search === undefined){
-const err357 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "search"},message:"must have required property '"+"search"+"'"};
+if(data152.scenarios === undefined){
+const err357 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "scenarios"},message:"must have required property '"+"scenarios"+"'"};
 if(vErrors === null){
 vErrors = [err357];
 }
@@ -15462,8 +15547,8 @@ vErrors.push(err357);
 }
 errors++;
 }
-if(data152.gridSize === undefined){
-const err358 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(data152.failures === undefined){
+const err358 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err358];
 }
@@ -15472,8 +15557,9 @@ vErrors.push(err358);
 }
 errors++;
 }
-if(data152.failedSpeeds === undefined){
-const err359 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
+for(const key33 in data152){
+if(!((((((key33 === "passed") || (key33 === "limits")) || (key33 === "model")) || (key33 === "speeds_mps")) || (key33 === "scenarios")) || (key33 === "failures"))){
+const err359 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err359];
 }
@@ -15482,8 +15568,10 @@ vErrors.push(err359);
 }
 errors++;
 }
-if(data152.unstableSpeeds === undefined){
-const err360 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "unstableSpeeds"},message:"must have required property '"+"unstableSpeeds"+"'"};
+}
+if(data152.passed !== undefined){
+if(typeof data152.passed !== "boolean"){
+const err360 = {instancePath:instancePath+"/check/scenarios/passed",schemaPath:"#/properties/check/properties/scenarios/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err360];
 }
@@ -15492,8 +15580,12 @@ vErrors.push(err360);
 }
 errors++;
 }
-if(data152.loopAnalyses === undefined){
-const err361 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "loopAnalyses"},message:"must have required property '"+"loopAnalyses"+"'"};
+}
+if(data152.limits !== undefined){
+let data154 = data152.limits;
+if(data154 && typeof data154 == "object" && !Array.isArray(data154)){
+if(data154.maximumOvershoot_pct === undefined){
+const err361 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumOvershoot_pct"},message:"must have required property '"+"maximumOvershoot_pct"+"'"};
 if(vErrors === null){
 vErrors = [err361];
 }
@@ -15502,8 +15594,8 @@ vErrors.push(err361);
 }
 errors++;
 }
-if(data152.worst === undefined){
-const err362 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+if(data154.maximumRecoveryTime_s === undefined){
+const err362 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumRecoveryTime_s"},message:"must have required property '"+"maximumRecoveryTime_s"+"'"};
 if(vErrors === null){
 vErrors = [err362];
 }
@@ -15512,8 +15604,8 @@ vErrors.push(err362);
 }
 errors++;
 }
-if(data152.failures === undefined){
-const err363 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
+if(data154.maximumLaneChangeError_m === undefined){
+const err363 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumLaneChangeError_m"},message:"must have required property '"+"maximumLaneChangeError_m"+"'"};
 if(vErrors === null){
 vErrors = [err363];
 }
@@ -15522,8 +15614,8 @@ vErrors.push(err363);
 }
 errors++;
 }
-if(data152.breakpoints === undefined){
-const err364 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
+if(data154.maximumCurveEntryError_m === undefined){
+const err364 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumCurveEntryError_m"},message:"must have required property '"+"maximumCurveEntryError_m"+"'"};
 if(vErrors === null){
 vErrors = [err364];
 }
@@ -15532,8 +15624,8 @@ vErrors.push(err364);
 }
 errors++;
 }
-if(data152.weakest === undefined){
-const err365 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
+if(data154.maximumSpeedChangeError === undefined){
+const err365 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/required",keyword:"required",params:{missingProperty: "maximumSpeedChangeError"},message:"must have required property '"+"maximumSpeedChangeError"+"'"};
 if(vErrors === null){
 vErrors = [err365];
 }
@@ -15542,9 +15634,9 @@ vErrors.push(err365);
 }
 errors++;
 }
-for(const key33 in data152){
-if(!(func18.call(schema11.properties.variations.properties, key33))){
-const err366 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key33},message:"must NOT have additional properties"};
+for(const key34 in data154){
+if(!(((((key34 === "maximumOvershoot_pct") || (key34 === "maximumRecoveryTime_s")) || (key34 === "maximumLaneChangeError_m")) || (key34 === "maximumCurveEntryError_m")) || (key34 === "maximumSpeedChangeError"))){
+const err366 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err366];
 }
@@ -15554,10 +15646,10 @@ vErrors.push(err366);
 errors++;
 }
 }
-if(data152.acceptance !== undefined){
-let data153 = data152.acceptance;
-if(!((data153 === "robust") || (data153 === "nominal"))){
-const err367 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+if(data154.maximumOvershoot_pct !== undefined){
+let data155 = data154.maximumOvershoot_pct;
+if(!((typeof data155 == "number") && (isFinite(data155)))){
+const err367 = {instancePath:instancePath+"/check/scenarios/limits/maximumOvershoot_pct",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumOvershoot_pct/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err367];
 }
@@ -15567,9 +15659,10 @@ vErrors.push(err367);
 errors++;
 }
 }
-if(data152.passed !== undefined){
-if(typeof data152.passed !== "boolean"){
-const err368 = {instancePath:instancePath+"/variations/passed",schemaPath:"#/properties/variations/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
+if(data154.maximumRecoveryTime_s !== undefined){
+let data156 = data154.maximumRecoveryTime_s;
+if(!((typeof data156 == "number") && (isFinite(data156)))){
+const err368 = {instancePath:instancePath+"/check/scenarios/limits/maximumRecoveryTime_s",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumRecoveryTime_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err368];
 }
@@ -15579,11 +15672,10 @@ vErrors.push(err368);
 errors++;
 }
 }
-if(data152.set !== undefined){
-let data155 = data152.set;
-if(data155 && typeof data155 == "object" && !Array.isArray(data155)){
-if(data155.model === undefined){
-const err369 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(data154.maximumLaneChangeError_m !== undefined){
+let data157 = data154.maximumLaneChangeError_m;
+if(!((typeof data157 == "number") && (isFinite(data157)))){
+const err369 = {instancePath:instancePath+"/check/scenarios/limits/maximumLaneChangeError_m",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumLaneChangeError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err369];
 }
@@ -15592,8 +15684,11 @@ vErrors.push(err369);
 }
 errors++;
 }
-if(data155.dimensions === undefined){
-const err370 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "dimensions"},message:"must have required property '"+"dimensions"+"'"};
+}
+if(data154.maximumCurveEntryError_m !== undefined){
+let data158 = data154.maximumCurveEntryError_m;
+if(!((typeof data158 == "number") && (isFinite(data158)))){
+const err370 = {instancePath:instancePath+"/check/scenarios/limits/maximumCurveEntryError_m",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumCurveEntryError_m/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err370];
 }
@@ -15602,8 +15697,11 @@ vErrors.push(err370);
 }
 errors++;
 }
-if(data155.notApplied === undefined){
-const err371 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "notApplied"},message:"must have required property '"+"notApplied"+"'"};
+}
+if(data154.maximumSpeedChangeError !== undefined){
+let data159 = data154.maximumSpeedChangeError;
+if(!((typeof data159 == "number") && (isFinite(data159)))){
+const err371 = {instancePath:instancePath+"/check/scenarios/limits/maximumSpeedChangeError",schemaPath:"#/properties/check/properties/scenarios/properties/limits/properties/maximumSpeedChangeError/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err371];
 }
@@ -15612,9 +15710,10 @@ vErrors.push(err371);
 }
 errors++;
 }
-for(const key34 in data155){
-if(!(((key34 === "model") || (key34 === "dimensions")) || (key34 === "notApplied"))){
-const err372 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key34},message:"must NOT have additional properties"};
+}
+}
+else {
+const err372 = {instancePath:instancePath+"/check/scenarios/limits",schemaPath:"#/properties/check/properties/scenarios/properties/limits/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err372];
 }
@@ -15624,10 +15723,9 @@ vErrors.push(err372);
 errors++;
 }
 }
-if(data155.model !== undefined){
-let data156 = data155.model;
-if(!((data156 === "single-track") || (data156 === "interpolated-lumped"))){
-const err373 = {instancePath:instancePath+"/variations/set/model",schemaPath:"#/properties/variations/properties/set/properties/model/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.model.enum},message:"must be equal to one of the allowed values"};
+if(data152.model !== undefined){
+if(typeof data152.model !== "string"){
+const err373 = {instancePath:instancePath+"/check/scenarios/model",schemaPath:"#/properties/check/properties/scenarios/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err373];
 }
@@ -15637,15 +15735,14 @@ vErrors.push(err373);
 errors++;
 }
 }
-if(data155.dimensions !== undefined){
-let data157 = data155.dimensions;
-if(Array.isArray(data157)){
-const len7 = data157.length;
+if(data152.speeds_mps !== undefined){
+let data161 = data152.speeds_mps;
+if(Array.isArray(data161)){
+const len7 = data161.length;
 for(let i7=0; i7<len7; i7++){
-let data158 = data157[i7];
-if(data158 && typeof data158 == "object" && !Array.isArray(data158)){
-if(data158.parameter === undefined){
-const err374 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+let data162 = data161[i7];
+if(!((typeof data162 == "number") && (isFinite(data162)))){
+const err374 = {instancePath:instancePath+"/check/scenarios/speeds_mps/" + i7,schemaPath:"#/properties/check/properties/scenarios/properties/speeds_mps/items/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err374];
 }
@@ -15654,8 +15751,10 @@ vErrors.push(err374);
 }
 errors++;
 }
-if(data158.change === undefined){
-const err375 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "change"},message:"must have required property '"+"change"+"'"};
+}
+}
+else {
+const err375 = {instancePath:instancePath+"/check/scenarios/speeds_mps",schemaPath:"#/properties/check/properties/scenarios/properties/speeds_mps/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err375];
 }
@@ -15664,8 +15763,14 @@ vErrors.push(err375);
 }
 errors++;
 }
-if(data158.minimum === undefined){
-const err376 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "minimum"},message:"must have required property '"+"minimum"+"'"};
+}
+if(data152.scenarios !== undefined){
+let data163 = data152.scenarios;
+if(Array.isArray(data163)){
+const len8 = data163.length;
+for(let i8=0; i8<len8; i8++){
+if(typeof data163[i8] !== "string"){
+const err376 = {instancePath:instancePath+"/check/scenarios/scenarios/" + i8,schemaPath:"#/properties/check/properties/scenarios/properties/scenarios/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err376];
 }
@@ -15674,8 +15779,10 @@ vErrors.push(err376);
 }
 errors++;
 }
-if(data158.maximum === undefined){
-const err377 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "maximum"},message:"must have required property '"+"maximum"+"'"};
+}
+}
+else {
+const err377 = {instancePath:instancePath+"/check/scenarios/scenarios",schemaPath:"#/properties/check/properties/scenarios/properties/scenarios/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err377];
 }
@@ -15684,8 +15791,16 @@ vErrors.push(err377);
 }
 errors++;
 }
-if(data158.source === undefined){
-const err378 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "source"},message:"must have required property '"+"source"+"'"};
+}
+if(data152.failures !== undefined){
+let data165 = data152.failures;
+if(Array.isArray(data165)){
+const len9 = data165.length;
+for(let i9=0; i9<len9; i9++){
+let data166 = data165[i9];
+if(data166 && typeof data166 == "object" && !Array.isArray(data166)){
+if(data166.speed_mps === undefined){
+const err378 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err378];
 }
@@ -15694,9 +15809,8 @@ vErrors.push(err378);
 }
 errors++;
 }
-for(const key35 in data158){
-if(!(((((key35 === "parameter") || (key35 === "change")) || (key35 === "minimum")) || (key35 === "maximum")) || (key35 === "source"))){
-const err379 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
+if(data166.scenario === undefined){
+const err379 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "scenario"},message:"must have required property '"+"scenario"+"'"};
 if(vErrors === null){
 vErrors = [err379];
 }
@@ -15705,11 +15819,8 @@ vErrors.push(err379);
 }
 errors++;
 }
-}
-if(data158.parameter !== undefined){
-let data159 = data158.parameter;
-if(!((((((((((data159 === "mass_kg") || (data159 === "yawInertia_kgm2")) || (data159 === "cgToFrontAxle_m")) || (data159 === "frontCorneringStiffness_NPerRad")) || (data159 === "rearCorneringStiffness_NPerRad")) || (data159 === "actuatorLag_s")) || (data159 === "actuatorDelay_s")) || (data159 === "gain")) || (data159 === "timeConstant_s")) || (data159 === "deadTime_s"))){
-const err380 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/parameter",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.parameter.enum},message:"must be equal to one of the allowed values"};
+if(data166.metric === undefined){
+const err380 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "metric"},message:"must have required property '"+"metric"+"'"};
 if(vErrors === null){
 vErrors = [err380];
 }
@@ -15718,11 +15829,8 @@ vErrors.push(err380);
 }
 errors++;
 }
-}
-if(data158.change !== undefined){
-let data160 = data158.change;
-if(!((data160 === "scale") || (data160 === "add"))){
-const err381 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/change",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/change/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.change.enum},message:"must be equal to one of the allowed values"};
+if(data166.message === undefined){
+const err381 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/required",keyword:"required",params:{missingProperty: "message"},message:"must have required property '"+"message"+"'"};
 if(vErrors === null){
 vErrors = [err381];
 }
@@ -15731,11 +15839,9 @@ vErrors.push(err381);
 }
 errors++;
 }
-}
-if(data158.minimum !== undefined){
-let data161 = data158.minimum;
-if(!((typeof data161 == "number") && (isFinite(data161)))){
-const err382 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/minimum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/minimum/type",keyword:"type",params:{type: "number"},message:"must be number"};
+for(const key35 in data166){
+if(!((((key35 === "speed_mps") || (key35 === "scenario")) || (key35 === "metric")) || (key35 === "message"))){
+const err382 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key35},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err382];
 }
@@ -15745,10 +15851,10 @@ vErrors.push(err382);
 errors++;
 }
 }
-if(data158.maximum !== undefined){
-let data162 = data158.maximum;
-if(!((typeof data162 == "number") && (isFinite(data162)))){
-const err383 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/maximum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/maximum/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data166.speed_mps !== undefined){
+let data167 = data166.speed_mps;
+if(!((typeof data167 == "number") && (isFinite(data167)))){
+const err383 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/speed_mps",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err383];
 }
@@ -15758,9 +15864,9 @@ vErrors.push(err383);
 errors++;
 }
 }
-if(data158.source !== undefined){
-if(typeof data158.source !== "string"){
-const err384 = {instancePath:instancePath+"/variations/set/dimensions/" + i7+"/source",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/source/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data166.scenario !== undefined){
+if(typeof data166.scenario !== "string"){
+const err384 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/scenario",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/scenario/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err384];
 }
@@ -15770,9 +15876,9 @@ vErrors.push(err384);
 errors++;
 }
 }
-}
-else {
-const err385 = {instancePath:instancePath+"/variations/set/dimensions/" + i7,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data166.metric !== undefined){
+if(typeof data166.metric !== "string"){
+const err385 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/metric",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/metric/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err385];
 }
@@ -15782,9 +15888,9 @@ vErrors.push(err385);
 errors++;
 }
 }
-}
-else {
-const err386 = {instancePath:instancePath+"/variations/set/dimensions",schemaPath:"#/properties/variations/properties/set/properties/dimensions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data166.message !== undefined){
+if(typeof data166.message !== "string"){
+const err386 = {instancePath:instancePath+"/check/scenarios/failures/" + i9+"/message",schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/properties/message/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err386];
 }
@@ -15794,15 +15900,9 @@ vErrors.push(err386);
 errors++;
 }
 }
-if(data155.notApplied !== undefined){
-let data164 = data155.notApplied;
-if(Array.isArray(data164)){
-const len8 = data164.length;
-for(let i8=0; i8<len8; i8++){
-let data165 = data164[i8];
-if(data165 && typeof data165 == "object" && !Array.isArray(data165)){
-if(data165.field === undefined){
-const err387 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "field"},message:"must have required property '"+"field"+"'"};
+}
+else {
+const err387 = {instancePath:instancePath+"/check/scenarios/failures/" + i9,schemaPath:"#/properties/check/properties/scenarios/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err387];
 }
@@ -15811,8 +15911,10 @@ vErrors.push(err387);
 }
 errors++;
 }
-if(data165.reason === undefined){
-const err388 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+}
+}
+else {
+const err388 = {instancePath:instancePath+"/check/scenarios/failures",schemaPath:"#/properties/check/properties/scenarios/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err388];
 }
@@ -15821,9 +15923,10 @@ vErrors.push(err388);
 }
 errors++;
 }
-for(const key36 in data165){
-if(!((key36 === "field") || (key36 === "reason"))){
-const err389 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
+}
+}
+else {
+const err389 = {instancePath:instancePath+"/check/scenarios",schemaPath:"#/properties/check/properties/scenarios/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err389];
 }
@@ -15833,9 +15936,11 @@ vErrors.push(err389);
 errors++;
 }
 }
-if(data165.field !== undefined){
-if(typeof data165.field !== "string"){
-const err390 = {instancePath:instancePath+"/variations/set/notApplied/" + i8+"/field",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/field/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data91.speedChange !== undefined){
+let data171 = data91.speedChange;
+if(data171 && typeof data171 == "object" && !Array.isArray(data171)){
+if(data171.maximumAcceleration_mps2 === undefined){
+const err390 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "maximumAcceleration_mps2"},message:"must have required property '"+"maximumAcceleration_mps2"+"'"};
 if(vErrors === null){
 vErrors = [err390];
 }
@@ -15844,10 +15949,8 @@ vErrors.push(err390);
 }
 errors++;
 }
-}
-if(data165.reason !== undefined){
-if(typeof data165.reason !== "string"){
-const err391 = {instancePath:instancePath+"/variations/set/notApplied/" + i8+"/reason",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data171.maximumDeceleration_mps2 === undefined){
+const err391 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "maximumDeceleration_mps2"},message:"must have required property '"+"maximumDeceleration_mps2"+"'"};
 if(vErrors === null){
 vErrors = [err391];
 }
@@ -15856,10 +15959,8 @@ vErrors.push(err391);
 }
 errors++;
 }
-}
-}
-else {
-const err392 = {instancePath:instancePath+"/variations/set/notApplied/" + i8,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data171.searched_mps2 === undefined){
+const err392 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "searched_mps2"},message:"must have required property '"+"searched_mps2"+"'"};
 if(vErrors === null){
 vErrors = [err392];
 }
@@ -15868,10 +15969,8 @@ vErrors.push(err392);
 }
 errors++;
 }
-}
-}
-else {
-const err393 = {instancePath:instancePath+"/variations/set/notApplied",schemaPath:"#/properties/variations/properties/set/properties/notApplied/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data171.statement === undefined){
+const err393 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
 if(vErrors === null){
 vErrors = [err393];
 }
@@ -15880,10 +15979,9 @@ vErrors.push(err393);
 }
 errors++;
 }
-}
-}
-else {
-const err394 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/type",keyword:"type",params:{type: "object"},message:"must be object"};
+for(const key36 in data171){
+if(!((((key36 === "maximumAcceleration_mps2") || (key36 === "maximumDeceleration_mps2")) || (key36 === "searched_mps2")) || (key36 === "statement"))){
+const err394 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key36},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err394];
 }
@@ -15893,11 +15991,10 @@ vErrors.push(err394);
 errors++;
 }
 }
-if(data152.search !== undefined){
-let data168 = data152.search;
-if(data168 && typeof data168 == "object" && !Array.isArray(data168)){
-if(data168.samples === undefined){
-const err395 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "samples"},message:"must have required property '"+"samples"+"'"};
+if(data171.maximumAcceleration_mps2 !== undefined){
+let data172 = data171.maximumAcceleration_mps2;
+if((!((typeof data172 == "number") && (isFinite(data172)))) && (data172 !== null)){
+const err395 = {instancePath:instancePath+"/check/speedChange/maximumAcceleration_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/maximumAcceleration_mps2/type",keyword:"type",params:{type: schema11.properties.check.properties.speedChange.properties.maximumAcceleration_mps2.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err395];
 }
@@ -15906,8 +16003,11 @@ vErrors.push(err395);
 }
 errors++;
 }
-if(data168.seed === undefined){
-const err396 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "seed"},message:"must have required property '"+"seed"+"'"};
+}
+if(data171.maximumDeceleration_mps2 !== undefined){
+let data173 = data171.maximumDeceleration_mps2;
+if((!((typeof data173 == "number") && (isFinite(data173)))) && (data173 !== null)){
+const err396 = {instancePath:instancePath+"/check/speedChange/maximumDeceleration_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/maximumDeceleration_mps2/type",keyword:"type",params:{type: schema11.properties.check.properties.speedChange.properties.maximumDeceleration_mps2.type},message:"must be number,null"};
 if(vErrors === null){
 vErrors = [err396];
 }
@@ -15916,8 +16016,12 @@ vErrors.push(err396);
 }
 errors++;
 }
-if(data168.localSearchEvaluations === undefined){
-const err397 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "localSearchEvaluations"},message:"must have required property '"+"localSearchEvaluations"+"'"};
+}
+if(data171.searched_mps2 !== undefined){
+let data174 = data171.searched_mps2;
+if(data174 && typeof data174 == "object" && !Array.isArray(data174)){
+if(data174.lowest === undefined){
+const err397 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/required",keyword:"required",params:{missingProperty: "lowest"},message:"must have required property '"+"lowest"+"'"};
 if(vErrors === null){
 vErrors = [err397];
 }
@@ -15926,8 +16030,8 @@ vErrors.push(err397);
 }
 errors++;
 }
-if(data168.method === undefined){
-const err398 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
+if(data174.highest === undefined){
+const err398 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/required",keyword:"required",params:{missingProperty: "highest"},message:"must have required property '"+"highest"+"'"};
 if(vErrors === null){
 vErrors = [err398];
 }
@@ -15936,9 +16040,9 @@ vErrors.push(err398);
 }
 errors++;
 }
-for(const key37 in data168){
-if(!((((key37 === "samples") || (key37 === "seed")) || (key37 === "localSearchEvaluations")) || (key37 === "method"))){
-const err399 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key37},message:"must NOT have additional properties"};
+for(const key37 in data174){
+if(!((key37 === "lowest") || (key37 === "highest"))){
+const err399 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key37},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err399];
 }
@@ -15948,10 +16052,10 @@ vErrors.push(err399);
 errors++;
 }
 }
-if(data168.samples !== undefined){
-let data169 = data168.samples;
-if(!(((typeof data169 == "number") && (!(data169 % 1) && !isNaN(data169))) && (isFinite(data169)))){
-const err400 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data174.lowest !== undefined){
+let data175 = data174.lowest;
+if(!((typeof data175 == "number") && (isFinite(data175)))){
+const err400 = {instancePath:instancePath+"/check/speedChange/searched_mps2/lowest",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/properties/lowest/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err400];
 }
@@ -15960,9 +16064,11 @@ vErrors.push(err400);
 }
 errors++;
 }
-if((typeof data169 == "number") && (isFinite(data169))){
-if(data169 < 0 || isNaN(data169)){
-const err401 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data174.highest !== undefined){
+let data176 = data174.highest;
+if(!((typeof data176 == "number") && (isFinite(data176)))){
+const err401 = {instancePath:instancePath+"/check/speedChange/searched_mps2/highest",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/properties/highest/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err401];
 }
@@ -15973,10 +16079,8 @@ errors++;
 }
 }
 }
-if(data168.seed !== undefined){
-let data170 = data168.seed;
-if(!(((typeof data170 == "number") && (!(data170 % 1) && !isNaN(data170))) && (isFinite(data170)))){
-const err402 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err402 = {instancePath:instancePath+"/check/speedChange/searched_mps2",schemaPath:"#/properties/check/properties/speedChange/properties/searched_mps2/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err402];
 }
@@ -15985,9 +16089,10 @@ vErrors.push(err402);
 }
 errors++;
 }
-if((typeof data170 == "number") && (isFinite(data170))){
-if(data170 < 0 || isNaN(data170)){
-const err403 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data171.statement !== undefined){
+if(typeof data171.statement !== "string"){
+const err403 = {instancePath:instancePath+"/check/speedChange/statement",schemaPath:"#/properties/check/properties/speedChange/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err403];
 }
@@ -15998,10 +16103,8 @@ errors++;
 }
 }
 }
-if(data168.localSearchEvaluations !== undefined){
-let data171 = data168.localSearchEvaluations;
-if(!(((typeof data171 == "number") && (!(data171 % 1) && !isNaN(data171))) && (isFinite(data171)))){
-const err404 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err404 = {instancePath:instancePath+"/check/speedChange",schemaPath:"#/properties/check/properties/speedChange/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err404];
 }
@@ -16010,9 +16113,10 @@ vErrors.push(err404);
 }
 errors++;
 }
-if((typeof data171 == "number") && (isFinite(data171))){
-if(data171 < 0 || isNaN(data171)){
-const err405 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+}
+else {
+const err405 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err405];
 }
@@ -16022,10 +16126,11 @@ vErrors.push(err405);
 errors++;
 }
 }
-}
-if(data168.method !== undefined){
-if(typeof data168.method !== "string"){
-const err406 = {instancePath:instancePath+"/variations/search/method",schemaPath:"#/properties/variations/properties/search/properties/method/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data.variations !== undefined){
+let data178 = data.variations;
+if(data178 && typeof data178 == "object" && !Array.isArray(data178)){
+if(data178.acceptance === undefined){
+const err406 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "acceptance"},message:"must have required property '"+"acceptance"+"'"};
 if(vErrors === null){
 vErrors = [err406];
 }
@@ -16034,10 +16139,8 @@ vErrors.push(err406);
 }
 errors++;
 }
-}
-}
-else {
-const err407 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data178.passed === undefined){
+const err407 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "passed"},message:"must have required property '"+"passed"+"'"};
 if(vErrors === null){
 vErrors = [err407];
 }
@@ -16046,11 +16149,8 @@ vErrors.push(err407);
 }
 errors++;
 }
-}
-if(data152.gridSize !== undefined){
-let data173 = data152.gridSize;
-if(!(((typeof data173 == "number") && (!(data173 % 1) && !isNaN(data173))) && (isFinite(data173)))){
-const err408 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data178.set === undefined){
+const err408 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "set"},message:"must have required property '"+"set"+"'"};
 if(vErrors === null){
 vErrors = [err408];
 }
@@ -16059,9 +16159,8 @@ vErrors.push(err408);
 }
 errors++;
 }
-if((typeof data173 == "number") && (isFinite(data173))){
-if(data173 < 1 || isNaN(data173)){
-const err409 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(data178.search === undefined){
+const err409 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "search"},message:"must have required property '"+"search"+"'"};
 if(vErrors === null){
 vErrors = [err409];
 }
@@ -16070,12 +16169,8 @@ vErrors.push(err409);
 }
 errors++;
 }
-}
-}
-if(data152.failedSpeeds !== undefined){
-let data174 = data152.failedSpeeds;
-if(!(((typeof data174 == "number") && (!(data174 % 1) && !isNaN(data174))) && (isFinite(data174)))){
-const err410 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data178.gridSize === undefined){
+const err410 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
 if(vErrors === null){
 vErrors = [err410];
 }
@@ -16084,9 +16179,8 @@ vErrors.push(err410);
 }
 errors++;
 }
-if((typeof data174 == "number") && (isFinite(data174))){
-if(data174 < 0 || isNaN(data174)){
-const err411 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data178.failedSpeeds === undefined){
+const err411 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failedSpeeds"},message:"must have required property '"+"failedSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err411];
 }
@@ -16095,12 +16189,8 @@ vErrors.push(err411);
 }
 errors++;
 }
-}
-}
-if(data152.unstableSpeeds !== undefined){
-let data175 = data152.unstableSpeeds;
-if(!(((typeof data175 == "number") && (!(data175 % 1) && !isNaN(data175))) && (isFinite(data175)))){
-const err412 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data178.unstableSpeeds === undefined){
+const err412 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "unstableSpeeds"},message:"must have required property '"+"unstableSpeeds"+"'"};
 if(vErrors === null){
 vErrors = [err412];
 }
@@ -16109,9 +16199,8 @@ vErrors.push(err412);
 }
 errors++;
 }
-if((typeof data175 == "number") && (isFinite(data175))){
-if(data175 < 0 || isNaN(data175)){
-const err413 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data178.loopAnalyses === undefined){
+const err413 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "loopAnalyses"},message:"must have required property '"+"loopAnalyses"+"'"};
 if(vErrors === null){
 vErrors = [err413];
 }
@@ -16120,12 +16209,8 @@ vErrors.push(err413);
 }
 errors++;
 }
-}
-}
-if(data152.loopAnalyses !== undefined){
-let data176 = data152.loopAnalyses;
-if(!(((typeof data176 == "number") && (!(data176 % 1) && !isNaN(data176))) && (isFinite(data176)))){
-const err414 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data178.worst === undefined){
+const err414 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err414];
 }
@@ -16134,9 +16219,8 @@ vErrors.push(err414);
 }
 errors++;
 }
-if((typeof data176 == "number") && (isFinite(data176))){
-if(data176 < 0 || isNaN(data176)){
-const err415 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data178.failures === undefined){
+const err415 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "failures"},message:"must have required property '"+"failures"+"'"};
 if(vErrors === null){
 vErrors = [err415];
 }
@@ -16145,13 +16229,8 @@ vErrors.push(err415);
 }
 errors++;
 }
-}
-}
-if(data152.worst !== undefined){
-let data177 = data152.worst;
-if(data177 && typeof data177 == "object" && !Array.isArray(data177)){
-if(data177.phaseMargin_deg === undefined){
-const err416 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data178.breakpoints === undefined){
+const err416 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "breakpoints"},message:"must have required property '"+"breakpoints"+"'"};
 if(vErrors === null){
 vErrors = [err416];
 }
@@ -16160,8 +16239,8 @@ vErrors.push(err416);
 }
 errors++;
 }
-if(data177.upperGainMargin_dB === undefined){
-const err417 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(data178.weakest === undefined){
+const err417 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
 if(vErrors === null){
 vErrors = [err417];
 }
@@ -16170,8 +16249,9 @@ vErrors.push(err417);
 }
 errors++;
 }
-if(data177.lowerGainMargin_dB === undefined){
-const err418 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+for(const key38 in data178){
+if(!(func18.call(schema11.properties.variations.properties, key38))){
+const err418 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err418];
 }
@@ -16180,8 +16260,11 @@ vErrors.push(err418);
 }
 errors++;
 }
-if(data177.delayMargin_s === undefined){
-const err419 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+}
+if(data178.acceptance !== undefined){
+let data179 = data178.acceptance;
+if(!((data179 === "robust") || (data179 === "nominal"))){
+const err419 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err419];
 }
@@ -16190,8 +16273,10 @@ vErrors.push(err419);
 }
 errors++;
 }
-if(data177.sensitivityPeak === undefined){
-const err420 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+}
+if(data178.passed !== undefined){
+if(typeof data178.passed !== "boolean"){
+const err420 = {instancePath:instancePath+"/variations/passed",schemaPath:"#/properties/variations/properties/passed/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err420];
 }
@@ -16200,8 +16285,12 @@ vErrors.push(err420);
 }
 errors++;
 }
-if(data177.complementarySensitivityPeak === undefined){
-const err421 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+}
+if(data178.set !== undefined){
+let data181 = data178.set;
+if(data181 && typeof data181 == "object" && !Array.isArray(data181)){
+if(data181.model === undefined){
+const err421 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err421];
 }
@@ -16210,9 +16299,8 @@ vErrors.push(err421);
 }
 errors++;
 }
-for(const key38 in data177){
-if(!((((((key38 === "phaseMargin_deg") || (key38 === "upperGainMargin_dB")) || (key38 === "lowerGainMargin_dB")) || (key38 === "delayMargin_s")) || (key38 === "sensitivityPeak")) || (key38 === "complementarySensitivityPeak"))){
-const err422 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key38},message:"must NOT have additional properties"};
+if(data181.dimensions === undefined){
+const err422 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "dimensions"},message:"must have required property '"+"dimensions"+"'"};
 if(vErrors === null){
 vErrors = [err422];
 }
@@ -16221,46 +16309,8 @@ vErrors.push(err422);
 }
 errors++;
 }
-}
-if(data177.phaseMargin_deg !== undefined){
-if(!(validate6(data177.phaseMargin_deg, {instancePath:instancePath+"/variations/worst/phaseMargin_deg",parentData:data177,parentDataProperty:"phaseMargin_deg",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data177.upperGainMargin_dB !== undefined){
-if(!(validate6(data177.upperGainMargin_dB, {instancePath:instancePath+"/variations/worst/upperGainMargin_dB",parentData:data177,parentDataProperty:"upperGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data177.lowerGainMargin_dB !== undefined){
-if(!(validate6(data177.lowerGainMargin_dB, {instancePath:instancePath+"/variations/worst/lowerGainMargin_dB",parentData:data177,parentDataProperty:"lowerGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data177.delayMargin_s !== undefined){
-if(!(validate6(data177.delayMargin_s, {instancePath:instancePath+"/variations/worst/delayMargin_s",parentData:data177,parentDataProperty:"delayMargin_s",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data177.sensitivityPeak !== undefined){
-if(!(validate6(data177.sensitivityPeak, {instancePath:instancePath+"/variations/worst/sensitivityPeak",parentData:data177,parentDataProperty:"sensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-if(data177.complementarySensitivityPeak !== undefined){
-if(!(validate6(data177.complementarySensitivityPeak, {instancePath:instancePath+"/variations/worst/complementarySensitivityPeak",parentData:data177,parentDataProperty:"complementarySensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
-errors = vErrors.length;
-}
-}
-}
-else {
-const err423 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data181.notApplied === undefined){
+const err423 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/required",keyword:"required",params:{missingProperty: "notApplied"},message:"must have required property '"+"notApplied"+"'"};
 if(vErrors === null){
 vErrors = [err423];
 }
@@ -16269,16 +16319,9 @@ vErrors.push(err423);
 }
 errors++;
 }
-}
-if(data152.failures !== undefined){
-let data184 = data152.failures;
-if(Array.isArray(data184)){
-const len9 = data184.length;
-for(let i9=0; i9<len9; i9++){
-let data185 = data184[i9];
-if(data185 && typeof data185 == "object" && !Array.isArray(data185)){
-if(data185.speed_mps === undefined){
-const err424 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+for(const key39 in data181){
+if(!(((key39 === "model") || (key39 === "dimensions")) || (key39 === "notApplied"))){
+const err424 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err424];
 }
@@ -16287,8 +16330,11 @@ vErrors.push(err424);
 }
 errors++;
 }
-if(data185.messages === undefined){
-const err425 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
+}
+if(data181.model !== undefined){
+let data182 = data181.model;
+if(!((data182 === "single-track") || (data182 === "interpolated-lumped"))){
+const err425 = {instancePath:instancePath+"/variations/set/model",schemaPath:"#/properties/variations/properties/set/properties/model/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.model.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err425];
 }
@@ -16297,9 +16343,16 @@ vErrors.push(err425);
 }
 errors++;
 }
-for(const key39 in data185){
-if(!((key39 === "speed_mps") || (key39 === "messages"))){
-const err426 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key39},message:"must NOT have additional properties"};
+}
+if(data181.dimensions !== undefined){
+let data183 = data181.dimensions;
+if(Array.isArray(data183)){
+const len10 = data183.length;
+for(let i10=0; i10<len10; i10++){
+let data184 = data183[i10];
+if(data184 && typeof data184 == "object" && !Array.isArray(data184)){
+if(data184.parameter === undefined){
+const err426 = {instancePath:instancePath+"/variations/set/dimensions/" + i10,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
 if(vErrors === null){
 vErrors = [err426];
 }
@@ -16308,11 +16361,8 @@ vErrors.push(err426);
 }
 errors++;
 }
-}
-if(data185.speed_mps !== undefined){
-let data186 = data185.speed_mps;
-if(!((typeof data186 == "number") && (isFinite(data186)))){
-const err427 = {instancePath:instancePath+"/variations/failures/" + i9+"/speed_mps",schemaPath:"#/properties/variations/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data184.change === undefined){
+const err427 = {instancePath:instancePath+"/variations/set/dimensions/" + i10,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "change"},message:"must have required property '"+"change"+"'"};
 if(vErrors === null){
 vErrors = [err427];
 }
@@ -16321,14 +16371,8 @@ vErrors.push(err427);
 }
 errors++;
 }
-}
-if(data185.messages !== undefined){
-let data187 = data185.messages;
-if(Array.isArray(data187)){
-const len10 = data187.length;
-for(let i10=0; i10<len10; i10++){
-if(typeof data187[i10] !== "string"){
-const err428 = {instancePath:instancePath+"/variations/failures/" + i9+"/messages/" + i10,schemaPath:"#/properties/variations/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data184.minimum === undefined){
+const err428 = {instancePath:instancePath+"/variations/set/dimensions/" + i10,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "minimum"},message:"must have required property '"+"minimum"+"'"};
 if(vErrors === null){
 vErrors = [err428];
 }
@@ -16337,10 +16381,8 @@ vErrors.push(err428);
 }
 errors++;
 }
-}
-}
-else {
-const err429 = {instancePath:instancePath+"/variations/failures/" + i9+"/messages",schemaPath:"#/properties/variations/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data184.maximum === undefined){
+const err429 = {instancePath:instancePath+"/variations/set/dimensions/" + i10,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "maximum"},message:"must have required property '"+"maximum"+"'"};
 if(vErrors === null){
 vErrors = [err429];
 }
@@ -16349,10 +16391,8 @@ vErrors.push(err429);
 }
 errors++;
 }
-}
-}
-else {
-const err430 = {instancePath:instancePath+"/variations/failures/" + i9,schemaPath:"#/properties/variations/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data184.source === undefined){
+const err430 = {instancePath:instancePath+"/variations/set/dimensions/" + i10,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/required",keyword:"required",params:{missingProperty: "source"},message:"must have required property '"+"source"+"'"};
 if(vErrors === null){
 vErrors = [err430];
 }
@@ -16361,10 +16401,9 @@ vErrors.push(err430);
 }
 errors++;
 }
-}
-}
-else {
-const err431 = {instancePath:instancePath+"/variations/failures",schemaPath:"#/properties/variations/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
+for(const key40 in data184){
+if(!(((((key40 === "parameter") || (key40 === "change")) || (key40 === "minimum")) || (key40 === "maximum")) || (key40 === "source"))){
+const err431 = {instancePath:instancePath+"/variations/set/dimensions/" + i10,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err431];
 }
@@ -16374,15 +16413,10 @@ vErrors.push(err431);
 errors++;
 }
 }
-if(data152.breakpoints !== undefined){
-let data189 = data152.breakpoints;
-if(Array.isArray(data189)){
-const len11 = data189.length;
-for(let i11=0; i11<len11; i11++){
-let data190 = data189[i11];
-if(data190 && typeof data190 == "object" && !Array.isArray(data190)){
-if(data190.speed_mps === undefined){
-const err432 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data184.parameter !== undefined){
+let data185 = data184.parameter;
+if(!((((((((((data185 === "mass_kg") || (data185 === "yawInertia_kgm2")) || (data185 === "cgToFrontAxle_m")) || (data185 === "frontCorneringStiffness_NPerRad")) || (data185 === "rearCorneringStiffness_NPerRad")) || (data185 === "actuatorLag_s")) || (data185 === "actuatorDelay_s")) || (data185 === "gain")) || (data185 === "timeConstant_s")) || (data185 === "deadTime_s"))){
+const err432 = {instancePath:instancePath+"/variations/set/dimensions/" + i10+"/parameter",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/parameter/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.parameter.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err432];
 }
@@ -16391,8 +16425,11 @@ vErrors.push(err432);
 }
 errors++;
 }
-if(data190.instability === undefined){
-const err433 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "instability"},message:"must have required property '"+"instability"+"'"};
+}
+if(data184.change !== undefined){
+let data186 = data184.change;
+if(!((data186 === "scale") || (data186 === "add"))){
+const err433 = {instancePath:instancePath+"/variations/set/dimensions/" + i10+"/change",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/change/enum",keyword:"enum",params:{allowedValues: schema11.properties.variations.properties.set.properties.dimensions.items.properties.change.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err433];
 }
@@ -16401,8 +16438,11 @@ vErrors.push(err433);
 }
 errors++;
 }
-if(data190.worst === undefined){
-const err434 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
+}
+if(data184.minimum !== undefined){
+let data187 = data184.minimum;
+if(!((typeof data187 == "number") && (isFinite(data187)))){
+const err434 = {instancePath:instancePath+"/variations/set/dimensions/" + i10+"/minimum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/minimum/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err434];
 }
@@ -16411,8 +16451,11 @@ vErrors.push(err434);
 }
 errors++;
 }
-if(data190.timeDomain === undefined){
-const err435 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "timeDomain"},message:"must have required property '"+"timeDomain"+"'"};
+}
+if(data184.maximum !== undefined){
+let data188 = data184.maximum;
+if(!((typeof data188 == "number") && (isFinite(data188)))){
+const err435 = {instancePath:instancePath+"/variations/set/dimensions/" + i10+"/maximum",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/maximum/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err435];
 }
@@ -16421,8 +16464,10 @@ vErrors.push(err435);
 }
 errors++;
 }
-if(data190.weakest === undefined){
-const err436 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
+}
+if(data184.source !== undefined){
+if(typeof data184.source !== "string"){
+const err436 = {instancePath:instancePath+"/variations/set/dimensions/" + i10+"/source",schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/properties/source/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err436];
 }
@@ -16431,9 +16476,10 @@ vErrors.push(err436);
 }
 errors++;
 }
-for(const key40 in data190){
-if(!(((((key40 === "speed_mps") || (key40 === "instability")) || (key40 === "worst")) || (key40 === "timeDomain")) || (key40 === "weakest"))){
-const err437 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key40},message:"must NOT have additional properties"};
+}
+}
+else {
+const err437 = {instancePath:instancePath+"/variations/set/dimensions/" + i10,schemaPath:"#/properties/variations/properties/set/properties/dimensions/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err437];
 }
@@ -16443,10 +16489,9 @@ vErrors.push(err437);
 errors++;
 }
 }
-if(data190.speed_mps !== undefined){
-let data191 = data190.speed_mps;
-if(!((typeof data191 == "number") && (isFinite(data191)))){
-const err438 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/speed_mps",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+}
+else {
+const err438 = {instancePath:instancePath+"/variations/set/dimensions",schemaPath:"#/properties/variations/properties/set/properties/dimensions/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err438];
 }
@@ -16456,17 +16501,15 @@ vErrors.push(err438);
 errors++;
 }
 }
-if(data190.instability !== undefined){
-if(!(validate13(data190.instability, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/instability",parentData:data190,parentDataProperty:"instability",rootData}))){
-vErrors = vErrors === null ? validate13.errors : vErrors.concat(validate13.errors);
-errors = vErrors.length;
-}
-}
-if(data190.worst !== undefined){
-let data193 = data190.worst;
-if(data193 && typeof data193 == "object" && !Array.isArray(data193)){
-if(data193.phaseMargin_deg === undefined){
-const err439 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
+if(data181.notApplied !== undefined){
+let data190 = data181.notApplied;
+if(Array.isArray(data190)){
+const len11 = data190.length;
+for(let i11=0; i11<len11; i11++){
+let data191 = data190[i11];
+if(data191 && typeof data191 == "object" && !Array.isArray(data191)){
+if(data191.field === undefined){
+const err439 = {instancePath:instancePath+"/variations/set/notApplied/" + i11,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "field"},message:"must have required property '"+"field"+"'"};
 if(vErrors === null){
 vErrors = [err439];
 }
@@ -16475,8 +16518,8 @@ vErrors.push(err439);
 }
 errors++;
 }
-if(data193.upperGainMargin_dB === undefined){
-const err440 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
+if(data191.reason === undefined){
+const err440 = {instancePath:instancePath+"/variations/set/notApplied/" + i11,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
 if(vErrors === null){
 vErrors = [err440];
 }
@@ -16485,8 +16528,9 @@ vErrors.push(err440);
 }
 errors++;
 }
-if(data193.lowerGainMargin_dB === undefined){
-const err441 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
+for(const key41 in data191){
+if(!((key41 === "field") || (key41 === "reason"))){
+const err441 = {instancePath:instancePath+"/variations/set/notApplied/" + i11,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key41},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err441];
 }
@@ -16495,8 +16539,10 @@ vErrors.push(err441);
 }
 errors++;
 }
-if(data193.delayMargin_s === undefined){
-const err442 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
+}
+if(data191.field !== undefined){
+if(typeof data191.field !== "string"){
+const err442 = {instancePath:instancePath+"/variations/set/notApplied/" + i11+"/field",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/field/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err442];
 }
@@ -16505,8 +16551,10 @@ vErrors.push(err442);
 }
 errors++;
 }
-if(data193.sensitivityPeak === undefined){
-const err443 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
+}
+if(data191.reason !== undefined){
+if(typeof data191.reason !== "string"){
+const err443 = {instancePath:instancePath+"/variations/set/notApplied/" + i11+"/reason",schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err443];
 }
@@ -16515,8 +16563,10 @@ vErrors.push(err443);
 }
 errors++;
 }
-if(data193.complementarySensitivityPeak === undefined){
-const err444 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
+}
+}
+else {
+const err444 = {instancePath:instancePath+"/variations/set/notApplied/" + i11,schemaPath:"#/properties/variations/properties/set/properties/notApplied/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err444];
 }
@@ -16525,9 +16575,10 @@ vErrors.push(err444);
 }
 errors++;
 }
-for(const key41 in data193){
-if(!((((((key41 === "phaseMargin_deg") || (key41 === "upperGainMargin_dB")) || (key41 === "lowerGainMargin_dB")) || (key41 === "delayMargin_s")) || (key41 === "sensitivityPeak")) || (key41 === "complementarySensitivityPeak"))){
-const err445 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key41},message:"must NOT have additional properties"};
+}
+}
+else {
+const err445 = {instancePath:instancePath+"/variations/set/notApplied",schemaPath:"#/properties/variations/properties/set/properties/notApplied/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err445];
 }
@@ -16537,45 +16588,9 @@ vErrors.push(err445);
 errors++;
 }
 }
-if(data193.phaseMargin_deg !== undefined){
-if(!(validate15(data193.phaseMargin_deg, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/phaseMargin_deg",parentData:data193,parentDataProperty:"phaseMargin_deg",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data193.upperGainMargin_dB !== undefined){
-if(!(validate15(data193.upperGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/upperGainMargin_dB",parentData:data193,parentDataProperty:"upperGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data193.lowerGainMargin_dB !== undefined){
-if(!(validate15(data193.lowerGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/lowerGainMargin_dB",parentData:data193,parentDataProperty:"lowerGainMargin_dB",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data193.delayMargin_s !== undefined){
-if(!(validate15(data193.delayMargin_s, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/delayMargin_s",parentData:data193,parentDataProperty:"delayMargin_s",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data193.sensitivityPeak !== undefined){
-if(!(validate15(data193.sensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/sensitivityPeak",parentData:data193,parentDataProperty:"sensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
-if(data193.complementarySensitivityPeak !== undefined){
-if(!(validate15(data193.complementarySensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst/complementarySensitivityPeak",parentData:data193,parentDataProperty:"complementarySensitivityPeak",rootData}))){
-vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
-errors = vErrors.length;
-}
-}
 }
 else {
-const err446 = {instancePath:instancePath+"/variations/breakpoints/" + i11+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err446 = {instancePath:instancePath+"/variations/set",schemaPath:"#/properties/variations/properties/set/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err446];
 }
@@ -16585,21 +16600,11 @@ vErrors.push(err446);
 errors++;
 }
 }
-if(data190.timeDomain !== undefined){
-if(!(validate22(data190.timeDomain, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/timeDomain",parentData:data190,parentDataProperty:"timeDomain",rootData}))){
-vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
-errors = vErrors.length;
-}
-}
-if(data190.weakest !== undefined){
-if(!(validate33(data190.weakest, {instancePath:instancePath+"/variations/breakpoints/" + i11+"/weakest",parentData:data190,parentDataProperty:"weakest",rootData}))){
-vErrors = vErrors === null ? validate33.errors : vErrors.concat(validate33.errors);
-errors = vErrors.length;
-}
-}
-}
-else {
-const err447 = {instancePath:instancePath+"/variations/breakpoints/" + i11,schemaPath:"#/properties/variations/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data178.search !== undefined){
+let data194 = data178.search;
+if(data194 && typeof data194 == "object" && !Array.isArray(data194)){
+if(data194.samples === undefined){
+const err447 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "samples"},message:"must have required property '"+"samples"+"'"};
 if(vErrors === null){
 vErrors = [err447];
 }
@@ -16608,10 +16613,8 @@ vErrors.push(err447);
 }
 errors++;
 }
-}
-}
-else {
-const err448 = {instancePath:instancePath+"/variations/breakpoints",schemaPath:"#/properties/variations/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data194.seed === undefined){
+const err448 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "seed"},message:"must have required property '"+"seed"+"'"};
 if(vErrors === null){
 vErrors = [err448];
 }
@@ -16620,16 +16623,8 @@ vErrors.push(err448);
 }
 errors++;
 }
-}
-if(data152.weakest !== undefined){
-if(!(validate33(data152.weakest, {instancePath:instancePath+"/variations/weakest",parentData:data152,parentDataProperty:"weakest",rootData}))){
-vErrors = vErrors === null ? validate33.errors : vErrors.concat(validate33.errors);
-errors = vErrors.length;
-}
-}
-}
-else {
-const err449 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data194.localSearchEvaluations === undefined){
+const err449 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "localSearchEvaluations"},message:"must have required property '"+"localSearchEvaluations"+"'"};
 if(vErrors === null){
 vErrors = [err449];
 }
@@ -16638,12 +16633,8 @@ vErrors.push(err449);
 }
 errors++;
 }
-}
-if(data.provenance !== undefined){
-let data203 = data.provenance;
-if(data203 && typeof data203 == "object" && !Array.isArray(data203)){
-if(data203.tool === undefined){
-const err450 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
+if(data194.method === undefined){
+const err450 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/required",keyword:"required",params:{missingProperty: "method"},message:"must have required property '"+"method"+"'"};
 if(vErrors === null){
 vErrors = [err450];
 }
@@ -16652,8 +16643,9 @@ vErrors.push(err450);
 }
 errors++;
 }
-if(data203.toolVersion === undefined){
-const err451 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+for(const key42 in data194){
+if(!((((key42 === "samples") || (key42 === "seed")) || (key42 === "localSearchEvaluations")) || (key42 === "method"))){
+const err451 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key42},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err451];
 }
@@ -16662,8 +16654,11 @@ vErrors.push(err451);
 }
 errors++;
 }
-if(data203.inputs === undefined){
-const err452 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
+}
+if(data194.samples !== undefined){
+let data195 = data194.samples;
+if(!(((typeof data195 == "number") && (!(data195 % 1) && !isNaN(data195))) && (isFinite(data195)))){
+const err452 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err452];
 }
@@ -16672,8 +16667,9 @@ vErrors.push(err452);
 }
 errors++;
 }
-if(data203.model === undefined){
-const err453 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if((typeof data195 == "number") && (isFinite(data195))){
+if(data195 < 0 || isNaN(data195)){
+const err453 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err453];
 }
@@ -16682,8 +16678,12 @@ vErrors.push(err453);
 }
 errors++;
 }
-if(data203.rule === undefined){
-const err454 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
+}
+}
+if(data194.seed !== undefined){
+let data196 = data194.seed;
+if(!(((typeof data196 == "number") && (!(data196 % 1) && !isNaN(data196))) && (isFinite(data196)))){
+const err454 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err454];
 }
@@ -16692,8 +16692,9 @@ vErrors.push(err454);
 }
 errors++;
 }
-if(data203.plan === undefined){
-const err455 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
+if((typeof data196 == "number") && (isFinite(data196))){
+if(data196 < 0 || isNaN(data196)){
+const err455 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err455];
 }
@@ -16702,9 +16703,12 @@ vErrors.push(err455);
 }
 errors++;
 }
-for(const key42 in data203){
-if(!(((((((key42 === "tool") || (key42 === "toolVersion")) || (key42 === "inputs")) || (key42 === "model")) || (key42 === "rule")) || (key42 === "plan")) || (key42 === "handEdits"))){
-const err456 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key42},message:"must NOT have additional properties"};
+}
+}
+if(data194.localSearchEvaluations !== undefined){
+let data197 = data194.localSearchEvaluations;
+if(!(((typeof data197 == "number") && (!(data197 % 1) && !isNaN(data197))) && (isFinite(data197)))){
+const err456 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err456];
 }
@@ -16713,10 +16717,9 @@ vErrors.push(err456);
 }
 errors++;
 }
-}
-if(data203.tool !== undefined){
-if("speedband" !== data203.tool){
-const err457 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
+if((typeof data197 == "number") && (isFinite(data197))){
+if(data197 < 0 || isNaN(data197)){
+const err457 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err457];
 }
@@ -16726,9 +16729,10 @@ vErrors.push(err457);
 errors++;
 }
 }
-if(data203.toolVersion !== undefined){
-if(typeof data203.toolVersion !== "string"){
-const err458 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+if(data194.method !== undefined){
+if(typeof data194.method !== "string"){
+const err458 = {instancePath:instancePath+"/variations/search/method",schemaPath:"#/properties/variations/properties/search/properties/method/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err458];
 }
@@ -16738,15 +16742,9 @@ vErrors.push(err458);
 errors++;
 }
 }
-if(data203.inputs !== undefined){
-let data206 = data203.inputs;
-if(Array.isArray(data206)){
-const len12 = data206.length;
-for(let i12=0; i12<len12; i12++){
-let data207 = data206[i12];
-if(data207 && typeof data207 == "object" && !Array.isArray(data207)){
-if(data207.file === undefined){
-const err459 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
+}
+else {
+const err459 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err459];
 }
@@ -16755,8 +16753,11 @@ vErrors.push(err459);
 }
 errors++;
 }
-if(data207.sha256 === undefined){
-const err460 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
+}
+if(data178.gridSize !== undefined){
+let data199 = data178.gridSize;
+if(!(((typeof data199 == "number") && (!(data199 % 1) && !isNaN(data199))) && (isFinite(data199)))){
+const err460 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err460];
 }
@@ -16765,8 +16766,9 @@ vErrors.push(err460);
 }
 errors++;
 }
-if(data207.role === undefined){
-const err461 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
+if((typeof data199 == "number") && (isFinite(data199))){
+if(data199 < 1 || isNaN(data199)){
+const err461 = {instancePath:instancePath+"/variations/gridSize",schemaPath:"#/properties/variations/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
 if(vErrors === null){
 vErrors = [err461];
 }
@@ -16775,9 +16777,12 @@ vErrors.push(err461);
 }
 errors++;
 }
-for(const key43 in data207){
-if(!(((key43 === "file") || (key43 === "sha256")) || (key43 === "role"))){
-const err462 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key43},message:"must NOT have additional properties"};
+}
+}
+if(data178.failedSpeeds !== undefined){
+let data200 = data178.failedSpeeds;
+if(!(((typeof data200 == "number") && (!(data200 % 1) && !isNaN(data200))) && (isFinite(data200)))){
+const err462 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err462];
 }
@@ -16786,10 +16791,9 @@ vErrors.push(err462);
 }
 errors++;
 }
-}
-if(data207.file !== undefined){
-if(typeof data207.file !== "string"){
-const err463 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if((typeof data200 == "number") && (isFinite(data200))){
+if(data200 < 0 || isNaN(data200)){
+const err463 = {instancePath:instancePath+"/variations/failedSpeeds",schemaPath:"#/properties/variations/properties/failedSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err463];
 }
@@ -16799,11 +16803,11 @@ vErrors.push(err463);
 errors++;
 }
 }
-if(data207.sha256 !== undefined){
-let data209 = data207.sha256;
-if(typeof data209 === "string"){
-if(!pattern0.test(data209)){
-const err464 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+}
+if(data178.unstableSpeeds !== undefined){
+let data201 = data178.unstableSpeeds;
+if(!(((typeof data201 == "number") && (!(data201 % 1) && !isNaN(data201))) && (isFinite(data201)))){
+const err464 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err464];
 }
@@ -16812,9 +16816,9 @@ vErrors.push(err464);
 }
 errors++;
 }
-}
-else {
-const err465 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if((typeof data201 == "number") && (isFinite(data201))){
+if(data201 < 0 || isNaN(data201)){
+const err465 = {instancePath:instancePath+"/variations/unstableSpeeds",schemaPath:"#/properties/variations/properties/unstableSpeeds/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err465];
 }
@@ -16824,9 +16828,11 @@ vErrors.push(err465);
 errors++;
 }
 }
-if(data207.role !== undefined){
-if(typeof data207.role !== "string"){
-const err466 = {instancePath:instancePath+"/provenance/inputs/" + i12+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+if(data178.loopAnalyses !== undefined){
+let data202 = data178.loopAnalyses;
+if(!(((typeof data202 == "number") && (!(data202 % 1) && !isNaN(data202))) && (isFinite(data202)))){
+const err466 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err466];
 }
@@ -16835,10 +16841,9 @@ vErrors.push(err466);
 }
 errors++;
 }
-}
-}
-else {
-const err467 = {instancePath:instancePath+"/provenance/inputs/" + i12,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data202 == "number") && (isFinite(data202))){
+if(data202 < 0 || isNaN(data202)){
+const err467 = {instancePath:instancePath+"/variations/loopAnalyses",schemaPath:"#/properties/variations/properties/loopAnalyses/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err467];
 }
@@ -16849,8 +16854,11 @@ errors++;
 }
 }
 }
-else {
-const err468 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data178.worst !== undefined){
+let data203 = data178.worst;
+if(data203 && typeof data203 == "object" && !Array.isArray(data203)){
+if(data203.phaseMargin_deg === undefined){
+const err468 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err468];
 }
@@ -16859,11 +16867,8 @@ vErrors.push(err468);
 }
 errors++;
 }
-}
-if(data203.model !== undefined){
-let data211 = data203.model;
-if(!(data211 && typeof data211 == "object" && !Array.isArray(data211))){
-const err469 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data203.upperGainMargin_dB === undefined){
+const err469 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err469];
 }
@@ -16872,12 +16877,8 @@ vErrors.push(err469);
 }
 errors++;
 }
-}
-if(data203.rule !== undefined){
-let data212 = data203.rule;
-if(data212 && typeof data212 == "object" && !Array.isArray(data212)){
-if(data212.name === undefined){
-const err470 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
+if(data203.lowerGainMargin_dB === undefined){
+const err470 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err470];
 }
@@ -16886,8 +16887,8 @@ vErrors.push(err470);
 }
 errors++;
 }
-if(data212.parameters === undefined){
-const err471 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+if(data203.delayMargin_s === undefined){
+const err471 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err471];
 }
@@ -16896,8 +16897,8 @@ vErrors.push(err471);
 }
 errors++;
 }
-if(data212.tuneFor === undefined){
-const err472 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
+if(data203.sensitivityPeak === undefined){
+const err472 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err472];
 }
@@ -16906,9 +16907,8 @@ vErrors.push(err472);
 }
 errors++;
 }
-for(const key44 in data212){
-if(!(((((((key44 === "name") || (key44 === "parameters")) || (key44 === "citation")) || (key44 === "parametersAtBreakpoints")) || (key44 === "tuneFor")) || (key44 === "searchOn")) || (key44 === "searchAtBreakpoints"))){
-const err473 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key44},message:"must NOT have additional properties"};
+if(data203.complementarySensitivityPeak === undefined){
+const err473 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err473];
 }
@@ -16917,10 +16917,9 @@ vErrors.push(err473);
 }
 errors++;
 }
-}
-if(data212.name !== undefined){
-if(typeof data212.name !== "string"){
-const err474 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key43 in data203){
+if(!((((((key43 === "phaseMargin_deg") || (key43 === "upperGainMargin_dB")) || (key43 === "lowerGainMargin_dB")) || (key43 === "delayMargin_s")) || (key43 === "sensitivityPeak")) || (key43 === "complementarySensitivityPeak"))){
+const err474 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key43},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err474];
 }
@@ -16930,10 +16929,45 @@ vErrors.push(err474);
 errors++;
 }
 }
-if(data212.parameters !== undefined){
-let data214 = data212.parameters;
-if(!(data214 && typeof data214 == "object" && !Array.isArray(data214))){
-const err475 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data203.phaseMargin_deg !== undefined){
+if(!(validate6(data203.phaseMargin_deg, {instancePath:instancePath+"/variations/worst/phaseMargin_deg",parentData:data203,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data203.upperGainMargin_dB !== undefined){
+if(!(validate6(data203.upperGainMargin_dB, {instancePath:instancePath+"/variations/worst/upperGainMargin_dB",parentData:data203,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data203.lowerGainMargin_dB !== undefined){
+if(!(validate6(data203.lowerGainMargin_dB, {instancePath:instancePath+"/variations/worst/lowerGainMargin_dB",parentData:data203,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data203.delayMargin_s !== undefined){
+if(!(validate6(data203.delayMargin_s, {instancePath:instancePath+"/variations/worst/delayMargin_s",parentData:data203,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data203.sensitivityPeak !== undefined){
+if(!(validate6(data203.sensitivityPeak, {instancePath:instancePath+"/variations/worst/sensitivityPeak",parentData:data203,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+if(data203.complementarySensitivityPeak !== undefined){
+if(!(validate6(data203.complementarySensitivityPeak, {instancePath:instancePath+"/variations/worst/complementarySensitivityPeak",parentData:data203,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate6.errors : vErrors.concat(validate6.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err475 = {instancePath:instancePath+"/variations/worst",schemaPath:"#/properties/variations/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err475];
 }
@@ -16943,9 +16977,15 @@ vErrors.push(err475);
 errors++;
 }
 }
-if(data212.citation !== undefined){
-if(typeof data212.citation !== "string"){
-const err476 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data178.failures !== undefined){
+let data210 = data178.failures;
+if(Array.isArray(data210)){
+const len12 = data210.length;
+for(let i12=0; i12<len12; i12++){
+let data211 = data210[i12];
+if(data211 && typeof data211 == "object" && !Array.isArray(data211)){
+if(data211.speed_mps === undefined){
+const err476 = {instancePath:instancePath+"/variations/failures/" + i12,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err476];
 }
@@ -16954,16 +16994,8 @@ vErrors.push(err476);
 }
 errors++;
 }
-}
-if(data212.parametersAtBreakpoints !== undefined){
-let data216 = data212.parametersAtBreakpoints;
-if(Array.isArray(data216)){
-const len13 = data216.length;
-for(let i13=0; i13<len13; i13++){
-let data217 = data216[i13];
-if(data217 && typeof data217 == "object" && !Array.isArray(data217)){
-if(data217.speed_mps === undefined){
-const err477 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data211.messages === undefined){
+const err477 = {instancePath:instancePath+"/variations/failures/" + i12,schemaPath:"#/properties/variations/properties/failures/items/required",keyword:"required",params:{missingProperty: "messages"},message:"must have required property '"+"messages"+"'"};
 if(vErrors === null){
 vErrors = [err477];
 }
@@ -16972,8 +17004,9 @@ vErrors.push(err477);
 }
 errors++;
 }
-if(data217.parameters === undefined){
-const err478 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
+for(const key44 in data211){
+if(!((key44 === "speed_mps") || (key44 === "messages"))){
+const err478 = {instancePath:instancePath+"/variations/failures/" + i12,schemaPath:"#/properties/variations/properties/failures/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key44},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err478];
 }
@@ -16982,9 +17015,11 @@ vErrors.push(err478);
 }
 errors++;
 }
-for(const key45 in data217){
-if(!((key45 === "speed_mps") || (key45 === "parameters"))){
-const err479 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key45},message:"must NOT have additional properties"};
+}
+if(data211.speed_mps !== undefined){
+let data212 = data211.speed_mps;
+if(!((typeof data212 == "number") && (isFinite(data212)))){
+const err479 = {instancePath:instancePath+"/variations/failures/" + i12+"/speed_mps",schemaPath:"#/properties/variations/properties/failures/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err479];
 }
@@ -16994,10 +17029,13 @@ vErrors.push(err479);
 errors++;
 }
 }
-if(data217.speed_mps !== undefined){
-let data218 = data217.speed_mps;
-if(!((typeof data218 == "number") && (isFinite(data218)))){
-const err480 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data211.messages !== undefined){
+let data213 = data211.messages;
+if(Array.isArray(data213)){
+const len13 = data213.length;
+for(let i13=0; i13<len13; i13++){
+if(typeof data213[i13] !== "string"){
+const err480 = {instancePath:instancePath+"/variations/failures/" + i12+"/messages/" + i13,schemaPath:"#/properties/variations/properties/failures/items/properties/messages/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err480];
 }
@@ -17007,13 +17045,9 @@ vErrors.push(err480);
 errors++;
 }
 }
-if(data217.parameters !== undefined){
-let data219 = data217.parameters;
-if(data219 && typeof data219 == "object" && !Array.isArray(data219)){
-for(const key46 in data219){
-let data220 = data219[key46];
-if((!((typeof data220 == "number") && (isFinite(data220)))) && (typeof data220 !== "string")){
-const err481 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/parameters/" + key46.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
+}
+else {
+const err481 = {instancePath:instancePath+"/variations/failures/" + i12+"/messages",schemaPath:"#/properties/variations/properties/failures/items/properties/messages/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err481];
 }
@@ -17025,7 +17059,7 @@ errors++;
 }
 }
 else {
-const err482 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err482 = {instancePath:instancePath+"/variations/failures/" + i12,schemaPath:"#/properties/variations/properties/failures/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err482];
 }
@@ -17037,7 +17071,7 @@ errors++;
 }
 }
 else {
-const err483 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i13,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err483 = {instancePath:instancePath+"/variations/failures",schemaPath:"#/properties/variations/properties/failures/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err483];
 }
@@ -17047,9 +17081,15 @@ vErrors.push(err483);
 errors++;
 }
 }
-}
-else {
-const err484 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data178.breakpoints !== undefined){
+let data215 = data178.breakpoints;
+if(Array.isArray(data215)){
+const len14 = data215.length;
+for(let i14=0; i14<len14; i14++){
+let data216 = data215[i14];
+if(data216 && typeof data216 == "object" && !Array.isArray(data216)){
+if(data216.speed_mps === undefined){
+const err484 = {instancePath:instancePath+"/variations/breakpoints/" + i14,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err484];
 }
@@ -17058,11 +17098,8 @@ vErrors.push(err484);
 }
 errors++;
 }
-}
-if(data212.tuneFor !== undefined){
-let data221 = data212.tuneFor;
-if(!((data221 === "rule-parameters") || (data221 === "fastest-passing"))){
-const err485 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
+if(data216.instability === undefined){
+const err485 = {instancePath:instancePath+"/variations/breakpoints/" + i14,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "instability"},message:"must have required property '"+"instability"+"'"};
 if(vErrors === null){
 vErrors = [err485];
 }
@@ -17071,11 +17108,8 @@ vErrors.push(err485);
 }
 errors++;
 }
-}
-if(data212.searchOn !== undefined){
-let data222 = data212.searchOn;
-if(!((data222 === "nominal") || (data222 === "worst-case"))){
-const err486 = {instancePath:instancePath+"/provenance/rule/searchOn",schemaPath:"#/properties/provenance/properties/rule/properties/searchOn/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchOn.enum},message:"must be equal to one of the allowed values"};
+if(data216.worst === undefined){
+const err486 = {instancePath:instancePath+"/variations/breakpoints/" + i14,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "worst"},message:"must have required property '"+"worst"+"'"};
 if(vErrors === null){
 vErrors = [err486];
 }
@@ -17084,16 +17118,8 @@ vErrors.push(err486);
 }
 errors++;
 }
-}
-if(data212.searchAtBreakpoints !== undefined){
-let data223 = data212.searchAtBreakpoints;
-if(Array.isArray(data223)){
-const len14 = data223.length;
-for(let i14=0; i14<len14; i14++){
-let data224 = data223[i14];
-if(data224 && typeof data224 == "object" && !Array.isArray(data224)){
-if(data224.speed_mps === undefined){
-const err487 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
+if(data216.timeDomain === undefined){
+const err487 = {instancePath:instancePath+"/variations/breakpoints/" + i14,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "timeDomain"},message:"must have required property '"+"timeDomain"+"'"};
 if(vErrors === null){
 vErrors = [err487];
 }
@@ -17102,8 +17128,8 @@ vErrors.push(err487);
 }
 errors++;
 }
-if(data224.parameter === undefined){
-const err488 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(data216.weakest === undefined){
+const err488 = {instancePath:instancePath+"/variations/breakpoints/" + i14,schemaPath:"#/properties/variations/properties/breakpoints/items/required",keyword:"required",params:{missingProperty: "weakest"},message:"must have required property '"+"weakest"+"'"};
 if(vErrors === null){
 vErrors = [err488];
 }
@@ -17112,8 +17138,9 @@ vErrors.push(err488);
 }
 errors++;
 }
-if(data224.value === undefined){
-const err489 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+for(const key45 in data216){
+if(!(((((key45 === "speed_mps") || (key45 === "instability")) || (key45 === "worst")) || (key45 === "timeDomain")) || (key45 === "weakest"))){
+const err489 = {instancePath:instancePath+"/variations/breakpoints/" + i14,schemaPath:"#/properties/variations/properties/breakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key45},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err489];
 }
@@ -17122,8 +17149,11 @@ vErrors.push(err489);
 }
 errors++;
 }
-if(data224.outcome === undefined){
-const err490 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+}
+if(data216.speed_mps !== undefined){
+let data217 = data216.speed_mps;
+if(!((typeof data217 == "number") && (isFinite(data217)))){
+const err490 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/speed_mps",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err490];
 }
@@ -17132,8 +17162,18 @@ vErrors.push(err490);
 }
 errors++;
 }
-if(data224.candidates === undefined){
-const err491 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+}
+if(data216.instability !== undefined){
+if(!(validate13(data216.instability, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/instability",parentData:data216,parentDataProperty:"instability",rootData}))){
+vErrors = vErrors === null ? validate13.errors : vErrors.concat(validate13.errors);
+errors = vErrors.length;
+}
+}
+if(data216.worst !== undefined){
+let data219 = data216.worst;
+if(data219 && typeof data219 == "object" && !Array.isArray(data219)){
+if(data219.phaseMargin_deg === undefined){
+const err491 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "phaseMargin_deg"},message:"must have required property '"+"phaseMargin_deg"+"'"};
 if(vErrors === null){
 vErrors = [err491];
 }
@@ -17142,8 +17182,8 @@ vErrors.push(err491);
 }
 errors++;
 }
-if(data224.reason === undefined){
-const err492 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(data219.upperGainMargin_dB === undefined){
+const err492 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "upperGainMargin_dB"},message:"must have required property '"+"upperGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err492];
 }
@@ -17152,9 +17192,8 @@ vErrors.push(err492);
 }
 errors++;
 }
-for(const key47 in data224){
-if(!((((((key47 === "speed_mps") || (key47 === "parameter")) || (key47 === "value")) || (key47 === "outcome")) || (key47 === "candidates")) || (key47 === "reason"))){
-const err493 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key47},message:"must NOT have additional properties"};
+if(data219.lowerGainMargin_dB === undefined){
+const err493 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "lowerGainMargin_dB"},message:"must have required property '"+"lowerGainMargin_dB"+"'"};
 if(vErrors === null){
 vErrors = [err493];
 }
@@ -17163,11 +17202,8 @@ vErrors.push(err493);
 }
 errors++;
 }
-}
-if(data224.speed_mps !== undefined){
-let data225 = data224.speed_mps;
-if(!((typeof data225 == "number") && (isFinite(data225)))){
-const err494 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data219.delayMargin_s === undefined){
+const err494 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "delayMargin_s"},message:"must have required property '"+"delayMargin_s"+"'"};
 if(vErrors === null){
 vErrors = [err494];
 }
@@ -17176,10 +17212,8 @@ vErrors.push(err494);
 }
 errors++;
 }
-}
-if(data224.parameter !== undefined){
-if(typeof data224.parameter !== "string"){
-const err495 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data219.sensitivityPeak === undefined){
+const err495 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "sensitivityPeak"},message:"must have required property '"+"sensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err495];
 }
@@ -17188,11 +17222,8 @@ vErrors.push(err495);
 }
 errors++;
 }
-}
-if(data224.value !== undefined){
-let data227 = data224.value;
-if(!((typeof data227 == "number") && (isFinite(data227)))){
-const err496 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data219.complementarySensitivityPeak === undefined){
+const err496 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/required",keyword:"required",params:{missingProperty: "complementarySensitivityPeak"},message:"must have required property '"+"complementarySensitivityPeak"+"'"};
 if(vErrors === null){
 vErrors = [err496];
 }
@@ -17201,11 +17232,9 @@ vErrors.push(err496);
 }
 errors++;
 }
-}
-if(data224.outcome !== undefined){
-let data228 = data224.outcome;
-if(!((data228 === "fastest passing") || (data228 === "none passed"))){
-const err497 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+for(const key46 in data219){
+if(!((((((key46 === "phaseMargin_deg") || (key46 === "upperGainMargin_dB")) || (key46 === "lowerGainMargin_dB")) || (key46 === "delayMargin_s")) || (key46 === "sensitivityPeak")) || (key46 === "complementarySensitivityPeak"))){
+const err497 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key46},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err497];
 }
@@ -17215,10 +17244,45 @@ vErrors.push(err497);
 errors++;
 }
 }
-if(data224.candidates !== undefined){
-let data229 = data224.candidates;
-if(!(((typeof data229 == "number") && (!(data229 % 1) && !isNaN(data229))) && (isFinite(data229)))){
-const err498 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data219.phaseMargin_deg !== undefined){
+if(!(validate15(data219.phaseMargin_deg, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst/phaseMargin_deg",parentData:data219,parentDataProperty:"phaseMargin_deg",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data219.upperGainMargin_dB !== undefined){
+if(!(validate15(data219.upperGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst/upperGainMargin_dB",parentData:data219,parentDataProperty:"upperGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data219.lowerGainMargin_dB !== undefined){
+if(!(validate15(data219.lowerGainMargin_dB, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst/lowerGainMargin_dB",parentData:data219,parentDataProperty:"lowerGainMargin_dB",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data219.delayMargin_s !== undefined){
+if(!(validate15(data219.delayMargin_s, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst/delayMargin_s",parentData:data219,parentDataProperty:"delayMargin_s",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data219.sensitivityPeak !== undefined){
+if(!(validate15(data219.sensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst/sensitivityPeak",parentData:data219,parentDataProperty:"sensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+if(data219.complementarySensitivityPeak !== undefined){
+if(!(validate15(data219.complementarySensitivityPeak, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst/complementarySensitivityPeak",parentData:data219,parentDataProperty:"complementarySensitivityPeak",rootData}))){
+vErrors = vErrors === null ? validate15.errors : vErrors.concat(validate15.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err498 = {instancePath:instancePath+"/variations/breakpoints/" + i14+"/worst",schemaPath:"#/properties/variations/properties/breakpoints/items/properties/worst/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err498];
 }
@@ -17227,9 +17291,22 @@ vErrors.push(err498);
 }
 errors++;
 }
-if((typeof data229 == "number") && (isFinite(data229))){
-if(data229 < 1 || isNaN(data229)){
-const err499 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+}
+if(data216.timeDomain !== undefined){
+if(!(validate22(data216.timeDomain, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/timeDomain",parentData:data216,parentDataProperty:"timeDomain",rootData}))){
+vErrors = vErrors === null ? validate22.errors : vErrors.concat(validate22.errors);
+errors = vErrors.length;
+}
+}
+if(data216.weakest !== undefined){
+if(!(validate33(data216.weakest, {instancePath:instancePath+"/variations/breakpoints/" + i14+"/weakest",parentData:data216,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate33.errors : vErrors.concat(validate33.errors);
+errors = vErrors.length;
+}
+}
+}
+else {
+const err499 = {instancePath:instancePath+"/variations/breakpoints/" + i14,schemaPath:"#/properties/variations/properties/breakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err499];
 }
@@ -17240,9 +17317,8 @@ errors++;
 }
 }
 }
-if(data224.reason !== undefined){
-if(typeof data224.reason !== "string"){
-const err500 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+else {
+const err500 = {instancePath:instancePath+"/variations/breakpoints",schemaPath:"#/properties/variations/properties/breakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err500];
 }
@@ -17252,9 +17328,15 @@ vErrors.push(err500);
 errors++;
 }
 }
+if(data178.weakest !== undefined){
+if(!(validate33(data178.weakest, {instancePath:instancePath+"/variations/weakest",parentData:data178,parentDataProperty:"weakest",rootData}))){
+vErrors = vErrors === null ? validate33.errors : vErrors.concat(validate33.errors);
+errors = vErrors.length;
+}
+}
 }
 else {
-const err501 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i14,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err501 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err501];
 }
@@ -17264,9 +17346,11 @@ vErrors.push(err501);
 errors++;
 }
 }
-}
-else {
-const err502 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data.provenance !== undefined){
+let data229 = data.provenance;
+if(data229 && typeof data229 == "object" && !Array.isArray(data229)){
+if(data229.tool === undefined){
+const err502 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "tool"},message:"must have required property '"+"tool"+"'"};
 if(vErrors === null){
 vErrors = [err502];
 }
@@ -17275,10 +17359,8 @@ vErrors.push(err502);
 }
 errors++;
 }
-}
-}
-else {
-const err503 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data229.toolVersion === undefined){
+const err503 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
 if(vErrors === null){
 vErrors = [err503];
 }
@@ -17287,11 +17369,8 @@ vErrors.push(err503);
 }
 errors++;
 }
-}
-if(data203.plan !== undefined){
-let data231 = data203.plan;
-if(!(data231 && typeof data231 == "object" && !Array.isArray(data231))){
-const err504 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data229.inputs === undefined){
+const err504 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "inputs"},message:"must have required property '"+"inputs"+"'"};
 if(vErrors === null){
 vErrors = [err504];
 }
@@ -17300,16 +17379,8 @@ vErrors.push(err504);
 }
 errors++;
 }
-}
-if(data203.handEdits !== undefined){
-let data232 = data203.handEdits;
-if(Array.isArray(data232)){
-const len15 = data232.length;
-for(let i15=0; i15<len15; i15++){
-let data233 = data232[i15];
-if(data233 && typeof data233 == "object" && !Array.isArray(data233)){
-if(data233.statement === undefined){
-const err505 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(data229.model === undefined){
+const err505 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
 if(vErrors === null){
 vErrors = [err505];
 }
@@ -17318,8 +17389,8 @@ vErrors.push(err505);
 }
 errors++;
 }
-if(data233.changedSections === undefined){
-const err506 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(data229.rule === undefined){
+const err506 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "rule"},message:"must have required property '"+"rule"+"'"};
 if(vErrors === null){
 vErrors = [err506];
 }
@@ -17328,8 +17399,8 @@ vErrors.push(err506);
 }
 errors++;
 }
-if(data233.toolVersion === undefined){
-const err507 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(data229.plan === undefined){
+const err507 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/required",keyword:"required",params:{missingProperty: "plan"},message:"must have required property '"+"plan"+"'"};
 if(vErrors === null){
 vErrors = [err507];
 }
@@ -17338,8 +17409,9 @@ vErrors.push(err507);
 }
 errors++;
 }
-if(data233.model === undefined){
-const err508 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+for(const key47 in data229){
+if(!(((((((key47 === "tool") || (key47 === "toolVersion")) || (key47 === "inputs")) || (key47 === "model")) || (key47 === "rule")) || (key47 === "plan")) || (key47 === "handEdits"))){
+const err508 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key47},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err508];
 }
@@ -17348,8 +17420,10 @@ vErrors.push(err508);
 }
 errors++;
 }
-if(data233.gridSize === undefined){
-const err509 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+}
+if(data229.tool !== undefined){
+if("speedband" !== data229.tool){
+const err509 = {instancePath:instancePath+"/provenance/tool",schemaPath:"#/properties/provenance/properties/tool/const",keyword:"const",params:{allowedValue: "speedband"},message:"must be equal to constant"};
 if(vErrors === null){
 vErrors = [err509];
 }
@@ -17358,9 +17432,10 @@ vErrors.push(err509);
 }
 errors++;
 }
-for(const key48 in data233){
-if(!(((((key48 === "statement") || (key48 === "changedSections")) || (key48 === "toolVersion")) || (key48 === "model")) || (key48 === "gridSize"))){
-const err510 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key48},message:"must NOT have additional properties"};
+}
+if(data229.toolVersion !== undefined){
+if(typeof data229.toolVersion !== "string"){
+const err510 = {instancePath:instancePath+"/provenance/toolVersion",schemaPath:"#/properties/provenance/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err510];
 }
@@ -17370,9 +17445,15 @@ vErrors.push(err510);
 errors++;
 }
 }
-if(data233.statement !== undefined){
-if(typeof data233.statement !== "string"){
-const err511 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data229.inputs !== undefined){
+let data232 = data229.inputs;
+if(Array.isArray(data232)){
+const len15 = data232.length;
+for(let i15=0; i15<len15; i15++){
+let data233 = data232[i15];
+if(data233 && typeof data233 == "object" && !Array.isArray(data233)){
+if(data233.file === undefined){
+const err511 = {instancePath:instancePath+"/provenance/inputs/" + i15,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "file"},message:"must have required property '"+"file"+"'"};
 if(vErrors === null){
 vErrors = [err511];
 }
@@ -17381,14 +17462,8 @@ vErrors.push(err511);
 }
 errors++;
 }
-}
-if(data233.changedSections !== undefined){
-let data235 = data233.changedSections;
-if(Array.isArray(data235)){
-const len16 = data235.length;
-for(let i16=0; i16<len16; i16++){
-if(typeof data235[i16] !== "string"){
-const err512 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/changedSections/" + i16,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data233.sha256 === undefined){
+const err512 = {instancePath:instancePath+"/provenance/inputs/" + i15,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "sha256"},message:"must have required property '"+"sha256"+"'"};
 if(vErrors === null){
 vErrors = [err512];
 }
@@ -17397,10 +17472,8 @@ vErrors.push(err512);
 }
 errors++;
 }
-}
-}
-else {
-const err513 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data233.role === undefined){
+const err513 = {instancePath:instancePath+"/provenance/inputs/" + i15,schemaPath:"#/properties/provenance/properties/inputs/items/required",keyword:"required",params:{missingProperty: "role"},message:"must have required property '"+"role"+"'"};
 if(vErrors === null){
 vErrors = [err513];
 }
@@ -17409,10 +17482,9 @@ vErrors.push(err513);
 }
 errors++;
 }
-}
-if(data233.toolVersion !== undefined){
-if(typeof data233.toolVersion !== "string"){
-const err514 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+for(const key48 in data233){
+if(!(((key48 === "file") || (key48 === "sha256")) || (key48 === "role"))){
+const err514 = {instancePath:instancePath+"/provenance/inputs/" + i15,schemaPath:"#/properties/provenance/properties/inputs/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key48},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err514];
 }
@@ -17422,9 +17494,9 @@ vErrors.push(err514);
 errors++;
 }
 }
-if(data233.model !== undefined){
-if(typeof data233.model !== "string"){
-const err515 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data233.file !== undefined){
+if(typeof data233.file !== "string"){
+const err515 = {instancePath:instancePath+"/provenance/inputs/" + i15+"/file",schemaPath:"#/properties/provenance/properties/inputs/items/properties/file/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err515];
 }
@@ -17434,10 +17506,11 @@ vErrors.push(err515);
 errors++;
 }
 }
-if(data233.gridSize !== undefined){
-let data239 = data233.gridSize;
-if(!(((typeof data239 == "number") && (!(data239 % 1) && !isNaN(data239))) && (isFinite(data239)))){
-const err516 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(data233.sha256 !== undefined){
+let data235 = data233.sha256;
+if(typeof data235 === "string"){
+if(!pattern0.test(data235)){
+const err516 = {instancePath:instancePath+"/provenance/inputs/" + i15+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
 if(vErrors === null){
 vErrors = [err516];
 }
@@ -17446,9 +17519,9 @@ vErrors.push(err516);
 }
 errors++;
 }
-if((typeof data239 == "number") && (isFinite(data239))){
-if(data239 < 1 || isNaN(data239)){
-const err517 = {instancePath:instancePath+"/provenance/handEdits/" + i15+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+}
+else {
+const err517 = {instancePath:instancePath+"/provenance/inputs/" + i15+"/sha256",schemaPath:"#/properties/provenance/properties/inputs/items/properties/sha256/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err517];
 }
@@ -17458,10 +17531,9 @@ vErrors.push(err517);
 errors++;
 }
 }
-}
-}
-else {
-const err518 = {instancePath:instancePath+"/provenance/handEdits/" + i15,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data233.role !== undefined){
+if(typeof data233.role !== "string"){
+const err518 = {instancePath:instancePath+"/provenance/inputs/" + i15+"/role",schemaPath:"#/properties/provenance/properties/inputs/items/properties/role/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err518];
 }
@@ -17473,7 +17545,7 @@ errors++;
 }
 }
 else {
-const err519 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const err519 = {instancePath:instancePath+"/provenance/inputs/" + i15,schemaPath:"#/properties/provenance/properties/inputs/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err519];
 }
@@ -17485,7 +17557,7 @@ errors++;
 }
 }
 else {
-const err520 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+const err520 = {instancePath:instancePath+"/provenance/inputs",schemaPath:"#/properties/provenance/properties/inputs/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err520];
 }
@@ -17495,11 +17567,10 @@ vErrors.push(err520);
 errors++;
 }
 }
-if(data.cautions !== undefined){
-let data240 = data.cautions;
-if(Array.isArray(data240)){
-if(data240.length < 1){
-const err521 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(data229.model !== undefined){
+let data237 = data229.model;
+if(!(data237 && typeof data237 == "object" && !Array.isArray(data237))){
+const err521 = {instancePath:instancePath+"/provenance/model",schemaPath:"#/properties/provenance/properties/model/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err521];
 }
@@ -17508,10 +17579,12 @@ vErrors.push(err521);
 }
 errors++;
 }
-const len17 = data240.length;
-for(let i17=0; i17<len17; i17++){
-if(typeof data240[i17] !== "string"){
-const err522 = {instancePath:instancePath+"/cautions/" + i17,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+}
+if(data229.rule !== undefined){
+let data238 = data229.rule;
+if(data238 && typeof data238 == "object" && !Array.isArray(data238)){
+if(data238.name === undefined){
+const err522 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "name"},message:"must have required property '"+"name"+"'"};
 if(vErrors === null){
 vErrors = [err522];
 }
@@ -17520,10 +17593,8 @@ vErrors.push(err522);
 }
 errors++;
 }
-}
-}
-else {
-const err523 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(data238.parameters === undefined){
+const err523 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
 if(vErrors === null){
 vErrors = [err523];
 }
@@ -17532,12 +17603,8 @@ vErrors.push(err523);
 }
 errors++;
 }
-}
-if(data.checksum !== undefined){
-let data242 = data.checksum;
-if(data242 && typeof data242 == "object" && !Array.isArray(data242)){
-if(data242.algorithm === undefined){
-const err524 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(data238.tuneFor === undefined){
+const err524 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/required",keyword:"required",params:{missingProperty: "tuneFor"},message:"must have required property '"+"tuneFor"+"'"};
 if(vErrors === null){
 vErrors = [err524];
 }
@@ -17546,8 +17613,9 @@ vErrors.push(err524);
 }
 errors++;
 }
-if(data242.canonicalForm === undefined){
-const err525 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+for(const key49 in data238){
+if(!(((((((key49 === "name") || (key49 === "parameters")) || (key49 === "citation")) || (key49 === "parametersAtBreakpoints")) || (key49 === "tuneFor")) || (key49 === "searchOn")) || (key49 === "searchAtBreakpoints"))){
+const err525 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key49},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err525];
 }
@@ -17556,8 +17624,10 @@ vErrors.push(err525);
 }
 errors++;
 }
-if(data242.value === undefined){
-const err526 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+}
+if(data238.name !== undefined){
+if(typeof data238.name !== "string"){
+const err526 = {instancePath:instancePath+"/provenance/rule/name",schemaPath:"#/properties/provenance/properties/rule/properties/name/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err526];
 }
@@ -17566,8 +17636,11 @@ vErrors.push(err526);
 }
 errors++;
 }
-if(data242.sections === undefined){
-const err527 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+}
+if(data238.parameters !== undefined){
+let data240 = data238.parameters;
+if(!(data240 && typeof data240 == "object" && !Array.isArray(data240))){
+const err527 = {instancePath:instancePath+"/provenance/rule/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err527];
 }
@@ -17576,9 +17649,10 @@ vErrors.push(err527);
 }
 errors++;
 }
-for(const key49 in data242){
-if(!((((key49 === "algorithm") || (key49 === "canonicalForm")) || (key49 === "value")) || (key49 === "sections"))){
-const err528 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key49},message:"must NOT have additional properties"};
+}
+if(data238.citation !== undefined){
+if(typeof data238.citation !== "string"){
+const err528 = {instancePath:instancePath+"/provenance/rule/citation",schemaPath:"#/properties/provenance/properties/rule/properties/citation/type",keyword:"type",params:{type: "string"},message:"must be string"};
 if(vErrors === null){
 vErrors = [err528];
 }
@@ -17588,9 +17662,15 @@ vErrors.push(err528);
 errors++;
 }
 }
-if(data242.algorithm !== undefined){
-if("SHA-256" !== data242.algorithm){
-const err529 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(data238.parametersAtBreakpoints !== undefined){
+let data242 = data238.parametersAtBreakpoints;
+if(Array.isArray(data242)){
+const len16 = data242.length;
+for(let i16=0; i16<len16; i16++){
+let data243 = data242[i16];
+if(data243 && typeof data243 == "object" && !Array.isArray(data243)){
+if(data243.speed_mps === undefined){
+const err529 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i16,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err529];
 }
@@ -17599,10 +17679,8 @@ vErrors.push(err529);
 }
 errors++;
 }
-}
-if(data242.canonicalForm !== undefined){
-if(typeof data242.canonicalForm !== "string"){
-const err530 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data243.parameters === undefined){
+const err530 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i16,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameters"},message:"must have required property '"+"parameters"+"'"};
 if(vErrors === null){
 vErrors = [err530];
 }
@@ -17611,12 +17689,9 @@ vErrors.push(err530);
 }
 errors++;
 }
-}
-if(data242.value !== undefined){
-let data245 = data242.value;
-if(typeof data245 === "string"){
-if(!pattern0.test(data245)){
-const err531 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+for(const key50 in data243){
+if(!((key50 === "speed_mps") || (key50 === "parameters"))){
+const err531 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i16,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key50},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err531];
 }
@@ -17626,8 +17701,10 @@ vErrors.push(err531);
 errors++;
 }
 }
-else {
-const err532 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(data243.speed_mps !== undefined){
+let data244 = data243.speed_mps;
+if(!((typeof data244 == "number") && (isFinite(data244)))){
+const err532 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i16+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err532];
 }
@@ -17637,14 +17714,13 @@ vErrors.push(err532);
 errors++;
 }
 }
-if(data242.sections !== undefined){
-let data246 = data242.sections;
-if(data246 && typeof data246 == "object" && !Array.isArray(data246)){
-for(const key50 in data246){
-const _errs505 = errors;
-if(typeof key50 === "string"){
-if(!pattern5.test(key50)){
-const err533 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key50};
+if(data243.parameters !== undefined){
+let data245 = data243.parameters;
+if(data245 && typeof data245 == "object" && !Array.isArray(data245)){
+for(const key51 in data245){
+let data246 = data245[key51];
+if((!((typeof data246 == "number") && (isFinite(data246)))) && (typeof data246 !== "string")){
+const err533 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i16+"/parameters/" + key51.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/additionalProperties/type",keyword:"type",params:{type: schema11.properties.provenance.properties.rule.properties.parametersAtBreakpoints.items.properties.parameters.additionalProperties.type},message:"must be number,string"};
 if(vErrors === null){
 vErrors = [err533];
 }
@@ -17654,9 +17730,9 @@ vErrors.push(err533);
 errors++;
 }
 }
-var valid86 = _errs505 === errors;
-if(!valid86){
-const err534 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key50},message:"property name must be valid"};
+}
+else {
+const err534 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i16+"/parameters",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/properties/parameters/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err534];
 }
@@ -17666,11 +17742,9 @@ vErrors.push(err534);
 errors++;
 }
 }
-for(const key51 in data246){
-let data247 = data246[key51];
-if(typeof data247 === "string"){
-if(!pattern0.test(data247)){
-const err535 = {instancePath:instancePath+"/checksum/sections/" + key51.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+}
+else {
+const err535 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints/" + i16,schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err535];
 }
@@ -17680,8 +17754,9 @@ vErrors.push(err535);
 errors++;
 }
 }
+}
 else {
-const err536 = {instancePath:instancePath+"/checksum/sections/" + key51.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+const err536 = {instancePath:instancePath+"/provenance/rule/parametersAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/parametersAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
 if(vErrors === null){
 vErrors = [err536];
 }
@@ -17691,9 +17766,10 @@ vErrors.push(err536);
 errors++;
 }
 }
-}
-else {
-const err537 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data238.tuneFor !== undefined){
+let data247 = data238.tuneFor;
+if(!((data247 === "rule-parameters") || (data247 === "fastest-passing"))){
+const err537 = {instancePath:instancePath+"/provenance/rule/tuneFor",schemaPath:"#/properties/provenance/properties/rule/properties/tuneFor/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.tuneFor.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err537];
 }
@@ -17703,9 +17779,10 @@ vErrors.push(err537);
 errors++;
 }
 }
-}
-else {
-const err538 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data238.searchOn !== undefined){
+let data248 = data238.searchOn;
+if(!((data248 === "nominal") || (data248 === "worst-case"))){
+const err538 = {instancePath:instancePath+"/provenance/rule/searchOn",schemaPath:"#/properties/provenance/properties/rule/properties/searchOn/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchOn.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err538];
 }
@@ -17715,14 +17792,644 @@ vErrors.push(err538);
 errors++;
 }
 }
-}
-else {
-const err539 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data238.searchAtBreakpoints !== undefined){
+let data249 = data238.searchAtBreakpoints;
+if(Array.isArray(data249)){
+const len17 = data249.length;
+for(let i17=0; i17<len17; i17++){
+let data250 = data249[i17];
+if(data250 && typeof data250 == "object" && !Array.isArray(data250)){
+if(data250.speed_mps === undefined){
+const err539 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "speed_mps"},message:"must have required property '"+"speed_mps"+"'"};
 if(vErrors === null){
 vErrors = [err539];
 }
 else {
 vErrors.push(err539);
+}
+errors++;
+}
+if(data250.parameter === undefined){
+const err540 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "parameter"},message:"must have required property '"+"parameter"+"'"};
+if(vErrors === null){
+vErrors = [err540];
+}
+else {
+vErrors.push(err540);
+}
+errors++;
+}
+if(data250.value === undefined){
+const err541 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err541];
+}
+else {
+vErrors.push(err541);
+}
+errors++;
+}
+if(data250.outcome === undefined){
+const err542 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "outcome"},message:"must have required property '"+"outcome"+"'"};
+if(vErrors === null){
+vErrors = [err542];
+}
+else {
+vErrors.push(err542);
+}
+errors++;
+}
+if(data250.candidates === undefined){
+const err543 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "candidates"},message:"must have required property '"+"candidates"+"'"};
+if(vErrors === null){
+vErrors = [err543];
+}
+else {
+vErrors.push(err543);
+}
+errors++;
+}
+if(data250.reason === undefined){
+const err544 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/required",keyword:"required",params:{missingProperty: "reason"},message:"must have required property '"+"reason"+"'"};
+if(vErrors === null){
+vErrors = [err544];
+}
+else {
+vErrors.push(err544);
+}
+errors++;
+}
+for(const key52 in data250){
+if(!((((((key52 === "speed_mps") || (key52 === "parameter")) || (key52 === "value")) || (key52 === "outcome")) || (key52 === "candidates")) || (key52 === "reason"))){
+const err545 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key52},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err545];
+}
+else {
+vErrors.push(err545);
+}
+errors++;
+}
+}
+if(data250.speed_mps !== undefined){
+let data251 = data250.speed_mps;
+if(!((typeof data251 == "number") && (isFinite(data251)))){
+const err546 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17+"/speed_mps",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/speed_mps/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err546];
+}
+else {
+vErrors.push(err546);
+}
+errors++;
+}
+}
+if(data250.parameter !== undefined){
+if(typeof data250.parameter !== "string"){
+const err547 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17+"/parameter",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/parameter/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err547];
+}
+else {
+vErrors.push(err547);
+}
+errors++;
+}
+}
+if(data250.value !== undefined){
+let data253 = data250.value;
+if(!((typeof data253 == "number") && (isFinite(data253)))){
+const err548 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17+"/value",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/value/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err548];
+}
+else {
+vErrors.push(err548);
+}
+errors++;
+}
+}
+if(data250.outcome !== undefined){
+let data254 = data250.outcome;
+if(!((data254 === "fastest passing") || (data254 === "none passed"))){
+const err549 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17+"/outcome",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/outcome/enum",keyword:"enum",params:{allowedValues: schema11.properties.provenance.properties.rule.properties.searchAtBreakpoints.items.properties.outcome.enum},message:"must be equal to one of the allowed values"};
+if(vErrors === null){
+vErrors = [err549];
+}
+else {
+vErrors.push(err549);
+}
+errors++;
+}
+}
+if(data250.candidates !== undefined){
+let data255 = data250.candidates;
+if(!(((typeof data255 == "number") && (!(data255 % 1) && !isNaN(data255))) && (isFinite(data255)))){
+const err550 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err550];
+}
+else {
+vErrors.push(err550);
+}
+errors++;
+}
+if((typeof data255 == "number") && (isFinite(data255))){
+if(data255 < 1 || isNaN(data255)){
+const err551 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17+"/candidates",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/candidates/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err551];
+}
+else {
+vErrors.push(err551);
+}
+errors++;
+}
+}
+}
+if(data250.reason !== undefined){
+if(typeof data250.reason !== "string"){
+const err552 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17+"/reason",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/properties/reason/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err552];
+}
+else {
+vErrors.push(err552);
+}
+errors++;
+}
+}
+}
+else {
+const err553 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints/" + i17,schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err553];
+}
+else {
+vErrors.push(err553);
+}
+errors++;
+}
+}
+}
+else {
+const err554 = {instancePath:instancePath+"/provenance/rule/searchAtBreakpoints",schemaPath:"#/properties/provenance/properties/rule/properties/searchAtBreakpoints/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err554];
+}
+else {
+vErrors.push(err554);
+}
+errors++;
+}
+}
+}
+else {
+const err555 = {instancePath:instancePath+"/provenance/rule",schemaPath:"#/properties/provenance/properties/rule/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err555];
+}
+else {
+vErrors.push(err555);
+}
+errors++;
+}
+}
+if(data229.plan !== undefined){
+let data257 = data229.plan;
+if(!(data257 && typeof data257 == "object" && !Array.isArray(data257))){
+const err556 = {instancePath:instancePath+"/provenance/plan",schemaPath:"#/properties/provenance/properties/plan/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err556];
+}
+else {
+vErrors.push(err556);
+}
+errors++;
+}
+}
+if(data229.handEdits !== undefined){
+let data258 = data229.handEdits;
+if(Array.isArray(data258)){
+const len18 = data258.length;
+for(let i18=0; i18<len18; i18++){
+let data259 = data258[i18];
+if(data259 && typeof data259 == "object" && !Array.isArray(data259)){
+if(data259.statement === undefined){
+const err557 = {instancePath:instancePath+"/provenance/handEdits/" + i18,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "statement"},message:"must have required property '"+"statement"+"'"};
+if(vErrors === null){
+vErrors = [err557];
+}
+else {
+vErrors.push(err557);
+}
+errors++;
+}
+if(data259.changedSections === undefined){
+const err558 = {instancePath:instancePath+"/provenance/handEdits/" + i18,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "changedSections"},message:"must have required property '"+"changedSections"+"'"};
+if(vErrors === null){
+vErrors = [err558];
+}
+else {
+vErrors.push(err558);
+}
+errors++;
+}
+if(data259.toolVersion === undefined){
+const err559 = {instancePath:instancePath+"/provenance/handEdits/" + i18,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "toolVersion"},message:"must have required property '"+"toolVersion"+"'"};
+if(vErrors === null){
+vErrors = [err559];
+}
+else {
+vErrors.push(err559);
+}
+errors++;
+}
+if(data259.model === undefined){
+const err560 = {instancePath:instancePath+"/provenance/handEdits/" + i18,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "model"},message:"must have required property '"+"model"+"'"};
+if(vErrors === null){
+vErrors = [err560];
+}
+else {
+vErrors.push(err560);
+}
+errors++;
+}
+if(data259.gridSize === undefined){
+const err561 = {instancePath:instancePath+"/provenance/handEdits/" + i18,schemaPath:"#/properties/provenance/properties/handEdits/items/required",keyword:"required",params:{missingProperty: "gridSize"},message:"must have required property '"+"gridSize"+"'"};
+if(vErrors === null){
+vErrors = [err561];
+}
+else {
+vErrors.push(err561);
+}
+errors++;
+}
+for(const key53 in data259){
+if(!(((((key53 === "statement") || (key53 === "changedSections")) || (key53 === "toolVersion")) || (key53 === "model")) || (key53 === "gridSize"))){
+const err562 = {instancePath:instancePath+"/provenance/handEdits/" + i18,schemaPath:"#/properties/provenance/properties/handEdits/items/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key53},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err562];
+}
+else {
+vErrors.push(err562);
+}
+errors++;
+}
+}
+if(data259.statement !== undefined){
+if(typeof data259.statement !== "string"){
+const err563 = {instancePath:instancePath+"/provenance/handEdits/" + i18+"/statement",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/statement/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err563];
+}
+else {
+vErrors.push(err563);
+}
+errors++;
+}
+}
+if(data259.changedSections !== undefined){
+let data261 = data259.changedSections;
+if(Array.isArray(data261)){
+const len19 = data261.length;
+for(let i19=0; i19<len19; i19++){
+if(typeof data261[i19] !== "string"){
+const err564 = {instancePath:instancePath+"/provenance/handEdits/" + i18+"/changedSections/" + i19,schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err564];
+}
+else {
+vErrors.push(err564);
+}
+errors++;
+}
+}
+}
+else {
+const err565 = {instancePath:instancePath+"/provenance/handEdits/" + i18+"/changedSections",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/changedSections/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err565];
+}
+else {
+vErrors.push(err565);
+}
+errors++;
+}
+}
+if(data259.toolVersion !== undefined){
+if(typeof data259.toolVersion !== "string"){
+const err566 = {instancePath:instancePath+"/provenance/handEdits/" + i18+"/toolVersion",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/toolVersion/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err566];
+}
+else {
+vErrors.push(err566);
+}
+errors++;
+}
+}
+if(data259.model !== undefined){
+if(typeof data259.model !== "string"){
+const err567 = {instancePath:instancePath+"/provenance/handEdits/" + i18+"/model",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/model/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err567];
+}
+else {
+vErrors.push(err567);
+}
+errors++;
+}
+}
+if(data259.gridSize !== undefined){
+let data265 = data259.gridSize;
+if(!(((typeof data265 == "number") && (!(data265 % 1) && !isNaN(data265))) && (isFinite(data265)))){
+const err568 = {instancePath:instancePath+"/provenance/handEdits/" + i18+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err568];
+}
+else {
+vErrors.push(err568);
+}
+errors++;
+}
+if((typeof data265 == "number") && (isFinite(data265))){
+if(data265 < 1 || isNaN(data265)){
+const err569 = {instancePath:instancePath+"/provenance/handEdits/" + i18+"/gridSize",schemaPath:"#/properties/provenance/properties/handEdits/items/properties/gridSize/minimum",keyword:"minimum",params:{comparison: ">=", limit: 1},message:"must be >= 1"};
+if(vErrors === null){
+vErrors = [err569];
+}
+else {
+vErrors.push(err569);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err570 = {instancePath:instancePath+"/provenance/handEdits/" + i18,schemaPath:"#/properties/provenance/properties/handEdits/items/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err570];
+}
+else {
+vErrors.push(err570);
+}
+errors++;
+}
+}
+}
+else {
+const err571 = {instancePath:instancePath+"/provenance/handEdits",schemaPath:"#/properties/provenance/properties/handEdits/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err571];
+}
+else {
+vErrors.push(err571);
+}
+errors++;
+}
+}
+}
+else {
+const err572 = {instancePath:instancePath+"/provenance",schemaPath:"#/properties/provenance/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err572];
+}
+else {
+vErrors.push(err572);
+}
+errors++;
+}
+}
+if(data.cautions !== undefined){
+let data266 = data.cautions;
+if(Array.isArray(data266)){
+if(data266.length < 1){
+const err573 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/minItems",keyword:"minItems",params:{limit: 1},message:"must NOT have fewer than 1 items"};
+if(vErrors === null){
+vErrors = [err573];
+}
+else {
+vErrors.push(err573);
+}
+errors++;
+}
+const len20 = data266.length;
+for(let i20=0; i20<len20; i20++){
+if(typeof data266[i20] !== "string"){
+const err574 = {instancePath:instancePath+"/cautions/" + i20,schemaPath:"#/properties/cautions/items/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err574];
+}
+else {
+vErrors.push(err574);
+}
+errors++;
+}
+}
+}
+else {
+const err575 = {instancePath:instancePath+"/cautions",schemaPath:"#/properties/cautions/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err575];
+}
+else {
+vErrors.push(err575);
+}
+errors++;
+}
+}
+if(data.checksum !== undefined){
+let data268 = data.checksum;
+if(data268 && typeof data268 == "object" && !Array.isArray(data268)){
+if(data268.algorithm === undefined){
+const err576 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "algorithm"},message:"must have required property '"+"algorithm"+"'"};
+if(vErrors === null){
+vErrors = [err576];
+}
+else {
+vErrors.push(err576);
+}
+errors++;
+}
+if(data268.canonicalForm === undefined){
+const err577 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "canonicalForm"},message:"must have required property '"+"canonicalForm"+"'"};
+if(vErrors === null){
+vErrors = [err577];
+}
+else {
+vErrors.push(err577);
+}
+errors++;
+}
+if(data268.value === undefined){
+const err578 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "value"},message:"must have required property '"+"value"+"'"};
+if(vErrors === null){
+vErrors = [err578];
+}
+else {
+vErrors.push(err578);
+}
+errors++;
+}
+if(data268.sections === undefined){
+const err579 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/required",keyword:"required",params:{missingProperty: "sections"},message:"must have required property '"+"sections"+"'"};
+if(vErrors === null){
+vErrors = [err579];
+}
+else {
+vErrors.push(err579);
+}
+errors++;
+}
+for(const key54 in data268){
+if(!((((key54 === "algorithm") || (key54 === "canonicalForm")) || (key54 === "value")) || (key54 === "sections"))){
+const err580 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key54},message:"must NOT have additional properties"};
+if(vErrors === null){
+vErrors = [err580];
+}
+else {
+vErrors.push(err580);
+}
+errors++;
+}
+}
+if(data268.algorithm !== undefined){
+if("SHA-256" !== data268.algorithm){
+const err581 = {instancePath:instancePath+"/checksum/algorithm",schemaPath:"#/properties/checksum/properties/algorithm/const",keyword:"const",params:{allowedValue: "SHA-256"},message:"must be equal to constant"};
+if(vErrors === null){
+vErrors = [err581];
+}
+else {
+vErrors.push(err581);
+}
+errors++;
+}
+}
+if(data268.canonicalForm !== undefined){
+if(typeof data268.canonicalForm !== "string"){
+const err582 = {instancePath:instancePath+"/checksum/canonicalForm",schemaPath:"#/properties/checksum/properties/canonicalForm/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err582];
+}
+else {
+vErrors.push(err582);
+}
+errors++;
+}
+}
+if(data268.value !== undefined){
+let data271 = data268.value;
+if(typeof data271 === "string"){
+if(!pattern0.test(data271)){
+const err583 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err583];
+}
+else {
+vErrors.push(err583);
+}
+errors++;
+}
+}
+else {
+const err584 = {instancePath:instancePath+"/checksum/value",schemaPath:"#/properties/checksum/properties/value/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err584];
+}
+else {
+vErrors.push(err584);
+}
+errors++;
+}
+}
+if(data268.sections !== undefined){
+let data272 = data268.sections;
+if(data272 && typeof data272 == "object" && !Array.isArray(data272)){
+for(const key55 in data272){
+const _errs562 = errors;
+if(typeof key55 === "string"){
+if(!pattern5.test(key55)){
+const err585 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames/pattern",keyword:"pattern",params:{pattern: "^/"},message:"must match pattern \""+"^/"+"\"",propertyName:key55};
+if(vErrors === null){
+vErrors = [err585];
+}
+else {
+vErrors.push(err585);
+}
+errors++;
+}
+}
+var valid97 = _errs562 === errors;
+if(!valid97){
+const err586 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/propertyNames",keyword:"propertyNames",params:{propertyName: key55},message:"property name must be valid"};
+if(vErrors === null){
+vErrors = [err586];
+}
+else {
+vErrors.push(err586);
+}
+errors++;
+}
+}
+for(const key56 in data272){
+let data273 = data272[key56];
+if(typeof data273 === "string"){
+if(!pattern0.test(data273)){
+const err587 = {instancePath:instancePath+"/checksum/sections/" + key56.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/pattern",keyword:"pattern",params:{pattern: "^[0-9a-f]{64}$"},message:"must match pattern \""+"^[0-9a-f]{64}$"+"\""};
+if(vErrors === null){
+vErrors = [err587];
+}
+else {
+vErrors.push(err587);
+}
+errors++;
+}
+}
+else {
+const err588 = {instancePath:instancePath+"/checksum/sections/" + key56.replace(/~/g, "~0").replace(/\//g, "~1"),schemaPath:"#/properties/checksum/properties/sections/additionalProperties/type",keyword:"type",params:{type: "string"},message:"must be string"};
+if(vErrors === null){
+vErrors = [err588];
+}
+else {
+vErrors.push(err588);
+}
+errors++;
+}
+}
+}
+else {
+const err589 = {instancePath:instancePath+"/checksum/sections",schemaPath:"#/properties/checksum/properties/sections/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err589];
+}
+else {
+vErrors.push(err589);
+}
+errors++;
+}
+}
+}
+else {
+const err590 = {instancePath:instancePath+"/checksum",schemaPath:"#/properties/checksum/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err590];
+}
+else {
+vErrors.push(err590);
+}
+errors++;
+}
+}
+}
+else {
+const err591 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err591];
+}
+else {
+vErrors.push(err591);
 }
 errors++;
 }

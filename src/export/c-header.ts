@@ -4,7 +4,8 @@
  * low-speed floor, linear or monotone cubic Hermite (Fritsch & Carlson 1980, slopes stored), exact
  * values at breakpoints, result kept between neighbouring values — and returns a status for a speed
  * that is NaN or infinite (c-lookup.ts). Arithmetic in IEEE 754 double. No dynamic memory, no library
- * calls. With a fixed-point format the header holds integers only — speeds in 2^−16 m/s, each gain in its
+ * calls. The floating-point header also holds the controller equation as a step function with its state struct
+ * (c-controller.ts). With a fixed-point format the header holds integers only — speeds in 2^−16 m/s, each gain in its
  * Q format, the Hermite slope terms — and an integer lookup (c-integer-lookup.ts, the same computation as
  * integer-lookup.ts, which the export re-checks): no floating point on that path.
  * No text from the schedule reaches the header except through the comment whitelist (c-comment.ts);
@@ -22,6 +23,7 @@ import type { GainTable, WorstMargins, WorstValue } from '../schedule/types.js';
 import { cComment, commentSafe } from './c-comment.js';
 import { LOOKUP_STATUS, lookupFunctionsText, type LookupField } from './c-lookup.js';
 import { integerLookupText } from './c-integer-lookup.js';
+import { controllerFunctionsText } from './c-controller.js';
 import { monotoneCubicSlopes } from '../schedule/monotone-cubic.js';
 import { formatName, quantiseTable, type FixedPointRequest, type QuantisedTable } from './fixed-point.js';
 
@@ -134,7 +136,7 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
       : `Arithmetic: integers only (no floating point). Speed in units of 2^-16 m/s; gains kp ${formatName(quantisation.formats.kp)}, ki ${formatName(quantisation.formats.ki)}, ` +
         `kd ${formatName(quantisation.formats.kd)} (value = integer / 2^F); largest error against the exact lookup kp ${quantisation.errors.kp.maxAbsoluteInterpolated.toPrecision(3)}, ` +
         `ki ${quantisation.errors.ki.maxAbsoluteInterpolated.toPrecision(3)}, kd ${quantisation.errors.kd.maxAbsoluteInterpolated.toPrecision(3)}. ` +
-        'This header holds kp, ki and kd only: take the set-point weights and the feed-forward from the floating-point header of the same schedule.',
+        'This header holds kp, ki and kd only: take the set-point weights, the feed-forward and the controller step function from the floating-point header of the same schedule.',
     `Dense check of the gains in this header (${modelWords(schedule.check.model.kind)}, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
       `${check.passed ? 'PASSED' : `FAILED at ${check.failedSpeeds} speeds`}.`,
     ...worstLines(check.worst),
@@ -235,10 +237,14 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     `#define ${upper}_SAMPLE_TIME_S ${cDouble(controller.sampleTime_s)}`,
     `#define ${upper}_DERIVATIVE_FILTER ${cDouble(controller.derivativeFilter)}`,
     `#define ${upper}_INTEGRATOR_CLAMP_RAD ${cDouble(controller.integratorClamp_rad)}`,
+    `/* The step function's command limit, rad (the steering-angle limit, as the integrator clamp). */`,
+    `#define ${upper}_COMMAND_LIMIT_RAD ${cDouble(controller.integratorClamp_rad)}`,
     `#define ${upper}_LOW_SPEED_FLOOR_MPS ${cDouble(settings.lowSpeedFloor_mps)}`,
     `#define ${upper}_CHECKSUM "${schedule.checksum.value}"`,
     ...body,
     '',
+    // The controller equation in double: the floating-point header only (the integer header has no floating point).
+    ...(quantisation === undefined ? [controllerFunctionsText({ prefix, upper, discretisation: controller.discretisation, antiWindup: controller.antiWindup }), ''] : []),
     `#endif /* ${upper}_H */`,
     '',
   ];

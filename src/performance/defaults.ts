@@ -34,3 +34,25 @@ export const SCENARIO_DEFAULTS = {
   shortestHorizon_s: 20,
   longestHorizon_s: 300,
 } as const;
+
+/**
+ * The scenarios `speedband simulate`, `build` and `check` drive a schedule through (scenario-catalogue.ts).
+ * Sizes are our choice unless a source is named; the lane change, curve, misalignment and lateral force
+ * reuse SCENARIO_DEFAULTS above.
+ */
+export const SIMULATION_DEFAULTS = {
+  /** Small reference steps, meant to stay in the linear range: heading rad, yaw rate rad/s, path m. */
+  smallStep: { heading: 0.01, 'yaw-rate': 0.01, path: 0.05 },
+  /** Large reference steps, meant to reach the steering limits: heading 0.2 rad (SCENARIO_DEFAULTS), path 1 m; yaw rate: the step of SCENARIO_DEFAULTS. */
+  largeStep: { heading: 0.2, path: 1 },
+  /** Initial offset from the path: path loop m, heading loop rad (none for a yaw-rate loop). */
+  initialOffset: { heading: 0.05, path: 0.5 },
+  /** Time simulated after a manoeuvre, s: long enough for a 15 s recovery and a tail in which to look for a limit cycle. */
+  settle_s: 30,
+  /** Speed ramp through the range while following a curve: acceleration, m/s² (≈ 0.1 g, a moderate acceleration; our choice). */
+  rampAcceleration_mps2: 1,
+  /** Braking through the range: deceleration, m/s² (≈ 0.2 g, firm but not an emergency stop; our choice). */
+  brakingDeceleration_mps2: 2,
+  /** Constant speed in the curve before and after a speed change, s. */
+  rampHold_s: 10,
+} as const;

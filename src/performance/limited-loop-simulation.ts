@@ -10,6 +10,7 @@
  * growing with amplitude; limit cycles, Gelb & Vander Velde 1968) shows here and in no linear figure.
  */
 import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
+import { actuatorPieces } from './actuator-motion.js';
 import { matrixExponential } from '../lti/matrix-exponential.js';
 import { controllableCanonicalForm } from '../lti/state-space.js';
 import type { TransferFunction } from '../lti/types.js';
@@ -82,40 +83,12 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
     }
     z.set(next);
   };
-  /** Advance h seconds with the delayed, angle-limited command c held. */
+  /** Advance h seconds with the delayed, angle-limited command c held (actuator-motion.ts). */
   const advance = (c: number, h: number): void => {
-    if (h <= 0) return;
-    const error = c - z[n];
-    const direction = Math.sign(error);
-    if (lag > 0) {
-      const band = rate * lag;
-      let remaining = h;
-      if (Math.abs(error) > band) {
-        const ramp = (Math.abs(error) - band) / rate;
-        if (ramp >= remaining) {
-          apply(piece('free', remaining), direction * rate);
-          return;
-        }
-        apply(piece('free', ramp), direction * rate);
-        z[n] = c - direction * band;
-        remaining -= ramp;
-      }
-      apply(piece('track', remaining), c);
-      return;
+    for (const motion of actuatorPieces(z[n], c, h, lag, rate)) {
+      if (motion.startAngle !== undefined) z[n] = motion.startAngle;
+      apply(piece(motion.kind, motion.duration_s), motion.input);
     }
-    if (error !== 0 && !Number.isFinite(rate)) z[n] = c;
-    if (z[n] === c) {
-      apply(piece('free', h), 0);
-      return;
-    }
-    const ramp = Math.abs(error) / rate;
-    if (ramp >= h) {
-      apply(piece('free', h), direction * rate);
-      return;
-    }
-    apply(piece('free', ramp), direction * rate);
-    z[n] = c;
-    apply(piece('free', h - ramp), 0);
   };
   const count = input.reference.length;
   const output = new Float64Array(count);

@@ -170,6 +170,9 @@ export const PLAN_SCHEMA = {
           maximumRecoveryTime_s: described(positive, 'A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).'),
           maximumLaneChangeError_m: described(positive, 'Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).'),
           maximumCurveEntryError_m: described(positive, 'Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).'),
+          maximumSpeedChangeError_m: described(positive, 'Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3).'),
+          maximumSpeedChangeError_rad: described(positive, 'Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05).'),
+          maximumSpeedChangeError_radps: described(positive, 'Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05).'),
         },
       },
       'Limits every speed of the dense check must meet.',
@@ -184,6 +187,10 @@ export const PLAN_SCHEMA = {
           model: described(
             { enum: ['single-track', 'interpolated-lumped'] },
             'Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused).',
+          ),
+          scenarios: described(
+            { type: 'boolean' },
+            'Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (needs the single-track model).',
           ),
         },
       },

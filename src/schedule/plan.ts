@@ -3,6 +3,7 @@
  * schedule is built with. Every field has a documented default (PLAN_DEFAULTS), so `{}` is a plan.
  */
 import { CONTROLLER_DEFAULTS, resolveControllerSettings } from '../controller/defaults.js';
+import type { ScenarioLimits } from '../performance/scenario-limits.js';
 import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
 import type { TimeDomainLimits } from '../performance/types.js';
@@ -96,6 +97,10 @@ export interface Plan {
     readonly maximumComplementarySensitivityPeak: number;
     /** Required delay margin = latency (computation latency + half a sample for the hold) + this room, s. */
     readonly delayMarginRoom_s: number;
+    /** Largest error while the speed changes through the range in a curve (the speed-ramp and braking scenarios), per loop unit. */
+    readonly maximumSpeedChangeError_m: number;
+    readonly maximumSpeedChangeError_rad: number;
+    readonly maximumSpeedChangeError_radps: number;
   };
   readonly check: {
     /** Evenly spaced check speeds across the range (breakpoints and midpoints are added). */
@@ -103,6 +108,8 @@ export interface Plan {
     readonly maxInsertedBreakpoints: number;
     /** Model the dense check runs on: the joint single-track fit, or lumped models interpolated between test speeds. */
     readonly model: 'single-track' | 'interpolated-lumped';
+    /** Run the scenarios (src/performance/scenario-catalogue.ts) at each breakpoint, at low, middle and top speed and through the range, and judge them. */
+    readonly scenarios: boolean;
   };
   /** The vehicles the schedule must hold on besides the nominal model (plan-variations.ts); absent: nominal check only. */
   readonly variations?: PlanVariations;
@@ -126,7 +133,9 @@ export type PartialPlan = {
  * suggest about 1.25 for a well-damped reference response (from memory); the overshoot limit judges that
  * directly; overshoot ≤ 25 % (common practice); disturbances removed to 5 % within 15 s, a lane-change
  * error ≤ 0.5 m (half the clearance of a 2.5 m wide vehicle in a 3.5 m lane) and a curve-entry error
- * ≤ 0.3 m 3 s after entry (our choices, the product's targets for lateral control); derivative filter
+ * ≤ 0.3 m 3 s after entry (our choices, the product's targets for lateral control); while the speed changes
+ * through the range in a curve, an error ≤ 0.3 m (path: the curve-entry limit), ≤ 0.05 rad ≈ 3° (heading) or
+ * ≤ 0.05 rad/s (yaw rate) (our choices), and no sustained oscillation in any scenario (common practice); derivative filter
  * N = 10 common practice; backward Euler because its derivative-filter pole stays in [0, 1); conditional
  * integration (Åström & Hägglund 2006, §3.5: no parameter to tune). The rule per loop kind: DEFAULT_RULES.
  * Our choices: speed range 1–20 m/s (the test speeds when there are any) with the floor at its bottom, 6 geometric breakpoints (gains change
@@ -151,8 +160,11 @@ export const PLAN_DEFAULTS: Plan = {
     maximumRecoveryTime_s: 15,
     maximumLaneChangeError_m: 0.5,
     maximumCurveEntryError_m: 0.3,
+    maximumSpeedChangeError_m: 0.3,
+    maximumSpeedChangeError_rad: 0.05,
+    maximumSpeedChangeError_radps: 0.05,
   },
-  check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track' },
+  check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track', scenarios: true },
 };
 
 /**
@@ -384,5 +396,18 @@ export function planThresholds(plan: Plan): AcceptanceThresholds {
     maximumSensitivityPeak: acceptance.maximumSensitivityPeak,
     maximumComplementarySensitivityPeak: acceptance.maximumComplementarySensitivityPeak,
     minimumDelayMargin_s: controller.computationLatency_s + controller.sampleTime_s / 2 + acceptance.delayMarginRoom_s,
+  };
+}
+
+/** The scenario limits of a plan: its time-domain limits and the speed-change error of its loop's unit. */
+export function planScenarioLimits(plan: Plan): ScenarioLimits {
+  const a = plan.acceptance;
+  return {
+    maximumOvershoot_pct: a.maximumOvershoot_pct,
+    maximumRecoveryTime_s: a.maximumRecoveryTime_s,
+    maximumLaneChangeError_m: a.maximumLaneChangeError_m,
+    maximumCurveEntryError_m: a.maximumCurveEntryError_m,
+    maximumSpeedChangeError:
+      plan.loop.kind === 'path' ? a.maximumSpeedChangeError_m : plan.loop.kind === 'heading' ? a.maximumSpeedChangeError_rad : a.maximumSpeedChangeError_radps,
   };
 }

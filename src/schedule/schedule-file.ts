@@ -26,6 +26,8 @@ import {
   type ScheduleFile,
   type ScheduleRuleParametersAt,
   type ScheduleSearchAt,
+  type ScheduleScenarioCheck,
+  type SpeedChangeCertificate,
 } from './schedule-types.js';
 import type { TimeDomainFigures } from '../performance/types.js';
 import type { DenseCheckResult, GainTable, WorstMargins, WorstValue } from './types.js';
@@ -60,6 +62,9 @@ export interface ScheduleInput {
   readonly breakpointExtras: readonly BreakpointExtras[];
   /** With tuneFor fastest-passing: the search at each final breakpoint. */
   readonly searchAtBreakpoints?: readonly ScheduleSearchAt[];
+  /** The scenarios judged (src/build/simulate-schedule.ts); a failure fails the schedule. */
+  readonly scenarioCheck?: ScheduleScenarioCheck;
+  readonly speedChange?: SpeedChangeCertificate;
 }
 
 /** What a schedule records at a breakpoint besides its gains and margins. */
@@ -140,7 +145,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   const timeDomainFailures = table.speeds_mps
     .map((speed_mps, k) => ({ speed_mps, messages: [...input.breakpointExtras[k].timeDomainFailures] }))
     .filter((entry) => entry.messages.length > 0);
-  const passed = check.passed && timeDomainFailures.length === 0;
+  const passed = check.passed && timeDomainFailures.length === 0 && (input.scenarioCheck?.passed ?? true);
   const path = plan.loop.kind === 'path';
   const worst = recordedWorst(check.worst);
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
@@ -198,6 +203,8 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
         steeringLimits: { maxSteerAngle_rad: input.integratorClamp_rad, maxSteerRate_radps: input.maxSteerRate_radps },
         failures: timeDomainFailures,
       },
+      ...(input.scenarioCheck === undefined ? {} : { scenarios: input.scenarioCheck }),
+      ...(input.speedChange === undefined ? {} : { speedChange: input.speedChange }),
     },
     ...(input.variations === undefined ? {} : { variations: input.variations }),
     provenance: {

@@ -1,4 +1,5 @@
 /** The gain table and lookup a schedule file describes. */
+import type { FirmwareGains, FirmwareSettings } from '../controller/firmware-step.js';
 import { makeColumnsLookup, makeGainLookup } from './interpolate.js';
 import type { ScheduleFile } from './schedule-types.js';
 import type { GainTable, GainsAtSpeed, LookupSettings } from './types.js';
@@ -42,4 +43,47 @@ export function scheduleExtrasLookup(schedule: Pick<ScheduleFile, 'breakpoints' 
     },
     scheduleLookupSettings(schedule),
   );
+}
+
+/** What the firmware's controller takes from a schedule at a measured speed. */
+export interface ScheduledController {
+  readonly gains: FirmwareGains;
+  readonly feedForwardLeadTime_s: number;
+}
+
+/**
+ * The schedule as the firmware runs it: the controller settings it states (the command and F + I clamped to
+ * its integrator clamp, the steer-angle limit) and the lookup of every scheduled number at a speed.
+ */
+export function scheduleFirmware(schedule: Pick<ScheduleFile, 'breakpoints' | 'interpolation' | 'controller'>): {
+  settings: FirmwareSettings;
+  at: (speed_mps: number) => ScheduledController;
+} {
+  const gains = scheduleLookup(schedule);
+  const extras = scheduleExtrasLookup(schedule);
+  const c = schedule.controller;
+  return {
+    settings: {
+      derivativeFilter: c.derivativeFilter,
+      sampleTime_s: c.sampleTime_s,
+      discretisation: c.discretisation,
+      computationLatency_s: c.computationLatency_s,
+      antiWindup: c.antiWindup,
+      commandLimit_rad: c.integratorClamp_rad,
+      integratorClamp_rad: c.integratorClamp_rad,
+    },
+    at: (speed_mps) => {
+      const pid = gains(speed_mps);
+      const more = extras(speed_mps);
+      return {
+        gains: {
+          ...pid,
+          setpointWeightProportional: more.setpointWeightProportional,
+          setpointWeightDerivative: more.setpointWeightDerivative,
+          feedForward: more.feedForward,
+        },
+        feedForwardLeadTime_s: more.feedForwardLeadTime_s,
+      };
+    },
+  };
 }

@@ -143,7 +143,21 @@ export const SCHEDULE_SCHEMA = object({
       steeringLimits: object({ maxSteerAngle_rad: { type: 'number', exclusiveMinimum: 0 }, maxSteerRate_radps: { type: 'number', exclusiveMinimum: 0 } }),
       failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
     }),
-  }),
+    scenarios: object({
+      passed: { type: 'boolean' },
+      limits: object({ ...timeDomainLimits.properties, maximumSpeedChangeError: number }),
+      model: text,
+      speeds_mps: { type: 'array', items: number },
+      scenarios: { type: 'array', items: text },
+      failures: { type: 'array', items: object({ speed_mps: number, scenario: text, metric: text, message: text }) },
+    }),
+    speedChange: object({
+      maximumAcceleration_mps2: nullableNumber,
+      maximumDeceleration_mps2: nullableNumber,
+      searched_mps2: object({ lowest: number, highest: number }),
+      statement: text,
+    }),
+  }, ['scenarios', 'speedChange']),
   variations: SCHEDULE_VARIATIONS_SCHEMA,
   provenance: object(
     {

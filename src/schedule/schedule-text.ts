@@ -39,7 +39,7 @@ export function loopErrorText(kind: LoopKind, preview_m: number, referencePoint:
     case 'yaw-rate':
       return 'e = r − y: r the yaw-rate reference, y the measured yaw rate, rad/s (positive counter-clockwise seen from above, ISO 8855)';
     case 'heading':
-      return 'e = r − y: r the heading reference, y the measured heading, rad (positive counter-clockwise seen from above, ISO 8855)';
+      return 'e = r − y: y the measured heading and r the heading reference, both taken from the tangent of the path followed (r = 0 to follow it; with set-point weight b < 1 an absolute heading would make b·r grow without bound along a curve), rad (positive counter-clockwise seen from above, ISO 8855)';
     case 'path':
       return `e = r − y at the preview point ${previewText(preview_m, previewTime_s)} ahead of the ${
         referencePointText(referencePoint)

@@ -6,6 +6,7 @@
 import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
 import type { TimeDomainFigures, TimeDomainLimits } from '../performance/types.js';
+import type { ScenarioFailure, ScenarioLimits } from '../performance/scenario-limits.js';
 import type { InterpolationMethod, AcceptanceThresholds, WorstMargins } from './types.js';
 import type { LoopKind, ReferencePoint } from './plan.js';
 import type { ScheduleVariations } from './schedule-variations.js';
@@ -123,6 +124,35 @@ export interface ScheduleCheck {
     readonly steeringLimits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number };
     readonly failures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
   };
+  /** The scenarios (`speedband simulate`) judged against the scenario limits; absent when the plan turned them off or the model is not single-track. */
+  readonly scenarios?: ScheduleScenarioCheck;
+  /** The speed-change certificate (absent when the scenarios were not run). */
+  readonly speedChange?: SpeedChangeCertificate;
+}
+
+/**
+ * The largest acceleration and deceleration for which a speed change through the whole range, in the curve of the
+ * speed-change scenarios, keeps the scenario limits (bisection over the rate). Frozen-speed margins say nothing of it.
+ */
+export interface SpeedChangeCertificate {
+  /** m/s²; null when even the lowest rate searched fails; `searched_mps2.highest` when the highest passes. */
+  readonly maximumAcceleration_mps2: number | null;
+  readonly maximumDeceleration_mps2: number | null;
+  readonly searched_mps2: { readonly lowest: number; readonly highest: number };
+  readonly statement: string;
+}
+
+/** The scenario runs a build or check judged. */
+export interface ScheduleScenarioCheck {
+  readonly passed: boolean;
+  /** The time-domain limits and the speed-change error limit in the loop's unit (maximumSpeedChangeError). */
+  readonly limits: ScenarioLimits;
+  /** The model the scenarios ran on, in words. */
+  readonly model: string;
+  /** Speeds of the per-speed scenarios (the breakpoints and low, middle and top speed), m/s. */
+  readonly speeds_mps: readonly number[];
+  readonly scenarios: readonly string[];
+  readonly failures: readonly ScenarioFailure[];
 }
 
 /** The fastest-passing search at one breakpoint. */

@@ -316,9 +316,12 @@ const DOCUMENTED_SYMBOLS = new Set([
   ...['setpoint_weight_p', 'setpoint_weight_d', 'feed_forward', 'feed_forward_lead_time_s'].flatMap((name) => [`speedband_schedule_${name}`, `speedband_schedule_${name}_slope`]),
   'speedband_schedule_segment',
   'speedband_schedule_lookup',
+  'speedband_schedule_controller_init',
+  'speedband_schedule_square_root',
+  'speedband_schedule_step',
 ]);
 const DOCUMENTED_MACROS = new Set(
-  ['H', 'BREAKPOINTS', 'SAMPLE_TIME_S', 'DERIVATIVE_FILTER', 'INTEGRATOR_CLAMP_RAD', 'LOW_SPEED_FLOOR_MPS', 'CHECKSUM', 'LOOKUP_OK', 'LOOKUP_FALLBACK', 'LOOKUP_NO_GAINS', 'FALLBACK_BREAKPOINT',
+  ['H', 'BREAKPOINTS', 'SAMPLE_TIME_S', 'DERIVATIVE_FILTER', 'INTEGRATOR_CLAMP_RAD', 'COMMAND_LIMIT_RAD', 'LOW_SPEED_FLOOR_MPS', 'CHECKSUM', 'LOOKUP_OK', 'LOOKUP_FALLBACK', 'LOOKUP_NO_GAINS', 'FALLBACK_BREAKPOINT',
     // Fixed-point headers:
     'SPEED_FRACTIONAL_BITS', 'KP_FRACTIONAL_BITS', 'KI_FRACTIONAL_BITS', 'KD_FRACTIONAL_BITS', 'LOW_SPEED_FLOOR_Q16'].map(
     (name) => `SPEEDBAND_SCHEDULE_${name}`,

@@ -180,7 +180,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
     } else {
       text += robustFailed
         ? `Nothing written: the schedule passes on the nominal model but not in the worst case over the plan's variations (see above). Retune for the weakest parameter, narrow the variations to what the vehicle really sees, set "variations": {"acceptance": "nominal"} to report the worst case without requiring it, or pass --allow-failing to write it marked failed for review.\n`
-        : `Nothing written: the schedule fails its dense check (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
+        : `Nothing written: the schedule fails its dense check, its time-domain limits or its scenarios (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
     }
     if (modelsOut !== undefined) text += `Wrote ${modelsOut}\n`;
     if (report !== null) text += (await import('./report.js')).reportWords(report.file, report.outcome, report.bytes, report.sections);
@@ -194,7 +194,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
 
 export const command: CommandModule = {
   command: 'build',
-  describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, write schedule.json',
+  describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, drive it through the scenarios of speedband simulate (plan check.scenarios, default on) with a speed-change certificate, write schedule.json',
   builder: (yargs) =>
     withLogColumnOptions(yargs)
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder' })

@@ -20,6 +20,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { recheckScheduleOnAllCores } = await import('../../build/recheck-schedule.js');
   const { formatRecheck } = await import('../../build/schedule-report.js');
+  const { formatScenarioCheck } = await import('../../build/scenario-report.js');
   const schedulePath = String(args.schedule);
   const schedule = readSchedule(schedulePath);
   const { model, notes } = await checkModelFromArgs(args, schedule, schedulePath, io);
@@ -34,7 +35,9 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       ? null
       : await (await import('../../build/robust-recheck.js')).recheckOverVariations({ schedule, model, onProgress: (event) => event.done === event.total && io.progress(`worst case over the variations: ${event.total} speeds\n`) });
   const { acceptancePassed } = await import('../../schedule/schedule-variations.js');
-  const passed = acceptancePassed(result.passed, robust?.record);
+  const scenarios = await checkScenarios(args, schedule, model);
+  notes.push(...scenarios.notes);
+  const passed = acceptancePassed(result.passed, robust?.record) && (scenarios.check?.passed ?? true);
 
   if (args.json === true) {
     io.stdout(
@@ -42,7 +45,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
         {
           file: schedulePath,
           checksum: 'verified',
-          passed: result.passed,
+          passed,
           model: { kind: model.kind, description: model.description },
           gridSize: result.points.length,
           failedSpeeds: result.failedCount,
@@ -50,6 +53,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
           failures: (await import('../../schedule/dense-check.js')).failingSpeeds(result.points),
           overallPassed: passed,
           variations: robust?.record ?? null,
+          scenarios: scenarios.check,
           notes,
         },
         null,
@@ -61,6 +65,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
       `${schedulePath}: schema valid, checksum ${schedule.checksum.value.slice(0, 16)}… verified\n` +
         notes.map((note) => `${note}\n`).join('') +
         formatRecheck(`model: ${model.description}`, result, schedule, model.kind) +
+        (scenarios.check === null ? '' : formatScenarioCheck(scenarios.check, schedule.loop.kind)) +
         (robust === null
           ? schedule.variations === undefined
             ? ''
@@ -78,9 +83,32 @@ async function robustText(record: ScheduleVariations, result: DenseCheckResult, 
   return formatVariations(record, nominalAtBreakpoints(result, schedule.breakpoints.map((row) => row.speed_mps)), schedule.check.thresholds);
 }
 
+/** The schedule's scenarios on the check model, with the limits the schedule records (none when it records none). */
+async function checkScenarios(
+  args: Record<string, unknown>,
+  schedule: import('../../schedule/schedule-types.js').ScheduleFile,
+  model: import('../../build/check-model.js').CheckModel,
+): Promise<{ check: import('../../schedule/schedule-types.js').ScheduleScenarioCheck | null; notes: string[] }> {
+  const recorded = schedule.check.scenarios;
+  if (recorded === undefined) return { check: null, notes: [] };
+  if (model.summary.kind !== 'single-track') return { check: null, notes: ['note: the scenarios need the single-track model; not run on per-speed yaw-rate models'] };
+  const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
+  const { judgeScheduleScenarios, scenarioParameters } = await import('../../build/simulate-schedule.js');
+  const vehicle = loadVehicle(resolveVehiclePath(String(args.vehicle)));
+  const { parameters, description } = scenarioParameters(model, vehicle);
+  const check = judgeScheduleScenarios({
+    schedule,
+    parameters,
+    steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
+    limits: recorded.limits,
+    model: description,
+  });
+  return { check, notes: [] };
+}
+
 export const command: CommandModule = {
   command: 'check <schedule>',
-  describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), and stability margins of its own gains at every speed of its range. Exit 0 passed, 1 failed, 2 bad input',
+  describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), stability margins of its own gains at every speed of its range, and (when the schedule records them) its scenarios driven as firmware runs them (see speedband simulate). Exit 0 passed, 1 failed, 2 bad input',
   builder: (yargs) =>
     withLogColumnOptions(yargs)
       .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build' })

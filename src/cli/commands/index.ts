@@ -12,6 +12,7 @@ import { command as demo } from './demo.js';
 import { command as reverify } from './reverify.js';
 import { command as plan } from './plan.js';
 import { command as report } from './report.js';
+import { command as simulate } from './simulate.js';
 
 /**
  * Every command of the CLI, in the order `--help` lists them (the pipeline's order).
@@ -19,4 +20,4 @@ import { command as report } from './report.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly AnyCommand[] = [demo, inspect, identify, tune, stability, plan, build, check, reverify, exportSchedule, report, compare, makeTestLogs];
+export const COMMANDS: readonly AnyCommand[] = [demo, inspect, identify, tune, stability, plan, build, check, simulate, reverify, exportSchedule, report, compare, makeTestLogs];

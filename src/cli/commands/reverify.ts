@@ -1,7 +1,7 @@
 import type { CommandModule } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { checkModelFromArgs } from '../check-model-args.js';
-import { optionalInputs, withLogColumnOptions } from '../log-columns.js';
+import { checkModelFromArgs, modelInputPaths } from '../check-model-args.js';
+import { withLogColumnOptions } from '../log-columns.js';
 
 /**
  * `speedband reverify`: the supported path for a deliberate hand edit of a schedule. The edited file
@@ -13,21 +13,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const schedulePath = String(args.schedule);
   const out = String(args.out);
   const { checkOutputPaths } = await import('../../core/output-paths.js');
-  const { resolveVehiclePath } = await import('../../vehicle/load.js');
-  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
-  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
-  checkOutputPaths(
-    [{ path: out, option: '--out' }],
-    [
-      { path: schedulePath, role: 'schedule' },
-      { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
-      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
-      ...optionalInputs(args, [
-        ['models', 'models file'],
-        ['log-profile', 'log profile'],
-      ]),
-    ],
-  );
+  checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }, ...(await modelInputPaths(args))]);
   const { readTextFile } = await import('../../core/files.js');
   const { parseJsonText } = await import('../../core/json-text.js');
   const { parseScheduleUnverified, writeSchedule } = await import('../../schedule/schedule-file.js');
