@@ -132,6 +132,10 @@ describe('closed-loop responses in the report', () => {
     const without: ScheduleFile = { ...path.schedule, breakpoints: path.schedule.breakpoints.map((breakpoint) => ({ ...breakpoint, timeDomain: null })) };
     expect(reportSectionTitles({ ...path, schedule: without, closedLoop: null })).not.toContain('Time-domain figures and closed-loop responses');
     const { html } = await renderReportHtml(path);
+    // The scenario check schedule.json records (pass or the limits broken, and the speed-change certificate), said in words.
+    const yawHtml = (await renderReportHtml(yawRate)).html;
+    expect(yawHtml).toContain('<h3 id="scenarios">Closed-loop scenarios</h3>');
+    expect(yawHtml).toContain(escapeHtml(yawRate.schedule.check.speedChange!.statement));
     const table = html.slice(html.indexOf('<table id="time-domain-table"'), html.indexOf('</table>', html.indexOf('<table id="time-domain-table"')));
     for (const breakpoint of path.schedule.breakpoints) {
       expect(table).toContain(`<data value="${String(breakpoint.setpointWeightProportional)}">`);

@@ -215,6 +215,19 @@ export function renderTimeDomainSection(data: ReportData, context: RenderContext
       `<ul>${td.failures.map((failure) => `<li>${fixedNumber(failure.speed_mps, 2)} m/s: ${failure.messages.map(escapeHtml).join('; ')}</li>`).join('')}</ul>`,
     );
   parts.push(`<div class="table-scroll">${timeDomainTable(schedule)}</div>`);
+  const scenarios = schedule.check.scenarios;
+  if (scenarios !== undefined) {
+    // The scenario check of the schedule (speedband simulate's scenarios), as schedule.json records it.
+    const speeds = scenarios.speeds_mps.map((speed) => fixedNumber(speed, 2)).join(', ');
+    parts.push(
+      `<h3 id="scenarios">Closed-loop scenarios</h3><p>${escapeHtml(`${scenarios.scenarios.length} scenarios (${scenarios.scenarios.join(', ')}) at ${speeds} m/s and through the range, on ${scenarios.model}: `)}` +
+        `<strong>${scenarios.passed ? 'every run within the scenario limits' : `${scenarios.failures.length} limit${scenarios.failures.length === 1 ? '' : 's'} broken`}</strong>.</p>` +
+        (scenarios.failures.length === 0
+          ? ''
+          : `<ul>${scenarios.failures.map((failure) => `<li>${fixedNumber(failure.speed_mps, 2)} m/s, ${escapeHtml(failure.scenario)}: ${escapeHtml(failure.message)}</li>`).join('')}</ul>`) +
+        (schedule.check.speedChange === undefined ? '' : `<p>${escapeHtml(schedule.check.speedChange.statement)}</p>`),
+    );
+  }
   if (figures.length > 0) {
     parts.push(
       renderFigure(
