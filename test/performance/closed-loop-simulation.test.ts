@@ -7,8 +7,8 @@ import type { SingleTrackParameters } from '../../src/vehicle/types.js';
 import { runPython } from '../helpers/python.js';
 import { PARCEL_VAN, PARCEL_VAN_CONTROLLER } from '../helpers/parcel-van.js';
 
-// An invented van (synthetic demo numbers).
-// The van with an actuator delay that is not a whole number of samples.
+// The demo parcel van (invented numbers),
+// with an actuator delay that is not a whole number of samples.
 const van: SingleTrackParameters = { ...PARCEL_VAN, actuatorDelay_s: 0.043 };
 
 /**
