@@ -8,5 +8,7 @@ export default defineConfig({
     // Test files share their workers' module cache: the stages are pure functions over plain data, and loading
     // the modules once per worker instead of once per file saves about a third of the suite's time on 2 cores.
     isolate: false,
+    // Property tests from one fixed seed: reproducible runs (test/helpers/fast-check-seed.ts).
+    setupFiles: ['test/helpers/fast-check-seed.ts'],
   },
 });

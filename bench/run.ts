@@ -33,7 +33,15 @@ const sections = previousSections();
 for (const name of files) {
   process.stdout.write(`\n== ${name} ==\n`);
   const load = loadavg()[0].toFixed(1);
-  const output = execFileSync(process.execPath, ['--import', 'tsx', join(here, name)], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'], maxBuffer: 64 * 2 ** 20 });
+  let output: string;
+  try {
+    output = execFileSync(process.execPath, ['--import', 'tsx', join(here, name)], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'], maxBuffer: 64 * 2 ** 20 });
+  } catch (error) {
+    // One failing bench does not stop the others; its section says so and the run ends with exit 1.
+    const stdout = (error as { stdout?: string }).stdout ?? '';
+    output = `${stdout}FAILED: ${error instanceof Error ? error.message.split('\n')[0] : String(error)}\n`;
+    process.exitCode = 1;
+  }
   process.stdout.write(output);
   const measured = `${new Date().toISOString().slice(0, 16).replace('T', ' ')} UTC on ${machine}, load average ${load} at the start`;
   sections.set(name, `## ${name}\n\nMeasured ${measured}.\n\n\`\`\`\n${output.trimEnd()}\n\`\`\`\n`);

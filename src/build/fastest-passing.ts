@@ -73,18 +73,25 @@ const BISECTION_STEPS = 4;
  */
 export const SEARCH_ROOM = { phaseMargin_deg: 1, gainMargin_dB: 0.5, peakFactor: 0.99, delayMarginFactor: 1.05 } as const;
 
+/** How far a search aims inside the frequency-domain limits. */
+export type SearchRoom = { readonly phaseMargin_deg: number; readonly gainMargin_dB: number; readonly peakFactor: number; readonly delayMarginFactor: number };
+
+/** The frequency-domain limits moved inside by `room`. */
+export function thresholdsWithRoom(thresholds: AcceptanceThresholds, room: SearchRoom): AcceptanceThresholds {
+  return {
+    maximumLowerGainMargin_dB: thresholds.maximumLowerGainMargin_dB - room.gainMargin_dB,
+    minimumUpperGainMargin_dB: thresholds.minimumUpperGainMargin_dB + room.gainMargin_dB,
+    minimumPhaseMargin_deg: thresholds.minimumPhaseMargin_deg + room.phaseMargin_deg,
+    maximumSensitivityPeak: Math.max(1, thresholds.maximumSensitivityPeak * room.peakFactor),
+    maximumComplementarySensitivityPeak: Math.max(1, thresholds.maximumComplementarySensitivityPeak * room.peakFactor),
+    minimumDelayMargin_s: thresholds.minimumDelayMargin_s * room.delayMarginFactor,
+  };
+}
+
 /** Acceptance limits moved inside by SEARCH_ROOM. */
 export function limitsWithRoom(thresholds: AcceptanceThresholds, limits: TimeDomainLimits): { thresholds: AcceptanceThresholds; limits: TimeDomainLimits } {
-  const r = SEARCH_ROOM;
   return {
-    thresholds: {
-      maximumLowerGainMargin_dB: thresholds.maximumLowerGainMargin_dB - r.gainMargin_dB,
-      minimumUpperGainMargin_dB: thresholds.minimumUpperGainMargin_dB + r.gainMargin_dB,
-      minimumPhaseMargin_deg: thresholds.minimumPhaseMargin_deg + r.phaseMargin_deg,
-      maximumSensitivityPeak: Math.max(1, thresholds.maximumSensitivityPeak * r.peakFactor),
-      maximumComplementarySensitivityPeak: Math.max(1, thresholds.maximumComplementarySensitivityPeak * r.peakFactor),
-      minimumDelayMargin_s: thresholds.minimumDelayMargin_s * r.delayMarginFactor,
-    },
+    thresholds: thresholdsWithRoom(thresholds, SEARCH_ROOM),
     limits,
   };
 }

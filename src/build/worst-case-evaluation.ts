@@ -13,6 +13,7 @@ import type { BreakpointEvaluator } from './breakpoint-evaluation.js';
 import { worstCaseMarginsAt, type RobustContext } from './robust-analysis.js';
 import type { TimeDomainSettings } from './robust-time-domain.js';
 import { robustSetpointWeights } from './robust-setpoint-weights.js';
+import { thresholdsWithRoom } from './fastest-passing.js';
 
 /**
  * The worst case at a breakpoint must keep this far inside the frequency-domain limits (our choice, wider than the nominal
@@ -24,15 +25,7 @@ export const WORST_CASE_SEARCH_ROOM = { phaseMargin_deg: 3, gainMargin_dB: 1, pe
 
 /** The plan's limits moved inside by WORST_CASE_SEARCH_ROOM. */
 export function worstCaseThresholds(thresholds: AcceptanceThresholds): AcceptanceThresholds {
-  const r = WORST_CASE_SEARCH_ROOM;
-  return {
-    maximumLowerGainMargin_dB: thresholds.maximumLowerGainMargin_dB - r.gainMargin_dB,
-    minimumUpperGainMargin_dB: thresholds.minimumUpperGainMargin_dB + r.gainMargin_dB,
-    minimumPhaseMargin_deg: thresholds.minimumPhaseMargin_deg + r.phaseMargin_deg,
-    maximumSensitivityPeak: Math.max(1, thresholds.maximumSensitivityPeak * r.peakFactor),
-    maximumComplementarySensitivityPeak: Math.max(1, thresholds.maximumComplementarySensitivityPeak * r.peakFactor),
-    minimumDelayMargin_s: thresholds.minimumDelayMargin_s * r.delayMarginFactor,
-  };
+  return thresholdsWithRoom(thresholds, WORST_CASE_SEARCH_ROOM);
 }
 
 export interface WorstCaseEvaluatorInput {

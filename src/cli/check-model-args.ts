@@ -3,7 +3,14 @@ import { quoted } from '../core/quote.js';
 import type { CheckModel } from '../build/check-model.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { CommandIo } from './io.js';
-import { logColumnsFromArgs, optionalInputs } from './log-columns.js';
+import { logColumnsFromArgs, optionalInputs, type LogColumnArgs } from './log-columns.js';
+
+/** The model options check, reverify and simulate share, as yargs gives them. */
+export interface ModelArgs extends LogColumnArgs {
+  readonly vehicle: string;
+  readonly logs?: readonly string[];
+  readonly models?: string;
+}
 
 /**
  * The vehicle model `check` and `reverify` run the dense check on: a fresh identification from --logs,
@@ -11,7 +18,7 @@ import { logColumnsFromArgs, optionalInputs } from './log-columns.js';
  * vehicle file that differs from the one the schedule was built with.
  */
 export async function checkModelFromArgs(
-  args: Record<string, unknown>,
+  args: ModelArgs,
   schedule: ScheduleFile,
   schedulePath: string,
   io: CommandIo,
@@ -20,7 +27,7 @@ export async function checkModelFromArgs(
   const { checkModelFromModels } = await import('../build/check-model.js');
   const { recordedCheckModel } = await import('../build/recheck-schedule.js');
   const { sha256Hex, readFileBytes } = await import('../core/files.js');
-  const vehicleFile = resolveVehiclePath(String(args.vehicle));
+  const vehicleFile = resolveVehiclePath(args.vehicle);
   const vehicle = loadVehicle(vehicleFile);
   const notes: string[] = [];
   if (sha256Hex(readFileBytes(vehicleFile)) !== schedule.vehicle.sha256) {
@@ -29,8 +36,8 @@ export async function checkModelFromArgs(
   if (vehicle.name !== schedule.vehicle.name) {
     notes.push(`note: the schedule was built for vehicle ${quoted(schedule.vehicle.name)}, the vehicle file given is ${quoted(vehicle.name)}`);
   }
-  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
-  const modelsPath = args.models === undefined ? undefined : String(args.models);
+  const logPaths = args.logs ?? [];
+  const modelsPath = args.models;
   if (logPaths.length > 0 && modelsPath !== undefined) {
     throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one');
   }
@@ -60,12 +67,12 @@ export async function checkModelFromArgs(
 }
 
 /** The input files of the model options (--vehicle, --logs, --models, --log-profile), for the output-path check. */
-export async function modelInputPaths(args: Record<string, unknown>): Promise<{ path: string; role: string }[]> {
+export async function modelInputPaths(args: ModelArgs): Promise<{ path: string; role: string }[]> {
   const { resolveVehiclePath } = await import('../vehicle/load.js');
   const { expandLogPaths } = await import('../identify/identify-from-logs.js');
-  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
+  const logPaths = args.logs ?? [];
   return [
-    { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
+    { path: resolveVehiclePath(args.vehicle), role: 'vehicle file' },
     ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
     ...optionalInputs(args, [
       ['models', 'models file'],

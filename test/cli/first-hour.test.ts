@@ -37,7 +37,7 @@ beforeAll(async () => {
 });
 
 describe('the same log options on every command that reads logs', () => {
-  it('build, check, identify, inspect, report and reverify take --column and --log-profile, described alike (one definition)', async () => {
+  it('build, check, identify, inspect, report, reverify and simulate take --column and --log-profile, described alike (one definition)', async () => {
     const { COMMANDS } = await import('../../src/cli/commands/index.js');
     const readers: string[] = [];
     for (const command of COMMANDS) {
@@ -48,7 +48,7 @@ describe('the same log options on every command that reads logs', () => {
       expect(help, name).toMatch(/--column Map one channel, CHANNEL=HEADER\[:UNIT\] \(overrides the profile; repeatable\)/);
       expect(help, name).toMatch(/--log-profile JSON file naming the log columns and their units/);
     }
-    expect(readers.sort()).toEqual(['build', 'check', 'identify', 'inspect', 'report', 'reverify']);
+    expect(readers.sort()).toEqual(['build', 'check', 'identify', 'inspect', 'report', 'reverify', 'simulate']);
     // identify reads a column in another unit, as its missing-column error recommends.
     const logs = convertLogs(join(VAN, 'logs'), join(dir, 'identify-kph'), { scale: { speed_mps: 3.6 }, only: /(02|10|25)\.00mps/ });
     const identified = await run(['identify', '--vehicle', VAN, '--logs', ...logs, '--column', 'speed_mps=speed_mps:km/h', '--json', '--no-second-order']);
@@ -163,8 +163,9 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
     expect(printed.code).toBe(0);
     const plan = JSON.parse(printed.out) as { loop: { kind: string }; acceptance: object; controller: object; check: object };
     expect(plan.loop.kind).toBe('yaw-rate');
-    // Ten limits: four margins, Ms, Mt, the delay-margin room and the time-domain limits of the reference step, disturbances, lane change and curve entry.
-    expect(Object.keys(plan.acceptance)).toHaveLength(10);
+    // Thirteen limits: the gain and phase margins, Ms, Mt, the delay-margin room, the time-domain limits (reference step, disturbances, lane change,
+    // curve entry) and the speed-change error of each loop kind.
+    expect(Object.keys(plan.acceptance)).toHaveLength(13);
     const path = writePlan('default-plan.json', plan);
     const out = join(dir, 'with-default-plan.json');
     expect((await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', path, '--out', out])).code).toBe(0);

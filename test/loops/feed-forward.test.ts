@@ -3,18 +3,10 @@ import { feedForwardFromLumped, feedForwardFromSingleTrack, rampLag_s } from '..
 import { simulateSingleTrack } from '../../src/vehicle/simulate.js';
 import { understeerGradient_radPerMps2 } from '../../src/vehicle/single-track.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
+import { PARCEL_VAN } from '../helpers/parcel-van.js';
 
 // An invented understeering van (synthetic demo numbers) and an oversteering variant below its critical speed.
-const van: SingleTrackParameters = {
-  mass_kg: 3400,
-  yawInertia_kgm2: 11000,
-  cgToFrontAxle_m: 1.75,
-  cgToRearAxle_m: 1.85,
-  frontCorneringStiffness_NPerRad: 120000,
-  rearCorneringStiffness_NPerRad: 180000,
-  actuatorLag_s: 0.08,
-  actuatorDelay_s: 0.05,
-};
+const van: SingleTrackParameters = PARCEL_VAN;
 const oversteering: SingleTrackParameters = { ...van, frontCorneringStiffness_NPerRad: 180000, rearCorneringStiffness_NPerRad: 110000 };
 
 describe('feedForwardFromSingleTrack(path)', () => {

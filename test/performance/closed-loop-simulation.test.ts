@@ -5,18 +5,11 @@ import { simulateClosedLoop } from '../../src/performance/closed-loop-simulation
 import { sampledPlant } from '../../src/verify/sampled-plant.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
 import { runPython } from '../helpers/python.js';
+import { PARCEL_VAN, PARCEL_VAN_CONTROLLER } from '../helpers/parcel-van.js';
 
-// An invented van (synthetic demo numbers).
-const van: SingleTrackParameters = {
-  mass_kg: 3400,
-  yawInertia_kgm2: 11000,
-  cgToFrontAxle_m: 1.75,
-  cgToRearAxle_m: 1.85,
-  frontCorneringStiffness_NPerRad: 120000,
-  rearCorneringStiffness_NPerRad: 180000,
-  actuatorLag_s: 0.08,
-  actuatorDelay_s: 0.043,
-};
+// The demo parcel van (invented numbers),
+// with an actuator delay that is not a whole number of samples.
+const van: SingleTrackParameters = { ...PARCEL_VAN, actuatorDelay_s: 0.043 };
 
 /**
  * The closed loop built independently in python as one linear state-space system driven by the reference and
@@ -69,7 +62,7 @@ print(json.dumps({'y': out[:, 0].tolist()}))
 
 describe('simulateClosedLoop', () => {
   it('gives the reference-step response of scipy.signal.dlsim on the closed loop built in python, to 1e-9 (heading loop, fractional delay)', () => {
-    const controller = { derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler' as const, computationLatency_s: 0.01 };
+    const controller = PARCEL_VAN_CONTROLLER;
     const loop = loopPlantFromSingleTrack({ kind: 'heading' }, van, 8, controller);
     // The loop analysis' plant: vehicle, actuator and latency, without the Ts/2 the design model adds.
     const plant = { ...loop.plant, delay_s: loop.plant.delay_s - controller.sampleTime_s / 2 };

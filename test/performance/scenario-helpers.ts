@@ -5,17 +5,10 @@ import type { ScenarioController, ScenarioSetup, ScenarioVehicle } from '../../s
 import { STRAIGHT_PATH } from '../../src/performance/scenarios.js';
 import { constantSpeed } from '../../src/performance/speed-profile.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
+import { PARCEL_VAN } from '../helpers/parcel-van.js';
 
-export const VAN: SingleTrackParameters = {
-  mass_kg: 3400,
-  yawInertia_kgm2: 11000,
-  cgToFrontAxle_m: 1.75,
-  cgToRearAxle_m: 1.85,
-  frontCorneringStiffness_NPerRad: 120000,
-  rearCorneringStiffness_NPerRad: 180000,
-  actuatorLag_s: 0.08,
-  actuatorDelay_s: 0.043,
-};
+export // The van with an actuator delay that is not a whole number of samples.
+const VAN: SingleTrackParameters = { ...PARCEL_VAN, actuatorDelay_s: 0.043 };
 
 /** The van's single-track numbers under the short names the python cross-checks use. */
 export const VAN_FOR_PYTHON = {

@@ -7,19 +7,11 @@ import { overshoot_pct } from '../../src/performance/figures.js';
 import { performanceLoopAt } from '../../src/performance/loop-at-speed.js';
 import { tuneOperatingPoint } from '../../src/tuning/operating-point.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
+import { PARCEL_VAN, PARCEL_VAN_CONTROLLER } from '../helpers/parcel-van.js';
 
 // An invented van (synthetic demo numbers).
-const van: SingleTrackParameters = {
-  mass_kg: 3400,
-  yawInertia_kgm2: 11000,
-  cgToFrontAxle_m: 1.75,
-  cgToRearAxle_m: 1.85,
-  frontCorneringStiffness_NPerRad: 120000,
-  rearCorneringStiffness_NPerRad: 180000,
-  actuatorLag_s: 0.08,
-  actuatorDelay_s: 0.05,
-};
-const controller = { derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler' as const, computationLatency_s: 0.01 };
+const van: SingleTrackParameters = PARCEL_VAN;
+const controller = PARCEL_VAN_CONTROLLER;
 const settings: FirmwareSettings = { ...controller, antiWindup: 'conditional-integration', commandLimit_rad: Infinity, integratorClamp_rad: Infinity };
 const limits = { maximumOvershoot_pct: 25, maximumRecoveryTime_s: 15, maximumLaneChangeError_m: 0.5, maximumCurveEntryError_m: 0.3 };
 

@@ -39,7 +39,8 @@ describe('makeGainLookup(table)', () => {
           const lookup = makeGainLookup(table, { interpolation });
           const speeds = table.speeds_mps;
           for (let k = 0; k + 1 < speeds.length; k += 1) {
-            const speed = speeds[k] + fraction * (speeds[k + 1] - speeds[k]);
+            // Kept inside the interval: with breakpoints one rounding apart, speeds[k] + 1·(width) can round onto the next one.
+            const speed = Math.min(speeds[k] + fraction * (speeds[k + 1] - speeds[k]), speeds[k + 1]);
             const gains = lookup(speed);
             for (const name of ['kp', 'ki', 'kd'] as const) {
               const a = table.gains[k][name];

@@ -18,7 +18,8 @@ import { idealGains, integratorLoopMargins } from './integrator-loop.js';
  */
 export function fixtureExtras(speeds_mps: readonly number[]): BreakpointExtras[] {
   return speeds_mps.map((v, k) => ({
-    setpointWeightProportional: 0.5 + 0.05 * k,
+    // Within [0, 1] for any number of breakpoints (the schema's range).
+    setpointWeightProportional: 0.5 + 0.5 * (1 - 1 / (k + 1)),
     setpointWeightDerivative: k % 2 === 0 ? 0 : 0.1,
     feedForward: 3.6 + 0.005 * v * v,
     feedForwardLeadTime_s: 0.2 - 2 / (v + 1),

@@ -6,19 +6,11 @@ import { simc } from '../../src/tuning/simc.js';
 import { tuneOperatingPoint } from '../../src/tuning/operating-point.js';
 import type { DesignModel } from '../../src/tuning/types.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
+import { PARCEL_VAN, PARCEL_VAN_CONTROLLER } from '../helpers/parcel-van.js';
 
 // An invented van (synthetic demo numbers).
-const van: SingleTrackParameters = {
-  mass_kg: 3400,
-  yawInertia_kgm2: 11000,
-  cgToFrontAxle_m: 1.75,
-  cgToRearAxle_m: 1.85,
-  frontCorneringStiffness_NPerRad: 120000,
-  rearCorneringStiffness_NPerRad: 180000,
-  actuatorLag_s: 0.08,
-  actuatorDelay_s: 0.05,
-};
-const controller = { derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler' as const, computationLatency_s: 0.01 };
+const van: SingleTrackParameters = PARCEL_VAN;
+const controller = PARCEL_VAN_CONTROLLER;
 
 describe('simc on a path loop (a double integrator with the preview lead)', () => {
   it('either refuses, naming the reason and the rules that apply, or gives a loop the exact sampled analysis finds stable — at every speed and preview', () => {

@@ -1,5 +1,6 @@
 import { SpeedbandError } from '../../core/errors.js';
-import type { CommandModule } from '../command.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { checkModelFromArgs } from '../check-model-args.js';
 import { withLogColumnOptions } from '../log-columns.js';
@@ -16,22 +17,37 @@ import type { DenseCheckResult } from '../../schedule/types.js';
 /** Most check speeds (bounded work: a fraction of a millisecond each, 20,000 speeds in seconds); the same bound as a plan's check.gridSpeeds. */
 const MAX_GRID_SPEEDS = 100_000;
 
-async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
+function builder(yargs: Argv) {
+  return (
+    withLogColumnOptions(yargs)
+      .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband build' })
+      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
+      .option('models', { type: 'string', describe: 'Check on this identification (models.json)' })
+      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
+      .option('grid-speeds', { type: 'number', describe: 'Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule\'s own. The worst case over the variations always runs on the schedule\'s own grid' })
+      .option('nominal-only', { type: 'boolean', default: false, describe: 'Skip the worst case over the variations the schedule records (it takes about a hundred loop analyses per speed); the exit code then speaks of the nominal check only' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
+async function run(args: Args, io: CommandIo): Promise<number> {
   const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { recheckScheduleOnAllCores } = await import('../../build/recheck-schedule.js');
   const { formatRecheck } = await import('../../build/schedule-report.js');
   const { formatScenarioCheck } = await import('../../build/scenario-report.js');
-  const schedulePath = String(args.schedule);
+  const schedulePath = args.schedule;
   const schedule = readSchedule(schedulePath);
   const { model, notes } = await checkModelFromArgs(args, schedule, schedulePath, io);
-  const gridSpeeds = args['grid-speeds'] === undefined ? undefined : Number(args['grid-speeds']);
+  const gridSpeeds = args['grid-speeds'];
   if (gridSpeeds !== undefined && !(Number.isInteger(gridSpeeds) && gridSpeeds >= 2 && gridSpeeds <= MAX_GRID_SPEEDS)) {
-    throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(args['grid-speeds'])} — give a whole number of speeds from 2 to ${MAX_GRID_SPEEDS}`);
+    throw new SpeedbandError('cli.invalidOption', `--grid-speeds is ${String(gridSpeeds)} — give a whole number of speeds from 2 to ${MAX_GRID_SPEEDS}`);
   }
   const result = await recheckScheduleOnAllCores({ schedule, model, ...(gridSpeeds === undefined ? {} : { gridSpeeds }) });
   // The worst case over the variations the schedule records, on its own grid (it costs ~100 analyses a speed).
   const robust =
-    schedule.variations === undefined || args['nominal-only'] === true
+    schedule.variations === undefined || args['nominal-only']
       ? null
       : await (await import('../../build/robust-recheck.js')).recheckOverVariations({ schedule, model, onProgress: (event) => event.done === event.total && io.progress(`worst case over the variations: ${event.total} speeds\n`) });
   const { acceptancePassed } = await import('../../schedule/schedule-variations.js');
@@ -39,7 +55,7 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   notes.push(...scenarios.notes);
   const passed = acceptancePassed(result.passed, robust?.record) && (scenarios.check?.passed ?? true);
 
-  if (args.json === true) {
+  if (args.json) {
     io.stdout(
       `${JSON.stringify(
         {
@@ -85,7 +101,7 @@ async function robustText(record: ScheduleVariations, result: DenseCheckResult, 
 
 /** The schedule's scenarios on the check model, with the limits the schedule records (none when it records none). */
 async function checkScenarios(
-  args: Record<string, unknown>,
+  args: Args,
   schedule: import('../../schedule/schedule-types.js').ScheduleFile,
   model: import('../../build/check-model.js').CheckModel,
 ): Promise<{ check: import('../../schedule/schedule-types.js').ScheduleScenarioCheck | null; notes: string[] }> {
@@ -94,7 +110,7 @@ async function checkScenarios(
   if (model.summary.kind !== 'single-track') return { check: null, notes: ['note: the scenarios need the single-track model; not run on per-speed yaw-rate models'] };
   const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
   const { judgeScheduleScenarios, scenarioParameters } = await import('../../build/simulate-schedule.js');
-  const vehicle = loadVehicle(resolveVehiclePath(String(args.vehicle)));
+  const vehicle = loadVehicle(resolveVehiclePath(args.vehicle));
   const { parameters, description } = scenarioParameters(model, vehicle);
   const check = judgeScheduleScenarios({
     schedule,
@@ -106,18 +122,10 @@ async function checkScenarios(
   return { check, notes: [] };
 }
 
-export const command: CommandModule = {
+export const command = defineCommand({
   command: 'check <schedule>',
   describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), stability margins of its own gains at every speed of its range, and (when the schedule records them) its scenarios driven as firmware runs them (see speedband simulate). Exit 0 passed, 1 failed, 2 bad input',
-  builder: (yargs) =>
-    withLogColumnOptions(yargs)
-      .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build' })
-      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
-      .option('models', { type: 'string', describe: 'Check on this identification (models.json)' })
-      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
-      .option('grid-speeds', { type: 'number', describe: 'Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule\'s own. The worst case over the variations always runs on the schedule\'s own grid' })
-      .option('nominal-only', { type: 'boolean', default: false, describe: 'Skip the worst case over the variations the schedule records (it takes about a hundred loop analyses per speed); the exit code then speaks of the nominal check only' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' }),
+  builder,
   exitCodes: [
     [0, 'the schedule\'s gains pass the dense check at every speed (and, when it records variations under robust acceptance, their worst case too)'],
     [1, 'they fail at one or more speeds (listed), on the nominal model or in the worst case over the variations'],
@@ -129,4 +137,4 @@ export const command: CommandModule = {
     ['speedband check schedule.json --vehicle van.json --models models.json --grid-speeds 2000', 'A denser check'],
   ],
   run,
-};
+});

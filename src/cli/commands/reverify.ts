@@ -1,7 +1,23 @@
-import type { CommandModule } from '../command.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { checkModelFromArgs, modelInputPaths } from '../check-model-args.js';
 import { withLogColumnOptions } from '../log-columns.js';
+
+function builder(yargs: Argv) {
+  return (
+    withLogColumnOptions(yargs)
+      .positional('schedule', { type: 'string', demandOption: true, describe: 'The edited schedule.json' })
+      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
+      .option('models', { type: 'string', describe: 'Check on this identification (models.json); default: the model the schedule records' })
+      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
+      .option('out', { type: 'string', demandOption: true, describe: 'Where to write the re-verified schedule (never the edited file itself: inputs are never outputs)' })
+      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
+      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
 
 /**
  * `speedband reverify`: the supported path for a deliberate hand edit of a schedule. The edited file
@@ -9,9 +25,9 @@ import { withLogColumnOptions } from '../log-columns.js';
  * model; only when that passes is it written to --out with the figures of this check, a record that
  * it was edited by hand and re-verified, and a fresh checksum (src/build/reverify.ts).
  */
-async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
-  const schedulePath = String(args.schedule);
-  const out = String(args.out);
+async function run(args: Args, io: CommandIo): Promise<number> {
+  const schedulePath = args.schedule;
+  const out = args.out;
   const { checkOutputPaths } = await import('../../core/output-paths.js');
   checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }, ...(await modelInputPaths(args))]);
   const { readTextFile } = await import('../../core/files.js');
@@ -23,9 +39,9 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   const { model, notes, recorded } = await checkModelFromArgs(args, edited, schedulePath, io);
   const variations = edited.variations === undefined ? null : await (await import('../../build/robust-recheck.js')).recheckOverVariations({ schedule: edited, model });
   const result = reverifySchedule(edited, model, { modelRecorded: recorded, variations });
-  const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, args.force === true);
+  const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, args.force);
 
-  if (args.json === true) {
+  if (args.json) {
     io.stdout(
       `${JSON.stringify(
         {
@@ -71,19 +87,11 @@ async function run(args: Record<string, unknown>, io: CommandIo): Promise<number
   return result.passed ? EXIT.ok : EXIT.failed;
 }
 
-export const command: CommandModule = {
+export const command = defineCommand({
   command: 'reverify <schedule>',
   describe:
     'Re-verify a schedule.json you edited by hand (check and export refuse it: its checksum no longer matches): dense check of its own gains at every speed of its range; only if it passes, write it to --out with the margins of this check, a record of the hand edit and a fresh checksum. Exit 0 passed and written, 1 failed (nothing written), 2 bad input',
-  builder: (yargs) =>
-    withLogColumnOptions(yargs)
-      .positional('schedule', { type: 'string', describe: 'The edited schedule.json' })
-      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
-      .option('models', { type: 'string', describe: 'Check on this identification (models.json); default: the model the schedule records' })
-      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
-      .option('out', { type: 'string', demandOption: true, describe: 'Where to write the re-verified schedule (never the edited file itself: inputs are never outputs)' })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' }),
+  builder,
   exitCodes: [
     [0, 'the edited schedule passed the dense check and was written with a fresh checksum'],
     [1, 'it failed (nothing written)'],
@@ -94,4 +102,4 @@ export const command: CommandModule = {
     ['speedband reverify edited.json --vehicle van.json --models models.json --out schedule.json', 'Re-verify on an identification'],
   ],
   run,
-};
+});
