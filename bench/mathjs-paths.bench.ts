@@ -21,7 +21,7 @@ const models = join(work, 'models.json');
 measureProcess(process.execPath, ['bin/speedband.js', 'identify', '--vehicle', VAN, '--logs', join(VAN, 'logs'), '--out', models]);
 const plan = (tau: number | string): string => {
   const path = join(work, `plan-${typeof tau}.json`);
-  writeFileSync(path, JSON.stringify({ loop: { kind: 'heading' }, rule: { name: 'simc', parameters: { simcClosedLoopTimeConstant_s: tau } } }));
+  writeFileSync(path, JSON.stringify({ loop: { kind: 'yaw-rate' }, rule: { name: 'simc', parameters: { simcClosedLoopTimeConstant_s: tau } } }));
   return path;
 };
 const pairs: readonly (readonly [string, readonly string[], string, readonly string[]])[] = [
