@@ -1,201 +1,12 @@
 import { SpeedbandError } from '../../core/errors.js';
-import type { CommandModule } from '../command.js';
+import type { BuildSummaryInput, WrittenReport } from '../../build/build-summary.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
 import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
-/**
- * `speedband build`: logs + vehicle (+ plan) → identified models → gains per breakpoint →
- * interpolated table → dense check with the discrete controller → refinement → schedule.json.
- * With --baseline, also checks the OLD schedule's gains on the NEW vehicle model.
- */
-async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
-  const { buildSchedule } = await import('../../build/build-schedule.js');
-  const { writeSchedule, readSchedule } = await import('../../schedule/schedule-file.js');
-  const { readModels, writeModels } = await import('../../identify/models-file.js');
-  const { formatSchedule, formatCautions } = await import('../../build/schedule-report.js');
-  const { failingSpeeds } = await import('../../schedule/dense-check.js');
-
-  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
-  const modelsIn = args.models === undefined ? undefined : String(args.models);
-  if (logPaths.length === 0 && modelsIn === undefined) {
-    throw new SpeedbandError('cli.missingInput', 'give the step-test logs with --logs FILE… (or an identification already done with --models models.json)');
-  }
-  if (logPaths.length > 0 && modelsIn !== undefined) {
-    throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one: --logs to identify afresh, --models to reuse models.json');
-  }
-  const out = String(args.out);
-  const modelsOut = args['models-out'] === undefined ? undefined : String(args['models-out']);
-  const reportOut = args.report === undefined ? undefined : String(args.report);
-  const { responseSpeedsFromArgs } = await import('./report.js');
-  const responseSpeeds_mps = responseSpeedsFromArgs(args);
-  // Outputs checked against every input and each other before any work (never replaced, not even with --force).
-  const { checkOutputPaths } = await import('../../core/output-paths.js');
-  const { resolveVehiclePath } = await import('../../vehicle/load.js');
-  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
-  checkOutputPaths(
-    [
-      { path: out, option: '--out' },
-      ...(modelsOut === undefined ? [] : [{ path: modelsOut, option: '--models-out' }]),
-      ...(reportOut === undefined ? [] : [{ path: reportOut, option: '--report' }]),
-    ],
-    [
-      { path: resolveVehiclePath(String(args.vehicle)), role: 'vehicle file' },
-      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
-      ...optionalInputs(args, [
-        ['models', 'models file'],
-        ['plan', 'plan file'],
-        ['baseline', 'baseline schedule'],
-        ['log-profile', 'log profile'],
-      ]),
-    ],
-  );
-  // Read the baseline first: a bad baseline is bad input, found before minutes of work.
-  const baseline = args.baseline === undefined ? undefined : readSchedule(String(args.baseline));
-  const columns = await logColumnsFromArgs(args);
-  const result = await buildSchedule({
-    vehicle: String(args.vehicle),
-    logPaths,
-    ...(columns === undefined ? {} : { readOptions: { columns } }),
-    ...(modelsIn === undefined ? {} : { models: readModels(modelsIn) }),
-    ...(args.plan === undefined ? {} : { planFile: String(args.plan) }),
-    allowOtherVehicle: args['allow-other-vehicle'] === true,
-    progress: io.progress,
-  });
-  const { schedule } = result;
-  const passed = schedule.status === 'passed';
-  const written = passed || args['allow-failing'] === true;
-  const outcome = written ? writeSchedule(out, schedule, args.force === true) : null;
-  if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force === true);
-
-  const baselineCheck = baseline === undefined ? undefined : await (await import('../../build/baseline.js')).checkBaseline(baseline, result);
-  const baselineResult = baselineCheck?.check;
-  const baselineOverSet = baselineCheck?.overVariations?.record;
-
-  // The report goes with the schedule: written when the schedule is.
-  let report: { file: string; outcome: string; bytes: number; sections: readonly string[] } | null = null;
-  if (reportOut !== undefined && written) {
-    const { gatherReportData } = await import('../../report/report-data.js');
-    const { writeReport } = await import('../../report/write-report.js');
-    const { loadVehicle, resolveVehiclePath: vehiclePath } = await import('../../vehicle/load.js');
-    const steeringRatio = loadVehicle(vehiclePath(String(args.vehicle))).steeringRatio;
-    const data = gatherReportData({
-      // The schedule as written (its fields in file order), so that `report` on the same files gives the same bytes.
-      schedule: readSchedule(out),
-      scheduleFile: out,
-      check: result.refinement.check,
-      models: { file: modelsOut ?? modelsIn ?? 'models identified by this build', content: result.models },
-      ...(logPaths.length === 0 ? {} : { logs: { paths: logPaths, readOptions: { steeringRatio, ...(columns === undefined ? {} : { columns }) } } }),
-      ...(baseline === undefined || baselineResult === undefined ? {} : { baseline: { file: String(args.baseline), schedule: baseline, check: baselineResult } }),
-      ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
-    });
-    report = { file: reportOut, ...(await writeReport(reportOut, data, args.force === true)) };
-  }
-
-  // Exit 1 has two causes; both outputs say which.
-  const robustFailed = schedule.check.passed && !passed;
-  const exitReasons = [
-    ...(passed
-      ? []
-      : [
-          `the new schedule fails ${robustFailed ? 'the worst case over the plan\'s variations (robust acceptance)' : 'its dense check'}${written ? ' (written marked failed, --allow-failing)' : ' (nothing written)'}`,
-        ]),
-    ...(baselineResult === undefined || baselineResult.passed
-      ? []
-      : [`the OLD gains of the baseline ${String(args.baseline)} fail on the new vehicle model at ${baselineResult.failedCount} of ${baselineResult.points.length} speeds${passed ? ' (the new schedule passed and was written)' : ''}`]),
-    ...(baselineOverSet === undefined || baselineOverSet.acceptance === 'nominal' || baselineOverSet.passed || (baselineResult !== undefined && !baselineResult.passed)
-      ? []
-      : [
-          `the OLD gains of the baseline ${String(args.baseline)} pass on the new nominal model but fail in the worst case over the new vehicle's variations at ${baselineOverSet.failedSpeeds} of ${baselineOverSet.gridSize} speeds (robust acceptance)`,
-        ]),
-  ];
-  const exitCode = exitReasons.length === 0 ? EXIT.ok : EXIT.failed;
-  if (args.json === true) {
-    io.stdout(
-      `${JSON.stringify(
-        {
-          file: written ? out : null,
-          outcome,
-          status: schedule.status,
-          checksum: schedule.checksum.value,
-          model: { kind: result.checkModel.kind, description: result.checkModel.description },
-          controller: schedule.controller,
-          breakpoints: schedule.breakpoints,
-          check: schedule.check,
-          variations: schedule.variations ?? null,
-          extrapolations: result.extrapolations,
-          derivations: result.tuned.map((point, k) => ({
-            speed_mps: schedule.breakpoints[k].speed_mps,
-            rule: point.derivation.rule,
-            citation: point.derivation.citation,
-            designModel: point.derivation.designModel,
-            intermediate: point.derivation.intermediate,
-            warnings: point.derivation.warnings,
-          })),
-          baseline:
-            baselineResult === undefined
-              ? null
-              : {
-                  file: String(args.baseline),
-                  passedOnNewModel: baselineResult.passed,
-                  failedSpeeds: baselineResult.failedCount,
-                  gridSize: baselineResult.points.length,
-                  worst: baselineResult.worst,
-                  failures: failingSpeeds(baselineResult.points),
-                  overVariations: baselineOverSet ?? null,
-                  atNewBreakpoints: baselineCheck?.rows ?? [],
-                },
-          report: report === null ? null : { file: report.file, outcome: report.outcome, bytes: report.bytes, sections: report.sections },
-          exitCode,
-          exitReasons,
-          cautions: schedule.cautions,
-        },
-        null,
-        2,
-      )}\n`,
-    );
-  } else {
-    const { extrapolationWords } = await import('../../build/extrapolation.js');
-    const warnings = [...new Set([...result.extrapolations.map(extrapolationWords), ...result.tuned.flatMap((point) => point.derivation.warnings)])];
-    let text = formatSchedule(schedule);
-    text += `\n  model: ${result.checkModel.description}\n`;
-    if (schedule.variations !== undefined) {
-      const { formatVariations } = await import('../../build/robust-report.js');
-      text += `\n${formatVariations(schedule.variations, schedule.breakpoints.map((row) => row.margins), schedule.check.thresholds)}`;
-    }
-    if (warnings.length > 0) text += `  rule warnings:\n${warnings.map((warning) => `    - ${warning}`).join('\n')}\n`;
-    if (baselineCheck !== undefined && baseline !== undefined) {
-      const { formatBaseline } = await import('../../build/schedule-report.js');
-      const verdict = baselineCheck.check.passed ? 'still within the limits at every speed' : 'NOT within the limits everywhere';
-      text += `\n${formatBaseline(`Baseline ${String(args.baseline)}: its gains on the new vehicle model — ${verdict}`, baselineCheck, baseline, result.checkModel.kind)}`;
-      if (baselineOverSet !== undefined) {
-        const { formatVariations } = await import('../../build/robust-report.js');
-        const { breakpointMargins } = await import('../../schedule/schedule-file.js');
-        const title = `Baseline ${String(args.baseline)}: its gains in the worst case over the new vehicle's variations`;
-        text += `\n${formatVariations(baselineOverSet, baselineCheck.rows.map((row) => breakpointMargins(row.oldMargins)), baseline.check.thresholds, title)}`;
-      }
-    }
-    text += '\n';
-    if (written) {
-      text += `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${out} (status ${schedule.status}, checksum ${schedule.checksum.value.slice(0, 16)}…)\n`;
-    } else {
-      text += robustFailed
-        ? `Nothing written: the schedule passes on the nominal model but not in the worst case over the plan's variations (see above). Retune for the weakest parameter, narrow the variations to what the vehicle really sees, set "variations": {"acceptance": "nominal"} to report the worst case without requiring it, or pass --allow-failing to write it marked failed for review.\n`
-        : `Nothing written: the schedule fails its dense check, its time-domain limits or its scenarios (see above). Change the plan (rule parameters, breakpoints, limits) or pass --allow-failing to write it marked failed for review.\n`;
-    }
-    if (modelsOut !== undefined) text += `Wrote ${modelsOut}\n`;
-    if (report !== null) text += (await import('./report.js')).reportWords(report.file, report.outcome, report.bytes, report.sections);
-    else if (reportOut !== undefined) text += `No report written: it goes with the schedule, which was not written.\n`;
-    if (exitCode !== EXIT.ok) text += `Exit 1: ${exitReasons.join('; and ')}.\n`;
-    text += formatCautions();
-    io.stdout(text);
-  }
-  return exitCode;
-}
-
-export const command: CommandModule = {
-  command: 'build',
-  describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, drive it through the scenarios of speedband simulate (plan check.scenarios, default on) with a speed-change certificate, write schedule.json',
-  builder: (yargs) =>
+function builder(yargs: Argv) {
+  return (
     withLogColumnOptions(yargs)
       .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder' })
       .option('logs', { type: 'array', string: true, describe: 'Step-test logs (CSV, columns time_s, speed_mps, steer_cmd_rad, yaw_rate_radps …) at two or more speeds' })
@@ -221,7 +32,113 @@ export const command: CommandModule = {
       })
       .option('allow-failing', { type: 'boolean', default: false, describe: 'Write a schedule that fails its dense check, marked "failed" (export refuses it unless told otherwise)' })
       .option('force', { type: 'boolean', default: false, describe: 'Replace existing output files whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON (breakpoints, margins, derivations, check, baseline)' }),
+      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON (breakpoints, margins, derivations, check, baseline)' })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
+/**
+ * `speedband build`: logs + vehicle (+ plan) → identified models → gains per breakpoint →
+ * interpolated table → dense check with the discrete controller → refinement → schedule.json.
+ * With --baseline, also checks the OLD schedule's gains on the NEW vehicle model.
+ */
+async function run(args: Args, io: CommandIo): Promise<number> {
+  const { buildSchedule } = await import('../../build/build-schedule.js');
+  const { writeSchedule, readSchedule } = await import('../../schedule/schedule-file.js');
+  const { readModels, writeModels } = await import('../../identify/models-file.js');
+  const { buildExitReasons, buildSummaryJson, buildSummaryText } = await import('../../build/build-summary.js');
+
+  const logPaths = args.logs ?? [];
+  const modelsIn = args.models;
+  if (logPaths.length === 0 && modelsIn === undefined) {
+    throw new SpeedbandError('cli.missingInput', 'give the step-test logs with --logs FILE… (or an identification already done with --models models.json)');
+  }
+  if (logPaths.length > 0 && modelsIn !== undefined) {
+    throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one: --logs to identify afresh, --models to reuse models.json');
+  }
+  const { out, report: reportOut } = args;
+  const modelsOut = args['models-out'];
+  const { responseSpeedsFromArgs } = await import('./report.js');
+  const responseSpeeds_mps = responseSpeedsFromArgs(args);
+  // Outputs checked against every input and each other before any work (never replaced, not even with --force).
+  const { checkOutputPaths } = await import('../../core/output-paths.js');
+  const { resolveVehiclePath, loadVehicle } = await import('../../vehicle/load.js');
+  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
+  checkOutputPaths(
+    [
+      { path: out, option: '--out' },
+      ...(modelsOut === undefined ? [] : [{ path: modelsOut, option: '--models-out' }]),
+      ...(reportOut === undefined ? [] : [{ path: reportOut, option: '--report' }]),
+    ],
+    [
+      { path: resolveVehiclePath(args.vehicle), role: 'vehicle file' },
+      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
+      ...optionalInputs(args, [
+        ['models', 'models file'],
+        ['plan', 'plan file'],
+        ['baseline', 'baseline schedule'],
+        ['log-profile', 'log profile'],
+      ]),
+    ],
+  );
+  // Read the baseline first: a bad baseline is bad input, found before minutes of work.
+  const baselineFile = args.baseline;
+  const baselineSchedule = baselineFile === undefined ? undefined : readSchedule(baselineFile);
+  const columns = await logColumnsFromArgs(args);
+  const result = await buildSchedule({
+    vehicle: args.vehicle,
+    logPaths,
+    ...(columns === undefined ? {} : { readOptions: { columns } }),
+    ...(modelsIn === undefined ? {} : { models: readModels(modelsIn) }),
+    ...(args.plan === undefined ? {} : { planFile: args.plan }),
+    allowOtherVehicle: args['allow-other-vehicle'],
+    progress: io.progress,
+  });
+  const { schedule } = result;
+  const written = schedule.status === 'passed' || args['allow-failing'];
+  const outcome = written ? writeSchedule(out, schedule, args.force) : null;
+  if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force);
+  const baselineCheck = baselineSchedule === undefined ? undefined : await (await import('../../build/baseline.js')).checkBaseline(baselineSchedule, result);
+  const baseline = baselineFile === undefined || baselineSchedule === undefined || baselineCheck === undefined ? undefined : { file: baselineFile, schedule: baselineSchedule, check: baselineCheck };
+
+  // The report goes with the schedule: written when the schedule is.
+  let report: WrittenReport | null = null;
+  if (reportOut !== undefined && written) {
+    const { gatherReportData } = await import('../../report/report-data.js');
+    const { writeReport } = await import('../../report/write-report.js');
+    const steeringRatio = loadVehicle(resolveVehiclePath(args.vehicle)).steeringRatio;
+    const data = gatherReportData({
+      // The schedule as written (its fields in file order), so that `report` on the same files gives the same bytes.
+      schedule: readSchedule(out),
+      scheduleFile: out,
+      check: result.refinement.check,
+      models: { file: modelsOut ?? modelsIn ?? 'models identified by this build', content: result.models },
+      ...(logPaths.length === 0 ? {} : { logs: { paths: logPaths, readOptions: { steeringRatio, ...(columns === undefined ? {} : { columns }) } } }),
+      ...(baseline === undefined ? {} : { baseline: { file: baseline.file, schedule: baseline.schedule, check: baseline.check.check } }),
+      ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
+    });
+    report = { file: reportOut, ...(await writeReport(reportOut, data, args.force)) };
+  }
+
+  const summary: BuildSummaryInput = {
+    result,
+    out,
+    written,
+    outcome,
+    ...(modelsOut === undefined ? {} : { modelsOut }),
+    ...(baseline === undefined ? {} : { baseline }),
+    ...(reportOut === undefined ? {} : { reportOut }),
+    report,
+  };
+  io.stdout(args.json ? `${JSON.stringify(buildSummaryJson(summary), null, 2)}\n` : buildSummaryText(summary));
+  return buildExitReasons(summary).length === 0 ? EXIT.ok : EXIT.failed;
+}
+
+export const command = defineCommand({
+  command: 'build',
+  describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, drive it through the scenarios of speedband simulate (plan check.scenarios, default on) with a speed-change certificate, write schedule.json',
+  builder,
   exitCodes: [
     [0, 'the schedule passed its dense check and was written (with --baseline: and the old gains still pass on the new vehicle model)'],
     [
@@ -238,4 +155,4 @@ export const command: CommandModule = {
     ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json --report report.html', 'The schedule and its HTML report for sign-off'],
   ],
   run,
-};
+});

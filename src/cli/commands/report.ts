@@ -1,12 +1,14 @@
 import { SpeedbandError } from '../../core/errors.js';
 import { quoted } from '../../core/quote.js';
-import type { CommandModule } from '../command.js';
+import type { Argv } from 'yargs';
+import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
+import { reportWords } from '../../build/build-summary.js';
 import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
 /** --response-speed-mps values as numbers; anything else is bad input. */
-export function responseSpeedsFromArgs(args: Record<string, unknown>): number[] | undefined {
-  const given = args['response-speed-mps'] as unknown[] | undefined;
+export function responseSpeedsFromArgs(args: { readonly 'response-speed-mps'?: readonly (string | number)[] }): number[] | undefined {
+  const given = args['response-speed-mps'];
   if (given === undefined) return undefined;
   return given.map((value) => {
     const speed = typeof value === 'number' ? value : String(value).trim() === '' ? Number.NaN : Number(value);
@@ -16,69 +18,10 @@ export function responseSpeedsFromArgs(args: Record<string, unknown>): number[] 
   });
 }
 
-/** The report's figures in words for the terminal: what was written and what it holds. */
-export function reportWords(file: string, outcome: string, bytes: number, sections: readonly string[]): string {
-  return `${outcome === 'written' ? 'Wrote' : 'Unchanged'} ${file} (${(bytes / 1024).toFixed(0)} KB; ${sections.join(', ')})\n`;
-}
-
-/**
- * `speedband report`: one self-contained HTML file of a schedule for sign-off and review — plots of the gains
- * and margins against speed, the open loop at chosen speeds, with --models the identified models, with --logs
- * the fits over the measured steps, with --baseline the old gains on the new vehicle.
- */
-async function run(args: Record<string, unknown>, io: CommandIo): Promise<number> {
-  const { checkOutputPaths } = await import('../../core/output-paths.js');
-  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
-  const schedulePath = String(args.schedule);
-  const out = String(args.out);
-  const logPaths = ((args.logs as unknown[] | undefined) ?? []).map(String);
-  const responseSpeeds_mps = responseSpeedsFromArgs(args);
-  checkOutputPaths(
-    [{ path: out, option: '--out' }],
-    [
-      { path: schedulePath, role: 'schedule' },
-      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
-      ...optionalInputs(args, [
-        ['models', 'models file'],
-        ['baseline', 'baseline schedule'],
-        ['log-profile', 'log profile'],
-      ]),
-    ],
-  );
-  const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { readModels } = await import('../../identify/models-file.js');
-  const { gatherReportData } = await import('../../report/report-data.js');
-  const { writeReport } = await import('../../report/write-report.js');
-  const schedule = readSchedule(schedulePath);
-  const baselinePath = args.baseline === undefined ? undefined : String(args.baseline);
-  const modelsPath = args.models === undefined ? undefined : String(args.models);
-  const columns = await logColumnsFromArgs(args);
-  const data = gatherReportData({
-    schedule,
-    scheduleFile: schedulePath,
-    ...(modelsPath === undefined ? {} : { models: { file: modelsPath, content: readModels(modelsPath) } }),
-    ...(logPaths.length === 0 ? {} : { logs: { paths: logPaths, ...(columns === undefined ? {} : { readOptions: { columns } }) } }),
-    ...(baselinePath === undefined ? {} : { baseline: { file: baselinePath, schedule: readSchedule(baselinePath) } }),
-    ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
-  });
-  const { outcome, bytes, sections } = await writeReport(out, data, args.force === true);
-  if (args.json === true) {
-    const oldGains = data.baseline?.oldGainsOnNewVehicle ?? null;
-    io.stdout(`${JSON.stringify({ file: out, outcome, bytes, sections, scheduleStatus: schedule.status, oldGainsOnNewVehicle: oldGains }, null, 2)}\n`);
-  } else {
-    const lead = data.baseline === null ? '' : `${data.baseline.lead}\n`;
-    io.stdout(`${lead}${reportWords(out, outcome, bytes, sections)}`);
-  }
-  return EXIT.ok;
-}
-
-export const command: CommandModule = {
-  command: 'report <schedule>',
-  describe:
-    'Write one self-contained HTML report of a schedule for sign-off and review: gains and margins against speed, time-domain figures and closed-loop responses, Bode and Nyquist plots, identified models and step fits, the old gains on a changed vehicle',
-  builder: (yargs) =>
+function builder(yargs: Argv) {
+  return (
     withLogColumnOptions(yargs)
-      .positional('schedule', { type: 'string', describe: 'schedule.json written by speedband build (schema and checksum are verified)' })
+      .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband build (schema and checksum are verified)' })
       .option('out', {
         type: 'string',
         demandOption: true,
@@ -106,7 +49,68 @@ export const command: CommandModule = {
           'Speeds of the Bode and Nyquist plots, m/s (repeatable; default: the lowest and highest breakpoint and the speed of the smallest phase margin)',
       })
       .option('force', { type: 'boolean', default: false, describe: 'Replace an existing report whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: "Print what was written as JSON (file, outcome, bytes, sections, the old gains' verdict)" }),
+      .option('json', { type: 'boolean', default: false, describe: "Print what was written as JSON (file, outcome, bytes, sections, the old gains' verdict)" })
+  );
+}
+
+type Args = OptionsOf<typeof builder>;
+
+/**
+ * `speedband report`: one self-contained HTML file of a schedule for sign-off and review — plots of the gains
+ * and margins against speed, the open loop at chosen speeds, with --models the identified models, with --logs
+ * the fits over the measured steps, with --baseline the old gains on the new vehicle.
+ */
+async function run(args: Args, io: CommandIo): Promise<number> {
+  const { checkOutputPaths } = await import('../../core/output-paths.js');
+  const { expandLogPaths } = await import('../../identify/identify-from-logs.js');
+  const schedulePath = args.schedule;
+  const out = args.out;
+  const logPaths = args.logs ?? [];
+  const responseSpeeds_mps = responseSpeedsFromArgs(args);
+  checkOutputPaths(
+    [{ path: out, option: '--out' }],
+    [
+      { path: schedulePath, role: 'schedule' },
+      ...(logPaths.length === 0 ? [] : expandLogPaths(logPaths)).map((path) => ({ path, role: 'log' })),
+      ...optionalInputs(args, [
+        ['models', 'models file'],
+        ['baseline', 'baseline schedule'],
+        ['log-profile', 'log profile'],
+      ]),
+    ],
+  );
+  const { readSchedule } = await import('../../schedule/schedule-file.js');
+  const { readModels } = await import('../../identify/models-file.js');
+  const { gatherReportData } = await import('../../report/report-data.js');
+  const { writeReport } = await import('../../report/write-report.js');
+  const schedule = readSchedule(schedulePath);
+  const baselinePath = args.baseline;
+  const modelsPath = args.models;
+  const columns = await logColumnsFromArgs(args);
+  const data = gatherReportData({
+    schedule,
+    scheduleFile: schedulePath,
+    ...(modelsPath === undefined ? {} : { models: { file: modelsPath, content: readModels(modelsPath) } }),
+    ...(logPaths.length === 0 ? {} : { logs: { paths: logPaths, ...(columns === undefined ? {} : { readOptions: { columns } }) } }),
+    ...(baselinePath === undefined ? {} : { baseline: { file: baselinePath, schedule: readSchedule(baselinePath) } }),
+    ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
+  });
+  const { outcome, bytes, sections } = await writeReport(out, data, args.force);
+  if (args.json) {
+    const oldGains = data.baseline?.oldGainsOnNewVehicle ?? null;
+    io.stdout(`${JSON.stringify({ file: out, outcome, bytes, sections, scheduleStatus: schedule.status, oldGainsOnNewVehicle: oldGains }, null, 2)}\n`);
+  } else {
+    const lead = data.baseline === null ? '' : `${data.baseline.lead}\n`;
+    io.stdout(`${lead}${reportWords(out, outcome, bytes, sections)}`);
+  }
+  return EXIT.ok;
+}
+
+export const command = defineCommand({
+  command: 'report <schedule>',
+  describe:
+    'Write one self-contained HTML report of a schedule for sign-off and review: gains and margins against speed, time-domain figures and closed-loop responses, Bode and Nyquist plots, identified models and step fits, the old gains on a changed vehicle',
+  builder,
   epilogue:
     'The margins are drawn from the dense check re-run on the model the schedule records (the same grid, gains, loop, controller and limits); the tables hold the numbers of schedule.json itself, ' +
     'each exact in a <data value> element. The same inputs give a byte-identical report. It is a record for review, not a verification: check and export decide.',
@@ -129,4 +133,4 @@ export const command: CommandModule = {
     ],
   ],
   run,
-};
+});
