@@ -13,8 +13,8 @@
 import { mkdtempSync, readdirSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { buildSchedule } from '../src/build/build-schedule.js';
-import { recheckSchedule, recordedCheckModel } from '../src/build/recheck-schedule.js';
+import { buildSchedule } from '../src/pipeline/build-schedule.js';
+import { recheckSchedule, recordedCheckModel } from '../src/pipeline/recheck-schedule.js';
 import { measureProcess, printFigure, timeMs } from './measure.js';
 
 const VAN = 'vehicles/parcel-van';

@@ -5,8 +5,8 @@
  * Figures: median and fastest of 3 runs each, speeds per second, and the verdicts found (none may be marginal).
  */
 import { availableParallelism } from 'node:os';
-import { buildSchedule } from '../src/build/build-schedule.js';
-import { recheckSchedule, recheckScheduleOnAllCores, recordedCheckModel } from '../src/build/recheck-schedule.js';
+import { buildSchedule } from '../src/pipeline/build-schedule.js';
+import { recheckSchedule, recheckScheduleOnAllCores, recordedCheckModel } from '../src/pipeline/recheck-schedule.js';
 import { printFigure, timeMs } from './measure.js';
 
 const SPEEDS = 20_000;

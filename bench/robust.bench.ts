@@ -10,19 +10,19 @@
  * instead of compiling the TypeScript sources.
  */
 import { availableParallelism } from 'node:os';
-import { buildSchedule } from '../src/build/build-schedule.js';
+import { buildSchedule } from '../src/pipeline/build-schedule.js';
 import { printFigure, timeMs } from './measure.js';
 
 type Dist = {
-  recordedCheckModel: typeof import('../src/build/recheck-schedule.js').recordedCheckModel;
-  scheduleLoopAndController: typeof import('../src/build/recheck-schedule.js').scheduleLoopAndController;
-  robustCheckOnAllCores: typeof import('../src/build/parallel-robust-check.js').robustCheckOnAllCores;
+  recordedCheckModel: typeof import('../src/pipeline/recheck-schedule.js').recordedCheckModel;
+  scheduleLoopAndController: typeof import('../src/pipeline/recheck-schedule.js').scheduleLoopAndController;
+  robustCheckOnAllCores: typeof import('../src/pipeline/parallel-robust-check.js').robustCheckOnAllCores;
   resolveVariationSet: typeof import('../src/robust/variation-set.js').resolveVariationSet;
   resolveVariations: typeof import('../src/schedule/plan-variations.js').resolveVariations;
   scheduleLookup: typeof import('../src/schedule/schedule-lookup.js').scheduleLookup;
-  worstTimeDomainAt: typeof import('../src/build/robust-time-domain.js').worstTimeDomainAt;
-  breakpointControl: typeof import('../src/build/robust-time-domain.js').breakpointControl;
-  worstCaseMarginsAt: typeof import('../src/build/robust-analysis.js').worstCaseMarginsAt;
+  worstTimeDomainAt: typeof import('../src/pipeline/robust-time-domain.js').worstTimeDomainAt;
+  breakpointControl: typeof import('../src/pipeline/robust-time-domain.js').breakpointControl;
+  worstCaseMarginsAt: typeof import('../src/pipeline/robust-analysis.js').worstCaseMarginsAt;
 };
 const dist = async (path: string): Promise<Record<string, unknown>> => import(new URL(`../dist/${path}`, import.meta.url).href) as Promise<Record<string, unknown>>;
 const lib = {

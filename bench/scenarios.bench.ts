@@ -11,10 +11,10 @@
 import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { buildSchedule } from '../src/build/build-schedule.js';
-import { recordedCheckModel } from '../src/build/recheck-schedule.js';
-import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController } from '../src/build/simulate-schedule.js';
-import { speedChangeCertificate } from '../src/build/speed-change-certificate.js';
+import { buildSchedule } from '../src/pipeline/build-schedule.js';
+import { recordedCheckModel } from '../src/pipeline/recheck-schedule.js';
+import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController } from '../src/pipeline/simulate-schedule.js';
+import { speedChangeCertificate } from '../src/pipeline/speed-change-certificate.js';
 import { planScenarioLimits, type Plan } from '../src/schedule/plan.js';
 import { loadVehicle } from '../src/vehicle/load.js';
 import { measureProcess, printFigure, timeMs } from './measure.js';

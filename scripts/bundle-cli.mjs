@@ -92,11 +92,11 @@ await build({
   alias: { 'jsonc-parser': 'jsonc-parser/lib/esm/main.js' },
 });
 
-// The worker thread of the parallel dense check (src/build/parallel-check.ts resolves `./check-worker.js` beside
+// The worker thread of the parallel dense check (src/pipeline/parallel-check.ts resolves `./check-worker.js` beside
 // the module that starts it — here, beside the bundle).
 await build({
   ...common,
-  entryPoints: ['dist/build/check-worker.js'],
+  entryPoints: ['dist/pipeline/check-worker.js'],
   outfile: 'dist/cli/check-worker.js',
   plugins: [mathjsChunk],
   alias: { 'jsonc-parser': 'jsonc-parser/lib/esm/main.js' },

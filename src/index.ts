@@ -108,13 +108,13 @@ export { comparisonText } from './compare/comparison-text.js';
 export { comparisonMarkdown } from './compare/comparison-markdown.js';
 export type { ScheduleComparison, OldGainsOnNewVehicle } from './compare/types.js';
 
-// The main job end to end (src/build/)
-export { buildSchedule, buildScheduleFromData, type BuildInput, type LoadedBuildInput, type BuildResult } from './build/build-schedule.js';
-export { recheckSchedule, recheckScheduleOnAllCores, type RecheckInput } from './build/recheck-schedule.js';
-export { reverifySchedule, type ReverifyResult } from './build/reverify.js';
-export { runDemo, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './build/demo.js';
-export { simulateSchedule, judgeScheduleScenarios, type ScenarioRunAt } from './build/simulate-schedule.js';
-export { speedChangeCertificate } from './build/speed-change-certificate.js';
+// The main job end to end (src/pipeline/)
+export { buildSchedule, buildScheduleFromData, type BuildInput, type LoadedBuildInput, type BuildResult } from './pipeline/build-schedule.js';
+export { recheckSchedule, recheckScheduleOnAllCores, type RecheckInput } from './pipeline/recheck-schedule.js';
+export { reverifySchedule, type ReverifyResult } from './pipeline/reverify.js';
+export { runDemo, DEMO_DEFAULTS, type DemoInput, type DemoResult } from './pipeline/demo.js';
+export { simulateSchedule, judgeScheduleScenarios, type ScenarioRunAt } from './pipeline/simulate-schedule.js';
+export { speedChangeCertificate } from './pipeline/speed-change-certificate.js';
 
 // The worst case over a set of vehicles (src/robust/)
 export type { VariationSet, RobustSearchSettings, RobustFigure, Combination, WorstFigure, RobustTimeDomain } from './schedule/variation-types.js';
@@ -122,7 +122,7 @@ export type { RobustMargins, RobustCheckResult } from './robust/types.js';
 export { resolveVariationSet } from './robust/variation-set.js';
 export { worstCaseOverSet } from './robust/worst-case.js';
 export { robustCheck } from './robust/robust-check.js';
-export { robustScheduleCheck, type RobustScheduleCheck } from './build/robust-schedule-check.js';
+export { robustScheduleCheck, type RobustScheduleCheck } from './pipeline/robust-schedule-check.js';
 export { VARIATION_DEFAULTS, type PlanVariations } from './schedule/plan-variations.js';
 
 // The HTML report (src/report/)

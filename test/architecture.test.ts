@@ -22,7 +22,7 @@ export const LAYERS: Readonly<Record<string, number>> = {
   robust: 9,
   export: 10,
   compare: 10,
-  build: 11,
+  pipeline: 11,
   report: 12,
   cli: 13,
 };

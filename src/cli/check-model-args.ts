@@ -1,6 +1,6 @@
 import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
-import type { CheckModel } from '../build/check-model.js';
+import type { CheckModel } from '../pipeline/check-model.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { CommandIo } from './io.js';
 import { logColumnsFromArgs, optionalInputs, type LogColumnArgs } from './log-columns.js';
@@ -24,8 +24,8 @@ export async function checkModelFromArgs(
   io: CommandIo,
 ): Promise<{ model: CheckModel; notes: string[]; recorded: boolean }> {
   const { loadVehicle, resolveVehiclePath } = await import('../vehicle/load.js');
-  const { checkModelFromModels } = await import('../build/check-model.js');
-  const { recordedCheckModel } = await import('../build/recheck-schedule.js');
+  const { checkModelFromModels } = await import('../pipeline/check-model.js');
+  const { recordedCheckModel } = await import('../pipeline/recheck-schedule.js');
   const { sha256Hex, readFileBytes } = await import('../core/files.js');
   const vehicleFile = resolveVehiclePath(args.vehicle);
   const vehicle = loadVehicle(vehicleFile);

@@ -137,7 +137,7 @@ function worstChange(old: ScheduleFile, next: ScheduleFile, name: FlaggedMargin,
  * - Model drift from provenance.model (model-drift.ts); an understeering model that became
  *   oversteering (understeer gradient K > 0 → K < 0, Gillespie 1992 §6) is flagged.
  * - `oldGainsOnNewVehicle`: the dense check of the old gains on the new vehicle model, when the caller ran it
- *   (`oldGainsOnNewVehicle` in src/build/baseline.ts; this function stays pure) — it leads the record and, when
+ *   (`oldGainsOnNewVehicle` in src/pipeline/baseline.ts; this function stays pure) — it leads the record and, when
  *   the old gains fail, the flags.
  * Thresholds default to COMPARE_DEFAULTS.
  */

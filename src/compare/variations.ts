@@ -1,6 +1,6 @@
 /**
  * The worst case over the new vehicle's variations in a comparison: the old gains (and the new) over the set the
- * new schedule records, computed by src/build/variations-comparison.ts. Pure: adds the section and, under the new
+ * new schedule records, computed by src/pipeline/variations-comparison.ts. Pure: adds the section and, under the new
  * schedule's robust acceptance, a flag at each speed where the old gains break their limits in the worst case.
  */
 import { shownSpeed } from './format.js';

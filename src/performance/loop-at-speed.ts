@@ -1,7 +1,7 @@
 /**
  * Everything the time-domain figures need at one speed, from the model the schedule is checked on:
  * the sampled loop plant the firmware's controller drives (the same plant and delays as the dense
- * check, src/build/loop-analysis.ts), the loop output's responses to a road-wheel angle offset and to a
+ * check, src/pipeline/loop-analysis.ts), the loop output's responses to a road-wheel angle offset and to a
  * lateral force at the centre of gravity (continuous, no controller), the actuator's lag and delay for
  * the steering rate, and the feed-forward (src/loops/feed-forward.ts).
  */

@@ -7,8 +7,8 @@
  * actuator is asked for. Thinned for drawing by keeping each stretch's smallest and largest value, so
  * peaks stay where they are.
  */
-import type { CheckModel } from '../build/check-model.js';
-import { scheduleLoopAndController } from '../build/recheck-schedule.js';
+import type { CheckModel } from '../pipeline/check-model.js';
+import { scheduleLoopAndController } from '../pipeline/recheck-schedule.js';
 import { askedSteeringRate } from '../performance/actuator-room.js';
 import { breakpointPerformance } from '../performance/breakpoint-performance.js';
 import { SCENARIO_DEFAULTS } from '../performance/defaults.js';

@@ -3,9 +3,9 @@
  * sampled loop the dense check analyses (`sampledLoopDescription`), evaluated on a logarithmic grid from
  * two decades below the gain crossover up to the Nyquist frequency π/Ts.
  */
-import { checkLoopPlant, sampledLoopDescription } from '../build/loop-analysis.js';
-import type { CheckModel } from '../build/check-model.js';
-import { scheduleLoopAndController } from '../build/recheck-schedule.js';
+import { checkLoopPlant, sampledLoopDescription } from '../pipeline/loop-analysis.js';
+import type { CheckModel } from '../pipeline/check-model.js';
+import { scheduleLoopAndController } from '../pipeline/recheck-schedule.js';
 import { SpeedbandError } from '../core/errors.js';
 import { ratioToDecibels } from '../core/units.js';
 import { scheduleLookup } from '../schedule/schedule-lookup.js';

@@ -4,7 +4,7 @@
  * reading `designModelFromSingleTrack` makes, `fopdtByTwoPoints`); on the interpolated lumped model, the
  * interpolation itself (its test-speed FOPDTs joined by straight lines).
  */
-import type { CheckModel } from '../build/check-model.js';
+import type { CheckModel } from '../pipeline/check-model.js';
 import { seriesConnection } from '../lti/transfer-function.js';
 import { fopdtByTwoPoints } from '../tuning/two-point.js';
 import { actuatorTransferFunction, singleTrackTransferFunctions } from '../vehicle/single-track.js';

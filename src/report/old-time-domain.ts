@@ -4,8 +4,8 @@
  * model the new schedule records, simulated as the build simulates a breakpoint (src/performance) with the new
  * vehicle's steering limits — what the old gains would do on the changed vehicle, beside what the new ones do.
  */
-import type { CheckModel } from '../build/check-model.js';
-import { scheduleLoopAndController } from '../build/recheck-schedule.js';
+import type { CheckModel } from '../pipeline/check-model.js';
+import { scheduleLoopAndController } from '../pipeline/recheck-schedule.js';
 import { breakpointPerformance } from '../performance/breakpoint-performance.js';
 import { performanceLoopAt } from '../performance/loop-at-speed.js';
 import type { TimeDomainFigures } from '../performance/types.js';

@@ -3,7 +3,7 @@
  * worst figures and first failures, so the check is re-run on the model the schedule records (the same
  * grid, gains, loop, controller and limits: `recheckSchedule`) — or taken as the build just ran it.
  */
-import { recheckSchedule, recordedCheckModel } from '../build/recheck-schedule.js';
+import { recheckSchedule, recordedCheckModel } from '../pipeline/recheck-schedule.js';
 import { failingIntervals, failingIntervalWords } from '../schedule/failing-intervals.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { DenseCheckResult, WorstMargins } from '../schedule/types.js';

@@ -4,9 +4,9 @@
  * the renderer draws the sections whose parts are present.
  */
 import { basename } from 'node:path';
-import { oldGainsOnNewVehicle, summariseOldGainsCheck } from '../build/baseline.js';
-import type { CheckModel } from '../build/check-model.js';
-import { recordedCheckModel } from '../build/recheck-schedule.js';
+import { oldGainsOnNewVehicle, summariseOldGainsCheck } from '../pipeline/baseline.js';
+import type { CheckModel } from '../pipeline/check-model.js';
+import { recordedCheckModel } from '../pipeline/recheck-schedule.js';
 import { compareSchedules } from '../compare/compare-schedules.js';
 import { DRIFT_HEADER, SPEED_TABLE_HEADER, WORST_HEADER, driftRows, speedRow, summaryLine, worstRows } from '../compare/comparison-words.js';
 import { oldGainsLead, oldGainsModelWords } from '../compare/old-gains-words.js';
@@ -15,7 +15,7 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { ScheduleVariations } from '../schedule/schedule-variations.js';
-import { weakestWords } from '../build/robust-report.js';
+import { weakestWords } from '../pipeline/robust-report.js';
 import type { DenseCheckResult } from '../schedule/types.js';
 import { VERSION } from '../version.js';
 import { loopResponseAt, responseSpeeds } from './frequency-responses.js';

@@ -14,7 +14,7 @@ import type { OperatingPointModel } from '../tuning/operating-point.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
 import type { VariationDimension, VariationSet, VariedParameter } from './types.js';
 
-/** What the set needs of a check model's summary (src/build/check-model.ts CheckModelSummary): its kind and, for the single-track model, its parameters. */
+/** What the set needs of a check model's summary (src/pipeline/check-model.ts CheckModelSummary): its kind and, for the single-track model, its parameters. */
 export type VariedModelSummary = ({ readonly kind: 'single-track' } & SingleTrackParameters) | { readonly kind: 'interpolated-lumped' };
 
 const shown = (value: number): string => String(Number(value.toPrecision(4))).replace('-', '−');

@@ -48,7 +48,7 @@ export interface PlanRuleParameters {
 /**
  * How each breakpoint's rule parameter is chosen: 'rule-parameters' — as the plan gives it (or the rule's
  * default); 'fastest-passing' — a search over the rule's free parameter for the fastest response that
- * meets every acceptance limit at that breakpoint on the full loop (src/build/fastest-passing.ts).
+ * meets every acceptance limit at that breakpoint on the full loop (src/pipeline/fastest-passing.ts).
  */
 export type TuneFor = 'rule-parameters' | 'fastest-passing';
 /** What a fastest-passing search judges each candidate on: the nominal model, or the worst case over the plan's variations. */
@@ -169,7 +169,7 @@ export const PLAN_DEFAULTS: Plan = {
 
 /**
  * The rule, its parameters and how they are chosen when the plan names no rule, per loop kind — each
- * builds schedules that pass on every demo vehicle (test/build/default-plans.test.ts):
+ * builds schedules that pass on every demo vehicle (test/pipeline/default-plans.test.ts):
  *   yaw-rate: SIMC with τc = θ (Skogestad 2003), as given;
  *   heading:  SIMC, τc searched for the fastest response within the limits;
  *   path:     MIGO (Åström, Panagopoulos & Hägglund 1998) on the full loop, M searched likewise.

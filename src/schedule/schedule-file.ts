@@ -62,7 +62,7 @@ export interface ScheduleInput {
   readonly breakpointExtras: readonly BreakpointExtras[];
   /** With tuneFor fastest-passing: the search at each final breakpoint. */
   readonly searchAtBreakpoints?: readonly ScheduleSearchAt[];
-  /** The scenarios judged (src/build/simulate-schedule.ts); a failure fails the schedule. */
+  /** The scenarios judged (src/pipeline/simulate-schedule.ts); a failure fails the schedule. */
   readonly scenarioCheck?: ScheduleScenarioCheck;
   readonly speedChange?: SpeedChangeCertificate;
 }

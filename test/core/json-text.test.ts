@@ -2,7 +2,7 @@ import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { buildSchedule } from '../../src/build/build-schedule.js';
+import { buildSchedule } from '../../src/pipeline/build-schedule.js';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
 import { jsonPointer, parseJsonText } from '../../src/core/json-text.js';

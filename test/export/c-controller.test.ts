@@ -8,7 +8,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { simulateSchedule } from '../../src/build/simulate-schedule.js';
+import { simulateSchedule } from '../../src/pipeline/simulate-schedule.js';
 import { firmwareStep, initialFirmwareState } from '../../src/controller/firmware-step.js';
 import { exportC } from '../../src/export/c-header.js';
 import { parseQFormat } from '../../src/export/fixed-point.js';

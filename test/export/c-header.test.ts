@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { findFallbackGains } from '../../src/build/export-check.js';
+import { findFallbackGains } from '../../src/pipeline/export-check.js';
 import type { PidGains } from '../../src/controller/types.js';
 import { commentSafe } from '../../src/export/c-comment.js';
 import { computeScheduleChecksum } from '../../src/schedule/checksum.js';

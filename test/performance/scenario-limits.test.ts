@@ -4,7 +4,7 @@ import { judgeScenarioRun } from '../../src/performance/scenario-limits.js';
 import type { ScenarioMetrics } from '../../src/performance/scenario-metrics.js';
 import { rampScenario } from '../../src/performance/scenario-catalogue.js';
 import { runScenario } from '../../src/performance/scenario-run.js';
-import { speedChangeCertificate, CERTIFICATE_SEARCH } from '../../src/build/speed-change-certificate.js';
+import { speedChangeCertificate, CERTIFICATE_SEARCH } from '../../src/pipeline/speed-change-certificate.js';
 import { constantController, LINEAR_SETTINGS, VAN, vanVehicle } from './scenario-helpers.js';
 
 const calm: ScenarioMetrics = {

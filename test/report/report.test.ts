@@ -18,8 +18,8 @@ import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { openLoopOf } from '../../src/verify/analyse-loop.js';
 import { loopFrequencyResponse } from '../../src/verify/frequency-points.js';
-import { sampledLoopDescription, checkLoopPlant } from '../../src/build/loop-analysis.js';
-import { recordedCheckModel, scheduleLoopAndController } from '../../src/build/recheck-schedule.js';
+import { sampledLoopDescription, checkLoopPlant } from '../../src/pipeline/loop-analysis.js';
+import { recordedCheckModel, scheduleLoopAndController } from '../../src/pipeline/recheck-schedule.js';
 
 const VAN = 'vehicles/parcel-van';
 const LOGS = join(VAN, 'logs');

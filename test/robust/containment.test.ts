@@ -6,9 +6,9 @@
  */
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { buildSchedule } from '../../src/build/build-schedule.js';
-import { recordedCheckModel } from '../../src/build/recheck-schedule.js';
-import { worstCaseMarginsAt } from '../../src/build/robust-analysis.js';
+import { buildSchedule } from '../../src/pipeline/build-schedule.js';
+import { recordedCheckModel } from '../../src/pipeline/recheck-schedule.js';
+import { worstCaseMarginsAt } from '../../src/pipeline/robust-analysis.js';
 import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { analyseLoop } from '../../src/verify/analyse-loop.js';

@@ -7,8 +7,8 @@
  * heaviest mass, and the loop goes unstable once the mass passes the one where k·|G(0)| = 1.
  */
 import { describe, expect, it } from 'vitest';
-import { checkModelFromSummary } from '../../src/build/check-model.js';
-import { worstCaseMarginsAt } from '../../src/build/robust-analysis.js';
+import { checkModelFromSummary } from '../../src/pipeline/check-model.js';
+import { worstCaseMarginsAt } from '../../src/pipeline/robust-analysis.js';
 import { understeerGradient_radPerMps2 } from '../../src/vehicle/single-track.js';
 import { CONTROLLER, vanContext } from './van-loop.js';
 

@@ -1,14 +1,14 @@
 /**
  * The time-domain figures of a breakpoint over the variation set (src/robust/time-domain.ts through
- * src/build/robust-time-domain.ts): on a box of zero width they are the nominal figures and break the limits the
+ * src/pipeline/robust-time-domain.ts): on a box of zero width they are the nominal figures and break the limits the
  * nominal judge (src/performance/time-domain-limits.ts) says they break; on small boxes each worst figure is at least
  * the nominal one, is reproduced by simulating its combination alone, and matches a brute-force grid of the box.
  */
 import { describe, expect, it } from 'vitest';
-import { worstCaseMarginsAt, type RobustContext } from '../../src/build/robust-analysis.js';
-import { worstTimeDomainAt, type BreakpointControl, type TimeDomainSettings } from '../../src/build/robust-time-domain.js';
-import { robustSetpointWeights } from '../../src/build/robust-setpoint-weights.js';
-import { analyseOperatingPoint } from '../../src/build/loop-analysis.js';
+import { worstCaseMarginsAt, type RobustContext } from '../../src/pipeline/robust-analysis.js';
+import { worstTimeDomainAt, type BreakpointControl, type TimeDomainSettings } from '../../src/pipeline/robust-time-domain.js';
+import { robustSetpointWeights } from '../../src/pipeline/robust-setpoint-weights.js';
+import { analyseOperatingPoint } from '../../src/pipeline/loop-analysis.js';
 import { breakpointPerformance } from '../../src/performance/breakpoint-performance.js';
 import { performanceLoopAt } from '../../src/performance/loop-at-speed.js';
 import { judgeTimeDomain } from '../../src/performance/time-domain-limits.js';

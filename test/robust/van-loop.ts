@@ -3,8 +3,8 @@
  * yaw-rate loop at a speed: real loops for the robust-check tests, built without identification.
  */
 import { join } from 'node:path';
-import { checkModelFromSummary, type CheckModel } from '../../src/build/check-model.js';
-import type { RobustContext } from '../../src/build/robust-analysis.js';
+import { checkModelFromSummary, type CheckModel } from '../../src/pipeline/check-model.js';
+import type { RobustContext } from '../../src/pipeline/robust-analysis.js';
 import type { PidGains } from '../../src/controller/types.js';
 import { resolveVariationSet } from '../../src/robust/variation-set.js';
 import type { RobustSearchSettings } from '../../src/robust/types.js';

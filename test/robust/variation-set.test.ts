@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkModelFromSummary } from '../../src/build/check-model.js';
+import { checkModelFromSummary } from '../../src/pipeline/check-model.js';
 import { isSpeedbandError } from '../../src/core/errors.js';
 import type { ModelsFile } from '../../src/identify/models-schema.js';
 import { operatingPointWith, resolveVariationSet } from '../../src/robust/variation-set.js';

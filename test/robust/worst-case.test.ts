@@ -5,7 +5,7 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { analysisWithChanges, worstCaseMarginsAt } from '../../src/build/robust-analysis.js';
+import { analysisWithChanges, worstCaseMarginsAt } from '../../src/pipeline/robust-analysis.js';
 import { ROBUST_FIGURES, badness } from '../../src/robust/figures.js';
 import { judgeRobust } from '../../src/robust/robust-check.js';
 import { THRESHOLD_DEFAULTS } from '../../src/schedule/dense-check.js';

@@ -6,8 +6,8 @@
 import fc from 'fast-check';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { makeLoopAnalysis } from '../../src/build/loop-analysis.js';
-import type { CheckModel } from '../../src/build/check-model.js';
+import { makeLoopAnalysis } from '../../src/pipeline/loop-analysis.js';
+import type { CheckModel } from '../../src/pipeline/check-model.js';
 import { denseCheck } from '../../src/schedule/dense-check.js';
 import { THRESHOLD_DEFAULTS } from '../../src/schedule/dense-check.js';
 import { singleTrackParametersFromVehicle } from '../../src/vehicle/single-track.js';

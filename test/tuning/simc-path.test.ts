@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { isSpeedbandError } from '../../src/core/errors.js';
-import { makeLoopAnalysis } from '../../src/build/loop-analysis.js';
-import { checkModelFromSummary } from '../../src/build/check-model.js';
+import { makeLoopAnalysis } from '../../src/pipeline/loop-analysis.js';
+import { checkModelFromSummary } from '../../src/pipeline/check-model.js';
 import { simc } from '../../src/tuning/simc.js';
 import { tuneOperatingPoint } from '../../src/tuning/operating-point.js';
 import type { DesignModel } from '../../src/tuning/types.js';

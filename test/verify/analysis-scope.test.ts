@@ -3,7 +3,7 @@
  * verdict, gain and phase margins and peaks as a full analysis; the delay margin is the crossover estimate.
  */
 import { describe, expect, it } from 'vitest';
-import { analyseOperatingPoint } from '../../src/build/loop-analysis.js';
+import { analyseOperatingPoint } from '../../src/pipeline/loop-analysis.js';
 import { CONTROLLER, VAN_MODEL, vanGains } from '../robust/van-loop.js';
 
 describe("analyseLoop with scope 'figures'", () => {

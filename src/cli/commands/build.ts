@@ -1,5 +1,5 @@
 import { SpeedbandError } from '../../core/errors.js';
-import type { BuildSummaryInput, WrittenReport } from '../../build/build-summary.js';
+import type { BuildSummaryInput, WrittenReport } from '../../pipeline/build-summary.js';
 import type { Argv } from 'yargs';
 import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
@@ -44,10 +44,10 @@ type Args = OptionsOf<typeof builder>;
  * With --baseline, also checks the OLD schedule's gains on the NEW vehicle model.
  */
 async function run(args: Args, io: CommandIo): Promise<number> {
-  const { buildSchedule } = await import('../../build/build-schedule.js');
+  const { buildSchedule } = await import('../../pipeline/build-schedule.js');
   const { writeSchedule, readSchedule } = await import('../../schedule/schedule-file.js');
   const { readModels, writeModels } = await import('../../identify/models-file.js');
-  const { buildExitReasons, buildSummaryJson, buildSummaryText } = await import('../../build/build-summary.js');
+  const { buildExitReasons, buildSummaryJson, buildSummaryText } = await import('../../pipeline/build-summary.js');
 
   const logPaths = args.logs ?? [];
   const modelsIn = args.models;
@@ -99,7 +99,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const written = schedule.status === 'passed' || args['allow-failing'];
   const outcome = written ? writeSchedule(out, schedule, args.force) : null;
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force);
-  const baselineCheck = baselineSchedule === undefined ? undefined : await (await import('../../build/baseline.js')).checkBaseline(baselineSchedule, result);
+  const baselineCheck = baselineSchedule === undefined ? undefined : await (await import('../../pipeline/baseline.js')).checkBaseline(baselineSchedule, result);
   const baseline = baselineFile === undefined || baselineSchedule === undefined || baselineCheck === undefined ? undefined : { file: baselineFile, schedule: baselineSchedule, check: baselineCheck };
 
   // The report goes with the schedule: written when the schedule is.

@@ -34,9 +34,9 @@ type Args = OptionsOf<typeof builder>;
 
 async function run(args: Args, io: CommandIo): Promise<number> {
   const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { recheckScheduleOnAllCores } = await import('../../build/recheck-schedule.js');
-  const { formatRecheck } = await import('../../build/schedule-report.js');
-  const { formatScenarioCheck } = await import('../../build/scenario-report.js');
+  const { recheckScheduleOnAllCores } = await import('../../pipeline/recheck-schedule.js');
+  const { formatRecheck } = await import('../../pipeline/schedule-report.js');
+  const { formatScenarioCheck } = await import('../../pipeline/scenario-report.js');
   const schedulePath = args.schedule;
   const schedule = readSchedule(schedulePath);
   const { model, notes } = await checkModelFromArgs(args, schedule, schedulePath, io);
@@ -49,7 +49,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const robust =
     schedule.variations === undefined || args['nominal-only']
       ? null
-      : await (await import('../../build/robust-recheck.js')).recheckOverVariations({ schedule, model, onProgress: (event) => event.done === event.total && io.progress(`worst case over the variations: ${event.total} speeds\n`) });
+      : await (await import('../../pipeline/robust-recheck.js')).recheckOverVariations({ schedule, model, onProgress: (event) => event.done === event.total && io.progress(`worst case over the variations: ${event.total} speeds\n`) });
   const { acceptancePassed } = await import('../../schedule/schedule-variations.js');
   const scenarios = await checkScenarios(args, schedule, model);
   notes.push(...scenarios.notes);
@@ -95,7 +95,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
 
 /** The worst-case report beside this check's nominal margins at the breakpoints. */
 async function robustText(record: ScheduleVariations, result: DenseCheckResult, schedule: ScheduleFile): Promise<string> {
-  const { formatVariations, nominalAtBreakpoints } = await import('../../build/robust-report.js');
+  const { formatVariations, nominalAtBreakpoints } = await import('../../pipeline/robust-report.js');
   return formatVariations(record, nominalAtBreakpoints(result, schedule.breakpoints.map((row) => row.speed_mps)), schedule.check.thresholds);
 }
 
@@ -103,13 +103,13 @@ async function robustText(record: ScheduleVariations, result: DenseCheckResult, 
 async function checkScenarios(
   args: Args,
   schedule: import('../../schedule/schedule-types.js').ScheduleFile,
-  model: import('../../build/check-model.js').CheckModel,
+  model: import('../../pipeline/check-model.js').CheckModel,
 ): Promise<{ check: import('../../schedule/schedule-types.js').ScheduleScenarioCheck | null; notes: string[] }> {
   const recorded = schedule.check.scenarios;
   if (recorded === undefined) return { check: null, notes: [] };
   if (model.summary.kind !== 'single-track') return { check: null, notes: ['note: the scenarios need the single-track model; not run on per-speed yaw-rate models'] };
   const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
-  const { judgeScheduleScenarios, scenarioParameters } = await import('../../build/simulate-schedule.js');
+  const { judgeScheduleScenarios, scenarioParameters } = await import('../../pipeline/simulate-schedule.js');
   const vehicle = loadVehicle(resolveVehiclePath(args.vehicle));
   const { parameters, description } = scenarioParameters(model, vehicle);
   const check = judgeScheduleScenarios({

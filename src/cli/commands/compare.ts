@@ -84,7 +84,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const given = Object.fromEntries(Object.entries(thresholds).filter(([, value]) => value !== undefined));
   const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { compareSchedules, comparisonText, comparisonMarkdown, resolveThresholds, withVariations } = await import('../../compare/index.js');
-  const { oldGainsOnNewVehicle } = await import('../../build/baseline.js');
+  const { oldGainsOnNewVehicle } = await import('../../pipeline/baseline.js');
   const oldName = args.old;
   const newName = args.new;
   resolveThresholds(given); // a bad threshold is bad input before the dense check runs
@@ -95,7 +95,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const comparison =
     newSchedule.variations === undefined || args['nominal-only']
       ? nominal
-      : withVariations(nominal, (await import('../../build/variations-comparison.js')).compareOverVariations(oldSchedule, newSchedule, nominal.speeds));
+      : withVariations(nominal, (await import('../../pipeline/variations-comparison.js')).compareOverVariations(oldSchedule, newSchedule, nominal.speeds));
   if (args.json) io.stdout(`${JSON.stringify({ files: { old: oldName, new: newName }, ...comparison }, null, 2)}\n`);
   else if (args.markdown) io.stdout(comparisonMarkdown(comparison, oldName, newName));
   else io.stdout(comparisonText(comparison, oldName, newName));

@@ -18,8 +18,8 @@ type Args = OptionsOf<typeof builder>;
 
 /** `speedband demo`: the main job on a bundled demo vehicle, end to end, into one folder. */
 async function run(args: Args, io: CommandIo): Promise<number> {
-  const { runDemo } = await import('../../build/demo.js');
-  const { formatSchedule, formatCautions } = await import('../../build/schedule-report.js');
+  const { runDemo } = await import('../../pipeline/demo.js');
+  const { formatSchedule, formatCautions } = await import('../../pipeline/schedule-report.js');
   const outDir = args.out;
   const vehicle = args.vehicle;
   io.stderr(`speedband demo: building a schedule for the bundled demo vehicle "${vehicle}" (invented data, for demonstration only)…\n`);

@@ -11,7 +11,7 @@ import { SAFETY_EPILOGUE } from '../../core/safety.js';
 export interface ExportDependencies {
   /**
    * The loop analysis to re-check a schedule's gains with (null: none available); absent: the model the
-   * schedule records (src/build/export-check.ts). Tests pass constructed loops.
+   * schedule records (src/pipeline/export-check.ts). Tests pass constructed loops.
    */
   readonly analyseFor?: (schedule: ScheduleFile) => AnalyseLoop | null;
 }
@@ -89,7 +89,7 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
   if (out !== undefined) (await import('../../core/output-paths.js')).checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }]);
   const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { scheduleTable, scheduleLookupSettings } = await import('../../schedule/schedule-lookup.js');
-  const exportCheck = await import('../../build/export-check.js');
+  const exportCheck = await import('../../pipeline/export-check.js');
   const schedule = readSchedule(schedulePath);
   if (schedule.status === 'failed' && !allowFailing) {
     const failed =

@@ -3,7 +3,7 @@ import { quoted } from '../../core/quote.js';
 import type { Argv } from 'yargs';
 import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT, type CommandIo } from '../io.js';
-import { reportWords } from '../../build/build-summary.js';
+import { reportWords } from '../../pipeline/build-summary.js';
 import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
 /** --response-speed-mps values as numbers; anything else is bad input. */

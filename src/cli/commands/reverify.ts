@@ -23,7 +23,7 @@ type Args = OptionsOf<typeof builder>;
  * `speedband reverify`: the supported path for a deliberate hand edit of a schedule. The edited file
  * (its checksum no longer matches, so check and export refuse it) is re-checked densely on a vehicle
  * model; only when that passes is it written to --out with the figures of this check, a record that
- * it was edited by hand and re-verified, and a fresh checksum (src/build/reverify.ts).
+ * it was edited by hand and re-verified, and a fresh checksum (src/pipeline/reverify.ts).
  */
 async function run(args: Args, io: CommandIo): Promise<number> {
   const schedulePath = args.schedule;
@@ -33,11 +33,11 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const { readTextFile } = await import('../../core/files.js');
   const { parseJsonText } = await import('../../core/json-text.js');
   const { parseScheduleUnverified, writeSchedule } = await import('../../schedule/schedule-file.js');
-  const { reverifySchedule } = await import('../../build/reverify.js');
-  const { formatRecheck, formatCautions } = await import('../../build/schedule-report.js');
+  const { reverifySchedule } = await import('../../pipeline/reverify.js');
+  const { formatRecheck, formatCautions } = await import('../../pipeline/schedule-report.js');
   const edited = parseScheduleUnverified(parseJsonText(readTextFile(schedulePath), schedulePath), schedulePath);
   const { model, notes, recorded } = await checkModelFromArgs(args, edited, schedulePath, io);
-  const variations = edited.variations === undefined ? null : await (await import('../../build/robust-recheck.js')).recheckOverVariations({ schedule: edited, model });
+  const variations = edited.variations === undefined ? null : await (await import('../../pipeline/robust-recheck.js')).recheckOverVariations({ schedule: edited, model });
   const result = reverifySchedule(edited, model, { modelRecorded: recorded, variations });
   const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, args.force);
 
@@ -70,7 +70,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     let text = `${schedulePath}: schema valid; ${changed}\n${notes.map((note) => `${note}\n`).join('')}`;
     text += formatRecheck(`model: ${model.description}`, result.check, edited, model.kind);
     if (result.variations !== null) {
-      const { formatVariations, nominalAtBreakpoints } = await import('../../build/robust-report.js');
+      const { formatVariations, nominalAtBreakpoints } = await import('../../pipeline/robust-report.js');
       const speeds = edited.breakpoints.map((row) => row.speed_mps);
       text += `\n${formatVariations(result.variations.record, nominalAtBreakpoints(result.check, speeds), edited.check.thresholds)}\n`;
     }

@@ -47,7 +47,7 @@ type Args = OptionsOf<typeof builder>;
 
 /**
  * `speedband simulate`: drive a schedule through the scenarios of a test day as the firmware runs it
- * (src/build/simulate-schedule.ts) and print what each run shows; the traces go to --out as CSV.
+ * (src/pipeline/simulate-schedule.ts) and print what each run shows; the traces go to --out as CSV.
  */
 async function run(args: Args, io: CommandIo): Promise<number> {
   const schedulePath = args.schedule;
@@ -87,7 +87,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     sizes[field] = value;
   }
   const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../build/simulate-schedule.js');
+  const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../pipeline/simulate-schedule.js');
   const { checkModelFromArgs } = await import('../check-model-args.js');
   const schedule = readSchedule(schedulePath);
   const vehicle = loadVehicle(resolveVehiclePath(args.vehicle));
@@ -133,7 +133,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     );
     return EXIT.ok;
   }
-  const { scenarioTable } = await import('../../build/scenario-report.js');
+  const { scenarioTable } = await import('../../pipeline/scenario-report.js');
   let text = `${schedulePath}: ${schedule.loop.kind} loop, model: ${description}\n${notes.map((note) => `${note}\n`).join('')}`;
   text += scenarioTable(schedule.loop.kind, runs).join('\n') + '\n';
   for (const name of new Set(runs.map((r) => r.scenario.name))) text += `  ${name}: ${SCENARIO_DESCRIPTIONS[name]}\n`;

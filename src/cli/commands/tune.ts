@@ -148,16 +148,16 @@ export const command = defineCommand({
     const extrapolation =
       modelWords === undefined
         ? null
-        : (await import('../../build/extrapolation.js')).extrapolationAt(speed_mps, modelWords.testSpeeds_mps, (at) =>
+        : (await import('../../pipeline/extrapolation.js')).extrapolationAt(speed_mps, modelWords.testSpeeds_mps, (at) =>
             at === speed_mps ? point.gains : tuneOperatingPoint({ ...request, speed_mps: at, model: modelFromModels!(at) }).gains,
           );
     const warnings = [
       ...(modelWords?.warnings ?? []),
-      ...(extrapolation === null ? [] : [(await import('../../build/extrapolation.js')).extrapolationWords(extrapolation)]),
+      ...(extrapolation === null ? [] : [(await import('../../pipeline/extrapolation.js')).extrapolationWords(extrapolation)]),
       ...point.warnings,
     ];
     // The margins of the discrete PID the firmware runs: the analysis of build's dense check.
-    const sampledMargins = (await import('../../build/loop-analysis.js')).analyseSampledLoop(point.loop, point.gains, controller);
+    const sampledMargins = (await import('../../pipeline/loop-analysis.js')).analyseSampledLoop(point.loop, point.gains, controller);
     if (args.json) {
       const modelSource = modelWords === undefined ? {} : { model: { source: args.models, kind: model.kind, description: modelWords.description } };
       io.stdout(
@@ -188,7 +188,7 @@ async function modelFromModelsFile(modelsPath: string, given: { path: string; ve
   const { resolveVehiclePath } = await import('../../vehicle/load.js');
   const { sha256Hex } = await import('../../core/files.js');
   const { readFileSync } = await import('node:fs');
-  const { operatingPointModelFromModels } = await import('../../build/operating-point-from-models.js');
+  const { operatingPointModelFromModels } = await import('../../pipeline/operating-point-from-models.js');
   const vehicleSha256 = sha256Hex(readFileSync(resolveVehiclePath(given.path)));
   return {
     ...operatingPointModelFromModels(models, given.vehicle, speed_mps, vehicleSha256),

@@ -2,7 +2,7 @@ import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { buildSchedule } from '../../src/build/build-schedule.js';
+import { buildSchedule } from '../../src/pipeline/build-schedule.js';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
 import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';

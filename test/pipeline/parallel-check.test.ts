@@ -4,9 +4,9 @@
  */
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { checkModelFromSummary } from '../../src/build/check-model.js';
-import { makeLoopAnalysis } from '../../src/build/loop-analysis.js';
-import { denseCheckOnAllCores, PARALLEL_CHECK_DEFAULTS } from '../../src/build/parallel-check.js';
+import { checkModelFromSummary } from '../../src/pipeline/check-model.js';
+import { makeLoopAnalysis } from '../../src/pipeline/loop-analysis.js';
+import { denseCheckOnAllCores, PARALLEL_CHECK_DEFAULTS } from '../../src/pipeline/parallel-check.js';
 import { isSpeedbandError } from '../../src/core/errors.js';
 import { denseCheck, THRESHOLD_DEFAULTS } from '../../src/schedule/dense-check.js';
 import { loadVehicle } from '../../src/vehicle/load.js';

@@ -6,7 +6,7 @@
 import { readFileSync, readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { BUILD_IDENTIFY_OPTIONS, buildSchedule } from '../../src/build/build-schedule.js';
+import { BUILD_IDENTIFY_OPTIONS, buildSchedule } from '../../src/pipeline/build-schedule.js';
 import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
 import type { ModelsFile } from '../../src/identify/models-schema.js';
 import type { PartialPlan } from '../../src/schedule/plan.js';
@@ -193,8 +193,8 @@ describe('the default heading plan on a 0.2 rad step through the steering limits
     expect(result.overshoot).toBeLessThanOrEqual(25);
     expect(Math.abs(result.overshoot - row.timeDomain!.limitedStep!.overshoot_pct)).toBeLessThan(1);
     // The scenario simulator's large step (0.2 rad, path-relative states, the schedule's lookup at the breakpoint) too.
-    const { simulateSchedule, scenarioParameters } = await import('../../src/build/simulate-schedule.js');
-    const { recordedCheckModel } = await import('../../src/build/recheck-schedule.js');
+    const { simulateSchedule, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
+    const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
     const steeringLimits = schedule.check.timeDomain.steeringLimits;
     const { parameters } = scenarioParameters(recordedCheckModel(schedule), { name: 'unused', mass_kg: 1, yawInertia_kgm2: 1, cgToFrontAxle_m: 1, cgToRearAxle_m: 1, steeringRatio: 1, ...steeringLimits });
     const [run] = simulateSchedule({ schedule, parameters, steeringLimits, scenarios: ['large-step'], speeds: [row.speed_mps] });
@@ -206,8 +206,8 @@ describe('the default heading plan on a 0.2 rad step through the steering limits
 
 describe('simulate on every demo vehicle and default plan', () => {
   it('runs every scenario at low, mid and top speed and through the range: finite figures, the step halving converged', async () => {
-    const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../src/build/simulate-schedule.js');
-    const { recordedCheckModel } = await import('../../src/build/recheck-schedule.js');
+    const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
+    const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
     const { loadVehicle } = await import('../../src/vehicle/load.js');
     const { SCENARIO_NAMES } = await import('../../src/performance/scenario-catalogue.js');
     for (const vehicle of VEHICLES) {
@@ -230,8 +230,8 @@ describe('simulate on every demo vehicle and default plan', () => {
   }, 120_000);
 
   it('gives the build\'s misalignment and lateral-force figures at the breakpoints (two independent simulations: state space relative to the path vs transfer functions by superposition)', async () => {
-    const { simulateSchedule, scenarioParameters } = await import('../../src/build/simulate-schedule.js');
-    const { recordedCheckModel } = await import('../../src/build/recheck-schedule.js');
+    const { simulateSchedule, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
+    const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
     const { loadVehicle } = await import('../../src/vehicle/load.js');
     for (const vehicle of VEHICLES) {
       const file = loadVehicle(join('vehicles', vehicle, 'vehicle.json'));

@@ -3,8 +3,8 @@
  * independent of the others and of the thread that runs it.
  */
 import { describe, expect, it } from 'vitest';
-import { PARALLEL_ROBUST_DEFAULTS, robustCheckOnAllCores } from '../../src/build/parallel-robust-check.js';
-import { makeRobustAnalysis } from '../../src/build/robust-analysis.js';
+import { PARALLEL_ROBUST_DEFAULTS, robustCheckOnAllCores } from '../../src/pipeline/parallel-robust-check.js';
+import { makeRobustAnalysis } from '../../src/pipeline/robust-analysis.js';
 import { robustCheck } from '../../src/robust/robust-check.js';
 import { THRESHOLD_DEFAULTS } from '../../src/schedule/dense-check.js';
 import { vanContext, vanGains } from '../robust/van-loop.js';

@@ -1,6 +1,6 @@
 /**
  * The export command's re-check of fixed-point gains: the dense check of the quantised table on
- * the model the schedule records (src/build/recheck-schedule.ts), or null when the schedule
+ * the model the schedule records (src/pipeline/recheck-schedule.ts), or null when the schedule
  * records no model speedband can rebuild.
  */
 import type { ScheduleFile } from '../schedule/schedule-types.js';

@@ -112,7 +112,7 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
 export function judgeScheduleScenarios(input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: ScenarioLimits; readonly model: string }): ScheduleScenarioCheck {
   const speeds = scenarioSpeeds(input.schedule, true);
   // At a breakpoint with time-domain figures the linear scenarios are those figures (the same closed loop, exact:
-  // test/build/default-plans.test.ts), judged by the build already; the scenarios through the limits run everywhere.
+  // test/pipeline/default-plans.test.ts), judged by the build already; the scenarios through the limits run everywhere.
   const figured = new Set(input.schedule.breakpoints.filter((row) => row.timeDomain !== null).map((row) => row.speed_mps));
   const linear = new Set<ScenarioName>(LINEAR_SCENARIOS);
   const runs = [

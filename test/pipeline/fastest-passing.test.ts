@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { fastestPassing, freeParameterOf, limitsWithRoom } from '../../src/build/fastest-passing.js';
-import type { BreakpointEvaluation } from '../../src/build/breakpoint-evaluation.js';
+import { fastestPassing, freeParameterOf, limitsWithRoom } from '../../src/pipeline/fastest-passing.js';
+import type { BreakpointEvaluation } from '../../src/pipeline/breakpoint-evaluation.js';
 import type { TunedOperatingPoint } from '../../src/tuning/operating-point.js';
 import type { RuleParameters } from '../../src/tuning/types.js';
 import { THRESHOLD_DEFAULTS } from '../../src/schedule/dense-check.js';

@@ -5,7 +5,7 @@
  * schedule must record the names and hashes it was given.
  */
 import { describe, expect, it } from 'vitest';
-import { buildScheduleFromData, type LoadedBuildInput } from '../../src/build/build-schedule.js';
+import { buildScheduleFromData, type LoadedBuildInput } from '../../src/pipeline/build-schedule.js';
 import type { ModelsFile, SingleTrackRecord } from '../../src/identify/models-schema.js';
 import { tuneOperatingPoint } from '../../src/tuning/operating-point.js';
 import { singleTrackParametersFromVehicle } from '../../src/vehicle/single-track.js';
