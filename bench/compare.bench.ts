@@ -26,7 +26,11 @@ printFigure('compareSchedules, 6 vs 6 same breakpoints, per call', (1000 * small
 const largeTime = await timeMs(() => {
   for (let i = 0; i < 200; i += 1) compareSchedules(largeA, largeB);
 });
-printFigure(`compareSchedules, 40 vs 40 interleaved breakpoints (${compareSchedules(largeA, largeB).speeds.length} speeds), per call`, (1000 * largeTime) / 200, 'µs');
+printFigure(
+  `compareSchedules, 40 vs 40 interleaved breakpoints (${compareSchedules(largeA, largeB).speeds.length} speeds), per call`,
+  (1000 * largeTime) / 200,
+  'µs',
+);
 
 const folder = mkdtempSync(join(tmpdir(), 'speedband-bench-compare-'));
 writeSchedule(join(folder, 'old.json'), largeA, false);

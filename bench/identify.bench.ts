@@ -40,7 +40,17 @@ try {
   process.stdout.write(`demo van: ${demoLogs.length} logs, ${steps.length} steps, ${Math.round(samples / steps.length)} samples per step on average\n`);
 
   const demoRuns = Array.from({ length: 3 }, () =>
-    measureProcess(process.execPath, ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', ...demoLogs, '--out', join(folder, 'demo.json'), '--force']),
+    measureProcess(process.execPath, [
+      'bin/speedband.js',
+      'identify',
+      '--vehicle',
+      VEHICLE,
+      '--logs',
+      ...demoLogs,
+      '--out',
+      join(folder, 'demo.json'),
+      '--force',
+    ]),
   );
   const demoWalls = demoRuns.map((r) => r.wall_ms).sort((a, b) => a - b);
   printFigure('identify, demo van logs, whole process (median of 3)', demoWalls[1], 'ms', '< 1000 ms');
@@ -82,10 +92,24 @@ try {
   writeFileSync(hourLog, `${header}\n${lines.join('\n')}\n`);
   const hourSteps = findStepTests(readSteerLog(hourLog), { maxSteerAngle_rad: vehicle.maxSteerAngle_rad }).steps.length;
   process.stdout.write(`one-hour log: ${lines.length} rows, ${hourSteps} steps\n`);
-  const hour = measureProcess(process.execPath, ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', hourLog, '--out', join(folder, 'hour.json'), '--force']);
+  const hour = measureProcess(process.execPath, [
+    'bin/speedband.js',
+    'identify',
+    '--vehicle',
+    VEHICLE,
+    '--logs',
+    hourLog,
+    '--out',
+    join(folder, 'hour.json'),
+    '--force',
+  ]);
   printFigure('identify, one-hour log, whole process', hour.wall_ms, 'ms', '< 10000 ms');
   printFigure('identify, one-hour log, peak memory', hour.peakMemory_MB ?? NaN, 'MB', '< 500 MB');
-  printFigure('identify, one-hour log, whole-process CPU time', processCpu_ms(process.execPath, ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', hourLog, '--out', join(folder, 'hour.json'), '--force']), 'ms');
+  printFigure(
+    'identify, one-hour log, whole-process CPU time',
+    processCpu_ms(process.execPath, ['bin/speedband.js', 'identify', '--vehicle', VEHICLE, '--logs', hourLog, '--out', join(folder, 'hour.json'), '--force']),
+    'ms',
+  );
 
   // In-process fit rates (after one warm-up pass).
   for (const step of steps.slice(0, 5)) identifyStep(step, IDENTIFY_DEFAULTS);

@@ -31,7 +31,12 @@ const pairs: readonly (readonly [string, readonly string[], string, readonly str
     'build --models, plan τc = "max(0.2, 0.02 * speed_mps)"',
     ['build', '--vehicle', VAN, '--models', models, '--plan', plan('max(0.2, 0.02 * speed_mps)'), '--out', join(work, 'expression.json'), '--force'],
   ],
-  ['inspect one log, speed in km/h (built-in)', ['inspect', LOG, '--column', 'speed_mps=speed_mps:km/h'], 'inspect one log, speed in mi/h (mathjs)', ['inspect', LOG, '--column', 'speed_mps=speed_mps:mi/h']],
+  [
+    'inspect one log, speed in km/h (built-in)',
+    ['inspect', LOG, '--column', 'speed_mps=speed_mps:km/h'],
+    'inspect one log, speed in mi/h (mathjs)',
+    ['inspect', LOG, '--column', 'speed_mps=speed_mps:mi/h'],
+  ],
 ];
 const median = (values: number[]): number => [...values].sort((p, q) => p - q)[Math.floor(values.length / 2)];
 for (const [withoutLabel, withoutArgs, withLabel, withArgs] of pairs) {

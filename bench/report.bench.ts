@@ -40,7 +40,8 @@ const pathSchedule = join(work, 'path.json');
 writeFileSync(join(work, 'path-plan.json'), JSON.stringify({ loop: { kind: 'path' } }));
 cli('build', '--vehicle', 'parcel-van', '--models', models, '--plan', join(work, 'path-plan.json'), '--out', pathSchedule);
 const paths: { wall_ms: number }[] = [];
-for (let k = 0; k < RUNS; k++) paths.push(cli('report', pathSchedule, '--models', models, '--logs', 'vehicles/parcel-van/logs', '--out', join(work, `path-${k}.html`)));
+for (let k = 0; k < RUNS; k++)
+  paths.push(cli('report', pathSchedule, '--models', models, '--logs', 'vehicles/parcel-van/logs', '--out', join(work, `path-${k}.html`)));
 printFigure(`report, parcel van path loop, with models and logs (median of ${RUNS})`, sorted(paths)[RUNS >> 1], 'ms', '< 1500 ms');
 printFigure('report HTML, path loop with models and logs', statSync(join(work, 'path-0.html')).size / 1024 / 1024, 'MB', '< 3 MB');
 

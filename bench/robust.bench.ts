@@ -24,7 +24,8 @@ type Dist = {
   breakpointControl: typeof import('../src/pipeline/robust-time-domain.js').breakpointControl;
   worstCaseMarginsAt: typeof import('../src/pipeline/robust-analysis.js').worstCaseMarginsAt;
 };
-const dist = async (path: string): Promise<Record<string, unknown>> => import(new URL(`../dist/${path}`, import.meta.url).href) as Promise<Record<string, unknown>>;
+const dist = async (path: string): Promise<Record<string, unknown>> =>
+  import(new URL(`../dist/${path}`, import.meta.url).href) as Promise<Record<string, unknown>>;
 const lib = {
   ...(await dist('build/recheck-schedule.js')),
   ...(await dist('build/parallel-robust-check.js')),
@@ -45,7 +46,17 @@ const variations = lib.resolveVariations({ search: { samples: 64 } }, controller
 const set = lib.resolveVariationSet(variations, model.summary, models);
 const grid = Array.from({ length: SPEEDS }, (_, i) => 2 + (23 * i) / (SPEEDS - 1));
 const check = (workers: number) =>
-  lib.robustCheckOnAllCores({ model, loop, controller, thresholds: schedule.check.thresholds, set, search: variations.search, grid, gainsAt: lib.scheduleLookup(schedule), workers });
+  lib.robustCheckOnAllCores({
+    model,
+    loop,
+    controller,
+    thresholds: schedule.check.thresholds,
+    set,
+    search: variations.search,
+    grid,
+    gainsAt: lib.scheduleLookup(schedule),
+    workers,
+  });
 await check(0); // warm-up of the main thread
 
 const runs = { main: [] as number[], all: [] as number[], cpu: [] as number[] };
@@ -59,7 +70,11 @@ for (let run = 0; run < RUNS; run++) {
 }
 const median = (values: number[]): number => [...values].sort((p, q) => p - q)[Math.floor(values.length / 2)];
 const fastest = (values: number[]): number => Math.min(...values);
-printFigure(`robust check, ${SPEEDS} speeds × ${set.dimensions.length} parameters, ${variations.search.samples} samples + local search`, loops, 'loop analyses');
+printFigure(
+  `robust check, ${SPEEDS} speeds × ${set.dimensions.length} parameters, ${variations.search.samples} samples + local search`,
+  loops,
+  'loop analyses',
+);
 printFigure('  loop analyses per speed', loops / SPEEDS, 'loops');
 printFigure(`  main thread only (median of ${RUNS})`, median(runs.main), 'ms');
 printFigure('  main thread only, loops per second (median)', (loops / median(runs.main)) * 1000, 'loops/s');
@@ -72,12 +87,18 @@ printFigure('  loops per CPU second (median)', (loops / median(runs.cpu)) * 1000
 
 // Time-domain figures over the set at the breakpoints (the margins' search at each breakpoint not counted).
 const context = { model, loop, controller, set, search: variations.search };
-const settings = { limits: schedule.check.timeDomain.limits, vehicleLimits: schedule.check.timeDomain.steeringLimits, antiWindup: schedule.controller.antiWindup };
+const settings = {
+  limits: schedule.check.timeDomain.limits,
+  vehicleLimits: schedule.check.timeDomain.steeringLimits,
+  antiWindup: schedule.controller.antiWindup,
+};
 const points = schedule.breakpoints.map((row) => lib.worstCaseMarginsAt(row.speed_mps, row, context));
 let vehicles = 0;
 const timeDomain = await timeMs(async () => {
   vehicles = 0;
-  schedule.breakpoints.forEach((row, k) => (vehicles += lib.worstTimeDomainAt(points[k], lib.breakpointControl(row.speed_mps, row, row), context, settings)?.vehicles ?? 0));
+  schedule.breakpoints.forEach(
+    (row, k) => (vehicles += lib.worstTimeDomainAt(points[k], lib.breakpointControl(row.speed_mps, row, row), context, settings)?.vehicles ?? 0),
+  );
 });
 printFigure(`time-domain figures over the set at ${schedule.breakpoints.length} breakpoints`, timeDomain, 'ms');
 printFigure('  vehicles simulated', vehicles, 'vehicles');

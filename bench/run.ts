@@ -35,7 +35,11 @@ for (const name of files) {
   const load = loadavg()[0].toFixed(1);
   let output: string;
   try {
-    output = execFileSync(process.execPath, ['--import', 'tsx', join(here, name)], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'inherit'], maxBuffer: 64 * 2 ** 20 });
+    output = execFileSync(process.execPath, ['--import', 'tsx', join(here, name)], {
+      encoding: 'utf8',
+      stdio: ['ignore', 'pipe', 'inherit'],
+      maxBuffer: 64 * 2 ** 20,
+    });
   } catch (error) {
     // One failing bench does not stop the others; its section says so and the run ends with exit 1.
     const stdout = (error as { stdout?: string }).stdout ?? '';
@@ -53,6 +57,9 @@ const header = [
   'measured; a shared machine varies ±20 % from run to run, so compare versions with interleaved runs.',
   '',
 ].join('\n');
-const body = [...sections.keys()].sort().map((name) => sections.get(name)).join('\n');
+const body = [...sections.keys()]
+  .sort()
+  .map((name) => sections.get(name))
+  .join('\n');
 writeFileAtomic(resultsPath, `${header}\n${body}`, true);
 process.stdout.write(`\nwrote ${resultsPath}\n`);

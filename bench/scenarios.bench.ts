@@ -44,13 +44,14 @@ for (let k = 0; k < 5; k++) warm.push(await timeMs(() => void checkOnce()));
 warm.sort((p, q) => p - q);
 printFigure(`scenario check, ${speeds} speeds + 2 speed changes, in-process, first call (cold)`, cold, 'ms', '< 1000 ms');
 printFigure('scenario check, in-process, warm, median of 5', warm[2], 'ms', '< 1000 ms');
-const certificate = await timeMs(() =>
-  void speedChangeCertificate({
-    vehicle: { parameters, ...steeringLimits },
-    controller: scheduleScenarioController(schedule),
-    context: { loop: schedule.loop.kind, parameters, maxSteerAngle_rad: vehicle.maxSteerAngle_rad, range: schedule.check.range },
-    limits,
-  }),
+const certificate = await timeMs(
+  () =>
+    void speedChangeCertificate({
+      vehicle: { parameters, ...steeringLimits },
+      controller: scheduleScenarioController(schedule),
+      context: { loop: schedule.loop.kind, parameters, maxSteerAngle_rad: vehicle.maxSteerAngle_rad, range: schedule.check.range },
+      limits,
+    }),
 );
 printFigure('speed-change certificate, in-process, warm', certificate, 'ms');
 
@@ -61,7 +62,20 @@ const withRuns: ReturnType<typeof measureProcess>[] = [];
 const withoutRuns: ReturnType<typeof measureProcess>[] = [];
 for (let k = 0; k < RUNS; k++) {
   withRuns.push(measureProcess(process.execPath, ['bin/speedband.js', 'build', '--vehicle', VAN, '--logs', ...logs, '--out', join(work, `with-${k}.json`)]));
-  withoutRuns.push(measureProcess(process.execPath, ['bin/speedband.js', 'build', '--vehicle', VAN, '--logs', ...logs, '--plan', withoutScenarios, '--out', join(work, `without-${k}.json`)]));
+  withoutRuns.push(
+    measureProcess(process.execPath, [
+      'bin/speedband.js',
+      'build',
+      '--vehicle',
+      VAN,
+      '--logs',
+      ...logs,
+      '--plan',
+      withoutScenarios,
+      '--out',
+      join(work, `without-${k}.json`),
+    ]),
+  );
 }
 const sorted = (runs: ReturnType<typeof measureProcess>[]): number[] => runs.map(wall).sort((p, q) => p - q);
 printFigure(`build with the scenarios, parcel van, whole process, median of ${RUNS}`, sorted(withRuns)[2], 'ms', '< 1500 ms');

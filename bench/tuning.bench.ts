@@ -36,14 +36,28 @@ printFigure('design model from the single-track model (two-point FOPDT)', design
 
 const lumpedMs = await timeMs(() => {
   for (const speed of speeds) {
-    tuneOperatingPoint({ loop: { kind: 'yaw-rate' }, speed_mps: speed, model: { kind: 'lumped', yawRate: { kind: 'fopdt', gain: 0.3 * speed, timeConstant_s: 0.15, deadTime_s: 0.08 } }, rule: 'simc', ruleParameters: {}, controller });
+    tuneOperatingPoint({
+      loop: { kind: 'yaw-rate' },
+      speed_mps: speed,
+      model: { kind: 'lumped', yawRate: { kind: 'fopdt', gain: 0.3 * speed, timeConstant_s: 0.15, deadTime_s: 0.08 } },
+      rule: 'simc',
+      ruleParameters: {},
+      controller,
+    });
   }
 });
 printFigure('tuneOperatingPoint, lumped FOPDT, yaw-rate SIMC', lumpedMs / speeds.length, 'ms/point');
 
 const singleTrackMs = await timeMs(() => {
   for (const speed of speeds) {
-    tuneOperatingPoint({ loop: { kind: 'path', preview_m: 2 }, speed_mps: speed, model: { kind: 'single-track', parameters: van }, rule: 'damping-target', ruleParameters: {}, controller });
+    tuneOperatingPoint({
+      loop: { kind: 'path', preview_m: 2 },
+      speed_mps: speed,
+      model: { kind: 'single-track', parameters: van },
+      rule: 'damping-target',
+      ruleParameters: {},
+      controller,
+    });
   }
 });
 printFigure('tuneOperatingPoint, single-track, path damping-target', singleTrackMs / speeds.length, 'ms/point');

@@ -26,7 +26,14 @@ printFigure('simulateSingleTrack, one 60 s run at 100 Hz', linear_ms / runs, 'ms
 const bigSteps = Float64Array.from(time_s, (t) => (Math.floor(t / 2) % 2 === 0 ? -0.3 : 0.3));
 const limited_ms = await timeMs(() => {
   for (let run = 0; run < runs; run += 1)
-    simulateSingleTrack({ params: { ...params, actuatorDelay_s: 0.055 }, speed_mps: 12, time_s, steerCommand_rad: bigSteps, maxSteerRate_radps: 0.5, maxSteerAngle_rad: 0.6 });
+    simulateSingleTrack({
+      params: { ...params, actuatorDelay_s: 0.055 },
+      speed_mps: 12,
+      time_s,
+      steerCommand_rad: bigSteps,
+      maxSteerRate_radps: 0.5,
+      maxSteerAngle_rad: 0.6,
+    });
 });
 printFigure('simulateSingleTrack, fractional delay, rate limit binding', (runs * count) / (limited_ms / 1000) / 1e6, 'M samples/s');
 

@@ -7,7 +7,10 @@ import { analyseLoop, analyseOpenLoop, openLoopOf } from '../src/verify/index.js
 // The machine may be shared: each figure is the best of 7 batches of 1,000 loops (the usual
 // way to read a micro-benchmark on a busy machine), with the median batch beside it.
 const cases = {
-  'FOPDT + PID (N = 10)': openLoopOf({ plant: { numerator: [1.8], denominator: [0.4, 1], delay_s: 0.08 }, pid: { kp: 0.9, ki: 2, kd: 0.03, derivativeFilter: 10 } }),
+  'FOPDT + PID (N = 10)': openLoopOf({
+    plant: { numerator: [1.8], denominator: [0.4, 1], delay_s: 0.08 },
+    pid: { kp: 0.9, ki: 2, kd: 0.03, derivativeFilter: 10 },
+  }),
   'double integrator + SIMC PID (N = 10)': openLoopOf({
     plant: { numerator: [1], denominator: [1, 0, 0], delay_s: 1 },
     pid: { kp: 1 / 16, ki: 8, kd: 8, form: 'series', derivativeFilter: 10 },
@@ -37,5 +40,7 @@ for (const [name, loop] of Object.entries(cases)) {
   printFigure(`  median batch`, median_ms, 'ms');
   printFigure(`  loops per second (best batch)`, 1000 / best_ms, '/s', '≥ 5,000/s');
 }
-const built = batches((i) => analyseLoop({ plant: { numerator: [1.8], denominator: [0.4, 1], delay_s: 0.08 }, pid: { kp: 0.9 + (i % 100) * 1e-3, ki: 2, kd: 0.03 } }));
+const built = batches((i) =>
+  analyseLoop({ plant: { numerator: [1.8], denominator: [0.4, 1], delay_s: 0.08 }, pid: { kp: 0.9 + (i % 100) * 1e-3, ki: 2, kd: 0.03 } }),
+);
 printFigure('analyseLoop (building the loop too), per loop (best batch)', built.best_ms, 'ms');

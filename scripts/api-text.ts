@@ -42,7 +42,16 @@ function declarationIn(text: string, name: string, module: string): { kind: ApiE
     .replace(/\s+/g, ' ')
     .trim();
   const isArrow = match[2] !== undefined && new RegExp(`^export const ${name}\\b[^=]*=\\s*(?:async\\s*)?(?:<[^>]*>)?\\(`, 'm').test(text);
-  const kind: ApiEntry['kind'] = match[1] !== undefined || text.slice(match.index, match.index + 200).includes('function') && match[2] === undefined ? 'function' : match[3] !== undefined ? 'type' : match[4] !== undefined ? 'class' : isArrow ? 'function' : 'constant';
+  const kind: ApiEntry['kind'] =
+    match[1] !== undefined || (text.slice(match.index, match.index + 200).includes('function') && match[2] === undefined)
+      ? 'function'
+      : match[3] !== undefined
+        ? 'type'
+        : match[4] !== undefined
+          ? 'class'
+          : isArrow
+            ? 'function'
+            : 'constant';
   return { kind, summary };
 }
 
@@ -55,8 +64,14 @@ export function apiGroups(): ApiGroup[] {
     if (match[1] !== undefined || groups.length === 0) groups.push({ title: match[1] ?? 'General', entries: [] });
     const module = `${match[4]}.ts`;
     const text = readFileSync(join(ROOT, 'src', module), 'utf8');
-    for (const item of match[3].split(',').map((part) => part.trim()).filter((part) => part !== '')) {
-      const name = item.replace(/^type\s+/, '').split(/\s+as\s+/).pop()!;
+    for (const item of match[3]
+      .split(',')
+      .map((part) => part.trim())
+      .filter((part) => part !== '')) {
+      const name = item
+        .replace(/^type\s+/, '')
+        .split(/\s+as\s+/)
+        .pop()!;
       const local = item.replace(/^type\s+/, '').split(/\s+as\s+/)[0];
       const found = declarationIn(text, local, module);
       groups[groups.length - 1].entries.push({ name, module, ...found });

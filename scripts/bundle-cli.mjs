@@ -39,7 +39,13 @@ const mathjsChunk = {
   setup(bundler) {
     bundler.onResolve({ filter: /^mathjs(\/.*)?$/ }, (args) => {
       if (args.kind !== 'dynamic-import' || args.path !== 'mathjs') {
-        return { errors: [{ text: `${args.importer} imports "${args.path}" statically (${args.kind}): load mathjs only with \`await import('mathjs')\` (src/core/mathjs.ts)` }] };
+        return {
+          errors: [
+            {
+              text: `${args.importer} imports "${args.path}" statically (${args.kind}): load mathjs only with \`await import('mathjs')\` (src/core/mathjs.ts)`,
+            },
+          ],
+        };
       }
       return { path: MATHJS_CHUNK, external: true };
     });
@@ -63,11 +69,23 @@ const reportChunk = {
     bundler.onResolve({ filter: /render[\\/]index\.js$/ }, (args) => {
       if (!REPORT_RENDERER.test(`${args.resolveDir}/${args.path}`.replace(/\/\.\//g, '/'))) return undefined;
       if (args.kind !== 'dynamic-import') {
-        return { errors: [{ text: `${args.importer} imports the report renderer statically (${args.kind}): load it only with \`await import('./render/index.js')\` (src/report/write-report.ts)` }] };
+        return {
+          errors: [
+            {
+              text: `${args.importer} imports the report renderer statically (${args.kind}): load it only with \`await import('./render/index.js')\` (src/report/write-report.ts)`,
+            },
+          ],
+        };
       }
       return { path: REPORT_CHUNK, external: true };
     });
-    bundler.onResolve({ filter: D3 }, (args) => ({ errors: [{ text: `${args.importer} imports "${args.path}" into the main bundle: d3 belongs to the report renderer (src/report/render/), loaded as its own chunk` }] }));
+    bundler.onResolve({ filter: D3 }, (args) => ({
+      errors: [
+        {
+          text: `${args.importer} imports "${args.path}" into the main bundle: d3 belongs to the report renderer (src/report/render/), loaded as its own chunk`,
+        },
+      ],
+    }));
   },
 };
 
@@ -77,9 +95,13 @@ const reportBuild = await build({
   outfile: 'dist/cli/report.bundle.js',
   metafile: true,
 });
-const strays = Object.keys(reportBuild.metafile.inputs).filter((input) => !/^dist\/report\/render\//.test(input) && !/node_modules\/(d3-[a-z-]+|internmap)\//.test(input));
+const strays = Object.keys(reportBuild.metafile.inputs).filter(
+  (input) => !/^dist\/report\/render\//.test(input) && !/node_modules\/(d3-[a-z-]+|internmap)\//.test(input),
+);
 if (strays.length > 0) {
-  throw new Error(`the report chunk may hold only src/report/render/ and d3, but also bundles: ${strays.join(', ')} — pass what the renderer needs in ReportData instead of importing it`);
+  throw new Error(
+    `the report chunk may hold only src/report/render/ and d3, but also bundles: ${strays.join(', ')} — pass what the renderer needs in ReportData instead of importing it`,
+  );
 }
 
 await build({

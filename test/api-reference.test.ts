@@ -21,8 +21,13 @@ describe('docs/api.md, the library API reference', () => {
   });
 
   it('src/index.ts only re-exports, and the package exposes the root and, by module path, the internals', () => {
-    const code = readFileSync(API_ENTRY, 'utf8').replace(/\/\*[\s\S]*?\*\//g, '').replace(/^\/\/.*$/gm, '');
-    const statements = code.split(';').map((text) => text.trim()).filter((text) => text !== '');
+    const code = readFileSync(API_ENTRY, 'utf8')
+      .replace(/\/\*[\s\S]*?\*\//g, '')
+      .replace(/^\/\/.*$/gm, '');
+    const statements = code
+      .split(';')
+      .map((text) => text.trim())
+      .filter((text) => text !== '');
     for (const statement of statements) expect(statement).toMatch(/^export (type )?\{[^}]*\} from '\.\/[a-z/-]+\.js'$/);
     const pkg = JSON.parse(readFileSync('package.json', 'utf8')) as { exports: Record<string, unknown> };
     expect(Object.keys(pkg.exports).sort()).toEqual(['.', './internal/*', './package.json']);

@@ -53,7 +53,8 @@ describe('layering of src/ (import graph)', () => {
         if (!target.startsWith(`src${sep}`)) continue;
         const to = folderOf(target);
         if (to === from || !target.slice(4).includes(sep)) continue;
-        if (!(LAYERS[to] < LAYERS[from])) upward.push(`${relative('.', file)} (${from}, layer ${LAYERS[from]}) imports ${match[1]} (${to}, layer ${LAYERS[to]})`);
+        if (!(LAYERS[to] < LAYERS[from]))
+          upward.push(`${relative('.', file)} (${from}, layer ${LAYERS[from]}) imports ${match[1]} (${to}, layer ${LAYERS[to]})`);
       }
     }
     expect(upward).toEqual([]);

@@ -18,7 +18,11 @@ const manifest = JSON.parse(readFileSync(join(ROOT, 'package.json'), 'utf8')) as
 };
 
 /** The package a bare import specifier names ('ajv/dist/x' → 'ajv', '@types/node' → '@types/node'). */
-const packageOf = (specifier: string): string => specifier.split('/').slice(0, specifier.startsWith('@') ? 2 : 1).join('/');
+const packageOf = (specifier: string): string =>
+  specifier
+    .split('/')
+    .slice(0, specifier.startsWith('@') ? 2 : 1)
+    .join('/');
 const isBuiltin = (specifier: string): boolean => specifier.startsWith('node:') || builtinModules.includes(specifier);
 
 interface PackageImport {
@@ -75,7 +79,7 @@ describe('run-time dependencies (package.json "dependencies") match the import g
     expect(imports.get('jsonc-parser')).toEqual([{ importer: 'src/core/json-text.ts', kind: 'import-statement' }]);
   });
 
-  it('d3 (the report\'s plots) is imported by the report renderer alone, and the renderer only dynamically, by write-report.ts: no other command loads it', () => {
+  it("d3 (the report's plots) is imported by the report renderer alone, and the renderer only dynamically, by write-report.ts: no other command loads it", () => {
     const d3 = [...imports.entries()].filter(([name]) => name.startsWith('d3-'));
     expect(d3.map(([name]) => name).sort()).toEqual(['d3-array', 'd3-scale', 'd3-shape']);
     for (const [, found] of d3) for (const entry of found) expect(entry.importer).toMatch(/^src\/report\/render\//);
@@ -108,7 +112,8 @@ describe('development dependencies are each used by the tests, benchmarks, scrip
     const sources = [...filesUnder('test'), ...filesUnder('bench'), ...filesUnder('scripts'), 'vitest.config.ts']
       .map((path) => readFileSync(join(ROOT, path), 'utf8'))
       .join('\n');
-    const tsconfigTypes = (JSON.parse(readFileSync(join(ROOT, 'tsconfig.json'), 'utf8')) as { compilerOptions: { types?: string[] } }).compilerOptions.types ?? [];
+    const tsconfigTypes =
+      (JSON.parse(readFileSync(join(ROOT, 'tsconfig.json'), 'utf8')) as { compilerOptions: { types?: string[] } }).compilerOptions.types ?? [];
     const scripts = Object.values(manifest.scripts).join(' ');
     const unused = Object.keys(manifest.devDependencies).filter((name) => {
       const installed = JSON.parse(readFileSync(join(ROOT, 'node_modules', name, 'package.json'), 'utf8')) as { bin?: string | Record<string, string> };

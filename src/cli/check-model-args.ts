@@ -31,7 +31,9 @@ export async function checkModelFromArgs(
   const vehicle = loadVehicle(vehicleFile);
   const notes: string[] = [];
   if (sha256Hex(readFileBytes(vehicleFile)) !== schedule.vehicle.sha256) {
-    notes.push(`note: ${vehicleFile} differs from the vehicle file the schedule was built with (${quoted(schedule.vehicle.file)}) — checking against the file given`);
+    notes.push(
+      `note: ${vehicleFile} differs from the vehicle file the schedule was built with (${quoted(schedule.vehicle.file)}) — checking against the file given`,
+    );
   }
   if (vehicle.name !== schedule.vehicle.name) {
     notes.push(`note: the schedule was built for vehicle ${quoted(schedule.vehicle.name)}, the vehicle file given is ${quoted(vehicle.name)}`);

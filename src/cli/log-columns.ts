@@ -34,5 +34,7 @@ export async function logColumnsFromArgs(args: LogColumnArgs): Promise<ColumnMap
 
 /** The input files named by the given options (those that were given), with their role, for checkOutputPaths. */
 export function optionalInputs<A extends object>(args: A, options: readonly (readonly [string, string])[]): { path: string; role: string }[] {
-  return options.filter(([option]) => (args as Record<string, unknown>)[option] !== undefined).map(([option, role]) => ({ path: String((args as Record<string, unknown>)[option]), role }));
+  return options
+    .filter(([option]) => (args as Record<string, unknown>)[option] !== undefined)
+    .map(([option, role]) => ({ path: String((args as Record<string, unknown>)[option]), role }));
 }

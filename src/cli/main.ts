@@ -65,7 +65,13 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
   } catch (error) {
     const json = wantsJson(argv);
     if (error instanceof UsageError) {
-      return reportError(io, json, EXIT.badInput, { code: 'cli.usage', message: safeMessageText(error.message), location: {} }, `speedband: ${safeMessageText(error.message)}`);
+      return reportError(
+        io,
+        json,
+        EXIT.badInput,
+        { code: 'cli.usage', message: safeMessageText(error.message), location: {} },
+        `speedband: ${safeMessageText(error.message)}`,
+      );
     }
     if (isSpeedbandError(error)) {
       const report = { code: error.code, message: safeMessageText(error.message), location: error.location };
@@ -73,7 +79,13 @@ export async function runCli(argv: readonly string[], io: CommandIo = processIo,
       return reportError(io, json && error.code !== 'output.stdoutFailed', exitCodeForError(error.code), report, `speedband: ${describeError(error)}`);
     }
     const stack = safeMessageText((error as Error).stack ?? String(error));
-    return reportError(io, json, EXIT.internal, { code: 'internal', message: `internal error — please report it with the command you ran: ${stack}`, location: {} }, `speedband: internal error — please report it with the command you ran:\n${stack}`);
+    return reportError(
+      io,
+      json,
+      EXIT.internal,
+      { code: 'internal', message: `internal error — please report it with the command you ran: ${stack}`, location: {} },
+      `speedband: internal error — please report it with the command you ran:\n${stack}`,
+    );
   }
 }
 
@@ -106,7 +118,9 @@ function reportError(io: CommandIo, json: boolean, exitCode: number, error: { co
 
 /** The exit codes of a command, for its --help. */
 function exitCodesText(module: CommandModule): string {
-  const lines = [...module.exitCodes, [3, 'a bug in speedband: please report it with the command you ran'] as const].map(([code, meaning]) => `  ${code}  ${meaning}`);
+  const lines = [...module.exitCodes, [3, 'a bug in speedband: please report it with the command you ran'] as const].map(
+    ([code, meaning]) => `  ${code}  ${meaning}`,
+  );
   return `Exit codes:\n${lines.join('\n')}`;
 }
 

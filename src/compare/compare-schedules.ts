@@ -25,7 +25,10 @@ import type {
 
 const GAINS = ['kp', 'ki', 'kd'] as const;
 
-const NOT_CHECKED: OldGainsOnNewVehicle = { available: false, reason: 'not checked (the caller gave no dense check of the old gains on the new vehicle model)' };
+const NOT_CHECKED: OldGainsOnNewVehicle = {
+  available: false,
+  reason: 'not checked (the caller gave no dense check of the old gains on the new vehicle model)',
+};
 const FLAGGED_MARGINS = ['lowerGainMargin_dB', 'upperGainMargin_dB', 'phaseMargin_deg'] as const;
 type FlaggedMargin = (typeof FLAGGED_MARGINS)[number];
 
@@ -115,7 +118,12 @@ function speedFlags(row: ComparedSpeed, thresholds: CompareThresholds): Comparis
 function worstChange(old: ScheduleFile, next: ScheduleFile, name: FlaggedMargin, thresholds: CompareThresholds): WorstMarginChange {
   const before = old.check.worst[name];
   const after = next.check.worst[name];
-  const change = marginChange(before?.value ?? null, after?.value ?? null, name === 'lowerGainMargin_dB' ? 'towardZero' : 'decrease', marginDrop(name, thresholds));
+  const change = marginChange(
+    before?.value ?? null,
+    after?.value ?? null,
+    name === 'lowerGainMargin_dB' ? 'towardZero' : 'decrease',
+    marginDrop(name, thresholds),
+  );
   return { old: before, new: after, change: change.change, flagged: change.flagged };
 }
 
@@ -162,14 +170,18 @@ export function compareSchedules(
   if (oldGainsOnNewVehicle.available && !oldGainsOnNewVehicle.passed) {
     flags.push({ kind: 'oldGainsFailOnNewVehicle', speed_mps: null, quantity: 'oldGainsOnNewVehicle', message: oldGainsFlagMessage(oldGainsOnNewVehicle) });
   }
-  flags.push(...settings.map((change): ComparisonFlag => ({
-    kind: 'settingChanged',
-    speed_mps: null,
-    quantity: change.setting,
-    message: `${change.setting}: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${
-      change.breaksGainComparison ? ' — the gains are not comparable one by one; compare the margins and re-verify the new schedule' : ''
-    }`,
-  })));
+  flags.push(
+    ...settings.map(
+      (change): ComparisonFlag => ({
+        kind: 'settingChanged',
+        speed_mps: null,
+        quantity: change.setting,
+        message: `${change.setting}: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${
+          change.breaksGainComparison ? ' — the gains are not comparable one by one; compare the margins and re-verify the new schedule' : ''
+        }`,
+      }),
+    ),
+  );
   if (commonRange === null) {
     flags.push({
       kind: 'noCommonSpeeds',
@@ -189,8 +201,14 @@ export function compareSchedules(
     const change = worst[name];
     if (!change.flagged) continue;
     const words = MARGIN_WORDS[name];
-    const where = (value: { value: number; speed_mps: number } | null) => (value === null ? 'none' : `${shown(value.value)} ${words.unit} at ${shownSpeed(value.speed_mps)} m/s`);
-    flags.push({ kind: words.kind, speed_mps: null, quantity: `worst ${name}`, message: `worst ${words.name} of the dense check: ${where(change.old)} → ${where(change.new)}` });
+    const where = (value: { value: number; speed_mps: number } | null) =>
+      value === null ? 'none' : `${shown(value.value)} ${words.unit} at ${shownSpeed(value.speed_mps)} m/s`;
+    flags.push({
+      kind: words.kind,
+      speed_mps: null,
+      quantity: `worst ${name}`,
+      message: `worst ${words.name} of the dense check: ${where(change.old)} → ${where(change.new)}`,
+    });
   }
   if (old.status === 'passed' && next.status === 'failed') {
     const overSet = next.check.passed && next.variations !== undefined;

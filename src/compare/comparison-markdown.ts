@@ -46,13 +46,22 @@ export function comparisonMarkdown(comparison: ScheduleComparison, oldName: stri
     `- flagged when: ${thresholdsText(comparison)}`,
     '',
   ];
-  if (!comparison.gainsComparable) lines.push('> The gains are **not comparable one by one**: a loop or controller setting changed (see Settings). Margins are still compared.', '');
+  if (!comparison.gainsComparable)
+    lines.push('> The gains are **not comparable one by one**: a loop or controller setting changed (see Settings). Margins are still compared.', '');
   if (comparison.speeds.length > 0) {
     lines.push('### Gains and margins', '', ...markdownTable(SPEED_TABLE_HEADER, comparison.speeds.map(speedRow)), '');
-    if (!comparison.sameBreakpoints) lines.push('"breakpoint of" names whose table row a speed is; the other schedule is read through its own lookup and its margins are interpolated linearly between its breakpoints.', '');
+    if (!comparison.sameBreakpoints)
+      lines.push(
+        '"breakpoint of" names whose table row a speed is; the other schedule is read through its own lookup and its margins are interpolated linearly between its breakpoints.',
+        '',
+      );
   }
   const { old_mps, new_mps } = comparison.notCompared;
-  if (old_mps.length + new_mps.length > 0) lines.push(`Not compared (outside the common range): old ${old_mps.map(shownSpeed).join(', ') || 'none'}; new ${new_mps.map(shownSpeed).join(', ') || 'none'} m/s.`, '');
+  if (old_mps.length + new_mps.length > 0)
+    lines.push(
+      `Not compared (outside the common range): old ${old_mps.map(shownSpeed).join(', ') || 'none'}; new ${new_mps.map(shownSpeed).join(', ') || 'none'} m/s.`,
+      '',
+    );
   lines.push('### Worst margins of each dense check', '', ...markdownTable(WORST_HEADER, worstRows(comparison)), '');
   lines.push('### Model drift', '');
   if (comparison.modelDrift.available) lines.push(...markdownTable(DRIFT_HEADER, driftRows(comparison)), '');
@@ -64,7 +73,15 @@ export function comparisonMarkdown(comparison: ScheduleComparison, oldName: stri
     if (rows.length > 0) lines.push(...markdownTable(VARIATIONS_HEADER, rows), '');
   }
   if (comparison.settingChanges.length > 0) {
-    lines.push('### Settings', '', ...comparison.settingChanges.map((change) => `- \`${change.setting}\`: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${change.breaksGainComparison ? ' (gains not comparable)' : ''}`), '');
+    lines.push(
+      '### Settings',
+      '',
+      ...comparison.settingChanges.map(
+        (change) =>
+          `- \`${change.setting}\`: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${change.breaksGainComparison ? ' (gains not comparable)' : ''}`,
+      ),
+      '',
+    );
   }
   lines.push('### Flags', '');
   if (comparison.flags.length === 0) lines.push('None.');

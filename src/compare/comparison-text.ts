@@ -46,11 +46,22 @@ export function comparisonText(comparison: ScheduleComparison, oldName: string, 
   }
   const { old_mps, new_mps } = comparison.notCompared;
   if (old_mps.length + new_mps.length > 0) {
-    lines.push(`Not compared (outside the common range): old ${old_mps.map(shownSpeed).join(', ') || 'none'}; new ${new_mps.map(shownSpeed).join(', ') || 'none'} m/s`, '');
+    lines.push(
+      `Not compared (outside the common range): old ${old_mps.map(shownSpeed).join(', ') || 'none'}; new ${new_mps.map(shownSpeed).join(', ') || 'none'} m/s`,
+      '',
+    );
   }
-  lines.push('Worst margins of each dense check:', ...alignedTable([[...WORST_HEADER], ...worstRows(comparison)], [false, false, false, false]).map((line) => `  ${line}`), '');
+  lines.push(
+    'Worst margins of each dense check:',
+    ...alignedTable([[...WORST_HEADER], ...worstRows(comparison)], [false, false, false, false]).map((line) => `  ${line}`),
+    '',
+  );
   if (comparison.modelDrift.available) {
-    lines.push('Model drift (single-track fit behind each schedule):', ...alignedTable([[...DRIFT_HEADER], ...driftRows(comparison)], [false, true, true, true, true]).map((line) => `  ${line}`), '');
+    lines.push(
+      'Model drift (single-track fit behind each schedule):',
+      ...alignedTable([[...DRIFT_HEADER], ...driftRows(comparison)], [false, true, true, true, true]).map((line) => `  ${line}`),
+      '',
+    );
   } else {
     lines.push(`Model drift: not available — ${comparison.modelDrift.reason}.`, '');
   }
@@ -62,7 +73,14 @@ export function comparisonText(comparison: ScheduleComparison, oldName: string, 
     lines.push('');
   }
   if (comparison.settingChanges.length > 0) {
-    lines.push('Settings changed:', ...comparison.settingChanges.map((change) => `  ${change.setting}: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${change.breaksGainComparison ? ' (gains not comparable)' : ''}`), '');
+    lines.push(
+      'Settings changed:',
+      ...comparison.settingChanges.map(
+        (change) =>
+          `  ${change.setting}: ${String(change.old ?? 'none')} → ${String(change.new ?? 'none')}${change.breaksGainComparison ? ' (gains not comparable)' : ''}`,
+      ),
+      '',
+    );
   }
   if (comparison.flags.length > 0) {
     lines.push('Flags:', ...comparison.flags.map((flag) => `  - ${flag.message}`), '');

@@ -7,7 +7,17 @@ import type { ControllerSettings } from '../controller/types.js';
 import { shown, shownPercent, shownSpeed } from './format.js';
 import type { ComparedSpeed, GainChange, MarginChange, ScheduleComparison, WorstCaseSide } from './types.js';
 
-export const SPEED_TABLE_HEADER = ['speed m/s', 'breakpoint of', 'kp old → new', 'ki old → new', 'kd old → new', 'upper GM dB', 'lower GM dB', 'PM °', 'flags'] as const;
+export const SPEED_TABLE_HEADER = [
+  'speed m/s',
+  'breakpoint of',
+  'kp old → new',
+  'ki old → new',
+  'kd old → new',
+  'upper GM dB',
+  'lower GM dB',
+  'PM °',
+  'flags',
+] as const;
 
 /** Columns right-aligned in the speed table. */
 export const SPEED_TABLE_RIGHT = [true, false, false, false, false, false, false, false, false] as const;
@@ -59,34 +69,60 @@ export const DRIFT_HEADER = ['parameter', 'old', 'new', 'change', 'change %'] as
 
 export function driftRows(comparison: ScheduleComparison): string[][] {
   if (!comparison.modelDrift.available) return [];
-  return comparison.modelDrift.parameters.map((parameter) => [parameter.name, shown(parameter.old), shown(parameter.new), shown(parameter.change), shownPercent(parameter.change_pct)]);
+  return comparison.modelDrift.parameters.map((parameter) => [
+    parameter.name,
+    shown(parameter.old),
+    shown(parameter.new),
+    shown(parameter.change),
+    shownPercent(parameter.change_pct),
+  ]);
 }
 
 export const WORST_HEADER = ['worst of dense check', 'old', 'new', 'flag'] as const;
 
 export function worstRows(comparison: ScheduleComparison): string[][] {
-  const cell = (value: { value: number; speed_mps: number } | null, unit: string) => (value === null ? '—' : `${shown(value.value, 3)} ${unit} at ${shownSpeed(value.speed_mps)} m/s`);
+  const cell = (value: { value: number; speed_mps: number } | null, unit: string) =>
+    value === null ? '—' : `${shown(value.value, 3)} ${unit} at ${shownSpeed(value.speed_mps)} m/s`;
   const { worst } = comparison;
   return [
-    ['upper gain margin', cell(worst.upperGainMargin_dB.old, 'dB'), cell(worst.upperGainMargin_dB.new, 'dB'), worst.upperGainMargin_dB.flagged ? 'flagged' : ''],
-    ['lower gain margin', cell(worst.lowerGainMargin_dB.old, 'dB'), cell(worst.lowerGainMargin_dB.new, 'dB'), worst.lowerGainMargin_dB.flagged ? 'flagged' : ''],
+    [
+      'upper gain margin',
+      cell(worst.upperGainMargin_dB.old, 'dB'),
+      cell(worst.upperGainMargin_dB.new, 'dB'),
+      worst.upperGainMargin_dB.flagged ? 'flagged' : '',
+    ],
+    [
+      'lower gain margin',
+      cell(worst.lowerGainMargin_dB.old, 'dB'),
+      cell(worst.lowerGainMargin_dB.new, 'dB'),
+      worst.lowerGainMargin_dB.flagged ? 'flagged' : '',
+    ],
     ['phase margin', cell(worst.phaseMargin_deg.old, '°'), cell(worst.phaseMargin_deg.new, '°'), worst.phaseMargin_deg.flagged ? 'flagged' : ''],
   ];
 }
 
-export const VARIATIONS_HEADER = ['speed m/s', 'old gains: PM ° / upper GM dB / Ms', 'new gains: PM ° / upper GM dB / Ms', 'old gains vs limits', 'new gains vs limits'] as const;
+export const VARIATIONS_HEADER = [
+  'speed m/s',
+  'old gains: PM ° / upper GM dB / Ms',
+  'new gains: PM ° / upper GM dB / Ms',
+  'old gains vs limits',
+  'new gains vs limits',
+] as const;
 
 /** A schedule's worst case at one speed: "41.4 / 10.32 / 1.821", or "unstable". */
 function worstCell(side: WorstCaseSide): string {
   if (side.instability !== null) return `${side.instability.verdict}`;
-  return [side.worst.phaseMargin_deg, side.worst.upperGainMargin_dB, side.worst.sensitivityPeak].map((figure) => (figure === null ? '—' : shown(figure.value, 3))).join(' / ');
+  return [side.worst.phaseMargin_deg, side.worst.upperGainMargin_dB, side.worst.sensitivityPeak]
+    .map((figure) => (figure === null ? '—' : shown(figure.value, 3)))
+    .join(' / ');
 }
 
 /** Rows of the worst case over the new vehicle's variations (empty when not available). */
 export function variationsRows(comparison: ScheduleComparison): string[][] {
   const variations = comparison.overVariations;
   if (variations === undefined || !variations.available) return [];
-  const verdict = (side: WorstCaseSide): string => (side.failures.length === 0 ? 'within' : `FAIL: ${side.failures.length} limit${side.failures.length === 1 ? '' : 's'}`);
+  const verdict = (side: WorstCaseSide): string =>
+    side.failures.length === 0 ? 'within' : `FAIL: ${side.failures.length} limit${side.failures.length === 1 ? '' : 's'}`;
   return variations.speeds.map((row) => [shownSpeed(row.speed_mps), worstCell(row.old), worstCell(row.new), verdict(row.old), verdict(row.new)]);
 }
 
@@ -110,9 +146,13 @@ export function thresholdsText(comparison: ScheduleComparison): string {
 /** One line: how many speeds were compared and what was flagged. */
 export function summaryLine(comparison: ScheduleComparison): string {
   const compared = comparison.speeds.length;
-  const range = comparison.commonRange === null ? 'no common speeds' : `${shownSpeed(comparison.commonRange.minimum_mps)}–${shownSpeed(comparison.commonRange.maximum_mps)} m/s`;
+  const range =
+    comparison.commonRange === null
+      ? 'no common speeds'
+      : `${shownSpeed(comparison.commonRange.minimum_mps)}–${shownSpeed(comparison.commonRange.maximum_mps)} m/s`;
   if (comparison.flags.length === 0) return `Nothing flagged: ${compared} speeds compared (${range}).`;
-  const speedsWith = (kinds: readonly string[]) => new Set(comparison.flags.filter((flag) => flag.speed_mps !== null && kinds.includes(flag.kind)).map((flag) => flag.speed_mps)).size;
+  const speedsWith = (kinds: readonly string[]) =>
+    new Set(comparison.flags.filter((flag) => flag.speed_mps !== null && kinds.includes(flag.kind)).map((flag) => flag.speed_mps)).size;
   const parts: string[] = [];
   const gains = speedsWith(['gainChange']);
   const margins = speedsWith(['upperGainMarginDrop', 'lowerGainMarginCloser', 'phaseMarginDrop', 'stabilityLost']);
@@ -132,5 +172,7 @@ export function summaryLine(comparison: ScheduleComparison): string {
 /** The controller settings the gains assume: one line when both schedules share them, else one per schedule. */
 export function controllerLines(old: ControllerSettings, next: ControllerSettings): string[] {
   const [before, after] = [describeControllerSettings(old), describeControllerSettings(next)];
-  return before === after ? [`controller the gains assume (both): ${after}`] : [`controller the old gains assume: ${before}`, `controller the new gains assume: ${after}`];
+  return before === after
+    ? [`controller the gains assume (both): ${after}`]
+    : [`controller the old gains assume: ${before}`, `controller the new gains assume: ${after}`];
 }

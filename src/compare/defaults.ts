@@ -24,9 +24,13 @@ export function resolveThresholds(given: Partial<CompareThresholds> = {}): Compa
   const thresholds: CompareThresholds = { ...COMPARE_DEFAULTS, ...given };
   for (const [name, value] of Object.entries(thresholds)) {
     if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) {
-      throw new SpeedbandError('compare.invalidThreshold', `threshold ${name} is ${String(value)} — give a finite number ≥ 0 (default ${String(COMPARE_DEFAULTS[name as keyof CompareThresholds])})`, {
-        details: { threshold: name, value },
-      });
+      throw new SpeedbandError(
+        'compare.invalidThreshold',
+        `threshold ${name} is ${String(value)} — give a finite number ≥ 0 (default ${String(COMPARE_DEFAULTS[name as keyof CompareThresholds])})`,
+        {
+          details: { threshold: name, value },
+        },
+      );
     }
   }
   return thresholds;

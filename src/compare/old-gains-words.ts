@@ -17,7 +17,8 @@ export function failingWhere(record: Checked, shownIntervals = 4): string {
 /** One sentence leading a comparison: "The old gains still hold on the new vehicle model: …" or where they do not. */
 export function oldGainsLead(record: OldGainsOnNewVehicle): string {
   if (!record.available) return `Old gains on the new vehicle model: not checked — ${record.reason}.`;
-  if (record.passed) return `The old gains still hold on the new vehicle model: within the old schedule's limits at all ${record.gridSize} speeds checked, ${rangeWords(record)}.`;
+  if (record.passed)
+    return `The old gains still hold on the new vehicle model: within the old schedule's limits at all ${record.gridSize} speeds checked, ${rangeWords(record)}.`;
   return `The old gains do NOT hold on the new vehicle model: they break the old schedule's limits at ${record.failedSpeeds} of ${record.gridSize} speeds checked (${rangeWords(record)}) — at ${failingWhere(record)}.`;
 }
 
@@ -28,5 +29,7 @@ export function oldGainsFlagMessage(record: Checked): string {
 
 /** The model the check ran on, in words, or null when not checked. */
 export function oldGainsModelWords(record: OldGainsOnNewVehicle): string | null {
-  return record.available ? `checked on the new schedule's vehicle model — ${record.model} — at its check speeds, with the old schedule's loop, controller and limits` : null;
+  return record.available
+    ? `checked on the new schedule's vehicle model — ${record.model} — at its check speeds, with the old schedule's loop, controller and limits`
+    : null;
 }

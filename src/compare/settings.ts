@@ -46,7 +46,8 @@ export function settingChanges(old: ScheduleFile, next: ScheduleFile, speedToler
   for (const definition of SETTINGS) {
     const before = definition.read(old);
     const after = definition.read(next);
-    if (!same(before, after, definition.speedLike === true ? speedTolerance_mps : 0)) changes.push({ setting: definition.setting, old: before, new: after, breaksGainComparison: definition.breaksGainComparison });
+    if (!same(before, after, definition.speedLike === true ? speedTolerance_mps : 0))
+      changes.push({ setting: definition.setting, old: before, new: after, breaksGainComparison: definition.breaksGainComparison });
   }
   return changes;
 }

@@ -56,8 +56,7 @@ export interface DiscretePidCoefficients {
   readonly warnings: readonly ControllerWarning[];
 }
 
-export const DISCRETE_PID_EQUATION =
-  'u_k = kp*e_k + I_k + D_k; I_k = I_(k-1) + wc*(ki*e)_k + wp*(ki*e)_(k-1); D_k = p*D_(k-1) + g*(e_k - e_(k-1))';
+export const DISCRETE_PID_EQUATION = 'u_k = kp*e_k + I_k + D_k; I_k = I_(k-1) + wc*(ki*e)_k + wp*(ki*e)_(k-1); D_k = p*D_(k-1) + g*(e_k - e_(k-1))';
 
 /**
  * The coefficients of the discrete PID for gains at sample time settings.sampleTime_s
@@ -166,7 +165,8 @@ export function samplingDelay_s(settings: ControllerSettings): number {
 
 function validateSettings(settings: ControllerSettings): void {
   const problems: string[] = [];
-  if (!(Number.isFinite(settings.sampleTime_s) && settings.sampleTime_s > 0)) problems.push(`sampleTime_s is ${settings.sampleTime_s} — expected a finite time > 0 s`);
+  if (!(Number.isFinite(settings.sampleTime_s) && settings.sampleTime_s > 0))
+    problems.push(`sampleTime_s is ${settings.sampleTime_s} — expected a finite time > 0 s`);
   if (!(settings.derivativeFilter > 0)) problems.push(`derivativeFilter is ${settings.derivativeFilter} — expected N > 0 (Infinity means unfiltered)`);
   if (!(Number.isFinite(settings.computationLatency_s) && settings.computationLatency_s >= 0)) {
     problems.push(`computationLatency_s is ${settings.computationLatency_s} — expected a finite time ≥ 0 s`);

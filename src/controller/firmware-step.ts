@@ -109,7 +109,8 @@ export function firmwareStep(gains: FirmwareGains, settings: FirmwareSettings, s
     : (tf / (tf + t)) * state.derivative + (gains.kd / (tf + t)) * difference;
   const integrand = gains.ki * (r - y);
   let increment = tustin ? (t / 2) * (integrand + state.previousIntegrand) : t * integrand;
-  if (settings.antiWindup === 'back-calculation' && state.previousSaturation !== 0 && gains.ki !== 0) increment += (t * state.previousSaturation) / trackingTime_s(gains);
+  if (settings.antiWindup === 'back-calculation' && state.previousSaturation !== 0 && gains.ki !== 0)
+    increment += (t * state.previousSaturation) / trackingTime_s(gains);
   const clampIntegral = (value: number): number => {
     const high = settings.integratorClamp_rad - feedForward;
     const low = -settings.integratorClamp_rad - feedForward;

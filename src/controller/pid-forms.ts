@@ -114,7 +114,11 @@ function requireOneSign(gains: PidGains): void {
 
 function requireTimes(form: IdealPid | SeriesPid, name: string): void {
   const ti = form.integralTime_s;
-  if (!Number.isFinite(form.gain) || (ti !== null && !(Number.isFinite(ti) && ti > 0)) || !(Number.isFinite(form.derivativeTime_s) && form.derivativeTime_s >= 0)) {
+  if (
+    !Number.isFinite(form.gain) ||
+    (ti !== null && !(Number.isFinite(ti) && ti > 0)) ||
+    !(Number.isFinite(form.derivativeTime_s) && form.derivativeTime_s >= 0)
+  ) {
     throw new SpeedbandError(
       'controller.invalidGains',
       `${name} PID with gain ${form.gain}, integral time ${ti} s, derivative time ${form.derivativeTime_s} s — expected a finite gain, an integral time > 0 s (or none) and a derivative time ≥ 0 s`,

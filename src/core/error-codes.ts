@@ -13,12 +13,16 @@ export const ERROR_CODES = {
   'json.syntax': 'A JSON input is not valid JSON (the message gives the line): fix the syntax.',
 
   // Vehicle file and single-track model
-  'vehicle.incompleteStiffness': 'The vehicle file gives the nominal cornering stiffness of one axle only: add the other axle\'s, or remove both.',
+  'vehicle.incompleteStiffness': "The vehicle file gives the nominal cornering stiffness of one axle only: add the other axle's, or remove both.",
   'vehicle.invalid': 'The vehicle file is not a JSON object or a field has the wrong type: fix the field at the JSON path named.',
-  'vehicle.missingField': 'The vehicle file lacks a required field (the message names a look-alike field if there is one): add it, in the unit its name states.',
-  'vehicle.noCorneringStiffness': 'The single-track model needs both axles\' cornering stiffnesses and the vehicle file has none: add them, or identify them from step-test logs.',
-  'vehicle.nonFiniteModel': 'The vehicle\'s mass, inertia, distances and stiffnesses give a model with non-finite coefficients: check their magnitudes and units.',
-  'vehicle.notFound': 'The vehicle given is a folder without vehicle.json, or a name that is neither a path nor a bundled demo vehicle: give the path of vehicle.json or its folder.',
+  'vehicle.missingField':
+    'The vehicle file lacks a required field (the message names a look-alike field if there is one): add it, in the unit its name states.',
+  'vehicle.noCorneringStiffness':
+    "The single-track model needs both axles' cornering stiffnesses and the vehicle file has none: add them, or identify them from step-test logs.",
+  'vehicle.nonFiniteModel':
+    "The vehicle's mass, inertia, distances and stiffnesses give a model with non-finite coefficients: check their magnitudes and units.",
+  'vehicle.notFound':
+    'The vehicle given is a folder without vehicle.json, or a name that is neither a path nor a bundled demo vehicle: give the path of vehicle.json or its folder.',
   'vehicle.outOfRange': 'A vehicle field is outside its physical range (e.g. a mass ≤ 0 kg): correct the value or its unit.',
   'vehicle.speedNotPositive': 'The single-track model was asked for a speed ≤ 0 m/s; its slip angles divide by speed: use a positive speed.',
   'vehicle.unknownField': 'The vehicle file has a field speedband does not know (the message suggests the closest): remove it or fix its spelling.',
@@ -29,10 +33,10 @@ export const ERROR_CODES = {
 
   // Synthetic step-test logs (make-test-logs)
   'testLogs.amplitudeTooSmall': 'The automatic step amplitude rounds to 0° at this speed: give the amplitudes explicitly.',
-  'testLogs.badAmplitude': 'A step amplitude given is not between 0 and the vehicle\'s steer-angle limit: give positive amplitudes below the limit.',
+  'testLogs.badAmplitude': "A step amplitude given is not between 0 and the vehicle's steer-angle limit: give positive amplitudes below the limit.",
   'testLogs.badOption': 'A test-log option is out of range (sample rate ≤ 0, negative noise or resolution, non-integer seed): give a value in range.',
   'testLogs.badSpeeds': 'The speed list is empty, has a speed ≤ 0 m/s, or two speeds that give the same file name: list each positive speed once.',
-  'testLogs.unstableSpeed': 'A test speed is at or above the oversteering vehicle\'s critical speed, so no step test can be run: choose lower speeds.',
+  'testLogs.unstableSpeed': "A test speed is at or above the oversteering vehicle's critical speed, so no step test can be run: choose lower speeds.",
 
   // Test logs
   'log.badColumnOption': 'A --column option is not CHANNEL=HEADER[:UNIT] with a known channel: write it as e.g. speed_mps=v:km/h.',
@@ -43,20 +47,24 @@ export const ERROR_CODES = {
   'log.emptyCell': 'A cell of a column the reader uses is empty: fill it or remove the row.',
   'log.extraCell': 'A log row has more cells than the header: remove the extra cells or name them in the header.',
   'log.headerOnly': 'The log has a header but fewer than two data rows: check that the logger wrote its data.',
-  'log.implausibleValue': 'A log value is outside the plausible range of its channel, often a unit mix-up: check the column\'s unit (--column CHANNEL=HEADER:UNIT).',
+  'log.implausibleValue':
+    "A log value is outside the plausible range of its channel, often a unit mix-up: check the column's unit (--column CHANNEL=HEADER:UNIT).",
   'log.missingCell': 'A log row has fewer cells than the header: complete or remove the row.',
-  'log.missingColumn': 'A column the reader needs is not in the header (the message names the closest header): add or rename it, or map it with --column or a log profile.',
+  'log.missingColumn':
+    'A column the reader needs is not in the header (the message names the closest header): add or rename it, or map it with --column or a log profile.',
   'log.nonFinite': 'A log cell holds NaN or Infinity, so the logger recorded no valid value: remove the row or cut the log around it.',
   'log.nonNumeric': 'A log cell is not a decimal number (or uses a decimal comma): write numbers with a decimal point, or remove the row.',
   'log.profileInvalid': 'The log profile file does not match its schema: fix the field at the JSON path named.',
-  'log.steeringRatioRequired': 'The steering column is a steering-wheel angle and no valid steering ratio was given: pass --vehicle FILE or --steering-ratio N.',
+  'log.steeringRatioRequired':
+    'The steering column is a steering-wheel angle and no valid steering ratio was given: pass --vehicle FILE or --steering-ratio N.',
   'log.timeNotIncreasing': 'time_s goes backwards in the log: sort the log or split it.',
   'log.unitMismatch': 'The unit given for a channel measures another quantity (e.g. a length for a speed): give a unit of the right kind.',
   'log.unitNotResolved': 'A column unit reached the reader without conversion (library use): pass the column map through resolveColumnUnits first.',
   'log.unknownUnit': 'The unit given for a column is not a unit speedband can read: give one such as km/h, deg or rad/s.',
 
   // Identification
-  'identify.channelScale': 'The logs disagree with the vehicle\'s kinematics, usually a channel in the wrong unit or scale: fix the channel\'s unit with --column.',
+  'identify.channelScale':
+    "The logs disagree with the vehicle's kinematics, usually a channel in the wrong unit or scale: fix the channel's unit with --column.",
   'identify.duplicateLog': 'Two logs given have the same content, which would count their steps twice: give each log once.',
   'identify.noLogs': 'No CSV log was found at the paths given: give log files or folders holding .csv logs.',
   'identify.noSteps': 'No usable step-steer event was found in the logs: log open-loop steps held until the yaw rate settles.',
@@ -81,7 +89,8 @@ export const ERROR_CODES = {
   'lti.zeroPolynomial': 'The roots of the zero polynomial were asked: give at least one non-zero coefficient.',
 
   // Loops
-  'loops.invalidPreview': 'The preview distance or time of a path loop is negative or not finite, or a front-axle reference lacks the axle distance: fix the loop settings.',
+  'loops.invalidPreview':
+    'The preview distance or time of a path loop is negative or not finite, or a front-axle reference lacks the axle distance: fix the loop settings.',
   'loops.invalidSpeed': 'A loop plant was asked at a speed ≤ 0 m/s: use a forward speed above 0.',
   'loops.unknownKind': 'The loop kind is not yaw-rate, heading or path: choose one of them.',
 
@@ -95,26 +104,30 @@ export const ERROR_CODES = {
 
   // Tuning rules
   'tuning.invalidParameter': 'A tuning-rule parameter is out of its range (e.g. a sensitivity-peak target ≤ 1): give a value in range.',
-  'tuning.noSteadyState': 'The yaw-rate response has no finite steady state, so the first-order-plus-dead-time fit the rule needs does not exist: check the model.',
+  'tuning.noSteadyState':
+    'The yaw-rate response has no finite steady state, so the first-order-plus-dead-time fit the rule needs does not exist: check the model.',
   'tuning.notConfirmed': 'The exact analysis of the sampled loop does not confirm the MIGO design: choose another rule, and report the loop.',
   'tuning.parameterNotTaken': 'A parameter was given that the chosen tuning rule does not take: remove it or choose another rule.',
   'tuning.parameterRequired': 'The chosen tuning rule needs a parameter that cannot be derived here: give it explicitly.',
   'tuning.ruleNotApplicable': 'The chosen tuning rule does not apply to this plant (the message lists the rules that do): choose one of those.',
   'tuning.targetNotReachable': 'The damping target asks for a natural frequency the path loop cannot reach with this lead: lower the target.',
   'tuning.unknownRule': 'No tuning rule of that name (the message suggests the closest): choose a listed rule.',
-  'tuning.unstablePlant': 'The yaw-rate response is unstable at this speed (oversteer above the critical speed?): lower the speed or check the cornering stiffnesses.',
+  'tuning.unstablePlant':
+    'The yaw-rate response is unstable at this speed (oversteer above the critical speed?): lower the speed or check the cornering stiffnesses.',
 
   // Plan file
   'plan.invalid': 'The plan file, or a speed-varying parameter in it, is not valid (the message names the JSON path and docs/plan.md the fields): fix it.',
-  'plan.parameterNotTaken': 'The plan gives a rule parameter the plan\'s rule does not take: remove it or change the rule.',
+  'plan.parameterNotTaken': "The plan gives a rule parameter the plan's rule does not take: remove it or change the rule.",
 
   // Building a schedule
   'build.noModel': 'The lumped model has no speeds to interpolate between: identify at least two test speeds.',
-  'build.otherVehicle': 'The models were identified with another vehicle file than the one given: give that file, identify again, or pass --allow-other-vehicle.',
+  'build.otherVehicle':
+    'The models were identified with another vehicle file than the one given: give that file, identify again, or pass --allow-other-vehicle.',
 
   // Schedule table and file
   'schedule.breakpointNotChecked': 'A breakpoint is not among the checked speeds (library use): build the check grid from the breakpoints.',
-  'schedule.checksumMismatch': 'The schedule file changed since it was written: do not load it into firmware; rebuild it, restore it, or re-verify a deliberate edit with speedband reverify.',
+  'schedule.checksumMismatch':
+    'The schedule file changed since it was written: do not load it into firmware; rebuild it, restore it, or re-verify a deliberate edit with speedband reverify.',
   'schedule.densityInvalid': 'The check density is not a whole number ≥ 2: give a whole number of speeds.',
   'schedule.invalid': 'The schedule file does not match its schema or contradicts itself (status against check result): rebuild the schedule.',
   'schedule.notSerialisable': 'A schedule value has no JSON form (a non-finite number): a value upstream is wrong; rebuild, and report it if it persists.',
@@ -125,24 +138,30 @@ export const ERROR_CODES = {
   'schedule.unsupportedVersion': 'The schedule file was written in an earlier format version: rebuild it with speedband build.',
 
   // Checking a schedule
-  'check.delayTooLong': 'The loop\'s dead time is longer than the analysis handles, usually a unit mistake: check the latency, sample time and actuator delay.',
+  'check.delayTooLong': "The loop's dead time is longer than the analysis handles, usually a unit mistake: check the latency, sample time and actuator delay.",
   'check.noModel': 'The schedule records no vehicle model speedband can rebuild: give the model with --models models.json or --logs.',
-  'check.variationsModelMismatch': 'The schedule\'s variation set varies another kind of model than the one the check runs on: check on the model the schedule was built on, or rebuild it.',
+  'check.variationsModelMismatch':
+    "The schedule's variation set varies another kind of model than the one the check runs on: check on the model the schedule was built on, or rebuild it.",
 
   // Stability analysis
-  'verify.analysisTooLarge': 'The loop\'s delay is too long for the analysis (too many samples or phase turns), usually a unit mistake: check the delays and the sample time.',
+  'verify.analysisTooLarge':
+    "The loop's delay is too long for the analysis (too many samples or phase turns), usually a unit mistake: check the delays and the sample time.",
   'verify.improperLoop': 'The loop has more zeros than poles, so its gain grows without bound: add the derivative filter the firmware runs, or a plant lag.',
-  'verify.invalidController': 'The controller given for analysis is not valid (unknown form, non-finite or negative times, a non-causal discrete controller): fix the field named.',
+  'verify.invalidController':
+    'The controller given for analysis is not valid (unknown form, non-finite or negative times, a non-causal discrete controller): fix the field named.',
   'verify.invalidLoop': 'The loop given for analysis has a non-finite coefficient, delay or sample time: fix the field named.',
 
   // Comparing schedules
   'compare.invalidThreshold': 'A comparison threshold is negative or not finite: give a finite number ≥ 0.',
 
   // The HTML report
-  'report.logNotInModels': 'A log given to the report is not one of the logs models.json was identified from (compared by SHA-256): give the logs of that identification, or leave --logs out.',
-  'report.logsWithoutModels': 'The report was given logs without models.json, which holds the fits it draws over them: give --models with --logs, or leave --logs out.',
-  'report.modelsMismatch': 'models.json is not the identification the schedule was built from (another vehicle file or other logs, by SHA-256): give the models.json of that build.',
-  'report.speedOutOfRange': 'A --response-speed-mps is outside the schedule\'s checked speed range: give speeds inside the range the message states.',
+  'report.logNotInModels':
+    'A log given to the report is not one of the logs models.json was identified from (compared by SHA-256): give the logs of that identification, or leave --logs out.',
+  'report.logsWithoutModels':
+    'The report was given logs without models.json, which holds the fits it draws over them: give --models with --logs, or leave --logs out.',
+  'report.modelsMismatch':
+    'models.json is not the identification the schedule was built from (another vehicle file or other logs, by SHA-256): give the models.json of that build.',
+  'report.speedOutOfRange': "A --response-speed-mps is outside the schedule's checked speed range: give speeds inside the range the message states.",
 
   // Export
   'export.checksumInvalid': 'The schedule given to the exporter has no valid checksum (library use): read the schedule with readSchedule first.',
@@ -164,7 +183,7 @@ export const ERROR_CODES = {
   'output.parentNotFolder': 'A folder on the output path is a file, so nothing can be written under it: choose another output path.',
   'output.sameFile': 'Two outputs of the command name the same file: give each its own path.',
   'output.stdoutFailed': 'Standard output could not be written (closed pipe, full disk): the output is incomplete; do not use it.',
-  'output.symlink': 'The output path is a symbolic link, and speedband never writes through one: give the real file\'s path or remove the link.',
+  'output.symlink': "The output path is a symbolic link, and speedband never writes through one: give the real file's path or remove the link.",
   'output.unwritable': 'Writing an output failed (full disk, permissions) and nothing was replaced: free space, fix permissions or choose another path.',
 
   // Demo

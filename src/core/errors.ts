@@ -25,11 +25,7 @@ export class SpeedbandError extends Error {
   readonly location: ErrorLocation;
   readonly details: Readonly<Record<string, unknown>>;
 
-  constructor(
-    code: ErrorCode,
-    message: string,
-    options: { location?: ErrorLocation; details?: Record<string, unknown>; cause?: unknown } = {},
-  ) {
+  constructor(code: ErrorCode, message: string, options: { location?: ErrorLocation; details?: Record<string, unknown>; cause?: unknown } = {}) {
     super(message, options.cause === undefined ? undefined : { cause: options.cause });
     this.name = 'SpeedbandError';
     this.code = code;

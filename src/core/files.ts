@@ -7,7 +7,20 @@
  * never read. A target that is a symbolic link, a folder or a device is refused (see output-paths.ts).
  */
 import { createHash, randomBytes } from 'node:crypto';
-import { closeSync, fsyncSync, fstatSync, fchmodSync, lstatSync, mkdirSync, openSync, readFileSync, readdirSync, renameSync, unlinkSync, type Stats } from 'node:fs';
+import {
+  closeSync,
+  fsyncSync,
+  fstatSync,
+  fchmodSync,
+  lstatSync,
+  mkdirSync,
+  openSync,
+  readFileSync,
+  readdirSync,
+  renameSync,
+  unlinkSync,
+  type Stats,
+} from 'node:fs';
 import { basename, dirname, join } from 'node:path';
 import { SpeedbandError } from './errors.js';
 import { writeAllSync } from './write-all.js';
@@ -96,11 +109,15 @@ export function removeStaleTemporaryFiles(target: string): string[] {
 }
 
 function unwritable(path: string, cause: unknown, what = 'cannot write the file'): SpeedbandError {
-  return new SpeedbandError('output.unwritable', `${what}: ${describeFileError(cause)} — nothing was replaced; free space, fix the permissions or choose another output path`, {
-    location: { file: path },
-    details: { reason: (cause as NodeJS.ErrnoException).code ?? null },
-    cause,
-  });
+  return new SpeedbandError(
+    'output.unwritable',
+    `${what}: ${describeFileError(cause)} — nothing was replaced; free space, fix the permissions or choose another output path`,
+    {
+      location: { file: path },
+      details: { reason: (cause as NodeJS.ErrnoException).code ?? null },
+      cause,
+    },
+  );
 }
 
 /** The existing target (lstat, never followed), or null when there is none; refuses links, folders and devices. */
@@ -113,15 +130,21 @@ function existingTarget(path: string): Stats | null {
     throw unwritable(path, cause);
   }
   if (stats.isSymbolicLink()) {
-    throw new SpeedbandError('output.symlink', 'the output path is a symbolic link — speedband never writes through a link; give the path of the real file (or remove the link)', {
-      location: { file: path },
-    });
+    throw new SpeedbandError(
+      'output.symlink',
+      'the output path is a symbolic link — speedband never writes through a link; give the path of the real file (or remove the link)',
+      {
+        location: { file: path },
+      },
+    );
   }
   if (stats.isDirectory()) {
     throw new SpeedbandError('output.isDirectory', 'the output path is a folder — give a file name inside it', { location: { file: path } });
   }
   if (!stats.isFile()) {
-    throw new SpeedbandError('output.notRegularFile', 'the output path is not a regular file (a device, pipe or socket) — give a file path', { location: { file: path } });
+    throw new SpeedbandError('output.notRegularFile', 'the output path is not a regular file (a device, pipe or socket) — give a file path', {
+      location: { file: path },
+    });
   }
   return stats;
 }

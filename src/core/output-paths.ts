@@ -79,7 +79,11 @@ function checkFolderOf(output: OutputPath): void {
   try {
     folder = statSync(existing);
   } catch (cause) {
-    throw new SpeedbandError('output.folderUnusable', `${output.option}: cannot use the folder ${existing}: ${describeFileError(cause)} — choose another output path`, where);
+    throw new SpeedbandError(
+      'output.folderUnusable',
+      `${output.option}: cannot use the folder ${existing}: ${describeFileError(cause)} — choose another output path`,
+      where,
+    );
   }
   if (!folder.isDirectory()) {
     throw new SpeedbandError(
@@ -95,10 +99,14 @@ function checkFolderOf(output: OutputPath): void {
     closeSync(openSync(probe, 'wx'));
     unlinkSync(probe);
   } catch (cause) {
-    throw new SpeedbandError('output.folderNotWritable', `${output.option}: the folder ${existing} is not writable: ${describeFileError(cause)} — choose another output path`, {
-      ...where,
-      details: { reason: (cause as NodeJS.ErrnoException).code ?? null },
-    });
+    throw new SpeedbandError(
+      'output.folderNotWritable',
+      `${output.option}: the folder ${existing} is not writable: ${describeFileError(cause)} — choose another output path`,
+      {
+        ...where,
+        details: { reason: (cause as NodeJS.ErrnoException).code ?? null },
+      },
+    );
   }
 }
 
@@ -112,10 +120,15 @@ function checkTarget(output: OutputPath): void {
   }
   const where = { location: { file: output.path } };
   if (stats.isSymbolicLink()) {
-    throw new SpeedbandError('output.symlink', `${output.option} is a symbolic link — speedband never writes through a link; give the path of the real file (or remove the link)`, where);
+    throw new SpeedbandError(
+      'output.symlink',
+      `${output.option} is a symbolic link — speedband never writes through a link; give the path of the real file (or remove the link)`,
+      where,
+    );
   }
   if (stats.isDirectory()) throw new SpeedbandError('output.isDirectory', `${output.option} is a folder — give a file name inside it`, where);
-  if (!stats.isFile()) throw new SpeedbandError('output.notRegularFile', `${output.option} is not a regular file (a device, pipe or socket) — give a file path`, where);
+  if (!stats.isFile())
+    throw new SpeedbandError('output.notRegularFile', `${output.option} is not a regular file (a device, pipe or socket) — give a file path`, where);
 }
 
 /**

@@ -13,8 +13,7 @@ export const MESSAGE_LINE_MAX = 2000;
 const ESCAPED = /[\u0000-\u001f\u007f-\u009f\u2028\u2029\u202a-\u202e\u2066-\u2069]/g;
 const NAMED: Readonly<Record<string, string>> = { '\n': '\\n', '\r': '\\r', '\t': '\\t', '\u001b': '\\e' };
 
-const escapeCharacter = (character: string): string =>
-  NAMED[character] ?? `\\u${character.charCodeAt(0).toString(16).padStart(4, '0')}`;
+const escapeCharacter = (character: string): string => NAMED[character] ?? `\\u${character.charCodeAt(0).toString(16).padStart(4, '0')}`;
 
 /** `text` with control characters written as escapes (\n, \t, \e, \u0007 …). */
 export function escapeControlCharacters(text: string): string {
@@ -24,7 +23,9 @@ export function escapeControlCharacters(text: string): string {
 /** `text` cut to `max` characters (code points), saying how long it was. */
 export function cutText(text: string, max: number): string {
   if (text.length <= max) return text;
-  const kept = Array.from(text.slice(0, max + 1)).slice(0, max).join('');
+  const kept = Array.from(text.slice(0, max + 1))
+    .slice(0, max)
+    .join('');
   return `${kept}… (${text.length} characters in all)`;
 }
 
@@ -43,7 +44,12 @@ export const LIBRARY_MESSAGE_MAX = 300;
  * each double-quoted part re-quoted with `quoted`, control characters escaped, the whole cut to LIBRARY_MESSAGE_MAX.
  */
 export function libraryMessage(text: string): string {
-  return escapeControlCharacters(cutText(text.replace(/"([^"]*)"/g, (_whole, inner: string) => quoted(inner)), LIBRARY_MESSAGE_MAX));
+  return escapeControlCharacters(
+    cutText(
+      text.replace(/"([^"]*)"/g, (_whole, inner: string) => quoted(inner)),
+      LIBRARY_MESSAGE_MAX,
+    ),
+  );
 }
 
 /**

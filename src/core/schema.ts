@@ -31,7 +31,10 @@ export interface SchemaValidator {
 /** The field names the schema allows where an `additionalProperties` error was raised (its schemaPath names that node). */
 function knownFieldsAt(schema: object, schemaPath: string): string[] {
   let node: unknown = schema;
-  const parts = schemaPath.replace(/^#\/?/, '').split('/').filter((part) => part !== '');
+  const parts = schemaPath
+    .replace(/^#\/?/, '')
+    .split('/')
+    .filter((part) => part !== '');
   for (const part of parts.slice(0, -1)) {
     node = node !== null && typeof node === 'object' ? (node as Record<string, unknown>)[part.replace(/~1/g, '/').replace(/~0/g, '~')] : undefined;
   }

@@ -20,15 +20,54 @@ export const SPEED_VARIABLE = 'speed_mps';
 export const MAXIMUM_EXPRESSION_LENGTH = 500;
 /** Pure maths functions an expression may call (mathjs's definitions). */
 export const ALLOWED_FUNCTIONS: readonly string[] = [
-  'abs', 'sqrt', 'cbrt', 'exp', 'log', 'log10', 'log2', 'pow', 'hypot',
-  'min', 'max', 'floor', 'ceil', 'round', 'fix', 'sign', 'mod',
-  'sin', 'cos', 'tan', 'asin', 'acos', 'atan', 'atan2', 'sinh', 'cosh', 'tanh',
+  'abs',
+  'sqrt',
+  'cbrt',
+  'exp',
+  'log',
+  'log10',
+  'log2',
+  'pow',
+  'hypot',
+  'min',
+  'max',
+  'floor',
+  'ceil',
+  'round',
+  'fix',
+  'sign',
+  'mod',
+  'sin',
+  'cos',
+  'tan',
+  'asin',
+  'acos',
+  'atan',
+  'atan2',
+  'sinh',
+  'cosh',
+  'tanh',
 ];
 const ALLOWED_CONSTANTS: readonly string[] = ['pi', 'e'];
 /** mathjs operator functions allowed (+ − × ÷ ^ mod, unary ±, comparisons, logic). */
 const ALLOWED_OPERATORS: readonly string[] = [
-  'add', 'subtract', 'multiply', 'divide', 'pow', 'mod', 'unaryMinus', 'unaryPlus',
-  'smaller', 'larger', 'smallerEq', 'largerEq', 'equal', 'unequal', 'and', 'or', 'not',
+  'add',
+  'subtract',
+  'multiply',
+  'divide',
+  'pow',
+  'mod',
+  'unaryMinus',
+  'unaryPlus',
+  'smaller',
+  'larger',
+  'smallerEq',
+  'largerEq',
+  'equal',
+  'unequal',
+  'and',
+  'or',
+  'not',
 ];
 const ALLOWED_COMPARISONS: readonly string[] = ['smaller', 'larger', 'smallerEq', 'largerEq', 'equal', 'unequal'];
 
@@ -55,7 +94,9 @@ function refusal(node: MathNode): Refusal | null {
   const n = node as MathNode & Record<string, unknown>;
   switch (node.type) {
     case 'ConstantNode':
-      return typeof n.value === 'number' ? null : { reason: `only numbers may be written, not ${typeof n.value === 'string' ? 'text' : String(n.value)}`, token: /["']|true|false|null|undefined/ };
+      return typeof n.value === 'number'
+        ? null
+        : { reason: `only numbers may be written, not ${typeof n.value === 'string' ? 'text' : String(n.value)}`, token: /["']|true|false|null|undefined/ };
     case 'SymbolNode': {
       const name = String(n.name);
       if (name === SPEED_VARIABLE || ALLOWED_CONSTANTS.includes(name)) return null;
@@ -65,15 +106,20 @@ function refusal(node: MathNode): Refusal | null {
       const fn = n.fn as MathNode & { name?: string };
       if (fn.type !== 'SymbolNode' || !ALLOWED_FUNCTIONS.includes(String(fn.name))) {
         const name = fn.type === 'SymbolNode' ? String(fn.name) : 'a computed function';
-        return { reason: `function ${name} is not allowed — use the maths functions ${ALLOWED_FUNCTIONS.join(', ')}`, token: fn.type === 'SymbolNode' ? word(name) : null };
+        return {
+          reason: `function ${name} is not allowed — use the maths functions ${ALLOWED_FUNCTIONS.join(', ')}`,
+          token: fn.type === 'SymbolNode' ? word(name) : null,
+        };
       }
       break;
     }
     case 'OperatorNode':
-      if (!ALLOWED_OPERATORS.includes(String(n.fn))) return { reason: `operator ${String(n.op)} is not allowed — use + - * / ^ mod, comparisons, and, or, not`, token: escape(String(n.op)) };
+      if (!ALLOWED_OPERATORS.includes(String(n.fn)))
+        return { reason: `operator ${String(n.op)} is not allowed — use + - * / ^ mod, comparisons, and, or, not`, token: escape(String(n.op)) };
       break;
     case 'RelationalNode':
-      if (!(n.conditionals as string[]).every((fn) => ALLOWED_COMPARISONS.includes(fn))) return { reason: 'only the comparisons < > <= >= == != are allowed', token: null };
+      if (!(n.conditionals as string[]).every((fn) => ALLOWED_COMPARISONS.includes(fn)))
+        return { reason: 'only the comparisons < > <= >= == != are allowed', token: null };
       break;
     case 'ParenthesisNode':
     case 'ConditionalNode':
@@ -119,7 +165,11 @@ function describeValue(value: unknown): string {
 /** Parse and check an expression of speed; compiled, it evaluates at any speed (m/s) without parsing again. */
 export async function compileSpeedExpression(text: string): Promise<ExpressionCompilation> {
   if (text.length > MAXIMUM_EXPRESSION_LENGTH) {
-    return { kind: 'refused', reason: `the expression is ${text.length} characters long; at most ${MAXIMUM_EXPRESSION_LENGTH} are read`, position: MAXIMUM_EXPRESSION_LENGTH + 1 };
+    return {
+      kind: 'refused',
+      reason: `the expression is ${text.length} characters long; at most ${MAXIMUM_EXPRESSION_LENGTH} are read`,
+      position: MAXIMUM_EXPRESSION_LENGTH + 1,
+    };
   }
   if (text.trim() === '') return { kind: 'refused', reason: 'the expression is empty', position: null };
   const math = await loadMathjs();

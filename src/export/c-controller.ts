@@ -24,7 +24,7 @@ export function controllerFunctionsText(input: ControllerTextInput): string {
   const tustin = discretisation === 'tustin';
   const backCalculation = antiWindup === 'back-calculation';
   return [
-    '/* The controller equation\'s memory between samples: start it with ' + `${prefix}_controller_init. */`,
+    "/* The controller equation's memory between samples: start it with " + `${prefix}_controller_init. */`,
     `typedef struct ${prefix}_state {`,
     '  double integral;',
     '  double derivative;',
@@ -64,7 +64,7 @@ export function controllerFunctionsText(input: ControllerTextInput): string {
     '}',
     '',
     '/*',
-    ' * One sample of the controller equation (the schedule\'s controller.update): gains from the lookup at the',
+    " * One sample of the controller equation (the schedule's controller.update): gains from the lookup at the",
     ' * measured speed, the loop reference and measurement, the feed-forward input (read feed_forward_lead_time_s',
     ` * ahead). Returns the road-wheel angle command, rad, within +-${upper}_COMMAND_LIMIT_RAD. ${tustin ? 'Tustin' : 'Backward Euler'}, ${antiWindup}.`,
     ' */',

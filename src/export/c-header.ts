@@ -91,7 +91,10 @@ const worstLines = (worst: WorstMargins): string[] => [
 export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): CHeaderExport {
   const prefix = options.prefix ?? C_HEADER_DEFAULTS.prefix;
   if (!/^[A-Za-z_][A-Za-z0-9_]{0,62}$/.test(prefix)) {
-    throw new SpeedbandError('export.prefixInvalid', `${quoted(prefix)} is not a C identifier — use letters, digits and underscores, not starting with a digit, at most 63 characters`);
+    throw new SpeedbandError(
+      'export.prefixInvalid',
+      `${quoted(prefix)} is not a C identifier — use letters, digits and underscores, not starting with a digit, at most 63 characters`,
+    );
   }
   if (!/^[0-9a-f]{64}$/.test(schedule.checksum.value)) {
     throw new SpeedbandError('export.checksumInvalid', 'the schedule checksum is not 64 hexadecimal digits — read the schedule with readSchedule first');
@@ -154,9 +157,11 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
             : `Breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s) holds gains that, held constant, pass the dense check at all ${fallback.gridSize} speeds (for a speed-sensor fault).`
         }`
       : fallback === null
-      ? `Speed NaN or infinite: no fallback -- no breakpoint's gains, held constant, pass the dense check over the whole range; the lookup returns ${upper}_LOOKUP_NO_GAINS and leaves the gains unwritten (hand over or stop).`
-      : `Speed NaN or infinite: fallback gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which held constant pass the dense check at all ${fallback.gridSize} speeds of the range; the lookup returns ${upper}_LOOKUP_FALLBACK.`,
-    ...(check.passed ? [] : [`This schedule FAILED its check: the header stops the build with #error unless ${optIn} is defined (review only, never to drive).`]),
+        ? `Speed NaN or infinite: no fallback -- no breakpoint's gains, held constant, pass the dense check over the whole range; the lookup returns ${upper}_LOOKUP_NO_GAINS and leaves the gains unwritten (hand over or stop).`
+        : `Speed NaN or infinite: fallback gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which held constant pass the dense check at all ${fallback.gridSize} speeds of the range; the lookup returns ${upper}_LOOKUP_FALLBACK.`,
+    ...(check.passed
+      ? []
+      : [`This schedule FAILED its check: the header stops the build with #error unless ${optIn} is defined (review only, never to drive).`]),
     `Checksum: ${schedule.checksum.algorithm} ${schedule.checksum.value}`,
     `  (${schedule.checksum.canonicalForm})`,
     '',
@@ -199,19 +204,34 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
           '',
           '/* Breakpoint speeds, m/s, strictly increasing. */',
           `static const double ${prefix}_speed_mps[${upper}_BREAKPOINTS] = { ${list(table.speeds_mps, cDouble)} };`,
-          ...(['kp', 'ki', 'kd'] as const).map((name) => `static const double ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${list(table.gains.map((row) => row[name]), cDouble)} };`),
+          ...(['kp', 'ki', 'kd'] as const).map(
+            (name) =>
+              `static const double ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${list(
+                table.gains.map((row) => row[name]),
+                cDouble,
+              )} };`,
+          ),
           ...extraNames.map((name) => `static const double ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${list(extras[name], cDouble)} };`),
           ...(cubic
             ? [
                 '/* Hermite slopes (Fritsch & Carlson 1980), value per m/s. */',
-                ...(['kp', 'ki', 'kd'] as const).map((name) => `static const double ${prefix}_${name}_slope[${upper}_BREAKPOINTS] = { ${list(slopes[name], cDouble)} };`),
+                ...(['kp', 'ki', 'kd'] as const).map(
+                  (name) => `static const double ${prefix}_${name}_slope[${upper}_BREAKPOINTS] = { ${list(slopes[name], cDouble)} };`,
+                ),
                 ...extraNames.map(
-                  (name) => `static const double ${prefix}_${name}_slope[${upper}_BREAKPOINTS] = { ${list(monotoneCubicSlopes(table.speeds_mps, extras[name]), cDouble)} };`,
+                  (name) =>
+                    `static const double ${prefix}_${name}_slope[${upper}_BREAKPOINTS] = { ${list(monotoneCubicSlopes(table.speeds_mps, extras[name]), cDouble)} };`,
                 ),
               ]
             : []),
           '',
-          lookupFunctionsText({ prefix, upper, cubic, gainValue: (name, index) => `${prefix}_${name}[${index}]`, fallbackBreakpoint: fallback?.breakpoint ?? null }),
+          lookupFunctionsText({
+            prefix,
+            upper,
+            cubic,
+            gainValue: (name, index) => `${prefix}_${name}[${index}]`,
+            fallbackBreakpoint: fallback?.breakpoint ?? null,
+          }),
         ]
       : [
           ...status,
@@ -244,7 +264,9 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     ...body,
     '',
     // The controller equation in double: the floating-point header only (the integer header has no floating point).
-    ...(quantisation === undefined ? [controllerFunctionsText({ prefix, upper, discretisation: controller.discretisation, antiWindup: controller.antiWindup }), ''] : []),
+    ...(quantisation === undefined
+      ? [controllerFunctionsText({ prefix, upper, discretisation: controller.discretisation, antiWindup: controller.antiWindup }), '']
+      : []),
     `#endif /* ${upper}_H */`,
     '',
   ];

@@ -13,7 +13,12 @@ const NAMES = ['kp', 'ki', 'kd'] as const;
 const integers = (values: readonly bigint[]): string => values.map(String).join(', ');
 
 /** Macros, typedef, tables and the lookup of a fixed-point header. */
-export function integerLookupText(input: { readonly prefix: string; readonly upper: string; readonly quantisation: QuantisedTable; readonly unitsComment: string }): string[] {
+export function integerLookupText(input: {
+  readonly prefix: string;
+  readonly upper: string;
+  readonly quantisation: QuantisedTable;
+  readonly unitsComment: string;
+}): string[] {
   const { prefix, upper, quantisation } = input;
   const { integer, formats } = quantisation;
   const cubic = integer.cubic;
@@ -42,7 +47,7 @@ export function integerLookupText(input: { readonly prefix: string; readonly upp
     ...NAMES.map((name) => `static const ${wordType(name)} ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${integers(integer.gains[name])} };`),
     ...(cubic
       ? [
-          '/* Hermite slope terms of interval k (Fritsch & Carlson 1980): width times the slope at its start (term0) and end (term1), in the gain\'s Q format. */',
+          "/* Hermite slope terms of interval k (Fritsch & Carlson 1980): width times the slope at its start (term0) and end (term1), in the gain's Q format. */",
           ...NAMES.flatMap((name) => [
             `static const int32_t ${prefix}_${name}_slope_term0[${upper}_BREAKPOINTS] = { ${integers(terms(integer.slopeTerms[name].d0))} };`,
             `static const int32_t ${prefix}_${name}_slope_term1[${upper}_BREAKPOINTS] = { ${integers(terms(integer.slopeTerms[name].d1))} };`,

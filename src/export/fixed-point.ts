@@ -104,7 +104,10 @@ export function quantiseTable(table: GainTable, request: FixedPointRequest, look
   const formats = Object.fromEntries(
     NAMES.map((name) => {
       const terms = slopeTerms(name);
-      return [name, request === 'auto' ? formatFor([...table.gains.map((gains) => Math.abs(gains[name])), ...terms.d0.map(Math.abs), ...terms.d1.map(Math.abs)]) : request];
+      return [
+        name,
+        request === 'auto' ? formatFor([...table.gains.map((gains) => Math.abs(gains[name])), ...terms.d0.map(Math.abs), ...terms.d1.map(Math.abs)]) : request,
+      ];
     }),
   ) as Record<GainName, FixedPointFormat>;
   const stored = (name: GainName, value: number, words: number, what: string): bigint => {
@@ -134,18 +137,21 @@ export function quantiseTable(table: GainTable, request: FixedPointRequest, look
     slopeTerms: Object.fromEntries(
       NAMES.map((name) => {
         const terms = slopeTerms(name);
-        const term = (value: number, k: number): bigint => stored(name, value, 32, `${name} slope term between ${table.speeds_mps[k]} and ${table.speeds_mps[k + 1]} m/s`);
+        const term = (value: number, k: number): bigint =>
+          stored(name, value, 32, `${name} slope term between ${table.speeds_mps[k]} and ${table.speeds_mps[k + 1]} m/s`);
         return [name, { d0: terms.d0.map(term), d1: terms.d1.map(term) }];
       }),
     ) as unknown as IntegerTable['slopeTerms'],
   };
   const quantised: GainTable = {
     speeds_mps: table.speeds_mps,
-    gains: table.gains.map((_, k): PidGains => ({
-      kp: Number(gains.kp[k]) / 2 ** formats.kp.fractionalBits,
-      ki: Number(gains.ki[k]) / 2 ** formats.ki.fractionalBits,
-      kd: Number(gains.kd[k]) / 2 ** formats.kd.fractionalBits,
-    })),
+    gains: table.gains.map(
+      (_, k): PidGains => ({
+        kp: Number(gains.kp[k]) / 2 ** formats.kp.fractionalBits,
+        ki: Number(gains.ki[k]) / 2 ** formats.ki.fractionalBits,
+        kd: Number(gains.kd[k]) / 2 ** formats.kd.fractionalBits,
+      }),
+    ),
   };
   const integerLookup = makeIntegerGainLookup(integer);
   const exactLookup = makeGainLookup(table, lookup, slopes);

@@ -90,10 +90,12 @@ function speedGroups(changes: readonly StepChanges[]): StepChanges[][] {
  */
 function kinematicIntercept(groups: readonly StepChanges[][], wheelbase_m: number, angle: (change: StepChanges) => number | null): number | null {
   const points = groups.flatMap((group) => {
-    const y = median(group.map((change) => {
-      const delta = angle(change);
-      return delta === null ? NaN : Math.abs((change.speed_mps * delta) / (wheelbase_m * change.yawRate_radps));
-    }));
+    const y = median(
+      group.map((change) => {
+        const delta = angle(change);
+        return delta === null ? NaN : Math.abs((change.speed_mps * delta) / (wheelbase_m * change.yawRate_radps));
+      }),
+    );
     const speed = median(group.map((change) => change.speed_mps));
     return y === null || speed === null || !(speed > 0) ? [] : [{ x: speed * speed, y }];
   });
@@ -118,7 +120,10 @@ export function channelObservations(steps: readonly StepTest[], wheelbase_m: num
   return {
     kinematicCommand: kinematicIntercept(groups, wheelbase_m, (change) => change.command_rad),
     kinematicMeasured: withMeasured.length === 0 ? null : kinematicIntercept(groups, wheelbase_m, (change) => change.measured_rad),
-    steadyTurning: turning.length === 0 ? null : median(turning.map((change) => Math.abs((change.speed_mps * change.yawRate_radps) / (change.lateralAcceleration_mps2 as number)))),
+    steadyTurning:
+      turning.length === 0
+        ? null
+        : median(turning.map((change) => Math.abs((change.speed_mps * change.yawRate_radps) / (change.lateralAcceleration_mps2 as number)))),
     actuatorGain: withMeasured.length === 0 ? null : median(withMeasured.map((change) => Math.abs((change.measured_rad as number) / change.command_rad))),
     speedCount: groups.length,
   };

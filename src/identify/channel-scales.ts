@@ -34,11 +34,23 @@ const POWERS: Readonly<Record<ScaledChannel, Readonly<Record<Observation, number
 function unitsOf(channel: ScaledChannel, steeringRatio: number): readonly { unit: string; toSi: number }[] {
   switch (channel) {
     case 'speed_mps':
-      return [{ unit: 'm/s', toSi: 1 }, { unit: 'km/h', toSi: MPS_PER_KPH }, { unit: 'mph', toSi: MPS_PER_MPH }, { unit: 'ft/s', toSi: 0.3048 }];
+      return [
+        { unit: 'm/s', toSi: 1 },
+        { unit: 'km/h', toSi: MPS_PER_KPH },
+        { unit: 'mph', toSi: MPS_PER_MPH },
+        { unit: 'ft/s', toSi: 0.3048 },
+      ];
     case 'yaw_rate_radps':
-      return [{ unit: 'rad/s', toSi: 1 }, { unit: 'deg/s', toSi: RADIANS_PER_DEGREE }];
+      return [
+        { unit: 'rad/s', toSi: 1 },
+        { unit: 'deg/s', toSi: RADIANS_PER_DEGREE },
+      ];
     case 'lat_accel_mps2':
-      return [{ unit: 'm/s^2', toSi: 1 }, { unit: 'g', toSi: STANDARD_GRAVITY_MPS2 }, { unit: 'ft/s^2', toSi: 0.3048 }];
+      return [
+        { unit: 'm/s^2', toSi: 1 },
+        { unit: 'g', toSi: STANDARD_GRAVITY_MPS2 },
+        { unit: 'ft/s^2', toSi: 0.3048 },
+      ];
     default:
       return [
         { unit: 'rad', toSi: 1 },
@@ -80,7 +92,8 @@ export function judgeChannelScales(observations: ChannelObservations, sources: r
     const powers = POWERS[channel];
     const involved = logs.filter((entry) => powers[entry.name] !== 0);
     if (involved.length === 0) continue;
-    const logFactor = involved.reduce((sum, entry) => sum + powers[entry.name] * entry.log, 0) / involved.reduce((sum, entry) => sum + powers[entry.name] ** 2, 0);
+    const logFactor =
+      involved.reduce((sum, entry) => sum + powers[entry.name] * entry.log, 0) / involved.reduce((sum, entry) => sum + powers[entry.name] ** 2, 0);
     const misfit = Math.max(...logs.map((entry) => Math.abs(entry.log - powers[entry.name] * logFactor)));
     if (misfit > Math.log(EXPLAINED_TOLERANCE) || Math.abs(logFactor) < Math.log(CHANNEL_SCALE_TOLERANCE)) continue;
     const factor = Math.exp(logFactor);
@@ -110,7 +123,8 @@ function observationWords(observations: ChannelObservations, wheelbase_m: number
       'understeer only lowers it at speed)',
   ];
   if (observations.kinematicMeasured !== null) parts.push(`with the measured road-wheel angle ${shown(observations.kinematicMeasured)}×`);
-  if (observations.steadyTurning !== null) parts.push(`v·r is ${shown(observations.steadyTurning)}× the logged lateral acceleration (steady turning: a_y = v·r)`);
+  if (observations.steadyTurning !== null)
+    parts.push(`v·r is ${shown(observations.steadyTurning)}× the logged lateral acceleration (steady turning: a_y = v·r)`);
   if (observations.actuatorGain !== null) parts.push(`the measured road-wheel angle moves ${shown(observations.actuatorGain)}× the command`);
   return parts.join('; ');
 }

@@ -119,10 +119,13 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
   const coarseOutput = output.filter((_, i) => i % stride === 0);
   const scratch = new Float64Array(coarseTime.length);
   // The lag states depend on the time constant only: computed once per grid time constant.
-  const timeConstants_s = Array.from({ length: options.timeConstantGridPoints }, (_, j) =>
-    timeConstantMin_s * Math.pow(timeConstantMax_s / timeConstantMin_s, j / (options.timeConstantGridPoints - 1)),
+  const timeConstants_s = Array.from(
+    { length: options.timeConstantGridPoints },
+    (_, j) => timeConstantMin_s * Math.pow(timeConstantMax_s / timeConstantMin_s, j / (options.timeConstantGridPoints - 1)),
   );
-  const statesByTimeConstant = timeConstants_s.map((timeConstant_s) => firstOrderStates({ time_s: coarseTime, input: coarseInput, timeConstant_s, hold: options.hold, states: new Float64Array(coarseTime.length) }));
+  const statesByTimeConstant = timeConstants_s.map((timeConstant_s) =>
+    firstOrderStates({ time_s: coarseTime, input: coarseInput, timeConstant_s, hold: options.hold, states: new Float64Array(coarseTime.length) }),
+  );
   const grid: GridPoint[] = [];
   for (let i = 0; i < options.deadTimeGridPoints; i++) {
     const deadTime_s = (deadTimeMax_s * i) / (options.deadTimeGridPoints - 1);
@@ -155,7 +158,17 @@ export function fitFopdt(signals: StepSignals, options: FopdtFitOptions = FOPDT_
     names: ['gain', 'timeConstant_s', 'deadTime_s'],
     simulate: (p) => simulateFopdt({ time_s, input, gain: p[0], timeConstant_s: p[1], deadTime_s: p[2], hold: options.hold, states: fullStates }),
     sensitivities: (p) => {
-      fopdtSensitivities({ time_s, input, gain: p[0], timeConstant_s: p[1], deadTime_s: p[2], hold: options.hold, out: columns, states: fullStates, stateSensitivities });
+      fopdtSensitivities({
+        time_s,
+        input,
+        gain: p[0],
+        timeConstant_s: p[1],
+        deadTime_s: p[2],
+        hold: options.hold,
+        out: columns,
+        states: fullStates,
+        stateSensitivities,
+      });
       return [columns.gain, columns.timeConstant, columns.deadTime];
     },
     linearInGain: true,

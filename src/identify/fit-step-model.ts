@@ -60,7 +60,12 @@ export interface StepModelFit {
 }
 
 /** Fit a step model from several starts and return the best with its uncertainty and quality. */
-export function fitStepModel(signals: StepSignals, definition: StepModelDefinition, biasMode: BiasMode, maxIterations = LEAST_SQUARES_DEFAULTS.maxIterations): StepModelFit {
+export function fitStepModel(
+  signals: StepSignals,
+  definition: StepModelDefinition,
+  biasMode: BiasMode,
+  maxIterations = LEAST_SQUARES_DEFAULTS.maxIterations,
+): StepModelFit {
   const { output, preStepSamples } = signals;
   const preStepBias = meanOf(output, 0, Math.max(1, preStepSamples));
   const fitted = biasMode === 'fitted';
@@ -75,7 +80,8 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
     return response;
   };
   const scale = fitted ? [...definition.scale, residualScale] : definition.scale;
-  const search = definition.linearInGain === true ? projectedSearch(definition, output, fitted ? null : preStepBias) : fullSearch(definition, model, fitted, scale);
+  const search =
+    definition.linearInGain === true ? projectedSearch(definition, output, fitted ? null : preStepBias) : fullSearch(definition, model, fitted, scale);
   let best: { parameters: readonly number[]; ssr: number; stopReason: StopReason; iterations: number } | null = null;
   // Starts ranked by their initial sum of squares; Levenberg–Marquardt runs from the best and from
   // any other within START_SSR_FACTOR of it (a distinct basin worth exploring), at most maxRuns.
@@ -89,7 +95,16 @@ export function fitStepModel(signals: StepSignals, definition: StepModelDefiniti
   const runs = ranked.filter((r, i) => i === 0 || r.ssr <= START_SSR_FACTOR * ranked[0].ssr).slice(0, Math.max(1, definition.maxRuns));
   for (const { initial } of runs) {
     const result = fitLeastSquares(
-      { data: output, model: search.model, initial, scale: search.scale, lower: search.lower, upper: search.upper, residualScale, ...(search.jacobian === undefined ? {} : { jacobian: search.jacobian }) },
+      {
+        data: output,
+        model: search.model,
+        initial,
+        scale: search.scale,
+        lower: search.lower,
+        upper: search.upper,
+        residualScale,
+        ...(search.jacobian === undefined ? {} : { jacobian: search.jacobian }),
+      },
       { ...LEAST_SQUARES_DEFAULTS, maxIterations },
     );
     if (Number.isNaN(result.ssr)) continue;
@@ -137,7 +152,12 @@ interface Search {
 }
 
 /** Every parameter searched, the bias among them when fitted. */
-function fullSearch(definition: StepModelDefinition, model: (parameters: readonly number[]) => Float64Array, fitted: boolean, scale: readonly number[]): Search {
+function fullSearch(
+  definition: StepModelDefinition,
+  model: (parameters: readonly number[]) => Float64Array,
+  fitted: boolean,
+  scale: readonly number[],
+): Search {
   const p = definition.names.length;
   const { sensitivities } = definition;
   let ones: Float64Array | null = null;

@@ -56,10 +56,14 @@ export function identifyFromLogs(input: IdentifyFromLogsInput): ModelsFile {
   const logPaths = inputs.map((entry) => entry.file);
   const { steps, rejected, channels } = readSteps(logPaths, vehicle, { readOptions: input.readOptions, maxHold_s: options.maxHold_s });
   if (steps.length === 0) {
-    throw new SpeedbandError('identify.noSteps', `no step-steer event was found in ${logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`, {
-      location: { file: logPaths[0] },
-      details: { rejected: rejected.length },
-    });
+    throw new SpeedbandError(
+      'identify.noSteps',
+      `no step-steer event was found in ${logPaths.length} log(s)${describeRejected(rejected)} — log open-loop steps held until the yaw rate settles`,
+      {
+        location: { file: logPaths[0] },
+        details: { rejected: rejected.length },
+      },
+    );
   }
 
   if (input.checkChannels !== false) {
@@ -183,7 +187,12 @@ export function expandLogPaths(paths: readonly string[]): string[] {
       isFolder = false; // a missing file is reported by the log reader, with its name
     }
     if (isFolder) {
-      files.push(...readdirSync(path).filter((name) => name.toLowerCase().endsWith('.csv')).sort().map((name) => join(path, name)));
+      files.push(
+        ...readdirSync(path)
+          .filter((name) => name.toLowerCase().endsWith('.csv'))
+          .sort()
+          .map((name) => join(path, name)),
+      );
     } else {
       files.push(path);
     }

@@ -37,7 +37,9 @@ export interface StepIdentification {
 export function identifyStep(step: StepTest, options: IdentifyOptions): StepIdentification {
   const signals = yawSignals(step);
   const fopdt = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, biasMode: options.biasMode, hold: options.hold });
-  const secondOrder = options.fitSecondOrder ? fitSecondOrder(signals, { seed: fopdt.model, withZero: false, biasMode: options.biasMode, hold: options.hold }) : null;
+  const secondOrder = options.fitSecondOrder
+    ? fitSecondOrder(signals, { seed: fopdt.model, withZero: false, biasMode: options.biasMode, hold: options.hold })
+    : null;
   // The zero is fitted only when the model without it leaves structure in the residuals (Ljung–Box
   // rejects whiteness): with white residuals the extra parameter cannot lower the BIC by more than
   // noise (on the demo logs it never did), and the fit is the slowest of the three.
@@ -53,8 +55,7 @@ export function identifyStep(step: StepTest, options: IdentifyOptions): StepIden
     const score = bic[structure];
     if (score !== undefined && score < (bic[chosen] as number)) chosen = structure;
   }
-  const yawNoise_radps =
-    step.preStepSamples >= 10 ? standardDeviationOf(step.yawRate_radps, 0, step.preStepSamples) : fopdt.fit.quality.rmse;
+  const yawNoise_radps = step.preStepSamples >= 10 ? standardDeviationOf(step.yawRate_radps, 0, step.preStepSamples) : fopdt.fit.quality.rmse;
   return {
     file: step.file,
     stepIndex: step.stepIndex,

@@ -6,7 +6,15 @@ export { identifyStep, type StepIdentification, type ModelStructure } from './id
 export { fitFopdt, FOPDT_FIT_DEFAULTS, type FopdtFit, type FopdtFitOptions } from './fit-fopdt.js';
 export { fitSecondOrder, type SecondOrderFit } from './fit-second-order.js';
 export { fitStepModel, type BiasMode, type StepModelFit, type StepModelDefinition } from './fit-step-model.js';
-export { fitLeastSquares, sumOfSquares, LEAST_SQUARES_DEFAULTS, type LeastSquaresProblem, type LeastSquaresOptions, type LeastSquaresResult, type StopReason } from './least-squares.js';
+export {
+  fitLeastSquares,
+  sumOfSquares,
+  LEAST_SQUARES_DEFAULTS,
+  type LeastSquaresProblem,
+  type LeastSquaresOptions,
+  type LeastSquaresResult,
+  type StopReason,
+} from './least-squares.js';
 export { simulateFopdt, firstOrderStates, type CommandHold } from './simulate-fopdt.js';
 export { simulateSecondOrder } from './simulate-second-order.js';
 export { simulateThirdOrderHeld } from './simulate-third-order.js';
@@ -23,4 +31,18 @@ export { identifyActuator, type ActuatorIdentification } from './actuator.js';
 export { fitSingleTrack, type SingleTrackFit, type SpeedComparison } from './joint-single-track.js';
 export { simulateYawThroughActuator } from './simulate-single-track-yaw.js';
 export { readModels, writeModels, parseModels, modelsToJson } from './models-file.js';
-export { MODELS_SCHEMA, MODELS_FORMAT, MODELS_FORMAT_VERSION, type ModelsFile, type TestRecord, type RefusedTestRecord, type SpeedRecord, type FopdtRecord, type StepFopdtRecord, type SecondOrderRecord, type ActuatorRecord, type SingleTrackRecord, type HashedFile } from './models-schema.js';
+export {
+  MODELS_SCHEMA,
+  MODELS_FORMAT,
+  MODELS_FORMAT_VERSION,
+  type ModelsFile,
+  type TestRecord,
+  type RefusedTestRecord,
+  type SpeedRecord,
+  type FopdtRecord,
+  type StepFopdtRecord,
+  type SecondOrderRecord,
+  type ActuatorRecord,
+  type SingleTrackRecord,
+  type HashedFile,
+} from './models-schema.js';

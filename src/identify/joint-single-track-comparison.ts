@@ -88,7 +88,14 @@ function compareAtSpeed(
         `${s.fopdtRmse_radps.toExponential(2)} rad/s — its dynamics do not match this speed: check the vehicle file's mass, inertia and axle positions`,
     );
   }
-  const comparison = { speed_mps: s.speed_mps, fopdtGain: s.model.gain, singleTrackGain, difference_pct, singleTrackRmse_radps, fopdtRmse_radps: s.fopdtRmse_radps };
+  const comparison = {
+    speed_mps: s.speed_mps,
+    fopdtGain: s.model.gain,
+    singleTrackGain,
+    difference_pct,
+    singleTrackRmse_radps,
+    fopdtRmse_radps: s.fopdtRmse_radps,
+  };
   return { comparison, warnings };
 }
 

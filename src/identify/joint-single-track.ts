@@ -148,7 +148,13 @@ function understeerHalfWidth(params: SingleTrackParameters, p: readonly number[]
 }
 
 /** Uncertainty of the fitted parameters; the per-step offsets are fitted too, so they count in the degrees of freedom (via the SSR scaling). */
-function jointUncertainty(stacked: StackedSteps, model: (p: readonly number[]) => Float64Array, p: readonly number[], ssr: number, lag1Correlation: number): ParameterUncertainty {
+function jointUncertainty(
+  stacked: StackedSteps,
+  model: (p: readonly number[]) => Float64Array,
+  p: readonly number[],
+  ssr: number,
+  lag1Correlation: number,
+): ParameterUncertainty {
   const { total, steps } = stacked;
   const jacobian = numericalJacobian(model, p, JOINT.scale);
   return parameterUncertainty(p, jacobian.columns, (ssr * (total - PARAMETER_COUNT)) / Math.max(1, total - PARAMETER_COUNT - steps.length), lag1Correlation);

@@ -83,7 +83,12 @@ export function refusedTestRecord(step: StepIdentification): RefusedTestRecord {
     ...stepIdentity(step),
     reasonCode: step.refusal?.reasonCode ?? 'unknown',
     reason: step.refusal?.reason ?? '',
-    fopdt: { gain: finiteOrNull(m.gain), timeConstant_s: finiteOrNull(m.timeConstant_s), deadTime_s: finiteOrNull(m.deadTime_s), r2: finiteOrNull(step.fopdt.fit.quality.r2) },
+    fopdt: {
+      gain: finiteOrNull(m.gain),
+      timeConstant_s: finiteOrNull(m.timeConstant_s),
+      deadTime_s: finiteOrNull(m.deadTime_s),
+      r2: finiteOrNull(step.fopdt.fit.quality.r2),
+    },
   };
 }
 
@@ -101,5 +106,12 @@ export function speedRecord(speed: SpeedModel): SpeedRecord {
     standardErrors: { gain: speed.gain.standardError, timeConstant_s: speed.timeConstant_s.standardError, deadTime_s: speed.deadTime_s.standardError },
     ci95: { gain: speed.gain.ci95, timeConstant_s: speed.timeConstant_s.ci95, deadTime_s: speed.deadTime_s.ci95 },
   };
-  return { speed_mps: speed.speed_mps, stepCount: speed.stepCount, steps: [...speed.steps].sort(compareStepKeys), fopdt, asymmetry_pct: speed.asymmetry_pct, repeatSpread_pct: speed.repeatSpread_pct };
+  return {
+    speed_mps: speed.speed_mps,
+    stepCount: speed.stepCount,
+    steps: [...speed.steps].sort(compareStepKeys),
+    fopdt,
+    asymmetry_pct: speed.asymmetry_pct,
+    repeatSpread_pct: speed.repeatSpread_pct,
+  };
 }

@@ -97,9 +97,7 @@ export function firstOrderStates(
  * as `hold` says (formula in the file comment). Written into `out` (a new array when not given); `states` is
  * scratch of the same length (reused to avoid allocation; a new array when not given).
  */
-export function simulateFopdt(
-  options: FopdtResponseInput & { readonly out?: Float64Array; readonly states?: Float64Array },
-): Float64Array {
+export function simulateFopdt(options: FopdtResponseInput & { readonly out?: Float64Array; readonly states?: Float64Array }): Float64Array {
   const n = options.time_s.length;
   const states = firstOrderStates({ ...options, states: options.states ?? new Float64Array(n), stateSensitivities: null });
   return delayedFirstOrderOutput({ ...options, states, out: options.out ?? new Float64Array(n) });
@@ -110,9 +108,7 @@ export function simulateFopdt(
  * (`firstOrderStates` with the same input, time constant and hold). Split out so that a grid over dead
  * times reuses one set of states per time constant. Units as in simulateFopdt.
  */
-export function delayedFirstOrderOutput(
-  options: FopdtResponseInput & { readonly states: Float64Array; readonly out: Float64Array },
-): Float64Array {
+export function delayedFirstOrderOutput(options: FopdtResponseInput & { readonly states: Float64Array; readonly out: Float64Array }): Float64Array {
   const { time_s, input, gain, timeConstant_s, deadTime_s, hold, states, out } = options;
   const n = time_s.length;
   const tau = timeConstant_s;

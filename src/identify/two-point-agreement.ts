@@ -45,7 +45,9 @@ export interface TwoPointTally {
 }
 
 /** Count, over step records of a models file, the two-point estimates that disagree with their fits (`agreesWithFit: false`). */
-export function tallyTwoPointAgreement(tests: readonly { readonly fopdt: { readonly twoPoint: { readonly agreesWithFit?: boolean } | null } }[]): TwoPointTally {
+export function tallyTwoPointAgreement(
+  tests: readonly { readonly fopdt: { readonly twoPoint: { readonly agreesWithFit?: boolean } | null } }[],
+): TwoPointTally {
   let disagreeing = 0;
   let withoutEstimate = 0;
   for (const test of tests) {

@@ -153,6 +153,14 @@ function missingColumn(channel: ChannelName, name: string, header: readonly stri
   return new SpeedbandError(
     'log.missingColumn',
     `no column ${quoted(name)} (${CHANNEL_DEFINITIONS[channel].describe}) in the header; found: ${listOfNames(header)} — ${hint}`,
-    { location: { file, line: 1 }, details: { channel, name: cutText(name, QUOTED_TEXT_MAX), suggestion, header: header.slice(0, LISTED_HEADER_NAMES).map((entry) => cutText(entry, QUOTED_TEXT_MAX)) } },
+    {
+      location: { file, line: 1 },
+      details: {
+        channel,
+        name: cutText(name, QUOTED_TEXT_MAX),
+        suggestion,
+        header: header.slice(0, LISTED_HEADER_NAMES).map((entry) => cutText(entry, QUOTED_TEXT_MAX)),
+      },
+    },
   );
 }

@@ -77,7 +77,10 @@ function unitMismatchError(channel: ChannelName, unit: string, found: string, or
   const quantity = CHANNEL_DEFINITIONS[channel].quantity;
   return new SpeedbandError(
     'log.unitMismatch',
-    prefixed(origin, `${quoted(unit)} is ${found}; ${channel} (${CHANNEL_DEFINITIONS[channel].describe}) needs ${quantityWords(quantity)} — give a unit such as ${EXAMPLES[quantity]}`),
+    prefixed(
+      origin,
+      `${quoted(unit)} is ${found}; ${channel} (${CHANNEL_DEFINITIONS[channel].describe}) needs ${quantityWords(quantity)} — give a unit such as ${EXAMPLES[quantity]}`,
+    ),
     { location: origin.location ?? {}, details: { channel, unit, found } },
   );
 }
@@ -110,7 +113,10 @@ export async function resolveColumnUnit(channel: ChannelName, unit: string, orig
     const quantity = CHANNEL_DEFINITIONS[channel].quantity;
     throw new SpeedbandError(
       'log.unknownUnit',
-      prefixed(origin, `${quoted(unit)} is not a unit (${reading.reason}) — give ${quantityWords(quantity)} unit for ${channel} such as ${EXAMPLES[quantity]} (mathjs unit names)`),
+      prefixed(
+        origin,
+        `${quoted(unit)} is not a unit (${reading.reason}) — give ${quantityWords(quantity)} unit for ${channel} such as ${EXAMPLES[quantity]} (mathjs unit names)`,
+      ),
       { location: origin.location ?? {}, details: { channel, unit, reason: reading.reason } },
     );
   }

@@ -53,7 +53,8 @@ export const CHANNEL_DEFINITIONS: Readonly<Record<ChannelName, ChannelDefinition
     siUnit: 'rad',
     describe: 'road-wheel angle command',
     plausible: { min: -Math.PI / 2, max: Math.PI / 2 },
-    implausibleHint: 'a road-wheel angle beyond ±π/2 rad is probably degrees or a steering-wheel angle in a radian column; give its unit (e.g. steer_cmd_rad=NAME:deg or NAME:steering-wheel-deg)',
+    implausibleHint:
+      'a road-wheel angle beyond ±π/2 rad is probably degrees or a steering-wheel angle in a radian column; give its unit (e.g. steer_cmd_rad=NAME:deg or NAME:steering-wheel-deg)',
   },
   yaw_rate_radps: {
     quantity: 'angularRate',
@@ -67,7 +68,8 @@ export const CHANNEL_DEFINITIONS: Readonly<Record<ChannelName, ChannelDefinition
     siUnit: 'rad',
     describe: 'measured road-wheel angle',
     plausible: { min: -Math.PI / 2, max: Math.PI / 2 },
-    implausibleHint: 'a road-wheel angle beyond ±π/2 rad is probably degrees or a steering-wheel angle in a radian column; give its unit (e.g. steer_angle_rad=NAME:deg)',
+    implausibleHint:
+      'a road-wheel angle beyond ±π/2 rad is probably degrees or a steering-wheel angle in a radian column; give its unit (e.g. steer_angle_rad=NAME:deg)',
   },
   lat_accel_mps2: {
     quantity: 'acceleration',

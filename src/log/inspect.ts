@@ -140,6 +140,17 @@ function channelSummaries(log: SteerLog): ChannelSummary[] {
         if (values[i] > max) max = values[i];
       }
     }
-    return [{ channel: source.channel, describe: definition.describe, header: source.header, columnNumber: source.columnNumber, recordedUnit: source.unit, unit: definition.siUnit, min, max }];
+    return [
+      {
+        channel: source.channel,
+        describe: definition.describe,
+        header: source.header,
+        columnNumber: source.columnNumber,
+        recordedUnit: source.unit,
+        unit: definition.siUnit,
+        min,
+        max,
+      },
+    ];
   });
 }

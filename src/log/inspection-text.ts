@@ -28,7 +28,14 @@ export function formatInspection(inspection: LogInspection): string {
   const channelRows = [['channel', 'from column', 'recorded in', 'min', 'max', 'unit']];
   for (const channel of inspection.channels) {
     const digits = channel.channel === 'time_s' ? 3 : 4;
-    channelRows.push([channel.channel, `${channel.columnNumber} ${quoted(channel.header)}`, channel.recordedUnit, fixed(channel.min, digits), fixed(channel.max, digits), channel.unit]);
+    channelRows.push([
+      channel.channel,
+      `${channel.columnNumber} ${quoted(channel.header)}`,
+      channel.recordedUnit,
+      fixed(channel.min, digits),
+      fixed(channel.max, digits),
+      channel.unit,
+    ]);
   }
   lines.push(...table(channelRows, [false, false, false, true, true, false]).map((line) => `    ${line}`));
 

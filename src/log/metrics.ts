@@ -68,10 +68,7 @@ export function stepLevels(window: StepWindow, steadyFraction: number = METRICS_
  * null when the yaw rate never rises above its steady level by more than
  * `peakNoiseMultiple` σ of the smoothed noise before the steady part.
  */
-export function stepMetrics(
-  window: StepWindow,
-  options: { steadyFraction?: number; peakNoiseMultiple?: number; smoothingSamples?: number } = {},
-): StepMetrics {
+export function stepMetrics(window: StepWindow, options: { steadyFraction?: number; peakNoiseMultiple?: number; smoothingSamples?: number } = {}): StepMetrics {
   const levels = stepLevels(window, options.steadyFraction ?? METRICS_DEFAULTS.steadyFraction);
   const peakNoiseMultiple = options.peakNoiseMultiple ?? METRICS_DEFAULTS.peakNoiseMultiple;
   const { time_s, steerCommand_rad, preStepSamples } = window;

@@ -100,9 +100,13 @@ export async function parseColumnOptions(options: readonly string[]): Promise<Co
     const from = colon < 0 ? rest : rest.slice(0, colon);
     const unit = colon < 0 ? undefined : rest.slice(colon + 1).trim();
     if (unit === '') {
-      throw new SpeedbandError('log.badColumnOption', `--column ${quoted(option)} ends with ":" but gives no unit — write CHANNEL=HEADER:UNIT (e.g. speed_mps=v:km/h) or drop the colon`, {
-        details: { option },
-      });
+      throw new SpeedbandError(
+        'log.badColumnOption',
+        `--column ${quoted(option)} ends with ":" but gives no unit — write CHANNEL=HEADER:UNIT (e.g. speed_mps=v:km/h) or drop the colon`,
+        {
+          details: { option },
+        },
+      );
     }
     map[channel] = { ...(from === '' ? {} : { from }), ...(unit === undefined ? {} : { unit }) };
     written[channel] = option;

@@ -30,7 +30,10 @@ export function cellError(cell: string, column: ResolvedColumn, line: number, fi
   const location = { file, line, column: columnLabel(column.index, column.header) };
   const messages: Record<typeof problem, [ErrorCode, string]> = {
     empty: ['log.emptyCell', `the ${column.channel} cell is empty — every row needs a number in every used column; fill it or remove the row`],
-    nonFinite: ['log.nonFinite', `${column.channel} is ${quoted(cell.trim())}, not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`],
+    nonFinite: [
+      'log.nonFinite',
+      `${column.channel} is ${quoted(cell.trim())}, not a finite number — the logger recorded no valid value here; remove the row or cut the log around it`,
+    ],
     decimalComma: ['log.nonNumeric', `${column.channel} is ${quoted(cell.trim())}: a decimal comma — write numbers with a decimal point (e.g. 12.5)`],
     nonNumeric: ['log.nonNumeric', `${column.channel} is ${quoted(cell.trim())}, expected a decimal number (e.g. 0.0125 or 1.2e-3) — fix or remove the row`],
   };
@@ -53,11 +56,10 @@ export function checkTimeIncreases(previous: number, current: number, previousLi
   if (current > previous) return;
   const location = { file, line, column: columnLabel(column.index, column.header) };
   if (current === previous) {
-    throw new SpeedbandError(
-      'log.duplicateTime',
-      `time_s ${current} appears twice (lines ${previousLine} and ${line}) — remove the duplicate sample`,
-      { location, details: { time_s: current, previousLine } },
-    );
+    throw new SpeedbandError('log.duplicateTime', `time_s ${current} appears twice (lines ${previousLine} and ${line}) — remove the duplicate sample`, {
+      location,
+      details: { time_s: current, previousLine },
+    });
   }
   // Enough decimals to tell the two times apart (12.40 then 12.39), at least two.
   let decimals = 2;

@@ -46,9 +46,13 @@ export function readSteerLog(path: string, options: ReadLogOptions = {}): SteerL
 export function parseSteerLog(text: string, file: string, options: ReadLogOptions = {}): SteerLog {
   const gapFactor = options.gapFactor ?? READ_DEFAULTS.gapFactor;
   if (!(Number.isFinite(gapFactor) && gapFactor > 1)) {
-    throw new SpeedbandError('log.badOption', `the gap factor is ${gapFactor} — it must be a number above 1 (default ${READ_DEFAULTS.gapFactor} sample periods)`, {
-      details: { option: 'gapFactor', value: gapFactor },
-    });
+    throw new SpeedbandError(
+      'log.badOption',
+      `the gap factor is ${gapFactor} — it must be a number above 1 (default ${READ_DEFAULTS.gapFactor} sample periods)`,
+      {
+        details: { option: 'gapFactor', value: gapFactor },
+      },
+    );
   }
   const droppedRows: Record<string, number> = {};
   const drop = (reason: string): void => {
@@ -162,7 +166,8 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
       `the log has ${splits.length} time gap${splits.length === 1 ? '' : 's'} longer than ${gapFactor} sample periods and was split into ${segments.length} segments`,
     );
   }
-  for (const [reason, count] of Object.entries(droppedRows)) warnings.push(`${count} ${reason === 'blankLine' ? 'blank' : 'comment'} line${count === 1 ? '' : 's'} skipped`);
+  for (const [reason, count] of Object.entries(droppedRows))
+    warnings.push(`${count} ${reason === 'blankLine' ? 'blank' : 'comment'} line${count === 1 ? '' : 's'} skipped`);
 
   return {
     file,
@@ -174,7 +179,13 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
     warnings,
     delimiter,
     ignoredColumns: ignored,
-    channels: columns.map((column) => ({ channel: column.channel, header: column.header, columnNumber: column.index + 1, unit: column.unit, toSi: column.toSi })),
+    channels: columns.map((column) => ({
+      channel: column.channel,
+      header: column.header,
+      columnNumber: column.index + 1,
+      unit: column.unit,
+      toSi: column.toSi,
+    })),
   };
 }
 

@@ -93,7 +93,8 @@ interface EdgeWords {
 }
 
 function describeEdges(segmentCount: number, splits: readonly LogSplit[], segmentIndex: number): EdgeWords {
-  const gapWords = (split: LogSplit | undefined): string => (split === undefined ? 'a time gap' : `a ${split.gap_s.toFixed(2)} s time gap (line ${split.line})`);
+  const gapWords = (split: LogSplit | undefined): string =>
+    split === undefined ? 'a time gap' : `a ${split.gap_s.toFixed(2)} s time gap (line ${split.line})`;
   return {
     start: segmentIndex === 0 ? 'the log starts' : `the log resumes after ${gapWords(splits[segmentIndex - 1])}`,
     end: segmentIndex === segmentCount - 1 ? 'the log ends' : `${gapWords(splits[segmentIndex])} cuts the log`,
@@ -140,7 +141,13 @@ function segmentCandidates(segment: LogSegment, settings: Settings): Candidate[]
   return candidates;
 }
 
-function judgeCandidate(segment: LogSegment, { before, after, edge }: Candidate, settings: Settings, stepIndex: number, edges: EdgeWords): StepTest | RejectedStep {
+function judgeCandidate(
+  segment: LogSegment,
+  { before, after, edge }: Candidate,
+  settings: Settings,
+  stepIndex: number,
+  edges: EdgeWords,
+): StepTest | RejectedStep {
   const t = segment.time_s;
   const onset = before.end;
   const onset_s = t[onset];

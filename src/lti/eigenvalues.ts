@@ -402,7 +402,17 @@ function scratchFor(n: number): ConditionScratch {
   let scratch = scratchBySize.get(n);
   if (scratch === undefined) {
     const vector = (): Float64Array => new Float64Array(n);
-    scratch = { ur: new Float64Array(n * n), ui: new Float64Array(n * n), swapped: new Uint8Array(n), lr: vector(), li: vector(), xr: vector(), xi: vector(), wr: vector(), wi: vector() };
+    scratch = {
+      ur: new Float64Array(n * n),
+      ui: new Float64Array(n * n),
+      swapped: new Uint8Array(n),
+      lr: vector(),
+      li: vector(),
+      xr: vector(),
+      xi: vector(),
+      wr: vector(),
+      wi: vector(),
+    };
     if (scratchBySize.size > 16) scratchBySize.clear();
     scratchBySize.set(n, scratch);
   }

@@ -26,9 +26,13 @@ const DEFAULTS = {
 export function polynomialRoots(p: readonly number[]): Complex[] {
   const trimmed = trimPolynomial(p);
   if (trimmed.some((c) => !Number.isFinite(c))) {
-    throw new SpeedbandError('lti.nonFiniteCoefficient', `polynomial coefficients must be finite numbers, found [${trimmed.join(', ')}] — check the model that produced them`, {
-      details: { coefficients: trimmed },
-    });
+    throw new SpeedbandError(
+      'lti.nonFiniteCoefficient',
+      `polynomial coefficients must be finite numbers, found [${trimmed.join(', ')}] — check the model that produced them`,
+      {
+        details: { coefficients: trimmed },
+      },
+    );
   }
   if (trimmed.length === 1 && trimmed[0] === 0) {
     throw new SpeedbandError('lti.zeroPolynomial', 'the zero polynomial has no defined roots — expected at least one non-zero coefficient', {

@@ -20,11 +20,14 @@ export function transferFunction(numerator: readonly number[], denominator: read
   };
   if (numerator.length === 0) invalid('numerator is empty — expected at least one coefficient (highest power first), e.g. [1]', {});
   if (denominator.length === 0) invalid('denominator is empty — expected at least one coefficient (highest power first), e.g. [1, 1]', {});
-  if (!numerator.every(Number.isFinite)) invalid(`numerator [${numerator.join(', ')}] has a non-finite coefficient — expected finite numbers`, { numerator: [...numerator] });
-  if (!denominator.every(Number.isFinite)) invalid(`denominator [${denominator.join(', ')}] has a non-finite coefficient — expected finite numbers`, { denominator: [...denominator] });
+  if (!numerator.every(Number.isFinite))
+    invalid(`numerator [${numerator.join(', ')}] has a non-finite coefficient — expected finite numbers`, { numerator: [...numerator] });
+  if (!denominator.every(Number.isFinite))
+    invalid(`denominator [${denominator.join(', ')}] has a non-finite coefficient — expected finite numbers`, { denominator: [...denominator] });
   if (!Number.isFinite(delay_s) || delay_s < 0) invalid(`delay_s is ${delay_s} — expected a finite delay ≥ 0 s`, { delay_s });
   const den = trimPolynomial(denominator);
-  if (den.length === 1 && den[0] === 0) invalid('denominator is the zero polynomial — expected a non-zero leading coefficient', { denominator: [...denominator] });
+  if (den.length === 1 && den[0] === 0)
+    invalid('denominator is the zero polynomial — expected a non-zero leading coefficient', { denominator: [...denominator] });
   const lead = den[0];
   return {
     numerator: trimPolynomial(numerator).map((c) => c / lead),

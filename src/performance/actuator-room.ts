@@ -10,12 +10,22 @@ import type { ActuatorRoom } from './types.js';
  * the delayed command changes (δ = c + (δ₀ − c)·e^(−t/τ) in between, exact); otherwise the command's own rate
  * |u_k − u_(k−1)|/Ts.
  */
-export function actuatorRoom(command: Float64Array, size: number, loop: PerformanceLoop, limits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number }): ActuatorRoom {
+export function actuatorRoom(
+  command: Float64Array,
+  size: number,
+  loop: PerformanceLoop,
+  limits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number },
+): ActuatorRoom {
   const peakAngle = peakMagnitude(command) / size;
   const peakRate = peakMagnitude(askedSteeringRate(command, loop)) / size;
   const byAngle = peakAngle > 0 ? limits.maxSteerAngle_rad / peakAngle : Number.POSITIVE_INFINITY;
   const byRate = peakRate > 0 ? limits.maxSteerRate_radps / peakRate : Number.POSITIVE_INFINITY;
-  return { largestReference: Math.min(byAngle, byRate), limitedBy: byRate < byAngle ? 'rate' : 'angle', peakAnglePerUnit: peakAngle, peakRatePerUnit: peakRate };
+  return {
+    largestReference: Math.min(byAngle, byRate),
+    limitedBy: byRate < byAngle ? 'rate' : 'angle',
+    peakAnglePerUnit: peakAngle,
+    peakRatePerUnit: peakRate,
+  };
 }
 
 /** The steering rate the actuator is asked for at each sample of a command, rad/s (see actuatorRoom). */

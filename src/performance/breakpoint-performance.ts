@@ -80,7 +80,12 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
   const slow = input.slowestTimeConstant_s ?? d.shortestHorizon_s / d.horizonTimeConstants;
   const settle_s = Math.min(d.longestHorizon_s, Math.max(d.shortestHorizon_s, d.horizonTimeConstants * slow));
   const samples = (seconds: number): number => Math.max(2, Math.ceil(seconds / ts) + 1);
-  const firmware = (b: number, c: number, feedForward: number): FirmwareGains => ({ ...gains, setpointWeightProportional: b, setpointWeightDerivative: c, feedForward });
+  const firmware = (b: number, c: number, feedForward: number): FirmwareGains => ({
+    ...gains,
+    setpointWeightProportional: b,
+    setpointWeightDerivative: c,
+    feedForward,
+  });
 
   // Reference step: y(b) = y(0) + b·(y(1) − y(0)); c = 0.
   const stepCount = samples(settle_s);
@@ -117,17 +122,27 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
   };
 
   // Disturbances: the loop output's response outside the loop, added to the measurement (exact by superposition).
-  const disturbance = (response: import('../lti/types.js').TransferFunction, size: number): { figures: DisturbanceFigures; run: { error: Float64Array; command: Float64Array } } => {
+  const disturbance = (
+    response: import('../lti/types.js').TransferFunction,
+    size: number,
+  ): { figures: DisturbanceFigures; run: { error: Float64Array; command: Float64Array } } => {
     const count = samples(settle_s);
     const time = Float64Array.from({ length: count }, (_, k) => k * ts);
     const open = stepResponse(response, time).output;
     const outputDisturbance = Float64Array.from(open, (y) => size * y);
-    const run = simulateClosedLoop({ plant: loop.plant, gains: firmware(weights.proportional, weights.derivative, 0), settings, reference: new Float64Array(count), outputDisturbance });
+    const run = simulateClosedLoop({
+      plant: loop.plant,
+      gains: firmware(weights.proportional, weights.derivative, 0),
+      settings,
+      reference: new Float64Array(count),
+      outputDisturbance,
+    });
     const peakError = peakMagnitude(run.error);
     return { figures: { size, peakError, recoveryTime_s: peakError === 0 ? 0 : settlingTime_s(run.error, 0, d.recoveryBand * peakError, ts) }, run };
   };
   const misalignmentRun = disturbance(loop.misalignment, d.steeringMisalignment_rad);
-  const lateralForceRun = loop.lateralForce === null || loop.mass_kg === null ? null : disturbance(loop.lateralForce, d.lateralForcePerWeight * loop.mass_kg * d.gravity_mps2);
+  const lateralForceRun =
+    loop.lateralForce === null || loop.mass_kg === null ? null : disturbance(loop.lateralForce, d.lateralForcePerWeight * loop.mass_kg * d.gravity_mps2);
   const steeringMisalignment = misalignmentRun.figures;
   const lateralForce = lateralForceRun?.figures ?? null;
 
@@ -143,14 +158,28 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     const length = Math.max(d.laneChangeDuration_s * v, d.laneChangeShortestLength_m);
     const laneCount = samples(d.leadIn_s + length / v + settle_s);
     const lane = sampledPath(laneChangePath(d.laneChangeSize_m, length), v, ts, d.leadIn_s, ff.leadTime_s, laneCount);
-    const laneRun = simulateClosedLoop({ plant: loop.plant, gains: full, settings, reference: new Float64Array(laneCount), outputDisturbance: lane.disturbance, feedForwardInput: lane.curvature });
+    const laneRun = simulateClosedLoop({
+      plant: loop.plant,
+      gains: full,
+      settings,
+      reference: new Float64Array(laneCount),
+      outputDisturbance: lane.disturbance,
+      feedForwardInput: lane.curvature,
+    });
     laneChange = { size_m: d.laneChangeSize_m, length_m: length, peakError_m: peakMagnitude(laneRun.error) };
     laneChangeCommand = laneRun.command;
     laneRunKept = laneRun;
     const curvature = Math.min(d.curveLateralAcceleration_mps2 / (v * v), (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(ff.gain));
     const curveCount = samples(d.leadIn_s + settle_s);
     const curve = sampledPath(curveEntryPath(curvature), v, ts, d.leadIn_s, ff.leadTime_s, curveCount);
-    const curveRun = simulateClosedLoop({ plant: loop.plant, gains: full, settings, reference: new Float64Array(curveCount), outputDisturbance: curve.disturbance, feedForwardInput: curve.curvature });
+    const curveRun = simulateClosedLoop({
+      plant: loop.plant,
+      gains: full,
+      settings,
+      reference: new Float64Array(curveCount),
+      outputDisturbance: curve.disturbance,
+      feedForwardInput: curve.curvature,
+    });
     curveEntry = {
       curvature_perM: curvature,
       peakError_m: peakMagnitude(curveRun.error),
@@ -167,7 +196,10 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     const size =
       loop.kind === 'heading'
         ? d.limitedHeadingStep_rad
-        : Math.min(d.limitedYawStepLateralAcceleration_mps2 / v, (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(loop.feedForward.gain));
+        : Math.min(
+            d.limitedYawStepLateralAcceleration_mps2 / v,
+            (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(loop.feedForward.gain),
+          );
     const count = samples(settle_s);
     const limitedRun = (b: number): NonNullable<TimeDomainFigures['limitedStep']> & { run: { output: Float64Array; steerAngle: Float64Array } } => {
       const run = simulateLimitedLoop({
@@ -176,13 +208,24 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
         maxSteerAngle_rad: input.vehicleLimits.maxSteerAngle_rad,
         maxSteerRate_radps: input.vehicleLimits.maxSteerRate_radps,
         gains: firmware(b, weights.derivative, 0),
-        settings: { ...loop.controller, antiWindup: input.antiWindup, commandLimit_rad: input.vehicleLimits.maxSteerAngle_rad, integratorClamp_rad: input.vehicleLimits.maxSteerAngle_rad },
+        settings: {
+          ...loop.controller,
+          antiWindup: input.antiWindup,
+          commandLimit_rad: input.vehicleLimits.maxSteerAngle_rad,
+          integratorClamp_rad: input.vehicleLimits.maxSteerAngle_rad,
+        },
         reference: new Float64Array(count).fill(size),
       });
       let peakRate = 0;
       for (let k = 1; k < count; k++) peakRate = Math.max(peakRate, Math.abs(run.steerAngle[k] - run.steerAngle[k - 1]) / ts);
       const normalised = run.output.map((y) => y / size);
-      return { size, overshoot_pct: overshoot_pct(normalised), settlingTime_s: settlingTime_s(normalised, 1, d.settlingBand, ts), peakSteerRate_radps: peakRate, run };
+      return {
+        size,
+        overshoot_pct: overshoot_pct(normalised),
+        settlingTime_s: settlingTime_s(normalised, 1, d.settlingBand, ts),
+        peakSteerRate_radps: peakRate,
+        run,
+      };
     };
     let limited = limitedRun(weights.proportional);
     // Chosen weights (heading loop): lower b until the step through the limits keeps the overshoot limit too (its overshoot grows with b).
@@ -204,7 +247,11 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
       limited = best;
       const lowered = mix(atZero.output, atOne.output, low);
       const settlingLowered = settlingTime_s(lowered, 1, d.settlingBand, ts);
-      referenceStep = { overshoot_pct: overshoot_pct(lowered), settlingTime_s: settlingLowered, settlingDistance_m: settlingLowered === null ? null : settlingLowered * loop.speed_mps };
+      referenceStep = {
+        overshoot_pct: overshoot_pct(lowered),
+        settlingTime_s: settlingLowered,
+        settlingDistance_m: settlingLowered === null ? null : settlingLowered * loop.speed_mps,
+      };
       stepCommand = mix(atZero.command, atOne.command, low);
       stepOutput = lowered;
     }

@@ -67,9 +67,14 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
     if (cached !== undefined) return cached;
     const f = kind === 'track' ? track : free;
     const g = kind === 'track' ? trackInput : rateInput;
-    const augmented = Array.from({ length: size + 1 }, (_, i) => Array.from({ length: size + 1 }, (_, j) => (i < size ? (j < size ? f[i][j] * h : g[i] * h) : 0)));
+    const augmented = Array.from({ length: size + 1 }, (_, i) =>
+      Array.from({ length: size + 1 }, (_, j) => (i < size ? (j < size ? f[i][j] * h : g[i] * h) : 0)),
+    );
     const e = matrixExponential(augmented);
-    const result = { phi: Float64Array.from(e.slice(0, size).flatMap((row) => row.slice(0, size))), gamma: Float64Array.from(e.slice(0, size).map((row) => row[size])) };
+    const result = {
+      phi: Float64Array.from(e.slice(0, size).flatMap((row) => row.slice(0, size))),
+      gamma: Float64Array.from(e.slice(0, size).map((row) => row[size])),
+    };
     if (standard.has(h)) cache.set(key, result);
     return result;
   };
@@ -103,7 +108,11 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
     output[k] = y;
     error[k] = input.reference[k] - y;
     steerAngle[k] = z[n];
-    const step = firmwareStep(input.gains, input.settings, state, { reference: input.reference[k], measurement: y, feedForwardInput: input.feedForwardInput?.[k] ?? 0 });
+    const step = firmwareStep(input.gains, input.settings, state, {
+      reference: input.reference[k],
+      measurement: y,
+      feedForwardInput: input.feedForwardInput?.[k] ?? 0,
+    });
     state = step.state;
     command[k] = step.command;
     // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.

@@ -37,7 +37,12 @@ export interface PerformanceLoop {
 }
 
 /** The pieces at `speed_mps` (m/s > 0) of the loop `specification` on `model` under `controller`. */
-export function performanceLoopAt(model: OperatingPointModel, specification: LoopSpecification, speed_mps: number, controller: ControllerSettings): PerformanceLoop {
+export function performanceLoopAt(
+  model: OperatingPointModel,
+  specification: LoopSpecification,
+  speed_mps: number,
+  controller: ControllerSettings,
+): PerformanceLoop {
   const loop = findLoop(specification.kind);
   const controllerDelay = samplingDelay_s(controller);
   if (model.kind === 'single-track') {

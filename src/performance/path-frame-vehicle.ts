@@ -29,7 +29,12 @@ export interface PathFrameInputs {
  * Continuous system ẋ = A·x + B·[w, κ, F, b] at speed vx (m/s > 0) for one actuator piece kind, as row-major
  * arrays (A: 5×5, B: 5×4). `lag_s` is the actuator's τa (used by 'track' only).
  */
-export function pathFrameSystem(parameters: SingleTrackParameters, speed_mps: number, kind: 'free' | 'track', lag_s: number): { a: Float64Array; b: Float64Array } {
+export function pathFrameSystem(
+  parameters: SingleTrackParameters,
+  speed_mps: number,
+  kind: 'free' | 'track',
+  lag_s: number,
+): { a: Float64Array; b: Float64Array } {
   const { A, B } = singleTrackStateSpace(parameters, speed_mps);
   const a = new Float64Array(STATES * STATES);
   const b = new Float64Array(STATES * INPUTS);
@@ -56,7 +61,12 @@ export function pathFrameSystem(parameters: SingleTrackParameters, speed_mps: nu
 }
 
 /** ẋ into `out` for the system (a, b) of pathFrameSystem, state x and inputs [w, κ, F, b]. */
-export function pathFrameDerivative(system: { readonly a: Float64Array; readonly b: Float64Array }, x: Float64Array, inputs: readonly number[], out: Float64Array): void {
+export function pathFrameDerivative(
+  system: { readonly a: Float64Array; readonly b: Float64Array },
+  x: Float64Array,
+  inputs: readonly number[],
+  out: Float64Array,
+): void {
   const n = x.length;
   const m = inputs.length;
   for (let i = 0; i < n; i++) {

@@ -35,7 +35,8 @@ export const SMALL_STEP_ROOM_FRACTION = 0.5;
 export const RANGE_SCENARIOS: readonly ScenarioName[] = ['speed-ramp-in-curve', 'braking-in-curve'];
 
 export const SCENARIO_DESCRIPTIONS: Readonly<Record<ScenarioName, string>> = {
-  'small-step': 'reference step meant to stay in the linear range (heading 0.01 rad, yaw rate 0.01 rad/s, path 0.05 m; at most half the step the actuator allows)',
+  'small-step':
+    'reference step meant to stay in the linear range (heading 0.01 rad, yaw rate 0.01 rad/s, path 0.05 m; at most half the step the actuator allows)',
   'large-step': 'reference step through the steering limits (heading 0.2 rad, path 1 m, yaw rate 2 m/s² of lateral acceleration)',
   'initial-offset': 'start beside the path (path 0.5 m) or off its heading (heading 0.05 rad); not for a yaw-rate loop',
   misalignment: 'constant road-wheel angle misalignment of 0.01 rad from the end of the lead-in',
@@ -117,8 +118,12 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
     }
     case 'large-step': {
       if (loop !== 'yaw-rate') return step(s.largeStep[loop]);
-      const steerPerYawRate = (context.parameters.cgToFrontAxle_m + context.parameters.cgToRearAxle_m + understeerGradient_radPerMps2(context.parameters) * speed_mps ** 2) / speed_mps;
-      return step(Math.min(d.limitedYawStepLateralAcceleration_mps2 / speed_mps, (d.curveSteerFraction * context.maxSteerAngle_rad) / Math.abs(steerPerYawRate)));
+      const steerPerYawRate =
+        (context.parameters.cgToFrontAxle_m + context.parameters.cgToRearAxle_m + understeerGradient_radPerMps2(context.parameters) * speed_mps ** 2) /
+        speed_mps;
+      return step(
+        Math.min(d.limitedYawStepLateralAcceleration_mps2 / speed_mps, (d.curveSteerFraction * context.maxSteerAngle_rad) / Math.abs(steerPerYawRate)),
+      );
     }
     case 'initial-offset': {
       if (loop === 'yaw-rate') return null;
@@ -128,11 +133,23 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
         kind: 'disturbance',
         size,
         judgeFrom_s: 0,
-        setup: { ...base, duration_s: s.settle_s, restAfter_s: 0, initialLateralOffset_m: loop === 'path' ? size : 0, initialHeadingError_rad: loop === 'heading' ? size : 0 },
+        setup: {
+          ...base,
+          duration_s: s.settle_s,
+          restAfter_s: 0,
+          initialLateralOffset_m: loop === 'path' ? size : 0,
+          initialHeadingError_rad: loop === 'heading' ? size : 0,
+        },
       };
     }
     case 'misalignment':
-      return { name, kind: 'disturbance', size: d.steeringMisalignment_rad, judgeFrom_s: lead, setup: { ...base, misalignment: { time_s: lead, size: d.steeringMisalignment_rad } } };
+      return {
+        name,
+        kind: 'disturbance',
+        size: d.steeringMisalignment_rad,
+        judgeFrom_s: lead,
+        setup: { ...base, misalignment: { time_s: lead, size: d.steeringMisalignment_rad } },
+      };
     case 'side-force': {
       const size = d.lateralForcePerWeight * context.parameters.mass_kg * d.gravity_mps2;
       return { name, kind: 'disturbance', size, judgeFrom_s: lead, setup: { ...base, lateralForce: { time_s: lead, size } } };
@@ -160,7 +177,9 @@ export function prepareScenario(name: ScenarioName, context: ScenarioContext, sp
         initial_mps: accelerating ? minimum_mps : maximum_mps,
         final_mps: accelerating ? maximum_mps : minimum_mps,
         changeStart_s: lead + s.rampHold_s,
-        acceleration_mps2: accelerating ? (context.sizes?.acceleration_mps2 ?? s.rampAcceleration_mps2) : (context.sizes?.deceleration_mps2 ?? s.brakingDeceleration_mps2),
+        acceleration_mps2: accelerating
+          ? (context.sizes?.acceleration_mps2 ?? s.rampAcceleration_mps2)
+          : (context.sizes?.deceleration_mps2 ?? s.brakingDeceleration_mps2),
       };
       return rampScenario(name, context, profile);
     }

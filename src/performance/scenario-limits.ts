@@ -31,7 +31,13 @@ export const LOOP_UNITS: Readonly<Record<LoopKind, string>> = { heading: 'rad', 
 const shown = (value: number): string => String(Number(value.toPrecision(3)));
 
 /** The limits a run of `scenario` at `speed_mps` broke (empty: within every limit). */
-export function judgeScenarioRun(scenario: ScenarioName, speed_mps: number, metrics: ScenarioMetrics, limits: ScenarioLimits, loop: LoopKind): ScenarioFailure[] {
+export function judgeScenarioRun(
+  scenario: ScenarioName,
+  speed_mps: number,
+  metrics: ScenarioMetrics,
+  limits: ScenarioLimits,
+  loop: LoopKind,
+): ScenarioFailure[] {
   const failures: ScenarioFailure[] = [];
   const unit = LOOP_UNITS[loop];
   const fail = (metric: keyof ScenarioMetrics, what: string): void => {
@@ -42,7 +48,8 @@ export function judgeScenarioRun(scenario: ScenarioName, speed_mps: number, metr
   }
   const settles = (limit_s: number | null, what: string): void => {
     if (metrics.settlingTime_s === null) fail('settlingTime_s', `${what} not within the simulated time`);
-    else if (limit_s !== null && metrics.settlingTime_s > limit_s) fail('settlingTime_s', `${what} in ${shown(metrics.settlingTime_s)} s, needs ≤ ${shown(limit_s)} s`);
+    else if (limit_s !== null && metrics.settlingTime_s > limit_s)
+      fail('settlingTime_s', `${what} in ${shown(metrics.settlingTime_s)} s, needs ≤ ${shown(limit_s)} s`);
   };
   switch (scenario) {
     case 'small-step':

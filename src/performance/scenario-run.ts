@@ -27,7 +27,12 @@ export function metricsThatMoved(coarse: ScenarioMetrics, fine: ScenarioMetrics,
       const a = coarse.limitCycle;
       const b = fine.limitCycle;
       if ((a === null) !== (b === null)) moved.push(key);
-      else if (a !== null && b !== null && (Math.abs(a.amplitude - b.amplitude) > tolerance * b.amplitude || Math.abs(a.period_s - b.period_s) > Math.max(tolerance * b.period_s, sampleTime_s))) moved.push(key);
+      else if (
+        a !== null &&
+        b !== null &&
+        (Math.abs(a.amplitude - b.amplitude) > tolerance * b.amplitude || Math.abs(a.period_s - b.period_s) > Math.max(tolerance * b.period_s, sampleTime_s))
+      )
+        moved.push(key);
       continue;
     }
     const a = coarse[key];
@@ -36,7 +41,8 @@ export function metricsThatMoved(coarse: ScenarioMetrics, fine: ScenarioMetrics,
       if (a !== b) moved.push(key);
       continue;
     }
-    const speed = fine.settlingTime_s !== null && fine.settlingTime_s > 0 && fine.settlingDistance_m !== null ? fine.settlingDistance_m / fine.settlingTime_s : 0;
+    const speed =
+      fine.settlingTime_s !== null && fine.settlingTime_s > 0 && fine.settlingDistance_m !== null ? fine.settlingDistance_m / fine.settlingTime_s : 0;
     const absolute = key.endsWith('_s') ? sampleTime_s : key === 'settlingDistance_m' ? sampleTime_s * speed : 0;
     if (Math.abs(a - b) > Math.max(tolerance * Math.max(Math.abs(a), Math.abs(b)), absolute, 1e-12)) moved.push(key);
   }

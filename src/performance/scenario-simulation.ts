@@ -20,7 +20,15 @@ import { matrixExponential } from '../lti/matrix-exponential.js';
 import { splitDelay } from '../verify/sampled-plant.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
 import { visitActuatorPieces } from './actuator-motion.js';
-import { INPUTS as INPUT_COUNT, lateralAcceleration_mps2, pathFrameDerivative, pathFrameDerivativeAt, pathFrameSystem, STATE as STATE_INDEX, STATES as STATE_COUNT } from './path-frame-vehicle.js';
+import {
+  INPUTS as INPUT_COUNT,
+  lateralAcceleration_mps2,
+  pathFrameDerivative,
+  pathFrameDerivativeAt,
+  pathFrameSystem,
+  STATE as STATE_INDEX,
+  STATES as STATE_COUNT,
+} from './path-frame-vehicle.js';
 import type { PathShape } from './scenarios.js';
 import { distanceAt_m, speedAt_mps, type SpeedProfile } from './speed-profile.js';
 
@@ -109,7 +117,13 @@ const valueAt = (change: StepChange | null, time_s: number): number => (change !
  */
 export const REST = { window_s: 1, relativeChange: 1e-9 } as const;
 
-export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioController, setup: ScenarioSetup, stepsPerSample: number, stopAtRest = false): ScenarioTraces {
+export function simulateScenario(
+  vehicle: ScenarioVehicle,
+  controller: ScenarioController,
+  setup: ScenarioSetup,
+  stepsPerSample: number,
+  stopAtRest = false,
+): ScenarioTraces {
   const { parameters } = vehicle;
   const settings = controller.settings;
   const ts = settings.sampleTime_s;
@@ -134,7 +148,10 @@ export function simulateScenario(vehicle: ScenarioVehicle, controller: ScenarioC
 
   // Exact pieces over samples at constant speed: e^([[A, B], [0, 0]]·h) = [[Φ, Γ], [0, I]], per speed (a speed
   // profile has at most two constant stretches) and piece kind.
-  type Exact = { readonly systems: Record<'free' | 'track', { a: Float64Array; b: Float64Array }>; readonly cache: Record<'free' | 'track', Map<number, { phi: Float64Array; gamma: Float64Array }>> };
+  type Exact = {
+    readonly systems: Record<'free' | 'track', { a: Float64Array; b: Float64Array }>;
+    readonly cache: Record<'free' | 'track', Map<number, { phi: Float64Array; gamma: Float64Array }>>;
+  };
   const exactBySpeed = new Map<number, Exact>();
   const exactAt = (speed_mps: number): Exact => {
     let found = exactBySpeed.get(speed_mps);

@@ -68,7 +68,14 @@ export const STRAIGHT_PATH: PathShape = { position: () => 0, heading: () => 0, c
  * along the path (the manoeuvre starts after the lead-in), so the output disturbance is −p(s_k) and the
  * feed-forward input κ(s_k + v·T_ff).
  */
-export function sampledPath(shape: PathShape, speed_mps: number, sampleTime_s: number, leadIn_s: number, feedForwardLead_s: number, count: number): { disturbance: Float64Array; curvature: Float64Array } {
+export function sampledPath(
+  shape: PathShape,
+  speed_mps: number,
+  sampleTime_s: number,
+  leadIn_s: number,
+  feedForwardLead_s: number,
+  count: number,
+): { disturbance: Float64Array; curvature: Float64Array } {
   const disturbance = new Float64Array(count);
   const curvature = new Float64Array(count);
   for (let k = 0; k < count; k++) {

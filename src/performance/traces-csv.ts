@@ -11,7 +11,10 @@ const LOOP_UNIT_SUFFIX: Readonly<Record<LoopKind, string>> = { heading: 'rad', '
 const cell = (value: number): string => String(Number(value.toPrecision(12)));
 
 /** Simulated runs as CSV text: one row per controller sample, units in the column names. */
-export function tracesCsv(loop: LoopKind, runs: readonly { readonly scenario: string; readonly startSpeed_mps: number; readonly traces: ScenarioTraces }[]): string {
+export function tracesCsv(
+  loop: LoopKind,
+  runs: readonly { readonly scenario: string; readonly startSpeed_mps: number; readonly traces: ScenarioTraces }[],
+): string {
   const unit = LOOP_UNIT_SUFFIX[loop];
   const columns: readonly [string, keyof ScenarioTraces][] = [
     ['time_s', 'time_s'],

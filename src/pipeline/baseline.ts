@@ -107,10 +107,19 @@ export function summariseOldGainsCheck(check: DenseCheckResult, baseline: Schedu
  * new schedule's dense check — what `build --baseline` checks, from two schedule files alone (`speedband compare`,
  * the report). `check` is null when the new schedule records no model speedband can rebuild.
  */
-export function oldGainsOnNewVehicle(old: ScheduleFile, next: ScheduleFile): { readonly summary: OldGainsOnNewVehicle; readonly check: DenseCheckResult | null } {
+export function oldGainsOnNewVehicle(
+  old: ScheduleFile,
+  next: ScheduleFile,
+): { readonly summary: OldGainsOnNewVehicle; readonly check: DenseCheckResult | null } {
   const model = recordedCheckModel(next);
   if (model === null) {
-    return { summary: { available: false, reason: `the new schedule records no vehicle model speedband can rebuild (its provenance.model kind is ${quoted(String(next.provenance.model.kind ?? 'missing'))})` }, check: null };
+    return {
+      summary: {
+        available: false,
+        reason: `the new schedule records no vehicle model speedband can rebuild (its provenance.model kind is ${quoted(String(next.provenance.model.kind ?? 'missing'))})`,
+      },
+      check: null,
+    };
   }
   const grid = checkGrid(
     next.breakpoints.map((breakpoint) => breakpoint.speed_mps),

@@ -72,11 +72,27 @@ export function makeBreakpointEvaluator(input: BreakpointEvaluatorInput): Breakp
     const margins = analyse(speed_mps, gains);
     const marginFailures = judgeMargins(margins, input.thresholds);
     if (!margins.stable) {
-      return { margins, marginFailures, performance: null, performanceLoop, scenarioFailures: [], failures: marginFailures.map((f) => f.message), severity: Number.POSITIVE_INFINITY };
+      return {
+        margins,
+        marginFailures,
+        performance: null,
+        performanceLoop,
+        scenarioFailures: [],
+        failures: marginFailures.map((f) => f.message),
+        severity: Number.POSITIVE_INFINITY,
+      };
     }
     if (input.skipFiguresWhenMarginsFail === true && marginFailures.length > 0) {
       // Ranked behind every set of gains within the margins, whatever its time-domain figures.
-      return { margins, marginFailures, performance: null, performanceLoop, scenarioFailures: [], failures: marginFailures.map((f) => f.message), severity: MARGIN_FAILURE_RANK + marginFailures.length };
+      return {
+        margins,
+        marginFailures,
+        performance: null,
+        performanceLoop,
+        scenarioFailures: [],
+        failures: marginFailures.map((f) => f.message),
+        severity: MARGIN_FAILURE_RANK + marginFailures.length,
+      };
     }
     const performance = breakpointPerformance({
       loop: performanceLoop,
@@ -95,7 +111,12 @@ export function makeBreakpointEvaluator(input: BreakpointEvaluatorInput): Breakp
             parameters: model.parameters,
             vehicleLimits: input.vehicleLimits,
             loop: input.loop,
-            settings: { ...input.controller, antiWindup: input.antiWindup, commandLimit_rad: input.vehicleLimits.maxSteerAngle_rad, integratorClamp_rad: input.vehicleLimits.maxSteerAngle_rad },
+            settings: {
+              ...input.controller,
+              antiWindup: input.antiWindup,
+              commandLimit_rad: input.vehicleLimits.maxSteerAngle_rad,
+              integratorClamp_rad: input.vehicleLimits.maxSteerAngle_rad,
+            },
             gains: {
               ...gains,
               setpointWeightProportional: performance.setpointWeights.proportional,

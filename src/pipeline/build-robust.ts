@@ -47,10 +47,23 @@ export function planRobustContext(input: {
  * the set keeps the limit (robust-setpoint-weights.ts), evaluated again on the nominal model with them; unchanged
  * when the weights chosen there already do.
  */
-export function withRobustWeights(evaluation: BreakpointEvaluation, speed_mps: number, gains: PidGains, evaluate: BreakpointEvaluator, context: RobustContext, settings: TimeDomainSettings): BreakpointEvaluation {
+export function withRobustWeights(
+  evaluation: BreakpointEvaluation,
+  speed_mps: number,
+  gains: PidGains,
+  evaluate: BreakpointEvaluator,
+  context: RobustContext,
+  settings: TimeDomainSettings,
+): BreakpointEvaluation {
   if (evaluation.performance === null) return evaluation;
   const feedForward = evaluation.performanceLoop.feedForward;
-  const control = { speed_mps, gains, setpointWeights: evaluation.performance.setpointWeights, feedForward: feedForward.gain, feedForwardLeadTime_s: feedForward.leadTime_s };
+  const control = {
+    speed_mps,
+    gains,
+    setpointWeights: evaluation.performance.setpointWeights,
+    feedForward: feedForward.gain,
+    feedForwardLeadTime_s: feedForward.leadTime_s,
+  };
   const kept = robustSetpointWeights(worstCaseMarginsAt(speed_mps, gains, context), control, context, settings).control.setpointWeights;
   return kept.proportional === control.setpointWeights.proportional ? evaluation : evaluate(speed_mps, gains, kept);
 }
@@ -81,7 +94,10 @@ export async function checkTableOverVariations(input: OverVariationsInput): Prom
     grid: refinement.check.points.map((point) => point.speed_mps),
     gainsAt: makeGainLookup(refinement.table, { interpolation: plan.interpolation, lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps }),
     breakpointSpeeds: refinement.table.speeds_mps,
-    timeDomain: { ...input.timeDomain, breakpoints: refinement.table.speeds_mps.map((speed_mps, k) => breakpointControl(speed_mps, refinement.table.gains[k], input.breakpointExtras[k])) },
+    timeDomain: {
+      ...input.timeDomain,
+      breakpoints: refinement.table.speeds_mps.map((speed_mps, k) => breakpointControl(speed_mps, refinement.table.gains[k], input.breakpointExtras[k])),
+    },
     onProgress: input.onProgress,
   });
 }

@@ -189,9 +189,13 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
     const free = freeParameterOf(plan.rule.name);
     for (const name of [free.name, ...free.alsoSetBy]) {
       if (plan.rule.parameters[name as keyof typeof plan.rule.parameters] !== undefined) {
-        throw new SpeedbandError('plan.invalid', `rule.parameters.${name} is given, but "tuneFor": "fastest-passing" searches ${free.name} at every breakpoint — remove one of them`, {
-          location: { file: input.planFile, jsonPath: `/rule/parameters/${name}` },
-        });
+        throw new SpeedbandError(
+          'plan.invalid',
+          `rule.parameters.${name} is given, but "tuneFor": "fastest-passing" searches ${free.name} at every breakpoint — remove one of them`,
+          {
+            location: { file: input.planFile, jsonPath: `/rule/parameters/${name}` },
+          },
+        );
       }
     }
   }
@@ -216,11 +220,19 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
     ...evaluatorInput,
     ...roomy,
     skipFiguresWhenMarginsFail: true,
-    ...(scenarios ? { scenarios: { limits: scenarioLimits, range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps }, names: SEARCH_SCENARIOS } } : {}),
+    ...(scenarios
+      ? {
+          scenarios: { limits: scenarioLimits, range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps }, names: SEARCH_SCENARIOS },
+        }
+      : {}),
   });
   // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
   const robustContext = planRobustContext({ plan, checkModel, loop, controller, models, planFile: input.planFile });
-  const timeDomainSettings: TimeDomainSettings = { limits: plan.acceptance, vehicleLimits: evaluatorInput.vehicleLimits, antiWindup: plan.controller.antiWindup };
+  const timeDomainSettings: TimeDomainSettings = {
+    limits: plan.acceptance,
+    vehicleLimits: evaluatorInput.vehicleLimits,
+    antiWindup: plan.controller.antiWindup,
+  };
   const searchOnWorstCase = searching && plan.rule.searchOn === 'worst-case' && robustContext !== undefined;
   const searchEvaluate = searchOnWorstCase
     ? makeWorstCaseEvaluator({ nominal: evaluateWithRoom, context: robustContext, thresholds, timeDomain: timeDomainSettings })
@@ -228,7 +240,15 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
   const tuneCache = new Map<number, Tuned>();
   const tuneWith = (speed_mps: number, ruleParameters: RuleParameters, startGains?: PidGains): TunedOperatingPoint =>
-    tuneOperatingPoint({ loop, speed_mps, model: checkModel.modelAt(speed_mps), rule: plan.rule.name, ruleParameters, controller, ...(startGains === undefined ? {} : { startGains }) });
+    tuneOperatingPoint({
+      loop,
+      speed_mps,
+      model: checkModel.modelAt(speed_mps),
+      rule: plan.rule.name,
+      ruleParameters,
+      controller,
+      ...(startGains === undefined ? {} : { startGains }),
+    });
   const tune = (speed_mps: number): Tuned => {
     let entry = tuneCache.get(speed_mps);
     if (entry === undefined) {
@@ -261,7 +281,9 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
       progress(`${event.stage}: ${event.done}/${event.total} speeds${event.note === undefined ? '' : ` — ${event.note}`}\n`);
     }
   };
-  progress(`tune and check: ${plan.rule.name}${searching ? ` (fastest passing${searchOnWorstCase ? ' in the worst case over the variations' : ''})` : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`);
+  progress(
+    `tune and check: ${plan.rule.name}${searching ? ` (fastest passing${searchOnWorstCase ? ' in the worst case over the variations' : ''})` : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`,
+  );
   const refinement = scheduleGains({ plan, tuneAt, analyse, onProgress });
   const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
   const tuned = entries.map((entry) => entry.tuned);
@@ -283,7 +305,16 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   const robust =
     plan.variations === undefined || robustContext === undefined
       ? undefined
-      : await checkTableOverVariations({ plan, variations: plan.variations, context: robustContext, refinement, breakpointExtras, timeDomain: timeDomainSettings, onProgress, progress });
+      : await checkTableOverVariations({
+          plan,
+          variations: plan.variations,
+          context: robustContext,
+          refinement,
+          breakpointExtras,
+          timeDomain: timeDomainSettings,
+          onProgress,
+          progress,
+        });
 
   const inputs = [
     { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
@@ -312,7 +343,10 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
       : {
           ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps, k) => ({
             speed_mps,
-            parameters: { ...ruleParametersAt(speed_mps), ...(searchAtBreakpoints === undefined ? {} : { [searchAtBreakpoints[k].parameter]: searchAtBreakpoints[k].value }) },
+            parameters: {
+              ...ruleParametersAt(speed_mps),
+              ...(searchAtBreakpoints === undefined ? {} : { [searchAtBreakpoints[k].parameter]: searchAtBreakpoints[k].value }),
+            },
           })),
         }),
     breakpointExtras,

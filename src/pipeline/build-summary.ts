@@ -51,7 +51,9 @@ export function buildExitReasons(input: BuildSummaryInput): string[] {
         ]),
     ...(check === undefined || check.passed
       ? []
-      : [`the OLD gains of the baseline ${file} fail on the new vehicle model at ${check.failedCount} of ${check.points.length} speeds${passed ? ' (the new schedule passed and was written)' : ''}`]),
+      : [
+          `the OLD gains of the baseline ${file} fail on the new vehicle model at ${check.failedCount} of ${check.points.length} speeds${passed ? ' (the new schedule passed and was written)' : ''}`,
+        ]),
     ...(overSet === undefined || overSet.acceptance === 'nominal' || overSet.passed || (check !== undefined && !check.passed)
       ? []
       : [
@@ -120,7 +122,11 @@ export function buildSummaryText(input: BuildSummaryInput): string {
   let text = formatSchedule(schedule);
   text += `\n  model: ${result.checkModel.description}\n`;
   if (schedule.variations !== undefined) {
-    text += `\n${formatVariations(schedule.variations, schedule.breakpoints.map((row) => row.margins), schedule.check.thresholds)}`;
+    text += `\n${formatVariations(
+      schedule.variations,
+      schedule.breakpoints.map((row) => row.margins),
+      schedule.check.thresholds,
+    )}`;
   }
   if (warnings.length > 0) text += `  rule warnings:\n${warnings.map((warning) => `    - ${warning}`).join('\n')}\n`;
   if (baseline !== undefined) {
@@ -129,7 +135,12 @@ export function buildSummaryText(input: BuildSummaryInput): string {
     const overSet = baseline.check.overVariations?.record;
     if (overSet !== undefined) {
       const title = `Baseline ${baseline.file}: its gains in the worst case over the new vehicle's variations`;
-      text += `\n${formatVariations(overSet, baseline.check.rows.map((row) => breakpointMargins(row.oldMargins)), baseline.schedule.check.thresholds, title)}`;
+      text += `\n${formatVariations(
+        overSet,
+        baseline.check.rows.map((row) => breakpointMargins(row.oldMargins)),
+        baseline.schedule.check.thresholds,
+        title,
+      )}`;
     }
   }
   text += '\n';

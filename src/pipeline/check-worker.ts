@@ -34,7 +34,9 @@ export interface CheckChunk {
 }
 
 /** A chunk's answer: its points in order, or the error met. */
-export type WorkerAnswer<Item> = { readonly items: readonly Item[] } | { readonly error: { readonly code: ErrorCode; readonly message: string; readonly details?: unknown } };
+export type WorkerAnswer<Item> =
+  | { readonly items: readonly Item[] }
+  | { readonly error: { readonly code: ErrorCode; readonly message: string; readonly details?: unknown } };
 
 const data = workerData as WorkerData;
 const model = checkModelFromSummary(data.summary, data.description);
@@ -58,6 +60,8 @@ parentPort?.on('message', (chunk: CheckChunk) => {
     parentPort?.postMessage({ items: analyseChunk(chunk) } satisfies WorkerAnswer<unknown>);
   } catch (error) {
     const code = isSpeedbandError(error) ? error.code : 'internal';
-    parentPort?.postMessage({ error: { code, message: error instanceof Error ? error.message : String(error), details: isSpeedbandError(error) ? error.details : undefined } } satisfies WorkerAnswer<unknown>);
+    parentPort?.postMessage({
+      error: { code, message: error instanceof Error ? error.message : String(error), details: isSpeedbandError(error) ? error.details : undefined },
+    } satisfies WorkerAnswer<unknown>);
   }
 });

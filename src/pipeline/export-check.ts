@@ -28,7 +28,12 @@ export function recordedLoopAnalysis(schedule: ScheduleFile): AnalyseLoop | null
  * Dense check of `table` (the gains an export holds) on the schedule's grid, range and thresholds;
  * `gainsAt`: the export's own lookup between breakpoints (the integer lookup of a fixed-point header).
  */
-export function checkExportedTable(schedule: ScheduleFile, table: GainTable, analyse: AnalyseLoop, gainsAt?: (speed_mps: number) => PidGains): DenseCheckResult {
+export function checkExportedTable(
+  schedule: ScheduleFile,
+  table: GainTable,
+  analyse: AnalyseLoop,
+  gainsAt?: (speed_mps: number) => PidGains,
+): DenseCheckResult {
   return recheckQuantised({ schedule, quantised: table, analyse, ...(gainsAt === undefined ? {} : { gainsAt }) });
 }
 

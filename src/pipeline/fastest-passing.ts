@@ -192,9 +192,13 @@ export function fastestPassing(input: FastestPassingInput): FastestPassingResult
     if (closest === null || (closest.evaluation as BreakpointEvaluation).severity >= t.evaluation.severity) closest = t;
   }
   if (closest === null) {
-    throw new SpeedbandError('tuning.ruleNotApplicable', `tuning at ${input.speed_mps.toFixed(2)} m/s: rule ${input.rule} refused every ${free.symbol} tried (${shown(ladder[0])} … ${shown(ladder[ladder.length - 1])}): ${why(tried[tried.length - 1])}`, {
-      details: { rule: input.rule, speed_mps: input.speed_mps },
-    });
+    throw new SpeedbandError(
+      'tuning.ruleNotApplicable',
+      `tuning at ${input.speed_mps.toFixed(2)} m/s: rule ${input.rule} refused every ${free.symbol} tried (${shown(ladder[0])} … ${shown(ladder[ladder.length - 1])}): ${why(tried[tried.length - 1])}`,
+      {
+        details: { rule: input.rule, speed_mps: input.speed_mps },
+      },
+    );
   }
   return {
     tuned: closest.tuned as TunedOperatingPoint,

@@ -43,7 +43,7 @@ export function operatingPointModelFromModels(models: ModelsFile, vehicle: Vehic
   if (vehicleSha256 !== undefined && vehicleSha256 !== models.vehicle.sha256) {
     warnings.push(
       `the vehicle file given (${quoted(vehicle.name)}) differs from the one the models were identified with (${quoted(models.vehicle.name)}, ${models.vehicle.file}): ` +
-        'the fitted stiffnesses assume that file\'s mass, inertia and geometry — pass the same vehicle file or identify again',
+        "the fitted stiffnesses assume that file's mass, inertia and geometry — pass the same vehicle file or identify again",
     );
   }
   const outside = speed_mps < lowest * (1 - SAME_SPEED_FRACTION) || speed_mps > highest * (1 + SAME_SPEED_FRACTION);

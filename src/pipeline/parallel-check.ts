@@ -63,11 +63,24 @@ export async function denseCheckOnAllCores(input: ParallelCheckInput): Promise<D
   const workers = workerCount(input.workers);
   const analyse = makeLoopAnalysis(input.model, input.loop, input.controller);
   if (workers === 0 || total < PARALLEL_CHECK_DEFAULTS.minimumSpeeds) {
-    return denseCheck({ grid: input.grid, gainsAt: input.gainsAt, analyse, thresholds: input.thresholds, ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }) });
+    return denseCheck({
+      grid: input.grid,
+      gainsAt: input.gainsAt,
+      analyse,
+      thresholds: input.thresholds,
+      ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }),
+    });
   }
   const points = new Array<CheckPoint>(total);
   let done = 0;
-  const workerData: WorkerData = { task: 'dense', summary: input.model.summary, description: input.model.description, loop: input.loop, controller: input.controller, thresholds: input.thresholds };
+  const workerData: WorkerData = {
+    task: 'dense',
+    summary: input.model.summary,
+    description: input.model.description,
+    loop: input.loop,
+    controller: input.controller,
+    thresholds: input.thresholds,
+  };
   await runOnAllCores<CheckChunk, CheckPoint>({
     chunks: checkChunks(input.grid, input.gainsAt, PARALLEL_CHECK_DEFAULTS.chunkSpeeds),
     workers,

@@ -43,7 +43,13 @@ export async function robustCheckOnAllCores(input: ParallelRobustCheckInput): Pr
   const workers = workerCount(input.workers);
   const analyse = makeRobustAnalysis({ model: input.model, loop: input.loop, controller: input.controller, set: input.set, search: input.search });
   if (workers === 0 || total < PARALLEL_ROBUST_DEFAULTS.minimumSpeeds) {
-    return robustCheck({ grid: input.grid, gainsAt: input.gainsAt, analyse, thresholds: input.thresholds, ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }) });
+    return robustCheck({
+      grid: input.grid,
+      gainsAt: input.gainsAt,
+      analyse,
+      thresholds: input.thresholds,
+      ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }),
+    });
   }
   const points = new Array<RobustCheckPoint>(total);
   let done = 0;

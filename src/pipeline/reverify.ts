@@ -16,7 +16,15 @@ import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
 import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
-import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, feedForwardText, gainUnits, interpolationText, loopErrorText } from '../schedule/schedule-text.js';
+import {
+  CONTROLLER_EQUATION,
+  INTEGRATION_TEXT,
+  controllerUpdateText,
+  feedForwardText,
+  gainUnits,
+  interpolationText,
+  loopErrorText,
+} from '../schedule/schedule-text.js';
 import { breakpointPerformance } from '../performance/breakpoint-performance.js';
 import { performanceLoopAt } from '../performance/loop-at-speed.js';
 import type { HandEditRecord, ScheduleFile } from '../schedule/schedule-types.js';
@@ -60,8 +68,10 @@ export function reverifySchedule(
   const verdict = verifyScheduleChecksum(edited);
   const check = recheckSchedule({ schedule: edited, model });
   const robust = options.variations ?? null;
-  if (edited.variations !== undefined && robust === null) throw new Error('internal: a schedule with variations is re-verified with their worst case (recheckOverVariations)');
-  if (!acceptancePassed(check.passed, robust?.record)) return { check, variations: robust, timeDomainFailures: [], passed: false, changes: verdict.changes, schedule: null };
+  if (edited.variations !== undefined && robust === null)
+    throw new Error('internal: a schedule with variations is re-verified with their worst case (recheckOverVariations)');
+  if (!acceptancePassed(check.passed, robust?.record))
+    return { check, variations: robust, timeDomainFailures: [], passed: false, changes: verdict.changes, schedule: null };
   const points = edited.breakpoints.map((row) => {
     const point = check.points.find((candidate) => candidate.speed_mps === row.speed_mps);
     if (point === undefined) throw new Error(`breakpoint ${row.speed_mps} m/s missing from the check grid`);
@@ -91,7 +101,10 @@ export function reverifySchedule(
   if (scenarioResult !== null && !scenarioResult.scenarios.passed) {
     const failures = scenarioResult.scenarios.failures;
     const speeds = [...new Set(failures.map((failure) => failure.speed_mps))];
-    const byScenario = speeds.map((speed_mps) => ({ speed_mps, messages: failures.filter((failure) => failure.speed_mps === speed_mps).map((failure) => failure.message) }));
+    const byScenario = speeds.map((speed_mps) => ({
+      speed_mps,
+      messages: failures.filter((failure) => failure.speed_mps === speed_mps).map((failure) => failure.message),
+    }));
     return { check, variations: robust, timeDomainFailures: byScenario, passed: false, changes: verdict.changes, schedule: null };
   }
   const record: HandEditRecord = {
@@ -128,7 +141,10 @@ export function reverifySchedule(
       gridSize: check.points.length,
       worst: recordedWorst(check.worst),
       failedSpeeds: 0,
-      failures: check.points.filter((point) => point.failures.length > 0).slice(0, LISTED_FAILURES).map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((f) => f.message) })),
+      failures: check.points
+        .filter((point) => point.failures.length > 0)
+        .slice(0, LISTED_FAILURES)
+        .map((point) => ({ speed_mps: point.speed_mps, messages: point.failures.map((f) => f.message) })),
       timeDomain: { ...edited.check.timeDomain, passed: true, failures: [] },
     },
     provenance: {
@@ -139,7 +155,14 @@ export function reverifySchedule(
     cautions: [...SAFETY_CAUTIONS],
   };
   delete withoutChecksum.checksum;
-  return { check, variations: robust, timeDomainFailures: [], passed: true, changes: verdict.changes, schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) } };
+  return {
+    check,
+    variations: robust,
+    timeDomainFailures: [],
+    passed: true,
+    changes: verdict.changes,
+    schedule: { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) },
+  };
 }
 
 /** The check without its scenario records (they are re-run, or dropped when the model cannot run them). */

@@ -40,9 +40,14 @@ export function makeRobustAnalysis(context: RobustContext): AnalyseOverSet {
 }
 
 /** The loop at `speed_mps` under `gains` with the set's changes `values` (one per dimension, in order): the analysis the search runs. */
-export function analysisWithChanges(speed_mps: number, gains: PidGains, context: RobustContext): (values: readonly number[], scope?: 'full' | 'figures') => LoopMargins {
+export function analysisWithChanges(
+  speed_mps: number,
+  gains: PidGains,
+  context: RobustContext,
+): (values: readonly number[], scope?: 'full' | 'figures') => LoopMargins {
   const base = context.model.modelAt(speed_mps);
-  return (values, scope = 'full') => analyseOperatingPoint(operatingPointWith(base, context.set, values), context.loop, context.controller, speed_mps, gains, { scope });
+  return (values, scope = 'full') =>
+    analyseOperatingPoint(operatingPointWith(base, context.set, values), context.loop, context.controller, speed_mps, gains, { scope });
 }
 
 /** The weakest parameter at a robust point (src/robust/weakest-parameter.ts), its trials analysed in full. */

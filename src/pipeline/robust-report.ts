@@ -34,7 +34,9 @@ const shownFigure = (figure: RobustFigure, value: number | null): string => {
 
 /** How the corners were taken, briefly (the schedule records the method in full). */
 const cornerWords = (dimensions: number): string =>
-  dimensions <= ALL_CORNERS_UP_TO_DIMENSIONS ? `all ${2 ** dimensions} corners` : `corners by a screening of each parameter and a search over the ${2 ** dimensions} corners`;
+  dimensions <= ALL_CORNERS_UP_TO_DIMENSIONS
+    ? `all ${2 ** dimensions} corners`
+    : `corners by a screening of each parameter and a search over the ${2 ** dimensions} corners`;
 
 /** One side of the box in words: "mass −10.0 % to +10.0 % (plan ±10 %)". */
 export function dimensionWords(dimension: VariationDimension): string {
@@ -66,7 +68,14 @@ export function weakestWords(weakest: WeakestParameter): string {
 
 /** A breakpoint's robust figures (from a schedule's section) with its nominal margins, as the judging takes them. */
 function robustPointOf(breakpoint: ScheduleVariations['breakpoints'][number], nominal: BreakpointMargins): RobustMargins {
-  return { speed_mps: breakpoint.speed_mps, gains: { kp: 0, ki: 0, kd: 0 }, nominal, instability: breakpoint.instability, worst: breakpoint.worst, evaluations: 0 };
+  return {
+    speed_mps: breakpoint.speed_mps,
+    gains: { kp: 0, ki: 0, kd: 0 },
+    nominal,
+    instability: breakpoint.instability,
+    worst: breakpoint.worst,
+    evaluations: 0,
+  };
 }
 
 /** Nominal → worst case at each breakpoint, the limits the worst case breaks, and the weakest parameter there. */
@@ -116,10 +125,16 @@ function timeDomainTable(variations: ScheduleVariations): string[] {
       breakpoint.speed_mps.toFixed(2),
       ...figures.map((definition) => (timeDomain === null ? '—' : cell(timeDomain.worst[definition.name]))),
       timeDomain === null ? '—' : String(timeDomain.vehicles),
-      timeDomain === null ? 'not simulated (unstable in the set)' : timeDomain.failures.length === 0 ? 'pass' : `FAIL: ${timeDomain.failures.length} limit${timeDomain.failures.length === 1 ? '' : 's'}`,
+      timeDomain === null
+        ? 'not simulated (unstable in the set)'
+        : timeDomain.failures.length === 0
+          ? 'pass'
+          : `FAIL: ${timeDomain.failures.length} limit${timeDomain.failures.length === 1 ? '' : 's'}`,
     ]);
   }
-  const failures = variations.breakpoints.flatMap((breakpoint) => (breakpoint.timeDomain?.failures ?? []).map((message) => `    ${breakpoint.speed_mps.toFixed(2)} m/s: ${message}`));
+  const failures = variations.breakpoints.flatMap((breakpoint) =>
+    (breakpoint.timeDomain?.failures ?? []).map((message) => `    ${breakpoint.speed_mps.toFixed(2)} m/s: ${message}`),
+  );
   return [
     '',
     '  time domain, worst case over the set at each breakpoint (its own gains, set-point weights and feed-forward; simulated on the nominal vehicle, the corners and the combinations behind the worst margins):',
@@ -144,9 +159,13 @@ export function formatVariations(
   thresholds: AcceptanceThresholds,
   title = 'Worst case over the variations',
 ): string {
-  const verdict = variations.passed ? 'PASSED' : `FAILED at ${variations.failedSpeeds} speeds${variations.unstableSpeeds > 0 ? ` (${variations.unstableSpeeds} with an unstable loop in the set)` : ''}`;
+  const verdict = variations.passed
+    ? 'PASSED'
+    : `FAILED at ${variations.failedSpeeds} speeds${variations.unstableSpeeds > 0 ? ` (${variations.unstableSpeeds} with an unstable loop in the set)` : ''}`;
   const acceptance =
-    variations.acceptance === 'robust' ? 'robust acceptance: a schedule passes only if its worst case does' : 'nominal acceptance: reported beside the nominal check, not required';
+    variations.acceptance === 'robust'
+      ? 'robust acceptance: a schedule passes only if its worst case does'
+      : 'nominal acceptance: reported beside the nominal check, not required';
   const lines = [
     `${title}, ${variations.gridSize} speeds (${acceptance}): ${verdict}`,
     ...formatSet(variations.set),

@@ -71,7 +71,8 @@ export async function robustScheduleCheck(input: RobustScheduleCheckInput): Prom
     ...(input.onProgress === undefined ? {} : { onProgress: input.onProgress }),
   });
   const context: RobustContext = { model: input.model, loop: input.loop, controller: input.controller, set: input.set, search: input.search };
-  const weakestAt = (point: RobustCheckPoint | null | undefined): WeakestParameter | null => (point === null || point === undefined ? null : weakestParameterAt(point, input.thresholds, context));
+  const weakestAt = (point: RobustCheckPoint | null | undefined): WeakestParameter | null =>
+    point === null || point === undefined ? null : weakestParameterAt(point, input.thresholds, context);
   const bySpeed = new Map(check.points.map((point) => [point.speed_mps, point]));
   const timeDomain = input.timeDomain;
   const record = variationsRecord({

@@ -27,7 +27,11 @@ export interface BreakpointControl {
 }
 
 /** A breakpoint's gains, set-point weights and feed-forward, as the time-domain figures over the set take them. */
-export function breakpointControl(speed_mps: number, gains: PidGains, extras: Pick<BreakpointExtras, 'setpointWeightProportional' | 'setpointWeightDerivative' | 'feedForward' | 'feedForwardLeadTime_s'>): BreakpointControl {
+export function breakpointControl(
+  speed_mps: number,
+  gains: PidGains,
+  extras: Pick<BreakpointExtras, 'setpointWeightProportional' | 'setpointWeightDerivative' | 'feedForward' | 'feedForwardLeadTime_s'>,
+): BreakpointControl {
   return {
     speed_mps,
     gains: { kp: gains.kp, ki: gains.ki, kd: gains.kd },
@@ -49,7 +53,13 @@ export interface TimeDomainSettings {
  * null when its loop is not stable. `chooseWeights`: the set-point weights are chosen on that vehicle for the
  * overshoot limit (breakpoint-performance.ts) instead of taken from `control`.
  */
-export function vehiclePerformance(values: readonly number[], control: BreakpointControl, context: RobustContext, settings: TimeDomainSettings, chooseWeights = false): BreakpointPerformance | null {
+export function vehiclePerformance(
+  values: readonly number[],
+  control: BreakpointControl,
+  context: RobustContext,
+  settings: TimeDomainSettings,
+  chooseWeights = false,
+): BreakpointPerformance | null {
   const { speed_mps, gains } = control;
   const vehicle = operatingPointWith(context.model.modelAt(speed_mps), context.set, values);
   const margins = analyseOperatingPoint(vehicle, context.loop, context.controller, speed_mps, gains);
@@ -71,7 +81,12 @@ export function vehiclePerformance(values: readonly number[], control: Breakpoin
  * worst margins name the combinations simulated besides the nominal vehicle and the corners); null when the
  * set holds a loop that is not stable there (the margins fail it already).
  */
-export function worstTimeDomainAt(point: RobustMargins, control: BreakpointControl, context: RobustContext, settings: TimeDomainSettings): RobustTimeDomain | null {
+export function worstTimeDomainAt(
+  point: RobustMargins,
+  control: BreakpointControl,
+  context: RobustContext,
+  settings: TimeDomainSettings,
+): RobustTimeDomain | null {
   if (point.instability !== null) return null;
   return worstTimeDomainOverSet({
     set: context.set,

@@ -41,7 +41,10 @@ export function scenarioTable(loop: LoopKind, runs: readonly ScenarioRunAt[]): s
       m.limitCycle === null ? 'none' : `±${m.limitCycle.amplitude.toPrecision(3)} ${unit}, period ${m.limitCycle.period_s.toFixed(2)} s`,
     ];
   });
-  return textTable([heading, ...rows], heading.map((_, i) => i > 0 && i < heading.length - 1)).map((line) => `  ${line}`);
+  return textTable(
+    [heading, ...rows],
+    heading.map((_, i) => i > 0 && i < heading.length - 1),
+  ).map((line) => `  ${line}`);
 }
 
 /** The scenario check's verdict and the limits it broke (first 12). */

@@ -96,7 +96,16 @@ export function formatSchedule(schedule: ScheduleFile): string {
   lines.push('');
   lines.push(...formatTimeDomain(schedule));
   lines.push('');
-  lines.push(...formatCheck(schedule.check.model.kind, schedule.check.failedSpeeds === 0, schedule.check.gridSize, schedule.check.failedSpeeds, schedule.check.worst, schedule));
+  lines.push(
+    ...formatCheck(
+      schedule.check.model.kind,
+      schedule.check.failedSpeeds === 0,
+      schedule.check.gridSize,
+      schedule.check.failedSpeeds,
+      schedule.check.worst,
+      schedule,
+    ),
+  );
   if (schedule.check.insertions.length > 0) {
     lines.push('', '  breakpoints inserted by refinement:');
     for (const insertion of schedule.check.insertions) lines.push(`    ${insertion.speed_mps.toFixed(2)} m/s: ${insertion.reason}`);
@@ -135,7 +144,11 @@ export function formatTimeDomain(schedule: ScheduleFile): string[] {
       fixedOrDash(t?.lateralForce?.recoveryTime_s ?? null, 1),
     ];
     if (path) row.push(fixedOrDash(t?.laneChange?.peakError_m ?? null, 3), fixedOrDash(t?.curveEntry?.errorAfterSettle_m ?? null, 3));
-    else row.push(t?.limitedStep == null ? '—' : `${Number(t.limitedStep.size.toPrecision(3))}: ${fixedOrDash(t.limitedStep.overshoot_pct, 1)} %`, fixedOrDash(t?.limitedStep?.settlingTime_s ?? null, 2));
+    else
+      row.push(
+        t?.limitedStep == null ? '—' : `${Number(t.limitedStep.size.toPrecision(3))}: ${fixedOrDash(t.limitedStep.overshoot_pct, 1)} %`,
+        fixedOrDash(t?.limitedStep?.settlingTime_s ?? null, 2),
+      );
     row.push(t === null ? '—' : `${precisionOrDash(t.actuator.largestReference, 3)} (${t.actuator.limitedBy})`);
     rows.push(row);
   }
@@ -145,7 +158,10 @@ export function formatTimeDomain(schedule: ScheduleFile): string[] {
   else limits.push('a step through the steering limits settles with the same overshoot limit');
   const lines = [
     `  time domain (exact sampled linear closed loop at each breakpoint; ${schedule.check.timeDomain.passed ? 'within every limit' : 'LIMITS BROKEN'}): ${limits.join('; ')}`,
-    ...textTable(rows, rows[0].map((_, i) => i !== 9 || path)).map((line) => `  ${line}`),
+    ...textTable(
+      rows,
+      rows[0].map((_, i) => i !== 9 || path),
+    ).map((line) => `  ${line}`),
   ];
   for (const failure of schedule.check.timeDomain.failures.slice(0, 10)) lines.push(`    ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}`);
   const searches = schedule.provenance.rule.searchAtBreakpoints ?? [];
@@ -175,7 +191,8 @@ export function formatRecheck(title: string, result: DenseCheckResult, schedule:
   const failing = result.points.filter((point) => point.failures.length > 0);
   if (failing.length > 0) {
     lines.push('  failing speeds (first 10):');
-    for (const point of failing.slice(0, 10)) lines.push(`    ${point.speed_mps.toFixed(2)} m/s: ${point.failures.map((failure) => failure.message).join('; ')}`);
+    for (const point of failing.slice(0, 10))
+      lines.push(`    ${point.speed_mps.toFixed(2)} m/s: ${point.failures.map((failure) => failure.message).join('; ')}`);
   }
   return `${lines.join('\n')}\n`;
 }
@@ -187,7 +204,24 @@ export function formatCautions(): string {
 
 /** Side by side at each new breakpoint: the new gains and margins, and the old gains' margins on the new vehicle. */
 export function formatBaseline(title: string, baseline: import('./baseline.js').BaselineCheck, old: ScheduleFile, modelKind: string): string {
-  const rows = [['speed m/s', 'new kp', 'new ki', 'new kd', 'new PM °', 'new upper GM dB', '|', 'old kp', 'old ki', 'old kd', 'old PM °', 'old upper GM dB', 'old Ms', 'old gains']];
+  const rows = [
+    [
+      'speed m/s',
+      'new kp',
+      'new ki',
+      'new kd',
+      'new PM °',
+      'new upper GM dB',
+      '|',
+      'old kp',
+      'old ki',
+      'old kd',
+      'old PM °',
+      'old upper GM dB',
+      'old Ms',
+      'old gains',
+    ],
+  ];
   for (const row of baseline.rows) {
     rows.push([
       row.speed_mps.toFixed(2),

@@ -109,7 +109,9 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
  * The scenario check of a schedule: every scenario at each breakpoint and at low, middle and top speed, the range
  * scenarios once, judged against `limits` (src/performance/scenario-limits.ts); failures ordered by speed.
  */
-export function judgeScheduleScenarios(input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: ScenarioLimits; readonly model: string }): ScheduleScenarioCheck {
+export function judgeScheduleScenarios(
+  input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: ScenarioLimits; readonly model: string },
+): ScheduleScenarioCheck {
   const speeds = scenarioSpeeds(input.schedule, true);
   // At a breakpoint with time-domain figures the linear scenarios are those figures (the same closed loop, exact:
   // test/pipeline/default-plans.test.ts), judged by the build already; the scenarios through the limits run everywhere.
@@ -122,5 +124,12 @@ export function judgeScheduleScenarios(input: Omit<SimulateScheduleInput, 'scena
   const failures = runs
     .flatMap((run) => judgeScenarioRun(run.scenario.name, run.speed_mps, run.metrics, input.limits, input.schedule.loop.kind))
     .sort((p, q) => p.speed_mps - q.speed_mps || SCENARIO_NAMES.indexOf(p.scenario) - SCENARIO_NAMES.indexOf(q.scenario));
-  return { passed: failures.length === 0, limits: input.limits, model: input.model, speeds_mps: speeds, scenarios: [...new Set(runs.map((run) => run.scenario.name))], failures };
+  return {
+    passed: failures.length === 0,
+    limits: input.limits,
+    model: input.model,
+    speeds_mps: speeds,
+    scenarios: [...new Set(runs.map((run) => run.scenario.name))],
+    failures,
+  };
 }

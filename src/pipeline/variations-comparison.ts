@@ -24,11 +24,16 @@ export function compareOverVariations(old: ScheduleFile, next: ScheduleFile, spe
   if (variations === undefined) return { available: false, reason: 'the new schedule records no variations (its plan gave none)' };
   const checkModel = model ?? recordedCheckModel(next);
   if (checkModel === null) return { available: false, reason: 'the new schedule records no model speedband can rebuild' };
-  if (checkModel.kind !== variations.set.model) return { available: false, reason: `the new schedule's variations vary the ${variations.set.model} model, not the ${checkModel.kind} model` };
+  if (checkModel.kind !== variations.set.model)
+    return { available: false, reason: `the new schedule's variations vary the ${variations.set.model} model, not the ${checkModel.kind} model` };
   const { method: _method, ...search } = variations.search;
   const side = (schedule: ScheduleFile) => {
     const { loop, controller } = scheduleLoopAndController(schedule);
-    return { lookup: scheduleLookup(schedule), thresholds: schedule.check.thresholds, analyse: makeRobustAnalysis({ model: checkModel, loop, controller, set: variations.set, search }) };
+    return {
+      lookup: scheduleLookup(schedule),
+      thresholds: schedule.check.thresholds,
+      analyse: makeRobustAnalysis({ model: checkModel, loop, controller, set: variations.set, search }),
+    };
   };
   const before = side(old);
   const after = side(next);
@@ -37,7 +42,11 @@ export function compareOverVariations(old: ScheduleFile, next: ScheduleFile, spe
     return { instability: point.instability, worst: point.worst, failures: point.failures.map((failure) => failure.message) };
   };
   const rows = speeds.map(
-    (row): VariationsAtSpeed => ({ speed_mps: row.speed_mps, old: at(before, row.newSpeed_mps, row.oldSpeed_mps), new: at(after, row.newSpeed_mps, row.newSpeed_mps) }),
+    (row): VariationsAtSpeed => ({
+      speed_mps: row.speed_mps,
+      old: at(before, row.newSpeed_mps, row.oldSpeed_mps),
+      new: at(after, row.newSpeed_mps, row.newSpeed_mps),
+    }),
   );
   return { available: true, acceptance: variations.acceptance, set: variations.set, model: checkModel.description, speeds: rows };
 }

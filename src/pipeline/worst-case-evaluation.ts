@@ -57,7 +57,8 @@ export function makeWorstCaseEvaluator(input: WorstCaseEvaluatorInput): Breakpoi
       feedForwardLeadTime_s: nominal.performanceLoop.feedForward.leadTime_s,
     };
     // Gains whose worst margins already fail are not simulated: they cannot pass.
-    const timeDomainFailures = marginFailures.length > 0 ? [] : (robustSetpointWeights(point, control, input.context, input.timeDomain).timeDomain?.failures ?? []);
+    const timeDomainFailures =
+      marginFailures.length > 0 ? [] : (robustSetpointWeights(point, control, input.context, input.timeDomain).timeDomain?.failures ?? []);
     const failures = [...marginFailures, ...timeDomainFailures].map((message) => `worst case: ${message}`);
     return failures.length === 0 ? nominal : { ...nominal, failures, severity: failures.length / (failures.length + 1) };
   };

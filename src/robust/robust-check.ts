@@ -95,7 +95,8 @@ export function robustCheck(input: RobustCheckInput): RobustCheckResult {
   for (let i = 0; i < total; i++) {
     const speed_mps = input.grid[i];
     points.push(robustCheckPoint(speed_mps, input.gainsAt(speed_mps), input.analyse, input.thresholds));
-    if (input.onProgress !== undefined && ((i + 1) % every === 0 || i + 1 === total)) input.onProgress({ stage: 'check', done: i + 1, total, note: 'over the variations' });
+    if (input.onProgress !== undefined && ((i + 1) % every === 0 || i + 1 === total))
+      input.onProgress({ stage: 'check', done: i + 1, total, note: 'over the variations' });
   }
   return robustCheckResult(points);
 }

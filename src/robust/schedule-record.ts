@@ -27,7 +27,13 @@ export function variationsRecord(input: VariationsRecordInput): ScheduleVariatio
   const breakpoints = input.breakpointSpeeds.map((speed_mps, k): ScheduleVariationsBreakpoint => {
     const point = check.points.find((candidate) => candidate.speed_mps === speed_mps);
     if (point === undefined) throw new Error(`internal: breakpoint ${speed_mps} m/s missing from the robust check's grid`);
-    return { speed_mps, instability: point.instability, worst: point.worst, timeDomain: input.timeDomainAtBreakpoints?.[k] ?? null, weakest: input.weakestAtBreakpoints[k] ?? null };
+    return {
+      speed_mps,
+      instability: point.instability,
+      worst: point.worst,
+      timeDomain: input.timeDomainAtBreakpoints?.[k] ?? null,
+      weakest: input.weakestAtBreakpoints[k] ?? null,
+    };
   });
   // A speed fails on its margins over the set, or at a breakpoint on the worst time-domain figures there.
   const timeDomainFailures = new Map(breakpoints.map((breakpoint) => [breakpoint.speed_mps, breakpoint.timeDomain?.failures ?? []]));

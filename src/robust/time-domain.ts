@@ -45,7 +45,13 @@ export const TIME_DOMAIN_FIGURES: readonly TimeDomainDefinition[] = [
     limit: (l) => l.maximumRecoveryTime_s,
   },
   { name: 'laneChangeError_m', words: 'lane-change error', unit: 'm', value: (f) => f.laneChange?.peakError_m, limit: (l) => l.maximumLaneChangeError_m },
-  { name: 'curveEntryError_m', words: 'curve-entry error after settling', unit: 'm', value: (f) => f.curveEntry?.errorAfterSettle_m, limit: (l) => l.maximumCurveEntryError_m },
+  {
+    name: 'curveEntryError_m',
+    words: 'curve-entry error after settling',
+    unit: 'm',
+    value: (f) => f.curveEntry?.errorAfterSettle_m,
+    limit: (l) => l.maximumCurveEntryError_m,
+  },
   {
     name: 'limitedStepOvershoot_pct',
     words: 'overshoot of the step through the steering limits',
@@ -103,7 +109,8 @@ export function worstTimeDomainOverSet(input: WorstTimeDomainInput): RobustTimeD
       const value = definition.value(figures);
       if (value === undefined) continue;
       const current = worst.get(definition.name);
-      if (current === undefined || badness(value) > current.badness) worst.set(definition.name, { badness: badness(value), figure: { value, combination: combinationOf(set, values) } });
+      if (current === undefined || badness(value) > current.badness)
+        worst.set(definition.name, { badness: badness(value), figure: { value, combination: combinationOf(set, values) } });
     }
     return figures;
   };
@@ -128,9 +135,13 @@ export function worstTimeDomainOverSet(input: WorstTimeDomainInput): RobustTimeD
       atPoint(Array.from({ length: k }, (_, i) => (bad(ends[2 * i]) > bad(ends[2 * i + 1]) ? 0 : 1)));
     }
   }
-  for (const combination of input.combinations) simulate(set.dimensions.map((dimension) => combination[dimension.parameter] ?? (dimension.change === 'scale' ? 1 : 0)));
+  for (const combination of input.combinations)
+    simulate(set.dimensions.map((dimension) => combination[dimension.parameter] ?? (dimension.change === 'scale' ? 1 : 0)));
 
-  const record = Object.fromEntries(TIME_DOMAIN_FIGURES.map((definition) => [definition.name, worst.get(definition.name)?.figure ?? null])) as Record<RobustTimeDomainFigure, WorstTimeDomainFigure | null>;
+  const record = Object.fromEntries(TIME_DOMAIN_FIGURES.map((definition) => [definition.name, worst.get(definition.name)?.figure ?? null])) as Record<
+    RobustTimeDomainFigure,
+    WorstTimeDomainFigure | null
+  >;
   const failures = TIME_DOMAIN_FIGURES.flatMap((definition) => {
     const figure = record[definition.name];
     return figure === null ? [] : (failureWords(definition, figure, input.limits, input.kind) ?? []);

@@ -34,7 +34,12 @@ function scale(parameter: VariedParameter, range: [number, number], source: stri
   return { parameter, change: 'scale', minimum: range[0], maximum: range[1], source };
 }
 
-function singleTrackSet(variations: PlanVariations, summary: Extract<VariedModelSummary, { kind: 'single-track' }>, models: ModelsFile | null, file?: string): VariationDimension[] {
+function singleTrackSet(
+  variations: PlanVariations,
+  summary: Extract<VariedModelSummary, { kind: 'single-track' }>,
+  models: ModelsFile | null,
+  file?: string,
+): VariationDimension[] {
   const intervals = variations.fromIdentification ? models?.singleTrack?.ci95 : undefined;
   const [forward, rearward] = variations.cgRearwardShift_m;
   if (!(summary.cgToFrontAxle_m + forward > 0 && summary.cgToRearAxle_m - rearward > 0)) {
@@ -55,7 +60,13 @@ function singleTrackSet(variations: PlanVariations, summary: Extract<VariedModel
   return [
     scale('mass_kg', factors(variations.mass_pct), `plan ${percentWords(variations.mass_pct)}`),
     scale('yawInertia_kgm2', factors(variations.yawInertia_pct), `plan ${percentWords(variations.yawInertia_pct)}`),
-    { parameter: 'cgToFrontAxle_m', change: 'add', minimum: forward, maximum: rearward, source: `plan: CG ${shown(-forward)} m forward to ${shown(rearward)} m rearward, wheelbase kept` },
+    {
+      parameter: 'cgToFrontAxle_m',
+      change: 'add',
+      minimum: forward,
+      maximum: rearward,
+      source: `plan: CG ${shown(-forward)} m forward to ${shown(rearward)} m rearward, wheelbase kept`,
+    },
     stiffness('frontCorneringStiffness_NPerRad', variations.frontCorneringStiffness_pct),
     stiffness('rearCorneringStiffness_NPerRad', variations.rearCorneringStiffness_pct),
     scale('actuatorLag_s', lag.range, `plan ${percentWords(variations.actuatorLag_pct)}${lag.words} s`),
@@ -88,11 +99,26 @@ function lumpedSet(variations: PlanVariations, models: ModelsFile | null): Varia
   const dimensions: VariationDimension[] = [];
   let deadTime: [number, number] = [0, 0];
   if (identified !== null) {
-    const words = "the widest relative 95 % interval of the per-speed FOPDT fits";
-    dimensions.push(scale('gain', widestFactors(identified, (f) => ({ value: f.gain, interval: f.ci95.gain })), words));
-    dimensions.push(scale('timeConstant_s', widestFactors(identified, (f) => ({ value: f.timeConstant_s, interval: f.ci95.timeConstant_s })), words));
+    const words = 'the widest relative 95 % interval of the per-speed FOPDT fits';
+    dimensions.push(
+      scale(
+        'gain',
+        widestFactors(identified, (f) => ({ value: f.gain, interval: f.ci95.gain })),
+        words,
+      ),
+    );
+    dimensions.push(
+      scale(
+        'timeConstant_s',
+        widestFactors(identified, (f) => ({ value: f.timeConstant_s, interval: f.ci95.timeConstant_s })),
+        words,
+      ),
+    );
     for (const speed of identified.speeds) {
-      deadTime = [Math.min(deadTime[0], speed.fopdt.ci95.deadTime_s[0] - speed.fopdt.deadTime_s), Math.max(deadTime[1], speed.fopdt.ci95.deadTime_s[1] - speed.fopdt.deadTime_s)];
+      deadTime = [
+        Math.min(deadTime[0], speed.fopdt.ci95.deadTime_s[0] - speed.fopdt.deadTime_s),
+        Math.max(deadTime[1], speed.fopdt.ci95.deadTime_s[1] - speed.fopdt.deadTime_s),
+      ];
     }
   }
   dimensions.push({
@@ -100,12 +126,19 @@ function lumpedSet(variations: PlanVariations, models: ModelsFile | null): Varia
     change: 'add',
     minimum: deadTime[0],
     maximum: deadTime[1] + variations.addedLatency_s,
-    source: `${identified === null ? '' : "the widest 95 % interval of the per-speed dead times, "}plus up to ${shown(variations.addedLatency_s)} s added latency`,
+    source: `${identified === null ? '' : 'the widest 95 % interval of the per-speed dead times, '}plus up to ${shown(variations.addedLatency_s)} s added latency`,
   });
   return dimensions;
 }
 
-const PHYSICAL_FIELDS = ['mass_pct', 'yawInertia_pct', 'cgRearwardShift_m', 'frontCorneringStiffness_pct', 'rearCorneringStiffness_pct', 'actuatorLag_pct'] as const;
+const PHYSICAL_FIELDS = [
+  'mass_pct',
+  'yawInertia_pct',
+  'cgRearwardShift_m',
+  'frontCorneringStiffness_pct',
+  'rearCorneringStiffness_pct',
+  'actuatorLag_pct',
+] as const;
 
 /**
  * The variation set of a plan on a check model (its summary, as recorded in a schedule). `models`: the

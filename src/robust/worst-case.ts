@@ -110,7 +110,13 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
   const nominal = evaluate(nominalPoint, nominalValues);
   // 2. Corners; 3. seeded samples; 4. compass search per figure — each stage only while the set looks stable.
   const stages: (() => void)[] = [
-    () => checkCorners(k, nominalPoint, (point, definition) => badnessOf(evaluate(point), definition), () => found.instability !== null),
+    () =>
+      checkCorners(
+        k,
+        nominalPoint,
+        (point, definition) => badnessOf(evaluate(point), definition),
+        () => found.instability !== null,
+      ),
     () => seededSamples(k, search.samples, search.seed).forEach((sample) => evaluate(sample)),
     () => {
       // One budget of new analyses for the searches of every figure at this speed, spent in ROBUST_FIGURES order.
@@ -150,7 +156,11 @@ export function worstCaseOverSet(input: WorstCaseInput): Omit<RobustMargins, 'sp
   const instabilityRecord: InstabilityFound | null =
     unstable === null
       ? null
-      : { verdict: unstable.margins.verdict === 'marginal' ? 'marginal' : 'unstable', combination: combinationOf(set, unstable.values), largestPoleMagnitude: largestPole(unstable.margins) };
+      : {
+          verdict: unstable.margins.verdict === 'marginal' ? 'marginal' : 'unstable',
+          combination: combinationOf(set, unstable.values),
+          largestPoleMagnitude: largestPole(unstable.margins),
+        };
   return {
     nominal: breakpointMargins(nominalMargins!),
     instability: instabilityRecord,

@@ -36,7 +36,8 @@ function sectionDigests(content: Readonly<Record<string, unknown>>): Record<stri
     if (children.length === 0) {
       sections[jsonPointer([key])] = sha256Hex(canonicalJson(value));
     } else {
-      for (const [child, childValue] of children) sections[jsonPointer([key, Array.isArray(value) ? Number(child) : child])] = sha256Hex(canonicalJson(childValue));
+      for (const [child, childValue] of children)
+        sections[jsonPointer([key, Array.isArray(value) ? Number(child) : child])] = sha256Hex(canonicalJson(childValue));
     }
   }
   return sections;

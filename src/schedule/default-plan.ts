@@ -27,7 +27,12 @@ export function defaultPlanFile(kind: LoopKind = PLAN_DEFAULTS.loop.kind): Parti
     speeds: {},
     breakpoints: breakpoints.mode === 'automatic' ? { count: breakpoints.count, spacing: breakpoints.spacing } : { speeds_mps: breakpoints.speeds_mps },
     interpolation: PLAN_DEFAULTS.interpolation,
-    controller: { form: controller.form, derivativeFilter: controller.derivativeFilter, discretisation: controller.discretisation, antiWindup: controller.antiWindup },
+    controller: {
+      form: controller.form,
+      derivativeFilter: controller.derivativeFilter,
+      discretisation: controller.discretisation,
+      antiWindup: controller.antiWindup,
+    },
     acceptance: { ...PLAN_DEFAULTS.acceptance },
     check: { ...PLAN_DEFAULTS.check },
   };

@@ -45,7 +45,10 @@ export function judgeMargins(margins: LoopMargins, thresholds: AcceptanceThresho
         criterion: 'stability',
         value: null,
         limit: null,
-        message: margins.verdict === 'marginal' ? `closed loop marginal: ${margins.analysis?.verdictNote ?? 'a closed-loop pole on the stability boundary'}` : 'closed loop unstable',
+        message:
+          margins.verdict === 'marginal'
+            ? `closed loop marginal: ${margins.analysis?.verdictNote ?? 'a closed-loop pole on the stability boundary'}`
+            : 'closed loop unstable',
       },
     ];
   }
@@ -146,7 +149,14 @@ export function worstMargins(points: readonly { readonly speed_mps: number; read
     peak = track(peak, margins.sensitivityPeak, speed_mps, larger);
     complementary = track(complementary, margins.complementarySensitivityPeak, speed_mps, larger);
   }
-  return { lowerGainMargin_dB: lower, upperGainMargin_dB: upper, phaseMargin_deg: phase, delayMargin_s: delay, sensitivityPeak: peak, complementarySensitivityPeak: complementary };
+  return {
+    lowerGainMargin_dB: lower,
+    upperGainMargin_dB: upper,
+    phaseMargin_deg: phase,
+    delayMargin_s: delay,
+    sensitivityPeak: peak,
+    complementarySensitivityPeak: complementary,
+  };
 }
 
 export interface DenseCheckInput {

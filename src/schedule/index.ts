@@ -5,7 +5,15 @@ export { makeGainLookup, gainSlopes, validateGainTable, LOOKUP_DEFAULTS, type Ga
 export { monotoneCubicSlopes, hermiteValue } from './monotone-cubic.js';
 export { checkGrid } from './grid.js';
 export { denseCheck, judgeMargins, worstMargins, THRESHOLD_DEFAULTS, type DenseCheckInput } from './dense-check.js';
-export { refineBreakpoints, REFINE_DEFAULTS, type RefineInput, type RefineResult, type BreakpointInsertion, type UnfixableFailure, type RefineStop } from './refine.js';
+export {
+  refineBreakpoints,
+  REFINE_DEFAULTS,
+  type RefineInput,
+  type RefineResult,
+  type BreakpointInsertion,
+  type UnfixableFailure,
+  type RefineStop,
+} from './refine.js';
 export {
   PLAN_DEFAULTS,
   resolvePlan,

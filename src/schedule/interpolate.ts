@@ -28,10 +28,7 @@ export function validateGainTable(table: GainTable): void {
     throw new SpeedbandError('schedule.tableInvalid', 'the gain table has no breakpoints — give at least one speed with gains');
   }
   if (gains.length !== speeds.length) {
-    throw new SpeedbandError(
-      'schedule.tableInvalid',
-      `the gain table has ${speeds.length} speeds but ${gains.length} gain rows — give one row per speed`,
-    );
+    throw new SpeedbandError('schedule.tableInvalid', `the gain table has ${speeds.length} speeds but ${gains.length} gain rows — give one row per speed`);
   }
   for (let k = 0; k < speeds.length; k += 1) {
     if (!Number.isFinite(speeds[k])) {
@@ -68,7 +65,10 @@ export function gainSlopes(table: GainTable, interpolation: LookupSettings['inte
   const n = table.speeds_mps.length;
   if (interpolation === 'linear') return { kp: new Float64Array(n), ki: new Float64Array(n), kd: new Float64Array(n) };
   const column = (name: (typeof GAIN_NAMES)[number]): Float64Array =>
-    monotoneCubicSlopes(table.speeds_mps, table.gains.map((row) => row[name]));
+    monotoneCubicSlopes(
+      table.speeds_mps,
+      table.gains.map((row) => row[name]),
+    );
   return { kp: column('kp'), ki: column('ki'), kd: column('kd') };
 }
 

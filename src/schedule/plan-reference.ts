@@ -19,8 +19,8 @@ const DERIVED_DEFAULTS: Readonly<Record<string, string>> = {
   'controller.sampleTime_s': "the vehicle file's controllerSampleTime_s, else 0.01",
   'controller.computationLatency_s': 'one sample: controller.sampleTime_s',
   'rule.parameters.controllerType': 'Ziegler–Nichols PID; SIMC by plant class (PI; PID with a second lag, a lag behind an integrator, or two integrators)',
-  'rule.parameters.closedLoopTimeConstant_s': 'λ = θ, the design model\'s dead time (the rule advises λ > 0.8·θ)',
-  'rule.parameters.simcClosedLoopTimeConstant_s': 'τc = θ, the design model\'s dead time',
+  'rule.parameters.closedLoopTimeConstant_s': "λ = θ, the design model's dead time (the rule advises λ > 0.8·θ)",
+  'rule.parameters.simcClosedLoopTimeConstant_s': "τc = θ, the design model's dead time",
   'rule.parameters.dampingRatio': '1 (critically damped)',
   'rule.parameters.naturalFrequency_radps': 'from settlingDistance_m, else ωn·θ_eff = 0.1 (and at most what the preview lead allows)',
   'rule.parameters.settlingDistance_m': 'none',
@@ -61,7 +61,8 @@ function variationDefaults(): Record<string, string> {
 /** Where each default comes from (a published source, common practice, or our choice and why). */
 const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
   'loop.kind': 'our choice: the loop every steering firmware can close',
-  'loop.preview_m': 'our choice: with previewTime_s a look-ahead that grows with speed (common practice in path following), sized so the default path plan passes on every demo vehicle',
+  'loop.preview_m':
+    'our choice: with previewTime_s a look-ahead that grows with speed (common practice in path following), sized so the default path plan passes on every demo vehicle',
   'loop.previewTime_s': 'our choice (see preview_m)',
   'loop.referencePoint': 'our choice',
   'rule.name': 'Skogestad 2003 (SIMC); Åström, Panagopoulos & Hägglund 1998 (MIGO) — each default passes on every demo vehicle',
@@ -99,7 +100,7 @@ const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
   'acceptance.maximumRecoveryTime_s': "our choice: the product's target for lateral control",
   'acceptance.maximumLaneChangeError_m': 'our choice: half the clearance of a 2.5 m wide vehicle in a 3.5 m lane',
   'acceptance.maximumCurveEntryError_m': "our choice: the product's target for lateral control",
-  'acceptance.maximumSpeedChangeError_m': "our choice: the curve-entry target, held while the speed changes",
+  'acceptance.maximumSpeedChangeError_m': 'our choice: the curve-entry target, held while the speed changes',
   'acceptance.maximumSpeedChangeError_rad': 'our choice: about 3° of heading while the speed changes',
   'acceptance.maximumSpeedChangeError_radps': 'our choice: about 3°/s of yaw rate while the speed changes',
   'check.scenarios': 'our choice: a schedule passes only when it drives the test-day manoeuvres within their limits',
@@ -109,14 +110,15 @@ const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
   description: '—',
   $schema: '—',
   'variations.acceptance': 'our choice: a set that is written is meant to be met',
-  'variations.mass_pct': 'common practice (from memory): a road vehicle\'s load moves its mass by about ±10 %; give your kerb-to-gross range',
+  'variations.mass_pct': "common practice (from memory): a road vehicle's load moves its mass by about ±10 %; give your kerb-to-gross range",
   'variations.yawInertia_pct': 'common practice (from memory): follows the load, about ±10 %',
   'variations.cgRearwardShift_m': 'none: where the load sits depends on the vehicle',
-  'variations.frontCorneringStiffness_pct': 'common practice (from memory): tyre wear, inflation, temperature and dry road surfaces move cornering stiffness by about ±20 %',
+  'variations.frontCorneringStiffness_pct':
+    'common practice (from memory): tyre wear, inflation, temperature and dry road surfaces move cornering stiffness by about ±20 %',
   'variations.rearCorneringStiffness_pct': 'common practice (from memory): as the front axle, each axle on its own (that moves the understeer gradient)',
-  'variations.actuatorLag_pct': 'common practice (from memory): an actuator\'s lag moves by about ±20 % over temperature, supply voltage and wear',
+  'variations.actuatorLag_pct': "common practice (from memory): an actuator's lag moves by about ±20 % over temperature, supply voltage and wear",
   'variations.addedLatency_s': 'our choice: one missed sample (a late computation, bus jitter)',
-  'variations.fromIdentification': 'our choice: the identification\'s own uncertainty is always there',
+  'variations.fromIdentification': "our choice: the identification's own uncertainty is always there",
   'variations.search.samples': 'our choice: about 20 ms a speed at ≈ 0.2 ms a loop analysis',
   'variations.search.seed': 'our choice',
   'variations.search.localSearchEvaluations': 'our choice: three step sizes over a few parameters',
@@ -153,7 +155,13 @@ function allowedValues(node: SchemaNode): string {
     return `${allowedValues(node.oneOf[0])}; a table \`{"speeds_mps": […], "values": […]}\`; or an expression in \`speed_mps\``;
   }
   if (node.oneOf !== undefined && node.oneOf.some((branch) => branch.type === 'array')) {
-    return node.oneOf.map((branch) => (branch.type === 'array' ? `[down, up]: ${(Array.isArray(branch.items) ? branch.items : []).map((item: SchemaNode) => allowedValues(item)).join(' and ')}` : `± ${allowedValues(branch)}`)).join('; or ');
+    return node.oneOf
+      .map((branch) =>
+        branch.type === 'array'
+          ? `[down, up]: ${(Array.isArray(branch.items) ? branch.items : []).map((item: SchemaNode) => allowedValues(item)).join(' and ')}`
+          : `± ${allowedValues(branch)}`,
+      )
+      .join('; or ');
   }
   if (node.type === 'array') return `list of ${allowedValues(Array.isArray(node.items) ? node.items[0] : (node.items ?? {}))}`;
   const bounds: string[] = [];
@@ -176,7 +184,8 @@ interface FieldRow {
 }
 
 /** A node that groups fields: an object, or a oneOf of objects (the breakpoints). */
-const isGroup = (node: SchemaNode): boolean => node.properties !== undefined || (node.oneOf !== undefined && node.oneOf.every((branch) => branch.properties !== undefined));
+const isGroup = (node: SchemaNode): boolean =>
+  node.properties !== undefined || (node.oneOf !== undefined && node.oneOf.every((branch) => branch.properties !== undefined));
 
 /** Every leaf field of the schema by dotted path (the object branches of a oneOf flattened into their parent). */
 function leafFields(properties: Readonly<Record<string, SchemaNode>>, prefix = ''): FieldRow[] {
@@ -194,7 +203,8 @@ function fieldLine({ path, node }: FieldRow): string {
   const constant = constantDefault(path);
   const defaultText = fallback ?? constant;
   const source = DEFAULT_SOURCES[path];
-  if (defaultText === undefined || source === undefined) throw new Error(`plan reference: no default or source written for ${path} (src/schedule/plan-reference.ts)`);
+  if (defaultText === undefined || source === undefined)
+    throw new Error(`plan reference: no default or source written for ${path} (src/schedule/plan-reference.ts)`);
   const cell = (text: string): string => text.replace(/\|/g, '\\|');
   return `| \`${path}\` | ${cell(node.description ?? '')} | ${cell(allowedValues(node))} | ${unitOf(name)} | ${cell(defaultText)} | ${cell(source)} |`;
 }
@@ -222,7 +232,9 @@ export function planReferenceMarkdown(): string {
   lines.push('A parameter the rule does not take is refused, in a plan and on the command line (`speedband tune`).', '');
   lines.push('| rule | method | plant classes | parameters | source |', '|---|---|---|---|---|');
   for (const rule of TUNING_RULES) {
-    lines.push(`| \`${rule.name}\` | ${rule.title} | ${rule.plantClasses.join(', ')} | ${rule.parameters.map((parameter) => `\`${parameter}\``).join(', ')} | ${rule.citation.replace(/\|/g, '\\|')} |`);
+    lines.push(
+      `| \`${rule.name}\` | ${rule.title} | ${rule.plantClasses.join(', ')} | ${rule.parameters.map((parameter) => `\`${parameter}\``).join(', ')} | ${rule.citation.replace(/\|/g, '\\|')} |`,
+    );
   }
   lines.push('');
   return `${lines.join('\n')}`;

@@ -56,7 +56,10 @@ export const PLAN_SCHEMA = {
             nonNegative,
             'Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0.',
           ),
-          referencePoint: described({ enum: ['cg', 'front-axle'] }, 'Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance.'),
+          referencePoint: described(
+            { enum: ['cg', 'front-axle'] },
+            'Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance.',
+          ),
         },
       },
       'The loop the firmware closes.',
@@ -76,25 +79,37 @@ export const PLAN_SCHEMA = {
           ),
           searchOn: described(
             { enum: ['nominal', 'worst-case'] },
-            'With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan\'s variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal.',
+            "With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal.",
           ),
           parameters: described(
             {
               type: 'object',
               additionalProperties: false,
               properties: {
-                controllerType: described({ enum: ['P', 'PI', 'PID'] }, 'Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent).'),
+                controllerType: described(
+                  { enum: ['P', 'PI', 'PID'] },
+                  'Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent).',
+                ),
                 closedLoopTimeConstant_s: speedVarying(positive, 'IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).'),
-                simcClosedLoopTimeConstant_s: speedVarying(positive, 'SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is "tight control with good robustness").'),
+                simcClosedLoopTimeConstant_s: speedVarying(
+                  positive,
+                  'SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is "tight control with good robustness").',
+                ),
                 dampingRatio: speedVarying(positive, 'Damping-target ζ of the closed-loop pole pair.'),
                 naturalFrequency_radps: speedVarying(positive, 'Damping-target ωn of the pole pair (wins over settlingDistance_m).'),
                 settlingDistance_m: speedVarying(positive, 'Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).'),
                 integralPoleRatio: speedVarying(positive, 'Damping-target ratio ωn/p of the natural frequency to the integral pole p.'),
-                sensitivityPeakTarget: speedVarying(positive, 'MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).'),
-                phaseMarginTarget_deg: speedVarying(positive, 'MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).'),
+                sensitivityPeakTarget: speedVarying(
+                  positive,
+                  'MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).',
+                ),
+                phaseMarginTarget_deg: speedVarying(
+                  positive,
+                  'MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).',
+                ),
               },
             },
-            'The rule\'s parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps.',
+            "The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps.",
           ),
         },
       },
@@ -107,7 +122,10 @@ export const PLAN_SCHEMA = {
         properties: {
           minimum_mps: described(nonNegative, 'Bottom of the speed range the dense check covers.'),
           maximum_mps: described(positive, 'Top of the speed range the dense check covers.'),
-          lowSpeedFloor_mps: described(positive, 'Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here.'),
+          lowSpeedFloor_mps: described(
+            positive,
+            'Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here.',
+          ),
         },
       },
       'The speed range of the schedule.',
@@ -126,7 +144,10 @@ export const PLAN_SCHEMA = {
             additionalProperties: false,
             properties: {
               count: described({ type: 'integer', minimum: 1, maximum: 100 }, 'Number of automatic breakpoints from the floor to the top of the range.'),
-              spacing: described({ enum: ['geometric', 'linear'] }, 'Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest.'),
+              spacing: described(
+                { enum: ['geometric', 'linear'] },
+                'Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest.',
+              ),
             },
           },
         ],
@@ -144,8 +165,11 @@ export const PLAN_SCHEMA = {
         properties: {
           form: described({ enum: ['parallel'] }, 'Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered).'),
           derivativeFilter: described(positive, 'Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000.'),
-          sampleTime_s: described(positive, 'Sample time Ts of the firmware\'s controller; from 0.0001 s (10 kHz) to 1 s.'),
-          discretisation: described({ enum: ['tustin', 'backward-euler'] }, 'How the firmware discretises the integral and the derivative filter (backward Euler\'s filter pole stays in [0, 1): no ringing).'),
+          sampleTime_s: described(positive, "Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."),
+          discretisation: described(
+            { enum: ['tustin', 'backward-euler'] },
+            "How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing).",
+          ),
           computationLatency_s: described(nonNegative, 'Time from taking a sample to the steer command it produces; from 0 s to 1 s.'),
           antiWindup: described(
             { enum: ['conditional-integration', 'back-calculation'] },
@@ -160,19 +184,49 @@ export const PLAN_SCHEMA = {
         type: 'object',
         additionalProperties: false,
         properties: {
-          maximumLowerGainMargin_dB: described({ type: 'number', maximum: 0 }, 'Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this.'),
+          maximumLowerGainMargin_dB: described(
+            { type: 'number', maximum: 0 },
+            'Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this.',
+          ),
           minimumUpperGainMargin_dB: described(nonNegative, 'Upper gain margin (the gain increase that destabilises) must be at least this.'),
           minimumPhaseMargin_deg: described({ type: 'number', minimum: 0, maximum: 180 }, 'Phase margin must be at least this.'),
-          maximumSensitivityPeak: described({ type: 'number', minimum: 1 }, 'Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund).'),
-          maximumComplementarySensitivityPeak: described({ type: 'number', minimum: 1 }, 'Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2).'),
+          maximumSensitivityPeak: described(
+            { type: 'number', minimum: 1 },
+            'Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund).',
+          ),
+          maximumComplementarySensitivityPeak: described(
+            { type: 'number', minimum: 1 },
+            'Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2).',
+          ),
           delayMarginRoom_s: described(nonNegative, 'Required delay margin = computation latency + Ts/2 (the hold) + this room.'),
-          maximumOvershoot_pct: described(nonNegative, 'Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice).'),
-          maximumRecoveryTime_s: described(positive, 'A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).'),
-          maximumLaneChangeError_m: described(positive, 'Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).'),
-          maximumCurveEntryError_m: described(positive, 'Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).'),
-          maximumSpeedChangeError_m: described(positive, 'Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3).'),
-          maximumSpeedChangeError_rad: described(positive, 'Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05).'),
-          maximumSpeedChangeError_radps: described(positive, 'Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05).'),
+          maximumOvershoot_pct: described(
+            nonNegative,
+            'Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice).',
+          ),
+          maximumRecoveryTime_s: described(
+            positive,
+            'A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).',
+          ),
+          maximumLaneChangeError_m: described(
+            positive,
+            'Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).',
+          ),
+          maximumCurveEntryError_m: described(
+            positive,
+            'Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).',
+          ),
+          maximumSpeedChangeError_m: described(
+            positive,
+            'Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3).',
+          ),
+          maximumSpeedChangeError_rad: described(
+            positive,
+            'Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05).',
+          ),
+          maximumSpeedChangeError_radps: described(
+            positive,
+            'Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05).',
+          ),
         },
       },
       'Limits every speed of the dense check must meet.',
@@ -182,8 +236,14 @@ export const PLAN_SCHEMA = {
         type: 'object',
         additionalProperties: false,
         properties: {
-          gridSpeeds: described({ type: 'integer', minimum: 2, maximum: 100000 }, 'Evenly spaced check speeds across the range (breakpoints and midpoints are added).'),
-          maxInsertedBreakpoints: described({ type: 'integer', minimum: 0, maximum: 100 }, 'Most breakpoints the refinement may insert where the check fails between breakpoints.'),
+          gridSpeeds: described(
+            { type: 'integer', minimum: 2, maximum: 100000 },
+            'Evenly spaced check speeds across the range (breakpoints and midpoints are added).',
+          ),
+          maxInsertedBreakpoints: described(
+            { type: 'integer', minimum: 0, maximum: 100 },
+            'Most breakpoints the refinement may insert where the check fails between breakpoints.',
+          ),
           model: described(
             { enum: ['single-track', 'interpolated-lumped'] },
             'Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused).',

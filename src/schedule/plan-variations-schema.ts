@@ -41,7 +41,15 @@ export const PLAN_VARIATIONS_SCHEMA = described(
         {
           oneOf: [
             { type: 'number', minimum: 0, maximum: 5, description: '± this many metres' },
-            { type: 'array', minItems: 2, maxItems: 2, items: [{ type: 'number', minimum: -5, maximum: 0 }, { type: 'number', minimum: 0, maximum: 5 }] },
+            {
+              type: 'array',
+              minItems: 2,
+              maxItems: 2,
+              items: [
+                { type: 'number', minimum: -5, maximum: 0 },
+                { type: 'number', minimum: 0, maximum: 5 },
+              ],
+            },
           ],
         },
         'Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks.',
@@ -49,7 +57,10 @@ export const PLAN_VARIATIONS_SCHEMA = described(
       frontCorneringStiffness_pct: percentRange('Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent.'),
       rearCorneringStiffness_pct: percentRange('Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent.'),
       actuatorLag_pct: percentRange('Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent.'),
-      addedLatency_s: described({ type: 'number', minimum: 0, maximum: 1 }, 'Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s.'),
+      addedLatency_s: described(
+        { type: 'number', minimum: 0, maximum: 1 },
+        'Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s.',
+      ),
       fromIdentification: described(
         { type: 'boolean' },
         "Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds).",
@@ -59,8 +70,14 @@ export const PLAN_VARIATIONS_SCHEMA = described(
           type: 'object',
           additionalProperties: false,
           properties: {
-            samples: described({ type: 'integer', minimum: 0, maximum: 4096 }, 'Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners).'),
-            seed: described({ type: 'integer', minimum: 0, maximum: 4294967295 }, 'Seed of those points (the same points at every speed; the same seed gives the same schedule).'),
+            samples: described(
+              { type: 'integer', minimum: 0, maximum: 4096 },
+              'Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners).',
+            ),
+            seed: described(
+              { type: 'integer', minimum: 0, maximum: 4294967295 },
+              'Seed of those points (the same points at every speed; the same seed gives the same schedule).',
+            ),
             localSearchEvaluations: described(
               { type: 'integer', minimum: 0, maximum: 1000 },
               'Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off.',

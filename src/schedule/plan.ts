@@ -187,7 +187,6 @@ export const DEFAULT_RULES: Readonly<Record<LoopKind, Plan['rule']>> = {
  */
 export const DEFAULT_PATH_PREVIEW = { preview_m: 0.5, previewTime_s: 0.3 } as const;
 
-
 const validateSchema = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile, planReferenceHint);
 
 /** Schema, then the rule's parameters: one the rule does not take is refused (it would be ignored), naming those it takes. */
@@ -244,15 +243,23 @@ export interface ResolveContext {
  */
 export const CONTROLLER_RANGES = {
   sampleTime_s: { minimum: 1e-4, maximum: 1, words: 'from 0.0001 s (10 kHz) to 1 s', advice: 'give the controller period in seconds, e.g. 0.01 for 100 Hz' },
-  computationLatency_s: { minimum: 0, maximum: 1, words: 'from 0 s to 1 s', advice: 'give the time from sampling to the steering command in seconds, e.g. 0.01 (not milliseconds)' },
+  computationLatency_s: {
+    minimum: 0,
+    maximum: 1,
+    words: 'from 0 s to 1 s',
+    advice: 'give the time from sampling to the steering command in seconds, e.g. 0.01 (not milliseconds)',
+  },
   derivativeFilter: { minimum: 1, maximum: 1000, words: 'from 1 to 1,000', advice: 'N sets the derivative filter time Td/N; 5–20 is common practice' },
 } as const;
 
 function checkControllerPlausible(controller: Plan['controller'], written: Partial<Plan['controller']>, file?: string): void {
-  for (const [field, range] of Object.entries(CONTROLLER_RANGES) as [keyof typeof CONTROLLER_RANGES, (typeof CONTROLLER_RANGES)[keyof typeof CONTROLLER_RANGES]][]) {
+  for (const [field, range] of Object.entries(CONTROLLER_RANGES) as [
+    keyof typeof CONTROLLER_RANGES,
+    (typeof CONTROLLER_RANGES)[keyof typeof CONTROLLER_RANGES],
+  ][]) {
     const value = controller[field];
     if (value >= range.minimum && value <= range.maximum) continue;
-    const where = written[field] === undefined && field === 'sampleTime_s' ? ' (taken from the vehicle file\'s controllerSampleTime_s)' : '';
+    const where = written[field] === undefined && field === 'sampleTime_s' ? " (taken from the vehicle file's controllerSampleTime_s)" : '';
     throw planError(`controller.${field} is ${value}${where} — expected ${range.words}: ${range.advice}`, `/controller/${field}`, file);
   }
 }
@@ -313,7 +320,11 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   // No rule named: the loop kind's default rule, parameters and search; a rule named: as the plan says.
   const chosen =
     partial.rule?.name === undefined
-      ? { ...DEFAULT_RULES[kind], ...(partial.rule?.parameters === undefined ? {} : { parameters }), ...(partial.rule?.tuneFor === undefined ? {} : { tuneFor: partial.rule.tuneFor }) }
+      ? {
+          ...DEFAULT_RULES[kind],
+          ...(partial.rule?.parameters === undefined ? {} : { parameters }),
+          ...(partial.rule?.tuneFor === undefined ? {} : { tuneFor: partial.rule.tuneFor }),
+        }
       : { name: partial.rule.name, parameters, tuneFor: partial.rule.tuneFor ?? PLAN_DEFAULTS.rule.tuneFor };
   const variations = partial.variations === undefined ? undefined : resolveVariations(partial.variations, controller.sampleTime_s);
   const rule = { ...chosen, searchOn: resolveSearchOn(partial.rule?.searchOn, chosen.tuneFor, variations, file) };
@@ -336,14 +347,22 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
  */
 function resolveSearchOn(written: SearchOn | undefined, tuneFor: TuneFor, variations: PlanVariations | undefined, file: string | undefined): SearchOn {
   if (written !== undefined && tuneFor !== 'fastest-passing') {
-    throw new SpeedbandError('plan.invalid', `rule.searchOn is "${written}", but the rule's parameters are not searched (tuneFor "${tuneFor}") — remove rule.searchOn, or set rule.tuneFor to "fastest-passing"`, {
-      location: { file, jsonPath: '/rule/searchOn' },
-    });
+    throw new SpeedbandError(
+      'plan.invalid',
+      `rule.searchOn is "${written}", but the rule's parameters are not searched (tuneFor "${tuneFor}") — remove rule.searchOn, or set rule.tuneFor to "fastest-passing"`,
+      {
+        location: { file, jsonPath: '/rule/searchOn' },
+      },
+    );
   }
   if (written === 'worst-case' && variations === undefined) {
-    throw new SpeedbandError('plan.invalid', 'rule.searchOn is "worst-case", but the plan has no variations section to take the worst case over — add "variations" (even {} for the defaults), or search on the nominal model', {
-      location: { file, jsonPath: '/rule/searchOn' },
-    });
+    throw new SpeedbandError(
+      'plan.invalid',
+      'rule.searchOn is "worst-case", but the plan has no variations section to take the worst case over — add "variations" (even {} for the defaults), or search on the nominal model',
+      {
+        location: { file, jsonPath: '/rule/searchOn' },
+      },
+    );
   }
   return written ?? (tuneFor === 'fastest-passing' && variations?.acceptance === 'robust' ? 'worst-case' : 'nominal');
 }

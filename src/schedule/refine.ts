@@ -135,11 +135,19 @@ export function refineBreakpoints(input: RefineInput): RefineResult {
     for (const point of check.points) {
       if (point.failures.length === 0) continue;
       if (breakpointSet.has(point.speed_mps)) {
-        unfixable.push({ speed_mps: point.speed_mps, failures: point.failures, reason: `fails at a breakpoint: the rule's own gains at ${shown(point.speed_mps)} m/s break the limits — change the rule or its parameters` });
+        unfixable.push({
+          speed_mps: point.speed_mps,
+          failures: point.failures,
+          reason: `fails at a breakpoint: the rule's own gains at ${shown(point.speed_mps)} m/s break the limits — change the rule or its parameters`,
+        });
         continue;
       }
       if (point.speed_mps < lookup.lowSpeedFloor_mps && point.speed_mps < speeds[0]) {
-        unfixable.push({ speed_mps: point.speed_mps, failures: point.failures, reason: `below the low-speed floor ${shown(lookup.lowSpeedFloor_mps)} m/s, where the floor's gains are used — lower the floor or raise the range minimum` });
+        unfixable.push({
+          speed_mps: point.speed_mps,
+          failures: point.failures,
+          reason: `below the low-speed floor ${shown(lookup.lowSpeedFloor_mps)} m/s, where the floor's gains are used — lower the floor or raise the range minimum`,
+        });
         continue;
       }
       const interval = speeds.filter((speed) => speed < point.speed_mps).length;

@@ -119,12 +119,18 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   validateGainTable(table);
   const inserted = input.insertedByRefinement ?? table.speeds_mps.map(() => false);
   if (input.breakpointExtras.length !== table.speeds_mps.length) {
-    throw new SpeedbandError('schedule.tableInvalid', `${input.breakpointExtras.length} breakpoint records for ${table.speeds_mps.length} breakpoints — give one per breakpoint`);
+    throw new SpeedbandError(
+      'schedule.tableInvalid',
+      `${input.breakpointExtras.length} breakpoint records for ${table.speeds_mps.length} breakpoints — give one per breakpoint`,
+    );
   }
   const breakpoints = table.speeds_mps.map((speed_mps, k) => {
     const point = check.points.find((candidate) => candidate.speed_mps === speed_mps);
     if (point === undefined) {
-      throw new SpeedbandError('schedule.breakpointNotChecked', `breakpoint ${speed_mps} m/s is not among the checked speeds — build the grid with checkGrid(breakpoints, …)`);
+      throw new SpeedbandError(
+        'schedule.breakpointNotChecked',
+        `breakpoint ${speed_mps} m/s is not among the checked speeds — build the grid with checkGrid(breakpoints, …)`,
+      );
     }
     const gains = table.gains[k];
     const extra = input.breakpointExtras[k];
@@ -156,7 +162,11 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
     loop: {
       kind: plan.loop.kind,
       ...(path
-        ? { referencePoint: plan.loop.referencePoint, preview_m: plan.loop.preview_m, ...(plan.loop.previewTime_s === 0 ? {} : { previewTime_s: plan.loop.previewTime_s }) }
+        ? {
+            referencePoint: plan.loop.referencePoint,
+            preview_m: plan.loop.preview_m,
+            ...(plan.loop.previewTime_s === 0 ? {} : { previewTime_s: plan.loop.previewTime_s }),
+          }
         : {}),
       error: loopErrorText(plan.loop.kind, plan.loop.preview_m, plan.loop.referencePoint, plan.loop.previewTime_s),
     },
@@ -238,7 +248,9 @@ function refuseOldVersion(value: unknown, file: string): void {
     throw new SpeedbandError(
       'schedule.unsupportedVersion',
       `schedule format version ${formatVersion} was written by an earlier speedband (${
-        formatVersion < 2 ? 'its checksum covered only the table, not the margins, status, limits and texts' : 'it has no set-point weights, feed-forward or time-domain figures'
+        formatVersion < 2
+          ? 'its checksum covered only the table, not the margins, status, limits and texts'
+          : 'it has no set-point weights, feed-forward or time-domain figures'
       }; this speedband reads version ${SCHEDULE_FORMAT_VERSION}) — rebuild the schedule with speedband build`,
       { location: { file, jsonPath: '/formatVersion' } },
     );
@@ -280,7 +292,8 @@ export function parseSchedule(value: unknown, file: string): ScheduleFile {
     );
   }
   if ((schedule.status === 'passed') !== acceptancePassed(schedule.check.passed, schedule.variations)) {
-    const robust = schedule.variations === undefined ? '' : ` and variations.passed is ${schedule.variations.passed} under ${schedule.variations.acceptance} acceptance`;
+    const robust =
+      schedule.variations === undefined ? '' : ` and variations.passed is ${schedule.variations.passed} under ${schedule.variations.acceptance} acceptance`;
     throw new SpeedbandError(
       'schedule.invalid',
       `status is "${schedule.status}" but check.passed is ${schedule.check.passed}${robust} — the file is inconsistent; rebuild the schedule`,

@@ -17,11 +17,38 @@ import type { ScheduleUnits } from './schedule-types.js';
 export function gainUnits(kind: LoopKind): ScheduleUnits {
   switch (kind) {
     case 'yaw-rate':
-      return { speed: 'm/s', error: 'rad/s', output: 'rad', kp: 'rad per rad/s', ki: 'rad per rad', kd: 'rad per rad/s²', feedForward: 'rad per rad/s', feedForwardInput: 'rad/s (yaw-rate reference)' };
+      return {
+        speed: 'm/s',
+        error: 'rad/s',
+        output: 'rad',
+        kp: 'rad per rad/s',
+        ki: 'rad per rad',
+        kd: 'rad per rad/s²',
+        feedForward: 'rad per rad/s',
+        feedForwardInput: 'rad/s (yaw-rate reference)',
+      };
     case 'heading':
-      return { speed: 'm/s', error: 'rad', output: 'rad', kp: 'rad per rad', ki: 'rad per rad·s', kd: 'rad per rad/s', feedForward: 'rad per rad/s', feedForwardInput: 'rad/s (yaw-rate reference, the rate of the heading reference)' };
+      return {
+        speed: 'm/s',
+        error: 'rad',
+        output: 'rad',
+        kp: 'rad per rad',
+        ki: 'rad per rad·s',
+        kd: 'rad per rad/s',
+        feedForward: 'rad per rad/s',
+        feedForwardInput: 'rad/s (yaw-rate reference, the rate of the heading reference)',
+      };
     case 'path':
-      return { speed: 'm/s', error: 'm', output: 'rad', kp: 'rad per m', ki: 'rad per m·s', kd: 'rad per m/s', feedForward: 'rad per 1/m', feedForwardInput: '1/m (path curvature, positive turning left)' };
+      return {
+        speed: 'm/s',
+        error: 'm',
+        output: 'rad',
+        kp: 'rad per m',
+        ki: 'rad per m·s',
+        kd: 'rad per m/s',
+        feedForward: 'rad per 1/m',
+        feedForwardInput: '1/m (path curvature, positive turning left)',
+      };
   }
 }
 
@@ -41,9 +68,9 @@ export function loopErrorText(kind: LoopKind, preview_m: number, referencePoint:
     case 'heading':
       return 'e = r − y: y the measured heading and r the heading reference, both taken from the tangent of the path followed (r = 0 to follow it; with set-point weight b < 1 an absolute heading would make b·r grow without bound along a curve), rad (positive counter-clockwise seen from above, ISO 8855)';
     case 'path':
-      return `e = r − y at the preview point ${previewText(preview_m, previewTime_s)} ahead of the ${
-        referencePointText(referencePoint)
-      }: y = lateral offset of that point from the path (e_y + d·e_ψ, d the preview distance from the centre of gravity), r = the commanded offset from the path (0 to follow the path itself), m (positive to the left, ISO 8855)`;
+      return `e = r − y at the preview point ${previewText(preview_m, previewTime_s)} ahead of the ${referencePointText(
+        referencePoint,
+      )}: y = lateral offset of that point from the path (e_y + d·e_ψ, d the preview distance from the centre of gravity), r = the commanded offset from the path (0 to follow the path itself), m (positive to the left, ISO 8855)`;
   }
 }
 
@@ -68,12 +95,12 @@ export function controllerUpdateText(discretisation: Discretisation, antiWindup:
   const lines = [
     'kp[k], ki[k], kd[k], b[k], c[k], kff[k], T_ff[k] = the values looked up at the current speed; Tf = kd/(kp·N) (Tf = 0 when kd = 0; Tf = √(kd/ki)/N when kp = 0)',
     'e[k] = r[k] − y[k];  d[k] = c[k]·r[k] − y[k] (d[−1] = d[0]: no kick on the first sample);  F[k] = kff[k]·w[k]',
-    discretisation === 'tustin'
-      ? 'ΔI[k] = Ts·(ki[k]·e[k] + ki[k−1]·e[k−1])/2'
-      : 'ΔI[k] = ki[k]·Ts·e[k]',
+    discretisation === 'tustin' ? 'ΔI[k] = Ts·(ki[k]·e[k] + ki[k−1]·e[k−1])/2' : 'ΔI[k] = ki[k]·Ts·e[k]',
   ];
   if (antiWindup === 'back-calculation') {
-    lines.push('ΔI[k] += Ts·(u[k−1] − v[k−1])/Tt, Tt = √(Ti·Td) with Ti = kp/ki, Td = kd/kp (Tt = Ti when kd = 0)   (back-calculation, Åström & Hägglund 2006, §3.5)');
+    lines.push(
+      'ΔI[k] += Ts·(u[k−1] − v[k−1])/Tt, Tt = √(Ti·Td) with Ti = kp/ki, Td = kd/kp (Tt = Ti when kd = 0)   (back-calculation, Åström & Hägglund 2006, §3.5)',
+    );
   }
   lines.push(
     'I[k] = clamp(I[k−1] + ΔI[k], −integratorClamp_rad − F[k], +integratorClamp_rad − F[k])   (F + I stays within ±integratorClamp_rad: room for the feed-forward)',
@@ -83,7 +110,9 @@ export function controllerUpdateText(discretisation: Discretisation, antiWindup:
     'v[k] = F[k] + kp[k]·(b[k]·r[k] − y[k]) + I[k] + D[k]',
   );
   if (antiWindup === 'conditional-integration') {
-    lines.push('if |v[k]| > integratorClamp_rad and ΔI[k] has the sign of v[k]: I[k] = clamp(I[k−1], …) and v[k] recomputed   (conditional integration, Åström & Hägglund 2006, §3.5)');
+    lines.push(
+      'if |v[k]| > integratorClamp_rad and ΔI[k] has the sign of v[k]: I[k] = clamp(I[k−1], …) and v[k] recomputed   (conditional integration, Åström & Hägglund 2006, §3.5)',
+    );
   }
   lines.push('u[k] = clamp(v[k], −integratorClamp_rad, +integratorClamp_rad)   (the same equations as src/controller/firmware-step.ts, firmwareStep)');
   return lines;

@@ -55,7 +55,12 @@ export const SCHEDULE_VARIATIONS_SCHEMA = {
       },
       notApplied: { type: 'array', items: object({ field: text, reason: text }) },
     }),
-    search: object({ samples: { type: 'integer', minimum: 0 }, seed: { type: 'integer', minimum: 0 }, localSearchEvaluations: { type: 'integer', minimum: 0 }, method: text }),
+    search: object({
+      samples: { type: 'integer', minimum: 0 },
+      seed: { type: 'integer', minimum: 0 },
+      localSearchEvaluations: { type: 'integer', minimum: 0 },
+      method: text,
+    }),
     gridSize: { type: 'integer', minimum: 1 },
     failedSpeeds: { type: 'integer', minimum: 0 },
     unstableSpeeds: { type: 'integer', minimum: 0 },
@@ -64,7 +69,13 @@ export const SCHEDULE_VARIATIONS_SCHEMA = {
     failures: { type: 'array', items: object({ speed_mps: number, messages: { type: 'array', items: text } }) },
     breakpoints: {
       type: 'array',
-      items: object({ speed_mps: number, instability: ref('instability'), worst: figureMap('worstAtSpeed'), timeDomain: ref('timeDomain'), weakest: ref('weakest') }),
+      items: object({
+        speed_mps: number,
+        instability: ref('instability'),
+        worst: figureMap('worstAtSpeed'),
+        timeDomain: ref('timeDomain'),
+        weakest: ref('weakest'),
+      }),
     },
     weakest: ref('weakest'),
   }),
@@ -73,7 +84,8 @@ export const SCHEDULE_VARIATIONS_SCHEMA = {
       type: 'object',
       additionalProperties: false,
       properties: Object.fromEntries(PARAMETERS.map((name) => [name, number])),
-      description: "The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say.",
+      description:
+        "The change of each varied parameter behind a figure: a factor (scale) or an offset in the parameter's unit (add), as the set's dimensions say.",
     },
     worstOverGrid: objectOrNull({ value: number, speed_mps: number, combination: ref('combination') }),
     worstAtSpeed: objectOrNull({ value: number, combination: ref('combination') }),
@@ -88,9 +100,14 @@ export const SCHEDULE_VARIATIONS_SCHEMA = {
     },
     worstTimeDomain: {
       ...objectOrNull({ value: { type: ['number', 'null'] }, combination: ref('combination') }),
-      description: 'A worst time-domain figure (value null: the response did not settle within the simulated time) and its combination; null where the loop has no such figure.',
+      description:
+        'A worst time-domain figure (value null: the response did not settle within the simulated time) and its combination; null where the loop has no such figure.',
     },
-    instability: objectOrNull({ verdict: { enum: ['unstable', 'marginal'] }, combination: ref('combination'), largestPoleMagnitude: { type: ['number', 'null'] } }),
+    instability: objectOrNull({
+      verdict: { enum: ['unstable', 'marginal'] },
+      combination: ref('combination'),
+      largestPoleMagnitude: { type: ['number', 'null'] },
+    }),
     weakest: {
       ...objectOrNull({
         speed_mps: number,
@@ -101,7 +118,8 @@ export const SCHEDULE_VARIATIONS_SCHEMA = {
         restoresStability: { type: ['boolean', 'null'] },
         combination: ref('combination'),
       }),
-      description: 'At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most.',
+      description:
+        'At a speed, the figure nearest its limit over the set (relative to the limit), and of the parameters changed behind it the one whose return to nominal alone recovers most.',
     },
   },
   description:

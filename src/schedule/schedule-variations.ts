@@ -6,7 +6,16 @@
  * src/robust/schedule-record.ts makes it from a robust check.
  */
 import type { FailingSpeed } from './dense-check.js';
-import type { InstabilityFound, RobustFigure, RobustSearchSettings, RobustTimeDomain, RobustWorstValue, VariationSet, WeakestParameter, WorstFigure } from './variation-types.js';
+import type {
+  InstabilityFound,
+  RobustFigure,
+  RobustSearchSettings,
+  RobustTimeDomain,
+  RobustWorstValue,
+  VariationSet,
+  WeakestParameter,
+  WorstFigure,
+} from './variation-types.js';
 
 export interface ScheduleVariationsBreakpoint {
   readonly speed_mps: number;

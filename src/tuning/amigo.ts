@@ -21,7 +21,11 @@ const CITATION =
  */
 export function amigo(model: DesignModel, parameters: RuleParameters): RuleResult {
   if (model.integrators === 2) {
-    throw ruleNotApplicable('amigo', model, 'the AMIGO formulas are fitted to processes with essentially monotone step responses (self-regulating and integrating); a double integrator is outside them — migo optimises the same criterion on the full loop');
+    throw ruleNotApplicable(
+      'amigo',
+      model,
+      'the AMIGO formulas are fitted to processes with essentially monotone step responses (self-regulating and integrating); a double integrator is outside them — migo optimises the same criterion on the full loop',
+    );
   }
   const controllerType: ControllerType = parameters.controllerType ?? 'PI';
   if (controllerType === 'P') throw ruleNotApplicable('amigo', model, 'AMIGO gives PI and PID settings only');

@@ -6,7 +6,7 @@ import { parameterRequired, requirePositive } from './parameter-required.js';
 import type { DesignModel, RuleContext, RuleParameters, RuleResult, TuningRule } from './types.js';
 
 const CITATION =
-  'Pole placement on k\'\'(T0·s + 1)/s² with a parallel PID: closed-loop characteristic polynomial proportional to (s² + 2ζωn s + ωn²)(s + p) (textbook pole placement, e.g. Åström & Murray, Feedback Systems, 2008, §10)';
+  "Pole placement on k''(T0·s + 1)/s² with a parallel PID: closed-loop characteristic polynomial proportional to (s² + 2ζωn s + ωn²)(s + p) (textbook pole placement, e.g. Åström & Murray, Feedback Systems, 2008, §10)";
 
 /**
  * Damping-target placement on the design model k''/s² (delay and lags neglected in the design):
@@ -83,7 +83,11 @@ function frequencyForPreviewGain(search: {
 export function dampingTarget(model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
   if (model.integrators === 1) return dampingTargetIntegrating(model, parameters, context);
   if (model.integrators !== 2) {
-    throw ruleNotApplicable('damping-target', model, "the placement formulas are written for the integrator k'/s of a heading loop and the double integrator k''/s² of a path loop");
+    throw ruleNotApplicable(
+      'damping-target',
+      model,
+      "the placement formulas are written for the integrator k'/s of a heading loop and the double integrator k''/s² of a path loop",
+    );
   }
   const reduced = reduceByHalfRule(model, 0).model;
   const effectiveDelay_s = reduced.deadTime_s;

@@ -17,7 +17,11 @@ const CITATION =
  */
 export function imcPid(model: DesignModel, parameters: RuleParameters): RuleResult {
   if (plantClassOf(model) !== 'self-regulating') {
-    throw ruleNotApplicable('imc-pid', model, 'the IMC-PID formulas of Rivera, Morari & Skogestad (1986) used here are derived for a first order plus dead time plant');
+    throw ruleNotApplicable(
+      'imc-pid',
+      model,
+      'the IMC-PID formulas of Rivera, Morari & Skogestad (1986) used here are derived for a first order plus dead time plant',
+    );
   }
   const K = model.gain;
   const tau = model.lags_s[0] ?? 0;

@@ -127,7 +127,10 @@ export function maximiseIntegralGain(input: MigoSearchInput): MigoSearchResult {
     }
   };
   if (input.start !== undefined && input.start.kp !== 0) {
-    consider(Math.log(Math.abs(input.start.kp)), structure === 'PID' && input.start.kd !== 0 ? Math.log(Math.abs(input.start.kd)) : structure === 'PID' ? logKdScale : null);
+    consider(
+      Math.log(Math.abs(input.start.kp)),
+      structure === 'PID' && input.start.kd !== 0 ? Math.log(Math.abs(input.start.kd)) : structure === 'PID' ? logKdScale : null,
+    );
   }
   if (found.length === 0) scan(KP_GRID.step, KD_GRID.step);
   if (found.length === 0) scan(FINE_KP_STEP, FINE_KD_STEP);
@@ -155,7 +158,9 @@ export function maximiseIntegralGain(input: MigoSearchInput): MigoSearchResult {
   const leaders: Candidate[] = [];
   for (const candidate of found) {
     if (leaders.length >= REFINED_CANDIDATES) break;
-    const apart = leaders.every((leader) => Math.abs(leader.logKp - candidate.logKp) > 1e-9 || Math.abs((leader.logKd ?? 0) - (candidate.logKd ?? 0)) > Math.LN10 * FINE_KD_STEP * 1.5);
+    const apart = leaders.every(
+      (leader) => Math.abs(leader.logKp - candidate.logKp) > 1e-9 || Math.abs((leader.logKd ?? 0) - (candidate.logKd ?? 0)) > Math.LN10 * FINE_KD_STEP * 1.5,
+    );
     if (apart) leaders.push(candidate);
   }
   let best = leaders.map((leader) => refine(leader, 1, 0)).reduce((p, q) => (q.ki > p.ki ? q : p));

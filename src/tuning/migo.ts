@@ -40,13 +40,21 @@ const { peakTolerance: EXACT_TOLERANCE, phaseTolerance_deg: EXACT_PHASE_TOLERANC
 export function migo(model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
   const loop = context.fullLoop;
   if (loop === undefined) {
-    throw ruleNotApplicable('migo', model, 'MIGO optimises on the full loop the firmware runs, which this call does not give (tune through tuneOperatingPoint or a build)');
+    throw ruleNotApplicable(
+      'migo',
+      model,
+      'MIGO optimises on the full loop the firmware runs, which this call does not give (tune through tuneOperatingPoint or a build)',
+    );
   }
   const target = requirePositive('migo', 'sensitivityPeakTarget (M)', parameters.sensitivityPeakTarget ?? TUNING_DEFAULTS.sensitivityPeakTarget);
   if (!(target > 1)) {
-    throw new SpeedbandError('tuning.invalidParameter', `rule migo: sensitivityPeakTarget (M) is ${target}; expected a bound above 1 (1.2–2 is the usual range; Ms = 1 would need L = 0)`, {
-      details: { rule: 'migo', parameter: 'sensitivityPeakTarget', value: target },
-    });
+    throw new SpeedbandError(
+      'tuning.invalidParameter',
+      `rule migo: sensitivityPeakTarget (M) is ${target}; expected a bound above 1 (1.2–2 is the usual range; Ms = 1 would need L = 0)`,
+      {
+        details: { rule: 'migo', parameter: 'sensitivityPeakTarget', value: target },
+      },
+    );
   }
   const controllerType: ControllerType = parameters.controllerType ?? (model.integrators === 0 && model.lags_s.length < 2 ? 'PI' : 'PID');
   if (controllerType === 'P') throw ruleNotApplicable('migo', model, 'MIGO maximises the integral gain: it gives PI and PID settings only');
@@ -59,7 +67,11 @@ export function migo(model: DesignModel, parameters: RuleParameters, context: Ru
   const sign = model.gain < 0 ? -1 : 1;
   const search = maximiseIntegralGain({
     response,
-    bounds: { sensitivity: target, complementary: target, ...(parameters.phaseMarginTarget_deg === undefined ? {} : { phaseMargin_deg: parameters.phaseMarginTarget_deg }) },
+    bounds: {
+      sensitivity: target,
+      complementary: target,
+      ...(parameters.phaseMarginTarget_deg === undefined ? {} : { phaseMargin_deg: parameters.phaseMarginTarget_deg }),
+    },
     structure: controllerType,
     proportionalScale: scale,
     derivativeTimeScale_s: 1 / crossover,
@@ -67,7 +79,11 @@ export function migo(model: DesignModel, parameters: RuleParameters, context: Ru
     ...(context.startGains === undefined ? {} : { start: context.startGains }),
   });
   if (search.gains.ki === 0) {
-    throw ruleNotApplicable('migo', model, `no ${controllerType} setting keeps both sensitivity peaks within M = ${target} on this loop — raise sensitivityPeakTarget${controllerType === 'PI' ? ' or use a PID' : ''}`);
+    throw ruleNotApplicable(
+      'migo',
+      model,
+      `no ${controllerType} setting keeps both sensitivity peaks within M = ${target} on this loop — raise sensitivityPeakTarget${controllerType === 'PI' ? ' or use a PID' : ''}`,
+    );
   }
   const confirmed = confirmExactly(search.gains, loop, target, parameters.phaseMarginTarget_deg);
   return {
@@ -75,7 +91,12 @@ export function migo(model: DesignModel, parameters: RuleParameters, context: Ru
     citation: CITATION,
     controllerType,
     gains: confirmed.gains,
-    ruleForm: { form: 'parallel', gain: confirmed.gains.kp, integralTime_s: confirmed.gains.kp / confirmed.gains.ki, derivativeTime_s: confirmed.gains.kp === 0 ? 0 : confirmed.gains.kd / confirmed.gains.kp },
+    ruleForm: {
+      form: 'parallel',
+      gain: confirmed.gains.kp,
+      integralTime_s: confirmed.gains.kp / confirmed.gains.ki,
+      derivativeTime_s: confirmed.gains.kp === 0 ? 0 : confirmed.gains.kd / confirmed.gains.kp,
+    },
     designModel: model,
     intermediate: {
       sensitivityPeakTarget: target,
@@ -90,7 +111,12 @@ export function migo(model: DesignModel, parameters: RuleParameters, context: Ru
 }
 
 /** Lower ki (× shrinkFactor a step) until the exact sampled analysis finds the loop stable with both peaks within the target. */
-function confirmExactly(gains: PidGains, loop: FullLoop, target: number, phaseMargin_deg: number | undefined): { gains: PidGains; sensitivityPeak: number; complementarySensitivityPeak: number; reductions: number } {
+function confirmExactly(
+  gains: PidGains,
+  loop: FullLoop,
+  target: number,
+  phaseMargin_deg: number | undefined,
+): { gains: PidGains; sensitivityPeak: number; complementarySensitivityPeak: number; reductions: number } {
   let current = gains;
   for (let step = 0; step <= SHRINK_STEPS; step++) {
     const margins = analyseLoop({
@@ -106,9 +132,13 @@ function confirmExactly(gains: PidGains, loop: FullLoop, target: number, phaseMa
     }
     current = { ...current, ki: current.ki * MIGO_EXACT_CHECK_DEFAULTS.shrinkFactor };
   }
-  throw new SpeedbandError('tuning.notConfirmed', `rule migo: the exact analysis of the sampled loop does not confirm the optimised design within M = ${target} (kp = ${gains.kp}, ki = ${gains.ki}, kd = ${gains.kd}) — report this loop`, {
-    details: { ...gains, sensitivityPeakTarget: target },
-  });
+  throw new SpeedbandError(
+    'tuning.notConfirmed',
+    `rule migo: the exact analysis of the sampled loop does not confirm the optimised design within M = ${target} (kp = ${gains.kp}, ki = ${gains.ki}, kd = ${gains.kd}) — report this loop`,
+    {
+      details: { ...gains, sensitivityPeakTarget: target },
+    },
+  );
 }
 
 export const MIGO: TuningRule = {

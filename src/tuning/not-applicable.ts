@@ -9,9 +9,7 @@ import type { DesignModel, RuleName } from './types.js';
  */
 export function ruleNotApplicable(rule: RuleName, model: DesignModel, reason: string): SpeedbandError {
   const plantClass = plantClassOf(model);
-  return new SpeedbandError(
-    'tuning.ruleNotApplicable',
-    `rule ${rule} does not apply to this ${describePlantClass(plantClass)}: ${reason}`,
-    { details: { rule, plantClass, reason } },
-  );
+  return new SpeedbandError('tuning.ruleNotApplicable', `rule ${rule} does not apply to this ${describePlantClass(plantClass)}: ${reason}`, {
+    details: { rule, plantClass, reason },
+  });
 }

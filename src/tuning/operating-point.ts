@@ -14,7 +14,7 @@ import type { RuleParameters, RuleResult } from './types.js';
 
 /** The vehicle model at the operating point: a lumped per-speed yaw-rate model, or the single-track model. */
 export type OperatingPointModel =
-  | { readonly kind: 'lumped'; readonly yawRate: LumpedModel; /** needed for a front-axle preview, m */ readonly cgToFrontAxle_m?: number }
+  | { readonly kind: 'lumped'; readonly yawRate: LumpedModel /** needed for a front-axle preview, m */; readonly cgToFrontAxle_m?: number }
   | { readonly kind: 'single-track'; readonly parameters: SingleTrackParameters };
 
 /** Input of tuneOperatingPoint: loop, speed, model (lumped or single-track), rule with its parameters, controller settings. */
@@ -70,7 +70,13 @@ export function tuneOperatingPoint(request: OperatingPointRequest): TunedOperati
   const design =
     model.kind === 'lumped'
       ? designModelFromLumped({ kind: specification.kind, model: model.yawRate, speed_mps, controllerDelay_s, previewFromCg_m: loop.previewFromCg_m ?? 0 })
-      : designModelFromSingleTrack({ kind: specification.kind, parameters: model.parameters, speed_mps, controllerDelay_s, previewFromCg_m: loop.previewFromCg_m ?? 0 });
+      : designModelFromSingleTrack({
+          kind: specification.kind,
+          parameters: model.parameters,
+          speed_mps,
+          controllerDelay_s,
+          previewFromCg_m: loop.previewFromCg_m ?? 0,
+        });
   // The loop as the firmware runs it: the plant's own delay and the latency, without the Ts/2 the design model adds for the hold.
   const fullLoop = { plant: { ...loop.plant, delay_s: loop.plant.delay_s - controller.sampleTime_s / 2 }, controller };
   const derivation = applyRule(request.rule, design.model, request.ruleParameters, {

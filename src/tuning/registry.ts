@@ -45,7 +45,9 @@ export function parametersNotTaken(rule: TuningRule, given: readonly string[]): 
  */
 export function parameterNotTakenWords(rule: TuningRule, name: string, shown: (parameter: RuleParameterName) => string = (parameter) => parameter): string {
   // Rules whose parameters are written the same way (two parameters may share one command-line option).
-  const owners = TUNING_RULES.filter((candidate) => candidate.parameters.some((parameter) => shown(parameter) === shown(name as RuleParameterName))).map((candidate) => candidate.name);
+  const owners = TUNING_RULES.filter((candidate) => candidate.parameters.some((parameter) => shown(parameter) === shown(name as RuleParameterName))).map(
+    (candidate) => candidate.name,
+  );
   const own = [...new Set(rule.parameters.map(shown))];
   const closest = closestName(shown(name as RuleParameterName), own);
   const whose = owners.length > 0 ? ` (a parameter of ${owners.join(', ')})` : '';
@@ -81,7 +83,10 @@ export function applicableRules(model: DesignModel, parameters: RuleParameters, 
 export function applyRule(name: string, model: DesignModel, parameters: RuleParameters, context: RuleContext): RuleResult {
   const rule = findRule(name);
   // A parameter the rule does not read would be silently ignored: refused instead.
-  const notTaken = parametersNotTaken(rule, Object.keys(parameters).filter((key) => parameters[key as RuleParameterName] !== undefined));
+  const notTaken = parametersNotTaken(
+    rule,
+    Object.keys(parameters).filter((key) => parameters[key as RuleParameterName] !== undefined),
+  );
   if (notTaken.length > 0) {
     throw new SpeedbandError('tuning.parameterNotTaken', `${parameterNotTakenWords(rule, notTaken[0])}; remove it`, {
       details: { rule: rule.name, parameters: notTaken, takes: rule.parameters },

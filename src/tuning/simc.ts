@@ -5,8 +5,7 @@ import { parameterRequired, requirePositive } from './parameter-required.js';
 import { ruleFormToParallel } from './rule-form.js';
 import type { ControllerType, DesignModel, RuleForm, RuleParameters, RuleResult, TuningRule } from './types.js';
 
-const CITATION =
-  'Skogestad, S. (2003). Simple analytic rules for model reduction and PID controller tuning. J. Process Control 13, 291–309 — SIMC rules';
+const CITATION = 'Skogestad, S. (2003). Simple analytic rules for model reduction and PID controller tuning. J. Process Control 13, 291–309 — SIMC rules';
 
 /** The lags SIMC keeps for a plant class and controller type; the half rule folds the rest. */
 function retainedLags(integrators: number, controllerType: ControllerType): number {
@@ -100,7 +99,9 @@ export function simc(model: DesignModel, parameters: RuleParameters): RuleResult
     },
     warnings:
       (model.leadTimeConstant_s ?? 0) !== 0
-        ? [`the design neglects the path loop's lead (T0 = ${(model.leadTimeConstant_s ?? 0).toPrecision(3)} s, preview and sideslip): the margins of the full loop include it; damping-target places the poles with it`]
+        ? [
+            `the design neglects the path loop's lead (T0 = ${(model.leadTimeConstant_s ?? 0).toPrecision(3)} s, preview and sideslip): the margins of the full loop include it; damping-target places the poles with it`,
+          ]
         : [],
   };
 }

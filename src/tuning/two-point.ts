@@ -47,9 +47,13 @@ export function fopdtByTwoPoints(g: TransferFunction): TwoPointFopdt {
   }
   const gain = dcGain(g);
   if (gain === null || gain === 0 || !Number.isFinite(gain)) {
-    throw new SpeedbandError('tuning.noSteadyState', 'the yaw-rate response has no finite non-zero steady-state gain, so no first-order-plus-dead-time approximation exists', {
-      details: { numerator: [...g.numerator], denominator: [...g.denominator] },
-    });
+    throw new SpeedbandError(
+      'tuning.noSteadyState',
+      'the yaw-rate response has no finite non-zero steady-state gain, so no first-order-plus-dead-time approximation exists',
+      {
+        details: { numerator: [...g.numerator], denominator: [...g.denominator] },
+      },
+    );
   }
   const slowest_s = poles.reduce((longest, pole) => Math.max(longest, 1 / Math.abs(pole.re)), 0);
   let horizon_s = g.delay_s + 3 * slowest_s;

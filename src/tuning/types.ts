@@ -61,14 +61,7 @@ export interface RuleResult {
 }
 
 /** The name of a published tuning rule speedband applies. */
-export type RuleName =
-  | 'ziegler-nichols-step'
-  | 'ziegler-nichols-ultimate'
-  | 'imc-pid'
-  | 'simc'
-  | 'damping-target'
-  | 'amigo'
-  | 'migo';
+export type RuleName = 'ziegler-nichols-step' | 'ziegler-nichols-ultimate' | 'imc-pid' | 'simc' | 'damping-target' | 'amigo' | 'migo';
 
 /** Every rule parameter, all optional; each rule takes the value of TUNING_DEFAULTS for one not given. */
 export interface RuleParameters {

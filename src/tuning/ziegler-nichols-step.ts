@@ -63,7 +63,11 @@ export function reactionCurve(model: DesignModel): ReactionCurve {
 export function zieglerNicholsStep(model: DesignModel, parameters: RuleParameters): RuleResult {
   const plantClass = plantClassOf(model);
   if (plantClass === 'double-integrating') {
-    throw ruleNotApplicable('ziegler-nichols-step', model, 'the step response of a double integrator is a parabola with no finite maximum slope, so R and L are not defined');
+    throw ruleNotApplicable(
+      'ziegler-nichols-step',
+      model,
+      'the step response of a double integrator is a parabola with no finite maximum slope, so R and L are not defined',
+    );
   }
   if (model.integrators === 0 && (model.lags_s.length === 0 || model.lags_s[0] <= 0)) {
     throw ruleNotApplicable('ziegler-nichols-step', model, 'a plant without a lag has a vertical reaction curve (infinite maximum slope)');

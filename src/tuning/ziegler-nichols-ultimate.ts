@@ -4,8 +4,7 @@ import { ruleFormToParallel } from './rule-form.js';
 import type { ControllerType, DesignModel, RuleForm, RuleParameters, RuleResult, TuningRule } from './types.js';
 import { ultimatePoint } from './ultimate-gain.js';
 
-const CITATION =
-  'Ziegler, J. G. & Nichols, N. B. (1942). Optimum settings for automatic controllers. Trans. ASME 64, 759–768 — ultimate-sensitivity method';
+const CITATION = 'Ziegler, J. G. & Nichols, N. B. (1942). Optimum settings for automatic controllers. Trans. ASME 64, 759–768 — ultimate-sensitivity method';
 
 /**
  * Ziegler–Nichols (1942) ultimate-gain method, ideal form, with Ku and Pu computed from the model

@@ -103,11 +103,15 @@ function checkInput(input: SingleTrackSimulationInput): number {
   if (!(period_s > 0)) throw invalid(`time_s must increase, got ${time_s[0]} … ${time_s[time_s.length - 1]} s`, {});
   for (let k = 1; k < time_s.length; k += 1) {
     if (Math.abs(time_s[k] - time_s[k - 1] - period_s) > UNIFORM_TOLERANCE * period_s) {
-      throw invalid(`time_s must be uniformly sampled at ${period_s} s, found a step of ${time_s[k] - time_s[k - 1]} s at sample ${k} — resample the command first`, { sample: k });
+      throw invalid(
+        `time_s must be uniformly sampled at ${period_s} s, found a step of ${time_s[k] - time_s[k - 1]} s at sample ${k} — resample the command first`,
+        { sample: k },
+      );
     }
   }
   for (let k = 0; k < steerCommand_rad.length; k += 1) {
-    if (!Number.isFinite(steerCommand_rad[k])) throw invalid(`steerCommand_rad is ${steerCommand_rad[k]} at sample ${k}, expected a finite angle in rad`, { sample: k });
+    if (!Number.isFinite(steerCommand_rad[k]))
+      throw invalid(`steerCommand_rad is ${steerCommand_rad[k]} at sample ${k}, expected a finite angle in rad`, { sample: k });
   }
   const { actuatorLag_s, actuatorDelay_s } = input.params;
   if (!(actuatorLag_s >= 0 && actuatorDelay_s >= 0)) throw invalid(`actuator lag and delay must be ≥ 0 s, got ${actuatorLag_s} s and ${actuatorDelay_s} s`, {});

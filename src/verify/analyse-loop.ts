@@ -78,7 +78,11 @@ export function parallelGainsOf(pid: LoopDescription['pid']): PidGains {
   if (form === 'parallel') {
     for (const name of ['integralTime_s', 'derivativeTime_s'] as const) {
       if (pid[name] !== undefined) {
-        badPid(`pid.${name} is given with the parallel form — the parallel form takes ki (1/s) and kd (s); set form 'ideal' or 'series' to give times`, `pid.${name}`, { ...pid });
+        badPid(
+          `pid.${name} is given with the parallel form — the parallel form takes ki (1/s) and kd (s); set form 'ideal' or 'series' to give times`,
+          `pid.${name}`,
+          { ...pid },
+        );
       }
     }
   }
@@ -94,15 +98,28 @@ export function parallelGainsOf(pid: LoopDescription['pid']): PidGains {
   ] as const;
   for (const [name, value, allowInfinite] of checks) {
     if (typeof value !== 'number' || Number.isNaN(value) || (!Number.isFinite(value) && !(allowInfinite && value === Infinity))) {
-      const hint = form === 'parallel' ? '' : ` (for the ${form} form give integralTime_s and derivativeTime_s in s${allowInfinite ? '; null or Infinity for no integral action' : ''})`;
-      badPid(`pid.${name} is ${String(value)} — expected a finite number${allowInfinite && form === 'parallel' ? ' (or Infinity for no integral action)' : ''}${hint}`, `pid.${name}`, { ...pid });
+      const hint =
+        form === 'parallel'
+          ? ''
+          : ` (for the ${form} form give integralTime_s and derivativeTime_s in s${allowInfinite ? '; null or Infinity for no integral action' : ''})`;
+      badPid(
+        `pid.${name} is ${String(value)} — expected a finite number${allowInfinite && form === 'parallel' ? ' (or Infinity for no integral action)' : ''}${hint}`,
+        `pid.${name}`,
+        { ...pid },
+      );
     }
   }
   const ki = integral as number;
   const kd = derivative as number;
   if (form === 'parallel') return { kp: pid.kp, ki, kd };
-  if (!(ki > 0)) badPid(`pid.${integralName} is read as the ${form} integral time and is ${ki} s — expected a time > 0 s, or ${integralName === 'ki' ? 'Infinity' : 'null'} for no integral action`, `pid.${integralName}`, { ...pid });
-  if (!(kd >= 0)) badPid(`pid.${derivativeName} is read as the ${form} derivative time and is ${kd} s — expected a time ≥ 0 s`, `pid.${derivativeName}`, { ...pid });
+  if (!(ki > 0))
+    badPid(
+      `pid.${integralName} is read as the ${form} integral time and is ${ki} s — expected a time > 0 s, or ${integralName === 'ki' ? 'Infinity' : 'null'} for no integral action`,
+      `pid.${integralName}`,
+      { ...pid },
+    );
+  if (!(kd >= 0))
+    badPid(`pid.${derivativeName} is read as the ${form} derivative time and is ${kd} s — expected a time ≥ 0 s`, `pid.${derivativeName}`, { ...pid });
   const times = { gain: pid.kp, integralTime_s: ki === Infinity ? null : ki, derivativeTime_s: kd };
   return form === 'ideal' ? idealToParallel(times) : seriesToParallel(times);
 }
@@ -117,9 +134,15 @@ export function openLoopOf(description: LoopDescription): OpenLoop {
   checkCoefficients(plant.numerator, 'plant.numerator');
   checkCoefficients(plant.denominator, 'plant.denominator');
   const latency = description.latency_s ?? LOOP_DEFAULTS.latency_s;
-  for (const [name, value] of [['plant.delay_s', plant.delay_s], ['latency_s', latency]] as const) {
+  for (const [name, value] of [
+    ['plant.delay_s', plant.delay_s],
+    ['latency_s', latency],
+  ] as const) {
     if (typeof value !== 'number' || !Number.isFinite(value) || value < 0) {
-      throw new SpeedbandError('verify.invalidLoop', `${name} is ${String(value)} — expected a finite time ≥ 0 s`, { location: { jsonPath: name }, details: { [name]: value } });
+      throw new SpeedbandError('verify.invalidLoop', `${name} is ${String(value)} — expected a finite time ≥ 0 s`, {
+        location: { jsonPath: name },
+        details: { [name]: value },
+      });
     }
   }
   const gains = parallelGainsOf(description.pid);
@@ -135,10 +158,14 @@ export function openLoopOf(description: LoopDescription): OpenLoop {
   }
   const sampleTime_s = description.sampleTime_s;
   if (typeof sampleTime_s !== 'number' || !(sampleTime_s > 0) || !Number.isFinite(sampleTime_s)) {
-    throw new SpeedbandError('verify.invalidLoop', `sampleTime_s is ${String(sampleTime_s)} — expected a finite sample time > 0 s, or omit it for a continuous controller`, {
-      location: { jsonPath: 'sampleTime_s' },
-      details: { sampleTime_s },
-    });
+    throw new SpeedbandError(
+      'verify.invalidLoop',
+      `sampleTime_s is ${String(sampleTime_s)} — expected a finite sample time > 0 s, or omit it for a continuous controller`,
+      {
+        location: { jsonPath: 'sampleTime_s' },
+        details: { sampleTime_s },
+      },
+    );
   }
   const discrete = discretePidCoefficients(gains, {
     derivativeFilter,

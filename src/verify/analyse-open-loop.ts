@@ -38,13 +38,19 @@ export interface AnalysisOptions {
 }
 
 /** The delay margin's crossover estimate min φᵢ/ωᵢ, unconfirmed (scope 'figures'). */
-function delayMarginEstimate(crossovers: readonly { frequency_radps: number; signed_rad: number }[]): { delayMargin_s: number | null; frequency_radps: number | null; note: string | null } {
+function delayMarginEstimate(crossovers: readonly { frequency_radps: number; signed_rad: number }[]): {
+  delayMargin_s: number | null;
+  frequency_radps: number | null;
+  note: string | null;
+} {
   let best: { delayMargin_s: number; frequency_radps: number } | null = null;
   for (const c of crossovers) {
     const needed = (c.signed_rad > 0 ? c.signed_rad : c.signed_rad + 2 * Math.PI) / c.frequency_radps;
     if (best === null || needed < best.delayMargin_s) best = { delayMargin_s: needed, frequency_radps: c.frequency_radps };
   }
-  return best === null ? { delayMargin_s: null, frequency_radps: null, note: null } : { ...best, note: 'the crossover estimate, not confirmed by the exact verdict (analysis scope "figures")' };
+  return best === null
+    ? { delayMargin_s: null, frequency_radps: null, note: null }
+    : { ...best, note: 'the crossover estimate, not confirmed by the exact verdict (analysis scope "figures")' };
 }
 
 /**
@@ -86,7 +92,8 @@ export function analyseOpenLoop(input: OpenLoop, options: AnalysisOptions = {}):
   const discrete = loop.discreteController ?? null;
   const plant = discrete === null ? null : sampledPlant({ numerator, denominator, delay_s: loop.delay_s }, discrete.sampleTime_s);
   const sweep = sweepLoop({ numerator, denominator, delay_s: loop.delay_s, discreteController: discrete, sampledPlant: plant, crossings: 'gainAndPhase' });
-  const decision = discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep, full);
+  const decision =
+    discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep, full);
   const { verdict } = decision;
   const stable = verdict === 'stable';
 
@@ -94,7 +101,8 @@ export function analyseOpenLoop(input: OpenLoop, options: AnalysisOptions = {}):
   let phaseMargin: { value: number; frequency: number; direction: 'lag' | 'lead' } | null = null;
   for (const c of crossovers) {
     const size = Math.abs(c.signed_rad);
-    if (phaseMargin === null || size < phaseMargin.value) phaseMargin = { value: size, frequency: c.frequency_radps, direction: c.signed_rad >= 0 ? 'lag' : 'lead' };
+    if (phaseMargin === null || size < phaseMargin.value)
+      phaseMargin = { value: size, frequency: c.frequency_radps, direction: c.signed_rad >= 0 ? 'lag' : 'lead' };
   }
   const critical = criticalCrossings(sweep, numerator, loop);
   const gains = stable ? gainMargins(critical) : { lower: null, upper: null };
@@ -103,9 +111,10 @@ export function analyseOpenLoop(input: OpenLoop, options: AnalysisOptions = {}):
     : !full
       ? delayMarginEstimate(crossovers)
       : confirmedDelayMargin({
-        crossovers: crossovers.map((c) => ({ frequency_radps: c.frequency_radps, lag_rad: c.signed_rad > 0 ? c.signed_rad : c.signed_rad + 2 * Math.PI })),
-        sampleTime_s: discrete === null ? null : discrete.sampleTime_s,
-        fractionSensitive: discrete !== null && fractionSensitive(sweep, discrete.sampleTime_s, decision.details.sampledDataHighFrequencyPoleMagnitude ?? null),
+          crossovers: crossovers.map((c) => ({ frequency_radps: c.frequency_radps, lag_rad: c.signed_rad > 0 ? c.signed_rad : c.signed_rad + 2 * Math.PI })),
+          sampleTime_s: discrete === null ? null : discrete.sampleTime_s,
+          fractionSensitive:
+            discrete !== null && fractionSensitive(sweep, discrete.sampleTime_s, decision.details.sampledDataHighFrequencyPoleMagnitude ?? null),
           stableWithAddedDelay: (added_s) => stableWithAddedDelay({ ...loop, numerator, denominator }, added_s, sweep, plant),
         });
   const peaks = sensitivityPeaks(sweep.compiled, sweep.grid, ANALYSIS_DEFAULTS.peakLogFrequencyTolerance);
@@ -148,14 +157,23 @@ function stableWithAddedDelay(loop: OpenLoop, added_s: number, sweep: Sweep, nom
   const discrete = loop.discreteController ?? null;
   const delay_s = loop.delay_s + added_s;
   if (discrete === null || nominal === null) {
-    const trial = sweepLoop({ numerator: loop.numerator, denominator: loop.denominator, delay_s, discreteController: null, sampledPlant: null, crossings: 'phaseOnly' });
+    const trial = sweepLoop({
+      numerator: loop.numerator,
+      denominator: loop.denominator,
+      delay_s,
+      discreteController: null,
+      sampledPlant: null,
+      crossings: 'phaseOnly',
+    });
     return continuousDecision(loop.numerator, loop.denominator, delay_s, trial).verdict === 'stable';
   }
   // Whole samples added: z^(−k) on the nominal sampled plant, exactly, without a new discretisation.
   const samples = added_s / discrete.sampleTime_s;
   const whole = Math.round(samples);
   if (whole >= 1 && Math.abs(samples - whole) <= 1e-9 * samples) {
-    return sampledNyquistCount(nominal, discrete, sweep, { extraWholeSamples: whole, pulseNumerator: sweep.compiled.sampled?.pulse.numerator }).verdict === 'stable';
+    return (
+      sampledNyquistCount(nominal, discrete, sweep, { extraWholeSamples: whole, pulseNumerator: sweep.compiled.sampled?.pulse.numerator }).verdict === 'stable'
+    );
   }
   const plant = sampledPlant({ numerator: loop.numerator, denominator: loop.denominator, delay_s }, discrete.sampleTime_s);
   return sampledNyquistCount(plant, discrete, sweep).verdict === 'stable';
@@ -208,7 +226,8 @@ function gainMargins(critical: readonly { frequency_radps: number; magnitude: nu
   let upper: Crossing | null = null;
   for (const c of critical) {
     if (c.magnitude > 1 && (lower === null || c.magnitude < lower.magnitude)) lower = { magnitude: c.magnitude, frequency: c.frequency_radps };
-    if (c.magnitude < 1 && c.magnitude > 0 && (upper === null || c.magnitude > upper.magnitude)) upper = { magnitude: c.magnitude, frequency: c.frequency_radps };
+    if (c.magnitude < 1 && c.magnitude > 0 && (upper === null || c.magnitude > upper.magnitude))
+      upper = { magnitude: c.magnitude, frequency: c.frequency_radps };
   }
   return { lower, upper };
 }

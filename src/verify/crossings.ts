@@ -92,7 +92,8 @@ export function findPhaseCrossovers(
     const logB = Math.log(magnitude[i + 1]);
     const direction = b > a ? 1 : -1;
     examined += kLast - kFirst + 1;
-    if (examined > settings.maximumPhaseWraps) throw tooManyPhaseWraps(loop.delay_s + (loop.discrete?.sampleTime_s ?? 0), w[i + 1], Math.abs(phase[i + 1] - phase[0]) / (2 * Math.PI));
+    if (examined > settings.maximumPhaseWraps)
+      throw tooManyPhaseWraps(loop.delay_s + (loop.discrete?.sampleTime_s ?? 0), w[i + 1], Math.abs(phase[i + 1] - phase[0]) / (2 * Math.PI));
     for (let k = kFirst; k <= kLast; k++) {
       const level = (2 * k + 1) * Math.PI;
       const t = (level - a) / (b - a);

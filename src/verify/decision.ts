@@ -90,7 +90,8 @@ export function continuousDecision(numerator: readonly number[], denominator: re
     verdictNote = `the closed-loop poles with a Padé delay of order ${poles.padeOrder} say ${poles.verdict} (rightmost real part ${poles.largestRealPart.toExponential(2)} 1/s) and the exact-delay Nyquist count says ${encirclementVerdict}: the loop lies within the Padé approximation's reach of the stability boundary`;
   } else {
     verdict = poles.verdict;
-    if (verdict === 'marginal') verdictNote = `a closed-loop pole lies on the imaginary axis within rounding (rightmost real part ${poles.largestRealPart.toExponential(2)} 1/s)`;
+    if (verdict === 'marginal')
+      verdictNote = `a closed-loop pole lies on the imaginary axis within rounding (rightmost real part ${poles.largestRealPart.toExponential(2)} 1/s)`;
   }
   return {
     verdict,
@@ -124,7 +125,13 @@ export function sampledDecision(plant: SampledPlant, discrete: DiscreteControlle
   // Without the cross-check (analysis scope 'figures') the count is reported as not made.
   const count = crossCheck
     ? sampledNyquistCount(plant, discrete, sweep, { pulseNumerator: sweep.compiled.sampled?.pulse.numerator })
-    : { verdict: 'undetermined' as const, reason: 'not counted (analysis scope "figures")', closedLoopOutsidePoles: null, openLoopOutsidePoles: sweep.rightHalfPlanePoles, openLoopUnitPoles: sweep.originPoles };
+    : {
+        verdict: 'undetermined' as const,
+        reason: 'not counted (analysis scope "figures")',
+        closedLoopOutsidePoles: null,
+        openLoopOutsidePoles: sweep.rightHalfPlanePoles,
+        openLoopUnitPoles: sweep.originPoles,
+      };
   return {
     verdict: poles.verdict,
     details: {

@@ -95,10 +95,16 @@ export function confirmedDelayMargin(input: DelayMarginInput): DelayMarginResult
       continue;
     }
     const found = bisect(lastStable, trial);
-    return { delayMargin_s: found, frequency_radps: null, note: `the exact verdict finds the loop unstable with ${format(trial)} s added: shortened from ${from} by bisection to ${format(found)} s` };
+    return {
+      delayMargin_s: found,
+      frequency_radps: null,
+      note: `the exact verdict finds the loop unstable with ${format(trial)} s added: shortened from ${from} by bisection to ${format(found)} s`,
+    };
   }
   if (!Number.isFinite(estimate)) return { delayMargin_s: null, frequency_radps: null, note: null };
-  const quarter = early ? ` and at every ${SETTINGS.earlyStepsPerSample === 8 ? 'eighth of a' : `1/${SETTINGS.earlyStepsPerSample}`} sample below ${format(Math.min(estimate, SETTINGS.earlySamples * (ts as number)))} s` : '';
+  const quarter = early
+    ? ` and at every ${SETTINGS.earlyStepsPerSample === 8 ? 'eighth of a' : `1/${SETTINGS.earlyStepsPerSample}`} sample below ${format(Math.min(estimate, SETTINGS.earlySamples * (ts as number)))} s`
+    : '';
   const confirmed = `confirmed by the exact verdict: stable with ${format(lastStable)} s added${quarter}`;
 
   // Above the estimate, where sampling bends the boundary (a crossover above ≈ 0.1 rad per sample).
@@ -113,9 +119,17 @@ export function confirmedDelayMargin(input: DelayMarginInput): DelayMarginResult
           continue;
         }
         const found = bisect(low, trial);
-        return { delayMargin_s: found, frequency_radps: null, note: `the exact verdict finds the loop still stable with ${format(above)} s added (sampling bends the boundary above ${from}): found by bisection at ${format(found)} s` };
+        return {
+          delayMargin_s: found,
+          frequency_radps: null,
+          note: `the exact verdict finds the loop still stable with ${format(above)} s added (sampling bends the boundary above ${from}): found by bisection at ${format(found)} s`,
+        };
       }
-      return { delayMargin_s: estimate, frequency_radps: frequency, note: `${confirmed}; still stable up to ${format(low)} s added — the estimate is kept as a lower figure` };
+      return {
+        delayMargin_s: estimate,
+        frequency_radps: frequency,
+        note: `${confirmed}; still stable up to ${format(low)} s added — the estimate is kept as a lower figure`,
+      };
     }
     return { delayMargin_s: estimate, frequency_radps: frequency, note: `${confirmed}, and unstable with ${format(above)} s added` };
   }

@@ -120,7 +120,11 @@ export function compileLoopResponse(loop: {
 /** Leading coefficients below this × the largest are rounding residue of B(z) (their roots would be at infinity). */
 const PULSE_LEAD_RELATIVE_TOLERANCE = 1e-12;
 
-function compileSampled(plant: SampledPlant, controller: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number }, plantPoles: RootAngles): CompiledSampled {
+function compileSampled(
+  plant: SampledPlant,
+  controller: { numerator: readonly number[]; denominator: readonly number[]; sampleTime_s: number },
+  plantPoles: RootAngles,
+): CompiledSampled {
   const pulse = pulseTransferFunction(plant);
   const full = pulse.numerator;
   const largest = full.reduce((m, c) => Math.max(m, Math.abs(c)), 0);
@@ -228,8 +232,7 @@ function discreteAngleSum(roots: RootAngles, cosine: number, sine: number): numb
 }
 
 /** Move `wrapped` by a multiple of 2π to the branch nearest `reference`. */
-const nearestBranch = (wrapped: number, reference: number): number =>
-  wrapped + 2 * Math.PI * Math.round((reference - wrapped) / (2 * Math.PI));
+const nearestBranch = (wrapped: number, reference: number): number => wrapped + 2 * Math.PI * Math.round((reference - wrapped) / (2 * Math.PI));
 
 /**
  * L(jω) at ω = frequency_radps ≥ 0 (rad/s) into `out`: value, magnitude and continuous

@@ -23,7 +23,6 @@ export function pulseTransferFunction(plant: SampledPlant): { readonly numerator
   return { numerator, denominator: characteristic };
 }
 
-
 /**
  * det(zI − M) = z^n + c1·z^(n−1) + … + cn (returned highest first, with the leading 1) and
  * adj(zI − M) = Σ_k N_k·z^(n−1−k) by the Faddeev–LeVerrier recursion: N_0 = I,

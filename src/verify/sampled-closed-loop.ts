@@ -33,7 +33,10 @@ function registerLengthOf(plant: SampledPlant): number {
 }
 
 /** Order of the closed-loop state (plant + delay register + controller) without building it. */
-export function sampledClosedLoopOrder(plant: SampledPlant, controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] }): number {
+export function sampledClosedLoopOrder(
+  plant: SampledPlant,
+  controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] },
+): number {
   return plant.inputGainCurrent.length + registerLengthOf(plant) + Math.max(controller.denominator.length, controller.numerator.length) - 1;
 }
 
@@ -41,7 +44,10 @@ export function sampledClosedLoopOrder(plant: SampledPlant, controller: { readon
  * The closed-loop state matrix of `plant` (from `sampledPlant`) under C(z) (coefficients in powers
  * of z, highest first; throws `verify.invalidController` when non-causal), see the module comment.
  */
-export function sampledClosedLoopMatrix(plant: SampledPlant, controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] }): SampledClosedLoopMatrix {
+export function sampledClosedLoopMatrix(
+  plant: SampledPlant,
+  controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] },
+): SampledClosedLoopMatrix {
   const { b, a } = controllerInDelays(controller);
   const n = plant.inputGainCurrent.length;
   const ell = plant.wholeSampleDelay;

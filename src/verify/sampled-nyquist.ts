@@ -69,12 +69,19 @@ export function sampledLoopEvaluator(plant: SampledPlant, b: readonly number[], 
       let best = -1;
       for (let r = col; r < n; r++) {
         const size = re[r * width + col] * re[r * width + col] + im[r * width + col] * im[r * width + col];
-        if (size > best) { best = size; pivot = r; }
+        if (size > best) {
+          best = size;
+          pivot = r;
+        }
       }
       if (pivot !== col) {
         for (let j = col; j <= n; j++) {
-          const tr = re[col * width + j]; re[col * width + j] = re[pivot * width + j]; re[pivot * width + j] = tr;
-          const ti = im[col * width + j]; im[col * width + j] = im[pivot * width + j]; im[pivot * width + j] = ti;
+          const tr = re[col * width + j];
+          re[col * width + j] = re[pivot * width + j];
+          re[pivot * width + j] = tr;
+          const ti = im[col * width + j];
+          im[col * width + j] = im[pivot * width + j];
+          im[pivot * width + j] = ti;
         }
       }
       const pr = re[col * width + col];
@@ -119,11 +126,17 @@ export function sampledLoopEvaluator(plant: SampledPlant, b: readonly number[], 
     const dr = Math.cos(delay * angle);
     const di = -Math.sin(delay * angle);
     // Powers of z⁻¹ = cos ϑ − j·sin ϑ by repeated multiplication.
-    let nr = 0, ni = 0, er = 0, ei = 0;
-    let pr = 1, pi = 0;
+    let nr = 0,
+      ni = 0,
+      er = 0,
+      ei = 0;
+    let pr = 1,
+      pi = 0;
     for (let i = 0; i < b.length; i++) {
-      nr += b[i] * pr; ni += b[i] * pi;
-      er += a[i] * pr; ei += a[i] * pi;
+      nr += b[i] * pr;
+      ni += b[i] * pi;
+      er += a[i] * pr;
+      ei += a[i] * pi;
       const next = pr * zr + pi * zi;
       pi = pi * zr - pr * zi;
       pr = next;
@@ -155,7 +168,13 @@ export function sampledNyquistCount(
   const extraWholeSamples = options.extraWholeSamples ?? 0;
   const counted = openLoopPoleCount(controller, plantPoles);
   const { unitPoles, outside } = counted;
-  const undetermined = (reason: string): SampledNyquistResult => ({ verdict: 'undetermined', closedLoopOutsidePoles: null, reason, openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles });
+  const undetermined = (reason: string): SampledNyquistResult => ({
+    verdict: 'undetermined',
+    closedLoopOutsidePoles: null,
+    reason,
+    openLoopOutsidePoles: outside,
+    openLoopUnitPoles: unitPoles,
+  });
   if (counted.unhandled !== null) return undetermined(counted.unhandled);
   const response = compilePulseResponse({
     pulseNumerator: options.pulseNumerator ?? pulseTransferFunction(plant).numerator,
@@ -165,7 +184,14 @@ export function sampledNyquistCount(
     wholeSampleDelay: plant.wholeSampleDelay,
   });
   const { turn, marginal } = turnOfReturnDifference(response, initialAngleGrid(unitPoles), extraWholeSamples, plant);
-  if (marginal) return { verdict: 'marginal', closedLoopOutsidePoles: null, reason: 'the loop passes through −1 (marginal)', openLoopOutsidePoles: outside, openLoopUnitPoles: unitPoles };
+  if (marginal)
+    return {
+      verdict: 'marginal',
+      closedLoopOutsidePoles: null,
+      reason: 'the loop passes through −1 (marginal)',
+      openLoopOutsidePoles: outside,
+      openLoopUnitPoles: unitPoles,
+    };
   const windings = (2 * turn - unitPoles * Math.PI) / (2 * Math.PI);
   const rounded = Math.round(windings);
   if (Math.abs(windings - rounded) > 0.05) return undetermined(`the encirclement count is not a whole number (${windings.toFixed(3)})`);
@@ -222,7 +248,12 @@ function angleBetween(pRe: number, pIm: number, qRe: number, qIm: number): numbe
  * 1 + L round the origin, so the refinement follows L without it (the body) there, and L itself only where
  * |L| ≥ rotationMagnitude. The work then does not grow with the delay.
  */
-function turnOfReturnDifference(response: PulseResponse, grid: readonly number[], extraWholeSamples: number, plant: SampledPlant): { turn: number; marginal: boolean } {
+function turnOfReturnDifference(
+  response: PulseResponse,
+  grid: readonly number[],
+  extraWholeSamples: number,
+  plant: SampledPlant,
+): { turn: number; marginal: boolean } {
   let turn = 0;
   let marginal = false;
   let evaluations = grid.length;

@@ -42,7 +42,10 @@ export function splitDelay(delay_s: number, sampleTime_s: number): { wholeSample
 }
 
 /** Controller C(z) as b(z⁻¹)/a(z⁻¹) with a[0] = 1, both of length q + 1. Throws for a non-causal C(z). */
-export function controllerInDelays(controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] }): { b: number[]; a: number[] } {
+export function controllerInDelays(controller: { readonly numerator: readonly number[]; readonly denominator: readonly number[] }): {
+  b: number[];
+  a: number[];
+} {
   const { numerator, denominator } = controller;
   if (numerator.length > denominator.length || denominator[0] === 0) {
     throw new SpeedbandError(
@@ -62,7 +65,10 @@ export function controllerInDelays(controller: { readonly numerator: readonly nu
  * at sample time Ts (s); see the module comment. Throws `lti.improperTransferFunction` for an
  * improper plant.
  */
-export function sampledPlant(plant: { readonly numerator: readonly number[]; readonly denominator: readonly number[]; readonly delay_s: number }, sampleTime_s: number): SampledPlant {
+export function sampledPlant(
+  plant: { readonly numerator: readonly number[]; readonly denominator: readonly number[]; readonly delay_s: number },
+  sampleTime_s: number,
+): SampledPlant {
   const model = controllableCanonicalForm(transferFunction(plant.numerator, plant.denominator, 0));
   const n = model.inputVector.length;
   const { wholeSamples, fraction_s: m } = splitDelay(plant.delay_s, sampleTime_s);
@@ -71,7 +77,13 @@ export function sampledPlant(plant: { readonly numerator: readonly number[]; rea
   return {
     transition: early === null ? late.transition : multiplyMatrices(late.transition, early.transition),
     inputGainCurrent: late.inputGain,
-    inputGainPrevious: early === null ? new Array<number>(n).fill(0) : multiplyMatrices(late.transition, early.inputGain.map((value) => [value])).map((row) => row[0]),
+    inputGainPrevious:
+      early === null
+        ? new Array<number>(n).fill(0)
+        : multiplyMatrices(
+            late.transition,
+            early.inputGain.map((value) => [value]),
+          ).map((row) => row[0]),
     outputVector: model.outputVector,
     feedthrough: model.feedthrough,
     wholeSampleDelay: wholeSamples,

@@ -117,7 +117,11 @@ export function sampledVerdictOf(loop: {
 }): SampledVerdict {
   const { plant, controller, sampleTime_s, plantPoles } = loop;
   const maximumEigenvalueOrder = loop.maximumEigenvalueOrder ?? ANALYSIS_DEFAULTS.sampledEigenvalueMaximumOrder;
-  const common = { wholeSampleDelay: plant.wholeSampleDelay, fractionalDelay_s: plant.fractionalDelay_s, closedLoopOrder: sampledClosedLoopOrder(plant, controller) };
+  const common = {
+    wholeSampleDelay: plant.wholeSampleDelay,
+    fractionalDelay_s: plant.fractionalDelay_s,
+    closedLoopOrder: sampledClosedLoopOrder(plant, controller),
+  };
   if (common.closedLoopOrder <= maximumEigenvalueOrder) {
     const { matrix, size } = sampledClosedLoopMatrix(plant, controller);
     const finite = matrix.every(Number.isFinite);
@@ -127,7 +131,10 @@ export function sampledVerdictOf(loop: {
   // A very long delay register (or a QR iteration that did not converge): the argument principle decides.
   const count = sampledNyquistCount(plant, controller, plantPoles);
   const verdict = count.verdict === 'stable' || count.verdict === 'unstable' || count.verdict === 'marginal' ? count.verdict : 'marginal';
-  const why = common.closedLoopOrder > maximumEigenvalueOrder ? `the closed-loop order ${common.closedLoopOrder} exceeds ${maximumEigenvalueOrder}` : 'the eigenvalue iteration did not converge';
+  const why =
+    common.closedLoopOrder > maximumEigenvalueOrder
+      ? `the closed-loop order ${common.closedLoopOrder} exceeds ${maximumEigenvalueOrder}`
+      : 'the eigenvalue iteration did not converge';
   return {
     ...common,
     verdict,
@@ -147,7 +154,11 @@ export function sampledVerdictOf(loop: {
  */
 const CONDITION_WITHIN = 1e-3;
 
-function judgePoles(result: ReturnType<typeof eigenvalues>, size: number, sampleTime_s: number): Omit<SampledVerdict, 'wholeSampleDelay' | 'fractionalDelay_s' | 'closedLoopOrder'> {
+function judgePoles(
+  result: ReturnType<typeof eigenvalues>,
+  size: number,
+  sampleTime_s: number,
+): Omit<SampledVerdict, 'wholeSampleDelay' | 'fractionalDelay_s' | 'closedLoopOrder'> {
   const eta = backwardError(result, size);
   let largest: ClosedLoopPole | null = null;
   let straddling: ClosedLoopPole | null = null;
@@ -172,7 +183,15 @@ function judgePoles(result: ReturnType<typeof eigenvalues>, size: number, sample
     verdict === 'marginal' && straddling !== null
       ? `the closed-loop pole z = ${formatPole(straddling)} lies ${Math.abs(1 - straddling.magnitude).toExponential(2)} ${straddling.magnitude < 1 ? 'inside' : 'outside'} the unit circle, within its rounding bound ${straddling.errorBound.toExponential(2)}: on the stability boundary`
       : null;
-  return { verdict, method: 'eigenvalues', largestPoleMagnitude: deciding.magnitude, decidingPole: deciding, slowestTimeConstant_s: slowest, highFrequencyPoleMagnitude: highFrequency, note };
+  return {
+    verdict,
+    method: 'eigenvalues',
+    largestPoleMagnitude: deciding.magnitude,
+    decidingPole: deciding,
+    slowestTimeConstant_s: slowest,
+    highFrequencyPoleMagnitude: highFrequency,
+    note,
+  };
 }
 
 const formatPole = (pole: ClosedLoopPole): string => (pole.im === 0 ? pole.re.toPrecision(9) : `${pole.re.toPrecision(9)} ± ${pole.im.toPrecision(9)}j`);

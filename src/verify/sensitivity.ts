@@ -14,7 +14,11 @@ export interface Peak {
 }
 
 /** max over ω of |S(jω)| and |T(jω)| (dimensionless) with their frequencies (rad/s). */
-export function sensitivityPeaks(loop: CompiledLoopResponse, grid: LoopGrid, logFrequencyTolerance: number): { readonly sensitivity: Peak; readonly complementary: Peak } {
+export function sensitivityPeaks(
+  loop: CompiledLoopResponse,
+  grid: LoopGrid,
+  logFrequencyTolerance: number,
+): { readonly sensitivity: Peak; readonly complementary: Peak } {
   const { frequency_radps: w, real, imaginary, magnitude } = grid;
   let bestS = -1;
   let bestT = -1;

@@ -22,15 +22,25 @@ export function analysisRoots(p: readonly number[]): Complex[] {
   if (q.length <= 1) return [];
   if (q.length === 2) return [{ re: -q[1] / q[0], im: 0 }];
   const [a, b, c] = q;
-  if (c === 0) return [{ re: -b / a, im: 0 }, { re: 0, im: 0 }].sort(byRealThenImaginary);
+  if (c === 0)
+    return [
+      { re: -b / a, im: 0 },
+      { re: 0, im: 0 },
+    ].sort(byRealThenImaginary);
   const discriminant = b * b - 4 * a * c;
   if (discriminant >= 0) {
     const half = -(b + (b >= 0 ? 1 : -1) * Math.sqrt(discriminant)) / 2;
-    return [{ re: half / a, im: 0 }, { re: c / half, im: 0 }].sort(byRealThenImaginary);
+    return [
+      { re: half / a, im: 0 },
+      { re: c / half, im: 0 },
+    ].sort(byRealThenImaginary);
   }
   const re = -b / (2 * a);
   const im = Math.abs(Math.sqrt(-discriminant) / (2 * a));
-  return [{ re, im: -im }, { re, im }];
+  return [
+    { re, im: -im },
+    { re, im },
+  ];
 }
 
 /**
@@ -53,9 +63,7 @@ function cubicRoots(p: readonly number[]): Complex[] {
   if (R * R < Q * Q * Q) {
     const theta = Math.acos(Math.max(-1, Math.min(1, R / Math.sqrt(Q * Q * Q))));
     const size = -2 * Math.sqrt(Q);
-    return [0, 1, -1]
-      .map((k) => polishRoot(p, derivative, size * Math.cos((theta + 2 * Math.PI * k) / 3) - shift, 0))
-      .sort(byRealThenImaginary);
+    return [0, 1, -1].map((k) => polishRoot(p, derivative, size * Math.cos((theta + 2 * Math.PI * k) / 3) - shift, 0)).sort(byRealThenImaginary);
   }
   const S = -(R >= 0 ? 1 : -1) * Math.cbrt(Math.abs(R) + Math.sqrt(R * R - Q * Q * Q));
   const T = S === 0 ? 0 : Q / S;

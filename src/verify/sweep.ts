@@ -79,7 +79,11 @@ export function sweepLoop(request: SweepRequest): Sweep {
     discreteController: discrete ?? null,
     sampledPlant,
   });
-  const band = frequencyBand(compiled, { originPoles, properness: numerator.length < denominator.length ? 'strictlyProper' : 'proper' }, ANALYSIS_DEFAULTS.grid);
+  const band = frequencyBand(
+    compiled,
+    { originPoles, properness: numerator.length < denominator.length ? 'strictlyProper' : 'proper' },
+    ANALYSIS_DEFAULTS.grid,
+  );
   const grid = sampleLoop(compiled, band, extraFrequencies, ANALYSIS_DEFAULTS.grid);
   return {
     compiled,

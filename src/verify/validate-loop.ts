@@ -44,7 +44,11 @@ export function validateOpenLoop(loop: OpenLoop): OpenLoop {
     checkCoefficients(discrete.continuousCounterpart.numerator, 'discreteController.continuousCounterpart.numerator');
     checkCoefficients(discrete.continuousCounterpart.denominator, 'discreteController.continuousCounterpart.denominator');
     if (!(discrete.sampleTime_s > 0) || !Number.isFinite(discrete.sampleTime_s)) {
-      invalid(`discreteController.sampleTime_s is ${String(discrete.sampleTime_s)} — expected a finite sample time > 0 s`, 'discreteController.sampleTime_s', {});
+      invalid(
+        `discreteController.sampleTime_s is ${String(discrete.sampleTime_s)} — expected a finite sample time > 0 s`,
+        'discreteController.sampleTime_s',
+        {},
+      );
     }
   }
   return { ...loop, numerator, denominator };

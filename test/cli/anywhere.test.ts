@@ -21,7 +21,10 @@ describe('speedband from any folder', () => {
     const folder = mkdtempSync(join(tmpdir(), 'speedband-anywhere-'));
     const demo = shell(`${process.execPath} ${BIN} demo --out demo-out`, folder);
     expect(demo.status, demo.stderr).toBe(0);
-    const next = demo.stdout.split('\n').slice(demo.stdout.split('\n').indexOf('Next:') + 1).filter((line) => line.startsWith('  node '));
+    const next = demo.stdout
+      .split('\n')
+      .slice(demo.stdout.split('\n').indexOf('Next:') + 1)
+      .filter((line) => line.startsWith('  node '));
     // Outside the package `npx speedband` finds nothing: the binary is named by its path.
     expect(next.length).toBe(4);
     for (const line of next) expect(line).toMatch(new RegExp(`^  node ${BIN.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')} `));
@@ -42,7 +45,9 @@ describe('speedband from any folder', () => {
     expect(resolveVehiclePath('vehicles/parcel-van')).toBe(join('vehicles/parcel-van', 'vehicle.json'));
     const unknown = shell(`${process.execPath} ${BIN} tune --rule simc --speed-mps 10 --vehicle no-such-van`, folder);
     expect(unknown.status).toBe(2);
-    expect(unknown.stderr).toMatch(/no file or folder "no-such-van" here, and no bundled demo vehicle of that name \(parcel-van, parcel-van-loaded, sidewalk-robot, vineyard-sprayer\)/);
+    expect(unknown.stderr).toMatch(
+      /no file or folder "no-such-van" here, and no bundled demo vehicle of that name \(parcel-van, parcel-van-loaded, sidewalk-robot, vineyard-sprayer\)/,
+    );
   });
 
   it('inside the package folder the commands are written `npx speedband`', () => {

@@ -61,7 +61,12 @@ describe('the speedband binary (bundled CLI)', () => {
     const [header, ...rows] = readFileSync(VAN_LOG, 'utf8').trim().split('\n');
     const columns = header.split(',');
     const speed = columns.indexOf('speed_mps');
-    const converted = rows.map((row) => row.split(',').map((cell, k) => (k === speed ? String(Number(cell) / 0.44704) : cell)).join(','));
+    const converted = rows.map((row) =>
+      row
+        .split(',')
+        .map((cell, k) => (k === speed ? String(Number(cell) / 0.44704) : cell))
+        .join(','),
+    );
     writeFileSync(join(folder, 'van-mph.csv'), [columns.map((name, k) => (k === speed ? 'v_mph' : name)).join(','), ...converted].join('\n'));
     writeFileSync(join(folder, 'van.csv'), readFileSync(VAN_LOG));
     const vehicle = fileURLToPath(new URL('../../vehicles/parcel-van', import.meta.url));
@@ -81,8 +86,14 @@ describe('the speedband binary (bundled CLI)', () => {
   it('loads the mathjs chunk only when needed: not for --help nor a log in built-in units, once for a mi/h column', () => {
     // A module-loading hook (node:module register) that reports every module URL naming mathjs on stderr.
     const folder = mkdtempSync(join(tmpdir(), 'speedband-bundle-lazy-'));
-    writeFileSync(join(folder, 'hooks.mjs'), "export async function load(url, context, next) { if (url.includes('mathjs')) process.stderr.write(`LOADED ${url}\\n`); return next(url, context); }\n");
-    writeFileSync(join(folder, 'register.mjs'), `import { register } from 'node:module';\nregister(${JSON.stringify(new URL(`file://${join(folder, 'hooks.mjs')}`).href)});\n`);
+    writeFileSync(
+      join(folder, 'hooks.mjs'),
+      "export async function load(url, context, next) { if (url.includes('mathjs')) process.stderr.write(`LOADED ${url}\\n`); return next(url, context); }\n",
+    );
+    writeFileSync(
+      join(folder, 'register.mjs'),
+      `import { register } from 'node:module';\nregister(${JSON.stringify(new URL(`file://${join(folder, 'hooks.mjs')}`).href)});\n`,
+    );
     const hook = ['--import', join(folder, 'register.mjs')];
     const loaded = (stderr: string): string[] => stderr.split('\n').filter((line) => line.startsWith('LOADED '));
     const help = runBinary(['--help'], folder, hook);

@@ -66,7 +66,10 @@ describe('speedband compare OLD NEW', () => {
     expect(bad.code).toBe(2);
     expect(bad.err).toContain(invalid);
     const tampered = join(folder, 'tampered.json');
-    writeFileSync(tampered, serialiseSchedule(fixtureSchedule()).replace(/"kp": ([0-9.]+)/, (_, kp: string) => `"kp": ${Number(kp) * 1.2}`));
+    writeFileSync(
+      tampered,
+      serialiseSchedule(fixtureSchedule()).replace(/"kp": ([0-9.]+)/, (_, kp: string) => `"kp": ${Number(kp) * 1.2}`),
+    );
     const changed = await compare(tampered, oldPath);
     expect(changed.code).toBe(2);
     expect(changed.err).toMatch(new RegExp(`${tampered.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}.*checksum does not match`));
@@ -131,23 +134,59 @@ describe('speedband compare on schedules written by speedband build (demo van be
     const after = join(folder, 'parcel-van-loaded-baseline.json');
     const logs = ['08.00', '25.00'].map((speed) => join('vehicles', 'parcel-van-loaded', 'logs', `synthetic-steps-${speed}mps.csv`));
     const io = recordingIo();
-    const code = await runCli(['build', '--vehicle', join('vehicles', 'parcel-van-loaded'), '--logs', ...logs, '--plan', plan, '--baseline', before, '--out', after, '--allow-failing', '--json'], io);
+    const code = await runCli(
+      [
+        'build',
+        '--vehicle',
+        join('vehicles', 'parcel-van-loaded'),
+        '--logs',
+        ...logs,
+        '--plan',
+        plan,
+        '--baseline',
+        before,
+        '--out',
+        after,
+        '--allow-failing',
+        '--json',
+      ],
+      io,
+    );
     expect([0, 1]).toContain(code);
-    const build = JSON.parse(io.out()) as { baseline: { passedOnNewModel: boolean; failedSpeeds: number; gridSize: number; failures: { speed_mps: number }[] } };
+    const build = JSON.parse(io.out()) as {
+      baseline: { passedOnNewModel: boolean; failedSpeeds: number; gridSize: number; failures: { speed_mps: number }[] };
+    };
     const result = await compare(before, after, '--json');
-    const parsed = JSON.parse(result.out) as { oldGainsOnNewVehicle: { available: boolean; passed: boolean; failedSpeeds: number; gridSize: number; failingIntervals: { from_mps: number; to_mps: number; speeds: number }[] }; flags: { kind: string }[] };
+    const parsed = JSON.parse(result.out) as {
+      oldGainsOnNewVehicle: {
+        available: boolean;
+        passed: boolean;
+        failedSpeeds: number;
+        gridSize: number;
+        failingIntervals: { from_mps: number; to_mps: number; speeds: number }[];
+      };
+      flags: { kind: string }[];
+    };
     const record = parsed.oldGainsOnNewVehicle;
     expect(record.available).toBe(true);
     expect(record.passed).toBe(false); // this change breaks the old gains at the top speed (the full demo build: PM 37° at 25 m/s)
     // The same check as build --baseline: the old gains on the new model at the new schedule's check speeds.
-    expect([record.passed, record.failedSpeeds, record.gridSize]).toEqual([build.baseline.passedOnNewModel, build.baseline.failedSpeeds, build.baseline.gridSize]);
+    expect([record.passed, record.failedSpeeds, record.gridSize]).toEqual([
+      build.baseline.passedOnNewModel,
+      build.baseline.failedSpeeds,
+      build.baseline.gridSize,
+    ]);
     expect(record.failingIntervals.reduce((sum, interval) => sum + interval.speeds, 0)).toBe(build.baseline.failedSpeeds);
     const failing = build.baseline.failures.map((failure) => failure.speed_mps);
     for (const interval of record.failingIntervals) expect(failing).toContain(interval.from_mps);
     expect(parsed.flags.some((flag) => flag.kind === 'oldGainsFailOnNewVehicle')).toBe(!record.passed);
     const markdown = (await compare(before, after, '--markdown')).out.split('\n');
     // The first statement after the title is this verdict; where it fails, the speeds are named.
-    expect(markdown[2]).toMatch(record.passed ? /^\*\*The old gains still hold on the new vehicle model/ : /^\*\*The old gains do NOT hold on the new vehicle model: .* at \d+ of \d+ speeds checked .* — at [\d.]+(–[\d.]+)? m\/s \(/);
+    expect(markdown[2]).toMatch(
+      record.passed
+        ? /^\*\*The old gains still hold on the new vehicle model/
+        : /^\*\*The old gains do NOT hold on the new vehicle model: .* at \d+ of \d+ speeds checked .* — at [\d.]+(–[\d.]+)? m\/s \(/,
+    );
     const text = (await compare(before, after)).out.split('\n');
     expect(text[1]).toMatch(/^The old gains (still hold|do NOT hold) on the new vehicle model/);
   }, 30_000);

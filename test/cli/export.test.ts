@@ -38,9 +38,15 @@ function rescaled(factor: number): ScheduleFile {
 }
 
 const compile = (dir: string, header: string, defines: readonly string[] = []): { ok: boolean; output: string } => {
-  writeFileSync(join(dir, 'main.c'), `#include "${header}"\nint main(void)\n{\n  speedband_schedule_gains g;\n  return speedband_schedule_lookup(5.0, &g);\n}\n`);
+  writeFileSync(
+    join(dir, 'main.c'),
+    `#include "${header}"\nint main(void)\n{\n  speedband_schedule_gains g;\n  return speedband_schedule_lookup(5.0, &g);\n}\n`,
+  );
   try {
-    execFileSync('gcc', ['-std=c99', '-Wall', '-Wextra', '-Werror', '-pedantic', ...defines, '-c', '-o', join(dir, 'main.o'), join(dir, 'main.c')], { cwd: dir, stdio: 'pipe' });
+    execFileSync('gcc', ['-std=c99', '-Wall', '-Wextra', '-Werror', '-pedantic', ...defines, '-c', '-o', join(dir, 'main.o'), join(dir, 'main.c')], {
+      cwd: dir,
+      stdio: 'pipe',
+    });
     return { ok: true, output: '' };
   } catch (error) {
     return { ok: false, output: String((error as { stderr?: Buffer }).stderr ?? '') };

@@ -87,19 +87,45 @@ describe('one set of controller defaults: tune, stability and build', () => {
 
   it('a path loop too: tune with no preview given takes the preview and reference point build takes (0.5 m + 0.3 s × speed from the front axle)', async () => {
     const out = join(dir, 'path-migo.json');
-    const built = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', writePlan('path-migo-plan.json', { loop: { kind: 'path' }, rule: { name: 'migo' } }), '--out', out, '--allow-failing']);
+    const built = await run([
+      'build',
+      '--vehicle',
+      VAN,
+      '--models',
+      modelsPath,
+      '--plan',
+      writePlan('path-migo-plan.json', { loop: { kind: 'path' }, rule: { name: 'migo' } }),
+      '--out',
+      out,
+      '--allow-failing',
+    ]);
     expect(built.code, built.err).toBeLessThanOrEqual(1);
     const schedule = readSchedule(out);
     expect(schedule.loop).toMatchObject({ preview_m: 0.5, previewTime_s: 0.3, referencePoint: 'front-axle' });
     for (const breakpoint of schedule.breakpoints.filter((row) => !row.insertedByRefinement).slice(0, 3)) {
-      const tuned = await run(['tune', '--rule', 'migo', '--loop', 'path', '--speed-mps', String(breakpoint.speed_mps), '--models', modelsPath, '--vehicle', VAN, '--json']);
+      const tuned = await run([
+        'tune',
+        '--rule',
+        'migo',
+        '--loop',
+        'path',
+        '--speed-mps',
+        String(breakpoint.speed_mps),
+        '--models',
+        modelsPath,
+        '--vehicle',
+        VAN,
+        '--json',
+      ]);
       expect(tuned.code, tuned.err).toBeLessThanOrEqual(1);
       expect((JSON.parse(tuned.out) as { gains: unknown }).gains).toEqual({ kp: breakpoint.kp, ki: breakpoint.ki, kd: breakpoint.kd });
     }
   });
 
   it('the build summary and the tune output name the controller settings the gains assume, latency included', async () => {
-    expect(buildOutput).toMatch(/controller the gains assume: backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\), derivative filter N = 10/);
+    expect(buildOutput).toMatch(
+      /controller the gains assume: backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\), derivative filter N = 10/,
+    );
     const tuned = await run(['tune', '--rule', 'simc', '--speed-mps', '9', '--models', modelsPath, '--vehicle', VAN]);
     expect(tuned.out).toMatch(/^Controller: backward-euler PID at 0\.01 s \(100 Hz\), computation latency 0\.01 s \(one sample\), derivative filter N = 10$/m);
     const compared = await run(['compare', schedulePath, schedulePath]);
@@ -109,7 +135,18 @@ describe('one set of controller defaults: tune, stability and build', () => {
   it('stability analyses the same discrete controller by default (0.01 s, one sample of latency); --continuous analyses the continuous PID', async () => {
     const loop = ['stability', '--gain', '2.4', '--time-constant-s', '0.12', '--dead-time-s', '0.07', '--kp', '0.29', '--ki', '2.4'];
     const byDefault = await run([...loop, '--json']);
-    const explicit = await run([...loop, '--sample-time-s', '0.01', '--latency-s', '0.01', '--discretisation', 'backward-euler', '--derivative-filter', '10', '--json']);
+    const explicit = await run([
+      ...loop,
+      '--sample-time-s',
+      '0.01',
+      '--latency-s',
+      '0.01',
+      '--discretisation',
+      'backward-euler',
+      '--derivative-filter',
+      '10',
+      '--json',
+    ]);
     const continuous = await run([...loop, '--continuous', '--json']);
     expect(JSON.parse(byDefault.out)).toEqual(JSON.parse(explicit.out));
     expect((JSON.parse(byDefault.out) as { controller: unknown }).controller).toEqual(CONTROLLER_DEFAULTS);
@@ -124,11 +161,13 @@ describe('one set of controller defaults: tune, stability and build', () => {
 });
 
 describe('plan parameters: a parameter the rule does not use is refused, in plans and on the command line', () => {
-  it('IMC\'s closedLoopTimeConstant_s in a SIMC plan: exit 2 at its JSON path, naming the parameter SIMC takes and the plan reference', async () => {
+  it("IMC's closedLoopTimeConstant_s in a SIMC plan: exit 2 at its JSON path, naming the parameter SIMC takes and the plan reference", async () => {
     const plan = writePlan('simc-lambda.json', { rule: { name: 'simc', parameters: { closedLoopTimeConstant_s: 0.2 } } });
     const result = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', join(dir, 'never.json')]);
     expect(result.code).toBe(2);
-    expect(result.err).toMatch(/at \/rule\/parameters\/closedLoopTimeConstant_s: simc does not use closedLoopTimeConstant_s \(a parameter of imc-pid\) — did you mean simcClosedLoopTimeConstant_s\? simc takes controllerType, simcClosedLoopTimeConstant_s/);
+    expect(result.err).toMatch(
+      /at \/rule\/parameters\/closedLoopTimeConstant_s: simc does not use closedLoopTimeConstant_s \(a parameter of imc-pid\) — did you mean simcClosedLoopTimeConstant_s\? simc takes controllerType, simcClosedLoopTimeConstant_s/,
+    );
     expect(result.err).toMatch(/plan reference \(every field, its unit, default and source\): docs\/plan\.md/);
     expect(existsSync(join(dir, 'never.json'))).toBe(false);
   });
@@ -150,12 +189,44 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
   });
 
   it('tune refuses an option the rule does not use, naming the options it takes', async () => {
-    const result = await run(['tune', '--rule', 'simc', '--damping-ratio', '0.7', '--speed-mps', '8', '--gain', '2.4', '--time-constant-s', '0.12', '--dead-time-s', '0.07']);
+    const result = await run([
+      'tune',
+      '--rule',
+      'simc',
+      '--damping-ratio',
+      '0.7',
+      '--speed-mps',
+      '8',
+      '--gain',
+      '2.4',
+      '--time-constant-s',
+      '0.12',
+      '--dead-time-s',
+      '0.07',
+    ]);
     expect(result.code).toBe(2);
-    expect(result.err).toMatch(/simc does not use --damping-ratio \(a parameter of damping-target\) — simc takes --controller-type, --closed-loop-time-constant-s/);
-    const zieglerNichols = await run(['tune', '--rule', 'ziegler-nichols-step', '--closed-loop-time-constant-s', '0.2', '--speed-mps', '8', '--gain', '2.4', '--time-constant-s', '0.12', '--dead-time-s', '0.07']);
+    expect(result.err).toMatch(
+      /simc does not use --damping-ratio \(a parameter of damping-target\) — simc takes --controller-type, --closed-loop-time-constant-s/,
+    );
+    const zieglerNichols = await run([
+      'tune',
+      '--rule',
+      'ziegler-nichols-step',
+      '--closed-loop-time-constant-s',
+      '0.2',
+      '--speed-mps',
+      '8',
+      '--gain',
+      '2.4',
+      '--time-constant-s',
+      '0.12',
+      '--dead-time-s',
+      '0.07',
+    ]);
     expect(zieglerNichols.code).toBe(2);
-    expect(zieglerNichols.err).toMatch(/ziegler-nichols-step does not use --closed-loop-time-constant-s \(a parameter of imc-pid, simc\) — ziegler-nichols-step takes --controller-type/);
+    expect(zieglerNichols.err).toMatch(
+      /ziegler-nichols-step does not use --closed-loop-time-constant-s \(a parameter of imc-pid, simc\) — ziegler-nichols-step takes --controller-type/,
+    );
   });
 
   it('speedband plan --default prints the whole default plan; given back to build it builds the same schedule as no plan', async () => {
@@ -173,7 +244,11 @@ describe('plan parameters: a parameter the rule does not use is refused, in plan
     expect(withPlan.breakpoints).toEqual(without.breakpoints);
     expect(withPlan.controller).toEqual(without.controller);
     expect(withPlan.check.thresholds).toEqual(without.check.thresholds);
-    const path2 = JSON.parse((await run(['plan', '--default', '--loop', 'path'])).out) as { loop: { kind: string; previewTime_s: number }; rule: { name: string; tuneFor: string }; description: string };
+    const path2 = JSON.parse((await run(['plan', '--default', '--loop', 'path'])).out) as {
+      loop: { kind: string; previewTime_s: number };
+      rule: { name: string; tuneFor: string };
+      description: string;
+    };
     expect(path2.loop).toMatchObject({ kind: 'path', preview_m: 0.5, previewTime_s: 0.3, referencePoint: 'front-axle' });
     expect(path2.rule).toMatchObject({ name: 'migo', tuneFor: 'fastest-passing' });
     expect(path2.description).toMatch(/MIGO/);
@@ -207,7 +282,7 @@ describe('inputs checked against physics: a channel off by a unit factor is refu
     expect(refused.err).toMatch(/logging lat_accel_mps2 and steer_angle_rad tells the channels apart/);
   });
 
-  it('a steering-wheel angle in degrees mapped as a road-wheel angle in degrees: exit 2 naming the steering ratio\'s unit, steering-wheel-deg', async () => {
+  it("a steering-wheel angle in degrees mapped as a road-wheel angle in degrees: exit 2 naming the steering ratio's unit, steering-wheel-deg", async () => {
     // The van's steering ratio is 18; its logs from 15 m/s up keep the steering-wheel angle below the road-wheel limit.
     const logs = convertLogs(join(VAN, 'logs'), join(dir, 'steering-wheel'), { scale: { steer_cmd_rad: 18 * (180 / Math.PI) }, only: /(15|18|21|25)\.00mps/ });
     const refused = await run(['build', '--vehicle', VAN, '--logs', ...logs, '--column', 'steer_cmd_rad=steer_cmd_rad:deg', '--out', join(dir, 'never.json')]);
@@ -235,14 +310,17 @@ describe('machine and human output', () => {
     expect((JSON.parse(scaled.out) as { error: { code: string } }).error.code).toBe('identify.channelScale');
     const usage = await run(['check', schedulePath, '--vehicle', VAN, '--unheard-of-option', '--json']);
     expect(usage.code).toBe(2);
-    expect((JSON.parse(usage.out) as { error: { code: string; message: string } }).error).toMatchObject({ code: 'cli.usage', message: expect.stringMatching(/Unknown argument.*unheard-of-option/) });
+    expect((JSON.parse(usage.out) as { error: { code: string; message: string } }).error).toMatchObject({
+      code: 'cli.usage',
+      message: expect.stringMatching(/Unknown argument.*unheard-of-option/),
+    });
     // Without --json the error stays words on standard error only.
     const words = await run(['build', '--vehicle', VAN, '--models', join(dir, 'no-such-models.json'), '--out', join(dir, 'never.json')]);
     expect(words.out).toBe('');
     expect(words.err).toMatch(/^speedband: .*no-such-models\.json/);
   });
 
-  it('every command\'s --help lists its exit codes, 0, 2 and 3 at least', async () => {
+  it("every command's --help lists its exit codes, 0, 2 and 3 at least", async () => {
     const { COMMANDS } = await import('../../src/cli/commands/index.js');
     for (const command of COMMANDS) {
       const name = command.command.split(' ')[0];
@@ -254,22 +332,36 @@ describe('machine and human output', () => {
       expect(section, name).toMatch(/^ {2}3 {2}a bug in speedband/m);
     }
     const build = await run(['build', '--help']);
-    expect(build.out.replace(/\s+/g, ' ')).toMatch(/ 1 the schedule failed its dense check .* or with --baseline the OLD gains fail on the new vehicle model .* the output says which/);
+    expect(build.out.replace(/\s+/g, ' ')).toMatch(
+      / 1 the schedule failed its dense check .* or with --baseline the OLD gains fail on the new vehicle model .* the output says which/,
+    );
   });
 
   it('build --baseline: exit 1 says it is the old gains that fail, and that the new schedule passed and was written', async () => {
-    const loadedLogs = readdirSync('vehicles/parcel-van-loaded/logs').filter((name) => name.endsWith('.csv')).map((name) => join('vehicles/parcel-van-loaded/logs', name));
+    const loadedLogs = readdirSync('vehicles/parcel-van-loaded/logs')
+      .filter((name) => name.endsWith('.csv'))
+      .map((name) => join('vehicles/parcel-van-loaded/logs', name));
     const out = join(dir, 'loaded.json');
     const text = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--logs', ...loadedLogs, '--baseline', schedulePath, '--out', out]);
     expect(text.code).toBe(1);
     expect(readSchedule(out).status).toBe('passed');
-    expect(text.out).toMatch(/Exit 1: the OLD gains of the baseline \S+ fail on the new vehicle model at \d+ of \d+ speeds \(the new schedule passed and was written\)\./);
+    expect(text.out).toMatch(
+      /Exit 1: the OLD gains of the baseline \S+ fail on the new vehicle model at \d+ of \d+ speeds \(the new schedule passed and was written\)\./,
+    );
     const json = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--logs', ...loadedLogs, '--baseline', schedulePath, '--out', out, '--json']);
-    const parsed = JSON.parse(json.out) as { exitCode: number; exitReasons: string[]; status: string; baseline: { failures: { speed_mps: number; messages: string[] }[] } };
+    const parsed = JSON.parse(json.out) as {
+      exitCode: number;
+      exitReasons: string[];
+      status: string;
+      baseline: { failures: { speed_mps: number; messages: string[] }[] };
+    };
     expect(parsed.exitCode).toBe(1);
     expect(parsed.status).toBe('passed');
     expect(parsed.exitReasons).toHaveLength(1);
-    expect(parsed.baseline.failures[0]).toEqual({ speed_mps: expect.any(Number), messages: [expect.any(String), ...parsed.baseline.failures[0].messages.slice(1)] });
+    expect(parsed.baseline.failures[0]).toEqual({
+      speed_mps: expect.any(Number),
+      messages: [expect.any(String), ...parsed.baseline.failures[0].messages.slice(1)],
+    });
   });
 
   it('the build table shows pass or FAIL against the limits beside the closed-loop verdict; failing speeds have one JSON shape in build and check', async () => {
@@ -283,7 +375,9 @@ describe('machine and human output', () => {
     expect(built.out).toMatch(/closed loop\s+limits/);
     expect(built.out).toMatch(/\s25\.00\s.*\sstable\s+FAIL: PM, Ms/);
     expect(built.out).toMatch(/\s2\.00\s.*\sstable\s+pass/);
-    const buildJson = JSON.parse((await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', out, '--allow-failing', '--json'])).out) as {
+    const buildJson = JSON.parse(
+      (await run(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', out, '--allow-failing', '--json'])).out,
+    ) as {
       check: { failures: { speed_mps: number; messages: string[] }[] };
     };
     const checkJson = JSON.parse((await run(['check', out, '--vehicle', VAN, '--json'])).out) as { failures: { speed_mps: number; messages: string[] }[] };
@@ -309,19 +403,46 @@ describe('models of another vehicle, and gains beyond the tested speeds', () => 
   it('build --models refuses models identified with another vehicle file unless --allow-other-vehicle', async () => {
     const refused = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--models', modelsPath, '--out', join(dir, 'other.json')]);
     expect(refused.code).toBe(2);
-    expect(refused.err).toMatch(/the models were identified with another vehicle file \("parcel-van", "vehicle\.json", SHA-256 [0-9a-f]{12}…\) than the one given \("parcel-van-loaded"/);
+    expect(refused.err).toMatch(
+      /the models were identified with another vehicle file \("parcel-van", "vehicle\.json", SHA-256 [0-9a-f]{12}…\) than the one given \("parcel-van-loaded"/,
+    );
     expect(refused.err).toMatch(/--allow-other-vehicle/);
     expect(existsSync(join(dir, 'other.json'))).toBe(false);
-    const allowed = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--models', modelsPath, '--out', join(dir, 'other.json'), '--allow-other-vehicle']);
+    const allowed = await run([
+      'build',
+      '--vehicle',
+      'vehicles/parcel-van-loaded',
+      '--models',
+      modelsPath,
+      '--out',
+      join(dir, 'other.json'),
+      '--allow-other-vehicle',
+    ]);
     expect([0, 1]).toContain(allowed.code);
   });
 
   it('tune below the tested speeds says how far and how large the gains are against the lowest tested speed', async () => {
     const low = await run(['tune', '--rule', 'simc', '--speed-mps', '0.5', '--models', modelsPath, '--vehicle', VAN, '--json']);
-    const at2 = await run(['tune', '--rule', 'simc', '--speed-mps', String(readSchedule(schedulePath).breakpoints[0].speed_mps), '--models', modelsPath, '--vehicle', VAN, '--json']);
-    const [gains, reference] = [JSON.parse(low.out) as { gains: { kp: number; ki: number }; warnings: string[] }, JSON.parse(at2.out) as { gains: { kp: number; ki: number } }];
+    const at2 = await run([
+      'tune',
+      '--rule',
+      'simc',
+      '--speed-mps',
+      String(readSchedule(schedulePath).breakpoints[0].speed_mps),
+      '--models',
+      modelsPath,
+      '--vehicle',
+      VAN,
+      '--json',
+    ]);
+    const [gains, reference] = [
+      JSON.parse(low.out) as { gains: { kp: number; ki: number }; warnings: string[] },
+      JSON.parse(at2.out) as { gains: { kp: number; ki: number } },
+    ];
     const warning = gains.warnings.find((text) => /below the lowest tested speed/.test(text));
-    expect(warning).toMatch(/^0\.5 m\/s is 1\.5 m\/s \(75 %\) below the lowest tested speed, 2 m\/s: the model is extrapolated there, and the gains are kp [\d.]+×, ki [\d.]+× those at 2 m\/s/);
+    expect(warning).toMatch(
+      /^0\.5 m\/s is 1\.5 m\/s \(75 %\) below the lowest tested speed, 2 m\/s: the model is extrapolated there, and the gains are kp [\d.]+×, ki [\d.]+× those at 2 m\/s/,
+    );
     const kpRatio = Number(/kp ([\d.]+)×/.exec(warning ?? '')?.[1]);
     expect(kpRatio).toBeCloseTo(gains.gains.kp / reference.gains.kp, 2);
     expect(kpRatio).toBeGreaterThan(2);

@@ -149,21 +149,27 @@ function fuzzCase(kind: Kind, k: number, random: RandomSource): { args: string[]
 
 describe('speedband at the command line with mutated input files', () => {
   for (const kind of ['vehicle', 'plan', 'models', 'schedule'] as const) {
-    it(`${RUNS_PER_KIND} mutated ${kind} files: every run ends within ${RUN_LIMIT_MS / 1000} s with exit 0, 1 or 2`, async () => {
-      const random = makeRandom(SEED + kind.length);
-      const problems: string[] = [];
-      const codes: Record<string, number> = {};
-      for (let k = 0; k < RUNS_PER_KIND; k += 1) {
-        const { args, what } = fuzzCase(kind, k, random);
-        const outcome = await cli.run(args);
-        codes[String(outcome.code)] = (codes[String(outcome.code)] ?? 0) + 1;
-        if (outcome.code === 'timeout' || ![0, 1, 2].includes(outcome.code) || outcome.elapsed_ms > RUN_LIMIT_MS) {
-          problems.push(`case ${k} (${what.join('; ')}): ${outcome.code === 'timeout' ? `no end within ${RUN_LIMIT_MS} ms` : `exit ${outcome.code} after ${outcome.elapsed_ms} ms`}\n  speedband ${args.join(' ')}\n  ${outcome.err.slice(0, 1500)}`);
+    it(
+      `${RUNS_PER_KIND} mutated ${kind} files: every run ends within ${RUN_LIMIT_MS / 1000} s with exit 0, 1 or 2`,
+      async () => {
+        const random = makeRandom(SEED + kind.length);
+        const problems: string[] = [];
+        const codes: Record<string, number> = {};
+        for (let k = 0; k < RUNS_PER_KIND; k += 1) {
+          const { args, what } = fuzzCase(kind, k, random);
+          const outcome = await cli.run(args);
+          codes[String(outcome.code)] = (codes[String(outcome.code)] ?? 0) + 1;
+          if (outcome.code === 'timeout' || ![0, 1, 2].includes(outcome.code) || outcome.elapsed_ms > RUN_LIMIT_MS) {
+            problems.push(
+              `case ${k} (${what.join('; ')}): ${outcome.code === 'timeout' ? `no end within ${RUN_LIMIT_MS} ms` : `exit ${outcome.code} after ${outcome.elapsed_ms} ms`}\n  speedband ${args.join(' ')}\n  ${outcome.err.slice(0, 1500)}`,
+            );
+          }
         }
-      }
-      if (process.env.SPEEDBAND_FUZZ_REPORT !== undefined) console.log(kind, JSON.stringify(codes));
-      expect(problems, problems.join('\n\n')).toEqual([]);
-    }, 4 * 60_000);
+        if (process.env.SPEEDBAND_FUZZ_REPORT !== undefined) console.log(kind, JSON.stringify(codes));
+        expect(problems, problems.join('\n\n')).toEqual([]);
+      },
+      4 * 60_000,
+    );
   }
 });
 

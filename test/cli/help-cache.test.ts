@@ -7,7 +7,9 @@ import { runCli } from '../../src/cli/main.js';
 // src/cli/main.ts skipHelpCache). These pin the yargs internals it relies on and that help still works.
 describe('help text is rendered only when asked for', () => {
   it('yargs still exposes the usage instance whose help cache runCli switches off', () => {
-    const usage = (yargs() as unknown as { getInternalMethods: () => { getUsageInstance: () => { cacheHelpMessage: unknown } } }).getInternalMethods().getUsageInstance();
+    const usage = (yargs() as unknown as { getInternalMethods: () => { getUsageInstance: () => { cacheHelpMessage: unknown } } })
+      .getInternalMethods()
+      .getUsageInstance();
     expect(typeof usage.cacheHelpMessage).toBe('function');
   });
 

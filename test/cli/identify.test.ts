@@ -42,7 +42,9 @@ describe('speedband identify', () => {
   it('takes a folder of logs as its .csv files', async () => {
     const io = recordingIo();
     const out = join(folder, 'from-folder.json');
-    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', join(folder, 'logs'), '--out', out, '--joint-fit', 'false', '--second-order', 'false'], io)).toBe(0);
+    expect(
+      await runCli(['identify', '--vehicle', VEHICLE, '--logs', join(folder, 'logs'), '--out', out, '--joint-fit', 'false', '--second-order', 'false'], io),
+    ).toBe(0);
     const inputs = readModels(out).inputs;
     expect(inputs.map((i) => i.file).sort()).toEqual([...logs].sort());
     // Canonical order: by content hash, whatever the order the folder lists them in.
@@ -82,7 +84,10 @@ describe('speedband identify', () => {
     const si = recordingIo();
     expect(await runCli(['identify', ...options, '--logs', ...logs], si)).toBe(0);
     const other = recordingIo();
-    expect(await runCli(['identify', ...options, '--logs', ...converted, '--column', 'speed_mps=v_kph:km/h', '--column', 'yaw_rate_radps=r_dps:deg/s'], other), other.err()).toBe(0);
+    expect(
+      await runCli(['identify', ...options, '--logs', ...converted, '--column', 'speed_mps=v_kph:km/h', '--column', 'yaw_rate_radps=r_dps:deg/s'], other),
+      other.err(),
+    ).toBe(0);
     const speeds = (text: string) => (JSON.parse(text) as { speeds: { speed_mps: number; fopdt: { gain: number } }[] }).speeds;
     // 1 km/h = 1/3.6 m/s, 1° = π/180 rad (SI Brochure 9th ed., Tables 7 and 8): the round trip gives the same fits.
     expect(speeds(other.out())).toHaveLength(2);
@@ -103,7 +108,9 @@ describe('speedband identify', () => {
     // A unit of the wrong quantity would be refused too, but the output path is checked first, before any work.
     const logText = readFileSync(logs[0], 'utf8');
     const onLog = recordingIo();
-    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--column', 'speed_mps=speed_mps:deg', '--out', logs[0], '--force'], onLog)).toBe(2);
+    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--column', 'speed_mps=speed_mps:deg', '--out', logs[0], '--force'], onLog)).toBe(
+      2,
+    );
     expect(onLog.err()).toMatch(/is the log .* this command reads/);
     expect(onLog.err()).not.toMatch(/needs a speed/);
     expect(readFileSync(logs[0], 'utf8')).toBe(logText);
@@ -123,7 +130,12 @@ describe('speedband identify: --json without --out, the two-point note, step ord
     const before = readdirSync(folder).sort();
     const io = recordingIo();
     expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...logs, '--joint-fit', 'false', '--second-order', 'false', '--json'], io)).toBe(0);
-    const summary = JSON.parse(io.out()) as { file: string | null; outcome: string | null; speeds: unknown[]; twoPointCheck: { steps: number; disagreeing: number } };
+    const summary = JSON.parse(io.out()) as {
+      file: string | null;
+      outcome: string | null;
+      speeds: unknown[];
+      twoPointCheck: { steps: number; disagreeing: number };
+    };
     expect(summary.file).toBeNull();
     expect(summary.outcome).toBeNull();
     expect(summary.speeds).toHaveLength(2);
@@ -146,17 +158,23 @@ describe('speedband identify: --json without --out, the two-point note, step ord
     // The robot's response (τ + θ ≈ 0.06 s) is shorter than its 0.15 s command ramps: Smith's reading, which takes the step as
     // instantaneous at mid-ramp, stretches τ (test/identify/two-point-agreement.test.ts), so the note must appear.
     expect(disagreeing).toBeGreaterThan(0);
-    expect(io.out()).toMatch(new RegExp(`Note: Smith's two-point estimate \\(28\\.3 %/63\\.2 % crossings\\) disagrees with the FOPDT fit on ${disagreeing} of ${models.tests.length} steps`));
+    expect(io.out()).toMatch(
+      new RegExp(
+        `Note: Smith's two-point estimate \\(28\\.3 %/63\\.2 % crossings\\) disagrees with the FOPDT fit on ${disagreeing} of ${models.tests.length} steps`,
+      ),
+    );
     expect(io.out()).toMatch(/a ramp that is not short against the response/);
   }, 60_000);
 
-  it('lists each speed\'s steps by file, then step index (two files at one speed)', async () => {
+  it("lists each speed's steps by file, then step index (two files at one speed)", async () => {
     const vehicle = loadVehicle(VEHICLE);
     const first = writeTestLogs(vehicle, [0.8, 1.6], join(folder, 'repeat-a'), { seed: 7 });
     const second = writeTestLogs(vehicle, [0.8], join(folder, 'repeat-b'), { seed: 8 });
     const csv = [...first.files, ...second.files].map((f) => f.path).filter((p) => p.endsWith('.csv'));
     const out = join(folder, 'order.json');
-    expect(await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...csv, '--out', out, '--joint-fit', 'false', '--second-order', 'false'], recordingIo())).toBe(0);
+    expect(
+      await runCli(['identify', '--vehicle', VEHICLE, '--logs', ...csv, '--out', out, '--joint-fit', 'false', '--second-order', 'false'], recordingIo()),
+    ).toBe(0);
     const speeds = readModels(out).speeds;
     expect(speeds[0].steps.length).toBeGreaterThan(8);
     for (const speed of speeds) {

@@ -6,7 +6,28 @@ import type { RandomSource } from '../../src/core/random.js';
 
 type Json = null | boolean | number | string | Json[] | { [key: string]: Json };
 
-const REPLACEMENTS: readonly Json[] = [null, true, false, 0, -1, 1, 0.5, 1e308, -1e308, 5e-324, 1e-9, 2 ** 53, '', 'NaN', 'Infinity', 'x'.repeat(2000), [], {}, [1, 2, 3], { unexpected: 1 }];
+const REPLACEMENTS: readonly Json[] = [
+  null,
+  true,
+  false,
+  0,
+  -1,
+  1,
+  0.5,
+  1e308,
+  -1e308,
+  5e-324,
+  1e-9,
+  2 ** 53,
+  '',
+  'NaN',
+  'Infinity',
+  'x'.repeat(2000),
+  [],
+  {},
+  [1, 2, 3],
+  { unexpected: 1 },
+];
 const SCALES: readonly number[] = [-1, 0, 10, 1000, 1e6, 1e-3, 1e-6, 1e12];
 
 const pick = <T>(random: RandomSource, items: readonly T[]): T => items[Math.floor(random.uniform() * items.length)];

@@ -11,13 +11,19 @@ import { vehicleSchedule } from '../compare/vehicle-schedules.js';
 
 const folder = mkdtempSync(join(tmpdir(), 'speedband-simulate-'));
 const schedulePath = join(folder, 'schedule.json');
-writeFileSync(schedulePath, `${canonicalJson(vehicleSchedule('parcel-van', singleTrackParametersFromVehicle(loadVehicle('vehicles/parcel-van/vehicle.json'))))}\n`);
+writeFileSync(
+  schedulePath,
+  `${canonicalJson(vehicleSchedule('parcel-van', singleTrackParametersFromVehicle(loadVehicle('vehicles/parcel-van/vehicle.json'))))}\n`,
+);
 
 describe('speedband simulate', () => {
   it('writes the traces as CSV with units in the column names, one row per controller sample of every run, and prints the figures', async () => {
     const io = recordingIo();
     const out = join(folder, 'traces.csv');
-    const code = await runCli(['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'small-step', 'side-force', '--speed-mps', '6', '12', '--out', out], io);
+    const code = await runCli(
+      ['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'small-step', 'side-force', '--speed-mps', '6', '12', '--out', out],
+      io,
+    );
     expect(code, io.err()).toBe(0);
     const lines = readFileSync(out, 'utf8').trimEnd().split('\n');
     expect(lines[0]).toBe(
@@ -25,7 +31,9 @@ describe('speedband simulate', () => {
     );
     // 2 scenarios × 2 speeds, 31 s at 0.01 s: 3101 samples each.
     expect(lines.length - 1).toBe(4 * 3101);
-    expect(new Set(lines.slice(1).map((line) => line.split(',').slice(0, 2).join(',')))).toEqual(new Set(['small-step,6', 'small-step,12', 'side-force,6', 'side-force,12']));
+    expect(new Set(lines.slice(1).map((line) => line.split(',').slice(0, 2).join(',')))).toEqual(
+      new Set(['small-step,6', 'small-step,12', 'side-force,6', 'side-force,12']),
+    );
     expect(io.out()).toMatch(/small-step\s+6\.00/);
     expect(io.out()).toMatch(/closed track/);
   });
@@ -33,17 +41,30 @@ describe('speedband simulate', () => {
   it('--json gives every figure per run', async () => {
     const io = recordingIo();
     expect(await runCli(['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'braking-in-curve', '--json'], io)).toBe(0);
-    const result = JSON.parse(io.out()) as { runs: { scenario: string; speed_mps: number; integrator: { name: string; converged: boolean }; limitCycle: unknown; peakSteerRate_radps: number }[] };
+    const result = JSON.parse(io.out()) as {
+      runs: { scenario: string; speed_mps: number; integrator: { name: string; converged: boolean }; limitCycle: unknown; peakSteerRate_radps: number }[];
+    };
     expect(result.runs).toHaveLength(1);
-    expect(result.runs[0]).toMatchObject({ scenario: 'braking-in-curve', speed_mps: 25, integrator: { name: 'runge-kutta-4', converged: true }, limitCycle: null });
+    expect(result.runs[0]).toMatchObject({
+      scenario: 'braking-in-curve',
+      speed_mps: 25,
+      integrator: { name: 'runge-kutta-4', converged: true },
+      limitCycle: null,
+    });
   });
 
   it('takes the lane change and the speed change the user gives (the path the vehicle follows has that width; the ramp lasts range/acceleration)', async () => {
     const io = recordingIo();
     const out = join(folder, 'own.csv');
     const args = ['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'lane-change', 'speed-ramp-in-curve', '--speed-mps', '10'];
-    expect(await runCli([...args, '--lane-change-width-m', '3', '--lane-change-length-m', '40', '--acceleration-mps2', '3', '--out', out], io), io.err()).toBe(0);
-    const rows = readFileSync(out, 'utf8').trimEnd().split('\n').slice(1).map((line) => line.split(','));
+    expect(await runCli([...args, '--lane-change-width-m', '3', '--lane-change-length-m', '40', '--acceleration-mps2', '3', '--out', out], io), io.err()).toBe(
+      0,
+    );
+    const rows = readFileSync(out, 'utf8')
+      .trimEnd()
+      .split('\n')
+      .slice(1)
+      .map((line) => line.split(','));
     const lane = rows.filter((row) => row[0] === 'lane-change');
     // 1 s lead-in + 40 m at 10 m/s + 30 s: 3501 samples; the reference stays 0 and the vehicle ends 3 m over (offset from the path ≈ 0).
     expect(lane).toHaveLength(3501);
@@ -68,7 +89,9 @@ describe('speedband simulate', () => {
     const out = join(folder, 'other.csv');
     writeFileSync(out, 'something else\n');
     const io = recordingIo();
-    expect(await runCli(['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'small-step', '--speed-mps', '8', '--out', out], io)).toBe(2);
+    expect(await runCli(['simulate', schedulePath, '--vehicle', 'vehicles/parcel-van', '--scenario', 'small-step', '--speed-mps', '8', '--out', out], io)).toBe(
+      2,
+    );
     expect(readFileSync(out, 'utf8')).toBe('something else\n');
   });
 });

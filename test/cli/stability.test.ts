@@ -13,7 +13,27 @@ describe('speedband stability', () => {
   it('prints both gain margins of SIMC PID on a double integrator with delay and exits 0 (stable)', async () => {
     // Source: Skogestad 2003, SIMC double integrator at τc = θ = 1: Kc = 1/16, τI = τD = 8 (series);
     // docs/domain.md §4: upper GM ≈ 2.76 (8.82 dB), lower GM ≈ 0.165 (−15.65 dB), PM ≈ 33° (from memory).
-    const result = await run(['stability', '--numerator', '1', '--denominator', '1 0 0', '--delay-s', '1', '--kp', '0.0625', '--ki', '8', '--kd', '8', '--form', 'series', '--derivative-filter', 'none', '--continuous', '--json']);
+    const result = await run([
+      'stability',
+      '--numerator',
+      '1',
+      '--denominator',
+      '1 0 0',
+      '--delay-s',
+      '1',
+      '--kp',
+      '0.0625',
+      '--ki',
+      '8',
+      '--kd',
+      '8',
+      '--form',
+      'series',
+      '--derivative-filter',
+      'none',
+      '--continuous',
+      '--json',
+    ]);
     expect(result.code).toBe(0);
     const margins = JSON.parse(result.out) as LoopMargins;
     expect(margins.verdict).toBe('stable');
@@ -24,7 +44,22 @@ describe('speedband stability', () => {
 
   it('reads a FOPDT plant and prints margins with units; an over-tuned loop exits 1', async () => {
     // Source: SIMC PI at τc = θ on FOPDT gives L = e^(−θs)/(2θs) with GM = π = 9.94 dB (derived, Skogestad 2003).
-    const tuned = await run(['stability', '--gain', '2', '--time-constant-s', '0.5', '--dead-time-s', '0.1', '--kp', '1.25', '--ki', '0.5', '--form', 'ideal', '--continuous']);
+    const tuned = await run([
+      'stability',
+      '--gain',
+      '2',
+      '--time-constant-s',
+      '0.5',
+      '--dead-time-s',
+      '0.1',
+      '--kp',
+      '1.25',
+      '--ki',
+      '0.5',
+      '--form',
+      'ideal',
+      '--continuous',
+    ]);
     expect(tuned.code).toBe(0);
     expect(tuned.out).toMatch(/upper gain margin:\s+9\.94 dB at 15\.71 rad\/s/);
     expect(tuned.out).toMatch(/phase margin:\s+61\.35 °/);
@@ -65,7 +100,20 @@ describe('speedband stability', () => {
     const missing = await run(['stability', '--kp', '1']);
     expect(missing.code).toBe(2);
     expect(missing.err).toMatch(/no plant given/);
-    const improper = await run(['stability', '--numerator', '1', '--denominator', '1', '--kp', '1', '--kd', '1', '--derivative-filter', 'none', '--continuous']);
+    const improper = await run([
+      'stability',
+      '--numerator',
+      '1',
+      '--denominator',
+      '1',
+      '--kp',
+      '1',
+      '--kd',
+      '1',
+      '--derivative-filter',
+      'none',
+      '--continuous',
+    ]);
     expect(improper.code).toBe(2);
     expect(improper.err).toMatch(/more zeros \(1\) than poles \(0\).*derivative filter/);
     const series = await run(['stability', '--gain', '1', '--time-constant-s', '1', '--dead-time-s', '0.1', '--kp', '1', '--ki', '0', '--form', 'ideal']);
@@ -84,7 +132,27 @@ describe('speedband stability', () => {
   it('says margins do not apply when the sampled loop is not stable, and names the sampled-data poles', async () => {
     // Source: audit of the Ts/2 hold approximation — this Tustin loop at 50 ms has exact sampled-data poles up to |z| = 1.0022
     // (cross-checked by simulation in test/verify/sampled-verdict.test.ts).
-    const result = await run(['stability', '--gain', '3.61', '--time-constant-s', '0.12', '--dead-time-s', '0.141', '--kp', '0.3065', '--ki', '1.2602', '--kd', '0.0186', '--sample-time-s', '0.05', '--latency-s', '0', '--discretisation', 'tustin']);
+    const result = await run([
+      'stability',
+      '--gain',
+      '3.61',
+      '--time-constant-s',
+      '0.12',
+      '--dead-time-s',
+      '0.141',
+      '--kp',
+      '0.3065',
+      '--ki',
+      '1.2602',
+      '--kd',
+      '0.0186',
+      '--sample-time-s',
+      '0.05',
+      '--latency-s',
+      '0',
+      '--discretisation',
+      'tustin',
+    ]);
     expect(result.code).toBe(1);
     expect(result.out).toMatch(/verdict: unstable — decided by the sampled-data closed-loop poles, largest \|z\| 1\.0022/);
     expect(result.out).toMatch(/the Nyquist count agrees \(unstable\)/);

@@ -54,13 +54,42 @@ describe('speedband tune', () => {
   });
 
   it('a tuned loop that is unstable on the full plant exits 1 and says so', async () => {
-    const { code, out } = await run(['tune', '--rule', 'simc', '--loop', 'path', '--preview-m', '0', '--speed-mps', '8', ...fopdt, '--closed-loop-time-constant-s', '0.01']);
+    const { code, out } = await run([
+      'tune',
+      '--rule',
+      'simc',
+      '--loop',
+      'path',
+      '--preview-m',
+      '0',
+      '--speed-mps',
+      '8',
+      ...fopdt,
+      '--closed-loop-time-constant-s',
+      '0.01',
+    ]);
     expect(code).toBe(1);
     expect(out).toMatch(/NOT stable/);
   });
 
   it('the single-track model from a demo vehicle file, path loop with a front-axle preview', async () => {
-    const { code, out } = await run(['tune', '--rule', 'damping-target', '--loop', 'path', '--preview-m', '2', '--reference-point', 'front-axle', '--speed-mps', '10', '--settling-distance-m', '100', '--vehicle', 'vehicles/parcel-van']);
+    const { code, out } = await run([
+      'tune',
+      '--rule',
+      'damping-target',
+      '--loop',
+      'path',
+      '--preview-m',
+      '2',
+      '--reference-point',
+      'front-axle',
+      '--speed-mps',
+      '10',
+      '--settling-distance-m',
+      '100',
+      '--vehicle',
+      'vehicles/parcel-van',
+    ]);
     expect(code).toBe(0);
     // Front-axle preview: d = 2 m + a (parcel van a = 1.75 m).
     expect(out).toMatch(/3\.7500 m from the CG/);
@@ -69,7 +98,23 @@ describe('speedband tune', () => {
   });
 
   it('a settling target too fast for the preview lead exits 2 with how far to lower ωn', async () => {
-    const { code, err } = await run(['tune', '--rule', 'damping-target', '--loop', 'path', '--preview-m', '2', '--reference-point', 'front-axle', '--speed-mps', '10', '--settling-distance-m', '40', '--vehicle', 'vehicles/parcel-van']);
+    const { code, err } = await run([
+      'tune',
+      '--rule',
+      'damping-target',
+      '--loop',
+      'path',
+      '--preview-m',
+      '2',
+      '--reference-point',
+      'front-axle',
+      '--speed-mps',
+      '10',
+      '--settling-distance-m',
+      '40',
+      '--vehicle',
+      'vehicles/parcel-van',
+    ]);
     expect(code).toBe(2);
     expect(err).toMatch(/lower ωn to at most [0-9.]+ rad\/s/);
   });
@@ -100,7 +145,17 @@ describe('speedband tune --models (the model identified by speedband identify)',
   let lumped: ModelsFile;
 
   beforeAll(async () => {
-    const identified = await run(['identify', '--vehicle', 'vehicles/parcel-van', '--logs', `${logs}/synthetic-steps-06.00mps.csv`, `${logs}/synthetic-steps-10.00mps.csv`, `${logs}/synthetic-steps-15.00mps.csv`, '--out', jointFile]);
+    const identified = await run([
+      'identify',
+      '--vehicle',
+      'vehicles/parcel-van',
+      '--logs',
+      `${logs}/synthetic-steps-06.00mps.csv`,
+      `${logs}/synthetic-steps-10.00mps.csv`,
+      `${logs}/synthetic-steps-15.00mps.csv`,
+      '--out',
+      jointFile,
+    ]);
     expect(identified.code).toBe(0);
     joint = readModels(jointFile);
     // The same file as if the joint fit had been refused: only the per-speed FOPDT models remain.
@@ -121,7 +176,18 @@ describe('speedband tune --models (the model identified by speedband identify)',
   };
 
   it('with the joint single-track fit: tunes on the fitted Cf, Cr with the vehicle file geometry (steady yaw gain vx/(L + K·vx²))', async () => {
-    const { code, json } = await tuneJson(['--rule', 'simc', '--loop', 'heading', '--speed-mps', '10', '--models', jointFile, '--vehicle', 'vehicles/parcel-van']);
+    const { code, json } = await tuneJson([
+      '--rule',
+      'simc',
+      '--loop',
+      'heading',
+      '--speed-mps',
+      '10',
+      '--models',
+      jointFile,
+      '--vehicle',
+      'vehicles/parcel-van',
+    ]);
     expect(code).toBe(0);
     expect(json.model.kind).toBe('single-track');
     expect(json.model.description).toMatch(/joint single-track fit over \d+ steps/);
@@ -140,9 +206,14 @@ describe('speedband tune --models (the model identified by speedband identify)',
       model: {
         kind: 'single-track',
         parameters: {
-          mass_kg: 3400, yawInertia_kgm2: 11000, cgToFrontAxle_m: 1.75, cgToRearAxle_m: 1.85,
-          frontCorneringStiffness_NPerRad: fit.frontCorneringStiffness_NPerRad, rearCorneringStiffness_NPerRad: fit.rearCorneringStiffness_NPerRad,
-          actuatorLag_s: fit.actuatorLag_s, actuatorDelay_s: fit.actuatorDelay_s,
+          mass_kg: 3400,
+          yawInertia_kgm2: 11000,
+          cgToFrontAxle_m: 1.75,
+          cgToRearAxle_m: 1.85,
+          frontCorneringStiffness_NPerRad: fit.frontCorneringStiffness_NPerRad,
+          rearCorneringStiffness_NPerRad: fit.rearCorneringStiffness_NPerRad,
+          actuatorLag_s: fit.actuatorLag_s,
+          actuatorDelay_s: fit.actuatorDelay_s,
         },
       },
       rule: 'simc',
@@ -156,7 +227,9 @@ describe('speedband tune --models (the model identified by speedband identify)',
     const { code, json } = await tuneJson(['--rule', 'simc', '--speed-mps', '10', '--models', lumpedFile, '--vehicle', 'vehicles/parcel-van']);
     expect(code).toBe(0);
     expect(json.model.kind).toBe('lumped');
-    expect(json.model.description).toMatch(/the FOPDT identified at the 10\.00 m\/s test speed — the models file has no joint single-track fit \(the joint single-track fit was switched off\)/);
+    expect(json.model.description).toMatch(
+      /the FOPDT identified at the 10\.00 m\/s test speed — the models file has no joint single-track fit \(the joint single-track fit was switched off\)/,
+    );
     const at10 = lumped.speeds.find((speed) => Math.abs(speed.speed_mps - 10) < 0.1)!.fopdt;
     expect(json.design.yawRateGain_perS).toBe(at10.gain);
     expect(json.design.yawRateTimeConstant_s).toBe(at10.timeConstant_s);
@@ -183,12 +256,16 @@ describe('speedband tune --models (the model identified by speedband identify)',
     expect(beyond.out).toMatch(/Warning: 20 m\/s is outside the tested range 6\.00–15\.00 m\/s: the FOPDT of the nearest test speed, 15\.00 m\/s, is used/);
     expect(beyond.out).toMatch(/K = 3\.\d+ 1\/s/);
     const jointBeyond = await tuneJson(['--rule', 'simc', '--speed-mps', '3', '--models', jointFile, '--vehicle', 'vehicles/parcel-van']);
-    expect(jointBeyond.json.warnings.some((w) => /3 m\/s is outside the tested range 6\.00–15\.00 m\/s: the joint single-track fit is extrapolated/.test(w))).toBe(true);
+    expect(
+      jointBeyond.json.warnings.some((w) => /3 m\/s is outside the tested range 6\.00–15\.00 m\/s: the joint single-track fit is extrapolated/.test(w)),
+    ).toBe(true);
   });
 
   it('a vehicle file other than the identified one gives a warning naming both', async () => {
     const { json } = await tuneJson(['--rule', 'simc', '--speed-mps', '10', '--models', jointFile, '--vehicle', 'vehicles/parcel-van-loaded']);
-    expect(json.warnings.some((w) => /the vehicle file given \("parcel-van-loaded"\) differs from the one the models were identified with \("parcel-van"/.test(w))).toBe(true);
+    expect(
+      json.warnings.some((w) => /the vehicle file given \("parcel-van-loaded"\) differs from the one the models were identified with \("parcel-van"/.test(w)),
+    ).toBe(true);
   });
 
   it('bad input exits 2: --models without --vehicle names the vehicle to pass; --models with a hand-given FOPDT; an unreadable models file', async () => {
@@ -198,7 +275,9 @@ describe('speedband tune --models (the model identified by speedband identify)',
     const both = await run(['tune', '--rule', 'simc', '--speed-mps', '10', '--models', jointFile, '--vehicle', 'vehicles/parcel-van', ...fopdt]);
     expect(both.code).toBe(2);
     expect(both.err).toMatch(/--models and --gain\/--time-constant-s\/--dead-time-s both give the vehicle model — use one/);
-    expect((await run(['tune', '--rule', 'simc', '--speed-mps', '10', '--models', join(directory, 'missing.json'), '--vehicle', 'vehicles/parcel-van'])).code).toBe(2);
+    expect(
+      (await run(['tune', '--rule', 'simc', '--speed-mps', '10', '--models', join(directory, 'missing.json'), '--vehicle', 'vehicles/parcel-van'])).code,
+    ).toBe(2);
   });
 
   it('--help offers --models and says nominal stiffnesses in a vehicle file are for the simulator', async () => {

@@ -69,7 +69,9 @@ describe('compareSchedules with one gain raised 20 % (re-assembled and re-checks
   });
 
   it('refuses a negative or non-finite threshold with a typed error naming it', () => {
-    expect(() => compareSchedules(old, next, { gainChange_pct: -1 })).toThrow(expect.objectContaining({ code: 'compare.invalidThreshold', message: expect.stringMatching(/gainChange_pct is -1/) }));
+    expect(() => compareSchedules(old, next, { gainChange_pct: -1 })).toThrow(
+      expect.objectContaining({ code: 'compare.invalidThreshold', message: expect.stringMatching(/gainChange_pct is -1/) }),
+    );
     expect(() => compareSchedules(old, next, { phaseMarginDrop_deg: Number.NaN })).toThrow(expect.objectContaining({ code: 'compare.invalidThreshold' }));
   });
 });
@@ -150,7 +152,9 @@ describe('compareSchedules margin flags (margins edited in a copy; they are not 
     const next = clone(base);
     (old.breakpoints[3].margins as unknown as Record<string, unknown>)[name] = oldValue;
     (next.breakpoints[3].margins as unknown as Record<string, unknown>)[name] = newValue;
-    return compareSchedules(old, next).flags.filter((flag) => flag.speed_mps !== null).map((flag) => flag.kind);
+    return compareSchedules(old, next)
+      .flags.filter((flag) => flag.speed_mps !== null)
+      .map((flag) => flag.kind);
   };
 
   it('upper gain margin: flagged when it decreases by 3 dB or more, not by 2.9 dB, not when it grows', () => {
@@ -200,7 +204,9 @@ describe('compareSchedules gains that were 0', () => {
 describe('compareSchedules model drift', () => {
   it('with single-track summaries in both: each parameter old → new with change and %', () => {
     const old = fixtureSchedule({ modelSummary: SINGLE_TRACK_SUMMARY });
-    const next = fixtureSchedule({ modelSummary: { ...SINGLE_TRACK_SUMMARY, rearCorneringStiffness_NPerRad: 160000, understeerGradient_radPerMps2: 0.002215 } });
+    const next = fixtureSchedule({
+      modelSummary: { ...SINGLE_TRACK_SUMMARY, rearCorneringStiffness_NPerRad: 160000, understeerGradient_radPerMps2: 0.002215 },
+    });
     const drift = compareSchedules(old, next).modelDrift;
     expect(drift.available).toBe(true);
     if (!drift.available) return;
@@ -220,7 +226,10 @@ describe('compareSchedules model drift', () => {
   it('with a lumped model on either side: not available, with the reason, never zero drift', () => {
     const drift = compareSchedules(fixtureSchedule({ modelSummary: SINGLE_TRACK_SUMMARY }), fixtureSchedule()).modelDrift;
     expect(drift).toEqual({ available: false, reason: expect.stringMatching(/new schedule's model is "synthetic integrator with delay"/) });
-    const partial = compareSchedules(fixtureSchedule({ modelSummary: { kind: 'single-track', actuatorLag_s: 0.08 } }), fixtureSchedule({ modelSummary: SINGLE_TRACK_SUMMARY })).modelDrift;
+    const partial = compareSchedules(
+      fixtureSchedule({ modelSummary: { kind: 'single-track', actuatorLag_s: 0.08 } }),
+      fixtureSchedule({ modelSummary: SINGLE_TRACK_SUMMARY }),
+    ).modelDrift;
     expect(partial.available).toBe(false);
     if (!partial.available) expect(partial.reason).toMatch(/old schedule's single-track model lacks frontCorneringStiffness_NPerRad/);
   });

@@ -19,7 +19,13 @@ interface Figures {
   readonly characteristicSpeed_mps: number;
   readonly yawGainAt25_perS: number;
 }
-function figures(p: { mass_kg: number; cgToFrontAxle_m: number; cgToRearAxle_m: number; frontCorneringStiffness_NPerRad: number; rearCorneringStiffness_NPerRad: number }): Figures {
+function figures(p: {
+  mass_kg: number;
+  cgToFrontAxle_m: number;
+  cgToRearAxle_m: number;
+  frontCorneringStiffness_NPerRad: number;
+  rearCorneringStiffness_NPerRad: number;
+}): Figures {
   const a = p.cgToFrontAxle_m;
   const b = p.cgToRearAxle_m;
   const L = a + b;
@@ -66,7 +72,11 @@ describe('the changed demo vehicle vehicles/parcel-van-loaded', () => {
     // Source: centre of mass of two bodies; parallel-axis (Steiner) theorem, common practice.
     const cg_m = (van.mass_kg * van.cgToFrontAxle_m + payload_kg * payloadFromFront_m) / loaded.mass_kg;
     expect(loaded.cgToFrontAxle_m).toBeCloseTo(cg_m, 2);
-    const inertia = van.yawInertia_kgm2 + van.mass_kg * (loaded.cgToFrontAxle_m - van.cgToFrontAxle_m) ** 2 + (payload_kg * 2.4 ** 2) / 12 + payload_kg * (payloadFromFront_m - loaded.cgToFrontAxle_m) ** 2;
+    const inertia =
+      van.yawInertia_kgm2 +
+      van.mass_kg * (loaded.cgToFrontAxle_m - van.cgToFrontAxle_m) ** 2 +
+      (payload_kg * 2.4 ** 2) / 12 +
+      payload_kg * (payloadFromFront_m - loaded.cgToFrontAxle_m) ** 2;
     expect(Math.abs(loaded.yawInertia_kgm2 / inertia - 1)).toBeLessThan(0.005);
     expect(loaded.cgToFrontAxle_m).toBeGreaterThan(van.cgToFrontAxle_m); // moved rearward
   });
@@ -82,17 +92,28 @@ describe('the changed demo vehicle vehicles/parcel-van-loaded', () => {
 
   it('identification from the logs of both vehicles (3 speeds each) moves the single-track parameters the same way as the files', () => {
     const identify = (folder: string) =>
-      identifyFromLogs({ vehicle: join(VEHICLES, folder), logPaths: ['06.00', '15.00', '25.00'].map((speed) => join(VEHICLES, folder, 'logs', `synthetic-steps-${speed}mps.csv`)) }).singleTrack!;
+      identifyFromLogs({
+        vehicle: join(VEHICLES, folder),
+        logPaths: ['06.00', '15.00', '25.00'].map((speed) => join(VEHICLES, folder, 'logs', `synthetic-steps-${speed}mps.csv`)),
+      }).singleTrack!;
     const fitBefore = identify('parcel-van');
     const fitAfter = identify('parcel-van-loaded');
-    const asParameters = (vehicle: Vehicle, fit: typeof fitBefore) => ({ ...vehicle, frontCorneringStiffness_NPerRad: fit.frontCorneringStiffness_NPerRad, rearCorneringStiffness_NPerRad: fit.rearCorneringStiffness_NPerRad });
+    const asParameters = (vehicle: Vehicle, fit: typeof fitBefore) => ({
+      ...vehicle,
+      frontCorneringStiffness_NPerRad: fit.frontCorneringStiffness_NPerRad,
+      rearCorneringStiffness_NPerRad: fit.rearCorneringStiffness_NPerRad,
+    });
     const before = figures(asParameters(van, fitBefore));
     const after = figures(asParameters(loaded, fitAfter));
     const fileBefore = fromFile(van);
     const fileAfter = fromFile(loaded);
     const direction = (x: number, y: number) => Math.sign(y - x);
-    expect(direction(before.understeerGradient_radPerMps2, after.understeerGradient_radPerMps2)).toBe(direction(fileBefore.understeerGradient_radPerMps2, fileAfter.understeerGradient_radPerMps2));
-    expect(direction(before.characteristicSpeed_mps, after.characteristicSpeed_mps)).toBe(direction(fileBefore.characteristicSpeed_mps, fileAfter.characteristicSpeed_mps));
+    expect(direction(before.understeerGradient_radPerMps2, after.understeerGradient_radPerMps2)).toBe(
+      direction(fileBefore.understeerGradient_radPerMps2, fileAfter.understeerGradient_radPerMps2),
+    );
+    expect(direction(before.characteristicSpeed_mps, after.characteristicSpeed_mps)).toBe(
+      direction(fileBefore.characteristicSpeed_mps, fileAfter.characteristicSpeed_mps),
+    );
     expect(direction(before.yawGainAt25_perS, after.yawGainAt25_perS)).toBe(direction(fileBefore.yawGainAt25_perS, fileAfter.yawGainAt25_perS));
     // The fit's own understeer gradient agrees with the formula on its stiffnesses.
     expect(fitAfter.understeerGradient_radPerMps2).toBeCloseTo(after.understeerGradient_radPerMps2, 8);

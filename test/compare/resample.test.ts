@@ -14,7 +14,21 @@ const margins = (upper: number | null, lower: number | null, stable = true): Bre
   sensitivityPeak: 1.5,
   complementarySensitivityPeak: 1.2,
 });
-const rows = (list: readonly [number, BreakpointMargins][]) => ({ breakpoints: list.map(([speed_mps, m]) => ({ speed_mps, kp: 1, ki: 0, kd: 0, setpointWeightProportional: 1, setpointWeightDerivative: 0, feedForward: 0, feedForwardLeadTime_s: 0, insertedByRefinement: false, margins: m, timeDomain: null })) });
+const rows = (list: readonly [number, BreakpointMargins][]) => ({
+  breakpoints: list.map(([speed_mps, m]) => ({
+    speed_mps,
+    kp: 1,
+    ki: 0,
+    kd: 0,
+    setpointWeightProportional: 1,
+    setpointWeightDerivative: 0,
+    feedForward: 0,
+    feedForwardLeadTime_s: 0,
+    insertedByRefinement: false,
+    margins: m,
+    timeDomain: null,
+  })),
+});
 
 describe('matchSpeeds(old, new, tolerance)', () => {
   it('compares the sorted union inside the overlap of the breakpoint ranges and lists the rest', () => {

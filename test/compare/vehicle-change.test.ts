@@ -57,7 +57,9 @@ describe('compare: the parcel van schedule against the loaded van schedule (head
     // Source: Gillespie 1992 §6, characteristic speed √(L/K), K = (m/L)(b/Cf − a/Cr), from the vehicle files.
     const characteristic = (vehicle: Vehicle) => {
       const L = vehicle.cgToFrontAxle_m + vehicle.cgToRearAxle_m;
-      const K = (vehicle.mass_kg / L) * (vehicle.cgToRearAxle_m / vehicle.frontCorneringStiffness_NPerRad! - vehicle.cgToFrontAxle_m / vehicle.rearCorneringStiffness_NPerRad!);
+      const K =
+        (vehicle.mass_kg / L) *
+        (vehicle.cgToRearAxle_m / vehicle.frontCorneringStiffness_NPerRad! - vehicle.cgToFrontAxle_m / vehicle.rearCorneringStiffness_NPerRad!);
       return Math.sqrt(L / K);
     };
     expect(byName.characteristicSpeed_mps.old).toBeCloseTo(characteristic(van), 9);

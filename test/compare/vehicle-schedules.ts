@@ -35,7 +35,8 @@ export function vehicleSchedule(name: string, parameters: SingleTrackParameters)
   const loop = { kind: 'heading' as const };
   const result = scheduleGains({
     plan,
-    tuneAt: (speed_mps) => tuneOperatingPoint({ loop, speed_mps, model: { kind: 'single-track', parameters }, rule: 'simc', ruleParameters: {}, controller }).gains,
+    tuneAt: (speed_mps) =>
+      tuneOperatingPoint({ loop, speed_mps, model: { kind: 'single-track', parameters }, rule: 'simc', ruleParameters: {}, controller }).gains,
     analyse: (speed_mps, gains) => loopMargins(loopPlantFromSingleTrack(loop, parameters, speed_mps, controller), gains, controller.derivativeFilter),
   });
   return assembleSchedule({

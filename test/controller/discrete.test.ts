@@ -69,7 +69,12 @@ print(json.dumps(out))
       const omegas = Float64Array.from([1e-3, 1e-2, 1e-1].map((x) => (x * Math.PI) / c.settings.sampleTime_s));
       const discrete = discretePidFrequencyResponse(c.gains, c.settings, omegas);
       const continuous = frequencyResponse(pidTransferFunction(c.gains, c.settings.derivativeFilter), omegas);
-      const errors = Array.from(omegas, (_, i) => Math.hypot(discrete.real[i] - continuous.real[i], discrete.imaginary[i] - continuous.imaginary[i]) / Math.hypot(continuous.real[i], continuous.imaginary[i]));
+      const errors = Array.from(
+        omegas,
+        (_, i) =>
+          Math.hypot(discrete.real[i] - continuous.real[i], discrete.imaginary[i] - continuous.imaginary[i]) /
+          Math.hypot(continuous.real[i], continuous.imaginary[i]),
+      );
       expect(errors[0]).toBeLessThan(omegas[0] * c.settings.sampleTime_s); // first order in ωT (backward Euler ≈ ωT/2)
       expect(errors[0]).toBeLessThan(errors[1]);
       expect(errors[1]).toBeLessThan(errors[2]);

@@ -13,7 +13,14 @@ const linear = (discretisation: Discretisation): FirmwareSettings => ({
   commandLimit_rad: Number.POSITIVE_INFINITY,
   integratorClamp_rad: Number.POSITIVE_INFINITY,
 });
-const oneDof = (kp: number, ki: number, kd: number): FirmwareGains => ({ kp, ki, kd, setpointWeightProportional: 1, setpointWeightDerivative: 1, feedForward: 0 });
+const oneDof = (kp: number, ki: number, kd: number): FirmwareGains => ({
+  kp,
+  ki,
+  kd,
+  setpointWeightProportional: 1,
+  setpointWeightDerivative: 1,
+  feedForward: 0,
+});
 
 describe('firmwareStep', () => {
   it('with b = c = 1, no feed-forward and no limit reached is the one-degree-of-freedom discrete PID (discretePidStep) on e = r − y', () => {

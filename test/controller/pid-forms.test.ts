@@ -107,16 +107,21 @@ describe('PID form conversions', () => {
 
   it('series and ideal forms of one controller have the same frequency response (property)', () => {
     fc.assert(
-      fc.property(fc.double({ min: 0.01, max: 100, noNaN: true }), fc.double({ min: 0.01, max: 10, noNaN: true }), fc.double({ min: 0.001, max: 10, noNaN: true }), (gain, tauI, tauD) => {
-        const series = { gain, integralTime_s: tauI, derivativeTime_s: tauD };
-        const ideal = seriesToIdeal(series);
-        for (const w of [0.1, 1, 10]) {
-          const s = seriesAt(series, w);
-          const iRe = ideal.gain;
-          const iIm = ideal.gain * (w * ideal.derivativeTime_s - 1 / (w * ideal.integralTime_s!));
-          expect(Math.hypot(s.re - iRe, s.im - iIm)).toBeLessThanOrEqual(1e-10 * Math.hypot(s.re, s.im));
-        }
-      }),
+      fc.property(
+        fc.double({ min: 0.01, max: 100, noNaN: true }),
+        fc.double({ min: 0.01, max: 10, noNaN: true }),
+        fc.double({ min: 0.001, max: 10, noNaN: true }),
+        (gain, tauI, tauD) => {
+          const series = { gain, integralTime_s: tauI, derivativeTime_s: tauD };
+          const ideal = seriesToIdeal(series);
+          for (const w of [0.1, 1, 10]) {
+            const s = seriesAt(series, w);
+            const iRe = ideal.gain;
+            const iIm = ideal.gain * (w * ideal.derivativeTime_s - 1 / (w * ideal.integralTime_s!));
+            expect(Math.hypot(s.re - iRe, s.im - iIm)).toBeLessThanOrEqual(1e-10 * Math.hypot(s.re, s.im));
+          }
+        },
+      ),
       { seed: 13, numRuns: 200 },
     );
   });

@@ -68,7 +68,9 @@ describe('writeAllSync and standard output', () => {
         return Math.min(4, length);
       };
       const io = fileDescriptorIo(1, 2, write);
-      expect(() => io.stdout('a header longer than four bytes')).toThrow(expect.objectContaining({ code: 'output.stdoutFailed', message: expect.stringContaining(code) }));
+      expect(() => io.stdout('a header longer than four bytes')).toThrow(
+        expect.objectContaining({ code: 'output.stdoutFailed', message: expect.stringContaining(code) }),
+      );
     }
   });
 });

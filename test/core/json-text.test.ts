@@ -32,7 +32,9 @@ describe('parseJsonText(text, file)', () => {
         message: expect.stringMatching(/"x" appears twice in the same object \(lines 3 and 4\)/),
       }),
     );
-    expect(() => parseJsonText('{"a~b/c": 1, "a~b/c": 2}', 'x.json')).toThrow(expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/a~0b~1c' }) }));
+    expect(() => parseJsonText('{"a~b/c": 1, "a~b/c": 2}', 'x.json')).toThrow(
+      expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/a~0b~1c' }) }),
+    );
     // An escaped spelling of the same key is the same key.
     expect(() => parseJsonText('{"mass_kg": 1, "mass\\u005fkg": 2}', 'x.json')).toThrow(expect.objectContaining({ code: 'json.duplicateKey' }));
   });
@@ -55,7 +57,9 @@ describe('every JSON input refuses a repeated key', () => {
     const dir = folder();
     const vehicle = join(dir, 'vehicle.json');
     writeFileSync(vehicle, readFileSync('vehicles/parcel-van/vehicle.json', 'utf8').replace('"mass_kg": ', '"mass_kg": 3400, "mass_kg": '));
-    expect(() => loadVehicle(vehicle)).toThrow(expect.objectContaining({ code: 'json.duplicateKey', location: expect.objectContaining({ jsonPath: '/mass_kg' }) }));
+    expect(() => loadVehicle(vehicle)).toThrow(
+      expect.objectContaining({ code: 'json.duplicateKey', location: expect.objectContaining({ jsonPath: '/mass_kg' }) }),
+    );
     const io = recordingIo();
     expect(await runCli(['build', '--vehicle', vehicle, '--logs', 'vehicles/parcel-van/logs', '--out', join(dir, 'schedule.json')], io)).toBe(2);
     expect(io.err()).toMatch(new RegExp(`${vehicle.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}.*at /mass_kg: the key "mass_kg" appears twice`));
@@ -65,7 +69,9 @@ describe('every JSON input refuses a repeated key', () => {
     const dir = folder();
     const plan = join(dir, 'plan.json');
     writeFileSync(plan, '{"interpolation": "linear", "controller": {"sampleTime_s": 0.01, "sampleTime_s": 0.1}}');
-    expect(() => readPlan(plan)).toThrow(expect.objectContaining({ code: 'json.duplicateKey', location: expect.objectContaining({ file: plan, jsonPath: '/controller/sampleTime_s' }) }));
+    expect(() => readPlan(plan)).toThrow(
+      expect.objectContaining({ code: 'json.duplicateKey', location: expect.objectContaining({ file: plan, jsonPath: '/controller/sampleTime_s' }) }),
+    );
     expect(() => parseModels('{"format": "speedband-models", "format": "speedband-models"}', 'models.json')).toThrow(
       expect.objectContaining({ code: 'json.duplicateKey', location: expect.objectContaining({ jsonPath: '/format' }) }),
     );

@@ -51,7 +51,17 @@ describe('messages quoting input text', () => {
     const key = `\u001b[2J${'k'.repeat(500_000)}`;
     writeFileSync(
       vehicle,
-      JSON.stringify({ name: 'v', mass_kg: 1000, yawInertia_kgm2: 1000, cgToFrontAxle_m: 1, cgToRearAxle_m: 1, steeringRatio: 15, maxSteerAngle_rad: 0.5, maxSteerRate_radps: 1, [key]: 1 }),
+      JSON.stringify({
+        name: 'v',
+        mass_kg: 1000,
+        yawInertia_kgm2: 1000,
+        cgToFrontAxle_m: 1,
+        cgToRearAxle_m: 1,
+        steeringRatio: 15,
+        maxSteerAngle_rad: 0.5,
+        maxSteerRate_radps: 1,
+        [key]: 1,
+      }),
     );
     const io = recordingIo();
     expect(await runCli(['make-test-logs', '--vehicle', vehicle, '--speeds', '5', '--out', join(dir, 'logs')], io)).toBe(2);

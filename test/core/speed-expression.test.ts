@@ -89,7 +89,25 @@ interface Generated {
 }
 
 const hostileSymbols = ['x', 'speed', 'process', 'globalThis', 'undefined', 'null', 'true', '"text"', "'t'", '[1, 2]', '{a: 1}', '1:3', 'end'];
-const hostileCalls = ['import', 'evaluate', 'parse', 'compile', 'createUnit', 'simplify', 'derivative', 'resolve', 'config', 'typed', 'reviver', 'help', 'chain', 'matrix', 'factorial', 'random', 'bitAnd'];
+const hostileCalls = [
+  'import',
+  'evaluate',
+  'parse',
+  'compile',
+  'createUnit',
+  'simplify',
+  'derivative',
+  'resolve',
+  'config',
+  'typed',
+  'reviver',
+  'help',
+  'chain',
+  'matrix',
+  'factorial',
+  'random',
+  'bitAnd',
+];
 
 const leaf: fc.Arbitrary<Generated> = fc.oneof(
   fc.integer({ min: 0, max: 1000 }).map((n) => ({ text: String(n), allowed: true, value: () => n })),
@@ -122,7 +140,9 @@ const expression: fc.Arbitrary<Generated> = fc.letrec<{ node: Generated }>((tie)
       value: (v: number) => (a.value(v) > b.value(v) ? c.value(v) : d.value(v)),
     })),
     // Hostile shapes: assignment, function definition, forbidden functions and operators, several statements, access.
-    fc.tuple(fc.constantFrom('x = ', 'speed_mps = ', 'f(y) = '), tie('node')).map(([head, a]) => ({ text: `${head}${a.text}`, allowed: false, value: () => NaN })),
+    fc
+      .tuple(fc.constantFrom('x = ', 'speed_mps = ', 'f(y) = '), tie('node'))
+      .map(([head, a]) => ({ text: `${head}${a.text}`, allowed: false, value: () => NaN })),
     fc.tuple(fc.constantFrom(...hostileCalls), tie('node')).map(([fn, a]) => ({ text: `${fn}(${a.text})`, allowed: false, value: () => NaN })),
     fc.tuple(tie('node'), fc.constantFrom('!', "'", ' & ', ' | ', ' to m', '; 1', '.constructor', '[1]')).map(([a, tail]) => ({
       text: tail.startsWith(' ') && tail !== ' to m' ? `(${a.text}${tail}1)` : `(${a.text})${tail}`,
@@ -173,16 +193,34 @@ describe('compileSpeedExpression on random and hostile expressions (fast-check)'
   }, 60_000);
 
   it('random text from the expression alphabet (up to 600 characters) is compiled or refused, and evaluation never throws', async () => {
-    const alphabet = fc.constantFrom(...'0123456789.+-*/^()<>=!?:;,[]{}"\'&|~ \n'.split(''), 'speed_mps', 'max', 'min', 'import', 'evaluate', 'e', 'pi', 'x', 'and', 'or', 'not', 'mod', 'to');
+    const alphabet = fc.constantFrom(
+      ...'0123456789.+-*/^()<>=!?:;,[]{}"\'&|~ \n'.split(''),
+      'speed_mps',
+      'max',
+      'min',
+      'import',
+      'evaluate',
+      'e',
+      'pi',
+      'x',
+      'and',
+      'or',
+      'not',
+      'mod',
+      'to',
+    );
     await fc.assert(
-      fc.asyncProperty(fc.array(alphabet, { maxLength: 200 }).map((parts) => parts.join('')), async (text) => {
-        const result = await compileSpeedExpression(text);
-        if (result.kind === 'compiled') {
-          for (const speed_mps of [0, 1, 7.5, 40]) expect(['number', 'notANumber']).toContain(result.evaluate(speed_mps).kind);
-        } else {
-          expect(result.reason.length).toBeGreaterThan(3);
-        }
-      }),
+      fc.asyncProperty(
+        fc.array(alphabet, { maxLength: 200 }).map((parts) => parts.join('')),
+        async (text) => {
+          const result = await compileSpeedExpression(text);
+          if (result.kind === 'compiled') {
+            for (const speed_mps of [0, 1, 7.5, 40]) expect(['number', 'notANumber']).toContain(result.evaluate(speed_mps).kind);
+          } else {
+            expect(result.reason.length).toBeGreaterThan(3);
+          }
+        },
+      ),
       { numRuns: 800, seed: 2019 },
     );
   }, 60_000);

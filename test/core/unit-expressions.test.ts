@@ -66,6 +66,9 @@ describe('readUnitExpression refuses what is not a unit of the quantity, saying 
     expect(await readUnitExpression('knots', 'speed')).toMatchObject({ kind: 'notAUnit', reason: expect.stringContaining('knots') });
     expect(await readUnitExpression('3.6 km/h', 'speed')).toMatchObject({ kind: 'notAUnit', reason: expect.stringContaining('number') });
     expect(await readUnitExpression('  ', 'speed')).toMatchObject({ kind: 'notAUnit' });
-    expect(await readUnitExpression('m/'.repeat(MAXIMUM_UNIT_LENGTH), 'speed')).toMatchObject({ kind: 'notAUnit', reason: expect.stringContaining('characters') });
+    expect(await readUnitExpression('m/'.repeat(MAXIMUM_UNIT_LENGTH), 'speed')).toMatchObject({
+      kind: 'notAUnit',
+      reason: expect.stringContaining('characters'),
+    });
   });
 });

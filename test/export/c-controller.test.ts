@@ -87,7 +87,10 @@ int main(void)
   const csv = Array.from(replay.speed, (speed, k) =>
     Number.isNaN(speed) ? 'start' : [speed, replay.reference[k], replay.measurement[k], replay.feedForwardInput[k]].map((x) => x.toPrecision(17)).join(','),
   ).join('\n');
-  return execFileSync(join(dir, 'step'), { input: `${csv}\n`, encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 }).trim().split('\n').map(Number);
+  return execFileSync(join(dir, 'step'), { input: `${csv}\n`, encoding: 'utf8', maxBuffer: 64 * 1024 * 1024 })
+    .trim()
+    .split('\n')
+    .map(Number);
 }
 
 /** The TypeScript controller equation replayed on the same inputs with a given lookup. */
@@ -101,7 +104,11 @@ function replayTs(schedule: ScheduleFile, replay: Replay, at = scheduleFirmware(
       return;
     }
     const { gains } = at(speed);
-    const out = firmwareStep(gains, settings, state, { reference: replay.reference[k], measurement: replay.measurement[k], feedForwardInput: replay.feedForwardInput[k] });
+    const out = firmwareStep(gains, settings, state, {
+      reference: replay.reference[k],
+      measurement: replay.measurement[k],
+      feedForwardInput: replay.feedForwardInput[k],
+    });
     state = out.state;
     commands.push(out.command);
   });
@@ -115,7 +122,7 @@ const largestDifference = (a: ArrayLike<number>, b: ArrayLike<number>): number =
   return worst;
 };
 
-describe('the header\'s step function compiled with gcc', () => {
+describe("the header's step function compiled with gcc", () => {
   for (const discretisation of ['backward-euler', 'tustin'] as const) {
     for (const antiWindup of ['conditional-integration', 'back-calculation'] as const) {
       it(`${discretisation}, ${antiWindup}: gives the simulated commands within 1e-12 of the largest, through the steering limits and a speed ramp`, () => {
@@ -132,7 +139,7 @@ describe('the header\'s step function compiled with gcc', () => {
     }
   }
 
-  it('fixed point (Q16.16 gains): the integer header leaves the step function to the floating-point header and says so; the controller on the integer lookup\'s gains differs from the double one by the quantisation only', () => {
+  it("fixed point (Q16.16 gains): the integer header leaves the step function to the floating-point header and says so; the controller on the integer lookup's gains differs from the double one by the quantisation only", () => {
     const schedule = baseSchedule;
     const replay = simulatedInputs(schedule);
     const exported = exportC(schedule, { fixedPoint: parseQFormat('16.16') });
@@ -141,7 +148,10 @@ describe('the header\'s step function compiled with gcc', () => {
     const quantisation = exported.quantisation!;
     // The gains the firmware's integer lookup computes (bit for bit, see c-header.test.ts), with the double extras.
     const extrasAt = scheduleExtrasLookup(schedule);
-    const quantisedAt = (speed: number) => ({ gains: { ...quantisation.lookup(speed), ...extrasAt(speed) }, feedForwardLeadTime_s: extrasAt(speed).feedForwardLeadTime_s });
+    const quantisedAt = (speed: number) => ({
+      gains: { ...quantisation.lookup(speed), ...extrasAt(speed) },
+      feedForwardLeadTime_s: extrasAt(speed).feedForwardLeadTime_s,
+    });
     const quantisedTs = replayTs(schedule, replay, quantisedAt);
     const scale = Math.max(...Array.from(replay.command, Math.abs));
     // Quantisation moves the commands, but little (the integer lookup's error bound is checked in c-header.test.ts).

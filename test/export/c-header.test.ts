@@ -125,7 +125,10 @@ int main(void)
 
 /** The gains the C lookup gives at finite speeds (every status must be LOOKUP_OK = 0). */
 function runC(header: string, speeds: readonly number[]): { kp: number; ki: number; kd: number }[] {
-  return runCStatus(header, speeds.map((v) => v.toPrecision(17))).map(({ status, kp, ki, kd }) => {
+  return runCStatus(
+    header,
+    speeds.map((v) => v.toPrecision(17)),
+  ).map(({ status, kp, ki, kd }) => {
     if (status !== 0) throw new Error(`status ${status} at a finite speed`);
     return { kp, ki, kd };
   });
@@ -145,7 +148,8 @@ describe('exportC(schedule)', () => {
       speeds.forEach((speed, i) => {
         const expected = lookup(speed);
         for (const name of ['kp', 'ki', 'kd'] as const) {
-          if (!close(fromC[i][name], expected[name], C_AGREEMENT)) throw new Error(`${name} at ${speed} m/s: C ${fromC[i][name]}, TypeScript ${expected[name]}`);
+          if (!close(fromC[i][name], expected[name], C_AGREEMENT))
+            throw new Error(`${name} at ${speed} m/s: C ${fromC[i][name]}, TypeScript ${expected[name]}`);
         }
       });
       // Exact table values at breakpoints in C as well (docs/domain.md §7).
@@ -163,11 +167,19 @@ describe('exportC(schedule)', () => {
         const expected = lookup(speed);
         const ordered = [expected.setpointWeightProportional, expected.setpointWeightDerivative, expected.feedForward, expected.feedForwardLeadTime_s];
         ordered.forEach((value, j) => {
-          if (!close(fromC[i][j], value, C_AGREEMENT) && Math.abs(fromC[i][j] - value) > 1e-15) throw new Error(`field ${j} at ${speed} m/s: C ${fromC[i][j]}, TypeScript ${value}`);
+          if (!close(fromC[i][j], value, C_AGREEMENT) && Math.abs(fromC[i][j] - value) > 1e-15)
+            throw new Error(`field ${j} at ${speed} m/s: C ${fromC[i][j]}, TypeScript ${value}`);
         });
       });
       // Exact table values at the breakpoints.
-      schedule.breakpoints.forEach((row, k) => expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual([row.setpointWeightProportional, row.setpointWeightDerivative, row.feedForward, row.feedForwardLeadTime_s]));
+      schedule.breakpoints.forEach((row, k) =>
+        expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual([
+          row.setpointWeightProportional,
+          row.setpointWeightDerivative,
+          row.feedForward,
+          row.feedForwardLeadTime_s,
+        ]),
+      );
     }
   });
 
@@ -217,12 +229,16 @@ describe('exportC(schedule)', () => {
       }
       // Exact stored values at the breakpoints.
       schedule.breakpoints.forEach((_, k) =>
-        expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual({ kp: quantisation.integer.gains.kp[k], ki: quantisation.integer.gains.ki[k], kd: quantisation.integer.gains.kd[k] }),
+        expect(fromC[1000 - schedule.breakpoints.length + k]).toEqual({
+          kp: quantisation.integer.gains.kp[k],
+          ki: quantisation.integer.gains.ki[k],
+          kd: quantisation.integer.gains.kd[k],
+        }),
       );
     });
   }
 
-  it('--q-format spellings: Q16.16, q16.16 and 16.16 are one format; auto picks each gain\'s format from its range', () => {
+  it("--q-format spellings: Q16.16, q16.16 and 16.16 are one format; auto picks each gain's format from its range", () => {
     expect(parseFixedPointRequest('Q16.16')).toEqual({ fractionalBits: 16, wordBits: 32 });
     expect(parseFixedPointRequest('q16.16')).toEqual(parseQFormat('16.16'));
     expect(parseFixedPointRequest('Q4.12')).toEqual({ fractionalBits: 12, wordBits: 16 });
@@ -234,7 +250,9 @@ describe('exportC(schedule)', () => {
     for (const name of ['kp', 'ki', 'kd'] as const) {
       // Source: two's complement — an int32 holds −2^31 … 2^31 − 1: the most fractional bits F with max|value|·2^F < 2^31,
       // over the gains and the slope terms h·m the integer lookup stores in the same format.
-      const terms = table.speeds_mps.slice(1).flatMap((speed, k) => [(speed - table.speeds_mps[k]) * slopes[name][k], (speed - table.speeds_mps[k]) * slopes[name][k + 1]]);
+      const terms = table.speeds_mps
+        .slice(1)
+        .flatMap((speed, k) => [(speed - table.speeds_mps[k]) * slopes[name][k], (speed - table.speeds_mps[k]) * slopes[name][k + 1]]);
       const largest = Math.max(...table.gains.map((row) => Math.abs(row[name])), ...terms.map(Math.abs));
       expect(formats[name].wordBits).toBe(32);
       if (largest > 0) expect(largest * 2 ** formats[name].fractionalBits).toBeLessThan(2 ** 31);
@@ -272,7 +290,7 @@ const HOSTILE: readonly string[] = [
   '*/ int injected_plain(void) { return 42; } /*',
   'x */\n#define speedband_schedule_lookup(v, g) 42\n/*',
   'ends in a backslash \\',
-  'trigraphs ??= ??( ??) ??< ??> ??! ??- ??\' ??/',
+  "trigraphs ??= ??( ??) ??< ??> ??! ??- ??' ??/",
   '/* nested opening',
   '\u2028*/ int injected_separator(void) { return 42; } /*',
   'control \u0000 \u001b[31m red \r\n carriage',
@@ -313,7 +331,10 @@ const DOCUMENTED_SYMBOLS = new Set([
   'speedband_schedule_kp_slope',
   'speedband_schedule_ki_slope',
   'speedband_schedule_kd_slope',
-  ...['setpoint_weight_p', 'setpoint_weight_d', 'feed_forward', 'feed_forward_lead_time_s'].flatMap((name) => [`speedband_schedule_${name}`, `speedband_schedule_${name}_slope`]),
+  ...['setpoint_weight_p', 'setpoint_weight_d', 'feed_forward', 'feed_forward_lead_time_s'].flatMap((name) => [
+    `speedband_schedule_${name}`,
+    `speedband_schedule_${name}_slope`,
+  ]),
   'speedband_schedule_segment',
   'speedband_schedule_lookup',
   'speedband_schedule_controller_init',
@@ -321,11 +342,26 @@ const DOCUMENTED_SYMBOLS = new Set([
   'speedband_schedule_step',
 ]);
 const DOCUMENTED_MACROS = new Set(
-  ['H', 'BREAKPOINTS', 'SAMPLE_TIME_S', 'DERIVATIVE_FILTER', 'INTEGRATOR_CLAMP_RAD', 'COMMAND_LIMIT_RAD', 'LOW_SPEED_FLOOR_MPS', 'CHECKSUM', 'LOOKUP_OK', 'LOOKUP_FALLBACK', 'LOOKUP_NO_GAINS', 'FALLBACK_BREAKPOINT',
+  [
+    'H',
+    'BREAKPOINTS',
+    'SAMPLE_TIME_S',
+    'DERIVATIVE_FILTER',
+    'INTEGRATOR_CLAMP_RAD',
+    'COMMAND_LIMIT_RAD',
+    'LOW_SPEED_FLOOR_MPS',
+    'CHECKSUM',
+    'LOOKUP_OK',
+    'LOOKUP_FALLBACK',
+    'LOOKUP_NO_GAINS',
+    'FALLBACK_BREAKPOINT',
     // Fixed-point headers:
-    'SPEED_FRACTIONAL_BITS', 'KP_FRACTIONAL_BITS', 'KI_FRACTIONAL_BITS', 'KD_FRACTIONAL_BITS', 'LOW_SPEED_FLOOR_Q16'].map(
-    (name) => `SPEEDBAND_SCHEDULE_${name}`,
-  ),
+    'SPEED_FRACTIONAL_BITS',
+    'KP_FRACTIONAL_BITS',
+    'KI_FRACTIONAL_BITS',
+    'KD_FRACTIONAL_BITS',
+    'LOW_SPEED_FLOOR_Q16',
+  ].map((name) => `SPEEDBAND_SCHEDULE_${name}`),
 );
 
 describe('exportC with hostile text in every free-text field', () => {
@@ -336,7 +372,10 @@ describe('exportC with hostile text in every free-text field', () => {
       expect(/^[\x09\x0a\x20-\x7e]*$/.test(text)).toBe(true);
       expect(text).not.toMatch(/\?\?|\\/);
       writeFileSync(join(dir, 'schedule.h'), text);
-      writeFileSync(join(dir, 'main.c'), `#include "schedule.h"\nint main(void)\n{\n  speedband_schedule_gains g;\n  return speedband_schedule_lookup(${fixedPoint === undefined ? '5.0' : '327680'}, &g);\n}\n`);
+      writeFileSync(
+        join(dir, 'main.c'),
+        `#include "schedule.h"\nint main(void)\n{\n  speedband_schedule_gains g;\n  return speedband_schedule_lookup(${fixedPoint === undefined ? '5.0' : '327680'}, &g);\n}\n`,
+      );
       writeFileSync(join(dir, 'empty.c'), '#include <stdint.h>\nint main(void)\n{\n  return 0;\n}\n');
       // Compiles with every warning an error; -fkeep-inline-functions emits every function the header defines.
       execFileSync('gcc', [...GCC_FLAGS, '-fkeep-inline-functions', '-c', '-o', join(dir, 'main.o'), join(dir, 'main.c')], { cwd: dir });
@@ -351,7 +390,11 @@ describe('exportC with hostile text in every free-text field', () => {
         expect(type, name).toMatch(/^[a-z]$/); // local (static) only: nothing visible to other translation units
       }
       const macros = (file: string): Set<string> =>
-        new Set(execFileSync('gcc', ['-std=c99', '-E', '-dM', join(dir, file)], { encoding: 'utf8' }).split('\n').map((line) => line.split(/[\s(]/)[1]));
+        new Set(
+          execFileSync('gcc', ['-std=c99', '-E', '-dM', join(dir, file)], { encoding: 'utf8' })
+            .split('\n')
+            .map((line) => line.split(/[\s(]/)[1]),
+        );
       const before = macros('empty.c');
       const added = [...macros('main.c')].filter((name) => !before.has(name));
       for (const name of added) expect(DOCUMENTED_MACROS.has(name), name).toBe(true);
@@ -395,7 +438,9 @@ describe('the C lookup at a NaN or infinite speed', () => {
     // A loop on which constant gains fail everywhere except at their own breakpoint: no fallback.
     const strict = (speed_mps: number, gains: PidGains) => {
       const own = scheduleLookup(schedule)(speed_mps);
-      return gains.kp === own.kp ? integratorLoopMargins(speed_mps, gains) : { ...integratorLoopMargins(speed_mps, gains), stable: false, verdict: 'unstable' as const };
+      return gains.kp === own.kp
+        ? integratorLoopMargins(speed_mps, gains)
+        : { ...integratorLoopMargins(speed_mps, gains), stable: false, verdict: 'unstable' as const };
     };
     expect(findFallbackGains(schedule, scheduleTable(schedule), strict)).toBeNull();
     const { text } = exportC(schedule);
@@ -403,7 +448,10 @@ describe('the C lookup at a NaN or infinite speed', () => {
     for (const result of runCStatus(text, ['nan', 'inf', '-inf'])) expect(result).toEqual({ status: 2, kp: -1, ki: -1, kd: -1 });
     const dir = mkdtempSync(join(tmpdir(), 'speedband-c-null-'));
     writeFileSync(join(dir, 'schedule.h'), text);
-    writeFileSync(join(dir, 'main.c'), '#include <stdio.h>\n#include "schedule.h"\nint main(void)\n{\n  printf("%d", speedband_schedule_lookup(5.0, 0));\n  return 0;\n}\n');
+    writeFileSync(
+      join(dir, 'main.c'),
+      '#include <stdio.h>\n#include "schedule.h"\nint main(void)\n{\n  printf("%d", speedband_schedule_lookup(5.0, 0));\n  return 0;\n}\n',
+    );
     execFileSync('gcc', [...GCC_FLAGS, '-o', join(dir, 'null'), join(dir, 'main.c')], { cwd: dir });
     expect(execFileSync(join(dir, 'null'), { encoding: 'utf8' })).toBe('2');
   });

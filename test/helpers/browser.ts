@@ -11,7 +11,9 @@ export const CHROMIUM = process.env.SPEEDBAND_CHROMIUM ?? '/usr/bin/chromium';
  */
 export async function launchChromium(): Promise<Browser> {
   if (!existsSync(CHROMIUM)) {
-    throw new Error(`the report's browser tests need Chromium, not found at ${CHROMIUM}: install Debian's package (apt-get install -y chromium — CI's .ci/run does) or set SPEEDBAND_CHROMIUM to its path`);
+    throw new Error(
+      `the report's browser tests need Chromium, not found at ${CHROMIUM}: install Debian's package (apt-get install -y chromium — CI's .ci/run does) or set SPEEDBAND_CHROMIUM to its path`,
+    );
   }
   return chromium.launch({
     executablePath: CHROMIUM,

@@ -27,7 +27,8 @@ export function decodePng(png: Uint8Array): Image {
       width = chunk.readUInt32BE(0);
       height = chunk.readUInt32BE(4);
       const [depth, colour, interlace] = [chunk[8], chunk[9], chunk[12]];
-      if (depth !== 8 || (colour !== 2 && colour !== 6) || interlace !== 0) throw new Error(`PNG not supported here: bit depth ${depth}, colour type ${colour}, interlace ${interlace}`);
+      if (depth !== 8 || (colour !== 2 && colour !== 6) || interlace !== 0)
+        throw new Error(`PNG not supported here: bit depth ${depth}, colour type ${colour}, interlace ${interlace}`);
       channels = colour === 6 ? 4 : 3;
     } else if (type === 'IDAT') data.push(chunk);
     else if (type === 'IEND') break;

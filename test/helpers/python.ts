@@ -80,7 +80,10 @@ function startServer(): Server {
   const requestsPath = join(folder, 'requests');
   const answersPath = join(folder, 'answers');
   execFileSync('mkfifo', [requestsPath, answersPath]);
-  const child: ChildProcess = spawn(PYTHON, ['-c', SERVER, requestsPath, answersPath], { stdio: ['ignore', 'inherit', 'inherit'], env: { ...process.env, ...SINGLE_THREAD } });
+  const child: ChildProcess = spawn(PYTHON, ['-c', SERVER, requestsPath, answersPath], {
+    stdio: ['ignore', 'inherit', 'inherit'],
+    env: { ...process.env, ...SINGLE_THREAD },
+  });
   child.unref();
   // Opening a pipe blocks until the other end opens it: requests first, as the interpreter does.
   const requests = openSync(requestsPath, 'w');

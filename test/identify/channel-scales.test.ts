@@ -17,7 +17,11 @@ const KPH_FACTOR = 3.6;
 const MPH_FACTOR = 1 / 0.44704;
 const DEGREES_PER_RADIAN = 180 / Math.PI;
 
-function stepsOf(vehicleFolder: string, logs: readonly string[], columns?: ColumnMap): { steps: StepTest[]; channels: readonly LogChannelSource[]; wheelbase_m: number; steeringRatio: number } {
+function stepsOf(
+  vehicleFolder: string,
+  logs: readonly string[],
+  columns?: ColumnMap,
+): { steps: StepTest[]; channels: readonly LogChannelSource[]; wheelbase_m: number; steeringRatio: number } {
   const vehicle = loadVehicle(vehicleFolder);
   const steps: StepTest[] = [];
   let channels: readonly LogChannelSource[] = [];
@@ -29,7 +33,11 @@ function stepsOf(vehicleFolder: string, logs: readonly string[], columns?: Colum
   return { steps, channels, wheelbase_m: vehicle.cgToFrontAxle_m + vehicle.cgToRearAxle_m, steeringRatio: vehicle.steeringRatio };
 }
 
-const logsOf = (folder: string): string[] => readdirSync(join(folder, 'logs')).filter((name) => name.endsWith('.csv')).sort().map((name) => join(folder, 'logs', name));
+const logsOf = (folder: string): string[] =>
+  readdirSync(join(folder, 'logs'))
+    .filter((name) => name.endsWith('.csv'))
+    .sort()
+    .map((name) => join(folder, 'logs', name));
 
 describe('channelObservations(steps, L): ratios the kinematics fix at 1', () => {
   it.each(['parcel-van', 'parcel-van-loaded', 'vineyard-sprayer', 'sidewalk-robot'])('on the %s demo logs each is within 3 % of 1', (name) => {
@@ -56,7 +64,8 @@ describe('channelObservations(steps, L): ratios the kinematics fix at 1', () => 
 
 describe('judgeChannelScales(observations, sources, steering ratio): the channel a factor points to, and its unit', () => {
   const none: ChannelObservations = { kinematicCommand: null, kinematicMeasured: null, steadyTurning: null, actuatorGain: null, speedCount: 10 };
-  const judge = (observed: Partial<ChannelObservations>, sources: readonly LogChannelSource[] = []) => judgeChannelScales({ ...none, ...observed }, sources, 18);
+  const judge = (observed: Partial<ChannelObservations>, sources: readonly LogChannelSource[] = []) =>
+    judgeChannelScales({ ...none, ...observed }, sources, 18);
   const source = (channel: string, unit: string, toSi: number): LogChannelSource => ({ channel, header: channel, columnNumber: 1, unit, toSi });
 
   it('consistent within the tolerance: nothing found', () => {
@@ -68,11 +77,15 @@ describe('judgeChannelScales(observations, sources, steering ratio): the channel
       kind: 'scaled',
       findings: [{ channel: 'speed_mps', likelyUnit: 'mph' }],
     });
-    expect(judge({ kinematicCommand: 18, kinematicMeasured: 1, steadyTurning: 1, actuatorGain: 1 / 18 }, [source('steer_cmd_rad', 'deg', Math.PI / 180)])).toMatchObject({
+    expect(
+      judge({ kinematicCommand: 18, kinematicMeasured: 1, steadyTurning: 1, actuatorGain: 1 / 18 }, [source('steer_cmd_rad', 'deg', Math.PI / 180)]),
+    ).toMatchObject({
       kind: 'scaled',
       findings: [{ channel: 'steer_cmd_rad', likelyUnit: 'steering-wheel-deg' }],
     });
-    expect(judge({ kinematicCommand: 1 / DEGREES_PER_RADIAN, kinematicMeasured: 1 / DEGREES_PER_RADIAN, steadyTurning: DEGREES_PER_RADIAN, actuatorGain: 1 })).toMatchObject({
+    expect(
+      judge({ kinematicCommand: 1 / DEGREES_PER_RADIAN, kinematicMeasured: 1 / DEGREES_PER_RADIAN, steadyTurning: DEGREES_PER_RADIAN, actuatorGain: 1 }),
+    ).toMatchObject({
       kind: 'scaled',
       findings: [{ channel: 'yaw_rate_radps', likelyUnit: 'deg/s' }],
     });
@@ -93,7 +106,9 @@ describe('judgeChannelScales(observations, sources, steering ratio): the channel
   it('a unit declared wrongly is corrected from the declared one: km/h data declared mph is 1.609× too high, and km/h is the fix', async () => {
     const declared = (await resolveColumnUnits({ speed_mps: { unit: 'mph' } })).speed_mps?.conversion?.toSi as number;
     const factor = declared * KPH_FACTOR;
-    expect(judge({ kinematicCommand: factor, kinematicMeasured: factor, steadyTurning: factor, actuatorGain: 1 }, [source('speed_mps', 'mph', declared)])).toMatchObject({
+    expect(
+      judge({ kinematicCommand: factor, kinematicMeasured: factor, steadyTurning: factor, actuatorGain: 1 }, [source('speed_mps', 'mph', declared)]),
+    ).toMatchObject({
       kind: 'scaled',
       findings: [{ channel: 'speed_mps', likelyUnit: 'km/h' }],
     });

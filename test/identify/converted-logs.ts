@@ -12,7 +12,9 @@ export function convertLogs(
 ): string[] {
   mkdirSync(to, { recursive: true });
   const written: string[] = [];
-  for (const name of readdirSync(from).filter((file) => file.endsWith('.csv') && (change.only?.test(file) ?? true)).sort()) {
+  for (const name of readdirSync(from)
+    .filter((file) => file.endsWith('.csv') && (change.only?.test(file) ?? true))
+    .sort()) {
     const [header, ...rows] = readFileSync(join(from, name), 'utf8').trimEnd().split('\n');
     const columns = header.split(',');
     const keep = columns.map((column) => !(change.drop ?? []).includes(column));

@@ -191,12 +191,18 @@ describe('fitFopdt on a held command: minima at the sample kinks', () => {
   it.each(cases)('$vehicle $log step $step: the fit reaches the brute-force minimum of the sum of squares (within 1e−6)', ({ vehicle, log, step }) => {
     const folder = fileURLToPath(new URL(`../../vehicles/${vehicle}/`, import.meta.url));
     const steering = loadVehicle(join(folder, 'vehicle.json'));
-    const found = findStepTests(readSteerLog(join(folder, 'logs', log), { steeringRatio: steering.steeringRatio }), { maxSteerAngle_rad: steering.maxSteerAngle_rad });
+    const found = findStepTests(readSteerLog(join(folder, 'logs', log), { steeringRatio: steering.steeringRatio }), {
+      maxSteerAngle_rad: steering.maxSteerAngle_rad,
+    });
     const signals = yawSignals(truncateStep(found.steps[step], IDENTIFY_DEFAULTS.maxHold_s));
     const fit = fitFopdt(signals, { ...FOPDT_FIT_DEFAULTS, hold: 'zeroOrder', biasMode: 'fitted' });
     expect(fit.fit.stopReason).toBe('converged');
     const ssr = (tau: number, theta: number): number =>
-      projectGainAndBias(signals.output, simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: 1, timeConstant_s: tau, deadTime_s: theta, hold: 'zeroOrder' }), null).ssr;
+      projectGainAndBias(
+        signals.output,
+        simulateFopdt({ time_s: signals.time_s, input: signals.input, gain: 1, timeConstant_s: tau, deadTime_s: theta, hold: 'zeroOrder' }),
+        null,
+      ).ssr;
     let bruteForce = Infinity;
     for (let k = -120; k <= 120; k++) {
       const theta = fit.model.deadTime_s + k * 0.00025;

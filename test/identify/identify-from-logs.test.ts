@@ -94,9 +94,15 @@ describe('identifyFromLogs on logs from the exact simulator (parcel van, seeded 
 describe('fitSingleTrack without nominal stiffnesses in the vehicle file', () => {
   it('starts from the understeer gradient of the per-speed gains and still recovers Cf and Cr within 5 %', () => {
     const { frontCorneringStiffness_NPerRad: _f, rearCorneringStiffness_NPerRad: _r, ...withoutStiffness } = loadVehicle(VEHICLE);
-    const csv = readdirSync(join(folder, 'noisy')).filter((name) => name.endsWith('.csv')).sort().map((name) => join(folder, 'noisy', name));
+    const csv = readdirSync(join(folder, 'noisy'))
+      .filter((name) => name.endsWith('.csv'))
+      .sort()
+      .map((name) => join(folder, 'noisy', name));
     const steps = csv.flatMap((file) => findStepTests(readSteerLog(file)).steps);
-    const speeds = noisy.speeds.map((s) => ({ speed_mps: s.speed_mps, model: { kind: 'fopdt' as const, gain: s.fopdt.gain, timeConstant_s: s.fopdt.timeConstant_s, deadTime_s: s.fopdt.deadTime_s } }));
+    const speeds = noisy.speeds.map((s) => ({
+      speed_mps: s.speed_mps,
+      model: { kind: 'fopdt' as const, gain: s.fopdt.gain, timeConstant_s: s.fopdt.timeConstant_s, deadTime_s: s.fopdt.deadTime_s },
+    }));
     const fit = fitSingleTrack({ vehicle: withoutStiffness, steps, speeds: speeds as unknown as SpeedModel[], actuator: null, mismatchWarning_pct: 10 });
     expect('reasonCode' in fit).toBe(false);
     const st = fit as SingleTrackFit;
@@ -110,7 +116,10 @@ describe('fitSingleTrack with a wrong vehicle file', () => {
   it('warns, per speed, where the joint model fails to explain the steps (mass a quarter, yaw inertia four times the true values)', () => {
     const vehicle = loadVehicle(VEHICLE);
     const wrong = { ...vehicle, mass_kg: vehicle.mass_kg / 4, yawInertia_kgm2: 4 * vehicle.yawInertia_kgm2 };
-    const csv = readdirSync(join(folder, 'noisy')).filter((name) => name.endsWith('.csv')).sort().map((name) => join(folder, 'noisy', name));
+    const csv = readdirSync(join(folder, 'noisy'))
+      .filter((name) => name.endsWith('.csv'))
+      .sort()
+      .map((name) => join(folder, 'noisy', name));
     const steps = csv.flatMap((file) => findStepTests(readSteerLog(file)).steps);
     const speeds = noisy.speeds.map((s) => {
       const tests = noisy.tests.filter((t) => s.steps.some((k) => k.file === t.file && k.stepIndex === t.stepIndex));

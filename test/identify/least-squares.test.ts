@@ -46,13 +46,17 @@ describe('fitLeastSquares and the ml-levenberg-marquardt behaviours it handles',
   it('library: the default finite-difference step is an absolute 0.1, ten times a parameter of size 0.01; the adapter scales the step to the parameter', () => {
     const data = decay(0.01); // exact data, time constant 0.01 s
     const probes: number[] = [];
-    const library = levenbergMarquardt({ x: index, y: Array.from(data) }, (p) => {
-      probes.push(p[0]);
-      return (i) => Math.exp(-x[i] / Math.abs(p[0]));
-    }, {
-      initialValues: [0.02],
-      maxIterations: 50,
-    });
+    const library = levenbergMarquardt(
+      { x: index, y: Array.from(data) },
+      (p) => {
+        probes.push(p[0]);
+        return (i) => Math.exp(-x[i] / Math.abs(p[0]));
+      },
+      {
+        initialValues: [0.02],
+        maxIterations: 50,
+      },
+    );
     expect(probes[2]).toBeCloseTo(0.12, 12); // first derivative probe: 0.02 + 0.1
     // on exact data the secant Jacobian still leaves an error 1e4 times the adapter's
     expect(Math.abs(library.parameterValues[0] - 0.01)).toBeGreaterThan(1e-7);
@@ -63,10 +67,14 @@ describe('fitLeastSquares and the ml-levenberg-marquardt behaviours it handles',
 
   it('library: a gradientDifference array of the wrong length is silently filled with its first element', () => {
     const probes: number[][] = [];
-    levenbergMarquardt({ x: [0, 1, 2], y: [1, 3, 5] }, (p) => {
-      probes.push(p.slice());
-      return (t) => p[0] + p[1] * t;
-    }, { initialValues: [0, 0], gradientDifference: [0.5], maxIterations: 1, damping: 1e-2 });
+    levenbergMarquardt(
+      { x: [0, 1, 2], y: [1, 3, 5] },
+      (p) => {
+        probes.push(p.slice());
+        return (t) => p[0] + p[1] * t;
+      },
+      { initialValues: [0, 0], gradientDifference: [0.5], maxIterations: 1, damping: 1e-2 },
+    );
     // calls: initial error, step evaluation, probe of parameter 0, probe of parameter 1 —
     // parameter 1 moved by 0.5, the first element, not a step of its own
     expect(probes[2]).toEqual([0.5, 0]);
@@ -132,15 +140,24 @@ describe('fitLeastSquares and the ml-levenberg-marquardt behaviours it handles',
   it('library: bounds are clamped after each step but derivative probes evaluate the model outside them; the FOPDT model stays finite there', () => {
     const probed: number[] = [];
     const t = [0, 1, 2, 3];
-    const clamped = levenbergMarquardt({ x: t, y: t.map((v) => -v) }, (p) => {
-      probed.push(p[0]);
-      return (v) => p[0] * v;
-    }, { initialValues: [0.5], minValues: [0], maxValues: [1], gradientDifference: [0.01], centralDifference: true, maxIterations: 5, damping: 1e-2 });
+    const clamped = levenbergMarquardt(
+      { x: t, y: t.map((v) => -v) },
+      (p) => {
+        probed.push(p[0]);
+        return (v) => p[0] * v;
+      },
+      { initialValues: [0.5], minValues: [0], maxValues: [1], gradientDifference: [0.01], centralDifference: true, maxIterations: 5, damping: 1e-2 },
+    );
     expect(clamped.parameterValues[0]).toBe(0); // the step towards −1 is clamped to the bound
     expect(Math.min(...probed)).toBeLessThan(0); // the optimum −1 is clamped to 0, and the probe at 0 − 0.01 is outside
     const time_s = Float64Array.from({ length: 50 }, (_, i) => i * 0.01);
     const input = time_s.map((v) => (v > 0.1 ? 1 : 0));
-    for (const [tau, theta] of [[0, 0.05], [-0.01, 0.05], [0.1, -0.02], [-1e-7, -1e-7]]) {
+    for (const [tau, theta] of [
+      [0, 0.05],
+      [-0.01, 0.05],
+      [0.1, -0.02],
+      [-1e-7, -1e-7],
+    ]) {
       expect(simulateFopdt({ time_s, input, gain: 1, timeConstant_s: tau, deadTime_s: theta, hold: 'zeroOrder' }).every(Number.isFinite)).toBe(true);
     }
   });
@@ -148,8 +165,7 @@ describe('fitLeastSquares and the ml-levenberg-marquardt behaviours it handles',
   it('library: weights enter the error as r²·w² but the step as r²/w², so the adapter passes weights 1 and scales residuals itself', () => {
     const t = [0, 1, 2];
     const y = [1, 1, 1];
-    const run = (weights: number) =>
-      levenbergMarquardt({ x: t, y }, (p) => () => p[0], { initialValues: [0], weights, maxIterations: 0 }).parameterError;
+    const run = (weights: number) => levenbergMarquardt({ x: t, y }, (p) => () => p[0], { initialValues: [0], weights, maxIterations: 0 }).parameterError;
     expect(run(1)).toBeCloseTo(3, 12); // Σ r² with r = 1
     expect(run(2)).toBeCloseTo(12, 12); // r²·w², not r²/w² = 0.75
   });

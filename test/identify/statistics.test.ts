@@ -54,7 +54,13 @@ def model(t, K, tau, theta, b):
 p, cov = curve_fit(model, t, y, p0=[2, 0.3, 0.1, 0])
 print(json.dumps(list(np.sqrt(np.diag(cov)))))
 `,
-      { t: Array.from(signals.time_s), y: Array.from(signals.output), A: RAMP_STEP.amplitude, Tr: RAMP_STEP.ramp_s, t1: RAMP_STEP.preStepSamples * RAMP_STEP.samplePeriod_s },
+      {
+        t: Array.from(signals.time_s),
+        y: Array.from(signals.output),
+        A: RAMP_STEP.amplitude,
+        Tr: RAMP_STEP.ramp_s,
+        t1: RAMP_STEP.preStepSamples * RAMP_STEP.samplePeriod_s,
+      },
     );
     // Our errors are inflated by n/n_eff when residuals are autocorrelated; with white noise that factor is ≈ 1.
     for (let i = 0; i < 4; i++) expect(Math.abs(fit.fit.uncertainty.standardErrors[i] / reference[i] - 1)).toBeLessThan(0.1);

@@ -58,7 +58,9 @@ export function rampStepSignals(overrides: Partial<RampStep> = {}): StepSignals 
 }
 
 /** A segmented-step record around synthetic ramp-step signals (as src/log/segment.ts would give). */
-export function rampStepTest(overrides: Partial<RampStep> & { readonly file?: string; readonly stepIndex?: number; readonly speed_mps?: number } = {}): import('../../src/log/types.js').StepTest {
+export function rampStepTest(
+  overrides: Partial<RampStep> & { readonly file?: string; readonly stepIndex?: number; readonly speed_mps?: number } = {},
+): import('../../src/log/types.js').StepTest {
   const signals = rampStepSignals(overrides);
   const amplitude = overrides.amplitude ?? RAMP_STEP.amplitude;
   return {

@@ -47,7 +47,9 @@ describe('twoPointAgreesWithFit(twoPoint, fit)', () => {
 describe('tallyTwoPointAgreement(tests)', () => {
   it('counts disagreeing estimates and steps without one; records written before the flag count as neither', () => {
     const step = (twoPoint: { agreesWithFit?: boolean } | null) => ({ fopdt: { twoPoint } });
-    expect(tallyTwoPointAgreement([step({ agreesWithFit: true }), step({ agreesWithFit: false }), step({ agreesWithFit: false }), step(null), step({})])).toEqual({
+    expect(
+      tallyTwoPointAgreement([step({ agreesWithFit: true }), step({ agreesWithFit: false }), step({ agreesWithFit: false }), step(null), step({})]),
+    ).toEqual({
       steps: 5,
       disagreeing: 2,
       withoutEstimate: 1,

@@ -46,12 +46,18 @@ describe('resolveColumnUnit(channel, unit) takes any unit of the channel quantit
 
   it('"g" for speed_mps says it is an acceleration and that mathjs reads it as the gram; mathjs units of another quantity are named too', async () => {
     await expect(resolveColumnUnit('speed_mps', 'g')).rejects.toMatchObject({ code: 'log.unitMismatch', message: expect.stringContaining('gram') });
-    await expect(resolveColumnUnit('yaw_rate_radps', 'km/h')).rejects.toMatchObject({ message: expect.stringMatching(/"km\/h" is a speed; yaw_rate_radps .* needs an angular rate/) });
-    await expect(resolveColumnUnit('time_s', 'steering-wheel-deg')).rejects.toMatchObject({ message: expect.stringContaining('is a steering-wheel angle; time_s') });
+    await expect(resolveColumnUnit('yaw_rate_radps', 'km/h')).rejects.toMatchObject({
+      message: expect.stringMatching(/"km\/h" is a speed; yaw_rate_radps .* needs an angular rate/),
+    });
+    await expect(resolveColumnUnit('time_s', 'steering-wheel-deg')).rejects.toMatchObject({
+      message: expect.stringContaining('is a steering-wheel angle; time_s'),
+    });
   });
 
   it('a name mathjs does not know → log.unknownUnit with the origin given (profile file and JSON path)', async () => {
-    const error = await resolveColumnUnit('speed_mps', 'furlong/fortnight!', { location: { file: 'p.json', jsonPath: '/columns/speed_mps/unit' } }).catch((caught: unknown) => caught);
+    const error = await resolveColumnUnit('speed_mps', 'furlong/fortnight!', { location: { file: 'p.json', jsonPath: '/columns/speed_mps/unit' } }).catch(
+      (caught: unknown) => caught,
+    );
     expect(error).toMatchObject({ code: 'log.unknownUnit', location: { file: 'p.json', jsonPath: '/columns/speed_mps/unit' } });
   });
 });

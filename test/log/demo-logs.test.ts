@@ -44,7 +44,14 @@ describe('findStepTests on every committed demo log', () => {
   it('inspectLog of a parcel-van log reports the six channels with the default columns', () => {
     const log = readSteerLog(join(VEHICLES, 'parcel-van', 'logs', generateTestLog(loadVehicle(join(VEHICLES, 'parcel-van')), 10, { seed: 101 }).fileName));
     const inspection = inspectLog(log);
-    expect(inspection.channels.map((channel) => channel.channel)).toEqual(['time_s', 'speed_mps', 'steer_cmd_rad', 'yaw_rate_radps', 'steer_angle_rad', 'lat_accel_mps2']);
+    expect(inspection.channels.map((channel) => channel.channel)).toEqual([
+      'time_s',
+      'speed_mps',
+      'steer_cmd_rad',
+      'yaw_rate_radps',
+      'steer_angle_rad',
+      'lat_accel_mps2',
+    ]);
     expect(inspection.sampleRate_Hz).toBeCloseTo(50, 6); // the demo logs are written at 50 Hz (vehicles/*/logs/README.md)
     expect(inspection.warnings).toEqual([]);
   });

@@ -42,12 +42,10 @@ describe('parseSteerLog on random input (fast-check)', () => {
 
   it('random numeric tables (any doubles, any column order and delimiter) give a SteerLog or a SpeedbandError, and a SteerLog keeps every row', () => {
     const required = ['time_s', 'speed_mps', 'steer_cmd_rad', 'yaw_rate_radps'];
-    const columnSets = fc
-      .tuple(fc.subarray(['steer_angle_rad', 'lat_accel_mps2', 'extra']), fc.boolean())
-      .chain(([optional, dropOne]) => {
-        const names = [...(dropOne ? required.slice(1) : required), ...optional];
-        return fc.shuffledSubarray(names, { minLength: names.length, maxLength: names.length });
-      });
+    const columnSets = fc.tuple(fc.subarray(['steer_angle_rad', 'lat_accel_mps2', 'extra']), fc.boolean()).chain(([optional, dropOne]) => {
+      const names = [...(dropOne ? required.slice(1) : required), ...optional];
+      return fc.shuffledSubarray(names, { minLength: names.length, maxLength: names.length });
+    });
     // Mostly plausible values so that many tables are valid; sometimes anything (NaN, ±Infinity, huge, negative).
     const value = fc.oneof(
       { arbitrary: fc.double({ min: 0, max: 1, noNaN: true }), weight: 30 },

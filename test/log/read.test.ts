@@ -91,7 +91,10 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
     const profilePath = join(folder, 'logger.json');
     writeFileSync(
       profilePath,
-      JSON.stringify({ description: 'test logger', columns: { time_s: { from: 't', unit: 'ms' }, speed_mps: { from: 'v', unit: 'km/h' }, steer_cmd_rad: { from: 'SWA', unit: 'steering-wheel-deg' } } }),
+      JSON.stringify({
+        description: 'test logger',
+        columns: { time_s: { from: 't', unit: 'ms' }, speed_mps: { from: 'v', unit: 'km/h' }, steer_cmd_rad: { from: 'SWA', unit: 'steering-wheel-deg' } },
+      }),
     );
     const logPath = join(folder, 'log.csv');
     writeFileSync(logPath, 't;v;SWA;yaw_rate_radps\n0;72;320;0.1\n20;72;320;0.1\n');
@@ -136,10 +139,30 @@ describe('parseSteerLog(text, file) rejects malformed input with a typed error n
   const cases: readonly { name: string; text: string; code: string; line: number; column?: RegExp; message?: RegExp; options?: object }[] = [
     { name: 'an empty file', text: '', code: 'log.empty', line: 0 },
     { name: 'a header-only file', text: HEADER + '\n', code: 'log.headerOnly', line: 1 },
-    { name: 'a missing column, with "did you mean"', text: ['time_s,speed_mps,steer_cmd_rad,yawrate_radps', ROWS[0], ROWS[1]].join('\n'), code: 'log.missingColumn', line: 1, message: /did you mean "yawrate_radps"/ },
-    { name: 'a non-numeric cell', text: [HEADER, ROWS[0], '0.01,10,abc,0'].join('\n'), code: 'log.nonNumeric', line: 3, column: /column 3 \(steer_cmd_rad\)/, message: /"abc"/ },
+    {
+      name: 'a missing column, with "did you mean"',
+      text: ['time_s,speed_mps,steer_cmd_rad,yawrate_radps', ROWS[0], ROWS[1]].join('\n'),
+      code: 'log.missingColumn',
+      line: 1,
+      message: /did you mean "yawrate_radps"/,
+    },
+    {
+      name: 'a non-numeric cell',
+      text: [HEADER, ROWS[0], '0.01,10,abc,0'].join('\n'),
+      code: 'log.nonNumeric',
+      line: 3,
+      column: /column 3 \(steer_cmd_rad\)/,
+      message: /"abc"/,
+    },
     { name: 'a hexadecimal cell', text: [HEADER, ROWS[0], '0.01,0x10,0,0'].join('\n'), code: 'log.nonNumeric', line: 3, column: /column 2 \(speed_mps\)/ },
-    { name: 'a decimal comma', text: ['time_s;speed_mps;steer_cmd_rad;yaw_rate_radps', '0;10;0;0', '0,01;10;0;0'].join('\n'), code: 'log.nonNumeric', line: 3, column: /column 1 \(time_s\)/, message: /decimal point/ },
+    {
+      name: 'a decimal comma',
+      text: ['time_s;speed_mps;steer_cmd_rad;yaw_rate_radps', '0;10;0;0', '0,01;10;0;0'].join('\n'),
+      code: 'log.nonNumeric',
+      line: 3,
+      column: /column 1 \(time_s\)/,
+      message: /decimal point/,
+    },
     { name: 'NaN', text: [HEADER, ROWS[0], '0.01,10,0,NaN'].join('\n'), code: 'log.nonFinite', line: 3, column: /column 4 \(yaw_rate_radps\)/ },
     { name: 'Infinity', text: [HEADER, ROWS[0], '0.01,Infinity,0,0'].join('\n'), code: 'log.nonFinite', line: 3, column: /column 2 \(speed_mps\)/ },
     { name: 'an overflowing number', text: [HEADER, ROWS[0], '0.01,10,0,1e999'].join('\n'), code: 'log.nonFinite', line: 3, column: /column 4/ },
@@ -154,13 +177,53 @@ describe('parseSteerLog(text, file) rejects malformed input with a typed error n
       column: /column 1 \(time_s\)/,
       message: /time_s must increase: 12\.40 then 12\.39 at line 4 — sort the log or split it/,
     },
-    { name: 'a duplicate timestamp', text: [HEADER, ROWS[0], ROWS[1], '0.01,10,0,0'].join('\n'), code: 'log.duplicateTime', line: 4, column: /column 1 \(time_s\)/, message: /lines 3 and 4/ },
-    { name: 'a steer command in degrees in a radian column (|steer| > π/2)', text: [HEADER, ROWS[0], '0.01,10,5.0,0'].join('\n'), code: 'log.implausibleValue', line: 3, column: /column 3 \(steer_cmd_rad\)/, message: /probably degrees/ },
-    { name: 'a speed above 100 m/s', text: [HEADER, ROWS[0], '0.01,130,0,0'].join('\n'), code: 'log.implausibleValue', line: 3, column: /column 2 \(speed_mps\)/, message: /km\/h/ },
+    {
+      name: 'a duplicate timestamp',
+      text: [HEADER, ROWS[0], ROWS[1], '0.01,10,0,0'].join('\n'),
+      code: 'log.duplicateTime',
+      line: 4,
+      column: /column 1 \(time_s\)/,
+      message: /lines 3 and 4/,
+    },
+    {
+      name: 'a steer command in degrees in a radian column (|steer| > π/2)',
+      text: [HEADER, ROWS[0], '0.01,10,5.0,0'].join('\n'),
+      code: 'log.implausibleValue',
+      line: 3,
+      column: /column 3 \(steer_cmd_rad\)/,
+      message: /probably degrees/,
+    },
+    {
+      name: 'a speed above 100 m/s',
+      text: [HEADER, ROWS[0], '0.01,130,0,0'].join('\n'),
+      code: 'log.implausibleValue',
+      line: 3,
+      column: /column 2 \(speed_mps\)/,
+      message: /km\/h/,
+    },
     { name: 'a negative speed', text: [HEADER, ROWS[0], '0.01,-3,0,0'].join('\n'), code: 'log.implausibleValue', line: 3, column: /column 2 \(speed_mps\)/ },
-    { name: 'a yaw rate above 5 rad/s', text: [HEADER, ROWS[0], '0.01,10,0,30'].join('\n'), code: 'log.implausibleValue', line: 3, column: /column 4 \(yaw_rate_radps\)/, message: /deg\/s/ },
-    { name: 'a measured steer angle beyond π/2', text: ['time_s,speed_mps,steer_cmd_rad,yaw_rate_radps,steer_angle_rad', '0,10,0,0,0', '0.01,10,0,0,-2'].join('\n'), code: 'log.implausibleValue', line: 3, column: /column 5 \(steer_angle_rad\)/ },
-    { name: 'a duplicate header name', text: ['time_s,speed_mps,steer_cmd_rad,yaw_rate_radps,time_s', '0,1,0,0,0', '1,1,0,0,1'].join('\n'), code: 'log.duplicateColumn', line: 1, column: /column 5 \(time_s\)/ },
+    {
+      name: 'a yaw rate above 5 rad/s',
+      text: [HEADER, ROWS[0], '0.01,10,0,30'].join('\n'),
+      code: 'log.implausibleValue',
+      line: 3,
+      column: /column 4 \(yaw_rate_radps\)/,
+      message: /deg\/s/,
+    },
+    {
+      name: 'a measured steer angle beyond π/2',
+      text: ['time_s,speed_mps,steer_cmd_rad,yaw_rate_radps,steer_angle_rad', '0,10,0,0,0', '0.01,10,0,0,-2'].join('\n'),
+      code: 'log.implausibleValue',
+      line: 3,
+      column: /column 5 \(steer_angle_rad\)/,
+    },
+    {
+      name: 'a duplicate header name',
+      text: ['time_s,speed_mps,steer_cmd_rad,yaw_rate_radps,time_s', '0,1,0,0,0', '1,1,0,0,1'].join('\n'),
+      code: 'log.duplicateColumn',
+      line: 1,
+      column: /column 5 \(time_s\)/,
+    },
   ];
 
   it.each(cases)('$name → $code', ({ text, code, line, column, message, options }) => {
@@ -228,6 +291,9 @@ describe('log profiles and --column options are validated', () => {
     });
     await expect(parseColumnOptions(['speed=v'])).rejects.toMatchObject({ code: 'log.badColumnOption' });
     await expect(parseColumnOptions(['speed_mps=v:'])).rejects.toMatchObject({ code: 'log.badColumnOption' });
-    await expect(parseColumnOptions(['speed_mps=v:knots'])).rejects.toMatchObject({ code: 'log.unknownUnit', message: expect.stringContaining('--column "speed_mps=v:knots"') });
+    await expect(parseColumnOptions(['speed_mps=v:knots'])).rejects.toMatchObject({
+      code: 'log.unknownUnit',
+      message: expect.stringContaining('--column "speed_mps=v:knots"'),
+    });
   });
 });

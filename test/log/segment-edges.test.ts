@@ -23,17 +23,27 @@ function onsetsOf(found: { steps: readonly { onset_s: number }[]; rejected: read
 
 describe('findStepTests(log): a command move next to a segment edge is rejected with its reason, never lost', () => {
   it('a time gap 0.26 s before a step (rows t = 20.00–21.98 s removed from the demo log) → noPreStepWindow naming the gap', () => {
-    const log = parseSteerLog(demoWithout((t) => t >= 19.999 && t <= 21.981), 'gap.csv');
+    const log = parseSteerLog(
+      demoWithout((t) => t >= 19.999 && t <= 21.981),
+      'gap.csv',
+    );
     expect(log.segments).toHaveLength(2);
     const found = findStepTests(log);
     expect(found.steps).toHaveLength(7);
     expect(found.rejected.map((r) => [r.onset_s, r.reasonCode])).toEqual([[22.26, 'noPreStepWindow']]);
-    expect(found.rejected[0].reason).toMatch(/step 1\.75° → 0\.00°: the log resumes after a 2\.02 s time gap \(line 1002\) only 0\.26 s before the step \(need ≥ 0\.5 s/);
+    expect(found.rejected[0].reason).toMatch(
+      /step 1\.75° → 0\.00°: the log resumes after a 2\.02 s time gap \(line 1002\) only 0\.26 s before the step \(need ≥ 0\.5 s/,
+    );
     expect(onsetsOf(found)).toEqual(DEMO_ONSETS_S);
   });
 
   it('a log ending 0.34 s after its last step (cut at t = 30.40 s) → holdTooShort saying the log ends', () => {
-    const found = findStepTests(parseSteerLog(demoWithout((t) => t > 30.401), 'cut.csv'));
+    const found = findStepTests(
+      parseSteerLog(
+        demoWithout((t) => t > 30.401),
+        'cut.csv',
+      ),
+    );
     expect(found.steps).toHaveLength(7);
     expect(found.rejected.map((r) => [r.onset_s, r.reasonCode])).toEqual([[30.06, 'holdTooShort']]);
     expect(found.rejected[0].reason).toMatch(/step -1\.75° → 0\.00°: the log ends 0\.34 s after the step \(need ≥ 1\.5 s of hold/);
@@ -42,7 +52,12 @@ describe('findStepTests(log): a command move next to a segment edge is rejected 
 
   it('a time gap 0.4 s after a step → holdTooShort naming the gap; the step after the gap is still found', () => {
     // Keep 0.4 s after the onset at 6.64 s, drop up to 9.00 s: the hold from 6.64 s is cut; the step at 9.80 s stays.
-    const found = findStepTests(parseSteerLog(demoWithout((t) => t > 7.041 && t < 8.999), 'gap-after.csv'));
+    const found = findStepTests(
+      parseSteerLog(
+        demoWithout((t) => t > 7.041 && t < 8.999),
+        'gap-after.csv',
+      ),
+    );
     const cut = found.rejected.find((r) => Math.abs(r.onset_s - 6.64) < 0.005);
     expect(cut?.reasonCode).toBe('holdTooShort');
     expect(cut?.reason).toMatch(/a 1\.9\d s time gap \(line \d+\) cuts the log 0\.40 s after the step/);
@@ -53,7 +68,10 @@ describe('findStepTests(log): a command move next to a segment edge is rejected 
   it('a segment shorter than a plateau that still holds a step (0.25 s at 0°, then 1°) → noPreStepWindow', () => {
     const synthetic = syntheticLog({
       plant: { gain_perS: 2.5, timeConstant_s: 0.3, deadTime_s: 0.1 },
-      stages: [{ level_rad: 0, hold_s: 0.2 }, { level_rad: deg(1), hold_s: 0.2, ramp_s: 0.05 }],
+      stages: [
+        { level_rad: 0, hold_s: 0.2 },
+        { level_rad: deg(1), hold_s: 0.2, ramp_s: 0.05 },
+      ],
       yawNoise_radps: 0.001,
       seed: 4,
     });
@@ -66,7 +84,12 @@ describe('findStepTests(log): a command move next to a segment edge is rejected 
   it('a constant command in a short segment, or a log that ends on its held level, adds no candidate', () => {
     const flat = syntheticLog({ plant: { gain_perS: 2.5, timeConstant_s: 0.3, deadTime_s: 0.1 }, stages: [{ level_rad: deg(1), hold_s: 0.2 }], seed: 2 });
     expect(findStepTests(parseSteerLog(syntheticCsv(flat), 'flat.csv'))).toEqual({ steps: [], rejected: [] });
-    const demo = findStepTests(parseSteerLog(demoWithout(() => false), 'whole.csv'));
+    const demo = findStepTests(
+      parseSteerLog(
+        demoWithout(() => false),
+        'whole.csv',
+      ),
+    );
     expect(demo.rejected).toEqual([]);
     expect(demo.steps.map((step) => step.onset_s)).toEqual(DEMO_ONSETS_S);
   });
@@ -76,13 +99,23 @@ describe('findStepTests on a log cut at random places (fast-check)', () => {
   // The usual pattern: 8 steps of ±1° and ±2°, returns to zero included, held 3–4.5 s.
   const stages: Stage[] = [{ level_rad: 0, hold_s: 3 }];
   for (const amplitude of [1, -1, 2, -2]) stages.push({ level_rad: deg(amplitude), hold_s: 4.5 }, { level_rad: 0, hold_s: 3 });
-  const synthetic = syntheticLog({ plant: { gain_perS: 2.5, timeConstant_s: 0.3, deadTime_s: 0.1 }, stages, yawNoise_radps: 0.002, speedNoise_mps: 0.02, seed: 8 });
+  const synthetic = syntheticLog({
+    plant: { gain_perS: 2.5, timeConstant_s: 0.3, deadTime_s: 0.1 },
+    stages,
+    yawNoise_radps: 0.002,
+    speedNoise_mps: 0.02,
+    seed: 8,
+  });
   const [header, ...rows] = syntheticCsv(synthetic).trimEnd().split('\n');
   const end_s = synthetic.time_s[synthetic.time_s.length - 1];
 
   it('every step whose onset and first 0.05 s of ramp lie in one segment is accepted or rejected; nothing else is reported', () => {
     const cut = fc
-      .record({ end_s: fc.double({ min: 1, max: end_s, noNaN: true }), gapStart_s: fc.double({ min: 0.5, max: end_s, noNaN: true }), gap_s: fc.double({ min: 0.1, max: 3, noNaN: true }) })
+      .record({
+        end_s: fc.double({ min: 1, max: end_s, noNaN: true }),
+        gapStart_s: fc.double({ min: 0.5, max: end_s, noNaN: true }),
+        gap_s: fc.double({ min: 0.1, max: 3, noNaN: true }),
+      })
       .filter(({ end_s: last, gapStart_s }) => gapStart_s < last - 0.5);
     fc.assert(
       fc.property(cut, ({ end_s: last, gapStart_s, gap_s }) => {

@@ -98,7 +98,11 @@ describe('findStepTests(log) accepts what it should', () => {
 
 describe('findStepTests(log) rejects candidates with a reason the user can act on', () => {
   it('a hold shorter than the minimum → holdTooShort', () => {
-    const { steps, rejected } = search([{ level_rad: 0, hold_s: 3 }, { level_rad: deg(2), hold_s: 1 }, { level_rad: 0, hold_s: 4 }]);
+    const { steps, rejected } = search([
+      { level_rad: 0, hold_s: 3 },
+      { level_rad: deg(2), hold_s: 1 },
+      { level_rad: 0, hold_s: 4 },
+    ]);
     expect(rejected[0].reasonCode).toBe('holdTooShort');
     expect(rejected[0].reason).toMatch(/held 1\.\d\d s \(need ≥ 1\.5 s/);
     // The return to zero starts while the yaw rate is still rising (τ = 0.3 s, 1 s after the step): its starting level is unknown.
@@ -109,7 +113,14 @@ describe('findStepTests(log) rejects candidates with a reason the user can act o
 
   it('a return to zero after a too-short hold is still accepted when the yaw rate had settled (fast plant)', () => {
     const fast: FopdtPlant = { gain_perS: 2.5, timeConstant_s: 0.05, deadTime_s: 0.02 };
-    const { steps, rejected } = search([{ level_rad: 0, hold_s: 3 }, { level_rad: deg(2), hold_s: 1.3 }, { level_rad: 0, hold_s: 4 }], { plant: fast });
+    const { steps, rejected } = search(
+      [
+        { level_rad: 0, hold_s: 3 },
+        { level_rad: deg(2), hold_s: 1.3 },
+        { level_rad: 0, hold_s: 4 },
+      ],
+      { plant: fast },
+    );
     // Held 0.15 + 1.3 = 1.45 s < 1.5 s; the pre-step window of the return starts 0.45 s after the step, when e^(−(0.45 − 0.02)/0.05) ≈ 2e-4 of the transient is left.
     expect(rejected.map((r) => r.reasonCode)).toEqual(['holdTooShort']);
     expect(steps).toHaveLength(1);
@@ -117,29 +128,46 @@ describe('findStepTests(log) rejects candidates with a reason the user can act o
   });
 
   it('a step right after a very short hold → noPreStepWindow', () => {
-    const { rejected } = search([{ level_rad: 0, hold_s: 3 }, { level_rad: deg(2), hold_s: 0.4 }, { level_rad: deg(-2), hold_s: 4 }]);
+    const { rejected } = search([
+      { level_rad: 0, hold_s: 3 },
+      { level_rad: deg(2), hold_s: 0.4 },
+      { level_rad: deg(-2), hold_s: 4 },
+    ]);
     expect(rejected.map((r) => r.reasonCode)).toEqual(['holdTooShort', 'noPreStepWindow']);
     expect(rejected[1].reason).toMatch(/held only 0\.\d\d s before the step/);
   });
 
   it('speed changing during the hold → speedNotConstant, quoting the speed range', () => {
     const { rejected, steps } = search(
-      [{ level_rad: 0, hold_s: 3 }, { level_rad: deg(2), hold_s: 4 }, { level_rad: 0, hold_s: 3 }],
+      [
+        { level_rad: 0, hold_s: 3 },
+        { level_rad: deg(2), hold_s: 4 },
+        { level_rad: 0, hold_s: 3 },
+      ],
       { speedRamp: { stage: 1, to_mps: 13 } },
     );
     expect(rejected.map((r) => r.reasonCode)).toContain('speedNotConstant');
-    expect(rejected.find((r) => r.reasonCode === 'speedNotConstant')?.reason).toMatch(/speed varied by 1\.\d\d m\/s \(\d+\.\d\d–11\.\d\d\) within 1\.5 s of the step/);
+    expect(rejected.find((r) => r.reasonCode === 'speedNotConstant')?.reason).toMatch(
+      /speed varied by 1\.\d\d m\/s \(\d+\.\d\d–11\.\d\d\) within 1\.5 s of the step/,
+    );
     expect(steps.length).toBeLessThan(2);
   });
 
   it('a slow steering movement between levels → steerNotHeld', () => {
-    const { rejected, steps } = search([{ level_rad: 0, hold_s: 3 }, { level_rad: deg(3), hold_s: 4, ramp_s: 2 }]);
+    const { rejected, steps } = search([
+      { level_rad: 0, hold_s: 3 },
+      { level_rad: deg(3), hold_s: 4, ramp_s: 2 },
+    ]);
     expect(steps).toHaveLength(0);
     expect(rejected.map((r) => r.reasonCode)).toEqual(['steerNotHeld']);
   });
 
   it('a command at the vehicle actuator limit → actuatorAtLimit (only when the limit is known)', () => {
-    const stages = [{ level_rad: 0, hold_s: 3 }, { level_rad: deg(20), hold_s: 4 }, { level_rad: 0, hold_s: 3 }];
+    const stages = [
+      { level_rad: 0, hold_s: 3 },
+      { level_rad: deg(20), hold_s: 4 },
+      { level_rad: 0, hold_s: 3 },
+    ];
     const limited = search(stages, {}, { maxSteerAngle_rad: deg(20) });
     expect(limited.rejected.map((r) => r.reasonCode)).toEqual(['actuatorAtLimit']);
     expect(limited.rejected[0].reason).toMatch(/20\.00°/);
@@ -147,9 +175,16 @@ describe('findStepTests(log) rejects candidates with a reason the user can act o
   });
 
   it('a step too small against the yaw-rate noise → tooSmallAgainstNoise, advising a larger amplitude', () => {
-    const { rejected } = search([{ level_rad: 0, hold_s: 3 }, { level_rad: deg(0.3), hold_s: 4 }, { level_rad: 0, hold_s: 3 }], {
-      yawNoise_radps: deg(0.4),
-    });
+    const { rejected } = search(
+      [
+        { level_rad: 0, hold_s: 3 },
+        { level_rad: deg(0.3), hold_s: 4 },
+        { level_rad: 0, hold_s: 3 },
+      ],
+      {
+        yawNoise_radps: deg(0.4),
+      },
+    );
     expect(rejected.map((r) => r.reasonCode)).toEqual(['tooSmallAgainstNoise', 'tooSmallAgainstNoise']);
     // Yaw change 2.5 × 0.3° = 0.75°/s against 0.4°/s noise: 5σ needs ≈ 0.8°, advised as the next 1-2-5 value, 1°.
     expect(rejected[0].reason).toMatch(/amplitude 0\.30°.*noise 0\.\d\d°\/s.*repeat with ≥ 1\.00°/);
@@ -160,7 +195,9 @@ describe('findStepTests(log, options) validates its options', () => {
   it('rejects a non-positive, non-finite or out-of-range option with log.badOption naming it', () => {
     const { log } = search(PATTERN);
     for (const options of [{ minHold_s: -1 }, { maxRamp_s: Number.NaN }, { speedToleranceFraction: 2 }, { maxSteerAngle_rad: 0 }]) {
-      expect(() => findStepTests(log, options)).toThrow(expect.objectContaining({ code: 'log.badOption', message: expect.stringContaining(Object.keys(options)[0]) }));
+      expect(() => findStepTests(log, options)).toThrow(
+        expect.objectContaining({ code: 'log.badOption', message: expect.stringContaining(Object.keys(options)[0]) }),
+      );
     }
     expect(findStepTests(log, { speedToleranceAbsolute_mps: 0, speedToleranceFraction: 0.5 }).steps).toHaveLength(8);
   });

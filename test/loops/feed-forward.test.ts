@@ -40,7 +40,9 @@ describe('feedForwardFromSingleTrack(path)', () => {
     const path = feedForwardFromSingleTrack({ kind: 'path', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 });
     const heading = feedForwardFromSingleTrack({ kind: 'heading', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 });
     expect(heading.gain * speed).toBeCloseTo(path.gain, 12);
-    expect(feedForwardFromSingleTrack({ kind: 'yaw-rate', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 }).gain).toBe(heading.gain);
+    expect(feedForwardFromSingleTrack({ kind: 'yaw-rate', parameters: van, speed_mps: speed, controllerDelay_s: 0.015, previewFromCg_m: 0 }).gain).toBe(
+      heading.gain,
+    );
   });
 
   it('reads the input ahead by the ramp lag of the yaw response: the simulated yaw rate lags a steering ramp by exactly that time', () => {
@@ -75,7 +77,13 @@ describe('feedForwardFromSingleTrack(path)', () => {
 describe('feedForwardFromLumped', () => {
   it('inverts the identified steady yaw gain and lags by θ + τ of the FOPDT, controller delay included', () => {
     // FOPDT K·e^(−θs)/(τs + 1): Gr(0) = K, ramp lag θ + τ (first moment of the impulse response).
-    const ff = feedForwardFromLumped({ kind: 'path', model: { kind: 'fopdt', gain: 2.5, timeConstant_s: 0.2, deadTime_s: 0.1 }, speed_mps: 8, controllerDelay_s: 0.015, previewFromCg_m: 4 });
+    const ff = feedForwardFromLumped({
+      kind: 'path',
+      model: { kind: 'fopdt', gain: 2.5, timeConstant_s: 0.2, deadTime_s: 0.1 },
+      speed_mps: 8,
+      controllerDelay_s: 0.015,
+      previewFromCg_m: 4,
+    });
     expect(ff.gain).toBeCloseTo(8 / 2.5, 12);
     expect(ff.rampLag_s).toBeCloseTo(0.1 + 0.2 + 0.015, 12);
     expect(ff.leadTime_s).toBeCloseTo(0.315 - 4 / 8, 12);

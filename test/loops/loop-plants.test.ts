@@ -117,8 +117,12 @@ describe('loop plants from a lumped FOPDT yaw-rate model', () => {
   });
 
   it('refuses a front-axle reference without the axle distance and a negative preview', () => {
-    expect(() => loopPlantFromLumped({ specification: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, model: fopdt, speed_mps: 5, controller })).toThrow(/CG-to-front-axle distance/);
-    expect(() => loopPlantFromLumped({ specification: { kind: 'path', preview_m: -1 }, model: fopdt, speed_mps: 5, controller })).toThrow(/expected a finite distance ≥ 0 m/);
+    expect(() =>
+      loopPlantFromLumped({ specification: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, model: fopdt, speed_mps: 5, controller }),
+    ).toThrow(/CG-to-front-axle distance/);
+    expect(() => loopPlantFromLumped({ specification: { kind: 'path', preview_m: -1 }, model: fopdt, speed_mps: 5, controller })).toThrow(
+      /expected a finite distance ≥ 0 m/,
+    );
     expect(() => loopPlantFromLumped({ specification: { kind: 'yaw-rate' }, model: fopdt, speed_mps: 0, controller })).toThrow(/above 0 m\/s/);
   });
 });

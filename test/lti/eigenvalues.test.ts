@@ -102,7 +102,14 @@ print(json.dumps(out))
       const expected = onHessenberg[index];
       const result = ours[index];
       for (let i = 0; i < c.size; i++) {
-        const k = expected.re.reduce((best, _, j) => (Math.hypot(result.re[i] - expected.re[j], result.im[i] - expected.im[j]) < Math.hypot(result.re[i] - expected.re[best], result.im[i] - expected.im[best]) ? j : best), 0);
+        const k = expected.re.reduce(
+          (best, _, j) =>
+            Math.hypot(result.re[i] - expected.re[j], result.im[i] - expected.im[j]) <
+            Math.hypot(result.re[i] - expected.re[best], result.im[i] - expected.im[best])
+              ? j
+              : best,
+          0,
+        );
         if (expected.condition[k] > 1e6) continue; // near-defective: κ itself is ill-determined
         const condition = eigenvalueCondition(result, c.size, { re: result.re[i], im: result.im[i] });
         expect({ index, i, ratio: condition / expected.condition[k] }).toEqual({ index, i, ratio: expect.closeTo(1, 2) as number });

@@ -26,7 +26,7 @@ describe('matrixExponential(A)', () => {
       [0, 0, 0],
     ]);
     expect(e).toEqual([
-      [1, 2, 3 + 2 * 4 / 2],
+      [1, 2, 3 + (2 * 4) / 2],
       [0, 1, 4],
       [0, 0, 1],
     ]);

@@ -56,7 +56,11 @@ describe('polynomialRoots(p)', () => {
     for (const r of roots) {
       if (r.im !== 0) expect(roots.some((q) => q.re === r.re && q.im === -r.im)).toBe(true);
     }
-    expect(polynomialRoots([1, 0, 0, 0])).toEqual([{ re: 0, im: 0 }, { re: 0, im: 0 }, { re: 0, im: 0 }]);
+    expect(polynomialRoots([1, 0, 0, 0])).toEqual([
+      { re: 0, im: 0 },
+      { re: 0, im: 0 },
+      { re: 0, im: 0 },
+    ]);
   });
 
   it('handles degree 0 and 1 and leading zeros; refuses the zero polynomial with a typed error', () => {
@@ -91,9 +95,31 @@ describe('polynomialRoots(p)', () => {
   it('recovers known roots spanning 1e-3..1e4 rad/s (coefficients spanning ~1e-6..1e11), each to 1e-9 of its own size, like numpy.roots', () => {
     // Source: roots chosen by hand; coefficients by expansion; numpy.roots as a second opinion.
     const cases: Complex[][] = [
-      [{ re: -1e-3, im: 0 }, { re: -1, im: 0 }, { re: -1e3, im: 0 }, { re: -10, im: 100 }, { re: -10, im: -100 }],
-      [{ re: -2e-3, im: 1e-2 }, { re: -2e-3, im: -1e-2 }, { re: -5, im: 0 }, { re: -8e3, im: 0 }, { re: 3e2, im: 0 }, { re: -40, im: 0 }],
-      [{ re: -1e4, im: 0 }, { re: -1e4 + 1, im: 0 }, { re: -0.05, im: 0 }, { re: -0.3, im: 7 }, { re: -0.3, im: -7 }, { re: 0.01, im: 0 }, { re: -600, im: 0 }, { re: -2, im: 0 }],
+      [
+        { re: -1e-3, im: 0 },
+        { re: -1, im: 0 },
+        { re: -1e3, im: 0 },
+        { re: -10, im: 100 },
+        { re: -10, im: -100 },
+      ],
+      [
+        { re: -2e-3, im: 1e-2 },
+        { re: -2e-3, im: -1e-2 },
+        { re: -5, im: 0 },
+        { re: -8e3, im: 0 },
+        { re: 3e2, im: 0 },
+        { re: -40, im: 0 },
+      ],
+      [
+        { re: -1e4, im: 0 },
+        { re: -1e4 + 1, im: 0 },
+        { re: -0.05, im: 0 },
+        { re: -0.3, im: 7 },
+        { re: -0.3, im: -7 },
+        { re: 0.01, im: 0 },
+        { re: -600, im: 0 },
+        { re: -2, im: 0 },
+      ],
     ];
     const polynomials = cases.map((roots) => {
       let p = [1];
@@ -118,7 +144,12 @@ describe('polynomialRoots(p)', () => {
         expect(index, `root ${e.re}+${e.im}j of case ${k}`).toBeGreaterThanOrEqual(0);
         left.splice(index, 1);
       }
-      expect(worstMatch(found, reference[k].map(([re, im]) => ({ re, im })))).toBeLessThan(1e-8);
+      expect(
+        worstMatch(
+          found,
+          reference[k].map(([re, im]) => ({ re, im })),
+        ),
+      ).toBeLessThan(1e-8);
     });
   });
 
@@ -130,7 +161,12 @@ describe('polynomialRoots(p)', () => {
     const reference = runPython<number[][][]>(NUMPY_ROOTS, polynomials);
     const slowest = polynomials.map((p, k) => {
       const found = polynomialRoots(p);
-      expect(worstMatch(found, reference[k].map(([re, im]) => ({ re, im })))).toBeLessThan(1e-10);
+      expect(
+        worstMatch(
+          found,
+          reference[k].map(([re, im]) => ({ re, im })),
+        ),
+      ).toBeLessThan(1e-10);
       return found[found.length - 1];
     });
     // property: the slowest closed-loop pole does not depend on the Padé order once the order is adequate

@@ -155,7 +155,11 @@ print(json.dumps(out))
     const base = inputResponse(g, time, u).output;
     const delayed = inputResponse(transferFunction([1, 3], [1, 2, 10], 0.25), time, u).output;
     for (let k = 5; k < 100; k++) expect(delayed[k]).toBeCloseTo(base[k - 5], 12);
-    const doubled = inputResponse(g, time, u.map((x) => 2 * x)).output;
+    const doubled = inputResponse(
+      g,
+      time,
+      u.map((x) => 2 * x),
+    ).output;
     for (let k = 0; k < 100; k++) expect(doubled[k]).toBeCloseTo(2 * base[k], 12);
   });
 

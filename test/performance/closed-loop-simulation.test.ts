@@ -83,7 +83,7 @@ describe('simulateClosedLoop', () => {
       N: controller.derivativeFilter,
       count,
     });
-    expect(plant.delay_s / controller.sampleTime_s % 1).not.toBeCloseTo(0, 3);
+    expect((plant.delay_s / controller.sampleTime_s) % 1).not.toBeCloseTo(0, 3);
     for (let k = 0; k < count; k++) expect(Math.abs(ours.output[k] - reference.y[k])).toBeLessThan(1e-9);
   });
 });

@@ -118,7 +118,7 @@ describe('the limit-cycle detector', () => {
       setup: { ...quietSetup(speed, 40), initialHeadingError_rad: 0.05 },
     });
 
-  it('fires on a saturating heading loop, with the describing function\'s amplitude and period within 20 %', () => {
+  it("fires on a saturating heading loop, with the describing function's amplitude and period within 20 %", () => {
     const kp = 12;
     const predicted = runPython<{ amplitude: number; period: number; target: number }>(DESCRIBING_FUNCTION, {
       ...VAN_FOR_PYTHON,
@@ -142,17 +142,28 @@ describe('the limit-cycle detector', () => {
 
   it('is silent on a step that decays to rest (metrics of a simulated run with no limit reached)', () => {
     const controller = constantController({ kind: 'heading' }, { kp: 2.19, ki: 1.99, kd: 0.29 });
-    const scenario: PreparedScenario = { name: 'small-step', kind: 'step', size: 0.01, judgeFrom_s: 1, setup: { ...quietSetup(9, 30), referenceStep: { time_s: 1, size: 0.01 } } };
+    const scenario: PreparedScenario = {
+      name: 'small-step',
+      kind: 'step',
+      size: 0.01,
+      judgeFrom_s: 1,
+      setup: { ...quietSetup(9, 30), referenceStep: { time_s: 1, size: 0.01 } },
+    };
     expect(scenarioMetrics(scenario, simulateScenario(vanVehicle(), controller, scenario.setup, 1)).limitCycle).toBeNull();
   });
 });
 
 describe('stopping at rest (judging only)', () => {
-  it('leaves every figure of the catalogue\'s scenarios as the full run gives it (heading loop with limits, 4 and 12 m/s)', async () => {
+  it("leaves every figure of the catalogue's scenarios as the full run gives it (heading loop with limits, 4 and 12 m/s)", async () => {
     const { prepareScenario, SCENARIO_NAMES } = await import('../../src/performance/scenario-catalogue.js');
     const { metricsThatMoved } = await import('../../src/performance/scenario-run.js');
     const settings = { ...LINEAR_SETTINGS, commandLimit_rad: 0.6, integratorClamp_rad: 0.6 };
-    const controller = constantController({ kind: 'heading' }, { kp: 2.2, ki: 2, kd: 0.29, setpointWeightProportional: 0.6, feedForward: 0.45 }, settings, 0.25);
+    const controller = constantController(
+      { kind: 'heading' },
+      { kp: 2.2, ki: 2, kd: 0.29, setpointWeightProportional: 0.6, feedForward: 0.45 },
+      settings,
+      0.25,
+    );
     const vehicle = vanVehicle({ maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 });
     const context = { loop: 'heading' as const, parameters: VAN, maxSteerAngle_rad: 0.6, range: { minimum_mps: 4, maximum_mps: 12 } };
     let shortened = 0;
@@ -163,7 +174,10 @@ describe('stopping at rest (judging only)', () => {
         const full = runScenario(vehicle, controller, scenario);
         const stopped = runScenario(vehicle, controller, scenario, true);
         // Every figure within 0.1 % (times within a sample); the final error within 1e-6 of the peak (it is ≈ 0 at rest).
-        expect(metricsThatMoved(full.metrics, stopped.metrics, LINEAR_SETTINGS.sampleTime_s).filter((key) => key !== 'finalError'), `${name} ${speed}`).toEqual([]);
+        expect(
+          metricsThatMoved(full.metrics, stopped.metrics, LINEAR_SETTINGS.sampleTime_s).filter((key) => key !== 'finalError'),
+          `${name} ${speed}`,
+        ).toEqual([]);
         expect(Math.abs(full.metrics.finalError - stopped.metrics.finalError)).toBeLessThanOrEqual(1e-6 * full.metrics.peakError);
         if (stopped.traces.steerRate_radps.at(-1) === 0 && full.traces.steerRate_radps.at(-1) !== 0) shortened++;
       }

@@ -36,7 +36,12 @@ export const LINEAR_SETTINGS: FirmwareSettings = {
 };
 
 /** Gains held at every speed. */
-export function constantController(loop: LoopSpecification, gains: Partial<FirmwareGains>, settings: FirmwareSettings = LINEAR_SETTINGS, feedForwardLeadTime_s = 0): ScenarioController {
+export function constantController(
+  loop: LoopSpecification,
+  gains: Partial<FirmwareGains>,
+  settings: FirmwareSettings = LINEAR_SETTINGS,
+  feedForwardLeadTime_s = 0,
+): ScenarioController {
   const full: FirmwareGains = { kp: 0, ki: 0, kd: 0, setpointWeightProportional: 1, setpointWeightDerivative: 0, feedForward: 0, ...gains };
   return { loop, settings, at: () => ({ gains: full, feedForwardLeadTime_s }) };
 }

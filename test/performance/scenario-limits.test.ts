@@ -25,7 +25,13 @@ const limits = { ...PLAN_DEFAULTS.acceptance, maximumSpeedChangeError: 0.05 };
 describe('judgeScenarioRun', () => {
   it('passes a calm run and names speed, scenario and metric of every limit broken', () => {
     expect(judgeScenarioRun('small-step', 5, calm, limits, 'heading')).toEqual([]);
-    const failures = judgeScenarioRun('large-step', 3, { ...calm, overshoot_pct: 40, settlingTime_s: null, limitCycle: { amplitude: 0.05, period_s: 2.4 } }, limits, 'heading');
+    const failures = judgeScenarioRun(
+      'large-step',
+      3,
+      { ...calm, overshoot_pct: 40, settlingTime_s: null, limitCycle: { amplitude: 0.05, period_s: 2.4 } },
+      limits,
+      'heading',
+    );
     expect(failures.map((f) => [f.speed_mps, f.scenario, f.metric])).toEqual([
       [3, 'large-step', 'limitCycle'],
       [3, 'large-step', 'overshoot_pct'],
@@ -35,7 +41,9 @@ describe('judgeScenarioRun', () => {
   });
 
   it('judges recoveries against the recovery limit, the lane change (path loop only) and the error while the speed changes', () => {
-    expect(judgeScenarioRun('misalignment', 2, { ...calm, settlingTime_s: 16 }, limits, 'path')[0].message).toBe('misalignment at 2.00 m/s: removed to 5 % in 16 s, needs ≤ 15 s');
+    expect(judgeScenarioRun('misalignment', 2, { ...calm, settlingTime_s: 16 }, limits, 'path')[0].message).toBe(
+      'misalignment at 2.00 m/s: removed to 5 % in 16 s, needs ≤ 15 s',
+    );
     expect(judgeScenarioRun('lane-change', 9, { ...calm, peakError: 0.6 }, limits, 'path').map((f) => f.metric)).toEqual(['peakError']);
     expect(judgeScenarioRun('lane-change', 9, { ...calm, peakError: 0.6 }, limits, 'heading')).toEqual([]);
     expect(judgeScenarioRun('braking-in-curve', 25, { ...calm, peakError: 0.06 }, limits, 'heading')[0].message).toBe(
@@ -43,16 +51,23 @@ describe('judgeScenarioRun', () => {
     );
   });
 
-  it('takes the speed-change limit of the plan in the loop\'s unit', () => {
+  it("takes the speed-change limit of the plan in the loop's unit", () => {
     expect(planScenarioLimits(resolvePlan({ loop: { kind: 'path' } })).maximumSpeedChangeError).toBe(0.3);
-    expect(planScenarioLimits(resolvePlan({ loop: { kind: 'heading' }, acceptance: { maximumSpeedChangeError_rad: 0.02 } })).maximumSpeedChangeError).toBe(0.02);
+    expect(planScenarioLimits(resolvePlan({ loop: { kind: 'heading' }, acceptance: { maximumSpeedChangeError_rad: 0.02 } })).maximumSpeedChangeError).toBe(
+      0.02,
+    );
     expect(planScenarioLimits(resolvePlan({})).maximumSpeedChangeError).toBe(0.05);
   });
 });
 
 describe('speedChangeCertificate', () => {
   it('certifies a rate that passes while a rate one bisection step above it fails (heading loop, tight error limit)', () => {
-    const controller = constantController({ kind: 'heading' }, { kp: 2.2, ki: 2, kd: 0.29, feedForward: 0.45 }, { ...LINEAR_SETTINGS, commandLimit_rad: 0.6, integratorClamp_rad: 0.6 }, 0.25);
+    const controller = constantController(
+      { kind: 'heading' },
+      { kp: 2.2, ki: 2, kd: 0.29, feedForward: 0.45 },
+      { ...LINEAR_SETTINGS, commandLimit_rad: 0.6, integratorClamp_rad: 0.6 },
+      0.25,
+    );
     const vehicle = vanVehicle({ maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 });
     const context = { loop: 'heading' as const, parameters: VAN, maxSteerAngle_rad: 0.6, range: { minimum_mps: 4, maximum_mps: 16 } };
     const tight = { ...limits, maximumSpeedChangeError: 0.004 };
@@ -61,7 +76,11 @@ describe('speedChangeCertificate', () => {
     expect(rate).toBeGreaterThan(CERTIFICATE_SEARCH.lowest_mps2);
     expect(rate).toBeLessThan(CERTIFICATE_SEARCH.highest_mps2);
     const errorAt = (acceleration: number): number =>
-      runScenario(vehicle, controller, rampScenario('speed-ramp-in-curve', context, { initial_mps: 4, final_mps: 16, changeStart_s: 11, acceleration_mps2: acceleration })).metrics.peakError;
+      runScenario(
+        vehicle,
+        controller,
+        rampScenario('speed-ramp-in-curve', context, { initial_mps: 4, final_mps: 16, changeStart_s: 11, acceleration_mps2: acceleration }),
+      ).metrics.peakError;
     const step = Math.pow(CERTIFICATE_SEARCH.highest_mps2 / CERTIFICATE_SEARCH.lowest_mps2, 1 / 2 ** CERTIFICATE_SEARCH.steps);
     expect(errorAt(rate)).toBeLessThanOrEqual(0.004);
     expect(errorAt(rate * step * 1.0001)).toBeGreaterThan(0.004);

@@ -56,11 +56,25 @@ describe('set-point weights (two-degree-of-freedom PID, Åström & Hägglund 200
       const count = 4000;
       const reference = new Float64Array(count).fill(1);
       const overshoots = [1, 0.75, 0.5, 0.25, 0].map((b) =>
-        overshoot_pct(simulateClosedLoop({ plant: performanceLoop.plant, gains: { ...gains, setpointWeightProportional: b, setpointWeightDerivative: 0, feedForward: 0 }, settings, reference }).output),
+        overshoot_pct(
+          simulateClosedLoop({
+            plant: performanceLoop.plant,
+            gains: { ...gains, setpointWeightProportional: b, setpointWeightDerivative: 0, feedForward: 0 },
+            settings,
+            reference,
+          }).output,
+        ),
       );
       for (let i = 1; i < overshoots.length; i++) expect(overshoots[i]).toBeLessThanOrEqual(overshoots[i - 1] + 1e-9);
       expect(overshoots[0]).toBeGreaterThan(overshoots[overshoots.length - 1]);
-      const chosen = breakpointPerformance({ loop: performanceLoop, gains, limits, vehicleLimits: { maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 }, slowestTimeConstant_s: 5, antiWindup: 'conditional-integration' });
+      const chosen = breakpointPerformance({
+        loop: performanceLoop,
+        gains,
+        limits,
+        vehicleLimits: { maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 },
+        slowestTimeConstant_s: 5,
+        antiWindup: 'conditional-integration',
+      });
       expect(chosen.figures.referenceStep.overshoot_pct).toBeLessThanOrEqual(25 + 1e-6);
       if (overshoots[0] > 25) expect(chosen.setpointWeights.proportional).toBeLessThan(1);
     });

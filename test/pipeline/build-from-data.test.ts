@@ -64,7 +64,7 @@ const input = (plan: LoadedBuildInput['plan']): LoadedBuildInput => ({
 });
 
 describe('buildScheduleFromData (no file read)', () => {
-  it('yaw-rate loop, SIMC: every breakpoint holds the gains of tuning the vehicle\'s own single-track model there; names and hashes recorded as given', async () => {
+  it("yaw-rate loop, SIMC: every breakpoint holds the gains of tuning the vehicle's own single-track model there; names and hashes recorded as given", async () => {
     const result = await buildScheduleFromData(input({ rule: { name: 'simc' } }));
     const { schedule } = result;
     expect(schedule.breakpoints.length).toBeGreaterThanOrEqual(6);

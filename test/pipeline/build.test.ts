@@ -124,7 +124,10 @@ describe('speedband check', () => {
 
     // The refit flow: a new schedule for the changed vehicle, and the old gains judged on it.
     const refit = recordingIo();
-    const code = await runCli(['build', '--vehicle', VAN, '--models', changedPath, '--baseline', schedulePath, '--out', join(dir, 'refit.json'), '--json'], refit);
+    const code = await runCli(
+      ['build', '--vehicle', VAN, '--models', changedPath, '--baseline', schedulePath, '--out', join(dir, 'refit.json'), '--json'],
+      refit,
+    );
     const report = JSON.parse(refit.out()) as { status: string; baseline: { passedOnNewModel: boolean; failedSpeeds: number } };
     expect(report.baseline.passedOnNewModel).toBe(false);
     expect(report.baseline.failedSpeeds).toBeGreaterThan(0);
@@ -155,7 +158,8 @@ describe('the refit flow on the changed demo vehicle', () => {
     expect(Math.min(...failing)).toBeGreaterThan(10);
     expect(Math.max(...failing)).toBeCloseTo(25, 0);
     // Side by side at the new breakpoints: the old gains at the top speed fail, the new ones pass there.
-    const rows = (report.baseline as unknown as { atNewBreakpoints: { speed_mps: number; oldFailures: string[]; newMargins: { phaseMargin_deg: number } }[] }).atNewBreakpoints;
+    const rows = (report.baseline as unknown as { atNewBreakpoints: { speed_mps: number; oldFailures: string[]; newMargins: { phaseMargin_deg: number } }[] })
+      .atNewBreakpoints;
     const top = rows[rows.length - 1];
     expect(top.oldFailures.length).toBeGreaterThan(0);
     expect(top.newMargins.phaseMargin_deg).toBeGreaterThanOrEqual(45);
@@ -218,7 +222,7 @@ describe('speedband demo', () => {
   });
 });
 
-describe('a schedule edited and re-checksummed with speedband\'s own function', () => {
+describe("a schedule edited and re-checksummed with speedband's own function", () => {
   it('gains ×3: check says FAILED (exit 1) and export writes nothing (exit 1), though the file says passed and its checksum matches', async () => {
     const schedule = JSON.parse(readFileSync(schedulePath, 'utf8')) as ScheduleFile & { breakpoints: { kp: number; ki: number; kd: number }[] };
     for (const row of schedule.breakpoints) {
@@ -256,7 +260,9 @@ describe('speedband reverify (a deliberate hand edit)', () => {
     expect(reverified.status).toBe('passed');
     expect(reverified.breakpoints[2].kp).toBe(edited.breakpoints[2].kp);
     expect(reverified.breakpoints[2].margins.phaseMargin_deg).not.toBe(89);
-    expect(reverified.provenance.handEdits).toEqual([expect.objectContaining({ statement: expect.stringMatching(/edited by hand.*re-verified/i), changedSections: ['/breakpoints/2'] })]);
+    expect(reverified.provenance.handEdits).toEqual([
+      expect.objectContaining({ statement: expect.stringMatching(/edited by hand.*re-verified/i), changedSections: ['/breakpoints/2'] }),
+    ]);
     expect(await runCli(['check', out, '--vehicle', VAN], recordingIo())).toBe(0);
     expect(await runCli(['export', out, '--format', 'c', '--out', join(dir, 'hand-tuned.h')], recordingIo())).toBe(0);
     const again = recordingIo();

@@ -196,7 +196,15 @@ describe('the default heading plan on a 0.2 rad step through the steering limits
     const { simulateSchedule, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
     const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
     const steeringLimits = schedule.check.timeDomain.steeringLimits;
-    const { parameters } = scenarioParameters(recordedCheckModel(schedule), { name: 'unused', mass_kg: 1, yawInertia_kgm2: 1, cgToFrontAxle_m: 1, cgToRearAxle_m: 1, steeringRatio: 1, ...steeringLimits });
+    const { parameters } = scenarioParameters(recordedCheckModel(schedule), {
+      name: 'unused',
+      mass_kg: 1,
+      yawInertia_kgm2: 1,
+      cgToFrontAxle_m: 1,
+      cgToRearAxle_m: 1,
+      steeringRatio: 1,
+      ...steeringLimits,
+    });
     const [run] = simulateSchedule({ schedule, parameters, steeringLimits, scenarios: ['large-step'], speeds: [row.speed_mps] });
     expect(run.scenario.size).toBe(0.2);
     expect(run.metrics.limitCycle).toBeNull();
@@ -221,7 +229,13 @@ describe('simulate on every demo vehicle and default plan', () => {
         for (const run of runs) {
           const label = `${vehicle} ${name} ${run.scenario.name} ${run.speed_mps}`;
           expect(run.converged, label).toBe(true);
-          for (const value of [run.metrics.peakError, run.metrics.finalError, run.metrics.peakSteerAngle_rad, run.metrics.peakSteerRate_radps, run.metrics.peakLateralAcceleration_mps2]) {
+          for (const value of [
+            run.metrics.peakError,
+            run.metrics.finalError,
+            run.metrics.peakSteerAngle_rad,
+            run.metrics.peakSteerRate_radps,
+            run.metrics.peakLateralAcceleration_mps2,
+          ]) {
             expect(Number.isFinite(value), label).toBe(true);
           }
         }
@@ -229,7 +243,7 @@ describe('simulate on every demo vehicle and default plan', () => {
     }
   }, 120_000);
 
-  it('gives the build\'s misalignment and lateral-force figures at the breakpoints (two independent simulations: state space relative to the path vs transfer functions by superposition)', async () => {
+  it("gives the build's misalignment and lateral-force figures at the breakpoints (two independent simulations: state space relative to the path vs transfer functions by superposition)", async () => {
     const { simulateSchedule, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
     const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
     const { loadVehicle } = await import('../../src/vehicle/load.js');
@@ -239,7 +253,13 @@ describe('simulate on every demo vehicle and default plan', () => {
         const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
         const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
         const rows = lowMidTop(schedule);
-        const runs = simulateSchedule({ schedule, parameters, steeringLimits: file, scenarios: ['misalignment', 'side-force'], speeds: rows.map((row) => row.speed_mps) });
+        const runs = simulateSchedule({
+          schedule,
+          parameters,
+          steeringLimits: file,
+          scenarios: ['misalignment', 'side-force'],
+          speeds: rows.map((row) => row.speed_mps),
+        });
         for (const run of runs) {
           const row = rows.find((r) => r.speed_mps === run.speed_mps)!;
           const figure = run.scenario.name === 'misalignment' ? row.timeDomain!.steeringMisalignment : row.timeDomain!.lateralForce!;

@@ -12,11 +12,13 @@ const tune = (parameters: RuleParameters): TunedOperatingPoint =>
     derivation: { designModel: { integrators: 0, gain: 1, lags_s: [], deadTime_s: 0.1 }, intermediate: {} },
   }) as unknown as TunedOperatingPoint;
 /** Passes when τc lies in [low, high] (too fast breaks a margin, too slow a recovery time). */
-const evaluateWithin = (low: number, high: number) => (gains: { kp: number }): BreakpointEvaluation => {
-  const tauC = 1 / gains.kp;
-  const failures = tauC < low ? ['phase margin'] : tauC > high ? ['recovery time'] : [];
-  return { failures, severity: failures.length } as unknown as BreakpointEvaluation;
-};
+const evaluateWithin =
+  (low: number, high: number) =>
+  (gains: { kp: number }): BreakpointEvaluation => {
+    const tauC = 1 / gains.kp;
+    const failures = tauC < low ? ['phase margin'] : tauC > high ? ['recovery time'] : [];
+    return { failures, severity: failures.length } as unknown as BreakpointEvaluation;
+  };
 const input = (low: number, high: number) => ({
   rule: 'simc' as const,
   speed_mps: 5,
@@ -45,7 +47,9 @@ describe('fastestPassing', () => {
   });
 
   it('refuses a rule without a free parameter with the rules that have one', () => {
-    expect(() => freeParameterOf('amigo')).toThrow(expect.objectContaining({ code: 'plan.invalid', message: expect.stringMatching(/no free parameter.*simc, imc-pid, damping-target, migo/) }));
+    expect(() => freeParameterOf('amigo')).toThrow(
+      expect.objectContaining({ code: 'plan.invalid', message: expect.stringMatching(/no free parameter.*simc, imc-pid, damping-target, migo/) }),
+    );
   });
 
   it('aims inside the frequency-domain limits only (the time-domain ones are judged where they are searched)', () => {

@@ -87,7 +87,10 @@ describe('speedband build with a rule parameter given as an expression of speed'
 describe('speedband build with "tuneFor": "fastest-passing"', () => {
   it('refuses a plan that also gives the searched parameter (exit 2, JSON path named), and records the search at every breakpoint', async () => {
     const conflicting = join(dir, 'conflict.json');
-    writeFileSync(conflicting, JSON.stringify({ loop: { kind: 'path' }, rule: { name: 'damping-target', tuneFor: 'fastest-passing', parameters: { settlingDistance_m: 40 } } }));
+    writeFileSync(
+      conflicting,
+      JSON.stringify({ loop: { kind: 'path' }, rule: { name: 'damping-target', tuneFor: 'fastest-passing', parameters: { settlingDistance_m: 40 } } }),
+    );
     const io = recordingIo();
     expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', conflicting, '--out', join(dir, 'never.json')], io)).toBe(2);
     expect(io.err()).toMatch(/rule\/parameters\/settlingDistance_m.*fastest-passing.*searches naturalFrequency_radps/);

@@ -25,7 +25,15 @@ let loadedModels: string;
 /** A plan with a small set: the given variations only (the others zero), 12 check speeds, a short search. */
 function plan(name: string, variations: Record<string, unknown>): string {
   const path = join(dir, `plan-${name}.json`);
-  const zero = { mass_pct: 0, yawInertia_pct: 0, frontCorneringStiffness_pct: 0, rearCorneringStiffness_pct: 0, actuatorLag_pct: 0, addedLatency_s: 0, fromIdentification: false };
+  const zero = {
+    mass_pct: 0,
+    yawInertia_pct: 0,
+    frontCorneringStiffness_pct: 0,
+    rearCorneringStiffness_pct: 0,
+    actuatorLag_pct: 0,
+    addedLatency_s: 0,
+    fromIdentification: false,
+  };
   writeFileSync(path, JSON.stringify({ check: { gridSpeeds: 12 }, variations: { ...zero, search: { samples: 6, localSearchEvaluations: 6 }, ...variations } }));
   return path;
 }
@@ -47,7 +55,17 @@ beforeAll(() => {
 describe('speedband build with a variation set', () => {
   it('passes a small set: writes the variations section, shows nominal and worst case side by side and names the weakest parameter', async () => {
     const out = join(dir, 'small.json');
-    const run = await cli(['build', '--vehicle', VAN, '--models', vanModels, '--plan', plan('small', { mass_pct: 5, rearCorneringStiffness_pct: 3 }), '--out', out]);
+    const run = await cli([
+      'build',
+      '--vehicle',
+      VAN,
+      '--models',
+      vanModels,
+      '--plan',
+      plan('small', { mass_pct: 5, rearCorneringStiffness_pct: 3 }),
+      '--out',
+      out,
+    ]);
     expect(run.code, run.out + run.err).toBe(0);
     const schedule = readSchedule(out);
     const variations = schedule.variations!;
@@ -94,7 +112,17 @@ describe('speedband build with a variation set', () => {
 
   it('under nominal acceptance reports the same worst case without requiring it (exit 0, status passed)', async () => {
     const out = join(dir, 'soft-nominal.json');
-    const run = await cli(['build', '--vehicle', VAN, '--models', vanModels, '--plan', plan('soft-nominal', { acceptance: 'nominal', rearCorneringStiffness_pct: 15, addedLatency_s: 0.01 }), '--out', out]);
+    const run = await cli([
+      'build',
+      '--vehicle',
+      VAN,
+      '--models',
+      vanModels,
+      '--plan',
+      plan('soft-nominal', { acceptance: 'nominal', rearCorneringStiffness_pct: 15, addedLatency_s: 0.01 }),
+      '--out',
+      out,
+    ]);
     expect(run.code).toBe(0);
     const schedule = readSchedule(out);
     expect(schedule.status).toBe('passed');
@@ -141,8 +169,26 @@ describe('a fastest-passing search on the worst case (rule.searchOn)', () => {
   it('a heading schedule searched on the nominal model fails its worst case; searched on the worst case (the default under robust acceptance) it passes, with slower settings', async () => {
     const written = (searchOn?: 'nominal') => {
       const path = join(dir, `plan-heading-${searchOn ?? 'default'}.json`);
-      const variations = { mass_pct: 10, yawInertia_pct: 0, frontCorneringStiffness_pct: 0, rearCorneringStiffness_pct: 20, actuatorLag_pct: 0, addedLatency_s: 0, fromIdentification: false, search: { samples: 6, localSearchEvaluations: 6 } };
-      writeFileSync(path, JSON.stringify({ loop: { kind: 'heading' }, check: { gridSpeeds: 12 }, breakpoints: { count: 4 }, variations, ...(searchOn === undefined ? {} : { rule: { searchOn } }) }));
+      const variations = {
+        mass_pct: 10,
+        yawInertia_pct: 0,
+        frontCorneringStiffness_pct: 0,
+        rearCorneringStiffness_pct: 20,
+        actuatorLag_pct: 0,
+        addedLatency_s: 0,
+        fromIdentification: false,
+        search: { samples: 6, localSearchEvaluations: 6 },
+      };
+      writeFileSync(
+        path,
+        JSON.stringify({
+          loop: { kind: 'heading' },
+          check: { gridSpeeds: 12 },
+          breakpoints: { count: 4 },
+          variations,
+          ...(searchOn === undefined ? {} : { rule: { searchOn } }),
+        }),
+      );
       return path;
     };
     const nominalOut = join(dir, 'heading-nominal.json');
@@ -177,12 +223,25 @@ describe('a fastest-passing search on the worst case (rule.searchOn)', () => {
   });
 });
 
-describe('after a vehicle change: the old gains over the new vehicle\'s variations', () => {
-  it('build --baseline checks the van\'s gains over the loaded van\'s set, beside its nominal baseline', async () => {
+describe("after a vehicle change: the old gains over the new vehicle's variations", () => {
+  it("build --baseline checks the van's gains over the loaded van's set, beside its nominal baseline", async () => {
     const vanSchedule = join(dir, 'van-nominal.json');
     expect((await cli(['build', '--vehicle', VAN, '--models', vanModels, '--out', vanSchedule])).code).toBe(0);
     const out = join(dir, 'loaded.json');
-    const run = await cli(['build', '--vehicle', LOADED, '--models', loadedModels, '--plan', plan('loaded', { acceptance: 'nominal', mass_pct: 10, rearCorneringStiffness_pct: 10, addedLatency_s: 0.01 }), '--out', out, '--baseline', vanSchedule, '--json']);
+    const run = await cli([
+      'build',
+      '--vehicle',
+      LOADED,
+      '--models',
+      loadedModels,
+      '--plan',
+      plan('loaded', { acceptance: 'nominal', mass_pct: 10, rearCorneringStiffness_pct: 10, addedLatency_s: 0.01 }),
+      '--out',
+      out,
+      '--baseline',
+      vanSchedule,
+      '--json',
+    ]);
     const result = JSON.parse(run.out) as {
       baseline: { passedOnNewModel: boolean; failures: { speed_mps: number }[]; overVariations: NonNullable<ScheduleFile['variations']> };
     };
@@ -195,11 +254,25 @@ describe('after a vehicle change: the old gains over the new vehicle\'s variatio
     expect(run.code).toBe(1);
   });
 
-  it('compare flags the speeds where the old gains break their limits in the worst case over the new vehicle\'s variations (robust acceptance)', async () => {
+  it("compare flags the speeds where the old gains break their limits in the worst case over the new vehicle's variations (robust acceptance)", async () => {
     const out = join(dir, 'loaded-robust.json');
-    await cli(['build', '--vehicle', LOADED, '--models', loadedModels, '--plan', plan('loaded-robust', { mass_pct: 5, rearCorneringStiffness_pct: 5 }), '--out', out, '--allow-failing']);
+    await cli([
+      'build',
+      '--vehicle',
+      LOADED,
+      '--models',
+      loadedModels,
+      '--plan',
+      plan('loaded-robust', { mass_pct: 5, rearCorneringStiffness_pct: 5 }),
+      '--out',
+      out,
+      '--allow-failing',
+    ]);
     const run = await cli(['compare', join(dir, 'van-nominal.json'), out, '--json']);
-    const comparison = JSON.parse(run.out) as { overVariations: { available: boolean; speeds: { speed_mps: number; old: { failures: string[] } }[] }; flags: { kind: string; speed_mps: number | null }[] };
+    const comparison = JSON.parse(run.out) as {
+      overVariations: { available: boolean; speeds: { speed_mps: number; old: { failures: string[] } }[] };
+      flags: { kind: string; speed_mps: number | null }[];
+    };
     expect(comparison.overVariations.available).toBe(true);
     const flagged = comparison.flags.filter((flag) => flag.kind === 'oldGainsFailOverVariations').map((flag) => flag.speed_mps);
     expect(flagged.length).toBeGreaterThan(0);

@@ -54,7 +54,11 @@ function phaseMarginOf(p: SingleTrackParameters, vx: number, gains: { kp: number
 
 let schedule: ScheduleFile;
 beforeAll(async () => {
-  const models = identifyFromLogs({ vehicle: join('vehicles', 'parcel-van'), logPaths: [join('vehicles', 'parcel-van', 'logs')], options: { fitSecondOrder: false } });
+  const models = identifyFromLogs({
+    vehicle: join('vehicles', 'parcel-van'),
+    logPaths: [join('vehicles', 'parcel-van', 'logs')],
+    options: { fitSecondOrder: false },
+  });
   schedule = (await buildSchedule({ vehicle: join('vehicles', 'parcel-van'), logPaths: [], models })).schedule;
 }, 120_000);
 
@@ -69,7 +73,7 @@ describe('containment of the loaded van in a box around the van', () => {
     addedLatency_s: 0.001,
   };
 
-  it('the box holds the loaded van: each of its parameters lies within the box around the van\'s check model', () => {
+  it("the box holds the loaded van: each of its parameters lies within the box around the van's check model", () => {
     const model = recordedCheckModel(schedule)!;
     const context = vanContext(box, {}, model);
     const nominal = model.summary as unknown as SingleTrackParameters;
@@ -79,17 +83,29 @@ describe('containment of the loaded van in a box around the van', () => {
       expect(change, parameter).toBeGreaterThanOrEqual(dimension.minimum);
       expect(change, parameter).toBeLessThanOrEqual(dimension.maximum);
     }
-    expect(context.set.dimensions.map((dimension) => dimension.parameter).sort()).toEqual(
-      ['actuatorDelay_s', 'actuatorLag_s', 'cgToFrontAxle_m', 'frontCorneringStiffness_NPerRad', 'mass_kg', 'rearCorneringStiffness_NPerRad', 'yawInertia_kgm2'],
-    );
+    expect(context.set.dimensions.map((dimension) => dimension.parameter).sort()).toEqual([
+      'actuatorDelay_s',
+      'actuatorLag_s',
+      'cgToFrontAxle_m',
+      'frontCorneringStiffness_NPerRad',
+      'mass_kg',
+      'rearCorneringStiffness_NPerRad',
+      'yawInertia_kgm2',
+    ]);
   });
 
-  it('gives at every breakpoint of the van\'s schedule a worst phase margin no larger than the loaded van\'s actual one (checked against scipy)', () => {
+  it("gives at every breakpoint of the van's schedule a worst phase margin no larger than the loaded van's actual one (checked against scipy)", () => {
     const model = recordedCheckModel(schedule)!;
     const context = { ...vanContext(box, { samples: 64, localSearchEvaluations: 24 }, model), loop: YAW_LOOP };
     const loadedMargins = schedule.breakpoints.map((row) => phaseMarginOf(LOADED, row.speed_mps, row));
     // Source: the same sampled loops computed independently in python (single-track formulas, scipy.signal.cont2discrete).
-    const reference = sampledSingleTrackMarginsInPython({ ...LOADED, T: CONTROLLER.sampleTime_s, N: CONTROLLER.derivativeFilter, latency: CONTROLLER.computationLatency_s, breakpoints: schedule.breakpoints });
+    const reference = sampledSingleTrackMarginsInPython({
+      ...LOADED,
+      T: CONTROLLER.sampleTime_s,
+      N: CONTROLLER.derivativeFilter,
+      latency: CONTROLLER.computationLatency_s,
+      breakpoints: schedule.breakpoints,
+    });
     schedule.breakpoints.forEach((row, k) => {
       expect(Math.abs(loadedMargins[k]! - reference[k].pm!)).toBeLessThan(1e-3 * reference[k].pm!);
       const worst = worstCaseMarginsAt(row.speed_mps, row, context);

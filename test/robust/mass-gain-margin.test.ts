@@ -23,10 +23,14 @@ const SWAPPED = {
   actuatorLag_s: 0.08,
   actuatorDelay_s: 0.05,
 };
-const model = checkModelFromSummary({ kind: 'single-track', understeerGradient_radPerMps2: understeerGradient_radPerMps2(SWAPPED), ...SWAPPED }, 'oversteering test vehicle');
+const model = checkModelFromSummary(
+  { kind: 'single-track', understeerGradient_radPerMps2: understeerGradient_radPerMps2(SWAPPED), ...SWAPPED },
+  'oversteering test vehicle',
+);
 const L = SWAPPED.cgToFrontAxle_m + SWAPPED.cgToRearAxle_m;
 // Source: Gillespie 1992 §6 — K = (m/L)(b/Cf − a/Cr) in rad per m/s²; r/δ at steady state = vx/(L + K·vx²).
-const gradient = (mass_kg: number): number => (mass_kg / L) * (SWAPPED.cgToRearAxle_m / SWAPPED.frontCorneringStiffness_NPerRad - SWAPPED.cgToFrontAxle_m / SWAPPED.rearCorneringStiffness_NPerRad);
+const gradient = (mass_kg: number): number =>
+  (mass_kg / L) * (SWAPPED.cgToRearAxle_m / SWAPPED.frontCorneringStiffness_NPerRad - SWAPPED.cgToFrontAxle_m / SWAPPED.rearCorneringStiffness_NPerRad);
 const steadyYawGain = (mass_kg: number, vx: number): number => vx / (L + gradient(mass_kg) * vx * vx);
 const SPEED = 35; // above the critical speed √(−L/K) ≈ 25.9 m/s
 const GAINS = { kp: 0.3, ki: 0, kd: 0 };

@@ -23,7 +23,11 @@ import { CONTROLLER, VAN_MODEL, vanContext } from './van-loop.js';
 
 const HEADING = { kind: 'heading' as const };
 // The parcel van's steering limits (vehicles/parcel-van/vehicle.json: invented demo data).
-const SETTINGS: TimeDomainSettings = { limits: PLAN_DEFAULTS.acceptance, vehicleLimits: { maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 }, antiWindup: 'conditional-integration' };
+const SETTINGS: TimeDomainSettings = {
+  limits: PLAN_DEFAULTS.acceptance,
+  vehicleLimits: { maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 },
+  antiWindup: 'conditional-integration',
+};
 
 function headingContext(written: WrittenVariations): RobustContext {
   return { ...vanContext(written, { samples: 6, localSearchEvaluations: 6 }), loop: HEADING };
@@ -33,13 +37,26 @@ function headingContext(written: WrittenVariations): RobustContext {
 function headingControl(speed_mps: number): { control: BreakpointControl; nominal: TimeDomainFigures } {
   const model = VAN_MODEL.modelAt(speed_mps);
   const tuned = tuneOperatingPoint({ loop: HEADING, speed_mps, model, rule: 'simc', ruleParameters: {}, controller: CONTROLLER });
-  const simc = tuneOperatingPoint({ loop: HEADING, speed_mps, model, rule: 'simc', ruleParameters: { simcClosedLoopTimeConstant_s: 2 * tuned.derivation.designModel.deadTime_s }, controller: CONTROLLER });
+  const simc = tuneOperatingPoint({
+    loop: HEADING,
+    speed_mps,
+    model,
+    rule: 'simc',
+    ruleParameters: { simcClosedLoopTimeConstant_s: 2 * tuned.derivation.designModel.deadTime_s },
+    controller: CONTROLLER,
+  });
   const gains = simc.gains;
   const loop = performanceLoopAt(model, HEADING, speed_mps, CONTROLLER);
   const margins = analyseOperatingPoint(model, HEADING, CONTROLLER, speed_mps, gains);
   const nominal = breakpointPerformance({ loop, gains, ...SETTINGS, slowestTimeConstant_s: margins.analysis?.sampledDataSlowestTimeConstant_s ?? null });
   return {
-    control: { speed_mps, gains, setpointWeights: nominal.setpointWeights, feedForward: loop.feedForward.gain, feedForwardLeadTime_s: loop.feedForward.leadTime_s },
+    control: {
+      speed_mps,
+      gains,
+      setpointWeights: nominal.setpointWeights,
+      feedForward: loop.feedForward.gain,
+      feedForwardLeadTime_s: loop.feedForward.leadTime_s,
+    },
     nominal: nominal.figures,
   };
 }
@@ -112,15 +129,20 @@ describe('time-domain figures over the set at a breakpoint', () => {
       const brute = new Map<string, number>();
       for (const u of grid) {
         for (const w of grid) {
-          const figures = figuresOf(context, control, [first.minimum + u * (first.maximum - first.minimum), second.minimum + w * (second.maximum - second.minimum)]);
+          const figures = figuresOf(context, control, [
+            first.minimum + u * (first.maximum - first.minimum),
+            second.minimum + w * (second.maximum - second.minimum),
+          ]);
           for (const definition of TIME_DOMAIN_FIGURES) {
             const value = badness(definition.value(figures));
             if (value > (brute.get(definition.name) ?? -Infinity)) brute.set(definition.name, value);
           }
         }
       }
-      for (const name of ['overshoot_pct', 'limitedStepOvershoot_pct'] as const) expect(Math.abs(found.worst[name]!.value! - brute.get(name)!), name).toBeLessThan(0.5);
-      for (const name of ['misalignmentRecoveryTime_s', 'lateralForceRecoveryTime_s', 'settlingTime_s'] as const) expect(Math.abs(found.worst[name]!.value! - brute.get(name)!), name).toBeLessThan(0.1);
+      for (const name of ['overshoot_pct', 'limitedStepOvershoot_pct'] as const)
+        expect(Math.abs(found.worst[name]!.value! - brute.get(name)!), name).toBeLessThan(0.5);
+      for (const name of ['misalignmentRecoveryTime_s', 'lateralForceRecoveryTime_s', 'settlingTime_s'] as const)
+        expect(Math.abs(found.worst[name]!.value! - brute.get(name)!), name).toBeLessThan(0.1);
     });
   }
 
@@ -131,7 +153,11 @@ describe('time-domain figures over the set at a breakpoint', () => {
     // An overshoot limit just above the nominal overshoot at b = 1: the nominal keeps it, the worst case does not.
     const atOne = { ...control, setpointWeights: { proportional: 1, derivative: 0 } };
     const before = worstTimeDomainAt(point, atOne, context, SETTINGS)!;
-    const nominalAtOne = figuresOf(context, atOne, context.set.dimensions.map(() => 1)).referenceStep.overshoot_pct;
+    const nominalAtOne = figuresOf(
+      context,
+      atOne,
+      context.set.dimensions.map(() => 1),
+    ).referenceStep.overshoot_pct;
     const limit = nominalAtOne + 0.5;
     const settings: TimeDomainSettings = { ...SETTINGS, limits: { ...SETTINGS.limits, maximumOvershoot_pct: limit } };
     expect(before.worst.overshoot_pct!.value!).toBeGreaterThan(limit);

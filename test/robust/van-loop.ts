@@ -14,7 +14,10 @@ import { loadVehicle } from '../../src/vehicle/load.js';
 import { singleTrackParametersFromVehicle, understeerGradient_radPerMps2 } from '../../src/vehicle/single-track.js';
 
 export const VAN = singleTrackParametersFromVehicle(loadVehicle(join('vehicles', 'parcel-van')));
-export const VAN_MODEL: CheckModel = checkModelFromSummary({ kind: 'single-track', understeerGradient_radPerMps2: understeerGradient_radPerMps2(VAN), ...VAN }, 'parcel van, nominal (vehicle file)');
+export const VAN_MODEL: CheckModel = checkModelFromSummary(
+  { kind: 'single-track', understeerGradient_radPerMps2: understeerGradient_radPerMps2(VAN), ...VAN },
+  'parcel van, nominal (vehicle file)',
+);
 export const YAW_LOOP = { kind: 'yaw-rate' as const };
 export const CONTROLLER = { derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler' as const, computationLatency_s: 0.01 };
 
@@ -26,6 +29,9 @@ export function vanGains(speed_mps: number): PidGains {
 /** A robust context on the van's nominal model: the plan's variations as written (only those given, unless `defaults`), no identification. */
 export function vanContext(written: WrittenVariations, search: Partial<RobustSearchSettings> = {}, model: CheckModel = VAN_MODEL): RobustContext {
   const zero = { mass_pct: 0, yawInertia_pct: 0, frontCorneringStiffness_pct: 0, rearCorneringStiffness_pct: 0, actuatorLag_pct: 0, addedLatency_s: 0 };
-  const variations = resolveVariations({ ...zero, fromIdentification: false, ...written, search: { samples: 16, localSearchEvaluations: 16, ...search } }, CONTROLLER.sampleTime_s);
+  const variations = resolveVariations(
+    { ...zero, fromIdentification: false, ...written, search: { samples: 16, localSearchEvaluations: 16, ...search } },
+    CONTROLLER.sampleTime_s,
+  );
   return { model, loop: YAW_LOOP, controller: CONTROLLER, set: resolveVariationSet(variations, model.summary, null), search: variations.search };
 }

@@ -18,15 +18,21 @@ const MODELS = {
     },
   },
   speeds: [
-    { speed_mps: 5, fopdt: { gain: 2, timeConstant_s: 0.2, deadTime_s: 0.08, ci95: { gain: [1.9, 2.2], timeConstant_s: [0.19, 0.22], deadTime_s: [0.075, 0.09] } } },
-    { speed_mps: 20, fopdt: { gain: 4, timeConstant_s: 0.1, deadTime_s: 0.07, ci95: { gain: [3.6, 4.1], timeConstant_s: [0.095, 0.12], deadTime_s: [0.068, 0.071] } } },
+    {
+      speed_mps: 5,
+      fopdt: { gain: 2, timeConstant_s: 0.2, deadTime_s: 0.08, ci95: { gain: [1.9, 2.2], timeConstant_s: [0.19, 0.22], deadTime_s: [0.075, 0.09] } },
+    },
+    {
+      speed_mps: 20,
+      fopdt: { gain: 4, timeConstant_s: 0.1, deadTime_s: 0.07, ci95: { gain: [3.6, 4.1], timeConstant_s: [0.095, 0.12], deadTime_s: [0.068, 0.071] } },
+    },
   ],
 } as unknown as ModelsFile;
 
 const byName = (set: ReturnType<typeof resolveVariationSet>) => Object.fromEntries(set.dimensions.map((dimension) => [dimension.parameter, dimension]));
 
 describe('resolveVariationSet on the joint single-track model', () => {
-  it('widens the plan\'s percentages by the identification\'s 95 % intervals and adds the latency to the delay', () => {
+  it("widens the plan's percentages by the identification's 95 % intervals and adds the latency to the delay", () => {
     // Source: the plan reference's definition — factors (low/nominal)(1 − p) to (high/nominal)(1 + p); delay offset from
     // the interval's low end to its high end plus the added latency.
     const variations = resolveVariations({ mass_pct: [-5, 15], rearCorneringStiffness_pct: 10, addedLatency_s: 0.02 }, 0.01);
@@ -41,7 +47,7 @@ describe('resolveVariationSet on the joint single-track model', () => {
     expect(set.rearCorneringStiffness_NPerRad.source).toMatch(/plan ±10 % beyond the identification's 95 % interval/);
   });
 
-  it('without the identification: the plan\'s ranges only, the delay from 0 to the added latency', () => {
+  it("without the identification: the plan's ranges only, the delay from 0 to the added latency", () => {
     const set = byName(resolveVariationSet(resolveVariations({ fromIdentification: false }, 0.01), VAN_MODEL.summary, MODELS));
     expect([set.frontCorneringStiffness_NPerRad.minimum, set.frontCorneringStiffness_NPerRad.maximum]).toEqual([0.8, 1.2]);
     expect([set.actuatorDelay_s.minimum, set.actuatorDelay_s.maximum]).toEqual([0, 0.01]);
@@ -76,11 +82,15 @@ describe('resolveVariationSet on the joint single-track model', () => {
 
 describe('resolveVariationSet on the interpolated lumped models', () => {
   const lumped = checkModelFromSummary(
-    { kind: 'interpolated-lumped', cgToFrontAxle_m: VAN.cgToFrontAxle_m, speeds: MODELS.speeds.map((speed) => ({ speed_mps: speed.speed_mps, ...speed.fopdt })) },
+    {
+      kind: 'interpolated-lumped',
+      cgToFrontAxle_m: VAN.cgToFrontAxle_m,
+      speeds: MODELS.speeds.map((speed) => ({ speed_mps: speed.speed_mps, ...speed.fopdt })),
+    },
     'lumped test models',
   );
 
-  it('varies the FOPDT gain, time constant and dead time by the widest relative interval over the test speeds, and lists the vehicle\'s own variations as not applied', () => {
+  it("varies the FOPDT gain, time constant and dead time by the widest relative interval over the test speeds, and lists the vehicle's own variations as not applied", () => {
     // Source: the intervals above — gain 1.9/2 … 2.2/2 and 3.6/4 … 4.1/4 give 0.9 … 1.1; time constant 0.95 … 1.2;
     // dead time −0.005 … +0.01 s, plus the added latency.
     const set = resolveVariationSet(resolveVariations({ addedLatency_s: 0.01 }, 0.01), lumped.summary, MODELS);
@@ -91,7 +101,13 @@ describe('resolveVariationSet on the interpolated lumped models', () => {
     expect(dimensions.timeConstant_s.maximum).toBeCloseTo(1.2, 12);
     expect(dimensions.deadTime_s.minimum).toBeCloseTo(-0.005, 12);
     expect(dimensions.deadTime_s.maximum).toBeCloseTo(0.02, 12);
-    expect(set.notApplied.map((entry) => entry.field)).toEqual(['mass_pct', 'yawInertia_pct', 'frontCorneringStiffness_pct', 'rearCorneringStiffness_pct', 'actuatorLag_pct']);
+    expect(set.notApplied.map((entry) => entry.field)).toEqual([
+      'mass_pct',
+      'yawInertia_pct',
+      'frontCorneringStiffness_pct',
+      'rearCorneringStiffness_pct',
+      'actuatorLag_pct',
+    ]);
     const changed = operatingPointWith(lumped.modelAt(5), set, [1.1, 0.95, 0.02]);
     expect(changed.kind === 'lumped' && changed.yawRate).toEqual({ kind: 'fopdt', gain: 2.2, timeConstant_s: 0.2 * 0.95, deadTime_s: 0.1 });
   });

@@ -118,7 +118,7 @@ describe('a set holding an unstable loop', () => {
     expect(failures[0].message).toMatch(/^closed loop unstable with .*actuator delay \+0\.\d{3} s/);
   });
 
-  it('Mt is judged like the other limits: a worst Mt above the plan\'s limit fails, naming its combination', () => {
+  it("Mt is judged like the other limits: a worst Mt above the plan's limit fails, naming its combination", () => {
     const found = worstCaseMarginsAt(25, vanGains(25), vanContext({ rearCorneringStiffness_pct: 20, addedLatency_s: 0.01 }));
     expect(found.instability).toBeNull();
     const mt = found.worst.complementarySensitivityPeak!;

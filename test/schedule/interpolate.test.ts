@@ -10,15 +10,13 @@ const ROUNDING = 1e-13;
 const METHODS: readonly InterpolationMethod[] = ['linear', 'monotone-cubic'];
 
 /** Random tables: 1–8 strictly increasing speeds in (0, 40] m/s, gains of either sign. */
-const tableArbitrary = fc
-  .uniqueArray(fc.double({ min: 0.1, max: 40, noNaN: true }), { minLength: 1, maxLength: 8 })
-  .chain((speeds) => {
-    const sorted = [...speeds].sort((a, b) => a - b);
-    const gain = fc.double({ min: -50, max: 50, noNaN: true });
-    return fc
-      .array(fc.record({ kp: gain, ki: gain, kd: gain }), { minLength: sorted.length, maxLength: sorted.length })
-      .map((gains): GainTable => ({ speeds_mps: sorted, gains }));
-  });
+const tableArbitrary = fc.uniqueArray(fc.double({ min: 0.1, max: 40, noNaN: true }), { minLength: 1, maxLength: 8 }).chain((speeds) => {
+  const sorted = [...speeds].sort((a, b) => a - b);
+  const gain = fc.double({ min: -50, max: 50, noNaN: true });
+  return fc
+    .array(fc.record({ kp: gain, ki: gain, kd: gain }), { minLength: sorted.length, maxLength: sorted.length })
+    .map((gains): GainTable => ({ speeds_mps: sorted, gains }));
+});
 
 describe('makeGainLookup(table)', () => {
   for (const interpolation of METHODS) {
@@ -55,7 +53,14 @@ describe('makeGainLookup(table)', () => {
 
     it(`${interpolation}: clamps to the end values outside the table`, () => {
       // Source: docs/domain.md §7 — out of range the schedule holds its end values (clamp), no extrapolation.
-      const table: GainTable = { speeds_mps: [2, 5, 10], gains: [{ kp: 3, ki: 1, kd: 0.5 }, { kp: 2, ki: 0.5, kd: 0.2 }, { kp: 1, ki: 0.2, kd: 0.1 }] };
+      const table: GainTable = {
+        speeds_mps: [2, 5, 10],
+        gains: [
+          { kp: 3, ki: 1, kd: 0.5 },
+          { kp: 2, ki: 0.5, kd: 0.2 },
+          { kp: 1, ki: 0.2, kd: 0.1 },
+        ],
+      };
       const lookup = makeGainLookup(table, { interpolation });
       expect(lookup(0)).toEqual(table.gains[0]);
       expect(lookup(1.999)).toEqual(table.gains[0]);
@@ -66,18 +71,14 @@ describe('makeGainLookup(table)', () => {
 
   it('monotone-cubic: monotone data gives a monotone lookup (Fritsch & Carlson 1980)', () => {
     // Source: Fritsch & Carlson 1980, SIAM J. Numer. Anal. 17(2) — the α² + β² ≤ 9 condition guarantees monotone intervals.
-    const increasingTable = fc
-      .uniqueArray(fc.double({ min: 0.1, max: 40, noNaN: true }), { minLength: 2, maxLength: 8 })
-      .chain((speeds) =>
-        fc
-          .array(fc.double({ min: 0, max: 10, noNaN: true }), { minLength: speeds.length, maxLength: speeds.length })
-          .map((steps) => {
-            const sorted = [...speeds].sort((a, b) => a - b);
-            let value = 0;
-            const values = steps.map((step) => (value += step));
-            return { speeds: sorted, values };
-          }),
-      );
+    const increasingTable = fc.uniqueArray(fc.double({ min: 0.1, max: 40, noNaN: true }), { minLength: 2, maxLength: 8 }).chain((speeds) =>
+      fc.array(fc.double({ min: 0, max: 10, noNaN: true }), { minLength: speeds.length, maxLength: speeds.length }).map((steps) => {
+        const sorted = [...speeds].sort((a, b) => a - b);
+        let value = 0;
+        const values = steps.map((step) => (value += step));
+        return { speeds: sorted, values };
+      }),
+    );
     fc.assert(
       fc.property(increasingTable, fc.boolean(), ({ speeds, values }, decreasing) => {
         const sign = decreasing ? -1 : 1;
@@ -114,7 +115,14 @@ describe('makeGainLookup(table)', () => {
 
   it('below the low-speed floor the gains at the floor are used', () => {
     // Source: docs/domain.md §7 — gains grow like 1/vx², so below a floor speed the floor's gains are held.
-    const table: GainTable = { speeds_mps: [1, 4, 8], gains: [{ kp: 16, ki: 4, kd: 1 }, { kp: 1, ki: 0.25, kd: 0.0625 }, { kp: 0.25, ki: 0.0625, kd: 0.015625 }] };
+    const table: GainTable = {
+      speeds_mps: [1, 4, 8],
+      gains: [
+        { kp: 16, ki: 4, kd: 1 },
+        { kp: 1, ki: 0.25, kd: 0.0625 },
+        { kp: 0.25, ki: 0.0625, kd: 0.015625 },
+      ],
+    };
     for (const interpolation of METHODS) {
       const lookup = makeGainLookup(table, { interpolation, lowSpeedFloor_mps: 2 });
       expect(lookup(0.5)).toEqual(lookup(2));
@@ -126,9 +134,15 @@ describe('makeGainLookup(table)', () => {
   });
 
   it('rejects unsorted speeds and non-finite speeds with typed errors', () => {
-    expect(() => makeGainLookup({ speeds_mps: [2, 2], gains: [{ kp: 1, ki: 1, kd: 1 }, { kp: 1, ki: 1, kd: 1 }] })).toThrow(
-      expect.objectContaining({ code: 'schedule.tableInvalid' }),
-    );
+    expect(() =>
+      makeGainLookup({
+        speeds_mps: [2, 2],
+        gains: [
+          { kp: 1, ki: 1, kd: 1 },
+          { kp: 1, ki: 1, kd: 1 },
+        ],
+      }),
+    ).toThrow(expect.objectContaining({ code: 'schedule.tableInvalid' }));
     const lookup = makeGainLookup({ speeds_mps: [2], gains: [{ kp: 1, ki: 1, kd: 1 }] });
     expect(() => lookup(Number.NaN)).toThrow(expect.objectContaining({ code: 'schedule.speedNotFinite' }));
   });

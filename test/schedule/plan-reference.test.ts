@@ -16,7 +16,9 @@ describe('docs/plan.md, the plan reference', () => {
     for (const name of parameters) expect(text).toContain(`| \`rule.parameters.${name}\` |`);
     for (const name of Object.keys(PLAN_SCHEMA.properties.acceptance.properties)) expect(text).toContain(`| \`acceptance.${name}\` |`);
     for (const rule of TUNING_RULES) expect(text).toContain(`| \`${rule.name}\` | ${rule.title} |`);
-    expect(text).toMatch(new RegExp(`\\| \`acceptance\\.minimumPhaseMargin_deg\` \\|[^\\n]*\\| ° \\| \`${PLAN_DEFAULTS.acceptance.minimumPhaseMargin_deg}\` \\|`));
+    expect(text).toMatch(
+      new RegExp(`\\| \`acceptance\\.minimumPhaseMargin_deg\` \\|[^\\n]*\\| ° \\| \`${PLAN_DEFAULTS.acceptance.minimumPhaseMargin_deg}\` \\|`),
+    );
     expect(text).toMatch(/\| `controller\.computationLatency_s` \|[^\n]*\| s \| one sample: controller\.sampleTime_s \|/);
   });
 

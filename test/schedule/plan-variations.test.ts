@@ -13,12 +13,12 @@ function planError(value: unknown): { code: string; jsonPath?: string; message: 
   throw new Error('expected a plan error');
 }
 
-describe('the plan\'s variations section', () => {
+describe("the plan's variations section", () => {
   it('is absent by default: the schedule is checked on the nominal model only', () => {
     expect(resolvePlan({}).variations).toBeUndefined();
   });
 
-  it('given as {}, takes every default: ± ranges, one sample of added latency, the identification\'s intervals, robust acceptance', () => {
+  it("given as {}, takes every default: ± ranges, one sample of added latency, the identification's intervals, robust acceptance", () => {
     const variations = resolvePlan({ variations: {} }, { vehicleSampleTime_s: 0.02 }).variations!;
     expect(variations.acceptance).toBe('robust');
     expect(variations.mass_pct).toEqual([-VARIATION_DEFAULTS.mass_pct, VARIATION_DEFAULTS.mass_pct]);
@@ -30,7 +30,8 @@ describe('the plan\'s variations section', () => {
   });
 
   it('takes [down, up] ranges and partial search settings as written', () => {
-    const variations = planFromJson({ variations: { mass_pct: [-5, 30], cgRearwardShift_m: [-0.1, 0.2], acceptance: 'nominal', search: { samples: 10 } } }).variations!;
+    const variations = planFromJson({ variations: { mass_pct: [-5, 30], cgRearwardShift_m: [-0.1, 0.2], acceptance: 'nominal', search: { samples: 10 } } })
+      .variations!;
     expect(variations.mass_pct).toEqual([-5, 30]);
     expect(variations.cgRearwardShift_m).toEqual([-0.1, 0.2]);
     expect(variations.acceptance).toBe('nominal');

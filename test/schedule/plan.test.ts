@@ -55,7 +55,9 @@ describe('planBreakpoints(plan)', () => {
   });
 
   it('linear spacing starts at the low-speed floor when it lies above the range minimum', () => {
-    const speeds = planBreakpoints(resolvePlan({ speeds: { minimum_mps: 1, maximum_mps: 11, lowSpeedFloor_mps: 3 }, breakpoints: { count: 5, spacing: 'linear' } }));
+    const speeds = planBreakpoints(
+      resolvePlan({ speeds: { minimum_mps: 1, maximum_mps: 11, lowSpeedFloor_mps: 3 }, breakpoints: { count: 5, spacing: 'linear' } }),
+    );
     expect(speeds).toEqual([3, 5, 7, 9, 11]);
   });
 
@@ -70,13 +72,19 @@ describe('plan file validation', () => {
   });
 
   it('rejects a mistyped field with its JSON path', () => {
-    expect(() => planFromJson({ loop: { kind: 'lateral' } })).toThrow(expect.objectContaining({ code: 'plan.invalid', location: expect.objectContaining({ jsonPath: '/loop/kind' }) }));
-    expect(() => planFromJson({ controller: { sampleTime_s: -1 } })).toThrow(expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/controller/sampleTime_s' }) }));
+    expect(() => planFromJson({ loop: { kind: 'lateral' } })).toThrow(
+      expect.objectContaining({ code: 'plan.invalid', location: expect.objectContaining({ jsonPath: '/loop/kind' }) }),
+    );
+    expect(() => planFromJson({ controller: { sampleTime_s: -1 } })).toThrow(
+      expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/controller/sampleTime_s' }) }),
+    );
     expect(() => planFromJson({ check: { gridSize: 300 } })).toThrow(/unknown field "gridSize"/);
   });
 
   it('rejects unsorted breakpoints and speed tables with the offending index', () => {
-    expect(() => planFromJson({ breakpoints: { speeds_mps: [2, 8, 5] } })).toThrow(expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/breakpoints/speeds_mps/2' }) }));
+    expect(() => planFromJson({ breakpoints: { speeds_mps: [2, 8, 5] } })).toThrow(
+      expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/breakpoints/speeds_mps/2' }) }),
+    );
     expect(() => planFromJson({ rule: { name: 'damping-target', parameters: { settlingDistance_m: { speeds_mps: [5, 2], values: [10, 20] } } } })).toThrow(
       expect.objectContaining({ location: expect.objectContaining({ jsonPath: '/rule/parameters/settlingDistance_m/speeds_mps/1' }) }),
     );
@@ -103,7 +111,7 @@ describe('plan file validation', () => {
 });
 
 describe('defaults per loop kind', () => {
-  it('a plan naming no rule takes the loop kind\'s default rule and search; a path loop without a preview takes 0.5 m + 0.3 s × speed', () => {
+  it("a plan naming no rule takes the loop kind's default rule and search; a path loop without a preview takes 0.5 m + 0.3 s × speed", () => {
     expect(resolvePlan({}).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'rule-parameters', searchOn: 'nominal' });
     expect(resolvePlan({ loop: { kind: 'heading' } }).rule).toEqual({ name: 'simc', parameters: {}, tuneFor: 'fastest-passing', searchOn: 'nominal' });
     const path = resolvePlan({ loop: { kind: 'path' } });
@@ -116,7 +124,13 @@ describe('defaults per loop kind', () => {
 
   it('the new acceptance limits have their documented defaults', () => {
     // Overshoot ≤ 25 % (common practice); 15 s, 0.5 m, 0.3 m (our targets); Mt ≤ 2 (see PLAN_DEFAULTS).
-    expect(resolvePlan({}).acceptance).toMatchObject({ maximumComplementarySensitivityPeak: 2, maximumOvershoot_pct: 25, maximumRecoveryTime_s: 15, maximumLaneChangeError_m: 0.5, maximumCurveEntryError_m: 0.3 });
+    expect(resolvePlan({}).acceptance).toMatchObject({
+      maximumComplementarySensitivityPeak: 2,
+      maximumOvershoot_pct: 25,
+      maximumRecoveryTime_s: 15,
+      maximumLaneChangeError_m: 0.5,
+      maximumCurveEntryError_m: 0.3,
+    });
     expect(resolvePlan({}).controller.antiWindup).toBe('conditional-integration');
   });
 });

@@ -29,7 +29,9 @@ describe('makeRuleParameterLookup(parameters) gives the rule parameters at any s
       location: { file: 'plan.json', jsonPath: '/rule/parameters/settlingDistance_m' },
       message: expect.stringMatching(/^settlingDistance_m "max\(15, 1\.2 \* speed\)": unknown name "speed" .* \(at character 15 of the expression\)/),
     });
-    await expect(makeRuleParameterLookup({ dampingRatio: 'evaluate("1")' })).rejects.toMatchObject({ message: expect.stringContaining('function evaluate is not allowed') });
+    await expect(makeRuleParameterLookup({ dampingRatio: 'evaluate("1")' })).rejects.toMatchObject({
+      message: expect.stringContaining('function evaluate is not allowed'),
+    });
   });
 
   it('an expression quoted in an error is cut and its control characters escaped, like all input text in messages', async () => {
@@ -49,7 +51,13 @@ describe('makeRuleParameterLookup(parameters) gives the rule parameters at any s
   it('an expression that is not a positive number at a speed → plan.invalid naming the speed and the value', async () => {
     const at = await makeRuleParameterLookup({ settlingDistance_m: '10 * speed_mps - 50' }, 'plan.json');
     expect(at(6).settlingDistance_m).toBe(10);
-    expect(() => at(4)).toThrow(expect.objectContaining({ code: 'plan.invalid', message: expect.stringContaining('gives -10 at 4 m/s'), details: expect.objectContaining({ speed_mps: 4 }) }));
+    expect(() => at(4)).toThrow(
+      expect.objectContaining({
+        code: 'plan.invalid',
+        message: expect.stringContaining('gives -10 at 4 m/s'),
+        details: expect.objectContaining({ speed_mps: 4 }),
+      }),
+    );
     const complex = await makeRuleParameterLookup({ dampingRatio: 'sqrt(speed_mps - 5)' });
     expect(() => complex(1)).toThrow(/gives the complex number/);
   });
@@ -63,9 +71,14 @@ describe('the plan schema and SPEED_VARYING_PARAMETERS agree', () => {
   });
 
   it('planFromJson accepts an expression string and refuses an empty one at its JSON path', () => {
-    expect(planFromJson({ rule: { parameters: { simcClosedLoopTimeConstant_s: '0.1 + 0.01 * speed_mps' } } }).rule.parameters.simcClosedLoopTimeConstant_s).toBe('0.1 + 0.01 * speed_mps');
+    expect(
+      planFromJson({ rule: { parameters: { simcClosedLoopTimeConstant_s: '0.1 + 0.01 * speed_mps' } } }).rule.parameters.simcClosedLoopTimeConstant_s,
+    ).toBe('0.1 + 0.01 * speed_mps');
     expect(() => planFromJson({ rule: { parameters: { simcClosedLoopTimeConstant_s: '' } } })).toThrow(
-      expect.objectContaining({ code: 'plan.invalid', location: expect.objectContaining({ jsonPath: expect.stringContaining('/rule/parameters/simcClosedLoopTimeConstant_s') }) }),
+      expect.objectContaining({
+        code: 'plan.invalid',
+        location: expect.objectContaining({ jsonPath: expect.stringContaining('/rule/parameters/simcClosedLoopTimeConstant_s') }),
+      }),
     );
   });
 });

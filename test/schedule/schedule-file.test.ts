@@ -137,7 +137,9 @@ print(json.dumps({'value': hashlib.sha256(text.encode('utf-8')).hexdigest(), 'te
   it('a file of format version 1 (whose checksum covered the table only) is refused by name', () => {
     const old = JSON.parse(serialiseSchedule(sampleSchedule()));
     old.formatVersion = 1;
-    expect(() => parseSchedule(old, 'old.json')).toThrow(expect.objectContaining({ code: 'schedule.unsupportedVersion', message: expect.stringMatching(/rebuild/) }));
+    expect(() => parseSchedule(old, 'old.json')).toThrow(
+      expect.objectContaining({ code: 'schedule.unsupportedVersion', message: expect.stringMatching(/rebuild/) }),
+    );
   });
 });
 
@@ -181,7 +183,11 @@ describe('writeSchedule / readSchedule', () => {
     const missing = clone(base);
     delete missing.controller.sampleTime_s;
     expect(() => parseSchedule(missing, 'schedule.json')).toThrow(
-      expect.objectContaining({ code: 'schedule.invalid', location: expect.objectContaining({ jsonPath: '/controller' }), message: expect.stringMatching(/sampleTime_s/) }),
+      expect.objectContaining({
+        code: 'schedule.invalid',
+        location: expect.objectContaining({ jsonPath: '/controller' }),
+        message: expect.stringMatching(/sampleTime_s/),
+      }),
     );
     const mistyped = clone(base);
     mistyped.breakpoints[1].kp = '0.5';

@@ -48,6 +48,11 @@ describe('amigo(model) — Åström & Hägglund 2004 AMIGO formulas', () => {
 
   it('refuses a double integrator (a path loop) and names the rules that apply', () => {
     const path: DesignModel = { integrators: 2, gain: 10, lags_s: [0.1], deadTime_s: 0.1 };
-    expect(() => applyRule('amigo', path, {}, { speed_mps: 5 })).toThrow(expect.objectContaining({ code: 'tuning.ruleNotApplicable', message: expect.stringMatching(/monotone step responses[\s\S]*rules that apply: .*damping-target/) }));
+    expect(() => applyRule('amigo', path, {}, { speed_mps: 5 })).toThrow(
+      expect.objectContaining({
+        code: 'tuning.ruleNotApplicable',
+        message: expect.stringMatching(/monotone step responses[\s\S]*rules that apply: .*damping-target/),
+      }),
+    );
   });
 });

@@ -60,7 +60,14 @@ const pathPreview = loopPlantFromLumped({ specification: { kind: 'path', preview
 const previewRange = proportionalGainRange(pathPreview);
 const previewProbes = previewRange?.highestGain ? [0.01, 0.5, 0.97, 1.03, 3].map((m) => m * previewRange.highestGain!) : [];
 const noPreviewGains = [1e-4, 1e-3, 1e-2, 0.1, 1, 10];
-const pathPid = tuneOperatingPoint({ loop: { kind: 'path' }, speed_mps, model: { kind: 'lumped', yawRate }, rule: 'damping-target', ruleParameters: {}, controller }).gains;
+const pathPid = tuneOperatingPoint({
+  loop: { kind: 'path' },
+  speed_mps,
+  model: { kind: 'lumped', yawRate },
+  rule: 'damping-target',
+  ruleParameters: {},
+  controller,
+}).gains;
 const pathPd = { ...pathPid, ki: 0 };
 const bias_rad = 0.01;
 const heading = tuneOperatingPoint({ loop: { kind: 'heading' }, speed_mps, model: { kind: 'lumped', yawRate }, rule: 'simc', ruleParameters: {}, controller });
@@ -72,7 +79,11 @@ const pdKp = (pdOmega * pdOmega) / pdGain;
 const pdKdTarget = (2 * 0.5 * pdOmega) / pdGain;
 const pdCritical = 2 * Math.sqrt(pdKp / pdGain);
 const pdMultipliers = [1, 1.5, 1.9, pdCritical / pdKdTarget, 2.1, 3, 10];
-const placed = dampingTarget({ integrators: 2, gain: 1, lags_s: [], deadTime_s: 0.05 }, { dampingRatio: 0.5, naturalFrequency_radps: 1 }, { speed_mps: 1 }).gains;
+const placed = dampingTarget(
+  { integrators: 2, gain: 1, lags_s: [], deadTime_s: 0.05 },
+  { dampingRatio: 0.5, naturalFrequency_radps: 1 },
+  { speed_mps: 1 },
+).gains;
 
 const tasks: Record<string, unknown>[] = [
   ...noPreviewGains.map((kp) => loopTask('stable', { kp, ki: 0, kd: 0 }, pathNoPreview.plant)),

@@ -15,8 +15,13 @@ describe('dampingTarget (pole placement on k′′/s²)', () => {
       }),
       { numRuns: 200, seed: 42 },
     );
-    const gains = cases.map((c) =>
-      dampingTarget({ integrators: 2, gain: c.gain, lags_s: [], deadTime_s: 0.05 }, { dampingRatio: c.zeta, naturalFrequency_radps: c.omega, integralPoleRatio: c.ratio }, { speed_mps: 5 }).gains,
+    const gains = cases.map(
+      (c) =>
+        dampingTarget(
+          { integrators: 2, gain: c.gain, lags_s: [], deadTime_s: 0.05 },
+          { dampingRatio: c.zeta, naturalFrequency_radps: c.omega, integralPoleRatio: c.ratio },
+          { speed_mps: 5 },
+        ).gains,
     );
     // Source: numpy.roots (reference library) of the closed-loop characteristic polynomial.
     const roots = runPython<{ re: number[]; im: number[] }[]>(
@@ -131,11 +136,17 @@ print(json.dumps(out))
     const result = dampingTarget({ integrators: 2, gain: 10, lags_s: [0.2], deadTime_s: 0.1 }, { naturalFrequency_radps: 2 }, { speed_mps: 10 });
     expect(result.intermediate.effectiveDeadTime_s).toBeCloseTo(0.2, 14);
     expect(result.warnings.join()).toMatch(/more bandwidth than the actuator lag and delay/);
-    expect(dampingTarget({ integrators: 2, gain: 10, lags_s: [0.2], deadTime_s: 0.1 }, { naturalFrequency_radps: 0.5 }, { speed_mps: 10 }).warnings).toEqual([]);
+    expect(dampingTarget({ integrators: 2, gain: 10, lags_s: [0.2], deadTime_s: 0.1 }, { naturalFrequency_radps: 0.5 }, { speed_mps: 10 }).warnings).toEqual(
+      [],
+    );
   });
 
   it('the documented bound ωn·θ = 0.2 (ζ = 1, ratio 5) leaves a phase margin near 48° on k′′e^(−θs)/s² (scipy brentq)', () => {
-    const gains = dampingTarget({ integrators: 2, gain: 1, lags_s: [], deadTime_s: TUNING_DEFAULTS.maximumBandwidthDelayProduct }, { naturalFrequency_radps: 1 }, { speed_mps: 1 }).gains;
+    const gains = dampingTarget(
+      { integrators: 2, gain: 1, lags_s: [], deadTime_s: TUNING_DEFAULTS.maximumBandwidthDelayProduct },
+      { naturalFrequency_radps: 1 },
+      { speed_mps: 1 },
+    ).gains;
     // Source: scipy.optimize.brentq on |L(jω)| = 1 for L = (kd s² + kp s + ki)e^(−θs)/s³ (reference library).
     const { phaseMargin_deg } = runPython<{ phaseMargin_deg: number }>(
       `

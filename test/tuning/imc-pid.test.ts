@@ -8,7 +8,12 @@ describe('imcPid (Rivera, Morari & Skogestad 1986, FOPDT with first-order Padé)
   it('K=2, τ=10 s, θ=2 s, λ=2 s: Kc = (2τ+θ)/(K(2λ+θ)) = 22/12, Ti = τ+θ/2 = 11 s, Td = τθ/(2τ+θ) = 20/22 s', () => {
     // Source: Rivera, Morari & Skogestad 1986, PID row for FOPDT (formulas as in docs/domain.md §4), evaluated by hand.
     const result = imcPid(fopdt, { closedLoopTimeConstant_s: 2 });
-    expect(result.ruleForm).toEqual({ form: 'ideal', gain: expect.closeTo(22 / 12, 12), integralTime_s: expect.closeTo(11, 12), derivativeTime_s: expect.closeTo(20 / 22, 12) });
+    expect(result.ruleForm).toEqual({
+      form: 'ideal',
+      gain: expect.closeTo(22 / 12, 12),
+      integralTime_s: expect.closeTo(11, 12),
+      derivativeTime_s: expect.closeTo(20 / 22, 12),
+    });
     expect(result.gains.kp).toBeCloseTo(22 / 12, 12);
     expect(result.gains.ki).toBeCloseTo(22 / 12 / 11, 12);
     expect(result.gains.kd).toBeCloseTo((22 / 12) * (20 / 22), 12);

@@ -65,7 +65,12 @@ describe('migo(model, parameters, { fullLoop }) — maximum ki with Ms ≤ M and
     for (const controllerType of ['PI', 'PID'] as const) {
       for (const target of [1.4, 1.8]) {
         const ours = migo(design, { controllerType, sensitivityPeakTarget: target }, { speed_mps: 5, fullLoop: { plant, controller } });
-        const margins = analyseLoop({ plant, pid: { ...ours.gains, derivativeFilter: controller.derivativeFilter }, sampleTime_s: controller.sampleTime_s, discretisation: controller.discretisation });
+        const margins = analyseLoop({
+          plant,
+          pid: { ...ours.gains, derivativeFilter: controller.derivativeFilter },
+          sampleTime_s: controller.sampleTime_s,
+          discretisation: controller.discretisation,
+        });
         expect(margins.verdict).toBe('stable');
         expect(margins.sensitivityPeak).toBeLessThanOrEqual(target * 1.005);
         expect(margins.complementarySensitivityPeak).toBeLessThanOrEqual(target * 1.005);
@@ -76,16 +81,27 @@ describe('migo(model, parameters, { fullLoop }) — maximum ki with Ms ≤ M and
 
   it('with phaseMarginTarget_deg also keeps the phase margin (a larger bound M then no longer costs phase margin)', () => {
     const free = migo(design, { controllerType: 'PID', sensitivityPeakTarget: 2 }, { speed_mps: 5, fullLoop: { plant, controller } });
-    const held = migo(design, { controllerType: 'PID', sensitivityPeakTarget: 2, phaseMarginTarget_deg: 55 }, { speed_mps: 5, fullLoop: { plant, controller } });
+    const held = migo(
+      design,
+      { controllerType: 'PID', sensitivityPeakTarget: 2, phaseMarginTarget_deg: 55 },
+      { speed_mps: 5, fullLoop: { plant, controller } },
+    );
     const margins = (gains: typeof free.gains) =>
-      analyseLoop({ plant, pid: { ...gains, derivativeFilter: controller.derivativeFilter }, sampleTime_s: controller.sampleTime_s, discretisation: controller.discretisation });
+      analyseLoop({
+        plant,
+        pid: { ...gains, derivativeFilter: controller.derivativeFilter },
+        sampleTime_s: controller.sampleTime_s,
+        discretisation: controller.discretisation,
+      });
     expect(margins(free.gains).phaseMargin_deg as number).toBeLessThan(55);
     expect(margins(held.gains).phaseMargin_deg as number).toBeGreaterThanOrEqual(54.5);
     expect(held.gains.ki).toBeLessThan(free.gains.ki);
   });
 
   it('refuses without the full loop, and where no PI keeps the bound (a PI cannot stabilise a delayed double integrator), saying why', () => {
-    expect(() => applyRule('migo', design, {}, { speed_mps: 5 })).toThrow(expect.objectContaining({ code: 'tuning.ruleNotApplicable', message: expect.stringMatching(/full loop/) }));
+    expect(() => applyRule('migo', design, {}, { speed_mps: 5 })).toThrow(
+      expect.objectContaining({ code: 'tuning.ruleNotApplicable', message: expect.stringMatching(/full loop/) }),
+    );
     const doubleIntegrator = { numerator: [1], denominator: [1, 0, 0], delay_s: 0.1 };
     const model: DesignModel = { integrators: 2, gain: 1, lags_s: [], deadTime_s: 0.105 };
     expect(() => migo(model, { controllerType: 'PI', sensitivityPeakTarget: 2 }, { speed_mps: 5, fullLoop: { plant: doubleIntegrator, controller } })).toThrow(

@@ -64,7 +64,14 @@ describe('tuneOperatingPoint: SIMC loops with known margins (τc = θ, margins o
 
 describe('tuneOperatingPoint: sampling', () => {
   it('warns when the crossover exceeds a tenth of the sampling frequency (common practice: sample ≥ 10× the crossover)', () => {
-    const fast = tuneOperatingPoint({ loop: { kind: 'yaw-rate' }, speed_mps: 5, model: { kind: 'lumped', yawRate: { kind: 'fopdt', gain: 2, timeConstant_s: 0.12, deadTime_s: 0 } }, rule: 'imc-pid', ruleParameters: {}, controller });
+    const fast = tuneOperatingPoint({
+      loop: { kind: 'yaw-rate' },
+      speed_mps: 5,
+      model: { kind: 'lumped', yawRate: { kind: 'fopdt', gain: 2, timeConstant_s: 0.12, deadTime_s: 0 } },
+      rule: 'imc-pid',
+      ruleParameters: {},
+      controller,
+    });
     // θ = Ts/2 = 0.01 s only, λ = θ: crossover near 1/(λ + θ/2)·... far above 2π/Ts/10 = 31 rad/s.
     expect(fast.margins.phaseMarginFrequency_radps!).toBeGreaterThan(0.1 * ((2 * Math.PI) / controller.sampleTime_s));
     expect(fast.warnings.join()).toMatch(/a tenth of the sampling frequency/);
@@ -86,7 +93,11 @@ describe('tuneOperatingPoint: applicability and signs', () => {
   });
 
   it('a negative plant gain gives negative gains and the same margins (docs/domain.md §5b)', () => {
-    for (const [kind, rule] of [['yaw-rate', 'imc-pid'], ['heading', 'ziegler-nichols-step'], ['path', 'damping-target']] as const) {
+    for (const [kind, rule] of [
+      ['yaw-rate', 'imc-pid'],
+      ['heading', 'ziegler-nichols-step'],
+      ['path', 'damping-target'],
+    ] as const) {
       const positive = lumped({ kind: 'fopdt', gain: 2, timeConstant_s: 0.2, deadTime_s: 0.09 }, { kind, preview_m: 2 }, rule);
       const negative = lumped({ kind: 'fopdt', gain: -2, timeConstant_s: 0.2, deadTime_s: 0.09 }, { kind, preview_m: 2 }, rule);
       expect(negative.gains.kp).toBeCloseTo(-positive.gains.kp, 10);
@@ -105,14 +116,22 @@ describe('design models from lumped second-order models', () => {
     const tuned = tuneOperatingPoint({
       loop: { kind: 'yaw-rate' },
       speed_mps: 5,
-      model: { kind: 'lumped', yawRate: { kind: 'second-order', gain: 2, naturalFrequency_radps: 2, dampingRatio: 1.25, zeroTimeConstant_s: 0, deadTime_s: 0.09 } },
+      model: {
+        kind: 'lumped',
+        yawRate: { kind: 'second-order', gain: 2, naturalFrequency_radps: 2, dampingRatio: 1.25, zeroTimeConstant_s: 0, deadTime_s: 0.09 },
+      },
       rule: 'simc',
       ruleParameters: {},
       controller,
     });
     expect(tuned.design.model.lags_s).toEqual([1, 0.25]);
     // θ = 0.09 + Ts/2 = 0.1 s, τc = θ: Kc = τ1/(K(τc + θ)) = 1/(2·0.2) = 2.5, τI = min(1, 0.8) = 0.8 s, τD = 0.25 s.
-    expect(tuned.derivation.ruleForm).toEqual({ form: 'series', gain: expect.closeTo(2.5, 12), integralTime_s: expect.closeTo(0.8, 12), derivativeTime_s: 0.25 });
+    expect(tuned.derivation.ruleForm).toEqual({
+      form: 'series',
+      gain: expect.closeTo(2.5, 12),
+      integralTime_s: expect.closeTo(0.8, 12),
+      derivativeTime_s: 0.25,
+    });
     expect(tuned.margins.stable).toBe(true);
   });
 });
@@ -128,7 +147,8 @@ describe('design models from the single-track model', () => {
   it('keeps the steady yaw gain vx/(L + Ku·vx²) and gives k″ = K·vx for the path loop (Gillespie 1992)', () => {
     const speed = 12;
     const L = van.cgToFrontAxle_m + van.cgToRearAxle_m;
-    const understeer = (van.mass_kg / L) * (van.cgToRearAxle_m / van.frontCorneringStiffness_NPerRad - van.cgToFrontAxle_m / van.rearCorneringStiffness_NPerRad);
+    const understeer =
+      (van.mass_kg / L) * (van.cgToRearAxle_m / van.frontCorneringStiffness_NPerRad - van.cgToFrontAxle_m / van.rearCorneringStiffness_NPerRad);
     const yawGain = speed / (L + understeer * speed * speed);
     const design = designModelFromSingleTrack({ kind: 'path', parameters: van, speed_mps: speed, controllerDelay_s: 0.01 });
     expect(design.yawRateGain_perS).toBeCloseTo(yawGain, 10);
@@ -144,7 +164,14 @@ describe('design models from the single-track model', () => {
   });
 
   it('tunes a heading loop on the single-track model and reports stable margins on the full loop', () => {
-    const tuned = tuneOperatingPoint({ loop: { kind: 'heading' }, speed_mps: 10, model: { kind: 'single-track', parameters: van }, rule: 'simc', ruleParameters: {}, controller });
+    const tuned = tuneOperatingPoint({
+      loop: { kind: 'heading' },
+      speed_mps: 10,
+      model: { kind: 'single-track', parameters: van },
+      rule: 'simc',
+      ruleParameters: {},
+      controller,
+    });
     expect(tuned.margins.stable).toBe(true);
     expect(tuned.margins.phaseMargin_deg).toBeGreaterThan(30);
     expect(tuned.loop.plant.delay_s).toBeCloseTo(0.04 + 0.01, 14);
@@ -156,7 +183,9 @@ describe('design models from the single-track model', () => {
     const L = 3.4;
     const K = (oversteer.mass_kg / L) * (1.2 / 90000 - 2.2 / 110000);
     const critical = Math.sqrt(-L / K);
-    expect(() => designModelFromSingleTrack({ kind: 'yaw-rate', parameters: oversteer, speed_mps: critical * 1.2, controllerDelay_s: 0.01 })).toThrow(/not in the left half plane/);
+    expect(() => designModelFromSingleTrack({ kind: 'yaw-rate', parameters: oversteer, speed_mps: critical * 1.2, controllerDelay_s: 0.01 })).toThrow(
+      /not in the left half plane/,
+    );
     expect(() => designModelFromSingleTrack({ kind: 'yaw-rate', parameters: oversteer, speed_mps: critical * 0.8, controllerDelay_s: 0.01 })).not.toThrow();
   });
 });

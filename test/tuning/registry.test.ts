@@ -19,7 +19,9 @@ describe('rule registry', () => {
   it('a parameter the rule does not read is tuning.parameterNotTaken (never silently ignored), naming whose it is and what the rule takes', () => {
     const error = caught(() => applyRule('simc', doubleIntegrator, { simcClosedLoopTimeConstant_s: 0.2, dampingRatio: 0.7 }, { speed_mps: 5 }));
     expect(error.code).toBe('tuning.parameterNotTaken');
-    expect(error.message).toBe('simc does not use dampingRatio (a parameter of damping-target) — simc takes controllerType, simcClosedLoopTimeConstant_s; remove it');
+    expect(error.message).toBe(
+      'simc does not use dampingRatio (a parameter of damping-target) — simc takes controllerType, simcClosedLoopTimeConstant_s; remove it',
+    );
     expect(error.details.parameters).toEqual(['dampingRatio']);
     // An explicitly undefined parameter is not given.
     expect(applyRule('simc', doubleIntegrator, { dampingRatio: undefined }, { speed_mps: 5 }).rule).toBe('simc');
@@ -43,7 +45,15 @@ describe('rule registry', () => {
   });
 
   it('each rule declares its plant classes, and applicableRules agrees with them on a FOPDT', () => {
-    expect(TUNING_RULES.map((rule) => rule.name)).toEqual(['ziegler-nichols-step', 'ziegler-nichols-ultimate', 'imc-pid', 'simc', 'damping-target', 'amigo', 'migo']);
+    expect(TUNING_RULES.map((rule) => rule.name)).toEqual([
+      'ziegler-nichols-step',
+      'ziegler-nichols-ultimate',
+      'imc-pid',
+      'simc',
+      'damping-target',
+      'amigo',
+      'migo',
+    ]);
     // MIGO optimises on the full loop, which a design model alone does not give: it applies through tuneOperatingPoint.
     expect(applicableRules({ integrators: 0, gain: 1, lags_s: [3], deadTime_s: 1 }, {}, { speed_mps: 5 })).toEqual([
       'ziegler-nichols-step',

@@ -23,7 +23,14 @@ describe('simc on a path loop (a double integrator with the preview lead)', () =
       for (const speed of [1, 2, 4, 8, 15, 25]) {
         for (const tauC of [undefined, 0.5, 2]) {
           try {
-            const result = tuneOperatingPoint({ loop, speed_mps: speed, model: { kind: 'single-track', parameters: van }, rule: 'simc', ruleParameters: tauC === undefined ? {} : { simcClosedLoopTimeConstant_s: tauC }, controller });
+            const result = tuneOperatingPoint({
+              loop,
+              speed_mps: speed,
+              model: { kind: 'single-track', parameters: van },
+              rule: 'simc',
+              ruleParameters: tauC === undefined ? {} : { simcClosedLoopTimeConstant_s: tauC },
+              controller,
+            });
             expect(analyse(speed, result.gains).verdict, `${speed} m/s, preview ${preview_m} m, τc ${tauC}`).toBe('stable');
             tuned++;
           } catch (error) {

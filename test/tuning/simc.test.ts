@@ -36,7 +36,7 @@ describe('simc (Skogestad 2003)', () => {
     expect(result.gains).toEqual({ kp: 0.5, ki: 0.0625, kd: 0 });
   });
 
-  it("integrating with a lag, PID: τD = τ2; PI: the lag goes to the delay by the half rule", () => {
+  it('integrating with a lag, PID: τD = τ2; PI: the lag goes to the delay by the half rule', () => {
     // Source: Skogestad 2003 (integrating process with lag: τD = τ2; half rule for PI).
     const model: DesignModel = { integrators: 1, gain: 1, lags_s: [0.4], deadTime_s: 1 };
     expect(simc(model, {}).ruleForm).toEqual({ form: 'series', gain: 0.5, integralTime_s: 8, derivativeTime_s: 0.4 });

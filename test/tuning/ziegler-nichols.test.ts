@@ -47,7 +47,6 @@ print(json.dumps({'tangents': tangents, 'ultimate': ultimate}))
   );
 });
 
-
 describe('Ziegler–Nichols step-response method', () => {
   // Source: Ziegler & Nichols 1942, reaction-curve table; for FOPDT a = Kθ/τ = 2·2/10 = 0.4, L = θ = 2 s.
   const rows = [

@@ -72,7 +72,9 @@ describe('loadVehicle(path)', () => {
     const error = errorOf(() => validateVehicle({ ...GOOD, mass_kg: -3000 }, 'v.json'));
     expect(error.code).toBe('vehicle.outOfRange');
     expect(error.location).toEqual({ file: 'v.json', jsonPath: '/mass_kg' });
-    expect(error.message).toBe('mass_kg is -3000, expected a mass above 0 kg and below 1,000,000 kg — enter the test mass in kilograms (a sidewalk robot is tens of kg, a loaded haul truck hundreds of tonnes)');
+    expect(error.message).toBe(
+      'mass_kg is -3000, expected a mass above 0 kg and below 1,000,000 kg — enter the test mass in kilograms (a sidewalk robot is tens of kg, a loaded haul truck hundreds of tonnes)',
+    );
   });
 
   it('rejects a CG outside the wheelbase (a or b not above 0)', () => {

@@ -131,7 +131,12 @@ print(json.dumps(out))
       cases.map((c) => ({ params: c.params, speed: c.speed, period: period_s, refine: c.refine, command: c.command })),
     );
     cases.forEach((c, index) => {
-      const ours = simulateSingleTrack({ params: c.params, speed_mps: c.speed, time_s: uniformTime(period_s, count), steerCommand_rad: Float64Array.from(c.command) });
+      const ours = simulateSingleTrack({
+        params: c.params,
+        speed_mps: c.speed,
+        time_s: uniformTime(period_s, count),
+        steerCommand_rad: Float64Array.from(c.command),
+      });
       const ref = reference[index];
       const pairs: [Float64Array, number[]][] = [
         [ours.yawRate_radps, ref.r],

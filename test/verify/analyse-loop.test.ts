@@ -104,7 +104,11 @@ describe('loops with the discrete PID the firmware runs', () => {
   it('an unstable lag 1/(s − 1) under P has its lower gain margin 1/kp at ω = 0, continuous or sampled', () => {
     // Source: derived — 1 + kp/(s − 1) = 0 gives s = 1 − kp: stable iff kp > 1, so reducing kp by 1/kp destabilises.
     for (const sampleTime_s of [undefined, 0.01]) {
-      const margins = analyseLoop({ plant: { numerator: [1], denominator: [1, -1], delay_s: 0.05 }, pid: { kp: 2, ki: 0, kd: 0 }, ...(sampleTime_s === undefined ? {} : { sampleTime_s }) });
+      const margins = analyseLoop({
+        plant: { numerator: [1], denominator: [1, -1], delay_s: 0.05 },
+        pid: { kp: 2, ki: 0, kd: 0 },
+        ...(sampleTime_s === undefined ? {} : { sampleTime_s }),
+      });
       expect(margins.stable).toBe(true);
       expect(margins.lowerGainMargin_dB).toBeCloseTo(20 * Math.log10(1 / 2), 10);
       expect(margins.lowerGainMarginFrequency_radps).toBe(0);

@@ -69,7 +69,16 @@ describe('plausibility ranges of the inputs, checked before any work', () => {
   });
 
   it('a vehicle of 1e308 kg or 1e308 kg·m² is refused naming the field', () => {
-    const vehicle = { name: 'test', mass_kg: 3400, yawInertia_kgm2: 11000, cgToFrontAxle_m: 1.75, cgToRearAxle_m: 1.85, steeringRatio: 18, maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 };
+    const vehicle = {
+      name: 'test',
+      mass_kg: 3400,
+      yawInertia_kgm2: 11000,
+      cgToFrontAxle_m: 1.75,
+      cgToRearAxle_m: 1.85,
+      steeringRatio: 18,
+      maxSteerAngle_rad: 0.6,
+      maxSteerRate_radps: 0.5,
+    };
     for (const field of ['mass_kg', 'yawInertia_kgm2'] as const) {
       const run = timed(() => validateVehicle({ ...vehicle, [field]: 1e308 }, 'vehicle.json'));
       expect(isSpeedbandError(run.error) && run.error.code).toBe('vehicle.outOfRange');

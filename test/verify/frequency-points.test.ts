@@ -47,7 +47,12 @@ describe('loopFrequencyResponse: L at chosen frequencies, as the margins see it'
     });
     const reference = runPython<[number, number][][]>(SAMPLED_REFERENCE, cases);
     cases.forEach((c, k) => {
-      const description: LoopDescription = { plant: { numerator: c.num, denominator: c.den, delay_s: c.theta }, pid: { kp: c.kp, ki: c.ki, kd: c.kd, derivativeFilter: c.N }, sampleTime_s: c.Ts, discretisation: c.method };
+      const description: LoopDescription = {
+        plant: { numerator: c.num, denominator: c.den, delay_s: c.theta },
+        pid: { kp: c.kp, ki: c.ki, kd: c.kd, derivativeFilter: c.N },
+        sampleTime_s: c.Ts,
+        discretisation: c.method,
+      };
       const points = loopFrequencyResponse(openLoopOf(description), c.w);
       points.forEach((point, i) => {
         const [re, im] = reference[k][i];

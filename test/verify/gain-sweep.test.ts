@@ -74,18 +74,21 @@ beforeAll(() => {
 });
 
 describe('gain margins against a brute-force gain sweep of the closed-loop poles', () => {
-  it.each(Object.keys(loops).map((name, index) => [name, index] as const))('%s: the lower and upper gain margins are the nearest stability changes', (name, index) => {
-    const margins = analyseOpenLoop(loops[name]);
-    const changes = sweeps[index].changes;
-    expect(margins.stable).toBe(true);
-    const below = changes.filter((k) => k < 1);
-    const above = changes.filter((k) => k > 1);
-    // A conditionally stable loop: destabilised by reducing the gain and by raising it.
-    expect(below.length).toBeGreaterThan(0);
-    expect(above.length).toBeGreaterThan(0);
-    expect(Math.abs(decibelsToRatio(margins.lowerGainMargin_dB!) / Math.max(...below) - 1)).toBeLessThan(SWEEP_TOLERANCE);
-    expect(Math.abs(decibelsToRatio(margins.upperGainMargin_dB!) / Math.min(...above) - 1)).toBeLessThan(SWEEP_TOLERANCE);
-    expect(margins.lowerGainMargin_dB as number).toBeLessThan(0);
-    expect(margins.upperGainMargin_dB as number).toBeGreaterThan(0);
-  });
+  it.each(Object.keys(loops).map((name, index) => [name, index] as const))(
+    '%s: the lower and upper gain margins are the nearest stability changes',
+    (name, index) => {
+      const margins = analyseOpenLoop(loops[name]);
+      const changes = sweeps[index].changes;
+      expect(margins.stable).toBe(true);
+      const below = changes.filter((k) => k < 1);
+      const above = changes.filter((k) => k > 1);
+      // A conditionally stable loop: destabilised by reducing the gain and by raising it.
+      expect(below.length).toBeGreaterThan(0);
+      expect(above.length).toBeGreaterThan(0);
+      expect(Math.abs(decibelsToRatio(margins.lowerGainMargin_dB!) / Math.max(...below) - 1)).toBeLessThan(SWEEP_TOLERANCE);
+      expect(Math.abs(decibelsToRatio(margins.upperGainMargin_dB!) / Math.min(...above) - 1)).toBeLessThan(SWEEP_TOLERANCE);
+      expect(margins.lowerGainMargin_dB as number).toBeLessThan(0);
+      expect(margins.upperGainMargin_dB as number).toBeGreaterThan(0);
+    },
+  );
 });

@@ -55,7 +55,7 @@ describe('analyseOpenLoop on loops with closed-form margins', () => {
     [1, 1],
     [0.2, 0.5],
     [4, 0.05],
-  ])('SIMC PI on an integrating process k\' = %s, θ = %s s gives GM ≈ 2.96, PM ≈ 46.9°, Ms ≈ 1.70', (kPrime, theta) => {
+  ])("SIMC PI on an integrating process k' = %s, θ = %s s gives GM ≈ 2.96, PM ≈ 46.9°, Ms ≈ 1.70", (kPrime, theta) => {
     const kc = 1 / (kPrime * 2 * theta);
     const tauI = 8 * theta;
     const margins = analyseLoop({

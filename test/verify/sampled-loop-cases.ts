@@ -29,12 +29,17 @@ export function randomSampledLoops(seed: number, count: number, maxLoopGain: num
     const tau = logBetween(0.1, 2);
     const kind = i % 6;
     const den =
-      kind === 0 ? [tau, 1]
-      : kind === 1 ? [0.3 * tau * tau, 1.3 * tau, 1]
-      : kind === 2 ? [tau, 1, 0]
-      : kind === 3 ? [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1]
-      : kind === 4 ? [tau, -1]
-      : [0.1 * tau, 1, 0, 0];
+      kind === 0
+        ? [tau, 1]
+        : kind === 1
+          ? [0.3 * tau * tau, 1.3 * tau, 1]
+          : kind === 2
+            ? [tau, 1, 0]
+            : kind === 3
+              ? [1 / (tau * tau), (2 * between(0.2, 0.7)) / tau, 1]
+              : kind === 4
+                ? [tau, -1]
+                : [0.1 * tau, 1, 0, 0];
     const Ts = logBetween(0.005, 0.1);
     const theta = Math.min(between(0, 0.25), 20 * Ts);
     const kp = logBetween(0.1, maxLoopGain) / gain;

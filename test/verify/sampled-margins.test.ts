@@ -14,7 +14,6 @@ import { runPython } from '../helpers/python.js';
 import { PYTHON_SAMPLED_LOOP, randomSampledLoops, type SampledCase } from './sampled-loop-cases.js';
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 
-
 interface Reference {
   /** Largest closed-loop |z| (numpy roots of the characteristic polynomial). */
   readonly largest: number;
@@ -143,11 +142,32 @@ describe('margins of a sampled loop on its exact pulse frequency response', () =
         sensitivityPeak: within(ours.sensitivityPeak, expected.ms, 0),
         // |T| → 1 as ω → 0 with an integrator: without a resonant peak the supremum is that limit, which the
         // analysed band (from 1/100 of the smallest corner) only approaches; compare real peaks only.
-        complementarySensitivityPeak: expected.mt > 1 + 1e-3 ? within(ours.complementarySensitivityPeak, expected.mt, 0) : ours.complementarySensitivityPeak <= expected.mt + 1e-9,
+        complementarySensitivityPeak:
+          expected.mt > 1 + 1e-3 ? within(ours.complementarySensitivityPeak, expected.mt, 0) : ours.complementarySensitivityPeak <= expected.mt + 1e-9,
       };
-      expect({ index, agree, ours: [ours.phaseMargin_deg, ours.upperGainMargin_dB, ours.lowerGainMargin_dB, ours.delayMargin_s, ours.sensitivityPeak, ours.complementarySensitivityPeak], expected }).toEqual({
+      expect({
         index,
-        agree: { phaseMargin: true, phaseMarginFrequency: true, upperGainMargin: true, lowerGainMargin: true, delayMargin: true, sensitivityPeak: true, complementarySensitivityPeak: true },
+        agree,
+        ours: [
+          ours.phaseMargin_deg,
+          ours.upperGainMargin_dB,
+          ours.lowerGainMargin_dB,
+          ours.delayMargin_s,
+          ours.sensitivityPeak,
+          ours.complementarySensitivityPeak,
+        ],
+        expected,
+      }).toEqual({
+        index,
+        agree: {
+          phaseMargin: true,
+          phaseMarginFrequency: true,
+          upperGainMargin: true,
+          lowerGainMargin: true,
+          delayMargin: true,
+          sensitivityPeak: true,
+          complementarySensitivityPeak: true,
+        },
         ours: expect.any(Array) as unknown,
         expected,
       });

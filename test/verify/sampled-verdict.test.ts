@@ -123,7 +123,12 @@ describe('sampled-data verdict of a discrete PID with a zero-order hold', () => 
     // where a root test on the characteristic polynomial loses it (the integrators' coefficients cancel).
     const slowIntegral = randomSampledLoops(20261203, 60, 3, [50, 5000]);
     // Tustin with a fast derivative filter: the controller's gain near the Nyquist frequency exceeds 1.
-    const fastDerivative = randomSampledLoops(20261204, 50, 3, [0.3, 3]).map((c) => ({ ...c, method: 'tustin' as const, N: 200, kd: c.kd === 0 ? c.kp * 0.1 : c.kd }));
+    const fastDerivative = randomSampledLoops(20261204, 50, 3, [0.3, 3]).map((c) => ({
+      ...c,
+      method: 'tustin' as const,
+      N: 200,
+      kd: c.kd === 0 ? c.kp * 0.1 : c.kd,
+    }));
     const nearBoundarySeeds = randomSampledLoops(20261205, 72, 2, [0.3, 3]);
     // Python places each of these at |z| = 1 ± δ (δ log-uniform in 1e-6…1e-4) by scaling the whole controller.
     const placed = runPython<Array<{ factor: number; largest: number } | null>>(
@@ -254,7 +259,9 @@ print(json.dumps({'nominal': largest_pole(c), 'exact': low, 'twoSamples': larges
     expect(reference.nominal).toBeLessThan(1);
     expect(reference.twoSamples).toBeLessThan(1);
     expect(ours.verdict).toBe('stable');
-    const crossovers = ours.analysis!.gainCrossovers.map((g) => ((g.phaseMargin_deg > 0 ? g.phaseMargin_deg : g.phaseMargin_deg + 360) * Math.PI) / 180 / g.frequency_radps);
+    const crossovers = ours.analysis!.gainCrossovers.map(
+      (g) => ((g.phaseMargin_deg > 0 ? g.phaseMargin_deg : g.phaseMargin_deg + 360) * Math.PI) / 180 / g.frequency_radps,
+    );
     expect(Math.min(...crossovers)).toBeGreaterThan(1);
     expect(ours.delayMargin_s! / reference.exact).toBeCloseTo(1, 2);
     expect(ours.delayMargin_s!).toBeLessThanOrEqual(reference.exact * 1.001);

@@ -35,12 +35,17 @@ function randomLoops(seed: number, count: number): OpenLoop[] {
     // kind 5: a right-half-plane zero (non-minimum phase), K(1 − a·s)/((τs + 1)(0.5τs + 1)).
     const numerator = kind === 5 ? [-gain * logBetween(0.05, 1) * tau, gain] : [gain];
     const denominator =
-      kind === 0 ? [tau, 1]
-      : kind === 1 ? [tau * tau * 0.3, tau * 1.3, 1]
-      : kind === 2 ? [tau, 1, 0]
-      : kind === 3 ? [tau, -1]
-      : kind === 4 ? [1 / (tau * tau), (2 * between(0.1, 0.7)) / tau, 1]
-      : [0.5 * tau * tau, 1.5 * tau, 1];
+      kind === 0
+        ? [tau, 1]
+        : kind === 1
+          ? [tau * tau * 0.3, tau * 1.3, 1]
+          : kind === 2
+            ? [tau, 1, 0]
+            : kind === 3
+              ? [tau, -1]
+              : kind === 4
+                ? [1 / (tau * tau), (2 * between(0.1, 0.7)) / tau, 1]
+                : [0.5 * tau * tau, 1.5 * tau, 1];
     const delay_s = logBetween(0.02, kind === 3 ? 0.3 * tau : 2);
     const kp = (sign * logBetween(0.05, 3)) / Math.abs(gain);
     const ki = kp / logBetween(0.3, 20);

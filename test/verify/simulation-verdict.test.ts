@@ -74,18 +74,20 @@ function randomCases(seed: number, count: number): SimulationCase[] {
     const tau = logBetween(0.2, 5);
     const numerator = kind === 'non-minimum phase' ? [-gain * logBetween(0.1, 1) * tau, gain] : [gain];
     const denominator =
-      kind === 'first order' ? [tau, 1]
-      : kind === 'second order' ? [0.3 * tau * tau, 1.3 * tau, 1]
-      : kind === 'integrating' ? [tau, 1, 0]
-      : kind === 'open-loop unstable' ? [tau, -1]
-      : kind === 'resonant' ? [tau * tau, 2 * between(0.1, 0.7) * tau, 1]
-      : [0.5 * tau * tau, 1.5 * tau, 1];
+      kind === 'first order'
+        ? [tau, 1]
+        : kind === 'second order'
+          ? [0.3 * tau * tau, 1.3 * tau, 1]
+          : kind === 'integrating'
+            ? [tau, 1, 0]
+            : kind === 'open-loop unstable'
+              ? [tau, -1]
+              : kind === 'resonant'
+                ? [tau * tau, 2 * between(0.1, 0.7) * tau, 1]
+                : [0.5 * tau * tau, 1.5 * tau, 1];
     const delay_s = tau * (kind === 'open-loop unstable' ? logBetween(0.05, 0.6) : logBetween(0.1, 1));
     // Controller gains around the tuned range, so that both stable and unstable loops come out.
-    const loopGain =
-      kind === 'integrating' ? logBetween(0.1, 2) / (tau + delay_s)
-      : kind === 'open-loop unstable' ? logBetween(0.7, 6)
-      : logBetween(0.2, 5);
+    const loopGain = kind === 'integrating' ? logBetween(0.1, 2) / (tau + delay_s) : kind === 'open-loop unstable' ? logBetween(0.7, 6) : logBetween(0.2, 5);
     const kp = (sign * loopGain) / Math.abs(gain);
     const integralTime_s = (tau + delay_s) * logBetween(0.4, 5);
     const derivativeTime_s = random.uniform() < 1 / 3 ? 0 : (tau + delay_s) * logBetween(0.1, 0.6);
@@ -214,10 +216,50 @@ function ultimateGainFirstOrder(gain: number, tau_s: number, delay_s: number): n
  */
 const firstOrderUltimateGain = ultimateGainFirstOrder(1, 1, 1);
 const BOUNDARY_CASES: ReadonlyArray<SimulationCase & { readonly expected: 'stable' | 'unstable'; readonly name: string }> = [
-  { name: 'e^(−s)/s, kp = 0.7·π/2', numerator: [1], denominator: [1, 0], delay_s: 1, kp: 0.7 * (Math.PI / 2), ki: 0, kd: 0, derivativeFilter: 10, expected: 'stable' },
-  { name: 'e^(−s)/s, kp = 1.3·π/2', numerator: [1], denominator: [1, 0], delay_s: 1, kp: 1.3 * (Math.PI / 2), ki: 0, kd: 0, derivativeFilter: 10, expected: 'unstable' },
-  { name: 'e^(−s)/(s + 1), kp = 0.7·Ku', numerator: [1], denominator: [1, 1], delay_s: 1, kp: 0.7 * firstOrderUltimateGain, ki: 0, kd: 0, derivativeFilter: 10, expected: 'stable' },
-  { name: 'e^(−s)/(s + 1), kp = 1.3·Ku', numerator: [1], denominator: [1, 1], delay_s: 1, kp: 1.3 * firstOrderUltimateGain, ki: 0, kd: 0, derivativeFilter: 10, expected: 'unstable' },
+  {
+    name: 'e^(−s)/s, kp = 0.7·π/2',
+    numerator: [1],
+    denominator: [1, 0],
+    delay_s: 1,
+    kp: 0.7 * (Math.PI / 2),
+    ki: 0,
+    kd: 0,
+    derivativeFilter: 10,
+    expected: 'stable',
+  },
+  {
+    name: 'e^(−s)/s, kp = 1.3·π/2',
+    numerator: [1],
+    denominator: [1, 0],
+    delay_s: 1,
+    kp: 1.3 * (Math.PI / 2),
+    ki: 0,
+    kd: 0,
+    derivativeFilter: 10,
+    expected: 'unstable',
+  },
+  {
+    name: 'e^(−s)/(s + 1), kp = 0.7·Ku',
+    numerator: [1],
+    denominator: [1, 1],
+    delay_s: 1,
+    kp: 0.7 * firstOrderUltimateGain,
+    ki: 0,
+    kd: 0,
+    derivativeFilter: 10,
+    expected: 'stable',
+  },
+  {
+    name: 'e^(−s)/(s + 1), kp = 1.3·Ku',
+    numerator: [1],
+    denominator: [1, 1],
+    delay_s: 1,
+    kp: 1.3 * firstOrderUltimateGain,
+    ki: 0,
+    kd: 0,
+    derivativeFilter: 10,
+    expected: 'unstable',
+  },
 ];
 
 const cases = randomCases(20261214, CASES);
@@ -283,7 +325,9 @@ describe(`continuous-loop verdicts against an RK4 closed-loop simulation with a 
   });
 
   it('negative plant gains are among the decided loops (ISO 8855 sign conventions differ between standards)', () => {
-    const decidedNegative = cases.filter((c, index) => c.numerator[c.numerator.length - 1] < 0 && simulated[index].verdict !== 'inconclusive' && ours[index].verdict !== 'marginal');
+    const decidedNegative = cases.filter(
+      (c, index) => c.numerator[c.numerator.length - 1] < 0 && simulated[index].verdict !== 'inconclusive' && ours[index].verdict !== 'marginal',
+    );
     expect(decidedNegative.length).toBeGreaterThanOrEqual(10);
   });
 });

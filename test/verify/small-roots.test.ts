@@ -6,11 +6,39 @@ import { runPython } from '../helpers/python.js';
 describe('analysisRoots(p) closed form for degree ≤ 2', () => {
   it.each([
     // Source: derived by expanding the factors.
-    ['(s + 1)(s + 2)', [1, 3, 2], [{ re: -2, im: 0 }, { re: -1, im: 0 }]],
-    ['s² + 2s + 5 = (s + 1)² + 4', [1, 2, 5], [{ re: -1, im: -2 }, { re: -1, im: 2 }]],
-    ['s(s + 3)', [1, 3, 0], [{ re: -3, im: 0 }, { re: 0, im: 0 }]],
+    [
+      '(s + 1)(s + 2)',
+      [1, 3, 2],
+      [
+        { re: -2, im: 0 },
+        { re: -1, im: 0 },
+      ],
+    ],
+    [
+      's² + 2s + 5 = (s + 1)² + 4',
+      [1, 2, 5],
+      [
+        { re: -1, im: -2 },
+        { re: -1, im: 2 },
+      ],
+    ],
+    [
+      's(s + 3)',
+      [1, 3, 0],
+      [
+        { re: -3, im: 0 },
+        { re: 0, im: 0 },
+      ],
+    ],
     ['2(s − 0.5)', [2, -1], [{ re: 0.5, im: 0 }]],
-    ['(1 − z⁻¹)(1 − 0.6z⁻¹) in z: z² − 1.6z + 0.6', [1, -1.6, 0.6], [{ re: 0.6, im: 0 }, { re: 1, im: 0 }]],
+    [
+      '(1 − z⁻¹)(1 − 0.6z⁻¹) in z: z² − 1.6z + 0.6',
+      [1, -1.6, 0.6],
+      [
+        { re: 0.6, im: 0 },
+        { re: 1, im: 0 },
+      ],
+    ],
   ])('%s', (_name, p, expected) => {
     const roots = analysisRoots(p);
     expect(roots).toHaveLength(expected.length);
@@ -42,11 +70,51 @@ describe('analysisRoots(p) closed form for degree ≤ 2', () => {
 describe('analysisRoots(p) closed form for cubics', () => {
   it.each([
     // Source: derived by expanding the factors.
-    ['(s + 1)(s + 2)(s + 3)', [1, 6, 11, 6], [{ re: -3, im: 0 }, { re: -2, im: 0 }, { re: -1, im: 0 }]],
-    ['(s + 2)(s² + 1)', [1, 2, 1, 2], [{ re: -2, im: 0 }, { re: 0, im: -1 }, { re: 0, im: 1 }]],
-    ['(s + 10)(s² + 2s + 5)', [1, 12, 25, 50], [{ re: -10, im: 0 }, { re: -1, im: -2 }, { re: -1, im: 2 }]],
-    ['s(s + 1)(s + 4)', [1, 5, 4, 0], [{ re: -4, im: 0 }, { re: -1, im: 0 }, { re: 0, im: 0 }]],
-    ['(s − 1)²(s + 2): a double root', [1, 0, -3, 2], [{ re: -2, im: 0 }, { re: 1, im: 0 }, { re: 1, im: 0 }]],
+    [
+      '(s + 1)(s + 2)(s + 3)',
+      [1, 6, 11, 6],
+      [
+        { re: -3, im: 0 },
+        { re: -2, im: 0 },
+        { re: -1, im: 0 },
+      ],
+    ],
+    [
+      '(s + 2)(s² + 1)',
+      [1, 2, 1, 2],
+      [
+        { re: -2, im: 0 },
+        { re: 0, im: -1 },
+        { re: 0, im: 1 },
+      ],
+    ],
+    [
+      '(s + 10)(s² + 2s + 5)',
+      [1, 12, 25, 50],
+      [
+        { re: -10, im: 0 },
+        { re: -1, im: -2 },
+        { re: -1, im: 2 },
+      ],
+    ],
+    [
+      's(s + 1)(s + 4)',
+      [1, 5, 4, 0],
+      [
+        { re: -4, im: 0 },
+        { re: -1, im: 0 },
+        { re: 0, im: 0 },
+      ],
+    ],
+    [
+      '(s − 1)²(s + 2): a double root',
+      [1, 0, -3, 2],
+      [
+        { re: -2, im: 0 },
+        { re: 1, im: 0 },
+        { re: 1, im: 0 },
+      ],
+    ],
   ])('%s', (_name, p, expected) => {
     const roots = analysisRoots(p);
     expect(roots).toHaveLength(3);
@@ -65,7 +133,12 @@ describe('analysisRoots(p) closed form for cubics', () => {
     // Source: numpy.roots (companion-matrix eigenvalues, LAPACK)
     const cubics = Array.from({ length: 300 }, (_, i) => {
       const scale = Math.pow(10, (i % 7) - 3);
-      return [Math.sin(i) + 1.5 * Math.sign(Math.sin(i) + 0.1), Math.cos(3 * i) * 40 * scale, Math.sin(7 * i) * 300 * scale * scale, Math.cos(11 * i) * 900 * scale * scale * scale];
+      return [
+        Math.sin(i) + 1.5 * Math.sign(Math.sin(i) + 0.1),
+        Math.cos(3 * i) * 40 * scale,
+        Math.sin(7 * i) * 300 * scale * scale,
+        Math.cos(11 * i) * 900 * scale * scale * scale,
+      ];
     });
     const reference = runPython<{ re: number; im: number }[][]>(
       `import json, sys, numpy as np
@@ -82,7 +155,10 @@ print(json.dumps(out))`,
       const largest = Math.max(...reference[i].map((z) => Math.hypot(z.re, z.im)));
       const unmatched = [...reference[i]];
       for (const root of ours) {
-        const k = unmatched.reduce((best, z, j) => (Math.hypot(z.re - root.re, z.im - root.im) < Math.hypot(unmatched[best].re - root.re, unmatched[best].im - root.im) ? j : best), 0);
+        const k = unmatched.reduce(
+          (best, z, j) => (Math.hypot(z.re - root.re, z.im - root.im) < Math.hypot(unmatched[best].re - root.re, unmatched[best].im - root.im) ? j : best),
+          0,
+        );
         expect(Math.hypot(unmatched[k].re - root.re, unmatched[k].im - root.im)).toBeLessThan(1e-8 * largest);
         unmatched.splice(k, 1);
       }

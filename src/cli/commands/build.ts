@@ -6,34 +6,54 @@ import { EXIT, type CommandIo } from '../io.js';
 import { logColumnsFromArgs, optionalInputs, withLogColumnOptions } from '../log-columns.js';
 
 function builder(yargs: Argv) {
-  return (
-    withLogColumnOptions(yargs)
-      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder' })
-      .option('logs', { type: 'array', string: true, describe: 'Step-test logs (CSV, columns time_s, speed_mps, steer_cmd_rad, yaw_rate_radps …) at two or more speeds' })
-      .option('models', { type: 'string', describe: 'Reuse an identification (models.json from `speedband identify`) instead of --logs' })
-      .option('plan', {
-        type: 'string',
-        describe:
-          'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2. A "variations" section (load, tyres, actuator, latency, the identification\'s intervals) adds the worst case over that set at every check speed, required to pass unless it says "acceptance": "nominal", and a fastest-passing search then aims at it (rule.searchOn; docs/plan.md)',
-      })
-      .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
-      .option('models-out', { type: 'string', describe: 'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)' })
-      .option('baseline', {
-        type: 'string',
-        describe:
-          "A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?) — and, when the plan gives variations, over the new vehicle's whole set",
-      })
-      .option('report', { type: 'string', describe: 'Also write the HTML report of the schedule (see speedband report --help): fits over the steps, gains and margins against speed, Bode and Nyquist plots, with --baseline the old gains on the new vehicle. Written with the schedule' })
-      .option('response-speed-mps', { type: 'array', string: true, describe: 'With --report: speeds of the Bode and Nyquist plots, m/s (default: the lowest and highest breakpoint and the speed of the smallest phase margin)' })
-      .option('allow-other-vehicle', {
-        type: 'boolean',
-        default: false,
-        describe: 'With --models: accept models identified with another vehicle file than --vehicle (refused otherwise: their stiffnesses were fitted with that file\'s mass, inertia and geometry)',
-      })
-      .option('allow-failing', { type: 'boolean', default: false, describe: 'Write a schedule that fails its dense check, marked "failed" (export refuses it unless told otherwise)' })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace existing output files whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON (breakpoints, margins, derivations, check, baseline)' })
-  );
+  return withLogColumnOptions(yargs)
+    .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder' })
+    .option('logs', {
+      type: 'array',
+      string: true,
+      describe: 'Step-test logs (CSV, columns time_s, speed_mps, steer_cmd_rad, yaw_rate_radps …) at two or more speeds',
+    })
+    .option('models', { type: 'string', describe: 'Reuse an identification (models.json from `speedband identify`) instead of --logs' })
+    .option('plan', {
+      type: 'string',
+      describe:
+        'Plan file (JSON): loop, rule and parameters, breakpoints, speed range, interpolation, controller, acceptance limits. A rule parameter is a number, a table over speed {"speeds_mps": [...], "values": [...]}, or an expression in speed_mps such as "max(15, 1.2 * speed_mps)" (arithmetic, comparisons, a ? b : c, maths functions; its values at the breakpoints are recorded in the schedule). Default: yaw-rate loop, SIMC with τc = θ, 6 geometric breakpoints over the test speeds, monotone cubic, 100 Hz backward-Euler PID, GM ≥ 6 dB, PM ≥ 45°, Ms ≤ 2. A "variations" section (load, tyres, actuator, latency, the identification\'s intervals) adds the worst case over that set at every check speed, required to pass unless it says "acceptance": "nominal", and a fastest-passing search then aims at it (rule.searchOn; docs/plan.md)',
+    })
+    .option('out', { type: 'string', demandOption: true, describe: 'schedule.json to write (atomically)' })
+    .option('models-out', {
+      type: 'string',
+      describe:
+        'Also write the identification as models.json (FOPDT and joint single-track fits; the per-step second-order fits, which a schedule does not use, are left out: run identify for them)',
+    })
+    .option('baseline', {
+      type: 'string',
+      describe:
+        "A previous schedule.json: also check ITS gains on the NEW vehicle model (are the current gains still safe after the change, and where not?) — and, when the plan gives variations, over the new vehicle's whole set",
+    })
+    .option('report', {
+      type: 'string',
+      describe:
+        'Also write the HTML report of the schedule (see speedband report --help): fits over the steps, gains and margins against speed, Bode and Nyquist plots, with --baseline the old gains on the new vehicle. Written with the schedule',
+    })
+    .option('response-speed-mps', {
+      type: 'array',
+      string: true,
+      describe:
+        'With --report: speeds of the Bode and Nyquist plots, m/s (default: the lowest and highest breakpoint and the speed of the smallest phase margin)',
+    })
+    .option('allow-other-vehicle', {
+      type: 'boolean',
+      default: false,
+      describe:
+        "With --models: accept models identified with another vehicle file than --vehicle (refused otherwise: their stiffnesses were fitted with that file's mass, inertia and geometry)",
+    })
+    .option('allow-failing', {
+      type: 'boolean',
+      default: false,
+      describe: 'Write a schedule that fails its dense check, marked "failed" (export refuses it unless told otherwise)',
+    })
+    .option('force', { type: 'boolean', default: false, describe: 'Replace existing output files whose content differs' })
+    .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON (breakpoints, margins, derivations, check, baseline)' });
 }
 
 type Args = OptionsOf<typeof builder>;
@@ -55,7 +75,10 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     throw new SpeedbandError('cli.missingInput', 'give the step-test logs with --logs FILE… (or an identification already done with --models models.json)');
   }
   if (logPaths.length > 0 && modelsIn !== undefined) {
-    throw new SpeedbandError('cli.conflictingOptions', '--logs and --models both give the vehicle model — use one: --logs to identify afresh, --models to reuse models.json');
+    throw new SpeedbandError(
+      'cli.conflictingOptions',
+      '--logs and --models both give the vehicle model — use one: --logs to identify afresh, --models to reuse models.json',
+    );
   }
   const { out, report: reportOut } = args;
   const modelsOut = args['models-out'];
@@ -100,7 +123,10 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const outcome = written ? writeSchedule(out, schedule, args.force) : null;
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force);
   const baselineCheck = baselineSchedule === undefined ? undefined : await (await import('../../pipeline/baseline.js')).checkBaseline(baselineSchedule, result);
-  const baseline = baselineFile === undefined || baselineSchedule === undefined || baselineCheck === undefined ? undefined : { file: baselineFile, schedule: baselineSchedule, check: baselineCheck };
+  const baseline =
+    baselineFile === undefined || baselineSchedule === undefined || baselineCheck === undefined
+      ? undefined
+      : { file: baselineFile, schedule: baselineSchedule, check: baselineCheck };
 
   // The report goes with the schedule: written when the schedule is.
   let report: WrittenReport | null = null;
@@ -137,7 +163,8 @@ async function run(args: Args, io: CommandIo): Promise<number> {
 
 export const command = defineCommand({
   command: 'build',
-  describe: 'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, drive it through the scenarios of speedband simulate (plan check.scenarios, default on) with a speed-change certificate, write schedule.json',
+  describe:
+    'Build a speed schedule: identify the vehicle from step-steer logs, tune each breakpoint by a published rule, interpolate, check stability at every speed of the range with the discrete controller, drive it through the scenarios of speedband simulate (plan check.scenarios, default on) with a speed-change certificate, write schedule.json',
   builder,
   exitCodes: [
     [0, 'the schedule passed its dense check and was written (with --baseline: and the old gains still pass on the new vehicle model)'],
@@ -148,11 +175,23 @@ export const command = defineCommand({
     [2, 'bad input: logs, vehicle, plan, models, baseline or options (nothing written)'],
   ],
   examples: [
-    ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json', 'Default plan (yaw-rate loop, SIMC) on the bundled demo van and its logs'],
+    [
+      'speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json',
+      'Default plan (yaw-rate loop, SIMC) on the bundled demo van and its logs',
+    ],
     ['speedband build --vehicle van.json --logs logs/*.csv --plan path-plan.json --out schedule.json', 'The loop, rule and limits from a plan file'],
-    ['speedband build --vehicle van.json --logs new-logs/*.csv --baseline old-schedule.json --out new-schedule.json', 'After a vehicle change: new schedule, and are the old gains still safe?'],
-    ['speedband build --vehicle van.json --logs logs/*.csv --plan robust-plan.json --out schedule.json', 'With "variations" in the plan: nominal and worst case side by side, the weakest parameter named'],
-    ['speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json --report report.html', 'The schedule and its HTML report for sign-off'],
+    [
+      'speedband build --vehicle van.json --logs new-logs/*.csv --baseline old-schedule.json --out new-schedule.json',
+      'After a vehicle change: new schedule, and are the old gains still safe?',
+    ],
+    [
+      'speedband build --vehicle van.json --logs logs/*.csv --plan robust-plan.json --out schedule.json',
+      'With "variations" in the plan: nominal and worst case side by side, the weakest parameter named',
+    ],
+    [
+      'speedband build --vehicle parcel-van --logs vehicles/parcel-van/logs --out schedule.json --report report.html',
+      'The schedule and its HTML report for sign-off',
+    ],
   ],
   run,
 });

@@ -18,16 +18,23 @@ import type { DenseCheckResult } from '../../schedule/types.js';
 const MAX_GRID_SPEEDS = 100_000;
 
 function builder(yargs: Argv) {
-  return (
-    withLogColumnOptions(yargs)
-      .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband build' })
-      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
-      .option('models', { type: 'string', describe: 'Check on this identification (models.json)' })
-      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
-      .option('grid-speeds', { type: 'number', describe: 'Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule\'s own. The worst case over the variations always runs on the schedule\'s own grid' })
-      .option('nominal-only', { type: 'boolean', default: false, describe: 'Skip the worst case over the variations the schedule records (it takes about a hundred loop analyses per speed); the exit code then speaks of the nominal check only' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' })
-  );
+  return withLogColumnOptions(yargs)
+    .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband build' })
+    .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
+    .option('models', { type: 'string', describe: 'Check on this identification (models.json)' })
+    .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
+    .option('grid-speeds', {
+      type: 'number',
+      describe:
+        "Evenly spaced check speeds across the range (breakpoints and midpoints are added); default: the schedule's own. The worst case over the variations always runs on the schedule's own grid",
+    })
+    .option('nominal-only', {
+      type: 'boolean',
+      default: false,
+      describe:
+        'Skip the worst case over the variations the schedule records (it takes about a hundred loop analyses per speed); the exit code then speaks of the nominal check only',
+    })
+    .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' });
 }
 
 type Args = OptionsOf<typeof builder>;
@@ -49,7 +56,11 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const robust =
     schedule.variations === undefined || args['nominal-only']
       ? null
-      : await (await import('../../pipeline/robust-recheck.js')).recheckOverVariations({ schedule, model, onProgress: (event) => event.done === event.total && io.progress(`worst case over the variations: ${event.total} speeds\n`) });
+      : await (await import('../../pipeline/robust-recheck.js')).recheckOverVariations({
+          schedule,
+          model,
+          onProgress: (event) => event.done === event.total && io.progress(`worst case over the variations: ${event.total} speeds\n`),
+        });
   const { acceptancePassed } = await import('../../schedule/schedule-variations.js');
   const scenarios = await checkScenarios(args, schedule, model);
   notes.push(...scenarios.notes);
@@ -87,7 +98,9 @@ async function run(args: Args, io: CommandIo): Promise<number> {
             ? ''
             : '\nWorst case over the variations: not checked (--nominal-only)\n'
           : `\n${await robustText(robust.record, result, schedule)}`) +
-        (schedule.variations === undefined ? '' : `\n${passed ? 'PASSED' : 'FAILED'} (${robust === null ? 'nominal check only' : `${schedule.variations.acceptance} acceptance`})\n`),
+        (schedule.variations === undefined
+          ? ''
+          : `\n${passed ? 'PASSED' : 'FAILED'} (${robust === null ? 'nominal check only' : `${schedule.variations.acceptance} acceptance`})\n`),
     );
   }
   return passed ? EXIT.ok : EXIT.failed;
@@ -96,7 +109,14 @@ async function run(args: Args, io: CommandIo): Promise<number> {
 /** The worst-case report beside this check's nominal margins at the breakpoints. */
 async function robustText(record: ScheduleVariations, result: DenseCheckResult, schedule: ScheduleFile): Promise<string> {
   const { formatVariations, nominalAtBreakpoints } = await import('../../pipeline/robust-report.js');
-  return formatVariations(record, nominalAtBreakpoints(result, schedule.breakpoints.map((row) => row.speed_mps)), schedule.check.thresholds);
+  return formatVariations(
+    record,
+    nominalAtBreakpoints(
+      result,
+      schedule.breakpoints.map((row) => row.speed_mps),
+    ),
+    schedule.check.thresholds,
+  );
 }
 
 /** The schedule's scenarios on the check model, with the limits the schedule records (none when it records none). */
@@ -107,7 +127,8 @@ async function checkScenarios(
 ): Promise<{ check: import('../../schedule/schedule-types.js').ScheduleScenarioCheck | null; notes: string[] }> {
   const recorded = schedule.check.scenarios;
   if (recorded === undefined) return { check: null, notes: [] };
-  if (model.summary.kind !== 'single-track') return { check: null, notes: ['note: the scenarios need the single-track model; not run on per-speed yaw-rate models'] };
+  if (model.summary.kind !== 'single-track')
+    return { check: null, notes: ['note: the scenarios need the single-track model; not run on per-speed yaw-rate models'] };
   const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
   const { judgeScheduleScenarios, scenarioParameters } = await import('../../pipeline/simulate-schedule.js');
   const vehicle = loadVehicle(resolveVehiclePath(args.vehicle));
@@ -124,10 +145,11 @@ async function checkScenarios(
 
 export const command = defineCommand({
   command: 'check <schedule>',
-  describe: 'Re-verify a schedule.json: schema, checksum (hand edits are refused), stability margins of its own gains at every speed of its range, and (when the schedule records them) its scenarios driven as firmware runs them (see speedband simulate). Exit 0 passed, 1 failed, 2 bad input',
+  describe:
+    'Re-verify a schedule.json: schema, checksum (hand edits are refused), stability margins of its own gains at every speed of its range, and (when the schedule records them) its scenarios driven as firmware runs them (see speedband simulate). Exit 0 passed, 1 failed, 2 bad input',
   builder,
   exitCodes: [
-    [0, 'the schedule\'s gains pass the dense check at every speed (and, when it records variations under robust acceptance, their worst case too)'],
+    [0, "the schedule's gains pass the dense check at every speed (and, when it records variations under robust acceptance, their worst case too)"],
     [1, 'they fail at one or more speeds (listed), on the nominal model or in the worst case over the variations'],
     [2, 'bad input: unreadable, invalid or edited schedule (checksum), vehicle, models or logs'],
   ],

@@ -6,12 +6,15 @@ import { BUNDLED_VEHICLES, shownPath } from '../../vehicle/bundled.js';
 import { join } from 'node:path';
 
 function builder(yargs: Argv) {
-  return (
-    yargs
-      .option('out', { type: 'string', default: 'speedband-demo', describe: 'Folder for models.json, schedule.json, schedule.h and schedule.csv' })
-      .option('vehicle', { type: 'string', default: 'parcel-van', describe: 'Bundled demo vehicle: parcel-van, parcel-van-loaded, vineyard-sprayer or sidewalk-robot (any command takes these names as --vehicle, from any folder)' })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace existing files in the folder whose content differs' })
-  );
+  return yargs
+    .option('out', { type: 'string', default: 'speedband-demo', describe: 'Folder for models.json, schedule.json, schedule.h and schedule.csv' })
+    .option('vehicle', {
+      type: 'string',
+      default: 'parcel-van',
+      describe:
+        'Bundled demo vehicle: parcel-van, parcel-van-loaded, vineyard-sprayer or sidewalk-robot (any command takes these names as --vehicle, from any folder)',
+    })
+    .option('force', { type: 'boolean', default: false, describe: 'Replace existing files in the folder whose content differs' });
 }
 
 type Args = OptionsOf<typeof builder>;
@@ -28,7 +31,8 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   lines.push(formatSchedule(result.build.schedule));
   lines.push(`Re-checked independently from the written schedule: ${result.recheck.passed ? 'PASSED' : 'FAILED'} at ${result.recheck.points.length} speeds.`);
   lines.push('', `Everything went to ${outDir}/:`);
-  for (const file of result.files) lines.push(`  ${file.path.padEnd(Math.max(...result.files.map((f) => f.path.length)))}  ${file.what}${file.outcome === 'unchanged' ? ' (unchanged)' : ''}`);
+  for (const file of result.files)
+    lines.push(`  ${file.path.padEnd(Math.max(...result.files.map((f) => f.path.length)))}  ${file.what}${file.outcome === 'unchanged' ? ' (unchanged)' : ''}`);
   // Commands that run where they are printed: the vehicle by its bundled name, the logs by a path from here.
   const speedband = commandPrefix();
   const loadedLogs = shownPath(join(BUNDLED_VEHICLES, 'parcel-van-loaded', 'logs'));

@@ -22,32 +22,38 @@ type Format = (typeof FORMATS)[number];
 const shown = (value: number): string => value.toPrecision(3);
 
 function builder(yargs: Argv) {
-  return (
-    yargs
-      .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband (its checksum must match)' })
-      .option('format', {
-        type: 'string',
-        choices: FORMATS,
-        demandOption: true,
-        describe:
-          'c: C99 header with const tables and a static inline lookup (IEEE 754 double, clamped, same interpolation as the schedule); csv: one row per breakpoint, units in the header; json: the canonical schedule file',
-      })
-      .option('out', { type: 'string', describe: 'File to write (atomically); without it the export goes to standard output' })
-      .option('q-format', {
-        type: 'string',
-        describe:
-          'C only: gains as fixed-point integers and an integer-only lookup (no floating point; speed in units of 2^-16 m/s). QI.F or I.F (I integer bits including the sign, F fractional bits, I + F = 16 or 32: Q16.16, 16.16, Q4.12) for every gain, or auto: per gain, the 32-bit format with the most fractional bits its values need. Prints the error per gain; the dense check is re-run on what the integer lookup computes',
-      })
-      .option('prefix', { type: 'string', default: C_HEADER_DEFAULTS.prefix, describe: 'C only: prefix of every identifier; the include guard is its upper case' })
-      .option('allow-failing', {
-        type: 'boolean',
-        default: false,
-        describe:
-          'Export a schedule whose dense check fails (or cannot be re-run), for review only: the C header then starts with #error unless <PREFIX>_ALLOW_FAILING_SCHEDULE is defined',
-      })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs (never the schedule itself)' })
-      .option('json', { type: 'boolean', default: false, describe: 'With --out: print a JSON summary (file, format, checksum, quantisation errors) instead of text' })
-  );
+  return yargs
+    .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband (its checksum must match)' })
+    .option('format', {
+      type: 'string',
+      choices: FORMATS,
+      demandOption: true,
+      describe:
+        'c: C99 header with const tables and a static inline lookup (IEEE 754 double, clamped, same interpolation as the schedule); csv: one row per breakpoint, units in the header; json: the canonical schedule file',
+    })
+    .option('out', { type: 'string', describe: 'File to write (atomically); without it the export goes to standard output' })
+    .option('q-format', {
+      type: 'string',
+      describe:
+        'C only: gains as fixed-point integers and an integer-only lookup (no floating point; speed in units of 2^-16 m/s). QI.F or I.F (I integer bits including the sign, F fractional bits, I + F = 16 or 32: Q16.16, 16.16, Q4.12) for every gain, or auto: per gain, the 32-bit format with the most fractional bits its values need. Prints the error per gain; the dense check is re-run on what the integer lookup computes',
+    })
+    .option('prefix', {
+      type: 'string',
+      default: C_HEADER_DEFAULTS.prefix,
+      describe: 'C only: prefix of every identifier; the include guard is its upper case',
+    })
+    .option('allow-failing', {
+      type: 'boolean',
+      default: false,
+      describe:
+        'Export a schedule whose dense check fails (or cannot be re-run), for review only: the C header then starts with #error unless <PREFIX>_ALLOW_FAILING_SCHEDULE is defined',
+    })
+    .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs (never the schedule itself)' })
+    .option('json', {
+      type: 'boolean',
+      default: false,
+      describe: 'With --out: print a JSON summary (file, format, checksum, quantisation errors) instead of text',
+    });
 }
 
 type Args = OptionsOf<typeof builder>;
@@ -65,8 +71,14 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
       [2, 'bad input: unreadable, invalid or edited schedule (checksum), bad option, a gain that does not fit the Q format'],
     ],
     examples: [
-      ['speedband export schedule.json --format c --out firmware/steer_schedule.h', 'C99 header with the lookup, units, controller equation, checksum and cautions'],
-      ['speedband export schedule.json --format c --q-format Q16.16 --out steer_schedule_q16.h', 'Gains as Q16.16 int32_t with an integer-only lookup; prints the error per gain'],
+      [
+        'speedband export schedule.json --format c --out firmware/steer_schedule.h',
+        'C99 header with the lookup, units, controller equation, checksum and cautions',
+      ],
+      [
+        'speedband export schedule.json --format c --q-format Q16.16 --out steer_schedule_q16.h',
+        'Gains as Q16.16 int32_t with an integer-only lookup; prints the error per gain',
+      ],
       ['speedband export schedule.json --format c --q-format auto --out steer_schedule_fixed.h', 'Each gain in the 32-bit Q format that fits its range best'],
       ['speedband export schedule.json --format csv > gains.csv', 'Breakpoints, gains and margins for a spreadsheet'],
     ],
@@ -86,7 +98,8 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
   if (args.json && out === undefined) {
     throw new SpeedbandError('cli.optionNotApplicable', '--json prints a summary of a written file: give --out FILE too');
   }
-  if (out !== undefined) (await import('../../core/output-paths.js')).checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }]);
+  if (out !== undefined)
+    (await import('../../core/output-paths.js')).checkOutputPaths([{ path: out, option: '--out' }], [{ path: schedulePath, role: 'schedule' }]);
   const { readSchedule } = await import('../../schedule/schedule-file.js');
   const { scheduleTable, scheduleLookupSettings } = await import('../../schedule/schedule-lookup.js');
   const exportCheck = await import('../../pipeline/export-check.js');
@@ -112,12 +125,15 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
   const notes: string[] = [];
   const fixedPointModule = qFormat === undefined ? undefined : await import('../../export/fixed-point.js');
   const fixedPoint = qFormat === undefined ? undefined : fixedPointModule!.parseFixedPointRequest(qFormat);
-  const quantisation = fixedPoint === undefined ? undefined : fixedPointModule!.quantiseTable(scheduleTable(schedule), fixedPoint, scheduleLookupSettings(schedule));
+  const quantisation =
+    fixedPoint === undefined ? undefined : fixedPointModule!.quantiseTable(scheduleTable(schedule), fixedPoint, scheduleLookupSettings(schedule));
   const table = quantisation?.table ?? scheduleTable(schedule);
   // The fixed-point header interpolates in integers: the check judges exactly what that lookup computes.
   const check = analyse === null ? null : exportCheck.checkExportedTable(schedule, table, analyse, quantisation?.lookup);
   if (quantisation !== undefined) {
-    notes.push(`Fixed point${fixedPoint === 'auto' ? ' (auto: per gain, the 32-bit format with the most fractional bits its values need)' : ''}, integer-only lookup, speed in units of 2^-16 m/s:`);
+    notes.push(
+      `Fixed point${fixedPoint === 'auto' ? ' (auto: per gain, the 32-bit format with the most fractional bits its values need)' : ''}, integer-only lookup, speed in units of 2^-16 m/s:`,
+    );
     for (const name of ['kp', 'ki', 'kd'] as const) {
       const error = quantisation.errors[name];
       const format = quantisation.formats[name];
@@ -156,15 +172,27 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
     const upper = args.prefix.toUpperCase();
     notes.push(
       quantisation !== undefined
-        ? `  The integer lookup takes the speed as an integer, never NaN: no fallback status; ${upper}_FALLBACK_BREAKPOINT is ${fallback === null ? '-1 (no breakpoint\'s gains pass held constant over the whole range)' : `${fallback.breakpoint} (${fallback.speed_mps} m/s), gains that pass held constant over the whole range, for a speed-sensor fault`}.`
+        ? `  The integer lookup takes the speed as an integer, never NaN: no fallback status; ${upper}_FALLBACK_BREAKPOINT is ${fallback === null ? "-1 (no breakpoint's gains pass held constant over the whole range)" : `${fallback.breakpoint} (${fallback.speed_mps} m/s), gains that pass held constant over the whole range, for a speed-sensor fault`}.`
         : fallback === null
-        ? `  NaN or infinite speed: no breakpoint's gains, held constant, pass the dense check over the whole range — the C lookup returns ${upper}_LOOKUP_NO_GAINS (the caller must hand over or stop).`
-        : `  NaN or infinite speed: the C lookup returns ${upper}_LOOKUP_FALLBACK with the gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which pass the dense check held constant over the whole range.`,
+          ? `  NaN or infinite speed: no breakpoint's gains, held constant, pass the dense check over the whole range — the C lookup returns ${upper}_LOOKUP_NO_GAINS (the caller must hand over or stop).`
+          : `  NaN or infinite speed: the C lookup returns ${upper}_LOOKUP_FALLBACK with the gains of breakpoint ${fallback.breakpoint} (${fallback.speed_mps} m/s), which pass the dense check held constant over the whole range.`,
     );
     const headerCheck =
       check === null
-        ? { passed: false, gridSize: schedule.check.gridSize, failedSpeeds: schedule.check.failedSpeeds, worst: schedule.check.worst, source: 'NOT re-checked at export: no model to rebuild' }
-        : { passed, gridSize: check.points.length, failedSpeeds: check.failedCount, worst: check.worst, source: 're-checked at export on the model the schedule records' };
+        ? {
+            passed: false,
+            gridSize: schedule.check.gridSize,
+            failedSpeeds: schedule.check.failedSpeeds,
+            worst: schedule.check.worst,
+            source: 'NOT re-checked at export: no model to rebuild',
+          }
+        : {
+            passed,
+            gridSize: check.points.length,
+            failedSpeeds: check.failedCount,
+            worst: check.worst,
+            source: 're-checked at export on the model the schedule records',
+          };
     text = exportC(schedule, { prefix: args.prefix, check: headerCheck, fallback, ...(fixedPoint === undefined ? {} : { fixedPoint }) }).text;
   } else if (format === 'csv') {
     text = (await import('../../export/csv.js')).exportCsv(schedule);
@@ -192,7 +220,13 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
           check:
             check === null
               ? null
-              : { passed: check.passed, gridSize: check.points.length, failedSpeeds: check.failedCount, failures: (await import('../../schedule/dense-check.js')).failingSpeeds(check.points), worst: check.worst },
+              : {
+                  passed: check.passed,
+                  gridSize: check.points.length,
+                  failedSpeeds: check.failedCount,
+                  failures: (await import('../../schedule/dense-check.js')).failingSpeeds(check.points),
+                  worst: check.worst,
+                },
           fallback,
           quantisation:
             quantisation === undefined

@@ -20,4 +20,19 @@ import { command as simulate } from './simulate.js';
  * and add it here. Keep command modules cheap to import (no mathjs at top level):
  * `speedband --help` must stay under 300 ms.
  */
-export const COMMANDS: readonly AnyCommand[] = [demo, inspect, identify, tune, stability, plan, build, check, simulate, reverify, exportSchedule, report, compare, makeTestLogs];
+export const COMMANDS: readonly AnyCommand[] = [
+  demo,
+  inspect,
+  identify,
+  tune,
+  stability,
+  plan,
+  build,
+  check,
+  simulate,
+  reverify,
+  exportSchedule,
+  report,
+  compare,
+  makeTestLogs,
+];

@@ -15,16 +15,24 @@ export const command = defineCommand({
       .positional('logs', { type: 'string', array: true, describe: 'CSV log files (header line, then one row per sample)' })
       .option('vehicle', {
         type: 'string',
-        describe: 'Vehicle file (vehicle.json) or a folder holding one: gives the steering ratio for steering-wheel columns and the steer-angle limit for the actuator-limit check',
+        describe:
+          'Vehicle file (vehicle.json) or a folder holding one: gives the steering ratio for steering-wheel columns and the steer-angle limit for the actuator-limit check',
       })
-      .option('steering-ratio', { type: 'number', describe: 'Steering-wheel angle per road-wheel angle, for steering-wheel columns (default: the vehicle file\'s steeringRatio)' })
+      .option('steering-ratio', {
+        type: 'number',
+        describe: "Steering-wheel angle per road-wheel angle, for steering-wheel columns (default: the vehicle file's steeringRatio)",
+      })
       .option('min-hold-s', { type: 'number', default: SEGMENT_DEFAULTS.minHold_s, describe: 'Shortest hold after a step that is accepted, s' })
       .option('speed-tolerance-mps', {
         type: 'number',
         default: SEGMENT_DEFAULTS.speedToleranceAbsolute_mps,
         describe: `Speed spread (max − min) allowed during a hold, m/s; ${100 * SEGMENT_DEFAULTS.speedToleranceFraction} % of the speed is allowed when larger`,
       })
-      .option('gap-factor', { type: 'number', default: READ_DEFAULTS.gapFactor, describe: 'A time step longer than this many median sample periods splits the log' })
+      .option('gap-factor', {
+        type: 'number',
+        default: READ_DEFAULTS.gapFactor,
+        describe: 'A time step longer than this many median sample periods splits the log',
+      })
       .option('json', { type: 'boolean', default: false, describe: 'Print JSON (one object per log, SI units) instead of tables' }),
   epilogue:
     'Metrics (in the spirit of ISO 7401): steady yaw gain = steady yaw-rate change / command change (1/s); ' +
@@ -37,7 +45,10 @@ export const command = defineCommand({
   ],
   examples: [
     ['speedband inspect vehicles/parcel-van/logs/*.csv', 'Every demo log of the parcel van: steps, metrics, rejections'],
-    ['speedband inspect run7.csv --vehicle vehicles/parcel-van --column steer_cmd_rad=SWA:steering-wheel-deg --column speed_mps=v:km/h', 'A logger that records the steering-wheel angle in degrees and speed in km/h'],
+    [
+      'speedband inspect run7.csv --vehicle vehicles/parcel-van --column steer_cmd_rad=SWA:steering-wheel-deg --column speed_mps=v:km/h',
+      'A logger that records the steering-wheel angle in degrees and speed in km/h',
+    ],
     ['speedband inspect run7.csv --log-profile logger.json --json', 'Column names and units from a profile file, machine-readable output'],
   ],
   run: async (args, io) => {

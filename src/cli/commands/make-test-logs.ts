@@ -17,9 +17,13 @@ const MAX_LISTED_VALUES = 1000;
  */
 function parseNumberList(text: string, option: string): number[] {
   const bad = (item: string) =>
-    new SpeedbandError('cli.badList', `--${option} ${quoted(text)}: ${quoted(item)} is not a number — give comma-separated numbers (2,4,6) or start:step:end (2:2:10)`, {
-      details: { option, text },
-    });
+    new SpeedbandError(
+      'cli.badList',
+      `--${option} ${quoted(text)}: ${quoted(item)} is not a number — give comma-separated numbers (2,4,6) or start:step:end (2:2:10)`,
+      {
+        details: { option, text },
+      },
+    );
   const range = /^\s*([^:]+):([^:]+):([^:]+)\s*$/.exec(text);
   if (range) {
     const [start, step, end] = range.slice(1).map((item) => {
@@ -32,7 +36,9 @@ function parseNumberList(text: string, option: string): number[] {
     }
     const count = Math.floor((end - start) / step + 1e-9) + 1;
     if (count > MAX_LISTED_VALUES) {
-      throw new SpeedbandError('cli.badList', `--${option} ${quoted(text)} lists ${count} values; at most ${MAX_LISTED_VALUES} — use a larger step`, { details: { option, text } });
+      throw new SpeedbandError('cli.badList', `--${option} ${quoted(text)} lists ${count} values; at most ${MAX_LISTED_VALUES} — use a larger step`, {
+        details: { option, text },
+      });
     }
     return Array.from({ length: count }, (_, k) => Number((start + k * step).toPrecision(12)));
   }
@@ -44,47 +50,49 @@ function parseNumberList(text: string, option: string): number[] {
 }
 
 function builder(yargs: Argv) {
-  return (
-    yargs
-      .usage(
-        'speedband make-test-logs --vehicle V --speeds LIST --out DIR [options]\n\n' +
-          'Writes invented demo data, labelled synthetic (file names synthetic-steps-<speed>mps.csv and a README.md). ' +
-          'Each log simulates the vehicle file\'s nominal single-track model and actuator exactly at one constant speed: ' +
-          '2 s at zero, then steps left and right at a large and a small road-wheel amplitude (8 steps with the returns to zero), ' +
-          'each a 0.15–0.4 s ramp, held 4.5 s, back to zero and held 3 s. ' +
-          'Columns: time_s, speed_mps, steer_cmd_rad, steer_angle_rad, yaw_rate_radps, lat_accel_mps2 (ISO 8855 signs: positive = left).',
-      )
-      .option('vehicle', {
-        type: 'string',
-        demandOption: true,
-        describe: 'Vehicle file (vehicle.json) or a folder holding one; it must carry nominal cornering stiffnesses',
-      })
-      .option('speeds', {
-        type: 'string',
-        demandOption: true,
-        describe: 'Test speeds in m/s: comma-separated (2,5,10) or start:step:end (2:2:20); one log per speed',
-      })
-      .option('out', { type: 'string', demandOption: true, describe: 'Folder to write the logs and a README.md into (created if needed)' })
-      .option('seed', { type: 'number', default: TEST_LOG_DEFAULTS.seed, describe: 'Integer seed of the noise; the same seed gives byte-identical files' })
-      .option('amplitudes-deg', {
-        type: 'string',
-        describe:
-          'Road-wheel step amplitudes in degrees for every speed, e.g. 2,1 (default: per speed, the large one aiming at 1.5 m/s² steady lateral acceleration within half the angle limit and the rate limit; the small one half of it)',
-      })
-      .option('sample-rate-hz', { type: 'number', default: TEST_LOG_DEFAULTS.sampleRate_hz, describe: 'Sample rate of the logs, Hz' })
-      .option('noise-scale', {
-        type: 'number',
-        default: TEST_LOG_DEFAULTS.noiseScale,
-        describe: 'Multiplies every sensor noise level and the yaw-rate bias (1: yaw rate σ 0.001 rad/s, bias within ±0.003 rad/s; 0: noise-free)',
-      })
-      .option('command-resolution-deg', {
-        type: 'number',
-        default: 0,
-        describe: 'Quantise the steer command to multiples of this road-wheel angle, degrees, as a firmware with a coarse command would (0: not quantised)',
-      })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace existing files whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table' })
-  );
+  return yargs
+    .usage(
+      'speedband make-test-logs --vehicle V --speeds LIST --out DIR [options]\n\n' +
+        'Writes invented demo data, labelled synthetic (file names synthetic-steps-<speed>mps.csv and a README.md). ' +
+        "Each log simulates the vehicle file's nominal single-track model and actuator exactly at one constant speed: " +
+        '2 s at zero, then steps left and right at a large and a small road-wheel amplitude (8 steps with the returns to zero), ' +
+        'each a 0.15–0.4 s ramp, held 4.5 s, back to zero and held 3 s. ' +
+        'Columns: time_s, speed_mps, steer_cmd_rad, steer_angle_rad, yaw_rate_radps, lat_accel_mps2 (ISO 8855 signs: positive = left).',
+    )
+    .option('vehicle', {
+      type: 'string',
+      demandOption: true,
+      describe: 'Vehicle file (vehicle.json) or a folder holding one; it must carry nominal cornering stiffnesses',
+    })
+    .option('speeds', {
+      type: 'string',
+      demandOption: true,
+      describe: 'Test speeds in m/s: comma-separated (2,5,10) or start:step:end (2:2:20); one log per speed',
+    })
+    .option('out', { type: 'string', demandOption: true, describe: 'Folder to write the logs and a README.md into (created if needed)' })
+    .option('seed', { type: 'number', default: TEST_LOG_DEFAULTS.seed, describe: 'Integer seed of the noise; the same seed gives byte-identical files' })
+    .option('amplitudes-deg', {
+      type: 'string',
+      describe:
+        'Road-wheel step amplitudes in degrees for every speed, e.g. 2,1 (default: per speed, the large one aiming at 1.5 m/s² steady lateral acceleration within half the angle limit and the rate limit; the small one half of it)',
+    })
+    .option('sample-rate-hz', { type: 'number', default: TEST_LOG_DEFAULTS.sampleRate_hz, describe: 'Sample rate of the logs, Hz' })
+    .option('noise-scale', {
+      type: 'number',
+      default: TEST_LOG_DEFAULTS.noiseScale,
+      describe: 'Multiplies every sensor noise level and the yaw-rate bias (1: yaw rate σ 0.001 rad/s, bias within ±0.003 rad/s; 0: noise-free)',
+    })
+    .option('command-resolution-deg', {
+      type: 'number',
+      default: 0,
+      describe: 'Quantise the steer command to multiples of this road-wheel angle, degrees, as a firmware with a coarse command would (0: not quantised)',
+    })
+    .option('force', { type: 'boolean', default: false, describe: 'Replace existing files whose content differs' })
+    .option('json', {
+      type: 'boolean',
+      default: false,
+      describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table',
+    });
 }
 
 type Args = OptionsOf<typeof builder>;
@@ -98,9 +106,15 @@ export const command = defineCommand({
     [2, 'bad input: vehicle file without nominal cornering stiffnesses, bad speed list, an output that exists (--force)'],
   ],
   examples: [
-    ['speedband make-test-logs --vehicle vehicles/parcel-van --speeds 2,4,6,8,10,12.5,15,18,21,25 --seed 101 --out vehicles/parcel-van/logs', 'Regenerate the parcel van demo logs'],
+    [
+      'speedband make-test-logs --vehicle vehicles/parcel-van --speeds 2,4,6,8,10,12.5,15,18,21,25 --seed 101 --out vehicles/parcel-van/logs',
+      'Regenerate the parcel van demo logs',
+    ],
     ['speedband make-test-logs --vehicle my-van.json --speeds 5:5:25 --seed 7 --noise-scale 0 --out /tmp/clean', 'Noise-free logs at 5, 10, 15, 20 and 25 m/s'],
-    ['speedband make-test-logs --vehicle vehicles/sidewalk-robot --speeds 1,2 --amplitudes-deg 6,3 --out /tmp/robot', 'Fixed amplitudes of 6° and 3° at every speed'],
+    [
+      'speedband make-test-logs --vehicle vehicles/sidewalk-robot --speeds 1,2 --amplitudes-deg 6,3 --out /tmp/robot',
+      'Fixed amplitudes of 6° and 3° at every speed',
+    ],
   ],
   run: async (args, io) => {
     const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
@@ -114,7 +128,12 @@ export const command = defineCommand({
     checkOutputFolder({ path: out, option: '--out' });
     checkOutputPaths(
       // Each file once: two speeds with one file name are refused by writeTestLogs, with its own words.
-      [...new Set([...speeds.filter((speed) => Number.isFinite(speed) && speed > 0).map((speed) => join(out, testLogFileName(speed))), join(out, 'README.md')])].map((path) => ({
+      [
+        ...new Set([
+          ...speeds.filter((speed) => Number.isFinite(speed) && speed > 0).map((speed) => join(out, testLogFileName(speed))),
+          join(out, 'README.md'),
+        ]),
+      ].map((path) => ({
         path,
         option: '--out',
       })),
@@ -173,7 +192,12 @@ export const command = defineCommand({
       ]),
     ];
     const widths = table[0].map((_, column) => Math.max(...table.map((line) => line[column].length)));
-    const text = table.map((line) => line.map((cell, column) => (column === 0 ? cell.padEnd(widths[column]) : cell.padStart(widths[column]))).join('  ').trimEnd());
+    const text = table.map((line) =>
+      line
+        .map((cell, column) => (column === 0 ? cell.padEnd(widths[column]) : cell.padStart(widths[column])))
+        .join('  ')
+        .trimEnd(),
+    );
     io.stdout(`${text.join('\n')}\n`);
     io.stdout(
       `\nSynthetic data for demos and tests only (vehicle ${quoted(vehicle.name)}, seed ${args.seed}): ${rows.length} logs, each with ${rows[0]?.stepOnsets_s.length ?? 0} steps (left and right at two amplitudes, with returns to zero). ` +

@@ -4,11 +4,9 @@ import { defineCommand, type OptionsOf } from '../command.js';
 import { EXIT } from '../io.js';
 
 function builder(yargs: Argv) {
-  return (
-    yargs
-      .option('default', { type: 'boolean', default: false, describe: 'Print the default plan (required: the only thing this command does today)' })
-      .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'] as const, describe: 'The loop the plan is for (default yaw-rate)' })
-  );
+  return yargs
+    .option('default', { type: 'boolean', default: false, describe: 'Print the default plan (required: the only thing this command does today)' })
+    .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'] as const, describe: 'The loop the plan is for (default yaw-rate)' });
 }
 
 type Args = OptionsOf<typeof builder>;
@@ -16,7 +14,8 @@ type Args = OptionsOf<typeof builder>;
 /** `speedband plan --default`: the default plan as a plan file, to start from or to read. */
 export const command = defineCommand({
   command: 'plan',
-  describe: 'Print the default plan in full as a plan file (JSON): the loop, rule, breakpoints, interpolation, controller, limits and check a build uses without --plan',
+  describe:
+    'Print the default plan in full as a plan file (JSON): the loop, rule, breakpoints, interpolation, controller, limits and check a build uses without --plan',
   builder,
   epilogue:
     'The plan printed, given to `speedband build --plan`, builds what no plan builds. Fields whose default the data decide (speed range, sample time, latency) are left out ' +

@@ -19,38 +19,35 @@ export function responseSpeedsFromArgs(args: { readonly 'response-speed-mps'?: r
 }
 
 function builder(yargs: Argv) {
-  return (
-    withLogColumnOptions(yargs)
-      .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband build (schema and checksum are verified)' })
-      .option('out', {
-        type: 'string',
-        demandOption: true,
-        describe: 'report.html to write (atomically; no network, fonts or scripts needed to read it; prints on A4 and Letter)',
-      })
-      .option('models', {
-        type: 'string',
-        describe:
-          'The identification the schedule was built from (models.json; checked by the SHA-256 of its vehicle file and logs): adds the identified parameters against speed with their intervals and the single-track prediction',
-      })
-      .option('logs', {
-        type: 'array',
-        string: true,
-        describe:
-          'The logs of that identification (files or folders; each checked by SHA-256 against models.json): adds the fits over the measured steps with residuals. Needs --models',
-      })
-      .option('baseline', {
-        type: 'string',
-        describe: "A previous schedule.json: the report leads with whether ITS gains still hold on this schedule's vehicle model, and draws old against new",
-      })
-      .option('response-speed-mps', {
-        type: 'array',
-        string: true,
-        describe:
-          'Speeds of the Bode and Nyquist plots, m/s (repeatable; default: the lowest and highest breakpoint and the speed of the smallest phase margin)',
-      })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing report whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: "Print what was written as JSON (file, outcome, bytes, sections, the old gains' verdict)" })
-  );
+  return withLogColumnOptions(yargs)
+    .positional('schedule', { type: 'string', demandOption: true, describe: 'schedule.json written by speedband build (schema and checksum are verified)' })
+    .option('out', {
+      type: 'string',
+      demandOption: true,
+      describe: 'report.html to write (atomically; no network, fonts or scripts needed to read it; prints on A4 and Letter)',
+    })
+    .option('models', {
+      type: 'string',
+      describe:
+        'The identification the schedule was built from (models.json; checked by the SHA-256 of its vehicle file and logs): adds the identified parameters against speed with their intervals and the single-track prediction',
+    })
+    .option('logs', {
+      type: 'array',
+      string: true,
+      describe:
+        'The logs of that identification (files or folders; each checked by SHA-256 against models.json): adds the fits over the measured steps with residuals. Needs --models',
+    })
+    .option('baseline', {
+      type: 'string',
+      describe: "A previous schedule.json: the report leads with whether ITS gains still hold on this schedule's vehicle model, and draws old against new",
+    })
+    .option('response-speed-mps', {
+      type: 'array',
+      string: true,
+      describe: 'Speeds of the Bode and Nyquist plots, m/s (repeatable; default: the lowest and highest breakpoint and the speed of the smallest phase margin)',
+    })
+    .option('force', { type: 'boolean', default: false, describe: 'Replace an existing report whose content differs' })
+    .option('json', { type: 'boolean', default: false, describe: "Print what was written as JSON (file, outcome, bytes, sections, the old gains' verdict)" });
 }
 
 type Args = OptionsOf<typeof builder>;

@@ -5,16 +5,18 @@ import { checkModelFromArgs, modelInputPaths } from '../check-model-args.js';
 import { withLogColumnOptions } from '../log-columns.js';
 
 function builder(yargs: Argv) {
-  return (
-    withLogColumnOptions(yargs)
-      .positional('schedule', { type: 'string', demandOption: true, describe: 'The edited schedule.json' })
-      .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
-      .option('models', { type: 'string', describe: 'Check on this identification (models.json); default: the model the schedule records' })
-      .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
-      .option('out', { type: 'string', demandOption: true, describe: 'Where to write the re-verified schedule (never the edited file itself: inputs are never outputs)' })
-      .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
-      .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' })
-  );
+  return withLogColumnOptions(yargs)
+    .positional('schedule', { type: 'string', demandOption: true, describe: 'The edited schedule.json' })
+    .option('vehicle', { type: 'string', demandOption: true, describe: 'Vehicle file (vehicle.json) or its folder: mass, inertia and geometry' })
+    .option('models', { type: 'string', describe: 'Check on this identification (models.json); default: the model the schedule records' })
+    .option('logs', { type: 'array', string: true, describe: 'Check on a fresh identification from these step-test logs' })
+    .option('out', {
+      type: 'string',
+      demandOption: true,
+      describe: 'Where to write the re-verified schedule (never the edited file itself: inputs are never outputs)',
+    })
+    .option('force', { type: 'boolean', default: false, describe: 'Replace an existing --out file whose content differs' })
+    .option('json', { type: 'boolean', default: false, describe: 'Print the result as JSON' });
 }
 
 type Args = OptionsOf<typeof builder>;
@@ -37,7 +39,8 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const { formatRecheck, formatCautions } = await import('../../pipeline/schedule-report.js');
   const edited = parseScheduleUnverified(parseJsonText(readTextFile(schedulePath), schedulePath), schedulePath);
   const { model, notes, recorded } = await checkModelFromArgs(args, edited, schedulePath, io);
-  const variations = edited.variations === undefined ? null : await (await import('../../pipeline/robust-recheck.js')).recheckOverVariations({ schedule: edited, model });
+  const variations =
+    edited.variations === undefined ? null : await (await import('../../pipeline/robust-recheck.js')).recheckOverVariations({ schedule: edited, model });
   const result = reverifySchedule(edited, model, { modelRecorded: recorded, variations });
   const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, args.force);
 
@@ -75,7 +78,11 @@ async function run(args: Args, io: CommandIo): Promise<number> {
       text += `\n${formatVariations(result.variations.record, nominalAtBreakpoints(result.check, speeds), edited.check.thresholds)}\n`;
     }
     for (const failure of result.timeDomainFailures) text += `  time domain at ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}\n`;
-    const failedWhat = !result.check.passed ? 'its dense check' : result.timeDomainFailures.length > 0 ? 'its time-domain limits' : 'the worst case over its variations (robust acceptance)';
+    const failedWhat = !result.check.passed
+      ? 'its dense check'
+      : result.timeDomainFailures.length > 0
+        ? 'its time-domain limits'
+        : 'the worst case over its variations (robust acceptance)';
     text +=
       result.schedule === null
         ? `Nothing written: the edited schedule fails ${failedWhat} (see above). Undo or change the edit; a schedule that fails is never given a fresh checksum.\n`
