@@ -63,7 +63,7 @@ function oneHourLog(): { text: string; plannedSteps: number } {
       `${t.toFixed(2)},${(speed + 0.01 * random.normal()).toFixed(3)},${command.toFixed(5)},${(command + 0.0003 * random.normal()).toFixed(5)},${yaw.toFixed(5)},${(speed * yawState + 0.03 * random.normal()).toFixed(3)}`,
     );
   }
-  return { text: lines.join('\n') + '\n', plannedSteps };
+  return { text: `${lines.join('\n')}\n`, plannedSteps };
 }
 
 const folder = mkdtempSync(join(tmpdir(), 'speedband-log-bench-'));

@@ -18,10 +18,14 @@ import {
 import { oldGainsLead, oldGainsModelWords } from './old-gains-words.js';
 import type { ScheduleComparison } from './types.js';
 
-const escape = (cell: string): string => cell.replace(/\|/g, '\\|');
+const escapeCell = (cell: string): string => cell.replace(/\|/g, '\\|');
 
 function markdownTable(header: readonly string[], rows: readonly (readonly string[])[]): string[] {
-  return [`| ${header.map(escape).join(' | ')} |`, `|${header.map(() => '---').join('|')}|`, ...rows.map((row) => `| ${row.map(escape).join(' | ')} |`)];
+  return [
+    `| ${header.map(escapeCell).join(' | ')} |`,
+    `|${header.map(() => '---').join('|')}|`,
+    ...rows.map((row) => `| ${row.map(escapeCell).join(' | ')} |`),
+  ];
 }
 
 const modelNote = (comparison: ScheduleComparison): string => {

@@ -86,7 +86,7 @@ interface Refusal {
 }
 
 const word = (name: string): RegExp => new RegExp(`(?<![A-Za-z0-9_])${name.replace(/[^A-Za-z0-9_]/g, '\\$&')}(?![A-Za-z0-9_])`);
-const escape = (text: string): RegExp => new RegExp(text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&'));
+const literal = (text: string): RegExp => new RegExp(text.replace(/[.*+?^${}()|[\]\\]/g, '\\$&'));
 const ASSIGNMENT = /(?<![=<>!])=(?!=)/;
 
 /** The first part of the tree outside the restricted scope, or null when all of it is allowed. */
@@ -115,7 +115,7 @@ function refusal(node: MathNode): Refusal | null {
     }
     case 'OperatorNode':
       if (!ALLOWED_OPERATORS.includes(String(n.fn)))
-        return { reason: `operator ${String(n.op)} is not allowed — use + - * / ^ mod, comparisons, and, or, not`, token: escape(String(n.op)) };
+        return { reason: `operator ${String(n.op)} is not allowed — use + - * / ^ mod, comparisons, and, or, not`, token: literal(String(n.op)) };
       break;
     case 'RelationalNode':
       if (!(n.conditionals as string[]).every((fn) => ALLOWED_COMPARISONS.includes(fn)))

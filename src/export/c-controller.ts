@@ -24,7 +24,7 @@ export function controllerFunctionsText(input: ControllerTextInput): string {
   const tustin = discretisation === 'tustin';
   const backCalculation = antiWindup === 'back-calculation';
   return [
-    "/* The controller equation's memory between samples: start it with " + `${prefix}_controller_init. */`,
+    `/* The controller equation's memory between samples: start it with ${prefix}_controller_init. */`,
     `typedef struct ${prefix}_state {`,
     '  double integral;',
     '  double derivative;',
@@ -95,7 +95,7 @@ export function controllerFunctionsText(input: ControllerTextInput): string {
     ...(backCalculation
       ? [
           '  if (s->previous_saturation != 0.0 && g->ki != 0.0) {',
-          '    double ti = g->kp == 0.0 ? ' + `${prefix}_square_root(g->kd / g->ki < 0.0 ? -(g->kd / g->ki) : g->kd / g->ki) : g->kp / g->ki;`,
+          `    double ti = g->kp == 0.0 ? ${prefix}_square_root(g->kd / g->ki < 0.0 ? -(g->kd / g->ki) : g->kd / g->ki) : g->kp / g->ki;`,
           '    double td = g->kp == 0.0 ? 0.0 : g->kd / g->kp;',
           `    increment += (t * s->previous_saturation) / (td > 0.0 ? ${prefix}_square_root(ti * td) : ti);`,
           '  }',

@@ -133,7 +133,7 @@ export function jointModel(vehicle: Vehicle, stacked: StackedSteps, scale: reado
     return prediction;
   };
   const jacobian = (p: readonly number[]): readonly Float64Array[] => {
-    const here = last !== null && last.p.every((v, i) => v === p[i]) ? last : null;
+    const here = last?.p.every((v, i) => v === p[i]) ? last : null;
     const delayColumn = here?.delayColumn ?? new Float64Array(total);
     const base = here?.prediction ?? simulate(p, delayColumn);
     const columns: Float64Array[] = [];

@@ -66,7 +66,7 @@ export function formatInspection(inspection: LogInspection): string {
     lines.push('', '  warnings');
     for (const warning of inspection.warnings) lines.push(`    - ${warning}`);
   }
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }
 
 function median(values: readonly number[]): number | null {
@@ -100,5 +100,5 @@ export function formatInspectionSummary(inspections: readonly LogInspection[]): 
     tableRows.push([fixed(row.speed_mps, 2), String(row.found), String(row.rejected), fixed(row.gain_perS, 3), fixed(row.response_s, 3), row.file]);
   }
   lines.push(...table(tableRows, [true, true, true, true, true, false]).map((line) => `  ${line}`));
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }

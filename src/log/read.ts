@@ -123,6 +123,7 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
       const slot = cellCount < slotOfColumn.length ? slotOfColumn[cellCount] : -1;
       if (slot >= 0) {
         const raw = parseDecimalRange(text, cellStart, cellEnd);
+        // biome-ignore lint/suspicious/noSelfCompare: the reader's NaN test, in the hot loop without a call
         if (raw !== raw) throw cellError(text.slice(cellStart, cellEnd), columns[slot], lineNumber, file);
         const value = raw * toSi[slot];
         if (!(value >= lowest[slot] && value <= highest[slot])) throw implausibleError(value, raw, columns[slot], lineNumber, file);

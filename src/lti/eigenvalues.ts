@@ -300,7 +300,7 @@ export function eigenvalueCondition(
       }
     }
     let pr = ur[k * n + k];
-    let pi = ui[k * n + k];
+    const pi = ui[k * n + k];
     if (pr === 0 && pi === 0) {
       pr = tiny;
       ur[k * n + k] = tiny;

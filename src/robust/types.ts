@@ -5,7 +5,7 @@
 import type { PidGains } from '../controller/types.js';
 import type { BreakpointMargins } from '../schedule/schedule-types.js';
 import type { CheckFailure } from '../schedule/types.js';
-import type { Combination, InstabilityFound, RobustFigure, WorstFigure, RobustWorstValue } from '../schedule/variation-types.js';
+import type { InstabilityFound, RobustFigure, WorstFigure, RobustWorstValue } from '../schedule/variation-types.js';
 
 export type {
   VariedParameter,

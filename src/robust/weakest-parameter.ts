@@ -8,7 +8,7 @@
 import type { AcceptanceThresholds } from '../schedule/types.js';
 import type { LoopMargins } from '../verify/types.js';
 import { ROBUST_FIGURES, badness, figureValue } from './figures.js';
-import type { Combination, RobustFigure, RobustMargins, VariationSet, VariedParameter, WeakestParameter } from './types.js';
+import type { RobustFigure, RobustMargins, VariationSet, VariedParameter, WeakestParameter } from './types.js';
 
 export type { WeakestParameter } from './types.js';
 

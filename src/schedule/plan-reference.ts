@@ -151,10 +151,10 @@ const unitOf = (name: string): string => UNITS.find(([suffix]) => name.endsWith(
 
 function allowedValues(node: SchemaNode): string {
   if (node.enum !== undefined) return node.enum.map((value) => `\`${value}\``).join(', ');
-  if (node.oneOf !== undefined && node.oneOf.some((branch) => branch.type === 'string')) {
+  if (node.oneOf?.some((branch) => branch.type === 'string')) {
     return `${allowedValues(node.oneOf[0])}; a table \`{"speeds_mps": […], "values": […]}\`; or an expression in \`speed_mps\``;
   }
-  if (node.oneOf !== undefined && node.oneOf.some((branch) => branch.type === 'array')) {
+  if (node.oneOf?.some((branch) => branch.type === 'array')) {
     return node.oneOf
       .map((branch) =>
         branch.type === 'array'
@@ -184,8 +184,7 @@ interface FieldRow {
 }
 
 /** A node that groups fields: an object, or a oneOf of objects (the breakpoints). */
-const isGroup = (node: SchemaNode): boolean =>
-  node.properties !== undefined || (node.oneOf !== undefined && node.oneOf.every((branch) => branch.properties !== undefined));
+const isGroup = (node: SchemaNode): boolean => node.properties !== undefined || (node.oneOf?.every((branch) => branch.properties !== undefined) ?? false);
 
 /** Every leaf field of the schema by dotted path (the object branches of a oneOf flattened into their parent). */
 function leafFields(properties: Readonly<Record<string, SchemaNode>>, prefix = ''): FieldRow[] {

@@ -55,7 +55,7 @@ export function continuousDecision(numerator: readonly number[], denominator: re
   });
   const encirclementVerdict: CountVerdict =
     count.closedLoopRightHalfPlanePoles === null
-      ? count.reason !== null && count.reason.includes('marginal')
+      ? count.reason?.includes('marginal')
         ? 'marginal'
         : 'undetermined'
       : count.closedLoopRightHalfPlanePoles === 0

@@ -126,7 +126,7 @@ export function sampledVerdictOf(loop: {
     const { matrix, size } = sampledClosedLoopMatrix(plant, controller);
     const finite = matrix.every(Number.isFinite);
     const result = finite ? eigenvalues(matrix, size) : null;
-    if (result !== null && result.converged) return { ...common, ...judgePoles(result, size, sampleTime_s) };
+    if (result?.converged) return { ...common, ...judgePoles(result, size, sampleTime_s) };
   }
   // A very long delay register (or a QR iteration that did not converge): the argument principle decides.
   const count = sampledNyquistCount(plant, controller, plantPoles);

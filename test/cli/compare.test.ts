@@ -89,7 +89,7 @@ describe('speedband compare OLD NEW', () => {
     expect(result.out).toMatch(/--gain-change-pct[\s\S]*default 15/);
     expect(result.out).toMatch(/--gain-margin-drop-dB[\s\S]*dB \(default 3\)/);
     expect(result.out).toMatch(/--phase-margin-drop-deg[\s\S]*degrees \(default 10\)/);
-    expect(result.out).toMatch(/Exit codes:\n  0  nothing flagged\n  1  something moved past a threshold/);
+    expect(result.out).toMatch(/Exit codes:\n {2}0 {2}nothing flagged\n {2}1 {2}something moved past a threshold/);
   });
 });
 

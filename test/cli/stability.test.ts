@@ -125,7 +125,7 @@ describe('speedband stability', () => {
     const help = await run(['stability', '--help']);
     expect(help.code).toBe(0);
     expect(help.out).toMatch(/--delay-s\s+Plant delay θ/);
-    expect(help.out).toMatch(/Exit codes:\n  0  the loop is stable\n  1  it is not stable/);
+    expect(help.out).toMatch(/Exit codes:\n {2}0 {2}the loop is stable\n {2}1 {2}it is not stable/);
     expect(help.out).toMatch(/Examples:/);
   });
 

@@ -12,7 +12,7 @@ import { simulateSchedule } from '../../src/pipeline/simulate-schedule.js';
 import { firmwareStep, initialFirmwareState } from '../../src/controller/firmware-step.js';
 import { exportC } from '../../src/export/c-header.js';
 import { parseQFormat } from '../../src/export/fixed-point.js';
-import { scheduleExtrasLookup, scheduleFirmware, scheduleLookupSettings } from '../../src/schedule/schedule-lookup.js';
+import { scheduleExtrasLookup, scheduleFirmware } from '../../src/schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 import { singleTrackParametersFromVehicle } from '../../src/vehicle/single-track.js';
@@ -39,7 +39,7 @@ function simulatedInputs(schedule: ScheduleFile): Replay {
   const runs = simulateSchedule({ schedule, parameters, steeringLimits: vehicle, scenarios: ['large-step', 'speed-ramp-in-curve'], speeds: [6.3] });
   const join = (pick: (run: (typeof runs)[number]) => Float64Array): Float64Array => Float64Array.from(runs.flatMap((run) => Array.from(pick(run))));
   // Each run starts its controller from rest: the harness is told where a run starts by a speed of -1.
-  const marker = (run: (typeof runs)[number], values: Float64Array): number[] => [Number.NaN, ...Array.from(values)];
+  const marker = (_run: (typeof runs)[number], values: Float64Array): number[] => [Number.NaN, ...Array.from(values)];
   return {
     speed: Float64Array.from(runs.flatMap((run) => marker(run, run.traces.speed_mps))),
     reference: Float64Array.from(runs.flatMap((run) => marker(run, run.traces.reference))),

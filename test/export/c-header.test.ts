@@ -200,7 +200,7 @@ describe('exportC(schedule)', () => {
       const fromC = runIntegerC(exported.text, integerSpeeds);
       const exact = scheduleLookup(schedule);
       const slopes = gainSlopes(scheduleTable(schedule), interpolation);
-      speeds.forEach((speed, i) => {
+      speeds.forEach((_speed, i) => {
         const expected = integerLookup(quantisation.integer, integerSpeeds[i]);
         expect(fromC[i]).toEqual({ kp: expected.kp, ki: expected.ki, kd: expected.kd });
       });

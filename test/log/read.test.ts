@@ -2,7 +2,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { describeError, isSpeedbandError, SpeedbandError } from '../../src/core/errors.js';
+import { describeError, isSpeedbandError, type SpeedbandError } from '../../src/core/errors.js';
 import { parseSteerLog, readSteerLog } from '../../src/log/read.js';
 import { loadLogProfile, parseColumnOptions, parseLogProfile } from '../../src/log/profile.js';
 
@@ -23,7 +23,7 @@ function errorOf(text: string, options = {}): SpeedbandError {
 
 describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
   it('reads the default comma format into SI channels with the header as line 1', () => {
-    const log = parseSteerLog([HEADER, ...ROWS].join('\n') + '\n', 'a.csv');
+    const log = parseSteerLog(`${[HEADER, ...ROWS].join('\n')}\n`, 'a.csv');
     expect(log.rowCount).toBe(4);
     expect(log.segments).toHaveLength(1);
     expect(log.segments[0].firstLine).toBe(2);
@@ -35,7 +35,7 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
   });
 
   it('accepts a UTF-8 byte-order mark and CRLF line endings', () => {
-    const log = parseSteerLog('\ufeff' + [HEADER, ...ROWS].join('\r\n') + '\r\n', 'a.csv');
+    const log = parseSteerLog(`\ufeff${[HEADER, ...ROWS].join('\r\n')}\r\n`, 'a.csv');
     expect(log.rowCount).toBe(4);
     expect(Array.from(log.segments[0].yawRate_radps)).toEqual([0, 0.001, 0.003, 0.004]);
   });
@@ -127,7 +127,7 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
   });
 
   it('counts skipped blank and comment lines by reason instead of dropping them silently', () => {
-    const text = ['# logger v2', HEADER, ROWS[0], '', '# marker: step 1', ROWS[1], ROWS[2]].join('\n') + '\n';
+    const text = `${['# logger v2', HEADER, ROWS[0], '', '# marker: step 1', ROWS[1], ROWS[2]].join('\n')}\n`;
     const log = parseSteerLog(text, 'a.csv');
     expect(log.droppedRows).toEqual({ commentLine: 2, blankLine: 1 });
     expect(log.rowCount).toBe(5);
@@ -138,7 +138,7 @@ describe('parseSteerLog(text, file) accepts the formats loggers write', () => {
 describe('parseSteerLog(text, file) rejects malformed input with a typed error naming line and column', () => {
   const cases: readonly { name: string; text: string; code: string; line: number; column?: RegExp; message?: RegExp; options?: object }[] = [
     { name: 'an empty file', text: '', code: 'log.empty', line: 0 },
-    { name: 'a header-only file', text: HEADER + '\n', code: 'log.headerOnly', line: 1 },
+    { name: 'a header-only file', text: `${HEADER}\n`, code: 'log.headerOnly', line: 1 },
     {
       name: 'a missing column, with "did you mean"',
       text: ['time_s,speed_mps,steer_cmd_rad,yawrate_radps', ROWS[0], ROWS[1]].join('\n'),

@@ -14,7 +14,7 @@ const DEMO_ONSETS_S = [2.0, 6.64, 9.8, 14.46, 17.62, 22.26, 25.42, 30.06];
 /** The demo log without the rows whose time satisfies `drop`. */
 function demoWithout(drop: (time_s: number) => boolean): string {
   const [header, ...rows] = readFileSync(DEMO_LOG, 'utf8').trimEnd().split('\n');
-  return [header, ...rows.filter((row) => !drop(Number(row.slice(0, row.indexOf(',')))))].join('\n') + '\n';
+  return `${[header, ...rows.filter((row) => !drop(Number(row.slice(0, row.indexOf(',')))))].join('\n')}\n`;
 }
 
 function onsetsOf(found: { steps: readonly { onset_s: number }[]; rejected: readonly { onset_s: number }[] }): number[] {
@@ -124,7 +124,7 @@ describe('findStepTests on a log cut at random places (fast-check)', () => {
           const t = Number(row.slice(0, row.indexOf(',')));
           return t <= last && (t <= gapStart_s || t >= gapEnd_s);
         });
-        const found = findStepTests(parseSteerLog([header, ...kept].join('\n') + '\n', 'cut.csv'));
+        const found = findStepTests(parseSteerLog(`${[header, ...kept].join('\n')}\n`, 'cut.csv'));
         const reported = [...found.steps, ...found.rejected].map((event) => event.onset_s);
         // The ramp moves 1° in 0.15 s: 0.05 s into it the command is 0.33° from its old level, beyond the 0.1° band.
         const visible = synthetic.onsets_s.filter((onset) => onset + 0.05 <= last && (onset + 0.05 < gapStart_s || onset > gapEnd_s));

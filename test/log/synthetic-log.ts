@@ -109,5 +109,5 @@ export function syntheticCsv(log: SyntheticLog): string {
   for (let i = 0; i < log.time_s.length; i += 1) {
     lines.push(`${log.time_s[i].toFixed(4)},${log.speed_mps[i].toFixed(4)},${log.steerCommand_rad[i].toFixed(7)},${log.yawRate_radps[i].toFixed(7)}`);
   }
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }

@@ -102,7 +102,7 @@ describe('speedband build with "tuneFor": "fastest-passing"', () => {
     expect(schedule.provenance.rule.tuneFor).toBe('fastest-passing');
     const search = schedule.provenance.rule.searchAtBreakpoints ?? [];
     expect(search.map((entry) => entry.speed_mps)).toEqual(schedule.breakpoints.map((row) => row.speed_mps));
-    schedule.breakpoints.forEach((row, k) => {
+    schedule.breakpoints.forEach((_row, k) => {
       expect(search[k].parameter).toBe('simcClosedLoopTimeConstant_s');
       expect(schedule.provenance.rule.parametersAtBreakpoints?.[k].parameters.simcClosedLoopTimeConstant_s).toBe(search[k].value);
       expect(search[k].outcome).toBe('fastest passing');

@@ -71,7 +71,7 @@ export const command = defineCommand({
         if (inspection.steps.length === 0 && exitCode === EXIT.ok) exitCode = EXIT.failed;
         inspections.push(inspection);
         if (args.json) reports.push(inspection);
-        else io.stdout(formatInspection(inspection) + '\n');
+        else io.stdout(`${formatInspection(inspection)}\n`);
       } catch (error) {
         if (!isSpeedbandError(error)) throw error;
         exitCode = EXIT.badInput;
@@ -79,7 +79,7 @@ export const command = defineCommand({
         if (args.json) reports.push({ file, error: { code: error.code, message: error.message, location: error.location } });
       }
     }
-    if (args.json) io.stdout(JSON.stringify(reports, null, 2) + '\n');
+    if (args.json) io.stdout(`${JSON.stringify(reports, null, 2)}\n`);
     else if (inspections.length > 1) io.stdout(formatInspectionSummary(inspections));
     return exitCode;
   },

@@ -1,7 +1,7 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { Argv } from 'yargs';
 import { TEST_LOG_DEFAULTS } from '../../vehicle/test-logs.js';
-import { defineCommand, type OptionsOf } from '../command.js';
+import { defineCommand } from '../command.js';
 import { EXIT } from '../io.js';
 import { quoted } from '../../core/quote.js';
 
@@ -94,8 +94,6 @@ function builder(yargs: Argv) {
       describe: 'Print a JSON summary (files, speeds, amplitudes in rad, step onsets in s) instead of a table',
     });
 }
-
-type Args = OptionsOf<typeof builder>;
 
 export const command = defineCommand({
   command: 'make-test-logs',

@@ -1,6 +1,6 @@
 import { SpeedbandError } from '../../core/errors.js';
 import type { Argv } from 'yargs';
-import { defineCommand, type OptionsOf } from '../command.js';
+import { defineCommand } from '../command.js';
 import { EXIT } from '../io.js';
 
 function builder(yargs: Argv) {
@@ -8,8 +8,6 @@ function builder(yargs: Argv) {
     .option('default', { type: 'boolean', default: false, describe: 'Print the default plan (required: the only thing this command does today)' })
     .option('loop', { type: 'string', choices: ['yaw-rate', 'heading', 'path'] as const, describe: 'The loop the plan is for (default yaw-rate)' });
 }
-
-type Args = OptionsOf<typeof builder>;
 
 /** `speedband plan --default`: the default plan as a plan file, to start from or to read. */
 export const command = defineCommand({

@@ -160,7 +160,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   }
   const { scenarioTable } = await import('../../pipeline/scenario-report.js');
   let text = `${schedulePath}: ${schedule.loop.kind} loop, model: ${description}\n${notes.map((note) => `${note}\n`).join('')}`;
-  text += scenarioTable(schedule.loop.kind, runs).join('\n') + '\n';
+  text += `${scenarioTable(schedule.loop.kind, runs).join('\n')}\n`;
   for (const name of new Set(runs.map((r) => r.scenario.name))) text += `  ${name}: ${SCENARIO_DESCRIPTIONS[name]}\n`;
   if (unconverged.length > 0)
     text += `note: halving the Runge–Kutta step still moved a metric by more than 0.1 % in ${unconverged.map((r) => r.scenario.name).join(', ')}\n`;

@@ -14,7 +14,7 @@ function coefficientOption(args: Args, name: 'numerator' | 'denominator'): numbe
   const text = String(value).trim();
   const parts = text.split(/[\s,;]+/).filter((part) => part !== '');
   const numbers = parts.map(Number);
-  const bad = parts.findIndex((part, i) => !Number.isFinite(numbers[i]));
+  const bad = parts.findIndex((_part, i) => !Number.isFinite(numbers[i]));
   if (parts.length === 0 || bad >= 0) {
     throw new SpeedbandError(
       'cli.badCoefficients',

@@ -10,7 +10,7 @@ const GAINS = ['kp', 'ki', 'kd'] as const;
 export function renderGainsSection(data: ReportData, context: RenderContext): string {
   const { schedule, gainCurve } = data;
   // The old gains are drawn only when they mean the same thing (same loop, controller form, sample time, discretisation).
-  const baseline = data.baseline !== null && data.baseline.comparison.gainsComparable ? data.baseline : null;
+  const baseline = data.baseline?.comparison.gainsComparable ? data.baseline : null;
   const planned = schedule.breakpoints.filter((breakpoint) => !breakpoint.insertedByRefinement);
   const inserted = schedule.breakpoints.filter((breakpoint) => breakpoint.insertedByRefinement);
   const [low, high] = [schedule.check.range.minimum_mps, schedule.check.range.maximum_mps];

@@ -77,7 +77,7 @@ const failing = (check: ReportCheck, criterion: CheckCriterion) =>
 function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
   const { check, schedule, baseline } = data;
   const old = baseline?.check ?? null;
-  const any = (c: ReportCheck | null) => c !== null && c.points.some((point) => point.margins[figure.field] !== null);
+  const any = (c: ReportCheck | null) => c?.points.some((point) => point.margins[figure.field] !== null);
   const atBreakpoints = schedule.breakpoints.map((b) => b.margins[figure.field]);
   if (!any(check) && !any(old) && atBreakpoints.every((value) => value === null)) return null;
   const limit = figure.limit(data);

@@ -150,7 +150,7 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
     { kind: 'rule', label: 'limit', axis: 'y', at: figure.limit, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } },
   ];
   figure.series.forEach((series, k) => {
-    if (series.worst !== null && series.worst.some((value) => value !== null)) {
+    if (series.worst?.some((value) => value !== null)) {
       const speedsOfSet = schedule.variations?.breakpoints.map((b) => b.speed_mps) ?? speeds;
       marks.push({
         kind: 'points',
@@ -162,7 +162,7 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
         size: 4.5,
       });
     }
-    if (series.old !== null && series.old.some((value) => value !== null)) {
+    if (series.old?.some((value) => value !== null)) {
       const label = `${series.label}: old gains on the new vehicle`;
       marks.push({
         kind: 'points',
