@@ -4,7 +4,7 @@
  * formulas are in its file comment). An integer speed is never NaN: the lookup returns LOOKUP_OK, or
  * LOOKUP_NO_GAINS for a null pointer.
  */
-import { LOOKUP_STATUS } from './c-lookup.js';
+import { breakpointSearchText, LOOKUP_STATUS } from './c-lookup.js';
 import { SPEED_FRACTIONAL_BITS, WEIGHT_FRACTIONAL_BITS } from './integer-lookup.js';
 import type { QuantisedTable } from './fixed-point.js';
 
@@ -94,27 +94,7 @@ export function integerLookupText(input: {
     `    return ${upper}_LOOKUP_NO_GAINS;`,
     '  }',
     `  v = speed_q16 < ${upper}_LOW_SPEED_FLOOR_Q16 ? ${upper}_LOW_SPEED_FLOOR_Q16 : speed_q16;`,
-    `  if (!(v > ${prefix}_speed_q16[0])) {`,
-    row('0'),
-    `    return ${upper}_LOOKUP_OK;`,
-    '  }',
-    `  if (v >= ${prefix}_speed_q16[${upper}_BREAKPOINTS - 1]) {`,
-    row(`${upper}_BREAKPOINTS - 1`),
-    `    return ${upper}_LOOKUP_OK;`,
-    '  }',
-    '  while (high - low > 1) {',
-    '    int middle = (low + high) / 2;',
-    `    if (${prefix}_speed_q16[middle] <= v) {`,
-    '      low = middle;',
-    '    } else {',
-    '      high = middle;',
-    '    }',
-    '  }',
-    '  k = low;',
-    `  if (v == ${prefix}_speed_q16[k]) {`,
-    row('k'),
-    `    return ${upper}_LOOKUP_OK;`,
-    '  }',
+    ...breakpointSearchText({ speeds: `${prefix}_speed_q16`, upper, row }),
     `  t = (((int64_t)v - ${prefix}_speed_q16[k]) << ${WEIGHT_FRACTIONAL_BITS}) / ((int64_t)${prefix}_speed_q16[k + 1] - ${prefix}_speed_q16[k]);`,
     ...(cubic ? [`  t2 = (t * t) >> ${WEIGHT_FRACTIONAL_BITS};`, `  t3 = (t2 * t) >> ${WEIGHT_FRACTIONAL_BITS};`] : []),
     ...NAMES.map(interpolate),

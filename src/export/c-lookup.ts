@@ -82,31 +82,43 @@ export function lookupFunctionsText(input: LookupTextInput): string {
     ...(fallbackBreakpoint === null ? [`    return ${upper}_LOOKUP_NO_GAINS;`] : [row(`${upper}_FALLBACK_BREAKPOINT`), `    return ${upper}_LOOKUP_FALLBACK;`]),
     '  }',
     `  v = speed_mps < ${upper}_LOW_SPEED_FLOOR_MPS ? ${upper}_LOW_SPEED_FLOOR_MPS : speed_mps;`,
-    `  if (!(v > ${prefix}_speed_mps[0])) {`,
-    row('0'),
-    `    return ${upper}_LOOKUP_OK;`,
-    '  }',
-    `  if (v >= ${prefix}_speed_mps[${upper}_BREAKPOINTS - 1]) {`,
-    row(`${upper}_BREAKPOINTS - 1`),
-    `    return ${upper}_LOOKUP_OK;`,
-    '  }',
-    '  while (high - low > 1) {',
-    '    int middle = (low + high) / 2;',
-    `    if (${prefix}_speed_mps[middle] <= v) {`,
-    '      low = middle;',
-    '    } else {',
-    '      high = middle;',
-    '    }',
-    '  }',
-    '  k = low;',
-    `  if (v == ${prefix}_speed_mps[k]) {`,
-    row('k'),
-    `    return ${upper}_LOOKUP_OK;`,
-    '  }',
+    ...breakpointSearchText({ speeds: `${prefix}_speed_mps`, upper, row }),
     `  h = ${prefix}_speed_mps[k + 1] - ${prefix}_speed_mps[k];`,
     `  t = (v - ${prefix}_speed_mps[k]) / h;`,
     ...NAMES.map(segment),
     `  return ${upper}_LOOKUP_OK;`,
     '}',
   ].join('\n');
+}
+
+/**
+ * The C lines, shared by the floating-point and the integer lookup, that hold the end values outside the table and
+ * find the interval k of `v` by bisection (returning the table values at a breakpoint exactly). `speeds` names the
+ * array of breakpoint speeds; `row(index)` writes the values of one breakpoint into *gains.
+ */
+export function breakpointSearchText(input: { readonly speeds: string; readonly upper: string; readonly row: (index: string) => string }): string[] {
+  const { speeds, upper, row } = input;
+  return [
+    `  if (!(v > ${speeds}[0])) {`,
+    row('0'),
+    `    return ${upper}_LOOKUP_OK;`,
+    '  }',
+    `  if (v >= ${speeds}[${upper}_BREAKPOINTS - 1]) {`,
+    row(`${upper}_BREAKPOINTS - 1`),
+    `    return ${upper}_LOOKUP_OK;`,
+    '  }',
+    '  while (high - low > 1) {',
+    '    int middle = (low + high) / 2;',
+    `    if (${speeds}[middle] <= v) {`,
+    '      low = middle;',
+    '    } else {',
+    '      high = middle;',
+    '    }',
+    '  }',
+    '  k = low;',
+    `  if (v == ${speeds}[k]) {`,
+    row('k'),
+    `    return ${upper}_LOOKUP_OK;`,
+    '  }',
+  ];
 }
