@@ -94,15 +94,11 @@ export function dampingTarget(model: DesignModel, parameters: RuleParameters, co
   const lead = model.leadTimeConstant_s ?? 0;
   const zeta = requirePositive('damping-target', 'dampingRatio (ζ)', parameters.dampingRatio ?? TUNING_DEFAULTS.dampingRatio);
   const ratio = requirePositive('damping-target', 'integralPoleRatio (ωn/p)', parameters.integralPoleRatio ?? TUNING_DEFAULTS.integralPoleRatio);
+  const given = givenNaturalFrequency(parameters, context, zeta);
   let omega: number;
-  const extra: Record<string, number> = {};
-  if (parameters.naturalFrequency_radps !== undefined) {
-    omega = requirePositive('damping-target', 'naturalFrequency_radps (ωn)', parameters.naturalFrequency_radps);
-  } else if (parameters.settlingDistance_m !== undefined) {
-    const distance = requirePositive('damping-target', 'settlingDistance_m (D)', parameters.settlingDistance_m);
-    const speed = requirePositive('damping-target', 'speed_mps (vx, for ωn = 4vx/(ζD))', context.speed_mps);
-    omega = (4 * speed) / (zeta * distance);
-    extra.settlingDistance_m = distance;
+  const extra: Record<string, number> = given?.extra ?? {};
+  if (given !== null) {
+    omega = given.omega_radps;
   } else {
     if (!(effectiveDelay_s > 0)) {
       throw parameterRequired('damping-target', 'a natural frequency ωn or a settling distance D', 'the model has no delay or lag to default ωn from');
@@ -177,15 +173,11 @@ function dampingTargetIntegrating(model: DesignModel, parameters: RuleParameters
   const reduced = reduceByHalfRule(model, 0).model;
   const effectiveDelay_s = reduced.deadTime_s;
   const zeta = requirePositive('damping-target', 'dampingRatio (ζ)', parameters.dampingRatio ?? TUNING_DEFAULTS.dampingRatio);
+  const given = givenNaturalFrequency(parameters, context, zeta);
   let omega: number;
-  const extra: Record<string, number> = {};
-  if (parameters.naturalFrequency_radps !== undefined) {
-    omega = requirePositive('damping-target', 'naturalFrequency_radps (ωn)', parameters.naturalFrequency_radps);
-  } else if (parameters.settlingDistance_m !== undefined) {
-    const distance = requirePositive('damping-target', 'settlingDistance_m (D)', parameters.settlingDistance_m);
-    const speed = requirePositive('damping-target', 'speed_mps (vx, for ωn = 4vx/(ζD))', context.speed_mps);
-    omega = (4 * speed) / (zeta * distance);
-    extra.settlingDistance_m = distance;
+  const extra: Record<string, number> = given?.extra ?? {};
+  if (given !== null) {
+    omega = given.omega_radps;
   } else {
     if (!(effectiveDelay_s > 0)) {
       throw parameterRequired('damping-target', 'a natural frequency ωn or a settling distance D', 'the model has no delay or lag to default ωn from');
@@ -221,3 +213,19 @@ export const DAMPING_TARGET: TuningRule = {
   parameters: ['dampingRatio', 'naturalFrequency_radps', 'settlingDistance_m', 'integralPoleRatio'],
   tune: dampingTarget,
 };
+
+/**
+ * The natural frequency the plan gives: ωn itself, or from a settling distance D at the speed, ωn = 4·vx/(ζ·D)
+ * (settling time ≈ 4/(ζωn), common practice); null when it gives neither (the caller's default applies).
+ */
+function givenNaturalFrequency(parameters: RuleParameters, context: RuleContext, zeta: number): { omega_radps: number; extra: Record<string, number> } | null {
+  if (parameters.naturalFrequency_radps !== undefined) {
+    return { omega_radps: requirePositive('damping-target', 'naturalFrequency_radps (ωn)', parameters.naturalFrequency_radps), extra: {} };
+  }
+  if (parameters.settlingDistance_m !== undefined) {
+    const distance = requirePositive('damping-target', 'settlingDistance_m (D)', parameters.settlingDistance_m);
+    const speed = requirePositive('damping-target', 'speed_mps (vx, for ωn = 4vx/(ζD))', context.speed_mps);
+    return { omega_radps: (4 * speed) / (zeta * distance), extra: { settlingDistance_m: distance } };
+  }
+  return null;
+}
