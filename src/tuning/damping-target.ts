@@ -129,12 +129,7 @@ export function dampingTarget(model: DesignModel, parameters: RuleParameters, co
     kd: (c * placed.q) / k,
   };
   const product = omega * effectiveDelay_s;
-  const warnings: string[] = [];
-  if (product > TUNING_DEFAULTS.maximumBandwidthDelayProduct) {
-    warnings.push(
-      `ωn·θ_eff = ${product.toPrecision(3)} exceeds ${TUNING_DEFAULTS.maximumBandwidthDelayProduct}: the target asks for more bandwidth than the actuator lag and delay (θ_eff = ${effectiveDelay_s.toPrecision(3)} s) allow — lengthen the settling distance or lower ωn`,
-    );
-  }
+  const warnings = bandwidthWarnings(product, effectiveDelay_s);
   return {
     rule: 'damping-target',
     citation: CITATION,
@@ -187,12 +182,7 @@ function dampingTargetIntegrating(model: DesignModel, parameters: RuleParameters
   const k = reduced.gain;
   const gains = { kp: (2 * zeta * omega) / k, ki: (omega * omega) / k, kd: 0 };
   const product = omega * effectiveDelay_s;
-  const warnings: string[] = [];
-  if (product > TUNING_DEFAULTS.maximumBandwidthDelayProduct) {
-    warnings.push(
-      `ωn·θ_eff = ${product.toPrecision(3)} exceeds ${TUNING_DEFAULTS.maximumBandwidthDelayProduct}: the target asks for more bandwidth than the actuator lag and delay (θ_eff = ${effectiveDelay_s.toPrecision(3)} s) allow — lengthen the settling distance or lower ωn`,
-    );
-  }
+  const warnings = bandwidthWarnings(product, effectiveDelay_s);
   return {
     rule: 'damping-target',
     citation: INTEGRATING_CITATION,
@@ -228,4 +218,12 @@ function givenNaturalFrequency(parameters: RuleParameters, context: RuleContext,
     return { omega_radps: (4 * speed) / (zeta * distance), extra: { settlingDistance_m: distance } };
   }
   return null;
+}
+
+/** The warning when ωn·θ_eff asks for more bandwidth than the actuator lag and delay allow (none within TUNING_DEFAULTS' bound). */
+function bandwidthWarnings(product: number, effectiveDelay_s: number): string[] {
+  if (!(product > TUNING_DEFAULTS.maximumBandwidthDelayProduct)) return [];
+  return [
+    `ωn·θ_eff = ${product.toPrecision(3)} exceeds ${TUNING_DEFAULTS.maximumBandwidthDelayProduct}: the target asks for more bandwidth than the actuator lag and delay (θ_eff = ${effectiveDelay_s.toPrecision(3)} s) allow — lengthen the settling distance or lower ωn`,
+  ];
 }

@@ -8,6 +8,7 @@ import { recordingIo } from '../../src/cli/io.js';
 import { CONTROLLER_DEFAULTS } from '../../src/controller/defaults.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import { convertLogs } from '../identify/converted-logs.js';
+import { parcelVanLogs } from '../helpers/parcel-van.js';
 
 async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
   const io = recordingIo();
@@ -16,11 +17,7 @@ async function run(argv: string[]): Promise<{ code: number; out: string; err: st
 }
 
 const VAN = 'vehicles/parcel-van';
-const vanLogs = (): string[] =>
-  readdirSync(join(VAN, 'logs'))
-    .filter((name) => name.endsWith('.csv'))
-    .sort()
-    .map((name) => join(VAN, 'logs', name));
+const vanLogs = parcelVanLogs;
 
 let dir: string;
 let modelsPath: string;

@@ -2,7 +2,12 @@
  * The demo parcel van's nominal single-track numbers (vehicles/parcel-van/vehicle.json: invented demo values),
  * for the tests that need one realistic vehicle without reading its file, and the controller of its firmware.
  */
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
+
+/** The demo van's folder (vehicle.json and logs/), from the repository root. */
+export const PARCEL_VAN_FOLDER = 'vehicles/parcel-van';
 
 export const PARCEL_VAN: SingleTrackParameters = {
   mass_kg: 3400,
@@ -17,3 +22,10 @@ export const PARCEL_VAN: SingleTrackParameters = {
 
 /** The van's firmware controller: the default settings at 100 Hz (one sample of latency). */
 export const PARCEL_VAN_CONTROLLER = { derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler' as const, computationLatency_s: 0.01 };
+
+/** The demo van's step-test logs, in name order. */
+export const parcelVanLogs = (): string[] =>
+  readdirSync(join(PARCEL_VAN_FOLDER, 'logs'))
+    .filter((name) => name.endsWith('.csv'))
+    .sort()
+    .map((name) => join(PARCEL_VAN_FOLDER, 'logs', name));

@@ -11,13 +11,10 @@ import { computeScheduleChecksum } from '../../src/schedule/checksum.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { sampledSingleTrackMarginsInPython, type SingleTrackLoopCase } from '../helpers/sampled-loop-reference.js';
+import { parcelVanLogs } from '../helpers/parcel-van.js';
 
 const VAN = 'vehicles/parcel-van';
-const vanLogs = (): string[] =>
-  readdirSync(join(VAN, 'logs'))
-    .filter((name) => name.endsWith('.csv'))
-    .sort()
-    .map((name) => join(VAN, 'logs', name));
+const vanLogs = parcelVanLogs;
 
 let dir: string;
 let models: ModelsFile;
