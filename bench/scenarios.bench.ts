@@ -15,7 +15,8 @@ import { buildSchedule } from '../src/pipeline/build-schedule.js';
 import { recordedCheckModel } from '../src/pipeline/recheck-schedule.js';
 import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController } from '../src/pipeline/simulate-schedule.js';
 import { speedChangeCertificate } from '../src/pipeline/speed-change-certificate.js';
-import { planScenarioLimits, type Plan } from '../src/schedule/plan.js';
+import type { Plan } from '../src/schedule/plan.js';
+import { numericAcceptanceLimits } from '../src/schedule/acceptance-limits.js';
 import { loadVehicle } from '../src/vehicle/load.js';
 import { measureProcess, printFigure, timeMs } from './measure.js';
 
@@ -32,7 +33,7 @@ writeFileSync(withoutScenarios, JSON.stringify({ check: { scenarios: false } }))
 const { schedule } = await buildSchedule({ vehicle: VAN, logPaths: logs, plan: { check: { scenarios: false } } });
 const vehicle = loadVehicle(join(VAN, 'vehicle.json'));
 const { parameters, description } = scenarioParameters(recordedCheckModel(schedule), vehicle);
-const limits = planScenarioLimits(schedule.provenance.plan as unknown as Plan);
+const limits = numericAcceptanceLimits(schedule.provenance.plan as unknown as Plan).scenarios;
 const steeringLimits = { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps };
 const checkOnce = (): number => judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits, model: description }).speeds_mps.length;
 let speeds = 0;

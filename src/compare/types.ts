@@ -1,4 +1,5 @@
 import type { ControllerSettings } from '../controller/types.js';
+import type { OverSpeed } from '../core/by-speed.js';
 import type { FailingInterval } from '../schedule/failing-intervals.js';
 import type { AcceptanceThresholds, WorstMargins } from '../schedule/types.js';
 import type { InstabilityFound, RobustFigure, VariationSet, WorstFigure } from '../schedule/variation-types.js';
@@ -159,7 +160,7 @@ export type OldGainsOnNewVehicle =
       /** Consecutive failing speeds with the limits broken there. */
       readonly failingIntervals: readonly FailingInterval[];
       /** The old schedule's own limits, which the check applies. */
-      readonly thresholds: AcceptanceThresholds;
+      readonly thresholds: OverSpeed<AcceptanceThresholds>;
       readonly worst: WorstMargins;
     }
   | { readonly available: false; readonly reason: string };

@@ -7,7 +7,7 @@ import type { FirmwareGains, FirmwareSettings } from '../controller/firmware-ste
 import type { LoopSpecification } from '../loops/types.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
 import { prepareScenario, RANGE_SCENARIOS, SCENARIO_NAMES, type ScenarioName } from './scenario-catalogue.js';
-import { judgeScenarioRun, type ScenarioFailure, type ScenarioLimits } from './scenario-limits.js';
+import { judgedRun, judgeScenarioRun, type ScenarioFailure, type ScenarioLimits } from './scenario-limits.js';
 import { runScenario } from './scenario-run.js';
 
 /** The scenarios run at each breakpoint (and at low, middle and top speed): every per-speed one. */
@@ -42,7 +42,7 @@ export function breakpointScenarioFailures(input: BreakpointScenariosInput): Sce
   for (const name of input.scenarios ?? PER_SPEED_SCENARIOS) {
     const prepared = prepareScenario(name, context, input.speed_mps);
     if (prepared === null) continue;
-    failures.push(...judgeScenarioRun(name, input.speed_mps, runScenario(vehicle, controller, prepared, true).metrics, input.limits, input.loop.kind));
+    failures.push(...judgeScenarioRun(judgedRun(runScenario(vehicle, controller, prepared, true), input.speed_mps), input.limits, input.loop.kind));
   }
   return failures;
 }

@@ -10,6 +10,10 @@ import type { LoopKind } from '../loops/types.js';
 import type { ScenarioName } from './scenario-catalogue.js';
 import type { ScenarioMetrics } from './scenario-metrics.js';
 import type { TimeDomainLimits } from './types.js';
+import { atSpeed, valueAtSpeed, type OverSpeed } from '../core/by-speed.js';
+import type { ScenarioTraces } from './scenario-simulation.js';
+import { firstJudgedSample } from './scenario-metrics.js';
+import type { ScenarioRun } from './scenario-run.js';
 
 /** The limits scenarios are judged against: the plan's time-domain limits and the speed-change error limit of the loop. */
 export interface ScenarioLimits extends TimeDomainLimits {
@@ -30,14 +34,29 @@ export const LOOP_UNITS: Readonly<Record<LoopKind, string>> = { heading: 'rad', 
 
 const shown = (value: number): string => String(Number(value.toPrecision(3)));
 
-/** The limits a run of `scenario` at `speed_mps` broke (empty: within every limit). */
-export function judgeScenarioRun(
-  scenario: ScenarioName,
-  speed_mps: number,
-  metrics: ScenarioMetrics,
-  limits: ScenarioLimits,
-  loop: LoopKind,
-): ScenarioFailure[] {
+/** A run to judge: the scenario, its speed (the initial speed of a speed change), its metrics and, for a speed change, its traces. */
+export interface JudgedRun {
+  readonly scenario: ScenarioName;
+  readonly speed_mps: number;
+  readonly metrics: ScenarioMetrics;
+  /** A speed change's traces from the time it is judged from: a speed-change limit that varies with speed is judged sample by sample on them. */
+  readonly traces?: Pick<ScenarioTraces, 'speed_mps' | 'error'>;
+  /** The first sample judged (the scenario's judgeFrom_s over the sample time). */
+  readonly judgedFrom?: number;
+}
+
+/** A scenario run (scenario-run.ts) at `speed_mps`, as judgeScenarioRun takes it. */
+export function judgedRun(run: Pick<ScenarioRun, 'scenario' | 'traces' | 'metrics'>, speed_mps: number): JudgedRun {
+  return { scenario: run.scenario.name, speed_mps, metrics: run.metrics, traces: run.traces, judgedFrom: firstJudgedSample(run.scenario, run.traces) };
+}
+
+/**
+ * The limits a run broke (empty: within every limit). Limits that vary with speed are read at the run's speed;
+ * while the speed changes, the error at each sample is held to the speed-change limit at that sample's speed.
+ */
+export function judgeScenarioRun(run: JudgedRun, limitsOverSpeed: OverSpeed<ScenarioLimits>, loop: LoopKind): ScenarioFailure[] {
+  const { scenario, speed_mps, metrics } = run;
+  const limits = atSpeed(limitsOverSpeed, speed_mps);
   const failures: ScenarioFailure[] = [];
   const unit = LOOP_UNITS[loop];
   const fail = (metric: keyof ScenarioMetrics, what: string): void => {
@@ -77,11 +96,38 @@ export function judgeScenarioRun(
     case 'curve-entry':
       break;
     case 'speed-ramp-in-curve':
-    case 'braking-in-curve':
-      if (metrics.peakError > limits.maximumSpeedChangeError) {
-        fail('peakError', `error ${shown(metrics.peakError)} ${unit} while the speed changes, needs ≤ ${shown(limits.maximumSpeedChangeError)} ${unit}`);
+    case 'braking-in-curve': {
+      const limit = limitsOverSpeed.maximumSpeedChangeError;
+      if (typeof limit === 'number') {
+        if (metrics.peakError > limit) fail('peakError', `error ${shown(metrics.peakError)} ${unit} while the speed changes, needs ≤ ${shown(limit)} ${unit}`);
+        break;
+      }
+      if (run.traces === undefined) throw new Error(`judgeScenarioRun: ${scenario} with a speed-change limit that varies with speed needs the run's traces`);
+      const worst = worstAgainstLimit(run.traces, run.judgedFrom ?? 0, (speed) => valueAtSpeed(limit, speed));
+      if (worst !== null && worst.ratio > 1) {
+        fail(
+          'peakError',
+          `error ${shown(worst.error)} ${unit} at ${worst.speed_mps.toFixed(2)} m/s while the speed changes, needs ≤ ${shown(worst.limit)} ${unit} there`,
+        );
       }
       break;
+    }
   }
   return failures;
+}
+
+/** The sample where |error| is largest against the limit at its speed (from sample `from` on); null when there is none. */
+function worstAgainstLimit(
+  traces: Pick<ScenarioTraces, 'speed_mps' | 'error'>,
+  from: number,
+  limitAt: (speed_mps: number) => number,
+): { ratio: number; error: number; limit: number; speed_mps: number } | null {
+  let worst: { ratio: number; error: number; limit: number; speed_mps: number } | null = null;
+  for (let k = from; k < traces.error.length; k++) {
+    const limit = limitAt(traces.speed_mps[k]);
+    const error = Math.abs(traces.error[k]);
+    const ratio = error / limit;
+    if (worst === null || ratio > worst.ratio) worst = { ratio, error, limit, speed_mps: traces.speed_mps[k] };
+  }
+  return worst;
 }

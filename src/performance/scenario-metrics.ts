@@ -33,10 +33,16 @@ export interface ScenarioMetrics {
 /** Smallest limit-cycle amplitude that counts, as a fraction of the run's peak error (our choice). */
 const LIMIT_CYCLE_FLOOR = 1e-3;
 
+/** The first sample a run is judged from (the scenario's judgeFrom_s, in samples). */
+export function firstJudgedSample(scenario: Pick<PreparedScenario, 'judgeFrom_s'>, traces: Pick<ScenarioTraces, 'time_s'>): number {
+  const ts = traces.time_s.length > 1 ? traces.time_s[1] - traces.time_s[0] : 1;
+  return Math.min(traces.time_s.length - 1, Math.round(scenario.judgeFrom_s / ts));
+}
+
 /** The figures of one simulated run: peak and final error, overshoot, settling time and distance, steering at its limits, lateral acceleration, limit cycle. */
 export function scenarioMetrics(scenario: PreparedScenario, traces: ScenarioTraces): ScenarioMetrics {
   const ts = traces.time_s.length > 1 ? traces.time_s[1] - traces.time_s[0] : 1;
-  const start = Math.min(traces.time_s.length - 1, Math.round(scenario.judgeFrom_s / ts));
+  const start = firstJudgedSample(scenario, traces);
   const error = traces.error;
   const peakError = peakMagnitude(error, start);
   let overshoot: number | null = null;

@@ -11,6 +11,7 @@ import type { LoopSpecification } from '../loops/types.js';
 import { breakpointPerformance, type BreakpointPerformance, type SetpointWeights } from '../performance/breakpoint-performance.js';
 import { performanceLoopAt, type PerformanceLoop } from '../performance/loop-at-speed.js';
 import type { TimeDomainLimits } from '../performance/types.js';
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import { breakpointScenarioFailures } from '../performance/breakpoint-scenarios.js';
 import type { ScenarioFailure, ScenarioLimits } from '../performance/scenario-limits.js';
 import type { ScenarioName } from '../performance/scenario-catalogue.js';
@@ -38,8 +39,9 @@ export interface BreakpointEvaluatorInput {
   readonly model: CheckModel;
   readonly loop: LoopSpecification;
   readonly controller: ControllerSettings;
-  readonly thresholds: AcceptanceThresholds;
-  readonly limits: TimeDomainLimits;
+  /** Limits as numbers or tables over speed (src/schedule/acceptance-limits.ts), read at the breakpoint's speed. */
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
+  readonly limits: OverSpeed<TimeDomainLimits>;
   readonly vehicleLimits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number };
   readonly antiWindup: AntiWindup;
   /** The dense check's analysis (made here when absent). */
@@ -48,7 +50,7 @@ export interface BreakpointEvaluatorInput {
   readonly skipFiguresWhenMarginsFail?: boolean;
   /** Run the per-speed scenarios (single-track model only) against these limits over this speed range. */
   readonly scenarios?: {
-    readonly limits: ScenarioLimits;
+    readonly limits: OverSpeed<ScenarioLimits>;
     readonly range: { readonly minimum_mps: number; readonly maximum_mps: number };
     /** Which (default: every per-speed scenario). */
     readonly names?: readonly ScenarioName[];
@@ -70,7 +72,7 @@ export function makeBreakpointEvaluator(input: BreakpointEvaluatorInput): Breakp
       loops.set(speed_mps, performanceLoop);
     }
     const margins = analyse(speed_mps, gains);
-    const marginFailures = judgeMargins(margins, input.thresholds);
+    const marginFailures = judgeMargins(margins, atSpeed(input.thresholds, speed_mps));
     if (!margins.stable) {
       return {
         margins,
@@ -97,7 +99,7 @@ export function makeBreakpointEvaluator(input: BreakpointEvaluatorInput): Breakp
     const performance = breakpointPerformance({
       loop: performanceLoop,
       gains,
-      limits: input.limits,
+      limits: atSpeed(input.limits, speed_mps),
       vehicleLimits: input.vehicleLimits,
       antiWindup: input.antiWindup,
       slowestTimeConstant_s: margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
@@ -126,7 +128,7 @@ export function makeBreakpointEvaluator(input: BreakpointEvaluatorInput): Breakp
             feedForwardLeadTime_s: performanceLoop.feedForward.leadTime_s,
             speed_mps,
             range: input.scenarios.range,
-            limits: input.scenarios.limits,
+            limits: atSpeed(input.scenarios.limits, speed_mps),
             scenarios: input.scenarios.names,
           })
         : [];

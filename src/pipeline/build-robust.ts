@@ -8,7 +8,9 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { resolveVariationSet } from '../robust/variation-set.js';
 import { makeGainLookup } from '../schedule/interpolate.js';
-import { planThresholds, type Plan } from '../schedule/plan.js';
+import type { Plan } from '../schedule/plan.js';
+import type { OverSpeed } from '../core/by-speed.js';
+import type { AcceptanceThresholds } from '../schedule/types.js';
 import type { PlanVariations } from '../schedule/plan-variations.js';
 import type { RefineResult } from '../schedule/refine.js';
 import type { BreakpointExtras } from '../schedule/schedule-file.js';
@@ -75,6 +77,8 @@ export interface OverVariationsInput {
   readonly refinement: RefineResult;
   readonly breakpointExtras: readonly BreakpointExtras[];
   readonly timeDomain: TimeDomainSettings;
+  /** The plan's frequency-domain limits (src/schedule/acceptance-limits.ts). */
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly onProgress: ProgressCallback;
   readonly progress: (text: string) => void;
 }
@@ -90,7 +94,7 @@ export async function checkTableOverVariations(input: OverVariationsInput): Prom
     controller: context.controller,
     set: context.set,
     search: context.search,
-    thresholds: planThresholds(plan),
+    thresholds: input.thresholds,
     grid: refinement.check.points.map((point) => point.speed_mps),
     gainsAt: makeGainLookup(refinement.table, { interpolation: plan.interpolation, lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps }),
     breakpointSpeeds: refinement.table.speeds_mps,

@@ -22,7 +22,9 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { Vehicle } from '../vehicle/types.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { planScenarioLimits, planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { acceptanceLimits, compileAcceptanceExpressions } from '../schedule/acceptance-limits.js';
+import { atSpeed as readAtSpeed } from '../core/by-speed.js';
 import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
 import type { RobustScheduleCheck } from './robust-schedule-check.js';
 import type { TimeDomainSettings } from './robust-time-domain.js';
@@ -142,6 +144,7 @@ export async function buildSchedule(input: BuildInput): Promise<BuildResult> {
   const planSha256 = input.planFile === undefined ? undefined : sha256Hex(readFileSync(input.planFile));
   // A plan's expressions are compiled (and refused) before the logs are identified: a plan error comes at once.
   await makeRuleParameterLookup(plan.rule?.parameters ?? {}, input.planFile);
+  await compileAcceptanceExpressions(plan, input.planFile);
   // The schedule uses the joint single-track fit (or the per-speed FOPDT when that is refused), never the
   // per-step second-order fits: build skips them (the models file records `options.fitSecondOrder: false`).
   const models =
@@ -200,20 +203,22 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
     }
   }
   const analyse = makeLoopAnalysis(checkModel, loop, controller);
-  const thresholds = planThresholds(plan);
+  // The limits as every check reads them: numbers and tables, expressions of speed made tables at the check speeds.
+  const limits = await acceptanceLimits(plan, input.planFile);
+  const thresholds = limits.thresholds;
   const evaluatorInput = {
     model: checkModel,
     loop,
     controller,
     thresholds,
-    limits: plan.acceptance,
+    limits: limits.timeDomain,
     vehicleLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
     antiWindup: plan.controller.antiWindup,
     analyse,
   };
   const evaluate = makeBreakpointEvaluator(evaluatorInput);
-  const roomy = limitsWithRoom(thresholds, plan.acceptance);
-  const scenarioLimits = planScenarioLimits(plan);
+  const roomy = limitsWithRoom(thresholds, limits.timeDomain);
+  const scenarioLimits = limits.scenarios;
   const scenarios = plan.check.scenarios && checkModel.kind === 'single-track';
   // The search judges each candidate by the scenarios at its breakpoint too; the schedule's own scenario check follows below.
   const evaluateWithRoom = makeBreakpointEvaluator({
@@ -229,7 +234,7 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
   const robustContext = planRobustContext({ plan, checkModel, loop, controller, models, planFile: input.planFile });
   const timeDomainSettings: TimeDomainSettings = {
-    limits: plan.acceptance,
+    limits: limits.timeDomain,
     vehicleLimits: evaluatorInput.vehicleLimits,
     antiWindup: plan.controller.antiWindup,
   };
@@ -261,8 +266,11 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
             parameters: ruleParametersAt(speed_mps),
             tune: (parameters, startGains) => tuneWith(speed_mps, parameters, startGains),
             evaluate: (gains) => searchEvaluate(speed_mps, gains),
-            sensitivityLimits: { sensitivity: roomy.thresholds.maximumSensitivityPeak, complementary: roomy.thresholds.maximumComplementarySensitivityPeak },
-            phaseMarginLimit_deg: roomy.thresholds.minimumPhaseMargin_deg,
+            sensitivityLimits: {
+              sensitivity: readAtSpeed(roomy.thresholds, speed_mps).maximumSensitivityPeak,
+              complementary: readAtSpeed(roomy.thresholds, speed_mps).maximumComplementarySensitivityPeak,
+            },
+            phaseMarginLimit_deg: readAtSpeed(roomy.thresholds, speed_mps).minimumPhaseMargin_deg,
           });
           entry = { tuned: found.tuned, evaluation: found.evaluation, search: found.record };
         } else {
@@ -284,7 +292,7 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   progress(
     `tune and check: ${plan.rule.name}${searching ? ` (fastest passing${searchOnWorstCase ? ' in the worst case over the variations' : ''})` : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`,
   );
-  const refinement = scheduleGains({ plan, tuneAt, analyse, onProgress });
+  const refinement = scheduleGains({ plan, tuneAt, analyse, thresholds, onProgress });
   const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
   const tuned = entries.map((entry) => entry.tuned);
   // Under robust acceptance the set-point weights are lowered until the worst overshoot over the variations keeps the limit.
@@ -312,6 +320,7 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
           refinement,
           breakpointExtras,
           timeDomain: timeDomainSettings,
+          thresholds,
           onProgress,
           progress,
         });
@@ -327,6 +336,7 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   const assembled = {
     vehicle: { name: vehicle.name, file: vehicleFile, sha256: inputs[0].sha256 },
     plan,
+    limits,
     table: refinement.table,
     insertedByRefinement: refinement.insertedByRefinement,
     check: refinement.check,

@@ -4,6 +4,7 @@
  * analyses the chunks of speeds it is sent, one at a time, answering each with its points in order — the
  * dense check's (parallel-check.ts) or the robust check's (parallel-robust-check.ts).
  */
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import { parentPort, workerData } from 'node:worker_threads';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import type { ErrorCode } from '../core/error-codes.js';
@@ -23,7 +24,7 @@ export type WorkerData = {
   readonly description: string;
   readonly loop: LoopSpecification;
   readonly controller: ControllerSettings;
-  readonly thresholds: AcceptanceThresholds;
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
 } & ({ readonly task: 'dense' } | { readonly task: 'robust'; readonly set: VariationSet; readonly search: RobustSearchSettings });
 
 /** One chunk of work: consecutive grid speeds from `start`, with the gains to check at each. */
@@ -47,7 +48,7 @@ const analyseChunk =
         return (chunk: CheckChunk) =>
           chunk.speeds_mps.map((speed_mps, i) => {
             const margins = analyse(speed_mps, chunk.gains[i]);
-            return { speed_mps, gains: chunk.gains[i], margins, failures: judgeMargins(margins, data.thresholds) };
+            return { speed_mps, gains: chunk.gains[i], margins, failures: judgeMargins(margins, atSpeed(data.thresholds, speed_mps)) };
           });
       })()
     : (() => {

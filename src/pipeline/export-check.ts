@@ -5,6 +5,7 @@
  * of the highest-speed breakpoint that, held constant, pass the same dense check over the whole range
  * (its grid, range and thresholds), or none.
  */
+import { atSpeed } from '../core/by-speed.js';
 import { recheckQuantised } from '../export/recheck.js';
 import { judgeMargins } from '../schedule/dense-check.js';
 import { checkGrid } from '../schedule/grid.js';
@@ -48,7 +49,7 @@ export function findFallbackGains(schedule: ScheduleFile, table: GainTable, anal
     const fails = Array.from(grid).some((speed_mps) => {
       const margins = analyse(speed_mps, gains);
       analysed.set(speed_mps, margins);
-      return judgeMargins(margins, thresholds).length > 0;
+      return judgeMargins(margins, atSpeed(thresholds, speed_mps)).length > 0;
     });
     if (fails) continue;
     const constant: GainTable = { speeds_mps: table.speeds_mps, gains: table.speeds_mps.map(() => gains) };

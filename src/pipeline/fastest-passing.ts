@@ -16,8 +16,8 @@ import type { ScheduleSearchAt } from '../schedule/schedule-types.js';
 import type { TunedOperatingPoint } from '../tuning/operating-point.js';
 import type { RuleName, RuleParameters } from '../tuning/types.js';
 import type { BreakpointEvaluation } from './breakpoint-evaluation.js';
-import type { TimeDomainLimits } from '../performance/types.js';
 import type { AcceptanceThresholds } from '../schedule/types.js';
+import { mapOverSpeed, type OverSpeed } from '../core/by-speed.js';
 
 /** A rule's free parameter: its name, which way is faster, and the ladder of candidates from a tune at the rule's default. */
 interface FreeParameter {
@@ -77,19 +77,19 @@ export const SEARCH_ROOM = { phaseMargin_deg: 1, gainMargin_dB: 0.5, peakFactor:
 export type SearchRoom = { readonly phaseMargin_deg: number; readonly gainMargin_dB: number; readonly peakFactor: number; readonly delayMarginFactor: number };
 
 /** The frequency-domain limits moved inside by `room`. */
-export function thresholdsWithRoom(thresholds: AcceptanceThresholds, room: SearchRoom): AcceptanceThresholds {
+export function thresholdsWithRoom(thresholds: OverSpeed<AcceptanceThresholds>, room: SearchRoom): OverSpeed<AcceptanceThresholds> {
   return {
-    maximumLowerGainMargin_dB: thresholds.maximumLowerGainMargin_dB - room.gainMargin_dB,
-    minimumUpperGainMargin_dB: thresholds.minimumUpperGainMargin_dB + room.gainMargin_dB,
-    minimumPhaseMargin_deg: thresholds.minimumPhaseMargin_deg + room.phaseMargin_deg,
-    maximumSensitivityPeak: Math.max(1, thresholds.maximumSensitivityPeak * room.peakFactor),
-    maximumComplementarySensitivityPeak: Math.max(1, thresholds.maximumComplementarySensitivityPeak * room.peakFactor),
-    minimumDelayMargin_s: thresholds.minimumDelayMargin_s * room.delayMarginFactor,
+    maximumLowerGainMargin_dB: mapOverSpeed(thresholds.maximumLowerGainMargin_dB, (limit) => limit - room.gainMargin_dB),
+    minimumUpperGainMargin_dB: mapOverSpeed(thresholds.minimumUpperGainMargin_dB, (limit) => limit + room.gainMargin_dB),
+    minimumPhaseMargin_deg: mapOverSpeed(thresholds.minimumPhaseMargin_deg, (limit) => limit + room.phaseMargin_deg),
+    maximumSensitivityPeak: mapOverSpeed(thresholds.maximumSensitivityPeak, (limit) => Math.max(1, limit * room.peakFactor)),
+    maximumComplementarySensitivityPeak: mapOverSpeed(thresholds.maximumComplementarySensitivityPeak, (limit) => Math.max(1, limit * room.peakFactor)),
+    minimumDelayMargin_s: mapOverSpeed(thresholds.minimumDelayMargin_s, (limit) => limit * room.delayMarginFactor),
   };
 }
 
 /** Acceptance limits moved inside by SEARCH_ROOM. */
-export function limitsWithRoom(thresholds: AcceptanceThresholds, limits: TimeDomainLimits): { thresholds: AcceptanceThresholds; limits: TimeDomainLimits } {
+export function limitsWithRoom<L>(thresholds: OverSpeed<AcceptanceThresholds>, limits: L): { thresholds: OverSpeed<AcceptanceThresholds>; limits: L } {
   return {
     thresholds: thresholdsWithRoom(thresholds, SEARCH_ROOM),
     limits,

@@ -6,6 +6,7 @@
  * Worker start-up (≈ 0.1–0.3 s of module loading) pays only for large grids: below
  * PARALLEL_CHECK_DEFAULTS.minimumSpeeds the check runs on the main thread alone.
  */
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import { availableParallelism } from 'node:os';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import type { LoopSpecification } from '../loops/types.js';
@@ -29,7 +30,7 @@ export interface ParallelCheckInput {
   readonly model: CheckModel;
   readonly loop: LoopSpecification;
   readonly controller: ControllerSettings;
-  readonly thresholds: AcceptanceThresholds;
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly grid: ArrayLike<number>;
   readonly gainsAt: GainsAtSpeed;
   /** Worker threads besides the main thread (default: the available parallelism − 1, at most 7; 0 = sequential). */
@@ -88,7 +89,7 @@ export async function denseCheckOnAllCores(input: ParallelCheckInput): Promise<D
     onMain: (chunk) =>
       chunk.speeds_mps.map((speed_mps, i) => {
         const margins = analyse(speed_mps, chunk.gains[i]);
-        return { speed_mps, gains: chunk.gains[i], margins, failures: judgeMargins(margins, input.thresholds) };
+        return { speed_mps, gains: chunk.gains[i], margins, failures: judgeMargins(margins, atSpeed(input.thresholds, speed_mps)) };
       }),
     onDone: (chunk, items) => {
       items.forEach((point, i) => (points[chunk.start + i] = point));

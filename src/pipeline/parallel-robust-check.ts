@@ -5,6 +5,7 @@
  * the others (its samples come from the set's seed, not from a shared stream), so the points and figures
  * are those of the check on one thread whatever the number of threads.
  */
+import type { OverSpeed } from '../core/by-speed.js';
 import type { ControllerSettings } from '../controller/types.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { robustCheck, robustCheckPoint, robustCheckResult } from '../robust/robust-check.js';
@@ -27,7 +28,7 @@ export interface ParallelRobustCheckInput {
   readonly model: CheckModel;
   readonly loop: LoopSpecification;
   readonly controller: ControllerSettings;
-  readonly thresholds: AcceptanceThresholds;
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly set: VariationSet;
   readonly search: RobustSearchSettings;
   readonly grid: ArrayLike<number>;

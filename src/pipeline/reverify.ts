@@ -10,6 +10,7 @@
  * status is kept: only what the check proves. A schedule that records variations has their worst case
  * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
+import { atSpeed as readAtSpeed } from '../core/by-speed.js';
 import { judgeScheduleScenarios, scheduleScenarioController } from './simulate-schedule.js';
 import { speedChangeCertificate } from './speed-change-certificate.js';
 import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
@@ -85,7 +86,7 @@ export function reverifySchedule(
     return breakpointPerformance({
       loop: { ...atSpeed, feedForward: { ...atSpeed.feedForward, gain: row.feedForward, leadTime_s: row.feedForwardLeadTime_s } },
       gains: { kp: row.kp, ki: row.ki, kd: row.kd },
-      limits: edited.check.timeDomain.limits,
+      limits: readAtSpeed(edited.check.timeDomain.limits, row.speed_mps),
       vehicleLimits: edited.check.timeDomain.steeringLimits,
       slowestTimeConstant_s: points[k].margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
       setpointWeights: { proportional: row.setpointWeightProportional, derivative: row.setpointWeightDerivative },

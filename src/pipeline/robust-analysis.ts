@@ -4,6 +4,7 @@
  * entry point for anything that needs the worst case of some gains at a speed — the robust check, the
  * baseline and compare after a change, and a tuning setting that targets the worst case.
  */
+import type { OverSpeed } from '../core/by-speed.js';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import type { LoopSpecification } from '../loops/types.js';
 import type { AnalyseOverSet, RobustMargins, RobustSearchSettings, VariationSet } from '../robust/types.js';
@@ -51,6 +52,6 @@ export function analysisWithChanges(
 }
 
 /** The weakest parameter at a robust point (src/robust/weakest-parameter.ts), its trials analysed in full. */
-export function weakestParameterAt(point: RobustMargins, thresholds: AcceptanceThresholds, context: RobustContext): WeakestParameter | null {
+export function weakestParameterAt(point: RobustMargins, thresholds: OverSpeed<AcceptanceThresholds>, context: RobustContext): WeakestParameter | null {
   return weakestParameter(point, thresholds, context.set, analysisWithChanges(point.speed_mps, point.gains, context));
 }

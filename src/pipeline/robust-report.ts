@@ -4,6 +4,7 @@
  * breakpoint, the worst figures over the grid with the combination behind each, the weakest parameter and
  * the failing speeds.
  */
+import type { OverSpeed } from '../core/by-speed.js';
 import { fixedOrDash, textTable } from '../core/text-table.js';
 import { changeWords, combinationWords, parameterWords } from '../robust/combination-words.js';
 import { ROBUST_FIGURES } from '../robust/figures.js';
@@ -79,7 +80,7 @@ function robustPointOf(breakpoint: ScheduleVariations['breakpoints'][number], no
 }
 
 /** Nominal → worst case at each breakpoint, the limits the worst case breaks, and the weakest parameter there. */
-function breakpointTable(variations: ScheduleVariations, nominal: readonly BreakpointMargins[], thresholds: AcceptanceThresholds): string[] {
+function breakpointTable(variations: ScheduleVariations, nominal: readonly BreakpointMargins[], thresholds: OverSpeed<AcceptanceThresholds>): string[] {
   const pair = (figure: RobustFigure, margins: BreakpointMargins, worst: ScheduleVariations['breakpoints'][number]): string =>
     `${fixedOrDash(margins[figure], DIGITS[figure])} → ${worst.instability !== null ? 'unstable' : fixedOrDash(worst.worst[figure]?.value ?? null, DIGITS[figure])}`;
   const rows = [['speed m/s', 'PM °', 'upper GM dB', 'lower GM dB', 'delay margin s', 'Ms', 'Mt', 'worst case vs limits', 'weakest parameter']];
@@ -156,7 +157,7 @@ export function nominalAtBreakpoints(check: DenseCheckResult, breakpointSpeeds: 
 export function formatVariations(
   variations: ScheduleVariations,
   nominal: readonly BreakpointMargins[],
-  thresholds: AcceptanceThresholds,
+  thresholds: OverSpeed<AcceptanceThresholds>,
   title = 'Worst case over the variations',
 ): string {
   const verdict = variations.passed

@@ -4,6 +4,7 @@
  * weakest parameter over the grid and at each breakpoint, the worst time-domain figures at each breakpoint (when
  * its set-point weights and feed-forward are given), and the schedule file's `variations` section.
  */
+import type { OverSpeed } from '../core/by-speed.js';
 import type { ControllerSettings } from '../controller/types.js';
 import type { LoopSpecification } from '../loops/types.js';
 import type { RobustCheckPoint, RobustCheckResult, RobustSearchSettings, VariationSet } from '../robust/types.js';
@@ -24,7 +25,7 @@ export interface RobustScheduleCheckInput {
   readonly controller: ControllerSettings;
   readonly set: VariationSet;
   readonly search: RobustSearchSettings;
-  readonly thresholds: AcceptanceThresholds;
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly grid: ArrayLike<number>;
   readonly gainsAt: GainsAtSpeed;
   /** Breakpoint speeds (each must be in the grid): the record lists the worst case at each. */
@@ -43,7 +44,7 @@ export interface RobustScheduleCheck {
 }
 
 /** The point of the grid nearest its limits: an unstable set first (the largest closed-loop pole), then the smallest relative slack; first speed wins ties. */
-export function tightestPoint(points: readonly RobustCheckPoint[], thresholds: AcceptanceThresholds): RobustCheckPoint | null {
+export function tightestPoint(points: readonly RobustCheckPoint[], thresholds: OverSpeed<AcceptanceThresholds>): RobustCheckPoint | null {
   // Ranked by (stable set?, then the largest pole's negative or the slack): lower is tighter.
   let best: { point: RobustCheckPoint; rank: number; key: number } | null = null;
   for (const point of points) {

@@ -7,6 +7,7 @@
  * kept, and the set is simulated again with it — at most ROUNDS times. b changes only the response to the
  * reference (Åström & Hägglund 2006, §3.4): the margins and every disturbance response stay as they are.
  */
+import { atSpeed } from '../core/by-speed.js';
 import type { RobustMargins, RobustTimeDomain, RobustTimeDomainFigure } from '../robust/types.js';
 import type { RobustContext } from './robust-analysis.js';
 import { vehiclePerformance, worstTimeDomainAt, type BreakpointControl, type TimeDomainSettings } from './robust-time-domain.js';
@@ -31,7 +32,7 @@ export function robustSetpointWeights(point: RobustMargins, control: BreakpointC
   for (let round = 0; round < ROUNDS && timeDomain !== null; round++) {
     const overshooting = OVERSHOOTS.flatMap((name) => {
       const worst = timeDomain?.worst[name] ?? null;
-      const limit = name === 'overshoot_pct' || context.loop.kind === 'heading' ? settings.limits.maximumOvershoot_pct : Infinity;
+      const limit = name === 'overshoot_pct' || context.loop.kind === 'heading' ? atSpeed(settings.limits, control.speed_mps).maximumOvershoot_pct : Infinity;
       return worst !== null && worst.value !== null && worst.value > limit ? [worst.combination] : [];
     });
     if (overshooting.length === 0) break;

@@ -5,6 +5,7 @@
  * changed vehicle would be given — and the vehicle's steering limits. The build, `check`, `reverify` and a
  * fastest-passing search aimed at the worst case all call it.
  */
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import type { AntiWindup } from '../controller/firmware-step.js';
 import type { PidGains } from '../controller/types.js';
 import { breakpointPerformance, type BreakpointPerformance, type SetpointWeights } from '../performance/breakpoint-performance.js';
@@ -43,7 +44,8 @@ export function breakpointControl(
 
 /** The time-domain limits and what the simulations need of the vehicle and the firmware. */
 export interface TimeDomainSettings {
-  readonly limits: TimeDomainLimits;
+  /** Numbers or tables over speed (src/schedule/acceptance-limits.ts), read at each breakpoint's speed. */
+  readonly limits: OverSpeed<TimeDomainLimits>;
   readonly vehicleLimits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number };
   readonly antiWindup: AntiWindup;
 }
@@ -64,11 +66,11 @@ export function vehiclePerformance(
   const vehicle = operatingPointWith(context.model.modelAt(speed_mps), context.set, values);
   const margins = analyseOperatingPoint(vehicle, context.loop, context.controller, speed_mps, gains);
   if (!margins.stable || margins.verdict !== 'stable') return null;
-  const atSpeed = performanceLoopAt(vehicle, context.loop, speed_mps, context.controller);
+  const loopHere = performanceLoopAt(vehicle, context.loop, speed_mps, context.controller);
   return breakpointPerformance({
-    loop: { ...atSpeed, feedForward: { ...atSpeed.feedForward, gain: control.feedForward, leadTime_s: control.feedForwardLeadTime_s } },
+    loop: { ...loopHere, feedForward: { ...loopHere.feedForward, gain: control.feedForward, leadTime_s: control.feedForwardLeadTime_s } },
     gains,
-    limits: settings.limits,
+    limits: atSpeed(settings.limits, speed_mps),
     vehicleLimits: settings.vehicleLimits,
     slowestTimeConstant_s: margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
     ...(chooseWeights ? {} : { setpointWeights: control.setpointWeights }),
@@ -91,7 +93,7 @@ export function worstTimeDomainAt(
   return worstTimeDomainOverSet({
     set: context.set,
     combinations: Object.values(point.worst).flatMap((worst) => (worst === null ? [] : [worst.combination])),
-    limits: settings.limits,
+    limits: atSpeed(settings.limits, control.speed_mps),
     kind: context.loop.kind,
     figuresAt: (values) => vehiclePerformance(values, control, context, settings)?.figures ?? null,
   });

@@ -1,4 +1,5 @@
 /** Scenario runs as a terminal table (simulate, build and check). */
+import { overSpeedText } from '../core/by-speed.js';
 import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { LoopKind } from '../loops/types.js';
 import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
@@ -53,8 +54,8 @@ export function formatScenarioCheck(check: ScheduleScenarioCheck, loop: LoopKind
   const lines = [
     `  scenarios (${check.scenarios.length}) at ${check.speeds_mps.map((speed) => speed.toFixed(2)).join(', ')} m/s and through the range, on the ${check.model}: ` +
       (check.passed ? 'PASSED' : `FAILED, ${check.failures.length} limit(s) broken`),
-    `  limits: no sustained oscillation; small step overshoot ≤ ${l.maximumOvershoot_pct} %, both steps settle; offset, misalignment and force removed within ${l.maximumRecoveryTime_s} s; ` +
-      `path lane change ≤ ${l.maximumLaneChangeError_m} m; error while the speed changes ≤ ${l.maximumSpeedChangeError} ${UNIT[loop]}`,
+    `  limits: no sustained oscillation; small step overshoot ≤ ${overSpeedText(l.maximumOvershoot_pct)} %, both steps settle; offset, misalignment and force removed within ${overSpeedText(l.maximumRecoveryTime_s)} s; ` +
+      `path lane change ≤ ${overSpeedText(l.maximumLaneChangeError_m)} m; error while the speed changes ≤ ${overSpeedText(l.maximumSpeedChangeError)} ${UNIT[loop]}`,
   ];
   for (const failure of check.failures.slice(0, 12)) lines.push(`    ${failure.message}`);
   if (check.failures.length > 12) lines.push(`    … and ${check.failures.length - 12} more (schedule.json check.scenarios.failures)`);

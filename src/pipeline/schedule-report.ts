@@ -2,6 +2,7 @@
  * The terminal report of a schedule: breakpoints with gains and proven margins, the worst grid
  * point of the dense check, inserted breakpoints, failures, and the safety cautions.
  */
+import { atSpeed, overSpeedText } from '../core/by-speed.js';
 import { describeControllerSettings } from '../controller/defaults.js';
 import { formatScenarioCheck, formatSpeedChange } from './scenario-report.js';
 import { escapeControlCharacters } from '../core/quote.js';
@@ -88,7 +89,7 @@ export function formatSchedule(schedule: ScheduleFile): string {
       fixedOrDash(m.sensitivityPeak, 3),
       fixedOrDash(m.complementarySensitivityPeak, 3),
       m.verdict,
-      limitsCell(m, schedule.check.thresholds),
+      limitsCell(m, atSpeed(schedule.check.thresholds, breakpoint.speed_mps)),
       breakpoint.insertedByRefinement ? 'inserted' : '',
     ]);
   }
@@ -153,9 +154,16 @@ export function formatTimeDomain(schedule: ScheduleFile): string[] {
     rows.push(row);
   }
   const l = schedule.check.timeDomain.limits;
-  const limits = [`overshoot ≤ ${l.maximumOvershoot_pct} %`, `misalignment and force removed to 5 % within ${l.maximumRecoveryTime_s} s`];
-  if (path) limits.push(`lane-change error ≤ ${l.maximumLaneChangeError_m} m`, `curve-entry error ≤ ${l.maximumCurveEntryError_m} m 3 s after entry`);
-  else limits.push('a step through the steering limits settles with the same overshoot limit');
+  const limits = [
+    `overshoot ≤ ${overSpeedText(l.maximumOvershoot_pct)} %`,
+    `misalignment and force removed to 5 % within ${overSpeedText(l.maximumRecoveryTime_s)} s`,
+  ];
+  if (path) {
+    limits.push(
+      `lane-change error ≤ ${overSpeedText(l.maximumLaneChangeError_m)} m`,
+      `curve-entry error ≤ ${overSpeedText(l.maximumCurveEntryError_m)} m 3 s after entry`,
+    );
+  } else limits.push('a step through the steering limits settles with the same overshoot limit');
   const lines = [
     `  time domain (exact sampled linear closed loop at each breakpoint; ${schedule.check.timeDomain.passed ? 'within every limit' : 'LIMITS BROKEN'}): ${limits.join('; ')}`,
     ...textTable(
@@ -178,8 +186,8 @@ export function formatCheck(modelKind: string, passed: boolean, gridSize: number
   return [
     `  dense check on the ${modelWords(modelKind)}, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
       (passed ? 'PASSED' : `FAILED at ${failedSpeeds} speeds`),
-    `  limits: lower GM ≤ ${t.maximumLowerGainMargin_dB} dB, upper GM ≥ ${t.minimumUpperGainMargin_dB} dB, PM ≥ ${t.minimumPhaseMargin_deg}°, ` +
-      `Ms ≤ ${t.maximumSensitivityPeak}, Mt ≤ ${t.maximumComplementarySensitivityPeak}, delay margin ≥ ${t.minimumDelayMargin_s.toFixed(3)} s`,
+    `  limits: lower GM ≤ ${overSpeedText(t.maximumLowerGainMargin_dB)} dB, upper GM ≥ ${overSpeedText(t.minimumUpperGainMargin_dB)} dB, PM ≥ ${overSpeedText(t.minimumPhaseMargin_deg)}°, ` +
+      `Ms ≤ ${overSpeedText(t.maximumSensitivityPeak)}, Mt ≤ ${overSpeedText(t.maximumComplementarySensitivityPeak)}, delay margin ≥ ${overSpeedText(t.minimumDelayMargin_s, (v) => v.toFixed(3))} s`,
     '  worst over the grid:',
     ...formatWorstMargins(worst).map((line) => `  ${line}`),
   ];

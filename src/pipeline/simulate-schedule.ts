@@ -7,7 +7,8 @@ import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
 import { prepareScenario, RANGE_SCENARIOS, SCENARIO_NAMES, type ScenarioName, type ScenarioSizes } from '../performance/scenario-catalogue.js';
 import { runScenario, type ScenarioRun } from '../performance/scenario-run.js';
-import { judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
+import { judgedRun, judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
+import type { OverSpeed } from '../core/by-speed.js';
 import type { ScenarioController, ScenarioVehicle } from '../performance/scenario-simulation.js';
 import { scheduleFirmware } from '../schedule/schedule-lookup.js';
 import type { ScheduleFile, ScheduleScenarioCheck } from '../schedule/schedule-types.js';
@@ -110,7 +111,7 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
  * scenarios once, judged against `limits` (src/performance/scenario-limits.ts); failures ordered by speed.
  */
 export function judgeScheduleScenarios(
-  input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: ScenarioLimits; readonly model: string },
+  input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: OverSpeed<ScenarioLimits>; readonly model: string },
 ): ScheduleScenarioCheck {
   const speeds = scenarioSpeeds(input.schedule, true);
   // At a breakpoint with time-domain figures the linear scenarios are those figures (the same closed loop, exact:
@@ -122,7 +123,7 @@ export function judgeScheduleScenarios(
     ...simulateSchedule({ ...input, scenarios: LINEAR_SCENARIOS, speeds: speeds.filter((speed) => !figured.has(speed)), stopAtRest: true }),
   ];
   const failures = runs
-    .flatMap((run) => judgeScenarioRun(run.scenario.name, run.speed_mps, run.metrics, input.limits, input.schedule.loop.kind))
+    .flatMap((run) => judgeScenarioRun(judgedRun(run, run.speed_mps), input.limits, input.schedule.loop.kind))
     .sort((p, q) => p.speed_mps - q.speed_mps || SCENARIO_NAMES.indexOf(p.scenario) - SCENARIO_NAMES.indexOf(q.scenario));
   return {
     passed: failures.length === 0,

@@ -6,7 +6,8 @@
  * model at the speed of the moment). Frozen-speed margins say nothing about it.
  */
 import { rampScenario, type ScenarioContext } from '../performance/scenario-catalogue.js';
-import { judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
+import { judgedRun, judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
+import type { OverSpeed } from '../core/by-speed.js';
 import { runScenario } from '../performance/scenario-run.js';
 import type { ScenarioController, ScenarioVehicle } from '../performance/scenario-simulation.js';
 import { SCENARIO_DEFAULTS, SIMULATION_DEFAULTS } from '../performance/defaults.js';
@@ -22,7 +23,7 @@ export interface CertificateInput {
   readonly vehicle: ScenarioVehicle;
   readonly controller: ScenarioController;
   readonly context: ScenarioContext;
-  readonly limits: ScenarioLimits;
+  readonly limits: OverSpeed<ScenarioLimits>;
 }
 
 function largestPassingRate(input: CertificateInput, accelerating: boolean): number | null {
@@ -36,7 +37,7 @@ function largestPassingRate(input: CertificateInput, accelerating: boolean): num
       acceleration_mps2: rate,
     });
     const run = runScenario(input.vehicle, input.controller, scenario, true);
-    return judgeScenarioRun(name, minimum_mps, run.metrics, input.limits, input.context.loop).length === 0;
+    return judgeScenarioRun(judgedRun(run, minimum_mps), input.limits, input.context.loop).length === 0;
   };
   const { lowest_mps2, highest_mps2, steps } = CERTIFICATE_SEARCH;
   if (passes(highest_mps2)) return highest_mps2;

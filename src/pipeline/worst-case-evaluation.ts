@@ -7,6 +7,7 @@
  * finds at that breakpoint. The search over
  * the set runs only for candidates that pass on the nominal model (most of the ladder fails there, cheaply).
  */
+import type { OverSpeed } from '../core/by-speed.js';
 import { judgeRobust } from '../robust/robust-check.js';
 import type { AcceptanceThresholds } from '../schedule/types.js';
 import type { BreakpointEvaluator } from './breakpoint-evaluation.js';
@@ -24,7 +25,7 @@ import { thresholdsWithRoom } from './fastest-passing.js';
 export const WORST_CASE_SEARCH_ROOM = { phaseMargin_deg: 3, gainMargin_dB: 1, peakFactor: 0.97, delayMarginFactor: 1.1 } as const;
 
 /** The plan's limits moved inside by WORST_CASE_SEARCH_ROOM. */
-export function worstCaseThresholds(thresholds: AcceptanceThresholds): AcceptanceThresholds {
+export function worstCaseThresholds(thresholds: OverSpeed<AcceptanceThresholds>): OverSpeed<AcceptanceThresholds> {
   return thresholdsWithRoom(thresholds, WORST_CASE_SEARCH_ROOM);
 }
 
@@ -33,7 +34,7 @@ export interface WorstCaseEvaluatorInput {
   readonly nominal: BreakpointEvaluator;
   readonly context: RobustContext;
   /** The plan's frequency-domain limits: the worst case must meet them with WORST_CASE_SEARCH_ROOM. */
-  readonly thresholds: AcceptanceThresholds;
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly timeDomain: TimeDomainSettings;
 }
 

@@ -7,6 +7,7 @@
  * actuator is asked for. Thinned for drawing by keeping each stretch's smallest and largest value, so
  * peaks stay where they are.
  */
+import { atSpeed as readAtSpeed } from '../core/by-speed.js';
 import type { CheckModel } from '../pipeline/check-model.js';
 import { scheduleLoopAndController } from '../pipeline/recheck-schedule.js';
 import { askedSteeringRate } from '../performance/actuator-room.js';
@@ -41,8 +42,8 @@ export function thinnedSignal(values: Float64Array, sampleTime_s: number, end_s:
 }
 
 /** How close the figures come to their limits: the largest figure/limit ratio (≥ 1 breaks a limit; unsettled counts as 2). */
-function closeness(figures: TimeDomainFigures, schedule: ScheduleFile): number {
-  const limits = schedule.check.timeDomain.limits;
+function closeness(figures: TimeDomainFigures, schedule: ScheduleFile, speed_mps: number): number {
+  const limits = readAtSpeed(schedule.check.timeDomain.limits, speed_mps);
   const recovery = (time: number | null): number => (time === null ? 2 : time / limits.maximumRecoveryTime_s);
   return Math.max(
     figures.referenceStep.overshoot_pct / limits.maximumOvershoot_pct,
@@ -61,7 +62,9 @@ export function traceBreakpoints(schedule: ScheduleFile): { readonly breakpoint:
   const add = (breakpoint: ScheduleBreakpoint, reason: string) => chosen.set(breakpoint, [...(chosen.get(breakpoint) ?? []), reason]);
   add(withFigures[0], 'lowest breakpoint');
   add(withFigures[withFigures.length - 1], 'highest breakpoint');
-  const closest = withFigures.reduce((best, next) => (closeness(next.timeDomain!, schedule) > closeness(best.timeDomain!, schedule) ? next : best));
+  const closest = withFigures.reduce((best, next) =>
+    closeness(next.timeDomain!, schedule, next.speed_mps) > closeness(best.timeDomain!, schedule, best.speed_mps) ? next : best,
+  );
   add(closest, 'closest to a time-domain limit');
   return [...chosen.entries()].sort(([p], [q]) => p.speed_mps - q.speed_mps).map(([breakpoint, reasons]) => ({ breakpoint, reason: reasons.join(', ') }));
 }
@@ -81,7 +84,7 @@ export function closedLoopTraces(schedule: ScheduleFile, model: CheckModel, chec
     const run = breakpointPerformance({
       loop,
       gains: { kp: row.kp, ki: row.ki, kd: row.kd },
-      limits,
+      limits: readAtSpeed(limits, row.speed_mps),
       vehicleLimits: steeringLimits,
       slowestTimeConstant_s: point?.margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
       setpointWeights: { proportional: row.setpointWeightProportional, derivative: row.setpointWeightDerivative },

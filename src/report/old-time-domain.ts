@@ -4,6 +4,7 @@
  * model the new schedule records, simulated as the build simulates a breakpoint (src/performance) with the new
  * vehicle's steering limits — what the old gains would do on the changed vehicle, beside what the new ones do.
  */
+import { atSpeed as readAtSpeed } from '../core/by-speed.js';
 import type { CheckModel } from '../pipeline/check-model.js';
 import { scheduleLoopAndController } from '../pipeline/recheck-schedule.js';
 import { breakpointPerformance } from '../performance/breakpoint-performance.js';
@@ -29,7 +30,7 @@ export function oldTimeDomainOnNewVehicle(old: ScheduleFile, next: ScheduleFile,
     return breakpointPerformance({
       loop: { ...atSpeed, feedForward: { ...atSpeed.feedForward, gain: extras.feedForward, leadTime_s: extras.feedForwardLeadTime_s } },
       gains: gainsAt(speed_mps),
-      limits: next.check.timeDomain.limits,
+      limits: readAtSpeed(next.check.timeDomain.limits, speed_mps),
       vehicleLimits: next.check.timeDomain.steeringLimits,
       slowestTimeConstant_s: point.margins.analysis?.sampledDataSlowestTimeConstant_s ?? null,
       setpointWeights: { proportional: extras.setpointWeightProportional, derivative: extras.setpointWeightDerivative },

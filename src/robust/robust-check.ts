@@ -4,6 +4,7 @@
  * stable fails on that alone, naming the combination; otherwise every worst figure is judged as a loop's
  * margins are (judgeMargins), and each message names the combination that gives it.
  */
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import type { PidGains } from '../controller/types.js';
 import { judgeMargins } from '../schedule/dense-check.js';
 import type { AcceptanceThresholds, CheckFailure, GainsAtSpeed, ProgressCallback } from '../schedule/types.js';
@@ -13,7 +14,7 @@ import { ROBUST_FIGURES, badness } from './figures.js';
 import type { AnalyseOverSet, RobustCheckPoint, RobustCheckResult, RobustFigure, RobustMargins, RobustWorstValue } from './types.js';
 
 /** Every acceptance limit the worst case over the set breaks at one speed, with the combination in each message. */
-export function judgeRobust(point: RobustMargins, thresholds: AcceptanceThresholds): CheckFailure[] {
+export function judgeRobust(point: RobustMargins, thresholds: OverSpeed<AcceptanceThresholds>): CheckFailure[] {
   if (point.instability !== null) {
     const { verdict, combination } = point.instability;
     return [{ criterion: 'stability', value: null, limit: null, message: `closed loop ${verdict} with ${combinationWords(combination)}` }];
@@ -37,7 +38,7 @@ export function judgeRobust(point: RobustMargins, thresholds: AcceptanceThreshol
     sensitivityPeak: 'sensitivityPeak',
     complementarySensitivityPeak: 'complementarySensitivityPeak',
   };
-  return judgeMargins(margins, thresholds).map((failure) => {
+  return judgeMargins(margins, atSpeed(thresholds, point.speed_mps)).map((failure) => {
     const figure = figureOf[failure.criterion];
     const worst = figure === undefined ? null : point.worst[figure];
     return worst === null ? failure : { ...failure, message: `${failure.message} (worst case: ${combinationWords(worst.combination)})` };
@@ -77,12 +78,12 @@ export interface RobustCheckInput {
   readonly grid: ArrayLike<number>;
   readonly gainsAt: GainsAtSpeed;
   readonly analyse: AnalyseOverSet;
-  readonly thresholds: AcceptanceThresholds;
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly onProgress?: ProgressCallback;
 }
 
 /** One judged speed of the robust check. */
-export function robustCheckPoint(speed_mps: number, gains: PidGains, analyse: AnalyseOverSet, thresholds: AcceptanceThresholds): RobustCheckPoint {
+export function robustCheckPoint(speed_mps: number, gains: PidGains, analyse: AnalyseOverSet, thresholds: OverSpeed<AcceptanceThresholds>): RobustCheckPoint {
   const margins = analyse(speed_mps, gains);
   return { ...margins, failures: judgeRobust(margins, thresholds) };
 }

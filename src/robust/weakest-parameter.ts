@@ -5,6 +5,7 @@
  * figure. A set holding an unstable loop is weakest at that loop: the parameter whose return to nominal
  * restores stability, or else lowers the largest closed-loop pole most.
  */
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import type { AcceptanceThresholds } from '../schedule/types.js';
 import type { LoopMargins } from '../verify/types.js';
 import { ROBUST_FIGURES, badness, figureValue } from './figures.js';
@@ -31,8 +32,12 @@ export function slackToLimit(figure: RobustFigure, value: number, thresholds: Ac
 }
 
 /** The figure of a robust point nearest its limit: 'stability' (slack −Infinity) when the set holds an unstable loop; null when no figure has a limit. */
-export function tightestFigure(point: RobustMargins, thresholds: AcceptanceThresholds): { figure: RobustFigure | 'stability'; slack: number } | null {
+export function tightestFigure(
+  point: RobustMargins,
+  thresholdsOverSpeed: OverSpeed<AcceptanceThresholds>,
+): { figure: RobustFigure | 'stability'; slack: number } | null {
   if (point.instability !== null) return { figure: 'stability', slack: -Infinity };
+  const thresholds = atSpeed(thresholdsOverSpeed, point.speed_mps);
   let tightest: { figure: RobustFigure; slack: number } | null = null;
   for (const definition of ROBUST_FIGURES) {
     const worst = point.worst[definition.name];
@@ -49,7 +54,7 @@ export function tightestFigure(point: RobustMargins, thresholds: AcceptanceThres
  */
 export function weakestParameter(
   point: RobustMargins,
-  thresholds: AcceptanceThresholds,
+  thresholds: OverSpeed<AcceptanceThresholds>,
   set: VariationSet,
   analyse: (values: readonly number[]) => LoopMargins,
 ): WeakestParameter | null {

@@ -4,6 +4,7 @@
  * The loop analysis is a function argument, so the check runs on any model (single-track,
  * interpolated lumped models) and on constructed test loops.
  */
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import type { PidGains } from '../controller/types.js';
 import type { LoopMargins } from '../verify/types.js';
 import type {
@@ -164,7 +165,8 @@ export interface DenseCheckInput {
   readonly grid: ArrayLike<number>;
   readonly gainsAt: GainsAtSpeed;
   readonly analyse: AnalyseLoop;
-  readonly thresholds: AcceptanceThresholds;
+  /** The limits, numbers or tables over speed (src/schedule/acceptance-limits.ts), read at each speed. */
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly onProgress?: ProgressCallback;
 }
 
@@ -183,7 +185,7 @@ export function denseCheck(input: DenseCheckInput): DenseCheckResult {
     const speed_mps = grid[i];
     const gains: PidGains = gainsAt(speed_mps);
     const margins = analyse(speed_mps, gains);
-    const failures = judgeMargins(margins, thresholds);
+    const failures = judgeMargins(margins, atSpeed(thresholds, speed_mps));
     if (failures.length > 0) failedCount += 1;
     points.push({ speed_mps, gains, margins, failures });
     if (onProgress !== undefined && ((i + 1) % every === 0 || i + 1 === total)) onProgress({ stage: 'check', done: i + 1, total });

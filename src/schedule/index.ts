@@ -21,7 +21,7 @@ export {
   readPlanFile,
   planFromJson,
   planBreakpoints,
-  planThresholds,
+  type AcceptanceAtSpeed,
   type Plan,
   type PartialPlan,
   type LoopKind,
@@ -34,6 +34,7 @@ export {
   type ResolveContext,
 } from './plan.js';
 export { PLAN_SCHEMA } from './plan-schema.js';
+export { acceptanceLimits, numericAcceptanceLimits, limitSampleSpeeds, ACCEPTANCE_RANGES, type AcceptanceLimits } from './acceptance-limits.js';
 export { makeRuleParameterLookup, valueAtSpeed, SPEED_VARYING_PARAMETERS, type RuleParameterLookup, type SpeedVaryingParameter } from './rule-parameters.js';
 export { SCHEDULE_SCHEMA } from './schedule-schema.js';
 export { canonicalJson } from './canonical-json.js';

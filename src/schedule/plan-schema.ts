@@ -184,52 +184,52 @@ export const PLAN_SCHEMA = {
         type: 'object',
         additionalProperties: false,
         properties: {
-          maximumLowerGainMargin_dB: described(
+          maximumLowerGainMargin_dB: speedVarying(
             { type: 'number', maximum: 0 },
             'Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this.',
           ),
-          minimumUpperGainMargin_dB: described(nonNegative, 'Upper gain margin (the gain increase that destabilises) must be at least this.'),
-          minimumPhaseMargin_deg: described({ type: 'number', minimum: 0, maximum: 180 }, 'Phase margin must be at least this.'),
-          maximumSensitivityPeak: described(
+          minimumUpperGainMargin_dB: speedVarying(nonNegative, 'Upper gain margin (the gain increase that destabilises) must be at least this.'),
+          minimumPhaseMargin_deg: speedVarying({ type: 'number', minimum: 0, maximum: 180 }, 'Phase margin must be at least this.'),
+          maximumSensitivityPeak: speedVarying(
             { type: 'number', minimum: 1 },
             'Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund).',
           ),
-          maximumComplementarySensitivityPeak: described(
+          maximumComplementarySensitivityPeak: speedVarying(
             { type: 'number', minimum: 1 },
             'Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2).',
           ),
-          delayMarginRoom_s: described(nonNegative, 'Required delay margin = computation latency + Ts/2 (the hold) + this room.'),
-          maximumOvershoot_pct: described(
+          delayMarginRoom_s: speedVarying(nonNegative, 'Required delay margin = computation latency + Ts/2 (the hold) + this room.'),
+          maximumOvershoot_pct: speedVarying(
             nonNegative,
             'Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice).',
           ),
-          maximumRecoveryTime_s: described(
+          maximumRecoveryTime_s: speedVarying(
             positive,
             'A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).',
           ),
-          maximumLaneChangeError_m: described(
+          maximumLaneChangeError_m: speedVarying(
             positive,
             'Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).',
           ),
-          maximumCurveEntryError_m: described(
+          maximumCurveEntryError_m: speedVarying(
             positive,
             'Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).',
           ),
-          maximumSpeedChangeError_m: described(
+          maximumSpeedChangeError_m: speedVarying(
             positive,
             'Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3).',
           ),
-          maximumSpeedChangeError_rad: described(
+          maximumSpeedChangeError_rad: speedVarying(
             positive,
             'Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05).',
           ),
-          maximumSpeedChangeError_radps: described(
+          maximumSpeedChangeError_radps: speedVarying(
             positive,
             'Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05).',
           ),
         },
       },
-      'Limits every speed of the dense check must meet.',
+      'Limits every speed of the dense check and of the scenarios must meet. Each may be one number, a table over speed or an expression in speed_mps (e.g. "minimumPhaseMargin_deg": "max(35, 50 - speed_mps)"); the values at each breakpoint are recorded in the schedule.',
     ),
     check: described(
       {

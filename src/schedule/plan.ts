@@ -3,7 +3,6 @@
  * schedule is built with. Every field has a documented default (PLAN_DEFAULTS), so `{}` is a plan.
  */
 import { CONTROLLER_DEFAULTS, resolveControllerSettings } from '../controller/defaults.js';
-import type { ScenarioLimits } from '../performance/scenario-limits.js';
 import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
 import type { TimeDomainLimits } from '../performance/types.js';
@@ -15,18 +14,15 @@ import type { ControllerType, RuleName } from '../tuning/types.js';
 import { PLAN_SCHEMA } from './plan-schema.js';
 import { planReferenceHint } from './plan-reference-path.js';
 import { findRule, parameterNotTakenWords, parametersNotTaken } from '../tuning/registry.js';
-import type { AcceptanceThresholds, InterpolationMethod } from './types.js';
+import type { InterpolationMethod } from './types.js';
 import { resolveVariations, type PlanVariations, type WrittenVariations } from './plan-variations.js';
 
+import type { SpeedTable } from '../core/by-speed.js';
 import type { LoopKind, ReferencePoint } from '../loops/types.js';
 
 export type { LoopKind, ReferencePoint };
 
-/** A value per speed: linear between the given speeds (m/s), the end values held beyond them. */
-export interface SpeedTable {
-  readonly speeds_mps: readonly number[];
-  readonly values: readonly number[];
-}
+export type { SpeedTable };
 /** An expression in speed_mps (m/s), e.g. "max(15, 1.2 * speed_mps)" (src/core/speed-expression.ts). */
 export type SpeedExpression = string;
 /** A rule parameter that is one number at every speed, a SpeedTable, or a SpeedExpression. */
@@ -57,6 +53,21 @@ export type SearchOn = 'nominal' | 'worst-case';
 export type BreakpointPlan =
   | { readonly mode: 'explicit'; readonly speeds_mps: readonly number[] }
   | { readonly mode: 'automatic'; readonly count: number; readonly spacing: 'geometric' | 'linear' };
+
+/** The acceptance limits at one speed (the plan's acceptance section with its tables and expressions read there). */
+export interface AcceptanceAtSpeed extends TimeDomainLimits {
+  readonly maximumLowerGainMargin_dB: number;
+  readonly minimumUpperGainMargin_dB: number;
+  readonly minimumPhaseMargin_deg: number;
+  readonly maximumSensitivityPeak: number;
+  readonly maximumComplementarySensitivityPeak: number;
+  /** Required delay margin = latency (computation latency + half a sample for the hold) + this room, s. */
+  readonly delayMarginRoom_s: number;
+  /** Largest error while the speed changes through the range in a curve (the speed-ramp and braking scenarios), per loop unit. */
+  readonly maximumSpeedChangeError_m: number;
+  readonly maximumSpeedChangeError_rad: number;
+  readonly maximumSpeedChangeError_radps: number;
+}
 
 /** A resolved plan: loop, rule and its parameters, speeds, breakpoints, interpolation, controller, acceptance limits, check. */
 export interface Plan {
@@ -89,19 +100,8 @@ export interface Plan {
     /** How the integrator is kept from winding up while the command is at the steering-angle limit. */
     readonly antiWindup: AntiWindup;
   };
-  readonly acceptance: TimeDomainLimits & {
-    readonly maximumLowerGainMargin_dB: number;
-    readonly minimumUpperGainMargin_dB: number;
-    readonly minimumPhaseMargin_deg: number;
-    readonly maximumSensitivityPeak: number;
-    readonly maximumComplementarySensitivityPeak: number;
-    /** Required delay margin = latency (computation latency + half a sample for the hold) + this room, s. */
-    readonly delayMarginRoom_s: number;
-    /** Largest error while the speed changes through the range in a curve (the speed-ramp and braking scenarios), per loop unit. */
-    readonly maximumSpeedChangeError_m: number;
-    readonly maximumSpeedChangeError_rad: number;
-    readonly maximumSpeedChangeError_radps: number;
-  };
+  /** Acceptance limits: each one number, a table over speed or an expression in speed_mps (acceptance-limits.ts reads them). */
+  readonly acceptance: { readonly [K in keyof AcceptanceAtSpeed]: SpeedVarying };
   readonly check: {
     /** Evenly spaced check speeds across the range (breakpoints and midpoints are added). */
     readonly gridSpeeds: number;
@@ -142,6 +142,23 @@ export type PartialPlan = {
  * fastest at low speed), 100 Hz firmware (or the vehicle file's sample time) with one sample of computation latency, 20 ms delay-margin
  * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
  */
+/** The acceptance limits when the plan gives none (sources: PLAN_DEFAULTS). */
+export const ACCEPTANCE_DEFAULTS: AcceptanceAtSpeed = {
+  maximumLowerGainMargin_dB: -6,
+  minimumUpperGainMargin_dB: 6,
+  minimumPhaseMargin_deg: 45,
+  maximumSensitivityPeak: 2,
+  maximumComplementarySensitivityPeak: 2,
+  delayMarginRoom_s: 0.02,
+  maximumOvershoot_pct: 25,
+  maximumRecoveryTime_s: 15,
+  maximumLaneChangeError_m: 0.5,
+  maximumCurveEntryError_m: 0.3,
+  maximumSpeedChangeError_m: 0.3,
+  maximumSpeedChangeError_rad: 0.05,
+  maximumSpeedChangeError_radps: 0.05,
+};
+
 export const PLAN_DEFAULTS: Plan = {
   loop: { kind: 'yaw-rate', preview_m: 0, previewTime_s: 0, referencePoint: 'front-axle' },
   rule: { name: 'simc', parameters: {}, tuneFor: 'rule-parameters', searchOn: 'nominal' },
@@ -149,21 +166,7 @@ export const PLAN_DEFAULTS: Plan = {
   breakpoints: { mode: 'automatic', count: 6, spacing: 'geometric' },
   interpolation: 'monotone-cubic',
   controller: { form: 'parallel', ...CONTROLLER_DEFAULTS, antiWindup: 'conditional-integration' },
-  acceptance: {
-    maximumLowerGainMargin_dB: -6,
-    minimumUpperGainMargin_dB: 6,
-    minimumPhaseMargin_deg: 45,
-    maximumSensitivityPeak: 2,
-    maximumComplementarySensitivityPeak: 2,
-    delayMarginRoom_s: 0.02,
-    maximumOvershoot_pct: 25,
-    maximumRecoveryTime_s: 15,
-    maximumLaneChangeError_m: 0.5,
-    maximumCurveEntryError_m: 0.3,
-    maximumSpeedChangeError_m: 0.3,
-    maximumSpeedChangeError_rad: 0.05,
-    maximumSpeedChangeError_radps: 0.05,
-  },
+  acceptance: ACCEPTANCE_DEFAULTS,
   check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track', scenarios: true },
 };
 
@@ -314,6 +317,7 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
   checkControllerPlausible(controller, partial.controller ?? {}, file);
   const parameters = partial.rule?.parameters ?? PLAN_DEFAULTS.rule.parameters;
   for (const [name, value] of Object.entries(parameters)) checkSpeedTable(value as SpeedVarying, `/rule/parameters/${name}`, file);
+  for (const [name, value] of Object.entries(partial.acceptance ?? {})) checkSpeedTable(value as SpeedVarying, `/acceptance/${name}`, file);
   const kind = partial.loop?.kind ?? PLAN_DEFAULTS.loop.kind;
   const previewGiven = partial.loop?.preview_m !== undefined || partial.loop?.previewTime_s !== undefined;
   const loop = { ...PLAN_DEFAULTS.loop, ...(kind === 'path' && !previewGiven ? DEFAULT_PATH_PREVIEW : {}), ...partial.loop };
@@ -400,33 +404,4 @@ export function planBreakpoints(plan: Plan): number[] {
   speeds[0] = first;
   speeds[n - 1] = last;
   return speeds;
-}
-
-/**
- * Acceptance thresholds of the dense check. Required delay margin, s:
- * computationLatency_s + sampleTime_s/2 (zero-order hold, docs/domain.md §5) + delayMarginRoom_s.
- */
-export function planThresholds(plan: Plan): AcceptanceThresholds {
-  const { acceptance, controller } = plan;
-  return {
-    maximumLowerGainMargin_dB: acceptance.maximumLowerGainMargin_dB,
-    minimumUpperGainMargin_dB: acceptance.minimumUpperGainMargin_dB,
-    minimumPhaseMargin_deg: acceptance.minimumPhaseMargin_deg,
-    maximumSensitivityPeak: acceptance.maximumSensitivityPeak,
-    maximumComplementarySensitivityPeak: acceptance.maximumComplementarySensitivityPeak,
-    minimumDelayMargin_s: controller.computationLatency_s + controller.sampleTime_s / 2 + acceptance.delayMarginRoom_s,
-  };
-}
-
-/** The scenario limits of a plan: its time-domain limits and the speed-change error of its loop's unit. */
-export function planScenarioLimits(plan: Plan): ScenarioLimits {
-  const a = plan.acceptance;
-  return {
-    maximumOvershoot_pct: a.maximumOvershoot_pct,
-    maximumRecoveryTime_s: a.maximumRecoveryTime_s,
-    maximumLaneChangeError_m: a.maximumLaneChangeError_m,
-    maximumCurveEntryError_m: a.maximumCurveEntryError_m,
-    maximumSpeedChangeError:
-      plan.loop.kind === 'path' ? a.maximumSpeedChangeError_m : plan.loop.kind === 'heading' ? a.maximumSpeedChangeError_rad : a.maximumSpeedChangeError_radps,
-  };
 }

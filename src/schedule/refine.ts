@@ -3,6 +3,7 @@
  * breakpoint there, re-check, and say where and why. Bounded by a maximum number of insertions.
  * Pure: tuning and loop analysis are function arguments.
  */
+import { atSpeed, type OverSpeed } from '../core/by-speed.js';
 import type { PidGains } from '../controller/types.js';
 import { denseCheck, judgeMargins } from './dense-check.js';
 import { checkGrid } from './grid.js';
@@ -28,7 +29,7 @@ export interface RefineInput {
   /** Gains the tuning rule gives at a speed (m/s), e.g. tuneOperatingPoint at that speed. */
   readonly tuneAt: (speed_mps: number) => PidGains;
   readonly analyse: AnalyseLoop;
-  readonly thresholds: AcceptanceThresholds;
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   /** Most breakpoints refinement may add in all. */
   readonly maxInsertions: number;
   readonly onProgress?: ProgressCallback;
@@ -185,7 +186,7 @@ export function refineBreakpoints(input: RefineInput): RefineResult {
     const intervalsBefore = speeds;
     for (const insertion of chosen) {
       const tuned = tuneAt(insertion.speed_mps);
-      const own = judgeMargins(analyse(insertion.speed_mps, tuned), thresholds);
+      const own = judgeMargins(analyse(insertion.speed_mps, tuned), atSpeed(thresholds, insertion.speed_mps));
       if (own.length > 0) {
         hopelessIntervals.add(intervalKey(intervalsBefore, intervalsBefore.filter((speed) => speed < insertion.speed_mps).length));
         rejected.push({

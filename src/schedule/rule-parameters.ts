@@ -9,7 +9,7 @@ import type { RuleParameters } from '../tuning/types.js';
 import type { PlanRuleParameters, SpeedVarying } from './plan.js';
 import { compileSpeedVarying, POSITIVE } from './speed-varying.js';
 
-export { valueAtSpeed } from './speed-varying.js';
+export { valueAtSpeed } from '../core/by-speed.js';
 
 /** The rule parameters that may vary with speed (the plan schema's speedVarying fields); all must be positive. */
 export const SPEED_VARYING_PARAMETERS = [

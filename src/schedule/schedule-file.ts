@@ -13,7 +13,8 @@ import { VERSION } from '../version.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from './checksum.js';
 import { validateGainTable } from './interpolate.js';
 import { failingSpeeds } from './dense-check.js';
-import { planThresholds, type Plan } from './plan.js';
+import type { Plan } from './plan.js';
+import { numericAcceptanceLimits, type AcceptanceLimits } from './acceptance-limits.js';
 import type { BreakpointInsertion } from './refine.js';
 import { SCHEDULE_SCHEMA } from './schedule-schema.js';
 import { acceptancePassed, type ScheduleVariations } from './schedule-variations.js';
@@ -38,6 +39,8 @@ export const LISTED_FAILURES = 100;
 export interface ScheduleInput {
   readonly vehicle: { readonly name: string; readonly file: string; readonly sha256: string };
   readonly plan: Plan;
+  /** The plan's acceptance limits as the checks read them (acceptance-limits.ts); absent: the plan's, which then holds no expression. */
+  readonly limits?: AcceptanceLimits;
   /** Final table (after refinement). */
   readonly table: GainTable;
   /** Per breakpoint, true when refinement inserted it (defaults to all false). */
@@ -115,6 +118,7 @@ export function recordedWorst(worst: WorstMargins): WorstMargins {
  * Deterministic: no clock, file names as base names only.
  */
 export function assembleSchedule(input: ScheduleInput): ScheduleFile {
+  const limits = input.limits ?? numericAcceptanceLimits(input.plan);
   const { plan, table, check } = input;
   validateGainTable(table);
   const inserted = input.insertedByRefinement ?? table.speeds_mps.map(() => false);
@@ -197,19 +201,14 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
       range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps },
       gridSpeeds: plan.check.gridSpeeds,
       gridSize: check.points.length,
-      thresholds: planThresholds(plan),
+      thresholds: limits.thresholds,
       worst,
       failedSpeeds: check.failedCount,
       failures: failingSpeeds(check.points, LISTED_FAILURES),
       insertions: (input.insertions ?? []).map((insertion) => ({ speed_mps: insertion.speed_mps, reason: insertion.reason })),
       timeDomain: {
         passed: timeDomainFailures.length === 0,
-        limits: {
-          maximumOvershoot_pct: plan.acceptance.maximumOvershoot_pct,
-          maximumRecoveryTime_s: plan.acceptance.maximumRecoveryTime_s,
-          maximumLaneChangeError_m: plan.acceptance.maximumLaneChangeError_m,
-          maximumCurveEntryError_m: plan.acceptance.maximumCurveEntryError_m,
-        },
+        limits: limits.timeDomain,
         steeringLimits: { maxSteerAngle_rad: input.integratorClamp_rad, maxSteerRate_radps: input.maxSteerRate_radps },
         failures: timeDomainFailures,
       },

@@ -38,17 +38,29 @@ const timeDomainFigures = {
   }),
   type: ['object', 'null'],
 };
+/** A limit: one number, or a table over speed (linear between its speeds; a plan's expression of speed at its check speeds). */
+const limit = {
+  oneOf: [
+    number,
+    {
+      type: 'object',
+      additionalProperties: false,
+      required: ['speeds_mps', 'values'],
+      properties: { speeds_mps: { type: 'array', minItems: 1, items: number }, values: { type: 'array', minItems: 1, items: number } },
+    },
+  ],
+} as const;
 const timeDomainLimits = object({
-  maximumOvershoot_pct: number,
-  maximumRecoveryTime_s: number,
-  maximumLaneChangeError_m: number,
-  maximumCurveEntryError_m: number,
+  maximumOvershoot_pct: limit,
+  maximumRecoveryTime_s: limit,
+  maximumLaneChangeError_m: limit,
+  maximumCurveEntryError_m: limit,
 });
 
 export const SCHEDULE_SCHEMA = object(
   {
     format: { const: 'speedband-schedule' },
-    formatVersion: { const: 3 },
+    formatVersion: { const: 4 },
     status: { enum: ['passed', 'failed'] },
     vehicle: object({ name: text, file: text, sha256 }),
     loop: object(
@@ -130,12 +142,12 @@ export const SCHEDULE_SCHEMA = object(
         gridSpeeds: { type: 'integer', minimum: 2 },
         gridSize: { type: 'integer', minimum: 1 },
         thresholds: object({
-          maximumLowerGainMargin_dB: number,
-          minimumUpperGainMargin_dB: number,
-          minimumPhaseMargin_deg: number,
-          maximumSensitivityPeak: number,
-          maximumComplementarySensitivityPeak: number,
-          minimumDelayMargin_s: number,
+          maximumLowerGainMargin_dB: limit,
+          minimumUpperGainMargin_dB: limit,
+          minimumPhaseMargin_deg: limit,
+          maximumSensitivityPeak: limit,
+          maximumComplementarySensitivityPeak: limit,
+          minimumDelayMargin_s: limit,
         }),
         worst: object({
           lowerGainMargin_dB: worstValue,
@@ -156,7 +168,7 @@ export const SCHEDULE_SCHEMA = object(
         }),
         scenarios: object({
           passed: { type: 'boolean' },
-          limits: object({ ...timeDomainLimits.properties, maximumSpeedChangeError: number }),
+          limits: object({ ...timeDomainLimits.properties, maximumSpeedChangeError: limit }),
           model: text,
           speeds_mps: { type: 'array', items: number },
           scenarios: { type: 'array', items: text },

@@ -3,6 +3,7 @@
  * What firmware needs (docs/domain.md §7): breakpoints and gains, the exact controller equation,
  * interpolation and out-of-range behaviour, limits, units, proven margins, provenance, checksum.
  */
+import type { OverSpeed } from '../core/by-speed.js';
 import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
 import type { TimeDomainFigures, TimeDomainLimits } from '../performance/types.js';
@@ -13,11 +14,12 @@ import type { ScheduleVariations } from './schedule-variations.js';
 
 export const SCHEDULE_FORMAT = 'speedband-schedule';
 /**
- * 3: set-point weights, feed-forward and time-domain figures per breakpoint, Mt and the time-domain limits
+ * 4: each acceptance limit in the check (thresholds, time-domain and scenario limits) one number or a table over
+ * speed (a plan's expression of speed at its check speeds); 3: set-point weights, feed-forward and time-domain figures per breakpoint, Mt and the time-domain limits
  * in the check (version 2 had none of them); 2: the checksum covers every field (version 1 covered the
  * table and controller settings only).
  */
-export const SCHEDULE_FORMAT_VERSION = 3;
+export const SCHEDULE_FORMAT_VERSION = 4;
 
 /** Margins proven at one breakpoint (from LoopMargins; null where there is no such crossing). */
 export interface BreakpointMargins {
@@ -109,7 +111,8 @@ export interface ScheduleCheck {
   readonly gridSpeeds: number;
   /** Speeds actually checked (density plus breakpoints and midpoints). */
   readonly gridSize: number;
-  readonly thresholds: AcceptanceThresholds;
+  /** The frequency-domain limits every checked speed met or broke: numbers, or tables over speed (a plan's expressions at its check speeds, src/schedule/acceptance-limits.ts). */
+  readonly thresholds: OverSpeed<AcceptanceThresholds>;
   readonly worst: WorstMargins;
   readonly failedSpeeds: number;
   /** The first failing speeds (at most 100), with what failed. */
@@ -119,7 +122,7 @@ export interface ScheduleCheck {
   /** The time-domain limits at every breakpoint. */
   readonly timeDomain: {
     readonly passed: boolean;
-    readonly limits: TimeDomainLimits;
+    readonly limits: OverSpeed<TimeDomainLimits>;
     /** The vehicle's steering limits the figures were computed against (actuator room, steps through the limits). */
     readonly steeringLimits: { readonly maxSteerAngle_rad: number; readonly maxSteerRate_radps: number };
     readonly failures: readonly { readonly speed_mps: number; readonly messages: readonly string[] }[];
@@ -146,7 +149,7 @@ export interface SpeedChangeCertificate {
 export interface ScheduleScenarioCheck {
   readonly passed: boolean;
   /** The time-domain limits and the speed-change error limit in the loop's unit (maximumSpeedChangeError). */
-  readonly limits: ScenarioLimits;
+  readonly limits: OverSpeed<ScenarioLimits>;
   /** The model the scenarios ran on, in words. */
   readonly model: string;
   /** Speeds of the per-speed scenarios (the breakpoints and low, middle and top speed), m/s. */

@@ -6,11 +6,12 @@
  * range where it is evaluated. Errors name the plan field (JSON path), the expression and, for a value out
  * of range, the speed.
  */
+import { valueAtSpeed } from '../core/by-speed.js';
 import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
 import { compileSpeedExpression } from '../core/speed-expression.js';
 import { planReferenceHint } from './plan-reference-path.js';
-import type { SpeedTable, SpeedVarying } from './plan.js';
+import type { SpeedVarying } from './plan.js';
 
 /** What values a field takes: the range in words (for the error) and the test. */
 export interface ValueRange {
@@ -19,19 +20,6 @@ export interface ValueRange {
 }
 
 export const POSITIVE: ValueRange = { words: 'a positive number', holds: (value) => value > 0 };
-
-/** A number or speed table at a speed (m/s): a table is linear between its speeds, its end values held beyond them. */
-export function valueAtSpeed(value: number | SpeedTable, speed_mps: number): number {
-  if (typeof value === 'number') return value;
-  const { speeds_mps: speeds, values } = value;
-  if (speed_mps <= speeds[0]) return values[0];
-  const last = speeds.length - 1;
-  if (speed_mps >= speeds[last]) return values[last];
-  let k = 0;
-  while (speeds[k + 1] < speed_mps) k += 1;
-  const t = (speed_mps - speeds[k]) / (speeds[k + 1] - speeds[k]);
-  return values[k] + t * (values[k + 1] - values[k]);
-}
 
 const shown = (value: number): string => String(Number(value.toPrecision(6)));
 

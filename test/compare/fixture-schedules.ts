@@ -7,7 +7,8 @@ import { sha256Hex } from '../../src/core/files.js';
 import { denseCheck } from '../../src/schedule/dense-check.js';
 import { checkGrid } from '../../src/schedule/grid.js';
 import { makeGainLookup } from '../../src/schedule/interpolate.js';
-import { planThresholds, resolvePlan, type PartialPlan } from '../../src/schedule/plan.js';
+import { resolvePlan, type PartialPlan } from '../../src/schedule/plan.js';
+import { numericAcceptanceLimits } from '../../src/schedule/acceptance-limits.js';
 import { assembleSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import type { GainTable } from '../../src/schedule/types.js';
@@ -58,7 +59,7 @@ export function fixtureSchedule(options: FixtureOptions = {}): ScheduleFile {
     grid: checkGrid(speeds, plan.speeds, plan.check.gridSpeeds),
     gainsAt: makeGainLookup(table, { interpolation: plan.interpolation, lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps }),
     analyse: integratorLoopMargins,
-    thresholds: planThresholds(plan),
+    thresholds: numericAcceptanceLimits(plan).thresholds,
   });
   return assembleSchedule({
     vehicle: { name: options.vehicleName ?? 'parcel-van (synthetic)', file: 'vehicle.json', sha256: sha256Hex('synthetic vehicle') },

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { PLAN_DEFAULTS, planScenarioLimits, resolvePlan } from '../../src/schedule/plan.js';
+import { ACCEPTANCE_DEFAULTS, resolvePlan } from '../../src/schedule/plan.js';
+import { numericAcceptanceLimits } from '../../src/schedule/acceptance-limits.js';
 import { judgeScenarioRun } from '../../src/performance/scenario-limits.js';
 import type { ScenarioMetrics } from '../../src/performance/scenario-metrics.js';
 import { rampScenario } from '../../src/performance/scenario-catalogue.js';
@@ -20,15 +21,13 @@ const calm: ScenarioMetrics = {
   peakLateralAcceleration_mps2: 1,
   limitCycle: null,
 };
-const limits = { ...PLAN_DEFAULTS.acceptance, maximumSpeedChangeError: 0.05 };
+const limits = { ...ACCEPTANCE_DEFAULTS, maximumSpeedChangeError: 0.05 };
 
 describe('judgeScenarioRun', () => {
   it('passes a calm run and names speed, scenario and metric of every limit broken', () => {
-    expect(judgeScenarioRun('small-step', 5, calm, limits, 'heading')).toEqual([]);
+    expect(judgeScenarioRun({ scenario: 'small-step', speed_mps: 5, metrics: calm }, limits, 'heading')).toEqual([]);
     const failures = judgeScenarioRun(
-      'large-step',
-      3,
-      { ...calm, overshoot_pct: 40, settlingTime_s: null, limitCycle: { amplitude: 0.05, period_s: 2.4 } },
+      { scenario: 'large-step', speed_mps: 3, metrics: { ...calm, overshoot_pct: 40, settlingTime_s: null, limitCycle: { amplitude: 0.05, period_s: 2.4 } } },
       limits,
       'heading',
     );
@@ -41,22 +40,24 @@ describe('judgeScenarioRun', () => {
   });
 
   it('judges recoveries against the recovery limit, the lane change (path loop only) and the error while the speed changes', () => {
-    expect(judgeScenarioRun('misalignment', 2, { ...calm, settlingTime_s: 16 }, limits, 'path')[0].message).toBe(
+    expect(judgeScenarioRun({ scenario: 'misalignment', speed_mps: 2, metrics: { ...calm, settlingTime_s: 16 } }, limits, 'path')[0].message).toBe(
       'misalignment at 2.00 m/s: removed to 5 % in 16 s, needs ≤ 15 s',
     );
-    expect(judgeScenarioRun('lane-change', 9, { ...calm, peakError: 0.6 }, limits, 'path').map((f) => f.metric)).toEqual(['peakError']);
-    expect(judgeScenarioRun('lane-change', 9, { ...calm, peakError: 0.6 }, limits, 'heading')).toEqual([]);
-    expect(judgeScenarioRun('braking-in-curve', 25, { ...calm, peakError: 0.06 }, limits, 'heading')[0].message).toBe(
+    expect(judgeScenarioRun({ scenario: 'lane-change', speed_mps: 9, metrics: { ...calm, peakError: 0.6 } }, limits, 'path').map((f) => f.metric)).toEqual([
+      'peakError',
+    ]);
+    expect(judgeScenarioRun({ scenario: 'lane-change', speed_mps: 9, metrics: { ...calm, peakError: 0.6 } }, limits, 'heading')).toEqual([]);
+    expect(judgeScenarioRun({ scenario: 'braking-in-curve', speed_mps: 25, metrics: { ...calm, peakError: 0.06 } }, limits, 'heading')[0].message).toBe(
       'braking-in-curve at 25.00 m/s: error 0.06 rad while the speed changes, needs ≤ 0.05 rad',
     );
   });
 
   it("takes the speed-change limit of the plan in the loop's unit", () => {
-    expect(planScenarioLimits(resolvePlan({ loop: { kind: 'path' } })).maximumSpeedChangeError).toBe(0.3);
-    expect(planScenarioLimits(resolvePlan({ loop: { kind: 'heading' }, acceptance: { maximumSpeedChangeError_rad: 0.02 } })).maximumSpeedChangeError).toBe(
-      0.02,
-    );
-    expect(planScenarioLimits(resolvePlan({})).maximumSpeedChangeError).toBe(0.05);
+    expect(numericAcceptanceLimits(resolvePlan({ loop: { kind: 'path' } })).scenarios.maximumSpeedChangeError).toBe(0.3);
+    expect(
+      numericAcceptanceLimits(resolvePlan({ loop: { kind: 'heading' }, acceptance: { maximumSpeedChangeError_rad: 0.02 } })).scenarios.maximumSpeedChangeError,
+    ).toBe(0.02);
+    expect(numericAcceptanceLimits(resolvePlan({})).scenarios.maximumSpeedChangeError).toBe(0.05);
   });
 });
 

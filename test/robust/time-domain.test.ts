@@ -16,18 +16,18 @@ import type { TimeDomainFigures } from '../../src/performance/types.js';
 import { TIME_DOMAIN_FIGURES } from '../../src/robust/time-domain.js';
 import type { Combination } from '../../src/robust/types.js';
 import { operatingPointWith } from '../../src/robust/variation-set.js';
-import { PLAN_DEFAULTS } from '../../src/schedule/plan.js';
+import { ACCEPTANCE_DEFAULTS } from '../../src/schedule/plan.js';
 import type { WrittenVariations } from '../../src/schedule/plan-variations.js';
 import { tuneOperatingPoint } from '../../src/tuning/operating-point.js';
 import { CONTROLLER, VAN_MODEL, vanContext } from './van-loop.js';
 
 const HEADING = { kind: 'heading' as const };
 // The parcel van's steering limits (vehicles/parcel-van/vehicle.json: invented demo data).
-const SETTINGS: TimeDomainSettings = {
-  limits: PLAN_DEFAULTS.acceptance,
+const SETTINGS = {
+  limits: ACCEPTANCE_DEFAULTS,
   vehicleLimits: { maxSteerAngle_rad: 0.6, maxSteerRate_radps: 0.5 },
   antiWindup: 'conditional-integration',
-};
+} satisfies TimeDomainSettings;
 
 function headingContext(written: WrittenVariations): RobustContext {
   return { ...vanContext(written, { samples: 6, localSearchEvaluations: 6 }), loop: HEADING };
@@ -88,13 +88,14 @@ describe('time-domain figures over the set at a breakpoint', () => {
     const context = headingContext({});
     const point = worstCaseMarginsAt(15, control.gains, context);
     // Tight limits, so that some figures fail: the same count as the nominal judge finds.
-    const tight: TimeDomainSettings = { ...SETTINGS, limits: { ...SETTINGS.limits, maximumOvershoot_pct: 1, maximumRecoveryTime_s: 1 } };
+    const tightLimits = { ...SETTINGS.limits, maximumOvershoot_pct: 1, maximumRecoveryTime_s: 1 };
+    const tight: TimeDomainSettings = { ...SETTINGS, limits: tightLimits };
     const found = worstTimeDomainAt(point, control, context, tight)!;
     expect(found.vehicles).toBe(1);
     for (const definition of TIME_DOMAIN_FIGURES) {
       expect(found.worst[definition.name]?.value ?? undefined, definition.name).toEqual(definition.value(nominal));
     }
-    const judged = judgeTimeDomain(nominal, tight.limits, 'heading');
+    const judged = judgeTimeDomain(nominal, tightLimits, 'heading');
     expect(judged.length).toBeGreaterThan(0);
     expect(found.failures).toHaveLength(judged.length);
     expect(found.failures.every((message) => message.endsWith('(worst case: the nominal vehicle)'))).toBe(true);

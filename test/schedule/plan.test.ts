@@ -1,10 +1,11 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
+import { numericAcceptanceLimits } from '../../src/schedule/acceptance-limits.js';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { RULE_NAMES } from '../../src/tuning/registry.js';
 import { PLAN_SCHEMA } from '../../src/schedule/plan-schema.js';
-import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planThresholds, readPlan, resolvePlan } from '../../src/schedule/plan.js';
+import { PLAN_DEFAULTS, planBreakpoints, planFromJson, readPlan, resolvePlan } from '../../src/schedule/plan.js';
 import { makeRuleParameterLookup } from '../../src/schedule/rule-parameters.js';
 
 describe('resolvePlan(partial)', () => {
@@ -41,7 +42,7 @@ describe('resolvePlan(partial)', () => {
   it('required delay margin is latency plus half a sample (zero-order hold) plus room', () => {
     // Source: docs/domain.md §5 — a zero-order hold adds about Ts/2 of delay; delay margin above the latency with room (common practice).
     const plan = resolvePlan({ controller: { sampleTime_s: 0.02, computationLatency_s: 0.004 }, acceptance: { delayMarginRoom_s: 0.03 } });
-    expect(planThresholds(plan).minimumDelayMargin_s).toBeCloseTo(0.004 + 0.01 + 0.03, 15);
+    expect(numericAcceptanceLimits(plan).thresholds.minimumDelayMargin_s).toBeCloseTo(0.004 + 0.01 + 0.03, 15);
   });
 });
 

@@ -6,7 +6,8 @@ import { sha256Hex } from '../../src/core/files.js';
 import { denseCheck } from '../../src/schedule/dense-check.js';
 import { checkGrid } from '../../src/schedule/grid.js';
 import { makeGainLookup } from '../../src/schedule/interpolate.js';
-import { planThresholds, resolvePlan, type PartialPlan } from '../../src/schedule/plan.js';
+import { resolvePlan, type PartialPlan } from '../../src/schedule/plan.js';
+import { numericAcceptanceLimits } from '../../src/schedule/acceptance-limits.js';
 import { assembleSchedule, type BreakpointExtras } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import type { GainTable } from '../../src/schedule/types.js';
@@ -46,7 +47,7 @@ export function sampleSchedule(overrides: PartialPlan = {}): ScheduleFile {
     grid: checkGrid(speeds, plan.speeds, plan.check.gridSpeeds),
     gainsAt: makeGainLookup(table, { interpolation: plan.interpolation, lowSpeedFloor_mps: plan.speeds.lowSpeedFloor_mps }),
     analyse: integratorLoopMargins,
-    thresholds: planThresholds(plan),
+    thresholds: numericAcceptanceLimits(plan).thresholds,
   });
   return assembleSchedule({
     vehicle: { name: 'parcel-van (synthetic)', file: '/somewhere/vehicles/parcel-van/vehicle.json', sha256: sha256Hex('synthetic vehicle') },

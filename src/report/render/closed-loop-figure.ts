@@ -4,6 +4,7 @@
  * recovery band and limit, the path loop's lane change and curve entry against their limits, and the steering
  * angle and rate against the vehicle's limits.
  */
+import { atSpeed as readAtSpeed } from '../../core/by-speed.js';
 import type { ClosedLoopTraces, ClosedLoopTracesAtSpeed, ReportData, TraceSignal } from '../types.js';
 import { renderFigure, type RenderContext } from './figure.js';
 import { fixedNumber, numberCell, shownNumber, textCell, type Cell } from './html.js';
@@ -83,7 +84,8 @@ function steeringPanel(
 
 export function tracesFigure(data: ReportData, traces: ClosedLoopTraces, at: ClosedLoopTracesAtSpeed, context: RenderContext): string {
   const { schedule } = data;
-  const { limits, steeringLimits } = schedule.check.timeDomain;
+  const { steeringLimits } = schedule.check.timeDomain;
+  const limits = readAtSpeed(schedule.check.timeDomain.limits, at.speed_mps);
   const speed = `${fixedNumber(at.speed_mps, 2)} m/s`;
   const unit = traces.errorUnit;
   const panels: PlotSpec[] = [];

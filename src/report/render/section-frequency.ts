@@ -4,6 +4,7 @@
  * circle of radius 1/Ms,max about −1: inside it |1 + L| < 1/Ms,max). With a baseline, the old gains on
  * the new vehicle beside the new ones.
  */
+import { valueAtSpeed } from '../../core/by-speed.js';
 import type { FrequencyResponseAtSpeed, LoopResponse, ReportData } from '../types.js';
 import { renderFigure, type RenderContext } from './figure.js';
 import { fixedNumber, numberCell, shownNumber } from './html.js';
@@ -155,7 +156,7 @@ function figureOf(entry: FrequencyResponseAtSpeed, data: ReportData, context: Re
     {
       id: `figure-loop-${context.ids.next('speed')}`,
       caption: `Open loop at ${speed} m/s (${entry.reason}): Bode and Nyquist plots.`,
-      panels: [...bodePanels(series, speed), nyquistPanel(series, speed, data.schedule.check.thresholds.maximumSensitivityPeak)],
+      panels: [...bodePanels(series, speed), nyquistPanel(series, speed, valueAtSpeed(data.schedule.check.thresholds.maximumSensitivityPeak, entry.speed_mps))],
       notes: [
         `New gains kp ${shownNumber(r.gains.kp)}, ki ${shownNumber(r.gains.ki)}, kd ${shownNumber(r.gains.kd)}: phase margin ${fixedNumber(m.phaseMargin_deg, 1)}° at ${shownNumber(m.phaseMarginFrequency_radps, 3)} rad/s, upper gain margin ${fixedNumber(m.upperGainMargin_dB, 2)} dB at ${shownNumber(m.upperGainMarginFrequency_radps, 3)} rad/s, Ms ${shownNumber(m.sensitivityPeak, 3)}, Mt ${shownNumber(m.complementarySensitivityPeak, 3)}; closed loop ${m.verdict}.`,
         ...(entry.old === null

@@ -4,11 +4,13 @@
  * marked, and with a baseline the old gains on the new vehicle. A figure no speed has (no lower gain margin
  * on a loop that is not conditionally stable) is said in words, not drawn empty.
  */
+import type { NumberOverSpeed } from '../../core/by-speed.js';
 import type { ReportCheck, ReportData } from '../types.js';
 import type { CheckCriterion } from '../../schedule/types.js';
 import { renderFigure, type RenderContext } from './figure.js';
 import { escapeHtml, fixedNumber, numberCell, shownNumber, textCell } from './html.js';
 import { ROLE_COLOURS } from './palette.js';
+import { limitMarks } from './limit-marks.js';
 import type { Mark, PlotSpec } from './plot-types.js';
 
 type Figure = 'phaseMargin_deg' | 'upperGainMargin_dB' | 'lowerGainMargin_dB' | 'delayMargin_s' | 'sensitivityPeak' | 'complementarySensitivityPeak';
@@ -21,7 +23,7 @@ interface FigureWords {
   readonly axis?: string;
   readonly unit: string;
   /** The limit and which side of it fails. */
-  readonly limit: (data: ReportData) => { value: number; failsBelow: boolean };
+  readonly limit: (data: ReportData) => { value: NumberOverSpeed; failsBelow: boolean };
 }
 
 const FIGURES: readonly FigureWords[] = [
@@ -80,24 +82,21 @@ function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
   const any = (c: ReportCheck | null) => c?.points.some((point) => point.margins[figure.field] !== null);
   const atBreakpoints = schedule.breakpoints.map((b) => b.margins[figure.field]);
   if (!any(check) && !any(old) && atBreakpoints.every((value) => value === null)) return null;
-  const limit = figure.limit(data);
+  const written = figure.limit(data);
+  const drawn = limitMarks(
+    written.value,
+    written.failsBelow,
+    (value, varies) =>
+      `beyond the limit${varies ? ' at every speed' : ''} (${figure.name} ${written.failsBelow ? '<' : '>'} ${shownNumber(value)}${figure.unit === '' ? '' : ` ${figure.unit}`})`,
+  );
+  const limit = { value: drawn.value, failsBelow: written.failsBelow };
   // Room beyond the limit so that the shaded side shows even when every value is far from it.
   const shown = [...(check === null ? [] : values(check, figure.field)), ...(old === null ? [] : values(old, figure.field)), ...atBreakpoints].filter(
     (value): value is number => value !== null,
   );
   const span = Math.max(...shown.map((value) => Math.abs(value - limit.value)), 1e-9);
   const room = limit.value + (limit.failsBelow ? -0.12 : 0.12) * span;
-  const marks: Mark[] = [
-    {
-      kind: 'region',
-      label: `beyond the limit (${figure.name} ${limit.failsBelow ? '<' : '>'} ${shownNumber(limit.value)}${figure.unit === '' ? '' : ` ${figure.unit}`})`,
-      axis: 'y',
-      from: limit.failsBelow ? 'min' : limit.value,
-      to: limit.failsBelow ? limit.value : 'max',
-      colour: ROLE_COLOURS.failure,
-    },
-    { kind: 'rule', label: 'limit', axis: 'y', at: limit.value, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } },
-  ];
+  const marks: Mark[] = [...drawn.marks];
   if (check !== null) {
     marks.push({
       kind: 'line',

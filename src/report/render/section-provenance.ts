@@ -1,8 +1,12 @@
 /** The record behind the schedule: tool versions, checksum, every input with its SHA-256, the model, the rule, the controller equation, the limits, the plan. */
+import { overSpeedText } from '../../core/by-speed.js';
 import type { ReportData } from '../types.js';
 import { escapeHtml, fixedNumber, htmlTable, numberCell, shownNumber, textCell, type Cell } from './html.js';
 
 /** A record's fields as rows sorted by name (the same order however the record was built); numbers exact in `<data>`, nested values as JSON text. */
+/** A limit in words: the number, or its range when it varies with speed. */
+const limitWords = (value: Parameters<typeof overSpeedText>[0]): string => overSpeedText(value, (v) => shownNumber(v));
+
 function recordRows(record: Readonly<Record<string, unknown>>): Cell[][] {
   return Object.entries(record)
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
@@ -27,7 +31,7 @@ export function renderProvenanceSection(data: ReportData): string {
     `<dt>Controller the gains assume</dt><dd>${escapeHtml(controller.form)} PID, ${escapeHtml(controller.discretisation)} at ${shownNumber(controller.sampleTime_s)} s, computation latency ${shownNumber(controller.computationLatency_s)} s, derivative filter N = ${shownNumber(controller.derivativeFilter)}, integrator clamped to ±${shownNumber(controller.integratorClamp_rad)} rad.<br>`,
     `<span class="mono">${escapeHtml(controller.equation)}</span><br>${controller.update.map((line) => `<span class="mono">${escapeHtml(line)}</span>`).join('<br>')}<br>${escapeHtml(controller.integration)}</dd>`,
     `<dt>Interpolation</dt><dd>${escapeHtml(schedule.interpolation.description)}</dd>`,
-    `<dt>Acceptance limits</dt><dd>lower gain margin ≤ ${shownNumber(limits.maximumLowerGainMargin_dB)} dB, upper gain margin ≥ ${shownNumber(limits.minimumUpperGainMargin_dB)} dB, phase margin ≥ ${shownNumber(limits.minimumPhaseMargin_deg)}°, peak sensitivity ≤ ${shownNumber(limits.maximumSensitivityPeak)}, delay margin ≥ ${shownNumber(limits.minimumDelayMargin_s)} s</dd>`,
+    `<dt>Acceptance limits</dt><dd>lower gain margin ≤ ${limitWords(limits.maximumLowerGainMargin_dB)} dB, upper gain margin ≥ ${limitWords(limits.minimumUpperGainMargin_dB)} dB, phase margin ≥ ${limitWords(limits.minimumPhaseMargin_deg)}°, peak sensitivity ≤ ${limitWords(limits.maximumSensitivityPeak)}, peak complementary sensitivity ≤ ${limitWords(limits.maximumComplementarySensitivityPeak)}, delay margin ≥ ${limitWords(limits.minimumDelayMargin_s)} s</dd>`,
     ...(data.models === null
       ? []
       : [

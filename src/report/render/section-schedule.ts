@@ -1,4 +1,5 @@
 /** The schedule's own record as tables: breakpoints with gains and proven margins, the worst figures of the dense check and where it fails. */
+import { valueAtSpeed, type NumberOverSpeed } from '../../core/by-speed.js';
 import type { ScheduleFile } from '../../schedule/schedule-types.js';
 import type { ReportData } from '../types.js';
 import { escapeHtml, fixedNumber, htmlTable, numberCell, shownNumber, textCell, type Cell } from './html.js';
@@ -34,8 +35,17 @@ export function breakpointTable(schedule: ScheduleFile): string {
 /** The worst figure of each margin over the check grid, with its speed and the limit. */
 export function worstTable(schedule: ScheduleFile): string {
   const { worst, thresholds } = schedule.check;
-  const row = (name: string, field: keyof typeof worst, unit: string, limit: number, limitWords: string, digits: (value: number) => string): Cell[] => {
+  // A limit that varies with speed is read where the worst figure is.
+  const row = (
+    name: string,
+    field: keyof typeof worst,
+    unit: string,
+    limitOverSpeed: NumberOverSpeed,
+    limitWords: string,
+    digits: (value: number) => string,
+  ): Cell[] => {
     const value = worst[field];
+    const limit = valueAtSpeed(limitOverSpeed, value?.speed_mps ?? schedule.check.range.minimum_mps);
     return [
       textCell(name),
       numberCell(value?.value ?? null, `${field}.value`, value === null ? undefined : digits(value.value)),

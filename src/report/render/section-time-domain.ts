@@ -5,6 +5,8 @@
  * through the steering limits), the disturbances, the path loop's lane change and curve entry, and the
  * steering angle and rate against the vehicle's limits.
  */
+import { overSpeedText, type NumberOverSpeed } from '../../core/by-speed.js';
+import { limitMarks } from './limit-marks.js';
 import type { ScheduleFile } from '../../schedule/schedule-types.js';
 import type { RobustTimeDomainFigure } from '../../schedule/variation-types.js';
 import type { ReportData } from '../types.js';
@@ -56,13 +58,13 @@ export function timeDomainTable(schedule: ScheduleFile): string {
   const { limits } = schedule.check.timeDomain;
   const pathLimits =
     schedule.loop.kind === 'path'
-      ? `, lane-change error ≤ ${shownNumber(limits.maximumLaneChangeError_m)} m, curve-entry error ≤ ${shownNumber(limits.maximumCurveEntryError_m)} m`
+      ? `, lane-change error ≤ ${limitWords(limits.maximumLaneChangeError_m)} m, curve-entry error ≤ ${limitWords(limits.maximumCurveEntryError_m)} m`
       : '';
   return htmlTable({
     id: 'time-domain-table',
     caption:
       `Set-point weights b and c, feed-forward and the time-domain figures at each breakpoint (— where the loop is not stable or a figure is not reached in the simulated time); ` +
-      `limits: overshoot ≤ ${shownNumber(limits.maximumOvershoot_pct)} %, recovery ≤ ${shownNumber(limits.maximumRecoveryTime_s)} s${pathLimits}`,
+      `limits: overshoot ≤ ${limitWords(limits.maximumOvershoot_pct)} %, recovery ≤ ${limitWords(limits.maximumRecoveryTime_s)} s${pathLimits}`,
     header: ['speed m/s', 'b', 'c', `feed-forward ${schedule.units.feedForward}`, 'lead s', ...shown.map((column) => column.header), 'limited by'],
     rows,
   });
@@ -71,7 +73,8 @@ export function timeDomainTable(schedule: ScheduleFile): string {
 interface FigureAgainstSpeed {
   readonly name: string;
   readonly unit: string;
-  readonly limit: number;
+  /** The limit (at most), one number or a table over speed. */
+  readonly limit: NumberOverSpeed;
   readonly series: readonly {
     readonly label: string;
     readonly look: Look;
@@ -142,13 +145,14 @@ function figuresAgainstSpeed(schedule: ScheduleFile, old: readonly (Figures | nu
 /** Markers of the old gains' series, by the series' place in its panel (all in the baseline's colour). */
 const OLD_SHAPES = ['open-circle', 'plus', 'cross'] as const;
 
+/** A limit in words: the number, or its range when it varies with speed. */
+const limitWords = (value: NumberOverSpeed): string => overSpeedText(value, (v) => shownNumber(v));
+
 /** One figure against speed. */
 function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpec {
   const speeds = schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps);
-  const marks: Mark[] = [
-    { kind: 'region', label: 'beyond the limit', axis: 'y', from: figure.limit, to: 'max', colour: ROLE_COLOURS.failure },
-    { kind: 'rule', label: 'limit', axis: 'y', at: figure.limit, style: { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } },
-  ];
+  const drawn = limitMarks(figure.limit, false, (_, varies) => `beyond the limit${varies ? ' at every speed' : ''}`);
+  const marks: Mark[] = [...drawn.marks];
   figure.series.forEach((series, k) => {
     if (series.worst?.some((value) => value !== null)) {
       const speedsOfSet = schedule.variations?.breakpoints.map((b) => b.speed_mps) ?? speeds;
@@ -187,9 +191,9 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
   });
   return {
     title: `${figure.name} against speed`,
-    description: `${figure.name} of the sampled closed loop at each breakpoint against speed, ${figure.unit}, with the limit ${shownNumber(figure.limit)} ${figure.unit} (at most) and the side beyond it shaded`,
+    description: `${figure.name} of the sampled closed loop at each breakpoint against speed, ${figure.unit}, with the limit ${overSpeedText(figure.limit, (v) => shownNumber(v))} ${figure.unit} (at most) and the side beyond it shaded`,
     x: { label: 'speed, m/s', domain: [schedule.check.range.minimum_mps, schedule.check.range.maximum_mps] },
-    y: { label: `${figure.name}, ${figure.unit}`, include: [0, figure.limit * 1.1] },
+    y: { label: `${figure.name}, ${figure.unit}`, include: [0, drawn.value * 1.1] },
     marks,
     width: 420,
     height: 220,

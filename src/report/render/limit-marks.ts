@@ -1,0 +1,39 @@
+/**
+ * A limit drawn on a plot against speed: the side beyond it shaded and the limit itself dashed — a horizontal
+ * rule for one number, a line over speed for a limit that varies with speed (a table,
+ * src/schedule/acceptance-limits.ts), whose shading then covers only what is beyond it at every speed.
+ */
+import type { NumberOverSpeed } from '../../core/by-speed.js';
+import { ROLE_COLOURS } from './palette.js';
+import type { Mark } from './plot-types.js';
+
+export interface LimitOnPlot {
+  /** The limit where it demands least (the number itself when it does not vary): the edge of the shading. */
+  readonly value: number;
+  readonly varies: boolean;
+  readonly marks: Mark[];
+}
+
+/** `failsBelow`: figures under the limit break it (margins); else figures over it do (peaks, errors, times). */
+export function limitMarks(limit: NumberOverSpeed, failsBelow: boolean, regionLabel: (value: number, varies: boolean) => string): LimitOnPlot {
+  const varies = typeof limit !== 'number';
+  const value = typeof limit === 'number' ? limit : failsBelow ? Math.min(...limit.values) : Math.max(...limit.values);
+  const style = { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } as const;
+  return {
+    value,
+    varies,
+    marks: [
+      {
+        kind: 'region',
+        label: regionLabel(value, varies),
+        axis: 'y',
+        from: failsBelow ? 'min' : value,
+        to: failsBelow ? value : 'max',
+        colour: ROLE_COLOURS.failure,
+      },
+      typeof limit === 'number'
+        ? { kind: 'rule', label: 'limit', axis: 'y', at: limit, style }
+        : { kind: 'line', label: 'limit (varies with speed)', x: [...limit.speeds_mps], y: [...limit.values], style },
+    ],
+  };
+}
