@@ -126,22 +126,6 @@ export type PartialPlan = {
         : Partial<Plan[K]>;
 } & { readonly $schema?: string; readonly description?: string };
 
-/**
- * Defaults, in one place. Sources: acceptance limits common practice (docs/domain.md §5: GM ≥ 6 dB both ways,
- * PM ≥ 45°, Ms ≤ 2; Åström & Hägglund 2006, Advanced PID Control, §4.8, give Ms 1.2–2 as the usual range); Mt ≤ 2
- * (6 dB), the same bound as Ms — Skogestad & Postlethwaite (2005, Multivariable Feedback Control, §2.4.3)
- * suggest about 1.25 for a well-damped reference response (from memory); the overshoot limit judges that
- * directly; overshoot ≤ 25 % (common practice); disturbances removed to 5 % within 15 s, a lane-change
- * error ≤ 0.5 m (half the clearance of a 2.5 m wide vehicle in a 3.5 m lane) and a curve-entry error
- * ≤ 0.3 m 3 s after entry (our choices, the product's targets for lateral control); while the speed changes
- * through the range in a curve, an error ≤ 0.3 m (path: the curve-entry limit), ≤ 0.05 rad ≈ 3° (heading) or
- * ≤ 0.05 rad/s (yaw rate) (our choices), and no sustained oscillation in any scenario (common practice); derivative filter
- * N = 10 common practice; backward Euler because its derivative-filter pole stays in [0, 1); conditional
- * integration (Åström & Hägglund 2006, §3.5: no parameter to tune). The rule per loop kind: DEFAULT_RULES.
- * Our choices: speed range 1–20 m/s (the test speeds when there are any) with the floor at its bottom, 6 geometric breakpoints (gains change
- * fastest at low speed), 100 Hz firmware (or the vehicle file's sample time) with one sample of computation latency, 20 ms delay-margin
- * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
- */
 /** The acceptance limits when the plan gives none (sources: PLAN_DEFAULTS). */
 export const ACCEPTANCE_DEFAULTS: AcceptanceAtSpeed = {
   maximumLowerGainMargin_dB: -6,
@@ -159,6 +143,22 @@ export const ACCEPTANCE_DEFAULTS: AcceptanceAtSpeed = {
   maximumSpeedChangeError_radps: 0.05,
 };
 
+/**
+ * Defaults, in one place. Sources: acceptance limits common practice (docs/domain.md §5: GM ≥ 6 dB both ways,
+ * PM ≥ 45°, Ms ≤ 2; Åström & Hägglund 2006, Advanced PID Control, §4.8, give Ms 1.2–2 as the usual range); Mt ≤ 2
+ * (6 dB), the same bound as Ms — Skogestad & Postlethwaite (2005, Multivariable Feedback Control, §2.4.3)
+ * suggest about 1.25 for a well-damped reference response (from memory); the overshoot limit judges that
+ * directly; overshoot ≤ 25 % (common practice); disturbances removed to 5 % within 15 s, a lane-change
+ * error ≤ 0.5 m (half the clearance of a 2.5 m wide vehicle in a 3.5 m lane) and a curve-entry error
+ * ≤ 0.3 m 3 s after entry (our choices, the product's targets for lateral control); while the speed changes
+ * through the range in a curve, an error ≤ 0.3 m (path: the curve-entry limit), ≤ 0.05 rad ≈ 3° (heading) or
+ * ≤ 0.05 rad/s (yaw rate) (our choices), and no sustained oscillation in any scenario (common practice); derivative filter
+ * N = 10 common practice; backward Euler because its derivative-filter pole stays in [0, 1); conditional
+ * integration (Åström & Hägglund 2006, §3.5: no parameter to tune). The rule per loop kind: DEFAULT_RULES.
+ * Our choices: speed range 1–20 m/s (the test speeds when there are any) with the floor at its bottom, 6 geometric breakpoints (gains change
+ * fastest at low speed), 100 Hz firmware (or the vehicle file's sample time) with one sample of computation latency, 20 ms delay-margin
+ * room, 200 check speeds, at most 8 inserted breakpoints, monotone cubic interpolation.
+ */
 export const PLAN_DEFAULTS: Plan = {
   loop: { kind: 'yaw-rate', preview_m: 0, previewTime_s: 0, referencePoint: 'front-axle' },
   rule: { name: 'simc', parameters: {}, tuneFor: 'rule-parameters', searchOn: 'nominal' },
