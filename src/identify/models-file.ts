@@ -40,5 +40,5 @@ export function readModels(path: string): ModelsFile {
 
 /** Validate and write a models file atomically; a different existing file is replaced only with `force`. */
 export function writeModels(path: string, models: ModelsFile, force: boolean): WriteOutcome {
-  return writeFileAtomic(path, modelsToJson(models, path), force);
+  return writeFileAtomic(path, modelsToJson(models, path), { force });
 }

@@ -76,12 +76,12 @@ export async function runDemo(input: DemoInput): Promise<DemoResult> {
   files.push({
     path: headerPath,
     what: 'C99 header for firmware',
-    outcome: writeFileAtomic(headerPath, exportC(build.schedule, { fallback }).text, input.force),
+    outcome: writeFileAtomic(headerPath, exportC(build.schedule, { fallback }).text, { force: input.force }),
   });
   files.push({
     path: csvPath,
     what: 'breakpoints, gains and margins for a spreadsheet',
-    outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), input.force),
+    outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), { force: input.force }),
   });
   const model = recordedCheckModel(build.schedule);
   if (model === null) throw new SpeedbandError('internal', 'the demo schedule records no rebuildable model');

@@ -19,5 +19,5 @@ export async function writeReport(
   force: boolean,
 ): Promise<{ readonly outcome: WriteOutcome; readonly bytes: number; readonly sections: readonly string[] }> {
   const { html, sections } = await renderReportHtml(data);
-  return { outcome: writeFileAtomic(path, html, force), bytes: Buffer.byteLength(html, 'utf8'), sections };
+  return { outcome: writeFileAtomic(path, html, { force }), bytes: Buffer.byteLength(html, 'utf8'), sections };
 }

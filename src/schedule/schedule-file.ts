@@ -314,5 +314,5 @@ export function readSchedule(path: string): ScheduleFile {
  */
 export function writeSchedule(path: string, schedule: ScheduleFile, force: boolean): WriteOutcome {
   parseSchedule(JSON.parse(serialiseSchedule(schedule)), path);
-  return writeFileAtomic(path, serialiseSchedule(schedule), force);
+  return writeFileAtomic(path, serialiseSchedule(schedule), { force });
 }

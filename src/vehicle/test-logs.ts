@@ -257,7 +257,7 @@ export function writeTestLogs(vehicle: Vehicle, speeds_mps: readonly number[], o
   // Refuse before writing anything when one file would need --force.
   if (!force)
     for (const output of outputs)
-      if (existsSync(output.path) && readFileSync(output.path, 'utf8') !== output.content) writeFileAtomic(output.path, output.content, false);
-  const files = outputs.map((output) => ({ path: output.path, outcome: writeFileAtomic(output.path, output.content, force) }));
+      if (existsSync(output.path) && readFileSync(output.path, 'utf8') !== output.content) writeFileAtomic(output.path, output.content, { force: false });
+  const files = outputs.map((output) => ({ path: output.path, outcome: writeFileAtomic(output.path, output.content, { force }) }));
   return { logs, files };
 }

@@ -132,7 +132,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
         schedule.loop.kind,
         runs.map((r) => ({ scenario: r.scenario.name, startSpeed_mps: r.speed_mps, traces: r.traces })),
       ),
-      args.force,
+      { force: args.force },
     );
   }
   const unconverged = runs.filter((r) => !r.converged);
