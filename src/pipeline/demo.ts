@@ -69,7 +69,7 @@ export async function runDemo(input: DemoInput): Promise<DemoResult> {
   files.push({
     path: schedulePath,
     what: `gain schedule (status ${build.schedule.status})`,
-    outcome: writeSchedule(schedulePath, build.schedule, input.force),
+    outcome: writeSchedule(schedulePath, build.schedule, { force: input.force }),
   });
   const { loop, controller } = planLoopAndController(build.plan);
   const fallback = findFallbackGains(build.schedule, scheduleTable(build.schedule), makeLoopAnalysis(build.checkModel, loop, controller));

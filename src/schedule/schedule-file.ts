@@ -5,7 +5,7 @@
 import { basename } from 'node:path';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { SpeedbandError } from '../core/errors.js';
-import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { readTextFile, writeFileAtomic, type WriteOptions, type WriteOutcome } from '../core/files.js';
 import { validateScheduleFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import type { LoopMargins } from '../verify/types.js';
@@ -310,9 +310,9 @@ export function readSchedule(path: string): ScheduleFile {
 
 /**
  * Write schedule.json atomically (src/core/files.ts writeFileAtomic: an existing different file is
- * replaced only with `force`). The schedule is schema-checked and its checksum verified first.
+ * replaced only with `options.force`). The schedule is schema-checked and its checksum verified first.
  */
-export function writeSchedule(path: string, schedule: ScheduleFile, force: boolean): WriteOutcome {
+export function writeSchedule(path: string, schedule: ScheduleFile, options: WriteOptions): WriteOutcome {
   parseSchedule(JSON.parse(serialiseSchedule(schedule)), path);
-  return writeFileAtomic(path, serialiseSchedule(schedule), { force });
+  return writeFileAtomic(path, serialiseSchedule(schedule), options);
 }

@@ -120,7 +120,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   });
   const { schedule } = result;
   const written = schedule.status === 'passed' || args['allow-failing'];
-  const outcome = written ? writeSchedule(out, schedule, args.force) : null;
+  const outcome = written ? writeSchedule(out, schedule, { force: args.force }) : null;
   if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force);
   const baselineCheck = baselineSchedule === undefined ? undefined : await (await import('../../pipeline/baseline.js')).checkBaseline(baselineSchedule, result);
   const baseline =
