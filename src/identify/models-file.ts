@@ -1,5 +1,5 @@
 import { SpeedbandError } from '../core/errors.js';
-import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { readTextFile, writeFileAtomic, type WriteOptions, type WriteOutcome } from '../core/files.js';
 import { validateModelsFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, MODELS_SCHEMA, type ModelsFile } from './models-schema.js';
@@ -38,7 +38,7 @@ export function readModels(path: string): ModelsFile {
   return parseModels(readTextFile(path), path);
 }
 
-/** Validate and write a models file atomically; a different existing file is replaced only with `force`. */
-export function writeModels(path: string, models: ModelsFile, force: boolean): WriteOutcome {
-  return writeFileAtomic(path, modelsToJson(models, path), { force });
+/** Validate and write a models file atomically; a different existing file is replaced only with `options.force`. */
+export function writeModels(path: string, models: ModelsFile, options: WriteOptions): WriteOutcome {
+  return writeFileAtomic(path, modelsToJson(models, path), options);
 }

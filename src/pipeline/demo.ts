@@ -65,7 +65,11 @@ export async function runDemo(input: DemoInput): Promise<DemoResult> {
   );
   const build = await buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
   const files: { path: string; what: string; outcome: WriteOutcome }[] = [];
-  files.push({ path: modelsPath, what: 'identified models (per step, per speed, single-track)', outcome: writeModels(modelsPath, build.models, input.force) });
+  files.push({
+    path: modelsPath,
+    what: 'identified models (per step, per speed, single-track)',
+    outcome: writeModels(modelsPath, build.models, { force: input.force }),
+  });
   files.push({
     path: schedulePath,
     what: `gain schedule (status ${build.schedule.status})`,

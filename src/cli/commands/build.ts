@@ -121,7 +121,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const { schedule } = result;
   const written = schedule.status === 'passed' || args['allow-failing'];
   const outcome = written ? writeSchedule(out, schedule, { force: args.force }) : null;
-  if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force);
+  if (modelsOut !== undefined) writeModels(modelsOut, result.models, { force: args.force });
   const baselineCheck = baselineSchedule === undefined ? undefined : await (await import('../../pipeline/baseline.js')).checkBaseline(baselineSchedule, result);
   const baseline =
     baselineFile === undefined || baselineSchedule === undefined || baselineCheck === undefined
