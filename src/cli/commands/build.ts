@@ -144,7 +144,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
       ...(baseline === undefined ? {} : { baseline: { file: baseline.file, schedule: baseline.schedule, check: baseline.check.check } }),
       ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
     });
-    report = { file: reportOut, ...(await writeReport(reportOut, data, args.force)) };
+    report = { file: reportOut, ...(await writeReport(reportOut, data, { force: args.force })) };
   }
 
   const summary: BuildSummaryInput = {
