@@ -33,7 +33,7 @@ export {
   criticalSpeed_mps,
 } from './vehicle/single-track.js';
 export { simulateSingleTrack, type SingleTrackSimulationInput, type SingleTrackSimulation } from './vehicle/simulate.js';
-export { generateTestLog, writeTestLogs, TEST_LOG_DEFAULTS, type GeneratedTestLog, type TestLogOptions } from './vehicle/test-logs.js';
+export { generateTestLog, writeTestLogs, TEST_LOG_DEFAULTS, type GeneratedTestLog, type TestLogOptions, type TestLogsInput } from './vehicle/test-logs.js';
 
 // Identification (src/identify/)
 export type { FopdtModel, LumpedModel } from './identify/types.js';

@@ -28,16 +28,16 @@ export const DEMO_FLEET: readonly DemoVehicle[] = [
  */
 export function regenerateDemoVehicle(demo: DemoVehicle, vehiclesRoot: string, outRoot: string = vehiclesRoot, force = false): WrittenTestLogs {
   const vehicle = loadVehicle(join(vehiclesRoot, demo.folder));
-  return writeTestLogs(
+  return writeTestLogs({
     vehicle,
-    demo.speeds_mps,
-    join(outRoot, demo.folder, 'logs'),
-    {
+    speeds_mps: demo.speeds_mps,
+    outDir: join(outRoot, demo.folder, 'logs'),
+    generation: {
       seed: demo.seed,
       commandPaths: { vehicle: `vehicles/${demo.folder}`, out: `vehicles/${demo.folder}/logs` },
     },
     force,
-  );
+  });
 }
 
 /** Regenerate every demo vehicle's logs (see `regenerateDemoVehicle`). */
