@@ -52,12 +52,12 @@ export function metricsThatMoved(coarse: ScenarioMetrics, fine: ScenarioMetrics,
 /** `stopAtRest`: for judging only — the traces hold their last values once the run is at rest (scenario-simulation.ts REST). */
 export function runScenario(vehicle: ScenarioVehicle, controller: ScenarioController, scenario: PreparedScenario, stopAtRest = false): ScenarioRun {
   const ts = controller.settings.sampleTime_s;
-  const first = simulateScenario(vehicle, controller, scenario.setup, STEP_HALVING.startStepsPerSample, stopAtRest);
+  const first = simulateScenario({ vehicle, controller, setup: scenario.setup, stepsPerSample: STEP_HALVING.startStepsPerSample, stopAtRest });
   let metrics = scenarioMetrics(scenario, first);
   if (first.integrator.name === 'exact') return { scenario, traces: first, metrics, converged: true };
   let traces = first;
   for (let steps = 2 * STEP_HALVING.startStepsPerSample; steps <= STEP_HALVING.mostStepsPerSample; steps *= 2) {
-    const finer = simulateScenario(vehicle, controller, scenario.setup, steps, stopAtRest);
+    const finer = simulateScenario({ vehicle, controller, setup: scenario.setup, stepsPerSample: steps, stopAtRest });
     const finerMetrics = scenarioMetrics(scenario, finer);
     const moved = metricsThatMoved(metrics, finerMetrics, ts);
     traces = finer;

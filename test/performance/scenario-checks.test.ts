@@ -11,7 +11,12 @@ const MISALIGNMENT_RAD = 0.004;
 
 function misalignmentRun(loop: 'heading' | 'path' | 'yaw-rate', gains: { kp: number; ki: number; kd: number }, speed_mps: number): Float64Array {
   const controller = constantController(loop === 'path' ? { kind: 'path', preview_m: 3, referencePoint: 'cg' } : { kind: loop }, gains);
-  return simulateScenario(vanVehicle(), controller, { ...quietSetup(speed_mps, 80), misalignment: { time_s: 1, size: MISALIGNMENT_RAD } }, 1).error;
+  return simulateScenario({
+    vehicle: vanVehicle(),
+    controller,
+    setup: { ...quietSetup(speed_mps, 80), misalignment: { time_s: 1, size: MISALIGNMENT_RAD } },
+    stepsPerSample: 1,
+  }).error;
 }
 
 describe('a constant steering misalignment b', () => {
@@ -149,7 +154,7 @@ describe('the limit-cycle detector', () => {
       judgeFrom_s: 1,
       setup: { ...quietSetup(9, 30), referenceStep: { time_s: 1, size: 0.01 } },
     };
-    expect(scenarioMetrics(scenario, simulateScenario(vanVehicle(), controller, scenario.setup, 1)).limitCycle).toBeNull();
+    expect(scenarioMetrics(scenario, simulateScenario({ vehicle: vanVehicle(), controller, setup: scenario.setup, stepsPerSample: 1 })).limitCycle).toBeNull();
   });
 });
 
