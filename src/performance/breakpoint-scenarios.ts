@@ -42,7 +42,15 @@ export function breakpointScenarioFailures(input: BreakpointScenariosInput): Sce
   for (const name of input.scenarios ?? PER_SPEED_SCENARIOS) {
     const prepared = prepareScenario(name, context, input.speed_mps);
     if (prepared === null) continue;
-    failures.push(...judgeScenarioRun(name, input.speed_mps, runScenario(vehicle, controller, prepared, true).metrics, input.limits, input.loop.kind));
+    failures.push(
+      ...judgeScenarioRun(
+        name,
+        input.speed_mps,
+        runScenario({ vehicle, controller, scenario: prepared, stopAtRest: true }).metrics,
+        input.limits,
+        input.loop.kind,
+      ),
+    );
   }
   return failures;
 }

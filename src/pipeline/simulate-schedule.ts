@@ -99,7 +99,10 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
     for (const speed of speeds) {
       const prepared = prepareScenario(name, context, speed);
       if (prepared === null) continue;
-      runs.push({ speed_mps: prepared.setup.speed.initial_mps, ...runScenario(vehicle, controller, prepared, input.stopAtRest === true) });
+      runs.push({
+        speed_mps: prepared.setup.speed.initial_mps,
+        ...runScenario({ vehicle, controller, scenario: prepared, stopAtRest: input.stopAtRest === true }),
+      });
     }
   }
   return runs;
