@@ -43,13 +43,13 @@ export function breakpointScenarioFailures(input: BreakpointScenariosInput): Sce
     const prepared = prepareScenario(name, context, input.speed_mps);
     if (prepared === null) continue;
     failures.push(
-      ...judgeScenarioRun(
-        name,
-        input.speed_mps,
-        runScenario({ vehicle, controller, scenario: prepared, stopAtRest: true }).metrics,
-        input.limits,
-        input.loop.kind,
-      ),
+      ...judgeScenarioRun({
+        scenario: name,
+        speed_mps: input.speed_mps,
+        metrics: runScenario({ vehicle, controller, scenario: prepared, stopAtRest: true }).metrics,
+        limits: input.limits,
+        loop: input.loop.kind,
+      }),
     );
   }
   return failures;

@@ -30,14 +30,23 @@ export const LOOP_UNITS: Readonly<Record<LoopKind, string>> = { heading: 'rad', 
 
 const shown = (value: number): string => String(Number(value.toPrecision(3)));
 
+/** A scenario run to judge: what ran, at which speed, its metrics, and the limits. */
+export interface ScenarioJudgement {
+  /** The scenario that ran. */
+  readonly scenario: ScenarioName;
+  /** The speed the run started at, m/s (named in every failure). */
+  readonly speed_mps: number;
+  /** The run's metrics (scenario-metrics.ts). */
+  readonly metrics: ScenarioMetrics;
+  /** The plan's acceptance limits of the scenarios. */
+  readonly limits: ScenarioLimits;
+  /** The loop the firmware closes: the unit of the error, and which limits apply. */
+  readonly loop: LoopKind;
+}
+
 /** The limits a run of `scenario` at `speed_mps` broke (empty: within every limit). */
-export function judgeScenarioRun(
-  scenario: ScenarioName,
-  speed_mps: number,
-  metrics: ScenarioMetrics,
-  limits: ScenarioLimits,
-  loop: LoopKind,
-): ScenarioFailure[] {
+export function judgeScenarioRun(run: ScenarioJudgement): ScenarioFailure[] {
+  const { scenario, speed_mps, metrics, limits, loop } = run;
   const failures: ScenarioFailure[] = [];
   const unit = LOOP_UNITS[loop];
   const fail = (metric: keyof ScenarioMetrics, what: string): void => {

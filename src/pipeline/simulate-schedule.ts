@@ -125,7 +125,9 @@ export function judgeScheduleScenarios(
     ...simulateSchedule({ ...input, scenarios: LINEAR_SCENARIOS, speeds: speeds.filter((speed) => !figured.has(speed)), stopAtRest: true }),
   ];
   const failures = runs
-    .flatMap((run) => judgeScenarioRun(run.scenario.name, run.speed_mps, run.metrics, input.limits, input.schedule.loop.kind))
+    .flatMap((run) =>
+      judgeScenarioRun({ scenario: run.scenario.name, speed_mps: run.speed_mps, metrics: run.metrics, limits: input.limits, loop: input.schedule.loop.kind }),
+    )
     .sort((p, q) => p.speed_mps - q.speed_mps || SCENARIO_NAMES.indexOf(p.scenario) - SCENARIO_NAMES.indexOf(q.scenario));
   return {
     passed: failures.length === 0,

@@ -36,7 +36,7 @@ function largestPassingRate(input: CertificateInput, accelerating: boolean): num
       acceleration_mps2: rate,
     });
     const run = runScenario({ vehicle: input.vehicle, controller: input.controller, scenario, stopAtRest: true });
-    return judgeScenarioRun(name, minimum_mps, run.metrics, input.limits, input.context.loop).length === 0;
+    return judgeScenarioRun({ scenario: name, speed_mps: minimum_mps, metrics: run.metrics, limits: input.limits, loop: input.context.loop }).length === 0;
   };
   const { lowest_mps2, highest_mps2, steps } = CERTIFICATE_SEARCH;
   if (passes(highest_mps2)) return highest_mps2;

@@ -24,14 +24,14 @@ const limits = { ...PLAN_DEFAULTS.acceptance, maximumSpeedChangeError: 0.05 };
 
 describe('judgeScenarioRun', () => {
   it('passes a calm run and names speed, scenario and metric of every limit broken', () => {
-    expect(judgeScenarioRun('small-step', 5, calm, limits, 'heading')).toEqual([]);
-    const failures = judgeScenarioRun(
-      'large-step',
-      3,
-      { ...calm, overshoot_pct: 40, settlingTime_s: null, limitCycle: { amplitude: 0.05, period_s: 2.4 } },
+    expect(judgeScenarioRun({ scenario: 'small-step', speed_mps: 5, metrics: calm, limits, loop: 'heading' })).toEqual([]);
+    const failures = judgeScenarioRun({
+      scenario: 'large-step',
+      speed_mps: 3,
+      metrics: { ...calm, overshoot_pct: 40, settlingTime_s: null, limitCycle: { amplitude: 0.05, period_s: 2.4 } },
       limits,
-      'heading',
-    );
+      loop: 'heading',
+    });
     expect(failures.map((f) => [f.speed_mps, f.scenario, f.metric])).toEqual([
       [3, 'large-step', 'limitCycle'],
       [3, 'large-step', 'overshoot_pct'],
@@ -41,12 +41,14 @@ describe('judgeScenarioRun', () => {
   });
 
   it('judges recoveries against the recovery limit, the lane change (path loop only) and the error while the speed changes', () => {
-    expect(judgeScenarioRun('misalignment', 2, { ...calm, settlingTime_s: 16 }, limits, 'path')[0].message).toBe(
+    expect(judgeScenarioRun({ scenario: 'misalignment', speed_mps: 2, metrics: { ...calm, settlingTime_s: 16 }, limits, loop: 'path' })[0].message).toBe(
       'misalignment at 2.00 m/s: removed to 5 % in 16 s, needs ≤ 15 s',
     );
-    expect(judgeScenarioRun('lane-change', 9, { ...calm, peakError: 0.6 }, limits, 'path').map((f) => f.metric)).toEqual(['peakError']);
-    expect(judgeScenarioRun('lane-change', 9, { ...calm, peakError: 0.6 }, limits, 'heading')).toEqual([]);
-    expect(judgeScenarioRun('braking-in-curve', 25, { ...calm, peakError: 0.06 }, limits, 'heading')[0].message).toBe(
+    expect(
+      judgeScenarioRun({ scenario: 'lane-change', speed_mps: 9, metrics: { ...calm, peakError: 0.6 }, limits, loop: 'path' }).map((f) => f.metric),
+    ).toEqual(['peakError']);
+    expect(judgeScenarioRun({ scenario: 'lane-change', speed_mps: 9, metrics: { ...calm, peakError: 0.6 }, limits, loop: 'heading' })).toEqual([]);
+    expect(judgeScenarioRun({ scenario: 'braking-in-curve', speed_mps: 25, metrics: { ...calm, peakError: 0.06 }, limits, loop: 'heading' })[0].message).toBe(
       'braking-in-curve at 25.00 m/s: error 0.06 rad while the speed changes, needs ≤ 0.05 rad',
     );
   });
