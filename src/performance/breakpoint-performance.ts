@@ -157,7 +157,14 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     const full = firmware(weights.proportional, weights.derivative, ff.gain);
     const length = Math.max(d.laneChangeDuration_s * v, d.laneChangeShortestLength_m);
     const laneCount = samples(d.leadIn_s + length / v + settle_s);
-    const lane = sampledPath(laneChangePath(d.laneChangeSize_m, length), v, ts, d.leadIn_s, ff.leadTime_s, laneCount);
+    const lane = sampledPath({
+      shape: laneChangePath(d.laneChangeSize_m, length),
+      speed_mps: v,
+      sampleTime_s: ts,
+      leadIn_s: d.leadIn_s,
+      feedForwardLead_s: ff.leadTime_s,
+      count: laneCount,
+    });
     const laneRun = simulateClosedLoop({
       plant: loop.plant,
       gains: full,
@@ -171,7 +178,14 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     laneRunKept = laneRun;
     const curvature = Math.min(d.curveLateralAcceleration_mps2 / (v * v), (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(ff.gain));
     const curveCount = samples(d.leadIn_s + settle_s);
-    const curve = sampledPath(curveEntryPath(curvature), v, ts, d.leadIn_s, ff.leadTime_s, curveCount);
+    const curve = sampledPath({
+      shape: curveEntryPath(curvature),
+      speed_mps: v,
+      sampleTime_s: ts,
+      leadIn_s: d.leadIn_s,
+      feedForwardLead_s: ff.leadTime_s,
+      count: curveCount,
+    });
     const curveRun = simulateClosedLoop({
       plant: loop.plant,
       gains: full,
