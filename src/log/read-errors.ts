@@ -41,7 +41,22 @@ export function cellError(cell: string, column: ResolvedColumn, line: number, fi
   return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell: cutText(cell, QUOTED_TEXT_MAX) } });
 }
 
-export function implausibleError(value: number, raw: number, column: ResolvedColumn, line: number, file: string): SpeedbandError {
+/** A value outside its channel's plausible range, and where it stands (implausibleError). */
+export interface ImplausibleValue {
+  /** The value in SI units. */
+  readonly value: number;
+  /** The value as written, in the column's unit. */
+  readonly raw: number;
+  /** The column it stands in (channel, unit, index and header name). */
+  readonly column: ResolvedColumn;
+  /** 1-based line of the file. */
+  readonly line: number;
+  /** The log file, as the user named it. */
+  readonly file: string;
+}
+
+export function implausibleError(found: ImplausibleValue): SpeedbandError {
+  const { value, raw, column, line, file } = found;
   const definition = CHANNEL_DEFINITIONS[column.channel];
   const { min, max } = definition.plausible;
   const range = `${min === null ? '−∞' : min.toFixed(3)} … ${max === null ? '∞' : max.toFixed(3)} ${definition.siUnit}`;

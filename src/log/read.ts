@@ -126,7 +126,7 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
         // biome-ignore lint/suspicious/noSelfCompare: the reader's NaN test, in the hot loop without a call
         if (raw !== raw) throw cellError(text.slice(cellStart, cellEnd), columns[slot], lineNumber, file);
         const value = raw * toSi[slot];
-        if (!(value >= lowest[slot] && value <= highest[slot])) throw implausibleError(value, raw, columns[slot], lineNumber, file);
+        if (!(value >= lowest[slot] && value <= highest[slot])) throw implausibleError({ value, raw, column: columns[slot], line: lineNumber, file });
         values[slot][rows] = value;
       }
       cellCount += 1;
