@@ -8,7 +8,7 @@ import { readTextFile } from '../core/files.js';
 import { CHANNEL_DEFINITIONS, type ChannelName } from './columns.js';
 import { resolveColumns, type ColumnMap } from './column-map.js';
 import { cleanHeaderCell, detectDelimiter, parseDecimalRange, type Delimiter } from './csv-text.js';
-import { cellError, checkTimeIncreases, implausibleError, rowLengthError } from './read-errors.js';
+import { cellError, implausibleError, rowLengthError, timeOrderError } from './read-errors.js';
 import { countIrregularSteps, medianStep, splitAtGaps } from './time-gaps.js';
 import type { SteerLog } from './types.js';
 
@@ -134,7 +134,16 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
       cellStart = cellEnd + 1;
     }
     if (cellCount !== header.length) throw rowLengthError(cellCount, header, lineNumber, file);
-    if (rows > 0) checkTimeIncreases(timeValues[rows - 1], timeValues[rows], lineOfRow[rows - 1], lineNumber, columns[timeSlot], file);
+    if (rows > 0 && !(timeValues[rows] > timeValues[rows - 1])) {
+      throw timeOrderError({
+        previous_s: timeValues[rows - 1],
+        current_s: timeValues[rows],
+        previousLine: lineOfRow[rows - 1],
+        line: lineNumber,
+        column: columns[timeSlot],
+        file,
+      });
+    }
     lineOfRow[rows] = lineNumber;
     rows += 1;
   }
