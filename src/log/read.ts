@@ -161,7 +161,7 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
   };
   const time_s = channel('time_s') as Float64Array;
   const samplePeriod_s = medianStep(time_s, rows);
-  const { segments, splits } = splitAtGaps(file, rows, lineOfRow, samplePeriod_s * gapFactor, channel);
+  const { segments, splits } = splitAtGaps({ file, rows, lineOfRow, maxStep_s: samplePeriod_s * gapFactor, channel });
 
   const warnings: string[] = [];
   const irregular = countIrregularSteps(time_s, rows, samplePeriod_s, gapFactor);
