@@ -5,7 +5,12 @@ import { makeValidator, parseJsonText } from '../core/schema.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, MODELS_SCHEMA, type ModelsFile } from './models-schema.js';
 import { QUOTED_TEXT_MAX, cutText } from '../core/quote.js';
 
-const validateModels = makeValidator<ModelsFile>(MODELS_SCHEMA, 'models.invalid', 'speedband models file', validateModelsFile);
+const validateModels = makeValidator<ModelsFile>({
+  schema: MODELS_SCHEMA,
+  code: 'models.invalid',
+  what: 'speedband models file',
+  precompiled: validateModelsFile,
+});
 
 /** The models file as text: validated, 2-space JSON with a final newline (same models → same bytes). */
 export function modelsToJson(models: ModelsFile, file = 'models.json'): string {

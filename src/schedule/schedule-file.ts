@@ -238,7 +238,12 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   return { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) };
 }
 
-const validateScheduleShape = makeValidator<ScheduleFile>(SCHEDULE_SCHEMA, 'schedule.invalid', 'schedule file', validateScheduleFile);
+const validateScheduleShape = makeValidator<ScheduleFile>({
+  schema: SCHEDULE_SCHEMA,
+  code: 'schedule.invalid',
+  what: 'schedule file',
+  precompiled: validateScheduleFile,
+});
 
 /** Refuse a schedule file of an earlier format version by name, before its schema is checked. */
 function refuseOldVersion(value: unknown, file: string): void {
