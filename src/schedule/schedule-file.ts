@@ -157,7 +157,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
     format: SCHEDULE_FORMAT,
     formatVersion: SCHEDULE_FORMAT_VERSION,
-    status: acceptancePassed(passed, input.variations) ? 'passed' : 'failed',
+    status: acceptancePassed({ passed }, input.variations) ? 'passed' : 'failed',
     vehicle: { name: input.vehicle.name, file: basename(input.vehicle.file), sha256: input.vehicle.sha256 },
     loop: {
       kind: plan.loop.kind,
@@ -296,7 +296,7 @@ export function parseSchedule(value: unknown, file: string): ScheduleFile {
       { location: { file, jsonPath: '/checksum/value' }, details: { changes: verdict.changes } },
     );
   }
-  if ((schedule.status === 'passed') !== acceptancePassed(schedule.check.passed, schedule.variations)) {
+  if ((schedule.status === 'passed') !== acceptancePassed(schedule.check, schedule.variations)) {
     const robust =
       schedule.variations === undefined ? '' : ` and variations.passed is ${schedule.variations.passed} under ${schedule.variations.acceptance} acceptance`;
     throw new SpeedbandError(
