@@ -62,7 +62,7 @@ export function vehiclePerformance(
 ): BreakpointPerformance | null {
   const { speed_mps, gains } = control;
   const vehicle = operatingPointWith(context.model.modelAt(speed_mps), context.set, values);
-  const margins = analyseOperatingPoint(vehicle, context.loop, context.controller, speed_mps, gains);
+  const margins = analyseOperatingPoint({ operatingPoint: vehicle, loop: context.loop, controller: context.controller, speed_mps, gains });
   if (!margins.stable || margins.verdict !== 'stable') return null;
   const atSpeed = performanceLoopAt(vehicle, context.loop, speed_mps, context.controller);
   return breakpointPerformance({
