@@ -33,8 +33,8 @@ printFigure(
 );
 
 const folder = mkdtempSync(join(tmpdir(), 'speedband-bench-compare-'));
-writeSchedule(join(folder, 'old.json'), largeA, false);
-writeSchedule(join(folder, 'new.json'), largeB, false);
+writeSchedule(join(folder, 'old.json'), largeA, { force: false });
+writeSchedule(join(folder, 'new.json'), largeB, { force: false });
 const runs = Array.from({ length: 5 }, () => {
   try {
     return measureProcess(process.execPath, ['bin/speedband.js', 'compare', join(folder, 'old.json'), join(folder, 'new.json'), '--gain-change-pct', '1000']);

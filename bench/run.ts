@@ -61,5 +61,5 @@ const body = [...sections.keys()]
   .sort()
   .map((name) => sections.get(name))
   .join('\n');
-writeFileAtomic(resultsPath, `${header}\n${body}`, true);
+writeFileAtomic(resultsPath, `${header}\n${body}`, { force: true });
 process.stdout.write(`\nwrote ${resultsPath}\n`);

@@ -40,7 +40,7 @@ printFigure('simulateSingleTrack, fractional delay, rate limit binding', (runs *
 const log_ms = await timeMs(() => generateTestLog(van, 10, { seed: 1 }));
 printFigure('generateTestLog, one 34 s file at 50 Hz (first call)', log_ms, 'ms');
 
-const fleet_ms = await timeMs(() => regenerateDemoFleet('vehicles', mkdtempSync(join(tmpdir(), 'speedband-bench-'))));
+const fleet_ms = await timeMs(() => regenerateDemoFleet({ vehiclesRoot: 'vehicles', outRoot: mkdtempSync(join(tmpdir(), 'speedband-bench-')), force: false }));
 printFigure('regenerate the demo fleet (28 logs + READMEs)', fleet_ms, 'ms');
 
 // Whole process, built CLI (npm run build first). Median of 5.

@@ -27,7 +27,7 @@ export interface ApiGroup {
 
 /** The declaration of `name` in a module's text: its kind and the doc comment right above it. */
 function declarationIn(text: string, name: string, module: string): { kind: ApiEntry['kind']; summary: string } {
-  const pattern = new RegExp(`^export (?:declare )?(?:(async )?function\\*? |(const|let) |(interface|type) |(class) )${name}\\b`, 'm');
+  const pattern = new RegExp(`^export (?:declare )?(?:((?:async )?function\\*? )|(const|let) |(interface|type) |(class) )${name}\\b`, 'm');
   const match = pattern.exec(text);
   if (match === null) throw new Error(`${name} is exported by src/index.ts from ${module}, which does not declare it (export it from the module that does)`);
   const before = text.slice(0, match.index).trimEnd();
@@ -43,15 +43,7 @@ function declarationIn(text: string, name: string, module: string): { kind: ApiE
     .trim();
   const isArrow = match[2] !== undefined && new RegExp(`^export const ${name}\\b[^=]*=\\s*(?:async\\s*)?(?:<[^>]*>)?\\(`, 'm').test(text);
   const kind: ApiEntry['kind'] =
-    match[1] !== undefined || (text.slice(match.index, match.index + 200).includes('function') && match[2] === undefined)
-      ? 'function'
-      : match[3] !== undefined
-        ? 'type'
-        : match[4] !== undefined
-          ? 'class'
-          : isArrow
-            ? 'function'
-            : 'constant';
+    match[1] !== undefined ? 'function' : match[3] !== undefined ? 'type' : match[4] !== undefined ? 'class' : isArrow ? 'function' : 'constant';
   return { kind, summary };
 }
 

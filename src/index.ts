@@ -8,7 +8,7 @@
 // Errors, files, the command line (src/core/, src/cli/)
 export { SpeedbandError, isSpeedbandError, describeError, type ErrorLocation } from './core/errors.js';
 export { ERROR_CODES, type ErrorCode } from './core/error-codes.js';
-export { writeFileAtomic, type WriteOutcome } from './core/files.js';
+export { writeFileAtomic, type WriteOutcome, type WriteOptions } from './core/files.js';
 export { SAFETY_CAUTIONS } from './core/safety.js';
 export { VERSION } from './version.js';
 export { runCli } from './cli/main.js';
@@ -33,7 +33,7 @@ export {
   criticalSpeed_mps,
 } from './vehicle/single-track.js';
 export { simulateSingleTrack, type SingleTrackSimulationInput, type SingleTrackSimulation } from './vehicle/simulate.js';
-export { generateTestLog, writeTestLogs, TEST_LOG_DEFAULTS, type GeneratedTestLog, type TestLogOptions } from './vehicle/test-logs.js';
+export { generateTestLog, writeTestLogs, TEST_LOG_DEFAULTS, type GeneratedTestLog, type TestLogOptions, type TestLogsInput } from './vehicle/test-logs.js';
 
 // Identification (src/identify/)
 export type { FopdtModel, LumpedModel } from './identify/types.js';

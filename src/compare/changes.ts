@@ -20,8 +20,21 @@ export const THRESHOLD_ROUNDING = 1e-9;
 /** value ≥ threshold up to rounding; a threshold of 0 flags any change (value > 0), never no change. */
 const reaches = (value: number, threshold: number): boolean => (threshold > 0 ? value >= threshold * (1 - THRESHOLD_ROUNDING) : value > 0);
 
+/** One gain in the old and the new schedule at the same speed (gainChange). */
+export interface GainPair {
+  /** The old schedule's gain, in the gain's unit. */
+  readonly old: number;
+  /** The new schedule's gain, in the same unit. */
+  readonly new: number;
+  /** False when a loop or controller setting changed (compare/settings.ts): the gains are not comparable one by one. */
+  readonly comparable: boolean;
+  /** The flagging thresholds (COMPARE_DEFAULTS or the user's). */
+  readonly thresholds: CompareThresholds;
+}
+
 /** Change of one gain; `comparable` false (settings differ) gives null changes and no flag. */
-export function gainChange(old: number, next: number, comparable: boolean, thresholds: CompareThresholds): GainChange {
+export function gainChange(pair: GainPair): GainChange {
+  const { old, new: next, comparable, thresholds } = pair;
   if (!comparable) return { old, new: next, change: null, change_pct: null, flagged: false };
   const change = next - old;
   if (old === 0) return { old, new: next, change, change_pct: null, flagged: Math.abs(change) > thresholds.gainChangeFromZero };

@@ -67,6 +67,12 @@ export function readTextFile(path: string): string {
 /** What writeFileAtomic did: wrote the file, or left it unchanged because it already held the same bytes. */
 export type WriteOutcome = 'written' | 'unchanged';
 
+/** How a writer treats an existing file: what every `write…` function of the library takes. */
+export interface WriteOptions {
+  /** Replace an existing file whose content differs (a command's `--force`); without it such a file is refused with `output.exists`. */
+  readonly force: boolean;
+}
+
 /** Suffix of our temporary files: `.<target name>.<process id>.<8 hex digits>.speedband-tmp`. */
 const TEMPORARY_SUFFIX = '.speedband-tmp';
 
@@ -165,10 +171,10 @@ function syncFolder(folder: string): void {
 
 /**
  * Write a file atomically and durably (see the file comment). An existing file with different content
- * is never replaced unless `force`; one with identical content is left alone ('unchanged'). A replaced
+ * is never replaced unless `options.force`; one with identical content is left alone ('unchanged'). A replaced
  * file keeps its permission bits. Missing folders are created. Every failure is `output.*` (exit 2).
  */
-export function writeFileAtomic(path: string, content: string | Uint8Array, force: boolean): WriteOutcome {
+export function writeFileAtomic(path: string, content: string | Uint8Array, options: WriteOptions): WriteOutcome {
   const incoming = typeof content === 'string' ? Buffer.from(content, 'utf8') : Buffer.from(content);
   const existing = existingTarget(path);
   if (existing !== null) {
@@ -179,7 +185,7 @@ export function writeFileAtomic(path: string, content: string | Uint8Array, forc
       throw unwritable(path, cause, 'cannot read the existing file to compare it');
     }
     if (current.equals(incoming)) return 'unchanged';
-    if (!force) {
+    if (!options.force) {
       throw new SpeedbandError(
         'output.exists',
         'the file exists with different content and was not replaced — pass --force to overwrite it, or choose another output path',

@@ -62,22 +62,28 @@ function describeAjvError(error: ErrorObject, schema: object): string {
   }
 }
 
+/** A file format's schema and how its errors read (makeValidator). */
+export interface ValidatorDefinition {
+  /** The JSON Schema. */
+  readonly schema: object;
+  /** The error code of a value the schema refuses (e.g. 'vehicle.invalid'). */
+  readonly code: ErrorCode;
+  /** The format's name in messages: "not a valid <what>" (e.g. 'vehicle file'). */
+  readonly what: string;
+  /** The schema's validator from src/core/precompiled-validators.ts (generated; no Ajv compile at run time); without it the schema is compiled on first use. */
+  readonly precompiled?: SchemaValidator;
+  /** Words after the problems, e.g. where the format's reference is. */
+  readonly reference?: () => string;
+}
+
 /**
  * Build a validator from a JSON Schema. The returned function checks a parsed
  * value and returns it typed, or throws a `SpeedbandError` with `code`
  * (e.g. 'vehicle.invalid'), the file and the JSON path of the first problem,
- * and every problem listed in the message. `precompiled`: the schema's validator from
- * src/core/precompiled-validators.ts (generated; no Ajv compile at run time); without it the
- * schema is compiled on first use.
+ * and every problem listed in the message.
  */
-export function makeValidator<T>(
-  schema: object,
-  code: ErrorCode,
-  what: string,
-  precompiled?: SchemaValidator,
-  /** Words after the problems, e.g. where the format's reference is. */
-  reference?: () => string,
-): (value: unknown, file: string) => T {
+export function makeValidator<T>(definition: ValidatorDefinition): (value: unknown, file: string) => T {
+  const { schema, code, what, precompiled, reference } = definition;
   let compiled: SchemaValidator | undefined = precompiled;
   return (value: unknown, file: string): T => {
     compiled ??= ajv().compile(schema);

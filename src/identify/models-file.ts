@@ -1,11 +1,16 @@
 import { SpeedbandError } from '../core/errors.js';
-import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { readTextFile, writeFileAtomic, type WriteOptions, type WriteOutcome } from '../core/files.js';
 import { validateModelsFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import { MODELS_FORMAT, MODELS_FORMAT_VERSION, MODELS_SCHEMA, type ModelsFile } from './models-schema.js';
 import { QUOTED_TEXT_MAX, cutText } from '../core/quote.js';
 
-const validateModels = makeValidator<ModelsFile>(MODELS_SCHEMA, 'models.invalid', 'speedband models file', validateModelsFile);
+const validateModels = makeValidator<ModelsFile>({
+  schema: MODELS_SCHEMA,
+  code: 'models.invalid',
+  what: 'speedband models file',
+  precompiled: validateModelsFile,
+});
 
 /** The models file as text: validated, 2-space JSON with a final newline (same models → same bytes). */
 export function modelsToJson(models: ModelsFile, file = 'models.json'): string {
@@ -38,7 +43,7 @@ export function readModels(path: string): ModelsFile {
   return parseModels(readTextFile(path), path);
 }
 
-/** Validate and write a models file atomically; a different existing file is replaced only with `force`. */
-export function writeModels(path: string, models: ModelsFile, force: boolean): WriteOutcome {
-  return writeFileAtomic(path, modelsToJson(models, path), force);
+/** Validate and write a models file atomically; a different existing file is replaced only with `options.force`. */
+export function writeModels(path: string, models: ModelsFile, options: WriteOptions): WriteOutcome {
+  return writeFileAtomic(path, modelsToJson(models, path), options);
 }

@@ -80,8 +80,20 @@ export function stepMetrics(window: StepWindow, options: { steadyFraction?: numb
   const yawChange = levels.yawRateSteady_radps - levels.yawRateBefore_radps;
   const start = Math.max(1, preStepSamples);
 
-  const halfInput_s = firstCrossing(time_s, steerCommand_rad, levels.commandBefore_rad + 0.5 * commandChange, Math.sign(commandChange), start);
-  const yaw90_s = firstCrossing(time_s, yawRate_radps, levels.yawRateBefore_radps + 0.9 * yawChange, Math.sign(yawChange), start);
+  const halfInput_s = firstCrossing({
+    time_s,
+    values: steerCommand_rad,
+    target: levels.commandBefore_rad + 0.5 * commandChange,
+    direction: Math.sign(commandChange),
+    from: start,
+  });
+  const yaw90_s = firstCrossing({
+    time_s,
+    values: yawRate_radps,
+    target: levels.yawRateBefore_radps + 0.9 * yawChange,
+    direction: Math.sign(yawChange),
+    from: start,
+  });
 
   const direction = Math.sign(yawChange);
   let peakIndex = -1;
@@ -131,12 +143,27 @@ function meanAndDeviation(values: Float64Array, from: number, to: number): { mea
   return { mean, deviation: count > 1 ? Math.sqrt(squares / (count - 1)) : 0 };
 }
 
+/** A sampled signal and the level it should cross (firstCrossing). */
+export interface CrossingSearch {
+  /** Sample times, s. */
+  readonly time_s: Float64Array;
+  /** The signal at those times. */
+  readonly values: Float64Array;
+  /** The level to reach, in the signal's unit. */
+  readonly target: number;
+  /** +1: reached moving up, −1: moving down, 0: never (null). */
+  readonly direction: number;
+  /** The sample the search starts at. */
+  readonly from: number;
+}
+
 /**
  * Time at which `values` first reaches `target` moving in `direction` (+1 up, −1 down),
  * searching from sample `from`; linear interpolation between the two samples around
  * the crossing. Null when it never does (or direction is 0).
  */
-export function firstCrossing(time_s: Float64Array, values: Float64Array, target: number, direction: number, from: number): number | null {
+export function firstCrossing(search: CrossingSearch): number | null {
+  const { time_s, values, target, direction, from } = search;
   if (direction === 0) return null;
   for (let i = Math.max(1, from); i < values.length; i += 1) {
     if (direction * (values[i] - target) >= 0) {

@@ -58,7 +58,12 @@ export const LOG_PROFILE_SCHEMA = {
   additionalProperties: false,
 } as const;
 
-const validateProfile = makeValidator<LogProfile>(LOG_PROFILE_SCHEMA, 'log.profileInvalid', 'log profile', validateLogProfile);
+const validateProfile = makeValidator<LogProfile>({
+  schema: LOG_PROFILE_SCHEMA,
+  code: 'log.profileInvalid',
+  what: 'log profile',
+  precompiled: validateLogProfile,
+});
 
 /**
  * Parse and validate log-profile JSON text and convert its units (`file` names it in errors).

@@ -41,7 +41,22 @@ export function cellError(cell: string, column: ResolvedColumn, line: number, fi
   return new SpeedbandError(code, message, { location, details: { channel: column.channel, cell: cutText(cell, QUOTED_TEXT_MAX) } });
 }
 
-export function implausibleError(value: number, raw: number, column: ResolvedColumn, line: number, file: string): SpeedbandError {
+/** A value outside its channel's plausible range, and where it stands (implausibleError). */
+export interface ImplausibleValue {
+  /** The value in SI units. */
+  readonly value: number;
+  /** The value as written, in the column's unit. */
+  readonly raw: number;
+  /** The column it stands in (channel, unit, index and header name). */
+  readonly column: ResolvedColumn;
+  /** 1-based line of the file. */
+  readonly line: number;
+  /** The log file, as the user named it. */
+  readonly file: string;
+}
+
+export function implausibleError(found: ImplausibleValue): SpeedbandError {
+  const { value, raw, column, line, file } = found;
   const definition = CHANNEL_DEFINITIONS[column.channel];
   const { min, max } = definition.plausible;
   const range = `${min === null ? '−∞' : min.toFixed(3)} … ${max === null ? '∞' : max.toFixed(3)} ${definition.siUnit}`;
@@ -52,11 +67,28 @@ export function implausibleError(value: number, raw: number, column: ResolvedCol
   );
 }
 
-export function checkTimeIncreases(previous: number, current: number, previousLine: number, line: number, column: ResolvedColumn, file: string): void {
-  if (current > previous) return;
+/** Two times in a row that do not increase, and where they stand (timeOrderError). */
+export interface TimeOrder {
+  /** The earlier row's time, s. */
+  readonly previous_s: number;
+  /** This row's time, s: equal to or below `previous_s`. */
+  readonly current_s: number;
+  /** 1-based line of the earlier row. */
+  readonly previousLine: number;
+  /** 1-based line of this row. */
+  readonly line: number;
+  /** The time column. */
+  readonly column: ResolvedColumn;
+  /** The log file, as the user named it. */
+  readonly file: string;
+}
+
+/** The error for a time that does not increase (the reader throws it when `current_s > previous_s` fails): a duplicate or a step back. */
+export function timeOrderError(order: TimeOrder): SpeedbandError {
+  const { previous_s: previous, current_s: current, previousLine, line, column, file } = order;
   const location = { file, line, column: columnLabel(column.index, column.header) };
   if (current === previous) {
-    throw new SpeedbandError('log.duplicateTime', `time_s ${current} appears twice (lines ${previousLine} and ${line}) — remove the duplicate sample`, {
+    return new SpeedbandError('log.duplicateTime', `time_s ${current} appears twice (lines ${previousLine} and ${line}) — remove the duplicate sample`, {
       location,
       details: { time_s: current, previousLine },
     });
@@ -64,7 +96,7 @@ export function checkTimeIncreases(previous: number, current: number, previousLi
   // Enough decimals to tell the two times apart (12.40 then 12.39), at least two.
   let decimals = 2;
   while (decimals < 9 && previous.toFixed(decimals) === current.toFixed(decimals)) decimals += 1;
-  throw new SpeedbandError(
+  return new SpeedbandError(
     'log.timeNotIncreasing',
     `time_s must increase: ${previous.toFixed(decimals)} then ${current.toFixed(decimals)} at line ${line} — sort the log or split it`,
     { location, details: { previous_s: previous, current_s: current, previousLine } },

@@ -8,7 +8,7 @@ import { readTextFile } from '../core/files.js';
 import { CHANNEL_DEFINITIONS, type ChannelName } from './columns.js';
 import { resolveColumns, type ColumnMap } from './column-map.js';
 import { cleanHeaderCell, detectDelimiter, parseDecimalRange, type Delimiter } from './csv-text.js';
-import { cellError, checkTimeIncreases, implausibleError, rowLengthError } from './read-errors.js';
+import { cellError, implausibleError, rowLengthError, timeOrderError } from './read-errors.js';
 import { countIrregularSteps, medianStep, splitAtGaps } from './time-gaps.js';
 import type { SteerLog } from './types.js';
 
@@ -126,7 +126,7 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
         // biome-ignore lint/suspicious/noSelfCompare: the reader's NaN test, in the hot loop without a call
         if (raw !== raw) throw cellError(text.slice(cellStart, cellEnd), columns[slot], lineNumber, file);
         const value = raw * toSi[slot];
-        if (!(value >= lowest[slot] && value <= highest[slot])) throw implausibleError(value, raw, columns[slot], lineNumber, file);
+        if (!(value >= lowest[slot] && value <= highest[slot])) throw implausibleError({ value, raw, column: columns[slot], line: lineNumber, file });
         values[slot][rows] = value;
       }
       cellCount += 1;
@@ -134,7 +134,16 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
       cellStart = cellEnd + 1;
     }
     if (cellCount !== header.length) throw rowLengthError(cellCount, header, lineNumber, file);
-    if (rows > 0) checkTimeIncreases(timeValues[rows - 1], timeValues[rows], lineOfRow[rows - 1], lineNumber, columns[timeSlot], file);
+    if (rows > 0 && !(timeValues[rows] > timeValues[rows - 1])) {
+      throw timeOrderError({
+        previous_s: timeValues[rows - 1],
+        current_s: timeValues[rows],
+        previousLine: lineOfRow[rows - 1],
+        line: lineNumber,
+        column: columns[timeSlot],
+        file,
+      });
+    }
     lineOfRow[rows] = lineNumber;
     rows += 1;
   }
@@ -152,7 +161,7 @@ export function parseSteerLog(text: string, file: string, options: ReadLogOption
   };
   const time_s = channel('time_s') as Float64Array;
   const samplePeriod_s = medianStep(time_s, rows);
-  const { segments, splits } = splitAtGaps(file, rows, lineOfRow, samplePeriod_s * gapFactor, channel);
+  const { segments, splits } = splitAtGaps({ file, rows, lineOfRow, maxStep_s: samplePeriod_s * gapFactor, channel });
 
   const warnings: string[] = [];
   const irregular = countIrregularSteps(time_s, rows, samplePeriod_s, gapFactor);

@@ -24,18 +24,27 @@ export function countIrregularSteps(time_s: Float64Array, rows: number, samplePe
   return count;
 }
 
+/** The rows read from a log, to be cut at gaps (splitAtGaps). */
+export interface GapSplitInput {
+  /** The log file, as the user named it. */
+  readonly file: string;
+  /** How many rows were read (the columns may be longer). */
+  readonly rows: number;
+  /** The 1-based file line of each row. */
+  readonly lineOfRow: Int32Array;
+  /** A time step longer than this starts a new segment, s. */
+  readonly maxStep_s: number;
+  /** The full column of a channel (undefined when the log has none). */
+  readonly channel: (name: ChannelName) => Float64Array | undefined;
+}
+
 /**
  * Cut the first `rows` samples into segments wherever a time step exceeds
  * `maxStep_s`; each split is reported with the 1-based file line where the new
  * segment starts and the gap, s. `channel` gives the full column of a channel.
  */
-export function splitAtGaps(
-  file: string,
-  rows: number,
-  lineOfRow: Int32Array,
-  maxStep_s: number,
-  channel: (name: ChannelName) => Float64Array | undefined,
-): { segments: LogSegment[]; splits: LogSplit[] } {
+export function splitAtGaps(input: GapSplitInput): { segments: LogSegment[]; splits: LogSplit[] } {
+  const { file, rows, lineOfRow, maxStep_s, channel } = input;
   const time_s = channel('time_s') as Float64Array;
   const starts = [0];
   const splits: LogSplit[] = [];

@@ -62,8 +62,23 @@ export function visitActuatorPieces(angle: number, target: number, duration_s: n
   visit('free', duration_s - ramp, 0, target, false);
 }
 
+/** A stretch of time with a command held, and the actuator that follows it (actuatorPieces). */
+export interface ActuatorStretch {
+  /** The wheel angle at the start, rad. */
+  readonly angle: number;
+  /** The (delayed, angle-limited) command held through the stretch, rad. */
+  readonly target: number;
+  /** Length of the stretch, s. */
+  readonly duration_s: number;
+  /** The actuator's lag τa, s (0: none). */
+  readonly lag_s: number;
+  /** The actuator's rate limit, rad/s (Infinity: none). */
+  readonly rate_radps: number;
+}
+
 /** The pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad), as records. */
-export function actuatorPieces(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number): ActuatorPiece[] {
+export function actuatorPieces(stretch: ActuatorStretch): ActuatorPiece[] {
+  const { angle, target, duration_s, lag_s, rate_radps } = stretch;
   const pieces: ActuatorPiece[] = [];
   visitActuatorPieces(angle, target, duration_s, lag_s, rate_radps, (kind, duration, input, startAngle, atRateLimit) => {
     pieces.push({ kind, duration_s: duration, input, ...(Number.isNaN(startAngle) ? {} : { startAngle }), atRateLimit });

@@ -112,7 +112,7 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     weights.derivative === 0
       ? { output: mix(atZero.output, atOne.output, weights.proportional), command: mix(atZero.command, atOne.command, weights.proportional) }
       : simulateClosedLoop({ plant: loop.plant, gains: firmware(weights.proportional, weights.derivative, 0), settings, reference });
-  const settling = settlingTime_s(step.output, 1, d.settlingBand, ts);
+  const settling = settlingTime_s({ signal: step.output, target: 1, band: d.settlingBand, sampleTime_s: ts });
   let stepCommand = step.command;
   let stepOutput = step.output;
   let referenceStep: TimeDomainFigures['referenceStep'] = {
@@ -138,7 +138,14 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
       outputDisturbance,
     });
     const peakError = peakMagnitude(run.error);
-    return { figures: { size, peakError, recoveryTime_s: peakError === 0 ? 0 : settlingTime_s(run.error, 0, d.recoveryBand * peakError, ts) }, run };
+    return {
+      figures: {
+        size,
+        peakError,
+        recoveryTime_s: peakError === 0 ? 0 : settlingTime_s({ signal: run.error, target: 0, band: d.recoveryBand * peakError, sampleTime_s: ts }),
+      },
+      run,
+    };
   };
   const misalignmentRun = disturbance(loop.misalignment, d.steeringMisalignment_rad);
   const lateralForceRun =
@@ -157,7 +164,14 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     const full = firmware(weights.proportional, weights.derivative, ff.gain);
     const length = Math.max(d.laneChangeDuration_s * v, d.laneChangeShortestLength_m);
     const laneCount = samples(d.leadIn_s + length / v + settle_s);
-    const lane = sampledPath(laneChangePath(d.laneChangeSize_m, length), v, ts, d.leadIn_s, ff.leadTime_s, laneCount);
+    const lane = sampledPath({
+      shape: laneChangePath(d.laneChangeSize_m, length),
+      speed_mps: v,
+      sampleTime_s: ts,
+      leadIn_s: d.leadIn_s,
+      feedForwardLead_s: ff.leadTime_s,
+      count: laneCount,
+    });
     const laneRun = simulateClosedLoop({
       plant: loop.plant,
       gains: full,
@@ -171,7 +185,14 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     laneRunKept = laneRun;
     const curvature = Math.min(d.curveLateralAcceleration_mps2 / (v * v), (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(ff.gain));
     const curveCount = samples(d.leadIn_s + settle_s);
-    const curve = sampledPath(curveEntryPath(curvature), v, ts, d.leadIn_s, ff.leadTime_s, curveCount);
+    const curve = sampledPath({
+      shape: curveEntryPath(curvature),
+      speed_mps: v,
+      sampleTime_s: ts,
+      leadIn_s: d.leadIn_s,
+      feedForwardLead_s: ff.leadTime_s,
+      count: curveCount,
+    });
     const curveRun = simulateClosedLoop({
       plant: loop.plant,
       gains: full,
@@ -222,7 +243,7 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
       return {
         size,
         overshoot_pct: overshoot_pct(normalised),
-        settlingTime_s: settlingTime_s(normalised, 1, d.settlingBand, ts),
+        settlingTime_s: settlingTime_s({ signal: normalised, target: 1, band: d.settlingBand, sampleTime_s: ts }),
         peakSteerRate_radps: peakRate,
         run,
       };
@@ -246,7 +267,7 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
       weights = { ...weights, proportional: low };
       limited = best;
       const lowered = mix(atZero.output, atOne.output, low);
-      const settlingLowered = settlingTime_s(lowered, 1, d.settlingBand, ts);
+      const settlingLowered = settlingTime_s({ signal: lowered, target: 1, band: d.settlingBand, sampleTime_s: ts });
       referenceStep = {
         overshoot_pct: overshoot_pct(lowered),
         settlingTime_s: settlingLowered,

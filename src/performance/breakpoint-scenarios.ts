@@ -42,7 +42,13 @@ export function breakpointScenarioFailures(input: BreakpointScenariosInput): Sce
   for (const name of input.scenarios ?? PER_SPEED_SCENARIOS) {
     const prepared = prepareScenario(name, context, input.speed_mps);
     if (prepared === null) continue;
-    failures.push(...judgeScenarioRun(judgedRun(runScenario(vehicle, controller, prepared, true), input.speed_mps), input.limits, input.loop.kind));
+    failures.push(
+      ...judgeScenarioRun(
+        judgedRun(runScenario({ vehicle, controller, scenario: prepared, stopAtRest: true }), input.speed_mps),
+        input.limits,
+        input.loop.kind,
+      ),
+    );
   }
   return failures;
 }

@@ -7,11 +7,26 @@ export function overshoot_pct(output: Float64Array): number {
   return Math.max(0, 100 * (peak - 1));
 }
 
+/** A sampled signal and the band it must settle in (settlingTime_s). */
+export interface SettlingTimeInput {
+  /** The signal at the sample instants k·Ts. */
+  readonly signal: Float64Array;
+  /** The value it settles to, in the signal's unit. */
+  readonly target: number;
+  /** Half-width of the band around `target`, in the signal's unit. */
+  readonly band: number;
+  /** The sample time Ts, s. */
+  readonly sampleTime_s: number;
+  /** The sample the clock starts at; default 0. */
+  readonly start?: number;
+}
+
 /**
  * First time (s) from which |signal − target| stays within `band` to the end; null when the last sample
  * is outside (not settled within the simulated time). `start` is the sample the clock starts at.
  */
-export function settlingTime_s(signal: Float64Array, target: number, band: number, sampleTime_s: number, start = 0): number | null {
+export function settlingTime_s(input: SettlingTimeInput): number | null {
+  const { signal, target, band, sampleTime_s, start = 0 } = input;
   const last = signal.length - 1;
   if (!(Math.abs(signal[last] - target) <= band)) return null;
   let k = last;

@@ -90,7 +90,7 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
   };
   /** Advance h seconds with the delayed, angle-limited command c held (actuator-motion.ts). */
   const advance = (c: number, h: number): void => {
-    for (const motion of actuatorPieces(z[n], c, h, lag, rate)) {
+    for (const motion of actuatorPieces({ angle: z[n], target: c, duration_s: h, lag_s: lag, rate_radps: rate })) {
       if (motion.startAngle !== undefined) z[n] = motion.startAngle;
       apply(piece(motion.kind, motion.duration_s), motion.input);
     }

@@ -55,7 +55,7 @@ export function scenarioMetrics(scenario: PreparedScenario, traces: ScenarioTrac
   } else {
     band = SCENARIO_DEFAULTS.recoveryBand * peakError;
   }
-  const settling = peakError === 0 ? 0 : settlingTime_s(error, 0, band, ts, start);
+  const settling = peakError === 0 ? 0 : settlingTime_s({ signal: error, target: 0, band, sampleTime_s: ts, start });
   return {
     peakError,
     finalError: error[error.length - 1],

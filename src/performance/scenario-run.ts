@@ -49,15 +49,28 @@ export function metricsThatMoved(coarse: ScenarioMetrics, fine: ScenarioMetrics,
   return moved;
 }
 
-/** `stopAtRest`: for judging only — the traces hold their last values once the run is at rest (scenario-simulation.ts REST). */
-export function runScenario(vehicle: ScenarioVehicle, controller: ScenarioController, scenario: PreparedScenario, stopAtRest = false): ScenarioRun {
+/** What runScenario runs. */
+export interface ScenarioRunInput {
+  /** The single-track vehicle with its actuator and steering limits. */
+  readonly vehicle: ScenarioVehicle;
+  /** The firmware's controller: loop, settings, the schedule's lookup. */
+  readonly controller: ScenarioController;
+  /** The scenario with its setup (scenario-catalogue.ts). */
+  readonly scenario: PreparedScenario;
+  /** For judging only — the traces hold their last values once the run is at rest (scenario-simulation.ts REST); default false. */
+  readonly stopAtRest?: boolean;
+}
+
+/** The run of `input.scenario` with its metrics, the Runge–Kutta step halved as the file comment says. */
+export function runScenario(input: ScenarioRunInput): ScenarioRun {
+  const { vehicle, controller, scenario, stopAtRest = false } = input;
   const ts = controller.settings.sampleTime_s;
-  const first = simulateScenario(vehicle, controller, scenario.setup, STEP_HALVING.startStepsPerSample, stopAtRest);
+  const first = simulateScenario({ vehicle, controller, setup: scenario.setup, stepsPerSample: STEP_HALVING.startStepsPerSample, stopAtRest });
   let metrics = scenarioMetrics(scenario, first);
   if (first.integrator.name === 'exact') return { scenario, traces: first, metrics, converged: true };
   let traces = first;
   for (let steps = 2 * STEP_HALVING.startStepsPerSample; steps <= STEP_HALVING.mostStepsPerSample; steps *= 2) {
-    const finer = simulateScenario(vehicle, controller, scenario.setup, steps, stopAtRest);
+    const finer = simulateScenario({ vehicle, controller, setup: scenario.setup, stepsPerSample: steps, stopAtRest });
     const finerMetrics = scenarioMetrics(scenario, finer);
     const moved = metricsThatMoved(metrics, finerMetrics, ts);
     traces = finer;

@@ -108,7 +108,6 @@ const STATE = { ...STATE_INDEX };
 
 const valueAt = (change: StepChange | null, time_s: number): number => (change !== null && time_s >= change.time_s ? change.size : 0);
 
-/** Simulate `setup` (see the file comment); `stepsPerSample` is used only when the speed changes. */
 /**
  * Stopping at rest (for judging, not for traces): once every input has stopped changing (`setup.restAfter_s`) and for
  * REST.window_s the error, the command and the wheel angle have each changed by at most REST.relativeChange of their
@@ -117,13 +116,23 @@ const valueAt = (change: StepChange | null, time_s: number): number => (change !
  */
 export const REST = { window_s: 1, relativeChange: 1e-9 } as const;
 
-export function simulateScenario(
-  vehicle: ScenarioVehicle,
-  controller: ScenarioController,
-  setup: ScenarioSetup,
-  stepsPerSample: number,
-  stopAtRest = false,
-): ScenarioTraces {
+/** What simulateScenario runs. */
+export interface ScenarioSimulationInput {
+  /** The single-track vehicle with its actuator and steering limits. */
+  readonly vehicle: ScenarioVehicle;
+  /** The firmware's controller: loop, settings, the schedule's lookup. */
+  readonly controller: ScenarioController;
+  /** What happens: duration, speed, path, steps and disturbances. */
+  readonly setup: ScenarioSetup;
+  /** Runge–Kutta steps per sample, used only over samples in which the speed changes (scenario-run.ts chooses it). */
+  readonly stepsPerSample: number;
+  /** Stop at rest and hold the last values (see REST): for judging, not for traces; default false (simulate to the end). */
+  readonly stopAtRest?: boolean;
+}
+
+/** Simulate `input.setup` (see the file comment). */
+export function simulateScenario(input: ScenarioSimulationInput): ScenarioTraces {
+  const { vehicle, controller, setup, stepsPerSample, stopAtRest = false } = input;
   const { parameters } = vehicle;
   const settings = controller.settings;
   const ts = settings.sampleTime_s;

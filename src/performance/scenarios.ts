@@ -63,19 +63,29 @@ export function curveEntryPath(curvature_perM: number): PathShape {
 /** A straight path: p(s) = 0. */
 export const STRAIGHT_PATH: PathShape = { position: () => 0, heading: () => 0, curvature: () => 0, offsetAhead: () => 0 };
 
+/** A path driven at constant speed, sampled as the loop sees it (sampledPath). */
+export interface PathSampling {
+  /** The path: position, heading and curvature along its length s. */
+  readonly shape: PathShape;
+  /** The constant speed, m/s. */
+  readonly speed_mps: number;
+  /** The controller's sample time Ts, s. */
+  readonly sampleTime_s: number;
+  /** Time driven before the manoeuvre starts (s = 0), s. */
+  readonly leadIn_s: number;
+  /** How far ahead in time the feed-forward reads the curvature (T_ff), s. */
+  readonly feedForwardLead_s: number;
+  /** Number of samples. */
+  readonly count: number;
+}
+
 /**
  * The path as the loop sees it over `count` samples: the preview point is at distance s_k = v·(k·Ts − leadIn)
  * along the path (the manoeuvre starts after the lead-in), so the output disturbance is −p(s_k) and the
  * feed-forward input κ(s_k + v·T_ff).
  */
-export function sampledPath(
-  shape: PathShape,
-  speed_mps: number,
-  sampleTime_s: number,
-  leadIn_s: number,
-  feedForwardLead_s: number,
-  count: number,
-): { disturbance: Float64Array; curvature: Float64Array } {
+export function sampledPath(input: PathSampling): { disturbance: Float64Array; curvature: Float64Array } {
+  const { shape, speed_mps, sampleTime_s, leadIn_s, feedForwardLead_s, count } = input;
   const disturbance = new Float64Array(count);
   const curvature = new Float64Array(count);
   for (let k = 0; k < count; k++) {

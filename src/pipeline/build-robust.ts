@@ -44,19 +44,29 @@ export function planRobustContext(input: {
   };
 }
 
+/** A breakpoint's nominal evaluation and what it takes to redo it under robust acceptance (withRobustWeights). */
+export interface RobustWeightsInput {
+  /** The breakpoint's evaluation on the nominal model. */
+  readonly evaluation: BreakpointEvaluation;
+  /** The breakpoint's speed, m/s. */
+  readonly speed_mps: number;
+  /** The breakpoint's gains. */
+  readonly gains: PidGains;
+  /** Evaluates a breakpoint on the nominal model (with given set-point weights). */
+  readonly evaluate: BreakpointEvaluator;
+  /** The model, loop, controller and the set of variations. */
+  readonly context: RobustContext;
+  /** The time-domain limits and the vehicle's and firmware's settings. */
+  readonly settings: TimeDomainSettings;
+}
+
 /**
  * Under robust acceptance: a breakpoint's evaluation with its set-point weights lowered until the worst overshoot over
  * the set keeps the limit (robust-setpoint-weights.ts), evaluated again on the nominal model with them; unchanged
  * when the weights chosen there already do.
  */
-export function withRobustWeights(
-  evaluation: BreakpointEvaluation,
-  speed_mps: number,
-  gains: PidGains,
-  evaluate: BreakpointEvaluator,
-  context: RobustContext,
-  settings: TimeDomainSettings,
-): BreakpointEvaluation {
+export function withRobustWeights(input: RobustWeightsInput): BreakpointEvaluation {
+  const { evaluation, speed_mps, gains, evaluate, context, settings } = input;
   if (evaluation.performance === null) return evaluation;
   const feedForward = evaluation.performanceLoop.feedForward;
   const control = {

@@ -299,7 +299,9 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   const robustWeights = robustContext !== undefined && plan.variations?.acceptance === 'robust';
   const evaluations = refinement.table.speeds_mps.map((speed, k) => {
     const evaluation = evaluate(speed, refinement.table.gains[k]);
-    return robustWeights ? withRobustWeights(evaluation, speed, refinement.table.gains[k], evaluate, robustContext, timeDomainSettings) : evaluation;
+    return robustWeights
+      ? withRobustWeights({ evaluation, speed_mps: speed, gains: refinement.table.gains[k], evaluate, context: robustContext, settings: timeDomainSettings })
+      : evaluation;
   });
   const breakpointExtras: BreakpointExtras[] = evaluations.map((evaluation) => ({
     setpointWeightProportional: evaluation.performance?.setpointWeights.proportional ?? 1,

@@ -65,23 +65,27 @@ export async function runDemo(input: DemoInput): Promise<DemoResult> {
   );
   const build = await buildSchedule({ vehicle: folder, logPaths, ...(input.progress === undefined ? {} : { progress: input.progress }) });
   const files: { path: string; what: string; outcome: WriteOutcome }[] = [];
-  files.push({ path: modelsPath, what: 'identified models (per step, per speed, single-track)', outcome: writeModels(modelsPath, build.models, input.force) });
+  files.push({
+    path: modelsPath,
+    what: 'identified models (per step, per speed, single-track)',
+    outcome: writeModels(modelsPath, build.models, { force: input.force }),
+  });
   files.push({
     path: schedulePath,
     what: `gain schedule (status ${build.schedule.status})`,
-    outcome: writeSchedule(schedulePath, build.schedule, input.force),
+    outcome: writeSchedule(schedulePath, build.schedule, { force: input.force }),
   });
   const { loop, controller } = planLoopAndController(build.plan);
   const fallback = findFallbackGains(build.schedule, scheduleTable(build.schedule), makeLoopAnalysis(build.checkModel, loop, controller));
   files.push({
     path: headerPath,
     what: 'C99 header for firmware',
-    outcome: writeFileAtomic(headerPath, exportC(build.schedule, { fallback }).text, input.force),
+    outcome: writeFileAtomic(headerPath, exportC(build.schedule, { fallback }).text, { force: input.force }),
   });
   files.push({
     path: csvPath,
     what: 'breakpoints, gains and margins for a spreadsheet',
-    outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), input.force),
+    outcome: writeFileAtomic(csvPath, exportCsv(build.schedule), { force: input.force }),
   });
   const model = recordedCheckModel(build.schedule);
   if (model === null) throw new SpeedbandError('internal', 'the demo schedule records no rebuildable model');

@@ -13,13 +13,14 @@ import type { AnalyseLoop } from '../schedule/types.js';
 import type { OperatingPointModel } from '../tuning/operating-point.js';
 import { analyseLoop, type LoopDescription } from '../verify/analyse-loop.js';
 import type { AnalysisOptions } from '../verify/analyse-open-loop.js';
-import type { LoopMargins } from '../verify/types.js';
+import type { AnalysisScope, LoopMargins } from '../verify/types.js';
 import type { CheckModel } from './check-model.js';
 import { modelDelay_s, requireBoundedDelay } from './delay-bound.js';
 
 /** Build the (speed_mps, gains) → LoopMargins function the dense check and refinement call. */
 export function makeLoopAnalysis(model: CheckModel, loop: LoopSpecification, controller: ControllerSettings): AnalyseLoop {
-  return (speed_mps: number, gains: PidGains): LoopMargins => analyseOperatingPoint(model.modelAt(speed_mps), loop, controller, speed_mps, gains);
+  return (speed_mps: number, gains: PidGains): LoopMargins =>
+    analyseOperatingPoint({ operatingPoint: model.modelAt(speed_mps), loop, controller, speed_mps, gains });
 }
 
 /** The loop plant of the check at one speed (the delay bound checked first). */
@@ -34,16 +35,26 @@ function operatingPointLoopPlant(operatingPoint: OperatingPointModel, loop: Loop
     : loopPlantFromLumped({ specification: loop, model: operatingPoint.yawRate, speed_mps, controller, cgToFrontAxle_m: operatingPoint.cgToFrontAxle_m });
 }
 
+/** One operating point's loop under given gains (analyseOperatingPoint). */
+export interface OperatingPointAnalysis {
+  /** The model at this speed (e.g. the check model's, or one with a variation applied). */
+  readonly operatingPoint: OperatingPointModel;
+  /** The loop the firmware closes. */
+  readonly loop: LoopSpecification;
+  /** The controller the firmware runs (sample time, derivative filter, discretisation, latency). */
+  readonly controller: ControllerSettings;
+  /** The speed, m/s. */
+  readonly speed_mps: number;
+  /** The PID gains analysed. */
+  readonly gains: PidGains;
+  /** How much of the analysis to do (AnalysisOptions); default 'full'. */
+  readonly scope?: AnalysisScope;
+}
+
 /** The dense check's analysis of one operating-point model (e.g. the check model with a variation applied) at one speed. */
-export function analyseOperatingPoint(
-  operatingPoint: OperatingPointModel,
-  loop: LoopSpecification,
-  controller: ControllerSettings,
-  speed_mps: number,
-  gains: PidGains,
-  options: AnalysisOptions = {},
-): LoopMargins {
-  return analyseSampledLoop(operatingPointLoopPlant(operatingPoint, loop, controller, speed_mps), gains, controller, options);
+export function analyseOperatingPoint(input: OperatingPointAnalysis): LoopMargins {
+  const { operatingPoint, loop, controller, speed_mps, gains, scope } = input;
+  return analyseSampledLoop(operatingPointLoopPlant(operatingPoint, loop, controller, speed_mps), gains, controller, { scope });
 }
 
 /**

@@ -71,7 +71,7 @@ export function reverifySchedule(
   const robust = options.variations ?? null;
   if (edited.variations !== undefined && robust === null)
     throw new Error('internal: a schedule with variations is re-verified with their worst case (recheckOverVariations)');
-  if (!acceptancePassed(check.passed, robust?.record))
+  if (!acceptancePassed(check, robust?.record))
     return { check, variations: robust, timeDomainFailures: [], passed: false, changes: verdict.changes, schedule: null };
   const points = edited.breakpoints.map((row) => {
     const point = check.points.find((candidate) => candidate.speed_mps === row.speed_mps);

@@ -48,7 +48,14 @@ export function analysisWithChanges(
 ): (values: readonly number[], scope?: 'full' | 'figures') => LoopMargins {
   const base = context.model.modelAt(speed_mps);
   return (values, scope = 'full') =>
-    analyseOperatingPoint(operatingPointWith(base, context.set, values), context.loop, context.controller, speed_mps, gains, { scope });
+    analyseOperatingPoint({
+      operatingPoint: operatingPointWith(base, context.set, values),
+      loop: context.loop,
+      controller: context.controller,
+      speed_mps,
+      gains,
+      scope,
+    });
 }
 
 /** The weakest parameter at a robust point (src/robust/weakest-parameter.ts), its trials analysed in full. */

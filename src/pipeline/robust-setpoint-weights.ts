@@ -39,7 +39,7 @@ export function robustSetpointWeights(point: RobustMargins, control: BreakpointC
     let proportional = current.setpointWeights.proportional;
     for (const combination of overshooting) {
       const values = context.set.dimensions.map((dimension) => combination[dimension.parameter] ?? (dimension.change === 'scale' ? 1 : 0));
-      const own = vehiclePerformance(values, current, context, settings, true);
+      const own = vehiclePerformance({ values, control: current, context, settings, chooseWeights: true });
       if (own !== null) proportional = Math.min(proportional, own.setpointWeights.proportional);
     }
     if (proportional >= current.setpointWeights.proportional) break;

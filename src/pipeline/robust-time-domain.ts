@@ -50,21 +50,30 @@ export interface TimeDomainSettings {
   readonly antiWindup: AntiWindup;
 }
 
+/** One vehicle of the set under a breakpoint's control (vehiclePerformance). */
+export interface VehiclePerformanceInput {
+  /** The set's changes that make the vehicle, one per dimension, in order. */
+  readonly values: readonly number[];
+  /** The speed, gains, set-point weights and feed-forward. */
+  readonly control: BreakpointControl;
+  /** The model, loop, controller and the set of variations. */
+  readonly context: RobustContext;
+  /** The time-domain limits and the vehicle's and firmware's settings. */
+  readonly settings: TimeDomainSettings;
+  /** Choose the set-point weights on this vehicle for the overshoot limit instead of taking those of `control`; default false. */
+  readonly chooseWeights?: boolean;
+}
+
 /**
  * The time-domain figures of one vehicle of the set (the changes `values`, one per dimension) under `control`, or
  * null when its loop is not stable. `chooseWeights`: the set-point weights are chosen on that vehicle for the
  * overshoot limit (breakpoint-performance.ts) instead of taken from `control`.
  */
-export function vehiclePerformance(
-  values: readonly number[],
-  control: BreakpointControl,
-  context: RobustContext,
-  settings: TimeDomainSettings,
-  chooseWeights = false,
-): BreakpointPerformance | null {
+export function vehiclePerformance(input: VehiclePerformanceInput): BreakpointPerformance | null {
+  const { values, control, context, settings, chooseWeights = false } = input;
   const { speed_mps, gains } = control;
   const vehicle = operatingPointWith(context.model.modelAt(speed_mps), context.set, values);
-  const margins = analyseOperatingPoint(vehicle, context.loop, context.controller, speed_mps, gains);
+  const margins = analyseOperatingPoint({ operatingPoint: vehicle, loop: context.loop, controller: context.controller, speed_mps, gains });
   if (!margins.stable || margins.verdict !== 'stable') return null;
   const loopHere = performanceLoopAt(vehicle, context.loop, speed_mps, context.controller);
   return breakpointPerformance({
@@ -95,6 +104,6 @@ export function worstTimeDomainAt(
     combinations: Object.values(point.worst).flatMap((worst) => (worst === null ? [] : [worst.combination])),
     limits: atSpeed(settings.limits, control.speed_mps),
     kind: context.loop.kind,
-    figuresAt: (values) => vehiclePerformance(values, control, context, settings)?.figures ?? null,
+    figuresAt: (values) => vehiclePerformance({ values, control, context, settings })?.figures ?? null,
   });
 }

@@ -98,14 +98,14 @@ export function formatSchedule(schedule: ScheduleFile): string {
   lines.push(...formatTimeDomain(schedule));
   lines.push('');
   lines.push(
-    ...formatCheck(
-      schedule.check.model.kind,
-      schedule.check.failedSpeeds === 0,
-      schedule.check.gridSize,
-      schedule.check.failedSpeeds,
-      schedule.check.worst,
+    ...formatCheck({
+      modelKind: schedule.check.model.kind,
+      passed: schedule.check.failedSpeeds === 0,
+      gridSize: schedule.check.gridSize,
+      failedSpeeds: schedule.check.failedSpeeds,
+      worst: schedule.check.worst,
       schedule,
-    ),
+    }),
   );
   if (schedule.check.insertions.length > 0) {
     lines.push('', '  breakpoints inserted by refinement:');
@@ -180,8 +180,25 @@ export function formatTimeDomain(schedule: ScheduleFile): string[] {
   return lines;
 }
 
+/** A dense check's outcome to print against a schedule's settings (formatCheck). */
+export interface CheckSummary {
+  /** The kind of model checked on (modelWords). */
+  readonly modelKind: string;
+  /** Whether every speed of the grid passed. */
+  readonly passed: boolean;
+  /** Speeds on the check grid. */
+  readonly gridSize: number;
+  /** Speeds that failed a limit. */
+  readonly failedSpeeds: number;
+  /** The worst figures over the grid. */
+  readonly worst: WorstMargins;
+  /** The schedule whose thresholds and range the check used. */
+  readonly schedule: ScheduleFile;
+}
+
 /** The dense check's verdict, its thresholds and worst figures. */
-export function formatCheck(modelKind: string, passed: boolean, gridSize: number, failedSpeeds: number, worst: WorstMargins, schedule: ScheduleFile): string[] {
+export function formatCheck(summary: CheckSummary): string[] {
+  const { modelKind, passed, gridSize, failedSpeeds, worst, schedule } = summary;
   const t = schedule.check.thresholds;
   return [
     `  dense check on the ${modelWords(modelKind)}, ${gridSize} speeds from ${schedule.check.range.minimum_mps.toFixed(2)} to ${schedule.check.range.maximum_mps.toFixed(2)} m/s: ` +
@@ -195,7 +212,10 @@ export function formatCheck(modelKind: string, passed: boolean, gridSize: number
 
 /** A dense check result against a schedule's own settings (for `check` and the baseline check). */
 export function formatRecheck(title: string, result: DenseCheckResult, schedule: ScheduleFile, modelKind: string): string {
-  const lines = [title, ...formatCheck(modelKind, result.passed, result.points.length, result.failedCount, result.worst, schedule)];
+  const lines = [
+    title,
+    ...formatCheck({ modelKind, passed: result.passed, gridSize: result.points.length, failedSpeeds: result.failedCount, worst: result.worst, schedule }),
+  ];
   const failing = result.points.filter((point) => point.failures.length > 0);
   if (failing.length > 0) {
     lines.push('  failing speeds (first 10):');

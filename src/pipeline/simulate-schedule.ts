@@ -27,7 +27,14 @@ export interface ScenarioRunAt extends ScenarioRun {
 export const LINEAR_SCENARIOS: readonly ScenarioName[] = ['small-step', 'misalignment', 'side-force'];
 
 /** The speeds the per-speed scenarios run at: low, middle and top of the range, with the breakpoints when asked. */
-export function scenarioSpeeds(schedule: Pick<ScheduleFile, 'check' | 'breakpoints'>, withBreakpoints: boolean): number[] {
+export function scenarioSpeeds(
+  schedule: Pick<ScheduleFile, 'check' | 'breakpoints'>,
+  options: {
+    /** Add the breakpoints inside the range (the scenario check, judgeScheduleScenarios); false: the three speeds only (the simulate command). */
+    readonly withBreakpoints: boolean;
+  },
+): number[] {
+  const { withBreakpoints } = options;
   const { minimum_mps: low, maximum_mps: top } = schedule.check.range;
   const speeds = new Set([low, (low + top) / 2, top]);
   if (withBreakpoints) for (const row of schedule.breakpoints) if (row.speed_mps >= low && row.speed_mps <= top) speeds.add(row.speed_mps);
@@ -100,7 +107,10 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
     for (const speed of speeds) {
       const prepared = prepareScenario(name, context, speed);
       if (prepared === null) continue;
-      runs.push({ speed_mps: prepared.setup.speed.initial_mps, ...runScenario(vehicle, controller, prepared, input.stopAtRest === true) });
+      runs.push({
+        speed_mps: prepared.setup.speed.initial_mps,
+        ...runScenario({ vehicle, controller, scenario: prepared, stopAtRest: input.stopAtRest === true }),
+      });
     }
   }
   return runs;
@@ -113,7 +123,7 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
 export function judgeScheduleScenarios(
   input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: OverSpeed<ScenarioLimits>; readonly model: string },
 ): ScheduleScenarioCheck {
-  const speeds = scenarioSpeeds(input.schedule, true);
+  const speeds = scenarioSpeeds(input.schedule, { withBreakpoints: true });
   // At a breakpoint with time-domain figures the linear scenarios are those figures (the same closed loop, exact:
   // test/pipeline/default-plans.test.ts), judged by the build already; the scenarios through the limits run everywhere.
   const figured = new Set(input.schedule.breakpoints.filter((row) => row.timeDomain !== null).map((row) => row.speed_mps));

@@ -36,7 +36,7 @@ function largestPassingRate(input: CertificateInput, accelerating: boolean): num
       changeStart_s: SCENARIO_DEFAULTS.leadIn_s + SIMULATION_DEFAULTS.rampHold_s,
       acceleration_mps2: rate,
     });
-    const run = runScenario(input.vehicle, input.controller, scenario, true);
+    const run = runScenario({ vehicle: input.vehicle, controller: input.controller, scenario, stopAtRest: true });
     return judgeScenarioRun(judgedRun(run, minimum_mps), input.limits, input.context.loop).length === 0;
   };
   const { lowest_mps2, highest_mps2, steps } = CERTIFICATE_SEARCH;

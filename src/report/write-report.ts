@@ -3,7 +3,7 @@
  * here and only dynamically: the CLI bundle turns this import into its report chunk (scripts/bundle-cli.mjs),
  * so no other command loads it.
  */
-import { writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { writeFileAtomic, type WriteOptions, type WriteOutcome } from '../core/files.js';
 import type { ReportData } from './types.js';
 
 /** The report as one HTML file (UTF-8 text) and the titles of the sections it holds. */
@@ -12,12 +12,12 @@ export async function renderReportHtml(data: ReportData): Promise<{ readonly htm
   return { html: renderReport(data), sections: reportSectionTitles(data) };
 }
 
-/** Render and write the report atomically; a different existing file is replaced only with `force`. */
+/** Render and write the report atomically; a different existing file is replaced only with `options.force`. */
 export async function writeReport(
   path: string,
   data: ReportData,
-  force: boolean,
+  options: WriteOptions,
 ): Promise<{ readonly outcome: WriteOutcome; readonly bytes: number; readonly sections: readonly string[] }> {
   const { html, sections } = await renderReportHtml(data);
-  return { outcome: writeFileAtomic(path, html, force), bytes: Buffer.byteLength(html, 'utf8'), sections };
+  return { outcome: writeFileAtomic(path, html, options), bytes: Buffer.byteLength(html, 'utf8'), sections };
 }

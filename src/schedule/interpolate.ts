@@ -94,7 +94,7 @@ export function makeGainLookup(table: GainTable, settings: Partial<LookupSetting
   const one = (y: Float64Array, m: Float64Array, k: number, t: number, h: number): number => {
     const y0 = y[k];
     const y1 = y[k + 1];
-    const raw = cubic ? hermiteValue(t, h, y0, y1, m[k], m[k + 1]) : y0 + t * (y1 - y0);
+    const raw = cubic ? hermiteValue({ t, h, y0, y1, m0: m[k], m1: m[k + 1] }) : y0 + t * (y1 - y0);
     const low = y0 < y1 ? y0 : y1;
     const high = y0 < y1 ? y1 : y0;
     return raw < low ? low : raw > high ? high : raw;

@@ -47,13 +47,30 @@ export function monotoneCubicSlopes(x: ArrayLike<number>, y: ArrayLike<number>):
   return slopes;
 }
 
+/** A point on one interval [x0, x1] of a cubic Hermite curve, with the interval's ends (hermiteValue). */
+export interface HermitePoint {
+  /** Position in the interval, t = (x − x0)/h, 0 … 1. */
+  readonly t: number;
+  /** Width of the interval, h = x1 − x0 (x's unit). */
+  readonly h: number;
+  /** Value at x0. */
+  readonly y0: number;
+  /** Value at x1. */
+  readonly y1: number;
+  /** Slope at x0 (y's unit per x's unit). */
+  readonly m0: number;
+  /** Slope at x1. */
+  readonly m1: number;
+}
+
 /**
  * Cubic Hermite on one interval [x0, x1] with end values y0, y1 and end slopes m0, m1:
  * p(t) = h00·y0 + h10·h·m0 + h01·y1 + h11·h·m1, t = (x − x0)/h, h = x1 − x0,
  * h00 = 2t³ − 3t² + 1, h10 = t³ − 2t² + t, h01 = −2t³ + 3t², h11 = t³ − t².
  * Returns y0 exactly at t = 0.
  */
-export function hermiteValue(t: number, h: number, y0: number, y1: number, m0: number, m1: number): number {
+export function hermiteValue(point: HermitePoint): number {
+  const { t, h, y0, y1, m0, m1 } = point;
   const t2 = t * t;
   const t3 = t2 * t;
   return (2 * t3 - 3 * t2 + 1) * y0 + (t3 - 2 * t2 + t) * h * m0 + (-2 * t3 + 3 * t2) * y1 + (t3 - t2) * h * m1;

@@ -190,7 +190,13 @@ export const DEFAULT_RULES: Readonly<Record<LoopKind, Plan['rule']>> = {
  */
 export const DEFAULT_PATH_PREVIEW = { preview_m: 0.5, previewTime_s: 0.3 } as const;
 
-const validateSchema = makeValidator<PartialPlan>(PLAN_SCHEMA, 'plan.invalid', 'plan file', validatePlanFile, planReferenceHint);
+const validateSchema = makeValidator<PartialPlan>({
+  schema: PLAN_SCHEMA,
+  code: 'plan.invalid',
+  what: 'plan file',
+  precompiled: validatePlanFile,
+  reference: planReferenceHint,
+});
 
 /** Schema, then the rule's parameters: one the rule does not take is refused (it would be ignored), naming those it takes. */
 function validatePlan(value: unknown, file: string): PartialPlan {

@@ -5,7 +5,7 @@
 import { basename } from 'node:path';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { SpeedbandError } from '../core/errors.js';
-import { readTextFile, writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { readTextFile, writeFileAtomic, type WriteOptions, type WriteOutcome } from '../core/files.js';
 import { validateScheduleFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
 import type { LoopMargins } from '../verify/types.js';
@@ -161,7 +161,7 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   const withoutChecksum: Omit<ScheduleFile, 'checksum'> = {
     format: SCHEDULE_FORMAT,
     formatVersion: SCHEDULE_FORMAT_VERSION,
-    status: acceptancePassed(passed, input.variations) ? 'passed' : 'failed',
+    status: acceptancePassed({ passed }, input.variations) ? 'passed' : 'failed',
     vehicle: { name: input.vehicle.name, file: basename(input.vehicle.file), sha256: input.vehicle.sha256 },
     loop: {
       kind: plan.loop.kind,
@@ -237,7 +237,12 @@ export function assembleSchedule(input: ScheduleInput): ScheduleFile {
   return { ...withoutChecksum, checksum: computeScheduleChecksum(withoutChecksum) };
 }
 
-const validateScheduleShape = makeValidator<ScheduleFile>(SCHEDULE_SCHEMA, 'schedule.invalid', 'schedule file', validateScheduleFile);
+const validateScheduleShape = makeValidator<ScheduleFile>({
+  schema: SCHEDULE_SCHEMA,
+  code: 'schedule.invalid',
+  what: 'schedule file',
+  precompiled: validateScheduleFile,
+});
 
 /** Refuse a schedule file of an earlier format version by name, before its schema is checked. */
 function refuseOldVersion(value: unknown, file: string): void {
@@ -290,7 +295,7 @@ export function parseSchedule(value: unknown, file: string): ScheduleFile {
       { location: { file, jsonPath: '/checksum/value' }, details: { changes: verdict.changes } },
     );
   }
-  if ((schedule.status === 'passed') !== acceptancePassed(schedule.check.passed, schedule.variations)) {
+  if ((schedule.status === 'passed') !== acceptancePassed(schedule.check, schedule.variations)) {
     const robust =
       schedule.variations === undefined ? '' : ` and variations.passed is ${schedule.variations.passed} under ${schedule.variations.acceptance} acceptance`;
     throw new SpeedbandError(
@@ -309,9 +314,9 @@ export function readSchedule(path: string): ScheduleFile {
 
 /**
  * Write schedule.json atomically (src/core/files.ts writeFileAtomic: an existing different file is
- * replaced only with `force`). The schedule is schema-checked and its checksum verified first.
+ * replaced only with `options.force`). The schedule is schema-checked and its checksum verified first.
  */
-export function writeSchedule(path: string, schedule: ScheduleFile, force: boolean): WriteOutcome {
+export function writeSchedule(path: string, schedule: ScheduleFile, options: WriteOptions): WriteOutcome {
   parseSchedule(JSON.parse(serialiseSchedule(schedule)), path);
-  return writeFileAtomic(path, serialiseSchedule(schedule), force);
+  return writeFileAtomic(path, serialiseSchedule(schedule), options);
 }

@@ -47,7 +47,10 @@ export interface ScheduleVariations {
   readonly weakest: WeakestParameter | null;
 }
 
-/** Whether a schedule's status may be 'passed': its nominal check passed and, under robust acceptance, its worst case too. */
-export function acceptancePassed(nominalPassed: boolean, variations: Pick<ScheduleVariations, 'acceptance' | 'passed'> | undefined): boolean {
-  return nominalPassed && (variations === undefined || variations.acceptance === 'nominal' || variations.passed);
+/**
+ * Whether a schedule's status may be 'passed': its nominal check (`nominal.passed`) passed and, under robust acceptance,
+ * its worst case over the variations too.
+ */
+export function acceptancePassed(nominal: { readonly passed: boolean }, variations: Pick<ScheduleVariations, 'acceptance' | 'passed'> | undefined): boolean {
+  return nominal.passed && (variations === undefined || variations.acceptance === 'nominal' || variations.passed);
 }

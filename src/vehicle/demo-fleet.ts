@@ -5,6 +5,7 @@
  */
 import { join } from 'node:path';
 import { loadVehicle } from './load.js';
+import type { WriteOptions } from '../core/files.js';
 import { writeTestLogs, type WrittenTestLogs } from './test-logs.js';
 
 export interface DemoVehicle {
@@ -22,25 +23,34 @@ export const DEMO_FLEET: readonly DemoVehicle[] = [
   { folder: 'parcel-van-loaded', speeds_mps: [2, 4, 6, 8, 10, 12.5, 15, 18, 21, 25], seed: 111 },
 ];
 
+/** Where the demo logs are regenerated from and to; `force` as for every writer (WriteOptions). */
+export interface DemoRegeneration extends WriteOptions {
+  /** The folder holding the demo vehicles' folders (the repository's vehicles/). */
+  readonly vehiclesRoot: string;
+  /** The folder `<folder>/logs/` is written under; default `vehiclesRoot` (in place). */
+  readonly outRoot?: string;
+}
+
 /**
  * Write the logs of one demo vehicle: reads `<vehiclesRoot>/<folder>/vehicle.json`, writes
  * `<outRoot>/<folder>/logs/` (outRoot defaults to vehiclesRoot). Default sample rate and noise.
  */
-export function regenerateDemoVehicle(demo: DemoVehicle, vehiclesRoot: string, outRoot: string = vehiclesRoot, force = false): WrittenTestLogs {
+export function regenerateDemoVehicle(demo: DemoVehicle, where: DemoRegeneration): WrittenTestLogs {
+  const { vehiclesRoot, outRoot = vehiclesRoot, force } = where;
   const vehicle = loadVehicle(join(vehiclesRoot, demo.folder));
-  return writeTestLogs(
+  return writeTestLogs({
     vehicle,
-    demo.speeds_mps,
-    join(outRoot, demo.folder, 'logs'),
-    {
+    speeds_mps: demo.speeds_mps,
+    outDir: join(outRoot, demo.folder, 'logs'),
+    generation: {
       seed: demo.seed,
       commandPaths: { vehicle: `vehicles/${demo.folder}`, out: `vehicles/${demo.folder}/logs` },
     },
     force,
-  );
+  });
 }
 
 /** Regenerate every demo vehicle's logs (see `regenerateDemoVehicle`). */
-export function regenerateDemoFleet(vehiclesRoot: string, outRoot: string = vehiclesRoot, force = false): WrittenTestLogs[] {
-  return DEMO_FLEET.map((demo) => regenerateDemoVehicle(demo, vehiclesRoot, outRoot, force));
+export function regenerateDemoFleet(where: DemoRegeneration): WrittenTestLogs[] {
+  return DEMO_FLEET.map((demo) => regenerateDemoVehicle(demo, where));
 }

@@ -20,7 +20,7 @@ import { QUOTED_TEXT_MAX, cutText, quoted } from '../core/quote.js';
 /** The file name looked for when a folder is given. */
 export const VEHICLE_FILE_NAME = 'vehicle.json';
 
-const validateStructure = makeValidator<Vehicle>(VEHICLE_SCHEMA, 'vehicle.invalid', 'vehicle file', validateVehicleFile);
+const validateStructure = makeValidator<Vehicle>({ schema: VEHICLE_SCHEMA, code: 'vehicle.invalid', what: 'vehicle file', precompiled: validateVehicleFile });
 
 /** The stem of a field name without its unit suffix: 'mass_kg' → 'mass'. */
 const stemOf = (name: string): string => name.split('_')[0].toLowerCase();

@@ -10,7 +10,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { SpeedbandError } from '../core/errors.js';
-import { writeFileAtomic, type WriteOutcome } from '../core/files.js';
+import { writeFileAtomic, type WriteOptions, type WriteOutcome } from '../core/files.js';
 import { makeRandom } from '../core/random.js';
 import { radiansToDegrees } from '../core/units.js';
 import { simulateSingleTrack } from './simulate.js';
@@ -229,12 +229,25 @@ export interface WrittenTestLogs {
   readonly files: readonly { readonly path: string; readonly outcome: WriteOutcome }[];
 }
 
+/** What writeTestLogs makes and where; `force` as for every writer (WriteOptions). */
+export interface TestLogsInput extends WriteOptions {
+  /** The vehicle whose nominal single-track model is simulated. */
+  readonly vehicle: Vehicle;
+  /** One log per speed, m/s: each above 0, listed once. */
+  readonly speeds_mps: readonly number[];
+  /** The folder the logs and their README.md go into (created when missing). */
+  readonly outDir: string;
+  /** How the logs are made (seed, sample rate, noise, amplitudes); default TEST_LOG_DEFAULTS and the per-speed amplitude rule. */
+  readonly generation?: TestLogOptions;
+}
+
 /**
  * Generate one log per speed (m/s) and a README.md into `outDir`, atomically; an existing file with
  * different content is replaced only with `force`. Throws `testLogs.badSpeeds` for an empty list,
  * a non-positive or duplicated speed.
  */
-export function writeTestLogs(vehicle: Vehicle, speeds_mps: readonly number[], outDir: string, options: TestLogOptions = {}, force = false): WrittenTestLogs {
+export function writeTestLogs(input: TestLogsInput): WrittenTestLogs {
+  const { vehicle, speeds_mps, outDir, generation: options = {}, force } = input;
   if (speeds_mps.length === 0) throw new SpeedbandError('testLogs.badSpeeds', 'no speeds given — list at least one test speed in m/s', {});
   const names = new Set<string>();
   for (const speed of speeds_mps) {
@@ -257,7 +270,7 @@ export function writeTestLogs(vehicle: Vehicle, speeds_mps: readonly number[], o
   // Refuse before writing anything when one file would need --force.
   if (!force)
     for (const output of outputs)
-      if (existsSync(output.path) && readFileSync(output.path, 'utf8') !== output.content) writeFileAtomic(output.path, output.content, false);
-  const files = outputs.map((output) => ({ path: output.path, outcome: writeFileAtomic(output.path, output.content, force) }));
+      if (existsSync(output.path) && readFileSync(output.path, 'utf8') !== output.content) writeFileAtomic(output.path, output.content, { force: false });
+  const files = outputs.map((output) => ({ path: output.path, outcome: writeFileAtomic(output.path, output.content, { force }) }));
   return { logs, files };
 }

@@ -12,7 +12,7 @@ import { sampledPlant, type SampledPlant } from './sampled-plant.js';
 import { sampledNyquistCount } from './sampled-nyquist.js';
 import { sensitivityPeaks } from './sensitivity.js';
 import { cancelCommonIntegrators, sweepLoop, type Sweep } from './sweep.js';
-import type { LoopMargins, OpenLoop } from './types.js';
+import type { AnalysisScope, LoopMargins, OpenLoop } from './types.js';
 import { validateOpenLoop } from './validate-loop.js';
 import { checkAnalysisBounds } from './analysis-bounds.js';
 
@@ -34,7 +34,7 @@ const finite = (value: number): number => (Number.isFinite(value) ? value : Numb
  * tolerates where a fraction of a sample matters; `analysis.delayMarginNote` says it is an estimate).
  */
 export interface AnalysisOptions {
-  readonly scope?: 'full' | 'figures';
+  readonly scope?: AnalysisScope;
 }
 
 /** The delay margin's crossover estimate min φᵢ/ωᵢ, unconfirmed (scope 'figures'). */
@@ -87,13 +87,14 @@ function delayMarginEstimate(crossovers: readonly { frequency_radps: number; sig
 export function analyseOpenLoop(input: OpenLoop, options: AnalysisOptions = {}): LoopMargins {
   const loop = validateOpenLoop(input);
   checkAnalysisBounds(loop);
-  const full = (options.scope ?? 'full') === 'full';
+  const scope = options.scope ?? 'full';
+  const full = scope === 'full';
   const { numerator, denominator } = cancelCommonIntegrators(loop.numerator, loop.denominator);
   const discrete = loop.discreteController ?? null;
   const plant = discrete === null ? null : sampledPlant({ numerator, denominator, delay_s: loop.delay_s }, discrete.sampleTime_s);
   const sweep = sweepLoop({ numerator, denominator, delay_s: loop.delay_s, discreteController: discrete, sampledPlant: plant, crossings: 'gainAndPhase' });
   const decision =
-    discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep, full);
+    discrete === null || plant === null ? continuousDecision(numerator, denominator, loop.delay_s, sweep) : sampledDecision(plant, discrete, sweep, scope);
   const { verdict } = decision;
   const stable = verdict === 'stable';
 

@@ -17,7 +17,7 @@ import { sampledNyquistCount } from './sampled-nyquist.js';
 import type { SampledPlant } from './sampled-plant.js';
 import { sampledVerdictOf } from './sampled-verdict.js';
 import type { Sweep } from './sweep.js';
-import type { DiscreteControllerFactor, LoopAnalysisDetails, LoopMargins } from './types.js';
+import type { AnalysisScope, DiscreteControllerFactor, LoopAnalysisDetails, LoopMargins } from './types.js';
 
 export type DecisionDetails = Omit<LoopAnalysisDetails, 'gainCrossovers' | 'phaseCrossovers' | 'bandLow_radps' | 'bandHigh_radps' | 'delayMarginNote'>;
 
@@ -117,21 +117,22 @@ export function continuousDecision(numerator: readonly number[], denominator: re
  * Verdict of the sampled loop (plant N/D·e^(−θs), zero-order hold, C(z)): its exact closed-loop poles
  * decide, the Nyquist count on its pulse frequency response cross-checks. The pole and count fields of
  * the details then speak of the sampled loop (no Padé: order 0; right-half-plane poles read as poles
- * outside the unit circle; origin poles include the controller's integrator at z = 1). `crossCheck` false
+ * outside the unit circle; origin poles include the controller's integrator at z = 1). `scope` 'figures'
  * leaves the count out (the poles decide either way).
  */
-export function sampledDecision(plant: SampledPlant, discrete: DiscreteControllerFactor, sweep: Sweep, crossCheck = true): Decision {
+export function sampledDecision(plant: SampledPlant, discrete: DiscreteControllerFactor, sweep: Sweep, scope: AnalysisScope = 'full'): Decision {
   const poles = sampledVerdictOf({ plant, controller: discrete, sampleTime_s: discrete.sampleTime_s, plantPoles: sweep });
   // Without the cross-check (analysis scope 'figures') the count is reported as not made.
-  const count = crossCheck
-    ? sampledNyquistCount(plant, discrete, sweep, { pulseNumerator: sweep.compiled.sampled?.pulse.numerator })
-    : {
-        verdict: 'undetermined' as const,
-        reason: 'not counted (analysis scope "figures")',
-        closedLoopOutsidePoles: null,
-        openLoopOutsidePoles: sweep.rightHalfPlanePoles,
-        openLoopUnitPoles: sweep.originPoles,
-      };
+  const count =
+    scope === 'full'
+      ? sampledNyquistCount(plant, discrete, sweep, { pulseNumerator: sweep.compiled.sampled?.pulse.numerator })
+      : {
+          verdict: 'undetermined' as const,
+          reason: 'not counted (analysis scope "figures")',
+          closedLoopOutsidePoles: null,
+          openLoopOutsidePoles: sweep.rightHalfPlanePoles,
+          openLoopUnitPoles: sweep.originPoles,
+        };
   return {
     verdict: poles.verdict,
     details: {

@@ -1,3 +1,6 @@
+/** How much of a loop analysis to do: 'full', or 'figures' without the Nyquist cross-check and the delay margin's confirmation (AnalysisOptions). */
+export type AnalysisScope = 'full' | 'figures';
+
 /**
  * Stability and robustness of one loop L = C·G.
  * Absent margins are null. Margins are distances to instability: on a loop that is not stable

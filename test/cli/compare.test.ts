@@ -11,9 +11,11 @@ import { fixtureGains, fixtureSchedule } from '../compare/fixture-schedules.js';
 const folder = mkdtempSync(join(tmpdir(), 'speedband-compare-'));
 const oldPath = join(folder, 'old.json');
 const raisedPath = join(folder, 'raised.json');
-writeSchedule(oldPath, fixtureSchedule(), false);
+writeSchedule(oldPath, fixtureSchedule(), { force: false });
 // One gain raised 20 % at 7 m/s; the file is assembled and checksummed by the schedule module.
-writeSchedule(raisedPath, fixtureSchedule({ gainsAt: (speed) => ({ ...fixtureGains(speed), kp: fixtureGains(speed).kp * (speed === 7 ? 1.2 : 1) }) }), false);
+writeSchedule(raisedPath, fixtureSchedule({ gainsAt: (speed) => ({ ...fixtureGains(speed), kp: fixtureGains(speed).kp * (speed === 7 ? 1.2 : 1) }) }), {
+  force: false,
+});
 
 async function compare(...args: string[]) {
   const io = recordingIo();

@@ -17,7 +17,7 @@ import { sampleSchedule } from '../schedule/sample-schedule.js';
 function scheduleFile(schedule: ScheduleFile = sampleSchedule()): { dir: string; path: string } {
   const dir = mkdtempSync(join(tmpdir(), 'speedband-export-cli-'));
   const path = join(dir, 'schedule.json');
-  writeSchedule(path, schedule, false);
+  writeSchedule(path, schedule, { force: false });
   return { dir, path };
 }
 

@@ -14,7 +14,7 @@ let logs: string[] = [];
 
 beforeAll(() => {
   folder = mkdtempSync(join(tmpdir(), 'speedband-cli-identify-'));
-  const written = writeTestLogs(loadVehicle(VEHICLE), [0.8, 1.6], join(folder, 'logs'), { seed: 2 });
+  const written = writeTestLogs({ vehicle: loadVehicle(VEHICLE), speeds_mps: [0.8, 1.6], outDir: join(folder, 'logs'), generation: { seed: 2 }, force: false });
   logs = written.files.map((f) => f.path).filter((p) => p.endsWith('.csv'));
 }, 60_000);
 
@@ -168,8 +168,8 @@ describe('speedband identify: --json without --out, the two-point note, step ord
 
   it("lists each speed's steps by file, then step index (two files at one speed)", async () => {
     const vehicle = loadVehicle(VEHICLE);
-    const first = writeTestLogs(vehicle, [0.8, 1.6], join(folder, 'repeat-a'), { seed: 7 });
-    const second = writeTestLogs(vehicle, [0.8], join(folder, 'repeat-b'), { seed: 8 });
+    const first = writeTestLogs({ vehicle, speeds_mps: [0.8, 1.6], outDir: join(folder, 'repeat-a'), generation: { seed: 7 }, force: false });
+    const second = writeTestLogs({ vehicle, speeds_mps: [0.8], outDir: join(folder, 'repeat-b'), generation: { seed: 8 }, force: false });
     const csv = [...first.files, ...second.files].map((f) => f.path).filter((p) => p.endsWith('.csv'));
     const out = join(folder, 'order.json');
     expect(

@@ -49,7 +49,7 @@ describe('the changed demo vehicle vehicles/parcel-van-loaded', () => {
     expect(demo.speeds_mps).toEqual(parent.speeds_mps);
     expect(demo.seed).not.toBe(parent.seed);
     const out = mkdtempSync(join(tmpdir(), 'speedband-loaded-'));
-    regenerateDemoVehicle(demo, VEHICLES, out);
+    regenerateDemoVehicle(demo, { vehiclesRoot: VEHICLES, outRoot: out, force: false });
     const committed = join(VEHICLES, demo.folder, 'logs');
     const names = readdirSync(committed).sort();
     expect(readdirSync(join(out, demo.folder, 'logs')).sort()).toEqual(names);

@@ -85,15 +85,15 @@ describe('marginsAtSpeed(schedule, speed)', () => {
 
 describe('gainChange / marginChange', () => {
   it('a negative gain growing in magnitude by 20 % reads +20 % (ratio new/old − 1) and is flagged', () => {
-    const change = gainChange(-1, -1.2, true, COMPARE_DEFAULTS);
+    const change = gainChange({ old: -1, new: -1.2, comparable: true, thresholds: COMPARE_DEFAULTS });
     expect(change.change_pct).toBeCloseTo(20, 12);
     expect(change.flagged).toBe(true);
   });
 
   it('exactly 15 % is flagged (the limit is reached), 14.9 % is not', () => {
-    expect(gainChange(1, 1.15, true, COMPARE_DEFAULTS).flagged).toBe(true);
-    expect(gainChange(1, 1.149, true, COMPARE_DEFAULTS).flagged).toBe(false);
-    expect(gainChange(1, 0.85, true, COMPARE_DEFAULTS).flagged).toBe(true);
+    expect(gainChange({ old: 1, new: 1.15, comparable: true, thresholds: COMPARE_DEFAULTS }).flagged).toBe(true);
+    expect(gainChange({ old: 1, new: 1.149, comparable: true, thresholds: COMPARE_DEFAULTS }).flagged).toBe(false);
+    expect(gainChange({ old: 1, new: 0.85, comparable: true, thresholds: COMPARE_DEFAULTS }).flagged).toBe(true);
   });
 
   it('informative margins (delay margin, sensitivity peak) are never flagged', () => {
@@ -105,8 +105,8 @@ describe('gainChange / marginChange', () => {
 describe('thresholds of 0', () => {
   it('flag any change and never an unchanged value', () => {
     const zero = { ...COMPARE_DEFAULTS, gainChange_pct: 0 };
-    expect(gainChange(1, 1, true, zero).flagged).toBe(false);
-    expect(gainChange(1, 1.0001, true, zero).flagged).toBe(true);
+    expect(gainChange({ old: 1, new: 1, comparable: true, thresholds: zero }).flagged).toBe(false);
+    expect(gainChange({ old: 1, new: 1.0001, comparable: true, thresholds: zero }).flagged).toBe(true);
     expect(marginChange(60, 60, 'decrease', 0).flagged).toBe(false);
     expect(marginChange(60, 59.9, 'decrease', 0).flagged).toBe(true);
   });

@@ -34,7 +34,7 @@ describe('the registry of error codes', () => {
     const given = new Map<string, string>();
     for (const [path, text] of sources) {
       for (const match of text.matchAll(/new SpeedbandError\(\s*'([^']+)'/g)) given.set(match[1], path);
-      for (const match of text.matchAll(/makeValidator(?:<[^>]*>)?\([^,]+,\s*'([^']+)'/g)) given.set(match[1], path);
+      for (const match of text.matchAll(/makeValidator(?:<[^>]*>)?\(\{[^}]*?\bcode:\s*'([^']+)'/g)) given.set(match[1], path);
     }
     expect(given.size).toBeGreaterThan(100);
     const unknown = [...given].filter(([code]) => !isErrorCode(code)).map(([code, path]) => `${code} (${path})`);

@@ -24,7 +24,7 @@ describe('writeFileAtomic', () => {
     const live = join(dir, `.schedule.json.${process.ppid}.0a1b2c3d.speedband-tmp`);
     const other = join(dir, `.other.json.${deadPid()}.0a1b2c3d.speedband-tmp`);
     for (const path of [stale, live, other]) writeFileSync(path, 'half a file');
-    expect(writeFileAtomic(target, 'new\n', false)).toBe('written');
+    expect(writeFileAtomic(target, 'new\n', { force: false })).toBe('written');
     expect(existsSync(stale)).toBe(false);
     expect(existsSync(live)).toBe(true);
     expect(existsSync(other)).toBe(true);
@@ -38,9 +38,9 @@ describe('writeFileAtomic', () => {
     const dir = folder();
     const file = join(dir, 'file.txt');
     writeFileSync(file, 'x');
-    expect(() => writeFileAtomic(dir, 'x', true)).toThrow(expect.objectContaining({ code: 'output.isDirectory' }));
-    expect(() => writeFileAtomic('/dev/null', 'x', true)).toThrow(expect.objectContaining({ code: 'output.notRegularFile' }));
-    expect(() => writeFileAtomic(join(file, 'below.txt'), 'x', true)).toThrow(expect.objectContaining({ code: 'output.unwritable' }));
+    expect(() => writeFileAtomic(dir, 'x', { force: true })).toThrow(expect.objectContaining({ code: 'output.isDirectory' }));
+    expect(() => writeFileAtomic('/dev/null', 'x', { force: true })).toThrow(expect.objectContaining({ code: 'output.notRegularFile' }));
+    expect(() => writeFileAtomic(join(file, 'below.txt'), 'x', { force: true })).toThrow(expect.objectContaining({ code: 'output.unwritable' }));
   });
 });
 

@@ -32,11 +32,11 @@ describe('schemas of the files speedband reads and writes', () => {
   });
 
   it('makeValidator still rejects a bad value with the code, file and JSON path', () => {
-    const validate = makeValidator<{ a: number }>(
-      { type: 'object', required: ['a'], properties: { a: { type: 'number' } }, additionalProperties: false },
-      'plan.invalid',
-      'test file',
-    );
+    const validate = makeValidator<{ a: number }>({
+      schema: { type: 'object', required: ['a'], properties: { a: { type: 'number' } }, additionalProperties: false },
+      code: 'plan.invalid',
+      what: 'test file',
+    });
     expect(validate({ a: 1 }, 'x.json')).toEqual({ a: 1 });
     expect(() => validate({ a: 'one' }, 'x.json')).toThrow(
       expect.objectContaining({ code: 'plan.invalid', location: expect.objectContaining({ file: 'x.json', jsonPath: '/a' }) }),

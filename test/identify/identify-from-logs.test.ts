@@ -31,8 +31,8 @@ let clean: ModelsFile;
 beforeAll(() => {
   folder = mkdtempSync(join(tmpdir(), 'speedband-identify-'));
   const vehicle = loadVehicle(VEHICLE);
-  const noisyLogs = writeTestLogs(vehicle, SPEEDS_MPS, join(folder, 'noisy'), { seed: 5 });
-  const cleanLogs = writeTestLogs(vehicle, SPEEDS_MPS, join(folder, 'clean'), { seed: 5, noiseScale: 0 });
+  const noisyLogs = writeTestLogs({ vehicle, speeds_mps: SPEEDS_MPS, outDir: join(folder, 'noisy'), generation: { seed: 5 }, force: false });
+  const cleanLogs = writeTestLogs({ vehicle, speeds_mps: SPEEDS_MPS, outDir: join(folder, 'clean'), generation: { seed: 5, noiseScale: 0 }, force: false });
   const csv = (files: readonly { path: string }[]) => files.map((f) => f.path).filter((p) => p.endsWith('.csv'));
   noisy = identifyFromLogs({ vehicle: VEHICLE, logPaths: csv(noisyLogs.files) });
   clean = identifyFromLogs({ vehicle: VEHICLE, logPaths: csv(cleanLogs.files), options: { jointFit: false, fitSecondOrder: false } });

@@ -161,12 +161,12 @@ describe('stepMetrics(window) on an underdamped second-order response', () => {
   });
 });
 
-describe('firstCrossing(time, values, target, direction, from)', () => {
+describe('firstCrossing({ time_s: time, values, target, direction, from })', () => {
   it('interpolates linearly between the samples around the crossing, for rising and falling signals', () => {
     const time_s = Float64Array.from([0, 1, 2, 3]);
-    expect(firstCrossing(time_s, Float64Array.from([0, 0, 4, 4]), 1, 1, 0)).toBeCloseTo(1.25, 12);
-    expect(firstCrossing(time_s, Float64Array.from([4, 4, 0, 0]), 1, -1, 0)).toBeCloseTo(1.75, 12);
-    expect(firstCrossing(time_s, Float64Array.from([0, 0, 0, 0]), 1, 1, 0)).toBeNull();
+    expect(firstCrossing({ time_s, values: Float64Array.from([0, 0, 4, 4]), target: 1, direction: 1, from: 0 })).toBeCloseTo(1.25, 12);
+    expect(firstCrossing({ time_s, values: Float64Array.from([4, 4, 0, 0]), target: 1, direction: -1, from: 0 })).toBeCloseTo(1.75, 12);
+    expect(firstCrossing({ time_s, values: Float64Array.from([0, 0, 0, 0]), target: 1, direction: 1, from: 0 })).toBeNull();
   });
 });
 

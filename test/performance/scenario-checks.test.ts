@@ -11,7 +11,12 @@ const MISALIGNMENT_RAD = 0.004;
 
 function misalignmentRun(loop: 'heading' | 'path' | 'yaw-rate', gains: { kp: number; ki: number; kd: number }, speed_mps: number): Float64Array {
   const controller = constantController(loop === 'path' ? { kind: 'path', preview_m: 3, referencePoint: 'cg' } : { kind: loop }, gains);
-  return simulateScenario(vanVehicle(), controller, { ...quietSetup(speed_mps, 80), misalignment: { time_s: 1, size: MISALIGNMENT_RAD } }, 1).error;
+  return simulateScenario({
+    vehicle: vanVehicle(),
+    controller,
+    setup: { ...quietSetup(speed_mps, 80), misalignment: { time_s: 1, size: MISALIGNMENT_RAD } },
+    stepsPerSample: 1,
+  }).error;
 }
 
 describe('a constant steering misalignment b', () => {
@@ -60,11 +65,19 @@ describe('a slow speed ramp', () => {
       judgeFrom_s: 1,
       setup: { ...quietSetup(8, 25), speed, referenceStep: { time_s: 1, size: 0.01 } },
     });
-    const ramp = runScenario(vanVehicle(), controller, step({ initial_mps: 8, final_mps: 9, changeStart_s: 0, acceleration_mps2: 0.01 }));
+    const ramp = runScenario({
+      vehicle: vanVehicle(),
+      controller,
+      scenario: step({ initial_mps: 8, final_mps: 9, changeStart_s: 0, acceleration_mps2: 0.01 }),
+    });
     expect(ramp.traces.integrator.name).toBe('runge-kutta-4');
     expect(ramp.converged).toBe(true);
     // Frozen at the speed the ramp has when the step comes (t = 1 s: 8.01 m/s).
-    const frozen = runScenario(vanVehicle(), controller, step({ initial_mps: 8.01, final_mps: 8.01, changeStart_s: 0, acceleration_mps2: 0 }));
+    const frozen = runScenario({
+      vehicle: vanVehicle(),
+      controller,
+      scenario: step({ initial_mps: 8.01, final_mps: 8.01, changeStart_s: 0, acceleration_mps2: 0 }),
+    });
     expect(frozen.traces.integrator.name).toBe('exact');
     const r = ramp.metrics;
     const f = frozen.metrics;
@@ -110,12 +123,16 @@ describe('the limit-cycle detector', () => {
   const limit = 0.03;
   const settings = { ...LINEAR_SETTINGS, commandLimit_rad: limit, integratorClamp_rad: limit };
   const run = (kp: number) =>
-    runScenario(vanVehicle({ maxSteerAngle_rad: limit }), constantController({ kind: 'heading' }, { kp }, settings), {
-      name: 'initial-offset',
-      kind: 'disturbance',
-      size: 0.05,
-      judgeFrom_s: 0,
-      setup: { ...quietSetup(speed, 40), initialHeadingError_rad: 0.05 },
+    runScenario({
+      vehicle: vanVehicle({ maxSteerAngle_rad: limit }),
+      controller: constantController({ kind: 'heading' }, { kp }, settings),
+      scenario: {
+        name: 'initial-offset',
+        kind: 'disturbance',
+        size: 0.05,
+        judgeFrom_s: 0,
+        setup: { ...quietSetup(speed, 40), initialHeadingError_rad: 0.05 },
+      },
     });
 
   it("fires on a saturating heading loop, with the describing function's amplitude and period within 20 %", () => {
@@ -149,7 +166,7 @@ describe('the limit-cycle detector', () => {
       judgeFrom_s: 1,
       setup: { ...quietSetup(9, 30), referenceStep: { time_s: 1, size: 0.01 } },
     };
-    expect(scenarioMetrics(scenario, simulateScenario(vanVehicle(), controller, scenario.setup, 1)).limitCycle).toBeNull();
+    expect(scenarioMetrics(scenario, simulateScenario({ vehicle: vanVehicle(), controller, setup: scenario.setup, stepsPerSample: 1 })).limitCycle).toBeNull();
   });
 });
 
@@ -171,8 +188,8 @@ describe('stopping at rest (judging only)', () => {
       for (const speed of [4, 12]) {
         const scenario = prepareScenario(name, context, speed);
         if (scenario === null) continue;
-        const full = runScenario(vehicle, controller, scenario);
-        const stopped = runScenario(vehicle, controller, scenario, true);
+        const full = runScenario({ vehicle, controller, scenario });
+        const stopped = runScenario({ vehicle, controller, scenario, stopAtRest: true });
         // Every figure within 0.1 % (times within a sample); the final error within 1e-6 of the peak (it is ≈ 0 at rest).
         expect(
           metricsThatMoved(full.metrics, stopped.metrics, LINEAR_SETTINGS.sampleTime_s).filter((key) => key !== 'finalError'),

@@ -77,11 +77,11 @@ describe('speedChangeCertificate', () => {
     expect(rate).toBeGreaterThan(CERTIFICATE_SEARCH.lowest_mps2);
     expect(rate).toBeLessThan(CERTIFICATE_SEARCH.highest_mps2);
     const errorAt = (acceleration: number): number =>
-      runScenario(
+      runScenario({
         vehicle,
         controller,
-        rampScenario('speed-ramp-in-curve', context, { initial_mps: 4, final_mps: 16, changeStart_s: 11, acceleration_mps2: acceleration }),
-      ).metrics.peakError;
+        scenario: rampScenario('speed-ramp-in-curve', context, { initial_mps: 4, final_mps: 16, changeStart_s: 11, acceleration_mps2: acceleration }),
+      }).metrics.peakError;
     const step = Math.pow(CERTIFICATE_SEARCH.highest_mps2 / CERTIFICATE_SEARCH.lowest_mps2, 1 / 2 ** CERTIFICATE_SEARCH.steps);
     expect(errorAt(rate)).toBeLessThanOrEqual(0.004);
     expect(errorAt(rate * step * 1.0001)).toBeGreaterThan(0.004);

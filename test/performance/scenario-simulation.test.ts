@@ -79,7 +79,7 @@ describe('simulateScenario at constant speed, no limit reached', () => {
       lateralForce: { time_s: 8, size: 800 },
       initialLateralOffset_m: 0.02,
     };
-    const ours = simulateScenario(vanVehicle(), controller, setup, 1);
+    const ours = simulateScenario({ vehicle: vanVehicle(), controller, setup, stepsPerSample: 1 });
     expect(ours.integrator.name).toBe('exact');
     const ts = LINEAR_SETTINGS.sampleTime_s;
     const inputs = Array.from(ours.time_s, (t) => [t >= 1 ? 0.05 : 0, t >= 4 ? 0.002 : 0, t >= 8 ? 800 : 0]);

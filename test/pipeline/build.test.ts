@@ -25,7 +25,7 @@ beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'speedband-build-'));
   models = identifyFromLogs({ vehicle: VAN, logPaths: vanLogs() });
   modelsPath = join(dir, 'models.json');
-  writeModels(modelsPath, models, false);
+  writeModels(modelsPath, models, { force: false });
   schedulePath = join(dir, 'schedule.json');
   const io = recordingIo();
   const code = await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--out', schedulePath], io);

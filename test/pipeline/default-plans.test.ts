@@ -223,7 +223,13 @@ describe('simulate on every demo vehicle and default plan', () => {
       for (const name of Object.keys(PLANS)) {
         const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
         const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
-        const runs = simulateSchedule({ schedule, parameters, steeringLimits: file, scenarios: SCENARIO_NAMES, speeds: scenarioSpeeds(schedule, false) });
+        const runs = simulateSchedule({
+          schedule,
+          parameters,
+          steeringLimits: file,
+          scenarios: SCENARIO_NAMES,
+          speeds: scenarioSpeeds(schedule, { withBreakpoints: false }),
+        });
         const names = new Set(runs.map((run) => run.scenario.name));
         expect(names.size, `${vehicle} ${name}`).toBe(schedule.loop.kind === 'yaw-rate' ? SCENARIO_NAMES.length - 1 : SCENARIO_NAMES.length);
         for (const run of runs) {

@@ -29,7 +29,7 @@ beforeAll(() => {
     .filter((name) => name.endsWith('.csv'))
     .map((name) => join(VAN, 'logs', name));
   modelsPath = join(dir, 'models.json');
-  writeModels(modelsPath, identifyFromLogs({ vehicle: VAN, logPaths: logs }), false);
+  writeModels(modelsPath, identifyFromLogs({ vehicle: VAN, logPaths: logs }), { force: false });
 });
 
 describe('speedband build with a rule parameter given as an expression of speed', () => {

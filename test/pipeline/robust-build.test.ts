@@ -48,8 +48,8 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'speedband-robust-'));
   vanModels = join(dir, 'van-models.json');
   loadedModels = join(dir, 'loaded-models.json');
-  writeModels(vanModels, identifyFromLogs({ vehicle: VAN, logPaths: [join(VAN, 'logs')], options: { fitSecondOrder: false } }), false);
-  writeModels(loadedModels, identifyFromLogs({ vehicle: LOADED, logPaths: [join(LOADED, 'logs')], options: { fitSecondOrder: false } }), false);
+  writeModels(vanModels, identifyFromLogs({ vehicle: VAN, logPaths: [join(VAN, 'logs')], options: { fitSecondOrder: false } }), { force: false });
+  writeModels(loadedModels, identifyFromLogs({ vehicle: LOADED, logPaths: [join(LOADED, 'logs')], options: { fitSecondOrder: false } }), { force: false });
 }, 120_000);
 
 describe('speedband build with a variation set', () => {

@@ -47,7 +47,7 @@ function headingControl(speed_mps: number): { control: BreakpointControl; nomina
   });
   const gains = simc.gains;
   const loop = performanceLoopAt(model, HEADING, speed_mps, CONTROLLER);
-  const margins = analyseOperatingPoint(model, HEADING, CONTROLLER, speed_mps, gains);
+  const margins = analyseOperatingPoint({ operatingPoint: model, loop: HEADING, controller: CONTROLLER, speed_mps, gains });
   const nominal = breakpointPerformance({ loop, gains, ...SETTINGS, slowestTimeConstant_s: margins.analysis?.sampledDataSlowestTimeConstant_s ?? null });
   return {
     control: {
@@ -65,7 +65,7 @@ function headingControl(speed_mps: number): { control: BreakpointControl; nomina
 function figuresOf(context: RobustContext, control: BreakpointControl, values: readonly number[]): TimeDomainFigures {
   const vehicle = operatingPointWith(VAN_MODEL.modelAt(control.speed_mps), context.set, values);
   const loop = performanceLoopAt(vehicle, HEADING, control.speed_mps, CONTROLLER);
-  const margins = analyseOperatingPoint(vehicle, HEADING, CONTROLLER, control.speed_mps, control.gains);
+  const margins = analyseOperatingPoint({ operatingPoint: vehicle, loop: HEADING, controller: CONTROLLER, speed_mps: control.speed_mps, gains: control.gains });
   expect(margins.verdict).toBe('stable');
   return breakpointPerformance({
     loop: { ...loop, feedForward: { ...loop.feedForward, gain: control.feedForward, leadTime_s: control.feedForwardLeadTime_s } },

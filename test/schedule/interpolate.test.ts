@@ -157,7 +157,7 @@ describe('makeGainLookup(table)', () => {
       let k = 0;
       while (k < x.length - 2 && q >= x[k + 1]) k += 1;
       const h = x[k + 1] - x[k];
-      return hermiteValue((q - x[k]) / h, h, y[k], y[k + 1], slopes[k], slopes[k + 1]);
+      return hermiteValue({ t: (q - x[k]) / h, h, y0: y[k], y1: y[k + 1], m0: slopes[k], m1: slopes[k + 1] });
     });
     const reference = runPython<number[]>(
       `import json, sys

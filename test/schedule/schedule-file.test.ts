@@ -148,22 +148,22 @@ describe('writeSchedule / readSchedule', () => {
     const dir = folder();
     const path = join(dir, 'schedule.json');
     const schedule = sampleSchedule();
-    expect(writeSchedule(path, schedule, false)).toBe('written');
+    expect(writeSchedule(path, schedule, { force: false })).toBe('written');
     expect(readSchedule(path)).toEqual(schedule);
     const text = readFileSync(path, 'utf8');
     expect(text).toBe(serialiseSchedule(sampleSchedule()));
     expect(text).not.toMatch(/\/somewhere|\/data\/logs|tmp/);
     expect(text.indexOf('"format"')).toBeLessThan(text.indexOf('"breakpoints"'));
     expect(schedule.cautions).toEqual(SAFETY_CAUTIONS);
-    expect(writeSchedule(path, schedule, false)).toBe('unchanged');
+    expect(writeSchedule(path, schedule, { force: false })).toBe('unchanged');
   });
 
   it('does not replace a different file without force', () => {
     const dir = folder();
     const path = join(dir, 'schedule.json');
     writeFileSync(path, '{}');
-    expect(() => writeSchedule(path, sampleSchedule(), false)).toThrow(expect.objectContaining({ code: 'output.exists' }));
-    expect(writeSchedule(path, sampleSchedule(), true)).toBe('written');
+    expect(() => writeSchedule(path, sampleSchedule(), { force: false })).toThrow(expect.objectContaining({ code: 'output.exists' }));
+    expect(writeSchedule(path, sampleSchedule(), { force: true })).toBe('written');
   });
 
   it('a file with an altered gain is refused with a typed error naming what changed', () => {

@@ -42,7 +42,7 @@ describe('scheduleGains(plan, tuneAt, analyse) then assembleSchedule', () => {
     // Source: closed form (Åström & Murray 2008): at every breakpoint kθ = π/6, so PM = 60°.
     for (const row of schedule.breakpoints) expect(row.margins.phaseMargin_deg).toBeCloseTo(60, 9);
     const path = join(mkdtempSync(join(tmpdir(), 'speedband-gains-')), 'schedule.json');
-    writeSchedule(path, schedule, false);
+    writeSchedule(path, schedule, { force: false });
     expect(readSchedule(path)).toEqual(schedule);
   });
 });

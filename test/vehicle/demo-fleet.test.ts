@@ -14,7 +14,7 @@ describe('the demo fleet in vehicles/', () => {
   it('regenerates the committed parcel-van logs byte-identically', () => {
     const demo = DEMO_FLEET.find((entry) => entry.folder === 'parcel-van')!;
     const out = mkdtempSync(join(tmpdir(), 'speedband-fleet-'));
-    regenerateDemoVehicle(demo, VEHICLES, out);
+    regenerateDemoVehicle(demo, { vehiclesRoot: VEHICLES, outRoot: out, force: false });
     const committed = join(VEHICLES, demo.folder, 'logs');
     const names = readdirSync(committed).sort();
     expect(readdirSync(join(out, demo.folder, 'logs')).sort()).toEqual(names);

@@ -157,33 +157,37 @@ describe('planSteps and sampleCommand', () => {
   });
 });
 
-describe('writeTestLogs(vehicle, speeds, outDir, options, force)', () => {
+describe('writeTestLogs({ vehicle: vehicle, speeds_mps: speeds, outDir: outDir, generation: options, force: force })', () => {
   it('writes one log per speed and a README that says the data are invented', () => {
     const dir = mkdtempSync(join(tmpdir(), 'speedband-logs-'));
-    const result = writeTestLogs(VAN, [4, 12], dir, { seed: 5 });
+    const result = writeTestLogs({ vehicle: VAN, speeds_mps: [4, 12], outDir: dir, generation: { seed: 5 }, force: false });
     expect(readdirSync(dir).sort()).toEqual(['README.md', 'synthetic-steps-04.00mps.csv', 'synthetic-steps-12.00mps.csv']);
     expect(result.files.every((file) => file.outcome === 'written')).toBe(true);
     const readme = readFileSync(join(dir, 'README.md'), 'utf8');
     expect(readme).toMatch(/Invented demo data/);
     expect(readme).toMatch(/--speeds 4,12 --seed 5/);
     // the same call again changes nothing
-    expect(writeTestLogs(VAN, [4, 12], dir, { seed: 5 }).files.every((file) => file.outcome === 'unchanged')).toBe(true);
+    expect(
+      writeTestLogs({ vehicle: VAN, speeds_mps: [4, 12], outDir: dir, generation: { seed: 5 }, force: false }).files.every(
+        (file) => file.outcome === 'unchanged',
+      ),
+    ).toBe(true);
   });
 
   it('refuses to replace different files without force, before writing any', () => {
     const dir = mkdtempSync(join(tmpdir(), 'speedband-logs-'));
     writeFileSync(join(dir, 'synthetic-steps-12.00mps.csv'), 'someone else’s data\n');
-    expect(() => writeTestLogs(VAN, [4, 12], dir)).toThrow(expect.objectContaining({ code: 'output.exists' }));
+    expect(() => writeTestLogs({ vehicle: VAN, speeds_mps: [4, 12], outDir: dir, force: false })).toThrow(expect.objectContaining({ code: 'output.exists' }));
     expect(readdirSync(dir)).toEqual(['synthetic-steps-12.00mps.csv']);
-    writeTestLogs(VAN, [4, 12], dir, {}, true);
+    writeTestLogs({ vehicle: VAN, speeds_mps: [4, 12], outDir: dir, force: true });
     expect(readFileSync(join(dir, 'synthetic-steps-12.00mps.csv'), 'utf8')).toMatch(/^time_s,/);
   });
 
   it('refuses an empty, non-positive or repeated speed list', () => {
     const dir = mkdtempSync(join(tmpdir(), 'speedband-logs-'));
     const badSpeeds = expect.objectContaining({ code: 'testLogs.badSpeeds' });
-    expect(() => writeTestLogs(VAN, [], dir)).toThrow(badSpeeds);
-    expect(() => writeTestLogs(VAN, [0, 5], dir)).toThrow(badSpeeds);
-    expect(() => writeTestLogs(VAN, [5, 5.001], dir)).toThrow(badSpeeds);
+    expect(() => writeTestLogs({ vehicle: VAN, speeds_mps: [], outDir: dir, force: false })).toThrow(badSpeeds);
+    expect(() => writeTestLogs({ vehicle: VAN, speeds_mps: [0, 5], outDir: dir, force: false })).toThrow(badSpeeds);
+    expect(() => writeTestLogs({ vehicle: VAN, speeds_mps: [5, 5.001], outDir: dir, force: false })).toThrow(badSpeeds);
   });
 });

@@ -17,8 +17,8 @@ describe("analyseLoop with scope 'figures'", () => {
   ]);
   for (const { speed_mps, loop, gains } of cases) {
     it(`gives the full analysis' verdict, margins and peaks on the van's ${loop.kind} loop at ${speed_mps} m/s, and the delay margin's crossover estimate`, () => {
-      const full = analyseOperatingPoint(VAN_MODEL.modelAt(speed_mps), loop, CONTROLLER, speed_mps, gains);
-      const figures = analyseOperatingPoint(VAN_MODEL.modelAt(speed_mps), loop, CONTROLLER, speed_mps, gains, { scope: 'figures' });
+      const full = analyseOperatingPoint({ operatingPoint: VAN_MODEL.modelAt(speed_mps), loop, controller: CONTROLLER, speed_mps, gains });
+      const figures = analyseOperatingPoint({ operatingPoint: VAN_MODEL.modelAt(speed_mps), loop, controller: CONTROLLER, speed_mps, gains, scope: 'figures' });
       for (const name of [
         'verdict',
         'phaseMargin_deg',

@@ -120,8 +120,8 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   });
   const { schedule } = result;
   const written = schedule.status === 'passed' || args['allow-failing'];
-  const outcome = written ? writeSchedule(out, schedule, args.force) : null;
-  if (modelsOut !== undefined) writeModels(modelsOut, result.models, args.force);
+  const outcome = written ? writeSchedule(out, schedule, { force: args.force }) : null;
+  if (modelsOut !== undefined) writeModels(modelsOut, result.models, { force: args.force });
   const baselineCheck = baselineSchedule === undefined ? undefined : await (await import('../../pipeline/baseline.js')).checkBaseline(baselineSchedule, result);
   const baseline =
     baselineFile === undefined || baselineSchedule === undefined || baselineCheck === undefined
@@ -144,7 +144,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
       ...(baseline === undefined ? {} : { baseline: { file: baseline.file, schedule: baseline.schedule, check: baseline.check.check } }),
       ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
     });
-    report = { file: reportOut, ...(await writeReport(reportOut, data, args.force)) };
+    report = { file: reportOut, ...(await writeReport(reportOut, data, { force: args.force })) };
   }
 
   const summary: BuildSummaryInput = {

@@ -64,7 +64,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const { acceptancePassed } = await import('../../schedule/schedule-variations.js');
   const scenarios = await checkScenarios(args, schedule, model);
   notes.push(...scenarios.notes);
-  const passed = acceptancePassed(result.passed, robust?.record) && (scenarios.check?.passed ?? true);
+  const passed = acceptancePassed(result, robust?.record) && (scenarios.check?.passed ?? true);
 
   if (args.json) {
     io.stdout(

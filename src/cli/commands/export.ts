@@ -206,7 +206,7 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
     return passed ? EXIT.ok : EXIT.failed;
   }
   const { writeFileAtomic } = await import('../../core/files.js');
-  const outcome = writeFileAtomic(out, text, args.force);
+  const outcome = writeFileAtomic(out, text, { force: args.force });
   if (args.json) {
     io.stdout(
       `${JSON.stringify(

@@ -121,7 +121,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     ...(columns === undefined ? {} : { readOptions: { columns } }),
     progress: io.progress,
   });
-  const outcome = out === undefined ? null : writeModels(out, models, args.force);
+  const outcome = out === undefined ? null : writeModels(out, models, { force: args.force });
   const twoPoint = tallyTwoPointAgreement(models.tests);
 
   if (args.json) {

@@ -140,11 +140,11 @@ export const command = defineCommand({
     const vehicle = loadVehicle(args.vehicle);
     const amplitudesText = args['amplitudes-deg'];
     const amplitudes_rad = amplitudesText === undefined ? undefined : parseNumberList(amplitudesText, 'amplitudes-deg').map(degreesToRadians);
-    const result = writeTestLogs(
+    const result = writeTestLogs({
       vehicle,
-      speeds,
-      out,
-      {
+      speeds_mps: speeds,
+      outDir: out,
+      generation: {
         seed: args.seed,
         sampleRate_hz: args['sample-rate-hz'],
         noiseScale: args['noise-scale'],
@@ -152,8 +152,8 @@ export const command = defineCommand({
         commandPaths: { vehicle: args.vehicle, out },
         ...(amplitudes_rad === undefined ? {} : { amplitudes_rad }),
       },
-      args.force,
-    );
+      force: args.force,
+    });
     const outcomes = new Map(result.files.map((file) => [file.path, file.outcome]));
     const rows = result.logs.map((log, index) => ({
       file: result.files[index].path,

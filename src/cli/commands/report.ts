@@ -92,7 +92,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     ...(baselinePath === undefined ? {} : { baseline: { file: baselinePath, schedule: readSchedule(baselinePath) } }),
     ...(responseSpeeds_mps === undefined ? {} : { responseSpeeds_mps }),
   });
-  const { outcome, bytes, sections } = await writeReport(out, data, args.force);
+  const { outcome, bytes, sections } = await writeReport(out, data, { force: args.force });
   if (args.json) {
     const oldGains = data.baseline?.oldGainsOnNewVehicle ?? null;
     io.stdout(`${JSON.stringify({ file: out, outcome, bytes, sections, scheduleStatus: schedule.status, oldGainsOnNewVehicle: oldGains }, null, 2)}\n`);

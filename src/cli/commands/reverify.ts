@@ -42,7 +42,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const variations =
     edited.variations === undefined ? null : await (await import('../../pipeline/robust-recheck.js')).recheckOverVariations({ schedule: edited, model });
   const result = reverifySchedule(edited, model, { modelRecorded: recorded, variations });
-  const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, args.force);
+  const outcome = result.schedule === null ? null : writeSchedule(out, result.schedule, { force: args.force });
 
   if (args.json) {
     io.stdout(

@@ -119,7 +119,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     parameters,
     steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
     scenarios,
-    speeds: speeds.length > 0 ? speeds : scenarioSpeeds(schedule, false),
+    speeds: speeds.length > 0 ? speeds : scenarioSpeeds(schedule, { withBreakpoints: false }),
     sizes,
   });
   let outcome: string | null = null;
@@ -132,7 +132,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
         schedule.loop.kind,
         runs.map((r) => ({ scenario: r.scenario.name, startSpeed_mps: r.speed_mps, traces: r.traces })),
       ),
-      args.force,
+      { force: args.force },
     );
   }
   const unconverged = runs.filter((r) => !r.converged);

@@ -14,8 +14,17 @@ export interface LimitOnPlot {
   readonly marks: Mark[];
 }
 
-/** `failsBelow`: figures under the limit break it (margins); else figures over it do (peaks, errors, times). */
-export function limitMarks(limit: NumberOverSpeed, failsBelow: boolean, regionLabel: (value: number, varies: boolean) => string): LimitOnPlot {
+export interface LimitToDraw {
+  /** The limit: one number, or a table over speed. */
+  readonly limit: NumberOverSpeed;
+  /** True: figures under the limit break it (margins); false: figures over it do (peaks, errors, times). */
+  readonly failsBelow: boolean;
+  /** The shaded region's legend, given the edge value and whether the limit varies with speed. */
+  readonly regionLabel: (value: number, varies: boolean) => string;
+}
+
+export function limitMarks(input: LimitToDraw): LimitOnPlot {
+  const { limit, failsBelow, regionLabel } = input;
   const varies = typeof limit !== 'number';
   const value = typeof limit === 'number' ? limit : failsBelow ? Math.min(...limit.values) : Math.max(...limit.values);
   const style = { colour: ROLE_COLOURS.failure, dash: 'dash', width: 1.2 } as const;

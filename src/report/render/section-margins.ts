@@ -83,12 +83,12 @@ function panel(data: ReportData, figure: FigureWords): PlotSpec | null {
   const atBreakpoints = schedule.breakpoints.map((b) => b.margins[figure.field]);
   if (!any(check) && !any(old) && atBreakpoints.every((value) => value === null)) return null;
   const written = figure.limit(data);
-  const drawn = limitMarks(
-    written.value,
-    written.failsBelow,
-    (value, varies) =>
+  const drawn = limitMarks({
+    limit: written.value,
+    failsBelow: written.failsBelow,
+    regionLabel: (value, varies) =>
       `beyond the limit${varies ? ' at every speed' : ''} (${figure.name} ${written.failsBelow ? '<' : '>'} ${shownNumber(value)}${figure.unit === '' ? '' : ` ${figure.unit}`})`,
-  );
+  });
   const limit = { value: drawn.value, failsBelow: written.failsBelow };
   // Room beyond the limit so that the shaded side shows even when every value is far from it.
   const shown = [...(check === null ? [] : values(check, figure.field)), ...(old === null ? [] : values(old, figure.field)), ...atBreakpoints].filter(

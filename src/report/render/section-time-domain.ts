@@ -151,7 +151,7 @@ const limitWords = (value: NumberOverSpeed): string => overSpeedText(value, (v) 
 /** One figure against speed. */
 function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpec {
   const speeds = schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps);
-  const drawn = limitMarks(figure.limit, false, (_, varies) => `beyond the limit${varies ? ' at every speed' : ''}`);
+  const drawn = limitMarks({ limit: figure.limit, failsBelow: false, regionLabel: (_, varies) => `beyond the limit${varies ? ' at every speed' : ''}` });
   const marks: Mark[] = [...drawn.marks];
   figure.series.forEach((series, k) => {
     if (series.worst?.some((value) => value !== null)) {
