@@ -1,7 +1,8 @@
 /**
  * The exported controller in the loop: the header's step function, compiled with gcc, replays the inputs of a
  * simulated scenario (speed, reference, measurement, feed-forward input, sample by sample, from a CSV read by a
- * small C harness) and gives the commands the TypeScript controller equation gave in the simulation.
+ * small C harness) and gives the commands the TypeScript controller equation gave in the simulation. The fixed-point
+ * header's integer step function: c-integer-controller.test.ts.
  */
 import { execFileSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
@@ -11,8 +12,7 @@ import { describe, expect, it } from 'vitest';
 import { simulateSchedule } from '../../src/pipeline/simulate-schedule.js';
 import { firmwareStep, initialFirmwareState } from '../../src/controller/firmware-step.js';
 import { exportC } from '../../src/export/c-header.js';
-import { parseQFormat } from '../../src/export/fixed-point.js';
-import { scheduleExtrasLookup, scheduleFirmware } from '../../src/schedule/schedule-lookup.js';
+import { scheduleFirmware } from '../../src/schedule/schedule-lookup.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 import { singleTrackParametersFromVehicle } from '../../src/vehicle/single-track.js';
@@ -138,25 +138,4 @@ describe("the header's step function compiled with gcc", () => {
       });
     }
   }
-
-  it("fixed point (Q16.16 gains): the integer header leaves the step function to the floating-point header and says so; the controller on the integer lookup's gains differs from the double one by the quantisation only", () => {
-    const schedule = baseSchedule;
-    const replay = simulatedInputs(schedule);
-    const exported = exportC(schedule, { fixedPoint: parseQFormat('16.16') });
-    expect(exported.text).not.toMatch(/speedband_schedule_step\(/);
-    expect(exported.text).toMatch(/controller step function from the floating-point header/);
-    const quantisation = exported.quantisation!;
-    // The gains the firmware's integer lookup computes (bit for bit, see c-header.test.ts), with the double extras.
-    const extrasAt = scheduleExtrasLookup(schedule);
-    const quantisedAt = (speed: number) => ({
-      gains: { ...quantisation.lookup(speed), ...extrasAt(speed) },
-      feedForwardLeadTime_s: extrasAt(speed).feedForwardLeadTime_s,
-    });
-    const quantisedTs = replayTs(schedule, replay, quantisedAt);
-    const scale = Math.max(...Array.from(replay.command, Math.abs));
-    // Quantisation moves the commands, but little (the integer lookup's error bound is checked in c-header.test.ts).
-    const moved = largestDifference(quantisedTs, replay.command);
-    expect(moved).toBeGreaterThan(0);
-    expect(moved).toBeLessThan(1e-3 * scale);
-  });
 });
