@@ -6,6 +6,7 @@
  * memory, no library calls). Its distance from the floating-point step is bounded by fixed-point-bound.ts.
  */
 import { SpeedbandError } from '../core/errors.js';
+import { controllerStateText, STATE_UPDATE_LINES } from './c-controller.js';
 import { type IntegerStepPlan, ACCUMULATOR_FRACTIONAL_BITS, COMPLEMENT_FRACTIONAL_BITS, SIGNAL_FRACTIONAL_BITS } from './integer-step-plan.js';
 
 const A = ACCUMULATOR_FRACTIONAL_BITS;
@@ -115,25 +116,12 @@ export function integerControllerText(input: { readonly prefix: string; readonly
   return [
     ...helpersText(prefix),
     '',
-    `/* The controller equation's memory between samples (accumulator units 2^-${A} rad, signals 2^-${S}): start it with ${prefix}_controller_init. */`,
-    `typedef struct ${prefix}_state {`,
-    '  int64_t integral;',
-    '  int64_t derivative;',
-    '  int64_t previous_derivative_input;',
-    '  int64_t previous_integrand;',
-    '  int64_t previous_saturation;',
-    '  int started;',
-    `} ${prefix}_state;`,
-    '',
-    `static inline void ${prefix}_controller_init(${prefix}_state *state)`,
-    '{',
-    '  state->integral = 0;',
-    '  state->derivative = 0;',
-    '  state->previous_derivative_input = 0;',
-    '  state->previous_integrand = 0;',
-    '  state->previous_saturation = 0;',
-    '  state->started = 0;',
-    '}',
+    ...controllerStateText(
+      prefix,
+      'int64_t',
+      '0',
+      `/* The controller equation's memory between samples (accumulator units 2^-${A} rad, signals 2^-${S}): start it with ${prefix}_controller_init. */`,
+    ),
     '',
     '/*',
     ` * One sample of the controller equation in integers: gains from ${prefix}_lookup at the measured speed; reference,`,
@@ -195,12 +183,7 @@ export function integerControllerText(input: { readonly prefix: string; readonly
           '  }',
         ]),
     `  command = ${prefix}_clamp(unlimited, -limit, limit);`,
-    '  s->integral = integral;',
-    '  s->derivative = derivative;',
-    '  s->previous_derivative_input = derivative_input;',
-    '  s->previous_integrand = integrand;',
-    '  s->previous_saturation = command - unlimited;',
-    '  s->started = 1;',
+    ...STATE_UPDATE_LINES,
     `  return (int32_t)${prefix}_multiply(command, 1, ${A - S});`,
     '}',
   ].join('\n');

@@ -7,123 +7,23 @@
  */
 import { describe, expect, it } from 'vitest';
 import { exportC } from '../../src/export/c-header.js';
-import { parseFixedPointRequest } from '../../src/export/fixed-point.js';
-import { fixedPointCommandBound } from '../../src/export/fixed-point-bound.js';
-import { speedToInteger } from '../../src/export/integer-lookup.js';
-import { ACCUMULATOR_LIMIT_RAD, SIGNAL_FRACTIONAL_BITS } from '../../src/export/integer-step-plan.js';
-import { scheduleFirmware } from '../../src/schedule/schedule-lookup.js';
+import { ACCUMULATOR_LIMIT_RAD } from '../../src/export/integer-step-plan.js';
 import { makeRandom } from '../../src/core/random.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 import { singleTrackParametersFromVehicle } from '../../src/vehicle/single-track.js';
 import { vehicleSchedule } from '../compare/vehicle-schedules.js';
 import { compileAndRun, scenarioReplays, type ReplayRun } from './controller-replay.js';
-
-/**
- * Our acceptance of the bound (our choice for a firmware port): the quantisation may move the command by at most 1 % of
- * its peak on the scenario. Where conditional integration rides the steering limit its decision is discontinuous: two
- * implementations of the law — even two floating-point ones rounding differently — may hold the integrator one sample
- * apart, one increment T·ki·e; from the first sample where the bound finds the integer step undecided, that one
- * increment is allowed on top.
- */
-const USEFUL_BOUND = 0.01;
+import { compareIntegerStep, HARNESS, SCALE } from './integer-step-replay.js';
 
 const vehicle = loadVehicle('vehicles/parcel-van/vehicle.json');
 const parameters = singleTrackParametersFromVehicle(vehicle);
 const baseSchedule = vehicleSchedule('parcel-van', parameters);
 
-const SCALE = 2 ** SIGNAL_FRACTIONAL_BITS;
-const toSignal = (x: number): bigint => BigInt(Math.round(x * SCALE));
-
-const HARNESS = `#include <stdio.h>
-#include <string.h>
-#include "schedule.h"
-int main(void)
-{
-  char line[256];
-  speedband_schedule_state state;
-  speedband_schedule_controller_init(&state);
-  while (fgets(line, sizeof line, stdin) != NULL) {
-    long speed, reference, measurement, feed_forward_input;
-    speedband_schedule_gains gains;
-    if (strncmp(line, "start", 5) == 0) {
-      speedband_schedule_controller_init(&state);
-      continue;
-    }
-    if (sscanf(line, "%ld,%ld,%ld,%ld", &speed, &reference, &measurement, &feed_forward_input) != 4) {
-      return 2;
-    }
-    if (speedband_schedule_lookup((int32_t)speed, &gains) != SPEEDBAND_SCHEDULE_LOOKUP_OK) {
-      return 3;
-    }
-    printf("%ld\\n", (long)speedband_schedule_step(&gains, &state, (int32_t)reference, (int32_t)measurement, (int32_t)feed_forward_input));
-  }
-  return 0;
-}
-`;
-
-/** The integer commands (rad) of the compiled step on the runs, each run from rest; `flags` extra gcc flags. */
-function runIntegerC(header: string, runs: readonly ReplayRun[], flags: readonly string[] = ['-mgeneral-regs-only']): number[][] {
-  const lines = runs.flatMap((run) => [
-    'start',
-    ...Array.from(run.speed_mps, (speed, k) =>
-      [speedToInteger(speed), toSignal(run.reference[k]), toSignal(run.measurement[k]), toSignal(run.feedForwardInput[k])].join(','),
-    ),
-  ]);
-  const output = compileAndRun(header, HARNESS, `${lines.join('\n')}\n`, flags).map(Number);
-  let offset = 0;
-  return runs.map((run) => {
-    const commands = output.slice(offset, offset + run.speed_mps.length).map((value) => value / SCALE);
-    offset += run.speed_mps.length;
-    return commands;
-  });
-}
-
 /** A large step through the steering limits, then a speed ramp in a curve: clamps, anti-windup, interpolation and feed-forward all act. */
 const replaysOf = (schedule: ScheduleFile): ReplayRun[] =>
   scenarioReplays({ schedule, parameters, steeringLimits: vehicle, scenarios: ['large-step', 'speed-ramp-in-curve'], speeds: [6.3] });
-
-interface Comparison {
-  readonly worstDifference: number;
-  readonly worstBound: number;
-  readonly peakCommand: number;
-  readonly undecidedSamples: number;
-}
-
-/**
- * Compile, replay, and hold every sample to the bound; then the bound's usefulness: at most USEFUL_BOUND of the peak
- * command, plus, from the first undecided sample of a run on, the largest integral increment T·|ki·e| of the run.
- */
-function compareWithBound(schedule: ScheduleFile, request: string): Comparison {
-  const exported = exportC(schedule, { fixedPoint: parseFixedPointRequest(request) });
-  expect(exported.text).not.toMatch(/\bdouble\b|\bfloat\b/);
-  const runs = replaysOf(schedule);
-  const fromC = runIntegerC(exported.text, runs);
-  const peakCommand = Math.max(...runs.flatMap((run) => Array.from(run.command, Math.abs)));
-  const { at } = scheduleFirmware(schedule);
-  let worstDifference = 0;
-  let worstBound = 0;
-  let undecidedSamples = 0;
-  runs.forEach((run, j) => {
-    const { command, bound, undecided } = fixedPointCommandBound(schedule, exported.stepPlan!, exported.quantisation!.lookupErrorBounds, run);
-    // The bound is taken around the simulation's own commands (the TypeScript controller equation, double).
-    expect(Array.from(command)).toEqual(Array.from(run.command));
-    const increment = Math.max(
-      ...Array.from(run.speed_mps, (speed, k) => schedule.controller.sampleTime_s * Math.abs(at(speed).gains.ki * (run.reference[k] - run.measurement[k]))),
-    );
-    let allowance = USEFUL_BOUND * peakCommand;
-    fromC[j].forEach((value, k) => {
-      const difference = Math.abs(value - run.command[k]);
-      if (!(difference <= bound[k])) expect.fail(`${run.name}, sample ${k}: |${value} - ${run.command[k]}| = ${difference} > bound ${bound[k]}`);
-      if (undecided[k] === 1 && allowance === USEFUL_BOUND * peakCommand) allowance += increment;
-      if (!(bound[k] <= allowance)) expect.fail(`${run.name}, sample ${k}: the bound ${bound[k]} exceeds ${allowance}`);
-      worstDifference = Math.max(worstDifference, difference);
-      worstBound = Math.max(worstBound, bound[k]);
-    });
-    undecidedSamples += undecided.reduce((sum, flag) => sum + flag, 0);
-  });
-  return { worstDifference, worstBound, peakCommand, undecidedSamples };
-}
+const compareWithBound = (schedule: ScheduleFile, request: string) => compareIntegerStep(schedule, request, replaysOf(schedule));
 
 /**
  * The header with its integer helpers made to trap where the header comment says they never go: a product or a

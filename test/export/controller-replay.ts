@@ -55,3 +55,55 @@ export function compileAndRun(header: string, main: string, input: string, extra
     .trim()
     .split('\n');
 }
+
+/**
+ * The C harness of a header's step function: a line "start" resets the state; "speed,reference,measurement,feed_forward_input"
+ * runs the lookup at the speed and one step, printing the command — doubles (%.17g) for the floating-point header,
+ * integers for the fixed-point one (speed in 2^-16 m/s, signals and command in their integer scales).
+ */
+export function harnessText(numbers: 'double' | 'integer'): string {
+  const integer = numbers === 'integer';
+  const cast = (name: string): string => (integer ? `(int32_t)${name}` : name);
+  return `#include <stdio.h>
+#include <string.h>
+#include "schedule.h"
+int main(void)
+{
+  char line[256];
+  speedband_schedule_state state;
+  speedband_schedule_controller_init(&state);
+  while (fgets(line, sizeof line, stdin) != NULL) {
+    ${integer ? 'long' : 'double'} speed, reference, measurement, feed_forward_input;
+    speedband_schedule_gains gains;
+    if (strncmp(line, "start", 5) == 0) {
+      speedband_schedule_controller_init(&state);
+      continue;
+    }
+    if (sscanf(line, "${integer ? '%ld,%ld,%ld,%ld' : '%lf,%lf,%lf,%lf'}", &speed, &reference, &measurement, &feed_forward_input) != 4) {
+      return 2;
+    }
+    if (speedband_schedule_lookup(${cast('speed')}, &gains) != SPEEDBAND_SCHEDULE_LOOKUP_OK) {
+      return 3;
+    }
+    printf("${integer ? '%ld' : '%.17g'}\\n", ${integer ? '(long)' : ''}speedband_schedule_step(&gains, &state, ${cast('reference')}, ${cast('measurement')}, ${cast('feed_forward_input')}));
+  }
+  return 0;
+}
+`;
+}
+
+/** The harness's standard input for runs, each from rest: `format` writes one sample's four numbers. */
+export function harnessInput(runs: readonly ReplayRun[], format: (run: ReplayRun, k: number) => readonly (number | bigint | string)[]): string {
+  const lines = runs.flatMap((run) => ['start', ...Array.from(run.speed_mps, (_, k) => format(run, k).join(','))]);
+  return `${lines.join('\n')}\n`;
+}
+
+/** The harness output split back into runs. */
+export function perRun(output: readonly number[], runs: readonly ReplayRun[]): number[][] {
+  let offset = 0;
+  return runs.map((run) => {
+    const values = output.slice(offset, offset + run.speed_mps.length);
+    offset += run.speed_mps.length;
+    return values;
+  });
+}
