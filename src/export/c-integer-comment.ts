@@ -50,14 +50,17 @@ export function integerArithmeticLines(input: {
     `Quantisation error bound: on the same inputs the command differs from the floating-point header's step (exact lookup)`,
     `  by at most B[k] + 2^-${S + 1} rad at sample k, B the radius of an interval evaluation of this step around the floating-point one, operation by operation:`,
     `  inputs within 2^-${S + 1} of their units; looked-up values within the bounds above; each product and quotient within half a unit of its format`,
-    `  (2^-${A + 1} rad in the accumulator); the square root within one unit. Per sample, to first order (d = the bound of each quantity):`,
-    `    dF = dkff*|w| + |kff|*2^-${S + 1};  dP = dkp*|b*r - y| + |kp|*(db*|r| + (|b| + 2)*2^-${S + 1});`,
-    `    dD[k] = |p|*dD[k-1] + dp*|D[k-1]| + dg*|d[k] - d[k-1]| + |g|*2*(dc*|r| + 2^-${S})   (the derivative filter forgets old errors);`,
+    `  (2^-${A + 1} rad in the accumulator); the square root within one unit. Per sample, to first order in the errors (d = the bound of each quantity):`,
+    `    dF = dkff*|w| + |kff|*2^-${S + 1} + 2^-${A + 1};  dP = dkp*|b*r - y| + |kp|*(db*|r| + (|b| + 2)*2^-${S + 1}) + 2^-${A + 1};`,
+    `    dD[k] = |p|*dD[k-1] + dp*|D[k-1]| + dg*|d[k] - d[k-1]| + |g|*2*(dc*|r| + 3*2^-${S + 1}) + 2^-${A}   (the derivative filter forgets old errors);`,
     `    dI[k] = dI[k-1] + T*(dki*|e| + 2*|ki|*2^-${S + 1}) + 2^-${A + 1}${backCalculation ? ' + d(T/Tt)*|u - v| + (T/Tt)*d(u - v)' : ''}   (the integral adds them up);`,
     '    du[k] <= dF + dP + dI + dD; the clamps add nothing (1-Lipschitz); both commands at the limit are equal.',
     ...(backCalculation
       ? []
-      : ['  Where the unlimited command is within the bound of the limit, conditional integration may decide otherwise: the bound takes both outcomes.']),
-    '  speedband computes B for a recorded run (fixedPointCommandBound); a test holds the compiled step to it on simulated runs.',
+      : [
+          '  Where the unlimited command is within the bound of the limit, conditional integration may decide otherwise: the bound takes both outcomes',
+          '  (the integrators may then stand one sample apart, one increment T*ki*e).',
+        ]),
+    '  B for a recorded run: fixedPointCommandBound (speedband/internal/export/fixed-point-bound.js); a test holds the compiled step to it on simulated runs.',
   ];
 }
