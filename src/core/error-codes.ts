@@ -167,6 +167,8 @@ export const ERROR_CODES = {
   'export.checksumInvalid': 'The schedule given to the exporter has no valid checksum (library use): read the schedule with readSchedule first.',
   'export.fallbackInvalid': 'The fallback breakpoint is not a breakpoint of the table (library use): give an index inside the table.',
   'export.fixedPointOverflow': 'A gain does not fit the fixed-point format asked: use fewer fractional bits, a 32-bit word, or --q-format auto.',
+  'export.fixedPointStepRange':
+    'The fixed-point step could overflow for some int32 input, or kp is 0 where it divides (the message names term and gain): check the gains, or export floating point.',
   'export.noModel': 'The schedule records no model, so its gains cannot be re-checked before export: rebuild it, or pass --allow-failing for review only.',
   'export.notFinite': 'A value to export has no C form (not a finite number): rebuild the schedule.',
   'export.prefixInvalid': 'The C prefix is not a C identifier: use letters, digits and underscores, not starting with a digit, at most 63 characters.',

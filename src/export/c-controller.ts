@@ -18,31 +18,41 @@ export interface ControllerTextInput {
   readonly antiWindup: AntiWindup;
 }
 
+/** The step function's last lines before its return: the state for the next sample (the same names in both headers). */
+export const STATE_UPDATE_LINES: readonly string[] = [
+  '  s->integral = integral;',
+  '  s->derivative = derivative;',
+  '  s->previous_derivative_input = derivative_input;',
+  '  s->previous_integrand = integrand;',
+  '  s->previous_saturation = command - unlimited;',
+  '  s->started = 1;',
+];
+
+/** The state struct of the step function (its fields of one C type, set to `zero` at start) and its initialisation, as C99 lines. */
+export function controllerStateText(prefix: string, type: string, zero: string, comment: string): string[] {
+  const fields = ['integral', 'derivative', 'previous_derivative_input', 'previous_integrand', 'previous_saturation'];
+  return [
+    comment,
+    `typedef struct ${prefix}_state {`,
+    ...fields.map((field) => `  ${type} ${field};`),
+    '  int started;',
+    `} ${prefix}_state;`,
+    '',
+    `static inline void ${prefix}_controller_init(${prefix}_state *state)`,
+    '{',
+    ...fields.map((field) => `  state->${field} = ${zero};`),
+    '  state->started = 0;',
+    '}',
+  ];
+}
+
 /** The state struct, the square root, the initialisation and the step function, as C99 text. */
 export function controllerFunctionsText(input: ControllerTextInput): string {
   const { prefix, upper, discretisation, antiWindup } = input;
   const tustin = discretisation === 'tustin';
   const backCalculation = antiWindup === 'back-calculation';
   return [
-    `/* The controller equation's memory between samples: start it with ${prefix}_controller_init. */`,
-    `typedef struct ${prefix}_state {`,
-    '  double integral;',
-    '  double derivative;',
-    '  double previous_derivative_input;',
-    '  double previous_integrand;',
-    '  double previous_saturation;',
-    '  int started;',
-    `} ${prefix}_state;`,
-    '',
-    `static inline void ${prefix}_controller_init(${prefix}_state *state)`,
-    '{',
-    '  state->integral = 0.0;',
-    '  state->derivative = 0.0;',
-    '  state->previous_derivative_input = 0.0;',
-    '  state->previous_integrand = 0.0;',
-    '  state->previous_saturation = 0.0;',
-    '  state->started = 0;',
-    '}',
+    ...controllerStateText(prefix, 'double', '0.0', `/* The controller equation's memory between samples: start it with ${prefix}_controller_init. */`),
     '',
     '/* Square root of x >= 0 by Newton iteration from above (within one unit in the last place); 0 for x <= 0. */',
     `static inline double ${prefix}_square_root(double x)`,
@@ -115,12 +125,7 @@ export function controllerFunctionsText(input: ControllerTextInput): string {
           '  }',
         ]),
     '  command = unlimited > limit ? limit : (unlimited < -limit ? -limit : unlimited);',
-    '  s->integral = integral;',
-    '  s->derivative = derivative;',
-    '  s->previous_derivative_input = derivative_input;',
-    '  s->previous_integrand = integrand;',
-    '  s->previous_saturation = command - unlimited;',
-    '  s->started = 1;',
+    ...STATE_UPDATE_LINES,
     '  return command;',
     '}',
   ].join('\n');

@@ -21,11 +21,14 @@ import type { ScheduleFile } from '../schedule/schedule-types.js';
 import { modelWords, referencePointText } from '../schedule/schedule-text.js';
 import type { GainTable, WorstMargins, WorstValue } from '../schedule/types.js';
 import { cComment, commentSafe } from './c-comment.js';
-import { LOOKUP_STATUS, lookupFunctionsText, type LookupField } from './c-lookup.js';
+import { LOOKUP_STATUS, lookupFunctionsText } from './c-lookup.js';
 import { integerLookupText } from './c-integer-lookup.js';
 import { controllerFunctionsText } from './c-controller.js';
 import { monotoneCubicSlopes } from '../schedule/monotone-cubic.js';
-import { formatName, quantiseTable, type FixedPointRequest, type QuantisedTable } from './fixed-point.js';
+import { quantiseTable, type ExtraColumn, type FixedPointRequest, type QuantisedTable } from './fixed-point.js';
+import { integerArithmeticLines } from './c-integer-comment.js';
+import { integerControllerText } from './c-integer-controller.js';
+import { integerStepPlan, type IntegerStepPlan } from './integer-step-plan.js';
 
 /** The dense check whose figures the header states (at export: the gains it holds, re-checked). */
 export interface HeaderCheck {
@@ -57,11 +60,13 @@ export interface CHeaderOptions {
   readonly fallback?: FallbackGains | null;
 }
 
-/** The C header text and, with a fixed-point format, the quantised table and its errors. */
+/** The C header text and, with a fixed-point format, the quantised table and its errors and the step function's plan. */
 export interface CHeaderExport {
   readonly text: string;
   /** Present with a fixed-point format: the quantised table and its errors. */
   readonly quantisation?: QuantisedTable;
+  /** Present with a fixed-point format: the integer step function's formats, constants and ranges. */
+  readonly stepPlan?: IntegerStepPlan;
 }
 
 /** Defaults of the C header: the identifier prefix. */
@@ -102,7 +107,8 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
   const upper = prefix.toUpperCase();
   const settings = scheduleLookupSettings(schedule);
   const exact = scheduleTable(schedule);
-  const quantisation = options.fixedPoint === undefined ? undefined : quantiseTable(exact, options.fixedPoint, settings);
+  const quantisation = options.fixedPoint === undefined ? undefined : quantiseTable(exact, options.fixedPoint, settings, scheduleExtraColumns(schedule));
+  const stepPlan = quantisation === undefined ? undefined : integerStepPlan(schedule, quantisation.integer);
   const table: GainTable = quantisation?.table ?? exact;
   const cubic = settings.interpolation === 'monotone-cubic';
   const slopes = gainSlopes(table, settings.interpolation);
@@ -134,12 +140,9 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     ...controller.update.map((line) => `  ${line}`),
     `  ${controller.integration}`,
     `Interpolation: ${schedule.interpolation.description}`,
-    quantisation === undefined
-      ? 'Arithmetic: IEEE 754 double.'
-      : `Arithmetic: integers only (no floating point). Speed in units of 2^-16 m/s; gains kp ${formatName(quantisation.formats.kp)}, ki ${formatName(quantisation.formats.ki)}, ` +
-        `kd ${formatName(quantisation.formats.kd)} (value = integer / 2^F); largest error against the exact lookup kp ${quantisation.errors.kp.maxAbsoluteInterpolated.toPrecision(3)}, ` +
-        `ki ${quantisation.errors.ki.maxAbsoluteInterpolated.toPrecision(3)}, kd ${quantisation.errors.kd.maxAbsoluteInterpolated.toPrecision(3)}. ` +
-        'This header holds kp, ki and kd only: take the set-point weights, the feed-forward and the controller step function from the floating-point header of the same schedule.',
+    ...(quantisation === undefined || stepPlan === undefined
+      ? ['Arithmetic: IEEE 754 double.']
+      : integerArithmeticLines({ schedule, quantisation, plan: stepPlan, prefix })),
     `Dense check of the gains in this header (${modelWords(schedule.check.model.kind)}, ${check.gridSize} speeds, ${schedule.check.range.minimum_mps} to ${schedule.check.range.maximum_mps} m/s, ${check.source}): ` +
       `${check.passed ? 'PASSED' : `FAILED at ${check.failedSpeeds} speeds`}.`,
     ...worstLines(check.worst),
@@ -170,13 +173,8 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
   ]);
 
   const unitsComment = `kp ${commentSafe(units.kp)}, ki ${commentSafe(units.ki)}, kd ${commentSafe(units.kd)}`;
-  // Set-point weights and feed-forward, interpolated like the gains (the double header only).
-  const extras: Record<Exclude<LookupField, 'kp' | 'ki' | 'kd'>, number[]> = {
-    setpoint_weight_p: schedule.breakpoints.map((row) => row.setpointWeightProportional),
-    setpoint_weight_d: schedule.breakpoints.map((row) => row.setpointWeightDerivative),
-    feed_forward: schedule.breakpoints.map((row) => row.feedForward),
-    feed_forward_lead_time_s: schedule.breakpoints.map((row) => row.feedForwardLeadTime_s),
-  };
+  // Set-point weights and feed-forward, interpolated like the gains.
+  const extras = scheduleExtraColumns(schedule);
   const extraNames = Object.keys(extras) as (keyof typeof extras)[];
   const status = [
     `#define ${upper}_LOOKUP_OK ${LOOKUP_STATUS.OK.value}`,
@@ -263,12 +261,23 @@ export function exportC(schedule: ScheduleFile, options: CHeaderOptions = {}): C
     `#define ${upper}_CHECKSUM "${schedule.checksum.value}"`,
     ...body,
     '',
-    // The controller equation in double: the floating-point header only (the integer header has no floating point).
-    ...(quantisation === undefined
-      ? [controllerFunctionsText({ prefix, upper, discretisation: controller.discretisation, antiWindup: controller.antiWindup }), '']
-      : []),
+    // The controller equation: in double, or in integers only with a fixed-point format.
+    stepPlan === undefined
+      ? controllerFunctionsText({ prefix, upper, discretisation: controller.discretisation, antiWindup: controller.antiWindup })
+      : integerControllerText({ prefix, upper, plan: stepPlan }),
+    '',
     `#endif /* ${upper}_H */`,
     '',
   ];
-  return { text: lines.join('\n'), ...(quantisation === undefined ? {} : { quantisation }) };
+  return { text: lines.join('\n'), ...(quantisation === undefined || stepPlan === undefined ? {} : { quantisation, stepPlan }) };
+}
+
+/** The schedule's set-point weights, feed-forward gain and lead time per breakpoint, by their C names. */
+export function scheduleExtraColumns(schedule: Pick<ScheduleFile, 'breakpoints'>): Record<ExtraColumn, number[]> {
+  return {
+    setpoint_weight_p: schedule.breakpoints.map((row) => row.setpointWeightProportional),
+    setpoint_weight_d: schedule.breakpoints.map((row) => row.setpointWeightDerivative),
+    feed_forward: schedule.breakpoints.map((row) => row.feedForward),
+    feed_forward_lead_time_s: schedule.breakpoints.map((row) => row.feedForwardLeadTime_s),
+  };
 }

@@ -1,14 +1,13 @@
 /**
  * The C99 text of the fixed-point header's tables and lookup: integers only (int16_t/int32_t tables,
  * int64_t intermediates, no floating point), computing exactly what integer-lookup.ts computes (the
- * formulas are in its file comment). An integer speed is never NaN: the lookup returns LOOKUP_OK, or
+ * formulas are in its file comment) for every column of the table: kp, ki, kd, then the set-point weights,
+ * the feed-forward gain and its lead time. An integer speed is never NaN: the lookup returns LOOKUP_OK, or
  * LOOKUP_NO_GAINS for a null pointer.
  */
-import { breakpointSearchText, LOOKUP_STATUS } from './c-lookup.js';
+import { breakpointSearchText, LOOKUP_STATUS, type LookupField } from './c-lookup.js';
 import { SPEED_FRACTIONAL_BITS, WEIGHT_FRACTIONAL_BITS } from './integer-lookup.js';
-import type { QuantisedTable } from './fixed-point.js';
-
-const NAMES = ['kp', 'ki', 'kd'] as const;
+import type { FixedPointFormat, QuantisedTable } from './fixed-point.js';
 
 const integers = (values: readonly bigint[]): string => values.map(String).join(', ');
 
@@ -20,35 +19,35 @@ export function integerLookupText(input: {
   readonly unitsComment: string;
 }): string[] {
   const { prefix, upper, quantisation } = input;
-  const { integer, formats } = quantisation;
+  const { integer } = quantisation;
   const cubic = integer.cubic;
-  const wordType = (name: (typeof NAMES)[number]): string => `int${formats[name].wordBits}_t`;
-  const row = (index: string): string => NAMES.map((name) => `    gains->${name} = ${prefix}_${name}[${index}];`).join('\n');
+  const names = Object.keys(integer.gains) as LookupField[];
+  const formats: Partial<Record<LookupField, FixedPointFormat>> = { ...quantisation.formats, ...quantisation.extraFormats };
+  const wordType = (name: LookupField): string => `int${formats[name]?.wordBits ?? 32}_t`;
+  const row = (index: string): string => names.map((name) => `    gains->${name} = ${prefix}_${name}[${index}];`).join('\n');
   // One entry per breakpoint (the last is 0): a table of one breakpoint still has arrays of length one.
   const terms = (values: readonly bigint[]): bigint[] => [...values, 0n];
-  const interpolate = (name: (typeof NAMES)[number]): string =>
+  const interpolate = (name: LookupField): string =>
     cubic
       ? `  gains->${name} = ${prefix}_segment(${prefix}_${name}[k], ${prefix}_${name}[k + 1], ${prefix}_${name}_slope_term0[k], ${prefix}_${name}_slope_term1[k], t, t2, t3);`
       : `  gains->${name} = ${prefix}_segment(${prefix}_${name}[k], ${prefix}_${name}[k + 1], t);`;
   return [
     `#define ${upper}_SPEED_FRACTIONAL_BITS ${SPEED_FRACTIONAL_BITS}`,
-    ...NAMES.map((name) => `#define ${upper}_${name.toUpperCase()}_FRACTIONAL_BITS ${formats[name].fractionalBits}`),
+    ...names.map((name) => `#define ${upper}_${name.toUpperCase()}_FRACTIONAL_BITS ${integer.fractionalBits[name]}`),
     `#define ${upper}_LOW_SPEED_FLOOR_Q16 ${String(integer.floor)}`,
     '',
-    `/* Gains at one speed (${input.unitsComment}), each an integer in its own Q format: value = integer / 2^<GAIN>_FRACTIONAL_BITS. */`,
+    `/* Scheduled values at one speed (${input.unitsComment}${names.length > 3 ? '; set-point weights b and c; feed_forward; feed_forward_lead_time_s in s' : ''}), each an integer in its own Q format: value = integer / 2^<NAME>_FRACTIONAL_BITS. */`,
     `typedef struct ${prefix}_gains {`,
-    '  int32_t kp;',
-    '  int32_t ki;',
-    '  int32_t kd;',
+    ...names.map((name) => `  int32_t ${name};`),
     `} ${prefix}_gains;`,
     '',
     `/* Breakpoint speeds in units of 2^-${SPEED_FRACTIONAL_BITS} m/s, strictly increasing. */`,
     `static const int32_t ${prefix}_speed_q16[${upper}_BREAKPOINTS] = { ${integers(integer.speeds)} };`,
-    ...NAMES.map((name) => `static const ${wordType(name)} ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${integers(integer.gains[name])} };`),
+    ...names.map((name) => `static const ${wordType(name)} ${prefix}_${name}[${upper}_BREAKPOINTS] = { ${integers(integer.gains[name])} };`),
     ...(cubic
       ? [
           "/* Hermite slope terms of interval k (Fritsch & Carlson 1980): width times the slope at its start (term0) and end (term1), in the gain's Q format. */",
-          ...NAMES.flatMap((name) => [
+          ...names.flatMap((name) => [
             `static const int32_t ${prefix}_${name}_slope_term0[${upper}_BREAKPOINTS] = { ${integers(terms(integer.slopeTerms[name].d0))} };`,
             `static const int32_t ${prefix}_${name}_slope_term1[${upper}_BREAKPOINTS] = { ${integers(terms(integer.slopeTerms[name].d1))} };`,
           ]),
@@ -97,7 +96,7 @@ export function integerLookupText(input: {
     ...breakpointSearchText({ speeds: `${prefix}_speed_q16`, upper, row }),
     `  t = (((int64_t)v - ${prefix}_speed_q16[k]) << ${WEIGHT_FRACTIONAL_BITS}) / ((int64_t)${prefix}_speed_q16[k + 1] - ${prefix}_speed_q16[k]);`,
     ...(cubic ? [`  t2 = (t * t) >> ${WEIGHT_FRACTIONAL_BITS};`, `  t3 = (t2 * t) >> ${WEIGHT_FRACTIONAL_BITS};`] : []),
-    ...NAMES.map(interpolate),
+    ...names.map(interpolate),
     `  return ${upper}_LOOKUP_OK;`,
     '}',
   ];

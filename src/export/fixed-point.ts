@@ -4,15 +4,18 @@
  * stored integer q = round(x·2^F) (round half away from zero), represented value q/2^F, error at most
  * 2^−(F+1) per stored value inside [−2^(I−1), 2^(I−1) − 2^−F]. One format for all gains ("Q16.16",
  * "16.16"), or `auto`: per gain, the 32-bit format with the most fractional bits that holds the gain's
- * values and slope terms. The lookup between breakpoints is integer arithmetic (integer-lookup.ts);
- * the export re-checks exactly what it computes.
+ * values and slope terms (the set-point weights, feed-forward gain and lead time always so). The lookup
+ * between breakpoints is integer arithmetic (integer-lookup.ts); the export re-checks exactly what it computes.
  */
 import type { PidGains } from '../controller/types.js';
 import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
 import { gainSlopes, makeGainLookup } from '../schedule/interpolate.js';
 import type { GainTable, LookupSettings } from '../schedule/types.js';
+import { monotoneCubicSlopes } from '../schedule/monotone-cubic.js';
+import { LOOKUP_FIELDS, type LookupField } from './c-lookup.js';
 import { makeIntegerGainLookup, roundToInteger, SPEED_FRACTIONAL_BITS, type IntegerTable } from './integer-lookup.js';
+import { lookupErrorBound } from './lookup-error-bound.js';
 
 export interface FixedPointFormat {
   readonly fractionalBits: number;
@@ -46,8 +49,12 @@ export interface QuantisedTable {
   /** Bound on the error of a stored value, 2^−(F+1), per gain; `resolutionBound` is the largest. */
   readonly resolutionBounds: Readonly<Record<GainName, number>>;
   readonly resolutionBound: number;
-  /** The integers the C lookup holds (speeds in 2^−16 m/s, slope terms). */
-  readonly integer: IntegerTable;
+  /** Per column: the largest |integer lookup − exact lookup| at any speed, derived (lookup-error-bound.ts). */
+  readonly lookupErrorBounds: Readonly<Partial<Record<LookupField, number>>>;
+  /** With extras: the format of each extra column (32-bit, the most fractional bits its values need). */
+  readonly extraFormats?: Readonly<Record<ExtraColumn, FixedPointFormat>>;
+  /** The integers the C lookup holds (speeds in 2^−16 m/s, slope terms), the gains first, then any extras. */
+  readonly integer: IntegerTable<string>;
   /** The gains the firmware's integer lookup computes at a speed (m/s): what the export re-checks. */
   readonly lookup: (speed_mps: number) => PidGains;
 }
@@ -88,29 +95,46 @@ function formatFor(magnitudes: readonly number[]): FixedPointFormat {
 
 const INTERPOLATED_SPEEDS = 1000;
 
+/** The columns of the integer lookup beside the gains: set-point weights, feed-forward gain and its lead time. */
+export type ExtraColumn = Exclude<LookupField, GainName>;
+const EXTRA_NAMES = LOOKUP_FIELDS.filter((name): name is ExtraColumn => !(NAMES as readonly string[]).includes(name));
+
 /**
- * Quantise a gain table for the integer lookup. `export.fixedPointOverflow` when a gain (or, for a monotone
- * cubic, a slope term h·m, stored in 32 bits) does not fit its format.
+ * Quantise a gain table for the integer lookup; with `extras` (the schedule's set-point weights, feed-forward gain
+ * and lead time per breakpoint) those columns too, each in the 32-bit format with the most fractional bits its
+ * values need. `export.fixedPointOverflow` when a value (or, for a monotone cubic, a slope term h·m, stored in
+ * 32 bits) does not fit its format.
  */
-export function quantiseTable(table: GainTable, request: FixedPointRequest, lookup: LookupSettings): QuantisedTable {
+export function quantiseTable(
+  table: GainTable,
+  request: FixedPointRequest,
+  lookup: LookupSettings,
+  extras?: Readonly<Record<ExtraColumn, readonly number[]>>,
+): QuantisedTable {
   const cubic = lookup.interpolation === 'monotone-cubic';
-  const slopes = gainSlopes(table, lookup.interpolation);
-  const n = table.speeds_mps.length;
-  const width = (k: number): number => table.speeds_mps[k + 1] - table.speeds_mps[k];
-  const slopeTerms = (name: GainName): { d0: number[]; d1: number[] } => ({
-    d0: cubic ? Array.from({ length: n - 1 }, (_, k) => width(k) * slopes[name][k]) : [],
-    d1: cubic ? Array.from({ length: n - 1 }, (_, k) => width(k) * slopes[name][k + 1]) : [],
+  const speeds = table.speeds_mps;
+  const n = speeds.length;
+  const columns = {
+    ...Object.fromEntries(NAMES.map((name) => [name, table.gains.map((row) => row[name])])),
+    ...(extras ?? {}),
+  } as Record<LookupField, readonly number[]>;
+  const names = Object.keys(columns) as LookupField[];
+  const gainSlopeValues = gainSlopes(table, lookup.interpolation);
+  const slopes = (name: LookupField): ArrayLike<number> =>
+    isGain(name) ? gainSlopeValues[name] : cubic ? monotoneCubicSlopes(speeds, columns[name]) : new Float64Array(n);
+  const width = (k: number): number => speeds[k + 1] - speeds[k];
+  const slopeTerms = (name: LookupField): { d0: number[]; d1: number[] } => ({
+    d0: cubic ? Array.from({ length: n - 1 }, (_, k) => width(k) * slopes(name)[k]) : [],
+    d1: cubic ? Array.from({ length: n - 1 }, (_, k) => width(k) * slopes(name)[k + 1]) : [],
   });
   const formats = Object.fromEntries(
-    NAMES.map((name) => {
+    names.map((name) => {
       const terms = slopeTerms(name);
-      return [
-        name,
-        request === 'auto' ? formatFor([...table.gains.map((gains) => Math.abs(gains[name])), ...terms.d0.map(Math.abs), ...terms.d1.map(Math.abs)]) : request,
-      ];
+      const magnitudes = [...columns[name].map(Math.abs), ...terms.d0.map(Math.abs), ...terms.d1.map(Math.abs)];
+      return [name, request === 'auto' || !isGain(name) ? formatFor(magnitudes) : request];
     }),
-  ) as Record<GainName, FixedPointFormat>;
-  const stored = (name: GainName, value: number, words: number, what: string): bigint => {
+  ) as Record<LookupField, FixedPointFormat>;
+  const stored = (name: LookupField, value: number, words: number, what: string): bigint => {
     const { fractionalBits, wordBits } = formats[name];
     const q = roundToInteger(value * 2 ** fractionalBits);
     const limit = 2n ** BigInt(words - 1);
@@ -125,40 +149,39 @@ export function quantiseTable(table: GainTable, request: FixedPointRequest, look
     }
     return q;
   };
-  const gains = Object.fromEntries(
-    NAMES.map((name) => [name, table.gains.map((row, k) => stored(name, row[name], formats[name].wordBits, `${name} at ${table.speeds_mps[k]} m/s`))]),
-  ) as Record<GainName, bigint[]>;
-  const integer: IntegerTable = {
+  const values = Object.fromEntries(
+    names.map((name) => [name, columns[name].map((value, k) => stored(name, value, formats[name].wordBits, `${name} at ${speeds[k]} m/s`))]),
+  ) as Record<LookupField, bigint[]>;
+  const integer: IntegerTable<string> = {
     cubic,
-    speeds: table.speeds_mps.map((speed) => roundToInteger(speed * 2 ** SPEED_FRACTIONAL_BITS)),
+    speeds: speeds.map((speed) => roundToInteger(speed * 2 ** SPEED_FRACTIONAL_BITS)),
     floor: roundToInteger(lookup.lowSpeedFloor_mps * 2 ** SPEED_FRACTIONAL_BITS),
-    fractionalBits: { kp: formats.kp.fractionalBits, ki: formats.ki.fractionalBits, kd: formats.kd.fractionalBits },
-    gains,
+    fractionalBits: Object.fromEntries(names.map((name) => [name, formats[name].fractionalBits])),
+    gains: values,
     slopeTerms: Object.fromEntries(
-      NAMES.map((name) => {
+      names.map((name) => {
         const terms = slopeTerms(name);
-        const term = (value: number, k: number): bigint =>
-          stored(name, value, 32, `${name} slope term between ${table.speeds_mps[k]} and ${table.speeds_mps[k + 1]} m/s`);
+        const term = (value: number, k: number): bigint => stored(name, value, 32, `${name} slope term between ${speeds[k]} and ${speeds[k + 1]} m/s`);
         return [name, { d0: terms.d0.map(term), d1: terms.d1.map(term) }];
       }),
-    ) as unknown as IntegerTable['slopeTerms'],
+    ),
   };
   const quantised: GainTable = {
-    speeds_mps: table.speeds_mps,
+    speeds_mps: speeds,
     gains: table.gains.map(
       (_, k): PidGains => ({
-        kp: Number(gains.kp[k]) / 2 ** formats.kp.fractionalBits,
-        ki: Number(gains.ki[k]) / 2 ** formats.ki.fractionalBits,
-        kd: Number(gains.kd[k]) / 2 ** formats.kd.fractionalBits,
+        kp: Number(values.kp[k]) / 2 ** formats.kp.fractionalBits,
+        ki: Number(values.ki[k]) / 2 ** formats.ki.fractionalBits,
+        kd: Number(values.kd[k]) / 2 ** formats.kd.fractionalBits,
       }),
     ),
   };
   const integerLookup = makeIntegerGainLookup(integer);
-  const exactLookup = makeGainLookup(table, lookup, slopes);
-  const [first, last] = [table.speeds_mps[0], table.speeds_mps[n - 1]];
-  const speeds = Array.from({ length: INTERPOLATED_SPEEDS + 1 }, (_, i) => first + ((last - first) * i) / INTERPOLATED_SPEEDS);
-  const fromInteger = speeds.map(integerLookup);
-  const fromExact = speeds.map(exactLookup);
+  const exactLookup = makeGainLookup(table, lookup, gainSlopeValues);
+  const [first, last] = [speeds[0], speeds[n - 1]];
+  const grid = Array.from({ length: INTERPOLATED_SPEEDS + 1 }, (_, i) => first + ((last - first) * i) / INTERPOLATED_SPEEDS);
+  const fromInteger = grid.map(integerLookup);
+  const fromExact = grid.map(exactLookup);
   const error = (name: GainName): GainQuantisationError => {
     let maxAbsolute = 0;
     let maxRelative = 0;
@@ -167,21 +190,39 @@ export function quantiseTable(table: GainTable, request: FixedPointRequest, look
       maxAbsolute = Math.max(maxAbsolute, difference);
       if (row[name] !== 0) maxRelative = Math.max(maxRelative, difference / Math.abs(row[name]));
     });
-    const maxAbsoluteInterpolated = speeds.reduce((worst, _, i) => Math.max(worst, Math.abs(fromInteger[i][name] - fromExact[i][name])), maxAbsolute);
+    const maxAbsoluteInterpolated = grid.reduce((worst, _, i) => Math.max(worst, Math.abs(fromInteger[i][name] - fromExact[i][name])), maxAbsolute);
     return { maxAbsolute, maxRelative, maxAbsoluteInterpolated };
   };
   const resolutionBounds = { kp: 2 ** -(formats.kp.fractionalBits + 1), ki: 2 ** -(formats.ki.fractionalBits + 1), kd: 2 ** -(formats.kd.fractionalBits + 1) };
   return {
-    formats,
-    raw: { kp: gains.kp.map(Number), ki: gains.ki.map(Number), kd: gains.kd.map(Number) },
+    formats: { kp: formats.kp, ki: formats.ki, kd: formats.kd },
+    raw: { kp: values.kp.map(Number), ki: values.ki.map(Number), kd: values.kd.map(Number) },
     table: quantised,
     errors: { kp: error('kp'), ki: error('ki'), kd: error('kd') },
     resolutionBounds,
     resolutionBound: Math.max(resolutionBounds.kp, resolutionBounds.ki, resolutionBounds.kd),
+    lookupErrorBounds: Object.fromEntries(
+      names.map((name) => [
+        name,
+        lookupErrorBound({
+          speeds_mps: speeds,
+          values: columns[name],
+          slopes: slopes(name),
+          cubic,
+          fractionalBits: formats[name].fractionalBits,
+          stored: values[name],
+        }),
+      ]),
+    ) as Partial<Record<LookupField, number>>,
+    ...(extras === undefined
+      ? {}
+      : { extraFormats: Object.fromEntries(EXTRA_NAMES.map((name) => [name, formats[name]])) as Record<ExtraColumn, FixedPointFormat> }),
     integer,
     lookup: integerLookup,
   };
 }
+
+const isGain = (name: LookupField): name is GainName => (NAMES as readonly string[]).includes(name);
 
 /** "Q16.16" for a format. */
 export const formatName = (format: FixedPointFormat): string => `Q${format.wordBits - format.fractionalBits}.${format.fractionalBits}`;

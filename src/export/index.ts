@@ -1,4 +1,4 @@
-/** The export stage: C99 header, CSV, JSON, fixed-point gains and the quantised re-check. Re-exports only. */
+/** The export stage: C99 header, CSV, JSON, fixed-point gains, the integer step and its error bound, the quantised re-check. Re-exports only. */
 export {
   exportC,
   cDouble,
@@ -24,5 +24,8 @@ export {
   type GainQuantisationError,
 } from './fixed-point.js';
 export { integerLookup, makeIntegerGainLookup, speedToInteger, SPEED_FRACTIONAL_BITS, type IntegerTable } from './integer-lookup.js';
+export { integerStepPlan, SIGNAL_FRACTIONAL_BITS, ACCUMULATOR_FRACTIONAL_BITS, type IntegerStepPlan } from './integer-step-plan.js';
+export { fixedPointCommandBound, type BoundRun, type CommandBound } from './fixed-point-bound.js';
+export { lookupErrorBound } from './lookup-error-bound.js';
 export { recheckQuantised, makeQuantisedRecheck, type QuantisedRecheck, type RecheckInput } from './recheck.js';
 export { toAscii } from './ascii.js';

@@ -3,7 +3,8 @@
  * C header's integer lookup performs (c-integer-lookup.ts), reproduced bit for bit here (BigInt) so that
  * the export's dense check judges exactly the gains the firmware will compute.
  *
- * Speed is an int32 in units of 2^−16 m/s (SPEED_FRACTIONAL_BITS). Each gain has its own Q format
+ * Speed is an int32 in units of 2^−16 m/s (SPEED_FRACTIONAL_BITS). Each column — kp, ki, kd and, in a header
+ * with the step function, the set-point weights, feed-forward gain and lead time — has its own Q format
  * (value = stored integer / 2^F). On an interval [s_k, s_k+1) of width h (same units as speed):
  *   t   = ((v − s_k)·2^24) / h                       (Q24, truncated: C99 integer division)
  *   linear:   acc = y0·2^24 + t·(y1 − y0)
@@ -21,22 +22,21 @@ export const SPEED_FRACTIONAL_BITS = 16;
 /** Fractional bits of the interpolation weight t and the Hermite basis. */
 export const WEIGHT_FRACTIONAL_BITS = 24;
 
-const NAMES = ['kp', 'ki', 'kd'] as const;
-type GainName = (typeof NAMES)[number];
+type GainName = 'kp' | 'ki' | 'kd';
 
-/** Everything the integer lookup holds (the header's const arrays), as integers. */
-export interface IntegerTable {
+/** Everything the integer lookup holds (the header's const arrays), as integers: one column per name, in order. */
+export interface IntegerTable<Name extends string = GainName> {
   readonly cubic: boolean;
   /** Breakpoint speeds in units of 2^−16 m/s, strictly increasing. */
   readonly speeds: readonly bigint[];
   /** The low-speed floor in the same units. */
   readonly floor: bigint;
-  /** Fractional bits of each gain. */
-  readonly fractionalBits: Readonly<Record<GainName, number>>;
-  /** Stored gains per breakpoint. */
-  readonly gains: Readonly<Record<GainName, readonly bigint[]>>;
+  /** Fractional bits of each column. */
+  readonly fractionalBits: Readonly<Record<Name, number>>;
+  /** Stored values per breakpoint, per column (the gains first). */
+  readonly gains: Readonly<Record<Name, readonly bigint[]>>;
   /** Cubic: slope terms per interval k, d0 = round(h_k·m_k·2^F) and d1 = round(h_k·m_k+1·2^F); empty when linear. */
-  readonly slopeTerms: Readonly<Record<GainName, { readonly d0: readonly bigint[]; readonly d1: readonly bigint[] }>>;
+  readonly slopeTerms: Readonly<Record<Name, { readonly d0: readonly bigint[]; readonly d1: readonly bigint[] }>>;
 }
 
 /** round(x) half away from zero, as a BigInt (x a finite double). */
@@ -53,11 +53,12 @@ function divideRounded(a: bigint, b: bigint): bigint {
 const ONE = 1n << BigInt(WEIGHT_FRACTIONAL_BITS);
 const WEIGHT_SHIFT = BigInt(WEIGHT_FRACTIONAL_BITS);
 
-/** The stored gains at a speed (units of 2^−16 m/s), exactly as the C integer lookup computes them. */
-export function integerLookup(table: IntegerTable, speed: bigint): Record<GainName, bigint> {
+/** The stored values of every column at a speed (units of 2^−16 m/s), exactly as the C integer lookup computes them. */
+export function integerLookup<Name extends string>(table: IntegerTable<Name>, speed: bigint): Record<Name, bigint> {
   const { speeds } = table;
   const last = speeds.length - 1;
-  const row = (k: number): Record<GainName, bigint> => ({ kp: table.gains.kp[k], ki: table.gains.ki[k], kd: table.gains.kd[k] });
+  const names = Object.keys(table.gains) as Name[];
+  const row = (k: number): Record<Name, bigint> => Object.fromEntries(names.map((name) => [name, table.gains[name][k]])) as Record<Name, bigint>;
   const v = speed < table.floor ? table.floor : speed;
   if (!(v > speeds[0])) return row(0);
   if (v >= speeds[last]) return row(last);
@@ -73,8 +74,8 @@ export function integerLookup(table: IntegerTable, speed: bigint): Record<GainNa
   const t = ((v - speeds[k]) << WEIGHT_SHIFT) / (speeds[k + 1] - speeds[k]);
   const t2 = (t * t) >> WEIGHT_SHIFT;
   const t3 = (t2 * t) >> WEIGHT_SHIFT;
-  const result = {} as Record<GainName, bigint>;
-  for (const name of NAMES) {
+  const result = {} as Record<Name, bigint>;
+  for (const name of names) {
     const y0 = table.gains[name][k];
     const y1 = table.gains[name][k + 1];
     const acc = table.cubic
@@ -94,7 +95,7 @@ export function speedToInteger(speed_mps: number): bigint {
 }
 
 /** The gains (values, SI) the firmware's integer lookup gives at a speed in m/s. */
-export function makeIntegerGainLookup(table: IntegerTable): (speed_mps: number) => PidGains {
+export function makeIntegerGainLookup(table: IntegerTable<string>): (speed_mps: number) => PidGains {
   return (speed_mps) => {
     const stored = integerLookup(table, speedToInteger(speed_mps));
     return {

@@ -319,12 +319,10 @@ function hostileSchedule(): ScheduleFile {
 const DOCUMENTED_SYMBOLS = new Set([
   'speedband_schedule_speed_mps',
   'speedband_schedule_speed_q16',
-  'speedband_schedule_kp_slope_term0',
-  'speedband_schedule_ki_slope_term0',
-  'speedband_schedule_kd_slope_term0',
-  'speedband_schedule_kp_slope_term1',
-  'speedband_schedule_ki_slope_term1',
-  'speedband_schedule_kd_slope_term1',
+  ...['kp', 'ki', 'kd', 'setpoint_weight_p', 'setpoint_weight_d', 'feed_forward', 'feed_forward_lead_time_s'].flatMap((name) => [
+    `speedband_schedule_${name}_slope_term0`,
+    `speedband_schedule_${name}_slope_term1`,
+  ]),
   'speedband_schedule_kp',
   'speedband_schedule_ki',
   'speedband_schedule_kd',
@@ -340,6 +338,12 @@ const DOCUMENTED_SYMBOLS = new Set([
   'speedband_schedule_controller_init',
   'speedband_schedule_square_root',
   'speedband_schedule_step',
+  // The integer step function's helpers (fixed-point headers):
+  'speedband_schedule_multiply',
+  'speedband_schedule_divide',
+  'speedband_schedule_integer_square_root',
+  'speedband_schedule_magnitude',
+  'speedband_schedule_clamp',
 ]);
 const DOCUMENTED_MACROS = new Set(
   [
@@ -360,6 +364,10 @@ const DOCUMENTED_MACROS = new Set(
     'KP_FRACTIONAL_BITS',
     'KI_FRACTIONAL_BITS',
     'KD_FRACTIONAL_BITS',
+    'SETPOINT_WEIGHT_P_FRACTIONAL_BITS',
+    'SETPOINT_WEIGHT_D_FRACTIONAL_BITS',
+    'FEED_FORWARD_FRACTIONAL_BITS',
+    'FEED_FORWARD_LEAD_TIME_S_FRACTIONAL_BITS',
     'LOW_SPEED_FLOOR_Q16',
   ].map((name) => `SPEEDBAND_SCHEDULE_${name}`),
 );

@@ -280,3 +280,25 @@ describe('simulate on every demo vehicle and default plan', () => {
     }
   }, 120_000);
 });
+
+describe("the fixed-point header's controller step on the demo vehicles' default schedules", () => {
+  for (const vehicle of ['parcel-van', 'vineyard-sprayer', 'sidewalk-robot']) {
+    for (const name of ['yaw-rate (default)', 'path (default)']) {
+      it(`${vehicle}, ${name}: every scenario replayed through the compiled integer step stays within its quantisation error bound, a useful bound`, async () => {
+        const { scenarioSpeeds, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
+        const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
+        const { loadVehicle } = await import('../../src/vehicle/load.js');
+        const { SCENARIO_NAMES } = await import('../../src/performance/scenario-catalogue.js');
+        const { scenarioReplays } = await import('../export/controller-replay.js');
+        const { compareIntegerStep } = await import('../export/integer-step-replay.js');
+        const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
+        const file = loadVehicle(join('vehicles', vehicle, 'vehicle.json'));
+        const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
+        const runs = scenarioReplays({ schedule, parameters, steeringLimits: file, scenarios: SCENARIO_NAMES, speeds: scenarioSpeeds(schedule, true) });
+        const { worstDifference, peakCommand } = compareIntegerStep(schedule, 'Q16.16', runs);
+        expect(worstDifference).toBeGreaterThan(0);
+        expect(peakCommand).toBeGreaterThan(0.1);
+      });
+    }
+  }
+});

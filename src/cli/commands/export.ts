@@ -35,7 +35,7 @@ function builder(yargs: Argv) {
     .option('q-format', {
       type: 'string',
       describe:
-        'C only: gains as fixed-point integers and an integer-only lookup (no floating point; speed in units of 2^-16 m/s). QI.F or I.F (I integer bits including the sign, F fractional bits, I + F = 16 or 32: Q16.16, 16.16, Q4.12) for every gain, or auto: per gain, the 32-bit format with the most fractional bits its values need. Prints the error per gain; the dense check is re-run on what the integer lookup computes',
+        'C only: gains as fixed-point integers, an integer-only lookup and controller step function (no floating point; speed in units of 2^-16 m/s, signals in 2^-24 of their units). QI.F or I.F (I integer bits including the sign, F fractional bits, I + F = 16 or 32: Q16.16, 16.16, Q4.12) for every gain, or auto: per gain, the 32-bit format with the most fractional bits its values need. Prints the error per gain; the dense check is re-run on what the integer lookup computes',
     })
     .option('prefix', {
       type: 'string',
@@ -77,7 +77,7 @@ export function makeExportCommand(dependencies: ExportDependencies): CommandModu
       ],
       [
         'speedband export schedule.json --format c --q-format Q16.16 --out steer_schedule_q16.h',
-        'Gains as Q16.16 int32_t with an integer-only lookup; prints the error per gain',
+        'Gains as Q16.16 int32_t with an integer-only lookup and step function; prints the error per gain',
       ],
       ['speedband export schedule.json --format c --q-format auto --out steer_schedule_fixed.h', 'Each gain in the 32-bit Q format that fits its range best'],
       ['speedband export schedule.json --format csv > gains.csv', 'Breakpoints, gains and margins for a spreadsheet'],
@@ -166,6 +166,7 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
 
   let text: string;
   let fallback: import('../../export/c-header.js').FallbackGains | null = null;
+  let stepPlan: import('../../export/integer-step-plan.js').IntegerStepPlan | undefined;
   if (format === 'c') {
     const { exportC } = await import('../../export/c-header.js');
     fallback = analyse === null ? null : exportCheck.findFallbackGains(schedule, table, analyse);
@@ -193,7 +194,19 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
             worst: check.worst,
             source: 're-checked at export on the model the schedule records',
           };
-    text = exportC(schedule, { prefix: args.prefix, check: headerCheck, fallback, ...(fixedPoint === undefined ? {} : { fixedPoint }) }).text;
+    const exported = exportC(schedule, { prefix: args.prefix, check: headerCheck, fallback, ...(fixedPoint === undefined ? {} : { fixedPoint }) });
+    text = exported.text;
+    stepPlan = exported.stepPlan;
+    if (exported.stepPlan !== undefined && exported.quantisation !== undefined) {
+      const bounds = exported.quantisation.lookupErrorBounds;
+      const ranges = exported.stepPlan.ranges;
+      notes.push(
+        `  Controller step function in integers (${args.prefix}_step): reference, measurement, feed-forward input and command as int32 in units of 2^-24 (any int32 input, +-128 units); ` +
+          `no overflow for any of them (largest term ${shown(Math.max(...Object.values(ranges)))} rad of the +-2^28 rad its int64 accumulator holds at 2^-32 rad).`,
+        `  Its command stays within the quantisation error bound the header states (against the floating-point step); looked-up values within kp ${shown(bounds.kp ?? Number.NaN)}, ` +
+          `ki ${shown(bounds.ki ?? Number.NaN)}, kd ${shown(bounds.kd ?? Number.NaN)}, feed-forward ${shown(bounds.feed_forward ?? Number.NaN)} at any speed.`,
+      );
+    }
   } else if (format === 'csv') {
     text = (await import('../../export/csv.js')).exportCsv(schedule);
   } else {
@@ -237,6 +250,7 @@ async function run(args: Args, io: CommandIo, dependencies: ExportDependencies):
                   resolutionBounds: quantisation.resolutionBounds,
                   errors: quantisation.errors,
                   recheckPassed: check === null ? null : check.passed,
+                  ...(stepPlan === undefined ? {} : { stepRanges_rad: stepPlan.ranges }),
                 },
         },
         null,
