@@ -294,7 +294,13 @@ describe("the fixed-point header's controller step on the demo vehicles' default
         const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
         const file = loadVehicle(join('vehicles', vehicle, 'vehicle.json'));
         const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
-        const runs = scenarioReplays({ schedule, parameters, steeringLimits: file, scenarios: SCENARIO_NAMES, speeds: scenarioSpeeds(schedule, true) });
+        const runs = scenarioReplays({
+          schedule,
+          parameters,
+          steeringLimits: file,
+          scenarios: SCENARIO_NAMES,
+          speeds: scenarioSpeeds(schedule, { withBreakpoints: true }),
+        });
         const { worstDifference, peakCommand } = compareIntegerStep(schedule, 'Q16.16', runs);
         expect(worstDifference).toBeGreaterThan(0);
         expect(peakCommand).toBeGreaterThan(0.1);
