@@ -84,26 +84,37 @@ describe('the speedband binary (bundled CLI)', () => {
   });
 
   it('loads the mathjs chunk only when needed: not for --help nor a log in built-in units, once for a mi/h column', () => {
-    // A module-loading hook (node:module register) that reports every module URL naming mathjs on stderr.
+    // A module-loading hook (node:module register) that records every module URL naming mathjs in a file. The hooks
+    // run on their own thread: a write to stderr from there can be lost when the process exits; appendFileSync cannot.
     const folder = mkdtempSync(join(tmpdir(), 'speedband-bundle-lazy-'));
+    const record = join(folder, 'loaded.txt');
     writeFileSync(
       join(folder, 'hooks.mjs'),
-      "export async function load(url, context, next) { if (url.includes('mathjs')) process.stderr.write(`LOADED ${url}\\n`); return next(url, context); }\n",
+      `import { appendFileSync } from 'node:fs';\nexport async function load(url, context, next) { if (url.includes('mathjs')) appendFileSync(${JSON.stringify(record)}, \`LOADED \${url}\\n\`); return next(url, context); }\n`,
     );
     writeFileSync(
       join(folder, 'register.mjs'),
       `import { register } from 'node:module';\nregister(${JSON.stringify(new URL(`file://${join(folder, 'hooks.mjs')}`).href)});\n`,
     );
     const hook = ['--import', join(folder, 'register.mjs')];
-    const loaded = (stderr: string): string[] => stderr.split('\n').filter((line) => line.startsWith('LOADED '));
+    /** What the last run loaded (the record is emptied for the next). */
+    const loaded = (): string[] => {
+      const lines = existsSync(record)
+        ? readFileSync(record, 'utf8')
+            .split('\n')
+            .filter((line) => line.startsWith('LOADED '))
+        : [];
+      writeFileSync(record, '');
+      return lines;
+    };
     const help = runBinary(['--help'], folder, hook);
     expect(help.status).toBe(0);
-    expect(loaded(help.stderr)).toEqual([]);
+    expect(loaded()).toEqual([]);
     const plain = runBinary(['inspect', VAN_LOG, '--column', 'speed_mps=speed_mps:km/h'], folder, hook);
     expect(plain.status, plain.stderr).toBe(0);
-    expect(loaded(plain.stderr)).toEqual([]);
+    expect(loaded()).toEqual([]);
     const mph = runBinary(['inspect', VAN_LOG, '--column', 'speed_mps=speed_mps:mi/h'], folder, hook);
     expect(mph.status, mph.stderr).toBe(0);
-    expect(loaded(mph.stderr)).toEqual([expect.stringMatching(/\/dist\/cli\/mathjs\.bundle\.js$/)]);
+    expect(loaded()).toEqual([expect.stringMatching(/\/dist\/cli\/mathjs\.bundle\.js$/)]);
   });
 });
