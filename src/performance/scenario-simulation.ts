@@ -16,16 +16,16 @@
 import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
 import { previewFromCg_m } from '../loops/build.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { matrixExponential } from '../lti/matrix-exponential.js';
 import { splitDelay } from '../verify/sampled-plant.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
 import { visitActuatorPieces } from './actuator-motion.js';
+import { exactAtSpeed, type ExactAtSpeed, type PieceKind } from './exact-pieces.js';
 import {
   INPUTS as INPUT_COUNT,
   lateralAcceleration_mps2,
-  pathFrameDerivative,
+  lateralVelocityRateAt,
   pathFrameDerivativeAt,
-  pathFrameSystem,
+  pathFrameDerivativeRow,
   STATE as STATE_INDEX,
   STATES as STATE_COUNT,
 } from './path-frame-vehicle.js';
@@ -146,43 +146,19 @@ export function simulateScenario(
   x[STATE.headingError] = setup.initialHeadingError_rad;
   const scratch = new Float64Array(STATES);
 
-  // Exact pieces over samples at constant speed: e^([[A, B], [0, 0]]·h) = [[Φ, Γ], [0, I]], per speed (a speed
-  // profile has at most two constant stretches) and piece kind.
-  type Exact = {
-    readonly systems: Record<'free' | 'track', { a: Float64Array; b: Float64Array }>;
-    readonly cache: Record<'free' | 'track', Map<number, { phi: Float64Array; gamma: Float64Array }>>;
-  };
-  const exactBySpeed = new Map<number, Exact>();
-  const exactAt = (speed_mps: number): Exact => {
-    let found = exactBySpeed.get(speed_mps);
-    if (found === undefined) {
-      found = {
-        systems: { free: pathFrameSystem(parameters, speed_mps, 'free', lag), track: pathFrameSystem(parameters, speed_mps, 'track', lag) },
-        cache: { free: new Map(), track: new Map() },
-      };
-      exactBySpeed.set(speed_mps, found);
+  // Exact pieces over samples at constant speed (exact-pieces.ts, kept across runs); the last speed's at hand.
+  let exactSpeed = Number.NaN;
+  let exactOfSpeed: ExactAtSpeed | null = null;
+  const exactAt = (speed_mps: number): ExactAtSpeed => {
+    if (speed_mps !== exactSpeed || exactOfSpeed === null) {
+      exactOfSpeed = exactAtSpeed(parameters, speed_mps, lag);
+      exactSpeed = speed_mps;
     }
-    return found;
+    return exactOfSpeed;
   };
-  const exactPiece = (exactHere: Exact, kind: 'free' | 'track', h: number): { phi: Float64Array; gamma: Float64Array } => {
-    const cached = exactHere.cache[kind].get(h);
-    if (cached !== undefined) return cached;
-    const system = exactHere.systems[kind];
-    const size = STATES + INPUTS;
-    const augmented = Array.from({ length: size }, (_, i) =>
-      Array.from({ length: size }, (_, j) => (i >= STATES ? 0 : j < STATES ? system.a[i * STATES + j] * h : system.b[i * INPUTS + j - STATES] * h)),
-    );
-    const e = matrixExponential(augmented);
-    const result = {
-      phi: Float64Array.from(e.slice(0, STATES).flatMap((row) => row.slice(0, STATES))),
-      gamma: Float64Array.from(e.slice(0, STATES).flatMap((row) => row.slice(STATES))),
-    };
-    if (exactHere.cache[kind].size < 64) exactHere.cache[kind].set(h, result);
-    return result;
-  };
-  let exactHere: Exact | null = null;
+  let exactHere: ExactAtSpeed | null = null;
   let rungeKuttaUsed = false;
-  const derivative = (time_s: number, state: Float64Array, kind: 'free' | 'track', w: number, out: Float64Array): void => {
+  const derivative = (time_s: number, state: Float64Array, kind: PieceKind, w: number, out: Float64Array): void => {
     pathFrameDerivativeAt(parameters, speedAt_mps(setup.speed, time_s), kind, lag, state, inputsAt(time_s, w), out);
   };
   const k1 = new Float64Array(STATES);
@@ -190,7 +166,7 @@ export function simulateScenario(
   const k3 = new Float64Array(STATES);
   const k4 = new Float64Array(STATES);
   const stage = new Float64Array(STATES);
-  const rungeKutta = (t0: number, h: number, kind: 'free' | 'track', w: number): void => {
+  const rungeKutta = (t0: number, h: number, kind: PieceKind, w: number): void => {
     derivative(t0, x, kind, w, k1);
     for (let i = 0; i < STATES; i++) stage[i] = x[i] + (h / 2) * k1[i];
     derivative(t0 + h / 2, stage, kind, w, k2);
@@ -206,14 +182,14 @@ export function simulateScenario(
   // The piece visitor (no allocation per sample): integrates one piece from `pieceTime` and records its rate at the start.
   let pieceTime = 0;
   let firstRate = Number.NaN;
-  const integratePiece = (kind: 'free' | 'track', duration: number, input: number, startAngle: number, atLimit: boolean): void => {
+  const integratePiece = (kind: PieceKind, duration: number, input: number, startAngle: number, atLimit: boolean): void => {
     if (!Number.isNaN(startAngle)) x[STATE.steerAngle] = startAngle;
     const rate = kind === 'free' ? input : (input - x[STATE.steerAngle]) / lag;
     if (Number.isNaN(firstRate)) firstRate = rate;
     peakRate = Math.max(peakRate, Math.abs(rate));
     if (atLimit) atRateLimit += duration;
     if (exactHere !== null) {
-      const { phi, gamma } = exactPiece(exactHere, kind, duration);
+      const { phi, gamma } = exactHere.piece(kind, duration);
       inputsAt(pieceTime + duration / 2, input);
       for (let i = 0; i < STATES; i++) {
         let sum = 0;
@@ -260,7 +236,7 @@ export function simulateScenario(
   let state = initialFirmwareState();
   let lookedUpSpeed = Number.NaN;
   let scheduled = controller.at(setup.speed.initial_mps);
-  const derivativeNow = new Float64Array(STATES);
+  const still = (values: Float64Array, k: number, largest: number): boolean => Math.abs(values[k] - values[k - 1]) <= REST.relativeChange * largest;
   const restWindow = Math.max(1, Math.round(REST.window_s / ts));
   let quietSamples = 0;
   let largestError = 0;
@@ -311,10 +287,12 @@ export function simulateScenario(
     if (Math.abs(out.unlimited) > settings.commandLimit_rad) atAngleLimit += ts;
     // Exact over this sample when the speed does not change in it.
     exactHere = speedAt_mps(setup.speed, t + ts) === v ? exactAt(v) : null;
+    // v̇y now (row 0 of ẋ, the 'free' kind: the actuator's row does not enter it), for the lateral acceleration.
+    let lateralVelocityRate: number;
     if (exactHere === null) {
       rungeKuttaUsed = true;
-      pathFrameDerivativeAt(parameters, v, 'free', lag, x, inputsAt(t, 0), derivativeNow);
-    } else pathFrameDerivative(exactHere.systems.free, x, inputsAt(t, 0), derivativeNow);
+      lateralVelocityRate = lateralVelocityRateAt(parameters, v, x, inputsAt(t, 0));
+    } else lateralVelocityRate = pathFrameDerivativeRow(exactHere.systems.free, x, inputsAt(t, 0), STATE.lateralVelocity);
     traces.time_s[k] = t;
     traces.speed_mps[k] = v;
     traces.distance_m[k] = distanceAt_m(setup.speed, t);
@@ -324,15 +302,15 @@ export function simulateScenario(
     traces.feedForwardInput[k] = feedForwardInput;
     traces.steerAngle_rad[k] = x[STATE.steerAngle];
     traces.yawRate_radps[k] = x[STATE.yawRate];
-    traces.lateralAcceleration_mps2[k] = lateralAcceleration_mps2(derivativeNow, x, v);
+    traces.lateralAcceleration_mps2[k] = lateralAcceleration_mps2(lateralVelocityRate, x, v);
     traces.lateralOffset_m[k] = x[STATE.lateralOffset];
     traces.headingError_rad[k] = x[STATE.headingError];
     if (stopAtRest && k > 0) {
       largestError = Math.max(largestError, Math.abs(traces.error[k]));
       largestCommand = Math.max(largestCommand, Math.abs(command[k]));
       largestAngle = Math.max(largestAngle, Math.abs(x[STATE.steerAngle]));
-      const still = (values: Float64Array, largest: number): boolean => Math.abs(values[k] - values[k - 1]) <= REST.relativeChange * largest;
-      const quiet = t > setup.restAfter_s && still(traces.error, largestError) && still(command, largestCommand) && still(traces.steerAngle_rad, largestAngle);
+      const quiet =
+        t > setup.restAfter_s && still(traces.error, k, largestError) && still(command, k, largestCommand) && still(traces.steerAngle_rad, k, largestAngle);
       quietSamples = quiet ? quietSamples + 1 : 0;
     }
     // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.
