@@ -19,54 +19,64 @@ export interface ActuatorPiece {
   readonly atRateLimit: boolean;
 }
 
-/** Receives one piece (the fields of ActuatorPiece; `startAngle` NaN when the angle is not set). */
-export type ActuatorPieceVisitor = (kind: 'free' | 'track', duration_s: number, input: number, startAngle: number, atRateLimit: boolean) => void;
+/**
+ * The pieces as numbers, for the simulators' inner loops (no allocation, no callback): piece i occupies
+ * PIECE_FIELDS entries from i·PIECE_FIELDS — kind (PIECE_FREE or PIECE_TRACK), duration (s), input, the angle to
+ * set before it (NaN: none) and 1 when the wheel moves at its rate limit (else 0). At most two pieces.
+ */
+export const PIECE_FIELDS = 5;
+export const PIECE_FREE = 0;
+export const PIECE_TRACK = 1;
+
+function setPiece(out: Float64Array, index: number, kind: number, duration_s: number, input: number, startAngle: number, atRateLimit: boolean): number {
+  const at = index * PIECE_FIELDS;
+  out[at] = kind;
+  out[at + 1] = duration_s;
+  out[at + 2] = input;
+  out[at + 3] = startAngle;
+  out[at + 4] = atRateLimit ? 1 : 0;
+  return index + 1;
+}
 
 /**
- * Visit the pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad), in order
- * (no allocation: the simulators' inner loop).
+ * Write the pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad), in order
+ * into `out` (at least 2·PIECE_FIELDS long); returns how many (0, 1 or 2).
  */
-export function visitActuatorPieces(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number, visit: ActuatorPieceVisitor): void {
-  if (duration_s <= 0) return;
+export function actuatorPiecesInto(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number, out: Float64Array): number {
+  if (duration_s <= 0) return 0;
   const error = target - angle;
   const direction = Math.sign(error);
   if (lag_s > 0) {
     const band = rate_radps * lag_s;
-    if (!(Math.abs(error) > band)) {
-      visit('track', duration_s, target, Number.NaN, false);
-      return;
-    }
+    if (!(Math.abs(error) > band)) return setPiece(out, 0, PIECE_TRACK, duration_s, target, Number.NaN, false);
     const ramp = (Math.abs(error) - band) / rate_radps;
-    if (ramp >= duration_s) {
-      visit('free', duration_s, direction * rate_radps, Number.NaN, true);
-      return;
-    }
-    visit('free', ramp, direction * rate_radps, Number.NaN, true);
-    visit('track', duration_s - ramp, target, target - direction * band, false);
-    return;
+    if (ramp >= duration_s) return setPiece(out, 0, PIECE_FREE, duration_s, direction * rate_radps, Number.NaN, true);
+    setPiece(out, 0, PIECE_FREE, ramp, direction * rate_radps, Number.NaN, true);
+    return setPiece(out, 1, PIECE_TRACK, duration_s - ramp, target, target - direction * band, false);
   }
-  if (error !== 0 && !Number.isFinite(rate_radps)) {
-    visit('free', duration_s, 0, target, false);
-    return;
-  }
-  if (error === 0) {
-    visit('free', duration_s, 0, Number.NaN, false);
-    return;
-  }
+  if (error !== 0 && !Number.isFinite(rate_radps)) return setPiece(out, 0, PIECE_FREE, duration_s, 0, target, false);
+  if (error === 0) return setPiece(out, 0, PIECE_FREE, duration_s, 0, Number.NaN, false);
   const ramp = Math.abs(error) / rate_radps;
-  if (ramp >= duration_s) {
-    visit('free', duration_s, direction * rate_radps, Number.NaN, true);
-    return;
-  }
-  visit('free', ramp, direction * rate_radps, Number.NaN, true);
-  visit('free', duration_s - ramp, 0, target, false);
+  if (ramp >= duration_s) return setPiece(out, 0, PIECE_FREE, duration_s, direction * rate_radps, Number.NaN, true);
+  setPiece(out, 0, PIECE_FREE, ramp, direction * rate_radps, Number.NaN, true);
+  return setPiece(out, 1, PIECE_FREE, duration_s - ramp, 0, target, false);
 }
 
 /** The pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad), as records. */
 export function actuatorPieces(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number): ActuatorPiece[] {
+  const out = new Float64Array(2 * PIECE_FIELDS);
+  const count = actuatorPiecesInto(angle, target, duration_s, lag_s, rate_radps, out);
   const pieces: ActuatorPiece[] = [];
-  visitActuatorPieces(angle, target, duration_s, lag_s, rate_radps, (kind, duration, input, startAngle, atRateLimit) => {
-    pieces.push({ kind, duration_s: duration, input, ...(Number.isNaN(startAngle) ? {} : { startAngle }), atRateLimit });
-  });
+  for (let i = 0; i < count; i++) {
+    const at = i * PIECE_FIELDS;
+    const startAngle = out[at + 3];
+    pieces.push({
+      kind: out[at] === PIECE_TRACK ? 'track' : 'free',
+      duration_s: out[at + 1],
+      input: out[at + 2],
+      ...(Number.isNaN(startAngle) ? {} : { startAngle }),
+      atRateLimit: out[at + 4] === 1,
+    });
+  }
   return pieces;
 }

@@ -64,7 +64,7 @@ export function pathFrameSystem(
 export function pathFrameDerivative(
   system: { readonly a: Float64Array; readonly b: Float64Array },
   x: Float64Array,
-  inputs: readonly number[],
+  inputs: ArrayLike<number>,
   out: Float64Array,
 ): void {
   for (let i = 0; i < x.length; i++) out[i] = pathFrameDerivativeRow(system, x, inputs, i);
@@ -74,7 +74,7 @@ export function pathFrameDerivative(
 export function pathFrameDerivativeRow(
   system: { readonly a: Float64Array; readonly b: Float64Array },
   x: Float64Array,
-  inputs: readonly number[],
+  inputs: ArrayLike<number>,
   i: number,
 ): number {
   const n = x.length;
@@ -100,7 +100,7 @@ export function pathFrameDerivativeAt(
   kind: 'free' | 'track',
   lag_s: number,
   x: Float64Array,
-  inputs: readonly number[],
+  inputs: ArrayLike<number>,
   out: Float64Array,
 ): void {
   const { yawInertia_kgm2: iz, cgToFrontAxle_m: a, cgToRearAxle_m: b } = parameters;
@@ -117,7 +117,7 @@ export function pathFrameDerivativeAt(
 }
 
 /** v̇y, the first row of pathFrameDerivativeAt (all the lateral acceleration needs). */
-export function lateralVelocityRateAt(parameters: SingleTrackParameters, speed_mps: number, x: Float64Array, inputs: readonly number[]): number {
+export function lateralVelocityRateAt(parameters: SingleTrackParameters, speed_mps: number, x: Float64Array, inputs: ArrayLike<number>): number {
   const { mass_kg: m, cgToFrontAxle_m: a, cgToRearAxle_m: b } = parameters;
   const cf = parameters.frontCorneringStiffness_NPerRad;
   const cr = parameters.rearCorneringStiffness_NPerRad;

@@ -5,30 +5,17 @@
  * delay, the actuator's rate and angle limits and its lag (actuator-motion.ts), and drives the single-track
  * vehicle relative to the path (path-frame-vehicle.ts) at the speed of the moment.
  *
- * Integration. Over a sample in which the speed does not change the plant is linear and time-invariant between
- * the actuator's switching instants, so each piece is integrated exactly with the matrix exponential (Åström &
- * Wittenmark, Computer-Controlled Systems, §2.3; the exogenous signals — curvature, force, misalignment — taken
- * at the middle of each piece and held). Over a sample in which the speed changes the model is re-evaluated at
- * the instantaneous speed and integrated by the classical fourth-order Runge–Kutta method (Kutta 1901) with a
- * fixed number of steps per sample, each actuator piece on its own (no switch inside a step); scenario-run.ts
- * chooses that number by halving the step until no metric moves by more than 0.1 %.
+ * The plant between samples, exact at constant speed and by fourth-order Runge–Kutta while the speed changes, is
+ * scenario-plant.ts; scenario-run.ts chooses the Runge–Kutta steps per sample by halving the step until no metric
+ * moves by more than 0.1 %.
  */
 import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
 import { previewFromCg_m } from '../loops/build.js';
 import type { LoopSpecification } from '../loops/types.js';
 import { splitDelay } from '../verify/sampled-plant.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
-import { visitActuatorPieces } from './actuator-motion.js';
-import { exactAtSpeed, type ExactAtSpeed, type PieceKind } from './exact-pieces.js';
-import {
-  INPUTS as INPUT_COUNT,
-  lateralAcceleration_mps2,
-  lateralVelocityRateAt,
-  pathFrameDerivativeAt,
-  pathFrameDerivativeRow,
-  STATE as STATE_INDEX,
-  STATES as STATE_COUNT,
-} from './path-frame-vehicle.js';
+import { lateralAcceleration_mps2, STATE } from './path-frame-vehicle.js';
+import { advancePlant, beginSample, pathDistanceAt_m, startPlant, valueAt } from './scenario-plant.js';
 import type { PathShape } from './scenarios.js';
 import { distanceAt_m, speedAt_mps, type SpeedProfile } from './speed-profile.js';
 
@@ -101,14 +88,6 @@ export interface ScenarioTraces {
   readonly integrator: { readonly name: 'exact' | 'runge-kutta-4'; readonly stepsPerSample: number };
 }
 
-// Local copies: the inner loops read them on every step.
-const STATES = STATE_COUNT;
-const INPUTS = INPUT_COUNT;
-const STATE = { ...STATE_INDEX };
-
-const valueAt = (change: StepChange | null, time_s: number): number => (change !== null && time_s >= change.time_s ? change.size : 0);
-
-/** Simulate `setup` (see the file comment); `stepsPerSample` is used only when the speed changes. */
 /**
  * Stopping at rest (for judging, not for traces): once every input has stopped changing (`setup.restAfter_s`) and for
  * REST.window_s the error, the command and the wheel angle have each changed by at most REST.relativeChange of their
@@ -117,6 +96,7 @@ const valueAt = (change: StepChange | null, time_s: number): number => (change !
  */
 export const REST = { window_s: 1, relativeChange: 1e-9 } as const;
 
+/** Simulate `setup` (see the file comment); `stepsPerSample` is used only when the speed changes. */
 export function simulateScenario(
   vehicle: ScenarioVehicle,
   controller: ScenarioController,
@@ -128,90 +108,10 @@ export function simulateScenario(
   const settings = controller.settings;
   const ts = settings.sampleTime_s;
   const count = Math.floor(setup.duration_s / ts + 1e-9) + 1;
-  const lag = parameters.actuatorLag_s < 1e-6 * ts ? 0 : parameters.actuatorLag_s;
   const { wholeSamples, fraction_s } = splitDelay(parameters.actuatorDelay_s + settings.computationLatency_s, ts);
-  const pathS = (time_s: number): number => distanceAt_m(setup.speed, time_s) - setup.pathStart_m;
-  // One array reused for every evaluation (the inner loops allocate nothing).
-  const inputs = [0, 0, 0, 0];
-  const inputsAt = (time_s: number, w: number): number[] => {
-    inputs[0] = w;
-    inputs[1] = setup.path.curvature(pathS(time_s));
-    inputs[2] = valueAt(setup.lateralForce, time_s);
-    inputs[3] = valueAt(setup.misalignment, time_s);
-    return inputs;
-  };
-
-  const x = new Float64Array(STATES);
-  x[STATE.lateralOffset] = setup.initialLateralOffset_m;
-  x[STATE.headingError] = setup.initialHeadingError_rad;
-  const scratch = new Float64Array(STATES);
-
-  // Exact pieces over samples at constant speed (exact-pieces.ts, kept across runs); the last speed's at hand.
-  let exactSpeed = Number.NaN;
-  let exactOfSpeed: ExactAtSpeed | null = null;
-  const exactAt = (speed_mps: number): ExactAtSpeed => {
-    if (speed_mps !== exactSpeed || exactOfSpeed === null) {
-      exactOfSpeed = exactAtSpeed(parameters, speed_mps, lag);
-      exactSpeed = speed_mps;
-    }
-    return exactOfSpeed;
-  };
-  let exactHere: ExactAtSpeed | null = null;
-  let rungeKuttaUsed = false;
-  const derivative = (time_s: number, state: Float64Array, kind: PieceKind, w: number, out: Float64Array): void => {
-    pathFrameDerivativeAt(parameters, speedAt_mps(setup.speed, time_s), kind, lag, state, inputsAt(time_s, w), out);
-  };
-  const k1 = new Float64Array(STATES);
-  const k2 = new Float64Array(STATES);
-  const k3 = new Float64Array(STATES);
-  const k4 = new Float64Array(STATES);
-  const stage = new Float64Array(STATES);
-  const rungeKutta = (t0: number, h: number, kind: PieceKind, w: number): void => {
-    derivative(t0, x, kind, w, k1);
-    for (let i = 0; i < STATES; i++) stage[i] = x[i] + (h / 2) * k1[i];
-    derivative(t0 + h / 2, stage, kind, w, k2);
-    for (let i = 0; i < STATES; i++) stage[i] = x[i] + (h / 2) * k2[i];
-    derivative(t0 + h / 2, stage, kind, w, k3);
-    for (let i = 0; i < STATES; i++) stage[i] = x[i] + h * k3[i];
-    derivative(t0 + h, stage, kind, w, k4);
-    for (let i = 0; i < STATES; i++) x[i] += (h / 6) * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]);
-  };
-  let peakRate = 0;
-  let atRateLimit = 0;
+  const plant = startPlant(parameters, setup, { sampleTime_s: ts, stepsPerSample, maxSteerRate_radps: vehicle.maxSteerRate_radps });
+  const x = plant.x;
   let atAngleLimit = 0;
-  // The piece visitor (no allocation per sample): integrates one piece from `pieceTime` and records its rate at the start.
-  let pieceTime = 0;
-  let firstRate = Number.NaN;
-  const integratePiece = (kind: PieceKind, duration: number, input: number, startAngle: number, atLimit: boolean): void => {
-    if (!Number.isNaN(startAngle)) x[STATE.steerAngle] = startAngle;
-    const rate = kind === 'free' ? input : (input - x[STATE.steerAngle]) / lag;
-    if (Number.isNaN(firstRate)) firstRate = rate;
-    peakRate = Math.max(peakRate, Math.abs(rate));
-    if (atLimit) atRateLimit += duration;
-    if (exactHere !== null) {
-      const { phi, gamma } = exactHere.piece(kind, duration);
-      inputsAt(pieceTime + duration / 2, input);
-      for (let i = 0; i < STATES; i++) {
-        let sum = 0;
-        for (let j = 0; j < STATES; j++) sum += phi[i * STATES + j] * x[j];
-        for (let j = 0; j < INPUTS; j++) sum += gamma[i * INPUTS + j] * inputs[j];
-        scratch[i] = sum;
-      }
-      x.set(scratch);
-    } else {
-      const steps = Math.max(1, Math.ceil((duration / ts) * stepsPerSample - 1e-9));
-      const h = duration / steps;
-      for (let s = 0; s < steps; s++) rungeKutta(pieceTime + s * h, h, kind, input);
-    }
-    pieceTime += duration;
-  };
-  /** Advance from t0 over h seconds with the delayed, angle-limited command c held; returns the wheel rate at t0. */
-  const advance = (t0: number, c: number, h: number): number => {
-    pieceTime = t0;
-    firstRate = Number.NaN;
-    visitActuatorPieces(x[STATE.steerAngle], c, h, lag, vehicle.maxSteerRate_radps, integratePiece);
-    return Number.isNaN(firstRate) ? 0 : firstRate;
-  };
 
   const traces = {
     time_s: new Float64Array(count),
@@ -256,7 +156,7 @@ export function simulateScenario(
       break;
     }
     const v = speedAt_mps(setup.speed, t);
-    const s = pathS(t);
+    const s = pathDistanceAt_m(setup, t);
     if (v !== lookedUpSpeed) {
       scheduled = controller.at(v);
       lookedUpSpeed = v;
@@ -285,14 +185,8 @@ export function simulateScenario(
     state = out.state;
     command[k] = out.command;
     if (Math.abs(out.unlimited) > settings.commandLimit_rad) atAngleLimit += ts;
-    // Exact over this sample when the speed does not change in it.
-    exactHere = speedAt_mps(setup.speed, t + ts) === v ? exactAt(v) : null;
-    // v̇y now (row 0 of ẋ, the 'free' kind: the actuator's row does not enter it), for the lateral acceleration.
-    let lateralVelocityRate: number;
-    if (exactHere === null) {
-      rungeKuttaUsed = true;
-      lateralVelocityRate = lateralVelocityRateAt(parameters, v, x, inputsAt(t, 0));
-    } else lateralVelocityRate = pathFrameDerivativeRow(exactHere.systems.free, x, inputsAt(t, 0), STATE.lateralVelocity);
+    // Exact over this sample when the speed does not change in it; v̇y now for the lateral acceleration.
+    const lateralVelocityRate = beginSample(plant, t, v);
     traces.time_s[k] = t;
     traces.speed_mps[k] = v;
     traces.distance_m[k] = distanceAt_m(setup.speed, t);
@@ -315,17 +209,17 @@ export function simulateScenario(
     }
     // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.
     if (fraction_s > 0) {
-      traces.steerRate_radps[k] = advance(t, delayed(k - wholeSamples - 1), fraction_s);
-      advance(t + fraction_s, delayed(k - wholeSamples), ts - fraction_s);
+      traces.steerRate_radps[k] = advancePlant(plant, t, delayed(k - wholeSamples - 1), fraction_s);
+      advancePlant(plant, t + fraction_s, delayed(k - wholeSamples), ts - fraction_s);
     } else {
-      traces.steerRate_radps[k] = advance(t, delayed(k - wholeSamples), ts);
+      traces.steerRate_radps[k] = advancePlant(plant, t, delayed(k - wholeSamples), ts);
     }
   }
   return {
     ...traces,
-    peakSteerRate_radps: peakRate,
+    peakSteerRate_radps: plant.peakSteerRate_radps,
     timeAtAngleLimit_s: atAngleLimit,
-    timeAtRateLimit_s: atRateLimit,
-    integrator: rungeKuttaUsed ? { name: 'runge-kutta-4', stepsPerSample } : { name: 'exact', stepsPerSample: 1 },
+    timeAtRateLimit_s: plant.timeAtRateLimit_s,
+    integrator: plant.rungeKuttaUsed ? { name: 'runge-kutta-4', stepsPerSample } : { name: 'exact', stepsPerSample: 1 },
   };
 }
