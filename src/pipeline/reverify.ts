@@ -10,8 +10,8 @@
  * status is kept: only what the check proves. A schedule that records variations has their worst case
  * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
-import { judgeScheduleScenarios, scheduleScenarioController } from './simulate-schedule.js';
-import { speedChangeCertificate } from './speed-change-certificate.js';
+import { judgeScheduleScenarios } from './simulate-schedule.js';
+import { scheduleSpeedChangeCertificate } from './scenario-stage.js';
 import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
@@ -182,11 +182,6 @@ function rerunScenarios(schedule: ScheduleFile, model: CheckModel): { scenarios:
   const steeringLimits = schedule.check.timeDomain.steeringLimits;
   const parameters = at.parameters;
   const scenarios = judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description });
-  const speedChange = speedChangeCertificate({
-    vehicle: { parameters, ...steeringLimits },
-    controller: scheduleScenarioController(schedule),
-    context: { loop: schedule.loop.kind, parameters, maxSteerAngle_rad: steeringLimits.maxSteerAngle_rad, range: schedule.check.range },
-    limits: recorded.limits,
-  });
+  const speedChange = scheduleSpeedChangeCertificate({ schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description });
   return { scenarios, speedChange };
 }
