@@ -5,24 +5,15 @@
  * instant is known in closed form, so the stretch splits into pieces each of which is linear
  * ('free': δ̇ = w, a fixed rate; 'track': δ̇ = (w − δ)/τa) and can be integrated exactly. Without a lag
  * (τa = 0) the wheel ramps at the rate limit to c and stays there (an infinite rate limit: jumps to it).
- * Used by the limited loop (limited-loop-simulation.ts) and the scenario simulator (scenario-simulation.ts).
+ * Used by the limited loop (limited-loop-simulation.ts) and the scenario simulator (scenario-plant.ts).
  */
 
-export interface ActuatorPiece {
-  readonly kind: 'free' | 'track';
-  readonly duration_s: number;
-  /** 'free': the wheel's rate, rad/s; 'track': the angle approached, rad. */
-  readonly input: number;
-  /** Set the wheel angle to this before the piece (where the closed form puts it; removes rounding at a switch). */
-  readonly startAngle?: number;
-  /** True when the wheel moves at its rate limit through this piece. */
-  readonly atRateLimit: boolean;
-}
-
 /**
- * The pieces as numbers, for the simulators' inner loops (no allocation, no callback): piece i occupies
- * PIECE_FIELDS entries from i·PIECE_FIELDS — kind (PIECE_FREE or PIECE_TRACK), duration (s), input, the angle to
- * set before it (NaN: none) and 1 when the wheel moves at its rate limit (else 0). At most two pieces.
+ * The pieces, as numbers for the simulators' inner loops (no allocation, no callback): piece i occupies
+ * PIECE_FIELDS entries from i·PIECE_FIELDS — its kind (PIECE_FREE: δ̇ = w, a fixed rate; PIECE_TRACK:
+ * δ̇ = (w − δ)/τa), its duration (s), its input w ('free': the wheel's rate, rad/s; 'track': the angle approached,
+ * rad), the angle to set the wheel to before it (where the closed form puts it, removing rounding at a switch; NaN:
+ * none) and 1 when the wheel moves at its rate limit through it (else 0). At most two pieces.
  */
 export const PIECE_FIELDS = 5;
 export const PIECE_FREE = 0;
@@ -60,23 +51,4 @@ export function actuatorPiecesInto(angle: number, target: number, duration_s: nu
   if (ramp >= duration_s) return setPiece(out, 0, PIECE_FREE, duration_s, direction * rate_radps, Number.NaN, true);
   setPiece(out, 0, PIECE_FREE, ramp, direction * rate_radps, Number.NaN, true);
   return setPiece(out, 1, PIECE_FREE, duration_s - ramp, 0, target, false);
-}
-
-/** The pieces of `duration_s` seconds with the command `target` held, from wheel angle `angle` (rad), as records. */
-export function actuatorPieces(angle: number, target: number, duration_s: number, lag_s: number, rate_radps: number): ActuatorPiece[] {
-  const out = new Float64Array(2 * PIECE_FIELDS);
-  const count = actuatorPiecesInto(angle, target, duration_s, lag_s, rate_radps, out);
-  const pieces: ActuatorPiece[] = [];
-  for (let i = 0; i < count; i++) {
-    const at = i * PIECE_FIELDS;
-    const startAngle = out[at + 3];
-    pieces.push({
-      kind: out[at] === PIECE_TRACK ? 'track' : 'free',
-      duration_s: out[at + 1],
-      input: out[at + 2],
-      ...(Number.isNaN(startAngle) ? {} : { startAngle }),
-      atRateLimit: out[at + 4] === 1,
-    });
-  }
-  return pieces;
 }
