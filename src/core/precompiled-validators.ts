@@ -5306,7 +5306,7 @@ return errors === 0;
 }
 
 export const validatePlanFile = validate4;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"searchOn":{"enum":["nominal","worst-case"],"description":"With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."},"maximumSpeedChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3)."},"maximumSpeedChangeError_rad":{"type":"number","exclusiveMinimum":0,"description":"Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05)."},"maximumSpeedChangeError_radps":{"type":"number","exclusiveMinimum":0,"description":"Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."},"scenarios":{"type":"boolean","description":"Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (needs the single-track model)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"searchOn":{"enum":["nominal","worst-case"],"description":"With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"type":"number","maximum":0,"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this."},"minimumUpperGainMargin_dB":{"type":"number","minimum":0,"description":"Upper gain margin (the gain increase that destabilises) must be at least this."},"minimumPhaseMargin_deg":{"type":"number","minimum":0,"maximum":180,"description":"Phase margin must be at least this."},"maximumSensitivityPeak":{"type":"number","minimum":1,"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund)."},"maximumComplementarySensitivityPeak":{"type":"number","minimum":1,"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2)."},"delayMarginRoom_s":{"type":"number","minimum":0,"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room."},"maximumOvershoot_pct":{"type":"number","minimum":0,"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice)."},"maximumRecoveryTime_s":{"type":"number","exclusiveMinimum":0,"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15)."},"maximumLaneChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5)."},"maximumCurveEntryError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3)."},"maximumSpeedChangeError_m":{"type":"number","exclusiveMinimum":0,"description":"Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3)."},"maximumSpeedChangeError_rad":{"type":"number","exclusiveMinimum":0,"description":"Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05)."},"maximumSpeedChangeError_radps":{"type":"number","exclusiveMinimum":0,"description":"Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05)."}},"description":"Limits every speed of the dense check must meet."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."},"scenarios":{"type":"boolean","description":"Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (needs the single-track model)."},"rampAcceleration_mps2":{"type":"number","exclusiveMinimum":0,"maximum":10,"description":"Acceleration of the speed-ramp-in-curve scenario through the speed range, m/s²: the acceleration the vehicle uses in service."},"brakingDeceleration_mps2":{"type":"number","exclusiveMinimum":0,"maximum":10,"description":"Deceleration of the braking-in-curve scenario through the speed range, m/s² (positive): the service braking the vehicle uses, not an emergency stop."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -8357,7 +8357,7 @@ if(data.check !== undefined){
 let data84 = data.check;
 if(data84 && typeof data84 == "object" && !Array.isArray(data84)){
 for(const key17 in data84){
-if(!((((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model")) || (key17 === "scenarios"))){
+if(!((((((key17 === "gridSpeeds") || (key17 === "maxInsertedBreakpoints")) || (key17 === "model")) || (key17 === "scenarios")) || (key17 === "rampAcceleration_mps2")) || (key17 === "brakingDeceleration_mps2"))){
 const err218 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key17},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err218];
@@ -8463,9 +8463,11 @@ vErrors.push(err226);
 errors++;
 }
 }
-}
-else {
-const err227 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data84.rampAcceleration_mps2 !== undefined){
+let data89 = data84.rampAcceleration_mps2;
+if((typeof data89 == "number") && (isFinite(data89))){
+if(data89 > 10 || isNaN(data89)){
+const err227 = {instancePath:instancePath+"/check/rampAcceleration_mps2",schemaPath:"#/properties/check/properties/rampAcceleration_mps2/maximum",keyword:"maximum",params:{comparison: "<=", limit: 10},message:"must be <= 10"};
 if(vErrors === null){
 vErrors = [err227];
 }
@@ -8474,13 +8476,8 @@ vErrors.push(err227);
 }
 errors++;
 }
-}
-if(data.variations !== undefined){
-let data89 = data.variations;
-if(data89 && typeof data89 == "object" && !Array.isArray(data89)){
-for(const key18 in data89){
-if(!(func18.call(schema10.properties.variations.properties, key18))){
-const err228 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
+if(data89 <= 0 || isNaN(data89)){
+const err228 = {instancePath:instancePath+"/check/rampAcceleration_mps2",schemaPath:"#/properties/check/properties/rampAcceleration_mps2/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err228];
 }
@@ -8490,10 +8487,8 @@ vErrors.push(err228);
 errors++;
 }
 }
-if(data89.acceptance !== undefined){
-let data90 = data89.acceptance;
-if(!((data90 === "robust") || (data90 === "nominal"))){
-const err229 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+else {
+const err229 = {instancePath:instancePath+"/check/rampAcceleration_mps2",schemaPath:"#/properties/check/properties/rampAcceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err229];
 }
@@ -8503,15 +8498,11 @@ vErrors.push(err229);
 errors++;
 }
 }
-if(data89.mass_pct !== undefined){
-let data91 = data89.mass_pct;
-const _errs242 = errors;
-let valid62 = false;
-let passing9 = null;
-const _errs243 = errors;
-if((typeof data91 == "number") && (isFinite(data91))){
-if(data91 > 90 || isNaN(data91)){
-const err230 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(data84.brakingDeceleration_mps2 !== undefined){
+let data90 = data84.brakingDeceleration_mps2;
+if((typeof data90 == "number") && (isFinite(data90))){
+if(data90 > 10 || isNaN(data90)){
+const err230 = {instancePath:instancePath+"/check/brakingDeceleration_mps2",schemaPath:"#/properties/check/properties/brakingDeceleration_mps2/maximum",keyword:"maximum",params:{comparison: "<=", limit: 10},message:"must be <= 10"};
 if(vErrors === null){
 vErrors = [err230];
 }
@@ -8520,8 +8511,8 @@ vErrors.push(err230);
 }
 errors++;
 }
-if(data91 < 0 || isNaN(data91)){
-const err231 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data90 <= 0 || isNaN(data90)){
+const err231 = {instancePath:instancePath+"/check/brakingDeceleration_mps2",schemaPath:"#/properties/check/properties/brakingDeceleration_mps2/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err231];
 }
@@ -8532,7 +8523,7 @@ errors++;
 }
 }
 else {
-const err232 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err232 = {instancePath:instancePath+"/check/brakingDeceleration_mps2",schemaPath:"#/properties/check/properties/brakingDeceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err232];
 }
@@ -8541,15 +8532,10 @@ vErrors.push(err232);
 }
 errors++;
 }
-var _valid9 = _errs243 === errors;
-if(_valid9){
-valid62 = true;
-passing9 = 0;
 }
-const _errs245 = errors;
-if(Array.isArray(data91)){
-if(data91.length > 2){
-const err233 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+}
+else {
+const err233 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err233];
 }
@@ -8558,8 +8544,13 @@ vErrors.push(err233);
 }
 errors++;
 }
-if(data91.length < 2){
-const err234 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+if(data.variations !== undefined){
+let data91 = data.variations;
+if(data91 && typeof data91 == "object" && !Array.isArray(data91)){
+for(const key18 in data91){
+if(!(func18.call(schema10.properties.variations.properties, key18))){
+const err234 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key18},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err234];
 }
@@ -8568,12 +8559,11 @@ vErrors.push(err234);
 }
 errors++;
 }
-const len17 = data91.length;
-if(len17 > 0){
-let data92 = data91[0];
-if((typeof data92 == "number") && (isFinite(data92))){
-if(data92 > 0 || isNaN(data92)){
-const err235 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+}
+if(data91.acceptance !== undefined){
+let data92 = data91.acceptance;
+if(!((data92 === "robust") || (data92 === "nominal"))){
+const err235 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err235];
 }
@@ -8582,8 +8572,16 @@ vErrors.push(err235);
 }
 errors++;
 }
-if(data92 < -90 || isNaN(data92)){
-const err236 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+if(data91.mass_pct !== undefined){
+let data93 = data91.mass_pct;
+const _errs246 = errors;
+let valid62 = false;
+let passing9 = null;
+const _errs247 = errors;
+if((typeof data93 == "number") && (isFinite(data93))){
+if(data93 > 90 || isNaN(data93)){
+const err236 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err236];
 }
@@ -8592,9 +8590,8 @@ vErrors.push(err236);
 }
 errors++;
 }
-}
-else {
-const err237 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data93 < 0 || isNaN(data93)){
+const err237 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err237];
 }
@@ -8604,11 +8601,8 @@ vErrors.push(err237);
 errors++;
 }
 }
-if(len17 > 1){
-let data93 = data91[1];
-if((typeof data93 == "number") && (isFinite(data93))){
-if(data93 > 900 || isNaN(data93)){
-const err238 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err238 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err238];
 }
@@ -8617,8 +8611,15 @@ vErrors.push(err238);
 }
 errors++;
 }
-if(data93 < 0 || isNaN(data93)){
-const err239 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid9 = _errs247 === errors;
+if(_valid9){
+valid62 = true;
+passing9 = 0;
+}
+const _errs249 = errors;
+if(Array.isArray(data93)){
+if(data93.length > 2){
+const err239 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err239];
 }
@@ -8627,9 +8628,8 @@ vErrors.push(err239);
 }
 errors++;
 }
-}
-else {
-const err240 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data93.length < 2){
+const err240 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err240];
 }
@@ -8638,10 +8638,12 @@ vErrors.push(err240);
 }
 errors++;
 }
-}
-}
-else {
-const err241 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len17 = data93.length;
+if(len17 > 0){
+let data94 = data93[0];
+if((typeof data94 == "number") && (isFinite(data94))){
+if(data94 > 0 || isNaN(data94)){
+const err241 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err241];
 }
@@ -8650,7 +8652,75 @@ vErrors.push(err241);
 }
 errors++;
 }
-var _valid9 = _errs245 === errors;
+if(data94 < -90 || isNaN(data94)){
+const err242 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err242];
+}
+else {
+vErrors.push(err242);
+}
+errors++;
+}
+}
+else {
+const err243 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err243];
+}
+else {
+vErrors.push(err243);
+}
+errors++;
+}
+}
+if(len17 > 1){
+let data95 = data93[1];
+if((typeof data95 == "number") && (isFinite(data95))){
+if(data95 > 900 || isNaN(data95)){
+const err244 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err244];
+}
+else {
+vErrors.push(err244);
+}
+errors++;
+}
+if(data95 < 0 || isNaN(data95)){
+const err245 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err245];
+}
+else {
+vErrors.push(err245);
+}
+errors++;
+}
+}
+else {
+const err246 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err246];
+}
+else {
+vErrors.push(err246);
+}
+errors++;
+}
+}
+}
+else {
+const err247 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err247];
+}
+else {
+vErrors.push(err247);
+}
+errors++;
+}
+var _valid9 = _errs249 === errors;
 if(_valid9 && valid62){
 valid62 = false;
 passing9 = [passing9, 1];
@@ -8662,98 +8732,7 @@ passing9 = 1;
 }
 }
 if(!valid62){
-const err242 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err242];
-}
-else {
-vErrors.push(err242);
-}
-errors++;
-}
-else {
-errors = _errs242;
-if(vErrors !== null){
-if(_errs242){
-vErrors.length = _errs242;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data89.yawInertia_pct !== undefined){
-let data94 = data89.yawInertia_pct;
-const _errs252 = errors;
-let valid64 = false;
-let passing10 = null;
-const _errs253 = errors;
-if((typeof data94 == "number") && (isFinite(data94))){
-if(data94 > 90 || isNaN(data94)){
-const err243 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err243];
-}
-else {
-vErrors.push(err243);
-}
-errors++;
-}
-if(data94 < 0 || isNaN(data94)){
-const err244 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err244];
-}
-else {
-vErrors.push(err244);
-}
-errors++;
-}
-}
-else {
-const err245 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err245];
-}
-else {
-vErrors.push(err245);
-}
-errors++;
-}
-var _valid10 = _errs253 === errors;
-if(_valid10){
-valid64 = true;
-passing10 = 0;
-}
-const _errs255 = errors;
-if(Array.isArray(data94)){
-if(data94.length > 2){
-const err246 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err246];
-}
-else {
-vErrors.push(err246);
-}
-errors++;
-}
-if(data94.length < 2){
-const err247 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err247];
-}
-else {
-vErrors.push(err247);
-}
-errors++;
-}
-const len18 = data94.length;
-if(len18 > 0){
-let data95 = data94[0];
-if((typeof data95 == "number") && (isFinite(data95))){
-if(data95 > 0 || isNaN(data95)){
-const err248 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err248 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing9},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err248];
 }
@@ -8762,8 +8741,27 @@ vErrors.push(err248);
 }
 errors++;
 }
-if(data95 < -90 || isNaN(data95)){
-const err249 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs246;
+if(vErrors !== null){
+if(_errs246){
+vErrors.length = _errs246;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data91.yawInertia_pct !== undefined){
+let data96 = data91.yawInertia_pct;
+const _errs256 = errors;
+let valid64 = false;
+let passing10 = null;
+const _errs257 = errors;
+if((typeof data96 == "number") && (isFinite(data96))){
+if(data96 > 90 || isNaN(data96)){
+const err249 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err249];
 }
@@ -8772,9 +8770,8 @@ vErrors.push(err249);
 }
 errors++;
 }
-}
-else {
-const err250 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data96 < 0 || isNaN(data96)){
+const err250 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err250];
 }
@@ -8784,11 +8781,8 @@ vErrors.push(err250);
 errors++;
 }
 }
-if(len18 > 1){
-let data96 = data94[1];
-if((typeof data96 == "number") && (isFinite(data96))){
-if(data96 > 900 || isNaN(data96)){
-const err251 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err251 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err251];
 }
@@ -8797,8 +8791,15 @@ vErrors.push(err251);
 }
 errors++;
 }
-if(data96 < 0 || isNaN(data96)){
-const err252 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid10 = _errs257 === errors;
+if(_valid10){
+valid64 = true;
+passing10 = 0;
+}
+const _errs259 = errors;
+if(Array.isArray(data96)){
+if(data96.length > 2){
+const err252 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err252];
 }
@@ -8807,9 +8808,8 @@ vErrors.push(err252);
 }
 errors++;
 }
-}
-else {
-const err253 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data96.length < 2){
+const err253 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err253];
 }
@@ -8818,10 +8818,12 @@ vErrors.push(err253);
 }
 errors++;
 }
-}
-}
-else {
-const err254 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len18 = data96.length;
+if(len18 > 0){
+let data97 = data96[0];
+if((typeof data97 == "number") && (isFinite(data97))){
+if(data97 > 0 || isNaN(data97)){
+const err254 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err254];
 }
@@ -8830,7 +8832,75 @@ vErrors.push(err254);
 }
 errors++;
 }
-var _valid10 = _errs255 === errors;
+if(data97 < -90 || isNaN(data97)){
+const err255 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err255];
+}
+else {
+vErrors.push(err255);
+}
+errors++;
+}
+}
+else {
+const err256 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err256];
+}
+else {
+vErrors.push(err256);
+}
+errors++;
+}
+}
+if(len18 > 1){
+let data98 = data96[1];
+if((typeof data98 == "number") && (isFinite(data98))){
+if(data98 > 900 || isNaN(data98)){
+const err257 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err257];
+}
+else {
+vErrors.push(err257);
+}
+errors++;
+}
+if(data98 < 0 || isNaN(data98)){
+const err258 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err258];
+}
+else {
+vErrors.push(err258);
+}
+errors++;
+}
+}
+else {
+const err259 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err259];
+}
+else {
+vErrors.push(err259);
+}
+errors++;
+}
+}
+}
+else {
+const err260 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err260];
+}
+else {
+vErrors.push(err260);
+}
+errors++;
+}
+var _valid10 = _errs259 === errors;
 if(_valid10 && valid64){
 valid64 = false;
 passing10 = [passing10, 1];
@@ -8842,98 +8912,7 @@ passing10 = 1;
 }
 }
 if(!valid64){
-const err255 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err255];
-}
-else {
-vErrors.push(err255);
-}
-errors++;
-}
-else {
-errors = _errs252;
-if(vErrors !== null){
-if(_errs252){
-vErrors.length = _errs252;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data89.cgRearwardShift_m !== undefined){
-let data97 = data89.cgRearwardShift_m;
-const _errs262 = errors;
-let valid66 = false;
-let passing11 = null;
-const _errs263 = errors;
-if((typeof data97 == "number") && (isFinite(data97))){
-if(data97 > 5 || isNaN(data97)){
-const err256 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
-if(vErrors === null){
-vErrors = [err256];
-}
-else {
-vErrors.push(err256);
-}
-errors++;
-}
-if(data97 < 0 || isNaN(data97)){
-const err257 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err257];
-}
-else {
-vErrors.push(err257);
-}
-errors++;
-}
-}
-else {
-const err258 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err258];
-}
-else {
-vErrors.push(err258);
-}
-errors++;
-}
-var _valid11 = _errs263 === errors;
-if(_valid11){
-valid66 = true;
-passing11 = 0;
-}
-const _errs265 = errors;
-if(Array.isArray(data97)){
-if(data97.length > 2){
-const err259 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err259];
-}
-else {
-vErrors.push(err259);
-}
-errors++;
-}
-if(data97.length < 2){
-const err260 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err260];
-}
-else {
-vErrors.push(err260);
-}
-errors++;
-}
-const len19 = data97.length;
-if(len19 > 0){
-let data98 = data97[0];
-if((typeof data98 == "number") && (isFinite(data98))){
-if(data98 > 0 || isNaN(data98)){
-const err261 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err261 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing10},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err261];
 }
@@ -8942,8 +8921,27 @@ vErrors.push(err261);
 }
 errors++;
 }
-if(data98 < -5 || isNaN(data98)){
-const err262 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+else {
+errors = _errs256;
+if(vErrors !== null){
+if(_errs256){
+vErrors.length = _errs256;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data91.cgRearwardShift_m !== undefined){
+let data99 = data91.cgRearwardShift_m;
+const _errs266 = errors;
+let valid66 = false;
+let passing11 = null;
+const _errs267 = errors;
+if((typeof data99 == "number") && (isFinite(data99))){
+if(data99 > 5 || isNaN(data99)){
+const err262 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
 if(vErrors === null){
 vErrors = [err262];
 }
@@ -8952,9 +8950,8 @@ vErrors.push(err262);
 }
 errors++;
 }
-}
-else {
-const err263 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data99 < 0 || isNaN(data99)){
+const err263 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err263];
 }
@@ -8964,11 +8961,8 @@ vErrors.push(err263);
 errors++;
 }
 }
-if(len19 > 1){
-let data99 = data97[1];
-if((typeof data99 == "number") && (isFinite(data99))){
-if(data99 > 5 || isNaN(data99)){
-const err264 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+else {
+const err264 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err264];
 }
@@ -8977,8 +8971,15 @@ vErrors.push(err264);
 }
 errors++;
 }
-if(data99 < 0 || isNaN(data99)){
-const err265 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid11 = _errs267 === errors;
+if(_valid11){
+valid66 = true;
+passing11 = 0;
+}
+const _errs269 = errors;
+if(Array.isArray(data99)){
+if(data99.length > 2){
+const err265 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err265];
 }
@@ -8987,9 +8988,8 @@ vErrors.push(err265);
 }
 errors++;
 }
-}
-else {
-const err266 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data99.length < 2){
+const err266 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err266];
 }
@@ -8998,10 +8998,12 @@ vErrors.push(err266);
 }
 errors++;
 }
-}
-}
-else {
-const err267 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len19 = data99.length;
+if(len19 > 0){
+let data100 = data99[0];
+if((typeof data100 == "number") && (isFinite(data100))){
+if(data100 > 0 || isNaN(data100)){
+const err267 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err267];
 }
@@ -9010,7 +9012,75 @@ vErrors.push(err267);
 }
 errors++;
 }
-var _valid11 = _errs265 === errors;
+if(data100 < -5 || isNaN(data100)){
+const err268 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+if(vErrors === null){
+vErrors = [err268];
+}
+else {
+vErrors.push(err268);
+}
+errors++;
+}
+}
+else {
+const err269 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err269];
+}
+else {
+vErrors.push(err269);
+}
+errors++;
+}
+}
+if(len19 > 1){
+let data101 = data99[1];
+if((typeof data101 == "number") && (isFinite(data101))){
+if(data101 > 5 || isNaN(data101)){
+const err270 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(vErrors === null){
+vErrors = [err270];
+}
+else {
+vErrors.push(err270);
+}
+errors++;
+}
+if(data101 < 0 || isNaN(data101)){
+const err271 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err271];
+}
+else {
+vErrors.push(err271);
+}
+errors++;
+}
+}
+else {
+const err272 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err272];
+}
+else {
+vErrors.push(err272);
+}
+errors++;
+}
+}
+}
+else {
+const err273 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err273];
+}
+else {
+vErrors.push(err273);
+}
+errors++;
+}
+var _valid11 = _errs269 === errors;
 if(_valid11 && valid66){
 valid66 = false;
 passing11 = [passing11, 1];
@@ -9022,98 +9092,7 @@ passing11 = 1;
 }
 }
 if(!valid66){
-const err268 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err268];
-}
-else {
-vErrors.push(err268);
-}
-errors++;
-}
-else {
-errors = _errs262;
-if(vErrors !== null){
-if(_errs262){
-vErrors.length = _errs262;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data89.frontCorneringStiffness_pct !== undefined){
-let data100 = data89.frontCorneringStiffness_pct;
-const _errs272 = errors;
-let valid68 = false;
-let passing12 = null;
-const _errs273 = errors;
-if((typeof data100 == "number") && (isFinite(data100))){
-if(data100 > 90 || isNaN(data100)){
-const err269 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err269];
-}
-else {
-vErrors.push(err269);
-}
-errors++;
-}
-if(data100 < 0 || isNaN(data100)){
-const err270 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err270];
-}
-else {
-vErrors.push(err270);
-}
-errors++;
-}
-}
-else {
-const err271 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err271];
-}
-else {
-vErrors.push(err271);
-}
-errors++;
-}
-var _valid12 = _errs273 === errors;
-if(_valid12){
-valid68 = true;
-passing12 = 0;
-}
-const _errs275 = errors;
-if(Array.isArray(data100)){
-if(data100.length > 2){
-const err272 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err272];
-}
-else {
-vErrors.push(err272);
-}
-errors++;
-}
-if(data100.length < 2){
-const err273 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err273];
-}
-else {
-vErrors.push(err273);
-}
-errors++;
-}
-const len20 = data100.length;
-if(len20 > 0){
-let data101 = data100[0];
-if((typeof data101 == "number") && (isFinite(data101))){
-if(data101 > 0 || isNaN(data101)){
-const err274 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err274 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing11},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err274];
 }
@@ -9122,8 +9101,27 @@ vErrors.push(err274);
 }
 errors++;
 }
-if(data101 < -90 || isNaN(data101)){
-const err275 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs266;
+if(vErrors !== null){
+if(_errs266){
+vErrors.length = _errs266;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data91.frontCorneringStiffness_pct !== undefined){
+let data102 = data91.frontCorneringStiffness_pct;
+const _errs276 = errors;
+let valid68 = false;
+let passing12 = null;
+const _errs277 = errors;
+if((typeof data102 == "number") && (isFinite(data102))){
+if(data102 > 90 || isNaN(data102)){
+const err275 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err275];
 }
@@ -9132,9 +9130,8 @@ vErrors.push(err275);
 }
 errors++;
 }
-}
-else {
-const err276 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data102 < 0 || isNaN(data102)){
+const err276 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err276];
 }
@@ -9144,11 +9141,8 @@ vErrors.push(err276);
 errors++;
 }
 }
-if(len20 > 1){
-let data102 = data100[1];
-if((typeof data102 == "number") && (isFinite(data102))){
-if(data102 > 900 || isNaN(data102)){
-const err277 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err277 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err277];
 }
@@ -9157,8 +9151,15 @@ vErrors.push(err277);
 }
 errors++;
 }
-if(data102 < 0 || isNaN(data102)){
-const err278 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid12 = _errs277 === errors;
+if(_valid12){
+valid68 = true;
+passing12 = 0;
+}
+const _errs279 = errors;
+if(Array.isArray(data102)){
+if(data102.length > 2){
+const err278 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err278];
 }
@@ -9167,9 +9168,8 @@ vErrors.push(err278);
 }
 errors++;
 }
-}
-else {
-const err279 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data102.length < 2){
+const err279 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err279];
 }
@@ -9178,10 +9178,12 @@ vErrors.push(err279);
 }
 errors++;
 }
-}
-}
-else {
-const err280 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len20 = data102.length;
+if(len20 > 0){
+let data103 = data102[0];
+if((typeof data103 == "number") && (isFinite(data103))){
+if(data103 > 0 || isNaN(data103)){
+const err280 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err280];
 }
@@ -9190,7 +9192,75 @@ vErrors.push(err280);
 }
 errors++;
 }
-var _valid12 = _errs275 === errors;
+if(data103 < -90 || isNaN(data103)){
+const err281 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err281];
+}
+else {
+vErrors.push(err281);
+}
+errors++;
+}
+}
+else {
+const err282 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err282];
+}
+else {
+vErrors.push(err282);
+}
+errors++;
+}
+}
+if(len20 > 1){
+let data104 = data102[1];
+if((typeof data104 == "number") && (isFinite(data104))){
+if(data104 > 900 || isNaN(data104)){
+const err283 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err283];
+}
+else {
+vErrors.push(err283);
+}
+errors++;
+}
+if(data104 < 0 || isNaN(data104)){
+const err284 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err284];
+}
+else {
+vErrors.push(err284);
+}
+errors++;
+}
+}
+else {
+const err285 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err285];
+}
+else {
+vErrors.push(err285);
+}
+errors++;
+}
+}
+}
+else {
+const err286 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err286];
+}
+else {
+vErrors.push(err286);
+}
+errors++;
+}
+var _valid12 = _errs279 === errors;
 if(_valid12 && valid68){
 valid68 = false;
 passing12 = [passing12, 1];
@@ -9202,98 +9272,7 @@ passing12 = 1;
 }
 }
 if(!valid68){
-const err281 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err281];
-}
-else {
-vErrors.push(err281);
-}
-errors++;
-}
-else {
-errors = _errs272;
-if(vErrors !== null){
-if(_errs272){
-vErrors.length = _errs272;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data89.rearCorneringStiffness_pct !== undefined){
-let data103 = data89.rearCorneringStiffness_pct;
-const _errs282 = errors;
-let valid70 = false;
-let passing13 = null;
-const _errs283 = errors;
-if((typeof data103 == "number") && (isFinite(data103))){
-if(data103 > 90 || isNaN(data103)){
-const err282 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err282];
-}
-else {
-vErrors.push(err282);
-}
-errors++;
-}
-if(data103 < 0 || isNaN(data103)){
-const err283 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err283];
-}
-else {
-vErrors.push(err283);
-}
-errors++;
-}
-}
-else {
-const err284 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err284];
-}
-else {
-vErrors.push(err284);
-}
-errors++;
-}
-var _valid13 = _errs283 === errors;
-if(_valid13){
-valid70 = true;
-passing13 = 0;
-}
-const _errs285 = errors;
-if(Array.isArray(data103)){
-if(data103.length > 2){
-const err285 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err285];
-}
-else {
-vErrors.push(err285);
-}
-errors++;
-}
-if(data103.length < 2){
-const err286 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err286];
-}
-else {
-vErrors.push(err286);
-}
-errors++;
-}
-const len21 = data103.length;
-if(len21 > 0){
-let data104 = data103[0];
-if((typeof data104 == "number") && (isFinite(data104))){
-if(data104 > 0 || isNaN(data104)){
-const err287 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err287 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing12},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err287];
 }
@@ -9302,8 +9281,27 @@ vErrors.push(err287);
 }
 errors++;
 }
-if(data104 < -90 || isNaN(data104)){
-const err288 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs276;
+if(vErrors !== null){
+if(_errs276){
+vErrors.length = _errs276;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data91.rearCorneringStiffness_pct !== undefined){
+let data105 = data91.rearCorneringStiffness_pct;
+const _errs286 = errors;
+let valid70 = false;
+let passing13 = null;
+const _errs287 = errors;
+if((typeof data105 == "number") && (isFinite(data105))){
+if(data105 > 90 || isNaN(data105)){
+const err288 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err288];
 }
@@ -9312,9 +9310,8 @@ vErrors.push(err288);
 }
 errors++;
 }
-}
-else {
-const err289 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data105 < 0 || isNaN(data105)){
+const err289 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err289];
 }
@@ -9324,11 +9321,8 @@ vErrors.push(err289);
 errors++;
 }
 }
-if(len21 > 1){
-let data105 = data103[1];
-if((typeof data105 == "number") && (isFinite(data105))){
-if(data105 > 900 || isNaN(data105)){
-const err290 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err290 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err290];
 }
@@ -9337,8 +9331,15 @@ vErrors.push(err290);
 }
 errors++;
 }
-if(data105 < 0 || isNaN(data105)){
-const err291 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid13 = _errs287 === errors;
+if(_valid13){
+valid70 = true;
+passing13 = 0;
+}
+const _errs289 = errors;
+if(Array.isArray(data105)){
+if(data105.length > 2){
+const err291 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err291];
 }
@@ -9347,9 +9348,8 @@ vErrors.push(err291);
 }
 errors++;
 }
-}
-else {
-const err292 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data105.length < 2){
+const err292 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err292];
 }
@@ -9358,10 +9358,12 @@ vErrors.push(err292);
 }
 errors++;
 }
-}
-}
-else {
-const err293 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len21 = data105.length;
+if(len21 > 0){
+let data106 = data105[0];
+if((typeof data106 == "number") && (isFinite(data106))){
+if(data106 > 0 || isNaN(data106)){
+const err293 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err293];
 }
@@ -9370,7 +9372,75 @@ vErrors.push(err293);
 }
 errors++;
 }
-var _valid13 = _errs285 === errors;
+if(data106 < -90 || isNaN(data106)){
+const err294 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err294];
+}
+else {
+vErrors.push(err294);
+}
+errors++;
+}
+}
+else {
+const err295 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err295];
+}
+else {
+vErrors.push(err295);
+}
+errors++;
+}
+}
+if(len21 > 1){
+let data107 = data105[1];
+if((typeof data107 == "number") && (isFinite(data107))){
+if(data107 > 900 || isNaN(data107)){
+const err296 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err296];
+}
+else {
+vErrors.push(err296);
+}
+errors++;
+}
+if(data107 < 0 || isNaN(data107)){
+const err297 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err297];
+}
+else {
+vErrors.push(err297);
+}
+errors++;
+}
+}
+else {
+const err298 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err298];
+}
+else {
+vErrors.push(err298);
+}
+errors++;
+}
+}
+}
+else {
+const err299 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err299];
+}
+else {
+vErrors.push(err299);
+}
+errors++;
+}
+var _valid13 = _errs289 === errors;
 if(_valid13 && valid70){
 valid70 = false;
 passing13 = [passing13, 1];
@@ -9382,98 +9452,7 @@ passing13 = 1;
 }
 }
 if(!valid70){
-const err294 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing13},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err294];
-}
-else {
-vErrors.push(err294);
-}
-errors++;
-}
-else {
-errors = _errs282;
-if(vErrors !== null){
-if(_errs282){
-vErrors.length = _errs282;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data89.actuatorLag_pct !== undefined){
-let data106 = data89.actuatorLag_pct;
-const _errs292 = errors;
-let valid72 = false;
-let passing14 = null;
-const _errs293 = errors;
-if((typeof data106 == "number") && (isFinite(data106))){
-if(data106 > 90 || isNaN(data106)){
-const err295 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err295];
-}
-else {
-vErrors.push(err295);
-}
-errors++;
-}
-if(data106 < 0 || isNaN(data106)){
-const err296 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err296];
-}
-else {
-vErrors.push(err296);
-}
-errors++;
-}
-}
-else {
-const err297 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err297];
-}
-else {
-vErrors.push(err297);
-}
-errors++;
-}
-var _valid14 = _errs293 === errors;
-if(_valid14){
-valid72 = true;
-passing14 = 0;
-}
-const _errs295 = errors;
-if(Array.isArray(data106)){
-if(data106.length > 2){
-const err298 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err298];
-}
-else {
-vErrors.push(err298);
-}
-errors++;
-}
-if(data106.length < 2){
-const err299 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err299];
-}
-else {
-vErrors.push(err299);
-}
-errors++;
-}
-const len22 = data106.length;
-if(len22 > 0){
-let data107 = data106[0];
-if((typeof data107 == "number") && (isFinite(data107))){
-if(data107 > 0 || isNaN(data107)){
-const err300 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err300 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing13},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err300];
 }
@@ -9482,8 +9461,27 @@ vErrors.push(err300);
 }
 errors++;
 }
-if(data107 < -90 || isNaN(data107)){
-const err301 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs286;
+if(vErrors !== null){
+if(_errs286){
+vErrors.length = _errs286;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data91.actuatorLag_pct !== undefined){
+let data108 = data91.actuatorLag_pct;
+const _errs296 = errors;
+let valid72 = false;
+let passing14 = null;
+const _errs297 = errors;
+if((typeof data108 == "number") && (isFinite(data108))){
+if(data108 > 90 || isNaN(data108)){
+const err301 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err301];
 }
@@ -9492,9 +9490,8 @@ vErrors.push(err301);
 }
 errors++;
 }
-}
-else {
-const err302 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data108 < 0 || isNaN(data108)){
+const err302 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err302];
 }
@@ -9504,11 +9501,8 @@ vErrors.push(err302);
 errors++;
 }
 }
-if(len22 > 1){
-let data108 = data106[1];
-if((typeof data108 == "number") && (isFinite(data108))){
-if(data108 > 900 || isNaN(data108)){
-const err303 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err303 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err303];
 }
@@ -9517,8 +9511,15 @@ vErrors.push(err303);
 }
 errors++;
 }
-if(data108 < 0 || isNaN(data108)){
-const err304 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid14 = _errs297 === errors;
+if(_valid14){
+valid72 = true;
+passing14 = 0;
+}
+const _errs299 = errors;
+if(Array.isArray(data108)){
+if(data108.length > 2){
+const err304 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err304];
 }
@@ -9527,9 +9528,8 @@ vErrors.push(err304);
 }
 errors++;
 }
-}
-else {
-const err305 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data108.length < 2){
+const err305 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err305];
 }
@@ -9538,10 +9538,12 @@ vErrors.push(err305);
 }
 errors++;
 }
-}
-}
-else {
-const err306 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len22 = data108.length;
+if(len22 > 0){
+let data109 = data108[0];
+if((typeof data109 == "number") && (isFinite(data109))){
+if(data109 > 0 || isNaN(data109)){
+const err306 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err306];
 }
@@ -9550,7 +9552,75 @@ vErrors.push(err306);
 }
 errors++;
 }
-var _valid14 = _errs295 === errors;
+if(data109 < -90 || isNaN(data109)){
+const err307 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err307];
+}
+else {
+vErrors.push(err307);
+}
+errors++;
+}
+}
+else {
+const err308 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err308];
+}
+else {
+vErrors.push(err308);
+}
+errors++;
+}
+}
+if(len22 > 1){
+let data110 = data108[1];
+if((typeof data110 == "number") && (isFinite(data110))){
+if(data110 > 900 || isNaN(data110)){
+const err309 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err309];
+}
+else {
+vErrors.push(err309);
+}
+errors++;
+}
+if(data110 < 0 || isNaN(data110)){
+const err310 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err310];
+}
+else {
+vErrors.push(err310);
+}
+errors++;
+}
+}
+else {
+const err311 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err311];
+}
+else {
+vErrors.push(err311);
+}
+errors++;
+}
+}
+}
+else {
+const err312 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err312];
+}
+else {
+vErrors.push(err312);
+}
+errors++;
+}
+var _valid14 = _errs299 === errors;
 if(_valid14 && valid72){
 valid72 = false;
 passing14 = [passing14, 1];
@@ -9562,93 +9632,7 @@ passing14 = 1;
 }
 }
 if(!valid72){
-const err307 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing14},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err307];
-}
-else {
-vErrors.push(err307);
-}
-errors++;
-}
-else {
-errors = _errs292;
-if(vErrors !== null){
-if(_errs292){
-vErrors.length = _errs292;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data89.addedLatency_s !== undefined){
-let data109 = data89.addedLatency_s;
-if((typeof data109 == "number") && (isFinite(data109))){
-if(data109 > 1 || isNaN(data109)){
-const err308 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
-if(vErrors === null){
-vErrors = [err308];
-}
-else {
-vErrors.push(err308);
-}
-errors++;
-}
-if(data109 < 0 || isNaN(data109)){
-const err309 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err309];
-}
-else {
-vErrors.push(err309);
-}
-errors++;
-}
-}
-else {
-const err310 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err310];
-}
-else {
-vErrors.push(err310);
-}
-errors++;
-}
-}
-if(data89.fromIdentification !== undefined){
-if(typeof data89.fromIdentification !== "boolean"){
-const err311 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
-if(vErrors === null){
-vErrors = [err311];
-}
-else {
-vErrors.push(err311);
-}
-errors++;
-}
-}
-if(data89.search !== undefined){
-let data111 = data89.search;
-if(data111 && typeof data111 == "object" && !Array.isArray(data111)){
-for(const key19 in data111){
-if(!(((key19 === "samples") || (key19 === "seed")) || (key19 === "localSearchEvaluations"))){
-const err312 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err312];
-}
-else {
-vErrors.push(err312);
-}
-errors++;
-}
-}
-if(data111.samples !== undefined){
-let data112 = data111.samples;
-if(!(((typeof data112 == "number") && (!(data112 % 1) && !isNaN(data112))) && (isFinite(data112)))){
-const err313 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+const err313 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing14},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err313];
 }
@@ -9657,9 +9641,23 @@ vErrors.push(err313);
 }
 errors++;
 }
-if((typeof data112 == "number") && (isFinite(data112))){
-if(data112 > 4096 || isNaN(data112)){
-const err314 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
+else {
+errors = _errs296;
+if(vErrors !== null){
+if(_errs296){
+vErrors.length = _errs296;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data91.addedLatency_s !== undefined){
+let data111 = data91.addedLatency_s;
+if((typeof data111 == "number") && (isFinite(data111))){
+if(data111 > 1 || isNaN(data111)){
+const err314 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
 if(vErrors === null){
 vErrors = [err314];
 }
@@ -9668,8 +9666,8 @@ vErrors.push(err314);
 }
 errors++;
 }
-if(data112 < 0 || isNaN(data112)){
-const err315 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data111 < 0 || isNaN(data111)){
+const err315 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err315];
 }
@@ -9679,11 +9677,8 @@ vErrors.push(err315);
 errors++;
 }
 }
-}
-if(data111.seed !== undefined){
-let data113 = data111.seed;
-if(!(((typeof data113 == "number") && (!(data113 % 1) && !isNaN(data113))) && (isFinite(data113)))){
-const err316 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err316 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err316];
 }
@@ -9692,9 +9687,10 @@ vErrors.push(err316);
 }
 errors++;
 }
-if((typeof data113 == "number") && (isFinite(data113))){
-if(data113 > 4294967295 || isNaN(data113)){
-const err317 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
+}
+if(data91.fromIdentification !== undefined){
+if(typeof data91.fromIdentification !== "boolean"){
+const err317 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err317];
 }
@@ -9703,8 +9699,13 @@ vErrors.push(err317);
 }
 errors++;
 }
-if(data113 < 0 || isNaN(data113)){
-const err318 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data91.search !== undefined){
+let data113 = data91.search;
+if(data113 && typeof data113 == "object" && !Array.isArray(data113)){
+for(const key19 in data113){
+if(!(((key19 === "samples") || (key19 === "seed")) || (key19 === "localSearchEvaluations"))){
+const err318 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key19},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err318];
 }
@@ -9714,11 +9715,10 @@ vErrors.push(err318);
 errors++;
 }
 }
-}
-if(data111.localSearchEvaluations !== undefined){
-let data114 = data111.localSearchEvaluations;
+if(data113.samples !== undefined){
+let data114 = data113.samples;
 if(!(((typeof data114 == "number") && (!(data114 % 1) && !isNaN(data114))) && (isFinite(data114)))){
-const err319 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+const err319 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err319];
 }
@@ -9728,8 +9728,8 @@ vErrors.push(err319);
 errors++;
 }
 if((typeof data114 == "number") && (isFinite(data114))){
-if(data114 > 1000 || isNaN(data114)){
-const err320 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(data114 > 4096 || isNaN(data114)){
+const err320 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
 if(vErrors === null){
 vErrors = [err320];
 }
@@ -9739,7 +9739,7 @@ vErrors.push(err320);
 errors++;
 }
 if(data114 < 0 || isNaN(data114)){
-const err321 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const err321 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err321];
 }
@@ -9750,9 +9750,10 @@ errors++;
 }
 }
 }
-}
-else {
-const err322 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data113.seed !== undefined){
+let data115 = data113.seed;
+if(!(((typeof data115 == "number") && (!(data115 % 1) && !isNaN(data115))) && (isFinite(data115)))){
+const err322 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err322];
 }
@@ -9761,10 +9762,9 @@ vErrors.push(err322);
 }
 errors++;
 }
-}
-}
-else {
-const err323 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data115 == "number") && (isFinite(data115))){
+if(data115 > 4294967295 || isNaN(data115)){
+const err323 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
 if(vErrors === null){
 vErrors = [err323];
 }
@@ -9773,15 +9773,85 @@ vErrors.push(err323);
 }
 errors++;
 }
-}
-}
-else {
-const err324 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data115 < 0 || isNaN(data115)){
+const err324 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err324];
 }
 else {
 vErrors.push(err324);
+}
+errors++;
+}
+}
+}
+if(data113.localSearchEvaluations !== undefined){
+let data116 = data113.localSearchEvaluations;
+if(!(((typeof data116 == "number") && (!(data116 % 1) && !isNaN(data116))) && (isFinite(data116)))){
+const err325 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err325];
+}
+else {
+vErrors.push(err325);
+}
+errors++;
+}
+if((typeof data116 == "number") && (isFinite(data116))){
+if(data116 > 1000 || isNaN(data116)){
+const err326 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(vErrors === null){
+vErrors = [err326];
+}
+else {
+vErrors.push(err326);
+}
+errors++;
+}
+if(data116 < 0 || isNaN(data116)){
+const err327 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err327];
+}
+else {
+vErrors.push(err327);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err328 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err328];
+}
+else {
+vErrors.push(err328);
+}
+errors++;
+}
+}
+}
+else {
+const err329 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err329];
+}
+else {
+vErrors.push(err329);
+}
+errors++;
+}
+}
+}
+else {
+const err330 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err330];
+}
+else {
+vErrors.push(err330);
 }
 errors++;
 }
@@ -18438,7 +18508,7 @@ return errors === 0;
 }
 
 export const validateVehicleFile = validate36;
-const schema23 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
+const schema23 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"serviceAcceleration_mps2":{"type":"number","description":"Acceleration the vehicle uses in service, m/s² (not the most it can do): the speed ramp through the range the scenarios judge a schedule by."},"serviceDeceleration_mps2":{"type":"number","description":"Service braking deceleration the vehicle uses, m/s² (not an emergency stop): the braking through the range the scenarios judge a schedule by."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
 
 function validate36(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
@@ -18715,10 +18785,10 @@ vErrors.push(err22);
 errors++;
 }
 }
-if(data.frontCorneringStiffness_NPerRad !== undefined){
-let data13 = data.frontCorneringStiffness_NPerRad;
+if(data.serviceAcceleration_mps2 !== undefined){
+let data13 = data.serviceAcceleration_mps2;
 if(!((typeof data13 == "number") && (isFinite(data13)))){
-const err23 = {instancePath:instancePath+"/frontCorneringStiffness_NPerRad",schemaPath:"#/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err23 = {instancePath:instancePath+"/serviceAcceleration_mps2",schemaPath:"#/properties/serviceAcceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err23];
 }
@@ -18728,10 +18798,10 @@ vErrors.push(err23);
 errors++;
 }
 }
-if(data.rearCorneringStiffness_NPerRad !== undefined){
-let data14 = data.rearCorneringStiffness_NPerRad;
+if(data.serviceDeceleration_mps2 !== undefined){
+let data14 = data.serviceDeceleration_mps2;
 if(!((typeof data14 == "number") && (isFinite(data14)))){
-const err24 = {instancePath:instancePath+"/rearCorneringStiffness_NPerRad",schemaPath:"#/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err24 = {instancePath:instancePath+"/serviceDeceleration_mps2",schemaPath:"#/properties/serviceDeceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err24];
 }
@@ -18741,14 +18811,40 @@ vErrors.push(err24);
 errors++;
 }
 }
-}
-else {
-const err25 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.frontCorneringStiffness_NPerRad !== undefined){
+let data15 = data.frontCorneringStiffness_NPerRad;
+if(!((typeof data15 == "number") && (isFinite(data15)))){
+const err25 = {instancePath:instancePath+"/frontCorneringStiffness_NPerRad",schemaPath:"#/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err25];
 }
 else {
 vErrors.push(err25);
+}
+errors++;
+}
+}
+if(data.rearCorneringStiffness_NPerRad !== undefined){
+let data16 = data.rearCorneringStiffness_NPerRad;
+if(!((typeof data16 == "number") && (isFinite(data16)))){
+const err26 = {instancePath:instancePath+"/rearCorneringStiffness_NPerRad",schemaPath:"#/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err26];
+}
+else {
+vErrors.push(err26);
+}
+errors++;
+}
+}
+}
+else {
+const err27 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err27];
+}
+else {
+vErrors.push(err27);
 }
 errors++;
 }

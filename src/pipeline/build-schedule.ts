@@ -22,7 +22,7 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { Vehicle } from '../vehicle/types.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { planScenarioLimits, planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { planScenarioLimits, planSpeedChanges, planThresholds, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
 import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
 import type { RobustScheduleCheck } from './robust-schedule-check.js';
 import type { TimeDomainSettings } from './robust-time-domain.js';
@@ -177,7 +177,12 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   const written = input.plan;
   const ruleParametersAt = await makeRuleParameterLookup(written.rule?.parameters ?? {}, input.planFile);
   const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
-  const context = { testSpeeds_mps, ...(vehicle.controllerSampleTime_s === undefined ? {} : { vehicleSampleTime_s: vehicle.controllerSampleTime_s }) };
+  const context = {
+    testSpeeds_mps,
+    ...(vehicle.controllerSampleTime_s === undefined ? {} : { vehicleSampleTime_s: vehicle.controllerSampleTime_s }),
+    ...(vehicle.serviceAcceleration_mps2 === undefined ? {} : { vehicleServiceAcceleration_mps2: vehicle.serviceAcceleration_mps2 }),
+    ...(vehicle.serviceDeceleration_mps2 === undefined ? {} : { vehicleServiceDeceleration_mps2: vehicle.serviceDeceleration_mps2 }),
+  };
   const resolved = resolvePlan(written, { ...context, ...(input.planFile === undefined ? {} : { file: input.planFile }) });
   const checkModel = checkModelFromModels(models, vehicle, resolved.check.model);
   // A refused joint fit falls back to lumped models: the plan recorded in the schedule says which was used.
@@ -365,7 +370,11 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
       progress('scenarios: at each breakpoint, at low, middle and top speed, and through the range; the speed-change certificate\n');
       const { parameters, description } = scenarioParameters(checkModel, vehicle);
       const steeringLimits = { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps };
-      const { scenarioCheck, speedChange } = await scenarioStage({ schedule, parameters, steeringLimits, limits: scenarioLimits, model: description }, helper);
+      const sizes = planSpeedChanges(plan);
+      const { scenarioCheck, speedChange } = await scenarioStage(
+        { schedule, parameters, steeringLimits, limits: scenarioLimits, model: description, sizes },
+        helper,
+      );
       schedule = assembleSchedule({ ...assembled, scenarioCheck, speedChange });
     }
     const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);

@@ -10,7 +10,7 @@
  * status is kept: only what the check proves. A schedule that records variations has their worst case
  * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
-import { judgeScheduleScenarios } from './simulate-schedule.js';
+import { judgeScheduleScenarios, scheduleSpeedChanges } from './simulate-schedule.js';
 import { scheduleSpeedChangeCertificate } from './scenario-stage.js';
 import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
@@ -181,7 +181,8 @@ function rerunScenarios(schedule: ScheduleFile, model: CheckModel): { scenarios:
   if (recorded === undefined || at.kind !== 'single-track') return null;
   const steeringLimits = schedule.check.timeDomain.steeringLimits;
   const parameters = at.parameters;
-  const scenarios = judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description });
-  const speedChange = scheduleSpeedChangeCertificate({ schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description });
+  const input = { schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description, sizes: scheduleSpeedChanges(schedule) };
+  const scenarios = judgeScheduleScenarios(input);
+  const speedChange = scheduleSpeedChangeCertificate(input);
   return { scenarios, speedChange };
 }

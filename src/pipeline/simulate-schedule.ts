@@ -11,6 +11,7 @@ import type { ScenarioMetrics } from '../performance/scenario-metrics.js';
 import { judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
 import type { ScenarioController, ScenarioVehicle } from '../performance/scenario-simulation.js';
 import { scheduleFirmware } from '../schedule/schedule-lookup.js';
+import { planSpeedChanges, type Plan } from '../schedule/plan.js';
 import type { ScheduleFile, ScheduleScenarioCheck } from '../schedule/schedule-types.js';
 import { singleTrackParametersFromVehicle } from '../vehicle/single-track.js';
 import type { SingleTrackParameters, Vehicle } from '../vehicle/types.js';
@@ -54,6 +55,11 @@ export interface SimulateScheduleInput {
   readonly sizes?: ScenarioSizes;
   /** For judging only: runs hold their values once at rest (src/performance/scenario-simulation.ts REST); traces are then not exact. */
   readonly stopAtRest?: boolean;
+}
+
+/** The speed changes through the range a schedule's scenarios are judged at: those of the plan it records (plan.ts planSpeedChanges). */
+export function scheduleSpeedChanges(schedule: Pick<ScheduleFile, 'provenance'>): ReturnType<typeof planSpeedChanges> {
+  return planSpeedChanges(schedule.provenance.plan as { readonly check?: Partial<Plan['check']> });
 }
 
 /** The scenario controller a schedule describes. */

@@ -8,7 +8,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { buildSchedule } from '../../src/pipeline/build-schedule.js';
 import { recordedCheckModel } from '../../src/pipeline/recheck-schedule.js';
 import { scenarioStage, scheduleSpeedChangeCertificate, startScenarioHelper } from '../../src/pipeline/scenario-stage.js';
-import { judgeScheduleScenarios, scenarioParameters, type ScenarioCheckInput } from '../../src/pipeline/simulate-schedule.js';
+import { judgeScheduleScenarios, scenarioParameters, scheduleSpeedChanges, type ScenarioCheckInput } from '../../src/pipeline/simulate-schedule.js';
 import { planScenarioLimits, type Plan } from '../../src/schedule/plan.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 
@@ -26,12 +26,16 @@ beforeAll(async () => {
   const { parameters, description } = scenarioParameters(recordedCheckModel(schedule), vehicle);
   // The limits of the default plan with a tighter speed-change error, so that the range scenarios fail too.
   const limits = { ...planScenarioLimits(schedule.provenance.plan as unknown as Plan), maximumSpeedChangeError: 0.1 };
+  // The speed changes at the rates the schedule records (the sprayer's service braking, 1 m/s²): they travel to the helper too.
+  const sizes = scheduleSpeedChanges(schedule);
+  expect(sizes.deceleration_mps2).toBe(1);
   input = {
     schedule,
     parameters,
     steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
     limits,
     model: description,
+    sizes,
   };
 }, 300_000);
 
