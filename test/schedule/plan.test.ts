@@ -4,6 +4,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { RULE_NAMES } from '../../src/tuning/registry.js';
 import { PLAN_SCHEMA } from '../../src/schedule/plan-schema.js';
+import { defaultPlanFile } from '../../src/schedule/default-plan.js';
 import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planSpeedChanges, planThresholds, readPlan, resolvePlan } from '../../src/schedule/plan.js';
 import { makeRuleParameterLookup } from '../../src/schedule/rule-parameters.js';
 
@@ -48,6 +49,10 @@ describe('resolvePlan(partial)', () => {
     expect(planSpeedChanges(both)).toEqual({ acceleration_mps2: 0.5, deceleration_mps2: 1.5 });
     const planSays = resolvePlan({ check: { brakingDeceleration_mps2: 3 } }, { vehicleServiceDeceleration_mps2: 1 });
     expect(planSays.check.brakingDeceleration_mps2).toBe(3);
+    // The default plan written out leaves them to the vehicle file, as no plan does.
+    const written = resolvePlan(defaultPlanFile(), { vehicleServiceDeceleration_mps2: 1 });
+    expect(written.check.brakingDeceleration_mps2).toBe(1);
+    expect(written.check).toEqual(gentle.check);
     // A plan recorded before the plan had these fields: the rates such a schedule was built with.
     expect(planSpeedChanges({ check: { gridSpeeds: 200 } })).toEqual({ acceleration_mps2: 1, deceleration_mps2: 2 });
   });
