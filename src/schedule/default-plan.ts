@@ -19,8 +19,8 @@ export function defaultPlanFile(kind: LoopKind = PLAN_DEFAULTS.loop.kind): Parti
   return {
     description:
       `The default plan of speedband ${VERSION} for a ${kind} loop. Left out because the data decide them: speeds (minimum_mps and maximum_mps the lowest and highest test speed, ` +
-      `lowSpeedFloor_mps the lowest), controller.sampleTime_s (the vehicle file's controllerSampleTime_s, else ${controller.sampleTime_s} s) and ` +
-      `controller.computationLatency_s (one sample), check.rampAcceleration_mps2 and check.brakingDeceleration_mps2 (the vehicle file's serviceAcceleration_mps2 and ` +
+      `lowSpeedFloor_mps the lowest), controller.sampleTime_s (the vehicle file's controllerSampleTime_s, else ${controller.sampleTime_s} s), ` +
+      `controller.computationLatency_s (one sample) and check.rampAcceleration_mps2 and check.brakingDeceleration_mps2 (the vehicle file's serviceAcceleration_mps2 and ` +
       `serviceDeceleration_mps2, else ${PLAN_DEFAULTS.check.rampAcceleration_mps2} and ${PLAN_DEFAULTS.check.brakingDeceleration_mps2} m/s²)${rule.tuneFor === 'fastest-passing' ? ', and rule.searchOn (the worst case when a variations section is added under robust acceptance, else the nominal model)' : ''}. ` +
       `Every field, its unit, default and source: docs/plan.md.${pathNote}`,
     loop: { ...PLAN_DEFAULTS.loop, ...(kind === 'path' ? DEFAULT_PATH_PREVIEW : {}), kind },
