@@ -129,6 +129,10 @@ export function simulateScenario(
     lateralOffset_m: new Float64Array(count),
     headingError_rad: new Float64Array(count),
   };
+  // The traces as locals: the loop writes each at every sample (a property read less each, while the code is still interpreted).
+  const { time_s: timeTrace, speed_mps: speedTrace, distance_m: distanceTrace, reference: referenceTrace, measurement: measurementTrace } = traces;
+  const { error: errorTrace, feedForwardInput: feedForwardTrace, steerAngle_rad: angleTrace, steerRate_radps: rateTrace, yawRate_radps: yawRateTrace } = traces;
+  const { lateralAcceleration_mps2: lateralAccelerationTrace, lateralOffset_m: offsetTrace, headingError_rad: headingErrorTrace } = traces;
   const command = traces.command_rad;
   const angleLimit = vehicle.maxSteerAngle_rad;
   const delayed = (j: number): number => (j < 0 ? 0 : Math.min(angleLimit, Math.max(-angleLimit, command[j])));
@@ -187,32 +191,31 @@ export function simulateScenario(
     if (Math.abs(out.unlimited) > settings.commandLimit_rad) atAngleLimit += ts;
     // Exact over this sample when the speed does not change in it; v̇y now for the lateral acceleration.
     const lateralVelocityRate = beginSample(plant, t, v);
-    traces.time_s[k] = t;
-    traces.speed_mps[k] = v;
-    traces.distance_m[k] = distanceAt_m(setup.speed, t);
-    traces.reference[k] = reference;
-    traces.measurement[k] = measurement;
-    traces.error[k] = reference - measurement;
-    traces.feedForwardInput[k] = feedForwardInput;
-    traces.steerAngle_rad[k] = x[STATE.steerAngle];
-    traces.yawRate_radps[k] = x[STATE.yawRate];
-    traces.lateralAcceleration_mps2[k] = lateralAcceleration_mps2(lateralVelocityRate, x, v);
-    traces.lateralOffset_m[k] = x[STATE.lateralOffset];
-    traces.headingError_rad[k] = x[STATE.headingError];
+    timeTrace[k] = t;
+    speedTrace[k] = v;
+    distanceTrace[k] = distanceAt_m(setup.speed, t);
+    referenceTrace[k] = reference;
+    measurementTrace[k] = measurement;
+    errorTrace[k] = reference - measurement;
+    feedForwardTrace[k] = feedForwardInput;
+    angleTrace[k] = x[STATE.steerAngle];
+    yawRateTrace[k] = x[STATE.yawRate];
+    lateralAccelerationTrace[k] = lateralAcceleration_mps2(lateralVelocityRate, x, v);
+    offsetTrace[k] = x[STATE.lateralOffset];
+    headingErrorTrace[k] = x[STATE.headingError];
     if (stopAtRest && k > 0) {
-      largestError = Math.max(largestError, Math.abs(traces.error[k]));
+      largestError = Math.max(largestError, Math.abs(errorTrace[k]));
       largestCommand = Math.max(largestCommand, Math.abs(command[k]));
       largestAngle = Math.max(largestAngle, Math.abs(x[STATE.steerAngle]));
-      const quiet =
-        t > setup.restAfter_s && still(traces.error, k, largestError) && still(command, k, largestCommand) && still(traces.steerAngle_rad, k, largestAngle);
+      const quiet = t > setup.restAfter_s && still(errorTrace, k, largestError) && still(command, k, largestCommand) && still(angleTrace, k, largestAngle);
       quietSamples = quiet ? quietSamples + 1 : 0;
     }
     // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.
     if (fraction_s > 0) {
-      traces.steerRate_radps[k] = advancePlant(plant, t, delayed(k - wholeSamples - 1), fraction_s);
+      rateTrace[k] = advancePlant(plant, t, delayed(k - wholeSamples - 1), fraction_s);
       advancePlant(plant, t + fraction_s, delayed(k - wholeSamples), ts - fraction_s);
     } else {
-      traces.steerRate_radps[k] = advancePlant(plant, t, delayed(k - wholeSamples), ts);
+      rateTrace[k] = advancePlant(plant, t, delayed(k - wholeSamples), ts);
     }
   }
   return {
