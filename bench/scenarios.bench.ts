@@ -2,6 +2,8 @@
  * The scenarios' benchmark (issue: closed-loop scenarios). Figures:
  * - the scenario check of one schedule in-process — every scenario at each breakpoint and at low, middle and top
  *   speed, the speed changes through the range — cold (first call, as in a one-shot `build`) and warm; target < 1 s;
+ * - the scenario stage as `build` runs it (src/pipeline/scenario-stage.ts: the range part and the certificate on a
+ *   helper thread started half a second before, as a build starts it before tuning), from dist/ and so cold;
  * - the speed-change certificate (bisection over the rate), warm;
  * - whole-process `speedband build` on the parcel van with the scenarios (the default) and without them
  *   (`check.scenarios: false`), median of 5 each, alternating; target < 1.5 s with them.
@@ -13,7 +15,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { buildSchedule } from '../src/pipeline/build-schedule.js';
 import { recordedCheckModel } from '../src/pipeline/recheck-schedule.js';
-import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController } from '../src/pipeline/simulate-schedule.js';
+import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController, scheduleSpeedChanges } from '../src/pipeline/simulate-schedule.js';
 import { speedChangeCertificate } from '../src/pipeline/speed-change-certificate.js';
 import type { Plan } from '../src/schedule/plan.js';
 import { numericAcceptanceLimits } from '../src/schedule/acceptance-limits.js';
@@ -35,7 +37,15 @@ const vehicle = loadVehicle(join(VAN, 'vehicle.json'));
 const { parameters, description } = scenarioParameters(recordedCheckModel(schedule), vehicle);
 const limits = numericAcceptanceLimits(schedule.provenance.plan as unknown as Plan).scenarios;
 const steeringLimits = { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps };
-const checkOnce = (): number => judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits, model: description }).speeds_mps.length;
+const sizes = scheduleSpeedChanges(schedule);
+// The stage as build runs it, first: from dist/ (the helper thread runs the built files), its modules apart from the
+// sources' below, so this is a first call too.
+const built = (await import(join(process.cwd(), 'dist/pipeline/scenario-stage.js'))) as typeof import('../src/pipeline/scenario-stage.js');
+const helper = built.startScenarioHelper();
+await new Promise((resolve) => setTimeout(resolve, 500));
+const stage = await timeMs(async () => void (await built.scenarioStage({ schedule, parameters, steeringLimits, limits, model: description, sizes }, helper)));
+helper?.close();
+const checkOnce = (): number => judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits, model: description, sizes }).speeds_mps.length;
 let speeds = 0;
 const cold = await timeMs(() => {
   speeds = checkOnce();
@@ -43,6 +53,7 @@ const cold = await timeMs(() => {
 const warm: number[] = [];
 for (let k = 0; k < 5; k++) warm.push(await timeMs(() => void checkOnce()));
 warm.sort((p, q) => p - q);
+printFigure(`scenario stage as build runs it (check + certificate, helper thread${helper === null ? ': none, one core' : ''}), cold`, stage, 'ms', '< 1000 ms');
 printFigure(`scenario check, ${speeds} speeds + 2 speed changes, in-process, first call (cold)`, cold, 'ms', '< 1000 ms');
 printFigure('scenario check, in-process, warm, median of 5', warm[2], 'ms', '< 1000 ms');
 const certificate = await timeMs(

@@ -125,3 +125,13 @@ await build({
   plugins: [mathjsChunk],
   alias: { 'jsonc-parser': 'jsonc-parser/lib/esm/main.js' },
 });
+
+// The helper thread of the scenario stage (src/pipeline/scenario-stage.ts resolves `./scenario-worker.js` beside the
+// module that starts it — here, beside the bundle). It needs no mathjs: a schedule's lookup and the simulator only.
+await build({
+  ...common,
+  entryPoints: ['dist/pipeline/scenario-worker.js'],
+  outfile: 'dist/cli/scenario-worker.js',
+  plugins: [mathjsChunk],
+  alias: { 'jsonc-parser': 'jsonc-parser/lib/esm/main.js' },
+});

@@ -5307,7 +5307,7 @@ return errors === 0;
 }
 
 export const validatePlanFile: SchemaValidator = validate4 as unknown as SchemaValidator;
-const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"searchOn":{"enum":["nominal","worst-case"],"description":"With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this.","oneOf":[{"type":"number","maximum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","maximum":0}}}}]},"minimumUpperGainMargin_dB":{"description":"Upper gain margin (the gain increase that destabilises) must be at least this.","oneOf":[{"type":"number","minimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}}}}]},"minimumPhaseMargin_deg":{"description":"Phase margin must be at least this.","oneOf":[{"type":"number","minimum":0,"maximum":180},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0,"maximum":180}}}}]},"maximumSensitivityPeak":{"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund).","oneOf":[{"type":"number","minimum":1},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":1}}}}]},"maximumComplementarySensitivityPeak":{"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2).","oneOf":[{"type":"number","minimum":1},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":1}}}}]},"delayMarginRoom_s":{"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room.","oneOf":[{"type":"number","minimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}}}}]},"maximumOvershoot_pct":{"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice).","oneOf":[{"type":"number","minimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}}}}]},"maximumRecoveryTime_s":{"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumLaneChangeError_m":{"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumCurveEntryError_m":{"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumSpeedChangeError_m":{"description":"Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumSpeedChangeError_rad":{"description":"Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumSpeedChangeError_radps":{"description":"Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"Limits every speed of the dense check and of the scenarios must meet. Each may be one number, a table over speed or an expression in speed_mps (e.g. \"minimumPhaseMargin_deg\": \"max(35, 50 - speed_mps)\"); the values at each breakpoint are recorded in the schedule."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."},"scenarios":{"type":"boolean","description":"Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (needs the single-track model)."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
+const schema10 = {"$id":"https://speedband.dev/schema/plan.json","title":"speedband plan","type":"object","additionalProperties":false,"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema; ignored."},"description":{"type":"string","description":"Free text for the reader; recorded in the schedule with the plan."},"loop":{"type":"object","additionalProperties":false,"properties":{"kind":{"enum":["yaw-rate","heading","path"],"description":"The loop the firmware closes: yaw-rate (steer command → yaw rate), heading (→ heading, one integrator) or path (→ lateral offset at the preview point, two integrators)."},"preview_m":{"type":"number","minimum":0,"description":"Path loop: preview distance d at standstill, m; the error is e = ey + d·eψ (a preview adds a lead that can make a P or PD path loop stable). Default 0.5 m when neither preview_m nor previewTime_s is given, else 0."},"previewTime_s":{"type":"number","minimum":0,"description":"Path loop: preview time, s — the preview grows with speed: preview_m + previewTime_s × speed ahead of the reference point. Default 0.3 s when neither preview_m nor previewTime_s is given, else 0."},"referencePoint":{"enum":["cg","front-axle"],"description":"Path loop: where the preview is measured from; front-axle (the default) adds the CG-to-front-axle distance."}},"description":"The loop the firmware closes."},"rule":{"type":"object","additionalProperties":false,"properties":{"name":{"enum":["ziegler-nichols-step","ziegler-nichols-ultimate","imc-pid","simc","damping-target","amigo","migo"],"description":"The published tuning rule applied at each breakpoint (the table of rules below names each source). Default per loop kind: yaw-rate simc; heading simc searched (tuneFor fastest-passing); path migo searched."},"tuneFor":{"enum":["rule-parameters","fastest-passing"],"description":"How each breakpoint's free rule parameter is chosen: rule-parameters (as given, or the rule's default; the default when a rule is named) or fastest-passing (a search for the fastest response meeting every acceptance limit at that breakpoint on the full loop: SIMC/IMC closed-loop time constant, damping-target natural frequency, MIGO sensitivity-peak target)."},"searchOn":{"enum":["nominal","worst-case"],"description":"With tuneFor fastest-passing: what each candidate must pass — nominal (every acceptance limit on the nominal model) or worst-case (also in the worst case over the plan's variations: the margins as the robust check finds them at that breakpoint, and the time-domain figures over the set). Default worst-case when the plan has variations under robust acceptance, else nominal."},"parameters":{"type":"object","additionalProperties":false,"properties":{"controllerType":{"enum":["P","PI","PID"],"description":"Which terms the controller has (Ziegler–Nichols rows; SIMC: by plant class when absent)."},"closedLoopTimeConstant_s":{"description":"IMC-PID closed-loop time constant λ (Rivera, Morari & Skogestad 1986).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"simcClosedLoopTimeConstant_s":{"description":"SIMC closed-loop time constant τc (Skogestad 2003; τc = θ is \"tight control with good robustness\").","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"dampingRatio":{"description":"Damping-target ζ of the closed-loop pole pair.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"naturalFrequency_radps":{"description":"Damping-target ωn of the pole pair (wins over settlingDistance_m).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"settlingDistance_m":{"description":"Damping-target settling distance D: ωn = 4·v/(ζ·D) (settling time ≈ 4/(ζωn), common practice).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"integralPoleRatio":{"description":"Damping-target ratio ωn/p of the natural frequency to the integral pole p.","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"sensitivityPeakTarget":{"description":"MIGO: the bound M on both sensitivity peaks, Ms ≤ M and Mt ≤ M (default 1.4; Åström, Panagopoulos & Hägglund 1998).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"phaseMarginTarget_deg":{"description":"MIGO: also keep the phase margin at least this, degrees (no default; a fastest-passing search sets the plan limit).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"The rule's parameters: only those the rule takes (any other is refused). Each number may be one number, a table over speed or an expression in speed_mps."}},"description":"The tuning rule and its parameters."},"speeds":{"type":"object","additionalProperties":false,"properties":{"minimum_mps":{"type":"number","minimum":0,"description":"Bottom of the speed range the dense check covers."},"maximum_mps":{"type":"number","exclusiveMinimum":0,"description":"Top of the speed range the dense check covers."},"lowSpeedFloor_mps":{"type":"number","exclusiveMinimum":0,"description":"Below this speed the gains of the floor are used (gains grow like 1/v² towards standstill); automatic breakpoints start here."}},"description":"The speed range of the schedule."},"breakpoints":{"oneOf":[{"type":"object","additionalProperties":false,"required":["speeds_mps"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0},"description":"Explicit breakpoint speeds, strictly increasing."}}},{"type":"object","additionalProperties":false,"properties":{"count":{"type":"integer","minimum":1,"maximum":100,"description":"Number of automatic breakpoints from the floor to the top of the range."},"spacing":{"enum":["geometric","linear"],"description":"Spacing of automatic breakpoints; geometric puts more at low speed, where gains change fastest."}}}],"description":"Where gains are tuned: explicit speeds, or a count and spacing."},"interpolation":{"enum":["linear","monotone-cubic"],"description":"How the firmware interpolates between breakpoints: linear, or monotone cubic (Fritsch & Carlson 1980: no overshoot between breakpoints)."},"controller":{"type":"object","additionalProperties":false,"properties":{"form":{"enum":["parallel"],"description":"Gains are stored in parallel form u = kp·e + ki·∫e + kd·ė (filtered)."},"derivativeFilter":{"type":"number","exclusiveMinimum":0,"description":"Derivative filter factor N: filter time constant Tf = (kd/kp)/N (common practice N ≈ 10); from 1 to 1,000."},"sampleTime_s":{"type":"number","exclusiveMinimum":0,"description":"Sample time Ts of the firmware's controller; from 0.0001 s (10 kHz) to 1 s."},"discretisation":{"enum":["tustin","backward-euler"],"description":"How the firmware discretises the integral and the derivative filter (backward Euler's filter pole stays in [0, 1): no ringing)."},"computationLatency_s":{"type":"number","minimum":0,"description":"Time from taking a sample to the steer command it produces; from 0 s to 1 s."},"antiWindup":{"enum":["conditional-integration","back-calculation"],"description":"Anti-windup while the command is at the steering-angle limit (Åström & Hägglund 2006, §3.5): conditional-integration (the default: the integral stops while the command is limited and the error would push it further) or back-calculation (the integral tracks the limited command with tracking time Tt = √(Ti·Td), Ti when kd = 0)."}},"description":"The controller the firmware runs (the same defaults as speedband tune and speedband stability)."},"acceptance":{"type":"object","additionalProperties":false,"properties":{"maximumLowerGainMargin_dB":{"description":"Lower gain margin (negative: the gain reduction that destabilises a conditionally stable loop) must be at most this.","oneOf":[{"type":"number","maximum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","maximum":0}}}}]},"minimumUpperGainMargin_dB":{"description":"Upper gain margin (the gain increase that destabilises) must be at least this.","oneOf":[{"type":"number","minimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}}}}]},"minimumPhaseMargin_deg":{"description":"Phase margin must be at least this.","oneOf":[{"type":"number","minimum":0,"maximum":180},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0,"maximum":180}}}}]},"maximumSensitivityPeak":{"description":"Peak sensitivity Ms = max |1/(1 + L)| must be at most this (1.4–2 is the usual robust range, Åström & Hägglund).","oneOf":[{"type":"number","minimum":1},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":1}}}}]},"maximumComplementarySensitivityPeak":{"description":"Peak complementary sensitivity Mt = max |L/(1 + L)| must be at most this (default 2).","oneOf":[{"type":"number","minimum":1},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":1}}}}]},"delayMarginRoom_s":{"description":"Required delay margin = computation latency + Ts/2 (the hold) + this room.","oneOf":[{"type":"number","minimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}}}}]},"maximumOvershoot_pct":{"description":"Reference step (with the set-point weights chosen for it): overshoot at most this, % (default 25, common practice).","oneOf":[{"type":"number","minimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}}}}]},"maximumRecoveryTime_s":{"description":"A 0.01 rad steering misalignment and a lateral force step of 5 % of the weight removed to 5 % of their peak error within this, s (default 15).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumLaneChangeError_m":{"description":"Path loop: largest error while following a 3.5 m lane change over max(4 s of travel, 20 m), m (default 0.5).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumCurveEntryError_m":{"description":"Path loop: largest error from 3 s after entering a constant-curvature curve (2 m/s² or half the steering range), m (default 0.3).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumSpeedChangeError_m":{"description":"Path loop: largest error while accelerating (1 m/s²) or braking (2 m/s²) through the speed range in a curve, m (default 0.3).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumSpeedChangeError_rad":{"description":"Heading loop: largest error while the speed changes through the range in a curve, rad (default 0.05).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]},"maximumSpeedChangeError_radps":{"description":"Yaw-rate loop: largest error while the speed changes through the range in a curve, rad/s (default 0.05).","oneOf":[{"type":"number","exclusiveMinimum":0},{"type":"string","minLength":1,"description":"an expression in speed_mps (m/s), e.g. \"max(15, 1.2 * speed_mps)\""},{"type":"object","additionalProperties":false,"required":["speeds_mps","values"],"properties":{"speeds_mps":{"type":"array","minItems":1,"items":{"type":"number","minimum":0}},"values":{"type":"array","minItems":1,"items":{"type":"number","exclusiveMinimum":0}}}}]}},"description":"Limits every speed of the dense check and of the scenarios must meet. Each may be one number, a table over speed or an expression in speed_mps (e.g. \"minimumPhaseMargin_deg\": \"max(35, 50 - speed_mps)\"); the values at each breakpoint are recorded in the schedule."},"check":{"type":"object","additionalProperties":false,"properties":{"gridSpeeds":{"type":"integer","minimum":2,"maximum":100000,"description":"Evenly spaced check speeds across the range (breakpoints and midpoints are added)."},"maxInsertedBreakpoints":{"type":"integer","minimum":0,"maximum":100,"description":"Most breakpoints the refinement may insert where the check fails between breakpoints."},"model":{"enum":["single-track","interpolated-lumped"],"description":"Model the schedule is tuned and checked on: the joint single-track fit, or the per-speed models interpolated in speed (used anyway when the joint fit was refused)."},"scenarios":{"type":"boolean","description":"Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (needs the single-track model)."},"rampAcceleration_mps2":{"type":"number","exclusiveMinimum":0,"maximum":10,"description":"Acceleration of the speed-ramp-in-curve scenario through the speed range, m/s²: the acceleration the vehicle uses in service."},"brakingDeceleration_mps2":{"type":"number","exclusiveMinimum":0,"maximum":10,"description":"Deceleration of the braking-in-curve scenario through the speed range, m/s² (positive): the service braking the vehicle uses, not an emergency stop."}},"description":"The dense check."},"variations":{"type":"object","additionalProperties":false,"properties":{"acceptance":{"enum":["robust","nominal"],"description":"What the schedule must pass: robust — the acceptance limits at the worst case over the variations at every check speed (and the nominal check); nominal — the nominal check only, the worst case reported beside it."},"mass_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Vehicle mass change (load): ± percent, or [down, up] percent."},"yawInertia_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Yaw inertia change (load): ± percent, or [down, up] percent."},"cgRearwardShift_m":{"oneOf":[{"type":"number","minimum":0,"maximum":5,"description":"± this many metres"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-5,"maximum":0},{"type":"number","minimum":0,"maximum":5}]}],"description":"Centre of gravity moving rearward (load): ± metres, or [forward as a negative number, rearward] metres; the wheelbase stays, so the CG-to-front-axle distance grows by it and the CG-to-rear-axle distance shrinks."},"frontCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Front cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"rearCorneringStiffness_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Rear cornering stiffness change (tyres, inflation, temperature, road): ± percent, or [down, up] percent."},"actuatorLag_pct":{"oneOf":[{"type":"number","minimum":0,"maximum":90,"description":"± this many percent"},{"type":"array","minItems":2,"maxItems":2,"items":[{"type":"number","minimum":-90,"maximum":0},{"type":"number","minimum":0,"maximum":900}],"description":"[down, up] percent, down ≤ 0 ≤ up"}],"description":"Steering actuator lag change (wear, temperature, supply): ± percent, or [down, up] percent."},"addedLatency_s":{"type":"number","minimum":0,"maximum":1,"description":"Extra delay in the loop, from 0 up to this (a late computation, bus jitter, a slower actuator); from 0 s to 1 s."},"fromIdentification":{"type":"boolean","description":"Also vary the identified parameters over their 95 % intervals from models.json: the joint single-track fit's cornering stiffnesses, actuator lag and delay (the plan's percentages apply beyond the interval's ends), or on the interpolated lumped models each FOPDT gain, time constant and dead time (the widest relative interval over the test speeds)."},"search":{"type":"object","additionalProperties":false,"properties":{"samples":{"type":"integer","minimum":0,"maximum":4096,"description":"Seeded points inside the box at each check speed, besides its corners (every corner up to 4 varied parameters; beyond, a screening of each parameter and a search over the corners)."},"seed":{"type":"integer","minimum":0,"maximum":4294967295,"description":"Seed of those points (the same points at every speed; the same seed gives the same schedule)."},"localSearchEvaluations":{"type":"integer","minimum":0,"maximum":1000,"description":"Most loop analyses of the compass search (Kolda, Lewis & Torczon 2003) from the worst points found, per speed, shared by the figures in turn (phase margin first); 0 switches the local search off."}},"description":"How the worst case is searched at each check speed: corners, seeded samples, then a compass search."}},"description":"The vehicles the schedule must hold on besides the nominal model: a box of parameter changes around it. Without this section the schedule is checked on the nominal model only."}}};
 
 function validate4(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 /*# sourceURL="https://speedband.dev/schema/plan.json" */;
@@ -11254,7 +11254,7 @@ if(data.check !== undefined){
 let data136 = data.check;
 if(data136 && typeof data136 == "object" && !Array.isArray(data136)){
 for(const key30 in data136){
-if(!((((key30 === "gridSpeeds") || (key30 === "maxInsertedBreakpoints")) || (key30 === "model")) || (key30 === "scenarios"))){
+if(!((((((key30 === "gridSpeeds") || (key30 === "maxInsertedBreakpoints")) || (key30 === "model")) || (key30 === "scenarios")) || (key30 === "rampAcceleration_mps2")) || (key30 === "brakingDeceleration_mps2"))){
 const err414 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key30},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err414];
@@ -11360,9 +11360,11 @@ vErrors.push(err422);
 errors++;
 }
 }
-}
-else {
-const err423 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data136.rampAcceleration_mps2 !== undefined){
+let data141 = data136.rampAcceleration_mps2;
+if((typeof data141 == "number") && (isFinite(data141))){
+if(data141 > 10 || isNaN(data141)){
+const err423 = {instancePath:instancePath+"/check/rampAcceleration_mps2",schemaPath:"#/properties/check/properties/rampAcceleration_mps2/maximum",keyword:"maximum",params:{comparison: "<=", limit: 10},message:"must be <= 10"};
 if(vErrors === null){
 vErrors = [err423];
 }
@@ -11371,13 +11373,8 @@ vErrors.push(err423);
 }
 errors++;
 }
-}
-if(data.variations !== undefined){
-let data141 = data.variations;
-if(data141 && typeof data141 == "object" && !Array.isArray(data141)){
-for(const key31 in data141){
-if(!(func18.call(schema10.properties.variations.properties, key31))){
-const err424 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
+if(data141 <= 0 || isNaN(data141)){
+const err424 = {instancePath:instancePath+"/check/rampAcceleration_mps2",schemaPath:"#/properties/check/properties/rampAcceleration_mps2/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err424];
 }
@@ -11387,10 +11384,8 @@ vErrors.push(err424);
 errors++;
 }
 }
-if(data141.acceptance !== undefined){
-let data142 = data141.acceptance;
-if(!((data142 === "robust") || (data142 === "nominal"))){
-const err425 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
+else {
+const err425 = {instancePath:instancePath+"/check/rampAcceleration_mps2",schemaPath:"#/properties/check/properties/rampAcceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err425];
 }
@@ -11400,15 +11395,11 @@ vErrors.push(err425);
 errors++;
 }
 }
-if(data141.mass_pct !== undefined){
-let data143 = data141.mass_pct;
-const _errs437 = errors;
-let valid140 = false;
-let passing22 = null;
-const _errs438 = errors;
-if((typeof data143 == "number") && (isFinite(data143))){
-if(data143 > 90 || isNaN(data143)){
-const err426 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
+if(data136.brakingDeceleration_mps2 !== undefined){
+let data142 = data136.brakingDeceleration_mps2;
+if((typeof data142 == "number") && (isFinite(data142))){
+if(data142 > 10 || isNaN(data142)){
+const err426 = {instancePath:instancePath+"/check/brakingDeceleration_mps2",schemaPath:"#/properties/check/properties/brakingDeceleration_mps2/maximum",keyword:"maximum",params:{comparison: "<=", limit: 10},message:"must be <= 10"};
 if(vErrors === null){
 vErrors = [err426];
 }
@@ -11417,8 +11408,8 @@ vErrors.push(err426);
 }
 errors++;
 }
-if(data143 < 0 || isNaN(data143)){
-const err427 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data142 <= 0 || isNaN(data142)){
+const err427 = {instancePath:instancePath+"/check/brakingDeceleration_mps2",schemaPath:"#/properties/check/properties/brakingDeceleration_mps2/exclusiveMinimum",keyword:"exclusiveMinimum",params:{comparison: ">", limit: 0},message:"must be > 0"};
 if(vErrors === null){
 vErrors = [err427];
 }
@@ -11429,7 +11420,7 @@ errors++;
 }
 }
 else {
-const err428 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err428 = {instancePath:instancePath+"/check/brakingDeceleration_mps2",schemaPath:"#/properties/check/properties/brakingDeceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err428];
 }
@@ -11438,15 +11429,10 @@ vErrors.push(err428);
 }
 errors++;
 }
-var _valid22 = _errs438 === errors;
-if(_valid22){
-valid140 = true;
-passing22 = 0;
 }
-const _errs440 = errors;
-if(Array.isArray(data143)){
-if(data143.length > 2){
-const err429 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
+}
+else {
+const err429 = {instancePath:instancePath+"/check",schemaPath:"#/properties/check/type",keyword:"type",params:{type: "object"},message:"must be object"};
 if(vErrors === null){
 vErrors = [err429];
 }
@@ -11455,8 +11441,13 @@ vErrors.push(err429);
 }
 errors++;
 }
-if(data143.length < 2){
-const err430 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
+}
+if(data.variations !== undefined){
+let data143 = data.variations;
+if(data143 && typeof data143 == "object" && !Array.isArray(data143)){
+for(const key31 in data143){
+if(!(func18.call(schema10.properties.variations.properties, key31))){
+const err430 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key31},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err430];
 }
@@ -11465,12 +11456,11 @@ vErrors.push(err430);
 }
 errors++;
 }
-const len43 = data143.length;
-if(len43 > 0){
-let data144 = data143[0];
-if((typeof data144 == "number") && (isFinite(data144))){
-if(data144 > 0 || isNaN(data144)){
-const err431 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+}
+if(data143.acceptance !== undefined){
+let data144 = data143.acceptance;
+if(!((data144 === "robust") || (data144 === "nominal"))){
+const err431 = {instancePath:instancePath+"/variations/acceptance",schemaPath:"#/properties/variations/properties/acceptance/enum",keyword:"enum",params:{allowedValues: schema10.properties.variations.properties.acceptance.enum},message:"must be equal to one of the allowed values"};
 if(vErrors === null){
 vErrors = [err431];
 }
@@ -11479,8 +11469,16 @@ vErrors.push(err431);
 }
 errors++;
 }
-if(data144 < -90 || isNaN(data144)){
-const err432 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+}
+if(data143.mass_pct !== undefined){
+let data145 = data143.mass_pct;
+const _errs441 = errors;
+let valid140 = false;
+let passing22 = null;
+const _errs442 = errors;
+if((typeof data145 == "number") && (isFinite(data145))){
+if(data145 > 90 || isNaN(data145)){
+const err432 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err432];
 }
@@ -11489,9 +11487,8 @@ vErrors.push(err432);
 }
 errors++;
 }
-}
-else {
-const err433 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data145 < 0 || isNaN(data145)){
+const err433 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err433];
 }
@@ -11501,11 +11498,8 @@ vErrors.push(err433);
 errors++;
 }
 }
-if(len43 > 1){
-let data145 = data143[1];
-if((typeof data145 == "number") && (isFinite(data145))){
-if(data145 > 900 || isNaN(data145)){
-const err434 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err434 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err434];
 }
@@ -11514,8 +11508,15 @@ vErrors.push(err434);
 }
 errors++;
 }
-if(data145 < 0 || isNaN(data145)){
-const err435 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid22 = _errs442 === errors;
+if(_valid22){
+valid140 = true;
+passing22 = 0;
+}
+const _errs444 = errors;
+if(Array.isArray(data145)){
+if(data145.length > 2){
+const err435 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err435];
 }
@@ -11524,9 +11525,8 @@ vErrors.push(err435);
 }
 errors++;
 }
-}
-else {
-const err436 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data145.length < 2){
+const err436 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err436];
 }
@@ -11535,10 +11535,12 @@ vErrors.push(err436);
 }
 errors++;
 }
-}
-}
-else {
-const err437 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len43 = data145.length;
+if(len43 > 0){
+let data146 = data145[0];
+if((typeof data146 == "number") && (isFinite(data146))){
+if(data146 > 0 || isNaN(data146)){
+const err437 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err437];
 }
@@ -11547,7 +11549,75 @@ vErrors.push(err437);
 }
 errors++;
 }
-var _valid22 = _errs440 === errors;
+if(data146 < -90 || isNaN(data146)){
+const err438 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err438];
+}
+else {
+vErrors.push(err438);
+}
+errors++;
+}
+}
+else {
+const err439 = {instancePath:instancePath+"/variations/mass_pct/0",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err439];
+}
+else {
+vErrors.push(err439);
+}
+errors++;
+}
+}
+if(len43 > 1){
+let data147 = data145[1];
+if((typeof data147 == "number") && (isFinite(data147))){
+if(data147 > 900 || isNaN(data147)){
+const err440 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err440];
+}
+else {
+vErrors.push(err440);
+}
+errors++;
+}
+if(data147 < 0 || isNaN(data147)){
+const err441 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err441];
+}
+else {
+vErrors.push(err441);
+}
+errors++;
+}
+}
+else {
+const err442 = {instancePath:instancePath+"/variations/mass_pct/1",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err442];
+}
+else {
+vErrors.push(err442);
+}
+errors++;
+}
+}
+}
+else {
+const err443 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err443];
+}
+else {
+vErrors.push(err443);
+}
+errors++;
+}
+var _valid22 = _errs444 === errors;
 if(_valid22 && valid140){
 valid140 = false;
 passing22 = [passing22, 1];
@@ -11559,98 +11629,7 @@ passing22 = 1;
 }
 }
 if(!valid140){
-const err438 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing22},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err438];
-}
-else {
-vErrors.push(err438);
-}
-errors++;
-}
-else {
-errors = _errs437;
-if(vErrors !== null){
-if(_errs437){
-vErrors.length = _errs437;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data141.yawInertia_pct !== undefined){
-let data146 = data141.yawInertia_pct;
-const _errs447 = errors;
-let valid142 = false;
-let passing23 = null;
-const _errs448 = errors;
-if((typeof data146 == "number") && (isFinite(data146))){
-if(data146 > 90 || isNaN(data146)){
-const err439 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err439];
-}
-else {
-vErrors.push(err439);
-}
-errors++;
-}
-if(data146 < 0 || isNaN(data146)){
-const err440 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err440];
-}
-else {
-vErrors.push(err440);
-}
-errors++;
-}
-}
-else {
-const err441 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err441];
-}
-else {
-vErrors.push(err441);
-}
-errors++;
-}
-var _valid23 = _errs448 === errors;
-if(_valid23){
-valid142 = true;
-passing23 = 0;
-}
-const _errs450 = errors;
-if(Array.isArray(data146)){
-if(data146.length > 2){
-const err442 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err442];
-}
-else {
-vErrors.push(err442);
-}
-errors++;
-}
-if(data146.length < 2){
-const err443 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err443];
-}
-else {
-vErrors.push(err443);
-}
-errors++;
-}
-const len44 = data146.length;
-if(len44 > 0){
-let data147 = data146[0];
-if((typeof data147 == "number") && (isFinite(data147))){
-if(data147 > 0 || isNaN(data147)){
-const err444 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err444 = {instancePath:instancePath+"/variations/mass_pct",schemaPath:"#/properties/variations/properties/mass_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing22},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err444];
 }
@@ -11659,8 +11638,27 @@ vErrors.push(err444);
 }
 errors++;
 }
-if(data147 < -90 || isNaN(data147)){
-const err445 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs441;
+if(vErrors !== null){
+if(_errs441){
+vErrors.length = _errs441;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data143.yawInertia_pct !== undefined){
+let data148 = data143.yawInertia_pct;
+const _errs451 = errors;
+let valid142 = false;
+let passing23 = null;
+const _errs452 = errors;
+if((typeof data148 == "number") && (isFinite(data148))){
+if(data148 > 90 || isNaN(data148)){
+const err445 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err445];
 }
@@ -11669,9 +11667,8 @@ vErrors.push(err445);
 }
 errors++;
 }
-}
-else {
-const err446 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data148 < 0 || isNaN(data148)){
+const err446 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err446];
 }
@@ -11681,11 +11678,8 @@ vErrors.push(err446);
 errors++;
 }
 }
-if(len44 > 1){
-let data148 = data146[1];
-if((typeof data148 == "number") && (isFinite(data148))){
-if(data148 > 900 || isNaN(data148)){
-const err447 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err447 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err447];
 }
@@ -11694,8 +11688,15 @@ vErrors.push(err447);
 }
 errors++;
 }
-if(data148 < 0 || isNaN(data148)){
-const err448 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid23 = _errs452 === errors;
+if(_valid23){
+valid142 = true;
+passing23 = 0;
+}
+const _errs454 = errors;
+if(Array.isArray(data148)){
+if(data148.length > 2){
+const err448 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err448];
 }
@@ -11704,9 +11705,8 @@ vErrors.push(err448);
 }
 errors++;
 }
-}
-else {
-const err449 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data148.length < 2){
+const err449 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err449];
 }
@@ -11715,10 +11715,12 @@ vErrors.push(err449);
 }
 errors++;
 }
-}
-}
-else {
-const err450 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len44 = data148.length;
+if(len44 > 0){
+let data149 = data148[0];
+if((typeof data149 == "number") && (isFinite(data149))){
+if(data149 > 0 || isNaN(data149)){
+const err450 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err450];
 }
@@ -11727,7 +11729,75 @@ vErrors.push(err450);
 }
 errors++;
 }
-var _valid23 = _errs450 === errors;
+if(data149 < -90 || isNaN(data149)){
+const err451 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err451];
+}
+else {
+vErrors.push(err451);
+}
+errors++;
+}
+}
+else {
+const err452 = {instancePath:instancePath+"/variations/yawInertia_pct/0",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err452];
+}
+else {
+vErrors.push(err452);
+}
+errors++;
+}
+}
+if(len44 > 1){
+let data150 = data148[1];
+if((typeof data150 == "number") && (isFinite(data150))){
+if(data150 > 900 || isNaN(data150)){
+const err453 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err453];
+}
+else {
+vErrors.push(err453);
+}
+errors++;
+}
+if(data150 < 0 || isNaN(data150)){
+const err454 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err454];
+}
+else {
+vErrors.push(err454);
+}
+errors++;
+}
+}
+else {
+const err455 = {instancePath:instancePath+"/variations/yawInertia_pct/1",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err455];
+}
+else {
+vErrors.push(err455);
+}
+errors++;
+}
+}
+}
+else {
+const err456 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err456];
+}
+else {
+vErrors.push(err456);
+}
+errors++;
+}
+var _valid23 = _errs454 === errors;
 if(_valid23 && valid142){
 valid142 = false;
 passing23 = [passing23, 1];
@@ -11739,98 +11809,7 @@ passing23 = 1;
 }
 }
 if(!valid142){
-const err451 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing23},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err451];
-}
-else {
-vErrors.push(err451);
-}
-errors++;
-}
-else {
-errors = _errs447;
-if(vErrors !== null){
-if(_errs447){
-vErrors.length = _errs447;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data141.cgRearwardShift_m !== undefined){
-let data149 = data141.cgRearwardShift_m;
-const _errs457 = errors;
-let valid144 = false;
-let passing24 = null;
-const _errs458 = errors;
-if((typeof data149 == "number") && (isFinite(data149))){
-if(data149 > 5 || isNaN(data149)){
-const err452 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
-if(vErrors === null){
-vErrors = [err452];
-}
-else {
-vErrors.push(err452);
-}
-errors++;
-}
-if(data149 < 0 || isNaN(data149)){
-const err453 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err453];
-}
-else {
-vErrors.push(err453);
-}
-errors++;
-}
-}
-else {
-const err454 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err454];
-}
-else {
-vErrors.push(err454);
-}
-errors++;
-}
-var _valid24 = _errs458 === errors;
-if(_valid24){
-valid144 = true;
-passing24 = 0;
-}
-const _errs460 = errors;
-if(Array.isArray(data149)){
-if(data149.length > 2){
-const err455 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err455];
-}
-else {
-vErrors.push(err455);
-}
-errors++;
-}
-if(data149.length < 2){
-const err456 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err456];
-}
-else {
-vErrors.push(err456);
-}
-errors++;
-}
-const len45 = data149.length;
-if(len45 > 0){
-let data150 = data149[0];
-if((typeof data150 == "number") && (isFinite(data150))){
-if(data150 > 0 || isNaN(data150)){
-const err457 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err457 = {instancePath:instancePath+"/variations/yawInertia_pct",schemaPath:"#/properties/variations/properties/yawInertia_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing23},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err457];
 }
@@ -11839,8 +11818,27 @@ vErrors.push(err457);
 }
 errors++;
 }
-if(data150 < -5 || isNaN(data150)){
-const err458 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+else {
+errors = _errs451;
+if(vErrors !== null){
+if(_errs451){
+vErrors.length = _errs451;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data143.cgRearwardShift_m !== undefined){
+let data151 = data143.cgRearwardShift_m;
+const _errs461 = errors;
+let valid144 = false;
+let passing24 = null;
+const _errs462 = errors;
+if((typeof data151 == "number") && (isFinite(data151))){
+if(data151 > 5 || isNaN(data151)){
+const err458 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
 if(vErrors === null){
 vErrors = [err458];
 }
@@ -11849,9 +11847,8 @@ vErrors.push(err458);
 }
 errors++;
 }
-}
-else {
-const err459 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data151 < 0 || isNaN(data151)){
+const err459 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err459];
 }
@@ -11861,11 +11858,8 @@ vErrors.push(err459);
 errors++;
 }
 }
-if(len45 > 1){
-let data151 = data149[1];
-if((typeof data151 == "number") && (isFinite(data151))){
-if(data151 > 5 || isNaN(data151)){
-const err460 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+else {
+const err460 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err460];
 }
@@ -11874,8 +11868,15 @@ vErrors.push(err460);
 }
 errors++;
 }
-if(data151 < 0 || isNaN(data151)){
-const err461 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid24 = _errs462 === errors;
+if(_valid24){
+valid144 = true;
+passing24 = 0;
+}
+const _errs464 = errors;
+if(Array.isArray(data151)){
+if(data151.length > 2){
+const err461 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err461];
 }
@@ -11884,9 +11885,8 @@ vErrors.push(err461);
 }
 errors++;
 }
-}
-else {
-const err462 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data151.length < 2){
+const err462 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err462];
 }
@@ -11895,10 +11895,12 @@ vErrors.push(err462);
 }
 errors++;
 }
-}
-}
-else {
-const err463 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len45 = data151.length;
+if(len45 > 0){
+let data152 = data151[0];
+if((typeof data152 == "number") && (isFinite(data152))){
+if(data152 > 0 || isNaN(data152)){
+const err463 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err463];
 }
@@ -11907,7 +11909,75 @@ vErrors.push(err463);
 }
 errors++;
 }
-var _valid24 = _errs460 === errors;
+if(data152 < -5 || isNaN(data152)){
+const err464 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -5},message:"must be >= -5"};
+if(vErrors === null){
+vErrors = [err464];
+}
+else {
+vErrors.push(err464);
+}
+errors++;
+}
+}
+else {
+const err465 = {instancePath:instancePath+"/variations/cgRearwardShift_m/0",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err465];
+}
+else {
+vErrors.push(err465);
+}
+errors++;
+}
+}
+if(len45 > 1){
+let data153 = data151[1];
+if((typeof data153 == "number") && (isFinite(data153))){
+if(data153 > 5 || isNaN(data153)){
+const err466 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 5},message:"must be <= 5"};
+if(vErrors === null){
+vErrors = [err466];
+}
+else {
+vErrors.push(err466);
+}
+errors++;
+}
+if(data153 < 0 || isNaN(data153)){
+const err467 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err467];
+}
+else {
+vErrors.push(err467);
+}
+errors++;
+}
+}
+else {
+const err468 = {instancePath:instancePath+"/variations/cgRearwardShift_m/1",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err468];
+}
+else {
+vErrors.push(err468);
+}
+errors++;
+}
+}
+}
+else {
+const err469 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err469];
+}
+else {
+vErrors.push(err469);
+}
+errors++;
+}
+var _valid24 = _errs464 === errors;
 if(_valid24 && valid144){
 valid144 = false;
 passing24 = [passing24, 1];
@@ -11919,98 +11989,7 @@ passing24 = 1;
 }
 }
 if(!valid144){
-const err464 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing24},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err464];
-}
-else {
-vErrors.push(err464);
-}
-errors++;
-}
-else {
-errors = _errs457;
-if(vErrors !== null){
-if(_errs457){
-vErrors.length = _errs457;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data141.frontCorneringStiffness_pct !== undefined){
-let data152 = data141.frontCorneringStiffness_pct;
-const _errs467 = errors;
-let valid146 = false;
-let passing25 = null;
-const _errs468 = errors;
-if((typeof data152 == "number") && (isFinite(data152))){
-if(data152 > 90 || isNaN(data152)){
-const err465 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err465];
-}
-else {
-vErrors.push(err465);
-}
-errors++;
-}
-if(data152 < 0 || isNaN(data152)){
-const err466 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err466];
-}
-else {
-vErrors.push(err466);
-}
-errors++;
-}
-}
-else {
-const err467 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err467];
-}
-else {
-vErrors.push(err467);
-}
-errors++;
-}
-var _valid25 = _errs468 === errors;
-if(_valid25){
-valid146 = true;
-passing25 = 0;
-}
-const _errs470 = errors;
-if(Array.isArray(data152)){
-if(data152.length > 2){
-const err468 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err468];
-}
-else {
-vErrors.push(err468);
-}
-errors++;
-}
-if(data152.length < 2){
-const err469 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err469];
-}
-else {
-vErrors.push(err469);
-}
-errors++;
-}
-const len46 = data152.length;
-if(len46 > 0){
-let data153 = data152[0];
-if((typeof data153 == "number") && (isFinite(data153))){
-if(data153 > 0 || isNaN(data153)){
-const err470 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err470 = {instancePath:instancePath+"/variations/cgRearwardShift_m",schemaPath:"#/properties/variations/properties/cgRearwardShift_m/oneOf",keyword:"oneOf",params:{passingSchemas: passing24},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err470];
 }
@@ -12019,8 +11998,27 @@ vErrors.push(err470);
 }
 errors++;
 }
-if(data153 < -90 || isNaN(data153)){
-const err471 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs461;
+if(vErrors !== null){
+if(_errs461){
+vErrors.length = _errs461;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data143.frontCorneringStiffness_pct !== undefined){
+let data154 = data143.frontCorneringStiffness_pct;
+const _errs471 = errors;
+let valid146 = false;
+let passing25 = null;
+const _errs472 = errors;
+if((typeof data154 == "number") && (isFinite(data154))){
+if(data154 > 90 || isNaN(data154)){
+const err471 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err471];
 }
@@ -12029,9 +12027,8 @@ vErrors.push(err471);
 }
 errors++;
 }
-}
-else {
-const err472 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data154 < 0 || isNaN(data154)){
+const err472 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err472];
 }
@@ -12041,11 +12038,8 @@ vErrors.push(err472);
 errors++;
 }
 }
-if(len46 > 1){
-let data154 = data152[1];
-if((typeof data154 == "number") && (isFinite(data154))){
-if(data154 > 900 || isNaN(data154)){
-const err473 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err473 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err473];
 }
@@ -12054,8 +12048,15 @@ vErrors.push(err473);
 }
 errors++;
 }
-if(data154 < 0 || isNaN(data154)){
-const err474 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid25 = _errs472 === errors;
+if(_valid25){
+valid146 = true;
+passing25 = 0;
+}
+const _errs474 = errors;
+if(Array.isArray(data154)){
+if(data154.length > 2){
+const err474 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err474];
 }
@@ -12064,9 +12065,8 @@ vErrors.push(err474);
 }
 errors++;
 }
-}
-else {
-const err475 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data154.length < 2){
+const err475 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err475];
 }
@@ -12075,10 +12075,12 @@ vErrors.push(err475);
 }
 errors++;
 }
-}
-}
-else {
-const err476 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len46 = data154.length;
+if(len46 > 0){
+let data155 = data154[0];
+if((typeof data155 == "number") && (isFinite(data155))){
+if(data155 > 0 || isNaN(data155)){
+const err476 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err476];
 }
@@ -12087,7 +12089,75 @@ vErrors.push(err476);
 }
 errors++;
 }
-var _valid25 = _errs470 === errors;
+if(data155 < -90 || isNaN(data155)){
+const err477 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err477];
+}
+else {
+vErrors.push(err477);
+}
+errors++;
+}
+}
+else {
+const err478 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err478];
+}
+else {
+vErrors.push(err478);
+}
+errors++;
+}
+}
+if(len46 > 1){
+let data156 = data154[1];
+if((typeof data156 == "number") && (isFinite(data156))){
+if(data156 > 900 || isNaN(data156)){
+const err479 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err479];
+}
+else {
+vErrors.push(err479);
+}
+errors++;
+}
+if(data156 < 0 || isNaN(data156)){
+const err480 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err480];
+}
+else {
+vErrors.push(err480);
+}
+errors++;
+}
+}
+else {
+const err481 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err481];
+}
+else {
+vErrors.push(err481);
+}
+errors++;
+}
+}
+}
+else {
+const err482 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err482];
+}
+else {
+vErrors.push(err482);
+}
+errors++;
+}
+var _valid25 = _errs474 === errors;
 if(_valid25 && valid146){
 valid146 = false;
 passing25 = [passing25, 1];
@@ -12099,98 +12169,7 @@ passing25 = 1;
 }
 }
 if(!valid146){
-const err477 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing25},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err477];
-}
-else {
-vErrors.push(err477);
-}
-errors++;
-}
-else {
-errors = _errs467;
-if(vErrors !== null){
-if(_errs467){
-vErrors.length = _errs467;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data141.rearCorneringStiffness_pct !== undefined){
-let data155 = data141.rearCorneringStiffness_pct;
-const _errs477 = errors;
-let valid148 = false;
-let passing26 = null;
-const _errs478 = errors;
-if((typeof data155 == "number") && (isFinite(data155))){
-if(data155 > 90 || isNaN(data155)){
-const err478 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err478];
-}
-else {
-vErrors.push(err478);
-}
-errors++;
-}
-if(data155 < 0 || isNaN(data155)){
-const err479 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err479];
-}
-else {
-vErrors.push(err479);
-}
-errors++;
-}
-}
-else {
-const err480 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err480];
-}
-else {
-vErrors.push(err480);
-}
-errors++;
-}
-var _valid26 = _errs478 === errors;
-if(_valid26){
-valid148 = true;
-passing26 = 0;
-}
-const _errs480 = errors;
-if(Array.isArray(data155)){
-if(data155.length > 2){
-const err481 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err481];
-}
-else {
-vErrors.push(err481);
-}
-errors++;
-}
-if(data155.length < 2){
-const err482 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err482];
-}
-else {
-vErrors.push(err482);
-}
-errors++;
-}
-const len47 = data155.length;
-if(len47 > 0){
-let data156 = data155[0];
-if((typeof data156 == "number") && (isFinite(data156))){
-if(data156 > 0 || isNaN(data156)){
-const err483 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err483 = {instancePath:instancePath+"/variations/frontCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/frontCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing25},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err483];
 }
@@ -12199,8 +12178,27 @@ vErrors.push(err483);
 }
 errors++;
 }
-if(data156 < -90 || isNaN(data156)){
-const err484 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs471;
+if(vErrors !== null){
+if(_errs471){
+vErrors.length = _errs471;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data143.rearCorneringStiffness_pct !== undefined){
+let data157 = data143.rearCorneringStiffness_pct;
+const _errs481 = errors;
+let valid148 = false;
+let passing26 = null;
+const _errs482 = errors;
+if((typeof data157 == "number") && (isFinite(data157))){
+if(data157 > 90 || isNaN(data157)){
+const err484 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err484];
 }
@@ -12209,9 +12207,8 @@ vErrors.push(err484);
 }
 errors++;
 }
-}
-else {
-const err485 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data157 < 0 || isNaN(data157)){
+const err485 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err485];
 }
@@ -12221,11 +12218,8 @@ vErrors.push(err485);
 errors++;
 }
 }
-if(len47 > 1){
-let data157 = data155[1];
-if((typeof data157 == "number") && (isFinite(data157))){
-if(data157 > 900 || isNaN(data157)){
-const err486 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err486 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err486];
 }
@@ -12234,8 +12228,15 @@ vErrors.push(err486);
 }
 errors++;
 }
-if(data157 < 0 || isNaN(data157)){
-const err487 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid26 = _errs482 === errors;
+if(_valid26){
+valid148 = true;
+passing26 = 0;
+}
+const _errs484 = errors;
+if(Array.isArray(data157)){
+if(data157.length > 2){
+const err487 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err487];
 }
@@ -12244,9 +12245,8 @@ vErrors.push(err487);
 }
 errors++;
 }
-}
-else {
-const err488 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data157.length < 2){
+const err488 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err488];
 }
@@ -12255,10 +12255,12 @@ vErrors.push(err488);
 }
 errors++;
 }
-}
-}
-else {
-const err489 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len47 = data157.length;
+if(len47 > 0){
+let data158 = data157[0];
+if((typeof data158 == "number") && (isFinite(data158))){
+if(data158 > 0 || isNaN(data158)){
+const err489 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err489];
 }
@@ -12267,7 +12269,75 @@ vErrors.push(err489);
 }
 errors++;
 }
-var _valid26 = _errs480 === errors;
+if(data158 < -90 || isNaN(data158)){
+const err490 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err490];
+}
+else {
+vErrors.push(err490);
+}
+errors++;
+}
+}
+else {
+const err491 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/0",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err491];
+}
+else {
+vErrors.push(err491);
+}
+errors++;
+}
+}
+if(len47 > 1){
+let data159 = data157[1];
+if((typeof data159 == "number") && (isFinite(data159))){
+if(data159 > 900 || isNaN(data159)){
+const err492 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err492];
+}
+else {
+vErrors.push(err492);
+}
+errors++;
+}
+if(data159 < 0 || isNaN(data159)){
+const err493 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err493];
+}
+else {
+vErrors.push(err493);
+}
+errors++;
+}
+}
+else {
+const err494 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct/1",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err494];
+}
+else {
+vErrors.push(err494);
+}
+errors++;
+}
+}
+}
+else {
+const err495 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err495];
+}
+else {
+vErrors.push(err495);
+}
+errors++;
+}
+var _valid26 = _errs484 === errors;
 if(_valid26 && valid148){
 valid148 = false;
 passing26 = [passing26, 1];
@@ -12279,98 +12349,7 @@ passing26 = 1;
 }
 }
 if(!valid148){
-const err490 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing26},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err490];
-}
-else {
-vErrors.push(err490);
-}
-errors++;
-}
-else {
-errors = _errs477;
-if(vErrors !== null){
-if(_errs477){
-vErrors.length = _errs477;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data141.actuatorLag_pct !== undefined){
-let data158 = data141.actuatorLag_pct;
-const _errs487 = errors;
-let valid150 = false;
-let passing27 = null;
-const _errs488 = errors;
-if((typeof data158 == "number") && (isFinite(data158))){
-if(data158 > 90 || isNaN(data158)){
-const err491 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
-if(vErrors === null){
-vErrors = [err491];
-}
-else {
-vErrors.push(err491);
-}
-errors++;
-}
-if(data158 < 0 || isNaN(data158)){
-const err492 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err492];
-}
-else {
-vErrors.push(err492);
-}
-errors++;
-}
-}
-else {
-const err493 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err493];
-}
-else {
-vErrors.push(err493);
-}
-errors++;
-}
-var _valid27 = _errs488 === errors;
-if(_valid27){
-valid150 = true;
-passing27 = 0;
-}
-const _errs490 = errors;
-if(Array.isArray(data158)){
-if(data158.length > 2){
-const err494 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
-if(vErrors === null){
-vErrors = [err494];
-}
-else {
-vErrors.push(err494);
-}
-errors++;
-}
-if(data158.length < 2){
-const err495 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
-if(vErrors === null){
-vErrors = [err495];
-}
-else {
-vErrors.push(err495);
-}
-errors++;
-}
-const len48 = data158.length;
-if(len48 > 0){
-let data159 = data158[0];
-if((typeof data159 == "number") && (isFinite(data159))){
-if(data159 > 0 || isNaN(data159)){
-const err496 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
+const err496 = {instancePath:instancePath+"/variations/rearCorneringStiffness_pct",schemaPath:"#/properties/variations/properties/rearCorneringStiffness_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing26},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err496];
 }
@@ -12379,8 +12358,27 @@ vErrors.push(err496);
 }
 errors++;
 }
-if(data159 < -90 || isNaN(data159)){
-const err497 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+else {
+errors = _errs481;
+if(vErrors !== null){
+if(_errs481){
+vErrors.length = _errs481;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data143.actuatorLag_pct !== undefined){
+let data160 = data143.actuatorLag_pct;
+const _errs491 = errors;
+let valid150 = false;
+let passing27 = null;
+const _errs492 = errors;
+if((typeof data160 == "number") && (isFinite(data160))){
+if(data160 > 90 || isNaN(data160)){
+const err497 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 90},message:"must be <= 90"};
 if(vErrors === null){
 vErrors = [err497];
 }
@@ -12389,9 +12387,8 @@ vErrors.push(err497);
 }
 errors++;
 }
-}
-else {
-const err498 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data160 < 0 || isNaN(data160)){
+const err498 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err498];
 }
@@ -12401,11 +12398,8 @@ vErrors.push(err498);
 errors++;
 }
 }
-if(len48 > 1){
-let data160 = data158[1];
-if((typeof data160 == "number") && (isFinite(data160))){
-if(data160 > 900 || isNaN(data160)){
-const err499 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+else {
+const err499 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err499];
 }
@@ -12414,8 +12408,15 @@ vErrors.push(err499);
 }
 errors++;
 }
-if(data160 < 0 || isNaN(data160)){
-const err500 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+var _valid27 = _errs492 === errors;
+if(_valid27){
+valid150 = true;
+passing27 = 0;
+}
+const _errs494 = errors;
+if(Array.isArray(data160)){
+if(data160.length > 2){
+const err500 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/maxItems",keyword:"maxItems",params:{limit: 2},message:"must NOT have more than 2 items"};
 if(vErrors === null){
 vErrors = [err500];
 }
@@ -12424,9 +12425,8 @@ vErrors.push(err500);
 }
 errors++;
 }
-}
-else {
-const err501 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(data160.length < 2){
+const err501 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/minItems",keyword:"minItems",params:{limit: 2},message:"must NOT have fewer than 2 items"};
 if(vErrors === null){
 vErrors = [err501];
 }
@@ -12435,10 +12435,12 @@ vErrors.push(err501);
 }
 errors++;
 }
-}
-}
-else {
-const err502 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+const len48 = data160.length;
+if(len48 > 0){
+let data161 = data160[0];
+if((typeof data161 == "number") && (isFinite(data161))){
+if(data161 > 0 || isNaN(data161)){
+const err502 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/maximum",keyword:"maximum",params:{comparison: "<=", limit: 0},message:"must be <= 0"};
 if(vErrors === null){
 vErrors = [err502];
 }
@@ -12447,7 +12449,75 @@ vErrors.push(err502);
 }
 errors++;
 }
-var _valid27 = _errs490 === errors;
+if(data161 < -90 || isNaN(data161)){
+const err503 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/minimum",keyword:"minimum",params:{comparison: ">=", limit: -90},message:"must be >= -90"};
+if(vErrors === null){
+vErrors = [err503];
+}
+else {
+vErrors.push(err503);
+}
+errors++;
+}
+}
+else {
+const err504 = {instancePath:instancePath+"/variations/actuatorLag_pct/0",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/0/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err504];
+}
+else {
+vErrors.push(err504);
+}
+errors++;
+}
+}
+if(len48 > 1){
+let data162 = data160[1];
+if((typeof data162 == "number") && (isFinite(data162))){
+if(data162 > 900 || isNaN(data162)){
+const err505 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/maximum",keyword:"maximum",params:{comparison: "<=", limit: 900},message:"must be <= 900"};
+if(vErrors === null){
+vErrors = [err505];
+}
+else {
+vErrors.push(err505);
+}
+errors++;
+}
+if(data162 < 0 || isNaN(data162)){
+const err506 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err506];
+}
+else {
+vErrors.push(err506);
+}
+errors++;
+}
+}
+else {
+const err507 = {instancePath:instancePath+"/variations/actuatorLag_pct/1",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/items/1/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err507];
+}
+else {
+vErrors.push(err507);
+}
+errors++;
+}
+}
+}
+else {
+const err508 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf/1/type",keyword:"type",params:{type: "array"},message:"must be array"};
+if(vErrors === null){
+vErrors = [err508];
+}
+else {
+vErrors.push(err508);
+}
+errors++;
+}
+var _valid27 = _errs494 === errors;
 if(_valid27 && valid150){
 valid150 = false;
 passing27 = [passing27, 1];
@@ -12459,93 +12529,7 @@ passing27 = 1;
 }
 }
 if(!valid150){
-const err503 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing27},message:"must match exactly one schema in oneOf"};
-if(vErrors === null){
-vErrors = [err503];
-}
-else {
-vErrors.push(err503);
-}
-errors++;
-}
-else {
-errors = _errs487;
-if(vErrors !== null){
-if(_errs487){
-vErrors.length = _errs487;
-}
-else {
-vErrors = null;
-}
-}
-}
-}
-if(data141.addedLatency_s !== undefined){
-let data161 = data141.addedLatency_s;
-if((typeof data161 == "number") && (isFinite(data161))){
-if(data161 > 1 || isNaN(data161)){
-const err504 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
-if(vErrors === null){
-vErrors = [err504];
-}
-else {
-vErrors.push(err504);
-}
-errors++;
-}
-if(data161 < 0 || isNaN(data161)){
-const err505 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
-if(vErrors === null){
-vErrors = [err505];
-}
-else {
-vErrors.push(err505);
-}
-errors++;
-}
-}
-else {
-const err506 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
-if(vErrors === null){
-vErrors = [err506];
-}
-else {
-vErrors.push(err506);
-}
-errors++;
-}
-}
-if(data141.fromIdentification !== undefined){
-if(typeof data141.fromIdentification !== "boolean"){
-const err507 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
-if(vErrors === null){
-vErrors = [err507];
-}
-else {
-vErrors.push(err507);
-}
-errors++;
-}
-}
-if(data141.search !== undefined){
-let data163 = data141.search;
-if(data163 && typeof data163 == "object" && !Array.isArray(data163)){
-for(const key32 in data163){
-if(!(((key32 === "samples") || (key32 === "seed")) || (key32 === "localSearchEvaluations"))){
-const err508 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
-if(vErrors === null){
-vErrors = [err508];
-}
-else {
-vErrors.push(err508);
-}
-errors++;
-}
-}
-if(data163.samples !== undefined){
-let data164 = data163.samples;
-if(!(((typeof data164 == "number") && (!(data164 % 1) && !isNaN(data164))) && (isFinite(data164)))){
-const err509 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+const err509 = {instancePath:instancePath+"/variations/actuatorLag_pct",schemaPath:"#/properties/variations/properties/actuatorLag_pct/oneOf",keyword:"oneOf",params:{passingSchemas: passing27},message:"must match exactly one schema in oneOf"};
 if(vErrors === null){
 vErrors = [err509];
 }
@@ -12554,9 +12538,23 @@ vErrors.push(err509);
 }
 errors++;
 }
-if((typeof data164 == "number") && (isFinite(data164))){
-if(data164 > 4096 || isNaN(data164)){
-const err510 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
+else {
+errors = _errs491;
+if(vErrors !== null){
+if(_errs491){
+vErrors.length = _errs491;
+}
+else {
+vErrors = null;
+}
+}
+}
+}
+if(data143.addedLatency_s !== undefined){
+let data163 = data143.addedLatency_s;
+if((typeof data163 == "number") && (isFinite(data163))){
+if(data163 > 1 || isNaN(data163)){
+const err510 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1},message:"must be <= 1"};
 if(vErrors === null){
 vErrors = [err510];
 }
@@ -12565,8 +12563,8 @@ vErrors.push(err510);
 }
 errors++;
 }
-if(data164 < 0 || isNaN(data164)){
-const err511 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(data163 < 0 || isNaN(data163)){
+const err511 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err511];
 }
@@ -12576,11 +12574,8 @@ vErrors.push(err511);
 errors++;
 }
 }
-}
-if(data163.seed !== undefined){
-let data165 = data163.seed;
-if(!(((typeof data165 == "number") && (!(data165 % 1) && !isNaN(data165))) && (isFinite(data165)))){
-const err512 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+else {
+const err512 = {instancePath:instancePath+"/variations/addedLatency_s",schemaPath:"#/properties/variations/properties/addedLatency_s/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err512];
 }
@@ -12589,9 +12584,10 @@ vErrors.push(err512);
 }
 errors++;
 }
-if((typeof data165 == "number") && (isFinite(data165))){
-if(data165 > 4294967295 || isNaN(data165)){
-const err513 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
+}
+if(data143.fromIdentification !== undefined){
+if(typeof data143.fromIdentification !== "boolean"){
+const err513 = {instancePath:instancePath+"/variations/fromIdentification",schemaPath:"#/properties/variations/properties/fromIdentification/type",keyword:"type",params:{type: "boolean"},message:"must be boolean"};
 if(vErrors === null){
 vErrors = [err513];
 }
@@ -12600,8 +12596,13 @@ vErrors.push(err513);
 }
 errors++;
 }
-if(data165 < 0 || isNaN(data165)){
-const err514 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+}
+if(data143.search !== undefined){
+let data165 = data143.search;
+if(data165 && typeof data165 == "object" && !Array.isArray(data165)){
+for(const key32 in data165){
+if(!(((key32 === "samples") || (key32 === "seed")) || (key32 === "localSearchEvaluations"))){
+const err514 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/additionalProperties",keyword:"additionalProperties",params:{additionalProperty: key32},message:"must NOT have additional properties"};
 if(vErrors === null){
 vErrors = [err514];
 }
@@ -12611,11 +12612,10 @@ vErrors.push(err514);
 errors++;
 }
 }
-}
-if(data163.localSearchEvaluations !== undefined){
-let data166 = data163.localSearchEvaluations;
+if(data165.samples !== undefined){
+let data166 = data165.samples;
 if(!(((typeof data166 == "number") && (!(data166 % 1) && !isNaN(data166))) && (isFinite(data166)))){
-const err515 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+const err515 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err515];
 }
@@ -12625,8 +12625,8 @@ vErrors.push(err515);
 errors++;
 }
 if((typeof data166 == "number") && (isFinite(data166))){
-if(data166 > 1000 || isNaN(data166)){
-const err516 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(data166 > 4096 || isNaN(data166)){
+const err516 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4096},message:"must be <= 4096"};
 if(vErrors === null){
 vErrors = [err516];
 }
@@ -12636,7 +12636,7 @@ vErrors.push(err516);
 errors++;
 }
 if(data166 < 0 || isNaN(data166)){
-const err517 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+const err517 = {instancePath:instancePath+"/variations/search/samples",schemaPath:"#/properties/variations/properties/search/properties/samples/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err517];
 }
@@ -12647,9 +12647,10 @@ errors++;
 }
 }
 }
-}
-else {
-const err518 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data165.seed !== undefined){
+let data167 = data165.seed;
+if(!(((typeof data167 == "number") && (!(data167 % 1) && !isNaN(data167))) && (isFinite(data167)))){
+const err518 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
 if(vErrors === null){
 vErrors = [err518];
 }
@@ -12658,10 +12659,9 @@ vErrors.push(err518);
 }
 errors++;
 }
-}
-}
-else {
-const err519 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if((typeof data167 == "number") && (isFinite(data167))){
+if(data167 > 4294967295 || isNaN(data167)){
+const err519 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/maximum",keyword:"maximum",params:{comparison: "<=", limit: 4294967295},message:"must be <= 4294967295"};
 if(vErrors === null){
 vErrors = [err519];
 }
@@ -12670,15 +12670,85 @@ vErrors.push(err519);
 }
 errors++;
 }
-}
-}
-else {
-const err520 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data167 < 0 || isNaN(data167)){
+const err520 = {instancePath:instancePath+"/variations/search/seed",schemaPath:"#/properties/variations/properties/search/properties/seed/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
 if(vErrors === null){
 vErrors = [err520];
 }
 else {
 vErrors.push(err520);
+}
+errors++;
+}
+}
+}
+if(data165.localSearchEvaluations !== undefined){
+let data168 = data165.localSearchEvaluations;
+if(!(((typeof data168 == "number") && (!(data168 % 1) && !isNaN(data168))) && (isFinite(data168)))){
+const err521 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/type",keyword:"type",params:{type: "integer"},message:"must be integer"};
+if(vErrors === null){
+vErrors = [err521];
+}
+else {
+vErrors.push(err521);
+}
+errors++;
+}
+if((typeof data168 == "number") && (isFinite(data168))){
+if(data168 > 1000 || isNaN(data168)){
+const err522 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/maximum",keyword:"maximum",params:{comparison: "<=", limit: 1000},message:"must be <= 1000"};
+if(vErrors === null){
+vErrors = [err522];
+}
+else {
+vErrors.push(err522);
+}
+errors++;
+}
+if(data168 < 0 || isNaN(data168)){
+const err523 = {instancePath:instancePath+"/variations/search/localSearchEvaluations",schemaPath:"#/properties/variations/properties/search/properties/localSearchEvaluations/minimum",keyword:"minimum",params:{comparison: ">=", limit: 0},message:"must be >= 0"};
+if(vErrors === null){
+vErrors = [err523];
+}
+else {
+vErrors.push(err523);
+}
+errors++;
+}
+}
+}
+}
+else {
+const err524 = {instancePath:instancePath+"/variations/search",schemaPath:"#/properties/variations/properties/search/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err524];
+}
+else {
+vErrors.push(err524);
+}
+errors++;
+}
+}
+}
+else {
+const err525 = {instancePath:instancePath+"/variations",schemaPath:"#/properties/variations/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err525];
+}
+else {
+vErrors.push(err525);
+}
+errors++;
+}
+}
+}
+else {
+const err526 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err526];
+}
+else {
+vErrors.push(err526);
 }
 errors++;
 }
@@ -23795,7 +23865,7 @@ return errors === 0;
 }
 
 export const validateVehicleFile: SchemaValidator = validate36 as unknown as SchemaValidator;
-const schema23 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
+const schema23 = {"title":"speedband vehicle file","type":"object","additionalProperties":false,"required":["name","mass_kg","yawInertia_kgm2","cgToFrontAxle_m","cgToRearAxle_m","steeringRatio","maxSteerAngle_rad","maxSteerRate_radps"],"properties":{"$schema":{"type":"string","description":"Optional pointer to this schema, ignored."},"name":{"type":"string","minLength":1,"description":"Short name of the vehicle, shown in outputs."},"description":{"type":"string"},"mass_kg":{"type":"number","description":"Total mass including payload for the tests, kg."},"yawInertia_kgm2":{"type":"number","description":"Yaw moment of inertia about the vertical axis through the CG, kg·m²."},"cgToFrontAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the front axle, m."},"cgToRearAxle_m":{"type":"number","description":"Horizontal distance from the centre of gravity to the rear axle, m."},"steeringRatio":{"type":"number","description":"Steering-wheel angle per road-wheel angle, dimensionless (1 for by-wire road-wheel actuators)."},"maxSteerAngle_rad":{"type":"number","description":"Largest road-wheel angle the actuator reaches, rad."},"maxSteerRate_radps":{"type":"number","description":"Largest road-wheel angle rate of the actuator, rad/s."},"actuatorLag_s":{"type":"number","description":"First-order lag of the steering actuator position loop, s."},"actuatorDelay_s":{"type":"number","description":"Transport delay of the steering actuator, s."},"controllerSampleTime_s":{"type":"number","description":"Sample time of the firmware steering controller, s."},"serviceAcceleration_mps2":{"type":"number","description":"Acceleration the vehicle uses in service, m/s² (not the most it can do): the speed ramp through the range the scenarios judge a schedule by."},"serviceDeceleration_mps2":{"type":"number","description":"Service braking deceleration the vehicle uses, m/s² (not an emergency stop): the braking through the range the scenarios judge a schedule by."},"frontCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole front axle cornering stiffness (simulator only), N/rad."},"rearCorneringStiffness_NPerRad":{"type":"number","description":"Nominal whole rear axle cornering stiffness (simulator only), N/rad."}}};
 
 function validate36(data, {instancePath="", parentData, parentDataProperty, rootData=data}={}){
 let vErrors = null;
@@ -24072,10 +24142,10 @@ vErrors.push(err22);
 errors++;
 }
 }
-if(data.frontCorneringStiffness_NPerRad !== undefined){
-let data13 = data.frontCorneringStiffness_NPerRad;
+if(data.serviceAcceleration_mps2 !== undefined){
+let data13 = data.serviceAcceleration_mps2;
 if(!((typeof data13 == "number") && (isFinite(data13)))){
-const err23 = {instancePath:instancePath+"/frontCorneringStiffness_NPerRad",schemaPath:"#/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err23 = {instancePath:instancePath+"/serviceAcceleration_mps2",schemaPath:"#/properties/serviceAcceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err23];
 }
@@ -24085,10 +24155,10 @@ vErrors.push(err23);
 errors++;
 }
 }
-if(data.rearCorneringStiffness_NPerRad !== undefined){
-let data14 = data.rearCorneringStiffness_NPerRad;
+if(data.serviceDeceleration_mps2 !== undefined){
+let data14 = data.serviceDeceleration_mps2;
 if(!((typeof data14 == "number") && (isFinite(data14)))){
-const err24 = {instancePath:instancePath+"/rearCorneringStiffness_NPerRad",schemaPath:"#/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+const err24 = {instancePath:instancePath+"/serviceDeceleration_mps2",schemaPath:"#/properties/serviceDeceleration_mps2/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err24];
 }
@@ -24098,14 +24168,40 @@ vErrors.push(err24);
 errors++;
 }
 }
-}
-else {
-const err25 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(data.frontCorneringStiffness_NPerRad !== undefined){
+let data15 = data.frontCorneringStiffness_NPerRad;
+if(!((typeof data15 == "number") && (isFinite(data15)))){
+const err25 = {instancePath:instancePath+"/frontCorneringStiffness_NPerRad",schemaPath:"#/properties/frontCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
 if(vErrors === null){
 vErrors = [err25];
 }
 else {
 vErrors.push(err25);
+}
+errors++;
+}
+}
+if(data.rearCorneringStiffness_NPerRad !== undefined){
+let data16 = data.rearCorneringStiffness_NPerRad;
+if(!((typeof data16 == "number") && (isFinite(data16)))){
+const err26 = {instancePath:instancePath+"/rearCorneringStiffness_NPerRad",schemaPath:"#/properties/rearCorneringStiffness_NPerRad/type",keyword:"type",params:{type: "number"},message:"must be number"};
+if(vErrors === null){
+vErrors = [err26];
+}
+else {
+vErrors.push(err26);
+}
+errors++;
+}
+}
+}
+else {
+const err27 = {instancePath,schemaPath:"#/type",keyword:"type",params:{type: "object"},message:"must be object"};
+if(vErrors === null){
+vErrors = [err27];
+}
+else {
+vErrors.push(err27);
 }
 errors++;
 }

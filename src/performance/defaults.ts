@@ -49,9 +49,19 @@ export const SIMULATION_DEFAULTS = {
   initialOffset: { heading: 0.05, path: 0.5 },
   /** Time simulated after a manoeuvre, s: long enough for a 15 s recovery and a tail in which to look for a limit cycle. */
   settle_s: 30,
-  /** Speed ramp through the range while following a curve: acceleration, m/s² (≈ 0.1 g, a moderate acceleration; our choice). */
+  /**
+   * Speed ramp through the range while following a curve: acceleration, m/s² (≈ 0.1 g, a moderate acceleration; our
+   * choice). A vehicle file's serviceAcceleration_mps2 replaces it (plan check.rampAcceleration_mps2).
+   */
   rampAcceleration_mps2: 1,
-  /** Braking through the range: deceleration, m/s² (≈ 0.2 g, firm but not an emergency stop; our choice). */
+  /**
+   * Braking through the range: deceleration, m/s² (≈ 0.2 g, firm but not an emergency stop for a road vehicle; our
+   * choice). The scenario judges the schedule at the braking the vehicle does in service, so a vehicle file's
+   * serviceDeceleration_mps2 replaces it (plan check.brakingDeceleration_mps2): a vineyard sprayer with a full tank on
+   * a slope brakes far more gently than a van in traffic (common practice: agricultural machines keep their braking
+   * gentle to keep the load and the machine stable on a slope). What the schedule would stand — the largest rate
+   * that keeps the limits — is the speed-change certificate, whatever rate is judged here.
+   */
   brakingDeceleration_mps2: 2,
   /** Constant speed in the curve before and after a speed change, s. */
   rampHold_s: 10,

@@ -10,7 +10,7 @@
  * growing with amplitude; limit cycles, Gelb & Vander Velde 1968) shows here and in no linear figure.
  */
 import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
-import { actuatorPieces } from './actuator-motion.js';
+import { actuatorPiecesInto, PIECE_FIELDS, PIECE_TRACK } from './actuator-motion.js';
 import { matrixExponential } from '../lti/matrix-exponential.js';
 import { controllableCanonicalForm } from '../lti/state-space.js';
 import type { TransferFunction } from '../lti/types.js';
@@ -60,10 +60,9 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
   const rateInput = Array.from({ length: size }, (_, i) => (i === n ? 1 : 0));
   const { wholeSamples, fraction_s } = splitDelay(input.actuator.delay_s, ts);
   const standard = new Set([ts, fraction_s, ts - fraction_s]);
-  const cache = new Map<string, Piece>();
+  const cache = { track: new Map<number, Piece>(), free: new Map<number, Piece>() };
   const piece = (kind: 'track' | 'free', h: number): Piece => {
-    const key = `${kind}:${h}`;
-    const cached = cache.get(key);
+    const cached = cache[kind].get(h);
     if (cached !== undefined) return cached;
     const f = kind === 'track' ? track : free;
     const g = kind === 'track' ? trackInput : rateInput;
@@ -75,7 +74,7 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
       phi: Float64Array.from(e.slice(0, size).flatMap((row) => row.slice(0, size))),
       gamma: Float64Array.from(e.slice(0, size).map((row) => row[size])),
     };
-    if (standard.has(h)) cache.set(key, result);
+    if (standard.has(h)) cache[kind].set(h, result);
     return result;
   };
   const z = new Float64Array(size);
@@ -89,10 +88,13 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
     z.set(next);
   };
   /** Advance h seconds with the delayed, angle-limited command c held (actuator-motion.ts). */
+  const pieces = new Float64Array(2 * PIECE_FIELDS);
   const advance = (c: number, h: number): void => {
-    for (const motion of actuatorPieces({ angle: z[n], target: c, duration_s: h, lag_s: lag, rate_radps: rate })) {
-      if (motion.startAngle !== undefined) z[n] = motion.startAngle;
-      apply(piece(motion.kind, motion.duration_s), motion.input);
+    const count = actuatorPiecesInto(z[n], c, h, lag, rate, pieces);
+    for (let p = 0; p < count; p++) {
+      const at = p * PIECE_FIELDS;
+      if (!Number.isNaN(pieces[at + 3])) z[n] = pieces[at + 3];
+      apply(piece(pieces[at] === PIECE_TRACK ? 'track' : 'free', pieces[at + 1]), pieces[at + 2]);
     }
   };
   const count = input.reference.length;

@@ -64,22 +64,30 @@ export function pathFrameSystem(
 export function pathFrameDerivative(
   system: { readonly a: Float64Array; readonly b: Float64Array },
   x: Float64Array,
-  inputs: readonly number[],
+  inputs: ArrayLike<number>,
   out: Float64Array,
 ): void {
-  const n = x.length;
-  const m = inputs.length;
-  for (let i = 0; i < n; i++) {
-    let sum = 0;
-    for (let j = 0; j < n; j++) sum += system.a[i * n + j] * x[j];
-    for (let j = 0; j < m; j++) sum += system.b[i * m + j] * inputs[j];
-    out[i] = sum;
-  }
+  for (let i = 0; i < x.length; i++) out[i] = pathFrameDerivativeRow(system, x, inputs, i);
 }
 
-/** Lateral acceleration ay = v̇y + vx·r, m/s², from the derivative of the state. */
-export function lateralAcceleration_mps2(derivative: Float64Array, x: Float64Array, speed_mps: number): number {
-  return derivative[STATE.lateralVelocity] + speed_mps * x[STATE.yawRate];
+/** Row i of ẋ = A·x + B·[w, κ, F, b] (pathFrameDerivative one row at a time: the lateral acceleration needs only row 0). */
+export function pathFrameDerivativeRow(
+  system: { readonly a: Float64Array; readonly b: Float64Array },
+  x: Float64Array,
+  inputs: ArrayLike<number>,
+  i: number,
+): number {
+  const n = x.length;
+  const m = inputs.length;
+  let sum = 0;
+  for (let j = 0; j < n; j++) sum += system.a[i * n + j] * x[j];
+  for (let j = 0; j < m; j++) sum += system.b[i * m + j] * inputs[j];
+  return sum;
+}
+
+/** Lateral acceleration ay = v̇y + vx·r, m/s², from v̇y (row 0 of the derivative) and the state. */
+export function lateralAcceleration_mps2(lateralVelocityRate: number, x: Float64Array, speed_mps: number): number {
+  return lateralVelocityRate + speed_mps * x[STATE.yawRate];
 }
 
 /**
@@ -92,19 +100,28 @@ export function pathFrameDerivativeAt(
   kind: 'free' | 'track',
   lag_s: number,
   x: Float64Array,
-  inputs: readonly number[],
+  inputs: ArrayLike<number>,
   out: Float64Array,
 ): void {
-  const { mass_kg: m, yawInertia_kgm2: iz, cgToFrontAxle_m: a, cgToRearAxle_m: b } = parameters;
+  const { yawInertia_kgm2: iz, cgToFrontAxle_m: a, cgToRearAxle_m: b } = parameters;
   const cf = parameters.frontCorneringStiffness_NPerRad;
   const cr = parameters.rearCorneringStiffness_NPerRad;
   const vx = speed_mps;
-  const vy = x[0];
   const r = x[1];
   const wheel = x[4] + inputs[3];
-  out[0] = (-(cf + cr) / (m * vx)) * vy + (-(a * cf - b * cr) / (m * vx) - vx) * r + (cf / m) * wheel + inputs[2] / m;
-  out[1] = (-(a * cf - b * cr) / (iz * vx)) * vy + (-(a * a * cf + b * b * cr) / (iz * vx)) * r + ((a * cf) / iz) * wheel;
+  out[0] = lateralVelocityRateAt(parameters, speed_mps, x, inputs);
+  out[1] = (-(a * cf - b * cr) / (iz * vx)) * x[0] + (-(a * a * cf + b * b * cr) / (iz * vx)) * r + ((a * cf) / iz) * wheel;
   out[2] = r - vx * inputs[1];
-  out[3] = vy + vx * x[2];
+  out[3] = x[0] + vx * x[2];
   out[4] = kind === 'track' && lag_s > 0 ? (inputs[0] - x[4]) / lag_s : inputs[0];
+}
+
+/** v̇y, the first row of pathFrameDerivativeAt (all the lateral acceleration needs). */
+export function lateralVelocityRateAt(parameters: SingleTrackParameters, speed_mps: number, x: Float64Array, inputs: ArrayLike<number>): number {
+  const { mass_kg: m, cgToFrontAxle_m: a, cgToRearAxle_m: b } = parameters;
+  const cf = parameters.frontCorneringStiffness_NPerRad;
+  const cr = parameters.rearCorneringStiffness_NPerRad;
+  const vx = speed_mps;
+  const wheel = x[4] + inputs[3];
+  return (-(cf + cr) / (m * vx)) * x[0] + (-(a * cf - b * cr) / (m * vx) - vx) * x[1] + (cf / m) * wheel + inputs[2] / m;
 }

@@ -43,8 +43,10 @@ export const SCENARIO_DESCRIPTIONS: Readonly<Record<ScenarioName, string>> = {
   'side-force': 'lateral force step at the centre of gravity, 5 % of the vehicle weight (crosswind-like)',
   'lane-change': '3.5 m lane change over 4 s of travel (at least 20 m), fifth-order path',
   'curve-entry': 'from straight into a constant curve (2 m/s² lateral acceleration, at most half the steering range)',
-  'speed-ramp-in-curve': 'in a curve, accelerate from the lowest to the highest speed of the range (1 m/s²)',
-  'braking-in-curve': 'in a curve, brake from the highest to the lowest speed of the range (2 m/s²)',
+  'speed-ramp-in-curve':
+    "in a curve, accelerate from the lowest to the highest speed of the range (the plan's check.rampAcceleration_mps2: the vehicle's own in service, else 1 m/s²)",
+  'braking-in-curve':
+    "in a curve, brake from the highest to the lowest speed of the range (the plan's check.brakingDeceleration_mps2: the vehicle's service braking, else 2 m/s²)",
 };
 
 /** How the metrics judge a run: a step (overshoot, settling to 2 % of it) or a disturbance or manoeuvre (recovery to 5 % of the peak error). */

@@ -7,7 +7,7 @@
  * the error within maximumSpeedChangeError (the plan's, in the loop's unit).
  */
 import type { LoopKind } from '../loops/types.js';
-import type { ScenarioName } from './scenario-catalogue.js';
+import { RANGE_SCENARIOS, type ScenarioName } from './scenario-catalogue.js';
 import type { ScenarioMetrics } from './scenario-metrics.js';
 import type { TimeDomainLimits } from './types.js';
 import { atSpeed, valueAtSpeed, type OverSpeed } from '../core/by-speed.js';
@@ -47,7 +47,11 @@ export interface JudgedRun {
 
 /** A scenario run (scenario-run.ts) at `speed_mps`, as judgeScenarioRun takes it. */
 export function judgedRun(run: Pick<ScenarioRun, 'scenario' | 'traces' | 'metrics'>, speed_mps: number): JudgedRun {
-  return { scenario: run.scenario.name, speed_mps, metrics: run.metrics, traces: run.traces, judgedFrom: firstJudgedSample(run.scenario, run.traces) };
+  const judged = { scenario: run.scenario.name, speed_mps, metrics: run.metrics };
+  if (!RANGE_SCENARIOS.includes(run.scenario.name)) return judged;
+  // Only a speed change keeps traces (its speed and error): the record may cross to another thread.
+  const traces = { speed_mps: run.traces.speed_mps, error: run.traces.error };
+  return { ...judged, traces, judgedFrom: firstJudgedSample(run.scenario, run.traces) };
 }
 
 /**

@@ -5,30 +5,17 @@
  * delay, the actuator's rate and angle limits and its lag (actuator-motion.ts), and drives the single-track
  * vehicle relative to the path (path-frame-vehicle.ts) at the speed of the moment.
  *
- * Integration. Over a sample in which the speed does not change the plant is linear and time-invariant between
- * the actuator's switching instants, so each piece is integrated exactly with the matrix exponential (Åström &
- * Wittenmark, Computer-Controlled Systems, §2.3; the exogenous signals — curvature, force, misalignment — taken
- * at the middle of each piece and held). Over a sample in which the speed changes the model is re-evaluated at
- * the instantaneous speed and integrated by the classical fourth-order Runge–Kutta method (Kutta 1901) with a
- * fixed number of steps per sample, each actuator piece on its own (no switch inside a step); scenario-run.ts
- * chooses that number by halving the step until no metric moves by more than 0.1 %.
+ * The plant between samples, exact at constant speed and by fourth-order Runge–Kutta while the speed changes, is
+ * scenario-plant.ts; scenario-run.ts chooses the Runge–Kutta steps per sample by halving the step until no metric
+ * moves by more than 0.1 %.
  */
 import { firmwareStep, initialFirmwareState, type FirmwareGains, type FirmwareSettings } from '../controller/firmware-step.js';
 import { previewFromCg_m } from '../loops/build.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { matrixExponential } from '../lti/matrix-exponential.js';
 import { splitDelay } from '../verify/sampled-plant.js';
 import type { SingleTrackParameters } from '../vehicle/types.js';
-import { visitActuatorPieces } from './actuator-motion.js';
-import {
-  INPUTS as INPUT_COUNT,
-  lateralAcceleration_mps2,
-  pathFrameDerivative,
-  pathFrameDerivativeAt,
-  pathFrameSystem,
-  STATE as STATE_INDEX,
-  STATES as STATE_COUNT,
-} from './path-frame-vehicle.js';
+import { lateralAcceleration_mps2, STATE } from './path-frame-vehicle.js';
+import { advancePlant, beginSample, pathDistanceAt_m, startPlant, valueAt } from './scenario-plant.js';
 import type { PathShape } from './scenarios.js';
 import { distanceAt_m, speedAt_mps, type SpeedProfile } from './speed-profile.js';
 
@@ -101,13 +88,6 @@ export interface ScenarioTraces {
   readonly integrator: { readonly name: 'exact' | 'runge-kutta-4'; readonly stepsPerSample: number };
 }
 
-// Local copies: the inner loops read them on every step.
-const STATES = STATE_COUNT;
-const INPUTS = INPUT_COUNT;
-const STATE = { ...STATE_INDEX };
-
-const valueAt = (change: StepChange | null, time_s: number): number => (change !== null && time_s >= change.time_s ? change.size : 0);
-
 /**
  * Stopping at rest (for judging, not for traces): once every input has stopped changing (`setup.restAfter_s`) and for
  * REST.window_s the error, the command and the wheel angle have each changed by at most REST.relativeChange of their
@@ -137,114 +117,10 @@ export function simulateScenario(input: ScenarioSimulationInput): ScenarioTraces
   const settings = controller.settings;
   const ts = settings.sampleTime_s;
   const count = Math.floor(setup.duration_s / ts + 1e-9) + 1;
-  const lag = parameters.actuatorLag_s < 1e-6 * ts ? 0 : parameters.actuatorLag_s;
   const { wholeSamples, fraction_s } = splitDelay(parameters.actuatorDelay_s + settings.computationLatency_s, ts);
-  const pathS = (time_s: number): number => distanceAt_m(setup.speed, time_s) - setup.pathStart_m;
-  // One array reused for every evaluation (the inner loops allocate nothing).
-  const inputs = [0, 0, 0, 0];
-  const inputsAt = (time_s: number, w: number): number[] => {
-    inputs[0] = w;
-    inputs[1] = setup.path.curvature(pathS(time_s));
-    inputs[2] = valueAt(setup.lateralForce, time_s);
-    inputs[3] = valueAt(setup.misalignment, time_s);
-    return inputs;
-  };
-
-  const x = new Float64Array(STATES);
-  x[STATE.lateralOffset] = setup.initialLateralOffset_m;
-  x[STATE.headingError] = setup.initialHeadingError_rad;
-  const scratch = new Float64Array(STATES);
-
-  // Exact pieces over samples at constant speed: e^([[A, B], [0, 0]]·h) = [[Φ, Γ], [0, I]], per speed (a speed
-  // profile has at most two constant stretches) and piece kind.
-  type Exact = {
-    readonly systems: Record<'free' | 'track', { a: Float64Array; b: Float64Array }>;
-    readonly cache: Record<'free' | 'track', Map<number, { phi: Float64Array; gamma: Float64Array }>>;
-  };
-  const exactBySpeed = new Map<number, Exact>();
-  const exactAt = (speed_mps: number): Exact => {
-    let found = exactBySpeed.get(speed_mps);
-    if (found === undefined) {
-      found = {
-        systems: { free: pathFrameSystem(parameters, speed_mps, 'free', lag), track: pathFrameSystem(parameters, speed_mps, 'track', lag) },
-        cache: { free: new Map(), track: new Map() },
-      };
-      exactBySpeed.set(speed_mps, found);
-    }
-    return found;
-  };
-  const exactPiece = (exactHere: Exact, kind: 'free' | 'track', h: number): { phi: Float64Array; gamma: Float64Array } => {
-    const cached = exactHere.cache[kind].get(h);
-    if (cached !== undefined) return cached;
-    const system = exactHere.systems[kind];
-    const size = STATES + INPUTS;
-    const augmented = Array.from({ length: size }, (_, i) =>
-      Array.from({ length: size }, (_, j) => (i >= STATES ? 0 : j < STATES ? system.a[i * STATES + j] * h : system.b[i * INPUTS + j - STATES] * h)),
-    );
-    const e = matrixExponential(augmented);
-    const result = {
-      phi: Float64Array.from(e.slice(0, STATES).flatMap((row) => row.slice(0, STATES))),
-      gamma: Float64Array.from(e.slice(0, STATES).flatMap((row) => row.slice(STATES))),
-    };
-    if (exactHere.cache[kind].size < 64) exactHere.cache[kind].set(h, result);
-    return result;
-  };
-  let exactHere: Exact | null = null;
-  let rungeKuttaUsed = false;
-  const derivative = (time_s: number, state: Float64Array, kind: 'free' | 'track', w: number, out: Float64Array): void => {
-    pathFrameDerivativeAt(parameters, speedAt_mps(setup.speed, time_s), kind, lag, state, inputsAt(time_s, w), out);
-  };
-  const k1 = new Float64Array(STATES);
-  const k2 = new Float64Array(STATES);
-  const k3 = new Float64Array(STATES);
-  const k4 = new Float64Array(STATES);
-  const stage = new Float64Array(STATES);
-  const rungeKutta = (t0: number, h: number, kind: 'free' | 'track', w: number): void => {
-    derivative(t0, x, kind, w, k1);
-    for (let i = 0; i < STATES; i++) stage[i] = x[i] + (h / 2) * k1[i];
-    derivative(t0 + h / 2, stage, kind, w, k2);
-    for (let i = 0; i < STATES; i++) stage[i] = x[i] + (h / 2) * k2[i];
-    derivative(t0 + h / 2, stage, kind, w, k3);
-    for (let i = 0; i < STATES; i++) stage[i] = x[i] + h * k3[i];
-    derivative(t0 + h, stage, kind, w, k4);
-    for (let i = 0; i < STATES; i++) x[i] += (h / 6) * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]);
-  };
-  let peakRate = 0;
-  let atRateLimit = 0;
+  const plant = startPlant(parameters, setup, { sampleTime_s: ts, stepsPerSample, maxSteerRate_radps: vehicle.maxSteerRate_radps });
+  const x = plant.x;
   let atAngleLimit = 0;
-  // The piece visitor (no allocation per sample): integrates one piece from `pieceTime` and records its rate at the start.
-  let pieceTime = 0;
-  let firstRate = Number.NaN;
-  const integratePiece = (kind: 'free' | 'track', duration: number, input: number, startAngle: number, atLimit: boolean): void => {
-    if (!Number.isNaN(startAngle)) x[STATE.steerAngle] = startAngle;
-    const rate = kind === 'free' ? input : (input - x[STATE.steerAngle]) / lag;
-    if (Number.isNaN(firstRate)) firstRate = rate;
-    peakRate = Math.max(peakRate, Math.abs(rate));
-    if (atLimit) atRateLimit += duration;
-    if (exactHere !== null) {
-      const { phi, gamma } = exactPiece(exactHere, kind, duration);
-      inputsAt(pieceTime + duration / 2, input);
-      for (let i = 0; i < STATES; i++) {
-        let sum = 0;
-        for (let j = 0; j < STATES; j++) sum += phi[i * STATES + j] * x[j];
-        for (let j = 0; j < INPUTS; j++) sum += gamma[i * INPUTS + j] * inputs[j];
-        scratch[i] = sum;
-      }
-      x.set(scratch);
-    } else {
-      const steps = Math.max(1, Math.ceil((duration / ts) * stepsPerSample - 1e-9));
-      const h = duration / steps;
-      for (let s = 0; s < steps; s++) rungeKutta(pieceTime + s * h, h, kind, input);
-    }
-    pieceTime += duration;
-  };
-  /** Advance from t0 over h seconds with the delayed, angle-limited command c held; returns the wheel rate at t0. */
-  const advance = (t0: number, c: number, h: number): number => {
-    pieceTime = t0;
-    firstRate = Number.NaN;
-    visitActuatorPieces(x[STATE.steerAngle], c, h, lag, vehicle.maxSteerRate_radps, integratePiece);
-    return Number.isNaN(firstRate) ? 0 : firstRate;
-  };
 
   const traces = {
     time_s: new Float64Array(count),
@@ -262,6 +138,10 @@ export function simulateScenario(input: ScenarioSimulationInput): ScenarioTraces
     lateralOffset_m: new Float64Array(count),
     headingError_rad: new Float64Array(count),
   };
+  // The traces as locals: the loop writes each at every sample (a property read less each, while the code is still interpreted).
+  const { time_s: timeTrace, speed_mps: speedTrace, distance_m: distanceTrace, reference: referenceTrace, measurement: measurementTrace } = traces;
+  const { error: errorTrace, feedForwardInput: feedForwardTrace, steerAngle_rad: angleTrace, steerRate_radps: rateTrace, yawRate_radps: yawRateTrace } = traces;
+  const { lateralAcceleration_mps2: lateralAccelerationTrace, lateralOffset_m: offsetTrace, headingError_rad: headingErrorTrace } = traces;
   const command = traces.command_rad;
   const angleLimit = vehicle.maxSteerAngle_rad;
   const delayed = (j: number): number => (j < 0 ? 0 : Math.min(angleLimit, Math.max(-angleLimit, command[j])));
@@ -269,7 +149,7 @@ export function simulateScenario(input: ScenarioSimulationInput): ScenarioTraces
   let state = initialFirmwareState();
   let lookedUpSpeed = Number.NaN;
   let scheduled = controller.at(setup.speed.initial_mps);
-  const derivativeNow = new Float64Array(STATES);
+  const still = (values: Float64Array, k: number, largest: number): boolean => Math.abs(values[k] - values[k - 1]) <= REST.relativeChange * largest;
   const restWindow = Math.max(1, Math.round(REST.window_s / ts));
   let quietSamples = 0;
   let largestError = 0;
@@ -289,7 +169,7 @@ export function simulateScenario(input: ScenarioSimulationInput): ScenarioTraces
       break;
     }
     const v = speedAt_mps(setup.speed, t);
-    const s = pathS(t);
+    const s = pathDistanceAt_m(setup, t);
     if (v !== lookedUpSpeed) {
       scheduled = controller.at(v);
       lookedUpSpeed = v;
@@ -318,45 +198,40 @@ export function simulateScenario(input: ScenarioSimulationInput): ScenarioTraces
     state = out.state;
     command[k] = out.command;
     if (Math.abs(out.unlimited) > settings.commandLimit_rad) atAngleLimit += ts;
-    // Exact over this sample when the speed does not change in it.
-    exactHere = speedAt_mps(setup.speed, t + ts) === v ? exactAt(v) : null;
-    if (exactHere === null) {
-      rungeKuttaUsed = true;
-      pathFrameDerivativeAt(parameters, v, 'free', lag, x, inputsAt(t, 0), derivativeNow);
-    } else pathFrameDerivative(exactHere.systems.free, x, inputsAt(t, 0), derivativeNow);
-    traces.time_s[k] = t;
-    traces.speed_mps[k] = v;
-    traces.distance_m[k] = distanceAt_m(setup.speed, t);
-    traces.reference[k] = reference;
-    traces.measurement[k] = measurement;
-    traces.error[k] = reference - measurement;
-    traces.feedForwardInput[k] = feedForwardInput;
-    traces.steerAngle_rad[k] = x[STATE.steerAngle];
-    traces.yawRate_radps[k] = x[STATE.yawRate];
-    traces.lateralAcceleration_mps2[k] = lateralAcceleration_mps2(derivativeNow, x, v);
-    traces.lateralOffset_m[k] = x[STATE.lateralOffset];
-    traces.headingError_rad[k] = x[STATE.headingError];
+    // Exact over this sample when the speed does not change in it; v̇y now for the lateral acceleration.
+    const lateralVelocityRate = beginSample(plant, t, v);
+    timeTrace[k] = t;
+    speedTrace[k] = v;
+    distanceTrace[k] = distanceAt_m(setup.speed, t);
+    referenceTrace[k] = reference;
+    measurementTrace[k] = measurement;
+    errorTrace[k] = reference - measurement;
+    feedForwardTrace[k] = feedForwardInput;
+    angleTrace[k] = x[STATE.steerAngle];
+    yawRateTrace[k] = x[STATE.yawRate];
+    lateralAccelerationTrace[k] = lateralAcceleration_mps2(lateralVelocityRate, x, v);
+    offsetTrace[k] = x[STATE.lateralOffset];
+    headingErrorTrace[k] = x[STATE.headingError];
     if (stopAtRest && k > 0) {
-      largestError = Math.max(largestError, Math.abs(traces.error[k]));
+      largestError = Math.max(largestError, Math.abs(errorTrace[k]));
       largestCommand = Math.max(largestCommand, Math.abs(command[k]));
       largestAngle = Math.max(largestAngle, Math.abs(x[STATE.steerAngle]));
-      const still = (values: Float64Array, largest: number): boolean => Math.abs(values[k] - values[k - 1]) <= REST.relativeChange * largest;
-      const quiet = t > setup.restAfter_s && still(traces.error, largestError) && still(command, largestCommand) && still(traces.steerAngle_rad, largestAngle);
+      const quiet = t > setup.restAfter_s && still(errorTrace, k, largestError) && still(command, k, largestCommand) && still(angleTrace, k, largestAngle);
       quietSamples = quiet ? quietSamples + 1 : 0;
     }
     // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.
     if (fraction_s > 0) {
-      traces.steerRate_radps[k] = advance(t, delayed(k - wholeSamples - 1), fraction_s);
-      advance(t + fraction_s, delayed(k - wholeSamples), ts - fraction_s);
+      rateTrace[k] = advancePlant(plant, t, delayed(k - wholeSamples - 1), fraction_s);
+      advancePlant(plant, t + fraction_s, delayed(k - wholeSamples), ts - fraction_s);
     } else {
-      traces.steerRate_radps[k] = advance(t, delayed(k - wholeSamples), ts);
+      rateTrace[k] = advancePlant(plant, t, delayed(k - wholeSamples), ts);
     }
   }
   return {
     ...traces,
-    peakSteerRate_radps: peakRate,
+    peakSteerRate_radps: plant.peakSteerRate_radps,
     timeAtAngleLimit_s: atAngleLimit,
-    timeAtRateLimit_s: atRateLimit,
-    integrator: rungeKuttaUsed ? { name: 'runge-kutta-4', stepsPerSample } : { name: 'exact', stepsPerSample: 1 },
+    timeAtRateLimit_s: plant.timeAtRateLimit_s,
+    integrator: plant.rungeKuttaUsed ? { name: 'runge-kutta-4', stepsPerSample } : { name: 'exact', stepsPerSample: 1 },
   };
 }

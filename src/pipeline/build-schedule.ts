@@ -7,8 +7,8 @@
 import { readFileSync } from 'node:fs';
 import type { ControllerSettings, PidGains } from '../controller/types.js';
 import { fastestPassing, freeParameterOf, limitsWithRoom } from './fastest-passing.js';
-import { judgeScheduleScenarios, scenarioParameters, scheduleScenarioController } from './simulate-schedule.js';
-import { speedChangeCertificate } from './speed-change-certificate.js';
+import { scenarioParameters } from './simulate-schedule.js';
+import { scenarioStage, startScenarioHelper } from './scenario-stage.js';
 import { SEARCH_SCENARIOS } from '../performance/breakpoint-scenarios.js';
 import { makeBreakpointEvaluator, type BreakpointEvaluation } from './breakpoint-evaluation.js';
 import type { BreakpointExtras } from '../schedule/schedule-file.js';
@@ -22,7 +22,7 @@ import type { ModelsFile } from '../identify/models-schema.js';
 import type { ReadLogOptions } from '../log/read.js';
 import type { Vehicle } from '../vehicle/types.js';
 import type { LoopSpecification } from '../loops/types.js';
-import { readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
+import { planSpeedChanges, readPlanFile, resolvePlan, type PartialPlan, type Plan } from '../schedule/plan.js';
 import { acceptanceLimits, compileAcceptanceExpressions } from '../schedule/acceptance-limits.js';
 import { atSpeed as readAtSpeed } from '../core/by-speed.js';
 import { makeWorstCaseEvaluator } from './worst-case-evaluation.js';
@@ -180,7 +180,12 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   const written = input.plan;
   const ruleParametersAt = await makeRuleParameterLookup(written.rule?.parameters ?? {}, input.planFile);
   const testSpeeds_mps = models.speeds.map((speed) => speed.speed_mps);
-  const context = { testSpeeds_mps, ...(vehicle.controllerSampleTime_s === undefined ? {} : { vehicleSampleTime_s: vehicle.controllerSampleTime_s }) };
+  const context = {
+    testSpeeds_mps,
+    ...(vehicle.controllerSampleTime_s === undefined ? {} : { vehicleSampleTime_s: vehicle.controllerSampleTime_s }),
+    ...(vehicle.serviceAcceleration_mps2 === undefined ? {} : { vehicleServiceAcceleration_mps2: vehicle.serviceAcceleration_mps2 }),
+    ...(vehicle.serviceDeceleration_mps2 === undefined ? {} : { vehicleServiceDeceleration_mps2: vehicle.serviceDeceleration_mps2 }),
+  };
   const resolved = resolvePlan(written, { ...context, ...(input.planFile === undefined ? {} : { file: input.planFile }) });
   const checkModel = checkModelFromModels(models, vehicle, resolved.check.model);
   // A refused joint fit falls back to lumped models: the plan recorded in the schedule says which was used.
@@ -220,165 +225,173 @@ export async function buildScheduleFromData(input: LoadedBuildInput): Promise<Bu
   const roomy = limitsWithRoom(thresholds, limits.timeDomain);
   const scenarioLimits = limits.scenarios;
   const scenarios = plan.check.scenarios && checkModel.kind === 'single-track';
-  // The search judges each candidate by the scenarios at its breakpoint too; the schedule's own scenario check follows below.
-  const evaluateWithRoom = makeBreakpointEvaluator({
-    ...evaluatorInput,
-    ...roomy,
-    skipFiguresWhenMarginsFail: true,
-    ...(scenarios
-      ? {
-          scenarios: { limits: scenarioLimits, range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps }, names: SEARCH_SCENARIOS },
-        }
-      : {}),
-  });
-  // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
-  const robustContext = planRobustContext({ plan, checkModel, loop, controller, models, planFile: input.planFile });
-  const timeDomainSettings: TimeDomainSettings = {
-    limits: limits.timeDomain,
-    vehicleLimits: evaluatorInput.vehicleLimits,
-    antiWindup: plan.controller.antiWindup,
-  };
-  const searchOnWorstCase = searching && plan.rule.searchOn === 'worst-case' && robustContext !== undefined;
-  const searchEvaluate = searchOnWorstCase
-    ? makeWorstCaseEvaluator({ nominal: evaluateWithRoom, context: robustContext, thresholds, timeDomain: timeDomainSettings })
-    : evaluateWithRoom;
-  type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
-  const tuneCache = new Map<number, Tuned>();
-  const tuneWith = (speed_mps: number, ruleParameters: RuleParameters, startGains?: PidGains): TunedOperatingPoint =>
-    tuneOperatingPoint({
-      loop,
-      speed_mps,
-      model: checkModel.modelAt(speed_mps),
-      rule: plan.rule.name,
-      ruleParameters,
-      controller,
-      ...(startGains === undefined ? {} : { startGains }),
-    });
-  const tune = (speed_mps: number): Tuned => {
-    let entry = tuneCache.get(speed_mps);
-    if (entry === undefined) {
-      requireBoundedDelay(modelDelay_s(checkModel.modelAt(speed_mps)), controller, speed_mps);
-      try {
-        if (searching) {
-          const found = fastestPassing({
-            rule: plan.rule.name,
-            speed_mps,
-            parameters: ruleParametersAt(speed_mps),
-            tune: (parameters, startGains) => tuneWith(speed_mps, parameters, startGains),
-            evaluate: (gains) => searchEvaluate(speed_mps, gains),
-            sensitivityLimits: {
-              sensitivity: readAtSpeed(roomy.thresholds, speed_mps).maximumSensitivityPeak,
-              complementary: readAtSpeed(roomy.thresholds, speed_mps).maximumComplementarySensitivityPeak,
+  // The scenario stage's helper thread starts now, so that loading it overlaps the tuning and the dense check.
+  const helper = scenarios ? startScenarioHelper() : null;
+  try {
+    // The search judges each candidate by the scenarios at its breakpoint too; the schedule's own scenario check follows below.
+    const evaluateWithRoom = makeBreakpointEvaluator({
+      ...evaluatorInput,
+      ...roomy,
+      skipFiguresWhenMarginsFail: true,
+      ...(scenarios
+        ? {
+            scenarios: {
+              limits: scenarioLimits,
+              range: { minimum_mps: plan.speeds.minimum_mps, maximum_mps: plan.speeds.maximum_mps },
+              names: SEARCH_SCENARIOS,
             },
-            phaseMarginLimit_deg: readAtSpeed(roomy.thresholds, speed_mps).minimumPhaseMargin_deg,
-          });
-          entry = { tuned: found.tuned, evaluation: found.evaluation, search: found.record };
-        } else {
-          entry = { tuned: tuneWith(speed_mps, ruleParametersAt(speed_mps)), evaluation: null, search: null };
+          }
+        : {}),
+    });
+    // The plan's variations as a set of vehicles around the check model: the robust check's, and a worst-case search's.
+    const robustContext = planRobustContext({ plan, checkModel, loop, controller, models, planFile: input.planFile });
+    const timeDomainSettings: TimeDomainSettings = {
+      limits: limits.timeDomain,
+      vehicleLimits: evaluatorInput.vehicleLimits,
+      antiWindup: plan.controller.antiWindup,
+    };
+    const searchOnWorstCase = searching && plan.rule.searchOn === 'worst-case' && robustContext !== undefined;
+    const searchEvaluate = searchOnWorstCase
+      ? makeWorstCaseEvaluator({ nominal: evaluateWithRoom, context: robustContext, thresholds, timeDomain: timeDomainSettings })
+      : evaluateWithRoom;
+    type Tuned = { readonly tuned: TunedOperatingPoint; readonly evaluation: BreakpointEvaluation | null; readonly search: ScheduleSearchAt | null };
+    const tuneCache = new Map<number, Tuned>();
+    const tuneWith = (speed_mps: number, ruleParameters: RuleParameters, startGains?: PidGains): TunedOperatingPoint =>
+      tuneOperatingPoint({
+        loop,
+        speed_mps,
+        model: checkModel.modelAt(speed_mps),
+        rule: plan.rule.name,
+        ruleParameters,
+        controller,
+        ...(startGains === undefined ? {} : { startGains }),
+      });
+    const tune = (speed_mps: number): Tuned => {
+      let entry = tuneCache.get(speed_mps);
+      if (entry === undefined) {
+        requireBoundedDelay(modelDelay_s(checkModel.modelAt(speed_mps)), controller, speed_mps);
+        try {
+          if (searching) {
+            const found = fastestPassing({
+              rule: plan.rule.name,
+              speed_mps,
+              parameters: ruleParametersAt(speed_mps),
+              tune: (parameters, startGains) => tuneWith(speed_mps, parameters, startGains),
+              evaluate: (gains) => searchEvaluate(speed_mps, gains),
+              sensitivityLimits: {
+                sensitivity: readAtSpeed(roomy.thresholds, speed_mps).maximumSensitivityPeak,
+                complementary: readAtSpeed(roomy.thresholds, speed_mps).maximumComplementarySensitivityPeak,
+              },
+              phaseMarginLimit_deg: readAtSpeed(roomy.thresholds, speed_mps).minimumPhaseMargin_deg,
+            });
+            entry = { tuned: found.tuned, evaluation: found.evaluation, search: found.record };
+          } else {
+            entry = { tuned: tuneWith(speed_mps, ruleParametersAt(speed_mps)), evaluation: null, search: null };
+          }
+        } catch (error) {
+          throw atSpeed(error, speed_mps);
         }
-      } catch (error) {
-        throw atSpeed(error, speed_mps);
+        tuneCache.set(speed_mps, entry);
       }
-      tuneCache.set(speed_mps, entry);
-    }
-    return entry;
-  };
-  const tuneAt = (speed_mps: number): PidGains => tune(speed_mps).tuned.gains;
-  const onProgress: ProgressCallback = (event) => {
-    if (event.done === event.total || event.done % 50 === 0) {
-      progress(`${event.stage}: ${event.done}/${event.total} speeds${event.note === undefined ? '' : ` — ${event.note}`}\n`);
-    }
-  };
-  progress(
-    `tune and check: ${plan.rule.name}${searching ? ` (fastest passing${searchOnWorstCase ? ' in the worst case over the variations' : ''})` : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`,
-  );
-  const refinement = scheduleGains({ plan, tuneAt, analyse, thresholds, onProgress });
-  const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
-  const tuned = entries.map((entry) => entry.tuned);
-  // Under robust acceptance the set-point weights are lowered until the worst overshoot over the variations keeps the limit.
-  const robustWeights = robustContext !== undefined && plan.variations?.acceptance === 'robust';
-  const evaluations = refinement.table.speeds_mps.map((speed, k) => {
-    const evaluation = evaluate(speed, refinement.table.gains[k]);
-    return robustWeights
-      ? withRobustWeights({ evaluation, speed_mps: speed, gains: refinement.table.gains[k], evaluate, context: robustContext, settings: timeDomainSettings })
-      : evaluation;
-  });
-  const breakpointExtras: BreakpointExtras[] = evaluations.map((evaluation) => ({
-    setpointWeightProportional: evaluation.performance?.setpointWeights.proportional ?? 1,
-    setpointWeightDerivative: evaluation.performance?.setpointWeights.derivative ?? 0,
-    feedForward: evaluation.performanceLoop.feedForward.gain,
-    feedForwardLeadTime_s: evaluation.performanceLoop.feedForward.leadTime_s,
-    timeDomain: evaluation.performance?.figures ?? null,
-    timeDomainFailures: evaluation.performance === null ? ['closed loop not stable: no time-domain figures'] : evaluation.performance.failures,
-  }));
-  const searchAtBreakpoints = searching ? entries.map((entry) => entry.search as ScheduleSearchAt) : undefined;
-  const robust =
-    plan.variations === undefined || robustContext === undefined
-      ? undefined
-      : await checkTableOverVariations({
-          plan,
-          variations: plan.variations,
-          context: robustContext,
-          refinement,
-          breakpointExtras,
-          timeDomain: timeDomainSettings,
-          thresholds,
-          onProgress,
-          progress,
-        });
-
-  const inputs = [
-    { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
-    // Logs in the canonical order of identification (by content hash), whatever order a models file lists them in.
-    ...[...models.inputs]
-      .sort((a, b) => (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : a.file < b.file ? -1 : a.file > b.file ? 1 : 0))
-      .map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
-    ...(input.planFile === undefined || input.planSha256 === undefined ? [] : [{ file: input.planFile, sha256: input.planSha256, role: 'plan' }]),
-  ];
-  const assembled = {
-    vehicle: { name: vehicle.name, file: vehicleFile, sha256: inputs[0].sha256 },
-    plan,
-    limits,
-    table: refinement.table,
-    insertedByRefinement: refinement.insertedByRefinement,
-    check: refinement.check,
-    insertions: refinement.insertions,
-    integratorClamp_rad: vehicle.maxSteerAngle_rad,
-    maxSteerRate_radps: vehicle.maxSteerRate_radps,
-    inputs,
-    modelSummary: checkModel.summary as unknown as Readonly<Record<string, unknown>>,
-    modelDescription: checkModel.description,
-    ruleCitation: tuned[0]?.derivation.citation,
-    // The rule's parameters as resolved at each breakpoint (tables and expressions evaluated, the searched one included).
-    ...(Object.keys(plan.rule.parameters).length === 0 && searchAtBreakpoints === undefined
-      ? {}
-      : {
-          ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps, k) => ({
-            speed_mps,
-            parameters: {
-              ...ruleParametersAt(speed_mps),
-              ...(searchAtBreakpoints === undefined ? {} : { [searchAtBreakpoints[k].parameter]: searchAtBreakpoints[k].value }),
-            },
-          })),
-        }),
-    breakpointExtras,
-    ...(searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints }),
-    ...(robust === undefined ? {} : { variations: robust.record }),
-  };
-  let schedule = assembleSchedule(assembled);
-  if (scenarios) {
-    progress('scenarios: at each breakpoint, at low, middle and top speed, and through the range; the speed-change certificate\n');
-    const { parameters, description } = scenarioParameters(checkModel, vehicle);
-    const steeringLimits = { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps };
-    const scenarioCheck = judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits: scenarioLimits, model: description });
-    const speedChange = speedChangeCertificate({
-      vehicle: { parameters, ...steeringLimits },
-      controller: scheduleScenarioController(schedule),
-      context: { loop: plan.loop.kind, parameters, maxSteerAngle_rad: vehicle.maxSteerAngle_rad, range: schedule.check.range },
-      limits: scenarioLimits,
+      return entry;
+    };
+    const tuneAt = (speed_mps: number): PidGains => tune(speed_mps).tuned.gains;
+    const onProgress: ProgressCallback = (event) => {
+      if (event.done === event.total || event.done % 50 === 0) {
+        progress(`${event.stage}: ${event.done}/${event.total} speeds${event.note === undefined ? '' : ` — ${event.note}`}\n`);
+      }
+    };
+    progress(
+      `tune and check: ${plan.rule.name}${searching ? ` (fastest passing${searchOnWorstCase ? ' in the worst case over the variations' : ''})` : ''} for the ${plan.loop.kind} loop on the ${checkModel.kind} model\n`,
+    );
+    const refinement = scheduleGains({ plan, tuneAt, analyse, thresholds, onProgress });
+    const entries = refinement.table.speeds_mps.map((speed) => tune(speed));
+    const tuned = entries.map((entry) => entry.tuned);
+    // Under robust acceptance the set-point weights are lowered until the worst overshoot over the variations keeps the limit.
+    const robustWeights = robustContext !== undefined && plan.variations?.acceptance === 'robust';
+    const evaluations = refinement.table.speeds_mps.map((speed, k) => {
+      const evaluation = evaluate(speed, refinement.table.gains[k]);
+      return robustWeights
+        ? withRobustWeights({ evaluation, speed_mps: speed, gains: refinement.table.gains[k], evaluate, context: robustContext, settings: timeDomainSettings })
+        : evaluation;
     });
-    schedule = assembleSchedule({ ...assembled, scenarioCheck, speedChange });
+    const breakpointExtras: BreakpointExtras[] = evaluations.map((evaluation) => ({
+      setpointWeightProportional: evaluation.performance?.setpointWeights.proportional ?? 1,
+      setpointWeightDerivative: evaluation.performance?.setpointWeights.derivative ?? 0,
+      feedForward: evaluation.performanceLoop.feedForward.gain,
+      feedForwardLeadTime_s: evaluation.performanceLoop.feedForward.leadTime_s,
+      timeDomain: evaluation.performance?.figures ?? null,
+      timeDomainFailures: evaluation.performance === null ? ['closed loop not stable: no time-domain figures'] : evaluation.performance.failures,
+    }));
+    const searchAtBreakpoints = searching ? entries.map((entry) => entry.search as ScheduleSearchAt) : undefined;
+    const robust =
+      plan.variations === undefined || robustContext === undefined
+        ? undefined
+        : await checkTableOverVariations({
+            plan,
+            variations: plan.variations,
+            context: robustContext,
+            refinement,
+            breakpointExtras,
+            timeDomain: timeDomainSettings,
+            thresholds,
+            onProgress,
+            progress,
+          });
+
+    const inputs = [
+      { file: vehicleFile, sha256: vehicleSha256, role: 'vehicle' },
+      // Logs in the canonical order of identification (by content hash), whatever order a models file lists them in.
+      ...[...models.inputs]
+        .sort((a, b) => (a.sha256 < b.sha256 ? -1 : a.sha256 > b.sha256 ? 1 : a.file < b.file ? -1 : a.file > b.file ? 1 : 0))
+        .map((entry) => ({ file: entry.file, sha256: entry.sha256, role: 'log' })),
+      ...(input.planFile === undefined || input.planSha256 === undefined ? [] : [{ file: input.planFile, sha256: input.planSha256, role: 'plan' }]),
+    ];
+    const assembled = {
+      vehicle: { name: vehicle.name, file: vehicleFile, sha256: inputs[0].sha256 },
+      plan,
+      limits,
+      table: refinement.table,
+      insertedByRefinement: refinement.insertedByRefinement,
+      check: refinement.check,
+      insertions: refinement.insertions,
+      integratorClamp_rad: vehicle.maxSteerAngle_rad,
+      maxSteerRate_radps: vehicle.maxSteerRate_radps,
+      inputs,
+      modelSummary: checkModel.summary as unknown as Readonly<Record<string, unknown>>,
+      modelDescription: checkModel.description,
+      ruleCitation: tuned[0]?.derivation.citation,
+      // The rule's parameters as resolved at each breakpoint (tables and expressions evaluated, the searched one included).
+      ...(Object.keys(plan.rule.parameters).length === 0 && searchAtBreakpoints === undefined
+        ? {}
+        : {
+            ruleParametersAtBreakpoints: refinement.table.speeds_mps.map((speed_mps, k) => ({
+              speed_mps,
+              parameters: {
+                ...ruleParametersAt(speed_mps),
+                ...(searchAtBreakpoints === undefined ? {} : { [searchAtBreakpoints[k].parameter]: searchAtBreakpoints[k].value }),
+              },
+            })),
+          }),
+      breakpointExtras,
+      ...(searchAtBreakpoints === undefined ? {} : { searchAtBreakpoints }),
+      ...(robust === undefined ? {} : { variations: robust.record }),
+    };
+    let schedule = assembleSchedule(assembled);
+    if (scenarios) {
+      progress('scenarios: at each breakpoint, at low, middle and top speed, and through the range; the speed-change certificate\n');
+      const { parameters, description } = scenarioParameters(checkModel, vehicle);
+      const steeringLimits = { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps };
+      const sizes = planSpeedChanges(plan);
+      const { scenarioCheck, speedChange } = await scenarioStage(
+        { schedule, parameters, steeringLimits, limits: scenarioLimits, model: description, sizes },
+        helper,
+      );
+      schedule = assembleSchedule({ ...assembled, scenarioCheck, speedChange });
+    }
+    const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
+    return { schedule, models, plan, checkModel, refinement, tuned, evaluations, extrapolations, ...(robust === undefined ? {} : { robust }) };
+  } finally {
+    helper?.close();
   }
-  const extrapolations = refinement.table.speeds_mps.flatMap((speed_mps) => extrapolationAt(speed_mps, testSpeeds_mps, tuneAt) ?? []);
-  return { schedule, models, plan, checkModel, refinement, tuned, evaluations, extrapolations, ...(robust === undefined ? {} : { robust }) };
 }

@@ -11,8 +11,8 @@
  * re-checked too (its `variations` section regenerated); under robust acceptance it must pass as well.
  */
 import { atSpeed as readAtSpeed } from '../core/by-speed.js';
-import { judgeScheduleScenarios, scheduleScenarioController } from './simulate-schedule.js';
-import { speedChangeCertificate } from './speed-change-certificate.js';
+import { judgeScheduleScenarios, scheduleSpeedChanges } from './simulate-schedule.js';
+import { scheduleSpeedChangeCertificate } from './scenario-stage.js';
 import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
@@ -182,12 +182,8 @@ function rerunScenarios(schedule: ScheduleFile, model: CheckModel): { scenarios:
   if (recorded === undefined || at.kind !== 'single-track') return null;
   const steeringLimits = schedule.check.timeDomain.steeringLimits;
   const parameters = at.parameters;
-  const scenarios = judgeScheduleScenarios({ schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description });
-  const speedChange = speedChangeCertificate({
-    vehicle: { parameters, ...steeringLimits },
-    controller: scheduleScenarioController(schedule),
-    context: { loop: schedule.loop.kind, parameters, maxSteerAngle_rad: steeringLimits.maxSteerAngle_rad, range: schedule.check.range },
-    limits: recorded.limits,
-  });
+  const input = { schedule, parameters, steeringLimits, limits: recorded.limits, model: model.description, sizes: scheduleSpeedChanges(schedule) };
+  const scenarios = judgeScheduleScenarios(input);
+  const speedChange = scheduleSpeedChangeCertificate(input);
   return { scenarios, speedChange };
 }

@@ -48,11 +48,16 @@ export function scenarioTable(loop: LoopKind, runs: readonly ScenarioRunAt[]): s
   ).map((line) => `  ${line}`);
 }
 
-/** The scenario check's verdict and the limits it broke (first 12). */
-export function formatScenarioCheck(check: ScheduleScenarioCheck, loop: LoopKind): string {
+/** The scenario check's verdict and the limits it broke (first 12); `speedChanges`: the rates of the range scenarios (the schedule's plan). */
+export function formatScenarioCheck(
+  check: ScheduleScenarioCheck,
+  loop: LoopKind,
+  speedChanges: { readonly acceleration_mps2: number; readonly deceleration_mps2: number },
+): string {
   const l = check.limits;
+  const rates = `speed ramp ${speedChanges.acceleration_mps2} m/s², braking ${speedChanges.deceleration_mps2} m/s²`;
   const lines = [
-    `  scenarios (${check.scenarios.length}) at ${check.speeds_mps.map((speed) => speed.toFixed(2)).join(', ')} m/s and through the range, on the ${check.model}: ` +
+    `  scenarios (${check.scenarios.length}) at ${check.speeds_mps.map((speed) => speed.toFixed(2)).join(', ')} m/s and through the range (${rates}), on the ${check.model}: ` +
       (check.passed ? 'PASSED' : `FAILED, ${check.failures.length} limit(s) broken`),
     `  limits: no sustained oscillation; small step overshoot ≤ ${overSpeedText(l.maximumOvershoot_pct)} %, both steps settle; offset, misalignment and force removed within ${overSpeedText(l.maximumRecoveryTime_s)} s; ` +
       `path lane change ≤ ${overSpeedText(l.maximumLaneChangeError_m)} m; error while the speed changes ≤ ${overSpeedText(l.maximumSpeedChangeError)} ${UNIT[loop]}`,

@@ -5,6 +5,7 @@
 import { atSpeed, overSpeedText } from '../core/by-speed.js';
 import { describeControllerSettings } from '../controller/defaults.js';
 import { formatScenarioCheck, formatSpeedChange } from './scenario-report.js';
+import { scheduleSpeedChanges } from './simulate-schedule.js';
 import { escapeControlCharacters } from '../core/quote.js';
 import { fixedOrDash, precisionOrDash, textTable } from '../core/text-table.js';
 import type { BreakpointMargins, ScheduleFile } from '../schedule/schedule-types.js';
@@ -115,7 +116,8 @@ export function formatSchedule(schedule: ScheduleFile): string {
     lines.push('', '  failing speeds (first 10):');
     for (const failure of schedule.check.failures.slice(0, 10)) lines.push(`    ${failure.speed_mps.toFixed(2)} m/s: ${failure.messages.join('; ')}`);
   }
-  if (schedule.check.scenarios !== undefined) lines.push('', formatScenarioCheck(schedule.check.scenarios, schedule.loop.kind).trimEnd());
+  if (schedule.check.scenarios !== undefined)
+    lines.push('', formatScenarioCheck(schedule.check.scenarios, schedule.loop.kind, scheduleSpeedChanges(schedule)).trimEnd());
   if (schedule.check.speedChange !== undefined) lines.push(formatSpeedChange(schedule.check.speedChange).trimEnd());
   return `${lines.join('\n')}\n`;
 }

@@ -7,10 +7,11 @@ import { SpeedbandError } from '../core/errors.js';
 import { quoted } from '../core/quote.js';
 import { prepareScenario, RANGE_SCENARIOS, SCENARIO_NAMES, type ScenarioName, type ScenarioSizes } from '../performance/scenario-catalogue.js';
 import { runScenario, type ScenarioRun } from '../performance/scenario-run.js';
-import { judgedRun, judgeScenarioRun, type ScenarioLimits } from '../performance/scenario-limits.js';
+import { judgedRun, judgeScenarioRun, type JudgedRun, type ScenarioLimits } from '../performance/scenario-limits.js';
 import type { OverSpeed } from '../core/by-speed.js';
 import type { ScenarioController, ScenarioVehicle } from '../performance/scenario-simulation.js';
 import { scheduleFirmware } from '../schedule/schedule-lookup.js';
+import { planSpeedChanges, type Plan } from '../schedule/plan.js';
 import type { ScheduleFile, ScheduleScenarioCheck } from '../schedule/schedule-types.js';
 import { singleTrackParametersFromVehicle } from '../vehicle/single-track.js';
 import type { SingleTrackParameters, Vehicle } from '../vehicle/types.js';
@@ -61,6 +62,11 @@ export interface SimulateScheduleInput {
   readonly sizes?: ScenarioSizes;
   /** For judging only: runs hold their values once at rest (src/performance/scenario-simulation.ts REST); traces are then not exact. */
   readonly stopAtRest?: boolean;
+}
+
+/** The speed changes through the range a schedule's scenarios are judged at: those of the plan it records (plan.ts planSpeedChanges). */
+export function scheduleSpeedChanges(schedule: Pick<ScheduleFile, 'provenance'>): ReturnType<typeof planSpeedChanges> {
+  return planSpeedChanges(schedule.provenance.plan as { readonly check?: Partial<Plan['check']> });
 }
 
 /** The scenario controller a schedule describes. */
@@ -116,31 +122,57 @@ export function simulateSchedule(input: SimulateScheduleInput): ScenarioRunAt[] 
   return runs;
 }
 
+export type { JudgedRun };
+
+export type ScenarioCheckInput = Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: OverSpeed<ScenarioLimits>; readonly model: string };
+
+/** What the scenario check keeps of a run (scenario-limits.ts judgedRun: a speed change keeps its speed and error traces). */
+const judged = (runs: readonly ScenarioRunAt[]): JudgedRun[] => runs.map((run) => judgedRun(run, run.speed_mps));
+
 /**
- * The scenario check of a schedule: every scenario at each breakpoint and at low, middle and top speed, the range
- * scenarios once, judged against `limits` (src/performance/scenario-limits.ts); failures ordered by speed.
+ * The runs of the scenario check in its order: the per-speed ones through the limits at every speed, then (part
+ * 'range') the speed changes through the range, then the linear ones where the breakpoints have no figures.
+ * Parts apart so that the range part, the longest runs, can go to another thread (scenario-stage.ts).
  */
-export function judgeScheduleScenarios(
-  input: Omit<SimulateScheduleInput, 'scenarios' | 'speeds'> & { readonly limits: OverSpeed<ScenarioLimits>; readonly model: string },
-): ScheduleScenarioCheck {
+export function scenarioCheckRuns(input: ScenarioCheckInput, part: 'per-speed' | 'range'): { readonly before: JudgedRun[]; readonly after: JudgedRun[] } {
   const speeds = scenarioSpeeds(input.schedule, { withBreakpoints: true });
+  if (part === 'range') {
+    return {
+      before: judged(simulateSchedule({ ...input, scenarios: SCENARIO_NAMES.filter((name) => RANGE_SCENARIOS.includes(name)), speeds, stopAtRest: true })),
+      after: [],
+    };
+  }
   // At a breakpoint with time-domain figures the linear scenarios are those figures (the same closed loop, exact:
   // test/pipeline/default-plans.test.ts), judged by the build already; the scenarios through the limits run everywhere.
   const figured = new Set(input.schedule.breakpoints.filter((row) => row.timeDomain !== null).map((row) => row.speed_mps));
   const linear = new Set<ScenarioName>(LINEAR_SCENARIOS);
-  const runs = [
-    ...simulateSchedule({ ...input, scenarios: SCENARIO_NAMES.filter((name) => !linear.has(name)), speeds, stopAtRest: true }),
-    ...simulateSchedule({ ...input, scenarios: LINEAR_SCENARIOS, speeds: speeds.filter((speed) => !figured.has(speed)), stopAtRest: true }),
-  ];
+  const perSpeed = SCENARIO_NAMES.filter((name) => !linear.has(name) && !RANGE_SCENARIOS.includes(name));
+  return {
+    before: judged(simulateSchedule({ ...input, scenarios: perSpeed, speeds, stopAtRest: true })),
+    after: judged(simulateSchedule({ ...input, scenarios: LINEAR_SCENARIOS, speeds: speeds.filter((speed) => !figured.has(speed)), stopAtRest: true })),
+  };
+}
+
+/** The scenario check from its judged runs (scenarioCheckRuns's order): failures ordered by speed, then scenario. */
+export function scenarioCheckOf(input: ScenarioCheckInput, runs: readonly JudgedRun[]): ScheduleScenarioCheck {
   const failures = runs
-    .flatMap((run) => judgeScenarioRun(judgedRun(run, run.speed_mps), input.limits, input.schedule.loop.kind))
+    .flatMap((run) => judgeScenarioRun(run, input.limits, input.schedule.loop.kind))
     .sort((p, q) => p.speed_mps - q.speed_mps || SCENARIO_NAMES.indexOf(p.scenario) - SCENARIO_NAMES.indexOf(q.scenario));
   return {
     passed: failures.length === 0,
     limits: input.limits,
     model: input.model,
-    speeds_mps: speeds,
-    scenarios: [...new Set(runs.map((run) => run.scenario.name))],
+    speeds_mps: scenarioSpeeds(input.schedule, { withBreakpoints: true }),
+    scenarios: [...new Set(runs.map((run) => run.scenario))],
     failures,
   };
+}
+
+/**
+ * The scenario check of a schedule: every scenario at each breakpoint and at low, middle and top speed, the range
+ * scenarios once, judged against `limits` (src/performance/scenario-limits.ts); failures ordered by speed.
+ */
+export function judgeScheduleScenarios(input: ScenarioCheckInput): ScheduleScenarioCheck {
+  const perSpeed = scenarioCheckRuns(input, 'per-speed');
+  return scenarioCheckOf(input, [...perSpeed.before, ...scenarioCheckRuns(input, 'range').before, ...perSpeed.after]);
 }

@@ -10,15 +10,21 @@ import { SpeedbandError } from '../core/errors.js';
 import type { WorkerAnswer } from './check-worker.js';
 
 /**
- * The script a worker runs: the built .js beside this module; from the TypeScript sources (tests, benches under
- * tsx, a development dependency) a small module that registers tsx's loader in the worker first.
+ * The script a worker runs: the built .js of `name` (a module of this folder, e.g. 'check-worker') beside this module;
+ * from the TypeScript sources (tests, benches under tsx, a development dependency) a small module that registers
+ * tsx's loader in the worker first.
  */
-function workerScript(): URL {
+export function workerScript(name = 'check-worker'): URL {
   const here = import.meta.url;
-  if (!here.endsWith('.ts')) return new URL('./check-worker.js', here);
+  if (!here.endsWith('.ts')) return new URL(`./${name}.js`, here);
   const loader = import.meta.resolve('tsx/esm/api');
-  const source = `import { register } from ${JSON.stringify(loader)}; register(); await import(${JSON.stringify(new URL('./check-worker.ts', here).href)});`;
+  const source = `import { register } from ${JSON.stringify(loader)}; register(); await import(${JSON.stringify(new URL(`./${name}.ts`, here).href)});`;
   return new URL(`data:text/javascript,${encodeURIComponent(source)}`);
+}
+
+/** True when this module runs from the TypeScript sources (a worker would first compile them: slow to start). */
+export function runningFromSources(): boolean {
+  return import.meta.url.endsWith('.ts');
 }
 
 export interface WorkQueueInput<Chunk, Item> {

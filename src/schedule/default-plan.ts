@@ -1,8 +1,8 @@
 /**
  * The default plan written out in full (`speedband plan --default [--loop KIND]`): a plan file that, given
  * to `build --plan`, builds exactly what no plan builds. The fields whose default depends on the data
- * (the speed range from the test speeds, the sample time from the vehicle file, the latency of one
- * sample) are left out and named in its description; docs/plan.md lists every field.
+ * (the speed range from the test speeds, the sample time and the speed changes the scenarios judge from the
+ * vehicle file, the latency of one sample) are left out and named in its description; docs/plan.md lists every field.
  */
 import { VERSION } from '../version.js';
 import type { LoopKind, PartialPlan } from './plan.js';
@@ -19,8 +19,9 @@ export function defaultPlanFile(kind: LoopKind = PLAN_DEFAULTS.loop.kind): Parti
   return {
     description:
       `The default plan of speedband ${VERSION} for a ${kind} loop. Left out because the data decide them: speeds (minimum_mps and maximum_mps the lowest and highest test speed, ` +
-      `lowSpeedFloor_mps the lowest), controller.sampleTime_s (the vehicle file's controllerSampleTime_s, else ${controller.sampleTime_s} s) and ` +
-      `controller.computationLatency_s (one sample)${rule.tuneFor === 'fastest-passing' ? ', and rule.searchOn (the worst case when a variations section is added under robust acceptance, else the nominal model)' : ''}. ` +
+      `lowSpeedFloor_mps the lowest), controller.sampleTime_s (the vehicle file's controllerSampleTime_s, else ${controller.sampleTime_s} s), ` +
+      `controller.computationLatency_s (one sample) and check.rampAcceleration_mps2 and check.brakingDeceleration_mps2 (the vehicle file's serviceAcceleration_mps2 and ` +
+      `serviceDeceleration_mps2, else ${PLAN_DEFAULTS.check.rampAcceleration_mps2} and ${PLAN_DEFAULTS.check.brakingDeceleration_mps2} m/s²)${rule.tuneFor === 'fastest-passing' ? ', and rule.searchOn (the worst case when a variations section is added under robust acceptance, else the nominal model)' : ''}. ` +
       `Every field, its unit, default and source: docs/plan.md.${pathNote}`,
     loop: { ...PLAN_DEFAULTS.loop, ...(kind === 'path' ? DEFAULT_PATH_PREVIEW : {}), kind },
     rule: { name: rule.name, tuneFor: rule.tuneFor, parameters: {} },
@@ -34,6 +35,6 @@ export function defaultPlanFile(kind: LoopKind = PLAN_DEFAULTS.loop.kind): Parti
       antiWindup: controller.antiWindup,
     },
     acceptance: { ...PLAN_DEFAULTS.acceptance },
-    check: { ...PLAN_DEFAULTS.check },
+    check: (({ rampAcceleration_mps2: _ramp, brakingDeceleration_mps2: _braking, ...constant }) => constant)(PLAN_DEFAULTS.check),
   };
 }

@@ -62,14 +62,68 @@ export interface GainSlopes {
 
 /** Slopes the lookup uses for each gain: Fritsch–Carlson for 'monotone-cubic', unused (zero) for 'linear'. */
 export function gainSlopes(table: GainTable, interpolation: LookupSettings['interpolation']): GainSlopes {
-  const n = table.speeds_mps.length;
-  if (interpolation === 'linear') return { kp: new Float64Array(n), ki: new Float64Array(n), kd: new Float64Array(n) };
   const column = (name: (typeof GAIN_NAMES)[number]): Float64Array =>
-    monotoneCubicSlopes(
+    columnSlopes(
       table.speeds_mps,
       table.gains.map((row) => row[name]),
+      interpolation,
     );
   return { kp: column('kp'), ki: column('ki'), kd: column('kd') };
+}
+
+/** Hermite slopes of one column (per m/s): Fritsch–Carlson for 'monotone-cubic', zeros (unused) for 'linear'. */
+export function columnSlopes(speeds_mps: ArrayLike<number>, column: ArrayLike<number>, interpolation: LookupSettings['interpolation']): Float64Array {
+  return interpolation === 'linear' ? new Float64Array(speeds_mps.length) : monotoneCubicSlopes(speeds_mps, column);
+}
+
+/**
+ * The lookup of several columns at once (one search for the interval, no allocation): `(speed_mps, out)` writes
+ * column j's value at the speed into out[j]. `slopes[j]` are column j's Hermite slopes (gain per m/s; zeros or
+ * unused for 'linear'). The rules of the file comment; a non-finite speed is a `schedule.speedNotFinite` error.
+ * Every lookup of this file is this one function, so gains, set-point weights and feed-forward interpolate alike.
+ */
+export function makeRowLookup(
+  speeds_mps: ArrayLike<number>,
+  columns: readonly ArrayLike<number>[],
+  slopes: readonly ArrayLike<number>[],
+  settings: Partial<LookupSettings> = {},
+): (speed_mps: number, out: Float64Array) => void {
+  const { interpolation, lowSpeedFloor_mps } = { ...LOOKUP_DEFAULTS, ...settings };
+  const speeds = Float64Array.from(speeds_mps);
+  const n = speeds.length;
+  const width = columns.length;
+  const values = columns.map((column) => Float64Array.from(column));
+  const gradients = slopes.map((column) => Float64Array.from(column));
+  const cubic = interpolation === 'monotone-cubic';
+  const row = (k: number, out: Float64Array): void => {
+    for (let j = 0; j < width; j++) out[j] = values[j][k];
+  };
+  return (speed_mps, out) => {
+    if (!Number.isFinite(speed_mps)) {
+      throw new SpeedbandError('schedule.speedNotFinite', `the lookup was asked for the gains at speed ${speed_mps} — give a finite speed in m/s`);
+    }
+    const speed = speed_mps < lowSpeedFloor_mps ? lowSpeedFloor_mps : speed_mps;
+    if (speed <= speeds[0]) return row(0, out);
+    if (speed >= speeds[n - 1]) return row(n - 1, out);
+    let low = 0;
+    let high = n - 1;
+    while (high - low > 1) {
+      const middle = (low + high) >> 1;
+      if (speeds[middle] <= speed) low = middle;
+      else high = middle;
+    }
+    if (speed === speeds[low]) return row(low, out);
+    const h = speeds[low + 1] - speeds[low];
+    const t = (speed - speeds[low]) / h;
+    for (let j = 0; j < width; j++) {
+      const y0 = values[j][low];
+      const y1 = values[j][low + 1];
+      const raw = cubic ? hermiteValue({ t, h, y0, y1, m0: gradients[j][low], m1: gradients[j][low + 1] }) : y0 + t * (y1 - y0);
+      const lowest = y0 < y1 ? y0 : y1;
+      const highest = y0 < y1 ? y1 : y0;
+      out[j] = raw < lowest ? lowest : raw > highest ? highest : raw;
+    }
+  };
 }
 
 /**
@@ -80,48 +134,17 @@ export function gainSlopes(table: GainTable, interpolation: LookupSettings['inte
  */
 export function makeGainLookup(table: GainTable, settings: Partial<LookupSettings> = {}, givenSlopes?: GainSlopes): GainsAtSpeed {
   validateGainTable(table);
-  const { interpolation, lowSpeedFloor_mps } = { ...LOOKUP_DEFAULTS, ...settings };
-  const speeds = Float64Array.from(table.speeds_mps);
-  const n = speeds.length;
-  const values = {
-    kp: Float64Array.from(table.gains, (row) => row.kp),
-    ki: Float64Array.from(table.gains, (row) => row.ki),
-    kd: Float64Array.from(table.gains, (row) => row.kd),
-  };
-  const slopes = givenSlopes ?? gainSlopes(table, interpolation);
-  const cubic = interpolation === 'monotone-cubic';
-
-  const one = (y: Float64Array, m: Float64Array, k: number, t: number, h: number): number => {
-    const y0 = y[k];
-    const y1 = y[k + 1];
-    const raw = cubic ? hermiteValue({ t, h, y0, y1, m0: m[k], m1: m[k + 1] }) : y0 + t * (y1 - y0);
-    const low = y0 < y1 ? y0 : y1;
-    const high = y0 < y1 ? y1 : y0;
-    return raw < low ? low : raw > high ? high : raw;
-  };
-
+  const slopes = givenSlopes ?? gainSlopes(table, { ...LOOKUP_DEFAULTS, ...settings }.interpolation);
+  const lookup = makeRowLookup(
+    table.speeds_mps,
+    GAIN_NAMES.map((name) => table.gains.map((row) => row[name])),
+    [slopes.kp, slopes.ki, slopes.kd],
+    settings,
+  );
+  const out = new Float64Array(GAIN_NAMES.length);
   return (speed_mps: number): PidGains => {
-    if (!Number.isFinite(speed_mps)) {
-      throw new SpeedbandError('schedule.speedNotFinite', `the lookup was asked for the gains at speed ${speed_mps} — give a finite speed in m/s`);
-    }
-    const speed = speed_mps < lowSpeedFloor_mps ? lowSpeedFloor_mps : speed_mps;
-    if (speed <= speeds[0]) return { kp: values.kp[0], ki: values.ki[0], kd: values.kd[0] };
-    if (speed >= speeds[n - 1]) return { kp: values.kp[n - 1], ki: values.ki[n - 1], kd: values.kd[n - 1] };
-    let low = 0;
-    let high = n - 1;
-    while (high - low > 1) {
-      const middle = (low + high) >> 1;
-      if (speeds[middle] <= speed) low = middle;
-      else high = middle;
-    }
-    if (speed === speeds[low]) return { kp: values.kp[low], ki: values.ki[low], kd: values.kd[low] };
-    const h = speeds[low + 1] - speeds[low];
-    const t = (speed - speeds[low]) / h;
-    return {
-      kp: one(values.kp, slopes.kp, low, t, h),
-      ki: one(values.ki, slopes.ki, low, t, h),
-      kd: one(values.kd, slopes.kd, low, t, h),
-    };
+    lookup(speed_mps, out);
+    return { kp: out[0], ki: out[1], kd: out[2] };
   };
 }
 
@@ -136,23 +159,34 @@ export function makeColumnsLookup<Name extends string>(
   settings: Partial<LookupSettings> = {},
 ): (speed_mps: number) => Record<Name, number> {
   const names = Object.keys(columns) as Name[];
-  // Three columns at a time through the gain lookup: the same arithmetic, one implementation.
-  const lookups = [] as { readonly names: Name[]; readonly lookup: GainsAtSpeed }[];
-  for (let i = 0; i < names.length; i += 3) {
-    const group = names.slice(i, i + 3);
-    const column = (j: number): readonly number[] => (group[j] === undefined ? speeds_mps.map(() => 0) : columns[group[j]]);
-    const table: GainTable = { speeds_mps, gains: speeds_mps.map((_, k) => ({ kp: column(0)[k], ki: column(1)[k], kd: column(2)[k] })) };
-    lookups.push({ names: group, lookup: makeGainLookup(table, settings) });
-  }
+  const lookup = makeColumnsRowLookup(
+    speeds_mps,
+    names.map((name) => columns[name]),
+    settings,
+  );
+  const out = new Float64Array(names.length);
   return (speed_mps) => {
+    lookup(speed_mps, out);
     const result = {} as Record<Name, number>;
-    for (const { names: group, lookup } of lookups) {
-      const values = lookup(speed_mps);
-      const ordered = [values.kp, values.ki, values.kd];
-      group.forEach((name, j) => {
-        result[name] = ordered[j];
-      });
-    }
+    names.forEach((name, j) => {
+      result[name] = out[j];
+    });
     return result;
   };
+}
+
+/** makeRowLookup of columns given as numbers, each checked as a gain column is (finite values, strictly increasing speeds), with its Fritsch–Carlson slopes. */
+export function makeColumnsRowLookup(
+  speeds_mps: readonly number[],
+  columns: readonly (readonly number[])[],
+  settings: Partial<LookupSettings> = {},
+): (speed_mps: number, out: Float64Array) => void {
+  const interpolation = { ...LOOKUP_DEFAULTS, ...settings }.interpolation;
+  for (const column of columns) validateGainTable({ speeds_mps, gains: column.map((value) => ({ kp: value, ki: 0, kd: 0 })) });
+  return makeRowLookup(
+    speeds_mps,
+    columns,
+    columns.map((column) => columnSlopes(speeds_mps, column, interpolation)),
+    settings,
+  );
 }

@@ -18,6 +18,8 @@ const DERIVED_DEFAULTS: Readonly<Record<string, string>> = {
   'breakpoints.speeds_mps': 'none: automatic breakpoints',
   'controller.sampleTime_s': "the vehicle file's controllerSampleTime_s, else 0.01",
   'controller.computationLatency_s': 'one sample: controller.sampleTime_s',
+  'check.rampAcceleration_mps2': "the vehicle file's serviceAcceleration_mps2, else 1",
+  'check.brakingDeceleration_mps2': "the vehicle file's serviceDeceleration_mps2, else 2",
   'rule.parameters.controllerType': 'Ziegler–Nichols PID; SIMC by plant class (PI; PID with a second lag, a lag behind an integrator, or two integrators)',
   'rule.parameters.closedLoopTimeConstant_s': "λ = θ, the design model's dead time (the rule advises λ > 0.8·θ)",
   'rule.parameters.simcClosedLoopTimeConstant_s': "τc = θ, the design model's dead time",
@@ -107,6 +109,9 @@ const DEFAULT_SOURCES: Readonly<Record<string, string>> = {
   'check.gridSpeeds': 'our choice',
   'check.maxInsertedBreakpoints': 'our choice',
   'check.model': 'our choice: valid between and beyond the test speeds',
+  'check.rampAcceleration_mps2': 'our choice: ≈ 0.1 g, a moderate acceleration; the speed changes are judged at what the vehicle does in service',
+  'check.brakingDeceleration_mps2':
+    'our choice: ≈ 0.2 g, firm but not an emergency stop (common practice for road vehicles); a vehicle that brakes more gently in service — a sprayer on a slope — states its own',
   description: '—',
   $schema: '—',
   'variations.acceptance': 'our choice: a set that is written is meant to be met',
@@ -138,6 +143,7 @@ interface SchemaNode {
 
 const UNITS: readonly (readonly [string, string])[] = [
   ['_pct', '%'],
+  ['_mps2', 'm/s²'],
   ['_mps', 'm/s'],
   ['_radps', 'rad/s'],
   ['_dB', 'dB'],

@@ -252,6 +252,14 @@ export const PLAN_SCHEMA = {
             { type: 'boolean' },
             'Drive the schedule through the scenarios of `speedband simulate` at each breakpoint, at low, middle and top speed and through the speed range, and pass only when they keep the scenario limits (needs the single-track model).',
           ),
+          rampAcceleration_mps2: described(
+            { type: 'number', exclusiveMinimum: 0, maximum: 10 },
+            'Acceleration of the speed-ramp-in-curve scenario through the speed range, m/s²: the acceleration the vehicle uses in service.',
+          ),
+          brakingDeceleration_mps2: described(
+            { type: 'number', exclusiveMinimum: 0, maximum: 10 },
+            'Deceleration of the braking-in-curve scenario through the speed range, m/s² (positive): the service braking the vehicle uses, not an emergency stop.',
+          ),
         },
       },
       'The dense check.',

@@ -3,6 +3,7 @@
  * schedule is built with. Every field has a documented default (PLAN_DEFAULTS), so `{}` is a plan.
  */
 import { CONTROLLER_DEFAULTS, resolveControllerSettings } from '../controller/defaults.js';
+import { SIMULATION_DEFAULTS } from '../performance/defaults.js';
 import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
 import type { TimeDomainLimits } from '../performance/types.js';
@@ -110,6 +111,9 @@ export interface Plan {
     readonly model: 'single-track' | 'interpolated-lumped';
     /** Run the scenarios (src/performance/scenario-catalogue.ts) at each breakpoint, at low, middle and top speed and through the range, and judge them. */
     readonly scenarios: boolean;
+    /** The speed changes through the range the scenarios judge: speed-ramp-in-curve's acceleration and braking-in-curve's deceleration, m/s². */
+    readonly rampAcceleration_mps2: number;
+    readonly brakingDeceleration_mps2: number;
   };
   /** The vehicles the schedule must hold on besides the nominal model (plan-variations.ts); absent: nominal check only. */
   readonly variations?: PlanVariations;
@@ -167,7 +171,14 @@ export const PLAN_DEFAULTS: Plan = {
   interpolation: 'monotone-cubic',
   controller: { form: 'parallel', ...CONTROLLER_DEFAULTS, antiWindup: 'conditional-integration' },
   acceptance: ACCEPTANCE_DEFAULTS,
-  check: { gridSpeeds: 200, maxInsertedBreakpoints: 8, model: 'single-track', scenarios: true },
+  check: {
+    gridSpeeds: 200,
+    maxInsertedBreakpoints: 8,
+    model: 'single-track',
+    scenarios: true,
+    rampAcceleration_mps2: SIMULATION_DEFAULTS.rampAcceleration_mps2,
+    brakingDeceleration_mps2: SIMULATION_DEFAULTS.brakingDeceleration_mps2,
+  },
 };
 
 /**
@@ -242,6 +253,9 @@ export interface ResolveContext {
   readonly file?: string;
   /** The vehicle file's controllerSampleTime_s: the sample time when the plan gives none. */
   readonly vehicleSampleTime_s?: number;
+  /** The vehicle file's serviceAcceleration_mps2 and serviceDeceleration_mps2: the scenarios' speed changes when the plan gives none. */
+  readonly vehicleServiceAcceleration_mps2?: number;
+  readonly vehicleServiceDeceleration_mps2?: number;
 }
 
 /**
@@ -346,7 +360,13 @@ export function resolvePlan(partial: PartialPlan, context: ResolveContext = {}):
     interpolation: partial.interpolation ?? PLAN_DEFAULTS.interpolation,
     controller,
     acceptance: { ...PLAN_DEFAULTS.acceptance, ...partial.acceptance },
-    check: { ...PLAN_DEFAULTS.check, ...partial.check },
+    // The speed changes the scenarios judge: the plan's, else the ones the vehicle file says it uses in service, else ours.
+    check: {
+      ...PLAN_DEFAULTS.check,
+      ...(context.vehicleServiceAcceleration_mps2 === undefined ? {} : { rampAcceleration_mps2: context.vehicleServiceAcceleration_mps2 }),
+      ...(context.vehicleServiceDeceleration_mps2 === undefined ? {} : { brakingDeceleration_mps2: context.vehicleServiceDeceleration_mps2 }),
+      ...partial.check,
+    },
     ...(variations === undefined ? {} : { variations }),
   };
 }
@@ -410,4 +430,18 @@ export function planBreakpoints(plan: Plan): number[] {
   speeds[0] = first;
   speeds[n - 1] = last;
   return speeds;
+}
+
+/**
+ * The speed changes through the range the scenarios judge (scenario-catalogue.ts sizes), from a resolved plan — or
+ * from the plan a schedule records: one written before the plan had them gets the defaults it was built with.
+ */
+export function planSpeedChanges(plan: Pick<Plan, 'check'> | { readonly check?: Partial<Plan['check']> }): {
+  readonly acceleration_mps2: number;
+  readonly deceleration_mps2: number;
+} {
+  return {
+    acceleration_mps2: plan.check?.rampAcceleration_mps2 ?? PLAN_DEFAULTS.check.rampAcceleration_mps2,
+    deceleration_mps2: plan.check?.brakingDeceleration_mps2 ?? PLAN_DEFAULTS.check.brakingDeceleration_mps2,
+  };
 }

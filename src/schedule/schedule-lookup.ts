@@ -1,6 +1,6 @@
 /** The gain table and lookup a schedule file describes. */
 import type { FirmwareGains, FirmwareSettings } from '../controller/firmware-step.js';
-import { makeColumnsLookup, makeGainLookup } from './interpolate.js';
+import { makeColumnsLookup, makeColumnsRowLookup, makeGainLookup } from './interpolate.js';
 import type { ScheduleFile } from './schedule-types.js';
 import type { GainTable, GainsAtSpeed, LookupSettings } from './types.js';
 
@@ -59,8 +59,23 @@ export function scheduleFirmware(schedule: Pick<ScheduleFile, 'breakpoints' | 'i
   settings: FirmwareSettings;
   at: (speed_mps: number) => ScheduledController;
 } {
-  const gains = scheduleLookup(schedule);
-  const extras = scheduleExtrasLookup(schedule);
+  // The gains' lookup and the extras' in one (the same arithmetic as scheduleLookup and scheduleExtrasLookup: one
+  // search for the interval, each column interpolated on its own), called once per sample by the scenario simulator.
+  const rows = schedule.breakpoints;
+  const lookup = makeColumnsRowLookup(
+    rows.map((row) => row.speed_mps),
+    [
+      rows.map((row) => row.kp),
+      rows.map((row) => row.ki),
+      rows.map((row) => row.kd),
+      rows.map((row) => row.setpointWeightProportional),
+      rows.map((row) => row.setpointWeightDerivative),
+      rows.map((row) => row.feedForward),
+      rows.map((row) => row.feedForwardLeadTime_s),
+    ],
+    scheduleLookupSettings(schedule),
+  );
+  const out = new Float64Array(7);
   const c = schedule.controller;
   return {
     settings: {
@@ -73,16 +88,17 @@ export function scheduleFirmware(schedule: Pick<ScheduleFile, 'breakpoints' | 'i
       integratorClamp_rad: c.integratorClamp_rad,
     },
     at: (speed_mps) => {
-      const pid = gains(speed_mps);
-      const more = extras(speed_mps);
+      lookup(speed_mps, out);
       return {
         gains: {
-          ...pid,
-          setpointWeightProportional: more.setpointWeightProportional,
-          setpointWeightDerivative: more.setpointWeightDerivative,
-          feedForward: more.feedForward,
+          kp: out[0],
+          ki: out[1],
+          kd: out[2],
+          setpointWeightProportional: out[3],
+          setpointWeightDerivative: out[4],
+          feedForward: out[5],
         },
-        feedForwardLeadTime_s: more.feedForwardLeadTime_s,
+        feedForwardLeadTime_s: out[6],
       };
     },
   };

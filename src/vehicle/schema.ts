@@ -39,6 +39,12 @@ export const VEHICLE_SCHEMA = {
     actuatorLag_s: number('First-order lag of the steering actuator position loop, s.'),
     actuatorDelay_s: number('Transport delay of the steering actuator, s.'),
     controllerSampleTime_s: number('Sample time of the firmware steering controller, s.'),
+    serviceAcceleration_mps2: number(
+      'Acceleration the vehicle uses in service, m/s² (not the most it can do): the speed ramp through the range the scenarios judge a schedule by.',
+    ),
+    serviceDeceleration_mps2: number(
+      'Service braking deceleration the vehicle uses, m/s² (not an emergency stop): the braking through the range the scenarios judge a schedule by.',
+    ),
     frontCorneringStiffness_NPerRad: number('Nominal whole front axle cornering stiffness (simulator only), N/rad.'),
     rearCorneringStiffness_NPerRad: number('Nominal whole rear axle cornering stiffness (simulator only), N/rad.'),
   } satisfies Partial<Record<VehicleField | '$schema', unknown>>,
@@ -132,6 +138,20 @@ export const VEHICLE_RANGES: readonly FieldRange[] = [
     maximum: 1,
     expected: 'a sample time from 0.0001 s (10 kHz) to below 1 s',
     advice: 'enter the controller period in seconds, e.g. 0.01 for 100 Hz',
+  },
+  {
+    field: 'serviceAcceleration_mps2',
+    minimum: 0,
+    maximum: 10,
+    expected: 'an acceleration above 0 m/s² and below 10 m/s² (about 1 g)',
+    advice: 'enter the acceleration the vehicle uses in service in m/s² (1 m/s² ≈ 0.1 g)',
+  },
+  {
+    field: 'serviceDeceleration_mps2',
+    minimum: 0,
+    maximum: 10,
+    expected: 'a deceleration above 0 m/s² and below 10 m/s² (about 1 g), as a positive number',
+    advice: 'enter the service braking deceleration in m/s², positive (2 m/s² ≈ 0.2 g, firm braking on a road)',
   },
   {
     field: 'frontCorneringStiffness_NPerRad',

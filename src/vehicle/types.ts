@@ -20,6 +20,12 @@ export interface Vehicle {
   readonly actuatorDelay_s?: number;
   /** Firmware controller sample time, s. */
   readonly controllerSampleTime_s?: number;
+  /**
+   * The acceleration and deceleration the vehicle uses in service (not the most it can do), m/s²: the speed changes
+   * through the range that the scenarios judge a schedule by (plan check.rampAcceleration_mps2, check.brakingDeceleration_mps2).
+   */
+  readonly serviceAcceleration_mps2?: number;
+  readonly serviceDeceleration_mps2?: number;
   /** Whole-axle nominal cornering stiffnesses for the simulator, N/rad. */
   readonly frontCorneringStiffness_NPerRad?: number;
   readonly rearCorneringStiffness_NPerRad?: number;

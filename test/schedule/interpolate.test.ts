@@ -2,8 +2,10 @@ import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { makeGainLookup } from '../../src/schedule/interpolate.js';
 import { hermiteValue, monotoneCubicSlopes } from '../../src/schedule/monotone-cubic.js';
+import { scheduleExtrasLookup, scheduleFirmware, scheduleLookup } from '../../src/schedule/schedule-lookup.js';
 import type { GainTable, InterpolationMethod } from '../../src/schedule/types.js';
 import { runPython } from '../helpers/python.js';
+import { sampleSchedule } from './sample-schedule.js';
 
 /** Floating-point rounding allowance, relative. */
 const ROUNDING = 1e-13;
@@ -182,4 +184,39 @@ print(json.dumps(CubicHermiteSpline(d['x'], d['y'], d['m'])(d['q']).tolist()))`,
       expect((m[k] / secant) ** 2 + (m[k + 1] / secant) ** 2).toBeLessThanOrEqual(9 + 1e-12);
     }
   });
+});
+
+describe("scheduleFirmware(schedule).at: the firmware's one lookup of every scheduled number", () => {
+  for (const interpolation of METHODS) {
+    it(`${interpolation}: gives what the gain lookup and the extras lookup give separately, to the bit, at and between breakpoints, below the floor and beyond the table`, () => {
+      // Property: one search for the interval and each column interpolated on its own is the same arithmetic as the separate lookups.
+      const schedule = sampleSchedule({ interpolation });
+      const firmware = scheduleFirmware(schedule);
+      const gains = scheduleLookup(schedule);
+      const extras = scheduleExtrasLookup(schedule);
+      const speeds = schedule.breakpoints.map((row) => row.speed_mps);
+      const queries = [0, ...speeds, ...speeds.slice(1).map((v, k) => (v + speeds[k]) / 2), speeds[0] * 0.999, speeds[speeds.length - 1] * 1.5];
+      fc.assert(
+        fc.property(fc.constantFrom(...queries), fc.double({ min: 0, max: 60, noNaN: true }), (listed, random) => {
+          for (const speed of [listed, random]) {
+            const at = firmware.at(speed);
+            const { kp, ki, kd } = gains(speed);
+            const more = extras(speed);
+            expect(at).toEqual({
+              gains: {
+                kp,
+                ki,
+                kd,
+                setpointWeightProportional: more.setpointWeightProportional,
+                setpointWeightDerivative: more.setpointWeightDerivative,
+                feedForward: more.feedForward,
+              },
+              feedForwardLeadTime_s: more.feedForwardLeadTime_s,
+            });
+          }
+        }),
+      );
+      expect(() => firmware.at(Number.NaN)).toThrow(/finite speed/);
+    });
+  }
 });

@@ -5,7 +5,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { RULE_NAMES } from '../../src/tuning/registry.js';
 import { PLAN_SCHEMA } from '../../src/schedule/plan-schema.js';
-import { PLAN_DEFAULTS, planBreakpoints, planFromJson, readPlan, resolvePlan } from '../../src/schedule/plan.js';
+import { defaultPlanFile } from '../../src/schedule/default-plan.js';
+import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planSpeedChanges, readPlan, resolvePlan } from '../../src/schedule/plan.js';
 import { makeRuleParameterLookup } from '../../src/schedule/rule-parameters.js';
 
 describe('resolvePlan(partial)', () => {
@@ -37,6 +38,24 @@ describe('resolvePlan(partial)', () => {
     const fromPlan = resolvePlan({ controller: { sampleTime_s: 0.02, computationLatency_s: 0.001 } }, { vehicleSampleTime_s: 0.05 });
     expect(fromPlan.controller.sampleTime_s).toBe(0.02);
     expect(fromPlan.controller.computationLatency_s).toBe(0.001);
+  });
+
+  it("judges the speed changes at the vehicle file's service rates where it states them, else 1 and 2 m/s²; a plan's own rates win", () => {
+    // Source: our defaults (src/performance/defaults.ts SIMULATION_DEFAULTS: ≈ 0.1 g ramp, ≈ 0.2 g braking).
+    const ours = resolvePlan({});
+    expect([ours.check.rampAcceleration_mps2, ours.check.brakingDeceleration_mps2]).toEqual([1, 2]);
+    const gentle = resolvePlan({}, { vehicleServiceDeceleration_mps2: 1 });
+    expect([gentle.check.rampAcceleration_mps2, gentle.check.brakingDeceleration_mps2]).toEqual([1, 1]);
+    const both = resolvePlan({}, { vehicleServiceAcceleration_mps2: 0.5, vehicleServiceDeceleration_mps2: 1.5 });
+    expect(planSpeedChanges(both)).toEqual({ acceleration_mps2: 0.5, deceleration_mps2: 1.5 });
+    const planSays = resolvePlan({ check: { brakingDeceleration_mps2: 3 } }, { vehicleServiceDeceleration_mps2: 1 });
+    expect(planSays.check.brakingDeceleration_mps2).toBe(3);
+    // The default plan written out leaves them to the vehicle file, as no plan does.
+    const written = resolvePlan(defaultPlanFile(), { vehicleServiceDeceleration_mps2: 1 });
+    expect(written.check.brakingDeceleration_mps2).toBe(1);
+    expect(written.check).toEqual(gentle.check);
+    // A plan recorded before the plan had these fields: the rates such a schedule was built with.
+    expect(planSpeedChanges({ check: { gridSpeeds: 200 } })).toEqual({ acceleration_mps2: 1, deceleration_mps2: 2 });
   });
 
   it('required delay margin is latency plus half a sample (zero-order hold) plus room', () => {

@@ -89,6 +89,16 @@ describe('loadVehicle(path)', () => {
     expect(error.message).toMatch(/degrees/);
   });
 
+  it('reads the service acceleration and deceleration, and refuses a negative or zero one (a deceleration is given as a positive number)', () => {
+    const gentle = validateVehicle({ ...GOOD, serviceDeceleration_mps2: 1, serviceAcceleration_mps2: 0.5 }, 'v.json');
+    expect([gentle.serviceAcceleration_mps2, gentle.serviceDeceleration_mps2]).toEqual([0.5, 1]);
+    const error = errorOf(() => validateVehicle({ ...GOOD, serviceDeceleration_mps2: -2 }, 'v.json'));
+    expect(error.code).toBe('vehicle.outOfRange');
+    expect(error.location).toEqual({ file: 'v.json', jsonPath: '/serviceDeceleration_mps2' });
+    expect(error.message).toMatch(/serviceDeceleration_mps2 is -2, expected a deceleration above 0 m\/s² and below 10 m\/s² .*positive/);
+    expect(errorOf(() => validateVehicle({ ...GOOD, serviceAcceleration_mps2: 0 }, 'v.json')).location.jsonPath).toBe('/serviceAcceleration_mps2');
+  });
+
   it('accepts a zero actuator lag and delay', () => {
     expect(validateVehicle({ ...GOOD, actuatorLag_s: 0, actuatorDelay_s: 0 }, 'v.json').actuatorLag_s).toBe(0);
   });

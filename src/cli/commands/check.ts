@@ -44,6 +44,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
   const { recheckScheduleOnAllCores } = await import('../../pipeline/recheck-schedule.js');
   const { formatRecheck } = await import('../../pipeline/schedule-report.js');
   const { formatScenarioCheck } = await import('../../pipeline/scenario-report.js');
+  const { scheduleSpeedChanges } = await import('../../pipeline/simulate-schedule.js');
   const schedulePath = args.schedule;
   const schedule = readSchedule(schedulePath);
   const { model, notes } = await checkModelFromArgs(args, schedule, schedulePath, io);
@@ -92,7 +93,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
       `${schedulePath}: schema valid, checksum ${schedule.checksum.value.slice(0, 16)}… verified\n` +
         notes.map((note) => `${note}\n`).join('') +
         formatRecheck(`model: ${model.description}`, result, schedule, model.kind) +
-        (scenarios.check === null ? '' : formatScenarioCheck(scenarios.check, schedule.loop.kind)) +
+        (scenarios.check === null ? '' : formatScenarioCheck(scenarios.check, schedule.loop.kind, scheduleSpeedChanges(schedule))) +
         (robust === null
           ? schedule.variations === undefined
             ? ''
@@ -130,7 +131,7 @@ async function checkScenarios(
   if (model.summary.kind !== 'single-track')
     return { check: null, notes: ['note: the scenarios need the single-track model; not run on per-speed yaw-rate models'] };
   const { loadVehicle, resolveVehiclePath } = await import('../../vehicle/load.js');
-  const { judgeScheduleScenarios, scenarioParameters } = await import('../../pipeline/simulate-schedule.js');
+  const { judgeScheduleScenarios, scenarioParameters, scheduleSpeedChanges } = await import('../../pipeline/simulate-schedule.js');
   const vehicle = loadVehicle(resolveVehiclePath(args.vehicle));
   const { parameters, description } = scenarioParameters(model, vehicle);
   const check = judgeScheduleScenarios({
@@ -139,6 +140,7 @@ async function checkScenarios(
     steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
     limits: recorded.limits,
     model: description,
+    sizes: scheduleSpeedChanges(schedule),
   });
   return { check, notes: [] };
 }

@@ -42,8 +42,16 @@ function builder(yargs: Argv) {
     })
     .option('lane-change-width-m', { type: 'number', describe: 'Lane change: sideways distance, m (default 3.5)' })
     .option('lane-change-length-m', { type: 'number', describe: 'Lane change: distance travelled while changing lane, m (default max(4 s of travel, 20 m))' })
-    .option('acceleration-mps2', { type: 'number', describe: 'speed-ramp-in-curve: acceleration through the range, m/s² (default 1)' })
-    .option('deceleration-mps2', { type: 'number', describe: 'braking-in-curve: deceleration through the range, m/s² (default 2)' })
+    .option('acceleration-mps2', {
+      type: 'number',
+      describe:
+        "speed-ramp-in-curve: acceleration through the range, m/s² (default: the schedule's plan, check.rampAcceleration_mps2 — the vehicle file's serviceAcceleration_mps2, else 1)",
+    })
+    .option('deceleration-mps2', {
+      type: 'number',
+      describe:
+        "braking-in-curve: deceleration through the range, m/s² (default: the schedule's plan, check.brakingDeceleration_mps2 — the vehicle file's serviceDeceleration_mps2, else 2)",
+    })
     .option('out', {
       type: 'string',
       describe: "Write the traces as CSV (time_s, speed_mps, reference/measurement/error in the loop's unit, command_rad, steerAngle_rad, …)",
@@ -97,7 +105,7 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     sizes[field] = value;
   }
   const { readSchedule } = await import('../../schedule/schedule-file.js');
-  const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../pipeline/simulate-schedule.js');
+  const { simulateSchedule, scenarioSpeeds, scenarioParameters, scheduleSpeedChanges } = await import('../../pipeline/simulate-schedule.js');
   const { checkModelFromArgs } = await import('../check-model-args.js');
   const schedule = readSchedule(schedulePath);
   const vehicle = loadVehicle(resolveVehiclePath(args.vehicle));
@@ -120,7 +128,8 @@ async function run(args: Args, io: CommandIo): Promise<number> {
     steeringLimits: { maxSteerAngle_rad: vehicle.maxSteerAngle_rad, maxSteerRate_radps: vehicle.maxSteerRate_radps },
     scenarios,
     speeds: speeds.length > 0 ? speeds : scenarioSpeeds(schedule, { withBreakpoints: false }),
-    sizes,
+    // The speed changes the schedule was judged at (its plan), unless given here.
+    sizes: { ...scheduleSpeedChanges(schedule), ...sizes },
   });
   let outcome: string | null = null;
   if (out !== undefined) {
