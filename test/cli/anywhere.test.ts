@@ -1,10 +1,11 @@
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
+import { existsSync, mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { commandPrefix } from '../../src/cli/invocation.js';
+import { readSchedule } from '../../src/schedule/schedule-file.js';
 import { resolveVehiclePath } from '../../src/vehicle/load.js';
 
 // speedband used outside its repository: the binary run by its path from another folder, as a user who
@@ -17,10 +18,12 @@ function shell(command: string, cwd: string): { status: number | null; stdout: s
 }
 
 describe('speedband from any folder', () => {
-  it('demo prints "Next:" commands that run where they are printed (exit 0, or 1 where a check or comparison flags)', () => {
+  it('demo runs end to end from another folder: it finds the bundled vehicles, writes a schedule that passes, and prints "Next:" commands that run where they are printed (exit 0, or 1 where a check or comparison flags)', () => {
     const folder = mkdtempSync(join(tmpdir(), 'speedband-anywhere-'));
     const demo = shell(`${process.execPath} ${BIN} demo --out demo-out`, folder);
     expect(demo.status, demo.stderr).toBe(0);
+    expect(existsSync(join(folder, 'demo-out', 'schedule.json'))).toBe(true);
+    expect(readSchedule(join(folder, 'demo-out', 'schedule.json')).check.passed).toBe(true);
     const next = demo.stdout
       .split('\n')
       .slice(demo.stdout.split('\n').indexOf('Next:') + 1)

@@ -13,6 +13,7 @@ import { serialiseSchedule } from '../../src/schedule/schedule-json.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { integratorLoopMargins } from '../schedule/integrator-loop.js';
 import { sampleSchedule } from '../schedule/sample-schedule.js';
+import { expectSameBytes } from '../helpers/same-bytes.js';
 
 function scheduleFile(schedule: ScheduleFile = sampleSchedule()): { dir: string; path: string } {
   const dir = mkdtempSync(join(tmpdir(), 'speedband-export-cli-'));
@@ -200,7 +201,7 @@ describe('speedband export: output paths', () => {
       expect(await exportCli([path, '--format', 'json', '--out', out, '--force'], io)).toBe(2);
       expect(io.err()).toMatch(/never replaces an input/);
     }
-    expect(readFileSync(path)).toEqual(before);
+    expectSameBytes(readFileSync(path), before);
   });
 
   it('an --out that is a folder, under a file, a symbolic link, or in a folder that refuses new files is exit 2 with a message, not a stack trace', async () => {

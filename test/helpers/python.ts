@@ -27,9 +27,17 @@ export function runPython<T>(script: string, input: unknown): T {
 
 const PYTHON = process.env.SPEEDBAND_PYTHON ?? 'python3';
 const SINGLE_THREAD = { OPENBLAS_NUM_THREADS: '1', OMP_NUM_THREADS: '1', MKL_NUM_THREADS: '1' };
+/**
+ * glibc's allocator kept from returning memory to the system at every free: numpy's temporaries of a dense
+ * frequency sweep (0.5 MB each) otherwise map and unmap pages at each operation, and a script's time varies
+ * fourfold with what ran before it in the interpreter (7.6 s against 1.7 s for the sampled-margins reference,
+ * most of it in the kernel). Only how memory is obtained changes, never a computed value.
+ */
+const ALLOCATOR = { MALLOC_MMAP_THRESHOLD_: String(32 << 20), MALLOC_TRIM_THRESHOLD_: String(128 << 20), MALLOC_TOP_PAD_: String(64 << 20) };
+const INTERPRETER_ENV = { ...process.env, ...SINGLE_THREAD, ...ALLOCATOR };
 
 function runInNewInterpreter(script: string, input: string): string {
-  return execFileSync(PYTHON, ['-c', script], { input, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: { ...process.env, ...SINGLE_THREAD } });
+  return execFileSync(PYTHON, ['-c', script], { input, encoding: 'utf8', maxBuffer: 256 * 1024 * 1024, env: INTERPRETER_ENV });
 }
 
 /** The interpreter's loop: read a framed request, run it, answer with its output or its traceback. */
@@ -82,7 +90,7 @@ function startServer(): Server {
   execFileSync('mkfifo', [requestsPath, answersPath]);
   const child: ChildProcess = spawn(PYTHON, ['-c', SERVER, requestsPath, answersPath], {
     stdio: ['ignore', 'inherit', 'inherit'],
-    env: { ...process.env, ...SINGLE_THREAD },
+    env: INTERPRETER_ENV,
   });
   child.unref();
   // Opening a pipe blocks until the other end opens it: requests first, as the interpreter does.

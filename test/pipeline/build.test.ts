@@ -12,6 +12,7 @@ import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { sampledSingleTrackMarginsInPython, type SingleTrackLoopCase } from '../helpers/sampled-loop-reference.js';
 import { parcelVanLogs } from '../helpers/parcel-van.js';
+import { expectSameBytes } from '../helpers/same-bytes.js';
 
 const VAN = 'vehicles/parcel-van';
 const vanLogs = parcelVanLogs;
@@ -46,7 +47,7 @@ describe('speedband build', () => {
   it('is deterministic: the same inputs and plan give a byte-identical schedule', async () => {
     const again = join(dir, 'again.json');
     expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--out', again], recordingIo())).toBe(0);
-    expect(readFileSync(again)).toEqual(readFileSync(schedulePath));
+    expectSameBytes(readFileSync(again), readFileSync(schedulePath));
     // No machine paths inside: only base names of the inputs.
     expect(readFileSync(again, 'utf8')).not.toContain(dir);
   });
@@ -302,7 +303,9 @@ describe('inputs are never outputs, and output paths are checked before any work
       expect(io.err()).toMatch(message);
       expect(Date.now() - started).toBeLessThan(2000); // refused before identification and the dense check
     }
-    expect([readFileSync(log), readFileSync(vehicle), readFileSync(modelsPath)]).toEqual(before);
+    [readFileSync(log), readFileSync(vehicle), readFileSync(modelsPath)].forEach((after, k) =>
+      expectSameBytes(after, before[k], [log, vehicle, modelsPath][k]),
+    );
   });
 });
 
@@ -314,7 +317,7 @@ describe('the same logs in any order, and a log given twice', () => {
     expect(await runCli(['build', '--vehicle', VAN, '--logs', ...logs(), '--out', forward], recordingIo())).toBe(0);
     const shuffled = [logs()[2], logs()[0], logs()[3], logs()[1]];
     expect(await runCli(['build', '--vehicle', VAN, '--logs', ...shuffled, '--out', backward], recordingIo())).toBe(0);
-    expect(readFileSync(backward)).toEqual(readFileSync(forward));
+    expectSameBytes(readFileSync(backward), readFileSync(forward));
   });
 
   it('refuses a log given twice (same content, another name) with exit 2, naming both paths', async () => {
