@@ -3,7 +3,8 @@
  * rule for one number, a line over speed for a limit that varies with speed (a table,
  * src/schedule/acceptance-limits.ts), whose shading then covers only what is beyond it at every speed.
  */
-import type { NumberOverSpeed } from '../../core/by-speed.js';
+import { overSpeedText, type NumberOverSpeed } from '../../core/by-speed.js';
+import { shownNumber } from './html.js';
 import { ROLE_COLOURS } from './palette.js';
 import type { Mark } from './plot-types.js';
 
@@ -46,3 +47,6 @@ export function limitMarks(input: LimitToDraw): LimitOnPlot {
     ],
   };
 }
+
+/** A limit in the report's words: the number as the report shows numbers, or its range when it varies with speed. */
+export const limitWords = (limit: NumberOverSpeed): string => overSpeedText(limit, (value) => shownNumber(value));

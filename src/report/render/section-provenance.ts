@@ -1,12 +1,9 @@
 /** The record behind the schedule: tool versions, checksum, every input with its SHA-256, the model, the rule, the controller equation, the limits, the plan. */
-import { overSpeedText } from '../../core/by-speed.js';
+import { limitWords } from './limit-marks.js';
 import type { ReportData } from '../types.js';
 import { escapeHtml, fixedNumber, htmlTable, numberCell, shownNumber, textCell, type Cell } from './html.js';
 
 /** A record's fields as rows sorted by name (the same order however the record was built); numbers exact in `<data>`, nested values as JSON text. */
-/** A limit in words: the number, or its range when it varies with speed. */
-const limitWords = (value: Parameters<typeof overSpeedText>[0]): string => overSpeedText(value, (v) => shownNumber(v));
-
 function recordRows(record: Readonly<Record<string, unknown>>): Cell[][] {
   return Object.entries(record)
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))

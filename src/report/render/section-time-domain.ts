@@ -5,7 +5,8 @@
  * through the steering limits), the disturbances, the path loop's lane change and curve entry, and the
  * steering angle and rate against the vehicle's limits.
  */
-import { overSpeedText, type NumberOverSpeed } from '../../core/by-speed.js';
+import { limitWords } from './limit-marks.js';
+import type { NumberOverSpeed } from '../../core/by-speed.js';
 import { limitMarks } from './limit-marks.js';
 import type { ScheduleFile } from '../../schedule/schedule-types.js';
 import type { RobustTimeDomainFigure } from '../../schedule/variation-types.js';
@@ -145,9 +146,6 @@ function figuresAgainstSpeed(schedule: ScheduleFile, old: readonly (Figures | nu
 /** Markers of the old gains' series, by the series' place in its panel (all in the baseline's colour). */
 const OLD_SHAPES = ['open-circle', 'plus', 'cross'] as const;
 
-/** A limit in words: the number, or its range when it varies with speed. */
-const limitWords = (value: NumberOverSpeed): string => overSpeedText(value, (v) => shownNumber(v));
-
 /** One figure against speed. */
 function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpec {
   const speeds = schedule.breakpoints.map((breakpoint) => breakpoint.speed_mps);
@@ -191,7 +189,7 @@ function speedPanel(schedule: ScheduleFile, figure: FigureAgainstSpeed): PlotSpe
   });
   return {
     title: `${figure.name} against speed`,
-    description: `${figure.name} of the sampled closed loop at each breakpoint against speed, ${figure.unit}, with the limit ${overSpeedText(figure.limit, (v) => shownNumber(v))} ${figure.unit} (at most) and the side beyond it shaded`,
+    description: `${figure.name} of the sampled closed loop at each breakpoint against speed, ${figure.unit}, with the limit ${limitWords(figure.limit)} ${figure.unit} (at most) and the side beyond it shaded`,
     x: { label: 'speed, m/s', domain: [schedule.check.range.minimum_mps, schedule.check.range.maximum_mps] },
     y: { label: `${figure.name}, ${figure.unit}`, include: [0, drawn.value * 1.1] },
     marks,
