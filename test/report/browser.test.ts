@@ -47,8 +47,14 @@ async function build(name: string, vehicle: string, extra: string[] = []): Promi
   return { name, schedule, report };
 }
 
+interface Opened {
+  readonly page: Page;
+  readonly errors: string[];
+  readonly requests: string[];
+}
+
 /** Open a report, recording console errors, page errors and every request. */
-async function open(report: string, context: BrowserContext = checking): Promise<{ page: Page; errors: string[]; requests: string[] }> {
+async function open(report: string, context: BrowserContext = checking): Promise<Opened> {
   const page = await context.newPage();
   const errors: string[] = [];
   const requests: string[] = [];
@@ -59,6 +65,17 @@ async function open(report: string, context: BrowserContext = checking): Promise
   page.on('request', (request) => requests.push(request.url()));
   await page.goto(pathToFileURL(report).href, { waitUntil: 'load' });
   return { page, errors, requests };
+}
+
+/**
+ * Each report opened once in the checking context, on first use, and read by the tests below that only read it
+ * (loading a 1 MB report costs Chromium about a second); the one change a test makes, hiding the marks, it undoes.
+ */
+const checkedPages = new Map<string, Promise<Opened>>();
+function openChecked(report: string): Promise<Opened> {
+  const opened = checkedPages.get(report) ?? open(report);
+  checkedPages.set(report, opened);
+  return opened;
 }
 
 beforeAll(async () => {
@@ -100,7 +117,7 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
   it('each report loads with no console error and requests nothing but itself; every plot has a title, a description, data marks and a table to fall back on; no plot is blank', async () => {
     for (const built of reports) {
       expect(statSync(built.report).size, built.name).toBeLessThan(3 * 1024 * 1024);
-      const { page, errors, requests } = await open(built.report);
+      const { page, errors, requests } = await openChecked(built.report);
       expect(errors, built.name).toEqual([]);
       expect(requests, built.name).toEqual([pathToFileURL(built.report).href]);
       const plots = await page.$$eval('svg.plot', (svgs) =>
@@ -131,21 +148,23 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
       // Blank: the data marks must put ink on the plotting area — its pixels vary, and are darker than on the same page with
       // the marks hidden (a mark drawn in white, or outside the area, or not at all, adds none). Screenshots at half scale.
       const shown = decodePng(await page.screenshot({ fullPage: true }));
-      await page.addStyleTag({ content: '.marks { visibility: hidden; }' });
+      const hiding = await page.addStyleTag({ content: '.marks { visibility: hidden; }' });
       const hidden = decodePng(await page.screenshot({ fullPage: true }));
+      await hiding.evaluate((style) => {
+        style.parentNode?.removeChild(style);
+      });
       for (const plot of plots) {
         const area = { x: plot.area.x / 2, y: plot.area.y / 2, width: plot.area.width / 2, height: plot.area.height / 2 };
         expect(greyVariance(shown, area), `${built.name}: ${plot.title}`).toBeGreaterThan(20);
         expect(inkedPixels(shown, hidden, area), `${built.name}: ${plot.title}`).toBeGreaterThan(20);
       }
-      await page.close();
     }
   }, 120_000);
 
   it('the numbers in the tables are those of schedule.json, read back from the page (every breakpoint field, the worst figures, the inputs, the checksum)', async () => {
     for (const built of [reports[0], reports[3], reports[4]]) {
       const schedule = readSchedule(built.schedule);
-      const { page } = await open(built.report);
+      const { page } = await openChecked(built.report);
       const rows = await page.$$eval('#breakpoints tbody tr', (trs) =>
         trs.map((tr) =>
           Object.fromEntries(
@@ -210,18 +229,16 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
       const inputs = await page.$$eval('#inputs tbody tr', (trs) => trs.map((tr) => [...tr.querySelectorAll('td')].map((td) => td.textContent)));
       expect(inputs).toEqual(schedule.provenance.inputs.map((input) => [input.file, input.role, input.sha256]));
       expect(await page.textContent('#checksum')).toBe(schedule.checksum.value);
-      await page.close();
     }
   }, 60_000);
 
   it('after a change it leads with the old gains on the new vehicle, right after the cautions', async () => {
-    const { page } = await open(reports[3].report);
+    const { page } = await openChecked(reports[3].report);
     const order = await page.$$eval('h1, h2', (headings) => headings.map((heading) => heading.textContent));
     expect(order.slice(0, 3)).toEqual(['Steering gain schedule — parcel-van-loaded', 'Safety', 'After the change: the old gains on the new vehicle']);
     expect(await page.textContent('#old-gains')).toMatch(
       /The old gains do NOT hold on the new vehicle model: .* at \d+ of \d+ speeds checked .* — at [\d.]+–[\d.]+ m\/s \(phase margin/,
     );
-    await page.close();
   }, 30_000);
 
   it('screenshots at 1280 px and in print emulation; the print layout fits the printable width of A4 and of Letter, without navigation or fallback tables; both print as PDF (the loaded van and the path loop)', async () => {
