@@ -173,12 +173,17 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
   const a1 = a[1] ?? 0;
   const a2 = a[2] ?? 0;
   const { plantRe, plantIm, cos1, sin1, cos2, sin2 } = response;
-  let sensitivity = 0;
-  let complementary = 0;
+  // Squared magnitudes throughout (a square root only where a crossover is interpolated): the peaks are the largest
+  // squares, and every comparison holds between squares as between magnitudes.
+  const stopS2 = stopS * stopS;
+  const stopT2 = stopT * stopT;
+  let sensitivity2 = 0;
+  let complementary2 = 0;
   let turn = 0;
   let previousRe = Number.NaN;
   let previousIm = Number.NaN;
-  let previousMagnitude = Number.NaN;
+  let previousOnePlus2 = Number.NaN;
+  let previousMagnitude2 = Number.NaN;
   let followed = true;
   const minimumPhase_rad = ((bounds?.phaseMargin_deg ?? 0) * Math.PI) / 180;
   for (let i = 0; i < plantRe.length; i++) {
@@ -194,30 +199,40 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
     const lIm = cRe * plantIm[i] + cIm * plantRe[i];
     const re = 1 + lRe;
     const im = lIm;
-    const onePlus = Math.hypot(re, im);
-    const s = 1 / onePlus;
-    const t = Math.hypot(lRe, lIm) / onePlus;
-    if (s > sensitivity) sensitivity = s;
-    if (t > complementary) complementary = t;
-    if (sensitivity > stopS || complementary > stopT) return { sensitivity, complementary, stable: false, feasible: false };
-    const magnitude = Math.hypot(lRe, lIm);
-    if (minimumPhase_rad > 0 && i > 0 && (previousMagnitude - 1) * (magnitude - 1) <= 0) {
+    const onePlus2 = re * re + im * im;
+    const magnitude2 = lRe * lRe + lIm * lIm;
+    // |S|² = 1/|1 + L|², |T|² = |L|²/|1 + L|²
+    const s2 = 1 / onePlus2;
+    const t2 = magnitude2 / onePlus2;
+    if (s2 > sensitivity2) sensitivity2 = s2;
+    if (t2 > complementary2) complementary2 = t2;
+    if (sensitivity2 > stopS2 || complementary2 > stopT2)
+      return { sensitivity: Math.sqrt(sensitivity2), complementary: Math.sqrt(complementary2), stable: false, feasible: false };
+    if (minimumPhase_rad > 0 && i > 0 && (previousMagnitude2 - 1) * (magnitude2 - 1) <= 0) {
       // A gain crossover between the two points: L there by linear interpolation in |L|; its phase distance from −1.
+      const previousMagnitude = Math.sqrt(previousMagnitude2);
+      const magnitude = Math.sqrt(magnitude2);
       const t = previousMagnitude === magnitude ? 0 : (previousMagnitude - 1) / (previousMagnitude - magnitude);
       const crossRe = previousRe - 1 + t * (lRe - (previousRe - 1));
       const crossIm = previousIm + t * (lIm - previousIm);
-      if (Math.PI - Math.abs(Math.atan2(crossIm, crossRe)) < minimumPhase_rad) return { sensitivity, complementary, stable: false, feasible: false };
+      if (Math.PI - Math.abs(Math.atan2(crossIm, crossRe)) < minimumPhase_rad)
+        return { sensitivity: Math.sqrt(sensitivity2), complementary: Math.sqrt(complementary2), stable: false, feasible: false };
     }
-    previousMagnitude = magnitude;
+    previousMagnitude2 = magnitude2;
     if (i > 0) {
       // The chord from the last point must not reach −1 (|ΔL| below both distances to −1): then the turn is that of the chord.
-      const stepLength = Math.hypot(re - previousRe, im - previousIm);
-      if (!(stepLength < Math.min(onePlus, Math.hypot(previousRe, previousIm)))) followed = false;
+      const stepRe = re - previousRe;
+      const stepIm = im - previousIm;
+      const step2 = stepRe * stepRe + stepIm * stepIm;
+      if (!(step2 < Math.min(onePlus2, previousOnePlus2))) followed = false;
       turn += Math.atan2(previousRe * im - previousIm * re, previousRe * re + previousIm * im);
     }
     previousRe = re;
     previousIm = im;
+    previousOnePlus2 = onePlus2;
   }
+  const sensitivity = Math.sqrt(sensitivity2);
+  const complementary = Math.sqrt(complementary2);
   // The count assumes the low end of the grid is below every corner of the loop: the controller's too.
   if (gains.ki !== 0 && Math.abs(gains.ki) < CORNER_ABOVE_LOWEST * response.frequency_radps[0] * Math.abs(gains.kp)) followed = false;
   const integrators = response.plantIntegrators + (gains.ki !== 0 ? 1 : 0);
