@@ -111,16 +111,14 @@ export function firmwareStep(gains: FirmwareGains, settings: FirmwareSettings, s
   let increment = tustin ? (t / 2) * (integrand + state.previousIntegrand) : t * integrand;
   if (settings.antiWindup === 'back-calculation' && state.previousSaturation !== 0 && gains.ki !== 0)
     increment += (t * state.previousSaturation) / trackingTime_s(gains);
-  const clampIntegral = (value: number): number => {
-    const high = settings.integratorClamp_rad - feedForward;
-    const low = -settings.integratorClamp_rad - feedForward;
-    return value > high ? high : value < low ? low : value;
-  };
-  let integral = clampIntegral(state.integral + increment);
+  // The integral is clamped so that feed-forward plus integral stays within ±integratorClamp_rad.
+  const high = settings.integratorClamp_rad - feedForward;
+  const low = -settings.integratorClamp_rad - feedForward;
+  let integral = clampTo(state.integral + increment, low, high);
   let unlimited = feedForward + proportional + integral + derivative;
   const limit = settings.commandLimit_rad;
   if (settings.antiWindup === 'conditional-integration' && Math.abs(unlimited) > limit && Math.sign(increment) === Math.sign(unlimited)) {
-    integral = clampIntegral(state.integral);
+    integral = clampTo(state.integral, low, high);
     unlimited = feedForward + proportional + integral + derivative;
   }
   const command = unlimited > limit ? limit : unlimited < -limit ? -limit : unlimited;
@@ -129,4 +127,8 @@ export function firmwareStep(gains: FirmwareGains, settings: FirmwareSettings, s
     unlimited,
     state: { integral, derivative, previousDerivativeInput: derivativeInput, previousIntegrand: integrand, previousSaturation: command - unlimited },
   };
+}
+
+function clampTo(value: number, low: number, high: number): number {
+  return value > high ? high : value < low ? low : value;
 }

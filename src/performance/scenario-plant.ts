@@ -152,14 +152,29 @@ function integratePiece(plant: ScenarioPlant, time_s: number, kind: PieceKind, d
   if (plant.exact !== null) {
     const { phi, gamma } = plant.exact.piece(kind, duration);
     const inputs = inputsAt(plant, time_s + duration / 2, input);
-    const { scratch } = plant;
-    for (let i = 0; i < STATES; i++) {
-      let sum = 0;
-      for (let j = 0; j < STATES; j++) sum += phi[i * STATES + j] * x[j];
-      for (let j = 0; j < INPUTS; j++) sum += gamma[i * INPUTS + j] * inputs[j];
-      scratch[i] = sum;
+    // x ← Φ·x + Γ·u written out for the five states and four inputs (path-frame-vehicle.ts): the scenarios' innermost
+    // step, a third of a build's scenario time as two nested loops.
+    const x0 = x[0];
+    const x1 = x[1];
+    const x2 = x[2];
+    const x3 = x[3];
+    const x4 = x[4];
+    const u0 = inputs[0];
+    const u1 = inputs[1];
+    const u2 = inputs[2];
+    const u3 = inputs[3];
+    for (let i = 0, p = 0, g = 0; i < 5; i++, p += 5, g += 4) {
+      x[i] =
+        phi[p] * x0 +
+        phi[p + 1] * x1 +
+        phi[p + 2] * x2 +
+        phi[p + 3] * x3 +
+        phi[p + 4] * x4 +
+        gamma[g] * u0 +
+        gamma[g + 1] * u1 +
+        gamma[g + 2] * u2 +
+        gamma[g + 3] * u3;
     }
-    x.set(scratch);
   } else {
     const steps = Math.max(1, Math.ceil((duration / plant.sampleTime_s) * plant.stepsPerSample - 1e-9));
     const h = duration / steps;
