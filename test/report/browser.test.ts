@@ -5,7 +5,7 @@
  * sprayer, the sidewalk robot, the van's path loop (the default path plan), and the loaded van against the van's
  * schedule as its baseline. No console error,
  * no request beyond the file itself, every plot with data marks that actually paint pixels, the tables equal to
- * schedule.json, and a print layout that fits A4 and Letter. Screenshots are left in the folder printed by
+ * schedule.json, and a print layout that fits A4 and Letter. Screenshots are left in the folder named by
  * SCREENSHOTS below for a person to look at.
  */
 import { mkdirSync, mkdtempSync, readFileSync, statSync, writeFileSync } from 'node:fs';
@@ -23,6 +23,11 @@ import { decodePng, greyVariance, inkedPixels } from '../helpers/png.js';
 const dir = mkdtempSync(join(tmpdir(), 'speedband-report-browser-'));
 /** Where the screenshots are left. */
 const SCREENSHOTS = join(tmpdir(), 'speedband-report-screenshots');
+/**
+ * The screenshots left for a person show the first screen of each page; SPEEDBAND_FULL_SCREENSHOTS=1 takes whole pages
+ * (about 1.5 s of Chromium each at 1280 px: the checks below read the page itself, not these pictures).
+ */
+const FULL_PAGE_SCREENSHOTS = process.env.SPEEDBAND_FULL_SCREENSHOTS === '1';
 /** The printable width of A4 and US Letter with the report's 14 mm margins, CSS px (96 per inch). */
 const PRINTABLE_WIDTH_PX = { A4: ((210 - 28) / 25.4) * 96, Letter: ((215.9 - 28) / 25.4) * 96 };
 
@@ -244,13 +249,13 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
   it('screenshots at 1280 px and in print emulation; the print layout fits the printable width of A4 and of Letter, without navigation or fallback tables; both print as PDF (the loaded van and the path loop)', async () => {
     await (async () => {
       const { page } = await open(reports[0].report, full);
-      await page.screenshot({ path: join(SCREENSHOTS, `${reports[0].name}-1280.png`), fullPage: true });
+      await page.screenshot({ path: join(SCREENSHOTS, `${reports[0].name}-1280.png`), fullPage: FULL_PAGE_SCREENSHOTS });
       await page.close();
     })();
     // The loaded van (yaw-rate loop, with a baseline) and the path loop (the widest tables).
     for (const built of [reports[3], reports[4]]) {
       const { page } = await open(built.report, full);
-      await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-1280.png`), fullPage: true });
+      await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-1280.png`), fullPage: FULL_PAGE_SCREENSHOTS });
       await page.emulateMedia({ media: 'print' });
       for (const [paper, width] of Object.entries(PRINTABLE_WIDTH_PX)) {
         await page.setViewportSize({ width: Math.floor(width), height: 1100 });
@@ -270,7 +275,7 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
         expect(layout.widestTable, `${built.name} ${paper}`).toBeLessThanOrEqual(width);
         expect(layout.hidden, `${built.name} ${paper}`).toBe(true);
         expect(layout.cautionsFirst, `${built.name} ${paper}`).toBe(true);
-        if (paper === 'A4') await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-print-A4.png`), fullPage: true });
+        if (paper === 'A4') await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-print-A4.png`), fullPage: FULL_PAGE_SCREENSHOTS });
       }
       for (const format of ['A4', 'Letter'] as const) {
         const pdf = await page.pdf({ format, margin: { top: '14mm', bottom: '14mm', left: '14mm', right: '14mm' } });
