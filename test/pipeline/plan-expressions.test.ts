@@ -2,7 +2,7 @@ import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { buildSchedule } from '../../src/pipeline/build-schedule.js';
+import { BUILD_IDENTIFY_OPTIONS, buildSchedule } from '../../src/pipeline/build-schedule.js';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
 import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
@@ -17,9 +17,13 @@ const settling = (speed_mps: number): number => Math.max(90, 14 * speed_mps);
 let dir: string;
 let modelsPath: string;
 
+/** A path plan with damping-target's parameters; no scenarios (what is tested is how the parameters reach the rule). */
 const writePlan = (name: string, parameters: Record<string, unknown>): string => {
   const path = join(dir, name);
-  writeFileSync(path, JSON.stringify({ loop: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, rule: { name: 'damping-target', parameters } }));
+  writeFileSync(
+    path,
+    JSON.stringify({ loop: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, rule: { name: 'damping-target', parameters }, check: { scenarios: false } }),
+  );
   return path;
 };
 
@@ -29,7 +33,7 @@ beforeAll(() => {
     .filter((name) => name.endsWith('.csv'))
     .map((name) => join(VAN, 'logs', name));
   modelsPath = join(dir, 'models.json');
-  writeModels(modelsPath, identifyFromLogs({ vehicle: VAN, logPaths: logs }), { force: false });
+  writeModels(modelsPath, identifyFromLogs({ vehicle: VAN, logPaths: logs, options: BUILD_IDENTIFY_OPTIONS }), { force: false });
 });
 
 describe('speedband build with a rule parameter given as an expression of speed', () => {
