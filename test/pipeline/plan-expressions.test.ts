@@ -22,7 +22,11 @@ const writePlan = (name: string, parameters: Record<string, unknown>): string =>
   const path = join(dir, name);
   writeFileSync(
     path,
-    JSON.stringify({ loop: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' }, rule: { name: 'damping-target', parameters }, check: { scenarios: false } }),
+    JSON.stringify({
+      loop: { kind: 'path', preview_m: 2, referencePoint: 'front-axle' },
+      rule: { name: 'damping-target', parameters },
+      check: { scenarios: false },
+    }),
   );
   return path;
 };
