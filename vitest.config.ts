@@ -17,5 +17,7 @@ export default defineConfig({
     experimental: { fsModuleCache: true },
     // Property tests from one fixed seed: reproducible runs (test/helpers/fast-check-seed.ts).
     setupFiles: ['test/helpers/fast-check-seed.ts'],
+    // A folder for the demo builds that test files share (test/helpers/demo-builds.ts), made once per run.
+    globalSetup: ['test/helpers/global-setup.ts'],
   },
 });

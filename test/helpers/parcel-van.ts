@@ -23,9 +23,12 @@ export const PARCEL_VAN: SingleTrackParameters = {
 /** The van's firmware controller: the default settings at 100 Hz (one sample of latency). */
 export const PARCEL_VAN_CONTROLLER = { derivativeFilter: 10, sampleTime_s: 0.01, discretisation: 'backward-euler' as const, computationLatency_s: 0.01 };
 
-/** The demo van's step-test logs, in name order. */
-export const parcelVanLogs = (): string[] =>
-  readdirSync(join(PARCEL_VAN_FOLDER, 'logs'))
+/** The step-test logs of a vehicle folder (its logs/ folder), in name order. */
+export const bundledLogs = (vehicleFolder: string): string[] =>
+  readdirSync(join(vehicleFolder, 'logs'))
     .filter((name) => name.endsWith('.csv'))
     .sort()
-    .map((name) => join(PARCEL_VAN_FOLDER, 'logs', name));
+    .map((name) => join(vehicleFolder, 'logs', name));
+
+/** The demo van's step-test logs, in name order. */
+export const parcelVanLogs = (): string[] => bundledLogs(PARCEL_VAN_FOLDER);

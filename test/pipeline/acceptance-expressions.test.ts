@@ -7,7 +7,8 @@ import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
 import { buildSchedule, type BuildResult } from '../../src/pipeline/build-schedule.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
-import { PARCEL_VAN_FOLDER, parcelVanLogs } from '../helpers/parcel-van.js';
+import { demoModels } from '../helpers/demo-builds.js';
+import { PARCEL_VAN_FOLDER } from '../helpers/parcel-van.js';
 
 /** A phase-margin limit that grows with speed: 20° at standstill, 2° more per m/s. */
 const PHASE = '20 + 2 * speed_mps';
@@ -19,8 +20,8 @@ let varying: BuildResult;
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'speedband-acceptance-expressions-'));
-  const plain = await buildSchedule({ vehicle: PARCEL_VAN_FOLDER, logPaths: parcelVanLogs(), plan: {} });
-  models = plain.models;
+  // The van identified from its bundled logs as build identifies (shared with the other tests that read it).
+  models = (await demoModels('parcel-van')).models;
   varying = await buildSchedule({ vehicle: PARCEL_VAN_FOLDER, logPaths: [], models, plan: { acceptance: { minimumPhaseMargin_deg: PHASE } } });
 }, 120_000);
 

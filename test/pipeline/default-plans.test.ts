@@ -3,26 +3,18 @@
  * example, build PASSED schedules on every demo vehicle (identified from its bundled logs), within the
  * time-domain limits; the figures the issue names are checked where it names them (low, mid and top speed).
  */
-import { readFileSync, readdirSync } from 'node:fs';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { isDeepStrictEqual } from 'node:util';
-import { BUILD_IDENTIFY_OPTIONS, buildSchedule } from '../../src/pipeline/build-schedule.js';
-import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
 import { scheduleSpeedChanges } from '../../src/pipeline/simulate-schedule.js';
-import type { ModelsFile } from '../../src/identify/models-schema.js';
 import { resolvePlan, type PartialPlan, type Plan, type ResolveContext } from '../../src/schedule/plan.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 import type { ScheduleBreakpoint, ScheduleFile } from '../../src/schedule/schedule-types.js';
+import { demoModels, demoSchedule } from '../helpers/demo-builds.js';
 import { runPython } from '../helpers/python.js';
 
 const VEHICLES = ['parcel-van', 'parcel-van-loaded', 'vineyard-sprayer', 'sidewalk-robot'];
-const logsOf = (vehicle: string): string[] =>
-  readdirSync(join('vehicles', vehicle, 'logs'))
-    .filter((name) => name.endsWith('.csv'))
-    .sort()
-    .map((name) => join('vehicles', vehicle, 'logs', name));
-
 /** The README's first JSON plan block (the path loop). */
 const readmePathPlan = (): PartialPlan => {
   const readme = readFileSync('README.md', 'utf8');
@@ -38,7 +30,6 @@ const PLANS: Record<string, () => PartialPlan> = {
   'path (README example)': readmePathPlan,
 };
 
-const models = new Map<string, ModelsFile>();
 const schedules = new Map<string, ScheduleFile>();
 /** Each plan as the build resolves it (the vehicle's test speeds and sample time), by `${vehicle} ${plan name}`. */
 const resolved = new Map<string, Plan>();
@@ -47,9 +38,10 @@ const resolved = new Map<string, Plan>();
 const buildInputsOf = (plan: PartialPlan, context: ResolveContext) => ({ plan: resolvePlan(plan, context), ruleParameters: plan.rule?.parameters ?? {} });
 
 beforeAll(async () => {
-  for (const vehicle of VEHICLES) {
-    const identified = identifyFromLogs({ vehicle: join('vehicles', vehicle), logPaths: logsOf(vehicle), options: BUILD_IDENTIFY_OPTIONS });
-    models.set(vehicle, identified);
+  // Built from the vehicles' bundled logs as `build` builds (shared with the other test files that read these
+  // schedules: test/helpers/demo-builds.ts); the van last, as the report's tests ask for it first.
+  for (const vehicle of [...VEHICLES].reverse()) {
+    const { models: identified } = await demoModels(vehicle);
     const sampleTime_s = loadVehicle(join('vehicles', vehicle, 'vehicle.json')).controllerSampleTime_s;
     const context: ResolveContext = {
       testSpeeds_mps: identified.speeds.map((speed) => speed.speed_mps),
@@ -62,7 +54,7 @@ beforeAll(async () => {
       // A plan that resolves to one already built (the README's path example is the path default written out) is the
       // same build: the build is deterministic and reads the plan only as resolved, so its schedule is taken again.
       const same = built.find((earlier) => isDeepStrictEqual(earlier.inputs, inputs));
-      const schedule = same?.schedule ?? (await buildSchedule({ vehicle: join('vehicles', vehicle), logPaths: [], models: identified, plan: plan() })).schedule;
+      const schedule = same?.schedule ?? (await demoSchedule(vehicle, plan())).schedule;
       if (same === undefined) built.push({ inputs, schedule });
       schedules.set(`${vehicle} ${name}`, schedule);
     }

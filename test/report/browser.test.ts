@@ -1,14 +1,14 @@
 /// <reference lib="dom" />
 /**
  * The report in a browser: headless Chromium (Debian's package, driven by playwright-core; nothing is
- * downloaded) opens the reports `build --report` writes for every demo vehicle — the parcel van, the vineyard
+ * downloaded) opens the reports `speedband report` writes for every demo vehicle — the parcel van, the vineyard
  * sprayer, the sidewalk robot, the van's path loop (the default path plan), and the loaded van against the van's
  * schedule as its baseline. No console error,
  * no request beyond the file itself, every plot with data marks that actually paint pixels, the tables equal to
  * schedule.json, and a print layout that fits A4 and Letter. Screenshots are left in the folder named by
  * SCREENSHOTS below for a person to look at.
  */
-import { mkdirSync, mkdtempSync, readFileSync, statSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readFileSync, statSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -16,8 +16,10 @@ import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
+import type { PartialPlan } from '../../src/schedule/plan.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import { launchChromium } from '../helpers/browser.js';
+import { demoModels, demoSchedule } from '../helpers/demo-builds.js';
 import { decodePng, greyVariance, inkedPixels } from '../helpers/png.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'speedband-report-browser-'));
@@ -42,13 +44,18 @@ let browser: Browser;
 let checking: BrowserContext;
 let full: BrowserContext;
 
-async function build(name: string, vehicle: string, extra: string[] = []): Promise<Built> {
-  const schedule = join(dir, `${name}.json`);
+/**
+ * The report of a demo vehicle's schedule (shared with the other tests that read it: test/helpers/demo-builds.ts),
+ * written by `speedband report` with the identification and the fits over its logs, as `build --report` writes it.
+ */
+async function reportOf(name: string, vehicle: string, options: { plan?: PartialPlan; baseline?: string } = {}): Promise<Built> {
+  const { path: schedule } = await demoSchedule(vehicle, options.plan);
+  const { path: models } = await demoModels(vehicle);
   const report = join(dir, `${name}.html`);
   const io = recordingIo();
-  const code = await runCli(['build', '--vehicle', vehicle, '--logs', join('vehicles', vehicle, 'logs'), '--out', schedule, '--report', report, ...extra], io);
-  // The loaded van's build exits 1: the OLD gains fail on it (the new schedule passes and is written).
-  if (code !== 0 && !(code === 1 && extra.includes('--baseline'))) throw new Error(`build of ${vehicle} failed: ${io.err()}${io.out()}`);
+  const baseline = options.baseline === undefined ? [] : ['--baseline', options.baseline];
+  const code = await runCli(['report', schedule, '--models', models, '--logs', join('vehicles', vehicle, 'logs'), ...baseline, '--out', report], io);
+  if (code !== 0) throw new Error(`report of ${vehicle} failed: ${io.err()}${io.out()}`);
   return { name, schedule, report };
 }
 
@@ -85,12 +92,12 @@ function openChecked(report: string): Promise<Opened> {
 
 beforeAll(async () => {
   mkdirSync(SCREENSHOTS, { recursive: true });
-  const van = await build('parcel-van', 'parcel-van', ['--models-out', join(dir, 'parcel-van-models.json')]);
-  reports.push(van, await build('vineyard-sprayer', 'vineyard-sprayer'), await build('sidewalk-robot', 'sidewalk-robot'));
-  reports.push(await build('parcel-van-loaded', 'parcel-van-loaded', ['--baseline', van.schedule]));
+  const van = await reportOf('parcel-van', 'parcel-van');
+  reports.push(van, await reportOf('vineyard-sprayer', 'vineyard-sprayer'), await reportOf('sidewalk-robot', 'sidewalk-robot'));
+  // The loaded van against the van's schedule: the old gains on the changed vehicle.
+  reports.push(await reportOf('parcel-van-loaded', 'parcel-van-loaded', { baseline: van.schedule }));
   // The path loop with the default path plan of the README.
-  writeFileSync(join(dir, 'path-plan.json'), JSON.stringify({ loop: { kind: 'path' } }));
-  reports.push(await build('parcel-van-path', 'parcel-van', ['--plan', join(dir, 'path-plan.json')]));
+  reports.push(await reportOf('parcel-van-path', 'parcel-van', { plan: { loop: { kind: 'path' } } }));
   browser = await launchChromium();
   checking = await browser.newContext({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 0.5 });
   full = await browser.newContext({ viewport: { width: 1280, height: 900 } });

@@ -9,7 +9,6 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
-import { readModels } from '../../src/identify/models-file.js';
 import { thinnedSignal, TRACE_STRETCHES } from '../../src/report/closed-loop-traces.js';
 import { reportSectionTitles } from '../../src/report/render/index.js';
 import { gatherReportData } from '../../src/report/report-data.js';
@@ -18,28 +17,19 @@ import { escapeHtml } from '../../src/report/render/html.js';
 import { renderReportHtml } from '../../src/report/write-report.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
+import { demoModels, demoSchedule } from '../helpers/demo-builds.js';
 
 const VAN = 'vehicles/parcel-van';
 let yawRate: ReportData;
 let path: ReportData;
 
-async function cli(...args: string[]): Promise<void> {
-  const io = recordingIo();
-  const code = await runCli(args, io);
-  if (code !== 0) throw new Error(`${args.join(' ')} failed: ${io.err()}${io.out()}`);
-}
-
 beforeAll(async () => {
-  const dir = mkdtempSync(join(tmpdir(), 'speedband-closed-loop-'));
-  const models = join(dir, 'models.json');
-  await cli('build', '--vehicle', VAN, '--logs', join(VAN, 'logs'), '--out', join(dir, 'yaw-rate.json'), '--models-out', models);
-  // The default path plan (README): {"loop":{"kind":"path"}}.
-  writeFileSync(join(dir, 'path-plan.json'), JSON.stringify({ loop: { kind: 'path' } }));
-  await cli('build', '--vehicle', VAN, '--models', models, '--plan', join(dir, 'path-plan.json'), '--out', join(dir, 'path.json'));
-  const content = readModels(models);
+  // The van's default yaw-rate schedule and its default path plan (README: {"loop":{"kind":"path"}}), built from its
+  // bundled logs (shared with the other tests that read them: test/helpers/demo-builds.ts).
+  const { path: models, models: content } = await demoModels('parcel-van');
   for (const name of ['yaw-rate', 'path'] as const) {
-    const file = join(dir, `${name}.json`);
-    const data = gatherReportData({ schedule: readSchedule(file), scheduleFile: file, models: { file: models, content } });
+    const { path: file, schedule } = await demoSchedule('parcel-van', name === 'path' ? { loop: { kind: 'path' } } : {});
+    const data = gatherReportData({ schedule, scheduleFile: file, models: { file: models, content } });
     if (name === 'path') path = data;
     else yawRate = data;
   }

@@ -6,14 +6,13 @@
  */
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { buildSchedule } from '../../src/pipeline/build-schedule.js';
 import { recordedCheckModel } from '../../src/pipeline/recheck-schedule.js';
 import { worstCaseMarginsAt } from '../../src/pipeline/robust-analysis.js';
-import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { analyseLoop } from '../../src/verify/analyse-loop.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
+import { demoSchedule } from '../helpers/demo-builds.js';
 import { sampledSingleTrackMarginsInPython } from '../helpers/sampled-loop-reference.js';
 import { CONTROLLER, YAW_LOOP, vanContext } from './van-loop.js';
 
@@ -54,12 +53,8 @@ function phaseMarginOf(p: SingleTrackParameters, vx: number, gains: { kp: number
 
 let schedule: ScheduleFile;
 beforeAll(async () => {
-  const models = identifyFromLogs({
-    vehicle: join('vehicles', 'parcel-van'),
-    logPaths: [join('vehicles', 'parcel-van', 'logs')],
-    options: { fitSecondOrder: false },
-  });
-  schedule = (await buildSchedule({ vehicle: join('vehicles', 'parcel-van'), logPaths: [], models })).schedule;
+  // The van's default schedule from its bundled logs (shared with the other tests that read it).
+  schedule = (await demoSchedule('parcel-van')).schedule;
 }, 120_000);
 
 describe('containment of the loaded van in a box around the van', () => {
