@@ -1,14 +1,19 @@
 /**
  * The dense check of a path-loop schedule at 20,000 speeds, in-process (issue: verdicts that never depend on
  * the grid; target ≥ 5,000 speeds/s): the parcel van with the README's path plan (2 m preview from the front
- * axle, damping-target placement), on the main thread alone and on every core (`recheckScheduleOnAllCores`).
+ * axle, damping-target placement), on the main thread alone and on every core (`recheckScheduleOnAllCores`, from
+ * dist/ as the CLI runs it: its worker threads load the built modules; run `npm run build` first).
  * Figures: median and fastest of 3 runs each, speeds per second, and the verdicts found (none may be marginal).
  */
 import { availableParallelism } from 'node:os';
+import { join } from 'node:path';
 import { buildSchedule } from '../src/pipeline/build-schedule.js';
-import { recheckSchedule, recheckScheduleOnAllCores, recordedCheckModel } from '../src/pipeline/recheck-schedule.js';
+import { recheckSchedule, recordedCheckModel } from '../src/pipeline/recheck-schedule.js';
 import { printFigure, timeMs } from './measure.js';
 
+const { recheckScheduleOnAllCores } = (await import(
+  join(process.cwd(), 'dist/pipeline/recheck-schedule.js')
+)) as typeof import('../src/pipeline/recheck-schedule.js');
 const SPEEDS = 20_000;
 const RUNS = 3;
 const { schedule } = await buildSchedule({

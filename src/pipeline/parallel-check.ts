@@ -15,7 +15,7 @@ import type { AcceptanceThresholds, CheckPoint, DenseCheckResult, GainsAtSpeed, 
 import type { CheckModel } from './check-model.js';
 import type { CheckChunk, WorkerData } from './check-worker.js';
 import { makeLoopAnalysis } from './loop-analysis.js';
-import { runOnAllCores } from './work-queue.js';
+import { runOnAllCores, runningFromSources } from './work-queue.js';
 
 export const PARALLEL_CHECK_DEFAULTS = {
   /** Grids smaller than this run on the main thread alone (worker start-up would cost more than it saves). */
@@ -53,9 +53,14 @@ export function checkChunks(grid: ArrayLike<number>, gainsAt: GainsAtSpeed, size
   return chunks;
 }
 
-/** Worker threads for a check: the caller's number, else the available parallelism − 1, at most PARALLEL_CHECK_DEFAULTS.maximumWorkers. */
+/**
+ * Worker threads for a check: the caller's number, else the available parallelism − 1, at most
+ * PARALLEL_CHECK_DEFAULTS.maximumWorkers. From the TypeScript sources (tests, benches) none unless asked for: each
+ * worker would first compile the whole check (seconds of a core), more than a test's check takes on one thread.
+ */
 export function workerCount(requested: number | undefined): number {
-  return Math.min(requested ?? Math.max(0, availableParallelism() - 1), PARALLEL_CHECK_DEFAULTS.maximumWorkers);
+  const unrequested = runningFromSources() ? 0 : Math.max(0, availableParallelism() - 1);
+  return Math.min(requested ?? unrequested, PARALLEL_CHECK_DEFAULTS.maximumWorkers);
 }
 
 /** The dense check of `grid` with the analysis of `model`, on the main thread and worker threads; see the module comment. */
