@@ -1,7 +1,8 @@
 /**
  * The main job's benchmark (issue: build/check/export). Figures:
- * - whole-process `speedband build` on the parcel van's logs (built CLI), wall time and peak memory;
- *   target < 1 s (stretch 0.6 s) on the 2-core machine;
+ * - whole-process `speedband build` on the parcel van's logs (built CLI), wall time and peak memory; target < 1.5 s
+ *   on the 2-core machine with the closed-loop scenarios, which a build runs by default (< 1 s before them; the
+ *   scenarios' own bench, scenarios.bench.ts, times the build with and without them);
  * - in the same run, the whole-process time merely to read and parse the same logs, and the ratio,
  *   so that start-up and import costs stay visible;
  * - the dense check of 2,000 grid speeds in-process (target < 0.5 s).
@@ -41,7 +42,7 @@ for (let k = 0; k < RUNS; k++) {
 const wall = (run: ReturnType<typeof measureProcess>): number => run.wall_ms;
 const build = median(builds, wall);
 const read = median(reads, wall);
-printFigure(`build, parcel van (${logs.length} logs), whole process, median of ${RUNS}`, build.wall_ms, 'ms', '< 1000 ms, stretch 600 ms');
+printFigure(`build, parcel van (${logs.length} logs), whole process, median of ${RUNS}`, build.wall_ms, 'ms', '< 1500 ms with the scenarios');
 printFigure(`build, fastest of ${RUNS}`, fastest(builds, wall).wall_ms, 'ms');
 printFigure('build, peak memory', build.peakMemory_MB ?? NaN, 'MB');
 printFigure(`read + parse the same logs only, whole process, median of ${RUNS}`, read.wall_ms, 'ms');
