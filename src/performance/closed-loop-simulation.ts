@@ -71,7 +71,8 @@ export function simulateClosedLoop(input: LoopSimulationInput): LoopSimulation {
       for (let j = 0; j < n; j++) sum += phi[i * n + j] * x[j];
       next[i] = sum;
     }
-    x.set(next);
+    // Copied element by element: TypedArray.prototype.set costs more than a handful of stores, at every sample.
+    for (let i = 0; i < n; i++) x[i] = next[i];
   }
   return { output, error, command };
 }

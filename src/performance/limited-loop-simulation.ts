@@ -85,7 +85,7 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
       for (let j = 0; j < size; j++) sum += p.phi[i * size + j] * z[j];
       next[i] = sum;
     }
-    z.set(next);
+    for (let i = 0; i < size; i++) z[i] = next[i];
   };
   /** Advance h seconds with the delayed, angle-limited command c held (actuator-motion.ts). */
   const pieces = new Float64Array(2 * PIECE_FIELDS);
