@@ -22,6 +22,8 @@ import type { ScenarioSetup, StepChange } from './scenario-simulation.js';
 import { distanceAt_m, speedAt_mps } from './speed-profile.js';
 
 const STEER = STATE.steerAngle;
+// The state and input counts integratePiece's product is written out for: a change of either fails to compile.
+[STATES, INPUTS] satisfies [5, 4];
 
 /** The plant's state during a run (mutable; made by startPlant, advanced by advancePlant). */
 export interface ScenarioPlant {
@@ -44,7 +46,6 @@ export interface ScenarioPlant {
   /** Largest wheel rate at a piece's start so far, rad/s; time the wheel moved at its rate limit, s. */
   peakSteerRate_radps: number;
   timeAtRateLimit_s: number;
-  readonly scratch: Float64Array;
   readonly k1: Float64Array;
   readonly k2: Float64Array;
   readonly k3: Float64Array;
@@ -78,7 +79,6 @@ export function startPlant(
     rungeKuttaUsed: false,
     peakSteerRate_radps: 0,
     timeAtRateLimit_s: 0,
-    scratch: new Float64Array(STATES),
     k1: new Float64Array(STATES),
     k2: new Float64Array(STATES),
     k3: new Float64Array(STATES),
@@ -152,8 +152,8 @@ function integratePiece(plant: ScenarioPlant, time_s: number, kind: PieceKind, d
   if (plant.exact !== null) {
     const { phi, gamma } = plant.exact.piece(kind, duration);
     const inputs = inputsAt(plant, time_s + duration / 2, input);
-    // x ← Φ·x + Γ·u written out for the five states and four inputs (path-frame-vehicle.ts): the scenarios' innermost
-    // step, a third of a build's scenario time as two nested loops.
+    // x ← Φ·x + Γ·u written out for the five states and four inputs (path-frame-vehicle.ts; checked at the top of
+    // this file): the scenarios' innermost step.
     const x0 = x[0];
     const x1 = x[1];
     const x2 = x[2];
@@ -163,7 +163,7 @@ function integratePiece(plant: ScenarioPlant, time_s: number, kind: PieceKind, d
     const u1 = inputs[1];
     const u2 = inputs[2];
     const u3 = inputs[3];
-    for (let i = 0, p = 0, g = 0; i < 5; i++, p += 5, g += 4) {
+    for (let i = 0, p = 0, g = 0; i < STATES; i++, p += STATES, g += INPUTS) {
       x[i] =
         phi[p] * x0 +
         phi[p + 1] * x1 +
