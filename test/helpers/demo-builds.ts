@@ -100,8 +100,8 @@ const canonical = (value: unknown): unknown =>
       : value;
 
 /**
- * The schedule `build` writes for a demo vehicle from its bundled logs with `plan` (default: the default plan), in the
- * run's folder: its path and content. The build must pass or be allowed to fail by the plan's test; it is written either way.
+ * The schedule `build --logs` writes for a demo vehicle's bundled logs with `plan` (default: the default plan), in the
+ * run's folder: its path and content. It is written whatever its status; each test says what it expects of it.
  */
 export function demoSchedule(vehicle: string, plan: PartialPlan = {}): Promise<{ readonly path: string; readonly schedule: ScheduleFile }> {
   const text = JSON.stringify(canonical(plan));
