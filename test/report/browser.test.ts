@@ -135,7 +135,6 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
       const plots = await page.$$eval('svg.plot', (svgs) =>
         svgs.map((svg) => {
           const [titleId, descId] = (svg.getAttribute('aria-labelledby') ?? '').split(' ');
-          const area = svg.querySelector('rect.plot-area')!.getBoundingClientRect();
           const figure = svg.closest('figure');
           return {
             title: document.getElementById(titleId)?.textContent ?? '',
@@ -144,7 +143,6 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
             marks: svg.querySelectorAll('.marks path, .marks circle').length,
             axisLabels: svg.querySelectorAll('text').length,
             fallbackRows: figure?.querySelectorAll('details table tbody tr').length ?? 0,
-            area: { x: area.x + window.scrollX, y: area.y + window.scrollY, width: area.width, height: area.height },
           };
         }),
       );
@@ -158,15 +156,26 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
         expect(plot.fallbackRows, plot.title).toBeGreaterThan(0);
       }
       // Blank: the data marks must put ink on the plotting area — its pixels vary, and are darker than on the same page with
-      // the marks hidden (a mark drawn in white, or outside the area, or not at all, adds none). Screenshots at half scale.
+      // the marks hidden (a mark drawn in white, or outside the area, or not at all, adds none). Screenshots at half scale,
+      // of the plots alone (the text and tables around them taken out of the layout: less than half the pixels to render).
+      const plotsOnly = await page.addStyleTag({ content: 'body *:not(:has(svg.plot)):not(svg.plot):not(svg.plot *) { display: none !important; }' });
+      const areas = await page.$$eval('svg.plot rect.plot-area', (rects) =>
+        rects.map((rect) => {
+          const box = rect.getBoundingClientRect();
+          return { x: box.x + window.scrollX, y: box.y + window.scrollY, width: box.width, height: box.height };
+        }),
+      );
+      expect(areas).toHaveLength(plots.length);
       const shown = decodePng(await page.screenshot({ fullPage: true }));
       const hiding = await page.addStyleTag({ content: '.marks { visibility: hidden; }' });
       const hidden = decodePng(await page.screenshot({ fullPage: true }));
-      await hiding.evaluate((style) => {
-        style.parentNode?.removeChild(style);
-      });
-      for (const plot of plots) {
-        const area = { x: plot.area.x / 2, y: plot.area.y / 2, width: plot.area.width / 2, height: plot.area.height / 2 };
+      for (const style of [hiding, plotsOnly]) {
+        await style.evaluate((element) => {
+          element.parentNode?.removeChild(element);
+        });
+      }
+      for (const [k, plot] of plots.entries()) {
+        const area = { x: areas[k].x / 2, y: areas[k].y / 2, width: areas[k].width / 2, height: areas[k].height / 2 };
         expect(greyVariance(shown, area), `${built.name}: ${plot.title}`).toBeGreaterThan(20);
         expect(inkedPixels(shown, hidden, area), `${built.name}: ${plot.title}`).toBeGreaterThan(20);
       }
