@@ -30,6 +30,8 @@ const SCREENSHOTS = join(tmpdir(), 'speedband-report-screenshots');
  * (about 1.5 s of Chromium each at 1280 px: the checks below read the page itself, not these pictures).
  */
 const FULL_PAGE_SCREENSHOTS = process.env.SPEEDBAND_FULL_SCREENSHOTS === '1';
+/** The browser's window, CSS px. */
+const VIEWPORT = { width: 1280, height: 900 };
 /** The printable width of A4 and US Letter with the report's 14 mm margins, CSS px (96 per inch). */
 const PRINTABLE_WIDTH_PX = { A4: ((210 - 28) / 25.4) * 96, Letter: ((215.9 - 28) / 25.4) * 96 };
 
@@ -40,9 +42,8 @@ interface Built {
 }
 const reports: Built[] = [];
 let browser: Browser;
-/** 1280 CSS px wide at half the pixels (the pixel checks need not read 15 million pixels per page), and at full resolution for the screenshots kept. */
-let checking: BrowserContext;
-let full: BrowserContext;
+/** 1280 CSS px wide, one pixel per CSS pixel: the screenshots kept; the pixel checks take theirs at half scale (halfScaleScreenshot). */
+let context: BrowserContext;
 
 /**
  * The report of a demo vehicle's schedule (shared with the other tests that read it: test/helpers/demo-builds.ts),
@@ -66,7 +67,7 @@ interface Opened {
 }
 
 /** Open a report, recording console errors, page errors and every request. */
-async function open(report: string, context: BrowserContext = checking): Promise<Opened> {
+async function open(report: string): Promise<Opened> {
   const page = await context.newPage();
   const errors: string[] = [];
   const requests: string[] = [];
@@ -80,14 +81,26 @@ async function open(report: string, context: BrowserContext = checking): Promise
 }
 
 /**
- * Each report opened once in the checking context, on first use, and read by the tests below that only read it
- * (loading a 1 MB report costs Chromium about a second); the one change a test makes, hiding the marks, it undoes.
+ * Each report opened once, on first use, and read by every test below (loading a 1 MB report costs Chromium about a
+ * second); what a test changes — styles that hide the marks, print emulation, the viewport — it undoes.
  */
 const checkedPages = new Map<string, Promise<Opened>>();
 function openChecked(report: string): Promise<Opened> {
   const opened = checkedPages.get(report) ?? open(report);
   checkedPages.set(report, opened);
   return opened;
+}
+
+/**
+ * The whole page at half scale (half the CSS pixel in each direction: the pixel checks need not read 15 million pixels
+ * per page), taken through the DevTools protocol, whose capture takes a scale; Playwright's screenshot takes none.
+ */
+async function halfScaleScreenshot(page: Page): Promise<ReturnType<typeof decodePng>> {
+  const size = await page.evaluate(() => ({ width: document.documentElement.scrollWidth, height: document.documentElement.scrollHeight }));
+  const session = await context.newCDPSession(page);
+  const { data } = await session.send('Page.captureScreenshot', { format: 'png', captureBeyondViewport: true, clip: { x: 0, y: 0, ...size, scale: 0.5 } });
+  await session.detach();
+  return decodePng(Buffer.from(data, 'base64'));
 }
 
 beforeAll(async () => {
@@ -99,8 +112,7 @@ beforeAll(async () => {
   // The path loop with the default path plan of the README.
   reports.push(await reportOf('parcel-van-path', 'parcel-van', { plan: { loop: { kind: 'path' } } }));
   browser = await launchChromium();
-  checking = await browser.newContext({ viewport: { width: 1280, height: 900 }, deviceScaleFactor: 0.5 });
-  full = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  context = await browser.newContext({ viewport: VIEWPORT });
 }, 120_000);
 
 afterAll(async () => {
@@ -109,7 +121,7 @@ afterAll(async () => {
 
 describe('the report in headless Chromium, for every demo vehicle', () => {
   it('the screenshot reader used below reads a known page back: three blocks of known colour', async () => {
-    const page = await full.newPage();
+    const page = await context.newPage();
     await page.setContent(
       '<body style="margin:0;background:#fff"><div style="display:flex"><div style="width:40px;height:30px;background:#d55e00"></div><div style="width:40px;height:30px;background:#0072b2"></div><div style="width:40px;height:30px;background:#009e73"></div></div></body>',
     );
@@ -166,9 +178,9 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
         }),
       );
       expect(areas).toHaveLength(plots.length);
-      const shown = decodePng(await page.screenshot({ fullPage: true }));
+      const shown = await halfScaleScreenshot(page);
       const hiding = await page.addStyleTag({ content: '.marks { visibility: hidden; }' });
-      const hidden = decodePng(await page.screenshot({ fullPage: true }));
+      const hidden = await halfScaleScreenshot(page);
       for (const style of [hiding, plotsOnly]) {
         await style.evaluate((element) => {
           element.parentNode?.removeChild(element);
@@ -263,14 +275,11 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
   }, 30_000);
 
   it('screenshots at 1280 px and in print emulation; the print layout fits the printable width of A4 and of Letter, without navigation or fallback tables; both print as PDF (the loaded van and the path loop)', async () => {
-    await (async () => {
-      const { page } = await open(reports[0].report, full);
-      await page.screenshot({ path: join(SCREENSHOTS, `${reports[0].name}-1280.png`), fullPage: FULL_PAGE_SCREENSHOTS });
-      await page.close();
-    })();
+    const van = await openChecked(reports[0].report);
+    await van.page.screenshot({ path: join(SCREENSHOTS, `${reports[0].name}-1280.png`), fullPage: FULL_PAGE_SCREENSHOTS });
     // The loaded van (yaw-rate loop, with a baseline) and the path loop (the widest tables).
     for (const built of [reports[3], reports[4]]) {
-      const { page } = await open(built.report, full);
+      const { page } = await openChecked(built.report);
       await page.screenshot({ path: join(SCREENSHOTS, `${built.name}-1280.png`), fullPage: FULL_PAGE_SCREENSHOTS });
       await page.emulateMedia({ media: 'print' });
       for (const [paper, width] of Object.entries(PRINTABLE_WIDTH_PX)) {
@@ -298,7 +307,8 @@ describe('the report in headless Chromium, for every demo vehicle', () => {
         expect(pdf.subarray(0, 5).toString('latin1')).toBe('%PDF-');
         expect((pdf.toString('latin1').match(/\/Type\s*\/Page[^s]/g) ?? []).length, format).toBeGreaterThan(5);
       }
-      await page.close();
+      await page.emulateMedia({ media: null });
+      await page.setViewportSize(VIEWPORT);
       expect(readFileSync(join(SCREENSHOTS, `${built.name}-1280.png`)).length).toBeGreaterThan(10_000);
     }
   }, 120_000);
