@@ -20,7 +20,7 @@ import type { PartialPlan } from '../../src/schedule/plan.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import { launchChromium } from '../helpers/browser.js';
 import { demoModels, demoSchedule } from '../helpers/demo-builds.js';
-import { decodePng, greyVariance, inkedPixels } from '../helpers/png.js';
+import { decodePng, greyVariance, type Image, inkedPixels } from '../helpers/png.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'speedband-report-browser-'));
 /** Where the screenshots are left. */
@@ -95,7 +95,7 @@ function openChecked(report: string): Promise<Opened> {
  * The whole page at half scale (half the CSS pixel in each direction: the pixel checks need not read 15 million pixels
  * per page), taken through the DevTools protocol, whose capture takes a scale; Playwright's screenshot takes none.
  */
-async function halfScaleScreenshot(page: Page): Promise<ReturnType<typeof decodePng>> {
+async function halfScaleScreenshot(page: Page): Promise<Image> {
   const size = await page.evaluate(() => ({ width: document.documentElement.scrollWidth, height: document.documentElement.scrollHeight }));
   const session = await context.newCDPSession(page);
   const { data } = await session.send('Page.captureScreenshot', { format: 'png', captureBeyondViewport: true, clip: { x: 0, y: 0, ...size, scale: 0.5 } });
