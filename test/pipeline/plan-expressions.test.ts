@@ -1,13 +1,12 @@
-import { mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { BUILD_IDENTIFY_OPTIONS, buildSchedule } from '../../src/pipeline/build-schedule.js';
+import { buildSchedule } from '../../src/pipeline/build-schedule.js';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
-import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
-import { writeModels } from '../../src/identify/models-file.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
+import { demoModels, demoSchedule } from '../helpers/demo-builds.js';
 
 const VAN = 'vehicles/parcel-van';
 const SETTLING = 'max(90, 14 * speed_mps)';
@@ -31,13 +30,10 @@ const writePlan = (name: string, parameters: Record<string, unknown>): string =>
   return path;
 };
 
-beforeAll(() => {
+beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'speedband-plan-expressions-'));
-  const logs = readdirSync(join(VAN, 'logs'))
-    .filter((name) => name.endsWith('.csv'))
-    .map((name) => join(VAN, 'logs', name));
-  modelsPath = join(dir, 'models.json');
-  writeModels(modelsPath, identifyFromLogs({ vehicle: VAN, logPaths: logs, options: BUILD_IDENTIFY_OPTIONS }), { force: false });
+  // The van identified from its bundled logs as build identifies it (shared: test/helpers/demo-builds.ts).
+  modelsPath = (await demoModels('parcel-van')).path;
 });
 
 describe('speedband build with a rule parameter given as an expression of speed', () => {
@@ -120,11 +116,9 @@ describe('speedband build with "tuneFor": "fastest-passing"', () => {
 
 describe('speedband reverify with edited set-point weights', () => {
   it('recomputes the time-domain figures: b raised to 1 where the build chose less breaks the overshoot limit, and nothing is written (exit 1)', async () => {
-    const plan = join(dir, 'heading.json');
-    writeFileSync(plan, JSON.stringify({ loop: { kind: 'heading' } }));
-    const built = join(dir, 'heading-schedule.json');
-    expect(await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--plan', plan, '--out', built], recordingIo())).toBe(0);
-    const schedule = readSchedule(built);
+    // The default heading plan's schedule on these models, as `build` writes it (shared: test/helpers/demo-builds.ts).
+    const { schedule } = await demoSchedule('parcel-van', { loop: { kind: 'heading' } });
+    expect(schedule.status).toBe('passed');
     const k = schedule.breakpoints.findIndex((row) => row.setpointWeightProportional < 0.9);
     expect(k).toBeGreaterThanOrEqual(0);
     const edited = { ...schedule, breakpoints: schedule.breakpoints.map((row, i) => (i === k ? { ...row, setpointWeightProportional: 1 } : row)) };

@@ -10,11 +10,10 @@ import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { recordingIo } from '../../src/cli/io.js';
 import { runCli } from '../../src/cli/main.js';
-import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
-import { writeModels } from '../../src/identify/models-file.js';
 import { computeScheduleChecksum } from '../../src/schedule/checksum.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
+import { demoModels } from '../helpers/demo-builds.js';
 import { expectSameBytes } from '../helpers/same-bytes.js';
 
 const VAN = join('vehicles', 'parcel-van');
@@ -23,7 +22,10 @@ let dir: string;
 let vanModels: string;
 let loadedModels: string;
 
-/** A plan with a small set: the given variations only (the others zero), 12 check speeds, a short search. */
+/**
+ * A plan with a small set: the given variations only (the others zero), 12 check speeds, a short search; no scenarios
+ * (what is tested is the variations; the scenario check is the same with or without them: test/pipeline/default-plans.test.ts).
+ */
 function plan(name: string, variations: Record<string, unknown>): string {
   const path = join(dir, `plan-${name}.json`);
   const zero = {
@@ -35,7 +37,10 @@ function plan(name: string, variations: Record<string, unknown>): string {
     addedLatency_s: 0,
     fromIdentification: false,
   };
-  writeFileSync(path, JSON.stringify({ check: { gridSpeeds: 12 }, variations: { ...zero, search: { samples: 6, localSearchEvaluations: 6 }, ...variations } }));
+  writeFileSync(
+    path,
+    JSON.stringify({ check: { gridSpeeds: 12, scenarios: false }, variations: { ...zero, search: { samples: 6, localSearchEvaluations: 6 }, ...variations } }),
+  );
   return path;
 }
 
@@ -45,12 +50,11 @@ async function cli(args: string[]) {
   return { code, out: io.out(), err: io.err() };
 }
 
-beforeAll(() => {
+beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'speedband-robust-'));
-  vanModels = join(dir, 'van-models.json');
-  loadedModels = join(dir, 'loaded-models.json');
-  writeModels(vanModels, identifyFromLogs({ vehicle: VAN, logPaths: [join(VAN, 'logs')], options: { fitSecondOrder: false } }), { force: false });
-  writeModels(loadedModels, identifyFromLogs({ vehicle: LOADED, logPaths: [join(LOADED, 'logs')], options: { fitSecondOrder: false } }), { force: false });
+  // The vans identified from their bundled logs as build identifies them (shared: test/helpers/demo-builds.ts).
+  vanModels = (await demoModels('parcel-van')).path;
+  loadedModels = (await demoModels('parcel-van-loaded')).path;
 }, 120_000);
 
 describe('speedband build with a variation set', () => {
@@ -184,7 +188,7 @@ describe('a fastest-passing search on the worst case (rule.searchOn)', () => {
         path,
         JSON.stringify({
           loop: { kind: 'heading' },
-          check: { gridSpeeds: 12 },
+          check: { gridSpeeds: 12, scenarios: false },
           breakpoints: { count: 4 },
           variations,
           ...(searchOn === undefined ? {} : { rule: { searchOn } }),
