@@ -7,7 +7,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { ScenarioName } from '../../src/performance/scenario-catalogue.js';
-import { simulateSchedule } from '../../src/pipeline/simulate-schedule.js';
+import { type ScenarioRunAt, simulateSchedule } from '../../src/pipeline/simulate-schedule.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import type { SingleTrackParameters } from '../../src/vehicle/types.js';
 
@@ -31,7 +31,12 @@ export function scenarioReplays(input: {
   readonly scenarios: readonly ScenarioName[];
   readonly speeds: readonly number[];
 }): ReplayRun[] {
-  return simulateSchedule(input).map((run) => ({
+  return replaysOf(simulateSchedule(input));
+}
+
+/** Scenario runs already simulated (simulateSchedule, traces to the end: not stopped at rest), as replays. */
+export function replaysOf(runs: readonly ScenarioRunAt[]): ReplayRun[] {
+  return runs.map((run) => ({
     name: `${run.scenario.name} at ${run.speed_mps} m/s`,
     speed_mps: run.traces.speed_mps,
     reference: run.traces.reference,

@@ -11,6 +11,7 @@ import { scheduleSpeedChanges } from '../../src/pipeline/simulate-schedule.js';
 import { resolvePlan, type PartialPlan, type Plan, type ResolveContext } from '../../src/schedule/plan.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 import type { ScheduleBreakpoint, ScheduleFile } from '../../src/schedule/schedule-types.js';
+import type { ScenarioRunAt } from '../../src/pipeline/simulate-schedule.js';
 import { demoModels, demoSchedule } from '../helpers/demo-builds.js';
 import { runPython } from '../helpers/python.js';
 
@@ -60,6 +61,38 @@ beforeAll(async () => {
     }
   }
 }, 600_000);
+
+/** The schedules whose every scenario run is replayed through the compiled integer step (the last describe below). */
+const REPLAYED = ['parcel-van', 'vineyard-sprayer', 'sidewalk-robot'].flatMap((vehicle) =>
+  ['yaw-rate (default)', 'path (default)'].map((name) => `${vehicle} ${name}`),
+);
+
+/**
+ * Every scenario of a schedule at low, mid and top speed and at its breakpoints (the scenario check's speeds), simulated
+ * once and read by the tests that simulate and that replay it.
+ */
+const runsAtEveryCheckSpeed = new Map<string, Promise<ScenarioRunAt[]>>();
+function everyScenarioAtEveryCheckSpeed(key: string): Promise<ScenarioRunAt[]> {
+  const found =
+    runsAtEveryCheckSpeed.get(key) ??
+    (async () => {
+      const { simulateSchedule, scenarioSpeeds, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
+      const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
+      const { SCENARIO_NAMES } = await import('../../src/performance/scenario-catalogue.js');
+      const schedule = schedules.get(key) as ScheduleFile;
+      const file = loadVehicle(join('vehicles', key.split(' ')[0], 'vehicle.json'));
+      const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
+      return simulateSchedule({
+        schedule,
+        parameters,
+        steeringLimits: file,
+        scenarios: SCENARIO_NAMES,
+        speeds: scenarioSpeeds(schedule, { withBreakpoints: true }),
+      });
+    })();
+  runsAtEveryCheckSpeed.set(key, found);
+  return found;
+}
 
 /** The lowest, a middle and the top breakpoint. */
 const lowMidTop = (schedule: ScheduleFile): ScheduleBreakpoint[] => {
@@ -247,13 +280,16 @@ describe('simulate on every demo vehicle and default plan', () => {
         if (simulated.has(schedule)) continue;
         simulated.add(schedule);
         const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
-        const runs = simulateSchedule({
-          schedule,
-          parameters,
-          steeringLimits: file,
-          scenarios: SCENARIO_NAMES,
-          speeds: scenarioSpeeds(schedule, { withBreakpoints: false }),
-        });
+        // A replayed schedule's runs at every check speed (low, mid and top among them), simulated once for both tests.
+        const runs = REPLAYED.includes(`${vehicle} ${name}`)
+          ? await everyScenarioAtEveryCheckSpeed(`${vehicle} ${name}`)
+          : simulateSchedule({
+              schedule,
+              parameters,
+              steeringLimits: file,
+              scenarios: SCENARIO_NAMES,
+              speeds: scenarioSpeeds(schedule, { withBreakpoints: false }),
+            });
         const names = new Set(runs.map((run) => run.scenario.name));
         expect(names.size, `${vehicle} ${name}`).toBe(schedule.loop.kind === 'yaw-rate' ? SCENARIO_NAMES.length - 1 : SCENARIO_NAMES.length);
         for (const run of runs) {
@@ -283,13 +319,15 @@ describe('simulate on every demo vehicle and default plan', () => {
         const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
         const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
         const rows = lowMidTop(schedule);
-        const runs = simulateSchedule({
-          schedule,
-          parameters,
-          steeringLimits: file,
-          scenarios: ['misalignment', 'side-force'],
-          speeds: rows.map((row) => row.speed_mps),
-        });
+        const speeds = rows.map((row) => row.speed_mps);
+        const scenarios = ['misalignment', 'side-force'] as const;
+        // A replayed schedule's runs are simulated already (at every breakpoint): these two scenarios at these speeds.
+        const runs = REPLAYED.includes(`${vehicle} ${name}`)
+          ? (await everyScenarioAtEveryCheckSpeed(`${vehicle} ${name}`)).filter(
+              (run) => (scenarios as readonly string[]).includes(run.scenario.name) && speeds.includes(run.speed_mps),
+            )
+          : simulateSchedule({ schedule, parameters, steeringLimits: file, scenarios, speeds });
+        expect(runs.length, `${vehicle} ${name}`).toBe(6);
         for (const run of runs) {
           const row = rows.find((r) => r.speed_mps === run.speed_mps)!;
           const figure = run.scenario.name === 'misalignment' ? row.timeDomain!.steeringMisalignment : row.timeDomain!.lateralForce!;
@@ -306,29 +344,15 @@ describe('simulate on every demo vehicle and default plan', () => {
 });
 
 describe("the fixed-point header's controller step on the demo vehicles' default schedules", () => {
-  for (const vehicle of ['parcel-van', 'vineyard-sprayer', 'sidewalk-robot']) {
-    for (const name of ['yaw-rate (default)', 'path (default)']) {
-      it(`${vehicle}, ${name}: every scenario replayed through the compiled integer step stays within its quantisation error bound, a useful bound`, async () => {
-        const { scenarioSpeeds, scenarioParameters } = await import('../../src/pipeline/simulate-schedule.js');
-        const { recordedCheckModel } = await import('../../src/pipeline/recheck-schedule.js');
-        const { loadVehicle } = await import('../../src/vehicle/load.js');
-        const { SCENARIO_NAMES } = await import('../../src/performance/scenario-catalogue.js');
-        const { scenarioReplays } = await import('../export/controller-replay.js');
-        const { compareIntegerStep } = await import('../export/integer-step-replay.js');
-        const schedule = schedules.get(`${vehicle} ${name}`) as ScheduleFile;
-        const file = loadVehicle(join('vehicles', vehicle, 'vehicle.json'));
-        const { parameters } = scenarioParameters(recordedCheckModel(schedule), file);
-        const runs = scenarioReplays({
-          schedule,
-          parameters,
-          steeringLimits: file,
-          scenarios: SCENARIO_NAMES,
-          speeds: scenarioSpeeds(schedule, { withBreakpoints: true }),
-        });
-        const { worstDifference, peakCommand } = compareIntegerStep(schedule, 'Q16.16', runs);
-        expect(worstDifference).toBeGreaterThan(0);
-        expect(peakCommand).toBeGreaterThan(0.1);
-      });
-    }
+  for (const key of REPLAYED) {
+    it(`${key.replace(' ', ', ')}: every scenario replayed through the compiled integer step stays within its quantisation error bound, a useful bound`, async () => {
+      const { replaysOf } = await import('../export/controller-replay.js');
+      const { compareIntegerStep } = await import('../export/integer-step-replay.js');
+      const schedule = schedules.get(key) as ScheduleFile;
+      const runs = replaysOf(await everyScenarioAtEveryCheckSpeed(key));
+      const { worstDifference, peakCommand } = compareIntegerStep(schedule, 'Q16.16', runs);
+      expect(worstDifference).toBeGreaterThan(0);
+      expect(peakCommand).toBeGreaterThan(0.1);
+    });
   }
 });
