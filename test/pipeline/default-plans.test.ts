@@ -180,17 +180,16 @@ v, lag, delay, Ts = d['v'], d['lag'], d['delay'], d['Ts']
 dmax, rmax, kp, ki, kd, bw, cw, N = d['dmax'], d['rmax'], d['kp'], d['ki'], d['kd'], d['b_w'], d['c_w'], d['N']
 step, T = d['step'], d['T']
 sub = 50; h = Ts / sub
-def f(x, c):
-    vy, r, delta, psi = x
+def f(vy, r, delta, c):
     Fyf = Cf * (delta - (vy + a * r) / v); Fyr = -Cr * (vy - b * r) / v
     ddelta = max(-rmax, min(rmax, (c - delta) / lag))
-    return [(Fyf + Fyr) / m - v * r, (a * Fyf - b * Fyr) / Iz, ddelta, r]
-x = [0.0, 0.0, 0.0, 0.0]
+    return (Fyf + Fyr) / m - v * r, (a * Fyf - b * Fyr) / Iz, ddelta, r
+vy = r = delta = psi = 0.0
 Tf = (kd / kp) / N
 I = 0.0; D = 0.0; dprev = None; commands = []; out = []
 steps = int(round(T / Ts))
 for k in range(steps):
-    y = x[3]; out.append(y)
+    y = psi; out.append(y)
     r_ = step; e = r_ - y; dd = cw * r_ - y
     diff = 0.0 if dprev is None else dd - dprev; dprev = dd
     D = (Tf * D + kd * diff) / (Tf + Ts)
@@ -207,9 +206,12 @@ for k in range(steps):
         idx = int(math.floor((t + h / 2 - delay) / Ts + 1e-9))
         c = commands[idx] if 0 <= idx < len(commands) else 0.0
         c = max(-dmax, min(dmax, c))
-        k1 = f(x, c); k2 = f([x[i] + h / 2 * k1[i] for i in range(4)], c)
-        k3 = f([x[i] + h / 2 * k2[i] for i in range(4)], c); k4 = f([x[i] + h * k3[i] for i in range(4)], c)
-        x = [x[i] + h / 6 * (k1[i] + 2 * k2[i] + 2 * k3[i] + k4[i]) for i in range(4)]
+        a1, b1, c1, d1 = f(vy, r, delta, c)
+        a2, b2, c2, d2 = f(vy + h / 2 * a1, r + h / 2 * b1, delta + h / 2 * c1, c)
+        a3, b3, c3, d3 = f(vy + h / 2 * a2, r + h / 2 * b2, delta + h / 2 * c2, c)
+        a4, b4, c4, d4 = f(vy + h * a3, r + h * b3, delta + h * c3, c)
+        vy += h / 6 * (a1 + 2 * a2 + 2 * a3 + a4); r += h / 6 * (b1 + 2 * b2 + 2 * b3 + b4)
+        delta += h / 6 * (c1 + 2 * c2 + 2 * c3 + c4); psi += h / 6 * (d1 + 2 * d2 + 2 * d3 + d4)
 tail = out[-int(10 / Ts):]
 print(json.dumps({'overshoot': 100 * (max(out) / step - 1), 'tailSpread': max(tail) - min(tail), 'final': out[-1]}))
 `;
