@@ -1,5 +1,5 @@
 // The traps a new user met in the first hour with speedband, each as the command they ran.
-import { existsSync, mkdtempSync, readdirSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -8,6 +8,7 @@ import { recordingIo } from '../../src/cli/io.js';
 import { CONTROLLER_DEFAULTS } from '../../src/controller/defaults.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import { convertLogs } from '../identify/converted-logs.js';
+import { demoModels } from '../helpers/demo-builds.js';
 import { parcelVanLogs } from '../helpers/parcel-van.js';
 
 async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
@@ -335,17 +336,16 @@ describe('machine and human output', () => {
   });
 
   it('build --baseline: exit 1 says it is the old gains that fail, and that the new schedule passed and was written', async () => {
-    const loadedLogs = readdirSync('vehicles/parcel-van-loaded/logs')
-      .filter((name) => name.endsWith('.csv'))
-      .map((name) => join('vehicles/parcel-van-loaded/logs', name));
+    // The loaded van identified from its bundled logs as build identifies it (shared: test/helpers/demo-builds.ts).
+    const loadedModels = (await demoModels('parcel-van-loaded')).path;
     const out = join(dir, 'loaded.json');
-    const text = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--logs', ...loadedLogs, '--baseline', schedulePath, '--out', out]);
+    const text = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--models', loadedModels, '--baseline', schedulePath, '--out', out]);
     expect(text.code).toBe(1);
     expect(readSchedule(out).status).toBe('passed');
     expect(text.out).toMatch(
       /Exit 1: the OLD gains of the baseline \S+ fail on the new vehicle model at \d+ of \d+ speeds \(the new schedule passed and was written\)\./,
     );
-    const json = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--logs', ...loadedLogs, '--baseline', schedulePath, '--out', out, '--json']);
+    const json = await run(['build', '--vehicle', 'vehicles/parcel-van-loaded', '--models', loadedModels, '--baseline', schedulePath, '--out', out, '--json']);
     const parsed = JSON.parse(json.out) as {
       exitCode: number;
       exitReasons: string[];
