@@ -22,10 +22,7 @@ let dir: string;
 let vanModels: string;
 let loadedModels: string;
 
-/**
- * A plan with a small set: the given variations only (the others zero), 12 check speeds, a short search; no scenarios
- * (what is tested is the variations; the scenario check is the same with or without them: test/pipeline/default-plans.test.ts).
- */
+/** A plan with a small set: the given variations only (the others zero), 12 check speeds, a short search. */
 function plan(name: string, variations: Record<string, unknown>): string {
   const path = join(dir, `plan-${name}.json`);
   const zero = {
@@ -37,10 +34,7 @@ function plan(name: string, variations: Record<string, unknown>): string {
     addedLatency_s: 0,
     fromIdentification: false,
   };
-  writeFileSync(
-    path,
-    JSON.stringify({ check: { gridSpeeds: 12, scenarios: false }, variations: { ...zero, search: { samples: 6, localSearchEvaluations: 6 }, ...variations } }),
-  );
+  writeFileSync(path, JSON.stringify({ check: { gridSpeeds: 12 }, variations: { ...zero, search: { samples: 6, localSearchEvaluations: 6 }, ...variations } }));
   return path;
 }
 
@@ -188,7 +182,7 @@ describe('a fastest-passing search on the worst case (rule.searchOn)', () => {
         path,
         JSON.stringify({
           loop: { kind: 'heading' },
-          check: { gridSpeeds: 12, scenarios: false },
+          check: { gridSpeeds: 12 },
           breakpoints: { count: 4 },
           variations,
           ...(searchOn === undefined ? {} : { rule: { searchOn } }),
