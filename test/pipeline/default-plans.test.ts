@@ -5,13 +5,12 @@
  */
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { isDeepStrictEqual } from 'node:util';
-import { scheduleSpeedChanges } from '../../src/pipeline/simulate-schedule.js';
+import { type ScenarioRunAt, scheduleSpeedChanges } from '../../src/pipeline/simulate-schedule.js';
 import { resolvePlan, type PartialPlan, type Plan, type ResolveContext } from '../../src/schedule/plan.js';
 import { loadVehicle } from '../../src/vehicle/load.js';
 import type { ScheduleBreakpoint, ScheduleFile } from '../../src/schedule/schedule-types.js';
-import type { ScenarioRunAt } from '../../src/pipeline/simulate-schedule.js';
 import { demoModels, demoSchedule } from '../helpers/demo-builds.js';
 import { runPython } from '../helpers/python.js';
 
@@ -69,7 +68,8 @@ const REPLAYED = ['parcel-van', 'vineyard-sprayer', 'sidewalk-robot'].flatMap((v
 
 /**
  * Every scenario of a schedule at low, mid and top speed and at its breakpoints (the scenario check's speeds), simulated
- * once and read by the tests that simulate and that replay it.
+ * once and read by the tests that simulate and that replay it; the replay lets go of them (tens of MB of traces each,
+ * which a test process that goes on to other files would otherwise keep).
  */
 const runsAtEveryCheckSpeed = new Map<string, Promise<ScenarioRunAt[]>>();
 function everyScenarioAtEveryCheckSpeed(key: string): Promise<ScenarioRunAt[]> {
@@ -93,6 +93,8 @@ function everyScenarioAtEveryCheckSpeed(key: string): Promise<ScenarioRunAt[]> {
   runsAtEveryCheckSpeed.set(key, found);
   return found;
 }
+
+afterAll(() => runsAtEveryCheckSpeed.clear());
 
 /** The lowest, a middle and the top breakpoint. */
 const lowMidTop = (schedule: ScheduleFile): ScheduleBreakpoint[] => {
@@ -352,6 +354,7 @@ describe("the fixed-point header's controller step on the demo vehicles' default
       const { compareIntegerStep } = await import('../export/integer-step-replay.js');
       const schedule = schedules.get(key) as ScheduleFile;
       const runs = replaysOf(await everyScenarioAtEveryCheckSpeed(key));
+      runsAtEveryCheckSpeed.delete(key);
       const { worstDifference, peakCommand } = compareIntegerStep(schedule, 'Q16.16', runs);
       expect(worstDifference).toBeGreaterThan(0);
       expect(peakCommand).toBeGreaterThan(0.1);
