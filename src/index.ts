@@ -87,7 +87,8 @@ export type { ScenarioLimits } from './performance/scenario-limits.js';
 export { tracesCsv } from './performance/traces-csv.js';
 
 // Plans and schedule files (src/schedule/)
-export { PLAN_DEFAULTS, DEFAULT_RULES, readPlan, planFromJson, resolvePlan, type Plan, type PartialPlan } from './schedule/plan.js';
+export { PLAN_DEFAULTS, DEFAULT_RULES, resolvePlan, type Plan, type PartialPlan } from './schedule/plan.js';
+export { readPlan, planFromJson } from './schedule/plan-file.js';
 export { defaultPlanFile } from './schedule/default-plan.js';
 export type { ScheduleFile } from './schedule/schedule-types.js';
 export { readSchedule, parseSchedule, writeSchedule } from './schedule/schedule-file.js';

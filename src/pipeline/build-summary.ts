@@ -4,7 +4,7 @@
  * command only gathers the inputs, runs the build and prints these.
  */
 import { failingSpeeds } from '../schedule/dense-check.js';
-import { breakpointMargins } from '../schedule/schedule-file.js';
+import { breakpointMargins } from '../schedule/breakpoint-margins.js';
 import type { ScheduleFile } from '../schedule/schedule-types.js';
 import type { BaselineCheck } from './baseline.js';
 import type { BuildResult } from './build-schedule.js';

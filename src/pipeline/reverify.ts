@@ -16,7 +16,8 @@ import { scheduleSpeedChangeCertificate } from './scenario-stage.js';
 import type { ScheduleScenarioCheck, SpeedChangeCertificate } from '../schedule/schedule-types.js';
 import { SAFETY_CAUTIONS } from '../core/safety.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from '../schedule/checksum.js';
-import { LISTED_FAILURES, breakpointMargins, recordedWorst } from '../schedule/schedule-file.js';
+import { breakpointMargins } from '../schedule/breakpoint-margins.js';
+import { LISTED_FAILURES, recordedWorst } from '../schedule/schedule-file.js';
 import {
   CONTROLLER_EQUATION,
   INTEGRATION_TEXT,

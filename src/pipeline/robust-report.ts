@@ -15,7 +15,7 @@ import type { RobustFigure, RobustMargins, RobustTimeDomainFigure, VariationDime
 import type { WeakestParameter } from '../robust/weakest-parameter.js';
 import type { BreakpointMargins } from '../schedule/schedule-types.js';
 import type { ScheduleVariations } from '../schedule/schedule-variations.js';
-import { breakpointMargins } from '../schedule/schedule-file.js';
+import { breakpointMargins } from '../schedule/breakpoint-margins.js';
 import { CRITERION_WORDS } from './schedule-report.js';
 import type { AcceptanceThresholds, DenseCheckResult } from '../schedule/types.js';
 

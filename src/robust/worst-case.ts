@@ -5,7 +5,7 @@
  * not stable anywhere in the set is the worst case of all: the search stops after the stage that found it
  * and names the combination (of those found in that stage, the one with the largest closed-loop pole).
  */
-import { breakpointMargins } from '../schedule/schedule-file.js';
+import { breakpointMargins } from '../schedule/breakpoint-margins.js';
 import type { LoopMargins } from '../verify/types.js';
 import { compassSearch } from './compass-search.js';
 import { ROBUST_FIGURES, badness, figureValue, type FigureDefinition } from './figures.js';

@@ -17,9 +17,6 @@ export {
 export {
   PLAN_DEFAULTS,
   resolvePlan,
-  readPlan,
-  readPlanFile,
-  planFromJson,
   planBreakpoints,
   type AcceptanceAtSpeed,
   type Plan,
@@ -33,6 +30,7 @@ export {
   type BreakpointPlan,
   type ResolveContext,
 } from './plan.js';
+export { readPlan, readPlanFile, planFromJson } from './plan-file.js';
 export { PLAN_SCHEMA } from './plan-schema.js';
 export { acceptanceLimits, numericAcceptanceLimits, limitSampleSpeeds, ACCEPTANCE_RANGES, type AcceptanceLimits } from './acceptance-limits.js';
 export { makeRuleParameterLookup, valueAtSpeed, SPEED_VARYING_PARAMETERS, type RuleParameterLookup, type SpeedVaryingParameter } from './rule-parameters.js';

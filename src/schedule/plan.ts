@@ -8,13 +8,8 @@ import type { AntiWindup } from '../controller/firmware-step.js';
 import type { Discretisation } from '../controller/types.js';
 import type { TimeDomainLimits } from '../performance/types.js';
 import { SpeedbandError } from '../core/errors.js';
-import { readTextFile } from '../core/files.js';
-import { validatePlanFile } from '../core/precompiled-validators.js';
-import { makeValidator, parseJsonText } from '../core/schema.js';
 import type { ControllerType, RuleName } from '../tuning/types.js';
-import { PLAN_SCHEMA } from './plan-schema.js';
 import { planReferenceHint } from './plan-reference-path.js';
-import { findRule, parameterNotTakenWords, parametersNotTaken } from '../tuning/registry.js';
 import type { InterpolationMethod } from './types.js';
 import { resolveVariations, type PlanVariations, type WrittenVariations } from './plan-variations.js';
 
@@ -201,30 +196,6 @@ export const DEFAULT_RULES: Readonly<Record<LoopKind, Plan['rule']>> = {
  */
 export const DEFAULT_PATH_PREVIEW = { preview_m: 0.5, previewTime_s: 0.3 } as const;
 
-const validateSchema = makeValidator<PartialPlan>({
-  schema: PLAN_SCHEMA,
-  code: 'plan.invalid',
-  what: 'plan file',
-  precompiled: validatePlanFile,
-  reference: planReferenceHint,
-});
-
-/** Schema, then the rule's parameters: one the rule does not take is refused (it would be ignored), naming those it takes. */
-function validatePlan(value: unknown, file: string): PartialPlan {
-  const plan = validateSchema(value, file);
-  const defaultRule = DEFAULT_RULES[plan.loop?.kind ?? PLAN_DEFAULTS.loop.kind].name;
-  const rule = findRule(plan.rule?.name ?? defaultRule);
-  const notTaken = parametersNotTaken(rule, Object.keys(plan.rule?.parameters ?? {}));
-  if (notTaken.length > 0) {
-    throw new SpeedbandError(
-      'plan.parameterNotTaken',
-      `${parameterNotTakenWords(rule, notTaken[0])}${plan.rule?.name === undefined ? ` (${defaultRule} is the default rule of this loop: name another with "rule": {"name": …})` : ''} — remove it or change the rule\n${planReferenceHint()}`,
-      { location: { file, jsonPath: `/rule/parameters/${notTaken[0]}` }, details: { rule: rule.name, parameters: notTaken, takes: rule.parameters } },
-    );
-  }
-  return plan;
-}
-
 function planError(message: string, jsonPath: string, file?: string): SpeedbandError {
   return new SpeedbandError('plan.invalid', `${message}\n${planReferenceHint()}`, { location: { file, jsonPath } });
 }
@@ -395,21 +366,6 @@ function resolveSearchOn(written: SearchOn | undefined, tuneFor: TuneFor, variat
     );
   }
   return written ?? (tuneFor === 'fastest-passing' && variations?.acceptance === 'robust' ? 'worst-case' : 'nominal');
-}
-
-/** Read and schema-validate a plan file, not yet resolved (errors name the file and JSON path). */
-export function readPlanFile(path: string): PartialPlan {
-  return validatePlan(parseJsonText(readTextFile(path), path), path);
-}
-
-/** Read, schema-validate and resolve a plan file; errors name the file and JSON path. */
-export function readPlan(path: string, context: Omit<ResolveContext, 'file'> = {}): Plan {
-  return resolvePlan(readPlanFile(path), { ...context, file: path });
-}
-
-/** Validate a parsed plan object (e.g. from a test or another file) against the schema, then resolve it. */
-export function planFromJson(value: unknown, context: ResolveContext = {}): Plan {
-  return resolvePlan(validatePlan(value, context.file ?? '(plan)'), context);
 }
 
 /**

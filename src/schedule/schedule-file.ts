@@ -8,8 +8,8 @@ import { SpeedbandError } from '../core/errors.js';
 import { readTextFile, writeFileAtomic, type WriteOptions, type WriteOutcome } from '../core/files.js';
 import { validateScheduleFile } from '../core/precompiled-validators.js';
 import { makeValidator, parseJsonText } from '../core/schema.js';
-import type { LoopMargins } from '../verify/types.js';
 import { VERSION } from '../version.js';
+import { breakpointMargins } from './breakpoint-margins.js';
 import { computeScheduleChecksum, verifyScheduleChecksum } from './checksum.js';
 import { validateGainTable } from './interpolate.js';
 import { failingSpeeds } from './dense-check.js';
@@ -23,7 +23,6 @@ import { CONTROLLER_EQUATION, INTEGRATION_TEXT, controllerUpdateText, feedForwar
 import {
   SCHEDULE_FORMAT,
   SCHEDULE_FORMAT_VERSION,
-  type BreakpointMargins,
   type ScheduleFile,
   type ScheduleRuleParametersAt,
   type ScheduleSearchAt,
@@ -80,22 +79,6 @@ export interface BreakpointExtras {
   readonly timeDomain: TimeDomainFigures | null;
   /** The time-domain limits broken there, in words (a loop that is not stable breaks them all: one message). */
   readonly timeDomainFailures: readonly string[];
-}
-
-const finiteOrNull = (value: number | null): number | null => (value !== null && Number.isFinite(value) ? value : null);
-
-/** The margins a schedule records at a breakpoint (non-finite figures as null). */
-export function breakpointMargins(margins: LoopMargins): BreakpointMargins {
-  return {
-    stable: margins.stable,
-    verdict: margins.verdict,
-    lowerGainMargin_dB: finiteOrNull(margins.lowerGainMargin_dB),
-    upperGainMargin_dB: finiteOrNull(margins.upperGainMargin_dB),
-    phaseMargin_deg: finiteOrNull(margins.phaseMargin_deg),
-    delayMargin_s: finiteOrNull(margins.delayMargin_s),
-    sensitivityPeak: finiteOrNull(margins.sensitivityPeak),
-    complementarySensitivityPeak: finiteOrNull(margins.complementarySensitivityPeak),
-  };
 }
 
 const finiteWorst = (worst: WorstValue | null): WorstValue | null => (worst !== null && Number.isFinite(worst.value) ? worst : null);

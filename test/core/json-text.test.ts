@@ -8,7 +8,7 @@ import { runCli } from '../../src/cli/main.js';
 import { jsonPointer, parseJsonText } from '../../src/core/json-text.js';
 import { parseModels } from '../../src/identify/models-file.js';
 import { parseLogProfile } from '../../src/log/profile.js';
-import { readPlan } from '../../src/schedule/plan.js';
+import { readPlan } from '../../src/schedule/plan-file.js';
 import { parseSchedule } from '../../src/schedule/schedule-file.js';
 import { serialiseSchedule } from '../../src/schedule/schedule-json.js';
 import { loadVehicle } from '../../src/vehicle/load.js';

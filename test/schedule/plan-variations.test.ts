@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { isSpeedbandError } from '../../src/core/errors.js';
-import { planFromJson, resolvePlan } from '../../src/schedule/plan.js';
+import { resolvePlan } from '../../src/schedule/plan.js';
+import { planFromJson } from '../../src/schedule/plan-file.js';
 import { VARIATION_DEFAULTS } from '../../src/schedule/plan-variations.js';
 
 function planError(value: unknown): { code: string; jsonPath?: string; message: string } {

@@ -6,7 +6,8 @@ import { describe, expect, it } from 'vitest';
 import { RULE_NAMES } from '../../src/tuning/registry.js';
 import { PLAN_SCHEMA } from '../../src/schedule/plan-schema.js';
 import { defaultPlanFile } from '../../src/schedule/default-plan.js';
-import { PLAN_DEFAULTS, planBreakpoints, planFromJson, planSpeedChanges, readPlan, resolvePlan } from '../../src/schedule/plan.js';
+import { PLAN_DEFAULTS, planBreakpoints, planSpeedChanges, resolvePlan } from '../../src/schedule/plan.js';
+import { planFromJson, readPlan } from '../../src/schedule/plan-file.js';
 import { makeRuleParameterLookup } from '../../src/schedule/rule-parameters.js';
 
 describe('resolvePlan(partial)', () => {

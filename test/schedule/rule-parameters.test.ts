@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { PLAN_SCHEMA } from '../../src/schedule/plan-schema.js';
-import { planFromJson } from '../../src/schedule/plan.js';
+import { planFromJson } from '../../src/schedule/plan-file.js';
 import { SPEED_VARYING_PARAMETERS, makeRuleParameterLookup, valueAtSpeed } from '../../src/schedule/rule-parameters.js';
 
 describe('makeRuleParameterLookup(parameters) gives the rule parameters at any speed', () => {

@@ -5,7 +5,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { isSpeedbandError } from '../../src/core/errors.js';
-import { planFromJson } from '../../src/schedule/plan.js';
+import { planFromJson } from '../../src/schedule/plan-file.js';
 import { validateVehicle } from '../../src/vehicle/load.js';
 import { analyseLoop } from '../../src/verify/index.js';
 
