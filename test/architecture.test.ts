@@ -60,3 +60,33 @@ describe('layering of src/ (import graph)', () => {
     expect(upward).toEqual([]);
   });
 });
+
+/** The modules `file` loads when it runs: its value imports and re-exports, followed (type-only imports are erased). */
+function loadedModules(entry: string): Map<string, string | null> {
+  const reachedFrom = new Map<string, string | null>([[entry, null]]);
+  const queue = [entry];
+  while (queue.length > 0) {
+    const file = queue.shift() as string;
+    const text = readFileSync(file, 'utf8');
+    for (const match of text.matchAll(/^(import|export)(?!\s+type\b)[^;]*?\bfrom\s*'(\.{1,2}\/[^']+)'/gms)) {
+      const target = normalize(join(dirname(file), match[2])).replace(/\.js$/, '.ts');
+      if (reachedFrom.has(target)) continue;
+      reachedFrom.set(target, file);
+      queue.push(target);
+    }
+  }
+  return reachedFrom;
+}
+
+describe('what the worker threads load', () => {
+  // A build starts them on every core; the file validators (src/core/precompiled-validators.ts, ~0.9 MB) read files,
+  // which a worker never does. From the sources each module also costs a worker its compilation under tsx.
+  it.each(['check-worker', 'scenario-worker'])('src/pipeline/%s.ts reaches no file validator', (name) => {
+    const reached = loadedModules(join('src', 'pipeline', `${name}.ts`));
+    const validators = join('src', 'core', 'precompiled-validators.ts');
+    const chain: string[] = [];
+    for (let file: string | null | undefined = validators; reached.has(validators) && file; file = reached.get(file)) chain.unshift(file);
+    expect(chain.join(' → ')).toBe('');
+    expect(reached.size).toBeGreaterThan(20);
+  });
+});
