@@ -186,6 +186,8 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
   let previousMagnitude2 = Number.NaN;
   let followed = true;
   const minimumPhase_rad = ((bounds?.phaseMargin_deg ?? 0) * Math.PI) / 180;
+  /** Stopped early: a peak or the phase margin is past its bound (the peaks found so far). */
+  const infeasible = () => ({ sensitivity: Math.sqrt(sensitivity2), complementary: Math.sqrt(complementary2), stable: false, feasible: false });
   for (let i = 0; i < plantRe.length; i++) {
     // z⁻¹ = cos − j·sin
     const nRe = b0 + b1 * cos1[i] + b2 * cos2[i];
@@ -206,8 +208,7 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
     const t2 = magnitude2 / onePlus2;
     if (s2 > sensitivity2) sensitivity2 = s2;
     if (t2 > complementary2) complementary2 = t2;
-    if (sensitivity2 > stopS2 || complementary2 > stopT2)
-      return { sensitivity: Math.sqrt(sensitivity2), complementary: Math.sqrt(complementary2), stable: false, feasible: false };
+    if (sensitivity2 > stopS2 || complementary2 > stopT2) return infeasible();
     if (minimumPhase_rad > 0 && i > 0 && (previousMagnitude2 - 1) * (magnitude2 - 1) <= 0) {
       // A gain crossover between the two points: L there by linear interpolation in |L|; its phase distance from −1.
       const previousMagnitude = Math.sqrt(previousMagnitude2);
@@ -215,8 +216,7 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
       const t = previousMagnitude === magnitude ? 0 : (previousMagnitude - 1) / (previousMagnitude - magnitude);
       const crossRe = previousRe - 1 + t * (lRe - (previousRe - 1));
       const crossIm = previousIm + t * (lIm - previousIm);
-      if (Math.PI - Math.abs(Math.atan2(crossIm, crossRe)) < minimumPhase_rad)
-        return { sensitivity: Math.sqrt(sensitivity2), complementary: Math.sqrt(complementary2), stable: false, feasible: false };
+      if (Math.PI - Math.abs(Math.atan2(crossIm, crossRe)) < minimumPhase_rad) return infeasible();
     }
     previousMagnitude2 = magnitude2;
     if (i > 0) {
