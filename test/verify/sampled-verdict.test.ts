@@ -17,9 +17,14 @@ import { PYTHON_SAMPLED_LOOP, randomSampledLoops, type SampledCase } from './sam
 import { analyseLoop, type LoopDescription } from '../../src/verify/index.js';
 import { splitDelay } from '../../src/verify/sampled-verdict.js';
 
-/** Fine-step simulation: RK4 on the continuous plant (step h dividing Ts and the fractional delay), discrete PID, hold. */
+/**
+ * Fine-step simulation: RK4 on the continuous plant (step h dividing Ts and the fractional delay), discrete PID, hold.
+ * The held input is constant over each RK4 step, so one step of the linear plant is the fixed map x ← P·x + Q·u
+ * (P, Q: the RK4 step applied to the unit states and to a unit input); a run of r steps under one input is
+ * x ← P^r·x + (P^(r−1) + … + I)·Q·u, the same steps composed.
+ */
 const SIMULATE = `
-import json, sys
+import json, sys, math
 import numpy as np
 from scipy import signal
 data = json.load(sys.stdin)
@@ -34,14 +39,24 @@ for c in data:
         wc = wp = T / 2; p = (2*Tf - T) / (2*Tf + T); g = 2*kd / (2*Tf + T)
     else:
         wc = T; wp = 0.0; p = Tf / (Tf + T); g = kd / (Tf + T)
+    f = lambda x, u: A @ x + B * u
+    def rk4(x, u):
+        k1 = f(x, u); k2 = f(x + 0.5*h*k1, u); k3 = f(x + 0.5*h*k2, u); k4 = f(x + h*k3, u)
+        return x + h / 6 * (k1 + 2*k2 + 2*k3 + k4)
+    n = len(B)
+    P = np.column_stack([rk4(e, 0.0) for e in np.eye(n)]); Q = rk4(np.zeros(n), 1.0)
+    powers = [np.eye(n)]; sums = [np.zeros(n)]
+    for r in range(sub):
+        sums.append(P @ sums[-1] + Q); powers.append(P @ powers[-1])
     # held inputs u[k] from t = kT; u(t - theta) read from the history (0 before the start)
     us = []
+    def held_index(t):
+        return math.floor((t - theta) / T + 1e-9)
     def held(t):
-        k = int(np.floor((t - theta) / T + 1e-9))
+        k = held_index(t)
         return us[k] if 0 <= k < len(us) else 0.0
-    x = np.zeros(len(B)); I = 0.0; Dk = 0.0; e_prev = 0.0; kie_prev = 0.0; r = 1.0
+    x = np.zeros(n); I = 0.0; Dk = 0.0; e_prev = 0.0; kie_prev = 0.0; r = 1.0
     errors = []
-    f = lambda x, u: A @ x + B * u
     for k in range(steps):
         t = k * T
         y = C @ x + D * held(t - 1e-12)
@@ -51,11 +66,16 @@ for c in data:
         us.append(kp * e + I + Dk)
         e_prev = e; kie_prev = ki * e
         errors.append(abs(e))
-        for j in range(sub):
-            tj = t + j * h
-            u = held(tj + 0.5 * h)  # constant over the substep: h divides T and the fractional delay
-            k1 = f(x, u); k2 = f(x + 0.5*h*k1, u); k3 = f(x + 0.5*h*k2, u); k4 = f(x + h*k3, u)
-            x = x + h / 6 * (k1 + 2*k2 + 2*k3 + k4)
+        # the substeps, each under the input in force at its middle (h divides T and the fractional delay), in runs of one input
+        indices = [held_index(t + j * h + 0.5 * h) for j in range(sub)]
+        j = 0
+        while j < sub:
+            run = 1
+            while j + run < sub and indices[j + run] == indices[j]:
+                run += 1
+            u = us[indices[j]] if 0 <= indices[j] < len(us) else 0.0
+            x = powers[run] @ x + sums[run] * u
+            j += run
         if not np.all(np.isfinite(x)) or np.max(np.abs(x)) > 1e12:
             break
     errors = np.array(errors)
