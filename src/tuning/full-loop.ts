@@ -179,7 +179,11 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
   const stopT2 = stopT * stopT;
   let sensitivity2 = 0;
   let complementary2 = 0;
-  let turn = 0;
+  // The turn of 1 + L is counted by its crossings of the negative real axis (atan2's branch cut) between the first and
+  // last angle: while the curve is followed (below) each chord turns by less than 60°, so a crossing lies between two
+  // points that are both left of the imaginary axis, with Im changing sign — one atan2 per run instead of one per point.
+  let crossings = 0;
+  let firstAngle = Number.NaN;
   let previousRe = Number.NaN;
   let previousIm = Number.NaN;
   let previousOnePlus2 = Number.NaN;
@@ -225,7 +229,12 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
       const stepIm = im - previousIm;
       const step2 = stepRe * stepRe + stepIm * stepIm;
       if (!(step2 < Math.min(onePlus2, previousOnePlus2))) followed = false;
-      turn += Math.atan2(previousRe * im - previousIm * re, previousRe * re + previousIm * im);
+      if (re < 0 && previousRe < 0) {
+        const above = upperHalf(im);
+        if (above !== upperHalf(previousIm)) crossings += above ? -1 : 1;
+      }
+    } else {
+      firstAngle = Math.atan2(im, re);
     }
     previousRe = re;
     previousIm = im;
@@ -235,10 +244,16 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
   const complementary = Math.sqrt(complementary2);
   // The count assumes the low end of the grid is below every corner of the loop: the controller's too.
   if (gains.ki !== 0 && Math.abs(gains.ki) < CORNER_ABOVE_LOWEST * response.frequency_radps[0] * Math.abs(gains.kp)) followed = false;
+  const turn = Math.atan2(previousIm, previousRe) - firstAngle + 2 * Math.PI * crossings;
   const integrators = response.plantIntegrators + (gains.ki !== 0 ? 1 : 0);
   const total = 2 * turn - integrators * Math.PI;
   const outside = response.plantUnstablePoles - total / (2 * Math.PI);
   const stable = followed && Math.abs(outside) < 0.25;
   const feasible = stable && sensitivity <= stopS && complementary <= stopT;
   return { sensitivity, complementary, stable, feasible };
+}
+
+/** Whether atan2 puts a point left of the imaginary axis at +π (Im ≥ +0) rather than at −π (Im < 0 or −0). */
+function upperHalf(im: number): boolean {
+  return im > 0 || (im === 0 && !Object.is(im, -0));
 }
