@@ -1,32 +1,29 @@
-import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync, existsSync, readdirSync } from 'node:fs';
+import { copyFileSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync, existsSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { runCli } from '../../src/cli/main.js';
 import { recordingIo } from '../../src/cli/io.js';
-import { identifyFromLogs } from '../../src/identify/identify-from-logs.js';
-import { writeModels } from '../../src/identify/models-file.js';
 import type { ModelsFile } from '../../src/identify/models-schema.js';
 import { computeScheduleChecksum } from '../../src/schedule/checksum.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import type { ScheduleFile } from '../../src/schedule/schedule-types.js';
 import { sampledSingleTrackMarginsInPython, type SingleTrackLoopCase } from '../helpers/sampled-loop-reference.js';
 import { parcelVanLogs } from '../helpers/parcel-van.js';
+import { demoModels } from '../helpers/demo-builds.js';
 import { expectSameBytes } from '../helpers/same-bytes.js';
 
 const VAN = 'vehicles/parcel-van';
 const vanLogs = parcelVanLogs;
 
 let dir: string;
-let models: ModelsFile;
 let modelsPath: string;
 let schedulePath: string;
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'speedband-build-'));
-  models = identifyFromLogs({ vehicle: VAN, logPaths: vanLogs() });
-  modelsPath = join(dir, 'models.json');
-  writeModels(modelsPath, models, { force: false });
+  // The van identified from its bundled logs as build identifies it (shared: test/helpers/demo-builds.ts).
+  modelsPath = (await demoModels('parcel-van')).path;
   schedulePath = join(dir, 'schedule.json');
   const io = recordingIo();
   const code = await runCli(['build', '--vehicle', VAN, '--models', modelsPath, '--out', schedulePath], io);
@@ -136,12 +133,13 @@ describe('speedband check', () => {
 describe('the refit flow on the changed demo vehicle', () => {
   it('answers whether the old gains are still safe: they fail at high speed on the loaded van with softer rear tyres, and hold at low speed', async () => {
     const loaded = 'vehicles/parcel-van-loaded';
-    const logs = readdirSync(join(loaded, 'logs'))
-      .filter((name) => name.endsWith('.csv'))
-      .sort()
-      .map((name) => join(loaded, 'logs', name));
+    // The loaded van identified from its bundled logs (shared: test/helpers/demo-builds.ts; the README and demo tests build from the logs).
+    const loadedModels = (await demoModels('parcel-van-loaded')).path;
     const io = recordingIo();
-    const code = await runCli(['build', '--vehicle', loaded, '--logs', ...logs, '--baseline', schedulePath, '--out', join(dir, 'loaded.json'), '--json'], io);
+    const code = await runCli(
+      ['build', '--vehicle', loaded, '--models', loadedModels, '--baseline', schedulePath, '--out', join(dir, 'loaded.json'), '--json'],
+      io,
+    );
     const report = JSON.parse(io.out()) as {
       status: string;
       baseline: { passedOnNewModel: boolean; failures: { speed_mps: number }[] };
