@@ -9,7 +9,6 @@ import { CONTROLLER_DEFAULTS } from '../../src/controller/defaults.js';
 import { readSchedule } from '../../src/schedule/schedule-file.js';
 import { convertLogs } from '../identify/converted-logs.js';
 import { demoModels } from '../helpers/demo-builds.js';
-import { parcelVanLogs } from '../helpers/parcel-van.js';
 
 async function run(argv: string[]): Promise<{ code: number; out: string; err: string }> {
   const io = recordingIo();
@@ -18,7 +17,6 @@ async function run(argv: string[]): Promise<{ code: number; out: string; err: st
 }
 
 const VAN = 'vehicles/parcel-van';
-const vanLogs = parcelVanLogs;
 
 let dir: string;
 let modelsPath: string;
@@ -27,9 +25,10 @@ let buildOutput: string;
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'speedband-first-hour-'));
-  modelsPath = join(dir, 'models.json');
+  // The van identified from its bundled logs as build identifies it (shared: test/helpers/demo-builds.ts).
+  modelsPath = (await demoModels('parcel-van')).path;
   schedulePath = join(dir, 'schedule.json');
-  const built = await run(['build', '--vehicle', VAN, '--logs', ...vanLogs(), '--out', schedulePath, '--models-out', modelsPath]);
+  const built = await run(['build', '--vehicle', VAN, '--models', modelsPath, '--out', schedulePath]);
   if (built.code !== 0) throw new Error(`build failed: ${built.err}${built.out}`);
   buildOutput = built.out;
 });
