@@ -59,70 +59,76 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
   const trackInput = Array.from({ length: size }, (_, i) => (i === n && lag > 0 ? 1 / lag : 0));
   const rateInput = Array.from({ length: size }, (_, i) => (i === n ? 1 : 0));
   const { wholeSamples, fraction_s } = splitDelay(input.actuator.delay_s, ts);
-  const standard = new Set([ts, fraction_s, ts - fraction_s]);
-  const cache = { track: new Map<number, Piece>(), free: new Map<number, Piece>() };
-  const piece = (kind: 'track' | 'free', h: number): Piece => {
-    const cached = cache[kind].get(h);
-    if (cached !== undefined) return cached;
+  const exponential = (kind: 'track' | 'free', h: number): Piece => {
     const f = kind === 'track' ? track : free;
     const g = kind === 'track' ? trackInput : rateInput;
     const augmented = Array.from({ length: size + 1 }, (_, i) =>
       Array.from({ length: size + 1 }, (_, j) => (i < size ? (j < size ? f[i][j] * h : g[i] * h) : 0)),
     );
     const e = matrixExponential(augmented);
-    const result = {
+    return {
       phi: Float64Array.from(e.slice(0, size).flatMap((row) => row.slice(0, size))),
       gamma: Float64Array.from(e.slice(0, size).map((row) => row[size])),
     };
-    if (standard.has(h)) cache[kind].set(h, result);
-    return result;
+  };
+  // The pieces of the durations every sample has (Ts, or the fractional delay m and Ts − m), made once when first
+  // needed; the others (an actuator switching inside a stretch) each time.
+  const standardDurations = [ts, fraction_s, ts - fraction_s];
+  const standard: Record<'track' | 'free', (Piece | null)[]> = { track: [null, null, null], free: [null, null, null] };
+  const piece = (kind: 'track' | 'free', h: number): Piece => {
+    const slot = h === standardDurations[0] ? 0 : h === standardDurations[1] ? 1 : h === standardDurations[2] ? 2 : -1;
+    if (slot < 0) return exponential(kind, h);
+    const pieces = standard[kind];
+    const found = pieces[slot];
+    if (found !== null) return found;
+    const made = exponential(kind, h);
+    pieces[slot] = made;
+    return made;
   };
   const z = new Float64Array(size);
   const next = new Float64Array(size);
-  const apply = (p: Piece, w: number): void => {
-    for (let i = 0; i < size; i++) {
-      let sum = p.gamma[i] * w;
-      for (let j = 0; j < size; j++) sum += p.phi[i * size + j] * z[j];
-      next[i] = sum;
-    }
-    for (let i = 0; i < size; i++) z[i] = next[i];
-  };
-  /** Advance h seconds with the delayed, angle-limited command c held (actuator-motion.ts). */
   const pieces = new Float64Array(2 * PIECE_FIELDS);
-  const advance = (c: number, h: number): void => {
-    const count = actuatorPiecesInto(z[n], c, h, lag, rate, pieces);
-    for (let p = 0; p < count; p++) {
-      const at = p * PIECE_FIELDS;
-      if (!Number.isNaN(pieces[at + 3])) z[n] = pieces[at + 3];
-      apply(piece(pieces[at] === PIECE_TRACK ? 'track' : 'free', pieces[at + 1]), pieces[at + 2]);
-    }
-  };
   const count = input.reference.length;
   const output = new Float64Array(count);
   const error = new Float64Array(count);
   const command = new Float64Array(count);
   const steerAngle = new Float64Array(count);
-  const delayed = (j: number): number => (j < 0 ? 0 : Math.min(angleLimit, Math.max(-angleLimit, command[j])));
+  const { outputVector, feedthrough } = model;
+  const feedForwardInput = input.feedForwardInput;
   let state = initialFirmwareState();
   for (let k = 0; k < count; k++) {
-    let y = model.feedthrough * z[n];
-    for (let j = 0; j < n; j++) y += model.outputVector[j] * z[j];
+    let y = feedthrough * z[n];
+    for (let j = 0; j < n; j++) y += outputVector[j] * z[j];
     output[k] = y;
     error[k] = input.reference[k] - y;
     steerAngle[k] = z[n];
     const step = firmwareStep(input.gains, input.settings, state, {
       reference: input.reference[k],
       measurement: y,
-      feedForwardInput: input.feedForwardInput?.[k] ?? 0,
+      feedForwardInput: feedForwardInput === undefined ? 0 : feedForwardInput[k],
     });
     state = step.state;
     command[k] = step.command;
-    // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago.
-    if (fraction_s > 0) {
-      advance(delayed(k - wholeSamples - 1), fraction_s);
-      advance(delayed(k - wholeSamples), ts - fraction_s);
-    } else {
-      advance(delayed(k - wholeSamples), ts);
+    // Over [t_k, t_k+1): the command issued ℓ + 1 samples ago until t_k + m, then the one issued ℓ samples ago,
+    // each held (and angle-limited) through the actuator's pieces (actuator-motion.ts).
+    for (let stretch = fraction_s > 0 ? 0 : 1; stretch < 2; stretch++) {
+      const issued = stretch === 0 ? k - wholeSamples - 1 : k - wholeSamples;
+      const held = issued < 0 ? 0 : Math.min(angleLimit, Math.max(-angleLimit, command[issued]));
+      const duration = fraction_s > 0 ? (stretch === 0 ? fraction_s : ts - fraction_s) : ts;
+      const pieceCount = actuatorPiecesInto(z[n], held, duration, lag, rate, pieces);
+      for (let p = 0; p < pieceCount; p++) {
+        const at = p * PIECE_FIELDS;
+        if (!Number.isNaN(pieces[at + 3])) z[n] = pieces[at + 3];
+        const { phi, gamma } = piece(pieces[at] === PIECE_TRACK ? 'track' : 'free', pieces[at + 1]);
+        const w = pieces[at + 2];
+        // z ← Φ·z + γ·w
+        for (let i = 0; i < size; i++) {
+          let sum = gamma[i] * w;
+          for (let j = 0; j < size; j++) sum += phi[i * size + j] * z[j];
+          next[i] = sum;
+        }
+        for (let i = 0; i < size; i++) z[i] = next[i];
+      }
     }
   }
   return { output, error, command, steerAngle };
