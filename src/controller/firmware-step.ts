@@ -23,6 +23,7 @@
  * state (bumpless). The first sample takes d_(−1) = d_0: no derivative kick from an initial error.
  * With b = 1, c = 1, kff = 0 and no limits reached this is discretePidStep exactly.
  */
+import { clamp } from '../core/clamp.js';
 import { derivativeFilterTime_s } from './pid.js';
 import type { ControllerSettings } from './types.js';
 
@@ -114,11 +115,11 @@ export function firmwareStep(gains: FirmwareGains, settings: FirmwareSettings, s
   // The integral is clamped so that feed-forward plus integral stays within ±integratorClamp_rad.
   const high = settings.integratorClamp_rad - feedForward;
   const low = -settings.integratorClamp_rad - feedForward;
-  let integral = clampTo(state.integral + increment, low, high);
+  let integral = clamp(state.integral + increment, low, high);
   let unlimited = feedForward + proportional + integral + derivative;
   const limit = settings.commandLimit_rad;
   if (settings.antiWindup === 'conditional-integration' && Math.abs(unlimited) > limit && Math.sign(increment) === Math.sign(unlimited)) {
-    integral = clampTo(state.integral, low, high);
+    integral = clamp(state.integral, low, high);
     unlimited = feedForward + proportional + integral + derivative;
   }
   const command = unlimited > limit ? limit : unlimited < -limit ? -limit : unlimited;
@@ -127,8 +128,4 @@ export function firmwareStep(gains: FirmwareGains, settings: FirmwareSettings, s
     unlimited,
     state: { integral, derivative, previousDerivativeInput: derivativeInput, previousIntegrand: integrand, previousSaturation: command - unlimited },
   };
-}
-
-function clampTo(value: number, low: number, high: number): number {
-  return value > high ? high : value < low ? low : value;
 }

@@ -4,6 +4,7 @@
  * Sums add radii; products use |a·b − a'·b'| ≤ |a|·rb + |b|·ra + ra·rb; monotone functions are bounded by their
  * values at the ends. Evaluated in double: the radii carry a relative round-off of about 1e−16 (negligible).
  */
+import { clamp } from '../core/clamp.js';
 
 export interface Ball {
   /** The floating-point controller's value. */
@@ -27,9 +28,7 @@ export const fromRange = (m: number, lowest: number, highest: number): Ball => (
 /** The ball around m holding every value of every ball given (one of several outcomes). */
 export const hull = (m: number, ...balls: readonly Ball[]): Ball => ({ m, r: Math.max(0, ...balls.map((b) => Math.abs(b.m - m) + b.r)) });
 
-const clampValue = (x: number, lowest: number, highest: number): number => (x > highest ? highest : x < lowest ? lowest : x);
-
 /** clamp(x, lowest, highest), monotone in all three: bounded by the clamps of the ends (lowest ≤ highest throughout). */
 export function clampBall(x: Ball, lowest: Ball, highest: Ball, m: number): Ball {
-  return fromRange(m, clampValue(low(x), low(lowest), low(highest)), clampValue(high(x), high(lowest), high(highest)));
+  return fromRange(m, clamp(low(x), low(lowest), low(highest)), clamp(high(x), high(lowest), high(highest)));
 }
