@@ -181,7 +181,7 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
   let complementary2 = 0;
   // The turn of 1 + L is counted by its crossings of the negative real axis (atan2's branch cut) between the first and
   // last angle: while the curve is followed (below) each chord turns by less than 60°, so a crossing lies between two
-  // points that are both left of the imaginary axis, with Im changing sign — one atan2 per run instead of one per point.
+  // points that are both left of the imaginary axis, with Im changing sign — two atan2 per check instead of one per point.
   let crossings = 0;
   let firstAngle = Number.NaN;
   let previousRe = Number.NaN;
