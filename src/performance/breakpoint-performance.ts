@@ -222,7 +222,13 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
             (d.curveSteerFraction * input.vehicleLimits.maxSteerAngle_rad) / Math.abs(loop.feedForward.gain),
           );
     const count = samples(settle_s);
-    const limitedRun = (b: number): NonNullable<TimeDomainFigures['limitedStep']> & { run: { output: Float64Array; steerAngle: Float64Array } } => {
+    // A trial of the search for b below needs only whether its overshoot keeps the limit: an output this far above the
+    // limit decides it (the 1e-9 keeps rounding from deciding), and the run stops there. Its figures are then not used.
+    const decidedAbove = size * (1 + limits.maximumOvershoot_pct / 100) * (1 + 1e-9);
+    const limitedRun = (
+      b: number,
+      stopWhenOverLimit: boolean,
+    ): NonNullable<TimeDomainFigures['limitedStep']> & { run: { output: Float64Array; steerAngle: Float64Array } } => {
       const run = simulateLimitedLoop({
         vehicle: loop.misalignment,
         actuator: actuatorModel,
@@ -236,9 +242,10 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
           integratorClamp_rad: input.vehicleLimits.maxSteerAngle_rad,
         },
         reference: new Float64Array(count).fill(size),
+        ...(stopWhenOverLimit ? { stopAboveOutput: decidedAbove } : {}),
       });
       let peakRate = 0;
-      for (let k = 1; k < count; k++) peakRate = Math.max(peakRate, Math.abs(run.steerAngle[k] - run.steerAngle[k - 1]) / ts);
+      for (let k = 1; k < run.steerAngle.length; k++) peakRate = Math.max(peakRate, Math.abs(run.steerAngle[k] - run.steerAngle[k - 1]) / ts);
       const normalised = run.output.map((y) => y / size);
       return {
         size,
@@ -248,16 +255,17 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
         run,
       };
     };
-    let limited = limitedRun(weights.proportional);
     // Chosen weights (heading loop): lower b until the step through the limits keeps the overshoot limit too (its overshoot grows with b).
-    if (loop.kind === 'heading' && input.setpointWeights === undefined && limited.overshoot_pct > limits.maximumOvershoot_pct && weights.proportional > 0) {
+    const lowering = loop.kind === 'heading' && input.setpointWeights === undefined && weights.proportional > 0;
+    let limited = limitedRun(weights.proportional, lowering);
+    if (lowering && limited.overshoot_pct > limits.maximumOvershoot_pct) {
       let low = 0;
       let high = weights.proportional;
-      let best = limitedRun(0);
+      let best = limitedRun(0, false);
       if (best.overshoot_pct <= limits.maximumOvershoot_pct) {
         for (let i = 0; i < LIMITED_WEIGHT_STEPS; i++) {
           const middle = (low + high) / 2;
-          const trial = limitedRun(middle);
+          const trial = limitedRun(middle, true);
           if (trial.overshoot_pct <= limits.maximumOvershoot_pct) {
             low = middle;
             best = trial;

@@ -28,6 +28,11 @@ export interface LimitedLoopInput {
   readonly settings: FirmwareSettings;
   readonly reference: Float64Array;
   readonly feedForwardInput?: Float64Array;
+  /**
+   * End the run at the first sample whose output exceeds this (a search that asks only whether a bound on the output is
+   * kept: what follows cannot undo it); the traces then end at that sample. Absent: the whole run.
+   */
+  readonly stopAboveOutput?: number;
 }
 
 export interface LimitedLoopSimulation {
@@ -95,6 +100,7 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
   const steerAngle = new Float64Array(count);
   const { outputVector, feedthrough } = model;
   const feedForwardInput = input.feedForwardInput;
+  const stopAbove = input.stopAboveOutput ?? Number.POSITIVE_INFINITY;
   let state = initialFirmwareState();
   for (let k = 0; k < count; k++) {
     let y = feedthrough * z[n];
@@ -102,6 +108,9 @@ export function simulateLimitedLoop(input: LimitedLoopInput): LimitedLoopSimulat
     output[k] = y;
     error[k] = input.reference[k] - y;
     steerAngle[k] = z[n];
+    if (y > stopAbove) {
+      return { output: output.subarray(0, k + 1), error: error.subarray(0, k + 1), command: command.subarray(0, k), steerAngle: steerAngle.subarray(0, k + 1) };
+    }
     const step = firmwareStep(input.gains, input.settings, state, {
       reference: input.reference[k],
       measurement: y,
