@@ -74,13 +74,19 @@ export function inputResponse(g: TransferFunction, time_s: Float64Array, input: 
   const count = time_s.length;
   const output = new Float64Array(count);
   const cache = new Map<string, HoldDiscretisation>();
+  // Each length as computed (a uniform grid gives a handful of them, differing in the last bits) looked up first, so
+  // that its key is made once: the key is a string, and making it costs more than the step it selects.
+  const byLength = new Map<number, HoldDiscretisation>();
   const discretisation = (length: number): HoldDiscretisation => {
+    const known = byLength.get(length);
+    if (known !== undefined) return known;
     const key = length.toPrecision(LENGTH_KEY_DIGITS);
     let found = cache.get(key);
     if (found === undefined) {
       found = zeroOrderHoldDiscretisation(model, length);
       cache.set(key, found);
     }
+    byLength.set(length, found);
     return found;
   };
   let state = new Float64Array(n);
