@@ -225,9 +225,10 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     // A trial of the search for b below needs only whether its overshoot keeps the limit: an output this far above the
     // limit decides it (the 1e-9 keeps rounding from deciding), and the run stops there. Its figures are then not used.
     const decidedAbove = size * (1 + limits.maximumOvershoot_pct / 100) * (1 + 1e-9);
+    const wholeRun = Number.POSITIVE_INFINITY;
     const limitedRun = (
       b: number,
-      stopWhenOverLimit: boolean,
+      stopAboveOutput: number,
     ): NonNullable<TimeDomainFigures['limitedStep']> & { run: { output: Float64Array; steerAngle: Float64Array } } => {
       const run = simulateLimitedLoop({
         vehicle: loop.misalignment,
@@ -242,7 +243,7 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
           integratorClamp_rad: input.vehicleLimits.maxSteerAngle_rad,
         },
         reference: new Float64Array(count).fill(size),
-        ...(stopWhenOverLimit ? { stopAboveOutput: decidedAbove } : {}),
+        stopAboveOutput,
       });
       let peakRate = 0;
       for (let k = 1; k < run.steerAngle.length; k++) peakRate = Math.max(peakRate, Math.abs(run.steerAngle[k] - run.steerAngle[k - 1]) / ts);
@@ -257,15 +258,15 @@ export function breakpointPerformance(input: BreakpointPerformanceInput): Breakp
     };
     // Chosen weights (heading loop): lower b until the step through the limits keeps the overshoot limit too (its overshoot grows with b).
     const lowering = loop.kind === 'heading' && input.setpointWeights === undefined && weights.proportional > 0;
-    let limited = limitedRun(weights.proportional, lowering);
+    let limited = limitedRun(weights.proportional, lowering ? decidedAbove : wholeRun);
     if (lowering && limited.overshoot_pct > limits.maximumOvershoot_pct) {
       let low = 0;
       let high = weights.proportional;
-      let best = limitedRun(0, false);
+      let best = limitedRun(0, wholeRun);
       if (best.overshoot_pct <= limits.maximumOvershoot_pct) {
         for (let i = 0; i < LIMITED_WEIGHT_STEPS; i++) {
           const middle = (low + high) / 2;
-          const trial = limitedRun(middle, true);
+          const trial = limitedRun(middle, decidedAbove);
           if (trial.overshoot_pct <= limits.maximumOvershoot_pct) {
             low = middle;
             best = trial;
