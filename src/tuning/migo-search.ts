@@ -19,7 +19,7 @@
  */
 import type { PidGains } from '../controller/types.js';
 import { goldenSectionMaximum } from '../verify/root-search.js';
-import { CORNER_ABOVE_LOWEST, gridLoopCheck, type FullLoopResponse, type SensitivityBounds } from './full-loop.js';
+import { breaksBoundAt, CORNER_ABOVE_LOWEST, gridLoopCheck, type FullLoopResponse, type SensitivityBounds } from './full-loop.js';
 
 export interface MigoSearchInput {
   readonly response: FullLoopResponse;
@@ -67,12 +67,18 @@ const {
 export function maximiseIntegralGain(input: MigoSearchInput): MigoSearchResult {
   const { response, bounds, structure, sign } = input;
   let evaluations = 0;
+  /** The grid point at which the last check broke a bound: asked first (breaksBoundAt), the whole grid swept only when it holds there. */
+  let brokenAt = -1;
   const feasible = (kp: number, kd: number, ki: number): boolean => {
     // Real PID zeros (Ti ≥ 4·Td, i.e. ki·kd ≤ kp²/4): the series form exists; without it the optimum can sit
     // in a basin of huge derivative time and tiny kp that changes from one speed to the next.
     if (4 * ki * kd > kp * kp) return false;
     evaluations++;
-    return gridLoopCheck(response, { kp: sign * kp, ki: sign * ki, kd: sign * kd }, bounds).feasible;
+    const gains = { kp: sign * kp, ki: sign * ki, kd: sign * kd };
+    if (brokenAt >= 0 && breaksBoundAt(response, gains, bounds, brokenAt)) return false;
+    const check = gridLoopCheck(response, gains, bounds);
+    if (check.brokenAt >= 0) brokenAt = check.brokenAt;
+    return check.feasible;
   };
   const lowest = response.frequency_radps[0] * CORNER_ABOVE_LOWEST * 1.01;
   let guess = Number.NaN;
