@@ -98,7 +98,13 @@ function openChecked(report: string): Promise<Opened> {
 async function halfScaleScreenshot(page: Page): Promise<Image> {
   const size = await page.evaluate(() => ({ width: document.documentElement.scrollWidth, height: document.documentElement.scrollHeight }));
   const session = await context.newCDPSession(page);
-  const { data } = await session.send('Page.captureScreenshot', { format: 'png', captureBeyondViewport: true, clip: { x: 0, y: 0, ...size, scale: 0.5 } });
+  // optimizeForSpeed: Chromium's fastest PNG compression (the same pixels, a larger file that also inflates faster here).
+  const { data } = await session.send('Page.captureScreenshot', {
+    format: 'png',
+    optimizeForSpeed: true,
+    captureBeyondViewport: true,
+    clip: { x: 0, y: 0, ...size, scale: 0.5 },
+  });
   await session.detach();
   return decodePng(Buffer.from(data, 'base64'));
 }
