@@ -75,8 +75,9 @@ for c in data:
         if end.real < 0 and not any(abs(abs(end) - x) < 1e-9 * abs(end) for x in crit): crit.append(abs(end))
         up = [x for x in crit if 0 < x < 1]; lo = [x for x in crit if x > 1]
         s_ = 1 / np.abs(1 + v); t_ = mag / np.abs(1 + v)
-        def peak(g):
-            i = int(np.argmax(g(t)))
+        def peak(g, values):
+            # values: g on the grid t (the arrays above); the peak refined around its largest point.
+            i = int(np.argmax(values))
             if i == 0 or i == len(t) - 1: return float(g(t[i]))
             res = optimize.minimize_scalar(lambda x: -g(x), bounds=(t[i - 1], t[i + 1]), method='bounded', options={'xatol': 1e-13})
             return float(max(-res.fun, g(t[i])))
@@ -90,7 +91,7 @@ for c in data:
             'upper': None if not up else float(20 * np.log10(1 / max(up))),
             'lower': None if not lo else float(20 * np.log10(1 / min(lo))),
             'delayMargin': None if dm is None else float(dm),
-            'ms': peak(lambda x: 1 / np.abs(1 + F(x))), 'mt': peak(lambda x: np.abs(F(x)) / np.abs(1 + F(x))),
+            'ms': peak(lambda x: 1 / np.abs(1 + F(x)), s_), 'mt': peak(lambda x: np.abs(F(x)) / np.abs(1 + F(x)), t_),
         }
     r = margins(L)
     r['largest'] = largest
