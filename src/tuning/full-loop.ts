@@ -165,6 +165,22 @@ export interface GridLoopCheck {
  * and the Nyquist count; with `bounds`, stops at the first frequency that breaks one (feasible false).
  */
 export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bounds?: SensitivityBounds): GridLoopCheck {
+  return sweepGrid(response, gains, bounds, { from: 0, to: response.plantRe.length - 1 });
+}
+
+/**
+ * Whether the loop with these gains breaks a bound at grid point `index` or the one below it (either peak there, or
+ * the phase margin at a gain crossover between them), tested by the sweep of gridLoopCheck over those two points: when
+ * it does, gridLoopCheck finds the loop infeasible too (it stops there or earlier). A search asks this first at the
+ * point where the last check broke — neighbouring gains tend to break at the same frequency — and sweeps the whole
+ * grid only when it holds.
+ */
+export function breaksBoundAt(response: FullLoopResponse, gains: PidGains, bounds: SensitivityBounds, index: number): boolean {
+  return sweepGrid(response, gains, bounds, { from: Math.max(0, index - 1), to: index }).brokenAt >= 0;
+}
+
+/** gridLoopCheck over grid points `from` … `to` (the Nyquist count meaningful only over the whole grid). */
+function sweepGrid(response: FullLoopResponse, gains: PidGains, bounds: SensitivityBounds | undefined, range: { from: number; to: number }): GridLoopCheck {
   const stopS = bounds?.sensitivity ?? Number.POSITIVE_INFINITY;
   const stopT = bounds?.complementary ?? Number.POSITIVE_INFINITY;
   const { numerator: b, denominator: a } = discretePidCoefficients(gains, response.controller);
@@ -200,7 +216,8 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
     feasible: false,
     brokenAt,
   });
-  for (let i = 0; i < plantRe.length; i++) {
+  const { from, to } = range;
+  for (let i = from; i <= to; i++) {
     // z⁻¹ = cos − j·sin
     const nRe = b0 + b1 * cos1[i] + b2 * cos2[i];
     const nIm = -b1 * sin1[i] - b2 * sin2[i];
@@ -221,7 +238,7 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
     if (s2 > sensitivity2) sensitivity2 = s2;
     if (t2 > complementary2) complementary2 = t2;
     if (sensitivity2 > stopS2 || complementary2 > stopT2) return infeasible(i);
-    if (minimumPhase_rad > 0 && i > 0 && (previousMagnitude2 - 1) * (magnitude2 - 1) <= 0) {
+    if (minimumPhase_rad > 0 && i > from && (previousMagnitude2 - 1) * (magnitude2 - 1) <= 0) {
       // A gain crossover between the two points: L there by linear interpolation in |L|; its phase distance from −1.
       const previousMagnitude = Math.sqrt(previousMagnitude2);
       const magnitude = Math.sqrt(magnitude2);
@@ -231,7 +248,7 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
       if (Math.PI - Math.abs(Math.atan2(crossIm, crossRe)) < minimumPhase_rad) return infeasible(i);
     }
     previousMagnitude2 = magnitude2;
-    if (i > 0) {
+    if (i > from) {
       // The chord from the last point must not reach −1 (|ΔL| below both distances to −1): then the turn is that of the chord.
       const stepRe = re - previousRe;
       const stepIm = im - previousIm;
@@ -259,54 +276,6 @@ export function gridLoopCheck(response: FullLoopResponse, gains: PidGains, bound
   const stable = followed && Math.abs(outside) < 0.25;
   const feasible = stable && sensitivity <= stopS && complementary <= stopT;
   return { sensitivity, complementary, stable, feasible, brokenAt: -1 };
-}
-
-/**
- * Whether the loop with these gains breaks a bound at grid point `index` (either peak there, or the phase margin at
- * a gain crossover between `index` − 1 and `index`), as gridLoopCheck tests it there: when it does, gridLoopCheck
- * finds the loop infeasible too (it stops there or earlier). A search asks this first at the point where the last
- * check broke — neighbouring gains tend to break at the same frequency — and sweeps the grid only when it holds.
- */
-export function breaksBoundAt(response: FullLoopResponse, gains: PidGains, bounds: SensitivityBounds, index: number): boolean {
-  const coefficients = discretePidCoefficients(gains, response.controller);
-  const here = openLoopAt(response, coefficients, index);
-  const re = 1 + here.re;
-  const onePlus2 = re * re + here.im * here.im;
-  const magnitude2 = here.re * here.re + here.im * here.im;
-  if (1 / onePlus2 > bounds.sensitivity * bounds.sensitivity || magnitude2 / onePlus2 > bounds.complementary * bounds.complementary) return true;
-  const minimumPhase_rad = ((bounds.phaseMargin_deg ?? 0) * Math.PI) / 180;
-  if (!(minimumPhase_rad > 0 && index > 0)) return false;
-  const before = openLoopAt(response, coefficients, index - 1);
-  const previousMagnitude2 = before.re * before.re + before.im * before.im;
-  if ((previousMagnitude2 - 1) * (magnitude2 - 1) > 0) return false;
-  // The crossover interpolated as gridLoopCheck does.
-  const previousMagnitude = Math.sqrt(previousMagnitude2);
-  const magnitude = Math.sqrt(magnitude2);
-  const t = previousMagnitude === magnitude ? 0 : (previousMagnitude - 1) / (previousMagnitude - magnitude);
-  const previousRe = 1 + before.re;
-  const crossRe = previousRe - 1 + t * (here.re - (previousRe - 1));
-  const crossIm = before.im + t * (here.im - before.im);
-  return Math.PI - Math.abs(Math.atan2(crossIm, crossRe)) < minimumPhase_rad;
-}
-
-/** L = C·G at grid point i, with the arithmetic of gridLoopCheck's sweep (operation for operation). */
-function openLoopAt(
-  response: FullLoopResponse,
-  coefficients: { numerator: readonly number[]; denominator: readonly number[] },
-  i: number,
-): { re: number; im: number } {
-  const { numerator: b, denominator: a } = coefficients;
-  const [b0, b1, b2] = [b[0], b[1] ?? 0, b[2] ?? 0];
-  const [a0, a1, a2] = [a[0], a[1] ?? 0, a[2] ?? 0];
-  const { plantRe, plantIm, cos1, sin1, cos2, sin2 } = response;
-  const nRe = b0 + b1 * cos1[i] + b2 * cos2[i];
-  const nIm = -b1 * sin1[i] - b2 * sin2[i];
-  const dRe = a0 + a1 * cos1[i] + a2 * cos2[i];
-  const dIm = -a1 * sin1[i] - a2 * sin2[i];
-  const d2 = dRe * dRe + dIm * dIm;
-  const cRe = (nRe * dRe + nIm * dIm) / d2;
-  const cIm = (nIm * dRe - nRe * dIm) / d2;
-  return { re: cRe * plantRe[i] - cIm * plantIm[i], im: cRe * plantIm[i] + cIm * plantRe[i] };
 }
 
 /** Whether atan2 puts a point left of the imaginary axis at +π (Im ≥ +0) rather than at −π (Im < 0 or −0). */

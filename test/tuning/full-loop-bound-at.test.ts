@@ -1,7 +1,6 @@
 /**
- * breaksBoundAt, the one-point test the MIGO search asks before sweeping the grid, against gridLoopCheck's sweep:
- * the two must decide every point with the same arithmetic, so that asking it first never changes which gains the
- * search finds. For random gains on loops of several kinds (lag, integrating, resonant; with delay), at every grid point:
+ * breaksBoundAt, the test at one grid point (and the one below it) that the MIGO search asks before sweeping the grid,
+ * against gridLoopCheck's sweep of the whole grid: asking it first must never change which gains the search finds. For random gains on loops of several kinds (lag, integrating, resonant; with delay), at every grid point:
  * - below the point where the sweep stopped on a broken bound, the point test finds no broken bound;
  * - at that point it finds one;
  * - when the sweep went through, it finds none anywhere;
